@@ -1,0 +1,119 @@
+// Package manifest defines bivar's TOML manifest: its schema as Go types,
+// decoding with BurntSushi/toml, validation, and the defaults (all in
+// Defaults below, the one place they are written down).
+//
+// Errors carry the manifest's file name and the line (and column where the
+// decoder knows it) of the offending key.
+package manifest
+
+// Manifest is a decoded and validated manifest. Paths in Dataset.File are
+// absolute after Load (resolved against the manifest's folder); Dir is that
+// folder.
+type Manifest struct {
+	Path string `toml:"-"` // the file as given
+	Dir  string `toml:"-"` // its folder; relative paths are resolved against it
+
+	Title      string     `toml:"title"`
+	Design     string     `toml:"design"` // observational | designed-experiment | randomized-experiment
+	Alpha      float64    `toml:"alpha"`
+	Adjust     string     `toml:"adjust"` // holm | bh | none
+	Seed       uint64     `toml:"seed"`   // seed for permutation tests and samples
+	Output     Output     `toml:"output"`
+	Thresholds Thresholds `toml:"thresholds"`
+	Datasets   []Dataset  `toml:"dataset"`
+	Studies    []Study    `toml:"study"`
+}
+
+// Output chooses where and what `bivar run` writes.
+type Output struct {
+	Dir     string   `toml:"dir"`     // relative to the manifest's folder
+	Formats []string `toml:"formats"` // html, markdown, json
+	Theme   string   `toml:"theme"`   // a theme name from themes/
+}
+
+// Thresholds override the findings' cut points; nil keeps the default.
+type Thresholds struct {
+	Strong           *float64 `toml:"strong"`
+	Moderate         *float64 `toml:"moderate"`
+	Weak             *float64 `toml:"weak"`
+	LeverageFactor   *float64 `toml:"leverage_factor"`
+	OutlierZ         *float64 `toml:"outlier_z"`
+	CooksD           *float64 `toml:"cooks_d"`
+	CurveGainR2      *float64 `toml:"curve_gain_r2"`
+	NonlinearDcor    *float64 `toml:"nonlinear_dcor"`
+	ReversalMinGroup *int     `toml:"reversal_min_group"`
+}
+
+// Dataset declares one CSV file.
+type Dataset struct {
+	ID        string   `toml:"id"`
+	File      string   `toml:"file"`
+	Delimiter string   `toml:"delimiter"` // "," ";" "\t" or "" to detect
+	Decimal   string   `toml:"decimal"`   // "." or ","; "" means "." (or "," when the delimiter is ";" and cells show it)
+	Missing   []string `toml:"missing"`   // cells read as missing
+	// NonNumeric says what a non-numeric cell in a numeric column is:
+	// "error" (default) or "missing".
+	NonNumeric string            `toml:"non_numeric"`
+	IDColumn   string            `toml:"id_column"` // names rows in the report; default: data row number
+	Units      map[string]string `toml:"units"`     // column -> UCUM unit code
+	Labels     map[string]string `toml:"labels"`    // column -> label for people
+
+	Line int `toml:"-"` // line of the [[dataset]] header, for messages
+}
+
+// Study declares one variable pair.
+type Study struct {
+	ID         string    `toml:"id"`
+	Title      string    `toml:"title"`
+	Dataset    string    `toml:"dataset"`
+	X          string    `toml:"x"`
+	Y          string    `toml:"y"`
+	Group      string    `toml:"group"`
+	Order      string    `toml:"order"`
+	Covariates []string  `toml:"covariates"`
+	AlsoIn     AlsoIn    `toml:"also_in"`
+	PredictAt  []float64 `toml:"predict_at"`
+	Notes      string    `toml:"notes"`
+	Expect     *Expect   `toml:"expect"`
+
+	Line int `toml:"-"` // line of the [[study]] header, for messages
+}
+
+// AlsoIn lists other units to express x and y in, for the unit-invariance
+// table. Each may be one unit code or a list.
+type AlsoIn struct {
+	X []string `toml:"x"`
+	Y []string `toml:"y"`
+}
+
+// Expect are the study's CI gates; nil fields are not checked.
+type Expect struct {
+	Direction        string    `toml:"direction"` // positive | negative | none
+	Form             string    `toml:"form"`      // linear | curved | nonlinear | none
+	MinAbsR          *float64  `toml:"min_abs_r"`
+	RWithin          []float64 `toml:"r_within"`     // [low, high]
+	SlopeWithin      []float64 `toml:"slope_within"` // [low, high], recorded units
+	MaxP             *float64  `toml:"max_p"`        // on the adjusted p
+	MinN             *int      `toml:"min_n"`
+	NotOutlierDriven *bool     `toml:"not_outlier_driven"`
+
+	Line int `toml:"-"`
+}
+
+// Defaults are the values a manifest gets for keys it leaves out.
+var Defaults = struct {
+	Design, Adjust, OutputDir, Theme, NonNumeric string
+	Alpha                                        float64
+	Seed                                         uint64
+	Formats, Missing                             []string
+}{
+	Design:     "observational",
+	Adjust:     "holm",
+	OutputDir:  "report",
+	Theme:      "paper",
+	NonNumeric: "error",
+	Alpha:      0.05,
+	Seed:       20261201,
+	Formats:    []string{"html", "markdown", "json"},
+	Missing:    []string{"", "NA"},
+}

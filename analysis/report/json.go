@@ -1,0 +1,73 @@
+package report
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+)
+
+// Float is a float64 that is written to JSON as null when it is NaN or
+// infinite, and read back from null as NaN.
+type Float float64
+
+// NaN is the undefined Float.
+func NaN() Float { return Float(math.NaN()) }
+
+// Valid reports whether f is a finite number.
+func (f Float) Valid() bool { return !math.IsNaN(float64(f)) && !math.IsInf(float64(f), 0) }
+
+// MarshalJSON writes f with the shortest decimal that reads back to the
+// same float64, or null.
+func (f Float) MarshalJSON() ([]byte, error) {
+	v := float64(f)
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return []byte("null"), nil
+	}
+	return json.Marshal(v)
+}
+
+// UnmarshalJSON reads a number, or null as NaN.
+func (f *Float) UnmarshalJSON(b []byte) error {
+	if string(b) == "null" {
+		*f = NaN()
+		return nil
+	}
+	v, err := strconv.ParseFloat(string(b), 64)
+	if err != nil {
+		return fmt.Errorf("report: %q is not a number", b)
+	}
+	*f = Float(v)
+	return nil
+}
+
+// Write encodes r as results.json: two-space indent, keys in struct order,
+// one final newline. The same Report always gives the same bytes.
+func Write(w io.Writer, r *Report) error {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(r); err != nil {
+		return fmt.Errorf("report: encoding results: %w", err)
+	}
+	_, err := w.Write(buf.Bytes())
+	return err
+}
+
+// Read decodes a results.json. It refuses another schema and unknown keys,
+// so a file written by a newer bivar is not half-understood.
+func Read(rd io.Reader) (*Report, error) {
+	dec := json.NewDecoder(rd)
+	dec.DisallowUnknownFields()
+	var r Report
+	if err := dec.Decode(&r); err != nil {
+		return nil, fmt.Errorf("not a bivar results file: %w", err)
+	}
+	if r.Schema != Schema {
+		return nil, fmt.Errorf("schema %q, want %q: written by another version of bivar", r.Schema, Schema)
+	}
+	return &r, nil
+}

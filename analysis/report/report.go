@@ -1,0 +1,411 @@
+// Package report holds the Report model: the one value that the analysis
+// produces and that every renderer (HTML, Markdown, results.json) and
+// `bivar diff` reads. It is plain data with no behaviour beyond its JSON
+// encoding.
+//
+// Undefined numbers are stored as NaN in a Float and written to JSON as
+// null (encoding/json cannot write NaN). This is DESIGN.md's "undefined
+// values are null", done with a value type instead of pointers so that the
+// code filling the model can assign results of arithmetic directly.
+package report
+
+// Schema names the results.json format. Change it only with a new version.
+const Schema = "bivar.results/v1"
+
+// Caution is printed on every report: statistical evidence supports, but
+// does not replace, change control.
+const Caution = "Statistical evidence supports, but does not replace, the organisation's " +
+	"change control, validation and applicable codes and regulations."
+
+// Report is the whole outcome of one `bivar run`.
+type Report struct {
+	Schema    string       `json:"schema"`
+	Tool      Tool         `json:"tool"`
+	Generated string       `json:"generated,omitempty"` // RFC 3339, only when SOURCE_DATE_EPOCH is set
+	Manifest  ManifestInfo `json:"manifest"`
+	Datasets  []Dataset    `json:"datasets"`
+	Studies   []Study      `json:"studies"`
+	Caution   string       `json:"caution"`
+}
+
+// Tool names the program that wrote the report.
+type Tool struct {
+	Name    string `json:"name"`
+	Version string `json:"version"`
+}
+
+// ManifestInfo records the manifest's settings that shaped every study.
+type ManifestInfo struct {
+	File       string     `json:"file"` // as given on the command line
+	Title      string     `json:"title"`
+	Design     string     `json:"design"` // observational | designed-experiment | randomized-experiment
+	Alpha      float64    `json:"alpha"`
+	Adjust     string     `json:"adjust"` // holm | bh | none
+	SHA256     string     `json:"sha256"`
+	Seed       uint64     `json:"seed"` // seed of every random source (permutation tests)
+	Thresholds Thresholds `json:"thresholds"`
+}
+
+// Thresholds are the cut points the findings use. The defaults live in
+// findings.DefaultThresholds; the manifest's [thresholds] table overrides
+// them. They are written out so a reader knows which were in force.
+type Thresholds struct {
+	Strong           float64 `json:"strong"`             // |r| at or above: strong (common practice 0.7)
+	Moderate         float64 `json:"moderate"`           // |r| at or above: moderate (common practice 0.4)
+	Weak             float64 `json:"weak"`               // |r| at or above: weak, below: none (0.1)
+	LeverageFactor   float64 `json:"leverage_factor"`    // high leverage when h > factor·p/n (2)
+	OutlierZ         float64 `json:"outlier_z"`          // outlier when |externally studentized| > this (3)
+	CooksD           float64 `json:"cooks_d"`            // influential when Cook's D > this·… (see findings)
+	CurveGainR2      float64 `json:"curve_gain_r2"`      // curved needs the quadratic to add at least this R² (0.05)
+	NonlinearDcor    float64 `json:"nonlinear_dcor"`     // nonlinear when dcor at or above this while |r| is weak (0.3)
+	ReversalMinGroup int     `json:"reversal_min_group"` // smallest group used in the reversal check (5)
+}
+
+// Dataset is one data file as read.
+type Dataset struct {
+	ID           string        `json:"id"`
+	File         string        `json:"file"` // relative to the manifest's folder, slash-separated
+	SHA256       string        `json:"sha256"`
+	Rows         int           `json:"rows"` // data rows read (header not counted)
+	Delimiter    string        `json:"delimiter"`
+	DecimalComma bool          `json:"decimal_comma"`
+	Missing      []ColumnCount `json:"missing"`     // cells read as missing, per column read
+	NonNumeric   []ColumnCount `json:"non_numeric"` // non-numeric cells counted as missing (only when allowed)
+}
+
+// ColumnCount is a count for one column.
+type ColumnCount struct {
+	Column string `json:"column"`
+	Count  int    `json:"count"`
+}
+
+// Variable describes one side of a study.
+type Variable struct {
+	Column string `json:"column"`
+	Label  string `json:"label"` // for people; defaults to the column name
+	Unit   string `json:"unit"`  // UCUM code, "" when none declared
+}
+
+// Study is one variable pair and everything computed for it. Sections are
+// pointers: nil when the study failed before reaching them.
+type Study struct {
+	ID         string   `json:"id"`
+	Title      string   `json:"title"`
+	Dataset    string   `json:"dataset"`
+	X          Variable `json:"x"`
+	Y          Variable `json:"y"`
+	Group      string   `json:"group,omitempty"`
+	Order      string   `json:"order,omitempty"`
+	Covariates []string `json:"covariates,omitempty"`
+
+	N        int         `json:"n"`         // complete cases used
+	NMissing int         `json:"n_missing"` // rows dropped because x, y (or group, order, a covariate) was missing
+	Excluded []Exclusion `json:"excluded"`  // why rows were dropped, per column
+
+	Moments        *Moments      `json:"moments"`
+	Describe       *DescribePair `json:"describe"`
+	Pearson        *Pearson      `json:"pearson"`
+	Spearman       *Spearman     `json:"spearman"`
+	Kendall        *Kendall      `json:"kendall"`
+	Line           *Fit          `json:"line"`
+	Models         []Fit         `json:"models"` // quadratic, then log transforms where the data allow
+	Diagnostics    *Diagnostics  `json:"diagnostics"`
+	Partial        []Partial     `json:"partial"`
+	Groups         []GroupFit    `json:"groups"`
+	Influence      *Influence    `json:"influence"`
+	Sensitivity    *Sensitivity  `json:"sensitivity"`
+	UnitInvariance []UnitRow     `json:"unit_invariance"`
+	Predictions    []Prediction  `json:"predictions"`
+	Findings       *Findings     `json:"findings"`
+	Expectations   []Expectation `json:"expectations"`
+	Notes          string        `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
+	Error          *string       `json:"error"`
+	Plot           *Plot         `json:"-"` // per-point data for the charts; not in results.json
+}
+
+// Exclusion counts rows dropped from a study because one column was missing there.
+type Exclusion struct {
+	Column string `json:"column"`
+	Rows   int    `json:"rows"`
+	Reason string `json:"reason"` // "missing" or "non-numeric"
+}
+
+// Moments are the centred sums that let `bivar diff` test changes from the
+// JSON alone: Sxx = Σ(x−x̄)², Syy = Σ(y−ȳ)², Sxy = Σ(x−x̄)(y−ȳ).
+type Moments struct {
+	N     int   `json:"n"`
+	MeanX Float `json:"mean_x"`
+	MeanY Float `json:"mean_y"`
+	Sxx   Float `json:"sxx"`
+	Syy   Float `json:"syy"`
+	Sxy   Float `json:"sxy"`
+}
+
+// DescribePair holds the summaries of x and y over the study's complete cases.
+type DescribePair struct {
+	X Describe `json:"x"`
+	Y Describe `json:"y"`
+}
+
+// Describe is a five-number summary with mean and SD. Quartiles by the
+// definition stats.Quartiles names.
+type Describe struct {
+	N      int   `json:"n"`
+	Mean   Float `json:"mean"`
+	SD     Float `json:"sd"` // sample SD, n−1 denominator
+	Min    Float `json:"min"`
+	Q1     Float `json:"q1"`
+	Median Float `json:"median"`
+	Q3     Float `json:"q3"`
+	Max    Float `json:"max"`
+}
+
+// Pearson is the product-moment correlation with its inference.
+type Pearson struct {
+	R         Float `json:"r"`
+	R2        Float `json:"r2"`
+	CILow     Float `json:"ci_low"` // Fisher-z interval at the manifest's confidence 1−alpha
+	CIHigh    Float `json:"ci_high"`
+	T         Float `json:"t"`
+	DF        int   `json:"df"`
+	P         Float `json:"p"`
+	PAdjusted Float `json:"p_adjusted"` // after the manifest's `adjust` across all studies
+}
+
+// Spearman is the rank correlation with average ranks for ties.
+type Spearman struct {
+	Rho Float `json:"rho"`
+	P   Float `json:"p"` // t approximation with n−2 df
+}
+
+// Kendall is τ-b with the tie-corrected normal approximation for p.
+type Kendall struct {
+	TauB Float `json:"tau_b"`
+	P    Float `json:"p"`
+}
+
+// Coef is one coefficient of a least-squares fit.
+type Coef struct {
+	Name     string `json:"name"` // "intercept", "x", "x^2", "log(x)"
+	Estimate Float  `json:"estimate"`
+	SE       Float  `json:"se"`
+	T        Float  `json:"t"`
+	P        Float  `json:"p"`
+	CILow    Float  `json:"ci_low"`
+	CIHigh   Float  `json:"ci_high"`
+}
+
+// Fit is a least-squares model of y on functions of x. For the straight
+// line, Intercept and Slope are set and Coefficients holds the same two.
+type Fit struct {
+	Name         string `json:"name"`    // "line", "quadratic", "log-x", "log-y", "log-log"
+	Formula      string `json:"formula"` // e.g. "y = b0 + b1·x + b2·x²"
+	Intercept    *Coef  `json:"intercept,omitempty"`
+	Slope        *Coef  `json:"slope,omitempty"`
+	Coefficients []Coef `json:"coefficients"`
+	ResidualSE   Float  `json:"residual_se"`
+	RSS          Float  `json:"rss"`
+	R2           Float  `json:"r2"` // on the scale of the model's response (log y for log-y models)
+	AdjR2        Float  `json:"adj_r2"`
+	F            Float  `json:"f"`
+	FP           Float  `json:"f_p"`
+	DFResid      int    `json:"df_resid"`
+	AIC          Float  `json:"aic"` // n·ln(RSS/n) + 2k, k = coefficients; comparable only between fits of the same response
+	// Vertex is the x where a quadratic turns over (NaN for other fits).
+	Vertex Float `json:"vertex"`
+}
+
+// Diagnostics are the tests of form, spread and order.
+type Diagnostics struct {
+	QuadraticP   Float         `json:"quadratic_p"` // t-test of the x² term
+	LackOfFit    *LackOfFit    `json:"lack_of_fit"` // nil when x has no replicates
+	DistanceCorr *DistanceCorr `json:"distance_corr"`
+	BreuschPagan *ChiTest      `json:"breusch_pagan"` // Koenker's studentized form, n·R² of e² on x
+	DurbinWatson Float         `json:"durbin_watson"` // residuals in run order (file order when no `order`)
+	OrderTrend   *OrderTrend   `json:"order_trend"`   // nil when no `order`
+	Resistant    *Resistant    `json:"resistant"`
+	Lowess       *LowessInfo   `json:"lowess"`
+}
+
+// LackOfFit is the pure-error F test for the straight line where x repeats.
+type LackOfFit struct {
+	F   Float `json:"f"`
+	DF1 int   `json:"df1"`
+	DF2 int   `json:"df2"`
+	P   Float `json:"p"`
+}
+
+// DistanceCorr is Székely's distance correlation with a permutation p.
+type DistanceCorr struct {
+	DCor         Float  `json:"dcor"`
+	P            Float  `json:"p"`
+	Permutations int    `json:"permutations"`
+	Sampled      int    `json:"sampled"` // rows used (a seeded sample above the stated bound; = n otherwise)
+	Method       string `json:"method"`
+}
+
+// ChiTest is a chi-squared test statistic.
+type ChiTest struct {
+	Stat Float `json:"stat"`
+	DF   int   `json:"df"`
+	P    Float `json:"p"`
+}
+
+// OrderTrend is the least-squares slope of the residuals on run order.
+type OrderTrend struct {
+	Slope Float `json:"slope"` // residual units per unit of order
+	P     Float `json:"p"`
+	R     Float `json:"r"` // correlation of residuals with order
+}
+
+// Resistant is the resistant line used for comparison with least squares.
+type Resistant struct {
+	Method    string `json:"method"` // "theil-sen (exact)" or the stated approximation
+	Slope     Float  `json:"slope"`
+	Intercept Float  `json:"intercept"`
+}
+
+// LowessInfo records the smoother's settings.
+type LowessInfo struct {
+	Frac       float64 `json:"frac"`
+	Iterations int     `json:"iterations"`
+	Delta      float64 `json:"delta"`
+}
+
+// Partial is the correlation of x and y given one covariate.
+type Partial struct {
+	Covariate string `json:"covariate"`
+	N         int    `json:"n"`
+	R         Float  `json:"r"`
+	CILow     Float  `json:"ci_low"`
+	CIHigh    Float  `json:"ci_high"`
+	P         Float  `json:"p"`
+}
+
+// GroupFit is the straight line within one level of `group`.
+type GroupFit struct {
+	Group     string `json:"group"`
+	N         int    `json:"n"`
+	R         Float  `json:"r"`
+	Slope     Float  `json:"slope"`
+	Intercept Float  `json:"intercept"`
+	SlopeLow  Float  `json:"slope_ci_low"`
+	SlopeHigh Float  `json:"slope_ci_high"`
+}
+
+// Influence summarises the straight line's influence measures.
+type Influence struct {
+	MaxCooksD   Float   `json:"max_cooks_d"`
+	MaxCooksRow string  `json:"max_cooks_row"`
+	Points      []Point `json:"points"` // flagged points only, largest Cook's D first
+}
+
+// Point is one flagged row.
+type Point struct {
+	Row            string   `json:"row"`   // id_column value, or the data row number (1 = first row after the header)
+	Index          int      `json:"index"` // 0-based position among the study's complete cases
+	X              Float    `json:"x"`
+	Y              Float    `json:"y"`
+	Leverage       Float    `json:"leverage"`
+	Studentized    Float    `json:"studentized"`     // internally studentized residual
+	StudentizedExt Float    `json:"studentized_ext"` // externally studentized (deleted) residual
+	CooksD         Float    `json:"cooks_d"`
+	DFFITS         Float    `json:"dffits"`
+	Flags          []string `json:"flags"` // "outlier", "high-leverage", "influential", "sole-support" (leverage 1)
+}
+
+// Sensitivity says how much the line depends on single rows.
+type Sensitivity struct {
+	LooRMin             Float     `json:"loo_r_min"`
+	LooRMinRow          string    `json:"loo_r_min_row"`
+	LooRMax             Float     `json:"loo_r_max"`
+	LooRMaxRow          string    `json:"loo_r_max_row"`
+	LooSlopeMin         Float     `json:"loo_slope_min"`
+	LooSlopeMax         Float     `json:"loo_slope_max"`
+	NFlagged            int       `json:"n_flagged"`
+	RWithoutFlagged     Float     `json:"r_without_flagged"`
+	SlopeWithoutFlagged Float     `json:"slope_without_flagged"`
+	InterceptWithout    Float     `json:"intercept_without_flagged"`
+	ResistantSlope      Float     `json:"resistant_slope"`
+	ResistantIntercept  Float     `json:"resistant_intercept"`
+	WithoutEach         []Without `json:"without_each"` // one row per flagged row
+}
+
+// Without is the line refitted without one row.
+type Without struct {
+	Row       string `json:"row"`
+	R         Float  `json:"r"`
+	Slope     Float  `json:"slope"`
+	Intercept Float  `json:"intercept"`
+}
+
+// UnitRow is r, slope and intercept with x and y in given units.
+type UnitRow struct {
+	XUnit     string `json:"x_unit"`
+	YUnit     string `json:"y_unit"`
+	Swapped   bool   `json:"swapped"` // x and y exchanged: r stays, slope does not
+	R         Float  `json:"r"`
+	Slope     Float  `json:"slope"`
+	Intercept Float  `json:"intercept"`
+}
+
+// Prediction is the line's mean response and a new observation at one x.
+type Prediction struct {
+	X        Float `json:"x"`
+	Fit      Float `json:"fit"`
+	ConfLow  Float `json:"conf_low"` // mean response, confidence 1−alpha
+	ConfHigh Float `json:"conf_high"`
+	PredLow  Float `json:"pred_low"` // one new unit, confidence 1−alpha
+	PredHigh Float `json:"pred_high"`
+	InRange  bool  `json:"in_range"` // x inside the observed range; outside, no prediction is supported
+}
+
+// Findings are the verdicts in words.
+type Findings struct {
+	Form          string   `json:"form"`       // linear | curved | nonlinear | none
+	Bend          *string  `json:"bend"`       // bends-up | bends-down, for curved
+	TurnsOver     bool     `json:"turns_over"` // the curve's vertex lies inside the observed x range
+	TurnX         Float    `json:"turn_x"`
+	Direction     string   `json:"direction"`      // positive | negative | none
+	Strength      string   `json:"strength"`       // strong | moderate | weak | none, from |r|
+	CurveStrength string   `json:"curve_strength"` // from the curve's own R² where curved, else ""
+	OutlierDriven bool     `json:"outlier_driven"`
+	Reversal      bool     `json:"reversal"`       // direction within groups opposes the pooled direction
+	Drift         bool     `json:"drift"`          // residual trend or autocorrelation in run order
+	SpreadChanges bool     `json:"spread_changes"` // Breusch–Pagan significant
+	Headline      string   `json:"headline"`
+	Statements    []string `json:"statements"`
+	Limits        []string `json:"limits"`
+}
+
+// Expectation is one CI gate from [study.expect] and its outcome.
+type Expectation struct {
+	Name   string `json:"name"` // the manifest key: direction, form, min_abs_r, r_within, slope_within, max_p, min_n, not_outlier_driven
+	Want   string `json:"want"`
+	Got    string `json:"got"`
+	OK     bool   `json:"ok"`
+	Detail string `json:"detail"`
+}
+
+// Plot is the per-point data the charts need. It is computed by the
+// analysis, so renderers draw without computing.
+type Plot struct {
+	X, Y      []float64 // complete cases, in data order
+	Rows      []string  // row names, parallel to X
+	Groups    []string  // group level per point; nil when no group
+	Order     []float64 // run order per point; nil when no order
+	Fitted    []float64 // straight-line fitted values
+	Residuals []float64 // straight-line residuals
+	Band      []BandPoint
+	Lowess    []XY  // LOWESS curve, sorted by x
+	Curve     []XY  // the curved model (quadratic) on a grid, when the form is curved
+	Flagged   []int // indices into X of the flagged points
+}
+
+// BandPoint is the line with its confidence and prediction bands at one x.
+type BandPoint struct {
+	X, Fit, ConfLow, ConfHigh, PredLow, PredHigh float64
+}
+
+// XY is one point of a curve.
+type XY struct{ X, Y float64 }

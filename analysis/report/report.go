@@ -324,6 +324,9 @@ type Sensitivity struct {
 	LooSlopeMax         Float     `json:"loo_slope_max"`
 	NFlagged            int       `json:"n_flagged"`
 	RWithoutFlagged     Float     `json:"r_without_flagged"`
+	RWithoutLow         Float     `json:"r_without_flagged_ci_low"`
+	RWithoutHigh        Float     `json:"r_without_flagged_ci_high"`
+	PWithoutFlagged     Float     `json:"p_without_flagged"`
 	SlopeWithoutFlagged Float     `json:"slope_without_flagged"`
 	InterceptWithout    Float     `json:"intercept_without_flagged"`
 	ResistantSlope      Float     `json:"resistant_slope"`

@@ -1,0 +1,208 @@
+// Command bivar runs the two-variable studies declared in a TOML manifest
+// and writes a self-contained HTML report, a Markdown report and
+// results.json; it gates CI on declared expectations and compares two runs.
+//
+// main only translates: run takes the arguments and the streams, so tests
+// call it directly.
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"runtime/debug"
+	"strings"
+)
+
+// Exit statuses, as in DESIGN.md.
+const (
+	exitOK          = 0 // every study ran and every expectation held
+	exitFailed      = 1 // bad input, or a study failed
+	exitUsage       = 2 // the command line was wrong
+	exitExpectation = 3 // an expectation failed (run, check) or a gated change was found (diff)
+)
+
+// command is one subcommand. Help is generated from this table.
+type command struct {
+	Name  string
+	Usage string // one line: bivar NAME ARGS
+	Short string // a line for the command list
+	Long  string // paragraphs shown by `bivar help NAME` and `-h`
+	Run   func(ctx context.Context, args []string, stdout, stderr io.Writer) int
+}
+
+// commands returns the table. It is a function, not a package variable,
+// so the table holds no state between calls.
+func commands() []command {
+	return []command{
+		{
+			Name:  "run",
+			Usage: "bivar run [-o DIR] MANIFEST",
+			Short: "run every study and write the report",
+			Long: `Reads MANIFEST (TOML), loads its datasets, runs every study and writes
+the formats chosen in [output] (report.html, report.md with its figures, and
+results.json) to the output folder: -o DIR, or [output] dir, relative to the
+manifest's folder. Files are written under temporary names and renamed at
+the end, so a failed run leaves the previous report as it was.
+
+Exit status: 0 when every study ran and every expectation held, 1 on bad
+input or a failed study, 2 on a usage error, 3 when an expectation failed.`,
+			Run: runRun,
+		},
+		{
+			Name:  "check",
+			Usage: "bivar check [--junit FILE] [--summary FILE] MANIFEST",
+			Short: "compute every study and gate on its expectations (for CI)",
+			Long: `Computes everything 'bivar run' computes but writes only what a CI job
+needs: a short summary on stderr, and optionally JUnit XML (--junit, one
+test case per expectation) and a Markdown summary (--summary).
+
+Exit status: 0 when every expectation held, 3 when one failed, 1 on bad input.`,
+			Run: runCheck,
+		},
+		{
+			Name:  "diff",
+			Usage: "bivar diff [-o DIR] [--fail-on LIST] [--theme NAME] OLD NEW",
+			Short: "compare two runs' results.json and say what changed",
+			Long: `OLD and NEW are results.json files, or folders holding one. For every
+study in both, tests the change in r (Fisher z) and in slope (t test for
+equal slopes), lists changed verdicts and data hashes, and studies added or
+removed. Writes diff.html, diff.md and diff.json to -o DIR (default: diff).
+
+--fail-on chooses which changes give exit status 3: verdict, significant
+(comma-separated; default none).`,
+			Run: runDiff,
+		},
+		{
+			Name:  "init",
+			Usage: "bivar init [-o MANIFEST] [--force] CSV",
+			Short: "write a starting manifest for a data file",
+			Long: `Reads the header and the numeric columns of CSV and writes a starting
+manifest (default bivar.toml beside the CSV) with each key documented and
+one study per sensible pair left commented out for you to choose.
+An existing manifest is never overwritten without --force.`,
+			Run: runInit,
+		},
+		{
+			Name:  "version",
+			Usage: "bivar version",
+			Short: "print the version",
+			Long:  `Prints bivar's version: the module version stamped by the build, or "dev".`,
+			Run:   runVersion,
+		},
+		{
+			Name:  "help",
+			Usage: "bivar help [COMMAND]",
+			Short: "show help for bivar or one command",
+			Long:  `Shows the command list, or a command's full help.`,
+			Run:   nil, // set in run: help needs the table itself
+		},
+	}
+}
+
+func main() {
+	os.Exit(run(context.Background(), os.Args[1:], os.Stdout, os.Stderr))
+}
+
+// run dispatches to a subcommand and returns the exit status.
+func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		usage(stderr)
+		return exitUsage
+	}
+	name := args[0]
+	switch name {
+	case "-h", "-help", "--help":
+		usage(stdout)
+		return exitOK
+	case "help":
+		return runHelp(args[1:], stdout, stderr)
+	case "-version", "--version":
+		name = "version"
+	}
+	for _, c := range commands() {
+		if c.Name == name && c.Run != nil {
+			return c.Run(ctx, args[1:], stdout, stderr)
+		}
+	}
+	fmt.Fprintf(stderr, "bivar: unknown command %q. Run 'bivar help'.\n", name)
+	return exitUsage
+}
+
+// usage writes the command list generated from the table.
+func usage(w io.Writer) {
+	fmt.Fprint(w, `bivar runs two-variable studies declared in a TOML manifest and writes a
+report (HTML, Markdown, results.json) that says what shape a relationship
+has, which way it goes, how strong it is, whether a few units make it, and
+what may not be claimed.
+
+Usage:
+
+`)
+	for _, c := range commands() {
+		fmt.Fprintf(w, "  %-58s %s\n", c.Usage, c.Short)
+	}
+	fmt.Fprint(w, `
+Examples:
+
+  bivar init data/furnace.csv            # a starting manifest for a data file
+  bivar run bivar.toml                   # the report, in the manifest's output folder
+  bivar check --junit junit.xml bivar.toml
+  bivar diff old/results.json new/results.json
+
+Run 'bivar help COMMAND' for a command's options.
+`)
+}
+
+func runHelp(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		usage(stdout)
+		return exitOK
+	}
+	for _, c := range commands() {
+		if c.Name == args[0] {
+			commandHelp(stdout, c)
+			return exitOK
+		}
+	}
+	fmt.Fprintf(stderr, "bivar help: unknown command %q. Run 'bivar help'.\n", args[0])
+	return exitUsage
+}
+
+// commandHelp writes one command's usage and long help.
+func commandHelp(w io.Writer, c command) {
+	fmt.Fprintf(w, "usage: %s\n\n%s\n", c.Usage, strings.TrimSpace(c.Long))
+}
+
+// lookup returns the table entry for name; it panics on a name not in the
+// table, which is a programmer error.
+func lookup(name string) command {
+	for _, c := range commands() {
+		if c.Name == name {
+			return c
+		}
+	}
+	panic("bivar: no command " + name)
+}
+
+func runVersion(_ context.Context, args []string, stdout, stderr io.Writer) int {
+	fs := newFlagSet("version", stderr)
+	if code, ok := parseFlags(fs, args); !ok {
+		return code
+	}
+	if fs.NArg() != 0 {
+		fmt.Fprintf(stderr, "bivar version: takes no arguments\n")
+		return exitUsage
+	}
+	fmt.Fprintf(stdout, "bivar %s\n", version())
+	return exitOK
+}
+
+// version is the module version the build stamped, or "dev".
+func version() string {
+	if bi, ok := debug.ReadBuildInfo(); ok && bi.Main.Version != "" && bi.Main.Version != "(devel)" {
+		return bi.Main.Version
+	}
+	return "dev"
+}

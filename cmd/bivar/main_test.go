@@ -1,0 +1,108 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+var update = flag.Bool("update", false, "rewrite testdata/usage.golden")
+
+// call runs the command line and returns its exit status and streams.
+func call(t *testing.T, args ...string) (code int, stdout, stderr string) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code = run(context.Background(), args, &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+// TestUsage keeps `bivar help` and testdata/usage.golden in step: the
+// golden file is the reviewed text of the help.
+func TestUsage(t *testing.T) {
+	code, out, _ := call(t, "help")
+	if code != exitOK {
+		t.Fatalf("bivar help: exit %d, want 0", code)
+	}
+	golden := filepath.Join("testdata", "usage.golden")
+	if *update {
+		if err := os.WriteFile(golden, []byte(out), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	want, err := os.ReadFile(golden)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if out != string(want) {
+		t.Errorf("bivar help differs from %s (go test -update rewrites it):\n%s", golden, out)
+	}
+	if !strings.Contains(out, "bivar diff old/results.json new/results.json") {
+		t.Error("help lacks the diff example")
+	}
+}
+
+func TestUsageErrors(t *testing.T) {
+	cases := []struct {
+		name   string
+		args   []string
+		code   int
+		stderr string // a fragment the message must contain
+	}{
+		{"no-arguments", nil, exitUsage, "Usage:"},
+		{"unknown-command", []string{"rnu"}, exitUsage, `bivar: unknown command "rnu". Run 'bivar help'.`},
+		{"help-unknown", []string{"help", "rnu"}, exitUsage, `unknown command "rnu"`},
+		{"run-no-manifest", []string{"run"}, exitUsage, "want one manifest, got 0 arguments"},
+		{"run-two-manifests", []string{"run", "a.toml", "b.toml"}, exitUsage, "want one manifest, got 2 arguments"},
+		{"run-bad-flag", []string{"run", "-x", "a.toml"}, exitUsage, "flag provided but not defined: -x"},
+		{"run-missing-file", []string{"run", filepath.Join(t.TempDir(), "absent.toml")}, exitFailed, "absent.toml"},
+		{"version-argument", []string{"version", "x"}, exitUsage, "takes no arguments"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			code, _, stderr := call(t, tc.args...)
+			if code != tc.code {
+				t.Errorf("bivar %s: exit %d, want %d; stderr:\n%s", strings.Join(tc.args, " "), code, tc.code, stderr)
+			}
+			if !strings.Contains(stderr, tc.stderr) {
+				t.Errorf("bivar %s: stderr lacks %q:\n%s", strings.Join(tc.args, " "), tc.stderr, stderr)
+			}
+		})
+	}
+}
+
+func TestHelpFlag(t *testing.T) {
+	for _, c := range commands() {
+		if c.Run == nil {
+			continue
+		}
+		code, _, stderr := call(t, c.Name, "-h")
+		if code != exitOK {
+			t.Errorf("bivar %s -h: exit %d, want 0", c.Name, code)
+		}
+		if !strings.Contains(stderr, "usage: "+c.Usage) {
+			t.Errorf("bivar %s -h: no usage line in:\n%s", c.Name, stderr)
+		}
+	}
+}
+
+func TestVersion(t *testing.T) {
+	code, out, _ := call(t, "version")
+	if code != exitOK || !strings.HasPrefix(out, "bivar ") {
+		t.Errorf("bivar version: exit %d, output %q", code, out)
+	}
+}
+
+func TestParseFlagsInterleaved(t *testing.T) {
+	fs := newFlagSet("run", new(bytes.Buffer))
+	o := fs.String("o", "", "")
+	if _, ok := parseFlags(fs, []string{"m.toml", "-o", "out"}); !ok {
+		t.Fatal("parse failed")
+	}
+	if *o != "out" || fs.NArg() != 1 || fs.Arg(0) != "m.toml" {
+		t.Errorf("-o=%q args=%q, want out [m.toml]", *o, fs.Args())
+	}
+}

@@ -1,0 +1,112 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strconv"
+	"time"
+
+	"bivar/analysis"
+	"bivar/analysis/manifest"
+	"bivar/analysis/report"
+	"bivar/render"
+	"bivar/themes"
+)
+
+func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	fs := newFlagSet("run", stderr)
+	out := fs.String("o", "", "output `DIR` (default: [output] dir of the manifest, relative to its folder)")
+	if code, ok := parseFlags(fs, args); !ok {
+		return code
+	}
+	if fs.NArg() != 1 {
+		fmt.Fprintf(stderr, "bivar run: want one manifest, got %d arguments\nusage: %s\n", fs.NArg(), lookup("run").Usage)
+		return exitUsage
+	}
+	rep, m, code := compute(fs.Arg(0), stderr)
+	if rep == nil {
+		return code
+	}
+	dir := *out
+	if dir == "" {
+		dir = m.Output.Dir
+		if !filepath.IsAbs(dir) {
+			dir = filepath.Join(m.Dir, dir)
+		}
+	}
+	if err := render.WriteReport(dir, rep, m.Output.Formats, render.WithTheme(m.Output.Theme)); err != nil {
+		fmt.Fprintf(stderr, "bivar: writing the report: %v\n", err)
+		return exitFailed
+	}
+	fmt.Fprintf(stderr, "bivar: %d studies; report written to %s\n", len(rep.Studies), dir)
+	return status(rep, stderr)
+}
+
+// compute loads the manifest and runs every study. On failure it has
+// already told the user why and returns a nil report with the exit status.
+func compute(path string, stderr io.Writer) (*report.Report, *manifest.Manifest, int) {
+	m, err := manifest.Load(path)
+	if err != nil {
+		fmt.Fprintf(stderr, "bivar: %v\n", err)
+		return nil, nil, exitFailed
+	}
+	if _, err := themes.CSS(m.Output.Theme); err != nil {
+		fmt.Fprintf(stderr, "bivar: %s: [output] theme: %v\n", path, err)
+		return nil, nil, exitFailed
+	}
+	generated, err := sourceDateEpoch()
+	if err != nil {
+		fmt.Fprintf(stderr, "bivar: %v\n", err)
+		return nil, nil, exitFailed
+	}
+	rep, err := analysis.Run(m, analysis.Options{Version: version(), Generated: generated})
+	if err != nil {
+		fmt.Fprintf(stderr, "bivar: %v\n", err)
+		return nil, nil, exitFailed
+	}
+	return rep, m, exitOK
+}
+
+// status reports failed studies and expectations on stderr and returns
+// the exit status: 1 when a study failed, else 3 when an expectation
+// failed, else 0.
+func status(rep *report.Report, stderr io.Writer) int {
+	failedStudy, failedExpect := false, false
+	for _, s := range rep.Studies {
+		if s.Error != nil {
+			failedStudy = true
+			fmt.Fprintf(stderr, "bivar: study %q did not run: %s\n", s.ID, *s.Error)
+		}
+		for _, e := range s.Expectations {
+			if !e.OK {
+				failedExpect = true
+				fmt.Fprintf(stderr, "bivar: study %q: expectation %s failed: %s\n", s.ID, e.Name, e.Detail)
+			}
+		}
+	}
+	switch {
+	case failedStudy:
+		return exitFailed
+	case failedExpect:
+		return exitExpectation
+	}
+	return exitOK
+}
+
+// sourceDateEpoch returns the report time from SOURCE_DATE_EPOCH
+// (reproducible-builds.org), or "" when it is not set: reports carry no
+// time otherwise, so two runs on the same input give the same bytes.
+func sourceDateEpoch() (string, error) {
+	v, ok := os.LookupEnv("SOURCE_DATE_EPOCH")
+	if !ok || v == "" {
+		return "", nil
+	}
+	sec, err := strconv.ParseInt(v, 10, 64)
+	if err != nil {
+		return "", fmt.Errorf("SOURCE_DATE_EPOCH=%q: want whole seconds since 1970-01-01 UTC", v)
+	}
+	return time.Unix(sec, 0).UTC().Format(time.RFC3339), nil
+}

@@ -350,6 +350,7 @@ type UnitRow struct {
 	R         Float  `json:"r"`
 	Slope     Float  `json:"slope"`
 	Intercept Float  `json:"intercept"`
+	Note      string `json:"note,omitempty"` // why the row's numbers are undefined (a unit that does not convert)
 }
 
 // Prediction is the line's mean response and a new observation at one x.

@@ -1,0 +1,600 @@
+// Package compare turns two runs' Reports into a change report for
+// `bivar diff`: for every study present in both (matched by id) it tests the
+// change in Pearson r and in the least-squares slope, lists changed verdicts
+// and data hashes, and names the studies added or removed. It reads only the
+// Reports (results.json), never the data.
+//
+// The change tests, from the stored centred moments (report.Moments):
+//
+//   - Change in r: the test for the difference of two independent
+//     correlations through Fisher's z transform,
+//
+//     z = (atanh r_new − atanh r_old) / sqrt(1/(n_old−3) + 1/(n_new−3)),
+//
+//     two-sided p from the standard normal (Fisher 1921; Zar, Biostatistical
+//     Analysis, 5th ed. 2010, §19.5 — section number from memory; Cohen,
+//     Cohen, West & Aiken 2003, §2.8.2).
+//
+//   - Change in slope: the pooled-variance t test for equal slopes of two
+//     independent straight-line regressions. With b = Sxy/Sxx,
+//     RSS = Syy − Sxy²/Sxx in each run,
+//
+//     s²_p = (RSS_old + RSS_new) / (n_old + n_new − 4)
+//     SE   = sqrt(s²_p · (1/Sxx_old + 1/Sxx_new))
+//     t    = (b_new − b_old) / SE,   n_old + n_new − 4 df,
+//
+//     (Zar 2010, ch. 18 "Comparing simple linear regression equations",
+//     eq. 18.1–18.4 — chapter from memory; Kleinbaum, Kupper, Muller &
+//     Nizam, Applied Regression Analysis, ch. 14 on comparing two lines).
+//     It is the t of the run×x interaction in one least-squares fit of
+//     y on x, run and x·run, which is how the tests check it. It assumes
+//     the residual variance is the same in both runs; the Result carries
+//     each run's residual SD so a reader can see when that is doubtful.
+//
+// Both tests treat the runs as independent samples: two runs that share
+// units (rows) are not independent and the tests are then conservative
+// only by luck.
+//
+// The change tests of all compared studies form one family (two tests per
+// study) adjusted by the method in Options.Adjust: Holm's step-down method
+// controls the chance of any false alarm in the diff at alpha, Benjamini–
+// Hochberg the expected share of false alarms among those flagged.
+package compare
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"bivar/analysis/report"
+	"bivar/analysis/stats"
+)
+
+// Schema names the diff.json format. Change it only with a new version.
+const Schema = "bivar.diff/v1"
+
+// Test names written into Result, so a reader of diff.json knows which.
+const (
+	CorrelationTest = "difference of two independent correlations, Fisher z, two-sided normal p"
+	SlopeTest       = "equal slopes, pooled-variance t with n_old+n_new-4 df, two-sided"
+)
+
+// Options configure Diff. Zero values take their default from the new
+// report's manifest.
+type Options struct {
+	// Alpha is the significance level for `significant`; 0 means the new
+	// report's manifest alpha (0.05 when that is unset too).
+	Alpha float64
+	// Adjust is "holm", "bh" or "none"; "" means the new report's
+	// manifest adjust ("holm" when that is unset too).
+	Adjust string
+	// Tool is written into the Result's tool field.
+	Tool report.Tool
+}
+
+// Adjustments lists the valid values of Options.Adjust.
+var adjustments = []string{"holm", "bh", "none"}
+
+// ValidAdjust reports whether a is a known adjustment ("" is valid: the
+// default).
+func ValidAdjust(a string) bool { return a == "" || slices.Contains(adjustments, a) }
+
+// Result is the change report: the model behind diff.json, diff.html and
+// diff.md. Studies follow the new report's order; removed ones follow,
+// in the old report's order.
+type Result struct {
+	Schema      string          `json:"schema"`
+	Tool        report.Tool     `json:"tool"`
+	Old         Side            `json:"old"`
+	New         Side            `json:"new"`
+	Alpha       float64         `json:"alpha"`
+	Adjust      string          `json:"adjust"`
+	Tests       Tests           `json:"tests"`
+	Summary     Summary         `json:"summary"`
+	Studies     []StudyChange   `json:"studies"` // present in both
+	Added       []StudyRef      `json:"added"`   // only in the new run
+	Removed     []StudyRef      `json:"removed"` // only in the old run
+	Datasets    []DatasetChange `json:"datasets"`
+	Notes       []string        `json:"notes"` // run-level remarks (tool versions differ, settings differ)
+	Caution     string          `json:"caution"`
+	Limitations []string        `json:"limitations"`
+}
+
+// Side describes one of the two runs.
+type Side struct {
+	File        string  `json:"file"` // the results.json read, as given
+	Title       string  `json:"title"`
+	Manifest    string  `json:"manifest"`
+	SHA256      string  `json:"manifest_sha256"`
+	ToolVersion string  `json:"tool_version"`
+	Generated   string  `json:"generated,omitempty"`
+	Alpha       float64 `json:"alpha"`
+	Adjust      string  `json:"adjust"`
+}
+
+// Tests names the change tests used.
+type Tests struct {
+	Correlation string `json:"correlation"`
+	Slope       string `json:"slope"`
+}
+
+// Summary counts what changed.
+type Summary struct {
+	Compared       int `json:"compared"`        // studies in both runs
+	Tested         int `json:"tested"`          // change tests done (two per study where both ran)
+	Significant    int `json:"significant"`     // studies with a change significant after adjustment
+	VerdictChanged int `json:"verdict_changed"` // studies whose form, direction, strength or outlier-driven verdict changed
+	DataChanged    int `json:"data_changed"`    // studies whose dataset hash changed
+	Added          int `json:"added"`
+	Removed        int `json:"removed"`
+}
+
+// StudyRef names a study found in one run only.
+type StudyRef struct {
+	ID    string `json:"id"`
+	Title string `json:"title"`
+	X     string `json:"x"`
+	Y     string `json:"y"`
+}
+
+// StudyChange is the comparison of one study present in both runs.
+type StudyChange struct {
+	ID      string `json:"id"`
+	Title   string `json:"title"`
+	X       string `json:"x"` // label of x in the new run
+	Y       string `json:"y"`
+	XUnit   string `json:"x_unit"`
+	YUnit   string `json:"y_unit"`
+	Dataset string `json:"dataset"`
+	OldN    int    `json:"old_n"`
+	NewN    int    `json:"new_n"`
+
+	OldSHA256   string `json:"old_sha256"` // of the study's dataset file
+	NewSHA256   string `json:"new_sha256"`
+	DataChanged bool   `json:"data_changed"`
+
+	R     *RChange     `json:"r"`     // nil when either run has no moments
+	Slope *SlopeChange `json:"slope"` // nil when either run has no moments or the units differ
+
+	Verdicts       []VerdictChange `json:"verdicts"` // changed verdicts only
+	VerdictChanged bool            `json:"verdict_changed"`
+	Significant    bool            `json:"significant"` // r or slope change significant after adjustment
+	Notes          []string        `json:"notes"`       // why a test was not done; a column or unit that changed
+	OldError       *string         `json:"old_error"`
+	NewError       *string         `json:"new_error"`
+}
+
+// RChange is the change in Pearson r.
+type RChange struct {
+	Old       report.Float `json:"old"`
+	New       report.Float `json:"new"`
+	Delta     report.Float `json:"delta"` // new − old
+	Z         report.Float `json:"z"`
+	P         report.Float `json:"p"`
+	PAdjusted report.Float `json:"p_adjusted"`
+}
+
+// SlopeChange is the change in the least-squares slope (y units per x unit).
+type SlopeChange struct {
+	Old        report.Float `json:"old"`
+	New        report.Float `json:"new"`
+	Delta      report.Float `json:"delta"` // new − old
+	OldSE      report.Float `json:"old_se"`
+	NewSE      report.Float `json:"new_se"`
+	SE         report.Float `json:"se"` // of the difference, pooled residual variance
+	OldResidSD report.Float `json:"old_residual_sd"`
+	NewResidSD report.Float `json:"new_residual_sd"`
+	T          report.Float `json:"t"`
+	DF         int          `json:"df"`
+	P          report.Float `json:"p"`
+	PAdjusted  report.Float `json:"p_adjusted"`
+}
+
+// VerdictChange is one verdict that differs between the runs.
+type VerdictChange struct {
+	Name string `json:"name"` // form, direction, strength, outlier_driven
+	Old  string `json:"old"`
+	New  string `json:"new"`
+}
+
+// DatasetChange compares one dataset id across the runs.
+type DatasetChange struct {
+	ID        string `json:"id"`
+	Status    string `json:"status"` // same | changed | added | removed
+	OldFile   string `json:"old_file"`
+	NewFile   string `json:"new_file"`
+	OldSHA256 string `json:"old_sha256"`
+	NewSHA256 string `json:"new_sha256"`
+	OldRows   int    `json:"old_rows"`
+	NewRows   int    `json:"new_rows"`
+}
+
+// Limitations are stated on every diff.
+var limitations = []string{
+	"The change tests treat the two runs as independent samples; runs that share units are not independent.",
+	"The equal-slopes test assumes the same residual variance in both runs; compare the residual SDs shown.",
+	"A change that is not significant is not shown to be absent: with few points only large changes can be detected.",
+	"A significant change says the relationship differs between the runs, not why; a change in the process, the gauge or the population sampled can each cause it.",
+}
+
+// Diff compares old with new. It never fails: a study that could not run
+// in either report is listed with its error and without change tests.
+func Diff(old, new *report.Report, opts Options) *Result {
+	alpha := opts.Alpha
+	if !(alpha > 0 && alpha < 1) {
+		alpha = new.Manifest.Alpha
+	}
+	if !(alpha > 0 && alpha < 1) {
+		alpha = 0.05
+	}
+	res := &Result{
+		Schema:      Schema,
+		Tool:        opts.Tool,
+		Old:         side(old),
+		New:         side(new),
+		Alpha:       alpha,
+		Tests:       Tests{Correlation: CorrelationTest, Slope: SlopeTest},
+		Caution:     report.Caution,
+		Limitations: slices.Clone(limitations),
+		Studies:     []StudyChange{},
+		Added:       []StudyRef{},
+		Removed:     []StudyRef{},
+		Notes:       []string{},
+	}
+	res.Adjust = opts.Adjust
+	if res.Adjust == "" {
+		res.Adjust = new.Manifest.Adjust
+	}
+	if res.Adjust == "" {
+		res.Adjust = "holm"
+	}
+	if !slices.Contains(adjustments, res.Adjust) {
+		res.Notes = append(res.Notes, fmt.Sprintf("adjustment %q is unknown (want holm, bh or none); holm was used", res.Adjust))
+		res.Adjust = "holm"
+	}
+	if old.Tool.Version != new.Tool.Version {
+		res.Notes = append(res.Notes, fmt.Sprintf("the runs were made by different versions of bivar (%s, %s)", orDash(old.Tool.Version), orDash(new.Tool.Version)))
+	}
+	if old.Manifest.Alpha != new.Manifest.Alpha || old.Manifest.Adjust != new.Manifest.Adjust {
+		res.Notes = append(res.Notes, fmt.Sprintf("the manifests' settings differ (alpha %g, adjust %s in the old run; alpha %g, adjust %s in the new); the new run's apply",
+			old.Manifest.Alpha, orDash(old.Manifest.Adjust), new.Manifest.Alpha, orDash(new.Manifest.Adjust)))
+	}
+	if old.Manifest.Thresholds != new.Manifest.Thresholds {
+		res.Notes = append(res.Notes, "the verdict thresholds differ between the runs, so a changed verdict may come from the thresholds rather than the data")
+	}
+
+	oldByID := map[string]*report.Study{}
+	for i := range old.Studies {
+		oldByID[old.Studies[i].ID] = &old.Studies[i]
+	}
+	newIDs := map[string]bool{}
+	for i := range new.Studies {
+		cur := &new.Studies[i]
+		newIDs[cur.ID] = true
+		prev, ok := oldByID[cur.ID]
+		if !ok {
+			res.Added = append(res.Added, ref(cur))
+			continue
+		}
+		res.Studies = append(res.Studies, compareStudy(prev, cur, old, new))
+	}
+	for i := range old.Studies {
+		if !newIDs[old.Studies[i].ID] {
+			res.Removed = append(res.Removed, ref(&old.Studies[i]))
+		}
+	}
+	res.Datasets = compareDatasets(old.Datasets, new.Datasets)
+	adjust(res)
+
+	s := &res.Summary
+	s.Compared, s.Added, s.Removed = len(res.Studies), len(res.Added), len(res.Removed)
+	for i := range res.Studies {
+		sc := &res.Studies[i]
+		if sc.R != nil && sc.R.PAdjusted.Valid() && float64(sc.R.PAdjusted) < alpha {
+			sc.Significant = true
+		}
+		if sc.Slope != nil && sc.Slope.PAdjusted.Valid() && float64(sc.Slope.PAdjusted) < alpha {
+			sc.Significant = true
+		}
+		if sc.R != nil && sc.R.P.Valid() {
+			s.Tested++
+		}
+		if sc.Slope != nil && sc.Slope.P.Valid() {
+			s.Tested++
+		}
+		if sc.Significant {
+			s.Significant++
+		}
+		if sc.VerdictChanged {
+			s.VerdictChanged++
+		}
+		if sc.DataChanged {
+			s.DataChanged++
+		}
+	}
+	return res
+}
+
+// AnyVerdictChanged reports whether a compared study's verdict changed.
+func (r *Result) AnyVerdictChanged() bool { return r.Summary.VerdictChanged > 0 }
+
+// AnySignificant reports whether a compared study's r or slope changed
+// significantly after adjustment.
+func (r *Result) AnySignificant() bool { return r.Summary.Significant > 0 }
+
+func side(r *report.Report) Side {
+	return Side{
+		Title:       r.Manifest.Title,
+		Manifest:    r.Manifest.File,
+		SHA256:      r.Manifest.SHA256,
+		ToolVersion: r.Tool.Version,
+		Generated:   r.Generated,
+		Alpha:       r.Manifest.Alpha,
+		Adjust:      r.Manifest.Adjust,
+	}
+}
+
+func ref(s *report.Study) StudyRef {
+	return StudyRef{ID: s.ID, Title: s.Title, X: label(s.X), Y: label(s.Y)}
+}
+
+func label(v report.Variable) string {
+	if v.Label != "" {
+		return v.Label
+	}
+	return v.Column
+}
+
+func orDash(s string) string {
+	if s == "" {
+		return "-"
+	}
+	return s
+}
+
+func datasetHash(r *report.Report, id string) string {
+	for _, d := range r.Datasets {
+		if d.ID == id {
+			return d.SHA256
+		}
+	}
+	return ""
+}
+
+func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange {
+	sc := StudyChange{
+		ID:        cur.ID,
+		Title:     cur.Title,
+		X:         label(cur.X),
+		Y:         label(cur.Y),
+		XUnit:     cur.X.Unit,
+		YUnit:     cur.Y.Unit,
+		Dataset:   cur.Dataset,
+		OldN:      prev.N,
+		NewN:      cur.N,
+		OldSHA256: datasetHash(old, prev.Dataset),
+		NewSHA256: datasetHash(new, cur.Dataset),
+		Verdicts:  []VerdictChange{},
+		Notes:     []string{},
+		OldError:  prev.Error,
+		NewError:  cur.Error,
+	}
+	sc.DataChanged = sc.OldSHA256 != sc.NewSHA256
+	if prev.X.Column != cur.X.Column {
+		sc.Notes = append(sc.Notes, fmt.Sprintf("x column changed from %q to %q", prev.X.Column, cur.X.Column))
+	}
+	if prev.Y.Column != cur.Y.Column {
+		sc.Notes = append(sc.Notes, fmt.Sprintf("y column changed from %q to %q", prev.Y.Column, cur.Y.Column))
+	}
+	unitsSame := prev.X.Unit == cur.X.Unit && prev.Y.Unit == cur.Y.Unit
+	if !unitsSame {
+		sc.Notes = append(sc.Notes, fmt.Sprintf("units changed (x %s → %s, y %s → %s): the slopes are in different units and are not compared",
+			orDash(prev.X.Unit), orDash(cur.X.Unit), orDash(prev.Y.Unit), orDash(cur.Y.Unit)))
+	}
+	switch {
+	case prev.Error != nil || cur.Error != nil:
+		sc.Notes = append(sc.Notes, "the study did not run in both runs; no change test")
+	case prev.Moments == nil || cur.Moments == nil:
+		sc.Notes = append(sc.Notes, "moments missing from a results file; no change test")
+	default:
+		om, nm := *prev.Moments, *cur.Moments
+		sc.R = CorrelationChange(om, nm)
+		if !sc.R.P.Valid() {
+			sc.Notes = append(sc.Notes, "the change in r cannot be tested (fewer than 4 points, or a constant column, in a run)")
+		}
+		if unitsSame {
+			sc.Slope = SlopeChangeTest(om, nm)
+			if !sc.Slope.P.Valid() {
+				sc.Notes = append(sc.Notes, "the change in slope cannot be tested (fewer than 3 points, or a constant x, in a run; or no residual variance)")
+			}
+		}
+	}
+	sc.Verdicts = verdictChanges(prev.Findings, cur.Findings)
+	sc.VerdictChanged = len(sc.Verdicts) > 0
+	return sc
+}
+
+func verdictChanges(of, nf *report.Findings) []VerdictChange {
+	out := []VerdictChange{}
+	if of == nil && nf == nil {
+		return out
+	}
+	get := func(f *report.Findings) (form, dir, str, od string) {
+		if f == nil {
+			return "-", "-", "-", "-"
+		}
+		return f.Form, f.Direction, f.Strength, fmt.Sprint(f.OutlierDriven)
+	}
+	a1, a2, a3, a4 := get(of)
+	b1, b2, b3, b4 := get(nf)
+	for _, v := range []VerdictChange{{"form", a1, b1}, {"direction", a2, b2}, {"strength", a3, b3}, {"outlier_driven", a4, b4}} {
+		if v.Old != v.New {
+			out = append(out, v)
+		}
+	}
+	return out
+}
+
+func compareDatasets(old, new []report.Dataset) []DatasetChange {
+	out := []DatasetChange{}
+	oldByID := map[string]report.Dataset{}
+	for _, d := range old {
+		oldByID[d.ID] = d
+	}
+	seen := map[string]bool{}
+	for _, d := range new {
+		seen[d.ID] = true
+		dc := DatasetChange{ID: d.ID, NewFile: d.File, NewSHA256: d.SHA256, NewRows: d.Rows}
+		if o, ok := oldByID[d.ID]; ok {
+			dc.OldFile, dc.OldSHA256, dc.OldRows = o.File, o.SHA256, o.Rows
+			dc.Status = "same"
+			if o.SHA256 != d.SHA256 {
+				dc.Status = "changed"
+			}
+		} else {
+			dc.Status = "added"
+		}
+		out = append(out, dc)
+	}
+	for _, d := range old {
+		if !seen[d.ID] {
+			out = append(out, DatasetChange{ID: d.ID, Status: "removed", OldFile: d.File, OldSHA256: d.SHA256, OldRows: d.Rows})
+		}
+	}
+	return out
+}
+
+// adjust fills PAdjusted for every defined change test, all studies' r and
+// slope tests together as one family, in a fixed order (study order, r
+// before slope) so the result does not depend on map iteration.
+func adjust(res *Result) {
+	var ps []float64
+	var dst []*report.Float
+	for i := range res.Studies {
+		sc := &res.Studies[i]
+		if sc.R != nil {
+			sc.R.PAdjusted = report.NaN()
+			if sc.R.P.Valid() {
+				ps = append(ps, float64(sc.R.P))
+				dst = append(dst, &sc.R.PAdjusted)
+			}
+		}
+		if sc.Slope != nil {
+			sc.Slope.PAdjusted = report.NaN()
+			if sc.Slope.P.Valid() {
+				ps = append(ps, float64(sc.Slope.P))
+				dst = append(dst, &sc.Slope.PAdjusted)
+			}
+		}
+	}
+	if len(ps) == 0 {
+		return
+	}
+	var adj []float64
+	switch res.Adjust {
+	case "none":
+		adj = ps
+	case "bh":
+		adj = stats.BenjaminiHochberg(ps)
+	default:
+		adj = stats.Holm(ps)
+	}
+	for i, p := range adj {
+		*dst[i] = report.Float(p)
+	}
+}
+
+// CorrelationChange tests the change in Pearson r from old to new by
+// Fisher's z (see the package comment). r is Sxy/sqrt(Sxx·Syy) from the
+// moments. Z and P are NaN when either run has n < 4 or a constant column;
+// |r| = 1 in a run gives an infinite z and p = 0 only when the other run
+// differs, NaN when both are ±1 alike.
+func CorrelationChange(old, new report.Moments) *RChange {
+	r1, r2 := corr(old), corr(new)
+	c := &RChange{Old: report.Float(r1), New: report.Float(r2), Delta: report.Float(r2 - r1),
+		Z: report.NaN(), P: report.NaN(), PAdjusted: report.NaN()}
+	z, p := FisherZDiff(r1, old.N, r2, new.N)
+	c.Z, c.P = report.Float(z), report.Float(p)
+	return c
+}
+
+// FisherZDiff is the test for the difference of two independent
+// correlations: z = (atanh r2 − atanh r1)/sqrt(1/(n1−3) + 1/(n2−3)),
+// with the two-sided normal p. It returns NaN for n ≤ 3 or an undefined r.
+func FisherZDiff(r1 float64, n1 int, r2 float64, n2 int) (z, p float64) {
+	if n1 <= 3 || n2 <= 3 || math.IsNaN(r1) || math.IsNaN(r2) || math.Abs(r1) > 1 || math.Abs(r2) > 1 {
+		return math.NaN(), math.NaN()
+	}
+	se := math.Sqrt(1/float64(n1-3) + 1/float64(n2-3))
+	z = (math.Atanh(r2) - math.Atanh(r1)) / se // ±Inf at |r| = 1; NaN when both are the same ±1
+	return z, stats.TwoSidedNormal(z)
+}
+
+func corr(m report.Moments) float64 {
+	sxx, syy, sxy := float64(m.Sxx), float64(m.Syy), float64(m.Sxy)
+	if !(sxx > 0) || !(syy > 0) || math.IsNaN(sxy) {
+		return math.NaN()
+	}
+	r := sxy / math.Sqrt(sxx*syy)
+	return math.Max(-1, math.Min(1, r)) // rounding can push |r| a hair past 1
+}
+
+// lineFromMoments returns the slope, the residual sum of squares
+// RSS = Syy − Sxy²/Sxx (clamped at 0 against rounding) and its degrees of
+// freedom n − 2, or NaN when Sxx is not positive or n < 3.
+func lineFromMoments(m report.Moments) (slope, rss float64, df int) {
+	sxx, syy, sxy := float64(m.Sxx), float64(m.Syy), float64(m.Sxy)
+	if !(sxx > 0) || m.N < 3 || math.IsNaN(syy) || math.IsNaN(sxy) {
+		return math.NaN(), math.NaN(), 0
+	}
+	slope = sxy / sxx
+	rss = math.Max(0, syy-sxy*slope)
+	return slope, rss, m.N - 2
+}
+
+// SlopeChangeTest tests the change in slope from old to new by the
+// pooled-variance t test for equal slopes (see the package comment).
+// Undefined parts are NaN.
+func SlopeChangeTest(old, new report.Moments) *SlopeChange {
+	b1, rss1, df1 := lineFromMoments(old)
+	b2, rss2, df2 := lineFromMoments(new)
+	c := &SlopeChange{Old: report.Float(b1), New: report.Float(b2), Delta: report.Float(b2 - b1),
+		OldSE: report.NaN(), NewSE: report.NaN(), SE: report.NaN(), OldResidSD: report.NaN(), NewResidSD: report.NaN(),
+		T: report.NaN(), P: report.NaN(), PAdjusted: report.NaN()}
+	if df1 > 0 {
+		s2 := rss1 / float64(df1)
+		c.OldResidSD, c.OldSE = report.Float(math.Sqrt(s2)), report.Float(math.Sqrt(s2/float64(old.Sxx)))
+	}
+	if df2 > 0 {
+		s2 := rss2 / float64(df2)
+		c.NewResidSD, c.NewSE = report.Float(math.Sqrt(s2)), report.Float(math.Sqrt(s2/float64(new.Sxx)))
+	}
+	t, df, p := EqualSlopes(old, new)
+	c.T, c.DF, c.P = report.Float(t), df, report.Float(p)
+	if df > 0 {
+		s2p := (rss1 + rss2) / float64(df)
+		c.SE = report.Float(math.Sqrt(s2p * (1/float64(old.Sxx) + 1/float64(new.Sxx))))
+	}
+	return c
+}
+
+// EqualSlopes is the pooled-variance t test for equal slopes of two
+// independent straight-line fits given by their centred moments: t of
+// (b_new − b_old) with n_old + n_new − 4 degrees of freedom and its
+// two-sided p (stats.TwoSidedT). It returns NaN (and df 0) when either fit
+// is undefined or the pooled residual variance is zero.
+func EqualSlopes(old, new report.Moments) (t float64, df int, p float64) {
+	b1, rss1, df1 := lineFromMoments(old)
+	b2, rss2, df2 := lineFromMoments(new)
+	if df1 == 0 || df2 == 0 {
+		return math.NaN(), 0, math.NaN()
+	}
+	df = df1 + df2
+	s2p := (rss1 + rss2) / float64(df)
+	se := math.Sqrt(s2p * (1/float64(old.Sxx) + 1/float64(new.Sxx)))
+	if !(se > 0) {
+		return math.NaN(), df, math.NaN()
+	}
+	t = (b2 - b1) / se
+	return t, df, stats.TwoSidedT(t, float64(df))
+}

@@ -1,0 +1,38 @@
+package compare
+
+// This file holds diff.json's encoding: the Result written out.
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"io"
+)
+
+// Write encodes res as diff.json: two-space indent, keys in struct order,
+// one final newline. The same Result always gives the same bytes.
+func Write(w io.Writer, res *Result) error {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(res); err != nil {
+		return fmt.Errorf("compare: encoding the diff: %w", err)
+	}
+	_, err := w.Write(buf.Bytes())
+	return err
+}
+
+// Read decodes a diff.json, refusing another schema and unknown keys.
+func Read(rd io.Reader) (*Result, error) {
+	dec := json.NewDecoder(rd)
+	dec.DisallowUnknownFields()
+	var res Result
+	if err := dec.Decode(&res); err != nil {
+		return nil, fmt.Errorf("not a bivar diff file: %w", err)
+	}
+	if res.Schema != Schema {
+		return nil, fmt.Errorf("schema %q, want %q: written by another version of bivar", res.Schema, Schema)
+	}
+	return &res, nil
+}

@@ -1,0 +1,304 @@
+package stats
+
+// This file holds the correlation coefficients: Pearson's r with its
+// Fisher-z interval and t-test, Spearman's ρ on average ranks, and
+// Kendall's τ-b by Knight's O(n log n) algorithm.
+
+import (
+	"cmp"
+	"math"
+	"slices"
+)
+
+// Correlation is Pearson's product-moment correlation with its inference.
+type Correlation struct {
+	R      float64 // sample correlation Sxy/√(Sxx·Syy)
+	R2     float64 // R²
+	CILow  float64 // Fisher-z confidence interval for ρ, lower end
+	CIHigh float64 // upper end
+	T      float64 // t = r·√(DF/(1−r²)) for H0: ρ = 0
+	DF     int     // degrees of freedom of T, n−2
+	P      float64 // two-sided p of T with DF degrees of freedom
+}
+
+// Pearson returns the sample correlation
+//
+//	r = Sxy / √(Sxx·Syy)
+//
+// from centred sums (CentredMoments), clamped to [−1, 1] against rounding;
+// r², the Fisher-z interval at confidence conf (FisherCI), and the t-test of
+// ρ = 0 with n−2 degrees of freedom, t = r·√((n−2)/(1−r²)), p from TwoSidedT
+// (exact Student t tail). |r| = 1 gives T = ±Inf and P = 0.
+//
+// x and y must have equal length (it panics otherwise) and hold no NaN.
+// R is NaN when n < 2 or x or y is constant; T and P are NaN when n < 3;
+// the interval is NaN when n < 4.
+func Pearson(x, y []float64, conf float64) Correlation {
+	if len(x) != len(y) {
+		panic("stats: Pearson: x and y lengths differ")
+	}
+	n := len(x)
+	nan := math.NaN()
+	c := Correlation{R: nan, R2: nan, CILow: nan, CIHigh: nan, T: nan, DF: n - 2, P: nan}
+	if n < 2 {
+		if c.DF < 0 {
+			c.DF = 0
+		}
+		return c
+	}
+	m := CentredMoments(x, y)
+	c.R = corrFromSums(m.Sxx, m.Syy, m.Sxy)
+	if math.IsNaN(c.R) {
+		return c
+	}
+	c.R2 = c.R * c.R
+	c.CILow, c.CIHigh = FisherCI(c.R, n, conf)
+	c.T, c.P = corrT(c.R, n)
+	return c
+}
+
+// corrFromSums returns Sxy/√(Sxx·Syy) clamped to [−1, 1], NaN when either
+// sum of squares is not positive.
+func corrFromSums(sxx, syy, sxy float64) float64 {
+	if !(sxx > 0) || !(syy > 0) {
+		return math.NaN()
+	}
+	r := sxy / (math.Sqrt(sxx) * math.Sqrt(syy))
+	return math.Max(-1, math.Min(1, r))
+}
+
+// corrT returns the t statistic r·√((n−2)/(1−r²)) and its two-sided p with
+// n−2 degrees of freedom; NaN for n < 3.
+func corrT(r float64, n int) (t, p float64) {
+	if n < 3 || math.IsNaN(r) {
+		return math.NaN(), math.NaN()
+	}
+	df := float64(n - 2)
+	if math.Abs(r) == 1 {
+		return math.Copysign(math.Inf(1), r), 0
+	}
+	t = r * math.Sqrt(df/((1-r)*(1+r)))
+	return t, TwoSidedT(t, df)
+}
+
+// FisherCI returns the approximate confidence interval for a correlation
+// coefficient from Fisher's z-transformation (Fisher 1921; e.g. Sheskin,
+// Handbook of Parametric and Nonparametric Statistical Procedures, Test 28):
+//
+//	z = atanh(r);  (lo, hi) = tanh(z ∓ z_{(1+conf)/2} / √(n−3))
+//
+// with z_q the standard normal quantile. It returns NaN for n < 4, NaN r,
+// or conf outside (0, 1); |r| = 1 gives lo = hi = r.
+func FisherCI(r float64, n int, conf float64) (lo, hi float64) {
+	if n < 4 || math.IsNaN(r) || !(conf > 0 && conf < 1) {
+		return math.NaN(), math.NaN()
+	}
+	if math.Abs(r) >= 1 {
+		return r, r
+	}
+	z := math.Atanh(r)
+	half := NormalQuantile(0.5+conf/2) / math.Sqrt(float64(n-3))
+	return math.Tanh(z - half), math.Tanh(z + half)
+}
+
+// Ranks returns the 1-based ranks of x, tied values sharing the mean of
+// the ranks they occupy ("average" or "fractional" ranking; Kendall &
+// Gibbons 1990, Rank Correlation Methods, §3.8). It sorts an index in
+// O(n log n). x must hold no NaN.
+func Ranks(x []float64) []float64 {
+	type iv struct {
+		v float64
+		i int
+	}
+	s := make([]iv, len(x))
+	for i, v := range x {
+		s[i] = iv{v, i}
+	}
+	slices.SortFunc(s, func(a, b iv) int { return cmp.Compare(a.v, b.v) })
+	r := make([]float64, len(x))
+	for lo := 0; lo < len(s); {
+		hi := lo + 1
+		for hi < len(s) && s[hi].v == s[lo].v {
+			hi++
+		}
+		// positions lo..hi-1 (0-based) hold ranks lo+1..hi; their mean:
+		avg := float64(lo+1+hi) / 2
+		for k := lo; k < hi; k++ {
+			r[s[k].i] = avg
+		}
+		lo = hi
+	}
+	return r
+}
+
+// Spearman returns Spearman's rank correlation ρ, Pearson's r of the
+// average ranks (Ranks), so ties are handled exactly rather than by the
+// 1 − 6Σd²/(n(n²−1)) shortcut, which holds only without ties. p is the
+// two-sided p of t = ρ·√((n−2)/(1−ρ²)) with n−2 degrees of freedom, the
+// usual large-sample approximation (as scipy.stats.spearmanr).
+//
+// x and y must have equal length (it panics otherwise) and hold no NaN.
+// ρ is NaN when n < 2 or either variable is constant; p is NaN when n < 3.
+func Spearman(x, y []float64) (rho, p float64) {
+	if len(x) != len(y) {
+		panic("stats: Spearman: x and y lengths differ")
+	}
+	if len(x) < 2 {
+		return math.NaN(), math.NaN()
+	}
+	m := CentredMoments(Ranks(x), Ranks(y))
+	rho = corrFromSums(m.Sxx, m.Syy, m.Sxy)
+	_, p = corrT(rho, len(x))
+	return rho, p
+}
+
+// KendallTauB returns Kendall's τ-b and its two-sided p-value.
+//
+//	τ-b = (C − D) / √((n0 − n1)(n0 − n2))
+//
+// with C and D the concordant and discordant pairs, n0 = n(n−1)/2, and n1,
+// n2 the pairs tied in x and in y. The count is Knight's algorithm (Knight
+// 1966, "A computer method for calculating Kendall's tau with ungrouped
+// data", JASA 61(314):436–439): sort the pairs by (x, y), then merge-sort y
+// counting the exchanges, which are the discordant pairs; O(n log n) time,
+// O(n) memory. (gonum's stat.Kendall is τ-a, O(n²), and counts ties as
+// concordant, so it is not used.)
+//
+// p is from the normal approximation to S = C − D with the variance
+// corrected for ties in both variables (Kendall 1970, Rank Correlation
+// Methods, 4th ed., eq. 4.4):
+//
+//	Var S = [n(n−1)(2n+5) − Σt(t−1)(2t+5) − Σu(u−1)(2u+5)]/18
+//	      + [Σt(t−1)]·[Σu(u−1)] / (2n(n−1))
+//	      + [Σt(t−1)(t−2)]·[Σu(u−1)(u−2)] / (9n(n−1)(n−2))
+//
+// over the tie groups t of x and u of y; this is scipy.stats.kendalltau's
+// asymptotic p for variant "b".
+//
+// x and y must have equal length (it panics otherwise) and hold no NaN.
+// τ-b is NaN when n < 2 or either variable is constant.
+func KendallTauB(x, y []float64) (tau, p float64) {
+	if len(x) != len(y) {
+		panic("stats: KendallTauB: x and y lengths differ")
+	}
+	n := len(x)
+	if n < 2 {
+		return math.NaN(), math.NaN()
+	}
+	type pair struct{ x, y float64 }
+	ps := make([]pair, n)
+	for i := range x {
+		ps[i] = pair{x[i], y[i]}
+	}
+	slices.SortFunc(ps, func(a, b pair) int {
+		return cmp.Or(cmp.Compare(a.x, b.x), cmp.Compare(a.y, b.y))
+	})
+	var tx, txy tieSums // ties in x; joint ties in (x, y)
+	ys := make([]float64, n)
+	for i := range ps {
+		ys[i] = ps[i].y
+	}
+	for lo := 0; lo < n; {
+		hi := lo + 1
+		for hi < n && ps[hi].x == ps[lo].x {
+			hi++
+		}
+		tx.add(hi - lo)
+		for a := lo; a < hi; {
+			b := a + 1
+			for b < hi && ps[b].y == ps[a].y {
+				b++
+			}
+			txy.add(b - a)
+			a = b
+		}
+		lo = hi
+	}
+	ps = nil
+	swaps := mergeCount(ys, make([]float64, n))
+	var ty tieSums
+	for lo := 0; lo < n; {
+		hi := lo + 1
+		for hi < n && ys[hi] == ys[lo] {
+			hi++
+		}
+		ty.add(hi - lo)
+		lo = hi
+	}
+	n0 := int64(n) * int64(n-1) / 2
+	s := n0 - tx.pairs - ty.pairs + txy.pairs - 2*swaps
+	den := math.Sqrt(float64(n0-tx.pairs)) * math.Sqrt(float64(n0-ty.pairs))
+	if den == 0 {
+		return math.NaN(), math.NaN()
+	}
+	tau = float64(s) / den
+	tau = math.Max(-1, math.Min(1, tau))
+
+	nf := float64(n)
+	v := (nf*(nf-1)*(2*nf+5) - tx.v0 - ty.v0) / 18
+	v += tx.v1 * ty.v1 / (2 * nf * (nf - 1))
+	if n > 2 {
+		v += tx.v2 * ty.v2 / (9 * nf * (nf - 1) * (nf - 2))
+	}
+	if !(v > 0) {
+		return tau, math.NaN()
+	}
+	return tau, TwoSidedNormal(float64(s) / math.Sqrt(v))
+}
+
+// tieSums accumulates, over tie groups of size t, the sums that τ-b and
+// its variance need.
+type tieSums struct {
+	pairs int64   // Σ t(t−1)/2
+	v0    float64 // Σ t(t−1)(2t+5)
+	v1    float64 // Σ t(t−1)
+	v2    float64 // Σ t(t−1)(t−2)
+}
+
+func (s *tieSums) add(t int) {
+	if t < 2 {
+		return
+	}
+	tf := float64(t)
+	s.pairs += int64(t) * int64(t-1) / 2
+	s.v0 += tf * (tf - 1) * (2*tf + 5)
+	s.v1 += tf * (tf - 1)
+	s.v2 += tf * (tf - 1) * (tf - 2)
+}
+
+// mergeCount sorts a ascending by a bottom-up, stable merge sort and
+// returns the number of pairs i < j with a[i] > a[j] (equal values are not
+// counted), using buf (len(buf) ≥ len(a)) as scratch. Knight (1966).
+func mergeCount(a, buf []float64) int64 {
+	n := len(a)
+	if n < 2 {
+		return 0
+	}
+	var swaps int64
+	src, dst := a, buf[:n]
+	for width := 1; width < n; width *= 2 {
+		for lo := 0; lo < n; lo += 2 * width {
+			mid := min(lo+width, n)
+			hi := min(lo+2*width, n)
+			i, j, k := lo, mid, lo
+			for i < mid && j < hi {
+				if src[i] <= src[j] {
+					dst[k] = src[i]
+					i++
+				} else {
+					dst[k] = src[j]
+					swaps += int64(mid - i)
+					j++
+				}
+				k++
+			}
+			k += copy(dst[k:], src[i:mid])
+			copy(dst[k:], src[j:hi])
+		}
+		src, dst = dst, src
+	}
+	if &src[0] != &a[0] {
+		copy(a, src)
+	}
+	return swaps
+}

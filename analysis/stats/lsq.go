@@ -1,0 +1,406 @@
+package stats
+
+// This file holds ordinary least squares: the general fit with an
+// intercept (LeastSquares), the polynomial (Polynomial), the straight line
+// (Line) and its confidence and prediction intervals.
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
+	"gonum.org/v1/gonum/mat"
+)
+
+// Coef is one coefficient of a least-squares fit with its inference.
+type Coef struct {
+	Estimate float64 // least-squares estimate
+	SE       float64 // standard error, s·√((XᵀX)⁻¹)ⱼⱼ
+	T        float64 // Estimate/SE, for H0: coefficient = 0
+	P        float64 // two-sided p of T with the residual degrees of freedom
+	CILow    float64 // confidence interval Estimate ∓ t_{(1+conf)/2, df}·SE
+	CIHigh   float64
+}
+
+// Regression is a least-squares fit y = b0 + Σ bⱼ·colⱼ + e.
+type Regression struct {
+	Coef       []Coef  // intercept first, then one per column in input order
+	ResidualSE float64 // s = √(RSS/DFResid)
+	RSS        float64 // residual sum of squares Σe²
+	TSS        float64 // total sum of squares about the mean, Σ(y−ȳ)²
+	R2         float64 // 1 − RSS/TSS; NaN when TSS = 0
+	AdjR2      float64 // 1 − (1−R2)(N−1)/DFResid
+	F          float64 // (ESS/p)/(RSS/DFResid), ESS = Σ(ŷ−ȳ)², for H0: all slopes 0
+	FP         float64 // upper tail of F with (p, DFResid) degrees of freedom
+	AIC        float64 // N·ln(RSS/N) + 2k, k = len(Coef) (σ not counted); −Inf for an exact fit
+	N          int     // rows
+	DFResid    int     // residual degrees of freedom, N − len(Coef)
+	Fitted     []float64
+	Residuals  []float64 // y − Fitted
+	Leverage   []float64 // diagonal of the hat matrix, 1/N + ‖(xᵢ−x̄)R⁻¹‖²
+
+	means []float64 // column means
+	ymean float64
+	rinv  []float64 // p×p row-major inverse of the centred design's R
+	p     int       // number of columns (slopes)
+}
+
+// rankTol is the relative size below which a diagonal element of R, compared
+// with its centred column's norm, means the column is (numerically) a linear
+// combination of the columns before it.
+const rankTol = 1e-12
+
+// LeastSquares fits y = b0 + b1·cols[0] + … + bp·cols[p−1] + e by ordinary
+// least squares.
+//
+// Algorithm: every column and y are centred on their means (corrected
+// two-pass, Chan, Golub & LeVeque 1983), which removes the intercept column
+// and its collinearity with the others; the centred n×p design Xc is
+// factorised by Householder QR (LAPACK dgeqrf as implemented in gonum
+// lapack64, the routine behind gonum's mat.QR, called directly so that R
+// and the reflectors stay in one n×p array and the n×n Q is never formed);
+// the slopes solve R·b = (Qᵀyc)[:p] by back substitution, followed by one
+// step of iterative refinement on the residuals (Golub & Van Loan 2013,
+// Matrix Computations, 4th ed., §5.3 and §3.5.3). The intercept is
+// ȳ − Σ bⱼ·x̄ⱼ. Standard errors come from (XcᵀXc)⁻¹ = R⁻¹R⁻ᵀ, the
+// intercept's from s²(1/n + x̄ᵀR⁻¹R⁻ᵀx̄); leverages from the rows of Xc·R⁻¹.
+// Inference assumes independent normal errors with constant variance.
+//
+// conf is the confidence level of the coefficient intervals (e.g. 0.95).
+// All columns must have len(y) rows (it panics otherwise). It returns an
+// error, and no fit, when there are fewer than p+1 rows, a value is NaN or
+// infinite, a column is constant, or a column is a linear combination of
+// the others (|Rⱼⱼ| < 1e-12·‖colⱼ − x̄ⱼ‖). With exactly p+1 rows the fit is
+// exact: DFResid is 0 and SE, T, P, intervals, ResidualSE, AdjR2, F are NaN.
+func LeastSquares(cols [][]float64, y []float64, conf float64) (Regression, error) {
+	n, p := len(y), len(cols)
+	for j, c := range cols {
+		if len(c) != n {
+			panic(fmt.Sprintf("stats: LeastSquares: column %d has %d rows, y has %d", j, len(c), n))
+		}
+	}
+	if n < p+1 {
+		return Regression{}, fmt.Errorf("least squares: %d rows cannot fit an intercept and %d predictors: need at least %d", n, p, p+1)
+	}
+	for i, v := range y {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return Regression{}, fmt.Errorf("least squares: response row %d is %v: remove non-finite values first", i+1, v)
+		}
+	}
+	for j, c := range cols {
+		for i, v := range c {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return Regression{}, fmt.Errorf("least squares: predictor %d row %d is %v: remove non-finite values first", j+1, i+1, v)
+			}
+		}
+	}
+	r := Regression{N: n, DFResid: n - p - 1, p: p}
+	ymean, tss := meanSS(y)
+	r.ymean, r.TSS = ymean, tss
+	r.means = make([]float64, p)
+	colSS := make([]float64, p)
+	a := make([]float64, n*p) // row-major centred design
+	for j, c := range cols {
+		m, ss := meanSS(c)
+		r.means[j], colSS[j] = m, ss
+		if !(ss > 0) {
+			return Regression{}, fmt.Errorf("least squares: predictor %d is constant (every row %v): it cannot be fitted", j+1, c[0])
+		}
+		for i, v := range c {
+			a[i*p+j] = v - m
+		}
+	}
+	yc := make([]float64, n)
+	for i, v := range y {
+		yc[i] = v - ymean
+	}
+	if p == 0 {
+		return r.finish(cols, y, nil, conf), nil
+	}
+
+	A := blas64.General{Rows: n, Cols: p, Stride: p, Data: a}
+	tau := make([]float64, p)
+	work := []float64{0}
+	lapack64.Geqrf(A, tau, work, -1)
+	work = make([]float64, int(work[0]))
+	lapack64.Geqrf(A, tau, work, len(work))
+
+	R := make([]float64, p*p)
+	for i := 0; i < p; i++ {
+		for j := i; j < p; j++ {
+			R[i*p+j] = a[i*p+j]
+		}
+	}
+	for j := 0; j < p; j++ {
+		if !(math.Abs(R[j*p+j]) >= rankTol*math.Sqrt(colSS[j])) {
+			return Regression{}, fmt.Errorf("least squares: predictor %d is (numerically) a linear combination of the predictors before it: drop it or the one it duplicates", j+1)
+		}
+	}
+	solve := func(rhs []float64) []float64 {
+		c := blas64.General{Rows: n, Cols: 1, Stride: 1, Data: rhs}
+		w := []float64{0}
+		lapack64.Ormqr(blas.Left, blas.Trans, A, tau, c, w, -1)
+		if len(work) < int(w[0]) {
+			work = make([]float64, int(w[0]))
+		}
+		lapack64.Ormqr(blas.Left, blas.Trans, A, tau, c, work, len(work))
+		b := blas64.General{Rows: p, Cols: 1, Stride: 1, Data: rhs[:p:p]}
+		lapack64.Trtrs(blas.NoTrans, blas64.Triangular{N: p, Stride: p, Data: R, Uplo: blas.Upper, Diag: blas.NonUnit}, b)
+		return rhs[:p:p]
+	}
+	b := append([]float64(nil), solve(append([]float64(nil), yc...))...)
+	// One step of refinement: solve for the correction from the residuals
+	// of the centred problem, computed from the original columns.
+	res := yc // reused: yc is no longer needed
+	for i := range res {
+		s := (y[i] - ymean)
+		for j, c := range cols {
+			s -= b[j] * (c[i] - r.means[j])
+		}
+		res[i] = s
+	}
+	d := solve(res)
+	for j := range b {
+		b[j] += d[j]
+	}
+
+	var rinv mat.TriDense
+	if err := rinv.InverseTri(mat.NewTriDense(p, mat.Upper, R)); err != nil && !errors.As(err, new(mat.Condition)) {
+		return Regression{}, fmt.Errorf("least squares: %v", err)
+	}
+	r.rinv = make([]float64, p*p)
+	for i := 0; i < p; i++ {
+		for j := i; j < p; j++ {
+			r.rinv[i*p+j] = rinv.At(i, j)
+		}
+	}
+	return r.finish(cols, y, b, conf), nil
+}
+
+// finish fills fitted values, residuals, leverages, sums of squares and
+// inference from the slopes b.
+func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regression {
+	n, p := r.N, r.p
+	nf := float64(n)
+	r.Fitted = make([]float64, n)
+	r.Residuals = make([]float64, n)
+	r.Leverage = make([]float64, n)
+	u := make([]float64, p)
+	xc := make([]float64, p)
+	var rss, ess float64
+	for i := 0; i < n; i++ {
+		var f float64
+		for j, c := range cols {
+			xc[j] = c[i] - r.means[j]
+			f += b[j] * xc[j]
+		}
+		e := (y[i] - r.ymean) - f
+		r.Residuals[i] = e
+		r.Fitted[i] = r.ymean + f
+		rss += e * e
+		ess += f * f
+		// u = xcᵀ·R⁻¹ (R⁻¹ upper triangular): uₖ = Σ_{j≤k} xcⱼ·R⁻¹ⱼₖ.
+		h := 1 / nf
+		for k := 0; k < p; k++ {
+			var s float64
+			for j := 0; j <= k; j++ {
+				s += xc[j] * r.rinv[j*p+k]
+			}
+			u[k] = s
+			h += s * s
+		}
+		r.Leverage[i] = h
+	}
+	r.RSS = rss
+	k := p + 1
+	df := float64(r.DFResid)
+	nan := math.NaN()
+	s := nan
+	if r.DFResid > 0 {
+		s = math.Sqrt(rss / df)
+	}
+	r.ResidualSE = s
+	r.R2, r.AdjR2, r.F, r.FP = nan, nan, nan, nan
+	if r.TSS > 0 {
+		r.R2 = 1 - rss/r.TSS
+		if r.DFResid > 0 {
+			r.AdjR2 = 1 - (1-r.R2)*(nf-1)/df
+		}
+	}
+	if p > 0 && r.DFResid > 0 {
+		r.F = (ess / float64(p)) / (rss / df)
+		r.FP = UpperF(r.F, float64(p), df)
+	}
+	r.AIC = nf*math.Log(rss/nf) + 2*float64(k)
+
+	tq := nan
+	if r.DFResid > 0 && conf > 0 && conf < 1 {
+		tq = TQuantile(0.5+conf/2, df)
+	}
+	coef := func(est, se float64) Coef {
+		c := Coef{Estimate: est, SE: se, T: est / se}
+		c.P = TwoSidedT(c.T, df)
+		c.CILow, c.CIHigh = est-tq*se, est+tq*se
+		if r.DFResid <= 0 {
+			c.T, c.P, c.CILow, c.CIHigh = nan, nan, nan, nan
+		}
+		return c
+	}
+	r.Coef = make([]Coef, k)
+	b0 := r.ymean
+	for j := range b {
+		b0 -= b[j] * r.means[j]
+	}
+	// Var(b0) = s²(1/n + ‖x̄ᵀR⁻¹‖²).
+	v0 := 1 / nf
+	for kk := 0; kk < p; kk++ {
+		var t float64
+		for j := 0; j <= kk; j++ {
+			t += r.means[j] * r.rinv[j*p+kk]
+		}
+		v0 += t * t
+	}
+	r.Coef[0] = coef(b0, s*math.Sqrt(v0))
+	for j := 0; j < p; j++ {
+		// (R⁻¹R⁻ᵀ)ⱼⱼ = Σₖ (R⁻¹ⱼₖ)², row j of R⁻¹.
+		var q float64
+		for kk := j; kk < p; kk++ {
+			q += r.rinv[j*p+kk] * r.rinv[j*p+kk]
+		}
+		r.Coef[j+1] = coef(b[j], s*math.Sqrt(q))
+	}
+	return r
+}
+
+// Predict returns the fitted mean response at the predictor values z (one
+// per column, in the order of the fit), and the confidence interval for
+// the mean response and the prediction interval for a new observation at
+// level conf:
+//
+//	ŷ ± t_{(1+conf)/2, df}·s·√(1/n + ‖(z−x̄)ᵀR⁻¹‖²)        (mean response)
+//	ŷ ± t_{(1+conf)/2, df}·s·√(1 + 1/n + ‖(z−x̄)ᵀR⁻¹‖²)    (new observation)
+//
+// (e.g. Montgomery, Peck & Vining 2012, Introduction to Linear Regression
+// Analysis, 5th ed., §3.4–3.5). The intervals are NaN when DFResid is 0.
+// It panics if len(z) differs from the number of columns. Predicting outside
+// the observed range of the columns is extrapolation: the interval does
+// not cover the error of the model's form there.
+func (r Regression) Predict(z []float64, conf float64) (fit, confLow, confHigh, predLow, predHigh float64) {
+	p := r.p
+	if len(z) != p {
+		panic(fmt.Sprintf("stats: Regression.Predict: %d values for %d columns", len(z), p))
+	}
+	fit = r.ymean
+	q := 1 / float64(r.N)
+	for k := 0; k < p; k++ {
+		fit += r.Coef[k+1].Estimate * (z[k] - r.means[k])
+		var t float64
+		for j := 0; j <= k; j++ {
+			t += (z[j] - r.means[j]) * r.rinv[j*p+k]
+		}
+		q += t * t
+	}
+	nan := math.NaN()
+	if r.DFResid <= 0 || !(conf > 0 && conf < 1) {
+		return fit, nan, nan, nan, nan
+	}
+	tq := TQuantile(0.5+conf/2, float64(r.DFResid))
+	hc := tq * r.ResidualSE * math.Sqrt(q)
+	hp := tq * r.ResidualSE * math.Sqrt(1+q)
+	return fit, fit - hc, fit + hc, fit - hp, fit + hp
+}
+
+// Polynomial fits y = b0 + b1·x + b2·x² + … + b_d·x^d by LeastSquares on the
+// columns x, x², …, x^d (raw powers, each centred on its mean inside
+// LeastSquares, so the coefficients are those of raw powers of x). It
+// returns an error for degree < 1 or whatever LeastSquares rejects; x needs
+// at least degree+1 distinct values. Predict at PowerRow(x0, degree).
+func Polynomial(x, y []float64, degree int, conf float64) (Regression, error) {
+	if len(x) != len(y) {
+		panic("stats: Polynomial: x and y lengths differ")
+	}
+	if degree < 1 {
+		return Regression{}, fmt.Errorf("polynomial: degree %d: want 1 or more", degree)
+	}
+	cols := make([][]float64, degree)
+	for d := range cols {
+		c := make([]float64, len(x))
+		for i, v := range x {
+			if d == 0 {
+				c[i] = v
+			} else {
+				c[i] = cols[d-1][i] * v
+			}
+		}
+		cols[d] = c
+	}
+	return LeastSquares(cols, y, conf)
+}
+
+// PowerRow returns x0, x0², …, x0^degree, the predictor row of Polynomial.
+func PowerRow(x0 float64, degree int) []float64 {
+	z := make([]float64, degree)
+	v := 1.0
+	for d := range z {
+		v *= x0
+		z[d] = v
+	}
+	return z
+}
+
+// LineFit is the straight line y = Intercept + Slope·x by least squares.
+type LineFit struct {
+	Regression
+	Intercept Coef    // = Coef[0]
+	Slope     Coef    // = Coef[1]
+	MeanX     float64 // x̄
+	Sxx       float64 // Σ(x−x̄)²
+}
+
+// Line fits the straight line y = b0 + b1·x by LeastSquares (centred
+// Householder QR; with one column this is b1 = Sxy/Sxx from centred sums,
+// refined once). It returns an error when there are fewer than 2 points, x
+// is constant, or a value is not finite. With 2 points the line is exact
+// and its inference NaN.
+func Line(x, y []float64, conf float64) (LineFit, error) {
+	if len(x) != len(y) {
+		panic("stats: Line: x and y lengths differ")
+	}
+	if len(x) < 2 {
+		return LineFit{}, fmt.Errorf("straight line: %d points: need at least 2", len(x))
+	}
+	reg, err := LeastSquares([][]float64{x}, y, conf)
+	if err != nil {
+		return LineFit{}, err
+	}
+	mx, sxx := meanSS(x)
+	return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: mx, Sxx: sxx}, nil
+}
+
+// Interval returns the line's mean response at x0 with its confidence
+// interval, and the prediction interval for a new observation at x0, both
+// at level conf (e.g. Montgomery, Peck & Vining 2012, §2.4.2 and §2.5):
+//
+//	ŷ ± t_{(1+conf)/2, n−2}·s·√(1/n + (x0−x̄)²/Sxx)
+//	ŷ ± t_{(1+conf)/2, n−2}·s·√(1 + 1/n + (x0−x̄)²/Sxx)
+//
+// The intervals are NaN when n = 2. An x0 outside the observed range is
+// extrapolation; the intervals then say nothing about the form of the
+// relationship there.
+func (l LineFit) Interval(x0, conf float64) (fit, confLow, confHigh, predLow, predHigh float64) {
+	// Centred form of the fit, ȳ + b1·(x0 − x̄): less cancellation than
+	// b0 + b1·x0 when x is far from 0.
+	fit = l.ymean + l.Slope.Estimate*(x0-l.MeanX)
+	nan := math.NaN()
+	if l.DFResid <= 0 || !(conf > 0 && conf < 1) {
+		return fit, nan, nan, nan, nan
+	}
+	q := 1/float64(l.N) + (x0-l.MeanX)*(x0-l.MeanX)/l.Sxx
+	tq := TQuantile(0.5+conf/2, float64(l.DFResid))
+	hc := tq * l.ResidualSE * math.Sqrt(q)
+	hp := tq * l.ResidualSE * math.Sqrt(1+q)
+	return fit, fit - hc, fit + hc, fit - hp, fit + hp
+}

@@ -1,0 +1,379 @@
+// Package changes renders a compare.Result — what changed between two
+// runs — as diff.html (self-contained: the theme's CSS inline, a
+// Content-Security-Policy that forbids every fetch and script, prints
+// cleanly), diff.md (for code review) and diff.json (schema
+// "bivar.diff/v1", the Result written out). It computes nothing: every
+// number comes from the Result.
+package changes
+
+import (
+	"bytes"
+	"embed"
+	"fmt"
+	"html/template"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+
+	"bivar/analysis/compare"
+	"bivar/analysis/report"
+	"bivar/themes"
+)
+
+//go:embed templates/*.tmpl
+var tmplFS embed.FS
+
+var page = template.Must(template.New("diff").Funcs(template.FuncMap{
+	"num":         num,
+	"signed":      signed,
+	"fix2":        fix2,
+	"pval":        pval,
+	"short":       short,
+	"adjustName":  adjustName,
+	"verdictName": verdictName,
+}).Option("missingkey=error").ParseFS(tmplFS, "templates/*.tmpl"))
+
+type config struct {
+	theme   string
+	formats []string
+}
+
+// Option configures the renderers.
+type Option func(*config)
+
+// WithTheme chooses the HTML theme by name (themes.Names); default
+// themes.Default.
+func WithTheme(name string) Option { return func(c *config) { c.theme = name } }
+
+// WithFormats chooses which files Write writes: "html", "markdown",
+// "json"; default all three.
+func WithFormats(formats ...string) Option {
+	return func(c *config) { c.formats = slices.Clone(formats) }
+}
+
+func newConfig(opts []Option) config {
+	c := config{theme: themes.Default, formats: []string{"html", "markdown", "json"}}
+	for _, o := range opts {
+		o(&c)
+	}
+	return c
+}
+
+// Files maps each format to the file name Write gives it.
+var Files = map[string]string{"html": "diff.html", "markdown": "diff.md", "json": "diff.json"}
+
+// Write writes the chosen formats of res into dir (created if needed).
+// Each file is first written under a temporary name in dir and all are
+// renamed into place only when every one was written, so a failure leaves
+// the previous files as they were.
+func Write(dir string, res *compare.Result, opts ...Option) error {
+	c := newConfig(opts)
+	type out struct{ tmp, final string }
+	var done []out
+	cleanup := func() {
+		for _, o := range done {
+			os.Remove(o.tmp)
+		}
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fmt.Errorf("creating the output folder: %w", err)
+	}
+	for _, f := range c.formats {
+		name, ok := Files[f]
+		if !ok {
+			cleanup()
+			return fmt.Errorf("unknown format %q: want html, markdown or json", f)
+		}
+		var buf bytes.Buffer
+		var err error
+		switch f {
+		case "html":
+			err = HTML(&buf, res, opts...)
+		case "markdown":
+			err = Markdown(&buf, res)
+		case "json":
+			err = compare.Write(&buf, res)
+		}
+		if err != nil {
+			cleanup()
+			return err
+		}
+		tmp, err := os.CreateTemp(dir, "."+name+".*.tmp")
+		if err != nil {
+			cleanup()
+			return fmt.Errorf("writing %s: %w", name, err)
+		}
+		done = append(done, out{tmp.Name(), filepath.Join(dir, name)})
+		_, werr := tmp.Write(buf.Bytes())
+		cerr := tmp.Close()
+		if werr != nil || cerr != nil {
+			cleanup()
+			return fmt.Errorf("writing %s: %w", name, firstErr(werr, cerr))
+		}
+		if err := os.Chmod(tmp.Name(), 0o644); err != nil {
+			cleanup()
+			return fmt.Errorf("writing %s: %w", name, err)
+		}
+	}
+	for i, o := range done {
+		if err := os.Rename(o.tmp, o.final); err != nil {
+			for _, rest := range done[i:] {
+				os.Remove(rest.tmp)
+			}
+			return fmt.Errorf("writing %s: %w", filepath.Base(o.final), err)
+		}
+	}
+	return nil
+}
+
+func firstErr(errs ...error) error {
+	for _, e := range errs {
+		if e != nil {
+			return e
+		}
+	}
+	return nil
+}
+
+// HTML writes diff.html.
+func HTML(w io.Writer, res *compare.Result, opts ...Option) error {
+	c := newConfig(opts)
+	css, err := themes.CSS(c.theme)
+	if err != nil {
+		return err
+	}
+	anyNotes := false
+	for _, s := range res.Studies {
+		if len(s.Notes) > 0 || s.OldError != nil || s.NewError != nil {
+			anyNotes = true
+		}
+	}
+	data := struct {
+		R                  *compare.Result
+		CSS                template.CSS // trusted: our own embedded theme files
+		OldTitle, NewTitle string
+		AnyNotes           bool
+	}{res, template.CSS(css), titleOf(res.Old), titleOf(res.New), anyNotes}
+	var buf bytes.Buffer
+	if err := page.ExecuteTemplate(&buf, "page", data); err != nil {
+		return fmt.Errorf("rendering diff.html: %w", err)
+	}
+	_, err = w.Write(buf.Bytes())
+	return err
+}
+
+func titleOf(s compare.Side) string {
+	switch {
+	case s.Title != "":
+		return s.Title
+	case s.File != "":
+		return s.File
+	}
+	return "untitled run"
+}
+
+// Markdown writes diff.md.
+func Markdown(w io.Writer, res *compare.Result) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "# What changed: %s → %s\n\n", md(titleOf(res.Old)), md(titleOf(res.New)))
+	fmt.Fprintf(&b, "Old run: `%s` (bivar %s) · New run: `%s` (bivar %s)  \n", code(orDash(res.Old.File)), md(orDash(res.Old.ToolVersion)), code(orDash(res.New.File)), md(orDash(res.New.ToolVersion)))
+	fmt.Fprintf(&b, "Significance level %g; change tests adjusted across all compared studies: %s.\n\n", res.Alpha, adjustName(res.Adjust))
+	fmt.Fprintf(&b, "> **Caution.** %s\n\n", md(res.Caution))
+	s := res.Summary
+	fmt.Fprintf(&b, "## Summary\n\n- %d studies compared\n- %d with a significant change\n- %d with a changed verdict\n- %d on changed data\n- %d added, %d removed\n",
+		s.Compared, s.Significant, s.VerdictChanged, s.DataChanged, s.Added, s.Removed)
+	for _, n := range res.Notes {
+		fmt.Fprintf(&b, "- %s\n", md(n))
+	}
+	b.WriteString("\n")
+	if len(res.Studies) > 0 {
+		b.WriteString("## Change in correlation and slope\n\n")
+		fmt.Fprintf(&b, "Δ is new − old; p is two-sided, adjusted p in brackets (%s over %d tests). A change is significant when an adjusted p is below %g.\n\n", adjustName(res.Adjust), s.Tested, res.Alpha)
+		b.WriteString("| Study | n old → new | r old → new | Δr | z | p (adj.) | slope old → new | Δslope ± SE | t (df) | p (adj.) | Significant |\n")
+		b.WriteString("|---|--:|--:|--:|--:|--:|--:|--:|--:|--:|---|\n")
+		for _, sc := range res.Studies {
+			rc := "not tested | | | "
+			if r := sc.R; r != nil {
+				rc = fmt.Sprintf("%s → %s | %s | %s | %s (%s)", num(r.Old), num(r.New), signed(r.Delta), fix2(r.Z), pval(r.P), pval(r.PAdjusted))
+			}
+			slc := "not tested | | | "
+			if sl := sc.Slope; sl != nil {
+				slc = fmt.Sprintf("%s → %s | %s ± %s | %s (%d) | %s (%s)", num(sl.Old), num(sl.New), signed(sl.Delta), num(sl.SE), fix2(sl.T), sl.DF, pval(sl.P), pval(sl.PAdjusted))
+			}
+			sig := "no"
+			if sc.Significant {
+				sig = "**yes**"
+			}
+			fmt.Fprintf(&b, "| `%s` | %d → %d | %s | %s | %s |\n", code(sc.ID), sc.OldN, sc.NewN, rc, slc, sig)
+		}
+		b.WriteString("\n## Changed verdicts\n\n")
+		if s.VerdictChanged == 0 {
+			b.WriteString("No verdict changed (form, direction, strength, outlier-driven).\n\n")
+		} else {
+			b.WriteString("| Study | Verdict | Old | New |\n|---|---|---|---|\n")
+			for _, sc := range res.Studies {
+				for _, v := range sc.Verdicts {
+					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), verdictName(v.Name), md(v.Old), md(v.New))
+				}
+			}
+			b.WriteString("\n")
+		}
+		var notes []string
+		for _, sc := range res.Studies {
+			for _, n := range sc.Notes {
+				notes = append(notes, fmt.Sprintf("- `%s`: %s", code(sc.ID), md(n)))
+			}
+			if sc.OldError != nil {
+				notes = append(notes, fmt.Sprintf("- `%s`: did not run in the old run: %s", code(sc.ID), md(*sc.OldError)))
+			}
+			if sc.NewError != nil {
+				notes = append(notes, fmt.Sprintf("- `%s`: did not run in the new run: %s", code(sc.ID), md(*sc.NewError)))
+			}
+		}
+		if len(notes) > 0 {
+			b.WriteString("## Notes per study\n\n" + strings.Join(notes, "\n") + "\n\n")
+		}
+	}
+	b.WriteString("## Studies added and removed\n\n")
+	if len(res.Added)+len(res.Removed) == 0 {
+		b.WriteString("None: both runs hold the same studies.\n\n")
+	} else {
+		for _, a := range res.Added {
+			fmt.Fprintf(&b, "- added: `%s` — %s vs %s\n", code(a.ID), md(a.Y), md(a.X))
+		}
+		for _, r := range res.Removed {
+			fmt.Fprintf(&b, "- removed: `%s` — %s vs %s\n", code(r.ID), md(r.Y), md(r.X))
+		}
+		b.WriteString("\n")
+	}
+	if len(res.Datasets) > 0 {
+		b.WriteString("## Data files\n\n| Dataset | Status | Old (rows, SHA-256) | New (rows, SHA-256) |\n|---|---|---|---|\n")
+		for _, d := range res.Datasets {
+			side := func(file string, rows int, sha string) string {
+				if sha == "" {
+					return "—"
+				}
+				return fmt.Sprintf("`%s` (%d, `%s`)", code(file), rows, short(sha))
+			}
+			fmt.Fprintf(&b, "| `%s` | %s | %s | %s |\n", code(d.ID), d.Status, side(d.OldFile, d.OldRows, d.OldSHA256), side(d.NewFile, d.NewRows, d.NewSHA256))
+		}
+		b.WriteString("\n")
+	}
+	b.WriteString("## How the changes were tested, and what they cannot show\n\n")
+	fmt.Fprintf(&b, "- Change in r: %s.\n- Change in slope: %s.\n", md(res.Tests.Correlation), md(res.Tests.Slope))
+	for _, l := range res.Limitations {
+		fmt.Fprintf(&b, "- %s\n", md(l))
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func orDash(s string) string {
+	if s == "" {
+		return "—"
+	}
+	return s
+}
+
+// num writes a number with 4 significant digits, "—" when undefined.
+func num(f report.Float) string {
+	if !f.Valid() {
+		return "—"
+	}
+	v := float64(f)
+	if v == 0 {
+		return "0"
+	}
+	a := math.Abs(v)
+	if a >= 1e6 || a < 1e-4 {
+		return strconv.FormatFloat(v, 'e', 3, 64)
+	}
+	return strconv.FormatFloat(v, 'g', 4, 64)
+}
+
+// signed is num with an explicit + on positive values.
+func signed(f report.Float) string {
+	s := num(f)
+	if f.Valid() && float64(f) > 0 {
+		return "+" + s
+	}
+	return s
+}
+
+// fix2 writes a test statistic with two decimals.
+func fix2(f report.Float) string {
+	if !f.Valid() {
+		if math.IsInf(float64(f), 0) {
+			return strconv.FormatFloat(float64(f), 'f', 0, 64)
+		}
+		return "—"
+	}
+	return strconv.FormatFloat(float64(f), 'f', 2, 64)
+}
+
+// pval writes a p-value: three significant digits, "< 0.0001" below.
+func pval(f report.Float) string {
+	if !f.Valid() {
+		return "—"
+	}
+	v := float64(f)
+	if v < 1e-4 {
+		return "< 0.0001"
+	}
+	return strconv.FormatFloat(v, 'g', 3, 64)
+}
+
+// short is the first 12 hex digits of a SHA-256, enough to tell files apart
+// by eye; the full hash is in diff.json and the HTML title.
+func short(sha string) string {
+	if len(sha) > 12 {
+		return sha[:12]
+	}
+	return sha
+}
+
+func adjustName(a string) string {
+	switch a {
+	case "holm":
+		return "Holm's step-down method"
+	case "bh":
+		return "Benjamini–Hochberg"
+	case "none":
+		return "no adjustment"
+	}
+	return a
+}
+
+func verdictName(n string) string {
+	if n == "outlier_driven" {
+		return "outlier-driven"
+	}
+	return n
+}
+
+// md escapes text for Markdown: the characters it gives a meaning, the
+// pipe that ends a table cell, and line breaks.
+func md(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		switch r {
+		case '\\', '`', '*', '_', '[', ']', '<', '>', '|', '#', '&', '!':
+			b.WriteByte('\\')
+			b.WriteRune(r)
+		case '\n', '\r', '\t':
+			b.WriteByte(' ')
+		default:
+			b.WriteRune(r)
+		}
+	}
+	return b.String()
+}
+
+// code makes s safe inside a one-backtick code span (and a table cell).
+func code(s string) string {
+	return strings.NewReplacer("`", "'", "\n", " ", "\r", " ", "|", "\\|").Replace(s)
+}

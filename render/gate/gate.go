@@ -1,0 +1,265 @@
+// Package gate writes what a CI job needs from a run: JUnit XML with one
+// test case per expectation per study, and a short Markdown summary for the
+// job page. It reads the Report only; the expectations were evaluated by
+// the analysis.
+//
+// The JUnit XML follows the common form that CI servers read (one
+// <testsuites> root, one <testsuite> per study that declares expectations,
+// one <testcase> per expectation named after its manifest key, class name
+// "bivar.<study id>"). A failed expectation is a <failure>; an expectation
+// of a study that could not run is an <error> carrying the study's error.
+// Every text is escaped by encoding/xml, which also replaces characters
+// that XML 1.0 does not allow.
+package gate
+
+import (
+	"bytes"
+	"encoding/xml"
+	"fmt"
+	"io"
+	"strings"
+
+	"bivar/analysis/report"
+)
+
+// Counts are the totals over a report's expectations.
+type Counts struct {
+	Studies      int // studies in the report
+	StudyErrors  int // studies that did not run
+	Expectations int // expectations declared, over all studies
+	Failed       int // expectations that did not hold (in studies that ran)
+	Errored      int // expectations of studies that did not run
+}
+
+// Passed reports whether every expectation held and every study ran.
+func (c Counts) Passed() bool { return c.Failed == 0 && c.Errored == 0 && c.StudyErrors == 0 }
+
+// Count totals the expectations of r.
+func Count(r *report.Report) Counts {
+	var c Counts
+	c.Studies = len(r.Studies)
+	for _, s := range r.Studies {
+		if s.Error != nil {
+			c.StudyErrors++
+		}
+		for _, e := range s.Expectations {
+			c.Expectations++
+			switch {
+			case s.Error != nil:
+				c.Errored++
+			case !e.OK:
+				c.Failed++
+			}
+		}
+	}
+	return c
+}
+
+type junitSuites struct {
+	XMLName  xml.Name     `xml:"testsuites"`
+	Name     string       `xml:"name,attr"`
+	Tests    int          `xml:"tests,attr"`
+	Failures int          `xml:"failures,attr"`
+	Errors   int          `xml:"errors,attr"`
+	Suites   []junitSuite `xml:"testsuite"`
+}
+
+type junitSuite struct {
+	Name       string          `xml:"name,attr"`
+	Tests      int             `xml:"tests,attr"`
+	Failures   int             `xml:"failures,attr"`
+	Errors     int             `xml:"errors,attr"`
+	Skipped    int             `xml:"skipped,attr"`
+	Properties []junitProperty `xml:"properties>property,omitempty"`
+	Cases      []junitCase     `xml:"testcase"`
+}
+
+type junitProperty struct {
+	Name  string `xml:"name,attr"`
+	Value string `xml:"value,attr"`
+}
+
+type junitCase struct {
+	Name      string        `xml:"name,attr"`
+	Classname string        `xml:"classname,attr"`
+	Failure   *junitProblem `xml:"failure,omitempty"`
+	Error     *junitProblem `xml:"error,omitempty"`
+	SystemOut string        `xml:"system-out,omitempty"`
+}
+
+type junitProblem struct {
+	Message string `xml:"message,attr"`
+	Type    string `xml:"type,attr"`
+	Text    string `xml:",chardata"`
+}
+
+// JUnit writes r's expectations as JUnit XML. A report without any
+// expectation gives a valid document with no test cases.
+func JUnit(w io.Writer, r *report.Report) error {
+	root := junitSuites{Name: suiteName(r)}
+	for _, s := range r.Studies {
+		if len(s.Expectations) == 0 {
+			continue
+		}
+		suite := junitSuite{
+			Name: s.ID,
+			Properties: []junitProperty{
+				{Name: "dataset", Value: s.Dataset},
+				{Name: "x", Value: s.X.Column},
+				{Name: "y", Value: s.Y.Column},
+				{Name: "n", Value: fmt.Sprint(s.N)},
+			},
+		}
+		if sha := datasetSHA(r, s.Dataset); sha != "" {
+			suite.Properties = append(suite.Properties, junitProperty{Name: "dataset_sha256", Value: sha})
+		}
+		for _, e := range s.Expectations {
+			c := junitCase{Name: e.Name, Classname: "bivar." + s.ID,
+				SystemOut: fmt.Sprintf("want %s; got %s. %s", e.Want, e.Got, e.Detail)}
+			switch {
+			case s.Error != nil:
+				c.Error = &junitProblem{Message: "the study did not run: " + *s.Error, Type: "study-error", Text: *s.Error}
+				suite.Errors++
+			case !e.OK:
+				c.Failure = &junitProblem{Message: fmt.Sprintf("%s: want %s, got %s", e.Name, e.Want, e.Got), Type: "expectation",
+					Text: strings.TrimSpace(fmt.Sprintf("study %s (%s vs %s): %s", s.ID, label(s.Y), label(s.X), e.Detail))}
+				suite.Failures++
+			}
+			suite.Cases = append(suite.Cases, c)
+		}
+		suite.Tests = len(suite.Cases)
+		root.Tests += suite.Tests
+		root.Failures += suite.Failures
+		root.Errors += suite.Errors
+		root.Suites = append(root.Suites, suite)
+	}
+	var buf bytes.Buffer
+	buf.WriteString(xml.Header)
+	enc := xml.NewEncoder(&buf)
+	enc.Indent("", "  ")
+	if err := enc.Encode(root); err != nil {
+		return fmt.Errorf("gate: encoding JUnit XML: %w", err)
+	}
+	buf.WriteByte('\n')
+	_, err := w.Write(buf.Bytes())
+	return err
+}
+
+func suiteName(r *report.Report) string {
+	if r.Manifest.Title != "" {
+		return "bivar: " + r.Manifest.Title
+	}
+	if r.Manifest.File != "" {
+		return "bivar: " + r.Manifest.File
+	}
+	return "bivar"
+}
+
+func datasetSHA(r *report.Report, id string) string {
+	for _, d := range r.Datasets {
+		if d.ID == id {
+			return d.SHA256
+		}
+	}
+	return ""
+}
+
+func label(v report.Variable) string {
+	if v.Label != "" {
+		return v.Label
+	}
+	return v.Column
+}
+
+// Summary writes a Markdown summary for a CI job page: the verdict in one
+// line, then a table of every expectation, failures first within a study,
+// studies in report order, then the studies that did not run.
+func Summary(w io.Writer, r *report.Report) error {
+	c := Count(r)
+	var b strings.Builder
+	title := r.Manifest.Title
+	if title == "" {
+		title = r.Manifest.File
+	}
+	fmt.Fprintf(&b, "## bivar check: %s\n\n", md(title))
+	switch {
+	case c.Expectations == 0 && c.StudyErrors == 0:
+		fmt.Fprintf(&b, "**No expectations declared** in %d studies; nothing was gated. Add a `[study.expect]` table to gate a study.\n\n", c.Studies)
+	case c.Passed():
+		fmt.Fprintf(&b, "**Passed**: all %d expectations held in %d studies.\n\n", c.Expectations, c.Studies)
+	default:
+		fmt.Fprintf(&b, "**Failed**: %d of %d expectations did not hold", c.Failed, c.Expectations)
+		if c.StudyErrors > 0 {
+			fmt.Fprintf(&b, "; %d of %d studies did not run", c.StudyErrors, c.Studies)
+		}
+		b.WriteString(".\n\n")
+	}
+	if c.Expectations > 0 {
+		b.WriteString("| Study | Expectation | Want | Got | Result |\n|---|---|---|---|---|\n")
+		for _, s := range r.Studies {
+			for pass := 0; pass < 2; pass++ { // failures first
+				for _, e := range s.Expectations {
+					bad := s.Error != nil || !e.OK
+					if bad != (pass == 0) {
+						continue
+					}
+					result := "held"
+					switch {
+					case s.Error != nil:
+						result = "**not evaluated**"
+					case !e.OK:
+						result = "**failed**"
+					}
+					fmt.Fprintf(&b, "| %s | %s | %s | %s | %s |\n", md(s.ID), md(e.Name), md(e.Want), md(e.Got), result)
+				}
+			}
+		}
+		b.WriteString("\n")
+	}
+	var fails []string
+	for _, s := range r.Studies {
+		for _, e := range s.Expectations {
+			if s.Error == nil && !e.OK && e.Detail != "" {
+				fails = append(fails, fmt.Sprintf("- `%s` %s: %s", code(s.ID), md(e.Name), md(e.Detail)))
+			}
+		}
+	}
+	if len(fails) > 0 {
+		b.WriteString("Why they failed:\n\n" + strings.Join(fails, "\n") + "\n\n")
+	}
+	if c.StudyErrors > 0 {
+		b.WriteString("Studies that did not run:\n\n")
+		for _, s := range r.Studies {
+			if s.Error != nil {
+				fmt.Fprintf(&b, "- `%s`: %s\n", code(s.ID), md(*s.Error))
+			}
+		}
+		b.WriteString("\n")
+	}
+	fmt.Fprintf(&b, "_%s_\n", md(report.Caution))
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// md escapes text for a Markdown table cell or paragraph: the characters
+// Markdown gives a meaning, the pipe that ends a cell, and line breaks.
+func md(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		switch r {
+		case '\\', '`', '*', '_', '[', ']', '<', '>', '|', '#', '&', '!':
+			b.WriteByte('\\')
+			b.WriteRune(r)
+		case '\n', '\r', '\t':
+			b.WriteByte(' ')
+		default:
+			b.WriteRune(r)
+		}
+	}
+	return b.String()
+}
+
+// code makes s safe inside a one-backtick code span.
+func code(s string) string {
+	return strings.NewReplacer("`", "'", "\n", " ", "\r", " ").Replace(s)
+}

@@ -1,9 +1,13 @@
 // Package manifest defines bivar's TOML manifest: its schema as Go types,
-// decoding with BurntSushi/toml, validation, and the defaults (all in
-// Defaults below, the one place they are written down).
+// decoding with BurntSushi/toml, validation, and the defaults (all in the
+// Default… constants and functions in this file, the one place they are
+// written down).
 //
-// Errors carry the manifest's file name and the line (and column where the
-// decoder knows it) of the offending key.
+// Load checks every key against the schema with its exact spelling (the
+// TOML decoder alone matches keys case-insensitively and ignores unknown
+// ones), checks value types, then decodes into the types below and
+// validates the values. It reports every problem it finds, not only the
+// first, each as an *Error naming the manifest file, line and column.
 package manifest
 
 // Manifest is a decoded and validated manifest. Paths in Dataset.File are
@@ -86,6 +90,32 @@ type AlsoIn struct {
 	Y []string `toml:"y"`
 }
 
+// UnmarshalTOML accepts x and y as one string or a list of strings. Load has
+// already checked the value types and the keys, so anything else is ignored
+// here.
+func (a *AlsoIn) UnmarshalTOML(v any) error {
+	m, _ := v.(map[string]any)
+	a.X = stringOrList(m["x"])
+	a.Y = stringOrList(m["y"])
+	return nil
+}
+
+func stringOrList(v any) []string {
+	switch v := v.(type) {
+	case string:
+		return []string{v}
+	case []any:
+		out := make([]string, 0, len(v))
+		for _, e := range v {
+			if s, ok := e.(string); ok {
+				out = append(out, s)
+			}
+		}
+		return out
+	}
+	return nil
+}
+
 // Expect are the study's CI gates; nil fields are not checked.
 type Expect struct {
 	Direction        string    `toml:"direction"` // positive | negative | none
@@ -100,20 +130,52 @@ type Expect struct {
 	Line int `toml:"-"`
 }
 
-// Defaults are the values a manifest gets for keys it leaves out.
-var Defaults = struct {
-	Design, Adjust, OutputDir, Theme, NonNumeric string
-	Alpha                                        float64
-	Seed                                         uint64
-	Formats, Missing                             []string
-}{
-	Design:     "observational",
-	Adjust:     "holm",
-	OutputDir:  "report",
-	Theme:      "paper",
-	NonNumeric: "error",
-	Alpha:      0.05,
-	Seed:       20261201,
-	Formats:    []string{"html", "markdown", "json"},
-	Missing:    []string{"", "NA"},
+// Defaults: the values a manifest gets for the keys it leaves out. They are
+// written down here and nowhere else; the finding thresholds' defaults are
+// findings.DefaultThresholds.
+const (
+	DefaultDesign     = "observational" // design
+	DefaultAlpha      = 0.05            // alpha
+	DefaultAdjust     = "holm"          // adjust
+	DefaultSeed       = 20261201        // seed
+	DefaultOutputDir  = "report"        // output.dir, relative to the manifest's folder
+	DefaultTheme      = "paper"         // output.theme
+	DefaultNonNumeric = "error"         // dataset.non_numeric
+)
+
+// DefaultFormats is output.formats when left out: every format.
+func DefaultFormats() []string { return []string{"html", "markdown", "json"} }
+
+// DefaultMissing is dataset.missing when left out: an empty cell or NA.
+func DefaultMissing() []string { return []string{"", "NA"} }
+
+// The allowed values of the keys that take one word from a list. Each
+// function returns a fresh slice, in the order the messages list them.
+
+// Designs are the values of design: they choose what the report may say
+// about cause.
+func Designs() []string {
+	return []string{"observational", "designed-experiment", "randomized-experiment"}
 }
+
+// Adjustments are the values of adjust: Holm's step-down family-wise
+// method, Benjamini–Hochberg false discovery rate, or none.
+func Adjustments() []string { return []string{"holm", "bh", "none"} }
+
+// Formats are the values of output.formats.
+func Formats() []string { return []string{"html", "markdown", "json"} }
+
+// NonNumericPolicies are the values of dataset.non_numeric.
+func NonNumericPolicies() []string { return []string{"error", "missing"} }
+
+// Decimals are the values of dataset.decimal ("" or left out: detect).
+func Decimals() []string { return []string{".", ","} }
+
+// Delimiters are the values of dataset.delimiter ("" or left out: detect).
+func Delimiters() []string { return []string{",", ";", "\t"} }
+
+// Directions are the values of expect.direction.
+func Directions() []string { return []string{"positive", "negative", "none"} }
+
+// Forms are the values of expect.form.
+func Forms() []string { return []string{"linear", "curved", "nonlinear", "none"} }

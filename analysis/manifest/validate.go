@@ -1,0 +1,293 @@
+package manifest
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+
+	"bivar/analysis/internal/suggest"
+)
+
+// locate fills the Line fields from the source index.
+func (p *parser) locate(m *Manifest) {
+	for i := range m.Datasets {
+		if at, ok := p.ix.lookup("dataset#"+strconv.Itoa(i), "dataset"); ok {
+			m.Datasets[i].Line = at.line
+		}
+	}
+	for i := range m.Studies {
+		owner := "study#" + strconv.Itoa(i)
+		if at, ok := p.ix.lookup(owner, "study"); ok {
+			m.Studies[i].Line = at.line
+		}
+		if e := m.Studies[i].Expect; e != nil {
+			if at, ok := p.ix.lookup(owner, "study.expect"); ok {
+				e.Line = at.line
+			}
+		}
+	}
+}
+
+// defaults fills in what the manifest left out (see the Default… constants).
+func (p *parser) defaults(m *Manifest, md *toml.MetaData) {
+	if m.Design == "" {
+		m.Design = DefaultDesign
+	}
+	if !md.IsDefined("alpha") {
+		m.Alpha = DefaultAlpha
+	}
+	if m.Adjust == "" {
+		m.Adjust = DefaultAdjust
+	}
+	if !md.IsDefined("seed") {
+		m.Seed = DefaultSeed
+	}
+	if m.Output.Dir == "" {
+		m.Output.Dir = DefaultOutputDir
+	}
+	if m.Output.Formats == nil {
+		m.Output.Formats = DefaultFormats()
+	}
+	if m.Output.Theme == "" {
+		m.Output.Theme = DefaultTheme
+	}
+	for i := range m.Datasets {
+		d := &m.Datasets[i]
+		if d.Missing == nil {
+			d.Missing = DefaultMissing()
+		}
+		if d.NonNumeric == "" {
+			d.NonNumeric = DefaultNonNumeric
+		}
+	}
+}
+
+// oneOf checks that v is one of allowed; what names the key for people.
+func (p *parser) oneOf(owner, key, v string, allowed []string) {
+	for _, a := range allowed {
+		if v == a {
+			return
+		}
+	}
+	quoted := make([]string, len(allowed))
+	for i, a := range allowed {
+		quoted[i] = strconv.Quote(a)
+	}
+	hint := ""
+	if near := suggest.Nearest(v, allowed); near != "" {
+		hint = fmt.Sprintf(" — did you mean %q?", near)
+	}
+	p.add(owner, key, "%s = %q is not allowed%s; use one of %s", key, v, hint, strings.Join(quoted, ", "))
+}
+
+// validID: ids become file and anchor names and JSON keys of diffs.
+func validID(id string) bool {
+	for _, r := range id {
+		if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || r == '-' || r == '_' || r == '.') {
+			return false
+		}
+	}
+	return id != ""
+}
+
+func (p *parser) validate(m *Manifest) {
+	p.oneOf("", "design", m.Design, Designs())
+	p.oneOf("", "adjust", m.Adjust, Adjustments())
+	if !(m.Alpha > 0 && m.Alpha <= 0.5) {
+		p.add("", "alpha", "alpha = %v is outside (0, 0.5]: give the significance level as a fraction, such as 0.05", m.Alpha)
+	}
+	seen := map[string]bool{}
+	for _, f := range m.Output.Formats {
+		p.oneOf("", "output.formats", f, Formats())
+		if seen[f] {
+			p.add("", "output.formats", "output.formats lists %q twice", f)
+		}
+		seen[f] = true
+	}
+	if len(m.Output.Formats) == 0 {
+		p.add("", "output.formats", "output.formats is empty: list at least one of %s", strings.Join(Formats(), ", "))
+	}
+	if !filepath.IsAbs(m.Output.Dir) {
+		m.Output.Dir = filepath.Join(m.Dir, m.Output.Dir)
+	}
+	p.thresholds(&m.Thresholds)
+
+	if len(m.Datasets) == 0 {
+		p.addAt(pos{}, "dataset", "no [[dataset]] declared: a manifest needs at least one dataset and one study")
+	}
+	if len(m.Studies) == 0 {
+		p.addAt(pos{}, "study", "no [[study]] declared: a manifest needs at least one study")
+	}
+
+	datasets := map[string]int{} // id -> index
+	var ids []string
+	for i := range m.Datasets {
+		d := &m.Datasets[i]
+		owner := "dataset#" + strconv.Itoa(i)
+		switch {
+		case d.ID == "":
+			p.add(owner, "dataset.id", "[[dataset]] number %d has no id: add id = \"…\" (a short name the studies refer to)", i+1)
+		case !validID(d.ID):
+			p.add(owner, "dataset.id", "dataset id %q may hold only letters, digits, '-', '_' and '.'", d.ID)
+		default:
+			if j, dup := datasets[d.ID]; dup {
+				p.add(owner, "dataset.id", "dataset id %q is used twice (first at line %d)", d.ID, m.Datasets[j].Line)
+			} else {
+				datasets[d.ID] = i
+				ids = append(ids, d.ID)
+			}
+		}
+		name := d.ID
+		if name == "" {
+			name = "number " + strconv.Itoa(i+1)
+		}
+		if d.File == "" {
+			p.add(owner, "dataset.file", "dataset %q has no file: add file = \"…\" (a CSV path, relative to the manifest's folder)", name)
+		} else {
+			rel := d.File
+			if !filepath.IsAbs(d.File) {
+				d.File = filepath.Join(m.Dir, d.File)
+			}
+			if st, err := os.Stat(d.File); err != nil {
+				p.add(owner, "dataset.file", "dataset %q: file %q not found (looked for %s)", name, rel, d.File)
+			} else if st.IsDir() {
+				p.add(owner, "dataset.file", "dataset %q: %q is a folder, not a CSV file", name, rel)
+			}
+		}
+		if d.Delimiter != "" {
+			p.oneOf(owner, "dataset.delimiter", d.Delimiter, Delimiters())
+		}
+		if d.Decimal != "" {
+			p.oneOf(owner, "dataset.decimal", d.Decimal, Decimals())
+		}
+		if d.Delimiter == "," && d.Decimal == "," {
+			p.add(owner, "dataset.decimal", "dataset %q: decimal = \",\" with delimiter = \",\" works only when every number is quoted; check the file, or use delimiter = \";\"", name)
+		}
+		p.oneOf(owner, "dataset.non_numeric", d.NonNumeric, NonNumericPolicies())
+	}
+
+	studies := map[string]int{}
+	for i := range m.Studies {
+		s := &m.Studies[i]
+		owner := "study#" + strconv.Itoa(i)
+		name := s.ID
+		switch {
+		case s.ID == "":
+			name = "number " + strconv.Itoa(i+1)
+			p.add(owner, "study.id", "[[study]] number %d has no id: add id = \"…\" (a short name, used in reports and in diffs between runs)", i+1)
+		case !validID(s.ID):
+			p.add(owner, "study.id", "study id %q may hold only letters, digits, '-', '_' and '.'", s.ID)
+		default:
+			if j, dup := studies[s.ID]; dup {
+				p.add(owner, "study.id", "study id %q is used twice (first at line %d)", s.ID, m.Studies[j].Line)
+			} else {
+				studies[s.ID] = i
+			}
+		}
+		switch {
+		case s.Dataset == "":
+			p.add(owner, "study.dataset", "study %q has no dataset: add dataset = \"…\" naming one of: %s", name, strings.Join(ids, ", "))
+		default:
+			if _, ok := datasets[s.Dataset]; !ok {
+				hint := ""
+				if near := suggest.Nearest(s.Dataset, ids); near != "" {
+					hint = fmt.Sprintf(" — did you mean %q?", near)
+				}
+				p.add(owner, "study.dataset", "study %q: dataset %q is not declared%s (declared: %s)", name, s.Dataset, hint, strings.Join(ids, ", "))
+			}
+		}
+		if s.X == "" {
+			p.add(owner, "study.x", "study %q has no x: add x = \"…\" (the column of the explanatory variable)", name)
+		}
+		if s.Y == "" {
+			p.add(owner, "study.y", "study %q has no y: add y = \"…\" (the column of the response)", name)
+		}
+		if s.X != "" && s.X == s.Y {
+			p.add(owner, "study.y", "study %q: x and y are the same column %q", name, s.X)
+		}
+		for _, c := range s.Covariates {
+			if c == s.X || c == s.Y {
+				p.add(owner, "study.covariates", "study %q: covariate %q is x or y itself; list other columns", name, c)
+			}
+		}
+		for _, v := range s.PredictAt {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				p.add(owner, "study.predict_at", "study %q: predict_at holds %v; give finite x values", name, v)
+			}
+		}
+		if s.Expect != nil {
+			p.expect(owner, name, s.Expect)
+		}
+	}
+}
+
+func (p *parser) expect(owner, name string, e *Expect) {
+	if e.Direction != "" {
+		p.oneOf(owner, "study.expect.direction", e.Direction, Directions())
+	}
+	if e.Form != "" {
+		p.oneOf(owner, "study.expect.form", e.Form, Forms())
+	}
+	if e.MinAbsR != nil && !(*e.MinAbsR >= 0 && *e.MinAbsR <= 1) {
+		p.add(owner, "study.expect.min_abs_r", "study %q: expect.min_abs_r = %v is outside [0, 1]", name, *e.MinAbsR)
+	}
+	if e.RWithin != nil {
+		p.interval(owner, name, "r_within", e.RWithin, -1, 1)
+	}
+	if e.SlopeWithin != nil {
+		p.interval(owner, name, "slope_within", e.SlopeWithin, math.Inf(-1), math.Inf(1))
+	}
+	if e.MaxP != nil && !(*e.MaxP > 0 && *e.MaxP <= 1) {
+		p.add(owner, "study.expect.max_p", "study %q: expect.max_p = %v is outside (0, 1]", name, *e.MaxP)
+	}
+	if e.MinN != nil && *e.MinN < 3 {
+		p.add(owner, "study.expect.min_n", "study %q: expect.min_n = %d is below 3, the fewest rows a study runs on", name, *e.MinN)
+	}
+}
+
+func (p *parser) interval(owner, name, key string, v []float64, lo, hi float64) {
+	ok := len(v) == 2 && !math.IsNaN(v[0]) && !math.IsNaN(v[1]) && v[0] <= v[1] && v[0] >= lo && v[1] <= hi
+	if ok {
+		return
+	}
+	rng := ""
+	if !math.IsInf(lo, 0) {
+		rng = fmt.Sprintf(", both in [%v, %v]", lo, hi)
+	}
+	p.add(owner, "study.expect."+key, "study %q: expect.%s must be two numbers [low, high] with low ≤ high%s; got %v", name, key, rng, v)
+}
+
+func (p *parser) thresholds(t *Thresholds) {
+	frac := func(key string, v *float64) {
+		if v != nil && !(*v > 0 && *v < 1) {
+			p.add("", "thresholds."+key, "thresholds.%s = %v is outside (0, 1)", key, *v)
+		}
+	}
+	pos := func(key string, v *float64) {
+		if v != nil && !(*v > 0) || v != nil && math.IsInf(*v, 0) {
+			p.add("", "thresholds."+key, "thresholds.%s = %v must be a positive number", key, *v)
+		}
+	}
+	frac("strong", t.Strong)
+	frac("moderate", t.Moderate)
+	frac("weak", t.Weak)
+	frac("curve_gain_r2", t.CurveGainR2)
+	frac("nonlinear_dcor", t.NonlinearDcor)
+	pos("leverage_factor", t.LeverageFactor)
+	pos("outlier_z", t.OutlierZ)
+	pos("cooks_d", t.CooksD)
+	if t.Strong != nil && t.Moderate != nil && *t.Moderate >= *t.Strong {
+		p.add("", "thresholds.moderate", "thresholds.moderate = %v must be below thresholds.strong = %v", *t.Moderate, *t.Strong)
+	}
+	if t.Moderate != nil && t.Weak != nil && *t.Weak >= *t.Moderate {
+		p.add("", "thresholds.weak", "thresholds.weak = %v must be below thresholds.moderate = %v", *t.Weak, *t.Moderate)
+	}
+	if t.ReversalMinGroup != nil && *t.ReversalMinGroup < 3 {
+		p.add("", "thresholds.reversal_min_group", "thresholds.reversal_min_group = %d is below 3, the fewest rows a fit needs", *t.ReversalMinGroup)
+	}
+}

@@ -55,10 +55,16 @@ type Thresholds struct {
 	Weak             float64 `json:"weak"`               // |r| at or above: weak, below: none (0.1)
 	LeverageFactor   float64 `json:"leverage_factor"`    // high leverage when h > factor·p/n (2)
 	OutlierZ         float64 `json:"outlier_z"`          // outlier when |externally studentized| > this (3)
-	CooksD           float64 `json:"cooks_d"`            // influential when Cook's D > this·… (see findings)
+	CooksD           float64 `json:"cooks_d"`            // influential when Cook's D > this quantile of F(p, n−p) (0.5; see findings)
 	CurveGainR2      float64 `json:"curve_gain_r2"`      // curved needs the quadratic to add at least this R² (0.05)
 	NonlinearDcor    float64 `json:"nonlinear_dcor"`     // nonlinear when dcor at or above this while |r| is weak (0.3)
 	ReversalMinGroup int     `json:"reversal_min_group"` // smallest group used in the reversal check (5)
+	// OutlierFamilyAlpha sets the Bonferroni bound for outliers: |t| must also
+	// exceed t(1 − a/(2n), n − 3) (0.05; 0 turns the bound off).
+	OutlierFamilyAlpha float64 `json:"outlier_family_alpha"`
+	// DriftDW: with a run order, Durbin–Watson below this or above 4 − this
+	// counts as drift (1.5).
+	DriftDW float64 `json:"drift_dw"`
 }
 
 // Dataset is one data file as read.
@@ -380,6 +386,10 @@ type Findings struct {
 	Headline      string   `json:"headline"`
 	Statements    []string `json:"statements"`
 	Limits        []string `json:"limits"`
+
+	// ExplainedBy lists the covariates given which the association is no
+	// longer shown (partial r's interval includes 0, or it turns sign).
+	ExplainedBy []string `json:"explained_by"`
 }
 
 // Expectation is one CI gate from [study.expect] and its outcome.

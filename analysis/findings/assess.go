@@ -1,0 +1,701 @@
+package findings
+
+// This file holds Assess: the verdicts of one study, decided from the
+// numbers already in the study, and the statements and limits that carry
+// them in words.
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"strings"
+
+	"bivar/analysis/report"
+	"bivar/analysis/stats"
+)
+
+// Designs named by the manifest's `design`.
+const (
+	Observational        = "observational"
+	DesignedExperiment   = "designed-experiment"
+	RandomizedExperiment = "randomized-experiment"
+)
+
+// Context is what Assess needs besides the study: the manifest's
+// significance level and design, and the cut points in force.
+type Context struct {
+	Alpha      float64 // significance level; 0 means 0.05
+	Design     string  // observational | designed-experiment | randomized-experiment; "" means observational
+	Thresholds report.Thresholds
+}
+
+// facts are the verdicts and the numbers behind them, gathered before any
+// sentence is written.
+type facts struct {
+	s     *report.Study
+	alpha float64
+	th    report.Thresholds
+	conf  string // "95%"
+	dsg   string // the design, as given
+
+	r, p    float64 // Pearson r and its adjusted p
+	adj     float64 // p_adjusted / p: the factor the adjustment applied
+	dir     string
+	linSig  bool
+	quad    *report.Fit
+	b2      float64
+	gain    float64
+	curved  bool
+	nonlin  bool
+	dcor    *report.DistanceCorr
+	lof     bool
+	xLabel  string
+	yLabel  string
+	without string // direction without the suspect rows; "undefined" when r cannot be computed
+}
+
+// Assess returns the verdicts for a study whose statistics are filled, or
+// nil for a study that failed (Error set or no Pearson section). It reads
+// only numbers in s: the adjusted p of r, the quadratic model and its
+// vertex, the diagnostics, partial and per-group fits, the influence
+// points and the sensitivity figures. The rules, with their cut points
+// from ctx.Thresholds (zero value: DefaultThresholds):
+//
+//   - direction: positive or negative when r's adjusted p is below alpha
+//     (its interval at the adjusted level excludes 0), by the sign of r;
+//     otherwise none.
+//   - form: curved when the x² term's p is below alpha, the quadratic as a
+//     whole is significant and it adds at least CurveGainR2 to R²; it bends
+//     down when the x² coefficient is negative, up when positive; it turns
+//     over when the fitted curve's vertex lies inside the observed x range
+//     and the curve changes by at least its residual SE on both sides of
+//     the vertex. Otherwise nonlinear when the distance correlation's p is
+//     below alpha, dcor ≥ NonlinearDcor, dcor > |r| and |r| < Moderate.
+//     Otherwise linear when the direction is not none; otherwise none.
+//   - strength: from |r| and the Strong, Moderate and Weak cut points, and
+//     none when the direction is none; CurveStrength from √R² of the
+//     quadratic by the same cut points, where curved.
+//   - outlier_driven: the direction, recomputed without the flagged rows
+//     (Sensitivity.RWithoutFlagged and its p, with the same adjustment
+//     factor applied), differs from the direction with them — or r cannot
+//     be computed without them, or leaving out a single row turns the
+//     sign of r.
+//   - reversal: at least two groups of ReversalMinGroup rows or more; every
+//     group whose slope interval excludes 0 has the sign opposite to the
+//     pooled direction, there is at least one such group, and most groups
+//     have the opposite sign.
+//   - explained_by: covariates given which the partial correlation's
+//     interval includes 0 or the sign turns, while the pooled direction is
+//     not none.
+//   - drift: only with a declared run order: the residual trend's p is below
+//     alpha, or Durbin–Watson lies outside [DriftDW, 4 − DriftDW].
+//   - spread_changes: Breusch–Pagan p below alpha.
+func Assess(s *report.Study, ctx Context) *report.Findings {
+	if s == nil || s.Error != nil || s.Pearson == nil {
+		return nil
+	}
+	f := &facts{s: s, alpha: ctx.Alpha, th: ctx.Thresholds, dsg: ctx.Design}
+	if !(f.alpha > 0 && f.alpha < 1) {
+		f.alpha = 0.05
+	}
+	if f.th == (report.Thresholds{}) {
+		f.th = DefaultThresholds()
+	}
+	f.conf = num(100*(1-f.alpha)) + "%"
+	f.xLabel, f.yLabel = label(s.X), label(s.Y)
+
+	out := &report.Findings{TurnX: report.NaN(), Statements: []string{}, Limits: []string{}, ExplainedBy: []string{}}
+	f.decide(out)
+	f.write(out)
+	return out
+}
+
+func label(v report.Variable) string {
+	if v.Label != "" {
+		return v.Label
+	}
+	return v.Column
+}
+
+// sign is +1, −1 or 0.
+func sign(v float64) int {
+	switch {
+	case v > 0:
+		return 1
+	case v < 0:
+		return -1
+	}
+	return 0
+}
+
+func dirOf(r float64) string {
+	switch sign(r) {
+	case 1:
+		return "positive"
+	case -1:
+		return "negative"
+	}
+	return "none"
+}
+
+// strengthOf grades |r| by the cut points.
+func (f *facts) strengthOf(a float64) string {
+	switch {
+	case !(a >= f.th.Weak):
+		return "none"
+	case a >= f.th.Strong:
+		return "strong"
+	case a >= f.th.Moderate:
+		return "moderate"
+	}
+	return "weak"
+}
+
+// quadratic returns the study's quadratic model, or nil.
+func quadratic(s *report.Study) *report.Fit {
+	for i := range s.Models {
+		if s.Models[i].Name == "quadratic" {
+			return &s.Models[i]
+		}
+	}
+	return nil
+}
+
+func (f *facts) decide(out *report.Findings) {
+	s := f.s
+	f.r = float64(s.Pearson.R)
+	f.p = float64(s.Pearson.PAdjusted)
+	raw := float64(s.Pearson.P)
+	if math.IsNaN(f.p) {
+		f.p = raw
+	}
+	f.adj = 1
+	if raw > 0 && f.p > raw {
+		f.adj = f.p / raw
+	}
+	f.linSig = !math.IsNaN(f.r) && f.p < f.alpha
+	f.dir = "none"
+	if f.linSig {
+		f.dir = dirOf(f.r)
+	}
+	out.Direction = f.dir
+
+	// Curvature.
+	lineR2 := float64(s.Pearson.R2)
+	if s.Line != nil && s.Line.R2.Valid() {
+		lineR2 = float64(s.Line.R2)
+	}
+	f.quad = quadratic(s)
+	qp := math.NaN()
+	if s.Diagnostics != nil {
+		qp = float64(s.Diagnostics.QuadraticP)
+	}
+	if q := f.quad; q != nil && len(q.Coefficients) == 3 {
+		f.b2 = float64(q.Coefficients[2].Estimate)
+		if math.IsNaN(qp) {
+			qp = float64(q.Coefficients[2].P)
+		}
+		f.gain = float64(q.R2) - lineR2
+		f.curved = qp < f.alpha && float64(q.FP) < f.alpha && f.gain >= f.th.CurveGainR2 && f.b2 != 0
+	}
+	if s.Diagnostics != nil {
+		f.dcor = s.Diagnostics.DistanceCorr
+		if lf := s.Diagnostics.LackOfFit; lf != nil && float64(lf.P) < f.alpha {
+			f.lof = true
+		}
+	}
+	if !f.curved && f.dcor != nil {
+		d := float64(f.dcor.DCor)
+		f.nonlin = float64(f.dcor.P) < f.alpha && d >= f.th.NonlinearDcor && d > math.Abs(f.r) &&
+			!(math.Abs(f.r) >= f.th.Moderate)
+	}
+	switch {
+	case f.curved:
+		out.Form = "curved"
+		bend := "bends-up"
+		if f.b2 < 0 {
+			bend = "bends-down"
+		}
+		out.Bend = &bend
+		if v := float64(f.quad.Vertex); s.Describe != nil && !math.IsNaN(v) {
+			lo, hi := float64(s.Describe.X.Min), float64(s.Describe.X.Max)
+			if v > lo && v < hi {
+				se := float64(f.quad.ResidualSE)
+				left, right := math.Abs(f.b2)*(v-lo)*(v-lo), math.Abs(f.b2)*(hi-v)*(hi-v)
+				if left >= se && right >= se {
+					out.TurnsOver = true
+					out.TurnX = report.Float(v)
+				}
+			}
+		}
+	case f.nonlin:
+		out.Form = "nonlinear"
+	case f.linSig:
+		out.Form = "linear"
+	default:
+		out.Form = "none"
+	}
+
+	// Strength.
+	out.Strength = "none"
+	if f.dir != "none" {
+		out.Strength = f.strengthOf(math.Abs(f.r))
+	}
+	if f.curved {
+		out.CurveStrength = f.strengthOf(math.Sqrt(math.Max(0, float64(f.quad.R2))))
+	}
+
+	// Influence: does the direction survive without the flagged rows?
+	f.without = f.dir
+	if se := s.Sensitivity; se != nil {
+		if se.NFlagged > 0 {
+			rw, pw := float64(se.RWithoutFlagged), float64(se.PWithoutFlagged)
+			switch {
+			case math.IsNaN(rw):
+				f.without = "undefined"
+			case pw*f.adj < f.alpha:
+				f.without = dirOf(rw)
+			default:
+				f.without = "none"
+			}
+		}
+		out.OutlierDriven = f.without != f.dir
+		if f.dir != "none" && se.LooRMin.Valid() && se.LooRMax.Valid() {
+			if sign(float64(se.LooRMin)) != sign(f.r) || sign(float64(se.LooRMax)) != sign(f.r) {
+				out.OutlierDriven = true
+			}
+		}
+	}
+	if s.Influence != nil {
+		for _, p := range s.Influence.Points {
+			if slices.Contains(p.Flags, FlagSoleSupport) && f.dir != "none" {
+				out.OutlierDriven = true
+			}
+		}
+	}
+
+	// Lurking variables.
+	out.Reversal = f.reversal()
+	if f.dir != "none" {
+		for _, pc := range s.Partial {
+			if !pc.R.Valid() {
+				continue
+			}
+			if !(float64(pc.P) < f.alpha) || sign(float64(pc.R)) != sign(f.r) {
+				out.ExplainedBy = append(out.ExplainedBy, pc.Covariate)
+			}
+		}
+	}
+	if d := s.Diagnostics; d != nil {
+		if s.Order != "" {
+			if d.OrderTrend != nil && float64(d.OrderTrend.P) < f.alpha {
+				out.Drift = true
+			}
+			if dw := float64(d.DurbinWatson); f.th.DriftDW > 0 && !math.IsNaN(dw) && (dw < f.th.DriftDW || dw > 4-f.th.DriftDW) {
+				out.Drift = true
+			}
+		}
+		if bp := d.BreuschPagan; bp != nil && float64(bp.P) < f.alpha {
+			out.SpreadChanges = true
+		}
+	}
+}
+
+// qualifying returns the groups large enough for the reversal check.
+func (f *facts) qualifying() []report.GroupFit {
+	var g []report.GroupFit
+	for _, gf := range f.s.Groups {
+		if gf.N >= f.th.ReversalMinGroup && gf.Slope.Valid() {
+			g = append(g, gf)
+		}
+	}
+	return g
+}
+
+func (f *facts) reversal() bool {
+	if f.dir == "none" {
+		return false
+	}
+	g := f.qualifying()
+	if len(g) < 2 {
+		return false
+	}
+	pooled := sign(f.r)
+	opposite, sigOpp, sigSame := 0, 0, 0
+	for _, gf := range g {
+		if sign(float64(gf.Slope)) == -pooled {
+			opposite++
+		}
+		lo, hi := float64(gf.SlopeLow), float64(gf.SlopeHigh)
+		switch {
+		case lo > 0 && pooled < 0, hi < 0 && pooled > 0:
+			sigOpp++
+		case lo > 0 && pooled > 0, hi < 0 && pooled < 0:
+			sigSame++
+		}
+	}
+	return sigOpp > 0 && sigSame == 0 && 2*opposite > len(g)
+}
+
+// spreadGrows reports whether the scatter about the line grows (+1) or
+// shrinks (−1) with x, by Spearman's ρ of |residual| on x from the plot
+// data; 0 when it cannot tell.
+func (f *facts) spreadGrows() int {
+	pl := f.s.Plot
+	if pl == nil || len(pl.X) != len(pl.Residuals) || len(pl.X) < 3 {
+		return 0
+	}
+	abs := make([]float64, len(pl.Residuals))
+	for i, e := range pl.Residuals {
+		abs[i] = math.Abs(e)
+	}
+	rho, _ := stats.Spearman(pl.X, abs)
+	return sign(rho)
+}
+
+// write sets the headline, statements and limits.
+func (f *facts) write(out *report.Findings) {
+	s := f.s
+	x, y := f.xLabel, f.yLabel
+	pr := s.Pearson
+	rText := fmt.Sprintf("r = %s, %s CI %s to %s, n = %d", corr(f.r), f.conf, corr(float64(pr.CILow)), corr(float64(pr.CIHigh)), s.N)
+
+	// Headline.
+	var h string
+	switch out.Form {
+	case "linear":
+		verb := "rises"
+		if f.dir == "negative" {
+			verb = "falls"
+		}
+		h = fmt.Sprintf("%s %s with %s along a straight line: a %s relationship (%s).", capital(y), verb, x, out.Strength, rText)
+	case "curved":
+		h = fmt.Sprintf("%s follows a curve in %s that bends %s", capital(y), x, strings.TrimPrefix(*out.Bend, "bends-"))
+		if out.TurnsOver {
+			h += fmt.Sprintf(" and turns over near %s = %s", x, withUnit(float64(out.TurnX), s.X.Unit))
+		}
+		h += fmt.Sprintf(": %s as a curve (R² = %s), %s as a straight line (%s).", out.CurveStrength, num(float64(f.quad.R2)),
+			strengthWord(out.Strength), rText)
+	case "nonlinear":
+		h = fmt.Sprintf("%s depends on %s in a way a straight line misses (distance correlation %s, %s; %s).",
+			capital(y), x, num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)), rText)
+	default:
+		h = fmt.Sprintf("No relationship between %s and %s shows in these data (%s, %s).", x, y, rText, pval(f.p))
+	}
+	if out.OutlierDriven {
+		h = f.drivenHeadline() + " " + h
+	}
+	out.Headline = h
+
+	st := &out.Statements
+	add := func(format string, a ...any) { *st = append(*st, fmt.Sprintf(format, a...)) }
+
+	// Correlation and line.
+	pText := pval(float64(pr.P))
+	if f.adj != 1 {
+		pText += fmt.Sprintf(" (%s after adjustment across the studies)", strings.TrimPrefix(pval(f.p), "p "))
+	}
+	add("Pearson correlation %s; %s.", rText, pText)
+	if l := s.Line; l != nil && l.Slope != nil && l.Intercept != nil {
+		add("The least-squares line: %s changes by %s %s (%s CI %s to %s); at %s = 0 the line gives %s.",
+			y, num(float64(l.Slope.Estimate)), perUnit(s.Y.Unit, s.X.Unit, x), f.conf,
+			num(float64(l.Slope.CILow)), num(float64(l.Slope.CIHigh)), x, withUnit(float64(l.Intercept.Estimate), s.Y.Unit))
+	}
+	if s.Spearman != nil && s.Kendall != nil {
+		add("Rank correlations, which use only the order of the values: Spearman ρ = %s (%s), Kendall τ-b = %s (%s).",
+			corr(float64(s.Spearman.Rho)), pval(float64(s.Spearman.P)), corr(float64(s.Kendall.TauB)), pval(float64(s.Kendall.P)))
+	}
+
+	// Form.
+	f.formStatements(out, add)
+
+	// Strength convention.
+	add("Strength is graded from |r|: strong at %s or more, moderate at %s or more, weak at %s or more. These cut points are common practice, not a standard.",
+		num(f.th.Strong), num(f.th.Moderate), num(f.th.Weak))
+
+	// Influence and sensitivity.
+	f.influenceStatements(out, add)
+
+	// Spread.
+	if d := s.Diagnostics; d != nil && d.BreuschPagan != nil {
+		bp := d.BreuschPagan
+		if out.SpreadChanges {
+			how := "changes"
+			switch f.spreadGrows() {
+			case 1:
+				how = "grows"
+			case -1:
+				how = "shrinks"
+			}
+			add("The scatter about the line %s with %s (Breusch–Pagan %s): the bands, which assume an even scatter, are too narrow in some places and too wide in others.",
+				how, x, pval(float64(bp.P)))
+		} else {
+			add("The scatter about the line shows no clear change with %s (Breusch–Pagan %s).", x, pval(float64(bp.P)))
+		}
+	}
+
+	f.limits(out)
+}
+
+func strengthWord(s string) string {
+	if s == "none" {
+		return "not shown"
+	}
+	return s
+}
+
+func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
+	s := f.s
+	x := f.xLabel
+	q := f.quad
+	switch out.Form {
+	case "curved":
+		add("A quadratic curve explains R² = %s of the variation against %s for the straight line (x² term %s).",
+			num(float64(q.R2)), num(float64(s.Pearson.R2)), pval(f.quadP()))
+		if out.TurnsOver {
+			add("The curve turns over inside the observed range, at %s ≈ %s: %s does not keep moving one way as %s rises.",
+				x, withUnit(float64(out.TurnX), s.X.Unit), f.yLabel, x)
+		} else if v := float64(q.Vertex); !math.IsNaN(v) && s.Describe != nil {
+			add("The curve does not turn over inside the observed range (%s): its fitted turning point, %s = %s, is not reached by the data.",
+				span(float64(s.Describe.X.Min), float64(s.Describe.X.Max), s.X.Unit), x, withUnit(v, s.X.Unit))
+		}
+	case "nonlinear":
+		add("The distance correlation, which detects dependence of any shape, is %s (%s, %d permutations), larger than |r| = %s: the straight line and the quadratic miss the pattern, so look at the scatterplot.",
+			num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)), f.dcor.Permutations, corr(math.Abs(f.r)))
+	case "linear":
+		if q != nil && !math.IsNaN(f.quadP()) {
+			add("A quadratic term adds little (x² term %s, R² %s against %s for the line): the straight line describes the data.",
+				pval(f.quadP()), num(float64(q.R2)), num(float64(s.Pearson.R2)))
+		}
+	case "none":
+		if f.dcor != nil {
+			add("The distance correlation, which detects dependence of any shape, finds none either (%s, %s).",
+				num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)))
+		}
+	}
+	if f.lof {
+		lf := s.Diagnostics.LackOfFit
+		add("Where %s repeats, the straight line misses systematic differences between the repeated settings (lack-of-fit F = %s on %d and %d df, %s).",
+			x, num(float64(lf.F)), lf.DF1, lf.DF2, pval(float64(lf.P)))
+	}
+}
+
+func (f *facts) quadP() float64 {
+	if f.s.Diagnostics != nil && f.s.Diagnostics.QuadraticP.Valid() {
+		return float64(f.s.Diagnostics.QuadraticP)
+	}
+	if f.quad != nil && len(f.quad.Coefficients) == 3 {
+		return float64(f.quad.Coefficients[2].P)
+	}
+	return math.NaN()
+}
+
+// flaggedRows returns the names of the flagged rows, largest Cook's D
+// first (the order of Influence.Points).
+func (f *facts) flaggedRows() []string {
+	var rows []string
+	if f.s.Influence != nil {
+		for _, p := range f.s.Influence.Points {
+			rows = append(rows, "row "+p.Row)
+		}
+	}
+	return rows
+}
+
+func (f *facts) drivenHeadline() string {
+	rows := f.flaggedRows()
+	se := f.s.Sensitivity
+	switch {
+	case f.without == "undefined":
+		return fmt.Sprintf("The apparent relationship comes from %s alone: without %s, r cannot be computed.",
+			listRows(rows), plural(len(rows), "it", "them"))
+	case f.dir == "none" && f.without != "none":
+		return fmt.Sprintf("The flagged %s (%s) hide a relationship: without them r = %s.",
+			plural(len(rows), "row", "rows"), listRows(rows), corr(float64(se.RWithoutFlagged)))
+	case len(rows) > 0 && f.without != f.dir:
+		return fmt.Sprintf("The apparent relationship rests on %s: without %s, r = %s (%s) and no relationship is shown.",
+			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)*f.adj))
+	default:
+		return fmt.Sprintf("The direction of the relationship depends on single rows: leaving out one row at a time, r ranges from %s to %s.",
+			corr(float64(se.LooRMin)), corr(float64(se.LooRMax)))
+	}
+}
+
+func (f *facts) influenceStatements(out *report.Findings, add func(string, ...any)) {
+	s := f.s
+	if s.Influence != nil && len(s.Influence.Points) > 0 {
+		var parts []string
+		for i, p := range s.Influence.Points {
+			if i == 5 {
+				parts = append(parts, fmt.Sprintf("and %d more", len(s.Influence.Points)-5))
+				break
+			}
+			parts = append(parts, fmt.Sprintf("row %s at (%s, %s): %s", p.Row, num(float64(p.X)), num(float64(p.Y)), f.pointWhy(p)))
+		}
+		add("Flagged %s: %s.", plural(len(s.Influence.Points), "row", "rows"), strings.Join(parts, "; "))
+	} else if s.Influence != nil {
+		add("No row is flagged as an outlier, of high leverage or influential.")
+	}
+	se := s.Sensitivity
+	if se == nil {
+		return
+	}
+	if se.NFlagged > 0 {
+		verdict := "the verdict stands"
+		if f.without != f.dir {
+			verdict = "the verdict does not stand without them"
+		}
+		if math.IsNaN(float64(se.RWithoutFlagged)) {
+			add("Without the flagged %s, r and the line cannot be computed (%s no longer varies): %s.",
+				plural(se.NFlagged, "row", "rows"), f.xLabel, verdict)
+		} else {
+			add("Without the flagged %s: r = %s (%s CI %s to %s, %s), slope %s %s; %s.",
+				plural(se.NFlagged, "row", "rows"), corr(float64(se.RWithoutFlagged)), f.conf, corr(float64(se.RWithoutLow)),
+				corr(float64(se.RWithoutHigh)), pval(float64(se.PWithoutFlagged)), num(float64(se.SlopeWithoutFlagged)),
+				perUnit(s.Y.Unit, s.X.Unit, f.xLabel), verdict)
+		}
+	}
+	if se.LooRMin.Valid() && se.LooRMax.Valid() {
+		add("Leaving out one row at a time, r ranges from %s (without row %s) to %s (without row %s).",
+			corr(float64(se.LooRMin)), se.LooRMinRow, corr(float64(se.LooRMax)), se.LooRMaxRow)
+	}
+	if se.ResistantSlope.Valid() && s.Line != nil && s.Line.Slope != nil {
+		method := "resistant"
+		if s.Diagnostics != nil && s.Diagnostics.Resistant != nil && s.Diagnostics.Resistant.Method != "" {
+			method = s.Diagnostics.Resistant.Method
+		}
+		add("The resistant slope (%s), which a few unusual rows cannot pull, is %s %s against %s by least squares.",
+			method, num(float64(se.ResistantSlope)), perUnit(s.Y.Unit, s.X.Unit, f.xLabel), num(float64(s.Line.Slope.Estimate)))
+	}
+}
+
+// pointWhy names a point's flags with the figure behind each.
+func (f *facts) pointWhy(p report.Point) string {
+	var w []string
+	for _, fl := range p.Flags {
+		switch fl {
+		case FlagOutlier:
+			w = append(w, fmt.Sprintf("outlier (studentized residual %s)", num(float64(p.StudentizedExt))))
+		case FlagHighLeverage:
+			if !slices.Contains(p.Flags, FlagSoleSupport) {
+				w = append(w, fmt.Sprintf("high leverage (%s)", num(float64(p.Leverage))))
+			}
+		case FlagInfluential:
+			w = append(w, fmt.Sprintf("influential (Cook's distance %s)", num(float64(p.CooksD))))
+		case FlagSoleSupport:
+			w = append(w, "sole support (leverage 1: it alone sets the slope)")
+		default:
+			w = append(w, fl)
+		}
+	}
+	return strings.Join(w, ", ")
+}
+
+// limits writes what may not be concluded and what was checked.
+func (f *facts) limits(out *report.Findings) {
+	s := f.s
+	x, y := f.xLabel, f.yLabel
+	lim := &out.Limits
+	add := func(format string, a ...any) { *lim = append(*lim, fmt.Sprintf(format, a...)) }
+
+	rangeText := ""
+	if s.Describe != nil {
+		rangeText = " (" + span(float64(s.Describe.X.Min), float64(s.Describe.X.Max), s.X.Unit) + ")"
+	}
+	switch f.designName() {
+	case RandomizedExperiment:
+		add("The runs were randomised: within the tested range of %s%s, the data support a causal reading of the effect of %s on %s.", x, rangeText, x, y)
+	case DesignedExperiment:
+		add("%s was set by design: within the tested range%s the data support a causal reading of its effect on %s, provided the other factors were held fixed or randomised.", capital(x), rangeText, y)
+	default:
+		add("These data are observational: they show association, not cause. They do not show that changing %s would change %s.", x, y)
+	}
+	add("No prediction is supported outside the observed range of %s%s.", x, rangeText)
+	var outside []string
+	for _, p := range s.Predictions {
+		if !p.InRange {
+			outside = append(outside, withUnit(float64(p.X), s.X.Unit))
+		}
+	}
+	if len(outside) > 0 {
+		add("The %s at %s = %s %s outside that range and %s not supported by these data.",
+			plural(len(outside), "prediction", "predictions"), x, joinAnd(outside), plural(len(outside), "lies", "lie"),
+			plural(len(outside), "is", "are"))
+	}
+
+	// Lurking variables: covariates.
+	if len(s.Partial) == 0 {
+		add("No covariates were declared, so no other measured quantity was checked as a lurking variable.")
+	}
+	for _, pc := range s.Partial {
+		pt := fmt.Sprintf("r = %s (%s CI %s to %s, %s)", corr(float64(pc.R)), f.conf, corr(float64(pc.CILow)), corr(float64(pc.CIHigh)), pval(float64(pc.P)))
+		switch {
+		case slices.Contains(out.ExplainedBy, pc.Covariate):
+			add("Holding %s fixed, the correlation of %s and %s is %s: %s may carry the association (a lurking variable).", pc.Covariate, x, y, pt, pc.Covariate)
+		case f.dir == "none":
+			add("Holding %s fixed, the correlation of %s and %s is %s.", pc.Covariate, x, y, pt)
+		default:
+			add("Holding %s fixed, the correlation of %s and %s is %s: the association does not come from %s.", pc.Covariate, x, y, pt, pc.Covariate)
+		}
+	}
+
+	// Groups.
+	switch {
+	case s.Group == "":
+		add("No grouping variable (lot, machine, shift) was declared, so a relationship that differs between groups was not checked.")
+	default:
+		f.groupLimit(out, add)
+	}
+
+	// Run order.
+	d := s.Diagnostics
+	switch {
+	case s.Order == "":
+		add("No run order was declared, so drift over time was not checked.")
+	case d == nil:
+	case out.Drift:
+		add("The residuals drift in run order (%s): time, or something changing with it, may act on %s besides %s.", f.orderFigures(), y, x)
+	default:
+		add("The residuals show no drift in run order (%s).", f.orderFigures())
+	}
+}
+
+func (f *facts) designName() string {
+	switch f.dsg {
+	case RandomizedExperiment, DesignedExperiment:
+		return f.dsg
+	}
+	return Observational
+}
+
+func (f *facts) orderFigures() string {
+	d := f.s.Diagnostics
+	var p []string
+	if d.OrderTrend != nil {
+		p = append(p, fmt.Sprintf("trend %s", pval(float64(d.OrderTrend.P))))
+	}
+	if d.DurbinWatson.Valid() {
+		p = append(p, fmt.Sprintf("Durbin–Watson %s", num(float64(d.DurbinWatson))))
+	}
+	return strings.Join(p, ", ")
+}
+
+func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
+	s := f.s
+	g := f.qualifying()
+	var parts []string
+	for _, gf := range g {
+		parts = append(parts, fmt.Sprintf("%s: slope %s (%s to %s, n = %d)", gf.Group, num(float64(gf.Slope)),
+			num(float64(gf.SlopeLow)), num(float64(gf.SlopeHigh)), gf.N))
+	}
+	detail := strings.Join(parts, "; ")
+	switch {
+	case len(g) < 2:
+		add("Fewer than two groups of %s have %d rows or more, so the groups were not compared.", s.Group, f.th.ReversalMinGroup)
+	case out.Reversal:
+		add("Within each %s the direction reverses: pooled, %s %s with %s, but within groups it goes the other way (%s). The pooled relationship comes from differences between the groups.",
+			s.Group, f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.dir == "positive"], f.xLabel, detail)
+	default:
+		add("Within each %s the lines were checked for a reversal of direction and none was found (%s).", s.Group, detail)
+	}
+}

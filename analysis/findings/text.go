@@ -1,0 +1,162 @@
+package findings
+
+// This file holds the number and unit formatting of the statements.
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// num writes v with three significant digits, without an exponent for
+// magnitudes between 0.001 and one million.
+func num(v float64) string {
+	switch {
+	case math.IsNaN(v) || math.IsInf(v, 0):
+		return "undefined"
+	case v == 0:
+		return "0"
+	}
+	a := math.Abs(v)
+	if a < 1e-3 || a >= 1e6 {
+		return minus(strconv.FormatFloat(v, 'e', 2, 64))
+	}
+	d := 2 - int(math.Floor(math.Log10(a)))
+	if d < 0 {
+		d = 0
+	}
+	return minus(strconv.FormatFloat(v, 'f', d, 64))
+}
+
+// corr writes a correlation with two decimals, three when it is within
+// 0.005 of ±1, so that 0.9996 does not print as 1.00.
+func corr(r float64) string {
+	if math.IsNaN(r) || math.IsInf(r, 0) {
+		return "undefined"
+	}
+	d := 2
+	if math.Abs(r) >= 0.995 {
+		d = 3
+	}
+	if math.Abs(r) >= 0.9995 {
+		d = 4
+	}
+	return minus(strconv.FormatFloat(r, 'f', d, 64))
+}
+
+// pval writes a p-value as "p = 0.012" or "p < 0.001".
+func pval(p float64) string {
+	switch {
+	case math.IsNaN(p):
+		return "p undefined"
+	case p < 0.001:
+		return "p < 0.001"
+	case p < 0.1:
+		return "p = " + strconv.FormatFloat(p, 'f', 3, 64)
+	default:
+		return "p = " + strconv.FormatFloat(p, 'f', 2, 64)
+	}
+}
+
+// minus uses the typographic minus sign for negative numbers.
+func minus(s string) string {
+	if strings.HasPrefix(s, "-") {
+		return "−" + s[1:]
+	}
+	return s
+}
+
+// unitText is a UCUM code as people write it ("Cel" → "°C").
+func unitText(code string) string {
+	switch code {
+	case "":
+		return ""
+	case "Cel":
+		return "°C"
+	case "[degF]":
+		return "°F"
+	case "K":
+		return "K"
+	case "[in_i]":
+		return "in"
+	case "[ft_i]":
+		return "ft"
+	case "[lb_av]":
+		return "lb"
+	case "[psi]":
+		return "psi"
+	case "um":
+		return "µm"
+	case "ug":
+		return "µg"
+	}
+	s := strings.NewReplacer("[", "", "]", "", "_i", "", "_av", "").Replace(code)
+	return s
+}
+
+// withUnit is a value followed by its unit, if any.
+func withUnit(v float64, code string) string {
+	u := unitText(code)
+	if u == "" {
+		return num(v)
+	}
+	if u == "%" {
+		return num(v) + "%"
+	}
+	return num(v) + " " + u
+}
+
+// perUnit names the slope's unit: "% per °C", or words when units are
+// not declared.
+func perUnit(yCode, xCode, xLabel string) string {
+	yu, xu := unitText(yCode), unitText(xCode)
+	if yu == "" {
+		yu = "units"
+	}
+	if xu == "" {
+		return fmt.Sprintf("%s per unit of %s", yu, xLabel)
+	}
+	return yu + " per " + xu
+}
+
+// span writes a range "4 to 14 °C".
+func span(lo, hi float64, code string) string {
+	return num(lo) + " to " + withUnit(hi, code)
+}
+
+// listRows writes up to five row names, then "and N more".
+func listRows(rows []string) string {
+	const most = 5
+	if len(rows) <= most {
+		return joinAnd(rows)
+	}
+	return strings.Join(rows[:most], ", ") + fmt.Sprintf(" and %d more", len(rows)-most)
+}
+
+// joinAnd joins with commas and a final "and".
+func joinAnd(s []string) string {
+	switch len(s) {
+	case 0:
+		return ""
+	case 1:
+		return s[0]
+	}
+	return strings.Join(s[:len(s)-1], ", ") + " and " + s[len(s)-1]
+}
+
+// plural returns one or many by n.
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return one
+	}
+	return many
+}
+
+// capital upper-cases the first letter.
+func capital(s string) string {
+	for i, r := range s {
+		return strings.ToUpper(string(r)) + s[i+len(string(r)):]
+	}
+	return s
+}

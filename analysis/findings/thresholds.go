@@ -1,0 +1,150 @@
+package findings
+
+// This file holds the table of cut points the verdicts use and the
+// per-point flags of the straight line's influence measures.
+
+import (
+	"math"
+
+	"bivar/analysis/report"
+	"bivar/analysis/stats"
+)
+
+// DefaultThresholds returns every cut point the findings use. None of them
+// is a standard; each is common practice, chosen as follows, and a manifest
+// may override any of them in its [thresholds] table.
+//
+//   - Strong 0.7, Moderate 0.4, Weak 0.1: |r| at or above Strong is
+//     "strong", at or above Moderate "moderate", at or above Weak "weak",
+//     below Weak "none". Common practice in engineering and the social
+//     sciences (cut points of 0.7 and 0.4 are widely taught); they are
+//     conventions, not a standard, and the report says so. A relationship
+//     whose interval for r includes 0 is "none" whatever |r| is.
+//   - LeverageFactor 2: high leverage when h > 2·p/n with p = 2 for the
+//     line (Hoaglin & Welsch 1978, "The hat matrix in regression and
+//     ANOVA", Am. Stat. 32(1):17–22, proposed 2p/n).
+//   - OutlierZ 3 and OutlierFamilyAlpha 0.05: an outlier is a row whose
+//     externally studentized residual exceeds 3 in size and also exceeds
+//     the Bonferroni bound t(1 − a/(2n), n − 3) for a family-wise level
+//     a = 0.05. The bound keeps large n from flagging rows by chance alone
+//     (at n = 1000, |t| > 3 happens about three times in clean data); at
+//     small n the floor of 3 rules. OutlierFamilyAlpha 0 turns the bound
+//     off.
+//   - CooksD 0.5: influential when Cook's D exceeds the 50th percentile
+//     of F(p, n − p), as Cook (1977, Technometrics 19:15–18) suggested
+//     comparing D with F percentiles; for the line that is about 0.7 at
+//     any n. The rule "D > 4/n" flags about one row in twenty of clean
+//     data and is not used.
+//   - CurveGainR2 0.05: the form is "curved" when the quadratic term is
+//     significant and the quadratic adds at least 0.05 to R² over the line,
+//     so a bend too slight to matter in practice is still called a line.
+//   - NonlinearDcor 0.3: the form is "nonlinear" when the distance
+//     correlation is significant, at least 0.3, larger than |r| (for
+//     normal data it is never larger: Székely, Rizzo & Bakirov 2007,
+//     Ann. Stat. 35:2769–2794, Theorem 7) and |r| is below Moderate.
+//   - ReversalMinGroup 5: groups with fewer complete rows take no part in
+//     the reversal check.
+//   - DriftDW 1.5: with a declared run order, a Durbin–Watson statistic
+//     below 1.5 or above 2.5 is read as residuals that hang together in
+//     time (common practice: 1.5 to 2.5 is taken as no serial
+//     correlation).
+func DefaultThresholds() report.Thresholds {
+	return report.Thresholds{
+		Strong:             0.7,
+		Moderate:           0.4,
+		Weak:               0.1,
+		LeverageFactor:     2,
+		OutlierZ:           3,
+		OutlierFamilyAlpha: 0.05,
+		CooksD:             0.5,
+		CurveGainR2:        0.05,
+		NonlinearDcor:      0.3,
+		ReversalMinGroup:   5,
+		DriftDW:            1.5,
+	}
+}
+
+// Flags a row can carry, in the order FlagPoints lists them.
+const (
+	FlagOutlier      = "outlier"       // externally studentized residual beyond the outlier bound
+	FlagHighLeverage = "high-leverage" // leverage above LeverageFactor·p/n
+	FlagInfluential  = "influential"   // Cook's D above the F(p, n−p) percentile
+	FlagSoleSupport  = "sole-support"  // leverage 1: the row alone sets the fit
+)
+
+// params is the number of coefficients of the straight line.
+const params = 2
+
+// OutlierBound returns the size of externally studentized residual above
+// which a row of n is an outlier under th: the larger of th.OutlierZ and
+// the Bonferroni bound (see DefaultThresholds).
+func OutlierBound(n int, th report.Thresholds) float64 {
+	b := th.OutlierZ
+	if a := th.OutlierFamilyAlpha; a > 0 && a < 1 && n > params+1 {
+		if t := stats.TQuantile(1-a/(2*float64(n)), float64(n-params-1)); t > b {
+			b = t
+		}
+	}
+	return b
+}
+
+// CooksBound returns the Cook's D above which a row of n is influential
+// under th: the th.CooksD quantile of F(p, n − p). It is +Inf when n ≤ p.
+func CooksBound(n int, th report.Thresholds) float64 {
+	if n <= params || !(th.CooksD > 0 && th.CooksD < 1) {
+		return math.Inf(1)
+	}
+	return stats.FQuantile(th.CooksD, params, float64(n-params))
+}
+
+// FlagPoints returns, per row, the flags of the straight line's influence
+// measures under th (see the Flag constants and DefaultThresholds for the
+// rules); nil for a row with none. All four slices are parallel, one entry
+// per complete case; a shorter soleSupport counts as false. A NaN measure
+// raises no flag. A row with leverage 1 (soleSupport) is flagged
+// "high-leverage" and "sole-support": its residual is 0 and its Cook's D
+// undefined, yet it alone decides the fit through it.
+func FlagPoints(leverage, studentizedExt, cooksD []float64, soleSupport []bool, th report.Thresholds) [][]string {
+	n := len(leverage)
+	out := make([][]string, n)
+	hCut := th.LeverageFactor * params / float64(n)
+	tCut := OutlierBound(n, th)
+	dCut := CooksBound(n, th)
+	at := func(v []float64, i int) float64 {
+		if i < len(v) {
+			return v[i]
+		}
+		return math.NaN()
+	}
+	for i := 0; i < n; i++ {
+		sole := i < len(soleSupport) && soleSupport[i]
+		var f []string
+		if t := at(studentizedExt, i); !sole && math.Abs(t) > tCut {
+			f = append(f, FlagOutlier)
+		}
+		if h := leverage[i]; sole || (th.LeverageFactor > 0 && h > hCut) {
+			f = append(f, FlagHighLeverage)
+		}
+		if d := at(cooksD, i); !sole && d > dCut {
+			f = append(f, FlagInfluential)
+		}
+		if sole {
+			f = append(f, FlagSoleSupport)
+		}
+		out[i] = f
+	}
+	return out
+}
+
+// Suspect reports whether a row with these flags is one the verdict should
+// not rest on: an outlier, an influential row or a row of sole support. A
+// row that is only far out in x (high leverage) but on the line is good
+// data, and dropping it would only shorten the observed range.
+func Suspect(flags []string) bool {
+	for _, f := range flags {
+		if f == FlagOutlier || f == FlagInfluential || f == FlagSoleSupport {
+			return true
+		}
+	}
+	return false
+}

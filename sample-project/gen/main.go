@@ -21,8 +21,10 @@
 //     steel heat with more molybdenum resists tempering: the line starts a
 //     little higher and falls more slowly (slope -0.080 -> -0.058 HRC per Cel).
 //     This is the one relationship that changes between the runs.
-//   - austenitize_temp is uniform over 820 to 900 Cel; impact_energy peaks
-//     near 857 Cel and falls on both sides (a curve turning over in range).
+//   - austenitize_temp is a set point from 820 to 900 Cel in steps of 10,
+//     each used equally often (shuffled in blocks of nine), plus up to ±3 Cel
+//     of furnace variation; impact_energy peaks near 857 Cel and falls on
+//     both sides (a curve turning over inside the range).
 //   - transfer_time (furnace door to oil) is about 11 s; two shafts per run
 //     waited much longer behind a sticking door and came out soft in the
 //     core. Below 15 s the wait does nothing to core_hardness.
@@ -55,11 +57,11 @@ import (
 // run describes one production run: its size, seed, export format and the
 // parameters that differ between runs.
 type run struct {
-	file         string
-	prefix       string // part id prefix
-	n            int
-	seed1, seed2 uint64
-	semicolon    bool // semicolon delimiter and decimal comma
+	file      string
+	prefix    string // part id prefix
+	n         int
+	seed      uint64 // each block of variables draws from its own PCG(seed, block) stream
+	semicolon bool   // semicolon delimiter and decimal comma
 	// surface_hardness = hrc400 + hrcSlope·(temper_temp − 400) + noise
 	hrc400, hrcSlope float64
 	slowTransfer     map[int]float64 // row index -> transfer time of a door fault, s
@@ -69,7 +71,7 @@ type run struct {
 var runs = []run{
 	{
 		file: "run-2026-10.csv", prefix: "D10-", n: 120,
-		seed1: 20261001, seed2: 1,
+		seed:   20261001,
 		hrc400: 48.0, hrcSlope: -0.080,
 		slowTransfer: map[int]float64{36: 31.5, 87: 36.0},
 		missing: map[int][]string{
@@ -79,9 +81,9 @@ var runs = []run{
 	},
 	{
 		file: "run-2026-11.csv", prefix: "D11-", n: 116,
-		seed1: 20261101, seed2: 1, semicolon: true,
+		seed: 20261101, semicolon: true,
 		hrc400: 49.0, hrcSlope: -0.058,
-		slowTransfer: map[int]float64{23: 34.0, 70: 29.5},
+		slowTransfer: map[int]float64{23: 34.0, 70: 33.0},
 		missing: map[int][]string{
 			40: {"surface_hardness", "core_hardness"},
 			77: {"impact_energy"}, 9: {"shop_rh"},
@@ -117,37 +119,59 @@ func (d draws) normal() float64 {
 	return math.Sqrt(-2*math.Log(u)) * math.Cos(2*math.Pi*v)
 }
 
+// shuffled returns 0..n-1 in random order (Fisher–Yates).
+func shuffled(d draws, n int) []int {
+	p := make([]int, n)
+	for i := range p {
+		p[i] = i
+	}
+	for i := n - 1; i > 0; i-- {
+		j := int(d.unif() * float64(i+1))
+		p[i], p[j] = p[j], p[i]
+	}
+	return p
+}
+
 // generate returns the rows of one run, each a map from column to value
 // (float64 or string).
 func generate(r run) []map[string]any {
-	d := draws{rand.NewPCG(r.seed1, r.seed2)}
+	// One stream per block of related variables, so that a change to one
+	// block's model leaves the draws of the others as they were.
+	stream := func(block uint64) draws { return draws{rand.NewPCG(r.seed, block)} }
+	quench, austen, soaking, transfers, tempering, humidity :=
+		stream(1), stream(2), stream(3), stream(4), stream(5), stream(6)
 	tanks := []string{"Q1", "Q2", "Q3"}
 	setpoint := map[string]float64{"Q1": 48, "Q2": 62, "Q3": 76}
 	baseRunout := map[string]float64{"Q1": 0.100, "Q2": 0.160, "Q3": 0.220}
 	shifts := []string{"early", "late", "night"}
-	phase := d.between(0, 2*math.Pi)
+	phase := humidity.between(0, 2*math.Pi)
 
+	var austLevels []int // austenitizing set points, 9 at a time in shuffled order
 	rows := make([]map[string]any, r.n)
 	for i := range rows {
-		tank := tanks[int(d.unif()*3)]
-		aust := d.between(820, 900)
-		soak := math.Round(d.between(45, 90))
-		transfer := 11 + 1.0*d.normal()
+		tank := tanks[int(quench.unif()*3)]
+		if len(austLevels) == 0 {
+			austLevels = shuffled(austen, 9)
+		}
+		aust := 820 + 10*float64(austLevels[0]) + austen.between(-3, 3)
+		austLevels = austLevels[1:]
+		soak := math.Round(soaking.between(45, 90))
+		transfer := 11 + 1.0*transfers.normal()
 		if t, ok := r.slowTransfer[i]; ok {
 			transfer = t
 		}
-		oil := setpoint[tank] + d.between(-7, 7)
-		temper := 400 + 25*float64(int(d.unif()*9))
-		rh := 50 + 14*math.Sin(2*math.Pi*1.3*float64(i)/float64(r.n)+phase) + 3*d.normal()
-		flow := 8.0 + 0.06*(rh-50) + 0.25*d.normal()
-		surface := r.hrc400 + r.hrcSlope*(temper-400) + 1.0*d.normal()
-		core := 24 + 0.35*(surface-40) + 1.2*d.normal()
+		oil := setpoint[tank] + quench.between(-7, 7)
+		temper := 400 + 25*float64(int(tempering.unif()*9))
+		rh := 50 + 14*math.Sin(2*math.Pi*1.3*float64(i)/float64(r.n)+phase) + 3*humidity.normal()
+		flow := 8.0 + 0.06*(rh-50) + 0.25*humidity.normal()
+		surface := r.hrc400 + r.hrcSlope*(temper-400) + 1.0*tempering.normal()
+		core := 24 + 0.25*(surface-40) + 0.8*transfers.normal()
 		if transfer > 15 {
 			core -= 0.45 * (transfer - 15)
 		}
-		impact := 62 - 0.022*(aust-857)*(aust-857) + 2.5*d.normal()
-		runout := baseRunout[tank] - 0.0035*(oil-setpoint[tank]) + 0.008*d.normal()
-		decarb := 60 + 1.5*(rh-50) + 8*d.normal()
+		impact := 62 - 0.022*(aust-857)*(aust-857) + 2.5*austen.normal()
+		runout := baseRunout[tank] - 0.0035*(oil-setpoint[tank]) + 0.008*quench.normal()
+		decarb := 60 + 1.5*(rh-50) + 8*humidity.normal()
 
 		rows[i] = map[string]any{
 			"part_id":          fmt.Sprintf("%s%03d", r.prefix, i+1),

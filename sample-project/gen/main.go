@@ -25,7 +25,7 @@
 //     each used equally often (shuffled in blocks of nine), plus up to ±3 Cel
 //     of furnace variation; impact_energy peaks near 857 Cel and falls on
 //     both sides (a curve turning over inside the range).
-//   - transfer_time (furnace door to oil) is about 11 s; two shafts per run
+//   - transfer_time (furnace door to oil) is about 11 s; one shaft per run
 //     waited much longer behind a sticking door and came out soft in the
 //     core. Below 15 s the wait does nothing to core_hardness.
 //   - soak_time varies from 45 to 90 min and does nothing to hardness.
@@ -73,7 +73,7 @@ var runs = []run{
 		file: "run-2026-10.csv", prefix: "D10-", n: 120,
 		seed:   20261001,
 		hrc400: 48.0, hrcSlope: -0.080,
-		slowTransfer: map[int]float64{36: 31.5, 87: 36.0},
+		slowTransfer: map[int]float64{87: 36.0},
 		missing: map[int][]string{
 			14: {"surface_hardness"}, 15: {"surface_hardness"},
 			52: {"impact_energy"}, 101: {"shop_rh"},
@@ -83,7 +83,7 @@ var runs = []run{
 		file: "run-2026-11.csv", prefix: "D11-", n: 116,
 		seed: 20261101, semicolon: true,
 		hrc400: 49.0, hrcSlope: -0.058,
-		slowTransfer: map[int]float64{23: 34.0, 70: 33.0},
+		slowTransfer: map[int]float64{23: 34.0},
 		missing: map[int][]string{
 			40: {"surface_hardness", "core_hardness"},
 			77: {"impact_energy"}, 9: {"shop_rh"},
@@ -156,7 +156,7 @@ func generate(r run) []map[string]any {
 		aust := 820 + 10*float64(austLevels[0]) + austen.between(-3, 3)
 		austLevels = austLevels[1:]
 		soak := math.Round(soaking.between(45, 90))
-		transfer := 11 + 1.0*transfers.normal()
+		transfer := 11 + 0.6*transfers.normal()
 		if t, ok := r.slowTransfer[i]; ok {
 			transfer = t
 		}

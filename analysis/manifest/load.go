@@ -53,7 +53,9 @@ func Parse(name string, data []byte, dir string) (*Manifest, error) {
 	}
 	p.ix = buildIndex(src)
 	p.walk(generic, schema, "", nil)
-	if len(p.errs) > 0 {
+	if p.typeErrs {
+		// The typed decode would stop at one of these; unknown keys alone do
+		// not stop it, so their manifests are validated too.
 		return nil, p.sorted()
 	}
 
@@ -63,8 +65,10 @@ func Parse(name string, data []byte, dir string) (*Manifest, error) {
 		p.decodeError(err)
 		return nil, p.sorted()
 	}
-	for _, k := range md.Undecoded() { // the schema walk should have caught these
-		p.add("", k.String(), "key %q is not used by bivar", k.String())
+	if len(p.errs) == 0 {
+		for _, k := range md.Undecoded() { // the schema walk should have caught these
+			p.add("", k.String(), "key %q is not used by bivar", k.String())
+		}
 	}
 	p.locate(m)
 	p.defaults(m, &md)
@@ -76,9 +80,10 @@ func Parse(name string, data []byte, dir string) (*Manifest, error) {
 }
 
 type parser struct {
-	file string
-	ix   *lineIndex
-	errs Errors
+	file     string
+	ix       *lineIndex
+	errs     Errors
+	typeErrs bool // a value has the wrong type
 }
 
 // add records a problem at the place of key (under owner), falling back to
@@ -124,7 +129,11 @@ func (p *parser) decodeError(err error) {
 		if pe.Usage != "" {
 			msg += " (" + strings.TrimSpace(pe.Usage) + ")"
 		}
-		p.addAt(pos{pe.Position.Line, pe.Position.Col}, pe.LastKey, "TOML syntax: "+msg)
+		at := pos{pe.Position.Line, pe.Position.Col}
+		if at.col > len(p.ix.text(at.line))+1 { // the decoder's column can run past the line
+			at.col = 1
+		}
+		p.addAt(at, pe.LastKey, "TOML syntax: "+msg)
 		return
 	}
 	sm := decodeMsg.FindStringSubmatch(err.Error())
@@ -239,6 +248,7 @@ func schemaOf(t reflect.Type, path string) *node {
 func (p *parser) walk(v any, n *node, owner string, key toml.Key) {
 	name := key.String()
 	bad := func() {
+		p.typeErrs = true
 		p.add(owner, name, "%q must be %s, not %s", name, kindWords[n.kind], describe(v))
 	}
 	switch n.kind {
@@ -278,6 +288,7 @@ func (p *parser) walk(v any, n *node, owner string, key toml.Key) {
 		}
 		for _, k := range slices.Sorted(maps.Keys(m)) {
 			if _, ok := m[k].(string); !ok {
+				p.typeErrs = true
 				sub := append(slices.Clone(key), k).String()
 				p.add(owner, sub, "%q must be a string, not %s", sub, describe(m[k]))
 			}

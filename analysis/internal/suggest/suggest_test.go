@@ -15,7 +15,9 @@ func TestDistance(t *testing.T) {
 		{"flaw", "lawn", 2},
 		{"yy", "y", 1},
 		{"Cel", "cel", 1},
-		{"µm", "um", 1}, // counted in runes, not bytes
+		{"µm", "um", 1},   // counted in runes, not bytes
+		{"nvo", "nov", 1}, // a swap of neighbours costs 1
+		{"ca", "abc", 3},  // optimal string alignment, not full Damerau (which gives 2)
 	}
 	for _, c := range cases {
 		if got := Distance(c.a, c.b); got != c.want {
@@ -35,6 +37,10 @@ func TestNearest(t *testing.T) {
 		{"datset", "dataset"},
 		{"Title", "title"}, // case wins even over closer candidates
 		{"grp", ""},        // distance 2 > limit 1 for a 3-letter name
+		{"z", ""},          // one rune: only a case difference is suggested
+		{"X", "x"},
+		{"grop", "group"},
+		{"ordre", "order"},
 		{"zzzzzzzz", ""},
 		{"x", ""}, // exact match is not a suggestion
 	}

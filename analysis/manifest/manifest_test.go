@@ -1,0 +1,209 @@
+package manifest
+
+import (
+	"errors"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// The manifests in these tests are invented for the tests; the data file
+// testdata/cell4.csv is two invented rows that only need to exist.
+
+const head = `[[dataset]]
+id   = "nov"
+file = "cell4.csv"
+`
+
+func parse(t *testing.T, src string) (*Manifest, error) {
+	t.Helper()
+	return Parse("bivar.toml", []byte(src), "testdata")
+}
+
+func TestLoadGood(t *testing.T) {
+	t.Parallel()
+	m, err := Load("testdata/good.toml")
+	if err != nil {
+		t.Fatalf("Load(good.toml): %v", err)
+	}
+	abs, _ := filepath.Abs("testdata")
+	checks := []struct {
+		name      string
+		got, want any
+	}{
+		{"Path", m.Path, "testdata/good.toml"},
+		{"Dir", m.Dir, abs},
+		{"Title", m.Title, "Cell 4 moulding — test manifest"},
+		{"Seed (default)", m.Seed, uint64(DefaultSeed)},
+		{"Output.Dir", m.Output.Dir, filepath.Join(abs, "out")},
+		{"Output.Formats", strings.Join(m.Output.Formats, ","), "html,json"},
+		{"datasets", len(m.Datasets), 1},
+		{"Dataset.File", m.Datasets[0].File, filepath.Join(abs, "cell4.csv")},
+		{"Dataset.Missing", strings.Join(m.Datasets[0].Missing, "|"), "|NA|-"},
+		{"Dataset.NonNumeric (default)", m.Datasets[0].NonNumeric, "error"},
+		{"Dataset.Units", m.Datasets[0].Units["melt_temp"], "Cel"},
+		{"Dataset.Labels", m.Datasets[0].Labels["melt_temp"], "Melt temperature"},
+		{"Dataset.Line", m.Datasets[0].Line, 12},
+		{"studies", len(m.Studies), 2},
+		{"Study[0].Line", m.Studies[0].Line, 23},
+		{"Study[1].Line", m.Studies[1].Line, 40},
+		{"AlsoIn.X (string)", strings.Join(m.Studies[0].AlsoIn.X, ","), "[degF]"},
+		{"AlsoIn.Y (list)", strings.Join(m.Studies[0].AlsoIn.Y, ","), "1"},
+		{"PredictAt", len(m.Studies[0].PredictAt), 2},
+		{"Notes keep key-like lines", strings.Contains(m.Studies[0].Notes, "x = \"not a key\""), true},
+		{"Expect.Line", m.Studies[0].Expect.Line, 35},
+		{"Expect.Direction", m.Studies[0].Expect.Direction, "negative"},
+		{"Expect.MinAbsR", *m.Studies[0].Expect.MinAbsR, 0.6},
+		{"Expect.RWithin", len(m.Studies[0].Expect.RWithin), 2},
+		{"Study[1].Expect", m.Studies[1].Expect == nil, true},
+	}
+	for _, c := range checks {
+		if c.got != c.want {
+			t.Errorf("%s = %#v, want %#v", c.name, c.got, c.want)
+		}
+	}
+}
+
+func TestDefaults(t *testing.T) {
+	t.Parallel()
+	m, err := parse(t, head+"[[study]]\nid = \"s\"\ndataset = \"nov\"\nx = \"a\"\ny = \"b\"\n")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m.Design != DefaultDesign || m.Alpha != DefaultAlpha || m.Adjust != DefaultAdjust ||
+		m.Seed != DefaultSeed || m.Output.Theme != DefaultTheme ||
+		filepath.Base(m.Output.Dir) != DefaultOutputDir ||
+		strings.Join(m.Output.Formats, ",") != "html,markdown,json" ||
+		strings.Join(m.Datasets[0].Missing, ",") != ",NA" || m.Datasets[0].NonNumeric != "error" {
+		t.Errorf("defaults not applied: %+v", m)
+	}
+	// Explicit values that equal the zero value are kept, not defaulted.
+	m, err = parse(t, "seed = 0\n"+head+"missing = []\n[[study]]\nid = \"s\"\ndataset = \"nov\"\nx = \"a\"\ny = \"b\"\n")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m.Seed != 0 || m.Datasets[0].Missing == nil || len(m.Datasets[0].Missing) != 0 {
+		t.Errorf("seed = %d, missing = %#v; want 0 and an empty list", m.Seed, m.Datasets[0].Missing)
+	}
+}
+
+const study = `[[study]]
+id      = "s1"
+dataset = "nov"
+x       = "a"
+y       = "b"
+`
+
+// TestErrors pins whole messages: they are the interface.
+func TestErrors(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name string
+		src  string
+		want []Error // File is always bivar.toml
+	}{
+		{"unknown key with suggestion", head + study + "yy = \"c\"\n",
+			[]Error{{Line: 9, Col: 1, Key: "study.yy", Msg: `unknown key "study.yy" — did you mean "study.y"?`}}},
+		{"wrong case", head + strings.Replace(study, "x ", "X ", 1),
+			[]Error{
+				{Line: 7, Col: 1, Key: "study.X", Msg: `unknown key "study.X" — did you mean "study.x"? (keys are case-sensitive)`},
+			}},
+		{"unknown key without suggestion", "colour = \"red\"\n" + head + study,
+			[]Error{{Line: 1, Col: 1, Key: "colour", Msg: `unknown key "colour"; the keys of the top level are: title, design, alpha, adjust, seed, output, thresholds, dataset, study`}}},
+		{"key one level too high", "theme = \"paper\"\n" + head + study,
+			[]Error{{Line: 1, Col: 1, Key: "theme", Msg: `unknown key "theme" — did you mean "output.theme"?`}}},
+		{"top-level key inside a table", head + "alpha = 0.1\n" + study,
+			[]Error{{Line: 4, Col: 1, Key: "dataset.alpha", Msg: `unknown key "dataset.alpha" — "alpha" is a top-level key: move it above the first table`}}},
+		{"unknown sub-table", head + study + "[study.expects]\ndirection = \"positive\"\n",
+			[]Error{{Line: 9, Col: 1, Key: "study.expects", Msg: `unknown key "study.expects" — did you mean "study.expect"?`}}},
+		{"inline table key", head + study + "also_in = { z = \"[degF]\" }\n",
+			[]Error{{Line: 9, Col: 13, Key: "study.also_in.z", Msg: `unknown key "study.also_in.z"; the keys of [study.also_in] are: x, y`}}},
+		{"wrong type", "alpha = \"0.05\"\n" + head + study,
+			[]Error{{Line: 1, Col: 1, Key: "alpha", Msg: `"alpha" must be a number, not a string`}}},
+		{"wrong list element type", head + study + "predict_at = [1, \"two\"]\n",
+			[]Error{{Line: 9, Col: 1, Key: "study.predict_at", Msg: `"study.predict_at" must be a list of numbers, not a list`}}},
+		{"also_in neither string nor list", head + study + "also_in = { x = 3 }\n",
+			[]Error{{Line: 9, Col: 13, Key: "study.also_in.x", Msg: `"study.also_in.x" must be a string or a list of strings, not a whole number`}}},
+		{"unit not a string", head + "[dataset.units]\na = 1\n" + study,
+			[]Error{{Line: 5, Col: 1, Key: "dataset.units.a", Msg: `"dataset.units.a" must be a string, not a whole number`}}},
+		{"negative seed", "seed = -1\n" + head + study,
+			[]Error{{Line: 1, Col: 1, Key: "seed", Msg: `"seed" must be a whole number of 0 or more, not a whole number`}}},
+		{"syntax error", "alpha = \n" + head + study,
+			[]Error{{Line: 1, Col: 9, Key: "alpha", Msg: `TOML syntax: expected value but found '\n' instead`}}},
+		{"duplicate key", "alpha = 0.1\nalpha = 0.2\n" + head + study,
+			[]Error{{Line: 2, Col: 1, Key: "alpha", Msg: `TOML syntax: Key 'alpha' has already been defined.`}}},
+		{"empty manifest", "",
+			[]Error{
+				{Key: "dataset", Msg: `no [[dataset]] declared: a manifest needs at least one dataset and one study`},
+				{Key: "study", Msg: `no [[study]] declared: a manifest needs at least one study`},
+			}},
+		{"bad enums and alpha, all reported", "design = \"observatonal\"\nadjust = \"bonferroni\"\nalpha = 0.7\n[output]\nformats = [\"html\", \"pdf\", \"html\"]\n" + head + study,
+			[]Error{
+				{Line: 1, Col: 1, Key: "design", Msg: `design = "observatonal" is not allowed — did you mean "observational"?; use one of "observational", "designed-experiment", "randomized-experiment"`},
+				{Line: 2, Col: 1, Key: "adjust", Msg: `adjust = "bonferroni" is not allowed; use one of "holm", "bh", "none"`},
+				{Line: 3, Col: 1, Key: "alpha", Msg: `alpha = 0.7 is outside (0, 0.5]: give the significance level as a fraction, such as 0.05`},
+				{Line: 5, Col: 1, Key: "output.formats", Msg: `output.formats = "pdf" is not allowed; use one of "html", "markdown", "json"`},
+				{Line: 5, Col: 1, Key: "output.formats", Msg: `output.formats lists "html" twice`},
+			}},
+		{"dataset problems", "[[dataset]]\nfile = \"nope.csv\"\ndelimiter = \"|\"\ndecimal = \",\"\nnon_numeric = \"skip\"\n" + head + "[[dataset]]\nid = \"nov\"\nfile = \"cell4.csv\"\n" + study,
+			[]Error{
+				{Line: 1, Col: 1, Key: "dataset.id", Msg: `[[dataset]] number 1 has no id: add id = "…" (a short name the studies refer to)`},
+				{Line: 2, Col: 1, Key: "dataset.file", Msg: `dataset "number 1": file "nope.csv" not found (looked for testdata/nope.csv)`},
+				{Line: 3, Col: 1, Key: "dataset.delimiter", Msg: `dataset.delimiter = "|" is not allowed; use one of ",", ";", "\t"`},
+				{Line: 5, Col: 1, Key: "dataset.non_numeric", Msg: `dataset.non_numeric = "skip" is not allowed; use one of "error", "missing"`},
+				{Line: 10, Col: 1, Key: "dataset.id", Msg: `dataset id "nov" is used twice (first at line 6)`},
+			}},
+		{"study problems", head + "[[study]]\ndataset = \"nvo\"\nx = \"a\"\ny = \"a\"\ncovariates = [\"a\"]\n" + study + study + "[[study]]\nid = \"bad id\"\n",
+			[]Error{
+				{Line: 4, Col: 1, Key: "study.id", Msg: `[[study]] number 1 has no id: add id = "…" (a short name, used in reports and in diffs between runs)`},
+				{Line: 5, Col: 1, Key: "study.dataset", Msg: `study "number 1": dataset "nvo" is not declared — did you mean "nov"? (declared: nov)`},
+				{Line: 7, Col: 1, Key: "study.y", Msg: `study "number 1": x and y are the same column "a"`},
+				{Line: 8, Col: 1, Key: "study.covariates", Msg: `study "number 1": covariate "a" is x or y itself; list other columns`},
+				{Line: 15, Col: 1, Key: "study.id", Msg: `study id "s1" is used twice (first at line 9)`},
+				{Line: 19, Col: 1, Key: "study.dataset", Msg: `study "bad id" has no dataset: add dataset = "…" naming one of: nov`},
+				{Line: 19, Col: 1, Key: "study.x", Msg: `study "bad id" has no x: add x = "…" (the column of the explanatory variable)`},
+				{Line: 19, Col: 1, Key: "study.y", Msg: `study "bad id" has no y: add y = "…" (the column of the response)`},
+				{Line: 20, Col: 1, Key: "study.id", Msg: `study id "bad id" may hold only letters, digits, '-', '_' and '.'`},
+			}},
+		{"expectations", head + study + "[study.expect]\ndirection = \"up\"\nform = \"curvy\"\nmin_abs_r = 1.5\nr_within = [0.9, 0.5]\nslope_within = [1]\nmax_p = 0\nmin_n = 2\n",
+			[]Error{
+				{Line: 10, Col: 1, Key: "study.expect.direction", Msg: `study.expect.direction = "up" is not allowed; use one of "positive", "negative", "none"`},
+				{Line: 11, Col: 1, Key: "study.expect.form", Msg: `study.expect.form = "curvy" is not allowed — did you mean "curved"?; use one of "linear", "curved", "nonlinear", "none"`},
+				{Line: 12, Col: 1, Key: "study.expect.min_abs_r", Msg: `study "s1": expect.min_abs_r = 1.5 is outside [0, 1]`},
+				{Line: 13, Col: 1, Key: "study.expect.r_within", Msg: `study "s1": expect.r_within must be two numbers [low, high] with low ≤ high, both in [-1, 1]; got [0.9 0.5]`},
+				{Line: 14, Col: 1, Key: "study.expect.slope_within", Msg: `study "s1": expect.slope_within must be two numbers [low, high] with low ≤ high; got [1]`},
+				{Line: 15, Col: 1, Key: "study.expect.max_p", Msg: `study "s1": expect.max_p = 0 is outside (0, 1]`},
+				{Line: 16, Col: 1, Key: "study.expect.min_n", Msg: `study "s1": expect.min_n = 2 is below 3, the fewest rows a study runs on`},
+			}},
+		{"thresholds", "[thresholds]\nstrong = 0.4\nmoderate = 0.5\noutlier_z = -3\nreversal_min_group = 1\n" + head + study,
+			[]Error{
+				{Line: 3, Col: 1, Key: "thresholds.moderate", Msg: `thresholds.moderate = 0.5 must be below thresholds.strong = 0.4`},
+				{Line: 4, Col: 1, Key: "thresholds.outlier_z", Msg: `thresholds.outlier_z = -3 must be a positive number`},
+				{Line: 5, Col: 1, Key: "thresholds.reversal_min_group", Msg: `thresholds.reversal_min_group = 1 is below 3, the fewest rows a fit needs`},
+			}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			_, err := parse(t, c.src)
+			var got Errors
+			if !errors.As(err, &got) {
+				t.Fatalf("Parse error = %v (%T), want Errors", err, err)
+			}
+			var want []string
+			for _, w := range c.want {
+				w.File = "bivar.toml"
+				want = append(want, w.Error())
+			}
+			if g, w := err.Error(), strings.Join(want, "\n"); g != w {
+				t.Errorf("Parse error:\ngot  %s\nwant %s", g, w)
+			}
+			for i := range min(len(got), len(c.want)) {
+				if got[i].Key != c.want[i].Key || got[i].Line != c.want[i].Line || got[i].Col != c.want[i].Col {
+					t.Errorf("error %d: Key, Line, Col = %q, %d, %d; want %q, %d, %d", i,
+						got[i].Key, got[i].Line, got[i].Col, c.want[i].Key, c.want[i].Line, c.want[i].Col)
+				}
+			}
+		})
+	}
+}

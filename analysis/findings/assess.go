@@ -556,15 +556,21 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 		}
 	}
 	if se.LooRMin.Valid() && se.LooRMax.Valid() {
-		add("Leaving out one row at a time, r ranges from %s (without row %s) to %s (without row %s).",
-			corr(float64(se.LooRMin)), se.LooRMinRow, corr(float64(se.LooRMax)), se.LooRMaxRow)
+		without := func(row string) string {
+			if row == "" {
+				return ""
+			}
+			return " (without row " + row + ")"
+		}
+		add("Leaving out one row at a time, r ranges from %s%s to %s%s.",
+			corr(float64(se.LooRMin)), without(se.LooRMinRow), corr(float64(se.LooRMax)), without(se.LooRMaxRow))
 	}
 	if se.ResistantSlope.Valid() && s.Line != nil && s.Line.Slope != nil {
-		method := "resistant"
+		method := ""
 		if s.Diagnostics != nil && s.Diagnostics.Resistant != nil && s.Diagnostics.Resistant.Method != "" {
-			method = s.Diagnostics.Resistant.Method
+			method = " (" + s.Diagnostics.Resistant.Method + ")"
 		}
-		add("The resistant slope (%s), which a few unusual rows cannot pull, is %s %s against %s by least squares.",
+		add("The resistant slope%s, which a few unusual rows cannot pull, is %s %s against %s by least squares.",
 			method, num(float64(se.ResistantSlope)), perUnit(s.Y.Unit, s.X.Unit, f.xLabel), num(float64(s.Line.Slope.Estimate)))
 	}
 }

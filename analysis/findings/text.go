@@ -26,7 +26,11 @@ func num(v float64) string {
 	if d < 0 {
 		d = 0
 	}
-	return minus(strconv.FormatFloat(v, 'f', d, 64))
+	t := strconv.FormatFloat(v, 'f', d, 64)
+	if strings.Contains(t, ".") {
+		t = strings.TrimRight(strings.TrimRight(t, "0"), ".")
+	}
+	return minus(t)
 }
 
 // corr writes a correlation with two decimals, three when it is within
@@ -36,10 +40,10 @@ func corr(r float64) string {
 		return "undefined"
 	}
 	d := 2
-	if math.Abs(r) >= 0.995 {
+	if math.Abs(r) >= 0.995 && math.Abs(r) < 1 {
 		d = 3
 	}
-	if math.Abs(r) >= 0.9995 {
+	if math.Abs(r) >= 0.9995 && math.Abs(r) < 1 {
 		d = 4
 	}
 	return minus(strconv.FormatFloat(r, 'f', d, 64))

@@ -1,0 +1,326 @@
+package findings
+
+// Unit tests of the verdict rules on hand-built studies. The numbers here
+// are chosen to sit on either side of a rule; they are inputs, not check
+// values of any statistic. The outside checks (Anscombe 1973 and the
+// labelled suite, run through the whole analysis) are in suite_test.go.
+
+import (
+	"math"
+	"slices"
+	"strings"
+	"testing"
+
+	"bivar/analysis/report"
+)
+
+func fl(v float64) report.Float { return report.Float(v) }
+
+// study builds a minimal filled study: x from 0 to 10 °C, y in %, a
+// straight line with r, its p (adjusted p equal), n = 50, and a quadratic
+// adding nothing.
+func study(r, p float64) *report.Study {
+	n := 50
+	s := &report.Study{
+		ID: "s", X: report.Variable{Column: "melt", Label: "melt temperature", Unit: "Cel"},
+		Y: report.Variable{Column: "shr", Label: "shrinkage", Unit: "%"},
+		N: n,
+		Describe: &report.DescribePair{
+			X: report.Describe{N: n, Min: 0, Max: 10, Mean: 5},
+			Y: report.Describe{N: n, Min: 1, Max: 3, Mean: 2},
+		},
+		Pearson: &report.Pearson{R: fl(r), R2: fl(r * r), CILow: fl(r - 0.2), CIHigh: fl(r + 0.1), P: fl(p), PAdjusted: fl(p), DF: n - 2},
+		Line: &report.Fit{Name: "line", R2: fl(r * r),
+			Intercept: &report.Coef{Name: "intercept", Estimate: 1, CILow: 0.5, CIHigh: 1.5},
+			Slope:     &report.Coef{Name: "x", Estimate: fl(0.1 * r), CILow: fl(0.05 * r), CIHigh: fl(0.15 * r)}},
+		Models: []report.Fit{{Name: "quadratic", R2: fl(r*r + 0.01), FP: fl(p), ResidualSE: 0.1, Vertex: 40,
+			Coefficients: []report.Coef{{Name: "intercept"}, {Name: "x"}, {Name: "x^2", Estimate: 0.001, P: 0.5}}}},
+		Diagnostics: &report.Diagnostics{QuadraticP: 0.5, DurbinWatson: 2,
+			DistanceCorr: &report.DistanceCorr{DCor: fl(math.Abs(r) * 0.9), P: fl(p), Permutations: 199},
+			BreuschPagan: &report.ChiTest{Stat: 1, DF: 1, P: 0.4}},
+		Influence:   &report.Influence{Points: []report.Point{}},
+		Sensitivity: &report.Sensitivity{LooRMin: fl(r - 0.02), LooRMax: fl(r + 0.02), RWithoutFlagged: fl(r), PWithoutFlagged: fl(p), ResistantSlope: fl(0.1 * r)},
+	}
+	return s
+}
+
+var ctx = Context{Alpha: 0.05, Design: Observational, Thresholds: DefaultThresholds()}
+
+func all(f *report.Findings) string {
+	return f.Headline + "\n" + strings.Join(f.Statements, "\n") + "\n" + strings.Join(f.Limits, "\n")
+}
+
+func TestAssessFailedStudy(t *testing.T) {
+	msg := "x column constant"
+	if f := Assess(&report.Study{Error: &msg}, ctx); f != nil {
+		t.Errorf("Assess(failed study) = %+v, want nil", f)
+	}
+	if f := Assess(&report.Study{}, ctx); f != nil {
+		t.Errorf("Assess(study without Pearson) = %+v, want nil", f)
+	}
+	if f := Assess(nil, ctx); f != nil {
+		t.Errorf("Assess(nil) = %+v, want nil", f)
+	}
+}
+
+func TestAssessDirectionUsesAdjustedP(t *testing.T) {
+	s := study(0.45, 0.01)
+	s.Pearson.PAdjusted = 0.08
+	s.Diagnostics.DistanceCorr.P = 0.08
+	f := Assess(s, ctx)
+	if f.Direction != "none" || f.Form != "none" || f.Strength != "none" {
+		t.Errorf("p 0.01, adjusted 0.08: direction %q form %q strength %q, want none none none", f.Direction, f.Form, f.Strength)
+	}
+	s.Pearson.PAdjusted = 0.03
+	f = Assess(s, ctx)
+	if f.Direction != "positive" || f.Form != "linear" || f.Strength != "moderate" {
+		t.Errorf("adjusted 0.03: direction %q form %q strength %q, want positive linear moderate", f.Direction, f.Form, f.Strength)
+	}
+	if !strings.Contains(all(f), "after adjustment") {
+		t.Errorf("statements do not say that p was adjusted:\n%s", all(f))
+	}
+}
+
+func TestAssessStrengthCutPoints(t *testing.T) {
+	for _, tc := range []struct {
+		r    float64
+		want string
+	}{{0.7, "strong"}, {0.6999, "moderate"}, {-0.95, "strong"}, {0.4, "moderate"}, {-0.39, "weak"}, {0.1, "weak"}, {0.09, "none"}} {
+		f := Assess(study(tc.r, 1e-6), ctx)
+		if f.Strength != tc.want {
+			t.Errorf("r = %v: strength %q, want %q", tc.r, f.Strength, tc.want)
+		}
+	}
+	th := DefaultThresholds()
+	th.Strong = 0.8
+	if f := Assess(study(0.75, 1e-6), Context{Alpha: 0.05, Thresholds: th}); f.Strength != "moderate" {
+		t.Errorf("r = 0.75 with strong = 0.8: strength %q, want moderate (override not used)", f.Strength)
+	}
+}
+
+func TestAssessLinearStatements(t *testing.T) {
+	f := Assess(study(-0.82, 1e-6), ctx)
+	if f.Form != "linear" || f.Direction != "negative" || f.Strength != "strong" {
+		t.Fatalf("got form %q direction %q strength %q, want linear negative strong", f.Form, f.Direction, f.Strength)
+	}
+	text := all(f)
+	for _, want := range []string{"Shrinkage falls with melt temperature", "r = −0.82", "95% CI", "n = 50",
+		"% per °C", "association, not cause", "outside the observed range of melt temperature (0 to 10 °C)",
+		"No covariates were declared", "No grouping variable", "No run order was declared", "common practice"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("findings lack %q:\n%s", want, text)
+		}
+	}
+}
+
+func TestAssessCurved(t *testing.T) {
+	s := study(0.55, 1e-4)
+	q := &s.Models[0]
+	q.R2, q.FP, q.Vertex, q.ResidualSE = 0.9, 1e-10, 7, 0.1
+	q.Coefficients[2].Estimate, q.Coefficients[2].P = -0.05, 1e-9
+	s.Diagnostics.QuadraticP = 1e-9
+	f := Assess(s, ctx)
+	if f.Form != "curved" || f.Bend == nil || *f.Bend != "bends-down" || !f.TurnsOver || float64(f.TurnX) != 7 {
+		t.Fatalf("got form %q bend %v turns %v at %v, want curved bends-down turning at 7", f.Form, f.Bend, f.TurnsOver, f.TurnX)
+	}
+	if f.Strength != "moderate" || f.CurveStrength != "strong" {
+		t.Errorf("strength %q curve strength %q, want moderate and strong", f.Strength, f.CurveStrength)
+	}
+	if !strings.Contains(f.Headline, "strong as a curve") || !strings.Contains(f.Headline, "moderate as a straight line") {
+		t.Errorf("headline does not give both strengths: %s", f.Headline)
+	}
+	// The vertex outside the range: bends, does not turn over.
+	q.Vertex = 14
+	q.Coefficients[2].Estimate = 0.05
+	f = Assess(s, ctx)
+	if f.Form != "curved" || *f.Bend != "bends-up" || f.TurnsOver || f.TurnX.Valid() {
+		t.Errorf("vertex outside: got %q %q turns %v at %v, want curved bends-up, no turn", f.Form, *f.Bend, f.TurnsOver, f.TurnX)
+	}
+	// A vertex just inside the range where the curve barely turns (a
+	// saturating curve): not a turn over.
+	q.Vertex, q.Coefficients[2].Estimate = 9.5, -0.05 // fall beyond the vertex 0.05·0.25 < SE 0.1
+	if f = Assess(s, ctx); f.TurnsOver {
+		t.Errorf("vertex at 9.5 with a fall of 0.0125 < SE: turns over reported")
+	}
+	// Too small a gain in R² is still a line.
+	q.Vertex, q.R2 = 7, fl(0.55*0.55+0.04)
+	if f = Assess(s, ctx); f.Form != "linear" {
+		t.Errorf("quadratic gain 0.04 < 0.05: form %q, want linear", f.Form)
+	}
+}
+
+func TestAssessNonlinear(t *testing.T) {
+	s := study(0.05, 0.6)
+	s.Diagnostics.DistanceCorr = &report.DistanceCorr{DCor: 0.45, P: 0.005, Permutations: 199}
+	f := Assess(s, ctx)
+	if f.Form != "nonlinear" || f.Direction != "none" {
+		t.Errorf("dcor 0.45 p 0.005, r 0.05: form %q direction %q, want nonlinear none", f.Form, f.Direction)
+	}
+	s.Diagnostics.DistanceCorr.DCor = 0.25
+	if f = Assess(s, ctx); f.Form != "none" {
+		t.Errorf("dcor 0.25 below 0.3: form %q, want none", f.Form)
+	}
+	// dcor below |r| is what a straight line gives: not nonlinear.
+	s = study(0.35, 1e-6)
+	s.Diagnostics.DistanceCorr = &report.DistanceCorr{DCor: 0.33, P: 0.001}
+	if f = Assess(s, ctx); f.Form != "linear" {
+		t.Errorf("dcor 0.33 < |r| 0.35: form %q, want linear", f.Form)
+	}
+}
+
+func TestAssessOutlierDriven(t *testing.T) {
+	s := study(0.8, 1e-4)
+	s.Influence.Points = []report.Point{{Row: "8", X: 19, Y: 12.5, Leverage: 1, CooksD: report.NaN(), StudentizedExt: report.NaN(),
+		Flags: []string{FlagHighLeverage, FlagSoleSupport}}}
+	s.Sensitivity.NFlagged = 1
+	s.Sensitivity.RWithoutFlagged, s.Sensitivity.PWithoutFlagged = report.NaN(), report.NaN()
+	f := Assess(s, ctx)
+	if !f.OutlierDriven {
+		t.Errorf("r undefined without the flagged row: outlier_driven false")
+	}
+	if !strings.Contains(f.Headline, "comes from row 8 alone") {
+		t.Errorf("headline does not name the row: %s", f.Headline)
+	}
+	// A flagged row whose removal leaves no relationship.
+	s.Influence.Points[0].Flags = []string{FlagInfluential}
+	s.Influence.Points[0].Leverage, s.Influence.Points[0].CooksD = 0.8, 12
+	s.Sensitivity.RWithoutFlagged, s.Sensitivity.PWithoutFlagged = 0.1, 0.4
+	if f = Assess(s, ctx); !f.OutlierDriven {
+		t.Errorf("p 0.4 without the flagged row: outlier_driven false")
+	}
+	// The verdict survives.
+	s.Sensitivity.RWithoutFlagged, s.Sensitivity.PWithoutFlagged = 0.99, 1e-8
+	if f = Assess(s, ctx); f.OutlierDriven {
+		t.Errorf("r 0.99 without the flagged row: outlier_driven true")
+	}
+	if !strings.Contains(all(f), "the verdict stands") {
+		t.Errorf("statements do not say the verdict stands:\n%s", all(f))
+	}
+	// The adjustment applies without the flagged rows too: raw p 0.02,
+	// adjusted 0.2 with the study's factor 10.
+	s.Pearson.P, s.Pearson.PAdjusted = 1e-5, 1e-4
+	s.Sensitivity.PWithoutFlagged = 0.02
+	if f = Assess(s, ctx); !f.OutlierDriven {
+		t.Errorf("p without flagged 0.02 ×10 adjustment: outlier_driven false")
+	}
+	// Leaving out one row turns the sign.
+	s = study(0.3, 0.01)
+	s.Sensitivity.LooRMin = -0.02
+	if f = Assess(s, ctx); !f.OutlierDriven {
+		t.Errorf("leave-one-out r down to −0.02 with r 0.3: outlier_driven false")
+	}
+}
+
+func TestAssessReversal(t *testing.T) {
+	s := study(0.6, 1e-5)
+	s.Group = "lot"
+	s.Groups = []report.GroupFit{
+		{Group: "A", N: 20, Slope: -1, SlopeLow: -1.4, SlopeHigh: -0.6},
+		{Group: "B", N: 20, Slope: -0.9, SlopeLow: -1.3, SlopeHigh: -0.5},
+		{Group: "C", N: 3, Slope: 5, SlopeLow: -20, SlopeHigh: 30},
+	}
+	f := Assess(s, ctx)
+	if !f.Reversal {
+		t.Fatalf("two large groups with significant negative slopes under a positive pooled r: no reversal")
+	}
+	if !strings.Contains(all(f), "the direction reverses") {
+		t.Errorf("limits do not say the direction reverses:\n%s", all(f))
+	}
+	s.Groups[1].Slope, s.Groups[1].SlopeLow, s.Groups[1].SlopeHigh = 0.9, 0.5, 1.3
+	if f = Assess(s, ctx); f.Reversal {
+		t.Errorf("groups disagree (one significant each way): reversal reported")
+	}
+	s.Groups = s.Groups[:1]
+	if f = Assess(s, ctx); f.Reversal {
+		t.Errorf("one group only: reversal reported")
+	}
+}
+
+func TestAssessCovariate(t *testing.T) {
+	s := study(0.6, 1e-5)
+	s.Covariates = []string{"ambient_rh", "line_speed"}
+	s.Partial = []report.Partial{
+		{Covariate: "ambient_rh", N: 50, R: 0.05, CILow: -0.23, CIHigh: 0.32, P: 0.7},
+		{Covariate: "line_speed", N: 50, R: 0.58, CILow: 0.36, CIHigh: 0.74, P: 1e-5},
+	}
+	f := Assess(s, ctx)
+	if !slices.Equal(f.ExplainedBy, []string{"ambient_rh"}) {
+		t.Errorf("explained_by %v, want [ambient_rh]", f.ExplainedBy)
+	}
+	text := all(f)
+	if !strings.Contains(text, "ambient_rh may carry the association") || !strings.Contains(text, "does not come from line_speed") {
+		t.Errorf("limits do not report both covariates:\n%s", text)
+	}
+}
+
+func TestAssessDriftAndSpread(t *testing.T) {
+	s := study(0.8, 1e-6)
+	s.Diagnostics.DurbinWatson = 0.9
+	if f := Assess(s, ctx); f.Drift {
+		t.Errorf("Durbin–Watson 0.9 without a declared order: drift reported (file order is not run order)")
+	}
+	s.Order = "shot"
+	if f := Assess(s, ctx); !f.Drift {
+		t.Errorf("Durbin–Watson 0.9 with order: no drift")
+	}
+	s.Diagnostics.DurbinWatson = 2.1
+	s.Diagnostics.OrderTrend = &report.OrderTrend{Slope: 0.01, P: 0.001, R: 0.4}
+	if f := Assess(s, ctx); !f.Drift {
+		t.Errorf("order trend p 0.001: no drift")
+	}
+	s.Diagnostics.OrderTrend.P = 0.3
+	f := Assess(s, ctx)
+	if f.Drift {
+		t.Errorf("trend p 0.3, DW 2.1: drift reported")
+	}
+	if !strings.Contains(all(f), "no drift in run order") {
+		t.Errorf("limits do not say drift was checked:\n%s", all(f))
+	}
+	s.Diagnostics.BreuschPagan.P = 0.001
+	s.Plot = &report.Plot{X: []float64{1, 2, 3, 4, 5, 6}, Residuals: []float64{0.1, -0.2, 0.3, -0.5, 0.8, -1}}
+	f = Assess(s, ctx)
+	if !f.SpreadChanges || !strings.Contains(all(f), "grows with melt temperature") {
+		t.Errorf("Breusch–Pagan p 0.001 and residuals growing: spread %v\n%s", f.SpreadChanges, all(f))
+	}
+}
+
+func TestAssessDesign(t *testing.T) {
+	for _, tc := range []struct{ design, want, not string }{
+		{Observational, "association, not cause", "causal reading"},
+		{"", "association, not cause", "causal reading"},
+		{DesignedExperiment, "causal reading", "association, not cause"},
+		{RandomizedExperiment, "causal reading", "association, not cause"},
+	} {
+		f := Assess(study(0.8, 1e-6), Context{Alpha: 0.05, Design: tc.design})
+		text := strings.Join(f.Limits, "\n")
+		if !strings.Contains(text, tc.want) || strings.Contains(text, tc.not) {
+			t.Errorf("design %q: limits want %q, not %q:\n%s", tc.design, tc.want, tc.not, text)
+		}
+	}
+}
+
+func TestAssessPredictionOutsideRange(t *testing.T) {
+	s := study(0.8, 1e-6)
+	s.Predictions = []report.Prediction{{X: 5, InRange: true}, {X: 12, InRange: false}}
+	text := strings.Join(Assess(s, ctx).Limits, "\n")
+	if !strings.Contains(text, "12 °C lies outside that range") {
+		t.Errorf("limits do not reject the prediction at 12 °C:\n%s", text)
+	}
+}
+
+// TestAssessAgreesWithCaution checks that no statement claims what the
+// report's caution says statistics cannot give: approval, proof, safety.
+func TestAssessAgreesWithCaution(t *testing.T) {
+	banned := []string{"prove", "guarantee", "safe to", "approved", "certif", "compliant", "validated"}
+	studies := []*report.Study{study(0.9, 1e-9), study(0.05, 0.7), study(-0.5, 1e-3)}
+	for _, d := range []string{Observational, DesignedExperiment, RandomizedExperiment} {
+		for _, s := range studies {
+			text := strings.ToLower(all(Assess(s, Context{Alpha: 0.05, Design: d})))
+			for _, b := range banned {
+				if strings.Contains(text, b) {
+					t.Errorf("design %q: findings say %q, which the caution rules out:\n%s", d, b, text)
+				}
+			}
+		}
+	}
+}

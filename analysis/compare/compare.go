@@ -285,6 +285,9 @@ func Diff(old, new *report.Report, opts Options) *Result {
 	}
 	res.Datasets = compareDatasets(old.Datasets, new.Datasets)
 	adjust(res)
+	if res.Adjust == "none" && len(res.Studies) > 0 {
+		res.Notes = append(res.Notes, fmt.Sprintf("no adjustment: each study has two change tests, so the chance of a false alarm is above alpha (about 1.6×alpha for one study in simulation, more with %d studies)", len(res.Studies)))
+	}
 
 	s := &res.Summary
 	s.Compared, s.Added, s.Removed = len(res.Studies), len(res.Added), len(res.Removed)

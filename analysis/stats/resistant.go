@@ -1,0 +1,176 @@
+package stats
+
+// This file holds the resistant line (Theil–Sen), compared with least
+// squares to show whether a few points drive the slope, and the O(n)
+// selection it uses for medians.
+
+import (
+	"fmt"
+	"math"
+	"math/bits"
+	"math/rand/v2"
+	"slices"
+)
+
+// DefaultMaxExact is the number of points up to which TheilSen uses every
+// pair when its maxExact argument is 0 or less: 2000 points, 1 999 000
+// pairs.
+const DefaultMaxExact = 2000
+
+// TheilSen returns the Theil–Sen resistant line (Theil 1950, Indag. Math.
+// 12:85–91, 173–177, 467–482; Sen 1968, JASA 63:1379–1389):
+//
+//	slope     = median of (y_j − y_i)/(x_j − x_i) over pairs with x_i ≠ x_j
+//	intercept = median of (y_i − slope·x_i)
+//
+// the same definitions as scipy.stats.theilslopes(y, x, method="joint").
+// Pairs with equal x are left out. A median of an even count is the mean of
+// the two middle values. Medians are found by selection (Hoare's quickselect
+// with an introselect fallback to sorting), so the cost is that of building
+// the slopes.
+//
+// Up to maxExact points (DefaultMaxExact when maxExact ≤ 0) every pair is
+// used: n(n−1)/2 slopes, O(n²) time and memory, and method is
+// "theil-sen (exact)". Above that the slope is the median of a random
+// sample of M = maxExact·(maxExact−1)/2 pairs drawn with replacement from
+// the n(n−1)/2 (each draw two distinct indices, uniform; draws with
+// x_i = x_j are redrawn, at most 8·M draws in all) from rand.New(src), so
+// the cost stays bounded at O(M + n) whatever n is; the sampled median is
+// within a few multiples of 1/√M in quantile of the exact one. method
+// then says "theil-sen (median of M random pairs of n points)". The
+// intercept always uses all n points. A nil src means rand.NewPCG(1, 2).
+//
+// x and y must have equal length (it panics otherwise) and hold finite
+// values. slope and intercept are NaN when fewer than two distinct x values
+// exist.
+func TheilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept float64, method string) {
+	if len(x) != len(y) {
+		panic("stats: TheilSen: x and y lengths differ")
+	}
+	if maxExact <= 0 {
+		maxExact = DefaultMaxExact
+	}
+	if maxExact < 2 {
+		maxExact = 2
+	}
+	n := len(x)
+	nan := math.NaN()
+	method = "theil-sen (exact)"
+	var slopes []float64
+	if n <= maxExact {
+		slopes = make([]float64, 0, n*(n-1)/2)
+		for i := 0; i < n; i++ {
+			xi, yi := x[i], y[i]
+			for j := i + 1; j < n; j++ {
+				if dx := x[j] - xi; dx != 0 {
+					slopes = append(slopes, (y[j]-yi)/dx)
+				}
+			}
+		}
+	} else {
+		if src == nil {
+			src = rand.NewPCG(1, 2)
+		}
+		rng := rand.New(src)
+		m := maxExact * (maxExact - 1) / 2
+		slopes = make([]float64, 0, m)
+		for draws := 0; len(slopes) < m && draws < 8*m; draws++ {
+			i := rng.IntN(n)
+			j := rng.IntN(n - 1)
+			if j >= i {
+				j++
+			}
+			if dx := x[j] - x[i]; dx != 0 {
+				slopes = append(slopes, (y[j]-y[i])/dx)
+			}
+		}
+		method = fmt.Sprintf("theil-sen (median of %d random pairs of %d points)", len(slopes), n)
+	}
+	if len(slopes) == 0 {
+		return nan, nan, method
+	}
+	slope = medianInPlace(slopes)
+	resid := make([]float64, n)
+	for i := range x {
+		resid[i] = y[i] - slope*x[i]
+	}
+	intercept = medianInPlace(resid)
+	return slope, intercept, method
+}
+
+// medianInPlace returns the median of a (mean of the two middle values for
+// an even length), reordering a. It returns NaN for an empty a. a must hold
+// no NaN.
+func medianInPlace(a []float64) float64 {
+	n := len(a)
+	if n == 0 {
+		return math.NaN()
+	}
+	k := n / 2
+	hi := selectInPlace(a, k)
+	if n%2 == 1 {
+		return hi
+	}
+	// After selection a[:k] holds the k smallest values: the lower middle
+	// is their maximum.
+	lo := slices.Max(a[:k])
+	return lo + (hi-lo)/2
+}
+
+// selectInPlace reorders a so that a[k] is the value a sorted copy would
+// hold there, every a[i ≤ k] ≤ a[k] and every a[i ≥ k] ≥ a[k], and returns
+// a[k]. Quickselect (Hoare 1961, Algorithm 65 FIND) with a median-of-three
+// pivot and three-way partitioning, falling back to sorting the remaining
+// range after 2·log₂n rounds so the worst case stays O(n log n) (Musser
+// 1997, introselect). Expected cost O(n).
+func selectInPlace(a []float64, k int) float64 {
+	lo, hi := 0, len(a) // active range [lo, hi)
+	budget := 2 * bits.Len(uint(len(a)))
+	for hi-lo > 16 {
+		if budget == 0 {
+			slices.Sort(a[lo:hi])
+			return a[k]
+		}
+		budget--
+		mid := lo + (hi-lo)/2
+		p := median3(a[lo], a[mid], a[hi-1])
+		// Dutch-flag partition of [lo, hi): < p, == p, > p.
+		lt, i, gt := lo, lo, hi
+		for i < gt {
+			switch v := a[i]; {
+			case v < p:
+				a[lt], a[i] = a[i], a[lt]
+				lt++
+				i++
+			case v > p:
+				gt--
+				a[gt], a[i] = a[i], a[gt]
+			default:
+				i++
+			}
+		}
+		switch {
+		case k < lt:
+			hi = lt
+		case k >= gt:
+			lo = gt
+		default:
+			return p
+		}
+	}
+	slices.Sort(a[lo:hi])
+	return a[k]
+}
+
+func median3(a, b, c float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if b > c {
+		b = c
+	}
+	if a > b {
+		return a
+	}
+	return b
+}

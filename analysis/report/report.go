@@ -276,6 +276,7 @@ type LowessInfo struct {
 	Frac       float64 `json:"frac"`
 	Iterations int     `json:"iterations"`
 	Delta      float64 `json:"delta"`
+	Sampled    int     `json:"sampled"` // rows the curve was fitted to (a seeded sample above the stated bound; = n otherwise)
 }
 
 // Partial is the correlation of x and y given one covariate.

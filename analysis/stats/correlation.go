@@ -63,7 +63,11 @@ func corrFromSums(sxx, syy, sxy float64) float64 {
 	if !(sxx > 0) || !(syy > 0) {
 		return math.NaN()
 	}
-	r := sxy / (math.Sqrt(sxx) * math.Sqrt(syy))
+	d := math.Sqrt(sxx * syy) // one rounding: y = x gives exactly 1
+	if math.IsInf(d, 0) || d < 0x1p-1000 {
+		d = math.Sqrt(sxx) * math.Sqrt(syy) // product out of range
+	}
+	r := sxy / d
 	return math.Max(-1, math.Min(1, r))
 }
 
@@ -227,7 +231,7 @@ func KendallTauB(x, y []float64) (tau, p float64) {
 	}
 	n0 := int64(n) * int64(n-1) / 2
 	s := n0 - tx.pairs - ty.pairs + txy.pairs - 2*swaps
-	den := math.Sqrt(float64(n0-tx.pairs)) * math.Sqrt(float64(n0-ty.pairs))
+	den := math.Sqrt(float64(n0-tx.pairs) * float64(n0-ty.pairs))
 	if den == 0 {
 		return math.NaN(), math.NaN()
 	}

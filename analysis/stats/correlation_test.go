@@ -1,0 +1,308 @@
+package stats
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+// Reference values from scipy 1.10.1 (numpy 1.24.2), computed by
+// /work/shared/tools/refcheck.py on Anscombe (1973) sets I–IV from
+// shared/reference/anscombe.csv and on the ties case below:
+//
+//	rho, p = scipy.stats.spearmanr(x, y)                     (average ranks; p by t, n−2 df)
+//	tau, p = scipy.stats.kendalltau(x, y, variant="b", method="asymptotic")
+//	r, p   = scipy.stats.pearsonr(x, y); CI = tanh(atanh(r) ∓ 1.959963984540054/√(n−3))
+var rankRef = []struct {
+	name               string
+	spearman, spearmnP float64
+	tau, tauP          float64
+}{
+	{"I", 0.8181818181818182, 0.0020831448404786904, 0.6363636363636364, 0.006435091231559117},
+	{"II", 0.690909090909091, 0.018565033381595004, 0.5636363636363636, 0.01580677460730225},
+	{"III", 0.990909090909091, 3.762571807085399e-09, 0.9636363636363636, 3.6905604049815226e-05},
+	{"IV", 0.5, 0.11730680301423815, 0.42640143271122083, 0.11384629800665805},
+	{"ties", 0.9501488095238095, 1.7974520018768076e-08, 0.8495575221238938, 1.1384268182456134e-05},
+}
+
+// A hand-made case with ties in both variables (not invented data posing as
+// measurements: small integers chosen to make tie groups of 2 and 3).
+var (
+	tiesX = []float64{1, 2, 2, 3, 3, 3, 4, 5, 5, 6, 7, 7, 8, 9, 9, 10}
+	tiesY = []float64{2, 1, 3, 3, 5, 4, 4, 6, 5, 5, 8, 7, 7, 9, 10, 9}
+)
+
+func rankRefData(t *testing.T, name string) (x, y []float64) {
+	if name == "ties" {
+		return tiesX, tiesY
+	}
+	s := coreAnscombe(t)[name]
+	return s[0], s[1]
+}
+
+func TestRankCorrelationsReference(t *testing.T) {
+	t.Parallel()
+	for _, tc := range rankRef {
+		t.Run(tc.name, func(t *testing.T) {
+			x, y := rankRefData(t, tc.name)
+			rho, p := Spearman(x, y)
+			if !coreClose(rho, tc.spearman, 1e-12) || !coreClose(p, tc.spearmnP, 1e-9*tc.spearmnP) {
+				t.Errorf("Spearman = %.16g, p %.16g; scipy %.16g, p %.16g", rho, p, tc.spearman, tc.spearmnP)
+			}
+			tau, tp := KendallTauB(x, y)
+			if !coreClose(tau, tc.tau, 1e-12) || !coreClose(tp, tc.tauP, 1e-9*tc.tauP) {
+				t.Errorf("KendallTauB = %.16g, p %.16g; scipy %.16g, p %.16g", tau, tp, tc.tau, tc.tauP)
+			}
+		})
+	}
+}
+
+func TestPearsonReference(t *testing.T) {
+	t.Parallel()
+	// scipy 1.10.1 scipy.stats.pearsonr via refcheck.py; Fisher-z CI at 95 %.
+	cases := []struct {
+		name         string
+		r, p, lo, hi float64
+	}{
+		{"I", 0.81642051634484, 0.002169628873078783, 0.4243912133932165, 0.9506932537865606},
+		{"IV", 0.816521436888503, 0.002164602347197214, 0.4246393822445132, 0.9507223620781419},
+		{"ties", 0.9447962479293388, 3.618055267383367e-08, 0.8446965553290496, 0.9810405302678755},
+	}
+	for _, tc := range cases {
+		x, y := rankRefData(t, tc.name)
+		c := Pearson(x, y, 0.95)
+		if !coreClose(c.R, tc.r, 1e-13) || !coreClose(c.P, tc.p, 1e-9*tc.p) ||
+			!coreClose(c.CILow, tc.lo, 1e-12) || !coreClose(c.CIHigh, tc.hi, 1e-12) {
+			t.Errorf("%s: Pearson = %+v; scipy r %.16g p %.16g CI [%.16g, %.16g]", tc.name, c, tc.r, tc.p, tc.lo, tc.hi)
+		}
+		if c.DF != len(x)-2 || !coreClose(c.R2, tc.r*tc.r, 1e-13) {
+			t.Errorf("%s: DF %d R2 %g", tc.name, c.DF, c.R2)
+		}
+	}
+}
+
+func TestRanks(t *testing.T) {
+	t.Parallel()
+	// Hand-checkable: average ranks (Kendall & Gibbons 1990, §3.8).
+	got := Ranks([]float64{10, 20, 20, 5, 20, 7})
+	want := []float64{3, 5, 5, 1, 5, 2}
+	for i := range want {
+		if got[i] != want[i] {
+			t.Fatalf("Ranks = %v, want %v", got, want)
+		}
+	}
+	// Against a naive O(n²) definition on random tied data.
+	rng := rand.New(rand.NewPCG(7, 1))
+	for trial := 0; trial < 100; trial++ {
+		n := 1 + rng.IntN(40)
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = float64(rng.IntN(8))
+		}
+		r := Ranks(x)
+		for i := range x {
+			less, eq := 0, 0
+			for j := range x {
+				if x[j] < x[i] {
+					less++
+				} else if x[j] == x[i] {
+					eq++
+				}
+			}
+			if w := float64(less) + float64(eq+1)/2; r[i] != w {
+				t.Fatalf("Ranks(%v)[%d] = %g, want %g", x, i, r[i], w)
+			}
+		}
+	}
+}
+
+// naiveTauB is τ-b and its tie-corrected normal p by the O(n²) definition.
+func naiveTauB(x, y []float64) (tau, p float64) {
+	n := len(x)
+	var s, tx, ty float64
+	for i := 0; i < n; i++ {
+		for j := i + 1; j < n; j++ {
+			a := math.Copysign(1, x[i]-x[j])
+			b := math.Copysign(1, y[i]-y[j])
+			if x[i] == x[j] {
+				a = 0
+				tx++
+			}
+			if y[i] == y[j] {
+				b = 0
+				ty++
+			}
+			s += a * b
+		}
+	}
+	n0 := float64(n*(n-1)) / 2
+	tau = s / math.Sqrt((n0-tx)*(n0-ty))
+	groups := func(v []float64) (v0, v1, v2 float64) {
+		cnt := map[float64]float64{}
+		for _, e := range v {
+			cnt[e]++
+		}
+		for _, t := range cnt {
+			v0 += t * (t - 1) * (2*t + 5)
+			v1 += t * (t - 1)
+			v2 += t * (t - 1) * (t - 2)
+		}
+		return
+	}
+	a0, a1, a2 := groups(x)
+	b0, b1, b2 := groups(y)
+	nf := float64(n)
+	v := (nf*(nf-1)*(2*nf+5)-a0-b0)/18 + a1*b1/(2*nf*(nf-1)) + a2*b2/(9*nf*(nf-1)*(nf-2))
+	return tau, math.Erfc(math.Abs(s/math.Sqrt(v)) / math.Sqrt2)
+}
+
+func TestKendallMatchesNaive(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(11, 3))
+	for trial := 0; trial < 300; trial++ {
+		n := 3 + rng.IntN(80)
+		levels := 2 + rng.IntN(30) // few levels make many ties
+		x, y := make([]float64, n), make([]float64, n)
+		for i := range x {
+			x[i] = float64(rng.IntN(levels))
+			y[i] = float64(rng.IntN(levels)) + 0.3*x[i]*float64(trial%3)
+		}
+		tau, p := KendallTauB(x, y)
+		wt, wp := naiveTauB(x, y)
+		if !coreClose(tau, wt, 1e-12) || !coreClose(p, wp, 1e-9) {
+			t.Fatalf("n=%d: KendallTauB = %.15g, p %.15g; naive %.15g, p %.15g\nx=%v\ny=%v", n, tau, p, wt, wp, x, y)
+		}
+	}
+}
+
+func TestCorrelationProperties(t *testing.T) {
+	t.Parallel()
+	// Facts of the trade (common practice): r ∈ [−1, 1]; r is unchanged by a
+	// positive affine change of either variable and changes sign under a
+	// negative scale; r is symmetric in x and y while the slope is not, and
+	// slope(y on x)·slope(x on y) = r².
+	rng := rand.New(rand.NewPCG(2026, 12))
+	for trial := 0; trial < 500; trial++ {
+		n := 3 + rng.IntN(200)
+		beta := rng.NormFloat64() * 3
+		x, y := make([]float64, n), make([]float64, n)
+		for i := range x {
+			x[i] = rng.NormFloat64()*math.Exp(rng.NormFloat64()) + 50*rng.NormFloat64()
+			y[i] = beta*x[i] + rng.NormFloat64()*10
+		}
+		c := Pearson(x, y, 0.95)
+		if !(c.R >= -1 && c.R <= 1) {
+			t.Fatalf("r = %v outside [−1, 1]", c.R)
+		}
+		if !(c.CILow <= c.R && c.R <= c.CIHigh) && n > 3 {
+			t.Fatalf("r = %v outside its CI [%v, %v]", c.R, c.CILow, c.CIHigh)
+		}
+		a := math.Exp(rng.NormFloat64() * 4) // positive scale 1e-3..1e3-ish
+		b := rng.NormFloat64() * 1e4
+		xs, ys, xn := make([]float64, n), make([]float64, n), make([]float64, n)
+		for i := range x {
+			xs[i] = a*x[i] + b
+			ys[i] = a*y[i] - b
+			xn[i] = -a*x[i] + b
+		}
+		for _, v := range []struct {
+			name string
+			r    float64
+			want float64
+		}{
+			{"a·x+b", Pearson(xs, y, 0.95).R, c.R},
+			{"a·y−b", Pearson(x, ys, 0.95).R, c.R},
+			{"−a·x+b", Pearson(xn, y, 0.95).R, -c.R},
+			{"swap", Pearson(y, x, 0.95).R, c.R},
+		} {
+			if math.Abs(v.r-v.want) > 1e-10 {
+				t.Fatalf("trial %d: r(%s) = %.15g, want %.15g", trial, v.name, v.r, v.want)
+			}
+		}
+		rs, _ := Spearman(xs, y)
+		r0, _ := Spearman(x, y)
+		tb, _ := KendallTauB(xn, y)
+		t0, _ := KendallTauB(x, y)
+		if rs != r0 || !coreClose(tb, -t0, 1e-14) {
+			t.Fatalf("rank correlations not invariant: ρ %v vs %v, τ %v vs −%v", rs, r0, tb, t0)
+		}
+		lyx, err1 := Line(x, y, 0.95)
+		lxy, err2 := Line(y, x, 0.95)
+		if err1 != nil || err2 != nil {
+			t.Fatal(err1, err2)
+		}
+		if prod := lyx.Slope.Estimate * lxy.Slope.Estimate; !coreClose(prod, c.R2, 1e-10) {
+			t.Fatalf("slope_yx·slope_xy = %.15g, want r² = %.15g", prod, c.R2)
+		}
+		if !coreClose(lyx.R2, c.R2, 1e-10) {
+			t.Fatalf("line R² %.15g ≠ r² %.15g", lyx.R2, c.R2)
+		}
+		if !coreClose(lyx.Slope.T, c.T, 1e-8) || !coreClose(lyx.Slope.P, c.P, 1e-8) {
+			t.Fatalf("slope t %v p %v ≠ r's t %v p %v", lyx.Slope.T, lyx.Slope.P, c.T, c.P)
+		}
+	}
+}
+
+func TestCorrelationEdges(t *testing.T) {
+	t.Parallel()
+	nan := math.IsNaN
+	// n = 2: r = ±1, no t-test, no interval.
+	c := Pearson([]float64{1, 2}, []float64{5, 3}, 0.95)
+	if c.R != -1 || !nan(c.T) || !nan(c.P) || !nan(c.CILow) || c.DF != 0 {
+		t.Errorf("n=2: %+v", c)
+	}
+	// Constant column: NaN, no panic.
+	k := []float64{3, 3, 3, 3, 3}
+	v := []float64{1, 2, 3, 4, 6}
+	if c := Pearson(k, v, 0.95); !nan(c.R) || !nan(c.P) || !nan(c.CILow) {
+		t.Errorf("constant x: %+v", c)
+	}
+	if r, p := Spearman(v, k); !nan(r) || !nan(p) {
+		t.Errorf("constant y: Spearman %v %v", r, p)
+	}
+	if r, p := KendallTauB(k, v); !nan(r) || !nan(p) {
+		t.Errorf("constant x: Kendall %v %v", r, p)
+	}
+	// Perfect correlation: |r| = 1, T infinite, P = 0, CI collapses.
+	if c := Pearson(v, v, 0.95); c.R != 1 || !math.IsInf(c.T, 1) || c.P != 0 || c.CILow != 1 {
+		t.Errorf("y = x: %+v", c)
+	}
+	if r, _ := KendallTauB(v, []float64{6, 4, 3, 2, 1}); r != -1 {
+		t.Errorf("reversed: τ-b = %v, want −1", r)
+	}
+	// Empty and single inputs.
+	for _, n := range []int{0, 1} {
+		x := make([]float64, n)
+		if c := Pearson(x, x, 0.95); !nan(c.R) {
+			t.Errorf("n=%d: r = %v", n, c.R)
+		}
+		if r, _ := KendallTauB(x, x); !nan(r) {
+			t.Errorf("n=%d: τ = %v", n, r)
+		}
+		if r, _ := Spearman(x, x); !nan(r) {
+			t.Errorf("n=%d: ρ = %v", n, r)
+		}
+	}
+	if lo, hi := FisherCI(0.5, 3, 0.95); !nan(lo) || !nan(hi) {
+		t.Errorf("FisherCI n=3: %v %v", lo, hi)
+	}
+	if lo, hi := FisherCI(0.5, 10, 1.5); !nan(lo) || !nan(hi) {
+		t.Errorf("FisherCI conf 1.5: %v %v", lo, hi)
+	}
+	// Length mismatch is a programmer error: panic.
+	a, b := []float64{1, 2, 3}, []float64{1, 2}
+	for name, f := range map[string]func(){
+		"Pearson":        func() { Pearson(a, b, 0.95) },
+		"Spearman":       func() { Spearman(a, b) },
+		"KendallTauB":    func() { KendallTauB(a, b) },
+		"CentredMoments": func() { CentredMoments(a, b) },
+		"Line":           func() { Line(a, b, 0.95) },
+		"Polynomial":     func() { Polynomial(a, b, 2, 0.95) },
+		"LeastSquares":   func() { LeastSquares([][]float64{a}, b, 0.95) },
+		"Influence":      func() { Influence(a, b) },
+	} {
+		if !corePanics(f) {
+			t.Errorf("%s: no panic on length mismatch", name)
+		}
+	}
+}

@@ -1,0 +1,287 @@
+package stats
+
+import (
+	"math"
+	"math/rand/v2"
+	"strings"
+	"testing"
+)
+
+// TestAnscombe checks the straight line and r on Anscombe (1973), "Graphs
+// in Statistical Analysis", Am. Stat. 27(1):17–21, read in place from
+// shared/reference/anscombe.csv. The four sets share r = 0.816, slope
+// 0.500 and intercept 3.00 (the figures issue 2 gives as published; our
+// values from memory, not re-read from the printed page), checked for every
+// set to half a unit in the last printed digit. Also quoted (from memory of
+// the paper's table, as in STYLE.md): mean of x 9.0, mean of y 7.50,
+// SE(slope) 0.118.
+//
+// Finding: the three-decimal r does not hold for every set. Set IV has
+// r = 0.81652 (scipy.stats.pearsonr gives 0.816521436888503, see
+// TestPearsonReference), which rounds to 0.817, so there the figure 0.816
+// holds to 0.001 rather than to half a unit (0.0005). The test checks set IV
+// at that tolerance and pins that it rounds to 0.817 rather than hiding it.
+func TestAnscombe(t *testing.T) {
+	t.Parallel()
+	sets := coreAnscombe(t)
+	for _, name := range []string{"I", "II", "III", "IV"} {
+		t.Run(name, func(t *testing.T) {
+			x, y := sets[name][0], sets[name][1]
+			if len(x) != 11 {
+				t.Fatalf("set %s: %d points, want 11", name, len(x))
+			}
+			c := Pearson(x, y, 0.95)
+			l, err := Line(x, y, 0.95)
+			if err != nil {
+				t.Fatal(err)
+			}
+			m := CentredMoments(x, y)
+			rTol := 5e-4
+			if name == "IV" {
+				rTol = 1e-3
+				if math.Round(c.R*1000) != 817 {
+					t.Errorf("Anscombe IV: r = %.6f, expected it to round to 0.817", c.R)
+				}
+			}
+			for _, v := range []struct {
+				what      string
+				got, want float64
+				tol       float64
+			}{
+				{"r", c.R, 0.816, rTol},
+				{"slope", l.Slope.Estimate, 0.500, 5e-4},
+				{"intercept", l.Intercept.Estimate, 3.00, 5e-3},
+				{"mean x", m.MeanX, 9.0, 5e-2},
+				{"mean y", m.MeanY, 7.50, 5e-3},
+				{"SE(slope)", l.Slope.SE, 0.118, 5e-4},
+			} {
+				if math.Abs(v.got-v.want) > v.tol {
+					t.Errorf("Anscombe %s: %s = %.6g, published %g ± %g", name, v.what, v.got, v.want, v.tol)
+				}
+			}
+		})
+	}
+}
+
+// TestLineIntervalsReference compares the line's confidence and prediction
+// intervals, and the quadratic fit, with statsmodels 0.13.5 (numpy 1.24.2):
+//
+//	m = sm.OLS(y, sm.add_constant(x)).fit()
+//	m.get_prediction([[1, x0]]).summary_frame(alpha=0.05)   # mean, mean_ci_*, obs_ci_*
+//	q = sm.OLS(y, np.column_stack([ones, x, x**2])).fit()   # params, bse, rsquared, fvalue, ssr
+//
+// on Anscombe (1973) set I (line) and set II (quadratic) from
+// shared/reference/anscombe.csv.
+func TestLineIntervalsReference(t *testing.T) {
+	t.Parallel()
+	sets := coreAnscombe(t)
+	l, err := Line(sets["I"][0], sets["I"][1], 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		x0   float64
+		want [5]float64
+	}{
+		{10, [5]float64{8.001000000000001, 7.116387273163831, 8.885612726836172, 5.0670715003112665, 10.934928499688736}},
+		{20, [5]float64{13.001909090909093, 9.949150314461603, 16.054667867356585, 8.86128922040873, 17.142528961409454}},
+	} {
+		f, cl, ch, pl, ph := l.Interval(tc.x0, 0.95)
+		got := [5]float64{f, cl, ch, pl, ph}
+		for k := range got {
+			// gonum's t quantile agrees with scipy's to about 1e-11.
+			if !coreClose(got[k], tc.want[k], 1e-9) {
+				t.Errorf("Interval(%g)[%d] = %.15g, statsmodels %.15g", tc.x0, k, got[k], tc.want[k])
+			}
+		}
+		pf, pcl, pch, ppl, pph := l.Predict([]float64{tc.x0}, 0.95)
+		if !coreClose(pf, f, 1e-13) || !coreClose(pcl, cl, 1e-12) || !coreClose(pch, ch, 1e-12) ||
+			!coreClose(ppl, pl, 1e-12) || !coreClose(pph, ph, 1e-12) {
+			t.Errorf("Predict(%g) = %v %v %v %v %v, Interval %v %v %v %v %v", tc.x0, pf, pcl, pch, ppl, pph, f, cl, ch, pl, ph)
+		}
+	}
+
+	q, err := Polynomial(sets["II"][0], sets["II"][1], 2, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	est := []float64{-5.995734265734321, 2.7808391608391574, -0.12671328671328724}
+	se := []float64{0.004329945849097401, 0.0010400555212629011, 5.709766300192712e-05}
+	for j := range est {
+		if !coreClose(q.Coef[j].Estimate, est[j], 1e-11) || !coreClose(q.Coef[j].SE, se[j], 1e-8) {
+			t.Errorf("quadratic b%d = %.15g (SE %.15g), statsmodels %.15g (%.15g)", j, q.Coef[j].Estimate, q.Coef[j].SE, est[j], se[j])
+		}
+	}
+	if !coreClose(q.R2, 0.999999457857722, 1e-12) || !coreClose(q.F, 7378133.000003038, 1e-7) || !coreClose(q.RSS, 2.2377622377613164e-05, 1e-7) {
+		t.Errorf("quadratic R² %.15g F %.15g RSS %.15g", q.R2, q.F, q.RSS)
+	}
+	want := []float64{9.141328671328528, 9.139628172105342, 9.143029170551715, 9.137113667503307, 9.14554367515375}
+	f, cl, ch, pl, ph := q.Predict(PowerRow(10, 2), 0.95)
+	for k, g := range []float64{f, cl, ch, pl, ph} {
+		if !coreClose(g, want[k], 1e-9) {
+			t.Errorf("quadratic Predict(10)[%d] = %.15g, statsmodels %.15g", k, g, want[k])
+		}
+	}
+}
+
+// TestLineFarFromOrigin: the issue's trap, x = 10⁶ + 0..20. The data are
+// constructed so the exact answer is known: y = 7 + 0.25·x + d with
+// d = 21(i−10)² − 770 orthogonal to 1 and x (all values exact in float64),
+// so the least-squares intercept is exactly 7 and the slope 0.25.
+func TestLineFarFromOrigin(t *testing.T) {
+	t.Parallel()
+	x, y := make([]float64, 21), make([]float64, 21)
+	for i := range x {
+		x[i] = 1e6 + float64(i)
+		d := 21*float64((i-10)*(i-10)) - 770
+		y[i] = 7 + 0.25*x[i] + d
+	}
+	l, err := Line(x, y, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	li, ls := lre(l.Intercept.Estimate, 7), lre(l.Slope.Estimate, 0.25)
+	t.Logf("x = 1e6+0..20: intercept LRE %.2f, slope LRE %.2f", li, ls)
+	if li < 9 || ls < 12 {
+		t.Errorf("intercept %.15g (LRE %.2f), slope %.15g (LRE %.2f)", l.Intercept.Estimate, li, l.Slope.Estimate, ls)
+	}
+}
+
+func TestLeastSquaresIdentities(t *testing.T) {
+	t.Parallel()
+	// Identities of least squares (common practice): residuals sum to 0 and
+	// are orthogonal to every column; leverages sum to p+1 and lie in
+	// [1/n, 1]; TSS = ESS + RSS; fitted + residual = y.
+	rng := rand.New(rand.NewPCG(5, 9))
+	for trial := 0; trial < 200; trial++ {
+		n := 5 + rng.IntN(100)
+		p := 1 + rng.IntN(min(4, n-3))
+		cols := make([][]float64, p)
+		y := make([]float64, n)
+		for j := range cols {
+			cols[j] = make([]float64, n)
+			for i := range cols[j] {
+				cols[j][i] = rng.NormFloat64()*10 + 100*float64(j)
+			}
+		}
+		for i := range y {
+			y[i] = rng.NormFloat64()
+			for j := range cols {
+				y[i] += float64(j+1) * cols[j][i]
+			}
+		}
+		r, err := LeastSquares(cols, y, 0.95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var se, sh float64
+		for i := range y {
+			se += r.Residuals[i]
+			sh += r.Leverage[i]
+			if h := r.Leverage[i]; h < 1/float64(n)-1e-12 || h > 1+1e-12 {
+				t.Fatalf("leverage %v outside [1/n, 1]", h)
+			}
+			if !coreClose(r.Fitted[i]+r.Residuals[i], y[i], 1e-12) {
+				t.Fatalf("fitted + residual ≠ y at row %d", i)
+			}
+		}
+		if math.Abs(se) > 1e-9*math.Sqrt(r.RSS+1) {
+			t.Fatalf("Σe = %g", se)
+		}
+		if !coreClose(sh, float64(p+1), 1e-12) {
+			t.Fatalf("Σh = %.15g, want %d", sh, p+1)
+		}
+		for j, c := range cols {
+			var dot float64
+			for i := range c {
+				dot += c[i] * r.Residuals[i]
+			}
+			if math.Abs(dot) > 1e-8*math.Sqrt(r.RSS)*math.Sqrt(float64(n))*1e3 {
+				t.Fatalf("column %d not orthogonal to residuals: %g", j, dot)
+			}
+		}
+		if r.DFResid != n-p-1 || !coreClose(r.AdjR2, 1-(1-r.R2)*float64(n-1)/float64(n-p-1), 1e-12) {
+			t.Fatalf("DFResid %d AdjR2 %v", r.DFResid, r.AdjR2)
+		}
+		if want := float64(n)*math.Log(r.RSS/float64(n)) + 2*float64(p+1); !coreClose(r.AIC, want, 1e-12) {
+			t.Fatalf("AIC %v, want %v", r.AIC, want)
+		}
+		for j := range r.Coef {
+			c := r.Coef[j]
+			if !(c.CILow < c.Estimate && c.Estimate < c.CIHigh) || !coreClose(c.T, c.Estimate/c.SE, 1e-12) {
+				t.Fatalf("coef %d: %+v", j, c)
+			}
+		}
+	}
+}
+
+func TestLeastSquaresErrors(t *testing.T) {
+	t.Parallel()
+	x := []float64{1, 2, 3, 4, 5}
+	y := []float64{2, 4, 5, 4, 5}
+	for _, tc := range []struct {
+		name string
+		cols [][]float64
+		y    []float64
+		want string
+	}{
+		{"too few rows", [][]float64{x[:2], x[:2]}, y[:2], "need at least 3"},
+		{"constant column", [][]float64{{4, 4, 4, 4, 4}}, y, "constant"},
+		{"collinear", [][]float64{x, {2, 4, 6, 8, 10}}, y, "linear combination"},
+		{"NaN in y", [][]float64{x}, []float64{1, 2, math.NaN(), 4, 5}, "response row 3"},
+		{"Inf in x", [][]float64{{1, 2, 3, math.Inf(1), 5}}, y, "predictor 1 row 4"},
+	} {
+		_, err := LeastSquares(tc.cols, tc.y, 0.95)
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: error %v, want one containing %q", tc.name, err, tc.want)
+		}
+	}
+	if _, err := Line([]float64{3}, []float64{1}, 0.95); err == nil {
+		t.Error("Line with one point: no error")
+	}
+	if _, err := Line([]float64{3, 3, 3}, []float64{1, 2, 3}, 0.95); err == nil {
+		t.Error("Line with constant x: no error")
+	}
+	if _, err := Polynomial(x, y, 0, 0.95); err == nil {
+		t.Error("Polynomial degree 0: no error")
+	}
+	if _, err := Polynomial([]float64{1, 1, 2, 2, 2}, y, 2, 0.95); err == nil {
+		t.Error("quadratic on two distinct x: no error")
+	}
+}
+
+func TestLineEdges(t *testing.T) {
+	t.Parallel()
+	// n = 2: the line is exact; inference is undefined (NaN), not a panic.
+	l, err := Line([]float64{1, 3}, []float64{2, 6}, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if l.Slope.Estimate != 2 || l.Intercept.Estimate != 0 || l.DFResid != 0 ||
+		!math.IsNaN(l.Slope.SE) || !math.IsNaN(l.ResidualSE) || !math.IsNaN(l.F) {
+		t.Errorf("n=2: %+v", l)
+	}
+	if f, lo, _, _, _ := l.Interval(2, 0.95); f != 4 || !math.IsNaN(lo) {
+		t.Errorf("n=2 Interval(2) = %v, %v", f, lo)
+	}
+	// Constant y: slope 0, R² undefined.
+	l, err = Line([]float64{1, 2, 3, 4}, []float64{5, 5, 5, 5}, 0.95)
+	if err != nil || l.Slope.Estimate != 0 || !math.IsNaN(l.R2) {
+		t.Errorf("constant y: %v %+v", err, l)
+	}
+	// Hand-checkable: x = 1..5, y = 2,4,5,4,5 gives y = 2.2 + 0.6x,
+	// RSS = 2.4, s² = 0.8, SE(slope) = √(0.8/10).
+	l, err = Line([]float64{1, 2, 3, 4, 5}, []float64{2, 4, 5, 4, 5}, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !coreClose(l.Slope.Estimate, 0.6, 1e-15) || !coreClose(l.Intercept.Estimate, 2.2, 1e-15) ||
+		!coreClose(l.RSS, 2.4, 1e-14) || !coreClose(l.Slope.SE, math.Sqrt(0.08), 1e-14) || l.Sxx != 10 || l.MeanX != 3 {
+		t.Errorf("hand case: %+v", l)
+	}
+	// At x0 = x̄ the mean-response half-width is t·s/√n.
+	f, lo, hi, _, _ := l.Interval(3, 0.95)
+	if hw := TQuantile(0.975, 3) * math.Sqrt(0.8/5); !coreClose(f, 4, 1e-15) || !coreClose(hi-f, hw, 1e-13) || !coreClose(f-lo, hw, 1e-13) {
+		t.Errorf("Interval(x̄) = %v [%v, %v], half-width want %v", f, lo, hi, hw)
+	}
+}

@@ -286,7 +286,7 @@ func Diff(old, new *report.Report, opts Options) *Result {
 	res.Datasets = compareDatasets(old.Datasets, new.Datasets)
 	adjust(res)
 	if res.Adjust == "none" && len(res.Studies) > 0 {
-		res.Notes = append(res.Notes, fmt.Sprintf("no adjustment: each study has two change tests, so the chance of a false alarm is above alpha (about 1.6×alpha for one study in simulation, more with %d studies)", len(res.Studies)))
+		res.Notes = append(res.Notes, "no adjustment: each compared study has two change tests and each can raise a false alarm, so the chance of at least one is above alpha (about 1.6 × alpha for a single study, measured by simulation in compare's tests)")
 	}
 
 	s := &res.Summary
@@ -413,23 +413,20 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange 
 		}
 	}
 	sc.Verdicts = verdictChanges(prev.Findings, cur.Findings)
+	if (prev.Findings == nil) != (cur.Findings == nil) {
+		sc.Notes = append(sc.Notes, "verdicts not compared: one run has no findings for this study")
+	}
 	sc.VerdictChanged = len(sc.Verdicts) > 0
 	return sc
 }
 
 func verdictChanges(of, nf *report.Findings) []VerdictChange {
 	out := []VerdictChange{}
-	if of == nil && nf == nil {
-		return out
+	if of == nil || nf == nil {
+		return out // a run without findings (the study failed there) has no verdict to compare
 	}
-	get := func(f *report.Findings) (form, dir, str, od string) {
-		if f == nil {
-			return "-", "-", "-", "-"
-		}
-		return f.Form, f.Direction, f.Strength, fmt.Sprint(f.OutlierDriven)
-	}
-	a1, a2, a3, a4 := get(of)
-	b1, b2, b3, b4 := get(nf)
+	a1, a2, a3, a4 := of.Form, of.Direction, of.Strength, fmt.Sprint(of.OutlierDriven)
+	b1, b2, b3, b4 := nf.Form, nf.Direction, nf.Strength, fmt.Sprint(nf.OutlierDriven)
 	for _, v := range []VerdictChange{{"form", a1, b1}, {"direction", a2, b2}, {"strength", a3, b3}, {"outlier_driven", a4, b4}} {
 		if v.Old != v.New {
 			out = append(out, v)

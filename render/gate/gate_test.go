@@ -1,0 +1,147 @@
+package gate
+
+import (
+	"bytes"
+	"encoding/xml"
+	"strings"
+	"testing"
+
+	"bivar/analysis/report"
+)
+
+// The JUnit form read here is the one CI servers share: testsuites >
+// testsuite > testcase with failure / error children and the counts as
+// attributes (as read by, e.g., Jenkins' JUnit plugin and GitLab's unit
+// test reports). This test parses the output back with encoding/xml.
+type parsedSuites struct {
+	XMLName  xml.Name      `xml:"testsuites"`
+	Tests    int           `xml:"tests,attr"`
+	Failures int           `xml:"failures,attr"`
+	Errors   int           `xml:"errors,attr"`
+	Suites   []parsedSuite `xml:"testsuite"`
+}
+
+type parsedSuite struct {
+	Name     string       `xml:"name,attr"`
+	Tests    int          `xml:"tests,attr"`
+	Failures int          `xml:"failures,attr"`
+	Errors   int          `xml:"errors,attr"`
+	Cases    []parsedCase `xml:"testcase"`
+}
+
+type parsedCase struct {
+	Name      string `xml:"name,attr"`
+	Classname string `xml:"classname,attr"`
+	Failure   *struct {
+		Message string `xml:"message,attr"`
+		Text    string `xml:",chardata"`
+	} `xml:"failure"`
+	Error *struct {
+		Message string `xml:"message,attr"`
+	} `xml:"error"`
+	SystemOut string `xml:"system-out"`
+}
+
+func sample() *report.Report {
+	bad := "column \"y\" has fewer than 3 complete rows"
+	return &report.Report{
+		Schema:   report.Schema,
+		Manifest: report.ManifestInfo{Title: `Cell <4> & "friends"`},
+		Datasets: []report.Dataset{{ID: "d", SHA256: "abc123"}},
+		Studies: []report.Study{
+			{ID: "s1", Dataset: "d", X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"}, N: 30,
+				Expectations: []report.Expectation{
+					{Name: "direction", Want: "negative", Got: "negative", OK: true},
+					{Name: "min_abs_r", Want: "|r| ≥ 0.6", Got: "|r| = 0.41", OK: false, Detail: "r = -0.41 <below> & \x01 control"},
+				}},
+			{ID: "s2", Dataset: "d"}, // no expectations: no suite
+			{ID: "s3|x", Dataset: "d", Error: &bad,
+				Expectations: []report.Expectation{{Name: "min_n", Want: "n ≥ 10", Got: "", OK: false}}},
+		},
+	}
+}
+
+func TestJUnitParsesBack(t *testing.T) {
+	var buf bytes.Buffer
+	if err := JUnit(&buf, sample()); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.HasPrefix(buf.String(), `<?xml version="1.0" encoding="UTF-8"?>`) {
+		t.Errorf("no XML declaration:\n%s", buf.String())
+	}
+	var got parsedSuites
+	if err := xml.Unmarshal(buf.Bytes(), &got); err != nil {
+		t.Fatalf("JUnit XML does not parse: %v\n%s", err, buf.String())
+	}
+	if got.Tests != 3 || got.Failures != 1 || got.Errors != 1 || len(got.Suites) != 2 {
+		t.Fatalf("tests %d failures %d errors %d suites %d; want 3 1 1 2\n%s", got.Tests, got.Failures, got.Errors, len(got.Suites), buf.String())
+	}
+	s1 := got.Suites[0]
+	if s1.Name != "s1" || s1.Tests != 2 || s1.Failures != 1 || len(s1.Cases) != 2 {
+		t.Errorf("suite s1: %+v", s1)
+	}
+	if c := s1.Cases[0]; c.Name != "direction" || c.Classname != "bivar.s1" || c.Failure != nil || c.Error != nil {
+		t.Errorf("held expectation: %+v", c)
+	}
+	c := s1.Cases[1]
+	if c.Failure == nil || !strings.Contains(c.Failure.Message, "|r| ≥ 0.6") || !strings.Contains(c.Failure.Text, "<below> &") {
+		t.Errorf("failed expectation lost its text: %+v", c)
+	}
+	if strings.Contains(c.Failure.Text, "\x01") {
+		t.Error("a control character reached the XML")
+	}
+	if c := got.Suites[1].Cases[0]; c.Error == nil || !strings.Contains(c.Error.Message, "fewer than 3") {
+		t.Errorf("expectation of a failed study: %+v", c)
+	}
+}
+
+func TestJUnitNoExpectations(t *testing.T) {
+	var buf bytes.Buffer
+	if err := JUnit(&buf, &report.Report{Studies: []report.Study{{ID: "a"}}}); err != nil {
+		t.Fatal(err)
+	}
+	var got parsedSuites
+	if err := xml.Unmarshal(buf.Bytes(), &got); err != nil || got.Tests != 0 {
+		t.Errorf("empty report: err %v tests %d\n%s", err, got.Tests, buf.String())
+	}
+}
+
+func TestCount(t *testing.T) {
+	c := Count(sample())
+	want := Counts{Studies: 3, StudyErrors: 1, Expectations: 3, Failed: 1, Errored: 1}
+	if c != want || c.Passed() {
+		t.Errorf("Count = %+v (passed %v), want %+v", c, c.Passed(), want)
+	}
+}
+
+func TestSummary(t *testing.T) {
+	var buf bytes.Buffer
+	if err := Summary(&buf, sample()); err != nil {
+		t.Fatal(err)
+	}
+	out := buf.String()
+	for _, want := range []string{
+		"## bivar check: Cell \\<4\\> \\& \"friends\"",
+		"**Failed**: 1 of 3 expectations did not hold; 1 of 3 studies did not run.",
+		"| s1 | min\\_abs\\_r | \\|r\\| ≥ 0.6 | \\|r\\| = 0.41 | **failed** |",
+		"| s3\\|x | min\\_n | n ≥ 10 |  | **not evaluated** |",
+		"- `s3|x`: column \"y\" has fewer than 3 complete rows",
+		report.Caution,
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("summary lacks %q:\n%s", want, out)
+		}
+	}
+	// Failures come before the expectations that held, within a study.
+	if strings.Index(out, "min\\_abs\\_r") > strings.Index(out, "| s1 | direction") {
+		t.Errorf("failure not listed first:\n%s", out)
+	}
+	// Every table row has the same number of unescaped cell separators.
+	for _, l := range strings.Split(out, "\n") {
+		if strings.HasPrefix(l, "| ") {
+			if n := strings.Count(l, "|") - strings.Count(l, "\\|"); n != 6 {
+				t.Errorf("row with %d separators: %s", n, l)
+			}
+		}
+	}
+}

@@ -1,0 +1,74 @@
+package dataset
+
+import (
+	"bufio"
+	"fmt"
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// writeBench writes an invented file of n rows: a row name, four numeric
+// columns (one with a missing cell every 1000 rows) and a group column.
+func writeBench(b *testing.B, n int, delim string, decimalComma bool) string {
+	b.Helper()
+	path := filepath.Join(b.TempDir(), "bench.csv")
+	f, err := os.Create(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	w := bufio.NewWriter(f)
+	fmt.Fprintf(w, "row%[1]stemp%[1]spressure%[1]shold%[1]sshrink%[1]sgroup\n", delim)
+	for i := range n {
+		t, p, h, s := fmt.Sprintf("%.2f", 230+float64(i%97)*0.1), fmt.Sprintf("%.1f", 80+float64(i%13)), fmt.Sprint(i%50), fmt.Sprintf("%.4f", 1.2+float64(i%89)*1e-3)
+		if decimalComma {
+			t, p, s = comma(t), comma(p), comma(s)
+		}
+		if i%1000 == 999 {
+			s = "NA"
+		}
+		fmt.Fprintf(w, "r%d%s%s%s%s%s%s%s%s%sM%d\n", i, delim, t, delim, p, delim, h, delim, s, delim, i%4)
+	}
+	if err := w.Flush(); err != nil {
+		b.Fatal(err)
+	}
+	if err := f.Close(); err != nil {
+		b.Fatal(err)
+	}
+	return path
+}
+
+func comma(s string) string {
+	out := []byte(s)
+	for i, c := range out {
+		if c == '.' {
+			out[i] = ','
+		}
+	}
+	return string(out)
+}
+
+func benchmarkRead(b *testing.B, n int, delim string, decimalComma bool) {
+	path := writeBench(b, n, delim, decimalComma)
+	st, err := os.Stat(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.SetBytes(st.Size())
+	b.ReportAllocs()
+	b.ResetTimer()
+	for b.Loop() {
+		t, err := Read(path, Options{}, []string{"temp", "pressure", "hold", "shrink"}, []string{"row", "group"})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if t.Rows != n {
+			b.Fatalf("Rows = %d, want %d", t.Rows, n)
+		}
+	}
+}
+
+// Four numeric and two text columns, every row read.
+func BenchmarkRead1e3(b *testing.B)             { benchmarkRead(b, 1e3, ",", false) }
+func BenchmarkRead1e6(b *testing.B)             { benchmarkRead(b, 1e6, ",", false) }
+func BenchmarkRead1e6DecimalComma(b *testing.B) { benchmarkRead(b, 1e6, ";", true) }

@@ -1,0 +1,286 @@
+package dataset
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"io/fs"
+	"math"
+	"os"
+	"path/filepath"
+	"reflect"
+	"strings"
+	"testing"
+)
+
+// All data in these tests are invented for the tests.
+
+var nan = math.NaN()
+
+func sameFloats(a, b []float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] && !(math.IsNaN(a[i]) && math.IsNaN(b[i])) {
+			return false
+		}
+	}
+	return true
+}
+
+func TestRead(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name    string
+		src     string
+		opts    Options
+		numeric []string
+		text    []string
+
+		rows      int
+		delim     rune
+		comma     bool
+		nums      map[string][]float64
+		texts     map[string][]string
+		missing   map[string]int
+		nonNumber map[string]int
+	}{
+		{name: "comma", src: "shot,temp,shrink\n1,230.5,1.25\n2,231,-1e-2\n",
+			numeric: []string{"temp", "shrink"}, text: []string{"shot"},
+			rows: 2, delim: ',',
+			nums:  map[string][]float64{"temp": {230.5, 231}, "shrink": {1.25, -0.01}},
+			texts: map[string][]string{"shot": {"1", "2"}}},
+		{name: "semicolon detected, decimal comma detected", src: "shot;temp;shrink\nA;230,5;1,25\nB;231;2\n",
+			numeric: []string{"temp", "shrink"},
+			rows:    2, delim: ';', comma: true,
+			nums: map[string][]float64{"temp": {230.5, 231}, "shrink": {1.25, 2}}},
+		{name: "tab detected, decimal comma detected", src: "a\tb\n0,5\t1\n",
+			numeric: []string{"a", "b"},
+			rows:    1, delim: '\t', comma: true,
+			nums: map[string][]float64{"a": {0.5}, "b": {1}}},
+		{name: "semicolon with decimal point", src: "a;b\n0.5;1\n",
+			numeric: []string{"a"}, rows: 1, delim: ';',
+			nums: map[string][]float64{"a": {0.5}}},
+		{name: "declared delimiter wins over detection", src: "a;b,c\n1;2,5\n",
+			opts: Options{Delimiter: ',', NonNumericAsMissing: true}, numeric: []string{"a;b"}, text: []string{"c"},
+			rows: 1, delim: ',',
+			texts: map[string][]string{"c": {"5"}}, nums: map[string][]float64{"a;b": {nan}},
+			nonNumber: map[string]int{"a;b": 1}},
+		{name: "declared decimal comma with comma delimiter and quotes", src: "a,b\n\"1,5\",2\n",
+			opts: Options{DecimalComma: true}, numeric: []string{"a", "b"},
+			rows: 1, delim: ',', comma: true,
+			nums: map[string][]float64{"a": {1.5}, "b": {2}}},
+		{name: "BOM and CRLF", src: "\xEF\xBB\xBFx,y\r\n1,2\r\n3,4\r\n",
+			numeric: []string{"x", "y"}, rows: 2, delim: ',',
+			nums: map[string][]float64{"x": {1, 3}, "y": {2, 4}}},
+		{name: "quoted fields", src: "id,\"the x\",y\n\"a, b\",1,\"2\"\n\"say \"\"hi\"\"\",3,4\n\"two\nlines\",5,6\n",
+			numeric: []string{"the x", "y"}, text: []string{"id"}, rows: 3, delim: ',',
+			nums:  map[string][]float64{"the x": {1, 3, 5}, "y": {2, 4, 6}},
+			texts: map[string][]string{"id": {"a, b", `say "hi"`, "two\nlines"}}},
+		{name: "missing tokens counted", src: "x,y,g\n1,NA,a\n,2,NA\n 3 , 4 ,b\n",
+			numeric: []string{"x", "y"}, text: []string{"g"}, rows: 3, delim: ',',
+			nums:    map[string][]float64{"x": {1, nan, 3}, "y": {nan, 2, 4}},
+			texts:   map[string][]string{"g": {"a", "NA", "b"}},
+			missing: map[string]int{"x": 1, "y": 1, "g": 1}},
+		{name: "declared missing tokens", src: "x\n-\n999\nNA\n",
+			opts: Options{Missing: []string{"-", "999", "NA"}}, numeric: []string{"x"}, rows: 3, delim: ',',
+			nums: map[string][]float64{"x": {nan, nan, nan}}, missing: map[string]int{"x": 3}},
+		{name: "non-numeric as missing", src: "x\n1\nbroken\nNaN\nInf\n0x10\n1_000\n",
+			opts: Options{NonNumericAsMissing: true}, numeric: []string{"x"}, rows: 6, delim: ',',
+			nums: map[string][]float64{"x": {1, nan, nan, nan, nan, nan}}, nonNumber: map[string]int{"x": 5}},
+		{name: "column both numeric and text", src: "order\n3\n1\n",
+			numeric: []string{"order"}, text: []string{"order"}, rows: 2, delim: ',',
+			nums: map[string][]float64{"order": {3, 1}}, texts: map[string][]string{"order": {"3", "1"}}},
+		{name: "header only", src: "x,y\n", numeric: []string{"x"}, rows: 0, delim: ',',
+			nums: map[string][]float64{"x": nil}},
+		{name: "blank lines skipped", src: "x\n1\n\n2\n", numeric: []string{"x"}, rows: 2, delim: ',',
+			nums: map[string][]float64{"x": {1, 2}}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			tab, err := read("data.csv", strings.NewReader(c.src), c.opts, c.numeric, c.text)
+			if err != nil {
+				t.Fatalf("read: %v", err)
+			}
+			if tab.Rows != c.rows || tab.Delimiter != c.delim || tab.DecimalComma != c.comma {
+				t.Errorf("Rows, Delimiter, DecimalComma = %d, %q, %v; want %d, %q, %v",
+					tab.Rows, tab.Delimiter, tab.DecimalComma, c.rows, c.delim, c.comma)
+			}
+			for name, want := range c.nums {
+				if got := tab.Numeric[name]; !sameFloats(got, want) {
+					t.Errorf("Numeric[%q] = %v, want %v", name, got, want)
+				}
+			}
+			for name, want := range c.texts {
+				if got := tab.Text[name]; !reflect.DeepEqual(got, want) {
+					t.Errorf("Text[%q] = %q, want %q", name, got, want)
+				}
+			}
+			for _, name := range append(append([]string{}, c.numeric...), c.text...) {
+				if got, want := tab.Missing[name], c.missing[name]; got != want {
+					t.Errorf("Missing[%q] = %d, want %d", name, got, want)
+				}
+			}
+			for _, name := range c.numeric {
+				if got, want := tab.NonNumeric[name], c.nonNumber[name]; got != want {
+					t.Errorf("NonNumeric[%q] = %d, want %d", name, got, want)
+				}
+			}
+			if len(tab.Numeric) != len(c.numeric) && len(c.nums) == len(c.numeric) {
+				t.Errorf("Numeric holds %d columns, want %d", len(tab.Numeric), len(c.numeric))
+			}
+		})
+	}
+}
+
+// TestReadErrors pins whole messages: they are the interface.
+func TestReadErrors(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name    string
+		src     string
+		opts    Options
+		numeric []string
+		text    []string
+		want    Error
+	}{
+		{"non-numeric cell", "shot,temp\n1,230\n2,23O\n3,231\n", Options{}, []string{"temp"}, nil,
+			Error{Line: 3, Column: "temp", Text: "23O", Msg: `"23O" is not a number; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
+		{"several non-numeric cells", "x,y\nn/a,1\n2,n/a\nn/a,3\n", Options{}, []string{"x", "y"}, nil,
+			Error{Line: 2, Column: "x", Text: "n/a", Msg: `"n/a" is not a number; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing (and 2 more non-numeric cells after it)`}},
+		{"empty cell when no missing tokens", "x\n1\n\"\"\n", Options{Missing: []string{}}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "", Msg: `"" is not a number; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
+		{"line counted across a quoted line break", "id,x\n\"a\nb\",1\nc,oops\n", Options{}, []string{"x"}, nil,
+			Error{Line: 4, Column: "x", Text: "oops", Msg: `"oops" is not a number; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
+		{"mixed decimal marks", "a;b\n1,5;2\n2.5;3\n", Options{}, []string{"a"}, nil,
+			Error{Line: 3, Column: "a", Text: "2.5", Msg: `"2.5" is not a number: it has a decimal point, but numbers from line 2 on use a decimal comma; declare decimal = "." or "," for the dataset and make the file agree`}},
+		{"comma in a comma-separated file", "a,b\n\"1,5\",2\n", Options{}, []string{"a"}, nil,
+			Error{Line: 2, Column: "a", Text: "1,5", Msg: `"1,5" is not a number: it has a comma; if the file uses decimal commas, declare decimal = "," (and quote such cells, since the delimiter is also a comma)`}},
+		{"declared decimal point", "a;b\n1,5;2\n", Options{DecimalPoint: true}, []string{"a"}, nil,
+			Error{Line: 2, Column: "a", Text: "1,5", Msg: `"1,5" is not a number: it has a decimal comma, but the dataset declares decimal = "."`}},
+		{"declared decimal comma", "a;b\n1.5;2\n", Options{DecimalComma: true}, []string{"a"}, nil,
+			Error{Line: 2, Column: "a", Text: "1.5", Msg: `"1.5" is not a number: it has a decimal point, but the dataset declares decimal = ","`}},
+		{"thousands separator", "a;b\n1.234,5;2\n", Options{DecimalComma: true}, []string{"a"}, nil,
+			Error{Line: 2, Column: "a", Text: "1.234,5", Msg: `"1.234,5" is not a number: it shows both a point and a comma; thousands separators are not accepted, write the number without them`}},
+		{"absent columns", "shot,melt_temp,shrinkage\n1,2,3\n", Options{}, []string{"melt_tmp", "pressure"}, nil,
+			Error{Line: 1, Column: "melt_tmp", Msg: `no column "melt_tmp" — did you mean "melt_temp"?; no column "pressure"; the header has "shot", "melt_temp", "shrinkage"`}},
+		{"column named twice", "x,y,x\n1,2,3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Column: "x", Msg: `the header names this column twice (columns 1 and 3); rename one`}},
+		{"wrong field count", "x,y\n1,2\n3,4,5\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `this row has 3 fields but the header has 2: look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes`}},
+		{"bare quote", "x,y\n1,2 \"in\"\n", Options{}, []string{"x"}, nil,
+			Error{Line: 2, Msg: `a double quote inside an unquoted field (character 5): put the whole field in double quotes and write the quote twice ("")`}},
+		{"unclosed quote", "x,y\n1,\"abc\n", Options{}, []string{"x"}, nil,
+			Error{Line: 2, Msg: `at character 8: a quoted field (in the row starting on line 2) is not closed, or holds a quote not written twice ("")`}},
+		{"empty file", "", Options{}, []string{"x"}, nil,
+			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
+		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,
+			Error{Msg: `delimiter '|' is not supported: use ',', ';' or tab`}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			_, err := read("data.csv", strings.NewReader(c.src), c.opts, c.numeric, c.text)
+			var got *Error
+			if !errors.As(err, &got) {
+				t.Fatalf("read error = %v (%T), want *Error", err, err)
+			}
+			c.want.File = "data.csv"
+			if got.Error() != c.want.Error() {
+				t.Errorf("error\ngot  %s\nwant %s", got.Error(), c.want.Error())
+			}
+			if got.Line != c.want.Line || got.Column != c.want.Column || got.Text != c.want.Text {
+				t.Errorf("Line, Column, Text = %d, %q, %q; want %d, %q, %q",
+					got.Line, got.Column, got.Text, c.want.Line, c.want.Column, c.want.Text)
+			}
+		})
+	}
+}
+
+func TestReadFile(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	// FIPS 180-4 / FIPS 180-2 Appendix B.1 example: SHA-256("abc") =
+	// ba7816bf 8f01cfea 414140de 5dae2223 b00361a3 96177a9c b410ff61 f20015ad.
+	// A file holding exactly "abc" is a header row with one column and no data.
+	abc := filepath.Join(dir, "abc.csv")
+	if err := os.WriteFile(abc, []byte("abc"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	tab, err := Read(abc, Options{}, []string{"abc"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"; tab.SHA256 != want {
+		t.Errorf("SHA256 = %s, want %s (FIPS 180-2 B.1)", tab.SHA256, want)
+	}
+	if tab.File != abc || tab.Rows != 0 {
+		t.Errorf("File, Rows = %q, %d; want %q, 0", tab.File, tab.Rows, abc)
+	}
+
+	// A file larger than the read buffer: the hash covers every byte,
+	// including those after the last record csv needs.
+	var b strings.Builder
+	b.WriteString("\xEF\xBB\xBFi;v\r\n")
+	for i := range 20000 {
+		b.WriteString(strings.Repeat("x", i%7) + ";1,5\r\n")
+	}
+	big := filepath.Join(dir, "big.csv")
+	if err := os.WriteFile(big, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	tab, err = Read(big, Options{}, []string{"v"}, []string{"i"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sum := sha256.Sum256([]byte(b.String()))
+	if got, want := tab.SHA256, hex.EncodeToString(sum[:]); got != want {
+		t.Errorf("SHA256 = %s, want %s (crypto/sha256 over the whole file)", got, want)
+	}
+	if tab.Rows != 20000 || tab.Numeric["v"][19999] != 1.5 || tab.Missing["i"] != 20000/7+1 {
+		t.Errorf("Rows = %d, last v = %v, missing i = %d", tab.Rows, tab.Numeric["v"][19999], tab.Missing["i"])
+	}
+
+	_, err = Read(filepath.Join(dir, "none.csv"), Options{}, []string{"x"}, nil)
+	if !errors.Is(err, fs.ErrNotExist) {
+		t.Errorf("Read(none.csv) error = %v, want one wrapping fs.ErrNotExist", err)
+	}
+	if want := filepath.Join(dir, "none.csv") + ": cannot open the data file: no such file or directory"; err == nil || err.Error() != want {
+		t.Errorf("Read(none.csv) error = %v, want %s", err, want)
+	}
+}
+
+func FuzzDataset(f *testing.F) {
+	for _, s := range []string{
+		"x,y\n1,2\n3,4\n",
+		"x;y\n1,5;2,25\n3;4\n",
+		"x\ty\n1,5\t2\n",
+		"\xEF\xBB\xBFx,y\r\n\"1\",\"2\"\r\n",
+		"x,y\nNA,\n1e3,-2.5E-2\n",
+		"x;y\n1.234,5;2\n\"a;b\";3\n",
+	} {
+		f.Add([]byte(s), byte(0), false)
+		f.Add([]byte(s), byte(';'), true)
+	}
+	f.Fuzz(func(t *testing.T, data []byte, delim byte, comma bool) {
+		opts := Options{Delimiter: rune(delim), DecimalComma: comma, NonNumericAsMissing: comma}
+		tab, err := read("fuzz.csv", strings.NewReader(string(data)), opts, []string{"x"}, []string{"y"})
+		if err != nil {
+			var e *Error
+			if !errors.As(err, &e) || e.Msg == "" {
+				t.Fatalf("error %v (%T) is not a *Error with a message", err, err)
+			}
+			return
+		}
+		if len(tab.Numeric["x"]) != tab.Rows || len(tab.Text["y"]) != tab.Rows {
+			t.Fatalf("Rows = %d but columns hold %d and %d values", tab.Rows, len(tab.Numeric["x"]), len(tab.Text["y"]))
+		}
+		for _, v := range tab.Numeric["x"] {
+			if math.IsInf(v, 0) {
+				t.Fatalf("Inf read from %q", data)
+			}
+		}
+	})
+}

@@ -1,0 +1,179 @@
+package analysis
+
+// This file evaluates a study's [study.expect] gates.
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"bivar/analysis/manifest"
+	"bivar/analysis/report"
+)
+
+// Expectations evaluates the gates of e on the finished study s (after
+// adjustment and findings), in a fixed order: direction, form, min_abs_r,
+// r_within, slope_within, max_p, min_n, not_outlier_driven. Each gate gives
+// one Expectation saying what was wanted, what was found and whether it
+// held. A study that did not run fails every gate, with its error as the
+// detail. alpha gives the intervals' confidence 1 − alpha and adjust
+// names the adjustment, both for the wording. It returns
+// nil when e is nil.
+func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust string) []report.Expectation {
+	if e == nil {
+		return nil
+	}
+	out := []report.Expectation{}
+	add := func(name, want string, eval func() (got string, ok bool, detail string)) {
+		if s.Error != nil {
+			out = append(out, report.Expectation{Name: name, Want: want, Got: "not computed", OK: false,
+				Detail: "the study did not run: " + *s.Error})
+			return
+		}
+		got, ok, detail := eval()
+		out = append(out, report.Expectation{Name: name, Want: want, Got: got, OK: ok, Detail: detail})
+	}
+	rText := func() string {
+		p := s.Pearson
+		return fmt.Sprintf("r = %s (%s%% CI %s to %s, n = %d)", num(p.R), confPct(alpha), num(p.CILow), num(p.CIHigh), s.N)
+	}
+	if e.Direction != "" {
+		add("direction", e.Direction, func() (string, bool, string) {
+			got := s.Findings.Direction
+			if got == e.Direction {
+				return got, true, fmt.Sprintf("the direction is %s as expected; %s", got, rText())
+			}
+			return got, false, fmt.Sprintf("expected a %s direction but found %s; %s", e.Direction, got, rText())
+		})
+	}
+	if e.Form != "" {
+		add("form", e.Form, func() (string, bool, string) {
+			got := s.Findings.Form
+			if got == e.Form {
+				return got, true, fmt.Sprintf("the form is %s as expected", got)
+			}
+			return got, false, fmt.Sprintf("expected the form %s but found %s", e.Form, got)
+		})
+	}
+	if e.MinAbsR != nil {
+		want := *e.MinAbsR
+		add("min_abs_r", "|r| ≥ "+num(report.Float(want)), func() (string, bool, string) {
+			r := float64(s.Pearson.R)
+			got := "|r| = " + num(report.Float(math.Abs(r)))
+			if math.Abs(r) >= want {
+				return got, true, fmt.Sprintf("|r| is at least %s; %s", num(report.Float(want)), rText())
+			}
+			return got, false, fmt.Sprintf("|r| is below the required %s; %s", num(report.Float(want)), rText())
+		})
+	}
+	if e.RWithin != nil {
+		add("r_within", interval("r", e.RWithin, ""), func() (string, bool, string) {
+			return within("r", float64(s.Pearson.R), e.RWithin, "", rText())
+		})
+	}
+	if e.SlopeWithin != nil {
+		u := slopeUnit(s)
+		add("slope_within", interval("slope", e.SlopeWithin, u), func() (string, bool, string) {
+			sl := s.Line.Slope
+			ctx := fmt.Sprintf("slope = %s%s (%s%% CI %s to %s)", num(sl.Estimate), u, confPct(alpha), num(sl.CILow), num(sl.CIHigh))
+			return within("slope", float64(sl.Estimate), e.SlopeWithin, u, ctx)
+		})
+	}
+	if e.MaxP != nil {
+		want := *e.MaxP
+		how := "adjusted by " + adjustName(adjust)
+		add("max_p", "adjusted p ≤ "+num(report.Float(want)), func() (string, bool, string) {
+			pa := s.Pearson.PAdjusted
+			got := "adjusted p = " + pnum(pa)
+			if pa.Valid() && float64(pa) <= want {
+				return got, true, fmt.Sprintf("Pearson's p is %s, %s across the manifest's studies %s, at or below %s",
+					pnum(s.Pearson.P), pnum(pa), how, num(report.Float(want)))
+			}
+			return got, false, fmt.Sprintf("Pearson's p is %s, %s across the manifest's studies %s, above the allowed %s",
+				pnum(s.Pearson.P), pnum(pa), how, num(report.Float(want)))
+		})
+	}
+	if e.MinN != nil {
+		want := *e.MinN
+		add("min_n", fmt.Sprintf("n ≥ %d", want), func() (string, bool, string) {
+			got := fmt.Sprintf("n = %d", s.N)
+			if s.N >= want {
+				return got, true, fmt.Sprintf("%d complete rows, at least the %d required (%d rows dropped for missing cells)", s.N, want, s.NMissing)
+			}
+			return got, false, fmt.Sprintf("only %d complete rows, fewer than the %d required (%d rows dropped for missing cells)", s.N, want, s.NMissing)
+		})
+	}
+	if e.NotOutlierDriven != nil && *e.NotOutlierDriven {
+		add("not_outlier_driven", "not outlier-driven", func() (string, bool, string) {
+			se := s.Sensitivity
+			ctx := fmt.Sprintf("%d row(s) flagged; r = %s with all rows, %s without the flagged rows",
+				se.NFlagged, num(s.Pearson.R), num(se.RWithoutFlagged))
+			if s.Findings.OutlierDriven {
+				return "outlier-driven", false, "the verdict does not survive without the flagged rows: " + ctx
+			}
+			return "not outlier-driven", true, "the verdict survives without the flagged rows: " + ctx
+		})
+	}
+	return out
+}
+
+// within checks lo ≤ v ≤ hi for the two-element range w.
+func within(what string, v float64, w []float64, unit, ctx string) (string, bool, string) {
+	got := fmt.Sprintf("%s = %s%s", what, num(report.Float(v)), unit)
+	if len(w) != 2 {
+		return got, false, fmt.Sprintf("%s_within needs two numbers [low, high], the manifest gives %d", what, len(w))
+	}
+	if !(w[0] <= v && v <= w[1]) {
+		return got, false, fmt.Sprintf("%s lies outside %s; %s", what, interval(what, w, unit), ctx)
+	}
+	return got, true, fmt.Sprintf("%s lies inside %s; %s", what, interval(what, w, unit), ctx)
+}
+
+func interval(what string, w []float64, unit string) string {
+	if len(w) != 2 {
+		return fmt.Sprintf("%s in %v", what, w)
+	}
+	return fmt.Sprintf("%s in [%s, %s]%s", what, num(report.Float(w[0])), num(report.Float(w[1])), unit)
+}
+
+// slopeUnit is " Y/X" in the recorded units, or "" when either is unknown.
+func slopeUnit(s *report.Study) string {
+	if s.X.Unit == "" || s.Y.Unit == "" {
+		return ""
+	}
+	return " " + s.Y.Unit + "/" + s.X.Unit
+}
+
+func adjustName(a string) string {
+	switch a {
+	case "holm":
+		return "Holm's method"
+	case "bh":
+		return "Benjamini–Hochberg"
+	}
+	return "no method (p as computed)"
+}
+
+// confPct gives the confidence level 1 − alpha in percent.
+func confPct(alpha float64) string {
+	return strconv.FormatFloat(100*(1-alpha), 'g', 4, 64)
+}
+
+// num formats a number with four significant digits, "undefined" for NaN.
+func num(f report.Float) string {
+	if !f.Valid() {
+		return "undefined"
+	}
+	return strconv.FormatFloat(float64(f), 'g', 4, 64)
+}
+
+// pnum formats a p-value; below the smallest float64 it says "< 1e-300".
+func pnum(f report.Float) string {
+	if !f.Valid() {
+		return "undefined"
+	}
+	if f < 1e-300 {
+		return "< 1e-300"
+	}
+	return strconv.FormatFloat(float64(f), 'g', 3, 64)
+}

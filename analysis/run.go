@@ -1,0 +1,373 @@
+// Package analysis turns a manifest into a report: it reads each declared
+// dataset (only the columns the studies use), runs every study, adjusts
+// Pearson's p across the manifest's studies, assesses the findings after
+// that adjustment and evaluates the studies' expectations. The result is
+// one *report.Report, the only thing the renderers see.
+//
+// Run is the whole job; Analyze is one study on columns already in memory
+// (tests and benchmarks call it directly).
+package analysis
+
+// This file holds Run: datasets in, report out.
+
+import (
+	"bufio"
+	"bytes"
+	"crypto/sha256"
+	"encoding/csv"
+	"encoding/hex"
+	"fmt"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+
+	"bivar/analysis/dataset"
+	"bivar/analysis/findings"
+	"bivar/analysis/internal/suggest"
+	"bivar/analysis/manifest"
+	"bivar/analysis/report"
+)
+
+// Options are the facts about this run that do not come from the manifest.
+type Options struct {
+	Version   string // the tool's version, written to the report
+	Generated string // RFC 3339 time to record, or "" (set only from SOURCE_DATE_EPOCH)
+}
+
+// Run reads the manifest's datasets, runs every study and returns the
+// report, studies in manifest order. The error is for input that stops
+// the whole run (a data file that cannot be read, a non-numeric cell where
+// the dataset does not allow it); a study that cannot run (a column the
+// file does not have, fewer than 3 complete rows, a constant column) keeps
+// its place with its Error set and the other studies still run.
+func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
+	cfg := Config{Alpha: m.Alpha, Design: m.Design, Seed: m.Seed, Thresholds: Thresholds(m.Thresholds)}
+	cfg = cfg.withDefaults()
+	adjust := m.Adjust
+	if adjust == "" {
+		adjust = manifest.DefaultAdjust
+	}
+	r := &report.Report{
+		Schema:    report.Schema,
+		Tool:      report.Tool{Name: "bivar", Version: opts.Version},
+		Generated: opts.Generated,
+		Manifest: report.ManifestInfo{File: m.Path, Title: m.Title, Design: cfg.Design, Alpha: cfg.Alpha,
+			Adjust: adjust, Seed: m.Seed, Thresholds: cfg.Thresholds},
+		Datasets: []report.Dataset{},
+		Studies:  []report.Study{},
+		Caution:  report.Caution,
+	}
+	if m.Path != "" {
+		b, err := os.ReadFile(m.Path)
+		if err != nil {
+			return nil, fmt.Errorf("manifest %s: %w", m.Path, err)
+		}
+		sum := sha256.Sum256(b)
+		r.Manifest.SHA256 = hex.EncodeToString(sum[:])
+	}
+
+	loaded := map[string]*loadedSet{}
+	for _, ds := range m.Datasets {
+		ls, err := load(m, ds)
+		if err != nil {
+			return nil, err
+		}
+		loaded[ds.ID] = ls
+		r.Datasets = append(r.Datasets, ls.info)
+	}
+
+	expects := make([]*manifest.Expect, len(m.Studies))
+	for i, st := range m.Studies {
+		expects[i] = st.Expect
+		in, msg := input(st, loaded[st.Dataset])
+		if msg != "" {
+			s := failed(report.Study{ID: st.ID, Title: st.Title, Dataset: st.Dataset,
+				X: report.Variable{Column: st.X, Label: st.X}, Y: report.Variable{Column: st.Y, Label: st.Y},
+				Group: st.Group, Order: st.Order, Covariates: slices.Clone(st.Covariates), Notes: st.Notes}, msg)
+			if ls := loaded[st.Dataset]; ls != nil {
+				s.X, s.Y = variable(ls.decl, st.X), variable(ls.decl, st.Y)
+			}
+			r.Studies = append(r.Studies, s)
+			continue
+		}
+		r.Studies = append(r.Studies, Analyze(in, cfg))
+	}
+
+	if err := Adjust(r.Studies, adjust); err != nil {
+		return nil, fmt.Errorf("manifest %s: %w", m.Path, err)
+	}
+	for i := range r.Studies {
+		assess(&r.Studies[i], cfg)
+		r.Studies[i].Expectations = Expectations(&r.Studies[i], expects[i], cfg.Alpha, adjust)
+	}
+	return r, nil
+}
+
+// Thresholds returns findings.DefaultThresholds with the manifest's
+// [thresholds] overrides applied.
+func Thresholds(t manifest.Thresholds) report.Thresholds {
+	th := findings.DefaultThresholds()
+	set := func(dst *float64, src *float64) {
+		if src != nil {
+			*dst = *src
+		}
+	}
+	set(&th.Strong, t.Strong)
+	set(&th.Moderate, t.Moderate)
+	set(&th.Weak, t.Weak)
+	set(&th.LeverageFactor, t.LeverageFactor)
+	set(&th.OutlierZ, t.OutlierZ)
+	set(&th.CooksD, t.CooksD)
+	set(&th.CurveGainR2, t.CurveGainR2)
+	set(&th.NonlinearDcor, t.NonlinearDcor)
+	if t.ReversalMinGroup != nil {
+		th.ReversalMinGroup = *t.ReversalMinGroup
+	}
+	return th
+}
+
+// loadedSet is one dataset as read: its columns, the columns the file
+// lacks, and its provenance for the report.
+type loadedSet struct {
+	decl    manifest.Dataset
+	table   *dataset.Table
+	absent  map[string]bool // columns the studies asked for that the file does not have
+	columns []string        // the file's header, for "did you mean" and listings
+	info    report.Dataset
+}
+
+// wanted lists the columns the studies of dataset id use: numeric (x, y,
+// order, covariates) and text (group, id_column), each in first-use order.
+func wanted(m *manifest.Manifest, ds manifest.Dataset) (numeric, text []string) {
+	addTo := func(list *[]string, c string) {
+		if c != "" && !slices.Contains(*list, c) {
+			*list = append(*list, c)
+		}
+	}
+	for _, st := range m.Studies {
+		if st.Dataset != ds.ID {
+			continue
+		}
+		addTo(&numeric, st.X)
+		addTo(&numeric, st.Y)
+		addTo(&numeric, st.Order)
+		for _, c := range st.Covariates {
+			addTo(&numeric, c)
+		}
+		addTo(&text, st.Group)
+	}
+	if ds.IDColumn != "" {
+		addTo(&text, ds.IDColumn)
+	}
+	return numeric, text
+}
+
+// load reads one dataset with only the columns its studies use.
+func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
+	numeric, text := wanted(m, ds)
+	opts := dataset.Options{Missing: ds.Missing, NonNumericAsMissing: ds.NonNumeric == "missing"}
+	if opts.Missing == nil {
+		opts.Missing = manifest.DefaultMissing()
+	}
+	if ds.Delimiter != "" {
+		opts.Delimiter = []rune(ds.Delimiter)[0]
+	}
+	opts.DecimalComma = ds.Decimal == ","
+	opts.DecimalPoint = ds.Decimal == "."
+	path := ds.File
+	if !filepath.IsAbs(path) && m.Dir != "" {
+		path = filepath.Join(m.Dir, path)
+	}
+	header, herr := fileHeader(path, opts.Delimiter)
+	ls := &loadedSet{decl: ds, absent: map[string]bool{}, columns: header}
+	keep := func(cols []string) []string {
+		var out []string
+		for _, c := range cols {
+			if herr != nil || slices.Contains(header, c) {
+				out = append(out, c)
+			} else {
+				ls.absent[c] = true
+			}
+		}
+		return out
+	}
+	numeric, text = keep(numeric), keep(text)
+	t, err := dataset.Read(path, opts, numeric, text)
+	if err != nil {
+		return nil, fmt.Errorf("dataset %q: %w", ds.ID, err)
+	}
+	ls.table = t
+	file := ds.File
+	if m.Dir != "" {
+		if rel, err := filepath.Rel(m.Dir, path); err == nil {
+			file = rel
+		}
+	}
+	ls.info = report.Dataset{ID: ds.ID, File: filepath.ToSlash(file), SHA256: t.SHA256, Rows: t.Rows,
+		Delimiter: string(t.Delimiter), DecimalComma: t.DecimalComma,
+		Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{}}
+	for _, c := range append(slices.Clone(numeric), text...) {
+		if !slices.ContainsFunc(ls.info.Missing, func(cc report.ColumnCount) bool { return cc.Column == c }) {
+			ls.info.Missing = append(ls.info.Missing, report.ColumnCount{Column: c, Count: t.Missing[c]})
+		}
+	}
+	for _, c := range numeric {
+		if n := t.NonNumeric[c]; n > 0 {
+			ls.info.NonNumeric = append(ls.info.NonNumeric, report.ColumnCount{Column: c, Count: n})
+		}
+	}
+	return ls, nil
+}
+
+// variable describes one column: its label and unit from the dataset.
+func variable(ds manifest.Dataset, col string) report.Variable {
+	v := report.Variable{Column: col, Label: col, Unit: ds.Units[col]}
+	if l := ds.Labels[col]; l != "" {
+		v.Label = l
+	}
+	return v
+}
+
+// input gathers one study's columns, or says why it cannot run.
+func input(st manifest.Study, ls *loadedSet) (Input, string) {
+	if ls == nil {
+		return Input{}, fmt.Sprintf("dataset %q is not declared in the manifest: add a [[dataset]] with id = %q or correct the study's dataset", st.Dataset, st.Dataset)
+	}
+	var absent []string
+	check := func(role, col string) {
+		if col != "" && ls.absent[col] {
+			absent = append(absent, noColumn(role, col, ls))
+		}
+	}
+	check("x", st.X)
+	check("y", st.Y)
+	check("group", st.Group)
+	check("order", st.Order)
+	for _, c := range st.Covariates {
+		check("covariate", c)
+	}
+	check("id_column", ls.decl.IDColumn)
+	if len(absent) > 0 {
+		return Input{}, strings.Join(absent, "; ")
+	}
+	t := ls.table
+	in := Input{
+		ID: st.ID, Title: st.Title, Dataset: st.Dataset, Notes: st.Notes,
+		X: variable(ls.decl, st.X), Y: variable(ls.decl, st.Y),
+		XS: t.Numeric[st.X], YS: t.Numeric[st.Y],
+		GroupColumn: st.Group, OrderColumn: st.Order,
+		PredictAt: st.PredictAt, AlsoIn: st.AlsoIn,
+	}
+	missing := ls.decl.Missing
+	if missing == nil {
+		missing = manifest.DefaultMissing()
+	}
+	blankMissing := func(col string) []string {
+		v := slices.Clone(t.Text[col])
+		for i := range v {
+			if slices.Contains(missing, strings.TrimSpace(v[i])) {
+				v[i] = ""
+			}
+		}
+		return v
+	}
+	if ls.decl.IDColumn != "" {
+		in.Rows = blankMissing(ls.decl.IDColumn) // a missing name falls back to the row number
+	}
+	if st.Group != "" {
+		in.Groups = blankMissing(st.Group) // "" is a missing group
+	}
+	if st.Order != "" {
+		in.Order = t.Numeric[st.Order]
+	}
+	if len(st.Covariates) > 0 {
+		in.Covariates = map[string][]float64{}
+		for _, c := range st.Covariates {
+			in.Covariates[c] = t.Numeric[c]
+			if !slices.Contains(in.CovariateNames, c) {
+				in.CovariateNames = append(in.CovariateNames, c)
+			}
+		}
+	}
+	return in, ""
+}
+
+// fileHeader returns the column names of a CSV file's header row, read the
+// way dataset.Read reads it (UTF-8 byte-order mark skipped; delimiter as
+// declared, or the most frequent of comma, semicolon and tab outside
+// quotes, comma on a tie; names with spaces trimmed). Run uses it only to
+// tell which requested columns a file lacks, so the studies that need
+// them keep their place with an error while the others run; the data
+// themselves are read by dataset.Read, which is also what reports any
+// problem in the file.
+func fileHeader(path string, delim rune) ([]string, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	br := bufio.NewReaderSize(f, 1<<16)
+	if b, _ := br.Peek(3); bytes.Equal(b, []byte("\xEF\xBB\xBF")) {
+		br.Discard(3)
+	}
+	if delim == 0 {
+		b, _ := br.Peek(1 << 16)
+		if i := bytes.IndexByte(b, '\n'); i >= 0 {
+			b = b[:i]
+		}
+		var comma, semi, tab int
+		quoted := false
+		for _, c := range b {
+			switch {
+			case c == '"':
+				quoted = !quoted
+			case quoted:
+			case c == ',':
+				comma++
+			case c == ';':
+				semi++
+			case c == '\t':
+				tab++
+			}
+		}
+		switch {
+		case semi > comma && semi >= tab:
+			delim = ';'
+		case tab > comma && tab > semi:
+			delim = '\t'
+		default:
+			delim = ','
+		}
+	}
+	cr := csv.NewReader(br)
+	cr.Comma = delim
+	cr.FieldsPerRecord = -1
+	cr.LazyQuotes = true
+	rec, err := cr.Read()
+	if err != nil {
+		return nil, err
+	}
+	names := make([]string, len(rec))
+	for i, h := range rec {
+		names[i] = strings.TrimSpace(h)
+	}
+	return names, nil
+}
+
+// noColumn says that a column is not in the file, with the nearest name.
+func noColumn(role, col string, ls *loadedSet) string {
+	msg := fmt.Sprintf("%s column %q is not in dataset %q (%s)", role, col, ls.decl.ID, ls.info.File)
+	if near := suggest.Nearest(col, ls.columns); near != "" {
+		return msg + fmt.Sprintf(": did you mean %q?", near)
+	}
+	return msg + ": its columns are " + quoteList(ls.columns)
+}
+
+func quoteList(cols []string) string {
+	q := make([]string, len(cols))
+	for i, c := range cols {
+		q[i] = fmt.Sprintf("%q", c)
+	}
+	return strings.Join(q, ", ")
+}

@@ -1,0 +1,101 @@
+package main
+
+import (
+	"bytes"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"bivar/analysis/compare"
+	"bivar/analysis/report"
+	"bivar/analysis/stats"
+)
+
+// runOf draws one run of y = 1 + slope·x + e (a simulation, not a check
+// value) and returns it as a Report with one study.
+func runOf(seed uint64, slope float64, strength string) *report.Report {
+	rng := rand.New(rand.NewPCG(seed, 1))
+	x, y := make([]float64, 40), make([]float64, 40)
+	for i := range x {
+		x[i] = 10 + 2*rng.NormFloat64()
+		y[i] = 1 + slope*x[i] + 0.5*rng.NormFloat64()
+	}
+	m := stats.CentredMoments(x, y)
+	return &report.Report{Schema: report.Schema, Tool: report.Tool{Name: "bivar", Version: "test"},
+		Manifest: report.ManifestInfo{Title: "run", Alpha: 0.05, Adjust: "holm"},
+		Datasets: []report.Dataset{{ID: "d", File: "d.csv", SHA256: "h", Rows: 40}},
+		Studies: []report.Study{{ID: "s", Dataset: "d", X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"}, N: 40,
+			Moments: &report.Moments{N: m.N, MeanX: report.Float(m.MeanX), MeanY: report.Float(m.MeanY),
+				Sxx: report.Float(m.Sxx), Syy: report.Float(m.Syy), Sxy: report.Float(m.Sxy)},
+			Findings: &report.Findings{Form: "linear", Direction: "positive", Strength: strength}}}}
+}
+
+func writeResults(t *testing.T, dir string, r *report.Report) string {
+	t.Helper()
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := report.Write(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	p := filepath.Join(dir, "results.json")
+	if err := os.WriteFile(p, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+func TestDiffCommand(t *testing.T) {
+	dir := t.TempDir()
+	a := writeResults(t, filepath.Join(dir, "a"), runOf(1, 0.8, "strong"))
+	same := writeResults(t, filepath.Join(dir, "same"), runOf(2, 0.8, "strong"))
+	changed := writeResults(t, filepath.Join(dir, "changed"), runOf(3, 0.3, "moderate"))
+	out := filepath.Join(dir, "out")
+
+	cases := []struct {
+		name string
+		args []string
+		code int
+		want string // in stderr
+	}{
+		{"same process, gated", []string{"diff", "-o", out, "--fail-on", "verdict,significant", a, same}, exitOK, "0 with a significant change"},
+		{"changed, not gated", []string{"diff", "-o", out, a, filepath.Join(dir, "changed")}, exitOK, "1 with a significant change"},
+		{"changed, gated on significant", []string{"diff", "-o", out, "--fail-on", "significant", a, changed}, exitExpectation, "--fail-on significant"},
+		{"changed, gated on verdict", []string{"diff", "--fail-on=verdict", "-o", out, a, changed}, exitExpectation, "strength strong → moderate"},
+		{"folders", []string{"diff", "-o", out, filepath.Join(dir, "a"), filepath.Join(dir, "same")}, exitOK, "1 studies compared"},
+		{"bad fail-on", []string{"diff", "--fail-on", "verdicts", a, same}, exitUsage, `"verdicts": want a comma-separated list of verdict, significant`},
+		{"bad theme", []string{"diff", "--theme", "neon", a, same}, exitUsage, "unknown theme"},
+		{"one argument", []string{"diff", a}, exitUsage, "want OLD and NEW"},
+		{"missing file", []string{"diff", "-o", out, filepath.Join(dir, "nope.json"), same}, exitFailed, "OLD:"},
+		{"folder without results", []string{"diff", "-o", out, a, out + "-empty"}, exitFailed, "NEW:"},
+		{"not a results file", []string{"diff", "-o", out, a, filepath.Join(out, "diff.json")}, exitFailed, "not a bivar results file"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			if tc.name == "folder without results" {
+				os.MkdirAll(out+"-empty", 0o755)
+			}
+			code, _, stderr := call(t, tc.args...)
+			if code != tc.code || !strings.Contains(stderr, tc.want) {
+				t.Errorf("bivar %s: exit %d, stderr:\n%s\nwant exit %d and %q", strings.Join(tc.args, " "), code, stderr, tc.code, tc.want)
+			}
+		})
+	}
+	// The files of the last successful diff are there and read back.
+	for _, f := range []string{"diff.html", "diff.md", "diff.json"} {
+		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
+			t.Errorf("missing %s: %v", f, err)
+		}
+	}
+	b, _ := os.ReadFile(filepath.Join(out, "diff.json"))
+	res, err := compare.Read(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Old.File != filepath.ToSlash(filepath.Join(dir, "a", "results.json")) || res.Summary.Compared != 1 {
+		t.Errorf("diff.json: old file %q, compared %d", res.Old.File, res.Summary.Compared)
+	}
+}

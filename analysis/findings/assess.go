@@ -40,7 +40,8 @@ type facts struct {
 
 	r, p    float64 // Pearson r and its adjusted p
 	adj     float64 // p_adjusted / p: the factor the adjustment applied
-	dir     string
+	dir     string // the direction verdict
+	rdir    string // the direction of r alone: sign of r when its adjusted p is below alpha
 	linSig  bool
 	quad    *report.Fit
 	b2      float64
@@ -62,18 +63,20 @@ type facts struct {
 // from ctx.Thresholds (zero value: DefaultThresholds):
 //
 //   - direction: positive or negative when r's adjusted p is below alpha
-//     (its interval at the adjusted level excludes 0), by the sign of r;
-//     otherwise none.
+//     (its interval at the adjusted level excludes 0), by the sign of r,
+//     unless the curve turns over inside the range (then y does not move
+//     one way with x); otherwise none.
 //   - form: curved when the x² term's p is below alpha, the quadratic as a
 //     whole is significant and it adds at least CurveGainR2 to R²; it bends
 //     down when the x² coefficient is negative, up when positive; it turns
-//     over when the fitted curve's vertex lies inside the observed x range
-//     and the curve changes by at least its residual SE on both sides of
-//     the vertex. Otherwise nonlinear when the distance correlation's p is
+//     over when the fitted curve's vertex lies inside the observed x range,
+//     the curve changes by at least its residual SE on both sides of the
+//     vertex, and the LOWESS curve of the plot data (when present) confirms
+//     the turn (see smoothTurns). Otherwise nonlinear when the distance correlation's p is
 //     below alpha, dcor ≥ NonlinearDcor, dcor > |r| and |r| < Moderate.
 //     Otherwise linear when the direction is not none; otherwise none.
 //   - strength: from |r| and the Strong, Moderate and Weak cut points, and
-//     none when the direction is none; CurveStrength from √R² of the
+//     none when r's adjusted p is not below alpha; CurveStrength from √R² of the
 //     quadratic by the same cut points, where curved.
 //   - outlier_driven: the direction, recomputed without the flagged rows
 //     (Sensitivity.RWithoutFlagged and its p, with the same adjustment
@@ -174,11 +177,11 @@ func (f *facts) decide(out *report.Findings) {
 		f.adj = f.p / raw
 	}
 	f.linSig = !math.IsNaN(f.r) && f.p < f.alpha
-	f.dir = "none"
+	f.rdir = "none"
 	if f.linSig {
-		f.dir = dirOf(f.r)
+		f.rdir = dirOf(f.r)
 	}
-	out.Direction = f.dir
+	f.dir = f.rdir
 
 	// Curvature.
 	lineR2 := float64(s.Pearson.R2)
@@ -222,7 +225,7 @@ func (f *facts) decide(out *report.Findings) {
 			if v > lo && v < hi {
 				se := float64(f.quad.ResidualSE)
 				left, right := math.Abs(f.b2)*(v-lo)*(v-lo), math.Abs(f.b2)*(hi-v)*(hi-v)
-				if left >= se && right >= se {
+				if left >= se && right >= se && f.smoothTurns(f.b2 < 0, se) {
 					out.TurnsOver = true
 					out.TurnX = report.Float(v)
 				}
@@ -236,17 +239,23 @@ func (f *facts) decide(out *report.Findings) {
 		out.Form = "none"
 	}
 
+	// A curve that turns over inside the range has no one direction.
+	if out.TurnsOver {
+		f.dir = "none"
+	}
+	out.Direction = f.dir
+
 	// Strength.
 	out.Strength = "none"
-	if f.dir != "none" {
+	if f.linSig {
 		out.Strength = f.strengthOf(math.Abs(f.r))
 	}
 	if f.curved {
 		out.CurveStrength = f.strengthOf(math.Sqrt(math.Max(0, float64(f.quad.R2))))
 	}
 
-	// Influence: does the direction survive without the flagged rows?
-	f.without = f.dir
+	// Influence: does r's direction survive without the flagged rows?
+	f.without = f.rdir
 	if se := s.Sensitivity; se != nil {
 		if se.NFlagged > 0 {
 			rw, pw := float64(se.RWithoutFlagged), float64(se.PWithoutFlagged)
@@ -259,8 +268,8 @@ func (f *facts) decide(out *report.Findings) {
 				f.without = "none"
 			}
 		}
-		out.OutlierDriven = f.without != f.dir
-		if f.dir != "none" && se.LooRMin.Valid() && se.LooRMax.Valid() {
+		out.OutlierDriven = f.without != f.rdir
+		if f.rdir != "none" && se.LooRMin.Valid() && se.LooRMax.Valid() {
 			if sign(float64(se.LooRMin)) != sign(f.r) || sign(float64(se.LooRMax)) != sign(f.r) {
 				out.OutlierDriven = true
 			}
@@ -268,7 +277,7 @@ func (f *facts) decide(out *report.Findings) {
 	}
 	if s.Influence != nil {
 		for _, p := range s.Influence.Points {
-			if slices.Contains(p.Flags, FlagSoleSupport) && f.dir != "none" {
+			if slices.Contains(p.Flags, FlagSoleSupport) && f.rdir != "none" {
 				out.OutlierDriven = true
 			}
 		}
@@ -276,7 +285,7 @@ func (f *facts) decide(out *report.Findings) {
 
 	// Lurking variables.
 	out.Reversal = f.reversal()
-	if f.dir != "none" {
+	if f.rdir != "none" {
 		for _, pc := range s.Partial {
 			if !pc.R.Valid() {
 				continue
@@ -301,6 +310,30 @@ func (f *facts) decide(out *report.Findings) {
 	}
 }
 
+// smoothTurns reports whether the LOWESS curve in the plot data confirms
+// a turn: its highest point (lowest, for a curve bending up) lies strictly
+// inside the x range and the smooth falls back from it by at least se at
+// both ends. The quadratic alone cannot tell a curve that levels off near
+// the end of the range (saturation) from one that turns back. Without a
+// LOWESS curve it does not object.
+func (f *facts) smoothTurns(down bool, se float64) bool {
+	pl := f.s.Plot
+	if pl == nil || len(pl.Lowess) < 3 {
+		return true
+	}
+	c := pl.Lowess
+	k := 0
+	for i, p := range c {
+		if (down && p.Y > c[k].Y) || (!down && p.Y < c[k].Y) {
+			k = i
+		}
+	}
+	if k == 0 || k == len(c)-1 {
+		return false
+	}
+	return math.Abs(c[k].Y-c[0].Y) >= se && math.Abs(c[k].Y-c[len(c)-1].Y) >= se
+}
+
 // qualifying returns the groups large enough for the reversal check.
 func (f *facts) qualifying() []report.GroupFit {
 	var g []report.GroupFit
@@ -313,7 +346,7 @@ func (f *facts) qualifying() []report.GroupFit {
 }
 
 func (f *facts) reversal() bool {
-	if f.dir == "none" {
+	if f.rdir == "none" {
 		return false
 	}
 	g := f.qualifying()
@@ -384,6 +417,9 @@ func (f *facts) write(out *report.Findings) {
 	}
 	if out.OutlierDriven {
 		h = f.drivenHeadline() + " " + h
+	} else if rows := f.suspectRows(); len(rows) > 0 && s.Sensitivity != nil && s.Sensitivity.RWithoutFlagged.Valid() {
+		h += fmt.Sprintf(" %s %s flagged; without the flagged rows r = %s and the verdict stands.",
+			capital(listRows(rows)), plural(len(rows), "is", "are"), corr(float64(s.Sensitivity.RWithoutFlagged)))
 	}
 	out.Headline = h
 
@@ -453,8 +489,12 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		add("A quadratic curve explains R² = %s of the variation against %s for the straight line (x² term %s).",
 			num(float64(q.R2)), num(float64(s.Pearson.R2)), pval(f.quadP()))
 		if out.TurnsOver {
-			add("The curve turns over inside the observed range, at %s ≈ %s: %s does not keep moving one way as %s rises.",
-				x, withUnit(float64(out.TurnX), s.X.Unit), f.yLabel, x)
+			first, then := "rises", "falls"
+			if *out.Bend == "bends-up" {
+				first, then = "falls", "rises"
+			}
+			add("The curve turns over inside the observed range: %s %s with %s up to about %s and %s beyond it, so it has no single direction.",
+				f.yLabel, first, x, withUnit(float64(out.TurnX), s.X.Unit), then)
 		} else if v := float64(q.Vertex); !math.IsNaN(v) && s.Describe != nil {
 			add("The curve does not turn over inside the observed range (%s): its fitted turning point, %s = %s, is not reached by the data.",
 				span(float64(s.Describe.X.Min), float64(s.Describe.X.Max), s.X.Unit), x, withUnit(v, s.X.Unit))
@@ -469,8 +509,13 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		}
 	case "none":
 		if f.dcor != nil {
-			add("The distance correlation, which detects dependence of any shape, finds none either (%s, %s).",
-				num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)))
+			if float64(f.dcor.P) < f.alpha {
+				add("The distance correlation, which detects dependence of any shape, is %s (%s): too small a dependence to call a relationship (the cut point is %s).",
+					num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)), num(f.th.NonlinearDcor))
+			} else {
+				add("The distance correlation, which detects dependence of any shape, finds none either (%s, %s).",
+					num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)))
+			}
 		}
 	}
 	if f.lof {
@@ -502,17 +547,31 @@ func (f *facts) flaggedRows() []string {
 	return rows
 }
 
+// suspectRows returns the names of the rows flagged as outliers,
+// influential or of sole support (not those only of high leverage).
+func (f *facts) suspectRows() []string {
+	var rows []string
+	if f.s.Influence != nil {
+		for _, p := range f.s.Influence.Points {
+			if Suspect(p.Flags) {
+				rows = append(rows, "row "+p.Row)
+			}
+		}
+	}
+	return rows
+}
+
 func (f *facts) drivenHeadline() string {
 	rows := f.flaggedRows()
 	se := f.s.Sensitivity
 	switch {
 	case f.without == "undefined":
-		return fmt.Sprintf("The apparent relationship comes from %s alone: without %s, r cannot be computed.",
-			listRows(rows), plural(len(rows), "it", "them"))
-	case f.dir == "none" && f.without != "none":
+		return fmt.Sprintf("The apparent relationship comes from %s alone: without %s, too little variation in %s is left to compute r.",
+			listRows(rows), plural(len(rows), "it", "them"), f.xLabel)
+	case f.rdir == "none" && f.without != "none":
 		return fmt.Sprintf("The flagged %s (%s) hide a relationship: without them r = %s.",
 			plural(len(rows), "row", "rows"), listRows(rows), corr(float64(se.RWithoutFlagged)))
-	case len(rows) > 0 && f.without != f.dir:
+	case len(rows) > 0 && f.without != f.rdir:
 		return fmt.Sprintf("The apparent relationship rests on %s: without %s, r = %s (%s) and no relationship is shown.",
 			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)*f.adj))
 	default:
@@ -542,7 +601,7 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 	}
 	if se.NFlagged > 0 {
 		verdict := "the verdict stands"
-		if f.without != f.dir {
+		if f.without != f.rdir {
 			verdict = "the verdict does not stand without them"
 		}
 		if math.IsNaN(float64(se.RWithoutFlagged)) {
@@ -568,7 +627,7 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 	if se.ResistantSlope.Valid() && s.Line != nil && s.Line.Slope != nil {
 		method := ""
 		if s.Diagnostics != nil && s.Diagnostics.Resistant != nil && s.Diagnostics.Resistant.Method != "" {
-			method = " (" + s.Diagnostics.Resistant.Method + ")"
+			method = " by " + s.Diagnostics.Resistant.Method
 		}
 		add("The resistant slope%s, which a few unusual rows cannot pull, is %s %s against %s by least squares.",
 			method, num(float64(se.ResistantSlope)), perUnit(s.Y.Unit, s.X.Unit, f.xLabel), num(float64(s.Line.Slope.Estimate)))
@@ -638,7 +697,7 @@ func (f *facts) limits(out *report.Findings) {
 		switch {
 		case slices.Contains(out.ExplainedBy, pc.Covariate):
 			add("Holding %s fixed, the correlation of %s and %s is %s: %s may carry the association (a lurking variable).", pc.Covariate, x, y, pt, pc.Covariate)
-		case f.dir == "none":
+		case f.rdir == "none":
 			add("Holding %s fixed, the correlation of %s and %s is %s.", pc.Covariate, x, y, pt)
 		default:
 			add("Holding %s fixed, the correlation of %s and %s is %s: the association does not come from %s.", pc.Covariate, x, y, pt, pc.Covariate)
@@ -700,7 +759,7 @@ func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 		add("Fewer than two groups of %s have %d rows or more, so the groups were not compared.", s.Group, f.th.ReversalMinGroup)
 	case out.Reversal:
 		add("Within each %s the direction reverses: pooled, %s %s with %s, but within groups it goes the other way (%s). The pooled relationship comes from differences between the groups.",
-			s.Group, f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.dir == "positive"], f.xLabel, detail)
+			s.Group, f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, detail)
 	default:
 		add("Within each %s the lines were checked for a reversal of direction and none was found (%s).", s.Group, detail)
 	}

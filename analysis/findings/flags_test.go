@@ -58,9 +58,9 @@ func TestFlagPointsRules(t *testing.T) {
 	tx := make([]float64, n)
 	d := make([]float64, n)
 	for i := range lev {
-		lev[i] = 0.01
+		lev[i] = 0.05
 	}
-	lev[0] = 0.05                        // above 2·2/100 = 0.04
+	lev[0] = 0.07                        // above 3·2/100 = 0.06
 	tx[1] = 3.5                          // above 3 but under the Bonferroni bound for n = 100 (about 3.6)
 	tx[2] = -4.2                         // beyond both
 	d[3] = 0.72                          // above the F(2, 98) median, about 0.70

@@ -53,11 +53,11 @@ type Thresholds struct {
 	Strong           float64 `json:"strong"`             // |r| at or above: strong (common practice 0.7)
 	Moderate         float64 `json:"moderate"`           // |r| at or above: moderate (common practice 0.4)
 	Weak             float64 `json:"weak"`               // |r| at or above: weak, below: none (0.1)
-	LeverageFactor   float64 `json:"leverage_factor"`    // high leverage when h > factor·p/n (2)
+	LeverageFactor   float64 `json:"leverage_factor"`    // high leverage when h > factor·p/n (3)
 	OutlierZ         float64 `json:"outlier_z"`          // outlier when |externally studentized| > this (3)
 	CooksD           float64 `json:"cooks_d"`            // influential when Cook's D > this quantile of F(p, n−p) (0.5; see findings)
 	CurveGainR2      float64 `json:"curve_gain_r2"`      // curved needs the quadratic to add at least this R² (0.05)
-	NonlinearDcor    float64 `json:"nonlinear_dcor"`     // nonlinear when dcor at or above this while |r| is weak (0.3)
+	NonlinearDcor    float64 `json:"nonlinear_dcor"`     // nonlinear when dcor at or above this while |r| is weak (0.15)
 	ReversalMinGroup int     `json:"reversal_min_group"` // smallest group used in the reversal check (5)
 	// OutlierFamilyAlpha sets the Bonferroni bound for outliers: |t| must also
 	// exceed t(1 − a/(2n), n − 3) (0.05; 0 turns the bound off).

@@ -1,0 +1,279 @@
+package findings_test
+
+// Checks of the verdicts through the whole analysis (analysis.Analyze):
+// Anscombe's quartet, a published dataset, and the labelled suite of
+// generated cases in testdata/suite (written by internal/gensuite; truth by
+// construction).
+
+import (
+	"encoding/csv"
+	"fmt"
+	"os"
+	"path/filepath"
+	"slices"
+	"sort"
+	"strconv"
+	"strings"
+	"testing"
+
+	"bivar/analysis"
+	"bivar/analysis/findings"
+	"bivar/analysis/report"
+)
+
+// referenceDir finds shared/reference by walking up from the test's folder.
+func referenceDir(t *testing.T) string {
+	t.Helper()
+	dir, err := filepath.Abs(".")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for {
+		p := filepath.Join(dir, "shared", "reference")
+		if st, err := os.Stat(p); err == nil && st.IsDir() {
+			return p
+		}
+		up := filepath.Dir(dir)
+		if up == dir {
+			t.Skip("reference data folder shared/reference not found above the test's folder (see DEVELOPERS.md)")
+		}
+		dir = up
+	}
+}
+
+func readCSV(t *testing.T, path string) (head []string, rows [][]string) {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	all, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatalf("%s: %v", path, err)
+	}
+	if len(all) < 2 {
+		t.Fatalf("%s: no data rows", path)
+	}
+	return all[0], all[1:]
+}
+
+func column(t *testing.T, path string, head []string, rows [][]string, name string) []float64 {
+	t.Helper()
+	j := slices.Index(head, name)
+	if j < 0 {
+		return nil
+	}
+	v := make([]float64, len(rows))
+	for i, r := range rows {
+		f, err := strconv.ParseFloat(r[j], 64)
+		if err != nil {
+			t.Fatalf("%s:%d: column %s: %v", path, i+2, name, err)
+		}
+		v[i] = f
+	}
+	return v
+}
+
+func analyze(id string, x, y []float64) report.Study {
+	in := analysis.Input{ID: id, X: report.Variable{Column: "x", Label: "x"}, Y: report.Variable{Column: "y", Label: "y"}, XS: x, YS: y}
+	return analysis.Analyze(in, analysis.DefaultConfig())
+}
+
+func flagsOf(s report.Study) map[string][]string {
+	m := map[string][]string{}
+	if s.Influence != nil {
+		for _, p := range s.Influence.Points {
+			m[p.Row] = p.Flags
+		}
+	}
+	return m
+}
+
+func bendOf(f *report.Findings) string {
+	if f.Bend == nil {
+		return "none"
+	}
+	return *f.Bend
+}
+
+// TestAnscombe runs the four sets of Anscombe, F. J. (1973), "Graphs in
+// Statistical Analysis", Am. Stat. 27(1):17–21, read in place from
+// shared/reference/anscombe.csv. All four share r = 0.816 and the line
+// y = 3 + 0.5x; the verdicts must tell them apart as the paper's plots do:
+// I a straight line; II a curve bending down; III a line with one outlier
+// (x = 13, data row 3 of the set), r near 1 without it; IV a relationship
+// that comes from one row alone (x = 19, row 8).
+func TestAnscombe(t *testing.T) {
+	path := filepath.Join(referenceDir(t), "anscombe.csv")
+	head, rows := readCSV(t, path)
+	sets := map[string][][2]float64{}
+	for _, r := range rows {
+		x, _ := strconv.ParseFloat(r[slices.Index(head, "x")], 64)
+		y, _ := strconv.ParseFloat(r[slices.Index(head, "y")], 64)
+		sets[r[0]] = append(sets[r[0]], [2]float64{x, y})
+	}
+	got := map[string]report.Study{}
+	for _, set := range []string{"I", "II", "III", "IV"} {
+		pts := sets[set]
+		if len(pts) != 11 {
+			t.Fatalf("set %s: %d rows, want 11", set, len(pts))
+		}
+		var x, y []float64
+		for _, p := range pts {
+			x, y = append(x, p[0]), append(y, p[1])
+		}
+		s := analyze("anscombe-"+set, x, y)
+		if s.Error != nil || s.Findings == nil {
+			t.Fatalf("set %s: study failed: %v", set, s.Error)
+		}
+		got[set] = s
+		f := s.Findings
+		t.Logf("set %s: form %s bend %s direction %s strength %s curve %q outlier-driven %v flags %v\n  %s",
+			set, f.Form, bendOf(f), f.Direction, f.Strength, f.CurveStrength, f.OutlierDriven, flagsOf(s), f.Headline)
+	}
+
+	if f := got["I"].Findings; f.Form != "linear" || f.Direction != "positive" || f.OutlierDriven || len(flagsOf(got["I"])) != 0 {
+		t.Errorf("set I: form %q direction %q outlier-driven %v flags %v; want a positive straight line, nothing flagged",
+			f.Form, f.Direction, f.OutlierDriven, flagsOf(got["I"]))
+	}
+	if f := got["II"].Findings; f.Form != "curved" || bendOf(f) != "bends-down" || f.OutlierDriven {
+		t.Errorf("set II: form %q bend %q outlier-driven %v; want curved, bending down", f.Form, bendOf(f), f.OutlierDriven)
+	}
+	s3 := got["III"]
+	fl3 := flagsOf(s3)
+	if f := s3.Findings; f.Form != "linear" || f.Direction != "positive" || f.OutlierDriven ||
+		len(fl3) != 1 || !slices.Contains(fl3["3"], findings.FlagOutlier) {
+		t.Errorf("set III: form %q direction %q outlier-driven %v flags %v; want a line with row 3 flagged as the one outlier",
+			f.Form, f.Direction, f.OutlierDriven, fl3)
+	}
+	// Without x = 13 the other ten points lie on y = 4.0056 + 0.3454x
+	// (Anscombe's construction); r is 0.99999 by plain arithmetic.
+	if r := float64(s3.Sensitivity.RWithoutFlagged); !(r > 0.999) {
+		t.Errorf("set III: r without the flagged row = %v, want > 0.999", r)
+	}
+	s4 := got["IV"]
+	if f := s4.Findings; !f.OutlierDriven || !slices.Contains(flagsOf(s4)["8"], findings.FlagSoleSupport) {
+		t.Errorf("set IV: outlier-driven %v flags %v; want outlier-driven, row 8 flagged sole-support", f.OutlierDriven, flagsOf(s4))
+	}
+	if !strings.Contains(s4.Findings.Headline, "row 8") {
+		t.Errorf("set IV: headline does not name row 8: %s", s4.Findings.Headline)
+	}
+	// The four verdicts differ from each other.
+	seen := map[string]string{}
+	for _, set := range []string{"I", "II", "III", "IV"} {
+		f := got[set].Findings
+		k := fmt.Sprintf("%s/%s/%d/%v", f.Form, bendOf(f), len(flagsOf(got[set])), f.OutlierDriven)
+		if other, dup := seen[k]; dup {
+			t.Errorf("sets %s and %s get the same verdict %s", other, set, k)
+		}
+		seen[k] = set
+	}
+}
+
+// verdicts are the suite's label columns, in labels.csv order.
+var verdicts = []string{"form", "bend", "turns_over", "direction", "strength", "outlier_driven", "reversal",
+	"spread_changes", "explained_by", "drift"}
+
+func verdict(f *report.Findings, name string) string {
+	switch name {
+	case "form":
+		return f.Form
+	case "bend":
+		return bendOf(f)
+	case "turns_over":
+		return strconv.FormatBool(f.TurnsOver)
+	case "direction":
+		return f.Direction
+	case "strength":
+		return f.Strength
+	case "outlier_driven":
+		return strconv.FormatBool(f.OutlierDriven)
+	case "reversal":
+		return strconv.FormatBool(f.Reversal)
+	case "spread_changes":
+		return strconv.FormatBool(f.SpreadChanges)
+	case "explained_by":
+		return strings.Join(f.ExplainedBy, " ")
+	case "drift":
+		return strconv.FormatBool(f.Drift)
+	}
+	panic("unknown verdict " + name)
+}
+
+// TestSuite runs every case of testdata/suite through analysis.Analyze
+// with the default configuration and compares each labelled verdict ("*"
+// in labels.csv: the case does not decide it). It logs the accuracy per
+// verdict and overall.
+func TestSuite(t *testing.T) {
+	dir := filepath.Join("testdata", "suite")
+	head, rows := readCSV(t, filepath.Join(dir, "labels.csv"))
+	col := map[string]int{}
+	for i, h := range head {
+		col[h] = i
+	}
+	for _, v := range verdicts {
+		if _, ok := col[v]; !ok {
+			t.Fatalf("labels.csv has no column %q", v)
+		}
+	}
+	type tally struct{ right, total int }
+	per := map[string]*tally{}
+	var caseRight, caseTotal int
+	for _, lab := range rows {
+		name := lab[col["case"]]
+		path := filepath.Join(dir, name+".csv")
+		h, data := readCSV(t, path)
+		in := analysis.Input{ID: name, X: report.Variable{Column: "x", Label: "x"}, Y: report.Variable{Column: "y", Label: "y"},
+			XS: column(t, path, h, data, "x"), YS: column(t, path, h, data, "y")}
+		if j := slices.Index(h, "group"); j >= 0 {
+			in.GroupColumn = "group"
+			for _, r := range data {
+				in.Groups = append(in.Groups, r[j])
+			}
+		}
+		if o := column(t, path, h, data, "order"); o != nil {
+			in.OrderColumn, in.Order = "order", o
+		}
+		if z := column(t, path, h, data, "z"); z != nil {
+			in.Covariates = map[string][]float64{"z": z}
+		}
+		s := analysis.Analyze(in, analysis.DefaultConfig())
+		if s.Error != nil || s.Findings == nil {
+			t.Errorf("%s: study failed: %v", name, s.Error)
+			continue
+		}
+		f := s.Findings
+		caseOK := true
+		for _, v := range verdicts {
+			want := lab[col[v]]
+			if want == "*" {
+				continue
+			}
+			if per[v] == nil {
+				per[v] = &tally{}
+			}
+			per[v].total++
+			if got := verdict(f, v); got == want {
+				per[v].right++
+			} else {
+				caseOK = false
+				t.Errorf("%s (%s): %s = %q, want %q\n  %s", name, lab[col["construction"]], v, got, want, f.Headline)
+			}
+		}
+		caseTotal++
+		if caseOK {
+			caseRight++
+		}
+	}
+	var names []string
+	right, total := 0, 0
+	for v, c := range per {
+		names = append(names, fmt.Sprintf("%s %d/%d", v, c.right, c.total))
+		right += c.right
+		total += c.total
+	}
+	sort.Strings(names)
+	t.Logf("suite accuracy: cases %d/%d right in every labelled verdict; verdicts %d/%d; per verdict: %s",
+		caseRight, caseTotal, right, total, strings.Join(names, ", "))
+}

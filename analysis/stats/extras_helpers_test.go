@@ -112,3 +112,22 @@ func extraPanics(f func()) (panicked bool) {
 	f()
 	return false
 }
+
+// extraLurk is the generator of the seeded three-column test set for the
+// partial correlation: z uniform on [0, 10), x = z + e₁, y = 0.5·z + 0.2·x +
+// e₂, e₁ and e₂ sums of three uniforms, centred (so z carries most of the
+// association of x and y). Written to CSV with FormatFloat 'g', -1 for the
+// reference run.
+func extraLurk(seed uint64, n int) (x, y, z []float64) {
+	src := rand.NewPCG(seed, 0)
+	x, y, z = make([]float64, n), make([]float64, n), make([]float64, n)
+	noise := func() float64 {
+		return extraUniform(src) + extraUniform(src) + extraUniform(src) - 1.5
+	}
+	for i := range x {
+		z[i] = 10 * extraUniform(src)
+		x[i] = z[i] + noise()
+		y[i] = 0.5*z[i] + 0.2*x[i] + noise()
+	}
+	return x, y, z
+}

@@ -5,9 +5,7 @@ package stats
 // Kendall's τ-b by Knight's O(n log n) algorithm.
 
 import (
-	"cmp"
 	"math"
-	"slices"
 )
 
 // Correlation is Pearson's product-moment correlation with its inference.
@@ -107,28 +105,28 @@ func FisherCI(r float64, n int, conf float64) (lo, hi float64) {
 
 // Ranks returns the 1-based ranks of x, tied values sharing the mean of
 // the ranks they occupy ("average" or "fractional" ranking; Kendall &
-// Gibbons 1990, Rank Correlation Methods, §3.8). It sorts an index in
-// O(n log n). x must hold no NaN.
+// Gibbons 1990, Rank Correlation Methods, §3.8). The order comes from an
+// O(n) radix sort (sortkey.go). x must hold no NaN and fewer than 2³¹
+// values.
 func Ranks(x []float64) []float64 {
-	type iv struct {
-		v float64
-		i int
-	}
-	s := make([]iv, len(x))
+	n := len(x)
+	keys := make([]uint64, n)
+	idx := make([]int32, n)
 	for i, v := range x {
-		s[i] = iv{v, i}
+		keys[i] = floatKey(v)
+		idx[i] = int32(i)
 	}
-	slices.SortFunc(s, func(a, b iv) int { return cmp.Compare(a.v, b.v) })
-	r := make([]float64, len(x))
-	for lo := 0; lo < len(s); {
+	radixSort(keys, idx, make([]uint64, n), make([]int32, n))
+	r := make([]float64, n)
+	for lo := 0; lo < n; {
 		hi := lo + 1
-		for hi < len(s) && s[hi].v == s[lo].v {
+		for hi < n && keys[hi] == keys[lo] {
 			hi++
 		}
 		// positions lo..hi-1 (0-based) hold ranks lo+1..hi; their mean:
 		avg := float64(lo+1+hi) / 2
 		for k := lo; k < hi; k++ {
-			r[s[k].i] = avg
+			r[idx[k]] = avg
 		}
 		lo = hi
 	}
@@ -165,8 +163,9 @@ func Spearman(x, y []float64) (rho, p float64) {
 // 1966, "A computer method for calculating Kendall's tau with ungrouped
 // data", JASA 61(314):436–439): sort the pairs by (x, y), then merge-sort y
 // counting the exchanges, which are the discordant pairs; O(n log n) time,
-// O(n) memory. (gonum's stat.Kendall is τ-a, O(n²), and counts ties as
-// concordant, so it is not used.)
+// O(n) memory. The initial sort is a radix sort (sortkey.go), and the
+// merge sort starts from insertion-sorted runs of 16. (gonum's stat.Kendall
+// is τ-a, O(n²), and counts ties as concordant, so it is not used.)
 //
 // p is from the normal approximation to S = C − D with the variance
 // corrected for ties in both variables (Kendall 1970, Rank Correlation
@@ -189,28 +188,35 @@ func KendallTauB(x, y []float64) (tau, p float64) {
 	if n < 2 {
 		return math.NaN(), math.NaN()
 	}
-	type pair struct{ x, y float64 }
-	ps := make([]pair, n)
-	for i := range x {
-		ps[i] = pair{x[i], y[i]}
+	// Order the rows by (x, y): a stable radix sort by y, then by x.
+	ky := make([]uint64, n)
+	kx := make([]uint64, n)
+	kbuf := make([]uint64, n)
+	idx := make([]int32, n)
+	ibuf := make([]int32, n)
+	for i, v := range y {
+		ky[i] = floatKey(v)
+		idx[i] = int32(i)
 	}
-	slices.SortFunc(ps, func(a, b pair) int {
-		return cmp.Or(cmp.Compare(a.x, b.x), cmp.Compare(a.y, b.y))
-	})
+	radixSort(ky, idx, kbuf, ibuf)
+	for i, j := range idx {
+		kx[i] = floatKey(x[j])
+	}
+	radixSort(kx, idx, kbuf, ibuf)
+	ys := ky // y keys in (x, y) order; ky's sorted contents are not needed
+	for i, j := range idx {
+		ys[i] = floatKey(y[j])
+	}
 	var tx, txy tieSums // ties in x; joint ties in (x, y)
-	ys := make([]float64, n)
-	for i := range ps {
-		ys[i] = ps[i].y
-	}
 	for lo := 0; lo < n; {
 		hi := lo + 1
-		for hi < n && ps[hi].x == ps[lo].x {
+		for hi < n && kx[hi] == kx[lo] {
 			hi++
 		}
 		tx.add(hi - lo)
 		for a := lo; a < hi; {
 			b := a + 1
-			for b < hi && ps[b].y == ps[a].y {
+			for b < hi && ys[b] == ys[a] {
 				b++
 			}
 			txy.add(b - a)
@@ -218,8 +224,7 @@ func KendallTauB(x, y []float64) (tau, p float64) {
 		}
 		lo = hi
 	}
-	ps = nil
-	swaps := mergeCount(ys, make([]float64, n))
+	swaps := mergeCount(ys, kbuf)
 	var ty tieSums
 	for lo := 0; lo < n; {
 		hi := lo + 1
@@ -272,15 +277,30 @@ func (s *tieSums) add(t int) {
 
 // mergeCount sorts a ascending by a bottom-up, stable merge sort and
 // returns the number of pairs i < j with a[i] > a[j] (equal values are not
-// counted), using buf (len(buf) ≥ len(a)) as scratch. Knight (1966).
-func mergeCount(a, buf []float64) int64 {
+// counted), using buf (len(buf) ≥ len(a)) as scratch: Knight (1966). Runs
+// of mergeRun elements are first sorted by insertion, whose number of
+// element moves is exactly their count of such pairs.
+func mergeCount(a, buf []uint64) int64 {
 	n := len(a)
 	if n < 2 {
 		return 0
 	}
 	var swaps int64
+	for lo := 0; lo < n; lo += mergeRun {
+		hi := min(lo+mergeRun, n)
+		for i := lo + 1; i < hi; i++ {
+			v := a[i]
+			j := i
+			for j > lo && a[j-1] > v {
+				a[j] = a[j-1]
+				j--
+			}
+			a[j] = v
+			swaps += int64(i - j)
+		}
+	}
 	src, dst := a, buf[:n]
-	for width := 1; width < n; width *= 2 {
+	for width := mergeRun; width < n; width *= 2 {
 		for lo := 0; lo < n; lo += 2 * width {
 			mid := min(lo+width, n)
 			hi := min(lo+2*width, n)
@@ -306,3 +326,6 @@ func mergeCount(a, buf []float64) int64 {
 	}
 	return swaps
 }
+
+// mergeRun is the length of the runs mergeCount sorts by insertion.
+const mergeRun = 16

@@ -4,10 +4,7 @@ package stats
 // centred second moments of a pair (CentredMoments) that every other
 // estimator in the package is built on.
 
-import (
-	"math"
-	"slices"
-)
+import "math"
 
 // Summary is the location and spread of one variable.
 type Summary struct {
@@ -31,8 +28,8 @@ type Summary struct {
 //
 // The quartiles follow Hyndman & Fan (1996), "Sample quantiles in
 // statistical packages", Am. Stat. 50(4), definition 7 (see Quantile7): the
-// median of 1..10 is 5.5 and Q1 is 3.25. x is not modified; sorting a copy
-// makes Describe O(n log n).
+// median of 1..10 is 5.5 and Q1 is 3.25. x is not modified; a copy is
+// sorted by an O(n) radix sort (sortkey.go).
 //
 // x must hold no NaN (the caller removes missing values first). An empty x
 // gives N = 0 and NaN everywhere; one value gives SD NaN; a NaN in x gives
@@ -54,8 +51,7 @@ func Describe(x []float64) Summary {
 	if len(x) > 1 {
 		s.SD = math.Sqrt(ss / float64(len(x)-1))
 	}
-	sorted := slices.Clone(x)
-	slices.Sort(sorted)
+	sorted := sortedCopy(x)
 	s.Min, s.Max = sorted[0], sorted[len(sorted)-1]
 	s.Q1, s.Median, s.Q3 = Quartiles(sorted)
 	return s

@@ -151,10 +151,10 @@ func LeastSquares(cols [][]float64, y []float64, conf float64) (Regression, erro
 		lapack64.Trtrs(blas.NoTrans, blas64.Triangular{N: p, Stride: p, Data: R, Uplo: blas.Upper, Diag: blas.NonUnit}, b)
 		return rhs[:p:p]
 	}
-	b := append([]float64(nil), solve(append([]float64(nil), yc...))...)
+	b := append([]float64(nil), solve(yc)...)
 	// One step of refinement: solve for the correction from the residuals
 	// of the centred problem, computed from the original columns.
-	res := yc // reused: yc is no longer needed
+	res := yc // reused: solve overwrote yc, which is no longer needed
 	for i := range res {
 		s := (y[i] - ymean)
 		for j, c := range cols {

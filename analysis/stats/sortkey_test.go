@@ -1,0 +1,92 @@
+package stats
+
+import (
+	"math"
+	"math/rand/v2"
+	"slices"
+	"strconv"
+	"testing"
+)
+
+func TestRadixSortMatchesSort(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(8, 8))
+	special := []float64{0, math.Copysign(0, -1), math.Inf(1), math.Inf(-1), math.SmallestNonzeroFloat64,
+		-math.SmallestNonzeroFloat64, math.MaxFloat64, -math.MaxFloat64, 1, -1}
+	for trial := 0; trial < 60; trial++ {
+		n := rng.IntN(3000)
+		x := make([]float64, n)
+		for i := range x {
+			switch rng.IntN(4) {
+			case 0:
+				x[i] = special[rng.IntN(len(special))]
+			case 1:
+				x[i] = float64(rng.IntN(20) - 10)
+			default:
+				x[i] = rng.NormFloat64() * math.Pow(10, float64(rng.IntN(40)-20))
+			}
+		}
+		want := slices.Clone(x)
+		slices.Sort(want)
+		got := sortedCopy(x)
+		for i := range want {
+			if got[i] != want[i] {
+				t.Fatalf("n=%d: sortedCopy[%d] = %v, slices.Sort %v", n, i, got[i], want[i])
+			}
+		}
+		// With an index: stable, and the index permutes x into order.
+		keys := make([]uint64, n)
+		idx := make([]int32, n)
+		for i, v := range x {
+			keys[i], idx[i] = floatKey(v), int32(i)
+		}
+		radixSort(keys, idx, make([]uint64, n), make([]int32, n))
+		for i := range idx {
+			if x[idx[i]] != want[i] || (i > 0 && keys[i] == keys[i-1] && idx[i] < idx[i-1]) {
+				t.Fatalf("n=%d: index sort wrong or unstable at %d", n, i)
+			}
+		}
+	}
+}
+
+func TestMergeCountMatchesNaive(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(9, 9))
+	for trial := 0; trial < 200; trial++ {
+		n := rng.IntN(300)
+		a := make([]uint64, n)
+		for i := range a {
+			a[i] = uint64(rng.IntN(1 + trial))
+		}
+		var want int64
+		for i := range a {
+			for j := i + 1; j < n; j++ {
+				if a[i] > a[j] {
+					want++
+				}
+			}
+		}
+		sorted := slices.Clone(a)
+		slices.Sort(sorted)
+		if got := mergeCount(a, make([]uint64, n)); got != want || !slices.Equal(a, sorted) {
+			t.Fatalf("n=%d: mergeCount = %d, naive %d (sorted %v)", n, got, want, slices.Equal(a, sorted))
+		}
+	}
+}
+
+func BenchmarkRadixSort(b *testing.B) {
+	for _, n := range coreBenchSizes {
+		x, _ := coreBenchData(n)
+		keys, idx := make([]uint64, n), make([]int32, n)
+		kb, ib := make([]uint64, n), make([]int32, n)
+		b.Run("n="+strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				for i, v := range x {
+					keys[i], idx[i] = floatKey(v), int32(i)
+				}
+				radixSort(keys, idx, kb, ib)
+			}
+		})
+	}
+}

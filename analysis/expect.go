@@ -81,16 +81,17 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 	}
 	if e.MaxP != nil {
 		want := *e.MaxP
-		how := "adjusted by " + adjustName(adjust)
 		add("max_p", "adjusted p ≤ "+num(report.Float(want)), func() (string, bool, string) {
 			pa := s.Pearson.PAdjusted
 			got := "adjusted p = " + pnum(pa)
-			if pa.Valid() && float64(pa) <= want {
-				return got, true, fmt.Sprintf("Pearson's p is %s, %s across the manifest's studies %s, at or below %s",
-					pnum(s.Pearson.P), pnum(pa), how, num(report.Float(want)))
+			how := fmt.Sprintf("Pearson's p = %s; adjusted across the manifest's studies by %s: %s", pnum(s.Pearson.P), adjustName(adjust), pnum(pa))
+			if adjust == "none" {
+				how = fmt.Sprintf("Pearson's p = %s (the manifest adjusts nothing across studies)", pnum(pa))
 			}
-			return got, false, fmt.Sprintf("Pearson's p is %s, %s across the manifest's studies %s, above the allowed %s",
-				pnum(s.Pearson.P), pnum(pa), how, num(report.Float(want)))
+			if pa.Valid() && float64(pa) <= want {
+				return got, true, fmt.Sprintf("%s, at or below %s", how, num(report.Float(want)))
+			}
+			return got, false, fmt.Sprintf("%s, above the allowed %s", how, num(report.Float(want)))
 		})
 	}
 	if e.MinN != nil {
@@ -106,8 +107,11 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 	if e.NotOutlierDriven != nil && *e.NotOutlierDriven {
 		add("not_outlier_driven", "not outlier-driven", func() (string, bool, string) {
 			se := s.Sensitivity
-			ctx := fmt.Sprintf("%d row(s) flagged; r = %s with all rows, %s without the flagged rows",
+			ctx := fmt.Sprintf("%d row(s) left out (outlier, influential or sole support); r = %s with all rows, %s without them",
 				se.NFlagged, num(s.Pearson.R), num(se.RWithoutFlagged))
+			if se.NFlagged == 0 {
+				ctx = fmt.Sprintf("no row is an outlier, influential or the sole support of the line; r = %s", num(s.Pearson.R))
+			}
 			if s.Findings.OutlierDriven {
 				return "outlier-driven", false, "the verdict does not survive without the flagged rows: " + ctx
 			}
@@ -124,9 +128,9 @@ func within(what string, v float64, w []float64, unit, ctx string) (string, bool
 		return got, false, fmt.Sprintf("%s_within needs two numbers [low, high], the manifest gives %d", what, len(w))
 	}
 	if !(w[0] <= v && v <= w[1]) {
-		return got, false, fmt.Sprintf("%s lies outside %s; %s", what, interval(what, w, unit), ctx)
+		return got, false, fmt.Sprintf("%s lies outside [%s, %s]; %s", what, num(report.Float(w[0])), num(report.Float(w[1])), ctx)
 	}
-	return got, true, fmt.Sprintf("%s lies inside %s; %s", what, interval(what, w, unit), ctx)
+	return got, true, fmt.Sprintf("%s lies inside [%s, %s]; %s", what, num(report.Float(w[0])), num(report.Float(w[1])), ctx)
 }
 
 func interval(what string, w []float64, unit string) string {
@@ -151,7 +155,7 @@ func adjustName(a string) string {
 	case "bh":
 		return "Benjamini–Hochberg"
 	}
-	return "no method (p as computed)"
+	return "no adjustment"
 }
 
 // confPct gives the confidence level 1 − alpha in percent.

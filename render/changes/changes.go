@@ -35,6 +35,8 @@ var page = template.Must(template.New("diff").Funcs(template.FuncMap{
 	"short":       short,
 	"adjustName":  adjustName,
 	"verdictName": verdictName,
+	"below":       below,
+	"slopeUnit":   slopeUnit,
 }).Option("missingkey=error").ParseFS(tmplFS, "templates/*.tmpl"))
 
 type config struct {
@@ -157,13 +159,38 @@ func HTML(w io.Writer, res *compare.Result, opts ...Option) error {
 		CSS                template.CSS // trusted: our own embedded theme files
 		OldTitle, NewTitle string
 		AnyNotes           bool
-	}{res, template.CSS(css), titleOf(res.Old), titleOf(res.New), anyNotes}
+		Flagged            []string // ids of the studies with a significant change
+	}{res, template.CSS(css), titleOf(res.Old), titleOf(res.New), anyNotes, flagged(res)}
 	var buf bytes.Buffer
 	if err := page.ExecuteTemplate(&buf, "page", data); err != nil {
 		return fmt.Errorf("rendering diff.html: %w", err)
 	}
 	_, err = w.Write(buf.Bytes())
 	return err
+}
+
+// flagged lists the studies with a significant change, in Result order.
+func flagged(res *compare.Result) []string {
+	var ids []string
+	for _, s := range res.Studies {
+		if s.Significant {
+			ids = append(ids, s.ID)
+		}
+	}
+	return ids
+}
+
+// below reports whether p is defined and below alpha (the Result's rule
+// for significant).
+func below(p report.Float, alpha float64) bool { return p.Valid() && float64(p) < alpha }
+
+// slopeUnit is the slope's unit, "y-unit per x-unit", or "" when neither
+// side declared one.
+func slopeUnit(s compare.StudyChange) string {
+	if s.XUnit == "" && s.YUnit == "" {
+		return ""
+	}
+	return orDash(s.YUnit) + " per " + orDash(s.XUnit)
 }
 
 func titleOf(s compare.Side) string {
@@ -191,24 +218,35 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	}
 	b.WriteString("\n")
 	if len(res.Studies) > 0 {
-		b.WriteString("## Change in correlation and slope\n\n")
-		fmt.Fprintf(&b, "Δ is new − old; p is two-sided, adjusted p in brackets (%s over %d tests). A change is significant when an adjusted p is below %g.\n\n", adjustName(res.Adjust), s.Tested, res.Alpha)
-		b.WriteString("| Study | n old → new | r old → new | Δr | z | p (adj.) | slope old → new | Δslope ± SE | t (df) | p (adj.) | Significant |\n")
-		b.WriteString("|---|--:|--:|--:|--:|--:|--:|--:|--:|--:|---|\n")
+		b.WriteString("## Change in correlation\n\n")
+		if ids := flagged(res); len(ids) > 0 {
+			q := make([]string, len(ids))
+			for i, id := range ids {
+				q[i] = "`" + code(id) + "`"
+			}
+			fmt.Fprintf(&b, "**Significant change** (adjusted p below %g): %s.\n\n", res.Alpha, strings.Join(q, ", "))
+		} else {
+			fmt.Fprintf(&b, "No study changed significantly at %g after adjustment.\n\n", res.Alpha)
+		}
+		fmt.Fprintf(&b, "Δ is new − old; p two-sided; adjusted p after %s over all %d change tests (r and slope together).\n\n", adjustName(res.Adjust), s.Tested)
+		b.WriteString("| Study | n old → new | r old → new | Δr | z | p | adjusted p |\n|---|--:|--:|--:|--:|--:|--:|\n")
 		for _, sc := range res.Studies {
-			rc := "not tested | | | "
+			cells := "not tested | | | | "
 			if r := sc.R; r != nil {
-				rc = fmt.Sprintf("%s → %s | %s | %s | %s (%s)", num(r.Old), num(r.New), signed(r.Delta), fix2(r.Z), pval(r.P), pval(r.PAdjusted))
+				cells = fmt.Sprintf("%s → %s | %s | %s | %s | %s", num(r.Old), num(r.New), signed(r.Delta), fix2(r.Z), pval(r.P), mark(r.PAdjusted, res.Alpha))
 			}
-			slc := "not tested | | | "
+			fmt.Fprintf(&b, "| `%s` | %d → %d | %s |\n", code(sc.ID), sc.OldN, sc.NewN, cells)
+		}
+		b.WriteString("\n## Change in slope\n\n")
+		b.WriteString("SE of Δ from the pooled residual variance; t with n_old + n_new − 4 df. The residual SDs show whether pooling is reasonable.\n\n")
+		b.WriteString("| Study | unit | slope old → new | Δslope ± SE | t (df) | p | adjusted p | residual SD old → new |\n|---|---|--:|--:|--:|--:|--:|--:|\n")
+		for _, sc := range res.Studies {
+			cells := "not tested | | | | | "
 			if sl := sc.Slope; sl != nil {
-				slc = fmt.Sprintf("%s → %s | %s ± %s | %s (%d) | %s (%s)", num(sl.Old), num(sl.New), signed(sl.Delta), num(sl.SE), fix2(sl.T), sl.DF, pval(sl.P), pval(sl.PAdjusted))
+				cells = fmt.Sprintf("%s → %s | %s ± %s | %s (%d) | %s | %s | %s → %s", num(sl.Old), num(sl.New), signed(sl.Delta), num(sl.SE),
+					fix2(sl.T), sl.DF, pval(sl.P), mark(sl.PAdjusted, res.Alpha), num(sl.OldResidSD), num(sl.NewResidSD))
 			}
-			sig := "no"
-			if sc.Significant {
-				sig = "**yes**"
-			}
-			fmt.Fprintf(&b, "| `%s` | %d → %d | %s | %s | %s |\n", code(sc.ID), sc.OldN, sc.NewN, rc, slc, sig)
+			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), md(slopeUnit(sc)), cells)
 		}
 		b.WriteString("\n## Changed verdicts\n\n")
 		if s.VerdictChanged == 0 {
@@ -277,6 +315,14 @@ func orDash(s string) string {
 		return "—"
 	}
 	return s
+}
+
+// mark writes an adjusted p, in bold when below alpha.
+func mark(p report.Float, alpha float64) string {
+	if below(p, alpha) {
+		return "**" + pval(p) + "**"
+	}
+	return pval(p)
 }
 
 // num writes a number with 4 significant digits, "—" when undefined.

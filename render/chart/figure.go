@@ -1,0 +1,77 @@
+package chart
+
+import (
+	"io"
+
+	"bivar/themes"
+)
+
+// DensityAbove is the number of points above which point clouds are drawn
+// as density cells rather than one mark per point ("a few thousand": the
+// SVG of a figure then stays under a few hundred kB whatever n is).
+const DensityAbove = 3000
+
+// Role says how a line or band is drawn.
+type Role int
+
+const (
+	RoleFit    Role = iota // least-squares line: solid, heavy
+	RoleLowess             // LOWESS: dashed
+	RoleCurve              // curved model (quadratic): dotted
+	RoleConf               // confidence band: darker fill
+	RolePred               // prediction band: lighter fill, dashed edges
+	RoleZero               // reference line at zero: thin
+)
+
+// Figure describes one chart. It holds only data to draw and words to show;
+// how it looks is the Drawer's business.
+type Figure struct {
+	ID      string // unique within a page; prefixes the SVG's element ids
+	Title   string // the SVG <title>
+	Desc    string // the SVG <desc>: what the figure shows, in words
+	Caption string // shown under the figure by the renderers
+	XLabel  string // axis titles, with units
+	YLabel  string
+	Width   int
+	Height  int
+	Bands   []Band
+	Lines   []Line
+	Points  []Series // drawn as marks, or as density cells when Dense
+	Marked  []Mark   // flagged rows, drawn on top and labelled
+	Dense   bool     // draw Points as density cells
+	Join    bool     // join each series' points in the order given (run order)
+}
+
+// Band is a filled area between Low and High over X (X ascending).
+type Band struct {
+	Name         string
+	X, Low, High []float64
+	Role         Role
+}
+
+// Line is a polyline; a non-finite value breaks it.
+type Line struct {
+	Name string
+	X, Y []float64
+	Role Role
+}
+
+// Series is one set of points: one group level, or all points.
+type Series struct {
+	Name string
+	X, Y []float64
+}
+
+// Mark is a flagged point with its label (the row name).
+type Mark struct {
+	X, Y  float64
+	Label string
+}
+
+// Drawer turns a Figure into a complete SVG document.
+type Drawer interface {
+	Draw(w io.Writer, f *Figure) error
+}
+
+// NewSVG returns the Drawer that writes plain SVG with the theme's colours.
+func NewSVG(p themes.Palette) Drawer { return &svgDrawer{pal: p} }

@@ -1,0 +1,98 @@
+package render
+
+import (
+	"math"
+	"strconv"
+	"strings"
+
+	"bivar/analysis/report"
+)
+
+// This file holds the number formatting every format shares. Formatting is
+// fixed (no locale, no shortest-representation surprises), so the same
+// Report always gives the same text.
+
+const na = "n/a" // an undefined number, as printed
+
+// num writes v with four significant digits: plain decimals between 1e-4
+// and 1e7, else "1.234e-05". NaN and ±Inf are "n/a"; −0 prints as 0.
+func num(v report.Float) string { return sig(float64(v), 4) }
+
+func sig(v float64, digits int) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return na
+	}
+	if v == 0 {
+		return "0"
+	}
+	a := math.Abs(v)
+	if a < 1e-4 || a >= 1e7 {
+		return negZero(strconv.FormatFloat(v, 'e', digits-1, 64))
+	}
+	dec := max(0, digits-1-int(math.Floor(math.Log10(a))))
+	s := strconv.FormatFloat(v, 'f', dec, 64)
+	// Rounding may carry into a new digit (9.9996 -> 10.000): drop one decimal.
+	if dec > 0 && len(strings.TrimLeft(strings.ReplaceAll(s, ".", ""), "-0")) > digits {
+		s = strconv.FormatFloat(v, 'f', dec-1, 64)
+	}
+	return negZero(s)
+}
+
+func negZero(s string) string {
+	if strings.HasPrefix(s, "-") && strings.Trim(s[1:], "0.") == "" {
+		return s[1:]
+	}
+	return s
+}
+
+// pval writes a p-value: three decimals from 0.001 up, two significant
+// digits in exponent form below, and "< 1e-300" below 1e-300 (where the
+// tails are no longer accurate).
+func pval(p report.Float) string {
+	v := float64(p)
+	switch {
+	case math.IsNaN(v) || math.IsInf(v, 0):
+		return na
+	case v < 1e-300:
+		return "< 1e-300"
+	case v < 0.001:
+		return strconv.FormatFloat(v, 'e', 1, 64)
+	default:
+		return strconv.FormatFloat(v, 'f', 3, 64)
+	}
+}
+
+// interval writes "lo to hi", or n/a when either end is undefined.
+func interval(lo, hi report.Float) string {
+	if !lo.Valid() || !hi.Valid() {
+		return na
+	}
+	return num(lo) + " to " + num(hi)
+}
+
+// withCI writes "v (lo to hi)".
+func withCI(v, lo, hi report.Float) string {
+	if !lo.Valid() || !hi.Valid() {
+		return num(v)
+	}
+	return num(v) + " (" + interval(lo, hi) + ")"
+}
+
+// percent writes the confidence level of alpha, "95" for 0.05.
+func percent(alpha float64) string {
+	if alpha <= 0 || alpha >= 1 || math.IsNaN(alpha) {
+		return "95"
+	}
+	return strconv.FormatFloat(math.Round((1-alpha)*1e4)/100, 'f', -1, 64)
+}
+
+func itoa(n int) string { return strconv.Itoa(n) }
+
+// short writes a setting from the manifest (alpha, a threshold) as the
+// shortest decimal that reads back to it: 0.05, 0.7, 3.
+func short(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return na
+	}
+	return negZero(strconv.FormatFloat(v, 'f', -1, 64))
+}

@@ -1,0 +1,48 @@
+package render
+
+import (
+	"math"
+	"testing"
+
+	"bivar/analysis/report"
+)
+
+func TestNum(t *testing.T) {
+	cases := []struct {
+		in   float64
+		want string
+	}{
+		{0, "0"}, {math.Copysign(0, -1), "0"}, {1, "1.000"}, {0.9123456, "0.9123"}, {-0.62, "-0.6200"},
+		{12345.6, "12346"}, {9.99996, "10.00"}, {0.00012, "0.0001200"}, {0.0000123, "1.230e-05"},
+		{1.5e9, "1.500e+09"}, {-0.00004, "-4.000e-05"}, {math.NaN(), "n/a"}, {math.Inf(1), "n/a"},
+		{-0.00000, "0"},
+	}
+	for _, tc := range cases {
+		if got := num(report.Float(tc.in)); got != tc.want {
+			t.Errorf("num(%v) = %q, want %q", tc.in, got, tc.want)
+		}
+	}
+}
+
+func TestPval(t *testing.T) {
+	cases := []struct {
+		in   float64
+		want string
+	}{
+		{0.5, "0.500"}, {0.001, "0.001"}, {0.00094, "9.4e-04"}, {1e-300, "1.0e-300"},
+		{9.9e-301, "< 1e-300"}, {0, "< 1e-300"}, {1, "1.000"}, {math.NaN(), "n/a"},
+	}
+	for _, tc := range cases {
+		if got := pval(report.Float(tc.in)); got != tc.want {
+			t.Errorf("pval(%v) = %q, want %q", tc.in, got, tc.want)
+		}
+	}
+}
+
+func TestPercent(t *testing.T) {
+	for alpha, want := range map[float64]string{0.05: "95", 0.01: "99", 0.1: "90", 0.005: "99.5", 0: "95"} {
+		if got := percent(alpha); got != want {
+			t.Errorf("percent(%v) = %q, want %q", alpha, got, want)
+		}
+	}
+}

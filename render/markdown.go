@@ -1,0 +1,97 @@
+package render
+
+import (
+	"strings"
+	"unicode/utf8"
+)
+
+// mdText makes s safe as inline Markdown text: line breaks become spaces
+// and every character that Markdown or HTML could take as syntax is
+// backslash-escaped (CommonMark 0.31, §2.4: any ASCII punctuation may be
+// escaped), so names from the manifest and the data read as written and
+// never become markup.
+func mdText(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		switch r {
+		case '\\', '`', '*', '_', '[', ']', '<', '>', '|', '&', '~', '#', '!':
+			b.WriteByte('\\')
+			b.WriteRune(r)
+		case '\n', '\r', '\t':
+			b.WriteByte(' ')
+		default:
+			if r < 0x20 {
+				b.WriteByte(' ')
+				continue
+			}
+			b.WriteRune(r)
+		}
+	}
+	return b.String()
+}
+
+// mdTable writes a pipe table with its columns padded, so that it reads
+// as a table in plain text too. The caption goes first, in italics.
+func mdTable(t table) string {
+	if len(t.Head) == 0 {
+		return ""
+	}
+	cells := make([][]string, 0, len(t.Rows)+1)
+	head := make([]string, len(t.Head))
+	for i, h := range t.Head {
+		head[i] = mdText(h)
+	}
+	cells = append(cells, head)
+	for _, row := range t.Rows {
+		r := make([]string, len(t.Head))
+		for i := range r {
+			if i < len(row) {
+				r[i] = mdText(row[i])
+			}
+		}
+		cells = append(cells, r)
+	}
+	width := make([]int, len(t.Head))
+	for _, r := range cells {
+		for i, c := range r {
+			width[i] = max(width[i], utf8.RuneCountInString(c), 3)
+		}
+	}
+	var b strings.Builder
+	if t.Caption != "" {
+		b.WriteString("*" + mdText(t.Caption) + "*\n\n")
+	}
+	line := func(r []string) {
+		b.WriteString("|")
+		for i, c := range r {
+			pad := strings.Repeat(" ", width[i]-utf8.RuneCountInString(c))
+			if i < len(t.Num) && t.Num[i] {
+				b.WriteString(" " + pad + c + " |")
+			} else {
+				b.WriteString(" " + c + pad + " |")
+			}
+		}
+		b.WriteString("\n")
+	}
+	line(cells[0])
+	b.WriteString("|")
+	for i := range t.Head {
+		if i < len(t.Num) && t.Num[i] {
+			b.WriteString(" " + strings.Repeat("-", width[i]-1) + ": |")
+		} else {
+			b.WriteString(" " + strings.Repeat("-", width[i]) + " |")
+		}
+	}
+	b.WriteString("\n")
+	for _, r := range cells[1:] {
+		line(r)
+	}
+	return b.String()
+}
+
+// mdNotes passes the study's notes on as Markdown, with "<" written as an
+// entity so raw HTML in the notes shows as text in any Markdown viewer.
+func mdNotes(s string) string {
+	s = strings.ReplaceAll(strings.TrimSpace(s), "\r\n", "\n")
+	return strings.ReplaceAll(s, "<", "&lt;")
+}

@@ -1,0 +1,254 @@
+// Package render writes a report.Report as a self-contained HTML page and
+// as Markdown with its figures as SVG files, and writes all of a run's
+// files atomically (WriteReport).
+//
+// Renderers only read the Report: the analysis computed every number,
+// including the per-point plot data in Study.Plot; this package selects,
+// orders, formats and draws. The same Report always gives the same bytes:
+// numbers have fixed formats, studies keep manifest order, and the only
+// time printed is Report.Generated, set only when SOURCE_DATE_EPOCH is.
+//
+// The HTML page inlines its stylesheet (a theme from bivar/themes) and its
+// SVG figures, loads nothing, needs no JavaScript, and carries a
+// Content-Security-Policy that forbids every network load; its only style
+// source is allowed by hash. Every text from the manifest or the data is
+// escaped by html/template (page) or by package chart (SVG); study notes
+// are Markdown rendered by goldmark with raw HTML disabled and images shown
+// as their alt text.
+package render
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"embed"
+	"encoding/base64"
+	"fmt"
+	htmltemplate "html/template"
+	"io"
+	"path"
+	"strings"
+	"text/template"
+
+	"bivar/analysis/report"
+	"bivar/render/chart"
+	"bivar/themes"
+)
+
+//go:embed templates/*.tmpl
+var templateFS embed.FS
+
+// Templates are parsed once, strictly: a missing key is an error.
+var (
+	htmlTmpl = htmltemplate.Must(htmltemplate.New("html").Funcs(htmltemplate.FuncMap{
+		// svg marks chart output as trusted markup. It is the only place
+		// that does: package chart escapes every label it draws.
+		"svg":      func(s string) htmltemplate.HTML { return htmltemplate.HTML(s) },
+		"notes":    func(s string) htmltemplate.HTML { return htmltemplate.HTML(s) }, // goldmark output, raw HTML disabled
+		"rowClass": rowClass,
+	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.html.tmpl"))
+
+	mdTmpl = template.Must(template.New("md").Funcs(template.FuncMap{
+		"md":    mdText,
+		"table": mdTable,
+		"notes": mdNotes,
+	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.md.tmpl"))
+)
+
+func rowClass(t table, i int) string {
+	if i < len(t.Classes) {
+		return t.Classes[i]
+	}
+	return ""
+}
+
+// config holds the options; newConfig spells out every default.
+type config struct {
+	theme     string       // theme name; default themes.Default ("paper")
+	figureDir string       // folder of the SVG figures beside report.md; default "figures"
+	css       string       // the theme's stylesheet
+	drawer    chart.Drawer // draws the figures with the theme's colours
+}
+
+// Option configures HTML, Markdown, Figures and WriteReport.
+type Option func(*config)
+
+// WithTheme chooses the theme by name (see themes.Names). "" means the default.
+func WithTheme(name string) Option { return func(c *config) { c.theme = name } }
+
+// WithFigureDir sets the folder, relative to report.md, that holds its SVG
+// figures. The default is "figures".
+func WithFigureDir(dir string) Option { return func(c *config) { c.figureDir = dir } }
+
+func newConfig(opts []Option) (*config, error) {
+	c := &config{theme: themes.Default, figureDir: "figures"}
+	for _, o := range opts {
+		o(c)
+	}
+	if c.theme == "" {
+		c.theme = themes.Default
+	}
+	css, err := themes.CSS(c.theme)
+	if err != nil {
+		return nil, err
+	}
+	pal, err := themes.ChartPalette(c.theme)
+	if err != nil {
+		return nil, err
+	}
+	c.figureDir = strings.Trim(path.Clean(strings.ReplaceAll(c.figureDir, "\\", "/")), "/")
+	if c.figureDir == "" || c.figureDir == "." || strings.HasPrefix(c.figureDir, "..") {
+		return nil, fmt.Errorf("figure folder %q: want a folder inside the report folder, such as \"figures\"", c.figureDir)
+	}
+	c.css, c.drawer = css, chart.NewSVG(pal)
+	return c, nil
+}
+
+// pageCSS is the theme plus the print page box with the report's name in
+// the running header.
+func pageCSS(theme, title string) string {
+	return theme + "\n@page {\n  size: A4;\n  margin: 18mm 14mm 16mm;\n" +
+		"  @top-left { content: " + cssString(title) + "; font: 8pt sans-serif; color: #444444; }\n" +
+		"  @top-right { content: \"bivar report\"; font: 8pt sans-serif; color: #444444; }\n" +
+		"  @bottom-right { content: \"page \" counter(page) \" of \" counter(pages); font: 8pt sans-serif; color: #444444; }\n}\n"
+}
+
+// cssString quotes s as a CSS string, escaping every character that is not
+// a letter, digit or space as a CSS hex escape, so no text can end the
+// string or the <style> element.
+func cssString(s string) string {
+	var b strings.Builder
+	b.WriteByte('"')
+	for _, r := range s {
+		switch {
+		case r >= 'a' && r <= 'z', r >= 'A' && r <= 'Z', r >= '0' && r <= '9', r == ' ':
+			b.WriteRune(r)
+		case r < 0x20 || r == 0x7f:
+			b.WriteByte(' ')
+		default:
+			fmt.Fprintf(&b, "\\%06x", r)
+		}
+	}
+	b.WriteByte('"')
+	return b.String()
+}
+
+// csp is the Content-Security-Policy of the page: nothing may be loaded or
+// run; the one inline stylesheet is allowed by its SHA-256.
+func csp(css string) string {
+	sum := sha256.Sum256([]byte(css))
+	return "default-src 'none'; style-src 'sha256-" + base64.StdEncoding.EncodeToString(sum[:]) +
+		"'; img-src 'none'; script-src 'none'; base-uri 'none'; form-action 'none'"
+}
+
+// HTML writes r as one self-contained HTML page. Nothing is written when
+// an error occurs.
+func HTML(w io.Writer, r *report.Report, opts ...Option) error {
+	b, err := htmlBytes(r, opts)
+	if err != nil {
+		return err
+	}
+	_, err = w.Write(b)
+	return err
+}
+
+func htmlBytes(r *report.Report, opts []Option) ([]byte, error) {
+	if r == nil {
+		return nil, fmt.Errorf("no report to render")
+	}
+	cfg, err := newConfig(opts)
+	if err != nil {
+		return nil, err
+	}
+	p, err := buildPage(r, cfg)
+	if err != nil {
+		return nil, err
+	}
+	css := pageCSS(cfg.css, p.Title)
+	var b bytes.Buffer
+	err = htmlTmpl.ExecuteTemplate(&b, "page", map[string]any{
+		"Page": p, "CSS": htmltemplate.CSS(css), "CSP": csp(css),
+	})
+	if err != nil {
+		return nil, fmt.Errorf("html report: %w", err)
+	}
+	return b.Bytes(), nil
+}
+
+// Markdown writes r as Markdown for code review. Figures are linked as
+// <figure dir>/<study>-<kind>.svg; Figures returns those files and
+// WriteReport writes them beside report.md. Nothing is written when an
+// error occurs.
+func Markdown(w io.Writer, r *report.Report, opts ...Option) error {
+	b, _, err := markdownBytes(r, opts)
+	if err != nil {
+		return err
+	}
+	_, err = w.Write(b)
+	return err
+}
+
+func markdownBytes(r *report.Report, opts []Option) ([]byte, *page, error) {
+	if r == nil {
+		return nil, nil, fmt.Errorf("no report to render")
+	}
+	cfg, err := newConfig(opts)
+	if err != nil {
+		return nil, nil, err
+	}
+	p, err := buildPage(r, cfg)
+	if err != nil {
+		return nil, nil, err
+	}
+	var b bytes.Buffer
+	if err := mdTmpl.ExecuteTemplate(&b, "page", p); err != nil {
+		return nil, nil, fmt.Errorf("markdown report: %w", err)
+	}
+	return squeezeBlank(b.Bytes()), p, nil
+}
+
+// File is one file of the report: a slash-separated name relative to the
+// report folder and its bytes.
+type File struct {
+	Name string
+	Data []byte
+}
+
+// Figures returns the SVG files report.md links to, in study order.
+func Figures(r *report.Report, opts ...Option) ([]File, error) {
+	_, p, err := markdownBytes(r, opts)
+	if err != nil {
+		return nil, err
+	}
+	return figureFiles(p), nil
+}
+
+func figureFiles(p *page) []File {
+	var out []File
+	for _, s := range p.Studies {
+		for _, f := range s.Figures {
+			out = append(out, File{Name: f.File, Data: []byte(f.SVG)})
+		}
+	}
+	return out
+}
+
+// squeezeBlank collapses runs of blank lines to one and ends the text with
+// exactly one newline, so the template's layout cannot leak into the file.
+func squeezeBlank(b []byte) []byte {
+	lines := strings.Split(strings.TrimSpace(string(b)), "\n")
+	out := make([]string, 0, len(lines))
+	blank := false
+	for _, l := range lines {
+		l = strings.TrimRight(l, " \t")
+		if l == "" {
+			if blank {
+				continue
+			}
+			blank = true
+		} else {
+			blank = false
+		}
+		out = append(out, l)
+	}
+	return []byte(strings.Join(out, "\n") + "\n")
+}

@@ -1,0 +1,371 @@
+package render
+
+import (
+	"fmt"
+	"strings"
+
+	"bivar/analysis/report"
+)
+
+// studySections lists the parts of a study after its figures, in the order
+// they appear. A new part is one function here; both formats pick it up.
+var studySections = []func(s *report.Study, level string, th report.Thresholds) (*section, error){
+	wordsSection,
+	keyFiguresSection,
+	influenceSection,
+	sensitivitySection,
+	unitsSection,
+	groupsSection,
+	predictionsSection,
+	limitsSection,
+	expectationsSection,
+	notesSection,
+}
+
+func wordsSection(s *report.Study, _ string, th report.Thresholds) (*section, error) {
+	f := s.Findings
+	if f == nil {
+		return nil, nil
+	}
+	sec := &section{Key: "words", Title: "What the data show"}
+	x, y := name(s.X), name(s.Y)
+	switch f.Form {
+	case "linear":
+		sec.List = append(sec.List, "Form: a straight line describes how "+y+" follows "+x+".")
+	case "curved":
+		w := "Form: curved"
+		if f.Bend != nil && *f.Bend != "" {
+			w += " (" + strings.ReplaceAll(*f.Bend, "-", " ") + ")"
+		}
+		if f.TurnsOver {
+			w += fmt.Sprintf("; the curve turns over at %s = %s, inside the observed range", x, num(f.TurnX))
+		}
+		sec.List = append(sec.List, w+".")
+	case "nonlinear":
+		sec.List = append(sec.List, "Form: nonlinear — "+y+" depends on "+x+" in a way the correlation coefficient does not capture.")
+	case "none":
+		sec.List = append(sec.List, "Form: no relationship between "+x+" and "+y+" is detected.")
+	default:
+		sec.List = append(sec.List, "Form: "+f.Form+".")
+	}
+	switch f.Direction {
+	case "positive":
+		sec.List = append(sec.List, "Direction: positive — "+y+" tends to be higher where "+x+" is higher.")
+	case "negative":
+		sec.List = append(sec.List, "Direction: negative — "+y+" tends to be lower where "+x+" is higher.")
+	case "none":
+		sec.List = append(sec.List, "Direction: none established — the interval for the slope includes zero.")
+	default:
+		sec.List = append(sec.List, "Direction: "+f.Direction+".")
+	}
+	str := "Strength: " + f.Strength
+	if s.Pearson != nil {
+		str += fmt.Sprintf(" (r = %s)", num(s.Pearson.R))
+	}
+	if f.CurveStrength != "" {
+		str += "; the curve's own strength: " + f.CurveStrength
+	}
+	sec.List = append(sec.List, str+fmt.Sprintf(". Cut points |r| ≥ %s strong, ≥ %s moderate, ≥ %s weak — common practice, not a standard.",
+		short(th.Strong), short(th.Moderate), short(th.Weak)))
+	if f.OutlierDriven {
+		sec.List = append(sec.List, "Influence: the verdict does not survive without the flagged rows (outlier-driven).")
+	}
+	if f.Reversal {
+		sec.List = append(sec.List, "Groups: within the groups of "+s.Group+" the direction is the opposite of the pooled direction.")
+	}
+	if f.Drift {
+		sec.List = append(sec.List, "Run order: the residuals trend or cluster in run order; the relationship may have drifted.")
+	}
+	if f.SpreadChanges {
+		sec.List = append(sec.List, "Spread: the scatter about the line changes with "+x+" (Breusch–Pagan).")
+	}
+	sec.After = f.Statements
+	return sec, nil
+}
+
+func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*section, error) {
+	sec := &section{Key: "keyfigures", Title: "Key figures"}
+	t := table{Caption: "Association and the least-squares line", Head: []string{"Measure", "Value", level + "% interval", "p"},
+		Num: []bool{false, true, true, true}}
+	add := func(m, v, ci, p string) { t.Rows = append(t.Rows, []string{m, v, ci, p}) }
+	add("Rows used (n)", itoa(s.N), "", "")
+	if pr := s.Pearson; pr != nil {
+		add("Pearson r", num(pr.R), interval(pr.CILow, pr.CIHigh), pval(pr.P))
+		add("p adjusted across studies", "", "", pval(pr.PAdjusted))
+		add("r²", num(pr.R2), "", "")
+		add(fmt.Sprintf("t (df %d)", pr.DF), num(pr.T), "", "")
+	}
+	if sp := s.Spearman; sp != nil {
+		add("Spearman ρ", num(sp.Rho), "", pval(sp.P))
+	}
+	if k := s.Kendall; k != nil {
+		add("Kendall τ-b", num(k.TauB), "", pval(k.P))
+	}
+	if l := s.Line; l != nil {
+		if l.Slope != nil {
+			add("Slope ("+unitPer(s)+")", num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P))
+			add("Slope standard error", num(l.Slope.SE), "", "")
+		}
+		if l.Intercept != nil {
+			add("Intercept", num(l.Intercept.Estimate), interval(l.Intercept.CILow, l.Intercept.CIHigh), pval(l.Intercept.P))
+		}
+		add("Residual standard error", num(l.ResidualSE), "", "")
+		add("R² / adjusted R²", num(l.R2)+" / "+num(l.AdjR2), "", "")
+	}
+	if d := s.Diagnostics; d != nil {
+		add("Quadratic term", "", "", pval(d.QuadraticP))
+		if lf := d.LackOfFit; lf != nil {
+			add(fmt.Sprintf("Lack of fit F (%d, %d)", lf.DF1, lf.DF2), num(lf.F), "", pval(lf.P))
+		}
+		if dc := d.DistanceCorr; dc != nil {
+			add(fmt.Sprintf("Distance correlation (%d permutations)", dc.Permutations), num(dc.DCor), "", pval(dc.P))
+		}
+		if bp := d.BreuschPagan; bp != nil {
+			add(fmt.Sprintf("Breusch–Pagan χ² (df %d)", bp.DF), num(bp.Stat), "", pval(bp.P))
+		}
+		add("Durbin–Watson", num(d.DurbinWatson), "", "")
+		if ot := d.OrderTrend; ot != nil {
+			add("Residual trend in run order (per unit of "+s.Order+")", num(ot.Slope), "", pval(ot.P))
+		}
+		if rs := d.Resistant; rs != nil {
+			add("Resistant slope, "+rs.Method, num(rs.Slope), "", "")
+		}
+		if lw := d.Lowess; lw != nil {
+			add("LOWESS settings", fmt.Sprintf("span %s, %d iterations", sig(lw.Frac, 3), lw.Iterations), "", "")
+		}
+	}
+	sec.Tables = append(sec.Tables, t)
+	for _, m := range s.Models {
+		if m.Name == "line" {
+			continue
+		}
+		mt := table{Caption: "Other fit: " + m.Name + " " + m.Formula, Head: []string{"Measure", "Value"}, Num: []bool{false, true}}
+		mt.Rows = append(mt.Rows, []string{"R² / adjusted R²", num(m.R2) + " / " + num(m.AdjR2)},
+			[]string{"Residual standard error", num(m.ResidualSE)}, []string{"AIC", num(m.AIC)})
+		if m.Vertex.Valid() {
+			mt.Rows = append(mt.Rows, []string{"Turning point at x", num(m.Vertex)})
+		}
+		for _, c := range m.Coefficients {
+			mt.Rows = append(mt.Rows, []string{"Coefficient " + c.Name, withCI(c.Estimate, c.CILow, c.CIHigh) + ", p " + pval(c.P)})
+		}
+		sec.Tables = append(sec.Tables, mt)
+	}
+	if d := s.Describe; d != nil {
+		dt := table{Caption: "The two variables over the rows used", Head: []string{"", "n", "Mean", "SD", "Min", "Q1", "Median", "Q3", "Max"},
+			Num: []bool{false, true, true, true, true, true, true, true, true}}
+		for _, v := range []struct {
+			n string
+			d report.Describe
+		}{{withUnit(s.X), d.X}, {withUnit(s.Y), d.Y}} {
+			dt.Rows = append(dt.Rows, []string{v.n, itoa(v.d.N), num(v.d.Mean), num(v.d.SD), num(v.d.Min), num(v.d.Q1), num(v.d.Median), num(v.d.Q3), num(v.d.Max)})
+		}
+		sec.Tables = append(sec.Tables, dt)
+	}
+	return sec, nil
+}
+
+func unitPer(s *report.Study) string {
+	y, x := s.Y.Unit, s.X.Unit
+	if y == "" {
+		y = "y"
+	}
+	if x == "" {
+		x = "x"
+	}
+	return y + " per " + x
+}
+
+func influenceSection(s *report.Study, _ string, th report.Thresholds) (*section, error) {
+	in := s.Influence
+	if in == nil {
+		return nil, nil
+	}
+	sec := &section{Key: "influence", Title: "Unusual rows"}
+	if len(in.Points) == 0 {
+		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is flagged. The largest Cook's distance is %s (row %s).", num(in.MaxCooksD), in.MaxCooksRow))
+		return sec, nil
+	}
+	t := table{Caption: "Flagged rows, largest Cook's distance first",
+		Head: []string{"Row", "x", "y", "Leverage", "Studentized residual", "Deleted residual", "Cook's distance", "DFFITS", "Why flagged"},
+		Num:  []bool{false, true, true, true, true, true, true, true, false}}
+	for _, pt := range in.Points {
+		t.Rows = append(t.Rows, []string{pt.Row, num(pt.X), num(pt.Y), num(pt.Leverage), num(pt.Studentized), num(pt.StudentizedExt),
+			num(pt.CooksD), num(pt.DFFITS), strings.Join(pt.Flags, ", ")})
+	}
+	sec.Tables = append(sec.Tables, t)
+	sec.After = append(sec.After, fmt.Sprintf("Thresholds: outlier when the deleted (externally studentized) residual exceeds %s in size; high leverage above %s·p/n; influential by Cook's distance (threshold %s). These are common practice, not a standard.",
+		short(th.OutlierZ), short(th.LeverageFactor), short(th.CooksD)))
+	return sec, nil
+}
+
+func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*section, error) {
+	se := s.Sensitivity
+	if se == nil {
+		return nil, nil
+	}
+	sec := &section{Key: "sensitivity", Title: "How much the result rests on single rows"}
+	t := table{Caption: "The line fitted to different sets of rows", Head: []string{"Rows", "r", "Slope", "Intercept"},
+		Num: []bool{false, true, true, true}}
+	r, slope, icpt := report.NaN(), report.NaN(), report.NaN()
+	if s.Pearson != nil {
+		r = s.Pearson.R
+	}
+	if s.Line != nil && s.Line.Slope != nil && s.Line.Intercept != nil {
+		slope, icpt = s.Line.Slope.Estimate, s.Line.Intercept.Estimate
+	}
+	t.Rows = append(t.Rows, []string{fmt.Sprintf("All %d rows", s.N), num(r), num(slope), num(icpt)})
+	for _, w := range se.WithoutEach {
+		t.Rows = append(t.Rows, []string{"Without row " + w.Row, num(w.R), num(w.Slope), num(w.Intercept)})
+	}
+	if se.NFlagged > 0 {
+		rw := num(se.RWithoutFlagged)
+		if se.RWithoutLow.Valid() {
+			rw = withCI(se.RWithoutFlagged, se.RWithoutLow, se.RWithoutHigh)
+		}
+		t.Rows = append(t.Rows, []string{fmt.Sprintf("Without all %d flagged rows", se.NFlagged), rw, num(se.SlopeWithoutFlagged), num(se.InterceptWithout)})
+	}
+	method := "resistant line"
+	if s.Diagnostics != nil && s.Diagnostics.Resistant != nil {
+		method = "Resistant line, " + s.Diagnostics.Resistant.Method
+	}
+	t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
+	sec.Tables = append(sec.Tables, t)
+	sec.After = append(sec.After, fmt.Sprintf("Leaving out one row at a time, r ranges from %s (without row %s) to %s (without row %s) and the slope from %s to %s.",
+		num(se.LooRMin), orDash(se.LooRMinRow), num(se.LooRMax), orDash(se.LooRMaxRow), num(se.LooSlopeMin), num(se.LooSlopeMax)))
+	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() {
+		sec.After = append(sec.After, fmt.Sprintf("Without the flagged rows, p for r is %s (%s%% interval shown with r).", pval(se.PWithoutFlagged), level))
+	}
+	return sec, nil
+}
+
+func orDash(s string) string {
+	if s == "" {
+		return na
+	}
+	return s
+}
+
+func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
+	if len(s.UnitInvariance) == 0 {
+		return nil, nil
+	}
+	sec := &section{Key: "units", Title: "Units of measure"}
+	t := table{Caption: "r, slope and intercept in other units", Head: []string{"x unit", "y unit", "r", "Slope", "Intercept", "Note"},
+		Num: []bool{false, false, true, true, true, false}}
+	var rs []string
+	undefined := 0
+	for _, u := range s.UnitInvariance {
+		note := u.Note
+		if u.Swapped {
+			note = strings.TrimSpace("x and y swapped. " + note)
+		}
+		t.Rows = append(t.Rows, []string{orDash(u.XUnit), orDash(u.YUnit), num(u.R), num(u.Slope), num(u.Intercept), note})
+		if u.R.Valid() {
+			rs = append(rs, num(u.R))
+		} else {
+			undefined++
+		}
+	}
+	sec.Tables = append(sec.Tables, t)
+	same := len(rs) > 0
+	for _, r := range rs {
+		same = same && r == rs[0]
+	}
+	switch {
+	case same && len(rs) > 1:
+		where := "in every row of the table"
+		if undefined > 0 {
+			where = "in every row where it could be computed"
+		}
+		sec.After = append(sec.After, fmt.Sprintf("r reads %s %s: the strength of the association does not depend on the units the data were recorded in, nor on which variable is put on which axis. Slope and intercept change with the units, as they must, because they are measured in units of y per unit of x.", rs[0], where))
+	case same:
+		sec.After = append(sec.After, "Only one row could be computed, so the table shows no comparison of units.")
+	default:
+		sec.After = append(sec.After, "r differs between the rows of this table at the digits shown. A linear change of units cannot change r, so check the unit declarations and conversions of this study.")
+	}
+	return sec, nil
+}
+
+func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section, error) {
+	if len(s.Groups) == 0 && len(s.Partial) == 0 {
+		return nil, nil
+	}
+	sec := &section{Key: "groups", Title: "Groups and other variables"}
+	if len(s.Groups) > 0 {
+		t := table{Caption: "The line within each level of " + s.Group, Head: []string{s.Group, "n", "r", "Slope (" + level + "% interval)", "Intercept"},
+			Num: []bool{false, true, true, true, true}}
+		for _, g := range s.Groups {
+			t.Rows = append(t.Rows, []string{g.Group, itoa(g.N), num(g.R), withCI(g.Slope, g.SlopeLow, g.SlopeHigh), num(g.Intercept)})
+		}
+		sec.Tables = append(sec.Tables, t)
+	}
+	if len(s.Partial) > 0 {
+		t := table{Caption: "Correlation of x and y with each covariate held fixed (partial correlation)", Head: []string{"Covariate", "n", "Partial r (" + level + "% interval)", "p"},
+			Num: []bool{false, true, true, true}}
+		for _, pc := range s.Partial {
+			t.Rows = append(t.Rows, []string{pc.Covariate, itoa(pc.N), withCI(pc.R, pc.CILow, pc.CIHigh), pval(pc.P)})
+		}
+		sec.Tables = append(sec.Tables, t)
+	}
+	return sec, nil
+}
+
+func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*section, error) {
+	if len(s.Predictions) == 0 {
+		return nil, nil
+	}
+	sec := &section{Key: "predictions", Title: "Predictions from the line"}
+	t := table{Caption: fmt.Sprintf("%s at chosen values of %s", withUnit(s.Y), withUnit(s.X)),
+		Head: []string{"x", "Fitted", "Mean response (" + level + "% confidence)", "One new row (" + level + "% prediction)", "Within observed range"},
+		Num:  []bool{true, true, true, true, false}}
+	for _, p := range s.Predictions {
+		in := "yes"
+		cls := ""
+		if !p.InRange {
+			in = "no — not supported"
+			cls = "bad"
+		}
+		t.Rows = append(t.Rows, []string{num(p.X), num(p.Fit), interval(p.ConfLow, p.ConfHigh), interval(p.PredLow, p.PredHigh), in})
+		t.Classes = append(t.Classes, cls)
+	}
+	sec.Tables = append(sec.Tables, t)
+	sec.After = append(sec.After, "The confidence interval is for the mean of "+name(s.Y)+" at that x; the prediction interval is for one new row and is always wider. Outside the observed range of "+name(s.X)+" the line has no support in these data.")
+	return sec, nil
+}
+
+func limitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
+	if s.Findings == nil || len(s.Findings.Limits) == 0 {
+		return nil, nil
+	}
+	return &section{Key: "limits", Title: "What may not be concluded", List: s.Findings.Limits, Box: true}, nil
+}
+
+func expectationsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
+	if len(s.Expectations) == 0 {
+		return nil, nil
+	}
+	sec := &section{Key: "expectations", Title: "Declared expectations"}
+	t := table{Caption: "Expectations from the manifest", Head: []string{"Expectation", "Wanted", "Found", "Met", "Detail"},
+		Num: []bool{false, false, false, false, false}}
+	for _, e := range s.Expectations {
+		ok, cls := "yes", "ok"
+		if !e.OK {
+			ok, cls = "NO", "bad"
+		}
+		t.Rows = append(t.Rows, []string{e.Name, e.Want, e.Got, ok, e.Detail})
+		t.Classes = append(t.Classes, cls)
+	}
+	sec.Tables = append(sec.Tables, t)
+	return sec, nil
+}
+
+func notesSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
+	if strings.TrimSpace(s.Notes) == "" {
+		return nil, nil
+	}
+	html, err := notesHTML(s.Notes)
+	if err != nil {
+		return nil, fmt.Errorf("rendering the notes: %w", err)
+	}
+	return &section{Key: "notes", Title: "Notes", Notes: s.Notes, HTML: html}, nil
+}

@@ -1,0 +1,309 @@
+package render
+
+import (
+	"fmt"
+	"strings"
+
+	"bivar/analysis/report"
+	"bivar/render/chart"
+)
+
+// This file turns a Report into the page model both templates read: the
+// same words, tables and figures for HTML and Markdown, so the two formats
+// cannot drift apart. Nothing here computes a statistic; it selects,
+// orders and formats what the analysis put into the Report.
+
+type page struct {
+	Title      string
+	Caution    string
+	Generated  string
+	Tool       string
+	Level      string // confidence in percent, "95"
+	Provenance []kv
+	Datasets   table
+	Excluded   table
+	Summary    table
+	Studies    []*studyView
+	Thresholds string
+}
+
+type kv struct{ K, V string }
+
+// table is a caption, a header row and body rows; Num marks the columns
+// that hold numbers (right-aligned).
+type table struct {
+	Caption string
+	Head    []string
+	Num     []bool
+	Rows    [][]string
+	Classes []string // optional class per row ("bad", "ok"), HTML only
+}
+
+func (t table) Empty() bool { return len(t.Rows) == 0 }
+
+type figure struct {
+	Kind    string // scatter, residuals, order
+	Fig     *chart.Figure
+	File    string // path of the SVG beside report.md, slash-separated
+	SVG     string // the drawn SVG (trusted: chart escapes every label)
+	Alt     string
+	Caption string
+	Main    bool
+}
+
+// section is one titled part of a study; sections are produced by the
+// functions in studySections, in order, and each is skipped when nil.
+type section struct {
+	Key    string // CSS class and Markdown anchor hint
+	Title  string
+	Paras  []string
+	List   []string
+	Tables []table
+	After  []string // sentences after the tables
+	Box    bool     // drawn as a boxed aside (limits)
+	Notes  string   // study notes, Markdown source
+	HTML   string   // notes rendered by goldmark (raw HTML disabled)
+}
+
+type studyView struct {
+	Anchor   string
+	ID       string
+	Title    string
+	Pair     string
+	Error    string
+	Headline string
+	Verdict  []kv
+	Figures  []figure
+	Sections []*section
+}
+
+func name(v report.Variable) string {
+	if v.Label != "" {
+		return v.Label
+	}
+	return v.Column
+}
+
+func withUnit(v report.Variable) string { return chart.AxisTitle(v) }
+
+// slugs gives each study a distinct, file-name-safe anchor, in order.
+func slugs(studies []report.Study) []string {
+	seen := map[string]bool{}
+	out := make([]string, len(studies))
+	for i, s := range studies {
+		var b strings.Builder
+		for _, r := range strings.ToLower(s.ID) {
+			switch {
+			case r >= 'a' && r <= 'z', r >= '0' && r <= '9', r == '-', r == '_':
+				b.WriteRune(r)
+			default:
+				if !strings.HasSuffix(b.String(), "-") {
+					b.WriteByte('-')
+				}
+			}
+		}
+		slug := strings.Trim(b.String(), "-")
+		if len(slug) > 60 {
+			slug = slug[:60]
+		}
+		if slug == "" {
+			slug = "study"
+		}
+		base := slug
+		for k := 2; seen[slug]; k++ {
+			slug = fmt.Sprintf("%s-%d", base, k)
+		}
+		seen[slug] = true
+		out[i] = slug
+	}
+	return out
+}
+
+func buildPage(r *report.Report, cfg *config) (*page, error) {
+	p := &page{
+		Title:     r.Manifest.Title,
+		Caution:   r.Caution,
+		Generated: r.Generated,
+		Tool:      strings.TrimSpace(r.Tool.Name + " " + r.Tool.Version),
+		Level:     percent(r.Manifest.Alpha),
+	}
+	if p.Title == "" {
+		p.Title = "bivar report"
+	}
+	if p.Caution == "" {
+		p.Caution = report.Caution
+	}
+	m := r.Manifest
+	th := m.Thresholds
+	p.Provenance = []kv{
+		{"Written by", p.Tool},
+		{"Manifest", m.File},
+		{"Manifest SHA-256", m.SHA256},
+		{"Design", m.Design},
+		{"Significance level", fmt.Sprintf("alpha = %s; intervals at %s%%", short(m.Alpha), p.Level)},
+		{"Adjustment across studies", m.Adjust},
+		{"Random seed", fmt.Sprint(m.Seed)},
+	}
+	if r.Generated != "" {
+		p.Provenance = append(p.Provenance, kv{"Generated", r.Generated})
+	}
+	p.Thresholds = fmt.Sprintf("Strength from |r|: strong at %s or more, moderate at %s, weak at %s, below that none "+
+		"(cut points of common practice, not a standard). A row is flagged as an outlier when its externally studentized "+
+		"residual exceeds %s in size, as high-leverage when its leverage exceeds %s·p/n, as influential by Cook's distance (threshold %s).",
+		short(th.Strong), short(th.Moderate), short(th.Weak), short(th.OutlierZ), short(th.LeverageFactor), short(th.CooksD))
+
+	p.Datasets = table{Caption: "Data files read",
+		Head: []string{"Dataset", "File", "SHA-256", "Rows read", "Missing cells", "Non-numeric cells"},
+		Num:  []bool{false, false, false, true, false, false}}
+	for _, d := range r.Datasets {
+		p.Datasets.Rows = append(p.Datasets.Rows, []string{d.ID, d.File, d.SHA256, itoa(d.Rows), counts(d.Missing), counts(d.NonNumeric)})
+	}
+	p.Excluded = table{Caption: "Rows left out of each study, and why",
+		Head: []string{"Study", "Rows used", "Rows left out", "Why"},
+		Num:  []bool{false, true, true, false}}
+	for _, s := range r.Studies {
+		why := make([]string, 0, len(s.Excluded))
+		for _, e := range s.Excluded {
+			why = append(why, fmt.Sprintf("%d %s in %s", e.Rows, e.Reason, e.Column))
+		}
+		w := strings.Join(why, "; ")
+		if w == "" {
+			w = "none"
+		}
+		p.Excluded.Rows = append(p.Excluded.Rows, []string{s.ID, itoa(s.N), itoa(s.NMissing), w})
+	}
+
+	p.Summary = table{Caption: "All studies at a glance",
+		Head: []string{"Study", "n", "r (" + p.Level + "% interval)", "p adjusted (" + m.Adjust + ")", "Form", "Direction", "Strength", "Flagged rows", "Expectations"},
+		Num:  []bool{false, true, true, true, false, false, false, false, false}}
+	anchors := slugs(r.Studies)
+	for i := range r.Studies {
+		s := &r.Studies[i]
+		p.Summary.Rows = append(p.Summary.Rows, summaryRow(s))
+		cls := ""
+		if s.Error != nil || !expectationsMet(s) {
+			cls = "bad"
+		}
+		p.Summary.Classes = append(p.Summary.Classes, cls)
+		sv, err := buildStudy(s, anchors[i], i, p.Level, cfg, th)
+		if err != nil {
+			return nil, err
+		}
+		p.Studies = append(p.Studies, sv)
+	}
+	return p, nil
+}
+
+func counts(cc []report.ColumnCount) string {
+	if len(cc) == 0 {
+		return "none"
+	}
+	parts := make([]string, len(cc))
+	for i, c := range cc {
+		parts[i] = fmt.Sprintf("%s: %d", c.Column, c.Count)
+	}
+	return strings.Join(parts, "; ")
+}
+
+func expectationsMet(s *report.Study) bool {
+	for _, e := range s.Expectations {
+		if !e.OK {
+			return false
+		}
+	}
+	return true
+}
+
+func summaryRow(s *report.Study) []string {
+	if s.Error != nil {
+		return []string{s.ID, itoa(s.N), na, na, "failed", "", "", "", "study did not run"}
+	}
+	r, p := na, na
+	if s.Pearson != nil {
+		r = withCI(s.Pearson.R, s.Pearson.CILow, s.Pearson.CIHigh)
+		p = pval(s.Pearson.PAdjusted)
+	}
+	form, dir, str := na, na, na
+	if f := s.Findings; f != nil {
+		form, dir, str = formWord(f), f.Direction, f.Strength
+	}
+	flags := "none"
+	if s.Influence != nil && len(s.Influence.Points) > 0 {
+		flags = itoa(len(s.Influence.Points))
+		if s.Findings != nil && s.Findings.OutlierDriven {
+			flags += ", outlier-driven"
+		}
+	}
+	exp := "none declared"
+	if len(s.Expectations) > 0 {
+		ok := 0
+		for _, e := range s.Expectations {
+			if e.OK {
+				ok++
+			}
+		}
+		exp = fmt.Sprintf("%d of %d met", ok, len(s.Expectations))
+	}
+	return []string{s.ID, itoa(s.N), r, p, form, dir, str, flags, exp}
+}
+
+func formWord(f *report.Findings) string {
+	w := f.Form
+	if f.Bend != nil && *f.Bend != "" {
+		w += ", " + *f.Bend
+	}
+	return w
+}
+
+func buildStudy(s *report.Study, anchor string, index int, level string, cfg *config, th report.Thresholds) (*studyView, error) {
+	sv := &studyView{Anchor: anchor, ID: s.ID, Title: s.Title}
+	if sv.Title == "" {
+		sv.Title = s.ID
+	}
+	sv.Pair = fmt.Sprintf("%s against %s · dataset %s · study %s", withUnit(s.Y), withUnit(s.X), s.Dataset, s.ID)
+	if s.Error != nil {
+		sv.Error = *s.Error
+		return sv, nil
+	}
+	if f := s.Findings; f != nil {
+		sv.Headline = f.Headline
+		sv.Verdict = []kv{{"Form", formWord(f)}, {"Direction", f.Direction}, {"Strength", f.Strength}}
+		if f.CurveStrength != "" {
+			sv.Verdict = append(sv.Verdict, kv{"Curve strength", f.CurveStrength})
+		}
+		if f.OutlierDriven {
+			sv.Verdict = append(sv.Verdict, kv{"Influence", "outlier-driven"})
+		}
+	}
+	prefix := fmt.Sprintf("s%d-", index+1)
+	for _, fc := range []struct {
+		kind string
+		fig  *chart.Figure
+	}{
+		{"scatter", chart.Scatter(s, prefix+"scatter", level)},
+		{"residuals", chart.ResidualsFitted(s, prefix+"residuals")},
+		{"order", chart.ResidualsOrder(s, prefix+"order")},
+	} {
+		if fc.fig == nil {
+			continue
+		}
+		var b strings.Builder
+		if err := cfg.drawer.Draw(&b, fc.fig); err != nil {
+			return nil, fmt.Errorf("study %q: drawing the %s chart: %w", s.ID, fc.kind, err)
+		}
+		sv.Figures = append(sv.Figures, figure{
+			Kind: fc.kind, Fig: fc.fig, SVG: b.String(), Alt: fc.fig.Title, Caption: fc.fig.Caption,
+			File: cfg.figureDir + "/" + anchor + "-" + fc.kind + ".svg", Main: fc.kind == "scatter",
+		})
+	}
+	for _, fn := range studySections {
+		sec, err := fn(s, level, th)
+		if err != nil {
+			return nil, fmt.Errorf("study %q: %w", s.ID, err)
+		}
+		if sec != nil {
+			sv.Sections = append(sv.Sections, sec)
+		}
+	}
+	return sv, nil
+}

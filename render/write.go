@@ -1,0 +1,128 @@
+package render
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+
+	"bivar/analysis/report"
+)
+
+// File names WriteReport uses inside the report folder.
+const (
+	HTMLFile     = "report.html"
+	MarkdownFile = "report.md"
+	JSONFile     = "results.json"
+)
+
+// Formats lists the format names WriteReport accepts.
+func Formats() []string { return []string{"html", "markdown", "json"} }
+
+// WriteReport writes the report's files into dir: report.html for "html",
+// report.md and its figures for "markdown", results.json for "json".
+//
+// It is all or nothing: every file is rendered in memory first, then
+// written to a temporary name in the folder it belongs in, and only when
+// all are written and synced are they renamed into place. A failure at any
+// step removes the temporary files and leaves the previous report as it
+// was. (A crash during the final renames can leave a mix of old and new
+// files, each of them whole.)
+func WriteReport(dir string, r *report.Report, formats []string, opts ...Option) error {
+	if r == nil {
+		return fmt.Errorf("no report to write")
+	}
+	if len(formats) == 0 {
+		return fmt.Errorf("no output format chosen: want one or more of %s", strings.Join(Formats(), ", "))
+	}
+	var files []File
+	seen := map[string]bool{}
+	for _, f := range formats {
+		if seen[f] {
+			continue
+		}
+		seen[f] = true
+		switch f {
+		case "html":
+			b, err := htmlBytes(r, opts)
+			if err != nil {
+				return err
+			}
+			files = append(files, File{Name: HTMLFile, Data: b})
+		case "markdown":
+			b, p, err := markdownBytes(r, opts)
+			if err != nil {
+				return err
+			}
+			files = append(files, File{Name: MarkdownFile, Data: b})
+			files = append(files, figureFiles(p)...)
+		case "json":
+			var b bytes.Buffer
+			if err := report.Write(&b, r); err != nil {
+				return err
+			}
+			files = append(files, File{Name: JSONFile, Data: b.Bytes()})
+		default:
+			return fmt.Errorf("unknown output format %q: want one or more of %s", f, strings.Join(Formats(), ", "))
+		}
+	}
+	return writeAtomic(dir, files)
+}
+
+// writeAtomic writes files under dir by temporary file and rename.
+func writeAtomic(dir string, files []File) (err error) {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fmt.Errorf("creating the report folder: %w", err)
+	}
+	type pending struct{ tmp, final string }
+	var done []pending
+	defer func() {
+		if err != nil {
+			for _, p := range done {
+				os.Remove(p.tmp)
+			}
+		}
+	}()
+	names := make([]string, 0, len(files))
+	for _, f := range files {
+		if slices.Contains(names, f.Name) {
+			return fmt.Errorf("report file %s would be written twice", f.Name)
+		}
+		names = append(names, f.Name)
+		final := filepath.Join(dir, filepath.FromSlash(f.Name))
+		sub := filepath.Dir(final)
+		if err := os.MkdirAll(sub, 0o755); err != nil {
+			return fmt.Errorf("creating %s: %w", sub, err)
+		}
+		tmp, err := os.CreateTemp(sub, "."+filepath.Base(final)+".*.tmp")
+		if err != nil {
+			return fmt.Errorf("writing %s: %w", final, err)
+		}
+		done = append(done, pending{tmp.Name(), final})
+		_, werr := tmp.Write(f.Data)
+		if werr == nil {
+			werr = tmp.Sync()
+		}
+		cerr := tmp.Close()
+		if werr = errors.Join(werr, cerr); werr != nil {
+			return fmt.Errorf("writing %s: %w", final, werr)
+		}
+		if err := os.Chmod(tmp.Name(), 0o644); err != nil {
+			return fmt.Errorf("writing %s: %w", final, err)
+		}
+	}
+	for i, p := range done {
+		if err := os.Rename(p.tmp, p.final); err != nil {
+			// Files renamed so far are whole; remove the temporaries left.
+			for _, q := range done[i:] {
+				os.Remove(q.tmp)
+			}
+			done = nil
+			return fmt.Errorf("putting %s in place: %w", p.final, err)
+		}
+	}
+	return nil
+}

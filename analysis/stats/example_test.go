@@ -30,9 +30,9 @@ func ExamplePearson() {
 }
 
 func ExampleKendallTauB() {
-	// Var S = (5·4·15 − 2·(2·1·9))/18 = 264/18 for the two tied pairs in y,
-	// z = 6/√(264/18) = 1.567. Pairs: 7 concordant, 1 discordant, 2 tied in y, so
-	// τ-b = (7 − 1)/√(10·8).
+	// Of the 10 pairs, 7 are concordant, 1 discordant and 2 tied in y, so
+	// τ-b = (7 − 1)/√(10·8); with two tie groups of 2 in y,
+	// Var S = (5·4·15 − 2·(2·1·9))/18 = 264/18 and z = 6/√(264/18) = 1.567.
 	tau, p := stats.KendallTauB([]float64{1, 2, 3, 4, 5}, []float64{2, 4, 5, 4, 5})
 	rho, _ := stats.Spearman([]float64{1, 2, 3, 4, 5}, []float64{2, 4, 5, 4, 5})
 	fmt.Printf("tau-b = %.4f (p = %.3f), rho = %.4f\n", tau, p, rho)

@@ -26,8 +26,21 @@ func runCheck(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar check: want one manifest, got %d arguments\nusage: %s\n", fs.NArg(), lookup("check").Usage)
 		return exitUsage
 	}
-	rep, _, code := compute(fs.Arg(0), stderr)
+	// compute tells the user on stderr why it failed; keep a copy for the
+	// CI files, so a failed run replaces them instead of leaving stale ones.
+	var msg bytes.Buffer
+	rep, _, code := compute(fs.Arg(0), io.MultiWriter(stderr, &msg))
 	if rep == nil {
+		if *junit != "" {
+			if err := writeWith(*junit, func(w io.Writer) error { return gate.JUnitFailedRun(w, fs.Arg(0), msg.String()) }); err != nil {
+				fmt.Fprintf(stderr, "bivar check: --junit: %v\n", err)
+			}
+		}
+		if *summary != "" {
+			if err := writeWith(*summary, func(w io.Writer) error { return gate.SummaryFailedRun(w, fs.Arg(0), msg.String()) }); err != nil {
+				fmt.Fprintf(stderr, "bivar check: --summary: %v\n", err)
+			}
+		}
 		return code
 	}
 	if *junit != "" {

@@ -158,8 +158,14 @@ min_n     = 12
 	})
 	t.Run("bad input", func(t *testing.T) {
 		m := checkManifest(t, "min_abs_rr = 0.5\n")
-		if code, _, stderr := call(t, "check", m); code != exitFailed || !strings.Contains(stderr, "min_abs_rr") {
+		junit := filepath.Join(filepath.Dir(m), "junit.xml")
+		writeFile(t, junit, "stale")
+		if code, _, stderr := call(t, "check", "--junit", junit, m); code != exitFailed || !strings.Contains(stderr, "min_abs_rr") {
 			t.Errorf("unknown key: exit %d, stderr %q; want 1 naming the key", code, stderr)
+		}
+		// The stale JUnit file is replaced by one that reports the error.
+		if doc := parseJUnit(t, junit); doc.Tests != 1 || doc.Failures != 0 {
+			t.Errorf("JUnit after a failed run: %+v", doc)
 		}
 		if code, _, _ := call(t, "check", filepath.Join(t.TempDir(), "none.toml")); code != exitFailed {
 			t.Errorf("missing manifest: exit %d, want 1", code)

@@ -145,6 +145,36 @@ func JUnit(w io.Writer, r *report.Report) error {
 	return err
 }
 
+// JUnitFailedRun writes a JUnit document for a check that could not run
+// at all (a manifest or data file that could not be read): one test case
+// "run" with an <error> holding msg. Written in place of the usual file,
+// it keeps a CI server from reading a stale, passing one.
+func JUnitFailedRun(w io.Writer, manifest, msg string) error {
+	root := junitSuites{Name: "bivar: " + manifest, Tests: 1, Errors: 1, Suites: []junitSuite{{
+		Name: manifest, Tests: 1, Errors: 1,
+		Cases: []junitCase{{Name: "run", Classname: "bivar", Error: &junitProblem{
+			Message: "bivar check could not run", Type: "bad-input", Text: msg}}},
+	}}}
+	var buf bytes.Buffer
+	buf.WriteString(xml.Header)
+	enc := xml.NewEncoder(&buf)
+	enc.Indent("", "  ")
+	if err := enc.Encode(root); err != nil {
+		return fmt.Errorf("gate: encoding JUnit XML: %w", err)
+	}
+	buf.WriteByte('\n')
+	_, err := w.Write(buf.Bytes())
+	return err
+}
+
+// SummaryFailedRun writes the Markdown summary of a check that could not
+// run at all.
+func SummaryFailedRun(w io.Writer, manifest, msg string) error {
+	_, err := fmt.Fprintf(w, "## bivar check: %s\n\n**Could not run**: the manifest or its data could not be read.\n\n```\n%s\n```\n",
+		md(manifest), strings.ReplaceAll(strings.TrimSpace(msg), "```", "` ` `"))
+	return err
+}
+
 func suiteName(r *report.Report) string {
 	if r.Manifest.Title != "" {
 		return "bivar: " + r.Manifest.Title

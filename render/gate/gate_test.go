@@ -145,3 +145,24 @@ func TestSummary(t *testing.T) {
 		}
 	}
 }
+
+func TestFailedRun(t *testing.T) {
+	var buf bytes.Buffer
+	if err := JUnitFailedRun(&buf, "m.toml", "bivar: m.toml:3:1: unknown key \"tilte\" <&>"); err != nil {
+		t.Fatal(err)
+	}
+	var got parsedSuites
+	if err := xml.Unmarshal(buf.Bytes(), &got); err != nil {
+		t.Fatalf("does not parse: %v\n%s", err, buf.String())
+	}
+	if got.Tests != 1 || got.Errors != 1 || got.Suites[0].Cases[0].Error == nil {
+		t.Errorf("failed run: %+v", got)
+	}
+	buf.Reset()
+	if err := SummaryFailedRun(&buf, "m.toml", "bad ``` thing"); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Count(buf.String(), "```") != 2 || !strings.Contains(buf.String(), "Could not run") {
+		t.Errorf("summary:\n%s", buf.String())
+	}
+}

@@ -6,6 +6,7 @@ package stats
 
 import (
 	"math"
+	"slices"
 )
 
 // Correlation is Pearson's product-moment correlation with its inference.
@@ -109,15 +110,30 @@ func FisherCI(r float64, n int, conf float64) (lo, hi float64) {
 // O(n) radix sort (sortkey.go). x must hold no NaN and fewer than 2³¹
 // values.
 func Ranks(x []float64) []float64 {
+	r := make([]float64, len(x))
+	ranksInto(r, x, newRankScratch(len(x)))
+	return r
+}
+
+// rankScratch holds the buffers of ranksInto, reused between calls.
+type rankScratch struct {
+	keys, kbuf []uint64
+	idx, ibuf  []int32
+}
+
+func newRankScratch(n int) *rankScratch {
+	return &rankScratch{make([]uint64, n), make([]uint64, n), make([]int32, n), make([]int32, n)}
+}
+
+// ranksInto writes the average ranks of x into r (len(r) = len(x)).
+func ranksInto(r, x []float64, s *rankScratch) {
 	n := len(x)
-	keys := make([]uint64, n)
-	idx := make([]int32, n)
+	keys, idx := s.keys[:n], s.idx[:n]
 	for i, v := range x {
 		keys[i] = floatKey(v)
 		idx[i] = int32(i)
 	}
-	radixSort(keys, idx, make([]uint64, n), make([]int32, n))
-	r := make([]float64, n)
+	radixSort(keys, idx, s.kbuf, s.ibuf)
 	for lo := 0; lo < n; {
 		hi := lo + 1
 		for hi < n && keys[hi] == keys[lo] {
@@ -130,7 +146,6 @@ func Ranks(x []float64) []float64 {
 		}
 		lo = hi
 	}
-	return r
 }
 
 // Spearman returns Spearman's rank correlation ρ, Pearson's r of the
@@ -148,7 +163,11 @@ func Spearman(x, y []float64) (rho, p float64) {
 	if len(x) < 2 {
 		return math.NaN(), math.NaN()
 	}
-	m := CentredMoments(Ranks(x), Ranks(y))
+	sc := newRankScratch(len(x))
+	rx, ry := make([]float64, len(x)), make([]float64, len(x))
+	ranksInto(rx, x, sc)
+	ranksInto(ry, y, sc)
+	m := CentredMoments(rx, ry)
 	rho = corrFromSums(m.Sxx, m.Syy, m.Sxy)
 	_, p = corrT(rho, len(x))
 	return rho, p
@@ -163,8 +182,9 @@ func Spearman(x, y []float64) (rho, p float64) {
 // 1966, "A computer method for calculating Kendall's tau with ungrouped
 // data", JASA 61(314):436–439): sort the pairs by (x, y), then merge-sort y
 // counting the exchanges, which are the discordant pairs; O(n log n) time,
-// O(n) memory. The initial sort is a radix sort (sortkey.go), and the
-// merge sort starts from insertion-sorted runs of 16. (gonum's stat.Kendall
+// O(n) memory. The initial sort is a radix sort by x (sortkey.go) with each
+// run of tied x then sorted by y, and the merge sort starts from
+// insertion-sorted runs of 16. (gonum's stat.Kendall
 // is τ-a, O(n²), and counts ties as concordant, so it is not used.)
 //
 // p is from the normal approximation to S = C − D with the variance
@@ -188,24 +208,30 @@ func KendallTauB(x, y []float64) (tau, p float64) {
 	if n < 2 {
 		return math.NaN(), math.NaN()
 	}
-	// Order the rows by (x, y): a stable radix sort by y, then by x.
-	ky := make([]uint64, n)
+	// Order the rows by (x, y): a radix sort by x, then each run of tied x
+	// sorted by y. Only the y keys in that order are needed afterwards.
 	kx := make([]uint64, n)
+	ys := make([]uint64, n)
 	kbuf := make([]uint64, n)
 	idx := make([]int32, n)
-	ibuf := make([]int32, n)
-	for i, v := range y {
-		ky[i] = floatKey(v)
+	for i, v := range x {
+		kx[i] = floatKey(v)
 		idx[i] = int32(i)
 	}
-	radixSort(ky, idx, kbuf, ibuf)
-	for i, j := range idx {
-		kx[i] = floatKey(x[j])
-	}
-	radixSort(kx, idx, kbuf, ibuf)
-	ys := ky // y keys in (x, y) order; ky's sorted contents are not needed
+	radixSort(kx, idx, kbuf, make([]int32, n))
 	for i, j := range idx {
 		ys[i] = floatKey(y[j])
+	}
+	idx = nil
+	for lo := 0; lo < n; {
+		hi := lo + 1
+		for hi < n && kx[hi] == kx[lo] {
+			hi++
+		}
+		if hi-lo > 1 {
+			slices.Sort(ys[lo:hi])
+		}
+		lo = hi
 	}
 	var tx, txy tieSums // ties in x; joint ties in (x, y)
 	for lo := 0; lo < n; {

@@ -4,11 +4,7 @@ package stats
 // studies of a manifest: Holm's step-down family-wise error control and the
 // Benjamini–Hochberg step-up false discovery rate.
 
-import (
-	"cmp"
-	"math"
-	"slices"
-)
+import "math"
 
 // Holm returns Holm's (1979) step-down adjusted p-values, in the order of p.
 // With the m non-NaN p-values sorted ascending, p₍₁₎ ≤ … ≤ p₍ₘ₎,
@@ -58,12 +54,20 @@ func BenjaminiHochberg(p []float64) []float64 {
 // result is deterministic).
 func adjustSetup(p []float64) (out []float64, idx []int) {
 	out = make([]float64, len(p))
+	var keep []int
 	for i, v := range p {
 		out[i] = math.NaN()
 		if !math.IsNaN(v) {
-			idx = append(idx, i)
+			keep = append(keep, i)
 		}
 	}
-	slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(p[a], p[b]) })
+	kp := make([]float64, len(keep))
+	for k, i := range keep {
+		kp[k] = p[i]
+	}
+	idx = stableArgsort(kp)
+	for k, j := range idx {
+		idx[k] = keep[j]
+	}
 	return out, idx
 }

@@ -5,11 +5,9 @@ package stats
 // cycles) that Pearson's r misses, with its permutation test.
 
 import (
-	"cmp"
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"slices"
 )
 
 // DefaultDcorMaxN is the number of rows the permutation test of
@@ -211,11 +209,7 @@ func standardise(v []float64) ([]float64, bool) {
 // total.
 func rowSums(v []float64) (order []int, s []float64, total float64) {
 	n := len(v)
-	order = make([]int, n)
-	for i := range order {
-		order[i] = i
-	}
-	slices.SortFunc(order, func(a, b int) int { return cmp.Compare(v[a], v[b]) })
+	order = stableArgsort(v)
 	var all float64
 	for _, e := range v {
 		all += e

@@ -241,7 +241,7 @@ func TestDistanceCorrTest(t *testing.T) {
 }
 
 func benchmarkDcor(b *testing.B, n int) {
-	x, y := extraWavy(3, n)
+	x, y := extraBenchXY(n)
 	b.ReportAllocs()
 	b.ResetTimer()
 	for b.Loop() {
@@ -254,7 +254,7 @@ func BenchmarkDistanceCorrelation1e5(b *testing.B) { benchmarkDcor(b, 1e5) }
 func BenchmarkDistanceCorrelation1e6(b *testing.B) { benchmarkDcor(b, 1e6) }
 
 func benchmarkDcorTest(b *testing.B, n int) {
-	x, y := extraWavy(3, n)
+	x, y := extraBenchXY(n)
 	b.ReportAllocs()
 	b.ResetTimer()
 	for b.Loop() {

@@ -4,10 +4,7 @@ package stats
 // lack-of-fit F test where x repeats, Breusch–Pagan for spread that changes
 // with x, and Durbin–Watson and the residual trend in run order.
 
-import (
-	"math"
-	"slices"
-)
+import "math"
 
 // LackOfFit returns the pure-error lack-of-fit F test of the straight line
 // (Draper & Smith 1998, Applied Regression Analysis, 3rd ed., §2.1;
@@ -44,19 +41,7 @@ func LackOfFit(x, y []float64) (f float64, df1, df2 int, p float64, ok bool) {
 	}
 	b1 := line.Slope.Estimate
 	b0 := line.Intercept.Estimate
-	idx := make([]int, n)
-	for i := range idx {
-		idx[i] = i
-	}
-	slices.SortStableFunc(idx, func(a, b int) int {
-		switch {
-		case x[a] < x[b]:
-			return -1
-		case x[a] > x[b]:
-			return 1
-		}
-		return 0
-	})
+	idx := stableArgsort(x)
 	var ssPE, ssLOF float64
 	m := 0
 	for lo := 0; lo < n; {

@@ -131,3 +131,15 @@ func extraLurk(seed uint64, n int) (x, y, z []float64) {
 	}
 	return x, y, z
 }
+
+// extraBenchXY is the benchmark data: x uniform on [0, 20) (no ties),
+// y = 3 + 2·sin(x/3) + 0.3·x + uniform noise on [−0.5, 0.5).
+func extraBenchXY(n int) (x, y []float64) {
+	src := rand.NewPCG(3, 0)
+	x, y = make([]float64, n), make([]float64, n)
+	for i := range x {
+		x[i] = 20 * extraUniform(src)
+		y[i] = 3 + 2*math.Sin(x[i]/3) + 0.3*x[i] + extraUniform(src) - 0.5
+	}
+	return x, y
+}

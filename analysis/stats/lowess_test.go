@@ -259,7 +259,7 @@ func TestLowessCurve(t *testing.T) {
 }
 
 func benchmarkLowess(b *testing.B, n int) {
-	x, y := extraWavy(3, n)
+	x, y := extraBenchXY(n)
 	b.ReportAllocs()
 	b.ResetTimer()
 	for b.Loop() {

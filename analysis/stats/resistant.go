@@ -98,6 +98,25 @@ func TheilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 	return slope, intercept, method
 }
 
+// stableArgsort returns the indices of v in ascending order of value, ties
+// in index order, by the package's O(n) radix sort (radixSort on floatKey;
+// −0 and +0 count as equal). v must hold no NaN.
+func stableArgsort(v []float64) []int {
+	n := len(v)
+	keys := make([]uint64, n)
+	idx := make([]int32, n)
+	for i, e := range v {
+		keys[i] = floatKey(e)
+		idx[i] = int32(i)
+	}
+	radixSort(keys, idx, make([]uint64, n), make([]int32, n))
+	out := make([]int, n)
+	for i, k := range idx {
+		out[i] = int(k)
+	}
+	return out
+}
+
 // medianInPlace returns the median of a (mean of the two middle values for
 // an even length), reordering a. It returns NaN for an empty a. a must hold
 // no NaN.

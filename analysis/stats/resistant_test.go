@@ -152,7 +152,7 @@ func TestMedianInPlace(t *testing.T) {
 }
 
 func benchmarkTheilSen(b *testing.B, n int) {
-	x, y := extraWavy(3, n)
+	x, y := extraBenchXY(n)
 	b.ReportAllocs()
 	b.ResetTimer()
 	for b.Loop() {

@@ -167,6 +167,19 @@ func TestKendallMatchesNaive(t *testing.T) {
 			x[i] = float64(rng.IntN(levels))
 			y[i] = float64(rng.IntN(levels)) + 0.3*x[i]*float64(trial%3)
 		}
+		if trial%50 == 0 {
+			// Larger, signed, mostly continuous data with ±0, so that the
+			// radix order of negative keys and many merge levels are used.
+			n = 1000 + rng.IntN(1000)
+			x, y = make([]float64, n), make([]float64, n)
+			for i := range x {
+				x[i] = math.Round(rng.NormFloat64()*1e3) / 10
+				y[i] = -0.2*x[i] + rng.NormFloat64()*20
+				if i%97 == 0 {
+					x[i], y[i] = math.Copysign(0, -1), 0
+				}
+			}
+		}
 		tau, p := KendallTauB(x, y)
 		wt, wp := naiveTauB(x, y)
 		if !coreClose(tau, wt, 1e-12) || !coreClose(p, wp, 1e-9) {

@@ -6,3 +6,14 @@
 // are NaN, never a panic. Every estimator's doc comment names its algorithm
 // and source.
 package stats
+
+// Core statistics: describe.go (Describe, Quartiles by Hyndman & Fan type
+// 7, CentredMoments), correlation.go (Pearson with the Fisher-z interval,
+// Ranks, Spearman, Kendall's τ-b by Knight's algorithm), lsq.go (least
+// squares by Householder QR of the centred design: LeastSquares,
+// Polynomial, Line, intervals), influence.go (leverage, studentized
+// residuals, Cook's distance, DFFITS, leave-one-out fits in O(n)), and
+// sortkey.go (the O(n) radix sort behind ranks and quartiles). The fits
+// return an error, not NaN, for data that cannot be fitted (too few rows, a
+// constant or collinear column, a non-finite value), so that the caller
+// can say why a fit is missing.

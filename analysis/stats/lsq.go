@@ -69,7 +69,8 @@ const rankTol = 1e-12
 // intercept's from s²(1/n + x̄ᵀR⁻¹R⁻ᵀx̄); leverages from the rows of Xc·R⁻¹.
 // Inference assumes independent normal errors with constant variance.
 //
-// conf is the confidence level of the coefficient intervals (e.g. 0.95).
+// conf is the confidence level of the coefficient intervals (e.g. 0.95);
+// outside (0, 1) the intervals are NaN.
 // All columns must have len(y) rows (it panics otherwise). It returns an
 // error, and no fit, when there are fewer than p+1 rows, a value is NaN or
 // infinite, a column is constant, or a column is a linear combination of

@@ -5,8 +5,7 @@
 // error and panics); undefined results (a constant column, too few points)
 // are NaN, never a panic. Every estimator's doc comment names its algorithm
 // and source.
-package stats
-
+//
 // Core statistics: describe.go (Describe, Quartiles by Hyndman & Fan type
 // 7, CentredMoments), correlation.go (Pearson with the Fisher-z interval,
 // Ranks, Spearman, Kendall's τ-b by Knight's algorithm), lsq.go (least
@@ -17,3 +16,4 @@ package stats
 // return an error, not NaN, for data that cannot be fitted (too few rows, a
 // constant or collinear column, a non-finite value), so that the caller
 // can say why a fit is missing.
+package stats

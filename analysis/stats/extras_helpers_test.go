@@ -143,3 +143,37 @@ func extraBenchXY(n int) (x, y []float64) {
 	}
 	return x, y
 }
+
+// TestExtrasOddInput runs every additional statistic on empty, tiny,
+// constant and non-finite inputs: none may panic (bad data never panic;
+// only a length mismatch does).
+func TestExtrasOddInput(t *testing.T) {
+	t.Parallel()
+	nan, inf := math.NaN(), math.Inf(1)
+	inputs := [][]float64{
+		{}, {1}, {1, 2}, {3, 3, 3}, {1, nan, 3, 4}, {1, inf, 3, 4, 5}, {-inf, 0, 0, 1},
+		{0, -0.0, 0, 1e308, -1e308}, {1e-300, 2e-300, 3e-300, 4e-300, 5e-300},
+	}
+	for _, a := range inputs {
+		for _, b := range inputs {
+			if len(a) != len(b) {
+				continue
+			}
+			Lowess(a, b, 2.0/3, 3, 0)
+			Lowess(a, b, math.NaN(), -1, -1)
+			LowessCurve(a, b, 0.1, 1, 1)
+			TheilSen(a, b, 0, nil)
+			TheilSen(a, b, 2, rand.NewPCG(1, 1))
+			DistanceCorrelation(a, b)
+			DistanceCorrTest(a, b, 5, 3, nil)
+			LackOfFit(a, b)
+			BreuschPagan(a, b)
+			DurbinWatson(a)
+			OrderTrend(a, b)
+			PartialCorrelation(a, b, a, 0.95)
+			PartialCorrelation(a, b, b, 2)
+			Holm(a)
+			BenjaminiHochberg(a)
+		}
+	}
+}

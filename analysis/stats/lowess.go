@@ -93,7 +93,9 @@ func LowessCurve(x, y []float64, frac float64, iter int, delta float64) (xs, ys 
 		return nil, nil
 	}
 	f, anchors := lowessSorted(sx, sy, frac, iter, delta)
-	if last := len(sx) - 1; anchors[len(anchors)-1] != last {
+	// The last point is always fitted or tied to the last anchor; the check
+	// keeps x strictly increasing either way.
+	if last := len(sx) - 1; sx[anchors[len(anchors)-1]] != sx[last] {
 		anchors = append(anchors, last)
 	}
 	if m := len(anchors); m > LowessCurveMax {

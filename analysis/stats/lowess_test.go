@@ -230,8 +230,23 @@ func TestLowessCurve(t *testing.T) {
 	if xs[0] != slices.Min(x) || xs[len(xs)-1] != slices.Max(x) {
 		t.Errorf("LowessCurve spans [%v, %v], want [%v, %v]", xs[0], xs[len(xs)-1], slices.Min(x), slices.Max(x))
 	}
-	if !slices.IsSorted(xs) {
-		t.Error("LowessCurve: x not sorted")
+	strictly := func(v []float64) bool {
+		for k := 1; k < len(v); k++ {
+			if !(v[k] > v[k-1]) {
+				return false
+			}
+		}
+		return true
+	}
+	if !strictly(xs) {
+		t.Error("LowessCurve: x not strictly increasing")
+	}
+	// Ties in x, the last x repeated: one curve point per distinct x.
+	xw, yw := extraWavy(20261201, 60)
+	cx, cy := LowessCurve(xw, yw, 2.0/3, 3, 0)
+	distinct := slices.Compact(slices.Sorted(slices.Values(xw)))
+	if !slices.Equal(cx, distinct) || len(cy) != len(cx) {
+		t.Errorf("LowessCurve(wavy) x = %v, want the distinct x %v", cx, distinct)
 	}
 	// Each curve point is the fitted value of the points at that x.
 	for k := range xs {

@@ -5,6 +5,7 @@ package findings
 // them in words.
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -38,21 +39,26 @@ type facts struct {
 	conf  string // "95%"
 	dsg   string // the design, as given
 
-	r, p    float64 // Pearson r and its adjusted p
-	adj     float64 // p_adjusted / p: the factor the adjustment applied
-	dir     string // the direction verdict
-	rdir    string // the direction of r alone: sign of r when its adjusted p is below alpha
-	linSig  bool
-	quad    *report.Fit
-	b2      float64
-	gain    float64
-	curved  bool
-	nonlin  bool
-	dcor    *report.DistanceCorr
-	lof     bool
-	xLabel  string
-	yLabel  string
-	without string // direction without the suspect rows; "undefined" when r cannot be computed
+	r, p   float64 // Pearson r and its adjusted p
+	adj    float64 // p_adjusted / p: the factor the adjustment applied
+	dir    string  // the direction verdict
+	rdir   string  // the direction of r alone: sign of r when its adjusted p is below alpha
+	linSig bool
+	quad   *report.Fit
+	b2     float64
+	gain   float64
+	curved bool
+	nonlin bool
+	dcor   *report.DistanceCorr
+	lof    bool
+	// Residuals in order of x: their Durbin–Watson statistic and the bound
+	// below which they hang together; NaN when there is no plot data.
+	dwx, dwxBound      float64
+	dcorRoute, dwRoute bool // which test found the nonlinear pattern
+	xLabel             string
+	yLabel             string
+	without            string // direction without the suspect rows; "undefined" when r cannot be computed
+	weaker             bool   // same direction without the flagged rows, but a lower strength grade
 }
 
 // Assess returns the verdicts for a study whose statistics are filled, or
@@ -72,17 +78,26 @@ type facts struct {
 //     over when the fitted curve's vertex lies inside the observed x range,
 //     the curve changes by at least its residual SE on both sides of the
 //     vertex, and the LOWESS curve of the plot data (when present) confirms
-//     the turn (see smoothTurns). Otherwise nonlinear when the distance correlation's p is
-//     below alpha, dcor ≥ NonlinearDcor, dcor > |r| and |r| < Moderate.
-//     Otherwise linear when the direction is not none; otherwise none.
+//     the turn (see smoothTurns). Otherwise nonlinear when either (a)
+//     the distance correlation's p is below alpha, dcor ≥ NonlinearDcor
+//     and dcor > |r| while r's adjusted p is not below alpha (r misses the
+//     dependence), or (b) |r| is below Moderate and the line's residuals,
+//     taken in order of x, hang together: their Durbin–Watson statistic is
+//     below the smaller of FormDW and its one-sided alpha bound (see
+//     xOrderDW). Distance correlation has little power for patterns that
+//     go up and down several times; (b) catches those. Otherwise linear
+//     when r's direction is not none; otherwise none.
 //   - strength: from |r| and the Strong, Moderate and Weak cut points, and
-//     none when r's adjusted p is not below alpha; CurveStrength from √R² of the
-//     quadratic by the same cut points, where curved.
-//   - outlier_driven: the direction, recomputed without the flagged rows
+//     none when r's adjusted p is not below alpha; CurveStrength from √R²
+//     of the quadratic by the same cut points, where curved.
+//   - outlier_driven: r's direction, recomputed without the flagged rows
 //     (Sensitivity.RWithoutFlagged and its p, with the same adjustment
-//     factor applied), differs from the direction with them — or r cannot
-//     be computed without them, or leaving out a single row turns the
-//     sign of r.
+//     factor applied), differs from its direction with them, or its
+//     strength grade is lower without them (the flagged rows make the
+//     relationship look stronger than the rest support) — or r cannot be
+//     computed without them, or leaving out a single row turns the sign
+//     of r. Flagged rows that hide a stronger relationship do not make it
+//     outlier-driven; the statements give r without them.
 //   - reversal: at least two groups of ReversalMinGroup rows or more; every
 //     group whose slope interval excludes 0 has the sign opposite to the
 //     pooled direction, there is at least one such group, and most groups
@@ -139,6 +154,11 @@ func dirOf(r float64) string {
 		return "negative"
 	}
 	return "none"
+}
+
+// grade orders the strength words.
+func grade(s string) int {
+	return slices.Index([]string{"none", "weak", "moderate", "strong"}, s)
 }
 
 // strengthOf grades |r| by the cut points.
@@ -209,9 +229,11 @@ func (f *facts) decide(out *report.Findings) {
 	}
 	if !f.curved && f.dcor != nil {
 		d := float64(f.dcor.DCor)
-		f.nonlin = float64(f.dcor.P) < f.alpha && d >= f.th.NonlinearDcor && d > math.Abs(f.r) &&
-			!(math.Abs(f.r) >= f.th.Moderate)
+		f.dcorRoute = float64(f.dcor.P) < f.alpha && d >= f.th.NonlinearDcor && d > math.Abs(f.r) && !f.linSig
 	}
+	f.dwx, f.dwxBound = f.xOrderDW()
+	f.dwRoute = !f.curved && f.dwx < f.dwxBound && !(math.Abs(f.r) >= f.th.Moderate)
+	f.nonlin = !f.curved && (f.dcorRoute || f.dwRoute)
 	switch {
 	case f.curved:
 		out.Form = "curved"
@@ -254,8 +276,10 @@ func (f *facts) decide(out *report.Findings) {
 		out.CurveStrength = f.strengthOf(math.Sqrt(math.Max(0, float64(f.quad.R2))))
 	}
 
-	// Influence: does r's direction survive without the flagged rows?
+	// Influence: do r's direction and strength survive without the
+	// flagged rows?
 	f.without = f.rdir
+	f.weaker = false
 	if se := s.Sensitivity; se != nil {
 		if se.NFlagged > 0 {
 			rw, pw := float64(se.RWithoutFlagged), float64(se.PWithoutFlagged)
@@ -264,11 +288,12 @@ func (f *facts) decide(out *report.Findings) {
 				f.without = "undefined"
 			case pw*f.adj < f.alpha:
 				f.without = dirOf(rw)
+				f.weaker = f.without == f.rdir && grade(f.strengthOf(math.Abs(rw))) < grade(out.Strength)
 			default:
 				f.without = "none"
 			}
 		}
-		out.OutlierDriven = f.without != f.rdir
+		out.OutlierDriven = f.without != f.rdir || f.weaker
 		if f.rdir != "none" && se.LooRMin.Valid() && se.LooRMax.Valid() {
 			if sign(float64(se.LooRMin)) != sign(f.r) || sign(float64(se.LooRMax)) != sign(f.r) {
 				out.OutlierDriven = true
@@ -308,6 +333,35 @@ func (f *facts) decide(out *report.Findings) {
 			out.SpreadChanges = true
 		}
 	}
+}
+
+// xOrderDW returns the Durbin–Watson statistic of the line's residuals
+// taken in order of x (ties in data order), from the plot data, and the
+// bound below which they count as hanging together: the smaller of
+// FormDW and the one-sided alpha point of DW's large-sample null
+// distribution, about normal with mean 2 and variance 4/n (Durbin &
+// Watson 1950, Biometrika 37:409–428; the approximation is ours to state).
+// Residuals of a correct straight line, in any fixed order, are close to
+// independent; in order of x they swing together when the line misses a
+// pattern that goes up and down. Both are NaN without plot data.
+func (f *facts) xOrderDW() (dw, bound float64) {
+	pl := f.s.Plot
+	if pl == nil || len(pl.X) < 8 || len(pl.Residuals) != len(pl.X) || !(f.th.FormDW > 0) {
+		return math.NaN(), math.NaN()
+	}
+	n := len(pl.X)
+	idx := make([]int, n)
+	for i := range idx {
+		idx[i] = i
+	}
+	slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(pl.X[a], pl.X[b]) })
+	e := make([]float64, n)
+	for k, i := range idx {
+		e[k] = pl.Residuals[i]
+	}
+	dw = stats.DurbinWatson(e)
+	bound = min(f.th.FormDW, 2-2*stats.NormalQuantile(1-f.alpha)/math.Sqrt(float64(n)))
+	return dw, bound
 }
 
 // smoothTurns reports whether the LOWESS curve in the plot data confirms
@@ -410,8 +464,14 @@ func (f *facts) write(out *report.Findings) {
 		h += fmt.Sprintf(": %s as a curve (R² = %s), %s as a straight line (%s).", out.CurveStrength, num(float64(f.quad.R2)),
 			strengthWord(out.Strength), rText)
 	case "nonlinear":
-		h = fmt.Sprintf("%s depends on %s in a way a straight line misses (distance correlation %s, %s; %s).",
-			capital(y), x, num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)), rText)
+		why := ""
+		if f.dcorRoute {
+			why = fmt.Sprintf("distance correlation %s, %s; ", num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)))
+		}
+		if f.dwRoute {
+			why += fmt.Sprintf("residuals in order of %s: Durbin–Watson %s; ", x, num(f.dwx))
+		}
+		h = fmt.Sprintf("%s depends on %s in a way a straight line misses (%s%s).", capital(y), x, why, rText)
 	default:
 		h = fmt.Sprintf("No relationship between %s and %s shows in these data (%s, %s).", x, y, rText, pval(f.p))
 	}
@@ -500,9 +560,21 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 				span(float64(s.Describe.X.Min), float64(s.Describe.X.Max), s.X.Unit), x, withUnit(v, s.X.Unit))
 		}
 	case "nonlinear":
-		add("The distance correlation, which detects dependence of any shape, is %s (%s, %d permutations), larger than |r| = %s: the straight line and the quadratic miss the pattern, so look at the scatterplot.",
-			num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)), f.dcor.Permutations, corr(math.Abs(f.r)))
+		if f.dcor != nil {
+			add("The distance correlation, which detects dependence of any shape, is %s (%s, %d permutations), against |r| = %s.",
+				num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)), f.dcor.Permutations, corr(math.Abs(f.r)))
+		}
+		if f.dwRoute {
+			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): %s goes up and down with %s in a way neither the straight line nor the quadratic follows. Look at the scatterplot.",
+				x, num(f.dwx), num(f.dwxBound), f.yLabel, x)
+		} else {
+			add("Neither the straight line nor the quadratic follows this pattern. Look at the scatterplot.")
+		}
 	case "linear":
+		if f.dwx < f.dwxBound {
+			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): the line misses some pattern; look at the residual plot.",
+				x, num(f.dwx), num(f.dwxBound))
+		}
 		if q != nil && !math.IsNaN(f.quadP()) {
 			add("A quadratic term adds little (x² term %s, R² %s against %s for the line): the straight line describes the data.",
 				pval(f.quadP()), num(float64(q.R2)), num(float64(s.Pearson.R2)))
@@ -571,6 +643,10 @@ func (f *facts) drivenHeadline() string {
 	case f.rdir == "none" && f.without != "none":
 		return fmt.Sprintf("The flagged %s (%s) hide a relationship: without them r = %s.",
 			plural(len(rows), "row", "rows"), listRows(rows), corr(float64(se.RWithoutFlagged)))
+	case len(rows) > 0 && f.weaker:
+		return fmt.Sprintf("The strength of the relationship rests on %s: without %s, r = %s (%s), a %s relationship at most.",
+			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)*f.adj),
+			f.strengthOf(math.Abs(float64(se.RWithoutFlagged))))
 	case len(rows) > 0 && f.without != f.rdir:
 		return fmt.Sprintf("The apparent relationship rests on %s: without %s, r = %s (%s) and no relationship is shown.",
 			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)*f.adj))
@@ -603,6 +679,8 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 		verdict := "the verdict stands"
 		if f.without != f.rdir {
 			verdict = "the verdict does not stand without them"
+		} else if f.weaker {
+			verdict = "the direction stands, but the strength falls to " + f.strengthOf(math.Abs(float64(se.RWithoutFlagged)))
 		}
 		if math.IsNaN(float64(se.RWithoutFlagged)) {
 			add("Without the flagged %s, r and the line cannot be computed (%s no longer varies): %s.",

@@ -324,3 +324,24 @@ func TestAssessAgreesWithCaution(t *testing.T) {
 		}
 	}
 }
+
+func TestAssessOutlierInflatesStrength(t *testing.T) {
+	s := study(0.9, 1e-9)
+	s.Influence.Points = []report.Point{{Row: "31", X: 12, Y: 12, Leverage: 0.8, CooksD: 30, StudentizedExt: 5,
+		Flags: []string{FlagOutlier, FlagHighLeverage, FlagInfluential}}}
+	s.Sensitivity.NFlagged = 1
+	s.Sensitivity.RWithoutFlagged, s.Sensitivity.PWithoutFlagged = 0.45, 0.01
+	f := Assess(s, ctx)
+	if !f.OutlierDriven || !strings.Contains(f.Headline, "strength of the relationship rests on row 31") {
+		t.Errorf("strong with the row, moderate without: outlier_driven %v, headline %s", f.OutlierDriven, f.Headline)
+	}
+	// A flagged row that hides a stronger relationship does not drive it.
+	s = study(0.6, 1e-6)
+	s.Influence.Points = []report.Point{{Row: "40", X: 5, Y: 21, Leverage: 0.03, CooksD: 0.8, StudentizedExt: 10.8,
+		Flags: []string{FlagOutlier, FlagInfluential}}}
+	s.Sensitivity.NFlagged = 1
+	s.Sensitivity.RWithoutFlagged, s.Sensitivity.PWithoutFlagged = 0.95, 1e-20
+	if f = Assess(s, ctx); f.OutlierDriven || !strings.Contains(f.Headline, "Row 40 is flagged") {
+		t.Errorf("moderate with the row, strong without: outlier_driven %v, headline %s", f.OutlierDriven, f.Headline)
+	}
+}

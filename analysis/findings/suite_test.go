@@ -204,9 +204,20 @@ func verdict(f *report.Findings, name string) string {
 // TestSuite runs every case of testdata/suite through analysis.Analyze
 // with the default configuration and compares each labelled verdict ("*"
 // in labels.csv: the case does not decide it). It logs the accuracy per
-// verdict and overall.
+// set (tuning, check), per verdict and overall.
+//
+// known-misses.csv lists the verdicts the rules get wrong on a case, each
+// with the reason (chance at the test's alpha, or a limit of the rule). A
+// listed miss is counted wrong in the accuracy but does not fail the test;
+// any other wrong verdict fails it, and so does a listed miss that has
+// come right (the list must then be brought up to date).
 func TestSuite(t *testing.T) {
 	dir := filepath.Join("testdata", "suite")
+	known := map[string]string{} // case/verdict -> the value the rules give
+	_, kr := readCSV(t, filepath.Join(dir, "known-misses.csv"))
+	for _, r := range kr {
+		known[r[0]+"/"+r[1]] = r[2]
+	}
 	head, rows := readCSV(t, filepath.Join(dir, "labels.csv"))
 	col := map[string]int{}
 	for i, h := range head {
@@ -219,10 +230,18 @@ func TestSuite(t *testing.T) {
 	}
 	type tally struct{ right, total int }
 	per := map[string]*tally{}
-	var caseRight, caseTotal int
+	cases := map[string]*tally{}
 	for _, lab := range rows {
-		name := lab[col["case"]]
-		path := filepath.Join(dir, name+".csv")
+		name, set := lab[col["case"]], lab[col["set"]]
+		if cases[set] == nil {
+			cases[set] = &tally{}
+		}
+		path0 := filepath.Join(dir, name+".csv")
+		if _, err := os.Stat(path0); err != nil {
+			t.Errorf("labels.csv names %s, which is missing: %v", name, err)
+			continue
+		}
+		path := path0
 		h, data := readCSV(t, path)
 		in := analysis.Input{ID: name, X: report.Variable{Column: "x", Label: "x"}, Y: report.Variable{Column: "y", Label: "y"},
 			XS: column(t, path, h, data, "x"), YS: column(t, path, h, data, "y")}
@@ -254,17 +273,30 @@ func TestSuite(t *testing.T) {
 				per[v] = &tally{}
 			}
 			per[v].total++
-			if got := verdict(f, v); got == want {
+			got := verdict(f, v)
+			kv, isKnown := known[name+"/"+v]
+			delete(known, name+"/"+v)
+			switch {
+			case got == want && isKnown:
 				per[v].right++
-			} else {
+				t.Errorf("%s: %s = %q is right now, but known-misses.csv lists it as a miss: update the list", name, v, got)
+			case got == want:
+				per[v].right++
+			case isKnown && kv == got:
+				caseOK = false
+				t.Logf("%s: %s = %q, want %q (known miss)", name, v, got, want)
+			default:
 				caseOK = false
 				t.Errorf("%s (%s): %s = %q, want %q\n  %s", name, lab[col["construction"]], v, got, want, f.Headline)
 			}
 		}
-		caseTotal++
+		cases[set].total++
 		if caseOK {
-			caseRight++
+			cases[set].right++
 		}
+	}
+	for k := range known {
+		t.Errorf("known-misses.csv lists %s, which the suite does not check", k)
 	}
 	var names []string
 	right, total := 0, 0
@@ -274,6 +306,11 @@ func TestSuite(t *testing.T) {
 		total += c.total
 	}
 	sort.Strings(names)
-	t.Logf("suite accuracy: cases %d/%d right in every labelled verdict; verdicts %d/%d; per verdict: %s",
-		caseRight, caseTotal, right, total, strings.Join(names, ", "))
+	var sets []string
+	for set, c := range cases {
+		sets = append(sets, fmt.Sprintf("%s %d/%d", set, c.right, c.total))
+	}
+	sort.Strings(sets)
+	t.Logf("suite accuracy: cases right in every labelled verdict: %s; verdicts %d/%d; per verdict: %s",
+		strings.Join(sets, ", "), right, total, strings.Join(names, ", "))
 }

@@ -42,9 +42,9 @@ import (
 //     significant and the quadratic adds at least 0.05 to R² over the line,
 //     so a bend too slight to matter in practice is still called a line.
 //   - NonlinearDcor 0.15: the form is "nonlinear" when the distance
-//     correlation is significant, at least 0.15, larger than |r| (for
+//     correlation is significant, at least 0.15 and larger than |r| (for
 //     normal data it is never larger: Székely, Rizzo & Bakirov 2007,
-//     Ann. Stat. 35:2769–2794, Theorem 7) and |r| is below Moderate. The
+//     Ann. Stat. 35:2769–2794, Theorem 7) while r itself is not. The
 //     cut point is low because distance correlation runs low for patterns
 //     that go up and down: in our generated suite a sine of four cycles
 //     with noise a third of its amplitude gives about 0.19. The test's
@@ -55,6 +55,10 @@ import (
 //     below 1.5 or above 2.5 is read as residuals that hang together in
 //     time (common practice: 1.5 to 2.5 is taken as no serial
 //     correlation).
+//   - FormDW 1.5: the same rule of thumb for the line's residuals taken in
+//     order of x; below it (and below the statistic's alpha bound, which
+//     rules at small n) they swing together and the form is "nonlinear"
+//     (see Assess).
 func DefaultThresholds() report.Thresholds {
 	return report.Thresholds{
 		Strong:             0.7,
@@ -68,6 +72,7 @@ func DefaultThresholds() report.Thresholds {
 		NonlinearDcor:      0.15,
 		ReversalMinGroup:   5,
 		DriftDW:            1.5,
+		FormDW:             1.5,
 	}
 }
 

@@ -65,6 +65,9 @@ type Thresholds struct {
 	// DriftDW: with a run order, Durbin–Watson below this or above 4 − this
 	// counts as drift (1.5).
 	DriftDW float64 `json:"drift_dw"`
+	// FormDW: the line's residuals in order of x with Durbin–Watson below
+	// this (and below its alpha bound) make the form nonlinear (1.5).
+	FormDW float64 `json:"form_dw"`
 }
 
 // Dataset is one data file as read.

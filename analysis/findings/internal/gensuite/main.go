@@ -1,7 +1,12 @@
 // Command gensuite writes the labelled suite of generated cases that the
 // findings tests run through the analysis: one CSV per case and a labels
 // file giving each case's true verdicts, known by construction. Every case
-// has its own fixed seed, so the output is the same on every run:
+// has its own fixed seed, so the output is the same on every run. Each
+// construction is drawn once with its own seed (set "tuning": the cases
+// the thresholds were first tuned on), again with three more seeds (set
+// "check": drawn after that tuning; its results led to one more change of
+// the rules, so it is not held out), and with three more (set "holdout":
+// drawn after the last change of the rules and never used to tune them):
 //
 //	go run ./analysis/findings/internal/gensuite -o analysis/findings/testdata/suite
 //
@@ -257,6 +262,10 @@ func lineCase0(n int) func(r *rand.Rand) gen {
 	}
 }
 
+// replicates is the number of extra seeds drawn for each construction in
+// each of the sets check and holdout.
+const replicates = 3
+
 func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', 10, 64) }
 
 func writeCSV(path string, rows [][]string) error {
@@ -279,9 +288,21 @@ func main() {
 		fmt.Fprintln(os.Stderr, "gensuite:", err)
 		os.Exit(1)
 	}
-	labels := [][]string{{"case", "seed", "form", "bend", "turns_over", "direction", "strength",
+	labels := [][]string{{"case", "set", "seed", "form", "bend", "turns_over", "direction", "strength",
 		"outlier_driven", "reversal", "spread_changes", "explained_by", "drift", "construction"}}
+	all := cases()
 	for _, c := range cases() {
+		for k := uint64(1); k <= 2*replicates; k++ {
+			r := c
+			r.name = fmt.Sprintf("%s-check%d", c.name, k)
+			if k > replicates {
+				r.name = fmt.Sprintf("%s-holdout%d", c.name, k-replicates)
+			}
+			r.seed = c.seed*100 + k
+			all = append(all, r)
+		}
+	}
+	for _, c := range all {
 		g := c.build(rand.New(rand.NewPCG(c.seed, 20261201)))
 		head := []string{"x", "y"}
 		if g.group != nil {
@@ -312,7 +333,14 @@ func main() {
 			os.Exit(1)
 		}
 		w := c.want
-		labels = append(labels, []string{c.name, strconv.FormatUint(c.seed, 10), w.Form, w.Bend, w.TurnsOver,
+		set := "tuning"
+		switch {
+		case c.seed > 1000 && c.seed%100 > replicates:
+			set = "holdout"
+		case c.seed > 1000:
+			set = "check"
+		}
+		labels = append(labels, []string{c.name, set, strconv.FormatUint(c.seed, 10), w.Form, w.Bend, w.TurnsOver,
 			w.Direction, w.Strength, w.OutlierDriven, w.Reversal, w.Spread, w.ExplainedBy, w.Drift, c.note})
 	}
 	if err := writeCSV(filepath.Join(*dir, "labels.csv"), labels); err != nil {

@@ -69,8 +69,8 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		return exitFailed
 	}
 	nPairs := len(prof.pairs())
-	fmt.Fprintf(stderr, "bivar init: wrote %s: %d numeric columns, %d candidate studies (commented out)\n", dest, len(prof.numeric()), nPairs)
-	fmt.Fprintf(stderr, "next: uncomment the studies you want in %s, then run: bivar run %s\n", dest, dest)
+	fmt.Fprintf(stderr, "bivar init: wrote %s: %d numeric columns, %d candidate studies (the first active, the others commented out)\n", dest, len(prof.numeric()), nPairs)
+	fmt.Fprintf(stderr, "bivar init: next: bivar run %s  (then choose your studies in it)\n", dest)
 	return exitOK
 }
 
@@ -472,35 +472,46 @@ func initManifest(prof *csvProfile, rel string) string {
 	w("#                       min_abs_r, r_within = [lo, hi], slope_within = [lo, hi] (recorded units),\n")
 	w("#                       max_p (adjusted), min_n, not_outlier_driven = true\n")
 	used := map[string]bool{}
+	var rest []string
 	for i, p := range pairs {
 		x, y := p[0], p[1]
 		id := studyID(x.name, y.name, used)
 		if i >= initMaxPairs {
-			if i == initMaxPairs {
-				w("\n# %d more pairs not written out:", len(pairs)-initMaxPairs)
-			}
-			w(" %s", id)
+			rest = append(rest, id)
 			continue
 		}
-		w("\n# [[study]]\n")
-		w("# id      = %s\n", tomlString(id))
-		w("# title   = %s\n", tomlString(y.name+" against "+x.name))
-		w("# dataset = \"data\"\n")
-		w("# x       = %s\n", tomlString(x.name))
-		w("# y       = %s\n", tomlString(y.name))
+		// The first study is left active so that 'bivar run' works at
+		// once; the others are commented out for the user to choose.
+		c := "# "
+		if i == 0 {
+			c = ""
+			w("\n# A first study, left active so that 'bivar run' gives a report at once;\n")
+			w("# keep it, change it or comment it out once you have chosen your own.\n")
+			w("[[study]]\n")
+		} else {
+			w("\n# [[study]]\n")
+		}
+		w("%sid      = %s\n", c, tomlString(id))
+		w("%stitle   = %s\n", c, tomlString(y.name+" against "+x.name))
+		w("%sdataset = \"data\"\n", c)
+		w("%sx       = %s\n", c, tomlString(x.name))
+		w("%sy       = %s\n", c, tomlString(y.name))
 		if group != "" {
-			w("# # group = %s\n", tomlString(group))
+			w("%s# group = %s\n", c, tomlString(group))
 		}
 		if order != "" {
-			w("# # order = %s\n", tomlString(order))
+			w("%s# order = %s\n", c, tomlString(order))
 		}
-		w("# # predict_at = [%s]\n", fmtNum((x.min+x.max)/2))
-		w("# # [study.expect]\n")
-		w("# # min_abs_r = 0.5\n")
-		w("# # not_outlier_driven = true\n")
+		w("%s# predict_at = [%s]\n", c, fmtNum((x.min+x.max)/2))
+		w("%s# [study.expect]\n", c)
+		w("%s# min_abs_r = 0.5\n", c)
+		w("%s# not_outlier_driven = true\n", c)
 	}
-	if len(pairs) > initMaxPairs {
-		w("\n") // end the line listing the pairs not written out
+	if len(rest) > 0 {
+		w("\n# %d more pairs, not written out:\n", len(rest))
+		for k := 0; k < len(rest); k += 3 {
+			w("#   %s\n", strings.Join(rest[k:min(k+3, len(rest))], "  "))
+		}
 	}
 	return b.String()
 }

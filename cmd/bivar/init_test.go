@@ -67,11 +67,12 @@ func TestInit(t *testing.T) {
 	text := string(b)
 	for _, want := range []string{
 		`file    = "data/cell4.csv"`,
-		`# id      = "pressure-vs-melt-temp"`,
+		"[[study]]\nid      = \"pressure-vs-melt-temp\"",
 		`# x       = "melt temp"`,
 		`# id      = "shrinkage-vs-pressure"`,
 		`# # group = "lot"`,
 		`# # order = "shot"`,
+		`# group = "lot"`,
 		`#   shot                 numeric, rises by 1 each row`,
 		`#   line                 numeric, constant (4)`,
 		`# "melt temp" = ""`,
@@ -87,25 +88,29 @@ func TestInit(t *testing.T) {
 			t.Errorf("manifest pairs a counter or constant column: %q", bad)
 		}
 	}
-	if n := strings.Count(text, "# [[study]]"); n != 3 {
-		t.Errorf("%d candidate studies, want 3 (melt temp, pressure, shrinkage pairwise)", n)
+	if n := strings.Count(text, "# [[study]]"); n != 2 {
+		t.Errorf("%d commented-out studies, want 2 (three pairs of melt temp, pressure, shrinkage; the first active)", n)
 	}
 	if !strings.Contains(stderr, "bivar run") {
 		t.Errorf("init does not say what to run next: %q", stderr)
 	}
 
-	// As written it declares no study, and manifest.Load says one is
-	// needed; with the studies uncommented it loads with three.
-	if _, err := manifest.Load(dest); err == nil || !strings.Contains(err.Error(), "study") {
-		t.Errorf("the manifest as written: err = %v, want the loader asking for a study", err)
+	// As written it loads with the first study active; with the others
+	// uncommented it loads with all three.
+	m, err := manifest.Load(dest)
+	if err != nil {
+		t.Fatalf("the manifest as written does not load: %v\n%s", err, text)
+	}
+	if len(m.Studies) != 1 || m.Studies[0].ID != "pressure-vs-melt-temp" {
+		t.Errorf("as written: studies %+v, want the first pair only", m.Studies)
 	}
 	chosen := filepath.Join(dir, "chosen.toml")
 	writeFile(t, chosen, uncommentStudies(text))
-	m, err := manifest.Load(chosen)
+	m, err = manifest.Load(chosen)
 	if err != nil {
 		t.Fatalf("the manifest with its studies uncommented does not load: %v\n%s", err, uncommentStudies(text))
 	}
-	if len(m.Studies) != 3 || m.Studies[0].X != "melt temp" || m.Studies[0].Y != "pressure" {
+	if len(m.Studies) != 3 || m.Studies[0].X != "melt temp" || m.Studies[0].Y != "pressure" || m.Studies[2].ID != "shrinkage-vs-pressure" {
 		t.Errorf("studies = %+v", m.Studies)
 	}
 
@@ -131,7 +136,7 @@ func TestInitDefaultPathAndDecimalComma(t *testing.T) {
 		t.Fatalf("no bivar.toml beside the CSV: %v", err)
 	}
 	text := string(b)
-	for _, want := range []string{`delimiter = ";"`, `decimal = ","`, `# id      = "b-vs-a"`, `# # group = "c"`} {
+	for _, want := range []string{`delimiter = ";"`, `decimal = ","`, `id      = "b-vs-a"`, `# group = "c"`} {
 		if !strings.Contains(text, want) {
 			t.Errorf("manifest lacks %q:\n%s", want, text)
 		}

@@ -2,6 +2,7 @@ package render
 
 import (
 	"strings"
+	"unicode"
 	"unicode/utf8"
 )
 
@@ -12,10 +13,26 @@ import (
 // never become markup.
 func mdText(s string) string {
 	var b strings.Builder
-	for _, r := range s {
+	rs := []rune(s)
+	for i, r := range rs {
 		switch r {
-		case '\\', '`', '*', '_', '[', ']', '<', '>', '|', '&', '~', '#', '!':
+		case '\\', '`', '*', '[', ']', '<', '>', '&', '~':
 			b.WriteByte('\\')
+			b.WriteRune(r)
+		case '_':
+			// An underscore between letters or digits cannot open or close
+			// emphasis (CommonMark 0.31, §6.2), so ambient_rh stays as it is.
+			if i > 0 && i+1 < len(rs) && isAlnum(rs[i-1]) && isAlnum(rs[i+1]) {
+				b.WriteRune(r)
+			} else {
+				b.WriteString("\\_")
+			}
+		case '#', '-', '+', '=', '|':
+			// Only at the start of a line do these make headings, lists or
+			// rules; pipes are escaped inside tables by mdCell.
+			if i == 0 && r != '|' {
+				b.WriteByte('\\')
+			}
 			b.WriteRune(r)
 		case '\n', '\r', '\t':
 			b.WriteByte(' ')
@@ -30,6 +47,11 @@ func mdText(s string) string {
 	return b.String()
 }
 
+func isAlnum(r rune) bool { return unicode.IsLetter(r) || unicode.IsDigit(r) }
+
+// mdCell is mdText for a table cell, where a pipe would end the cell.
+func mdCell(s string) string { return strings.ReplaceAll(mdText(s), "|", "\\|") }
+
 // mdTable writes a pipe table with its columns padded, so that it reads
 // as a table in plain text too. The caption goes first, in italics.
 func mdTable(t table) string {
@@ -39,14 +61,14 @@ func mdTable(t table) string {
 	cells := make([][]string, 0, len(t.Rows)+1)
 	head := make([]string, len(t.Head))
 	for i, h := range t.Head {
-		head[i] = mdText(h)
+		head[i] = mdCell(h)
 	}
 	cells = append(cells, head)
 	for _, row := range t.Rows {
 		r := make([]string, len(t.Head))
 		for i := range r {
 			if i < len(row) {
-				r[i] = mdText(row[i])
+				r[i] = mdCell(row[i])
 			}
 		}
 		cells = append(cells, r)

@@ -5,6 +5,7 @@ import (
 	"strings"
 
 	"bivar/analysis/report"
+	"bivar/render/chart"
 )
 
 // studySections lists the parts of a study after its figures, in the order
@@ -22,7 +23,7 @@ var studySections = []func(s *report.Study, level string, th report.Thresholds) 
 	notesSection,
 }
 
-func wordsSection(s *report.Study, _ string, th report.Thresholds) (*section, error) {
+func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
 	f := s.Findings
 	if f == nil {
 		return nil, nil
@@ -65,8 +66,7 @@ func wordsSection(s *report.Study, _ string, th report.Thresholds) (*section, er
 	if f.CurveStrength != "" {
 		str += "; the curve's own strength: " + f.CurveStrength
 	}
-	sec.List = append(sec.List, str+fmt.Sprintf(". Cut points |r| ≥ %s strong, ≥ %s moderate, ≥ %s weak — common practice, not a standard.",
-		short(th.Strong), short(th.Moderate), short(th.Weak)))
+	sec.List = append(sec.List, str+".")
 	if f.OutlierDriven {
 		sec.List = append(sec.List, "Influence: the verdict does not survive without the flagged rows (outlier-driven).")
 	}
@@ -165,7 +165,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 }
 
 func unitPer(s *report.Study) string {
-	y, x := s.Y.Unit, s.X.Unit
+	y, x := chart.UnitText(s.Y.Unit), chart.UnitText(s.X.Unit)
 	if y == "" {
 		y = "y"
 	}
@@ -230,12 +230,19 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 	}
 	t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
 	sec.Tables = append(sec.Tables, t)
-	sec.After = append(sec.After, fmt.Sprintf("Leaving out one row at a time, r ranges from %s (without row %s) to %s (without row %s) and the slope from %s to %s.",
-		num(se.LooRMin), orDash(se.LooRMinRow), num(se.LooRMax), orDash(se.LooRMaxRow), num(se.LooSlopeMin), num(se.LooSlopeMax)))
+	sec.After = append(sec.After, fmt.Sprintf("Leaving out one row at a time, r ranges from %s%s to %s%s and the slope from %s to %s.",
+		num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), num(se.LooSlopeMax)))
 	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() {
 		sec.After = append(sec.After, fmt.Sprintf("Without the flagged rows, p for r is %s (%s%% interval shown with r).", pval(se.PWithoutFlagged), level))
 	}
 	return sec, nil
+}
+
+func without(row string) string {
+	if row == "" {
+		return ""
+	}
+	return " (without row " + row + ")"
 }
 
 func orDash(s string) string {
@@ -250,7 +257,7 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		return nil, nil
 	}
 	sec := &section{Key: "units", Title: "Units of measure"}
-	t := table{Caption: "r, slope and intercept in other units", Head: []string{"x unit", "y unit", "r", "Slope", "Intercept", "Note"},
+	t := table{Caption: "r, slope and intercept in other units", Head: []string{"x unit (UCUM)", "y unit (UCUM)", "r", "Slope", "Intercept", "Note"},
 		Num: []bool{false, false, true, true, true, false}}
 	var rs []string
 	undefined := 0

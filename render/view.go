@@ -198,9 +198,14 @@ func counts(cc []report.ColumnCount) string {
 	if len(cc) == 0 {
 		return "none"
 	}
-	parts := make([]string, len(cc))
-	for i, c := range cc {
-		parts[i] = fmt.Sprintf("%s: %d", c.Column, c.Count)
+	var parts []string
+	for _, c := range cc {
+		if c.Count > 0 {
+			parts = append(parts, fmt.Sprintf("%s: %d", c.Column, c.Count))
+		}
+	}
+	if len(parts) == 0 {
+		return "none"
 	}
 	return strings.Join(parts, "; ")
 }

@@ -14,16 +14,46 @@ const (
 	ResidualW, ResidualH = 480, 360
 )
 
-// AxisTitle is a variable's label with its unit in parentheses.
+// AxisTitle is a variable's label with its unit, as people write it, in
+// parentheses.
 func AxisTitle(v report.Variable) string {
 	name := v.Label
 	if name == "" {
 		name = v.Column
 	}
-	if v.Unit != "" {
-		return name + " (" + v.Unit + ")"
+	if u := UnitText(v.Unit); u != "" {
+		return name + " (" + u + ")"
 	}
 	return name
+}
+
+// UnitText writes a UCUM unit code the way it is printed for people:
+// "Cel" as °C, "[degF]" as °F, "um" as µm; square brackets and the braces
+// of a UCUM annotation ({HRC}) are dropped. Other codes print as they are.
+func UnitText(code string) string {
+	switch code {
+	case "Cel":
+		return "°C"
+	case "[degF]":
+		return "°F"
+	case "um":
+		return "µm"
+	case "ug":
+		return "µg"
+	case "uL":
+		return "µL"
+	case "[in_i]":
+		return "in"
+	case "[ft_i]":
+		return "ft"
+	case "[lb_av]":
+		return "lb"
+	case "[lbf_av]":
+		return "lbf"
+	case "[psi]":
+		return "psi"
+	}
+	return strings.NewReplacer("{", "", "}", "", "[", "", "]", "").Replace(code)
 }
 
 // varName is the label, or the column when there is none.
@@ -182,8 +212,8 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 		return nil
 	}
 	yl := "residual"
-	if s.Y.Unit != "" {
-		yl += " (" + s.Y.Unit + ")"
+	if u := UnitText(s.Y.Unit); u != "" {
+		yl += " (" + u + ")"
 	}
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
@@ -238,8 +268,8 @@ func ResidualsOrder(s *report.Study, id string) *Figure {
 	}
 	sorted := &report.Plot{Groups: groups}
 	yl := "residual"
-	if s.Y.Unit != "" {
-		yl += " (" + s.Y.Unit + ")"
+	if u := UnitText(s.Y.Unit); u != "" {
+		yl += " (" + u + ")"
 	}
 	order := s.Order
 	if order == "" {

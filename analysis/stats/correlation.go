@@ -108,11 +108,20 @@ func FisherCI(r float64, n int, conf float64) (lo, hi float64) {
 // the ranks they occupy ("average" or "fractional" ranking; Kendall &
 // Gibbons 1990, Rank Correlation Methods, §3.8). The order comes from an
 // O(n) radix sort (sortkey.go). x must hold no NaN and fewer than 2³¹
-// values.
+// values (it panics otherwise).
 func Ranks(x []float64) []float64 {
+	checkIndexable("Ranks", len(x))
 	r := make([]float64, len(x))
 	ranksInto(r, x, newRankScratch(len(x)))
 	return r
+}
+
+// checkIndexable panics when n rows cannot be indexed by int32 (about 2·10⁹,
+// far beyond any data set that fits in memory with its sort buffers).
+func checkIndexable(fn string, n int) {
+	if n > math.MaxInt32 {
+		panic("stats: " + fn + ": more than 2³¹−1 values")
+	}
 }
 
 // rankScratch holds the buffers of ranksInto, reused between calls.
@@ -163,6 +172,7 @@ func Spearman(x, y []float64) (rho, p float64) {
 	if len(x) < 2 {
 		return math.NaN(), math.NaN()
 	}
+	checkIndexable("Spearman", len(x))
 	sc := newRankScratch(len(x))
 	rx, ry := make([]float64, len(x)), make([]float64, len(x))
 	ranksInto(rx, x, sc)
@@ -198,8 +208,9 @@ func Spearman(x, y []float64) (rho, p float64) {
 // over the tie groups t of x and u of y; this is scipy.stats.kendalltau's
 // asymptotic p for variant "b".
 //
-// x and y must have equal length (it panics otherwise) and hold no NaN.
-// τ-b is NaN when n < 2 or either variable is constant.
+// x and y must have equal length and fewer than 2³¹ values (it panics
+// otherwise) and hold no NaN. τ-b is NaN when n < 2 or either variable is
+// constant.
 func KendallTauB(x, y []float64) (tau, p float64) {
 	if len(x) != len(y) {
 		panic("stats: KendallTauB: x and y lengths differ")
@@ -208,6 +219,7 @@ func KendallTauB(x, y []float64) (tau, p float64) {
 	if n < 2 {
 		return math.NaN(), math.NaN()
 	}
+	checkIndexable("KendallTauB", n)
 	// Order the rows by (x, y): a radix sort by x, then each run of tied x
 	// sorted by y. Only the y keys in that order are needed afterwards.
 	kx := make([]uint64, n)

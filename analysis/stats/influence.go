@@ -53,8 +53,9 @@ type InfluenceResult struct {
 // exists). Other rows keep finite values. Nothing panics.
 //
 // Other undefined cases give NaN, never a panic: every value when n < 2 or
-// x is constant (SoleSupport all false); Studentized, CooksD when n < 3 or
-// the fit is exact (RSS = 0); StudentizedExt, DFFITS when n < 4; LooR when
+// x is constant (SoleSupport all false); Studentized, StudentizedExt,
+// CooksD, DFFITS when n < 3 or the fit is exact (RSS at most the rounding
+// floor (16ε)²·Σy², ε = 2⁻⁵²); StudentizedExt, DFFITS when n < 4; LooR when
 // the remaining y are constant or n < 3. A rounding-negative s₍ᵢ₎² is taken
 // as 0. x and y must have equal length (it panics otherwise) and hold no
 // NaN or Inf.
@@ -95,8 +96,16 @@ func Influence(x, y []float64) InfluenceResult {
 		res.Residual[i] = e
 		rss += e * e
 	}
+	// An exact fit leaves only rounding in the residuals; studentizing that
+	// noise would make arbitrary "outliers". Treat RSS at or below the
+	// rounding floor, (16ε)²·Σy², as exactly 0.
+	var sumY2 float64
+	for _, v := range y {
+		sumY2 += v * v
+	}
+	const eps16 = 16 * 0x1p-52
 	s := nan
-	if n > 2 && rss > 0 {
+	if n > 2 && rss > eps16*eps16*sumY2 {
 		s = math.Sqrt(rss / (nf - 2))
 	}
 	c := nf / (nf - 1)

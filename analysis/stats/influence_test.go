@@ -203,6 +203,20 @@ func TestInfluenceSoleSupport(t *testing.T) {
 	if !math.IsNaN(in.StudentizedExt[0]) || math.IsNaN(in.Studentized[0]) || math.IsNaN(in.LooSlope[0]) {
 		t.Errorf("n=3: %+v", in)
 	}
+	// An exact line (up to rounding): no residual scatter to studentize, so
+	// no row may look like an outlier; leverage and LOO fits stay defined.
+	ex, ey := make([]float64, 30), make([]float64, 30)
+	for i := range ex {
+		ex[i] = 0.1 * float64(i)
+		ey[i] = 1.3 + 0.7*ex[i]
+	}
+	in = Influence(ex, ey)
+	for i := range ex {
+		if !math.IsNaN(in.Studentized[i]) || !math.IsNaN(in.CooksD[i]) || math.IsNaN(in.Leverage[i]) ||
+			!coreClose(in.LooSlope[i], 0.7, 1e-12) {
+			t.Fatalf("exact line row %d: r %v D %v h %v slope %v", i, in.Studentized[i], in.CooksD[i], in.Leverage[i], in.LooSlope[i])
+		}
+	}
 	if in := Influence(nil, nil); len(in.Leverage) != 0 {
 		t.Errorf("empty: %+v", in)
 	}

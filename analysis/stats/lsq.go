@@ -189,7 +189,6 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 	r.Fitted = make([]float64, n)
 	r.Residuals = make([]float64, n)
 	r.Leverage = make([]float64, n)
-	u := make([]float64, p)
 	xc := make([]float64, p)
 	var rss, ess float64
 	for i := 0; i < n; i++ {
@@ -210,7 +209,6 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 			for j := 0; j <= k; j++ {
 				s += xc[j] * r.rinv[j*p+k]
 			}
-			u[k] = s
 			h += s * s
 		}
 		r.Leverage[i] = h

@@ -15,20 +15,22 @@ import (
 const DefaultDcorMaxN = 5000
 
 // DistanceCorrelation returns the sample distance correlation of x and y
-// (Székely, Rizzo & Bakirov 2007, Ann. Statist. 35(6):2769–2794, eq. 2.8 and
-// Definition 4), the V-statistic form: with a_ij = |x_i − x_j|, b_ij =
-// |y_i − y_j| and A, B their double-centred matrices,
+// (Székely, Rizzo & Bakirov 2007, "Measuring and testing dependence by
+// correlation of distances", Ann. Statist. 35(6)), the V-statistic form:
+// with a_ij = |x_i − x_j|, b_ij = |y_i − y_j| and A, B their double-centred
+// matrices,
 //
 //	dCov²(x, y) = (1/n²) Σ_ij A_ij B_ij
 //	dCor(x, y)  = √( dCov²(x, y) / √(dCov²(x, x)·dCov²(y, y)) )
 //
 // It lies in [0, 1], is 0 in the population only under independence, and
-// is 1 for an exact linear relation. This is the value of R's
-// energy::dcor and of Python's dcor.distance_correlation.
+// is 1 for an exact linear relation. (From memory of their documentation:
+// the value R's energy::dcor and Python's dcor.distance_correlation give.)
 //
 // It is computed in O(n log n) time and O(n) memory without forming the
-// matrices (Huo & Székely 2016, Technometrics 58(4):435–447, Algorithm 1;
-// Chaudhuri & Hu 2019, Comput. Statist. Data Anal. 135:15–24):
+// matrices (Huo & Székely 2016, "Fast computing for distance covariance",
+// Technometrics 58(4); Chaudhuri & Hu 2019, "A fast algorithm for computing
+// distance correlation", Comput. Statist. Data Anal.):
 //
 //	n²·dCov² = Σ_ij a_ij b_ij − (2/n) Σ_i a_i· b_i· + a·· b··/n²
 //
@@ -59,13 +61,16 @@ func DistanceCorrelation(x, y []float64) float64 {
 //
 //	p = (1 + #{permutations with dCor ≥ observed}) / (perms + 1)
 //
-// (Székely, Rizzo & Bakirov 2007, §4; Davison & Hinkley 1997, eq. 4.11 for
-// the +1), "≥" allowing a relative rounding tolerance of 1e-12. When n
-// exceeds maxN (DefaultDcorMaxN when maxN ≤ 0) the test runs on a seeded
-// simple random sample of maxN rows drawn from the same source, the
-// observed value of the test then being that sample's dCor; the cost is
-// O(perms · m log m) with m = min(n, maxN), bounded whatever n is. used is
-// m, and method says what was done. perms ≤ 0 gives p = NaN (no test).
+// (Székely, Rizzo & Bakirov 2007; the +1 counts the observed arrangement
+// as one of the permutations, Davison & Hinkley 1997, Bootstrap Methods and
+// their Application, ch. 4), "≥" allowing a relative rounding tolerance of
+// 1e-12. Each permutation is scored by the O(n log n) algorithm, reusing
+// the sort of x and the ranks of y. When n exceeds maxN (DefaultDcorMaxN
+// when maxN ≤ 0) the test runs on a seeded simple random sample of maxN
+// rows drawn from the same source, the observed value of the test then
+// being that sample's dCor. The cost is O(n log n + perms·m log m) with
+// m = min(n, maxN), so the test's share is bounded whatever n is. used is m,
+// and method says what was done. perms ≤ 0 gives p = NaN (no test).
 //
 // x and y must have equal length (it panics otherwise) and hold finite
 // values. dcor and p are NaN when n < 3 or x or y is constant.

@@ -7,8 +7,9 @@ package stats
 import "math"
 
 // LackOfFit returns the pure-error lack-of-fit F test of the straight line
-// (Draper & Smith 1998, Applied Regression Analysis, 3rd ed., §2.1;
-// Montgomery, Peck & Vining 2012, §4.5.1). With m distinct x values, the
+// (Draper & Smith 1998, Applied Regression Analysis, 3rd ed., lack of fit
+// and pure error; Montgomery, Peck & Vining 2012, Introduction to Linear
+// Regression Analysis, 5th ed.). With m distinct x values, the
 // line's residual sum of squares splits into pure error (scatter of y about
 // the mean at each repeated x) and lack of fit (the group means about the
 // line):

@@ -11,7 +11,7 @@ import "math"
 //
 // r is the Pearson correlation of the residuals of x and of y after each is
 // regressed by least squares on [1, z] (Kendall & Stuart, The Advanced
-// Theory of Statistics, vol. 2, §27.4); that is algebraically
+// Theory of Statistics, vol. 2, partial correlation); that is algebraically
 //
 //	r = (r_xy − r_xz·r_yz) / √((1 − r_xz²)(1 − r_yz²))
 //
@@ -26,8 +26,9 @@ import "math"
 //	(lo, hi) = tanh(atanh(r) ∓ z_{(1+conf)/2} / √(n−4))
 //
 // the Fisher-z interval with its variance 1/(n − k − 3) for k = 1
-// controlled variable (Fisher 1924; Anderson, An Introduction to
-// Multivariate Statistical Analysis, 3rd ed., §4.3.3).
+// controlled variable (Fisher 1924, "The distribution of the partial
+// correlation coefficient", Metron 3; Anderson, An Introduction to
+// Multivariate Statistical Analysis, 3rd ed., ch. 4).
 //
 // x, y and z must have equal length (it panics otherwise) and hold no NaN.
 // r is NaN when n < 3, z is constant, or x or y is an exact linear function

@@ -17,8 +17,10 @@ import (
 // pairs.
 const DefaultMaxExact = 2000
 
-// TheilSen returns the Theil–Sen resistant line (Theil 1950, Indag. Math.
-// 12:85–91, 173–177, 467–482; Sen 1968, JASA 63:1379–1389):
+// TheilSen returns the Theil–Sen resistant line (Theil 1950, "A
+// rank-invariant method of linear and polynomial regression analysis",
+// Proc. KNAW 53; Sen 1968, "Estimates of the regression coefficient based
+// on Kendall's tau", JASA 63:1379–1389):
 //
 //	slope     = median of (y_j − y_i)/(x_j − x_i) over pairs with x_i ≠ x_j
 //	intercept = median of (y_i − slope·x_i)

@@ -66,18 +66,17 @@ func TestTheilSen(t *testing.T) {
 		}
 	})
 	t.Run("sampled", func(t *testing.T) {
-		x, y := extraWavy(21, 1500)
-		exact, _, m1 := TheilSen(x, y, 1500, nil)
-		s, _, m := TheilSen(x, y, 500, rand.NewPCG(8, 9))
+		x, y := extraWavy(21, 1000)
+		exact, _, m1 := TheilSen(x, y, 1000, nil)
+		s, _, m := TheilSen(x, y, 300, rand.NewPCG(8, 9))
 		if m1 != "theil-sen (exact)" {
 			t.Errorf("n = maxExact: method %q, want exact", m1)
 		}
-		if !strings.Contains(m, "median of 124750 random pairs of 1500 points") {
+		if !strings.Contains(m, "median of 44850 random pairs of 1000 points") {
 			t.Errorf("sampled method %q", m)
 		}
-		// 124 750 sampled pairs: the sampled median lies within a few 1/√M
-		// (0.0028) in quantile of the exact one; check within 0.01 in
-		// quantile of all slopes.
+		// 44 850 sampled pairs: the sampled median's quantile among all
+		// slopes has standard error 0.5/√M = 0.0024; check it within 0.02.
 		var all []float64
 		for i := range x {
 			for j := i + 1; j < len(x); j++ {
@@ -87,12 +86,12 @@ func TestTheilSen(t *testing.T) {
 			}
 		}
 		slices.Sort(all)
-		lo := all[int(0.49*float64(len(all)))]
-		hi := all[int(0.51*float64(len(all)))]
+		lo := all[int(0.48*float64(len(all)))]
+		hi := all[int(0.52*float64(len(all)))]
 		if !(s >= lo && s <= hi) || !(exact >= lo && exact <= hi) {
-			t.Errorf("sampled slope %v, exact %v, want both in the 49–51%% band [%v, %v]", s, exact, lo, hi)
+			t.Errorf("sampled slope %v, exact %v, want both in the 48–52%% band [%v, %v]", s, exact, lo, hi)
 		}
-		s2, _, _ := TheilSen(x, y, 500, rand.NewPCG(8, 9))
+		s2, _, _ := TheilSen(x, y, 300, rand.NewPCG(8, 9))
 		if s2 != s {
 			t.Errorf("same seed, different slope: %v vs %v", s2, s)
 		}

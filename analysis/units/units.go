@@ -21,6 +21,7 @@ package units
 
 import (
 	"fmt"
+	"math"
 	"math/big"
 	"slices"
 	"strconv"
@@ -404,7 +405,9 @@ func (p *parser) factor() (unit, error) {
 		if !ok {
 			return unit{}, syntax("an exponent must follow %q", p.s[start:p.i])
 		}
-		u.scale = ratPow(u.scale, e)
+		if u.scale, err = ratPow(u.scale, e); err != nil {
+			return unit{}, err
+		}
 	}
 	return u, nil
 }
@@ -430,7 +433,14 @@ func (p *parser) exponent() (e int, ok bool, err error) {
 	return e, true, nil
 }
 
-func ratPow(x *big.Rat, e int) *big.Rat {
+// maxBits bounds the size of a unit's exact factor, so that a code such as
+// "((km24)24)24" fails at once instead of computing 10^41472.
+const maxBits = 4096
+
+func ratPow(x *big.Rat, e int) (*big.Rat, error) {
+	if (x.Num().BitLen()+x.Denom().BitLen())*max(e, -e) > maxBits {
+		return nil, syntax("the unit's factor is too large")
+	}
 	out := big.NewRat(1, 1)
 	for range max(e, -e) {
 		out.Mul(out, x)
@@ -438,7 +448,7 @@ func ratPow(x *big.Rat, e int) *big.Rat {
 	if e < 0 {
 		out.Inv(out)
 	}
-	return out
+	return out, nil
 }
 
 func (p *parser) power(u unit) (unit, error) {
@@ -452,7 +462,17 @@ func (p *parser) power(u unit) (unit, error) {
 	if e == 0 {
 		return unit{}, syntax("an exponent of 0 is not allowed")
 	}
-	return unit{scale: ratPow(u.scale, e), dim: none.add(u.dim, e)}, nil
+	d := none.add(u.dim, e)
+	for _, k := range d {
+		if k > maxExponent || k < -maxExponent {
+			return unit{}, syntax("exponents multiply to more than %d", maxExponent)
+		}
+	}
+	scale, err := ratPow(u.scale, e)
+	if err != nil {
+		return unit{}, err
+	}
+	return unit{scale: scale, dim: d}, nil
 }
 
 // lookup resolves an atom, with a metric prefix where the atom allows one.
@@ -510,6 +530,9 @@ func Affine(from, to string) (scale, offset float64, err error) {
 	}
 	scale, _ = s.Float64()
 	offset, _ = off.Float64()
+	if scale == 0 || math.IsInf(scale, 0) || math.IsInf(offset, 0) {
+		return 0, 0, fmt.Errorf("converting %q to %q needs a factor outside the range of float64", from, to)
+	}
 	return scale, offset, nil
 }
 

@@ -476,10 +476,19 @@ func (f *facts) write(out *report.Findings) {
 		h = fmt.Sprintf("No relationship between %s and %s shows in these data (%s, %s).", x, y, rText, pval(f.p))
 	}
 	if out.OutlierDriven {
-		h = f.drivenHeadline() + " " + h
+		h = f.drivenHeadline() + " With all rows: " + h
 	} else if rows := f.suspectRows(); len(rows) > 0 && s.Sensitivity != nil && s.Sensitivity.RWithoutFlagged.Valid() {
 		h += fmt.Sprintf(" %s %s flagged; without the flagged rows r = %s and the verdict stands.",
 			capital(listRows(rows)), plural(len(rows), "is", "are"), corr(float64(s.Sensitivity.RWithoutFlagged)))
+	}
+	if out.Reversal {
+		h += fmt.Sprintf(" Within each %s the direction reverses: the pooled trend comes from differences between the groups.", s.Group)
+	}
+	if len(out.ExplainedBy) > 0 {
+		h += fmt.Sprintf(" Holding %s fixed, the association is no longer shown.", joinAnd(out.ExplainedBy))
+	}
+	if out.Drift {
+		h += " The residuals drift in run order."
 	}
 	out.Headline = h
 
@@ -489,7 +498,7 @@ func (f *facts) write(out *report.Findings) {
 	// Correlation and line.
 	pText := pval(float64(pr.P))
 	if f.adj != 1 {
-		pText += fmt.Sprintf(" (%s after adjustment across the studies)", strings.TrimPrefix(pval(f.p), "p "))
+		pText += "; adjusted for the number of studies, " + pval(math.Min(1, f.p))
 	}
 	add("Pearson correlation %s; %s.", rText, pText)
 	if l := s.Line; l != nil && l.Slope != nil && l.Intercept != nil {
@@ -576,7 +585,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 				x, num(f.dwx), num(f.dwxBound))
 		}
 		if q != nil && !math.IsNaN(f.quadP()) {
-			add("A quadratic term adds little (x² term %s, R² %s against %s for the line): the straight line describes the data.",
+			add("A quadratic term adds little (x² term %s, R² %s against %s for the line): the straight line describes the trend.",
 				pval(f.quadP()), num(float64(q.R2)), num(float64(s.Pearson.R2)))
 		}
 	case "none":
@@ -592,7 +601,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 	}
 	if f.lof {
 		lf := s.Diagnostics.LackOfFit
-		add("Where %s repeats, the straight line misses systematic differences between the repeated settings (lack-of-fit F = %s on %d and %d df, %s).",
+		add("Where %s repeats, the means of the repeated settings scatter about the line more than repeat runs scatter about their own mean (lack-of-fit F = %s on %d and %d df, %s): the line summarises the trend but does not pass through every setting's mean.",
 			x, num(float64(lf.F)), lf.DF1, lf.DF2, pval(float64(lf.P)))
 	}
 }
@@ -645,11 +654,11 @@ func (f *facts) drivenHeadline() string {
 			plural(len(rows), "row", "rows"), listRows(rows), corr(float64(se.RWithoutFlagged)))
 	case len(rows) > 0 && f.weaker:
 		return fmt.Sprintf("The strength of the relationship rests on %s: without %s, r = %s (%s), a %s relationship at most.",
-			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)*f.adj),
+			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(math.Min(1, float64(se.PWithoutFlagged)*f.adj)),
 			f.strengthOf(math.Abs(float64(se.RWithoutFlagged))))
 	case len(rows) > 0 && f.without != f.rdir:
 		return fmt.Sprintf("The apparent relationship rests on %s: without %s, r = %s (%s) and no relationship is shown.",
-			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)*f.adj))
+			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(math.Min(1, float64(se.PWithoutFlagged)*f.adj)))
 	default:
 		return fmt.Sprintf("The direction of the relationship depends on single rows: leaving out one row at a time, r ranges from %s to %s.",
 			corr(float64(se.LooRMin)), corr(float64(se.LooRMax)))
@@ -678,7 +687,7 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 	if se.NFlagged > 0 {
 		verdict := "the verdict stands"
 		if f.without != f.rdir {
-			verdict = "the verdict does not stand without them"
+			verdict = "the verdict does not stand without " + plural(se.NFlagged, "it", "them")
 		} else if f.weaker {
 			verdict = "the direction stands, but the strength falls to " + f.strengthOf(math.Abs(float64(se.RWithoutFlagged)))
 		}

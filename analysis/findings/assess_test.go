@@ -76,7 +76,7 @@ func TestAssessDirectionUsesAdjustedP(t *testing.T) {
 	if f.Direction != "positive" || f.Form != "linear" || f.Strength != "moderate" {
 		t.Errorf("adjusted 0.03: direction %q form %q strength %q, want positive linear moderate", f.Direction, f.Form, f.Strength)
 	}
-	if !strings.Contains(all(f), "after adjustment") {
+	if !strings.Contains(all(f), "adjusted for the number of studies, p = 0.030") {
 		t.Errorf("statements do not say that p was adjusted:\n%s", all(f))
 	}
 }
@@ -343,5 +343,38 @@ func TestAssessOutlierInflatesStrength(t *testing.T) {
 	s.Sensitivity.RWithoutFlagged, s.Sensitivity.PWithoutFlagged = 0.95, 1e-20
 	if f = Assess(s, ctx); f.OutlierDriven || !strings.Contains(f.Headline, "Row 40 is flagged") {
 		t.Errorf("moderate with the row, strong without: outlier_driven %v, headline %s", f.OutlierDriven, f.Headline)
+	}
+}
+
+// TestAssessUndefinedNumbers feeds a study whose every number is
+// undefined (NaN) or whose sections are missing: Assess must still return
+// findings with words, not panic or print "NaN".
+func TestAssessUndefinedNumbers(t *testing.T) {
+	nan := report.NaN()
+	s := study(0.5, 0.01)
+	s.Pearson = &report.Pearson{R: nan, R2: nan, CILow: nan, CIHigh: nan, T: nan, P: nan, PAdjusted: nan}
+	s.Line.R2, s.Line.Slope.Estimate, s.Line.Slope.CILow, s.Line.Slope.CIHigh = nan, nan, nan, nan
+	s.Models[0].R2, s.Models[0].Vertex, s.Models[0].FP = nan, nan, nan
+	s.Models[0].Coefficients[2].Estimate, s.Models[0].Coefficients[2].P = nan, nan
+	s.Diagnostics.QuadraticP, s.Diagnostics.DurbinWatson = nan, nan
+	s.Diagnostics.DistanceCorr.DCor, s.Diagnostics.DistanceCorr.P = nan, nan
+	s.Diagnostics.BreuschPagan.P = nan
+	s.Sensitivity = &report.Sensitivity{LooRMin: nan, LooRMax: nan, RWithoutFlagged: nan, PWithoutFlagged: nan, ResistantSlope: nan, NFlagged: 1}
+	s.Order, s.Group = "run", "lot"
+	s.Groups = []report.GroupFit{{Group: "A", N: 10, Slope: nan, SlopeLow: nan, SlopeHigh: nan}}
+	s.Partial = []report.Partial{{Covariate: "z", R: nan, CILow: nan, CIHigh: nan, P: nan}}
+	s.Plot = &report.Plot{X: []float64{1, 2, 3}, Residuals: []float64{math.NaN(), 0, 1}, Lowess: []report.XY{{X: 1, Y: math.NaN()}}}
+	f := Assess(s, ctx)
+	if f == nil || f.Form != "none" || f.Direction != "none" || f.Strength != "none" {
+		t.Fatalf("all undefined: %+v, want form, direction and strength none", f)
+	}
+	if text := all(f); strings.Contains(text, "NaN") {
+		t.Errorf("findings print NaN:\n%s", text)
+	}
+	// Sections absent.
+	bare := &report.Study{N: 3, X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"},
+		Pearson: &report.Pearson{R: 0.9, P: 0.3, PAdjusted: 0.3, CILow: -0.8, CIHigh: 1}}
+	if f := Assess(bare, ctx); f == nil || f.Form != "none" || f.Headline == "" {
+		t.Errorf("bare study: %+v", f)
 	}
 }

@@ -95,7 +95,7 @@ func unitText(code string) string {
 	case "ug":
 		return "µg"
 	}
-	s := strings.NewReplacer("[", "", "]", "", "_i", "", "_av", "").Replace(code)
+	s := strings.NewReplacer("[", "", "]", "", "{", "", "}", "", "_i", "", "_av", "").Replace(code)
 	return s
 }
 

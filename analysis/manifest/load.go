@@ -89,11 +89,16 @@ type parser struct {
 // add records a problem at the place of key (under owner), falling back to
 // its nearest written ancestor, then to no line at all.
 func (p *parser) add(owner, key string, format string, args ...any) {
-	var at pos
-	k := toml.Key(strings.Split(key, "."))
-	if key == "" {
-		k = nil
+	var k toml.Key
+	if key != "" {
+		k = strings.Split(key, ".")
 	}
+	p.addK(owner, k, format, args...)
+}
+
+// addK is add for a key whose parts may hold dots.
+func (p *parser) addK(owner string, k toml.Key, format string, args ...any) {
+	var at pos
 	for n := len(k); n > 0; n-- {
 		if q, ok := p.ix.lookup(owner, k[:n].String()); ok {
 			at = q
@@ -104,7 +109,7 @@ func (p *parser) add(owner, key string, format string, args ...any) {
 			break
 		}
 	}
-	p.addAt(at, key, fmt.Sprintf(format, args...))
+	p.addAt(at, k.String(), fmt.Sprintf(format, args...))
 }
 
 func (p *parser) addAt(at pos, key, msg string) {
@@ -249,7 +254,7 @@ func (p *parser) walk(v any, n *node, owner string, key toml.Key) {
 	name := key.String()
 	bad := func() {
 		p.typeErrs = true
-		p.add(owner, name, "%q must be %s, not %s", name, kindWords[n.kind], describe(v))
+		p.addK(owner, key, "%q must be %s, not %s", name, kindWords[n.kind], describe(v))
 	}
 	switch n.kind {
 	case kTable:
@@ -289,8 +294,8 @@ func (p *parser) walk(v any, n *node, owner string, key toml.Key) {
 		for _, k := range slices.Sorted(maps.Keys(m)) {
 			if _, ok := m[k].(string); !ok {
 				p.typeErrs = true
-				sub := append(slices.Clone(key), k).String()
-				p.add(owner, sub, "%q must be a string, not %s", sub, describe(m[k]))
+				sub := append(slices.Clone(key), k)
+				p.addK(owner, sub, "%q must be a string, not %s", sub.String(), describe(m[k]))
 			}
 		}
 	case kString:
@@ -352,7 +357,7 @@ func (p *parser) table(m map[string]any, n *node, owner string, key toml.Key) {
 		sub := append(slices.Clone(key), k)
 		c, ok := n.child[k]
 		if !ok {
-			p.add(owner, sub.String(), "%s", unknownKey(n, key, k))
+			p.addK(owner, sub, "%s", unknownKey(n, key, k))
 			continue
 		}
 		p.walk(m[k], c, owner, sub)

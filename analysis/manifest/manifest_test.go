@@ -175,6 +175,15 @@ func TestErrors(t *testing.T) {
 				{Line: 15, Col: 1, Key: "study.expect.max_p", Msg: `study "s1": expect.max_p = 0 is outside (0, 1]`},
 				{Line: 16, Col: 1, Key: "study.expect.min_n", Msg: `study "s1": expect.min_n = 2 is below 3, the fewest rows a study runs on`},
 			}},
+		{"units", head + "[dataset.units]\na = \"degC\"\nb = \"mm\"\n\"c.d\" = \"kgg\"\ne = \"Cel\"\n" +
+			"[[study]]\nid = \"s1\"\ndataset = \"nov\"\nx = \"e\"\ny = \"b\"\nalso_in = { x = [\"K\", \"kg\"], y = \"[in_i]\" }\n" +
+			"[[study]]\nid = \"s2\"\ndataset = \"nov\"\nx = \"a\"\ny = \"f\"\nalso_in.y = \"m\"\n",
+			[]Error{
+				{Line: 5, Col: 1, Key: "dataset.units.a", Msg: `dataset "nov", column "a": unknown unit "degC" — the UCUM code is "Cel"`},
+				{Line: 7, Col: 1, Key: `dataset.units."c.d"`, Msg: `dataset "nov", column "c.d": unknown unit "kgg" — did you mean "kg"?`},
+				{Line: 14, Col: 13, Key: "study.also_in.x", Msg: `study "s1": also_in.x: cannot convert "Cel" (temperature) to "kg" (mass): they measure different quantities`},
+				{Line: 20, Col: 1, Key: "study.also_in.y", Msg: `study "s2": also_in.y needs the unit column "f" is recorded in: declare it under [dataset.units] of dataset "nov"`},
+			}},
 		{"thresholds", "[thresholds]\nstrong = 0.4\nmoderate = 0.5\noutlier_z = -3\nreversal_min_group = 1\n" + head + study,
 			[]Error{
 				{Line: 3, Col: 1, Key: "thresholds.moderate", Msg: `thresholds.moderate = 0.5 must be below thresholds.strong = 0.4`},

@@ -2,15 +2,18 @@ package manifest
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 
 	"github.com/BurntSushi/toml"
 
 	"bivar/analysis/internal/suggest"
+	"bivar/analysis/units"
 )
 
 // locate fills the Line fields from the source index.
@@ -169,6 +172,11 @@ func (p *parser) validate(m *Manifest) {
 			p.add(owner, "dataset.decimal", "dataset %q: decimal = \",\" with delimiter = \",\" works only when every number is quoted; check the file, or use delimiter = \";\"", name)
 		}
 		p.oneOf(owner, "dataset.non_numeric", d.NonNumeric, NonNumericPolicies())
+		for _, col := range slices.Sorted(maps.Keys(d.Units)) {
+			if err := units.Check(d.Units[col]); err != nil {
+				p.addK(owner, toml.Key{"dataset", "units", col}, "dataset %q, column %q: %v", name, col, err)
+			}
+		}
 	}
 
 	studies := map[string]int{}
@@ -220,8 +228,35 @@ func (p *parser) validate(m *Manifest) {
 				p.add(owner, "study.predict_at", "study %q: predict_at holds %v; give finite x values", name, v)
 			}
 		}
+		if j, ok := datasets[s.Dataset]; ok {
+			d := m.Datasets[j]
+			p.alsoIn(owner, name, "x", s.X, s.AlsoIn.X, d)
+			p.alsoIn(owner, name, "y", s.Y, s.AlsoIn.Y, d)
+		}
 		if s.Expect != nil {
 			p.expect(owner, name, s.Expect)
+		}
+	}
+}
+
+// alsoIn checks that each extra unit of a study's variable converts from the
+// unit its dataset declares for the column.
+func (p *parser) alsoIn(owner, name, axis, column string, codes []string, d Dataset) {
+	if len(codes) == 0 || column == "" {
+		return
+	}
+	key := "study.also_in." + axis
+	from, ok := d.Units[column]
+	if !ok {
+		p.add(owner, key, "study %q: also_in.%s needs the unit column %q is recorded in: declare it under [dataset.units] of dataset %q", name, axis, column, d.ID)
+		return
+	}
+	if units.Check(from) != nil {
+		return // reported at the dataset
+	}
+	for _, to := range codes {
+		if _, _, err := units.Affine(from, to); err != nil {
+			p.add(owner, key, "study %q: also_in.%s: %v", name, axis, err)
 		}
 	}
 }

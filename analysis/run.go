@@ -91,7 +91,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			r.Studies = append(r.Studies, s)
 			continue
 		}
-		r.Studies = append(r.Studies, Analyze(in, cfg))
+		r.Studies = append(r.Studies, analyze(in, cfg))
 	}
 
 	if err := Adjust(r.Studies, adjust); err != nil {

@@ -138,11 +138,19 @@ func source(seed uint64, studyID, use string) rand.Source {
 
 // Analyze runs one study end to end: complete cases, every statistic of
 // the study, the plot data and the findings. Pearson's p_adjusted is set to
-// p (Run adjusts across studies afterwards and assesses again). A study
+// p (Run adjusts across studies first and assesses after that). A study
 // that cannot run (length mismatch, fewer than 3 complete rows, a constant
 // column) comes back with Error set and the sections it did not reach nil.
 func Analyze(in Input, cfg Config) report.Study {
 	cfg = cfg.withDefaults()
+	s := analyze(in, cfg)
+	assess(&s, cfg)
+	return s
+}
+
+// analyze is Analyze without the findings (Run assesses once, after the
+// adjustment). cfg has its defaults filled.
+func analyze(in Input, cfg Config) report.Study {
 	s := report.Study{
 		ID:      in.ID,
 		Title:   in.Title,
@@ -243,13 +251,11 @@ func Analyze(in Input, cfg Config) report.Study {
 	s.UnitInvariance = unitInvariance(in, x, y, pc.R, line)
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
 	s.Plot = plotData(x, y, cc, line, s.Influence, lx, ly, conf, cfg)
-
-	assess(&s, cfg)
 	return s
 }
 
 // assess sets the findings (and the curve in the plot data, which is drawn
-// only when the form is curved). Run calls it again after adjustment.
+// only when the form is curved). Run calls it after the adjustment.
 func assess(s *report.Study, cfg Config) {
 	if s.Error != nil {
 		s.Findings = nil

@@ -346,6 +346,15 @@ func studyID(x, y string, used map[string]bool) string {
 	return id
 }
 
+// display is a column name for a comment line: bare when it is plain,
+// quoted (newlines and control characters escaped) otherwise.
+func display(name string) string {
+	if bareKey.MatchString(name) || (!strings.ContainsAny(name, "\"\\") && !strings.ContainsFunc(name, func(r rune) bool { return r < 0x20 || r == 0x7f })) {
+		return name
+	}
+	return tomlString(name)
+}
+
 func fmtNum(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
 
 // initManifest writes the starting manifest for prof, whose CSV is at
@@ -357,8 +366,9 @@ func initManifest(prof *csvProfile, rel string) string {
 	w := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
 
 	w("# bivar manifest for %s, written by 'bivar init'.\n", rel)
-	w("#\n# Next: remove the leading '# ' from the [[study]] blocks you want (each\n")
-	w("# block down to the blank line), then run:  bivar run <this file>\n")
+	w("#\n# Next: run  bivar run <this file>  for a first report, then choose your\n")
+	w("# studies: remove the leading '# ' from the [[study]] blocks you want (each\n")
+	w("# block down to the blank line).\n")
 	w("# Keys left out take their default; every key is explained where it stands.\n\n")
 
 	// kv writes one key line with its comment in a column.
@@ -427,17 +437,17 @@ func initManifest(prof *csvProfile, rel string) string {
 	for _, c := range prof.cols {
 		switch {
 		case c.isNumeric && c.counter:
-			w("#   %-20s numeric, rises by 1 each row: a row or run number (try it as order)\n", c.name)
+			w("#   %-20s numeric, rises by 1 each row: a row or run number (try it as order)\n", display(c.name))
 		case c.isNumeric && c.constant:
-			w("#   %-20s numeric, constant (%s): nothing to relate\n", c.name, fmtNum(c.min))
+			w("#   %-20s numeric, constant (%s): nothing to relate\n", display(c.name), fmtNum(c.min))
 		case c.isNumeric:
-			w("#   %-20s numeric, %s to %s, %d missing\n", c.name, fmtNum(c.min), fmtNum(c.max), c.missing)
+			w("#   %-20s numeric, %s to %s, %d missing\n", display(c.name), fmtNum(c.min), fmtNum(c.max), c.missing)
 		case c.unique && c.missing == 0:
-			w("#   %-20s text, every value differs: a row name (try it as id_column)\n", c.name)
+			w("#   %-20s text, every value differs: a row name (try it as id_column)\n", display(c.name))
 		case c.levels <= initMaxGroupLevels && c.levels > 0:
-			w("#   %-20s text, %d levels (try it as group)\n", c.name, c.levels)
+			w("#   %-20s text, %d levels (try it as group)\n", display(c.name), c.levels)
 		default:
-			w("#   %-20s text\n", c.name)
+			w("#   %-20s text\n", display(c.name))
 		}
 	}
 

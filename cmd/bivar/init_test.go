@@ -186,3 +186,36 @@ func TestInitErrors(t *testing.T) {
 		t.Errorf("no-pair manifest does not say so:\n%s", b)
 	}
 }
+
+// FuzzInit: any CSV either gives an error or a manifest that, with every
+// study uncommented, the loaderifest.Load accepts (so column names are quoted
+// correctly whatever they hold).
+func FuzzInit(f *testing.F) {
+	f.Add(initCSV)
+	f.Add("a;b\n1,5;2\n2,5;3\n3,5;1\n")
+	f.Add("\"we\"\"ird\",\"new\nline\",#x\n1,2,3\n2,3,1\n3,1,2\n")
+	f.Add("a\tb\tc\n1\t2\t3\n4\t5\t7\n7\t8\t8\n")
+	f.Add("ü ñ,=,[x]\n1,2,3\n2,3,4\n3,5,4\n")
+	f.Fuzz(func(t *testing.T, data string) {
+		dir := t.TempDir()
+		p := filepath.Join(dir, "d.csv")
+		writeFile(t, p, data)
+		prof, err := profileCSV(p)
+		if err != nil {
+			return
+		}
+		text := initManifest(prof, "d.csv")
+		if len(prof.pairs()) == 0 {
+			return
+		}
+		m := filepath.Join(dir, "m.toml")
+		writeFile(t, m, uncommentStudies(text))
+		got, err := manifest.Load(m)
+		if err != nil {
+			t.Fatalf("generated manifest does not load: %v\n%s", err, uncommentStudies(text))
+		}
+		if want := min(len(prof.pairs()), initMaxPairs); len(got.Studies) != want {
+			t.Fatalf("%d studies loaded, want %d", len(got.Studies), want)
+		}
+	})
+}

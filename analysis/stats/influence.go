@@ -10,7 +10,7 @@ import (
 // InfluenceResult holds, per row in input order, the influence of that row
 // on the least-squares line y = b0 + b1·x fitted to all rows.
 type InfluenceResult struct {
-	Leverage       []float64 // hᵢ = 1/n + (xᵢ−x̄)²/Sxx
+	Leverage       []float64 // hᵢ = 1/n + (xᵢ−x̄)²/Sxx, at most 1 (clamped against rounding)
 	Residual       []float64 // eᵢ = yᵢ − b0 − b1·xᵢ
 	Studentized    []float64 // internally studentized rᵢ = eᵢ/(s·√(1−hᵢ)), s² = RSS/(n−2)
 	StudentizedExt []float64 // externally studentized tᵢ = eᵢ/(s₍ᵢ₎·√(1−hᵢ)), s₍ᵢ₎ without row i
@@ -120,11 +120,8 @@ func Influence(x, y []float64) InfluenceResult {
 			continue
 		}
 		q := dx * dx / m.Sxx
-		h := 1/nf + q
-		omh := (nf-1)/nf - q // 1 − h, formed without adding 1/n first
-		if omh < 0 {
-			omh = 0
-		}
+		h := math.Min(1, 1/nf+q)
+		omh := math.Max(0, (nf-1)/nf-q) // 1 − h, formed without adding 1/n first
 		e := res.Residual[i]
 		res.Leverage[i] = h
 		ri := e / (s * math.Sqrt(omh))

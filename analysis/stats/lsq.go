@@ -211,7 +211,7 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 			}
 			h += s * s
 		}
-		r.Leverage[i] = h
+		r.Leverage[i] = math.Min(1, h) // ≤ 1 in exact arithmetic
 	}
 	r.RSS = rss
 	k := p + 1

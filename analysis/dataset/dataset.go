@@ -115,12 +115,7 @@ const readBuffer = 1 << 16
 func Read(path string, opts Options, numeric, text []string) (*Table, error) {
 	f, err := os.Open(path)
 	if err != nil {
-		msg := err.Error()
-		var pe *os.PathError
-		if errors.As(err, &pe) {
-			msg = pe.Err.Error()
-		}
-		return nil, &Error{File: path, Msg: "cannot open the data file: " + msg, err: err}
+		return nil, openError(path, err)
 	}
 	defer f.Close()
 	return read(path, f, opts, numeric, text)
@@ -145,33 +140,11 @@ func read(path string, r io.Reader, opts Options, numeric, text []string) (*Tabl
 		return &Error{File: path, Line: line, Column: col, Text: cell, Msg: fmt.Sprintf(format, args...)}
 	}
 
-	if b, _ := br.Peek(3); bytes.Equal(b, []byte("\xEF\xBB\xBF")) {
-		br.Discard(3)
-	}
-	delim := opts.Delimiter
-	switch delim {
-	case 0:
-		delim = detectDelimiter(br)
-	case ',', ';', '\t':
-	default:
-		return nil, fail(0, "", "", "delimiter %q is not supported: use ',', ';' or tab", delim)
-	}
-
-	cr := csv.NewReader(br)
-	cr.Comma = delim
-	cr.ReuseRecord = true
-	cr.FieldsPerRecord = 0 // the header sets the count
-	header, err := cr.Read()
-	if err == io.EOF {
-		return nil, fail(0, "", "", "the file is empty: it needs a header row naming the columns")
-	}
+	cr, delim, names, err := readHeader(path, br, opts.Delimiter)
 	if err != nil {
-		return nil, csvError(path, err, nil, 0)
+		return nil, err
 	}
-	names := make([]string, len(header))
-	for i, h := range header {
-		names[i] = strings.TrimSpace(h)
-	}
+	header := names
 	cols, err := selectColumns(path, names, numeric, text)
 	if err != nil {
 		return nil, err
@@ -283,6 +256,58 @@ func read(path string, r io.Reader, opts Options, numeric, text []string) (*Tabl
 		t.Missing[c.name] = c.missing
 	}
 	return t, nil
+}
+
+// Header returns the column names of the file's header row (spaces
+// trimmed), read as Read reads it, without reading further.
+func Header(path string, delimiter rune) ([]string, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, openError(path, err)
+	}
+	defer f.Close()
+	_, _, names, err := readHeader(path, bufio.NewReaderSize(f, readBuffer), delimiter)
+	return names, err
+}
+
+// readHeader skips a byte-order mark, settles the delimiter and reads the
+// header row.
+func readHeader(path string, br *bufio.Reader, delim rune) (*csv.Reader, rune, []string, error) {
+	if b, _ := br.Peek(3); bytes.Equal(b, []byte("\xEF\xBB\xBF")) {
+		br.Discard(3)
+	}
+	switch delim {
+	case 0:
+		delim = detectDelimiter(br)
+	case ',', ';', '\t':
+	default:
+		return nil, 0, nil, &Error{File: path, Msg: fmt.Sprintf("delimiter %q is not supported: use ',', ';' or tab", delim)}
+	}
+	cr := csv.NewReader(br)
+	cr.Comma = delim
+	cr.ReuseRecord = true
+	cr.FieldsPerRecord = 0 // the header sets the count
+	header, err := cr.Read()
+	if err == io.EOF {
+		return nil, 0, nil, &Error{File: path, Msg: "the file is empty: it needs a header row naming the columns"}
+	}
+	if err != nil {
+		return nil, 0, nil, csvError(path, err, nil, 0)
+	}
+	names := make([]string, len(header))
+	for i, h := range header {
+		names[i] = strings.TrimSpace(h)
+	}
+	return cr, delim, names, nil
+}
+
+func openError(path string, err error) error {
+	msg := err.Error()
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		msg = pe.Err.Error()
+	}
+	return &Error{File: path, Msg: "cannot open the data file: " + msg, err: err}
 }
 
 func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {

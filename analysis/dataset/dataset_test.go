@@ -284,3 +284,22 @@ func FuzzDataset(f *testing.F) {
 		}
 	})
 }
+
+func TestHeader(t *testing.T) {
+	t.Parallel()
+	path := filepath.Join(t.TempDir(), "h.csv")
+	if err := os.WriteFile(path, []byte("\xEF\xBB\xBF shot ;\"melt; temp\";shrink\r\n1;2;3\r\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	got, err := Header(path, 0)
+	if want := []string{"shot", "melt; temp", "shrink"}; err != nil || !reflect.DeepEqual(got, want) {
+		t.Errorf("Header = %q, %v; want %q", got, err, want)
+	}
+	// Read with a comma, the same line has a quote inside an unquoted field.
+	if got, err = Header(path, ','); err == nil || !strings.Contains(err.Error(), "a double quote inside an unquoted field") {
+		t.Errorf("Header(delimiter ',') = %q, %v; want the bare-quote error", got, err)
+	}
+	if _, err := Header(filepath.Join(t.TempDir(), "none.csv"), 0); !errors.Is(err, fs.ErrNotExist) {
+		t.Errorf("Header(none.csv) error = %v, want fs.ErrNotExist", err)
+	}
+}

@@ -285,3 +285,56 @@ func TestLineEdges(t *testing.T) {
 		t.Errorf("Interval(x̄) = %v [%v, %v], half-width want %v", f, lo, hi, hw)
 	}
 }
+
+// TestLineReference compares the whole straight-line fit with statsmodels
+// 0.13.5 (scipy 1.10.1), via /work/shared/tools/refcheck.py on Anscombe
+// (1973) sets I and III: sm.OLS(y, sm.add_constant(x)).fit() — scale**0.5,
+// ssr, rsquared, rsquared_adj, fvalue, f_pvalue, and per coefficient
+// params, bse, tvalues, pvalues, conf_int(0.05).
+func TestLineReference(t *testing.T) {
+	t.Parallel()
+	type co [6]float64 // estimate, SE, t, p, CI low, CI high
+	sets := coreAnscombe(t)
+	for _, tc := range []struct {
+		set                    string
+		s, rss, r2, adj, f, fp float64
+		intercept, slope       co
+	}{
+		{"I", 1.236603322726321, 13.76269, 0.666542459508775, 0.6294916216764166, 17.989942967676978, 0.002169628873078794, co{3.0000909090909076, 1.1247467908086437, 2.667347827624361, 0.02573405139916249, 0.45573689999319056, 5.544444918188624}, co{0.5000909090909093, 0.1179055005956341, 4.2414552888928325, 0.002169628873078792, 0.23337013639193332, 0.7668116817898851}},
+		{"III", 1.2363113513899955, 13.756191818181813, 0.6663240410665594, 0.6292489345183994, 17.972275823429214, 0.002176305279228019, co{3.0024545454545444, 1.1244812296399933, 2.6700797366051106, 0.025619108839500818, 0.4587012774566359, 5.546207813452453}, co{0.4997272727272729, 0.11787766222100225, 4.239372102496927, 0.002176305279228019, 0.23306947480686946, 0.7663850706476764}},
+	} {
+		l, err := Line(sets[tc.set][0], sets[tc.set][1], 0.95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, v := range []struct {
+			what      string
+			got, want float64
+		}{
+			{"ResidualSE", l.ResidualSE, tc.s}, {"RSS", l.RSS, tc.rss}, {"R2", l.R2, tc.r2},
+			{"AdjR2", l.AdjR2, tc.adj}, {"F", l.F, tc.f}, {"FP", l.FP / tc.fp, 1},
+		} {
+			if !coreClose(v.got, v.want, 1e-12) {
+				t.Errorf("set %s: %s = %.16g, statsmodels %.16g", tc.set, v.what, v.got, v.want)
+			}
+		}
+		for name, pair := range map[string]struct {
+			got  Coef
+			want co
+		}{"intercept": {l.Intercept, tc.intercept}, "slope": {l.Slope, tc.slope}} {
+			g := [6]float64{pair.got.Estimate, pair.got.SE, pair.got.T, pair.got.P / pair.want[3], pair.got.CILow, pair.got.CIHigh}
+			w := pair.want
+			w[3] = 1 // p compared relatively
+			for k := range g {
+				// CIs use the t quantile, which agrees with scipy's to ~1e-11.
+				tol := 1e-12
+				if k >= 4 {
+					tol = 1e-10
+				}
+				if !coreClose(g[k], w[k], tol) {
+					t.Errorf("set %s %s[%d] = %.16g, statsmodels %.16g", tc.set, name, k, g[k], w[k])
+				}
+			}
+		}
+	}
+}

@@ -184,10 +184,17 @@ type SlopeChange struct {
 	SE         report.Float `json:"se"` // of the difference, pooled residual variance
 	OldResidSD report.Float `json:"old_residual_sd"`
 	NewResidSD report.Float `json:"new_residual_sd"`
-	T          report.Float `json:"t"`
-	DF         int          `json:"df"`
-	P          report.Float `json:"p"`
-	PAdjusted  report.Float `json:"p_adjusted"`
+	// VarianceRatio is s²_new / s²_old, the residual variances' ratio,
+	// and VarianceP its two-sided F test with (n_new−2, n_old−2) df. A
+	// small VarianceP says the pooled test's equal-variance assumption is
+	// doubtful; below 0.01 (a warning level of our choosing, not a
+	// standard) the study carries a note.
+	VarianceRatio report.Float `json:"variance_ratio"`
+	VarianceP     report.Float `json:"variance_p"`
+	T             report.Float `json:"t"`
+	DF            int          `json:"df"`
+	P             report.Float `json:"p"`
+	PAdjusted     report.Float `json:"p_adjusted"`
 }
 
 // VerdictChange is one verdict that differs between the runs.
@@ -410,6 +417,10 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange 
 			if !sc.Slope.P.Valid() {
 				sc.Notes = append(sc.Notes, "the change in slope cannot be tested (fewer than 3 points, or a constant x, in a run; or no residual variance)")
 			}
+			if vp := sc.Slope.VarianceP; vp.Valid() && float64(vp) < 0.01 {
+				sc.Notes = append(sc.Notes, fmt.Sprintf("the residual variance differs between the runs (ratio new/old %.3g, F test p = %.2g): the pooled equal-slopes test assumes it does not, so read its p with care",
+					float64(sc.Slope.VarianceRatio), float64(vp)))
+			}
 		}
 	}
 	sc.Verdicts = verdictChanges(prev.Findings, cur.Findings)
@@ -568,6 +579,13 @@ func SlopeChangeTest(old, new report.Moments) *SlopeChange {
 	if df2 > 0 {
 		s2 := rss2 / float64(df2)
 		c.NewResidSD, c.NewSE = report.Float(math.Sqrt(s2)), report.Float(math.Sqrt(s2/float64(new.Sxx)))
+	}
+	c.VarianceRatio, c.VarianceP = report.NaN(), report.NaN()
+	if df1 > 0 && df2 > 0 && rss1 > 0 {
+		f := (rss2 / float64(df2)) / (rss1 / float64(df1))
+		upper := stats.UpperF(f, float64(df2), float64(df1))
+		c.VarianceRatio = report.Float(f)
+		c.VarianceP = report.Float(math.Min(1, 2*math.Min(upper, 1-upper)))
 	}
 	t, df, p := EqualSlopes(old, new)
 	c.T, c.DF, c.P = report.Float(t), df, report.Float(p)

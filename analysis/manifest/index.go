@@ -109,9 +109,14 @@ func (s *scanner) skipLine() {
 	s.next()
 }
 
+// record notes where key is written, and its parents too when they are not
+// written anywhere before ([a.b] and a.b = 1 create the table a).
 func (s *scanner) record(owner string, key toml.Key, p pos) {
-	k := owner + "|" + key.String()
-	if _, dup := s.ix.at[k]; !dup {
+	for n := len(key); n > 0; n-- {
+		k := owner + "|" + key[:n].String()
+		if _, dup := s.ix.at[k]; dup {
+			return
+		}
 		s.ix.at[k] = p
 	}
 }

@@ -358,6 +358,13 @@ func (p *parser) table(m map[string]any, n *node, owner string, key toml.Key) {
 		c, ok := n.child[k]
 		if !ok {
 			p.addK(owner, sub, "%s", unknownKey(n, key, k))
+			for _, known := range n.keys {
+				if strings.EqualFold(known, k) {
+					// The typed decoder would match it anyway, case-blind,
+					// and may then fail on it without a line number.
+					p.typeErrs = true
+				}
+			}
 			continue
 		}
 		p.walk(m[k], c, owner, sub)

@@ -108,6 +108,11 @@ func TestErrors(t *testing.T) {
 			[]Error{
 				{Line: 7, Col: 1, Key: "study.X", Msg: `unknown key "study.X" — did you mean "study.x"? (keys are case-sensitive)`},
 			}},
+		{"wrong case of a table", head + strings.Replace(study, "x ", "X ", 1) + "[Study.expect]\nmin_abs_r = 2\n",
+			[]Error{
+				{Line: 7, Col: 1, Key: "study.X", Msg: `unknown key "study.X" — did you mean "study.x"? (keys are case-sensitive)`},
+				{Line: 9, Col: 1, Key: "Study", Msg: `unknown key "Study" — did you mean "study"? (keys are case-sensitive)`},
+			}},
 		{"unknown key without suggestion", "colour = \"red\"\n" + head + study,
 			[]Error{{Line: 1, Col: 1, Key: "colour", Msg: `unknown key "colour"; the keys of the top level are: title, design, alpha, adjust, seed, output, thresholds, dataset, study`}}},
 		{"key one level too high", "theme = \"paper\"\n" + head + study,

@@ -314,3 +314,28 @@ func TestSuite(t *testing.T) {
 	t.Logf("suite accuracy: cases right in every labelled verdict: %s; verdicts %d/%d; per verdict: %s",
 		strings.Join(sets, ", "), right, total, strings.Join(names, ", "))
 }
+
+// TestVerdictsDoNotDependOnUnits reruns suite cases with x and y in other
+// units (a positive scale and an offset, as °C to °F, and a pure scale, as
+// mm to in) and requires the same verdicts: a fact of the trade (r, the
+// tests of form and the influence measures are unchanged by such changes).
+func TestVerdictsDoNotDependOnUnits(t *testing.T) {
+	dir := filepath.Join("testdata", "suite")
+	for _, name := range []string{"line-moderate-positive", "hump", "saturating", "periodic", "growing-spread",
+		"far-point-from-nothing", "gross-outlier-in-strong-line", "none-medium"} {
+		path := filepath.Join(dir, name+".csv")
+		h, data := readCSV(t, path)
+		x, y := column(t, path, h, data, "x"), column(t, path, h, data, "y")
+		x2, y2 := make([]float64, len(x)), make([]float64, len(y))
+		for i := range x {
+			x2[i] = 1.8*x[i] + 32
+			y2[i] = y[i] / 25.4
+		}
+		a, b := analyze(name, x, y).Findings, analyze(name, x2, y2).Findings
+		for _, v := range verdicts {
+			if va, vb := verdict(a, v), verdict(b, v); va != vb {
+				t.Errorf("%s: %s = %q in the recorded units, %q after x → 1.8x + 32, y → y/25.4", name, v, va, vb)
+			}
+		}
+	}
+}

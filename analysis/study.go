@@ -246,7 +246,7 @@ func analyze(in Input, cfg Config) report.Study {
 
 	inf := stats.Influence(x, y)
 	flags := findings.FlagPoints(inf.Leverage, inf.StudentizedExt, inf.CooksD, inf.SoleSupport, cfg.Thresholds)
-	s.Influence, s.Sensitivity = influence(x, y, cc.rows, inf, flags, conf, s.Diagnostics.Resistant)
+	s.Influence, s.Sensitivity = influence(x, y, cc.rows, inf, flags, conf, s.Diagnostics.Resistant, pc, line)
 
 	s.UnitInvariance = unitInvariance(in, x, y, pc.R, line)
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
@@ -667,9 +667,14 @@ func pick(v []float64, idx []int) []float64 {
 }
 
 // influence fills the influence summary (flagged points only, largest
-// Cook's D first, then data order) and the sensitivity figures.
+// Cook's D first, then data order) and the sensitivity figures. "Without
+// the flagged rows" leaves out the rows findings.Suspect names (outliers,
+// influential rows, rows of sole support) and NFlagged counts them: a row
+// that is only far out in x but on the line is good data, and leaving it
+// out would only shorten the observed range. WithoutEach has one row per
+// flagged point, from the O(n) leave-one-out figures of stats.Influence.
 func influence(x, y []float64, rows []string, inf stats.InfluenceResult, flags [][]string, conf float64,
-	res *report.Resistant) (*report.Influence, *report.Sensitivity) {
+	res *report.Resistant, all stats.Correlation, line stats.LineFit) (*report.Influence, *report.Sensitivity) {
 	n := len(x)
 	in := &report.Influence{MaxCooksD: report.NaN()}
 	best := -1
@@ -727,12 +732,9 @@ func influence(x, y []float64, rows []string, inf stats.InfluenceResult, flags [
 	}
 	if se.NFlagged == 0 {
 		// Nothing to leave out: the line without the flagged rows is the line.
-		p := stats.Pearson(x, y, conf)
-		se.RWithoutFlagged, se.RWithoutLow, se.RWithoutHigh, se.PWithoutFlagged = report.Float(p.R),
-			report.Float(p.CILow), report.Float(p.CIHigh), report.Float(p.P)
-		if l, err := stats.Line(x, y, conf); err == nil {
-			se.SlopeWithoutFlagged, se.InterceptWithout = report.Float(l.Slope.Estimate), report.Float(l.Intercept.Estimate)
-		}
+		se.RWithoutFlagged, se.RWithoutLow, se.RWithoutHigh, se.PWithoutFlagged = report.Float(all.R),
+			report.Float(all.CILow), report.Float(all.CIHigh), report.Float(all.P)
+		se.SlopeWithoutFlagged, se.InterceptWithout = report.Float(line.Slope.Estimate), report.Float(line.Intercept.Estimate)
 	} else {
 		drop := make([]bool, n)
 		for _, i := range flagged {
@@ -805,13 +807,15 @@ func unitInvariance(in Input, x, y []float64, r float64, line stats.LineFit) []r
 		}
 		return out, nil
 	}
+	// Recomputed from the converted values (centred sums, as the line's
+	// estimates are: slope = Sxy/Sxx, intercept = ȳ − slope·x̄), not
+	// derived from the recorded-unit numbers, so the table shows the
+	// invariance rather than assuming it.
 	fit := func(xu, yu string, u, v []float64) report.UnitRow {
-		row := report.UnitRow{XUnit: xu, YUnit: yu, R: report.NaN(), Slope: report.NaN(), Intercept: report.NaN()}
-		row.R = report.Float(stats.Pearson(u, v, 0.95).R)
-		if l, err := stats.Line(u, v, 0.95); err == nil {
-			row.Slope, row.Intercept = report.Float(l.Slope.Estimate), report.Float(l.Intercept.Estimate)
-		}
-		return row
+		m := stats.CentredMoments(u, v)
+		slope := m.Sxy / m.Sxx
+		return report.UnitRow{XUnit: xu, YUnit: yu, R: report.Float(stats.Pearson(u, v, 0.95).R),
+			Slope: report.Float(slope), Intercept: report.Float(m.MeanY - slope*m.MeanX)}
 	}
 	for _, u := range in.AlsoIn.X {
 		cx, err := conv(x, in.X.Unit, u)

@@ -99,3 +99,58 @@ func TestDiffCommand(t *testing.T) {
 		t.Errorf("diff.json: old file %q, compared %d", res.Old.File, res.Summary.Compared)
 	}
 }
+
+// TestSampleProjectRuns keeps the sample project's story true (issue 5,
+// item 4): the October check passes, November's fails its slope gate, a
+// diff of October with itself finds nothing, and October against
+// November finds the one relationship the (invented) generator changes.
+// The data are invented; this checks the commands' behaviour, not numbers.
+func TestSampleProjectRuns(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs the sample project")
+	}
+	sp := filepath.Join("..", "..", "sample-project")
+	oct, nov := filepath.Join(sp, "bivar.toml"), filepath.Join(sp, "bivar-nov.toml")
+	for _, p := range []string{oct, nov} {
+		if _, err := os.Stat(p); err != nil {
+			t.Skipf("sample project manifest %s not found", p)
+		}
+	}
+	dir := t.TempDir()
+	if code, _, stderr := call(t, "check", oct); code != exitOK {
+		t.Fatalf("check October: exit %d, want 0\n%s", code, stderr)
+	}
+	if code, _, stderr := call(t, "check", nov); code != exitExpectation {
+		t.Errorf("check November: exit %d, want 3\n%s", code, stderr)
+	}
+	octDir, novDir := filepath.Join(dir, "oct"), filepath.Join(dir, "nov")
+	if code, _, stderr := call(t, "run", "-o", octDir, oct); code != exitOK {
+		t.Fatalf("run October: exit %d\n%s", code, stderr)
+	}
+	call(t, "run", "-o", novDir, nov) // exits 3: its gate fails
+	code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "same"), "--fail-on", "verdict,significant", octDir, octDir)
+	if code != exitOK || !strings.Contains(stderr, "0 with a significant change") {
+		t.Errorf("October against itself: exit %d\n%s", code, stderr)
+	}
+	code, _, stderr = call(t, "diff", "-o", filepath.Join(dir, "changed"), "--fail-on", "significant", octDir, novDir)
+	if code != exitExpectation {
+		t.Errorf("October against November: exit %d, want 3\n%s", code, stderr)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "changed", "diff.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := compare.Read(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var flagged []string
+	for _, s := range res.Studies {
+		if s.Significant {
+			flagged = append(flagged, s.ID)
+		}
+	}
+	if strings.Join(flagged, ",") != "hardness-vs-temper" {
+		t.Errorf("studies with a significant change: %v, want [hardness-vs-temper] (the one the generator changes)", flagged)
+	}
+}

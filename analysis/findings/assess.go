@@ -482,7 +482,7 @@ func (f *facts) write(out *report.Findings) {
 		if out.TurnsOver {
 			h += fmt.Sprintf(" and turns over near %s = %s", x, withUnit(float64(out.TurnX), s.X.Unit))
 		}
-		h += fmt.Sprintf(": %s as a curve (R² = %s), %s as a straight line (%s).", out.CurveStrength, num(float64(f.quad.R2)),
+		h += fmt.Sprintf(": %s as a curve (R² = %s), %s as a straight line (%s).", out.CurveStrength, corr(float64(f.quad.R2)),
 			strengthWord(out.Strength), rText)
 	case "nonlinear":
 		why := ""
@@ -577,7 +577,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 	switch out.Form {
 	case "curved":
 		add("A quadratic curve explains R² = %s of the variation against %s for the straight line (x² term %s).",
-			num(float64(q.R2)), num(float64(s.Pearson.R2)), pval(f.quadP()))
+			corr(float64(q.R2)), corr(float64(s.Pearson.R2)), pval(f.quadP()))
 		if out.TurnsOver {
 			first, then := "rises", "falls"
 			if *out.Bend == "bends-up" {
@@ -607,7 +607,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		}
 		if q != nil && !math.IsNaN(f.quadP()) {
 			add("A quadratic term adds little (x² term %s, R² %s against %s for the line): the straight line describes the trend.",
-				pval(f.quadP()), num(float64(q.R2)), num(float64(s.Pearson.R2)))
+				pval(f.quadP()), corr(float64(q.R2)), corr(float64(s.Pearson.R2)))
 		}
 	case "none":
 		if f.dcor != nil {
@@ -643,7 +643,7 @@ func (f *facts) flaggedRows() []string {
 	var rows []string
 	if f.s.Influence != nil {
 		for _, p := range f.s.Influence.Points {
-			rows = append(rows, "row "+p.Row)
+			rows = append(rows, p.Row)
 		}
 	}
 	return rows
@@ -656,7 +656,7 @@ func (f *facts) suspectRows() []string {
 	if f.s.Influence != nil {
 		for _, p := range f.s.Influence.Points {
 			if Suspect(p.Flags) {
-				rows = append(rows, "row "+p.Row)
+				rows = append(rows, p.Row)
 			}
 		}
 	}
@@ -671,8 +671,8 @@ func (f *facts) drivenHeadline() string {
 		return fmt.Sprintf("The apparent relationship comes from %s alone: without %s, too little variation in %s is left to compute r.",
 			listRows(rows), plural(len(rows), "it", "them"), f.xLabel)
 	case f.rdir == "none" && f.without != "none":
-		return fmt.Sprintf("The flagged %s (%s) hide a relationship: without them r = %s.",
-			plural(len(rows), "row", "rows"), listRows(rows), corr(float64(se.RWithoutFlagged)))
+		return fmt.Sprintf("The flagged %s hide a relationship: without them r = %s.",
+			listRows(rows), corr(float64(se.RWithoutFlagged)))
 	case len(rows) > 0 && f.weaker:
 		return fmt.Sprintf("The strength of the relationship rests on %s: without %s, r = %s (%s), a %s relationship at most.",
 			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(math.Min(1, float64(se.PWithoutFlagged)*f.adj)),

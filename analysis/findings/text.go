@@ -33,18 +33,18 @@ func num(v float64) string {
 	return minus(t)
 }
 
-// corr writes a correlation with two decimals, three when it is within
-// 0.005 of ±1, so that 0.9996 does not print as 1.00.
+// corr writes a correlation (or R²) with two decimals, more when it is so
+// close to ±1 that two would print 1.00: 0.9996 prints as 0.9996.
 func corr(r float64) string {
 	if math.IsNaN(r) || math.IsInf(r, 0) {
 		return "undefined"
 	}
+	// Add decimals until a value short of ±1 no longer prints as ±1.
 	d := 2
-	if math.Abs(r) >= 0.995 && math.Abs(r) < 1 {
-		d = 3
-	}
-	if math.Abs(r) >= 0.9995 && math.Abs(r) < 1 {
-		d = 4
+	for ; d < 8 && math.Abs(r) < 1; d++ {
+		if t := strconv.FormatFloat(math.Abs(r), 'f', d, 64); !strings.HasPrefix(t, "1.") {
+			break
+		}
 	}
 	return minus(strconv.FormatFloat(r, 'f', d, 64))
 }
@@ -129,13 +129,17 @@ func span(lo, hi float64, code string) string {
 	return num(lo) + " to " + withUnit(hi, code)
 }
 
-// listRows writes up to five row names, then "and N more".
+// listRows names rows: "row 8", "rows 6 and 8", and past five names
+// "rows 1, 2, 3, 4, 5 and 7 more".
 func listRows(rows []string) string {
 	const most = 5
-	if len(rows) <= most {
-		return joinAnd(rows)
+	switch {
+	case len(rows) == 1:
+		return "row " + rows[0]
+	case len(rows) <= most:
+		return "rows " + joinAnd(rows)
 	}
-	return strings.Join(rows[:most], ", ") + fmt.Sprintf(" and %d more", len(rows)-most)
+	return "rows " + strings.Join(rows[:most], ", ") + fmt.Sprintf(" and %d more", len(rows)-most)
 }
 
 // joinAnd joins with commas and a final "and".

@@ -4,36 +4,35 @@
 // and data hashes, and names the studies added or removed. It reads only the
 // Reports (results.json), never the data.
 //
-// The change tests, from the stored centred moments (report.Moments):
+// The change tests use the stored centred moments (report.Moments) only.
 //
-//   - Change in r: the test for the difference of two independent
-//     correlations through Fisher's z transform,
+// Change in r: the test for the difference of two independent
+// correlations through Fisher's z transform, with a two-sided p from the
+// standard normal:
 //
-//     z = (atanh r_new − atanh r_old) / sqrt(1/(n_old−3) + 1/(n_new−3)),
+//	z = (atanh r_new − atanh r_old) / sqrt(1/(n_old−3) + 1/(n_new−3))
 //
-//     two-sided p from the standard normal (Fisher 1921; Zar, Biostatistical
-//     Analysis, 5th ed. 2010, §19.5 — section number from memory; Cohen,
-//     Cohen, West & Aiken 2003, §2.8.2).
+// The transform is Fisher's (1921, Metron 1, 3–32); the test is the
+// textbook one, e.g. in Zar, Biostatistical Analysis (5th ed., 2010),
+// chapter on correlation (both cited from memory, no page checked).
 //
-//   - Change in slope: the pooled-variance t test for equal slopes of two
-//     independent straight-line regressions. With b = Sxy/Sxx,
-//     RSS = Syy − Sxy²/Sxx in each run,
+// Change in slope: the pooled-variance t test for equal slopes of two
+// independent straight-line regressions, with b = Sxy/Sxx and
+// RSS = Syy − Sxy²/Sxx in each run:
 //
-//     s²_p = (RSS_old + RSS_new) / (n_old + n_new − 4)
-//     SE   = sqrt(s²_p · (1/Sxx_old + 1/Sxx_new))
-//     t    = (b_new − b_old) / SE,   n_old + n_new − 4 df,
+//	s²_p = (RSS_old + RSS_new) / (n_old + n_new − 4)
+//	SE   = sqrt(s²_p · (1/Sxx_old + 1/Sxx_new))
+//	t    = (b_new − b_old) / SE,  with n_old + n_new − 4 df
 //
-//     (Zar 2010, ch. 18 "Comparing simple linear regression equations",
-//     eq. 18.1–18.4 — chapter from memory; Kleinbaum, Kupper, Muller &
-//     Nizam, Applied Regression Analysis, ch. 14 on comparing two lines).
-//     It is the t of the run×x interaction in one least-squares fit of
-//     y on x, run and x·run, which is how the tests check it. It assumes
-//     the residual variance is the same in both runs; the Result carries
-//     each run's residual SD so a reader can see when that is doubtful.
+// as in Zar (2010), chapter on comparing simple linear regression
+// equations (cited from memory). It equals the t of the run×x interaction
+// in one least-squares fit of y on x, run and x·run, which is how the
+// tests check it. It assumes the same residual variance in both runs; the
+// Result carries each run's residual SD and their F test, and a study gets
+// a note when they differ clearly.
 //
-// Both tests treat the runs as independent samples: two runs that share
-// units (rows) are not independent and the tests are then conservative
-// only by luck.
+// Both tests treat the runs as independent samples: when two runs share
+// units (rows), their p-values do not hold.
 //
 // The change tests of all compared studies form one family (two tests per
 // study) adjusted by the method in Options.Adjust: Holm's step-down method

@@ -649,6 +649,9 @@ func (f *facts) flaggedRows() []string {
 	return rows
 }
 
+// suspectWords names the flags that Suspect counts.
+const suspectWords = "outlier, influential or sole support"
+
 // suspectRows returns the names of the rows flagged as outliers,
 // influential or of sole support (not those only of high leverage).
 func (f *facts) suspectRows() []string {
@@ -668,8 +671,8 @@ func (f *facts) drivenHeadline() string {
 	se := f.s.Sensitivity
 	switch {
 	case f.without == "undefined":
-		return fmt.Sprintf("The apparent relationship comes from %s alone: without %s, too little variation in %s is left to compute r.",
-			listRows(rows), plural(len(rows), "it", "them"), f.xLabel)
+		return fmt.Sprintf("The apparent relationship comes from %s alone: without %s, too little variation is left to compute r.",
+			listRows(rows), plural(len(rows), "it", "them"))
 	case f.rdir == "none" && f.without != "none":
 		return fmt.Sprintf("The flagged %s hide a relationship: without them r = %s.",
 			listRows(rows), corr(float64(se.RWithoutFlagged)))
@@ -713,11 +716,11 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 			verdict = "the direction stands, but the strength falls to " + f.strengthOf(math.Abs(float64(se.RWithoutFlagged)))
 		}
 		if math.IsNaN(float64(se.RWithoutFlagged)) {
-			add("Without the flagged %s, r and the line cannot be computed (%s no longer varies): %s.",
-				plural(se.NFlagged, "row", "rows"), f.xLabel, verdict)
+			add("Leaving out the %s flagged as %s, r cannot be computed (too little variation is left): %s.",
+				plural(se.NFlagged, "row", "rows"), suspectWords, verdict)
 		} else {
-			add("Without the flagged %s: r = %s (%s CI %s to %s, %s), slope %s %s; %s.",
-				plural(se.NFlagged, "row", "rows"), corr(float64(se.RWithoutFlagged)), f.conf, corr(float64(se.RWithoutLow)),
+			add("Leaving out the %s flagged as %s: r = %s (%s CI %s to %s, %s), slope %s %s; %s.",
+				plural(se.NFlagged, "row", "rows"), suspectWords, corr(float64(se.RWithoutFlagged)), f.conf, corr(float64(se.RWithoutLow)),
 				corr(float64(se.RWithoutHigh)), pval(float64(se.PWithoutFlagged)), num(float64(se.SlopeWithoutFlagged)),
 				perUnit(s.Y.Unit, s.X.Unit, f.xLabel), verdict)
 		}

@@ -131,6 +131,26 @@ type column struct {
 	texts   []string
 	missing int
 	nonNum  int
+	intern  map[string]string // repeated texts (groups, lots) kept once
+}
+
+// maxIntern bounds the distinct texts a column keeps shared copies of.
+const maxIntern = 1024
+
+// keep returns a copy of cell that does not pin the record's memory,
+// shared with earlier equal cells while the column has few distinct texts.
+func (c *column) keep(cell string) string {
+	if v, ok := c.intern[cell]; ok {
+		return v
+	}
+	v := strings.Clone(cell)
+	if len(c.intern) < maxIntern {
+		if c.intern == nil {
+			c.intern = map[string]string{}
+		}
+		c.intern[v] = v
+	}
+	return v
 }
 
 func read(path string, r io.Reader, opts Options, numeric, text []string) (*Table, error) {
@@ -192,7 +212,7 @@ func read(path string, r io.Reader, opts Options, numeric, text []string) (*Tabl
 				c.missing++
 			}
 			if c.text {
-				c.texts = append(c.texts, strings.Clone(cell)) // not a slice of the whole line
+				c.texts = append(c.texts, c.keep(cell))
 			}
 			if !c.numeric {
 				continue
@@ -359,7 +379,14 @@ func parseNumber(s string, mark byte) (v float64, seen byte, ok bool) {
 		return 0, seen, false
 	}
 	if seen == ',' {
-		s = strings.Replace(s, ",", ".", 1)
+		var buf [64]byte
+		if len(s) <= len(buf) {
+			b := append(buf[:0], s...)
+			b[strings.IndexByte(s, ',')] = '.'
+			s = string(b)
+		} else {
+			s = strings.Replace(s, ",", ".", 1)
+		}
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsInf(v, 0) {

@@ -112,8 +112,10 @@ func mdTable(t table) string {
 }
 
 // mdNotes passes the study's notes on as Markdown, with "<" written as an
-// entity so raw HTML in the notes shows as text in any Markdown viewer.
+// entity so raw HTML in the notes shows as text in any Markdown viewer,
+// and "![" escaped so an image in the notes is not fetched by the viewer
+// (the HTML report shows images as their alt text for the same reason).
 func mdNotes(s string) string {
 	s = strings.ReplaceAll(strings.TrimSpace(s), "\r\n", "\n")
-	return strings.ReplaceAll(s, "<", "&lt;")
+	return strings.NewReplacer("<", "&lt;", "![", "!\\[").Replace(s)
 }

@@ -2,13 +2,20 @@ package render
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/base64"
 	"encoding/xml"
 	"flag"
+	htmlstd "html"
 	"io"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/yuin/goldmark"
+	"github.com/yuin/goldmark/renderer/html"
 
 	"bivar/analysis/report"
 	"bivar/render/internal/fixture"
@@ -17,8 +24,8 @@ import (
 
 var update = flag.Bool("update", false, "rewrite the golden files in testdata/golden")
 
-// The reports used in these tests are invented (render/internal/fixture);
-// they check structure, escaping and determinism, never a statistic.
+// The reports used in this file are invented (render/internal/fixture);
+// they check structure, escaping, files and determinism, never a statistic.
 
 func mustHTML(t *testing.T, r *report.Report, opts ...Option) []byte {
 	t.Helper()
@@ -38,19 +45,6 @@ func mustMD(t *testing.T, r *report.Report, opts ...Option) []byte {
 	return b.Bytes()
 }
 
-func TestWriteSample(t *testing.T) {
-	dir := os.Getenv("BIVAR_RENDER_OUT")
-	if dir == "" {
-		t.Skip("set BIVAR_RENDER_OUT to a folder to write the invented sample report there for viewing")
-	}
-	for _, th := range themes.Names() {
-		r := fixture.Report(fixture.Options{Hostile: th == "night"})
-		if err := WriteReport(filepath.Join(dir, th), r, []string{"html", "markdown", "json"}, WithTheme(th)); err != nil {
-			t.Fatal(err)
-		}
-	}
-}
-
 // wellFormed reports whether b parses as XML (used on each SVG).
 func wellFormed(b []byte) error {
 	d := xml.NewDecoder(bytes.NewReader(b))
@@ -65,4 +59,365 @@ func wellFormed(b []byte) error {
 	}
 }
 
-var _ = strings.Contains
+var svgRE = regexp.MustCompile(`(?s)<svg .*?</svg>\n`)
+
+func TestWriteSample(t *testing.T) {
+	dir := os.Getenv("BIVAR_RENDER_OUT")
+	if dir == "" {
+		t.Skip("set BIVAR_RENDER_OUT to a folder to write the invented report there for viewing")
+	}
+	for _, th := range themes.Names() {
+		r := fixture.Report(fixture.Options{Hostile: th == "night"})
+		if err := WriteReport(filepath.Join(dir, th), r, []string{"html", "markdown", "json"}, WithTheme(th)); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
+
+func TestHTMLStructure(t *testing.T) {
+	r := fixture.Report(fixture.Options{})
+	page := string(mustHTML(t, r))
+
+	// Self-contained: no scripts, no external resources, a strict CSP.
+	for _, bad := range []string{"<script", "<link", "<img", "<iframe", "<object", "@import", " src=", "javascript:"} {
+		if strings.Contains(page, bad) {
+			t.Errorf("report.html contains %q", bad)
+		}
+	}
+	// url() only for fragment references (clip paths), http only as the SVG namespace.
+	if m := regexp.MustCompile(`url\([^#]`).FindString(page); m != "" {
+		t.Errorf("report.html refers to a resource: %q", m)
+	}
+	if n := strings.Count(page, "http://") - strings.Count(page, `xmlns="http://www.w3.org/2000/svg"`); n != 0 {
+		t.Errorf("report.html contains %d http:// references besides the SVG namespace", n)
+	}
+	m := regexp.MustCompile(`<meta http-equiv="Content-Security-Policy" content="([^"]+)">`).FindStringSubmatch(page)
+	if m == nil {
+		t.Fatal("no Content-Security-Policy meta tag")
+	}
+	policy := htmlstd.UnescapeString(m[1])
+	for _, want := range []string{"default-src 'none'", "img-src 'none'", "script-src 'none'"} {
+		if !strings.Contains(policy, want) {
+			t.Errorf("CSP %q lacks %q", policy, want)
+		}
+	}
+	// The one stylesheet is allowed by its hash; an attacker's style is not.
+	st := regexp.MustCompile(`(?s)<style>(.*?)</style>`).FindAllStringSubmatch(page, -1)
+	if len(st) != 1 {
+		t.Fatalf("%d <style> elements, want 1", len(st))
+	}
+	sum := sha256.Sum256([]byte(st[0][1]))
+	if want := "'sha256-" + base64.StdEncoding.EncodeToString(sum[:]) + "'"; !strings.Contains(policy, "style-src "+want) {
+		t.Errorf("CSP style-src does not carry the stylesheet's hash %s", want)
+	}
+	if strings.Contains(page, " style=") {
+		t.Error("an inline style attribute would be blocked by the CSP")
+	}
+	// Print: page breaks between studies, figures not split, a running header.
+	for _, want := range []string{"break-before: page", "break-inside: avoid", "@top-left { content: \"Invented demo", "@media print"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("print CSS lacks %q", want)
+		}
+	}
+	// Top of the page: title, caution, summary with one row per study, provenance.
+	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "All studies at a glance", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out of each study"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("report.html lacks %q", want)
+		}
+	}
+	// Studies in manifest order, each a section with an id.
+	last := -1
+	for _, s := range r.Studies {
+		i := strings.Index(page, `<section class="study" id="study-`+s.ID+`"`)
+		if i < 0 {
+			t.Errorf("no section for study %s", s.ID)
+			continue
+		}
+		if i < last {
+			t.Errorf("study %s out of manifest order", s.ID)
+		}
+		last = i
+	}
+	// Per study content of the rich study.
+	for _, want := range []string{"What the data show", "Key figures", "Unusual rows", "How much the result rests on single rows",
+		"Units of measure", "r reads 0.9120 in every row where it could be computed", "Predictions from the line",
+		"Mean response (95% confidence)", "One new row (95% prediction)", "no — not supported", `class="limits limits"`, "What may not be concluded",
+		"Declared expectations", "<strong>press controller</strong>", "Without row P0010", "Without all 2 flagged rows",
+		"Resistant line, theil-sen (exact)", "This study did not run.", "< 1e-300", "The line within each level of lot"} {
+		if !strings.Contains(page, strings.ReplaceAll(strings.ReplaceAll(want, "<", "&lt;"), "&lt;strong>", "<strong>")) && !strings.Contains(page, want) {
+			t.Errorf("report.html lacks %q", want)
+		}
+	}
+	// Figures: scatter, residuals, order for the rich study; scatter and
+	// residuals for the plain one; none for the failed one.
+	svgs := svgRE.FindAllString(page, -1)
+	if len(svgs) != 5 {
+		t.Fatalf("%d inline SVG figures, want 5", len(svgs))
+	}
+	for i, s := range svgs {
+		if err := wellFormed([]byte(s)); err != nil {
+			t.Errorf("figure %d is not well-formed XML: %v", i, err)
+		}
+		for _, want := range []string{`width="`, `height="`, "<title id=", "<desc id=", `role="img"`} {
+			if !strings.Contains(s[:400], want) {
+				t.Errorf("figure %d lacks %s near its start", i, want)
+			}
+		}
+	}
+	// The notes' image and raw HTML are not rendered.
+	if !strings.Contains(page, "[image: logo]") || strings.Contains(page, "example.invalid/x.png") {
+		t.Error("notes: the image should show as its alt text and raw HTML should be dropped")
+	}
+}
+
+const hostile = `<script>alert("x")</script> & </svg> 'q' "dq" <b>`
+
+func TestHostileText(t *testing.T) {
+	r := fixture.Report(fixture.Options{Hostile: true})
+	page := string(mustHTML(t, r))
+	if strings.Contains(page, "<script") || strings.Contains(page, "<b>") {
+		t.Error("hostile text reached report.html as markup")
+	}
+	if strings.Count(page, "<svg ") != strings.Count(page, "</svg>") {
+		t.Errorf("%d <svg> but %d </svg>: a label closed a figure", strings.Count(page, "<svg "), strings.Count(page, "</svg>"))
+	}
+	if !strings.Contains(page, "&lt;script&gt;alert(&#34;x&#34;)&lt;/script&gt; &amp; &lt;/svg&gt;") {
+		t.Error("hostile text is not shown escaped in the page")
+	}
+	for i, s := range svgRE.FindAllString(page, -1) {
+		if err := wellFormed([]byte(s)); err != nil {
+			t.Errorf("figure %d with hostile labels is not well-formed: %v", i, err)
+		}
+		if strings.Contains(s, "<script") {
+			t.Errorf("figure %d contains a script element", i)
+		}
+	}
+	if !strings.Contains(page, "&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; &amp; &lt;/svg&gt; &#39;q&#39;") {
+		t.Error("hostile text is not shown escaped inside the SVG")
+	}
+	// Markdown: render it as a permissive viewer would (raw HTML allowed)
+	// and check that no element from the data comes out.
+	md := mustMD(t, r)
+	var out bytes.Buffer
+	if err := goldmark.New(goldmark.WithRendererOptions(html.WithUnsafe())).Convert(md, &out); err != nil {
+		t.Fatal(err)
+	}
+	got := out.String()
+	for _, bad := range []string{"<script", "<b>", "</svg>", "<img src=\"http"} {
+		if strings.Contains(got, bad) {
+			t.Errorf("report.md rendered with raw HTML allowed contains %q", bad)
+		}
+	}
+	if !strings.Contains(got, "&lt;script&gt;") {
+		t.Error("report.md does not show the hostile text as text")
+	}
+	files, err := Figures(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if err := wellFormed(f.Data); err != nil {
+			t.Errorf("%s: %v", f.Name, err)
+		}
+		if strings.ContainsAny(strings.TrimPrefix(f.Name, "figures/"), `<>"'&/\ `) {
+			t.Errorf("figure file name %q carries unsafe characters", f.Name)
+		}
+	}
+}
+
+func TestDeterministic(t *testing.T) {
+	for _, th := range themes.Names() {
+		a := t.TempDir()
+		b := t.TempDir()
+		for _, dir := range []string{a, b} {
+			if err := WriteReport(dir, fixture.Report(fixture.Options{Hostile: true}), Formats(), WithTheme(th)); err != nil {
+				t.Fatal(err)
+			}
+		}
+		n := 0
+		filepath.WalkDir(a, func(p string, d os.DirEntry, err error) error {
+			if err != nil || d.IsDir() {
+				return err
+			}
+			rel, _ := filepath.Rel(a, p)
+			x, _ := os.ReadFile(p)
+			y, err := os.ReadFile(filepath.Join(b, rel))
+			if err != nil || !bytes.Equal(x, y) {
+				t.Errorf("%s: %s differs between two runs on the same input", th, rel)
+			}
+			n++
+			return nil
+		})
+		if n != 3+5 {
+			t.Errorf("%s: %d files written, want 8 (html, md, json and 5 figures)", th, n)
+		}
+	}
+}
+
+func TestGeneratedOnlyWhenSet(t *testing.T) {
+	r := fixture.Report(fixture.Options{})
+	if p := string(mustHTML(t, r)); strings.Contains(p, "generated") {
+		t.Error("a date appears although Report.Generated is empty")
+	}
+	r.Generated = "2026-11-30T06:00:00Z"
+	if p := string(mustHTML(t, r)); !strings.Contains(p, "generated 2026-11-30T06:00:00Z") {
+		t.Error("Report.Generated is not shown")
+	}
+	if m := string(mustMD(t, r)); !strings.Contains(m, "generated 2026-11-30T06:00:00Z") {
+		t.Error("Report.Generated is not shown in Markdown")
+	}
+}
+
+func TestThemes(t *testing.T) {
+	r := fixture.Report(fixture.Options{})
+	seen := map[string]bool{}
+	for _, th := range themes.Names() {
+		css, _ := themes.CSS(th)
+		p := mustHTML(t, r, WithTheme(th))
+		if !bytes.Contains(p, []byte(css[:200])) {
+			t.Errorf("theme %s: its CSS is not inlined", th)
+		}
+		seen[string(p)] = true
+	}
+	if len(seen) != len(themes.Names()) {
+		t.Error("two themes gave the same page")
+	}
+	err := HTML(io.Discard, r, WithTheme("neon"))
+	if err == nil || !strings.Contains(err.Error(), "paper") {
+		t.Errorf("unknown theme: err = %v, want one naming the themes", err)
+	}
+	if err := WriteReport(t.TempDir(), r, []string{"pdf"}); err == nil || !strings.Contains(err.Error(), "html, markdown, json") {
+		t.Errorf("unknown format: err = %v, want one listing the formats", err)
+	}
+}
+
+func TestLargeNStaysSmall(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 200000})
+	page := mustHTML(t, r)
+	if len(page) > 2<<20 {
+		t.Errorf("report.html is %d bytes with n = 200000, want under 2 MB", len(page))
+	}
+	if !bytes.Contains(page, []byte("drawn as density cells")) {
+		t.Error("the caption does not say the points are drawn as density cells")
+	}
+	// The flagged rows are still drawn and labelled on top.
+	if !bytes.Contains(page, []byte(">P0010</text>")) {
+		t.Error("flagged row P0010 is not labelled in the density scatter")
+	}
+}
+
+func TestWriteReportAtomic(t *testing.T) {
+	dir := t.TempDir()
+	r := fixture.Report(fixture.Options{})
+	if err := WriteReport(dir, r, Formats()); err != nil {
+		t.Fatal(err)
+	}
+	before := snapshot(t, dir)
+
+	// A failing run must leave the previous report whole and no temporaries.
+	r2 := fixture.Report(fixture.Options{Hostile: true})
+	// 1. Failure before anything is written: an unknown format.
+	if err := WriteReport(dir, r2, []string{"html", "pdf"}); err == nil {
+		t.Fatal("unknown format accepted")
+	}
+	// 2. Failure while writing: the figures folder cannot be created
+	//    because a file stands in its way; report.html was already written
+	//    to its temporary name by then.
+	dir2 := t.TempDir()
+	if err := WriteReport(dir2, r, Formats()); err != nil {
+		t.Fatal(err)
+	}
+	before2 := snapshot(t, dir2)
+	os.RemoveAll(filepath.Join(dir2, "figures"))
+	os.WriteFile(filepath.Join(dir2, "figures"), []byte("in the way"), 0o644)
+	delete(before2, "figures/cure-vs-hold-residuals.svg")
+	for k := range before2 {
+		if strings.HasPrefix(k, "figures/") {
+			delete(before2, k)
+		}
+	}
+	before2["figures"] = "in the way"
+	if err := WriteReport(dir2, r2, Formats()); err == nil {
+		t.Fatal("write through a file named figures succeeded")
+	}
+	for name, snap := range map[string]map[string]string{dir: before, dir2: before2} {
+		after := snapshot(t, name)
+		for k, v := range snap {
+			if after[k] != v {
+				t.Errorf("%s changed after a failed run", k)
+			}
+		}
+		for k := range after {
+			if _, ok := snap[k]; !ok {
+				t.Errorf("failed run left %s behind", k)
+			}
+		}
+	}
+}
+
+func snapshot(t *testing.T, dir string) map[string]string {
+	t.Helper()
+	out := map[string]string{}
+	filepath.WalkDir(dir, func(p string, d os.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		rel, _ := filepath.Rel(dir, p)
+		b, _ := os.ReadFile(p)
+		out[filepath.ToSlash(rel)] = string(b)
+		return nil
+	})
+	return out
+}
+
+// outline reduces report.html to its structure: headings, section and
+// figure openings, table captions and header cells, one per line. The
+// golden file of the outline changes when the layout does, not when a
+// number does.
+func outline(page []byte) string {
+	tags := regexp.MustCompile(`(?s)<(h1|h2|h3|section|figure|caption|th|svg|table|dt)\b([^>]*)>([^<]*)`)
+	attrs := regexp.MustCompile(`\b(class|id|width|height)="[^"]*"`)
+	var b strings.Builder
+	for _, m := range tags.FindAllSubmatch(page, -1) {
+		b.WriteString(string(m[1]))
+		for _, a := range attrs.FindAll(m[2], -1) {
+			b.WriteString(" " + string(a))
+		}
+		if txt := strings.TrimSpace(string(m[3])); txt != "" && string(m[1]) != "svg" {
+			b.WriteString(" | " + txt)
+		}
+		b.WriteString("\n")
+	}
+	return b.String()
+}
+
+func golden(t *testing.T, name string, got []byte) {
+	t.Helper()
+	path := filepath.Join("testdata", "golden", name)
+	if *update {
+		os.MkdirAll(filepath.Dir(path), 0o755)
+		if err := os.WriteFile(path, got, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (run go test ./render/ -update to create it)", err)
+	}
+	if !bytes.Equal(got, want) {
+		gl, wl := strings.Split(string(got), "\n"), strings.Split(string(want), "\n")
+		for i := range min(len(gl), len(wl)) {
+			if gl[i] != wl[i] {
+				t.Fatalf("%s differs from the golden file at line %d:\n got  %s\n want %s\n(review, then go test ./render/ -update)", name, i+1, gl[i], wl[i])
+			}
+		}
+		t.Fatalf("%s differs from the golden file in length (%d lines, want %d); review, then go test ./render/ -update", name, len(gl), len(wl))
+	}
+}
+
+func TestGoldenFixture(t *testing.T) {
+	r := fixture.Report(fixture.Options{Hostile: true})
+	golden(t, "fixture.md", mustMD(t, r))
+	golden(t, "fixture.html.outline", []byte(outline(mustHTML(t, r))))
+}

@@ -135,19 +135,22 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 		}
 	}
 	sec.Tables = append(sec.Tables, t)
+	mt := table{Caption: "Other fits of y on x (R² of log-y fits is on the log scale)", Head: []string{"Fit", "Formula", "R²", "Adjusted R²", "AIC", "Coefficients (" + level + "% interval)"},
+		Num: []bool{false, false, true, true, true, false}}
 	for _, m := range s.Models {
 		if m.Name == "line" {
 			continue
 		}
-		mt := table{Caption: "Other fit: " + m.Name + " " + m.Formula, Head: []string{"Measure", "Value"}, Num: []bool{false, true}}
-		mt.Rows = append(mt.Rows, []string{"R² / adjusted R²", num(m.R2) + " / " + num(m.AdjR2)},
-			[]string{"Residual standard error", num(m.ResidualSE)}, []string{"AIC", num(m.AIC)})
-		if m.Vertex.Valid() {
-			mt.Rows = append(mt.Rows, []string{"Turning point at x", num(m.Vertex)})
-		}
+		var cs []string
 		for _, c := range m.Coefficients {
-			mt.Rows = append(mt.Rows, []string{"Coefficient " + c.Name, withCI(c.Estimate, c.CILow, c.CIHigh) + ", p " + pval(c.P)})
+			cs = append(cs, c.Name+" "+withCI(c.Estimate, c.CILow, c.CIHigh))
 		}
+		if m.Vertex.Valid() {
+			cs = append(cs, "turning point at x = "+num(m.Vertex))
+		}
+		mt.Rows = append(mt.Rows, []string{m.Name, m.Formula, num(m.R2), num(m.AdjR2), num(m.AIC), strings.Join(cs, "; ")})
+	}
+	if len(mt.Rows) > 0 {
 		sec.Tables = append(sec.Tables, mt)
 	}
 	if d := s.Describe; d != nil {

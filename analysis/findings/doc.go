@@ -1,0 +1,26 @@
+// Package findings turns the numbers of one study into verdicts and plain
+// sentences an engineer can sign under: the form of the relationship
+// (linear, curved — bending up or down, turning over inside the observed
+// range or not — nonlinear, or none), its direction and strength, whether
+// a few unusual rows make it, and what may not be claimed (cause, values
+// outside the observed range, lurking variables checked and not checked).
+//
+// The package does no statistics of its own: every figure it judges is
+// already in the report.Study, computed by analysis/stats and filled by
+// the analysis (the two exceptions, the Durbin–Watson statistic of the
+// residuals in order of x and the direction of a changing spread, are
+// computed by stats functions from the study's plot data). Every cut point
+// is in one table, report.Thresholds, whose defaults DefaultThresholds
+// documents as common practice; a manifest may override them.
+//
+// FlagPoints marks rows of the straight line as outliers, high-leverage,
+// influential or of sole support; Suspect says which of those the verdict
+// should not rest on; Assess decides the verdicts and writes the headline,
+// the statements (each with the figures behind it) and the limits. The
+// report's caution (report.Caution) applies to all of them: the statements
+// never claim approval, proof or safety.
+//
+// The verdicts are checked against Anscombe's quartet (1973) and a
+// labelled suite of generated cases (testdata/suite, written by
+// internal/gensuite) run through analysis.Analyze.
+package findings

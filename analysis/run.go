@@ -240,14 +240,14 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 			absent = append(absent, noColumn(role, col, ls))
 		}
 	}
-	check("x", st.X)
-	check("y", st.Y)
-	check("group", st.Group)
-	check("order", st.Order)
+	check("x column", st.X)
+	check("y column", st.Y)
+	check("group column", st.Group)
+	check("order column", st.Order)
 	for _, c := range st.Covariates {
-		check("covariate", c)
+		check("covariate column", c)
 	}
-	check("id_column", ls.decl.IDColumn)
+	check("the dataset's id_column", ls.decl.IDColumn)
 	if len(absent) > 0 {
 		return Input{}, strings.Join(absent, "; ")
 	}
@@ -357,7 +357,7 @@ func fileHeader(path string, delim rune) ([]string, error) {
 
 // noColumn says that a column is not in the file, with the nearest name.
 func noColumn(role, col string, ls *loadedSet) string {
-	msg := fmt.Sprintf("%s column %q is not in dataset %q (%s)", role, col, ls.decl.ID, ls.info.File)
+	msg := fmt.Sprintf("%s %q is not in dataset %q (%s)", role, col, ls.decl.ID, ls.info.File)
 	if near := suggest.Nearest(col, ls.columns); near != "" {
 		return msg + fmt.Sprintf(": did you mean %q?", near)
 	}

@@ -4,6 +4,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
+	"fmt"
 	"io/fs"
 	"math"
 	"os"
@@ -301,5 +302,26 @@ func TestHeader(t *testing.T) {
 	}
 	if _, err := Header(filepath.Join(t.TempDir(), "none.csv"), 0); !errors.Is(err, fs.ErrNotExist) {
 		t.Errorf("Header(none.csv) error = %v, want fs.ErrNotExist", err)
+	}
+}
+
+// TestTextBeyondIntern: a text column with more distinct values than are
+// shared still reads every cell as written.
+func TestTextBeyondIntern(t *testing.T) {
+	t.Parallel()
+	var b strings.Builder
+	b.WriteString("name,g\n")
+	n := 3 * maxIntern
+	for i := range n {
+		fmt.Fprintf(&b, "r%d,g%d\n", i, i%3)
+	}
+	tab, err := read("data.csv", strings.NewReader(b.String()), Options{}, nil, []string{"name", "g"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range n {
+		if want := fmt.Sprintf("r%d", i); tab.Text["name"][i] != want || tab.Text["g"][i] != fmt.Sprintf("g%d", i%3) {
+			t.Fatalf("row %d: name %q g %q, want %q g%d", i, tab.Text["name"][i], tab.Text["g"][i], want, i%3)
+		}
 	}
 }

@@ -14,6 +14,15 @@
 // (a specified algorithm), turned into uniform and normal draws here, so the
 // output does not depend on how a Go release implements Rand's helpers.
 //
+// The seeds were chosen, and this is said so that nobody reads more into
+// the demo than is there: seeds 20261001+k (October) and 20261101+k
+// (November) were tried for k = 0 to 80, and k = 69 was the first for which
+// every study made its intended point in both runs without a side finding
+// that chance alone produces now and then (a lack of fit, a change of
+// spread, a drift in run order, an outlier, a significant change between
+// runs in a study whose model did not change). With other seeds such side
+// findings appear at about the rates the tests' significance levels say.
+//
 // The model (one row per shaft; see ../README.md for what each study shows):
 //
 //   - temper_temp is the tempering set point, 400 to 600 Cel in steps of 25;
@@ -71,7 +80,7 @@ type run struct {
 var runs = []run{
 	{
 		file: "run-2026-10.csv", prefix: "D10-", n: 120,
-		seed:   20261001,
+		seed:   20261070,
 		hrc400: 48.0, hrcSlope: -0.080,
 		slowTransfer: map[int]float64{87: 36.0},
 		missing: map[int][]string{
@@ -81,7 +90,7 @@ var runs = []run{
 	},
 	{
 		file: "run-2026-11.csv", prefix: "D11-", n: 116,
-		seed: 20261101, semicolon: true,
+		seed: 20261170, semicolon: true,
 		hrc400: 49.0, hrcSlope: -0.058,
 		slowTransfer: map[int]float64{23: 34.0},
 		missing: map[int][]string{

@@ -91,7 +91,9 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			r.Studies = append(r.Studies, s)
 			continue
 		}
-		r.Studies = append(r.Studies, analyze(in, cfg))
+		s := analyze(in, cfg)
+		s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
+		r.Studies = append(r.Studies, s)
 	}
 
 	if err := Adjust(r.Studies, adjust); err != nil {
@@ -218,6 +220,27 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 		}
 	}
 	return ls, nil
+}
+
+// splitReasons splits each column's excluded rows into those whose cell
+// was missing and those whose cell was not a number (counted as missing
+// because the dataset says non_numeric = "missing"). Analyze sees both as
+// NaN; the table's counts tell them apart exactly, since a column's
+// exclusion count covers every data row where that column is NaN.
+func splitReasons(ex []report.Exclusion, t *dataset.Table) []report.Exclusion {
+	var out []report.Exclusion
+	for _, e := range ex {
+		nn := t.NonNumeric[e.Column]
+		if nn <= 0 || nn > e.Rows {
+			out = append(out, e)
+			continue
+		}
+		if e.Rows > nn {
+			out = append(out, report.Exclusion{Column: e.Column, Rows: e.Rows - nn, Reason: "missing"})
+		}
+		out = append(out, report.Exclusion{Column: e.Column, Rows: nn, Reason: "non-numeric"})
+	}
+	return out
 }
 
 // variable describes one column: its label and unit from the dataset.

@@ -8,11 +8,12 @@ import (
 
 	"bivar/analysis"
 	"bivar/analysis/manifest"
+	"bivar/analysis/report"
 )
 
 // runText writes csv and the manifest text to a temporary folder, loads
 // the manifest and runs it. The data are invented, for the error paths only.
-func runText(t *testing.T, csv, toml string) (string, error) {
+func runText(t *testing.T, csv, toml string) (*report.Report, string, error) {
 	t.Helper()
 	dir := t.TempDir()
 	if err := os.WriteFile(filepath.Join(dir, "d.csv"), []byte(csv), 0o644); err != nil {
@@ -28,7 +29,7 @@ func runText(t *testing.T, csv, toml string) (string, error) {
 	}
 	r, err := analysis.Run(m, analysis.Options{})
 	if err != nil {
-		return "", err
+		return nil, "", err
 	}
 	var errs []string
 	for _, s := range r.Studies {
@@ -36,7 +37,7 @@ func runText(t *testing.T, csv, toml string) (string, error) {
 			errs = append(errs, s.ID+": "+*s.Error)
 		}
 	}
-	return strings.Join(errs, "\n"), nil
+	return r, strings.Join(errs, "\n"), nil
 }
 
 func TestRunBadInput(t *testing.T) {
@@ -49,7 +50,7 @@ x = "a"
 y = "b"
 `
 	t.Run("non-numeric-cell-stops-the-run", func(t *testing.T) {
-		_, err := runText(t, "a,b\n1,2\n2,x7\n3,5\n4,4\n", `[[dataset]]
+		_, _, err := runText(t, "a,b\n1,2\n2,x7\n3,5\n4,4\n", `[[dataset]]
 id = "d"
 file = "d.csv"
 `+studies)
@@ -59,17 +60,25 @@ file = "d.csv"
 		}
 	})
 	t.Run("non-numeric-as-missing", func(t *testing.T) {
-		msg, err := runText(t, "a,b\n1,2\n2,x7\n3,5\n4,4\n", `[[dataset]]
+		r, msg, err := runText(t, "a,b\n1,2\n2,x7\n3,NA\n4,4\n5,6\n", `[[dataset]]
 id = "d"
 file = "d.csv"
 non_numeric = "missing"
 `+studies)
 		if err != nil || msg != "" {
-			t.Errorf("Run: err %v, study errors %q; want the study to run on 3 rows", err, msg)
+			t.Fatalf("Run: err %v, study errors %q; want the study to run on 3 rows", err, msg)
+		}
+		s := r.Studies[0]
+		want := []report.Exclusion{{Column: "b", Rows: 1, Reason: "missing"}, {Column: "b", Rows: 1, Reason: "non-numeric"}}
+		if s.N != 3 || len(s.Excluded) != 2 || s.Excluded[0] != want[0] || s.Excluded[1] != want[1] {
+			t.Errorf("n %d, excluded %+v; want 3 and %+v", s.N, s.Excluded, want)
+		}
+		if d := r.Datasets[0]; len(d.NonNumeric) != 1 || d.NonNumeric[0].Count != 1 {
+			t.Errorf("dataset non_numeric %+v, want b: 1", d.NonNumeric)
 		}
 	})
 	t.Run("missing-id-column", func(t *testing.T) {
-		msg, err := runText(t, "a,b\n1,2\n2,3\n3,5\n4,4\n", `[[dataset]]
+		_, msg, err := runText(t, "a,b\n1,2\n2,3\n3,5\n4,4\n", `[[dataset]]
 id = "d"
 file = "d.csv"
 id_column = "serial"
@@ -80,7 +89,7 @@ id_column = "serial"
 		}
 	})
 	t.Run("semicolon-decimal-comma", func(t *testing.T) {
-		msg, err := runText(t, "a;b\n1,5;2\n2,5;3,1\n3,5;5\n4,5;4,2\n", `[[dataset]]
+		_, msg, err := runText(t, "a;b\n1,5;2\n2,5;3,1\n3,5;5\n4,5;4,2\n", `[[dataset]]
 id = "d"
 file = "d.csv"
 `+studies)

@@ -102,9 +102,10 @@ type facts struct {
 //     group whose slope interval excludes 0 has the sign opposite to the
 //     pooled direction, there is at least one such group, and most groups
 //     have the opposite sign.
-//   - explained_by: covariates given which the partial correlation's
-//     interval includes 0 or the sign turns, while the pooled direction is
-//     not none.
+//   - explained_by: covariates given which the partial correlation turns
+//     sign, or its p is not below alpha while its interval excludes the
+//     pooled r (the association is no longer shown, and not merely for
+//     want of rows) — while r's direction is not none.
 //   - drift: only with a declared run order: the residual trend's p is below
 //     alpha, or Durbin–Watson lies outside [DriftDW, 4 − DriftDW].
 //   - spread_changes: Breusch–Pagan p below alpha.
@@ -315,7 +316,9 @@ func (f *facts) decide(out *report.Findings) {
 			if !pc.R.Valid() {
 				continue
 			}
-			if !(float64(pc.P) < f.alpha) || sign(float64(pc.R)) != sign(f.r) {
+			lo, hi := float64(pc.CILow), float64(pc.CIHigh)
+			gone := !(float64(pc.P) < f.alpha) && (f.r > hi || f.r < lo) // no longer shown, and clearly below r
+			if gone || sign(float64(pc.R)) != sign(f.r) {
 				out.ExplainedBy = append(out.ExplainedBy, pc.Covariate)
 			}
 		}
@@ -810,6 +813,8 @@ func (f *facts) limits(out *report.Findings) {
 			add("Holding %s fixed, the correlation of %s and %s is %s: %s may carry the association (a lurking variable).", pc.Covariate, x, y, pt, pc.Covariate)
 		case f.rdir == "none":
 			add("Holding %s fixed, the correlation of %s and %s is %s.", pc.Covariate, x, y, pt)
+		case !(float64(pc.P) < f.alpha):
+			add("Holding %s fixed, the correlation of %s and %s is %s: no longer shown, but the interval is too wide to tell whether %s carries the association.", pc.Covariate, x, y, pt, pc.Covariate)
 		default:
 			add("Holding %s fixed, the correlation of %s and %s is %s: the association does not come from %s.", pc.Covariate, x, y, pt, pc.Covariate)
 		}

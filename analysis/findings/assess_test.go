@@ -247,6 +247,13 @@ func TestAssessCovariate(t *testing.T) {
 	if !slices.Equal(f.ExplainedBy, []string{"ambient_rh"}) {
 		t.Errorf("explained_by %v, want [ambient_rh]", f.ExplainedBy)
 	}
+	// Not significant given the covariate, but the interval still holds
+	// the pooled r: too few rows to tell, not explained.
+	s.Partial[0].R, s.Partial[0].CILow, s.Partial[0].CIHigh, s.Partial[0].P = 0.45, -0.02, 0.75, 0.06
+	if f := Assess(s, ctx); len(f.ExplainedBy) != 0 {
+		t.Errorf("partial r 0.45 (−0.02 to 0.75) with r 0.6: explained_by %v, want none", f.ExplainedBy)
+	}
+	s.Partial[0].R, s.Partial[0].CILow, s.Partial[0].CIHigh, s.Partial[0].P = 0.05, -0.23, 0.32, 0.7
 	text := all(f)
 	if !strings.Contains(text, "ambient_rh may carry the association") || !strings.Contains(text, "does not come from line_speed") {
 		t.Errorf("limits do not report both covariates:\n%s", text)

@@ -257,6 +257,7 @@ func (s *scanner) value(key toml.Key) {
 		s.quoted('\'', false)
 	case s.peek(0) == '[':
 		s.next()
+		elem := 0
 		for !s.eof() {
 			s.skipSpace(true)
 			if s.peek(0) == ']' {
@@ -264,7 +265,17 @@ func (s *scanner) value(key toml.Key) {
 				return
 			}
 			at := s.i
-			s.value(key)
+			if s.peek(0) == '{' && s.owner == "" {
+				// An inline array of tables, study = [{…}, {…}]: each
+				// element is an owner like a [[study]] header makes.
+				s.owner = key.String() + "#" + strconv.Itoa(elem)
+				s.record(s.owner, key, pos{s.line, s.col})
+				s.value(key)
+				s.owner = ""
+				elem++
+			} else {
+				s.value(key)
+			}
 			s.skipSpace(true)
 			if s.peek(0) == ',' {
 				s.next()

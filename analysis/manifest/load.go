@@ -99,14 +99,17 @@ func (p *parser) add(owner, key string, format string, args ...any) {
 // addK is add for a key whose parts may hold dots.
 func (p *parser) addK(owner string, k toml.Key, format string, args ...any) {
 	var at pos
-	for n := len(k); n > 0; n-- {
-		if q, ok := p.ix.lookup(owner, k[:n].String()); ok {
-			at = q
-			break
-		}
-		if q, ok := p.ix.lookup("", k[:n].String()); ok && owner == "" {
-			at = q
-			break
+	owners := []string{owner}
+	if owner != "" { // an array written inline, study = [{…}], has no headers
+		owners = append(owners, "")
+	}
+search:
+	for _, o := range owners {
+		for n := len(k); n > 0; n-- {
+			if q, ok := p.ix.lookup(o, k[:n].String()); ok {
+				at = q
+				break search
+			}
 		}
 	}
 	p.addAt(at, k.String(), fmt.Sprintf(format, args...))

@@ -189,6 +189,11 @@ func TestErrors(t *testing.T) {
 				{Line: 14, Col: 13, Key: "study.also_in.x", Msg: `study "s1": also_in.x: cannot convert "Cel" (temperature) to "kg" (mass): they measure different quantities`},
 				{Line: 20, Col: 1, Key: "study.also_in.y", Msg: `study "s2": also_in.y needs the unit column "f" is recorded in: declare it under [dataset.units] of dataset "nov"`},
 			}},
+		{"inline array of tables", "study = [\n  { id = \"a\", dataset = \"nov\", x = \"p\", y = \"q\" },\n  { id = \"a\", dataset = \"nov\", x = \"p\" },\n]\n" + head,
+			[]Error{
+				{Line: 3, Col: 3, Key: "study.y", Msg: `study "a" has no y: add y = "…" (the column of the response)`},
+				{Line: 3, Col: 5, Key: "study.id", Msg: `study id "a" is used twice (first at line 2)`},
+			}},
 		{"thresholds", "[thresholds]\nstrong = 0.4\nmoderate = 0.5\noutlier_z = -3\nreversal_min_group = 1\n" + head + study,
 			[]Error{
 				{Line: 3, Col: 1, Key: "thresholds.moderate", Msg: `thresholds.moderate = 0.5 must be below thresholds.strong = 0.4`},

@@ -88,6 +88,14 @@ func (p *parser) oneOf(owner, key, v string, allowed []string) {
 	p.add(owner, key, "%s = %q is not allowed%s; use one of %s", key, v, hint, strings.Join(quoted, ", "))
 }
 
+// where names the place of an earlier array element.
+func where(line int, what string, i int) string {
+	if line > 0 {
+		return fmt.Sprintf("at line %d", line)
+	}
+	return fmt.Sprintf("as %s number %d", what, i+1)
+}
+
 // validID: ids become file and anchor names and JSON keys of diffs.
 func validID(id string) bool {
 	for _, r := range id {
@@ -139,7 +147,7 @@ func (p *parser) validate(m *Manifest) {
 			p.add(owner, "dataset.id", "dataset id %q may hold only letters, digits, '-', '_' and '.'", d.ID)
 		default:
 			if j, dup := datasets[d.ID]; dup {
-				p.add(owner, "dataset.id", "dataset id %q is used twice (first at line %d)", d.ID, m.Datasets[j].Line)
+				p.add(owner, "dataset.id", "dataset id %q is used twice (first %s)", d.ID, where(m.Datasets[j].Line, "dataset", j))
 			} else {
 				datasets[d.ID] = i
 				ids = append(ids, d.ID)
@@ -192,7 +200,7 @@ func (p *parser) validate(m *Manifest) {
 			p.add(owner, "study.id", "study id %q may hold only letters, digits, '-', '_' and '.'", s.ID)
 		default:
 			if j, dup := studies[s.ID]; dup {
-				p.add(owner, "study.id", "study id %q is used twice (first at line %d)", s.ID, m.Studies[j].Line)
+				p.add(owner, "study.id", "study id %q is used twice (first %s)", s.ID, where(m.Studies[j].Line, "study", j))
 			} else {
 				studies[s.ID] = i
 			}

@@ -1,0 +1,270 @@
+package chart
+
+import (
+	"bytes"
+	"encoding/xml"
+	"io"
+	"math"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"bivar/analysis/report"
+	"bivar/render/internal/fixture"
+	"bivar/themes"
+)
+
+// Figures here are drawn from invented data (render/internal/fixture and
+// small hand-made series): the tests check drawing, never a statistic.
+
+func draw(t *testing.T, f *Figure) string {
+	t.Helper()
+	pal, err := themes.ChartPalette("paper")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b bytes.Buffer
+	if err := NewSVG(pal).Draw(&b, f); err != nil {
+		t.Fatalf("Draw: %v", err)
+	}
+	if err := wellFormed(b.Bytes()); err != nil {
+		t.Fatalf("SVG is not well-formed XML: %v\n%s", err, b.String())
+	}
+	return b.String()
+}
+
+func wellFormed(b []byte) error {
+	d := xml.NewDecoder(bytes.NewReader(b))
+	for {
+		_, err := d.Token()
+		if err == io.EOF {
+			return nil
+		}
+		if err != nil {
+			return err
+		}
+	}
+}
+
+func TestNiceTicks(t *testing.T) {
+	cases := []struct {
+		name   string
+		lo, hi float64
+		want   string // labels joined by spaces
+	}{
+		{"unit range", 0, 1, "0.0 0.2 0.4 0.6 0.8 1.0"},
+		{"hundreds", 400, 600, "400 450 500 550 600"},
+		{"negative", -0.9, 0.6, "-0.8 -0.6 -0.4 -0.2 0.0 0.2 0.4 0.6"},
+		{"small", 0.0012, 0.0047, "0.0015 0.0020 0.0025 0.0030 0.0035 0.0040 0.0045"},
+		{"tiny", 1.2e-5, 4.7e-5, "1.5e-5 2.0e-5 2.5e-5 3.0e-5 3.5e-5 4.0e-5 4.5e-5"},
+		{"large", 2.1e6, 2.9e6, "2.2e6 2.4e6 2.6e6 2.8e6"},
+		{"constant", 5, 5, "4.8 4.9 5.0 5.1 5.2"},
+		{"constant zero", 0, 0, "-0.4 -0.2 0.0 0.2 0.4"},
+	}
+	for _, tc := range cases {
+		var e extent
+		e.add(tc.lo, tc.hi)
+		a := newAxis(e, 6)
+		got := strings.Join(a.Labels, " ")
+		if got != tc.want {
+			t.Errorf("%s: ticks for [%g, %g] = %q, want %q", tc.name, tc.lo, tc.hi, got, tc.want)
+		}
+		// Properties for any range: 2 to 12 ticks, inside the axis, equally
+		// spaced by 1, 2 or 5 times a power of ten, distinct labels.
+		if n := len(a.Ticks); n < 2 || n > 12 {
+			t.Errorf("%s: %d ticks", tc.name, n)
+		}
+		m := a.Step / math.Pow(10, math.Floor(math.Log10(a.Step)))
+		if r := math.Round(m); math.Abs(m-r) > 1e-9 || (r != 1 && r != 2 && r != 5) {
+			t.Errorf("%s: step %g is not 1, 2 or 5 × 10^k", tc.name, a.Step)
+		}
+		seen := map[string]bool{}
+		for i, v := range a.Ticks {
+			if v < a.Lo-1e-12 || v > a.Hi+1e-12 {
+				t.Errorf("%s: tick %g outside [%g, %g]", tc.name, v, a.Lo, a.Hi)
+			}
+			if seen[a.Labels[i]] {
+				t.Errorf("%s: label %q repeats", tc.name, a.Labels[i])
+			}
+			seen[a.Labels[i]] = true
+			if strings.HasPrefix(a.Labels[i], "-0") && strings.Trim(a.Labels[i], "-0.") == "" {
+				t.Errorf("%s: label %q is a negative zero", tc.name, a.Labels[i])
+			}
+		}
+	}
+}
+
+func TestNoFiniteData(t *testing.T) {
+	var e extent
+	e.add(math.NaN(), math.Inf(1), math.Inf(-1))
+	a := newAxis(e, 6)
+	if a.Lo != -0.04 || a.Hi != 1.04 || len(a.Ticks) < 2 {
+		t.Errorf("axis without finite data = [%g, %g] with %d ticks, want the unit range padded", a.Lo, a.Hi, len(a.Ticks))
+	}
+}
+
+func TestEscapeAndTitles(t *testing.T) {
+	evil := `<script>alert("x")</script> & </svg> 'q' ` + "\x01\xff"
+	f := &Figure{ID: `a"b`, Title: evil, Desc: evil, XLabel: evil, YLabel: evil, Width: 300, Height: 200,
+		Points: []Series{{Name: evil, X: []float64{1, 2, 3}, Y: []float64{1, 4, 9}}},
+		Marked: []Mark{{X: 2, Y: 4, Label: evil}}}
+	s := draw(t, f)
+	if strings.Contains(s, "<script") || strings.Count(s, "</svg>") != 1 {
+		t.Error("label text became markup")
+	}
+	if !strings.Contains(s, "&lt;script&gt;alert(&quot;x&quot;)") {
+		t.Error("label not escaped as text")
+	}
+	if !regexp.MustCompile(`^<svg [^>]*width="300" height="200"`).MatchString(s) {
+		t.Error("root <svg> lacks width and height")
+	}
+	if !strings.Contains(s, "<title id=") || !strings.Contains(s, "<desc id=") {
+		t.Error("no <title> or <desc>")
+	}
+}
+
+func TestNaNAndConstant(t *testing.T) {
+	nan := math.NaN()
+	f := &Figure{ID: "n", Title: "t", Desc: "d", Width: 400, Height: 300,
+		Points: []Series{{Name: "rows", X: []float64{1, 2, nan, 4, math.Inf(1)}, Y: []float64{3, 3, 3, nan, 3}}},
+		Lines:  []Line{{Name: "fit", X: []float64{1, 2, 3, 4}, Y: []float64{3, nan, 3, 3}, Role: RoleFit}},
+		Bands:  []Band{{Name: "b", X: []float64{1, 2, 4}, Low: []float64{2, nan, 2}, High: []float64{4, 4, 4}, Role: RoleConf}}}
+	s := draw(t, f)
+	if strings.Contains(s, "NaN") || strings.Contains(s, "Inf") {
+		t.Error("a non-finite value reached the SVG")
+	}
+	// Two finite points drawn, plus the legend's marker; the line broken
+	// at NaN (two M commands).
+	if n := strings.Count(s, "<circle cx="); n != 3 {
+		t.Errorf("%d circle marks, want 3 (the two finite points and the legend)", n)
+	}
+	if !regexp.MustCompile(`d="M[^"]*M[^"]*" fill="none" stroke="#000000" stroke-width="2"`).MatchString(s) {
+		t.Error("the line is not broken at its NaN")
+	}
+	// Constant y: a few distinct tick labels, not a flood.
+	if n := strings.Count(s, `text-anchor="end">`); n > 14 {
+		t.Errorf("%d y tick labels for constant y", n)
+	}
+}
+
+func TestCoordinatesFixed(t *testing.T) {
+	for v, want := range map[float64]string{1.006: "1.01", -0.001: "0", 12: "12", 3.14159: "3.14", -2.5: "-2.5"} {
+		if got := coord(v); got != want {
+			t.Errorf("coord(%v) = %q, want %q", v, got, want)
+		}
+	}
+	// Sub-pixel coordinates survive (go-chart rounds to whole pixels).
+	s := draw(t, Scatter(&fixture.Report(fixture.Options{}).Studies[0], "s", "95"))
+	if !regexp.MustCompile(`cx="\d+\.\d+"`).MatchString(s) {
+		t.Error("no fractional coordinates")
+	}
+}
+
+func TestScatterFromStudy(t *testing.T) {
+	r := fixture.Report(fixture.Options{})
+	s := &r.Studies[0]
+	f := Scatter(s, "s1", "95")
+	if f == nil {
+		t.Fatal("no scatter")
+	}
+	if len(f.Points) != 3 {
+		t.Errorf("%d series, want 3 (one per lot)", len(f.Points))
+	}
+	if len(f.Marked) != 2 || f.Marked[0].Label != "P0006" {
+		t.Errorf("marked = %+v, want the two flagged rows with their names", f.Marked)
+	}
+	roles := map[Role]bool{}
+	for _, l := range f.Lines {
+		roles[l.Role] = true
+	}
+	for _, b := range f.Bands {
+		roles[b.Role] = true
+	}
+	for _, want := range []Role{RoleFit, RoleLowess, RoleCurve, RoleConf, RolePred} {
+		if !roles[want] {
+			t.Errorf("scatter lacks role %d", want)
+		}
+	}
+	svg := draw(t, f)
+	// Bands are filled polygons of our own, the prediction band outside the confidence band.
+	if n := strings.Count(svg, "<polygon "); n != 2 {
+		t.Errorf("%d band polygons, want 2", n)
+	}
+	// Groups differ by shape as well as colour: circles, squares and triangles.
+	if !strings.Contains(svg, "<circle cx=") || !strings.Contains(svg, "<rect x=") || !strings.Contains(svg, `<path d="M`) {
+		t.Error("group markers do not differ in shape")
+	}
+	for _, want := range []string{">P0006</text>", ">P0010</text>", "95% confidence band", "95% prediction band", "LOWESS curve", "quadratic fit", "lot B (n = 20)"} {
+		if !strings.Contains(svg, want) {
+			t.Errorf("scatter lacks %q", want)
+		}
+	}
+	if o := ResidualsOrder(s, "s1o"); o == nil || !strings.Contains(o.XLabel, "seq") {
+		t.Error("no run-order figure for a study with an order column")
+	}
+	if o := ResidualsOrder(&r.Studies[1], "s2o"); o != nil {
+		t.Error("a run-order figure for a study without order")
+	}
+	if Scatter(&r.Studies[2], "s3", "95") != nil {
+		t.Error("a scatter for a study that did not run")
+	}
+}
+
+func TestDensity(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 50000})
+	s := &r.Studies[0]
+	f := Scatter(s, "big", "95")
+	if !f.Dense || !strings.Contains(f.Caption, "density cells") || !strings.Contains(f.Desc, "density cells") {
+		t.Fatal("a 50000-point scatter is not drawn as density cells, or the caption does not say so")
+	}
+	svg := draw(t, f)
+	if len(svg) > 300_000 {
+		t.Errorf("density scatter is %d bytes", len(svg))
+	}
+	if !strings.Contains(svg, ">P0010</text>") {
+		t.Error("flagged rows are not drawn on top of the density cells")
+	}
+	// Every cell's shade is one of five levels.
+	levels := map[string]bool{}
+	for _, m := range regexp.MustCompile(`fill-opacity="([0-9.]+)"/>`).FindAllStringSubmatch(svg, -1) {
+		levels[m[1]] = true
+	}
+	if len(levels) < 2 || len(levels) > 8 {
+		t.Errorf("%d distinct cell shades, want a handful", len(levels))
+	}
+}
+
+func TestUnitText(t *testing.T) {
+	for code, want := range map[string]string{"Cel": "°C", "{HRC}": "HRC", "[degF]": "°F", "mm": "mm", "%": "%", "": "", "m3/h": "m3/h"} {
+		if got := UnitText(code); got != want {
+			t.Errorf("UnitText(%q) = %q, want %q", code, got, want)
+		}
+	}
+	if got := AxisTitle(report.Variable{Column: "t", Label: "Temper", Unit: "Cel"}); got != "Temper (°C)" {
+		t.Errorf("AxisTitle = %q", got)
+	}
+}
+
+func TestDeterministicSVG(t *testing.T) {
+	a := draw(t, Scatter(&fixture.Report(fixture.Options{}).Studies[0], "s", "95"))
+	b := draw(t, Scatter(&fixture.Report(fixture.Options{}).Studies[0], "s", "95"))
+	if a != b {
+		t.Error("the same figure drawn twice differs")
+	}
+}
+
+func BenchmarkScatterDense(b *testing.B) {
+	r := fixture.Report(fixture.Options{N: 1_000_000})
+	s := &r.Studies[0]
+	pal, _ := themes.ChartPalette("paper")
+	d := NewSVG(pal)
+	b.ReportAllocs()
+	for b.Loop() {
+		if err := d.Draw(io.Discard, Scatter(s, "s", "95")); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+var _ = strconv.Itoa

@@ -98,3 +98,38 @@ file = "d.csv"
 		}
 	})
 }
+
+// TestRunFindingsAfterAdjustment: the findings and the max_p gate read the
+// adjusted p. Three studies of the same invented pair share one raw p near
+// 0.02; Holm multiplies the smallest of three by 3, which crosses alpha =
+// 0.05, so with adjust = "none" the direction is found and with "holm" it
+// is not.
+func TestRunFindingsAfterAdjustment(t *testing.T) {
+	t.Parallel()
+	const csv = "x,y\n1,2\n2,1\n3,4\n4,1\n5,5\n6,9\n7,2\n8,6\n9,5\n10,6\n11,5\n12,9\n"
+	var studies string
+	for _, id := range []string{"s1", "s2", "s3"} {
+		studies += "\n[[study]]\nid = \"" + id + "\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n[study.expect]\nmax_p = 0.05\n"
+	}
+	for _, c := range []struct {
+		adjust string
+		found  bool
+	}{{"none", true}, {"holm", false}} {
+		r, msg, err := runText(t, csv, "adjust = \""+c.adjust+"\"\n[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n"+studies)
+		if err != nil || msg != "" {
+			t.Fatalf("Run: %v %s", err, msg)
+		}
+		for _, s := range r.Studies {
+			p, pa := float64(s.Pearson.P), float64(s.Pearson.PAdjusted)
+			if !(p < 0.05) || (c.adjust == "holm" && !(pa > 0.05)) {
+				t.Fatalf("test data no longer straddle alpha: p %v, adjusted %v", p, pa)
+			}
+			if got := s.Findings.Direction != "none"; got != c.found {
+				t.Errorf("adjust %s: %s direction %q (adjusted p %v), want found = %v", c.adjust, s.ID, s.Findings.Direction, pa, c.found)
+			}
+			if e := s.Expectations[0]; e.OK != c.found {
+				t.Errorf("adjust %s: %s max_p ok = %v, want %v (%s)", c.adjust, s.ID, e.OK, c.found, e.Detail)
+			}
+		}
+	}
+}

@@ -294,7 +294,7 @@ func (f *facts) decide(out *report.Findings) {
 				f.without = "none"
 			}
 		}
-		out.OutlierDriven = f.without != f.rdir || f.weaker
+		out.OutlierDriven = (f.without != f.rdir && !(f.rdir == "none" && f.without == "undefined")) || f.weaker
 		if f.rdir != "none" && se.LooRMin.Valid() && se.LooRMax.Valid() {
 			if sign(float64(se.LooRMin)) != sign(f.r) || sign(float64(se.LooRMax)) != sign(f.r) {
 				out.OutlierDriven = true
@@ -469,7 +469,7 @@ func (f *facts) write(out *report.Findings) {
 	s := f.s
 	x, y := f.xLabel, f.yLabel
 	pr := s.Pearson
-	rText := fmt.Sprintf("r = %s, %s CI %s to %s, n = %d", corr(f.r), f.conf, corr(float64(pr.CILow)), corr(float64(pr.CIHigh)), s.N)
+	rText := fmt.Sprintf("r = %s, %s, n = %d", corr(f.r), f.interval(pr.CILow, pr.CIHigh), s.N)
 
 	// Headline.
 	var h string
@@ -526,9 +526,12 @@ func (f *facts) write(out *report.Findings) {
 	}
 	add("Pearson correlation %s; %s.", rText, pText)
 	if l := s.Line; l != nil && l.Slope != nil && l.Intercept != nil {
-		add("The least-squares line: %s changes by %s %s (%s CI %s to %s); at %s = 0 the line gives %s.",
-			y, num(float64(l.Slope.Estimate)), perUnit(s.Y.Unit, s.X.Unit, x), f.conf,
-			num(float64(l.Slope.CILow)), num(float64(l.Slope.CIHigh)), x, withUnit(float64(l.Intercept.Estimate), s.Y.Unit))
+		ci := "no " + f.conf + " CI (too few rows)"
+		if l.Slope.CILow.Valid() && l.Slope.CIHigh.Valid() {
+			ci = fmt.Sprintf("%s CI %s to %s", f.conf, num(float64(l.Slope.CILow)), num(float64(l.Slope.CIHigh)))
+		}
+		add("The least-squares line: %s changes by %s %s (%s); at %s = 0 the line gives %s.",
+			y, num(float64(l.Slope.Estimate)), perUnit(s.Y.Unit, s.X.Unit, x), ci, x, withUnit(float64(l.Intercept.Estimate), s.Y.Unit))
 	}
 	if s.Spearman != nil && s.Kendall != nil {
 		add("Rank correlations, which use only the order of the values: Spearman ρ = %s (%s), Kendall τ-b = %s (%s).",
@@ -564,6 +567,14 @@ func (f *facts) write(out *report.Findings) {
 	}
 
 	f.limits(out)
+}
+
+// interval writes "95% CI 0.42 to 0.95", or says there is none.
+func (f *facts) interval(lo, hi report.Float) string {
+	if !lo.Valid() || !hi.Valid() {
+		return "no " + f.conf + " CI (too few rows)"
+	}
+	return fmt.Sprintf("%s CI %s to %s", f.conf, corr(float64(lo)), corr(float64(hi)))
 }
 
 func strengthWord(s string) string {
@@ -722,9 +733,9 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 			add("Leaving out the %s flagged as %s, r cannot be computed (too little variation is left): %s.",
 				plural(se.NFlagged, "row", "rows"), suspectWords, verdict)
 		} else {
-			add("Leaving out the %s flagged as %s: r = %s (%s CI %s to %s, %s), slope %s %s; %s.",
-				plural(se.NFlagged, "row", "rows"), suspectWords, corr(float64(se.RWithoutFlagged)), f.conf, corr(float64(se.RWithoutLow)),
-				corr(float64(se.RWithoutHigh)), pval(float64(se.PWithoutFlagged)), num(float64(se.SlopeWithoutFlagged)),
+			add("Leaving out the %s flagged as %s: r = %s (%s, %s), slope %s %s; %s.",
+				plural(se.NFlagged, "row", "rows"), suspectWords, corr(float64(se.RWithoutFlagged)), f.interval(se.RWithoutLow, se.RWithoutHigh),
+				pval(float64(se.PWithoutFlagged)), num(float64(se.SlopeWithoutFlagged)),
 				perUnit(s.Y.Unit, s.X.Unit, f.xLabel), verdict)
 		}
 	}
@@ -807,7 +818,7 @@ func (f *facts) limits(out *report.Findings) {
 		add("No covariates were declared, so no other measured quantity was checked as a lurking variable.")
 	}
 	for _, pc := range s.Partial {
-		pt := fmt.Sprintf("r = %s (%s CI %s to %s, %s)", corr(float64(pc.R)), f.conf, corr(float64(pc.CILow)), corr(float64(pc.CIHigh)), pval(float64(pc.P)))
+		pt := fmt.Sprintf("r = %s (%s, %s)", corr(float64(pc.R)), f.interval(pc.CILow, pc.CIHigh), pval(float64(pc.P)))
 		switch {
 		case slices.Contains(out.ExplainedBy, pc.Covariate):
 			add("Holding %s fixed, the correlation of %s and %s is %s: %s may carry the association (a lurking variable).", pc.Covariate, x, y, pt, pc.Covariate)

@@ -339,3 +339,35 @@ func TestVerdictsDoNotDependOnUnits(t *testing.T) {
 		}
 	}
 }
+
+// TestSmallAndAwkwardStudies runs the analysis on the smallest studies it
+// accepts and on awkward x (two distinct values, heavy ties): the findings
+// must come back with words and without NaN in them.
+func TestSmallAndAwkwardStudies(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		x, y []float64
+	}{
+		{"n3", []float64{1, 2, 3}, []float64{2, 1, 4}},
+		{"n4", []float64{1, 2, 3, 4}, []float64{1, 3, 2, 5}},
+		{"two-x-values", []float64{1, 1, 1, 2, 2, 2}, []float64{1, 2, 3, 4, 5, 7}},
+		{"ties", []float64{1, 1, 2, 2, 2, 3, 3, 3, 3, 4}, []float64{5, 4, 4, 3, 5, 2, 3, 1, 2, 1}},
+		{"perfect-line", []float64{1, 2, 3, 4, 5, 6}, []float64{3, 5, 7, 9, 11, 13}},
+	} {
+		s := analyze(tc.name, tc.x, tc.y)
+		if s.Error != nil {
+			t.Logf("%s: study error %q", tc.name, *s.Error)
+			continue
+		}
+		f := s.Findings
+		if f == nil || f.Headline == "" {
+			t.Errorf("%s: no findings", tc.name)
+			continue
+		}
+		text := f.Headline + strings.Join(f.Statements, " ") + strings.Join(f.Limits, " ")
+		if strings.Contains(text, "NaN") || strings.Contains(text, "Inf") {
+			t.Errorf("%s: findings print NaN or Inf:\n%s", tc.name, text)
+		}
+		t.Logf("%s: %s", tc.name, f.Headline)
+	}
+}

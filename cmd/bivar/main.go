@@ -80,7 +80,8 @@ removed. Writes diff.html, diff.md and diff.json to -o DIR (default: diff).
 			Short: "write a starting manifest for a data file",
 			Long: `Reads the header and the numeric columns of CSV and writes a starting
 manifest (default bivar.toml beside the CSV) with each key documented and
-one study per sensible pair left commented out for you to choose.
+the first sensible pair as a study and every other pair left commented out
+for you to choose, so "bivar init" then "bivar run" gives a first report.
 An existing manifest is never overwritten without --force.`,
 			Run: runInit,
 		},

@@ -41,7 +41,11 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar: writing the report: %v\n", err)
 		return exitFailed
 	}
-	fmt.Fprintf(stderr, "bivar: %d studies; report written to %s\n", len(rep.Studies), dir)
+	noun := "studies"
+	if len(rep.Studies) == 1 {
+		noun = "study"
+	}
+	fmt.Fprintf(stderr, "bivar: %d %s; report written to %s\n", len(rep.Studies), noun, dir)
 	return status(rep, stderr)
 }
 

@@ -231,6 +231,7 @@ func TestSuite(t *testing.T) {
 	type tally struct{ right, total int }
 	per := map[string]*tally{}
 	cases := map[string]*tally{}
+	verd := map[string]*tally{} // verdicts per set
 	for _, lab := range rows {
 		name, set := lab[col["case"]], lab[col["set"]]
 		if cases[set] == nil {
@@ -273,9 +274,16 @@ func TestSuite(t *testing.T) {
 				per[v] = &tally{}
 			}
 			per[v].total++
+			if verd[set] == nil {
+				verd[set] = &tally{}
+			}
+			verd[set].total++
 			got := verdict(f, v)
 			kv, isKnown := known[name+"/"+v]
 			delete(known, name+"/"+v)
+			if got == want {
+				verd[set].right++
+			}
 			switch {
 			case got == want && isKnown:
 				per[v].right++
@@ -308,7 +316,7 @@ func TestSuite(t *testing.T) {
 	sort.Strings(names)
 	var sets []string
 	for set, c := range cases {
-		sets = append(sets, fmt.Sprintf("%s %d/%d", set, c.right, c.total))
+		sets = append(sets, fmt.Sprintf("%s %d/%d (verdicts %d/%d)", set, c.right, c.total, verd[set].right, verd[set].total))
 	}
 	sort.Strings(sets)
 	t.Logf("suite accuracy: cases right in every labelled verdict: %s; verdicts %d/%d; per verdict: %s",

@@ -5,8 +5,10 @@
 // construction is drawn once with its own seed (set "tuning": the cases
 // the thresholds were first tuned on), again with three more seeds (set
 // "check": drawn after that tuning; its results led to one more change of
-// the rules, so it is not held out), and with three more (set "holdout":
-// drawn after the last change of the rules and never used to tune them):
+// the rules, so it is not held out), with three more (set "holdout": drawn
+// after that change; two more rules were changed after seeing them), and
+// with three more (set "final": drawn after the last change of the rules
+// and never used to tune them):
 //
 //	go run ./analysis/findings/internal/gensuite -o analysis/findings/testdata/suite
 //
@@ -292,11 +294,15 @@ func main() {
 		"outlier_driven", "reversal", "spread_changes", "explained_by", "drift", "construction"}}
 	all := cases()
 	for _, c := range cases() {
-		for k := uint64(1); k <= 2*replicates; k++ {
+		for k := uint64(1); k <= 3*replicates; k++ {
 			r := c
-			r.name = fmt.Sprintf("%s-check%d", c.name, k)
-			if k > replicates {
+			switch {
+			case k > 2*replicates:
+				r.name = fmt.Sprintf("%s-final%d", c.name, k-2*replicates)
+			case k > replicates:
 				r.name = fmt.Sprintf("%s-holdout%d", c.name, k-replicates)
+			default:
+				r.name = fmt.Sprintf("%s-check%d", c.name, k)
 			}
 			r.seed = c.seed*100 + k
 			all = append(all, r)
@@ -335,6 +341,8 @@ func main() {
 		w := c.want
 		set := "tuning"
 		switch {
+		case c.seed > 1000 && c.seed%100 > 2*replicates:
+			set = "final"
 		case c.seed > 1000 && c.seed%100 > replicates:
 			set = "holdout"
 		case c.seed > 1000:

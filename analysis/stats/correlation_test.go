@@ -244,6 +244,11 @@ func TestCorrelationProperties(t *testing.T) {
 		if err1 != nil || err2 != nil {
 			t.Fatal(err1, err2)
 		}
+		// The slopes are b_yx = Sxy/Sxx and b_xy = Sxy/Syy: not symmetric.
+		m := CentredMoments(x, y)
+		if math.Abs(m.Sxx-m.Syy) > 1e-6*(m.Sxx+m.Syy) && coreClose(lyx.Slope.Estimate, lxy.Slope.Estimate, 1e-9) {
+			t.Fatalf("slope of y on x %v equals slope of x on y %v although Sxx ≠ Syy", lyx.Slope.Estimate, lxy.Slope.Estimate)
+		}
 		if prod := lyx.Slope.Estimate * lxy.Slope.Estimate; !coreClose(prod, c.R2, 1e-10) {
 			t.Fatalf("slope_yx·slope_xy = %.15g, want r² = %.15g", prod, c.R2)
 		}

@@ -187,3 +187,31 @@ func TestAnalyzeDeterministic(t *testing.T) {
 		t.Errorf("two runs differ: %v %v", a.Diagnostics.DistanceCorr, b.Diagnostics.DistanceCorr)
 	}
 }
+
+// TestAnalyzeUnitNotes: a unit that cannot be converted keeps its row,
+// with undefined numbers and a note saying why; r of the recorded row and
+// of the swapped row agree (r is symmetric in x and y, common practice).
+func TestAnalyzeUnitNotes(t *testing.T) {
+	t.Parallel()
+	inp := in([]float64{1, 2, 3, 4, 5}, []float64{2, 4, 5, 4, 6})
+	inp.Y.Unit = "mm"
+	inp.AlsoIn.X = []string{"K"}      // x has no declared unit
+	inp.AlsoIn.Y = []string{"[degF]"} // length to temperature
+	s := analysis.Analyze(inp, analysis.DefaultConfig())
+	if s.Error != nil {
+		t.Fatal(*s.Error)
+	}
+	u := s.UnitInvariance
+	if len(u) != 4 {
+		t.Fatalf("unit rows %+v, want recorded, K, [degF], swapped", u)
+	}
+	if !strings.Contains(u[1].Note, "no unit is declared") || u[1].R.Valid() {
+		t.Errorf("x to K without a declared unit: %+v", u[1])
+	}
+	if u[2].Note == "" || u[2].R.Valid() {
+		t.Errorf("mm to [degF]: %+v, want a note and no numbers", u[2])
+	}
+	if !u[3].Swapped || math.Abs(float64(u[3].R-u[0].R)) > 1e-15 || u[3].XUnit != "mm" {
+		t.Errorf("swapped row %+v vs recorded %+v", u[3], u[0])
+	}
+}

@@ -147,6 +147,13 @@ func (c *cdp) call(session, method string, params any) (json.RawMessage, error) 
 // pageProblems loads file in a fresh tab and returns what went wrong, the
 // PNG screenshot and the PDF.
 func pageProblems(t *testing.T, c *cdp, file string) (problems []string, png, pdf []byte) {
+	problems, png, pdf, _ = pageProblemsPrint(t, c, file)
+	return problems, png, pdf
+}
+
+// pageProblemsPrint is pageProblems that also returns a screenshot with
+// print media emulated, to look at the print styles.
+func pageProblemsPrint(t *testing.T, c *cdp, file string) (problems []string, png, pdf, printPNG []byte) {
 	t.Helper()
 	url := "file://" + file
 	res, err := c.call("", "Target.createTarget", map[string]any{"url": "about:blank"})
@@ -249,8 +256,15 @@ func pageProblems(t *testing.T, c *cdp, file string) (problems []string, png, pd
 			wait = false
 		}
 	}
+	if _, err := c.call(s, "Emulation.setEmulatedMedia", map[string]any{"media": "print"}); err == nil {
+		if res, err := c.call(s, "Page.captureScreenshot", map[string]any{"format": "png", "captureBeyondViewport": true}); err == nil {
+			var ps struct{ Data string }
+			json.Unmarshal(res, &ps)
+			printPNG, _ = base64.StdEncoding.DecodeString(ps.Data)
+		}
+	}
 	c.call("", "Target.closeTarget", map[string]any{"targetId": tgt.TargetID})
-	return problems, png, pdf
+	return problems, png, pdf, printPNG
 }
 
 func TestBrowser(t *testing.T) {
@@ -282,7 +296,7 @@ func TestBrowser(t *testing.T) {
 				if err := WriteReport(out, r, []string{"html"}, WithTheme(th)); err != nil {
 					t.Fatal(err)
 				}
-				problems, png, pdf := pageProblems(t, c, filepath.Join(out, HTMLFile))
+				problems, png, pdf, printPNG := pageProblemsPrint(t, c, filepath.Join(out, HTMLFile))
 				for _, p := range problems {
 					t.Error(p)
 				}
@@ -300,6 +314,7 @@ func TestBrowser(t *testing.T) {
 					os.MkdirAll(keep, 0o755)
 					os.WriteFile(filepath.Join(keep, name+".png"), png, 0o644)
 					os.WriteFile(filepath.Join(keep, name+".pdf"), pdf, 0o644)
+					os.WriteFile(filepath.Join(keep, name+"-print.png"), printPNG, 0o644)
 				}
 			})
 		}

@@ -199,7 +199,7 @@ func Spearman(x, y []float64) (rho, p float64) {
 //
 // p is from the normal approximation to S = C − D with the variance
 // corrected for ties in both variables (Kendall 1970, Rank Correlation
-// Methods, 4th ed., eq. 4.4):
+// Methods, 4th ed., ch. 4):
 //
 //	Var S = [n(n−1)(2n+5) − Σt(t−1)(2t+5) − Σu(u−1)(2u+5)]/18
 //	      + [Σt(t−1)]·[Σu(u−1)] / (2n(n−1))

@@ -10,9 +10,10 @@ import "math"
 
 // floatKey maps v (not NaN) to a uint64 whose unsigned order is the numeric
 // order of v: flip all bits of a negative number, set the sign bit of a
-// positive one (the usual IEEE-754 total-order trick; e.g. Knuth, TAOCP
-// vol. 2, §4.2.1, on comparing floating-point numbers as integers). −0 is
-// mapped like +0, so values that compare equal get equal keys.
+// positive one. This rests on the IEEE 754 encoding, whose bit patterns of
+// non-negative values order like the values (the basis of totalOrder, IEEE
+// 754-2008 §5.10). −0 is mapped like +0, so values that compare equal get
+// equal keys.
 func floatKey(v float64) uint64 {
 	if v == 0 {
 		v = 0 // −0 → +0

@@ -620,8 +620,8 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 				x, num(f.dwx), num(f.dwxBound))
 		}
 		if q != nil && !math.IsNaN(f.quadP()) {
-			add("A quadratic term adds little (x² term %s, R² %s against %s for the line): the straight line describes the trend.",
-				pval(f.quadP()), corr(float64(q.R2)), corr(float64(s.Pearson.R2)))
+			add("A quadratic curve improves on the line by little (R² %s against %s for the line; x² term %s): the straight line describes the trend.",
+				corr(float64(q.R2)), corr(float64(s.Pearson.R2)), pval(f.quadP()))
 		}
 	case "none":
 		if f.dcor != nil {
@@ -692,11 +692,11 @@ func (f *facts) drivenHeadline() string {
 			listRows(rows), corr(float64(se.RWithoutFlagged)))
 	case len(rows) > 0 && f.weaker:
 		return fmt.Sprintf("The strength of the relationship rests on %s: without %s, r = %s (%s), a %s relationship at most.",
-			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(math.Min(1, float64(se.PWithoutFlagged)*f.adj)),
+			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)),
 			f.strengthOf(math.Abs(float64(se.RWithoutFlagged))))
 	case len(rows) > 0 && f.without != f.rdir:
 		return fmt.Sprintf("The apparent relationship rests on %s: without %s, r = %s (%s) and no relationship is shown.",
-			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(math.Min(1, float64(se.PWithoutFlagged)*f.adj)))
+			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)))
 	default:
 		return fmt.Sprintf("The direction of the relationship depends on single rows: leaving out one row at a time, r ranges from %s to %s.",
 			corr(float64(se.LooRMin)), corr(float64(se.LooRMax)))
@@ -717,6 +717,11 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 		add("Flagged %s: %s.", plural(len(s.Influence.Points), "row", "rows"), strings.Join(parts, "; "))
 	} else if s.Influence != nil {
 		add("No row is flagged as an outlier, of high leverage or influential.")
+	}
+	if s.Influence != nil && s.N > params+1 {
+		add("Flag rules for these %d rows: outlier when the externally studentized residual exceeds %s in size (the larger of %s and the Bonferroni bound); high leverage above %s (%s·2/n); influential when Cook's distance exceeds %s (the %s quantile of F(2, %d)).",
+			s.N, num(OutlierBound(s.N, f.th)), num(f.th.OutlierZ), num(f.th.LeverageFactor*params/float64(s.N)), num(f.th.LeverageFactor),
+			num(CooksBound(s.N, f.th)), num(f.th.CooksD), s.N-params)
 	}
 	se := s.Sensitivity
 	if se == nil {

@@ -10,6 +10,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"sort"
 	"strconv"
@@ -171,6 +172,10 @@ func TestAnscombe(t *testing.T) {
 	}
 }
 
+// overclaim matches words the report's caution rules out: statistics
+// support a decision but do not prove, approve or certify anything.
+var overclaim = regexp.MustCompile(`\b(prove[sn]?|proof|guarantee[sd]?|safe to|approved?|certif\w*|compliant|validated)\b`)
+
 // verdicts are the suite's label columns, in labels.csv order.
 var verdicts = []string{"form", "bend", "turns_over", "direction", "strength", "outlier_driven", "reversal",
 	"spread_changes", "explained_by", "drift"}
@@ -264,6 +269,10 @@ func TestSuite(t *testing.T) {
 			continue
 		}
 		f := s.Findings
+		text := f.Headline + "\n" + strings.Join(f.Statements, "\n") + "\n" + strings.Join(f.Limits, "\n")
+		if b := overclaim.FindString(strings.ToLower(text)); b != "" || strings.Contains(text, "NaN") {
+			t.Errorf("%s: findings say %q (or NaN), which the report's caution rules out:\n%s", name, b, text)
+		}
 		caseOK := true
 		for _, v := range verdicts {
 			want := lab[col[v]]

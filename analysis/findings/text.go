@@ -161,10 +161,18 @@ func plural(n int, one, many string) string {
 	return many
 }
 
-// capital upper-cases the first letter.
+// capital upper-cases the first letter of a sentence that starts with a
+// label, but leaves labels whose case carries meaning ("pH", "µm", "xRMS"):
+// only an ASCII lower-case first letter followed by a lower-case letter or
+// a space is raised.
 func capital(s string) string {
-	for i, r := range s {
-		return strings.ToUpper(string(r)) + s[i+len(string(r)):]
+	if len(s) == 0 || s[0] < 'a' || s[0] > 'z' {
+		return s
 	}
-	return s
+	if len(s) > 1 {
+		if c := s[1]; !(c >= 'a' && c <= 'z' || c == ' ') {
+			return s
+		}
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
 }

@@ -1,0 +1,200 @@
+package analysis
+
+// This file holds the fits and tests of one study: summaries, the
+// straight line and the other models, the diagnostics and the per-group
+// lines.
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"slices"
+
+	"bivar/analysis/report"
+	"bivar/analysis/stats"
+)
+
+func describe(v []float64) report.Describe {
+	d := stats.Describe(v)
+	return report.Describe{N: d.N, Mean: report.Float(d.Mean), SD: report.Float(d.SD), Min: report.Float(d.Min),
+		Q1: report.Float(d.Q1), Median: report.Float(d.Median), Q3: report.Float(d.Q3), Max: report.Float(d.Max)}
+}
+
+func coef(name string, c stats.Coef) report.Coef {
+	return report.Coef{Name: name, Estimate: report.Float(c.Estimate), SE: report.Float(c.SE), T: report.Float(c.T),
+		P: report.Float(c.P), CILow: report.Float(c.CILow), CIHigh: report.Float(c.CIHigh)}
+}
+
+// regFit turns a least-squares fit into the report's Fit.
+func regFit(name, formula string, coefNames []string, r stats.Regression) report.Fit {
+	f := report.Fit{Name: name, Formula: formula, ResidualSE: report.Float(r.ResidualSE), RSS: report.Float(r.RSS),
+		R2: report.Float(r.R2), AdjR2: report.Float(r.AdjR2), F: report.Float(r.F), FP: report.Float(r.FP),
+		DFResid: r.DFResid, AIC: report.Float(r.AIC), Vertex: report.NaN()}
+	for i, c := range r.Coef {
+		name := fmt.Sprintf("b%d", i)
+		if i < len(coefNames) {
+			name = coefNames[i]
+		}
+		f.Coefficients = append(f.Coefficients, coef(name, c))
+	}
+	return f
+}
+
+func lineFit(l stats.LineFit) report.Fit {
+	f := regFit("line", "y = b0 + b1·x", []string{"intercept", "x"}, l.Regression)
+	ic, sl := coef("intercept", l.Intercept), coef("x", l.Slope)
+	f.Intercept, f.Slope = &ic, &sl
+	f.Coefficients = []report.Coef{ic, sl}
+	return f
+}
+
+// logModels fits the linearising transforms the data allow: log-x where
+// every x is positive, log-y where every y is positive, log-log where both
+// are. Natural logarithms.
+func logModels(x, y []float64, conf float64) []report.Fit {
+	pos := func(v []float64) bool {
+		for _, a := range v {
+			if !(a > 0) {
+				return false
+			}
+		}
+		return true
+	}
+	logs := func(v []float64) []float64 {
+		out := make([]float64, len(v))
+		for i, a := range v {
+			out[i] = math.Log(a)
+		}
+		return out
+	}
+	xp, yp := pos(x), pos(y)
+	var lx, ly []float64
+	if xp {
+		lx = logs(x)
+	}
+	if yp {
+		ly = logs(y)
+	}
+	var out []report.Fit
+	add := func(name, formula, xname string, u, v []float64) {
+		if c, _ := constant(u); c {
+			return
+		}
+		l, err := stats.Line(u, v, conf)
+		if err != nil {
+			return
+		}
+		f := regFit(name, formula, []string{"intercept", xname}, l.Regression)
+		ic, sl := coef("intercept", l.Intercept), coef(xname, l.Slope)
+		f.Coefficients = []report.Coef{ic, sl}
+		out = append(out, f)
+	}
+	if xp {
+		add("log-x", "y = b0 + b1·ln(x)", "ln(x)", lx, y)
+	}
+	if yp {
+		add("log-y", "ln(y) = b0 + b1·x", "x", x, ly)
+	}
+	if xp && yp {
+		add("log-log", "ln(y) = b0 + b1·ln(x)", "ln(x)", lx, ly)
+	}
+	return out
+}
+
+// diagnostics runs the tests of form, spread and order. order holds the
+// run order of each complete case, or nil.
+func diagnostics(id string, x, y []float64, line stats.LineFit, quad *stats.Regression, order []float64, cfg Config) *report.Diagnostics {
+	d := &report.Diagnostics{QuadraticP: report.NaN(), DurbinWatson: report.NaN()}
+	if quad != nil {
+		d.QuadraticP = report.Float(quad.Coef[2].P)
+	}
+	if f, df1, df2, p, ok := stats.LackOfFit(x, y); ok {
+		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(p)}
+	}
+	dc, p, used, method := stats.DistanceCorrTest(x, y, cfg.DcorPerms, cfg.DcorMaxN, source(cfg.Seed, id, "dcor"))
+	d.DistanceCorr = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: cfg.DcorPerms,
+		Sampled: used, Method: method}
+	bp, df, pbp := stats.BreuschPagan(line.Residuals, x)
+	d.BreuschPagan = &report.ChiTest{Stat: report.Float(bp), DF: df, P: report.Float(pbp)}
+
+	resid := line.Residuals
+	if order != nil {
+		perm := make([]int, len(order))
+		for i := range perm {
+			perm[i] = i
+		}
+		if !slices.IsSorted(order) {
+			slices.SortFunc(perm, func(a, b int) int { return cmp.Or(cmp.Compare(order[a], order[b]), cmp.Compare(a, b)) })
+		}
+		ro, oo := make([]float64, len(perm)), make([]float64, len(perm))
+		for k, i := range perm {
+			ro[k], oo[k] = resid[i], order[i]
+		}
+		d.DurbinWatson = report.Float(stats.DurbinWatson(ro))
+		slope, p, r := stats.OrderTrend(oo, ro)
+		t := &report.OrderTrend{Slope: report.Float(slope), P: report.Float(p), R: report.Float(r)}
+		d.OrderTrend = t
+	} else {
+		d.DurbinWatson = report.Float(stats.DurbinWatson(resid))
+	}
+
+	slope, icpt, method := stats.TheilSen(x, y, cfg.TheilSenMaxExact, source(cfg.Seed, id, "theil-sen"))
+	d.Resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
+	return d
+}
+
+// lowessDelta is the smoother's interpolation distance: 0 (a local fit at
+// every distinct x) up to stats.LowessAutoDeltaN points, 1% of the x range
+// beyond (Cleveland 1979, sec. 4, suggests a small fraction of the range;
+// 0.01 is common practice and the rule of stats.Lowess for a negative
+// delta, written out here so the report can state it).
+func lowessDelta(x []float64) float64 {
+	if len(x) <= stats.LowessAutoDeltaN {
+		return 0
+	}
+	lo, hi := x[0], x[0]
+	for _, v := range x {
+		lo, hi = min(lo, v), max(hi, v)
+	}
+	return 0.01 * (hi - lo)
+}
+
+// groupFits fits the straight line within each level of the group, levels
+// in sorted order. A level with fewer than 3 rows or a constant x gets NaN.
+func groupFits(x, y []float64, groups []string, conf float64) []report.GroupFit {
+	byLevel := map[string][]int{}
+	for i, g := range groups {
+		byLevel[g] = append(byLevel[g], i)
+	}
+	levels := make([]string, 0, len(byLevel))
+	for g := range byLevel {
+		levels = append(levels, g)
+	}
+	slices.Sort(levels)
+	out := make([]report.GroupFit, 0, len(levels))
+	for _, g := range levels {
+		idx := byLevel[g]
+		gf := report.GroupFit{Group: g, N: len(idx), R: report.NaN(), Slope: report.NaN(), Intercept: report.NaN(),
+			SlopeLow: report.NaN(), SlopeHigh: report.NaN()}
+		gx, gy := pick(x, idx), pick(y, idx)
+		if len(idx) >= 3 {
+			if cx, _ := constant(gx); !cx {
+				if l, err := stats.Line(gx, gy, conf); err == nil {
+					gf.Slope, gf.Intercept = report.Float(l.Slope.Estimate), report.Float(l.Intercept.Estimate)
+					gf.SlopeLow, gf.SlopeHigh = report.Float(l.Slope.CILow), report.Float(l.Slope.CIHigh)
+				}
+				gf.R = report.Float(stats.Pearson(gx, gy, conf).R)
+			}
+		}
+		out = append(out, gf)
+	}
+	return out
+}
+
+func pick(v []float64, idx []int) []float64 {
+	out := make([]float64, len(idx))
+	for j, i := range idx {
+		out[j] = v[i]
+	}
+	return out
+}

@@ -44,6 +44,8 @@ type Options struct {
 	// unless the delimiter is ';' or tab and the first number that shows a
 	// mark shows a comma. A file that then mixes the two marks in numbers is
 	// an error (1.234 might be a thousands separator), so declare the mark.
+	// Detection reads 1,234 in a semicolon file as 1.234: thousands
+	// separators are never accepted.
 	DecimalComma bool
 	DecimalPoint bool
 	// Missing are the cell texts read as missing, compared after trimming

@@ -62,6 +62,15 @@ func (es Errors) Error() string {
 	return strings.Join(lines, "\n")
 }
 
+// Detail is every error's Detail, one after another.
+func (es Errors) Detail() string {
+	var b strings.Builder
+	for _, e := range es {
+		b.WriteString(e.Detail())
+	}
+	return b.String()
+}
+
 // Unwrap lets errors.As find the first *Error.
 func (es Errors) Unwrap() []error {
 	out := make([]error, len(es))

@@ -42,12 +42,8 @@ func TestFixtures(t *testing.T) {
 			if !errors.As(err, &es) {
 				t.Fatalf("Load(%s) error = %v, want Errors", c.file, err)
 			}
-			var b strings.Builder
-			for _, e := range es {
-				b.WriteString(e.Detail())
-			}
-			if b.String() != c.detail {
-				t.Errorf("Detail:\ngot\n%s\nwant\n%s", b.String(), c.detail)
+			if got := es.Detail(); got != c.detail {
+				t.Errorf("Detail:\ngot\n%s\nwant\n%s", got, c.detail)
 			}
 		})
 	}

@@ -202,7 +202,9 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	ls.table = t
 	file := ds.File
 	if m.Dir != "" {
-		if rel, err := filepath.Rel(m.Dir, path); err == nil {
+		dir, err1 := filepath.Abs(m.Dir)
+		abs, err2 := filepath.Abs(path)
+		if rel, err := filepath.Rel(dir, abs); err1 == nil && err2 == nil && err == nil {
 			file = rel
 		}
 	}

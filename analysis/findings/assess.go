@@ -511,6 +511,9 @@ func (f *facts) write(out *report.Findings) {
 	if len(out.ExplainedBy) > 0 {
 		h += fmt.Sprintf(" Holding %s fixed, the association is no longer shown.", joinAnd(out.ExplainedBy))
 	}
+	if way := f.hiddenWay(); way != "" {
+		h += fmt.Sprintf(" Within groups of %s, %s %s with %s.", s.Group, y, way, x)
+	}
 	if out.Drift {
 		h += " The residuals drift in run order."
 	}
@@ -877,6 +880,32 @@ func (f *facts) orderFigures() string {
 	return strings.Join(p, ", ")
 }
 
+// hiddenWay returns "rises" or "falls" when r shows no direction but, of
+// two or more groups large enough to compare, some have a slope interval
+// on one side of 0 and none on the other; "" otherwise.
+func (f *facts) hiddenWay() string {
+	g := f.qualifying()
+	if f.rdir != "none" || len(g) < 2 {
+		return ""
+	}
+	up, down := 0, 0
+	for _, gf := range g {
+		switch {
+		case float64(gf.SlopeLow) > 0:
+			up++
+		case float64(gf.SlopeHigh) < 0:
+			down++
+		}
+	}
+	switch {
+	case up > 0 && down == 0:
+		return "rises"
+	case down > 0 && up == 0:
+		return "falls"
+	}
+	return ""
+}
+
 func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 	s := f.s
 	g := f.qualifying()
@@ -887,6 +916,9 @@ func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 	}
 	detail := strings.Join(parts, "; ")
 	switch {
+	case f.hiddenWay() != "":
+		add("Within groups of %s, %s %s with %s (%s), though the pooled data show no relationship: differences between the groups hide it.",
+			s.Group, f.yLabel, f.hiddenWay(), f.xLabel, detail)
 	case len(g) < 2:
 		add("Fewer than two groups of %s have %d rows or more, so the groups were not compared.", s.Group, f.th.ReversalMinGroup)
 	case out.Reversal:

@@ -231,6 +231,12 @@ func TestAssessReversal(t *testing.T) {
 	if f = Assess(s, ctx); f.Reversal {
 		t.Errorf("groups disagree (one significant each way): reversal reported")
 	}
+	// No pooled relationship, but a clear one within the groups.
+	s.Pearson.P, s.Pearson.PAdjusted = 0.4, 0.4
+	s.Groups[0].Slope, s.Groups[0].SlopeLow, s.Groups[0].SlopeHigh = 0.8, 0.4, 1.2
+	if f = Assess(s, ctx); f.Reversal || !strings.Contains(all(f), "differences between the groups hide it") {
+		t.Errorf("pooled none, groups rising: reversal %v\n%s", f.Reversal, all(f))
+	}
 	s.Groups = s.Groups[:1]
 	if f = Assess(s, ctx); f.Reversal {
 		t.Errorf("one group only: reversal reported")

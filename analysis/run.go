@@ -19,8 +19,10 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"runtime"
 	"slices"
 	"strings"
+	"sync"
 
 	"bivar/analysis/dataset"
 	"bivar/analysis/findings"
@@ -77,9 +79,13 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		r.Datasets = append(r.Datasets, ls.info)
 	}
 
-	expects := make([]*manifest.Expect, len(m.Studies))
+	// Studies run concurrently, at most GOMAXPROCS at a time; each has its
+	// own slot and its own random streams (see source), so the report does
+	// not depend on the scheduling.
+	r.Studies = make([]report.Study, len(m.Studies))
+	var wg sync.WaitGroup
+	slots := make(chan struct{}, max(1, runtime.GOMAXPROCS(0)))
 	for i, st := range m.Studies {
-		expects[i] = st.Expect
 		in, msg := input(st, loaded[st.Dataset])
 		if msg != "" {
 			s := failed(report.Study{ID: st.ID, Title: st.Title, Dataset: st.Dataset,
@@ -88,21 +94,33 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			if ls := loaded[st.Dataset]; ls != nil {
 				s.X, s.Y = variable(ls.decl, st.X), variable(ls.decl, st.Y)
 			}
-			r.Studies = append(r.Studies, s)
+			r.Studies[i] = s
 			continue
 		}
-		s := analyze(in, cfg)
-		s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
-		r.Studies = append(r.Studies, s)
+		wg.Add(1)
+		slots <- struct{}{}
+		go func() {
+			defer func() { <-slots; wg.Done() }()
+			s := analyze(in, cfg)
+			s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
+			r.Studies[i] = s
+		}()
 	}
+	wg.Wait()
 
 	if err := Adjust(r.Studies, adjust); err != nil {
 		return nil, fmt.Errorf("manifest %s: %w", m.Path, err)
 	}
 	for i := range r.Studies {
-		assess(&r.Studies[i], cfg)
-		r.Studies[i].Expectations = Expectations(&r.Studies[i], expects[i], cfg.Alpha, adjust)
+		wg.Add(1)
+		slots <- struct{}{}
+		go func() {
+			defer func() { <-slots; wg.Done() }()
+			assess(&r.Studies[i], cfg)
+			r.Studies[i].Expectations = Expectations(&r.Studies[i], m.Studies[i].Expect, cfg.Alpha, adjust)
+		}()
 	}
+	wg.Wait()
 	return r, nil
 }
 

@@ -3,6 +3,7 @@ package manifest
 import (
 	"errors"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -224,5 +225,24 @@ func TestErrors(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+func TestPaths(t *testing.T) {
+	t.Parallel()
+	abs, err := filepath.Abs("testdata/cell4.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	outAbs := filepath.Join(t.TempDir(), "out")
+	src := "[output]\ndir = " + strconv.Quote(outAbs) + "\n[[dataset]]\nid = \"a\"\nfile = " + strconv.Quote(abs) + "\n" +
+		"[[dataset]]\nid = \"b\"\nfile = \"sub/../cell4.csv\"\n" + strings.Replace(study, `"nov"`, `"a"`, 1)
+	m, err := Parse("bivar.toml", []byte(src), "testdata")
+	if err != nil {
+		// sub/ does not exist, but the path is cleaned before it is looked up.
+		t.Fatal(err)
+	}
+	if m.Datasets[0].File != abs || m.Datasets[1].File != filepath.Join("testdata", "cell4.csv") || m.Output.Dir != outAbs {
+		t.Errorf("files %q, %q, output %q; want %q, testdata/cell4.csv, %q", m.Datasets[0].File, m.Datasets[1].File, m.Output.Dir, abs, outAbs)
 	}
 }

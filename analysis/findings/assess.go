@@ -881,8 +881,9 @@ func (f *facts) orderFigures() string {
 }
 
 // hiddenWay returns "rises" or "falls" when r shows no direction but, of
-// two or more groups large enough to compare, some have a slope interval
-// on one side of 0 and none on the other; "" otherwise.
+// two or more groups large enough to compare, most have a slope interval
+// on one side of 0 and none on the other (one group of many can do that
+// by chance); "" otherwise.
 func (f *facts) hiddenWay() string {
 	g := f.qualifying()
 	if f.rdir != "none" || len(g) < 2 {
@@ -898,9 +899,9 @@ func (f *facts) hiddenWay() string {
 		}
 	}
 	switch {
-	case up > 0 && down == 0:
+	case 2*up > len(g) && down == 0:
 		return "rises"
-	case down > 0 && up == 0:
+	case 2*down > len(g) && up == 0:
 		return "falls"
 	}
 	return ""

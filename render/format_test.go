@@ -46,3 +46,19 @@ func TestPercent(t *testing.T) {
 		}
 	}
 }
+
+func TestMDText(t *testing.T) {
+	cases := []struct{ in, want string }{
+		{"-0.98", "-0.98"}, {"- item", "\\- item"}, {"# head", "\\# head"}, {"ambient_rh", "ambient_rh"},
+		{"_x_", "\\_x\\_"}, {"a*b", "a\\*b"}, {"<b>", "\\<b\\>"}, {"R&D", "R\\&D"}, {"[lbf_av]", "\\[lbf_av\\]"},
+		{"two\nlines", "two lines"}, {"a|b", "a|b"},
+	}
+	for _, tc := range cases {
+		if got := mdText(tc.in); got != tc.want {
+			t.Errorf("mdText(%q) = %q, want %q", tc.in, got, tc.want)
+		}
+	}
+	if got := mdCell("a|b"); got != "a\\|b" {
+		t.Errorf("mdCell(a|b) = %q", got)
+	}
+}

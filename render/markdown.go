@@ -11,7 +11,11 @@ import (
 // backslash-escaped (CommonMark 0.31, §2.4: any ASCII punctuation may be
 // escaped), so names from the manifest and the data read as written and
 // never become markup.
-func mdText(s string) string {
+func mdText(s string) string { return mdEscape(s, true) }
+
+// mdEscape is mdText; lead says whether s may start a line, where a few
+// more characters need escaping.
+func mdEscape(s string, lead bool) string {
 	var b strings.Builder
 	rs := []rune(s)
 	for i, r := range rs {
@@ -27,10 +31,14 @@ func mdText(s string) string {
 			} else {
 				b.WriteString("\\_")
 			}
-		case '#', '-', '+', '=', '|':
-			// Only at the start of a line do these make headings, lists or
-			// rules; pipes are escaped inside tables by mdCell.
-			if i == 0 && r != '|' {
+		case '#', '-', '+', '=':
+			// Only at the start of a line do these make headings, list
+			// items or rules ("# ", "- ", "+ ", "=="); "-0.98" stays as it is.
+			next := rune(' ')
+			if i+1 < len(rs) {
+				next = rs[i+1]
+			}
+			if i == 0 && lead && (r == '#' || next == ' ' || next == r) {
 				b.WriteByte('\\')
 			}
 			b.WriteRune(r)
@@ -50,7 +58,7 @@ func mdText(s string) string {
 func isAlnum(r rune) bool { return unicode.IsLetter(r) || unicode.IsDigit(r) }
 
 // mdCell is mdText for a table cell, where a pipe would end the cell.
-func mdCell(s string) string { return strings.ReplaceAll(mdText(s), "|", "\\|") }
+func mdCell(s string) string { return strings.ReplaceAll(mdEscape(s, false), "|", "\\|") }
 
 // mdTable writes a pipe table with its columns padded, so that it reads
 // as a table in plain text too. The caption goes first, in italics.

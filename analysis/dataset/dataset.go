@@ -26,6 +26,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -120,7 +121,11 @@ func Read(path string, opts Options, numeric, text []string) (*Table, error) {
 		return nil, openError(path, err)
 	}
 	defer f.Close()
-	return read(path, f, opts, numeric, text)
+	var size int64
+	if st, err := f.Stat(); err == nil {
+		size = st.Size()
+	}
+	return read(path, f, size, opts, numeric, text)
 }
 
 // column is one requested header column and where its cells go.
@@ -135,6 +140,10 @@ type column struct {
 	nonNum  int
 	intern  map[string]string // repeated texts (groups, lots) kept once
 }
+
+// maxPrealloc bounds the rows a column is sized for before they are read
+// (an unusually short first row must not reserve a huge column).
+const maxPrealloc = 1 << 22
 
 // maxIntern bounds the distinct texts a column keeps shared copies of.
 const maxIntern = 1024
@@ -155,7 +164,9 @@ func (c *column) keep(cell string) string {
 	return v
 }
 
-func read(path string, r io.Reader, opts Options, numeric, text []string) (*Table, error) {
+// read reads from r; size, when known (> 0), lets it size the columns
+// from the length of the first data row instead of growing them.
+func read(path string, r io.Reader, size int64, opts Options, numeric, text []string) (*Table, error) {
 	h := sha256.New()
 	br := bufio.NewReaderSize(io.TeeReader(r, h), readBuffer)
 	fail := func(line int, col, cell, format string, args ...any) error {
@@ -167,6 +178,7 @@ func read(path string, r io.Reader, opts Options, numeric, text []string) (*Tabl
 		return nil, err
 	}
 	header := names
+	headerEnd := cr.InputOffset()
 	cols, err := selectColumns(path, names, numeric, text)
 	if err != nil {
 		return nil, err
@@ -207,6 +219,19 @@ func read(path string, r io.Reader, opts Options, numeric, text []string) (*Tabl
 			return nil, csvError(path, err, rec, len(header))
 		}
 		rows++
+		if rows == 1 && size > 0 {
+			if per := cr.InputOffset() - headerEnd; per > 0 {
+				est := int(min((size-headerEnd)/per+16, maxPrealloc))
+				for _, c := range cols {
+					if c.numeric {
+						c.nums = slices.Grow(c.nums, est)
+					}
+					if c.text {
+						c.texts = slices.Grow(c.texts, est)
+					}
+				}
+			}
+		}
 		for _, c := range cols {
 			cell := strings.TrimSpace(rec[c.index])
 			miss := isMissing(cell)

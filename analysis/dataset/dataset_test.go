@@ -101,7 +101,7 @@ func TestRead(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
-			tab, err := read("data.csv", strings.NewReader(c.src), c.opts, c.numeric, c.text)
+			tab, err := read("data.csv", strings.NewReader(c.src), int64(len(c.src)), c.opts, c.numeric, c.text)
 			if err != nil {
 				t.Fatalf("read: %v", err)
 			}
@@ -183,7 +183,7 @@ func TestReadErrors(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
-			_, err := read("data.csv", strings.NewReader(c.src), c.opts, c.numeric, c.text)
+			_, err := read("data.csv", strings.NewReader(c.src), int64(len(c.src)), c.opts, c.numeric, c.text)
 			var got *Error
 			if !errors.As(err, &got) {
 				t.Fatalf("read error = %v (%T), want *Error", err, err)
@@ -267,7 +267,7 @@ func FuzzDataset(f *testing.F) {
 	}
 	f.Fuzz(func(t *testing.T, data []byte, delim byte, comma bool) {
 		opts := Options{Delimiter: rune(delim), DecimalComma: comma, NonNumericAsMissing: comma}
-		tab, err := read("fuzz.csv", strings.NewReader(string(data)), opts, []string{"x"}, []string{"y"})
+		tab, err := read("fuzz.csv", strings.NewReader(string(data)), int64(len(data)), opts, []string{"x"}, []string{"y"})
 		if err != nil {
 			var e *Error
 			if !errors.As(err, &e) || e.Msg == "" {
@@ -315,7 +315,7 @@ func TestTextBeyondIntern(t *testing.T) {
 	for i := range n {
 		fmt.Fprintf(&b, "r%d,g%d\n", i, i%3)
 	}
-	tab, err := read("data.csv", strings.NewReader(b.String()), Options{}, nil, []string{"name", "g"})
+	tab, err := read("data.csv", strings.NewReader(b.String()), 0, Options{}, nil, []string{"name", "g"})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -111,8 +111,9 @@ func TestDerivedExact(t *testing.T) {
 	}
 }
 
-// TestTemperature checks the temperature formulas of NIST SP 811 B.8 (and
-// section 4.2.1.1 for Celsius), all exact by definition:
+// TestTemperature checks the temperature formulas NIST SP 811 (2008)
+// Appendix B.8 gives in place of factors (from memory, as above), all exact
+// by definition:
 // T/K = t/°C + 273.15; t/°C = (t/°F − 32)/1.8; T/K = (t/°F + 459.67)/1.8.
 func TestTemperature(t *testing.T) {
 	t.Parallel()

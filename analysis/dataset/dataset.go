@@ -502,7 +502,7 @@ func selectColumns(path string, names, numeric, text []string) ([]*column, error
 	for _, a := range absent {
 		p := fmt.Sprintf("no column %q", a)
 		if near := suggest.Nearest(a, names); near != "" {
-			p += fmt.Sprintf(" — did you mean %q?", near)
+			p += fmt.Sprintf(" (did you mean %q?)", near)
 		}
 		parts = append(parts, p)
 	}
@@ -511,7 +511,7 @@ func selectColumns(path string, names, numeric, text []string) ([]*column, error
 		quoted[i] = strconv.Quote(n)
 	}
 	return nil, &Error{File: path, Line: 1, Column: absent[0],
-		Msg: strings.Join(parts, "; ") + "; the header has " + strings.Join(quoted, ", ")}
+		Msg: strings.Join(parts, ", ") + "; the header has " + strings.Join(quoted, ", ")}
 }
 
 func lastIndex(names []string, name string) int {

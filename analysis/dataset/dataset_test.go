@@ -166,7 +166,7 @@ func TestReadErrors(t *testing.T) {
 		{"thousands separator", "a;b\n1.234,5;2\n", Options{DecimalComma: true}, []string{"a"}, nil,
 			Error{Line: 2, Column: "a", Text: "1.234,5", Msg: `"1.234,5" is not a number: it shows both a point and a comma; thousands separators are not accepted, write the number without them`}},
 		{"absent columns", "shot,melt_temp,shrinkage\n1,2,3\n", Options{}, []string{"melt_tmp", "pressure"}, nil,
-			Error{Line: 1, Column: "melt_tmp", Msg: `no column "melt_tmp" — did you mean "melt_temp"?; no column "pressure"; the header has "shot", "melt_temp", "shrinkage"`}},
+			Error{Line: 1, Column: "melt_tmp", Msg: `no column "melt_tmp" (did you mean "melt_temp"?), no column "pressure"; the header has "shot", "melt_temp", "shrinkage"`}},
 		{"column named twice", "x,y,x\n1,2,3\n", Options{}, []string{"x"}, nil,
 			Error{Line: 1, Column: "x", Msg: `the header names this column twice (columns 1 and 3); rename one`}},
 		{"wrong field count", "x,y\n1,2\n3,4,5\n", Options{}, []string{"x"}, nil,

@@ -145,7 +145,7 @@ func TestErrors(t *testing.T) {
 			}},
 		{"bad enums and alpha, all reported", "design = \"observatonal\"\nadjust = \"bonferroni\"\nalpha = 0.7\n[output]\nformats = [\"html\", \"pdf\", \"html\"]\n" + head + study,
 			[]Error{
-				{Line: 1, Col: 1, Key: "design", Msg: `design = "observatonal" is not allowed — did you mean "observational"?; use one of "observational", "designed-experiment", "randomized-experiment"`},
+				{Line: 1, Col: 1, Key: "design", Msg: `design = "observatonal" is not allowed; use one of "observational", "designed-experiment", "randomized-experiment" (did you mean "observational"?)`},
 				{Line: 2, Col: 1, Key: "adjust", Msg: `adjust = "bonferroni" is not allowed; use one of "holm", "bh", "none"`},
 				{Line: 3, Col: 1, Key: "alpha", Msg: `alpha = 0.7 is outside (0, 0.5]: give the significance level as a fraction, such as 0.05`},
 				{Line: 5, Col: 1, Key: "output.formats", Msg: `output.formats = "pdf" is not allowed; use one of "html", "markdown", "json"`},
@@ -174,7 +174,7 @@ func TestErrors(t *testing.T) {
 		{"expectations", head + study + "[study.expect]\ndirection = \"up\"\nform = \"curvy\"\nmin_abs_r = 1.5\nr_within = [0.9, 0.5]\nslope_within = [1]\nmax_p = 0\nmin_n = 2\n",
 			[]Error{
 				{Line: 10, Col: 1, Key: "study.expect.direction", Msg: `study.expect.direction = "up" is not allowed; use one of "positive", "negative", "none"`},
-				{Line: 11, Col: 1, Key: "study.expect.form", Msg: `study.expect.form = "curvy" is not allowed — did you mean "curved"?; use one of "linear", "curved", "nonlinear", "none"`},
+				{Line: 11, Col: 1, Key: "study.expect.form", Msg: `study.expect.form = "curvy" is not allowed; use one of "linear", "curved", "nonlinear", "none" (did you mean "curved"?)`},
 				{Line: 12, Col: 1, Key: "study.expect.min_abs_r", Msg: `study "s1": expect.min_abs_r = 1.5 is outside [0, 1]`},
 				{Line: 13, Col: 1, Key: "study.expect.r_within", Msg: `study "s1": expect.r_within must be two numbers [low, high] with low ≤ high, both in [-1, 1]; got [0.9 0.5]`},
 				{Line: 14, Col: 1, Key: "study.expect.slope_within", Msg: `study "s1": expect.slope_within must be two numbers [low, high] with low ≤ high; got [1]`},

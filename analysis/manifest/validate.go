@@ -83,9 +83,9 @@ func (p *parser) oneOf(owner, key, v string, allowed []string) {
 	}
 	hint := ""
 	if near := suggest.Nearest(v, allowed); near != "" {
-		hint = fmt.Sprintf(" — did you mean %q?", near)
+		hint = fmt.Sprintf(" (did you mean %q?)", near)
 	}
-	p.add(owner, key, "%s = %q is not allowed%s; use one of %s", key, v, hint, strings.Join(quoted, ", "))
+	p.add(owner, key, "%s = %q is not allowed; use one of %s%s", key, v, strings.Join(quoted, ", "), hint)
 }
 
 // where names the place of an earlier array element.

@@ -79,7 +79,7 @@ func series(p *report.Plot, xs, ys []float64) []Series {
 	slices.Sort(levels)
 	out := make([]Series, len(levels))
 	for i, l := range levels {
-		out[i].Name = l
+		out[i].Level = l
 	}
 	for i, g := range p.Groups {
 		k, _ := slices.BinarySearch(levels, g)
@@ -87,7 +87,7 @@ func series(p *report.Plot, xs, ys []float64) []Series {
 		out[k].Y = append(out[k].Y, ys[i])
 	}
 	for i := range out {
-		out[i].Name = fmt.Sprintf("%s (n = %d)", out[i].Name, len(out[i].X))
+		out[i].Name = fmt.Sprintf("%s (n = %d)", out[i].Level, len(out[i].X))
 	}
 	return out
 }
@@ -157,6 +157,7 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		}
 		f.Lines = append(f.Lines, Line{Name: "least-squares line", X: bx, Y: fit, Role: RoleFit})
 	}
+	f.Lines = append(f.Lines, groupLines(s, f.Points)...)
 	if len(p.Lowess) > 0 {
 		f.Lines = append(f.Lines, xyLine("LOWESS curve", p.Lowess, RoleLowess))
 	}
@@ -175,7 +176,11 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		f.Caption += " Dotted: quadratic fit."
 	}
 	if len(f.Points) > 1 {
-		f.Caption += fmt.Sprintf(" Colour and marker shape show %s.", s.Group)
+		f.Caption += fmt.Sprintf(" Colour and marker shape show %s", s.Group)
+		if len(s.Groups) > 0 {
+			f.Caption += "; thin lines: the line within each group"
+		}
+		f.Caption += "."
 	}
 	if len(f.Marked) > 0 {
 		f.Caption += " Circled and labelled: flagged rows."
@@ -185,6 +190,31 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		f.Desc += denseNote(len(p.X), len(f.Marked))
 	}
 	return f
+}
+
+// groupLines draws each group's own least-squares line (intercept and
+// slope from the report's per-group fits) across that group's x range.
+func groupLines(s *report.Study, pts []Series) []Line {
+	if len(pts) < 2 || len(s.Groups) == 0 {
+		return nil
+	}
+	var out []Line
+	for i, ser := range pts {
+		var e extent
+		e.add(ser.X...)
+		for _, g := range s.Groups {
+			if g.Group != ser.Level || e.n == 0 || !g.Slope.Valid() || !g.Intercept.Valid() {
+				continue
+			}
+			a, b := float64(g.Intercept), float64(g.Slope)
+			name := ""
+			if len(out) == 0 {
+				name = "line within each group"
+			}
+			out = append(out, Line{Name: name, X: []float64{e.lo, e.hi}, Y: []float64{a + b*e.lo, a + b*e.hi}, Role: RoleGroup, Group: i})
+		}
+	}
+	return out
 }
 
 func xyLine(name string, pts []report.XY, r Role) Line {

@@ -21,6 +21,7 @@ const (
 	RoleConf               // confidence band: darker fill
 	RolePred               // prediction band: lighter fill, dashed edges
 	RoleZero               // reference line at zero: thin
+	RoleGroup              // the line within one group: thin, in the group's colour
 )
 
 // Figure describes one chart. It holds only data to draw and words to show;
@@ -51,15 +52,17 @@ type Band struct {
 
 // Line is a polyline; a non-finite value breaks it.
 type Line struct {
-	Name string
-	X, Y []float64
-	Role Role
+	Name  string
+	X, Y  []float64
+	Role  Role
+	Group int // for RoleGroup: index of the series whose colour it takes
 }
 
 // Series is one set of points: one group level, or all points.
 type Series struct {
-	Name string
-	X, Y []float64
+	Name  string
+	Level string // the group level; "" for all points
+	X, Y  []float64
 }
 
 // Mark is a flagged point with its label (the row name).

@@ -130,6 +130,8 @@ func (d *svgDrawer) roleStyle(r Role) (stroke string, width float64, dash string
 		return d.pal.Muted, 1, "4 3"
 	case RolePred:
 		return d.pal.Pred, 0.8, "3 3"
+	case RoleGroup:
+		return d.pal.Ink, 1.3, "1 0"
 	default:
 		return d.pal.Conf, 0, ""
 	}
@@ -438,6 +440,12 @@ func (d *svgDrawer) drawDensity(w io.Writer, f *Figure, L *layout) {
 func (d *svgDrawer) drawLines(w io.Writer, f *Figure, L *layout) {
 	for _, l := range f.Lines {
 		stroke, width, dash := d.roleStyle(l.Role)
+		if l.Role == RoleGroup {
+			stroke, dash = d.seriesColour(l.Group, len(f.Points)), ""
+			if d.pal.Monochrome {
+				dash = []string{"", "5 2", "1 2", "8 2 1 2"}[l.Group%4]
+			}
+		}
 		var b strings.Builder
 		pen := false
 		for _, i := range thin(len(l.X)) {
@@ -569,6 +577,9 @@ func (d *svgDrawer) drawLegend(w io.Writer, f *Figure, L *layout) {
 				fmt.Fprintf(w, `<rect x="%s" y="%s" width="20" height="10" fill="%s" fill-opacity="%s"/>`, coord(sx-10), coord(y-9), fill, coord(op*1.6))
 			case "line":
 				stroke, width, dash := d.roleStyle(it.role)
+				if it.role == RoleGroup {
+					dash = ""
+				}
 				da := ""
 				if dash != "" {
 					da = ` stroke-dasharray="` + dash + `"`

@@ -178,7 +178,7 @@ func unitPer(s *report.Study) string {
 	return y + " per " + x
 }
 
-func influenceSection(s *report.Study, _ string, th report.Thresholds) (*section, error) {
+func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
 	in := s.Influence
 	if in == nil {
 		return nil, nil
@@ -196,8 +196,7 @@ func influenceSection(s *report.Study, _ string, th report.Thresholds) (*section
 			num(pt.CooksD), num(pt.DFFITS), strings.Join(pt.Flags, ", ")})
 	}
 	sec.Tables = append(sec.Tables, t)
-	sec.After = append(sec.After, fmt.Sprintf("Thresholds: outlier when the deleted (externally studentized) residual exceeds %s in size; high leverage above %s·p/n; influential by Cook's distance (threshold %s). These are common practice, not a standard.",
-		short(th.OutlierZ), short(th.LeverageFactor), short(th.CooksD)))
+	sec.After = append(sec.After, "The flag rules in force for this study, with their cut points, are stated under \"What the data show\".")
 	return sec, nil
 }
 

@@ -147,10 +147,11 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 	if r.Generated != "" {
 		p.Provenance = append(p.Provenance, kv{"Generated", r.Generated})
 	}
-	p.Thresholds = fmt.Sprintf("Strength from |r|: strong at %s or more, moderate at %s, weak at %s, below that none "+
-		"(cut points of common practice, not a standard). A row is flagged as an outlier when its externally studentized "+
-		"residual exceeds %s in size, as high-leverage when its leverage exceeds %s·p/n, as influential by Cook's distance (threshold %s).",
-		short(th.Strong), short(th.Moderate), short(th.Weak), short(th.OutlierZ), short(th.LeverageFactor), short(th.CooksD))
+	p.Thresholds = fmt.Sprintf("Cut points in force: strength from |r| strong at %s, moderate at %s, weak at %s (common practice, not a standard); "+
+		"leverage factor %s, outlier |studentized residual| %s, Cook's distance %s, curve gain in R² %s, distance correlation for nonlinear %s, smallest group for the reversal check %d. "+
+		"Each study states how its flag rules apply to its own number of rows.",
+		short(th.Strong), short(th.Moderate), short(th.Weak), short(th.LeverageFactor), short(th.OutlierZ), short(th.CooksD),
+		short(th.CurveGainR2), short(th.NonlinearDcor), th.ReversalMinGroup)
 
 	p.Datasets = table{Caption: "Data files read",
 		Head: []string{"Dataset", "File", "SHA-256", "Rows read", "Missing cells", "Non-numeric cells"},

@@ -343,15 +343,18 @@ func mergeCount(a, buf []uint64) int64 {
 			mid := min(lo+width, n)
 			hi := min(lo+2*width, n)
 			i, j, k := lo, mid, lo
+			// Branch-free merge step (the comparison is unpredictable on
+			// noisy data): take the right element only when it is smaller.
 			for i < mid && j < hi {
-				if src[i] <= src[j] {
-					dst[k] = src[i]
-					i++
-				} else {
-					dst[k] = src[j]
-					swaps += int64(mid - i)
-					j++
+				vi, vj := src[i], src[j]
+				v, right := vi, 0
+				if vj < vi {
+					v, right = vj, 1
 				}
+				dst[k] = v
+				swaps += int64(right * (mid - i))
+				i += 1 - right
+				j += right
 				k++
 			}
 			k += copy(dst[k:], src[i:mid])

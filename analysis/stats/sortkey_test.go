@@ -90,3 +90,21 @@ func BenchmarkRadixSort(b *testing.B) {
 		})
 	}
 }
+
+func BenchmarkMergeCount(b *testing.B) {
+	for _, n := range coreBenchSizes {
+		x, _ := coreBenchData(n)
+		src := make([]uint64, n)
+		for i, v := range x {
+			src[i] = floatKey(v)
+		}
+		a, buf := make([]uint64, n), make([]uint64, n)
+		b.Run("n="+strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				copy(a, src)
+				mergeCount(a, buf)
+			}
+		})
+	}
+}

@@ -421,3 +421,26 @@ func TestGoldenFixture(t *testing.T) {
 	golden(t, "fixture.md", mustMD(t, r))
 	golden(t, "fixture.html.outline", []byte(outline(mustHTML(t, r))))
 }
+
+func TestStaleFiguresRemoved(t *testing.T) {
+	dir := t.TempDir()
+	if err := WriteReport(dir, fixture.Report(fixture.Options{}), Formats()); err != nil {
+		t.Fatal(err)
+	}
+	own := filepath.Join(dir, "figures", "notes.txt")
+	os.WriteFile(own, []byte("mine"), 0o644)
+	r := fixture.Report(fixture.Options{})
+	r.Studies = r.Studies[1:] // the study gap-vs-force is gone
+	if err := WriteReport(dir, r, Formats()); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "figures", "gap-vs-force-scatter.svg")); err == nil {
+		t.Error("the figure of a study that is gone was left behind")
+	}
+	if _, err := os.Stat(filepath.Join(dir, "figures", "cure-vs-hold-scatter.svg")); err != nil {
+		t.Error("a current figure was removed")
+	}
+	if _, err := os.Stat(own); err != nil {
+		t.Error("a file that is not ours was removed from figures/")
+	}
+}

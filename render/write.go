@@ -39,6 +39,7 @@ func WriteReport(dir string, r *report.Report, formats []string, opts ...Option)
 		return fmt.Errorf("no output format chosen: want one or more of %s", strings.Join(Formats(), ", "))
 	}
 	var files []File
+	figDir := ""
 	seen := map[string]bool{}
 	for _, f := range formats {
 		if seen[f] {
@@ -59,6 +60,8 @@ func WriteReport(dir string, r *report.Report, formats []string, opts ...Option)
 			}
 			files = append(files, File{Name: MarkdownFile, Data: b})
 			files = append(files, figureFiles(p)...)
+			cfg, _ := newConfig(opts) // already validated by markdownBytes
+			figDir = cfg.figureDir
 		case "json":
 			var b bytes.Buffer
 			if err := report.Write(&b, r); err != nil {
@@ -69,7 +72,40 @@ func WriteReport(dir string, r *report.Report, formats []string, opts ...Option)
 			return fmt.Errorf("unknown output format %q: want one or more of %s", f, strings.Join(Formats(), ", "))
 		}
 	}
-	return writeAtomic(dir, files)
+	if err := writeAtomic(dir, files); err != nil {
+		return err
+	}
+	if figDir != "" {
+		return removeStaleFigures(filepath.Join(dir, filepath.FromSlash(figDir)), files)
+	}
+	return nil
+}
+
+// removeStaleFigures deletes figures a previous run wrote for studies this
+// run no longer has, so report.md's folder holds only what it links to.
+// Only files named like our figures (<study>-scatter.svg, -residuals.svg,
+// -order.svg) are touched.
+func removeStaleFigures(figDir string, files []File) error {
+	keep := map[string]bool{}
+	for _, f := range files {
+		keep[filepath.Base(filepath.FromSlash(f.Name))] = true
+	}
+	entries, err := os.ReadDir(figDir)
+	if err != nil {
+		return nil // nothing to tidy
+	}
+	for _, e := range entries {
+		n := e.Name()
+		if !e.Type().IsRegular() || keep[n] {
+			continue
+		}
+		if strings.HasSuffix(n, "-scatter.svg") || strings.HasSuffix(n, "-residuals.svg") || strings.HasSuffix(n, "-order.svg") {
+			if err := os.Remove(filepath.Join(figDir, n)); err != nil {
+				return fmt.Errorf("removing the old figure %s: %w", n, err)
+			}
+		}
+	}
+	return nil
 }
 
 // writeAtomic writes files under dir by temporary file and rename.

@@ -45,6 +45,7 @@ var (
 		"svg":      func(s string) htmltemplate.HTML { return htmltemplate.HTML(s) },
 		"notes":    func(s string) htmltemplate.HTML { return htmltemplate.HTML(s) }, // goldmark output, raw HTML disabled
 		"rowClass": rowClass,
+		"rowLink":  rowLink,
 	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.html.tmpl"))
 
 	mdTmpl = template.Must(template.New("md").Funcs(template.FuncMap{
@@ -57,6 +58,13 @@ var (
 func rowClass(t table, i int) string {
 	if i < len(t.Classes) {
 		return t.Classes[i]
+	}
+	return ""
+}
+
+func rowLink(t table, i int) string {
+	if i < len(t.Links) {
+		return t.Links[i]
 	}
 	return ""
 }

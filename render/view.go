@@ -37,6 +37,7 @@ type table struct {
 	Num     []bool
 	Rows    [][]string
 	Classes []string // optional class per row ("bad", "ok"), HTML only
+	Links   []string // optional fragment per row: the first cell links to it, HTML only
 }
 
 func (t table) Empty() bool { return len(t.Rows) == 0 }
@@ -186,6 +187,7 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 			cls = "bad"
 		}
 		p.Summary.Classes = append(p.Summary.Classes, cls)
+		p.Summary.Links = append(p.Summary.Links, "study-"+anchors[i])
 		sv, err := buildStudy(s, anchors[i], i, p.Level, cfg, th)
 		if err != nil {
 			return nil, err

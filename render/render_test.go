@@ -164,6 +164,13 @@ func TestHTMLStructure(t *testing.T) {
 			}
 		}
 	}
+	// Elements open and close in pairs.
+	for _, tag := range []string{"section", "figure", "table", "div", "ul", "tr", "svg", "header", "aside", "p"} {
+		open := len(regexp.MustCompile(`<`+tag+`[ >]`).FindAllString(page, -1))
+		if shut := strings.Count(page, "</"+tag+">"); open != shut {
+			t.Errorf("%d <%s> but %d </%s>", open, tag, shut, tag)
+		}
+	}
 	// The notes' image and raw HTML are not rendered.
 	if !strings.Contains(page, "[image: logo]") || strings.Contains(page, "example.invalid/x.png") {
 		t.Error("notes: the image should show as its alt text and raw HTML should be dropped")

@@ -5,3 +5,9 @@ var (
 	Golden  = golden
 	Outline = outline
 )
+
+// Browser helpers for the sample-project browser test.
+var (
+	StartChromium = startChromium
+	PageProblems  = pageProblems
+)

@@ -9,6 +9,7 @@ import (
 	"bivar/analysis"
 	"bivar/analysis/manifest"
 	"bivar/render"
+	"bivar/themes"
 )
 
 // findSample walks up from the test's folder to sample-project/bivar.toml.
@@ -79,5 +80,37 @@ func TestSampleProject(t *testing.T) {
 	})
 	if fi, err := os.Stat(filepath.Join(a, render.HTMLFile)); err == nil && fi.Size() > 2<<20 {
 		t.Errorf("sample report.html is %d bytes, want under 2 MB", fi.Size())
+	}
+}
+
+// TestSampleProjectBrowser opens the sample project's report.html in
+// headless Chromium in every theme: no network request, no console error.
+func TestSampleProjectBrowser(t *testing.T) {
+	if testing.Short() {
+		t.Skip("browser test skipped in -short mode")
+	}
+	path := findSample(t)
+	m, err := manifest.Load(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := analysis.Run(m, analysis.Options{Version: "golden"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, stop := render.StartChromium(t)
+	defer stop()
+	for _, th := range themes.Names() {
+		dir := filepath.Join(t.TempDir(), th)
+		if err := render.WriteReport(dir, r, []string{"html"}, render.WithTheme(th)); err != nil {
+			t.Fatal(err)
+		}
+		problems, png, pdf := render.PageProblems(t, c, filepath.Join(dir, render.HTMLFile))
+		for _, p := range problems {
+			t.Errorf("%s: %s", th, p)
+		}
+		if len(png) == 0 || !bytes.HasPrefix(pdf, []byte("%PDF-")) {
+			t.Errorf("%s: no screenshot or no PDF", th)
+		}
 	}
 }

@@ -93,18 +93,30 @@ type Variable struct {
 	Column string `json:"column"`
 	Label  string `json:"label"` // for people; defaults to the column name
 	Unit   string `json:"unit"`  // UCUM code, "" when none declared
+
+	// Symbol is Unit as people write it ("Cel" → "°C", "{HRC}" → "HRC",
+	// "um" → "µm", "1" → ""), by units.Symbol; renderers and sentences
+	// show this, never the code.
+	Symbol string `json:"symbol"`
 }
 
 // Study is one variable pair and everything computed for it. Sections are
 // pointers: nil when the study failed before reaching them.
 type Study struct {
-	ID         string   `json:"id"`
-	Title      string   `json:"title"`
-	Dataset    string   `json:"dataset"`
-	X          Variable `json:"x"`
-	Y          Variable `json:"y"`
-	Group      string   `json:"group,omitempty"`
-	Order      string   `json:"order,omitempty"`
+	ID      string   `json:"id"`
+	Title   string   `json:"title"`
+	Dataset string   `json:"dataset"`
+	X       Variable `json:"x"`
+	Y       Variable `json:"y"`
+	Group   string   `json:"group,omitempty"`
+	Order   string   `json:"order,omitempty"`
+
+	// GroupLabel and OrderLabel are the group and order columns' labels
+	// from the dataset's [dataset.labels] (the column name when none), for
+	// people; empty when the study has no group or order.
+	GroupLabel string `json:"group_label,omitempty"`
+	OrderLabel string `json:"order_label,omitempty"`
+
 	Covariates []string `json:"covariates,omitempty"`
 
 	N        int         `json:"n"`         // complete cases used
@@ -234,6 +246,12 @@ type Diagnostics struct {
 	OrderTrend   *OrderTrend   `json:"order_trend"`   // nil when no `order`
 	Resistant    *Resistant    `json:"resistant"`
 	Lowess       *LowessInfo   `json:"lowess"`
+
+	// DurbinWatsonX is the Durbin–Watson statistic of the line's residuals
+	// taken in order of x (ties in data order); above 20000 rows, of every
+	// k-th row in data order, k = ⌈n/20000⌉. The form verdict reads it.
+	// NaN below 8 rows.
+	DurbinWatsonX Float `json:"durbin_watson_x"`
 }
 
 // LackOfFit is the pure-error F test for the straight line where x repeats.
@@ -376,20 +394,30 @@ type Prediction struct {
 
 // Findings are the verdicts in words.
 type Findings struct {
-	Form          string   `json:"form"`       // linear | curved | nonlinear | none
-	Bend          *string  `json:"bend"`       // bends-up | bends-down, for curved
-	TurnsOver     bool     `json:"turns_over"` // the curve's vertex lies inside the observed x range
-	TurnX         Float    `json:"turn_x"`
-	Direction     string   `json:"direction"`      // positive | negative | none
-	Strength      string   `json:"strength"`       // strong | moderate | weak | none, from |r|
-	CurveStrength string   `json:"curve_strength"` // from the curve's own R² where curved, else ""
-	OutlierDriven bool     `json:"outlier_driven"`
-	Reversal      bool     `json:"reversal"`       // direction within groups opposes the pooled direction
-	Drift         bool     `json:"drift"`          // residual trend or autocorrelation in run order
-	SpreadChanges bool     `json:"spread_changes"` // Breusch–Pagan significant
-	Headline      string   `json:"headline"`
-	Statements    []string `json:"statements"`
-	Limits        []string `json:"limits"`
+	Form          string  `json:"form"`       // linear | curved | nonlinear | none
+	Bend          *string `json:"bend"`       // bends-up | bends-down, for curved
+	TurnsOver     bool    `json:"turns_over"` // the curve's vertex lies inside the observed x range
+	TurnX         Float   `json:"turn_x"`
+	Direction     string  `json:"direction"`      // positive | negative | none
+	Strength      string  `json:"strength"`       // strong | moderate | weak | none, from |r|
+	CurveStrength string  `json:"curve_strength"` // from the curve's own R² where curved, else ""
+	OutlierDriven bool    `json:"outlier_driven"`
+	Reversal      bool    `json:"reversal"`       // direction within groups opposes the pooled direction
+	Drift         bool    `json:"drift"`          // residual trend or autocorrelation in run order
+	SpreadChanges bool    `json:"spread_changes"` // Breusch–Pagan significant
+
+	// FormWhy, DirectionWhy and StrengthWhy each say in one sentence, with
+	// its figures, which rule decided the verdict of the same name (for
+	// example why the direction is none: r not shown at alpha, or a curve
+	// that turns over). Renderers show these rather than a reason of their
+	// own.
+	FormWhy      string `json:"form_why"`
+	DirectionWhy string `json:"direction_why"`
+	StrengthWhy  string `json:"strength_why"`
+
+	Headline   string   `json:"headline"`
+	Statements []string `json:"statements"`
+	Limits     []string `json:"limits"`
 
 	// ExplainedBy lists the covariates given which the association is no
 	// longer shown (partial r's interval includes 0, or it turns sign).

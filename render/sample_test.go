@@ -19,6 +19,12 @@ func findSample(t *testing.T) string {
 	for {
 		p := filepath.Join(dir, "sample-project", "bivar.toml")
 		if _, err := os.Stat(p); err == nil {
+			// Relative to the test's folder, so the manifest path the
+			// report shows is the same in every checkout.
+			cwd, _ := os.Getwd()
+			if rel, err := filepath.Rel(cwd, p); err == nil {
+				return rel
+			}
 			return p
 		}
 		parent := filepath.Dir(dir)

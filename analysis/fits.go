@@ -145,9 +145,13 @@ func diagnostics(id string, x, y []float64, line stats.LineFit, quad *stats.Regr
 
 // lowessDelta is the smoother's interpolation distance: 0 (a local fit at
 // every distinct x) up to stats.LowessAutoDeltaN points, 1% of the x range
-// beyond (Cleveland 1979, sec. 4, suggests a small fraction of the range;
-// 0.01 is common practice and the rule of stats.Lowess for a negative
-// delta, written out here so the report can state it).
+// beyond. Interpolation between anchor points within delta of each other
+// is the "delta" of Cleveland's program (Cleveland, W. S. (1981), "LOWESS:
+// a program for smoothing scatterplots by robust locally weighted
+// regression", The American Statistician 35(1):54), which leaves its size
+// to the user; 0.01 of the range is common practice (statsmodels'
+// documentation suggests it for large n) and the rule of stats.Lowess for a
+// negative delta, written out here so the report can state it.
 func lowessDelta(x []float64) float64 {
 	if len(x) <= stats.LowessAutoDeltaN {
 		return 0

@@ -90,9 +90,11 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		if msg != "" {
 			s := failed(report.Study{ID: st.ID, Title: st.Title, Dataset: st.Dataset,
 				X: report.Variable{Column: st.X, Label: st.X}, Y: report.Variable{Column: st.Y, Label: st.Y},
-				Group: st.Group, Order: st.Order, Covariates: slices.Clone(st.Covariates), Notes: st.Notes}, msg)
+				Group: st.Group, Order: st.Order, GroupLabel: labelOf(st.Group, ""), OrderLabel: labelOf(st.Order, ""),
+				Covariates: slices.Clone(st.Covariates), Notes: st.Notes}, msg)
 			if ls := loaded[st.Dataset]; ls != nil {
 				s.X, s.Y = variable(ls.decl, st.X), variable(ls.decl, st.Y)
+				s.GroupLabel, s.OrderLabel = labelOf(st.Group, ls.decl.Labels[st.Group]), labelOf(st.Order, ls.decl.Labels[st.Order])
 			}
 			r.Studies[i] = s
 			continue
@@ -299,7 +301,8 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 		ID: st.ID, Title: st.Title, Dataset: st.Dataset, Notes: st.Notes,
 		X: variable(ls.decl, st.X), Y: variable(ls.decl, st.Y),
 		XS: t.Numeric[st.X], YS: t.Numeric[st.Y],
-		GroupColumn: st.Group, OrderColumn: st.Order,
+		GroupColumn: st.Group, GroupLabel: ls.decl.Labels[st.Group],
+		OrderColumn: st.Order, OrderLabel: ls.decl.Labels[st.Order],
 		PredictAt: st.PredictAt, AlsoIn: st.AlsoIn,
 	}
 	missing := ls.decl.Missing

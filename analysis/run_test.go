@@ -87,6 +87,11 @@ func TestRunStructure(t *testing.T) {
 	if s.X.Label != "Barrel temperature" || s.X.Unit != "Cel" || s.Y.Label != "length_mm" || s.Y.Unit != "mm" {
 		t.Errorf("variables: %+v %+v", s.X, s.Y)
 	}
+	// Units as people write them (units.Symbol), and the group and order
+	// columns' labels: the dataset's label, else the column name.
+	if s.GroupLabel != "Production line" || s.OrderLabel != "run_no" {
+		t.Errorf("group label %q, order label %q; want \"Production line\" and \"run_no\"", s.GroupLabel, s.OrderLabel)
+	}
 	if s.Influence == nil || s.Sensitivity == nil || s.Diagnostics == nil || s.Diagnostics.OrderTrend == nil {
 		t.Fatalf("sections missing")
 	}

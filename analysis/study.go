@@ -32,8 +32,10 @@ type Input struct {
 	Rows   []string // row names: id_column value, else the 1-based data row number; nil gives row numbers
 
 	GroupColumn string    // name of the group column; "" when none
+	GroupLabel  string    // the group column for people; "" means the column name
 	Groups      []string  // group level per row; nil when no group
 	OrderColumn string    // name of the run-order column; "" when none
+	OrderLabel  string    // the order column for people; "" means the column name
 	Order       []float64 // run order per row; nil when no order
 
 	// Covariates maps a covariate column to its values. CovariateNames
@@ -159,6 +161,7 @@ func analyze(in Input, cfg Config) report.Study {
 		Order:   in.OrderColumn,
 		Notes:   in.Notes,
 	}
+	s.GroupLabel, s.OrderLabel = labelOf(in.GroupColumn, in.GroupLabel), labelOf(in.OrderColumn, in.OrderLabel)
 	covNames := in.CovariateNames
 	if covNames == nil && len(in.Covariates) > 0 {
 		for k := range in.Covariates {
@@ -266,6 +269,18 @@ func assess(s *report.Study, cfg Config) {
 			s.Plot.Curve = quadraticCurve(s, cfg.CurvePoints)
 		}
 	}
+}
+
+// labelOf is a column's label for people: label, or the column name when
+// label is empty; "" when there is no column.
+func labelOf(column, label string) string {
+	if column == "" {
+		return ""
+	}
+	if label != "" {
+		return label
+	}
+	return column
 }
 
 // failed sets the study's error and returns it.

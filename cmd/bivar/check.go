@@ -6,8 +6,10 @@ package main
 import (
 	"bytes"
 	"context"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 
@@ -23,13 +25,19 @@ func runCheck(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		return code
 	}
 	if fs.NArg() != 1 {
-		fmt.Fprintf(stderr, "bivar check: want one manifest, got %d arguments\nusage: %s\n", fs.NArg(), lookup("check").Usage)
+		fmt.Fprintf(stderr, "bivar check: want one manifest, got %s\nusage: %s\n", nArgs(fs.NArg()), lookup("check").Usage)
 		return exitUsage
 	}
 	// compute tells the user on stderr why it failed; keep a copy for the
 	// CI files, so a failed run replaces them instead of leaving stale ones.
 	var msg bytes.Buffer
-	rep, _, code := compute(fs.Arg(0), io.MultiWriter(stderr, &msg))
+	var rep *report.Report
+	code := exitFailed
+	if err := manifestArg(fs.Arg(0)); err != nil {
+		fmt.Fprintf(io.MultiWriter(stderr, &msg), "bivar check: %v\n", err)
+	} else {
+		rep, _, code = compute(fs.Arg(0), io.MultiWriter(stderr, &msg))
+	}
 	if rep == nil {
 		if *junit != "" {
 			if err := writeWith(*junit, func(w io.Writer) error { return gate.JUnitFailedRun(w, fs.Arg(0), msg.String()) }); err != nil {
@@ -59,18 +67,56 @@ func runCheck(_ context.Context, args []string, stdout, stderr io.Writer) int {
 	return status(rep, stderr)
 }
 
+// nArgs says how many arguments were given, in words for a message.
+func nArgs(n int) string {
+	switch n {
+	case 0:
+		return "none"
+	case 1:
+		return "1 argument"
+	}
+	return fmt.Sprintf("%d arguments", n)
+}
+
+// manifestArg checks the manifest argument before it is loaded, for the
+// mistakes whose low-level error would not say what to do: a folder, a
+// file that does not exist.
+func manifestArg(path string) error {
+	info, err := os.Stat(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return fmt.Errorf("%s: no such file; give the path of a manifest (a TOML file such as bivar.toml; 'bivar init DATA.csv' writes one)", path)
+	case err != nil:
+		return fmt.Errorf("%s: %w", path, err)
+	case info.IsDir():
+		hint := ""
+		if _, err := os.Stat(filepath.Join(path, "bivar.toml")); err == nil {
+			hint = fmt.Sprintf(", such as %s", filepath.Join(path, "bivar.toml"))
+		}
+		return fmt.Errorf("%s is a folder: give the manifest file itself%s", path, hint)
+	}
+	return nil
+}
+
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return fmt.Sprintf("%d %s", n, one)
+	}
+	return fmt.Sprintf("%d %s", n, many)
+}
+
 // checkSummary writes the one-line outcome of a check on stderr.
 func checkSummary(stderr io.Writer, rep *report.Report) {
 	c := gate.Count(rep)
 	switch {
 	case c.Expectations == 0:
-		fmt.Fprintf(stderr, "bivar check: %d studies ran, %d did not; no expectations declared, nothing gated (add [study.expect] to a study)\n",
-			c.Studies-c.StudyErrors, c.StudyErrors)
+		fmt.Fprintf(stderr, "bivar check: %s ran, %d did not; no expectations declared, nothing gated (add [study.expect] to a study)\n",
+			plural(c.Studies-c.StudyErrors, "study", "studies"), c.StudyErrors)
 	default:
-		fmt.Fprintf(stderr, "bivar check: %d of %d expectations held (%d failed) in %d studies",
-			c.Expectations-c.Failed-c.Errored, c.Expectations, c.Failed, c.Studies)
+		fmt.Fprintf(stderr, "bivar check: %d of %s held (%d failed) in %s",
+			c.Expectations-c.Failed-c.Errored, plural(c.Expectations, "expectation", "expectations"), c.Failed, plural(c.Studies, "study", "studies"))
 		if c.StudyErrors > 0 {
-			fmt.Fprintf(stderr, "; %d studies did not run, their %d expectations were not evaluated", c.StudyErrors, c.Errored)
+			fmt.Fprintf(stderr, "; %s did not run, so %s not evaluated", plural(c.StudyErrors, "study", "studies"), plural(c.Errored, "expectation was", "expectations were"))
 		}
 		fmt.Fprintln(stderr)
 	}

@@ -3,7 +3,9 @@ package main
 // This file holds `bivar diff`: compare two runs' results.json.
 
 import (
+	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -12,6 +14,7 @@ import (
 	"path/filepath"
 	"slices"
 	"strings"
+	"unicode/utf8"
 
 	"bivar/analysis/compare"
 	"bivar/analysis/report"
@@ -31,7 +34,7 @@ func runDiff(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		return code
 	}
 	if flags.NArg() != 2 {
-		fmt.Fprintf(stderr, "bivar diff: want OLD and NEW, got %d arguments\nusage: %s\n", flags.NArg(), lookup("diff").Usage)
+		fmt.Fprintf(stderr, "bivar diff: want OLD and NEW (two results.json files or report folders), got %s\nusage: %s\n", nArgs(flags.NArg()), lookup("diff").Usage)
 		return exitUsage
 	}
 	gates, err := parseFailOn(*failOn)
@@ -106,27 +109,99 @@ func parseFailOn(v string) (map[string]bool, error) {
 }
 
 // readResults reads a results.json, or the results.json inside a folder.
-// It returns the file actually read.
+// It returns the file actually read. Its errors name the file, say what is
+// wrong with it (where, for a broken file: line and column) and what to do.
 func readResults(path string) (*report.Report, string, error) {
 	info, err := os.Stat(path)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, path, fmt.Errorf("%s: no such file or folder; give a results.json written by 'bivar run', or the report folder holding one", path)
+	}
 	if err != nil {
-		return nil, path, fmt.Errorf("%w (give a results.json or the folder holding one)", err)
+		return nil, path, fmt.Errorf("%s: %w", path, err)
 	}
 	file := path
 	if info.IsDir() {
 		file = filepath.Join(path, "results.json")
 		if _, err := os.Stat(file); errors.Is(err, fs.ErrNotExist) {
-			return nil, file, fmt.Errorf("%s holds no results.json: give the report folder written by 'bivar run' or the file itself", path)
+			return nil, file, fmt.Errorf("%s holds no results.json: give the report folder written by 'bivar run' (with \"json\" in [output] formats) or the file itself", path)
 		}
 	}
-	f, err := os.Open(file)
-	if err != nil {
-		return nil, file, err
-	}
-	defer f.Close()
-	rep, err := report.Read(f)
+	data, err := os.ReadFile(file)
 	if err != nil {
 		return nil, file, fmt.Errorf("%s: %w", file, err)
 	}
+	if err := resultsShape(data); err != nil {
+		return nil, file, fmt.Errorf("%s: %w", file, err)
+	}
+	rep, err := report.Read(bytes.NewReader(data))
+	if err != nil {
+		return nil, file, fmt.Errorf("%s: %s", file, explainJSON(data, err))
+	}
 	return rep, file, nil
+}
+
+// resultsShape checks, before the strict decoding, that data is a
+// complete JSON object of the results schema, so that a truncated file, a
+// file of another kind and one of another schema version each get their
+// own message instead of the decoder's first complaint.
+func resultsShape(data []byte) error {
+	trimmed := bytes.TrimSpace(bytes.TrimPrefix(data, []byte("\xef\xbb\xbf")))
+	switch {
+	case len(trimmed) == 0:
+		return errors.New("the file is empty: run 'bivar run' again to write it")
+	case !utf8.Valid(data):
+		return errors.New("not UTF-8 text, so not a results.json written by bivar: give the results.json of a report folder")
+	case trimmed[0] != '{':
+		return errors.New("not a JSON object, so not a results.json written by bivar: give the results.json of a report folder")
+	}
+	var head struct {
+		Schema *string `json:"schema"`
+	}
+	if err := json.Unmarshal(trimmed, &head); err != nil {
+		return errors.New(explainJSON(data, err))
+	}
+	switch {
+	case head.Schema == nil:
+		return fmt.Errorf("no \"schema\" key, so not a results.json written by bivar (want schema %q): give the results.json of a report folder", report.Schema)
+	case *head.Schema != report.Schema:
+		if strings.HasPrefix(*head.Schema, "bivar.results/") {
+			return fmt.Errorf("schema %q, but this bivar reads %q: rerun 'bivar run' with this version of bivar to write both sides in the same schema", *head.Schema, report.Schema)
+		}
+		return fmt.Errorf("schema %q is not bivar's results schema %q: give the results.json of a report folder (a diff.json cannot be compared)", *head.Schema, report.Schema)
+	}
+	return nil
+}
+
+// explainJSON turns a decoding error into a sentence with the line and
+// column it happened at, when the decoder gives an offset.
+func explainJSON(data []byte, err error) string {
+	var syn *json.SyntaxError
+	var typ *json.UnmarshalTypeError
+	switch {
+	case errors.Is(err, io.ErrUnexpectedEOF), errors.As(err, &syn) && strings.Contains(syn.Error(), "unexpected end of JSON input"):
+		return fmt.Sprintf("the file ends early, at line %d (cut off while being written or copied?): run 'bivar run' again to write it whole", lineCol(data, int64(len(data)))[0])
+	case errors.As(err, &syn):
+		lc := lineCol(data, syn.Offset)
+		return fmt.Sprintf("line %d, column %d: not valid JSON (%v): the file was changed or damaged after 'bivar run' wrote it; run it again", lc[0], lc[1], syn)
+	case errors.As(err, &typ):
+		lc := lineCol(data, typ.Offset)
+		return fmt.Sprintf("line %d, column %d: key %q holds a JSON %s where bivar wrote a %s: the file was edited or written by another program; run 'bivar run' again", lc[0], lc[1], typ.Field, typ.Value, typ.Type)
+	}
+	msg := err.Error()
+	if strings.Contains(msg, "unknown field") {
+		return msg + ": the file holds a key bivar does not write (edited, or written by a newer bivar); run 'bivar run' again with this version"
+	}
+	return msg
+}
+
+// lineCol returns the 1-based line and column of byte offset off.
+func lineCol(data []byte, off int64) [2]int {
+	off = max(0, min(off, int64(len(data))))
+	before := data[:off]
+	line := bytes.Count(before, []byte("\n")) + 1
+	col := int(off) - (bytes.LastIndexByte(before, '\n') + 1)
+	if col == 0 {
+		col = 1
+	}
+	return [2]int{line, col}
 }

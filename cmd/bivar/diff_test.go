@@ -71,7 +71,7 @@ func TestDiffCommand(t *testing.T) {
 		{"one argument", []string{"diff", a}, exitUsage, "want OLD and NEW"},
 		{"missing file", []string{"diff", "-o", out, filepath.Join(dir, "nope.json"), same}, exitFailed, "OLD:"},
 		{"folder without results", []string{"diff", "-o", out, a, out + "-empty"}, exitFailed, "NEW:"},
-		{"not a results file", []string{"diff", "-o", out, a, filepath.Join(out, "diff.json")}, exitFailed, "not a bivar results file"},
+		{"not a results file", []string{"diff", "-o", out, a, filepath.Join(out, "diff.json")}, exitFailed, "a diff.json cannot be compared"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -97,6 +97,70 @@ func TestDiffCommand(t *testing.T) {
 	}
 	if res.Old.File != filepath.ToSlash(filepath.Join(dir, "a", "results.json")) || res.Summary.Compared != 1 {
 		t.Errorf("diff.json: old file %q, compared %d", res.Old.File, res.Summary.Compared)
+	}
+}
+
+// TestDiffBadResults: every kind of file that is not a complete
+// results.json of this schema is refused with exit status 1, a message
+// naming the side, the file, what is wrong (and where) and what to do, and
+// no diff written.
+func TestDiffBadResults(t *testing.T) {
+	dir := t.TempDir()
+	good := writeResults(t, filepath.Join(dir, "good"), runOf(1, 0.8, "strong"))
+	full, err := os.ReadFile(good)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cases := []struct {
+		name, content string
+		want          []string
+	}{
+		{"truncated", string(full[:len(full)/2]), []string{"ends early, at line", "run 'bivar run' again"}},
+		{"empty", "", []string{"the file is empty"}},
+		{"blank", " \n\n", []string{"the file is empty"}},
+		{"array", "[1, 2]", []string{"not a JSON object"}},
+		{"not utf-8", "{\"schema\": \"\xff\"}", []string{"not UTF-8"}},
+		{"no schema", `{"studies": []}`, []string{`no "schema" key`}},
+		{"newer schema", strings.Replace(string(full), report.Schema, "bivar.results/v2", 1), []string{`schema "bivar.results/v2", but this bivar reads "bivar.results/v1"`, "rerun 'bivar run'"}},
+		{"other schema", `{"schema": "acme/1"}`, []string{`schema "acme/1" is not bivar's results schema`}},
+		{"syntax error", strings.Replace(string(full), `"studies": [`, `"studies": [,`, 1), []string{"line ", "column ", "not valid JSON"}},
+		{"wrong type", strings.Replace(string(full), `"rows": 40`, `"rows": "forty"`, 1), []string{"line ", `key "datasets.rows" holds a JSON string`}},
+		{"unknown key", strings.Replace(string(full), `"schema":`, `"colour": 1, "schema":`, 1), []string{`unknown field "colour"`, "does not write"}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			p := filepath.Join(dir, strings.ReplaceAll(tc.name, " ", "-")+".json")
+			writeFile(t, p, tc.content)
+			out := filepath.Join(dir, "out-"+strings.ReplaceAll(tc.name, " ", "-"))
+			code, _, stderr := call(t, "diff", "-o", out, good, p)
+			if code != exitFailed {
+				t.Errorf("exit %d, want 1; stderr %q", code, stderr)
+			}
+			for _, w := range append([]string{"bivar diff: NEW: " + p + ": "}, tc.want...) {
+				if !strings.Contains(stderr, w) {
+					t.Errorf("stderr lacks %q:\n%s", w, stderr)
+				}
+			}
+			if strings.Contains(stderr, "panic") || strings.Count(stderr, "\n") != 1 {
+				t.Errorf("want one line of message:\n%s", stderr)
+			}
+			if _, err := os.Stat(out); err == nil {
+				t.Errorf("%s was created for a diff that failed", out)
+			}
+		})
+	}
+	if code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "o"), filepath.Join(dir, "absent"), good); code != exitFailed ||
+		!strings.Contains(stderr, "no such file or folder; give a results.json") {
+		t.Errorf("absent OLD: exit %d, %q", code, stderr)
+	}
+	if code, _, stderr := call(t, "diff", "a", "b", "c"); code != exitUsage || !strings.Contains(stderr, "got 3 arguments") {
+		t.Errorf("three arguments: exit %d, %q", code, stderr)
+	}
+	if code, _, stderr := call(t, "diff", "a"); code != exitUsage || !strings.Contains(stderr, "got 1 argument\n") {
+		t.Errorf("one argument: exit %d, %q", code, stderr)
+	}
+	if code, _, _ := call(t, "diff", "--colour", "a", "b"); code != exitUsage {
+		t.Errorf("unknown flag: exit %d, want 2", code)
 	}
 }
 

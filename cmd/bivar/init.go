@@ -38,7 +38,7 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		return code
 	}
 	if flags.NArg() != 1 {
-		fmt.Fprintf(stderr, "bivar init: want one CSV file, got %d arguments\nusage: %s\n", flags.NArg(), lookup("init").Usage)
+		fmt.Fprintf(stderr, "bivar init: want one CSV file, got %s\nusage: %s\n", nArgs(flags.NArg()), lookup("init").Usage)
 		return exitUsage
 	}
 	csvPath := flags.Arg(0)

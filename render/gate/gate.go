@@ -7,7 +7,9 @@
 // <testsuites> root, one <testsuite> per study that declares expectations,
 // one <testcase> per expectation named after its manifest key, class name
 // "bivar.<study id>"). A failed expectation is a <failure>; an expectation
-// of a study that could not run is an <error> carrying the study's error.
+// of a study that could not run is an <error> carrying the study's error,
+// and a study without expectations that could not run gets one test case
+// "run" with that <error>, since it fails the job too.
 // Every text is escaped by encoding/xml, which also replaces characters
 // that XML 1.0 does not allow.
 package gate
@@ -65,13 +67,17 @@ type junitSuites struct {
 }
 
 type junitSuite struct {
-	Name       string          `xml:"name,attr"`
-	Tests      int             `xml:"tests,attr"`
-	Failures   int             `xml:"failures,attr"`
-	Errors     int             `xml:"errors,attr"`
-	Skipped    int             `xml:"skipped,attr"`
-	Properties []junitProperty `xml:"properties>property,omitempty"`
-	Cases      []junitCase     `xml:"testcase"`
+	Name       string           `xml:"name,attr"`
+	Tests      int              `xml:"tests,attr"`
+	Failures   int              `xml:"failures,attr"`
+	Errors     int              `xml:"errors,attr"`
+	Skipped    int              `xml:"skipped,attr"`
+	Properties *junitProperties `xml:"properties"` // nil: no element (an empty one upsets some readers)
+	Cases      []junitCase      `xml:"testcase"`
+}
+
+type junitProperties struct {
+	Property []junitProperty `xml:"property"`
 }
 
 type junitProperty struct {
@@ -98,20 +104,25 @@ type junitProblem struct {
 func JUnit(w io.Writer, r *report.Report) error {
 	root := junitSuites{Name: suiteName(r)}
 	for _, s := range r.Studies {
-		if len(s.Expectations) == 0 {
+		if len(s.Expectations) == 0 && s.Error == nil {
 			continue
 		}
-		suite := junitSuite{
-			Name: s.ID,
-			Properties: []junitProperty{
-				{Name: "dataset", Value: s.Dataset},
-				{Name: "x", Value: s.X.Column},
-				{Name: "y", Value: s.Y.Column},
-				{Name: "n", Value: fmt.Sprint(s.N)},
-			},
-		}
+		props := &junitProperties{Property: []junitProperty{
+			{Name: "dataset", Value: s.Dataset},
+			{Name: "x", Value: s.X.Column},
+			{Name: "y", Value: s.Y.Column},
+			{Name: "n", Value: fmt.Sprint(s.N)},
+		}}
 		if sha := datasetSHA(r, s.Dataset); sha != "" {
-			suite.Properties = append(suite.Properties, junitProperty{Name: "dataset_sha256", Value: sha})
+			props.Property = append(props.Property, junitProperty{Name: "dataset_sha256", Value: sha})
+		}
+		suite := junitSuite{Name: s.ID, Properties: props}
+		if len(s.Expectations) == 0 {
+			// A study that did not run fails the job (exit status 1) even
+			// without expectations: one error case says so on the CI page.
+			suite.Cases = append(suite.Cases, junitCase{Name: "run", Classname: "bivar." + s.ID,
+				Error: &junitProblem{Message: "the study did not run: " + *s.Error, Type: "study-error", Text: *s.Error}})
+			suite.Errors++
 		}
 		for _, e := range s.Expectations {
 			c := junitCase{Name: e.Name, Classname: "bivar." + s.ID,

@@ -3,6 +3,8 @@ package gate
 import (
 	"bytes"
 	"encoding/xml"
+	"fmt"
+	"io"
 	"strings"
 	"testing"
 
@@ -165,4 +167,147 @@ func TestFailedRun(t *testing.T) {
 	if strings.Count(buf.String(), "```") != 2 || !strings.Contains(buf.String(), "Could not run") {
 		t.Errorf("summary:\n%s", buf.String())
 	}
+}
+
+// TestJUnitStudyThatDidNotRun: a study without expectations that could
+// not run fails the job (exit status 1), so the JUnit file must show it:
+// one error case "run" carrying the study's error.
+func TestJUnitStudyThatDidNotRun(t *testing.T) {
+	bad := `only 2 complete rows of x "a" and y "b"; at least 3 are needed`
+	r := &report.Report{Schema: report.Schema, Manifest: report.ManifestInfo{Title: "t"},
+		Studies: []report.Study{
+			{ID: "ran", Dataset: "d"}, // ran, nothing declared: not a test
+			{ID: "broken", Dataset: "d", Error: &bad},
+		}}
+	var buf bytes.Buffer
+	if err := JUnit(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	var got parsedSuites
+	if err := xml.Unmarshal(buf.Bytes(), &got); err != nil {
+		t.Fatalf("does not parse: %v\n%s", err, buf.String())
+	}
+	if got.Tests != 1 || got.Errors != 1 || got.Failures != 0 || len(got.Suites) != 1 {
+		t.Fatalf("tests %d errors %d failures %d suites %d; want 1 1 0 1\n%s", got.Tests, got.Errors, got.Failures, len(got.Suites), buf.String())
+	}
+	s := got.Suites[0]
+	if s.Name != "broken" || s.Errors != 1 || len(s.Cases) != 1 {
+		t.Fatalf("suite %+v", s)
+	}
+	if c := s.Cases[0]; c.Name != "run" || c.Classname != "bivar.broken" || c.Error == nil || !strings.Contains(c.Error.Message, "only 2 complete rows") {
+		t.Errorf("case %+v", c)
+	}
+	conformant(t, buf.Bytes())
+}
+
+// conformant checks a JUnit document against the conventions the common
+// CI readers share (the Ant JUnit task's report format as read by
+// Jenkins' JUnit plugin, GitLab and GitHub test-report actions; stated
+// from their documentation as remembered, no schema file at hand):
+// root <testsuites> with tests, failures and errors; each <testsuite>
+// with name, tests, failures, errors; each <testcase> with name and
+// classname; <failure> and <error> with message and type; the counts
+// equal to the cases below them; no empty <properties>.
+func conformant(t *testing.T, doc []byte) {
+	t.Helper()
+	dec := xml.NewDecoder(bytes.NewReader(doc))
+	attrs := func(se xml.StartElement) map[string]string {
+		m := map[string]string{}
+		for _, a := range se.Attr {
+			m[a.Name.Local] = a.Value
+		}
+		return m
+	}
+	need := func(se xml.StartElement, names ...string) map[string]string {
+		m := attrs(se)
+		for _, n := range names {
+			if _, ok := m[n]; !ok {
+				t.Errorf("<%s> lacks attribute %s", se.Name.Local, n)
+			}
+		}
+		return m
+	}
+	type counts struct{ tests, failures, errors int }
+	var root, suite counts
+	var rootAttr, suiteAttr map[string]string
+	var stack []string
+	propsChildren := 0
+	check := func(what string, attr map[string]string, c counts) {
+		for k, v := range map[string]int{"tests": c.tests, "failures": c.failures, "errors": c.errors} {
+			if attr[k] != fmt.Sprint(v) {
+				t.Errorf("%s %s=%q, but it holds %d", what, k, attr[k], v)
+			}
+		}
+	}
+	for {
+		tok, err := dec.Token()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			t.Fatalf("not well-formed XML: %v", err)
+		}
+		switch tok := tok.(type) {
+		case xml.StartElement:
+			name := tok.Name.Local
+			if len(stack) == 0 && name != "testsuites" {
+				t.Fatalf("root element <%s>, want <testsuites>", name)
+			}
+			switch name {
+			case "testsuites":
+				rootAttr = need(tok, "tests", "failures", "errors")
+			case "testsuite":
+				suiteAttr = need(tok, "name", "tests", "failures", "errors")
+				suite = counts{}
+			case "testcase":
+				need(tok, "name", "classname")
+				suite.tests++
+				root.tests++
+			case "failure", "error":
+				need(tok, "message", "type")
+				if name == "failure" {
+					suite.failures++
+					root.failures++
+				} else {
+					suite.errors++
+					root.errors++
+				}
+			case "properties":
+				propsChildren = 0
+			case "property":
+				need(tok, "name", "value")
+				propsChildren++
+			}
+			stack = append(stack, name)
+		case xml.EndElement:
+			switch tok.Name.Local {
+			case "testsuite":
+				check("testsuite "+suiteAttr["name"], suiteAttr, suite)
+			case "properties":
+				if propsChildren == 0 {
+					t.Error("an empty <properties> element")
+				}
+			}
+			stack = stack[:len(stack)-1]
+		}
+	}
+	check("testsuites", rootAttr, root)
+}
+
+func TestJUnitConformant(t *testing.T) {
+	var buf bytes.Buffer
+	if err := JUnit(&buf, sample()); err != nil {
+		t.Fatal(err)
+	}
+	conformant(t, buf.Bytes())
+	buf.Reset()
+	if err := JUnitFailedRun(&buf, "m.toml", "bivar: m.toml: no such file"); err != nil {
+		t.Fatal(err)
+	}
+	conformant(t, buf.Bytes())
+	buf.Reset()
+	if err := JUnit(&buf, &report.Report{}); err != nil {
+		t.Fatal(err)
+	}
+	conformant(t, buf.Bytes())
 }

@@ -9,6 +9,7 @@ import (
 
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
+	"bivar/analysis/units"
 )
 
 // Expectations evaluates the gates of e on the finished study s (after
@@ -140,12 +141,27 @@ func interval(what string, w []float64, unit string) string {
 	return fmt.Sprintf("%s in [%s, %s]%s", what, num(report.Float(w[0])), num(report.Float(w[1])), unit)
 }
 
-// slopeUnit is " Y/X" in the recorded units, or "" when either is unknown.
+// slopeUnit is the slope's unit as people write it (units.Symbol):
+// " HRC/°C", " per °C" when y has no unit (or is a pure number), and ""
+// when x has none.
 func slopeUnit(s *report.Study) string {
-	if s.X.Unit == "" || s.Y.Unit == "" {
+	xs, ys := symbolOf(s.X), symbolOf(s.Y)
+	switch {
+	case xs == "":
 		return ""
+	case ys == "":
+		return " per " + xs
 	}
-	return " " + s.Y.Unit + "/" + s.X.Unit
+	return " " + ys + "/" + xs
+}
+
+// symbolOf is the variable's unit symbol: Variable.Symbol, or units.Symbol
+// of its code when a study built by hand leaves Symbol empty.
+func symbolOf(v report.Variable) string {
+	if v.Symbol != "" || v.Unit == "" {
+		return v.Symbol
+	}
+	return units.Symbol(v.Unit)
 }
 
 func adjustName(a string) string {

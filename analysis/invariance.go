@@ -61,7 +61,11 @@ func unitInvariance(in Input, x, y []float64, r float64, line stats.LineFit) []r
 	}
 	sw := fit(in.Y.Unit, in.X.Unit, y, x)
 	sw.Swapped = true
-	return append(rows, sw)
+	rows = append(rows, sw)
+	for i := range rows {
+		rows[i].XSymbol, rows[i].YSymbol = units.Symbol(rows[i].XUnit), units.Symbol(rows[i].YUnit)
+	}
+	return rows
 }
 
 // predictions evaluates the line's mean response and prediction interval

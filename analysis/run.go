@@ -29,6 +29,7 @@ import (
 	"bivar/analysis/internal/suggest"
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
+	"bivar/analysis/units"
 )
 
 // Options are the facts about this run that do not come from the manifest.
@@ -267,7 +268,7 @@ func splitReasons(ex []report.Exclusion, t *dataset.Table) []report.Exclusion {
 
 // variable describes one column: its label and unit from the dataset.
 func variable(ds manifest.Dataset, col string) report.Variable {
-	v := report.Variable{Column: col, Label: col, Unit: ds.Units[col]}
+	v := report.Variable{Column: col, Label: col, Unit: ds.Units[col], Symbol: units.Symbol(ds.Units[col])}
 	if l := ds.Labels[col]; l != "" {
 		v.Label = l
 	}

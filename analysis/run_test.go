@@ -89,6 +89,9 @@ func TestRunStructure(t *testing.T) {
 	}
 	// Units as people write them (units.Symbol), and the group and order
 	// columns' labels: the dataset's label, else the column name.
+	if s.X.Symbol != "°C" || s.Y.Symbol != "mm" {
+		t.Errorf("symbols: x %q, y %q; want °C and mm", s.X.Symbol, s.Y.Symbol)
+	}
 	if s.GroupLabel != "Production line" || s.OrderLabel != "run_no" {
 		t.Errorf("group label %q, order label %q; want \"Production line\" and \"run_no\"", s.GroupLabel, s.OrderLabel)
 	}
@@ -131,6 +134,9 @@ func TestRunUnitInvariance(t *testing.T) {
 		if u.Note != "" || math.Abs(float64(u.R)-r0) > 1e-12 {
 			t.Errorf("unit row %+v: r differs from %v by more than 1e-12", u, r0)
 		}
+	}
+	if u := s.UnitInvariance[1]; u.XSymbol != "°F" || u.YSymbol != "mm" {
+		t.Errorf("unit row 1 symbols %q, %q; want °F and mm", u.XSymbol, u.YSymbol)
 	}
 	if !s.UnitInvariance[4].Swapped {
 		t.Errorf("last row not the swapped one: %+v", s.UnitInvariance[4])

@@ -16,6 +16,7 @@ import (
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
+	"bivar/analysis/units"
 )
 
 // Input is one study's data, as Run hands it to Analyze. Every per-row
@@ -162,6 +163,11 @@ func analyze(in Input, cfg Config) report.Study {
 		Notes:   in.Notes,
 	}
 	s.GroupLabel, s.OrderLabel = labelOf(in.GroupColumn, in.GroupLabel), labelOf(in.OrderColumn, in.OrderLabel)
+	for _, v := range []*report.Variable{&s.X, &s.Y} {
+		if v.Symbol == "" {
+			v.Symbol = units.Symbol(v.Unit)
+		}
+	}
 	covNames := in.CovariateNames
 	if covNames == nil && len(in.Covariates) > 0 {
 		for k := range in.Covariates {

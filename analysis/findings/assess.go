@@ -13,6 +13,7 @@ import (
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
+	"bivar/analysis/units"
 )
 
 // Designs named by the manifest's `design`.
@@ -57,6 +58,7 @@ type facts struct {
 	dcorRoute, dwRoute bool // which test found the nonlinear pattern
 	xLabel             string
 	yLabel             string
+	xSym, ySym         string // the units as people write them (report.Variable.Symbol)
 	without            string // direction without the suspect rows; "undefined" when r cannot be computed
 	weaker             bool   // same direction without the flagged rows, but a lower strength grade
 }
@@ -122,6 +124,7 @@ func Assess(s *report.Study, ctx Context) *report.Findings {
 	}
 	f.conf = num(100*(1-f.alpha)) + "%"
 	f.xLabel, f.yLabel = label(s.X), label(s.Y)
+	f.xSym, f.ySym = symbol(s.X), symbol(s.Y)
 
 	out := &report.Findings{TurnX: report.NaN(), Statements: []string{}, Limits: []string{}, ExplainedBy: []string{}}
 	f.decide(out)
@@ -134,6 +137,15 @@ func label(v report.Variable) string {
 		return v.Label
 	}
 	return v.Column
+}
+
+// symbol is the variable's unit as people write it: Variable.Symbol, or
+// units.Symbol of its code when a study built by hand leaves Symbol empty.
+func symbol(v report.Variable) string {
+	if v.Symbol != "" || v.Unit == "" {
+		return v.Symbol
+	}
+	return units.Symbol(v.Unit)
 }
 
 // sign is +1, −1 or 0.
@@ -483,7 +495,7 @@ func (f *facts) write(out *report.Findings) {
 	case "curved":
 		h = fmt.Sprintf("%s follows a curve in %s that bends %s", capital(y), x, strings.TrimPrefix(*out.Bend, "bends-"))
 		if out.TurnsOver {
-			h += fmt.Sprintf(" and turns over near %s = %s", x, withUnit(float64(out.TurnX), s.X.Unit))
+			h += fmt.Sprintf(" and turns over near %s = %s", x, withUnit(float64(out.TurnX), f.xSym))
 		}
 		h += fmt.Sprintf(": %s as a curve (R² = %s), %s as a straight line (%s).", out.CurveStrength, corr(float64(f.quad.R2)),
 			strengthWord(out.Strength), rText)
@@ -534,7 +546,7 @@ func (f *facts) write(out *report.Findings) {
 			ci = fmt.Sprintf("%s CI %s to %s", f.conf, num(float64(l.Slope.CILow)), num(float64(l.Slope.CIHigh)))
 		}
 		add("The least-squares line: %s changes by %s %s (%s); at %s = 0 the line gives %s.",
-			y, num(float64(l.Slope.Estimate)), perUnit(s.Y.Unit, s.X.Unit, x), ci, x, withUnit(float64(l.Intercept.Estimate), s.Y.Unit))
+			y, num(float64(l.Slope.Estimate)), perUnit(f.ySym, f.xSym, x), ci, x, withUnit(float64(l.Intercept.Estimate), f.ySym))
 	}
 	if s.Spearman != nil && s.Kendall != nil {
 		add("Rank correlations, which use only the order of the values: Spearman ρ = %s (%s), Kendall τ-b = %s (%s).",
@@ -601,10 +613,10 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 				first, then = "falls", "rises"
 			}
 			add("The curve turns over inside the observed range: %s %s with %s up to about %s and %s beyond it, so it has no single direction.",
-				f.yLabel, first, x, withUnit(float64(out.TurnX), s.X.Unit), then)
+				f.yLabel, first, x, withUnit(float64(out.TurnX), f.xSym), then)
 		} else if v := float64(q.Vertex); !math.IsNaN(v) && s.Describe != nil {
 			add("The curve does not turn over inside the observed range (%s): its fitted turning point, %s = %s, is not reached by the data.",
-				span(float64(s.Describe.X.Min), float64(s.Describe.X.Max), s.X.Unit), x, withUnit(v, s.X.Unit))
+				span(float64(s.Describe.X.Min), float64(s.Describe.X.Max), f.xSym), x, withUnit(v, f.xSym))
 		}
 	case "nonlinear":
 		if f.dcor != nil {
@@ -744,7 +756,7 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 			add("Leaving out the %s flagged as %s: r = %s (%s, %s), slope %s %s; %s.",
 				plural(se.NFlagged, "row", "rows"), suspectWords, corr(float64(se.RWithoutFlagged)), f.interval(se.RWithoutLow, se.RWithoutHigh),
 				pval(float64(se.PWithoutFlagged)), num(float64(se.SlopeWithoutFlagged)),
-				perUnit(s.Y.Unit, s.X.Unit, f.xLabel), verdict)
+				perUnit(f.ySym, f.xSym, f.xLabel), verdict)
 		}
 	}
 	if se.LooRMin.Valid() && se.LooRMax.Valid() {
@@ -763,7 +775,7 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 			method = " by " + s.Diagnostics.Resistant.Method
 		}
 		add("The resistant slope%s, which a few unusual rows cannot pull, is %s %s against %s by least squares.",
-			method, num(float64(se.ResistantSlope)), perUnit(s.Y.Unit, s.X.Unit, f.xLabel), num(float64(s.Line.Slope.Estimate)))
+			method, num(float64(se.ResistantSlope)), perUnit(f.ySym, f.xSym, f.xLabel), num(float64(s.Line.Slope.Estimate)))
 	}
 }
 
@@ -798,7 +810,7 @@ func (f *facts) limits(out *report.Findings) {
 
 	rangeText := ""
 	if s.Describe != nil {
-		rangeText = " (" + span(float64(s.Describe.X.Min), float64(s.Describe.X.Max), s.X.Unit) + ")"
+		rangeText = " (" + span(float64(s.Describe.X.Min), float64(s.Describe.X.Max), f.xSym) + ")"
 	}
 	switch f.designName() {
 	case RandomizedExperiment:
@@ -812,7 +824,7 @@ func (f *facts) limits(out *report.Findings) {
 	var outside []string
 	for _, p := range s.Predictions {
 		if !p.InRange {
-			outside = append(outside, withUnit(float64(p.X), s.X.Unit))
+			outside = append(outside, withUnit(float64(p.X), f.xSym))
 		}
 	}
 	if len(outside) > 0 {

@@ -390,3 +390,23 @@ func TestAssessUndefinedNumbers(t *testing.T) {
 		t.Errorf("bare study: %+v", f)
 	}
 }
+
+// TestAssessUnitSymbols: sentences show units as people write them, by
+// units.Symbol (report.Variable.Symbol, or the code's symbol when a study
+// built by hand leaves it empty), never a raw UCUM code.
+func TestAssessUnitSymbols(t *testing.T) {
+	s := study(-0.82, 1e-6)
+	s.X = report.Variable{Column: "gas", Label: "gas flow", Unit: "m3/h"} // Symbol left empty
+	s.Y = report.Variable{Column: "hrc", Label: "hardness", Unit: "{HRC}", Symbol: "HRC"}
+	text := all(Assess(s, ctx))
+	for _, want := range []string{"HRC per m³/h", "0 to 10 m³/h"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("findings lack %q:\n%s", want, text)
+		}
+	}
+	for _, raw := range []string{"{", "m3/h"} {
+		if strings.Contains(text, raw) {
+			t.Errorf("findings show the raw code %q:\n%s", raw, text)
+		}
+	}
+}

@@ -71,37 +71,8 @@ func minus(s string) string {
 	return s
 }
 
-// unitText is a UCUM code as people write it ("Cel" → "°C").
-func unitText(code string) string {
-	switch code {
-	case "":
-		return ""
-	case "Cel":
-		return "°C"
-	case "[degF]":
-		return "°F"
-	case "K":
-		return "K"
-	case "[in_i]":
-		return "in"
-	case "[ft_i]":
-		return "ft"
-	case "[lb_av]":
-		return "lb"
-	case "[psi]":
-		return "psi"
-	case "um":
-		return "µm"
-	case "ug":
-		return "µg"
-	}
-	s := strings.NewReplacer("[", "", "]", "", "{", "", "}", "", "_i", "", "_av", "").Replace(code)
-	return s
-}
-
-// withUnit is a value followed by its unit, if any.
-func withUnit(v float64, code string) string {
-	u := unitText(code)
+// withUnit is a value followed by its unit symbol (units.Symbol), if any.
+func withUnit(v float64, u string) string {
 	if u == "" {
 		return num(v)
 	}
@@ -111,10 +82,9 @@ func withUnit(v float64, code string) string {
 	return num(v) + " " + u
 }
 
-// perUnit names the slope's unit: "% per °C", or words when units are
-// not declared.
-func perUnit(yCode, xCode, xLabel string) string {
-	yu, xu := unitText(yCode), unitText(xCode)
+// perUnit names the slope's unit from the two unit symbols: "% per °C",
+// or words when units are not declared.
+func perUnit(yu, xu, xLabel string) string {
 	if yu == "" {
 		yu = "units"
 	}
@@ -125,8 +95,8 @@ func perUnit(yCode, xCode, xLabel string) string {
 }
 
 // span writes a range "4 to 14 °C".
-func span(lo, hi float64, code string) string {
-	return num(lo) + " to " + withUnit(hi, code)
+func span(lo, hi float64, u string) string {
+	return num(lo) + " to " + withUnit(hi, u)
 }
 
 // listRows names rows: "row 8", "rows 6 and 8", and past five names

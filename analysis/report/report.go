@@ -379,6 +379,10 @@ type UnitRow struct {
 	Slope     Float  `json:"slope"`
 	Intercept Float  `json:"intercept"`
 	Note      string `json:"note,omitempty"` // why the row's numbers are undefined (a unit that does not convert)
+
+	// XSymbol and YSymbol are XUnit and YUnit as people write them (units.Symbol).
+	XSymbol string `json:"x_symbol"`
+	YSymbol string `json:"y_symbol"`
 }
 
 // Prediction is the line's mean response and a new observation at one x.

@@ -1,0 +1,42 @@
+package analysis
+
+import (
+	"strings"
+	"testing"
+
+	"bivar/analysis/manifest"
+	"bivar/analysis/report"
+)
+
+// expectStudy is a hand-built finished study; its numbers are inputs to
+// the wording, not check values.
+func expectStudy() *report.Study {
+	return &report.Study{
+		ID: "s", N: 119, NMissing: 1,
+		X:           report.Variable{Column: "t", Unit: "Cel", Symbol: "°C"},
+		Y:           report.Variable{Column: "h", Unit: "{HRC}"}, // Symbol left empty: taken from the code
+		Pearson:     &report.Pearson{R: -0.98, CILow: -0.99, CIHigh: -0.97, P: 1e-9, PAdjusted: 2e-9},
+		Line:        &report.Fit{Slope: &report.Coef{Estimate: -0.07956, CILow: -0.0824, CIHigh: -0.0767}},
+		Findings:    &report.Findings{Direction: "negative", Form: "linear"},
+		Sensitivity: &report.Sensitivity{NFlagged: 1, RWithoutFlagged: -0.97},
+	}
+}
+
+// TestExpectationUnits: the slope's unit is shown as people write it
+// (units.Symbol), never as UCUM codes such as "{HRC}/Cel".
+func TestExpectationUnits(t *testing.T) {
+	s := expectStudy()
+	e := Expectations(s, &manifest.Expect{SlopeWithin: []float64{-0.095, -0.065}}, 0.05, "holm")
+	if len(e) != 1 {
+		t.Fatalf("expectations %+v", e)
+	}
+	for _, text := range []string{e[0].Want, e[0].Got, e[0].Detail} {
+		if !strings.Contains(text, "HRC/°C") || strings.Contains(text, "{") || strings.Contains(text, "Cel") {
+			t.Errorf("%q: want the unit written HRC/°C", text)
+		}
+	}
+	s.Y.Unit, s.Y.Symbol = "", ""
+	if got := Expectations(s, &manifest.Expect{SlopeWithin: []float64{-1, 0}}, 0.05, "holm")[0].Got; !strings.HasSuffix(got, " per °C") {
+		t.Errorf("y without a unit: got %q, want the slope per °C", got)
+	}
+}

@@ -17,7 +17,12 @@ import (
 //
 // (Abramowitz & Stegun 26.5.27 and 26.7.1), which keeps full relative
 // precision in the far tail where 1 − CDF would cancel. It returns NaN for
-// df ≤ 0 or a NaN t.
+// df ≤ 0 or a NaN t. Measured against scipy 1.10.1 (2·scipy.stats.t.sf):
+// relative error below 1e-13 for df ≤ 100 and t up to 100, 1e-12 at
+// df = 10⁴, 2e-10 at df = 10⁶ (confirmed with mpmath 1.2.1 betainc;
+// mathext.RegIncBeta forms the log-beta of a large first argument as a
+// difference of log-gammas, which loses digits). That is far below any
+// precision a p-value is reported to; see TestDistTailsReference.
 func TwoSidedT(t, df float64) float64 {
 	if !(df > 0) || math.IsNaN(t) {
 		return math.NaN()
@@ -67,8 +72,15 @@ func UpperChi2(x, df float64) float64 {
 }
 
 // TQuantile returns the p-quantile of Student's t with df degrees of
-// freedom. Sigma must be set to 1: distuv.StudentsT with Sigma 0 returns 0
-// for every quantile.
+// freedom, by gonum's distuv.StudentsT (Sigma must be set to 1: with Sigma 0
+// it returns 0 for every quantile). Measured against 40-digit mpmath 1.2.1
+// (the root of betainc(df/2, 1/2, 0, df/(df+t²), regularized)/2 = 1 − p):
+// about 1e-15 relative for df ≤ 10³ and 5e-11 at df = 10⁶ (the tail it
+// inverts loses digits there, see TwoSidedT). scipy 1.10.1's
+// scipy.stats.t.ppf is the less accurate of the two at small df (2e-9 at
+// df = 5, p = 0.9995), so reference values that come through it (the
+// intervals of statsmodels) agree with ours only to about 1e-9; see
+// TestDistQuantilesMpmath.
 func TQuantile(p, df float64) float64 {
 	if !(df > 0) {
 		return math.NaN()

@@ -67,7 +67,16 @@ func TestInfluenceReference(t *testing.T) {
 				{"dffits", in.DFFITS, tc.dffits},
 			} {
 				for i := range v.want {
-					if !coreClose(v.got[i], v.want[i], 1e-9) {
+					// Both sides are closed forms in double precision
+					// (measured agreement ≤ 3e-15) except statsmodels'
+					// external residual, which refits without the row: for
+					// set III row 3 (0-based 2) s₍ᵢ₎ is nearly 0 and the
+					// refit carries 8e-12 relative error into t and DFFITS.
+					tol := 1e-13
+					if tc.name == "III" && i == 2 && (v.what == "studentized_ext" || v.what == "dffits") {
+						tol = 1e-10
+					}
+					if !coreClose(v.got[i], v.want[i], tol) {
 						t.Errorf("%s[%d] = %.15g, statsmodels %.15g", v.what, i, v.got[i], v.want[i])
 					}
 				}

@@ -3,9 +3,8 @@ package main
 // This file holds `bivar init`: a starting manifest for a new data file.
 
 import (
-	"bytes"
+	"bufio"
 	"context"
-	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
@@ -18,6 +17,8 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"bivar/analysis/dataset"
+	"bivar/analysis/findings"
 	"bivar/analysis/manifest"
 	"bivar/themes"
 )
@@ -58,6 +59,10 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar init: %v\n", err)
 		return exitFailed
 	}
+	if len(prof.pairs()) == 0 {
+		fmt.Fprintf(stderr, "bivar init: %s; no manifest written\n", noPairMessage(prof))
+		return exitFailed
+	}
 	rel, err := relPath(filepath.Dir(dest), csvPath)
 	if err != nil {
 		fmt.Fprintf(stderr, "bivar init: %v\n", err)
@@ -68,8 +73,15 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar init: writing %s: %v\n", dest, err)
 		return exitFailed
 	}
+	for _, c := range prof.badCells() {
+		fmt.Fprintf(stderr, "bivar init: %s: column %q: %s; the manifest counts such cells as missing (non_numeric = \"missing\"): correct them, or keep that line\n", csvPath, c.name, badText(c))
+	}
 	nPairs := len(prof.pairs())
-	fmt.Fprintf(stderr, "bivar init: wrote %s: %d numeric columns, %d candidate studies (the first active, the others commented out)\n", dest, len(prof.numeric()), nPairs)
+	more := " (the first active, the others commented out)"
+	if nPairs == 1 {
+		more = " (active)"
+	}
+	fmt.Fprintf(stderr, "bivar init: wrote %s: %s, %s%s\n", dest, plural(len(prof.numeric()), "numeric column", "numeric columns"), plural(nPairs, "candidate study", "candidate studies"), more)
 	fmt.Fprintf(stderr, "bivar init: next: bivar run %s  (then choose your studies in it)\n", dest)
 	return exitOK
 }
@@ -109,8 +121,12 @@ type colProfile struct {
 	min, max  float64
 	constant  bool
 	counter   bool // whole numbers rising by one each row: a row or run number
-	levels    int  // distinct values (text columns; counted up to a bound)
-	unique    bool // every value differs (text columns)
+	// nonNumeric counts the cells of a numeric column that are not numbers
+	// (nor missing); firstBad says where the first is ("line 7: \"x3\"").
+	nonNumeric int
+	firstBad   string
+	levels     int  // distinct values (text columns; counted up to a bound)
+	unique     bool // every value differs (text columns)
 }
 
 func (p *csvProfile) numeric() []colProfile {
@@ -148,89 +164,65 @@ func (p *csvProfile) pairs() [][2]colProfile {
 	return out
 }
 
-// profileCSV reads a CSV file: its delimiter (comma, semicolon or tab,
-// whichever splits the header and the first rows into the same, largest
-// number of fields), the decimal mark, and for every column whether it is
-// numeric. Missing cells are "" and "NA", as the manifest's default.
+// profileCSV reads a CSV file as 'bivar run' will read it (dataset.Read:
+// the same delimiter and decimal-mark detection, quoting rules and
+// missing-value tokens "" and "NA") and learns for every column whether it
+// is numeric. A column whose cells are numbers but for a few (at most one
+// in ten, or a single one) is numeric with those cells noted, so a typo in
+// a data cell is reported where it is rather than turning the column into
+// text.
 func profileCSV(path string) (*csvProfile, error) {
-	data, err := os.ReadFile(path)
+	info, err := os.Stat(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil, fmt.Errorf("%s: no such file; give the path of a CSV data file with a header row", path)
+	case err != nil:
+		return nil, err
+	case info.IsDir():
+		return nil, fmt.Errorf("%s is a folder: give one CSV data file in it", path)
+	}
+	if err := utf8File(path); err != nil {
+		return nil, err
+	}
+	header, err := dataset.Header(path, 0)
 	if err != nil {
 		return nil, err
 	}
-	if !utf8.Valid(data) {
-		return nil, fmt.Errorf("%s: not UTF-8 text; save the file as UTF-8 CSV", path)
+	if len(header) == 0 || len(header) == 1 && header[0] == "" {
+		return nil, fmt.Errorf("%s: the first line is blank; want a header line naming the columns, then data rows", path)
 	}
-	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
-	delim := detectDelimiter(data)
-	r := csv.NewReader(bytes.NewReader(data))
-	r.Comma = delim
-	r.FieldsPerRecord = 0
-	recs, err := r.ReadAll()
-	if err != nil {
-		return nil, fmt.Errorf("%s: %v", path, err)
-	}
-	if len(recs) == 0 {
-		return nil, fmt.Errorf("%s: empty file; want a header line naming the columns, then data rows", path)
-	}
-	header := recs[0]
 	for i, h := range header {
-		header[i] = strings.TrimSpace(h)
-		if header[i] == "" {
+		if h == "" {
 			return nil, fmt.Errorf("%s: line 1, column %d has no name; give every column a name in the header", path, i+1)
 		}
 	}
 	if dup := firstDuplicate(header); dup != "" {
 		return nil, fmt.Errorf("%s: line 1: column %q is named twice; give each column its own name", path, dup)
 	}
-	rows := recs[1:]
-	if len(rows) == 0 {
-		return nil, fmt.Errorf("%s: a header but no data rows", path)
+	tab, err := dataset.Read(path, dataset.Options{NonNumericAsMissing: true}, header, header)
+	if err != nil {
+		return nil, err
 	}
-	prof := &csvProfile{file: path, delimiter: delim, rows: len(rows)}
-	// The decimal comma: only with a semicolon or tab delimiter, when some
-	// cell reads as a number with ',' for '.' and none has a '.' mark.
-	if delim != ',' {
-		comma, dot := false, false
-		for _, rec := range rows {
-			for _, cell := range rec {
-				cell = strings.TrimSpace(cell)
-				if strings.Contains(cell, ",") {
-					if _, err := strconv.ParseFloat(strings.Replace(cell, ",", ".", 1), 64); err == nil {
-						comma = true
-					}
-				} else if strings.Contains(cell, ".") {
-					if _, err := strconv.ParseFloat(cell, 64); err == nil {
-						dot = true
-					}
-				}
-			}
-		}
-		prof.decimalComma = comma && !dot
+	if tab.Rows == 0 {
+		return nil, fmt.Errorf("%s: a header but no data rows; add the measurements below the header line", path)
 	}
-	for j, name := range header {
-		c := colProfile{name: name, isNumeric: true, min: math.Inf(1), max: math.Inf(-1), counter: true}
+	prof := &csvProfile{file: path, delimiter: tab.Delimiter, decimalComma: tab.DecimalComma, rows: tab.Rows}
+	for _, name := range header {
+		texts, nums := tab.Text[name], tab.Numeric[name]
+		c := colProfile{name: name, min: math.Inf(1), max: math.Inf(-1), counter: true,
+			missing: tab.Missing[name], nonNumeric: tab.NonNumeric[name]}
 		seen := map[string]bool{}
 		prev := math.NaN()
-		for _, rec := range rows {
-			cell := ""
-			if j < len(rec) {
-				cell = strings.TrimSpace(rec[j])
-			}
+		for i, cell := range texts {
 			if cell == "" || cell == "NA" {
-				c.missing++
 				c.counter = false
 				continue
 			}
 			c.nonEmpty++
-			if len(seen) <= len(rows) {
-				seen[cell] = true
-			}
-			if prof.decimalComma {
-				cell = strings.Replace(cell, ",", ".", 1)
-			}
-			v, err := strconv.ParseFloat(cell, 64)
-			if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-				c.isNumeric = false
+			seen[cell] = true
+			v := nums[i]
+			if math.IsNaN(v) {
+				c.counter = false
 				continue
 			}
 			c.min, c.max = math.Min(c.min, v), math.Max(c.max, v)
@@ -239,18 +231,51 @@ func profileCSV(path string) (*csvProfile, error) {
 			}
 			prev = v
 		}
+		good := c.nonEmpty - c.nonNumeric
+		c.isNumeric = good > 0 && (c.nonNumeric == 0 || good >= 2 && (c.nonNumeric == 1 || 10*c.nonNumeric <= c.nonEmpty))
+		if c.isNumeric && c.nonNumeric > 0 {
+			// Read the column strictly for the first bad cell's line and text.
+			if _, err := dataset.Read(path, dataset.Options{}, []string{name}, nil); err != nil {
+				var de *dataset.Error
+				if errors.As(err, &de) && de.Line > 0 {
+					c.firstBad = fmt.Sprintf("line %d: %q", de.Line, de.Text)
+				}
+			}
+		}
 		c.levels = len(seen)
 		c.unique = c.nonEmpty > 0 && len(seen) == c.nonEmpty
 		c.constant = c.isNumeric && c.min == c.max
-		if !c.isNumeric || c.nonEmpty < 2 {
+		if !c.isNumeric || c.nonEmpty < 2 || c.nonNumeric > 0 {
 			c.counter = false
-		}
-		if c.nonEmpty == 0 {
-			c.isNumeric = false
 		}
 		prof.cols = append(prof.cols, c)
 	}
 	return prof, nil
+}
+
+// utf8File checks that the file is UTF-8 text (a BOM allowed), reading it
+// in blocks, and names the line of the first byte that is not.
+func utf8File(path string) error {
+	f, err := os.Open(path)
+	if err != nil {
+		return err
+	}
+	defer f.Close()
+	br := bufio.NewReaderSize(f, 1<<16)
+	line := 1
+	for {
+		l, err := br.ReadBytes('\n')
+		if !utf8.Valid(l) {
+			return fmt.Errorf("%s:%d: not UTF-8 text (a byte that is not UTF-8: the file is in another encoding, such as Windows-1252); save it as UTF-8 CSV", path, line)
+		}
+		if err == io.EOF {
+			return nil
+		}
+		if err != nil {
+			return err
+		}
+		line++
+	}
 }
 
 func firstDuplicate(names []string) string {
@@ -262,33 +287,6 @@ func firstDuplicate(names []string) string {
 		seen[n] = true
 	}
 	return ""
-}
-
-// detectDelimiter picks the delimiter that gives the header and the next
-// rows the same number of fields, preferring more fields; comma on a tie.
-func detectDelimiter(data []byte) rune {
-	best, bestFields := ',', 0
-	for _, d := range []rune{',', ';', '\t'} {
-		r := csv.NewReader(bytes.NewReader(data))
-		r.Comma = d
-		r.FieldsPerRecord = 0
-		n, ok := 0, true
-		for i := 0; i < 20; i++ {
-			rec, err := r.Read()
-			if err == io.EOF {
-				break
-			}
-			if err != nil {
-				ok = false
-				break
-			}
-			n = len(rec)
-		}
-		if ok && n > bestFields {
-			best, bestFields = d, n
-		}
-	}
-	return best
 }
 
 var bareKey = regexp.MustCompile(`^[A-Za-z0-9_-]+$`)
@@ -384,9 +382,11 @@ func initManifest(prof *csvProfile, rel string) string {
 	kv("formats = ["+quoteJoin(manifest.DefaultFormats())+"]", "any of "+strings.Join(manifest.Formats(), ", "))
 	kv("theme   = "+tomlString(themes.Default), strings.Join(themes.Names(), " | "))
 	w("\n")
+	th := findings.DefaultThresholds()
 	kv("# [thresholds]", "the verdicts' cut points; the defaults are common practice, not a standard")
-	kv("# strong   = 0.7", "|r| at or above: strong")
-	kv("# moderate = 0.4", "|r| at or above: moderate")
+	kv(fmt.Sprintf("# strong   = %g", th.Strong), "|r| at or above: strong")
+	kv(fmt.Sprintf("# moderate = %g", th.Moderate), "|r| at or above: moderate")
+	kv(fmt.Sprintf("# weak     = %g", th.Weak), "|r| at or above: weak; below: none")
 	w("\n[[dataset]]\n")
 	kv(`id      = "data"`, "studies name their dataset by this id")
 	kv("file    = "+tomlString(rel), "relative to this file")
@@ -401,7 +401,16 @@ func initManifest(prof *csvProfile, rel string) string {
 		kv(`# decimal = "."`, `"." or ","; left out: detected`)
 	}
 	kv("missing = ["+quoteJoin(manifest.DefaultMissing())+"]", "cells read as missing")
-	kv("# non_numeric = "+tomlString(manifest.DefaultNonNumeric), strings.Join(manifest.NonNumericPolicies(), " | ")+": what a non-numeric cell in a studied column is")
+	if bad := prof.badCells(); len(bad) > 0 {
+		kv(`non_numeric = "missing"`, strings.Join(manifest.NonNumericPolicies(), " | ")+": what a non-numeric cell in a studied column is;")
+		w("%-40s # set here because some cells of numeric columns are not numbers:\n", "")
+		for _, c := range bad {
+			w("%-40s #   %s: %s\n", "", display(c.name), badText(c))
+		}
+		w("%-40s # correct them and remove this line (default %q: stop at such a cell)\n", "", manifest.DefaultNonNumeric)
+	} else {
+		kv("# non_numeric = "+tomlString(manifest.DefaultNonNumeric), strings.Join(manifest.NonNumericPolicies(), " | ")+": what a non-numeric cell in a studied column is")
+	}
 	var idCol string
 	for _, c := range prof.cols {
 		if !c.isNumeric && c.unique && c.missing == 0 {
@@ -440,6 +449,8 @@ func initManifest(prof *csvProfile, rel string) string {
 			w("#   %-20s numeric, rises by 1 each row: a row or run number (try it as order)\n", display(c.name))
 		case c.isNumeric && c.constant:
 			w("#   %-20s numeric, constant (%s): nothing to relate\n", display(c.name), fmtNum(c.min))
+		case c.isNumeric && c.nonNumeric > 0:
+			w("#   %-20s numeric, %s to %s, %d missing, %s\n", display(c.name), fmtNum(c.min), fmtNum(c.max), c.missing, badText(c))
 		case c.isNumeric:
 			w("#   %-20s numeric, %s to %s, %d missing\n", display(c.name), fmtNum(c.min), fmtNum(c.max), c.missing)
 		case c.unique && c.missing == 0:
@@ -463,9 +474,8 @@ func initManifest(prof *csvProfile, rel string) string {
 
 	pairs := prof.pairs()
 	if len(pairs) == 0 {
+		// runInit refuses such a file; this keeps the text honest if called.
 		w("\n# No pair of numeric, non-constant columns was found, so no study is suggested.\n")
-		w("# A study needs two numeric columns; add one like this:\n")
-		w("# [[study]]\n# id      = \"y-vs-x\"\n# dataset = \"data\"\n# x       = \"...\"\n# y       = \"...\"\n")
 		return b.String()
 	}
 	w("\n# Candidate studies, one per pair of numeric columns (x is the earlier column;\n")
@@ -524,6 +534,53 @@ func initManifest(prof *csvProfile, rel string) string {
 		}
 	}
 	return b.String()
+}
+
+// badCells are the numeric columns that hold cells that are not numbers.
+func (p *csvProfile) badCells() []colProfile {
+	var out []colProfile
+	for _, c := range p.numeric() {
+		if c.nonNumeric > 0 {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// badText says how many cells of c are not numbers, and where the first is.
+func badText(c colProfile) string {
+	s := fmt.Sprintf("%d not a number", c.nonNumeric)
+	if c.nonNumeric > 1 {
+		s = fmt.Sprintf("%d not numbers", c.nonNumeric)
+	}
+	if c.firstBad != "" {
+		s += " (first: " + c.firstBad + ")"
+	}
+	return s
+}
+
+// noPairMessage explains why a file gives no study: which columns are
+// numeric, and why each of the others cannot be used.
+func noPairMessage(p *csvProfile) string {
+	var parts []string
+	for _, c := range p.cols {
+		why := "text"
+		switch {
+		case c.isNumeric && c.counter:
+			why = "a row counter"
+		case c.isNumeric && c.constant:
+			why = "constant"
+		case c.isNumeric && c.nonEmpty < 3:
+			why = "fewer than 3 values"
+		case c.isNumeric:
+			why = "numeric"
+		case c.nonEmpty == 0:
+			why = "empty"
+		}
+		parts = append(parts, fmt.Sprintf("%s (%s)", display(c.name), why))
+	}
+	return fmt.Sprintf("%s: no pair of columns to relate: a study needs two numeric columns that vary, and the columns are %s; add a numeric column, or check that numbers are written with one decimal mark throughout",
+		p.file, strings.Join(parts, ", "))
 }
 
 func quoteJoin(ss []string) string {

@@ -3,6 +3,8 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"reflect"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -154,7 +156,7 @@ func TestInitErrors(t *testing.T) {
 		code            int
 	}{
 		{"missing file", "", "no such file", exitFailed},
-		{"empty", "\n", "empty file", exitFailed},
+		{"empty", "\n", "the file is empty", exitFailed},
 		{"header only", "a,b\n", "no data rows", exitFailed},
 		{"duplicate column", "a,a\n1,2\n", `"a" is named twice`, exitFailed},
 		{"unnamed column", "a,,c\n1,2,3\n", "column 2 has no name", exitFailed},
@@ -174,16 +176,185 @@ func TestInitErrors(t *testing.T) {
 	if code, _, _ := call(t, "init"); code != exitUsage {
 		t.Errorf("no argument: exit %d, want 2", code)
 	}
-	// No numeric pair: a manifest that says so, still loadable.
-	p := filepath.Join(dir, "text.csv")
-	writeFile(t, p, "name,score\nann,1\nbob,2\n")
-	out := filepath.Join(dir, "text.toml")
-	if code, _, stderr := call(t, "init", "-o", out, p); code != exitOK {
+}
+
+// TestInitBadInput: every file init cannot start from is refused with exit
+// status 1, a message that names the file (and the line, where there is
+// one), says what is wrong and what to do, and no manifest written.
+func TestInitBadInput(t *testing.T) {
+	dir := t.TempDir()
+	cases := []struct {
+		name, csv string
+		want      []string
+	}{
+		{"one numeric column", "name,score\nann,1.5\nbob,2.25\ncid,0.5\n", []string{"no pair of columns to relate", "name (text), score (numeric)", "add a numeric column"}},
+		{"counter and constant", "n,k,v\n1,5,a\n2,5,b\n3,5,c\n", []string{"n (a row counter), k (constant), v (text)"}},
+		{"all text", "a,b\nx,y\nz,w\n", []string{"a (text), b (text)"}},
+		{"ragged row", "a,b\n1,2\n3\n4,5\n", []string{":3: this row has 1 fields but the header has 2"}},
+		{"open quote", "a,b\n1,\"2\n3,4\n", []string{"not closed"}},
+		{"not utf-8", "a,b\n1,2\n2,\xe93\n3,4\n", []string{":3: not UTF-8 text", "save it as UTF-8"}},
+		{"latin-1 header", "temp\xe9rature,b\n1,2\n", []string{":1: not UTF-8 text"}},
+		{"blank lines, then a header", "\n\na,b\n", []string{"a header but no data rows"}},
+		{"header only crlf", "a;b\r\n", []string{"a header but no data rows"}},
+		{"mixed decimal marks", "a;b\n1,5;2\n2.5;3\n3,5;4\n", []string{"decimal"}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			p := filepath.Join(dir, strings.ReplaceAll(tc.name, " ", "-")+".csv")
+			writeFile(t, p, tc.csv)
+			dest := filepath.Join(dir, strings.ReplaceAll(tc.name, " ", "-")+".toml")
+			code, stdout, stderr := call(t, "init", "-o", dest, p)
+			if code != exitFailed {
+				t.Errorf("exit %d, want 1; stderr %q", code, stderr)
+			}
+			for _, w := range append([]string{"bivar init: " + p}, tc.want...) {
+				if !strings.Contains(stderr, w) {
+					t.Errorf("stderr lacks %q:\n%s", w, stderr)
+				}
+			}
+			if stdout != "" || strings.Contains(stderr, "panic") {
+				t.Errorf("stdout %q, stderr %q", stdout, stderr)
+			}
+			if _, err := os.Stat(dest); err == nil {
+				t.Errorf("a manifest was written for a file init refused")
+			}
+			if left, _ := filepath.Glob(filepath.Join(dir, ".*.tmp")); len(left) > 0 {
+				t.Errorf("temporary files left: %v", left)
+			}
+		})
+	}
+	if code, _, stderr := call(t, "init", dir); code != exitFailed || !strings.Contains(stderr, "is a folder: give one CSV data file") {
+		t.Errorf("folder: exit %d, %q", code, stderr)
+	}
+	if code, _, stderr := call(t, "init", "a.csv", "b.csv"); code != exitUsage || !strings.Contains(stderr, "got 2 arguments") {
+		t.Errorf("two arguments: exit %d, %q", code, stderr)
+	}
+	if code, _, _ := call(t, "init", "--colour", "a.csv"); code != exitUsage {
+		t.Errorf("unknown flag: exit %d, want 2", code)
+	}
+}
+
+// TestInitBadCell: a numeric column with a cell that is not a number stays
+// numeric; the manifest counts such cells as missing, says where the first
+// one is, and 'bivar run' on it gives a report.
+func TestInitBadCell(t *testing.T) {
+	dir := t.TempDir()
+	p := filepath.Join(dir, "d.csv")
+	writeFile(t, p, "temp,gloss\n180.5,71\n182.0,n/a?\n185.5,74\n188.0,77\n190.5,78\n")
+	dest := filepath.Join(dir, "bivar.toml")
+	code, _, stderr := call(t, "init", "-o", dest, p)
+	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	b, _ := os.ReadFile(out)
-	if !strings.Contains(string(b), "No pair of numeric") {
-		t.Errorf("no-pair manifest does not say so:\n%s", b)
+	if !strings.Contains(stderr, `column "gloss": 1 not a number (first: line 3: "n/a?")`) {
+		t.Errorf("stderr does not point at the cell:\n%s", stderr)
+	}
+	b, _ := os.ReadFile(dest)
+	text := string(b)
+	for _, want := range []string{"\nnon_numeric = \"missing\"", `gloss: 1 not a number (first: line 3: "n/a?")`, "[[study]]\nid      = \"gloss-vs-temp\""} {
+		if !strings.Contains(text, want) {
+			t.Errorf("manifest lacks %q:\n%s", want, text)
+		}
+	}
+	if code, _, stderr := call(t, "run", dest); code != exitOK {
+		t.Errorf("bivar run on the manifest: exit %d\n%s", code, stderr)
+	}
+}
+
+// tomlKeys collects every key the manifest schema knows, from the toml
+// tags of manifest.Manifest and the types below it.
+func tomlKeys(t reflect.Type, into map[string]bool) {
+	for t.Kind() == reflect.Pointer || t.Kind() == reflect.Slice || t.Kind() == reflect.Map {
+		t = t.Elem()
+	}
+	if t.Kind() != reflect.Struct {
+		return
+	}
+	for i := 0; i < t.NumField(); i++ {
+		f := t.Field(i)
+		tag := strings.Split(f.Tag.Get("toml"), ",")[0]
+		if tag == "" || tag == "-" {
+			continue
+		}
+		into[tag] = true
+		tomlKeys(f.Type, into)
+	}
+}
+
+// TestInitDocumentsRealKeys: every key the generated manifest names — in
+// a key line, commented or not, and in the key list of the study comment —
+// exists in analysis/manifest, so no comment sends the user to a key the
+// loader rejects.
+func TestInitDocumentsRealKeys(t *testing.T) {
+	known := map[string]bool{}
+	tomlKeys(reflect.TypeOf(manifest.Manifest{}), known)
+	dir := t.TempDir()
+	// Column names with spaces and capitals, so that no column is taken
+	// for a key below.
+	p := filepath.Join(dir, "d.csv")
+	writeFile(t, p, "Shot,Lot,Melt Temp,Pressure,Shrinkage\n1,A,230.5,80,1.52\n2,A,231.0,82,1.49\n3,B,229.8,79,NA\n4,B,233.1,85,1.41\n5,C,232.4,84,1.44\n")
+	prof, err := profileCSV(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := initManifest(prof, "d.csv")
+	keyLine := regexp.MustCompile(`^([a-z][a-z_]*)\s*=`)
+	snake := regexp.MustCompile(`\b[a-z]+(?:_[a-z]+)+\b`)
+	quoted := regexp.MustCompile(`"[^"]*"`) // values and unit codes, not keys
+	table := regexp.MustCompile(`\[\[?([a-z.]+)\]\]?`)
+	checked := map[string]bool{}
+	check := func(k, line string) {
+		checked[k] = true
+		if !known[k] {
+			t.Errorf("the manifest documents key %q, which analysis/manifest does not know:\n  %s", k, line)
+		}
+	}
+	inColumns, inKeyList := false, false
+	for _, line := range strings.Split(text, "\n") {
+		bare := line
+		for strings.HasPrefix(bare, "# ") {
+			bare = strings.TrimPrefix(bare, "# ")
+		}
+		switch {
+		case strings.HasPrefix(bare, "[dataset.units]"), strings.HasPrefix(bare, "[dataset.labels]"):
+			inColumns = true
+		case line == "":
+			inColumns, inKeyList = false, false
+		case strings.Contains(line, "Keys:"):
+			inKeyList = true
+			continue
+		}
+		for _, m := range table.FindAllStringSubmatch(bare, -1) {
+			for _, part := range strings.Split(m[1], ".") {
+				check(part, line)
+			}
+		}
+		if m := keyLine.FindStringSubmatch(bare); m != nil && !inColumns {
+			check(m[1], line)
+		}
+		if inKeyList {
+			// "#   id, dataset, x, y   required; ...": the words before the gap.
+			body := strings.TrimPrefix(line, "#")
+			if gap := strings.Index(strings.TrimLeft(body, " "), "  "); gap > 0 && !strings.HasPrefix(body, "                    ") {
+				for _, k := range strings.Split(strings.TrimLeft(body, " ")[:gap], ",") {
+					if k = strings.TrimSpace(k); k != "" && !strings.HasPrefix(k, "[") {
+						check(k, line)
+					}
+				}
+			}
+		}
+		for _, k := range snake.FindAllString(quoted.ReplaceAllString(line, `""`), -1) {
+			check(k, line)
+		}
+	}
+	// The test must have seen the keys it is about.
+	for _, k := range []string{"title", "design", "alpha", "adjust", "seed", "dir", "formats", "theme", "strong", "weak",
+		"delimiter", "missing", "non_numeric", "id_column", "units", "labels", "id", "dataset", "x", "y",
+		"group", "order", "covariates", "also_in", "predict_at", "notes", "expect", "min_abs_r", "r_within",
+		"slope_within", "max_p", "min_n", "not_outlier_driven"} {
+		if !checked[k] {
+			t.Errorf("key %q not found in the generated manifest (the test's parsing is off, or init stopped documenting it):\n%s", k, text)
+		}
 	}
 }
 

@@ -258,6 +258,8 @@ func analyze(in Input, cfg Config) report.Study {
 	s.UnitInvariance = unitInvariance(in, x, y, pc.R, line)
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
 	s.Plot = plotData(x, y, cc, line, s.Influence, lx, ly, conf, cfg)
+	xOrderFigures(s.Diagnostics, x, line.Residuals)
+	lowessExtremes(s.Diagnostics.Lowess, s.Plot.Lowess)
 	return s
 }
 

@@ -5,7 +5,6 @@ package findings
 // them in words.
 
 import (
-	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -79,14 +78,14 @@ type facts struct {
 //     down when the x² coefficient is negative, up when positive; it turns
 //     over when the fitted curve's vertex lies inside the observed x range,
 //     the curve changes by at least its residual SE on both sides of the
-//     vertex, and the LOWESS curve of the plot data (when present) confirms
-//     the turn (see smoothTurns). Otherwise nonlinear when either (a)
+//     vertex, and the LOWESS curve's extremes (Diagnostics.Lowess, when
+//     present) confirm the turn (see smoothTurns). Otherwise nonlinear when either (a)
 //     the distance correlation's p is below alpha, dcor ≥ NonlinearDcor
 //     and dcor > |r| while r's adjusted p is not below alpha (r misses the
 //     dependence), or (b) |r| is below Moderate and the line's residuals,
-//     taken in order of x, hang together: their Durbin–Watson statistic is
-//     below the smaller of FormDW and its one-sided alpha bound (see
-//     xOrderDW). Distance correlation has little power for patterns that
+//     taken in order of x, hang together: their Durbin–Watson statistic
+//     (Diagnostics.DurbinWatsonX) is below the smaller of FormDW and its
+//     one-sided alpha bound (see xOrderDW). Distance correlation has little power for patterns that
 //     go up and down several times; (b) catches those. Otherwise linear
 //     when r's direction is not none; otherwise none.
 //   - strength: from |r| and the Strong, Moderate and Weak cut points, and
@@ -351,64 +350,47 @@ func (f *facts) decide(out *report.Findings) {
 }
 
 // xOrderDW returns the Durbin–Watson statistic of the line's residuals
-// taken in order of x (ties in data order), from the plot data, and the
-// bound below which they count as hanging together: the smaller of
-// FormDW and the one-sided alpha point of DW's large-sample null
-// distribution, about normal with mean 2 and variance 4/n (Durbin &
-// Watson 1950, Biometrika 37:409–428; the approximation is ours to state).
-// Residuals of a correct straight line, in any fixed order, are close to
-// independent; in order of x they swing together when the line misses a
-// pattern that goes up and down. Both are NaN without plot data. Above
-// maxSample rows it uses a systematic sample (see maxSample).
+// taken in order of x (Diagnostics.DurbinWatsonX, computed by the analysis
+// on at most 20000 rows, see there) and the bound below which they count
+// as hanging together: the smaller of FormDW and the one-sided alpha point
+// of DW's large-sample null distribution, about normal with mean 2 and
+// variance 4/m for m rows used (Durbin & Watson 1950, Biometrika
+// 37:409–428; the approximation is ours to state). Both are NaN when the
+// statistic is undefined (fewer than 8 rows) or FormDW is off.
 func (f *facts) xOrderDW() (dw, bound float64) {
-	pl := f.s.Plot
-	if pl == nil || len(pl.X) < 8 || len(pl.Residuals) != len(pl.X) || !(f.th.FormDW > 0) {
+	d := f.s.Diagnostics
+	if d == nil || !d.DurbinWatsonX.Valid() || d.DurbinWatsonXRows < 8 || !(f.th.FormDW > 0) {
 		return math.NaN(), math.NaN()
 	}
-	type xe struct {
-		x, e float64
-		i    int
-	}
-	step := sampleStep(len(pl.X))
-	pts := make([]xe, 0, len(pl.X)/step+1)
-	for i := 0; i < len(pl.X); i += step {
-		pts = append(pts, xe{pl.X[i], pl.Residuals[i], i})
-	}
-	n := len(pts)
-	// pdqsort on (x, data position): ties keep data order, as a stable
-	// sort would, at a third of the cost.
-	slices.SortFunc(pts, func(a, b xe) int { return cmp.Or(cmp.Compare(a.x, b.x), cmp.Compare(a.i, b.i)) })
-	e := make([]float64, n)
-	for k, p := range pts {
-		e[k] = p.e
-	}
-	dw = stats.DurbinWatson(e)
-	bound = min(f.th.FormDW, 2-2*stats.NormalQuantile(1-f.alpha)/math.Sqrt(float64(n)))
+	dw = float64(d.DurbinWatsonX)
+	bound = min(f.th.FormDW, 2-2*stats.NormalQuantile(1-f.alpha)/math.Sqrt(float64(d.DurbinWatsonXRows)))
 	return dw, bound
 }
 
-// smoothTurns reports whether the LOWESS curve in the plot data confirms
-// a turn: its highest point (lowest, for a curve bending up) lies strictly
-// inside the x range and the smooth falls back from it by at least se at
-// both ends. The quadratic alone cannot tell a curve that levels off near
-// the end of the range (saturation) from one that turns back. Without a
-// LOWESS curve it does not object.
+// smoothTurns reports whether the LOWESS curve confirms a turn, from the
+// curve's extremes in Diagnostics.Lowess: its highest point (lowest, for a
+// curve bending up) lies strictly inside the curve's x range and the
+// smooth falls back from it by at least se at both ends. The quadratic
+// alone cannot tell a curve that levels off near the end of the range
+// (saturation) from one that turns back. Without the curve's figures it
+// does not object.
 func (f *facts) smoothTurns(down bool, se float64) bool {
-	pl := f.s.Plot
-	if pl == nil || len(pl.Lowess) < 3 {
+	d := f.s.Diagnostics
+	if d == nil || d.Lowess == nil {
 		return true
 	}
-	c := pl.Lowess
-	k := 0
-	for i, p := range c {
-		if (down && p.Y > c[k].Y) || (!down && p.Y < c[k].Y) {
-			k = i
-		}
+	li := d.Lowess
+	px, py := li.MaxX, li.MaxY
+	if !down {
+		px, py = li.MinX, li.MinY
 	}
-	if k == 0 || k == len(c)-1 {
+	if !px.Valid() || !py.Valid() || !li.FirstX.Valid() || !li.LastX.Valid() {
+		return true
+	}
+	if !(px > li.FirstX && px < li.LastX) {
 		return false
 	}
-	return math.Abs(c[k].Y-c[0].Y) >= se && math.Abs(c[k].Y-c[len(c)-1].Y) >= se
+	return math.Abs(float64(py-li.FirstY)) >= se && math.Abs(float64(py-li.LastY)) >= se
 }
 
 // qualifying returns the groups large enough for the reversal check.
@@ -448,32 +430,13 @@ func (f *facts) reversal() bool {
 }
 
 // spreadGrows reports whether the scatter about the line grows (+1) or
-// shrinks (−1) with x, by Spearman's ρ of |residual| on x from the plot
-// data; 0 when it cannot tell.
+// shrinks (−1) with x, by the sign of Diagnostics.SpreadRho (Spearman's ρ
+// of |residual| on x); 0 when it cannot tell.
 func (f *facts) spreadGrows() int {
-	pl := f.s.Plot
-	if pl == nil || len(pl.X) != len(pl.Residuals) || len(pl.X) < 3 {
-		return 0
+	if d := f.s.Diagnostics; d != nil && d.SpreadRho.Valid() {
+		return sign(float64(d.SpreadRho))
 	}
-	step := sampleStep(len(pl.X))
-	var xs, abs []float64
-	for i := 0; i < len(pl.X); i += step {
-		xs = append(xs, pl.X[i])
-		abs = append(abs, math.Abs(pl.Residuals[i]))
-	}
-	rho, _ := stats.Spearman(xs, abs)
-	return sign(rho)
-}
-
-// maxSample is the most rows xOrderDW and spreadGrows use; above it they
-// take every k-th row in data order (k = ⌈n/maxSample⌉), which keeps
-// their cost bounded while a pattern along x stays as visible as in the
-// LOWESS curve, fitted to a sample of the same size.
-const maxSample = 20000
-
-// sampleStep returns k for n rows.
-func sampleStep(n int) int {
-	return max(1, (n+maxSample-1)/maxSample)
+	return 0
 }
 
 // write sets the headline, statements and limits.

@@ -36,7 +36,7 @@ func study(r, p float64) *report.Study {
 			Slope:     &report.Coef{Name: "x", Estimate: fl(0.1 * r), CILow: fl(0.05 * r), CIHigh: fl(0.15 * r)}},
 		Models: []report.Fit{{Name: "quadratic", R2: fl(r*r + 0.01), FP: fl(p), ResidualSE: 0.1, Vertex: 40,
 			Coefficients: []report.Coef{{Name: "intercept"}, {Name: "x"}, {Name: "x^2", Estimate: 0.001, P: 0.5}}}},
-		Diagnostics: &report.Diagnostics{QuadraticP: 0.5, DurbinWatson: 2,
+		Diagnostics: &report.Diagnostics{QuadraticP: 0.5, DurbinWatson: 2, DurbinWatsonX: report.NaN(), SpreadRho: report.NaN(),
 			DistanceCorr: &report.DistanceCorr{DCor: fl(math.Abs(r) * 0.9), P: fl(p), Permutations: 199},
 			BreuschPagan: &report.ChiTest{Stat: 1, DF: 1, P: 0.4}},
 		Influence:   &report.Influence{Points: []report.Point{}},
@@ -291,7 +291,7 @@ func TestAssessDriftAndSpread(t *testing.T) {
 		t.Errorf("limits do not say drift was checked:\n%s", all(f))
 	}
 	s.Diagnostics.BreuschPagan.P = 0.001
-	s.Plot = &report.Plot{X: []float64{1, 2, 3, 4, 5, 6}, Residuals: []float64{0.1, -0.2, 0.3, -0.5, 0.8, -1}}
+	s.Diagnostics.SpreadRho = 0.6 // |residual| rises with x
 	f = Assess(s, ctx)
 	if !f.SpreadChanges || !strings.Contains(all(f), "grows with melt temperature") {
 		t.Errorf("Breusch–Pagan p 0.001 and residuals growing: spread %v\n%s", f.SpreadChanges, all(f))
@@ -375,7 +375,8 @@ func TestAssessUndefinedNumbers(t *testing.T) {
 	s.Order, s.Group = "run", "lot"
 	s.Groups = []report.GroupFit{{Group: "A", N: 10, Slope: nan, SlopeLow: nan, SlopeHigh: nan}}
 	s.Partial = []report.Partial{{Covariate: "z", R: nan, CILow: nan, CIHigh: nan, P: nan}}
-	s.Plot = &report.Plot{X: []float64{1, 2, 3}, Residuals: []float64{math.NaN(), 0, 1}, Lowess: []report.XY{{X: 1, Y: math.NaN()}}}
+	s.Diagnostics.DurbinWatsonX, s.Diagnostics.DurbinWatsonXRows, s.Diagnostics.SpreadRho = nan, 50, nan
+	s.Diagnostics.Lowess = &report.LowessInfo{FirstX: nan, FirstY: nan, LastX: nan, LastY: nan, MaxX: 1, MaxY: nan, MinX: nan, MinY: nan}
 	f := Assess(s, ctx)
 	if f == nil || f.Form != "none" || f.Direction != "none" || f.Strength != "none" {
 		t.Fatalf("all undefined: %+v, want form, direction and strength none", f)
@@ -408,5 +409,28 @@ func TestAssessUnitSymbols(t *testing.T) {
 		if strings.Contains(text, raw) {
 			t.Errorf("findings show the raw code %q:\n%s", raw, text)
 		}
+	}
+}
+
+// TestAssessReadsXOrderFromDiagnostics: the x-order Durbin–Watson and the
+// spread's direction are read from the study's Diagnostics (in
+// results.json), not from the plot data, which results.json lacks.
+func TestAssessReadsXOrderFromDiagnostics(t *testing.T) {
+	s := study(0.2, 0.3) // r not shown: the residuals' pattern can make the form nonlinear
+	s.Diagnostics.DistanceCorr.P = 0.5
+	s.Diagnostics.DurbinWatsonX, s.Diagnostics.DurbinWatsonXRows = 0.6, 50
+	s.Plot = nil
+	f := Assess(s, ctx)
+	if f.Form != "nonlinear" || !strings.Contains(all(f), "Durbin–Watson 0.6") {
+		t.Errorf("DurbinWatsonX 0.6 of 50 rows: form %q, want nonlinear with the figure:\n%s", f.Form, all(f))
+	}
+	s.Diagnostics.DurbinWatsonX = 1.9
+	if f := Assess(s, ctx); f.Form != "none" {
+		t.Errorf("DurbinWatsonX 1.9: form %q, want none", f.Form)
+	}
+	s.Diagnostics.BreuschPagan.P = 0.001
+	s.Diagnostics.SpreadRho = -0.5
+	if f := Assess(s, ctx); !strings.Contains(all(f), "shrinks with melt temperature") {
+		t.Errorf("SpreadRho −0.5: the spread should shrink:\n%s", all(f))
 	}
 }

@@ -7,9 +7,8 @@
 //
 // The package does no statistics of its own: every figure it judges is
 // already in the report.Study, computed by analysis/stats and filled by
-// the analysis (the two exceptions, the Durbin–Watson statistic of the
-// residuals in order of x and the direction of a changing spread, are
-// computed by stats functions from the study's plot data). Every cut point
+// the analysis, and written to results.json (it never reads the plot
+// data, which results.json lacks). Every cut point
 // is in one table, report.Thresholds, whose defaults DefaultThresholds
 // documents as common practice; a manifest may override them.
 //

@@ -249,9 +249,14 @@ type Diagnostics struct {
 
 	// DurbinWatsonX is the Durbin–Watson statistic of the line's residuals
 	// taken in order of x (ties in data order); above 20000 rows, of every
-	// k-th row in data order, k = ⌈n/20000⌉. The form verdict reads it.
-	// NaN below 8 rows.
-	DurbinWatsonX Float `json:"durbin_watson_x"`
+	// k-th row in data order, k = ⌈n/20000⌉ (DurbinWatsonXRows says how
+	// many were used). The form verdict reads it. NaN below 8 rows.
+	DurbinWatsonX     Float `json:"durbin_watson_x"`
+	DurbinWatsonXRows int   `json:"durbin_watson_x_rows"`
+	// SpreadRho is Spearman's ρ of |residual| on x over the same rows: its
+	// sign says whether a changing spread (Breusch–Pagan) grows or shrinks
+	// with x. NaN below 3 rows.
+	SpreadRho Float `json:"spread_rho"`
 }
 
 // LackOfFit is the pure-error F test for the straight line where x repeats.
@@ -298,6 +303,19 @@ type LowessInfo struct {
 	Iterations int     `json:"iterations"`
 	Delta      float64 `json:"delta"`
 	Sampled    int     `json:"sampled"` // rows the curve was fitted to (a seeded sample above the stated bound; = n otherwise)
+
+	// The smooth curve's first and last points (in order of x) and its
+	// highest and lowest points (the first of equal ones), which the
+	// turn-over rule of the findings reads; NaN when the curve has fewer
+	// than 3 points.
+	FirstX Float `json:"first_x"`
+	FirstY Float `json:"first_y"`
+	LastX  Float `json:"last_x"`
+	LastY  Float `json:"last_y"`
+	MaxX   Float `json:"max_x"`
+	MaxY   Float `json:"max_y"`
+	MinX   Float `json:"min_x"`
+	MinY   Float `json:"min_y"`
 }
 
 // Partial is the correlation of x and y given one covariate.

@@ -11,10 +11,7 @@ package analysis
 // This file holds Run: datasets in, report out.
 
 import (
-	"bufio"
-	"bytes"
 	"crypto/sha256"
-	"encoding/csv"
 	"encoding/hex"
 	"fmt"
 	"os"
@@ -202,7 +199,11 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	if !filepath.IsAbs(path) && m.Dir != "" {
 		path = filepath.Join(m.Dir, path)
 	}
-	header, herr := fileHeader(path, opts.Delimiter)
+	// The header tells which requested columns the file lacks, so the
+	// studies that need them keep their place with an error while the
+	// others run. When it cannot be read, every column is requested and
+	// dataset.Read reports the problem in the file.
+	header, herr := dataset.Header(path, opts.Delimiter)
 	ls := &loadedSet{decl: ds, absent: map[string]bool{}, columns: header}
 	keep := func(cols []string) []string {
 		var out []string
@@ -338,68 +339,6 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 		}
 	}
 	return in, ""
-}
-
-// fileHeader returns the column names of a CSV file's header row, read the
-// way dataset.Read reads it (UTF-8 byte-order mark skipped; delimiter as
-// declared, or the most frequent of comma, semicolon and tab outside
-// quotes, comma on a tie; names with spaces trimmed). Run uses it only to
-// tell which requested columns a file lacks, so the studies that need
-// them keep their place with an error while the others run; the data
-// themselves are read by dataset.Read, which is also what reports any
-// problem in the file.
-func fileHeader(path string, delim rune) ([]string, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	br := bufio.NewReaderSize(f, 1<<16)
-	if b, _ := br.Peek(3); bytes.Equal(b, []byte("\xEF\xBB\xBF")) {
-		br.Discard(3)
-	}
-	if delim == 0 {
-		b, _ := br.Peek(1 << 16)
-		if i := bytes.IndexByte(b, '\n'); i >= 0 {
-			b = b[:i]
-		}
-		var comma, semi, tab int
-		quoted := false
-		for _, c := range b {
-			switch {
-			case c == '"':
-				quoted = !quoted
-			case quoted:
-			case c == ',':
-				comma++
-			case c == ';':
-				semi++
-			case c == '\t':
-				tab++
-			}
-		}
-		switch {
-		case semi > comma && semi >= tab:
-			delim = ';'
-		case tab > comma && tab > semi:
-			delim = '\t'
-		default:
-			delim = ','
-		}
-	}
-	cr := csv.NewReader(br)
-	cr.Comma = delim
-	cr.FieldsPerRecord = -1
-	cr.LazyQuotes = true
-	rec, err := cr.Read()
-	if err != nil {
-		return nil, err
-	}
-	names := make([]string, len(rec))
-	for i, h := range rec {
-		names[i] = strings.TrimSpace(h)
-	}
-	return names, nil
 }
 
 // noColumn says that a column is not in the file, with the nearest name.

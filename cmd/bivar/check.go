@@ -124,13 +124,20 @@ func checkSummary(stderr io.Writer, rep *report.Report) {
 
 // writeWith writes a file atomically: the content goes to a temporary file
 // in the same folder, which is renamed over path only when complete, so a
-// failure never leaves a half-written file for CI to read.
+// failure never leaves a half-written file for CI to read. Missing folders
+// on the way to path are created.
 func writeWith(path string, write func(io.Writer) error) error {
 	var buf bytes.Buffer
 	if err := write(&buf); err != nil {
 		return err
 	}
 	dir := filepath.Dir(path)
+	if info, err := os.Stat(path); err == nil && info.IsDir() {
+		return fmt.Errorf("%s is a folder: give a file name", path)
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fmt.Errorf("creating the folder for %s: %w", path, err)
+	}
 	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
 	if err != nil {
 		return err

@@ -171,6 +171,52 @@ min_n     = 12
 			t.Errorf("missing manifest: exit %d, want 1", code)
 		}
 	})
+	t.Run("wrong manifest argument", func(t *testing.T) {
+		m := checkManifest(t, passing)
+		dir := filepath.Dir(m)
+		junit := filepath.Join(dir, "ci", "out", "junit.xml") // folders created
+		cases := []struct {
+			name, arg string
+			want      []string
+		}{
+			{"folder", dir, []string{"is a folder: give the manifest file itself, such as " + m}},
+			{"absent", filepath.Join(dir, "nope.toml"), []string{"nope.toml: no such file", "'bivar init DATA.csv' writes one"}},
+		}
+		for _, tc := range cases {
+			code, _, stderr := call(t, "check", "--junit", junit, tc.arg)
+			if code != exitFailed {
+				t.Errorf("%s: exit %d, want 1", tc.name, code)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(stderr, w) {
+					t.Errorf("%s: stderr lacks %q:\n%s", tc.name, w, stderr)
+				}
+			}
+			if doc := parseJUnit(t, junit); doc.Tests != 1 || len(doc.Suites) != 1 || len(doc.Suites[0].Cases) != 1 {
+				t.Errorf("%s: JUnit %+v, want one error case", tc.name, doc)
+			}
+		}
+		if code, _, stderr := call(t, "check", "--junit", dir, m); code != exitFailed || !strings.Contains(stderr, "is a folder: give a file name") {
+			t.Errorf("--junit a folder: exit %d, %q", code, stderr)
+		}
+	})
+	t.Run("study that did not run", func(t *testing.T) {
+		// No expectations, but a study whose column is constant: exit 1
+		// and an error case in the JUnit file.
+		dir := t.TempDir()
+		writeFile(t, filepath.Join(dir, "c.csv"), "x,y\n1,5\n2,5\n3,5\n4,5\n")
+		m := filepath.Join(dir, "bivar.toml")
+		writeFile(t, m, "[[dataset]]\nid = \"c\"\nfile = \"c.csv\"\n\n[[study]]\nid = \"flat\"\ndataset = \"c\"\nx = \"x\"\ny = \"y\"\n")
+		junit := filepath.Join(dir, "junit.xml")
+		code, _, stderr := call(t, "check", "--junit", junit, m)
+		if code != exitFailed || !strings.Contains(stderr, "1 did not") {
+			t.Errorf("exit %d, want 1; stderr %q", code, stderr)
+		}
+		doc := parseJUnit(t, junit)
+		if doc.Tests != 1 || len(doc.Suites) != 1 || doc.Suites[0].Cases[0].Name != "run" {
+			t.Errorf("JUnit %+v, want one case \"run\"", doc)
+		}
+	})
 	t.Run("usage", func(t *testing.T) {
 		if code, _, _ := call(t, "check"); code != exitUsage {
 			t.Errorf("no manifest: exit %d, want 2", code)

@@ -33,7 +33,7 @@ const initMaxGroupLevels = 12
 
 func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 	flags := newFlagSet("init", stderr)
-	out := flags.String("o", "", "write the manifest to `MANIFEST` (default: bivar.toml beside the CSV)")
+	out := flags.String("o", "", "write the manifest to `MANIFEST`, or to bivar.toml in it when it is a folder (default: bivar.toml beside the CSV)")
 	force := flags.Bool("force", false, "overwrite an existing manifest")
 	if code, ok := parseFlags(flags, args); !ok {
 		return code
@@ -46,6 +46,8 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 	dest := *out
 	if dest == "" {
 		dest = filepath.Join(filepath.Dir(csvPath), "bivar.toml")
+	} else if info, err := os.Stat(dest); err == nil && info.IsDir() {
+		dest = filepath.Join(dest, "bivar.toml") // -o FOLDER: the manifest goes in it
 	}
 	if _, err := os.Stat(dest); err == nil && !*force {
 		fmt.Fprintf(stderr, "bivar init: %s exists; not overwritten (use --force to replace it, or -o to write elsewhere)\n", dest)

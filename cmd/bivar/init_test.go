@@ -229,6 +229,16 @@ func TestInitBadInput(t *testing.T) {
 	if code, _, stderr := call(t, "init", "a.csv", "b.csv"); code != exitUsage || !strings.Contains(stderr, "got 2 arguments") {
 		t.Errorf("two arguments: exit %d, %q", code, stderr)
 	}
+	// -o a folder that does not exist yet: created; -o an existing folder:
+	// bivar.toml in it.
+	good := filepath.Join(dir, "good.csv")
+	writeFile(t, good, "a,b\n1.5,2\n2.5,3.5\n3.5,3\n")
+	if code, _, stderr := call(t, "init", "-o", filepath.Join(dir, "new", "sub", "m.toml"), good); code != exitOK {
+		t.Errorf("-o in a new folder: exit %d, %q", code, stderr)
+	}
+	if code, _, stderr := call(t, "init", "-o", filepath.Join(dir, "new"), good); code != exitOK || !strings.Contains(stderr, filepath.Join(dir, "new", "bivar.toml")) {
+		t.Errorf("-o an existing folder: exit %d, %q", code, stderr)
+	}
 	if code, _, _ := call(t, "init", "--colour", "a.csv"); code != exitUsage {
 		t.Errorf("unknown flag: exit %d, want 2", code)
 	}

@@ -141,6 +141,9 @@ func Thresholds(t manifest.Thresholds) report.Thresholds {
 	set(&th.CooksD, t.CooksD)
 	set(&th.CurveGainR2, t.CurveGainR2)
 	set(&th.NonlinearDcor, t.NonlinearDcor)
+	set(&th.OutlierFamilyAlpha, t.OutlierFamilyAlpha)
+	set(&th.DriftDW, t.DriftDW)
+	set(&th.FormDW, t.FormDW)
 	if t.ReversalMinGroup != nil {
 		th.ReversalMinGroup = *t.ReversalMinGroup
 	}

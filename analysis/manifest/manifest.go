@@ -46,6 +46,14 @@ type Thresholds struct {
 	CurveGainR2      *float64 `toml:"curve_gain_r2"`
 	NonlinearDcor    *float64 `toml:"nonlinear_dcor"`
 	ReversalMinGroup *int     `toml:"reversal_min_group"`
+
+	// OutlierFamilyAlpha is the family-wise level of the outliers'
+	// Bonferroni bound, in [0, 1); 0 turns the bound off.
+	OutlierFamilyAlpha *float64 `toml:"outlier_family_alpha"`
+	// DriftDW and FormDW are Durbin–Watson cut points, in [0, 2); 0 turns
+	// the rule off (see findings.DefaultThresholds).
+	DriftDW *float64 `toml:"drift_dw"`
+	FormDW  *float64 `toml:"form_dw"`
 }
 
 // Dataset declares one CSV file.

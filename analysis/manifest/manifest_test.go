@@ -195,12 +195,19 @@ func TestErrors(t *testing.T) {
 				{Line: 3, Col: 3, Key: "study.y", Msg: `study "a" has no y: add y = "…" (the column of the response)`},
 				{Line: 3, Col: 5, Key: "study.id", Msg: `study id "a" is used twice (first at line 2)`},
 			}},
-		{"thresholds", "[thresholds]\nstrong = 0.4\nmoderate = 0.5\noutlier_z = -3\nreversal_min_group = 1\n" + head + study,
+		{"thresholds", "[thresholds]\nstrong = 0.4\nmoderate = 0.5\noutlier_z = -3\nreversal_min_group = 1\n" +
+			"cooks_d = 2\noutlier_family_alpha = 1\ndrift_dw = 2.5\nform_dw = -0.1\n" + head + study,
 			[]Error{
 				{Line: 3, Col: 1, Key: "thresholds.moderate", Msg: `thresholds.moderate = 0.5 must be below thresholds.strong = 0.4`},
 				{Line: 4, Col: 1, Key: "thresholds.outlier_z", Msg: `thresholds.outlier_z = -3 must be a positive number`},
 				{Line: 5, Col: 1, Key: "thresholds.reversal_min_group", Msg: `thresholds.reversal_min_group = 1 is below 3, the fewest rows a fit needs`},
+				{Line: 6, Col: 1, Key: "thresholds.cooks_d", Msg: `thresholds.cooks_d = 2 is outside (0, 1)`},
+				{Line: 7, Col: 1, Key: "thresholds.outlier_family_alpha", Msg: `thresholds.outlier_family_alpha = 1 is outside [0, 1) (a family-wise significance level; 0 turns the rule off)`},
+				{Line: 8, Col: 1, Key: "thresholds.drift_dw", Msg: `thresholds.drift_dw = 2.5 is outside [0, 2) (a Durbin–Watson statistic below 2, the value for independent residuals; 0 turns the rule off)`},
+				{Line: 9, Col: 1, Key: "thresholds.form_dw", Msg: `thresholds.form_dw = -0.1 is outside [0, 2) (a Durbin–Watson statistic below 2, the value for independent residuals; 0 turns the rule off)`},
 			}},
+		{"threshold key misspelt", "[thresholds]\nform_wd = 1.2\n" + head + study,
+			[]Error{{Line: 2, Col: 1, Key: "thresholds.form_wd", Msg: `unknown key "thresholds.form_wd" — did you mean "thresholds.form_dw"?`}}},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

@@ -319,11 +319,22 @@ func (p *parser) thresholds(t *Thresholds) {
 	frac("strong", t.Strong)
 	frac("moderate", t.Moderate)
 	frac("weak", t.Weak)
+	// in [0, hi): 0 turns a rule off.
+	offOr := func(key string, v *float64, hi float64, what string) {
+		if v != nil && !(*v >= 0 && *v < hi) {
+			p.add("", "thresholds."+key, "thresholds.%s = %v is outside [0, %v) (%s; 0 turns the rule off)", key, *v, hi, what)
+		}
+	}
 	frac("curve_gain_r2", t.CurveGainR2)
 	frac("nonlinear_dcor", t.NonlinearDcor)
+	// Cook's D is compared with this quantile of F(p, n − p): a
+	// probability, like the fractions above.
+	frac("cooks_d", t.CooksD)
 	pos("leverage_factor", t.LeverageFactor)
 	pos("outlier_z", t.OutlierZ)
-	pos("cooks_d", t.CooksD)
+	offOr("outlier_family_alpha", t.OutlierFamilyAlpha, 1, "a family-wise significance level")
+	offOr("drift_dw", t.DriftDW, 2, "a Durbin–Watson statistic below 2, the value for independent residuals")
+	offOr("form_dw", t.FormDW, 2, "a Durbin–Watson statistic below 2, the value for independent residuals")
 	if t.Strong != nil && t.Moderate != nil && *t.Moderate >= *t.Strong {
 		p.add("", "thresholds.moderate", "thresholds.moderate = %v must be below thresholds.strong = %v", *t.Moderate, *t.Strong)
 	}

@@ -18,13 +18,13 @@ import (
 // one Expectation saying what was wanted, what was found and whether it
 // held. A study that did not run fails every gate, with its error as the
 // detail. alpha gives the intervals' confidence 1 − alpha and adjust
-// names the adjustment, both for the wording. It returns
-// nil when e is nil.
+// names the adjustment, both for the wording. It returns an empty list
+// (written [] in results.json, not null) when e is nil.
 func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust string) []report.Expectation {
-	if e == nil {
-		return nil
-	}
 	out := []report.Expectation{}
+	if e == nil {
+		return out
+	}
 	add := func(name, want string, eval func() (got string, ok bool, detail string)) {
 		if s.Error != nil {
 			out = append(out, report.Expectation{Name: name, Want: want, Got: "not computed", OK: false,

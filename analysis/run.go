@@ -103,6 +103,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			defer func() { <-slots; wg.Done() }()
 			s := analyze(in, cfg)
 			s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
+			listsAlways(&s)
 			r.Studies[i] = s
 		}()
 	}

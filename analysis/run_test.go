@@ -2,6 +2,7 @@ package analysis_test
 
 import (
 	"bytes"
+	"encoding/json"
 	"math"
 	"strings"
 	"testing"
@@ -278,4 +279,51 @@ func firstDiff(a, b string) string {
 		}
 	}
 	return "lengths differ"
+}
+
+// TestRunEmptyListsAreLists: in results.json a list that is empty is
+// written [] (DESIGN.md shows these keys as lists), never null; a study
+// that failed keeps null for the sections it did not reach, but its
+// excluded rows and expectations are lists.
+func TestRunEmptyListsAreLists(t *testing.T) {
+	t.Parallel()
+	r := runTestManifest(t, "")
+	var buf bytes.Buffer
+	if err := report.Write(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Studies []map[string]json.RawMessage `json:"studies"`
+	}
+	if err := json.Unmarshal(buf.Bytes(), &doc); err != nil {
+		t.Fatal(err)
+	}
+	isList := func(raw json.RawMessage) bool { return len(raw) > 0 && raw[0] == '[' }
+	for _, s := range doc.Studies {
+		id := string(s["id"])
+		for _, k := range []string{"excluded", "expectations"} {
+			if !isList(s[k]) {
+				t.Errorf("study %s: %s = %s, want a list", id, k, s[k])
+			}
+		}
+		if string(s["error"]) != "null" {
+			continue
+		}
+		for _, k := range []string{"models", "partial", "groups", "unit_invariance", "predictions"} {
+			if !isList(s[k]) {
+				t.Errorf("study %s: %s = %s, want a list", id, k, s[k])
+			}
+		}
+		var inf struct {
+			Points json.RawMessage `json:"points"`
+		}
+		var sens struct {
+			WithoutEach json.RawMessage `json:"without_each"`
+		}
+		json.Unmarshal(s["influence"], &inf)
+		json.Unmarshal(s["sensitivity"], &sens)
+		if !isList(inf.Points) || !isList(sens.WithoutEach) {
+			t.Errorf("study %s: influence.points %s, sensitivity.without_each %s, want lists", id, inf.Points, sens.WithoutEach)
+		}
+	}
 }

@@ -260,7 +260,52 @@ func analyze(in Input, cfg Config) report.Study {
 	s.Plot = plotData(x, y, cc, line, s.Influence, lx, ly, conf, cfg)
 	xOrderFigures(s.Diagnostics, x, line.Residuals)
 	lowessExtremes(s.Diagnostics.Lowess, s.Plot.Lowess)
+	emptyLists(&s)
 	return s
+}
+
+// emptyLists writes an empty list, not null, for each list of a study that
+// ran and has nothing in it (no covariates, no groups, no predict_at, …),
+// so a reader of results.json finds a list wherever DESIGN.md shows one.
+// A study that failed keeps null for the sections it did not reach, but
+// its excluded rows and expectations are lists too (see listsAlways).
+func emptyLists(s *report.Study) {
+	listsAlways(s)
+	if s.Error != nil {
+		return
+	}
+	if s.Models == nil {
+		s.Models = []report.Fit{}
+	}
+	if s.Partial == nil {
+		s.Partial = []report.Partial{}
+	}
+	if s.Groups == nil {
+		s.Groups = []report.GroupFit{}
+	}
+	if s.UnitInvariance == nil {
+		s.UnitInvariance = []report.UnitRow{}
+	}
+	if s.Predictions == nil {
+		s.Predictions = []report.Prediction{}
+	}
+	if s.Influence != nil && s.Influence.Points == nil {
+		s.Influence.Points = []report.Point{}
+	}
+	if s.Sensitivity != nil && s.Sensitivity.WithoutEach == nil {
+		s.Sensitivity.WithoutEach = []report.Without{}
+	}
+}
+
+// listsAlways sets the lists that every study has, run or not: the rows
+// excluded and the expectations.
+func listsAlways(s *report.Study) {
+	if s.Excluded == nil {
+		s.Excluded = []report.Exclusion{}
+	}
+	if s.Expectations == nil {
+		s.Expectations = []report.Expectation{}
+	}
 }
 
 // assess sets the findings (and the curve in the plot data, which is drawn
@@ -297,6 +342,7 @@ func failed(s report.Study, msg string) report.Study {
 	s.Moments, s.Describe, s.Pearson, s.Spearman, s.Kendall, s.Line = nil, nil, nil, nil, nil, nil
 	s.Models, s.Diagnostics, s.Partial, s.Groups, s.Influence, s.Sensitivity = nil, nil, nil, nil, nil, nil
 	s.UnitInvariance, s.Predictions, s.Findings, s.Plot = nil, nil, nil, nil
+	listsAlways(&s)
 	return s
 }
 

@@ -46,6 +46,13 @@ type Regression struct {
 	ymean float64
 	rinv  []float64 // p×p row-major inverse of the centred design's R
 	p     int       // number of columns (slopes)
+	poly  *polyMap  // set by Polynomial: the columns are powers of (x − c)/s
+	b     []float64 // slopes of the fitted columns (Coef holds raw powers under poly)
+}
+
+// polyMap records the centring and scaling of x under a Polynomial fit.
+type polyMap struct {
+	c, s float64 // t = (x − c)/s
 }
 
 // rankTol is the relative size below which a diagonal element of R, compared
@@ -239,15 +246,8 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 	if r.DFResid > 0 && conf > 0 && conf < 1 {
 		tq = TQuantile(0.5+conf/2, df)
 	}
-	coef := func(est, se float64) Coef {
-		c := Coef{Estimate: est, SE: se, T: est / se}
-		c.P = TwoSidedT(c.T, df)
-		c.CILow, c.CIHigh = est-tq*se, est+tq*se
-		if r.DFResid <= 0 {
-			c.T, c.P, c.CILow, c.CIHigh = nan, nan, nan, nan
-		}
-		return c
-	}
+	coef := func(est, se float64) Coef { return makeCoef(est, se, tq, r.DFResid) }
+	r.b = append([]float64(nil), b...)
 	r.Coef = make([]Coef, k)
 	b0 := r.ymean
 	for j := range b {
@@ -274,6 +274,20 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 	return r
 }
 
+// makeCoef returns the coefficient with its t, p and interval from the
+// estimate, its standard error, the t quantile tq and the residual degrees
+// of freedom (NaN inference when there are none).
+func makeCoef(est, se, tq float64, dfResid int) Coef {
+	nan := math.NaN()
+	c := Coef{Estimate: est, SE: se, T: est / se}
+	c.P = TwoSidedT(c.T, float64(dfResid))
+	c.CILow, c.CIHigh = est-tq*se, est+tq*se
+	if dfResid <= 0 {
+		c.T, c.P, c.CILow, c.CIHigh = nan, nan, nan, nan
+	}
+	return c
+}
+
 // Predict returns the fitted mean response at the predictor values z (one
 // per column, in the order of the fit), and the confidence interval for
 // the mean response and the prediction interval for a new observation at
@@ -284,7 +298,9 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 //
 // (e.g. Montgomery, Peck & Vining 2012, Introduction to Linear Regression
 // Analysis, 5th ed., §3.4–3.5). The intervals are NaN when DFResid is 0.
-// It panics if len(z) differs from the number of columns. Predicting outside
+// It panics if len(z) differs from the number of columns. For a fit made
+// by Polynomial, z is PowerRow(x0, degree) and only z[0] = x0 is read (the
+// fit's own columns are powers of the centred x). Predicting outside
 // the observed range of the columns is extrapolation: the interval does
 // not cover the error of the model's form there.
 func (r Regression) Predict(z []float64, conf float64) (fit, confLow, confHigh, predLow, predHigh float64) {
@@ -292,10 +308,13 @@ func (r Regression) Predict(z []float64, conf float64) (fit, confLow, confHigh, 
 	if len(z) != p {
 		panic(fmt.Sprintf("stats: Regression.Predict: %d values for %d columns", len(z), p))
 	}
+	if r.poly != nil && p > 0 {
+		z = PowerRow((z[0]-r.poly.c)/r.poly.s, p)
+	}
 	fit = r.ymean
 	q := 1 / float64(r.N)
 	for k := 0; k < p; k++ {
-		fit += r.Coef[k+1].Estimate * (z[k] - r.means[k])
+		fit += r.b[k] * (z[k] - r.means[k])
 		var t float64
 		for j := 0; j <= k; j++ {
 			t += (z[j] - r.means[j]) * r.rinv[j*p+k]
@@ -312,11 +331,31 @@ func (r Regression) Predict(z []float64, conf float64) (fit, confLow, confHigh, 
 	return fit, fit - hc, fit + hc, fit - hp, fit + hp
 }
 
-// Polynomial fits y = b0 + b1·x + b2·x² + … + b_d·x^d by LeastSquares on the
-// columns x, x², …, x^d (raw powers, each centred on its mean inside
-// LeastSquares, so the coefficients are those of raw powers of x). It
-// returns an error for degree < 1 or whatever LeastSquares rejects; x needs
-// at least degree+1 distinct values. Predict at PowerRow(x0, degree).
+// Polynomial fits y = b0 + b1·x + b2·x² + … + b_d·x^d by least squares and
+// reports the coefficients of the raw powers of x.
+//
+// Algorithm: x is first centred and scaled, t = (x − c)/s with c = x̄ and
+// s = max|x − x̄|, and LeastSquares fits y on t, t², …, t^d (each centred
+// again inside it). Raw powers of x far from 0 are nearly collinear: on
+// x = 10⁹ + 0..10 the columns x and x² have a condition number near 10¹⁶,
+// and a fit on them is noise; powers of t ∈ [−1, 1] are well conditioned
+// whatever the offset or scale of x (Forsythe 1957, "Generation and use of
+// orthogonal polynomials for data-fitting with a digital computer",
+// J. SIAM 5(2); Seber & Lee 2003, Linear Regression Analysis, 2nd ed.,
+// §7.1). The coefficients a of t are mapped to those of x exactly,
+//
+//	b_j = Σ_{k≥j} a_k·C(k, j)·(−c)^{k−j} / s^k,     Cov(b) = T·Cov(a)·Tᵀ
+//
+// with T that upper-triangular map, so the SE, t, p and intervals are
+// those of the raw-power coefficients (the leading one, b_d = a_d/s^d, has
+// the same t and p as a_d). Fitted values, residuals, leverages, sums of
+// squares, R², F and AIC are those of the t fit, which equal the raw fit's
+// in exact arithmetic. Predict at PowerRow(x0, degree).
+//
+// It returns an error for degree < 1, a non-finite x, x with fewer than
+// degree+1 distinct values, x whose powers overflow or underflow float64
+// (|x| or its spread beyond about 10^(300/degree) or below
+// 10^(−300/degree)), or whatever LeastSquares rejects.
 func Polynomial(x, y []float64, degree int, conf float64) (Regression, error) {
 	if len(x) != len(y) {
 		panic("stats: Polynomial: x and y lengths differ")
@@ -324,19 +363,138 @@ func Polynomial(x, y []float64, degree int, conf float64) (Regression, error) {
 	if degree < 1 {
 		return Regression{}, fmt.Errorf("polynomial: degree %d: want 1 or more", degree)
 	}
+	for i, v := range x {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return Regression{}, fmt.Errorf("polynomial: x row %d is %v: remove non-finite values first", i+1, v)
+		}
+	}
+	if len(x) < degree+1 {
+		return Regression{}, fmt.Errorf("polynomial: %d rows cannot fit a degree-%d polynomial: need at least %d", len(x), degree, degree+1)
+	}
+	c, _ := meanSS(x)
+	var s float64
+	for _, v := range x {
+		s = math.Max(s, math.Abs(v-c))
+	}
+	if d := distinctAtMost(x, degree+1); d < degree+1 {
+		return Regression{}, fmt.Errorf("polynomial: x takes %d distinct value(s): a degree-%d polynomial needs at least %d", d, degree, degree+1)
+	}
+	if sd, cd := math.Pow(s, float64(degree)), math.Pow(math.Abs(c), float64(degree)); sd == 0 || math.IsInf(sd, 0) || math.IsInf(cd, 0) {
+		return Regression{}, fmt.Errorf("polynomial: x spans %g about %g: its degree-%d powers leave the range of float64; rescale x", s, c, degree)
+	}
 	cols := make([][]float64, degree)
 	for d := range cols {
-		c := make([]float64, len(x))
+		col := make([]float64, len(x))
 		for i, v := range x {
 			if d == 0 {
-				c[i] = v
+				col[i] = (v - c) / s
 			} else {
-				c[i] = cols[d-1][i] * v
+				col[i] = cols[d-1][i] * cols[0][i]
 			}
 		}
-		cols[d] = c
+		cols[d] = col
 	}
-	return LeastSquares(cols, y, conf)
+	r, err := LeastSquares(cols, y, conf)
+	if err != nil {
+		return Regression{}, err
+	}
+	r.poly = &polyMap{c: c, s: s}
+	r.Coef = r.rawPowerCoef(conf)
+	return r, nil
+}
+
+// distinctAtMost returns the number of distinct values in x, counting no
+// further than limit.
+func distinctAtMost(x []float64, limit int) int {
+	var seen []float64
+	for _, v := range x {
+		found := false
+		for _, u := range seen {
+			if u == v {
+				found = true
+				break
+			}
+		}
+		if !found {
+			seen = append(seen, v)
+			if len(seen) >= limit {
+				break
+			}
+		}
+	}
+	return len(seen)
+}
+
+// rawPowerCoef maps the coefficients of the powers of t = (x − c)/s to
+// those of the powers of x, with their covariance (see Polynomial).
+func (r Regression) rawPowerCoef(conf float64) []Coef {
+	d := r.p
+	c, s := r.poly.c, r.poly.s
+	a := make([]float64, d+1)
+	for k := range a {
+		a[k] = r.Coef[k].Estimate
+	}
+	// Cov(a)/σ²: slopes G = R⁻¹R⁻ᵀ; a0 = ȳ − mᵀa_s with ȳ uncorrelated
+	// with the slopes (centred design), so Var(a0) = 1/n + mᵀGm and
+	// Cov(a0, a_s) = −Gm.
+	g := make([][]float64, d+1)
+	for i := range g {
+		g[i] = make([]float64, d+1)
+	}
+	for j := 0; j < d; j++ {
+		for k := j; k < d; k++ {
+			var v float64
+			for l := k; l < d; l++ {
+				v += r.rinv[j*d+l] * r.rinv[k*d+l]
+			}
+			g[j+1][k+1], g[k+1][j+1] = v, v
+		}
+	}
+	gm := make([]float64, d)
+	var mgm float64
+	for j := 0; j < d; j++ {
+		for k := 0; k < d; k++ {
+			gm[j] += g[j+1][k+1] * r.means[k]
+		}
+		mgm += r.means[j] * gm[j]
+	}
+	g[0][0] = 1/float64(r.N) + mgm
+	for j := 0; j < d; j++ {
+		g[0][j+1], g[j+1][0] = -gm[j], -gm[j]
+	}
+	// T[j][k] = C(k, j)·(−c)^{k−j}/s^k for k ≥ j.
+	t := make([][]float64, d+1)
+	for j := range t {
+		t[j] = make([]float64, d+1)
+		for k := j; k <= d; k++ {
+			t[j][k] = binom(k, j) * math.Pow(-c, float64(k-j)) / math.Pow(s, float64(k))
+		}
+	}
+	tq := math.NaN()
+	if r.DFResid > 0 && conf > 0 && conf < 1 {
+		tq = TQuantile(0.5+conf/2, float64(r.DFResid))
+	}
+	out := make([]Coef, d+1)
+	for j := 0; j <= d; j++ {
+		var b, v float64
+		for k := j; k <= d; k++ {
+			b += t[j][k] * a[k]
+			for l := j; l <= d; l++ {
+				v += t[j][k] * g[k][l] * t[j][l]
+			}
+		}
+		out[j] = makeCoef(b, r.ResidualSE*math.Sqrt(math.Max(v, 0)), tq, r.DFResid)
+	}
+	return out
+}
+
+// binom returns the binomial coefficient C(n, k) for small n.
+func binom(n, k int) float64 {
+	v := 1.0
+	for i := 1; i <= k; i++ {
+		v = v * float64(n-k+i) / float64(i)
+	}
+	return v
 }
 
 // PowerRow returns x0, x0², …, x0^degree, the predictor row of Polynomial.

@@ -19,8 +19,10 @@ import "math"
 //	F      = (SS_LOF/df1) / (SS_PE/df2),    p = P(F_{df1,df2} ≥ F) (UpperF)
 //
 // SS_LOF is summed directly from the group means rather than as RSS − SS_PE,
-// so it does not lose digits to cancellation. Groups are runs of exactly
-// equal x (no rounding). The line is Line's least-squares fit.
+// so it does not lose digits to cancellation, and the line is evaluated in
+// its centred form ȳ + b1·(x − x̄), so an offset in x costs no digits.
+// Groups are runs of exactly equal x (no rounding). The line is Line's
+// least-squares fit.
 //
 // ok is false, and the other results are zero or NaN, when the test does
 // not exist: x has no replicates (m = n, df2 = 0), fewer than three distinct
@@ -40,8 +42,9 @@ func LackOfFit(x, y []float64) (f float64, df1, df2 int, p float64, ok bool) {
 	if err != nil {
 		return nan, 0, 0, nan, false
 	}
+	// The line in centred form, ȳ + b1·(x − x̄): b0 + b1·x would cancel
+	// when x is far from 0 (x = 10⁹ + small lost 8 digits of F).
 	b1 := line.Slope.Estimate
-	b0 := line.Intercept.Estimate
 	idx := stableArgsort(x)
 	var ssPE, ssLOF float64
 	m := 0
@@ -66,7 +69,7 @@ func LackOfFit(x, y []float64) (f float64, df1, df2 int, p float64, ok bool) {
 		}
 		mean += c / ng
 		ssPE += q - c*c/ng
-		d := mean - (b0 + b1*x[idx[lo]])
+		d := mean - (line.ymean + b1*(x[idx[lo]]-line.MeanX))
 		ssLOF += ng * d * d
 		lo = hi
 	}

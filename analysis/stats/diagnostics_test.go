@@ -109,8 +109,22 @@ func TestLackOfFit(t *testing.T) {
 		// Pr(>F); on extraWavy(20261201, 60), which has 32 distinct x.
 		x, y := sets["wavy"][0], sets["wavy"][1]
 		f, df1, df2, p, ok := LackOfFit(x, y)
-		if !ok || df1 != 30 || df2 != 28 || !extraClose(f, 3.047299978235512, 1e-11) || !extraClose(p, 0.0019885901234434032, 1e-9) {
+		if !ok || df1 != 30 || df2 != 28 || !extraClose(f, 3.047299978235512, 1e-13) || !extraClose(p, 0.0019885901234434032, 1e-13) {
 			t.Errorf("LackOfFit(wavy) = %.17g, %d, %d, %.17g, %v; want 3.047299978235512, 30, 28, 0.0019885901234434032, true", f, df1, df2, p, ok)
+		}
+	})
+	t.Run("offset", func(t *testing.T) {
+		// The same data with x moved by 10⁹ (exact: x is on a grid of 0.5):
+		// the test is unchanged, so the same statsmodels value holds. The
+		// uncentred line b0 + b1·x gave F off by 3e-9 relative here.
+		x, y := sets["wavy"][0], sets["wavy"][1]
+		xo := make([]float64, len(x))
+		for i := range x {
+			xo[i] = x[i] + 1e9
+		}
+		f, df1, df2, p, ok := LackOfFit(xo, y)
+		if !ok || df1 != 30 || df2 != 28 || !extraClose(f, 3.047299978235512, 1e-13) || !extraClose(p, 0.0019885901234434032, 1e-13) {
+			t.Errorf("LackOfFit(wavy, x + 1e9) = %.17g, %d, %d, %.17g, %v; want 3.047299978235512, 30, 28, 0.0019885901234434032", f, df1, df2, p, ok)
 		}
 	})
 	t.Run("no-test", func(t *testing.T) {

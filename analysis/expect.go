@@ -100,16 +100,16 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 		add("min_n", fmt.Sprintf("n ≥ %d", want), func() (string, bool, string) {
 			got := fmt.Sprintf("n = %d", s.N)
 			if s.N >= want {
-				return got, true, fmt.Sprintf("%d complete rows, at least the %d required (%d rows dropped for missing cells)", s.N, want, s.NMissing)
+				return got, true, fmt.Sprintf("%s, at least the %d required (%s dropped for missing cells)", count(s.N, "complete row"), want, count(s.NMissing, "row"))
 			}
-			return got, false, fmt.Sprintf("only %d complete rows, fewer than the %d required (%d rows dropped for missing cells)", s.N, want, s.NMissing)
+			return got, false, fmt.Sprintf("only %s, fewer than the %d required (%s dropped for missing cells)", count(s.N, "complete row"), want, count(s.NMissing, "row"))
 		})
 	}
 	if e.NotOutlierDriven != nil && *e.NotOutlierDriven {
 		add("not_outlier_driven", "not outlier-driven", func() (string, bool, string) {
 			se := s.Sensitivity
-			ctx := fmt.Sprintf("%d row(s) left out (outlier, influential or sole support); r = %s with all rows, %s without them",
-				se.NFlagged, num(s.Pearson.R), num(se.RWithoutFlagged))
+			ctx := fmt.Sprintf("%s left out (outlier, influential or sole support); r = %s with all rows, %s without %s",
+				count(se.NFlagged, "row"), num(s.Pearson.R), num(se.RWithoutFlagged), itThem(se.NFlagged))
 			if se.NFlagged == 0 {
 				ctx = fmt.Sprintf("no row is an outlier, influential or the sole support of the line; r = %s", num(s.Pearson.R))
 			}
@@ -120,6 +120,22 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 		})
 	}
 	return out
+}
+
+// count writes n with the noun, plural by n: "1 row", "2 rows", "0 rows".
+func count(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return strconv.Itoa(n) + " " + noun + "s"
+}
+
+// itThem is the pronoun for n rows.
+func itThem(n int) string {
+	if n == 1 {
+		return "it"
+	}
+	return "them"
 }
 
 // within checks lo ≤ v ≤ hi for the two-element range w.

@@ -1,6 +1,7 @@
 package analysis
 
 import (
+	"math"
 	"strings"
 	"testing"
 
@@ -38,5 +39,46 @@ func TestExpectationUnits(t *testing.T) {
 	s.Y.Unit, s.Y.Symbol = "", ""
 	if got := Expectations(s, &manifest.Expect{SlopeWithin: []float64{-1, 0}}, 0.05, "holm")[0].Got; !strings.HasSuffix(got, " per °C") {
 		t.Errorf("y without a unit: got %q, want the slope per °C", got)
+	}
+}
+
+// TestExpectationGrammar: counts agree with their nouns ("1 row", "2 rows").
+func TestExpectationGrammar(t *testing.T) {
+	s := expectStudy() // 1 row missing, 1 flagged
+	yes := true
+	min := 100
+	e := Expectations(s, &manifest.Expect{MinN: &min, NotOutlierDriven: &yes}, 0.05, "holm")
+	text := e[0].Detail + "\n" + e[1].Detail
+	for _, want := range []string{"119 complete rows", "(1 row dropped for missing cells)", "1 row left out", "without it"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("details lack %q:\n%s", want, text)
+		}
+	}
+	if strings.Contains(text, "1 rows") || strings.Contains(text, "(s)") {
+		t.Errorf("details: a count disagrees with its noun:\n%s", text)
+	}
+	s.NMissing, s.Sensitivity.NFlagged = 2, 2
+	e = Expectations(s, &manifest.Expect{MinN: &min, NotOutlierDriven: &yes}, 0.05, "holm")
+	if text := e[0].Detail + "\n" + e[1].Detail; !strings.Contains(text, "(2 rows dropped") || !strings.Contains(text, "2 rows left out") || !strings.Contains(text, "without them") {
+		t.Errorf("two rows:\n%s", text)
+	}
+}
+
+// TestTooFewRowsGrammar: the error for a study with too few complete rows
+// counts them in good English.
+func TestTooFewRowsGrammar(t *testing.T) {
+	nan := math.NaN()
+	for _, c := range []struct {
+		x    []float64
+		want string
+	}{
+		{[]float64{1, nan, nan}, "only 1 complete row of"},
+		{[]float64{1, 2, nan}, "only 2 complete rows of"},
+	} {
+		s := Analyze(Input{ID: "s", X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"},
+			XS: c.x, YS: []float64{1, 2, 3}}, Config{})
+		if s.Error == nil || !strings.Contains(*s.Error, c.want) {
+			t.Errorf("error %v, want it to say %q", s.Error, c.want)
+		}
 	}
 }

@@ -185,8 +185,8 @@ func analyze(in Input, cfg Config) report.Study {
 	s.NMissing = len(in.XS) - s.N
 	s.Excluded = cc.excluded
 	if s.N < 3 {
-		return failed(s, fmt.Sprintf("only %d complete row(s) of %s; at least 3 are needed: check the columns for missing cells",
-			s.N, completeColumns(in, covNames)))
+		return failed(s, fmt.Sprintf("only %s of %s; at least 3 are needed: check the columns for missing cells",
+			count(s.N, "complete row"), completeColumns(in, covNames)))
 	}
 	x, y := cc.x, cc.y
 	if c, v := constant(x); c {
@@ -350,7 +350,7 @@ func failed(s report.Study, msg string) report.Study {
 func checkLengths(in Input, covNames []string) string {
 	n := len(in.XS)
 	bad := func(what string, m int) string {
-		return fmt.Sprintf("internal: %s has %d rows but x has %d", what, m, n)
+		return fmt.Sprintf("internal: %s has %s but x has %d", what, count(m, "row"), n)
 	}
 	if len(in.YS) != n {
 		return bad("y", len(in.YS))

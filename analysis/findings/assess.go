@@ -477,8 +477,8 @@ func (f *facts) write(out *report.Findings) {
 	if out.OutlierDriven {
 		h = f.drivenHeadline() + " With all rows: " + h
 	} else if rows := f.suspectRows(); len(rows) > 0 && s.Sensitivity != nil && s.Sensitivity.RWithoutFlagged.Valid() {
-		h += fmt.Sprintf(" %s %s flagged; without the flagged rows r = %s and the verdict stands.",
-			capital(listRows(rows)), plural(len(rows), "is", "are"), corr(float64(s.Sensitivity.RWithoutFlagged)))
+		h += fmt.Sprintf(" %s %s flagged; without %s r = %s and the verdict stands.",
+			capital(listRows(rows)), plural(len(rows), "is", "are"), plural(len(rows), "it", "them"), corr(float64(s.Sensitivity.RWithoutFlagged)))
 	}
 	if out.Reversal {
 		h += fmt.Sprintf(" Within each %s the direction reverses: the pooled trend comes from differences between the groups.", s.Group)

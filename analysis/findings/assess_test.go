@@ -353,7 +353,7 @@ func TestAssessOutlierInflatesStrength(t *testing.T) {
 		Flags: []string{FlagOutlier, FlagInfluential}}}
 	s.Sensitivity.NFlagged = 1
 	s.Sensitivity.RWithoutFlagged, s.Sensitivity.PWithoutFlagged = 0.95, 1e-20
-	if f = Assess(s, ctx); f.OutlierDriven || !strings.Contains(f.Headline, "Row 40 is flagged") {
+	if f = Assess(s, ctx); f.OutlierDriven || !strings.Contains(f.Headline, "Row 40 is flagged; without it r =") {
 		t.Errorf("moderate with the row, strong without: outlier_driven %v, headline %s", f.OutlierDriven, f.Headline)
 	}
 }

@@ -676,8 +676,8 @@ func (f *facts) drivenHeadline() string {
 		return fmt.Sprintf("The apparent relationship rests on %s: without %s, r = %s (%s) and no relationship is shown.",
 			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)))
 	default:
-		return fmt.Sprintf("The direction of the relationship depends on single rows: leaving out one row at a time, r ranges from %s to %s.",
-			corr(float64(se.LooRMin)), corr(float64(se.LooRMax)))
+		lo, hi := corrPair(float64(se.LooRMin), float64(se.LooRMax))
+		return fmt.Sprintf("The direction of the relationship depends on single rows: leaving out one row at a time, r ranges from %s to %s.", lo, hi)
 	}
 }
 
@@ -729,8 +729,8 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 			}
 			return " (without row " + row + ")"
 		}
-		add("Leaving out one row at a time, r ranges from %s%s to %s%s.",
-			corr(float64(se.LooRMin)), without(se.LooRMinRow), corr(float64(se.LooRMax)), without(se.LooRMaxRow))
+		lo, hi := corrPair(float64(se.LooRMin), float64(se.LooRMax))
+		add("Leaving out one row at a time, r ranges from %s%s to %s%s.", lo, without(se.LooRMinRow), hi, without(se.LooRMaxRow))
 	}
 	if se.ResistantSlope.Valid() && s.Line != nil && s.Line.Slope != nil {
 		method := ""

@@ -434,3 +434,14 @@ func TestAssessReadsXOrderFromDiagnostics(t *testing.T) {
 		t.Errorf("SpreadRho −0.5: the spread should shrink:\n%s", all(f))
 	}
 }
+
+// TestAssessLeaveOneOutDigits: the leave-one-out range of r shows enough
+// digits that its two ends differ when they differ.
+func TestAssessLeaveOneOutDigits(t *testing.T) {
+	s := study(-0.98, 1e-9)
+	s.Sensitivity.LooRMin, s.Sensitivity.LooRMinRow = -0.98191, "52"
+	s.Sensitivity.LooRMax, s.Sensitivity.LooRMaxRow = -0.98149, "83"
+	if text := all(Assess(s, ctx)); !strings.Contains(text, "r ranges from −0.982 (without row 52) to −0.981 (without row 83)") {
+		t.Errorf("leave-one-out range not separated:\n%s", text)
+	}
+}

@@ -49,6 +49,42 @@ func corr(r float64) string {
 	return minus(strconv.FormatFloat(r, 'f', d, 64))
 }
 
+// corrPair writes two correlations (or R² values) for a range or a
+// comparison: each as corr writes it, with decimals added to both until
+// they differ, so two values that differ never print alike ("r ranges from
+// −0.982 to −0.981", not "from −0.98 to −0.98"). Equal values print alike.
+func corrPair(a, b float64) (string, string) {
+	sa, sb := corr(a), corr(b)
+	if math.IsNaN(a) || math.IsNaN(b) || math.IsInf(a, 0) || math.IsInf(b, 0) || a == b || sa != sb {
+		return sa, sb
+	}
+	d := len(sa) - strings.IndexByte(sa, '.') - 1
+	for d < 15 {
+		d++
+		sa, sb = strconv.FormatFloat(a, 'f', d, 64), strconv.FormatFloat(b, 'f', d, 64)
+		if sa != sb {
+			break
+		}
+	}
+	return minus(sa), minus(sb)
+}
+
+// numPair is corrPair for any two figures: three significant digits, more
+// until two values that differ print differently.
+func numPair(a, b float64) (string, string) {
+	sa, sb := num(a), num(b)
+	if math.IsNaN(a) || math.IsNaN(b) || math.IsInf(a, 0) || math.IsInf(b, 0) || a == b || sa != sb {
+		return sa, sb
+	}
+	for p := 4; p <= 15; p++ {
+		sa, sb = strconv.FormatFloat(a, 'g', p, 64), strconv.FormatFloat(b, 'g', p, 64)
+		if sa != sb {
+			break
+		}
+	}
+	return minus(sa), minus(sb)
+}
+
 // pval writes a p-value as "p = 0.012" or "p < 0.001".
 func pval(p float64) string {
 	switch {

@@ -26,3 +26,29 @@ func TestNumberWords(t *testing.T) {
 		}
 	}
 }
+
+// TestCorrPair: two values that differ never print alike; equal values
+// and values that already differ at two decimals keep corr's digits.
+func TestCorrPair(t *testing.T) {
+	for _, c := range []struct {
+		a, b   float64
+		wa, wb string
+	}{
+		{-0.98191, -0.98149, "−0.982", "−0.981"},
+		{0.8312, 0.8309, "0.8312", "0.8309"},
+		{-0.34, -0.29, "−0.34", "−0.29"},
+		{0.5, 0.5, "0.50", "0.50"},
+		{0.99962, 0.99968, "0.9996", "0.9997"},
+		{math.NaN(), 0.5, "undefined", "0.50"},
+	} {
+		if a, b := corrPair(c.a, c.b); a != c.wa || b != c.wb {
+			t.Errorf("corrPair(%v, %v) = %q, %q; want %q, %q", c.a, c.b, a, b, c.wa, c.wb)
+		}
+	}
+	if a, b := numPair(-0.079312, -0.079348); a != "−0.07931" || b != "−0.07935" {
+		t.Errorf("numPair = %q, %q", a, b)
+	}
+	if a, b := numPair(0.0208, 0.0263); a != "0.0208" || b != "0.0263" {
+		t.Errorf("numPair = %q, %q", a, b)
+	}
+}

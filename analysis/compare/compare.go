@@ -82,14 +82,18 @@ func ValidAdjust(a string) bool { return a == "" || slices.Contains(adjustments,
 // diff.md. Studies follow the new report's order; removed ones follow,
 // in the old report's order.
 type Result struct {
-	Schema      string          `json:"schema"`
-	Tool        report.Tool     `json:"tool"`
-	Old         Side            `json:"old"`
-	New         Side            `json:"new"`
-	Alpha       float64         `json:"alpha"`
-	Adjust      string          `json:"adjust"`
-	Tests       Tests           `json:"tests"`
-	Summary     Summary         `json:"summary"`
+	Schema  string      `json:"schema"`
+	Tool    report.Tool `json:"tool"`
+	Old     Side        `json:"old"`
+	New     Side        `json:"new"`
+	Alpha   float64     `json:"alpha"`
+	Adjust  string      `json:"adjust"`
+	Tests   Tests       `json:"tests"`
+	Summary Summary     `json:"summary"`
+	// Statements say in plain words what changed: one sentence for the
+	// whole comparison, then one per study with a change beyond chance or
+	// a changed verdict, each with the figures behind it.
+	Statements  []string        `json:"statements"`
 	Studies     []StudyChange   `json:"studies"` // present in both
 	Added       []StudyRef      `json:"added"`   // only in the new run
 	Removed     []StudyRef      `json:"removed"` // only in the old run
@@ -138,12 +142,16 @@ type StudyRef struct {
 
 // StudyChange is the comparison of one study present in both runs.
 type StudyChange struct {
-	ID      string `json:"id"`
-	Title   string `json:"title"`
-	X       string `json:"x"` // label of x in the new run
-	Y       string `json:"y"`
-	XUnit   string `json:"x_unit"`
-	YUnit   string `json:"y_unit"`
+	ID    string `json:"id"`
+	Title string `json:"title"`
+	X     string `json:"x"` // label of x in the new run
+	Y     string `json:"y"`
+	XUnit string `json:"x_unit"`
+	YUnit string `json:"y_unit"`
+	// XSymbol and YSymbol are the units as people write them ("°C" for
+	// "Cel"), from the new run's report; the code when it has none.
+	XSymbol string `json:"x_symbol"`
+	YSymbol string `json:"y_symbol"`
 	Dataset string `json:"dataset"`
 	OldN    int    `json:"old_n"`
 	NewN    int    `json:"new_n"`
@@ -158,9 +166,12 @@ type StudyChange struct {
 	Verdicts       []VerdictChange `json:"verdicts"` // changed verdicts only
 	VerdictChanged bool            `json:"verdict_changed"`
 	Significant    bool            `json:"significant"` // r or slope change significant after adjustment
-	Notes          []string        `json:"notes"`       // why a test was not done; a column or unit that changed
-	OldError       *string         `json:"old_error"`
-	NewError       *string         `json:"new_error"`
+	// Statement says in plain words what changed in this study, by how
+	// much and whether beyond chance; "" when nothing did.
+	Statement string   `json:"statement"`
+	Notes     []string `json:"notes"` // why a test was not done; a column or unit that changed
+	OldError  *string  `json:"old_error"`
+	NewError  *string  `json:"new_error"`
 }
 
 // RChange is the change in Pearson r.
@@ -321,6 +332,7 @@ func Diff(old, new *report.Report, opts Options) *Result {
 			s.DataChanged++
 		}
 	}
+	res.Statements = statements(res)
 	return res
 }
 
@@ -354,6 +366,30 @@ func label(v report.Variable) string {
 	return v.Column
 }
 
+// symbol is the variable's unit as people write it, or its code when the
+// report carries no symbol (a results.json from before symbols).
+func symbol(v report.Variable) string {
+	if v.Symbol != "" || v.Unit == "" || v.Unit == "1" {
+		return v.Symbol
+	}
+	return v.Unit
+}
+
+// SlopeUnit is the slope's unit, "y per x" in written symbols, or "" when
+// neither variable has a unit.
+func (sc StudyChange) SlopeUnit() string {
+	x, y := sc.XSymbol, sc.YSymbol
+	switch {
+	case x == "" && y == "":
+		return ""
+	case x == "":
+		return y + " per unit of x"
+	case y == "":
+		return "per " + x
+	}
+	return y + " per " + x
+}
+
 func orDash(s string) string {
 	if s == "" {
 		return "-"
@@ -378,6 +414,8 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange 
 		Y:         label(cur.Y),
 		XUnit:     cur.X.Unit,
 		YUnit:     cur.Y.Unit,
+		XSymbol:   symbol(cur.X),
+		YSymbol:   symbol(cur.Y),
 		Dataset:   cur.Dataset,
 		OldN:      prev.N,
 		NewN:      cur.N,

@@ -262,3 +262,70 @@ func TestFalseAlarmRate(t *testing.T) {
 		t.Errorf("five-study diff flags a change at %.4f, want at most %.2f + %.4f", float64(any5)/M5, alpha, bound5)
 	}
 }
+
+// TestStatements: the plain-language sentences say what changed, from
+// what to what, whether beyond chance and under which adjustment, and
+// nothing about a study that did not change. The numbers in them are the
+// Result's own (the test compares against the fields, not fixed values).
+func TestStatements(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	x1, y1 := process(rng, 40, 2, 0.5, 2)
+	x2, y2 := process(rng, 40, 2, 0.1, 2)
+	x3, y3 := process(rng, 40, 2, 0.5, 2)
+	x4, y4 := process(rng, 40, 2, 0.5, 2)
+	f := findings("linear", "positive", "strong", false)
+	old := rep("a", study("moved", x1, y1, f), study("still", x3, y3, f))
+	old.Studies[0].X.Symbol, old.Studies[0].Y.Symbol = "°C", "%"
+	nw := rep("b", study("moved", x2, y2, findings("linear", "positive", "moderate", false)), study("still", x4, y4, f))
+	nw.Studies[0].X.Symbol, nw.Studies[0].Y.Symbol = "°C", "%"
+	res := Diff(old, nw, Options{})
+	if len(res.Statements) == 0 || !strings.HasPrefix(res.Statements[0], "1 of 2 studies changed beyond what chance explains (at alpha = 0.05 after Holm's step-down method across all 4 change tests); 1 study's verdict changed.") {
+		t.Errorf("overall statement: %q", res.Statements)
+	}
+	moved, still := res.Studies[0], res.Studies[1]
+	sl := moved.Slope
+	for _, want := range []string{
+		"The slope changed beyond chance: from " + g4(sl.Old) + " to " + g4(sl.New) + " % per °C",
+		"a change of " + signed4(sl.Delta) + " ± " + g4(sl.SE) + " (SE)",
+		"% less steep",
+		"adjusted p " + pText(sl.PAdjusted),
+		"The verdict changed: strength strong → moderate.",
+		"Find the cause",
+	} {
+		if !strings.Contains(moved.Statement, want) {
+			t.Errorf("statement lacks %q:\n%s", want, moved.Statement)
+		}
+	}
+	if still.Significant || still.Statement != "" {
+		t.Errorf("unchanged study has statement %q", still.Statement)
+	}
+	// Same process, no adjustment: the head says so and names it.
+	same := Diff(rep("a", study("still", x3, y3, f)), rep("a", study("still", x4, y4, f)), Options{Adjust: "none"})
+	if h := same.Statements[0]; !strings.HasPrefix(h, "No study's correlation or slope changed beyond what chance explains (1 compared, at alpha = 0.05, with no adjustment across the 2 change tests); no verdict changed.") {
+		t.Errorf("no-change statement: %q", h)
+	}
+	// A study that could not be tested is named.
+	msg := "column \"y\" is constant"
+	bad := Diff(rep("a", study("s", x3, y3, f)), rep("a", report.Study{ID: "s", Error: &msg}), Options{})
+	if last := bad.Statements[len(bad.Statements)-1]; last != "Not tested (see the notes): s." {
+		t.Errorf("untested: %q", bad.Statements)
+	}
+}
+
+func TestSteepness(t *testing.T) {
+	cases := []struct {
+		old, new float64
+		want     string
+	}{
+		{-0.08, -0.056, ", 30% less steep"},
+		{0.5, 1.0, ", 100% steeper"},
+		{0.5, -0.5, ", the direction reversed"},
+		{0.5, 0.501, ""},
+		{0, 1, ""},
+	}
+	for _, tc := range cases {
+		if got := steepness(report.Float(tc.old), report.Float(tc.new)); got != tc.want {
+			t.Errorf("steepness(%v, %v) = %q, want %q", tc.old, tc.new, got, tc.want)
+		}
+	}
+}

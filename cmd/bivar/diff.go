@@ -63,18 +63,16 @@ func runDiff(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		return exitFailed
 	}
 	s := res.Summary
-	fmt.Fprintf(stderr, "bivar diff: %d studies compared: %d with a significant change (%s, alpha %g), %d with a changed verdict; %d added, %d removed; written to %s\n",
-		s.Compared, s.Significant, res.Adjust, res.Alpha, s.VerdictChanged, s.Added, s.Removed, *out)
+	fmt.Fprintf(stderr, "bivar diff: %s compared: %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed; written to %s\n",
+		plural(s.Compared, "study", "studies"), s.Significant, res.Alpha, compare.AdjustName(res.Adjust), s.VerdictChanged, s.Added, s.Removed, *out)
 	for _, sc := range res.Studies {
-		var what []string
-		if sc.Significant {
-			what = append(what, "significant change")
+		if sc.Statement != "" {
+			fmt.Fprintf(stderr, "bivar diff: study %q: %s\n", sc.ID, sc.Statement)
 		}
-		for _, v := range sc.Verdicts {
-			what = append(what, fmt.Sprintf("%s %s → %s", v.Name, v.Old, v.New))
-		}
-		if len(what) > 0 {
-			fmt.Fprintf(stderr, "bivar diff: study %q: %s\n", sc.ID, strings.Join(what, "; "))
+	}
+	if len(res.Statements) > 1 {
+		for _, st := range res.Statements[1:] {
+			fmt.Fprintf(stderr, "bivar diff: %s\n", st)
 		}
 	}
 	for _, n := range res.Notes {

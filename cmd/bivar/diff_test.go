@@ -61,8 +61,8 @@ func TestDiffCommand(t *testing.T) {
 		code int
 		want string // in stderr
 	}{
-		{"same process, gated", []string{"diff", "-o", out, "--fail-on", "verdict,significant", a, same}, exitOK, "0 with a significant change"},
-		{"changed, not gated", []string{"diff", "-o", out, a, filepath.Join(dir, "changed")}, exitOK, "1 with a significant change"},
+		{"same process, gated", []string{"diff", "-o", out, "--fail-on", "verdict,significant", a, same}, exitOK, "0 changed beyond chance"},
+		{"changed, not gated", []string{"diff", "-o", out, a, filepath.Join(dir, "changed")}, exitOK, "1 changed beyond chance"},
 		{"changed, gated on significant", []string{"diff", "-o", out, "--fail-on", "significant", a, changed}, exitExpectation, "--fail-on significant"},
 		{"changed, gated on verdict", []string{"diff", "--fail-on=verdict", "-o", out, a, changed}, exitExpectation, "strength strong → moderate"},
 		{"folders", []string{"diff", "-o", out, filepath.Join(dir, "a"), filepath.Join(dir, "same")}, exitOK, "1 studies compared"},
@@ -193,7 +193,7 @@ func TestSampleProjectRuns(t *testing.T) {
 	}
 	call(t, "run", "-o", novDir, nov) // exits 3: its gate fails
 	code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "same"), "--fail-on", "verdict,significant", octDir, octDir)
-	if code != exitOK || !strings.Contains(stderr, "0 with a significant change") {
+	if code != exitOK || !strings.Contains(stderr, "0 changed beyond chance") {
 		t.Errorf("October against itself: exit %d\n%s", code, stderr)
 	}
 	code, _, stderr = call(t, "diff", "-o", filepath.Join(dir, "changed"), "--fail-on", "significant", octDir, novDir)

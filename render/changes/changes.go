@@ -160,7 +160,8 @@ func HTML(w io.Writer, res *compare.Result, opts ...Option) error {
 		OldTitle, NewTitle string
 		AnyNotes           bool
 		Flagged            []string // ids of the studies with a significant change
-	}{res, template.CSS(css), titleOf(res.Old), titleOf(res.New), anyNotes, flagged(res)}
+		SigR, SigSlope     []string // ids of the studies whose r, or slope, changed beyond chance
+	}{res, template.CSS(css), titleOf(res.Old), titleOf(res.New), anyNotes, flagged(res), sigR(res), sigSlope(res)}
 	var buf bytes.Buffer
 	if err := page.ExecuteTemplate(&buf, "page", data); err != nil {
 		return fmt.Errorf("rendering diff.html: %w", err)
@@ -184,13 +185,30 @@ func flagged(res *compare.Result) []string {
 // for significant).
 func below(p report.Float, alpha float64) bool { return p.Valid() && float64(p) < alpha }
 
-// slopeUnit is the slope's unit, "y-unit per x-unit", or "" when neither
-// side declared one.
-func slopeUnit(s compare.StudyChange) string {
-	if s.XUnit == "" && s.YUnit == "" {
-		return ""
+// slopeUnit is the slope's unit in written symbols, "y per x", or ""
+// when neither side declared one.
+func slopeUnit(s compare.StudyChange) string { return s.SlopeUnit() }
+
+// sigR and sigSlope list the studies whose r, or slope, changed beyond
+// chance (adjusted p below alpha), in Result order.
+func sigR(res *compare.Result) []string {
+	var ids []string
+	for _, s := range res.Studies {
+		if s.R != nil && below(s.R.PAdjusted, res.Alpha) {
+			ids = append(ids, s.ID)
+		}
 	}
-	return orDash(s.YUnit) + " per " + orDash(s.XUnit)
+	return ids
+}
+
+func sigSlope(res *compare.Result) []string {
+	var ids []string
+	for _, s := range res.Studies {
+		if s.Slope != nil && below(s.Slope.PAdjusted, res.Alpha) {
+			ids = append(ids, s.ID)
+		}
+	}
+	return ids
 }
 
 func titleOf(s compare.Side) string {
@@ -210,24 +228,29 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	fmt.Fprintf(&b, "Old run: `%s` (bivar %s) · New run: `%s` (bivar %s)  \n", code(orDash(res.Old.File)), md(orDash(res.Old.ToolVersion)), code(orDash(res.New.File)), md(orDash(res.New.ToolVersion)))
 	fmt.Fprintf(&b, "Significance level %g; change tests adjusted across all compared studies: %s.\n\n", res.Alpha, adjustName(res.Adjust))
 	fmt.Fprintf(&b, "> **Caution.** %s\n\n", md(res.Caution))
+	if len(res.Statements) > 0 {
+		b.WriteString("## What changed\n\n")
+		fmt.Fprintf(&b, "%s\n\n", md(res.Statements[0]))
+		for _, sc := range res.Studies {
+			if sc.Statement != "" {
+				fmt.Fprintf(&b, "- **`%s`** — %s against %s: %s\n", code(sc.ID), md(sc.Y), md(sc.X), md(sc.Statement))
+			}
+		}
+		for _, st := range res.Statements[1:] {
+			fmt.Fprintf(&b, "- %s\n", md(st))
+		}
+		b.WriteString("\n")
+	}
 	s := res.Summary
-	fmt.Fprintf(&b, "## Summary\n\n- %d studies compared\n- %d with a significant change\n- %d with a changed verdict\n- %d on changed data\n- %d added, %d removed\n",
-		s.Compared, s.Significant, s.VerdictChanged, s.DataChanged, s.Added, s.Removed)
+	fmt.Fprintf(&b, "## Summary\n\n- %d studies compared\n- %d with a change beyond chance (adjusted p below %g)\n- %d with a changed verdict\n- %d on a different data file (its SHA-256 changed)\n- %d added, %d removed\n",
+		s.Compared, s.Significant, res.Alpha, s.VerdictChanged, s.DataChanged, s.Added, s.Removed)
 	for _, n := range res.Notes {
 		fmt.Fprintf(&b, "- %s\n", md(n))
 	}
 	b.WriteString("\n")
 	if len(res.Studies) > 0 {
 		b.WriteString("## Change in correlation\n\n")
-		if ids := flagged(res); len(ids) > 0 {
-			q := make([]string, len(ids))
-			for i, id := range ids {
-				q[i] = "`" + code(id) + "`"
-			}
-			fmt.Fprintf(&b, "**Significant change** (adjusted p below %g): %s.\n\n", res.Alpha, strings.Join(q, ", "))
-		} else {
-			fmt.Fprintf(&b, "No study changed significantly at %g after adjustment.\n\n", res.Alpha)
-		}
+		b.WriteString(sigLine("r", sigR(res), res.Alpha))
 		fmt.Fprintf(&b, "Δ is new − old; p two-sided; adjusted p after %s over all %d change tests (r and slope together).\n\n", adjustName(res.Adjust), s.Tested)
 		b.WriteString("| Study | n old → new | r old → new | Δr | z | p | adjusted p |\n|---|--:|--:|--:|--:|--:|--:|\n")
 		for _, sc := range res.Studies {
@@ -238,6 +261,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 			fmt.Fprintf(&b, "| `%s` | %d → %d | %s |\n", code(sc.ID), sc.OldN, sc.NewN, cells)
 		}
 		b.WriteString("\n## Change in slope\n\n")
+		b.WriteString(sigLine("the slope", sigSlope(res), res.Alpha))
 		b.WriteString("SE of Δ from the pooled residual variance; t with n_old + n_new − 4 df. The residual SDs show whether pooling is reasonable.\n\n")
 		b.WriteString("| Study | unit | slope old → new | Δslope ± SE | t (df) | p | adjusted p | residual SD old → new |\n|---|---|--:|--:|--:|--:|--:|--:|\n")
 		for _, sc := range res.Studies {
@@ -308,6 +332,18 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	}
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// sigLine is the Markdown sentence above a table of change tests.
+func sigLine(what string, ids []string, alpha float64) string {
+	if len(ids) == 0 {
+		return fmt.Sprintf("No study's %s changed beyond chance (every adjusted p is %g or above).\n\n", what, alpha)
+	}
+	q := make([]string, len(ids))
+	for i, id := range ids {
+		q[i] = "`" + code(id) + "`"
+	}
+	return fmt.Sprintf("**Changed beyond chance** (adjusted p below %g): %s.\n\n", alpha, strings.Join(q, ", "))
 }
 
 func orDash(s string) string {

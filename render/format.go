@@ -11,11 +11,18 @@ import (
 // This file holds the number formatting every format shares. Formatting is
 // fixed (no locale, no shortest-representation surprises), so the same
 // Report always gives the same text.
+//
+// The minus rule: every number the reports show to people, in prose, in
+// tables and on chart axes, in HTML and in Markdown, writes its sign (and
+// the sign of an exponent) with the minus sign U+2212 "−", as the
+// findings' sentences do; a hyphen-minus never stands for a negative
+// number in a report. "−" starts no Markdown syntax, so it is never
+// escaped. results.json keeps JSON numbers.
 
 const na = "n/a" // an undefined number, as printed
 
 // num writes v with four significant digits: plain decimals between 1e-4
-// and 1e7, else "1.234e-05". NaN and ±Inf are "n/a"; −0 prints as 0.
+// and 1e7, else "1.234e−05". NaN and ±Inf are "n/a"; −0 prints as 0.
 func num(v report.Float) string { return sig(float64(v), 4) }
 
 func sig(v float64, digits int) string {
@@ -27,7 +34,7 @@ func sig(v float64, digits int) string {
 	}
 	a := math.Abs(v)
 	if a < 1e-4 || a >= 1e7 {
-		return negZero(strconv.FormatFloat(v, 'e', digits-1, 64))
+		return minus(negZero(strconv.FormatFloat(v, 'e', digits-1, 64)))
 	}
 	dec := max(0, digits-1-int(math.Floor(math.Log10(a))))
 	s := strconv.FormatFloat(v, 'f', dec, 64)
@@ -35,8 +42,12 @@ func sig(v float64, digits int) string {
 	if dec > 0 && len(strings.TrimLeft(strings.ReplaceAll(s, ".", ""), "-0")) > digits {
 		s = strconv.FormatFloat(v, 'f', dec-1, 64)
 	}
-	return negZero(s)
+	return minus(negZero(s))
 }
+
+// minus writes every hyphen-minus of a formatted number as U+2212 (the
+// minus rule above).
+func minus(s string) string { return strings.ReplaceAll(s, "-", "−") }
 
 func negZero(s string) string {
 	if strings.HasPrefix(s, "-") && strings.Trim(s[1:], "0.") == "" {
@@ -46,7 +57,7 @@ func negZero(s string) string {
 }
 
 // pval writes a p-value: three decimals from 0.001 up, two significant
-// digits in exponent form below, and "< 1e-300" below 1e-300 (where the
+// digits in exponent form below, and "< 1e−300" below 1e-300 (where the
 // tails are no longer accurate).
 func pval(p report.Float) string {
 	v := float64(p)
@@ -54,9 +65,9 @@ func pval(p report.Float) string {
 	case math.IsNaN(v) || math.IsInf(v, 0):
 		return na
 	case v < 1e-300:
-		return "< 1e-300"
+		return "< 1e−300"
 	case v < 0.001:
-		return strconv.FormatFloat(v, 'e', 1, 64)
+		return minus(strconv.FormatFloat(v, 'e', 1, 64))
 	default:
 		return strconv.FormatFloat(v, 'f', 3, 64)
 	}
@@ -94,5 +105,5 @@ func short(v float64) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return na
 	}
-	return negZero(strconv.FormatFloat(v, 'f', -1, 64))
+	return minus(negZero(strconv.FormatFloat(v, 'f', -1, 64)))
 }

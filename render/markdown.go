@@ -7,10 +7,12 @@ import (
 )
 
 // mdText makes s safe as inline Markdown text: line breaks become spaces
-// and every character that Markdown or HTML could take as syntax is
-// backslash-escaped (CommonMark 0.31, §2.4: any ASCII punctuation may be
-// escaped), so names from the manifest and the data read as written and
-// never become markup.
+// and each character that GFM (CommonMark 0.31 with the GFM extensions)
+// could take as syntax where it stands is backslash-escaped (§2.4: any
+// ASCII punctuation may be escaped), so names from the manifest and the
+// data read as written and never become markup. Characters that cannot
+// start syntax where they stand are left alone, so the plain text reads
+// well: "p < 0.001", "R&D", "−0.98" and "a > b" stay as they are.
 func mdText(s string) string { return mdEscape(s, true) }
 
 // mdEscape is mdText; lead says whether s may start a line, where a few
@@ -18,10 +20,35 @@ func mdText(s string) string { return mdEscape(s, true) }
 func mdEscape(s string, lead bool) string {
 	var b strings.Builder
 	rs := []rune(s)
+	at := func(i int) rune {
+		if i >= 0 && i < len(rs) {
+			return rs[i]
+		}
+		return ' '
+	}
 	for i, r := range rs {
 		switch r {
-		case '\\', '`', '*', '[', ']', '<', '>', '&', '~':
+		case '\\', '`', '*', '[', ']', '~':
 			b.WriteByte('\\')
+			b.WriteRune(r)
+		case '<':
+			// Only "<" before a letter, "/", "!" or "?" can open an HTML
+			// tag, comment or autolink (§6.5, §6.6).
+			if n := at(i + 1); unicode.IsLetter(n) || n == '/' || n == '!' || n == '?' {
+				b.WriteByte('\\')
+			}
+			b.WriteRune(r)
+		case '&':
+			// Only "&name;" or "&#123;" is an entity reference (§2.5).
+			if entityAt(rs[i+1:]) {
+				b.WriteByte('\\')
+			}
+			b.WriteRune(r)
+		case '>':
+			// A blockquote marker only at the start of a line.
+			if i == 0 && lead {
+				b.WriteByte('\\')
+			}
 			b.WriteRune(r)
 		case '_':
 			// An underscore between letters or digits cannot open or close
@@ -34,11 +61,14 @@ func mdEscape(s string, lead bool) string {
 		case '#', '-', '+', '=':
 			// Only at the start of a line do these make headings, list
 			// items or rules ("# ", "- ", "+ ", "=="); "-0.98" stays as it is.
-			next := rune(' ')
-			if i+1 < len(rs) {
-				next = rs[i+1]
-			}
+			next := at(i + 1)
 			if i == 0 && lead && (r == '#' || next == ' ' || next == r) {
+				b.WriteByte('\\')
+			}
+			b.WriteRune(r)
+		case '.', ')':
+			// "12. " or "3) " at the start of a line is an ordered list item.
+			if lead && i > 0 && i <= 9 && at(i+1) == ' ' && allDigits(rs[:i]) {
 				b.WriteByte('\\')
 			}
 			b.WriteRune(r)
@@ -55,10 +85,51 @@ func mdEscape(s string, lead bool) string {
 	return b.String()
 }
 
+// entityAt says whether rs (the text after an "&") starts an entity or
+// numeric character reference: letters or digits, or "#" and digits, then ";".
+func entityAt(rs []rune) bool {
+	for k, r := range rs {
+		switch {
+		case r == ';':
+			return k > 0
+		case r == '#' && k == 0, r < 0x80 && isAlnum(r):
+		default:
+			return false
+		}
+		if k > 32 {
+			return false
+		}
+	}
+	return false
+}
+
+func allDigits(rs []rune) bool {
+	for _, r := range rs {
+		if r < '0' || r > '9' {
+			return false
+		}
+	}
+	return len(rs) > 0
+}
+
 func isAlnum(r rune) bool { return unicode.IsLetter(r) || unicode.IsDigit(r) }
 
 // mdCell is mdText for a table cell, where a pipe would end the cell.
 func mdCell(s string) string { return strings.ReplaceAll(mdEscape(s, false), "|", "\\|") }
+
+// mdCode writes a code (a UCUM unit such as [degF]) as a code span in a
+// table cell, so it needs no backslashes; a pipe is still escaped, as GFM
+// tables require even inside code spans. A code holding a backtick or a
+// line break is written as escaped text instead.
+func mdCode(s string) string {
+	if s == "" {
+		return ""
+	}
+	if strings.ContainsAny(s, "`\n\r") {
+		return mdCell(s)
+	}
+	return "`" + strings.ReplaceAll(s, "|", "\\|") + "`"
+}
 
 // mdTable writes a pipe table with its columns padded, so that it reads
 // as a table in plain text too. The caption goes first, in italics.
@@ -75,7 +146,11 @@ func mdTable(t table) string {
 	for _, row := range t.Rows {
 		r := make([]string, len(t.Head))
 		for i := range r {
-			if i < len(row) {
+			switch {
+			case i >= len(row):
+			case i < len(t.Code) && t.Code[i]:
+				r[i] = mdCode(row[i])
+			default:
 				r[i] = mdCell(row[i])
 			}
 		}

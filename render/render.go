@@ -46,6 +46,7 @@ var (
 		"notes":    func(s string) htmltemplate.HTML { return htmltemplate.HTML(s) }, // goldmark output, raw HTML disabled
 		"rowClass": rowClass,
 		"rowLink":  rowLink,
+		"isCode":   isCode,
 	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.html.tmpl"))
 
 	mdTmpl = template.Must(template.New("md").Funcs(template.FuncMap{
@@ -68,6 +69,8 @@ func rowLink(t table, i int) string {
 	}
 	return ""
 }
+
+func isCode(t table, col int) bool { return col < len(t.Code) && t.Code[col] }
 
 // config holds the options; newConfig spells out every default.
 type config struct {

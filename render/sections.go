@@ -71,7 +71,7 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		sec.List = append(sec.List, "Influence: the verdict does not survive without the flagged rows (outlier-driven).")
 	}
 	if f.Reversal {
-		sec.List = append(sec.List, "Groups: within the groups of "+s.Group+" the direction is the opposite of the pooled direction.")
+		sec.List = append(sec.List, "Groups: within each level of "+chart.GroupName(s)+" the direction is the opposite of the pooled direction.")
 	}
 	if f.Drift {
 		sec.List = append(sec.List, "Run order: the residuals trend or cluster in run order; the relationship may have drifted.")
@@ -125,7 +125,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 		}
 		add("Durbin–Watson", num(d.DurbinWatson), "", "")
 		if ot := d.OrderTrend; ot != nil {
-			add("Residual trend in run order (per unit of "+s.Order+")", num(ot.Slope), "", pval(ot.P))
+			add("Residual trend in run order (per unit of "+chart.OrderName(s)+")", num(ot.Slope), "", pval(ot.P))
 		}
 		if rs := d.Resistant; rs != nil {
 			add("Resistant slope, "+rs.Method, num(rs.Slope), "", "")
@@ -168,7 +168,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 }
 
 func unitPer(s *report.Study) string {
-	y, x := chart.UnitText(s.Y.Unit), chart.UnitText(s.X.Unit)
+	y, x := s.Y.Symbol, s.X.Symbol
 	if y == "" {
 		y = "y"
 	}
@@ -260,7 +260,7 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	}
 	sec := &section{Key: "units", Title: "Units of measure"}
 	t := table{Caption: "r, slope and intercept in other units", Head: []string{"x unit (UCUM)", "y unit (UCUM)", "r", "Slope", "Intercept", "Note"},
-		Num: []bool{false, false, true, true, true, false}}
+		Num: []bool{false, false, true, true, true, false}, Code: []bool{true, true}}
 	var rs []string
 	undefined := 0
 	for _, u := range s.UnitInvariance {
@@ -301,7 +301,7 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 	}
 	sec := &section{Key: "groups", Title: "Groups and other variables"}
 	if len(s.Groups) > 0 {
-		t := table{Caption: "The line within each level of " + s.Group, Head: []string{s.Group, "n", "r", "Slope (" + level + "% interval)", "Intercept"},
+		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope (" + level + "% interval)", "Intercept"},
 			Num: []bool{false, true, true, true, true}}
 		for _, g := range s.Groups {
 			t.Rows = append(t.Rows, []string{g.Group, itoa(g.N), num(g.R), withCI(g.Slope, g.SlopeLow, g.SlopeHigh), num(g.Intercept)})

@@ -2,6 +2,8 @@ package render
 
 import (
 	"fmt"
+	"math"
+	"strconv"
 	"strings"
 
 	"bivar/analysis/report"
@@ -22,7 +24,7 @@ type page struct {
 	Provenance []kv
 	Datasets   table
 	Excluded   table
-	Summary    table
+	Summary    summary
 	Studies    []*studyView
 	Thresholds string
 }
@@ -35,6 +37,7 @@ type table struct {
 	Caption string
 	Head    []string
 	Num     []bool
+	Code    []bool // columns that hold codes (UCUM units): <code> in HTML, a code span in Markdown
 	Rows    [][]string
 	Classes []string // optional class per row ("bad", "ok"), HTML only
 	Links   []string // optional fragment per row: the first cell links to it, HTML only
@@ -175,19 +178,11 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 		p.Excluded.Rows = append(p.Excluded.Rows, []string{s.ID, itoa(s.N), itoa(s.NMissing), w})
 	}
 
-	p.Summary = table{Caption: "All studies at a glance",
-		Head: []string{"Study", "n", "r (" + p.Level + "% interval)", "p adjusted (" + m.Adjust + ")", "Form", "Direction", "Strength", "Flagged rows", "Expectations"},
-		Num:  []bool{false, true, true, true, false, false, false, false, false}}
+	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(len(r.Studies), m.Adjust, p.Level)}
 	anchors := slugs(r.Studies)
 	for i := range r.Studies {
 		s := &r.Studies[i]
-		p.Summary.Rows = append(p.Summary.Rows, summaryRow(s))
-		cls := ""
-		if s.Error != nil || !expectationsMet(s) {
-			cls = "bad"
-		}
-		p.Summary.Classes = append(p.Summary.Classes, cls)
-		p.Summary.Links = append(p.Summary.Links, "study-"+anchors[i])
+		p.Summary.Rows = append(p.Summary.Rows, summaryLine(s, "study-"+anchors[i]))
 		sv, err := buildStudy(s, anchors[i], i, p.Level, cfg, th)
 		if err != nil {
 			return nil, err
@@ -222,27 +217,129 @@ func expectationsMet(s *report.Study) bool {
 	return true
 }
 
-func summaryRow(s *report.Study) []string {
-	if s.Error != nil {
-		return []string{s.ID, itoa(s.N), na, na, "failed", "", "", "", "study did not run"}
+// summary is the table of all studies at the top of the report. It has
+// its own type, not a table, so the HTML can keep each verdict word whole
+// and put the interval and the flag note on a second line inside the cell;
+// Markdown gets the same cells as one plain table (Table).
+type summary struct {
+	Caption string
+	Level   string // confidence in percent
+	PHead   string // "p (Holm)"
+	Rows    []summaryRow
+}
+
+type summaryRow struct {
+	ID, Title, Link, Class string
+	N                      string
+	R, RCI                 string // "−0.982", "−0.987 to −0.974"
+	P                      string
+	Form, Bend             string // "curved", "bends down"
+	Direction, Strength    string
+	Flags, FlagNote        string // "1", "outlier-driven"
+	Expect                 string
+	Failed                 bool
+}
+
+func pHead(adjust string) string {
+	switch adjust {
+	case "holm":
+		return "p (Holm)"
+	case "bh":
+		return "p (BH)"
+	case "", "none":
+		return "p"
 	}
-	r, p := na, na
-	if s.Pearson != nil {
-		r = withCI(s.Pearson.R, s.Pearson.CILow, s.Pearson.CIHigh)
-		p = pval(s.Pearson.PAdjusted)
+	return "p (" + adjust + ")"
+}
+
+func summaryCaption(n int, adjust, level string) string {
+	c := fmt.Sprintf("All studies at a glance: Pearson r with its %s%% interval", level)
+	switch adjust {
+	case "holm":
+		c += fmt.Sprintf("; p adjusted across the %d studies by Holm's method", n)
+	case "bh":
+		c += fmt.Sprintf("; p adjusted across the %d studies by the Benjamini–Hochberg method", n)
+	case "", "none":
+		c += "; p not adjusted across studies"
+	default:
+		c += "; p adjusted across studies (" + adjust + ")"
 	}
-	form, dir, str := na, na, na
-	if f := s.Findings; f != nil {
-		form, dir, str = formWord(f), f.Direction, f.Strength
+	return c + ". The study name links to its section."
+}
+
+// Table is the summary as a plain table (the Markdown report).
+func (s summary) Table() table {
+	t := table{Caption: s.Caption,
+		Head: []string{"Study", "n", "r (" + s.Level + "% interval)", s.PHead, "Form", "Direction", "Strength", "Flagged rows", "Expectations"},
+		Num:  []bool{false, true, true, true, false, false, false, false, false}}
+	for _, r := range s.Rows {
+		rv := r.R
+		if r.RCI != "" {
+			rv += " (" + r.RCI + ")"
+		}
+		form := r.Form
+		if r.Bend != "" {
+			form += ", " + r.Bend
+		}
+		flags := r.Flags
+		if r.FlagNote != "" {
+			flags += ", " + r.FlagNote
+		}
+		t.Rows = append(t.Rows, []string{r.ID, r.N, rv, r.P, form, r.Direction, r.Strength, flags, r.Expect})
+		t.Classes = append(t.Classes, r.Class)
+		t.Links = append(t.Links, r.Link)
 	}
-	flags := "none"
-	if s.Influence != nil && len(s.Influence.Points) > 0 {
-		flags = itoa(len(s.Influence.Points))
-		if s.Findings != nil && s.Findings.OutlierDriven {
-			flags += ", outlier-driven"
+	return t
+}
+
+// corr3 writes a correlation with three decimals, more when it is so close
+// to ±1 that three would print 1.000.
+func corr3(v report.Float) string {
+	r := float64(v)
+	if !v.Valid() {
+		return na
+	}
+	d := 3
+	for ; d < 8 && math.Abs(r) < 1; d++ {
+		if t := strconv.FormatFloat(math.Abs(r), 'f', d, 64); !strings.HasPrefix(t, "1.") {
+			break
 		}
 	}
-	exp := "none declared"
+	return minus(negZero(strconv.FormatFloat(r, 'f', d, 64)))
+}
+
+func summaryLine(s *report.Study, link string) summaryRow {
+	row := summaryRow{ID: s.ID, Title: s.Title, Link: link, N: itoa(s.N)}
+	if s.Error != nil {
+		row.Failed, row.Class = true, "bad"
+		row.R, row.P, row.Form, row.Expect = na, na, "failed", "study did not run"
+		return row
+	}
+	if !expectationsMet(s) {
+		row.Class = "bad"
+	}
+	row.R, row.P = na, na
+	if pr := s.Pearson; pr != nil {
+		row.R, row.P = corr3(pr.R), pval(pr.PAdjusted)
+		if pr.CILow.Valid() && pr.CIHigh.Valid() {
+			row.RCI = corr3(pr.CILow) + " to " + corr3(pr.CIHigh)
+		}
+	}
+	row.Form, row.Direction, row.Strength = na, na, na
+	if f := s.Findings; f != nil {
+		row.Form, row.Direction, row.Strength = f.Form, f.Direction, f.Strength
+		if f.Bend != nil && *f.Bend != "" {
+			row.Bend = strings.ReplaceAll(*f.Bend, "-", " ")
+		}
+	}
+	row.Flags = "none"
+	if s.Influence != nil && len(s.Influence.Points) > 0 {
+		row.Flags = itoa(len(s.Influence.Points))
+	}
+	if s.Findings != nil && s.Findings.OutlierDriven {
+		row.FlagNote = "outlier-driven"
+	}
+	row.Expect = "none declared"
 	if len(s.Expectations) > 0 {
 		ok := 0
 		for _, e := range s.Expectations {
@@ -250,15 +347,15 @@ func summaryRow(s *report.Study) []string {
 				ok++
 			}
 		}
-		exp = fmt.Sprintf("%d of %d met", ok, len(s.Expectations))
+		row.Expect = fmt.Sprintf("%d of %d met", ok, len(s.Expectations))
 	}
-	return []string{s.ID, itoa(s.N), r, p, form, dir, str, flags, exp}
+	return row
 }
 
 func formWord(f *report.Findings) string {
 	w := f.Form
 	if f.Bend != nil && *f.Bend != "" {
-		w += ", " + *f.Bend
+		w += ", " + strings.ReplaceAll(*f.Bend, "-", " ")
 	}
 	return w
 }

@@ -14,46 +14,40 @@ const (
 	ResidualW, ResidualH = 480, 360
 )
 
-// AxisTitle is a variable's label with its unit, as people write it, in
-// parentheses.
+// AxisTitle is a variable's label with its unit as people write it
+// (report.Variable.Symbol, filled by the analysis), in parentheses; a label
+// that already ends in a parenthesis takes the unit after a comma, so
+// "Surface hardness (Rockwell C), HRC" does not stack two parentheses.
 func AxisTitle(v report.Variable) string {
-	name := v.Label
-	if name == "" {
-		name = v.Column
+	name := varName(v)
+	switch {
+	case v.Symbol == "":
+		return name
+	case strings.HasSuffix(name, ")"):
+		return name + ", " + v.Symbol
 	}
-	if u := UnitText(v.Unit); u != "" {
-		return name + " (" + u + ")"
-	}
-	return name
+	return name + " (" + v.Symbol + ")"
 }
 
-// UnitText writes a UCUM unit code the way it is printed for people:
-// "Cel" as °C, "[degF]" as °F, "um" as µm; square brackets and the braces
-// of a UCUM annotation ({HRC}) are dropped. Other codes print as they are.
-func UnitText(code string) string {
-	switch code {
-	case "Cel":
-		return "°C"
-	case "[degF]":
-		return "°F"
-	case "um":
-		return "µm"
-	case "ug":
-		return "µg"
-	case "uL":
-		return "µL"
-	case "[in_i]":
-		return "in"
-	case "[ft_i]":
-		return "ft"
-	case "[lb_av]":
-		return "lb"
-	case "[lbf_av]":
-		return "lbf"
-	case "[psi]":
-		return "psi"
+// GroupName is the group column as people read it: its label, else the
+// column name.
+func GroupName(s *report.Study) string {
+	if s.GroupLabel != "" {
+		return s.GroupLabel
 	}
-	return strings.NewReplacer("{", "", "}", "", "[", "", "]", "").Replace(code)
+	return s.Group
+}
+
+// OrderName is the order column as people read it: its label, else the
+// column name, else "run order".
+func OrderName(s *report.Study) string {
+	switch {
+	case s.OrderLabel != "":
+		return s.OrderLabel
+	case s.Order != "":
+		return s.Order
+	}
+	return "run order"
 }
 
 // varName is the label, or the column when there is none.
@@ -166,7 +160,7 @@ func Scatter(s *report.Study, id, level string) *Figure {
 	}
 	groups := ""
 	if len(f.Points) > 1 {
-		groups = fmt.Sprintf(" Points are coloured and shaped by %s (%d levels).", s.Group, len(f.Points))
+		groups = fmt.Sprintf(" Points are coloured and shaped by %s (%d levels).", GroupName(s), len(f.Points))
 	}
 	f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the least-squares line, its %s%% confidence band, the %s%% prediction band and a LOWESS curve.%s %s",
 		len(p.X), f.YLabel, f.XLabel, level, level, groups, markNames(f.Marked))
@@ -176,7 +170,7 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		f.Caption += " Dotted: quadratic fit."
 	}
 	if len(f.Points) > 1 {
-		f.Caption += fmt.Sprintf(" Colour and marker shape show %s", s.Group)
+		f.Caption += fmt.Sprintf(" Colour and marker shape show %s", GroupName(s))
 		if len(s.Groups) > 0 {
 			f.Caption += "; thin lines: the line within each group"
 		}
@@ -225,6 +219,14 @@ func xyLine(name string, pts []report.XY, r Role) Line {
 	return l
 }
 
+// residualTitle is the residual axis's title, in the unit of y.
+func residualTitle(s *report.Study) string {
+	if s.Y.Symbol != "" {
+		return "Residual (" + s.Y.Symbol + ")"
+	}
+	return "Residual"
+}
+
 func zeroLine(xs []float64) Line {
 	var e extent
 	e.add(xs...)
@@ -241,13 +243,9 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	if p == nil || len(p.Fitted) == 0 || len(p.Fitted) != len(p.Residuals) {
 		return nil
 	}
-	yl := "residual"
-	if u := UnitText(s.Y.Unit); u != "" {
-		yl += " (" + u + ")"
-	}
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
-		XLabel: "fitted " + AxisTitle(s.Y), YLabel: yl,
+		XLabel: "Fitted value: " + AxisTitle(s.Y), YLabel: residualTitle(s),
 		Title:  "Residuals against fitted values",
 		Points: series(p, p.Fitted, p.Residuals),
 		Marked: marks(p, p.Fitted, p.Residuals),
@@ -297,17 +295,14 @@ func ResidualsOrder(s *report.Study, id string) *Figure {
 		}
 	}
 	sorted := &report.Plot{Groups: groups}
-	yl := "residual"
-	if u := UnitText(s.Y.Unit); u != "" {
-		yl += " (" + u + ")"
-	}
-	order := s.Order
-	if order == "" {
-		order = "run order"
+	order := OrderName(s)
+	xl := order
+	if !strings.Contains(strings.ToLower(order), "order") {
+		xl += " (run order)"
 	}
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
-		XLabel: order + " (run order)", YLabel: yl,
+		XLabel: xl, YLabel: residualTitle(s),
 		Title:  "Residuals in run order",
 		Points: series(sorted, ox, ry),
 		Marked: marks(p, p.Order, p.Residuals),

@@ -51,16 +51,16 @@ func TestNiceTicks(t *testing.T) {
 	cases := []struct {
 		name   string
 		lo, hi float64
-		want   string // labels joined by spaces
+		want   string // labels joined by spaces; negatives with U+2212
 	}{
 		{"unit range", 0, 1, "0.0 0.2 0.4 0.6 0.8 1.0"},
 		{"hundreds", 400, 600, "400 450 500 550 600"},
-		{"negative", -0.9, 0.6, "-0.8 -0.6 -0.4 -0.2 0.0 0.2 0.4 0.6"},
+		{"negative", -0.9, 0.6, "−0.8 −0.6 −0.4 −0.2 0.0 0.2 0.4 0.6"},
 		{"small", 0.0012, 0.0047, "0.0015 0.0020 0.0025 0.0030 0.0035 0.0040 0.0045"},
-		{"tiny", 1.2e-5, 4.7e-5, "1.5e-5 2.0e-5 2.5e-5 3.0e-5 3.5e-5 4.0e-5 4.5e-5"},
+		{"tiny", 1.2e-5, 4.7e-5, "1.5e−5 2.0e−5 2.5e−5 3.0e−5 3.5e−5 4.0e−5 4.5e−5"},
 		{"large", 2.1e6, 2.9e6, "2.2e6 2.4e6 2.6e6 2.8e6"},
 		{"constant", 5, 5, "4.8 4.9 5.0 5.1 5.2"},
-		{"constant zero", 0, 0, "-0.4 -0.2 0.0 0.2 0.4"},
+		{"constant zero", 0, 0, "−0.4 −0.2 0.0 0.2 0.4"},
 	}
 	for _, tc := range cases {
 		var e extent
@@ -200,7 +200,7 @@ func TestScatterFromStudy(t *testing.T) {
 			t.Errorf("scatter lacks %q", want)
 		}
 	}
-	if o := ResidualsOrder(s, "s1o"); o == nil || !strings.Contains(o.XLabel, "seq") {
+	if o := ResidualsOrder(s, "s1o"); o == nil || o.XLabel != "Press sequence (run order)" {
 		t.Error("no run-order figure for a study with an order column")
 	}
 	if o := ResidualsOrder(&r.Studies[1], "s2o"); o != nil {
@@ -235,14 +235,24 @@ func TestDensity(t *testing.T) {
 	}
 }
 
-func TestUnitText(t *testing.T) {
-	for code, want := range map[string]string{"Cel": "°C", "{HRC}": "HRC", "[degF]": "°F", "mm": "mm", "%": "%", "": "", "m3/h": "m3/h"} {
-		if got := UnitText(code); got != want {
-			t.Errorf("UnitText(%q) = %q, want %q", code, got, want)
+func TestAxisTitle(t *testing.T) {
+	cases := []struct {
+		v    report.Variable
+		want string
+	}{
+		{report.Variable{Column: "t", Label: "Temper", Unit: "Cel", Symbol: "°C"}, "Temper (°C)"},
+		{report.Variable{Column: "t", Unit: "Cel", Symbol: "°C"}, "t (°C)"},
+		{report.Variable{Column: "h", Label: "Hardness (Rockwell C)", Unit: "{HRC}", Symbol: "HRC"}, "Hardness (Rockwell C), HRC"},
+		{report.Variable{Column: "r", Label: "Ratio", Unit: "1", Symbol: ""}, "Ratio"},
+	}
+	for _, tc := range cases {
+		if got := AxisTitle(tc.v); got != tc.want {
+			t.Errorf("AxisTitle(%+v) = %q, want %q", tc.v, got, tc.want)
 		}
 	}
-	if got := AxisTitle(report.Variable{Column: "t", Label: "Temper", Unit: "Cel"}); got != "Temper (°C)" {
-		t.Errorf("AxisTitle = %q", got)
+	s := &report.Study{Group: "quench_tank", GroupLabel: "Quench tank", Order: "load_seq"}
+	if GroupName(s) != "Quench tank" || OrderName(s) != "load_seq" || OrderName(&report.Study{}) != "run order" {
+		t.Errorf("GroupName %q, OrderName %q", GroupName(s), OrderName(s))
 	}
 }
 

@@ -65,7 +65,7 @@ func TestDiffCommand(t *testing.T) {
 		{"changed, not gated", []string{"diff", "-o", out, a, filepath.Join(dir, "changed")}, exitOK, "1 changed beyond chance"},
 		{"changed, gated on significant", []string{"diff", "-o", out, "--fail-on", "significant", a, changed}, exitExpectation, "--fail-on significant"},
 		{"changed, gated on verdict", []string{"diff", "--fail-on=verdict", "-o", out, a, changed}, exitExpectation, "strength strong → moderate"},
-		{"folders", []string{"diff", "-o", out, filepath.Join(dir, "a"), filepath.Join(dir, "same")}, exitOK, "1 studies compared"},
+		{"folders", []string{"diff", "-o", out, filepath.Join(dir, "a"), filepath.Join(dir, "same")}, exitOK, "1 study compared"},
 		{"bad fail-on", []string{"diff", "--fail-on", "verdicts", a, same}, exitUsage, `"verdicts": want a comma-separated list of verdict, significant`},
 		{"bad theme", []string{"diff", "--theme", "neon", a, same}, exitUsage, "unknown theme"},
 		{"one argument", []string{"diff", a}, exitUsage, "want OLD and NEW"},

@@ -28,6 +28,12 @@ func runCheck(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar check: want one manifest, got %s\nusage: %s\n", nArgs(fs.NArg()), lookup("check").Usage)
 		return exitUsage
 	}
+	for _, f := range []struct{ flag, path, example string }{{"--junit", *junit, "junit.xml"}, {"--summary", *summary, "summary.md"}} {
+		if info, err := os.Stat(f.path); f.path != "" && err == nil && info.IsDir() {
+			fmt.Fprintf(stderr, "bivar check: %s %s is a folder: give a file name, such as %s\n", f.flag, f.path, filepath.Join(f.path, f.example))
+			return exitUsage
+		}
+	}
 	// compute tells the user on stderr why it failed; keep a copy for the
 	// CI files, so a failed run replaces them instead of leaving stale ones.
 	var msg bytes.Buffer

@@ -196,7 +196,7 @@ min_n     = 12
 				t.Errorf("%s: JUnit %+v, want one error case", tc.name, doc)
 			}
 		}
-		if code, _, stderr := call(t, "check", "--junit", dir, m); code != exitFailed || !strings.Contains(stderr, "is a folder: give a file name") {
+		if code, _, stderr := call(t, "check", "--junit", dir, m); code != exitUsage || !strings.Contains(stderr, "is a folder: give a file name, such as "+filepath.Join(dir, "junit.xml")) {
 			t.Errorf("--junit a folder: exit %d, %q", code, stderr)
 		}
 	})

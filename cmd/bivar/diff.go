@@ -46,6 +46,10 @@ func runDiff(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar diff: --theme: %v\n", err)
 		return exitUsage
 	}
+	if info, err := os.Stat(*out); err == nil && !info.IsDir() {
+		fmt.Fprintf(stderr, "bivar diff: -o %s is a file: give a folder for diff.html, diff.md and diff.json (created if needed)\n", *out)
+		return exitUsage
+	}
 	oldRep, oldFile, err := readResults(flags.Arg(0))
 	if err != nil {
 		fmt.Fprintf(stderr, "bivar diff: OLD: %v\n", err)
@@ -98,6 +102,9 @@ func parseFailOn(v string) (map[string]bool, error) {
 	}
 	for _, g := range strings.Split(v, ",") {
 		g = strings.TrimSpace(g)
+		if g == "" {
+			continue // "verdict," or "verdict,,significant"
+		}
 		if !slices.Contains(failOnChoices, g) {
 			return nil, fmt.Errorf("%q: want a comma-separated list of %s", g, strings.Join(failOnChoices, ", "))
 		}

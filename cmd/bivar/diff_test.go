@@ -159,6 +159,12 @@ func TestDiffBadResults(t *testing.T) {
 	if code, _, stderr := call(t, "diff", "a"); code != exitUsage || !strings.Contains(stderr, "got 1 argument\n") {
 		t.Errorf("one argument: exit %d, %q", code, stderr)
 	}
+	if code, _, stderr := call(t, "diff", "-o", good, good, good); code != exitUsage || !strings.Contains(stderr, "is a file: give a folder") {
+		t.Errorf("-o a file: exit %d, %q", code, stderr)
+	}
+	if code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "o2"), "--fail-on", "verdict,", good, good); code != exitOK {
+		t.Errorf("--fail-on with a trailing comma: exit %d, %q", code, stderr)
+	}
 	if code, _, _ := call(t, "diff", "--colour", "a", "b"); code != exitUsage {
 		t.Errorf("unknown flag: exit %d, want 2", code)
 	}

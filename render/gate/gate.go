@@ -229,11 +229,22 @@ func Summary(w io.Writer, r *report.Report) error {
 	case c.Passed():
 		fmt.Fprintf(&b, "**Passed**: all %d expectations held in %d studies.\n\n", c.Expectations, c.Studies)
 	default:
-		fmt.Fprintf(&b, "**Failed**: %d of %d expectations did not hold", c.Failed, c.Expectations)
-		if c.StudyErrors > 0 {
-			fmt.Fprintf(&b, "; %d of %d studies did not run", c.StudyErrors, c.Studies)
+		var why []string
+		if c.Failed > 0 {
+			why = append(why, fmt.Sprintf("%d of %d expectations did not hold", c.Failed, c.Expectations))
 		}
-		b.WriteString(".\n\n")
+		if c.StudyErrors > 0 {
+			st := fmt.Sprintf("%d of %d studies did not run", c.StudyErrors, c.Studies)
+			switch c.Errored {
+			case 0:
+			case 1:
+				st += ", so 1 expectation was not evaluated"
+			default:
+				st += fmt.Sprintf(", so %d expectations were not evaluated", c.Errored)
+			}
+			why = append(why, st)
+		}
+		fmt.Fprintf(&b, "**Failed**: %s.\n\n", strings.Join(why, "; "))
 	}
 	if c.Expectations > 0 {
 		b.WriteString("| Study | Expectation | Want | Got | Result |\n|---|---|---|---|---|\n")

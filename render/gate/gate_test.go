@@ -124,7 +124,7 @@ func TestSummary(t *testing.T) {
 	out := buf.String()
 	for _, want := range []string{
 		"## bivar check: Cell \\<4\\> \\& \"friends\"",
-		"**Failed**: 1 of 3 expectations did not hold; 1 of 3 studies did not run.",
+		"**Failed**: 1 of 3 expectations did not hold; 1 of 3 studies did not run, so 1 expectation was not evaluated.",
 		"| s1 | min\\_abs\\_r | \\|r\\| ≥ 0.6 | \\|r\\| = 0.41 | **failed** |",
 		"| s3\\|x | min\\_n | n ≥ 10 |  | **not evaluated** |",
 		"- `s3|x`: column \"y\" has fewer than 3 complete rows",
@@ -310,4 +310,21 @@ func TestJUnitConformant(t *testing.T) {
 		t.Fatal(err)
 	}
 	conformant(t, buf.Bytes())
+}
+
+// TestSummaryOnlyStudyErrors: when nothing failed but a study did not run,
+// the summary does not claim "0 of n expectations did not hold".
+func TestSummaryOnlyStudyErrors(t *testing.T) {
+	bad := "only 0 complete rows"
+	r := &report.Report{Manifest: report.ManifestInfo{Title: "t"}, Studies: []report.Study{
+		{ID: "a", Error: &bad, Expectations: []report.Expectation{{Name: "min_n"}, {Name: "max_p"}}},
+		{ID: "b"},
+	}}
+	var buf bytes.Buffer
+	if err := Summary(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	if want := "**Failed**: 1 of 2 studies did not run, so 2 expectations were not evaluated.\n"; !strings.Contains(buf.String(), want) {
+		t.Errorf("summary lacks %q:\n%s", want, buf.String())
+	}
 }

@@ -82,6 +82,7 @@ func TestMarkdownGolden(t *testing.T) {
 }
 
 func TestHTML(t *testing.T) {
+	res0 := fixture()
 	for _, theme := range themes.Names() {
 		t.Run(theme, func(t *testing.T) {
 			var buf bytes.Buffer
@@ -99,6 +100,11 @@ func TestHTML(t *testing.T) {
 				report.Caution,
 				compare.SlopeTest,
 				css[:200],
+				"<h2>What changed</h2>",
+				res0.Statements[0],
+				"<strong>shrink-vs-melt</strong> — ",
+				res0.Studies[0].Statement,
+				"Changed beyond chance (adjusted p below 0.05):",
 			} {
 				if !strings.Contains(out, want) && !strings.Contains(out, template.HTMLEscapeString(want)) && !strings.Contains(out, strings.ReplaceAll(template.HTMLEscapeString(want), "+", "&#43;")) {
 					t.Errorf("diff.html lacks %q", want)

@@ -163,13 +163,14 @@ func ranksInto(r, x []float64, s *rankScratch) {
 // two-sided p of t = ρ·√((n−2)/(1−ρ²)) with n−2 degrees of freedom, the
 // usual large-sample approximation (as scipy.stats.spearmanr).
 //
-// x and y must have equal length (it panics otherwise) and hold no NaN.
-// ρ is NaN when n < 2 or either variable is constant; p is NaN when n < 3.
+// x and y must have equal length (it panics otherwise). ρ and p are NaN
+// when a value is NaN (±Inf are ranked like any other value), n < 2 or
+// either variable is constant; p is NaN when n < 3.
 func Spearman(x, y []float64) (rho, p float64) {
 	if len(x) != len(y) {
 		panic("stats: Spearman: x and y lengths differ")
 	}
-	if len(x) < 2 {
+	if len(x) < 2 || hasNaN(x) || hasNaN(y) {
 		return math.NaN(), math.NaN()
 	}
 	checkIndexable("Spearman", len(x))
@@ -209,14 +210,14 @@ func Spearman(x, y []float64) (rho, p float64) {
 // asymptotic p for variant "b".
 //
 // x and y must have equal length and fewer than 2³¹ values (it panics
-// otherwise) and hold no NaN. τ-b is NaN when n < 2 or either variable is
-// constant.
+// otherwise). τ-b and p are NaN when a value is NaN (±Inf are ranked like
+// any other value), n < 2 or either variable is constant.
 func KendallTauB(x, y []float64) (tau, p float64) {
 	if len(x) != len(y) {
 		panic("stats: KendallTauB: x and y lengths differ")
 	}
 	n := len(x)
-	if n < 2 {
+	if n < 2 || hasNaN(x) || hasNaN(y) {
 		return math.NaN(), math.NaN()
 	}
 	checkIndexable("KendallTauB", n)
@@ -291,6 +292,16 @@ func KendallTauB(x, y []float64) (tau, p float64) {
 		return tau, math.NaN()
 	}
 	return tau, TwoSidedNormal(float64(s) / math.Sqrt(v))
+}
+
+// hasNaN reports whether v holds a NaN.
+func hasNaN(v []float64) bool {
+	for _, e := range v {
+		if e != e {
+			return true
+		}
+	}
+	return false
 }
 
 // tieSums accumulates, over tie groups of size t, the sums that τ-b and

@@ -33,7 +33,8 @@ type Summary struct {
 //
 // x must hold no NaN (the caller removes missing values first). An empty x
 // gives N = 0 and NaN everywhere; one value gives SD NaN; a NaN in x gives
-// NaN for every field but N.
+// NaN for every field but N; an infinite value gives NaN Mean and SD (the
+// centred sums do not exist) while Min and Max are still the extremes.
 func Describe(x []float64) Summary {
 	s := Summary{N: len(x)}
 	nan := math.NaN()
@@ -94,19 +95,31 @@ func Quantile7(sorted []float64, p float64) float64 {
 // the corrected two-pass algorithm (Chan, Golub & LeVeque 1983, eq. 1.7).
 // x must be non-empty.
 func meanSS(x []float64) (mean, ss float64) {
+	hi, lo, ss := meanParts(x)
+	return hi + lo, ss
+}
+
+// meanParts returns the mean of x as an unevaluated sum hi + lo, hi = Σx/n
+// rounded and lo = Σ(x − hi)/n (the correction of Chan, Golub & LeVeque
+// 1983, eq. 1.7), and the centred sum of squares Σ(x − x̄)². The deviation
+// (x − hi) − lo is accurate to the rounding of the deviation itself even
+// when |x̄| is far larger than the spread (x = 10⁹ + small), where folding
+// lo into hi would round it away and leave every deviation off by up to
+// half an ulp of x̄. x must be non-empty.
+func meanParts(x []float64) (hi, lo, ss float64) {
 	n := float64(len(x))
 	var sum float64
 	for _, v := range x {
 		sum += v
 	}
-	m := sum / n
+	hi = sum / n
 	var c, q float64
 	for _, v := range x {
-		d := v - m
+		d := v - hi
 		c += d
 		q += d * d
 	}
-	return m + c/n, q - c*c/n
+	return hi, c / n, q - c*c/n
 }
 
 // Moments are the means and centred sums of squares and products of a pair.

@@ -19,8 +19,9 @@ import "math"
 //	F      = (SS_LOF/df1) / (SS_PE/df2),    p = P(F_{df1,df2} ≥ F) (UpperF)
 //
 // SS_LOF is summed directly from the group means rather than as RSS − SS_PE,
-// so it does not lose digits to cancellation, and the line is evaluated in
-// its centred form ȳ + b1·(x − x̄), so an offset in x costs no digits.
+// so it does not lose digits to cancellation, and it works on the data
+// centred on their means, where the line is b1·(x − x̄), so an offset in x
+// or y costs no digits.
 // Groups are runs of exactly equal x (no rounding). The line is Line's
 // least-squares fit.
 //
@@ -42,9 +43,13 @@ func LackOfFit(x, y []float64) (f float64, df1, df2 int, p float64, ok bool) {
 	if err != nil {
 		return nan, 0, 0, nan, false
 	}
-	// The line in centred form, ȳ + b1·(x − x̄): b0 + b1·x would cancel
-	// when x is far from 0 (x = 10⁹ + small lost 8 digits of F).
+	// Everything on the centred data, where the line is b1·(x − x̄):
+	// b0 + b1·x would cancel when x is far from 0 (x = 10⁹ + small lost 8
+	// digits of F), and deviations are formed from two-part means
+	// (meanParts) so that y far from 0 costs none either.
 	b1 := line.Slope.Estimate
+	hx, lx, _ := meanParts(x)
+	hy, ly, _ := meanParts(y)
 	idx := stableArgsort(x)
 	var ssPE, ssLOF float64
 	m := 0
@@ -58,18 +63,18 @@ func LackOfFit(x, y []float64) (f float64, df1, df2 int, p float64, ok bool) {
 		ng := float64(hi - lo)
 		var s float64
 		for _, i := range idx[lo:hi] {
-			s += y[i]
+			s += (y[i] - hy) - ly
 		}
 		mean := s / ng
 		var c, q float64
 		for _, i := range idx[lo:hi] {
-			d := y[i] - mean
+			d := ((y[i] - hy) - ly) - mean
 			c += d
 			q += d * d
 		}
 		mean += c / ng
 		ssPE += q - c*c/ng
-		d := mean - (line.ymean + b1*(x[idx[lo]]-line.MeanX))
+		d := mean - b1*((x[idx[lo]]-hx)-lx)
 		ssLOF += ng * d * d
 		lo = hi
 	}

@@ -90,9 +90,13 @@ func Influence(x, y []float64) InfluenceResult {
 	sole := soleSupportRow(x)
 	nf := float64(n)
 	b1 := m.Sxy / m.Sxx
+	// Deviations from means held in two parts (meanParts): exact to
+	// rounding even when x or y is far from 0.
+	hx, lx, _ := meanParts(x)
+	hy, ly, _ := meanParts(y)
 	var rss float64
 	for i := range x {
-		e := (y[i] - m.MeanY) - b1*(x[i]-m.MeanX)
+		e := ((y[i] - hy) - ly) - b1*((x[i]-hx)-lx)
 		res.Residual[i] = e
 		rss += e * e
 	}
@@ -110,7 +114,7 @@ func Influence(x, y []float64) InfluenceResult {
 	}
 	c := nf / (nf - 1)
 	for i := range x {
-		dx, dy := x[i]-m.MeanX, y[i]-m.MeanY
+		dx, dy := (x[i]-hx)-lx, (y[i]-hy)-ly
 		if sole[0] == i || sole[1] == i {
 			res.SoleSupport[i] = true
 			res.Leverage[i] = 1

@@ -268,7 +268,7 @@ func lowessLocal(x, y, robust, w []float64, i, left, right int, varFloor float64
 		return swy / sw
 	}
 	// Pass 1: tricube × robustness weights and their sums.
-	var sw, swx float64
+	var sw, swx, swy float64
 	nonzero := 0
 	w = w[:right-left]
 	invH := 1 / h
@@ -285,6 +285,7 @@ func lowessLocal(x, y, robust, w []float64, i, left, right int, varFloor float64
 		w[j-left] = v
 		sw += v
 		swx += v * x[j]
+		swy += v * y[j]
 		if v != 0 {
 			nonzero++
 		}
@@ -292,18 +293,20 @@ func lowessLocal(x, y, robust, w []float64, i, left, right int, varFloor float64
 	if !(sw > 0) || nonzero == 1 {
 		return y[i]
 	}
-	// Pass 2: about the weighted mean of x, the weighted line at x_i,
-	// ȳ_w + (x_i − x̄_w)·Σw(x−x̄_w)y / Σw(x−x̄_w)², which is statsmodels'
-	// Σ_j w_j(1 + (x_i − x̄_w)(x_j − x̄_w)/S)·y_j with normalised weights.
-	mx := swx / sw
-	var sxx, sxy, swy float64
+	// Pass 2: about the weighted means, the weighted line at x_i,
+	// ȳ_w + (x_i − x̄_w)·Σw(x−x̄_w)(y−ȳ_w) / Σw(x−x̄_w)², which is
+	// statsmodels' Σ_j w_j(1 + (x_i − x̄_w)(x_j − x̄_w)/S)·y_j with normalised
+	// weights. Centring y too keeps the digits when y is far from 0:
+	// Σw(x−x̄_w) is only zero up to rounding, and times an uncentred
+	// y = 10⁹ + small that rounding moved the fit by tens of units.
+	mx, my := swx/sw, swy/sw
+	var sxx, sxy float64
 	for j := left; j < right; j++ {
 		v := w[j-left]
 		d := x[j] - mx
 		sxx += v * d * d
-		sxy += v * d * y[j]
-		swy += v * y[j]
+		sxy += v * d * (y[j] - my)
 	}
 	sxx = math.Max(sxx/sw, varFloor)
-	return swy/sw + (xi-mx)*(sxy/sw)/sxx
+	return my + (xi-mx)*(sxy/sw)/sxx
 }

@@ -43,7 +43,9 @@ type Regression struct {
 	Leverage   []float64 // diagonal of the hat matrix, 1/N + ‖(xᵢ−x̄)R⁻¹‖²
 
 	means []float64 // column means
+	mlo   []float64 // low parts of the column means: deviations are (v − means) − mlo (meanParts)
 	ymean float64
+	ylo   float64   // low part of the mean of y
 	rinv  []float64 // p×p row-major inverse of the centred design's R
 	p     int       // number of columns (slopes)
 	poly  *polyMap  // set by Polynomial: the columns are powers of (x − c)/s
@@ -106,24 +108,27 @@ func LeastSquares(cols [][]float64, y []float64, conf float64) (Regression, erro
 		}
 	}
 	r := Regression{N: n, DFResid: n - p - 1, p: p}
-	ymean, tss := meanSS(y)
-	r.ymean, r.TSS = ymean, tss
+	// Means in two parts (meanParts), so that the centred values keep their
+	// digits when a column or y is far from 0.
+	yhi, ylo, tss := meanParts(y)
+	r.ymean, r.ylo, r.TSS = yhi, ylo, tss
 	r.means = make([]float64, p)
+	r.mlo = make([]float64, p)
 	colSS := make([]float64, p)
 	a := make([]float64, n*p) // row-major centred design
 	for j, c := range cols {
-		m, ss := meanSS(c)
-		r.means[j], colSS[j] = m, ss
+		hi, lo, ss := meanParts(c)
+		r.means[j], r.mlo[j], colSS[j] = hi, lo, ss
 		if !(ss > 0) {
 			return Regression{}, fmt.Errorf("least squares: predictor %d is constant (every row %v): it cannot be fitted", j+1, c[0])
 		}
 		for i, v := range c {
-			a[i*p+j] = v - m
+			a[i*p+j] = (v - hi) - lo
 		}
 	}
 	yc := make([]float64, n)
 	for i, v := range y {
-		yc[i] = v - ymean
+		yc[i] = (v - yhi) - ylo
 	}
 	if p == 0 {
 		return r.finish(cols, y, nil, conf), nil
@@ -164,9 +169,9 @@ func LeastSquares(cols [][]float64, y []float64, conf float64) (Regression, erro
 	// of the centred problem, computed from the original columns.
 	res := yc // reused: solve overwrote yc, which is no longer needed
 	for i := range res {
-		s := (y[i] - ymean)
+		s := (y[i] - yhi) - ylo
 		for j, c := range cols {
-			s -= b[j] * (c[i] - r.means[j])
+			s -= b[j] * ((c[i] - r.means[j]) - r.mlo[j])
 		}
 		res[i] = s
 	}
@@ -201,12 +206,12 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 	for i := 0; i < n; i++ {
 		var f float64
 		for j, c := range cols {
-			xc[j] = c[i] - r.means[j]
+			xc[j] = (c[i] - r.means[j]) - r.mlo[j]
 			f += b[j] * xc[j]
 		}
-		e := (y[i] - r.ymean) - f
+		e := ((y[i] - r.ymean) - r.ylo) - f
 		r.Residuals[i] = e
-		r.Fitted[i] = r.ymean + f
+		r.Fitted[i] = r.ymean + (r.ylo + f)
 		rss += e * e
 		ess += f * f
 		// u = xcᵀ·R⁻¹ (R⁻¹ upper triangular): uₖ = Σ_{j≤k} xcⱼ·R⁻¹ⱼₖ.
@@ -249,16 +254,16 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 	coef := func(est, se float64) Coef { return makeCoef(est, se, tq, r.DFResid) }
 	r.b = append([]float64(nil), b...)
 	r.Coef = make([]Coef, k)
-	b0 := r.ymean
+	b0 := r.ymean + r.ylo
 	for j := range b {
-		b0 -= b[j] * r.means[j]
+		b0 -= b[j] * (r.means[j] + r.mlo[j])
 	}
 	// Var(b0) = s²(1/n + ‖x̄ᵀR⁻¹‖²).
 	v0 := 1 / nf
 	for kk := 0; kk < p; kk++ {
 		var t float64
 		for j := 0; j <= kk; j++ {
-			t += r.means[j] * r.rinv[j*p+kk]
+			t += (r.means[j] + r.mlo[j]) * r.rinv[j*p+kk]
 		}
 		v0 += t * t
 	}
@@ -311,16 +316,17 @@ func (r Regression) Predict(z []float64, conf float64) (fit, confLow, confHigh, 
 	if r.poly != nil && p > 0 {
 		z = PowerRow((z[0]-r.poly.c)/r.poly.s, p)
 	}
-	fit = r.ymean
+	f := r.ylo
 	q := 1 / float64(r.N)
 	for k := 0; k < p; k++ {
-		fit += r.b[k] * (z[k] - r.means[k])
+		f += r.b[k] * ((z[k] - r.means[k]) - r.mlo[k])
 		var t float64
 		for j := 0; j <= k; j++ {
-			t += (z[j] - r.means[j]) * r.rinv[j*p+k]
+			t += ((z[j] - r.means[j]) - r.mlo[j]) * r.rinv[j*p+k]
 		}
 		q += t * t
 	}
+	fit = r.ymean + f
 	nan := math.NaN()
 	if r.DFResid <= 0 || !(conf > 0 && conf < 1) {
 		return fit, nan, nan, nan, nan
@@ -454,9 +460,9 @@ func (r Regression) rawPowerCoef(conf float64) []Coef {
 	var mgm float64
 	for j := 0; j < d; j++ {
 		for k := 0; k < d; k++ {
-			gm[j] += g[j+1][k+1] * r.means[k]
+			gm[j] += g[j+1][k+1] * (r.means[k] + r.mlo[k])
 		}
-		mgm += r.means[j] * gm[j]
+		mgm += (r.means[j] + r.mlo[j]) * gm[j]
 	}
 	g[0][0] = 1/float64(r.N) + mgm
 	for j := 0; j < d; j++ {
@@ -550,7 +556,7 @@ func Line(x, y []float64, conf float64) (LineFit, error) {
 func (l LineFit) Interval(x0, conf float64) (fit, confLow, confHigh, predLow, predHigh float64) {
 	// Centred form of the fit, ȳ + b1·(x0 − x̄): less cancellation than
 	// b0 + b1·x0 when x is far from 0.
-	fit = l.ymean + l.Slope.Estimate*(x0-l.MeanX)
+	fit = l.ymean + (l.ylo + l.Slope.Estimate*((x0-l.means[0])-l.mlo[0]))
 	nan := math.NaN()
 	if l.DFResid <= 0 || !(conf > 0 && conf < 1) {
 		return fit, nan, nan, nan, nan

@@ -93,9 +93,11 @@ func residOnOne(z, v []float64) (e []float64, ss float64, ok bool) {
 		return nil, 0, false
 	}
 	b := m.Sxy / m.Sxx
+	hz, lz, _ := meanParts(z) // two-part means: no digits lost to an offset
+	hv, lv, _ := meanParts(v)
 	e = make([]float64, len(v))
 	for i := range v {
-		e[i] = (v[i] - m.MeanY) - b*(z[i]-m.MeanX)
+		e[i] = ((v[i] - hv) - lv) - b*((z[i]-hz)-lz)
 	}
 	return e, m.Syy, true
 }

@@ -42,9 +42,9 @@ const DefaultMaxExact = 2000
 // then says "theil-sen (median of M random pairs of n points)". The
 // intercept always uses all n points. A nil src means rand.NewPCG(1, 2).
 //
-// x and y must have equal length (it panics otherwise) and hold finite
-// values. slope and intercept are NaN when fewer than two distinct x values
-// exist.
+// x and y must have equal length (it panics otherwise). slope and
+// intercept are NaN when a value is NaN or infinite, or fewer than two
+// distinct x values exist.
 func TheilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept float64, method string) {
 	if len(x) != len(y) {
 		panic("stats: TheilSen: x and y lengths differ")
@@ -58,6 +58,11 @@ func TheilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 	n := len(x)
 	nan := math.NaN()
 	method = "theil-sen (exact)"
+	for i := range x {
+		if math.IsNaN(x[i]) || math.IsInf(x[i], 0) || math.IsNaN(y[i]) || math.IsInf(y[i], 0) {
+			return nan, nan, method
+		}
+	}
 	var slopes []float64
 	if n <= maxExact {
 		slopes = make([]float64, 0, n*(n-1)/2)

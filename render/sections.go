@@ -30,10 +30,16 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	}
 	sec := &section{Key: "words", Title: "What the data show"}
 	x, y := name(s.X), name(s.Y)
-	switch f.Form {
-	case "linear":
+	// The findings say which rule decided each verdict (FormWhy, …); where
+	// they do, that sentence is shown and the renderer adds no reason of
+	// its own. The sentences below are for reports written before those
+	// fields existed.
+	switch {
+	case f.FormWhy != "":
+		sec.List = append(sec.List, "Form — "+f.FormWhy)
+	case f.Form == "linear":
 		sec.List = append(sec.List, "Form: a straight line describes how "+y+" follows "+x+".")
-	case "curved":
+	case f.Form == "curved":
 		w := "Form: curved"
 		if f.Bend != nil && *f.Bend != "" {
 			w += " (" + strings.ReplaceAll(*f.Bend, "-", " ") + ")"
@@ -42,31 +48,37 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 			w += fmt.Sprintf("; the curve turns over at %s = %s, inside the observed range", x, num(f.TurnX))
 		}
 		sec.List = append(sec.List, w+".")
-	case "nonlinear":
+	case f.Form == "nonlinear":
 		sec.List = append(sec.List, "Form: nonlinear — "+y+" depends on "+x+" in a way the correlation coefficient does not capture.")
-	case "none":
+	case f.Form == "none":
 		sec.List = append(sec.List, "Form: no relationship between "+x+" and "+y+" is detected.")
 	default:
 		sec.List = append(sec.List, "Form: "+f.Form+".")
 	}
-	switch f.Direction {
-	case "positive":
+	switch {
+	case f.DirectionWhy != "":
+		sec.List = append(sec.List, "Direction — "+f.DirectionWhy)
+	case f.Direction == "positive":
 		sec.List = append(sec.List, "Direction: positive — "+y+" tends to be higher where "+x+" is higher.")
-	case "negative":
+	case f.Direction == "negative":
 		sec.List = append(sec.List, "Direction: negative — "+y+" tends to be lower where "+x+" is higher.")
-	case "none":
-		sec.List = append(sec.List, "Direction: none established — the interval for the slope includes zero.")
+	case f.Direction == "none":
+		sec.List = append(sec.List, "Direction: none established.")
 	default:
 		sec.List = append(sec.List, "Direction: "+f.Direction+".")
 	}
-	str := "Strength: " + f.Strength
-	if s.Pearson != nil {
-		str += fmt.Sprintf(" (r = %s)", num(s.Pearson.R))
+	if f.StrengthWhy != "" {
+		sec.List = append(sec.List, "Strength — "+f.StrengthWhy)
+	} else {
+		str := "Strength: " + f.Strength
+		if s.Pearson != nil {
+			str += fmt.Sprintf(" (r = %s)", num(s.Pearson.R))
+		}
+		if f.CurveStrength != "" {
+			str += "; the curve's own strength: " + f.CurveStrength
+		}
+		sec.List = append(sec.List, str+".")
 	}
-	if f.CurveStrength != "" {
-		str += "; the curve's own strength: " + f.CurveStrength
-	}
-	sec.List = append(sec.List, str+".")
 	if f.OutlierDriven {
 		sec.List = append(sec.List, "Influence: the verdict does not survive without the flagged rows (outlier-driven).")
 	}

@@ -492,9 +492,12 @@ type box struct{ x0, y0, x1, y1 float64 }
 
 func (a box) overlaps(b box) bool { return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1 }
 
-// drawLabels names each flagged row beside its mark, trying eight places
-// around it and taking the first that overlaps no earlier label or mark
-// and stays inside the plot area.
+// drawLabels names each flagged row beside its mark. Of eight places
+// around the mark it takes the one inside the plot area that overlaps no
+// earlier label or mark and covers the fewest ordinary points (the first
+// such place in a fixed order on a tie), so the result is deterministic.
+// Each label sits on a plate of the background colour with a thin rim in
+// the flag colour, so it stays legible over points, lines and bands.
 func (d *svgDrawer) drawLabels(w io.Writer, f *Figure, L *layout) {
 	if len(f.Marked) == 0 {
 		return
@@ -506,14 +509,40 @@ func (d *svgDrawer) drawLabels(w io.Writer, f *Figure, L *layout) {
 			taken = append(taken, box{x - 8, y - 8, x + 8, y + 8})
 		}
 	}
+	// Ordinary points as pixel positions (density cells are not counted:
+	// there the label plate covers whatever it lies on).
+	var pts [][2]float64
+	if !f.Dense {
+		for _, s := range f.Points {
+			for i := range s.X {
+				if finite(s.X[i], s.Y[i]) {
+					pts = append(pts, [2]float64{L.px(s.X[i]), L.py(s.Y[i])})
+				}
+			}
+		}
+	}
+	covered := func(b box) int {
+		k := 0
+		for _, p := range pts {
+			if p[0] > b.x0-3 && p[0] < b.x1+3 && p[1] > b.y0-3 && p[1] < b.y1+3 {
+				k++
+			}
+		}
+		return k
+	}
 	type spot struct {
 		dx, dy float64
 		anchor string
 	}
 	spots := []spot{{11, 4, "start"}, {-11, 4, "end"}, {0, -12, "middle"}, {0, 20, "middle"},
 		{9, -9, "start"}, {9, 16, "start"}, {-9, -9, "end"}, {-9, 16, "end"}}
-	fmt.Fprintf(w, "<g font-size=\"%s\" fill=\"%s\" stroke=\"%s\" stroke-width=\"3\" paint-order=\"stroke\" stroke-linejoin=\"round\">",
-		coord(labelFont), d.pal.Ink, d.pal.Background)
+	type placed struct {
+		b    box
+		s    spot
+		x, y float64
+		text string
+	}
+	var out []placed
 	for _, m := range f.Marked {
 		if !finite(m.X, m.Y) {
 			continue
@@ -521,40 +550,50 @@ func (d *svgDrawer) drawLabels(w io.Writer, f *Figure, L *layout) {
 		text := shorten(m.Label, labelRunes)
 		tw := textWidth(text, labelFont)
 		x, y := L.px(m.X), L.py(m.Y)
-		var best box
-		var bs spot
-		found := false
-		for k, s := range spots {
-			bx := box{x + s.dx, y + s.dy - labelFont, x + s.dx + tw, y + s.dy + 2}
+		best, bs, bestCover := box{}, spot{}, -1
+		for _, s := range spots {
+			bx := box{x + s.dx, y + s.dy - labelFont, x + s.dx + tw, y + s.dy + 3}
 			switch s.anchor {
 			case "end":
 				bx.x0, bx.x1 = x+s.dx-tw, x+s.dx
 			case "middle":
 				bx.x0, bx.x1 = x-tw/2, x+tw/2
 			}
-			inside := bx.x0 >= L.left && bx.x1 <= L.right && bx.y0 >= L.top && bx.y1 <= L.bottom
-			free := inside
+			if bx.x0 < L.left || bx.x1 > L.right || bx.y0 < L.top || bx.y1 > L.bottom {
+				continue
+			}
+			free := true
 			for _, t := range taken {
-				if free && bx.overlaps(t) {
+				if bx.overlaps(t) {
 					free = false
+					break
 				}
 			}
-			if k == 0 || free {
-				best, bs = bx, s
+			if !free {
+				continue
 			}
-			if free {
-				found = true
-				break
+			if c := covered(bx); bestCover < 0 || c < bestCover {
+				best, bs, bestCover = bx, s, c
 			}
 		}
-		if !found {
-			best, bs = box{x + 11, y - 8, x + 11 + tw, y + 6}, spots[0]
+		if bestCover < 0 {
+			best, bs = box{x + 11, y + 4 - labelFont, x + 11 + tw, y + 7}, spots[0]
 			if x+11+tw > L.right {
-				best, bs = box{x - 11 - tw, y - 8, x - 11, y + 6}, spots[1]
+				best, bs = box{x - 11 - tw, y + 4 - labelFont, x - 11, y + 7}, spots[1]
 			}
 		}
 		taken = append(taken, best)
-		fmt.Fprintf(w, `<text x="%s" y="%s" text-anchor="%s">%s</text>`, coord(x+bs.dx), coord(y+bs.dy), bs.anchor, esc(text))
+		out = append(out, placed{best, bs, x, y, text})
+	}
+	fmt.Fprintf(w, "<g fill=\"%s\" fill-opacity=\"0.9\" stroke=\"%s\" stroke-width=\"0.8\">", d.pal.Background, d.pal.Flag)
+	for _, p := range out {
+		fmt.Fprintf(w, `<rect x="%s" y="%s" width="%s" height="%s" rx="2"/>`,
+			coord(p.b.x0-2.5), coord(p.b.y0-0.5), coord(p.b.x1-p.b.x0+5), coord(p.b.y1-p.b.y0+1))
+	}
+	fmt.Fprint(w, "</g>\n")
+	fmt.Fprintf(w, "<g font-size=\"%s\" fill=\"%s\">", coord(labelFont), d.pal.Ink)
+	for _, p := range out {
+		fmt.Fprintf(w, `<text x="%s" y="%s" text-anchor="%s">%s</text>`, coord(p.x+p.s.dx), coord(p.y+p.s.dy), p.s.anchor, esc(p.text))
 	}
 	fmt.Fprint(w, "</g>\n")
 }

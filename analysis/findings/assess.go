@@ -59,7 +59,13 @@ type facts struct {
 	yLabel             string
 	xSym, ySym         string // the units as people write them (report.Variable.Symbol)
 	without            string // direction without the suspect rows; "undefined" when r cannot be computed
-	weaker             bool   // same direction without the flagged rows, but a lower strength grade
+	// noTurn says why a curve with its vertex known does not turn over:
+	// "outside" (the vertex lies outside the observed range), "slight" (the
+	// curve changes by less than its residual SE on one side), "smooth"
+	// (the LOWESS curve does not turn back); "" when it turns or the
+	// vertex is undefined.
+	noTurn string
+	weaker bool // same direction without the flagged rows, but a lower strength grade
 }
 
 // Assess returns the verdicts for a study whose statistics are filled, or
@@ -127,6 +133,7 @@ func Assess(s *report.Study, ctx Context) *report.Findings {
 
 	out := &report.Findings{TurnX: report.NaN(), Statements: []string{}, Limits: []string{}, ExplainedBy: []string{}}
 	f.decide(out)
+	f.why(out)
 	f.write(out)
 	return out
 }
@@ -256,10 +263,17 @@ func (f *facts) decide(out *report.Findings) {
 		out.Bend = &bend
 		if v := float64(f.quad.Vertex); s.Describe != nil && !math.IsNaN(v) {
 			lo, hi := float64(s.Describe.X.Min), float64(s.Describe.X.Max)
+			f.noTurn = "outside"
 			if v > lo && v < hi {
 				se := float64(f.quad.ResidualSE)
 				left, right := math.Abs(f.b2)*(v-lo)*(v-lo), math.Abs(f.b2)*(hi-v)*(hi-v)
-				if left >= se && right >= se && f.smoothTurns(f.b2 < 0, se) {
+				switch {
+				case left < se || right < se:
+					f.noTurn = "slight"
+				case !f.smoothTurns(f.b2 < 0, se):
+					f.noTurn = "smooth"
+				default:
+					f.noTurn = ""
 					out.TurnsOver = true
 					out.TurnX = report.Float(v)
 				}
@@ -444,7 +458,7 @@ func (f *facts) write(out *report.Findings) {
 	s := f.s
 	x, y := f.xLabel, f.yLabel
 	pr := s.Pearson
-	rText := fmt.Sprintf("r = %s, %s, n = %d", corr(f.r), f.interval(pr.CILow, pr.CIHigh), s.N)
+	rText := fmt.Sprintf("r = %s, %s, n = %d", f.rNum(), f.interval(pr.CILow, pr.CIHigh), s.N)
 
 	// Headline.
 	var h string
@@ -454,7 +468,7 @@ func (f *facts) write(out *report.Findings) {
 		if f.dir == "negative" {
 			verb = "falls"
 		}
-		h = fmt.Sprintf("%s %s with %s along a straight line: a %s relationship (%s).", capital(y), verb, x, out.Strength, rText)
+		h = fmt.Sprintf("%s %s with %s along a straight line: %s (%s).", capital(y), verb, x, f.strengthPhrase(out.Strength), rText)
 	case "curved":
 		h = fmt.Sprintf("%s follows a curve in %s that bends %s", capital(y), x, strings.TrimPrefix(*out.Bend, "bends-"))
 		if out.TurnsOver {
@@ -465,14 +479,14 @@ func (f *facts) write(out *report.Findings) {
 	case "nonlinear":
 		why := ""
 		if f.dcorRoute {
-			why = fmt.Sprintf("distance correlation %s, %s; ", num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)))
+			why = fmt.Sprintf("distance correlation %s, %s; ", num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)))
 		}
 		if f.dwRoute {
 			why += fmt.Sprintf("residuals in order of %s: Durbin–Watson %s; ", x, num(f.dwx))
 		}
 		h = fmt.Sprintf("%s depends on %s in a way a straight line misses (%s%s).", capital(y), x, why, rText)
 	default:
-		h = fmt.Sprintf("No relationship between %s and %s shows in these data (%s, %s).", x, y, rText, pval(f.p))
+		h = fmt.Sprintf("No relationship between %s and %s shows in these data (%s, %s).", x, y, rText, f.pv(f.p))
 	}
 	if out.OutlierDriven {
 		h = f.drivenHeadline() + " With all rows: " + h
@@ -481,13 +495,13 @@ func (f *facts) write(out *report.Findings) {
 			capital(listRows(rows)), plural(len(rows), "is", "are"), plural(len(rows), "it", "them"), corr(float64(s.Sensitivity.RWithoutFlagged)))
 	}
 	if out.Reversal {
-		h += fmt.Sprintf(" Within each %s the direction reverses: the pooled trend comes from differences between the groups.", s.Group)
+		h += fmt.Sprintf(" Within each %s the direction reverses: the pooled trend comes from differences between the groups.", f.groupLabel())
 	}
 	if len(out.ExplainedBy) > 0 {
 		h += fmt.Sprintf(" Holding %s fixed, the association is no longer shown.", joinAnd(out.ExplainedBy))
 	}
 	if way := f.hiddenWay(); way != "" {
-		h += fmt.Sprintf(" Within groups of %s, %s %s with %s.", s.Group, y, way, x)
+		h += fmt.Sprintf(" Within groups of %s, %s %s with %s.", f.groupLabel(), y, way, x)
 	}
 	if out.Drift {
 		h += " The residuals drift in run order."
@@ -498,9 +512,9 @@ func (f *facts) write(out *report.Findings) {
 	add := func(format string, a ...any) { *st = append(*st, fmt.Sprintf(format, a...)) }
 
 	// Correlation and line.
-	pText := pval(float64(pr.P))
+	pText := f.pv(float64(pr.P))
 	if f.adj != 1 {
-		pText += "; adjusted for the number of studies, " + pval(math.Min(1, f.p))
+		pText += "; adjusted for the number of studies, " + f.pv(math.Min(1, f.p))
 	}
 	add("Pearson correlation %s; %s.", rText, pText)
 	if l := s.Line; l != nil && l.Slope != nil && l.Intercept != nil {
@@ -508,20 +522,32 @@ func (f *facts) write(out *report.Findings) {
 		if l.Slope.CILow.Valid() && l.Slope.CIHigh.Valid() {
 			ci = fmt.Sprintf("%s CI %s to %s", f.conf, num(float64(l.Slope.CILow)), num(float64(l.Slope.CIHigh)))
 		}
-		add("The least-squares line: %s changes by %s %s (%s); at %s = 0 the line gives %s.",
-			y, num(float64(l.Slope.Estimate)), perUnit(f.ySym, f.xSym, x), ci, x, withUnit(float64(l.Intercept.Estimate), f.ySym))
+		avg := ""
+		if out.Form == "curved" {
+			avg = ", an average over the curve"
+		}
+		icpt := fmt.Sprintf("at %s = 0 the line gives %s", x, withUnit(float64(l.Intercept.Estimate), f.ySym))
+		if d := s.Describe; d != nil && !(float64(d.X.Min) <= 0 && 0 <= float64(d.X.Max)) {
+			icpt = fmt.Sprintf("its intercept, %s, is the line's value at %s = 0, which lies outside the observed range: it is not a prediction", withUnit(float64(l.Intercept.Estimate), f.ySym), x)
+		}
+		add("The least-squares line: %s changes by %s %s (%s%s); %s.",
+			y, num(float64(l.Slope.Estimate)), perUnit(f.ySym, f.xSym, x), ci, avg, icpt)
 	}
 	if s.Spearman != nil && s.Kendall != nil {
 		add("Rank correlations, which use only the order of the values: Spearman ρ = %s (%s), Kendall τ-b = %s (%s).",
-			corr(float64(s.Spearman.Rho)), pval(float64(s.Spearman.P)), corr(float64(s.Kendall.TauB)), pval(float64(s.Kendall.P)))
+			corr(float64(s.Spearman.Rho)), f.pv(float64(s.Spearman.P)), corr(float64(s.Kendall.TauB)), f.pv(float64(s.Kendall.P)))
 	}
 
 	// Form.
 	f.formStatements(out, add)
 
 	// Strength convention.
-	add("Strength is graded from |r|: strong at %s or more, moderate at %s or more, weak at %s or more. These cut points are common practice, not a standard.",
-		num(f.th.Strong), num(f.th.Moderate), num(f.th.Weak))
+	grading := fmt.Sprintf("Strength is graded from |r|: strong at %s or more, moderate at %s or more, weak at %s or more, and only where r differs clearly from 0 (p below %s)",
+		num(f.th.Strong), num(f.th.Moderate), num(f.th.Weak), num(f.alpha))
+	if out.CurveStrength != "" {
+		grading += "; the curve's strength by the same cut points from the square root of the quadratic's R²"
+	}
+	add("%s. These cut points are common practice, not a standard.", grading)
 
 	// Influence and sensitivity.
 	f.influenceStatements(out, add)
@@ -530,17 +556,20 @@ func (f *facts) write(out *report.Findings) {
 	if d := s.Diagnostics; d != nil && d.BreuschPagan != nil {
 		bp := d.BreuschPagan
 		if out.SpreadChanges {
-			how := "changes"
+			how, rho := "changes", ""
 			switch f.spreadGrows() {
 			case 1:
 				how = "grows"
 			case -1:
 				how = "shrinks"
 			}
-			add("The scatter about the line %s with %s (Breusch–Pagan %s): the bands, which assume an even scatter, are too narrow in some places and too wide in others.",
-				how, x, pval(float64(bp.P)))
+			if how != "changes" {
+				rho = fmt.Sprintf("; Spearman ρ of the residuals' size with %s = %s", x, corr(float64(d.SpreadRho)))
+			}
+			add("The scatter about the line %s with %s (Breusch–Pagan %s%s): the bands, which assume an even scatter, are too narrow in some places and too wide in others.",
+				how, x, f.pv(float64(bp.P)), rho)
 		} else {
-			add("The scatter about the line shows no clear change with %s (Breusch–Pagan %s).", x, pval(float64(bp.P)))
+			add("The scatter about the line shows no clear change with %s (Breusch–Pagan %s).", x, f.pv(float64(bp.P)))
 		}
 	}
 
@@ -568,8 +597,8 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 	q := f.quad
 	switch out.Form {
 	case "curved":
-		add("A quadratic curve explains R² = %s of the variation against %s for the straight line (x² term %s).",
-			corr(float64(q.R2)), corr(float64(s.Pearson.R2)), pval(f.quadP()))
+		c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
+		add("A quadratic curve explains R² = %s of the variation against %s for the straight line (x² term %s).", c, l, f.pv(f.quadP()))
 		if out.TurnsOver {
 			first, then := "rises", "falls"
 			if *out.Bend == "bends-up" {
@@ -584,7 +613,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 	case "nonlinear":
 		if f.dcor != nil {
 			add("The distance correlation, which detects dependence of any shape, is %s (%s, %d permutations), against |r| = %s.",
-				num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)), f.dcor.Permutations, corr(math.Abs(f.r)))
+				num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), f.dcor.Permutations, corr(math.Abs(f.r)))
 		}
 		if f.dwRoute {
 			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): %s goes up and down with %s in a way neither the straight line nor the quadratic follows. Look at the scatterplot.",
@@ -598,24 +627,29 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 				x, num(f.dwx), num(f.dwxBound))
 		}
 		if q != nil && !math.IsNaN(f.quadP()) {
-			add("A quadratic curve improves on the line by little (R² %s against %s for the line; x² term %s): the straight line describes the trend.",
-				corr(float64(q.R2)), corr(float64(s.Pearson.R2)), pval(f.quadP()))
+			c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
+			why := "its x² term is not clear"
+			if f.quadP() < f.alpha {
+				why = fmt.Sprintf("it adds less than the %s to R² that would count as a curve", num(f.th.CurveGainR2))
+			}
+			add("A quadratic curve gives R² = %s against %s for the straight line (x² term %s): %s, so the form is taken as a straight line.",
+				c, l, f.pv(f.quadP()), why)
 		}
 	case "none":
 		if f.dcor != nil {
 			if float64(f.dcor.P) < f.alpha {
 				add("The distance correlation, which detects dependence of any shape, is %s (%s): too small a dependence to call a relationship (the cut point is %s).",
-					num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)), num(f.th.NonlinearDcor))
+					num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor))
 			} else {
 				add("The distance correlation, which detects dependence of any shape, finds none either (%s, %s).",
-					num(float64(f.dcor.DCor)), pval(float64(f.dcor.P)))
+					num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)))
 			}
 		}
 	}
 	if f.lof {
 		lf := s.Diagnostics.LackOfFit
 		add("Where %s repeats, the means of the repeated settings scatter about the line more than repeat runs scatter about their own mean (lack-of-fit F = %s on %d and %d df, %s): the line summarises the trend but does not pass through every setting's mean.",
-			x, num(float64(lf.F)), lf.DF1, lf.DF2, pval(float64(lf.P)))
+			x, num(float64(lf.F)), lf.DF1, lf.DF2, f.pv(float64(lf.P)))
 	}
 }
 
@@ -666,15 +700,15 @@ func (f *facts) drivenHeadline() string {
 		return fmt.Sprintf("The apparent relationship comes from %s alone: without %s, too little variation is left to compute r.",
 			listRows(rows), plural(len(rows), "it", "them"))
 	case f.rdir == "none" && f.without != "none":
-		return fmt.Sprintf("The flagged %s hide a relationship: without them r = %s.",
-			listRows(rows), corr(float64(se.RWithoutFlagged)))
+		return fmt.Sprintf("The flagged %s hide a relationship: without %s, r = %s (%s).",
+			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), f.pv(float64(se.PWithoutFlagged)))
 	case len(rows) > 0 && f.weaker:
-		return fmt.Sprintf("The strength of the relationship rests on %s: without %s, r = %s (%s), a %s relationship at most.",
-			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)),
-			f.strengthOf(math.Abs(float64(se.RWithoutFlagged))))
+		return fmt.Sprintf("The strength of the relationship rests on %s: without %s, r = %s (%s), only %s.",
+			listRows(rows), plural(len(rows), "it", "them"), f.absNumSigned(float64(se.RWithoutFlagged)), f.pv(float64(se.PWithoutFlagged)),
+			f.strengthPhrase(f.strengthOf(math.Abs(float64(se.RWithoutFlagged)))))
 	case len(rows) > 0 && f.without != f.rdir:
 		return fmt.Sprintf("The apparent relationship rests on %s: without %s, r = %s (%s) and no relationship is shown.",
-			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), pval(float64(se.PWithoutFlagged)))
+			listRows(rows), plural(len(rows), "it", "them"), corr(float64(se.RWithoutFlagged)), f.pv(float64(se.PWithoutFlagged)))
 	default:
 		lo, hi := corrPair(float64(se.LooRMin), float64(se.LooRMax))
 		return fmt.Sprintf("The direction of the relationship depends on single rows: leaving out one row at a time, r ranges from %s to %s.", lo, hi)
@@ -690,9 +724,10 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 				parts = append(parts, fmt.Sprintf("and %d more", len(s.Influence.Points)-5))
 				break
 			}
-			parts = append(parts, fmt.Sprintf("row %s at (%s, %s): %s", p.Row, num(float64(p.X)), num(float64(p.Y)), f.pointWhy(p)))
+			parts = append(parts, fmt.Sprintf("row %s at %s = %s, %s = %s: %s", p.Row, f.xLabel, withUnit(float64(p.X), f.xSym),
+				f.yLabel, withUnit(float64(p.Y), f.ySym), f.pointWhy(p)))
 		}
-		add("Flagged %s: %s.", plural(len(s.Influence.Points), "row", "rows"), strings.Join(parts, "; "))
+		add("Flagged: %s.", strings.Join(parts, "; "))
 	} else if s.Influence != nil {
 		add("No row is flagged as an outlier, of high leverage or influential.")
 	}
@@ -710,15 +745,15 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 		if f.without != f.rdir {
 			verdict = "the verdict does not stand without " + plural(se.NFlagged, "it", "them")
 		} else if f.weaker {
-			verdict = "the direction stands, but the strength falls to " + f.strengthOf(math.Abs(float64(se.RWithoutFlagged)))
+			verdict = "the direction stands, but the strength falls to " + strengthWord(f.strengthOf(math.Abs(float64(se.RWithoutFlagged))))
 		}
 		if math.IsNaN(float64(se.RWithoutFlagged)) {
 			add("Leaving out the %s flagged as %s, r cannot be computed (too little variation is left): %s.",
 				plural(se.NFlagged, "row", "rows"), suspectWords, verdict)
 		} else {
 			add("Leaving out the %s flagged as %s: r = %s (%s, %s), slope %s %s; %s.",
-				plural(se.NFlagged, "row", "rows"), suspectWords, corr(float64(se.RWithoutFlagged)), f.interval(se.RWithoutLow, se.RWithoutHigh),
-				pval(float64(se.PWithoutFlagged)), num(float64(se.SlopeWithoutFlagged)),
+				plural(se.NFlagged, "row", "rows"), suspectWords, f.absNumSigned(float64(se.RWithoutFlagged)), f.interval(se.RWithoutLow, se.RWithoutHigh),
+				f.pv(float64(se.PWithoutFlagged)), num(float64(se.SlopeWithoutFlagged)),
 				perUnit(f.ySym, f.xSym, f.xLabel), verdict)
 		}
 	}
@@ -735,10 +770,11 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 	if se.ResistantSlope.Valid() && s.Line != nil && s.Line.Slope != nil {
 		method := ""
 		if s.Diagnostics != nil && s.Diagnostics.Resistant != nil && s.Diagnostics.Resistant.Method != "" {
-			method = " by " + s.Diagnostics.Resistant.Method
+			method = " by " + strings.Replace(s.Diagnostics.Resistant.Method, "theil-sen", "Theil–Sen", 1)
 		}
-		add("The resistant slope%s, which a few unusual rows cannot pull, is %s %s against %s by least squares.",
-			method, num(float64(se.ResistantSlope)), perUnit(f.ySym, f.xSym, f.xLabel), num(float64(s.Line.Slope.Estimate)))
+		rs, ls := numPair(float64(se.ResistantSlope), float64(s.Line.Slope.Estimate))
+		add("The resistant slope%s, the median of the slopes between pairs of rows, which a few unusual rows barely move, is %s %s against %s by least squares.",
+			method, rs, perUnit(f.ySym, f.xSym, f.xLabel), ls)
 	}
 }
 
@@ -801,7 +837,7 @@ func (f *facts) limits(out *report.Findings) {
 		add("No covariates were declared, so no other measured quantity was checked as a lurking variable.")
 	}
 	for _, pc := range s.Partial {
-		pt := fmt.Sprintf("r = %s (%s, %s)", corr(float64(pc.R)), f.interval(pc.CILow, pc.CIHigh), pval(float64(pc.P)))
+		pt := fmt.Sprintf("r = %s (%s, %s)", corr(float64(pc.R)), f.interval(pc.CILow, pc.CIHigh), f.pv(float64(pc.P)))
 		switch {
 		case slices.Contains(out.ExplainedBy, pc.Covariate):
 			add("Holding %s fixed, the correlation of %s and %s is %s: %s may carry the association (a lurking variable).", pc.Covariate, x, y, pt, pc.Covariate)
@@ -835,6 +871,30 @@ func (f *facts) limits(out *report.Findings) {
 	}
 }
 
+// groupLabel names the group column for people: Study.GroupLabel, else
+// the column name.
+func (f *facts) groupLabel() string {
+	if f.s.GroupLabel != "" {
+		return f.s.GroupLabel
+	}
+	return f.s.Group
+}
+
+// strengthPhrase is "a strong relationship", or for a relationship shown
+// at alpha whose |r| is below the weak cut point, words that say so.
+func (f *facts) strengthPhrase(g string) string {
+	if g == "none" {
+		return fmt.Sprintf("a relationship too weak to grade (|r| below %s)", num(f.th.Weak))
+	}
+	return "a " + g + " relationship"
+}
+
+// absNumSigned writes a signed r with the digits that put |r| on the right
+// side of the strength cut points.
+func (f *facts) absNumSigned(r float64) string {
+	return corrVs(r, f.th.Strong, f.th.Moderate, f.th.Weak)
+}
+
 func (f *facts) designName() string {
 	switch f.dsg {
 	case RandomizedExperiment, DesignedExperiment:
@@ -847,7 +907,7 @@ func (f *facts) orderFigures() string {
 	d := f.s.Diagnostics
 	var p []string
 	if d.OrderTrend != nil {
-		p = append(p, fmt.Sprintf("trend %s", pval(float64(d.OrderTrend.P))))
+		p = append(p, fmt.Sprintf("trend %s", f.pv(float64(d.OrderTrend.P))))
 	}
 	if d.DurbinWatson.Valid() {
 		p = append(p, fmt.Sprintf("Durbin–Watson %s", num(float64(d.DurbinWatson))))
@@ -883,24 +943,27 @@ func (f *facts) hiddenWay() string {
 }
 
 func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
-	s := f.s
 	g := f.qualifying()
 	var parts []string
-	for _, gf := range g {
-		parts = append(parts, fmt.Sprintf("%s: slope %s (%s to %s, n = %d)", gf.Group, num(float64(gf.Slope)),
-			num(float64(gf.SlopeLow)), num(float64(gf.SlopeHigh)), gf.N))
+	for i, gf := range g {
+		unit := ""
+		if i == 0 {
+			unit = " " + perUnit(f.ySym, f.xSym, f.xLabel)
+		}
+		parts = append(parts, fmt.Sprintf("%s: slope %s%s (%s CI %s to %s, n = %d)", gf.Group, num(float64(gf.Slope)), unit,
+			f.conf, num(float64(gf.SlopeLow)), num(float64(gf.SlopeHigh)), gf.N))
 	}
 	detail := strings.Join(parts, "; ")
 	switch {
 	case f.hiddenWay() != "":
 		add("Within groups of %s, %s %s with %s (%s), though the pooled data show no relationship: differences between the groups hide it.",
-			s.Group, f.yLabel, f.hiddenWay(), f.xLabel, detail)
+			f.groupLabel(), f.yLabel, f.hiddenWay(), f.xLabel, detail)
 	case len(g) < 2:
-		add("Fewer than two groups of %s have %d rows or more, so the groups were not compared.", s.Group, f.th.ReversalMinGroup)
+		add("Fewer than two groups of %s have %d rows or more, so the groups were not compared.", f.groupLabel(), f.th.ReversalMinGroup)
 	case out.Reversal:
 		add("Within each %s the direction reverses: pooled, %s %s with %s, but within groups it goes the other way (%s). The pooled relationship comes from differences between the groups.",
-			s.Group, f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, detail)
+			f.groupLabel(), f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, detail)
 	default:
-		add("Within each %s the lines were checked for a reversal of direction and none was found (%s).", s.Group, detail)
+		add("Within each %s the lines were checked for a reversal of direction and none was found (%s).", f.groupLabel(), detail)
 	}
 }

@@ -445,3 +445,76 @@ func TestAssessLeaveOneOutDigits(t *testing.T) {
 		t.Errorf("leave-one-out range not separated:\n%s", text)
 	}
 }
+
+// TestAssessVerdictReasons: each verdict carries the reason of the rule
+// that decided it. A curve that turns over has no direction because it
+// turns, even though the line's r and slope are clear; a direction of none
+// from r says r is not shown, by its p; each strength names where |r| lies
+// among the cut points.
+func TestAssessVerdictReasons(t *testing.T) {
+	s := study(0.55, 1e-4)
+	q := &s.Models[0]
+	q.R2, q.FP, q.Vertex, q.ResidualSE = 0.9, 1e-10, 7, 0.1
+	q.Coefficients[2].Estimate, q.Coefficients[2].P = -0.05, 1e-9
+	s.Diagnostics.QuadraticP = 1e-9
+	f := Assess(s, ctx)
+	if f.Direction != "none" || !f.TurnsOver {
+		t.Fatalf("direction %q, turns over %v; want none and a turn", f.Direction, f.TurnsOver)
+	}
+	for _, c := range []struct{ got, want string }{
+		{f.DirectionWhy, "turns over inside the observed range"},
+		{f.DirectionWhy, "rises with melt temperature up to about 7 °C and falls beyond it"},
+		{f.FormWhy, "Curved: "},
+		{f.FormWhy, "turns over at about melt temperature = 7 °C"},
+		{f.StrengthWhy, "Moderate: |r| = 0.55, at or above 0.4 and below 0.7"},
+		{f.StrengthWhy, "As a curve: strong"},
+	} {
+		if !strings.Contains(c.got, c.want) {
+			t.Errorf("%q lacks %q", c.got, c.want)
+		}
+	}
+	for _, why := range []string{f.DirectionWhy, f.FormWhy} {
+		if strings.Contains(why, "includes 0") || strings.Contains(why, "includes zero") {
+			t.Errorf("reason for a clear r says its interval includes 0: %s", why)
+		}
+	}
+
+	// r not shown: the reason is r's p, not the curve.
+	f = Assess(study(0.1, 0.4), ctx)
+	if f.Direction != "none" || !strings.HasPrefix(f.DirectionWhy, "None shown: r = 0.10") || !strings.Contains(f.DirectionWhy, "p = 0.40") ||
+		!strings.Contains(f.StrengthWhy, "only where r differs clearly from 0 (p below 0.05)") || !strings.HasPrefix(f.FormWhy, "None: ") {
+		t.Errorf("r not shown: direction %q\n%s\n%s\n%s", f.Direction, f.DirectionWhy, f.StrengthWhy, f.FormWhy)
+	}
+
+	// Clear negative r.
+	f = Assess(study(-0.82, 1e-6), ctx)
+	if !strings.HasPrefix(f.DirectionWhy, "Negative: r = −0.82") || !strings.HasPrefix(f.StrengthWhy, "Strong: |r| = 0.82, at or above 0.7") ||
+		!strings.HasPrefix(f.FormWhy, "Linear: ") {
+		t.Errorf("negative line:\n%s\n%s\n%s", f.DirectionWhy, f.StrengthWhy, f.FormWhy)
+	}
+	// |r| just below a cut point prints on its own side of it.
+	f = Assess(study(0.6996, 1e-6), ctx)
+	if f.Strength != "moderate" || !strings.Contains(f.StrengthWhy, "|r| = 0.6996") || !strings.Contains(f.Headline, "r = 0.6996") {
+		t.Errorf("r = 0.6996: %q\n%s\n%s", f.Strength, f.StrengthWhy, f.Headline)
+	}
+}
+
+// TestPvalVs: a p-value never prints on the other side of alpha.
+func TestPvalVs(t *testing.T) {
+	for _, c := range []struct {
+		p, alpha float64
+		want     string
+	}{
+		{0.0496, 0.05, "p = 0.0496"},
+		{0.0504, 0.05, "p = 0.050"}, // not below 0.05, and does not print below it
+		{0.012, 0.05, "p = 0.012"},
+		{0.0996, 0.1, "p = 0.0996"},
+		{0.0004, 0.05, "p < 0.001"},
+		{0.0004, 0.0001, "p = 4.00e-04"},
+		{0.5, 0.05, "p = 0.50"},
+	} {
+		if got := pvalVs(c.p, c.alpha); got != c.want {
+			t.Errorf("pvalVs(%v, %v) = %q, want %q", c.p, c.alpha, got, c.want)
+		}
+	}
+}

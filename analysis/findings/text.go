@@ -85,6 +85,75 @@ func numPair(a, b float64) (string, string) {
 	return minus(sa), minus(sb)
 }
 
+// corrVs writes a correlation as corr does, with decimals added until the
+// printed value lies on the same side of every cut point as the value
+// itself: |r| = 0.6996 against a cut of 0.7 prints 0.6996, not 0.70.
+func corrVs(r float64, cuts ...float64) string {
+	t := corr(r)
+	if math.IsNaN(r) || math.IsInf(r, 0) {
+		return t
+	}
+	for d := 3; d <= 8 && !sameSide(t, math.Abs(r), cuts); d++ {
+		t = minus(strconv.FormatFloat(r, 'f', d, 64))
+	}
+	return t
+}
+
+// sameSide reports whether the printed value t (in size) and a lie on the
+// same side of each cut point.
+func sameSide(t string, a float64, cuts []float64) bool {
+	v, err := strconv.ParseFloat(strings.Replace(t, "−", "-", 1), 64)
+	if err != nil {
+		return true
+	}
+	v = math.Abs(v)
+	for _, c := range cuts {
+		if (v >= c) != (a >= c) {
+			return false
+		}
+	}
+	return true
+}
+
+// pvalVs writes a p-value as pval does, with more digits where pval's
+// rounding would put it on the other side of alpha (0.0496 prints as
+// "p = 0.0496", not "p = 0.050", when alpha is 0.05) or where "p < 0.001"
+// would not show that p is below a smaller alpha.
+func pvalVs(p, alpha float64) string {
+	t := pval(p)
+	switch {
+	case math.IsNaN(p):
+		return t
+	case p < 0.001:
+		if alpha > 0.001 || p < alpha && alpha == 0.001 {
+			return t
+		}
+		return "p = " + minus(strconv.FormatFloat(p, 'e', 2, 64))
+	}
+	for k := 3; k <= 8; k++ {
+		v, err := strconv.ParseFloat(strings.TrimPrefix(t, "p = "), 64)
+		if err != nil || (v < alpha) == (p < alpha) {
+			return t
+		}
+		t = "p = " + strconv.FormatFloat(p, 'g', k, 64)
+	}
+	return t
+}
+
+// pv writes p against the study's alpha (pvalVs).
+func (f *facts) pv(p float64) string { return pvalVs(p, f.alpha) }
+
+// rNum writes r with digits enough to sit on the right side of the
+// strength cut points.
+func (f *facts) rNum() string {
+	return corrVs(f.r, f.th.Strong, f.th.Moderate, f.th.Weak)
+}
+
+// absNum writes a value of |r| against the strength cut points.
+func (f *facts) absNum(a float64) string {
+	return corrVs(a, f.th.Strong, f.th.Moderate, f.th.Weak)
+}
+
 // pval writes a p-value as "p = 0.012" or "p < 0.001".
 func pval(p float64) string {
 	switch {

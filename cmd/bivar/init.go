@@ -435,7 +435,8 @@ func initManifest(prof *csvProfile, rel string) string {
 	}
 
 	num := prof.numeric()
-	w("\n[dataset.units]   # UCUM unit code per column, e.g. \"Cel\", \"[degF]\", \"mm\", \"[in_i]\", \"%%\", \"kg\"\n")
+	w("\n[dataset.units]   # UCUM unit code per column, e.g. \"Cel\", \"[degF]\", \"mm\", \"[in_i]\", \"%%\", \"kg\":\n")
+	w("                  # remove the '# ' and write the code between the quotes (an empty one is refused)\n")
 	for _, c := range num {
 		w("# %s = \"\"\n", tomlKey(c.name))
 	}

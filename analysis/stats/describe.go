@@ -113,14 +113,44 @@ func meanParts(x []float64) (hi, lo, ss float64) {
 		sum += v
 	}
 	hi = sum / n
-	var c, q float64
-	for _, v := range x {
-		d := v - hi
-		c += d
-		q += d * d
+	var c, q ksum
+	for lo := 0; lo < len(x); lo += sumBlock {
+		var bc, bq float64
+		for _, v := range x[lo:min(lo+sumBlock, len(x))] {
+			d := v - hi
+			bc += d
+			bq += d * d
+		}
+		c.add(bc)
+		q.add(bq)
 	}
-	return hi, c / n, q - c*c/n
+	cs := c.value()
+	return hi, cs / n, q.value() - cs*cs/n
 }
+
+// sumBlock is the length of the blocks whose plain sums the second passes
+// add into compensated totals (ksum): the rounding error of a sum of n
+// terms is then about (sumBlock + 2)·ε instead of up to n·ε, which at
+// n = 10⁶ took Spearman's ρ 2.4e-12 away from its exact value.
+const sumBlock = 256
+
+// ksum is a compensated sum (Neumaier 1974, "Rundungsfehleranalyse einiger
+// Verfahren zur Summation endlicher Summen", ZAMM 54; the improved Kahan
+// summation, Higham 2002, Accuracy and Stability of Numerical Algorithms,
+// 2nd ed., §4.3).
+type ksum struct{ s, c float64 }
+
+func (k *ksum) add(v float64) {
+	t := k.s + v
+	if math.Abs(k.s) >= math.Abs(v) {
+		k.c += (k.s - t) + v
+	} else {
+		k.c += (v - t) + k.s
+	}
+	k.s = t
+}
+
+func (k *ksum) value() float64 { return k.s + k.c }
 
 // Moments are the means and centred sums of squares and products of a pair.
 type Moments struct {
@@ -133,8 +163,9 @@ type Moments struct {
 // CentredMoments returns n, the means and the centred sums Sxx, Syy, Sxy of
 // the pairs (x[i], y[i]) by the corrected two-pass algorithm (Chan, Golub &
 // LeVeque 1983, eq. 1.7, extended to the cross product): the first pass
-// gives the means, the second sums deviations from them, and the sum of
-// the deviations (zero in exact arithmetic) corrects both means and sums.
+// gives the means, the second sums deviations from them (in blocks of
+// sumBlock added into compensated totals), and the sum of the deviations
+// (zero in exact arithmetic) corrects both means and sums.
 //
 // x and y must have equal length (it panics otherwise). An empty input
 // gives N = 0 and NaN means and sums; NaN in the input propagates.
@@ -155,18 +186,28 @@ func CentredMoments(x, y []float64) Moments {
 		sy += y[i]
 	}
 	mx, my := sx/n, sy/n
-	var cx, cy, qxx, qyy, qxy float64
-	for i := range x {
-		dx, dy := x[i]-mx, y[i]-my
-		cx += dx
-		cy += dy
-		qxx += dx * dx
-		qyy += dy * dy
-		qxy += dx * dy
+	var kcx, kcy, kxx, kyy, kxy ksum
+	for lo := 0; lo < len(x); lo += sumBlock {
+		hi := min(lo+sumBlock, len(x))
+		var cx, cy, qxx, qyy, qxy float64
+		for i := lo; i < hi; i++ {
+			dx, dy := x[i]-mx, y[i]-my
+			cx += dx
+			cy += dy
+			qxx += dx * dx
+			qyy += dy * dy
+			qxy += dx * dy
+		}
+		kcx.add(cx)
+		kcy.add(cy)
+		kxx.add(qxx)
+		kyy.add(qyy)
+		kxy.add(qxy)
 	}
+	cx, cy := kcx.value(), kcy.value()
 	m.MeanX, m.MeanY = mx+cx/n, my+cy/n
-	m.Sxx = qxx - cx*cx/n
-	m.Syy = qyy - cy*cy/n
-	m.Sxy = qxy - cx*cy/n
+	m.Sxx = kxx.value() - cx*cx/n
+	m.Syy = kyy.value() - cy*cy/n
+	m.Sxy = kxy.value() - cx*cy/n
 	return m
 }

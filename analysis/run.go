@@ -337,6 +337,12 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 		in.Covariates = map[string][]float64{}
 		for _, c := range st.Covariates {
 			in.Covariates[c] = t.Numeric[c]
+			if l := ls.decl.Labels[c]; l != "" {
+				if in.CovariateLabels == nil {
+					in.CovariateLabels = map[string]string{}
+				}
+				in.CovariateLabels[c] = l
+			}
 			if !slices.Contains(in.CovariateNames, c) {
 				in.CovariateNames = append(in.CovariateNames, c)
 			}

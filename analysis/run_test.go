@@ -102,8 +102,11 @@ func TestRunStructure(t *testing.T) {
 	if len(s.Groups) != 2 || s.Groups[0].Group != "L1" || s.Groups[1].Group != "L2" {
 		t.Errorf("groups: %+v, want L1 then L2", s.Groups)
 	}
-	if len(s.Partial) != 1 || s.Partial[0].Covariate != "humidity" {
-		t.Errorf("partial: %+v", s.Partial)
+	if len(s.Partial) != 1 || s.Partial[0].Covariate != "humidity" || s.Partial[0].Label != "Relative humidity" {
+		t.Errorf("partial: %+v, want humidity labelled Relative humidity", s.Partial)
+	}
+	if lim := strings.Join(s.Findings.Limits, "\n"); !strings.Contains(lim, "Holding Relative humidity fixed") {
+		t.Errorf("limits do not name the covariate by its label:\n%s", lim)
 	}
 	if len(s.Predictions) != 2 || !s.Predictions[0].InRange || s.Predictions[1].InRange {
 		t.Errorf("predictions: %+v, want 200 in range and 260 outside", s.Predictions)

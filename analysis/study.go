@@ -43,6 +43,9 @@ type Input struct {
 	// gives their order in the report; when nil the names are sorted.
 	Covariates     map[string][]float64
 	CovariateNames []string
+	// CovariateLabels maps a covariate column to its label for people;
+	// a column without one is shown by its name.
+	CovariateLabels map[string]string
 
 	PredictAt []float64
 	AlsoIn    manifest.AlsoIn
@@ -244,7 +247,7 @@ func analyze(in Input, cfg Config) report.Study {
 
 	for i, name := range covNames {
 		r, lo, hi, p := stats.PartialCorrelation(x, y, cc.cov[i], conf)
-		s.Partial = append(s.Partial, report.Partial{Covariate: name, N: s.N, R: report.Float(r),
+		s.Partial = append(s.Partial, report.Partial{Covariate: name, Label: labelOf(name, in.CovariateLabels[name]), N: s.N, R: report.Float(r),
 			CILow: report.Float(lo), CIHigh: report.Float(hi), P: report.Float(p)})
 	}
 	if in.Groups != nil {

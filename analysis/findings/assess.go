@@ -498,7 +498,7 @@ func (f *facts) write(out *report.Findings) {
 		h += fmt.Sprintf(" Within each %s the direction reverses: the pooled trend comes from differences between the groups.", f.groupLabel())
 	}
 	if len(out.ExplainedBy) > 0 {
-		h += fmt.Sprintf(" Holding %s fixed, the association is no longer shown.", joinAnd(out.ExplainedBy))
+		h += fmt.Sprintf(" Holding %s fixed, the association is no longer shown.", joinAnd(f.covariateLabels(out.ExplainedBy)))
 	}
 	if way := f.hiddenWay(); way != "" {
 		h += fmt.Sprintf(" Within groups of %s, %s %s with %s.", f.groupLabel(), y, way, x)
@@ -837,16 +837,20 @@ func (f *facts) limits(out *report.Findings) {
 		add("No covariates were declared, so no other measured quantity was checked as a lurking variable.")
 	}
 	for _, pc := range s.Partial {
+		cov := pc.Label
+		if cov == "" {
+			cov = pc.Covariate
+		}
 		pt := fmt.Sprintf("r = %s (%s, %s)", corr(float64(pc.R)), f.interval(pc.CILow, pc.CIHigh), f.pv(float64(pc.P)))
 		switch {
 		case slices.Contains(out.ExplainedBy, pc.Covariate):
-			add("Holding %s fixed, the correlation of %s and %s is %s: %s may carry the association (a lurking variable).", pc.Covariate, x, y, pt, pc.Covariate)
+			add("Holding %s fixed, the correlation of %s and %s is %s: %s may carry the association (a lurking variable).", cov, x, y, pt, cov)
 		case f.rdir == "none":
-			add("Holding %s fixed, the correlation of %s and %s is %s.", pc.Covariate, x, y, pt)
+			add("Holding %s fixed, the correlation of %s and %s is %s.", cov, x, y, pt)
 		case !(float64(pc.P) < f.alpha):
-			add("Holding %s fixed, the correlation of %s and %s is %s: no longer shown, but the interval is too wide to tell whether %s carries the association.", pc.Covariate, x, y, pt, pc.Covariate)
+			add("Holding %s fixed, the correlation of %s and %s is %s: no longer shown, but the interval is too wide to tell whether %s carries the association.", cov, x, y, pt, cov)
 		default:
-			add("Holding %s fixed, the correlation of %s and %s is %s: the association does not come from %s.", pc.Covariate, x, y, pt, pc.Covariate)
+			add("Holding %s fixed, the correlation of %s and %s is %s: the association does not come from %s.", cov, x, y, pt, cov)
 		}
 	}
 
@@ -869,6 +873,21 @@ func (f *facts) limits(out *report.Findings) {
 	default:
 		add("The residuals show no drift in run order (%s).", f.orderFigures())
 	}
+}
+
+// covariateLabels returns the labels of the named covariates (from
+// Partial), each its name when it has none.
+func (f *facts) covariateLabels(names []string) []string {
+	out := make([]string, len(names))
+	for i, n := range names {
+		out[i] = n
+		for _, pc := range f.s.Partial {
+			if pc.Covariate == n && pc.Label != "" {
+				out[i] = pc.Label
+			}
+		}
+	}
+	return out
 }
 
 // groupLabel names the group column for people: Study.GroupLabel, else

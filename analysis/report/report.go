@@ -321,6 +321,7 @@ type LowessInfo struct {
 // Partial is the correlation of x and y given one covariate.
 type Partial struct {
 	Covariate string `json:"covariate"`
+	Label     string `json:"label"` // the covariate for people: its [dataset.labels] entry, else the column name
 	N         int    `json:"n"`
 	R         Float  `json:"r"`
 	CILow     Float  `json:"ci_low"`

@@ -11,6 +11,7 @@ package stats
 
 import (
 	"math"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -227,5 +228,96 @@ func TestEdgeMillionRows(t *testing.T) {
 	}
 	if r, _, _, _ := PartialCorrelation(x, y, xt, 0.95); math.IsNaN(r) {
 		t.Error("PartialCorrelation at 10⁶ rows: NaN")
+	}
+}
+
+// TestEdgeDegenerate pins the documented result of every estimator on the
+// smallest and most degenerate inputs: NaN (or an error, for the fits)
+// where the quantity does not exist, a number where it does. No case may
+// panic.
+func TestEdgeDegenerate(t *testing.T) {
+	t.Parallel()
+	nan, inf := math.NaN(), math.Inf(1)
+	isNaN := math.IsNaN
+	ok := func(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+	type want struct {
+		pearsonR, pearsonP, pearsonCI, spearman, kendall, line, quad bool // true: defined / fits
+		extT, lof, partialR, partialP, theilSen, dcor                bool
+	}
+	order := func(n int) []float64 {
+		z := make([]float64, n)
+		for i := range z {
+			z[i] = float64(i*i%7) + 0.5*float64(i)
+		}
+		return z
+	}
+	for _, tc := range []struct {
+		name string
+		x, y []float64
+		w    want
+	}{
+		{"n = 3", []float64{1, 2, 4}, []float64{2, 1, 5},
+			want{pearsonR: true, pearsonP: true, spearman: true, kendall: true, line: true, quad: true, partialR: true, theilSen: true, dcor: true}},
+		{"all x tied", []float64{2, 2, 2, 2, 2}, []float64{1, 2, 3, 5, 4}, want{}},
+		{"all y tied", []float64{1, 2, 3, 4, 5}, []float64{7, 7, 7, 7, 7}, want{line: true, quad: true, theilSen: true}},
+		{"one x apart from the rest", []float64{2, 2, 2, 2, 9}, []float64{1, 3, 2, 4, 8},
+			want{pearsonR: true, pearsonP: true, pearsonCI: true, spearman: true, kendall: true, line: true, extT: true, partialR: true, partialP: true, theilSen: true, dcor: true}},
+		{"NaN in x", []float64{1, 2, nan, 4, 5}, []float64{1, 3, 2, 4, 8}, want{}},
+		{"+Inf in x (ranked like a value)", []float64{1, 2, inf, 4, 5}, []float64{1, 3, 2, 4, 8}, want{spearman: true, kendall: true}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			x, y, w := tc.x, tc.y, tc.w
+			n := len(x)
+			c := Pearson(x, y, 0.95)
+			rho, _ := Spearman(x, y)
+			tau, _ := KendallTauB(x, y)
+			_, errL := Line(x, y, 0.95)
+			_, errQ := Polynomial(x, y, 2, 0.95)
+			in := Influence(x, y)
+			_, _, _, _, lofOK := LackOfFit(x, y)
+			pr, _, _, pp := PartialCorrelation(x, y, order(n), 0.95)
+			ts, _, _ := TheilSen(x, y, 0, nil)
+			d := DistanceCorrelation(x, y)
+			for _, g := range []struct {
+				what string
+				got  bool
+				want bool
+			}{
+				{"Pearson r", ok(c.R), w.pearsonR}, {"Pearson p", ok(c.P), w.pearsonP}, {"Pearson CI", ok(c.CILow), w.pearsonCI},
+				{"Spearman ρ", ok(rho), w.spearman}, {"Kendall τ-b", ok(tau), w.kendall},
+				{"Line fits", errL == nil, w.line}, {"quadratic fits", errQ == nil, w.quad},
+				{"some external studentized residual", slices.ContainsFunc(in.StudentizedExt, ok), w.extT},
+				{"lack-of-fit test exists", lofOK, w.lof},
+				{"partial r", ok(pr), w.partialR}, {"partial p", ok(pp), w.partialP},
+				{"Theil–Sen slope", ok(ts), w.theilSen}, {"distance correlation", ok(d), w.dcor},
+			} {
+				if g.got != g.want {
+					t.Errorf("%s: defined = %v, documented %v", g.what, g.got, g.want)
+				}
+			}
+			// Lowess: NaN exactly at the rows with a non-finite value.
+			for i, f := range Lowess(x, y, 2.0/3, 3, 0) {
+				if ok(x[i]) && ok(y[i]) != ok(f) {
+					t.Errorf("Lowess[%d] = %v for finite (%v, %v)", i, f, x[i], y[i])
+				}
+			}
+			if errL == nil {
+				l, _ := Line(x, y, 0.95)
+				bp, _, _ := BreuschPagan(l.Residuals, x)
+				if ok(bp) != (n >= 3 && ok(c.R)) {
+					t.Errorf("Breusch–Pagan %v (n %d, r %v)", bp, n, c.R)
+				}
+				if dw := DurbinWatson(l.Residuals); isNaN(dw) != !ok(c.R) {
+					t.Errorf("Durbin–Watson %v with r %v", dw, c.R)
+				}
+			}
+		})
+	}
+	// Constant y: every coefficient is exact, so its SE is 0; a nonzero
+	// estimate then has t = ±Inf and p = 0, a zero one t and p NaN (0/0),
+	// as documented on LeastSquares.
+	l, _ := Line([]float64{1, 2, 3, 4, 5}, []float64{7, 7, 7, 7, 7}, 0.95)
+	if l.Intercept.SE != 0 || !math.IsInf(l.Intercept.T, 1) || l.Intercept.P != 0 || !isNaN(l.Slope.T) || !isNaN(l.R2) {
+		t.Errorf("constant y: intercept %+v slope %+v R² %v", l.Intercept, l.Slope, l.R2)
 	}
 }

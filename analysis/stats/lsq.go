@@ -85,6 +85,9 @@ const rankTol = 1e-12
 // infinite, a column is constant, or a column is a linear combination of
 // the others (|Rⱼⱼ| < 1e-12·‖colⱼ − x̄ⱼ‖). With exactly p+1 rows the fit is
 // exact: DFResid is 0 and SE, T, P, intervals, ResidualSE, AdjR2, F are NaN.
+// With more rows but RSS = 0 (y constant, or exactly on the model) every
+// SE is 0: a nonzero estimate then has T = ±Inf and P = 0, a zero one T and
+// P NaN (0/0); R² is NaN when y is constant (TSS = 0).
 func LeastSquares(cols [][]float64, y []float64, conf float64) (Regression, error) {
 	n, p := len(y), len(cols)
 	for j, c := range cols {

@@ -850,7 +850,7 @@ func (f *facts) limits(out *report.Findings) {
 		case !(float64(pc.P) < f.alpha):
 			add("Holding %s fixed, the correlation of %s and %s is %s: no longer shown, but the interval is too wide to tell whether %s carries the association.", cov, x, y, pt, cov)
 		default:
-			add("Holding %s fixed, the correlation of %s and %s is %s: the association does not come from %s.", cov, x, y, pt, cov)
+			add("Holding %s fixed, the correlation of %s and %s is %s: the association remains, so it does not come from %s alone (as far as a straight-line adjustment for it can tell).", cov, x, y, pt, cov)
 		}
 	}
 
@@ -869,9 +869,9 @@ func (f *facts) limits(out *report.Findings) {
 		add("No run order was declared, so drift over time was not checked.")
 	case d == nil:
 	case out.Drift:
-		add("The residuals drift in run order (%s): time, or something changing with it, may act on %s besides %s.", f.orderFigures(), y, x)
+		add("The residuals drift in run order (by %s; %s): time, or something changing with it, may act on %s besides %s.", f.orderLabel(), f.orderFigures(), y, x)
 	default:
-		add("The residuals show no drift in run order (%s).", f.orderFigures())
+		add("The residuals show no drift in run order (by %s; %s).", f.orderLabel(), f.orderFigures())
 	}
 }
 
@@ -888,6 +888,14 @@ func (f *facts) covariateLabels(names []string) []string {
 		}
 	}
 	return out
+}
+
+// orderLabel names the run-order column for people.
+func (f *facts) orderLabel() string {
+	if f.s.OrderLabel != "" {
+		return f.s.OrderLabel
+	}
+	return f.s.Order
 }
 
 // groupLabel names the group column for people: Study.GroupLabel, else
@@ -982,6 +990,8 @@ func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 	case out.Reversal:
 		add("Within each %s the direction reverses: pooled, %s %s with %s, but within groups it goes the other way (%s). The pooled relationship comes from differences between the groups.",
 			f.groupLabel(), f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, detail)
+	case f.rdir == "none":
+		add("Within each %s a line was fitted (%s); the pooled data show no direction, so there is none to reverse, and most groups do not agree on one.", f.groupLabel(), detail)
 	default:
 		add("Within each %s the lines were checked for a reversal of direction and none was found (%s).", f.groupLabel(), detail)
 	}

@@ -262,7 +262,7 @@ func TestAssessCovariate(t *testing.T) {
 	}
 	s.Partial[0].R, s.Partial[0].CILow, s.Partial[0].CIHigh, s.Partial[0].P = 0.05, -0.23, 0.32, 0.7
 	text := all(f)
-	if !strings.Contains(text, "ambient_rh may carry the association") || !strings.Contains(text, "does not come from line_speed") {
+	if !strings.Contains(text, "ambient_rh may carry the association") || !strings.Contains(text, "does not come from line_speed alone") {
 		t.Errorf("limits do not report both covariates:\n%s", text)
 	}
 }

@@ -10,7 +10,8 @@ import (
 )
 
 // num writes v with three significant digits, without an exponent for
-// magnitudes between 0.001 and one million.
+// magnitudes between 0.001 and one million and as people write powers of
+// ten beyond: 2.50×10⁻⁵.
 func num(v float64) string {
 	switch {
 	case math.IsNaN(v) || math.IsInf(v, 0):
@@ -20,7 +21,7 @@ func num(v float64) string {
 	}
 	a := math.Abs(v)
 	if a < 1e-3 || a >= 1e6 {
-		return minus(strconv.FormatFloat(v, 'e', 2, 64))
+		return sci(v)
 	}
 	d := 2 - int(math.Floor(math.Log10(a)))
 	if d < 0 {
@@ -31,6 +32,20 @@ func num(v float64) string {
 		t = strings.TrimRight(strings.TrimRight(t, "0"), ".")
 	}
 	return minus(t)
+}
+
+// sci writes v as m×10ⁿ with three significant digits.
+func sci(v float64) string {
+	t := strconv.FormatFloat(v, 'e', 2, 64) // "-2.50e-05"
+	i := strings.IndexByte(t, 'e')
+	e, err := strconv.Atoi(t[i+1:])
+	if err != nil {
+		return minus(t)
+	}
+	exp := strconv.Itoa(e)
+	exp = strings.NewReplacer("-", "⁻", "0", "⁰", "1", "¹", "2", "²", "3", "³", "4", "⁴",
+		"5", "⁵", "6", "⁶", "7", "⁷", "8", "⁸", "9", "⁹").Replace(exp)
+	return minus(t[:i]) + "×10" + exp
 }
 
 // corr writes a correlation (or R²) with two decimals, more when it is so
@@ -188,15 +203,17 @@ func withUnit(v float64, u string) string {
 }
 
 // perUnit names the slope's unit from the two unit symbols: "% per °C",
-// or words when units are not declared.
+// "per °C" when y has no unit, "% per unit of melt" when x has none, and
+// "per unit of melt" when neither has.
 func perUnit(yu, xu, xLabel string) string {
-	if yu == "" {
-		yu = "units"
-	}
+	per := "per " + xu
 	if xu == "" {
-		return fmt.Sprintf("%s per unit of %s", yu, xLabel)
+		per = "per unit of " + xLabel
 	}
-	return yu + " per " + xu
+	if yu == "" {
+		return per
+	}
+	return yu + " " + per
 }
 
 // span writes a range "4 to 14 °C".

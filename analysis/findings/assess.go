@@ -765,7 +765,17 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 			return " (without row " + row + ")"
 		}
 		lo, hi := corrPair(float64(se.LooRMin), float64(se.LooRMax))
-		add("Leaving out one row at a time, r ranges from %s%s to %s%s.", lo, without(se.LooRMinRow), hi, without(se.LooRMaxRow))
+		var undefined []string
+		for _, w := range se.WithoutEach {
+			if !w.R.Valid() {
+				undefined = append(undefined, w.Row)
+			}
+		}
+		extra := ""
+		if len(undefined) > 0 {
+			extra = fmt.Sprintf(" among the rows whose removal leaves r defined; without %s alone, r cannot be computed", listRows(undefined))
+		}
+		add("Leaving out one row at a time, r ranges from %s%s to %s%s%s.", lo, without(se.LooRMinRow), hi, without(se.LooRMaxRow), extra)
 	}
 	if se.ResistantSlope.Valid() && s.Line != nil && s.Line.Slope != nil {
 		method := ""

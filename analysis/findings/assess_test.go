@@ -518,3 +518,14 @@ func TestPvalVs(t *testing.T) {
 		}
 	}
 }
+
+// TestAssessLeaveOneOutUndefined: when leaving out a row makes r
+// undefined, the leave-one-out range says so rather than hiding it.
+func TestAssessLeaveOneOutUndefined(t *testing.T) {
+	s := study(0.8, 1e-4)
+	s.Sensitivity.NFlagged = 1
+	s.Sensitivity.WithoutEach = []report.Without{{Row: "8", R: report.NaN(), Slope: report.NaN(), Intercept: report.NaN()}}
+	if text := all(Assess(s, ctx)); !strings.Contains(text, "without row 8 alone, r cannot be computed") {
+		t.Errorf("leave-one-out range hides the undefined r:\n%s", text)
+	}
+}

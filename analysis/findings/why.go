@@ -154,6 +154,9 @@ func (f *facts) formWhy(out *report.Findings) string {
 		return "Nonlinear: " + joinAnd(parts) + "; neither the line nor the quadratic describes the pattern."
 	case "linear":
 		w := fmt.Sprintf("Linear: r differs clearly from 0 (%s) and the quadratic does not qualify as a curve", f.pBoth())
+		if f.quad == nil {
+			w += " (no quadratic could be fitted: too few rows or distinct values of x)"
+		}
 		if q := f.quad; q != nil && q.R2.Valid() {
 			l, c := corrPair(lineR2, float64(q.R2))
 			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic; a curve needs the x² term and the quadratic significant at %s and a gain in R² of at least %s)",

@@ -41,19 +41,27 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 	if e.Direction != "" {
 		add("direction", e.Direction, func() (string, bool, string) {
 			got := s.Findings.Direction
-			if got == e.Direction {
-				return got, true, fmt.Sprintf("the direction is %s as expected; %s", got, rText())
+			why := s.Findings.DirectionWhy
+			if why == "" {
+				why = rText()
 			}
-			return got, false, fmt.Sprintf("expected a %s direction but found %s; %s", e.Direction, got, rText())
+			if got == e.Direction {
+				return got, true, fmt.Sprintf("%s, as expected. %s", directionWords(got), why)
+			}
+			return got, false, fmt.Sprintf("expected %s but found %s. %s", directionWords(e.Direction), directionWords(got), why)
 		})
 	}
 	if e.Form != "" {
 		add("form", e.Form, func() (string, bool, string) {
 			got := s.Findings.Form
-			if got == e.Form {
-				return got, true, fmt.Sprintf("the form is %s as expected", got)
+			why := ""
+			if w := s.Findings.FormWhy; w != "" {
+				why = " " + w
 			}
-			return got, false, fmt.Sprintf("expected the form %s but found %s", e.Form, got)
+			if got == e.Form {
+				return got, true, fmt.Sprintf("the form is %s, as expected.%s", got, why)
+			}
+			return got, false, fmt.Sprintf("expected the form %s but found %s.%s", e.Form, got, why)
 		})
 	}
 	if e.MinAbsR != nil {
@@ -136,6 +144,17 @@ func itThem(n int) string {
 		return "it"
 	}
 	return "them"
+}
+
+// directionWords names a direction verdict in a sentence.
+func directionWords(d string) string {
+	switch d {
+	case "positive", "negative":
+		return "a " + d + " direction"
+	case "none":
+		return "no direction"
+	}
+	return "direction " + d
 }
 
 // within checks lo ≤ v ≤ hi for the two-element range w.

@@ -82,3 +82,16 @@ func TestTooFewRowsGrammar(t *testing.T) {
 		}
 	}
 }
+
+// TestExpectationDirectionReason: a direction gate gives the findings'
+// reason for the direction found, so a curve that turns over is not
+// reported with only an r whose interval excludes 0.
+func TestExpectationDirectionReason(t *testing.T) {
+	s := expectStudy()
+	s.Findings.Direction = "none"
+	s.Findings.DirectionWhy = "None: the curve turns over inside the observed range."
+	e := Expectations(s, &manifest.Expect{Direction: "negative"}, 0.05, "holm")
+	if e[0].OK || e[0].Detail != "expected a negative direction but found no direction. None: the curve turns over inside the observed range." {
+		t.Errorf("direction gate: %+v", e[0])
+	}
+}

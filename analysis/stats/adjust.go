@@ -42,7 +42,9 @@ func BenjaminiHochberg(p []float64) []float64 {
 	running := 1.0
 	for j := len(idx) - 1; j >= 0; j-- {
 		i := idx[j]
-		v := math.Min(1, m*p[i]/float64(j+1))
+		// m/(j+1) ≥ 1, but m·p/(j+1) can round an ulp below p (found by
+		// FuzzExtrasNoPanic): an adjusted value is never below the raw one.
+		v := math.Min(1, math.Max(p[i], m*p[i]/float64(j+1)))
 		running = math.Min(running, v)
 		out[i] = running
 	}

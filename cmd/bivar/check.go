@@ -18,10 +18,10 @@ import (
 )
 
 func runCheck(_ context.Context, args []string, stdout, stderr io.Writer) int {
-	fs := newFlagSet("check", stderr)
+	fs := newFlagSet("check")
 	junit := fs.String("junit", "", "write JUnit XML to `FILE` (one test case per expectation)")
 	summary := fs.String("summary", "", "write a Markdown summary for a CI job page to `FILE`")
-	if code, ok := parseFlags(fs, args); !ok {
+	if code, ok := parseFlags(fs, args, stdout, stderr); !ok {
 		return code
 	}
 	if fs.NArg() != 1 {
@@ -37,13 +37,7 @@ func runCheck(_ context.Context, args []string, stdout, stderr io.Writer) int {
 	// compute tells the user on stderr why it failed; keep a copy for the
 	// CI files, so a failed run replaces them instead of leaving stale ones.
 	var msg bytes.Buffer
-	var rep *report.Report
-	code := exitFailed
-	if err := manifestArg(fs.Arg(0)); err != nil {
-		fmt.Fprintf(io.MultiWriter(stderr, &msg), "bivar check: %v\n", err)
-	} else {
-		rep, _, code = compute(fs.Arg(0), io.MultiWriter(stderr, &msg))
-	}
+	rep, _, code := compute(fs.Arg(0), io.MultiWriter(stderr, &msg))
 	if rep == nil {
 		if *junit != "" {
 			if err := writeWith(*junit, func(w io.Writer) error { return gate.JUnitFailedRun(w, fs.Arg(0), msg.String()) }); err != nil {

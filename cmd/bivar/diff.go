@@ -26,11 +26,11 @@ import (
 var failOnChoices = []string{"verdict", "significant"}
 
 func runDiff(_ context.Context, args []string, stdout, stderr io.Writer) int {
-	flags := newFlagSet("diff", stderr)
+	flags := newFlagSet("diff")
 	out := flags.String("o", "diff", "output `DIR` for diff.html, diff.md and diff.json")
 	failOn := flags.String("fail-on", "", "comma-separated `LIST` of changes that give exit status 3: verdict, significant")
 	theme := flags.String("theme", themes.Default, "HTML theme `NAME`: "+strings.Join(themes.Names(), ", "))
-	if code, ok := parseFlags(flags, args); !ok {
+	if code, ok := parseFlags(flags, args, stdout, stderr); !ok {
 		return code
 	}
 	if flags.NArg() != 2 {

@@ -7,33 +7,37 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strings"
 )
 
-// newFlagSet returns a FlagSet for the named command whose -h prints the
-// command's help from the table.
-func newFlagSet(name string, stderr io.Writer) *flag.FlagSet {
+// newFlagSet returns a FlagSet for the named command. Its errors are
+// reported by parseFlags, which prefixes them with the command's name.
+func newFlagSet(name string) *flag.FlagSet {
 	fs := flag.NewFlagSet(name, flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	fs.Usage = func() {
-		c := lookup(name)
-		fmt.Fprintf(stderr, "usage: %s\n\n%s\n\nOptions:\n", c.Usage, c.Long)
-		fs.PrintDefaults()
-	}
+	fs.SetOutput(io.Discard)
+	fs.Usage = func() {}
 	return fs
 }
 
 // parseFlags parses args, allowing flags after the positional arguments
 // (`bivar run bivar.toml -o out` as well as `bivar run -o out bivar.toml`).
 // The positional arguments are left in fs.Args(). It returns ok=false with
-// the exit status when parsing ended the command: 0 after -h, 2 on a
-// usage error (the flag package has already said what was wrong).
-func parseFlags(fs *flag.FlagSet, args []string) (code int, ok bool) {
+// the exit status when parsing ended the command: 0 after -h (the full
+// help on stdout), 2 on a usage error (the error, the usage line and where
+// to read more on stderr).
+func parseFlags(fs *flag.FlagSet, args []string, stdout, stderr io.Writer) (code int, ok bool) {
 	var positional []string
 	for {
 		if err := fs.Parse(args); err != nil {
+			c := lookup(fs.Name())
 			if errors.Is(err, flag.ErrHelp) {
+				commandHelp(stdout, c)
+				if options := flagDefaults(fs); options != "" {
+					fmt.Fprintf(stdout, "\nOptions:\n%s", options)
+				}
 				return exitOK, false
 			}
+			fmt.Fprintf(stderr, "bivar %s: %v\nusage: %s\nRun 'bivar help %s' for details.\n", c.Name, err, c.Usage, c.Name)
 			return exitUsage, false
 		}
 		args = fs.Args()
@@ -50,4 +54,13 @@ func parseFlags(fs *flag.FlagSet, args []string) (code int, ok bool) {
 	// Re-parse an empty list so fs.Args() reports the positional arguments.
 	_ = fs.Parse(append([]string{"--"}, positional...))
 	return exitOK, true
+}
+
+// flagDefaults returns the flag package's list of fs's options.
+func flagDefaults(fs *flag.FlagSet) string {
+	var b strings.Builder
+	fs.SetOutput(&b)
+	fs.PrintDefaults()
+	fs.SetOutput(io.Discard)
+	return b.String()
 }

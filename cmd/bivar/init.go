@@ -32,10 +32,10 @@ const initMaxPairs = 30
 const initMaxGroupLevels = 12
 
 func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
-	flags := newFlagSet("init", stderr)
+	flags := newFlagSet("init")
 	out := flags.String("o", "", "write the manifest to `MANIFEST`, or to bivar.toml in it when it is a folder (default: bivar.toml beside the CSV)")
 	force := flags.Bool("force", false, "overwrite an existing manifest")
-	if code, ok := parseFlags(flags, args); !ok {
+	if code, ok := parseFlags(flags, args, stdout, stderr); !ok {
 		return code
 	}
 	if flags.NArg() != 1 {

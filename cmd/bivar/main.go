@@ -58,7 +58,9 @@ input or a failed study, 2 on a usage error, 3 when an expectation failed.`,
 needs: a short summary on stderr, and optionally JUnit XML (--junit, one
 test case per expectation) and a Markdown summary (--summary).
 
-Exit status: 0 when every expectation held, 3 when one failed, 1 on bad input.`,
+Exit status: 0 when every study ran and every expectation held, 1 on bad
+input or when a study did not run, 2 on a usage error, 3 when an
+expectation failed.`,
 			Run: runCheck,
 		},
 		{
@@ -82,7 +84,8 @@ removed. Writes diff.html, diff.md and diff.json to -o DIR (default: diff).
 manifest (default bivar.toml beside the CSV) with each key documented and
 the first sensible pair as a study and every other pair left commented out
 for you to choose, so "bivar init" then "bivar run" gives a first report.
-An existing manifest is never overwritten without --force.`,
+An existing manifest is never overwritten without --force. A file without
+at least two numeric columns that vary is refused: there is nothing to pair.`,
 			Run: runInit,
 		},
 		{
@@ -141,8 +144,12 @@ what may not be claimed.
 Usage:
 
 `)
+	width := 0
 	for _, c := range commands() {
-		fmt.Fprintf(w, "  %-58s %s\n", c.Usage, c.Short)
+		width = max(width, len(c.Usage))
+	}
+	for _, c := range commands() {
+		fmt.Fprintf(w, "  %-*s  %s\n", width, c.Usage, c.Short)
 	}
 	fmt.Fprint(w, `
 Examples:
@@ -188,8 +195,8 @@ func lookup(name string) command {
 }
 
 func runVersion(_ context.Context, args []string, stdout, stderr io.Writer) int {
-	fs := newFlagSet("version", stderr)
-	if code, ok := parseFlags(fs, args); !ok {
+	fs := newFlagSet("version")
+	if code, ok := parseFlags(fs, args, stdout, stderr); !ok {
 		return code
 	}
 	if fs.NArg() != 0 {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"flag"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -57,7 +58,8 @@ func TestUsageErrors(t *testing.T) {
 		{"help-unknown", []string{"help", "rnu"}, exitUsage, `unknown command "rnu"`},
 		{"run-no-manifest", []string{"run"}, exitUsage, "want one manifest, got 0 arguments"},
 		{"run-two-manifests", []string{"run", "a.toml", "b.toml"}, exitUsage, "want one manifest, got 2 arguments"},
-		{"run-bad-flag", []string{"run", "-x", "a.toml"}, exitUsage, "flag provided but not defined: -x"},
+		{"run-bad-flag", []string{"run", "-x", "a.toml"}, exitUsage, "bivar run: flag provided but not defined: -x\nusage: bivar run [-o DIR] MANIFEST\nRun 'bivar help run' for details.\n"},
+		{"run-folder", []string{"run", t.TempDir()}, exitFailed, "is a folder: give the manifest file itself"},
 		{"run-missing-file", []string{"run", filepath.Join(t.TempDir(), "absent.toml")}, exitFailed, "absent.toml"},
 		{"version-argument", []string{"version", "x"}, exitUsage, "takes no arguments"},
 	}
@@ -79,12 +81,12 @@ func TestHelpFlag(t *testing.T) {
 		if c.Run == nil {
 			continue
 		}
-		code, _, stderr := call(t, c.Name, "-h")
+		code, stdout, stderr := call(t, c.Name, "-h")
 		if code != exitOK {
 			t.Errorf("bivar %s -h: exit %d, want 0", c.Name, code)
 		}
-		if !strings.Contains(stderr, "usage: "+c.Usage) {
-			t.Errorf("bivar %s -h: no usage line in:\n%s", c.Name, stderr)
+		if !strings.HasPrefix(stdout, "usage: "+c.Usage) || stderr != "" {
+			t.Errorf("bivar %s -h: want the help on stdout and nothing on stderr; stdout:\n%s\nstderr:\n%s", c.Name, stdout, stderr)
 		}
 	}
 }
@@ -97,9 +99,9 @@ func TestVersion(t *testing.T) {
 }
 
 func TestParseFlagsInterleaved(t *testing.T) {
-	fs := newFlagSet("run", new(bytes.Buffer))
+	fs := newFlagSet("run")
 	o := fs.String("o", "", "")
-	if _, ok := parseFlags(fs, []string{"m.toml", "-o", "out"}); !ok {
+	if _, ok := parseFlags(fs, []string{"m.toml", "-o", "out"}, io.Discard, io.Discard); !ok {
 		t.Fatal("parse failed")
 	}
 	if *o != "out" || fs.NArg() != 1 || fs.Arg(0) != "m.toml" {

@@ -17,9 +17,9 @@ import (
 )
 
 func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	fs := newFlagSet("run", stderr)
+	fs := newFlagSet("run")
 	out := fs.String("o", "", "output `DIR` (default: [output] dir of the manifest, relative to its folder)")
-	if code, ok := parseFlags(fs, args); !ok {
+	if code, ok := parseFlags(fs, args, stdout, stderr); !ok {
 		return code
 	}
 	if fs.NArg() != 1 {
@@ -52,6 +52,10 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 // compute loads the manifest and runs every study. On failure it has
 // already told the user why and returns a nil report with the exit status.
 func compute(path string, stderr io.Writer) (*report.Report, *manifest.Manifest, int) {
+	if err := manifestArg(path); err != nil {
+		fmt.Fprintf(stderr, "bivar: %v\n", err)
+		return nil, nil, exitFailed
+	}
 	m, err := manifest.Load(path)
 	if err != nil {
 		fmt.Fprintf(stderr, "bivar: %v\n", err)
@@ -83,6 +87,10 @@ func status(rep *report.Report, stderr io.Writer) int {
 		if s.Error != nil {
 			failedStudy = true
 			fmt.Fprintf(stderr, "bivar: study %q did not run: %s\n", s.ID, *s.Error)
+			if len(s.Expectations) > 0 {
+				fmt.Fprintf(stderr, "bivar: study %q: %s not evaluated\n", s.ID, plural(len(s.Expectations), "expectation", "expectations"))
+			}
+			continue
 		}
 		for _, e := range s.Expectations {
 			if !e.OK {

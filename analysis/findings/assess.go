@@ -116,6 +116,10 @@ type facts struct {
 //   - drift: only with a declared run order: the residual trend's p is below
 //     alpha, or Durbin–Watson lies outside [DriftDW, 4 − DriftDW].
 //   - spread_changes: Breusch–Pagan p below alpha.
+//
+// FormWhy, DirectionWhy and StrengthWhy say, for each of the three
+// verdicts, which of these rules decided it and the figures it read (see
+// why.go); the headline, statements and limits carry the rest.
 func Assess(s *report.Study, ctx Context) *report.Findings {
 	if s == nil || s.Error != nil || s.Pearson == nil {
 		return nil

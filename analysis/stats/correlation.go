@@ -207,7 +207,14 @@ func Spearman(x, y []float64) (rho, p float64) {
 //	      + [Σt(t−1)(t−2)]·[Σu(u−1)(u−2)] / (9n(n−1)(n−2))
 //
 // over the tie groups t of x and u of y; this is scipy.stats.kendalltau's
-// asymptotic p for variant "b".
+// asymptotic p for variant "b". Without ties and with n ≤ KendallExactMaxN
+// the p-value is instead exact: twice the lower tail of the number of
+// discordant pairs, whose null distribution is that of the inversions of a
+// random permutation (Kendall 1970, ch. 4; computed by the recursion
+// P_j(k) = (1/j)·Σ_{i<j} P_{j−1}(k−i) over the first j ranks), capped at 1 —
+// the rule and the value of scipy.stats.kendalltau's default
+// method="auto", where the normal approximation is poor (n = 5 without
+// ties: exact 0.0167, normal 0.0275 for τ = 1).
 //
 // x and y must have equal length and fewer than 2³¹ values (it panics
 // otherwise). τ-b and p are NaN when a value is NaN (±Inf are ranked like
@@ -288,10 +295,49 @@ func KendallTauB(x, y []float64) (tau, p float64) {
 	if n > 2 {
 		v += tx.v2 * ty.v2 / (9 * nf * (nf - 1) * (nf - 2))
 	}
+	if tx.pairs == 0 && ty.pairs == 0 && n <= KendallExactMaxN {
+		return tau, kendallExactP(n, swaps)
+	}
 	if !(v > 0) {
 		return tau, math.NaN()
 	}
 	return tau, TwoSidedNormal(float64(s) / math.Sqrt(v))
+}
+
+// KendallExactMaxN is the largest n for which KendallTauB gives the exact
+// p-value when neither variable has ties (scipy 1.10's rule for
+// method="auto").
+const KendallExactMaxN = 33
+
+// kendallExactP returns the exact two-sided p-value of Kendall's test for n
+// untied pairs with d discordant pairs: 2·P(D ≤ min(d, n0 − d)) under
+// independence, capped at 1 (see KendallTauB).
+func kendallExactP(n int, d int64) float64 {
+	n0 := int64(n) * int64(n-1) / 2
+	c := int(min(d, n0-d))
+	if 4*int64(c) == int64(n)*int64(n-1) {
+		return 1
+	}
+	prob := make([]float64, c+1) // P_j(k) for k = 0..c
+	prob[0] = 1
+	next := make([]float64, c+1)
+	for j := 2; j <= n; j++ {
+		// next[k] = (1/j)·Σ_{i=0}^{j−1} prob[k−i], a sliding window sum.
+		var win float64
+		for k := 0; k <= c; k++ {
+			win += prob[k]
+			if k-j >= 0 {
+				win -= prob[k-j]
+			}
+			next[k] = win / float64(j)
+		}
+		prob, next = next, prob
+	}
+	var tail float64
+	for _, v := range prob {
+		tail += v
+	}
+	return math.Min(1, 2*tail)
 }
 
 // hasNaN reports whether v holds a NaN.

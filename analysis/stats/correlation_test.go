@@ -2,6 +2,7 @@ package stats
 
 import (
 	"math"
+	"math/big"
 	"math/rand/v2"
 	"testing"
 )
@@ -11,16 +12,19 @@ import (
 // shared/reference/anscombe.csv and on the ties case below:
 //
 //	rho, p = scipy.stats.spearmanr(x, y)                     (average ranks; p by t, n−2 df)
-//	tau, p = scipy.stats.kendalltau(x, y, variant="b", method="asymptotic")
+//	tau, p = scipy.stats.kendalltau(x, y)                    (variant "b", method "auto": exact p
+//	                                                          for sets I–III, n = 11 without ties;
+//	                                                          asymptotic with the tie-corrected
+//	                                                          variance for IV and "ties")
 //	r, p   = scipy.stats.pearsonr(x, y); CI = tanh(atanh(r) ∓ 1.959963984540054/√(n−3))
 var rankRef = []struct {
 	name               string
 	spearman, spearmnP float64
 	tau, tauP          float64
 }{
-	{"I", 0.8181818181818182, 0.0020831448404786904, 0.6363636363636364, 0.006435091231559117},
-	{"II", 0.690909090909091, 0.018565033381595004, 0.5636363636363636, 0.01580677460730225},
-	{"III", 0.990909090909091, 3.762571807085399e-09, 0.9636363636363636, 3.6905604049815226e-05},
+	{"I", 0.8181818181818182, 0.0020831448404786904, 0.6363636363636364, 0.005707170915504249},
+	{"II", 0.690909090909091, 0.018565033381595004, 0.5636363636363636, 0.016540504248837583},
+	{"III", 0.990909090909091, 3.762571807085399e-09, 0.9636363636363636, 5.511463844797178e-07},
 	{"IV", 0.5, 0.11730680301423815, 0.42640143271122083, 0.11384629800665805},
 	{"ties", 0.9501488095238095, 1.7974520018768076e-08, 0.8495575221238938, 1.1384268182456134e-05},
 }
@@ -118,7 +122,8 @@ func TestRanks(t *testing.T) {
 	}
 }
 
-// naiveTauB is τ-b and its tie-corrected normal p by the O(n²) definition.
+// naiveTauB is τ-b by the O(n²) definition, with the exact p (untied,
+// n ≤ KendallExactMaxN) or the tie-corrected normal p.
 func naiveTauB(x, y []float64) (tau, p float64) {
 	n := len(x)
 	var s, tx, ty float64
@@ -153,6 +158,39 @@ func naiveTauB(x, y []float64) (tau, p float64) {
 	}
 	a0, a1, a2 := groups(x)
 	b0, b1, b2 := groups(y)
+	if tx == 0 && ty == 0 && n <= KendallExactMaxN {
+		// Exact: the discordant count D = (n0 − S)/2 is distributed as the
+		// inversions of a random permutation; count permutations of n
+		// with k inversions exactly (Mahonian numbers, big integers, the
+		// plain recursion I_j(k) = Σ_{i<j} I_{j−1}(k−i)).
+		d := int((n0 - s) / 2)
+		c := min(d, int(n0)-d)
+		cnt := []*big.Int{big.NewInt(1)}
+		for j := 2; j <= n; j++ {
+			next := make([]*big.Int, len(cnt)+j-1)
+			for k := range next {
+				next[k] = new(big.Int)
+				for i := 0; i < j && i <= k; i++ {
+					if k-i < len(cnt) {
+						next[k].Add(next[k], cnt[k-i])
+					}
+				}
+			}
+			cnt = next
+		}
+		tail, all := new(big.Int), new(big.Int)
+		for k, v := range cnt {
+			all.Add(all, v)
+			if k <= c {
+				tail.Add(tail, v)
+			}
+		}
+		pr, _ := new(big.Rat).SetFrac(tail.Mul(tail, big.NewInt(2)), all).Float64()
+		if 4*c == n*(n-1) {
+			pr = 1
+		}
+		return tau, math.Min(1, pr)
+	}
 	nf := float64(n)
 	v := (nf*(nf-1)*(2*nf+5)-a0-b0)/18 + a1*b1/(2*nf*(nf-1)) + a2*b2/(9*nf*(nf-1)*(nf-2))
 	return tau, math.Erfc(math.Abs(s/math.Sqrt(v)) / math.Sqrt2)
@@ -323,6 +361,76 @@ func TestCorrelationEdges(t *testing.T) {
 	} {
 		if !corePanics(f) {
 			t.Errorf("%s: no panic on length mismatch", name)
+		}
+	}
+}
+
+// TestKendallExact checks the exact p-value of τ-b without ties against
+// scipy 1.10.1 scipy.stats.kendalltau(x, y) (default method "auto", which
+// is exact here), printed with repr, and against the full enumeration of
+// all permutations of y for n ≤ 7 (p = share of the n! orderings with
+// |S| at least the observed, the definition of the exact two-sided test).
+func TestKendallExact(t *testing.T) {
+	t.Parallel()
+	seq := func(n, mul int) (x, y []float64) {
+		x, y = make([]float64, n), make([]float64, n)
+		for i := range x {
+			x[i], y[i] = float64(i), float64((mul*i)%n)
+		}
+		return x, y
+	}
+	x33, y33 := seq(33, 7)
+	x34, y34 := seq(34, 7)
+	for _, tc := range []struct {
+		name   string
+		x, y   []float64
+		tau, p float64
+	}{
+		{"n=5 τ=1", []float64{1, 2, 3, 4, 5}, []float64{1, 2, 3, 4, 5}, 1, 0.016666666666666666},
+		{"n=5", []float64{1, 2, 3, 4, 5}, []float64{2, 1, 4, 3, 5}, 0.6, 0.23333333333333334},
+		{"n=33 exact", x33, y33, 0.14772727272727273, 0.2348656206939674},
+		{"n=34 normal", x34, y34, 0.251336898395722, 0.03659566165329499},
+	} {
+		tau, p := KendallTauB(tc.x, tc.y)
+		if !coreClose(tau, tc.tau, 1e-15) || !coreClose(p, tc.p, 1e-13*tc.p) {
+			t.Errorf("%s: τ-b %.17g p %.17g; scipy %.17g p %.17g", tc.name, tau, p, tc.tau, tc.p)
+		}
+	}
+	// Enumeration: every permutation y of 0..n−1 against x = 0..n−1.
+	for n := 2; n <= 7; n++ {
+		var all [][]float64
+		var perm func(a []float64, k int)
+		perm = func(a []float64, k int) {
+			if k == len(a) {
+				all = append(all, append([]float64(nil), a...))
+				return
+			}
+			for i := k; i < len(a); i++ {
+				a[k], a[i] = a[i], a[k]
+				perm(a, k+1)
+				a[k], a[i] = a[i], a[k]
+			}
+		}
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = float64(i)
+		}
+		perm(append([]float64(nil), x...), 0)
+		taus := make([]float64, len(all))
+		for k, y := range all {
+			taus[k], _ = KendallTauB(x, y)
+		}
+		for k, y := range all {
+			ge := 0
+			for _, u := range taus {
+				if math.Abs(u) >= math.Abs(taus[k])-1e-12 {
+					ge++
+				}
+			}
+			want := float64(ge) / float64(len(all))
+			if _, p := KendallTauB(x, y); !coreClose(p, want, 1e-13) {
+				t.Fatalf("n=%d y=%v: p %.17g, enumeration %.17g", n, y, p, want)
+			}
 		}
 	}
 }

@@ -29,6 +29,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"bivar/analysis/internal/suggest"
 )
@@ -373,6 +374,8 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `: it has a decimal point, but the dataset declares decimal = ","`
 	case hasPoint && hasComma:
 		msg += `: it shows both a point and a comma; thousands separators are not accepted, write the number without them`
+	case !utf8.ValidString(cell):
+		msg += `: it is not valid UTF-8 text; save the file as UTF-8 (an export in another encoding, such as Windows-1252, shows this)`
 	default:
 		msg += `; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`
 	}
@@ -533,7 +536,7 @@ func csvError(path string, err error, rec []string, want int) error {
 	switch {
 	case errors.Is(pe.Err, csv.ErrFieldCount):
 		e.Line = pe.StartLine
-		e.Msg = fmt.Sprintf("this row has %d fields but the header has %d: look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes", len(rec), want)
+		e.Msg = fmt.Sprintf("this row has %s but the header has %d: look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes", fieldCount(len(rec)), want)
 	case errors.Is(pe.Err, csv.ErrBareQuote):
 		e.Msg = fmt.Sprintf("a double quote inside an unquoted field (character %d): put the whole field in double quotes and write the quote twice (\"\")", pe.Column)
 	case errors.Is(pe.Err, csv.ErrQuote):
@@ -542,4 +545,11 @@ func csvError(path string, err error, rec []string, want int) error {
 		e.Msg = pe.Err.Error()
 	}
 	return e
+}
+
+func fieldCount(n int) string {
+	if n == 1 {
+		return "1 field"
+	}
+	return fmt.Sprintf("%d fields", n)
 }

@@ -23,6 +23,7 @@ func FuzzHostileNames(f *testing.F) {
 			st := &r.Studies[i]
 			st.ID, st.Title, st.Notes = s+st.ID, s, s
 			st.X.Label, st.Y.Unit, st.Group = s, s, s
+			st.X.Symbol, st.Y.Symbol, st.GroupLabel, st.OrderLabel = s, s, s, s
 			if st.Plot != nil {
 				for k := range st.Plot.Rows {
 					st.Plot.Rows[k] = s

@@ -28,8 +28,22 @@ func mdEscape(s string, lead bool) string {
 	}
 	for i, r := range rs {
 		switch r {
-		case '\\', '`', '*', '[', ']', '~':
+		case '\\', '`', '*', '~':
 			b.WriteByte('\\')
+			b.WriteRune(r)
+		case '[':
+			// "![" opens an image.
+			if at(i-1) == '!' {
+				b.WriteByte('\\')
+			}
+			b.WriteRune(r)
+		case ']':
+			// "](" and "][" make a link, "]:" a link reference definition;
+			// "[degF]" alone could only be a link if a definition for it
+			// existed, and mdNotes keeps the notes from making one.
+			if n := at(i + 1); n == '(' || n == '[' || n == ':' {
+				b.WriteByte('\\')
+			}
 			b.WriteRune(r)
 		case '<':
 			// Only "<" before a letter, "/", "!" or "?" can open an HTML
@@ -198,7 +212,20 @@ func mdTable(t table) string {
 // entity so raw HTML in the notes shows as text in any Markdown viewer,
 // and "![" escaped so an image in the notes is not fetched by the viewer
 // (the HTML report shows images as their alt text for the same reason).
+// A line that would define a link reference ("[label]: url") has its "["
+// escaped: a definition applies to the whole document and would turn
+// bracketed text elsewhere in the report ("[degF]") into a link. Inline
+// links in the notes keep working.
 func mdNotes(s string) string {
 	s = strings.ReplaceAll(strings.TrimSpace(s), "\r\n", "\n")
-	return strings.NewReplacer("<", "&lt;", "![", "!\\[").Replace(s)
+	s = strings.NewReplacer("<", "&lt;", "![", "!\\[").Replace(s)
+	lines := strings.Split(s, "\n")
+	for i, l := range lines {
+		t := strings.TrimLeft(l, " >")
+		if strings.HasPrefix(t, "[") && strings.Contains(t, "]:") {
+			k := len(l) - len(t)
+			lines[i] = l[:k] + "\\" + t
+		}
+	}
+	return strings.Join(lines, "\n")
 }

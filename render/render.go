@@ -115,9 +115,10 @@ func newConfig(opts []Option) (*config, error) {
 }
 
 // pageCSS is the theme plus the print page box with the report's name in
-// the running header.
+// the running header. The page is portrait in the printer's paper size
+// (A4 or Letter: the layout fits both).
 func pageCSS(theme, title string) string {
-	return theme + "\n@page {\n  size: A4;\n  margin: 18mm 14mm 16mm;\n" +
+	return theme + "\n@page {\n  size: portrait;\n  margin: 18mm 14mm 16mm;\n" +
 		"  @top-left { content: " + cssString(title) + "; font: 8pt sans-serif; color: #444444; }\n" +
 		"  @top-right { content: \"bivar report\"; font: 8pt sans-serif; color: #444444; }\n" +
 		"  @bottom-right { content: \"page \" counter(page) \" of \" counter(pages); font: 8pt sans-serif; color: #444444; }\n}\n"
@@ -125,7 +126,9 @@ func pageCSS(theme, title string) string {
 
 // cssString quotes s as a CSS string, escaping every character that is not
 // a letter, digit or space as a CSS hex escape, so no text can end the
-// string or the <style> element.
+// string or the <style> element. Each escape ends with the one space that
+// CSS consumes after a hex escape (CSS Syntax 3, §4.3.7), so a space that
+// follows in s is kept: "demo: line" stays "demo: line".
 func cssString(s string) string {
 	var b strings.Builder
 	b.WriteByte('"')
@@ -136,7 +139,7 @@ func cssString(s string) string {
 		case r < 0x20 || r == 0x7f:
 			b.WriteByte(' ')
 		default:
-			fmt.Fprintf(&b, "\\%06x", r)
+			fmt.Fprintf(&b, "\\%x ", r)
 		}
 	}
 	b.WriteByte('"')

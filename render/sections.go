@@ -336,7 +336,7 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 		return nil, nil
 	}
 	sec := &section{Key: "predictions", Title: "Predictions from the line"}
-	t := table{Caption: fmt.Sprintf("%s at chosen values of %s", withUnit(s.Y), withUnit(s.X)),
+	t := table{Caption: fmt.Sprintf("%s at chosen values of %s", chart.InUnit(s.Y), chart.InUnit(s.X)),
 		Head: []string{"x", "Fitted", "Mean response (" + level + "% confidence)", "One new row (" + level + "% prediction)", "Within observed range"},
 		Num:  []bool{true, true, true, true, false}}
 	for _, p := range s.Predictions {

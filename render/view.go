@@ -264,7 +264,7 @@ func summaryCaption(n int, adjust, level string) string {
 	default:
 		c += "; p adjusted across studies (" + adjust + ")"
 	}
-	return c + ". The study name links to its section."
+	return c + "."
 }
 
 // Table is the summary as a plain table (the Markdown report).
@@ -365,7 +365,7 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 	if sv.Title == "" {
 		sv.Title = s.ID
 	}
-	sv.Pair = fmt.Sprintf("%s against %s · dataset %s · study %s", withUnit(s.Y), withUnit(s.X), s.Dataset, s.ID)
+	sv.Pair = fmt.Sprintf("%s against %s · dataset %s · study %s", chart.InUnit(s.Y), chart.InUnit(s.X), s.Dataset, s.ID)
 	if s.Error != nil {
 		sv.Error = *s.Error
 		return sv, nil

@@ -29,6 +29,15 @@ func AxisTitle(v report.Variable) string {
 	return name + " (" + v.Symbol + ")"
 }
 
+// InUnit is a variable's label followed by "in" and its unit, for
+// sentences and captions: "Surface hardness (Rockwell C) in HRC".
+func InUnit(v report.Variable) string {
+	if v.Symbol == "" {
+		return varName(v)
+	}
+	return varName(v) + " in " + v.Symbol
+}
+
 // GroupName is the group column as people read it: its label, else the
 // column name.
 func GroupName(s *report.Study) string {

@@ -250,6 +250,9 @@ func TestAxisTitle(t *testing.T) {
 			t.Errorf("AxisTitle(%+v) = %q, want %q", tc.v, got, tc.want)
 		}
 	}
+	if got := InUnit(report.Variable{Column: "h", Label: "Hardness (Rockwell C)", Symbol: "HRC"}); got != "Hardness (Rockwell C) in HRC" {
+		t.Errorf("InUnit = %q", got)
+	}
 	s := &report.Study{Group: "quench_tank", GroupLabel: "Quench tank", Order: "load_seq"}
 	if GroupName(s) != "Quench tank" || OrderName(s) != "load_seq" || OrderName(&report.Study{}) != "run order" {
 		t.Errorf("GroupName %q, OrderName %q", GroupName(s), OrderName(s))

@@ -164,9 +164,14 @@ func TestNISTStRD(t *testing.T) {
 			if len(reg.Coef) != len(s.est) {
 				t.Fatalf("%d coefficients, certified %d", len(reg.Coef), len(s.est))
 			}
+			minLRE, count := math.Inf(1), 0
+			defer func() {
+				t.Logf("minimum LRE %.2f over %d certified values (required %g)", minLRE, count, tc.minLRE)
+			}()
 			check := func(name string, got, cert float64) {
 				t.Helper()
 				l := lre(got, cert)
+				minLRE, count = math.Min(minLRE, l), count+1
 				t.Logf("%-10s LRE %5.2f  (got %.15g, certified %.15g)", name, l, got, cert)
 				if l < tc.minLRE {
 					t.Errorf("%s: LRE %.2f < %g (got %.15g, certified %.15g)", name, l, tc.minLRE, got, cert)
@@ -182,6 +187,10 @@ func TestNISTStRD(t *testing.T) {
 			check("SSres", reg.RSS, s.ssRes)
 			if !math.IsNaN(s.f) {
 				check("F", reg.F, s.f)
+			} else if !(reg.F > 1e20) {
+				// Certified "Infinity" (an exact fit): no LRE, but F must be
+				// enormous or +Inf.
+				t.Errorf("F = %v, certified Infinity", reg.F)
 			}
 		})
 	}

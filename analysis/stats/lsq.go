@@ -35,7 +35,7 @@ type Regression struct {
 	AdjR2      float64 // 1 − (1−R2)(N−1)/DFResid
 	F          float64 // (ESS/p)/(RSS/DFResid), ESS = Σ(ŷ−ȳ)², for H0: all slopes 0
 	FP         float64 // upper tail of F with (p, DFResid) degrees of freedom
-	AIC        float64 // N·ln(RSS/N) + 2k, k = len(Coef) (σ not counted); −Inf for an exact fit
+	AIC        float64 // N·ln(RSS/N) + 2k, k = len(Coef) (σ not counted); −Inf for an exact fit. statsmodels' OLS aic is this + N·(1 + ln 2π), the constant of the Gaussian log-likelihood, which cancels when models on the same rows are compared
 	N          int     // rows
 	DFResid    int     // residual degrees of freedom, N − len(Coef)
 	Fitted     []float64

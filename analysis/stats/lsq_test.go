@@ -121,6 +121,15 @@ func TestLineIntervalsReference(t *testing.T) {
 	if !coreClose(q.R2, 0.999999457857722, 1e-15) || !coreClose(q.F, 7378133.000003038, 1e-10) || !coreClose(q.RSS/2.2377622377613164e-05, 1, 1e-10) {
 		t.Errorf("quadratic R² %.15g F %.15g RSS %.15g", q.R2, q.F, q.RSS)
 	}
+	// AIC: statsmodels' q.aic = -106.94214036408378 and line m.aic (set I)
+	// = 37.68137411315293 carry the log-likelihood constant N·(1 + ln 2π),
+	// which ours leaves out (see Regression.AIC).
+	if got := q.AIC + 11*(1+math.Log(2*math.Pi)); !coreClose(got, -106.94214036408378, 1e-12) {
+		t.Errorf("quadratic AIC + N(1+ln 2π) = %.15g, statsmodels -106.94214036408378", got)
+	}
+	if got := l.AIC + 11*(1+math.Log(2*math.Pi)); !coreClose(got, 37.68137411315293, 1e-13) {
+		t.Errorf("line AIC + N(1+ln 2π) = %.15g, statsmodels 37.68137411315293", got)
+	}
 	want := []float64{9.141328671328528, 9.139628172105342, 9.143029170551715, 9.137113667503307, 9.14554367515375}
 	f, cl, ch, pl, ph := q.Predict(PowerRow(10, 2), 0.95)
 	for k, g := range []float64{f, cl, ch, pl, ph} {

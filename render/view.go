@@ -45,6 +45,11 @@ type table struct {
 
 func (t table) Empty() bool { return len(t.Rows) == 0 }
 
+// Long says whether the table is long enough that printing may split it
+// across pages (with its header row repeated) rather than push it whole
+// to the next page and leave half a page blank.
+func (t table) Long() bool { return len(t.Rows) > 10 }
+
 type figure struct {
 	Kind    string // scatter, residuals, order
 	Fig     *chart.Figure

@@ -190,7 +190,7 @@ func TestInitBadInput(t *testing.T) {
 		{"one numeric column", "name,score\nann,1.5\nbob,2.25\ncid,0.5\n", []string{"no pair of columns to relate", "name (text), score (numeric)", "add a numeric column"}},
 		{"counter and constant", "n,k,v\n1,5,a\n2,5,b\n3,5,c\n", []string{"n (a row counter), k (constant), v (text)"}},
 		{"all text", "a,b\nx,y\nz,w\n", []string{"a (text), b (text)"}},
-		{"ragged row", "a,b\n1,2\n3\n4,5\n", []string{":3: this row has 1 fields but the header has 2"}},
+		{"ragged row", "a,b\n1,2\n3\n4,5\n", []string{":3: this row has 1 field but the header has 2"}},
 		{"open quote", "a,b\n1,\"2\n3,4\n", []string{"not closed"}},
 		{"not utf-8", "a,b\n1,2\n2,\xe93\n3,4\n", []string{":3: not UTF-8 text", "save it as UTF-8"}},
 		{"latin-1 header", "temp\xe9rature,b\n1,2\n", []string{":1: not UTF-8 text"}},

@@ -241,7 +241,7 @@ type summaryRow struct {
 	Form, Bend             string // "curved", "bends down"
 	Direction, Strength    string
 	Flags, FlagNote        string // "1", "outlier-driven"
-	Expect                 string
+	Expect, ExpectNote     string // "6 of 7 met", "1 failed": said in words, not by colour alone
 	Failed                 bool
 }
 
@@ -290,7 +290,11 @@ func (s summary) Table() table {
 		if r.FlagNote != "" {
 			flags += ", " + r.FlagNote
 		}
-		t.Rows = append(t.Rows, []string{r.ID, r.N, rv, r.P, form, r.Direction, r.Strength, flags, r.Expect})
+		exp := r.Expect
+		if r.ExpectNote != "" {
+			exp += ", " + r.ExpectNote
+		}
+		t.Rows = append(t.Rows, []string{r.ID, r.N, rv, r.P, form, r.Direction, r.Strength, flags, exp})
 		t.Classes = append(t.Classes, r.Class)
 		t.Links = append(t.Links, r.Link)
 	}
@@ -353,6 +357,9 @@ func summaryLine(s *report.Study, link string) summaryRow {
 			}
 		}
 		row.Expect = fmt.Sprintf("%d of %d met", ok, len(s.Expectations))
+		if bad := len(s.Expectations) - ok; bad > 0 {
+			row.ExpectNote = fmt.Sprintf("%d failed", bad)
+		}
 	}
 	return row
 }

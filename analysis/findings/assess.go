@@ -113,8 +113,12 @@ type facts struct {
 //     sign, or its p is not below alpha while its interval excludes the
 //     pooled r (the association is no longer shown, and not merely for
 //     want of rows) — while r's direction is not none.
-//   - drift: only with a declared run order: the residual trend's p is below
-//     alpha, or Durbin–Watson lies outside [DriftDW, 4 − DriftDW].
+//   - drift: only with a declared run order: the residuals' trend in run
+//     order has p below alpha/2, or their Durbin–Watson statistic is below
+//     the smaller of DriftDW and 2 − 2·z(1 − alpha/2)/√n (see driftBound):
+//     two screens sharing alpha, so clean data are called drifting about
+//     alpha of the time at most. A statistic above 2 (alternation) is not
+//     drift.
 //   - spread_changes: Breusch–Pagan p below alpha.
 //
 // FormWhy, DirectionWhy and StrengthWhy say, for each of the three
@@ -354,12 +358,7 @@ func (f *facts) decide(out *report.Findings) {
 	}
 	if d := s.Diagnostics; d != nil {
 		if s.Order != "" {
-			if d.OrderTrend != nil && float64(d.OrderTrend.P) < f.alpha {
-				out.Drift = true
-			}
-			if dw := float64(d.DurbinWatson); f.th.DriftDW > 0 && !math.IsNaN(dw) && (dw < f.th.DriftDW || dw > 4-f.th.DriftDW) {
-				out.Drift = true
-			}
+			out.Drift = f.drifts()
 		}
 		if bp := d.BreuschPagan; bp != nil && float64(bp.P) < f.alpha {
 			out.SpreadChanges = true
@@ -383,6 +382,45 @@ func (f *facts) xOrderDW() (dw, bound float64) {
 	dw = float64(d.DurbinWatsonX)
 	bound = min(f.th.FormDW, 2-2*stats.NormalQuantile(1-f.alpha)/math.Sqrt(float64(d.DurbinWatsonXRows)))
 	return dw, bound
+}
+
+// driftBound returns the Durbin–Watson statistic of the residuals in run
+// order and the bound below which they count as drifting: the smaller of
+// DriftDW and the one-sided α/2 point of DW's large-sample null
+// distribution, about normal with mean 2 and variance 4/n (Durbin &
+// Watson 1950, Biometrika 37:409–428; the approximation is ours to state,
+// as for xOrderDW). α/2, not α, because the drift verdict combines two
+// screens (this and the residuals' trend in run order) and splits alpha
+// between them (Bonferroni), so that clean data are called drifting at
+// most about alpha of the time (TestDriftFalseAlarmRate measures it). For
+// regression residuals the statistic's null mean lies a little above 2 at
+// small n, so the bound errs on the side of fewer alarms. Only the lower
+// side is read: a statistic well above 2 means residuals that alternate
+// from run to run, which is not drift. Both are NaN when the statistic is
+// undefined, n < 3 or DriftDW is off.
+func (f *facts) driftBound() (dw, bound float64) {
+	d := f.s.Diagnostics
+	if d == nil || !d.DurbinWatson.Valid() || f.s.N < 3 || !(f.th.DriftDW > 0) {
+		return math.NaN(), math.NaN()
+	}
+	dw = float64(d.DurbinWatson)
+	bound = min(f.th.DriftDW, 2-2*stats.NormalQuantile(1-f.alpha/2)/math.Sqrt(float64(f.s.N)))
+	return dw, bound
+}
+
+// drifts decides the drift verdict (with a declared run order): the
+// residuals' trend in run order has p below α/2, or their Durbin–Watson
+// statistic lies below driftBound.
+func (f *facts) drifts() bool {
+	d := f.s.Diagnostics
+	if d == nil {
+		return false
+	}
+	if d.OrderTrend != nil && float64(d.OrderTrend.P) < f.alpha/2 {
+		return true
+	}
+	dw, bound := f.driftBound()
+	return dw < bound
 }
 
 // smoothTurns reports whether the LOWESS curve confirms a turn, from the
@@ -948,12 +986,18 @@ func (f *facts) orderFigures() string {
 	d := f.s.Diagnostics
 	var p []string
 	if d.OrderTrend != nil {
-		p = append(p, fmt.Sprintf("trend %s", f.pv(float64(d.OrderTrend.P))))
+		p = append(p, fmt.Sprintf("trend %s, drift when below %s", f.pv(float64(d.OrderTrend.P)), num(f.alpha/2)))
 	}
-	if d.DurbinWatson.Valid() {
+	if dw, bound := f.driftBound(); !math.IsNaN(bound) {
+		p = append(p, fmt.Sprintf("Durbin–Watson %s, drift when below %s", num(dw), num(bound)))
+	} else if d.DurbinWatson.Valid() {
 		p = append(p, fmt.Sprintf("Durbin–Watson %s", num(float64(d.DurbinWatson))))
 	}
-	return strings.Join(p, ", ")
+	s := strings.Join(p, "; ")
+	if len(p) == 2 {
+		s += "; the two checks share alpha = " + num(f.alpha)
+	}
+	return s
 }
 
 // hiddenWay returns "rises" or "falls" when r shows no direction but, of

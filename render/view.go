@@ -150,7 +150,7 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 		{"Manifest SHA-256", m.SHA256},
 		{"Design", m.Design},
 		{"Significance level", fmt.Sprintf("alpha = %s; intervals at %s%%", short(m.Alpha), p.Level)},
-		{"Adjustment across studies", m.Adjust},
+		{"Adjustment across studies", adjustName(m.Adjust)},
 		{"Random seed", fmt.Sprint(m.Seed)},
 	}
 	if r.Generated != "" {
@@ -243,6 +243,19 @@ type summaryRow struct {
 	Flags, FlagNote        string // "1", "outlier-driven"
 	Expect, ExpectNote     string // "6 of 7 met", "1 failed": said in words, not by colour alone
 	Failed                 bool
+}
+
+// adjustName names the manifest's adjustment method for people.
+func adjustName(adjust string) string {
+	switch adjust {
+	case "holm":
+		return "Holm's method (holm)"
+	case "bh":
+		return "Benjamini–Hochberg (bh)"
+	case "", "none":
+		return "none"
+	}
+	return adjust
 }
 
 func pHead(adjust string) string {

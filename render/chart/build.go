@@ -168,7 +168,7 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		f.Lines = append(f.Lines, xyLine("quadratic fit", p.Curve, RoleCurve))
 	}
 	groups := ""
-	if len(f.Points) > 1 {
+	if len(f.Points) > 1 && !f.Dense {
 		groups = fmt.Sprintf(" Points are coloured and shaped by %s (%d levels).", GroupName(s), len(f.Points))
 	}
 	f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the least-squares line, its %s%% confidence band, the %s%% prediction band and a LOWESS curve.%s %s",
@@ -178,7 +178,13 @@ func Scatter(s *report.Study, id, level string) *Figure {
 	if len(p.Curve) > 0 {
 		f.Caption += " Dotted: quadratic fit."
 	}
-	if len(f.Points) > 1 {
+	switch {
+	case len(f.Points) > 1 && f.Dense:
+		// Density cells pool the groups; only the groups' own lines show them.
+		if len(s.Groups) > 0 {
+			f.Caption += fmt.Sprintf(" Thin lines: the line within each level of %s (the density cells pool the levels).", GroupName(s))
+		}
+	case len(f.Points) > 1:
 		f.Caption += fmt.Sprintf(" Colour and marker shape show %s", GroupName(s))
 		if len(s.Groups) > 0 {
 			f.Caption += "; thin lines: the line within each group"

@@ -65,7 +65,10 @@ type facts struct {
 	// (the LOWESS curve does not turn back); "" when it turns or the
 	// vertex is undefined.
 	noTurn string
-	weaker bool // same direction without the flagged rows, but a lower strength grade
+	// weaker: same direction without the flagged rows, a lower strength
+	// grade, and r without them outside r's interval; withinCI: the grade
+	// is lower but r without them lies inside r's interval.
+	weaker, withinCI bool
 }
 
 // Assess returns the verdicts for a study whose statistics are filled, or
@@ -100,8 +103,11 @@ type facts struct {
 //   - outlier_driven: r's direction, recomputed without the flagged rows
 //     (Sensitivity.RWithoutFlagged and its p, with the same adjustment
 //     factor applied), differs from its direction with them, or its
-//     strength grade is lower without them (the flagged rows make the
-//     relationship look stronger than the rest support) — or r cannot be
+//     strength grade is lower without them and r without them lies outside
+//     r's confidence interval (Pearson.CILow to CIHigh, at 1 − alpha): the
+//     flagged rows make the relationship look stronger than the rest
+//     support by more than r's own sampling uncertainty, so that a mere
+//     crossing of a cut point (0.72 to 0.69) does not count — or r cannot be
 //     computed without them, or leaving out a single row turns the sign
 //     of r. Flagged rows that hide a stronger relationship do not make it
 //     outlier-driven; the statements give r without them.
@@ -322,7 +328,14 @@ func (f *facts) decide(out *report.Findings) {
 				f.without = "undefined"
 			case pw*f.adj < f.alpha:
 				f.without = dirOf(rw)
-				f.weaker = f.without == f.rdir && grade(f.strengthOf(math.Abs(rw))) < grade(out.Strength)
+				lower := f.without == f.rdir && grade(f.strengthOf(math.Abs(rw))) < grade(out.Strength)
+				// A lower grade counts only when r without the rows also lies
+				// outside r's confidence interval: a move that r's own sampling
+				// uncertainty covers (0.72 to 0.69 across the strong cut point)
+				// is not a verdict the rows make.
+				lo, hi := float64(s.Pearson.CILow), float64(s.Pearson.CIHigh)
+				f.weaker = lower && !(rw >= lo && rw <= hi)
+				f.withinCI = lower && !f.weaker
 			default:
 				f.without = "none"
 			}
@@ -788,6 +801,10 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 			verdict = "the verdict does not stand without " + plural(se.NFlagged, "it", "them")
 		} else if f.weaker {
 			verdict = "the direction stands, but the strength falls to " + strengthWord(f.strengthOf(math.Abs(float64(se.RWithoutFlagged))))
+		} else if f.withinCI {
+			verdict = fmt.Sprintf("the verdict stands: r without %s would grade %s, but lies inside the %s of r with all rows (%s to %s), so the change is within r's own uncertainty",
+				plural(se.NFlagged, "it", "them"), strengthWord(f.strengthOf(math.Abs(float64(se.RWithoutFlagged)))), f.conf+" CI",
+				corr(float64(s.Pearson.CILow)), corr(float64(s.Pearson.CIHigh)))
 		}
 		if math.IsNaN(float64(se.RWithoutFlagged)) {
 			add("Leaving out the %s flagged as %s, r cannot be computed (too little variation is left): %s.",

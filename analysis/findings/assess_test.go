@@ -529,3 +529,30 @@ func TestAssessLeaveOneOutUndefined(t *testing.T) {
 		t.Errorf("leave-one-out range hides the undefined r:\n%s", text)
 	}
 }
+
+// TestAssessCutPointCrossingIsNotOutlierDriven: a strength grade lost
+// without the flagged rows makes the study outlier-driven only when r
+// without them also lies outside r's confidence interval; r 0.72 → 0.69
+// crosses the strong cut point but moves far less than r's own
+// uncertainty.
+func TestAssessCutPointCrossingIsNotOutlierDriven(t *testing.T) {
+	s := study(0.72, 1e-9)
+	s.Pearson.CILow, s.Pearson.CIHigh = 0.55, 0.83
+	s.Influence.Points = []report.Point{{Row: "7", X: 9, Y: 3, Leverage: 0.1, CooksD: 0.9, StudentizedExt: 3.5,
+		Flags: []string{FlagOutlier, FlagInfluential}}}
+	s.Sensitivity.NFlagged = 1
+	s.Sensitivity.RWithoutFlagged, s.Sensitivity.PWithoutFlagged = 0.69, 1e-8
+	s.Sensitivity.RWithoutLow, s.Sensitivity.RWithoutHigh = 0.51, 0.81
+	f := Assess(s, ctx)
+	if f.OutlierDriven || f.Strength != "strong" {
+		t.Errorf("r 0.72 (CI 0.55 to 0.83), 0.69 without row 7: outlier_driven %v strength %q, want false strong\n%s", f.OutlierDriven, f.Strength, all(f))
+	}
+	if !strings.Contains(all(f), "inside the 95% CI of r with all rows") {
+		t.Errorf("the sensitivity statement does not say why the lower grade does not count:\n%s", all(f))
+	}
+	// Outside the interval the lost grade counts.
+	s.Sensitivity.RWithoutFlagged = 0.5
+	if f := Assess(s, ctx); !f.OutlierDriven {
+		t.Errorf("r 0.72 (CI 0.55 to 0.83), 0.50 without row 7: not outlier-driven")
+	}
+}

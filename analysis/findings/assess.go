@@ -436,6 +436,17 @@ func (f *facts) drifts() bool {
 	return dw < bound
 }
 
+// OwnChoice labels, in the sentences, a cut point that is this project's
+// own choice rather than common practice (see DefaultThresholds).
+const OwnChoice = "a choice of this tool, not common practice"
+
+// dwxBoundText writes the bound of xOrderDW with where it comes from: the
+// smaller of the alpha bound and FormDW, a project choice.
+func (f *facts) dwxBoundText() string {
+	ab := 2 - 2*stats.NormalQuantile(1-f.alpha)/math.Sqrt(float64(f.s.Diagnostics.DurbinWatsonXRows))
+	return fmt.Sprintf("%s, the smaller of the cut point %s (%s) and the alpha bound %s", num(f.dwxBound), num(f.th.FormDW), OwnChoice, num(ab))
+}
+
 // smoothTurns reports whether the LOWESS curve confirms a turn, from the
 // curve's extremes in Diagnostics.Lowess: its highest point (lowest, for a
 // curve bending up) lies strictly inside the curve's x range and the
@@ -672,20 +683,20 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		}
 		if f.dwRoute {
 			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): %s goes up and down with %s in a way neither the straight line nor the quadratic follows. Look at the scatterplot.",
-				x, num(f.dwx), num(f.dwxBound), f.yLabel, x)
+				x, num(f.dwx), f.dwxBoundText(), f.yLabel, x)
 		} else {
 			add("Neither the straight line nor the quadratic follows this pattern. Look at the scatterplot.")
 		}
 	case "linear":
 		if f.dwx < f.dwxBound {
 			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): the line misses some pattern; look at the residual plot.",
-				x, num(f.dwx), num(f.dwxBound))
+				x, num(f.dwx), f.dwxBoundText())
 		}
 		if q != nil && !math.IsNaN(f.quadP()) {
 			c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
 			why := "its x² term is not clear"
 			if f.quadP() < f.alpha {
-				why = fmt.Sprintf("it adds less than the %s to R² that would count as a curve", num(f.th.CurveGainR2))
+				why = fmt.Sprintf("it adds less than the %s to R² that would count as a curve (%s)", num(f.th.CurveGainR2), OwnChoice)
 			}
 			add("A quadratic curve gives R² = %s against %s for the straight line (x² term %s): %s, so the form is taken as a straight line.",
 				c, l, f.pv(f.quadP()), why)
@@ -693,8 +704,8 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 	case "none":
 		if f.dcor != nil {
 			if float64(f.dcor.P) < f.alpha {
-				add("The distance correlation, which detects dependence of any shape, is %s (%s): too small a dependence to call a relationship (the cut point is %s).",
-					num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor))
+				add("The distance correlation, which detects dependence of any shape, is %s (%s): too small a dependence to call a relationship (the cut point is %s, %s).",
+					num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice)
 			} else {
 				add("The distance correlation, which detects dependence of any shape, finds none either (%s, %s).",
 					num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)))
@@ -1061,7 +1072,7 @@ func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 		add("Within groups of %s, %s %s with %s (%s), though the pooled data show no relationship: differences between the groups hide it.",
 			f.groupLabel(), f.yLabel, f.hiddenWay(), f.xLabel, detail)
 	case len(g) < 2:
-		add("Fewer than two groups of %s have %d rows or more, so the groups were not compared.", f.groupLabel(), f.th.ReversalMinGroup)
+		add("Fewer than two groups of %s have %d rows or more (the smallest size compared, %s), so the groups were not compared.", f.groupLabel(), f.th.ReversalMinGroup, OwnChoice)
 	case out.Reversal:
 		add("Within each %s the direction reverses: pooled, %s %s with %s, but within groups it goes the other way (%s). The pooled relationship comes from differences between the groups.",
 			f.groupLabel(), f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, detail)

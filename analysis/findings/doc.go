@@ -10,7 +10,9 @@
 // the analysis, and written to results.json (it never reads the plot
 // data, which results.json lacks). Every cut point
 // is in one table, report.Thresholds, whose defaults DefaultThresholds
-// documents as common practice; a manifest may override them.
+// documents with their sources: some common practice, some this
+// project's own choices (labelled so in the sentences that print them); a
+// manifest may override them.
 //
 // FlagPoints marks rows of the straight line as outliers, high-leverage,
 // influential or of sole support; Suspect says which of those the verdict

@@ -11,8 +11,12 @@ import (
 )
 
 // DefaultThresholds returns every cut point the findings use. None of them
-// is a standard; each is common practice, chosen as follows, and a manifest
-// may override any of them in its [thresholds] table.
+// is a standard. Some are common practice or come from the literature
+// (Strong, Moderate, Weak, LeverageFactor, OutlierZ, CooksD, DriftDW, each
+// with its source below); the others (CurveGainR2, NonlinearDcor,
+// ReversalMinGroup, FormDW) are this project's own choices, and the
+// sentences that print them say so (OwnChoice). A manifest may override
+// any of them in its [thresholds] table.
 //
 //   - Strong 0.7, Moderate 0.4, Weak 0.1: |r| at or above Strong is
 //     "strong", at or above Moderate "moderate", at or above Weak "weak",
@@ -35,13 +39,18 @@ import (
 //     off.
 //   - CooksD 0.5: influential when Cook's D exceeds the 50th percentile
 //     of F(p, n − p), as Cook (1977, Technometrics 19:15–18) suggested
-//     comparing D with F percentiles; for the line that is about 0.7 at
-//     any n. The rule "D > 4/n" flags about one row in twenty of clean
-//     data and is not used.
-//   - CurveGainR2 0.05: the form is "curved" when the quadratic term is
-//     significant and the quadratic adds at least 0.05 to R² over the line,
-//     so a bend too slight to matter in practice is still called a line.
-//   - NonlinearDcor 0.15: the form is "nonlinear" when the distance
+//     comparing D with F percentiles. For the line, F(2, m) with m = n − 2
+//     has median (m/2)(2^(2/m) − 1) (its CDF is 1 − (1 + 2F/m)^(−m/2)):
+//     1.0 at n = 4, 0.76 at n = 10, 0.72 at n = 20, and towards
+//     ln 2 ≈ 0.69 as n grows, so about 0.7 from n ≈ 10 on but higher for
+//     the smallest studies. The rule "D > 4/n" flags about one row in
+//     twenty of clean data and is not used.
+//   - CurveGainR2 0.05 (project choice, no published source): the form is
+//     "curved" when the quadratic term is significant and the quadratic
+//     adds at least 0.05 to R² over the line, so a bend too slight to
+//     matter in practice is still called a line.
+//   - NonlinearDcor 0.15 (project choice, tuned on our own generated
+//     suite, testdata/suite): the form is "nonlinear" when the distance
 //     correlation is significant, at least 0.15 and larger than |r| (for
 //     normal data it is never larger: Székely, Rizzo & Bakirov 2007,
 //     Ann. Stat. 35:2769–2794, Theorem 7) while r itself is not. The
@@ -49,8 +58,8 @@ import (
 //     that go up and down: in our generated suite a sine of four cycles
 //     with noise a third of its amplitude gives about 0.19. The test's
 //     p-value, not this cut point, guards against chance.
-//   - ReversalMinGroup 5: groups with fewer complete rows take no part in
-//     the reversal check.
+//   - ReversalMinGroup 5 (project choice): groups with fewer complete rows
+//     take no part in the reversal check.
 //   - DriftDW 1.5: with a declared run order, a Durbin–Watson statistic
 //     below 1.5 and below its alpha/2 bound (which rules at small n, see
 //     Assess) is read as residuals that hang together in time. 1.5 is a
@@ -58,8 +67,9 @@ import (
 //     correlation); alone it has no alpha behind it and calls 40% of clean
 //     studies of 10 rows drifting, hence the bound. The upper side (above
 //     2.5: residuals that alternate) is not drift and is not read.
-//   - FormDW 1.5: the same rule of thumb for the line's residuals taken in
-//     order of x; below it (and below the statistic's alpha bound, which
+//   - FormDW 1.5 (project choice): the drift rule of thumb carried over to
+//     the line's residuals taken in order of x, where no convention exists;
+//     below it (and below the statistic's alpha bound, which
 //     rules at small n) they swing together and the form is "nonlinear"
 //     (see Assess).
 func DefaultThresholds() report.Thresholds {

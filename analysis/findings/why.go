@@ -113,8 +113,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 	case "curved":
 		q := f.quad
 		l, c := corrPair(lineR2, float64(q.R2))
-		w := fmt.Sprintf("Curved: the quadratic's x² term is significant (%s), and so is the quadratic as a whole (F test %s); it raises R² from %s for the line to %s, a gain of %s, at least the %s required.",
-			f.pv(f.quadP()), f.pv(float64(q.FP)), l, c, corr(f.gain), num(f.th.CurveGainR2))
+		w := fmt.Sprintf("Curved: the quadratic's x² term is significant (%s), and so is the quadratic as a whole (F test %s); it raises R² from %s for the line to %s, a gain of %s, at least the %s required (%s).",
+			f.pv(f.quadP()), f.pv(float64(q.FP)), l, c, corr(f.gain), num(f.th.CurveGainR2), OwnChoice)
 		bend := "up (the x² coefficient is positive)"
 		if f.b2 < 0 {
 			bend = "down (the x² coefficient is negative)"
@@ -144,12 +144,12 @@ func (f *facts) formWhy(out *report.Findings) string {
 	case "nonlinear":
 		var parts []string
 		if f.dcorRoute {
-			parts = append(parts, fmt.Sprintf("the distance correlation, which detects dependence of any shape, is %s (%s), at least %s and above |r| = %s, while r itself does not differ clearly from 0 (%s)",
-				num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), corr(math.Abs(f.r)), f.pBoth()))
+			parts = append(parts, fmt.Sprintf("the distance correlation, which detects dependence of any shape, is %s (%s), at least %s (%s) and above |r| = %s, while r itself does not differ clearly from 0 (%s)",
+				num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice, corr(math.Abs(f.r)), f.pBoth()))
 		}
 		if f.dwRoute {
 			parts = append(parts, fmt.Sprintf("taken in order of %s, the line's residuals swing together (Durbin–Watson %s, below %s) while |r| = %s is below %s",
-				f.xLabel, num(f.dwx), num(f.dwxBound), f.absNum(math.Abs(f.r)), num(f.th.Moderate)))
+				f.xLabel, num(f.dwx), f.dwxBoundText(), f.absNum(math.Abs(f.r)), num(f.th.Moderate)))
 		}
 		return "Nonlinear: " + joinAnd(parts) + "; neither the line nor the quadratic describes the pattern."
 	case "linear":
@@ -159,12 +159,12 @@ func (f *facts) formWhy(out *report.Findings) string {
 		}
 		if q := f.quad; q != nil && q.R2.Valid() {
 			l, c := corrPair(lineR2, float64(q.R2))
-			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic; a curve needs the x² term and the quadratic significant at %s and a gain in R² of at least %s)",
-				f.pv(f.quadP()), l, c, f.alphaText(), num(f.th.CurveGainR2))
+			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic; a curve needs the x² term and the quadratic significant at %s and a gain in R² of at least %s, %s)",
+				f.pv(f.quadP()), l, c, f.alphaText(), num(f.th.CurveGainR2), OwnChoice)
 		}
 		if f.dwx < f.dwxBound {
 			w += fmt.Sprintf(". The residuals in order of %s swing together (Durbin–Watson %s, below %s), but with |r| = %s at or above %s that does not overturn the line; look at the residual plot",
-				f.xLabel, num(f.dwx), num(f.dwxBound), f.absNum(math.Abs(f.r)), num(f.th.Moderate))
+				f.xLabel, num(f.dwx), f.dwxBoundText(), f.absNum(math.Abs(f.r)), num(f.th.Moderate))
 		}
 		return w + "."
 	}
@@ -175,7 +175,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 		case !(float64(f.dcor.P) < f.alpha):
 			w += fmt.Sprintf("; the distance correlation finds no dependence of any shape (%s, %s)", num(d), f.pv(float64(f.dcor.P)))
 		case d < f.th.NonlinearDcor:
-			w += fmt.Sprintf("; the distance correlation, %s (%s), is below the cut point %s", num(d), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor))
+			w += fmt.Sprintf("; the distance correlation, %s (%s), is below the cut point %s (%s)", num(d), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice)
 		default:
 			w += fmt.Sprintf("; the distance correlation, %s (%s), is not above |r|", num(d), f.pv(float64(f.dcor.P)))
 		}
@@ -184,9 +184,9 @@ func (f *facts) formWhy(out *report.Findings) string {
 	case math.IsNaN(f.dwx):
 	case f.dwx < f.dwxBound:
 		w += fmt.Sprintf("; the residuals in order of %s swing together (Durbin–Watson %s, below %s), but with |r| = %s at or above %s that rule does not apply",
-			f.xLabel, num(f.dwx), num(f.dwxBound), f.absNum(math.Abs(f.r)), num(f.th.Moderate))
+			f.xLabel, num(f.dwx), f.dwxBoundText(), f.absNum(math.Abs(f.r)), num(f.th.Moderate))
 	default:
-		w += fmt.Sprintf("; the residuals in order of %s do not swing together (Durbin–Watson %s, not below %s)", f.xLabel, num(f.dwx), num(f.dwxBound))
+		w += fmt.Sprintf("; the residuals in order of %s do not swing together (Durbin–Watson %s, not below %s)", f.xLabel, num(f.dwx), f.dwxBoundText())
 	}
 	if f.quad != nil && !math.IsNaN(f.quadP()) && !f.curved {
 		w += fmt.Sprintf("; no curve qualifies (x² term %s)", f.pv(f.quadP()))

@@ -232,6 +232,7 @@ func pageProblemsPrint(t *testing.T, c *cdp, file string) (problems []string, pn
 			wait = false
 		}
 	}
+	problems = append(problems, layoutProblems(t, c, s)...)
 	res, err = c.call(s, "Page.captureScreenshot", map[string]any{"format": "png", "captureBeyondViewport": true})
 	if err != nil {
 		t.Fatal(err)
@@ -265,6 +266,44 @@ func pageProblemsPrint(t *testing.T, c *cdp, file string) (problems []string, pn
 	}
 	c.call("", "Target.closeTarget", map[string]any{"targetId": tgt.TargetID})
 	return problems, png, pdf, printPNG
+}
+
+// summaryLayout measures the summary table in the page as laid out: how
+// far it overflows its box (a horizontal scrollbar), and which verdict or
+// number cells broke their first word over two lines ("curve d").
+const summaryLayout = `(() => {
+  const out = [];
+  for (const t of document.querySelectorAll('.summary-table')) {
+    const box = t.parentElement;
+    if (box.scrollWidth > box.clientWidth + 1) out.push('summary overflows by ' + (box.scrollWidth - box.clientWidth) + ' px');
+    for (const td of t.querySelectorAll('td.word, td.n')) {
+      const n = td.firstChild;
+      if (!n || n.nodeType !== 3 || !n.textContent.trim()) continue;
+      const r = document.createRange();
+      r.selectNodeContents(n);
+      if (r.getClientRects().length > 1) out.push('summary cell "' + n.textContent + '" wraps');
+    }
+  }
+  return JSON.stringify(out);
+})()`
+
+// layoutProblems runs summaryLayout in the page through DevTools (the
+// page's own CSP forbids scripts; DevTools evaluation is not a page script).
+func layoutProblems(t *testing.T, c *cdp, session string) []string {
+	t.Helper()
+	res, err := c.call(session, "Runtime.evaluate", map[string]any{"expression": summaryLayout, "returnByValue": true})
+	if err != nil {
+		t.Fatalf("measuring the summary: %v", err)
+	}
+	var v struct {
+		Result struct{ Value string }
+	}
+	json.Unmarshal(res, &v)
+	var out []string
+	if err := json.Unmarshal([]byte(v.Result.Value), &out); err != nil {
+		t.Fatalf("measuring the summary gave %s: %v", res, err)
+	}
+	return out
 }
 
 func TestBrowser(t *testing.T) {

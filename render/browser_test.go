@@ -258,6 +258,13 @@ func pageProblemsPrint(t *testing.T, c *cdp, file string) (problems []string, pn
 		}
 	}
 	if _, err := c.call(s, "Emulation.setEmulatedMedia", map[string]any{"media": "print"}); err == nil {
+		// The print styles on the width of an A4 page inside its margins
+		// (210 mm − 2 × 14 mm = 182 mm, 688 CSS px); Letter is wider.
+		if _, err := c.call(s, "Emulation.setDeviceMetricsOverride", map[string]any{"width": 688, "height": 1400, "deviceScaleFactor": 1, "mobile": false}); err == nil {
+			for _, p := range layoutProblems(t, c, s) {
+				problems = append(problems, "printed: "+p)
+			}
+		}
 		if res, err := c.call(s, "Page.captureScreenshot", map[string]any{"format": "png", "captureBeyondViewport": true}); err == nil {
 			var ps struct{ Data string }
 			json.Unmarshal(res, &ps)

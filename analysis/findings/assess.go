@@ -39,10 +39,15 @@ type facts struct {
 	conf  string // "95%"
 	dsg   string // the design, as given
 
-	r, p   float64 // Pearson r and its adjusted p
-	adj    float64 // p_adjusted / p: the factor the adjustment applied
-	dir    string  // the direction verdict
-	rdir   string  // the direction of r alone: sign of r when its adjusted p is below alpha
+	r, p float64 // Pearson r and its adjusted p
+	// adj is p_adjusted / p, the factor by which the adjustment across
+	// studies raised r's p. Applied to another p (r without the flagged
+	// rows) it is exact for Bonferroni but only approximate for Holm and
+	// Benjamini–Hochberg, whose factor depends on where a p ranks among
+	// the studies' p-values; the sentence says so where it is used.
+	adj    float64
+	dir    string // the direction verdict
+	rdir   string // the direction of r alone: sign of r when its adjusted p is below alpha
 	linSig bool
 	quad   *report.Fit
 	b2     float64
@@ -69,6 +74,10 @@ type facts struct {
 	// grade, and r without them outside r's interval; withinCI: the grade
 	// is lower but r without them lies inside r's interval.
 	weaker, withinCI bool
+	// The secondary checks of the study and their p-values, raw and after
+	// Holm's adjustment over those the study ran (see screens).
+	screenRaw, screenAdj map[string]float64
+	screenNames          []string // checks in the family, in screenOrder
 }
 
 // Assess returns the verdicts for a study whose statistics are filled, or
@@ -82,7 +91,8 @@ type facts struct {
 //     (its interval at the adjusted level excludes 0), by the sign of r,
 //     unless the curve turns over inside the range (then y does not move
 //     one way with x); otherwise none.
-//   - form: curved when the x² term's p is below alpha, the quadratic as a
+//   - form: curved when the x² term's p, after Holm's adjustment within the
+//     study (see below), is below alpha, the quadratic as a
 //     whole is significant and it adds at least CurveGainR2 to R²; it bends
 //     down when the x² coefficient is negative, up when positive; it turns
 //     over when the fitted curve's vertex lies inside the observed x range,
@@ -102,7 +112,7 @@ type facts struct {
 //     of the quadratic by the same cut points, where curved.
 //   - outlier_driven: r's direction, recomputed without the flagged rows
 //     (Sensitivity.RWithoutFlagged and its p, with the same adjustment
-//     factor applied), differs from its direction with them, or its
+//     factor applied: an approximation, see Multiplicity), differs from its direction with them, or its
 //     strength grade is lower without them and r without them lies outside
 //     r's confidence interval (Pearson.CILow to CIHigh, at 1 − alpha): the
 //     flagged rows make the relationship look stronger than the rest
@@ -119,13 +129,32 @@ type facts struct {
 //     sign, or its p is not below alpha while its interval excludes the
 //     pooled r (the association is no longer shown, and not merely for
 //     want of rows) — while r's direction is not none.
-//   - drift: only with a declared run order: the residuals' trend in run
-//     order has p below alpha/2, or their Durbin–Watson statistic is below
-//     the smaller of DriftDW and 2 − 2·z(1 − alpha/2)/√n (see driftBound):
-//     two screens sharing alpha, so clean data are called drifting about
-//     alpha of the time at most. A statistic above 2 (alternation) is not
-//     drift.
-//   - spread_changes: Breusch–Pagan p below alpha.
+//   - drift: only with a declared run order: the drift p (driftP: the
+//     smaller of the residuals' trend p in run order and the one-sided p
+//     of their Durbin–Watson statistic when it is below DriftDW, doubled
+//     for the two) is below alpha after Holm's adjustment within the
+//     study. Alone, that is a trend p below alpha/2 or a statistic below
+//     min(DriftDW, 2 − 2·z(1 − alpha/2)/√n). A statistic above 2
+//     (alternation) is not drift.
+//   - spread_changes: Breusch–Pagan p below alpha after Holm's adjustment
+//     within the study.
+//
+// Multiplicity. r's p is the one adjusted across studies (p_adjusted, by
+// the manifest's `adjust`). The secondary checks — curvature (the x²
+// term), lack of fit, Breusch–Pagan and drift — are screens of the study's
+// own fit: their p-values are adjusted by Holm's method over the checks
+// the study ran (see screens), never across studies, so a study with none
+// of these effects raises one of these flags at most about alpha of the
+// time (TestDriftFalseAlarmRate measures it). Adjusting within the study
+// costs no verdict of the labelled suite; adjusting across studies would
+// make one study's curvature verdict depend on how many other studies the
+// manifest holds, which is not a property of its data. The distance
+// correlation and the x-order Durbin–Watson are read at alpha unadjusted.
+// r without the flagged rows is judged with its p multiplied by r's own
+// adjustment factor p_adjusted/p: exact for Bonferroni, only approximate
+// for Holm and Benjamini–Hochberg, whose factor depends on how a p ranks
+// among the studies'; the sensitivity sentence says so. The limits say in
+// one sentence which checks are unadjusted screens.
 //
 // FormWhy, DirectionWhy and StrengthWhy say, for each of the three
 // verdicts, which of these rules decided it and the figures it read (see
@@ -236,6 +265,8 @@ func (f *facts) decide(out *report.Findings) {
 	}
 	f.dir = f.rdir
 
+	f.screens()
+
 	// Curvature.
 	lineR2 := float64(s.Pearson.R2)
 	if s.Line != nil && s.Line.R2.Valid() {
@@ -252,11 +283,11 @@ func (f *facts) decide(out *report.Findings) {
 			qp = float64(q.Coefficients[2].P)
 		}
 		f.gain = float64(q.R2) - lineR2
-		f.curved = qp < f.alpha && float64(q.FP) < f.alpha && f.gain >= f.th.CurveGainR2 && f.b2 != 0
+		f.curved = f.screenAdj[checkCurvature] < f.alpha && float64(q.FP) < f.alpha && f.gain >= f.th.CurveGainR2 && f.b2 != 0
 	}
 	if s.Diagnostics != nil {
 		f.dcor = s.Diagnostics.DistanceCorr
-		if lf := s.Diagnostics.LackOfFit; lf != nil && float64(lf.P) < f.alpha {
+		if s.Diagnostics.LackOfFit != nil && f.screenAdj[checkLackOfFit] < f.alpha {
 			f.lof = true
 		}
 	}
@@ -371,9 +402,9 @@ func (f *facts) decide(out *report.Findings) {
 	}
 	if d := s.Diagnostics; d != nil {
 		if s.Order != "" {
-			out.Drift = f.drifts()
+			out.Drift = f.screenAdj[checkDrift] < f.alpha
 		}
-		if bp := d.BreuschPagan; bp != nil && float64(bp.P) < f.alpha {
+		if d.BreuschPagan != nil && f.screenAdj[checkSpread] < f.alpha {
 			out.SpreadChanges = true
 		}
 	}
@@ -397,43 +428,116 @@ func (f *facts) xOrderDW() (dw, bound float64) {
 	return dw, bound
 }
 
-// driftBound returns the Durbin–Watson statistic of the residuals in run
-// order and the bound below which they count as drifting: the smaller of
-// DriftDW and the one-sided α/2 point of DW's large-sample null
-// distribution, about normal with mean 2 and variance 4/n (Durbin &
-// Watson 1950, Biometrika 37:409–428; the approximation is ours to state,
-// as for xOrderDW). α/2, not α, because the drift verdict combines two
-// screens (this and the residuals' trend in run order) and splits alpha
-// between them (Bonferroni), so that clean data are called drifting at
-// most about alpha of the time (TestDriftFalseAlarmRate measures it). For
-// regression residuals the statistic's null mean lies a little above 2 at
-// small n, so the bound errs on the side of fewer alarms. Only the lower
-// side is read: a statistic well above 2 means residuals that alternate
-// from run to run, which is not drift. Both are NaN when the statistic is
-// undefined, n < 3 or DriftDW is off.
-func (f *facts) driftBound() (dw, bound float64) {
+// driftDWP returns the Durbin–Watson statistic of the residuals in run
+// order and its one-sided p for residuals that hang together (a low
+// statistic), from DW's large-sample null distribution, about normal with
+// mean 2 and variance 4/n (Durbin & Watson 1950, Biometrika 37:409–428;
+// the approximation is ours to state, as for xOrderDW). For regression
+// residuals the statistic's null mean lies a little above 2 at small n,
+// so this p errs on the side of fewer alarms. The p is 1 when the
+// statistic is not below DriftDW (the rule of thumb: the drift rule reads
+// the statistic only below it). Only the lower side is read: a statistic
+// well above 2 means residuals that alternate from run to run, which is
+// not drift. Both are NaN when the statistic is undefined, n < 3 or
+// DriftDW is off.
+func (f *facts) driftDWP() (dw, p float64) {
 	d := f.s.Diagnostics
 	if d == nil || !d.DurbinWatson.Valid() || f.s.N < 3 || !(f.th.DriftDW > 0) {
 		return math.NaN(), math.NaN()
 	}
 	dw = float64(d.DurbinWatson)
-	bound = min(f.th.DriftDW, 2-2*stats.NormalQuantile(1-f.alpha/2)/math.Sqrt(float64(f.s.N)))
-	return dw, bound
+	if !(dw < f.th.DriftDW) {
+		return dw, 1
+	}
+	z := (dw - 2) * math.Sqrt(float64(f.s.N)) / 2 // below 0, as DriftDW < 2
+	return dw, stats.TwoSidedNormal(z) / 2
 }
 
-// drifts decides the drift verdict (with a declared run order): the
-// residuals' trend in run order has p below α/2, or their Durbin–Watson
-// statistic lies below driftBound.
-func (f *facts) drifts() bool {
+// driftP returns the p of the drift check (with a declared run order): the
+// smaller of the order trend's p and driftDWP's p, doubled when both exist
+// (Bonferroni over the two), so clean data are called drifting at most
+// about alpha of the time (TestDriftFalseAlarmRate measures it). With
+// only this check in the study, drift is called when the trend's p is
+// below alpha/2 or DW is below min(DriftDW, 2 − 2·z(1 − alpha/2)/√n).
+// NaN when neither exists.
+func (f *facts) driftP() float64 {
 	d := f.s.Diagnostics
-	if d == nil {
-		return false
+	if d == nil || f.s.Order == "" {
+		return math.NaN()
 	}
-	if d.OrderTrend != nil && float64(d.OrderTrend.P) < f.alpha/2 {
-		return true
+	var ps []float64
+	if d.OrderTrend != nil && d.OrderTrend.P.Valid() {
+		ps = append(ps, float64(d.OrderTrend.P))
 	}
-	dw, bound := f.driftBound()
-	return dw < bound
+	if _, p := f.driftDWP(); !math.IsNaN(p) {
+		ps = append(ps, p)
+	}
+	if len(ps) == 0 {
+		return math.NaN()
+	}
+	return math.Min(1, float64(len(ps))*slices.Min(ps))
+}
+
+// The secondary checks of a study, in the order the sentences list them.
+const (
+	checkCurvature = "curvature"
+	checkLackOfFit = "lack of fit"
+	checkSpread    = "changing spread"
+	checkDrift     = "drift"
+)
+
+var screenOrder = []string{checkCurvature, checkLackOfFit, checkSpread, checkDrift}
+
+// screens gathers the p-values of the study's secondary checks — the
+// quadratic's x² term (curvature), lack of fit, Breusch–Pagan (changing
+// spread) and, with a run order, drift (driftP) — and adjusts them by
+// Holm's step-down method (Holm 1979, Scand. J. Stat. 6:65–70;
+// stats.Holm) over those the study ran, so that together they raise a
+// false flag at most alpha of the time in a study with no such effect.
+// They are not adjusted across studies: each study's checks are screens of
+// that study's own fit. A check that did not run is missing from
+// screenRaw, and its screenAdj is +Inf (never below alpha).
+func (f *facts) screens() {
+	s := f.s
+	f.screenRaw, f.screenAdj, f.screenNames = map[string]float64{}, map[string]float64{}, nil
+	raw := map[string]float64{checkCurvature: f.quadP(), checkDrift: f.driftP()}
+	if d := s.Diagnostics; d != nil {
+		if d.LackOfFit != nil {
+			raw[checkLackOfFit] = float64(d.LackOfFit.P)
+		}
+		if d.BreuschPagan != nil {
+			raw[checkSpread] = float64(d.BreuschPagan.P)
+		}
+	}
+	var ps []float64
+	for _, name := range screenOrder {
+		if p, ok := raw[name]; ok && !math.IsNaN(p) {
+			f.screenNames = append(f.screenNames, name)
+			ps = append(ps, p)
+		}
+	}
+	adj := stats.Holm(ps)
+	for _, name := range screenOrder {
+		f.screenAdj[name] = math.Inf(1)
+	}
+	for i, name := range f.screenNames {
+		f.screenRaw[name], f.screenAdj[name] = ps[i], adj[i]
+	}
+}
+
+// screenP writes a secondary check's p: "p = 0.030", and where it is below
+// alpha and Holm's adjustment within the study raised it (where the
+// adjustment can decide the verdict), "p = 0.030; after Holm's adjustment
+// over this study's 2 checks, p = 0.060".
+func (f *facts) screenP(name string, raw float64) string {
+	return f.pv(raw) + f.holmSuffix(name, raw)
+}
+
+func (f *facts) holmSuffix(name string, raw float64) string {
+	if a, ok := f.screenRaw[name]; ok && a == raw && raw < f.alpha && f.screenAdj[name] > raw {
+		return fmt.Sprintf("; after Holm's adjustment over this study's %d checks, %s", len(f.screenNames), f.pv(math.Min(1, f.screenAdj[name])))
+	}
+	return ""
 }
 
 // OwnChoice labels, in the sentences, a cut point that is this project's
@@ -633,9 +737,9 @@ func (f *facts) write(out *report.Findings) {
 				rho = fmt.Sprintf("; Spearman ρ of the residuals' size with %s = %s", x, corr(float64(d.SpreadRho)))
 			}
 			add("The scatter about the line %s with %s (Breusch–Pagan %s%s): the bands, which assume an even scatter, are too narrow in some places and too wide in others.",
-				how, x, f.pv(float64(bp.P)), rho)
+				how, x, f.screenP(checkSpread, float64(bp.P)), rho)
 		} else {
-			add("The scatter about the line shows no clear change with %s (Breusch–Pagan %s).", x, f.pv(float64(bp.P)))
+			add("The scatter about the line shows no clear change with %s (Breusch–Pagan %s).", x, f.screenP(checkSpread, float64(bp.P)))
 		}
 	}
 
@@ -664,7 +768,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 	switch out.Form {
 	case "curved":
 		c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
-		add("A quadratic curve explains R² = %s of the variation against %s for the straight line (x² term %s).", c, l, f.pv(f.quadP()))
+		add("A quadratic curve explains R² = %s of the variation against %s for the straight line (x² term %s).", c, l, f.screenP(checkCurvature, f.quadP()))
 		if out.TurnsOver {
 			first, then := "rises", "falls"
 			if *out.Bend == "bends-up" {
@@ -695,11 +799,11 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		if q != nil && !math.IsNaN(f.quadP()) {
 			c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
 			why := "its x² term is not clear"
-			if f.quadP() < f.alpha {
+			if f.screenAdj[checkCurvature] < f.alpha {
 				why = fmt.Sprintf("it adds less than the %s to R² that would count as a curve (%s)", num(f.th.CurveGainR2), OwnChoice)
 			}
 			add("A quadratic curve gives R² = %s against %s for the straight line (x² term %s): %s, so the form is taken as a straight line.",
-				c, l, f.pv(f.quadP()), why)
+				c, l, f.screenP(checkCurvature, f.quadP()), why)
 		}
 	case "none":
 		if f.dcor != nil {
@@ -715,7 +819,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 	if f.lof {
 		lf := s.Diagnostics.LackOfFit
 		add("Where %s repeats, the means of the repeated settings scatter about the line more than repeat runs scatter about their own mean (lack-of-fit F = %s on %d and %d df, %s): the line summarises the trend but does not pass through every setting's mean.",
-			x, num(float64(lf.F)), lf.DF1, lf.DF2, f.pv(float64(lf.P)))
+			x, num(float64(lf.F)), lf.DF1, lf.DF2, f.screenP(checkLackOfFit, float64(lf.P)))
 	}
 }
 
@@ -821,9 +925,14 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 			add("Leaving out the %s flagged as %s, r cannot be computed (too little variation is left): %s.",
 				plural(se.NFlagged, "row", "rows"), suspectWords, verdict)
 		} else {
-			add("Leaving out the %s flagged as %s: r = %s (%s, %s), slope %s %s; %s.",
+			scaled := ""
+			if f.adj != 1 {
+				scaled = fmt.Sprintf(", judged as %s after multiplying by %s, the factor by which the adjustment across studies raised r's p (exact for a fixed factor, only approximate for Holm and Benjamini–Hochberg, whose factor depends on how a p ranks among the studies')",
+					f.pv(math.Min(1, f.adj*float64(se.PWithoutFlagged))), num(f.adj))
+			}
+			add("Leaving out the %s flagged as %s: r = %s (%s, %s%s), slope %s %s; %s.",
 				plural(se.NFlagged, "row", "rows"), suspectWords, f.absNumSigned(float64(se.RWithoutFlagged)), f.interval(se.RWithoutLow, se.RWithoutHigh),
-				f.pv(float64(se.PWithoutFlagged)), num(float64(se.SlopeWithoutFlagged)),
+				f.pv(float64(se.PWithoutFlagged)), scaled, num(float64(se.SlopeWithoutFlagged)),
 				perUnit(f.ySym, f.xSym, f.xLabel), verdict)
 		}
 	}
@@ -953,6 +1062,12 @@ func (f *facts) limits(out *report.Findings) {
 	default:
 		add("The residuals show no drift in run order (by %s; %s).", f.orderLabel(), f.orderFigures())
 	}
+
+	// Multiplicity of the secondary checks.
+	if len(f.screenNames) > 0 {
+		add("The checks of %s are screens: their p-values share alpha = %s within this study (Holm's adjustment over its %d %s), but are not adjusted across studies, and the distance correlation and the residuals in order of %s are screened at alpha without adjustment; a flag from any of them calls for a look at the plots, not a conclusion.",
+			joinAnd(f.screenNames), num(f.alpha), len(f.screenNames), plural(len(f.screenNames), "check", "checks"), x)
+	}
 }
 
 // covariateLabels returns the labels of the named covariates (from
@@ -1014,18 +1129,24 @@ func (f *facts) orderFigures() string {
 	d := f.s.Diagnostics
 	var p []string
 	if d.OrderTrend != nil {
-		p = append(p, fmt.Sprintf("trend %s, drift when below %s", f.pv(float64(d.OrderTrend.P)), num(f.alpha/2)))
+		p = append(p, fmt.Sprintf("trend %s", f.pv(float64(d.OrderTrend.P))))
 	}
-	if dw, bound := f.driftBound(); !math.IsNaN(bound) {
-		p = append(p, fmt.Sprintf("Durbin–Watson %s, drift when below %s", num(dw), num(bound)))
+	if dw, dp := f.driftDWP(); !math.IsNaN(dw) {
+		if dw < f.th.DriftDW {
+			p = append(p, fmt.Sprintf("Durbin–Watson %s, one-sided %s", num(dw), f.pv(dp)))
+		} else {
+			p = append(p, fmt.Sprintf("Durbin–Watson %s, not below %s, where the rule starts to read it", num(dw), num(f.th.DriftDW)))
+		}
 	} else if d.DurbinWatson.Valid() {
 		p = append(p, fmt.Sprintf("Durbin–Watson %s", num(float64(d.DurbinWatson))))
 	}
-	s := strings.Join(p, "; ")
-	if len(p) == 2 {
-		s += "; the two checks share alpha = " + num(f.alpha)
+	t := strings.Join(p, "; ")
+	if raw, ok := f.screenRaw[checkDrift]; ok && len(p) == 2 {
+		t += fmt.Sprintf("; drift %s (the smaller of the two, doubled)%s", f.pv(raw), f.holmSuffix(checkDrift, raw))
+	} else if ok {
+		t += f.holmSuffix(checkDrift, raw)
 	}
-	return s
+	return t
 }
 
 // hiddenWay returns "rises" or "falls" when r shows no direction but, of

@@ -14,6 +14,12 @@
 // project's own choices (labelled so in the sentences that print them); a
 // manifest may override them.
 //
+// Only r's p is adjusted across the studies of a manifest. The secondary
+// checks of a study (curvature, lack of fit, changing spread, drift) share
+// alpha by Holm's adjustment within the study and are not adjusted across
+// studies; the distance correlation and the residuals in order of x are
+// read at alpha unadjusted. Each study's limits say so (see Assess).
+//
 // FlagPoints marks rows of the straight line as outliers, high-leverage,
 // influential or of sole support; Suspect says which of those the verdict
 // should not rest on; Assess decides the verdicts and writes the headline,

@@ -60,13 +60,14 @@ import (
 //     p-value, not this cut point, guards against chance.
 //   - ReversalMinGroup 5 (project choice): groups with fewer complete rows
 //     take no part in the reversal check.
-//   - DriftDW 1.5: with a declared run order, a Durbin–Watson statistic
-//     below 1.5 and below its alpha/2 bound (which rules at small n, see
-//     Assess) is read as residuals that hang together in time. 1.5 is a
-//     rule of thumb (common practice takes 1.5 to 2.5 as no serial
-//     correlation); alone it has no alpha behind it and calls 40% of clean
-//     studies of 10 rows drifting, hence the bound. The upper side (above
-//     2.5: residuals that alternate) is not drift and is not read.
+//   - DriftDW 1.5: with a declared run order, the drift check reads a
+//     Durbin–Watson statistic only below 1.5, and then by its p (its
+//     large-sample normal approximation, shared with the order trend and
+//     the study's other checks; see Assess). 1.5 is a rule of thumb
+//     (common practice takes 1.5 to 2.5 as no serial correlation); alone
+//     it has no alpha behind it and calls about 40% of clean studies of 10
+//     rows drifting, hence the p. The upper side (above 2.5: residuals
+//     that alternate) is not drift and is not read.
 //   - FormDW 1.5 (project choice): the drift rule of thumb carried over to
 //     the line's residuals taken in order of x, where no convention exists;
 //     below it (and below the statistic's alpha bound, which

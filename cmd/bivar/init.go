@@ -385,7 +385,7 @@ func initManifest(prof *csvProfile, rel string) string {
 	kv("theme   = "+tomlString(themes.Default), strings.Join(themes.Names(), " | "))
 	w("\n")
 	th := findings.DefaultThresholds()
-	kv("# [thresholds]", "the verdicts' cut points; the defaults are common practice, not a standard")
+	kv("# [thresholds]", "the strength cut points (common practice, not a standard); docs/manifest.md lists every cut point")
 	kv(fmt.Sprintf("# strong   = %g", th.Strong), "|r| at or above: strong")
 	kv(fmt.Sprintf("# moderate = %g", th.Moderate), "|r| at or above: moderate")
 	kv(fmt.Sprintf("# weak     = %g", th.Weak), "|r| at or above: weak; below: none")

@@ -85,3 +85,14 @@ func TestCSSString(t *testing.T) {
 		}
 	}
 }
+
+func TestCorr3(t *testing.T) {
+	for in, want := range map[float64]string{0.9819: "0.982", -0.05147: "−0.051", 0.9996: "0.9996", -0.99994: "−0.9999", 0.99996: "0.99996", 1: "1.000", -0.0004: "0.000", 0: "0.000"} {
+		if got := corr3(report.Float(in)); got != want {
+			t.Errorf("corr3(%v) = %q, want %q", in, got, want)
+		}
+	}
+	if got := corr3(report.NaN()); got != na {
+		t.Errorf("corr3(NaN) = %q", got)
+	}
+}

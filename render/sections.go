@@ -321,7 +321,7 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 		sec.Tables = append(sec.Tables, t)
 	}
 	if len(s.Partial) > 0 {
-		t := table{Caption: "Correlation of x and y with each covariate held fixed (partial correlation)", Head: []string{"Covariate", "n", "Partial r (" + level + "% interval)", "p"},
+		t := table{Caption: "Correlation of " + name(s.X) + " and " + name(s.Y) + " with each covariate held fixed (partial correlation)", Head: []string{"Covariate", "n", "Partial r (" + level + "% interval)", "p"},
 			Num: []bool{false, true, true, true}}
 		for _, pc := range s.Partial {
 			t.Rows = append(t.Rows, []string{pc.Covariate, itoa(pc.N), withCI(pc.R, pc.CILow, pc.CIHigh), pval(pc.P)})

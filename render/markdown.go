@@ -162,7 +162,7 @@ func mdTable(t table) string {
 		for i := range r {
 			switch {
 			case i >= len(row):
-			case i < len(t.Code) && t.Code[i]:
+			case isCode(t, i, row[i]):
 				r[i] = mdCode(row[i])
 			default:
 				r[i] = mdCell(row[i])

@@ -70,7 +70,11 @@ func rowLink(t table, i int) string {
 	return ""
 }
 
-func isCode(t table, col int) bool { return col < len(t.Code) && t.Code[col] }
+// isCode says whether cell c of column col is written as code: a column
+// marked Code, except an empty or undefined cell.
+func isCode(t table, col int, c string) bool {
+	return col < len(t.Code) && t.Code[col] && c != "" && c != na
+}
 
 // config holds the options; newConfig spells out every default.
 type config struct {

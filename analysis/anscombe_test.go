@@ -9,36 +9,17 @@ import (
 	"strconv"
 	"testing"
 
+	"bivar/internal/reference"
+
 	"bivar/analysis"
 	"bivar/analysis/report"
 )
-
-// referenceDir walks up from the test's directory to shared/reference, or
-// skips the test naming it.
-func referenceDir(t testing.TB) string {
-	t.Helper()
-	dir, err := filepath.Abs(".")
-	if err != nil {
-		t.Fatal(err)
-	}
-	for {
-		cand := filepath.Join(dir, "shared", "reference")
-		if st, err := os.Stat(cand); err == nil && st.IsDir() {
-			return cand
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			t.Skip("reference data folder shared/reference not found above the test directory (see DEVELOPERS.md)")
-		}
-		dir = parent
-	}
-}
 
 // anscombe reads the four sets of Anscombe's quartet from
 // shared/reference/anscombe.csv (columns set, x, y).
 func anscombe(t testing.TB) map[string][2][]float64 {
 	t.Helper()
-	path := filepath.Join(referenceDir(t), "anscombe.csv")
+	path := filepath.Join(reference.Dir(t), "anscombe.csv")
 	f, err := os.Open(path)
 	if err != nil {
 		t.Skipf("reference file %s not readable: %v", path, err)

@@ -12,35 +12,16 @@ import (
 	"strings"
 	"testing"
 
+	"bivar/internal/reference"
+
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 )
 
-// refDir finds shared/reference by walking up from the test's folder, or
-// skips the test.
-func refDir(t *testing.T) string {
-	t.Helper()
-	dir, err := filepath.Abs(".")
-	if err != nil {
-		t.Fatal(err)
-	}
-	for {
-		cand := filepath.Join(dir, "shared", "reference")
-		if st, err := os.Stat(cand); err == nil && st.IsDir() {
-			return cand
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			t.Skip("reference data folder shared/reference not found above the test's folder")
-		}
-		dir = parent
-	}
-}
-
 // anscombe returns set s of Anscombe (1973), read from shared/reference.
 func anscombe(t *testing.T, set string) (x, y []float64) {
 	t.Helper()
-	f, err := os.Open(filepath.Join(refDir(t), "anscombe.csv"))
+	f, err := os.Open(filepath.Join(reference.Dir(t), "anscombe.csv"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -68,7 +49,7 @@ var dataLines = regexp.MustCompile(`Data\s+\(lines (\d+) to (\d+)\)`)
 // by its "Data (lines A to B)" header.
 func nist(t *testing.T, name string) (x, y []float64) {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join(refDir(t), "nist-strd", name))
+	b, err := os.ReadFile(filepath.Join(reference.Dir(t), "nist-strd", name))
 	if err != nil {
 		t.Fatal(err)
 	}

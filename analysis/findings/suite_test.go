@@ -17,30 +17,12 @@ import (
 	"strings"
 	"testing"
 
+	"bivar/internal/reference"
+
 	"bivar/analysis"
 	"bivar/analysis/findings"
 	"bivar/analysis/report"
 )
-
-// referenceDir finds shared/reference by walking up from the test's folder.
-func referenceDir(t *testing.T) string {
-	t.Helper()
-	dir, err := filepath.Abs(".")
-	if err != nil {
-		t.Fatal(err)
-	}
-	for {
-		p := filepath.Join(dir, "shared", "reference")
-		if st, err := os.Stat(p); err == nil && st.IsDir() {
-			return p
-		}
-		up := filepath.Dir(dir)
-		if up == dir {
-			t.Skip("reference data folder shared/reference not found above the test's folder (see DEVELOPERS.md)")
-		}
-		dir = up
-	}
-}
 
 func readCSV(t *testing.T, path string) (head []string, rows [][]string) {
 	t.Helper()
@@ -106,7 +88,7 @@ func bendOf(f *report.Findings) string {
 // (x = 13, data row 3 of the set), r near 1 without it; IV a relationship
 // that comes from one row alone (x = 19, row 8).
 func TestAnscombe(t *testing.T) {
-	path := filepath.Join(referenceDir(t), "anscombe.csv")
+	path := filepath.Join(reference.Dir(t), "anscombe.csv")
 	head, rows := readCSV(t, path)
 	sets := map[string][][2]float64{}
 	for _, r := range rows {

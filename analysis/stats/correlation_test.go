@@ -5,6 +5,8 @@ import (
 	"math/big"
 	"math/rand/v2"
 	"testing"
+
+	"bivar/internal/reference"
 )
 
 // Reference values from scipy 1.10.1 (numpy 1.24.2), computed by
@@ -40,7 +42,7 @@ func rankRefData(t *testing.T, name string) (x, y []float64) {
 	if name == "ties" {
 		return tiesX, tiesY
 	}
-	s := coreAnscombe(t)[name]
+	s := reference.Anscombe(t)[name]
 	return s[0], s[1]
 }
 

@@ -5,6 +5,8 @@ import (
 	"math/rand/v2"
 	"slices"
 	"testing"
+
+	"bivar/internal/reference"
 )
 
 func TestDescribeHand(t *testing.T) {
@@ -47,7 +49,7 @@ func TestDescribeReference(t *testing.T) {
 	t.Parallel()
 	// pandas 1.5.3 Series.mean() / Series.std(ddof=1), via refcheck.py on
 	// Anscombe (1973) sets I and III (shared/reference/anscombe.csv).
-	sets := coreAnscombe(t)
+	sets := reference.Anscombe(t)
 	for _, tc := range []struct {
 		set                  string
 		my, sdy, sdx, lo, hi float64

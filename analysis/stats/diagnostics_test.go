@@ -4,13 +4,15 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"bivar/internal/reference"
 )
 
 // extraSets returns the named test sets: Anscombe (1973) I–IV read from
 // shared/reference/anscombe.csv and extraWavy(20261201, 60).
 func extraSets(t *testing.T) map[string][2][]float64 {
 	t.Helper()
-	sets := extraAnscombe(t)
+	sets := reference.Anscombe(t)
 	x, y := extraWavy(20261201, 60)
 	sets["wavy"] = [2][]float64{x, y}
 	return sets

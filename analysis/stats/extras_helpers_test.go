@@ -4,66 +4,10 @@ package stats
 // distance correlation, diagnostics, partial correlation, adjustment).
 
 import (
-	"encoding/csv"
 	"math"
 	"math/rand/v2"
-	"os"
-	"path/filepath"
-	"strconv"
 	"testing"
 )
-
-// extraRefDir returns the shared reference folder, found by walking up from
-// the test's directory, or skips the test naming it.
-func extraRefDir(t testing.TB) string {
-	t.Helper()
-	dir, err := os.Getwd()
-	if err != nil {
-		t.Fatal(err)
-	}
-	for {
-		p := filepath.Join(dir, "shared", "reference")
-		if st, err := os.Stat(p); err == nil && st.IsDir() {
-			return p
-		}
-		up := filepath.Dir(dir)
-		if up == dir {
-			t.Skip("reference folder shared/reference not found above the test directory (expected ../../../shared/reference)")
-		}
-		dir = up
-	}
-}
-
-// extraAnscombe reads Anscombe's quartet from shared/reference/anscombe.csv
-// (columns set, x, y), in file order per set.
-func extraAnscombe(t testing.TB) map[string][2][]float64 {
-	t.Helper()
-	f, err := os.Open(filepath.Join(extraRefDir(t), "anscombe.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	out := map[string][2][]float64{}
-	for _, r := range recs[1:] {
-		x, err1 := strconv.ParseFloat(r[1], 64)
-		y, err2 := strconv.ParseFloat(r[2], 64)
-		if err1 != nil || err2 != nil {
-			t.Fatalf("anscombe.csv: bad row %v", r)
-		}
-		s := out[r[0]]
-		s[0] = append(s[0], x)
-		s[1] = append(s[1], y)
-		out[r[0]] = s
-	}
-	if len(out) != 4 || len(out["I"][0]) != 11 {
-		t.Fatalf("anscombe.csv: want 4 sets of 11, got %d sets", len(out))
-	}
-	return out
-}
 
 // extraUniform returns the next uniform value in [0, 1) from src, built from
 // its raw 64-bit output (53 bits), so the sequence depends only on the PCG

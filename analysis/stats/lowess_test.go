@@ -5,6 +5,8 @@ import (
 	"math/rand/v2"
 	"slices"
 	"testing"
+
+	"bivar/internal/reference"
 )
 
 // TestLowessStatsmodels checks the fitted values against statsmodels.
@@ -74,7 +76,7 @@ func TestLowessStatsmodels(t *testing.T) {
 		var x, y []float64
 		if tc.set != "" {
 			if ans == nil {
-				ans = extraAnscombe(t)
+				ans = reference.Anscombe(t)
 			}
 			x, y = ans[tc.set][0], ans[tc.set][1]
 		} else {
@@ -99,7 +101,7 @@ func TestLowessStatsmodels(t *testing.T) {
 // hand from the published table), one at x = 19 with y = 12.50.
 func TestLowessTiedWindow(t *testing.T) {
 	t.Parallel()
-	s := extraAnscombe(t)["IV"]
+	s := reference.Anscombe(t)["IV"]
 	x, y := s[0], s[1]
 	got := Lowess(x, y, 2.0/3, 0, 0)
 	for i := range x {

@@ -5,6 +5,8 @@ import (
 	"math/rand/v2"
 	"strings"
 	"testing"
+
+	"bivar/internal/reference"
 )
 
 // TestAnscombe checks the straight line and r on Anscombe (1973), "Graphs
@@ -23,7 +25,7 @@ import (
 // at that tolerance and pins that it rounds to 0.817 rather than hiding it.
 func TestAnscombe(t *testing.T) {
 	t.Parallel()
-	sets := coreAnscombe(t)
+	sets := reference.Anscombe(t)
 	for _, name := range []string{"I", "II", "III", "IV"} {
 		t.Run(name, func(t *testing.T) {
 			x, y := sets[name][0], sets[name][1]
@@ -74,7 +76,7 @@ func TestAnscombe(t *testing.T) {
 // shared/reference/anscombe.csv.
 func TestLineIntervalsReference(t *testing.T) {
 	t.Parallel()
-	sets := coreAnscombe(t)
+	sets := reference.Anscombe(t)
 	l, err := Line(sets["I"][0], sets["I"][1], 0.95)
 	if err != nil {
 		t.Fatal(err)
@@ -311,7 +313,7 @@ func TestLineEdges(t *testing.T) {
 func TestLineReference(t *testing.T) {
 	t.Parallel()
 	type co [6]float64 // estimate, SE, t, p, CI low, CI high
-	sets := coreAnscombe(t)
+	sets := reference.Anscombe(t)
 	for _, tc := range []struct {
 		set                    string
 		s, rss, r2, adj, f, fp float64

@@ -21,6 +21,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"bivar/internal/reference"
 )
 
 type strdFile struct {
@@ -137,7 +139,7 @@ func lre(q, c float64) float64 {
 
 func TestNISTStRD(t *testing.T) {
 	t.Parallel()
-	dir := filepath.Join(coreRefDir(t), "nist-strd")
+	dir := filepath.Join(reference.Dir(t), "nist-strd")
 	cases := []struct {
 		file   string
 		minLRE float64 // required by issue 2 ("Checks")

@@ -6,6 +6,8 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"bivar/internal/reference"
 )
 
 // TestTheilSenScipy checks the exact Theil–Sen line against scipy.
@@ -26,7 +28,7 @@ func TestTheilSenScipy(t *testing.T) {
 		{"IV", 0.5031818181818182, 2.9395454545454545},
 		{"wavy", 0.1307700809523847, 4.578523846021385},
 	}
-	ans := extraAnscombe(t)
+	ans := reference.Anscombe(t)
 	for _, tc := range cases {
 		var x, y []float64
 		if tc.name == "wavy" {

@@ -7,35 +7,16 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-)
 
-// refDir finds shared/reference by walking up from the test's folder, or
-// skips the test.
-func refDir(t *testing.T) string {
-	t.Helper()
-	dir, err := filepath.Abs(".")
-	if err != nil {
-		t.Fatal(err)
-	}
-	for {
-		cand := filepath.Join(dir, "shared", "reference")
-		if st, err := os.Stat(cand); err == nil && st.IsDir() {
-			return cand
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			t.Skip("reference data folder shared/reference not found above the test's folder")
-		}
-		dir = parent
-	}
-}
+	"bivar/internal/reference"
+)
 
 // anscombeI writes set I of Anscombe (1973), read from
 // shared/reference/anscombe.csv, as a CSV of its own in dir (a temporary
 // folder; the reference file itself is never copied into the project).
 func anscombeI(t *testing.T, dir string) string {
 	t.Helper()
-	f, err := os.Open(filepath.Join(refDir(t), "anscombe.csv"))
+	f, err := os.Open(filepath.Join(reference.Dir(t), "anscombe.csv"))
 	if err != nil {
 		t.Fatal(err)
 	}

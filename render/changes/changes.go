@@ -21,6 +21,7 @@ import (
 
 	"bivar/analysis/compare"
 	"bivar/analysis/report"
+	"bivar/render/internal/mdtext"
 	"bivar/themes"
 )
 
@@ -224,20 +225,20 @@ func titleOf(s compare.Side) string {
 // Markdown writes diff.md.
 func Markdown(w io.Writer, res *compare.Result) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "# What changed: %s → %s\n\n", md(titleOf(res.Old)), md(titleOf(res.New)))
-	fmt.Fprintf(&b, "Old run: `%s` (bivar %s) · New run: `%s` (bivar %s)  \n", code(orDash(res.Old.File)), md(orDash(res.Old.ToolVersion)), code(orDash(res.New.File)), md(orDash(res.New.ToolVersion)))
+	fmt.Fprintf(&b, "# What changed: %s → %s\n\n", mdtext.Escape(titleOf(res.Old)), mdtext.Escape(titleOf(res.New)))
+	fmt.Fprintf(&b, "Old run: `%s` (bivar %s) · New run: `%s` (bivar %s)  \n", code(orDash(res.Old.File)), mdtext.Escape(orDash(res.Old.ToolVersion)), code(orDash(res.New.File)), mdtext.Escape(orDash(res.New.ToolVersion)))
 	fmt.Fprintf(&b, "Significance level %g; change tests adjusted across all compared studies: %s.\n\n", res.Alpha, adjustName(res.Adjust))
-	fmt.Fprintf(&b, "> **Caution.** %s\n\n", md(res.Caution))
+	fmt.Fprintf(&b, "> **Caution.** %s\n\n", mdtext.Escape(res.Caution))
 	if len(res.Statements) > 0 {
 		b.WriteString("## What changed\n\n")
-		fmt.Fprintf(&b, "%s\n\n", md(res.Statements[0]))
+		fmt.Fprintf(&b, "%s\n\n", mdtext.Escape(res.Statements[0]))
 		for _, sc := range res.Studies {
 			if sc.Statement != "" {
-				fmt.Fprintf(&b, "- **`%s`** — %s against %s: %s\n", code(sc.ID), md(sc.Y), md(sc.X), md(sc.Statement))
+				fmt.Fprintf(&b, "- **`%s`** — %s against %s: %s\n", code(sc.ID), mdtext.Escape(sc.Y), mdtext.Escape(sc.X), mdtext.Escape(sc.Statement))
 			}
 		}
 		for _, st := range res.Statements[1:] {
-			fmt.Fprintf(&b, "- %s\n", md(st))
+			fmt.Fprintf(&b, "- %s\n", mdtext.Escape(st))
 		}
 		b.WriteString("\n")
 	}
@@ -245,7 +246,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	fmt.Fprintf(&b, "## Summary\n\n- %d studies compared\n- %d with a change beyond chance (adjusted p below %g)\n- %d with a changed verdict\n- %d on a different data file (its SHA-256 changed)\n- %d added, %d removed\n",
 		s.Compared, s.Significant, res.Alpha, s.VerdictChanged, s.DataChanged, s.Added, s.Removed)
 	for _, n := range res.Notes {
-		fmt.Fprintf(&b, "- %s\n", md(n))
+		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(n))
 	}
 	b.WriteString("\n")
 	if len(res.Studies) > 0 {
@@ -270,7 +271,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 				cells = fmt.Sprintf("%s → %s | %s ± %s | %s (%d) | %s | %s | %s → %s", num(sl.Old), num(sl.New), signed(sl.Delta), num(sl.SE),
 					fix2(sl.T), sl.DF, pval(sl.P), mark(sl.PAdjusted, res.Alpha), num(sl.OldResidSD), num(sl.NewResidSD))
 			}
-			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), md(slopeUnit(sc)), cells)
+			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), mdtext.Escape(slopeUnit(sc)), cells)
 		}
 		b.WriteString("\n## Changed verdicts\n\n")
 		if s.VerdictChanged == 0 {
@@ -279,7 +280,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 			b.WriteString("| Study | Verdict | Old | New |\n|---|---|---|---|\n")
 			for _, sc := range res.Studies {
 				for _, v := range sc.Verdicts {
-					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), verdictName(v.Name), md(v.Old), md(v.New))
+					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), verdictName(v.Name), mdtext.Escape(v.Old), mdtext.Escape(v.New))
 				}
 			}
 			b.WriteString("\n")
@@ -287,13 +288,13 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		var notes []string
 		for _, sc := range res.Studies {
 			for _, n := range sc.Notes {
-				notes = append(notes, fmt.Sprintf("- `%s`: %s", code(sc.ID), md(n)))
+				notes = append(notes, fmt.Sprintf("- `%s`: %s", code(sc.ID), mdtext.Escape(n)))
 			}
 			if sc.OldError != nil {
-				notes = append(notes, fmt.Sprintf("- `%s`: did not run in the old run: %s", code(sc.ID), md(*sc.OldError)))
+				notes = append(notes, fmt.Sprintf("- `%s`: did not run in the old run: %s", code(sc.ID), mdtext.Escape(*sc.OldError)))
 			}
 			if sc.NewError != nil {
-				notes = append(notes, fmt.Sprintf("- `%s`: did not run in the new run: %s", code(sc.ID), md(*sc.NewError)))
+				notes = append(notes, fmt.Sprintf("- `%s`: did not run in the new run: %s", code(sc.ID), mdtext.Escape(*sc.NewError)))
 			}
 		}
 		if len(notes) > 0 {
@@ -305,10 +306,10 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		b.WriteString("None: both runs hold the same studies.\n\n")
 	} else {
 		for _, a := range res.Added {
-			fmt.Fprintf(&b, "- added: `%s` — %s vs %s\n", code(a.ID), md(a.Y), md(a.X))
+			fmt.Fprintf(&b, "- added: `%s` — %s vs %s\n", code(a.ID), mdtext.Escape(a.Y), mdtext.Escape(a.X))
 		}
 		for _, r := range res.Removed {
-			fmt.Fprintf(&b, "- removed: `%s` — %s vs %s\n", code(r.ID), md(r.Y), md(r.X))
+			fmt.Fprintf(&b, "- removed: `%s` — %s vs %s\n", code(r.ID), mdtext.Escape(r.Y), mdtext.Escape(r.X))
 		}
 		b.WriteString("\n")
 	}
@@ -326,9 +327,9 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		b.WriteString("\n")
 	}
 	b.WriteString("## How the changes were tested, and what they cannot show\n\n")
-	fmt.Fprintf(&b, "- Change in r: %s.\n- Change in slope: %s.\n", md(res.Tests.Correlation), md(res.Tests.Slope))
+	fmt.Fprintf(&b, "- Change in r: %s.\n- Change in slope: %s.\n", mdtext.Escape(res.Tests.Correlation), mdtext.Escape(res.Tests.Slope))
 	for _, l := range res.Limitations {
-		fmt.Fprintf(&b, "- %s\n", md(l))
+		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(l))
 	}
 	_, err := io.WriteString(w, b.String())
 	return err
@@ -435,24 +436,6 @@ func verdictName(n string) string {
 		return "outlier-driven"
 	}
 	return n
-}
-
-// md escapes text for Markdown: the characters it gives a meaning, the
-// pipe that ends a table cell, and line breaks.
-func md(s string) string {
-	var b strings.Builder
-	for _, r := range s {
-		switch r {
-		case '\\', '`', '*', '_', '[', ']', '<', '>', '|', '#', '&', '!':
-			b.WriteByte('\\')
-			b.WriteRune(r)
-		case '\n', '\r', '\t':
-			b.WriteByte(' ')
-		default:
-			b.WriteRune(r)
-		}
-	}
-	return b.String()
 }
 
 // code makes s safe inside a one-backtick code span (and a table cell).

@@ -22,6 +22,7 @@ import (
 	"strings"
 
 	"bivar/analysis/report"
+	"bivar/render/internal/mdtext"
 )
 
 // Counts are the totals over a report's expectations.
@@ -182,7 +183,7 @@ func JUnitFailedRun(w io.Writer, manifest, msg string) error {
 // run at all.
 func SummaryFailedRun(w io.Writer, manifest, msg string) error {
 	_, err := fmt.Fprintf(w, "## bivar check: %s\n\n**Could not run**: the manifest or its data could not be read.\n\n```\n%s\n```\n",
-		md(manifest), strings.ReplaceAll(strings.TrimSpace(msg), "```", "` ` `"))
+		mdtext.Escape(manifest), strings.ReplaceAll(strings.TrimSpace(msg), "```", "` ` `"))
 	return err
 }
 
@@ -222,7 +223,7 @@ func Summary(w io.Writer, r *report.Report) error {
 	if title == "" {
 		title = r.Manifest.File
 	}
-	fmt.Fprintf(&b, "## bivar check: %s\n\n", md(title))
+	fmt.Fprintf(&b, "## bivar check: %s\n\n", mdtext.Escape(title))
 	switch {
 	case c.Expectations == 0 && c.StudyErrors == 0:
 		fmt.Fprintf(&b, "**No expectations declared** in %d studies; nothing was gated. Add a `[study.expect]` table to gate a study.\n\n", c.Studies)
@@ -262,7 +263,7 @@ func Summary(w io.Writer, r *report.Report) error {
 					case !e.OK:
 						result = "**failed**"
 					}
-					fmt.Fprintf(&b, "| %s | %s | %s | %s | %s |\n", md(s.ID), md(e.Name), md(e.Want), md(e.Got), result)
+					fmt.Fprintf(&b, "| %s | %s | %s | %s | %s |\n", mdtext.Escape(s.ID), mdtext.Escape(e.Name), mdtext.Escape(e.Want), mdtext.Escape(e.Got), result)
 				}
 			}
 		}
@@ -272,7 +273,7 @@ func Summary(w io.Writer, r *report.Report) error {
 	for _, s := range r.Studies {
 		for _, e := range s.Expectations {
 			if s.Error == nil && !e.OK && e.Detail != "" {
-				fails = append(fails, fmt.Sprintf("- `%s` %s: %s", code(s.ID), md(e.Name), md(e.Detail)))
+				fails = append(fails, fmt.Sprintf("- `%s` %s: %s", code(s.ID), mdtext.Escape(e.Name), mdtext.Escape(e.Detail)))
 			}
 		}
 	}
@@ -283,32 +284,14 @@ func Summary(w io.Writer, r *report.Report) error {
 		b.WriteString("Studies that did not run:\n\n")
 		for _, s := range r.Studies {
 			if s.Error != nil {
-				fmt.Fprintf(&b, "- `%s`: %s\n", code(s.ID), md(*s.Error))
+				fmt.Fprintf(&b, "- `%s`: %s\n", code(s.ID), mdtext.Escape(*s.Error))
 			}
 		}
 		b.WriteString("\n")
 	}
-	fmt.Fprintf(&b, "_%s_\n", md(report.Caution))
+	fmt.Fprintf(&b, "_%s_\n", mdtext.Escape(report.Caution))
 	_, err := io.WriteString(w, b.String())
 	return err
-}
-
-// md escapes text for a Markdown table cell or paragraph: the characters
-// Markdown gives a meaning, the pipe that ends a cell, and line breaks.
-func md(s string) string {
-	var b strings.Builder
-	for _, r := range s {
-		switch r {
-		case '\\', '`', '*', '_', '[', ']', '<', '>', '|', '#', '&', '!':
-			b.WriteByte('\\')
-			b.WriteRune(r)
-		case '\n', '\r', '\t':
-			b.WriteByte(' ')
-		default:
-			b.WriteRune(r)
-		}
-	}
-	return b.String()
 }
 
 // code makes s safe inside a one-backtick code span.

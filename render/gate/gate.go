@@ -145,16 +145,7 @@ func JUnit(w io.Writer, r *report.Report) error {
 		root.Errors += suite.Errors
 		root.Suites = append(root.Suites, suite)
 	}
-	var buf bytes.Buffer
-	buf.WriteString(xml.Header)
-	enc := xml.NewEncoder(&buf)
-	enc.Indent("", "  ")
-	if err := enc.Encode(root); err != nil {
-		return fmt.Errorf("gate: encoding JUnit XML: %w", err)
-	}
-	buf.WriteByte('\n')
-	_, err := w.Write(buf.Bytes())
-	return err
+	return writeJUnit(w, root)
 }
 
 // JUnitFailedRun writes a JUnit document for a check that could not run
@@ -167,6 +158,12 @@ func JUnitFailedRun(w io.Writer, manifest, msg string) error {
 		Cases: []junitCase{{Name: "run", Classname: "bivar", Error: &junitProblem{
 			Message: "bivar check could not run", Type: "bad-input", Text: msg}}},
 	}}}
+	return writeJUnit(w, root)
+}
+
+// writeJUnit encodes root as an indented XML document with its header and
+// one final newline, and writes it to w in one piece.
+func writeJUnit(w io.Writer, root junitSuites) error {
 	var buf bytes.Buffer
 	buf.WriteString(xml.Header)
 	enc := xml.NewEncoder(&buf)

@@ -155,7 +155,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 		}
 		var cs []string
 		for _, c := range m.Coefficients {
-			cs = append(cs, c.Name+" "+withCI(c.Estimate, c.CILow, c.CIHigh))
+			cs = append(cs, strings.NewReplacer("^2", "²", "^3", "³").Replace(c.Name)+" "+withCI(c.Estimate, c.CILow, c.CIHigh))
 		}
 		if m.Vertex.Valid() {
 			cs = append(cs, "turning point at x = "+num(m.Vertex))

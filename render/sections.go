@@ -266,13 +266,25 @@ func orDash(s string) string {
 	return s
 }
 
+// symbol is a unit as people write it; a dimensionless code such as "1"
+// has no symbol and shows as "none", an undeclared unit as n/a.
+func symbol(sym, code string) string {
+	switch {
+	case sym != "":
+		return sym
+	case code != "":
+		return "none"
+	}
+	return na
+}
+
 func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
 	if len(s.UnitInvariance) == 0 {
 		return nil, nil
 	}
 	sec := &section{Key: "units", Title: "Units of measure"}
-	t := table{Caption: "r, slope and intercept in other units", Head: []string{"x unit (UCUM)", "y unit (UCUM)", "r", "Slope", "Intercept", "Note"},
-		Num: []bool{false, false, true, true, true, false}, Code: []bool{true, true}}
+	t := table{Caption: "r, slope and intercept in other units", Head: []string{"x unit", "x UCUM", "y unit", "y UCUM", "r", "Slope", "Intercept", "Note"},
+		Num: []bool{false, false, false, false, true, true, true, false}, Code: []bool{false, true, false, true}}
 	var rs []string
 	undefined := 0
 	for _, u := range s.UnitInvariance {
@@ -280,7 +292,7 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		if u.Swapped {
 			note = strings.TrimSpace("x and y swapped. " + note)
 		}
-		t.Rows = append(t.Rows, []string{orDash(u.XUnit), orDash(u.YUnit), num(u.R), num(u.Slope), num(u.Intercept), note})
+		t.Rows = append(t.Rows, []string{symbol(u.XSymbol, u.XUnit), orDash(u.XUnit), symbol(u.YSymbol, u.YUnit), orDash(u.YUnit), num(u.R), num(u.Slope), num(u.Intercept), note})
 		if u.R.Valid() {
 			rs = append(rs, num(u.R))
 		} else {
@@ -324,7 +336,11 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 		t := table{Caption: "Correlation of " + name(s.X) + " and " + name(s.Y) + " with each covariate held fixed (partial correlation)", Head: []string{"Covariate", "n", "Partial r (" + level + "% interval)", "p"},
 			Num: []bool{false, true, true, true}}
 		for _, pc := range s.Partial {
-			t.Rows = append(t.Rows, []string{pc.Covariate, itoa(pc.N), withCI(pc.R, pc.CILow, pc.CIHigh), pval(pc.P)})
+			label := pc.Label
+			if label == "" {
+				label = pc.Covariate
+			}
+			t.Rows = append(t.Rows, []string{label, itoa(pc.N), withCI(pc.R, pc.CILow, pc.CIHigh), pval(pc.P)})
 		}
 		sec.Tables = append(sec.Tables, t)
 	}

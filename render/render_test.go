@@ -15,6 +15,7 @@ import (
 	"testing"
 
 	"github.com/yuin/goldmark"
+	"github.com/yuin/goldmark/extension"
 	"github.com/yuin/goldmark/renderer/html"
 
 	"bivar/analysis/report"
@@ -202,11 +203,12 @@ func TestHostileText(t *testing.T) {
 	if !strings.Contains(page, "&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; &amp; &lt;/svg&gt; &#39;q&#39;") {
 		t.Error("hostile text is not shown escaped inside the SVG")
 	}
-	// Markdown: render it as a permissive viewer would (raw HTML allowed)
-	// and check that no element from the data comes out.
+	// Markdown: render it as a permissive GFM viewer would (tables,
+	// autolinks, raw HTML allowed) and check that no element from the data
+	// comes out.
 	md := mustMD(t, r)
 	var out bytes.Buffer
-	if err := goldmark.New(goldmark.WithRendererOptions(html.WithUnsafe())).Convert(md, &out); err != nil {
+	if err := goldmark.New(goldmark.WithExtensions(extension.GFM), goldmark.WithRendererOptions(html.WithUnsafe())).Convert(md, &out); err != nil {
 		t.Fatal(err)
 	}
 	got := out.String()
@@ -217,6 +219,9 @@ func TestHostileText(t *testing.T) {
 	}
 	if !strings.Contains(got, "&lt;script&gt;") {
 		t.Error("report.md does not show the hostile text as text")
+	}
+	if n := strings.Count(got, "<table>"); n < 5 {
+		t.Errorf("report.md rendered as GFM has %d tables: a hostile cell broke one", n)
 	}
 	files, err := Figures(r)
 	if err != nil {

@@ -38,9 +38,9 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	case f.FormWhy != "":
 		sec.List = append(sec.List, "Form — "+f.FormWhy)
 	case f.Form == "linear":
-		sec.List = append(sec.List, "Form: a straight line describes how "+y+" follows "+x+".")
+		sec.List = append(sec.List, "Form: Linear: a straight line describes how "+y+" follows "+x+".")
 	case f.Form == "curved":
-		w := "Form: curved"
+		w := "Form: Curved"
 		if f.Bend != nil && *f.Bend != "" {
 			w += " (" + strings.ReplaceAll(*f.Bend, "-", " ") + ")"
 		}
@@ -49,9 +49,9 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		}
 		sec.List = append(sec.List, w+".")
 	case f.Form == "nonlinear":
-		sec.List = append(sec.List, "Form: nonlinear — "+y+" depends on "+x+" in a way the correlation coefficient does not capture.")
+		sec.List = append(sec.List, "Form: Nonlinear: "+y+" depends on "+x+" in a way the correlation coefficient does not capture.")
 	case f.Form == "none":
-		sec.List = append(sec.List, "Form: no relationship between "+x+" and "+y+" is detected.")
+		sec.List = append(sec.List, "Form: None: no relationship between "+x+" and "+y+" is detected.")
 	default:
 		sec.List = append(sec.List, "Form: "+f.Form+".")
 	}
@@ -59,18 +59,18 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	case f.DirectionWhy != "":
 		sec.List = append(sec.List, "Direction — "+f.DirectionWhy)
 	case f.Direction == "positive":
-		sec.List = append(sec.List, "Direction: positive — "+y+" tends to be higher where "+x+" is higher.")
+		sec.List = append(sec.List, "Direction: Positive: "+y+" tends to be higher where "+x+" is higher.")
 	case f.Direction == "negative":
-		sec.List = append(sec.List, "Direction: negative — "+y+" tends to be lower where "+x+" is higher.")
+		sec.List = append(sec.List, "Direction: Negative: "+y+" tends to be lower where "+x+" is higher.")
 	case f.Direction == "none":
-		sec.List = append(sec.List, "Direction: none established.")
+		sec.List = append(sec.List, "Direction: None established.")
 	default:
 		sec.List = append(sec.List, "Direction: "+f.Direction+".")
 	}
 	if f.StrengthWhy != "" {
 		sec.List = append(sec.List, "Strength — "+f.StrengthWhy)
 	} else {
-		str := "Strength: " + f.Strength
+		str := "Strength: " + capital(f.Strength)
 		if s.Pearson != nil {
 			str += fmt.Sprintf(" (r = %s)", num(s.Pearson.R))
 		}
@@ -80,19 +80,40 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		sec.List = append(sec.List, str+".")
 	}
 	if f.OutlierDriven {
-		sec.List = append(sec.List, "Influence: the verdict does not survive without the flagged rows (outlier-driven).")
+		sec.List = append(sec.List, "Influence: Outlier-driven: the verdict does not survive without the flagged rows.")
 	}
 	if f.Reversal {
-		sec.List = append(sec.List, "Groups: within each level of "+chart.GroupName(s)+" the direction is the opposite of the pooled direction.")
+		sec.List = append(sec.List, "Groups: Within each level of "+chart.GroupName(s)+" the direction is the opposite of the pooled direction.")
 	}
 	if f.Drift {
-		sec.List = append(sec.List, "Run order: the residuals trend or cluster in run order; the relationship may have drifted.")
+		sec.List = append(sec.List, "Run order: The residuals trend or cluster in run order; the relationship may have drifted.")
 	}
 	if f.SpreadChanges {
-		sec.List = append(sec.List, "Spread: the scatter about the line changes with "+x+" (Breusch–Pagan).")
+		sec.List = append(sec.List, "Spread: The scatter about the line changes with "+x+" (Breusch–Pagan).")
 	}
+	// Each bullet leads with the verdict it is about, set in bold.
+	for _, it := range sec.List {
+		k, v := it, ""
+		for _, sep := range []string{" — ", ": "} {
+			if i := strings.Index(it, sep); i > 0 && i < 12 {
+				k, v = it[:i], it[i+len(sep):]
+				break
+			}
+		}
+		sec.Items = append(sec.Items, kv{k, v})
+	}
+	sec.List = nil
 	sec.After = f.Statements
 	return sec, nil
+}
+
+// capital upper-cases the first letter of a verdict word.
+func capital(w string) string {
+	if w == "" {
+		return w
+	}
+	r := []rune(w)
+	return strings.ToUpper(string(r[0])) + string(r[1:])
 }
 
 func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*section, error) {

@@ -67,6 +67,7 @@ type section struct {
 	Title  string
 	Paras  []string
 	List   []string
+	Items  []kv // bullets with a lead word in bold: "Form — …"
 	Tables []table
 	After  []string // sentences after the tables
 	Box    bool     // drawn as a boxed aside (limits)

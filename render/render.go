@@ -42,11 +42,12 @@ var (
 	htmlTmpl = htmltemplate.Must(htmltemplate.New("html").Funcs(htmltemplate.FuncMap{
 		// svg marks chart output as trusted markup. It is the only place
 		// that does: package chart escapes every label it draws.
-		"svg":      func(s string) htmltemplate.HTML { return htmltemplate.HTML(s) },
-		"notes":    func(s string) htmltemplate.HTML { return htmltemplate.HTML(s) }, // goldmark output, raw HTML disabled
-		"rowClass": rowClass,
-		"rowLink":  rowLink,
-		"isCode":   isCode,
+		"svg":       func(s string) htmltemplate.HTML { return htmltemplate.HTML(s) },
+		"notes":     func(s string) htmltemplate.HTML { return htmltemplate.HTML(s) }, // goldmark output, raw HTML disabled
+		"rowClass":  rowClass,
+		"rowLink":   rowLink,
+		"isCode":    isCode,
+		"cellClass": cellClass,
 	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.html.tmpl"))
 
 	mdTmpl = template.Must(template.New("md").Funcs(template.FuncMap{
@@ -66,6 +67,18 @@ func rowClass(t table, i int) string {
 func rowLink(t table, i int) string {
 	if i < len(t.Links) {
 		return t.Links[i]
+	}
+	return ""
+}
+
+// cellClass is the class of a body cell: "n" for numbers, "nw" for a
+// column that must not wrap.
+func cellClass(t table, col int) string {
+	switch {
+	case col < len(t.Num) && t.Num[col]:
+		return "n"
+	case col < len(t.NoWrap) && t.NoWrap[col]:
+		return "nw"
 	}
 	return ""
 }

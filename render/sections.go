@@ -169,7 +169,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 	}
 	sec.Tables = append(sec.Tables, t)
 	mt := table{Caption: "Other fits of y on x (R² of log-y fits is on the log scale)", Head: []string{"Fit", "Formula", "R²", "Adjusted R²", "AIC", "Coefficients (" + level + "% interval)"},
-		Num: []bool{false, false, true, true, true, false}}
+		Num: []bool{false, false, true, true, true, false}, NoWrap: []bool{true, true}}
 	for _, m := range s.Models {
 		if m.Name == "line" {
 			continue

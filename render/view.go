@@ -37,6 +37,7 @@ type table struct {
 	Caption string
 	Head    []string
 	Num     []bool
+	NoWrap  []bool // columns whose cells never wrap (formulas)
 	Code    []bool // columns that hold codes (UCUM units): <code> in HTML, a code span in Markdown
 	Rows    [][]string
 	Classes []string // optional class per row ("bad", "ok"), HTML only

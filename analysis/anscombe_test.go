@@ -9,10 +9,9 @@ import (
 	"strconv"
 	"testing"
 
-	"bivar/internal/reference"
-
 	"bivar/analysis"
 	"bivar/analysis/report"
+	"bivar/internal/reference"
 )
 
 // anscombe reads the four sets of Anscombe's quartet from

@@ -3,7 +3,6 @@ package compare
 import (
 	"bufio"
 	"bytes"
-	"encoding/csv"
 	"math"
 	"os"
 	"path/filepath"
@@ -12,35 +11,16 @@ import (
 	"strings"
 	"testing"
 
-	"bivar/internal/reference"
-
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
+	"bivar/internal/reference"
 )
 
 // anscombe returns set s of Anscombe (1973), read from shared/reference.
 func anscombe(t *testing.T, set string) (x, y []float64) {
 	t.Helper()
-	f, err := os.Open(filepath.Join(reference.Dir(t), "anscombe.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, r := range recs[1:] {
-		if r[0] != set {
-			continue
-		}
-		x = append(x, mustFloat(t, r[1]))
-		y = append(y, mustFloat(t, r[2]))
-	}
-	if len(x) != 11 {
-		t.Fatalf("anscombe set %s: %d rows, want 11", set, len(x))
-	}
-	return x, y
+	xy := reference.Anscombe(t)[set]
+	return xy[0], xy[1]
 }
 
 var dataLines = regexp.MustCompile(`Data\s+\(lines (\d+) to (\d+)\)`)

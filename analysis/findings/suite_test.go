@@ -17,11 +17,10 @@ import (
 	"strings"
 	"testing"
 
-	"bivar/internal/reference"
-
 	"bivar/analysis"
 	"bivar/analysis/findings"
 	"bivar/analysis/report"
+	"bivar/internal/reference"
 )
 
 func readCSV(t *testing.T, path string) (head []string, rows [][]string) {

@@ -56,3 +56,21 @@ func TestAdjustmentFactorSaysApproximate(t *testing.T) {
 		t.Errorf("no adjustment across studies, yet the sentence speaks of it:\n%s", all(f))
 	}
 }
+
+// TestPBothOneFigureWhenAlike: where the adjusted and the unadjusted p
+// print alike ("p < 0.001"), the sentence gives the figure once; where the
+// adjustment changes it, both are shown.
+func TestPBothOneFigureWhenAlike(t *testing.T) {
+	s := study(0.9, 1e-9)
+	s.Pearson.PAdjusted = 6e-9
+	f := Assess(s, ctx)
+	if txt := f.DirectionWhy; !strings.Contains(txt, "p < 0.001, adjusted or not") || strings.Contains(txt, "unadjusted") {
+		t.Errorf("both p below 0.001: want the figure once, got:\n%s", txt)
+	}
+	s = study(0.5, 0.004)
+	s.Pearson.PAdjusted = 0.012
+	f = Assess(s, ctx)
+	if txt := f.DirectionWhy; !strings.Contains(txt, "adjusted p = 0.012 (unadjusted p = 0.004)") {
+		t.Errorf("adjustment changes p: want both figures, got:\n%s", txt)
+	}
+}

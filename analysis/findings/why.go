@@ -29,10 +29,15 @@ func (f *facts) rShown() string {
 }
 
 // pBoth is the p the verdicts read: "p = 0.004", or "adjusted p = 0.012
-// (unadjusted p = 0.004)" where the adjustment changed it.
+// (unadjusted p = 0.004)" where the adjustment changed it, or "p < 0.001,
+// adjusted or not" where the two print alike.
 func (f *facts) pBoth() string {
 	if f.adj != 1 {
-		return fmt.Sprintf("adjusted %s (unadjusted %s)", f.pv(math.Min(1, f.p)), f.pv(float64(f.s.Pearson.P)))
+		adj, raw := f.pv(math.Min(1, f.p)), f.pv(float64(f.s.Pearson.P))
+		if adj == raw { // e.g. both "p < 0.001": one figure says it
+			return adj + ", adjusted or not"
+		}
+		return fmt.Sprintf("adjusted %s (unadjusted %s)", adj, raw)
 	}
 	return f.pv(float64(f.s.Pearson.P))
 }

@@ -108,3 +108,37 @@ func TestParseFlagsInterleaved(t *testing.T) {
 		t.Errorf("-o=%q args=%q, want out [m.toml]", *o, fs.Args())
 	}
 }
+
+// TestRunKeepsEarlierReport: a run in which no study can run (here the
+// data file has a header and no rows) writes nothing, so the report of an
+// earlier good run stays as it was.
+func TestRunKeepsEarlierReport(t *testing.T) {
+	dir := t.TempDir()
+	manifest := filepath.Join(dir, "m.toml")
+	data := filepath.Join(dir, "d.csv")
+	write := func(name, text string) {
+		t.Helper()
+		if err := os.WriteFile(name, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	write(manifest, "title = \"keep (invented data)\"\n[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"a\"\ny = \"b\"\n")
+	write(data, "a,b\n1,2\n2,3\n3,5\n4,4\n")
+	if code, _, stderr := call(t, "run", manifest); code != exitOK {
+		t.Fatalf("first run: exit %d\n%s", code, stderr)
+	}
+	results := filepath.Join(dir, "report", "results.json")
+	before, err := os.ReadFile(results)
+	if err != nil {
+		t.Fatal(err)
+	}
+	write(data, "a,b\n")
+	code, _, stderr := call(t, "run", manifest)
+	if code != exitFailed || !strings.Contains(stderr, "no study ran; nothing written") {
+		t.Errorf("second run: exit %d, want %d and a message saying nothing was written; stderr:\n%s", code, exitFailed, stderr)
+	}
+	after, err := os.ReadFile(results)
+	if err != nil || !bytes.Equal(before, after) {
+		t.Errorf("the earlier results.json was changed or removed (err %v)", err)
+	}
+}

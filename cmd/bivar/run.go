@@ -37,16 +37,29 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 			dir = filepath.Join(m.Dir, dir)
 		}
 	}
-	if err := render.WriteReport(dir, rep, m.Output.Formats, render.WithTheme(m.Output.Theme)); err != nil {
-		fmt.Fprintf(stderr, "bivar: writing the report: %v\n", err)
+	code = status(rep, stderr)
+	if ran := studiesRan(rep); ran == 0 {
+		// A report of nothing but errors would replace a good earlier one.
+		fmt.Fprintf(stderr, "bivar: no study ran; nothing written, and any earlier report in %s is left as it was\n", dir)
 		return exitFailed
 	}
-	noun := "studies"
-	if len(rep.Studies) == 1 {
-		noun = "study"
+	if err := render.WriteReport(dir, rep, m.Output.Formats, render.WithTheme(m.Output.Theme)); err != nil {
+		fmt.Fprintf(stderr, "bivar: writing the report to %s (from [output] dir or -o): %v\n", dir, err)
+		return exitFailed
 	}
-	fmt.Fprintf(stderr, "bivar: %d %s; report written to %s\n", len(rep.Studies), noun, dir)
-	return status(rep, stderr)
+	fmt.Fprintf(stderr, "bivar: %s; report written to %s\n", plural(len(rep.Studies), "study", "studies"), dir)
+	return code
+}
+
+// studiesRan counts the studies that ran (have no error).
+func studiesRan(rep *report.Report) int {
+	n := 0
+	for _, s := range rep.Studies {
+		if s.Error == nil {
+			n++
+		}
+	}
+	return n
 }
 
 // compute loads the manifest and runs every study. On failure it has

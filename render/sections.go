@@ -85,6 +85,10 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	if f.Reversal {
 		sec.List = append(sec.List, "Groups: Within each level of "+chart.GroupName(s)+" the direction is the opposite of the pooled direction.")
 	}
+	if len(f.ExplainedBy) > 0 {
+		sec.List = append(sec.List, "Covariates: Holding "+strings.Join(covariateLabels(s, f.ExplainedBy), " and ")+
+			" fixed, the association between "+x+" and "+y+" is no longer shown: it may be carried by that variable rather than by "+x+".")
+	}
 	if f.Drift {
 		sec.List = append(sec.List, "Run order: The residuals trend or cluster in run order; the relationship may have drifted.")
 	}

@@ -245,6 +245,7 @@ type summaryRow struct {
 	P                      string
 	Form, Bend             string // "curved", "bends down"
 	Direction, Strength    string
+	DirNote, StrengthNote  string // "reverses within Quench tank", "as a curve: strong"
 	Flags, FlagNote        string // "1", "outlier-driven"
 	Expect, ExpectNote     string // "6 of 7 met", "1 failed": said in words, not by colour alone
 	Failed                 bool
@@ -304,6 +305,13 @@ func (s summary) Table() table {
 		if r.Bend != "" {
 			form += ", " + r.Bend
 		}
+		dir, strength := r.Direction, r.Strength
+		if r.DirNote != "" {
+			dir += ", " + r.DirNote
+		}
+		if r.StrengthNote != "" {
+			strength += ", " + r.StrengthNote
+		}
 		flags := r.Flags
 		if r.FlagNote != "" {
 			flags += ", " + r.FlagNote
@@ -312,7 +320,7 @@ func (s summary) Table() table {
 		if r.ExpectNote != "" {
 			exp += ", " + r.ExpectNote
 		}
-		t.Rows = append(t.Rows, []string{r.ID, r.N, rv, r.P, form, r.Direction, r.Strength, flags, exp})
+		t.Rows = append(t.Rows, []string{r.ID, r.N, rv, r.P, form, dir, strength, flags, exp})
 		t.Classes = append(t.Classes, r.Class)
 		t.Links = append(t.Links, r.Link)
 	}
@@ -357,6 +365,20 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		row.Form, row.Direction, row.Strength = f.Form, f.Direction, f.Strength
 		if f.Bend != nil && *f.Bend != "" {
 			row.Bend = strings.ReplaceAll(*f.Bend, "-", " ")
+		}
+		// What the pooled verdict alone would hide: a reversal within
+		// groups, a covariate that carries the association, a curve
+		// stronger than its straight line.
+		var notes []string
+		if f.Reversal {
+			notes = append(notes, "reverses within "+chart.GroupName(s))
+		}
+		if len(f.ExplainedBy) > 0 {
+			notes = append(notes, "gone given "+strings.Join(covariateLabels(s, f.ExplainedBy), ", "))
+		}
+		row.DirNote = strings.Join(notes, "; ")
+		if f.CurveStrength != "" && f.CurveStrength != f.Strength {
+			row.StrengthNote = "as a curve: " + f.CurveStrength
 		}
 	}
 	row.Flags = "none"
@@ -441,4 +463,20 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		}
 	}
 	return sv, nil
+}
+
+// covariateLabels names covariate columns as people read them: the label
+// the partial-correlation rows carry, else the column name.
+func covariateLabels(s *report.Study, columns []string) []string {
+	out := make([]string, 0, len(columns))
+	for _, c := range columns {
+		label := c
+		for _, p := range s.Partial {
+			if p.Covariate == c && p.Label != "" {
+				label = p.Label
+			}
+		}
+		out = append(out, label)
+	}
+	return out
 }

@@ -108,7 +108,13 @@ func diagnostics(id string, x, y []float64, line stats.LineFit, quad *stats.Regr
 	if quad != nil {
 		d.QuadraticP = report.Float(quad.Coef[2].P)
 	}
-	if f, df1, df2, p, ok := stats.LackOfFit(x, y); ok {
+	// The lack-of-fit test needs settings that were repeated on purpose.
+	// Where x is continuous, a few values repeat only by rounding, and a
+	// test with a handful of pure-error degrees of freedom against a
+	// hundred levels says little. So it is reported only when the levels
+	// of x are at most half the rows (each level holds two rows on
+	// average); levels = df1 + 2.
+	if f, df1, df2, p, ok := stats.LackOfFit(x, y); ok && 2*(df1+2) <= len(x) {
 		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(p)}
 	}
 	dc, p, used, method := stats.DistanceCorrTest(x, y, cfg.DcorPerms, cfg.DcorMaxN, source(cfg.Seed, id, "dcor"))

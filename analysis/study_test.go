@@ -215,3 +215,31 @@ func TestAnalyzeUnitNotes(t *testing.T) {
 		t.Errorf("swapped row %+v vs recorded %+v", u[3], u[0])
 	}
 }
+
+// TestLackOfFitNeedsRepeatedSettings: the lack-of-fit test is reported for
+// a design with repeated settings, and not where x is continuous and only
+// a few values repeat (its pure-error degrees of freedom would be a
+// handful against dozens of levels).
+func TestLackOfFitNeedsRepeatedSettings(t *testing.T) {
+	t.Parallel()
+	var xr, yr, xc, yc []float64
+	for i := range 40 {
+		level := float64(i % 5) // five settings, eight rows each
+		xr = append(xr, level)
+		yr = append(yr, level*level+0.1*float64(i%3))
+		v := float64(i) * 1.37 // continuous: all distinct but two
+		if i == 39 {
+			v = 1.37
+		}
+		xc = append(xc, v)
+		yc = append(yc, 0.5*v+float64(i%4))
+	}
+	if s := analysis.Analyze(in(xr, yr), analysis.DefaultConfig()); s.Diagnostics == nil || s.Diagnostics.LackOfFit == nil {
+		t.Error("five settings repeated eight times: want the lack-of-fit test reported")
+	} else if lf := s.Diagnostics.LackOfFit; lf.DF1 != 3 || lf.DF2 != 35 {
+		t.Errorf("lack of fit df = (%d, %d), want (3, 35): 5 levels − 2, 40 rows − 5 levels", lf.DF1, lf.DF2)
+	}
+	if s := analysis.Analyze(in(xc, yc), analysis.DefaultConfig()); s.Diagnostics != nil && s.Diagnostics.LackOfFit != nil {
+		t.Errorf("39 distinct x among 40 rows: want no lack-of-fit test, got %+v", *s.Diagnostics.LackOfFit)
+	}
+}

@@ -239,7 +239,7 @@ type Fit struct {
 // Diagnostics are the tests of form, spread and order.
 type Diagnostics struct {
 	QuadraticP   Float         `json:"quadratic_p"` // t-test of the x² term
-	LackOfFit    *LackOfFit    `json:"lack_of_fit"` // nil when x has no replicates
+	LackOfFit    *LackOfFit    `json:"lack_of_fit"` // nil unless x repeats: at most n/2 distinct settings (see analysis.diagnostics)
 	DistanceCorr *DistanceCorr `json:"distance_corr"`
 	BreuschPagan *ChiTest      `json:"breusch_pagan"` // Koenker's studentized form, n·R² of e² on x
 	DurbinWatson Float         `json:"durbin_watson"` // residuals in run order (file order when no `order`)

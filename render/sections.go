@@ -160,12 +160,19 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 		if bp := d.BreuschPagan; bp != nil {
 			add(fmt.Sprintf("Breusch–Pagan χ² (df %d)", bp.DF), num(bp.Stat), "", pval(bp.P))
 		}
-		add("Durbin–Watson", num(d.DurbinWatson), "", "")
+		dwOrder := "in data order"
+		if s.Order != "" {
+			dwOrder = "in order of " + chart.OrderName(s)
+		}
+		add("Durbin–Watson, residuals "+dwOrder, num(d.DurbinWatson), "", "")
+		if d.DurbinWatsonX.Valid() {
+			add("Durbin–Watson, residuals in order of "+name(s.X), num(d.DurbinWatsonX), "", "")
+		}
 		if ot := d.OrderTrend; ot != nil {
 			add("Residual trend in run order (per unit of "+chart.OrderName(s)+")", num(ot.Slope), "", pval(ot.P))
 		}
 		if rs := d.Resistant; rs != nil {
-			add("Resistant slope, "+rs.Method, num(rs.Slope), "", "")
+			add("Resistant slope, "+methodName(rs.Method), num(rs.Slope), "", "")
 		}
 		if lw := d.Lowess; lw != nil {
 			add("LOWESS settings", fmt.Sprintf("span %s, %d iterations", sig(lw.Frac, 3), lw.Iterations), "", "")
@@ -265,7 +272,7 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 	}
 	method := "resistant line"
 	if s.Diagnostics != nil && s.Diagnostics.Resistant != nil {
-		method = "Resistant line, " + s.Diagnostics.Resistant.Method
+		method = "Resistant line, " + methodName(s.Diagnostics.Resistant.Method)
 	}
 	t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
 	sec.Tables = append(sec.Tables, t)
@@ -430,4 +437,10 @@ func notesSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		return nil, fmt.Errorf("rendering the notes: %w", err)
 	}
 	return &section{Key: "notes", Title: "Notes", Notes: s.Notes, HTML: html}, nil
+}
+
+// methodName writes a method string from the analysis as people read it:
+// "theil-sen (exact)" becomes "Theil–Sen (exact)", as the prose has it.
+func methodName(m string) string {
+	return strings.Replace(m, "theil-sen", "Theil–Sen", 1)
 }

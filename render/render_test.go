@@ -144,7 +144,7 @@ func TestHTMLStructure(t *testing.T) {
 		"Units of measure", "r reads 0.9120 in every row where it could be computed", "Predictions from the line",
 		"Mean response (95% confidence)", "One new row (95% prediction)", "no — not supported", `class="limits limits"`, "What may not be concluded",
 		"Declared expectations", "<strong>press controller</strong>", "Without row P0010", "Without all 2 flagged rows",
-		"Resistant line, theil-sen (exact)", "This study did not run.", "< 1e−300", "The line within each level of Resin lot"} {
+		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 1e−300", "The line within each level of Resin lot"} {
 		if !strings.Contains(page, strings.ReplaceAll(strings.ReplaceAll(want, "<", "&lt;"), "&lt;strong>", "<strong>")) && !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}

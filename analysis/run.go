@@ -86,6 +86,9 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 	for i, st := range m.Studies {
 		in, msg := input(st, loaded[st.Dataset])
 		if msg != "" {
+			if st.Line > 0 { // where to fix it: the study's [[study]] header
+				msg = fmt.Sprintf("%s:%d: in this [[study]]: %s", m.Path, st.Line, msg)
+			}
 			s := failed(report.Study{ID: st.ID, Title: st.Title, Dataset: st.Dataset,
 				X: report.Variable{Column: st.X, Label: st.X}, Y: report.Variable{Column: st.Y, Label: st.Y},
 				Group: st.Group, Order: st.Order, GroupLabel: labelOf(st.Group, ""), OrderLabel: labelOf(st.Order, ""),

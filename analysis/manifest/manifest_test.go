@@ -188,7 +188,12 @@ func TestErrors(t *testing.T) {
 				{Line: 5, Col: 1, Key: "dataset.units.a", Msg: `dataset "nov", column "a": unknown unit "degC" — the UCUM code is "Cel"`},
 				{Line: 7, Col: 1, Key: `dataset.units."c.d"`, Msg: `dataset "nov", column "c.d": unknown unit "kgg" — did you mean "kg"?`},
 				{Line: 14, Col: 13, Key: "study.also_in.x", Msg: `study "s1": also_in.x: cannot convert "Cel" (temperature) to "kg" (mass): they measure different quantities`},
-				{Line: 20, Col: 1, Key: "study.also_in.y", Msg: `study "s2": also_in.y needs the unit column "f" is recorded in: declare it under [dataset.units] of dataset "nov"`},
+				{Line: 20, Col: 1, Key: "study.also_in.y", Msg: `study "s2": also_in.y converts column "f", but [dataset.units] of dataset "nov" gives it no unit: declare the unit it was recorded in, or correct y`},
+			}},
+		{"units for a misspelt column", head + "[dataset.units]\ntemper_temp = \"Cel\"\n" +
+			"[[study]]\nid = \"s1\"\ndataset = \"nov\"\nx = \"temper_tmp\"\ny = \"b\"\nalso_in.x = \"[degF]\"\n",
+			[]Error{
+				{Line: 11, Col: 1, Key: "study.also_in.x", Msg: `study "s1": also_in.x converts column "temper_tmp", but [dataset.units] of dataset "nov" gives it no unit (is x = "temper_tmp" a misspelling of "temper_temp"?): declare the unit it was recorded in, or correct x`},
 			}},
 		{"inline array of tables", "study = [\n  { id = \"a\", dataset = \"nov\", x = \"p\", y = \"q\" },\n  { id = \"a\", dataset = \"nov\", x = \"p\" },\n]\n" + head,
 			[]Error{

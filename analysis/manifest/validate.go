@@ -256,7 +256,13 @@ func (p *parser) alsoIn(owner, name, axis, column string, codes []string, d Data
 	key := "study.also_in." + axis
 	from, ok := d.Units[column]
 	if !ok {
-		p.add(owner, key, "study %q: also_in.%s needs the unit column %q is recorded in: declare it under [dataset.units] of dataset %q", name, axis, column, d.ID)
+		declared := slices.Sorted(maps.Keys(d.Units)) // sorted: the same hint every run
+		hint := ""
+		if near := suggest.Nearest(column, declared); near != "" {
+			hint = fmt.Sprintf(" (is %s = %q a misspelling of %q?)", axis, column, near)
+		}
+		p.add(owner, key, "study %q: also_in.%s converts column %q, but [dataset.units] of dataset %q gives it no unit%s: declare the unit it was recorded in, or correct %s",
+			name, axis, column, d.ID, hint, axis)
 		return
 	}
 	if units.Check(from) != nil {

@@ -30,6 +30,7 @@ import (
 	"text/template"
 
 	"bivar/analysis/report"
+	"bivar/internal/atomicfile"
 	"bivar/render/chart"
 	"bivar/themes"
 )
@@ -239,10 +240,7 @@ func markdownBytes(r *report.Report, opts []Option) ([]byte, *page, error) {
 
 // File is one file of the report: a slash-separated name relative to the
 // report folder and its bytes.
-type File struct {
-	Name string
-	Data []byte
-}
+type File = atomicfile.File
 
 // Figures returns the SVG files report.md links to, in study order.
 func Figures(r *report.Report, opts ...Option) ([]File, error) {

@@ -2,14 +2,13 @@ package render
 
 import (
 	"bytes"
-	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
-	"slices"
 	"strings"
 
 	"bivar/analysis/report"
+	"bivar/internal/atomicfile"
 )
 
 // File names WriteReport uses inside the report folder.
@@ -72,7 +71,7 @@ func WriteReport(dir string, r *report.Report, formats []string, opts ...Option)
 			return fmt.Errorf("unknown output format %q: want one or more of %s", f, strings.Join(Formats(), ", "))
 		}
 	}
-	if err := writeAtomic(dir, files); err != nil {
+	if err := atomicfile.Write(dir, files); err != nil {
 		return err
 	}
 	if figDir != "" {
@@ -103,61 +102,6 @@ func removeStaleFigures(figDir string, files []File) error {
 			if err := os.Remove(filepath.Join(figDir, n)); err != nil {
 				return fmt.Errorf("removing the old figure %s: %w", n, err)
 			}
-		}
-	}
-	return nil
-}
-
-// writeAtomic writes files under dir by temporary file and rename.
-func writeAtomic(dir string, files []File) (err error) {
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return fmt.Errorf("creating the report folder: %w", err)
-	}
-	type pending struct{ tmp, final string }
-	var done []pending
-	defer func() {
-		if err != nil {
-			for _, p := range done {
-				os.Remove(p.tmp)
-			}
-		}
-	}()
-	names := make([]string, 0, len(files))
-	for _, f := range files {
-		if slices.Contains(names, f.Name) {
-			return fmt.Errorf("report file %s would be written twice", f.Name)
-		}
-		names = append(names, f.Name)
-		final := filepath.Join(dir, filepath.FromSlash(f.Name))
-		sub := filepath.Dir(final)
-		if err := os.MkdirAll(sub, 0o755); err != nil {
-			return fmt.Errorf("creating %s: %w", sub, err)
-		}
-		tmp, err := os.CreateTemp(sub, "."+filepath.Base(final)+".*.tmp")
-		if err != nil {
-			return fmt.Errorf("writing %s: %w", final, err)
-		}
-		done = append(done, pending{tmp.Name(), final})
-		_, werr := tmp.Write(f.Data)
-		if werr == nil {
-			werr = tmp.Sync()
-		}
-		cerr := tmp.Close()
-		if werr = errors.Join(werr, cerr); werr != nil {
-			return fmt.Errorf("writing %s: %w", final, werr)
-		}
-		if err := os.Chmod(tmp.Name(), 0o644); err != nil {
-			return fmt.Errorf("writing %s: %w", final, err)
-		}
-	}
-	for i, p := range done {
-		if err := os.Rename(p.tmp, p.final); err != nil {
-			// Files renamed so far are whole; remove the temporaries left.
-			for _, q := range done[i:] {
-				os.Remove(q.tmp)
-			}
-			done = nil
-			return fmt.Errorf("putting %s in place: %w", p.final, err)
 		}
 	}
 	return nil

@@ -14,6 +14,7 @@ import (
 	"path/filepath"
 
 	"bivar/analysis/report"
+	"bivar/internal/atomicfile"
 	"bivar/render/gate"
 )
 
@@ -131,30 +132,8 @@ func writeWith(path string, write func(io.Writer) error) error {
 	if err := write(&buf); err != nil {
 		return err
 	}
-	dir := filepath.Dir(path)
 	if info, err := os.Stat(path); err == nil && info.IsDir() {
 		return fmt.Errorf("%s is a folder: give a file name", path)
 	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return fmt.Errorf("creating the folder for %s: %w", path, err)
-	}
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
-	if err != nil {
-		return err
-	}
-	_, werr := tmp.Write(buf.Bytes())
-	cerr := tmp.Close()
-	if werr == nil {
-		werr = cerr
-	}
-	if werr == nil {
-		werr = os.Chmod(tmp.Name(), 0o644)
-	}
-	if werr == nil {
-		werr = os.Rename(tmp.Name(), path)
-	}
-	if werr != nil {
-		os.Remove(tmp.Name())
-	}
-	return werr
+	return atomicfile.Write(filepath.Dir(path), []atomicfile.File{{Name: filepath.Base(path), Data: buf.Bytes()}})
 }

@@ -13,14 +13,13 @@ import (
 	"html/template"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
 
 	"bivar/analysis/compare"
 	"bivar/analysis/report"
+	"bivar/internal/atomicfile"
 	"bivar/render/internal/mdtext"
 	"bivar/themes"
 )
@@ -75,20 +74,10 @@ var Files = map[string]string{"html": "diff.html", "markdown": "diff.md", "json"
 // the previous files as they were.
 func Write(dir string, res *compare.Result, opts ...Option) error {
 	c := newConfig(opts)
-	type out struct{ tmp, final string }
-	var done []out
-	cleanup := func() {
-		for _, o := range done {
-			os.Remove(o.tmp)
-		}
-	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return fmt.Errorf("creating the output folder: %w", err)
-	}
+	var files []atomicfile.File
 	for _, f := range c.formats {
 		name, ok := Files[f]
 		if !ok {
-			cleanup()
 			return fmt.Errorf("unknown format %q: want html, markdown or json", f)
 		}
 		var buf bytes.Buffer
@@ -102,44 +91,11 @@ func Write(dir string, res *compare.Result, opts ...Option) error {
 			err = compare.Write(&buf, res)
 		}
 		if err != nil {
-			cleanup()
 			return err
 		}
-		tmp, err := os.CreateTemp(dir, "."+name+".*.tmp")
-		if err != nil {
-			cleanup()
-			return fmt.Errorf("writing %s: %w", name, err)
-		}
-		done = append(done, out{tmp.Name(), filepath.Join(dir, name)})
-		_, werr := tmp.Write(buf.Bytes())
-		cerr := tmp.Close()
-		if werr != nil || cerr != nil {
-			cleanup()
-			return fmt.Errorf("writing %s: %w", name, firstErr(werr, cerr))
-		}
-		if err := os.Chmod(tmp.Name(), 0o644); err != nil {
-			cleanup()
-			return fmt.Errorf("writing %s: %w", name, err)
-		}
+		files = append(files, atomicfile.File{Name: name, Data: buf.Bytes()})
 	}
-	for i, o := range done {
-		if err := os.Rename(o.tmp, o.final); err != nil {
-			for _, rest := range done[i:] {
-				os.Remove(rest.tmp)
-			}
-			return fmt.Errorf("writing %s: %w", filepath.Base(o.final), err)
-		}
-	}
-	return nil
-}
-
-func firstErr(errs ...error) error {
-	for _, e := range errs {
-		if e != nil {
-			return e
-		}
-	}
-	return nil
+	return atomicfile.Write(dir, files)
 }
 
 // HTML writes diff.html.

@@ -178,8 +178,6 @@ func TestHTMLStructure(t *testing.T) {
 	}
 }
 
-const hostile = `<script>alert("x")</script> & </svg> 'q' "dq" <b>`
-
 func TestHostileText(t *testing.T) {
 	r := fixture.Report(fixture.Options{Hostile: true})
 	page := string(mustHTML(t, r))

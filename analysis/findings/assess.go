@@ -273,15 +273,8 @@ func (f *facts) decide(out *report.Findings) {
 		lineR2 = float64(s.Line.R2)
 	}
 	f.quad = quadratic(s)
-	qp := math.NaN()
-	if s.Diagnostics != nil {
-		qp = float64(s.Diagnostics.QuadraticP)
-	}
 	if q := f.quad; q != nil && len(q.Coefficients) == 3 {
 		f.b2 = float64(q.Coefficients[2].Estimate)
-		if math.IsNaN(qp) {
-			qp = float64(q.Coefficients[2].P)
-		}
 		f.gain = float64(q.R2) - lineR2
 		f.curved = f.screenAdj[checkCurvature] < f.alpha && float64(q.FP) < f.alpha && f.gain >= f.th.CurveGainR2 && f.b2 != 0
 	}

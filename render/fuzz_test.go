@@ -42,7 +42,7 @@ func FuzzHostileNames(f *testing.F) {
 			t.Fatalf("text %q became markup", s)
 		}
 		for _, svg := range svgRE.FindAllString(p, -1) {
-			if err := wellFormed([]byte(svg)); err != nil {
+			if err := fixture.WellFormed([]byte(svg)); err != nil {
 				t.Fatalf("text %q broke an SVG: %v", s, err)
 			}
 		}

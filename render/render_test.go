@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"crypto/sha256"
 	"encoding/base64"
-	"encoding/xml"
 	"flag"
 	htmlstd "html"
 	"io"
@@ -44,20 +43,6 @@ func mustMD(t *testing.T, r *report.Report, opts ...Option) []byte {
 		t.Fatalf("Markdown: %v", err)
 	}
 	return b.Bytes()
-}
-
-// wellFormed reports whether b parses as XML (used on each SVG).
-func wellFormed(b []byte) error {
-	d := xml.NewDecoder(bytes.NewReader(b))
-	for {
-		_, err := d.Token()
-		if err == io.EOF {
-			return nil
-		}
-		if err != nil {
-			return err
-		}
-	}
 }
 
 var svgRE = regexp.MustCompile(`(?s)<svg .*?</svg>\n`)
@@ -156,7 +141,7 @@ func TestHTMLStructure(t *testing.T) {
 		t.Fatalf("%d inline SVG figures, want 5", len(svgs))
 	}
 	for i, s := range svgs {
-		if err := wellFormed([]byte(s)); err != nil {
+		if err := fixture.WellFormed([]byte(s)); err != nil {
 			t.Errorf("figure %d is not well-formed XML: %v", i, err)
 		}
 		for _, want := range []string{`width="`, `height="`, "<title id=", "<desc id=", `role="img"`} {
@@ -191,7 +176,7 @@ func TestHostileText(t *testing.T) {
 		t.Error("hostile text is not shown escaped in the page")
 	}
 	for i, s := range svgRE.FindAllString(page, -1) {
-		if err := wellFormed([]byte(s)); err != nil {
+		if err := fixture.WellFormed([]byte(s)); err != nil {
 			t.Errorf("figure %d with hostile labels is not well-formed: %v", i, err)
 		}
 		if strings.Contains(s, "<script") {
@@ -226,7 +211,7 @@ func TestHostileText(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, f := range files {
-		if err := wellFormed(f.Data); err != nil {
+		if err := fixture.WellFormed(f.Data); err != nil {
 			t.Errorf("%s: %v", f.Name, err)
 		}
 		if strings.ContainsAny(strings.TrimPrefix(f.Name, "figures/"), `<>"'&/\ `) {

@@ -2,7 +2,6 @@ package chart
 
 import (
 	"bytes"
-	"encoding/xml"
 	"io"
 	"math"
 	"regexp"
@@ -28,23 +27,10 @@ func draw(t *testing.T, f *Figure) string {
 	if err := NewSVG(pal).Draw(&b, f); err != nil {
 		t.Fatalf("Draw: %v", err)
 	}
-	if err := wellFormed(b.Bytes()); err != nil {
+	if err := fixture.WellFormed(b.Bytes()); err != nil {
 		t.Fatalf("SVG is not well-formed XML: %v\n%s", err, b.String())
 	}
 	return b.String()
-}
-
-func wellFormed(b []byte) error {
-	d := xml.NewDecoder(bytes.NewReader(b))
-	for {
-		_, err := d.Token()
-		if err == io.EOF {
-			return nil
-		}
-		if err != nil {
-			return err
-		}
-	}
 }
 
 func TestNiceTicks(t *testing.T) {

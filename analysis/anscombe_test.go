@@ -104,7 +104,7 @@ func TestAnalyzeAnscombe(t *testing.T) {
 			if s.Findings == nil {
 				t.Errorf("findings not assessed")
 			}
-			if s.Plot == nil || len(s.Plot.X) != 11 || len(s.Plot.Band) != 80 {
+			if s.Plot == nil || len(s.Plot.Points) != 11 || len(s.Plot.Band) != 80 {
 				t.Fatalf("plot data incomplete: %+v", s.Plot)
 			}
 			if !sortedByCooks(s.Influence.Points) {

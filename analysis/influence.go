@@ -1,96 +1,175 @@
 package analysis
 
-// This file holds the influence summary and the sensitivity figures.
+// This file holds the influence summary, the sensitivity figures and the
+// CSV file of flagged rows. Everything here streams the rows once or
+// twice through stats.LineInfluence: no per-row vector of measures and no
+// per-row string is kept, so a study of 10⁷ rows costs what the flagged
+// rows cost.
 
 import (
 	"cmp"
 	"math"
 	"slices"
+	"strconv"
 
 	"bivar/analysis/findings"
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 )
 
-// influence fills the influence summary (flagged points only, largest
-// Cook's D first, then data order) and the sensitivity figures. "Without
-// the flagged rows" leaves out the rows findings.Suspect names (outliers,
-// influential rows, rows of sole support) and NFlagged counts them: a row
-// that is only far out in x but on the line is good data, and leaving it
-// out would only shorten the observed range. WithoutEach has one row per
-// flagged point, from the O(n) leave-one-out figures of stats.Influence.
-func influence(x, y []float64, rows []string, inf stats.InfluenceResult, flags [][]string, conf float64,
-	res *report.Resistant, all stats.Correlation, line stats.LineFit) (*report.Influence, *report.Sensitivity) {
-	n := len(x)
-	in := &report.Influence{MaxCooksD: report.NaN()}
-	best := -1
-	for i := 0; i < n; i++ {
-		d := inf.CooksD[i]
-		if math.IsNaN(d) {
-			continue
-		}
-		if best < 0 || d > inf.CooksD[best] {
-			best = i
-		}
-	}
-	if best >= 0 {
-		in.MaxCooksD, in.MaxCooksRow = report.Float(inf.CooksD[best]), rows[best]
-	}
-	var flagged []int
-	for i := 0; i < n; i++ {
-		if i < len(flags) && len(flags[i]) > 0 {
-			flagged = append(flagged, i)
-		}
-	}
-	// Largest Cook's D first; an undefined D (a row that alone sets the
-	// fit) ranks first; ties in data order.
-	key := func(i int) float64 {
-		if d := inf.CooksD[i]; !math.IsNaN(d) {
-			return d
-		}
-		return math.Inf(1)
-	}
-	slices.SortStableFunc(flagged, func(a, b int) int { return cmp.Or(cmp.Compare(key(b), key(a)), cmp.Compare(a, b)) })
-	in.Points = []report.Point{}
-	for _, i := range flagged {
-		in.Points = append(in.Points, report.Point{Row: rows[i], Index: i, X: report.Float(x[i]), Y: report.Float(y[i]),
-			Leverage: report.Float(inf.Leverage[i]), Studentized: report.Float(inf.Studentized[i]),
-			StudentizedExt: report.Float(inf.StudentizedExt[i]), CooksD: report.Float(inf.CooksD[i]),
-			DFFITS: report.Float(inf.DFFITS[i]), Flags: slices.Clone(flags[i])})
-	}
+// ranking states the order in which the rows that may be named are ranked.
+const ranking = "largest Cook's distance first (a row of sole support, whose distance is undefined, before all), " +
+	"then largest |externally studentized residual|, then smallest x, then smallest y"
 
+// flagged is one flagged row while the study runs.
+type flagged struct {
+	i     int // position among the complete cases
+	flags findings.FlagSet
+	d, t  float64 // Cook's distance (+Inf for sole support) and |t|, the ranking keys
+}
+
+// rankFlagged orders rows for naming (see ranking). The keys are values of
+// the data, so the order is the same whatever the order of the file's rows
+// (rows alike in every key are alike in every figure shown).
+func rankFlagged(x, y []float64) func(a, b flagged) int {
+	return func(a, b flagged) int {
+		return cmp.Or(cmp.Compare(b.d, a.d), cmp.Compare(b.t, a.t), cmp.Compare(x[a.i], x[b.i]), cmp.Compare(y[a.i], y[b.i]), cmp.Compare(a.i, b.i))
+	}
+}
+
+// influence fills the influence summary and the sensitivity figures, and
+// returns the CSV of every flagged row (nil when none is).
+//
+// Flags follow findings.Rules. Rows flagged outlier, influential or sole
+// support (findings.FlagSet.Suspect) may be named: the first namedMax of
+// them by ranking are, with all their measures and the line without each;
+// the rest are counted. A row only of high leverage is far out in x but on
+// the line: good data, counted and never named. "Without the flagged rows"
+// leaves out every suspect row, named or not.
+func influence(x, y []float64, name func(int) string, th report.Thresholds, namedMax int, conf float64,
+	res *report.Resistant, all stats.Correlation, line stats.LineFit) (*report.Influence, *report.Sensitivity, []byte) {
+	n := len(x)
+	li := stats.NewLineInfluence(x, y)
+	rules := findings.Rules(n, th)
+	in := &report.Influence{MaxCooksD: report.NaN(), NamedMax: namedMax, Ranking: ranking,
+		Rules: report.FlagCuts{Leverage: report.Float(rules.Leverage), Outlier: report.Float(rules.Outlier), CooksD: report.Float(rules.Cooks)}}
+	if math.IsInf(rules.Leverage, 1) {
+		in.Rules.Leverage = report.NaN()
+	}
 	se := &report.Sensitivity{LooRMin: report.NaN(), LooRMax: report.NaN(), LooSlopeMin: report.NaN(), LooSlopeMax: report.NaN(),
 		RWithoutFlagged: report.NaN(), RWithoutLow: report.NaN(), RWithoutHigh: report.NaN(),
 		PWithoutFlagged: report.NaN(), SlopeWithoutFlagged: report.NaN(), InterceptWithout: report.NaN(),
 		ResistantSlope: res.Slope, ResistantIntercept: res.Intercept, WithoutEach: []report.Without{}}
-	rmin, rmax := extremes(inf.LooR)
-	if rmin >= 0 {
-		se.LooRMin, se.LooRMinRow = report.Float(inf.LooR[rmin]), rows[rmin]
-		se.LooRMax, se.LooRMaxRow = report.Float(inf.LooR[rmax]), rows[rmax]
-	}
-	if smin, smax := extremes(inf.LooSlope); smin >= 0 {
-		se.LooSlopeMin, se.LooSlopeMax = report.Float(inf.LooSlope[smin]), report.Float(inf.LooSlope[smax])
-	}
-	for _, i := range flagged {
-		if findings.Suspect(flags[i]) {
-			se.NFlagged++
+
+	// One pass: flags, counts, the largest Cook's D and the leave-one-out
+	// extremes (first occurrence in the ranking's value order on ties).
+	var rows []flagged
+	best, rmin, rmax, smin, smax := -1, -1, -1, -1, -1
+	var bestD, lrMin, lrMax, lsMin, lsMax float64
+	c := &in.Counts
+	for i := 0; i < n; i++ {
+		r := li.At(i)
+		if d := r.CooksD; !math.IsNaN(d) && (best < 0 || d > bestD || d == bestD && before(x, y, i, best)) {
+			best, bestD = i, d
 		}
+		if v := r.LooR; !math.IsNaN(v) {
+			if rmin < 0 || v < lrMin || v == lrMin && before(x, y, i, rmin) {
+				rmin, lrMin = i, v
+			}
+			if rmax < 0 || v > lrMax || v == lrMax && before(x, y, i, rmax) {
+				rmax, lrMax = i, v
+			}
+		}
+		if v := r.LooSlope; !math.IsNaN(v) {
+			if smin < 0 || v < lsMin {
+				smin, lsMin = i, v
+			}
+			if smax < 0 || v > lsMax {
+				smax, lsMax = i, v
+			}
+		}
+		f := rules.Flag(r.Leverage, r.StudentizedExt, r.CooksD, r.SoleSupport)
+		if f == 0 {
+			continue
+		}
+		c.Flagged++
+		if f&findings.BitOutlier != 0 {
+			c.Outlier++
+		}
+		if f&findings.BitHighLeverage != 0 {
+			c.HighLeverage++
+		}
+		if f&findings.BitInfluential != 0 {
+			c.Influential++
+		}
+		if f&findings.BitSoleSupport != 0 {
+			c.SoleSupport++
+		}
+		if f.Suspect() {
+			c.Suspect++
+		} else {
+			c.LeverageOnly++
+		}
+		d := r.CooksD
+		if math.IsNaN(d) {
+			d = math.Inf(1)
+		}
+		rows = append(rows, flagged{i: i, flags: f, d: d, t: nanToInf(math.Abs(r.StudentizedExt))})
 	}
+	if best >= 0 {
+		in.MaxCooksD, in.MaxCooksRow = report.Float(bestD), name(best)
+	}
+	if rmin >= 0 {
+		se.LooRMin, se.LooRMinRow = report.Float(lrMin), name(rmin)
+		se.LooRMax, se.LooRMaxRow = report.Float(lrMax), name(rmax)
+	}
+	if smin >= 0 {
+		se.LooSlopeMin, se.LooSlopeMax = report.Float(lsMin), report.Float(lsMax)
+	}
+	slices.SortFunc(rows, rankFlagged(x, y))
+
+	in.Points = []report.Point{}
+	for _, fr := range rows {
+		if len(in.Points) == namedMax {
+			break
+		}
+		if !fr.flags.Suspect() {
+			continue
+		}
+		i := fr.i
+		r := li.At(i)
+		row := name(i)
+		in.Points = append(in.Points, report.Point{Row: row, Index: i, X: report.Float(x[i]), Y: report.Float(y[i]),
+			Leverage: report.Float(r.Leverage), Studentized: report.Float(r.Studentized),
+			StudentizedExt: report.Float(r.StudentizedExt), CooksD: report.Float(r.CooksD),
+			DFFITS: report.Float(r.DFFITS), Flags: fr.flags.Names()})
+		se.WithoutEach = append(se.WithoutEach, report.Without{Row: row, R: report.Float(r.LooR),
+			Slope: report.Float(r.LooSlope), Intercept: report.Float(r.LooIntercept)})
+	}
+	c.Named = len(in.Points)
+
+	se.NFlagged = c.Suspect
 	if se.NFlagged == 0 {
 		// Nothing to leave out: the line without the flagged rows is the line.
 		se.RWithoutFlagged, se.RWithoutLow, se.RWithoutHigh, se.PWithoutFlagged = report.Float(all.R),
 			report.Float(all.CILow), report.Float(all.CIHigh), report.Float(all.P)
 		se.SlopeWithoutFlagged, se.InterceptWithout = report.Float(line.Slope.Estimate), report.Float(line.Intercept.Estimate)
 	} else {
-		drop := make([]bool, n)
-		for _, i := range flagged {
-			drop[i] = findings.Suspect(flags[i])
-		}
-		var kx, ky []float64
-		for i := 0; i < n; i++ {
-			if !drop[i] {
-				kx, ky = append(kx, x[i]), append(ky, y[i])
+		drop := make([]int, 0, c.Suspect)
+		for _, fr := range rows {
+			if fr.flags.Suspect() {
+				drop = append(drop, fr.i)
 			}
+		}
+		slices.Sort(drop)
+		kx, ky := make([]float64, 0, n-len(drop)), make([]float64, 0, n-len(drop))
+		j := 0
+		for i := 0; i < n; i++ {
+			if j < len(drop) && drop[j] == i {
+				j++
+				continue
+			}
+			kx, ky = append(kx, x[i]), append(ky, y[i])
 		}
 		if len(kx) >= 3 {
 			cx, _ := constant(kx)
@@ -107,27 +186,96 @@ func influence(x, y []float64, rows []string, inf stats.InfluenceResult, flags [
 			}
 		}
 	}
-	for _, i := range flagged {
-		se.WithoutEach = append(se.WithoutEach, report.Without{Row: rows[i], R: report.Float(inf.LooR[i]),
-			Slope: report.Float(inf.LooSlope[i]), Intercept: report.Float(inf.LooIntercept[i])})
+	var csv []byte
+	if len(rows) > 0 {
+		csv = flaggedCSV(rows, x, y, li, name)
+		in.FileRows = len(rows)
 	}
-	return in, se
+	return in, se, csv
 }
 
-// extremes returns the indices of the smallest and largest non-NaN values
-// (first occurrence), or -1, -1.
-func extremes(v []float64) (lo, hi int) {
-	lo, hi = -1, -1
-	for i, a := range v {
-		if math.IsNaN(a) {
-			continue
+// before reports whether row i comes before row j in value order (x, then
+// y), the tie-break that keeps extremes independent of the file's order.
+func before(x, y []float64, i, j int) bool {
+	return cmp.Or(cmp.Compare(x[i], x[j]), cmp.Compare(y[i], y[j])) < 0
+}
+
+func nanToInf(v float64) float64 {
+	if math.IsNaN(v) {
+		return math.Inf(1)
+	}
+	return v
+}
+
+// flaggedCSVHeader names the columns of the flagged-rows file.
+var flaggedCSVHeader = []string{"row", "x", "y", "flags", "leverage", "studentized_residual", "deleted_residual_t",
+	"cooks_distance", "dffits", "r_without_row", "slope_without_row", "intercept_without_row", "rank"}
+
+// flaggedCSV writes every flagged row, in the ranking's order, with all its
+// measures: RFC 4180 CSV, comma-separated, numbers in Go's shortest
+// round-trip form, an empty cell for an undefined measure, flags joined by
+// "+". A row name that could be read as a spreadsheet formula is prefixed
+// with an apostrophe (OWASP's advice on CSV injection).
+func flaggedCSV(rows []flagged, x, y []float64, li *stats.LineInfluence, name func(int) string) []byte {
+	buf := make([]byte, 0, 64+len(rows)*120)
+	for k, h := range flaggedCSVHeader {
+		if k > 0 {
+			buf = append(buf, ',')
 		}
-		if lo < 0 || a < v[lo] {
-			lo = i
-		}
-		if hi < 0 || a > v[hi] {
-			hi = i
+		buf = append(buf, h...)
+	}
+	buf = append(buf, '\r', '\n')
+	num := func(v float64) {
+		buf = append(buf, ',')
+		if !math.IsNaN(v) && !math.IsInf(v, 0) {
+			buf = strconv.AppendFloat(buf, v, 'g', -1, 64)
 		}
 	}
-	return lo, hi
+	for rank, fr := range rows {
+		r := li.At(fr.i)
+		buf = appendCSVField(buf, name(fr.i))
+		num(x[fr.i])
+		num(y[fr.i])
+		buf = append(buf, ',')
+		for k, f := range fr.flags.Names() {
+			if k > 0 {
+				buf = append(buf, '+')
+			}
+			buf = append(buf, f...)
+		}
+		for _, v := range []float64{r.Leverage, r.Studentized, r.StudentizedExt, r.CooksD, r.DFFITS, r.LooR, r.LooSlope, r.LooIntercept} {
+			num(v)
+		}
+		buf = append(buf, ',')
+		buf = strconv.AppendInt(buf, int64(rank+1), 10)
+		buf = append(buf, '\r', '\n')
+	}
+	return buf
+}
+
+// appendCSVField appends s as one CSV field, quoted when it holds a comma,
+// quote or line break, and defused when a spreadsheet would read it as a
+// formula.
+func appendCSVField(buf []byte, s string) []byte {
+	if s != "" && (s[0] == '=' || s[0] == '+' || s[0] == '-' || s[0] == '@' || s[0] == '\t' || s[0] == '\r') {
+		s = "'" + s
+	}
+	quote := false
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c == ',' || c == '"' || c == '\n' || c == '\r' {
+			quote = true
+			break
+		}
+	}
+	if !quote {
+		return append(buf, s...)
+	}
+	buf = append(buf, '"')
+	for i := 0; i < len(s); i++ {
+		if s[i] == '"' {
+			buf = append(buf, '"')
+		}
+		buf = append(buf, s[i])
+	}
+	return append(buf, '"')
 }

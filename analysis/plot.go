@@ -4,6 +4,8 @@ package analysis
 // renderers only draw.
 
 import (
+	"cmp"
+	"math"
 	"math/rand/v2"
 	"slices"
 
@@ -35,10 +37,54 @@ func sample(x, y []float64, maxN int, src rand.Source) (sx, sy []float64) {
 	return pick(x, idx), pick(y, idx)
 }
 
-// plotData gathers what the charts draw.
+// Grid sizes of the density grids: about 7 px cells on the charts.
+const (
+	gridNX, gridNY = 90, 64
+)
+
+// plotData gathers what the charts draw, bounded whatever n is: every row
+// up to report.PlotPointsMax, else density grids; the named rows marked.
 func plotData(x, y []float64, cc cases, line stats.LineFit, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {
-	p := &report.Plot{X: x, Y: y, Rows: cc.rows, Groups: cc.groups, Order: cc.order,
-		Fitted: line.Fitted, Residuals: line.Residuals}
+	n := len(x)
+	p := &report.Plot{N: n}
+	fitted, resid := line.Fitted, line.Residuals
+	var gidx []int
+	if cc.groups != nil {
+		p.Levels, gidx = levels(cc.groups)
+		p.LevelCounts = make([]int, len(p.Levels))
+		p.LevelXMin, p.LevelXMax = make([]float64, len(p.Levels)), make([]float64, len(p.Levels))
+		for i, g := range gidx {
+			if p.LevelCounts[g] == 0 || x[i] < p.LevelXMin[g] {
+				p.LevelXMin[g] = x[i]
+			}
+			if p.LevelCounts[g] == 0 || x[i] > p.LevelXMax[g] {
+				p.LevelXMax[g] = x[i]
+			}
+			p.LevelCounts[g]++
+		}
+	}
+	if n <= report.PlotPointsMax {
+		p.Points = make([]report.PlotPoint, n)
+		for i := range n {
+			pt := report.PlotPoint{X: x[i], Y: y[i], Fitted: fitted[i], Residual: resid[i], Order: math.NaN()}
+			if cc.order != nil {
+				pt.Order = cc.order[i]
+			}
+			if gidx != nil {
+				pt.Group = gidx[i]
+			}
+			p.Points[i] = pt
+		}
+		slices.SortFunc(p.Points, func(a, b report.PlotPoint) int {
+			return cmp.Or(cmp.Compare(a.Order, b.Order), cmp.Compare(a.X, b.X), cmp.Compare(a.Y, b.Y), cmp.Compare(a.Group, b.Group))
+		})
+	} else {
+		p.Scatter = grid(x, y, gridNX, gridNY)
+		p.ResidFitted = grid(fitted, resid, gridNX, gridNY)
+		if cc.order != nil {
+			p.ResidOrder = grid(cc.order, resid, gridNX, gridNY)
+		}
+	}
 	lo, hi := slices.Min(x), slices.Max(x)
 	k := cfg.BandPoints
 	p.Band = make([]report.BandPoint, k)
@@ -51,11 +97,75 @@ func plotData(x, y []float64, cc cases, line stats.LineFit, inf *report.Influenc
 		p.Band[i] = report.BandPoint{X: x0, Fit: f, ConfLow: cl, ConfHigh: ch, PredLow: pl, PredHigh: ph}
 	}
 	p.Lowess = lowessCurve(lx, ly, cfg)
-	for _, pt := range inf.Points {
-		p.Flagged = append(p.Flagged, pt.Index)
+	for k, pt := range inf.Points {
+		i := pt.Index
+		m := report.Marked{Row: pt.Row, X: x[i], Y: y[i], Fitted: fitted[i], Residual: resid[i], Order: math.NaN(), Label: k < report.LabelMax}
+		if cc.order != nil {
+			m.Order = cc.order[i]
+		}
+		p.Marked = append(p.Marked, m)
 	}
-	slices.Sort(p.Flagged)
 	return p
+}
+
+// levels returns the sorted distinct values of g and each row's index
+// into them.
+func levels(g []string) ([]string, []int) {
+	seen := map[string]int{}
+	var lv []string
+	for _, v := range g {
+		if _, ok := seen[v]; !ok {
+			seen[v] = 0
+			lv = append(lv, v)
+		}
+	}
+	slices.Sort(lv)
+	for i, v := range lv {
+		seen[v] = i
+	}
+	idx := make([]int, len(g))
+	for i, v := range g {
+		idx[i] = seen[v]
+	}
+	return lv, idx
+}
+
+// grid counts the rows (u, v) in nx × ny equal cells over their range
+// (report.Grid); a degenerate range gets a cell of width 1 around it.
+func grid(u, v []float64, nx, ny int) *report.Grid {
+	g := &report.Grid{NX: nx, NY: ny, Counts: make([]int, nx*ny)}
+	g.XLo, g.XHi = span(u)
+	g.YLo, g.YHi = span(v)
+	sx := float64(nx) / (g.XHi - g.XLo)
+	sy := float64(ny) / (g.YHi - g.YLo)
+	for i := range u {
+		a, b := u[i], v[i]
+		if math.IsNaN(a) || math.IsNaN(b) {
+			continue
+		}
+		ci := min(max(int((a-g.XLo)*sx), 0), nx-1)
+		cj := min(max(int((b-g.YLo)*sy), 0), ny-1)
+		g.Counts[cj*nx+ci]++
+	}
+	return g
+}
+
+// span is the range of the finite values of v, widened to width 1 when
+// they are all equal.
+func span(v []float64) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, a := range v {
+		if a < lo {
+			lo = a
+		}
+		if a > hi {
+			hi = a
+		}
+	}
+	if !(hi > lo) {
+		lo, hi = lo-0.5, lo+0.5
+	}
+	return lo, hi
 }
 
 // lowessCurve is the LOWESS fit as a curve sorted by x (stats.LowessCurve:

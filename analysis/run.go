@@ -42,7 +42,10 @@ type Options struct {
 // file does not have, fewer than 3 complete rows, a constant column) keeps
 // its place with its Error set and the other studies still run.
 func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
-	cfg := Config{Alpha: m.Alpha, Design: m.Design, Seed: m.Seed, Thresholds: Thresholds(m.Thresholds)}
+	cfg := Config{Alpha: m.Alpha, Design: m.Design, Seed: m.Seed, Thresholds: Thresholds(m.Thresholds), NamedRows: m.Output.NamedRows}
+	if m.Output.NamedRows == 0 {
+		cfg.NamedRows = -1 // the manifest asks that no row be named
+	}
 	cfg = cfg.withDefaults()
 	adjust := m.Adjust
 	if adjust == "" {

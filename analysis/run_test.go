@@ -111,13 +111,13 @@ func TestRunStructure(t *testing.T) {
 	if len(s.Predictions) != 2 || !s.Predictions[0].InRange || s.Predictions[1].InRange {
 		t.Errorf("predictions: %+v, want 200 in range and 260 outside", s.Predictions)
 	}
-	for _, p := range s.Plot.Rows {
-		if !strings.HasPrefix(p, "U") {
-			t.Errorf("row name %q, want the id_column value", p)
+	for _, p := range s.Influence.Points {
+		if !strings.HasPrefix(p.Row, "U") {
+			t.Errorf("row name %q, want the id_column value", p.Row)
 			break
 		}
 	}
-	if s.Plot.Order == nil || s.Plot.Groups == nil || len(s.Plot.Fitted) != s.N {
+	if len(s.Plot.Points) != s.N || len(s.Plot.Levels) != 2 || math.IsNaN(s.Plot.Points[0].Order) {
 		t.Errorf("plot data incomplete")
 	}
 }

@@ -67,6 +67,21 @@ type Config struct {
 	BandPoints       int     // grid points of the confidence and prediction bands (default 80)
 	CurvePoints      int     // grid points of the quadratic curve (default 80)
 	LowessMaxN       int     // rows above which LOWESS is fitted to a seeded sample of this many (default 20000)
+
+	// NamedRows is the most flagged rows a study names (0: the default,
+	// manifest.DefaultNamedRows; negative: none).
+	NamedRows int
+}
+
+// namedMax is the most rows a study names under c.
+func (c Config) namedMax() int {
+	switch {
+	case c.NamedRows < 0:
+		return 0
+	case c.NamedRows == 0:
+		return manifest.DefaultNamedRows
+	}
+	return c.NamedRows
 }
 
 // DefaultConfig returns the defaults: alpha 0.05, observational design,
@@ -254,9 +269,10 @@ func analyze(in Input, cfg Config) report.Study {
 		s.Groups = groupFits(x, y, cc.groups, conf)
 	}
 
-	inf := stats.Influence(x, y)
-	flags := findings.FlagPoints(inf.Leverage, inf.StudentizedExt, inf.CooksD, inf.SoleSupport, cfg.Thresholds)
-	s.Influence, s.Sensitivity = influence(x, y, cc.rows, inf, flags, conf, s.Diagnostics.Resistant, pc, line)
+	s.Influence, s.Sensitivity, s.FlaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, s.Diagnostics.Resistant, pc, line)
+	if s.FlaggedCSV != nil {
+		s.Influence.File = FlaggedFile(in.ID)
+	}
 
 	s.UnitInvariance = unitInvariance(in, x, y, pc.R, line)
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
@@ -384,7 +400,7 @@ func checkLengths(in Input, covNames []string) string {
 type cases struct {
 	idx      []int // data row (0-based) of each complete case
 	x, y     []float64
-	rows     []string
+	names    []string // the dataset's row names (id_column), all rows; nil when none
 	groups   []string
 	order    []float64
 	cov      [][]float64 // per covariate, in covariate order
@@ -449,7 +465,7 @@ func completeCases(in Input, covNames []string) cases {
 	for j, i := range cc.idx {
 		cc.x[j], cc.y[j] = in.XS[i], in.YS[i]
 	}
-	cc.rows = rowNames(in.Rows, cc.idx)
+	cc.names = in.Rows
 	if in.Groups != nil {
 		cc.groups = make([]string, k)
 		for j, i := range cc.idx {
@@ -473,31 +489,20 @@ func completeCases(in Input, covNames []string) cases {
 	return cc
 }
 
-// rowNames names the data rows idx (0-based): each by its id_column value,
-// else by its 1-based data row number. The numbers are written into one
-// string and sliced from it, so a million rows cost one allocation.
-func rowNames(rows []string, idx []int) []string {
-	out := make([]string, len(idx))
-	var buf []byte
-	ends := make([]int, len(idx))
-	for j, i := range idx {
-		if rows == nil || rows[i] == "" {
-			buf = strconv.AppendInt(buf, int64(i+1), 10)
-		}
-		ends[j] = len(buf)
+// name is the name of complete case j, for people: the row's id_column
+// value, else its 1-based data row number. Names are made only for the
+// rows a report names, never for every row.
+func (cc *cases) name(j int) string {
+	i := cc.idx[j]
+	if cc.names != nil && cc.names[i] != "" {
+		return cc.names[i]
 	}
-	all := string(buf)
-	start := 0
-	for j, i := range idx {
-		if rows != nil && rows[i] != "" {
-			out[j] = rows[i]
-			continue
-		}
-		out[j] = all[start:ends[j]]
-		start = ends[j]
-	}
-	return out
+	return strconv.Itoa(i + 1)
 }
+
+// FlaggedFile is the name of the CSV file, beside the report, that lists
+// every flagged row of the study with the given id.
+func FlaggedFile(studyID string) string { return studyID + "-flagged.csv" }
 
 // completeColumns lists the columns a complete case needs, for messages.
 func completeColumns(in Input, covNames []string) string {

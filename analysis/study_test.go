@@ -1,6 +1,7 @@
 package analysis_test
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -79,8 +80,13 @@ func TestAnalyzeCompleteCases(t *testing.T) {
 			t.Errorf("excluded[%d] = %+v, want %+v", i, s.Excluded[i], want[i])
 		}
 	}
-	if got := strings.Join(s.Plot.Rows, ","); got != "1,2,3,8" {
-		t.Errorf("rows %s, want 1,2,3,8", got)
+	// Plot points in run order: rows 8, 3, 2, 1 have order 1, 6, 7, 8.
+	var xs []string
+	for _, p := range s.Plot.Points {
+		xs = append(xs, fmt.Sprint(p.X))
+	}
+	if got, want := strings.Join(xs, ","), fmt.Sprint(x[7], ",", x[2], ",", x[1], ",", x[0]); got != want {
+		t.Errorf("plot x in run order %s, want %s", got, want)
 	}
 	if len(s.Groups) != 2 || s.Groups[0].Group != "a" || s.Groups[0].N != 2 || s.Groups[1].N != 2 {
 		t.Errorf("groups %+v, want a (2 rows) then b (2 rows)", s.Groups)
@@ -108,9 +114,9 @@ func TestAnalyzePlotAndPredictions(t *testing.T) {
 		t.Fatal(*s.Error)
 	}
 	p := s.Plot
-	for i := range x {
-		if d := math.Abs(p.Fitted[i] + p.Residuals[i] - y[i]); d > 1e-9 {
-			t.Errorf("row %d: fitted + residual − y = %g", i, d)
+	for i, q := range p.Points {
+		if d := math.Abs(q.Fitted + q.Residual - q.Y); d > 1e-9 {
+			t.Errorf("point %d: fitted + residual − y = %g", i, d)
 		}
 	}
 	if len(p.Band) != 80 || p.Band[0].X != 1 || p.Band[79].X != 12 {
@@ -131,8 +137,8 @@ func TestAnalyzePlotAndPredictions(t *testing.T) {
 		t.Errorf("predictions %+v, want 6.5 inside and 20 outside the range", s.Predictions)
 	}
 	// The last row (12, 30) is far off the line of the others.
-	if len(p.Flagged) == 0 || p.Flagged[len(p.Flagged)-1] != 11 {
-		t.Errorf("flagged %v, want row index 11 among them", p.Flagged)
+	if len(p.Marked) == 0 || p.Marked[0].Row != "12" || !p.Marked[0].Label {
+		t.Errorf("marked %+v, want row 12 first, labelled", p.Marked)
 	}
 	if s.Influence.MaxCooksRow != "12" {
 		t.Errorf("max Cook's D row %q, want \"12\"", s.Influence.MaxCooksRow)

@@ -25,11 +25,11 @@ func FuzzHostileNames(f *testing.F) {
 			st.X.Label, st.Y.Unit, st.Group = s, s, s
 			st.X.Symbol, st.Y.Symbol, st.GroupLabel, st.OrderLabel = s, s, s, s
 			if st.Plot != nil {
-				for k := range st.Plot.Rows {
-					st.Plot.Rows[k] = s
+				for k := range st.Plot.Marked {
+					st.Plot.Marked[k].Row = s
 				}
-				for k := range st.Plot.Groups {
-					st.Plot.Groups[k] = s + st.Plot.Groups[k]
+				for k := range st.Plot.Levels {
+					st.Plot.Levels[k] = s + st.Plot.Levels[k]
 				}
 			}
 		}

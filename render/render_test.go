@@ -128,7 +128,7 @@ func TestHTMLStructure(t *testing.T) {
 	for _, want := range []string{"What the data show", "Key figures", "Unusual rows", "How much the result rests on single rows",
 		"Units of measure", "r reads 0.9120 in every row where it could be computed", "Predictions from the line",
 		"Mean response (95% confidence)", "One new row (95% prediction)", "no — not supported", `class="limits limits"`, "What may not be concluded",
-		"Declared expectations", "<strong>press controller</strong>", "Without row P0010", "Without all 2 flagged rows",
+		"Declared expectations", "<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
 		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 1e−300", "The line within each level of Resin lot"} {
 		if !strings.Contains(page, strings.ReplaceAll(strings.ReplaceAll(want, "<", "&lt;"), "&lt;strong>", "<strong>")) && !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)

@@ -228,18 +228,43 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 		return nil, nil
 	}
 	sec := &section{Key: "influence", Title: "Unusual rows"}
-	if len(in.Points) == 0 {
+	c := in.Counts
+	if c.Flagged == 0 {
 		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is flagged. The largest Cook's distance is %s (row %s).", num(in.MaxCooksD), in.MaxCooksRow))
 		return sec, nil
 	}
-	t := table{Caption: "Flagged rows, largest Cook's distance first",
-		Head: []string{"Row", "x", "y", "Leverage", "Studentized residual", "Deleted residual", "Cook's distance", "DFFITS", "Why flagged"},
-		Num:  []bool{false, true, true, true, true, true, true, true, false}}
-	for _, pt := range in.Points {
-		t.Rows = append(t.Rows, []string{pt.Row, num(pt.X), num(pt.Y), num(pt.Leverage), num(pt.Studentized), num(pt.StudentizedExt),
-			num(pt.CooksD), num(pt.DFFITS), strings.Join(pt.Flags, ", ")})
+	counts := table{Caption: "Rows by flag, of all " + itoa(s.N), Head: []string{"Flag", "Rule (this study's cut point)", "Rows"},
+		Num: []bool{false, false, true}}
+	counts.Rows = [][]string{
+		{"outlier", "|externally studentized residual| above " + num(in.Rules.Outlier), itoa(c.Outlier)},
+		{"influential", "Cook's distance above " + num(in.Rules.CooksD), itoa(c.Influential)},
+		{"sole support", "leverage 1: the row alone sets the slope", itoa(c.SoleSupport)},
+		{"high leverage", "leverage above " + num(in.Rules.Leverage), itoa(c.HighLeverage)},
+		{"high leverage only", "far out in x, close to the line: counted, not named", itoa(c.LeverageOnly)},
 	}
-	sec.Tables = append(sec.Tables, t)
+	sec.Tables = append(sec.Tables, counts)
+	if len(in.Points) == 0 {
+		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is named. The largest Cook's distance is %s (row %s).", num(in.MaxCooksD), in.MaxCooksRow))
+	} else {
+		caption := "Named rows, largest Cook's distance first"
+		if c.Suspect > len(in.Points) {
+			caption = fmt.Sprintf("The first %d of %d rows flagged outlier, influential or sole support, largest Cook's distance first", len(in.Points), c.Suspect)
+		}
+		t := table{Caption: caption,
+			Head: []string{"Row", "x", "y", "Leverage", "Studentized residual", "Deleted residual", "Cook's distance", "DFFITS", "Why flagged"},
+			Num:  []bool{false, true, true, true, true, true, true, true, false}}
+		for _, pt := range in.Points {
+			t.Rows = append(t.Rows, []string{pt.Row, num(pt.X), num(pt.Y), num(pt.Leverage), num(pt.Studentized), num(pt.StudentizedExt),
+				num(pt.CooksD), num(pt.DFFITS), strings.Join(pt.Flags, ", ")})
+		}
+		sec.Tables = append(sec.Tables, t)
+	}
+	if len(in.Points) > 1 {
+		sec.After = append(sec.After, "Order of the named rows: "+in.Ranking+".")
+	}
+	if in.File != "" {
+		sec.After = append(sec.After, fmt.Sprintf("Every flagged row (%d), with all its measures, is listed in %s beside this report.", in.FileRows, in.File))
+	}
 	sec.After = append(sec.After, "The flag rules in force for this study, with their cut points, are stated under \"What the data show\".")
 	return sec, nil
 }
@@ -261,7 +286,7 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 	}
 	t.Rows = append(t.Rows, []string{fmt.Sprintf("All %d rows", s.N), num(r), num(slope), num(icpt)})
 	for _, w := range se.WithoutEach {
-		t.Rows = append(t.Rows, []string{"Without row " + w.Row, num(w.R), num(w.Slope), num(w.Intercept)})
+		t.Rows = append(t.Rows, []string{"Without named row " + w.Row, num(w.R), num(w.Slope), num(w.Intercept)})
 	}
 	if se.NFlagged > 0 {
 		rw := num(se.RWithoutFlagged)

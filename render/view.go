@@ -382,8 +382,8 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		}
 	}
 	row.Flags = "none"
-	if s.Influence != nil && len(s.Influence.Points) > 0 {
-		row.Flags = itoa(len(s.Influence.Points))
+	if s.Influence != nil && s.Influence.Counts.Suspect > 0 {
+		row.Flags = itoa(s.Influence.Counts.Suspect)
 	}
 	if s.Findings != nil && s.Findings.OutlierDriven {
 		row.FlagNote = "outlier-driven"

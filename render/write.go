@@ -71,6 +71,14 @@ func WriteReport(dir string, r *report.Report, formats []string, opts ...Option)
 			return fmt.Errorf("unknown output format %q: want one or more of %s", f, strings.Join(Formats(), ", "))
 		}
 	}
+	// Each study's flagged rows, as the analysis wrote them, beside the
+	// report whatever the formats (results.json and both reports name it).
+	for i := range r.Studies {
+		st := &r.Studies[i]
+		if st.Influence != nil && st.Influence.File != "" && st.FlaggedCSV != nil {
+			files = append(files, File{Name: st.Influence.File, Data: st.FlaggedCSV})
+		}
+	}
 	if err := atomicfile.Write(dir, files); err != nil {
 		return err
 	}

@@ -371,12 +371,8 @@ func (f *facts) decide(out *report.Findings) {
 			}
 		}
 	}
-	if s.Influence != nil {
-		for _, p := range s.Influence.Points {
-			if slices.Contains(p.Flags, FlagSoleSupport) && f.rdir != "none" {
-				out.OutlierDriven = true
-			}
-		}
+	if s.Influence != nil && s.Influence.Counts.SoleSupport > 0 && f.rdir != "none" {
+		out.OutlierDriven = true
 	}
 
 	// Lurking variables.
@@ -880,19 +876,31 @@ func (f *facts) drivenHeadline() string {
 
 func (f *facts) influenceStatements(out *report.Findings, add func(string, ...any)) {
 	s := f.s
-	if s.Influence != nil && len(s.Influence.Points) > 0 {
+	if in := s.Influence; in != nil && len(in.Points) > 0 {
 		var parts []string
-		for i, p := range s.Influence.Points {
+		for i, p := range in.Points {
 			if i == 5 {
-				parts = append(parts, fmt.Sprintf("and %d more", len(s.Influence.Points)-5))
 				break
 			}
 			parts = append(parts, fmt.Sprintf("row %s at %s = %s, %s = %s: %s", p.Row, f.xLabel, withUnit(float64(p.X), f.xSym),
 				f.yLabel, withUnit(float64(p.Y), f.ySym), f.pointWhy(p)))
 		}
+		if more := in.Counts.Suspect - len(parts); more > 0 {
+			parts = append(parts, fmt.Sprintf("and %d more", more))
+		}
 		add("Flagged: %s.", strings.Join(parts, "; "))
-	} else if s.Influence != nil {
-		add("No row is flagged as an outlier, of high leverage or influential.")
+	} else if in != nil && in.Counts.Suspect > 0 {
+		add("%s flagged as %s; the report names none (output.named_rows = 0).", plural(in.Counts.Suspect, "One row is", fmt.Sprintf("%d rows are", in.Counts.Suspect)), suspectWords)
+	} else if in != nil {
+		add("No row is flagged as an outlier, influential or of sole support.")
+	}
+	if in := s.Influence; in != nil && in.Counts.LeverageOnly > 0 {
+		add("%s far out in x but close to the line (high leverage only): good data that extend the observed range, counted and not named.",
+			plural(in.Counts.LeverageOnly, "One row lies", fmt.Sprintf("%d rows lie", in.Counts.LeverageOnly)))
+	}
+	if in := s.Influence; in != nil && in.Counts.Suspect > len(in.Points) && len(in.Points) > 0 {
+		add("The report names the first %d of the %d rows flagged as %s (%s); every flagged row, with all its measures, is listed in %s.",
+			len(in.Points), in.Counts.Suspect, suspectWords, in.Ranking, in.File)
 	}
 	if s.Influence != nil && s.N > params+1 {
 		add("Flag rules for these %d rows: outlier when the externally studentized residual exceeds %s in size (the larger of %s and the Bonferroni bound); high leverage above %s (%s·2/n); influential when Cook's distance exceeds %s (the %s quantile of F(2, %d)).",

@@ -123,19 +123,88 @@ func CooksBound(n int, th report.Thresholds) float64 {
 	return stats.FQuantile(th.CooksD, params, float64(n-params))
 }
 
+// FlagSet is the set of flags one row carries, as bits.
+type FlagSet uint8
+
+// The flags as bits of a FlagSet, in the order Names lists them.
+const (
+	BitOutlier FlagSet = 1 << iota
+	BitHighLeverage
+	BitInfluential
+	BitSoleSupport
+)
+
+// Names lists the flags of the set as the Flag constants, in the order
+// outlier, high-leverage, influential, sole-support; nil for none.
+func (f FlagSet) Names() []string {
+	if f == 0 {
+		return nil
+	}
+	var out []string
+	for _, b := range []struct {
+		bit  FlagSet
+		name string
+	}{{BitOutlier, FlagOutlier}, {BitHighLeverage, FlagHighLeverage}, {BitInfluential, FlagInfluential}, {BitSoleSupport, FlagSoleSupport}} {
+		if f&b.bit != 0 {
+			out = append(out, b.name)
+		}
+	}
+	return out
+}
+
+// Suspect reports whether the set holds a flag the verdict should not rest
+// on (see the function Suspect).
+func (f FlagSet) Suspect() bool { return f&(BitOutlier|BitInfluential|BitSoleSupport) != 0 }
+
+// FlagRules are the cut points of the flags for a study of N rows under
+// one set of thresholds: computed once, applied to each row by Flag.
+type FlagRules struct {
+	N        int
+	Leverage float64 // high leverage above this (LeverageFactor·2/n); +Inf when the rule is off
+	Outlier  float64 // outlier when |externally studentized residual| exceeds this (OutlierBound)
+	Cooks    float64 // influential when Cook's distance exceeds this (CooksBound)
+}
+
+// Rules returns the flag cut points for n rows under th.
+func Rules(n int, th report.Thresholds) FlagRules {
+	r := FlagRules{N: n, Leverage: math.Inf(1), Outlier: OutlierBound(n, th), Cooks: CooksBound(n, th)}
+	if th.LeverageFactor > 0 && n > 0 {
+		r.Leverage = th.LeverageFactor * params / float64(n)
+	}
+	return r
+}
+
+// Flag returns the flags of one row from its leverage h, externally
+// studentized residual t and Cook's distance d (a NaN measure raises no
+// flag). A row of sole support (leverage 1) is flagged high-leverage and
+// sole-support: its residual is 0 and its Cook's D undefined, yet it alone
+// decides the fit through it.
+func (r FlagRules) Flag(h, t, d float64, sole bool) FlagSet {
+	if sole {
+		return BitHighLeverage | BitSoleSupport
+	}
+	var f FlagSet
+	if math.Abs(t) > r.Outlier {
+		f |= BitOutlier
+	}
+	if h > r.Leverage {
+		f |= BitHighLeverage
+	}
+	if d > r.Cooks {
+		f |= BitInfluential
+	}
+	return f
+}
+
 // FlagPoints returns, per row, the flags of the straight line's influence
 // measures under th (see the Flag constants and DefaultThresholds for the
 // rules); nil for a row with none. All four slices are parallel, one entry
-// per complete case; a shorter soleSupport counts as false. A NaN measure
-// raises no flag. A row with leverage 1 (soleSupport) is flagged
-// "high-leverage" and "sole-support": its residual is 0 and its Cook's D
-// undefined, yet it alone decides the fit through it.
+// per complete case; a shorter soleSupport counts as false. It applies
+// Rules(n, th).Flag to each row; a study streams rows through Flag instead.
 func FlagPoints(leverage, studentizedExt, cooksD []float64, soleSupport []bool, th report.Thresholds) [][]string {
 	n := len(leverage)
 	out := make([][]string, n)
-	hCut := th.LeverageFactor * params / float64(n)
-	tCut := OutlierBound(n, th)
-	dCut := CooksBound(n, th)
+	rules := Rules(n, th)
 	at := func(v []float64, i int) float64 {
 		if i < len(v) {
 			return v[i]
@@ -144,20 +213,7 @@ func FlagPoints(leverage, studentizedExt, cooksD []float64, soleSupport []bool, 
 	}
 	for i := 0; i < n; i++ {
 		sole := i < len(soleSupport) && soleSupport[i]
-		var f []string
-		if t := at(studentizedExt, i); !sole && math.Abs(t) > tCut {
-			f = append(f, FlagOutlier)
-		}
-		if h := leverage[i]; sole || (th.LeverageFactor > 0 && h > hCut) {
-			f = append(f, FlagHighLeverage)
-		}
-		if d := at(cooksD, i); !sole && d > dCut {
-			f = append(f, FlagInfluential)
-		}
-		if sole {
-			f = append(f, FlagSoleSupport)
-		}
-		out[i] = f
+		out[i] = rules.Flag(leverage[i], at(studentizedExt, i), at(cooksD, i), sole).Names()
 	}
 	return out
 }

@@ -33,6 +33,10 @@ type Output struct {
 	Dir     string   `toml:"dir"`     // relative to the manifest's folder
 	Formats []string `toml:"formats"` // html, markdown, json
 	Theme   string   `toml:"theme"`   // a theme name from themes/
+
+	// NamedRows is the most flagged rows a study names in the report
+	// (the rest are counted and listed in a CSV file beside it).
+	NamedRows int `toml:"named_rows"`
 }
 
 // Thresholds override the findings' cut points; nil keeps the default.
@@ -148,6 +152,8 @@ const (
 	DefaultSeed       = 20261201        // seed
 	DefaultOutputDir  = "report"        // output.dir, relative to the manifest's folder
 	DefaultTheme      = "paper"         // output.theme
+	DefaultNamedRows  = 25              // output.named_rows
+	MaxNamedRows      = 1000            // output.named_rows at most: the report stays bounded
 	DefaultNonNumeric = "error"         // dataset.non_numeric
 )
 

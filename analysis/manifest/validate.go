@@ -59,6 +59,9 @@ func (p *parser) defaults(m *Manifest, md *toml.MetaData) {
 	if m.Output.Theme == "" {
 		m.Output.Theme = DefaultTheme
 	}
+	if !md.IsDefined("output", "named_rows") {
+		m.Output.NamedRows = DefaultNamedRows
+	}
 	for i := range m.Datasets {
 		d := &m.Datasets[i]
 		if d.Missing == nil {
@@ -122,6 +125,9 @@ func (p *parser) validate(m *Manifest) {
 	}
 	if len(m.Output.Formats) == 0 {
 		p.add("", "output.formats", "output.formats is empty: list at least one of %s", strings.Join(Formats(), ", "))
+	}
+	if n := m.Output.NamedRows; n < 0 || n > MaxNamedRows {
+		p.add("", "output.named_rows", "output.named_rows = %d is outside 0 to %d: give how many flagged rows a study may name in the report (the rest are counted and listed in the CSV file beside it)", n, MaxNamedRows)
 	}
 	if !filepath.IsAbs(m.Output.Dir) {
 		m.Output.Dir = filepath.Join(m.Dir, m.Output.Dir)

@@ -141,7 +141,13 @@ type Study struct {
 	Expectations   []Expectation `json:"expectations"`
 	Notes          string        `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
 	Error          *string       `json:"error"`
-	Plot           *Plot         `json:"-"` // per-point data for the charts; not in results.json
+	Plot           *Plot         `json:"-"` // what the charts draw (bounded); not in results.json
+
+	// FlaggedCSV is the content of the CSV file named by Influence.File:
+	// every flagged row with all its measures. It is not in results.json
+	// and renderers do not read it; the command writes it beside the
+	// report. nil when no row is flagged.
+	FlaggedCSV []byte `json:"-"`
 }
 
 // Exclusion counts rows dropped from a study because one column was missing there.
@@ -340,14 +346,36 @@ type GroupFit struct {
 	SlopeHigh Float  `json:"slope_ci_high"`
 }
 
-// Influence summarises the straight line's influence measures.
+// Influence summarises the straight line's influence measures. It is
+// bounded whatever n is: the rows it names are at most NamedMax, and every
+// other flagged row is only counted (the CSV file File lists them all).
 type Influence struct {
-	MaxCooksD   Float   `json:"max_cooks_d"`
-	MaxCooksRow string  `json:"max_cooks_row"`
-	Points      []Point `json:"points"` // flagged points only, largest Cook's D first
+	MaxCooksD   Float  `json:"max_cooks_d"`
+	MaxCooksRow string `json:"max_cooks_row"`
+
+	Rules  FlagCuts   `json:"rules"`  // the cut points the flags rest on, for this study's n
+	Counts FlagCounts `json:"counts"` // rows per flag, over every complete case
+
+	// NamedMax is the most rows a study names (the manifest's
+	// [output] named_rows); Ranking says in which order the rows that may
+	// be named are ranked before the first NamedMax are kept.
+	NamedMax int    `json:"named_max"`
+	Ranking  string `json:"ranking"`
+
+	// Points are the named rows: the rows flagged outlier, influential or
+	// sole support, ranked by Ranking, at most NamedMax. A row only of
+	// high leverage (far out in x, on the line: good data) is counted in
+	// Counts, never named.
+	Points []Point `json:"points"`
+
+	// File is the name of the CSV file written beside the report that
+	// lists every flagged row with all its measures ("" when no row is
+	// flagged); FileRows is the number of rows in it.
+	File     string `json:"file"`
+	FileRows int    `json:"file_rows"`
 }
 
-// Point is one flagged row.
+// Point is one named row.
 type Point struct {
 	Row            string   `json:"row"`   // id_column value, or the data row number (1 = first row after the header)
 	Index          int      `json:"index"` // 0-based position among the study's complete cases
@@ -359,6 +387,26 @@ type Point struct {
 	CooksD         Float    `json:"cooks_d"`
 	DFFITS         Float    `json:"dffits"`
 	Flags          []string `json:"flags"` // "outlier", "high-leverage", "influential", "sole-support" (leverage 1)
+}
+
+// FlagCuts are the cut points of the flags for one study.
+type FlagCuts struct {
+	Leverage Float `json:"leverage"` // high leverage when h exceeds this (leverage_factor·2/n); null when the rule is off
+	Outlier  Float `json:"outlier"`  // outlier when |externally studentized residual| exceeds this (outlier_z, or the Bonferroni bound when larger)
+	CooksD   Float `json:"cooks_d"`  // influential when Cook's distance exceeds this (the cooks_d quantile of F(2, n−2))
+}
+
+// FlagCounts counts the study's rows by flag; a row with two flags counts
+// under both.
+type FlagCounts struct {
+	Flagged      int `json:"flagged"`       // rows with any flag
+	Outlier      int `json:"outlier"`       // rows flagged outlier
+	HighLeverage int `json:"high_leverage"` // rows flagged high-leverage (including those with other flags)
+	Influential  int `json:"influential"`   // rows flagged influential
+	SoleSupport  int `json:"sole_support"`  // rows of sole support (leverage 1)
+	Suspect      int `json:"suspect"`       // rows flagged outlier, influential or sole support: the rows that may be named
+	LeverageOnly int `json:"leverage_only"` // rows of high leverage and nothing else: counted, not named
+	Named        int `json:"named"`         // rows named in Points (at most NamedMax)
 }
 
 // Sensitivity says how much the line depends on single rows.
@@ -378,7 +426,7 @@ type Sensitivity struct {
 	InterceptWithout    Float     `json:"intercept_without_flagged"`
 	ResistantSlope      Float     `json:"resistant_slope"`
 	ResistantIntercept  Float     `json:"resistant_intercept"`
-	WithoutEach         []Without `json:"without_each"` // one row per flagged row
+	WithoutEach         []Without `json:"without_each"` // one row per named row (Influence.Points), in the same order
 }
 
 // Without is the line refitted without one row.
@@ -456,19 +504,70 @@ type Expectation struct {
 	Detail string `json:"detail"`
 }
 
-// Plot is the per-point data the charts need. It is computed by the
-// analysis, so renderers draw without computing.
+// PlotPointsMax is the most rows a Plot carries one by one; above it the
+// point clouds are density grids ("a few thousand": an SVG of that many
+// marks stays under a few hundred kB).
+const PlotPointsMax = 3000
+
+// LabelMax is the most named rows a chart labels; the rest of the named
+// rows are marked without a label.
+const LabelMax = 10
+
+// Plot is what the charts draw, computed by the analysis so renderers draw
+// without computing. It is bounded whatever n is: at most PlotPointsMax
+// points, else fixed-size density grids, and at most NamedMax marked rows.
 type Plot struct {
-	X, Y      []float64 // complete cases, in data order
-	Rows      []string  // row names, parallel to X
-	Groups    []string  // group level per point; nil when no group
-	Order     []float64 // run order per point; nil when no order
-	Fitted    []float64 // straight-line fitted values
-	Residuals []float64 // straight-line residuals
-	Band      []BandPoint
-	Lowess    []XY  // LOWESS curve, sorted by x
-	Curve     []XY  // the curved model (quadratic) on a grid, when the form is curved
-	Flagged   []int // indices into X of the flagged points
+	N int // rows behind the point clouds (the study's complete cases)
+
+	// Points holds every row when N ≤ PlotPointsMax, in run order when
+	// the study has one (ties by x, then y), else in order of x, then y;
+	// nil above PlotPointsMax, where the grids stand in for them.
+	Points []PlotPoint
+	// Levels are the group levels in sorted order (PlotPoint.Group indexes
+	// them); nil when the study has no group.
+	Levels []string
+	// LevelCounts is the number of rows in each level and LevelXMin,
+	// LevelXMax the range of x within it, parallel to Levels.
+	LevelCounts          []int
+	LevelXMin, LevelXMax []float64
+
+	// Above PlotPointsMax: the rows binned on fixed grids, y against x,
+	// residual against fitted value and residual against run order (nil
+	// without an order). nil at or below PlotPointsMax.
+	Scatter, ResidFitted, ResidOrder *Grid
+
+	Band   []BandPoint
+	Lowess []XY // LOWESS curve, sorted by x
+	Curve  []XY // the curved model (quadratic) on a grid, when the form is curved
+
+	// Marked are the named rows (Influence.Points), in the same order; a
+	// chart labels those with Label set (the first LabelMax) and marks the
+	// rest without a label.
+	Marked []Marked
+}
+
+// PlotPoint is one row as the charts draw it.
+type PlotPoint struct {
+	X, Y, Fitted, Residual float64
+	Order                  float64 // run order; NaN when the study has none
+	Group                  int     // index into Plot.Levels; 0 when no group
+}
+
+// Marked is one named row as the charts draw it.
+type Marked struct {
+	Row                    string
+	X, Y, Fitted, Residual float64
+	Order                  float64 // NaN when the study has no order
+	Label                  bool
+}
+
+// Grid counts rows in NX × NY equal cells over [XLo, XHi] × [YLo, YHi];
+// Counts[j*NX+i] is the cell i-th from the left and j-th from the bottom.
+// A value on the upper edge falls in the last cell.
+type Grid struct {
+	XLo, XHi, YLo, YHi float64
+	NX, NY             int
+	Counts             []int
 }
 
 // BandPoint is the line with its confidence and prediction bands at one x.

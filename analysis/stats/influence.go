@@ -76,80 +76,124 @@ func Influence(x, y []float64) InfluenceResult {
 		LooIntercept:   make([]float64, n),
 		SoleSupport:    make([]bool, n),
 	}
-	nan := math.NaN()
-	m := CentredMoments(x, y)
-	if n < 2 || !(m.Sxx > 0) {
-		for _, v := range [][]float64{res.Leverage, res.Residual, res.Studentized, res.StudentizedExt,
-			res.CooksD, res.DFFITS, res.LooR, res.LooSlope, res.LooIntercept} {
-			for i := range v {
-				v[i] = nan
-			}
-		}
-		return res
+	li := NewLineInfluence(x, y)
+	for i := range x {
+		r := li.At(i)
+		res.Leverage[i], res.Residual[i], res.Studentized[i], res.StudentizedExt[i] = r.Leverage, r.Residual, r.Studentized, r.StudentizedExt
+		res.CooksD[i], res.DFFITS[i], res.LooR[i], res.LooSlope[i], res.LooIntercept[i] = r.CooksD, r.DFFITS, r.LooR, r.LooSlope, r.LooIntercept
+		res.SoleSupport[i] = r.SoleSupport
 	}
-	sole := soleSupportRow(x)
-	nf := float64(n)
-	b1 := m.Sxy / m.Sxx
+	return res
+}
+
+// InfluenceRow is the influence of one row on the least-squares line: the
+// fields of InfluenceResult for that row.
+type InfluenceRow struct {
+	Leverage, Residual, Studentized, StudentizedExt, CooksD, DFFITS float64
+	LooR, LooSlope, LooIntercept                                    float64
+	SoleSupport                                                     bool
+}
+
+// LineInfluence computes the influence measures of Influence one row at a
+// time, in O(1) per row after an O(n) set-up that keeps no per-row vector:
+// a study of 10⁷ rows streams its flags and leave-one-out figures through
+// At instead of holding ten vectors of n values. The formulas and the
+// undefined cases are those of Influence, which is built on it.
+type LineInfluence struct {
+	x, y   []float64
+	n      int
+	valid  bool // n ≥ 2 and Sxx > 0
+	m      Moments
+	b1     float64
+	hx, lx float64 // x̄ in two parts (meanParts)
+	hy, ly float64
+	rss    float64
+	s      float64 // residual SD, NaN when undefined
+	sole   [2]int
+	nf, c  float64
+	nan    float64
+}
+
+// NewLineInfluence prepares the row-wise influence of the line fitted to
+// x and y. x and y must have equal length (it panics otherwise) and hold
+// no NaN or Inf.
+func NewLineInfluence(x, y []float64) *LineInfluence {
+	if len(x) != len(y) {
+		panic("stats: NewLineInfluence: x and y lengths differ")
+	}
+	n := len(x)
+	li := &LineInfluence{x: x, y: y, n: n, nan: math.NaN(), sole: [2]int{-1, -1}}
+	li.m = CentredMoments(x, y)
+	if n < 2 || !(li.m.Sxx > 0) {
+		return li
+	}
+	li.valid = true
+	li.sole = soleSupportRow(x)
+	li.nf = float64(n)
+	li.b1 = li.m.Sxy / li.m.Sxx
 	// Deviations from means held in two parts (meanParts): exact to
 	// rounding even when x or y is far from 0.
-	hx, lx, _ := meanParts(x)
-	hy, ly, _ := meanParts(y)
-	var rss float64
+	li.hx, li.lx, _ = meanParts(x)
+	li.hy, li.ly, _ = meanParts(y)
+	var rss, sumY2 float64
 	for i := range x {
-		e := ((y[i] - hy) - ly) - b1*((x[i]-hx)-lx)
-		res.Residual[i] = e
+		e := ((y[i] - li.hy) - li.ly) - li.b1*((x[i]-li.hx)-li.lx)
 		rss += e * e
+		sumY2 += y[i] * y[i]
 	}
+	li.rss = rss
 	// An exact fit leaves only rounding in the residuals; studentizing that
 	// noise would make arbitrary "outliers". Treat RSS at or below the
 	// rounding floor, (16ε)²·Σy², as exactly 0.
-	var sumY2 float64
-	for _, v := range y {
-		sumY2 += v * v
-	}
 	const eps16 = 16 * 0x1p-52
-	s := nan
+	li.s = li.nan
 	if n > 2 && rss > eps16*eps16*sumY2 {
-		s = math.Sqrt(rss / (nf - 2))
+		li.s = math.Sqrt(rss / (li.nf - 2))
 	}
-	c := nf / (nf - 1)
-	for i := range x {
-		dx, dy := (x[i]-hx)-lx, (y[i]-hy)-ly
-		if sole[0] == i || sole[1] == i {
-			res.SoleSupport[i] = true
-			res.Leverage[i] = 1
-			res.Residual[i] = 0
-			res.Studentized[i], res.StudentizedExt[i], res.CooksD[i], res.DFFITS[i] = nan, nan, nan, nan
-			res.LooR[i], res.LooSlope[i], res.LooIntercept[i] = nan, nan, nan
-			continue
-		}
-		q := dx * dx / m.Sxx
-		h := math.Min(1, 1/nf+q)
-		omh := math.Max(0, (nf-1)/nf-q) // 1 − h, formed without adding 1/n first
-		e := res.Residual[i]
-		res.Leverage[i] = h
-		ri := e / (s * math.Sqrt(omh))
-		res.Studentized[i] = ri
-		res.CooksD[i] = ri * ri * h / (2 * omh)
-		ti := nan
-		if n > 3 {
-			s2 := (rss - e*e/omh) / (nf - 3)
-			ti = e / (math.Sqrt(math.Max(s2, 0)) * math.Sqrt(omh))
-		}
-		res.StudentizedExt[i] = ti
-		res.DFFITS[i] = ti * math.Sqrt(h/omh)
+	li.c = li.nf / (li.nf - 1)
+	return li
+}
 
-		sxx := c * m.Sxx * omh
-		bi := b1 - dx*e/(m.Sxx*omh)
-		res.LooSlope[i] = bi
-		res.LooIntercept[i] = (m.MeanY - dy/(nf-1)) - bi*(m.MeanX-dx/(nf-1))
-		if n > 2 {
-			res.LooR[i] = corrFromSums(sxx, m.Syy-c*dy*dy, m.Sxy-c*dx*dy)
-		} else {
-			res.LooR[i] = nan
-		}
+// Len is the number of rows.
+func (li *LineInfluence) Len() int { return li.n }
+
+// At returns the influence of row i.
+func (li *LineInfluence) At(i int) InfluenceRow {
+	nan := li.nan
+	if !li.valid {
+		return InfluenceRow{nan, nan, nan, nan, nan, nan, nan, nan, nan, false}
 	}
-	return res
+	if li.sole[0] == i || li.sole[1] == i {
+		return InfluenceRow{Leverage: 1, Residual: 0, Studentized: nan, StudentizedExt: nan, CooksD: nan, DFFITS: nan,
+			LooR: nan, LooSlope: nan, LooIntercept: nan, SoleSupport: true}
+	}
+	m, nf := li.m, li.nf
+	dx, dy := (li.x[i]-li.hx)-li.lx, (li.y[i]-li.hy)-li.ly
+	e := dy - li.b1*dx
+	q := dx * dx / m.Sxx
+	h := math.Min(1, 1/nf+q)
+	omh := math.Max(0, (nf-1)/nf-q) // 1 − h, formed without adding 1/n first
+	r := InfluenceRow{Leverage: h, Residual: e}
+	ri := e / (li.s * math.Sqrt(omh))
+	r.Studentized = ri
+	r.CooksD = ri * ri * h / (2 * omh)
+	ti := nan
+	if li.n > 3 {
+		s2 := (li.rss - e*e/omh) / (nf - 3)
+		ti = e / (math.Sqrt(math.Max(s2, 0)) * math.Sqrt(omh))
+	}
+	r.StudentizedExt = ti
+	r.DFFITS = ti * math.Sqrt(h/omh)
+
+	sxx := li.c * m.Sxx * omh
+	bi := li.b1 - dx*e/(m.Sxx*omh)
+	r.LooSlope = bi
+	r.LooIntercept = (m.MeanY - dy/(nf-1)) - bi*(m.MeanX-dx/(nf-1))
+	r.LooR = nan
+	if li.n > 2 {
+		r.LooR = corrFromSums(sxx, m.Syy-li.c*dy*dy, m.Sxy-li.c*dx*dy)
+	}
+	return r
 }
 
 // soleSupportRow returns the indices of the rows whose leverage for the

@@ -2,7 +2,7 @@ package chart
 
 import (
 	"fmt"
-	"slices"
+	"math"
 	"strings"
 
 	"bivar/analysis/report"
@@ -67,27 +67,30 @@ func varName(v report.Variable) string {
 	return v.Column
 }
 
-// series splits the points by group level (levels in sorted order), or
-// returns one series of all points.
-func series(p *report.Plot, xs, ys []float64) []Series {
-	if len(p.Groups) != len(xs) || len(p.Groups) == 0 {
-		return []Series{{Name: fmt.Sprintf("rows (n = %d)", len(xs)), X: xs, Y: ys}}
+// series splits the plot's points by group level (levels in sorted
+// order, as the analysis gives them), or returns one series of all points;
+// pick chooses the two coordinates. It returns nil when the plot holds
+// density grids instead of points.
+func series(p *report.Plot, pick func(report.PlotPoint) (float64, float64)) []Series {
+	if p.Points == nil {
+		return nil
 	}
-	var levels []string
-	for _, g := range p.Groups {
-		if !slices.Contains(levels, g) {
-			levels = append(levels, g)
+	if len(p.Levels) == 0 {
+		out := Series{Name: fmt.Sprintf("rows (n = %d)", len(p.Points))}
+		for _, q := range p.Points {
+			x, y := pick(q)
+			out.X, out.Y = append(out.X, x), append(out.Y, y)
 		}
+		return []Series{out}
 	}
-	slices.Sort(levels)
-	out := make([]Series, len(levels))
-	for i, l := range levels {
+	out := make([]Series, len(p.Levels))
+	for i, l := range p.Levels {
 		out[i].Level = l
 	}
-	for i, g := range p.Groups {
-		k, _ := slices.BinarySearch(levels, g)
-		out[k].X = append(out[k].X, xs[i])
-		out[k].Y = append(out[k].Y, ys[i])
+	for _, q := range p.Points {
+		x, y := pick(q)
+		out[q.Group].X = append(out[q.Group].X, x)
+		out[q.Group].Y = append(out[q.Group].Y, y)
 	}
 	for i := range out {
 		out[i].Name = fmt.Sprintf("%s (n = %d)", out[i].Level, len(out[i].X))
@@ -95,35 +98,50 @@ func series(p *report.Plot, xs, ys []float64) []Series {
 	return out
 }
 
-func marks(p *report.Plot, xs, ys []float64) []Mark {
+// marks are the plot's named rows at the coordinates pick chooses, the
+// first report.LabelMax with their row name as a label.
+func marks(p *report.Plot, pick func(report.Marked) (float64, float64)) []Mark {
 	var out []Mark
-	for _, i := range p.Flagged {
-		if i < 0 || i >= len(xs) || i >= len(ys) {
-			continue
+	for _, m := range p.Marked {
+		x, y := pick(m)
+		k := Mark{X: x, Y: y}
+		if m.Label {
+			k.Label = m.Row
 		}
-		name := fmt.Sprint(i + 1)
-		if i < len(p.Rows) {
-			name = p.Rows[i]
-		}
-		out = append(out, Mark{X: xs[i], Y: ys[i], Label: name})
+		out = append(out, k)
 	}
 	return out
 }
 
 func markNames(m []Mark) string {
 	if len(m) == 0 {
-		return "No rows are flagged."
+		return "No row is named."
 	}
-	names := make([]string, len(m))
-	for i, k := range m {
-		names[i] = k.Label
+	var names []string
+	for _, k := range m {
+		if k.Label != "" {
+			names = append(names, k.Label)
+		}
 	}
-	return fmt.Sprintf("%d flagged rows are circled and labelled: %s.", len(m), strings.Join(names, ", "))
+	if len(names) == len(m) {
+		return fmt.Sprintf("%d named rows are circled and labelled: %s.", len(m), strings.Join(names, ", "))
+	}
+	return fmt.Sprintf("%d named rows are circled; the first %d are labelled: %s.", len(m), len(names), strings.Join(names, ", "))
 }
 
-func denseNote(n, flagged int) string {
-	return fmt.Sprintf(" With %d rows, more than %d, the points are drawn as density cells (darker cells hold more rows); the %d flagged rows are drawn individually on top.",
-		n, DensityAbove, flagged)
+func denseNote(n, marked int) string {
+	return fmt.Sprintf(" With %d rows, more than %d, the points are drawn as density cells (darker cells hold more rows); the %d named rows are drawn individually on top.",
+		n, DensityAbove, marked)
+}
+
+func pickXY(q report.PlotPoint) (float64, float64)     { return q.X, q.Y }
+func pickFitted(q report.PlotPoint) (float64, float64) { return q.Fitted, q.Residual }
+func pickOrder(q report.PlotPoint) (float64, float64)  { return q.Order, q.Residual }
+func markXY(m report.Marked) (float64, float64)        { return m.X, m.Y }
+func markFitted(m report.Marked) (float64, float64)    { return m.Fitted, m.Residual }
+func markOrder(m report.Marked) (float64, float64)     { return m.Order, m.Residual }
+func dense(p *report.Plot, g *report.Grid) (bool, *report.Grid) {
+	return p.Points == nil && g != nil, g
 }
 
 // Scatter is the scatterplot of y against x with the least-squares line,
@@ -133,17 +151,18 @@ func denseNote(n, flagged int) string {
 // when the study has no plot data.
 func Scatter(s *report.Study, id, level string) *Figure {
 	p := s.Plot
-	if p == nil || len(p.X) == 0 || len(p.X) != len(p.Y) {
+	if p == nil || p.N == 0 || (p.Points == nil && p.Scatter == nil) {
 		return nil
 	}
 	f := &Figure{
 		ID: id, Width: ScatterW, Height: ScatterH,
 		XLabel: AxisTitle(s.X), YLabel: AxisTitle(s.Y),
 		Title:  fmt.Sprintf("%s against %s", varName(s.Y), varName(s.X)),
-		Points: series(p, p.X, p.Y),
-		Marked: marks(p, p.X, p.Y),
-		Dense:  len(p.X) > DensityAbove,
+		Points: series(p, pickXY),
+		Marked: marks(p, markXY),
+		Levels: p.Levels,
 	}
+	f.Dense, f.Density = dense(p, p.Scatter)
 	if len(p.Band) > 0 {
 		var bx, fit, cl, ch, pl, ph []float64
 		for _, b := range p.Band {
@@ -160,7 +179,7 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		}
 		f.Lines = append(f.Lines, Line{Name: "least-squares line", X: bx, Y: fit, Role: RoleFit})
 	}
-	f.Lines = append(f.Lines, groupLines(s, f.Points)...)
+	f.Lines = append(f.Lines, groupLines(s)...)
 	if len(p.Lowess) > 0 {
 		f.Lines = append(f.Lines, xyLine("LOWESS curve", p.Lowess, RoleLowess))
 	}
@@ -172,14 +191,14 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		groups = fmt.Sprintf(" Points are coloured and shaped by %s (%d levels).", GroupName(s), len(f.Points))
 	}
 	f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the least-squares line, its %s%% confidence band, the %s%% prediction band and a LOWESS curve.%s %s",
-		len(p.X), f.YLabel, f.XLabel, level, level, groups, markNames(f.Marked))
+		p.N, f.YLabel, f.XLabel, level, level, groups, markNames(f.Marked))
 	f.Caption = fmt.Sprintf("%s against %s. Solid line: least squares; darker band: %s%% confidence for the line; lighter band: %s%% prediction for one new row; dashed: LOWESS.",
 		varName(s.Y), varName(s.X), level, level)
 	if len(p.Curve) > 0 {
 		f.Caption += " Dotted: quadratic fit."
 	}
 	switch {
-	case len(f.Points) > 1 && f.Dense:
+	case len(p.Levels) > 1 && f.Dense:
 		// Density cells pool the groups; only the groups' own lines show them.
 		if len(s.Groups) > 0 {
 			f.Caption += fmt.Sprintf(" Thin lines: the line within each level of %s (the density cells pool the levels).", GroupName(s))
@@ -192,27 +211,28 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		f.Caption += "."
 	}
 	if len(f.Marked) > 0 {
-		f.Caption += " Circled and labelled: flagged rows."
+		f.Caption += " Circled: named rows (labelled: the first " + fmt.Sprint(min(len(f.Marked), report.LabelMax)) + ")."
 	}
 	if f.Dense {
-		f.Caption += denseNote(len(p.X), len(f.Marked))
-		f.Desc += denseNote(len(p.X), len(f.Marked))
+		f.Caption += denseNote(p.N, len(f.Marked))
+		f.Desc += denseNote(p.N, len(f.Marked))
 	}
 	return f
 }
 
 // groupLines draws each group's own least-squares line (intercept and
-// slope from the report's per-group fits) across that group's x range.
-func groupLines(s *report.Study, pts []Series) []Line {
-	if len(pts) < 2 || len(s.Groups) == 0 {
+// slope from the report's per-group fits) across that group's x range,
+// in the colour of the group's level.
+func groupLines(s *report.Study) []Line {
+	p := s.Plot
+	if p == nil || len(p.Levels) < 2 || len(s.Groups) == 0 || len(p.LevelXMin) != len(p.Levels) {
 		return nil
 	}
 	var out []Line
-	for i, ser := range pts {
-		var e extent
-		e.add(ser.X...)
+	for i, level := range p.Levels {
+		lo, hi := p.LevelXMin[i], p.LevelXMax[i]
 		for _, g := range s.Groups {
-			if g.Group != ser.Level || e.n == 0 || !g.Slope.Valid() || !g.Intercept.Valid() {
+			if g.Group != level || p.LevelCounts[i] == 0 || !g.Slope.Valid() || !g.Intercept.Valid() {
 				continue
 			}
 			a, b := float64(g.Intercept), float64(g.Slope)
@@ -220,7 +240,7 @@ func groupLines(s *report.Study, pts []Series) []Line {
 			if len(out) == 0 {
 				name = "line within each group"
 			}
-			out = append(out, Line{Name: name, X: []float64{e.lo, e.hi}, Y: []float64{a + b*e.lo, a + b*e.hi}, Role: RoleGroup, Group: i})
+			out = append(out, Line{Name: name, X: []float64{lo, hi}, Y: []float64{a + b*lo, a + b*hi}, Role: RoleGroup, Group: i})
 		}
 	}
 	return out
@@ -242,74 +262,65 @@ func residualTitle(s *report.Study) string {
 	return "Residual"
 }
 
-func zeroLine(xs []float64) Line {
-	var e extent
-	e.add(xs...)
-	if e.n == 0 {
+// zeroLine is the reference line at zero across [lo, hi].
+func zeroLine(lo, hi float64) Line {
+	if !(hi >= lo) {
 		return Line{Role: RoleZero}
 	}
-	return Line{X: []float64{e.lo, e.hi}, Y: []float64{0, 0}, Role: RoleZero}
+	return Line{X: []float64{lo, hi}, Y: []float64{0, 0}, Role: RoleZero}
+}
+
+// spanOf is the range of the first coordinate pick chooses over the
+// plot's points, or of the grid's x when it holds a grid.
+func spanOf(p *report.Plot, g *report.Grid, pick func(report.PlotPoint) (float64, float64)) (lo, hi float64) {
+	if p.Points == nil {
+		if g == nil {
+			return math.NaN(), math.NaN()
+		}
+		return g.XLo, g.XHi
+	}
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, q := range p.Points {
+		v, _ := pick(q)
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	return lo, hi
 }
 
 // ResidualsFitted plots the straight line's residuals against its fitted
 // values. It returns nil when the study has none.
 func ResidualsFitted(s *report.Study, id string) *Figure {
 	p := s.Plot
-	if p == nil || len(p.Fitted) == 0 || len(p.Fitted) != len(p.Residuals) {
+	if p == nil || p.N == 0 || (p.Points == nil && p.ResidFitted == nil) {
 		return nil
 	}
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
 		XLabel: "Fitted value: " + AxisTitle(s.Y), YLabel: residualTitle(s),
 		Title:  "Residuals against fitted values",
-		Points: series(p, p.Fitted, p.Residuals),
-		Marked: marks(p, p.Fitted, p.Residuals),
-		Lines:  []Line{zeroLine(p.Fitted)},
-		Dense:  len(p.Fitted) > DensityAbove,
+		Points: series(p, pickFitted),
+		Marked: marks(p, markFitted),
+		Lines:  []Line{zeroLine(spanOf(p, p.ResidFitted, pickFitted))},
+		Levels: p.Levels,
 	}
-	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows against the fitted values, with a dashed line at zero. %s", len(p.Fitted), markNames(f.Marked))
+	f.Dense, f.Density = dense(p, p.ResidFitted)
+	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows against the fitted values, with a dashed line at zero. %s", p.N, markNames(f.Marked))
 	f.Caption = "Residuals against fitted values; dashed: zero. A curve or a funnel here means the straight line or its constant spread does not describe the data."
 	if f.Dense {
-		f.Caption += denseNote(len(p.Fitted), len(f.Marked))
-		f.Desc += denseNote(len(p.Fitted), len(f.Marked))
+		f.Caption += denseNote(p.N, len(f.Marked))
+		f.Desc += denseNote(p.N, len(f.Marked))
 	}
 	return f
 }
 
-// ResidualsOrder plots the residuals in run order. It returns nil when the
-// study has no order column.
+// ResidualsOrder plots the residuals in run order (the analysis gives the
+// points in run order, so the joining line follows the run). It returns
+// nil when the study has no order column.
 func ResidualsOrder(s *report.Study, id string) *Figure {
 	p := s.Plot
-	if p == nil || len(p.Order) == 0 || len(p.Order) != len(p.Residuals) {
+	if p == nil || p.N == 0 || s.Order == "" || (p.Points == nil && p.ResidOrder == nil) {
 		return nil
 	}
-	// Sort the points by run order so the joining line follows the run.
-	idx := make([]int, len(p.Order))
-	for i := range idx {
-		idx[i] = i
-	}
-	slices.SortStableFunc(idx, func(a, b int) int {
-		switch {
-		case p.Order[a] < p.Order[b]:
-			return -1
-		case p.Order[a] > p.Order[b]:
-			return 1
-		}
-		return 0
-	})
-	ox := make([]float64, len(idx))
-	ry := make([]float64, len(idx))
-	var groups []string
-	if len(p.Groups) == len(idx) {
-		groups = make([]string, len(idx))
-	}
-	for k, i := range idx {
-		ox[k], ry[k] = p.Order[i], p.Residuals[i]
-		if groups != nil {
-			groups[k] = p.Groups[i]
-		}
-	}
-	sorted := &report.Plot{Groups: groups}
 	order := OrderName(s)
 	xl := order
 	if !strings.Contains(strings.ToLower(order), "order") {
@@ -319,17 +330,18 @@ func ResidualsOrder(s *report.Study, id string) *Figure {
 		ID: id, Width: ResidualW, Height: ResidualH,
 		XLabel: xl, YLabel: residualTitle(s),
 		Title:  "Residuals in run order",
-		Points: series(sorted, ox, ry),
-		Marked: marks(p, p.Order, p.Residuals),
-		Lines:  []Line{zeroLine(ox)},
-		Dense:  len(ox) > DensityAbove,
-		Join:   len(ox) <= DensityAbove && groups == nil,
+		Points: series(p, pickOrder),
+		Marked: marks(p, markOrder),
+		Lines:  []Line{zeroLine(spanOf(p, p.ResidOrder, pickOrder))},
+		Levels: p.Levels,
 	}
-	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows in the order of %s, with a dashed line at zero. %s", len(ox), order, markNames(f.Marked))
+	f.Dense, f.Density = dense(p, p.ResidOrder)
+	f.Join = !f.Dense && len(p.Levels) == 0
+	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows in the order of %s, with a dashed line at zero. %s", p.N, order, markNames(f.Marked))
 	f.Caption = fmt.Sprintf("Residuals in the order of %s; dashed: zero. A trend or long runs on one side mean the relationship drifted during the run.", order)
 	if f.Dense {
-		f.Caption += denseNote(len(ox), len(f.Marked))
-		f.Desc += denseNote(len(ox), len(f.Marked))
+		f.Caption += denseNote(p.N, len(f.Marked))
+		f.Desc += denseNote(p.N, len(f.Marked))
 	}
 	return f
 }

@@ -2,6 +2,7 @@ package chart
 
 import (
 	"bytes"
+	"fmt"
 	"io"
 	"math"
 	"regexp"
@@ -157,8 +158,8 @@ func TestScatterFromStudy(t *testing.T) {
 	if len(f.Points) != 3 {
 		t.Errorf("%d series, want 3 (one per lot)", len(f.Points))
 	}
-	if len(f.Marked) != 2 || f.Marked[0].Label != "P0006" {
-		t.Errorf("marked = %+v, want the two flagged rows with their names", f.Marked)
+	if len(f.Marked) != 2 || f.Marked[0].Label != "P0010" || f.Marked[1].Label == "" {
+		t.Errorf("marked = %+v, want the two named rows with their names, in the report's ranking", f.Marked)
 	}
 	roles := map[Role]bool{}
 	for _, l := range f.Lines {
@@ -267,3 +268,28 @@ func BenchmarkScatterDense(b *testing.B) {
 }
 
 var _ = strconv.Itoa
+
+// TestLabelsBounded: a chart marks every named row the Plot carries but
+// labels only those the analysis marked for a label (report.LabelMax).
+func TestLabelsBounded(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 5000})
+	s := &r.Studies[0]
+	var marked []report.Marked
+	for k := range 25 {
+		marked = append(marked, report.Marked{Row: fmt.Sprintf("R%02d", k), X: 20 + float64(k), Y: 3, Fitted: 3, Residual: 0.1 * float64(k), Order: float64(k), Label: k < report.LabelMax})
+	}
+	s.Plot.Marked = marked
+	for _, f := range []*Figure{Scatter(s, "s", "95"), ResidualsFitted(s, "f"), ResidualsOrder(s, "o")} {
+		if f == nil || !f.Dense {
+			t.Fatal("want a dense figure for n = 5000")
+		}
+		svg := draw(t, f)
+		if got := strings.Count(svg, "<circle"); got != 25+1 { // 25 marks and the legend's mark
+			t.Errorf("%s: %d circles, want 25 marks and one in the legend", f.ID, got)
+		}
+		labels := regexp.MustCompile(`>R\d\d</text>`).FindAllString(svg, -1)
+		if len(labels) != report.LabelMax {
+			t.Errorf("%s: %d labels, want %d", f.ID, len(labels), report.LabelMax)
+		}
+	}
+}

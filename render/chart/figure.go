@@ -3,13 +3,14 @@ package chart
 import (
 	"io"
 
+	"bivar/analysis/report"
 	"bivar/themes"
 )
 
 // DensityAbove is the number of points above which point clouds are drawn
 // as density cells rather than one mark per point ("a few thousand": the
 // SVG of a figure then stays under a few hundred kB whatever n is).
-const DensityAbove = 3000
+const DensityAbove = report.PlotPointsMax
 
 // Role says how a line or band is drawn.
 type Role int
@@ -37,9 +38,14 @@ type Figure struct {
 	Height  int
 	Bands   []Band
 	Lines   []Line
-	Points  []Series // drawn as marks, or as density cells when Dense
-	Marked  []Mark   // flagged rows, drawn on top and labelled
-	Dense   bool     // draw Points as density cells
+	Points  []Series // drawn as marks; empty when Dense
+	Marked  []Mark   // named rows, drawn on top; labelled where Label is set
+	Dense   bool     // draw Density instead of points
+	Density *report.Grid
+	// Levels names the group levels, in the order of their colours, when
+	// the points are coloured by group; in a dense figure it still gives
+	// the group lines their colours.
+	Levels []string
 	Join    bool     // join each series' points in the order given (run order)
 }
 
@@ -65,7 +71,8 @@ type Series struct {
 	X, Y  []float64
 }
 
-// Mark is a flagged point with its label (the row name).
+// Mark is a named row with its label (the row name; "" for a mark
+// without a label).
 type Mark struct {
 	X, Y  float64
 	Label string

@@ -180,6 +180,10 @@ func (d *svgDrawer) plan(f *Figure) *layout {
 			ey.add(m.Y)
 		}
 	}
+	if g := f.Density; f.Dense && g != nil && finite(g.XLo, g.XHi, g.YLo, g.YHi) {
+		ex.add(g.XLo, g.XHi)
+		ey.add(g.YLo, g.YHi)
+	}
 	// Lines and bands are drawn across the points' x range only; their y
 	// values widen the y range so the bands are seen whole.
 	for _, l := range f.Lines {
@@ -226,7 +230,7 @@ func (d *svgDrawer) plan(f *Figure) *layout {
 		}
 	}
 	if len(f.Marked) > 0 {
-		L.legend = append(L.legend, legendItem{kind: "mark", text: "flagged row (labelled)"})
+		L.legend = append(L.legend, legendItem{kind: "mark", text: "named row"})
 	}
 	// Wrap the legend into rows.
 	var row []legendItem
@@ -422,36 +426,32 @@ func (d *svgDrawer) drawPoints(w io.Writer, f *Figure, L *layout) {
 	}
 }
 
+// drawDensity draws the figure's density grid (binned by the analysis):
+// each non-empty cell as a rectangle shaded in five steps on a log scale of
+// its count relative to the fullest cell.
 func (d *svgDrawer) drawDensity(w io.Writer, f *Figure, L *layout) {
-	nx := max(1, int((L.right-L.left)/cellPx))
-	ny := max(1, int((L.bottom-L.top)/cellPx))
-	counts := make([]int, nx*ny)
-	peak := 0
-	for _, s := range f.Points {
-		for i := range s.X {
-			if !finite(s.X[i], s.Y[i]) {
-				continue
-			}
-			cx := int((L.px(s.X[i]) - L.left) / (L.right - L.left) * float64(nx))
-			cy := int((L.py(s.Y[i]) - L.top) / (L.bottom - L.top) * float64(ny))
-			cx, cy = min(max(cx, 0), nx-1), min(max(cy, 0), ny-1)
-			counts[cy*nx+cx]++
-			peak = max(peak, counts[cy*nx+cx])
-		}
+	g := f.Density
+	if g == nil || g.NX <= 0 || g.NY <= 0 || len(g.Counts) != g.NX*g.NY {
+		return
 	}
-	cw := (L.right - L.left) / float64(nx)
-	ch := (L.bottom - L.top) / float64(ny)
+	peak := 0
+	for _, k := range g.Counts {
+		peak = max(peak, k)
+	}
+	cw := (g.XHi - g.XLo) / float64(g.NX)
+	ch := (g.YHi - g.YLo) / float64(g.NY)
 	fmt.Fprintf(w, "<g fill=\"%s\">", d.pal.Point)
-	for cy := range ny {
-		for cx := range nx {
-			k := counts[cy*nx+cx]
+	for j := range g.NY {
+		for i := range g.NX {
+			k := g.Counts[j*g.NX+i]
 			if k == 0 {
 				continue
 			}
-			// Five shades on a log scale of the count.
+			x0, x1 := L.px(g.XLo+float64(i)*cw), L.px(g.XLo+float64(i+1)*cw)
+			y1, y0 := L.py(g.YLo+float64(j)*ch), L.py(g.YLo+float64(j+1)*ch)
 			level := math.Ceil(5 * math.Log1p(float64(k)) / math.Log1p(float64(peak)))
 			fmt.Fprintf(w, `<rect x="%s" y="%s" width="%s" height="%s" fill-opacity="%s"/>`,
-				coord(L.left+float64(cx)*cw), coord(L.top+float64(cy)*ch), coord(cw), coord(ch), coord(0.12+0.176*level))
+				coord(x0), coord(y0), coord(x1-x0), coord(y1-y0), coord(0.12+0.176*level))
 		}
 	}
 	fmt.Fprint(w, "</g>\n")
@@ -461,7 +461,7 @@ func (d *svgDrawer) drawLines(w io.Writer, f *Figure, L *layout) {
 	for _, l := range f.Lines {
 		stroke, width, dash := d.roleStyle(l.Role)
 		if l.Role == RoleGroup {
-			stroke, dash = d.seriesColour(l.Group, len(f.Points)), ""
+			stroke, dash = d.seriesColour(l.Group, max(len(f.Points), len(f.Levels))), ""
 			if d.pal.Monochrome {
 				dash = []string{"", "5 2", "1 2", "8 2 1 2"}[l.Group%4]
 			}
@@ -564,7 +564,7 @@ func (d *svgDrawer) drawLabels(w io.Writer, f *Figure, L *layout) {
 	}
 	var out []placed
 	for _, m := range f.Marked {
-		if !finite(m.X, m.Y) {
+		if !finite(m.X, m.Y) || m.Label == "" {
 			continue
 		}
 		text := shorten(m.Label, labelRunes)

@@ -46,7 +46,7 @@ type Figure struct {
 	// the points are coloured by group; in a dense figure it still gives
 	// the group lines their colours.
 	Levels []string
-	Join    bool     // join each series' points in the order given (run order)
+	Join   bool // join each series' points in the order given (run order)
 }
 
 // Band is a filled area between Low and High over X (X ascending).

@@ -199,7 +199,7 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 
 	cc := completeCases(in, covNames)
-	s.N = len(cc.idx)
+	s.N = cc.n
 	s.NMissing = len(in.XS) - s.N
 	s.Excluded = cc.excluded
 	if s.N < 3 {
@@ -398,7 +398,8 @@ func checkLengths(in Input, covNames []string) string {
 // cases are a study's complete cases: the rows where x, y and every
 // declared group, order and covariate are present.
 type cases struct {
-	idx      []int // data row (0-based) of each complete case
+	n        int   // complete cases
+	idx      []int // data row (0-based) of each complete case; nil when every row is one
 	x, y     []float64
 	names    []string // the dataset's row names (id_column), all rows; nil when none
 	groups   []string
@@ -433,7 +434,8 @@ func completeCases(in Input, covNames []string) cases {
 		v := in.Covariates[c]
 		cols = append(cols, col{name: c, miss: func(i int) bool { return missing(v[i]) }})
 	}
-	cc := cases{idx: make([]int, 0, n)}
+	var cc cases
+	var drop []int // data rows that are not complete cases
 	for i := 0; i < n; i++ {
 		ok := true
 		for j := range cols {
@@ -442,8 +444,8 @@ func completeCases(in Input, covNames []string) cases {
 				ok = false
 			}
 		}
-		if ok {
-			cc.idx = append(cc.idx, i)
+		if !ok {
+			drop = append(drop, i)
 		}
 	}
 	// Report each column once, in the study's column order, even when the
@@ -460,12 +462,30 @@ func completeCases(in Input, covNames []string) cases {
 		seen[c.name] = len(cc.excluded)
 		cc.excluded = append(cc.excluded, report.Exclusion{Column: c.name, Rows: c.rows, Reason: "missing"})
 	}
-	k := len(cc.idx)
+	cc.n = n - len(drop)
+	cc.names = in.Rows
+	if len(drop) == 0 {
+		// Every row is complete: the study reads the columns as they are
+		// (a study of 10⁷ rows copies nothing).
+		cc.x, cc.y, cc.groups, cc.order = in.XS, in.YS, in.Groups, in.Order
+		for _, c := range covNames {
+			cc.cov = append(cc.cov, in.Covariates[c])
+		}
+		return cc
+	}
+	cc.idx = make([]int, 0, cc.n)
+	for i, d := 0, 0; i < n; i++ {
+		if d < len(drop) && drop[d] == i {
+			d++
+			continue
+		}
+		cc.idx = append(cc.idx, i)
+	}
+	k := cc.n
 	cc.x, cc.y = make([]float64, k), make([]float64, k)
 	for j, i := range cc.idx {
 		cc.x[j], cc.y[j] = in.XS[i], in.YS[i]
 	}
-	cc.names = in.Rows
 	if in.Groups != nil {
 		cc.groups = make([]string, k)
 		for j, i := range cc.idx {
@@ -493,7 +513,10 @@ func completeCases(in Input, covNames []string) cases {
 // value, else its 1-based data row number. Names are made only for the
 // rows a report names, never for every row.
 func (cc *cases) name(j int) string {
-	i := cc.idx[j]
+	i := j
+	if cc.idx != nil {
+		i = cc.idx[j]
+	}
 	if cc.names != nil && cc.names[i] != "" {
 		return cc.names[i]
 	}

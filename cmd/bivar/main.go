@@ -106,7 +106,10 @@ at least two numeric columns that vary is refused: there is nothing to pair.`,
 }
 
 func main() {
-	os.Exit(run(context.Background(), os.Args[1:], os.Stdout, os.Stderr))
+	ctx, stop := withSignals(context.Background())
+	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr)
+	stop()
+	os.Exit(code)
 }
 
 // run dispatches to a subcommand and returns the exit status.

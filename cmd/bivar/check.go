@@ -39,6 +39,12 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		fmt.Fprintf(stderr, "bivar check: --junit and --summary both name %s: give each its own file\n", *junit)
 		return exitUsage
 	}
+	for _, f := range []struct{ flag, path string }{{"--junit", *junit}, {"--summary", *summary}} {
+		if f.path != "" && samePath(f.path, fs.Arg(0)) {
+			fmt.Fprintf(stderr, "bivar check: %s %s is the manifest: give the CI file a name of its own\n", f.flag, f.path)
+			return exitUsage
+		}
+	}
 	// The CI files are taken before the studies run, so a second check
 	// writing them is refused at once.
 	var files []ciFile
@@ -55,55 +61,82 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		files = append(files, ciFile{flag: f.flag, target: t})
 	}
 	jf, sf := files[0], files[1]
-	const kept = "the earlier --junit and --summary files are as they were"
+	kept := ""
+	if jf.target != nil || sf.target != nil {
+		kept = "the earlier --junit and --summary files are as they were"
+	}
 	// compute tells the user on stderr why it failed; keep a copy for the
 	// CI files, so a failed run replaces them instead of leaving stale ones.
 	var msg bytes.Buffer
-	rep, _, code := compute(ctx, fs.Arg(0), io.MultiWriter(stderr, &msg))
+	rep, m, code := compute(ctx, fs.Arg(0), io.MultiWriter(stderr, &msg))
 	if sig := stopped(ctx); sig != nil {
 		return interrupted(stderr, "bivar check", sig, kept)
 	}
-	// From here the files are written whatever signal comes, so that a
-	// stop never leaves one new and one old (each is replaced in one
-	// rename, and both take a moment).
-	wctx := context.WithoutCancel(ctx)
-	if rep == nil {
-		jf.write(wctx, stderr, func(w io.Writer) error { return gate.JUnitFailedRun(w, fs.Arg(0), msg.String()) })
-		sf.write(wctx, stderr, func(w io.Writer) error { return gate.SummaryFailedRun(w, fs.Arg(0), msg.String()) })
-		return code
+	for _, f := range files {
+		for i := 0; m != nil && f.target != nil && i < len(m.Datasets); i++ {
+			if samePath(f.target.Path(), m.Datasets[i].File) {
+				fmt.Fprintf(stderr, "bivar check: %s %s is the data file of dataset %q: give the CI file a name of its own\n", f.flag, f.target.Path(), m.Datasets[i].ID)
+				return exitUsage
+			}
+		}
 	}
-	if !jf.write(wctx, stderr, func(w io.Writer) error { return gate.JUnit(w, rep) }) ||
-		!sf.write(wctx, stderr, func(w io.Writer) error { return gate.Summary(w, rep) }) {
+	// Both files are written beside their places, then renamed one right
+	// after the other (publish.WriteFiles): a signal before the renames
+	// keeps both old ones, and once they start both go ahead.
+	var ci []ciFile
+	if rep == nil {
+		ci = []ciFile{
+			{jf.flag, jf.target, func(w io.Writer) error { return gate.JUnitFailedRun(w, fs.Arg(0), msg.String()) }},
+			{sf.flag, sf.target, func(w io.Writer) error { return gate.SummaryFailedRun(w, fs.Arg(0), msg.String()) }},
+		}
+	} else {
+		ci = []ciFile{
+			{jf.flag, jf.target, func(w io.Writer) error { return gate.JUnit(w, rep) }},
+			{sf.flag, sf.target, func(w io.Writer) error { return gate.Summary(w, rep) }},
+		}
+	}
+	if err := writeCI(ctx, ci); err != nil {
+		if sig := stopped(ctx); sig != nil {
+			return interrupted(stderr, "bivar check", sig, kept)
+		}
+		fmt.Fprintf(stderr, "bivar check: %v\n", err)
 		return exitFailed
+	}
+	if rep == nil {
+		return code
 	}
 	checkSummary(stderr, rep)
 	return status(rep, stderr)
 }
 
-// ciFile is one of check's output files, taken for writing; a zero
-// ciFile (the flag was not given) writes nothing.
+// ciFile is one of check's output files, taken for writing, and what to
+// write in it; a nil target (the flag was not given) writes nothing.
 type ciFile struct {
 	flag   string
 	target *publish.Target
+	render func(io.Writer) error
 }
 
-// write renders the file in memory and replaces the previous one with it
-// in one rename, so CI never reads a half-written file. It reports a
-// failure on stderr and returns false.
-func (f ciFile) write(ctx context.Context, stderr io.Writer, render func(io.Writer) error) bool {
-	if f.target == nil {
-		return true
+// writeCI renders the files in memory and replaces the previous ones
+// (publish.WriteFiles), so CI never reads a half-written file.
+func writeCI(ctx context.Context, files []ciFile) error {
+	var targets []*publish.Target
+	var data [][]byte
+	for _, f := range files {
+		if f.target == nil {
+			continue
+		}
+		var buf bytes.Buffer
+		if err := f.render(&buf); err != nil {
+			return fmt.Errorf("%s: %w", f.flag, err)
+		}
+		targets = append(targets, f.target)
+		data = append(data, buf.Bytes())
 	}
-	var buf bytes.Buffer
-	err := render(&buf)
-	if err == nil {
-		err = f.target.WriteFile(ctx, buf.Bytes())
+	if len(targets) == 0 {
+		return nil
 	}
-	if err != nil {
-		fmt.Fprintf(stderr, "bivar check: %s: %v\n", f.flag, err)
-		return false
-	}
-	return true
+	return publish.WriteFiles(ctx, targets, data)
 }
 
 // samePath says whether a and b name one file, existing or not.

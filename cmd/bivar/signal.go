@@ -58,9 +58,14 @@ func stopped(ctx context.Context) os.Signal {
 }
 
 // interrupted tells the user that a signal stopped the command and what
-// was kept, and returns the exit status.
+// was kept ("" when the command writes nothing), and returns the exit
+// status.
 func interrupted(stderr io.Writer, who string, sig os.Signal, kept string) int {
-	fmt.Fprintf(stderr, "%s: stopped by %s; nothing written: %s\n", who, signalName(sig), kept)
+	if kept == "" {
+		fmt.Fprintf(stderr, "%s: stopped by %s\n", who, signalName(sig))
+	} else {
+		fmt.Fprintf(stderr, "%s: stopped by %s; nothing written: %s\n", who, signalName(sig), kept)
+	}
 	if s, ok := sig.(syscall.Signal); ok {
 		return 128 + int(s)
 	}

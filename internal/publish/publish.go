@@ -455,27 +455,55 @@ func replaceError(path string, err error) error {
 // WriteFile replaces the target file with data in one rename. If ctx is
 // cancelled first, the previous file is untouched.
 func (t *Target) WriteFile(ctx context.Context, data []byte) error {
-	if t.isDir {
-		return errors.New("publish: WriteFile on a folder target; use Publish")
-	}
-	if t.lock == nil {
-		return errors.New("publish: target closed")
+	return WriteFiles(ctx, []*Target{t}, [][]byte{data})
+}
+
+// WriteFiles replaces several file targets, ts[i] by data[i]: every new
+// file is written and synced beside its target first, and then all are
+// renamed into place one after the other, with nothing between the
+// renames. Until the first rename every previous file is untouched, and a
+// cancellation of ctx stops it there; once the renames start they all go
+// ahead. Files in different places cannot be replaced in one step: a
+// process killed between two renames leaves some files new and the rest
+// old, each whole.
+func WriteFiles(ctx context.Context, ts []*Target, data [][]byte) (err error) {
+	if len(ts) != len(data) {
+		panic("publish: WriteFiles with a target count unequal to the data count")
 	}
 	s := stepper{ctx: ctx, trace: traceFrom(ctx)}
-	tmp := t.tempName("new")
-	if err := s.writeFile(tmp, data, t.mode); err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("writing %s: %w", t.path, err)
+	tmps := make([]string, 0, len(ts))
+	renamed := 0
+	defer func() {
+		for _, tmp := range tmps[renamed:] {
+			os.Remove(tmp)
+		}
+	}()
+	for i, t := range ts {
+		switch {
+		case t.isDir:
+			return errors.New("publish: WriteFile on a folder target; use Publish")
+		case t.lock == nil:
+			return errors.New("publish: target closed")
+		}
+		tmp := t.tempName("new")
+		tmps = append(tmps, tmp)
+		if err := s.writeFile(tmp, data[i], t.mode); err != nil {
+			return fmt.Errorf("writing %s: %w", t.path, err)
+		}
 	}
-	if err := s.step("rename", t.path); err != nil {
-		os.Remove(tmp)
+	if err := s.step("rename", ts[0].path); err != nil {
 		return err
 	}
-	if err := os.Rename(tmp, t.path); err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("putting %s in place: %w", t.path, err)
+	for i, t := range ts {
+		if i > 0 {
+			s.after("rename", t.path)
+		}
+		if err := os.Rename(tmps[i], t.path); err != nil {
+			return fmt.Errorf("putting %s in place: %w", t.path, err)
+		}
+		renamed++
+		syncDir(t.parent)
 	}
-	syncDir(t.parent)
 	return nil
 }
 

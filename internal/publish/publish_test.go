@@ -497,3 +497,31 @@ func TestConcurrent(t *testing.T) {
 	}
 	t.Logf("%d published, %d refused, %d whole reads", published, refused, reads)
 }
+
+// TestSymlinkedFolder: an output folder that is a symbolic link stays a
+// link, and the folder it points to is the one replaced.
+func TestSymlinkedFolder(t *testing.T) {
+	root := t.TempDir()
+	real := filepath.Join(root, "elsewhere", "report")
+	link := filepath.Join(root, "report")
+	if err := os.MkdirAll(real, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink(real, link); err != nil {
+		t.Fatal(err)
+	}
+	for _, tag := range []string{"A", "B"} {
+		if err := publish(t, context.Background(), link, set(tag, "report.html")); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if fi, err := os.Lstat(link); err != nil || fi.Mode()&fs.ModeSymlink == 0 {
+		t.Fatalf("the link was replaced: %v, %v", fi, err)
+	}
+	if got := snapshot(t, real); !equal(got, want(set("B", "report.html"))) {
+		t.Errorf("the linked folder holds %v", got)
+	}
+	if l := leftovers(t, real); len(l) != 0 {
+		t.Errorf("left beside the linked folder: %v", l)
+	}
+}

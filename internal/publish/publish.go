@@ -206,9 +206,9 @@ func (t *Target) tempName(role string) string {
 
 // recover deals with what writers of this target that died left behind.
 // It runs under the lock, so no live writer owns any of it. A folder
-// target found absent while a complete new set or the moved-aside old
-// one waits under a temporary name (a death between the two renames of
-// the fallback) is put back first.
+// target found absent while its old set waits moved aside (a death
+// between the two renames of the fallback) is put back first: the new set
+// when it is complete, else the old one.
 func (t *Target) recover() error {
 	entries, err := os.ReadDir(t.parent)
 	if err != nil {
@@ -221,16 +221,22 @@ func (t *Target) recover() error {
 		}
 	}
 	if _, err := os.Lstat(t.path); t.isDir && errors.Is(err, fs.ErrNotExist) {
-		var back string
+		// Only the fallback moves a folder aside (".old"); without one the
+		// folder was absent before, and a new set that was never put in
+		// place is not put there now.
+		var back, newSet string
 		for _, p := range temps {
-			if _, err := os.Stat(filepath.Join(p, ContentsFile)); err == nil && strings.HasSuffix(p, ".new") {
-				back = p // a complete new set: its writer died after the old one was moved aside
+			switch {
+			case strings.HasSuffix(p, ".old"):
+				back = p
+			case strings.HasSuffix(p, ".new"):
+				if _, err := os.Stat(filepath.Join(p, ContentsFile)); err == nil {
+					newSet = p // complete: its writer died between the two renames
+				}
 			}
 		}
-		for _, p := range temps {
-			if back == "" && strings.HasSuffix(p, ".old") {
-				back = p
-			}
+		if back != "" && newSet != "" {
+			back = newSet
 		}
 		if back != "" {
 			if err := os.Rename(back, t.path); err != nil {

@@ -55,7 +55,7 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		}
 		t, err := publish.OpenFile(f.path, publish.Options{Command: "bivar check"})
 		if err != nil {
-			return outputError(stderr, "bivar check", f.flag, err)
+			return outputError(stderr, "bivar check", f.flag, f.flag+" FILE", err)
 		}
 		defer t.Close()
 		files = append(files, ciFile{flag: f.flag, target: t})

@@ -54,7 +54,7 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	// The folder is taken first, so a second diff into it is refused at once.
 	target, err := publish.OpenDir(*out, publish.Options{Command: "bivar diff", Legacy: changes.EarlierFile})
 	if err != nil {
-		return outputError(stderr, "bivar diff", "-o", err)
+		return outputError(stderr, "bivar diff", "-o", "-o DIR", err)
 	}
 	defer target.Close()
 	kept := fmt.Sprintf("any earlier diff in %s is as it was", *out)

@@ -416,7 +416,7 @@ func TestConcurrentRuns(t *testing.T) {
 				case (code == exitOK || code == exitExpectation) && strings.Contains(stderr, "report written to"):
 					written++
 				case code == exitFailed && strings.Contains(stderr, "is being written by another bivar run (process "+strconv.Itoa(os.Getpid())+", running since ") &&
-					strings.Contains(stderr, "wait for it to finish, or give this one another output (-o)"):
+					strings.Contains(stderr, "wait for it to finish, or choose another with -o DIR"):
 					refused++
 				default:
 					t.Errorf("exit %d, stderr:\n%s", code, stderr)
@@ -555,4 +555,56 @@ func TestRunOutputRefused(t *testing.T) {
 	if h := hidden(t, root); len(h) > 0 {
 		t.Errorf("left in the project: %v", h)
 	}
+}
+
+// TestConcurrentRunProcesses: the same as TestConcurrentRuns with two
+// processes, so the lock is taken between processes and the refused one
+// names the other's process id.
+func TestConcurrentRunProcesses(t *testing.T) {
+	if testing.Short() {
+		t.Skip("starts processes")
+	}
+	base := t.TempDir()
+	out := filepath.Join(base, "shared-report")
+	manifests := []string{
+		project(t, filepath.Join(base, "p1"), 0, "project one (invented data)"),
+		project(t, filepath.Join(base, "p2"), 1, "project two (invented data)"),
+	}
+	const rounds = 8
+	var wg sync.WaitGroup
+	var mu sync.Mutex
+	written, refused := 0, 0
+	for _, m := range manifests {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for range rounds {
+				_, code, stderr := child(t, "none", 0, "run", "-o", out, m)
+				mu.Lock()
+				switch {
+				case (code == exitOK || code == exitExpectation) && strings.Contains(stderr, "report written to"):
+					written++
+				case code == exitFailed && strings.Contains(stderr, "is being written by another bivar run (process ") &&
+					!strings.Contains(stderr, "(process "+strconv.Itoa(os.Getpid())+",") && !strings.Contains(stderr, "(process 0"):
+					refused++
+				default:
+					t.Errorf("exit %d, stderr:\n%s", code, stderr)
+				}
+				mu.Unlock()
+			}
+		}()
+	}
+	wg.Wait()
+	got := tree(t, out)
+	one := strings.Contains(got["report.md"], "project one")
+	if strings.Contains(got["results.json"], "project one") != one || strings.Contains(got["report.html"], "project one") != one {
+		t.Error("the report folder holds files of two runs")
+	}
+	if written+refused != 2*rounds || written == 0 {
+		t.Errorf("%d written, %d refused, want %d in all", written, refused, 2*rounds)
+	}
+	if h := hidden(t, base); len(h) > 0 {
+		t.Errorf("left beside the report: %v", h)
+	}
+	t.Logf("%d written, %d refused", written, refused)
 }

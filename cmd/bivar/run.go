@@ -42,7 +42,7 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	// is refused at once rather than after its work.
 	target, err := publish.OpenDir(dir, publish.Options{Command: "bivar run", Legacy: render.EarlierFile})
 	if err != nil {
-		return outputError(stderr, "bivar", from, err)
+		return outputError(stderr, "bivar", from, "-o DIR", err)
 	}
 	defer target.Close()
 	kept := fmt.Sprintf("any earlier report in %s is as it was", dir)
@@ -77,13 +77,14 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 
 // outputError explains why an output folder or file could not be taken:
 // another process writes it, it holds what is not bivar's, or it cannot
-// be created. from says where its name came from (a flag, the manifest).
-func outputError(stderr io.Writer, who, from string, err error) int {
+// be created. from says where its name came from (a flag, the manifest),
+// choose how to give another (such as "-o DIR").
+func outputError(stderr io.Writer, who, from, choose string, err error) int {
 	var busy *publish.BusyError
 	var foreign *publish.ForeignError
 	switch {
 	case errors.As(err, &busy):
-		fmt.Fprintf(stderr, "%s: %v: wait for it to finish, or give this one another output (%s)\n", who, err, from)
+		fmt.Fprintf(stderr, "%s: %v: wait for it to finish, or choose another with %s\n", who, err, choose)
 	case errors.As(err, &foreign):
 		fmt.Fprintf(stderr, "%s: %v (the folder comes from %s)\n", who, err, from)
 	default:

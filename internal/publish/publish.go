@@ -5,8 +5,8 @@
 // A folder target (OpenDir) is published by building the complete new
 // set in a fresh folder beside it, named .<name>.bivar-tmp-<pid>-<random>.new,
 // and then exchanging the two folders with one renameat2(RENAME_EXCHANGE)
-// call (Linux 3.15 and later, on ext4, xfs, btrfs, tmpfs and most local
-// file systems). Before the exchange the old folder is untouched; after
+// call (Linux 3.15 and later, where the file system supports it; ext4, on
+// which the tests run, does). Before the exchange the old folder is untouched; after
 // it the new one is in place and the old set, now under the temporary
 // name, is removed. Where the exchange is not available (another system,
 // or a file system that refuses it) the folder is moved aside and the new

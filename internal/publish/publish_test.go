@@ -554,3 +554,29 @@ func BenchmarkPublish(b *testing.B) {
 		tg.Close()
 	}
 }
+
+// TestExchange: where the system has it, exchange swaps two folders (so
+// the exchange cases of TestKillAtEveryStep do not quietly take the
+// fallback).
+func TestExchange(t *testing.T) {
+	root := t.TempDir()
+	a, b := filepath.Join(root, "a"), filepath.Join(root, "b")
+	for _, d := range []string{a, b} {
+		if err := os.Mkdir(d, 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(d, "x"), []byte(filepath.Base(d)), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	err := exchange(a, b)
+	if errors.Is(err, errNoExchange) {
+		t.Skip("no renameat2(RENAME_EXCHANGE) on this system or file system: Publish takes the fallback")
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	if x, _ := os.ReadFile(filepath.Join(a, "x")); string(x) != "b" {
+		t.Errorf("after the exchange a/x = %q, want %q", x, "b")
+	}
+}

@@ -7,3 +7,5 @@ require (
 	github.com/yuin/goldmark v1.8.7
 	gonum.org/v1/gonum v0.17.0
 )
+
+require golang.org/x/sys v0.39.0 // indirect

@@ -30,7 +30,7 @@ import (
 	"text/template"
 
 	"bivar/analysis/report"
-	"bivar/internal/atomicfile"
+	"bivar/internal/publish"
 	"bivar/render/chart"
 	"bivar/themes"
 )
@@ -109,7 +109,7 @@ func WithTheme(name string) Option { return func(c *config) { c.theme = name } }
 func WithFigureDir(dir string) Option { return func(c *config) { c.figureDir = dir } }
 
 func newConfig(opts []Option) (*config, error) {
-	c := &config{theme: themes.Default, figureDir: "figures"}
+	c := &config{theme: themes.Default, figureDir: defaultFigureDir}
 	for _, o := range opts {
 		o(c)
 	}
@@ -240,7 +240,7 @@ func markdownBytes(r *report.Report, opts []Option) ([]byte, *page, error) {
 
 // File is one file of the report: a slash-separated name relative to the
 // report folder and its bytes.
-type File = atomicfile.File
+type File = publish.File
 
 // Figures returns the SVG files report.md links to, in study order.
 func Figures(r *report.Report, opts ...Option) ([]File, error) {

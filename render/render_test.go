@@ -243,8 +243,8 @@ func TestDeterministic(t *testing.T) {
 			n++
 			return nil
 		})
-		if n != 3+5 {
-			t.Errorf("%s: %d files written, want 8 (html, md, json and 5 figures)", th, n)
+		if n != 3+5+1 {
+			t.Errorf("%s: %d files written, want 9 (html, md, json, 5 figures and the list of contents)", th, n)
 		}
 	}
 }
@@ -315,25 +315,18 @@ func TestWriteReportAtomic(t *testing.T) {
 	if err := WriteReport(dir, r2, []string{"html", "pdf"}); err == nil {
 		t.Fatal("unknown format accepted")
 	}
-	// 2. Failure while writing: the figures folder cannot be created
-	//    because a file stands in its way; report.html was already written
-	//    to its temporary name by then.
+	// 2. A folder that holds a file bivar did not write is refused before
+	//    anything is written, so the user's file is never lost.
+	//    (internal/publish stops a writer at each of its steps and checks
+	//    the folder holds the old report or the new one, whole.)
 	dir2 := t.TempDir()
 	if err := WriteReport(dir2, r, Formats()); err != nil {
 		t.Fatal(err)
 	}
+	os.WriteFile(filepath.Join(dir2, "figures", "photo.jpg"), []byte("a user's"), 0o644)
 	before2 := snapshot(t, dir2)
-	os.RemoveAll(filepath.Join(dir2, "figures"))
-	os.WriteFile(filepath.Join(dir2, "figures"), []byte("in the way"), 0o644)
-	delete(before2, "figures/cure-vs-hold-residuals.svg")
-	for k := range before2 {
-		if strings.HasPrefix(k, "figures/") {
-			delete(before2, k)
-		}
-	}
-	before2["figures"] = "in the way"
-	if err := WriteReport(dir2, r2, Formats()); err == nil {
-		t.Fatal("write through a file named figures succeeded")
+	if err := WriteReport(dir2, r2, Formats()); err == nil || !strings.Contains(err.Error(), "holds figures/photo.jpg, which bivar did not write there") {
+		t.Fatalf("write into a folder holding a user's file: %v", err)
 	}
 	for name, snap := range map[string]map[string]string{dir: before, dir2: before2} {
 		after := snapshot(t, name)
@@ -422,8 +415,6 @@ func TestStaleFiguresRemoved(t *testing.T) {
 	if err := WriteReport(dir, fixture.Report(fixture.Options{}), Formats()); err != nil {
 		t.Fatal(err)
 	}
-	own := filepath.Join(dir, "figures", "notes.txt")
-	os.WriteFile(own, []byte("mine"), 0o644)
 	r := fixture.Report(fixture.Options{})
 	r.Studies = r.Studies[1:] // the study gap-vs-force is gone
 	if err := WriteReport(dir, r, Formats()); err != nil {
@@ -435,7 +426,39 @@ func TestStaleFiguresRemoved(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(dir, "figures", "cure-vs-hold-scatter.svg")); err != nil {
 		t.Error("a current figure was removed")
 	}
-	if _, err := os.Stat(own); err != nil {
-		t.Error("a file that is not ours was removed from figures/")
+}
+
+// TestEarlierReportFolder: a report folder as bivar wrote it before
+// folders were published whole (no list of contents, a stale figure, a
+// temporary file of a writer that died) is replaced; one holding anything
+// else is not.
+func TestEarlierReportFolder(t *testing.T) {
+	for _, tc := range []struct {
+		name  string
+		files []string
+		err   string
+	}{
+		{"earlier", []string{"report.html", "report.md", "results.json", "figures/old-study-scatter.svg", "figures/.old-study-order.svg.123.tmp", ".results.json.99.tmp"}, ""},
+		{"user-file", []string{"report.html", "todo.txt"}, "holds todo.txt, which bivar did not write there"},
+		{"user-folder", []string{"report.html", "drafts/a.md"}, "holds drafts, which bivar did not write there"},
+	} {
+		dir := t.TempDir()
+		for _, f := range tc.files {
+			p := filepath.Join(dir, filepath.FromSlash(f))
+			os.MkdirAll(filepath.Dir(p), 0o755)
+			os.WriteFile(p, []byte("old"), 0o644)
+		}
+		err := WriteReport(dir, fixture.Report(fixture.Options{}), Formats())
+		switch {
+		case tc.err == "" && err != nil:
+			t.Errorf("%s: %v", tc.name, err)
+		case tc.err != "" && (err == nil || !strings.Contains(err.Error(), tc.err)):
+			t.Errorf("%s: error %v, want one containing %q", tc.name, err, tc.err)
+		case tc.err == "":
+			got := snapshot(t, dir)
+			if _, ok := got["figures/old-study-scatter.svg"]; ok || got["report.html"] == "old" {
+				t.Errorf("%s: the earlier report was not replaced whole: %d files", tc.name, len(got))
+			}
+		}
 	}
 }

@@ -2,13 +2,12 @@ package render
 
 import (
 	"bytes"
+	"context"
 	"fmt"
-	"os"
-	"path/filepath"
 	"strings"
 
 	"bivar/analysis/report"
-	"bivar/internal/atomicfile"
+	"bivar/internal/publish"
 )
 
 // File names WriteReport uses inside the report folder.
@@ -16,29 +15,25 @@ const (
 	HTMLFile     = "report.html"
 	MarkdownFile = "report.md"
 	JSONFile     = "results.json"
+
+	defaultFigureDir = "figures" // the figures beside report.md, unless WithFigureDir
 )
 
 // Formats lists the format names WriteReport accepts.
 func Formats() []string { return []string{"html", "markdown", "json"} }
 
-// WriteReport writes the report's files into dir: report.html for "html",
-// report.md and its figures for "markdown", results.json for "json".
-//
-// It is all or nothing: every file is rendered in memory first, then
-// written to a temporary name in the folder it belongs in, and only when
-// all are written and synced are they renamed into place. A failure at any
-// step removes the temporary files and leaves the previous report as it
-// was. (A crash during the final renames can leave a mix of old and new
-// files, each of them whole.)
-func WriteReport(dir string, r *report.Report, formats []string, opts ...Option) error {
+// ReportFiles renders the report's files in memory: report.html for
+// "html", report.md and its figures for "markdown", results.json for
+// "json". The caller may add files of its own to the set before
+// publishing it with publish.Target.Publish.
+func ReportFiles(r *report.Report, formats []string, opts ...Option) ([]File, error) {
 	if r == nil {
-		return fmt.Errorf("no report to write")
+		return nil, fmt.Errorf("no report to write")
 	}
 	if len(formats) == 0 {
-		return fmt.Errorf("no output format chosen: want one or more of %s", strings.Join(Formats(), ", "))
+		return nil, fmt.Errorf("no output format chosen: want one or more of %s", strings.Join(Formats(), ", "))
 	}
 	var files []File
-	figDir := ""
 	seen := map[string]bool{}
 	for _, f := range formats {
 		if seen[f] {
@@ -49,26 +44,24 @@ func WriteReport(dir string, r *report.Report, formats []string, opts ...Option)
 		case "html":
 			b, err := htmlBytes(r, opts)
 			if err != nil {
-				return err
+				return nil, err
 			}
 			files = append(files, File{Name: HTMLFile, Data: b})
 		case "markdown":
 			b, p, err := markdownBytes(r, opts)
 			if err != nil {
-				return err
+				return nil, err
 			}
 			files = append(files, File{Name: MarkdownFile, Data: b})
 			files = append(files, figureFiles(p)...)
-			cfg, _ := newConfig(opts) // already validated by markdownBytes
-			figDir = cfg.figureDir
 		case "json":
 			var b bytes.Buffer
 			if err := report.Write(&b, r); err != nil {
-				return err
+				return nil, err
 			}
 			files = append(files, File{Name: JSONFile, Data: b.Bytes()})
 		default:
-			return fmt.Errorf("unknown output format %q: want one or more of %s", f, strings.Join(Formats(), ", "))
+			return nil, fmt.Errorf("unknown output format %q: want one or more of %s", f, strings.Join(Formats(), ", "))
 		}
 	}
 	// Each study's flagged rows, as the analysis wrote them, beside the
@@ -79,38 +72,50 @@ func WriteReport(dir string, r *report.Report, formats []string, opts ...Option)
 			files = append(files, File{Name: st.Influence.File, Data: st.FlaggedCSV})
 		}
 	}
-	if err := atomicfile.Write(dir, files); err != nil {
-		return err
-	}
-	if figDir != "" {
-		return removeStaleFigures(filepath.Join(dir, filepath.FromSlash(figDir)), files)
-	}
-	return nil
+	return files, nil
 }
 
-// removeStaleFigures deletes figures a previous run wrote for studies this
-// run no longer has, so report.md's folder holds only what it links to.
-// Only files named like our figures (<study>-scatter.svg, -residuals.svg,
-// -order.svg) are touched.
-func removeStaleFigures(figDir string, files []File) error {
-	keep := map[string]bool{}
-	for _, f := range files {
-		keep[filepath.Base(filepath.FromSlash(f.Name))] = true
-	}
-	entries, err := os.ReadDir(figDir)
+// WriteReport writes ReportFiles into the folder dir as one set, replacing
+// the previous report in one atomic step (see internal/publish): a failure
+// at any point, or a process killed at any point, leaves the previous
+// report whole. It refuses a folder that holds files of its own (see
+// EarlierFile) and one another process is writing.
+func WriteReport(dir string, r *report.Report, formats []string, opts ...Option) error {
+	files, err := ReportFiles(r, formats, opts...)
 	if err != nil {
-		return nil // nothing to tidy
+		return err
 	}
-	for _, e := range entries {
-		n := e.Name()
-		if !e.Type().IsRegular() || keep[n] {
-			continue
-		}
-		if strings.HasSuffix(n, "-scatter.svg") || strings.HasSuffix(n, "-residuals.svg") || strings.HasSuffix(n, "-order.svg") {
-			if err := os.Remove(filepath.Join(figDir, n)); err != nil {
-				return fmt.Errorf("removing the old figure %s: %w", n, err)
-			}
-		}
+	t, err := publish.OpenDir(dir, publish.Options{Command: "bivar run", Legacy: EarlierFile})
+	if err != nil {
+		return err
 	}
-	return nil
+	defer t.Close()
+	return t.Publish(context.Background(), files)
+}
+
+// EarlierFile says whether rel (slash-separated, relative to the report
+// folder) is a name that bivar wrote into a report folder before folders
+// were published whole (and listed in publish.ContentsFile): the three
+// reports, the figures folder and its figures, and the temporary files of
+// that writer (.NAME.RANDOM.tmp). A folder holding only such names is
+// replaced as a report folder; any other name makes it a user's folder.
+// It is for publish.Options.Legacy.
+func EarlierFile(rel string, isDir bool) bool {
+	dir, name, sub := strings.Cut(rel, "/")
+	if !sub {
+		name = dir
+		dir = ""
+	}
+	tmp := strings.HasPrefix(name, ".") && strings.HasSuffix(name, ".tmp")
+	switch dir {
+	case "":
+		if isDir {
+			return name == defaultFigureDir
+		}
+		return name == HTMLFile || name == MarkdownFile || name == JSONFile || strings.HasSuffix(name, "-flagged.csv") || tmp
+	case defaultFigureDir:
+		return !isDir && !strings.Contains(name, "/") && (tmp || strings.HasSuffix(name, "-scatter.svg") ||
+			strings.HasSuffix(name, "-residuals.svg") || strings.HasSuffix(name, "-order.svg"))
+	}
+	return false
 }

@@ -2,6 +2,7 @@ package manifest
 
 import (
 	"errors"
+	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -211,6 +212,16 @@ func TestErrors(t *testing.T) {
 				{Line: 8, Col: 1, Key: "thresholds.drift_dw", Msg: `thresholds.drift_dw = 2.5 is outside [0, 2) (a Durbin–Watson statistic below 2, the value for independent residuals; 0 turns the rule off)`},
 				{Line: 9, Col: 1, Key: "thresholds.form_dw", Msg: `thresholds.form_dw = -0.1 is outside [0, 2) (a Durbin–Watson statistic below 2, the value for independent residuals; 0 turns the rule off)`},
 			}},
+		{"theme misspelt", "[output]\ntheme = \"papr\"\n" + head + study, // issue 10, item 7
+			[]Error{{Line: 2, Col: 1, Key: "output.theme", Msg: `output.theme = "papr" is not allowed; use one of "paper", "night", "contrast" (did you mean "paper"?)`}}},
+		{"output at the root", "[output]\ndir = \"/\"\n" + head + study, // issue 10, item 6
+			[]Error{{Line: 2, Col: 1, Key: "output.dir", Msg: `output.dir = "/" is the root of the file system: give the report a folder of its own, such as "report"`}}},
+		{"output is the data file", "[output]\ndir = \"cell4.csv\"\n" + head + study,
+			[]Error{{Line: 2, Col: 1, Key: "output.dir", Msg: `output.dir = "cell4.csv" is the data file of dataset "nov": give the report a folder of its own, such as "report"`}}},
+		{"output is another file", "[output]\ndir = \"README.md\"\n" + head + study,
+			[]Error{{Line: 2, Col: 1, Key: "output.dir", Msg: `output.dir = "README.md" is a file, not a folder: give the report a folder of its own, such as "report"`}}},
+		{"output holds the data", "[output]\ndir = \".\"\n" + head + study,
+			[]Error{{Line: 2, Col: 1, Key: "output.dir", Msg: `output.dir = "." holds the data file of dataset "nov" (cell4.csv), and each run replaces its output folder as a whole: give the report a folder of its own, such as "report"`}}},
 		{"threshold key misspelt", "[thresholds]\nform_wd = 1.2\n" + head + study,
 			[]Error{{Line: 2, Col: 1, Key: "thresholds.form_wd", Msg: `unknown key "thresholds.form_wd" — did you mean "thresholds.form_dw"?`}}},
 	}
@@ -256,5 +267,31 @@ func TestPaths(t *testing.T) {
 	}
 	if m.Datasets[0].File != abs || m.Datasets[1].File != filepath.Join("testdata", "cell4.csv") || m.Output.Dir != outAbs {
 		t.Errorf("files %q, %q, output %q; want %q, testdata/cell4.csv, %q", m.Datasets[0].File, m.Datasets[1].File, m.Output.Dir, abs, outAbs)
+	}
+}
+
+// TestOutputDirIsManifest: output.dir naming the manifest itself, or its
+// folder, is refused at the key's line and column.
+func TestOutputDirIsManifest(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "cell4.csv"), []byte("a,b\n1,2\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	data := "[[dataset]]\nid = \"nov\"\nfile = \"../cell4.csv\"\n" + study
+	for _, tc := range []struct{ out, want string }{
+		{"bivar.toml", `bivar.toml:2:3: output.dir = "bivar.toml" is the manifest: give the report a folder of its own, such as "report"`},
+		{".", `bivar.toml:2:3: output.dir = "." holds the manifest (bivar.toml), and each run replaces its output folder as a whole: give the report a folder of its own, such as "report"`},
+	} {
+		sub := filepath.Join(dir, "m")
+		os.MkdirAll(sub, 0o755)
+		path := filepath.Join(sub, "bivar.toml")
+		if err := os.WriteFile(path, []byte("[output]\n  dir = "+strconv.Quote(tc.out)+"\n"+data), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		_, err := Load(path)
+		if err == nil || strings.TrimPrefix(err.Error(), sub+string(filepath.Separator)) != tc.want {
+			t.Errorf("dir = %q: %v\nwant %s", tc.out, err, tc.want)
+		}
 	}
 }

@@ -14,6 +14,7 @@ import (
 
 	"bivar/analysis/internal/suggest"
 	"bivar/analysis/units"
+	"bivar/themes"
 )
 
 // locate fills the Line fields from the source index.
@@ -129,9 +130,16 @@ func (p *parser) validate(m *Manifest) {
 	if n := m.Output.NamedRows; n < 0 || n > MaxNamedRows {
 		p.add("", "output.named_rows", "output.named_rows = %d is outside 0 to %d: give how many flagged rows a study may name in the report (the rest are counted and listed in the CSV file beside it)", n, MaxNamedRows)
 	}
+	p.oneOf("", "output.theme", m.Output.Theme, themes.Names())
+	outDir := m.Output.Dir // as written, for messages
 	if !filepath.IsAbs(m.Output.Dir) {
 		m.Output.Dir = filepath.Join(m.Dir, m.Output.Dir)
 	}
+	defer func() { // after the datasets' files are resolved
+		if problem := m.OutputDirProblem(m.Output.Dir); problem != "" {
+			p.add("", "output.dir", "output.dir = %q %s", outDir, problem)
+		}
+	}()
 	p.thresholds(&m.Thresholds)
 
 	if len(m.Datasets) == 0 {
@@ -356,4 +364,55 @@ func (p *parser) thresholds(t *Thresholds) {
 	if t.ReversalMinGroup != nil && *t.ReversalMinGroup < 3 {
 		p.add("", "thresholds.reversal_min_group", "thresholds.reversal_min_group = %d is below 3, the fewest rows a fit needs", *t.ReversalMinGroup)
 	}
+}
+
+// OutputDirProblem says what is wrong with dir as the folder a run of m
+// writes its report into, as the end of a sentence whose subject is the
+// folder ("is the root of the file system: …"), or "" when nothing is.
+// A run replaces its output folder as a whole, so the folder may be
+// neither the file system's root, nor a file (the manifest, a data file
+// or another), nor a folder that holds the manifest or a data file.
+// Datasets' files must be resolved (as after Load).
+func (m *Manifest) OutputDirProblem(dir string) string {
+	const own = `give the report a folder of its own, such as "report"`
+	abs, err := filepath.Abs(dir)
+	if err != nil {
+		return ""
+	}
+	if filepath.Dir(abs) == abs {
+		return "is the root of the file system: " + own
+	}
+	type input struct{ what, path string }
+	inputs := []input{{"the manifest", filepath.Join(m.Dir, filepath.Base(m.Path))}}
+	for _, d := range m.Datasets {
+		if d.File != "" {
+			inputs = append(inputs, input{fmt.Sprintf("the data file of dataset %q", d.ID), d.File})
+		}
+	}
+	st, err := os.Stat(abs)
+	if err == nil && !st.IsDir() {
+		for _, in := range inputs {
+			if is, err := os.Stat(in.path); err == nil && os.SameFile(st, is) {
+				return "is " + in.what + ": " + own
+			}
+		}
+		return "is a file, not a folder: " + own
+	}
+	real := abs
+	if r, err := filepath.EvalSymlinks(abs); err == nil {
+		real = r
+	}
+	for _, in := range inputs {
+		p, err := filepath.Abs(in.path)
+		if _, serr := os.Stat(p); err != nil || serr != nil {
+			continue // only inputs that are there can be lost
+		}
+		if r, err := filepath.EvalSymlinks(p); err == nil {
+			p = r
+		}
+		if rel, err := filepath.Rel(real, p); err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+			return fmt.Sprintf("holds %s (%s), and each run replaces its output folder as a whole: %s", in.what, rel, own)
+		}
+	}
+	return ""
 }

@@ -14,11 +14,11 @@ import (
 	"path/filepath"
 
 	"bivar/analysis/report"
-	"bivar/internal/atomicfile"
+	"bivar/internal/publish"
 	"bivar/render/gate"
 )
 
-func runCheck(_ context.Context, args []string, stdout, stderr io.Writer) int {
+func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := newFlagSet("check")
 	junit := fs.String("junit", "", "write JUnit XML to `FILE` (one test case per expectation)")
 	summary := fs.String("summary", "", "write a Markdown summary for a CI job page to `FILE`")
@@ -35,37 +35,119 @@ func runCheck(_ context.Context, args []string, stdout, stderr io.Writer) int {
 			return exitUsage
 		}
 	}
+	if *junit != "" && *summary != "" && samePath(*junit, *summary) {
+		fmt.Fprintf(stderr, "bivar check: --junit and --summary both name %s: give each its own file\n", *junit)
+		return exitUsage
+	}
+	for _, f := range []struct{ flag, path string }{{"--junit", *junit}, {"--summary", *summary}} {
+		if f.path != "" && samePath(f.path, fs.Arg(0)) {
+			fmt.Fprintf(stderr, "bivar check: %s %s is the manifest: give the CI file a name of its own\n", f.flag, f.path)
+			return exitUsage
+		}
+	}
+	// The CI files are taken before the studies run, so a second check
+	// writing them is refused at once.
+	var files []ciFile
+	for _, f := range []struct{ flag, path string }{{"--junit", *junit}, {"--summary", *summary}} {
+		if f.path == "" {
+			files = append(files, ciFile{})
+			continue
+		}
+		t, err := publish.OpenFile(f.path, publish.Options{Command: "bivar check"})
+		if err != nil {
+			return outputError(stderr, "bivar check", f.flag, f.flag+" FILE", err)
+		}
+		defer t.Close()
+		files = append(files, ciFile{flag: f.flag, target: t})
+	}
+	jf, sf := files[0], files[1]
+	kept := ""
+	if jf.target != nil || sf.target != nil {
+		kept = "the earlier --junit and --summary files are as they were"
+	}
 	// compute tells the user on stderr why it failed; keep a copy for the
 	// CI files, so a failed run replaces them instead of leaving stale ones.
 	var msg bytes.Buffer
-	rep, _, code := compute(fs.Arg(0), io.MultiWriter(stderr, &msg))
+	rep, m, code := compute(ctx, fs.Arg(0), io.MultiWriter(stderr, &msg))
+	if sig := stopped(ctx); sig != nil {
+		return interrupted(stderr, "bivar check", sig, kept)
+	}
+	for _, f := range files {
+		for i := 0; m != nil && f.target != nil && i < len(m.Datasets); i++ {
+			if samePath(f.target.Path(), m.Datasets[i].File) {
+				fmt.Fprintf(stderr, "bivar check: %s %s is the data file of dataset %q: give the CI file a name of its own\n", f.flag, f.target.Path(), m.Datasets[i].ID)
+				return exitUsage
+			}
+		}
+	}
+	// Both files are written beside their places, then renamed one right
+	// after the other (publish.WriteFiles): a signal before the renames
+	// keeps both old ones, and once they start both go ahead.
+	var ci []ciFile
 	if rep == nil {
-		if *junit != "" {
-			if err := writeWith(*junit, func(w io.Writer) error { return gate.JUnitFailedRun(w, fs.Arg(0), msg.String()) }); err != nil {
-				fmt.Fprintf(stderr, "bivar check: --junit: %v\n", err)
-			}
+		ci = []ciFile{
+			{jf.flag, jf.target, func(w io.Writer) error { return gate.JUnitFailedRun(w, fs.Arg(0), msg.String()) }},
+			{sf.flag, sf.target, func(w io.Writer) error { return gate.SummaryFailedRun(w, fs.Arg(0), msg.String()) }},
 		}
-		if *summary != "" {
-			if err := writeWith(*summary, func(w io.Writer) error { return gate.SummaryFailedRun(w, fs.Arg(0), msg.String()) }); err != nil {
-				fmt.Fprintf(stderr, "bivar check: --summary: %v\n", err)
-			}
+	} else {
+		ci = []ciFile{
+			{jf.flag, jf.target, func(w io.Writer) error { return gate.JUnit(w, rep) }},
+			{sf.flag, sf.target, func(w io.Writer) error { return gate.Summary(w, rep) }},
 		}
+	}
+	if err := writeCI(ctx, ci); err != nil {
+		if sig := stopped(ctx); sig != nil {
+			return interrupted(stderr, "bivar check", sig, kept)
+		}
+		fmt.Fprintf(stderr, "bivar check: %v\n", err)
+		return exitFailed
+	}
+	if rep == nil {
 		return code
-	}
-	if *junit != "" {
-		if err := writeWith(*junit, func(w io.Writer) error { return gate.JUnit(w, rep) }); err != nil {
-			fmt.Fprintf(stderr, "bivar check: --junit: %v\n", err)
-			return exitFailed
-		}
-	}
-	if *summary != "" {
-		if err := writeWith(*summary, func(w io.Writer) error { return gate.Summary(w, rep) }); err != nil {
-			fmt.Fprintf(stderr, "bivar check: --summary: %v\n", err)
-			return exitFailed
-		}
 	}
 	checkSummary(stderr, rep)
 	return status(rep, stderr)
+}
+
+// ciFile is one of check's output files, taken for writing, and what to
+// write in it; a nil target (the flag was not given) writes nothing.
+type ciFile struct {
+	flag   string
+	target *publish.Target
+	render func(io.Writer) error
+}
+
+// writeCI renders the files in memory and replaces the previous ones
+// (publish.WriteFiles), so CI never reads a half-written file.
+func writeCI(ctx context.Context, files []ciFile) error {
+	var targets []*publish.Target
+	var data [][]byte
+	for _, f := range files {
+		if f.target == nil {
+			continue
+		}
+		var buf bytes.Buffer
+		if err := f.render(&buf); err != nil {
+			return fmt.Errorf("%s: %w", f.flag, err)
+		}
+		targets = append(targets, f.target)
+		data = append(data, buf.Bytes())
+	}
+	if len(targets) == 0 {
+		return nil
+	}
+	return publish.WriteFiles(ctx, targets, data)
+}
+
+// samePath says whether a and b name one file, existing or not.
+func samePath(a, b string) bool {
+	if sa, err := os.Stat(a); err == nil {
+		sb, err := os.Stat(b)
+		return err == nil && os.SameFile(sa, sb)
+	}
+	aa, err1 := filepath.Abs(a)
+	ab, err2 := filepath.Abs(b)
+	return err1 == nil && err2 == nil && aa == ab
 }
 
 // nArgs says how many arguments were given, in words for a message.
@@ -123,17 +205,19 @@ func checkSummary(stderr io.Writer, rep *report.Report) {
 	}
 }
 
-// writeWith writes a file atomically: the content goes to a temporary file
-// in the same folder, which is renamed over path only when complete, so a
-// failure never leaves a half-written file for CI to read. Missing folders
+// writeWith writes one file in one step (for bivar init): the content is
+// rendered in memory, written to a temporary file beside path and renamed
+// over it, so a failure never leaves a half-written file. Missing folders
 // on the way to path are created.
 func writeWith(path string, write func(io.Writer) error) error {
 	var buf bytes.Buffer
 	if err := write(&buf); err != nil {
 		return err
 	}
-	if info, err := os.Stat(path); err == nil && info.IsDir() {
-		return fmt.Errorf("%s is a folder: give a file name", path)
+	t, err := publish.OpenFile(path, publish.Options{Command: "bivar init"})
+	if err != nil {
+		return err
 	}
-	return atomicfile.Write(filepath.Dir(path), []atomicfile.File{{Name: filepath.Base(path), Data: buf.Bytes()}})
+	defer t.Close()
+	return t.WriteFile(context.Background(), buf.Bytes())
 }

@@ -18,6 +18,7 @@ import (
 
 	"bivar/analysis/compare"
 	"bivar/analysis/report"
+	"bivar/internal/publish"
 	"bivar/render/changes"
 	"bivar/themes"
 )
@@ -25,7 +26,7 @@ import (
 // failOnChoices are the values of diff --fail-on.
 var failOnChoices = []string{"verdict", "significant"}
 
-func runDiff(_ context.Context, args []string, stdout, stderr io.Writer) int {
+func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	flags := newFlagSet("diff")
 	out := flags.String("o", "diff", "output `DIR` for diff.html, diff.md and diff.json")
 	failOn := flags.String("fail-on", "", "comma-separated `LIST` of changes that give exit status 3: verdict, significant")
@@ -50,6 +51,13 @@ func runDiff(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar diff: -o %s is a file: give a folder for diff.html, diff.md and diff.json (created if needed)\n", *out)
 		return exitUsage
 	}
+	// The folder is taken first, so a second diff into it is refused at once.
+	target, err := publish.OpenDir(*out, publish.Options{Command: "bivar diff", Legacy: changes.EarlierFile})
+	if err != nil {
+		return outputError(stderr, "bivar diff", "-o", "-o DIR", err)
+	}
+	defer target.Close()
+	kept := fmt.Sprintf("any earlier diff in %s is as it was", *out)
 	oldRep, oldFile, err := readResults(flags.Arg(0))
 	if err != nil {
 		fmt.Fprintf(stderr, "bivar diff: OLD: %v\n", err)
@@ -62,8 +70,15 @@ func runDiff(_ context.Context, args []string, stdout, stderr io.Writer) int {
 	}
 	res := compare.Diff(oldRep, newRep, compare.Options{Tool: report.Tool{Name: "bivar", Version: version()}})
 	res.Old.File, res.New.File = filepath.ToSlash(oldFile), filepath.ToSlash(newFile)
-	if err := changes.Write(*out, res, changes.WithTheme(*theme)); err != nil {
-		fmt.Fprintf(stderr, "bivar diff: writing to %s: %v\n", *out, err)
+	files, err := changes.DiffFiles(res, changes.WithTheme(*theme))
+	if err == nil {
+		err = target.Publish(ctx, files)
+	}
+	if err != nil {
+		if sig := stopped(ctx); sig != nil {
+			return interrupted(stderr, "bivar diff", sig, kept)
+		}
+		fmt.Fprintf(stderr, "bivar diff: writing to %s: %v; %s\n", *out, err, kept)
 		return exitFailed
 	}
 	s := res.Summary

@@ -43,11 +43,21 @@ func commands() []command {
 			Long: `Reads MANIFEST (TOML), loads its datasets, runs every study and writes
 the formats chosen in [output] (report.html, report.md with its figures, and
 results.json) to the output folder: -o DIR, or [output] dir, relative to the
-manifest's folder. Files are written under temporary names and renamed at
-the end, so a failed run leaves the previous report as it was.
+manifest's folder.
+
+The new report is written whole into a fresh folder beside the output
+folder and swapped in with one atomic rename (on Linux), so the folder holds
+the previous report or the new one, complete, whatever stops the run; a
+run that fails, is stopped, or in which no study ran leaves the previous
+report as it was. A run replaces the whole folder, so the folder must be
+bivar's own: one holding files bivar did not write is refused, and so is
+one another bivar is writing (the message names its process id). The
+next run removes what a run that was killed left behind.
 
 Exit status: 0 when every study ran and every expectation held, 1 on bad
-input or a failed study, 2 on a usage error, 3 when an expectation failed.`,
+input, a failed study or an output that cannot be written, 2 on a usage
+error, 3 when an expectation failed, 130 after SIGINT (Ctrl-C) and 143
+after SIGTERM.`,
 			Run: runRun,
 		},
 		{
@@ -56,11 +66,14 @@ input or a failed study, 2 on a usage error, 3 when an expectation failed.`,
 			Short: "compute every study and gate on its expectations (for CI)",
 			Long: `Computes everything 'bivar run' computes but writes only what a CI job
 needs: a short summary on stderr, and optionally JUnit XML (--junit, one
-test case per expectation) and a Markdown summary (--summary).
+test case per expectation) and a Markdown summary (--summary). Both are
+written beside their places first and then each renamed over the old
+file, one right after the other, so CI never reads a half-written file; a
+check that fails or is stopped before the renames leaves both old files.
 
 Exit status: 0 when every study ran and every expectation held, 1 on bad
 input or when a study did not run, 2 on a usage error, 3 when an
-expectation failed.`,
+expectation failed, 130 after SIGINT (Ctrl-C) and 143 after SIGTERM.`,
 			Run: runCheck,
 		},
 		{
@@ -70,10 +83,13 @@ expectation failed.`,
 			Long: `OLD and NEW are results.json files, or folders holding one. For every
 study in both, tests the change in r (Fisher z) and in slope (t test for
 equal slopes), lists changed verdicts and data hashes, and studies added or
-removed. Writes diff.html, diff.md and diff.json to -o DIR (default: diff).
+removed. Writes diff.html, diff.md and diff.json to -o DIR (default: diff),
+a folder of its own replaced whole in one step, as 'bivar run' replaces
+its report.
 
 --fail-on chooses which changes give exit status 3: verdict, significant
-(comma-separated; default none).`,
+(comma-separated; default none). Exit status: 0, or 3 for a gated change;
+1 on bad input, 2 on a usage error, 130 after SIGINT and 143 after SIGTERM.`,
 			Run: runDiff,
 		},
 		{
@@ -106,7 +122,10 @@ at least two numeric columns that vary is refused: there is nothing to pair.`,
 }
 
 func main() {
-	os.Exit(run(context.Background(), os.Args[1:], os.Stdout, os.Stderr))
+	ctx, stop := withSignals(context.Background())
+	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr)
+	stop()
+	os.Exit(code)
 }
 
 // run dispatches to a subcommand and returns the exit status.

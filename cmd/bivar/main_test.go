@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"flag"
+	"fmt"
 	"io"
 	"os"
 	"path/filepath"
@@ -140,5 +141,28 @@ func TestRunKeepsEarlierReport(t *testing.T) {
 	after, err := os.ReadFile(results)
 	if err != nil || !bytes.Equal(before, after) {
 		t.Errorf("the earlier results.json was changed or removed (err %v)", err)
+	}
+}
+
+// TestExitStatusDocumented keeps the README and the commands' help true
+// to the exit statuses a signal gives.
+func TestExitStatusDocumented(t *testing.T) {
+	readme, err := os.ReadFile(filepath.Join("..", "..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"130 stopped by SIGINT", "143 stopped by SIGTERM"} {
+		if !strings.Contains(string(readme), want) {
+			t.Errorf("README.md lacks %q", want)
+		}
+	}
+	for _, name := range []string{"run", "check", "diff"} {
+		_, out, _ := call(t, "help", name)
+		out = strings.Join(strings.Fields(out), " ")
+		for _, want := range []string{fmt.Sprintf("%d after SIGINT", exitInterrupted), fmt.Sprintf("%d after SIGTERM", exitTerminated)} {
+			if !strings.Contains(out, want) {
+				t.Errorf("bivar help %s lacks %q", name, want)
+			}
+		}
 	}
 }

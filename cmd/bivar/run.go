@@ -2,18 +2,18 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
-	"path/filepath"
 	"strconv"
 	"time"
 
 	"bivar/analysis"
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
+	"bivar/internal/publish"
 	"bivar/render"
-	"bivar/themes"
 )
 
 func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
@@ -26,29 +26,71 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar run: want one manifest, got %d arguments\nusage: %s\n", fs.NArg(), lookup("run").Usage)
 		return exitUsage
 	}
-	rep, m, code := compute(fs.Arg(0), stderr)
-	if rep == nil {
+	m, code := load(fs.Arg(0), stderr)
+	if m == nil {
 		return code
 	}
-	dir := *out
-	if dir == "" {
-		dir = m.Output.Dir
-		if !filepath.IsAbs(dir) {
-			dir = filepath.Join(m.Dir, dir)
+	dir, from := m.Output.Dir, "[output] dir of "+fs.Arg(0)
+	if *out != "" {
+		dir, from = *out, "-o"
+		if problem := m.OutputDirProblem(dir); problem != "" {
+			fmt.Fprintf(stderr, "bivar run: -o %s %s\n", dir, problem)
+			return exitUsage
 		}
+	}
+	// The folder is taken before the studies run, so a second run into it
+	// is refused at once rather than after its work.
+	target, err := publish.OpenDir(dir, publish.Options{Command: "bivar run", Legacy: render.EarlierFile})
+	if err != nil {
+		return outputError(stderr, "bivar", from, "-o DIR", err)
+	}
+	defer target.Close()
+	kept := fmt.Sprintf("any earlier report in %s is as it was", dir)
+	rep, code := analyze(ctx, m, stderr)
+	if rep == nil {
+		if sig := stopped(ctx); sig != nil {
+			return interrupted(stderr, "bivar", sig, kept)
+		}
+		return code
 	}
 	code = status(rep, stderr)
 	if ran := studiesRan(rep); ran == 0 {
 		// A report of nothing but errors would replace a good earlier one.
-		fmt.Fprintf(stderr, "bivar: no study ran; nothing written, and any earlier report in %s is left as it was\n", dir)
+		fmt.Fprintf(stderr, "bivar: no study ran; nothing written, and %s\n", kept)
 		return exitFailed
 	}
-	if err := render.WriteReport(dir, rep, m.Output.Formats, render.WithTheme(m.Output.Theme)); err != nil {
-		fmt.Fprintf(stderr, "bivar: writing the report to %s (from [output] dir or -o): %v\n", dir, err)
+	files, err := render.ReportFiles(rep, m.Output.Formats, render.WithTheme(m.Output.Theme))
+	if err != nil {
+		fmt.Fprintf(stderr, "bivar: writing the report: %v; %s\n", err, kept)
+		return exitFailed
+	}
+	if err := target.Publish(ctx, files); err != nil {
+		if sig := stopped(ctx); sig != nil {
+			return interrupted(stderr, "bivar", sig, kept)
+		}
+		fmt.Fprintf(stderr, "bivar: writing the report to %s (from %s): %v; %s\n", dir, from, err, kept)
 		return exitFailed
 	}
 	fmt.Fprintf(stderr, "bivar: %s; report written to %s\n", plural(len(rep.Studies), "study", "studies"), dir)
 	return code
+}
+
+// outputError explains why an output folder or file could not be taken:
+// another process writes it, it holds what is not bivar's, or it cannot
+// be created. from says where its name came from (a flag, the manifest),
+// choose how to give another (such as "-o DIR").
+func outputError(stderr io.Writer, who, from, choose string, err error) int {
+	var busy *publish.BusyError
+	var foreign *publish.ForeignError
+	switch {
+	case errors.As(err, &busy):
+		fmt.Fprintf(stderr, "%s: %v: wait for it to finish, or choose another with %s\n", who, err, choose)
+	case errors.As(err, &foreign):
+		fmt.Fprintf(stderr, "%s: %v (the folder comes from %s)\n", who, err, from)
+	default:
+		fmt.Fprintf(stderr, "%s: %v (from %s)\n", who, err, from)
+	}
+	return exitFailed
 }
 
 // studiesRan counts the studies that ran (have no error).
@@ -63,32 +105,62 @@ func studiesRan(rep *report.Report) int {
 }
 
 // compute loads the manifest and runs every study. On failure it has
-// already told the user why and returns a nil report with the exit status.
-func compute(path string, stderr io.Writer) (*report.Report, *manifest.Manifest, int) {
+// already told the user why and returns a nil report with the exit status
+// (for a stop by a signal: nil and exitFailed, and stopped(ctx) says which).
+func compute(ctx context.Context, path string, stderr io.Writer) (*report.Report, *manifest.Manifest, int) {
+	m, code := load(path, stderr)
+	if m == nil {
+		return nil, nil, code
+	}
+	rep, code := analyze(ctx, m, stderr)
+	return rep, m, code
+}
+
+// load reads and validates the manifest, telling the user on stderr what
+// is wrong if anything is.
+func load(path string, stderr io.Writer) (*manifest.Manifest, int) {
 	if err := manifestArg(path); err != nil {
 		fmt.Fprintf(stderr, "bivar: %v\n", err)
-		return nil, nil, exitFailed
+		return nil, exitFailed
 	}
 	m, err := manifest.Load(path)
 	if err != nil {
 		fmt.Fprintf(stderr, "bivar: %v\n", err)
-		return nil, nil, exitFailed
+		return nil, exitFailed
 	}
-	if _, err := themes.CSS(m.Output.Theme); err != nil {
-		fmt.Fprintf(stderr, "bivar: %s: [output] theme: %v\n", path, err)
-		return nil, nil, exitFailed
-	}
+	return m, exitOK
+}
+
+// analyze runs every study of m. A signal (ctx cancelled) ends the wait:
+// the studies write nothing, so nothing is left to undo.
+func analyze(ctx context.Context, m *manifest.Manifest, stderr io.Writer) (*report.Report, int) {
 	generated, err := sourceDateEpoch()
 	if err != nil {
 		fmt.Fprintf(stderr, "bivar: %v\n", err)
-		return nil, nil, exitFailed
+		return nil, exitFailed
 	}
-	rep, err := analysis.Run(m, analysis.Options{Version: version(), Generated: generated})
-	if err != nil {
-		fmt.Fprintf(stderr, "bivar: %v\n", err)
-		return nil, nil, exitFailed
+	if ctx.Err() != nil {
+		return nil, exitFailed
 	}
-	return rep, m, exitOK
+	type result struct {
+		rep *report.Report
+		err error
+	}
+	done := make(chan result, 1)
+	go func() {
+		rep, err := analysis.Run(m, analysis.Options{Version: version(), Generated: generated})
+		done <- result{rep, err}
+	}()
+	select {
+	case <-ctx.Done():
+		return nil, exitFailed
+	case r := <-done:
+		if r.err != nil {
+			fmt.Fprintf(stderr, "bivar: %v\n", r.err)
+			return nil, exitFailed
+		}
+		return r.rep, exitOK
+	}
 }
 
 // status reports failed studies and expectations on stderr and returns

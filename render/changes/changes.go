@@ -8,6 +8,7 @@ package changes
 
 import (
 	"bytes"
+	"context"
 	"embed"
 	"fmt"
 	"html/template"
@@ -19,7 +20,7 @@ import (
 
 	"bivar/analysis/compare"
 	"bivar/analysis/report"
-	"bivar/internal/atomicfile"
+	"bivar/internal/publish"
 	"bivar/render/internal/mdtext"
 	"bivar/themes"
 )
@@ -68,17 +69,15 @@ func newConfig(opts []Option) config {
 // Files maps each format to the file name Write gives it.
 var Files = map[string]string{"html": "diff.html", "markdown": "diff.md", "json": "diff.json"}
 
-// Write writes the chosen formats of res into dir (created if needed).
-// Each file is first written under a temporary name in dir and all are
-// renamed into place only when every one was written, so a failure leaves
-// the previous files as they were.
-func Write(dir string, res *compare.Result, opts ...Option) error {
+// DiffFiles renders the chosen formats of res in memory, named as in
+// Files, for publish.Target.Publish.
+func DiffFiles(res *compare.Result, opts ...Option) ([]publish.File, error) {
 	c := newConfig(opts)
-	var files []atomicfile.File
+	var files []publish.File
 	for _, f := range c.formats {
 		name, ok := Files[f]
 		if !ok {
-			return fmt.Errorf("unknown format %q: want html, markdown or json", f)
+			return nil, fmt.Errorf("unknown format %q: want html, markdown or json", f)
 		}
 		var buf bytes.Buffer
 		var err error
@@ -91,11 +90,43 @@ func Write(dir string, res *compare.Result, opts ...Option) error {
 			err = compare.Write(&buf, res)
 		}
 		if err != nil {
-			return err
+			return nil, err
 		}
-		files = append(files, atomicfile.File{Name: name, Data: buf.Bytes()})
+		files = append(files, publish.File{Name: name, Data: buf.Bytes()})
 	}
-	return atomicfile.Write(dir, files)
+	return files, nil
+}
+
+// Write writes DiffFiles into the folder dir as one set, replacing the
+// previous diff in one atomic step (see internal/publish): a failure, or
+// a process killed at any point, leaves the previous files whole.
+func Write(dir string, res *compare.Result, opts ...Option) error {
+	files, err := DiffFiles(res, opts...)
+	if err != nil {
+		return err
+	}
+	t, err := publish.OpenDir(dir, publish.Options{Command: "bivar diff", Legacy: EarlierFile})
+	if err != nil {
+		return err
+	}
+	defer t.Close()
+	return t.Publish(context.Background(), files)
+}
+
+// EarlierFile says whether rel, relative to a diff folder, is a name
+// bivar wrote there before folders were published whole: the three diff
+// files and the temporary files of that writer (.NAME.RANDOM.tmp). It is
+// for publish.Options.Legacy.
+func EarlierFile(rel string, isDir bool) bool {
+	if isDir || strings.Contains(rel, "/") {
+		return false
+	}
+	for _, name := range Files {
+		if rel == name {
+			return true
+		}
+	}
+	return strings.HasPrefix(rel, ".") && strings.HasSuffix(rel, ".tmp")
 }
 
 // HTML writes diff.html.

@@ -145,8 +145,8 @@ func TestWrite(t *testing.T) {
 	for _, e := range entries {
 		names = append(names, e.Name())
 	}
-	if strings.Join(names, " ") != "diff.html diff.json diff.md" {
-		t.Errorf("files %v, want diff.html diff.json diff.md and no temporaries", names)
+	if strings.Join(names, " ") != ".bivar-contents diff.html diff.json diff.md" {
+		t.Errorf("files %v, want the list of contents, diff.html, diff.json, diff.md and no temporaries", names)
 	}
 	b, _ := os.ReadFile(filepath.Join(dir, "diff.json"))
 	if _, err := compare.Read(bytes.NewReader(b)); err != nil {
@@ -162,7 +162,24 @@ func TestWrite(t *testing.T) {
 		t.Error("a failed Write changed diff.md")
 	}
 	entries, _ = os.ReadDir(dir)
-	if len(entries) != 3 {
-		t.Errorf("a failed Write left %d files, want the 3 from before", len(entries))
+	if len(entries) != 4 {
+		t.Errorf("a failed Write left %d files, want the 4 from before", len(entries))
+	}
+	if l, _ := os.ReadDir(filepath.Dir(dir)); len(l) != 1 {
+		t.Errorf("beside the folder: %d entries, want only the folder", len(l))
+	}
+}
+
+func TestEarlierFile(t *testing.T) {
+	for rel, want := range map[string]bool{
+		"diff.html": true, "diff.md": true, "diff.json": true, ".diff.md.123456.tmp": true,
+		"report.html": false, "notes.txt": false, "sub/diff.html": false,
+	} {
+		if got := EarlierFile(rel, false); got != want {
+			t.Errorf("EarlierFile(%q) = %v, want %v", rel, got, want)
+		}
+	}
+	if EarlierFile("figures", true) {
+		t.Error("EarlierFile(figures/) = true, want false")
 	}
 }

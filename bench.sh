@@ -13,7 +13,7 @@ cd "$(dirname "$0")"
 pattern=${1:-.}
 count=${COUNT:-5}
 go test -run '^$' -bench "$pattern" -benchmem -count "$count" \
-	./analysis/stats/ ./analysis/dataset/ ./analysis/ | tee bench.out >/dev/null
+	./analysis/stats/ ./analysis/dataset/ ./analysis/ ./internal/publish/ | tee bench.out >/dev/null
 awk '
 /^Benchmark/ {
 	name = $1; ns[name] = ns[name] " " $3

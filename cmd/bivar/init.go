@@ -217,7 +217,8 @@ const initRules = `# How init chose (from names and values only; check it agains
 #   a time column is named year, quarter, month, week, day, date, period (or
 #     time alone), or holds whole numbers from 1000 to 2200 rising by one;
 #   time goes on x only, two time columns are never paired (year with quarter),
-#     nor two settings; a setting goes on x; otherwise the earlier column is x;
+#     nor two settings; a setting goes on x, else a column with few values
+#     (unevenly spaced) rather than a measurement, else the earlier column;
 #   a study is left active only when exactly one pair is a setting with a
 #     measurement; otherwise all are commented out for you to choose.
 `
@@ -245,8 +246,8 @@ func (p *csvProfile) pairs() []candidate {
 				fallthrough
 			case x.role == roleSetting && y.role == roleMeasure:
 				groups[pairSettingResponse] = append(groups[pairSettingResponse], candidate{x, y, pairSettingResponse})
-			case y.role == roleSetting:
-				x, y = y, x
+			case y.role == roleSetting, y.role == roleDiscrete && x.role == roleMeasure:
+				x, y = y, x // the column with fewer values is likelier set than measured
 				fallthrough
 			default:
 				groups[pairOther] = append(groups[pairOther], candidate{x, y, pairOther})
@@ -734,7 +735,8 @@ func initManifest(prof *csvProfile, rel string) string {
 
 	w("\n")
 	w(initRules, initMaxSettingLevels)
-	w("\n# Keys: (of a study; write them inside its braces as key = value, comma-separated)\n")
+	w("\n# Keys: (of a study; write them inside its braces as key = value, comma-separated;\n")
+	w("# a study written as a [[study]] block instead needs all of them out of the list)\n")
 	w("#   id, dataset, x, y   required; the id names the study in reports and in 'bivar diff'\n")
 	w("#   title               a heading for people\n")
 	w("#   group               a text column: per-group fits and a check for a reversal across groups\n")
@@ -743,7 +745,7 @@ func initManifest(prof *csvProfile, rel string) string {
 	w("#   also_in             other units for x and y: the unit-invariance table, e.g. { x = \"[degF]\" }\n")
 	w("#   predict_at          x values to predict y at, with confidence and prediction intervals\n")
 	w("#   notes               Markdown shown with the study\n")
-	w("#   expect              CI gates checked by 'bivar check', as [study.expect] or expect = { ... }:\n")
+	w("#   expect              CI gates checked by 'bivar check', e.g. expect = { min_abs_r = 0.5 }:\n")
 	w("#                       direction (%s), form (%s),\n", strings.Join(manifest.Directions(), "|"), strings.Join(manifest.Forms(), "|"))
 	w("#                       min_abs_r, r_within = [lo, hi], slope_within = [lo, hi] (recorded units),\n")
 	w("#                       max_p (adjusted), min_n, not_outlier_driven = true\n")
@@ -1011,8 +1013,15 @@ func noPairMessage(p *csvProfile) string {
 		}
 		parts = append(parts, fmt.Sprintf("%s (%s)", display(c.name), why))
 	}
-	return fmt.Sprintf("%s: no pair of columns to relate: a study needs two numeric columns that vary (never two time columns, nor two settings), and the columns are %s; add a numeric column, or check that numbers are written with one decimal mark throughout",
+	msg := fmt.Sprintf("%s: no pair of columns to relate: a study needs two numeric columns that vary (never two time columns, nor two settings), and the columns are %s; add a numeric column, or check that numbers are written with one decimal mark throughout",
 		p.file, strings.Join(parts, ", "))
+	for _, c := range p.cols {
+		if c.dates {
+			msg += fmt.Sprintf("; column %s holds dates, which are text to bivar: to study a measurement against time, add a numeric time column beside it (a decimal year such as 1958.24, or a day count)", display(c.name))
+			break
+		}
+	}
+	return msg
 }
 
 func quoteJoin(ss []string) string {

@@ -527,6 +527,48 @@ func TestInitRoles(t *testing.T) {
 	}
 }
 
+// TestInitStackLoss: Brownlee's stack loss data (as statsmodels 0.13.5
+// publishes them; testdata/README.md). The three operating settings were
+// not set on evenly spaced levels, so no pair is clearly a setting with a
+// response and none is left active (before, the first active study paired
+// two settings); the response, stack loss, is on y against the two columns
+// with few values (air flow, water temperature).
+func TestInitStackLoss(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join("testdata", "stackloss.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, text := initManifestFor(t, string(data))
+	var got []string
+	for _, l := range studyLines(text) {
+		got = append(got, strings.TrimRight(strings.Split(l, " # ")[0], " "))
+	}
+	want := []string{
+		`# { id = "stackloss-vs-airflow", dataset = "data", x = "AIRFLOW", y = "STACKLOSS" },`,
+		`# { id = "stackloss-vs-watertemp", dataset = "data", x = "WATERTEMP", y = "STACKLOSS" },`,
+		`# { id = "acidconc-vs-stackloss", dataset = "data", x = "STACKLOSS", y = "ACIDCONC" },`,
+		`# { id = "watertemp-vs-airflow", dataset = "data", x = "AIRFLOW", y = "WATERTEMP" },`,
+		`# { id = "acidconc-vs-airflow", dataset = "data", x = "AIRFLOW", y = "ACIDCONC" },`,
+		`# { id = "acidconc-vs-watertemp", dataset = "data", x = "WATERTEMP", y = "ACIDCONC" },`,
+	}
+	if !reflect.DeepEqual(got, want) {
+		t.Errorf("candidate lines\ngot  %q\nwant %q", got, want)
+	}
+}
+
+// TestInitDatesOnly: a date column and one measurement (the shape of the
+// weekly CO2 series statsmodels publishes: a date index and co2; these
+// numbers are invented) give no pair, and the message says how to get one.
+func TestInitDatesOnly(t *testing.T) {
+	dir := t.TempDir()
+	p := filepath.Join(dir, "co2.csv")
+	writeFile(t, p, "date,co2\n1958-03-29,316.1\n1958-04-05,317.3\n1958-04-12,317.6\n1958-04-19,317.5\n")
+	code, _, stderr := call(t, "init", "-o", filepath.Join(dir, "m.toml"), p)
+	if want := "the columns are date (dates), co2 (numeric); add a numeric column, or check that numbers are written with one decimal mark throughout; column date holds dates, which are text to bivar: to study a measurement against time, add a numeric time column beside it (a decimal year such as 1958.24, or a day count); no manifest written"; code != exitFailed || !strings.Contains(stderr, want) {
+		t.Errorf("exit %d, stderr\n%s\nwant 1 and %q", code, stderr, want)
+	}
+}
+
 // TestInitDates: a text column of calendar dates is recognised, not taken
 // for a group, and the file is not refused (invented data).
 func TestInitDates(t *testing.T) {

@@ -849,7 +849,11 @@ func aliasHint(codes ...string) string {
 	for _, c := range codes {
 		if to, ok := aliases[c]; ok {
 			if a, ok := allAtoms()[c]; ok {
-				return fmt.Sprintf(" (in UCUM %q is the %s; for %s write %q)", c, a.name, allAtoms()[strings.Trim(to, "k")].name, to)
+				meant := to
+				if b, ok := allAtoms()[to]; ok {
+					meant = b.name
+				}
+				return fmt.Sprintf(" (in UCUM %q is the %s; for %s write %q)", c, a.name, meant, to)
 			}
 			return fmt.Sprintf(" (%q is not a UCUM code; write %q)", c, to)
 		}

@@ -65,6 +65,8 @@ type xmlDef struct {
 func readDefs(t *testing.T) (units []xmlDef, prefixes, bases int) {
 	t.Helper()
 	var doc struct {
+		Version  string     `xml:"version,attr"`
+		Revision string     `xml:"revision-date,attr"`
 		Prefixes []struct{} `xml:"prefix"`
 		Bases    []struct{} `xml:"base-unit"`
 		Units    []xmlDef   `xml:"unit"`
@@ -73,6 +75,9 @@ func readDefs(t *testing.T) (units []xmlDef, prefixes, bases int) {
 	dec.CharsetReader = func(_ string, r io.Reader) (io.Reader, error) { return r, nil }
 	if err := dec.Decode(&doc); err != nil {
 		t.Fatal(err)
+	}
+	if v := doc.Version + " (" + doc.Revision + ")"; v != ucumVersion {
+		t.Errorf("XML is UCUM %s, the table says %s; run: go generate ./analysis/units", v, ucumVersion)
 	}
 	return doc.Units, len(doc.Prefixes), len(doc.Bases)
 }

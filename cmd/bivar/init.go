@@ -93,9 +93,12 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	fmt.Fprintf(stderr, "bivar init: wrote %s: %s, %s (%s)\n", dest, plural(len(prof.numeric()), "numeric column", "numeric columns"), plural(len(pairs), "candidate study", "candidate studies"), state)
-	if active(pairs) >= 0 {
+	switch {
+	case len(prof.grouped()) > 0:
+		fmt.Fprintf(stderr, "bivar init: next: save %s without thousands separators, choose your studies in %s, then bivar run %s\n", csvPath, dest, dest)
+	case active(pairs) >= 0:
 		fmt.Fprintf(stderr, "bivar init: next: bivar run %s  (then choose your studies in it)\n", dest)
-	} else {
+	default:
 		fmt.Fprintf(stderr, "bivar init: next: choose your studies in %s, then bivar run %s\n", dest, dest)
 	}
 	return exitOK

@@ -645,7 +645,7 @@ func TestInitThousands(t *testing.T) {
 				t.Fatalf("exit %d: %s", code, stderr)
 			}
 			want := "column \"" + tc.col + "\": thousands separated by " + tc.sep
-			if !strings.Contains(stderr, want) || !strings.Contains(stderr, "save the file without them") {
+			if !strings.Contains(stderr, want) || !strings.Contains(stderr, "save the file without them") || !strings.Contains(stderr, "next: save "+p+" without thousands separators") {
 				t.Errorf("stderr lacks %q and what to do:\n%s", want, stderr)
 			}
 			b, _ := os.ReadFile(dest)

@@ -5,6 +5,7 @@ import (
 	"path/filepath"
 	"reflect"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -705,4 +706,26 @@ func TestInitNotText(t *testing.T) {
 			}
 		})
 	}
+}
+
+// FuzzParseGrouped: any text gives an answer without a panic, and a number
+// read with separators equals the number with them taken out.
+func FuzzParseGrouped(f *testing.F) {
+	for _, s := range []string{"1,120", "1.234,5", "12 345", "1'000'000.5", "-1,234", "1,2,3"} {
+		f.Add(s, false)
+		f.Add(s, true)
+	}
+	f.Fuzz(func(t *testing.T, s string, decimalComma bool) {
+		v, sep, ok := parseGrouped(s, decimalComma)
+		if !ok {
+			return
+		}
+		plain := strings.ReplaceAll(s, string(sep), "")
+		if decimalComma {
+			plain = strings.Replace(plain, ",", ".", 1)
+		}
+		if w, err := strconv.ParseFloat(plain, 64); err != nil || w != v {
+			t.Fatalf("parseGrouped(%q, %v) = %v, %q; without the separator %q reads %v, %v", s, decimalComma, v, sep, plain, w, err)
+		}
+	})
 }

@@ -4,27 +4,6 @@ package units
 
 import "strings"
 
-// printed are the atoms whose written symbol differs from their code. The
-// symbols follow the "print symbol" column of the UCUM tables where UCUM
-// gives one (°C, °F, °R, in, ft, yd, mil, lb, oz, lbf, ppm, ppb; entered
-// from memory of those tables), with psi for [psi].
-var printed = map[string]string{
-	"Cel":      "°C",
-	"[degF]":   "°F",
-	"[degR]":   "°R",
-	"[in_i]":   "in",
-	"[ft_i]":   "ft",
-	"[yd_i]":   "yd",
-	"[mil_i]":  "mil",
-	"[lb_av]":  "lb",
-	"[oz_av]":  "oz",
-	"[lbf_av]": "lbf",
-	"[psi]":    "psi",
-	"[ppm]":    "ppm",
-	"[ppb]":    "ppb",
-	"[g]":      "gn", // standard acceleration of gravity
-}
-
 // superscript maps exponent characters to their superscript forms.
 var superscript = strings.NewReplacer(
 	"-", "⁻", "+", "", "0", "⁰", "1", "¹", "2", "²", "3", "³", "4", "⁴",
@@ -45,7 +24,7 @@ func Symbol(code string) string {
 	if code == "" || code == "1" {
 		return ""
 	}
-	if _, err := parse(code); err != nil {
+	if _, err := parse1(code); err != nil {
 		return code
 	}
 	var b strings.Builder
@@ -126,32 +105,39 @@ func writeExponent(b *strings.Builder, s string, i int) int {
 	return k
 }
 
-// atomSymbol writes one atom, with its prefix if any.
+// atomSymbol writes one atom, with its prefix if any, in the print symbols
+// of UCUM's table (ucum-essence.xml; the code itself where the table gives
+// none). Micro is written with the micro sign U+00B5, where the table has
+// the Greek mu U+03BC: Unicode maps the one to the other (NFKC), and the
+// micro sign is what keyboards and the SI Brochure's fonts give.
 func atomSymbol(sym string) string {
-	if p, ok := printed[sym]; ok {
-		return p
+	if a, ok := allAtoms()[sym]; ok {
+		return printOf(sym, a)
 	}
-	if _, ok := atoms[sym]; ok {
-		return sym
-	}
-	for _, n := range []int{2, 1} { // "da" before "d", as lookup does
+	for _, n := range []int{2, 1} { // "da" before "d", as the parser does
 		if len(sym) <= n {
 			continue
 		}
-		pre, rest := sym[:n], sym[n:]
-		if _, ok := prefixes[pre]; !ok {
+		pre, ok := prefixes[sym[:n]]
+		if !ok {
 			continue
 		}
-		if _, ok := atoms[rest]; !ok {
+		a, ok := allAtoms()[sym[n:]]
+		if !ok {
 			continue
 		}
-		if pre == "u" {
-			pre = "µ"
+		ps := pre.Print
+		if pre.Code == "u" {
+			ps = "µ"
 		}
-		if p, ok := printed[rest]; ok {
-			return pre + p
-		}
-		return pre + rest
+		return ps + printOf(sym[n:], a)
 	}
 	return sym
+}
+
+func printOf(code string, a atom) string {
+	if a.print == "" {
+		return code
+	}
+	return a.print
 }

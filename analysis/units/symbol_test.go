@@ -71,3 +71,34 @@ func FuzzSymbol(f *testing.F) {
 		}
 	})
 }
+
+// TestSymbolUCUM: print symbols from the "printSymbol" of ucum-essence.xml
+// (UCUM 2.2): Ohm Ω, deg °, [pH] pH, [ppth] ppth, [degRe] °Ré, mm[Hg]
+// "mm Hg"; an annotation alone prints as written.
+func TestSymbolUCUM(t *testing.T) {
+	cases := []struct{ code, want string }{
+		{"Ohm", "Ω"},
+		{"kOhm", "kΩ"},
+		{"deg", "°"},
+		{"rad", "rad"},
+		{"[pH]", "pH"},
+		{"dB", "dB"},
+		{"[ppth]", "ppth"},
+		{"[degRe]", "°Ré"},
+		{"mmol/L", "mmol/L"},
+		{"umol/L", "µmol/L"},
+		{"mA", "mA"},
+		{"a", "a"},
+		{"wk", "wk"},
+		{"mo", "mo"},
+		{"mm[Hg]", "mm Hg"},
+		{"{BEF_per_year}", "BEF_per_year"},
+		{"10*", "10"},
+		{"10*6/L", "10⁶/L"},
+	}
+	for _, c := range cases {
+		if got := Symbol(c.code); got != c.want {
+			t.Errorf("Symbol(%q) = %q, want %q", c.code, got, c.want)
+		}
+	}
+}

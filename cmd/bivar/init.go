@@ -4,15 +4,18 @@ package main
 
 import (
 	"bufio"
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
 	"io"
 	"io/fs"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -78,13 +81,26 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 	for _, c := range prof.badCells() {
 		fmt.Fprintf(stderr, "bivar init: %s: column %q: %s; the manifest counts such cells as missing (non_numeric = \"missing\"): correct them, or keep that line\n", csvPath, c.name, badText(c))
 	}
-	nPairs := len(prof.pairs())
-	more := " (the first active, the others commented out)"
-	if nPairs == 1 {
-		more = " (active)"
+	for _, c := range prof.grouped() {
+		fmt.Fprintf(stderr, "bivar init: %s: column %q: %s; init read them as numbers, but 'bivar run' reads numbers without separators only: save the file without them\n", csvPath, c.name, groupedText(c))
 	}
-	fmt.Fprintf(stderr, "bivar init: wrote %s: %s, %s%s\n", dest, plural(len(prof.numeric()), "numeric column", "numeric columns"), plural(nPairs, "candidate study", "candidate studies"), more)
-	fmt.Fprintf(stderr, "bivar init: next: bivar run %s  (then choose your studies in it)\n", dest)
+	pairs := prof.pairs()
+	state := "none active: remove the '#' of the lines you want under \"study = [\""
+	if a := active(pairs); a >= 0 {
+		state = fmt.Sprintf("1 active, %s against setting %s; the others commented out", display(pairs[a].y.name), display(pairs[a].x.name))
+		if len(pairs) == 1 {
+			state = fmt.Sprintf("active: %s against setting %s", display(pairs[a].y.name), display(pairs[a].x.name))
+		}
+	}
+	fmt.Fprintf(stderr, "bivar init: wrote %s: %s, %s (%s)\n", dest, plural(len(prof.numeric()), "numeric column", "numeric columns"), plural(len(pairs), "candidate study", "candidate studies"), state)
+	switch {
+	case len(prof.grouped()) > 0:
+		fmt.Fprintf(stderr, "bivar init: next: save %s without thousands separators, choose your studies in %s, then bivar run %s\n", csvPath, dest, dest)
+	case active(pairs) >= 0:
+		fmt.Fprintf(stderr, "bivar init: next: bivar run %s  (then choose your studies in it)\n", dest)
+	default:
+		fmt.Fprintf(stderr, "bivar init: next: choose your studies in %s, then bivar run %s\n", dest, dest)
+	}
 	return exitOK
 }
 
@@ -129,7 +145,34 @@ type colProfile struct {
 	firstBad   string
 	levels     int  // distinct values (text columns; counted up to a bound)
 	unique     bool // every value differs (text columns)
+	// thousands is the separator between groups of thousands the column's
+	// numbers were written with ("1,120"), 0 for none; firstGrouped says
+	// where the first such number is.
+	thousands    rune
+	firstGrouped string
+	distinct     []float64 // the distinct numbers, sorted, when there are at most initMaxSettingLevels
+	rising       bool      // numeric and never falling in file order
+	dates        bool      // text whose every cell is a calendar date
+	role         colRole
 }
+
+// colRole is what init takes a column to be, from its name and values; it
+// decides which columns are paired, which way round and whether a pair is
+// left active (see initRules).
+type colRole int
+
+const (
+	roleText     colRole = iota // not numeric
+	roleConstant                // numeric, one value
+	roleCounter                 // whole numbers rising by one each row: a row or run number
+	roleTime                    // a year, quarter, month, date or time of day
+	roleSetting                 // few distinct values, evenly spaced (or in equal ratios): set, not measured
+	roleMeasure                 // many distinct values: measured
+	roleDiscrete                // few distinct values, unevenly spaced
+)
+
+// initMaxSettingLevels is the most distinct values a setting may have.
+const initMaxSettingLevels = 10
 
 func (p *csvProfile) numeric() []colProfile {
 	var out []colProfile
@@ -146,24 +189,201 @@ func (p *csvProfile) numeric() []colProfile {
 func (p *csvProfile) analysable() []colProfile {
 	var out []colProfile
 	for _, c := range p.numeric() {
-		if !c.constant && !c.counter && c.nonEmpty >= 3 {
+		if c.role != roleConstant && c.role != roleCounter && c.nonEmpty >= 3 {
 			out = append(out, c)
 		}
 	}
 	return out
 }
 
-// pairs are the candidate studies: every pair of analysable columns, the
-// earlier column as x.
-func (p *csvProfile) pairs() [][2]colProfile {
+// pairKind says why a candidate pair is written as it is.
+type pairKind int
+
+const (
+	pairSettingResponse pairKind = iota // a setting on x, a measured column on y
+	pairOther                           // two columns, neither clearly set: the earlier on x
+	pairSeries                          // time on x: a series, not a relationship between two measurements
+)
+
+// candidate is one candidate study.
+type candidate struct {
+	x, y colProfile
+	kind pairKind
+}
+
+// initRules says, in the manifest's words, how init classifies columns and
+// pairs them; pairs and roleOf implement it.
+const initRules = `# How init chose (from names and values only; check it against what you know):
+#   a setting has at most %d distinct values, evenly spaced or in equal ratios,
+#     each used twice or more on average; a measurement has more distinct
+#     values, or values that mostly differ;
+#   a time column is named year, quarter, month, week, day, date, period (or
+#     time alone), or holds whole numbers from 1000 to 2200 rising by one;
+#   time goes on x only, two time columns are never paired (year with quarter),
+#     nor two settings; a setting goes on x, else a column with few values
+#     (unevenly spaced) rather than a measurement, else the earlier column;
+#   a study is left active only when exactly one pair is a setting with a
+#     measurement; otherwise all are commented out for you to choose.
+`
+
+// pairs are the candidate studies, settings against measurements first,
+// then the other pairs, then the series in time, each group in column
+// order.
+func (p *csvProfile) pairs() []candidate {
 	a := p.analysable()
-	var out [][2]colProfile
+	var groups [3][]candidate
 	for i := range a {
 		for j := i + 1; j < len(a); j++ {
-			out = append(out, [2]colProfile{a[i], a[j]})
+			x, y := a[i], a[j]
+			switch {
+			case x.role == roleTime && y.role == roleTime,
+				x.role == roleSetting && y.role == roleSetting:
+				continue
+			case y.role == roleTime:
+				x, y = y, x
+				fallthrough
+			case x.role == roleTime:
+				groups[pairSeries] = append(groups[pairSeries], candidate{x, y, pairSeries})
+			case y.role == roleSetting && x.role == roleMeasure:
+				x, y = y, x
+				fallthrough
+			case x.role == roleSetting && y.role == roleMeasure:
+				groups[pairSettingResponse] = append(groups[pairSettingResponse], candidate{x, y, pairSettingResponse})
+			case y.role == roleSetting, y.role == roleDiscrete && x.role == roleMeasure:
+				x, y = y, x // the column with fewer values is likelier set than measured
+				fallthrough
+			default:
+				groups[pairOther] = append(groups[pairOther], candidate{x, y, pairOther})
+			}
 		}
 	}
-	return out
+	return append(append(groups[0], groups[1]...), groups[2]...)
+}
+
+// active is the index of the pair left active, or -1: the one pair of a
+// setting with a measurement, when there is exactly one.
+func active(pairs []candidate) int {
+	n, at := 0, -1
+	for i, c := range pairs {
+		if c.kind == pairSettingResponse {
+			n, at = n+1, i
+		}
+	}
+	if n != 1 {
+		return -1
+	}
+	return at
+}
+
+// timeWords are the words of a column name that make it a time column;
+// "time" counts only as the whole name ("cycle time" is measured).
+var timeWords = map[string]bool{"year": true, "years": true, "yr": true, "quarter": true, "qtr": true,
+	"month": true, "week": true, "day": true, "date": true, "period": true, "jahr": true, "datum": true}
+
+var nameWords = regexp.MustCompile(`[a-z]+`)
+
+func timeName(name string) bool {
+	l := strings.ToLower(strings.TrimSpace(name))
+	if l == "time" || l == "t" {
+		return true
+	}
+	for _, w := range nameWords.FindAllString(l, -1) {
+		if timeWords[w] {
+			return true
+		}
+	}
+	return false
+}
+
+// dateCell matches the calendar dates init recognises: 2024-03-01,
+// 2024-03, 2024-03-01 14:05(:09), 2024-03-01T14:05, 01/03/2024, 1.3.2024.
+var dateCell = regexp.MustCompile(`^(\d{4}-\d{1,2}(-\d{1,2}([ T]\d{1,2}:\d{2}(:\d{2}(\.\d+)?)?)?)?|\d{1,2}[./]\d{1,2}[./]\d{2,4})$`)
+
+// roleOf classifies a profiled column (see initRules).
+func roleOf(c colProfile) colRole {
+	switch {
+	case !c.isNumeric:
+		return roleText
+	case c.constant:
+		return roleConstant
+	case timeName(c.name):
+		return roleTime
+	case c.counter && c.min >= 1000 && c.max <= 2200:
+		return roleTime // whole numbers rising by one in the range of years
+	case c.counter:
+		return roleCounter
+	case c.distinct == nil || 2*len(c.distinct) > c.nonEmpty:
+		return roleMeasure // many values, or mostly different ones
+	case evenlySpaced(c.distinct):
+		return roleSetting
+	}
+	return roleDiscrete
+}
+
+// evenlySpaced reports whether the sorted distinct values have equal gaps,
+// or (all positive) equal ratios, to 1%.
+func evenlySpaced(v []float64) bool {
+	if len(v) < 2 {
+		return false
+	}
+	equal := func(f func(i int) float64) bool {
+		g := f(1)
+		for i := 2; i < len(v); i++ {
+			if math.Abs(f(i)-g) > 0.01*math.Abs(g) {
+				return false
+			}
+		}
+		return true
+	}
+	if equal(func(i int) float64 { return v[i] - v[i-1] }) {
+		return true
+	}
+	return v[0] > 0 && equal(func(i int) float64 { return math.Log(v[i] / v[i-1]) })
+}
+
+// groupSeps are the separators between thousands init recognises: comma,
+// point, apostrophe, space, no-break space and narrow no-break space.
+const groupSeps = ",.' \u00a0\u202f"
+
+// parseGrouped reads a number written with a separator between groups of
+// three digits ("1,120", "12 345,5", "1'000'000"), the decimal mark being
+// a point or (decimalComma) a comma. It returns the number and the
+// separator; ok is false unless s is such a number with at least one
+// separator, every group after the first of exactly three digits.
+func parseGrouped(s string, decimalComma bool) (v float64, sep rune, ok bool) {
+	mark := '.'
+	if decimalComma {
+		mark = ','
+	}
+	body := strings.TrimLeft(s, "+-")
+	if len(s)-len(body) > 1 {
+		return 0, 0, false
+	}
+	intPart, frac, hasFrac := strings.Cut(body, string(mark))
+	if hasFrac && (frac == "" || strings.Trim(frac, "0123456789") != "") {
+		return 0, 0, false
+	}
+	for _, r := range intPart {
+		if r < '0' || r > '9' {
+			sep = r
+			break
+		}
+	}
+	if sep == 0 || sep == mark || !strings.ContainsRune(groupSeps, sep) {
+		return 0, 0, false
+	}
+	groups := strings.Split(intPart, string(sep))
+	for i, g := range groups {
+		if strings.Trim(g, "0123456789") != "" || g == "" || len(g) > 3 || i > 0 && len(g) != 3 {
+			return 0, 0, false
+		}
+	}
+	plain := s[:len(s)-len(body)] + strings.Join(groups, "")
+	if hasFrac {
+		plain += "." + frac
+	}
+	v, err := strconv.ParseFloat(plain, 64)
+	return v, sep, err == nil
 }
 
 // profileCSV reads a CSV file as 'bivar run' will read it (dataset.Read:
@@ -182,6 +402,9 @@ func profileCSV(path string) (*csvProfile, error) {
 		return nil, err
 	case info.IsDir():
 		return nil, fmt.Errorf("%s is a folder: give one CSV data file in it", path)
+	}
+	if err := notText(path); err != nil {
+		return nil, err
 	}
 	if err := utf8File(path); err != nil {
 		return nil, err
@@ -213,8 +436,13 @@ func profileCSV(path string) (*csvProfile, error) {
 		texts, nums := tab.Text[name], tab.Numeric[name]
 		c := colProfile{name: name, min: math.Inf(1), max: math.Inf(-1), counter: true,
 			missing: tab.Missing[name], nonNumeric: tab.NonNumeric[name]}
+		if c.nonNumeric > 0 {
+			nums = readGrouped(&c, texts, nums, tab.DecimalComma)
+		}
 		seen := map[string]bool{}
+		values := map[float64]bool{}
 		prev := math.NaN()
+		c.rising, c.dates = true, true
 		for i, cell := range texts {
 			if cell == "" || cell == "NA" {
 				c.counter = false
@@ -222,16 +450,26 @@ func profileCSV(path string) (*csvProfile, error) {
 			}
 			c.nonEmpty++
 			seen[cell] = true
+			c.dates = c.dates && dateCell.MatchString(cell)
 			v := nums[i]
 			if math.IsNaN(v) {
 				c.counter = false
 				continue
 			}
 			c.min, c.max = math.Min(c.min, v), math.Max(c.max, v)
+			if len(values) <= initMaxSettingLevels {
+				values[v] = true
+			}
 			if v != math.Trunc(v) || (!math.IsNaN(prev) && v != prev+1) {
 				c.counter = false
 			}
+			if !math.IsNaN(prev) && v < prev {
+				c.rising = false
+			}
 			prev = v
+		}
+		if len(values) <= initMaxSettingLevels {
+			c.distinct = slices.Sorted(maps.Keys(values))
 		}
 		good := c.nonEmpty - c.nonNumeric
 		c.isNumeric = good > 0 && (c.nonNumeric == 0 || good >= 2 && (c.nonNumeric == 1 || 10*c.nonNumeric <= c.nonEmpty))
@@ -250,9 +488,102 @@ func profileCSV(path string) (*csvProfile, error) {
 		if !c.isNumeric || c.nonEmpty < 2 || c.nonNumeric > 0 {
 			c.counter = false
 		}
+		c.rising = c.rising && c.isNumeric
+		c.dates = c.dates && !c.isNumeric && c.nonEmpty > 0
+		c.role = roleOf(c)
 		prof.cols = append(prof.cols, c)
 	}
 	return prof, nil
+}
+
+// readGrouped reads the cells of a column that did not parse as numbers
+// written with a separator between thousands (parseGrouped). When every
+// such cell is one, with the same separator throughout, the column's
+// numbers are returned with them filled in, c.thousands names the
+// separator and c.firstGrouped the first such cell; otherwise nums comes
+// back unchanged.
+func readGrouped(c *colProfile, texts []string, nums []float64, decimalComma bool) []float64 {
+	out := slices.Clone(nums)
+	var sep rune
+	first := ""
+	for i, cell := range texts {
+		if !math.IsNaN(nums[i]) || cell == "" || cell == "NA" {
+			continue
+		}
+		v, s, ok := parseGrouped(cell, decimalComma)
+		if !ok || sep != 0 && s != sep {
+			return nums
+		}
+		if sep == 0 {
+			first = fmt.Sprintf("data row %d: %q", i+1, cell)
+		}
+		sep, out[i] = s, v
+	}
+	c.thousands, c.firstGrouped, c.nonNumeric = sep, first, 0
+	return out
+}
+
+// fileKinds are the binary files init recognises by their first bytes
+// (their "magic numbers", as each format's specification gives them).
+var fileKinds = []struct {
+	magic string
+	what  string
+}{
+	{"\xD0\xCF\x11\xE0\xA1\xB1\x1A\xE1", "an Excel 97-2003 workbook (.xls) or another legacy Office file (OLE compound file)"},
+	{"%PDF-", "a PDF document"},
+	{"\x1F\x8B", "a gzip-compressed file"},
+	{"PAR1", "a Parquet file"},
+	{"SQLite format 3\x00", "an SQLite database"},
+	{"\x89PNG\r\n\x1A\n", "a PNG image"},
+	{"\xFF\xD8\xFF", "a JPEG image"},
+	{"\xFF\xFE", "UTF-16 text (little-endian)"},
+	{"\xFE\xFF", "UTF-16 text (big-endian)"},
+}
+
+// notText recognises a spreadsheet or another binary file by its first
+// bytes and says what it is and what to do; it returns nil for anything
+// else (utf8File then checks the encoding). A ZIP archive is named by what
+// it holds: an Excel workbook (an entry under xl/), an OpenDocument
+// spreadsheet (its mimetype entry), or any other ZIP archive.
+func notText(path string) error {
+	f, err := os.Open(path)
+	if err != nil {
+		return err
+	}
+	defer f.Close()
+	head := make([]byte, 1<<16)
+	n, err := io.ReadFull(f, head)
+	if err != nil && err != io.ErrUnexpectedEOF && err != io.EOF {
+		return err
+	}
+	head = head[:n]
+	const save = "open it in the program that wrote it and save (or export) the sheet with the data as \"CSV UTF-8\", one sheet per file, then run bivar init on the .csv file"
+	if bytes.HasPrefix(head, []byte("PK\x03\x04")) {
+		what := "a ZIP archive, not a CSV text file; unpack it and run bivar init on the CSV file in it"
+		switch {
+		case bytes.Contains(head, []byte("opendocument.spreadsheet")):
+			what = "an OpenDocument spreadsheet (.ods), not a CSV text file; " + save
+		case bytes.Contains(head, []byte("xl/")):
+			what = "an Excel workbook (.xlsx), not a CSV text file; " + save
+		}
+		return fmt.Errorf("%s is %s", path, what)
+	}
+	for _, k := range fileKinds {
+		if !bytes.HasPrefix(head, []byte(k.magic)) {
+			continue
+		}
+		switch {
+		case strings.HasPrefix(k.what, "UTF-16"):
+			return fmt.Errorf("%s is %s; bivar reads UTF-8: save it again as \"CSV UTF-8\" (or convert it, e.g. iconv -f UTF-16 -t UTF-8)", path, k.what)
+		case strings.Contains(k.what, "Excel"):
+			return fmt.Errorf("%s is %s, not a CSV text file; %s", path, k.what, save)
+		}
+		return fmt.Errorf("%s is %s, not a CSV text file; export the data as CSV (UTF-8, a header line naming the columns) and run bivar init on that", path, k.what)
+	}
+	if i := bytes.IndexByte(head, 0); i >= 0 {
+		return fmt.Errorf("%s is a binary file, not CSV text (a NUL byte at byte %d); export the data as CSV (UTF-8, a header line naming the columns) and run bivar init on that", path, i+1)
+	}
+	return nil
 }
 
 // utf8File checks that the file is UTF-8 text (a BOM allowed), reading it
@@ -358,17 +689,20 @@ func display(name string) string {
 func fmtNum(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
 
 // initManifest writes the starting manifest for prof, whose CSV is at
-// rel from the manifest's folder. Every key is explained where it
-// stands; the studies are left commented out for the user to choose.
+// rel from the manifest's folder. Every key is explained where it stands;
+// the candidate studies are one line each in the study array, left
+// commented out unless exactly one pair is a setting with a measurement
+// (initRules).
 func initManifest(prof *csvProfile, rel string) string {
 	var b strings.Builder
 	base := strings.TrimSuffix(filepath.Base(prof.file), filepath.Ext(prof.file))
 	w := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
+	pairs := prof.pairs()
+	act := active(pairs)
 
 	w("# bivar manifest for %s, written by 'bivar init'.\n", rel)
-	w("#\n# Next: run  bivar run <this file>  for a first report, then choose your\n")
-	w("# studies: remove the leading '# ' from the [[study]] blocks you want (each\n")
-	w("# block down to the blank line).\n")
+	w("#\n# Next: choose your studies in the list under \"study = [\" below (remove the\n")
+	w("# leading '#' of a line to keep it), then run  bivar run <this file>.\n")
 	w("# Keys left out take their default; every key is explained where it stands.\n\n")
 
 	// kv writes one key line with its comment in a column.
@@ -379,6 +713,91 @@ func initManifest(prof *csvProfile, rel string) string {
 	kv(fmt.Sprintf("alpha  = %g", manifest.DefaultAlpha), "significance level of every verdict; intervals at 1 - alpha")
 	kv("adjust = "+tomlString(manifest.DefaultAdjust), strings.Join(manifest.Adjustments(), " | ")+": p-values adjusted across all studies")
 	kv(fmt.Sprintf("# seed = %d", manifest.DefaultSeed), "seed of every random source (permutation tests, samples)")
+
+	w("\n# Columns found in %s (%d data rows):\n", rel, prof.rows)
+	for _, c := range prof.cols {
+		w("#   %-20s %s\n", display(c.name), describe(c))
+	}
+
+	var group, order string
+	for _, c := range prof.cols {
+		if group == "" && !c.isNumeric && !c.unique && !c.dates && c.levels >= 2 && c.levels <= initMaxGroupLevels {
+			group = c.name
+		}
+	}
+	for _, c := range prof.cols { // a run counter first, else a rising time column
+		if order == "" && c.role == roleCounter {
+			order = c.name
+		}
+	}
+	for _, c := range prof.cols {
+		if order == "" && c.role == roleTime && c.rising {
+			order = c.name
+		}
+	}
+
+	w("\n")
+	w(initRules, initMaxSettingLevels)
+	w("\n# Keys: (of a study; write them inside its braces as key = value, comma-separated;\n")
+	w("# a study written as a [[study]] block instead needs all of them out of the list)\n")
+	w("#   id, dataset, x, y   required; the id names the study in reports and in 'bivar diff'\n")
+	w("#   title               a heading for people\n")
+	w("#   group               a text column: per-group fits and a check for a reversal across groups\n")
+	w("#   order               run order: drift and autocorrelation of the residuals\n")
+	w("#   covariates          columns that may lurk behind the relationship (partial correlations)\n")
+	w("#   also_in             other units for x and y: the unit-invariance table, e.g. { x = \"[degF]\" }\n")
+	w("#   predict_at          x values to predict y at, with confidence and prediction intervals\n")
+	w("#   notes               Markdown shown with the study\n")
+	w("#   expect              CI gates checked by 'bivar check', e.g. expect = { min_abs_r = 0.5 }:\n")
+	w("#                       direction (%s), form (%s),\n", strings.Join(manifest.Directions(), "|"), strings.Join(manifest.Forms(), "|"))
+	w("#                       min_abs_r, r_within = [lo, hi], slope_within = [lo, hi] (recorded units),\n")
+	w("#                       max_p (adjusted), min_n, not_outlier_driven = true\n")
+	if group != "" || order != "" {
+		var add []string
+		if group != "" {
+			add = append(add, "group = "+tomlString(group))
+		}
+		if order != "" {
+			add = append(add, "order = "+tomlString(order))
+		}
+		w("\n# To add to a study: %s\n", strings.Join(add, ", "))
+	}
+
+	w("\n# Candidate studies, one line per pair (%d in all", len(pairs))
+	if act >= 0 {
+		w("; the pair of a setting with a measurement is active")
+	} else {
+		w("; none active: remove the '#' of those you want")
+	}
+	w("):\nstudy = [\n")
+	used := map[string]bool{}
+	var rest, lines, why []string
+	width := 0
+	for i, p := range pairs {
+		id := studyID(p.x.name, p.y.name, used)
+		if i >= initMaxPairs {
+			rest = append(rest, id)
+			continue
+		}
+		lead := "# "
+		if i == act {
+			lead = "  "
+		}
+		line := fmt.Sprintf("%s{ id = %s, dataset = \"data\", x = %s, y = %s },", lead, tomlString(id), tomlString(p.x.name), tomlString(p.y.name))
+		lines, why = append(lines, line), append(why, pairWhy(p))
+		width = max(width, utf8.RuneCountInString(line))
+	}
+	for i, line := range lines { // the comments in one column
+		w("%s%s # %s\n", line, strings.Repeat(" ", width-utf8.RuneCountInString(line)), why[i])
+	}
+	w("]\n")
+	if len(rest) > 0 {
+		w("# %d more pairs, not written out:\n", len(rest))
+		for k := 0; k < len(rest); k += 3 {
+			w("#   %s\n", strings.Join(rest[k:min(k+3, len(rest))], "  "))
+		}
+	}
+
 	w("\n[output]\n")
 	kv("dir     = "+tomlString(manifest.DefaultOutputDir), "folder for the report, relative to this file")
 	kv("formats = ["+quoteJoin(manifest.DefaultFormats())+"]", "any of "+strings.Join(manifest.Formats(), ", "))
@@ -402,6 +821,14 @@ func initManifest(prof *csvProfile, rel string) string {
 	} else {
 		kv(`# decimal = "."`, `"." or ","; left out: detected`)
 	}
+	if g := prof.grouped(); len(g) > 0 {
+		w("# Numbers with a separator between thousands, read as numbers by init:\n")
+		for _, c := range g {
+			w("#   %s: %s\n", display(c.name), groupedText(c))
+		}
+		w("# 'bivar run' reads numbers without separators only: save the file without\n")
+		w("# them (in a spreadsheet: number format without the thousands separator).\n")
+	}
 	kv("missing = ["+quoteJoin(manifest.DefaultMissing())+"]", "cells read as missing")
 	if bad := prof.badCells(); len(bad) > 0 {
 		kv(`non_numeric = "missing"`, strings.Join(manifest.NonNumericPolicies(), " | ")+": what a non-numeric cell in a studied column is;")
@@ -422,7 +849,7 @@ func initManifest(prof *csvProfile, rel string) string {
 	}
 	if idCol == "" {
 		for _, c := range prof.cols {
-			if c.counter {
+			if c.role == roleCounter || c.role == roleTime && c.counter {
 				idCol = c.name
 				break
 			}
@@ -435,7 +862,7 @@ func initManifest(prof *csvProfile, rel string) string {
 	}
 
 	num := prof.numeric()
-	w("\n[dataset.units]   # UCUM unit code per column, e.g. \"Cel\", \"[degF]\", \"mm\", \"[in_i]\", \"%%\", \"kg\":\n")
+	w("\n[dataset.units]   # UCUM unit code per column, e.g. \"Cel\", \"[degF]\", \"mm\", \"[in_i]\", \"%%\", \"kg\", \"a\":\n")
 	w("                  # remove the '# ' and write the code between the quotes (an empty one is refused)\n")
 	for _, c := range num {
 		w("# %s = \"\"\n", tomlKey(c.name))
@@ -444,99 +871,100 @@ func initManifest(prof *csvProfile, rel string) string {
 	for _, c := range num {
 		w("# %s = %s\n", tomlKey(c.name), tomlString(c.name))
 	}
-
-	w("\n# Columns found in %s (%d data rows):\n", rel, prof.rows)
-	for _, c := range prof.cols {
-		switch {
-		case c.isNumeric && c.counter:
-			w("#   %-20s numeric, rises by 1 each row: a row or run number (try it as order)\n", display(c.name))
-		case c.isNumeric && c.constant:
-			w("#   %-20s numeric, constant (%s): nothing to relate\n", display(c.name), fmtNum(c.min))
-		case c.isNumeric && c.nonNumeric > 0:
-			w("#   %-20s numeric, %s to %s, %d missing, %s\n", display(c.name), fmtNum(c.min), fmtNum(c.max), c.missing, badText(c))
-		case c.isNumeric:
-			w("#   %-20s numeric, %s to %s, %d missing\n", display(c.name), fmtNum(c.min), fmtNum(c.max), c.missing)
-		case c.unique && c.missing == 0:
-			w("#   %-20s text, every value differs: a row name (try it as id_column)\n", display(c.name))
-		case c.levels <= initMaxGroupLevels && c.levels > 0:
-			w("#   %-20s text, %d levels (try it as group)\n", display(c.name), c.levels)
-		default:
-			w("#   %-20s text\n", display(c.name))
-		}
-	}
-
-	var group, order string
-	for _, c := range prof.cols {
-		if group == "" && !c.isNumeric && !c.unique && c.levels >= 2 && c.levels <= initMaxGroupLevels {
-			group = c.name
-		}
-		if order == "" && c.counter {
-			order = c.name
-		}
-	}
-
-	pairs := prof.pairs()
-	if len(pairs) == 0 {
-		// runInit refuses such a file; this keeps the text honest if called.
-		w("\n# No pair of numeric, non-constant columns was found, so no study is suggested.\n")
-		return b.String()
-	}
-	w("\n# Candidate studies, one per pair of numeric columns (x is the earlier column;\n")
-	w("# swap x and y so that x is the setting or the cheaper measurement). Keys:\n")
-	w("#   id, dataset, x, y   required; the id names the study in reports and in 'bivar diff'\n")
-	w("#   title               a heading for people\n")
-	w("#   group               a text column: per-group fits and a check for a reversal across groups\n")
-	w("#   order               run order: drift and autocorrelation of the residuals\n")
-	w("#   covariates          columns that may lurk behind the relationship (partial correlations)\n")
-	w("#   also_in             other units for x and y: the unit-invariance table, e.g. { x = \"[degF]\" }\n")
-	w("#   predict_at          x values to predict y at, with confidence and prediction intervals\n")
-	w("#   notes               Markdown shown with the study\n")
-	w("#   [study.expect]      CI gates checked by 'bivar check': direction (%s), form (%s),\n", strings.Join(manifest.Directions(), "|"), strings.Join(manifest.Forms(), "|"))
-	w("#                       min_abs_r, r_within = [lo, hi], slope_within = [lo, hi] (recorded units),\n")
-	w("#                       max_p (adjusted), min_n, not_outlier_driven = true\n")
-	used := map[string]bool{}
-	var rest []string
-	for i, p := range pairs {
-		x, y := p[0], p[1]
-		id := studyID(x.name, y.name, used)
-		if i >= initMaxPairs {
-			rest = append(rest, id)
-			continue
-		}
-		// The first study is left active so that 'bivar run' works at
-		// once; the others are commented out for the user to choose.
-		c := "# "
-		if i == 0 {
-			c = ""
-			w("\n# A first study, left active so that 'bivar run' gives a report at once;\n")
-			w("# keep it, change it or comment it out once you have chosen your own.\n")
-			w("[[study]]\n")
-		} else {
-			w("\n# [[study]]\n")
-		}
-		w("%sid      = %s\n", c, tomlString(id))
-		w("%stitle   = %s\n", c, tomlString(y.name+" against "+x.name))
-		w("%sdataset = \"data\"\n", c)
-		w("%sx       = %s\n", c, tomlString(x.name))
-		w("%sy       = %s\n", c, tomlString(y.name))
-		if group != "" {
-			w("%s# group = %s\n", c, tomlString(group))
-		}
-		if order != "" {
-			w("%s# order = %s\n", c, tomlString(order))
-		}
-		w("%s# predict_at = [%s]\n", c, fmtNum((x.min+x.max)/2))
-		w("%s# [study.expect]\n", c)
-		w("%s# min_abs_r = 0.5\n", c)
-		w("%s# not_outlier_driven = true\n", c)
-	}
-	if len(rest) > 0 {
-		w("\n# %d more pairs, not written out:\n", len(rest))
-		for k := 0; k < len(rest); k += 3 {
-			w("#   %s\n", strings.Join(rest[k:min(k+3, len(rest))], "  "))
-		}
-	}
 	return b.String()
+}
+
+// describe is a column's line in the manifest's list of columns.
+func describe(c colProfile) string {
+	rng := func() string {
+		s := fmt.Sprintf("%s to %s, %d missing", fmtNum(c.min), fmtNum(c.max), c.missing)
+		if c.nonNumeric > 0 {
+			s += ", " + badText(c)
+		}
+		if c.thousands != 0 {
+			s += ", " + groupedText(c)
+		}
+		return s
+	}
+	switch c.role {
+	case roleConstant:
+		return fmt.Sprintf("numeric, constant (%s): nothing to relate", fmtNum(c.min))
+	case roleCounter:
+		return "numeric, rises by 1 each row: a row or run number (try it as order)"
+	case roleTime:
+		if c.rising {
+			return "numeric, " + rng() + ": time, never falling (try it as order; x only)"
+		}
+		return "numeric, " + rng() + ": time (x only)"
+	case roleSetting:
+		return fmt.Sprintf("numeric, %d evenly spaced values (%s): a setting", len(c.distinct), joinNums(c.distinct))
+	case roleDiscrete:
+		return fmt.Sprintf("numeric, %d distinct values (%s), unevenly spaced", len(c.distinct), joinNums(c.distinct))
+	case roleMeasure:
+		return "numeric, " + rng() + ": a measurement"
+	}
+	switch {
+	case c.dates:
+		return "text, calendar dates: order needs a number (a year or a day count column)"
+	case c.unique && c.missing == 0:
+		return "text, every value differs: a row name (try it as id_column)"
+	case c.levels <= initMaxGroupLevels && c.levels > 0:
+		return fmt.Sprintf("text, %d levels (try it as group)", c.levels)
+	}
+	return "text"
+}
+
+func joinNums(v []float64) string {
+	s := make([]string, len(v))
+	for i, x := range v {
+		s[i] = fmtNum(x)
+	}
+	return strings.Join(s, ", ")
+}
+
+// pairWhy is the comment after a candidate line.
+func pairWhy(p candidate) string {
+	switch p.kind {
+	case pairSettingResponse:
+		return "setting on x, measurement on y"
+	case pairSeries:
+		return "a series in time: time on x"
+	}
+	return "neither is clearly a setting"
+}
+
+// grouped are the numeric columns written with thousands separators.
+func (p *csvProfile) grouped() []colProfile {
+	var out []colProfile
+	for _, c := range p.numeric() {
+		if c.thousands != 0 {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// groupedText names a column's thousands separator and its first use.
+func groupedText(c colProfile) string {
+	return fmt.Sprintf("thousands separated by %s (first: %s)", sepName(c.thousands), c.firstGrouped)
+}
+
+func sepName(r rune) string {
+	switch r {
+	case ',':
+		return `a comma ","`
+	case '.':
+		return `a point "."`
+	case '\'':
+		return `an apostrophe "'"`
+	case ' ':
+		return "a space"
+	case '\u00a0':
+		return "a no-break space (U+00A0)"
+	case '\u202f':
+		return "a narrow no-break space (U+202F)"
+	}
+	return strconv.QuoteRune(r)
 }
 
 // badCells are the numeric columns that hold cells that are not numbers.
@@ -569,21 +997,34 @@ func noPairMessage(p *csvProfile) string {
 	for _, c := range p.cols {
 		why := "text"
 		switch {
-		case c.isNumeric && c.counter:
+		case c.role == roleCounter:
 			why = "a row counter"
-		case c.isNumeric && c.constant:
+		case c.role == roleConstant:
 			why = "constant"
 		case c.isNumeric && c.nonEmpty < 3:
 			why = "fewer than 3 values"
+		case c.role == roleTime:
+			why = "time"
+		case c.role == roleSetting:
+			why = "a setting"
 		case c.isNumeric:
 			why = "numeric"
 		case c.nonEmpty == 0:
 			why = "empty"
+		case c.dates:
+			why = "dates"
 		}
 		parts = append(parts, fmt.Sprintf("%s (%s)", display(c.name), why))
 	}
-	return fmt.Sprintf("%s: no pair of columns to relate: a study needs two numeric columns that vary, and the columns are %s; add a numeric column, or check that numbers are written with one decimal mark throughout",
+	msg := fmt.Sprintf("%s: no pair of columns to relate: a study needs two numeric columns that vary (never two time columns, nor two settings), and the columns are %s; add a numeric column, or check that numbers are written with one decimal mark throughout",
 		p.file, strings.Join(parts, ", "))
+	for _, c := range p.cols {
+		if c.dates {
+			msg += fmt.Sprintf("; column %s holds dates, which are text to bivar: to study a measurement against time, add a numeric time column beside it (a decimal year such as 1958.24, or a day count)", display(c.name))
+			break
+		}
+	}
+	return msg
 }
 
 func quoteJoin(ss []string) string {

@@ -5,27 +5,20 @@ import (
 	"path/filepath"
 	"reflect"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 
 	"bivar/analysis/manifest"
 )
 
-// uncommentStudies removes one leading "# " from every line of each
-// commented-out [[study]] block (from "# [[study]]" to the blank line), as
-// a user choosing them would.
+// uncommentStudies removes the leading "#" of every commented-out
+// candidate line in the study array, as a user choosing them all would.
 func uncommentStudies(text string) string {
 	var out []string
-	in := false
 	for _, l := range strings.Split(text, "\n") {
-		if l == "# [[study]]" {
-			in = true
-		}
-		if l == "" {
-			in = false
-		}
-		if in {
-			l = strings.TrimPrefix(l, "# ")
+		if strings.HasPrefix(l, "# { id = ") {
+			l = " " + strings.TrimPrefix(l, "#")
 		}
 		out = append(out, l)
 	}
@@ -69,46 +62,41 @@ func TestInit(t *testing.T) {
 	text := string(b)
 	for _, want := range []string{
 		`file    = "data/cell4.csv"`,
-		"[[study]]\nid      = \"pressure-vs-melt-temp\"",
-		`# x       = "melt temp"`,
-		`# id      = "shrinkage-vs-pressure"`,
-		`# # group = "lot"`,
-		`# # order = "shot"`,
-		`# group = "lot"`,
+		"study = [\n" +
+			`# { id = "pressure-vs-melt-temp", dataset = "data", x = "melt temp", y = "pressure" },   # neither is clearly a setting` + "\n" +
+			`# { id = "shrinkage-vs-melt-temp", dataset = "data", x = "melt temp", y = "shrinkage" }, # neither is clearly a setting` + "\n" +
+			`# { id = "shrinkage-vs-pressure", dataset = "data", x = "pressure", y = "shrinkage" },   # neither is clearly a setting` + "\n" +
+			"]\n",
+		`# To add to a study: group = "lot", order = "shot"`,
 		`#   shot                 numeric, rises by 1 each row`,
 		`#   line                 numeric, constant (4)`,
+		`#   melt temp            numeric, 228.9 to 233.1, 0 missing: a measurement`,
 		`# "melt temp" = ""`,
 		`design = "observational"`,
+		"# How init chose",
 	} {
 		if !strings.Contains(text, want) {
 			t.Errorf("manifest lacks %q:\n%s", want, text)
 		}
 	}
 	// The counter and the constant column are not paired.
-	for _, bad := range []string{`x       = "shot"`, `y       = "line"`, `x       = "line"`} {
+	for _, bad := range []string{`x = "shot"`, `y = "line"`, `x = "line"`} {
 		if strings.Contains(text, bad) {
 			t.Errorf("manifest pairs a counter or constant column: %q", bad)
 		}
 	}
-	if n := strings.Count(text, "# [[study]]"); n != 2 {
-		t.Errorf("%d commented-out studies, want 2 (three pairs of melt temp, pressure, shrinkage; the first active)", n)
-	}
-	if !strings.Contains(stderr, "bivar run") {
-		t.Errorf("init does not say what to run next: %q", stderr)
+	if !strings.Contains(stderr, "3 candidate studies (none active") || !strings.Contains(stderr, "then bivar run") {
+		t.Errorf("init does not say that none is active and what to do next: %q", stderr)
 	}
 
-	// As written it loads with the first study active; with the others
-	// uncommented it loads with all three.
-	m, err := manifest.Load(dest)
-	if err != nil {
-		t.Fatalf("the manifest as written does not load: %v\n%s", err, text)
-	}
-	if len(m.Studies) != 1 || m.Studies[0].ID != "pressure-vs-melt-temp" {
-		t.Errorf("as written: studies %+v, want the first pair only", m.Studies)
+	// As written no study is chosen, and the loader says so; with the
+	// lines uncommented it loads with all three.
+	if _, err := manifest.Load(dest); err == nil || !strings.Contains(err.Error(), "no [[study]] declared") {
+		t.Errorf("the manifest as written: %v; want the loader to ask for a study", err)
 	}
 	chosen := filepath.Join(dir, "chosen.toml")
 	writeFile(t, chosen, uncommentStudies(text))
-	m, err = manifest.Load(chosen)
+	m, err := manifest.Load(chosen)
 	if err != nil {
 		t.Fatalf("the manifest with its studies uncommented does not load: %v\n%s", err, uncommentStudies(text))
 	}
@@ -138,7 +126,7 @@ func TestInitDefaultPathAndDecimalComma(t *testing.T) {
 		t.Fatalf("no bivar.toml beside the CSV: %v", err)
 	}
 	text := string(b)
-	for _, want := range []string{`delimiter = ";"`, `decimal = ","`, `id      = "b-vs-a"`, `# group = "c"`} {
+	for _, want := range []string{`delimiter = ";"`, `decimal = ","`, `# { id = "b-vs-a", dataset = "data", x = "a", y = "b" }`, `# To add to a study: group = "c"`} {
 		if !strings.Contains(text, want) {
 			t.Errorf("manifest lacks %q:\n%s", want, text)
 		}
@@ -250,7 +238,9 @@ func TestInitBadInput(t *testing.T) {
 func TestInitBadCell(t *testing.T) {
 	dir := t.TempDir()
 	p := filepath.Join(dir, "d.csv")
-	writeFile(t, p, "temp,gloss\n180.5,71\n182.0,n/a?\n185.5,74\n188.0,77\n190.5,78\n")
+	// Invented data: temp is a setting (three evenly spaced values, each
+	// twice), gloss a measurement, so the one pair is active.
+	writeFile(t, p, "temp,gloss\n180,71\n180,n/a?\n185,74\n185,75.5\n190,77\n190,78\n")
 	dest := filepath.Join(dir, "bivar.toml")
 	code, _, stderr := call(t, "init", "-o", dest, p)
 	if code != exitOK {
@@ -261,7 +251,7 @@ func TestInitBadCell(t *testing.T) {
 	}
 	b, _ := os.ReadFile(dest)
 	text := string(b)
-	for _, want := range []string{"\nnon_numeric = \"missing\"", `gloss: 1 not a number (first: line 3: "n/a?")`, "[[study]]\nid      = \"gloss-vs-temp\""} {
+	for _, want := range []string{"\nnon_numeric = \"missing\"", `gloss: 1 not a number (first: line 3: "n/a?")`, "study = [\n  { id = \"gloss-vs-temp\", dataset = \"data\", x = \"temp\", y = \"gloss\" }, # setting on x, measurement on y\n]"} {
 		if !strings.Contains(text, want) {
 			t.Errorf("manifest lacks %q:\n%s", want, text)
 		}
@@ -397,6 +387,345 @@ func FuzzInit(f *testing.F) {
 		}
 		if want := min(len(prof.pairs()), initMaxPairs); len(got.Studies) != want {
 			t.Fatalf("%d studies loaded, want %d", len(got.Studies), want)
+		}
+	})
+}
+
+// initManifestFor profiles csv (written to a temporary file) and returns
+// init's manifest for it.
+func initManifestFor(t *testing.T, csv string) (*csvProfile, string) {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), "d.csv")
+	writeFile(t, p, csv)
+	prof, err := profileCSV(p)
+	if err != nil {
+		t.Fatalf("profileCSV: %v", err)
+	}
+	return prof, initManifest(prof, "d.csv")
+}
+
+// studyLines returns the candidate lines of a manifest, commented or not.
+func studyLines(text string) []string {
+	var out []string
+	for _, l := range strings.Split(text, "\n") {
+		if t := strings.TrimLeft(l, "# "); strings.HasPrefix(t, "{ id = ") {
+			out = append(out, l)
+		}
+	}
+	return out
+}
+
+// TestInitNile: a year column and one measurement (the Nile's annual flow,
+// as statsmodels 0.13.5 publishes it; testdata/README.md) is not refused:
+// the year is time, offered as order and put on x; the one study is left
+// commented out (it is a series, not a setting with a response), and once
+// chosen it runs.
+func TestInitNile(t *testing.T) {
+	dir := t.TempDir()
+	data, err := os.ReadFile(filepath.Join("testdata", "nile.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	csvPath := filepath.Join(dir, "nile.csv")
+	writeFile(t, csvPath, string(data))
+	dest := filepath.Join(dir, "bivar.toml")
+	code, _, stderr := call(t, "init", csvPath)
+	if code != exitOK {
+		t.Fatalf("bivar init on the Nile data: exit %d\n%s", code, stderr)
+	}
+	b, _ := os.ReadFile(dest)
+	text := string(b)
+	for _, want := range []string{
+		"#   year                 numeric, 1871 to 1970, 0 missing: time, never falling (try it as order; x only)",
+		"#   volume               numeric, 456 to 1370, 0 missing: a measurement",
+		`# To add to a study: order = "year"`,
+		"study = [\n" + `# { id = "volume-vs-year", dataset = "data", x = "year", y = "volume" }, # a series in time: time on x` + "\n]",
+	} {
+		if !strings.Contains(text, want) {
+			t.Errorf("manifest lacks %q:\n%s", want, text)
+		}
+	}
+	if !strings.Contains(stderr, "1 candidate study (none active") {
+		t.Errorf("stderr: %q", stderr)
+	}
+	writeFile(t, dest, uncommentStudies(text))
+	if code, _, stderr := call(t, "run", dest); code != exitOK {
+		t.Errorf("bivar run with the study chosen: exit %d\n%s", code, stderr)
+	}
+}
+
+// TestInitRoles: which pairs init writes, which way round, and when one is
+// left active (initRules). All data here are invented.
+func TestInitRoles(t *testing.T) {
+	cases := []struct {
+		name, csv string
+		lines     []string // the candidate lines, in order, without their comments
+	}{
+		{
+			// One setting (three evenly spaced temperatures, each twice),
+			// one measurement, a run counter: the one pair is active, the
+			// setting on x although it is the later column.
+			"setting and response",
+			"run,strength,temp\n1,41.2,160\n2,44.0,170\n3,47.1,180\n4,40.8,160\n5,44.5,170\n6,46.6,180\n",
+			[]string{`  { id = "strength-vs-temp", dataset = "data", x = "temp", y = "strength" },`},
+		},
+		{
+			// Settings in equal ratios (1, 10, 100) count too.
+			"ratio setting",
+			"dose,response\n1,2.1\n10,3.9\n100,6.2\n1,2.3\n10,4.2\n100,5.8\n",
+			[]string{`  { id = "response-vs-dose", dataset = "data", x = "dose", y = "response" },`},
+		},
+		{
+			// Two settings of a designed experiment and one response: the
+			// settings are not paired with each other, and with two pairs of
+			// a setting with a response, none is active.
+			"two settings",
+			"air,water,loss\n50,18,7.1\n60,18,8.9\n70,18,11.2\n50,22,7.8\n60,22,9.6\n70,22,12.4\n",
+			[]string{
+				`# { id = "loss-vs-air", dataset = "data", x = "air", y = "loss" },`,
+				`# { id = "loss-vs-water", dataset = "data", x = "water", y = "loss" },`,
+			},
+		},
+		{
+			// Year and quarter are never paired with each other, time is
+			// always on x, never on y; the two measurements pair with
+			// each other first.
+			"year and quarter",
+			"year,quarter,gdp,unemp\n2001,1,100.2,5.1\n2001,2,101.0,5.0\n2001,3,101.9,5.2\n2001,4,102.5,5.4\n2002,1,103.1,5.3\n2002,2,103.0,5.6\n",
+			[]string{
+				`# { id = "unemp-vs-gdp", dataset = "data", x = "gdp", y = "unemp" },`,
+				`# { id = "gdp-vs-year", dataset = "data", x = "year", y = "gdp" },`,
+				`# { id = "unemp-vs-year", dataset = "data", x = "year", y = "unemp" },`,
+				`# { id = "gdp-vs-quarter", dataset = "data", x = "quarter", y = "gdp" },`,
+				`# { id = "unemp-vs-quarter", dataset = "data", x = "quarter", y = "unemp" },`,
+			},
+		},
+		{
+			// A decimal date after the measurement still goes on x.
+			"decimal date",
+			"co2,decimal date\n315.7,1958.2\n317.5,1958.3\n317.5,1958.4\n317.1,1958.5\n315.9,1958.6\n",
+			[]string{`# { id = "co2-vs-decimal-date", dataset = "data", x = "decimal date", y = "co2" },`},
+		},
+		{
+			// Whole numbers rising by one in the range of years, without a
+			// time word in the name, are time too.
+			"unnamed year",
+			"yy,level\n1990,3.1\n1991,2.7\n1992,3.6\n1993,3.3\n",
+			[]string{`# { id = "level-vs-yy", dataset = "data", x = "yy", y = "level" },`},
+		},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			_, text := initManifestFor(t, tc.csv)
+			got := studyLines(text)
+			for i := range got {
+				got[i] = strings.TrimRight(strings.Split(got[i], " # ")[0], " ")
+			}
+			if !reflect.DeepEqual(got, tc.lines) {
+				t.Errorf("candidate lines\ngot  %q\nwant %q\n%s", got, tc.lines, text)
+			}
+		})
+	}
+}
+
+// TestInitStackLoss: Brownlee's stack loss data (as statsmodels 0.13.5
+// publishes them; testdata/README.md). The three operating settings were
+// not set on evenly spaced levels, so no pair is clearly a setting with a
+// response and none is left active (before, the first active study paired
+// two settings); the response, stack loss, is on y against the two columns
+// with few values (air flow, water temperature).
+func TestInitStackLoss(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join("testdata", "stackloss.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, text := initManifestFor(t, string(data))
+	var got []string
+	for _, l := range studyLines(text) {
+		got = append(got, strings.TrimRight(strings.Split(l, " # ")[0], " "))
+	}
+	want := []string{
+		`# { id = "stackloss-vs-airflow", dataset = "data", x = "AIRFLOW", y = "STACKLOSS" },`,
+		`# { id = "stackloss-vs-watertemp", dataset = "data", x = "WATERTEMP", y = "STACKLOSS" },`,
+		`# { id = "acidconc-vs-stackloss", dataset = "data", x = "STACKLOSS", y = "ACIDCONC" },`,
+		`# { id = "watertemp-vs-airflow", dataset = "data", x = "AIRFLOW", y = "WATERTEMP" },`,
+		`# { id = "acidconc-vs-airflow", dataset = "data", x = "AIRFLOW", y = "ACIDCONC" },`,
+		`# { id = "acidconc-vs-watertemp", dataset = "data", x = "WATERTEMP", y = "ACIDCONC" },`,
+	}
+	if !reflect.DeepEqual(got, want) {
+		t.Errorf("candidate lines\ngot  %q\nwant %q", got, want)
+	}
+}
+
+// TestInitDatesOnly: a date column and one measurement (the shape of the
+// weekly CO2 series statsmodels publishes: a date index and co2; these
+// numbers are invented) give no pair, and the message says how to get one.
+func TestInitDatesOnly(t *testing.T) {
+	dir := t.TempDir()
+	p := filepath.Join(dir, "co2.csv")
+	writeFile(t, p, "date,co2\n1958-03-29,316.1\n1958-04-05,317.3\n1958-04-12,317.6\n1958-04-19,317.5\n")
+	code, _, stderr := call(t, "init", "-o", filepath.Join(dir, "m.toml"), p)
+	if want := "the columns are date (dates), co2 (numeric); add a numeric column, or check that numbers are written with one decimal mark throughout; column date holds dates, which are text to bivar: to study a measurement against time, add a numeric time column beside it (a decimal year such as 1958.24, or a day count); no manifest written"; code != exitFailed || !strings.Contains(stderr, want) {
+		t.Errorf("exit %d, stderr\n%s\nwant 1 and %q", code, stderr, want)
+	}
+}
+
+// TestInitDates: a text column of calendar dates is recognised, not taken
+// for a group, and the file is not refused (invented data).
+func TestInitDates(t *testing.T) {
+	prof, text := initManifestFor(t, "day,yield,ph\n2024-03-01,81.2,6.9\n2024-03-02,79.5,7.1\n2024-03-04,83.0,6.8\n2024-03-05,80.1,7.0\n")
+	if !prof.cols[0].dates {
+		t.Errorf("dates not recognised: %+v", prof.cols[0])
+	}
+	for _, want := range []string{"#   day                  text, calendar dates", `# { id = "ph-vs-yield"`} {
+		if !strings.Contains(text, want) {
+			t.Errorf("manifest lacks %q:\n%s", want, text)
+		}
+	}
+	if strings.Contains(text, `group = "day"`) {
+		t.Errorf("a date column offered as group:\n%s", text)
+	}
+}
+
+// TestParseGrouped: numbers written with a separator between thousands.
+func TestParseGrouped(t *testing.T) {
+	cases := []struct {
+		s            string
+		decimalComma bool
+		v            float64
+		sep          rune
+		ok           bool
+	}{
+		{"1,120", false, 1120, ',', true},
+		{"-12,345.75", false, -12345.75, ',', true},
+		{"1,234,567", false, 1234567, ',', true},
+		{"1.234,5", true, 1234.5, '.', true},
+		{"12 345,5", true, 12345.5, ' ', true},
+		{"1\u00a0000", false, 1000, '\u00a0', true},
+		{"1\u202f000,25", true, 1000.25, '\u202f', true},
+		{"1'000'000", false, 1e6, '\'', true},
+		{"1,12", false, 0, 0, false},      // a group of two digits
+		{"1,1200", false, 0, 0, false},    // a group of four
+		{"1234,567", false, 0, 0, false},  // a first group of four
+		{"1,234.5.6", false, 0, 0, false}, // two marks
+		{"1.234", false, 0, 0, false},     // a plain number (the point is the mark)
+		{"1,234", true, 0, 0, false},      // likewise with a decimal comma
+		{",123", false, 0, 0, false},
+		{"1,234 567", false, 0, 0, false}, // two separators
+		{"1x234", false, 0, 0, false},
+		{"--1,234", false, 0, 0, false},
+	}
+	for _, c := range cases {
+		v, sep, ok := parseGrouped(c.s, c.decimalComma)
+		if ok != c.ok || ok && (v != c.v || sep != c.sep) {
+			t.Errorf("parseGrouped(%q, %v) = %v, %q, %v; want %v, %q, %v", c.s, c.decimalComma, v, sep, ok, c.v, c.sep, c.ok)
+		}
+	}
+}
+
+// TestInitThousands: numbers with thousands separators are read as numbers
+// and init says which separator it took (invented data; the first file has
+// the shape of the Nile data with separators, as a spreadsheet exports
+// them).
+func TestInitThousands(t *testing.T) {
+	cases := []struct {
+		name, csv, col, sep string
+	}{
+		{"comma", "year,volume\n1871,\"1,120\"\n1872,\"1,160\"\n1873,963\n1874,\"1,210\"\n", "volume", `a comma ","`},
+		{"point, decimal comma", "lot;mass;temp\na;1.234,5;20,5\nb;1.302,0;21,0\nc;998,5;21,5\nd;1.100,25;22,0\n", "mass", `a point "."`},
+		{"space", "x;y\n1,5;12 500\n2,5;13 250\n3,0;12 980\n4,5;14 010\n", "y", "a space"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			p := filepath.Join(dir, "d.csv")
+			writeFile(t, p, tc.csv)
+			dest := filepath.Join(dir, "bivar.toml")
+			code, _, stderr := call(t, "init", "-o", dest, p)
+			if code != exitOK {
+				t.Fatalf("exit %d: %s", code, stderr)
+			}
+			want := "column \"" + tc.col + "\": thousands separated by " + tc.sep
+			if !strings.Contains(stderr, want) || !strings.Contains(stderr, "save the file without them") || !strings.Contains(stderr, "next: save "+p+" without thousands separators") {
+				t.Errorf("stderr lacks %q and what to do:\n%s", want, stderr)
+			}
+			b, _ := os.ReadFile(dest)
+			text := string(b)
+			if !strings.Contains(text, "#   "+tc.col+": thousands separated by "+tc.sep) || strings.Contains(text, "non_numeric = \"missing\"") {
+				t.Errorf("manifest does not name the separator, or counts the numbers as bad cells:\n%s", text)
+			}
+			if !strings.Contains(text, `y = "`+tc.col+`"`) && !strings.Contains(text, `x = "`+tc.col+`"`) {
+				t.Errorf("column %q not paired:\n%s", tc.col, text)
+			}
+		})
+	}
+	// Two different separators in one column: not numbers; the cells are
+	// reported as they were before.
+	prof, _ := initManifestFor(t, "a,b\n1,\"1,200\"\n2,\"1 300\"\n3,5\n4,6\n5,7\n6,8\n7,9\n8,10\n9,11\n10,12\n11,13\n12,14\n13,15\n14,16\n15,17\n16,18\n17,19\n18,20\n19,21\n20,22\n")
+	if c := prof.cols[1]; c.thousands != 0 || c.nonNumeric != 2 {
+		t.Errorf("mixed separators: thousands %q, %d non-numeric; want none and 2", c.thousands, c.nonNumeric)
+	}
+}
+
+// TestInitNotText: a spreadsheet or another binary file is named for what
+// it is, with what to do, and no manifest is written. The .xlsx and .ods
+// files are real ones written by pandas (testdata/README.md); the others
+// are the first bytes each format's specification gives.
+func TestInitNotText(t *testing.T) {
+	dir := t.TempDir()
+	read := func(name string) string {
+		b, err := os.ReadFile(filepath.Join("testdata", name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return string(b)
+	}
+	cases := []struct{ name, data, want string }{
+		{"book.xlsx", read("invented.xlsx"), `is an Excel workbook (.xlsx), not a CSV text file; open it in the program that wrote it and save (or export) the sheet with the data as "CSV UTF-8", one sheet per file, then run bivar init on the .csv file`},
+		{"book.ods", read("invented.ods"), "is an OpenDocument spreadsheet (.ods), not a CSV text file; open it"},
+		{"book.xls", "\xD0\xCF\x11\xE0\xA1\xB1\x1A\xE1" + strings.Repeat("\x00", 504), "is an Excel 97-2003 workbook (.xls) or another legacy Office file (OLE compound file), not a CSV text file; open it"},
+		{"data.zip", "PK\x03\x04\x14\x00\x00\x00data.csv", "is a ZIP archive, not a CSV text file; unpack it"},
+		{"data.csv", "\xFF\xFEa\x00,\x00b\x00\n\x00", `is UTF-16 text (little-endian); bivar reads UTF-8: save it again as "CSV UTF-8"`},
+		{"report.csv", "%PDF-1.7\n", "is a PDF document, not a CSV text file; export the data as CSV"},
+		{"data.bin", "ab\x00cd", "is a binary file, not CSV text (a NUL byte at byte 3)"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			p := filepath.Join(dir, tc.name)
+			writeFile(t, p, tc.data)
+			dest := filepath.Join(dir, tc.name+".toml")
+			code, _, stderr := call(t, "init", "-o", dest, p)
+			if code != exitFailed || !strings.Contains(stderr, "bivar init: "+p+" "+tc.want) {
+				t.Errorf("exit %d, stderr\n%s\nwant 1 and %q", code, stderr, tc.want)
+			}
+			if strings.Contains(stderr, "UTF-8 text (a byte") {
+				t.Errorf("the encoding message for a binary file: %s", stderr)
+			}
+			if _, err := os.Stat(dest); err == nil {
+				t.Error("a manifest was written")
+			}
+		})
+	}
+}
+
+// FuzzParseGrouped: any text gives an answer without a panic, and a number
+// read with separators equals the number with them taken out.
+func FuzzParseGrouped(f *testing.F) {
+	for _, s := range []string{"1,120", "1.234,5", "12 345", "1'000'000.5", "-1,234", "1,2,3"} {
+		f.Add(s, false)
+		f.Add(s, true)
+	}
+	f.Fuzz(func(t *testing.T, s string, decimalComma bool) {
+		v, sep, ok := parseGrouped(s, decimalComma)
+		if !ok {
+			return
+		}
+		plain := strings.ReplaceAll(s, string(sep), "")
+		if decimalComma {
+			plain = strings.Replace(plain, ",", ".", 1)
+		}
+		if w, err := strconv.ParseFloat(plain, 64); err != nil || w != v {
+			t.Fatalf("parseGrouped(%q, %v) = %v, %q; without the separator %q reads %v, %v", s, decimalComma, v, sep, plain, w, err)
 		}
 	})
 }

@@ -98,8 +98,13 @@ its report.
 			Short: "write a starting manifest for a data file",
 			Long: `Reads the header and the numeric columns of CSV and writes a starting
 manifest (default bivar.toml beside the CSV) with each key documented and
-the first sensible pair as a study and every other pair left commented out
-for you to choose, so "bivar init" then "bivar run" gives a first report.
+one line per candidate pair of columns. The pairs are left commented out
+for you to choose, unless exactly one pair is a setting (few evenly spaced
+values) with a measurement: that one is active, so "bivar run" gives a
+first report at once. Time columns (year, quarter, date, ...) go on x only
+and are offered as order; the manifest says how each choice was made.
+Numbers with thousands separators are read as numbers, and the separator
+is named; a spreadsheet or other binary file is named, with what to do.
 An existing manifest is never overwritten without --force. A file without
 at least two numeric columns that vary is refused: there is nothing to pair.`,
 			Run: runInit,

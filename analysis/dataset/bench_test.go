@@ -72,3 +72,39 @@ func benchmarkRead(b *testing.B, n int, delim string, decimalComma bool) {
 func BenchmarkRead1e3(b *testing.B)             { benchmarkRead(b, 1e3, ",", false) }
 func BenchmarkRead1e6(b *testing.B)             { benchmarkRead(b, 1e6, ",", false) }
 func BenchmarkRead1e6DecimalComma(b *testing.B) { benchmarkRead(b, 1e6, ";", true) }
+
+// benchmarkFile reads the file nN.csv written by the project's data
+// generator (/work/shared/tools/bench/gen_data.py, columns x,y,t) from the
+// folder named by BIVAR_BENCH_DATA; it skips when the variable is unset.
+func benchmarkFile(b *testing.B, n int) {
+	dir := os.Getenv("BIVAR_BENCH_DATA")
+	if dir == "" {
+		b.Skip("BIVAR_BENCH_DATA is not set: generate files with gen_data.py and name their folder")
+	}
+	path := filepath.Join(dir, fmt.Sprintf("n%d.csv", n))
+	st, err := os.Stat(path)
+	if err != nil {
+		b.Skip(err)
+	}
+	b.SetBytes(st.Size())
+	b.ReportAllocs()
+	cpu := cpuTime()
+	for b.Loop() {
+		t, err := Read(path, Options{}, []string{"x", "y", "t"}, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if t.Rows != n {
+			b.Fatalf("Rows = %d, want %d", t.Rows, n)
+		}
+	}
+	// CPU time says more than wall time on a machine shared with other
+	// jobs; it includes the benchmark's own small overhead.
+	if end := cpuTime(); cpu >= 0 && end >= 0 {
+		b.ReportMetric(float64(end-cpu)/float64(b.N), "cpu-ns/op")
+	}
+}
+
+// Three numeric columns of the generated benchmark data.
+func BenchmarkReadFile1e5(b *testing.B) { benchmarkFile(b, 100000) }
+func BenchmarkReadFile1e6(b *testing.B) { benchmarkFile(b, 1000000) }

@@ -245,3 +245,52 @@ func FuzzNumber(f *testing.F) {
 		}
 	})
 }
+
+// FuzzPlainAgrees: on text without double quotes the plain splitter reads
+// what encoding/csv (the standard library's reader, used for blocks with
+// quotes) reads: the same rows, cells, counts and first problem.
+func FuzzPlainAgrees(f *testing.F) {
+	for _, s := range []string{"1,2\n3,4\n", "1;2\r\n\r\n 3 ;NA\r", "a,b\n,\n\n1e5,-.5\n", "1,2,3\n", "\xff,2\n1,\r2\n"} {
+		f.Add(s, byte(','))
+		f.Add(s, byte(';'))
+	}
+	f.Fuzz(func(t *testing.T, data string, delim byte) {
+		if strings.ContainsRune(data, '"') || (delim != ',' && delim != ';' && delim != '\t') {
+			return
+		}
+		cfg := &config{path: "f.csv", delim: delim, fields: 2, last: 1, byIndex: []int{0, 1},
+			cols: []*column{{name: "a", index: 0, numeric: true, text: true}, {name: "b", index: 1, numeric: true}},
+			missing: DefaultMissing(), lim: DefaultLimits()}
+		plain := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}
+		quoted := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}
+		plain.parsePlain(cfg, []byte(data), 2)
+		quoted.parseQuoted(cfg, []byte(data), 2)
+		texts := func(p *part) []string {
+			var out []string
+			for _, sp := range p.texts[0].spans {
+				out = append(out, string(p.texts[0].arena[sp.off:sp.off+sp.n]))
+			}
+			return out
+		}
+		errText := func(e error) string {
+			if e == nil {
+				return ""
+			}
+			return e.Error()
+		}
+		firstText := func(e *Error) string {
+			if e == nil {
+				return ""
+			}
+			return e.Error()
+		}
+		if plain.rows != quoted.rows || errText(plain.err) != errText(quoted.err) || firstText(plain.first) != firstText(quoted.first) ||
+			plain.more != quoted.more || !reflect.DeepEqual(plain.missing, quoted.missing) || plain.mark != quoted.mark ||
+			!sameFloats(plain.nums[0], quoted.nums[0]) || !sameFloats(plain.nums[1], quoted.nums[1]) ||
+			!reflect.DeepEqual(texts(plain), texts(quoted)) {
+			t.Fatalf("%q: plain and encoding/csv differ:\nplain  %d rows, err %v, first %v, nums %v %v, texts %q\ncsv    %d rows, err %v, first %v, nums %v %v, texts %q",
+				data, plain.rows, plain.err, plain.first, plain.nums[0], plain.nums[1], texts(plain),
+				quoted.rows, quoted.err, quoted.first, quoted.nums[0], quoted.nums[1], texts(quoted))
+		}
+	})
+}

@@ -555,7 +555,7 @@ func csvError(path string, err error, rec []string, want, off int) error {
 	switch {
 	case errors.Is(pe.Err, csv.ErrFieldCount):
 		e.Line = pe.StartLine + off
-		e.Msg = fmt.Sprintf("this row has %s but the header has %d: look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes", fieldCount(len(rec)), want)
+		e.Msg = fieldCountMsg(len(rec), want)
 	case errors.Is(pe.Err, csv.ErrBareQuote):
 		e.Msg = fmt.Sprintf("a double quote inside an unquoted field (character %d): put the whole field in double quotes and write the quote twice (\"\")", pe.Column)
 	case errors.Is(pe.Err, csv.ErrQuote):

@@ -259,7 +259,7 @@ func FuzzPlainAgrees(f *testing.F) {
 			return
 		}
 		cfg := &config{path: "f.csv", delim: delim, fields: 2, last: 1, byIndex: []int{0, 1},
-			cols: []*column{{name: "a", index: 0, numeric: true, text: true}, {name: "b", index: 1, numeric: true}},
+			cols:    []*column{{name: "a", index: 0, numeric: true, text: true}, {name: "b", index: 1, numeric: true}},
 			missing: DefaultMissing(), lim: DefaultLimits()}
 		plain := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}
 		quoted := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}

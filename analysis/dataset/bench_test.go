@@ -108,3 +108,7 @@ func benchmarkFile(b *testing.B, n int) {
 // Three numeric columns of the generated benchmark data.
 func BenchmarkReadFile1e5(b *testing.B) { benchmarkFile(b, 100000) }
 func BenchmarkReadFile1e6(b *testing.B) { benchmarkFile(b, 1000000) }
+
+// BenchmarkReadFile1e7 is run once, under /usr/bin/time -v for the peak
+// memory, by testdata/read1e7.sh.
+func BenchmarkReadFile1e7(b *testing.B) { benchmarkFile(b, 10000000) }

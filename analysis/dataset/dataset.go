@@ -93,7 +93,7 @@ type Error struct {
 	File   string
 	Line   int    // 1-based line in the file; 0 when not about one line
 	Column string // header name of the column concerned, "" if none
-	Text   string // the offending cell text, if any
+	Text   string // the offending cell text, if any; cut to 80 characters and "…"
 	Msg    string // what is wrong and what to do
 
 	err error // the underlying error, if any

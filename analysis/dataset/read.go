@@ -191,6 +191,12 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 				p = parseBlock(cfg, j.data, j.line, mark, markLine)
 			}
 		}
+		// The rows a block counted all come before the place where it
+		// stopped, if it did: a file over the row limit says so first.
+		t.Rows += p.rows
+		if t.Rows > lim.MaxRows {
+			return nil, &Error{File: path, Msg: fmt.Sprintf("the file has more than %d data rows, the limit: check that it is the data file meant; if it is, raise max_rows for the dataset", lim.MaxRows)}
+		}
 		for i, c := range cols {
 			if !c.group {
 				continue
@@ -212,10 +218,6 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 		}
 		if p.err != nil {
 			return nil, p.err
-		}
-		t.Rows += p.rows
-		if t.Rows > lim.MaxRows {
-			return nil, &Error{File: path, Msg: fmt.Sprintf("the file has more than %d data rows, the limit: check that it is the data file meant; if it is, raise max_rows for the dataset", lim.MaxRows)}
 		}
 		if mark == 0 && p.mark != 0 {
 			mark, markLine = p.mark, p.markLine

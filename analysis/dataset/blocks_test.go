@@ -15,19 +15,22 @@ import (
 // All data in these tests are invented for the tests.
 
 // blockFile writes rows enough to fill several read blocks: a quoted id
-// (some with a comma, a doubled quote or a line break inside), numbers in
-// several spellings, NA cells, CRLF line ends and blank lines.
-func blockFile(rows int) string {
+// (some with a comma, a doubled quote or a line break inside, unless
+// simple), numbers in several spellings, NA cells, CRLF line ends and
+// blank lines.
+func blockFile(rows int, simple bool) string {
 	rng := rand.New(rand.NewPCG(7, 8))
 	var b strings.Builder
 	b.WriteString("id,x,note,y\r\n")
 	for i := range rows {
-		switch i % 5 {
-		case 0:
+		switch {
+		case simple && i%5 != 4:
+			fmt.Fprintf(&b, "\"r%d\"", i)
+		case i%5 == 0:
 			fmt.Fprintf(&b, "\"r%d, a\"", i)
-		case 1:
+		case i%5 == 1:
 			fmt.Fprintf(&b, "\"r%d\nsecond line\"", i)
-		case 2:
+		case i%5 == 2:
 			fmt.Fprintf(&b, "\"say \"\"r%d\"\"\"", i)
 		default:
 			fmt.Fprintf(&b, "r%d", i)
@@ -54,7 +57,16 @@ func blockFile(rows int) string {
 // rounded numbers).
 func TestBlocksAgree(t *testing.T) {
 	t.Parallel()
-	src := blockFile(120000)
+	for _, simple := range []bool{false, true} {
+		t.Run(fmt.Sprintf("simple quotes %v", simple), func(t *testing.T) {
+			t.Parallel()
+			blocksAgree(t, blockFile(120000, simple))
+		})
+	}
+}
+
+func blocksAgree(t *testing.T, src string) {
+	t.Helper()
 	if len(src) < 3*blockSize {
 		t.Fatalf("the file has %d bytes, want several blocks of %d", len(src), blockSize)
 	}
@@ -246,16 +258,19 @@ func FuzzNumber(f *testing.F) {
 	})
 }
 
-// FuzzPlainAgrees: on text without double quotes the plain splitter reads
+// FuzzPlainAgrees: on text it takes (no double quotes, or quotes around
+// whole fields that hold no quote, delimiter or line break) the plain
+// splitter reads
 // what encoding/csv (the standard library's reader, used for blocks with
 // quotes) reads: the same rows, cells, counts and first problem.
 func FuzzPlainAgrees(f *testing.F) {
-	for _, s := range []string{"1,2\n3,4\n", "1;2\r\n\r\n 3 ;NA\r", "a,b\n,\n\n1e5,-.5\n", "1,2,3\n", "\xff,2\n1,\r2\n"} {
+	for _, s := range []string{"1,2\n3,4\n", "1;2\r\n\r\n 3 ;NA\r", "a,b\n,\n\n1e5,-.5\n", "1,2,3\n", "\xff,2\n1,\r2\n",
+		"\"1.5\",\"A\"\n\"\",2\n", "\"1,5\";2\n", " \"1\",2\n", "\"1\" ,2\n", "\"a\"\"b\",1\n", "\"1\",\"2\",\"3\"\n"} {
 		f.Add(s, byte(','))
 		f.Add(s, byte(';'))
 	}
 	f.Fuzz(func(t *testing.T, data string, delim byte) {
-		if strings.ContainsRune(data, '"') || (delim != ',' && delim != ';' && delim != '\t') {
+		if delim != ',' && delim != ';' && delim != '\t' {
 			return
 		}
 		cfg := &config{path: "f.csv", delim: delim, fields: 2, last: 1, byIndex: []int{0, 1},
@@ -263,7 +278,9 @@ func FuzzPlainAgrees(f *testing.F) {
 			missing: DefaultMissing(), lim: DefaultLimits()}
 		plain := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}
 		quoted := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}
-		plain.parsePlain(cfg, []byte(data), 2)
+		if !plain.parsePlain(cfg, []byte(data), 2) {
+			return // quoting the plain splitter leaves to encoding/csv
+		}
 		quoted.parseQuoted(cfg, []byte(data), 2)
 		texts := func(p *part) []string {
 			var out []string
@@ -293,4 +310,28 @@ func FuzzPlainAgrees(f *testing.F) {
 				quoted.rows, quoted.err, quoted.first, quoted.nums[0], quoted.nums[1], texts(quoted))
 		}
 	})
+}
+
+// TestPlainQuotes: which quoted rows the plain splitter takes; the others
+// go to encoding/csv.
+func TestPlainQuotes(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		row  string
+		want bool
+	}{
+		{`"A",1.5,""`, true},
+		{`"3.969","5.657","1"`, true},
+		{`"a, b",1`, false},       // a delimiter inside the quotes
+		{`"say ""hi""",1`, false}, // doubled quotes
+		{` "A",1`, false},         // a space before the quote: a bare quote to encoding/csv
+		{`"A" ,1`, false},         // a space after it: an extraneous quote
+		{`"A`, false},             // a line break inside the quotes
+		{`"`, false},
+		{`1,2`, true},
+	} {
+		if got := plainQuotes([]byte(c.row), ','); got != c.want {
+			t.Errorf("plainQuotes(%s) = %v, want %v", c.row, got, c.want)
+		}
+	}
 }

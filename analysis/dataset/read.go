@@ -436,10 +436,19 @@ func rowsEnd(b []byte) int {
 // parseBlock parses whole rows starting on line line, with the decimal
 // mark state (mark, markLine) that holds at their start.
 func parseBlock(cfg *config, data []byte, line int, mark byte, markLine int) *part {
+	rows := bytes.Count(data, []byte{'\n'}) + 1
+	p := newPart(cfg, mark, markLine, rows)
+	if !p.parsePlain(cfg, data, line) {
+		p = newPart(cfg, mark, markLine, rows)
+		p.parseQuoted(cfg, data, line)
+	}
+	return p
+}
+
+func newPart(cfg *config, mark byte, markLine int, rows int) *part {
 	p := &part{assumed: packMark(mark, markLine), mark: mark, markLine: markLine,
 		nums: make([][]float64, len(cfg.cols)), texts: make([]textPart, len(cfg.cols)),
 		missing: make([]int, len(cfg.cols)), nonNum: make([]int, len(cfg.cols))}
-	rows := bytes.Count(data, []byte{'\n'}) + 1
 	for i, c := range cfg.cols {
 		if c.numeric {
 			p.nums[i] = getFloats(rows)
@@ -448,19 +457,18 @@ func parseBlock(cfg *config, data []byte, line int, mark byte, markLine int) *pa
 			p.texts[i].spans = make([]span, 0, rows)
 		}
 	}
-	if bytes.IndexByte(data, '"') >= 0 {
-		p.parseQuoted(cfg, data, line)
-	} else {
-		p.parsePlain(cfg, data, line)
-	}
 	return p
 }
 
-// parsePlain parses rows without double quotes: a field is the text
-// between delimiters, as encoding/csv reads it. Cells are views of data,
-// never kept.
-func (p *part) parsePlain(cfg *config, data []byte, line int) {
+// parsePlain parses rows whose double quotes, if any, only enclose whole
+// fields that hold no quote, delimiter or line break ("A", as many exports
+// write text): a field is the text between delimiters, without those
+// quotes, as encoding/csv reads it. Cells are views of data, never kept.
+// It returns false, having read part of the block, at the first row with
+// other quoting: the block is then for encoding/csv.
+func (p *part) parsePlain(cfg *config, data []byte, line int) bool {
 	delim := cfg.delim
+	quotes := bytes.IndexByte(data, '"') >= 0
 	for len(data) > 0 {
 		var rec []byte
 		if i := bytes.IndexByte(data, '\n'); i >= 0 {
@@ -476,13 +484,17 @@ func (p *part) parsePlain(cfg *config, data []byte, line int) {
 		if len(rec) == 0 {
 			continue // a blank line
 		}
+		quoted := quotes && bytes.IndexByte(rec, '"') >= 0
+		if quoted && !plainQuotes(rec, delim) {
+			return false
+		}
 		if len(rec) > MaxRowBytes {
 			p.err = rowTooLong(cfg.path, ln)
-			return
+			return true
 		}
 		if nf := bytes.Count(rec, []byte{delim}) + 1; nf != cfg.fields {
 			p.err = &Error{File: cfg.path, Line: ln, Msg: fieldCountMsg(nf, cfg.fields)}
-			return
+			return true
 		}
 		p.rows++
 		for f := 0; f <= cfg.last; f++ {
@@ -492,11 +504,35 @@ func (p *part) parsePlain(cfg *config, data []byte, line int) {
 			} else {
 				cell, rec = rec, nil
 			}
+			if quoted && len(cell) >= 2 && cell[0] == '"' {
+				cell = cell[1 : len(cell)-1]
+			}
 			if ci := cfg.byIndex[f]; ci >= 0 && p.cell(cfg, ci, unsafe.String(unsafe.SliceData(cell), len(cell)), ln) {
-				return
+				return true
 			}
 		}
 	}
+	return true
+}
+
+// plainQuotes reports whether every double quote in rec belongs to a pair
+// enclosing a whole field with no other quote inside.
+func plainQuotes(rec []byte, delim byte) bool {
+	for len(rec) > 0 {
+		f := rec
+		if i := bytes.IndexByte(rec, delim); i >= 0 {
+			f, rec = rec[:i], rec[i+1:]
+		} else {
+			rec = nil
+		}
+		if bytes.IndexByte(f, '"') < 0 {
+			continue
+		}
+		if len(f) < 2 || f[0] != '"' || f[len(f)-1] != '"' || bytes.IndexByte(f[1:len(f)-1], '"') >= 0 {
+			return false
+		}
+	}
+	return true
 }
 
 // parseQuoted parses rows with encoding/csv, which knows the quoting rules.

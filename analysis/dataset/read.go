@@ -20,10 +20,12 @@ import (
 // bytes, hashes them and cuts each after the last line end that is not
 // inside double quotes (a quote toggles; a malformed quote is reported by
 // the block that holds it, at the place a sequential read would report it).
-// Worker goroutines parse the blocks: a block without a double quote with a
-// plain splitter, one with quotes with encoding/csv. The calling goroutine
-// joins the blocks' columns in file order, so rows keep their order and
-// messages name the first problem in the file, as a sequential read would.
+// Worker goroutines (one per core) parse the blocks: with a plain splitter
+// when a block's quotes, if any, only enclose simple whole fields, else with
+// encoding/csv. The calling goroutine joins the blocks' columns in file
+// order, so rows keep their order and messages name the first problem in
+// the file, as a sequential read would. At most 2·GOMAXPROCS+3 blocks are
+// in memory at once, besides the columns read.
 //
 // The decimal mark, when it is to be detected, is the mark of the first
 // number that shows one; a block parsed before that was settled is parsed

@@ -335,3 +335,21 @@ func TestPlainQuotes(t *testing.T) {
 		}
 	}
 }
+
+// TestBlocksInchMark: one bare quote (12" as an inch mark) leaves the
+// rest of a large file inside quotes for the block cutter; the message is
+// still encoding/csv's, at the place a sequential read finds it.
+func TestBlocksInchMark(t *testing.T) {
+	t.Parallel()
+	src := "x,part\n" + strings.Repeat("1,bolt\n", 10) + "2,12\" pipe\n" + strings.Repeat("3,nut\n", MaxRowBytes/3)
+	_, err := read("data.csv", strings.NewReader(src), 0, Options{}, []string{"x"}, []string{"part"})
+	_, csvErr := csv.NewReader(strings.NewReader(src)).ReadAll()
+	var pe *csv.ParseError
+	if !errors.As(csvErr, &pe) || pe.Line != 12 {
+		t.Fatalf("encoding/csv: %v", csvErr)
+	}
+	want := fmt.Sprintf(`data.csv:12: a double quote inside an unquoted field (character %d): put the whole field in double quotes and write the quote twice ("")`, pe.Column)
+	if err == nil || err.Error() != want {
+		t.Errorf("error\ngot  %v\nwant %s", err, want)
+	}
+}

@@ -108,9 +108,14 @@ func notRegular(path string, st fs.FileInfo) error {
 	return &Error{File: path, Msg: "cannot read the data file: it " + what + "; bivar reads CSV data only from regular files, so save the data to a file and name that"}
 }
 
-// sizeError says the file is larger than the limit.
+// sizeError says the file is larger than the limit; size is its size, or
+// 0 when it was found out while reading.
 func sizeError(path string, size, limit int64) error {
-	return &Error{File: path, Msg: fmt.Sprintf("the file has %s, more than the limit of %s: check that it is the data file meant; if it is, raise max_bytes for the dataset", bytesText(size), bytesText(limit))}
+	has := "more than " + bytesText(limit) + ", the limit"
+	if size > 0 {
+		has = fmt.Sprintf("%s, more than the limit of %s", bytesText(size), bytesText(limit))
+	}
+	return &Error{File: path, Msg: "the file has " + has + ": check that it is the data file meant; if it is, raise max_bytes for the dataset"}
 }
 
 // bytesText writes a size in bytes and, from 1 KiB on, in binary units.

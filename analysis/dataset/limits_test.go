@@ -3,6 +3,7 @@ package dataset
 import (
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -153,6 +154,60 @@ func TestBytesText(t *testing.T) {
 	} {
 		if got := bytesText(c.n); got != c.want {
 			t.Errorf("bytesText(%d) = %q, want %q", c.n, got, c.want)
+		}
+	}
+}
+
+// failAfter is a reader that fails after n bytes.
+type failAfter struct {
+	r io.Reader
+	n int
+}
+
+func (f *failAfter) Read(p []byte) (int, error) {
+	if f.n <= 0 {
+		return 0, errors.New("device gone")
+	}
+	p = p[:min(len(p), f.n)]
+	n, err := f.r.Read(p)
+	f.n -= n
+	return n, err
+}
+
+// TestReadEdges: headers longer than the first read, a header past the
+// row limit, a quoted cell past it with rows after it, a file that grows
+// past its size limit while read, and a read that fails.
+func TestReadEdges(t *testing.T) {
+	t.Parallel()
+	var h strings.Builder
+	for i := range 20000 {
+		fmt.Fprintf(&h, "c%d,", i)
+	}
+	header := h.String() + "x\n" // more than readBuffer
+	row := strings.Repeat("0,", 20000) + "7\n"
+	tab, err := read("data.csv", strings.NewReader(header+row+row), 0, Options{}, []string{"x"}, nil)
+	if err != nil || tab.Rows != 2 || tab.Numeric["x"][1] != 7 {
+		t.Errorf("a %d-byte header: %v, %v", len(header), tab, err)
+	}
+	tooLong := "x" + strings.Repeat(",y", MaxRowBytes/2+1) + "\n1\n"
+	want := "data.csv:1: the row starting on this line is longer than 1048576 bytes (1 MiB), the longest row bivar reads: check that the file is CSV with one row per line and that every double quote is closed"
+	if _, err := read("data.csv", strings.NewReader(tooLong), 0, Options{}, []string{"x"}, nil); err == nil || err.Error() != want {
+		t.Errorf("a header over the row limit: %v\nwant %s", err, want)
+	}
+	longCell := "x,y\n1,2\n3,\"" + strings.Repeat("q", 2*MaxRowBytes) + "\"\n" + strings.Repeat("4,5\n", 1000)
+	want = "data.csv:3: the row starting on this line is longer than 1048576 bytes (1 MiB), the longest row bivar reads: check that the file is CSV with one row per line and that every double quote is closed"
+	if _, err := read("data.csv", strings.NewReader(longCell), 0, Options{}, []string{"x"}, nil); err == nil || err.Error() != want {
+		t.Errorf("a quoted cell over the row limit: %v\nwant %s", err, want)
+	}
+	big := "x\n" + strings.Repeat("1\n", blockSize)
+	want = "data.csv: the file has more than 1000 bytes, the limit: check that it is the data file meant; if it is, raise max_bytes for the dataset"
+	if _, err := read("data.csv", strings.NewReader(big), 0, Options{Limits: &Limits{MaxBytes: 1000, MaxRows: 1 << 30, MaxLevels: 1}}, []string{"x"}, nil); err == nil || err.Error() != want {
+		t.Errorf("a file growing past MaxBytes: %v\nwant %s", err, want)
+	}
+	want = "data.csv: reading the file: device gone"
+	for _, n := range []int{10, readBuffer + 10} {
+		if _, err := read("data.csv", &failAfter{strings.NewReader(big), n}, 0, Options{}, []string{"x"}, nil); err == nil || err.Error() != want {
+			t.Errorf("a read failing after %d bytes: %v\nwant %s", n, err, want)
 		}
 	}
 }

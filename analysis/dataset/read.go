@@ -5,6 +5,7 @@ import (
 	"crypto/sha256"
 	"encoding/csv"
 	"encoding/hex"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -353,7 +354,7 @@ func produce(cfg *config, r io.Reader, hd *head, h io.Writer, bufSize int, free 
 			}
 		}
 		if total > cfg.lim.MaxBytes {
-			fail(sizeError(cfg.path, total, cfg.lim.MaxBytes))
+			fail(sizeError(cfg.path, 0, cfg.lim.MaxBytes))
 			return
 		}
 		cutAt := n
@@ -363,7 +364,7 @@ func produce(cfg *config, r io.Reader, hd *head, h io.Writer, bufSize int, free 
 				if cutAt > 0 && !send(&job{data: buf[:cutAt], line: line, buf: buf, mark: shared.Load(), res: make(chan *part, 1)}) {
 					return
 				}
-				fail(rowTooLong(cfg.path, line+bytes.Count(buf[:cutAt], []byte{'\n'})))
+				fail(longRow(cfg, buf[cutAt:n], line+bytes.Count(buf[:cutAt], []byte{'\n'})))
 				return
 			}
 			if cutAt == 0 { // one row fills the buffer: make it larger
@@ -406,6 +407,33 @@ func getFloats(n int) []float64 {
 }
 
 func putFloats(s []float64) { floats.Put(&s) }
+
+// longRow explains rows that start on line line, outside quotes, and run
+// past MaxRowBytes without a line end outside quotes: encoding/csv finds a
+// malformed quote in them (an inch mark in 12" pipe leaves the rest of the
+// file inside quotes) where a sequential read would; else the row is too
+// long. An error on the last, cut line of data is not trusted.
+func longRow(cfg *config, data []byte, line int) error {
+	cr := csv.NewReader(bytes.NewReader(data))
+	cr.Comma = rune(cfg.delim)
+	cr.ReuseRecord = true
+	cr.FieldsPerRecord = cfg.fields
+	whole := bytes.Count(data, []byte{'\n'})
+	for {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			break
+		}
+		var pe *csv.ParseError
+		if errors.As(err, &pe) && pe.Line <= whole {
+			return csvError(cfg.path, err, rec, cfg.fields, line-1)
+		}
+		if err != nil {
+			break
+		}
+	}
+	return rowTooLong(cfg.path, line)
+}
 
 // grow returns b with at least n bytes of length, keeping its contents.
 func grow(b []byte, n int) []byte {

@@ -205,6 +205,22 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	}
 	opts.DecimalComma = ds.Decimal == ","
 	opts.DecimalPoint = ds.Decimal == "."
+	for _, st := range m.Studies {
+		if st.Dataset == ds.ID && st.Group != "" && !slices.Contains(opts.Groups, st.Group) {
+			opts.Groups = append(opts.Groups, st.Group)
+		}
+	}
+	lim := dataset.DefaultLimits()
+	if ds.MaxRows != nil {
+		lim.MaxRows = *ds.MaxRows
+	}
+	if ds.MaxBytes != nil {
+		lim.MaxBytes = int64(*ds.MaxBytes)
+	}
+	if ds.MaxLevels != nil {
+		lim.MaxLevels = *ds.MaxLevels
+	}
+	opts.Limits = &lim
 	path := ds.File
 	if !filepath.IsAbs(path) && m.Dir != "" {
 		path = filepath.Join(m.Dir, path)

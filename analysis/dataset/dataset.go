@@ -11,16 +11,17 @@
 // A cell in a numeric column that is not a number is an error naming file,
 // line, column and text, unless the dataset says such cells are missing.
 //
-// Read streams the file: it keeps only the requested columns, never the
-// text of the whole file, and hashes the bytes as it reads them.
+// Read streams the file in blocks of a few MiB, cut at row ends: it never
+// holds the text of the whole file, keeps only the requested columns (8
+// bytes per numeric cell), parses the blocks on every core and hashes the
+// bytes as it reads them. Limits bound the file's size, its rows, a row's
+// and a cell's length and a group column's distinct values (see Limits);
+// only regular files are read.
 package dataset
 
 import (
-	"bufio"
 	"bytes"
-	"crypto/sha256"
 	"encoding/csv"
-	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
@@ -30,6 +31,7 @@ import (
 	"strconv"
 	"strings"
 	"unicode/utf8"
+	"unsafe"
 
 	"bivar/analysis/internal/suggest"
 )
@@ -56,6 +58,12 @@ type Options struct {
 	// NonNumericAsMissing counts a non-numeric cell in a numeric column as
 	// missing (in Table.NonNumeric) instead of failing.
 	NonNumericAsMissing bool
+	// Groups names text columns that hold group levels (machine, lot,
+	// shift): each may hold at most Limits.MaxLevels distinct values. A
+	// name here that is not among the text columns read is ignored.
+	Groups []string
+	// Limits bound what is read; nil means DefaultLimits().
+	Limits *Limits
 }
 
 // DefaultMissing are the missing-value tokens when Options.Missing is nil.
@@ -85,7 +93,7 @@ type Error struct {
 	File   string
 	Line   int    // 1-based line in the file; 0 when not about one line
 	Column string // header name of the column concerned, "" if none
-	Text   string // the offending cell text, if any
+	Text   string // the offending cell text, if any; cut to 80 characters and "…"
 	Msg    string // what is wrong and what to do
 
 	err error // the underlying error, if any
@@ -109,244 +117,135 @@ func (e *Error) Error() string {
 	return b.String()
 }
 
-// readBuffer is the size of the read buffer; the header line must fit in
-// it for the delimiter to be detected.
+// readBuffer is the size of the first read; the delimiter is detected from
+// the part of the header line that fits in it.
 const readBuffer = 1 << 16
 
 // Read reads the columns named in numeric (as numbers) and text (as text)
 // from the CSV file at path. A column may be in both lists. Every named
-// column must be in the header; the others are skipped.
+// column must be in the header; the others are skipped. Only a regular
+// file is read (not a folder, a named pipe or a device), and only within
+// opts.Limits.
 func Read(path string, opts Options, numeric, text []string) (*Table, error) {
+	st, err := regularFile(path)
+	if err != nil {
+		return nil, err
+	}
+	lim := DefaultLimits()
+	if opts.Limits != nil {
+		lim = *opts.Limits
+	}
+	if st.Size() > lim.MaxBytes {
+		return nil, sizeError(path, st.Size(), lim.MaxBytes)
+	}
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, openError(path, err)
 	}
 	defer f.Close()
-	var size int64
-	if st, err := f.Stat(); err == nil {
-		size = st.Size()
-	}
-	return read(path, f, size, opts, numeric, text)
-}
-
-// column is one requested header column and where its cells go.
-type column struct {
-	name    string
-	index   int
-	numeric bool
-	text    bool
-	nums    []float64
-	texts   []string
-	missing int
-	nonNum  int
-	intern  map[string]string // repeated texts (groups, lots) kept once
-}
-
-// maxPrealloc bounds the rows a column is sized for before they are read
-// (an unusually short first row must not reserve a huge column).
-const maxPrealloc = 1 << 22
-
-// maxIntern bounds the distinct texts a column keeps shared copies of.
-const maxIntern = 1024
-
-// keep returns a copy of cell that does not pin the record's memory,
-// shared with earlier equal cells while the column has few distinct texts.
-func (c *column) keep(cell string) string {
-	if v, ok := c.intern[cell]; ok {
-		return v
-	}
-	v := strings.Clone(cell)
-	if len(c.intern) < maxIntern {
-		if c.intern == nil {
-			c.intern = map[string]string{}
-		}
-		c.intern[v] = v
-	}
-	return v
-}
-
-// read reads from r; size, when known (> 0), lets it size the columns
-// from the length of the first data row instead of growing them.
-func read(path string, r io.Reader, size int64, opts Options, numeric, text []string) (*Table, error) {
-	h := sha256.New()
-	br := bufio.NewReaderSize(io.TeeReader(r, h), readBuffer)
-	fail := func(line int, col, cell, format string, args ...any) error {
-		return &Error{File: path, Line: line, Column: col, Text: cell, Msg: fmt.Sprintf(format, args...)}
-	}
-
-	cr, delim, names, err := readHeader(path, br, opts.Delimiter)
-	if err != nil {
-		return nil, err
-	}
-	header := names
-	headerEnd := cr.InputOffset()
-	cols, err := selectColumns(path, names, numeric, text)
-	if err != nil {
-		return nil, err
-	}
-
-	missing := opts.Missing
-	if missing == nil {
-		missing = DefaultMissing()
-	}
-	isMissing := func(s string) bool {
-		for _, m := range missing {
-			if s == m {
-				return true
-			}
-		}
-		return false
-	}
-
-	// mark is the decimal mark: '.' or ',' once known, 0 while undecided.
-	var mark byte
-	var markLine int // where an undecided mark was decided, for messages
-	switch {
-	case opts.DecimalComma:
-		mark = ','
-	case opts.DecimalPoint, delim == ',':
-		mark = '.'
-	}
-	var first *Error // the first non-numeric cell
-	var more int     // non-numeric cells after it
-
-	rows := 0
-	for {
-		rec, err := cr.Read()
-		if err == io.EOF {
-			break
-		}
-		if err != nil {
-			return nil, csvError(path, err, rec, len(header))
-		}
-		rows++
-		if rows == 1 && size > 0 {
-			if per := cr.InputOffset() - headerEnd; per > 0 {
-				est := int(min((size-headerEnd)/per+16, maxPrealloc))
-				for _, c := range cols {
-					if c.numeric {
-						c.nums = slices.Grow(c.nums, est)
-					}
-					if c.text {
-						c.texts = slices.Grow(c.texts, est)
-					}
-				}
-			}
-		}
-		for _, c := range cols {
-			cell := strings.TrimSpace(rec[c.index])
-			miss := isMissing(cell)
-			if miss {
-				c.missing++
-			}
-			if c.text {
-				c.texts = append(c.texts, c.keep(cell))
-			}
-			if !c.numeric {
-				continue
-			}
-			if miss {
-				c.nums = append(c.nums, math.NaN())
-				continue
-			}
-			v, seen, ok := parseNumber(cell, mark)
-			if ok && mark == 0 && seen != 0 {
-				mark = seen
-				markLine, _ = cr.FieldPos(c.index)
-			}
-			if ok {
-				c.nums = append(c.nums, v)
-				continue
-			}
-			if opts.NonNumericAsMissing {
-				c.nonNum++
-				c.nums = append(c.nums, math.NaN())
-				continue
-			}
-			if first != nil {
-				more++
-				continue
-			}
-			line, _ := cr.FieldPos(c.index)
-			first = &Error{File: path, Line: line, Column: c.name, Text: cell, Msg: nonNumericMsg(cell, mark, markLine, opts)}
-			c.nums = append(c.nums, math.NaN())
+	if st, err := f.Stat(); err == nil { // the file opened may differ from the one checked
+		if err := notRegular(path, st); err != nil {
+			return nil, err
 		}
 	}
-	if _, err := io.Copy(io.Discard, br); err != nil { // hash every byte
-		return nil, fail(0, "", "", "reading the file: %v", err)
-	}
-	if first != nil {
-		if more > 0 {
-			first.Msg += fmt.Sprintf(" (and %d more non-numeric cells after it)", more)
-		}
-		return nil, first
-	}
-
-	t := &Table{
-		File:         path,
-		SHA256:       hex.EncodeToString(h.Sum(nil)),
-		Rows:         rows,
-		Delimiter:    delim,
-		DecimalComma: mark == ',',
-		Numeric:      map[string][]float64{},
-		Text:         map[string][]string{},
-		Missing:      map[string]int{},
-		NonNumeric:   map[string]int{},
-	}
-	for _, c := range cols {
-		if c.numeric {
-			t.Numeric[c.name] = c.nums
-			t.NonNumeric[c.name] = c.nonNum
-		}
-		if c.text {
-			t.Text[c.name] = c.texts
-		}
-		t.Missing[c.name] = c.missing
-	}
-	return t, nil
+	return read(path, f, st.Size(), opts, numeric, text)
 }
 
 // Header returns the column names of the file's header row (spaces
 // trimmed), read as Read reads it, without reading further.
 func Header(path string, delimiter rune) ([]string, error) {
+	if _, err := regularFile(path); err != nil {
+		return nil, err
+	}
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, openError(path, err)
 	}
 	defer f.Close()
-	_, _, names, err := readHeader(path, bufio.NewReaderSize(f, readBuffer), delimiter)
-	return names, err
+	h, err := readHeader(path, f, delimiter)
+	if err != nil {
+		return nil, err
+	}
+	return h.names, nil
+}
+
+// head is the header row and the bytes read to find it.
+type head struct {
+	buf   []byte // every byte read so far
+	body  int    // offset in buf of the first byte after the header row
+	line  int    // line number of that byte
+	eof   bool   // buf holds the whole file
+	delim rune
+	names []string
 }
 
 // readHeader skips a byte-order mark, settles the delimiter and reads the
-// header row.
-func readHeader(path string, br *bufio.Reader, delim rune) (*csv.Reader, rune, []string, error) {
-	if b, _ := br.Peek(3); bytes.Equal(b, []byte("\xEF\xBB\xBF")) {
-		br.Discard(3)
-	}
+// header row, reading more of the file while the row is not complete (up
+// to MaxRowBytes).
+func readHeader(path string, r io.Reader, delim rune) (*head, error) {
 	switch delim {
-	case 0:
-		delim = detectDelimiter(br)
-	case ',', ';', '\t':
+	case 0, ',', ';', '\t':
 	default:
-		return nil, 0, nil, &Error{File: path, Msg: fmt.Sprintf("delimiter %q is not supported: use ',', ';' or tab", delim)}
+		return nil, &Error{File: path, Msg: fmt.Sprintf("delimiter %q is not supported: use ',', ';' or tab", delim)}
 	}
-	cr := csv.NewReader(br)
+	h := &head{buf: make([]byte, 0, readBuffer)}
+	for {
+		for len(h.buf) < cap(h.buf) && !h.eof {
+			n, err := r.Read(h.buf[len(h.buf):cap(h.buf)])
+			h.buf = h.buf[:len(h.buf)+n]
+			if err == io.EOF {
+				h.eof = true
+			} else if err != nil {
+				return nil, &Error{File: path, Msg: fmt.Sprintf("reading the file: %v", err), err: err}
+			}
+		}
+		more, err := h.parse(path, delim)
+		if !more {
+			return h, err
+		}
+		h.buf = slices.Grow(h.buf, cap(h.buf))
+	}
+}
+
+// parse reads the header row from h.buf; more says the row may go on
+// beyond the bytes read so far.
+func (h *head) parse(path string, delim rune) (more bool, err error) {
+	bom := 0
+	if bytes.HasPrefix(h.buf, []byte("\xEF\xBB\xBF")) {
+		bom = 3
+	}
+	b := h.buf[bom:]
+	if bytes.IndexByte(b, '\n') < 0 {
+		if i := bytes.IndexByte(b, '\r'); i >= 0 && i < len(b)-1 {
+			return false, &Error{File: path, Msg: "the file uses CR-only line ends (as classic Mac OS wrote them), which bivar does not read: save it with LF or CRLF line ends"}
+		}
+	}
+	if delim == 0 {
+		delim = detectDelimiter(b[:min(len(b), readBuffer)])
+	}
+	cr := csv.NewReader(bytes.NewReader(b))
 	cr.Comma = delim
-	cr.ReuseRecord = true
-	cr.FieldsPerRecord = 0 // the header sets the count
 	header, err := cr.Read()
+	off := int(cr.InputOffset())
+	if !h.eof && (err != nil || off == len(b)) && len(h.buf) <= MaxRowBytes {
+		return true, nil
+	}
+	if off > MaxRowBytes || err != nil && !h.eof && len(h.buf) > MaxRowBytes {
+		return false, rowTooLong(path, 1)
+	}
 	if err == io.EOF {
-		return nil, 0, nil, &Error{File: path, Msg: "the file is empty: it needs a header row naming the columns"}
+		return false, &Error{File: path, Msg: "the file is empty: it needs a header row naming the columns"}
 	}
 	if err != nil {
-		return nil, 0, nil, csvError(path, err, nil, 0)
+		return false, csvError(path, err, nil, 0, 0)
 	}
-	names := make([]string, len(header))
-	for i, h := range header {
-		names[i] = strings.TrimSpace(h)
+	h.names = make([]string, len(header))
+	for i, s := range header {
+		h.names[i] = strings.TrimSpace(s)
 	}
-	return cr, delim, names, nil
+	h.delim, h.body = delim, bom+off
+	h.line = 1 + bytes.Count(h.buf[:h.body], []byte{'\n'})
+	return false, nil
 }
 
 func openError(path string, err error) error {
@@ -359,7 +258,7 @@ func openError(path string, err error) error {
 }
 
 func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
-	msg := fmt.Sprintf("%q is not a number", cell)
+	msg := quoteCell(cell) + " is not a number"
 	hasComma, hasPoint := strings.Contains(cell, ","), strings.Contains(cell, ".")
 	switch {
 	case mark == '.' && hasComma && !hasPoint && opts.DecimalPoint:
@@ -382,15 +281,40 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 	return msg
 }
 
+// outOfRangeMsg: a number too large in size for a double.
+func outOfRangeMsg(cell string) string {
+	return quoteCell(cell) + ` is out of range: a number's size may be at most about 1.8e308 (the largest double); correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`
+}
+
+// numStatus says how a cell read as a number.
+type numStatus uint8
+
+const (
+	numOK         numStatus = iota
+	numNot                  // not a number (or a number with the other mark)
+	numOutOfRange           // a number too large in size for a double
+)
+
 // parseNumber reads a decimal number written with mark ('.' or ','; 0 =
 // either, undecided). seen is the mark the text shows (0 if none). Only
 // digits, one sign, one mark and an exponent are accepted: not "NaN",
-// "Inf", hexadecimal, digit separators or units.
-func parseNumber(s string, mark byte) (v float64, seen byte, ok bool) {
+// "Inf", hexadecimal, digit separators or units. The value is
+// strconv.ParseFloat's, correctly rounded (IEEE 754 round to nearest); a
+// number smaller in size than the least double reads as 0 or a subnormal,
+// one larger than the largest is numOutOfRange. s is not kept: it may be
+// a view of a buffer that is reused.
+func parseNumber(s string, mark byte) (v float64, seen byte, st numStatus) {
+	if v, seen, ok := fastNumber(s); ok {
+		if mark != 0 && seen != 0 && seen != mark {
+			return 0, seen, numNot
+		}
+		return v, seen, numOK
+	}
 	if s == "" {
-		return 0, 0, false
+		return 0, 0, numNot
 	}
 	digits := false
+	at := 0
 	for i := 0; i < len(s); i++ {
 		switch c := s[i]; {
 		case c >= '0' && c <= '9':
@@ -398,37 +322,131 @@ func parseNumber(s string, mark byte) (v float64, seen byte, ok bool) {
 		case c == '+' || c == '-' || c == 'e' || c == 'E':
 		case c == '.' || c == ',':
 			if seen != 0 {
-				return 0, 0, false
+				return 0, 0, numNot
 			}
-			seen = c
+			seen, at = c, i
 		default:
-			return 0, 0, false
+			return 0, 0, numNot
 		}
 	}
 	if !digits || mark != 0 && seen != 0 && seen != mark {
-		return 0, seen, false
+		return 0, seen, numNot
 	}
+	var err error
 	if seen == ',' {
 		var buf [64]byte
 		if len(s) <= len(buf) {
 			b := append(buf[:0], s...)
-			b[strings.IndexByte(s, ',')] = '.'
-			s = string(b)
+			b[at] = '.'
+			v, err = strconv.ParseFloat(unsafe.String(&b[0], len(b)), 64)
 		} else {
-			s = strings.Replace(s, ",", ".", 1)
+			v, err = strconv.ParseFloat(s[:at]+"."+s[at+1:], 64)
+		}
+	} else {
+		v, err = strconv.ParseFloat(s, 64)
+	}
+	if err != nil {
+		if errors.Is(err, strconv.ErrRange) && math.IsInf(v, 0) {
+			return 0, seen, numOutOfRange
+		}
+		return 0, seen, numNot
+	}
+	return v, seen, numOK
+}
+
+// pow10 holds the powers of ten that are exact doubles.
+var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11,
+	1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
+
+// fastNumber reads the common short decimals, [+-]digits[mark digits]
+// [e[+-]digits] with at most 15 significant digits and a power of ten
+// within ±22, by Clinger's fast path (W. D. Clinger, "How to read floating
+// point numbers accurately", PLDI 1990): the digits form an integer m <
+// 10¹⁵ < 2⁵³ and 10^|e| ≤ 10²² are both exact doubles, so m·10^e or
+// m/10^-e is one correctly rounded IEEE operation, the value
+// strconv.ParseFloat returns. Anything else returns ok = false and goes the
+// slow way.
+func fastNumber(s string) (v float64, seen byte, ok bool) {
+	i, neg := 0, false
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		neg = s[i] == '-'
+		i++
+	}
+	var m uint64
+	nd, after, digits := 0, 0, false
+	for ; i < len(s); i++ {
+		c := s[i]
+		if c >= '0' && c <= '9' {
+			digits = true
+			if seen != 0 {
+				after++
+			}
+			if m == 0 && c == '0' {
+				continue
+			}
+			if nd == 15 {
+				return 0, 0, false
+			}
+			m = m*10 + uint64(c-'0')
+			nd++
+			continue
+		}
+		if (c == '.' || c == ',') && seen == 0 {
+			seen = c
+			continue
+		}
+		break
+	}
+	if !digits {
+		return 0, 0, false
+	}
+	e := 0
+	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+		i++
+		eneg := false
+		if i < len(s) && (s[i] == '+' || s[i] == '-') {
+			eneg = s[i] == '-'
+			i++
+		}
+		if i == len(s) {
+			return 0, 0, false
+		}
+		for ; i < len(s); i++ {
+			c := s[i]
+			if c < '0' || c > '9' {
+				return 0, 0, false
+			}
+			if e < 1000 {
+				e = e*10 + int(c-'0')
+			}
+		}
+		if eneg {
+			e = -e
 		}
 	}
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil || math.IsInf(v, 0) {
-		return 0, seen, false
+	if i != len(s) {
+		return 0, 0, false
+	}
+	e -= after
+	v = float64(m)
+	switch {
+	case m == 0 || e == 0:
+	case e > 0 && e < len(pow10):
+		v *= pow10[e]
+	case e < 0 && -e < len(pow10):
+		v /= pow10[-e]
+	default:
+		return 0, 0, false
+	}
+	if neg {
+		v = -v
 	}
 	return v, seen, true
 }
 
 // detectDelimiter counts commas, semicolons and tabs outside double quotes
-// in the header line (as far as it fits in the read buffer).
-func detectDelimiter(br *bufio.Reader) rune {
-	b, _ := br.Peek(readBuffer)
+// in the header line (as far as it is in b).
+func detectDelimiter(b []byte) rune {
 	if i := bytes.IndexByte(b, '\n'); i >= 0 {
 		b = b[:i]
 	}
@@ -527,20 +545,21 @@ func lastIndex(names []string, name string) int {
 }
 
 // csvError turns encoding/csv's errors into ones that say what to do.
-func csvError(path string, err error, rec []string, want int) error {
+// off is added to the lines, for a block that starts on line off+1.
+func csvError(path string, err error, rec []string, want, off int) error {
 	var pe *csv.ParseError
 	if !errors.As(err, &pe) {
 		return &Error{File: path, Msg: fmt.Sprintf("reading the file: %v", err), err: err}
 	}
-	e := &Error{File: path, Line: pe.Line, err: err}
+	e := &Error{File: path, Line: pe.Line + off, err: err}
 	switch {
 	case errors.Is(pe.Err, csv.ErrFieldCount):
-		e.Line = pe.StartLine
-		e.Msg = fmt.Sprintf("this row has %s but the header has %d: look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes", fieldCount(len(rec)), want)
+		e.Line = pe.StartLine + off
+		e.Msg = fieldCountMsg(len(rec), want)
 	case errors.Is(pe.Err, csv.ErrBareQuote):
 		e.Msg = fmt.Sprintf("a double quote inside an unquoted field (character %d): put the whole field in double quotes and write the quote twice (\"\")", pe.Column)
 	case errors.Is(pe.Err, csv.ErrQuote):
-		e.Msg = fmt.Sprintf("at character %d: a quoted field (in the row starting on line %d) is not closed, or holds a quote not written twice (\"\")", pe.Column, pe.StartLine)
+		e.Msg = fmt.Sprintf("at character %d: a quoted field (in the row starting on line %d) is not closed, or holds a quote not written twice (\"\")", pe.Column, pe.StartLine+off)
 	default:
 		e.Msg = pe.Err.Error()
 	}

@@ -73,6 +73,11 @@ type Dataset struct {
 	IDColumn   string            `toml:"id_column"` // names rows in the report; default: data row number
 	Units      map[string]string `toml:"units"`     // column -> UCUM unit code
 	Labels     map[string]string `toml:"labels"`    // column -> label for people
+	// Limits on reading the file; nil (left out) means the reader's
+	// default: dataset.DefaultMaxRows, DefaultMaxBytes, DefaultMaxLevels.
+	MaxRows   *int `toml:"max_rows"`   // most data rows
+	MaxBytes  *int `toml:"max_bytes"`  // largest file, in bytes
+	MaxLevels *int `toml:"max_levels"` // most distinct values in a study's group column
 
 	Line int `toml:"-"` // line of the [[dataset]] header, for messages
 }

@@ -160,6 +160,15 @@ func TestErrors(t *testing.T) {
 				{Line: 5, Col: 1, Key: "dataset.non_numeric", Msg: `dataset.non_numeric = "skip" is not allowed; use one of "error", "missing"`},
 				{Line: 10, Col: 1, Key: "dataset.id", Msg: `dataset id "nov" is used twice (first at line 6)`},
 			}},
+		{"dataset limits", head + "max_rows = 0\nmax_levels = -3\nmax_bytes = 1.5\n" + study,
+			[]Error{
+				{Line: 6, Col: 1, Key: "dataset.max_bytes", Msg: `"dataset.max_bytes" must be a whole number, not a number`},
+			}},
+		{"dataset limits not positive", head + "max_rows = 0\nmax_levels = -3\nmax_bytes = 100\n" + study,
+			[]Error{
+				{Line: 4, Col: 1, Key: "dataset.max_rows", Msg: `dataset "nov": max_rows = 0 is not allowed; give a positive whole number, or leave the key out for the default`},
+				{Line: 5, Col: 1, Key: "dataset.max_levels", Msg: `dataset "nov": max_levels = -3 is not allowed; give a positive whole number, or leave the key out for the default`},
+			}},
 		{"study problems", head + "[[study]]\ndataset = \"nvo\"\nx = \"a\"\ny = \"a\"\ncovariates = [\"a\"]\n" + study + study + "[[study]]\nid = \"bad id\"\n",
 			[]Error{
 				{Line: 4, Col: 1, Key: "study.id", Msg: `[[study]] number 1 has no id: add id = "…" (a short name, used in reports and in diffs between runs)`},

@@ -194,6 +194,14 @@ func (p *parser) validate(m *Manifest) {
 			p.add(owner, "dataset.decimal", "dataset %q: decimal = \",\" with delimiter = \",\" works only when every number is quoted; check the file, or use delimiter = \";\"", name)
 		}
 		p.oneOf(owner, "dataset.non_numeric", d.NonNumeric, NonNumericPolicies())
+		for _, l := range []struct {
+			key string
+			v   *int
+		}{{"max_rows", d.MaxRows}, {"max_bytes", d.MaxBytes}, {"max_levels", d.MaxLevels}} {
+			if l.v != nil && *l.v <= 0 {
+				p.add(owner, "dataset."+l.key, "dataset %q: %s = %d is not allowed; give a positive whole number, or leave the key out for the default", name, l.key, *l.v)
+			}
+		}
 		for _, col := range slices.Sorted(maps.Keys(d.Units)) {
 			if err := units.Check(d.Units[col]); err != nil {
 				p.addK(owner, toml.Key{"dataset", "units", col}, "dataset %q, column %q: %v", name, col, err)

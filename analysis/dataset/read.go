@@ -1,0 +1,711 @@
+package dataset
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/csv"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"runtime"
+	"slices"
+	"strings"
+	"sync"
+	"sync/atomic"
+	"unsafe"
+)
+
+// How the body of a file is read. One goroutine reads blocks of blockSize
+// bytes, hashes them and cuts each after the last line end that is not
+// inside double quotes (a quote toggles; a malformed quote is reported by
+// the block that holds it, at the place a sequential read would report it).
+// Worker goroutines (one per core) parse the blocks: with a plain splitter
+// when a block's quotes, if any, only enclose simple whole fields, else with
+// encoding/csv. The calling goroutine joins the blocks' columns in file
+// order, so rows keep their order and messages name the first problem in
+// the file, as a sequential read would. At most 2·GOMAXPROCS+3 blocks are
+// in memory at once, besides the columns read.
+//
+// The decimal mark, when it is to be detected, is the mark of the first
+// number that shows one; a block parsed before that was settled is parsed
+// again when the join finds it was settled by an earlier block.
+const (
+	blockSize = 1 << 20 // a longer row makes its buffer larger
+	// maxIntern bounds the distinct texts a text column that is not a group
+	// keeps one copy of per block.
+	maxIntern = 1024
+)
+
+// column is one requested header column.
+type column struct {
+	name    string
+	index   int
+	numeric bool
+	text    bool
+	group   bool // text holding group levels, at most Limits.MaxLevels of them
+}
+
+// config is what every block's parse needs; it is not changed once built.
+type config struct {
+	path    string
+	delim   byte
+	fields  int // fields per row, from the header
+	cols    []*column
+	byIndex []int // header index -> position in cols, -1 when not read
+	last    int   // the highest header index read
+	missing []string
+	opts    Options
+	lim     Limits
+}
+
+// job is one block of whole rows.
+type job struct {
+	data []byte
+	line int // line number of data[0]
+	buf  []byte
+	mark uint64 // packed decimal-mark state the block is parsed with
+	res  chan *part
+	pre  *part // set when the block is only an error found by the reader
+}
+
+// span is a text cell's place in its block's arena.
+type span struct{ off, n int32 }
+
+// level is a group column's value first seen in a block, and where.
+type level struct {
+	span
+	line int
+}
+
+// textPart holds one text column's cells of one block.
+type textPart struct {
+	arena  []byte
+	spans  []span
+	seen   map[string]span
+	levels []level // group columns: new values in order of appearance
+}
+
+// part is what one block gives.
+type part struct {
+	assumed  uint64 // the packed mark state the block was parsed with
+	mark     byte   // the decimal mark after the block (0: undecided)
+	markLine int
+	rows     int
+	nums     [][]float64
+	texts    []textPart
+	missing  []int
+	nonNum   []int
+	err      error  // a problem that stops the read
+	first    *Error // the block's first non-numeric cell
+	more     int    // non-numeric cells after it
+	over     bool   // a group column passed MaxLevels in this block
+}
+
+func packMark(mark byte, line int) uint64 { return uint64(line)<<8 | uint64(mark) }
+
+func unpackMark(v uint64) (byte, int) { return byte(v), int(v >> 8) }
+
+// read reads from r; size, when known (> 0), sizes the first block and
+// the columns.
+func read(path string, r io.Reader, size int64, opts Options, numeric, text []string) (*Table, error) {
+	lim := DefaultLimits()
+	if opts.Limits != nil {
+		lim = *opts.Limits
+	}
+	if err := lim.check(path); err != nil {
+		return nil, err
+	}
+	if size > lim.MaxBytes {
+		return nil, sizeError(path, size, lim.MaxBytes)
+	}
+	hd, err := readHeader(path, r, opts.Delimiter)
+	if err != nil {
+		return nil, err
+	}
+	cols, err := selectColumns(path, hd.names, numeric, text)
+	if err != nil {
+		return nil, err
+	}
+	cfg := &config{path: path, delim: byte(hd.delim), fields: len(hd.names), cols: cols,
+		byIndex: make([]int, len(hd.names)), last: -1, missing: opts.Missing, opts: opts, lim: lim}
+	if cfg.missing == nil {
+		cfg.missing = DefaultMissing()
+	}
+	for i := range cfg.byIndex {
+		cfg.byIndex[i] = -1
+	}
+	for i, c := range cols {
+		cfg.byIndex[c.index] = i
+		cfg.last = max(cfg.last, c.index)
+		c.group = c.text && slices.Contains(opts.Groups, c.name)
+	}
+
+	var mark byte // '.' or ',' once known, 0 while undecided
+	switch {
+	case opts.DecimalComma:
+		mark = ','
+	case opts.DecimalPoint, hd.delim == ',':
+		mark = '.'
+	}
+	markLine := 0
+	var shared atomic.Uint64 // the mark state, for the reader to hand to blocks
+	shared.Store(packMark(mark, markLine))
+
+	h := sha256.New()
+	h.Write(hd.buf)
+	workers := max(1, runtime.GOMAXPROCS(0))
+	inflight := 2*workers + 1
+	ordered := make(chan *job, inflight)
+	work := make(chan *job, inflight)
+	stop := make(chan struct{})
+	defer close(stop)
+	for range workers {
+		go func() {
+			for j := range work {
+				m, l := unpackMark(j.mark)
+				j.res <- parseBlock(cfg, j.data, j.line, m, l)
+			}
+		}()
+	}
+	bufSize := blockSize
+	if size > 0 && size < blockSize {
+		bufSize = int(size) + 4096
+	}
+	free := make(chan []byte, inflight+2)
+	go produce(cfg, r, hd, h, bufSize, free, ordered, work, stop, &shared)
+
+	t := &Table{File: path, Delimiter: hd.delim, Numeric: map[string][]float64{}, Text: map[string][]string{},
+		Missing: map[string]int{}, NonNumeric: map[string]int{}}
+	nums := make([][]float64, len(cols))
+	texts := make([][]string, len(cols))
+	levels := make([]map[string]bool, len(cols))
+	missing := make([]int, len(cols))
+	nonNum := make([]int, len(cols))
+	var first *Error
+	more := 0
+	sized := false
+	for j := range ordered {
+		p := j.pre
+		if p == nil {
+			p = <-j.res
+			if p.assumed != packMark(mark, markLine) {
+				p = parseBlock(cfg, j.data, j.line, mark, markLine)
+			}
+		}
+		// The rows a block counted all come before the place where it
+		// stopped, if it did: a file over the row limit says so first.
+		t.Rows += p.rows
+		if t.Rows > lim.MaxRows {
+			return nil, &Error{File: path, Msg: fmt.Sprintf("the file has more than %d data rows, the limit: check that it is the data file meant; if it is, raise max_rows for the dataset", lim.MaxRows)}
+		}
+		for i, c := range cols {
+			if !c.group {
+				continue
+			}
+			if levels[i] == nil {
+				levels[i] = map[string]bool{}
+			}
+			tp := &p.texts[i]
+			for _, lv := range tp.levels {
+				s := string(tp.arena[lv.off : lv.off+lv.n])
+				if levels[i][s] {
+					continue
+				}
+				levels[i][s] = true
+				if len(levels[i]) > lim.MaxLevels {
+					return nil, levelsError(cfg, c, s, lv.line)
+				}
+			}
+		}
+		if p.err != nil {
+			return nil, p.err
+		}
+		if mark == 0 && p.mark != 0 {
+			mark, markLine = p.mark, p.markLine
+			shared.Store(packMark(mark, markLine))
+		}
+		if first == nil {
+			first, more = p.first, p.more
+		} else if p.first != nil {
+			more += 1 + p.more
+		}
+		if !sized && p.rows > 0 {
+			sized = true
+			est := len(j.data) / p.rows // bytes per row
+			if size > 0 && est > 0 {
+				n := int(min(size/int64(est)+size/int64(est)/32+16, int64(lim.MaxRows)+1))
+				for i, c := range cols {
+					if c.numeric {
+						nums[i] = slices.Grow(nums[i], n)
+					}
+					if c.text {
+						texts[i] = slices.Grow(texts[i], n)
+					}
+				}
+			}
+		}
+		for i, c := range cols {
+			missing[i] += p.missing[i]
+			nonNum[i] += p.nonNum[i]
+			if c.numeric {
+				nums[i] = append(nums[i], p.nums[i]...)
+				putFloats(p.nums[i])
+			}
+			if c.text {
+				tp := &p.texts[i]
+				arena := unsafe.String(unsafe.SliceData(tp.arena), len(tp.arena))
+				for _, sp := range tp.spans {
+					texts[i] = append(texts[i], arena[sp.off:sp.off+sp.n])
+				}
+			}
+		}
+		if j.buf != nil {
+			free <- j.buf
+		}
+	}
+	if first != nil {
+		if more > 0 {
+			first.Msg += fmt.Sprintf(" (and %d more non-numeric cells after it)", more)
+		}
+		return nil, first
+	}
+	t.SHA256 = hex.EncodeToString(h.Sum(nil))
+	t.DecimalComma = mark == ','
+	for i, c := range cols {
+		if c.numeric {
+			t.Numeric[c.name] = nums[i]
+			t.NonNumeric[c.name] = nonNum[i]
+		}
+		if c.text {
+			t.Text[c.name] = texts[i]
+		}
+		t.Missing[c.name] = missing[i]
+	}
+	return t, nil
+}
+
+// produce reads the body of the file in blocks of whole rows, hashes every
+// byte and hands the blocks out: in order to ordered (for the join) and to
+// work (for the parsers). It stops at the end of the file, on a read error
+// or a row too long (handed on as a block holding only that error), or
+// when stop is closed. It closes ordered and work.
+func produce(cfg *config, r io.Reader, hd *head, h io.Writer, bufSize int, free chan []byte,
+	ordered, work chan<- *job, stop <-chan struct{}, shared *atomic.Uint64) {
+	defer close(work)
+	defer close(ordered)
+	made := 0
+	get := func(n int) []byte {
+		if made < cap(free) {
+			select {
+			case b := <-free:
+				return grow(b, n)
+			default:
+			}
+			made++
+			return make([]byte, max(bufSize, n))
+		}
+		select {
+		case b := <-free:
+			return grow(b, n)
+		case <-stop:
+			return nil
+		}
+	}
+	send := func(j *job) bool {
+		select {
+		case ordered <- j:
+		case <-stop:
+			return false
+		}
+		if j.pre != nil {
+			return true
+		}
+		select {
+		case work <- j:
+			return true
+		case <-stop:
+			return false
+		}
+	}
+	fail := func(err error) { send(&job{pre: &part{err: err}}) }
+
+	rest := hd.buf[hd.body:]
+	buf := get(len(rest) + 1)
+	if buf == nil {
+		return
+	}
+	n := copy(buf, rest)
+	line := hd.line
+	total := int64(len(hd.buf))
+	eof := hd.eof
+	for {
+		for n < len(buf) && !eof {
+			m, err := r.Read(buf[n:])
+			h.Write(buf[n : n+m])
+			n += m
+			total += int64(m)
+			if err == io.EOF {
+				eof = true
+			} else if err != nil {
+				fail(&Error{File: cfg.path, Msg: fmt.Sprintf("reading the file: %v", err), err: err})
+				return
+			}
+		}
+		if total > cfg.lim.MaxBytes {
+			fail(sizeError(cfg.path, 0, cfg.lim.MaxBytes))
+			return
+		}
+		cutAt := n
+		if !eof {
+			cutAt = rowsEnd(buf[:n])
+			if n-cutAt > MaxRowBytes {
+				if cutAt > 0 && !send(&job{data: buf[:cutAt], line: line, buf: buf, mark: shared.Load(), res: make(chan *part, 1)}) {
+					return
+				}
+				fail(longRow(cfg, buf[cutAt:n], line+bytes.Count(buf[:cutAt], []byte{'\n'})))
+				return
+			}
+			if cutAt == 0 { // one row fills the buffer: make it larger
+				buf = grow(buf, 2*len(buf))
+				continue
+			}
+		}
+		if cutAt > 0 {
+			next := []byte(nil)
+			if !eof {
+				if next = get(n - cutAt + 1); next == nil {
+					return
+				}
+			}
+			j := &job{data: buf[:cutAt], line: line, buf: buf, mark: shared.Load(), res: make(chan *part, 1)}
+			line += bytes.Count(buf[:cutAt], []byte{'\n'})
+			if next != nil {
+				copy(next, buf[cutAt:n])
+			}
+			if !send(j) {
+				return
+			}
+			buf, n = next, n-cutAt
+		}
+		if eof {
+			return
+		}
+	}
+}
+
+// floats keeps blocks' number slices for the next blocks, so that reading
+// a large file does not leave a block's worth of garbage per block.
+var floats sync.Pool
+
+func getFloats(n int) []float64 {
+	if p, ok := floats.Get().(*[]float64); ok && cap(*p) >= n {
+		return (*p)[:0]
+	}
+	return make([]float64, 0, n)
+}
+
+func putFloats(s []float64) { floats.Put(&s) }
+
+// longRow explains rows that start on line line, outside quotes, and run
+// past MaxRowBytes without a line end outside quotes: encoding/csv finds a
+// malformed quote in them (an inch mark in 12" pipe leaves the rest of the
+// file inside quotes) where a sequential read would; else the row is too
+// long. An error on the last, cut line of data is not trusted.
+func longRow(cfg *config, data []byte, line int) error {
+	cr := csv.NewReader(bytes.NewReader(data))
+	cr.Comma = rune(cfg.delim)
+	cr.ReuseRecord = true
+	cr.FieldsPerRecord = cfg.fields
+	whole := bytes.Count(data, []byte{'\n'})
+	for {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			break
+		}
+		var pe *csv.ParseError
+		if errors.As(err, &pe) && pe.Line <= whole {
+			return csvError(cfg.path, err, rec, cfg.fields, line-1)
+		}
+		if err != nil {
+			break
+		}
+	}
+	return rowTooLong(cfg.path, line)
+}
+
+// grow returns b with at least n bytes of length, keeping its contents.
+func grow(b []byte, n int) []byte {
+	if len(b) >= n {
+		return b
+	}
+	return append(b, make([]byte, n-len(b))...)
+}
+
+// rowsEnd returns the offset just after the last line end in b that is
+// not inside double quotes (b starts outside quotes), or 0.
+func rowsEnd(b []byte) int {
+	if bytes.IndexByte(b, '"') < 0 {
+		return bytes.LastIndexByte(b, '\n') + 1
+	}
+	in, end := false, 0
+	for i, c := range b {
+		switch c {
+		case '"':
+			in = !in
+		case '\n':
+			if !in {
+				end = i + 1
+			}
+		}
+	}
+	return end
+}
+
+// parseBlock parses whole rows starting on line line, with the decimal
+// mark state (mark, markLine) that holds at their start.
+func parseBlock(cfg *config, data []byte, line int, mark byte, markLine int) *part {
+	rows := bytes.Count(data, []byte{'\n'}) + 1
+	p := newPart(cfg, mark, markLine, rows)
+	if !p.parsePlain(cfg, data, line) {
+		p = newPart(cfg, mark, markLine, rows)
+		p.parseQuoted(cfg, data, line)
+	}
+	return p
+}
+
+func newPart(cfg *config, mark byte, markLine int, rows int) *part {
+	p := &part{assumed: packMark(mark, markLine), mark: mark, markLine: markLine,
+		nums: make([][]float64, len(cfg.cols)), texts: make([]textPart, len(cfg.cols)),
+		missing: make([]int, len(cfg.cols)), nonNum: make([]int, len(cfg.cols))}
+	for i, c := range cfg.cols {
+		if c.numeric {
+			p.nums[i] = getFloats(rows)
+		}
+		if c.text {
+			p.texts[i].spans = make([]span, 0, rows)
+		}
+	}
+	return p
+}
+
+// parsePlain parses rows whose double quotes, if any, only enclose whole
+// fields that hold no quote, delimiter or line break ("A", as many exports
+// write text): a field is the text between delimiters, without those
+// quotes, as encoding/csv reads it. Cells are views of data, never kept.
+// It returns false, having read part of the block, at the first row with
+// other quoting: the block is then for encoding/csv.
+func (p *part) parsePlain(cfg *config, data []byte, line int) bool {
+	delim := cfg.delim
+	quotes := bytes.IndexByte(data, '"') >= 0
+	for len(data) > 0 {
+		var rec []byte
+		if i := bytes.IndexByte(data, '\n'); i >= 0 {
+			rec, data = data[:i], data[i+1:]
+		} else {
+			rec, data = data, nil
+		}
+		ln := line
+		line++
+		if n := len(rec); n > 0 && rec[n-1] == '\r' {
+			rec = rec[:n-1]
+		}
+		if len(rec) == 0 {
+			continue // a blank line
+		}
+		quoted := quotes && bytes.IndexByte(rec, '"') >= 0
+		if quoted && !plainQuotes(rec, delim) {
+			return false
+		}
+		if len(rec) > MaxRowBytes {
+			p.err = rowTooLong(cfg.path, ln)
+			return true
+		}
+		if nf := bytes.Count(rec, []byte{delim}) + 1; nf != cfg.fields {
+			p.err = &Error{File: cfg.path, Line: ln, Msg: fieldCountMsg(nf, cfg.fields)}
+			return true
+		}
+		p.rows++
+		for f := 0; f <= cfg.last; f++ {
+			var cell []byte
+			if i := bytes.IndexByte(rec, delim); i >= 0 {
+				cell, rec = rec[:i], rec[i+1:]
+			} else {
+				cell, rec = rec, nil
+			}
+			if quoted && len(cell) >= 2 && cell[0] == '"' {
+				cell = cell[1 : len(cell)-1]
+			}
+			if ci := cfg.byIndex[f]; ci >= 0 && p.cell(cfg, ci, unsafe.String(unsafe.SliceData(cell), len(cell)), ln) {
+				return true
+			}
+		}
+	}
+	return true
+}
+
+// plainQuotes reports whether every double quote in rec belongs to a pair
+// enclosing a whole field with no other quote inside.
+func plainQuotes(rec []byte, delim byte) bool {
+	for len(rec) > 0 {
+		f := rec
+		if i := bytes.IndexByte(rec, delim); i >= 0 {
+			f, rec = rec[:i], rec[i+1:]
+		} else {
+			rec = nil
+		}
+		if bytes.IndexByte(f, '"') < 0 {
+			continue
+		}
+		if len(f) < 2 || f[0] != '"' || f[len(f)-1] != '"' || bytes.IndexByte(f[1:len(f)-1], '"') >= 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// parseQuoted parses rows with encoding/csv, which knows the quoting rules.
+func (p *part) parseQuoted(cfg *config, data []byte, line int) {
+	cr := csv.NewReader(bytes.NewReader(data))
+	cr.Comma = rune(cfg.delim)
+	cr.ReuseRecord = true
+	cr.FieldsPerRecord = cfg.fields
+	off := line - 1
+	for {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			return
+		}
+		if err != nil {
+			p.err = csvError(cfg.path, err, rec, cfg.fields, off)
+			return
+		}
+		n := len(rec) - 1
+		for _, f := range rec {
+			n += len(f)
+		}
+		if n > MaxRowBytes {
+			ln, _ := cr.FieldPos(0)
+			p.err = rowTooLong(cfg.path, ln+off)
+			return
+		}
+		p.rows++
+		for ci, c := range cfg.cols {
+			ln, _ := cr.FieldPos(c.index)
+			if p.cell(cfg, ci, rec[c.index], ln+off) {
+				return
+			}
+		}
+	}
+}
+
+// cell takes one cell of column cfg.cols[ci] on line ln; raw may be a view
+// of a buffer that is reused. It reports whether the block must stop.
+func (p *part) cell(cfg *config, ci int, raw string, ln int) (stop bool) {
+	c := cfg.cols[ci]
+	if len(raw) > MaxCellBytes {
+		p.err = &Error{File: cfg.path, Line: ln, Column: c.name, Text: cellText(raw),
+			Msg: fmt.Sprintf("the cell %s is longer than %s, the longest cell bivar reads: check the delimiter and the quotes around this cell", quoteCell(raw), bytesText(MaxCellBytes))}
+		return true
+	}
+	s := trimSpace(raw)
+	miss := false
+	for _, m := range cfg.missing {
+		if s == m {
+			miss = true
+			break
+		}
+	}
+	if miss {
+		p.missing[ci]++
+	}
+	if c.text && p.texts[ci].add(s, ln, c.group, cfg.lim.MaxLevels) {
+		p.over = true
+		return true
+	}
+	if !c.numeric {
+		return false
+	}
+	if miss {
+		p.nums[ci] = append(p.nums[ci], math.NaN())
+		return false
+	}
+	v, seen, st := parseNumber(s, p.mark)
+	if st == numOK {
+		if p.mark == 0 && seen != 0 {
+			p.mark, p.markLine = seen, ln
+		}
+		p.nums[ci] = append(p.nums[ci], v)
+		return false
+	}
+	p.nums[ci] = append(p.nums[ci], math.NaN())
+	switch {
+	case cfg.opts.NonNumericAsMissing:
+		p.nonNum[ci]++
+	case p.first != nil:
+		p.more++
+	default:
+		msg := nonNumericMsg(s, p.mark, p.markLine, cfg.opts)
+		if st == numOutOfRange {
+			msg = outOfRangeMsg(s)
+		}
+		p.first = &Error{File: cfg.path, Line: ln, Column: c.name, Text: cellText(s), Msg: msg}
+	}
+	return false
+}
+
+// add keeps a text cell (s may be a view of a reused buffer) and reports
+// whether a group column passed maxLevels distinct values in this block.
+func (tp *textPart) add(s string, ln int, group bool, maxLevels int) bool {
+	if sp, ok := tp.seen[s]; ok {
+		tp.spans = append(tp.spans, sp)
+		return false
+	}
+	sp := span{int32(len(tp.arena)), int32(len(s))}
+	tp.arena = append(tp.arena, s...)
+	tp.spans = append(tp.spans, sp)
+	if !group && len(tp.seen) >= maxIntern {
+		return false
+	}
+	if tp.seen == nil {
+		tp.seen = map[string]span{}
+	}
+	tp.seen[strings.Clone(s)] = sp
+	if group {
+		tp.levels = append(tp.levels, level{sp, ln})
+		return len(tp.seen) > maxLevels
+	}
+	return false
+}
+
+// asciiSpace marks the ASCII bytes unicode.IsSpace accepts.
+var asciiSpace = [256]bool{'\t': true, '\n': true, '\v': true, '\f': true, '\r': true, ' ': true}
+
+// trimSpace is strings.TrimSpace, fast for ASCII edges.
+func trimSpace(s string) string {
+	i, j := 0, len(s)
+	for i < j && asciiSpace[s[i]] {
+		i++
+	}
+	for j > i && asciiSpace[s[j-1]] {
+		j--
+	}
+	if i < j && (s[i] >= 0x80 || s[j-1] >= 0x80) {
+		return strings.TrimSpace(s[i:j])
+	}
+	return s[i:j]
+}
+
+func rowTooLong(path string, line int) error {
+	return &Error{File: path, Line: line, Msg: fmt.Sprintf("the row starting on this line is longer than %s, the longest row bivar reads: check that the file is CSV with one row per line and that every double quote is closed", bytesText(MaxRowBytes))}
+}
+
+func fieldCountMsg(got, want int) string {
+	return fmt.Sprintf("this row has %s but the header has %d: look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes", fieldCount(got), want)
+}
+
+func levelsError(cfg *config, c *column, s string, line int) error {
+	return &Error{File: cfg.path, Line: line, Column: c.name, Text: cellText(s),
+		Msg: fmt.Sprintf("a group column may hold at most %d distinct values, and %s on this line is one more: a group names machines, lots or shifts; if this column identifies rows or holds measurements, group by another column, and if it really is a grouping, raise max_levels for the dataset", cfg.lim.MaxLevels, quoteCell(s))}
+}

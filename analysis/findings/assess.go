@@ -775,8 +775,8 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		}
 	case "nonlinear":
 		if f.dcor != nil {
-			add("The distance correlation, which detects dependence of any shape, is %s (%s, %d permutations), against |r| = %s.",
-				num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), f.dcor.Permutations, corr(math.Abs(f.r)))
+			add("The distance correlation, which detects dependence of any shape, is %s (%s), against |r| = %s.",
+				num(float64(f.dcor.DCor)), f.dcorP(), corr(math.Abs(f.r)))
 		}
 		if f.dwRoute {
 			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): %s goes up and down with %s in a way neither the straight line nor the quadratic follows. Look at the scatterplot.",
@@ -814,6 +814,21 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		add("Where %s repeats, the means of the repeated settings scatter about the line more than repeat runs scatter about their own mean (lack-of-fit F = %s on %d and %d df, %s): the line summarises the trend but does not pass through every setting's mean.",
 			x, num(float64(lf.F)), lf.DF1, lf.DF2, f.screenP(checkLackOfFit, float64(lf.P)))
 	}
+}
+
+// dcorP writes the distance correlation's permutation p with its Monte
+// Carlo error and what the sequential rule settled: "p = 0.012 ± 0.003
+// from 999 permutations".
+func (f *facts) dcorP() string {
+	d := f.dcor
+	t := f.pv(float64(d.P))
+	if d.Permutations > 0 && d.MCError.Valid() {
+		t += fmt.Sprintf(" ± %s from %d permutations", num(float64(d.MCError)), d.Permutations)
+		if !d.Resolved {
+			t += ", within Monte Carlo error of alpha after the most permutations the rule draws"
+		}
+	}
+	return t
 }
 
 func (f *facts) quadP() float64 {

@@ -242,15 +242,19 @@ type Diagnostics struct {
 	LackOfFit    *LackOfFit    `json:"lack_of_fit"` // nil unless x repeats: at most n/2 distinct settings (see analysis.diagnostics)
 	DistanceCorr *DistanceCorr `json:"distance_corr"`
 	BreuschPagan *ChiTest      `json:"breusch_pagan"` // Koenker's studentized form, n·R² of e² on x
-	DurbinWatson Float         `json:"durbin_watson"` // residuals in run order (file order when no `order`)
-	OrderTrend   *OrderTrend   `json:"order_trend"`   // nil when no `order`
-	Resistant    *Resistant    `json:"resistant"`
-	Lowess       *LowessInfo   `json:"lowess"`
+	// DurbinWatson is the statistic of the residuals in run order, averaged
+	// over the orders of rows whose run order ties (stats.DurbinWatsonTied);
+	// in file order when there is no `order` (no verdict reads it then).
+	DurbinWatson Float       `json:"durbin_watson"`
+	OrderTrend   *OrderTrend `json:"order_trend"` // nil when no `order`
+	Resistant    *Resistant  `json:"resistant"`
+	Lowess       *LowessInfo `json:"lowess"`
 
 	// DurbinWatsonX is the Durbin–Watson statistic of the line's residuals
-	// taken in order of x (ties in data order); above 20000 rows, of every
-	// k-th row in data order, k = ⌈n/20000⌉ (DurbinWatsonXRows says how
-	// many were used). The form verdict reads it. NaN below 8 rows.
+	// taken in order of x, averaged over every order of rows whose x ties
+	// (stats.DurbinWatsonTied), on all rows, so it depends on the set of
+	// rows and not on the file's order (DurbinWatsonXRows says how many
+	// rows). The form verdict reads it. NaN below 8 rows.
 	DurbinWatsonX     Float `json:"durbin_watson_x"`
 	DurbinWatsonXRows int   `json:"durbin_watson_x_rows"`
 	// SpreadRho is Spearman's ρ of |residual| on x over the same rows: its
@@ -271,9 +275,17 @@ type LackOfFit struct {
 type DistanceCorr struct {
 	DCor         Float  `json:"dcor"`
 	P            Float  `json:"p"`
-	Permutations int    `json:"permutations"`
-	Sampled      int    `json:"sampled"` // rows used (a seeded sample above the stated bound; = n otherwise)
+	Permutations int    `json:"permutations"` // permutations drawn (the sequential rule stops early when p is clearly on one side of alpha)
+	Sampled      int    `json:"sampled"`      // rows tested (above the stated bound, a sample chosen by the rows' values; = n otherwise)
 	Method       string `json:"method"`
+	// MCError is the Monte Carlo standard error of P, √(p(1 − p)/permutations).
+	MCError Float `json:"mc_error"`
+	// Resolved: the sequential rule settled on which side of alpha the
+	// exact permutation p lies, with a chance below FlipRisk of being wrong
+	// (so another random stream would give the same verdict); false when
+	// the last look still left p within Monte Carlo error of alpha.
+	Resolved bool    `json:"resolved"`
+	FlipRisk float64 `json:"flip_risk"` // the rule's bound on that chance (0.001)
 }
 
 // ChiTest is a chi-squared test statistic.

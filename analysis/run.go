@@ -143,7 +143,7 @@ func Thresholds(t manifest.Thresholds) report.Thresholds {
 	set(&th.LeverageFactor, t.LeverageFactor)
 	set(&th.OutlierZ, t.OutlierZ)
 	set(&th.CooksD, t.CooksD)
-	set(&th.CurveGainR2, t.CurveGainR2)
+	set(&th.CurveShare, t.CurveShare)
 	set(&th.NonlinearDcor, t.NonlinearDcor)
 	set(&th.OutlierFamilyAlpha, t.OutlierFamilyAlpha)
 	set(&th.DriftDW, t.DriftDW)

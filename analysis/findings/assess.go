@@ -51,7 +51,7 @@ type facts struct {
 	linSig bool
 	quad   *report.Fit
 	b2     float64
-	gain   float64
+	share  float64 // share of the line's residual sum of squares the quadratic removes
 	curved bool
 	nonlin bool
 	dcor   *report.DistanceCorr
@@ -93,7 +93,9 @@ type facts struct {
 //     one way with x); otherwise none.
 //   - form: curved when the x² term's p, after Holm's adjustment within the
 //     study (see below), is below alpha, the quadratic as a
-//     whole is significant and it adds at least CurveGainR2 to R²; it bends
+//     whole is significant and it removes at least the share CurveShare of
+//     the straight line's residual sum of squares (curveShare; a rule that
+//     does not depend on how much the line already explains); it bends
 //     down when the x² coefficient is negative, up when positive; it turns
 //     over when the fitted curve's vertex lies inside the observed x range,
 //     the curve changes by at least its residual SE on both sides of the
@@ -236,6 +238,24 @@ func (f *facts) strengthOf(a float64) string {
 	return "weak"
 }
 
+// curveShare is the share of the straight line's residual sum of squares
+// that the quadratic removes, (RSS_line − RSS_quad)/RSS_line: the partial
+// R² of x² given x. From R² where an RSS is missing; NaN when the line
+// leaves no residual.
+func curveShare(s *report.Study, q *report.Fit) float64 {
+	if s.Line != nil && s.Line.RSS.Valid() && q.RSS.Valid() && s.Line.RSS > 0 {
+		return 1 - float64(q.RSS)/float64(s.Line.RSS)
+	}
+	l := float64(s.Pearson.R2)
+	if s.Line != nil && s.Line.R2.Valid() {
+		l = float64(s.Line.R2)
+	}
+	if !(l < 1) {
+		return math.NaN()
+	}
+	return (float64(q.R2) - l) / (1 - l)
+}
+
 // quadratic returns the study's quadratic model, or nil.
 func quadratic(s *report.Study) *report.Fit {
 	for i := range s.Models {
@@ -268,15 +288,11 @@ func (f *facts) decide(out *report.Findings) {
 	f.screens()
 
 	// Curvature.
-	lineR2 := float64(s.Pearson.R2)
-	if s.Line != nil && s.Line.R2.Valid() {
-		lineR2 = float64(s.Line.R2)
-	}
 	f.quad = quadratic(s)
 	if q := f.quad; q != nil && len(q.Coefficients) == 3 {
 		f.b2 = float64(q.Coefficients[2].Estimate)
-		f.gain = float64(q.R2) - lineR2
-		f.curved = f.screenAdj[checkCurvature] < f.alpha && float64(q.FP) < f.alpha && f.gain >= f.th.CurveGainR2 && f.b2 != 0
+		f.share = curveShare(s, q)
+		f.curved = f.screenAdj[checkCurvature] < f.alpha && float64(q.FP) < f.alpha && f.share >= f.th.CurveShare && f.b2 != 0
 	}
 	if s.Diagnostics != nil {
 		f.dcor = s.Diagnostics.DistanceCorr
@@ -793,7 +809,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 			c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
 			why := "its x² term is not clear"
 			if f.screenAdj[checkCurvature] < f.alpha {
-				why = fmt.Sprintf("it adds less than the %s to R² that would count as a curve (%s)", num(f.th.CurveGainR2), OwnChoice)
+				why = fmt.Sprintf("it removes a share %s of the line's residual sum of squares, less than the %s that would count as a curve (%s)", f.shareText(), num(f.th.CurveShare), OwnChoice)
 			}
 			add("A quadratic curve gives R² = %s against %s for the straight line (x² term %s): %s, so the form is taken as a straight line.",
 				c, l, f.screenP(checkCurvature, f.quadP()), why)

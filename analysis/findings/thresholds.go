@@ -13,7 +13,7 @@ import (
 // DefaultThresholds returns every cut point the findings use. None of them
 // is a standard. Some are common practice or come from the literature
 // (Strong, Moderate, Weak, LeverageFactor, OutlierZ, CooksD, DriftDW, each
-// with its source below); the others (CurveGainR2, NonlinearDcor,
+// with its source below); the others (CurveShare, NonlinearDcor,
 // ReversalMinGroup, FormDW) are this project's own choices, and the
 // sentences that print them say so (OwnChoice). A manifest may override
 // any of them in its [thresholds] table.
@@ -45,10 +45,15 @@ import (
 //     ln 2 ≈ 0.69 as n grows, so about 0.7 from n ≈ 10 on but higher for
 //     the smallest studies. The rule "D > 4/n" flags about one row in
 //     twenty of clean data and is not used.
-//   - CurveGainR2 0.05 (project choice, no published source): the form is
-//     "curved" when the quadratic term is significant and the quadratic
-//     adds at least 0.05 to R² over the line, so a bend too slight to
-//     matter in practice is still called a line.
+//   - CurveShare 0.1 (project choice, no published source): the form is
+//     "curved" when the x² term is significant and the quadratic removes at
+//     least a tenth of the straight line's residual sum of squares,
+//     (RSS_line − RSS_quad)/RSS_line (the partial R² of x² given x), so a
+//     bend too slight to matter beside the scatter is still called a line.
+//     The share does not depend on how much the line already explains: an
+//     absolute gain in R² (0.05, this tool's earlier rule) called a clear
+//     curve straight once the line's R² passed 0.95, as in weekly CO₂
+//     against time or food expenditure against income.
 //   - NonlinearDcor 0.15 (project choice, tuned on our own generated
 //     suite, testdata/suite): the form is "nonlinear" when the distance
 //     correlation is significant, at least 0.15 and larger than |r| (for
@@ -82,7 +87,7 @@ func DefaultThresholds() report.Thresholds {
 		OutlierZ:           3,
 		OutlierFamilyAlpha: 0.05,
 		CooksD:             0.5,
-		CurveGainR2:        0.05,
+		CurveShare:         0.1,
 		NonlinearDcor:      0.15,
 		ReversalMinGroup:   5,
 		DriftDW:            1.5,

@@ -42,6 +42,13 @@ func (f *facts) pBoth() string {
 	return f.pv(float64(f.s.Pearson.P))
 }
 
+// shareText writes the share of the line's residual sum of squares that
+// the quadratic removes, "0.31", with digits enough to stay on the right
+// side of CurveShare.
+func (f *facts) shareText() string {
+	return corrVs(f.share, f.th.CurveShare)
+}
+
 // alphaText is "0.05".
 func (f *facts) alphaText() string { return num(f.alpha) }
 
@@ -118,8 +125,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 	case "curved":
 		q := f.quad
 		l, c := corrPair(lineR2, float64(q.R2))
-		w := fmt.Sprintf("Curved: the quadratic's x² term is significant (%s), and so is the quadratic as a whole (F test %s); it raises R² from %s for the line to %s, a gain of %s, at least the %s required (%s).",
-			f.pv(f.quadP()), f.pv(float64(q.FP)), l, c, corr(f.gain), num(f.th.CurveGainR2), OwnChoice)
+		w := fmt.Sprintf("Curved: the quadratic's x² term is significant (%s), and so is the quadratic as a whole (F test %s); it raises R² from %s for the line to %s and removes a share %s of the line's residual sum of squares, at least the %s required (%s).",
+			f.screenP(checkCurvature, f.quadP()), f.pv(float64(q.FP)), l, c, f.shareText(), num(f.th.CurveShare), OwnChoice)
 		bend := "up (the x² coefficient is positive)"
 		if f.b2 < 0 {
 			bend = "down (the x² coefficient is negative)"
@@ -164,8 +171,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 		}
 		if q := f.quad; q != nil && q.R2.Valid() {
 			l, c := corrPair(lineR2, float64(q.R2))
-			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic; a curve needs the x² term and the quadratic significant at %s and a gain in R² of at least %s, %s)",
-				f.pv(f.quadP()), l, c, f.alphaText(), num(f.th.CurveGainR2), OwnChoice)
+			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic, which removes a share %s of the line's residual sum of squares; a curve needs the x² term and the quadratic significant at %s and a share of at least %s, %s)",
+				f.screenP(checkCurvature, f.quadP()), l, c, f.shareText(), f.alphaText(), num(f.th.CurveShare), OwnChoice)
 		}
 		if f.dwx < f.dwxBound {
 			w += fmt.Sprintf(". The residuals in order of %s swing together (Durbin–Watson %s, below %s), but with |r| = %s at or above %s that does not overturn the line; look at the residual plot",
@@ -194,7 +201,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 		w += fmt.Sprintf("; the residuals in order of %s do not swing together (Durbin–Watson %s, not below %s)", f.xLabel, num(f.dwx), f.dwxBoundText())
 	}
 	if f.quad != nil && !math.IsNaN(f.quadP()) && !f.curved {
-		w += fmt.Sprintf("; no curve qualifies (x² term %s)", f.pv(f.quadP()))
+		w += fmt.Sprintf("; no curve qualifies (x² term %s)", f.screenP(checkCurvature, f.quadP()))
 	}
 	return w + "."
 }

@@ -56,7 +56,7 @@ type Thresholds struct {
 	LeverageFactor   float64 `json:"leverage_factor"`    // high leverage when h > factor·p/n (3)
 	OutlierZ         float64 `json:"outlier_z"`          // outlier when |externally studentized| > this (3)
 	CooksD           float64 `json:"cooks_d"`            // influential when Cook's D > this quantile of F(p, n−p) (0.5; see findings)
-	CurveGainR2      float64 `json:"curve_gain_r2"`      // curved needs the quadratic to add at least this R² (0.05)
+	CurveShare       float64 `json:"curve_share"`        // curved needs the quadratic to remove at least this share of the line's residual sum of squares (0.1)
 	NonlinearDcor    float64 `json:"nonlinear_dcor"`     // nonlinear when dcor at or above this while |r| is weak (0.15)
 	ReversalMinGroup int     `json:"reversal_min_group"` // smallest group used in the reversal check (5)
 	// OutlierFamilyAlpha sets the Bonferroni bound for outliers: |t| must also

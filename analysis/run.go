@@ -53,7 +53,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		Tool:      report.Tool{Name: "bivar", Version: opts.Version},
 		Generated: opts.Generated,
 		Manifest: report.ManifestInfo{File: m.Path, Title: m.Title, Design: cfg.Design, Alpha: cfg.Alpha,
-			Adjust: adjust, Seed: m.Seed, Thresholds: cfg.Thresholds},
+			Adjust: adjust, Seed: m.Seed, Thresholds: cfg.Thresholds, Rules: findings.Rules(cfg.Thresholds, cfg.Alpha)},
 		Datasets: []report.Dataset{},
 		Studies:  []report.Study{},
 		Caution:  report.Caution,

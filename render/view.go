@@ -158,14 +158,9 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 	if r.Generated != "" {
 		p.Provenance = append(p.Provenance, kv{"Generated", r.Generated})
 	}
-	p.Thresholds = fmt.Sprintf("Cut points in force. Common practice, not a standard: strength from |r| strong at %s, moderate at %s, weak at %s; "+
-		"high leverage above %s·p/n; outlier when the externally studentized residual exceeds %s in size (or the Bonferroni bound at family level %s, whichever is larger); "+
-		"influential when Cook's distance exceeds the %s quantile of F(p, n − p); drift when the run-order Durbin–Watson is below %s. "+
-		"Choices of this tool, not common practice: a curve needs the quadratic to remove a share %s of the line's residual sum of squares; nonlinear needs a distance correlation of %s; "+
-		"groups of at least %d rows enter the reversal check; the straight line is said to miss a pattern when the Durbin–Watson in x order is below %s. "+
-		"Each study states how its flag rules apply to its own number of rows.",
-		short(th.Strong), short(th.Moderate), short(th.Weak), short(th.LeverageFactor), short(th.OutlierZ), short(th.OutlierFamilyAlpha),
-		short(th.CooksD), short(th.DriftDW), short(th.CurveShare), short(th.NonlinearDcor), th.ReversalMinGroup, short(th.FormDW))
+	// The findings state the cut points as the rules apply them; a report
+	// written before that field existed shows its table of cut points only.
+	p.Thresholds = m.Rules
 
 	p.Datasets = table{Caption: "Data files read",
 		Head: []string{"Dataset", "File", "SHA-256", "Rows read", "Missing cells", "Non-numeric cells"},

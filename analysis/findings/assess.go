@@ -417,6 +417,86 @@ func (f *facts) decide(out *report.Findings) {
 			out.SpreadChanges = true
 		}
 	}
+	out.CurveShare = report.Float(f.share)
+	if f.quad == nil {
+		out.CurveShare = report.NaN()
+	}
+	out.Rows = f.rowsEffect(out)
+	out.Checks = f.checks(out)
+}
+
+// rowsEffect names what leaving out the suspect rows does to the verdict
+// (report.Findings.Rows), from the figures decide has set.
+func (f *facts) rowsEffect(out *report.Findings) string {
+	se := f.s.Sensitivity
+	if se == nil || se.NFlagged == 0 {
+		return ""
+	}
+	rw := float64(se.RWithoutFlagged)
+	switch {
+	case f.without == "undefined":
+		return "undefined"
+	case f.rdir == "none" && f.without != "none":
+		return "hides-relationship"
+	case f.without != f.rdir:
+		return "direction-changes"
+	case f.weaker:
+		return "weaker"
+	case f.withinCI:
+		return "within-interval"
+	case f.rdir != "none" && grade(f.strengthOf(math.Abs(rw))) > grade(out.Strength):
+		return "stronger"
+	}
+	return "stands"
+}
+
+// checks lists the tests the verdicts read, with their figures.
+func (f *facts) checks(out *report.Findings) []report.Check {
+	nan := report.NaN()
+	var c []report.Check
+	screen := func(name, key string, stat float64, raised bool) {
+		raw, ok := f.screenRaw[key]
+		if !ok {
+			return
+		}
+		c = append(c, report.Check{Name: name, Stat: report.Float(stat), P: report.Float(raw),
+			PAdjusted: report.Float(math.Min(1, f.screenAdj[key])), Bound: nan, Raised: raised, Adjusted: true})
+	}
+	s := f.s
+	if q := f.quad; q != nil && len(q.Coefficients) == 3 {
+		screen("curvature", checkCurvature, float64(q.Coefficients[2].T), f.screenAdj[checkCurvature] < f.alpha)
+	}
+	if d := s.Diagnostics; d != nil {
+		if d.LackOfFit != nil {
+			screen("lack-of-fit", checkLackOfFit, float64(d.LackOfFit.F), f.lof)
+		}
+		if d.BreuschPagan != nil {
+			screen("changing-spread", checkSpread, float64(d.BreuschPagan.Stat), out.SpreadChanges)
+		}
+		if s.Order != "" {
+			dw, dwp := f.driftDWP()
+			screen("drift", checkDrift, dw, out.Drift)
+			if d.OrderTrend != nil {
+				p := float64(d.OrderTrend.P)
+				c = append(c, report.Check{Name: "drift-trend", Stat: d.OrderTrend.Slope, P: report.Float(p), PAdjusted: report.Float(p), Bound: nan})
+			}
+			if !math.IsNaN(dw) {
+				c = append(c, report.Check{Name: "drift-dw", Stat: report.Float(dw), P: report.Float(dwp), PAdjusted: report.Float(dwp), Bound: report.Float(f.th.DriftDW)})
+			}
+		}
+		if f.dcor != nil {
+			c = append(c, report.Check{Name: "distance-correlation", Stat: f.dcor.DCor, P: f.dcor.P, PAdjusted: f.dcor.P,
+				Bound: report.Float(f.th.NonlinearDcor), Raised: f.dcorRoute})
+		}
+		if !math.IsNaN(f.dwx) {
+			c = append(c, report.Check{Name: "x-order-dw", Stat: report.Float(f.dwx), P: nan, PAdjusted: nan,
+				Bound: report.Float(f.dwxBound), Raised: f.dwx < f.dwxBound})
+		}
+	}
+	if c == nil {
+		c = []report.Check{}
+	}
+	return c
 }
 
 // xOrderDW returns the Durbin–Watson statistic of the line's residuals
@@ -597,6 +677,25 @@ func (f *facts) qualifying() []report.GroupFit {
 	return g
 }
 
+// reversalCount writes the figures of the reversal rule: "of the 3 groups
+// compared, 3 have a slope of the opposite sign, 2 of them clearly
+// (interval excluding 0), and none clearly has the pooled sign".
+func (f *facts) reversalCount() string {
+	g := f.qualifying()
+	pooled := sign(f.r)
+	opposite, sigOpp := 0, 0
+	for _, gf := range g {
+		if sign(float64(gf.Slope)) == -pooled {
+			opposite++
+		}
+		if lo, hi := float64(gf.SlopeLow), float64(gf.SlopeHigh); lo > 0 && pooled < 0 || hi < 0 && pooled > 0 {
+			sigOpp++
+		}
+	}
+	return fmt.Sprintf("of the %d groups compared, %d %s a slope of the opposite sign, %d of them clearly (interval excluding 0), and none clearly has the pooled sign",
+		len(g), opposite, plural(opposite, "has", "have"), sigOpp)
+}
+
 func (f *facts) reversal() bool {
 	if f.rdir == "none" {
 		return false
@@ -670,14 +769,25 @@ func (f *facts) write(out *report.Findings) {
 	if out.OutlierDriven {
 		h = f.drivenHeadline() + " With all rows: " + h
 	} else if rows := f.suspectRows(); len(rows) > 0 && s.Sensitivity != nil && s.Sensitivity.RWithoutFlagged.Valid() {
-		h += fmt.Sprintf(" %s %s flagged; without %s r = %s and the verdict stands.",
-			capital(listRows(rows)), plural(len(rows), "is", "are"), plural(len(rows), "it", "them"), corr(float64(s.Sensitivity.RWithoutFlagged)))
+		rw := float64(s.Sensitivity.RWithoutFlagged)
+		h += fmt.Sprintf(" %s %s flagged; without %s r = %s", capital(listRows(rows)), plural(len(rows), "is", "are"),
+			plural(len(rows), "it", "them"), f.absNumSigned(rw))
+		switch out.Rows {
+		case "stronger":
+			h += fmt.Sprintf(", %s rather than %s: the flagged rows weaken the relationship, they do not make it.",
+				strengthWord(f.strengthOf(math.Abs(rw))), strengthWord(out.Strength))
+		case "within-interval":
+			h += fmt.Sprintf(", which would grade %s, but lies inside r's %s interval: the verdict stands.",
+				strengthWord(f.strengthOf(math.Abs(rw))), f.conf)
+		default:
+			h += " and the verdict stands."
+		}
 	}
 	if out.Reversal {
-		h += fmt.Sprintf(" Within each %s the direction reverses: the pooled trend comes from differences between the groups.", f.groupLabel())
+		h += fmt.Sprintf(" Within most groups of %s the direction reverses: the pooled trend comes from differences between the groups.", f.groupLabel())
 	}
 	if len(out.ExplainedBy) > 0 {
-		h += fmt.Sprintf(" Holding %s fixed, the association is no longer shown.", joinAnd(f.covariateLabels(out.ExplainedBy)))
+		h += " " + f.heldFixed(out.ExplainedBy) + ", the association is no longer shown."
 	}
 	if way := f.hiddenWay(); way != "" {
 		h += fmt.Sprintf(" Within groups of %s, %s %s with %s.", f.groupLabel(), y, way, x)
@@ -936,6 +1046,10 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 	}
 	if se.NFlagged > 0 {
 		verdict := "the verdict stands"
+		if out.Rows == "stronger" {
+			verdict = fmt.Sprintf("the direction stands and the strength rises to %s: the flagged rows weaken the relationship, they do not make it (so it is not outlier-driven)",
+				strengthWord(f.strengthOf(math.Abs(float64(se.RWithoutFlagged)))))
+		}
 		if f.without != f.rdir {
 			verdict = "the verdict does not stand without " + plural(se.NFlagged, "it", "them")
 		} else if f.weaker {
@@ -1084,7 +1198,7 @@ func (f *facts) limits(out *report.Findings) {
 	case out.Drift:
 		add("The residuals drift in run order (by %s; %s): time, or something changing with it, may act on %s besides %s.", f.orderLabel(), f.orderFigures(), y, x)
 	default:
-		add("The residuals show no drift in run order (by %s; %s).", f.orderLabel(), f.orderFigures())
+		add("Drift in run order is not shown at alpha = %s (by %s; %s)%s.", num(f.alpha), f.orderLabel(), f.orderFigures(), f.driftPartsNote())
 	}
 
 	// Multiplicity of the secondary checks.
@@ -1092,6 +1206,21 @@ func (f *facts) limits(out *report.Findings) {
 		add("The checks of %s are screens: their p-values share alpha = %s within this study (Holm's adjustment over its %d %s), but are not adjusted across studies, and the distance correlation and the residuals in order of %s are screened at alpha without adjustment; a flag from any of them calls for a look at the plots, not a conclusion.",
 			joinAnd(f.screenNames), num(f.alpha), len(f.screenNames), plural(len(f.screenNames), "check", "checks"), x)
 	}
+}
+
+// heldFixed is "Holding A fixed", or for several covariates, each of which
+// the rule held fixed on its own, "Holding A fixed, or holding B fixed (one
+// at a time)".
+func (f *facts) heldFixed(names []string) string {
+	labels := f.covariateLabels(names)
+	if len(labels) == 1 {
+		return "Holding " + labels[0] + " fixed"
+	}
+	parts := make([]string, len(labels))
+	for i, l := range labels {
+		parts[i] = "holding " + l + " fixed"
+	}
+	return capital(strings.Join(parts[:len(parts)-1], ", ")+", or "+parts[len(parts)-1]) + " (one at a time)"
 }
 
 // covariateLabels returns the labels of the named covariates (from
@@ -1173,6 +1302,25 @@ func (f *facts) orderFigures() string {
 	return t
 }
 
+// driftPartsNote says, where drift is not called but one of its two parts
+// is below alpha on its own, that the rule's adjusted figure decided and
+// that the residuals may still hang together in run order.
+func (f *facts) driftPartsNote() string {
+	d := f.s.Diagnostics
+	var parts []string
+	if d.OrderTrend != nil && float64(d.OrderTrend.P) < f.alpha {
+		parts = append(parts, "the trend alone")
+	}
+	if _, p := f.driftDWP(); p < f.alpha {
+		parts = append(parts, "the Durbin–Watson statistic alone")
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return fmt.Sprintf(": %s would be below alpha, but the check reads the smaller p of its two parts doubled%s, so the residuals may still hang together in run order, and p-values and intervals that assume independent rows may be too small or too narrow",
+		joinAnd(parts), map[bool]string{true: " and adjusted by Holm's method over the study's checks", false: ""}[len(f.screenNames) > 1])
+}
+
 // hiddenWay returns "rises" or "falls" when r shows no direction but, of
 // two or more groups large enough to compare, most have a slope interval
 // on one side of 0 and none on the other (one group of many can do that
@@ -1219,8 +1367,8 @@ func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 	case len(g) < 2:
 		add("Fewer than two groups of %s have %d rows or more (the smallest size compared, %s), so the groups were not compared.", f.groupLabel(), f.th.ReversalMinGroup, OwnChoice)
 	case out.Reversal:
-		add("Within each %s the direction reverses: pooled, %s %s with %s, but within groups it goes the other way (%s). The pooled relationship comes from differences between the groups.",
-			f.groupLabel(), f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, detail)
+		add("Within groups of %s the direction reverses: pooled, %s %s with %s, but %s (%s). The pooled relationship comes from differences between the groups.",
+			f.groupLabel(), f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, f.reversalCount(), detail)
 	case f.rdir == "none":
 		add("Within each %s a line was fitted (%s); the pooled data show no direction, so there is none to reverse, and most groups do not agree on one.", f.groupLabel(), detail)
 	default:

@@ -8,6 +8,8 @@ package findings
 import (
 	"fmt"
 	"math"
+	"slices"
+	"strings"
 
 	"bivar/analysis/report"
 )
@@ -18,6 +20,49 @@ func (f *facts) why(out *report.Findings) {
 	out.FormWhy = f.formWhy(out)
 	out.DirectionWhy = f.directionWhy(out)
 	out.StrengthWhy = f.strengthWhy(out)
+	out.Reasons = f.reasons(out)
+}
+
+// reasons writes, for each secondary verdict that is raised, the rule that
+// raised it with its figures (report.Reason).
+func (f *facts) reasons(out *report.Findings) []report.Reason {
+	rs := []report.Reason{}
+	add := func(verdict, topic, why string) {
+		rs = append(rs, report.Reason{Verdict: verdict, Topic: topic, Why: why})
+	}
+	s := f.s
+	if out.OutlierDriven {
+		h := f.drivenHeadline()
+		add("outlier_driven", "Influence", "Outlier-driven: "+strings.ToLower(h[:1])+h[1:])
+	}
+	if out.Reversal {
+		add("reversal", "Groups", fmt.Sprintf("Reversal: pooled, r = %s; within groups of %s, %s (groups of at least %d rows are compared, %s).",
+			f.rNum(), f.groupLabel(), f.reversalCount(), f.th.ReversalMinGroup, OwnChoice))
+	}
+	if len(out.ExplainedBy) > 0 {
+		var parts []string
+		for _, pc := range s.Partial {
+			if !slices.Contains(out.ExplainedBy, pc.Covariate) {
+				continue
+			}
+			why := "its sign differs from r's"
+			if sign(float64(pc.R)) == sign(f.r) {
+				why = fmt.Sprintf("%s is not below %s, and its interval excludes r = %s", f.pv(float64(pc.P)), f.alphaText(), f.rNum())
+			}
+			parts = append(parts, fmt.Sprintf("holding %s fixed, partial r = %s (%s, %s): %s",
+				f.covariateLabels([]string{pc.Covariate})[0], corr(float64(pc.R)), f.interval(pc.CILow, pc.CIHigh), f.pv(float64(pc.P)), why))
+		}
+		add("explained_by", "Covariates", "Explained by "+joinAnd(f.covariateLabels(out.ExplainedBy))+": "+strings.Join(parts, "; ")+
+			" (each partial correlation holds one covariate fixed).")
+	}
+	if out.Drift {
+		add("drift", "Run order", fmt.Sprintf("Drift: the residuals drift in run order (by %s; %s), below alpha = %s.", f.orderLabel(), f.orderFigures(), f.alphaText()))
+	}
+	if out.SpreadChanges && s.Diagnostics != nil && s.Diagnostics.BreuschPagan != nil {
+		add("spread_changes", "Spread", fmt.Sprintf("Spread changes: Breusch–Pagan %s, below alpha = %s: the scatter about the line changes with %s.",
+			f.screenP(checkSpread, float64(s.Diagnostics.BreuschPagan.P)), f.alphaText(), f.xLabel))
+	}
+	return rs
 }
 
 // rShown is "r = 0.83 (95% CI 0.76 to 0.88) with p = 0.004", with the p

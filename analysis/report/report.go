@@ -44,6 +44,10 @@ type ManifestInfo struct {
 	SHA256     string     `json:"sha256"`
 	Seed       uint64     `json:"seed"` // seed of every random source (permutation tests)
 	Thresholds Thresholds `json:"thresholds"`
+	// Rules states the cut points in force as the rules apply them
+	// (findings.Rules), for people: common practice apart from this tool's
+	// own choices.
+	Rules string `json:"rules"`
 }
 
 // Thresholds are the cut points the findings use. The defaults live in
@@ -457,6 +461,53 @@ type Findings struct {
 	// ExplainedBy lists the covariates given which the association is no
 	// longer shown (partial r's interval includes 0, or it turns sign).
 	ExplainedBy []string `json:"explained_by"`
+
+	// CurveShare is the share of the straight line's residual sum of
+	// squares that the quadratic removes (the curve rule reads it against
+	// Thresholds.CurveShare); NaN without a quadratic.
+	CurveShare Float `json:"curve_share"`
+	// Rows says what leaving out the rows flagged as outliers, influential
+	// or of sole support does to the verdict: "" when no row is flagged or
+	// r cannot be recomputed without them; "stands" (same direction and
+	// strength grade), "stronger" (same direction, a higher grade: the rows
+	// hide some of the relationship), "within-interval" (a lower grade, but
+	// r without them inside r's interval), "weaker" (a lower grade, r
+	// without them outside r's interval), "direction-changes" (another
+	// direction, or none), "hides-relationship" (no direction with them,
+	// one without), "undefined" (r cannot be computed without them).
+	Rows string `json:"rows"`
+	// Checks are the tests the verdicts read, each with every number it
+	// rests on: p raw and after Holm's adjustment within the study.
+	Checks []Check `json:"checks"`
+	// Reasons say, for each secondary verdict that is raised (outlier
+	// driven, reversal, explained by, drift, spread changes, groups'
+	// lines), which rule decided it, with its figures: the sentence a
+	// renderer shows beside the verdict.
+	Reasons []Reason `json:"reasons"`
+}
+
+// Check is one test that a verdict reads.
+type Check struct {
+	// Name: curvature | lack-of-fit | changing-spread | drift (the run-order
+	// check: its P is the smaller of drift-trend's and drift-dw's, doubled)
+	// | drift-trend | drift-dw | distance-correlation | x-order-dw.
+	Name string `json:"name"`
+	Stat Float  `json:"stat"` // the statistic: x² t, lack-of-fit F, Breusch–Pagan χ², Durbin–Watson, residual trend slope, dcor
+	P    Float  `json:"p"`    // its p (one-sided for drift-dw); NaN where the rule reads no p
+	// PAdjusted is P after Holm's adjustment over the study's screens
+	// (curvature, lack-of-fit, changing-spread, drift); = P for a check
+	// read unadjusted or as part of another; NaN where P is.
+	PAdjusted Float `json:"p_adjusted"`
+	Bound     Float `json:"bound"`    // the cut point Stat is compared with, where the rule has one (NaN otherwise)
+	Raised    bool  `json:"raised"`   // the check fired by its own rule
+	Adjusted  bool  `json:"adjusted"` // PAdjusted comes from Holm's adjustment within the study
+}
+
+// Reason is the sentence of the rule that raised one secondary verdict.
+type Reason struct {
+	Verdict string `json:"verdict"` // outlier_driven | reversal | explained_by | drift | spread_changes | groups_differ
+	Topic   string `json:"topic"`   // for people: Influence, Groups, Covariates, Run order, Spread
+	Why     string `json:"why"`
 }
 
 // Expectation is one CI gate from [study.expect] and its outcome.

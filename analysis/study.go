@@ -240,6 +240,7 @@ func analyze(in Input, cfg Config) report.Study {
 		order = cc.order
 	}
 	s.Diagnostics = diagnostics(in.ID, x, y, line, quad, order, cfg)
+	s.Robust = robust(x, y, order, pc.R, conf)
 	lx, ly := canonical(x, y, cfg.LowessMaxN)
 	s.Diagnostics.Lowess = &report.LowessInfo{Frac: cfg.LowessFrac, Iterations: cfg.LowessIter, Delta: lowessDelta(lx), Sampled: len(lx)}
 
@@ -342,7 +343,7 @@ func failed(s report.Study, msg string) report.Study {
 	s.Error = &msg
 	s.Moments, s.Describe, s.Pearson, s.Spearman, s.Kendall, s.Line = nil, nil, nil, nil, nil, nil
 	s.Models, s.Diagnostics, s.Partial, s.Groups, s.Influence, s.Sensitivity = nil, nil, nil, nil, nil, nil
-	s.UnitInvariance, s.Predictions, s.Findings, s.Plot = nil, nil, nil, nil
+	s.UnitInvariance, s.Predictions, s.Findings, s.Plot, s.Robust = nil, nil, nil, nil, nil
 	listsAlways(&s)
 	return s
 }

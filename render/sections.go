@@ -115,6 +115,19 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 		if l.Slope != nil {
 			add("Slope ("+unitPer(s)+")", num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P))
 			add("Slope standard error", num(l.Slope.SE), "", "")
+			// The slope's intervals that allow for what the findings found:
+			// residuals that hang together in run order, a changing scatter.
+			if rb, f := s.Robust, s.Findings; rb != nil && f != nil {
+				if rb.HAC != nil && f.Autocorrelated {
+					add(fmt.Sprintf("Slope, Newey–West standard error (%d lags)", rb.HAC.Lags), num(rb.HAC.SE), interval(rb.HAC.CILow, rb.HAC.CIHigh), pval(rb.HAC.P))
+				}
+				if rb.HC3 != nil && f.SpreadChanges {
+					add("Slope, HC3 standard error", num(rb.HC3.SE), interval(rb.HC3.CILow, rb.HC3.CIHigh), pval(rb.HC3.P))
+				}
+				if rb.NEff.Valid() && f.Autocorrelated && s.Pearson != nil {
+					add("Pearson r, effective n "+num(rb.NEff), num(s.Pearson.R), interval(rb.RLow, rb.RHigh), pval(rb.RP))
+				}
+			}
 		}
 		if l.Intercept != nil {
 			add("Intercept", num(l.Intercept.Estimate), interval(l.Intercept.CILow, l.Intercept.CIHigh), pval(l.Intercept.P))
@@ -128,7 +141,11 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 			add(fmt.Sprintf("Lack of fit F (%d, %d)", lf.DF1, lf.DF2), num(lf.F), "", pval(lf.P))
 		}
 		if dc := d.DistanceCorr; dc != nil {
-			add(fmt.Sprintf("Distance correlation (%d permutations)", dc.Permutations), num(dc.DCor), "", pval(dc.P))
+			dcp := pval(dc.P)
+			if dc.MCError.Valid() {
+				dcp += " ± " + num(dc.MCError)
+			}
+			add(fmt.Sprintf("Distance correlation (%d permutations)", dc.Permutations), num(dc.DCor), "", dcp)
 		}
 		if bp := d.BreuschPagan; bp != nil {
 			add(fmt.Sprintf("Breusch–Pagan χ² (df %d)", bp.DF), num(bp.Stat), "", pval(bp.P))

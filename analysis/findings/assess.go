@@ -417,6 +417,10 @@ func (f *facts) decide(out *report.Findings) {
 			out.SpreadChanges = true
 		}
 	}
+	if s.Order != "" {
+		_, dwp := f.driftDWP()
+		out.Autocorrelated = out.Drift || dwp < f.alpha
+	}
 	out.CurveShare = report.Float(f.share)
 	if f.quad == nil {
 		out.CurveShare = report.NaN()
@@ -857,6 +861,11 @@ func (f *facts) write(out *report.Findings) {
 			}
 			add("The scatter about the line %s with %s (Breusch–Pagan %s%s): the bands, which assume an even scatter, are too narrow in some places and too wide in others.",
 				how, x, f.screenP(checkSpread, float64(bp.P)), rho)
+			if rb := s.Robust; rb != nil && rb.HC3 != nil && rb.HC3.CILow.Valid() && s.Line != nil && s.Line.Slope != nil {
+				add("Allowing for the changing scatter, the slope's %s interval from HC3 standard errors (heteroscedasticity-consistent; normal quantiles) is %s to %s %s, against %s to %s from the ordinary ones.",
+					f.conf, num(float64(rb.HC3.CILow)), num(float64(rb.HC3.CIHigh)), perUnit(f.ySym, f.xSym, x),
+					num(float64(s.Line.Slope.CILow)), num(float64(s.Line.Slope.CIHigh)))
+			}
 		} else {
 			add("The scatter about the line shows no clear change with %s (Breusch–Pagan %s).", x, f.screenP(checkSpread, float64(bp.P)))
 		}
@@ -1193,12 +1202,17 @@ func (f *facts) limits(out *report.Findings) {
 	d := s.Diagnostics
 	switch {
 	case s.Order == "":
-		add("No run order was declared, so drift over time was not checked.")
+		add("No run order was declared, so drift over time, and dependence between rows taken one after another, were not checked: the p-values and intervals in this report assume independent rows.")
 	case d == nil:
 	case out.Drift:
 		add("The residuals drift in run order (by %s; %s): time, or something changing with it, may act on %s besides %s.", f.orderLabel(), f.orderFigures(), y, x)
 	default:
 		add("Drift in run order is not shown at alpha = %s (by %s; %s)%s.", num(f.alpha), f.orderLabel(), f.orderFigures(), f.driftPartsNote())
+	}
+
+	// Independence.
+	if s.Order != "" && d != nil {
+		f.independence(out, add)
 	}
 
 	// Multiplicity of the secondary checks.
@@ -1300,6 +1314,38 @@ func (f *facts) orderFigures() string {
 		t += f.holmSuffix(checkDrift, raw)
 	}
 	return t
+}
+
+// independence states, with a run order, whether the p-values and
+// intervals' assumption of independent rows holds up, and where the
+// residuals hang together in run order, the slope's Newey–West interval
+// and r with Bartlett's effective sample size.
+func (f *facts) independence(out *report.Findings, add func(string, ...any)) {
+	s := f.s
+	if !out.Autocorrelated {
+		add("The p-values and intervals in this report assume independent rows; in run order the residuals do not clearly hang together (figures above).")
+		return
+	}
+	dw, dwp := f.driftDWP()
+	t := fmt.Sprintf("The residuals hang together in run order (Durbin–Watson %s, one-sided %s%s), so the p-values and intervals above, which assume independent rows, are too optimistic.",
+		num(dw), f.pv(dwp), map[bool]string{true: "; drift is called", false: ""}[out.Drift])
+	rb := s.Robust
+	if rb != nil && rb.HAC != nil && rb.HAC.CILow.Valid() && s.Line != nil && s.Line.Slope != nil {
+		t += fmt.Sprintf(" Allowing for it, the slope's %s interval from Newey–West standard errors (Bartlett kernel, %d %s, floor(4(n/100)^(2/9)); normal quantiles) is %s to %s %s, against %s to %s from the ordinary ones.",
+			f.conf, rb.HAC.Lags, plural(rb.HAC.Lags, "lag", "lags"), num(float64(rb.HAC.CILow)), num(float64(rb.HAC.CIHigh)), perUnit(f.ySym, f.xSym, f.xLabel),
+			num(float64(s.Line.Slope.CILow)), num(float64(s.Line.Slope.CIHigh)))
+	}
+	if rb != nil && rb.NEff.Valid() {
+		t += fmt.Sprintf(" For r, Bartlett's effective sample size n(1 − ρx·ρy)/(1 + ρx·ρy), from the lag-1 autocorrelations of %s (%s) and %s (%s) in run order, is %s of %d rows",
+			f.xLabel, corr(float64(rb.Rho1X)), f.yLabel, corr(float64(rb.Rho1Y)), num(float64(rb.NEff)), s.N)
+		if rb.RP.Valid() {
+			t += fmt.Sprintf(", giving r's %s and %s", f.interval(rb.RLow, rb.RHigh), f.pv(float64(rb.RP)))
+		} else {
+			t += ", too few for r to be tested"
+		}
+		t += "."
+	}
+	add("%s", t)
 }
 
 // driftPartsNote says, where drift is not called but one of its two parts

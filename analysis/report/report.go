@@ -142,10 +142,13 @@ type Study struct {
 	UnitInvariance []UnitRow     `json:"unit_invariance"`
 	Predictions    []Prediction  `json:"predictions"`
 	Findings       *Findings     `json:"findings"`
-	Expectations   []Expectation `json:"expectations"`
-	Notes          string        `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
-	Error          *string       `json:"error"`
-	Plot           *Plot         `json:"-"` // per-point data for the charts; not in results.json
+	// Robust holds intervals for the slope and r that do not lean on the
+	// ordinary ones' assumptions of independent rows with an even scatter.
+	Robust       *Robust       `json:"robust"`
+	Expectations []Expectation `json:"expectations"`
+	Notes        string        `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
+	Error        *string       `json:"error"`
+	Plot         *Plot         `json:"-"` // per-point data for the charts; not in results.json
 }
 
 // Exclusion counts rows dropped from a study because one column was missing there.
@@ -462,6 +465,12 @@ type Findings struct {
 	// longer shown (partial r's interval includes 0, or it turns sign).
 	ExplainedBy []string `json:"explained_by"`
 
+	// Autocorrelated: with a run order, the line's residuals hang together
+	// in it (their Durbin–Watson statistic's one-sided p, Checks
+	// "drift-dw", below alpha, or drift raised): p-values and intervals that
+	// assume independent rows are then too optimistic, and the study's
+	// Robust HAC interval and effective n allow for it.
+	Autocorrelated bool `json:"autocorrelated"`
 	// CurveShare is the share of the straight line's residual sum of
 	// squares that the quadratic removes (the curve rule reads it against
 	// Thresholds.CurveShare); NaN without a quadratic.
@@ -541,3 +550,33 @@ type BandPoint struct {
 
 // XY is one point of a curve.
 type XY struct{ X, Y float64 }
+
+// Robust holds the slope's intervals by heteroscedasticity-consistent
+// (HC3) and, with a run order, heteroscedasticity-and-autocorrelation-
+// consistent (Newey–West) standard errors, and r with Bartlett's effective
+// sample size. Intervals use normal quantiles, as large-sample results.
+type Robust struct {
+	HC3 *SlopeInterval `json:"hc3"`
+	HAC *SlopeInterval `json:"hac"` // nil without `order`
+	// Rho1X and Rho1Y are the lag-1 autocorrelations of x and y in run
+	// order; NEff = n(1 − ρx ρy)/(1 + ρx ρy), capped at n (Bartlett);
+	// RP, RLow and RHigh are r's p and interval with NEff in place of n.
+	// All NaN without `order`.
+	Rho1X Float `json:"rho1_x"`
+	Rho1Y Float `json:"rho1_y"`
+	NEff  Float `json:"n_eff"`
+	RP    Float `json:"r_p"`
+	RLow  Float `json:"r_ci_low"`
+	RHigh Float `json:"r_ci_high"`
+}
+
+// SlopeInterval is the least-squares slope's standard error by one method,
+// with its interval and two-sided p (normal).
+type SlopeInterval struct {
+	Method string `json:"method"`
+	Lags   int    `json:"lags"` // Newey–West lags (Bartlett kernel); 0 for HC3
+	SE     Float  `json:"se"`
+	CILow  Float  `json:"ci_low"`
+	CIHigh Float  `json:"ci_high"`
+	P      Float  `json:"p"`
+}

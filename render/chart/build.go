@@ -80,17 +80,41 @@ func series(p *report.Plot, xs, ys []float64) []Series {
 		}
 	}
 	slices.Sort(levels)
-	out := make([]Series, len(levels))
-	for i, l := range levels {
+	own := levels
+	if len(levels) > GroupLooks {
+		// The GroupLooks − 1 largest levels (ties by name) keep their own look.
+		count := map[string]int{}
+		for _, g := range p.Groups {
+			count[g]++
+		}
+		bySize := slices.Clone(levels)
+		slices.SortStableFunc(bySize, func(a, b string) int { return count[b] - count[a] })
+		own = slices.Clone(bySize[:GroupLooks-1])
+		slices.Sort(own)
+	}
+	out := make([]Series, len(own), len(own)+1)
+	for i, l := range own {
 		out[i].Level = l
 	}
+	var other *Series
+	if len(own) < len(levels) {
+		out = append(out, Series{Other: true})
+		other = &out[len(out)-1]
+	}
 	for i, g := range p.Groups {
-		k, _ := slices.BinarySearch(levels, g)
-		out[k].X = append(out[k].X, xs[i])
-		out[k].Y = append(out[k].Y, ys[i])
+		if k, ok := slices.BinarySearch(own, g); ok {
+			out[k].X = append(out[k].X, xs[i])
+			out[k].Y = append(out[k].Y, ys[i])
+		} else {
+			other.X = append(other.X, xs[i])
+			other.Y = append(other.Y, ys[i])
+		}
 	}
 	for i := range out {
 		out[i].Name = fmt.Sprintf("%s (n = %d)", out[i].Level, len(out[i].X))
+	}
+	if other != nil {
+		other.Name = fmt.Sprintf("%d other levels, alike in grey (n = %d)", len(levels)-len(own), len(other.X))
 	}
 	return out
 }
@@ -186,8 +210,11 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		}
 	case len(f.Points) > 1:
 		f.Caption += fmt.Sprintf(" Colour and marker shape show %s", GroupName(s))
+		if o := f.Points[len(f.Points)-1]; o.Other {
+			f.Caption += fmt.Sprintf(" for its %d largest levels; the %s", len(f.Points)-1, strings.TrimSuffix(o.Name, fmt.Sprintf(" (n = %d)", len(o.X))))
+		}
 		if len(s.Groups) > 0 {
-			f.Caption += "; thin lines: the line within each group"
+			f.Caption += "; thin lines: the line within each level with a look of its own"
 		}
 		f.Caption += "."
 	}

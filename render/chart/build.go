@@ -210,11 +210,15 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		}
 	case len(f.Points) > 1:
 		f.Caption += fmt.Sprintf(" Colour and marker shape show %s", GroupName(s))
-		if o := f.Points[len(f.Points)-1]; o.Other {
+		o := f.Points[len(f.Points)-1]
+		if o.Other {
 			f.Caption += fmt.Sprintf(" for its %d largest levels; the %s", len(f.Points)-1, strings.TrimSuffix(o.Name, fmt.Sprintf(" (n = %d)", len(o.X))))
 		}
-		if len(s.Groups) > 0 {
+		switch {
+		case len(s.Groups) > 0 && o.Other:
 			f.Caption += "; thin lines: the line within each level with a look of its own"
+		case len(s.Groups) > 0:
+			f.Caption += "; thin lines: the line within each group"
 		}
 		f.Caption += "."
 	}

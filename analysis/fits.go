@@ -198,3 +198,22 @@ func pick(v []float64, idx []int) []float64 {
 	}
 	return out
 }
+
+// groupLines compares the lines within the group's levels
+// (stats.CompareGroupLines).
+func groupLines(x, y []float64, groups []string) *report.GroupLines {
+	id := map[string]int{}
+	g := make([]int, len(groups))
+	for i, v := range groups {
+		k, ok := id[v]
+		if !ok {
+			k = len(id)
+			id[v] = k
+		}
+		g[i] = k
+	}
+	c := stats.CompareGroupLines(x, y, g)
+	return &report.GroupLines{Groups: c.Groups, N: c.N, SlopesF: report.Float(c.SlopesF), SlopesDF1: c.SlopesDF1, SlopesP: report.Float(c.SlopesP),
+		LinesF: report.Float(c.LinesF), LinesDF1: c.LinesDF1, LinesP: report.Float(c.LinesP), DF2: c.DF2,
+		RWithin: report.Float(c.RWithin), RWithinDF: c.RWithinDF, RWithinP: report.Float(c.RWithinP)}
+}

@@ -251,6 +251,7 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	if in.Groups != nil {
 		s.Groups = groupFits(x, y, cc.groups, conf)
+		s.GroupLines = groupLines(x, y, cc.groups)
 	}
 
 	inf := stats.Influence(x, y)
@@ -343,7 +344,7 @@ func failed(s report.Study, msg string) report.Study {
 	s.Error = &msg
 	s.Moments, s.Describe, s.Pearson, s.Spearman, s.Kendall, s.Line = nil, nil, nil, nil, nil, nil
 	s.Models, s.Diagnostics, s.Partial, s.Groups, s.Influence, s.Sensitivity = nil, nil, nil, nil, nil, nil
-	s.UnitInvariance, s.Predictions, s.Findings, s.Plot, s.Robust = nil, nil, nil, nil, nil
+	s.UnitInvariance, s.Predictions, s.Findings, s.Plot, s.Robust, s.GroupLines = nil, nil, nil, nil, nil, nil
 	listsAlways(&s)
 	return s
 }

@@ -397,6 +397,7 @@ func (f *facts) decide(out *report.Findings) {
 
 	// Lurking variables.
 	out.Reversal = f.reversal()
+	out.Lines = f.lines()
 	if f.rdir != "none" {
 		for _, pc := range s.Partial {
 			if !pc.R.Valid() {
@@ -679,6 +680,34 @@ func (f *facts) qualifying() []report.GroupFit {
 		}
 	}
 	return g
+}
+
+// lines decides whether one line serves all levels of the group
+// (report.Findings.Lines), from GroupLines' two F tests read at alpha.
+// They are not part of the study's Holm family of screens (see screens):
+// a study with a group would otherwise hold its curvature and spread
+// checks to a stricter level than the same data without one.
+func (f *facts) lines() string {
+	s := f.s
+	switch {
+	case s.Group == "":
+		return ""
+	case s.GroupLines == nil || s.GroupLines.Groups < 2 || !s.GroupLines.LinesP.Valid():
+		return "untested"
+	case !(float64(s.GroupLines.LinesP) < f.alpha):
+		return "one-line"
+	case float64(s.GroupLines.SlopesP) < f.alpha:
+		return "separate"
+	}
+	return "parallel"
+}
+
+// linesText writes the figures of the lines verdict.
+func (f *facts) linesText() string {
+	gl := f.s.GroupLines
+	return fmt.Sprintf("one line for all %d levels against a line per level: F = %s on %d and %d df, %s; equal slopes: F = %s on %d and %d df, %s; pooled within-level r = %s (%s on %d df)",
+		gl.Groups, num(float64(gl.LinesF)), gl.LinesDF1, gl.DF2, f.pv(float64(gl.LinesP)), num(float64(gl.SlopesF)), gl.SlopesDF1, gl.DF2,
+		f.pv(float64(gl.SlopesP)), corr(float64(gl.RWithin)), f.pv(float64(gl.RWithinP)), gl.RWithinDF)
 }
 
 // reversalCount writes the figures of the reversal rule: "of the 3 groups
@@ -1395,6 +1424,17 @@ func (f *facts) hiddenWay() string {
 }
 
 func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
+	switch out.Lines {
+	case "untested":
+		add("Fewer than two levels of %s have 3 rows or more with x varying, so whether one line serves all of them was not tested.", f.groupLabel())
+	case "one-line":
+		add("One line serves all levels of %s: a line per level does not fit clearly better (%s; alpha = %s).", f.groupLabel(), f.linesText(), num(f.alpha))
+	case "parallel":
+		add("The levels of %s are shifted from each other but share a slope: a line per level fits better than one line, but the slopes do not differ clearly (%s; alpha = %s).", f.groupLabel(), f.linesText(), num(f.alpha))
+	case "separate":
+		add("The slopes differ between the levels of %s, so one line does not serve them all (%s; alpha = %s).", f.groupLabel(), f.linesText(), num(f.alpha))
+	}
+
 	g := f.qualifying()
 	var parts []string
 	for i, gf := range g {

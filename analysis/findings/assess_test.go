@@ -633,3 +633,31 @@ func TestAssessReasons(t *testing.T) {
 		}
 	}
 }
+
+// TestAssessLines: whether one line serves all levels of the group, from
+// the two F tests of GroupLines read at alpha; a reason where it does not.
+func TestAssessLines(t *testing.T) {
+	s := study(0.8, 1e-9)
+	if f := Assess(s, ctx); f.Lines != "" {
+		t.Errorf("no group: lines %q, want empty", f.Lines)
+	}
+	s.Group = "firm"
+	if f := Assess(s, ctx); f.Lines != "untested" {
+		t.Errorf("group without a comparison: lines %q, want untested", f.Lines)
+	}
+	for _, c := range []struct {
+		linesP, slopesP float64
+		want            string
+	}{{0.3, 0.5, "one-line"}, {1e-5, 0.2, "parallel"}, {1e-5, 0.01, "separate"}, {0.06, 0.01, "one-line"}} {
+		s.GroupLines = &report.GroupLines{Groups: 11, N: 220, SlopesF: 2, SlopesDF1: 10, SlopesP: fl(c.slopesP), LinesF: 9, LinesDF1: 20,
+			LinesP: fl(c.linesP), DF2: 198, RWithin: 0.6, RWithinDF: 208, RWithinP: 1e-20}
+		f := Assess(s, ctx)
+		reason := false
+		for _, r := range f.Reasons {
+			reason = reason || r.Verdict == "groups_differ"
+		}
+		if f.Lines != c.want || reason != (c.want == "parallel" || c.want == "separate") {
+			t.Errorf("lines p %v, slopes p %v: lines %q (reason %v), want %q", c.linesP, c.slopesP, f.Lines, reason, c.want)
+		}
+	}
+}

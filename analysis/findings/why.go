@@ -39,6 +39,12 @@ func (f *facts) reasons(out *report.Findings) []report.Reason {
 		add("reversal", "Groups", fmt.Sprintf("Reversal: pooled, r = %s; within groups of %s, %s (groups of at least %d rows are compared, %s).",
 			f.rNum(), f.groupLabel(), f.reversalCount(), f.th.ReversalMinGroup, OwnChoice))
 	}
+	switch out.Lines {
+	case "parallel":
+		add("groups_differ", "Groups", fmt.Sprintf("Parallel lines: the levels of %s are shifted but share a slope (%s; alpha = %s).", f.groupLabel(), f.linesText(), f.alphaText()))
+	case "separate":
+		add("groups_differ", "Groups", fmt.Sprintf("Separate lines: the slopes differ between the levels of %s (%s; alpha = %s).", f.groupLabel(), f.linesText(), f.alphaText()))
+	}
 	if len(out.ExplainedBy) > 0 {
 		var parts []string
 		for _, pc := range s.Partial {

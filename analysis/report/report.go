@@ -142,6 +142,8 @@ type Study struct {
 	UnitInvariance []UnitRow     `json:"unit_invariance"`
 	Predictions    []Prediction  `json:"predictions"`
 	Findings       *Findings     `json:"findings"`
+	// GroupLines compares the lines within the groups; nil without a group.
+	GroupLines *GroupLines `json:"group_lines"`
 	// Robust holds intervals for the slope and r that do not lean on the
 	// ordinary ones' assumptions of independent rows with an even scatter.
 	Robust       *Robust       `json:"robust"`
@@ -465,6 +467,13 @@ type Findings struct {
 	// longer shown (partial r's interval includes 0, or it turns sign).
 	ExplainedBy []string `json:"explained_by"`
 
+	// Lines says whether one line serves all levels of the group: "" without
+	// a group; "untested" when fewer than two levels can be compared;
+	// "one-line" when the test that one line serves all levels
+	// (GroupLines.LinesP) is not below alpha; "parallel" when it is but the
+	// slopes do not differ clearly (SlopesP not below alpha: the levels are
+	// shifted, with a common slope); "separate" when the slopes differ.
+	Lines string `json:"lines"`
 	// Autocorrelated: with a run order, the line's residuals hang together
 	// in it (their Durbin–Watson statistic's one-sided p, Checks
 	// "drift-dw", below alpha, or drift raised): p-values and intervals that
@@ -579,4 +588,22 @@ type SlopeInterval struct {
 	CILow  Float  `json:"ci_low"`
 	CIHigh Float  `json:"ci_high"`
 	P      Float  `json:"p"`
+}
+
+// GroupLines compares the straight lines fitted within the levels of the
+// group (stats.CompareGroupLines; levels with fewer than 3 rows or a
+// constant x are left out).
+type GroupLines struct {
+	Groups    int   `json:"groups"`   // levels compared
+	N         int   `json:"n"`        // rows in them
+	SlopesF   Float `json:"slopes_f"` // F test that the slopes are equal (group × x interaction)
+	SlopesDF1 int   `json:"slopes_df1"`
+	SlopesP   Float `json:"slopes_p"`
+	LinesF    Float `json:"lines_f"` // F test that one line serves all levels
+	LinesDF1  int   `json:"lines_df1"`
+	LinesP    Float `json:"lines_p"`
+	DF2       int   `json:"df2"`      // residual df of a line per level, N − 2·Groups
+	RWithin   Float `json:"r_within"` // pooled within-group correlation
+	RWithinDF int   `json:"r_within_df"`
+	RWithinP  Float `json:"r_within_p"`
 }

@@ -1,6 +1,6 @@
-"""Reference values for analysis/groups_test.go (TestGroupsGrunfeld).
+"""Reference values for analysis/stats/groups_test.go (TestCompareGroupLinesGrunfeld).
 
-Run with Debian's Python: /usr/bin/python3 analysis/testdata/groupsref.py
+Run with Debian's Python: /usr/bin/python3 analysis/stats/testdata/groupsref.py
 (statsmodels 0.13.5, patsy, pandas). Data: Grunfeld (1958) investment data
 as shipped with statsmodels (statsmodels.api.datasets.grunfeld: 11 firms,
 1935-1954), read by the Go test in place from statsmodels' grunfeld.csv.

@@ -24,12 +24,16 @@ func slopeInterval(method string, lags int, b, se, conf float64) *report.SlopeIn
 // robust fills report.Robust: the HC3 interval of the slope always; with
 // a run order (order non-nil), the Newey–West interval with
 // stats.NeweyWestLags(n) lags on the rows in run order, and r with
-// Bartlett's effective sample size from the lag-1 autocorrelations of x
-// and y in run order. Rows whose run order ties are taken in order of x,
-// then y, so the figures are a function of the set of rows.
+// Bartlett's effective sample size (stats.EffectiveN) from the lag-1
+// autocorrelations in run order of x and of the line's residuals. The
+// residuals stand for y: under the hypothesis r = 0 they are y about its
+// mean, and where x explains a trend in y (x is time, say) y's own
+// persistence would count that trend as dependence between rows and
+// leave almost no effective rows. Rows whose run order ties are taken in
+// order of x, then y, so the figures are a function of the set of rows.
 func robust(x, y, order []float64, r, conf float64) *report.Robust {
 	nan := report.NaN()
-	out := &report.Robust{Rho1X: nan, Rho1Y: nan, NEff: nan, RP: nan, RLow: nan, RHigh: nan}
+	out := &report.Robust{Rho1X: nan, Rho1E: nan, NEff: nan, RP: nan, RLow: nan, RHigh: nan}
 	b, se := stats.SlopeHC3(x, y)
 	out.HC3 = slopeInterval("HC3 (MacKinnon & White 1985)", 0, b, se, conf)
 	if order == nil {
@@ -47,8 +51,12 @@ func robust(x, y, order []float64, r, conf float64) *report.Robust {
 	lags := stats.NeweyWestLags(n)
 	b, se = stats.SlopeHAC(ox, oy, lags)
 	out.HAC = slopeInterval(fmt.Sprintf("Newey–West HAC, Bartlett kernel, %d lags = floor(4(n/100)^(2/9))", lags), lags, b, se, conf)
-	rx, ry := stats.Lag1Autocorr(ox), stats.Lag1Autocorr(oy)
-	out.Rho1X, out.Rho1Y = report.Float(rx), report.Float(ry)
+	e := make([]float64, n)
+	for i := range e {
+		e[i] = oy[i] - b*ox[i]
+	}
+	rx, ry := stats.Lag1Autocorr(ox), stats.Lag1Autocorr(e)
+	out.Rho1X, out.Rho1E = report.Float(rx), report.Float(ry)
 	ne := stats.EffectiveN(n, rx, ry)
 	out.NEff = report.Float(ne)
 	if !math.IsNaN(ne) {

@@ -969,7 +969,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 					num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice)
 			} else {
 				add("The distance correlation, which detects dependence of any shape, finds none either (%s, %s).",
-					num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)))
+					num(float64(f.dcor.DCor)), f.dcorP())
 			}
 		}
 	}
@@ -1365,8 +1365,8 @@ func (f *facts) independence(out *report.Findings, add func(string, ...any)) {
 			num(float64(s.Line.Slope.CILow)), num(float64(s.Line.Slope.CIHigh)))
 	}
 	if rb != nil && rb.NEff.Valid() {
-		t += fmt.Sprintf(" For r, Bartlett's effective sample size n(1 − ρx·ρy)/(1 + ρx·ρy), from the lag-1 autocorrelations of %s (%s) and %s (%s) in run order, is %s of %d rows",
-			f.xLabel, corr(float64(rb.Rho1X)), f.yLabel, corr(float64(rb.Rho1Y)), num(float64(rb.NEff)), s.N)
+		t += fmt.Sprintf(" For r, Bartlett's effective sample size n(1 − ρx·ρe)/(1 + ρx·ρe), from the lag-1 autocorrelations in run order of %s (%s) and of the line's residuals (%s), is %s of %d rows",
+			f.xLabel, corr(float64(rb.Rho1X)), corr(float64(rb.Rho1E)), num(float64(rb.NEff)), s.N)
 		if rb.RP.Valid() {
 			t += fmt.Sprintf(", giving r's %s and %s", f.interval(rb.RLow, rb.RHigh), f.pv(float64(rb.RP)))
 		} else {
@@ -1392,7 +1392,7 @@ func (f *facts) driftPartsNote() string {
 	if len(parts) == 0 {
 		return ""
 	}
-	return fmt.Sprintf(": %s would be below alpha, but the check reads the smaller p of its two parts doubled%s, so the residuals may still hang together in run order, and p-values and intervals that assume independent rows may be too small or too narrow",
+	return fmt.Sprintf(": %s would be below alpha, but the check reads the smaller p of its two parts doubled%s",
 		joinAnd(parts), map[bool]string{true: " and adjusted by Holm's method over the study's checks", false: ""}[len(f.screenNames) > 1])
 }
 
@@ -1426,7 +1426,7 @@ func (f *facts) hiddenWay() string {
 func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 	switch out.Lines {
 	case "untested":
-		add("Fewer than two levels of %s have 3 rows or more with x varying, so whether one line serves all of them was not tested.", f.groupLabel())
+		add("Fewer than two levels of %s can have a line of their own (at least 3 rows, with x varying), so whether one line serves all of them was not tested.", f.groupLabel())
 	case "one-line":
 		add("One line serves all levels of %s: a line per level does not fit clearly better (%s; alpha = %s).", f.groupLabel(), f.linesText(), num(f.alpha))
 	case "parallel":

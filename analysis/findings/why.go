@@ -208,7 +208,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 		var parts []string
 		if f.dcorRoute {
 			parts = append(parts, fmt.Sprintf("the distance correlation, which detects dependence of any shape, is %s (%s), at least %s (%s) and above |r| = %s, while r itself does not differ clearly from 0 (%s)",
-				num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice, corr(math.Abs(f.r)), f.pBoth()))
+				num(float64(f.dcor.DCor)), f.dcorP(), num(f.th.NonlinearDcor), OwnChoice, corr(math.Abs(f.r)), f.pBoth()))
 		}
 		if f.dwRoute {
 			parts = append(parts, fmt.Sprintf("taken in order of %s, the line's residuals swing together (Durbin–Watson %s, below %s) while |r| = %s is below %s",
@@ -236,7 +236,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 		d := float64(f.dcor.DCor)
 		switch {
 		case !(float64(f.dcor.P) < f.alpha):
-			w += fmt.Sprintf("; the distance correlation finds no dependence of any shape (%s, %s)", num(d), f.pv(float64(f.dcor.P)))
+			w += fmt.Sprintf("; the distance correlation finds no dependence of any shape (%s, %s)", num(d), f.dcorP())
 		case d < f.th.NonlinearDcor:
 			w += fmt.Sprintf("; the distance correlation, %s (%s), is below the cut point %s (%s)", num(d), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice)
 		default:

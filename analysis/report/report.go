@@ -567,12 +567,13 @@ type XY struct{ X, Y float64 }
 type Robust struct {
 	HC3 *SlopeInterval `json:"hc3"`
 	HAC *SlopeInterval `json:"hac"` // nil without `order`
-	// Rho1X and Rho1Y are the lag-1 autocorrelations of x and y in run
-	// order; NEff = n(1 − ρx ρy)/(1 + ρx ρy), capped at n (Bartlett);
+	// Rho1X and Rho1E are the lag-1 autocorrelations in run order of x and
+	// of the line's residuals (standing for y: see analysis.robust);
+	// NEff = n(1 − ρx ρy)/(1 + ρx ρy), capped at n (Bartlett);
 	// RP, RLow and RHigh are r's p and interval with NEff in place of n.
 	// All NaN without `order`.
 	Rho1X Float `json:"rho1_x"`
-	Rho1Y Float `json:"rho1_y"`
+	Rho1E Float `json:"rho1_residual"`
 	NEff  Float `json:"n_eff"`
 	RP    Float `json:"r_p"`
 	RLow  Float `json:"r_ci_low"`

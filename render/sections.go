@@ -143,7 +143,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 		if dc := d.DistanceCorr; dc != nil {
 			dcp := pval(dc.P)
 			if dc.MCError.Valid() {
-				dcp += " ± " + num(dc.MCError)
+				dcp += " ± " + sig(float64(dc.MCError), 2)
 			}
 			add(fmt.Sprintf("Distance correlation (%d permutations)", dc.Permutations), num(dc.DCor), "", dcp)
 		}

@@ -140,6 +140,20 @@ type facts struct {
 //     (alternation) is not drift.
 //   - spread_changes: Breusch–Pagan p below alpha after Holm's adjustment
 //     within the study.
+//   - lines (with a group): "separate" when the F test that the levels'
+//     slopes are equal has p below alpha, else "parallel" when the F test
+//     that one line serves all levels has p below alpha, else "one-line"
+//     ("untested" with fewer than two levels that can have a line). Read
+//     at alpha, outside the Holm family (see lines).
+//   - autocorrelated (with a run order): drift, or the one-sided p of the
+//     run-order Durbin–Watson statistic below alpha; the statements then
+//     give the slope's Newey–West interval and r with an effective n.
+//   - rows: what leaving out the suspect rows does (see rowsEffect).
+//
+// The distance correlation's p comes from a sequential permutation rule
+// whose verdict at alpha is a function of the rows (analysis.dcorTest);
+// the Durbin–Watson statistics are means over the orders of tied rows.
+// Every check with its figures is in Findings.Checks.
 //
 // Multiplicity. r's p is the one adjusted across studies (p_adjusted, by
 // the manifest's `adjust`). The secondary checks — curvature (the x²

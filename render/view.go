@@ -369,7 +369,9 @@ func summaryLine(s *report.Study, link string) summaryRow {
 			notes = append(notes, "reverses within "+chart.GroupName(s))
 		}
 		if len(f.ExplainedBy) > 0 {
-			notes = append(notes, "gone given "+strings.Join(covariateLabels(s, f.ExplainedBy), ", "))
+			// Each covariate was held fixed on its own (one partial
+			// correlation each), so several are "or", not "and".
+			notes = append(notes, "gone given "+strings.Join(covariateLabels(s, f.ExplainedBy), " or ")+map[bool]string{true: " (each alone)", false: ""}[len(f.ExplainedBy) > 1])
 		}
 		row.DirNote = strings.Join(notes, "; ")
 		if f.CurveStrength != "" && f.CurveStrength != f.Strength {

@@ -17,15 +17,19 @@ import (
 	"bivar/analysis/stats"
 )
 
-// pairHash is a 64-bit FNV-1a hash of one (x, y) pair's bits, with -0
-// read as 0 so equal values hash alike.
+// pairHash is the 64-bit FNV-1a hash of one (x, y) pair's bits, little
+// endian, with −0 read as 0 so equal values hash alike (written out, as
+// hash/fnv's would allocate per row).
 func pairHash(x, y float64) uint64 {
-	var b [16]byte
-	binary.LittleEndian.PutUint64(b[:8], math.Float64bits(x+0))
-	binary.LittleEndian.PutUint64(b[8:], math.Float64bits(y+0))
-	h := fnv.New64a()
-	h.Write(b[:])
-	return h.Sum64()
+	const offset, prime = 14695981039346656037, 1099511628211
+	h := uint64(offset)
+	for _, v := range [2]uint64{math.Float64bits(x + 0), math.Float64bits(y + 0)} {
+		for k := 0; k < 8; k++ {
+			h ^= v >> (8 * k) & 0xff
+			h *= prime
+		}
+	}
+	return h
 }
 
 // canonical returns the (x, y) pairs sorted by x, then y: the order in
@@ -43,15 +47,60 @@ func canonical(x, y []float64, maxN int) (cx, cy []float64) {
 	}
 	byXY := func(a, b int) int { return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(y[a], y[b])) }
 	if maxN > 0 && n > maxN {
+		// The maxN-th smallest hash by selection (O(n)), then the rows
+		// below it and, among those equal to it, the first by (x, y).
 		h := make([]uint64, n)
 		for i := range h {
 			h[i] = pairHash(x[i], y[i])
 		}
-		slices.SortFunc(idx, func(a, b int) int { return cmp.Or(cmp.Compare(h[a], h[b]), byXY(a, b)) })
-		idx = idx[:maxN]
+		cut := nthSmallest(slices.Clone(h), maxN-1)
+		sel := idx[:0]
+		var tied []int
+		for i, v := range h {
+			switch {
+			case v < cut:
+				sel = append(sel, i)
+			case v == cut:
+				tied = append(tied, i)
+			}
+		}
+		slices.SortFunc(tied, byXY)
+		idx = append(sel, tied[:maxN-len(sel)]...)
 	}
 	slices.SortFunc(idx, byXY)
 	return pick(x, idx), pick(y, idx)
+}
+
+// nthSmallest returns the k-th smallest (0-based) of v, reordering v
+// (Hoare's selection with the middle element as pivot; O(n) expected).
+func nthSmallest(v []uint64, k int) uint64 {
+	lo, hi := 0, len(v)-1
+	for lo < hi {
+		p := v[lo+(hi-lo)/2]
+		i, j := lo, hi
+		for i <= j {
+			for v[i] < p {
+				i++
+			}
+			for v[j] > p {
+				j--
+			}
+			if i <= j {
+				v[i], v[j] = v[j], v[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return v[k]
+		}
+	}
+	return v[k]
 }
 
 // rowSource returns a random source seeded by the canonical rows: the same

@@ -1,6 +1,9 @@
 package analysis
 
 import (
+	"encoding/binary"
+	"fmt"
+	"hash/fnv"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -114,4 +117,58 @@ func TestDcorTestNearAlphaGoesOn(t *testing.T) {
 		return
 	}
 	t.Fatal("no data set with a first-look p near alpha in 200 tries")
+}
+
+// BenchmarkDcorTest: the distance correlation with its sequential test on
+// independent data (the rule stops at the first look) and on a clear
+// dependence; above stats.DefaultDcorMaxN rows the test runs on a sample.
+func BenchmarkDcorTest(b *testing.B) {
+	for _, n := range []int{1_000, 100_000, 1_000_000} {
+		rng := rand.New(rand.NewPCG(uint64(n), 1))
+		x, y := make([]float64, n), make([]float64, n)
+		for i := range x {
+			x[i], y[i] = rng.NormFloat64(), rng.NormFloat64()
+		}
+		b.Run(fmt.Sprintf("independent/n=%d", n), func(b *testing.B) {
+			for b.Loop() {
+				dcorTest(x, y, 0.05, 24999, stats.DefaultDcorMaxN)
+			}
+		})
+	}
+}
+
+// TestNthSmallest against a full sort.
+func TestNthSmallest(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 9))
+	for _, n := range []int{1, 2, 7, 100, 1000} {
+		v := make([]uint64, n)
+		for i := range v {
+			v[i] = rng.Uint64N(50) // many ties
+		}
+		s := slices.Clone(v)
+		slices.Sort(s)
+		for _, k := range []int{0, n / 2, n - 1} {
+			if got := nthSmallest(slices.Clone(v), k); got != s[k] {
+				t.Errorf("n %d k %d: %d, want %d", n, k, got, s[k])
+			}
+		}
+	}
+}
+
+// TestPairHash: the written-out hash is hash/fnv's FNV-1a of the pair's
+// little-endian bits.
+func TestPairHash(t *testing.T) {
+	for _, p := range [][2]float64{{0, 0}, {1.5, -2.25}, {math.Pi, 1e300}} {
+		var b [16]byte
+		binary.LittleEndian.PutUint64(b[:8], math.Float64bits(p[0]))
+		binary.LittleEndian.PutUint64(b[8:], math.Float64bits(p[1]))
+		h := fnv.New64a()
+		h.Write(b[:])
+		if got, want := pairHash(p[0], p[1]), h.Sum64(); got != want {
+			t.Errorf("pairHash(%v, %v) = %x, want %x", p[0], p[1], got, want)
+		}
+	}
+	if pairHash(math.Copysign(0, -1), 1) != pairHash(0, 1) {
+		t.Error("−0 and 0 hash differently")
+	}
 }

@@ -11,20 +11,31 @@ import (
 	"bivar/analysis/stats"
 )
 
+// maxXOrderRows is the most rows the x-order figures use; above it they
+// use a sample of this many chosen by the rows' values (canonical), so
+// their cost stays bounded (a sort of at most this many rows) while they
+// remain a function of the set of rows. A pattern along x stays as visible
+// as in the LOWESS curve, fitted to a sample of the same size
+// (Config.LowessMaxN's default).
+const maxXOrderRows = 20000
+
 // xOrderFigures sets d.DurbinWatsonX, d.DurbinWatsonXRows and d.SpreadRho
-// from the line's residuals e at x, on all rows: the Durbin–Watson
-// statistic of the residuals sorted by x, averaged over every order of rows
-// whose x ties (stats.DurbinWatsonTied: a file that lists tied rows in
-// another order gives the same figure), and Spearman's ρ (stats.Spearman)
-// of |residual| on x. Residuals of a correct straight line are close to
-// independent in any fixed order; in order of x they swing together when
-// the line misses a pattern that goes up and down. Both cost a sort,
-// O(n log n). DurbinWatsonX is NaN below 8 rows (too few for the statistic
-// to say anything), SpreadRho below 3.
+// from the line's residuals e at x, on all rows up to maxXOrderRows (else
+// on the sample canonical chooses): the Durbin–Watson statistic of the
+// residuals sorted by x, averaged over every order of rows whose x ties
+// (stats.DurbinWatsonTied: a file that lists tied rows in another order
+// gives the same figure), and Spearman's ρ (stats.Spearman) of |residual|
+// on x. Residuals of a correct straight line are close to independent in
+// any fixed order; in order of x they swing together when the line misses
+// a pattern that goes up and down. DurbinWatsonX is NaN below 8 rows (too
+// few for the statistic to say anything), SpreadRho below 3.
 func xOrderFigures(d *report.Diagnostics, x, e []float64) {
 	d.DurbinWatsonX, d.SpreadRho = report.NaN(), report.NaN()
 	if len(x) != len(e) {
 		return
+	}
+	if len(x) > maxXOrderRows {
+		x, e = canonical(x, e, maxXOrderRows)
 	}
 	n := len(x)
 	d.DurbinWatsonXRows = n

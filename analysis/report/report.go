@@ -261,9 +261,10 @@ type Diagnostics struct {
 
 	// DurbinWatsonX is the Durbin–Watson statistic of the line's residuals
 	// taken in order of x, averaged over every order of rows whose x ties
-	// (stats.DurbinWatsonTied), on all rows, so it depends on the set of
-	// rows and not on the file's order (DurbinWatsonXRows says how many
-	// rows). The form verdict reads it. NaN below 8 rows.
+	// (stats.DurbinWatsonTied), on all rows up to 20000 and above that on
+	// a sample of 20000 chosen by the rows' values, so it depends on the set
+	// of rows and not on the file's order or a seed (DurbinWatsonXRows says
+	// how many rows). The form verdict reads it. NaN below 8 rows.
 	DurbinWatsonX     Float `json:"durbin_watson_x"`
 	DurbinWatsonXRows int   `json:"durbin_watson_x_rows"`
 	// SpreadRho is Spearman's ρ of |residual| on x over the same rows: its

@@ -5,7 +5,6 @@ package analysis
 // lines.
 
 import (
-	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -117,29 +116,20 @@ func diagnostics(id string, x, y []float64, line stats.LineFit, quad *stats.Regr
 	if f, df1, df2, p, ok := stats.LackOfFit(x, y); ok && 2*(df1+2) <= len(x) {
 		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(p)}
 	}
-	dc, p, used, method := stats.DistanceCorrTest(x, y, cfg.DcorPerms, cfg.DcorMaxN, source(cfg.Seed, id, "dcor"))
-	d.DistanceCorr = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: cfg.DcorPerms,
-		Sampled: used, Method: method}
+	dc, p, mcse, perms, used, resolved, method := dcorTest(x, y, cfg.Alpha, cfg.DcorPerms, cfg.DcorMaxN)
+	d.DistanceCorr = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: perms,
+		Sampled: used, Method: method, MCError: report.Float(mcse), Resolved: resolved, FlipRisk: dcorFlipRisk}
 	bp, df, pbp := stats.BreuschPagan(line.Residuals, x)
 	d.BreuschPagan = &report.ChiTest{Stat: report.Float(bp), DF: df, P: report.Float(pbp)}
 
+	// Run order: the Durbin–Watson statistic averaged over the orders of
+	// rows whose run order ties (a function of the set of rows, not of the
+	// file's order), and the trend of the residuals on run order.
 	resid := line.Residuals
 	if order != nil {
-		perm := make([]int, len(order))
-		for i := range perm {
-			perm[i] = i
-		}
-		if !slices.IsSorted(order) {
-			slices.SortFunc(perm, func(a, b int) int { return cmp.Or(cmp.Compare(order[a], order[b]), cmp.Compare(a, b)) })
-		}
-		ro, oo := make([]float64, len(perm)), make([]float64, len(perm))
-		for k, i := range perm {
-			ro[k], oo[k] = resid[i], order[i]
-		}
-		d.DurbinWatson = report.Float(stats.DurbinWatson(ro))
-		slope, p, r := stats.OrderTrend(oo, ro)
-		t := &report.OrderTrend{Slope: report.Float(slope), P: report.Float(p), R: report.Float(r)}
-		d.OrderTrend = t
+		d.DurbinWatson = report.Float(stats.DurbinWatsonTied(order, resid))
+		slope, p, r := stats.OrderTrend(order, resid)
+		d.OrderTrend = &report.OrderTrend{Slope: report.Float(slope), P: report.Float(p), R: report.Float(r)}
 	} else {
 		d.DurbinWatson = report.Float(stats.DurbinWatson(resid))
 	}
@@ -207,4 +197,23 @@ func pick(v []float64, idx []int) []float64 {
 		out[j] = v[i]
 	}
 	return out
+}
+
+// groupLines compares the lines within the group's levels
+// (stats.CompareGroupLines).
+func groupLines(x, y []float64, groups []string) *report.GroupLines {
+	id := map[string]int{}
+	g := make([]int, len(groups))
+	for i, v := range groups {
+		k, ok := id[v]
+		if !ok {
+			k = len(id)
+			id[v] = k
+		}
+		g[i] = k
+	}
+	c := stats.CompareGroupLines(x, y, g)
+	return &report.GroupLines{Groups: c.Groups, N: c.N, SlopesF: report.Float(c.SlopesF), SlopesDF1: c.SlopesDF1, SlopesP: report.Float(c.SlopesP),
+		LinesF: report.Float(c.LinesF), LinesDF1: c.LinesDF1, LinesP: report.Float(c.LinesP), DF2: c.DF2,
+		RWithin: report.Float(c.RWithin), RWithinDF: c.RWithinDF, RWithinP: report.Float(c.RWithinP)}
 }

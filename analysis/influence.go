@@ -40,7 +40,7 @@ func rankFlagged(x, y []float64) func(a, b flagged) int {
 // influence fills the influence summary and the sensitivity figures, and
 // returns the CSV of every flagged row (nil when none is).
 //
-// Flags follow findings.Rules. Rows flagged outlier, influential or sole
+// Flags follow findings.FlagRulesFor. Rows flagged outlier, influential or sole
 // support (findings.FlagSet.Suspect) may be named: the first namedMax of
 // them by ranking are, with all their measures and the line without each;
 // the rest are counted. A row only of high leverage is far out in x but on
@@ -50,7 +50,7 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	res *report.Resistant, all stats.Correlation, line stats.LineFit) (*report.Influence, *report.Sensitivity, []byte) {
 	n := len(x)
 	li := stats.NewLineInfluence(x, y)
-	rules := findings.Rules(n, th)
+	rules := findings.FlagRulesFor(n, th)
 	in := &report.Influence{MaxCooksD: report.NaN(), NamedMax: namedMax, Ranking: ranking,
 		Rules: report.FlagCuts{Leverage: report.Float(rules.Leverage), Outlier: report.Float(rules.Outlier), CooksD: report.Float(rules.Cooks)}}
 	if math.IsInf(rules.Leverage, 1) {

@@ -6,36 +6,11 @@ package analysis
 import (
 	"cmp"
 	"math"
-	"math/rand/v2"
 	"slices"
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 )
-
-// sample returns x and y, or above maxN rows a simple random sample of
-// maxN rows without replacement (a partial Fisher–Yates shuffle, Knuth
-// TAOCP vol. 2, Algorithm P, stopped after maxN steps) from the seeded
-// source, kept in data order. LOWESS is drawn, not tested, so a bounded
-// sample keeps its cost fixed at any n; the report states its size.
-func sample(x, y []float64, maxN int, src rand.Source) (sx, sy []float64) {
-	n := len(x)
-	if n <= maxN {
-		return x, y
-	}
-	rng := rand.New(src)
-	perm := make([]int, n)
-	for i := range perm {
-		perm[i] = i
-	}
-	for i := 0; i < maxN; i++ {
-		j := i + rng.IntN(n-i)
-		perm[i], perm[j] = perm[j], perm[i]
-	}
-	idx := perm[:maxN]
-	slices.Sort(idx)
-	return pick(x, idx), pick(y, idx)
-}
 
 // Grid sizes of the density grids: about 7 px cells on the charts.
 const (
@@ -170,7 +145,7 @@ func span(v []float64) (lo, hi float64) {
 
 // lowessCurve is the LOWESS fit as a curve sorted by x (stats.LowessCurve:
 // the points at which local fits were made, at most stats.LowessCurveMax),
-// on the rows given (all rows, or the sample that sample drew).
+// on the rows given (all rows, or the sample that canonical chose).
 func lowessCurve(x, y []float64, cfg Config) []report.XY {
 	xs, ys := stats.LowessCurve(x, y, cfg.LowessFrac, cfg.LowessIter, lowessDelta(x))
 	curve := make([]report.XY, len(xs))

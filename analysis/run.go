@@ -56,7 +56,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		Tool:      report.Tool{Name: "bivar", Version: opts.Version},
 		Generated: opts.Generated,
 		Manifest: report.ManifestInfo{File: m.Path, Title: m.Title, Design: cfg.Design, Alpha: cfg.Alpha,
-			Adjust: adjust, Seed: m.Seed, Thresholds: cfg.Thresholds},
+			Adjust: adjust, Seed: m.Seed, Thresholds: cfg.Thresholds, Rules: findings.Rules(cfg.Thresholds, cfg.Alpha)},
 		Datasets: []report.Dataset{},
 		Studies:  []report.Study{},
 		Caution:  report.Caution,
@@ -146,7 +146,7 @@ func Thresholds(t manifest.Thresholds) report.Thresholds {
 	set(&th.LeverageFactor, t.LeverageFactor)
 	set(&th.OutlierZ, t.OutlierZ)
 	set(&th.CooksD, t.CooksD)
-	set(&th.CurveGainR2, t.CurveGainR2)
+	set(&th.CurveShare, t.CurveShare)
 	set(&th.NonlinearDcor, t.NonlinearDcor)
 	set(&th.OutlierFamilyAlpha, t.OutlierFamilyAlpha)
 	set(&th.DriftDW, t.DriftDW)

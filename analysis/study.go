@@ -61,12 +61,12 @@ type Config struct {
 
 	LowessFrac       float64 // share of the points in each local fit (default 2/3)
 	LowessIter       int     // robustifying iterations (default 3)
-	DcorPerms        int     // permutations for the distance-correlation p (default 199)
-	DcorMaxN         int     // rows above which distance correlation is tested on a seeded sample (default stats.DefaultDcorMaxN)
+	DcorPerms        int     // most permutations for the distance-correlation p; a sequential rule stops early (default 24999, see dcorTest)
+	DcorMaxN         int     // rows above which distance correlation is tested on a sample chosen by the rows' values (default stats.DefaultDcorMaxN)
 	TheilSenMaxExact int     // largest n for the exact Theil–Sen slope (default stats.DefaultMaxExact)
 	BandPoints       int     // grid points of the confidence and prediction bands (default 80)
 	CurvePoints      int     // grid points of the quadratic curve (default 80)
-	LowessMaxN       int     // rows above which LOWESS is fitted to a seeded sample of this many (default 20000)
+	LowessMaxN       int     // rows above which LOWESS is fitted to a sample of this many chosen by the rows' values (default 20000)
 
 	// NamedRows is the most flagged rows a study names (0: the default,
 	// manifest.DefaultNamedRows; negative: none).
@@ -95,7 +95,7 @@ func DefaultConfig() Config {
 		Thresholds:       findings.DefaultThresholds(),
 		LowessFrac:       2.0 / 3.0,
 		LowessIter:       3,
-		DcorPerms:        199,
+		DcorPerms:        24999,
 		DcorMaxN:         stats.DefaultDcorMaxN,
 		TheilSenMaxExact: stats.DefaultMaxExact,
 		BandPoints:       80,
@@ -250,14 +250,13 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	s.Models = append(s.Models, logModels(x, y, conf)...)
 
-	// Run order: residuals and order values arranged by order (ties in
-	// data order), for Durbin–Watson and the trend.
 	var order []float64
 	if in.Order != nil {
 		order = cc.order
 	}
 	s.Diagnostics = diagnostics(in.ID, x, y, line, quad, order, cfg)
-	lx, ly := sample(x, y, cfg.LowessMaxN, source(cfg.Seed, in.ID, "lowess"))
+	s.Robust = robust(x, y, order, pc.R, conf)
+	lx, ly := canonical(x, y, cfg.LowessMaxN)
 	s.Diagnostics.Lowess = &report.LowessInfo{Frac: cfg.LowessFrac, Iterations: cfg.LowessIter, Delta: lowessDelta(lx), Sampled: len(lx)}
 
 	for i, name := range covNames {
@@ -267,6 +266,7 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	if in.Groups != nil {
 		s.Groups = groupFits(x, y, cc.groups, conf)
+		s.GroupLines = groupLines(x, y, cc.groups)
 	}
 
 	s.Influence, s.Sensitivity, s.FlaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, s.Diagnostics.Resistant, pc, line)
@@ -360,7 +360,7 @@ func failed(s report.Study, msg string) report.Study {
 	s.Error = &msg
 	s.Moments, s.Describe, s.Pearson, s.Spearman, s.Kendall, s.Line = nil, nil, nil, nil, nil, nil
 	s.Models, s.Diagnostics, s.Partial, s.Groups, s.Influence, s.Sensitivity = nil, nil, nil, nil, nil, nil
-	s.UnitInvariance, s.Predictions, s.Findings, s.Plot = nil, nil, nil, nil
+	s.UnitInvariance, s.Predictions, s.Findings, s.Plot, s.Robust, s.GroupLines = nil, nil, nil, nil, nil, nil
 	listsAlways(&s)
 	return s
 }

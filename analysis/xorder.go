@@ -5,30 +5,26 @@ package analysis
 // here so results.json carries every number a verdict rests on.
 
 import (
-	"cmp"
 	"math"
-	"slices"
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 )
 
 // maxXOrderRows is the most rows the x-order figures use; above it they
-// take every k-th row in data order, k = ⌈n/maxXOrderRows⌉. That keeps
-// their cost bounded (a sort of at most this many rows) while a pattern
-// along x stays as visible as in the LOWESS curve, fitted to a sample of
-// the same size (Config.LowessMaxN's default).
+// use a sample of this many chosen by the rows' values (canonical), so
+// their cost stays bounded (a sort of at most this many rows) while they
+// remain a function of the set of rows. A pattern along x stays as visible
+// as in the LOWESS curve, fitted to a sample of the same size
+// (Config.LowessMaxN's default).
 const maxXOrderRows = 20000
 
-// xOrderStep returns k for n rows.
-func xOrderStep(n int) int {
-	return max(1, (n+maxXOrderRows-1)/maxXOrderRows)
-}
-
 // xOrderFigures sets d.DurbinWatsonX, d.DurbinWatsonXRows and d.SpreadRho
-// from the line's residuals e at x: on every k-th row (xOrderStep), the
-// Durbin–Watson statistic (stats.DurbinWatson) of the residuals sorted by
-// x, ties in data order, and Spearman's ρ (stats.Spearman) of |residual|
+// from the line's residuals e at x, on all rows up to maxXOrderRows (else
+// on the sample canonical chooses): the Durbin–Watson statistic of the
+// residuals sorted by x, averaged over every order of rows whose x ties
+// (stats.DurbinWatsonTied: a file that lists tied rows in another order
+// gives the same figure), and Spearman's ρ (stats.Spearman) of |residual|
 // on x. Residuals of a correct straight line are close to independent in
 // any fixed order; in order of x they swing together when the line misses
 // a pattern that goes up and down. DurbinWatsonX is NaN below 8 rows (too
@@ -38,36 +34,23 @@ func xOrderFigures(d *report.Diagnostics, x, e []float64) {
 	if len(x) != len(e) {
 		return
 	}
-	step := xOrderStep(len(x))
-	type xe struct {
-		x, e float64
-		i    int
+	if len(x) > maxXOrderRows {
+		x, e = canonical(x, e, maxXOrderRows)
 	}
-	pts := make([]xe, 0, len(x)/step+1)
-	for i := 0; i < len(x); i += step {
-		pts = append(pts, xe{x[i], e[i], i})
-	}
-	n := len(pts)
+	n := len(x)
 	d.DurbinWatsonXRows = n
 	if n >= 3 {
-		xs, abs := make([]float64, n), make([]float64, n)
-		for k, p := range pts {
-			xs[k], abs[k] = p.x, math.Abs(p.e)
+		abs := make([]float64, n)
+		for k, v := range e {
+			abs[k] = math.Abs(v)
 		}
-		rho, _ := stats.Spearman(xs, abs)
+		rho, _ := stats.Spearman(x, abs)
 		d.SpreadRho = report.Float(rho)
 	}
 	if n < 8 {
 		return
 	}
-	// pdqsort on (x, data position): ties keep data order, as a stable
-	// sort would, at a third of the cost.
-	slices.SortFunc(pts, func(a, b xe) int { return cmp.Or(cmp.Compare(a.x, b.x), cmp.Compare(a.i, b.i)) })
-	r := make([]float64, n)
-	for k, p := range pts {
-		r[k] = p.e
-	}
-	d.DurbinWatsonX = report.Float(stats.DurbinWatson(r))
+	d.DurbinWatsonX = report.Float(stats.DurbinWatsonTied(x, e))
 }
 
 // lowessExtremes records in li the LOWESS curve's first, last, highest and

@@ -11,26 +11,29 @@ import (
 )
 
 // TestXOrderFigures checks the wiring of the x-order figures: the
-// Durbin–Watson statistic is stats.DurbinWatson of the residuals sorted by
-// x with ties in data order, worked here by hand for a small case, and the
-// sampling rule takes every k-th row, k = ⌈n/20000⌉. The statistic itself
-// is checked against statsmodels in analysis/stats.
+// Durbin–Watson statistic is the mean of stats.DurbinWatson over the two
+// orders of the tied rows, worked here by hand for a small case, on all
+// rows, and it does not change when the rows are listed in another order.
+// The statistic itself is checked against statsmodels in analysis/stats.
 func TestXOrderFigures(t *testing.T) {
 	// x out of order, with a tie (x = 2 at rows 1 and 5): in order of x the
-	// residuals are e0, e1, e5, e3, e2, e4, e6, e7.
+	// residuals are e0, {e1, e5}, e3, e2, e4, e6, e7.
 	x := []float64{1, 2, 5, 3, 6, 2, 7, 8}
 	e := []float64{1, -1, 2, 0.5, -2, 3, -0.5, 0.25}
 	var d report.Diagnostics
 	xOrderFigures(&d, x, e)
-	sorted := []float64{1, -1, 3, 0.5, 2, -2, -0.5, 0.25}
-	var num, den float64
-	for i, v := range sorted {
-		den += v * v
-		if i > 0 {
-			num += (v - sorted[i-1]) * (v - sorted[i-1])
+	dw := func(sorted []float64) float64 {
+		var num, den float64
+		for i, v := range sorted {
+			den += v * v
+			if i > 0 {
+				num += (v - sorted[i-1]) * (v - sorted[i-1])
+			}
 		}
+		return num / den
 	}
-	if got, want := float64(d.DurbinWatsonX), num/den; math.Abs(got-want) > 1e-12 || d.DurbinWatsonXRows != 8 {
+	want := (dw([]float64{1, -1, 3, 0.5, 2, -2, -0.5, 0.25}) + dw([]float64{1, 3, -1, 0.5, 2, -2, -0.5, 0.25})) / 2
+	if got := float64(d.DurbinWatsonX); math.Abs(got-want) > 1e-12 || d.DurbinWatsonXRows != 8 {
 		t.Errorf("DurbinWatsonX %v of %d rows, want %v of 8 (by hand)", got, d.DurbinWatsonXRows, want)
 	}
 	abs := make([]float64, len(e))
@@ -40,6 +43,14 @@ func TestXOrderFigures(t *testing.T) {
 	if rho, _ := stats.Spearman(x, abs); float64(d.SpreadRho) != rho {
 		t.Errorf("SpreadRho %v, want Spearman of |e| on x %v", d.SpreadRho, rho)
 	}
+	// The tied rows listed the other way round: the same figure.
+	x2, e2 := slices.Clone(x), slices.Clone(e)
+	e2[1], e2[5] = e2[5], e2[1]
+	var d2 report.Diagnostics
+	xOrderFigures(&d2, x2, e2)
+	if math.Abs(float64(d2.DurbinWatsonX-d.DurbinWatsonX)) > 1e-15 {
+		t.Errorf("tied rows swapped: DurbinWatsonX %v, want %v", d2.DurbinWatsonX, d.DurbinWatsonX)
+	}
 
 	// Fewer than 8 rows: undefined, not a number that could trip the rule.
 	xOrderFigures(&d, x[:7], e[:7])
@@ -47,16 +58,22 @@ func TestXOrderFigures(t *testing.T) {
 		t.Errorf("7 rows: DurbinWatsonX %v, want undefined", d.DurbinWatsonX)
 	}
 
-	// Above 20000 rows: every k-th row.
-	for _, c := range []struct{ n, rows int }{{20000, 20000}, {20001, 10001}, {45000, 15000}} {
-		bx, be := make([]float64, c.n), make([]float64, c.n)
-		for i := range bx {
-			bx[i], be[i] = float64(i%97), math.Sin(float64(i))
-		}
-		xOrderFigures(&d, bx, be)
-		if d.DurbinWatsonXRows != c.rows || !d.DurbinWatsonX.Valid() {
-			t.Errorf("n = %d: %d rows used (DW %v), want %d", c.n, d.DurbinWatsonXRows, d.DurbinWatsonX, c.rows)
-		}
+	// Many rows: a sample of 20000 chosen by the rows' values, the same
+	// whatever the order of the rows.
+	bx, be := make([]float64, 45000), make([]float64, 45000)
+	for i := range bx {
+		bx[i], be[i] = float64(i%97), math.Sin(float64(i))
+	}
+	xOrderFigures(&d, bx, be)
+	if d.DurbinWatsonXRows != maxXOrderRows || !d.DurbinWatsonX.Valid() {
+		t.Errorf("n = 45000: %d rows used (DW %v), want %d", d.DurbinWatsonXRows, d.DurbinWatsonX, maxXOrderRows)
+	}
+	slices.Reverse(bx)
+	slices.Reverse(be)
+	var d3 report.Diagnostics
+	xOrderFigures(&d3, bx, be)
+	if d3.DurbinWatsonX != d.DurbinWatsonX || d3.SpreadRho != d.SpreadRho {
+		t.Errorf("rows reversed: DW %v ρ %v, want %v %v", d3.DurbinWatsonX, d3.SpreadRho, d.DurbinWatsonX, d.SpreadRho)
 	}
 }
 

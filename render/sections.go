@@ -29,71 +29,44 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		return nil, nil
 	}
 	sec := &section{Key: "words", Title: "What the data show"}
-	x, y := name(s.X), name(s.Y)
-	// The findings say which rule decided each verdict (FormWhy, …); where
-	// they do, that sentence is shown and the renderer adds no reason of
-	// its own. The sentences below are for reports written before those
-	// fields existed.
-	switch {
-	case f.FormWhy != "":
-		sec.List = append(sec.List, "Form — "+f.FormWhy)
-	case f.Form == "linear":
-		sec.List = append(sec.List, "Form: Linear: a straight line describes how "+y+" follows "+x+".")
-	case f.Form == "curved":
-		w := "Form: Curved"
-		if f.Bend != nil && *f.Bend != "" {
-			w += " (" + strings.ReplaceAll(*f.Bend, "-", " ") + ")"
+	// The findings say which rule decided each verdict (FormWhy, …,
+	// Reasons); that sentence is shown and the renderer adds no reason of
+	// its own. A report written before those fields existed shows the bare
+	// verdict.
+	why := func(topic, reason, verdict string) {
+		if reason != "" {
+			sec.List = append(sec.List, topic+" — "+reason)
+		} else {
+			sec.List = append(sec.List, topic+": "+verdict+".")
 		}
-		if f.TurnsOver {
-			w += fmt.Sprintf("; the curve turns over at %s = %s, inside the observed range", x, num(f.TurnX))
+	}
+	form := f.Form
+	if f.Bend != nil && *f.Bend != "" {
+		form += " (" + strings.ReplaceAll(*f.Bend, "-", " ") + ")"
+	}
+	why("Form", f.FormWhy, form)
+	why("Direction", f.DirectionWhy, f.Direction)
+	why("Strength", f.StrengthWhy, f.Strength)
+	if f.Reasons != nil {
+		for _, r := range f.Reasons {
+			why(r.Topic, r.Why, r.Verdict)
 		}
-		sec.List = append(sec.List, w+".")
-	case f.Form == "nonlinear":
-		sec.List = append(sec.List, "Form: Nonlinear: "+y+" depends on "+x+" in a way the correlation coefficient does not capture.")
-	case f.Form == "none":
-		sec.List = append(sec.List, "Form: None: no relationship between "+x+" and "+y+" is detected.")
-	default:
-		sec.List = append(sec.List, "Form: "+f.Form+".")
-	}
-	switch {
-	case f.DirectionWhy != "":
-		sec.List = append(sec.List, "Direction — "+f.DirectionWhy)
-	case f.Direction == "positive":
-		sec.List = append(sec.List, "Direction: Positive: "+y+" tends to be higher where "+x+" is higher.")
-	case f.Direction == "negative":
-		sec.List = append(sec.List, "Direction: Negative: "+y+" tends to be lower where "+x+" is higher.")
-	case f.Direction == "none":
-		sec.List = append(sec.List, "Direction: None established.")
-	default:
-		sec.List = append(sec.List, "Direction: "+f.Direction+".")
-	}
-	if f.StrengthWhy != "" {
-		sec.List = append(sec.List, "Strength — "+f.StrengthWhy)
 	} else {
-		str := "Strength: " + capital(f.Strength)
-		if s.Pearson != nil {
-			str += fmt.Sprintf(" (r = %s)", num(s.Pearson.R))
+		if f.OutlierDriven {
+			why("Influence", "", "outlier-driven")
 		}
-		if f.CurveStrength != "" {
-			str += "; the curve's own strength: " + f.CurveStrength
+		if f.Reversal {
+			why("Groups", "", "reversal")
 		}
-		sec.List = append(sec.List, str+".")
-	}
-	if f.OutlierDriven {
-		sec.List = append(sec.List, "Influence: Outlier-driven: the verdict does not survive without the flagged rows.")
-	}
-	if f.Reversal {
-		sec.List = append(sec.List, "Groups: Within each level of "+chart.GroupName(s)+" the direction is the opposite of the pooled direction.")
-	}
-	if len(f.ExplainedBy) > 0 {
-		sec.List = append(sec.List, "Covariates: Holding "+strings.Join(covariateLabels(s, f.ExplainedBy), " and ")+
-			" fixed, the association between "+x+" and "+y+" is no longer shown: it may be carried by that variable rather than by "+x+".")
-	}
-	if f.Drift {
-		sec.List = append(sec.List, "Run order: The residuals trend or cluster in run order; the relationship may have drifted.")
-	}
-	if f.SpreadChanges {
-		sec.List = append(sec.List, "Spread: The scatter about the line changes with "+x+" (Breusch–Pagan).")
+		if len(f.ExplainedBy) > 0 {
+			why("Covariates", "", "explained by "+strings.Join(covariateLabels(s, f.ExplainedBy), ", "))
+		}
+		if f.Drift {
+			why("Run order", "", "drift")
+		}
+		if f.SpreadChanges {
+			why("Spread", "", "changes with "+name(s.X))
+		}
 	}
 	// Each bullet leads with the verdict it is about, set in bold.
 	for _, it := range sec.List {
@@ -142,6 +115,19 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 		if l.Slope != nil {
 			add("Slope ("+unitPer(s)+")", num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P))
 			add("Slope standard error", num(l.Slope.SE), "", "")
+			// The slope's intervals that allow for what the findings found:
+			// residuals that hang together in run order, a changing scatter.
+			if rb, f := s.Robust, s.Findings; rb != nil && f != nil {
+				if rb.HAC != nil && f.Autocorrelated {
+					add(fmt.Sprintf("Slope, Newey–West standard error (%d lags)", rb.HAC.Lags), num(rb.HAC.SE), interval(rb.HAC.CILow, rb.HAC.CIHigh), pval(rb.HAC.P))
+				}
+				if rb.HC3 != nil && f.SpreadChanges {
+					add("Slope, HC3 standard error", num(rb.HC3.SE), interval(rb.HC3.CILow, rb.HC3.CIHigh), pval(rb.HC3.P))
+				}
+				if rb.NEff.Valid() && f.Autocorrelated && s.Pearson != nil {
+					add("Pearson r, effective n "+num(rb.NEff), num(s.Pearson.R), interval(rb.RLow, rb.RHigh), pval(rb.RP))
+				}
+			}
 		}
 		if l.Intercept != nil {
 			add("Intercept", num(l.Intercept.Estimate), interval(l.Intercept.CILow, l.Intercept.CIHigh), pval(l.Intercept.P))
@@ -155,7 +141,11 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 			add(fmt.Sprintf("Lack of fit F (%d, %d)", lf.DF1, lf.DF2), num(lf.F), "", pval(lf.P))
 		}
 		if dc := d.DistanceCorr; dc != nil {
-			add(fmt.Sprintf("Distance correlation (%d permutations)", dc.Permutations), num(dc.DCor), "", pval(dc.P))
+			dcp := pval(dc.P)
+			if dc.MCError.Valid() {
+				dcp += " ± " + sig(float64(dc.MCError), 2)
+			}
+			add(fmt.Sprintf("Distance correlation (%d permutations)", dc.Permutations), num(dc.DCor), "", dcp)
 		}
 		if bp := d.BreuschPagan; bp != nil {
 			add(fmt.Sprintf("Breusch–Pagan χ² (df %d)", bp.DF), num(bp.Stat), "", pval(bp.P))

@@ -158,14 +158,9 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 	if r.Generated != "" {
 		p.Provenance = append(p.Provenance, kv{"Generated", r.Generated})
 	}
-	p.Thresholds = fmt.Sprintf("Cut points in force. Common practice, not a standard: strength from |r| strong at %s, moderate at %s, weak at %s; "+
-		"high leverage above %s·p/n; outlier when the externally studentized residual exceeds %s in size (or the Bonferroni bound at family level %s, whichever is larger); "+
-		"influential when Cook's distance exceeds the %s quantile of F(p, n − p); drift when the run-order Durbin–Watson is below %s. "+
-		"Choices of this tool, not common practice: a curve needs the quadratic to add %s to R²; nonlinear needs a distance correlation of %s; "+
-		"groups of at least %d rows enter the reversal check; the straight line is said to miss a pattern when the Durbin–Watson in x order is below %s. "+
-		"Each study states how its flag rules apply to its own number of rows.",
-		short(th.Strong), short(th.Moderate), short(th.Weak), short(th.LeverageFactor), short(th.OutlierZ), short(th.OutlierFamilyAlpha),
-		short(th.CooksD), short(th.DriftDW), short(th.CurveGainR2), short(th.NonlinearDcor), th.ReversalMinGroup, short(th.FormDW))
+	// The findings state the cut points as the rules apply them; a report
+	// written before that field existed shows its table of cut points only.
+	p.Thresholds = m.Rules
 
 	p.Datasets = table{Caption: "Data files read",
 		Head: []string{"Dataset", "File", "SHA-256", "Rows read", "Missing cells", "Non-numeric cells"},
@@ -374,7 +369,9 @@ func summaryLine(s *report.Study, link string) summaryRow {
 			notes = append(notes, "reverses within "+chart.GroupName(s))
 		}
 		if len(f.ExplainedBy) > 0 {
-			notes = append(notes, "gone given "+strings.Join(covariateLabels(s, f.ExplainedBy), ", "))
+			// Each covariate was held fixed on its own (one partial
+			// correlation each), so several are "or", not "and".
+			notes = append(notes, "gone given "+strings.Join(covariateLabels(s, f.ExplainedBy), " or ")+map[bool]string{true: " (each alone)", false: ""}[len(f.ExplainedBy) > 1])
 		}
 		row.DirNote = strings.Join(notes, "; ")
 		if f.CurveStrength != "" && f.CurveStrength != f.Strength {

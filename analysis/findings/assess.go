@@ -51,7 +51,7 @@ type facts struct {
 	linSig bool
 	quad   *report.Fit
 	b2     float64
-	gain   float64
+	share  float64 // share of the line's residual sum of squares the quadratic removes
 	curved bool
 	nonlin bool
 	dcor   *report.DistanceCorr
@@ -93,7 +93,9 @@ type facts struct {
 //     one way with x); otherwise none.
 //   - form: curved when the x² term's p, after Holm's adjustment within the
 //     study (see below), is below alpha, the quadratic as a
-//     whole is significant and it adds at least CurveGainR2 to R²; it bends
+//     whole is significant and it removes at least the share CurveShare of
+//     the straight line's residual sum of squares (curveShare; a rule that
+//     does not depend on how much the line already explains); it bends
 //     down when the x² coefficient is negative, up when positive; it turns
 //     over when the fitted curve's vertex lies inside the observed x range,
 //     the curve changes by at least its residual SE on both sides of the
@@ -138,6 +140,20 @@ type facts struct {
 //     (alternation) is not drift.
 //   - spread_changes: Breusch–Pagan p below alpha after Holm's adjustment
 //     within the study.
+//   - lines (with a group): "separate" when the F test that the levels'
+//     slopes are equal has p below alpha, else "parallel" when the F test
+//     that one line serves all levels has p below alpha, else "one-line"
+//     ("untested" with fewer than two levels that can have a line). Read
+//     at alpha, outside the Holm family (see lines).
+//   - autocorrelated (with a run order): drift, or the one-sided p of the
+//     run-order Durbin–Watson statistic below alpha; the statements then
+//     give the slope's Newey–West interval and r with an effective n.
+//   - rows: what leaving out the suspect rows does (see rowsEffect).
+//
+// The distance correlation's p comes from a sequential permutation rule
+// whose verdict at alpha is a function of the rows (analysis.dcorTest);
+// the Durbin–Watson statistics are means over the orders of tied rows.
+// Every check with its figures is in Findings.Checks.
 //
 // Multiplicity. r's p is the one adjusted across studies (p_adjusted, by
 // the manifest's `adjust`). The secondary checks — curvature (the x²
@@ -236,6 +252,24 @@ func (f *facts) strengthOf(a float64) string {
 	return "weak"
 }
 
+// curveShare is the share of the straight line's residual sum of squares
+// that the quadratic removes, (RSS_line − RSS_quad)/RSS_line: the partial
+// R² of x² given x. From R² where an RSS is missing; NaN when the line
+// leaves no residual.
+func curveShare(s *report.Study, q *report.Fit) float64 {
+	if s.Line != nil && s.Line.RSS.Valid() && q.RSS.Valid() && s.Line.RSS > 0 {
+		return 1 - float64(q.RSS)/float64(s.Line.RSS)
+	}
+	l := float64(s.Pearson.R2)
+	if s.Line != nil && s.Line.R2.Valid() {
+		l = float64(s.Line.R2)
+	}
+	if !(l < 1) {
+		return math.NaN()
+	}
+	return (float64(q.R2) - l) / (1 - l)
+}
+
 // quadratic returns the study's quadratic model, or nil.
 func quadratic(s *report.Study) *report.Fit {
 	for i := range s.Models {
@@ -268,15 +302,11 @@ func (f *facts) decide(out *report.Findings) {
 	f.screens()
 
 	// Curvature.
-	lineR2 := float64(s.Pearson.R2)
-	if s.Line != nil && s.Line.R2.Valid() {
-		lineR2 = float64(s.Line.R2)
-	}
 	f.quad = quadratic(s)
 	if q := f.quad; q != nil && len(q.Coefficients) == 3 {
 		f.b2 = float64(q.Coefficients[2].Estimate)
-		f.gain = float64(q.R2) - lineR2
-		f.curved = f.screenAdj[checkCurvature] < f.alpha && float64(q.FP) < f.alpha && f.gain >= f.th.CurveGainR2 && f.b2 != 0
+		f.share = curveShare(s, q)
+		f.curved = f.screenAdj[checkCurvature] < f.alpha && float64(q.FP) < f.alpha && f.share >= f.th.CurveShare && f.b2 != 0
 	}
 	if s.Diagnostics != nil {
 		f.dcor = s.Diagnostics.DistanceCorr
@@ -377,6 +407,7 @@ func (f *facts) decide(out *report.Findings) {
 
 	// Lurking variables.
 	out.Reversal = f.reversal()
+	out.Lines = f.lines()
 	if f.rdir != "none" {
 		for _, pc := range s.Partial {
 			if !pc.R.Valid() {
@@ -397,6 +428,90 @@ func (f *facts) decide(out *report.Findings) {
 			out.SpreadChanges = true
 		}
 	}
+	if s.Order != "" {
+		_, dwp := f.driftDWP()
+		out.Autocorrelated = out.Drift || dwp < f.alpha
+	}
+	out.CurveShare = report.Float(f.share)
+	if f.quad == nil {
+		out.CurveShare = report.NaN()
+	}
+	out.Rows = f.rowsEffect(out)
+	out.Checks = f.checks(out)
+}
+
+// rowsEffect names what leaving out the suspect rows does to the verdict
+// (report.Findings.Rows), from the figures decide has set.
+func (f *facts) rowsEffect(out *report.Findings) string {
+	se := f.s.Sensitivity
+	if se == nil || se.NFlagged == 0 {
+		return ""
+	}
+	rw := float64(se.RWithoutFlagged)
+	switch {
+	case f.without == "undefined":
+		return "undefined"
+	case f.rdir == "none" && f.without != "none":
+		return "hides-relationship"
+	case f.without != f.rdir:
+		return "direction-changes"
+	case f.weaker:
+		return "weaker"
+	case f.withinCI:
+		return "within-interval"
+	case f.rdir != "none" && grade(f.strengthOf(math.Abs(rw))) > grade(out.Strength):
+		return "stronger"
+	}
+	return "stands"
+}
+
+// checks lists the tests the verdicts read, with their figures.
+func (f *facts) checks(out *report.Findings) []report.Check {
+	nan := report.NaN()
+	var c []report.Check
+	screen := func(name, key string, stat float64, raised bool) {
+		raw, ok := f.screenRaw[key]
+		if !ok {
+			return
+		}
+		c = append(c, report.Check{Name: name, Stat: report.Float(stat), P: report.Float(raw),
+			PAdjusted: report.Float(math.Min(1, f.screenAdj[key])), Bound: nan, Raised: raised, Adjusted: true})
+	}
+	s := f.s
+	if q := f.quad; q != nil && len(q.Coefficients) == 3 {
+		screen("curvature", checkCurvature, float64(q.Coefficients[2].T), f.screenAdj[checkCurvature] < f.alpha)
+	}
+	if d := s.Diagnostics; d != nil {
+		if d.LackOfFit != nil {
+			screen("lack-of-fit", checkLackOfFit, float64(d.LackOfFit.F), f.lof)
+		}
+		if d.BreuschPagan != nil {
+			screen("changing-spread", checkSpread, float64(d.BreuschPagan.Stat), out.SpreadChanges)
+		}
+		if s.Order != "" {
+			dw, dwp := f.driftDWP()
+			screen("drift", checkDrift, dw, out.Drift)
+			if d.OrderTrend != nil {
+				p := float64(d.OrderTrend.P)
+				c = append(c, report.Check{Name: "drift-trend", Stat: d.OrderTrend.Slope, P: report.Float(p), PAdjusted: report.Float(p), Bound: nan})
+			}
+			if !math.IsNaN(dw) {
+				c = append(c, report.Check{Name: "drift-dw", Stat: report.Float(dw), P: report.Float(dwp), PAdjusted: report.Float(dwp), Bound: report.Float(f.th.DriftDW)})
+			}
+		}
+		if f.dcor != nil {
+			c = append(c, report.Check{Name: "distance-correlation", Stat: f.dcor.DCor, P: f.dcor.P, PAdjusted: f.dcor.P,
+				Bound: report.Float(f.th.NonlinearDcor), Raised: f.dcorRoute})
+		}
+		if !math.IsNaN(f.dwx) {
+			c = append(c, report.Check{Name: "x-order-dw", Stat: report.Float(f.dwx), P: nan, PAdjusted: nan,
+				Bound: report.Float(f.dwxBound), Raised: f.dwx < f.dwxBound})
+		}
+	}
+	if c == nil {
+		c = []report.Check{}
+	}
+	return c
 }
 
 // xOrderDW returns the Durbin–Watson statistic of the line's residuals
@@ -577,6 +692,53 @@ func (f *facts) qualifying() []report.GroupFit {
 	return g
 }
 
+// lines decides whether one line serves all levels of the group
+// (report.Findings.Lines), from GroupLines' two F tests read at alpha.
+// They are not part of the study's Holm family of screens (see screens):
+// a study with a group would otherwise hold its curvature and spread
+// checks to a stricter level than the same data without one.
+func (f *facts) lines() string {
+	s := f.s
+	switch {
+	case s.Group == "":
+		return ""
+	case s.GroupLines == nil || s.GroupLines.Groups < 2 || !s.GroupLines.LinesP.Valid():
+		return "untested"
+	case !(float64(s.GroupLines.LinesP) < f.alpha):
+		return "one-line"
+	case float64(s.GroupLines.SlopesP) < f.alpha:
+		return "separate"
+	}
+	return "parallel"
+}
+
+// linesText writes the figures of the lines verdict.
+func (f *facts) linesText() string {
+	gl := f.s.GroupLines
+	return fmt.Sprintf("one line for all %d levels against a line per level: F = %s on %d and %d df, %s; equal slopes: F = %s on %d and %d df, %s; pooled within-level r = %s (%s on %d df)",
+		gl.Groups, num(float64(gl.LinesF)), gl.LinesDF1, gl.DF2, f.pv(float64(gl.LinesP)), num(float64(gl.SlopesF)), gl.SlopesDF1, gl.DF2,
+		f.pv(float64(gl.SlopesP)), corr(float64(gl.RWithin)), f.pv(float64(gl.RWithinP)), gl.RWithinDF)
+}
+
+// reversalCount writes the figures of the reversal rule: "of the 3 groups
+// compared, 3 have a slope of the opposite sign, 2 of them clearly
+// (interval excluding 0), and none clearly has the pooled sign".
+func (f *facts) reversalCount() string {
+	g := f.qualifying()
+	pooled := sign(f.r)
+	opposite, sigOpp := 0, 0
+	for _, gf := range g {
+		if sign(float64(gf.Slope)) == -pooled {
+			opposite++
+		}
+		if lo, hi := float64(gf.SlopeLow), float64(gf.SlopeHigh); lo > 0 && pooled < 0 || hi < 0 && pooled > 0 {
+			sigOpp++
+		}
+	}
+	return fmt.Sprintf("of the %d groups compared, %d %s a slope of the opposite sign, %d of them clearly (interval excluding 0), and none clearly has the pooled sign",
+		len(g), opposite, plural(opposite, "has", "have"), sigOpp)
+}
+
 func (f *facts) reversal() bool {
 	if f.rdir == "none" {
 		return false
@@ -650,14 +812,25 @@ func (f *facts) write(out *report.Findings) {
 	if out.OutlierDriven {
 		h = f.drivenHeadline() + " With all rows: " + h
 	} else if rows := f.suspectRows(); len(rows) > 0 && s.Sensitivity != nil && s.Sensitivity.RWithoutFlagged.Valid() {
-		h += fmt.Sprintf(" %s %s flagged; without %s r = %s and the verdict stands.",
-			capital(listRows(rows)), plural(len(rows), "is", "are"), plural(len(rows), "it", "them"), corr(float64(s.Sensitivity.RWithoutFlagged)))
+		rw := float64(s.Sensitivity.RWithoutFlagged)
+		h += fmt.Sprintf(" %s %s flagged; without %s r = %s", capital(listRows(rows)), plural(len(rows), "is", "are"),
+			plural(len(rows), "it", "them"), f.absNumSigned(rw))
+		switch out.Rows {
+		case "stronger":
+			h += fmt.Sprintf(", %s rather than %s: the flagged rows weaken the relationship, they do not make it.",
+				strengthWord(f.strengthOf(math.Abs(rw))), strengthWord(out.Strength))
+		case "within-interval":
+			h += fmt.Sprintf(", which would grade %s, but lies inside r's %s interval: the verdict stands.",
+				strengthWord(f.strengthOf(math.Abs(rw))), f.conf)
+		default:
+			h += " and the verdict stands."
+		}
 	}
 	if out.Reversal {
-		h += fmt.Sprintf(" Within each %s the direction reverses: the pooled trend comes from differences between the groups.", f.groupLabel())
+		h += fmt.Sprintf(" Within most groups of %s the direction reverses: the pooled trend comes from differences between the groups.", f.groupLabel())
 	}
 	if len(out.ExplainedBy) > 0 {
-		h += fmt.Sprintf(" Holding %s fixed, the association is no longer shown.", joinAnd(f.covariateLabels(out.ExplainedBy)))
+		h += " " + f.heldFixed(out.ExplainedBy) + ", the association is no longer shown."
 	}
 	if way := f.hiddenWay(); way != "" {
 		h += fmt.Sprintf(" Within groups of %s, %s %s with %s.", f.groupLabel(), y, way, x)
@@ -727,6 +900,11 @@ func (f *facts) write(out *report.Findings) {
 			}
 			add("The scatter about the line %s with %s (Breusch–Pagan %s%s): the bands, which assume an even scatter, are too narrow in some places and too wide in others.",
 				how, x, f.screenP(checkSpread, float64(bp.P)), rho)
+			if rb := s.Robust; rb != nil && rb.HC3 != nil && rb.HC3.CILow.Valid() && s.Line != nil && s.Line.Slope != nil {
+				add("Allowing for the changing scatter, the slope's %s interval from HC3 standard errors (heteroscedasticity-consistent; normal quantiles) is %s to %s %s, against %s to %s from the ordinary ones.",
+					f.conf, num(float64(rb.HC3.CILow)), num(float64(rb.HC3.CIHigh)), perUnit(f.ySym, f.xSym, x),
+					num(float64(s.Line.Slope.CILow)), num(float64(s.Line.Slope.CIHigh)))
+			}
 		} else {
 			add("The scatter about the line shows no clear change with %s (Breusch–Pagan %s).", x, f.screenP(checkSpread, float64(bp.P)))
 		}
@@ -771,8 +949,8 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		}
 	case "nonlinear":
 		if f.dcor != nil {
-			add("The distance correlation, which detects dependence of any shape, is %s (%s, %d permutations), against |r| = %s.",
-				num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), f.dcor.Permutations, corr(math.Abs(f.r)))
+			add("The distance correlation, which detects dependence of any shape, is %s (%s), against |r| = %s.",
+				num(float64(f.dcor.DCor)), f.dcorP(), corr(math.Abs(f.r)))
 		}
 		if f.dwRoute {
 			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): %s goes up and down with %s in a way neither the straight line nor the quadratic follows. Look at the scatterplot.",
@@ -789,7 +967,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 			c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
 			why := "its x² term is not clear"
 			if f.screenAdj[checkCurvature] < f.alpha {
-				why = fmt.Sprintf("it adds less than the %s to R² that would count as a curve (%s)", num(f.th.CurveGainR2), OwnChoice)
+				why = fmt.Sprintf("it removes a share %s of the line's residual sum of squares, less than the %s that would count as a curve (%s)", f.shareText(), num(f.th.CurveShare), OwnChoice)
 			}
 			add("A quadratic curve gives R² = %s against %s for the straight line (x² term %s): %s, so the form is taken as a straight line.",
 				c, l, f.screenP(checkCurvature, f.quadP()), why)
@@ -801,7 +979,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 					num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice)
 			} else {
 				add("The distance correlation, which detects dependence of any shape, finds none either (%s, %s).",
-					num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)))
+					num(float64(f.dcor.DCor)), f.dcorP())
 			}
 		}
 	}
@@ -810,6 +988,21 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		add("Where %s repeats, the means of the repeated settings scatter about the line more than repeat runs scatter about their own mean (lack-of-fit F = %s on %d and %d df, %s): the line summarises the trend but does not pass through every setting's mean.",
 			x, num(float64(lf.F)), lf.DF1, lf.DF2, f.screenP(checkLackOfFit, float64(lf.P)))
 	}
+}
+
+// dcorP writes the distance correlation's permutation p with its Monte
+// Carlo error and what the sequential rule settled: "p = 0.012 ± 0.003
+// from 999 permutations".
+func (f *facts) dcorP() string {
+	d := f.dcor
+	t := f.pv(float64(d.P))
+	if d.Permutations > 0 && d.MCError.Valid() {
+		t += fmt.Sprintf(" ± %s from %d permutations", num(float64(d.MCError)), d.Permutations)
+		if !d.Resolved {
+			t += ", within Monte Carlo error of alpha after the most permutations the rule draws"
+		}
+	}
+	return t
 }
 
 func (f *facts) quadP() float64 {
@@ -913,6 +1106,10 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 	}
 	if se.NFlagged > 0 {
 		verdict := "the verdict stands"
+		if out.Rows == "stronger" {
+			verdict = fmt.Sprintf("the direction stands and the strength rises to %s: the flagged rows weaken the relationship, they do not make it (so it is not outlier-driven)",
+				strengthWord(f.strengthOf(math.Abs(float64(se.RWithoutFlagged)))))
+		}
 		if f.without != f.rdir {
 			verdict = "the verdict does not stand without " + plural(se.NFlagged, "it", "them")
 		} else if f.weaker {
@@ -1056,12 +1253,17 @@ func (f *facts) limits(out *report.Findings) {
 	d := s.Diagnostics
 	switch {
 	case s.Order == "":
-		add("No run order was declared, so drift over time was not checked.")
+		add("No run order was declared, so drift over time, and dependence between rows taken one after another, were not checked: the p-values and intervals in this report assume independent rows.")
 	case d == nil:
 	case out.Drift:
 		add("The residuals drift in run order (by %s; %s): time, or something changing with it, may act on %s besides %s.", f.orderLabel(), f.orderFigures(), y, x)
 	default:
-		add("The residuals show no drift in run order (by %s; %s).", f.orderLabel(), f.orderFigures())
+		add("Drift in run order is not shown at alpha = %s (by %s; %s)%s.", num(f.alpha), f.orderLabel(), f.orderFigures(), f.driftPartsNote())
+	}
+
+	// Independence.
+	if s.Order != "" && d != nil {
+		f.independence(out, add)
 	}
 
 	// Multiplicity of the secondary checks.
@@ -1069,6 +1271,21 @@ func (f *facts) limits(out *report.Findings) {
 		add("The checks of %s are screens: their p-values share alpha = %s within this study (Holm's adjustment over its %d %s), but are not adjusted across studies, and the distance correlation and the residuals in order of %s are screened at alpha without adjustment; a flag from any of them calls for a look at the plots, not a conclusion.",
 			joinAnd(f.screenNames), num(f.alpha), len(f.screenNames), plural(len(f.screenNames), "check", "checks"), x)
 	}
+}
+
+// heldFixed is "Holding A fixed", or for several covariates, each of which
+// the rule held fixed on its own, "Holding A fixed, or holding B fixed (one
+// at a time)".
+func (f *facts) heldFixed(names []string) string {
+	labels := f.covariateLabels(names)
+	if len(labels) == 1 {
+		return "Holding " + labels[0] + " fixed"
+	}
+	parts := make([]string, len(labels))
+	for i, l := range labels {
+		parts[i] = "holding " + l + " fixed"
+	}
+	return capital(strings.Join(parts[:len(parts)-1], ", ")+", or "+parts[len(parts)-1]) + " (one at a time)"
 }
 
 // covariateLabels returns the labels of the named covariates (from
@@ -1150,6 +1367,57 @@ func (f *facts) orderFigures() string {
 	return t
 }
 
+// independence states, with a run order, whether the p-values and
+// intervals' assumption of independent rows holds up, and where the
+// residuals hang together in run order, the slope's Newey–West interval
+// and r with Bartlett's effective sample size.
+func (f *facts) independence(out *report.Findings, add func(string, ...any)) {
+	s := f.s
+	if !out.Autocorrelated {
+		add("The p-values and intervals in this report assume independent rows; in run order the residuals do not clearly hang together (figures above).")
+		return
+	}
+	dw, dwp := f.driftDWP()
+	t := fmt.Sprintf("The residuals hang together in run order (Durbin–Watson %s, one-sided %s%s), so the p-values and intervals above, which assume independent rows, are too optimistic.",
+		num(dw), f.pv(dwp), map[bool]string{true: "; drift is called", false: ""}[out.Drift])
+	rb := s.Robust
+	if rb != nil && rb.HAC != nil && rb.HAC.CILow.Valid() && s.Line != nil && s.Line.Slope != nil {
+		t += fmt.Sprintf(" Allowing for it, the slope's %s interval from Newey–West standard errors (Bartlett kernel, %d %s, floor(4(n/100)^(2/9)); normal quantiles) is %s to %s %s, against %s to %s from the ordinary ones.",
+			f.conf, rb.HAC.Lags, plural(rb.HAC.Lags, "lag", "lags"), num(float64(rb.HAC.CILow)), num(float64(rb.HAC.CIHigh)), perUnit(f.ySym, f.xSym, f.xLabel),
+			num(float64(s.Line.Slope.CILow)), num(float64(s.Line.Slope.CIHigh)))
+	}
+	if rb != nil && rb.NEff.Valid() {
+		t += fmt.Sprintf(" For r, Bartlett's effective sample size n(1 − ρx·ρe)/(1 + ρx·ρe), from the lag-1 autocorrelations in run order of %s (%s) and of the line's residuals (%s), is %s of %d rows",
+			f.xLabel, corr(float64(rb.Rho1X)), corr(float64(rb.Rho1E)), num(float64(rb.NEff)), s.N)
+		if rb.RP.Valid() {
+			t += fmt.Sprintf(", giving r's %s and %s", f.interval(rb.RLow, rb.RHigh), f.pv(float64(rb.RP)))
+		} else {
+			t += ", too few for r to be tested"
+		}
+		t += "."
+	}
+	add("%s", t)
+}
+
+// driftPartsNote says, where drift is not called but one of its two parts
+// is below alpha on its own, that the rule's adjusted figure decided and
+// that the residuals may still hang together in run order.
+func (f *facts) driftPartsNote() string {
+	d := f.s.Diagnostics
+	var parts []string
+	if d.OrderTrend != nil && float64(d.OrderTrend.P) < f.alpha {
+		parts = append(parts, "the trend alone")
+	}
+	if _, p := f.driftDWP(); p < f.alpha {
+		parts = append(parts, "the Durbin–Watson statistic alone")
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return fmt.Sprintf(": %s would be below alpha, but the check reads the smaller p of its two parts doubled%s",
+		joinAnd(parts), map[bool]string{true: " and adjusted by Holm's method over the study's checks", false: ""}[len(f.screenNames) > 1])
+}
+
 // hiddenWay returns "rises" or "falls" when r shows no direction but, of
 // two or more groups large enough to compare, most have a slope interval
 // on one side of 0 and none on the other (one group of many can do that
@@ -1178,6 +1446,17 @@ func (f *facts) hiddenWay() string {
 }
 
 func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
+	switch out.Lines {
+	case "untested":
+		add("Fewer than two levels of %s can have a line of their own (at least 3 rows, with x varying), so whether one line serves all of them was not tested.", f.groupLabel())
+	case "one-line":
+		add("One line serves all levels of %s: a line per level does not fit clearly better (%s; alpha = %s).", f.groupLabel(), f.linesText(), num(f.alpha))
+	case "parallel":
+		add("The levels of %s are shifted from each other but share a slope: a line per level fits better than one line, but the slopes do not differ clearly (%s; alpha = %s).", f.groupLabel(), f.linesText(), num(f.alpha))
+	case "separate":
+		add("The slopes differ between the levels of %s, so one line does not serve them all (%s; alpha = %s).", f.groupLabel(), f.linesText(), num(f.alpha))
+	}
+
 	g := f.qualifying()
 	var parts []string
 	for i, gf := range g {
@@ -1196,8 +1475,8 @@ func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 	case len(g) < 2:
 		add("Fewer than two groups of %s have %d rows or more (the smallest size compared, %s), so the groups were not compared.", f.groupLabel(), f.th.ReversalMinGroup, OwnChoice)
 	case out.Reversal:
-		add("Within each %s the direction reverses: pooled, %s %s with %s, but within groups it goes the other way (%s). The pooled relationship comes from differences between the groups.",
-			f.groupLabel(), f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, detail)
+		add("Within groups of %s the direction reverses: pooled, %s %s with %s, but %s (%s). The pooled relationship comes from differences between the groups.",
+			f.groupLabel(), f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, f.reversalCount(), detail)
 	case f.rdir == "none":
 		add("Within each %s a line was fitted (%s); the pooled data show no direction, so there is none to reverse, and most groups do not agree on one.", f.groupLabel(), detail)
 	default:

@@ -1,6 +1,6 @@
 package findings
 
-// The cut points that are this project's own choices (CurveGainR2,
+// The cut points that are this project's own choices (CurveShare,
 // NonlinearDcor, ReversalMinGroup, FormDW) must be labelled so wherever a
 // sentence prints them: they are not common practice.
 
@@ -40,12 +40,12 @@ func requireLabelled(t *testing.T, what string, f *report.Findings, sub string) 
 }
 
 func TestOwnCutPointsAreLabelled(t *testing.T) {
-	// A clear x² term adding less than CurveGainR2 to R².
+	// A clear x² term removing less than the share CurveShare of the line's residual sum of squares.
 	s := study(0.8, 1e-9)
 	s.Diagnostics.QuadraticP = 0.01
 	s.Models[0].Coefficients[2].P = 0.01
 	s.Models[0].FP = 1e-9
-	requireLabelled(t, "curve gain", Assess(s, ctx), `(the|least) 0\.05 `)
+	requireLabelled(t, "curve share", Assess(s, ctx), `the 0\.1 (that|required)`)
 
 	// A significant distance correlation below NonlinearDcor, r not shown.
 	s = study(0.05, 0.7)

@@ -4,6 +4,7 @@ package findings
 // per-point flags of the straight line's influence measures.
 
 import (
+	"fmt"
 	"math"
 
 	"bivar/analysis/report"
@@ -13,7 +14,7 @@ import (
 // DefaultThresholds returns every cut point the findings use. None of them
 // is a standard. Some are common practice or come from the literature
 // (Strong, Moderate, Weak, LeverageFactor, OutlierZ, CooksD, DriftDW, each
-// with its source below); the others (CurveGainR2, NonlinearDcor,
+// with its source below); the others (CurveShare, NonlinearDcor,
 // ReversalMinGroup, FormDW) are this project's own choices, and the
 // sentences that print them say so (OwnChoice). A manifest may override
 // any of them in its [thresholds] table.
@@ -45,10 +46,15 @@ import (
 //     ln 2 ≈ 0.69 as n grows, so about 0.7 from n ≈ 10 on but higher for
 //     the smallest studies. The rule "D > 4/n" flags about one row in
 //     twenty of clean data and is not used.
-//   - CurveGainR2 0.05 (project choice, no published source): the form is
-//     "curved" when the quadratic term is significant and the quadratic
-//     adds at least 0.05 to R² over the line, so a bend too slight to
-//     matter in practice is still called a line.
+//   - CurveShare 0.1 (project choice, no published source): the form is
+//     "curved" when the x² term is significant and the quadratic removes at
+//     least a tenth of the straight line's residual sum of squares,
+//     (RSS_line − RSS_quad)/RSS_line (the partial R² of x² given x), so a
+//     bend too slight to matter beside the scatter is still called a line.
+//     The share does not depend on how much the line already explains: an
+//     absolute gain in R² (0.05, this tool's earlier rule) called a clear
+//     curve straight once the line's R² passed 0.95, as in weekly CO₂
+//     against time or food expenditure against income.
 //   - NonlinearDcor 0.15 (project choice, tuned on our own generated
 //     suite, testdata/suite): the form is "nonlinear" when the distance
 //     correlation is significant, at least 0.15 and larger than |r| (for
@@ -82,7 +88,7 @@ func DefaultThresholds() report.Thresholds {
 		OutlierZ:           3,
 		OutlierFamilyAlpha: 0.05,
 		CooksD:             0.5,
-		CurveGainR2:        0.05,
+		CurveShare:         0.1,
 		NonlinearDcor:      0.15,
 		ReversalMinGroup:   5,
 		DriftDW:            1.5,
@@ -157,7 +163,7 @@ func (f FlagSet) Names() []string {
 func (f FlagSet) Suspect() bool { return f&(BitOutlier|BitInfluential|BitSoleSupport) != 0 }
 
 // FlagRules are the cut points of the flags for a study of N rows under
-// one set of thresholds: computed once, applied to each row by Flag.
+// one set of thresholds (FlagRulesFor): computed once, applied to each row by Flag.
 type FlagRules struct {
 	N        int
 	Leverage float64 // high leverage above this (LeverageFactor·2/n); +Inf when the rule is off
@@ -165,8 +171,8 @@ type FlagRules struct {
 	Cooks    float64 // influential when Cook's distance exceeds this (CooksBound)
 }
 
-// Rules returns the flag cut points for n rows under th.
-func Rules(n int, th report.Thresholds) FlagRules {
+// FlagRulesFor returns the flag cut points for n rows under th.
+func FlagRulesFor(n int, th report.Thresholds) FlagRules {
 	r := FlagRules{N: n, Leverage: math.Inf(1), Outlier: OutlierBound(n, th), Cooks: CooksBound(n, th)}
 	if th.LeverageFactor > 0 && n > 0 {
 		r.Leverage = th.LeverageFactor * params / float64(n)
@@ -200,11 +206,11 @@ func (r FlagRules) Flag(h, t, d float64, sole bool) FlagSet {
 // measures under th (see the Flag constants and DefaultThresholds for the
 // rules); nil for a row with none. All four slices are parallel, one entry
 // per complete case; a shorter soleSupport counts as false. It applies
-// Rules(n, th).Flag to each row; a study streams rows through Flag instead.
+// FlagRulesFor(n, th).Flag to each row; a study streams rows through Flag instead.
 func FlagPoints(leverage, studentizedExt, cooksD []float64, soleSupport []bool, th report.Thresholds) [][]string {
 	n := len(leverage)
 	out := make([][]string, n)
-	rules := Rules(n, th)
+	rules := FlagRulesFor(n, th)
 	at := func(v []float64, i int) float64 {
 		if i < len(v) {
 			return v[i]
@@ -229,4 +235,26 @@ func Suspect(flags []string) bool {
 		}
 	}
 	return false
+}
+
+// Rules states the cut points th (at significance level alpha) as the
+// rules of Assess apply them, in one paragraph for people: first those that
+// are common practice, then this tool's own choices.
+func Rules(th report.Thresholds, alpha float64) string {
+	if th == (report.Thresholds{}) {
+		th = DefaultThresholds()
+	}
+	if !(alpha > 0 && alpha < 1) {
+		alpha = 0.05
+	}
+	return fmt.Sprintf("Cut points in force. Common practice, not a standard: strength from |r|, strong at %s, moderate at %s, weak at %s, graded only where r's p is below alpha = %s; "+
+		"high leverage above %s·p/n; outlier when the externally studentized residual exceeds %s in size or the Bonferroni bound at family level %s, whichever is larger; "+
+		"influential when Cook's distance exceeds the %s quantile of F(p, n − p); with a declared run order, drift when the smaller of two p-values, the residuals' trend in run order "+
+		"and their Durbin–Watson statistic (read only below %s, a rule of thumb), doubled and adjusted by Holm's method over the study's checks, is below alpha. "+
+		"Choices of this tool, not common practice: a curve needs a significant x² term (Holm's adjustment within the study) and the quadratic to remove at least a share %s of the straight line's residual sum of squares; "+
+		"nonlinear needs either a significant distance correlation of at least %s and above |r| while r is not significant, or, with |r| below %s, the line's residuals in order of x "+
+		"with a Durbin–Watson statistic below the smaller of %s and its alpha bound; groups of at least %d rows enter the reversal check. "+
+		"Each study states how its flag rules apply to its own number of rows.",
+		num(th.Strong), num(th.Moderate), num(th.Weak), num(alpha), num(th.LeverageFactor), num(th.OutlierZ), num(th.OutlierFamilyAlpha),
+		num(th.CooksD), num(th.DriftDW), num(th.CurveShare), num(th.NonlinearDcor), num(th.Moderate), num(th.FormDW), th.ReversalMinGroup)
 }

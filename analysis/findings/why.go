@@ -8,6 +8,8 @@ package findings
 import (
 	"fmt"
 	"math"
+	"slices"
+	"strings"
 
 	"bivar/analysis/report"
 )
@@ -18,6 +20,55 @@ func (f *facts) why(out *report.Findings) {
 	out.FormWhy = f.formWhy(out)
 	out.DirectionWhy = f.directionWhy(out)
 	out.StrengthWhy = f.strengthWhy(out)
+	out.Reasons = f.reasons(out)
+}
+
+// reasons writes, for each secondary verdict that is raised, the rule that
+// raised it with its figures (report.Reason).
+func (f *facts) reasons(out *report.Findings) []report.Reason {
+	rs := []report.Reason{}
+	add := func(verdict, topic, why string) {
+		rs = append(rs, report.Reason{Verdict: verdict, Topic: topic, Why: why})
+	}
+	s := f.s
+	if out.OutlierDriven {
+		h := f.drivenHeadline()
+		add("outlier_driven", "Influence", "Outlier-driven: "+strings.ToLower(h[:1])+h[1:])
+	}
+	if out.Reversal {
+		add("reversal", "Groups", fmt.Sprintf("Reversal: pooled, r = %s; within groups of %s, %s (groups of at least %d rows are compared, %s).",
+			f.rNum(), f.groupLabel(), f.reversalCount(), f.th.ReversalMinGroup, OwnChoice))
+	}
+	switch out.Lines {
+	case "parallel":
+		add("groups_differ", "Groups", fmt.Sprintf("Parallel lines: the levels of %s are shifted but share a slope (%s; alpha = %s).", f.groupLabel(), f.linesText(), f.alphaText()))
+	case "separate":
+		add("groups_differ", "Groups", fmt.Sprintf("Separate lines: the slopes differ between the levels of %s (%s; alpha = %s).", f.groupLabel(), f.linesText(), f.alphaText()))
+	}
+	if len(out.ExplainedBy) > 0 {
+		var parts []string
+		for _, pc := range s.Partial {
+			if !slices.Contains(out.ExplainedBy, pc.Covariate) {
+				continue
+			}
+			why := "its sign differs from r's"
+			if sign(float64(pc.R)) == sign(f.r) {
+				why = fmt.Sprintf("%s is not below %s, and its interval excludes r = %s", f.pv(float64(pc.P)), f.alphaText(), f.rNum())
+			}
+			parts = append(parts, fmt.Sprintf("holding %s fixed, partial r = %s (%s, %s): %s",
+				f.covariateLabels([]string{pc.Covariate})[0], corr(float64(pc.R)), f.interval(pc.CILow, pc.CIHigh), f.pv(float64(pc.P)), why))
+		}
+		add("explained_by", "Covariates", "Explained by "+joinAnd(f.covariateLabels(out.ExplainedBy))+": "+strings.Join(parts, "; ")+
+			" (each partial correlation holds one covariate fixed).")
+	}
+	if out.Drift {
+		add("drift", "Run order", fmt.Sprintf("Drift: the residuals drift in run order (by %s; %s), below alpha = %s.", f.orderLabel(), f.orderFigures(), f.alphaText()))
+	}
+	if out.SpreadChanges && s.Diagnostics != nil && s.Diagnostics.BreuschPagan != nil {
+		add("spread_changes", "Spread", fmt.Sprintf("Spread changes: Breusch–Pagan %s, below alpha = %s: the scatter about the line changes with %s.",
+			f.screenP(checkSpread, float64(s.Diagnostics.BreuschPagan.P)), f.alphaText(), f.xLabel))
+	}
+	return rs
 }
 
 // rShown is "r = 0.83 (95% CI 0.76 to 0.88) with p = 0.004", with the p
@@ -40,6 +91,13 @@ func (f *facts) pBoth() string {
 		return fmt.Sprintf("adjusted %s (unadjusted %s)", adj, raw)
 	}
 	return f.pv(float64(f.s.Pearson.P))
+}
+
+// shareText writes the share of the line's residual sum of squares that
+// the quadratic removes, "0.31", with digits enough to stay on the right
+// side of CurveShare.
+func (f *facts) shareText() string {
+	return corrVs(f.share, f.th.CurveShare)
 }
 
 // alphaText is "0.05".
@@ -118,8 +176,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 	case "curved":
 		q := f.quad
 		l, c := corrPair(lineR2, float64(q.R2))
-		w := fmt.Sprintf("Curved: the quadratic's x² term is significant (%s), and so is the quadratic as a whole (F test %s); it raises R² from %s for the line to %s, a gain of %s, at least the %s required (%s).",
-			f.pv(f.quadP()), f.pv(float64(q.FP)), l, c, corr(f.gain), num(f.th.CurveGainR2), OwnChoice)
+		w := fmt.Sprintf("Curved: the quadratic's x² term is significant (%s), and so is the quadratic as a whole (F test %s); it raises R² from %s for the line to %s and removes a share %s of the line's residual sum of squares, at least the %s required (%s).",
+			f.screenP(checkCurvature, f.quadP()), f.pv(float64(q.FP)), l, c, f.shareText(), num(f.th.CurveShare), OwnChoice)
 		bend := "up (the x² coefficient is positive)"
 		if f.b2 < 0 {
 			bend = "down (the x² coefficient is negative)"
@@ -150,7 +208,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 		var parts []string
 		if f.dcorRoute {
 			parts = append(parts, fmt.Sprintf("the distance correlation, which detects dependence of any shape, is %s (%s), at least %s (%s) and above |r| = %s, while r itself does not differ clearly from 0 (%s)",
-				num(float64(f.dcor.DCor)), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice, corr(math.Abs(f.r)), f.pBoth()))
+				num(float64(f.dcor.DCor)), f.dcorP(), num(f.th.NonlinearDcor), OwnChoice, corr(math.Abs(f.r)), f.pBoth()))
 		}
 		if f.dwRoute {
 			parts = append(parts, fmt.Sprintf("taken in order of %s, the line's residuals swing together (Durbin–Watson %s, below %s) while |r| = %s is below %s",
@@ -164,8 +222,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 		}
 		if q := f.quad; q != nil && q.R2.Valid() {
 			l, c := corrPair(lineR2, float64(q.R2))
-			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic; a curve needs the x² term and the quadratic significant at %s and a gain in R² of at least %s, %s)",
-				f.pv(f.quadP()), l, c, f.alphaText(), num(f.th.CurveGainR2), OwnChoice)
+			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic, which removes a share %s of the line's residual sum of squares; a curve needs the x² term and the quadratic significant at %s and a share of at least %s, %s)",
+				f.screenP(checkCurvature, f.quadP()), l, c, f.shareText(), f.alphaText(), num(f.th.CurveShare), OwnChoice)
 		}
 		if f.dwx < f.dwxBound {
 			w += fmt.Sprintf(". The residuals in order of %s swing together (Durbin–Watson %s, below %s), but with |r| = %s at or above %s that does not overturn the line; look at the residual plot",
@@ -178,7 +236,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 		d := float64(f.dcor.DCor)
 		switch {
 		case !(float64(f.dcor.P) < f.alpha):
-			w += fmt.Sprintf("; the distance correlation finds no dependence of any shape (%s, %s)", num(d), f.pv(float64(f.dcor.P)))
+			w += fmt.Sprintf("; the distance correlation finds no dependence of any shape (%s, %s)", num(d), f.dcorP())
 		case d < f.th.NonlinearDcor:
 			w += fmt.Sprintf("; the distance correlation, %s (%s), is below the cut point %s (%s)", num(d), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice)
 		default:
@@ -194,7 +252,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 		w += fmt.Sprintf("; the residuals in order of %s do not swing together (Durbin–Watson %s, not below %s)", f.xLabel, num(f.dwx), f.dwxBoundText())
 	}
 	if f.quad != nil && !math.IsNaN(f.quadP()) && !f.curved {
-		w += fmt.Sprintf("; no curve qualifies (x² term %s)", f.pv(f.quadP()))
+		w += fmt.Sprintf("; no curve qualifies (x² term %s)", f.screenP(checkCurvature, f.quadP()))
 	}
 	return w + "."
 }

@@ -47,7 +47,7 @@ type Thresholds struct {
 	LeverageFactor   *float64 `toml:"leverage_factor"`
 	OutlierZ         *float64 `toml:"outlier_z"`
 	CooksD           *float64 `toml:"cooks_d"`
-	CurveGainR2      *float64 `toml:"curve_gain_r2"`
+	CurveShare       *float64 `toml:"curve_share"`
 	NonlinearDcor    *float64 `toml:"nonlinear_dcor"`
 	ReversalMinGroup *int     `toml:"reversal_min_group"`
 

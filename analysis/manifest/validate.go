@@ -353,7 +353,7 @@ func (p *parser) thresholds(t *Thresholds) {
 			p.add("", "thresholds."+key, "thresholds.%s = %v is outside [0, %v) (%s; 0 turns the rule off)", key, *v, hi, what)
 		}
 	}
-	frac("curve_gain_r2", t.CurveGainR2)
+	frac("curve_share", t.CurveShare)
 	frac("nonlinear_dcor", t.NonlinearDcor)
 	// Cook's D is compared with this quantile of F(p, n − p): a
 	// probability, like the fractions above.

@@ -44,6 +44,10 @@ type ManifestInfo struct {
 	SHA256     string     `json:"sha256"`
 	Seed       uint64     `json:"seed"` // seed of every random source (permutation tests)
 	Thresholds Thresholds `json:"thresholds"`
+	// Rules states the cut points in force as the rules apply them
+	// (findings.Rules), for people: common practice apart from this tool's
+	// own choices.
+	Rules string `json:"rules"`
 }
 
 // Thresholds are the cut points the findings use. The defaults live in
@@ -56,7 +60,7 @@ type Thresholds struct {
 	LeverageFactor   float64 `json:"leverage_factor"`    // high leverage when h > factor·p/n (3)
 	OutlierZ         float64 `json:"outlier_z"`          // outlier when |externally studentized| > this (3)
 	CooksD           float64 `json:"cooks_d"`            // influential when Cook's D > this quantile of F(p, n−p) (0.5; see findings)
-	CurveGainR2      float64 `json:"curve_gain_r2"`      // curved needs the quadratic to add at least this R² (0.05)
+	CurveShare       float64 `json:"curve_share"`        // curved needs the quadratic to remove at least this share of the line's residual sum of squares (0.1)
 	NonlinearDcor    float64 `json:"nonlinear_dcor"`     // nonlinear when dcor at or above this while |r| is weak (0.15)
 	ReversalMinGroup int     `json:"reversal_min_group"` // smallest group used in the reversal check (5)
 	// OutlierFamilyAlpha sets the Bonferroni bound for outliers: |t| must also
@@ -138,10 +142,15 @@ type Study struct {
 	UnitInvariance []UnitRow     `json:"unit_invariance"`
 	Predictions    []Prediction  `json:"predictions"`
 	Findings       *Findings     `json:"findings"`
-	Expectations   []Expectation `json:"expectations"`
-	Notes          string        `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
-	Error          *string       `json:"error"`
-	Plot           *Plot         `json:"-"` // what the charts draw (bounded); not in results.json
+	// GroupLines compares the lines within the groups; nil without a group.
+	GroupLines *GroupLines `json:"group_lines"`
+	// Robust holds intervals for the slope and r that do not lean on the
+	// ordinary ones' assumptions of independent rows with an even scatter.
+	Robust       *Robust       `json:"robust"`
+	Expectations []Expectation `json:"expectations"`
+	Notes        string        `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
+	Error        *string       `json:"error"`
+	Plot         *Plot         `json:"-"` // what the charts draw (bounded); not in results.json
 
 	// FlaggedCSV is the content of the CSV file named by Influence.File:
 	// every flagged row with all its measures. It is not in results.json
@@ -248,15 +257,20 @@ type Diagnostics struct {
 	LackOfFit    *LackOfFit    `json:"lack_of_fit"` // nil unless x repeats: at most n/2 distinct settings (see analysis.diagnostics)
 	DistanceCorr *DistanceCorr `json:"distance_corr"`
 	BreuschPagan *ChiTest      `json:"breusch_pagan"` // Koenker's studentized form, n·R² of e² on x
-	DurbinWatson Float         `json:"durbin_watson"` // residuals in run order (file order when no `order`)
-	OrderTrend   *OrderTrend   `json:"order_trend"`   // nil when no `order`
-	Resistant    *Resistant    `json:"resistant"`
-	Lowess       *LowessInfo   `json:"lowess"`
+	// DurbinWatson is the statistic of the residuals in run order, averaged
+	// over the orders of rows whose run order ties (stats.DurbinWatsonTied);
+	// in file order when there is no `order` (no verdict reads it then).
+	DurbinWatson Float       `json:"durbin_watson"`
+	OrderTrend   *OrderTrend `json:"order_trend"` // nil when no `order`
+	Resistant    *Resistant  `json:"resistant"`
+	Lowess       *LowessInfo `json:"lowess"`
 
 	// DurbinWatsonX is the Durbin–Watson statistic of the line's residuals
-	// taken in order of x (ties in data order); above 20000 rows, of every
-	// k-th row in data order, k = ⌈n/20000⌉ (DurbinWatsonXRows says how
-	// many were used). The form verdict reads it. NaN below 8 rows.
+	// taken in order of x, averaged over every order of rows whose x ties
+	// (stats.DurbinWatsonTied), on all rows up to 20000 and above that on
+	// a sample of 20000 chosen by the rows' values, so it depends on the set
+	// of rows and not on the file's order or a seed (DurbinWatsonXRows says
+	// how many rows). The form verdict reads it. NaN below 8 rows.
 	DurbinWatsonX     Float `json:"durbin_watson_x"`
 	DurbinWatsonXRows int   `json:"durbin_watson_x_rows"`
 	// SpreadRho is Spearman's ρ of |residual| on x over the same rows: its
@@ -277,9 +291,17 @@ type LackOfFit struct {
 type DistanceCorr struct {
 	DCor         Float  `json:"dcor"`
 	P            Float  `json:"p"`
-	Permutations int    `json:"permutations"`
-	Sampled      int    `json:"sampled"` // rows used (a seeded sample above the stated bound; = n otherwise)
+	Permutations int    `json:"permutations"` // permutations drawn (the sequential rule stops early when p is clearly on one side of alpha)
+	Sampled      int    `json:"sampled"`      // rows tested (above the stated bound, a sample chosen by the rows' values; = n otherwise)
 	Method       string `json:"method"`
+	// MCError is the Monte Carlo standard error of P, √(p(1 − p)/permutations).
+	MCError Float `json:"mc_error"`
+	// Resolved: the sequential rule settled on which side of alpha the
+	// exact permutation p lies, with a chance below FlipRisk of being wrong
+	// (so another random stream would give the same verdict); false when
+	// the last look still left p within Monte Carlo error of alpha.
+	Resolved bool    `json:"resolved"`
+	FlipRisk float64 `json:"flip_risk"` // the rule's bound on that chance (0.001)
 }
 
 // ChiTest is a chi-squared test statistic.
@@ -493,6 +515,66 @@ type Findings struct {
 	// ExplainedBy lists the covariates given which the association is no
 	// longer shown (partial r's interval includes 0, or it turns sign).
 	ExplainedBy []string `json:"explained_by"`
+
+	// Lines says whether one line serves all levels of the group: "" without
+	// a group; "untested" when fewer than two levels can be compared;
+	// "one-line" when the test that one line serves all levels
+	// (GroupLines.LinesP) is not below alpha; "parallel" when it is but the
+	// slopes do not differ clearly (SlopesP not below alpha: the levels are
+	// shifted, with a common slope); "separate" when the slopes differ.
+	Lines string `json:"lines"`
+	// Autocorrelated: with a run order, the line's residuals hang together
+	// in it (their Durbin–Watson statistic's one-sided p, Checks
+	// "drift-dw", below alpha, or drift raised): p-values and intervals that
+	// assume independent rows are then too optimistic, and the study's
+	// Robust HAC interval and effective n allow for it.
+	Autocorrelated bool `json:"autocorrelated"`
+	// CurveShare is the share of the straight line's residual sum of
+	// squares that the quadratic removes (the curve rule reads it against
+	// Thresholds.CurveShare); NaN without a quadratic.
+	CurveShare Float `json:"curve_share"`
+	// Rows says what leaving out the rows flagged as outliers, influential
+	// or of sole support does to the verdict: "" when no row is flagged or
+	// r cannot be recomputed without them; "stands" (same direction and
+	// strength grade), "stronger" (same direction, a higher grade: the rows
+	// hide some of the relationship), "within-interval" (a lower grade, but
+	// r without them inside r's interval), "weaker" (a lower grade, r
+	// without them outside r's interval), "direction-changes" (another
+	// direction, or none), "hides-relationship" (no direction with them,
+	// one without), "undefined" (r cannot be computed without them).
+	Rows string `json:"rows"`
+	// Checks are the tests the verdicts read, each with every number it
+	// rests on: p raw and after Holm's adjustment within the study.
+	Checks []Check `json:"checks"`
+	// Reasons say, for each secondary verdict that is raised (outlier
+	// driven, reversal, explained by, drift, spread changes, groups'
+	// lines), which rule decided it, with its figures: the sentence a
+	// renderer shows beside the verdict.
+	Reasons []Reason `json:"reasons"`
+}
+
+// Check is one test that a verdict reads.
+type Check struct {
+	// Name: curvature | lack-of-fit | changing-spread | drift (the run-order
+	// check: its P is the smaller of drift-trend's and drift-dw's, doubled)
+	// | drift-trend | drift-dw | distance-correlation | x-order-dw.
+	Name string `json:"name"`
+	Stat Float  `json:"stat"` // the statistic: x² t, lack-of-fit F, Breusch–Pagan χ², Durbin–Watson, residual trend slope, dcor
+	P    Float  `json:"p"`    // its p (one-sided for drift-dw); NaN where the rule reads no p
+	// PAdjusted is P after Holm's adjustment over the study's screens
+	// (curvature, lack-of-fit, changing-spread, drift); = P for a check
+	// read unadjusted or as part of another; NaN where P is.
+	PAdjusted Float `json:"p_adjusted"`
+	Bound     Float `json:"bound"`    // the cut point Stat is compared with, where the rule has one (NaN otherwise)
+	Raised    bool  `json:"raised"`   // the check fired by its own rule
+	Adjusted  bool  `json:"adjusted"` // PAdjusted comes from Holm's adjustment within the study
+}
+
+// Reason is the sentence of the rule that raised one secondary verdict.
+type Reason struct {
+	Verdict string `json:"verdict"` // outlier_driven | reversal | explained_by | drift | spread_changes | groups_differ
+	Topic   string `json:"topic"`   // for people: Influence, Groups, Covariates, Run order, Spread
+	Why     string `json:"why"`
 }
 
 // Expectation is one CI gate from [study.expect] and its outcome.
@@ -577,3 +659,52 @@ type BandPoint struct {
 
 // XY is one point of a curve.
 type XY struct{ X, Y float64 }
+
+// Robust holds the slope's intervals by heteroscedasticity-consistent
+// (HC3) and, with a run order, heteroscedasticity-and-autocorrelation-
+// consistent (Newey–West) standard errors, and r with Bartlett's effective
+// sample size. Intervals use normal quantiles, as large-sample results.
+type Robust struct {
+	HC3 *SlopeInterval `json:"hc3"`
+	HAC *SlopeInterval `json:"hac"` // nil without `order`
+	// Rho1X and Rho1E are the lag-1 autocorrelations in run order of x and
+	// of the line's residuals (standing for y: see analysis.robust);
+	// NEff = n(1 − ρx ρy)/(1 + ρx ρy), capped at n (Bartlett);
+	// RP, RLow and RHigh are r's p and interval with NEff in place of n.
+	// All NaN without `order`.
+	Rho1X Float `json:"rho1_x"`
+	Rho1E Float `json:"rho1_residual"`
+	NEff  Float `json:"n_eff"`
+	RP    Float `json:"r_p"`
+	RLow  Float `json:"r_ci_low"`
+	RHigh Float `json:"r_ci_high"`
+}
+
+// SlopeInterval is the least-squares slope's standard error by one method,
+// with its interval and two-sided p (normal).
+type SlopeInterval struct {
+	Method string `json:"method"`
+	Lags   int    `json:"lags"` // Newey–West lags (Bartlett kernel); 0 for HC3
+	SE     Float  `json:"se"`
+	CILow  Float  `json:"ci_low"`
+	CIHigh Float  `json:"ci_high"`
+	P      Float  `json:"p"`
+}
+
+// GroupLines compares the straight lines fitted within the levels of the
+// group (stats.CompareGroupLines; levels with fewer than 3 rows or a
+// constant x are left out).
+type GroupLines struct {
+	Groups    int   `json:"groups"`   // levels compared
+	N         int   `json:"n"`        // rows in them
+	SlopesF   Float `json:"slopes_f"` // F test that the slopes are equal (group × x interaction)
+	SlopesDF1 int   `json:"slopes_df1"`
+	SlopesP   Float `json:"slopes_p"`
+	LinesF    Float `json:"lines_f"` // F test that one line serves all levels
+	LinesDF1  int   `json:"lines_df1"`
+	LinesP    Float `json:"lines_p"`
+	DF2       int   `json:"df2"`      // residual df of a line per level, N − 2·Groups
+	RWithin   Float `json:"r_within"` // pooled within-group correlation
+	RWithinDF int   `json:"r_within_df"`
+	RWithinP  Float `json:"r_within_p"`
+}

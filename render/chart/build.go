@@ -3,6 +3,7 @@ package chart
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"bivar/analysis/report"
@@ -67,10 +68,46 @@ func varName(v report.Variable) string {
 	return v.Column
 }
 
-// series splits the plot's points by group level (levels in sorted
-// order, as the analysis gives them), or returns one series of all points;
-// pick chooses the two coordinates. It returns nil when the plot holds
-// density grids instead of points.
+// looks assigns the plot's group levels to series: with at most
+// GroupLooks levels each has its own series; with more, the GroupLooks − 1
+// largest (ties by name) keep their own look, in sorted order, and the rest
+// share one grey series after them. seriesOf[level] is the level's series
+// index; others is the number of levels in the grey series.
+func looks(p *report.Plot) (own []int, seriesOf []int, others int) {
+	n := len(p.Levels)
+	seriesOf = make([]int, n)
+	if n <= GroupLooks {
+		for i := range n {
+			own = append(own, i)
+			seriesOf[i] = i
+		}
+		return own, seriesOf, 0
+	}
+	bySize := make([]int, n)
+	for i := range bySize {
+		bySize[i] = i
+	}
+	count := func(i int) int {
+		if i < len(p.LevelCounts) {
+			return p.LevelCounts[i]
+		}
+		return 0
+	}
+	slices.SortStableFunc(bySize, func(a, b int) int { return count(b) - count(a) })
+	own = slices.Clone(bySize[:GroupLooks-1])
+	slices.Sort(own)
+	for i := range seriesOf {
+		seriesOf[i] = len(own)
+	}
+	for k, i := range own {
+		seriesOf[i] = k
+	}
+	return own, seriesOf, n - len(own)
+}
+
+// series splits the plot's points by group level (see looks), or returns
+// one series of all points; pick chooses the two coordinates. It returns
+// nil when the plot holds density grids instead of points.
 func series(p *report.Plot, pick func(report.PlotPoint) (float64, float64)) []Series {
 	if p.Points == nil {
 		return nil
@@ -83,17 +120,26 @@ func series(p *report.Plot, pick func(report.PlotPoint) (float64, float64)) []Se
 		}
 		return []Series{out}
 	}
-	out := make([]Series, len(p.Levels))
-	for i, l := range p.Levels {
-		out[i].Level = l
+	own, seriesOf, others := looks(p)
+	out := make([]Series, len(own), len(own)+1)
+	for k, i := range own {
+		out[k].Level = p.Levels[i]
+	}
+	if others > 0 {
+		out = append(out, Series{Other: true})
 	}
 	for _, q := range p.Points {
 		x, y := pick(q)
-		out[q.Group].X = append(out[q.Group].X, x)
-		out[q.Group].Y = append(out[q.Group].Y, y)
+		k := seriesOf[q.Group]
+		out[k].X = append(out[k].X, x)
+		out[k].Y = append(out[k].Y, y)
 	}
 	for i := range out {
 		out[i].Name = fmt.Sprintf("%s (n = %d)", out[i].Level, len(out[i].X))
+	}
+	if others > 0 {
+		o := &out[len(out)-1]
+		o.Name = fmt.Sprintf("%d other levels, alike in grey (n = %d)", others, len(o.X))
 	}
 	return out
 }
@@ -205,7 +251,14 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		}
 	case len(f.Points) > 1:
 		f.Caption += fmt.Sprintf(" Colour and marker shape show %s", GroupName(s))
-		if len(s.Groups) > 0 {
+		o := f.Points[len(f.Points)-1]
+		if o.Other {
+			f.Caption += fmt.Sprintf(" for its %d largest levels; the %s", len(f.Points)-1, strings.TrimSuffix(o.Name, fmt.Sprintf(" (n = %d)", len(o.X))))
+		}
+		switch {
+		case len(s.Groups) > 0 && o.Other:
+			f.Caption += "; thin lines: the line within each level with a look of its own"
+		case len(s.Groups) > 0:
 			f.Caption += "; thin lines: the line within each group"
 		}
 		f.Caption += "."
@@ -228,8 +281,10 @@ func groupLines(s *report.Study) []Line {
 	if p == nil || len(p.Levels) < 2 || len(s.Groups) == 0 || len(p.LevelXMin) != len(p.Levels) {
 		return nil
 	}
+	own, seriesOf, _ := looks(p)
 	var out []Line
-	for i, level := range p.Levels {
+	for _, i := range own {
+		level := p.Levels[i]
 		lo, hi := p.LevelXMin[i], p.LevelXMax[i]
 		for _, g := range s.Groups {
 			if g.Group != level || p.LevelCounts[i] == 0 || !g.Slope.Valid() || !g.Intercept.Valid() {
@@ -240,7 +295,7 @@ func groupLines(s *report.Study) []Line {
 			if len(out) == 0 {
 				name = "line within each group"
 			}
-			out = append(out, Line{Name: name, X: []float64{lo, hi}, Y: []float64{a + b*lo, a + b*hi}, Role: RoleGroup, Group: i})
+			out = append(out, Line{Name: name, X: []float64{lo, hi}, Y: []float64{a + b*lo, a + b*hi}, Role: RoleGroup, Group: seriesOf[i]})
 		}
 	}
 	return out

@@ -67,9 +67,20 @@ type Line struct {
 // Series is one set of points: one group level, or all points.
 type Series struct {
 	Name  string
-	Level string // the group level; "" for all points
+	Level string // the group level; "" for all points and for Other
 	X, Y  []float64
+	// Other: the points of the group levels beyond GroupLooks − 1, drawn
+	// alike in the muted colour with a marker shape no level uses.
+	Other bool
 }
+
+// GroupLooks is the number of group levels the charts can draw each with a
+// look of its own: every theme has six group colours and there are six
+// marker shapes, and level i takes colour i mod 6 and shape i mod 6. With
+// more levels, the GroupLooks − 1 largest keep their own look and the rest
+// are drawn as one grey series (Series.Other), so no two levels share a
+// look.
+const GroupLooks = 6
 
 // Mark is a named row with its label (the row name; "" for a mark
 // without a label).

@@ -280,6 +280,16 @@ func marker(k int, x, y, r float64) string {
 	}
 }
 
+// look is series i's marker shape and paint: its own (marker, markerPaint),
+// or for the series of other group levels the one shape no level uses, in
+// the muted colour, open.
+func (d *svgDrawer) look(f *Figure, i int) (shape int, paint string) {
+	if i < len(f.Points) && f.Points[i].Other {
+		return GroupLooks - 1, fmt.Sprintf(` fill="%s" fill-opacity="0.5" stroke="%s" stroke-width="0.6"/>`, d.pal.Muted, d.pal.Muted)
+	}
+	return i, d.markerPaint(i, len(f.Points))
+}
+
 // markerPaint is the fill and stroke of series i's markers. In a
 // monochrome palette every other shape is drawn open, so shapes differ in
 // two ways.
@@ -414,13 +424,13 @@ func (d *svgDrawer) drawPoints(w io.Writer, f *Figure, L *layout) {
 					strings.Join(seg, " "), d.seriesColour(si, n))
 			}
 		}
-		paint := d.markerPaint(si, n)
+		shape, paint := d.look(f, si)
 		fmt.Fprintf(w, "<g>")
 		for i := range s.X {
 			if !finite(s.X[i], s.Y[i]) {
 				continue
 			}
-			fmt.Fprint(w, marker(si, L.px(s.X[i]), L.py(s.Y[i]), 3.6), paint)
+			fmt.Fprint(w, marker(shape, L.px(s.X[i]), L.py(s.Y[i]), 3.6), paint)
 		}
 		fmt.Fprint(w, "</g>\n")
 	}
@@ -619,7 +629,6 @@ func (d *svgDrawer) drawLabels(w io.Writer, f *Figure, L *layout) {
 }
 
 func (d *svgDrawer) drawLegend(w io.Writer, f *Figure, L *layout) {
-	n := len(f.Points)
 	for r, row := range L.legendRows {
 		y := L.legendTop + float64(r)*17
 		x := 14.0
@@ -627,7 +636,8 @@ func (d *svgDrawer) drawLegend(w io.Writer, f *Figure, L *layout) {
 			sx := x + 11
 			switch it.kind {
 			case "series":
-				fmt.Fprint(w, marker(it.index, sx, y-4, 3.8), d.markerPaint(it.index, n))
+				shape, paint := d.look(f, it.index)
+				fmt.Fprint(w, marker(shape, sx, y-4, 3.8), paint)
 			case "density":
 				fmt.Fprintf(w, `<rect x="%s" y="%s" width="7" height="9" fill="%s" fill-opacity="0.3"/><rect x="%s" y="%s" width="7" height="9" fill="%s" fill-opacity="0.9"/>`,
 					coord(sx-8), coord(y-8.5), d.pal.Point, coord(sx), coord(y-8.5), d.pal.Point)

@@ -1,0 +1,67 @@
+package analysis
+
+// This file holds the slope's intervals that do not assume independent
+// rows with an even scatter, and r with an effective sample size.
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"slices"
+
+	"bivar/analysis/report"
+	"bivar/analysis/stats"
+)
+
+// slopeInterval is the slope b with standard error se: a normal interval at
+// conf and the two-sided normal p.
+func slopeInterval(method string, lags int, b, se, conf float64) *report.SlopeInterval {
+	z := stats.NormalQuantile((1 + conf) / 2)
+	return &report.SlopeInterval{Method: method, Lags: lags, SE: report.Float(se),
+		CILow: report.Float(b - z*se), CIHigh: report.Float(b + z*se), P: report.Float(stats.TwoSidedNormal(b / se))}
+}
+
+// robust fills report.Robust: the HC3 interval of the slope always; with
+// a run order (order non-nil), the Newey–West interval with
+// stats.NeweyWestLags(n) lags on the rows in run order, and r with
+// Bartlett's effective sample size (stats.EffectiveN) from the lag-1
+// autocorrelations in run order of x and of the line's residuals. The
+// residuals stand for y: under the hypothesis r = 0 they are y about its
+// mean, and where x explains a trend in y (x is time, say) y's own
+// persistence would count that trend as dependence between rows and
+// leave almost no effective rows. Rows whose run order ties are taken in
+// order of x, then y, so the figures are a function of the set of rows.
+func robust(x, y, order []float64, r, conf float64) *report.Robust {
+	nan := report.NaN()
+	out := &report.Robust{Rho1X: nan, Rho1E: nan, NEff: nan, RP: nan, RLow: nan, RHigh: nan}
+	b, se := stats.SlopeHC3(x, y)
+	out.HC3 = slopeInterval("HC3 (MacKinnon & White 1985)", 0, b, se, conf)
+	if order == nil {
+		return out
+	}
+	n := len(x)
+	idx := make([]int, n)
+	for i := range idx {
+		idx[i] = i
+	}
+	slices.SortFunc(idx, func(a, c int) int {
+		return cmp.Or(cmp.Compare(order[a], order[c]), cmp.Compare(x[a], x[c]), cmp.Compare(y[a], y[c]))
+	})
+	ox, oy := pick(x, idx), pick(y, idx)
+	lags := stats.NeweyWestLags(n)
+	b, se = stats.SlopeHAC(ox, oy, lags)
+	out.HAC = slopeInterval(fmt.Sprintf("Newey–West HAC, Bartlett kernel, %d lags = floor(4(n/100)^(2/9))", lags), lags, b, se, conf)
+	e := make([]float64, n)
+	for i := range e {
+		e[i] = oy[i] - b*ox[i]
+	}
+	rx, ry := stats.Lag1Autocorr(ox), stats.Lag1Autocorr(e)
+	out.Rho1X, out.Rho1E = report.Float(rx), report.Float(ry)
+	ne := stats.EffectiveN(n, rx, ry)
+	out.NEff = report.Float(ne)
+	if !math.IsNaN(ne) {
+		p, lo, hi := stats.CorrelationEff(r, ne, conf)
+		out.RP, out.RLow, out.RHigh = report.Float(p), report.Float(lo), report.Float(hi)
+	}
+	return out
+}

@@ -1,0 +1,203 @@
+package analysis
+
+// This file holds what makes the random parts of a study a function of its
+// set of rows: a canonical order of the rows, a sample chosen by the
+// rows' values, a random stream seeded by the rows, and the distance
+// correlation's sequential permutation test built on them.
+
+import (
+	"cmp"
+	"encoding/binary"
+	"fmt"
+	"hash/fnv"
+	"math"
+	"math/rand/v2"
+	"slices"
+
+	"bivar/analysis/stats"
+)
+
+// pairHash is the 64-bit FNV-1a hash of one (x, y) pair's bits, little
+// endian, with −0 read as 0 so equal values hash alike (written out, as
+// hash/fnv's would allocate per row).
+func pairHash(x, y float64) uint64 {
+	const offset, prime = 14695981039346656037, 1099511628211
+	h := uint64(offset)
+	for _, v := range [2]uint64{math.Float64bits(x + 0), math.Float64bits(y + 0)} {
+		for k := 0; k < 8; k++ {
+			h ^= v >> (8 * k) & 0xff
+			h *= prime
+		}
+	}
+	return h
+}
+
+// canonical returns the (x, y) pairs sorted by x, then y: the order in
+// which the study's random procedures see the rows, so that no result
+// depends on the order of the file. Above maxN rows it keeps maxN of them,
+// chosen by their values (the maxN smallest pairHash values, ties by x
+// then y): a sample that is a function of the set of rows and not of a
+// seed or of the file's order. For data whose values are not built to
+// collide with FNV-1a, it behaves like a simple random sample.
+func canonical(x, y []float64, maxN int) (cx, cy []float64) {
+	n := len(x)
+	idx := make([]int, n)
+	for i := range idx {
+		idx[i] = i
+	}
+	byXY := func(a, b int) int { return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(y[a], y[b])) }
+	if maxN > 0 && n > maxN {
+		// The maxN-th smallest hash by selection (O(n)), then the rows
+		// below it and, among those equal to it, the first by (x, y).
+		h := make([]uint64, n)
+		for i := range h {
+			h[i] = pairHash(x[i], y[i])
+		}
+		cut := nthSmallest(slices.Clone(h), maxN-1)
+		sel := idx[:0]
+		var tied []int
+		for i, v := range h {
+			switch {
+			case v < cut:
+				sel = append(sel, i)
+			case v == cut:
+				tied = append(tied, i)
+			}
+		}
+		slices.SortFunc(tied, byXY)
+		idx = append(sel, tied[:maxN-len(sel)]...)
+	}
+	slices.SortFunc(idx, byXY)
+	return pick(x, idx), pick(y, idx)
+}
+
+// nthSmallest returns the k-th smallest (0-based) of v, reordering v
+// (Hoare's selection with the middle element as pivot; O(n) expected).
+func nthSmallest(v []uint64, k int) uint64 {
+	lo, hi := 0, len(v)-1
+	for lo < hi {
+		p := v[lo+(hi-lo)/2]
+		i, j := lo, hi
+		for i <= j {
+			for v[i] < p {
+				i++
+			}
+			for v[j] > p {
+				j--
+			}
+			if i <= j {
+				v[i], v[j] = v[j], v[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return v[k]
+		}
+	}
+	return v[k]
+}
+
+// rowSource returns a random source seeded by the canonical rows: the same
+// set of rows gives the same stream whatever the file's order and the
+// manifest's seed. use separates the streams of different procedures.
+func rowSource(cx, cy []float64, use string) rand.Source {
+	h := fnv.New64a()
+	var b [8]byte
+	for i := range cx {
+		binary.LittleEndian.PutUint64(b[:], math.Float64bits(cx[i]+0))
+		h.Write(b[:])
+		binary.LittleEndian.PutUint64(b[:], math.Float64bits(cy[i]+0))
+		h.Write(b[:])
+	}
+	h2 := fnv.New64a()
+	h2.Write([]byte(use))
+	return rand.NewPCG(h.Sum64(), h2.Sum64())
+}
+
+// dcorFlipRisk is the chance, at most, that the sequential permutation
+// test of distance correlation settles on the wrong side of alpha, that
+// is, that another random stream would give the other verdict (this
+// tool's choice).
+const dcorFlipRisk = 1e-3
+
+// dcorFirstLook is the number of permutations at the first look.
+const dcorFirstLook = 199
+
+// dcorLooks returns the cumulative permutation counts at which the
+// sequential test looks: 199, then five times as many plus 4 (999, 4999,
+// 24999, …), up to max (the last look is max itself).
+func dcorLooks(max int) []int {
+	var looks []int
+	for b := dcorFirstLook; b < max; b = 5*b + 4 {
+		looks = append(looks, b)
+	}
+	return append(looks, max)
+}
+
+// dcorTest is the distance correlation of x and y (on all rows) with a
+// sequential Monte Carlo permutation test whose verdict at alpha is a
+// function of the set of rows.
+//
+// The test runs on canonical(x, y, maxN) with the permutations drawn from
+// rowSource, so neither the file's order nor the manifest's seed enters.
+// It permutes in batches (stats.DistanceCorrTest, continuing one stream)
+// and looks after 199, 999, 4999, … permutations, up to maxPerms. At each
+// look, with k permutations of N at least as extreme as the data, it forms
+// the Clopper–Pearson interval (stats.ClopperPearson) for the exact
+// permutation p at confidence 1 − dcorFlipRisk/L (Bonferroni over the L
+// looks), and stops once the interval lies wholly below or above alpha:
+// then the chance that the Monte Carlo put p̂ on the wrong side of alpha,
+// and so that another stream would change the verdict, is below
+// dcorFlipRisk. This is a sequential stopping rule in the spirit of Besag &
+// Clifford (1991, "Sequential Monte Carlo p-values", Biometrika
+// 78:301–304), who stop after a fixed number of exceedances; ours stops on
+// the interval, which bounds the error of the decision at alpha. Data far
+// from alpha stop at the first look; only p-values near alpha pay for more
+// permutations. When the last look does not settle it, resolved is false
+// and p̂ is within Monte Carlo error of alpha.
+//
+// p̂ = (1 + k)/(N + 1) (the observed arrangement counted as one of the
+// permutations, as stats.DistanceCorrTest does) and mcse = √(p̂(1 − p̂)/N)
+// is its Monte Carlo standard error.
+func dcorTest(x, y []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse float64, perms, used int, resolved bool, method string) {
+	nan := math.NaN()
+	dcor = stats.DistanceCorrelation(x, y)
+	used = min(len(x), maxN)
+	if math.IsNaN(dcor) || len(x) < 3 {
+		return dcor, nan, nan, 0, used, false, "distance correlation, V-statistic; undefined for these data, no permutation test"
+	}
+	cx, cy := canonical(x, y, maxN)
+	src := rowSource(cx, cy, "dcor")
+	looks := dcorLooks(max(maxPerms, 1))
+	conf := 1 - dcorFlipRisk/float64(len(looks))
+	k := 0
+	for _, look := range looks {
+		batch := look - perms
+		_, pb, _, _ := stats.DistanceCorrTest(cx, cy, batch, len(cx), src)
+		if math.IsNaN(pb) {
+			return dcor, nan, nan, 0, used, false, fmt.Sprintf("distance correlation, V-statistic, on all %d rows; the rows tested have a constant column, no permutation test", len(x))
+		}
+		k += int(math.Round(pb*float64(batch+1))) - 1
+		perms = look
+		lo, hi := stats.ClopperPearson(k, perms, conf)
+		if hi < alpha || lo > alpha {
+			resolved = true
+			break
+		}
+	}
+	p = float64(1+k) / float64(perms+1)
+	mcse = math.Sqrt(p * (1 - p) / float64(perms))
+	rows := fmt.Sprintf("all %d rows", len(x))
+	if used < len(x) {
+		rows = fmt.Sprintf("%d of the %d rows, chosen by their values", used, len(x))
+	}
+	method = fmt.Sprintf("distance correlation, V-statistic, on all %d rows by the O(n log n) algorithm; p from %d permutations of %s, stopped by a sequential rule (at most %d)",
+		len(x), perms, rows, looks[len(looks)-1])
+	return dcor, p, mcse, perms, used, resolved, method
+}

@@ -1,0 +1,174 @@
+package analysis
+
+import (
+	"encoding/binary"
+	"fmt"
+	"hash/fnv"
+	"math"
+	"math/rand/v2"
+	"slices"
+	"testing"
+
+	"bivar/analysis/stats"
+)
+
+// TestCanonical: the canonical rows and the sample above maxN are the same
+// whatever the order of the input rows.
+func TestCanonical(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	n := 500
+	x, y := make([]float64, n), make([]float64, n)
+	for i := range x {
+		x[i], y[i] = float64(rng.IntN(20)), rng.NormFloat64()
+	}
+	for _, maxN := range []int{0, 100, 500} {
+		ax, ay := canonical(x, y, maxN)
+		perm := rng.Perm(n)
+		bx, by := pick(x, perm), pick(y, perm)
+		cx, cy := canonical(bx, by, maxN)
+		if !slices.Equal(ax, cx) || !slices.Equal(ay, cy) {
+			t.Errorf("maxN %d: canonical rows differ after a shuffle", maxN)
+		}
+		want := n
+		if maxN > 0 && maxN < n {
+			want = maxN
+		}
+		if len(ax) != want {
+			t.Errorf("maxN %d: %d rows, want %d", maxN, len(ax), want)
+		}
+	}
+}
+
+// TestDcorTestStops: far from alpha the sequential rule stops at the first
+// look, and its p is stats.DistanceCorrTest's on the canonical rows with the
+// rows' own stream; for independent data p is well above alpha; p and its
+// Monte Carlo error are consistent; shuffling the rows changes nothing.
+func TestDcorTestStops(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	n := 120
+	x, y, z := make([]float64, n), make([]float64, n), make([]float64, n)
+	for i := range x {
+		x[i] = rng.Float64()*4 - 2
+		y[i] = x[i]*x[i] + 0.3*rng.NormFloat64() // a parabola: r near 0, dcor clearly significant
+		z[i] = rng.NormFloat64()
+	}
+	d, p, se, perms, used, resolved, _ := dcorTest(x, y, 0.05, 24999, 5000)
+	if !resolved || perms != dcorFirstLook || used != n || !(p < 0.05) {
+		t.Errorf("parabola: p %v after %d permutations (resolved %v), want resolved below 0.05 at %d", p, perms, resolved, dcorFirstLook)
+	}
+	cx, cy := canonical(x, y, 5000)
+	d2, p2, _, _ := stats.DistanceCorrTest(cx, cy, dcorFirstLook, 5000, rowSource(cx, cy, "dcor"))
+	if math.Abs(d-d2) > 1e-12 || p != p2 {
+		t.Errorf("dcorTest %v, %v; DistanceCorrTest on the canonical rows %v, %v", d, p, d2, p2)
+	}
+	if want := math.Sqrt(p * (1 - p) / float64(perms)); se != want {
+		t.Errorf("Monte Carlo error %v, want %v", se, want)
+	}
+	_, pz, _, permsZ, _, resolvedZ, _ := dcorTest(x, z, 0.05, 24999, 5000)
+	if !resolvedZ || !(pz > 0.05) {
+		t.Errorf("independent: p %v after %d permutations (resolved %v), want resolved above 0.05", pz, permsZ, resolvedZ)
+	}
+	perm := rng.Perm(n)
+	_, p3, _, perms3, _, _, _ := dcorTest(pick(x, perm), pick(y, perm), 0.05, 24999, 5000)
+	if p3 != p || perms3 != perms {
+		t.Errorf("shuffled rows: p %v after %d, want %v after %d", p3, perms3, p, perms)
+	}
+}
+
+// TestDcorLooks: the looks of the sequential rule.
+func TestDcorLooks(t *testing.T) {
+	if got, want := dcorLooks(24999), []int{199, 999, 4999, 24999}; !slices.Equal(got, want) {
+		t.Errorf("dcorLooks(24999) = %v, want %v", got, want)
+	}
+	if got, want := dcorLooks(99), []int{99}; !slices.Equal(got, want) {
+		t.Errorf("dcorLooks(99) = %v, want %v", got, want)
+	}
+	if got, want := dcorLooks(2000), []int{199, 999, 2000}; !slices.Equal(got, want) {
+		t.Errorf("dcorLooks(2000) = %v, want %v", got, want)
+	}
+}
+
+// TestDcorTestNearAlphaGoesOn: data whose first-look p lies near alpha
+// draw more permutations, and where the rule settles, p̂ lies more than two
+// Monte Carlo errors from alpha (the rule asks for about 3.5).
+func TestDcorTestNearAlphaGoesOn(t *testing.T) {
+	// Search a few seeded data sets for one whose first-look p is near 0.05.
+	rng := rand.New(rand.NewPCG(8, 9))
+	for try := 0; try < 200; try++ {
+		n := 40
+		x, y := make([]float64, n), make([]float64, n)
+		for i := range x {
+			x[i] = rng.NormFloat64()
+			y[i] = 0.25*x[i]*x[i] + rng.NormFloat64()
+		}
+		cx, cy := canonical(x, y, 5000)
+		_, p0, _, _ := stats.DistanceCorrTest(cx, cy, dcorFirstLook, 5000, rowSource(cx, cy, "dcor"))
+		if !(p0 > 0.035 && p0 < 0.07) {
+			continue
+		}
+		_, p, se, perms, _, resolved, _ := dcorTest(x, y, 0.05, 24999, 5000)
+		if perms == dcorFirstLook && !resolved {
+			t.Fatalf("p %v near alpha: stopped at the first look without settling", p)
+		}
+		t.Logf("try %d: first-look p %v; sequential p %v ± %v after %d permutations, resolved %v", try, p0, p, se, perms, resolved)
+		if resolved && math.Abs(p-0.05) < 2*se {
+			t.Errorf("resolved with p %v within 2 Monte Carlo errors (%v) of alpha", p, se)
+		}
+		return
+	}
+	t.Fatal("no data set with a first-look p near alpha in 200 tries")
+}
+
+// BenchmarkDcorTest: the distance correlation with its sequential test on
+// independent data (the rule stops at the first look) and on a clear
+// dependence; above stats.DefaultDcorMaxN rows the test runs on a sample.
+func BenchmarkDcorTest(b *testing.B) {
+	for _, n := range []int{1_000, 100_000, 1_000_000} {
+		rng := rand.New(rand.NewPCG(uint64(n), 1))
+		x, y := make([]float64, n), make([]float64, n)
+		for i := range x {
+			x[i], y[i] = rng.NormFloat64(), rng.NormFloat64()
+		}
+		b.Run(fmt.Sprintf("independent/n=%d", n), func(b *testing.B) {
+			for b.Loop() {
+				dcorTest(x, y, 0.05, 24999, stats.DefaultDcorMaxN)
+			}
+		})
+	}
+}
+
+// TestNthSmallest against a full sort.
+func TestNthSmallest(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 9))
+	for _, n := range []int{1, 2, 7, 100, 1000} {
+		v := make([]uint64, n)
+		for i := range v {
+			v[i] = rng.Uint64N(50) // many ties
+		}
+		s := slices.Clone(v)
+		slices.Sort(s)
+		for _, k := range []int{0, n / 2, n - 1} {
+			if got := nthSmallest(slices.Clone(v), k); got != s[k] {
+				t.Errorf("n %d k %d: %d, want %d", n, k, got, s[k])
+			}
+		}
+	}
+}
+
+// TestPairHash: the written-out hash is hash/fnv's FNV-1a of the pair's
+// little-endian bits.
+func TestPairHash(t *testing.T) {
+	for _, p := range [][2]float64{{0, 0}, {1.5, -2.25}, {math.Pi, 1e300}} {
+		var b [16]byte
+		binary.LittleEndian.PutUint64(b[:8], math.Float64bits(p[0]))
+		binary.LittleEndian.PutUint64(b[8:], math.Float64bits(p[1]))
+		h := fnv.New64a()
+		h.Write(b[:])
+		if got, want := pairHash(p[0], p[1]), h.Sum64(); got != want {
+			t.Errorf("pairHash(%v, %v) = %x, want %x", p[0], p[1], got, want)
+		}
+	}
+	if pairHash(math.Copysign(0, -1), 1) != pairHash(0, 1) {
+		t.Error("−0 and 0 hash differently")
+	}
+}

@@ -1,0 +1,89 @@
+package stats
+
+import (
+	"encoding/csv"
+	"math"
+	"os"
+	"strconv"
+	"testing"
+)
+
+// grunfeldCSV is the Grunfeld (1958) investment data as shipped with
+// statsmodels (statsmodels.api.datasets.grunfeld), read in place from
+// Debian's python3-statsmodels; the test skips where it is not installed.
+const grunfeldCSV = "/usr/lib/python3/dist-packages/statsmodels/datasets/grunfeld/grunfeld.csv"
+
+// TestCompareGroupLinesGrunfeld: investment against firm value within the
+// 11 firms of Grunfeld's data, against statsmodels 0.13.5 (patsy formulas;
+// testdata/groupsref.py, run as /usr/bin/python3):
+//
+//	anova_lm(ols("invest ~ value * C(firm)", d).fit()).loc["value:C(firm)"]
+//	anova_lm(ols("invest ~ value", d).fit(), ols("invest ~ value * C(firm)", d).fit())
+//	ols("invest ~ value + C(firm)", d).fit().tvalues["value"], .pvalues["value"]
+//
+// and the correlation of the residuals of invest ~ C(firm) and value ~ C(firm).
+func TestCompareGroupLinesGrunfeld(t *testing.T) {
+	f, err := os.Open(grunfeldCSV)
+	if err != nil {
+		t.Skipf("Grunfeld data not installed (%v): apt install python3-statsmodels", err)
+	}
+	defer f.Close()
+	rows, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := map[string]int{}
+	for i, h := range rows[0] {
+		col[h] = i
+	}
+	ids := map[string]int{}
+	var x, y []float64
+	var g []int
+	for _, r := range rows[1:] {
+		inv, err1 := strconv.ParseFloat(r[col["invest"]], 64)
+		val, err2 := strconv.ParseFloat(r[col["value"]], 64)
+		if err1 != nil || err2 != nil {
+			t.Fatalf("bad row %v", r)
+		}
+		if _, ok := ids[r[col["firm"]]]; !ok {
+			ids[r[col["firm"]]] = len(ids)
+		}
+		x, y, g = append(x, val), append(y, inv), append(g, ids[r[col["firm"]]])
+	}
+	c := CompareGroupLines(x, y, g)
+	if c.Groups != 11 || c.N != 220 || c.SlopesDF1 != 10 || c.DF2 != 198 || c.LinesDF1 != 20 || c.RWithinDF != 208 {
+		t.Fatalf("groups %d n %d df (%d, %d), lines df %d, r df %d; want 11, 220, (10, 198), 20, 208", c.Groups, c.N, c.SlopesDF1, c.DF2, c.LinesDF1, c.RWithinDF)
+	}
+	tw := c.RWithin * math.Sqrt(208) / math.Sqrt(1-c.RWithin*c.RWithin)
+	for _, v := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"slopes F", c.SlopesF, 1.8114923892815868},
+		{"slopes p", c.SlopesP, 0.060617550182110735},
+		{"one-line F", c.LinesF, 9.12735280674847},
+		{"one-line p", c.LinesP, 4.725786995892033e-19},
+		{"pooled within-firm r", c.RWithin, 0.6088086391917233},
+		{"t of the common slope", tw, 11.067910832668334},
+		{"its p", c.RWithinP, 1.094966194201203e-22},
+	} {
+		if math.Abs(v.got-v.want) > 1e-9*math.Abs(v.want) {
+			t.Errorf("%s = %.17g, statsmodels %.17g", v.name, v.got, v.want)
+		}
+	}
+}
+
+// TestCompareGroupLinesEdges: parallel lines give a slopes F of 0; groups
+// too small are left out; one group leaves nothing to compare.
+func TestCompareGroupLinesEdges(t *testing.T) {
+	x := []float64{1, 2, 3, 4, 1, 2, 3, 4, 9, 9}
+	y := []float64{1, 2, 3, 5, 11, 12, 13, 15, 0, 1}
+	g := []int{0, 0, 0, 0, 1, 1, 1, 1, 2, 2}
+	c := CompareGroupLines(x, y, g)
+	if c.Groups != 2 || c.N != 8 || math.Abs(c.SlopesF) > 1e-12 || !(c.LinesP < 1e-4) {
+		t.Errorf("parallel lines 10 apart: %+v; want 2 groups of 8 rows, slopes F 0, one-line p tiny", c)
+	}
+	if c := CompareGroupLines(x[:4], y[:4], g[:4]); c.Groups != 1 || !math.IsNaN(c.SlopesF) {
+		t.Errorf("one group: %+v, want NaN", c)
+	}
+}

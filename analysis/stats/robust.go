@@ -1,0 +1,190 @@
+package stats
+
+// This file holds standard errors of the straight line's slope that do not
+// assume independent rows with an even scatter (HC3; Newey–West HAC), the
+// lag-1 autocorrelation, and Bartlett's effective sample size for r.
+
+import "math"
+
+// lineResiduals returns the centred x, the least-squares residuals of y on
+// x, Sxx and the slope (two passes about the means).
+func lineResiduals(x, y []float64) (dx, e []float64, sxx, slope float64) {
+	n := len(x)
+	var mx, my float64
+	for i := range x {
+		mx += x[i]
+		my += y[i]
+	}
+	mx /= float64(n)
+	my /= float64(n)
+	dx = make([]float64, n)
+	var sxy float64
+	for i := range x {
+		dx[i] = x[i] - mx
+		sxx += dx[i] * dx[i]
+		sxy += dx[i] * (y[i] - my)
+	}
+	slope = sxy / sxx
+	e = make([]float64, n)
+	for i := range x {
+		e[i] = y[i] - my - slope*dx[i]
+	}
+	return dx, e, sxx, slope
+}
+
+// SlopeHC3 returns the least-squares slope of y on x and its
+// heteroscedasticity-consistent standard error of type HC3 (MacKinnon &
+// White 1985, J. Econometrics 29:305–325; Long & Ervin 2000, Am. Stat.
+// 54:217–224, who recommend it for small samples): the slope element of
+// (XᵀX)⁻¹ Xᵀ diag(e_i²/(1 − h_i)²) X (XᵀX)⁻¹, which for the straight line is
+//
+//	Var(b1) = Σ (x_i − x̄)² e_i² / (1 − h_i)² / Sxx²,  h_i = 1/n + (x_i − x̄)²/Sxx.
+//
+// It equals statsmodels' OLS(...).fit(cov_type="HC3").bse[1]. It does not
+// assume an even scatter about the line; it does assume independent rows.
+// x and y must have equal length (it panics otherwise); NaN when n < 3,
+// x is constant, or a leverage is 1.
+func SlopeHC3(x, y []float64) (slope, se float64) {
+	if len(x) != len(y) {
+		panic("stats: SlopeHC3: x and y lengths differ")
+	}
+	n := len(x)
+	if n < 3 {
+		return math.NaN(), math.NaN()
+	}
+	dx, e, sxx, b := lineResiduals(x, y)
+	if !(sxx > 0) {
+		return math.NaN(), math.NaN()
+	}
+	var s float64
+	for i := range dx {
+		h := 1/float64(n) + dx[i]*dx[i]/sxx
+		if !(h < 1) {
+			return b, math.NaN()
+		}
+		u := dx[i] * e[i] / (1 - h)
+		s += u * u
+	}
+	return b, math.Sqrt(s) / sxx
+}
+
+// NeweyWestLags returns the number of lags floor(4·(n/100)^(2/9)), the
+// rule of Newey & West (1994, "Automatic lag selection in covariance
+// matrix estimation", Rev. Econ. Stud. 61:631–653) for the Bartlett kernel
+// without data-driven selection; 0 for n < 1.
+func NeweyWestLags(n int) int {
+	if n < 1 {
+		return 0
+	}
+	return int(math.Floor(4 * math.Pow(float64(n)/100, 2.0/9.0)))
+}
+
+// SlopeHAC returns the least-squares slope of y on x and its
+// heteroscedasticity-and-autocorrelation-consistent standard error (Newey
+// & West 1987, Econometrica 55:703–708), the rows taken in the order given
+// (run order), with the Bartlett kernel over lags lags and no small-sample
+// factor: with u_t = (x_t − x̄) e_t,
+//
+//	Var(b1) = [ Σ_t u_t² + 2 Σ_{l=1..L} (1 − l/(L+1)) Σ_{t>l} u_t u_{t−l} ] / Sxx²,
+//
+// the slope element of the sandwich (XᵀX)⁻¹ S (XᵀX)⁻¹. It equals
+// statsmodels' OLS(y, add_constant(x)).fit(cov_type="HAC",
+// cov_kwds={"maxlags": L}).bse[1], whose use_correction is False by
+// default (no n/(n − k) factor). x and y must have equal length (it panics
+// otherwise); NaN when n < 3, x is constant or lags < 0.
+func SlopeHAC(x, y []float64, lags int) (slope, se float64) {
+	if len(x) != len(y) {
+		panic("stats: SlopeHAC: x and y lengths differ")
+	}
+	n := len(x)
+	if n < 3 || lags < 0 {
+		return math.NaN(), math.NaN()
+	}
+	dx, e, sxx, b := lineResiduals(x, y)
+	if !(sxx > 0) {
+		return math.NaN(), math.NaN()
+	}
+	u := make([]float64, n)
+	var s float64
+	for i := range u {
+		u[i] = dx[i] * e[i]
+		s += u[i] * u[i]
+	}
+	for l := 1; l <= lags && l < n; l++ {
+		w := 1 - float64(l)/float64(lags+1)
+		var c float64
+		for t := l; t < n; t++ {
+			c += u[t] * u[t-l]
+		}
+		s += 2 * w * c
+	}
+	if s < 0 { // cannot happen with the Bartlett kernel, which keeps S positive semi-definite
+		return b, math.NaN()
+	}
+	return b, math.Sqrt(s) / sxx
+}
+
+// Lag1Autocorr returns the lag-1 autocorrelation of v in the order given,
+// Σ_t (v_t − v̄)(v_{t+1} − v̄) / Σ_t (v_t − v̄)² (the usual estimator, as
+// statsmodels.tsa.stattools.acf(v, nlags=1)[1]); NaN for n < 3 or
+// constant v.
+func Lag1Autocorr(v []float64) float64 {
+	n := len(v)
+	if n < 3 {
+		return math.NaN()
+	}
+	var m float64
+	for _, a := range v {
+		m += a
+	}
+	m /= float64(n)
+	var num, den float64
+	for t, a := range v {
+		d := a - m
+		den += d * d
+		if t+1 < n {
+			num += d * (v[t+1] - m)
+		}
+	}
+	if !(den > 0) {
+		return math.NaN()
+	}
+	return num / den
+}
+
+// EffectiveN returns Bartlett's effective sample size for the correlation
+// of two series observed in the same order, each taken as first-order
+// autoregressive with lag-1 autocorrelations rhoX and rhoY:
+//
+//	n_eff = n (1 − ρx ρy) / (1 + ρx ρy)
+//
+// (Bartlett 1935, "Some aspects of the time-correlation problem in regard
+// to tests of significance", J. R. Stat. Soc. 98:536–543; in this form
+// eq. 31 of Bretherton, Widmann, Dymnikov, Wallace & Bladé 1999, "The
+// effective number of spatial degrees of freedom of a time-varying
+// field", J. Climate 12:1990–2009 — cited from memory). It is capped at n
+// (negative ρx ρy would give more than n, a gain the approximation does
+// not support) and NaN when either ρ is NaN.
+func EffectiveN(n int, rhoX, rhoY float64) float64 {
+	if math.IsNaN(rhoX) || math.IsNaN(rhoY) {
+		return math.NaN()
+	}
+	p := rhoX * rhoY
+	return math.Min(float64(n), float64(n)*(1-p)/(1+p))
+}
+
+// CorrelationEff returns the two-sided p of the t-test of r and its
+// Fisher-z interval at confidence conf with an effective sample size neff
+// in place of n: t = r √(neff − 2)/√(1 − r²) on neff − 2 degrees of
+// freedom, and tanh(atanh r ± z_{(1+conf)/2}/√(neff − 3)). NaN when neff ≤ 3
+// or |r| ≥ 1.
+func CorrelationEff(r, neff, conf float64) (p, lo, hi float64) {
+	if !(neff > 3) || !(math.Abs(r) < 1) {
+		return math.NaN(), math.NaN(), math.NaN()
+	}
+	t := r * math.Sqrt(neff-2) / math.Sqrt(1-r*r)
+	p = TwoSidedT(t, neff-2)
+	z := math.Atanh(r)
+	h := NormalQuantile((1+conf)/2) / math.Sqrt(neff-3)
+	return p, math.Tanh(z - h), math.Tanh(z + h)
+}

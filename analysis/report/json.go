@@ -58,15 +58,27 @@ func Write(w io.Writer, r *Report) error {
 }
 
 // Read decodes a results.json. It refuses another schema and unknown keys,
-// so a file written by a newer bivar is not half-understood.
+// so a file written by a newer bivar is not half-understood; a v1 file is
+// read without the unknown-key check (its keys that v2 renamed are left
+// out; every key `bivar diff` reads is the same in both, see Schema).
 func Read(rd io.Reader) (*Report, error) {
-	dec := json.NewDecoder(rd)
-	dec.DisallowUnknownFields()
+	data, err := io.ReadAll(rd)
+	if err != nil {
+		return nil, fmt.Errorf("reading results: %w", err)
+	}
+	var head struct {
+		Schema string `json:"schema"`
+	}
+	_ = json.Unmarshal(data, &head) // a bad file is explained by the decode below
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if head.Schema != "bivar.results/v1" {
+		dec.DisallowUnknownFields()
+	}
 	var r Report
 	if err := dec.Decode(&r); err != nil {
 		return nil, fmt.Errorf("not a bivar results file: %w", err)
 	}
-	if r.Schema != Schema {
+	if !ReadsSchema(r.Schema) {
 		return nil, fmt.Errorf("schema %q, want %q: written by another version of bivar", r.Schema, Schema)
 	}
 	return &r, nil

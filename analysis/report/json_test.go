@@ -87,7 +87,7 @@ func TestWriteReadStable(t *testing.T) {
 func TestReadRefuses(t *testing.T) {
 	cases := []struct{ name, in, want string }{
 		{"other-schema", `{"schema": "bivar.results/v9"}`, `schema "bivar.results/v9"`},
-		{"unknown-key", `{"schema": "bivar.results/v1", "extra": 1}`, `unknown field "extra"`},
+		{"unknown-key", `{"schema": "bivar.results/v2", "extra": 1}`, `unknown field "extra"`},
 		{"not-json", `<html>`, "not a bivar results file"},
 		{"bad-number", `{"schema": "bivar.results/v1", "studies": [{"n_missing": 1, "pearson": {"r": "x"}}]}`, "not a number"},
 	}
@@ -96,6 +96,11 @@ func TestReadRefuses(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), tc.want) {
 			t.Errorf("%s: Read error %v, want one containing %q", tc.name, err, tc.want)
 		}
+	}
+	// A v1 file, with the key v2 renamed, is read for `bivar diff`.
+	r, err := Read(strings.NewReader(`{"schema": "bivar.results/v1", "manifest": {"thresholds": {"curve_gain_r2": 0.05}}, "studies": [{"id": "s", "moments": {"n": 5}}]}`))
+	if err != nil || len(r.Studies) != 1 || r.Studies[0].Moments.N != 5 {
+		t.Errorf("v1 file: %v, %+v", err, r)
 	}
 }
 

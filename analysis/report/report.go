@@ -10,7 +10,18 @@
 package report
 
 // Schema names the results.json format. Change it only with a new version.
-const Schema = "bivar.results/v1"
+//
+// v2 (from v1): thresholds.curve_gain_r2 became curve_share (the curve
+// rule changed); influence.points holds only the named rows (at most
+// influence.named_max), with counts, cut points and the flagged-rows file
+// beside them; findings gained typed checks, reasons and more verdicts;
+// studies gained group_lines and robust. Every key `bivar diff` reads is
+// the same in both, so it reads v1 too (ReadsSchema).
+const Schema = "bivar.results/v2"
+
+// ReadsSchema reports whether `bivar diff` reads results.json files of
+// schema s: this version's and v1.
+func ReadsSchema(s string) bool { return s == Schema || s == "bivar.results/v1" }
 
 // Caution is printed on every report: statistical evidence supports, but
 // does not replace, change control.

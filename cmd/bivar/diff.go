@@ -183,7 +183,7 @@ func resultsShape(data []byte) error {
 	switch {
 	case head.Schema == nil:
 		return fmt.Errorf("no \"schema\" key, so not a results.json written by bivar (want schema %q): give the results.json of a report folder", report.Schema)
-	case *head.Schema != report.Schema:
+	case !report.ReadsSchema(*head.Schema):
 		if strings.HasPrefix(*head.Schema, "bivar.results/") {
 			return fmt.Errorf("schema %q, but this bivar reads %q: rerun 'bivar run' with this version of bivar to write both sides in the same schema", *head.Schema, report.Schema)
 		}

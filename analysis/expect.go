@@ -182,8 +182,8 @@ func interval(what string, w []float64, unit string) string {
 func slopeUnit(s *report.Study) string {
 	xs, ys := symbolOf(s.X), symbolOf(s.Y)
 	switch {
-	case xs == "":
-		return ""
+	case xs == "" || xs == ys:
+		return "" // no x unit, or like units: the slope is a ratio
 	case ys == "":
 		return " per " + xs
 	}

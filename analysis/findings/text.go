@@ -206,6 +206,11 @@ func withUnit(v float64, u string) string {
 // "per °C" when y has no unit, "% per unit of melt" when x has none, and
 // "per unit of melt" when neither has.
 func perUnit(yu, xu, xLabel string) string {
+	if yu != "" && yu == xu {
+		// Like units: the slope is a ratio ("{BEF_per_year}" on both axes
+		// is not "BEF_per_year per BEF_per_year").
+		return "(a ratio of like units, " + yu + ")"
+	}
 	per := "per " + xu
 	if xu == "" {
 		per = "per unit of " + xLabel

@@ -18,6 +18,7 @@ func TestNumberWords(t *testing.T) {
 		{withUnit(12.5, "%"), "12.5%"}, {withUnit(240, "°C"), "240 °C"}, {withUnit(3, ""), "3"},
 		{perUnit("%", "°C", "melt"), "% per °C"}, {perUnit("", "", "melt"), "per unit of melt"},
 		{perUnit("", "°C", "melt"), "per °C"}, {perUnit("HRC", "", "melt"), "HRC per unit of melt"},
+		{perUnit("BEF_per_year", "BEF_per_year", "income"), "(a ratio of like units, BEF_per_year)"}, // no "per" doubling
 		{listRows([]string{"8"}), "row 8"}, {listRows([]string{"6", "8"}), "rows 6 and 8"},
 		{listRows([]string{"1", "2", "3", "4", "5", "6", "7"}), "rows 1, 2, 3, 4, 5 and 2 more"},
 		{capital("shrinkage"), "Shrinkage"}, {capital("µm"), "µm"}, {capital("pH of bath"), "pH of bath"}, {capital(""), ""}, {capital("y"), "Y"},

@@ -17,6 +17,10 @@ flow, l/min), read from the shared reference folder (not copied here).
   1 on x and 1/delta on y), fit_type=0 (explicit ODR), analytic derivatives
   (deriv=3), sstol = partol = 1e-15;
   jackknife by refitting scipy.odr without each row in turn.
+- Error correction: scipy.stats.pearsonr, numpy arctanh/tanh with
+  scipy.stats.norm.ppf (Fisher z), scipy.stats.linregress with
+  scipy.stats.t.ppf; reliabilities 1 - s_err^2/var(ddof=1) with the
+  within-subject SDs above as the declared error SDs.
 - Lin's CCC: closed form with numpy (divisor n); the interval by Lin (1989)
   eq. for var(atanh rho_c) as corrected in Lin (2000), scipy.stats.norm.ppf.
 """
@@ -113,6 +117,22 @@ def lin_ccc(x, y, conf):
     return dict(ccc=p, lo=np.tanh(z - h), hi=np.tanh(z + h), zse=np.sqrt(v), r=r, cb=p / r, u=u)
 
 
+def error_correction(x, y, ex, ey, conf):
+    n = len(x)
+    r = stats.pearsonr(x, y).statistic
+    h = stats.norm.ppf(0.5 + conf / 2) / np.sqrt(n - 3)
+    rlo, rhi = np.tanh(np.arctanh(r) - h), np.tanh(np.arctanh(r) + h)
+    lr = stats.linregress(x, y)
+    t = stats.t.ppf(0.5 + conf / 2, n - 2)
+    relx = 1 - ex ** 2 / x.var(ddof=1)
+    rely = 1 - ey ** 2 / y.var(ddof=1)
+    f = np.sqrt(relx * rely)
+    return dict(r=r, r_lo=rlo, r_hi=rhi, rel_x=relx, rel_y=rely, err_x=ex, err_y=ey,
+                r_corrected=r / f, r_corrected_lo=max(-1, rlo / f), r_corrected_hi=min(1, rhi / f),
+                slope=lr.slope, slope_lo=lr.slope - t * lr.stderr, slope_hi=lr.slope + t * lr.stderr,
+                slope_corrected=lr.slope / relx)
+
+
 def main():
     c = read(sys.argv[1])
     w1, w2, m1, m2 = c["wright_1"], c["wright_2"], c["mini_1"], c["mini_2"]
@@ -134,6 +154,8 @@ def main():
     out["deming_delta_rep"] = deming((w1 + w2) / 2, (m1 + m2) / 2, delta_rep, 0.95)
     out["deming_delta4"] = deming(w1, m1, 4.0, 0.95)
     out["ccc"] = lin_ccc(w1, m1, 0.95)
+    # Correction for measurement error, errors = each meter's within-subject SD.
+    out["error_correction"] = error_correction(w1, m1, sw_a, sw_b, 0.95)
     json.dump(out, sys.stdout, indent=1, sort_keys=True,
               default=lambda o: o.item() if hasattr(o, "item") else str(o))
     sys.stdout.write("\n")

@@ -112,8 +112,8 @@ func BlandAltmanReplicates(a, b [][]float64, k, conf float64) LimitsOfAgreement 
 		m[i] = (ma[i] + mb[i]) / 2
 	}
 	bias, sdm := agrMeanSD(d)
-	sa := Repeatability(a, 0.95).SW
-	sb := Repeatability(b, 0.95).SW
+	sa := Repeatability(a, 0).SW // conf 0: no interval needed
+	sb := Repeatability(b, 0).SW
 	va, vb := 0.0, 0.0
 	if len(a) > 1 {
 		va = (1 - 1/float64(len(a))) * sa * sa
@@ -275,7 +275,8 @@ const RepeatabilityFactor = 1.959963984540054 * math.Sqrt2
 //
 // with the interval of σ_w from s_w²·df/σ_w² ~ χ²_df (df = n(m−1)), which
 // assumes normal errors with the same SD on every item, and the
-// repeatability coefficient RepeatabilityFactor·s_w. Columns of unequal
+// repeatability coefficient RepeatabilityFactor·s_w. conf outside (0, 1)
+// leaves the intervals NaN (and skips their cost). Columns of unequal
 // length panic; fewer than two columns, no items, a NaN or an infinite
 // value give NaN figures.
 func Repeatability(reps [][]float64, conf float64) RepeatabilityResult {
@@ -350,8 +351,8 @@ func chi2Quantile(p, df float64) float64 {
 // fewer than two replicates or a zero within-item SD for x.
 func DemingDeltaFromReplicates(x, y [][]float64) float64 {
 	agrCheckColumns("DemingDeltaFromReplicates", x, y)
-	sx := Repeatability(x, 0.95).SW
-	sy := Repeatability(y, 0.95).SW
+	sx := Repeatability(x, 0).SW
+	sy := Repeatability(y, 0).SW
 	vx := sx * sx / float64(len(x))
 	vy := sy * sy / float64(len(y))
 	if !(vx > 0) || math.IsNaN(vy) {
@@ -514,7 +515,8 @@ type PassingBablokFit struct {
 // The paper assumes a positive slope (as two methods of one quantity
 // have); with a negative one the shift rule is not meaningful.
 //
-// Cost: O(n² log n) time and O(n²) memory for n ≤ PassingBablokExactMax.
+// Cost: O(n²) time (the order statistics by quickselect, not a sort) and
+// O(n²) memory for n ≤ PassingBablokExactMax.
 // Above it, the N slopes are a uniform sample (with replacement) of
 // passingBablokSample = 4 498 500 pairs, drawn by index into the rows sorted
 // by (x, y) from a generator seeded by a hash of those sorted rows — so the result depends on the set
@@ -576,35 +578,61 @@ func PassingBablok(x, y []float64, conf float64) PassingBablokFit {
 	if N == 0 {
 		return f
 	}
-	slices.Sort(s)
-	K, _ := slices.BinarySearch(s, -1) // count of S < −1 (−1 itself was left out)
-	f.K = K
-	at := func(r int) float64 { // 1-based rank
-		if r < 1 || r > N {
-			return nan
+	// Order statistics by selection (selectInPlace, expected O(N)) rather
+	// than a full sort: the shifted median and the two interval ranks.
+	K := 0
+	for _, v := range s {
+		if v < -1 { // −1 itself was left out
+			K++
 		}
-		return s[r-1]
 	}
-	if N%2 == 1 {
-		f.Slope = at((N+1)/2 + K)
-	} else {
-		f.Slope = (at(N/2+K) + at(N/2+1+K)) / 2
-	}
-	if math.IsNaN(f.Slope) || math.IsInf(f.Slope, 0) {
-		f.Slope = nan
-		return f
-	}
-	f.Intercept = pbMedianResidual(x, y, f.Slope)
+	f.K = K
+	lower, upper := -1, -1 // 1-based interval ranks, when asked for
 	if conf > 0 && conf < 1 {
 		fn := float64(n)
 		c := NormalQuantile(0.5+conf/2) * math.Sqrt(fn*(fn-1)*(2*fn+5)/18) * scale
 		m1 := int(math.Round((float64(N) - c) / 2))
-		m2 := N - m1 + 1
-		f.SlopeLo, f.SlopeHi = at(m1+K), at(m2+K)
-		if !math.IsNaN(f.SlopeLo) && !math.IsInf(f.SlopeLo, 0) && !math.IsNaN(f.SlopeHi) && !math.IsInf(f.SlopeHi, 0) {
-			a1, a2 := pbMedianResidual(x, y, f.SlopeHi), pbMedianResidual(x, y, f.SlopeLo)
-			f.InterceptLo, f.InterceptHi = min(a1, a2), max(a1, a2)
+		lower, upper = m1+K, N-m1+1+K
+	}
+	mid := (N+1)/2 + K // 1-based; for even N the mean of N/2+K and N/2+1+K
+	if N%2 == 0 {
+		mid = N/2 + K
+	}
+	if mid < 1 || mid > N || (N%2 == 0 && mid+1 > N) {
+		return f
+	}
+	k := mid - 1
+	med := selectInPlace(s, k)
+	if N%2 == 0 {
+		med = (med + slices.Min(s[k+1:])) / 2
+	}
+	f.Slope = med
+	if math.IsNaN(f.Slope) || math.IsInf(f.Slope, 0) {
+		f.Slope = nan
+		return f
+	}
+	if lower >= 1 && lower <= N && upper >= 1 && upper <= N {
+		switch {
+		case lower-1 < k:
+			f.SlopeLo = selectInPlace(s[:k], lower-1)
+		case lower-1 == k:
+			f.SlopeLo = s[k]
+		default:
+			f.SlopeLo = selectInPlace(s[k+1:], lower-1-k-1)
 		}
+		switch {
+		case upper-1 > k:
+			f.SlopeHi = selectInPlace(s[k+1:], upper-1-k-1)
+		case upper-1 == k:
+			f.SlopeHi = s[k]
+		default:
+			f.SlopeHi = selectInPlace(s[:k], upper-1)
+		}
+	}
+	f.Intercept = pbMedianResidual(x, y, f.Slope)
+	if !math.IsNaN(f.SlopeLo) && !math.IsInf(f.SlopeLo, 0) && !math.IsNaN(f.SlopeHi) && !math.IsInf(f.SlopeHi, 0) {
+		a1, a2 := pbMedianResidual(x, y, f.SlopeHi), pbMedianResidual(x, y, f.SlopeLo)
+		f.InterceptLo, f.InterceptHi = min(a1, a2), max(a1, a2)
 	}
 	return f
 }

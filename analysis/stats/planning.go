@@ -58,7 +58,14 @@ func NForSlopeHalfWidth(residSD, sdX, halfWidth, conf float64) int {
 		math.IsInf(sdX, 0) || !(conf > 0 && conf < 1) {
 		return 0
 	}
-	return planSearch(3, func(n int) bool { return SlopeHalfWidth(residSD, sdX, n, conf) <= halfWidth })
+	// Start at the normal-quantile answer 1 + (z·s/(s_x·h))²: below it the
+	// t quantile, larger than z, cannot meet the target.
+	z := NormalQuantile(0.5+conf/2) * residSD / (sdX * halfWidth)
+	start := 3
+	if nz := 1 + z*z; nz > 3 && nz < planMaxN {
+		start = int(nz)
+	}
+	return planSearch(start, func(n int) bool { return SlopeHalfWidth(residSD, sdX, n, conf) <= halfWidth })
 }
 
 // CorrelationPower returns the approximate power of the two-sided test of
@@ -104,17 +111,19 @@ func NForCorrelationPower(r, alpha, power float64) int {
 }
 
 // planSearch returns the smallest n ≥ lo with ok(n), for ok monotone
-// (false … false true … true), or 0 when ok(planMaxN) is false.
+// (false … false true … true), or 0 when ok(planMaxN) is false: steps of
+// doubling length from lo, then bisection of the last step, so the cost is
+// O(log(answer − lo)) calls of ok.
 func planSearch(lo int, ok func(int) bool) int {
 	if ok(lo) {
 		return lo
 	}
 	hi := lo
-	for !ok(hi) {
+	for step := 1; !ok(hi); step *= 2 {
 		if hi >= planMaxN {
 			return 0
 		}
-		lo, hi = hi, min(2*hi, planMaxN)
+		lo, hi = hi, min(hi+step, planMaxN)
 	}
 	for hi-lo > 1 { // ok(hi), !ok(lo)
 		mid := lo + (hi-lo)/2

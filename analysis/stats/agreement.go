@@ -56,12 +56,12 @@ type LimitsOfAgreement struct {
 //	interval of a limit: limit ∓ t_{n−1,(1+conf)/2} · s·√(1/n + k²/(2(n−1)))
 //
 // The standard error of a limit is the approximate one of the 1999 paper
-// (§2.2): var(d̄ + k s) ≈ s²/n + k² s²/(2(n−1)), which is about 3s²/n for
+// : var(d̄ + k s) ≈ s²/n + k² s²/(2(n−1)), which is about 3s²/n for
 // k ≈ 2 as in the 1986 paper. It is not the exact interval (a noncentral t
 // quantile, as for a tolerance limit), which is slightly wider and
 // asymmetric at small n. The regression of d on the mean m = (a+b)/2 is
 // ordinary least squares with centred sums; its slope's p uses t with n−2
-// df (Bland & Altman 1999, §3.2).
+// df (Bland & Altman 1999).
 //
 // a and b must have equal length (it panics otherwise). Every figure is NaN
 // when n < 2 or any value is NaN or infinite; the intervals need n ≥ 2, the
@@ -84,7 +84,7 @@ func BlandAltman(a, b []float64, k, conf float64) LimitsOfAgreement {
 // BlandAltmanReplicates returns the limits of agreement when each method
 // was measured more than once on every item: a[j][i] is replicate j of
 // method A on item i (len(a) = m_a ≥ 1 columns of n values), likewise b.
-// It is the "mean of replicates" method of Bland & Altman (1999, §5.3):
+// It is the "mean of replicates" method of Bland & Altman (1999):
 // the differences of the replicate means d_i = ā_i − b̄_i give the bias
 // and its interval; the SD of the difference of single measurements is
 // recovered from the SD of those differences and the within-item
@@ -263,13 +263,13 @@ type RepeatabilityResult struct {
 // within-item SD into the repeatability coefficient: the value below which
 // the absolute difference of two measurements of the same item lies with
 // 95 % probability. ISO 5725-6 (and BS 5497-1) round it to 2.8; Bland &
-// Altman (1999, §4) write 2.77.
+// Altman (1999) write 2.77.
 const RepeatabilityFactor = 1.959963984540054 * math.Sqrt2
 
 // Repeatability returns the within-item SD of one method from its
 // replicate columns: reps[j][i] is replicate j on item i, with m = len(reps)
-// ≥ 2 columns of n values (one-way analysis of variance; ISO 5725-2 §7.4;
-// Bland & Altman 1999, §4):
+// ≥ 2 columns of n values (one-way analysis of variance; ISO 5725-2;
+// Bland & Altman 1999):
 //
 //	s_w² = Σ_i Σ_j (x_ij − x̄_i)² / (n·(m−1))
 //
@@ -347,7 +347,7 @@ func chi2Quantile(p, df float64) float64 {
 // DemingDeltaFromReplicates returns the error-variance ratio δ = var(error
 // of y)/var(error of x) for Deming regression of the replicate means of y
 // on those of x, estimated from the replicates: (s_wy²/m_y)/(s_wx²/m_x),
-// with s_w from Repeatability (Linnet 1993, §2). NaN when either method has
+// with s_w from Repeatability (Linnet 1993). NaN when either method has
 // fewer than two replicates or a zero within-item SD for x.
 func DemingDeltaFromReplicates(x, y [][]float64) float64 {
 	agrCheckColumns("DemingDeltaFromReplicates", x, y)

@@ -160,7 +160,7 @@ func TestRepeatabilityScipy(t *testing.T) {
 		// scipy.stats.chi2.ppf; our quantile is a bisection on UpperChi2.
 		agrCheck(t, tc.key+" sw_lo", r.SWLo, w["sw_lo"], 1e-9)
 		agrCheck(t, tc.key+" sw_hi", r.SWHi, w["sw_hi"], 1e-9)
-		agrCheck(t, tc.key+" coef", r.Coef, 2.7718*r.SW, 2e-5) // Bland & Altman (1999, §4): 2.77·s_w
+		agrCheck(t, tc.key+" coef", r.Coef, 2.7718*r.SW, 2e-5) // Bland & Altman (1999) write 2.77·s_w; 2.7718 = 1.96·√2
 	}
 }
 

@@ -54,7 +54,7 @@ type ErrorCorrection struct {
 //	      measurement of association between two things", Am. J. Psychol.
 //	      15:72–101)
 //	slope_corrected = slope / rel_x       (regression dilution; Fuller 1987,
-//	      Measurement Error Models, §1.1; Frost & Thompson 2000, J. R.
+//	      Measurement Error Models, ch. 1; Frost & Thompson 2000, J. R.
 //	      Stat. Soc. A 163:173–189)
 //
 // with rel = Reliability(observed SD, error SD). Error in y does not bias

@@ -353,6 +353,10 @@ func TestDistIdentities(t *testing.T) {
 			t.Errorf("%s = %v, want NaN", name, v)
 		}
 	}
+	if TSurvival(2.5, math.Inf(1)) != NormalSurvival(2.5) || TQuantileUpper(1e-9, math.Inf(1)) != NormalQuantileUpper(1e-9) ||
+		TwoSidedT(3, math.Inf(1)) != TwoSidedNormal(3) {
+		t.Error("t with infinite df is not the normal")
+	}
 	if !math.IsInf(TQuantileUpper(0, 5), 1) || !math.IsInf(TQuantile(0, 5), -1) || Chi2Quantile(0, 3) != 0 ||
 		!math.IsInf(Chi2QuantileUpper(0, 3), 1) || FQuantile(0, 2, 3) != 0 || TQuantile(0.5, 7) != 0 {
 		t.Error("quantile end points wrong")

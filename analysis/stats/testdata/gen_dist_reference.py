@@ -3,7 +3,7 @@
 in analysis/stats/dist.go (read by TestDistReferenceTable).
 
 Run from this directory:  /usr/bin/python3 gen_dist_reference.py > dist_reference.csv
-(Debian's python3-scipy 1.10.1 and python3-mpmath 1.2.1; about 15 minutes.)
+(Debian's python3-scipy 1.10.1 and python3-mpmath 1.2.1; about 10 minutes.)
 
 For every distribution, degrees of freedom and tail probability q on the
 grid, mpmath finds the quantile x_q with P(X > x_q) = q (and, for the

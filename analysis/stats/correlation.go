@@ -30,7 +30,8 @@ type Correlation struct {
 // (exact Student t tail). |r| = 1 gives T = ±Inf and P = 0.
 //
 // x and y must have equal length (it panics otherwise) and hold no NaN.
-// R is NaN when n < 2 or x or y is constant; T and P are NaN when n < 3;
+// R is NaN when n < 2 or x or y is constant (every value the same; data of
+// any finite magnitude, 1e-300 or 1e300, vary); T and P are NaN when n < 3;
 // the interval is NaN when n < 4.
 func Pearson(x, y []float64, conf float64) Correlation {
 	if len(x) != len(y) {
@@ -44,6 +45,15 @@ func Pearson(x, y []float64, conf float64) Correlation {
 			c.DF = 0
 		}
 		return c
+	}
+	// r does not depend on the scale of x or y; far from 1 (beyond 2^±400)
+	// the sums of squares would underflow or overflow, so such data are
+	// scaled by a power of two (exact) first.
+	if k := pow2Shift(x); k != 0 {
+		x = ldexpAll(x, k)
+	}
+	if k := pow2Shift(y); k != 0 {
+		y = ldexpAll(y, k)
 	}
 	m := CentredMoments(x, y)
 	c.R = corrFromSums(m.Sxx, m.Syy, m.Sxy)

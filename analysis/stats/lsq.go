@@ -83,7 +83,13 @@ const rankTol = 1e-12
 // All columns must have len(y) rows (it panics otherwise). It returns an
 // error, and no fit, when there are fewer than p+1 rows, a value is NaN or
 // infinite, a column is constant, or a column is a linear combination of
-// the others (|Rⱼⱼ| < 1e-12·‖colⱼ − x̄ⱼ‖). With exactly p+1 rows the fit is
+// the others (|Rⱼⱼ| < 1e-12·‖colⱼ − x̄ⱼ‖). Constant means every row holds the
+// same value: any finite double is data, and a column or y whose largest
+// magnitude lies outside 2^±400 (1e-200, 1e300) is fitted after an exact
+// power-of-two scaling and the results scaled back (pow2Shift, unscale),
+// so the estimates, t, p and R² do not depend on the units; only RSS and
+// TSS, squares of the data's scale, can overflow or underflow then.
+// With exactly p+1 rows the fit is
 // exact: DFResid is 0 and SE, T, P, intervals, ResidualSE, AdjR2, F are NaN.
 // With more rows but RSS = 0 (y constant, or exactly on the model) every
 // SE is 0: a nonzero estimate then has T = ±Inf and P = 0, a zero one T and
@@ -110,6 +116,113 @@ func LeastSquares(cols [][]float64, y []float64, conf float64) (Regression, erro
 			}
 		}
 	}
+	for j, c := range cols {
+		if allEqual(c) {
+			return Regression{}, fmt.Errorf("least squares: predictor %d is constant (every row %v): it cannot be fitted", j+1, c[0])
+		}
+	}
+	// Columns or y far from 1 in magnitude are fitted after an exact
+	// power-of-two scaling, and the results scaled back (unscale).
+	ky := pow2Shift(y)
+	kx := make([]int, p)
+	scaled := ky != 0
+	for j, c := range cols {
+		kx[j] = pow2Shift(c)
+		scaled = scaled || kx[j] != 0
+	}
+	if !scaled {
+		return leastSquares(cols, y, conf)
+	}
+	sc := make([][]float64, p)
+	for j, c := range cols {
+		sc[j] = ldexpAll(c, kx[j])
+	}
+	r, err := leastSquares(sc, ldexpAll(y, ky), conf)
+	if err != nil {
+		return Regression{}, err
+	}
+	r.unscale(kx, ky)
+	return r, nil
+}
+
+// pow2Shift returns the k for which v·2^k has its largest magnitude in
+// [1/2, 1), or 0 when that magnitude already lies within 2^±400. Inside
+// that range every square, product and sum of n ≤ 2³¹ centred values is a
+// normal double (a deviation is at least an ulp of the largest value,
+// 2^−452 there); outside it, squares of 1e-200 underflow and of 1e300
+// overflow, so a varying column looked constant or gave Inf. Scaling by a
+// power of two is exact, so the scaled fit is the same fit (up to values
+// below 2^−1022 that lose digits), whatever the units of the data.
+func pow2Shift(v []float64) int {
+	var m float64
+	for _, a := range v {
+		m = math.Max(m, math.Abs(a))
+	}
+	if m == 0 || math.IsInf(m, 0) || math.IsNaN(m) {
+		return 0
+	}
+	_, e := math.Frexp(m)
+	if e >= -400 && e <= 400 {
+		return 0
+	}
+	return -e
+}
+
+// ldexpAll returns v·2^k, element by element.
+func ldexpAll(v []float64, k int) []float64 {
+	out := make([]float64, len(v))
+	for i, a := range v {
+		out[i] = math.Ldexp(a, k)
+	}
+	return out
+}
+
+// allEqual reports whether every value of v equals the first.
+func allEqual(v []float64) bool {
+	for _, a := range v[1:] {
+		if a != v[0] {
+			return false
+		}
+	}
+	return true
+}
+
+// unscale turns a fit of y·2^ky on cols[j]·2^kx[j] into the fit of y on
+// cols: slopes by 2^(kx[j]−ky), the intercept, residual scale, fitted
+// values and residuals by 2^−ky, sums of squares by 2^−2ky (they overflow to
+// +Inf or underflow to 0 when the data's squares do), AIC by −2·ky·N·ln 2,
+// column means by 2^−kx[j] and R⁻¹'s row j by 2^kx[j] (R of the scaled
+// design is R·diag(2^kx)). R², F, t and p values and leverages do not
+// change.
+func (r *Regression) unscale(kx []int, ky int) {
+	sc := func(c Coef, k int) Coef {
+		c.Estimate, c.SE = math.Ldexp(c.Estimate, k), math.Ldexp(c.SE, k)
+		c.CILow, c.CIHigh = math.Ldexp(c.CILow, k), math.Ldexp(c.CIHigh, k)
+		return c
+	}
+	r.Coef[0] = sc(r.Coef[0], -ky)
+	for j, k := range kx {
+		r.Coef[j+1] = sc(r.Coef[j+1], k-ky)
+		r.b[j] = math.Ldexp(r.b[j], k-ky)
+		r.means[j] = math.Ldexp(r.means[j], -k)
+		r.mlo[j] = math.Ldexp(r.mlo[j], -k)
+		for c := j; c < r.p; c++ {
+			r.rinv[j*r.p+c] = math.Ldexp(r.rinv[j*r.p+c], k)
+		}
+	}
+	r.ResidualSE = math.Ldexp(r.ResidualSE, -ky)
+	r.RSS, r.TSS = math.Ldexp(r.RSS, -2*ky), math.Ldexp(r.TSS, -2*ky)
+	r.AIC -= 2 * float64(ky) * float64(r.N) * math.Ln2
+	r.ymean, r.ylo = math.Ldexp(r.ymean, -ky), math.Ldexp(r.ylo, -ky)
+	for i := range r.Fitted {
+		r.Fitted[i] = math.Ldexp(r.Fitted[i], -ky)
+		r.Residuals[i] = math.Ldexp(r.Residuals[i], -ky)
+	}
+}
+
+// leastSquares is LeastSquares on checked columns of moderate magnitude.
+func leastSquares(cols [][]float64, y []float64, conf float64) (Regression, error) {
+	n, p := len(y), len(cols)
 	r := Regression{N: n, DFResid: n - p - 1, p: p}
 	// Means in two parts (meanParts), so that the centred values keep their
 	// digits when a column or y is far from 0.
@@ -361,10 +474,13 @@ func (r Regression) Predict(z []float64, conf float64) (fit, confLow, confHigh, 
 // squares, R², F and AIC are those of the t fit, which equal the raw fit's
 // in exact arithmetic. Predict at PowerRow(x0, degree).
 //
+// Any finite x is accepted: where a raw-power coefficient b_j leaves the
+// range of float64 (x near 1e300 or 1e-200 and j ≥ 2) its estimate, SE
+// and interval overflow to ±Inf or underflow to 0, but its t and p are
+// computed on the scale of t and stay right (rawPowerCoef).
+//
 // It returns an error for degree < 1, a non-finite x, x with fewer than
-// degree+1 distinct values, x whose powers overflow or underflow float64
-// (|x| or its spread beyond about 10^(300/degree) or below
-// 10^(−300/degree)), or whatever LeastSquares rejects.
+// degree+1 distinct values, or whatever LeastSquares rejects.
 func Polynomial(x, y []float64, degree int, conf float64) (Regression, error) {
 	if len(x) != len(y) {
 		panic("stats: Polynomial: x and y lengths differ")
@@ -387,9 +503,6 @@ func Polynomial(x, y []float64, degree int, conf float64) (Regression, error) {
 	}
 	if d := distinctAtMost(x, degree+1); d < degree+1 {
 		return Regression{}, fmt.Errorf("polynomial: x takes %d distinct value(s): a degree-%d polynomial needs at least %d", d, degree, degree+1)
-	}
-	if sd, cd := math.Pow(s, float64(degree)), math.Pow(math.Abs(c), float64(degree)); sd == 0 || math.IsInf(sd, 0) || math.IsInf(cd, 0) {
-		return Regression{}, fmt.Errorf("polynomial: x spans %g about %g: its degree-%d powers leave the range of float64; rescale x", s, c, degree)
 	}
 	cols := make([][]float64, degree)
 	for d := range cols {
@@ -471,12 +584,16 @@ func (r Regression) rawPowerCoef(conf float64) []Coef {
 	for j := 0; j < d; j++ {
 		g[0][j+1], g[j+1][0] = -gm[j], -gm[j]
 	}
-	// T[j][k] = C(k, j)·(−c)^{k−j}/s^k for k ≥ j.
+	// T[j][k] = C(k, j)·(−c)^{k−j}/s^k for k ≥ j, taken as s^−j·U[j][k] with
+	// U[j][k] = C(k, j)·(−c/s)^{k−j}: the coefficient of x^j, its SE and
+	// interval are those of U's row times s^−j, and its t and p those of
+	// U's row, so they stay right when s^−j leaves the range of a double
+	// (x near 1e300 or 1e-200, where b_j itself may overflow or underflow).
 	t := make([][]float64, d+1)
 	for j := range t {
 		t[j] = make([]float64, d+1)
 		for k := j; k <= d; k++ {
-			t[j][k] = binom(k, j) * math.Pow(-c, float64(k-j)) / math.Pow(s, float64(k))
+			t[j][k] = binom(k, j) * math.Pow(-c/s, float64(k-j))
 		}
 	}
 	tq := math.NaN()
@@ -492,7 +609,11 @@ func (r Regression) rawPowerCoef(conf float64) []Coef {
 				v += t[j][k] * g[k][l] * t[j][l]
 			}
 		}
-		out[j] = makeCoef(b, r.ResidualSE*math.Sqrt(math.Max(v, 0)), tq, r.DFResid)
+		cf := makeCoef(b, r.ResidualSE*math.Sqrt(math.Max(v, 0)), tq, r.DFResid)
+		for range j {
+			cf.Estimate, cf.SE, cf.CILow, cf.CIHigh = cf.Estimate/s, cf.SE/s, cf.CILow/s, cf.CIHigh/s
+		}
+		out[j] = cf
 	}
 	return out
 }
@@ -564,7 +685,10 @@ func (l LineFit) Interval(x0, conf float64) (fit, confLow, confHigh, predLow, pr
 	if l.DFResid <= 0 || !(conf > 0 && conf < 1) {
 		return fit, nan, nan, nan, nan
 	}
-	q := 1/float64(l.N) + (x0-l.MeanX)*(x0-l.MeanX)/l.Sxx
+	// (x0 − x̄)²/Sxx as ((x0 − x̄)·R⁻¹)², which stays in range whatever the
+	// scale of x (Sxx underflows for x near 1e-200).
+	d := ((x0 - l.means[0]) - l.mlo[0]) * l.rinv[0]
+	q := 1/float64(l.N) + d*d
 	tq := TQuantile(0.5+conf/2, float64(l.DFResid))
 	hc := tq * l.ResidualSE * math.Sqrt(q)
 	hp := tq * l.ResidualSE * math.Sqrt(1+q)

@@ -113,7 +113,7 @@ const params = 2
 func OutlierBound(n int, th report.Thresholds) float64 {
 	b := th.OutlierZ
 	if a := th.OutlierFamilyAlpha; a > 0 && a < 1 && n > params+1 {
-		if t := stats.TQuantile(1-a/(2*float64(n)), float64(n-params-1)); t > b {
+		if t := stats.TQuantileUpper(a/(2*float64(n)), float64(n-params-1)); t > b {
 			b = t
 		}
 	}

@@ -5,7 +5,6 @@ package analysis
 // lines.
 
 import (
-	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -14,8 +13,7 @@ import (
 	"bivar/analysis/stats"
 )
 
-func describe(v []float64) report.Describe {
-	d := stats.Describe(v)
+func describe(d stats.Summary) report.Describe {
 	return report.Describe{N: d.N, Mean: report.Float(d.Mean), SD: report.Float(d.SD), Min: report.Float(d.Min),
 		Q1: report.Float(d.Q1), Median: report.Float(d.Median), Q3: report.Float(d.Q3), Max: report.Float(d.Max)}
 }
@@ -101,9 +99,11 @@ func logModels(x, y []float64, conf float64) []report.Fit {
 	return out
 }
 
-// diagnostics runs the tests of form, spread and order. order holds the
-// run order of each complete case, or nil.
-func diagnostics(id string, x, y []float64, line stats.LineFit, quad *stats.Regression, order []float64, cfg Config) *report.Diagnostics {
+// diagnostics runs the tests of form, spread and order on the pairs ps,
+// line being the straight line fitted to ps.X, ps.Y (its residuals in
+// canonical order). order holds the run order of each complete case in data
+// order, or nil: then the data order is the run order.
+func diagnostics(id string, ps *stats.Sorted, line stats.LineFit, quad *stats.Regression, order []float64, cfg Config) *report.Diagnostics {
 	d := &report.Diagnostics{QuadraticP: report.NaN(), DurbinWatson: report.NaN()}
 	if quad != nil {
 		d.QuadraticP = report.Float(quad.Coef[2].P)
@@ -114,39 +114,50 @@ func diagnostics(id string, x, y []float64, line stats.LineFit, quad *stats.Regr
 	// hundred levels says little. So it is reported only when the levels
 	// of x are at most half the rows (each level holds two rows on
 	// average); levels = df1 + 2.
-	if f, df1, df2, p, ok := stats.LackOfFit(x, y); ok && 2*(df1+2) <= len(x) {
+	if f, df1, df2, p, ok := ps.LackOfFit(line.Slope.Estimate); ok && 2*(df1+2) <= ps.Len() {
 		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(p)}
 	}
-	dc, p, used, method := stats.DistanceCorrTest(x, y, cfg.DcorPerms, cfg.DcorMaxN, source(cfg.Seed, id, "dcor"))
-	d.DistanceCorr = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: cfg.DcorPerms,
-		Sampled: used, Method: method}
-	bp, df, pbp := stats.BreuschPagan(line.Residuals, x)
+	bp, df, pbp := stats.BreuschPagan(line.Residuals, ps.X)
 	d.BreuschPagan = &report.ChiTest{Stat: report.Float(bp), DF: df, P: report.Float(pbp)}
 
-	resid := line.Residuals
+	// Residuals in run order: by the order column (ties in canonical
+	// order, so by x), else in data order.
+	e := line.Residuals
 	if order != nil {
-		perm := make([]int, len(order))
-		for i := range perm {
-			perm[i] = i
-		}
-		if !slices.IsSorted(order) {
-			slices.SortFunc(perm, func(a, b int) int { return cmp.Or(cmp.Compare(order[a], order[b]), cmp.Compare(a, b)) })
-		}
-		ro, oo := make([]float64, len(perm)), make([]float64, len(perm))
-		for k, i := range perm {
-			ro[k], oo[k] = resid[i], order[i]
+		ro, oo := make([]float64, len(e)), make([]float64, len(e))
+		for j, k := range ps.OrderOf(order) {
+			ro[j], oo[j] = e[k], order[ps.Row[k]]
 		}
 		d.DurbinWatson = report.Float(stats.DurbinWatson(ro))
 		slope, p, r := stats.OrderTrend(oo, ro)
-		t := &report.OrderTrend{Slope: report.Float(slope), P: report.Float(p), R: report.Float(r)}
-		d.OrderTrend = t
+		d.OrderTrend = &report.OrderTrend{Slope: report.Float(slope), P: report.Float(p), R: report.Float(r)}
 	} else {
-		d.DurbinWatson = report.Float(stats.DurbinWatson(resid))
+		d.DurbinWatson = report.Float(stats.DurbinWatson(ps.ToRows(e)))
 	}
-
-	slope, icpt, method := stats.TheilSen(x, y, cfg.TheilSenMaxExact, source(cfg.Seed, id, "theil-sen"))
-	d.Resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
 	return d
+}
+
+// sideStats are the statistics that need only the sorted pairs and cost
+// the most at large n: Analyze runs them on a second goroutine.
+type sideStats struct {
+	kendall   report.Kendall
+	dcor      *report.DistanceCorr
+	resistant *report.Resistant
+}
+
+// sideStatistics computes Kendall's τ-b, the distance-correlation test
+// and the Theil–Sen line of ps, each on its own random source, so the
+// numbers are the same whichever goroutine runs them and when.
+func sideStatistics(id string, ps *stats.Sorted, cfg Config) sideStats {
+	var out sideStats
+	tau, ptau := ps.KendallTauB()
+	out.kendall = report.Kendall{TauB: report.Float(tau), P: report.Float(ptau)}
+	dc, p, used, method := ps.DistanceCorrTest(cfg.DcorPerms, cfg.DcorMaxN, source(cfg.Seed, id, "dcor"))
+	out.dcor = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: cfg.DcorPerms,
+		Sampled: used, Method: method}
+	slope, icpt, method := stats.TheilSen(ps.X, ps.Y, cfg.TheilSenMaxExact, source(cfg.Seed, id, "theil-sen"))
+	out.resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
+	return out
 }
 
 // lowessDelta is the smoother's interpolation distance: 0 (a local fit at

@@ -4,36 +4,11 @@ package analysis
 // renderers only draw.
 
 import (
-	"math/rand/v2"
 	"slices"
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 )
-
-// sample returns x and y, or above maxN rows a simple random sample of
-// maxN rows without replacement (a partial Fisher–Yates shuffle, Knuth
-// TAOCP vol. 2, Algorithm P, stopped after maxN steps) from the seeded
-// source, kept in data order. LOWESS is drawn, not tested, so a bounded
-// sample keeps its cost fixed at any n; the report states its size.
-func sample(x, y []float64, maxN int, src rand.Source) (sx, sy []float64) {
-	n := len(x)
-	if n <= maxN {
-		return x, y
-	}
-	rng := rand.New(src)
-	perm := make([]int, n)
-	for i := range perm {
-		perm[i] = i
-	}
-	for i := 0; i < maxN; i++ {
-		j := i + rng.IntN(n-i)
-		perm[i], perm[j] = perm[j], perm[i]
-	}
-	idx := perm[:maxN]
-	slices.Sort(idx)
-	return pick(x, idx), pick(y, idx)
-}
 
 // plotData gathers what the charts draw.
 func plotData(x, y []float64, cc cases, line stats.LineFit, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {

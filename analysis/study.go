@@ -11,6 +11,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"sync"
 
 	"bivar/analysis/findings"
 	"bivar/analysis/manifest"
@@ -202,20 +203,31 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	conf := 1 - cfg.Alpha
 
-	m := stats.CentredMoments(x, y)
+	// The pairs in one canonical order (stats.Sorted), shared by every
+	// statistic that needs an order; the statistics of x and y alone are
+	// computed from it, so they depend on the set of rows, not on their
+	// order in the file. Its residuals are returned to data order for the
+	// influence figures and the plot.
+	ps := stats.NewSorted(x, y)
+	// Kendall's τ-b, the distance-correlation test and the Theil–Sen line
+	// read only ps: they run on a second core while this one goes on.
+	var side sideStats
+	var wg sync.WaitGroup
+	wg.Go(func() { side = sideStatistics(in.ID, ps, cfg) })
+	defer wg.Wait() // a study that fails below returns after it
+	m := stats.CentredMoments(ps.X, ps.Y)
 	s.Moments = &report.Moments{N: m.N, MeanX: report.Float(m.MeanX), MeanY: report.Float(m.MeanY),
 		Sxx: report.Float(m.Sxx), Syy: report.Float(m.Syy), Sxy: report.Float(m.Sxy)}
-	s.Describe = &report.DescribePair{X: describe(x), Y: describe(y)}
+	dx, dy := ps.Describe()
+	s.Describe = &report.DescribePair{X: describe(dx), Y: describe(dy)}
 
-	pc := stats.Pearson(x, y, conf)
+	pc := stats.Pearson(ps.X, ps.Y, conf)
 	s.Pearson = &report.Pearson{R: report.Float(pc.R), R2: report.Float(pc.R2), CILow: report.Float(pc.CILow),
 		CIHigh: report.Float(pc.CIHigh), T: report.Float(pc.T), DF: pc.DF, P: report.Float(pc.P), PAdjusted: report.Float(pc.P)}
-	rho, prho := stats.Spearman(x, y)
+	rho, prho := ps.Spearman()
 	s.Spearman = &report.Spearman{Rho: report.Float(rho), P: report.Float(prho)}
-	tau, ptau := stats.KendallTauB(x, y)
-	s.Kendall = &report.Kendall{TauB: report.Float(tau), P: report.Float(ptau)}
 
-	line, err := stats.Line(x, y, conf)
+	line, err := stats.Line(ps.X, ps.Y, conf)
 	if err != nil {
 		return failed(s, fmt.Sprintf("the straight line could not be fitted: %v", err))
 	}
@@ -224,7 +236,7 @@ func analyze(in Input, cfg Config) report.Study {
 
 	var quad *stats.Regression
 	if s.N >= 4 {
-		if q, err := stats.Polynomial(x, y, 2, conf); err == nil && len(q.Coef) == 3 {
+		if q, err := stats.Polynomial(ps.X, ps.Y, 2, conf); err == nil && len(q.Coef) == 3 {
 			quad = &q
 			f := regFit("quadratic", "y = b0 + b1·x + b2·x²", []string{"intercept", "x", "x^2"}, q)
 			if b2 := q.Coef[2].Estimate; b2 != 0 {
@@ -233,16 +245,16 @@ func analyze(in Input, cfg Config) report.Study {
 			s.Models = append(s.Models, f)
 		}
 	}
-	s.Models = append(s.Models, logModels(x, y, conf)...)
+	s.Models = append(s.Models, logModels(ps.X, ps.Y, conf)...)
 
-	// Run order: residuals and order values arranged by order (ties in
-	// data order), for Durbin–Watson and the trend.
 	var order []float64
 	if in.Order != nil {
 		order = cc.order
 	}
-	s.Diagnostics = diagnostics(in.ID, x, y, line, quad, order, cfg)
-	lx, ly := sample(x, y, cfg.LowessMaxN, source(cfg.Seed, in.ID, "lowess"))
+	s.Diagnostics = diagnostics(in.ID, ps, line, quad, order, cfg)
+	xOrderFigures(s.Diagnostics, ps, line.Residuals)
+	line.Fitted, line.Residuals = ps.ToRows(line.Fitted), ps.ToRows(line.Residuals)
+	lx, ly := ps.Sample(cfg.LowessMaxN, source(cfg.Seed, in.ID, "lowess"))
 	s.Diagnostics.Lowess = &report.LowessInfo{Frac: cfg.LowessFrac, Iterations: cfg.LowessIter, Delta: lowessDelta(lx), Sampled: len(lx)}
 
 	for i, name := range covNames {
@@ -256,12 +268,14 @@ func analyze(in Input, cfg Config) report.Study {
 
 	inf := stats.Influence(x, y)
 	flags := findings.FlagPoints(inf.Leverage, inf.StudentizedExt, inf.CooksD, inf.SoleSupport, cfg.Thresholds)
+	wg.Wait()
+	s.Kendall = &side.kendall
+	s.Diagnostics.DistanceCorr, s.Diagnostics.Resistant = side.dcor, side.resistant
 	s.Influence, s.Sensitivity = influence(x, y, cc.rows, inf, flags, conf, s.Diagnostics.Resistant, pc, line)
 
-	s.UnitInvariance = unitInvariance(in, x, y, pc.R, line)
+	s.UnitInvariance = unitInvariance(in, ps.X, ps.Y, pc.R, line)
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
 	s.Plot = plotData(x, y, cc, line, s.Influence, lx, ly, conf, cfg)
-	xOrderFigures(s.Diagnostics, x, line.Residuals)
 	lowessExtremes(s.Diagnostics.Lowess, s.Plot.Lowess)
 	emptyLists(&s)
 	return s
@@ -478,7 +492,7 @@ func completeCases(in Input, covNames []string) cases {
 // string and sliced from it, so a million rows cost one allocation.
 func rowNames(rows []string, idx []int) []string {
 	out := make([]string, len(idx))
-	var buf []byte
+	buf := make([]byte, 0, 8*len(idx)) // room for numbers up to 10⁷
 	ends := make([]int, len(idx))
 	for j, i := range idx {
 		if rows == nil || rows[i] == "" {

@@ -5,19 +5,17 @@ package analysis
 // here so results.json carries every number a verdict rests on.
 
 import (
-	"cmp"
 	"math"
-	"slices"
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 )
 
 // maxXOrderRows is the most rows the x-order figures use; above it they
-// take every k-th row in data order, k = ⌈n/maxXOrderRows⌉. That keeps
-// their cost bounded (a sort of at most this many rows) while a pattern
-// along x stays as visible as in the LOWESS curve, fitted to a sample of
-// the same size (Config.LowessMaxN's default).
+// take every k-th pair in x order, k = ⌈n/maxXOrderRows⌉. That keeps the
+// Spearman coefficient's cost bounded while a pattern along x stays as
+// visible as in the LOWESS curve, fitted to a sample of the same size
+// (Config.LowessMaxN's default).
 const maxXOrderRows = 20000
 
 // xOrderStep returns k for n rows.
@@ -26,46 +24,34 @@ func xOrderStep(n int) int {
 }
 
 // xOrderFigures sets d.DurbinWatsonX, d.DurbinWatsonXRows and d.SpreadRho
-// from the line's residuals e at x: on every k-th row (xOrderStep), the
-// Durbin–Watson statistic (stats.DurbinWatson) of the residuals sorted by
-// x, ties in data order, and Spearman's ρ (stats.Spearman) of |residual|
-// on x. Residuals of a correct straight line are close to independent in
-// any fixed order; in order of x they swing together when the line misses
-// a pattern that goes up and down. DurbinWatsonX is NaN below 8 rows (too
-// few for the statistic to say anything), SpreadRho below 3.
-func xOrderFigures(d *report.Diagnostics, x, e []float64) {
+// from the line's residuals e, given in the canonical order of ps (x
+// ascending, tied x in an order set by their y values, see stats.Sorted):
+// on every k-th pair in that order (xOrderStep), the Durbin–Watson
+// statistic (stats.DurbinWatson) of the residuals, and Spearman's ρ
+// (stats.Spearman) of |residual| on x. Residuals of a correct straight line
+// are close to independent in any fixed order; in order of x they swing
+// together when the line misses a pattern that goes up and down.
+// DurbinWatsonX is NaN below 8 rows (too few for the statistic to say
+// anything), SpreadRho below 3.
+func xOrderFigures(d *report.Diagnostics, ps *stats.Sorted, e []float64) {
 	d.DurbinWatsonX, d.SpreadRho = report.NaN(), report.NaN()
-	if len(x) != len(e) {
+	if ps.Len() != len(e) {
 		return
 	}
-	step := xOrderStep(len(x))
-	type xe struct {
-		x, e float64
-		i    int
+	step := xOrderStep(len(e))
+	n := (len(e) + step - 1) / step
+	xs, r, abs := make([]float64, n), make([]float64, n), make([]float64, n)
+	for j := range n {
+		k := j * step
+		xs[j], r[j], abs[j] = ps.X[k], e[k], math.Abs(e[k])
 	}
-	pts := make([]xe, 0, len(x)/step+1)
-	for i := 0; i < len(x); i += step {
-		pts = append(pts, xe{x[i], e[i], i})
-	}
-	n := len(pts)
 	d.DurbinWatsonXRows = n
 	if n >= 3 {
-		xs, abs := make([]float64, n), make([]float64, n)
-		for k, p := range pts {
-			xs[k], abs[k] = p.x, math.Abs(p.e)
-		}
 		rho, _ := stats.Spearman(xs, abs)
 		d.SpreadRho = report.Float(rho)
 	}
 	if n < 8 {
 		return
-	}
-	// pdqsort on (x, data position): ties keep data order, as a stable
-	// sort would, at a third of the cost.
-	slices.SortFunc(pts, func(a, b xe) int { return cmp.Or(cmp.Compare(a.x, b.x), cmp.Compare(a.i, b.i)) })
-	r := make([]float64, n)
-	for k, p := range pts {
-		r[k] = p.e
 	}
 	d.DurbinWatsonX = report.Float(stats.DurbinWatson(r))
 }

@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"sync"
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
@@ -99,15 +100,14 @@ func logModels(x, y []float64, conf float64) []report.Fit {
 	return out
 }
 
-// diagnostics runs the tests of form, spread and order on the pairs ps,
+// diagnostics runs the tests of form, spread and order on the pairs ps
+// (the quadratic's p, the distance correlation and the resistant line come
+// from sideStatistics),
 // line being the straight line fitted to ps.X, ps.Y (its residuals in
 // canonical order). order holds the run order of each complete case in data
 // order, or nil: then the data order is the run order.
-func diagnostics(id string, ps *stats.Sorted, line stats.LineFit, quad *stats.Regression, order []float64, cfg Config) *report.Diagnostics {
+func diagnostics(ps *stats.Sorted, line stats.LineFit, order []float64) *report.Diagnostics {
 	d := &report.Diagnostics{QuadraticP: report.NaN(), DurbinWatson: report.NaN()}
-	if quad != nil {
-		d.QuadraticP = report.Float(quad.Coef[2].P)
-	}
 	// The lack-of-fit test needs settings that were repeated on purpose.
 	// Where x is continuous, a few values repeat only by rounding, and a
 	// test with a handful of pure-error degrees of freedom against a
@@ -138,26 +138,47 @@ func diagnostics(id string, ps *stats.Sorted, line stats.LineFit, quad *stats.Re
 }
 
 // sideStats are the statistics that need only the sorted pairs and cost
-// the most at large n: Analyze runs them on a second goroutine.
+// the most at large n: Analyze runs them beside its other work
+// (sideStatistics).
 type sideStats struct {
 	kendall   report.Kendall
 	dcor      *report.DistanceCorr
 	resistant *report.Resistant
+	quad      *stats.Regression // the quadratic fit, nil when it could not be fitted or n < 4
+	models    []report.Fit      // the quadratic (when fitted) and logModels, in that order
 }
 
-// sideStatistics computes Kendall's τ-b, the distance-correlation test
-// and the Theil–Sen line of ps, each on its own random source, so the
-// numbers are the same whichever goroutine runs them and when.
-func sideStatistics(id string, ps *stats.Sorted, cfg Config) sideStats {
-	var out sideStats
-	tau, ptau := ps.KendallTauB()
-	out.kendall = report.Kendall{TauB: report.Float(tau), P: report.Float(ptau)}
-	dc, p, used, method := ps.DistanceCorrTest(cfg.DcorPerms, cfg.DcorMaxN, source(cfg.Seed, id, "dcor"))
-	out.dcor = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: cfg.DcorPerms,
-		Sampled: used, Method: method}
-	slope, icpt, method := stats.TheilSen(ps.X, ps.Y, cfg.TheilSenMaxExact, source(cfg.Seed, id, "theil-sen"))
-	out.resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
-	return out
+// sideStatistics starts, on wg, goroutines that fill out with Kendall's
+// τ-b and the distance-correlation test (one), the Theil–Sen line (another)
+// and the quadratic and log models (a third) of ps. Each statistic is
+// computed sequentially on its own, with its own random source, so the
+// numbers are the same whichever goroutine runs them and when. The caller
+// reads out after wg.Wait.
+func sideStatistics(wg *sync.WaitGroup, out *sideStats, id string, ps *stats.Sorted, conf float64, cfg Config) {
+	wg.Go(func() {
+		tau, ptau := ps.KendallTauB()
+		out.kendall = report.Kendall{TauB: report.Float(tau), P: report.Float(ptau)}
+		dc, p, used, method := ps.DistanceCorrTest(cfg.DcorPerms, cfg.DcorMaxN, source(cfg.Seed, id, "dcor"))
+		out.dcor = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: cfg.DcorPerms,
+			Sampled: used, Method: method}
+	})
+	wg.Go(func() {
+		slope, icpt, method := stats.TheilSen(ps.X, ps.Y, cfg.TheilSenMaxExact, source(cfg.Seed, id, "theil-sen"))
+		out.resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
+	})
+	wg.Go(func() {
+		if ps.Len() >= 4 {
+			if q, err := stats.Polynomial(ps.X, ps.Y, 2, conf); err == nil && len(q.Coef) == 3 {
+				out.quad = &q
+				f := regFit("quadratic", "y = b0 + b1·x + b2·x²", []string{"intercept", "x", "x^2"}, q)
+				if b2 := q.Coef[2].Estimate; b2 != 0 {
+					f.Vertex = report.Float(-q.Coef[1].Estimate / (2 * b2))
+				}
+				out.models = append(out.models, f)
+			}
+		}
+		out.models = append(out.models, logModels(ps.X, ps.Y, conf)...)
+	})
 }
 
 // lowessDelta is the smoother's interpolation distance: 0 (a local fit at

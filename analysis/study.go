@@ -209,12 +209,13 @@ func analyze(in Input, cfg Config) report.Study {
 	// order in the file. Its residuals are returned to data order for the
 	// influence figures and the plot.
 	ps := stats.NewSorted(x, y)
-	// Kendall's τ-b, the distance-correlation test and the Theil–Sen line
-	// read only ps: they run on a second core while this one goes on.
+	// Kendall's τ-b, the distance-correlation test, the Theil–Sen line and
+	// the other models read only ps: they run on other goroutines while
+	// this one goes on.
 	var side sideStats
 	var wg sync.WaitGroup
-	wg.Go(func() { side = sideStatistics(in.ID, ps, cfg) })
-	defer wg.Wait() // a study that fails below returns after it
+	sideStatistics(&wg, &side, in.ID, ps, conf, cfg)
+	defer wg.Wait() // a study that fails below returns after them
 	m := stats.CentredMoments(ps.X, ps.Y)
 	s.Moments = &report.Moments{N: m.N, MeanX: report.Float(m.MeanX), MeanY: report.Float(m.MeanY),
 		Sxx: report.Float(m.Sxx), Syy: report.Float(m.Syy), Sxy: report.Float(m.Sxy)}
@@ -234,24 +235,11 @@ func analyze(in Input, cfg Config) report.Study {
 	lf := lineFit(line)
 	s.Line = &lf
 
-	var quad *stats.Regression
-	if s.N >= 4 {
-		if q, err := stats.Polynomial(ps.X, ps.Y, 2, conf); err == nil && len(q.Coef) == 3 {
-			quad = &q
-			f := regFit("quadratic", "y = b0 + b1·x + b2·x²", []string{"intercept", "x", "x^2"}, q)
-			if b2 := q.Coef[2].Estimate; b2 != 0 {
-				f.Vertex = report.Float(-q.Coef[1].Estimate / (2 * b2))
-			}
-			s.Models = append(s.Models, f)
-		}
-	}
-	s.Models = append(s.Models, logModels(ps.X, ps.Y, conf)...)
-
 	var order []float64
 	if in.Order != nil {
 		order = cc.order
 	}
-	s.Diagnostics = diagnostics(in.ID, ps, line, quad, order, cfg)
+	s.Diagnostics = diagnostics(ps, line, order)
 	xOrderFigures(s.Diagnostics, ps, line.Residuals)
 	line.Fitted, line.Residuals = ps.ToRows(line.Fitted), ps.ToRows(line.Residuals)
 	lx, ly := ps.Sample(cfg.LowessMaxN, source(cfg.Seed, in.ID, "lowess"))
@@ -270,6 +258,10 @@ func analyze(in Input, cfg Config) report.Study {
 	flags := findings.FlagPoints(inf.Leverage, inf.StudentizedExt, inf.CooksD, inf.SoleSupport, cfg.Thresholds)
 	wg.Wait()
 	s.Kendall = &side.kendall
+	s.Models = side.models
+	if side.quad != nil {
+		s.Diagnostics.QuadraticP = report.Float(side.quad.Coef[2].P)
+	}
 	s.Diagnostics.DistanceCorr, s.Diagnostics.Resistant = side.dcor, side.resistant
 	s.Influence, s.Sensitivity = influence(x, y, cc.rows, inf, flags, conf, s.Diagnostics.Resistant, pc, line)
 

@@ -174,20 +174,19 @@ func dcorCanonical(x, y []float64, byY []int32) float64 {
 	if !(sdx > 0) || !(sdy > 0) || math.IsInf(sdx, 0) || math.IsInf(sdy, 0) || math.IsNaN(mx) || math.IsNaN(my) {
 		return math.NaN()
 	}
-	sx := func(v float64) float64 { return (v - mx) / sdx }
-	sy := func(v float64) float64 { return (v - my) / sdy }
-	// Σ(v_i − v̄)² of the standardised values, for the self terms.
-	ssStd := func(v []float64, st func(float64) float64) float64 {
+	// Standardised values (v − mean)/sd are formed where they are read.
+	// Σ(v_i − v̄)² of the standardised values, for the self terms:
+	ssStd := func(v []float64, m, sd float64) float64 {
 		var sum float64
 		for _, e := range v {
-			sum += st(e)
+			sum += (e - m) / sd
 		}
 		hi := sum / nf
 		var c, q ksum
 		for lo := 0; lo < n; lo += sumBlock {
 			var bc, bq float64
 			for _, e := range v[lo:min(lo+sumBlock, n)] {
-				d := st(e) - hi
+				d := (e-m)/sd - hi
 				bc += d
 				bq += d * d
 			}
@@ -201,14 +200,14 @@ func dcorCanonical(x, y []float64, byY []int32) float64 {
 	// Row sums of y and the dense ranks of y, in y order.
 	var allY float64
 	for _, v := range y {
-		allY += sy(v)
+		allY += (v - my) / sdy
 	}
 	by := make([]float64, n)
 	rank := make([]int32, n)
 	var before float64
 	r := int32(0)
 	for j, k := range byY {
-		v := sy(y[k])
+		v := (y[k] - my) / sdy
 		if j == 0 || y[k] != y[byY[j-1]] {
 			r++
 		}
@@ -228,14 +227,14 @@ func dcorCanonical(x, y []float64, byY []int32) float64 {
 	// sweep of crossTerm.
 	var allX float64
 	for _, v := range x {
-		allX += sx(v)
+		allX += (v - mx) / sdx
 	}
 	t := make([]float64, 4*(nRanks+1))
 	var totC, totX, totY, totXY float64
 	var sab, axx, s2x, s2 float64
 	before = 0
 	for k := range x {
-		xi, yi := sx(x[k]), sy(y[k])
+		xi, yi := (x[k]-mx)/sdx, (y[k]-my)/sdy
 		after := allX - before - xi
 		ax := (float64(k)*xi - before) + (after - float64(n-k-1)*xi)
 		before += xi
@@ -262,8 +261,8 @@ func dcorCanonical(x, y []float64, byY []int32) float64 {
 		totY += yi
 		totXY += xi * yi
 	}
-	vx := 2*nf*ssStd(x, sx) - 2*s2x/nf + axx*axx/(nf*nf)
-	vy := 2*nf*ssStd(y, sy) - 2*s2y/nf + byy*byy/(nf*nf)
+	vx := 2*nf*ssStd(x, mx, sdx) - 2*s2x/nf + axx*axx/(nf*nf)
+	vy := 2*nf*ssStd(y, my, sdy) - 2*s2y/nf + byy*byy/(nf*nf)
 	if !(vx > 0) || !(vy > 0) {
 		return math.NaN()
 	}

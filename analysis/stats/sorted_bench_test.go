@@ -1,0 +1,59 @@
+package stats
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+// studyBenchData returns n seeded pairs like analysis's BenchmarkAnalyze:
+// x ~ N(5, 2), y = 3 + 0.5·x + 0.01·(x − 5)² + N(0, 1), rounded to 3
+// decimals.
+func studyBenchData(n int) (x, y []float64) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	x, y = make([]float64, n), make([]float64, n)
+	for i := range x {
+		xi := 5 + 2*rng.NormFloat64()
+		x[i] = math.Round(xi*1000) / 1000
+		y[i] = math.Round((3+0.5*xi+0.01*(xi-5)*(xi-5)+rng.NormFloat64())*1000) / 1000
+	}
+	return x, y
+}
+
+// BenchmarkStudyStats1e6 times, at 10⁶ pairs, each order-based statistic
+// of a study as the functions on unsorted columns compute it ("columns/…",
+// each sorting on its own) and from one Sorted ("sorted/…", whose own cost
+// is "sorted/NewSorted").
+func BenchmarkStudyStats1e6(b *testing.B) {
+	x, y := studyBenchData(1_000_000)
+	s := NewSorted(x, y)
+	line, _ := Line(s.X, s.Y, 0.95)
+	src := func() rand.Source { return rand.NewPCG(1, 2) }
+	for _, c := range []struct {
+		name string
+		f    func()
+	}{
+		{"columns/Describe", func() { Describe(x); Describe(y) }},
+		{"columns/Spearman", func() { Spearman(x, y) }},
+		{"columns/KendallTauB", func() { KendallTauB(x, y) }},
+		{"columns/LackOfFit", func() { LackOfFit(x, y) }},
+		{"columns/DistanceCorrTest", func() { DistanceCorrTest(x, y, 199, 0, src()) }},
+		{"columns/TheilSen", func() { TheilSen(x, y, 0, src()) }},
+		{"sorted/NewSorted", func() { NewSorted(x, y) }},
+		{"sorted/Describe", func() { s.Describe() }},
+		{"sorted/Spearman", func() { s.Spearman() }},
+		{"sorted/KendallTauB", func() { s.KendallTauB() }},
+		{"sorted/LackOfFit", func() { s.LackOfFit(line.Slope.Estimate) }},
+		{"sorted/DistanceCorrTest", func() { s.DistanceCorrTest(199, 0, src()) }},
+		{"sorted/TheilSen", func() { TheilSen(s.X, s.Y, 0, src()) }},
+		{"sorted/Sample", func() { s.Sample(20000, src()) }},
+		{"sorted/ToRows", func() { s.ToRows(s.X) }},
+	} {
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				c.f()
+			}
+		})
+	}
+}

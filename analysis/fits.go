@@ -141,6 +141,7 @@ func diagnostics(ps *stats.Sorted, line stats.LineFit, order []float64) *report.
 // the most at large n: Analyze runs them beside its other work
 // (sideStatistics).
 type sideStats struct {
+	spearman  report.Spearman
 	kendall   report.Kendall
 	dcor      *report.DistanceCorr
 	resistant *report.Resistant
@@ -149,8 +150,9 @@ type sideStats struct {
 }
 
 // sideStatistics starts, on wg, goroutines that fill out with Kendall's
-// τ-b and the distance-correlation test (one), the Theil–Sen line (another)
-// and the quadratic and log models (a third) of ps. Each statistic is
+// τ-b and the distance-correlation test (one), Spearman's ρ and the
+// Theil–Sen line (another) and the quadratic and log models (a third) of
+// ps. Each statistic is
 // computed sequentially on its own, with its own random source, so the
 // numbers are the same whichever goroutine runs them and when. The caller
 // reads out after wg.Wait.
@@ -163,6 +165,8 @@ func sideStatistics(wg *sync.WaitGroup, out *sideStats, id string, ps *stats.Sor
 			Sampled: used, Method: method}
 	})
 	wg.Go(func() {
+		rho, prho := ps.Spearman()
+		out.spearman = report.Spearman{Rho: report.Float(rho), P: report.Float(prho)}
 		slope, icpt, method := stats.TheilSen(ps.X, ps.Y, cfg.TheilSenMaxExact, source(cfg.Seed, id, "theil-sen"))
 		out.resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
 	})

@@ -206,12 +206,12 @@ func analyze(in Input, cfg Config) report.Study {
 	// The pairs in one canonical order (stats.Sorted), shared by every
 	// statistic that needs an order; the statistics of x and y alone are
 	// computed from it, so they depend on the set of rows, not on their
-	// order in the file. Its residuals are returned to data order for the
-	// influence figures and the plot.
+	// order in the file. The line's fitted values and residuals are
+	// returned to data order for the influence figures and the plot.
 	ps := stats.NewSorted(x, y)
-	// Kendall's τ-b, the distance-correlation test, the Theil–Sen line and
-	// the other models read only ps: they run on other goroutines while
-	// this one goes on.
+	// The rank correlations, the distance-correlation test, the Theil–Sen
+	// line, the other models and (below) the diagnostics read only ps and
+	// the line: they run on other goroutines while this one goes on.
 	var side sideStats
 	var wg sync.WaitGroup
 	sideStatistics(&wg, &side, in.ID, ps, conf, cfg)
@@ -225,8 +225,6 @@ func analyze(in Input, cfg Config) report.Study {
 	pc := stats.Pearson(ps.X, ps.Y, conf)
 	s.Pearson = &report.Pearson{R: report.Float(pc.R), R2: report.Float(pc.R2), CILow: report.Float(pc.CILow),
 		CIHigh: report.Float(pc.CIHigh), T: report.Float(pc.T), DF: pc.DF, P: report.Float(pc.P), PAdjusted: report.Float(pc.P)}
-	rho, prho := ps.Spearman()
-	s.Spearman = &report.Spearman{Rho: report.Float(rho), P: report.Float(prho)}
 
 	line, err := stats.Line(ps.X, ps.Y, conf)
 	if err != nil {
@@ -239,11 +237,14 @@ func analyze(in Input, cfg Config) report.Study {
 	if in.Order != nil {
 		order = cc.order
 	}
-	s.Diagnostics = diagnostics(ps, line, order)
-	xOrderFigures(s.Diagnostics, ps, line.Residuals)
+	var diag *report.Diagnostics
+	canonical := line // residuals in canonical order; ToRows below makes new slices
+	wg.Go(func() {
+		diag = diagnostics(ps, canonical, order)
+		xOrderFigures(diag, ps, canonical.Residuals)
+	})
 	line.Fitted, line.Residuals = ps.ToRows(line.Fitted), ps.ToRows(line.Residuals)
 	lx, ly := ps.Sample(cfg.LowessMaxN, source(cfg.Seed, in.ID, "lowess"))
-	s.Diagnostics.Lowess = &report.LowessInfo{Frac: cfg.LowessFrac, Iterations: cfg.LowessIter, Delta: lowessDelta(lx), Sampled: len(lx)}
 
 	for i, name := range covNames {
 		r, lo, hi, p := stats.PartialCorrelation(x, y, cc.cov[i], conf)
@@ -257,7 +258,9 @@ func analyze(in Input, cfg Config) report.Study {
 	inf := stats.Influence(x, y)
 	flags := findings.FlagPoints(inf.Leverage, inf.StudentizedExt, inf.CooksD, inf.SoleSupport, cfg.Thresholds)
 	wg.Wait()
-	s.Kendall = &side.kendall
+	s.Diagnostics = diag
+	s.Diagnostics.Lowess = &report.LowessInfo{Frac: cfg.LowessFrac, Iterations: cfg.LowessIter, Delta: lowessDelta(lx), Sampled: len(lx)}
+	s.Spearman, s.Kendall = &side.spearman, &side.kendall
 	s.Models = side.models
 	if side.quad != nil {
 		s.Diagnostics.QuadraticP = report.Float(side.quad.Coef[2].P)

@@ -100,12 +100,12 @@ func logModels(x, y []float64, conf float64) []report.Fit {
 	return out
 }
 
-// diagnostics runs the tests of form, spread and order on the pairs ps
-// (the quadratic's p, the distance correlation and the resistant line come
-// from sideStatistics),
+// diagnostics runs the tests of form, spread and order on the pairs ps,
 // line being the straight line fitted to ps.X, ps.Y (its residuals in
-// canonical order). order holds the run order of each complete case in data
-// order, or nil: then the data order is the run order.
+// canonical order); the quadratic's p, the distance correlation and the
+// resistant line come from sideStatistics. order holds the run order of
+// each complete case in data order, or nil: then the data order is the run
+// order.
 func diagnostics(ps *stats.Sorted, line stats.LineFit, order []float64) *report.Diagnostics {
 	d := &report.Diagnostics{QuadraticP: report.NaN(), DurbinWatson: report.NaN()}
 	// The lack-of-fit test needs settings that were repeated on purpose.
@@ -137,9 +137,8 @@ func diagnostics(ps *stats.Sorted, line stats.LineFit, order []float64) *report.
 	return d
 }
 
-// sideStats are the statistics that need only the sorted pairs and cost
-// the most at large n: Analyze runs them beside its other work
-// (sideStatistics).
+// sideStats are statistics that need only the sorted pairs: Analyze runs
+// them beside its other work (sideStatistics).
 type sideStats struct {
 	spearman  report.Spearman
 	kendall   report.Kendall
@@ -152,10 +151,9 @@ type sideStats struct {
 // sideStatistics starts, on wg, goroutines that fill out with Kendall's
 // τ-b and the distance-correlation test (one), Spearman's ρ and the
 // Theil–Sen line (another) and the quadratic and log models (a third) of
-// ps. Each statistic is
-// computed sequentially on its own, with its own random source, so the
-// numbers are the same whichever goroutine runs them and when. The caller
-// reads out after wg.Wait.
+// ps. Each statistic is computed sequentially on its own, with its own
+// random source, so the numbers are the same whichever goroutine runs them
+// and when. The caller reads out after wg.Wait.
 func sideStatistics(wg *sync.WaitGroup, out *sideStats, id string, ps *stats.Sorted, conf float64, cfg Config) {
 	wg.Go(func() {
 		tau, ptau := ps.KendallTauB()

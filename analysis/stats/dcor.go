@@ -102,6 +102,7 @@ func DistanceCorrTest(x, y []float64, perms, maxN int, src rand.Source) (dcor, p
 		src = rand.NewPCG(1, 2)
 	}
 	rng := rand.New(src)
+	d, used := full, n
 	if n > maxN {
 		// Partial Fisher–Yates shuffle: the first maxN indices are a simple
 		// random sample without replacement.
@@ -117,10 +118,10 @@ func DistanceCorrTest(x, y []float64, perms, maxN int, src rand.Source) (dcor, p
 		for i, k := range idx[:maxN] {
 			xs[i], ys[i] = x[k], y[k]
 		}
-		x, y = xs, ys
+		d, used = newDcorData(xs, ys), maxN
 	}
-	p, note := dcorPermP(x, y, perms, rng, n)
-	return dcor, p, len(x), method + note
+	p, note := dcorPermP(d, used, n, perms, rng)
+	return dcor, p, used, method + note
 }
 
 // dcorMethod is the method text of DistanceCorrTest for n rows.
@@ -129,15 +130,14 @@ func dcorMethod(n int) string {
 }
 
 // dcorPermP returns the p of the permutation test of DistanceCorrTest on
-// the pairs x, y (all n rows, or a sample of them), the permutations drawn
-// from rng, and the note that the method text gets.
-func dcorPermP(x, y []float64, perms int, rng *rand.Rand, n int) (p float64, note string) {
-	used := len(x)
+// d, the used pairs of n (all, or a sample; d nil when a column of the
+// sample is constant), the permutations drawn from rng, and the note that
+// the method text gets.
+func dcorPermP(d *dcorData, used, n, perms int, rng *rand.Rand) (p float64, note string) {
 	sample := ""
 	if used < n {
 		sample = fmt.Sprintf(" of a seeded random sample of %d rows", used)
 	}
-	d := newDcorData(x, y)
 	if d == nil {
 		return math.NaN(), fmt.Sprintf("; the random sample of %d rows has a constant column, no permutation test", used)
 	}

@@ -252,7 +252,7 @@ func (s *Sorted) DistanceCorrTest(perms, maxN int, src rand.Source) (dcor, p flo
 	if n > maxN {
 		x, y = s.sample(maxN, rng)
 	}
-	p, note := dcorPermP(x, y, perms, rng, n)
+	p, note := dcorPermP(newDcorData(x, y), len(x), n, perms, rng)
 	return dcor, p, len(x), method + note
 }
 

@@ -7,14 +7,15 @@ package analysis
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"slices"
+	"sync"
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 )
 
-func describe(v []float64) report.Describe {
-	d := stats.Describe(v)
+func describe(d stats.Summary) report.Describe {
 	return report.Describe{N: d.N, Mean: report.Float(d.Mean), SD: report.Float(d.SD), Min: report.Float(d.Min),
 		Q1: report.Float(d.Q1), Median: report.Float(d.Median), Q3: report.Float(d.Q3), Max: report.Float(d.Max)}
 }
@@ -100,20 +101,20 @@ func logModels(x, y []float64, conf float64) []report.Fit {
 	return out
 }
 
-// diagnostics runs the tests of form, spread and order. order holds the
-// run order of each complete case, or nil.
-func diagnostics(id string, x, y []float64, line stats.LineFit, quad *stats.Regression, order []float64, cfg Config) *report.Diagnostics {
+// diagnostics computes the tests of form, spread and order of the line
+// fitted to x and y (data order; ps holds the same pairs in canonical
+// order). line's fitted values and residuals are in data order; order is
+// the run order per row, nil when the study has none. The quadratic's p,
+// Theil–Sen and LOWESS are set by Analyze from the side statistics.
+func diagnostics(x, y []float64, ps *stats.Sorted, line stats.LineFit, order []float64, cfg Config) *report.Diagnostics {
 	d := &report.Diagnostics{QuadraticP: report.NaN(), DurbinWatson: report.NaN()}
-	if quad != nil {
-		d.QuadraticP = report.Float(quad.Coef[2].P)
-	}
 	// The lack-of-fit test needs settings that were repeated on purpose.
 	// Where x is continuous, a few values repeat only by rounding, and a
 	// test with a handful of pure-error degrees of freedom against a
 	// hundred levels says little. So it is reported only when the levels
 	// of x are at most half the rows (each level holds two rows on
 	// average); levels = df1 + 2.
-	if f, df1, df2, p, ok := stats.LackOfFit(x, y); ok && 2*(df1+2) <= len(x) {
+	if f, df1, df2, p, ok := ps.LackOfFit(line.Slope.Estimate); ok && 2*(df1+2) <= ps.Len() {
 		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(p)}
 	}
 	dc, p, mcse, perms, used, resolved, method := dcorTest(x, y, cfg.Alpha, cfg.DcorPerms, cfg.DcorMaxN)
@@ -133,10 +134,54 @@ func diagnostics(id string, x, y []float64, line stats.LineFit, quad *stats.Regr
 	} else {
 		d.DurbinWatson = report.Float(stats.DurbinWatson(resid))
 	}
-
-	slope, icpt, method := stats.TheilSen(x, y, cfg.TheilSenMaxExact, source(cfg.Seed, id, "theil-sen"))
-	d.Resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
+	xOrderFigures(d, x, resid)
 	return d
+}
+
+// sideStats are statistics that need only the sorted pairs: Analyze runs
+// them beside its other work (sideStatistics).
+type sideStats struct {
+	spearman  report.Spearman
+	kendall   report.Kendall
+	resistant *report.Resistant
+	quad      *stats.Regression
+	models    []report.Fit
+}
+
+// sideStatistics starts, on wg, goroutines that fill out with Kendall's
+// τ-b, Spearman's ρ with the Theil–Sen line, and the quadratic and log
+// models, all from the canonical order ps.
+func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, conf float64, cfg Config) {
+	wg.Go(func() {
+		tau, ptau := ps.KendallTauB()
+		out.kendall = report.Kendall{TauB: report.Float(tau), P: report.Float(ptau)}
+	})
+	wg.Go(func() {
+		rho, prho := ps.Spearman()
+		out.spearman = report.Spearman{Rho: report.Float(rho), P: report.Float(prho)}
+		// Theil–Sen samples pairs above its exact bound from a stream
+		// seeded by the rows themselves, over the canonical order: the
+		// same set of rows gives the same line.
+		src := rand.Source(rand.NewPCG(0, 0)) // unused by the exact method
+		if ps.Len() > cfg.TheilSenMaxExact {
+			src = rowSource(ps.X, ps.Y, "theil-sen")
+		}
+		slope, icpt, method := stats.TheilSen(ps.X, ps.Y, cfg.TheilSenMaxExact, src)
+		out.resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
+	})
+	wg.Go(func() {
+		if ps.Len() >= 4 {
+			if q, err := stats.Polynomial(ps.X, ps.Y, 2, conf); err == nil && len(q.Coef) == 3 {
+				out.quad = &q
+				f := regFit("quadratic", "y = b0 + b1·x + b2·x²", []string{"intercept", "x", "x^2"}, q)
+				if b2 := q.Coef[2].Estimate; b2 != 0 {
+					f.Vertex = report.Float(-q.Coef[1].Estimate / (2 * b2))
+				}
+				out.models = append(out.models, f)
+			}
+		}
+		out.models = append(out.models, logModels(ps.X, ps.Y, conf)...)
+	})
 }
 
 // lowessDelta is the smoother's interpolation distance: 0 (a local fit at

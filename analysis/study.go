@@ -11,6 +11,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"sync"
 
 	"bivar/analysis/findings"
 	"bivar/analysis/manifest"
@@ -217,47 +218,47 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	conf := 1 - cfg.Alpha
 
-	m := stats.CentredMoments(x, y)
+	// The pairs in one canonical order (stats.Sorted), shared by every
+	// statistic that needs an order: the summaries of x and y, the ranks,
+	// Kendall's τ, lack of fit, Theil–Sen and the models read it, so they
+	// depend on the set of rows, not on their order in the file. The
+	// statistics that read only ps run on other goroutines while this one
+	// goes on; each is sequential with its own random source, so the
+	// results are those of a sequential run.
+	ps := stats.NewSorted(x, y)
+	var side sideStats
+	var wg sync.WaitGroup
+	sideStatistics(&wg, &side, ps, conf, cfg)
+	defer wg.Wait() // a study that fails below returns after them
+
+	m := stats.CentredMoments(ps.X, ps.Y)
 	s.Moments = &report.Moments{N: m.N, MeanX: report.Float(m.MeanX), MeanY: report.Float(m.MeanY),
 		Sxx: report.Float(m.Sxx), Syy: report.Float(m.Syy), Sxy: report.Float(m.Sxy)}
-	s.Describe = &report.DescribePair{X: describe(x), Y: describe(y)}
+	dx, dy := ps.Describe()
+	s.Describe = &report.DescribePair{X: describe(dx), Y: describe(dy)}
 
-	pc := stats.Pearson(x, y, conf)
+	pc := stats.Pearson(ps.X, ps.Y, conf)
 	s.Pearson = &report.Pearson{R: report.Float(pc.R), R2: report.Float(pc.R2), CILow: report.Float(pc.CILow),
 		CIHigh: report.Float(pc.CIHigh), T: report.Float(pc.T), DF: pc.DF, P: report.Float(pc.P), PAdjusted: report.Float(pc.P)}
-	rho, prho := stats.Spearman(x, y)
-	s.Spearman = &report.Spearman{Rho: report.Float(rho), P: report.Float(prho)}
-	tau, ptau := stats.KendallTauB(x, y)
-	s.Kendall = &report.Kendall{TauB: report.Float(tau), P: report.Float(ptau)}
 
-	line, err := stats.Line(x, y, conf)
+	line, err := stats.Line(ps.X, ps.Y, conf)
 	if err != nil {
 		return failed(s, fmt.Sprintf("the straight line could not be fitted: %v", err))
 	}
 	lf := lineFit(line)
 	s.Line = &lf
-
-	var quad *stats.Regression
-	if s.N >= 4 {
-		if q, err := stats.Polynomial(x, y, 2, conf); err == nil && len(q.Coef) == 3 {
-			quad = &q
-			f := regFit("quadratic", "y = b0 + b1·x + b2·x²", []string{"intercept", "x", "x^2"}, q)
-			if b2 := q.Coef[2].Estimate; b2 != 0 {
-				f.Vertex = report.Float(-q.Coef[1].Estimate / (2 * b2))
-			}
-			s.Models = append(s.Models, f)
-		}
-	}
-	s.Models = append(s.Models, logModels(x, y, conf)...)
+	// Fitted values and residuals back in data order, beside x, y and the
+	// run order.
+	line.Fitted, line.Residuals = ps.ToRows(line.Fitted), ps.ToRows(line.Residuals)
 
 	var order []float64
 	if in.Order != nil {
 		order = cc.order
 	}
-	s.Diagnostics = diagnostics(in.ID, x, y, line, quad, order, cfg)
+	var diag *report.Diagnostics
+	wg.Go(func() { diag = diagnostics(x, y, ps, line, order, cfg) })
 	s.Robust = robust(x, y, order, pc.R, conf)
 	lx, ly := canonical(x, y, cfg.LowessMaxN)
-	s.Diagnostics.Lowess = &report.LowessInfo{Frac: cfg.LowessFrac, Iterations: cfg.LowessIter, Delta: lowessDelta(lx), Sampled: len(lx)}
 
 	for i, name := range covNames {
 		r, lo, hi, p := stats.PartialCorrelation(x, y, cc.cov[i], conf)
@@ -269,15 +270,22 @@ func analyze(in Input, cfg Config) report.Study {
 		s.GroupLines = groupLines(x, y, cc.groups)
 	}
 
+	wg.Wait()
+	s.Diagnostics = diag
+	s.Spearman, s.Kendall, s.Models = &side.spearman, &side.kendall, side.models
+	s.Diagnostics.Resistant = side.resistant
+	if side.quad != nil {
+		s.Diagnostics.QuadraticP = report.Float(side.quad.Coef[2].P)
+	}
+	s.Diagnostics.Lowess = &report.LowessInfo{Frac: cfg.LowessFrac, Iterations: cfg.LowessIter, Delta: lowessDelta(lx), Sampled: len(lx)}
 	s.Influence, s.Sensitivity, s.FlaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, s.Diagnostics.Resistant, pc, line)
 	if s.FlaggedCSV != nil {
 		s.Influence.File = FlaggedFile(in.ID)
 	}
 
-	s.UnitInvariance = unitInvariance(in, x, y, pc.R, line)
+	s.UnitInvariance = unitInvariance(in, ps.X, ps.Y, pc.R, line)
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
 	s.Plot = plotData(x, y, cc, line, s.Influence, lx, ly, conf, cfg)
-	xOrderFigures(s.Diagnostics, x, line.Residuals)
 	lowessExtremes(s.Diagnostics.Lowess, s.Plot.Lowess)
 	emptyLists(&s)
 	return s

@@ -290,6 +290,12 @@ func KendallTauB(x, y []float64) (tau, p float64) {
 		ty.add(hi - lo)
 		lo = hi
 	}
+	return kendallFromCounts(n, swaps, tx, ty, txy)
+}
+
+// kendallFromCounts returns τ-b and its p (see KendallTauB) of n pairs with
+// swaps discordant pairs and the tie sums of x, of y and of joint ties.
+func kendallFromCounts(n int, swaps int64, tx, ty, txy tieSums) (tau, p float64) {
 	n0 := int64(n) * int64(n-1) / 2
 	s := n0 - tx.pairs - ty.pairs + txy.pairs - 2*swaps
 	den := math.Sqrt(float64(n0-tx.pairs) * float64(n0-ty.pairs))

@@ -86,7 +86,7 @@ func DistanceCorrTest(x, y []float64, perms, maxN int, src rand.Source) (dcor, p
 	}
 	n := len(x)
 	nan := math.NaN()
-	method = fmt.Sprintf("distance correlation, V-statistic, on all %d rows by the O(n log n) algorithm", n)
+	method = dcorMethod(n)
 	if n < 3 {
 		return nan, nan, n, method
 	}
@@ -102,9 +102,7 @@ func DistanceCorrTest(x, y []float64, perms, maxN int, src rand.Source) (dcor, p
 		src = rand.NewPCG(1, 2)
 	}
 	rng := rand.New(src)
-	d := full
-	used = n
-	sample := ""
+	d, used := full, n
 	if n > maxN {
 		// Partial Fisher–Yates shuffle: the first maxN indices are a simple
 		// random sample without replacement.
@@ -120,12 +118,28 @@ func DistanceCorrTest(x, y []float64, perms, maxN int, src rand.Source) (dcor, p
 		for i, k := range idx[:maxN] {
 			xs[i], ys[i] = x[k], y[k]
 		}
-		used = maxN
-		d = newDcorData(xs, ys)
-		if d == nil {
-			return dcor, nan, used, method + fmt.Sprintf("; the random sample of %d rows has a constant column, no permutation test", maxN)
-		}
-		sample = fmt.Sprintf(" of a seeded random sample of %d rows", maxN)
+		d, used = newDcorData(xs, ys), maxN
+	}
+	p, note := dcorPermP(d, used, n, perms, rng)
+	return dcor, p, used, method + note
+}
+
+// dcorMethod is the method text of DistanceCorrTest for n rows.
+func dcorMethod(n int) string {
+	return fmt.Sprintf("distance correlation, V-statistic, on all %d rows by the O(n log n) algorithm", n)
+}
+
+// dcorPermP returns the p of the permutation test of DistanceCorrTest on
+// d, the used pairs of n (all, or a sample; d nil when a column of the
+// sample is constant), the permutations drawn from rng, and the note that
+// the method text gets.
+func dcorPermP(d *dcorData, used, n, perms int, rng *rand.Rand) (p float64, note string) {
+	sample := ""
+	if used < n {
+		sample = fmt.Sprintf(" of a seeded random sample of %d rows", used)
+	}
+	if d == nil {
+		return math.NaN(), fmt.Sprintf("; the random sample of %d rows has a constant column, no permutation test", used)
 	}
 	obs := d.crossTerm(nil)
 	tol := 1e-12 * math.Abs(obs)
@@ -140,9 +154,121 @@ func DistanceCorrTest(x, y []float64, perms, maxN int, src rand.Source) (dcor, p
 			ge++
 		}
 	}
-	p = float64(1+ge) / float64(perms+1)
-	method += fmt.Sprintf("; p from %d permutations%s", perms, sample)
-	return dcor, p, used, method
+	return float64(1+ge) / float64(perms+1), fmt.Sprintf("; p from %d permutations%s", perms, sample)
+}
+
+// dcorCanonical returns DistanceCorrelation of pairs sorted by x, byY the
+// positions in ascending y, by the algorithm of DistanceCorrelation without
+// its copies: the values are standardised as they are read, the row sums of
+// y are the one per-pair array of floats (with the int32 ranks of y), and
+// the row sums of x are formed in the same pass as the cross term.
+func dcorCanonical(x, y []float64, byY []int32) float64 {
+	n := len(x)
+	if n < 2 {
+		return math.NaN()
+	}
+	nf := float64(n)
+	mx, ssx := meanSS(x)
+	my, ssy := meanSS(y)
+	sdx, sdy := math.Sqrt(ssx/nf), math.Sqrt(ssy/nf)
+	if !(sdx > 0) || !(sdy > 0) || math.IsInf(sdx, 0) || math.IsInf(sdy, 0) || math.IsNaN(mx) || math.IsNaN(my) {
+		return math.NaN()
+	}
+	// Standardised values (v − mean)/sd are formed where they are read.
+	// Σ(v_i − v̄)² of the standardised values, for the self terms:
+	ssStd := func(v []float64, m, sd float64) float64 {
+		var sum float64
+		for _, e := range v {
+			sum += (e - m) / sd
+		}
+		hi := sum / nf
+		var c, q ksum
+		for lo := 0; lo < n; lo += sumBlock {
+			var bc, bq float64
+			for _, e := range v[lo:min(lo+sumBlock, n)] {
+				d := (e-m)/sd - hi
+				bc += d
+				bq += d * d
+			}
+			c.add(bc)
+			q.add(bq)
+		}
+		cs := c.value()
+		return q.value() - cs*cs/nf
+	}
+
+	// Row sums of y and the dense ranks of y, in y order.
+	var allY float64
+	for _, v := range y {
+		allY += (v - my) / sdy
+	}
+	by := make([]float64, n)
+	rank := make([]int32, n)
+	var before float64
+	r := int32(0)
+	for j, k := range byY {
+		v := (y[k] - my) / sdy
+		if j == 0 || y[k] != y[byY[j-1]] {
+			r++
+		}
+		rank[k] = r
+		after := allY - before - v
+		by[k] = (float64(j)*v - before) + (after - float64(n-j-1)*v)
+		before += v
+	}
+	var byy, s2y float64
+	for _, e := range by {
+		byy += e
+		s2y += e * e
+	}
+	nRanks := int(r)
+
+	// One pass in x order: the row sums of x, Σ a_i·b_i·, and the Fenwick
+	// sweep of crossTerm.
+	var allX float64
+	for _, v := range x {
+		allX += (v - mx) / sdx
+	}
+	t := make([]float64, 4*(nRanks+1))
+	var totC, totX, totY, totXY float64
+	var sab, axx, s2x, s2 float64
+	before = 0
+	for k := range x {
+		xi, yi := (x[k]-mx)/sdx, (y[k]-my)/sdy
+		after := allX - before - xi
+		ax := (float64(k)*xi - before) + (after - float64(n-k-1)*xi)
+		before += xi
+		axx += ax
+		s2x += ax * ax
+		s2 += ax * by[k]
+		q0 := int(rank[k])
+		var c, cx, cy, cxy float64
+		for q := q0 - 1; q > 0; q &= q - 1 {
+			c += t[4*q]
+			cx += t[4*q+1]
+			cy += t[4*q+2]
+			cxy += t[4*q+3]
+		}
+		sab += xi*yi*(2*c-totC) + (2*cxy - totXY) - xi*(2*cy-totY) - yi*(2*cx-totX)
+		for q := q0; q <= nRanks; q += q & -q {
+			t[4*q]++
+			t[4*q+1] += xi
+			t[4*q+2] += yi
+			t[4*q+3] += xi * yi
+		}
+		totC++
+		totX += xi
+		totY += yi
+		totXY += xi * yi
+	}
+	vx := 2*nf*ssStd(x, mx, sdx) - 2*s2x/nf + axx*axx/(nf*nf)
+	vy := 2*nf*ssStd(y, my, sdy) - 2*s2y/nf + byy*byy/(nf*nf)
+	if !(vx > 0) || !(vy > 0) {
+		return math.NaN()
+	}
+	cross := 2*sab - 2*s2/nf + axx*byy/(nf*nf)
+	d := dcorData{vx: vx, vy: vy}
+	return d.dcor(cross)
 }
 
 // dcorData holds what the distance covariance of one (x, y) sample needs

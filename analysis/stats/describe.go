@@ -75,20 +75,25 @@ func Quartiles(sorted []float64) (q1, median, q3 float64) {
 // 1 + (n−1)p, which is the default of R's quantile() and of NumPy. It
 // returns NaN for an empty slice or p outside [0, 1].
 func Quantile7(sorted []float64, p float64) float64 {
-	n := len(sorted)
+	return quantile7At(len(sorted), func(k int) float64 { return sorted[k] }, p)
+}
+
+// quantile7At is Quantile7 of n sorted values, the k-th smallest being at(k).
+func quantile7At(n int, at func(int) float64, p float64) float64 {
 	if n == 0 || !(p >= 0 && p <= 1) {
 		return math.NaN()
 	}
 	h := float64(n-1) * p
 	lo := int(math.Floor(h))
 	if lo >= n-1 {
-		return sorted[n-1]
+		return at(n - 1)
 	}
 	frac := h - float64(lo)
 	if frac == 0 {
-		return sorted[lo]
+		return at(lo)
 	}
-	return sorted[lo] + frac*(sorted[lo+1]-sorted[lo])
+	a, b := at(lo), at(lo+1)
+	return a + frac*(b-a)
 }
 
 // meanSS returns the mean and the centred sum of squares Σ(x−m)² of x by

@@ -43,38 +43,51 @@ func LackOfFit(x, y []float64) (f float64, df1, df2 int, p float64, ok bool) {
 	if err != nil {
 		return nan, 0, 0, nan, false
 	}
-	// Everything on the centred data, where the line is b1·(x − x̄):
-	// b0 + b1·x would cancel when x is far from 0 (x = 10⁹ + small lost 8
-	// digits of F), and deviations are formed from two-part means
-	// (meanParts) so that y far from 0 costs none either.
-	b1 := line.Slope.Estimate
+	// Everything on the centred data (lackOfFitSorted), where the line is
+	// b1·(x − x̄): b0 + b1·x would cancel when x is far from 0 (x = 10⁹ +
+	// small lost 8 digits of F), and deviations are formed from two-part
+	// means (meanParts) so that y far from 0 costs none either.
+	idx := stableArgsort(x)
+	xs, ys := make([]float64, n), make([]float64, n)
+	for k, i := range idx {
+		xs[k], ys[k] = x[i], y[i]
+	}
+	return lackOfFitSorted(xs, ys, line.Slope.Estimate)
+}
+
+// lackOfFitSorted is LackOfFit of pairs sorted by x, b1 the line's slope.
+func lackOfFitSorted(x, y []float64, b1 float64) (f float64, df1, df2 int, p float64, ok bool) {
+	nan := math.NaN()
+	n := len(x)
+	if n < 4 || math.IsNaN(b1) {
+		return nan, 0, 0, nan, false
+	}
 	hx, lx, _ := meanParts(x)
 	hy, ly, _ := meanParts(y)
-	idx := stableArgsort(x)
 	var ssPE, ssLOF float64
 	m := 0
 	for lo := 0; lo < n; {
 		hi := lo + 1
-		for hi < n && x[idx[hi]] == x[idx[lo]] {
+		for hi < n && x[hi] == x[lo] {
 			hi++
 		}
 		m++
 		// Mean of the group by the corrected two-pass method.
 		ng := float64(hi - lo)
 		var s float64
-		for _, i := range idx[lo:hi] {
-			s += (y[i] - hy) - ly
+		for _, v := range y[lo:hi] {
+			s += (v - hy) - ly
 		}
 		mean := s / ng
 		var c, q float64
-		for _, i := range idx[lo:hi] {
-			d := ((y[i] - hy) - ly) - mean
+		for _, v := range y[lo:hi] {
+			d := ((v - hy) - ly) - mean
 			c += d
 			q += d * d
 		}
 		mean += c / ng
 		ssPE += q - c*c/ng
-		d := mean - b1*((x[idx[lo]]-hx)-lx)
+		d := mean - b1*((x[lo]-hx)-lx)
 		ssLOF += ng * d * d
 		lo = hi
 	}

@@ -12,7 +12,10 @@
 // squares by Householder QR of the centred design: LeastSquares,
 // Polynomial, Line, intervals), influence.go (leverage, studentized
 // residuals, Cook's distance, DFFITS, leave-one-out fits in O(n)), and
-// sortkey.go (the O(n) radix sort behind ranks and quartiles). The fits
+// sortkey.go (the O(n) radix sort behind ranks and quartiles), and
+// sorted.go (Sorted: a study's pairs put in one canonical order once, which
+// the order-based statistics share, and from which every result depends on
+// the set of pairs only, not on the order the caller holds them in). The fits
 // return an error, not NaN, for data that cannot be fitted (too few rows, a
 // constant or collinear column, a non-finite value), so that the caller
 // can say why a fit is missing.

@@ -3,8 +3,8 @@ package stats
 // This file holds the O(n) sort that the rank methods and the quartiles
 // use: a least-significant-digit radix sort of float64 values mapped to
 // order-preserving unsigned keys. On 10⁶ values it is several times faster
-// than a comparison sort, which matters because Spearman, Kendall and
-// Describe each sort every column of every study.
+// than a comparison sort; NewSorted (sorted.go) sorts a study's pairs with
+// it once for every statistic that needs an order.
 
 import "math"
 

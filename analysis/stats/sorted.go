@@ -1,0 +1,324 @@
+package stats
+
+// This file holds Sorted: a pair of columns put in one canonical order once,
+// with the order of y beside it, so that the statistics that need an order
+// (quartiles, ranks, Kendall's τ-b, lack of fit, distance correlation,
+// samples for the smoother and the permutation test) share two radix sorts
+// instead of sorting on their own, and so that every result computed from it
+// depends on the set of pairs only, never on the order the caller held them
+// in: sums are taken in the canonical order, and seeded samples are drawn
+// from canonical positions.
+
+import (
+	"math"
+	"math/bits"
+	"math/rand/v2"
+)
+
+// Sorted is a set of (x, y) pairs in canonical order: ascending x, pairs of
+// equal x ordered by tieKey(y), a bijective scrambling of y's bits. Equal
+// pairs are adjacent. Tied x are thus in an order that depends on their y
+// values only, and carries no trend in y (as sorting ties by y would): the
+// residuals of tied x taken in that order are as good as shuffled, which the
+// Durbin–Watson statistic in x order and the smoother's neighbourhoods need.
+//
+// Build it with NewSorted; do not modify its slices.
+type Sorted struct {
+	X, Y []float64 // the pairs in canonical order
+	Row  []int32   // Row[k]: index in the caller's x and y of canonical pair k
+	ByY  []int32   // canonical positions in ascending y; tied y by canonical position (so by x)
+}
+
+// NewSorted returns the pairs (x[i], y[i]) in canonical order. Two stable
+// LSD radix sorts of the positions (sortkey.go: by tieKey(y), then by x) give
+// the canonical order, a third (by y) gives ByY: O(n) time; 24 bytes per
+// pair are kept and 20 more are scratch while it runs.
+//
+// x and y must have equal length and fewer than 2³¹ values (it panics
+// otherwise) and hold no NaN (the caller removes missing values first; the
+// methods' results are meaningless with NaN, as a NaN has no place in an
+// order).
+func NewSorted(x, y []float64) *Sorted {
+	if len(x) != len(y) {
+		panic("stats: NewSorted: x and y lengths differ")
+	}
+	checkIndexable("NewSorted", len(x))
+	n := len(x)
+	keys, kbuf := make([]uint64, n), make([]uint64, n)
+	row, ibuf := make([]int32, n), make([]int32, n)
+	for i, v := range y {
+		keys[i] = tieKey(v)
+		row[i] = int32(i)
+	}
+	radixSort(keys, row, kbuf, ibuf)
+	for k, i := range row {
+		keys[k] = floatKey(x[i])
+	}
+	radixSort(keys, row, kbuf, ibuf)
+	s := &Sorted{X: make([]float64, n), Y: make([]float64, n), Row: row, ByY: make([]int32, n)}
+	for k, i := range row {
+		s.X[k], s.Y[k] = x[i], y[i]
+	}
+	for k, v := range s.Y {
+		keys[k] = floatKey(v)
+		s.ByY[k] = int32(k)
+	}
+	radixSort(keys, s.ByY, kbuf, ibuf)
+	return s
+}
+
+// tieKey maps y to a 64-bit key by a bijection of floatKey(y), the
+// finaliser of SplitMix64 (Steele, Lea & Flood 2014, "Fast splittable
+// pseudorandom number generators", OOPSLA; each step, an xor-shift or a
+// multiplication by an odd constant, is invertible): equal y give equal
+// keys, different y different keys, in an order unrelated to y's.
+func tieKey(y float64) uint64 {
+	z := floatKey(y)
+	z = (z ^ (z >> 30)) * 0xbf58476d1ce4e5b9
+	z = (z ^ (z >> 27)) * 0x94d049bb133111eb
+	return z ^ (z >> 31)
+}
+
+// Len returns the number of pairs.
+func (s *Sorted) Len() int { return len(s.X) }
+
+// ToRows returns v, given in canonical order (len(v) = Len()), in the
+// caller's row order: out[Row[k]] = v[k].
+func (s *Sorted) ToRows(v []float64) []float64 {
+	if len(v) != len(s.Row) {
+		panic("stats: Sorted.ToRows: length differs")
+	}
+	out := make([]float64, len(v))
+	for k, i := range s.Row {
+		out[i] = v[k]
+	}
+	return out
+}
+
+// Describe returns the summaries of x and y as Describe gives them: the
+// mean and SD by the corrected two-pass sums taken in canonical order, the
+// quartiles (Quantile7) read from the sorted values without a copy.
+func (s *Sorted) Describe() (x, y Summary) {
+	yAt := func(k int) float64 { return s.Y[s.ByY[k]] }
+	return summarySorted(s.X, func(k int) float64 { return s.X[k] }), summarySorted(s.Y, yAt)
+}
+
+// summarySorted is Describe of v (no NaN) whose k-th smallest value is at(k).
+func summarySorted(v []float64, at func(int) float64) Summary {
+	n := len(v)
+	nan := math.NaN()
+	sm := Summary{N: n, Mean: nan, SD: nan, Min: nan, Q1: nan, Median: nan, Q3: nan, Max: nan}
+	if n == 0 {
+		return sm
+	}
+	m, ss := meanSS(v)
+	sm.Mean = m
+	if n > 1 {
+		sm.SD = math.Sqrt(ss / float64(n-1))
+	}
+	sm.Min, sm.Max = at(0), at(n-1)
+	sm.Q1, sm.Median, sm.Q3 = quantile7At(n, at, 0.25), quantile7At(n, at, 0.5), quantile7At(n, at, 0.75)
+	return sm
+}
+
+// ranks returns the average ranks (as Ranks) of X and of Y, both in
+// canonical order.
+func (s *Sorted) ranks() (rx, ry []float64) {
+	n := s.Len()
+	rx, ry = make([]float64, n), make([]float64, n)
+	for lo := 0; lo < n; {
+		hi := lo + 1
+		for hi < n && s.X[hi] == s.X[lo] {
+			hi++
+		}
+		avg := float64(lo+1+hi) / 2
+		for k := lo; k < hi; k++ {
+			rx[k] = avg
+		}
+		lo = hi
+	}
+	for lo := 0; lo < n; {
+		v := s.Y[s.ByY[lo]]
+		hi := lo + 1
+		for hi < n && s.Y[s.ByY[hi]] == v {
+			hi++
+		}
+		avg := float64(lo+1+hi) / 2
+		for _, k := range s.ByY[lo:hi] {
+			ry[k] = avg
+		}
+		lo = hi
+	}
+	return rx, ry
+}
+
+// Spearman returns Spearman's ρ and its p as Spearman does, from the ranks
+// in canonical order.
+func (s *Sorted) Spearman() (rho, p float64) {
+	if s.Len() < 2 {
+		return math.NaN(), math.NaN()
+	}
+	rx, ry := s.ranks()
+	m := CentredMoments(rx, ry)
+	rho = corrFromSums(m.Sxx, m.Syy, m.Sxy)
+	_, p = corrT(rho, s.Len())
+	return rho, p
+}
+
+// KendallTauB returns Kendall's τ-b and its p as KendallTauB does. Knight's
+// count is run with the roles of x and y exchanged (τ-b is symmetric): ByY
+// orders the pairs by (y, x), and the exchanges of a merge sort of the x
+// values in that order are the discordant pairs. Every count is an integer,
+// so the result is the same as KendallTauB's to the last bit.
+func (s *Sorted) KendallTauB() (tau, p float64) {
+	n := s.Len()
+	if n < 2 {
+		return math.NaN(), math.NaN()
+	}
+	xs := make([]uint64, n)
+	for j, k := range s.ByY {
+		xs[j] = floatKey(s.X[k])
+	}
+	var tx, ty, txy tieSums
+	for lo := 0; lo < n; {
+		hi := lo + 1
+		for hi < n && s.X[hi] == s.X[lo] {
+			hi++
+		}
+		tx.add(hi - lo)
+		lo = hi
+	}
+	for lo := 0; lo < n; {
+		v := s.Y[s.ByY[lo]]
+		hi := lo + 1
+		for hi < n && s.Y[s.ByY[hi]] == v {
+			hi++
+		}
+		ty.add(hi - lo)
+		for a := lo; a < hi; {
+			b := a + 1
+			for b < hi && xs[b] == xs[a] {
+				b++
+			}
+			txy.add(b - a)
+			a = b
+		}
+		lo = hi
+	}
+	swaps := mergeCount(xs, make([]uint64, n))
+	return kendallFromCounts(n, swaps, tx, ty, txy)
+}
+
+// LackOfFit returns the pure-error lack-of-fit test as LackOfFit does, with
+// the groups of equal x read off the canonical order. slope is the
+// least-squares slope of the pairs (Line(s.X, s.Y, ·).Slope.Estimate), which
+// the caller has fitted already.
+func (s *Sorted) LackOfFit(slope float64) (f float64, df1, df2 int, p float64, ok bool) {
+	return lackOfFitSorted(s.X, s.Y, slope)
+}
+
+// DistanceCorrTest returns the distance correlation of the pairs on all n
+// of them and the p of its permutation test, as DistanceCorrTest does, with
+// two differences that make the result depend on the set of pairs only:
+// the observed dCor is computed in canonical order (with the canonical
+// order of x as its sort, and ByY as the order of y), and where n > maxN
+// the sample is drawn from canonical positions by Sample's rule. The
+// permutations are drawn from the same source after the sample. The
+// full-data statistic keeps no standardised copy: it needs 12 bytes per
+// pair plus 32 per distinct y value.
+func (s *Sorted) DistanceCorrTest(perms, maxN int, src rand.Source) (dcor, p float64, used int, method string) {
+	n := s.Len()
+	if maxN <= 0 {
+		maxN = DefaultDcorMaxN
+	}
+	maxN = max(maxN, 3)
+	nan := math.NaN()
+	method = dcorMethod(n)
+	if n < 3 {
+		return nan, nan, n, method
+	}
+	dcor = dcorCanonical(s.X, s.Y, s.ByY)
+	if math.IsNaN(dcor) {
+		return nan, nan, n, method
+	}
+	if perms <= 0 {
+		return dcor, nan, n, method + "; no permutation test"
+	}
+	if src == nil {
+		src = rand.NewPCG(1, 2)
+	}
+	rng := rand.New(src)
+	x, y := s.X, s.Y
+	if n > maxN {
+		x, y = s.sample(maxN, rng)
+	}
+	p, note := dcorPermP(newDcorData(x, y), len(x), n, perms, rng)
+	return dcor, p, len(x), method + note
+}
+
+// Sample returns a simple random sample of m pairs without replacement,
+// drawn from the canonical positions with rand.New(src) (a nil src means
+// rand.NewPCG(1, 2)), in canonical order (so ascending x), or all pairs
+// when m ≥ n. The positions are chosen by Floyd's algorithm (Bentley &
+// Floyd 1987, "Programming pearls: a sample of brilliance", Commun. ACM
+// 30(9):754–757): m draws, a bitmap of n bits, whatever n is.
+func (s *Sorted) Sample(m int, src rand.Source) (x, y []float64) {
+	if m >= s.Len() {
+		return s.X, s.Y
+	}
+	if src == nil {
+		src = rand.NewPCG(1, 2)
+	}
+	return s.sample(m, rand.New(src))
+}
+
+func (s *Sorted) sample(m int, rng *rand.Rand) (x, y []float64) {
+	n := s.Len()
+	set := make([]uint64, (n+63)/64)
+	for j := n - m; j < n; j++ {
+		t := rng.IntN(j + 1)
+		if set[t/64]&(1<<(t%64)) != 0 {
+			t = j
+		}
+		set[t/64] |= 1 << (t % 64)
+	}
+	x, y = make([]float64, 0, m), make([]float64, 0, m)
+	for w, bitsw := range set {
+		for bitsw != 0 {
+			k := w*64 + bits.TrailingZeros64(bitsw)
+			bitsw &= bitsw - 1
+			x, y = append(x, s.X[k]), append(y, s.Y[k])
+		}
+	}
+	return x, y
+}
+
+// OrderOf returns the canonical positions in ascending v[Row[k]], ties by
+// canonical position, where v is a third column in the caller's row order
+// (len(v) = Len(), no NaN): the run order in which residuals are taken,
+// say. When v strictly increases in the caller's order that order is the
+// answer, found by inverting Row; else a stable radix sort.
+func (s *Sorted) OrderOf(v []float64) []int32 {
+	n := s.Len()
+	if len(v) != n {
+		panic("stats: Sorted.OrderOf: length differs")
+	}
+	pos := make([]int32, n)
+	increasing := true
+	for i := 1; i < n && increasing; i++ {
+		increasing = v[i-1] < v[i]
+	}
+	if increasing {
+		for k, i := range s.Row {
+			pos[i] = int32(k)
+		}
+		return pos
+	}
+	keys := make([]uint64, n)
+	for k, i := range s.Row {
+		keys[k] = floatKey(v[i])
+		pos[k] = int32(k)
+	}
+	radixSort(keys, pos, make([]uint64, n), make([]int32, n))
+	return pos
+}

@@ -152,11 +152,12 @@ type sideStats struct {
 // τ-b, Spearman's ρ with the Theil–Sen line, and the quadratic and log
 // models, all from the canonical order ps.
 func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, conf float64, cfg Config) {
-	wg.Go(func() {
+	async := goOrRun(wg, ps.Len())
+	async(func() {
 		tau, ptau := ps.KendallTauB()
 		out.kendall = report.Kendall{TauB: report.Float(tau), P: report.Float(ptau)}
 	})
-	wg.Go(func() {
+	async(func() {
 		rho, prho := ps.Spearman()
 		out.spearman = report.Spearman{Rho: report.Float(rho), P: report.Float(prho)}
 		// Theil–Sen samples pairs above its exact bound from a stream
@@ -169,7 +170,7 @@ func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, conf f
 		slope, icpt, method := stats.TheilSen(ps.X, ps.Y, cfg.TheilSenMaxExact, src)
 		out.resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
 	})
-	wg.Go(func() {
+	async(func() {
 		if ps.Len() >= 4 {
 			if q, err := stats.Polynomial(ps.X, ps.Y, 2, conf); err == nil && len(q.Coef) == 3 {
 				out.quad = &q
@@ -261,4 +262,21 @@ func groupLines(x, y []float64, groups []string) *report.GroupLines {
 	return &report.GroupLines{Groups: c.Groups, N: c.N, SlopesF: report.Float(c.SlopesF), SlopesDF1: c.SlopesDF1, SlopesP: report.Float(c.SlopesP),
 		LinesF: report.Float(c.LinesF), LinesDF1: c.LinesDF1, LinesP: report.Float(c.LinesP), DF2: c.DF2,
 		RWithin: report.Float(c.RWithin), RWithinDF: c.RWithinDF, RWithinP: report.Float(c.RWithinP)}
+}
+
+// ParallelMaxN is the number of rows above which a study computes its
+// statistics one after another instead of on several goroutines: the
+// goroutines' working memory adds up (each holds copies of the columns),
+// and above a few million rows that sum, not the time, is what limits the
+// largest file a machine can take.
+const ParallelMaxN = 2_000_000
+
+// goOrRun returns a function that runs f on wg's goroutines for a study of
+// n rows up to ParallelMaxN, and at once, on this goroutine, above it. The
+// results are the same either way.
+func goOrRun(wg *sync.WaitGroup, n int) func(f func()) {
+	if n > ParallelMaxN {
+		return func(f func()) { f() }
+	}
+	return wg.Go
 }

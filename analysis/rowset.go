@@ -120,6 +120,12 @@ func rowSource(cx, cy []float64, use string) rand.Source {
 	return rand.NewPCG(h.Sum64(), h2.Sum64())
 }
 
+// DcorStatMaxN is the number of rows above which the distance-correlation
+// statistic is computed on that many rows chosen by their values (see
+// canonical) rather than on all: O(n log n) time but about 70 bytes of
+// working memory per row.
+const DcorStatMaxN = 1_000_000
+
 // dcorFlipRisk is the chance, at most, that the sequential permutation
 // test of distance correlation settles on the wrong side of alpha, that
 // is, that another random stream would give the other verdict (this
@@ -167,7 +173,17 @@ func dcorLooks(max int) []int {
 // is its Monte Carlo standard error.
 func dcorTest(x, y []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse float64, perms, used int, resolved bool, method string) {
 	nan := math.NaN()
-	dcor = stats.DistanceCorrelation(x, y)
+	statRows := fmt.Sprintf("all %d rows", len(x))
+	if len(x) > DcorStatMaxN {
+		// The statistic on a sample chosen by the rows' values: its
+		// standard error at 10⁶ rows is of order 10⁻³, far below the
+		// verdict's cut point of 0.15, and it saves gigabytes at 10⁷.
+		sx, sy := canonical(x, y, DcorStatMaxN)
+		dcor = stats.DistanceCorrelation(sx, sy)
+		statRows = fmt.Sprintf("%d of the %d rows, chosen by their values", DcorStatMaxN, len(x))
+	} else {
+		dcor = stats.DistanceCorrelation(x, y)
+	}
 	used = min(len(x), maxN)
 	if math.IsNaN(dcor) || len(x) < 3 {
 		return dcor, nan, nan, 0, used, false, "distance correlation, V-statistic; undefined for these data, no permutation test"
@@ -197,7 +213,7 @@ func dcorTest(x, y []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse 
 	if used < len(x) {
 		rows = fmt.Sprintf("%d of the %d rows, chosen by their values", used, len(x))
 	}
-	method = fmt.Sprintf("distance correlation, V-statistic, on all %d rows by the O(n log n) algorithm; p from %d permutations of %s, stopped by a sequential rule (at most %d)",
-		len(x), perms, rows, looks[len(looks)-1])
+	method = fmt.Sprintf("distance correlation, V-statistic, on %s by the O(n log n) algorithm; p from %d permutations of %s, stopped by a sequential rule (at most %d)",
+		statRows, perms, rows, looks[len(looks)-1])
 	return dcor, p, mcse, perms, used, resolved, method
 }

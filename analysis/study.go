@@ -256,7 +256,7 @@ func analyze(in Input, cfg Config) report.Study {
 		order = cc.order
 	}
 	var diag *report.Diagnostics
-	wg.Go(func() { diag = diagnostics(x, y, ps, line, order, cfg) })
+	goOrRun(&wg, s.N)(func() { diag = diagnostics(x, y, ps, line, order, cfg) })
 	s.Robust = robust(x, y, order, pc.R, conf)
 	lx, ly := canonical(x, y, cfg.LowessMaxN)
 
@@ -283,7 +283,7 @@ func analyze(in Input, cfg Config) report.Study {
 		s.Influence.File = FlaggedFile(in.ID)
 	}
 
-	s.UnitInvariance = unitInvariance(in, ps.X, ps.Y, pc.R, line)
+	s.UnitInvariance = unitInvariance(in, x, y, pc.R, line)
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
 	s.Plot = plotData(x, y, cc, line, s.Influence, lx, ly, conf, cfg)
 	lowessExtremes(s.Diagnostics.Lowess, s.Plot.Lowess)

@@ -7,6 +7,8 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+
+	"bivar/analysis/internal/jsonloc"
 )
 
 // Write encodes res as diff.json: two-space indent, keys in struct order,
@@ -23,12 +25,19 @@ func Write(w io.Writer, res *Result) error {
 	return err
 }
 
-// Read decodes a diff.json, refusing another schema and unknown keys.
+// Read decodes a diff.json, refusing another schema and unknown keys. A
+// value of the wrong type is named by its path with array indices,
+// "studies[2].r.old", and its byte offset.
 func Read(rd io.Reader) (*Result, error) {
-	dec := json.NewDecoder(rd)
+	data, err := io.ReadAll(rd)
+	if err != nil {
+		return nil, err
+	}
+	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	var res Result
 	if err := dec.Decode(&res); err != nil {
+		jsonloc.Fill(data, err) // a bad number names its path and offset
 		return nil, fmt.Errorf("not a bivar diff file: %w", err)
 	}
 	if res.Schema != Schema {

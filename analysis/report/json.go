@@ -6,7 +6,10 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"reflect"
 	"strconv"
+
+	"bivar/analysis/internal/jsonloc"
 )
 
 // Float is a float64 that is written to JSON as null when it is NaN or
@@ -37,7 +40,20 @@ func (f *Float) UnmarshalJSON(b []byte) error {
 	}
 	v, err := strconv.ParseFloat(string(b), 64)
 	if err != nil {
-		return fmt.Errorf("report: %q is not a number", b)
+		// A type error, so that encoding/json adds the field path and
+		// Read the line (jsonloc.Fill); "NaN" and infinities are null.
+		what := "number " + string(b)
+		switch b[0] {
+		case '"':
+			what = "string"
+		case 't', 'f':
+			what = "bool"
+		case '[':
+			what = "array"
+		case '{':
+			what = "object"
+		}
+		return &json.UnmarshalTypeError{Value: what, Type: reflect.TypeFor[Float]()}
 	}
 	*f = Float(v)
 	return nil
@@ -60,10 +76,15 @@ func Write(w io.Writer, r *Report) error {
 // Read decodes a results.json. It refuses another schema and unknown keys,
 // so a file written by a newer bivar is not half-understood.
 func Read(rd io.Reader) (*Report, error) {
-	dec := json.NewDecoder(rd)
+	data, err := io.ReadAll(rd)
+	if err != nil {
+		return nil, err
+	}
+	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	var r Report
 	if err := dec.Decode(&r); err != nil {
+		jsonloc.Fill(data, err)
 		return nil, fmt.Errorf("not a bivar results file: %w", err)
 	}
 	if r.Schema != Schema {

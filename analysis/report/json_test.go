@@ -89,7 +89,7 @@ func TestReadRefuses(t *testing.T) {
 		{"other-schema", `{"schema": "bivar.results/v9"}`, `schema "bivar.results/v9"`},
 		{"unknown-key", `{"schema": "bivar.results/v1", "extra": 1}`, `unknown field "extra"`},
 		{"not-json", `<html>`, "not a bivar results file"},
-		{"bad-number", `{"schema": "bivar.results/v1", "studies": [{"n_missing": 1, "pearson": {"r": "x"}}]}`, "not a number"},
+		{"bad-number", `{"schema": "bivar.results/v1", "studies": [{"n_missing": 1, "pearson": {"r": "x"}}]}`, "studies[0].pearson.r"},
 	}
 	for _, tc := range cases {
 		_, err := Read(strings.NewReader(tc.in))

@@ -12,6 +12,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"reflect"
 	"slices"
 	"strings"
 	"unicode/utf8"
@@ -190,7 +191,11 @@ func explainJSON(data []byte, err error) string {
 		return fmt.Sprintf("line %d, column %d: not valid JSON (%v): the file was changed or damaged after 'bivar run' wrote it; run it again", lc[0], lc[1], syn)
 	case errors.As(err, &typ):
 		lc := lineCol(data, typ.Offset)
-		return fmt.Sprintf("line %d, column %d: key %q holds a JSON %s where bivar wrote a %s: the file was edited or written by another program; run 'bivar run' again", lc[0], lc[1], typ.Field, typ.Value, typ.Type)
+		want := "a " + typ.Type.String()
+		if typ.Type == reflect.TypeFor[report.Float]() {
+			want = "a number, or null where the value is undefined (bivar writes NaN and infinities as null)"
+		}
+		return fmt.Sprintf("line %d, column %d: key %q holds a JSON %s where bivar writes %s: the file was edited or written by another program; run 'bivar run' again", lc[0], lc[1], typ.Field, typ.Value, want)
 	}
 	msg := err.Error()
 	if strings.Contains(msg, "unknown field") {

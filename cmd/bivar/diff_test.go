@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"fmt"
 	"io"
 	"math/rand/v2"
 	"os"
@@ -102,6 +103,27 @@ func TestDiffCommand(t *testing.T) {
 	}
 }
 
+// nanAt replaces the number after key (its first occurrence) by "NaN" in quotes.
+func nanAt(t *testing.T, full []byte, key string) string {
+	i := bytes.Index(full, []byte(key))
+	if i < 0 {
+		t.Fatalf("no %s in the results", key)
+	}
+	j := i + len(key)
+	k := j + bytes.IndexAny(full[j:], ",\n}")
+	return string(full[:j]) + `"NaN"` + string(full[k:])
+}
+
+// nanLine and nanCol give the 1-based line and byte column of the value after key.
+func nanLine(full []byte, key string) int {
+	return bytes.Count(full[:bytes.Index(full, []byte(key))], []byte("\n")) + 1
+}
+
+func nanCol(full []byte, key string) int {
+	i := bytes.Index(full, []byte(key)) + len(key)
+	return i - bytes.LastIndexByte(full[:i], '\n')
+}
+
 // TestDiffBadResults: every kind of file that is not a complete
 // results.json of this schema is refused with exit status 1, a message
 // naming the side, the file, what is wrong (and where) and what to do, and
@@ -128,6 +150,8 @@ func TestDiffBadResults(t *testing.T) {
 		{"syntax error", strings.Replace(string(full), `"studies": [`, `"studies": [,`, 1), []string{"line ", "column ", "not valid JSON"}},
 		{"wrong type", strings.Replace(string(full), `"rows": 40`, `"rows": "forty"`, 1), []string{"line ", `key "datasets.rows" holds a JSON string`}},
 		{"unknown key", strings.Replace(string(full), `"schema":`, `"colour": 1, "schema":`, 1), []string{`unknown field "colour"`, "does not write"}},
+		{"NaN in quotes", nanAt(t, full, `"sxx": `), []string{fmt.Sprintf("line %d, column %d: ", nanLine(full, `"sxx": `), nanCol(full, `"sxx": `)),
+			`key "studies[0].moments.sxx" holds a JSON string where bivar writes a number, or null`, "NaN and infinities as null"}},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

@@ -31,6 +31,7 @@ import (
 
 	"bivar/analysis/report"
 	"bivar/internal/atomicfile"
+	"bivar/internal/cleantext"
 	"bivar/render/chart"
 	"bivar/themes"
 )
@@ -203,7 +204,7 @@ func htmlBytes(r *report.Report, opts []Option) ([]byte, error) {
 	if err != nil {
 		return nil, fmt.Errorf("html report: %w", err)
 	}
-	return b.Bytes(), nil
+	return cleantext.Bytes(b.Bytes()), nil
 }
 
 // Markdown writes r as Markdown for code review. Figures are linked as
@@ -235,7 +236,7 @@ func markdownBytes(r *report.Report, opts []Option) ([]byte, *page, error) {
 	if err := mdTmpl.ExecuteTemplate(&b, "page", p); err != nil {
 		return nil, nil, fmt.Errorf("markdown report: %w", err)
 	}
-	return squeezeBlank(b.Bytes()), p, nil
+	return cleantext.Bytes(squeezeBlank(b.Bytes())), p, nil
 }
 
 // File is one file of the report: a slash-separated name relative to the
@@ -255,7 +256,7 @@ func figureFiles(p *page) []File {
 	var out []File
 	for _, s := range p.Studies {
 		for _, f := range s.Figures {
-			out = append(out, File{Name: f.File, Data: []byte(f.SVG)})
+			out = append(out, File{Name: f.File, Data: cleantext.Bytes([]byte(f.SVG))})
 		}
 	}
 	return out

@@ -9,6 +9,7 @@ import (
 	"io"
 
 	"bivar/analysis/internal/jsonloc"
+	"bivar/internal/cleantext"
 )
 
 // Write encodes res as diff.json: two-space indent, keys in struct order,
@@ -21,7 +22,7 @@ func Write(w io.Writer, res *Result) error {
 	if err := enc.Encode(res); err != nil {
 		return fmt.Errorf("compare: encoding the diff: %w", err)
 	}
-	_, err := w.Write(buf.Bytes())
+	_, err := w.Write(cleantext.JSON(buf.Bytes()))
 	return err
 }
 

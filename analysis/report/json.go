@@ -10,6 +10,7 @@ import (
 	"strconv"
 
 	"bivar/analysis/internal/jsonloc"
+	"bivar/internal/cleantext"
 )
 
 // Float is a float64 that is written to JSON as null when it is NaN or
@@ -69,7 +70,7 @@ func Write(w io.Writer, r *Report) error {
 	if err := enc.Encode(r); err != nil {
 		return fmt.Errorf("report: encoding results: %w", err)
 	}
-	_, err := w.Write(buf.Bytes())
+	_, err := w.Write(cleantext.JSON(buf.Bytes()))
 	return err
 }
 

@@ -20,6 +20,7 @@ import (
 	"bivar/analysis/compare"
 	"bivar/analysis/report"
 	"bivar/internal/atomicfile"
+	"bivar/internal/cleantext"
 	"bivar/render/internal/mdtext"
 	"bivar/themes"
 )
@@ -123,7 +124,7 @@ func HTML(w io.Writer, res *compare.Result, opts ...Option) error {
 	if err := page.ExecuteTemplate(&buf, "page", data); err != nil {
 		return fmt.Errorf("rendering diff.html: %w", err)
 	}
-	_, err = w.Write(buf.Bytes())
+	_, err = w.Write(cleantext.Bytes(buf.Bytes()))
 	return err
 }
 
@@ -287,7 +288,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	for _, l := range res.Limitations {
 		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(l))
 	}
-	_, err := io.WriteString(w, b.String())
+	_, err := io.WriteString(w, cleantext.Text(b.String()))
 	return err
 }
 

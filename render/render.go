@@ -33,6 +33,7 @@ import (
 	"bivar/internal/atomicfile"
 	"bivar/internal/cleantext"
 	"bivar/render/chart"
+	"bivar/render/internal/mdtext"
 	"bivar/themes"
 )
 
@@ -53,7 +54,7 @@ var (
 	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.html.tmpl"))
 
 	mdTmpl = template.Must(template.New("md").Funcs(template.FuncMap{
-		"md":    mdText,
+		"md":    mdtext.Escape,
 		"table": mdTable,
 		"notes": mdNotes,
 	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.md.tmpl"))

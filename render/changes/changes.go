@@ -228,7 +228,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 				cells = fmt.Sprintf("%s → %s | %s ± %s | %s (%d) | %s | %s | %s → %s", num(sl.Old), num(sl.New), signed(sl.Delta), num(sl.SE),
 					fix2(sl.T), sl.DF, pval(sl.P), mark(sl.PAdjusted, res.Alpha), num(sl.OldResidSD), num(sl.NewResidSD))
 			}
-			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), mdtext.Escape(slopeUnit(sc)), cells)
+			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), mdtext.Cell(slopeUnit(sc)), cells)
 		}
 		b.WriteString("\n## Changed verdicts\n\n")
 		if s.VerdictChanged == 0 {
@@ -237,7 +237,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 			b.WriteString("| Study | Verdict | Old | New |\n|---|---|---|---|\n")
 			for _, sc := range res.Studies {
 				for _, v := range sc.Verdicts {
-					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), verdictName(v.Name), mdtext.Escape(v.Old), mdtext.Escape(v.New))
+					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), verdictName(v.Name), mdtext.Cell(v.Old), mdtext.Cell(v.New))
 				}
 			}
 			b.WriteString("\n")

@@ -261,7 +261,7 @@ func Summary(w io.Writer, r *report.Report) error {
 					case !e.OK:
 						result = "**failed**"
 					}
-					fmt.Fprintf(&b, "| %s | %s | %s | %s | %s |\n", mdtext.Escape(s.ID), mdtext.Escape(e.Name), mdtext.Escape(e.Want), mdtext.Escape(e.Got), result)
+					fmt.Fprintf(&b, "| %s | %s | %s | %s | %s |\n", mdtext.Cell(s.ID), mdtext.Cell(e.Name), mdtext.Cell(e.Want), mdtext.Cell(e.Got), result)
 				}
 			}
 		}

@@ -55,6 +55,7 @@ var (
 
 	mdTmpl = template.Must(template.New("md").Funcs(template.FuncMap{
 		"md":    mdtext.Escape,
+		"label": mdtext.Label,
 		"table": mdTable,
 		"notes": mdNotes,
 	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.md.tmpl"))

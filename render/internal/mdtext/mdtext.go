@@ -126,6 +126,13 @@ func Escape(s string) string {
 // Cell is Escape for a table cell, where a pipe would end the cell.
 func Cell(s string) string { return strings.ReplaceAll(Escape(s), "|", "\\|") }
 
+// Label is Escape for the text of a link or image, "![label](…)", where
+// an unmatched bracket would end the label early or open a link inside
+// it: every bracket is escaped.
+func Label(s string) string {
+	return strings.NewReplacer("\\[", "\\[", "\\]", "\\]", "[", "\\[", "]", "\\]").Replace(Escape(s))
+}
+
 // Code writes s as a code span (a UCUM unit such as [degF] reads better
 // without backslashes); a pipe is still escaped, as GFM tables require
 // even inside code spans. Text that a code span cannot hold (a backtick,

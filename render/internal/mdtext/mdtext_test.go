@@ -82,6 +82,22 @@ func TestEscapeInert(t *testing.T) {
 	}
 }
 
+func TestLabel(t *testing.T) {
+	for in, want := range map[string]string{"a [2J b": "a \\[2J b", "x](y)": "x\\](y)", "![i](u)": "\\!\\[i\\](u)", "[degF]": "\\[degF\\]"} {
+		if got := Label(in); got != want {
+			t.Errorf("Label(%q) = %q, want %q", in, got, want)
+		}
+		doc := "![" + Label(in) + "](figures/own.svg)"
+		var b bytes.Buffer
+		if err := gfm.Convert([]byte(doc), &b); err != nil {
+			t.Fatal(err)
+		}
+		if strings.Count(b.String(), "<img") != 1 || strings.Contains(b.String(), "<a ") {
+			t.Errorf("Label(%q) in an image: %s", in, b.String())
+		}
+	}
+}
+
 func TestCell(t *testing.T) {
 	if got := Cell("a|b <b>"); got != "a\\|b \\<b>" {
 		t.Errorf("Cell(a|b <b>) = %q", got)

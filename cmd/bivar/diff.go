@@ -136,14 +136,21 @@ func readResults(path string) (*report.Report, string, error) {
 	if err != nil {
 		return nil, file, fmt.Errorf("%s: %w", file, err)
 	}
+	rep, err := parseResults(file, data)
+	return rep, file, err
+}
+
+// parseResults reads the results.json held in data; file names it in
+// errors.
+func parseResults(file string, data []byte) (*report.Report, error) {
 	if err := resultsShape(data); err != nil {
-		return nil, file, fmt.Errorf("%s: %w", file, err)
+		return nil, fmt.Errorf("%s: %w", file, err)
 	}
 	rep, err := report.Read(bytes.NewReader(data))
 	if err != nil {
-		return nil, file, fmt.Errorf("%s: %s", file, explainJSON(data, err))
+		return nil, fmt.Errorf("%s: %s", file, explainJSON(data, err))
 	}
-	return rep, file, nil
+	return rep, nil
 }
 
 // resultsShape checks, before the strict decoding, that data is a

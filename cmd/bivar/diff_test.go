@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"fmt"
-	"io"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -13,7 +12,6 @@ import (
 	"bivar/analysis/compare"
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
-	"bivar/render/changes"
 )
 
 // runOf draws one run of y = 1 + slope·x + e (a simulation, not a check
@@ -249,43 +247,4 @@ func TestSampleProjectRuns(t *testing.T) {
 	if strings.Join(flagged, ",") != "hardness-vs-temper" {
 		t.Errorf("studies with a significant change: %v, want [hardness-vs-temper] (the one the generator changes)", flagged)
 	}
-}
-
-// FuzzDiffFiles: any bytes as OLD either give an error that names the
-// file, or a Report that compare and the renderers take without panicking.
-func FuzzDiffFiles(f *testing.F) {
-	var buf bytes.Buffer
-	if err := report.Write(&buf, runOf(1, 0.8, "strong")); err != nil {
-		f.Fatal(err)
-	}
-	good := buf.Bytes()
-	f.Add(good)
-	f.Add(good[:len(good)/3])
-	f.Add([]byte(`{"schema": "bivar.results/v1", "studies": [{"id": "s", "moments": {"n": 2, "sxx": 0}}]}`))
-	f.Add([]byte(`{"schema": "bivar.results/v1", "studies": [{"id": "s", "moments": {"n": 50, "sxx": 1, "syy": 1, "sxy": 1}}]}`))
-	f.Add([]byte("\xef\xbb\xbf{}"))
-	newRep := runOf(2, 0.8, "strong")
-	f.Fuzz(func(t *testing.T, data []byte) {
-		p := filepath.Join(t.TempDir(), "results.json")
-		if err := os.WriteFile(p, data, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		rep, _, err := readResults(p)
-		if err != nil {
-			if !strings.Contains(err.Error(), p) {
-				t.Fatalf("error does not name the file: %v", err)
-			}
-			return
-		}
-		res := compare.Diff(rep, newRep, compare.Options{})
-		if err := changes.Markdown(io.Discard, res); err != nil {
-			t.Fatal(err)
-		}
-		if err := changes.HTML(io.Discard, res); err != nil {
-			t.Fatal(err)
-		}
-		if err := compare.Write(io.Discard, res); err != nil {
-			t.Fatal(err)
-		}
-	})
 }

@@ -9,7 +9,9 @@ package render
 //     file:, data:, a relative path) is replaced by its text;
 //   - an image becomes "[image: alt]", so opening a report fetches nothing;
 //   - raw HTML, inline or as a block, is left out (its tags are markup,
-//     not text; text between inline tags stays).
+//     not text; text between inline tags stays);
+//   - a heading goes three levels down (# becomes h4), below the study's
+//     "Notes" heading.
 //
 // The HTML report renders the cleaned tree with goldmark; report.md gets it
 // written back as Markdown by notesMarkdown, with every text passed
@@ -100,6 +102,10 @@ func neutralise(n ast.Node, source []byte) {
 			unwrap(n, c, rawString([]byte("[image: ")), rawString([]byte("]")))
 			c = next
 			continue
+		case *ast.Heading:
+			// The notes stand under the study's "Notes" heading (h3):
+			// their own headings go below it.
+			v.Level = min(v.Level+3, 6)
 		case *ast.RawHTML, *ast.HTMLBlock:
 			n.RemoveChild(n, c)
 			c = next

@@ -50,7 +50,7 @@ Dropped: [js](javascript:alert(1)) [JS](JaVaScRiPt:alert(1)) [vb](vbscript:msgbo
 - item with [ok](http://e.example/c)
   > quote <i>x</i>
 
-` + "```\n<script>in code</script>\n```"
+` + "```\n<script>in code</script>\n```\n\n# Head"
 
 func TestNotesLinks(t *testing.T) {
 	md := mdNotes(hostileNotes)
@@ -75,7 +75,7 @@ func TestNotesLinks(t *testing.T) {
 		if strings.Join(got, " ") != strings.ReplaceAll(want, "b. ", "b ") && strings.Join(got, " ") != want {
 			t.Errorf("%s notes link to %q, want %q", name, got, want)
 		}
-		for _, text := range []string{"js", "vb", "rel", "frag", "[image: pixel]", "bold", "quote", "&lt;script&gt;in code"} {
+		for _, text := range []string{"js", "vb", "rel", "frag", "[image: pixel]", "bold", "quote", "&lt;script&gt;in code", "<h4>Head</h4>"} {
 			if !strings.Contains(html, text) {
 				t.Errorf("%s notes lost the text %q:\n%s", name, text, html)
 			}
@@ -85,10 +85,11 @@ func TestNotesLinks(t *testing.T) {
 
 // TestNotesMarkdownReadsBack: ordinary notes keep their structure in
 // report.md: the same HTML comes from the notes and from what mdNotes
-// writes for them.
+// writes for them. (The heading is h3, so that it is h6 both ways: each
+// pass moves headings three levels down, to at most h6.)
 func TestNotesMarkdownReadsBack(t *testing.T) {
 	src := "*Invented.* The **drawing** asks for `36 to 44` HRC.\nSecond line_with_underscore & R&D, p < 0.05.\n\n" +
-		"- one\n- two with [a link](https://e.example/x)\n\n1. first\n2. second\n\n> quoted\n\n## A heading\n\n| h | k |\n| :- | -: |\n| 1 | 2 |\n\n~~gone~~ and a hard  \nbreak"
+		"- one\n- two with [a link](https://e.example/x)\n\n1. first\n2. second\n\n> quoted\n\n### A heading\n\n| h | k |\n| :- | -: |\n| 1 | 2 |\n\n~~gone~~ and a hard  \nbreak"
 	want, err := notesHTML(src)
 	if err != nil {
 		t.Fatal(err)

@@ -1,6 +1,6 @@
 module bivar
 
-go 1.26
+go 1.26.0
 
 require (
 	github.com/BurntSushi/toml v1.6.0
@@ -8,4 +8,7 @@ require (
 	gonum.org/v1/gonum v0.17.0
 )
 
-require golang.org/x/sys v0.39.0 // indirect
+require (
+	golang.org/x/net v0.63.0
+	golang.org/x/sys v0.50.0
+)

@@ -47,28 +47,6 @@ func TestPercent(t *testing.T) {
 	}
 }
 
-func TestMDText(t *testing.T) {
-	cases := []struct{ in, want string }{
-		{"-0.98", "-0.98"}, {"- item", "\\- item"}, {"# head", "\\# head"}, {"ambient_rh", "ambient_rh"},
-		{"_x_", "\\_x\\_"}, {"a*b", "a\\*b"}, {"<b>", "\\<b>"}, {"</svg>", "\\</svg>"}, {"<!--", "\\<!--"},
-		{"R&D", "R&D"}, {"&amp;", "\\&amp;"}, {"&#60;", "\\&#60;"}, {"p < 0.001", "p < 0.001"}, {"a > b", "a > b"}, {"> quote", "\\> quote"},
-		{"2026. year", "2026\\. year"}, {"3) item", "3\\) item"}, {"r = 0.5. Next", "r = 0.5. Next"}, {"[lbf_av]", "[lbf_av]"},
-		{"[x](javascript:alert(1))", "[x\\](javascript:alert(1))"}, {"![a](b)", "!\\[a\\](b)"}, {"[a][b]", "[a\\][b]"}, {"[a]: http://e", "[a\\]: http://e"},
-		{"two\nlines", "two lines"}, {"a|b", "a|b"}, {"−0.98", "−0.98"},
-	}
-	for _, tc := range cases {
-		if got := mdText(tc.in); got != tc.want {
-			t.Errorf("mdText(%q) = %q, want %q", tc.in, got, tc.want)
-		}
-	}
-	if got := mdNotes("See [spec](http://e).\n[degF]: http://e\n  > [x]: y"); got != "See [spec](http://e).\n\\[degF]: http://e\n  > \\[x]: y" {
-		t.Errorf("mdNotes: a link reference definition is not neutralised: %q", got)
-	}
-	if got := mdCell("a|b"); got != "a\\|b" {
-		t.Errorf("mdCell(a|b) = %q", got)
-	}
-}
-
 // The running header's CSS string: a hex escape swallows one following
 // space (CSS Syntax 3, §4.3.7), so each escape carries its own and the
 // title's spaces survive ("demo: line" printed as "demo:line" otherwise).

@@ -30,8 +30,10 @@ import (
 	"text/template"
 
 	"bivar/analysis/report"
+	"bivar/internal/cleantext"
 	"bivar/internal/publish"
 	"bivar/render/chart"
+	"bivar/render/internal/mdtext"
 	"bivar/themes"
 )
 
@@ -52,7 +54,8 @@ var (
 	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.html.tmpl"))
 
 	mdTmpl = template.Must(template.New("md").Funcs(template.FuncMap{
-		"md":    mdText,
+		"md":    mdtext.Escape,
+		"label": mdtext.Label,
 		"table": mdTable,
 		"notes": mdNotes,
 	}).Option("missingkey=error").ParseFS(templateFS, "templates/report.md.tmpl"))
@@ -203,7 +206,7 @@ func htmlBytes(r *report.Report, opts []Option) ([]byte, error) {
 	if err != nil {
 		return nil, fmt.Errorf("html report: %w", err)
 	}
-	return b.Bytes(), nil
+	return cleantext.Bytes(b.Bytes()), nil
 }
 
 // Markdown writes r as Markdown for code review. Figures are linked as
@@ -235,7 +238,7 @@ func markdownBytes(r *report.Report, opts []Option) ([]byte, *page, error) {
 	if err := mdTmpl.ExecuteTemplate(&b, "page", p); err != nil {
 		return nil, nil, fmt.Errorf("markdown report: %w", err)
 	}
-	return squeezeBlank(b.Bytes()), p, nil
+	return cleantext.Bytes(squeezeBlank(b.Bytes())), p, nil
 }
 
 // File is one file of the report: a slash-separated name relative to the
@@ -255,7 +258,7 @@ func figureFiles(p *page) []File {
 	var out []File
 	for _, s := range p.Studies {
 		for _, f := range s.Figures {
-			out = append(out, File{Name: f.File, Data: []byte(f.SVG)})
+			out = append(out, File{Name: f.File, Data: cleantext.Bytes([]byte(f.SVG))})
 		}
 	}
 	return out

@@ -3,6 +3,8 @@ package compare
 import (
 	"bufio"
 	"bytes"
+	"encoding/json"
+	"errors"
 	"math"
 	"os"
 	"path/filepath"
@@ -214,5 +216,19 @@ func TestChangeTestsIdentities(t *testing.T) {
 	nan := report.Moments{N: 10, Sxx: report.NaN(), Syy: report.NaN(), Sxy: report.NaN()}
 	if rc := CorrelationChange(nan, m); !math.IsNaN(float64(rc.P)) {
 		t.Errorf("null moments: p = %v, want NaN", rc.P)
+	}
+}
+
+// TestReadNamesBadNumber: a number written as a string ("NaN" is written
+// as null) is refused with its path, array indices included, and offset.
+func TestReadNamesBadNumber(t *testing.T) {
+	in := "{\"schema\": \"bivar.diff/v1\",\n \"studies\": [{\"id\": \"a\"}, {\"id\": \"b\", \"r\": {\"old\": \"NaN\"}}]}"
+	_, err := Read(strings.NewReader(in))
+	var te *json.UnmarshalTypeError
+	if !errors.As(err, &te) {
+		t.Fatalf("Read error %v, want a type error", err)
+	}
+	if te.Field != "studies[1].r.old" || te.Offset != int64(strings.Index(in, `"NaN"`))+1 {
+		t.Errorf("Field %q, Offset %d; want %q, %d", te.Field, te.Offset, "studies[1].r.old", strings.Index(in, `"NaN"`)+1)
 	}
 }

@@ -7,6 +7,9 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+
+	"bivar/analysis/internal/jsonloc"
+	"bivar/internal/cleantext"
 )
 
 // Write encodes res as diff.json: two-space indent, keys in struct order,
@@ -19,16 +22,23 @@ func Write(w io.Writer, res *Result) error {
 	if err := enc.Encode(res); err != nil {
 		return fmt.Errorf("compare: encoding the diff: %w", err)
 	}
-	_, err := w.Write(buf.Bytes())
+	_, err := w.Write(cleantext.JSON(buf.Bytes()))
 	return err
 }
 
-// Read decodes a diff.json, refusing another schema and unknown keys.
+// Read decodes a diff.json, refusing another schema and unknown keys. A
+// value of the wrong type is named by its path with array indices,
+// "studies[2].r.old", and its byte offset.
 func Read(rd io.Reader) (*Result, error) {
-	dec := json.NewDecoder(rd)
+	data, err := io.ReadAll(rd)
+	if err != nil {
+		return nil, err
+	}
+	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	var res Result
 	if err := dec.Decode(&res); err != nil {
+		jsonloc.Fill(data, err) // a bad number names its path and offset
 		return nil, fmt.Errorf("not a bivar diff file: %w", err)
 	}
 	if res.Schema != Schema {

@@ -115,6 +115,39 @@ search:
 	p.addAt(at, k.String(), fmt.Sprintf(format, args...))
 }
 
+// addValue is addK for a value of the wrong type: the column is that of
+// the value after "key =" when the key's line is known, or of the first
+// quoted element when quoted says a list holds strings where numbers
+// belong (predict_at = ["12"]).
+func (p *parser) addValue(owner string, k toml.Key, quoted bool, format string, args ...any) {
+	p.addK(owner, k, format, args...)
+	e := p.errs[len(p.errs)-1]
+	if e.Line <= 0 || e.Col <= 0 {
+		return
+	}
+	text := p.ix.text(e.Line)
+	if e.Col > len(text) {
+		return
+	}
+	eq := strings.IndexByte(text[e.Col-1:], '=')
+	if eq < 0 {
+		return
+	}
+	i := e.Col - 1 + eq + 1
+	for i < len(text) && (text[i] == ' ' || text[i] == '\t') {
+		i++
+	}
+	if i >= len(text) {
+		return
+	}
+	if quoted && text[i] == '[' {
+		if q := strings.IndexAny(text[i:], "\"'"); q >= 0 {
+			i += q
+		}
+	}
+	e.Col = i + 1
+}
+
 func (p *parser) addAt(at pos, key, msg string) {
 	p.errs = append(p.errs, &Error{File: p.file, Line: at.line, Col: at.col, Key: key, Msg: msg, text: p.ix.text(at.line)})
 }
@@ -257,7 +290,11 @@ func (p *parser) walk(v any, n *node, owner string, key toml.Key) {
 	name := key.String()
 	bad := func() {
 		p.typeErrs = true
-		p.addK(owner, key, "%q must be %s, not %s", name, kindWords[n.kind], describe(v))
+		what, quoted := describe(v), false
+		if l, ok := v.([]any); ok {
+			what, quoted = describeList(l, n.kind == kFloats)
+		}
+		p.addValue(owner, key, quoted, "%q must be %s, not %s", name, kindWords[n.kind], what)
 	}
 	switch n.kind {
 	case kTable:
@@ -316,8 +353,11 @@ func (p *parser) walk(v any, n *node, owner string, key toml.Key) {
 			bad()
 		}
 	case kUint:
-		if i, ok := v.(int64); !ok || i < 0 {
+		if i, ok := v.(int64); !ok {
 			bad()
+		} else if i < 0 {
+			p.typeErrs = true
+			p.addValue(owner, key, false, "%q must be %s, not %d: a negative number is not allowed here", name, kindWords[n.kind], i)
 		}
 	case kBool:
 		if _, ok := v.(bool); !ok {
@@ -393,6 +433,48 @@ func unknownKey(n *node, parent toml.Key, k string) string {
 		return fmt.Sprintf("unknown key %q — %q is a top-level key: move it above the first table", full, k)
 	}
 	return fmt.Sprintf("unknown key %q; the keys of %s are: %s", full, n.label, strings.Join(n.keys, ", "))
+}
+
+// describeList says what a list holds, for a message about a list of the
+// wrong kind: "a list of strings", "a list of numbers and strings". When
+// numbers are wanted and the strings are all numbers in quotes it says so,
+// and quoted reports that case.
+func describeList(l []any, numbersWanted bool) (what string, quoted bool) {
+	if len(l) == 0 {
+		return "an empty list", false
+	}
+	var kinds []string
+	allNumeric := true
+	for _, e := range l {
+		d := strings.TrimPrefix(strings.TrimPrefix(describe(e), "a "), "an ")
+		switch d {
+		case "string":
+			d = "strings"
+			if _, err := strconv.ParseFloat(strings.TrimSpace(e.(string)), 64); err != nil {
+				allNumeric = false
+			}
+		case "whole number", "number":
+			d = "numbers"
+			allNumeric = false
+		case "list":
+			d = "lists"
+			allNumeric = false
+		case "table":
+			d = "tables"
+			allNumeric = false
+		default:
+			d = "dates or times"
+			allNumeric = false
+		}
+		if !slices.Contains(kinds, d) {
+			kinds = append(kinds, d)
+		}
+	}
+	what = "a list of " + strings.Join(kinds, " and ")
+	if numbersWanted && allNumeric {
+		return what + " (numbers in quotes): write them without quotes, as [12, 15.5]", true
+	}
+	return what, numbersWanted && slices.Contains(kinds, "strings")
 }
 
 func describe(v any) string {

@@ -92,6 +92,34 @@ func (p *parser) oneOf(owner, key, v string, allowed []string) {
 	p.add(owner, key, "%s = %q is not allowed; use one of %s%s", key, v, strings.Join(quoted, ", "), hint)
 }
 
+// adjustHint answers a request for an adjustment bivar does not offer by
+// name: Bonferroni (and Šidák, its close relative) is pointed to Holm's
+// method, which controls the same family-wise error rate under the same
+// assumptions and rejects every hypothesis Bonferroni rejects, and
+// possibly more (Holm 1979, Scand. J. Statist. 6:65–70: the step-down
+// procedure's first step is Bonferroni's test); a false discovery rate
+// request is pointed to bh. It returns "" for anything else.
+func adjustHint(v string) string {
+	w := strings.ToLower(strings.TrimSpace(v))
+	has := func(names ...string) bool {
+		for _, n := range names {
+			if len(w) >= 3 && strings.HasPrefix(n, w) || strings.HasPrefix(w, n) {
+				return true
+			}
+		}
+		return false
+	}
+	switch {
+	case w == "":
+		return ""
+	case has("bonferroni"):
+		return "for Bonferroni use \"holm\": Holm's step-down method controls the same family-wise error rate and rejects whatever Bonferroni rejects, sometimes more, so it is uniformly more powerful"
+	case has("fdr", "benjamini-hochberg", "benjamini", "hochberg"):
+		return "for a false discovery rate use \"bh\" (Benjamini–Hochberg)"
+	}
+	return ""
+}
+
 // where names the place of an earlier array element.
 func where(line int, what string, i int) string {
 	if line > 0 {
@@ -112,7 +140,11 @@ func validID(id string) bool {
 
 func (p *parser) validate(m *Manifest) {
 	p.oneOf("", "design", m.Design, Designs())
-	p.oneOf("", "adjust", m.Adjust, Adjustments())
+	if hint := adjustHint(m.Adjust); hint != "" {
+		p.addValue("", toml.Key{"adjust"}, false, "adjust = %q is not allowed; use one of \"holm\", \"bh\", \"none\" — %s", m.Adjust, hint)
+	} else {
+		p.oneOf("", "adjust", m.Adjust, Adjustments())
+	}
 	if !(m.Alpha > 0 && m.Alpha <= 0.5) {
 		p.add("", "alpha", "alpha = %v is outside (0, 0.5]: give the significance level as a fraction, such as 0.05", m.Alpha)
 	}

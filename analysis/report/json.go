@@ -6,7 +6,11 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"reflect"
 	"strconv"
+
+	"bivar/analysis/internal/jsonloc"
+	"bivar/internal/cleantext"
 )
 
 // Float is a float64 that is written to JSON as null when it is NaN or
@@ -37,7 +41,20 @@ func (f *Float) UnmarshalJSON(b []byte) error {
 	}
 	v, err := strconv.ParseFloat(string(b), 64)
 	if err != nil {
-		return fmt.Errorf("report: %q is not a number", b)
+		// A type error, so that encoding/json adds the field path and
+		// Read the line (jsonloc.Fill); "NaN" and infinities are null.
+		what := "number " + string(b)
+		switch b[0] {
+		case '"':
+			what = "string"
+		case 't', 'f':
+			what = "bool"
+		case '[':
+			what = "array"
+		case '{':
+			what = "object"
+		}
+		return &json.UnmarshalTypeError{Value: what, Type: reflect.TypeFor[Float]()}
 	}
 	*f = Float(v)
 	return nil
@@ -53,7 +70,7 @@ func Write(w io.Writer, r *Report) error {
 	if err := enc.Encode(r); err != nil {
 		return fmt.Errorf("report: encoding results: %w", err)
 	}
-	_, err := w.Write(buf.Bytes())
+	_, err := w.Write(cleantext.JSON(buf.Bytes()))
 	return err
 }
 
@@ -76,6 +93,7 @@ func Read(rd io.Reader) (*Report, error) {
 	}
 	var r Report
 	if err := dec.Decode(&r); err != nil {
+		jsonloc.Fill(data, err)
 		return nil, fmt.Errorf("not a bivar results file: %w", err)
 	}
 	if !ReadsSchema(r.Schema) {

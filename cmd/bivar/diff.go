@@ -12,6 +12,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"reflect"
 	"slices"
 	"strings"
 	"unicode/utf8"
@@ -150,14 +151,21 @@ func readResults(path string) (*report.Report, string, error) {
 	if err != nil {
 		return nil, file, fmt.Errorf("%s: %w", file, err)
 	}
+	rep, err := parseResults(file, data)
+	return rep, file, err
+}
+
+// parseResults reads the results.json held in data; file names it in
+// errors.
+func parseResults(file string, data []byte) (*report.Report, error) {
 	if err := resultsShape(data); err != nil {
-		return nil, file, fmt.Errorf("%s: %w", file, err)
+		return nil, fmt.Errorf("%s: %w", file, err)
 	}
 	rep, err := report.Read(bytes.NewReader(data))
 	if err != nil {
-		return nil, file, fmt.Errorf("%s: %s", file, explainJSON(data, err))
+		return nil, fmt.Errorf("%s: %s", file, explainJSON(data, err))
 	}
-	return rep, file, nil
+	return rep, nil
 }
 
 // resultsShape checks, before the strict decoding, that data is a
@@ -205,7 +213,11 @@ func explainJSON(data []byte, err error) string {
 		return fmt.Sprintf("line %d, column %d: not valid JSON (%v): the file was changed or damaged after 'bivar run' wrote it; run it again", lc[0], lc[1], syn)
 	case errors.As(err, &typ):
 		lc := lineCol(data, typ.Offset)
-		return fmt.Sprintf("line %d, column %d: key %q holds a JSON %s where bivar wrote a %s: the file was edited or written by another program; run 'bivar run' again", lc[0], lc[1], typ.Field, typ.Value, typ.Type)
+		want := "a " + typ.Type.String()
+		if typ.Type == reflect.TypeFor[report.Float]() {
+			want = "a number, or null where the value is undefined (bivar writes NaN and infinities as null)"
+		}
+		return fmt.Sprintf("line %d, column %d: key %q holds a JSON %s where bivar writes %s: the file was edited or written by another program; run 'bivar run' again", lc[0], lc[1], typ.Field, typ.Value, want)
 	}
 	msg := err.Error()
 	if strings.Contains(msg, "unknown field") {

@@ -13,6 +13,8 @@ import (
 	"os"
 	"runtime/debug"
 	"strings"
+
+	"bivar/internal/cleantext"
 )
 
 // Exit statuses, as in DESIGN.md.
@@ -145,8 +147,12 @@ func main() {
 // 1 GB of memory where the data allow it.
 const defaultMemoryLimit = 768 << 20
 
-// run dispatches to a subcommand and returns the exit status.
+// run dispatches to a subcommand and returns the exit status. Everything
+// it prints passes through cleantext.Writer: names and values from the
+// user's files are quoted in messages, and a terminal must show their
+// escape sequences, carriage returns and invalid bytes, not obey them.
 func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	stdout, stderr = cleantext.Writer(stdout), cleantext.Writer(stderr)
 	if len(args) == 0 {
 		usage(stderr)
 		return exitUsage

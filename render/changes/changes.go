@@ -20,6 +20,7 @@ import (
 
 	"bivar/analysis/compare"
 	"bivar/analysis/report"
+	"bivar/internal/cleantext"
 	"bivar/internal/publish"
 	"bivar/render/internal/mdtext"
 	"bivar/themes"
@@ -154,7 +155,7 @@ func HTML(w io.Writer, res *compare.Result, opts ...Option) error {
 	if err := page.ExecuteTemplate(&buf, "page", data); err != nil {
 		return fmt.Errorf("rendering diff.html: %w", err)
 	}
-	_, err = w.Write(buf.Bytes())
+	_, err = w.Write(cleantext.Bytes(buf.Bytes()))
 	return err
 }
 
@@ -214,7 +215,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "# What changed: %s → %s\n\n", mdtext.Escape(titleOf(res.Old)), mdtext.Escape(titleOf(res.New)))
 	fmt.Fprintf(&b, "Old run: `%s` (bivar %s) · New run: `%s` (bivar %s)  \n", code(orDash(res.Old.File)), mdtext.Escape(orDash(res.Old.ToolVersion)), code(orDash(res.New.File)), mdtext.Escape(orDash(res.New.ToolVersion)))
-	fmt.Fprintf(&b, "Significance level %g; change tests adjusted across all compared studies: %s.\n\n", res.Alpha, adjustName(res.Adjust))
+	fmt.Fprintf(&b, "Significance level %g; change tests adjusted across all compared studies: %s.\n\n", res.Alpha, mdtext.Escape(adjustName(res.Adjust)))
 	fmt.Fprintf(&b, "> **Caution.** %s\n\n", mdtext.Escape(res.Caution))
 	if len(res.Statements) > 0 {
 		b.WriteString("## What changed\n\n")
@@ -239,7 +240,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	if len(res.Studies) > 0 {
 		b.WriteString("## Change in correlation\n\n")
 		b.WriteString(sigLine("r", sigR(res), res.Alpha))
-		fmt.Fprintf(&b, "Δ is new − old; p two-sided; adjusted p after %s over all %d change tests (r and slope together).\n\n", adjustName(res.Adjust), s.Tested)
+		fmt.Fprintf(&b, "Δ is new − old; p two-sided; adjusted p after %s over all %d change tests (r and slope together).\n\n", mdtext.Escape(adjustName(res.Adjust)), s.Tested)
 		b.WriteString("| Study | n old → new | r old → new | Δr | z | p | adjusted p |\n|---|--:|--:|--:|--:|--:|--:|\n")
 		for _, sc := range res.Studies {
 			cells := "not tested | | | | "
@@ -258,7 +259,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 				cells = fmt.Sprintf("%s → %s | %s ± %s | %s (%d) | %s | %s | %s → %s", num(sl.Old), num(sl.New), signed(sl.Delta), num(sl.SE),
 					fix2(sl.T), sl.DF, pval(sl.P), mark(sl.PAdjusted, res.Alpha), num(sl.OldResidSD), num(sl.NewResidSD))
 			}
-			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), mdtext.Escape(slopeUnit(sc)), cells)
+			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), mdtext.Cell(slopeUnit(sc)), cells)
 		}
 		b.WriteString("\n## Changed verdicts\n\n")
 		if s.VerdictChanged == 0 {
@@ -267,7 +268,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 			b.WriteString("| Study | Verdict | Old | New |\n|---|---|---|---|\n")
 			for _, sc := range res.Studies {
 				for _, v := range sc.Verdicts {
-					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), verdictName(v.Name), mdtext.Escape(v.Old), mdtext.Escape(v.New))
+					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(verdictName(v.Name)), mdtext.Cell(v.Old), mdtext.Cell(v.New))
 				}
 			}
 			b.WriteString("\n")
@@ -307,9 +308,9 @@ func Markdown(w io.Writer, res *compare.Result) error {
 				if sha == "" {
 					return "—"
 				}
-				return fmt.Sprintf("`%s` (%d, `%s`)", code(file), rows, short(sha))
+				return fmt.Sprintf("`%s` (%d, `%s`)", code(file), rows, code(short(sha)))
 			}
-			fmt.Fprintf(&b, "| `%s` | %s | %s | %s |\n", code(d.ID), d.Status, side(d.OldFile, d.OldRows, d.OldSHA256), side(d.NewFile, d.NewRows, d.NewSHA256))
+			fmt.Fprintf(&b, "| `%s` | %s | %s | %s |\n", code(d.ID), mdtext.Cell(d.Status), side(d.OldFile, d.OldRows, d.OldSHA256), side(d.NewFile, d.NewRows, d.NewSHA256))
 		}
 		b.WriteString("\n")
 	}
@@ -318,7 +319,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	for _, l := range res.Limitations {
 		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(l))
 	}
-	_, err := io.WriteString(w, b.String())
+	_, err := io.WriteString(w, cleantext.Text(b.String()))
 	return err
 }
 

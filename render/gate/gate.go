@@ -22,6 +22,7 @@ import (
 	"strings"
 
 	"bivar/analysis/report"
+	"bivar/internal/cleantext"
 	"bivar/render/internal/mdtext"
 )
 
@@ -172,15 +173,15 @@ func writeJUnit(w io.Writer, root junitSuites) error {
 		return fmt.Errorf("gate: encoding JUnit XML: %w", err)
 	}
 	buf.WriteByte('\n')
-	_, err := w.Write(buf.Bytes())
+	_, err := w.Write(cleantext.Bytes(buf.Bytes())) // encoding/xml leaves DEL and C1 controls
 	return err
 }
 
 // SummaryFailedRun writes the Markdown summary of a check that could not
 // run at all.
 func SummaryFailedRun(w io.Writer, manifest, msg string) error {
-	_, err := fmt.Fprintf(w, "## bivar check: %s\n\n**Could not run**: the manifest or its data could not be read.\n\n```\n%s\n```\n",
-		mdtext.Escape(manifest), strings.ReplaceAll(strings.TrimSpace(msg), "```", "` ` `"))
+	_, err := io.WriteString(w, cleantext.Text(fmt.Sprintf("## bivar check: %s\n\n**Could not run**: the manifest or its data could not be read.\n\n```\n%s\n```\n",
+		mdtext.Escape(manifest), strings.ReplaceAll(strings.TrimSpace(msg), "```", "` ` `"))))
 	return err
 }
 
@@ -260,7 +261,7 @@ func Summary(w io.Writer, r *report.Report) error {
 					case !e.OK:
 						result = "**failed**"
 					}
-					fmt.Fprintf(&b, "| %s | %s | %s | %s | %s |\n", mdtext.Escape(s.ID), mdtext.Escape(e.Name), mdtext.Escape(e.Want), mdtext.Escape(e.Got), result)
+					fmt.Fprintf(&b, "| %s | %s | %s | %s | %s |\n", mdtext.Cell(s.ID), mdtext.Cell(e.Name), mdtext.Cell(e.Want), mdtext.Cell(e.Got), result)
 				}
 			}
 		}
@@ -287,7 +288,7 @@ func Summary(w io.Writer, r *report.Report) error {
 		b.WriteString("\n")
 	}
 	fmt.Fprintf(&b, "_%s_\n", mdtext.Escape(report.Caution))
-	_, err := io.WriteString(w, b.String())
+	_, err := io.WriteString(w, cleantext.Text(b.String()))
 	return err
 }
 

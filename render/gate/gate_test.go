@@ -123,10 +123,11 @@ func TestSummary(t *testing.T) {
 	}
 	out := buf.String()
 	for _, want := range []string{
-		"## bivar check: Cell \\<4\\> \\& \"friends\"",
+		"## bivar check: Cell <4> & \"friends\"",
 		"**Failed**: 1 of 3 expectations did not hold; 1 of 3 studies did not run, so 1 expectation was not evaluated.",
-		"| s1 | min\\_abs\\_r | \\|r\\| ≥ 0.6 | \\|r\\| = 0.41 | **failed** |",
-		"| s3\\|x | min\\_n | n ≥ 10 |  | **not evaluated** |",
+		"| s1 | min_abs_r | \\|r\\| ≥ 0.6 | \\|r\\| = 0.41 | **failed** |",
+		"| s3\\|x | min_n | n ≥ 10 |  | **not evaluated** |",
+		"- `s1` min_abs_r: r = -0.41 \\<below> & ␁ control",
 		"- `s3|x`: column \"y\" has fewer than 3 complete rows",
 		report.Caution,
 	} {
@@ -135,7 +136,7 @@ func TestSummary(t *testing.T) {
 		}
 	}
 	// Failures come before the expectations that held, within a study.
-	if strings.Index(out, "min\\_abs\\_r") > strings.Index(out, "| s1 | direction") {
+	if strings.Index(out, "| s1 | min_abs_r") > strings.Index(out, "| s1 | direction") {
 		t.Errorf("failure not listed first:\n%s", out)
 	}
 	// Every table row has the same number of unescaped cell separators.

@@ -287,6 +287,7 @@ func analyze(in Input, cfg Config) report.Study {
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
 	s.Plot = plotData(x, y, cc, line, s.Influence, lx, ly, conf, cfg)
 	lowessExtremes(s.Diagnostics.Lowess, s.Plot.Lowess)
+	s.Approximations = approximations(&s, cfg)
 	emptyLists(&s)
 	return s
 }

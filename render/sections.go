@@ -18,6 +18,7 @@ var studySections = []func(s *report.Study, level string, th report.Thresholds) 
 	unitsSection,
 	groupsSection,
 	predictionsSection,
+	approximationsSection,
 	limitsSection,
 	expectationsSection,
 	notesSection,
@@ -414,6 +415,20 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 	}
 	sec.Tables = append(sec.Tables, t)
 	sec.After = append(sec.After, "The confidence interval is for the mean of "+name(s.Y)+" at that x; the prediction interval is for one new row and is always wider. Outside the observed range of "+name(s.X)+" the line has no support in these data.")
+	return sec, nil
+}
+
+func approximationsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
+	if len(s.Approximations) == 0 {
+		return nil, nil
+	}
+	sec := &section{Key: "approximations", Title: "Figures computed on a sample"}
+	t := table{Caption: fmt.Sprintf("At %d rows these figures come from a sample; every other figure uses all rows", s.N),
+		Head: []string{"Figure", "Computed on", "How chosen", "Error against the exact method"}, Num: []bool{false, true, false, false}}
+	for _, a := range s.Approximations {
+		t.Rows = append(t.Rows, []string{a.Figure, itoa(a.Rows), a.Method, a.Error})
+	}
+	sec.Tables = append(sec.Tables, t)
 	return sec, nil
 }
 

@@ -158,8 +158,12 @@ type Study struct {
 	// Robust holds intervals for the slope and r that do not lean on the
 	// ordinary ones' assumptions of independent rows with an even scatter.
 	Robust       *Robust       `json:"robust"`
-	Expectations []Expectation `json:"expectations"`
-	Notes        string        `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
+	// Approximations lists the figures of this study computed on a sample
+	// or by an approximate method (at large n), each with its error;
+	// empty when every figure is exact.
+	Approximations []Approximation `json:"approximations"`
+	Expectations   []Expectation   `json:"expectations"`
+	Notes          string          `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
 	Error        *string       `json:"error"`
 	Plot         *Plot         `json:"-"` // what the charts draw (bounded); not in results.json
 
@@ -586,6 +590,15 @@ type Reason struct {
 	Verdict string `json:"verdict"` // outlier_driven | reversal | explained_by | drift | spread_changes | groups_differ
 	Topic   string `json:"topic"`   // for people: Influence, Groups, Covariates, Run order, Spread
 	Why     string `json:"why"`
+}
+
+// Approximation is one figure computed on a sample or approximately.
+type Approximation struct {
+	Figure string `json:"figure"` // what: "LOWESS curve", "Theil–Sen slope", …
+	Rows   int    `json:"rows"`   // rows (or pairs, see Method) it was computed on
+	Of     int    `json:"of"`     // the study's rows
+	Method string `json:"method"` // how the sample was drawn
+	Error  string `json:"error"`  // its error against the exact method, and where that figure comes from
 }
 
 // Expectation is one CI gate from [study.expect] and its outcome.

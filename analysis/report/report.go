@@ -157,15 +157,15 @@ type Study struct {
 	GroupLines *GroupLines `json:"group_lines"`
 	// Robust holds intervals for the slope and r that do not lean on the
 	// ordinary ones' assumptions of independent rows with an even scatter.
-	Robust       *Robust       `json:"robust"`
+	Robust *Robust `json:"robust"`
 	// Approximations lists the figures of this study computed on a sample
 	// or by an approximate method (at large n), each with its error;
 	// empty when every figure is exact.
 	Approximations []Approximation `json:"approximations"`
 	Expectations   []Expectation   `json:"expectations"`
 	Notes          string          `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
-	Error        *string       `json:"error"`
-	Plot         *Plot         `json:"-"` // what the charts draw (bounded); not in results.json
+	Error          *string         `json:"error"`
+	Plot           *Plot           `json:"-"` // what the charts draw (bounded); not in results.json
 
 	// FlaggedCSV is the content of the CSV file named by Influence.File:
 	// every flagged row with all its measures. It is not in results.json

@@ -4,10 +4,8 @@ package analysis
 // rows with an even scatter, and r with an effective sample size.
 
 import (
-	"cmp"
 	"fmt"
 	"math"
-	"slices"
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
@@ -30,8 +28,9 @@ func slopeInterval(method string, lags int, b, se, conf float64) *report.SlopeIn
 // mean, and where x explains a trend in y (x is time, say) y's own
 // persistence would count that trend as dependence between rows and
 // leave almost no effective rows. Rows whose run order ties are taken in
-// order of x, then y, so the figures are a function of the set of rows.
-func robust(x, y, order []float64, r, conf float64) *report.Robust {
+// the canonical order of ps (x, then a hash of y), so the figures are a
+// function of the set of rows; ps holds the pairs x, y in that order.
+func robust(x, y []float64, ps *stats.Sorted, order []float64, r, conf float64) *report.Robust {
 	nan := report.NaN()
 	out := &report.Robust{Rho1X: nan, Rho1E: nan, NEff: nan, RP: nan, RLow: nan, RHigh: nan}
 	b, se := stats.SlopeHC3(x, y)
@@ -40,14 +39,10 @@ func robust(x, y, order []float64, r, conf float64) *report.Robust {
 		return out
 	}
 	n := len(x)
-	idx := make([]int, n)
-	for i := range idx {
-		idx[i] = i
+	ox, oy := make([]float64, n), make([]float64, n)
+	for j, k := range ps.OrderOf(order) {
+		ox[j], oy[j] = ps.X[k], ps.Y[k]
 	}
-	slices.SortFunc(idx, func(a, c int) int {
-		return cmp.Or(cmp.Compare(order[a], order[c]), cmp.Compare(x[a], x[c]), cmp.Compare(y[a], y[c]))
-	})
-	ox, oy := pick(x, idx), pick(y, idx)
 	lags := stats.NeweyWestLags(n)
 	b, se = stats.SlopeHAC(ox, oy, lags)
 	out.HAC = slopeInterval(fmt.Sprintf("Newey–West HAC, Bartlett kernel, %d lags = floor(4(n/100)^(2/9))", lags), lags, b, se, conf)

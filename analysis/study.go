@@ -257,7 +257,7 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	var diag *report.Diagnostics
 	goOrRun(&wg, s.N)(func() { diag = diagnostics(x, y, ps, line, order, cfg) })
-	s.Robust = robust(x, y, order, pc.R, conf)
+	goOrRun(&wg, s.N)(func() { s.Robust = robust(x, y, ps, order, pc.R, conf) })
 	lx, ly := canonical(x, y, cfg.LowessMaxN)
 
 	for i, name := range covNames {

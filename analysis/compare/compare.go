@@ -209,7 +209,7 @@ type SlopeChange struct {
 
 // VerdictChange is one verdict that differs between the runs.
 type VerdictChange struct {
-	Name string `json:"name"` // form, direction, strength, outlier_driven
+	Name string `json:"name"` // form, direction, strength, outlier_driven, lines
 	Old  string `json:"old"`
 	New  string `json:"new"`
 }
@@ -479,6 +479,13 @@ func verdictChanges(of, nf *report.Findings) []VerdictChange {
 		if v.Old != v.New {
 			out = append(out, v)
 		}
+	}
+	// Whether one line serves every group: compared where both runs
+	// decided it (a v1 results.json has no such verdict, and a study
+	// without groups says "untested" or nothing).
+	decided := func(s string) bool { return s != "" && s != "untested" }
+	if decided(of.Lines) && decided(nf.Lines) && of.Lines != nf.Lines {
+		out = append(out, VerdictChange{"lines", of.Lines, nf.Lines})
 	}
 	return out
 }

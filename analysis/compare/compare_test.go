@@ -232,3 +232,19 @@ func TestReadNamesBadNumber(t *testing.T) {
 		t.Errorf("Field %q, Offset %d; want %q, %d", te.Field, te.Offset, "studies[1].r.old", strings.Index(in, `"NaN"`)+1)
 	}
 }
+
+// TestVerdictChangesLines: whether one line serves every group is a
+// verdict the diff compares, but only where both runs decided it (a v1
+// results.json has none; "untested" decides nothing).
+func TestVerdictChangesLines(t *testing.T) {
+	for _, tc := range []struct {
+		old, new string
+		want     bool
+	}{{"one-line", "separate", true}, {"parallel", "parallel", false}, {"", "separate", false}, {"untested", "one-line", false}} {
+		got := verdictChanges(&report.Findings{Lines: tc.old}, &report.Findings{Lines: tc.new})
+		found := len(got) == 1 && got[0].Name == "lines"
+		if found != tc.want {
+			t.Errorf("lines %q → %q: changes %+v, want a lines change %v", tc.old, tc.new, got, tc.want)
+		}
+	}
+}

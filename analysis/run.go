@@ -11,6 +11,7 @@ package analysis
 // This file holds Run: datasets in, report out.
 
 import (
+	"cmp"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
@@ -229,7 +230,19 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	// studies that need them keep their place with an error while the
 	// others run. When it cannot be read, every column is requested and
 	// dataset.Read reports the problem in the file.
-	header, herr := dataset.Header(path, opts.Delimiter)
+	workbook := dataset.IsWorkbook(path)
+	sheet := dataset.SheetRef{Name: ds.Sheet.Name, Number: ds.Sheet.Number}
+	headerRow := 0
+	if ds.HeaderRow != nil {
+		headerRow = *ds.HeaderRow
+	}
+	var header []string
+	var herr error
+	if workbook {
+		header, herr = dataset.WorkbookHeader(path, sheet, headerRow, &lim)
+	} else {
+		header, herr = dataset.Header(path, opts.Delimiter)
+	}
 	ls := &loadedSet{decl: ds, absent: map[string]bool{}, columns: header}
 	keep := func(cols []string) []string {
 		var out []string
@@ -243,7 +256,13 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 		return out
 	}
 	numeric, text = keep(numeric), keep(text)
-	t, err := dataset.Read(path, opts, numeric, text)
+	var t *dataset.Table
+	var err error
+	if workbook {
+		t, err = dataset.ReadWorkbook(path, sheet, headerRow, opts, numeric, text)
+	} else {
+		t, err = dataset.Read(path, opts, numeric, text)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("dataset %q: %w", ds.ID, err)
 	}
@@ -259,9 +278,14 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	ls.info = report.Dataset{ID: ds.ID, File: filepath.ToSlash(file), SHA256: t.SHA256, Rows: t.Rows,
 		Delimiter: string(t.Delimiter), DecimalComma: t.DecimalComma,
 		Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{}}
+	if workbook {
+		ls.info.Delimiter = ""
+		ls.info.Source = &report.Source{Kind: report.SourceWorkbook, Sheet: t.Sheet, HeaderRow: t.HeaderRow}
+	}
 	for _, c := range append(slices.Clone(numeric), text...) {
 		if !slices.ContainsFunc(ls.info.Missing, func(cc report.ColumnCount) bool { return cc.Column == c }) {
 			ls.info.Missing = append(ls.info.Missing, report.ColumnCount{Column: c, Count: t.Missing[c]})
+			ls.info.MissingKinds = append(ls.info.MissingKinds, kinds(c, t.CellErrors[c])...)
 		}
 	}
 	for _, c := range numeric {
@@ -270,6 +294,18 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 		}
 	}
 	return ls, nil
+}
+
+// kinds lists a column's counts by kind, most frequent first, ties by name.
+func kinds(col string, m map[string]int) []report.KindCount {
+	var out []report.KindCount
+	for k, n := range m {
+		out = append(out, report.KindCount{Column: col, Kind: k, Count: n})
+	}
+	slices.SortFunc(out, func(a, b report.KindCount) int {
+		return cmp.Or(cmp.Compare(b.Count, a.Count), cmp.Compare(a.Kind, b.Kind))
+	})
+	return out
 }
 
 // splitReasons splits each column's excluded rows into those whose cell

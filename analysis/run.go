@@ -12,6 +12,7 @@ package analysis
 
 import (
 	"cmp"
+	"context"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
@@ -21,6 +22,7 @@ import (
 	"slices"
 	"strings"
 	"sync"
+	"time"
 
 	"bivar/analysis/dataset"
 	"bivar/analysis/findings"
@@ -222,6 +224,9 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 		lim.MaxLevels = *ds.MaxLevels
 	}
 	opts.Limits = &lim
+	if ds.IsDatabase() {
+		return loadQuery(m, ds, opts, numeric, text)
+	}
 	path := ds.File
 	if !filepath.IsAbs(path) && m.Dir != "" {
 		path = filepath.Join(m.Dir, path)
@@ -286,6 +291,47 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 		if !slices.ContainsFunc(ls.info.Missing, func(cc report.ColumnCount) bool { return cc.Column == c }) {
 			ls.info.Missing = append(ls.info.Missing, report.ColumnCount{Column: c, Count: t.Missing[c]})
 			ls.info.MissingKinds = append(ls.info.MissingKinds, kinds(c, t.CellErrors[c])...)
+		}
+	}
+	for _, c := range numeric {
+		if n := t.NonNumeric[c]; n > 0 {
+			ls.info.NonNumeric = append(ls.info.NonNumeric, report.ColumnCount{Column: c, Count: n})
+		}
+	}
+	return ls, nil
+}
+
+// loadQuery reads a dataset from PostgreSQL: the URL from the environment
+// variable the manifest names, the statement timeout and row limit from
+// the manifest (or dataset.DefaultStatementTimeout, DefaultDBMaxRows).
+func loadQuery(m *manifest.Manifest, ds manifest.Dataset, opts dataset.Options, numeric, text []string) (*loadedSet, error) {
+	q := dataset.Query{SQL: ds.Query, Table: ds.Table, Where: ds.Where, Env: ds.Connection, URL: os.Getenv(ds.Connection)}
+	if ds.StatementTimeout != "" {
+		q.Timeout, _ = time.ParseDuration(ds.StatementTimeout) // checked by manifest.Load
+	}
+	if ds.MaxRows == nil {
+		opts.Limits.MaxRows = dataset.DefaultDBMaxRows
+	}
+	t, qi, err := dataset.ReadQuery(context.Background(), q, opts, numeric, text)
+	if err != nil {
+		at := fmt.Sprintf("line %d", ds.Line)
+		if m.Path != "" {
+			at = fmt.Sprintf("%s:%d", m.Path, ds.Line)
+		}
+		return nil, fmt.Errorf("dataset %q (%s): %w", ds.ID, at, err)
+	}
+	timeout := q.Timeout
+	if timeout <= 0 {
+		timeout = dataset.DefaultStatementTimeout
+	}
+	ls := &loadedSet{decl: ds, table: t, absent: map[string]bool{}}
+	ls.info = report.Dataset{ID: ds.ID, SHA256: t.SHA256, Rows: t.Rows,
+		Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{},
+		Source: &report.Source{Kind: report.SourcePostgreSQL, ServerVersion: qi.ServerVersion, Query: qi.Statement,
+			RanAt: qi.RanAt.Format(time.RFC3339), Connection: ds.Connection, StatementTimeout: timeout.String(), Order: dataset.Order}}
+	for _, c := range append(slices.Clone(numeric), text...) {
+		if !slices.ContainsFunc(ls.info.Missing, func(cc report.ColumnCount) bool { return cc.Column == c }) {
+			ls.info.Missing = append(ls.info.Missing, report.ColumnCount{Column: c, Count: t.Missing[c]})
 		}
 	}
 	for _, c := range numeric {

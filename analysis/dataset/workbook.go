@@ -154,8 +154,20 @@ func (w *Workbook) readGrid(ref SheetRef, headerRow int) (*grid, error) {
 	if err != nil {
 		return nil, err
 	}
-	rows, err := w.f.GetRows(sheet, excelize.Options{RawCellValue: true})
+	it, err := w.f.Rows(sheet)
 	if err != nil {
+		return nil, &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet: " + err.Error(), err: err}
+	}
+	var rows [][]string
+	for it.Next() {
+		r, err := it.Columns(excelize.Options{RawCellValue: true})
+		if err != nil {
+			it.Close()
+			return nil, &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet: " + err.Error(), err: err}
+		}
+		rows = append(rows, r)
+	}
+	if err := it.Close(); err != nil {
 		return nil, &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet: " + err.Error(), err: err}
 	}
 	empty := func(r []string) bool {

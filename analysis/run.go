@@ -305,7 +305,7 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 // variable the manifest names, the statement timeout and row limit from
 // the manifest (or dataset.DefaultStatementTimeout, DefaultDBMaxRows).
 func loadQuery(m *manifest.Manifest, ds manifest.Dataset, opts dataset.Options, numeric, text []string) (*loadedSet, error) {
-	q := dataset.Query{SQL: ds.Query, Table: ds.Table, Where: ds.Where, Env: ds.Connection, URL: os.Getenv(ds.Connection)}
+	q := dataset.Query{SQL: ds.Query, Table: ds.Table, Where: ds.Where, Env: ds.Connection, URL: os.Getenv(ds.Connection), SkipAbsent: true}
 	if ds.StatementTimeout != "" {
 		q.Timeout, _ = time.ParseDuration(ds.StatementTimeout) // checked by manifest.Load
 	}
@@ -324,7 +324,16 @@ func loadQuery(m *manifest.Manifest, ds manifest.Dataset, opts dataset.Options, 
 	if timeout <= 0 {
 		timeout = dataset.DefaultStatementTimeout
 	}
-	ls := &loadedSet{decl: ds, table: t, absent: map[string]bool{}}
+	// A study whose column the result lacks keeps its place with an error,
+	// as with a file.
+	ls := &loadedSet{decl: ds, table: t, absent: map[string]bool{}, columns: qi.Names}
+	for _, c := range append(slices.Clone(numeric), text...) {
+		if !slices.Contains(qi.Names, c) {
+			ls.absent[c] = true
+		}
+	}
+	numeric = slices.DeleteFunc(slices.Clone(numeric), func(c string) bool { return ls.absent[c] })
+	text = slices.DeleteFunc(slices.Clone(text), func(c string) bool { return ls.absent[c] })
 	ls.info = report.Dataset{ID: ds.ID, SHA256: t.SHA256, Rows: t.Rows,
 		Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{},
 		Source: &report.Source{Kind: report.SourcePostgreSQL, ServerVersion: qi.ServerVersion, Query: qi.Statement,
@@ -457,7 +466,11 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 
 // noColumn says that a column is not in the file, with the nearest name.
 func noColumn(role, col string, ls *loadedSet) string {
-	msg := fmt.Sprintf("%s %q is not in dataset %q (%s)", role, col, ls.decl.ID, ls.info.File)
+	from := ls.info.File
+	if from == "" && ls.info.Source != nil && ls.info.Source.Kind == report.SourcePostgreSQL {
+		from = "the result of its query"
+	}
+	msg := fmt.Sprintf("%s %q is not in dataset %q (%s)", role, col, ls.decl.ID, from)
 	if near := suggest.Nearest(col, ls.columns); near != "" {
 		return msg + fmt.Sprintf(": did you mean %q?", near)
 	}

@@ -42,6 +42,9 @@ type Query struct {
 	URL string
 	// Timeout is the statement timeout; 0 means DefaultStatementTimeout.
 	Timeout time.Duration
+	// SkipAbsent leaves out requested columns the result does not have
+	// (QueryInfo.Names lists those it has) instead of failing.
+	SkipAbsent bool
 }
 
 // QueryInfo is the provenance of rows read by ReadQuery.
@@ -50,6 +53,7 @@ type QueryInfo struct {
 	Statement     string    // the statement run, as sent
 	RanAt         time.Time // when it was sent, UTC
 	Columns       int       // columns in the result
+	Names         []string  // the result's column names
 }
 
 // Order is how ReadQuery orders and hashes rows, for the report.
@@ -192,6 +196,11 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		kinds[i] = pgKinds[f.DataTypeOID]
 	}
 	src := q.err("").File
+	if q.SkipAbsent {
+		has := func(c string) bool { return !slices.Contains(names, c) }
+		numeric = slices.DeleteFunc(slices.Clone(numeric), has)
+		text = slices.DeleteFunc(slices.Clone(text), has)
+	}
 	cols, err := selectColumns(src, names, numeric, text)
 	if err != nil {
 		var e *Error
@@ -223,7 +232,7 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		order[i] = strconv.Itoa(i + 1)
 	}
 	stmt := "SELECT * FROM (" + inner + "\n) AS bivar_q ORDER BY " + strings.Join(order, ", ") + " LIMIT " + strconv.Itoa(lim.MaxRows+1)
-	info := &QueryInfo{ServerVersion: conn.PgConn().ParameterStatus("server_version"), Statement: stmt, RanAt: time.Now().UTC(), Columns: len(names)}
+	info := &QueryInfo{ServerVersion: conn.PgConn().ParameterStatus("server_version"), Statement: stmt, RanAt: time.Now().UTC(), Columns: len(names), Names: names}
 	rows, err := tx.Query(ctx, stmt, pgx.QueryResultFormats{pgx.TextFormatCode})
 	if err != nil {
 		return nil, nil, q.queryError(what, err, timeout)

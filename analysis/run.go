@@ -11,6 +11,8 @@ package analysis
 // This file holds Run: datasets in, report out.
 
 import (
+	"cmp"
+	"context"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
@@ -20,6 +22,7 @@ import (
 	"slices"
 	"strings"
 	"sync"
+	"time"
 
 	"bivar/analysis/dataset"
 	"bivar/analysis/findings"
@@ -221,6 +224,9 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 		lim.MaxLevels = *ds.MaxLevels
 	}
 	opts.Limits = &lim
+	if ds.IsDatabase() {
+		return loadQuery(m, ds, opts, numeric, text)
+	}
 	path := ds.File
 	if !filepath.IsAbs(path) && m.Dir != "" {
 		path = filepath.Join(m.Dir, path)
@@ -229,7 +235,19 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	// studies that need them keep their place with an error while the
 	// others run. When it cannot be read, every column is requested and
 	// dataset.Read reports the problem in the file.
-	header, herr := dataset.Header(path, opts.Delimiter)
+	workbook := dataset.IsWorkbook(path)
+	sheet := dataset.SheetRef{Name: ds.Sheet.Name, Number: ds.Sheet.Number}
+	headerRow := 0
+	if ds.HeaderRow != nil {
+		headerRow = *ds.HeaderRow
+	}
+	var header []string
+	var herr error
+	if workbook {
+		header, herr = dataset.WorkbookHeader(path, sheet, headerRow, &lim)
+	} else {
+		header, herr = dataset.Header(path, opts.Delimiter)
+	}
 	ls := &loadedSet{decl: ds, absent: map[string]bool{}, columns: header}
 	keep := func(cols []string) []string {
 		var out []string
@@ -243,7 +261,13 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 		return out
 	}
 	numeric, text = keep(numeric), keep(text)
-	t, err := dataset.Read(path, opts, numeric, text)
+	var t *dataset.Table
+	var err error
+	if workbook {
+		t, err = dataset.ReadWorkbook(path, sheet, headerRow, opts, numeric, text)
+	} else {
+		t, err = dataset.Read(path, opts, numeric, text)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("dataset %q: %w", ds.ID, err)
 	}
@@ -259,6 +283,61 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	ls.info = report.Dataset{ID: ds.ID, File: filepath.ToSlash(file), SHA256: t.SHA256, Rows: t.Rows,
 		Delimiter: string(t.Delimiter), DecimalComma: t.DecimalComma,
 		Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{}}
+	if workbook {
+		ls.info.Delimiter = ""
+		ls.info.Source = &report.Source{Kind: report.SourceWorkbook, Sheet: t.Sheet, HeaderRow: t.HeaderRow}
+	}
+	for _, c := range append(slices.Clone(numeric), text...) {
+		if !slices.ContainsFunc(ls.info.Missing, func(cc report.ColumnCount) bool { return cc.Column == c }) {
+			ls.info.Missing = append(ls.info.Missing, report.ColumnCount{Column: c, Count: t.Missing[c]})
+			ls.info.MissingKinds = append(ls.info.MissingKinds, kinds(c, t.CellErrors[c])...)
+		}
+	}
+	for _, c := range numeric {
+		if n := t.NonNumeric[c]; n > 0 {
+			ls.info.NonNumeric = append(ls.info.NonNumeric, report.ColumnCount{Column: c, Count: n})
+		}
+	}
+	return ls, nil
+}
+
+// loadQuery reads a dataset from PostgreSQL: the URL from the environment
+// variable the manifest names, the statement timeout and row limit from
+// the manifest (or dataset.DefaultStatementTimeout, DefaultDBMaxRows).
+func loadQuery(m *manifest.Manifest, ds manifest.Dataset, opts dataset.Options, numeric, text []string) (*loadedSet, error) {
+	q := dataset.Query{SQL: ds.Query, Table: ds.Table, Where: ds.Where, Env: ds.Connection, URL: os.Getenv(ds.Connection), SkipAbsent: true}
+	if ds.StatementTimeout != "" {
+		q.Timeout, _ = time.ParseDuration(ds.StatementTimeout) // checked by manifest.Load
+	}
+	if ds.MaxRows == nil {
+		opts.Limits.MaxRows = dataset.DefaultDBMaxRows
+	}
+	t, qi, err := dataset.ReadQuery(context.Background(), q, opts, numeric, text)
+	if err != nil {
+		at := fmt.Sprintf("line %d", ds.Line)
+		if m.Path != "" {
+			at = fmt.Sprintf("%s:%d", m.Path, ds.Line)
+		}
+		return nil, fmt.Errorf("dataset %q (%s): %w", ds.ID, at, err)
+	}
+	timeout := q.Timeout
+	if timeout <= 0 {
+		timeout = dataset.DefaultStatementTimeout
+	}
+	// A study whose column the result lacks keeps its place with an error,
+	// as with a file.
+	ls := &loadedSet{decl: ds, table: t, absent: map[string]bool{}, columns: qi.Names}
+	for _, c := range append(slices.Clone(numeric), text...) {
+		if !slices.Contains(qi.Names, c) {
+			ls.absent[c] = true
+		}
+	}
+	numeric = slices.DeleteFunc(slices.Clone(numeric), func(c string) bool { return ls.absent[c] })
+	text = slices.DeleteFunc(slices.Clone(text), func(c string) bool { return ls.absent[c] })
+	ls.info = report.Dataset{ID: ds.ID, SHA256: t.SHA256, Rows: t.Rows,
+		Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{},
+		Source: &report.Source{Kind: report.SourcePostgreSQL, ServerVersion: qi.ServerVersion, Query: qi.Statement,
+			RanAt: qi.RanAt.Format(time.RFC3339), Connection: ds.Connection, StatementTimeout: timeout.String(), Order: dataset.Order}}
 	for _, c := range append(slices.Clone(numeric), text...) {
 		if !slices.ContainsFunc(ls.info.Missing, func(cc report.ColumnCount) bool { return cc.Column == c }) {
 			ls.info.Missing = append(ls.info.Missing, report.ColumnCount{Column: c, Count: t.Missing[c]})
@@ -270,6 +349,18 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 		}
 	}
 	return ls, nil
+}
+
+// kinds lists a column's counts by kind, most frequent first, ties by name.
+func kinds(col string, m map[string]int) []report.KindCount {
+	var out []report.KindCount
+	for k, n := range m {
+		out = append(out, report.KindCount{Column: col, Kind: k, Count: n})
+	}
+	slices.SortFunc(out, func(a, b report.KindCount) int {
+		return cmp.Or(cmp.Compare(b.Count, a.Count), cmp.Compare(a.Kind, b.Kind))
+	})
+	return out
 }
 
 // splitReasons splits each column's excluded rows into those whose cell
@@ -375,7 +466,11 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 
 // noColumn says that a column is not in the file, with the nearest name.
 func noColumn(role, col string, ls *loadedSet) string {
-	msg := fmt.Sprintf("%s %q is not in dataset %q (%s)", role, col, ls.decl.ID, ls.info.File)
+	from := ls.info.File
+	if from == "" && ls.info.Source != nil && ls.info.Source.Kind == report.SourcePostgreSQL {
+		from = "the result of its query"
+	}
+	msg := fmt.Sprintf("%s %q is not in dataset %q (%s)", role, col, ls.decl.ID, from)
 	if near := suggest.Nearest(col, ls.columns); near != "" {
 		return msg + fmt.Sprintf(": did you mean %q?", near)
 	}

@@ -86,11 +86,21 @@ type Table struct {
 	// token. NonNumeric counts, per numeric column, the non-numeric cells
 	// read as missing (always zero unless NonNumericAsMissing).
 	Missing, NonNumeric map[string]int
+
+	// Workbooks only (ReadWorkbook): the sheet read, the 1-based row of
+	// its header, and per column the cells holding an Excel error value
+	// (#DIV/0!, #N/A, …) counted by the error's text. Those cells are
+	// missing (NaN, text ""), and are also counted in Missing.
+	Sheet      string
+	HeaderRow  int
+	CellErrors map[string]map[string]int
 }
 
 // Error is a problem in a data file.
 type Error struct {
 	File   string
+	Sheet  string // a workbook's sheet, "" for a CSV file
+	Cell   string // a workbook cell reference (B17), "" if none
 	Line   int    // 1-based line in the file; 0 when not about one line
 	Column string // header name of the column concerned, "" if none
 	Text   string // the offending cell text, if any; cut to 80 characters and "…"
@@ -106,7 +116,12 @@ func (e *Error) Unwrap() error { return e.err }
 func (e *Error) Error() string {
 	var b strings.Builder
 	b.WriteString(e.File)
-	if e.Line > 0 {
+	switch {
+	case e.Sheet != "" && e.Cell != "":
+		fmt.Fprintf(&b, ": sheet %q, cell %s", e.Sheet, e.Cell)
+	case e.Sheet != "":
+		fmt.Fprintf(&b, ": sheet %q", e.Sheet)
+	case e.Line > 0:
 		fmt.Fprintf(&b, ":%d", e.Line)
 	}
 	b.WriteString(": ")

@@ -206,6 +206,7 @@ const (
 	kTables
 	kMap // table of strings with any keys (units, labels)
 	kStringOrList
+	kStringOrInt
 )
 
 var kindWords = map[kind]string{
@@ -220,6 +221,7 @@ var kindWords = map[kind]string{
 	kTables:       "an array of tables ([[…]])",
 	kMap:          "a table of strings",
 	kStringOrList: "a string or a list of strings",
+	kStringOrInt:  "a string (a name) or a whole number",
 }
 
 type node struct {
@@ -239,6 +241,9 @@ func schemaOf(t reflect.Type, path string) *node {
 	if t == reflect.TypeFor[AlsoIn]() {
 		return &node{kind: kTable, keys: []string{"x", "y"}, label: "[" + path + "]",
 			child: map[string]*node{"x": {kind: kStringOrList}, "y": {kind: kStringOrList}}}
+	}
+	if t == reflect.TypeFor[Sheet]() {
+		return &node{kind: kStringOrInt}
 	}
 	switch t.Kind() {
 	case reflect.Pointer:
@@ -361,6 +366,12 @@ func (p *parser) walk(v any, n *node, owner string, key toml.Key) {
 		}
 	case kBool:
 		if _, ok := v.(bool); !ok {
+			bad()
+		}
+	case kStringOrInt:
+		switch v.(type) {
+		case string, int64:
+		default:
 			bad()
 		}
 	case kStrings, kStringOrList:

@@ -79,8 +79,55 @@ type Dataset struct {
 	MaxBytes  *int `toml:"max_bytes"`  // largest file, in bytes
 	MaxLevels *int `toml:"max_levels"` // most distinct values in a study's group column
 
+	// Excel workbooks (file ending .xlsx or .xlsm): the sheet, by name or
+	// 1-based number (default: the first), and the 1-based row naming the
+	// columns (nil: the first non-empty row).
+	Sheet     Sheet `toml:"sheet"`
+	HeaderRow *int  `toml:"header_row"`
+
+	// PostgreSQL: Query (a SELECT), or Table with an optional Where filter,
+	// instead of File; Connection names the environment variable holding
+	// the connection URL (never the URL itself); StatementTimeout bounds
+	// the query's run time, a Go duration such as "60s" (default
+	// DefaultStatementTimeout).
+	Query            string `toml:"query"`
+	Table            string `toml:"table"`
+	Where            string `toml:"where"`
+	Connection       string `toml:"connection"`
+	StatementTimeout string `toml:"statement_timeout"`
+
 	Line int `toml:"-"` // line of the [[dataset]] header, for messages
 }
+
+// DefaultStatementTimeout is a query's time limit when statement_timeout is
+// left out: long enough for a scan of tens of millions of rows on a plant
+// server, short enough that a query without the filter meant (a scan of
+// years of history) stops before it burdens a production database.
+const DefaultStatementTimeout = "60s"
+
+// IsDatabase says the dataset is read from PostgreSQL (query or table).
+func (d *Dataset) IsDatabase() bool { return d.Query != "" || d.Table != "" }
+
+// Sheet names a workbook's sheet: sheet = "October" or sheet = 2.
+type Sheet struct {
+	Name   string // "" when given by number
+	Number int    // 1-based; 0 when given by name or left out
+}
+
+// UnmarshalTOML accepts a string or a whole number. Load has already
+// checked the type.
+func (s *Sheet) UnmarshalTOML(v any) error {
+	switch v := v.(type) {
+	case string:
+		s.Name = v
+	case int64:
+		s.Number = int(v)
+	}
+	return nil
+}
+
+// IsSet says a sheet was named.
+func (s Sheet) IsSet() bool { return s.Name != "" || s.Number != 0 }
 
 // Study declares one variable pair.
 type Study struct {

@@ -168,6 +168,26 @@ func TestErrors(t *testing.T) {
 				{Line: 5, Col: 1, Key: "dataset.non_numeric", Msg: `dataset.non_numeric = "skip" is not allowed; use one of "error", "missing"`},
 				{Line: 10, Col: 1, Key: "dataset.id", Msg: `dataset id "nov" is used twice (first at line 6)`},
 			}},
+		{"workbook keys on a CSV file", head + "sheet = 2\nheader_row = 0\n" + study,
+			[]Error{
+				{Line: 4, Col: 1, Key: "dataset.sheet", Msg: `dataset "nov": sheet applies to Excel workbooks (a file ending .xlsx or .xlsm) only; remove it`},
+				{Line: 5, Col: 1, Key: "dataset.header_row", Msg: `dataset "nov": header_row applies to Excel workbooks (a file ending .xlsx or .xlsm) only; remove it`},
+			}},
+		{"sheet of the wrong type", head + "sheet = true\n" + study,
+			[]Error{{Line: 4, Col: 1, Key: "dataset.sheet", Msg: `"dataset.sheet" must be a string (a name) or a whole number, not true/false`}}},
+		{"database problems", head + study + "[[dataset]]\nid = \"db\"\nquery = \"DELETE FROM t\"\nconnection = \"postgres://u:s3cret@h/db\"\nstatement_timeout = \"soon\"\nwhere = \"a > 1\"\ndelimiter = \";\"\n",
+			[]Error{
+				{Line: 11, Col: 1, Key: "dataset.query", Msg: `dataset "db": query must be a SELECT (or WITH … SELECT) statement; bivar only reads, in a read-only transaction`},
+				{Line: 12, Col: 1, Key: "dataset.connection", Msg: `dataset "db": connection must name an environment variable (such as LINE7_DB), not hold the connection string itself: a password written here would be kept with the manifest; set the variable to the URL and give its name`},
+				{Line: 13, Col: 1, Key: "dataset.statement_timeout", Msg: `dataset "db": statement_timeout = "soon" is not a positive duration: write it as "90s", "5m" or "1h"`},
+				{Line: 14, Col: 1, Key: "dataset.where", Msg: `dataset "db": where applies with table only; with query, write the filter into the query`},
+				{Line: 15, Col: 1, Key: "dataset.delimiter", Msg: `dataset "db": delimiter applies to CSV files only, and this dataset reads a database (cells hold numbers, not text); remove it`},
+			}},
+		{"database and file, no connection", head + study + "[[dataset]]\nid = \"db\"\ntable = \"t\"\nfile = \"cell4.csv\"\n",
+			[]Error{
+				{Line: 11, Col: 1, Key: "dataset.table", Msg: `dataset "db" has no connection: add connection = "NAME", naming the environment variable that holds the PostgreSQL URL (postgres://user@host/db); the URL and its password stay out of the manifest`},
+				{Line: 12, Col: 1, Key: "dataset.file", Msg: `dataset "db" has both file and table: a dataset reads a file or a database, not both; keep one`},
+			}},
 		{"dataset limits", head + "max_rows = 0\nmax_levels = -3\nmax_bytes = 1.5\n" + study,
 			[]Error{
 				{Line: 6, Col: 13, Key: "dataset.max_bytes", Msg: `"dataset.max_bytes" must be a whole number, not a number`},

@@ -6,9 +6,11 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/BurntSushi/toml"
 
@@ -203,28 +205,7 @@ func (p *parser) validate(m *Manifest) {
 		if name == "" {
 			name = "number " + strconv.Itoa(i+1)
 		}
-		if d.File == "" {
-			p.add(owner, "dataset.file", "dataset %q has no file: add file = \"…\" (a CSV path, relative to the manifest's folder)", name)
-		} else {
-			rel := d.File
-			if !filepath.IsAbs(d.File) {
-				d.File = filepath.Join(m.Dir, d.File)
-			}
-			if st, err := os.Stat(d.File); err != nil {
-				p.add(owner, "dataset.file", "dataset %q: file %q not found (looked for %s)", name, rel, d.File)
-			} else if st.IsDir() {
-				p.add(owner, "dataset.file", "dataset %q: %q is a folder, not a CSV file", name, rel)
-			}
-		}
-		if d.Delimiter != "" {
-			p.oneOf(owner, "dataset.delimiter", d.Delimiter, Delimiters())
-		}
-		if d.Decimal != "" {
-			p.oneOf(owner, "dataset.decimal", d.Decimal, Decimals())
-		}
-		if d.Delimiter == "," && d.Decimal == "," {
-			p.add(owner, "dataset.decimal", "dataset %q: decimal = \",\" with delimiter = \",\" works only when every number is quoted; check the file, or use delimiter = \";\"", name)
-		}
+		p.source(owner, name, d, m.Dir)
 		p.oneOf(owner, "dataset.non_numeric", d.NonNumeric, NonNumericPolicies())
 		for _, l := range []struct {
 			key string
@@ -455,4 +436,121 @@ func (m *Manifest) OutputDirProblem(dir string) string {
 		}
 	}
 	return ""
+}
+
+// envName is what an environment variable's name may be.
+var envName = regexp.MustCompile(`^[A-Za-z_][A-Za-z0-9_]*$`)
+
+// source checks where a dataset's rows come from: a CSV file, a workbook
+// (with sheet and header_row), or PostgreSQL (query or table, with where,
+// connection and statement_timeout). A value given to connection is never
+// repeated in a message: it may be a URL holding a password.
+func (p *parser) source(owner, name string, d *Dataset, dir string) {
+	db := d.IsDatabase()
+	switch {
+	case d.Query != "" && d.Table != "":
+		p.add(owner, "dataset.table", "dataset %q has both query and table: keep one (table = \"name\" reads the whole table, with where = \"…\" to filter it)", name)
+	case db && d.File != "":
+		p.add(owner, "dataset.file", "dataset %q has both file and %s: a dataset reads a file or a database, not both; keep one", name, map[bool]string{true: "query", false: "table"}[d.Query != ""])
+	case !db && d.File == "":
+		p.add(owner, "dataset.file", "dataset %q has no file: add file = \"…\" (a CSV file or an .xlsx workbook, relative to the manifest's folder), or query = \"SELECT …\" and connection = \"ENV_VAR\" for PostgreSQL", name)
+	}
+	workbook := d.File != "" && isWorkbookPath(d.File)
+	if d.File != "" && !db {
+		rel := d.File
+		if !filepath.IsAbs(d.File) {
+			d.File = filepath.Join(dir, d.File)
+		}
+		if st, err := os.Stat(d.File); err != nil {
+			p.add(owner, "dataset.file", "dataset %q: file %q not found (looked for %s)", name, rel, d.File)
+		} else if st.IsDir() {
+			p.add(owner, "dataset.file", "dataset %q: %q is a folder, not a data file", name, rel)
+		}
+	}
+	if d.Delimiter != "" {
+		p.oneOf(owner, "dataset.delimiter", d.Delimiter, Delimiters())
+	}
+	if d.Decimal != "" {
+		p.oneOf(owner, "dataset.decimal", d.Decimal, Decimals())
+	}
+	if d.Delimiter == "," && d.Decimal == "," {
+		p.add(owner, "dataset.decimal", "dataset %q: decimal = \",\" with delimiter = \",\" works only when every number is quoted; check the file, or use delimiter = \";\"", name)
+	}
+	if workbook || db {
+		what := "a workbook"
+		if db {
+			what = "a database"
+		}
+		for _, k := range []struct{ key, v string }{{"delimiter", d.Delimiter}, {"decimal", d.Decimal}} {
+			if k.v != "" {
+				p.add(owner, "dataset."+k.key, "dataset %q: %s applies to CSV files only, and this dataset reads %s (cells hold numbers, not text); remove it", name, k.key, what)
+			}
+		}
+	}
+	if !workbook {
+		if d.Sheet.IsSet() {
+			p.add(owner, "dataset.sheet", "dataset %q: sheet applies to Excel workbooks (a file ending .xlsx or .xlsm) only; remove it", name)
+		}
+		if d.HeaderRow != nil {
+			p.add(owner, "dataset.header_row", "dataset %q: header_row applies to Excel workbooks (a file ending .xlsx or .xlsm) only; remove it", name)
+		}
+	} else {
+		if d.Sheet.Name == "" && d.Sheet.Number < 0 || d.Sheet.Name == "" && d.Sheet.Number == 0 && p.sheetZero(owner) {
+			p.add(owner, "dataset.sheet", "dataset %q: sheet = %d is not allowed; give the sheet's name, or its number counting from 1", name, d.Sheet.Number)
+		}
+		if d.HeaderRow != nil && *d.HeaderRow <= 0 {
+			p.add(owner, "dataset.header_row", "dataset %q: header_row = %d is not allowed; give the row that names the columns, counting from 1 as the spreadsheet does", name, *d.HeaderRow)
+		}
+	}
+	if !db {
+		for _, k := range []struct{ key, v string }{{"where", d.Where}, {"connection", d.Connection}, {"statement_timeout", d.StatementTimeout}} {
+			if k.v != "" {
+				p.add(owner, "dataset."+k.key, "dataset %q: %s applies to database datasets (query or table) only; remove it", name, k.key)
+			}
+		}
+		return
+	}
+	if d.Where != "" && d.Table == "" {
+		p.add(owner, "dataset.where", "dataset %q: where applies with table only; with query, write the filter into the query", name)
+	}
+	if d.Query != "" {
+		q := strings.ToUpper(strings.TrimSpace(d.Query))
+		if !strings.HasPrefix(q, "SELECT") && !strings.HasPrefix(q, "WITH") && !strings.HasPrefix(q, "VALUES") && !strings.HasPrefix(q, "TABLE") {
+			p.add(owner, "dataset.query", "dataset %q: query must be a SELECT (or WITH … SELECT) statement; bivar only reads, in a read-only transaction", name)
+		}
+	}
+	switch c := d.Connection; {
+	case c == "":
+		key := "dataset.query"
+		if d.Query == "" {
+			key = "dataset.table"
+		}
+		p.add(owner, key, "dataset %q has no connection: add connection = \"NAME\", naming the environment variable that holds the PostgreSQL URL (postgres://user@host/db); the URL and its password stay out of the manifest", name)
+	case strings.Contains(c, "://") || strings.Contains(c, "=") || strings.Contains(c, "@"):
+		p.add(owner, "dataset.connection", "dataset %q: connection must name an environment variable (such as LINE7_DB), not hold the connection string itself: a password written here would be kept with the manifest; set the variable to the URL and give its name", name)
+	case !envName.MatchString(c):
+		p.add(owner, "dataset.connection", "dataset %q: connection = %q is not an environment variable name: use letters, digits and '_', not starting with a digit", name, c)
+	}
+	if d.StatementTimeout != "" {
+		if t, err := time.ParseDuration(d.StatementTimeout); err != nil || t <= 0 {
+			p.add(owner, "dataset.statement_timeout", "dataset %q: statement_timeout = %q is not a positive duration: write it as \"90s\", \"5m\" or \"1h\"", name, d.StatementTimeout)
+		}
+	}
+}
+
+// sheetZero says sheet = 0 was written (a zero Number is otherwise "left out").
+func (p *parser) sheetZero(owner string) bool {
+	_, ok := p.ix.lookup(owner, "dataset.sheet")
+	return ok
+}
+
+// isWorkbookPath says a file is read as an Excel workbook (as
+// dataset.IsWorkbook says; repeated here so that the manifest does not
+// import the reader).
+func isWorkbookPath(path string) bool {
+	switch strings.ToLower(filepath.Ext(path)) {
+	case ".xlsx", ".xlsm":
+		return true
+	}
+	return false
 }

@@ -95,12 +95,56 @@ type Dataset struct {
 	DecimalComma bool          `json:"decimal_comma"`
 	Missing      []ColumnCount `json:"missing"`     // cells read as missing, per column read
 	NonNumeric   []ColumnCount `json:"non_numeric"` // non-numeric cells counted as missing (only when allowed)
+	// MissingKinds splits the Missing counts by kind where the source
+	// tells kinds apart: a workbook's error values ("#DIV/0!", "#N/A"), per
+	// column in Missing's order, most frequent first; cells missing for
+	// other reasons (empty, a missing token, NULL) are not listed.
+	MissingKinds []KindCount `json:"missing_kinds,omitempty"`
+	// Source says where rows came from when not from a CSV file: a
+	// workbook's sheet, or a PostgreSQL query. nil for CSV.
+	Source *Source `json:"source,omitempty"`
 }
 
 // ColumnCount is a count for one column.
 type ColumnCount struct {
 	Column string `json:"column"`
 	Count  int    `json:"count"`
+}
+
+// KindCount is a count of one kind of missing cell in one column.
+type KindCount struct {
+	Column string `json:"column"`
+	Kind   string `json:"kind"`
+	Count  int    `json:"count"`
+}
+
+// Source kinds.
+const (
+	SourceWorkbook   = "xlsx"
+	SourcePostgreSQL = "postgresql"
+)
+
+// Source is the provenance of a dataset read from a workbook or a
+// database. Dataset.SHA256 is then the workbook file's hash, or the hash
+// of the rows as fetched (see Rows and Order); Dataset.Rows the rows read.
+type Source struct {
+	Kind string `json:"kind"` // SourceWorkbook or SourcePostgreSQL
+
+	// Workbooks: the sheet read and the 1-based row that names the columns.
+	Sheet     string `json:"sheet,omitempty"`
+	HeaderRow int    `json:"header_row,omitempty"`
+
+	// PostgreSQL: the server's version (server_version), the statement run
+	// as sent (the manifest's query or table wrapped in the canonical
+	// ORDER BY and the row limit), when it started (UTC, RFC 3339), the
+	// connection's environment variable (its name only), the statement
+	// timeout, and how rows were ordered and hashed.
+	ServerVersion    string `json:"server_version,omitempty"`
+	Query            string `json:"query,omitempty"`
+	RanAt            string `json:"ran_at,omitempty"`
+	Connection       string `json:"connection,omitempty"`
+	StatementTimeout string `json:"statement_timeout,omitempty"`
+	Order            string `json:"order,omitempty"`
 }
 
 // Variable describes one side of a study.

@@ -18,6 +18,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"unicode"
 	"unicode/utf8"
 
 	"bivar/analysis/dataset"
@@ -59,27 +60,64 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar init: %v\n", err)
 		return exitFailed
 	}
-	prof, err := profileCSV(csvPath)
-	if err != nil {
-		fmt.Fprintf(stderr, "bivar init: %v\n", err)
-		return exitFailed
+	var profs []*csvProfile
+	if dataset.IsWorkbook(csvPath) {
+		var skipped []string
+		var err error
+		profs, skipped, err = profileWorkbook(csvPath)
+		if err != nil {
+			fmt.Fprintf(stderr, "bivar init: %v\n", err)
+			return exitFailed
+		}
+		for _, s := range skipped {
+			fmt.Fprintf(stderr, "bivar init: %s: %s; no dataset for it\n", csvPath, s)
+		}
+		if len(profs) == 0 {
+			fmt.Fprintf(stderr, "bivar init: %s: no sheet has two numeric columns to pair (a header row naming the columns, then numbers below it); no manifest written\n", csvPath)
+			return exitFailed
+		}
+	} else {
+		prof, err := profileCSV(csvPath)
+		if err != nil {
+			fmt.Fprintf(stderr, "bivar init: %v\n", err)
+			return exitFailed
+		}
+		if len(prof.pairs()) == 0 {
+			fmt.Fprintf(stderr, "bivar init: %s; no manifest written\n", noPairMessage(prof))
+			return exitFailed
+		}
+		profs = []*csvProfile{prof}
 	}
-	if len(prof.pairs()) == 0 {
-		fmt.Fprintf(stderr, "bivar init: %s; no manifest written\n", noPairMessage(prof))
-		return exitFailed
-	}
+	prof := profs[0]
 	rel, err := relPath(filepath.Dir(dest), csvPath)
 	if err != nil {
 		fmt.Fprintf(stderr, "bivar init: %v\n", err)
 		return exitFailed
 	}
-	text := initManifest(prof, rel)
+	text := initManifestAll(profs, rel)
 	if err := writeWith(dest, func(w io.Writer) error { _, err := io.WriteString(w, text); return err }); err != nil {
 		fmt.Fprintf(stderr, "bivar init: writing %s: %v\n", dest, err)
 		return exitFailed
 	}
-	for _, c := range prof.badCells() {
-		fmt.Fprintf(stderr, "bivar init: %s: column %q: %s; the manifest counts such cells as missing (non_numeric = \"missing\"): correct them, or keep that line\n", csvPath, c.name, badText(c))
+	for _, p := range profs {
+		at := csvPath
+		if p.sheet != "" {
+			at += fmt.Sprintf(": sheet %q", p.sheet)
+		}
+		for _, c := range p.badCells() {
+			fmt.Fprintf(stderr, "bivar init: %s: column %q: %s; the manifest counts such cells as missing (non_numeric = \"missing\"): correct them, or keep that line\n", at, c.name, badText(c))
+		}
+	}
+	if len(profs) > 1 || prof.sheet != "" {
+		n := 0
+		var names []string
+		for _, p := range profs {
+			n += len(p.pairs())
+			names = append(names, strconv.Quote(p.sheet))
+		}
+		fmt.Fprintf(stderr, "bivar init: wrote %s: %s (%s), %s\n", dest, plural(len(profs), "dataset, one sheet", "datasets, one per sheet"), strings.Join(names, ", "), plural(n, "candidate study", "candidate studies"))
+		fmt.Fprintf(stderr, "bivar init: next: choose your studies in %s, then bivar run %s\n", dest, dest)
+		return exitOK
 	}
 	for _, c := range prof.grouped() {
 		fmt.Fprintf(stderr, "bivar init: %s: column %q: %s; init read them as numbers, but 'bivar run' reads numbers without separators only: save the file without them\n", csvPath, c.name, groupedText(c))
@@ -125,6 +163,8 @@ func relPath(dir, target string) (string, error) {
 // csvProfile is what init learned about a data file.
 type csvProfile struct {
 	file         string
+	sheet        string // a workbook's sheet, "" for a CSV file
+	id           string // the dataset id the manifest gives it; "" means "data"
 	delimiter    rune
 	decimalComma bool
 	rows         int
@@ -431,6 +471,21 @@ func profileCSV(path string) (*csvProfile, error) {
 	if tab.Rows == 0 {
 		return nil, fmt.Errorf("%s: a header but no data rows; add the measurements below the header line", path)
 	}
+	return profileTable(path, header, tab, func(name string) string {
+		// Read the column strictly for the first bad cell's line and text.
+		if _, err := dataset.Read(path, dataset.Options{}, []string{name}, nil); err != nil {
+			var de *dataset.Error
+			if errors.As(err, &de) && de.Line > 0 {
+				return fmt.Sprintf("line %d: %q", de.Line, de.Text)
+			}
+		}
+		return ""
+	}), nil
+}
+
+// profileTable profiles the columns read into tab; firstBad says where a
+// column's first non-numeric cell is.
+func profileTable(path string, header []string, tab *dataset.Table, firstBad func(name string) string) *csvProfile {
 	prof := &csvProfile{file: path, delimiter: tab.Delimiter, decimalComma: tab.DecimalComma, rows: tab.Rows}
 	for _, name := range header {
 		texts, nums := tab.Text[name], tab.Numeric[name]
@@ -474,13 +529,7 @@ func profileCSV(path string) (*csvProfile, error) {
 		good := c.nonEmpty - c.nonNumeric
 		c.isNumeric = good > 0 && (c.nonNumeric == 0 || good >= 2 && (c.nonNumeric == 1 || 10*c.nonNumeric <= c.nonEmpty))
 		if c.isNumeric && c.nonNumeric > 0 {
-			// Read the column strictly for the first bad cell's line and text.
-			if _, err := dataset.Read(path, dataset.Options{}, []string{name}, nil); err != nil {
-				var de *dataset.Error
-				if errors.As(err, &de) && de.Line > 0 {
-					c.firstBad = fmt.Sprintf("line %d: %q", de.Line, de.Text)
-				}
-			}
+			c.firstBad = firstBad(name)
 		}
 		c.levels = len(seen)
 		c.unique = c.nonEmpty > 0 && len(seen) == c.nonEmpty
@@ -493,7 +542,84 @@ func profileCSV(path string) (*csvProfile, error) {
 		c.role = roleOf(c)
 		prof.cols = append(prof.cols, c)
 	}
-	return prof, nil
+	return prof
+}
+
+// profileWorkbook profiles every sheet of a workbook as 'bivar run' reads
+// it (header in the first non-empty row; error cells missing) and keeps
+// the sheets with at least one candidate pair, in tab order, each with a
+// dataset id made from its name. skipped says why the others were left.
+func profileWorkbook(path string) (profs []*csvProfile, skipped []string, err error) {
+	w, err := dataset.OpenWorkbook(path, nil)
+	if err != nil {
+		return nil, nil, err
+	}
+	defer w.Close()
+	used := map[string]bool{}
+	for _, sheet := range w.Sheets() {
+		ref := dataset.SheetRef{Name: sheet}
+		header, err := dataset.WorkbookHeader(path, ref, 0, nil)
+		if err != nil {
+			skipped = append(skipped, fmt.Sprintf("sheet %q: %v", sheet, err))
+			continue
+		}
+		var names []string
+		for _, h := range header {
+			if h != "" && !slices.Contains(names, h) {
+				names = append(names, h)
+			}
+		}
+		tab, err := w.Read(ref, 0, dataset.Options{NonNumericAsMissing: true}, names, names)
+		if err != nil || tab.Rows == 0 {
+			skipped = append(skipped, fmt.Sprintf("sheet %q: no data rows", sheet))
+			continue
+		}
+		prof := profileTable(path, names, tab, func(name string) string {
+			if _, err := w.Read(ref, 0, dataset.Options{}, []string{name}, nil); err != nil {
+				var de *dataset.Error
+				if errors.As(err, &de) && de.Cell != "" {
+					return fmt.Sprintf("cell %s: %q", de.Cell, de.Text)
+				}
+			}
+			return ""
+		})
+		if len(prof.pairs()) == 0 {
+			skipped = append(skipped, fmt.Sprintf("sheet %q: fewer than two numeric columns to pair", sheet))
+			continue
+		}
+		prof.sheet = sheet
+		prof.id = sheetID(sheet, used)
+		profs = append(profs, prof)
+	}
+	return profs, skipped, nil
+}
+
+// sheetID makes a dataset id from a sheet's name: letters and digits kept,
+// other runs turned into '-', lower case, made unique with a number.
+func sheetID(sheet string, used map[string]bool) string {
+	var b strings.Builder
+	dash := false
+	for _, r := range strings.ToLower(sheet) {
+		if r < 128 && (unicode.IsLetter(r) || unicode.IsDigit(r)) {
+			if dash && b.Len() > 0 {
+				b.WriteByte('-')
+			}
+			b.WriteRune(r)
+			dash = false
+		} else {
+			dash = true
+		}
+	}
+	id := b.String()
+	if id == "" {
+		id = "sheet"
+	}
+	base := id
+	for n := 2; used[id]; n++ {
+		id = fmt.Sprintf("%s-%d", base, n)
+	}
+	used[id] = true
+	return id
 }
 
 // readGrouped reads the cells of a column that did not parse as numbers
@@ -564,7 +690,7 @@ func notText(path string) error {
 		case bytes.Contains(head, []byte("opendocument.spreadsheet")):
 			what = "an OpenDocument spreadsheet (.ods), not a CSV text file; " + save
 		case bytes.Contains(head, []byte("xl/")):
-			what = "an Excel workbook (.xlsx), not a CSV text file; " + save
+			what = "an Excel workbook, not a CSV text file; bivar reads workbooks named .xlsx: rename it to end in .xlsx and run bivar init on that"
 		}
 		return fmt.Errorf("%s is %s", path, what)
 	}
@@ -694,11 +820,32 @@ func fmtNum(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
 // commented out unless exactly one pair is a setting with a measurement
 // (initRules).
 func initManifest(prof *csvProfile, rel string) string {
+	return initManifestAll([]*csvProfile{prof}, rel)
+}
+
+// initManifestAll writes a manifest with one dataset per profile (the
+// sheets of a workbook, or one CSV file), their candidate studies in one
+// list.
+func initManifestAll(profs []*csvProfile, rel string) string {
 	var b strings.Builder
-	base := strings.TrimSuffix(filepath.Base(prof.file), filepath.Ext(prof.file))
+	base := strings.TrimSuffix(filepath.Base(profs[0].file), filepath.Ext(profs[0].file))
 	w := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
-	pairs := prof.pairs()
-	act := active(pairs)
+	npairs := 0
+	for _, prof := range profs {
+		npairs += len(prof.pairs())
+	}
+	where := func(prof *csvProfile) string {
+		if prof.sheet == "" {
+			return rel
+		}
+		return fmt.Sprintf("%s, sheet %q", rel, prof.sheet)
+	}
+	idOf := func(prof *csvProfile) string {
+		if prof.id == "" {
+			return "data"
+		}
+		return prof.id
+	}
 
 	w("# bivar manifest for %s, written by 'bivar init'.\n", rel)
 	w("#\n# Next: choose your studies in the list under \"study = [\" below (remove the\n")
@@ -714,25 +861,10 @@ func initManifest(prof *csvProfile, rel string) string {
 	kv("adjust = "+tomlString(manifest.DefaultAdjust), strings.Join(manifest.Adjustments(), " | ")+": p-values adjusted across all studies")
 	kv(fmt.Sprintf("# seed = %d", manifest.DefaultSeed), "seed of every random source (permutation tests, samples)")
 
-	w("\n# Columns found in %s (%d data rows):\n", rel, prof.rows)
-	for _, c := range prof.cols {
-		w("#   %-20s %s\n", display(c.name), describe(c))
-	}
-
-	var group, order string
-	for _, c := range prof.cols {
-		if group == "" && !c.isNumeric && !c.unique && !c.dates && c.levels >= 2 && c.levels <= initMaxGroupLevels {
-			group = c.name
-		}
-	}
-	for _, c := range prof.cols { // a run counter first, else a rising time column
-		if order == "" && c.role == roleCounter {
-			order = c.name
-		}
-	}
-	for _, c := range prof.cols {
-		if order == "" && c.role == roleTime && c.rising {
-			order = c.name
+	for _, prof := range profs {
+		w("\n# Columns found in %s (%d data rows):\n", where(prof), prof.rows)
+		for _, c := range prof.cols {
+			w("#   %-20s %s\n", display(c.name), describe(c))
 		}
 	}
 
@@ -752,19 +884,48 @@ func initManifest(prof *csvProfile, rel string) string {
 	w("#                       direction (%s), form (%s),\n", strings.Join(manifest.Directions(), "|"), strings.Join(manifest.Forms(), "|"))
 	w("#                       min_abs_r, r_within = [lo, hi], slope_within = [lo, hi] (recorded units),\n")
 	w("#                       max_p (adjusted), min_n, not_outlier_driven = true\n")
-	if group != "" || order != "" {
-		var add []string
-		if group != "" {
-			add = append(add, "group = "+tomlString(group))
+	for _, prof := range profs {
+		var group, order string
+		for _, c := range prof.cols {
+			if group == "" && !c.isNumeric && !c.unique && !c.dates && c.levels >= 2 && c.levels <= initMaxGroupLevels {
+				group = c.name
+			}
 		}
-		if order != "" {
-			add = append(add, "order = "+tomlString(order))
+		for _, c := range prof.cols { // a run counter first, else a rising time column
+			if order == "" && c.role == roleCounter {
+				order = c.name
+			}
 		}
-		w("\n# To add to a study: %s\n", strings.Join(add, ", "))
+		for _, c := range prof.cols {
+			if order == "" && c.role == roleTime && c.rising {
+				order = c.name
+			}
+		}
+
+		if group != "" || order != "" {
+			var add []string
+			if group != "" {
+				add = append(add, "group = "+tomlString(group))
+			}
+			if order != "" {
+				add = append(add, "order = "+tomlString(order))
+			}
+			if prof.sheet != "" {
+				w("\n# To add to a study of sheet %q: %s\n", prof.sheet, strings.Join(add, ", "))
+			} else {
+				w("\n# To add to a study: %s\n", strings.Join(add, ", "))
+			}
+		}
 	}
 
-	w("\n# Candidate studies, one line per pair (%d in all", len(pairs))
-	if act >= 0 {
+	anyActive := false
+	for _, prof := range profs {
+		anyActive = anyActive || active(prof.pairs()) >= 0
+	}
+	w("\n# Candidate studies, one line per pair (%d in all", npairs)
+	if anyActive && len(profs) > 1 {
+		w("; in each sheet, the pair of a setting with a measurement is active")
+	} else if anyActive {
 		w("; the pair of a setting with a measurement is active")
 	} else {
 		w("; none active: remove the '#' of those you want")
@@ -773,19 +934,23 @@ func initManifest(prof *csvProfile, rel string) string {
 	used := map[string]bool{}
 	var rest, lines, why []string
 	width := 0
-	for i, p := range pairs {
-		id := studyID(p.x.name, p.y.name, used)
-		if i >= initMaxPairs {
-			rest = append(rest, id)
-			continue
+	for _, prof := range profs {
+		pairs := prof.pairs()
+		act := active(pairs)
+		for i, p := range pairs {
+			id := studyID(p.x.name, p.y.name, used)
+			if i >= initMaxPairs {
+				rest = append(rest, id)
+				continue
+			}
+			lead := "# "
+			if i == act {
+				lead = "  "
+			}
+			line := fmt.Sprintf("%s{ id = %s, dataset = %s, x = %s, y = %s },", lead, tomlString(id), tomlString(idOf(prof)), tomlString(p.x.name), tomlString(p.y.name))
+			lines, why = append(lines, line), append(why, pairWhy(p))
+			width = max(width, utf8.RuneCountInString(line))
 		}
-		lead := "# "
-		if i == act {
-			lead = "  "
-		}
-		line := fmt.Sprintf("%s{ id = %s, dataset = \"data\", x = %s, y = %s },", lead, tomlString(id), tomlString(p.x.name), tomlString(p.y.name))
-		lines, why = append(lines, line), append(why, pairWhy(p))
-		width = max(width, utf8.RuneCountInString(line))
 	}
 	for i, line := range lines { // the comments in one column
 		w("%s%s # %s\n", line, strings.Repeat(" ", width-utf8.RuneCountInString(line)), why[i])
@@ -808,68 +973,75 @@ func initManifest(prof *csvProfile, rel string) string {
 	kv(fmt.Sprintf("# strong   = %g", th.Strong), "|r| at or above: strong")
 	kv(fmt.Sprintf("# moderate = %g", th.Moderate), "|r| at or above: moderate")
 	kv(fmt.Sprintf("# weak     = %g", th.Weak), "|r| at or above: weak; below: none")
-	w("\n[[dataset]]\n")
-	kv(`id      = "data"`, "studies name their dataset by this id")
-	kv("file    = "+tomlString(rel), "relative to this file")
-	if prof.delimiter != ',' {
-		kv("delimiter = "+tomlString(string(prof.delimiter)), `detected; "," ";" "\t", or leave out to detect`)
-	} else {
-		kv(`# delimiter = ","`, `"," ";" "\t"; left out: detected`)
-	}
-	if prof.decimalComma {
-		kv(`decimal = ","`, "detected: decimal comma")
-	} else {
-		kv(`# decimal = "."`, `"." or ","; left out: detected`)
-	}
-	if g := prof.grouped(); len(g) > 0 {
-		w("# Numbers with a separator between thousands, read as numbers by init:\n")
-		for _, c := range g {
-			w("#   %s: %s\n", display(c.name), groupedText(c))
+	for _, prof := range profs {
+		w("\n[[dataset]]\n")
+		kv("id      = "+tomlString(idOf(prof)), "studies name their dataset by this id")
+		kv("file    = "+tomlString(rel), "relative to this file")
+		if prof.sheet != "" {
+			kv("sheet   = "+tomlString(prof.sheet), "the sheet, by name (or number, 1 for the first)")
+			kv("# header_row = 1", "the row naming the columns; left out: the first non-empty row")
+			w("%-40s # cells with errors (#DIV/0!, #N/A) are missing; dates are Excel serial days\n", "")
+		} else if prof.delimiter != ',' {
+			kv("delimiter = "+tomlString(string(prof.delimiter)), `detected; "," ";" "\t", or leave out to detect`)
+		} else {
+			kv(`# delimiter = ","`, `"," ";" "\t"; left out: detected`)
 		}
-		w("# 'bivar run' reads numbers without separators only: save the file without\n")
-		w("# them (in a spreadsheet: number format without the thousands separator).\n")
-	}
-	kv("missing = ["+quoteJoin(manifest.DefaultMissing())+"]", "cells read as missing")
-	if bad := prof.badCells(); len(bad) > 0 {
-		kv(`non_numeric = "missing"`, strings.Join(manifest.NonNumericPolicies(), " | ")+": what a non-numeric cell in a studied column is;")
-		w("%-40s # set here because some cells of numeric columns are not numbers:\n", "")
-		for _, c := range bad {
-			w("%-40s #   %s: %s\n", "", display(c.name), badText(c))
+		if prof.sheet != "" {
+		} else if prof.decimalComma {
+			kv(`decimal = ","`, "detected: decimal comma")
+		} else {
+			kv(`# decimal = "."`, `"." or ","; left out: detected`)
 		}
-		w("%-40s # correct them and remove this line (default %q: stop at such a cell)\n", "", manifest.DefaultNonNumeric)
-	} else {
-		kv("# non_numeric = "+tomlString(manifest.DefaultNonNumeric), strings.Join(manifest.NonNumericPolicies(), " | ")+": what a non-numeric cell in a studied column is")
-	}
-	var idCol string
-	for _, c := range prof.cols {
-		if !c.isNumeric && c.unique && c.missing == 0 {
-			idCol = c.name
-			break
+		if g := prof.grouped(); len(g) > 0 {
+			w("# Numbers with a separator between thousands, read as numbers by init:\n")
+			for _, c := range g {
+				w("#   %s: %s\n", display(c.name), groupedText(c))
+			}
+			w("# 'bivar run' reads numbers without separators only: save the file without\n")
+			w("# them (in a spreadsheet: number format without the thousands separator).\n")
 		}
-	}
-	if idCol == "" {
+		kv("missing = ["+quoteJoin(manifest.DefaultMissing())+"]", "cells read as missing")
+		if bad := prof.badCells(); len(bad) > 0 {
+			kv(`non_numeric = "missing"`, strings.Join(manifest.NonNumericPolicies(), " | ")+": what a non-numeric cell in a studied column is;")
+			w("%-40s # set here because some cells of numeric columns are not numbers:\n", "")
+			for _, c := range bad {
+				w("%-40s #   %s: %s\n", "", display(c.name), badText(c))
+			}
+			w("%-40s # correct them and remove this line (default %q: stop at such a cell)\n", "", manifest.DefaultNonNumeric)
+		} else {
+			kv("# non_numeric = "+tomlString(manifest.DefaultNonNumeric), strings.Join(manifest.NonNumericPolicies(), " | ")+": what a non-numeric cell in a studied column is")
+		}
+		var idCol string
 		for _, c := range prof.cols {
-			if c.role == roleCounter || c.role == roleTime && c.counter {
+			if !c.isNumeric && c.unique && c.missing == 0 {
 				idCol = c.name
 				break
 			}
 		}
-	}
-	if idCol != "" {
-		kv("# id_column = "+tomlString(idCol), "names rows in the report (default: data row number)")
-	} else {
-		kv(`# id_column = "..."`, "a column that names rows in the report (default: data row number)")
-	}
+		if idCol == "" {
+			for _, c := range prof.cols {
+				if c.role == roleCounter || c.role == roleTime && c.counter {
+					idCol = c.name
+					break
+				}
+			}
+		}
+		if idCol != "" {
+			kv("# id_column = "+tomlString(idCol), "names rows in the report (default: data row number)")
+		} else {
+			kv(`# id_column = "..."`, "a column that names rows in the report (default: data row number)")
+		}
 
-	num := prof.numeric()
-	w("\n[dataset.units]   # UCUM unit code per column, e.g. \"Cel\", \"[degF]\", \"mm\", \"[in_i]\", \"%%\", \"kg\", \"a\":\n")
-	w("                  # remove the '# ' and write the code between the quotes (an empty one is refused)\n")
-	for _, c := range num {
-		w("# %s = \"\"\n", tomlKey(c.name))
-	}
-	w("\n[dataset.labels]  # names for people, shown on axes and in the text\n")
-	for _, c := range num {
-		w("# %s = %s\n", tomlKey(c.name), tomlString(c.name))
+		num := prof.numeric()
+		w("\n[dataset.units]   # UCUM unit code per column, e.g. \"Cel\", \"[degF]\", \"mm\", \"[in_i]\", \"%%\", \"kg\", \"a\":\n")
+		w("                  # remove the '# ' and write the code between the quotes (an empty one is refused)\n")
+		for _, c := range num {
+			w("# %s = \"\"\n", tomlKey(c.name))
+		}
+		w("\n[dataset.labels]  # names for people, shown on axes and in the text\n")
+		for _, c := range num {
+			w("# %s = %s\n", tomlKey(c.name), tomlString(c.name))
+		}
 	}
 	return b.String()
 }

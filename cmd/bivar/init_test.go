@@ -9,6 +9,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/xuri/excelize/v2"
+
 	"bivar/analysis/manifest"
 )
 
@@ -667,9 +669,10 @@ func TestInitThousands(t *testing.T) {
 	}
 }
 
-// TestInitNotText: a spreadsheet or another binary file is named for what
-// it is, with what to do, and no manifest is written. The .xlsx and .ods
-// files are real ones written by pandas (testdata/README.md); the others
+// TestInitNotText: a spreadsheet (other than a workbook named .xlsx) or
+// another binary file is named for what it is, with what to do, and no
+// manifest is written. The .xlsx and .ods files are real ones written by
+// pandas (testdata/README.md); the others
 // are the first bytes each format's specification gives.
 func TestInitNotText(t *testing.T) {
 	dir := t.TempDir()
@@ -681,7 +684,7 @@ func TestInitNotText(t *testing.T) {
 		return string(b)
 	}
 	cases := []struct{ name, data, want string }{
-		{"book.xlsx", read("invented.xlsx"), `is an Excel workbook (.xlsx), not a CSV text file; open it in the program that wrote it and save (or export) the sheet with the data as "CSV UTF-8", one sheet per file, then run bivar init on the .csv file`},
+		{"book.csv", read("invented.xlsx"), `is an Excel workbook, not a CSV text file; bivar reads workbooks named .xlsx: rename it to end in .xlsx and run bivar init on that`},
 		{"book.ods", read("invented.ods"), "is an OpenDocument spreadsheet (.ods), not a CSV text file; open it"},
 		{"book.xls", "\xD0\xCF\x11\xE0\xA1\xB1\x1A\xE1" + strings.Repeat("\x00", 504), "is an Excel 97-2003 workbook (.xls) or another legacy Office file (OLE compound file), not a CSV text file; open it"},
 		{"data.zip", "PK\x03\x04\x14\x00\x00\x00data.csv", "is a ZIP archive, not a CSV text file; unpack it"},
@@ -728,4 +731,75 @@ func FuzzParseGrouped(f *testing.F) {
 			t.Fatalf("parseGrouped(%q, %v) = %v, %q; without the separator %q reads %v, %v", s, decimalComma, v, sep, plain, w, err)
 		}
 	})
+}
+
+// A workbook gives one dataset per sheet with numeric columns, each with
+// its sheet named; a sheet of text only gets none, and says so; the
+// manifest, with its studies kept, runs.
+func TestInitWorkbook(t *testing.T) {
+	dir := t.TempDir()
+	book := filepath.Join(dir, "line7.xlsx")
+	f := excelize.NewFile()
+	if err := f.SetSheetName("Sheet1", "Read me"); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.SetCellValue("Read me", "A1", "invented data"); err != nil {
+		t.Fatal(err)
+	}
+	// Invented numbers: two sheets of the same shape.
+	for k, sheet := range []string{"Oct 2026", "Nov 2026"} {
+		if _, err := f.NewSheet(sheet); err != nil {
+			t.Fatal(err)
+		}
+		rows := [][]any{{"melt_temp", "hardness", "lot"}}
+		for i := range 12 {
+			rows = append(rows, []any{1400 + 2.5*float64(i) + float64(k), 240 + 1.1*float64(i) + float64((i*7)%5), "L" + strconv.Itoa(i%3)})
+		}
+		rows[5][1] = "#DIV/0!"
+		for r, row := range rows {
+			if err := f.SetSheetRow(sheet, "A"+strconv.Itoa(r+1), &row); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	if err := f.SaveAs(book); err != nil {
+		t.Fatal(err)
+	}
+	dest := filepath.Join(dir, "bivar.toml")
+	code, _, stderr := call(t, "init", book)
+	if code != exitOK {
+		t.Fatalf("init: exit %d, %s", code, stderr)
+	}
+	for _, want := range []string{`sheet "Read me": no data rows; no dataset for it`,
+		`2 datasets, one per sheet ("Oct 2026", "Nov 2026")`} {
+		if !strings.Contains(stderr, want) {
+			t.Errorf("stderr lacks %q:\n%s", want, stderr)
+		}
+	}
+	b, err := os.ReadFile(dest)
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := string(b)
+	for _, want := range []string{`sheet   = "Oct 2026"`, `sheet   = "Nov 2026"`, `id      = "oct-2026"`, `dataset = "nov-2026"`,
+		`# Columns found in line7.xlsx, sheet "Nov 2026" (12 data rows):`} {
+		if !strings.Contains(text, want) {
+			t.Errorf("manifest lacks %q", want)
+		}
+	}
+	writeFile(t, dest, uncommentStudies(text))
+	if code, _, stderr := call(t, "run", "-o", filepath.Join(dir, "out"), dest); code != exitOK {
+		t.Fatalf("run on the manifest written: exit %d, %s", code, stderr)
+	}
+
+	// A workbook written by pandas (testdata/README.md), named .xlsx, is read.
+	b, err = os.ReadFile(filepath.Join("testdata", "invented.xlsx"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	pandas := filepath.Join(dir, "pandas.xlsx")
+	writeFile(t, pandas, string(b))
+	if code, _, stderr := call(t, "init", "-o", filepath.Join(dir, "pandas.toml"), pandas); code != exitOK || !strings.Contains(stderr, "1 dataset, one sheet") {
+		t.Errorf("init on pandas' workbook: exit %d, %s", code, stderr)
+	}
 }

@@ -1,0 +1,73 @@
+package dataset
+
+import (
+	"context"
+	"math"
+	"os"
+	"testing"
+	"time"
+
+	"github.com/jackc/pgx/v5"
+)
+
+// Dates and timestamps read as seconds since 1970-01-01 00:00 UTC, as Go's
+// time package's Unix() gives them for the same instants; a timestamp
+// without time zone is taken as UTC; NULL is missing; the hash of the
+// same rows does not depend on the order the server stores them in.
+func TestReadQueryTimes(t *testing.T) {
+	url := os.Getenv("BIVAR_TEST_PG_URL")
+	if url == "" {
+		t.Skip("no PostgreSQL server: BIVAR_TEST_PG_URL is not set; run scripts/pg-test.sh go test ./analysis/dataset/ to start one")
+	}
+	ctx := context.Background()
+	conn, err := pgx.Connect(ctx, url)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer conn.Close(ctx)
+	for _, s := range []string{"DROP TABLE IF EXISTS times",
+		"CREATE TABLE times (d date, ts timestamp, tz timestamptz, v double precision)",
+		"INSERT INTO times VALUES ('2026-10-01', '2026-10-01 08:00:00.25', '2026-10-01 08:00:00+02', 1.5), (NULL, NULL, NULL, NULL), ('1969-12-31', '1969-12-31 23:59:59', '1970-01-01 00:00:00-01', -2)"} {
+		if _, err := conn.Exec(ctx, s); err != nil {
+			t.Fatal(err)
+		}
+	}
+	q := Query{Table: "times", Env: "BIVAR_TEST_PG_URL", URL: url}
+	tb, info, err := ReadQuery(ctx, q, Options{}, []string{"d", "ts", "tz", "v"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// ORDER BY 1, 2, …: 1969 first, 2026 next, the NULL row last.
+	unix := func(y int, mo time.Month, d, h, mi, s, ns int, loc *time.Location) float64 {
+		tt := time.Date(y, mo, d, h, mi, s, ns, loc)
+		return float64(tt.Unix()) + float64(tt.Nanosecond())/1e9
+	}
+	want := map[string][]float64{
+		"d":  {unix(1969, 12, 31, 0, 0, 0, 0, time.UTC), unix(2026, 10, 1, 0, 0, 0, 0, time.UTC), math.NaN()},
+		"ts": {unix(1969, 12, 31, 23, 59, 59, 0, time.UTC), unix(2026, 10, 1, 8, 0, 0, 250e6, time.UTC), math.NaN()},
+		"tz": {unix(1970, 1, 1, 0, 0, 0, 0, time.FixedZone("", -3600)), unix(2026, 10, 1, 8, 0, 0, 0, time.FixedZone("", 7200)), math.NaN()},
+		"v":  {-2, 1.5, math.NaN()},
+	}
+	for c, w := range want {
+		if !closeFloats(tb.Numeric[c], w, 0) || tb.Missing[c] != 1 {
+			t.Errorf("%s = %v (%d missing), want %v (1 missing)", c, tb.Numeric[c], tb.Missing[c], w)
+		}
+	}
+	if info.ServerVersion == "" || info.Columns != 4 {
+		t.Errorf("info = %+v", info)
+	}
+	// The same rows stored in another order hash the same.
+	for _, s := range []string{"CREATE TABLE times2 AS SELECT * FROM times ORDER BY v DESC NULLS FIRST"} {
+		if _, err := conn.Exec(ctx, "DROP TABLE IF EXISTS times2"); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := conn.Exec(ctx, s); err != nil {
+			t.Fatal(err)
+		}
+	}
+	q.Table = "times2"
+	tb2, _, err := ReadQuery(ctx, q, Options{}, []string{"v"}, nil)
+	if err != nil || tb2.SHA256 != tb.SHA256 {
+		t.Errorf("hash of the rows stored in another order %s, want %s (%v)", tb2.SHA256, tb.SHA256, err)
+	}
+}

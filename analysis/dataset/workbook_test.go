@@ -1,0 +1,273 @@
+package dataset
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// writeBook writes a workbook with excelize: the sheets in order, each a
+// grid of cell values from A1 (nil leaves a cell empty).
+func writeBook(t *testing.T, sheets []string, grids [][][]any, edit func(f *excelize.File)) string {
+	t.Helper()
+	f := excelize.NewFile()
+	for i, name := range sheets {
+		if i == 0 {
+			if err := f.SetSheetName("Sheet1", name); err != nil {
+				t.Fatal(err)
+			}
+		} else if _, err := f.NewSheet(name); err != nil {
+			t.Fatal(err)
+		}
+		for r, row := range grids[i] {
+			for c, v := range row {
+				if v == nil {
+					continue
+				}
+				if err := f.SetCellValue(name, cellRef(c, r+1), v); err != nil {
+					t.Fatal(err)
+				}
+			}
+		}
+	}
+	if edit != nil {
+		edit(f)
+	}
+	path := filepath.Join(t.TempDir(), "book.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+func closeFloats(a, b []float64, tol float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if math.IsNaN(a[i]) != math.IsNaN(b[i]) || !math.IsNaN(a[i]) && math.Abs(a[i]-b[i]) > tol {
+			return false
+		}
+	}
+	return true
+}
+
+// Independent writer 1: openpyxl (testdata/make-workbooks.py). The values
+// the script gave openpyxl are in the CSV beside it, read by Read; the
+// workbook must read as the same numbers (dates as Excel serial days,
+// which Python computed itself; a tolerance of 1e-9 days, 86 µs, allows
+// openpyxl's rounding of times to the millisecond).
+func TestReadWorkbookOpenpyxl(t *testing.T) {
+	t.Parallel()
+	book := filepath.Join("testdata", "openpyxl-line7.xlsx")
+	num := []string{"poured", "melt_temp", "hardness", "hardness (2)"}
+	got, err := ReadWorkbook(book, SheetRef{Name: "October"}, 2, Options{}, num, []string{"lot"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := Read(filepath.Join("testdata", "openpyxl-line7.csv"), Options{}, num, []string{"lot"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Rows != want.Rows || got.Rows != 10 {
+		t.Fatalf("rows = %d, want %d (the styled empty row after the data is not a row)", got.Rows, want.Rows)
+	}
+	for _, c := range num {
+		tol := 0.0
+		if c == "poured" {
+			tol = 1e-9
+		}
+		if !closeFloats(got.Numeric[c], want.Numeric[c], tol) {
+			t.Errorf("column %q = %v, want %v", c, got.Numeric[c], want.Numeric[c])
+		}
+		if got.Missing[c] != want.Missing[c] {
+			t.Errorf("column %q: %d missing, want %d", c, got.Missing[c], want.Missing[c])
+		}
+	}
+	if strings.Join(got.Text["lot"], ",") != strings.Join(want.Text["lot"], ",") {
+		t.Errorf("lot = %v, want %v", got.Text["lot"], want.Text["lot"])
+	}
+	if got.CellErrors["melt_temp"]["#DIV/0!"] != 1 || got.CellErrors["hardness"]["#N/A"] != 2 || len(got.CellErrors["hardness (2)"]) != 0 {
+		t.Errorf("cell errors = %v, want melt_temp #DIV/0! 1, hardness #N/A 2, none in hardness (2) (its formula is uncalculated, so empty)", got.CellErrors)
+	}
+	b, _ := os.ReadFile(book)
+	sum := sha256.Sum256(b)
+	if got.SHA256 != hex.EncodeToString(sum[:]) || got.Sheet != "October" || got.HeaderRow != 2 {
+		t.Errorf("sha %s sheet %q header row %d, want the file's hash, October, 2", got.SHA256, got.Sheet, got.HeaderRow)
+	}
+	// By number: the second sheet; the header row found as the first
+	// non-empty row is row 1 (lot, the title), so header_row matters.
+	byNum, err := ReadWorkbook(book, SheetRef{Number: 2}, 2, Options{}, num[:1], nil)
+	if err != nil || !closeFloats(byNum.Numeric["poured"], want.Numeric["poured"], 1e-9) {
+		t.Errorf("sheet 2 read %v (error %v), want the October sheet's poured column", byNum, err)
+	}
+	h, err := WorkbookHeader(book, SheetRef{Name: "October"}, 0, nil)
+	if err != nil || h[0] != "lot" || h[1] != "Line 7 castings, October (invented)" || h[2] != "Line 7 castings, October (invented) (2)" {
+		t.Errorf("header of row 1 = %q, %v; want lot, then the title merged over B..E named with (2), (3), …", h, err)
+	}
+}
+
+// Independent writer 2: SpreadsheetML written by hand (make-workbooks.py),
+// with formulas whose values are cached beside them and cells of error
+// type. The cached values are the quotients written in the script.
+func TestReadWorkbookHandmade(t *testing.T) {
+	t.Parallel()
+	got, err := ReadWorkbook(filepath.Join("testdata", "handmade-cached.xlsx"), SheetRef{}, 0, Options{}, []string{"x", "y", "ratio"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	nan := math.NaN()
+	for c, want := range map[string][]float64{
+		"x":     {1, 2, 0, 3, 4},
+		"y":     {2.5, 4.75, 1, nan, 8.25},
+		"ratio": {2.5, 2.375, nan, nan, 2.0625},
+	} {
+		if !closeFloats(got.Numeric[c], want, 0) {
+			t.Errorf("%s = %v, want %v", c, got.Numeric[c], want)
+		}
+	}
+	if e := got.CellErrors; e["ratio"]["#DIV/0!"] != 1 || e["ratio"]["#VALUE!"] != 1 || e["y"]["#VALUE!"] != 1 || got.Missing["ratio"] != 2 {
+		t.Errorf("cell errors %v, missing %v; want ratio: #DIV/0! 1, #VALUE! 1 (2 missing); y: #VALUE! 1", e, got.Missing)
+	}
+}
+
+// Workbooks written by excelize in the test: numbers, times, a formula
+// with its cached value, error texts, merged header cells, blank rows
+// after the data, and each failure's message.
+func TestReadWorkbookExcelize(t *testing.T) {
+	t.Parallel()
+	t0 := time.Date(2026, 10, 1, 6, 0, 0, 0, time.UTC)
+	grid := [][]any{
+		{"Line 7", nil, nil},
+		{"run", "temp", nil},
+		{"", "", "hardness"},
+		{1, 1401.5, 250.25},
+		{2, "#DIV/0!", 251},
+		{3, 1402, nil},
+		{4, 1403.25, "#N/A"},
+		{t0, 1404, 252.5},
+	}
+	path := writeBook(t, []string{"Runs", "Empty"}, [][][]any{grid, {}}, func(f *excelize.File) {
+		// "run" and "temp" are merged down over rows 2–3; row 3 is the header.
+		for _, r := range []string{"A2:A3", "B2:B3"} {
+			if err := f.MergeCell("Runs", r[:2], r[3:]); err != nil {
+				t.Fatal(err)
+			}
+		}
+		// C6 holds a formula whose value excelize caches (the 1402 is set first).
+		if err := f.SetCellValue("Runs", "C6", 253.75); err != nil {
+			t.Fatal(err)
+		}
+		if err := f.SetCellFormula("Runs", "C6", "C5+2.75"); err != nil {
+			t.Fatal(err)
+		}
+		// A formatted but empty row after the data.
+		st, _ := f.NewStyle(&excelize.Style{NumFmt: 2})
+		if err := f.SetCellStyle("Runs", "A12", "C12", st); err != nil {
+			t.Fatal(err)
+		}
+	})
+	tb, err := ReadWorkbook(path, SheetRef{Name: "Runs"}, 3, Options{}, []string{"run", "temp", "hardness"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// excelize stores a time as its serial day count: 2026-10-01 06:00 UTC
+	// is 46296 + 6/24 days after 1899-12-30 (46296 days: 126 years of
+	// 365 days plus 31 leap days, 1900 not one, to 2025-12-30, then 275).
+	days := t0.Sub(time.Date(1899, 12, 30, 0, 0, 0, 0, time.UTC)).Hours() / 24
+	nan := math.NaN()
+	for c, want := range map[string][]float64{
+		"run":      {1, 2, 3, 4, days},
+		"temp":     {1401.5, nan, 1402, 1403.25, 1404},
+		"hardness": {250.25, 251, 253.75, nan, 252.5},
+	} {
+		if !closeFloats(tb.Numeric[c], want, 1e-9) {
+			t.Errorf("%s = %v, want %v", c, tb.Numeric[c], want)
+		}
+	}
+	if tb.Rows != 5 || tb.Missing["temp"] != 1 || tb.CellErrors["hardness"]["#N/A"] != 1 {
+		t.Errorf("rows %d, missing %v, errors %v", tb.Rows, tb.Missing, tb.CellErrors)
+	}
+
+	bad := writeBook(t, []string{"S"}, [][][]any{{{"x", "y"}, {1, 2}, {2, "3 mm"}, {3, "n/a"}}}, nil)
+	notZip := filepath.Join(t.TempDir(), "export.xlsx")
+	if err := os.WriteFile(notZip, []byte("x,y\n1,2\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name, path string
+		ref        SheetRef
+		header     int
+		opts       Options
+		want       string
+	}{
+		{"non-numeric", bad, SheetRef{}, 1, Options{}, `sheet "S", cell B3: column "y": "3 mm" is not a number; correct the cell`},
+		{"non-numeric count", bad, SheetRef{}, 1, Options{}, `(1 more such cells in this column)`},
+		{"no sheet", bad, SheetRef{Name: "s"}, 1, Options{}, `no sheet "s" (did you mean "S"? names must match exactly); the sheets are "S"`},
+		{"sheet number", bad, SheetRef{Number: 3}, 1, Options{}, `sheet = 3, but the workbook has 1 sheet(s) ("S"): give a number from 1 to 1, or a name`},
+		{"header row", bad, SheetRef{}, 9, Options{}, `sheet "S": header_row = 9, but the sheet's last non-empty row is 4`},
+		{"no column", bad, SheetRef{}, 1, Options{}, ""},
+		{"empty sheet", path, SheetRef{Name: "Empty"}, 0, Options{}, `sheet "Empty": the sheet is empty`},
+		{"not a zip", notZip, SheetRef{}, 0, Options{}, `it is not an .xlsx file (an .xlsx file is a zip archive)`},
+		{"too large", bad, SheetRef{}, 1, Options{Limits: &Limits{MaxBytes: 100, MaxRows: 10, MaxLevels: 10}}, `more than the limit of 100 bytes: check`},
+		{"too many rows", bad, SheetRef{}, 1, Options{Limits: &Limits{MaxBytes: 1 << 20, MaxRows: 2, MaxLevels: 10}}, `the sheet has 3 data rows, more than the limit of 2`},
+	} {
+		cols := []string{"x", "y"}
+		if tc.name == "no column" {
+			cols = []string{"yy"}
+			tc.want = `no column "yy" (did you mean "y"?); the header (row 1) has "x", "y"`
+		}
+		_, err := ReadWorkbook(tc.path, tc.ref, tc.header, tc.opts, cols, nil)
+		var e *Error
+		if !errors.As(err, &e) || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: got %v, want a *dataset.Error containing %q", tc.name, err, tc.want)
+		}
+	}
+	tb, err = ReadWorkbook(bad, SheetRef{}, 1, Options{NonNumericAsMissing: true}, []string{"y"}, nil)
+	if err != nil || tb.NonNumeric["y"] != 2 {
+		t.Errorf("non_numeric = missing: %v, %v", tb, err)
+	}
+}
+
+// BenchmarkReadWorkbook1e4 reads two numeric columns of a 10⁴-row sheet
+// written by excelize (normal x, y = 2x + noise, seeded).
+func BenchmarkReadWorkbook1e4(b *testing.B) {
+	f := excelize.NewFile()
+	sw, err := f.NewStreamWriter("Sheet1")
+	if err != nil {
+		b.Fatal(err)
+	}
+	if err := sw.SetRow("A1", []any{"x", "y", "lot"}); err != nil {
+		b.Fatal(err)
+	}
+	rng := rand.New(rand.NewPCG(1, 2))
+	for i := range 10_000 {
+		x := rng.NormFloat64()
+		if err := sw.SetRow(cellRef(0, i+2), []any{x, 2*x + rng.NormFloat64(), "L" + strconv.Itoa(i%7)}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	if err := sw.Flush(); err != nil {
+		b.Fatal(err)
+	}
+	path := filepath.Join(b.TempDir(), "bench.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := ReadWorkbook(path, SheetRef{}, 0, Options{Groups: []string{"lot"}}, []string{"x", "y"}, []string{"lot"}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

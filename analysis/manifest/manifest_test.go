@@ -174,7 +174,7 @@ func TestErrors(t *testing.T) {
 				{Line: 5, Col: 1, Key: "dataset.header_row", Msg: `dataset "nov": header_row applies to Excel workbooks (a file ending .xlsx or .xlsm) only; remove it`},
 			}},
 		{"sheet of the wrong type", head + "sheet = true\n" + study,
-			[]Error{{Line: 4, Col: 1, Key: "dataset.sheet", Msg: `"dataset.sheet" must be a string (a name) or a whole number, not true/false`}}},
+			[]Error{{Line: 4, Col: 9, Key: "dataset.sheet", Msg: `"dataset.sheet" must be a string (a name) or a whole number, not true/false`}}},
 		{"database problems", head + study + "[[dataset]]\nid = \"db\"\nquery = \"DELETE FROM t\"\nconnection = \"postgres://u:s3cret@h/db\"\nstatement_timeout = \"soon\"\nwhere = \"a > 1\"\ndelimiter = \";\"\n",
 			[]Error{
 				{Line: 11, Col: 1, Key: "dataset.query", Msg: `dataset "db": query must be a SELECT (or WITH … SELECT) statement; bivar only reads, in a read-only transaction`},

@@ -462,3 +462,25 @@ func TestEarlierReportFolder(t *testing.T) {
 		}
 	}
 }
+
+// TestDatasetSource: a dataset read from a database (or a workbook) shows
+// where its rows came from in both reports: server, statement, time run.
+func TestDatasetSource(t *testing.T) {
+	r := fixture.Report(fixture.Options{})
+	r.Datasets[0].Source = &report.Source{Kind: "postgresql", ServerVersion: "15.18 (invented)", Query: "SELECT force, gap FROM press ORDER BY 1, 2",
+		RanAt: "2026-12-05T03:00:00Z", Connection: "LINE7_DB", StatementTimeout: "60s"}
+	r.Datasets[0].MissingKinds = []report.KindCount{{Column: "gap", Kind: "#N/A", Count: 2}}
+	page := string(mustHTML(t, r))
+	var md bytes.Buffer
+	if err := Markdown(&md, r); err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"15.18 (invented)", "SELECT force, gap FROM press ORDER BY 1, 2", "2026-12-05T03:00:00Z", "LINE7_DB", "2 #N/A in gap"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("report.html lacks %q", want)
+		}
+		if !strings.Contains(md.String(), want) {
+			t.Errorf("report.md lacks %q", want)
+		}
+	}
+}

@@ -23,6 +23,7 @@ type page struct {
 	Level      string // confidence in percent, "95"
 	Provenance []kv
 	Datasets   table
+	Sources    table // datasets read from a workbook or a database: where exactly
 	Excluded   table
 	Summary    summary
 	Studies    []*studyView
@@ -165,8 +166,36 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 	p.Datasets = table{Caption: "Data files read",
 		Head: []string{"Dataset", "File", "SHA-256", "Rows read", "Missing cells", "Non-numeric cells"},
 		Num:  []bool{false, false, false, true, false, false}}
+	p.Sources = table{Caption: "Where the rows of workbooks and databases came from",
+		Head: []string{"Dataset", "Source", "Details"}, Num: []bool{false, false, false}}
 	for _, d := range r.Datasets {
-		p.Datasets.Rows = append(p.Datasets.Rows, []string{d.ID, d.File, d.SHA256, itoa(d.Rows), counts(d.Missing), counts(d.NonNumeric)})
+		file := d.File
+		if file == "" && d.Source != nil {
+			file = d.Source.Kind
+		}
+		p.Datasets.Rows = append(p.Datasets.Rows, []string{d.ID, file, d.SHA256, itoa(d.Rows), counts(d.Missing), counts(d.NonNumeric)})
+		if src := d.Source; src != nil {
+			var det []string
+			add := func(k, v string) {
+				if v != "" {
+					det = append(det, k+": "+v)
+				}
+			}
+			add("sheet", src.Sheet)
+			if src.HeaderRow > 0 {
+				add("header row", itoa(src.HeaderRow))
+			}
+			add("server", src.ServerVersion)
+			add("statement", src.Query)
+			add("ran at (UTC)", src.RanAt)
+			add("connection from the environment variable", src.Connection)
+			add("statement timeout", src.StatementTimeout)
+			add("rows hashed in", src.Order)
+			for _, k := range d.MissingKinds {
+				det = append(det, fmt.Sprintf("%d %s in %s", k.Count, k.Kind, k.Column))
+			}
+			p.Sources.Rows = append(p.Sources.Rows, []string{d.ID, src.Kind, strings.Join(det, "; ")})
+		}
 	}
 	p.Excluded = table{Caption: "Rows left out of each study, and why",
 		Head: []string{"Study", "Rows used", "Rows left out", "Why"},

@@ -126,7 +126,12 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		slots <- struct{}{}
 		go func() {
 			defer func() { <-slots; wg.Done() }()
-			assess(&r.Studies[i], cfg)
+			sc := cfg
+			if d := m.Studies[i].Design; d != "" {
+				sc.Design = d
+			}
+			r.Studies[i].Design = sc.Design
+			assess(&r.Studies[i], sc)
 			r.Studies[i].Expectations = Expectations(&r.Studies[i], m.Studies[i].Expect, cfg.Alpha, adjust)
 		}()
 	}

@@ -330,3 +330,30 @@ func TestRunEmptyListsAreLists(t *testing.T) {
 		}
 	}
 }
+
+// TestRunStudyDesign: a study's own design overrides the manifest's, and
+// what the report says about cause follows each study's design.
+func TestRunStudyDesign(t *testing.T) {
+	m, err := manifest.Load("testdata/run.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	m.Studies[0].Design = "randomized-experiment" // as `design = "randomized-experiment"` in its [[study]]
+	r, err := analysis.Run(m, analysis.Options{Version: "test"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	first, other := &r.Studies[0], &r.Studies[1]
+	if first.Design != "randomized-experiment" || other.Design != "observational" {
+		t.Fatalf("designs %q and %q, want the study's own and the manifest's", first.Design, other.Design)
+	}
+	has := func(s *report.Study, word string) bool {
+		return s.Findings != nil && strings.Contains(strings.Join(s.Findings.Limits, " "), word)
+	}
+	if !has(first, "randomised") || has(first, "observational") {
+		t.Errorf("randomized study's limits: %q", first.Findings.Limits)
+	}
+	if other.Findings != nil && !has(other, "observational") {
+		t.Errorf("observational study's limits: %q", other.Findings.Limits)
+	}
+}

@@ -164,6 +164,7 @@ func source(seed uint64, studyID, use string) rand.Source {
 func Analyze(in Input, cfg Config) report.Study {
 	cfg = cfg.withDefaults()
 	s := analyze(in, cfg)
+	s.Design = cfg.Design
 	assess(&s, cfg)
 	return s
 }

@@ -444,6 +444,9 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		sv.Title = s.ID
 	}
 	sv.Pair = fmt.Sprintf("%s against %s · dataset %s · study %s", chart.InUnit(s.Y), chart.InUnit(s.X), s.Dataset, s.ID)
+	if s.Design != "" {
+		sv.Pair += " · " + strings.ReplaceAll(s.Design, "-", " ")
+	}
 	if s.Error != nil {
 		sv.Error = *s.Error
 		return sv, nil

@@ -144,6 +144,11 @@ type Study struct {
 	Notes      string    `toml:"notes"`
 	Expect     *Expect   `toml:"expect"`
 
+	// Design is how this study's data arose, when it differs from the
+	// manifest's design (in a randomized experiment only the randomized
+	// factor is a randomized x); "" takes the manifest's. Defaults fill it.
+	Design string `toml:"design"`
+
 	Line int `toml:"-"` // line of the [[study]] header, for messages
 }
 

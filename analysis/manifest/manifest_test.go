@@ -173,6 +173,8 @@ func TestErrors(t *testing.T) {
 				{Line: 4, Col: 1, Key: "dataset.sheet", Msg: `dataset "nov": sheet applies to Excel workbooks (a file ending .xlsx or .xlsm) only; remove it`},
 				{Line: 5, Col: 1, Key: "dataset.header_row", Msg: `dataset "nov": header_row applies to Excel workbooks (a file ending .xlsx or .xlsm) only; remove it`},
 			}},
+		{"study design not a design", head + study + "design = \"randomised\"\n",
+			[]Error{{Line: 9, Col: 1, Key: "study.design", Msg: `study.design = "randomised" is not allowed; use one of "observational", "designed-experiment", "randomized-experiment" (did you mean "randomized-experiment"?)`}}},
 		{"sheet of the wrong type", head + "sheet = true\n" + study,
 			[]Error{{Line: 4, Col: 9, Key: "dataset.sheet", Msg: `"dataset.sheet" must be a string (a name) or a whole number, not true/false`}}},
 		{"database problems", head + study + "[[dataset]]\nid = \"db\"\nquery = \"DELETE FROM t\"\nconnection = \"postgres://u:s3cret@h/db\"\nstatement_timeout = \"soon\"\nwhere = \"a > 1\"\ndelimiter = \";\"\n",

@@ -88,7 +88,18 @@ func (p *parser) oneOf(owner, key, v string, allowed []string) {
 		quoted[i] = strconv.Quote(a)
 	}
 	hint := ""
-	if near := suggest.Nearest(v, allowed); near != "" {
+	near := suggest.Nearest(v, allowed)
+	if near == "" && len(v) >= 4 {
+		// A word whose start names one choice ("randomised", "designed")
+		// points to it even when the rest is spelt another way.
+		for _, a := range allowed {
+			if strings.HasPrefix(a, v[:min(len(v), 6)]) {
+				near = a
+				break
+			}
+		}
+	}
+	if near != "" {
 		hint = fmt.Sprintf(" (did you mean %q?)", near)
 	}
 	p.add(owner, key, "%s = %q is not allowed; use one of %s%s", key, v, strings.Join(quoted, ", "), hint)
@@ -278,6 +289,9 @@ func (p *parser) validate(m *Manifest) {
 		}
 		if s.Expect != nil {
 			p.expect(owner, name, s.Expect)
+		}
+		if s.Design != "" {
+			p.oneOf(owner, "study.design", s.Design, Designs())
 		}
 	}
 }

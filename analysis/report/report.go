@@ -178,6 +178,10 @@ type Study struct {
 
 	Covariates []string `json:"covariates,omitempty"`
 
+	// Design is how this study's data arose (the study's design key, else
+	// the manifest's); the statements about cause follow it.
+	Design string `json:"design"`
+
 	N        int         `json:"n"`         // complete cases used
 	NMissing int         `json:"n_missing"` // rows dropped because x, y (or group, order, a covariate) was missing
 	Excluded []Exclusion `json:"excluded"`  // why rows were dropped, per column

@@ -6,6 +6,7 @@ package main
 // once, and never into a folder that is not theirs.
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
@@ -410,12 +411,13 @@ func TestConcurrentRuns(t *testing.T) {
 		go func() {
 			defer wg.Done()
 			for range rounds {
-				code, _, stderr := call(t, "run", "-o", out, m)
+				code, _, stderr := call(t, "run", "-replace", "-o", out, m) // two manifests, one folder: on purpose
 				mu.Lock()
 				switch {
 				case (code == exitOK || code == exitExpectation) && strings.Contains(stderr, "report written to"):
 					written++
-				case code == exitFailed && strings.Contains(stderr, "is being written by another bivar run (process "+strconv.Itoa(os.Getpid())+", running since ") &&
+				case code == exitFailed && strings.Contains(stderr, "is being written by another bivar run \"") &&
+					strings.Contains(stderr, "(process "+strconv.Itoa(os.Getpid())+", running since ") &&
 					strings.Contains(stderr, "wait for it to finish, or choose another with -o DIR"):
 					refused++
 				default:
@@ -540,7 +542,7 @@ func TestRunOutputRefused(t *testing.T) {
 	}
 	a := writeResults(t, filepath.Join(root, "a"), runOf(1, 0.8, "strong"))
 	code, _, stderr = call(t, "diff", "-o", filepath.Join(root, "report"), a, a)
-	if want := "holds the output of bivar run, which this command would replace whole: give each command a folder of its own"; code != exitFailed || !strings.Contains(stderr, want) {
+	if want := "which this command would replace whole: give each command a folder of its own"; code != exitFailed || !strings.Contains(stderr, want) {
 		t.Errorf("diff into a report folder: exit %d, stderr:\n%s\nwant %q", code, stderr, want)
 	}
 	// Leftovers of a run that died are cleared, and only they.
@@ -607,4 +609,33 @@ func TestConcurrentRunProcesses(t *testing.T) {
 		t.Errorf("left beside the report: %v", h)
 	}
 	t.Logf("%d written, %d refused", written, refused)
+}
+
+// TestRunOtherManifestRefused: a report folder records the manifest that
+// wrote it; a run of another manifest into it stops with a message naming
+// both, and -replace overwrites it on purpose.
+func TestRunOtherManifestRefused(t *testing.T) {
+	base := t.TempDir()
+	out := filepath.Join(base, "report")
+	a := project(t, filepath.Join(base, "a"), 0, "project a (invented data)")
+	b := project(t, filepath.Join(base, "b"), 1, "project b (invented data)")
+	if code, _, stderr := call(t, "run", "-o", out, a); code != exitOK && code != exitExpectation {
+		t.Fatalf("first run: exit %d\n%s", code, stderr)
+	}
+	if code, _, stderr := call(t, "run", "-o", out, a); code != exitOK && code != exitExpectation {
+		t.Fatalf("same manifest again: exit %d\n%s", code, stderr)
+	}
+	before, _ := os.ReadFile(filepath.Join(out, "results.json"))
+	code, _, stderr := call(t, "run", "-o", out, b)
+	absA, _ := filepath.Abs(a)
+	absB, _ := filepath.Abs(b)
+	if code != exitFailed || !strings.Contains(stderr, absA) || !strings.Contains(stderr, absB) || !strings.Contains(stderr, "-replace") {
+		t.Errorf("other manifest: exit %d, stderr:\n%s\nwant exit 1 naming both manifests and -replace", code, stderr)
+	}
+	if after, _ := os.ReadFile(filepath.Join(out, "results.json")); !bytes.Equal(before, after) {
+		t.Error("the refused run changed the report")
+	}
+	if code, _, stderr := call(t, "run", "-replace", "-o", out, b); code != exitOK && code != exitExpectation {
+		t.Errorf("-replace: exit %d\n%s", code, stderr)
+	}
 }

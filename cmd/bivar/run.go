@@ -6,7 +6,9 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"strconv"
+	"strings"
 	"time"
 
 	"bivar/analysis"
@@ -19,6 +21,7 @@ import (
 func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := newFlagSet("run")
 	out := fs.String("o", "", "output `DIR` (default: [output] dir of the manifest, relative to its folder)")
+	replace := fs.Bool("replace", false, "replace a report folder that another manifest wrote (refused without it)")
 	if code, ok := parseFlags(fs, args, stdout, stderr); !ok {
 		return code
 	}
@@ -40,8 +43,18 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	}
 	// The folder is taken before the studies run, so a second run into it
 	// is refused at once rather than after its work.
-	target, err := publish.OpenDir(dir, publish.Options{Command: "bivar run", Legacy: render.EarlierFile})
+	// The folder records which manifest wrote it: a run of another
+	// manifest into it stops (two manifests in one folder would overwrite
+	// each other's report without a word) unless -replace says so.
+	target, err := publish.OpenDir(dir, publish.Options{Command: runCommand(m.Path), Legacy: render.EarlierFile, Replace: *replace})
 	if err != nil {
+		var foreign *publish.ForeignError
+		if errors.As(err, &foreign) && strings.HasPrefix(foreign.Writer, "bivar run \"") {
+			other, _ := strconv.Unquote(strings.TrimPrefix(foreign.Writer, "bivar run "))
+			fmt.Fprintf(stderr, "bivar: %s holds the report of the manifest %s, and this run is of %s: give each manifest its own [output] dir (or -o DIR), or run with -replace to overwrite that report on purpose\n",
+				dir, other, absPath(m.Path))
+			return exitFailed
+		}
 		return outputError(stderr, "bivar", from, "-o DIR", err)
 	}
 	defer target.Close()
@@ -79,6 +92,18 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 // another process writes it, it holds what is not bivar's, or it cannot
 // be created. from says where its name came from (a flag, the manifest),
 // choose how to give another (such as "-o DIR").
+// runCommand names a run of the manifest at path for the report folder's
+// list of contents: "bivar run" and the manifest's absolute path, quoted.
+func runCommand(path string) string { return "bivar run " + strconv.Quote(absPath(path)) }
+
+// absPath is path made absolute (as given when that fails).
+func absPath(path string) string {
+	if a, err := filepath.Abs(path); err == nil {
+		return a
+	}
+	return path
+}
+
 func outputError(stderr io.Writer, who, from, choose string, err error) int {
 	var busy *publish.BusyError
 	var foreign *publish.ForeignError

@@ -74,6 +74,10 @@ type Options struct {
 	// version of the writer put there, so that such a folder is replaced
 	// instead of refused. Nil: only an empty folder is adopted.
 	Legacy func(rel string, isDir bool) bool
+	// Replace takes over a folder whose list names another writer (another
+	// Command) instead of refusing it: the user asked for it on purpose.
+	// Entries the list does not name still make the folder foreign.
+	Replace bool
 }
 
 // Target is a folder or a file, locked for publishing until Close.
@@ -190,7 +194,7 @@ func open(path string, isDir bool, opts Options) (*Target, error) {
 		t.Close()
 		return nil, err
 	}
-	if err := t.check(path, opts.Command, opts.Legacy); err != nil {
+	if err := t.check(path, opts.Command, opts.Legacy, opts.Replace); err != nil {
 		t.Close()
 		return nil, err
 	}
@@ -255,7 +259,7 @@ func (t *Target) recover() error {
 
 // check refuses a target that is not what it should be, and notes the
 // permissions to keep.
-func (t *Target) check(given, command string, legacy func(string, bool) bool) error {
+func (t *Target) check(given, command string, legacy func(string, bool) bool, replace bool) error {
 	t.mode = 0o755
 	if !t.isDir {
 		t.mode = 0o644
@@ -280,7 +284,7 @@ func (t *Target) check(given, command string, legacy func(string, bool) bool) er
 	if b, err := os.ReadFile(filepath.Join(t.path, ContentsFile)); err == nil {
 		marked = true
 		lines := strings.Split(string(b), "\n")
-		if w, ok := writer(lines[0]); ok && w != command {
+		if w, ok := writer(lines[0]); ok && w != command && !replace && !sameWriter(w, command) {
 			return &ForeignError{Path: given, Writer: w}
 		}
 		for _, line := range lines {
@@ -563,6 +567,14 @@ const (
 )
 
 // writer reads the command from the first line of ContentsFile.
+// sameWriter reports whether a folder listed as written by w may be taken
+// by command without asking: a writer recorded by its command alone ("bivar
+// run", before runs recorded their manifest) is taken by the same command
+// with its manifest ("bivar run \"/path/bivar.toml\"").
+func sameWriter(w, command string) bool {
+	return !strings.Contains(w, " \"") && strings.HasPrefix(command, w+" \"")
+}
+
 func writer(line string) (string, bool) {
 	w, ok := strings.CutPrefix(line, contentsHead)
 	if !ok {

@@ -28,7 +28,7 @@ func approximations(s *report.Study, cfg Config) []report.Approximation {
 	if d == nil {
 		return out
 	}
-	byValue := "rows chosen by their values (the smallest hashes of the (x, y) pairs): the same set of rows gives the same sample, whatever their order or the seed"
+	byValue := "rows chosen by their values (smallest hashes of the pairs): the same rows give the same sample in any order, with any seed"
 	if lw := d.Lowess; lw != nil && lw.Sampled < s.N {
 		out = append(out, report.Approximation{Figure: "LOWESS curve", Rows: lw.Sampled, Of: s.N, Method: byValue,
 			Error: fmt.Sprintf("largest difference from LOWESS on all rows %s SD of y for x between its 1st and 99th percentiles, %s SD at the ends (measured by this tool on generated data of 10⁵ rows with normal x)",
@@ -53,7 +53,7 @@ func approximations(s *report.Study, cfg Config) []report.Approximation {
 		var m int
 		if _, err := fmt.Sscanf(rs.Method, "theil-sen (median of %d random pairs", &m); err == nil && m > 0 {
 			out = append(out, report.Approximation{Figure: "Theil–Sen slope", Rows: m, Of: s.N,
-				Method: "pairs of rows drawn at random from a stream seeded by the rows themselves (Rows counts pairs)",
+				Method: "pairs of rows (the count is of pairs) drawn from a random stream seeded by the rows themselves",
 				Error: fmt.Sprintf("the median of %d sampled slopes lies between the 0.5 ± %s quantiles of all pairwise slopes with about 95%% probability (binomial: 1/√m)",
 					m, num(report.Float(1/math.Sqrt(float64(m)))))})
 		}

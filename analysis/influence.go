@@ -29,11 +29,13 @@ type flagged struct {
 }
 
 // rankFlagged orders rows for naming (see ranking). The keys are values of
-// the data, so the order is the same whatever the order of the file's rows
-// (rows alike in every key are alike in every figure shown).
-func rankFlagged(x, y []float64) func(a, b flagged) int {
+// the data, then the row's name, so the order is the same whatever the
+// order of the file's rows; only rows alike in every value and in name
+// fall back to their position.
+func rankFlagged(x, y []float64, name func(int) string) func(a, b flagged) int {
 	return func(a, b flagged) int {
-		return cmp.Or(cmp.Compare(b.d, a.d), cmp.Compare(b.t, a.t), cmp.Compare(x[a.i], x[b.i]), cmp.Compare(y[a.i], y[b.i]), cmp.Compare(a.i, b.i))
+		return cmp.Or(cmp.Compare(b.d, a.d), cmp.Compare(b.t, a.t), cmp.Compare(x[a.i], x[b.i]), cmp.Compare(y[a.i], y[b.i]),
+			cmp.Compare(name(a.i), name(b.i)), cmp.Compare(a.i, b.i))
 	}
 }
 
@@ -56,6 +58,9 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	if math.IsInf(rules.Leverage, 1) {
 		in.Rules.Leverage = report.NaN()
 	}
+	if math.IsInf(rules.Cooks, 1) {
+		in.Rules.CooksD = report.NaN() // too few rows for the rule
+	}
 	se := &report.Sensitivity{LooRMin: report.NaN(), LooRMax: report.NaN(), LooSlopeMin: report.NaN(), LooSlopeMax: report.NaN(),
 		RWithoutFlagged: report.NaN(), RWithoutLow: report.NaN(), RWithoutHigh: report.NaN(),
 		PWithoutFlagged: report.NaN(), SlopeWithoutFlagged: report.NaN(), InterceptWithout: report.NaN(),
@@ -69,14 +74,14 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	c := &in.Counts
 	for i := 0; i < n; i++ {
 		r := li.At(i)
-		if d := r.CooksD; !math.IsNaN(d) && (best < 0 || d > bestD || d == bestD && before(x, y, i, best)) {
+		if d := r.CooksD; !math.IsNaN(d) && (best < 0 || d > bestD || d == bestD && before(x, y, name, i, best)) {
 			best, bestD = i, d
 		}
 		if v := r.LooR; !math.IsNaN(v) {
-			if rmin < 0 || v < lrMin || v == lrMin && before(x, y, i, rmin) {
+			if rmin < 0 || v < lrMin || v == lrMin && before(x, y, name, i, rmin) {
 				rmin, lrMin = i, v
 			}
-			if rmax < 0 || v > lrMax || v == lrMax && before(x, y, i, rmax) {
+			if rmax < 0 || v > lrMax || v == lrMax && before(x, y, name, i, rmax) {
 				rmax, lrMax = i, v
 			}
 		}
@@ -126,7 +131,7 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	if smin >= 0 {
 		se.LooSlopeMin, se.LooSlopeMax = report.Float(lsMin), report.Float(lsMax)
 	}
-	slices.SortFunc(rows, rankFlagged(x, y))
+	slices.SortFunc(rows, rankFlagged(x, y, name))
 
 	in.Points = []report.Point{}
 	for _, fr := range rows {
@@ -195,9 +200,13 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 }
 
 // before reports whether row i comes before row j in value order (x, then
-// y), the tie-break that keeps extremes independent of the file's order.
-func before(x, y []float64, i, j int) bool {
-	return cmp.Or(cmp.Compare(x[i], x[j]), cmp.Compare(y[i], y[j])) < 0
+// y, then the row's name), the tie-break that keeps extremes independent of
+// the file's order. Names are made only on a tie.
+func before(x, y []float64, name func(int) string, i, j int) bool {
+	if c := cmp.Or(cmp.Compare(x[i], x[j]), cmp.Compare(y[i], y[j])); c != 0 {
+		return c < 0
+	}
+	return name(i) < name(j)
 }
 
 func nanToInf(v float64) float64 {
@@ -212,7 +221,9 @@ var flaggedCSVHeader = []string{"row", "x", "y", "flags", "leverage", "studentiz
 	"cooks_distance", "dffits", "r_without_row", "slope_without_row", "intercept_without_row", "rank"}
 
 // flaggedCSV writes every flagged row, in the ranking's order, with all its
-// measures: RFC 4180 CSV, comma-separated, numbers in Go's shortest
+// measures (rank is the row's place in that order among all flagged rows,
+// rows of high leverage only included, so it can differ from the place of
+// a named row among the named): RFC 4180 CSV, comma-separated, numbers in Go's shortest
 // round-trip form, an empty cell for an undefined measure, flags joined by
 // "+". A row name that could be read as a spreadsheet formula is prefixed
 // with an apostrophe (OWASP's advice on CSV injection).

@@ -581,12 +581,12 @@ func TestConcurrentRunProcesses(t *testing.T) {
 		go func() {
 			defer wg.Done()
 			for range rounds {
-				_, code, stderr := child(t, "none", 0, "run", "-o", out, m)
+				_, code, stderr := child(t, "none", 0, "run", "-replace", "-o", out, m) // two manifests, one folder: on purpose
 				mu.Lock()
 				switch {
 				case (code == exitOK || code == exitExpectation) && strings.Contains(stderr, "report written to"):
 					written++
-				case code == exitFailed && strings.Contains(stderr, "is being written by another bivar run (process ") &&
+				case code == exitFailed && strings.Contains(stderr, "is being written by another bivar run \"") && strings.Contains(stderr, "(process ") &&
 					!strings.Contains(stderr, "(process "+strconv.Itoa(os.Getpid())+",") && !strings.Contains(stderr, "(process 0"):
 					refused++
 				default:

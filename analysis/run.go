@@ -79,8 +79,21 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		if err != nil {
 			return nil, err
 		}
+		if _, err := rowFilter(m, manifest.Study{}, ls); err != nil { // the dataset's own entries, even without a study
+			return nil, err
+		}
 		loaded[ds.ID] = ls
 		r.Datasets = append(r.Datasets, ls.info)
+	}
+	selected := make([]rowSelection, len(m.Studies))
+	for i, st := range m.Studies {
+		if ls := loaded[st.Dataset]; ls != nil && ls.table != nil {
+			sel, err := rowFilter(m, st, ls)
+			if err != nil {
+				return nil, err
+			}
+			selected[i] = sel
+		}
 	}
 
 	// Studies run concurrently, at most GOMAXPROCS at a time; each has its
@@ -110,8 +123,10 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		slots <- struct{}{}
 		go func() {
 			defer func() { <-slots; wg.Done() }()
+			in.Keep = selected[i].keep
 			s := analyze(in, cfg)
 			s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
+			s.LeftOut, s.LeftOutMore, s.Subset = selected[i].leftOut, selected[i].more, selected[i].subset
 			listsAlways(&s)
 			r.Studies[i] = s
 		}()
@@ -197,6 +212,9 @@ func wanted(m *manifest.Manifest, ds manifest.Dataset) (numeric, text []string) 
 	}
 	if ds.IDColumn != "" {
 		addTo(&text, ds.IDColumn)
+	}
+	for _, c := range subsetColumns(m, ds) {
+		addTo(&text, c)
 	}
 	return numeric, text
 }

@@ -132,3 +132,25 @@ func TestRunSubsetErrors(t *testing.T) {
 		}
 	}
 }
+
+func TestRunSubsetTooFew(t *testing.T) {
+	t.Parallel()
+	toml := "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n\n[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\nwhere = \"temp > 460\"\n"
+	r, studyErrs, err := runText(t, subsetCSV, toml)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// temp > 460 keeps 465, 470 and 475 (3 rows); temp > 465 keeps 2 and
+	// leaves 10 out.
+	if r.Studies[0].N != 3 || studyErrs != "" {
+		t.Fatalf("temp > 460: n = %d, errors %q; want 3 rows and no error", r.Studies[0].N, studyErrs)
+	}
+	_, studyErrs, err = runText(t, subsetCSV, strings.Replace(toml, "460", "465", 1))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := `s: only 2 complete rows of x "x" and y "y" after the 10 rows left out by exclude or where`
+	if !strings.HasPrefix(studyErrs, want) {
+		t.Errorf("error = %q, want it to start %q", studyErrs, want)
+	}
+}

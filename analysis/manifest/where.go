@@ -454,22 +454,50 @@ func (p *parser) expr(owner, key, name, src string) *Expr {
 
 // exclusions checks each entry of an exclude list: a row or a data_row
 // (not both), and a reason.
-func (p *parser) exclusions(owner, key, name string, list []Exclusion) {
-	at, _ := p.ix.lookup(owner, key)
+//
+// An entry's place is the exclude key (exclude = [{…}, …]) or, when the
+// entries are written as [[study.exclude]] tables, the entry's header: the
+// first headers after the owning table's header line (tableLine).
+func (p *parser) exclusions(owner, key, name string, list []Exclusion, tableLine int) {
+	at, inline := p.ix.lookup(owner, key)
+	var headers []pos
+	if !inline {
+		for k := 0; ; k++ {
+			q, ok := p.ix.lookup(key+"#"+strconv.Itoa(k), key)
+			if !ok {
+				break
+			}
+			if q.line > tableLine {
+				headers = append(headers, q)
+			}
+		}
+	}
 	for i := range list {
 		x := &list[i]
-		x.Line, x.Col = at.line, at.col
+		switch {
+		case inline:
+			x.Line, x.Col = at.line, at.col
+		case i < len(headers):
+			x.Line, x.Col = headers[i].line, headers[i].col
+		}
+		problem := func(format string, args ...any) {
+			if x.Line > 0 {
+				p.addAt(pos{x.Line, x.Col}, key, fmt.Sprintf(format, args...))
+			} else {
+				p.add(owner, key, format, args...)
+			}
+		}
 		n := i + 1
 		switch {
 		case x.Row == "" && x.DataRow == 0:
-			p.add(owner, key, "%s: exclude entry %d names no row: give row = \"…\" (a value of the id_column) or data_row = N (1-based, the header not counted)", name, n)
+			problem("%s: exclude entry %d names no row: give row = \"…\" (a value of the id_column) or data_row = N (1-based, the header not counted)", name, n)
 		case x.Row != "" && x.DataRow != 0:
-			p.add(owner, key, "%s: exclude entry %d gives both row and data_row: keep one", name, n)
+			problem("%s: exclude entry %d gives both row and data_row: keep one", name, n)
 		case x.DataRow < 0:
-			p.add(owner, key, "%s: exclude entry %d: data_row = %d; data rows are numbered from 1 (the header not counted)", name, n, x.DataRow)
+			problem("%s: exclude entry %d: data_row = %d; data rows are numbered from 1 (the header not counted)", name, n, x.DataRow)
 		}
 		if strings.TrimSpace(x.Reason) == "" {
-			p.add(owner, key, "%s: exclude entry %d has no reason: add reason = \"…\" saying why the row is left out (it is printed in the report)", name, n)
+			problem("%s: exclude entry %d has no reason: add reason = \"…\" saying why the row is left out (it is printed in the report)", name, n)
 		}
 	}
 }

@@ -98,6 +98,9 @@ func TestSubsetManifestErrors(t *testing.T) {
 			`bivar.toml:9:1: study "s1": exclude entry 1 has no reason: add reason = "…" saying why the row is left out (it is printed in the report)`},
 		{"exclude with an empty reason", head + "exclude = [{ data_row = 3, reason = \" \" }]\n" + study,
 			`bivar.toml:4:1: dataset "nov": exclude entry 1 has no reason: add reason = "…" saying why the row is left out (it is printed in the report)`},
+		{"exclude entries as tables", head + "\n[[dataset.exclude]]\ndata_row = 3\n" + study + "[[study.exclude]]\nrow = \"c\"\nreason = \"ok\"\n[[study.exclude]]\nrow = \"d\"\nreason = \"\"\n",
+			"bivar.toml:5:1: dataset \"nov\": exclude entry 1 has no reason: add reason = \"…\" saying why the row is left out (it is printed in the report)\n" +
+				"bivar.toml:15:1: study \"s1\": exclude entry 2 has no reason: add reason = \"…\" saying why the row is left out (it is printed in the report)"},
 		{"exclude naming no row", head + study + "exclude = [{ reason = \"bad\" }]\n",
 			`bivar.toml:9:1: study "s1": exclude entry 1 names no row: give row = "…" (a value of the id_column) or data_row = N (1-based, the header not counted)`},
 	}

@@ -125,7 +125,11 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			defer func() { <-slots; wg.Done() }()
 			in.Keep = selected[i].keep
 			s := analyze(in, cfg)
-			s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
+			if in.Keep == nil {
+				s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
+			} else {
+				s.Excluded = unsplitReasons(s.Excluded, loaded[st.Dataset].table)
+			}
 			s.LeftOut, s.LeftOutMore, s.Subset = selected[i].leftOut, selected[i].more, selected[i].subset
 			listsAlways(&s)
 			r.Studies[i] = s
@@ -405,6 +409,18 @@ func splitReasons(ex []report.Exclusion, t *dataset.Table) []report.Exclusion {
 		out = append(out, report.Exclusion{Column: e.Column, Rows: nn, Reason: "non-numeric"})
 	}
 	return out
+}
+
+// unsplitReasons is splitReasons for a study that leaves rows out on
+// purpose: the table counts non-numeric cells over every data row, not over
+// the study's, so a column with any says "missing or non-numeric".
+func unsplitReasons(ex []report.Exclusion, t *dataset.Table) []report.Exclusion {
+	for i, e := range ex {
+		if t.NonNumeric[e.Column] > 0 {
+			ex[i].Reason = "missing or non-numeric"
+		}
+	}
+	return ex
 }
 
 // variable describes one column: its label and unit from the dataset.

@@ -154,3 +154,25 @@ func TestRunSubsetTooFew(t *testing.T) {
 		t.Errorf("error = %q, want it to start %q", studyErrs, want)
 	}
 }
+
+func TestRunSubsetNonNumericCounts(t *testing.T) {
+	t.Parallel()
+	csv := strings.Replace(subsetCSV, "S-104,night,420,4.0,", "S-104,night,420,four,", 1)
+	toml := "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\nnon_numeric = \"missing\"\n\n[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\nwhere = \"temp >= 425\"\n"
+	r, studyErrs, err := runText(t, csv, toml)
+	if err != nil || studyErrs != "" {
+		t.Fatalf("Run: %v %s", err, studyErrs)
+	}
+	// S-104 (temp 420) is outside the subset, so its non-numeric x is not
+	// the study's: no incomplete row is left, and nothing is counted.
+	if s := r.Studies[0]; s.N != 11 || s.NMissing != 0 || len(s.Excluded) != 0 || s.Subset.Rows != 1 {
+		t.Errorf("n = %d, n_missing = %d, excluded = %+v, subset rows = %d; want 11, 0, none, 1", s.N, s.NMissing, s.Excluded, s.Subset.Rows)
+	}
+	r, _, err = runText(t, csv, strings.Replace(toml, "temp >= 425", "temp >= 415", 1))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s := r.Studies[0]; s.N != 11 || s.NMissing != 1 || len(s.Excluded) != 1 || s.Excluded[0].Reason != "missing or non-numeric" {
+		t.Errorf("n = %d, n_missing = %d, excluded = %+v; want 11, 1, one \"missing or non-numeric\" in x", s.N, s.NMissing, s.Excluded)
+	}
+}

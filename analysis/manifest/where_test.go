@@ -115,3 +115,22 @@ func TestSubsetManifestErrors(t *testing.T) {
 		}
 	}
 }
+
+// FuzzParseExpr: no expression makes the parser or the evaluation panic,
+// and an error's offset lies within the text.
+func FuzzParseExpr(f *testing.F) {
+	for _, s := range []string{`shift == "night" and temp >= 425`, `not (a in [1, 2]) or b != "x"`, "`a b` < -1e3", `a in [`, `((a == 1)`, `a not in ["x"]`} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		e, err := ParseExpr(s)
+		if err != nil {
+			var ee *ExprError
+			if !errors.As(err, &ee) || ee.Offset < 0 || ee.Offset > len(s) {
+				t.Fatalf("ParseExpr(%q) = %v", s, err)
+			}
+			return
+		}
+		e.Eval(func(ColumnRef) Cell { return Cell{Num: 1, Text: "x"} })
+	})
+}

@@ -235,7 +235,7 @@ type Study struct {
 type Exclusion struct {
 	Column string `json:"column"`
 	Rows   int    `json:"rows"`
-	Reason string `json:"reason"` // "missing" or "non-numeric"
+	Reason string `json:"reason"` // "missing", "non-numeric", or "missing or non-numeric" (a study with exclude or where, on a dataset with non_numeric = "missing")
 }
 
 // MaxLeftOut is the most rows a study lists by name in LeftOut: the report

@@ -79,8 +79,21 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		if err != nil {
 			return nil, err
 		}
+		if _, err := rowFilter(m, manifest.Study{}, ls); err != nil { // the dataset's own entries, even without a study
+			return nil, err
+		}
 		loaded[ds.ID] = ls
 		r.Datasets = append(r.Datasets, ls.info)
+	}
+	selected := make([]rowSelection, len(m.Studies))
+	for i, st := range m.Studies {
+		if ls := loaded[st.Dataset]; ls != nil && ls.table != nil {
+			sel, err := rowFilter(m, st, ls)
+			if err != nil {
+				return nil, err
+			}
+			selected[i] = sel
+		}
 	}
 
 	// Studies run concurrently, at most GOMAXPROCS at a time; each has its
@@ -110,8 +123,14 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		slots <- struct{}{}
 		go func() {
 			defer func() { <-slots; wg.Done() }()
+			in.Keep = selected[i].keep
 			s := analyze(in, cfg)
-			s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
+			if in.Keep == nil {
+				s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
+			} else {
+				s.Excluded = unsplitReasons(s.Excluded, loaded[st.Dataset].table)
+			}
+			s.LeftOut, s.LeftOutMore, s.Subset = selected[i].leftOut, selected[i].more, selected[i].subset
 			listsAlways(&s)
 			r.Studies[i] = s
 		}()
@@ -197,6 +216,9 @@ func wanted(m *manifest.Manifest, ds manifest.Dataset) (numeric, text []string) 
 	}
 	if ds.IDColumn != "" {
 		addTo(&text, ds.IDColumn)
+	}
+	for _, c := range subsetColumns(m, ds) {
+		addTo(&text, c)
 	}
 	return numeric, text
 }
@@ -387,6 +409,18 @@ func splitReasons(ex []report.Exclusion, t *dataset.Table) []report.Exclusion {
 		out = append(out, report.Exclusion{Column: e.Column, Rows: nn, Reason: "non-numeric"})
 	}
 	return out
+}
+
+// unsplitReasons is splitReasons for a study that leaves rows out on
+// purpose: the table counts non-numeric cells over every data row, not over
+// the study's, so a column with any says "missing or non-numeric".
+func unsplitReasons(ex []report.Exclusion, t *dataset.Table) []report.Exclusion {
+	for i, e := range ex {
+		if t.NonNumeric[e.Column] > 0 {
+			ex[i].Reason = "missing or non-numeric"
+		}
+	}
+	return ex
 }
 
 // variable describes one column: its label and unit from the dataset.

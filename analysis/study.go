@@ -50,6 +50,11 @@ type Input struct {
 
 	PredictAt []float64
 	AlsoIn    manifest.AlsoIn
+
+	// Keep, when not nil, says which rows the study may use: false for a
+	// row left out on purpose (exclude, where). Such a row is not a
+	// complete case and is not counted as missing.
+	Keep []bool
 }
 
 // Config holds what is the same for every study of a manifest. Zero fields
@@ -202,9 +207,13 @@ func analyze(in Input, cfg Config) report.Study {
 
 	cc := completeCases(in, covNames)
 	s.N = cc.n
-	s.NMissing = len(in.XS) - s.N
+	s.NMissing = len(in.XS) - cc.leftOut - s.N
 	s.Excluded = cc.excluded
 	if s.N < 3 {
+		if cc.leftOut > 0 {
+			return failed(s, fmt.Sprintf("only %s of %s after the %s left out by exclude or where; at least 3 are needed: check the manifest's exclude and where, and the columns for missing cells",
+				count(s.N, "complete row"), completeColumns(in, covNames), count(cc.leftOut, "row")))
+		}
 		return failed(s, fmt.Sprintf("only %s of %s; at least 3 are needed: check the columns for missing cells",
 			count(s.N, "complete row"), completeColumns(in, covNames)))
 	}
@@ -335,6 +344,9 @@ func listsAlways(s *report.Study) {
 	if s.Expectations == nil {
 		s.Expectations = []report.Expectation{}
 	}
+	if s.LeftOut == nil {
+		s.LeftOut = []report.LeftOutRow{}
+	}
 }
 
 // assess sets the findings (and the curve in the plot data, which is drawn
@@ -387,6 +399,9 @@ func checkLengths(in Input, covNames []string) string {
 	if in.Rows != nil && len(in.Rows) != n {
 		return bad("the row names", len(in.Rows))
 	}
+	if in.Keep != nil && len(in.Keep) != n {
+		return bad("keep", len(in.Keep))
+	}
 	if in.Groups != nil && len(in.Groups) != n {
 		return bad("group", len(in.Groups))
 	}
@@ -416,6 +431,7 @@ type cases struct {
 	order    []float64
 	cov      [][]float64 // per covariate, in covariate order
 	excluded []report.Exclusion
+	leftOut  int // rows Input.Keep left out
 }
 
 func missing(v float64) bool { return math.IsNaN(v) || math.IsInf(v, 0) }
@@ -447,6 +463,11 @@ func completeCases(in Input, covNames []string) cases {
 	var cc cases
 	var drop []int // data rows that are not complete cases
 	for i := 0; i < n; i++ {
+		if in.Keep != nil && !in.Keep[i] {
+			cc.leftOut++
+			drop = append(drop, i)
+			continue
+		}
 		ok := true
 		for j := range cols {
 			if cols[j].miss(i) {

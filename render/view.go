@@ -25,6 +25,7 @@ type page struct {
 	Datasets   table
 	Sources    table // datasets read from a workbook or a database: where exactly
 	Excluded   table
+	LeftOut    table // rows left out on purpose (exclude), each with its reason
 	Summary    summary
 	Studies    []*studyView
 	Thresholds string
@@ -205,11 +206,39 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 		for _, e := range s.Excluded {
 			why = append(why, fmt.Sprintf("%d %s in %s", e.Rows, e.Reason, e.Column))
 		}
+		if k := len(s.LeftOut) + s.LeftOutMore; k > 0 {
+			why = append(why, fmt.Sprintf("%s left out by exclude (listed below)", nRows(k)))
+		}
+		if sub := s.Subset; sub != nil {
+			w := fmt.Sprintf("%s outside the subset %s", nRows(sub.Rows), sub.Expression)
+			var miss []string
+			for _, c := range sub.Missing {
+				miss = append(miss, fmt.Sprintf("%d missing in %s", c.Count, c.Column))
+			}
+			if len(miss) > 0 {
+				w += " (" + strings.Join(miss, ", ") + ")"
+			}
+			why = append(why, w)
+		}
 		w := strings.Join(why, "; ")
 		if w == "" {
 			w = "none"
 		}
 		p.Excluded.Rows = append(p.Excluded.Rows, []string{s.ID, itoa(s.N), itoa(s.NMissing), w})
+	}
+	p.LeftOut = table{Caption: "Rows left out on purpose (exclude in the manifest), and why",
+		Head: []string{"Study", "Row", "Set in", "Reason"}, Num: []bool{false, false, false, false}}
+	for _, s := range r.Studies {
+		for _, l := range s.LeftOut {
+			row := l.Row
+			if l.Shared > 1 {
+				row = fmt.Sprintf("%s (one of %d rows with this id)", l.Row, l.Shared)
+			}
+			p.LeftOut.Rows = append(p.LeftOut.Rows, []string{s.ID, row, l.Level, l.Reason})
+		}
+		if s.LeftOutMore > 0 {
+			p.LeftOut.Rows = append(p.LeftOut.Rows, []string{s.ID, "and " + itoa(s.LeftOutMore) + " more", "", "counted, not named: a study names at most " + itoa(report.MaxLeftOut)})
+		}
 	}
 
 	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(len(r.Studies), m.Adjust, p.Level)}
@@ -224,6 +253,14 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 		p.Studies = append(p.Studies, sv)
 	}
 	return p, nil
+}
+
+// nRows writes "1 row" or "n rows".
+func nRows(n int) string {
+	if n == 1 {
+		return "1 row"
+	}
+	return itoa(n) + " rows"
 }
 
 func counts(cc []report.ColumnCount) string {

@@ -433,6 +433,7 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange 
 	if prev.Y.Column != cur.Y.Column {
 		sc.Notes = append(sc.Notes, fmt.Sprintf("y column changed from %q to %q", prev.Y.Column, cur.Y.Column))
 	}
+	sc.Notes = append(sc.Notes, selectionNotes(prev, cur)...)
 	unitsSame := prev.X.Unit == cur.X.Unit && prev.Y.Unit == cur.Y.Unit
 	if !unitsSame {
 		sc.Notes = append(sc.Notes, fmt.Sprintf("units changed (x %s → %s, y %s → %s): the slopes are in different units and are not compared",

@@ -96,7 +96,26 @@ type Dataset struct {
 	Connection       string `toml:"connection"`
 	StatementTimeout string `toml:"statement_timeout"`
 
+	// Exclude leaves rows out of every study of the dataset, each with a
+	// reason; Subset keeps only the rows where its expression holds (see
+	// ParseExpr; `where` is the SQL filter of a table). SubsetExpr is
+	// Subset parsed by Load.
+	Exclude    []Exclusion `toml:"exclude"`
+	Subset     string      `toml:"subset"`
+	SubsetExpr *Expr       `toml:"-"`
+
 	Line int `toml:"-"` // line of the [[dataset]] header, for messages
+}
+
+// Exclusion is one row left out on purpose: by its id_column value (Row)
+// or its 1-based data row number (DataRow), with the reason why. Line and
+// Col are where the entry is in the manifest, for messages.
+type Exclusion struct {
+	Row     string `toml:"row"`
+	DataRow int    `toml:"data_row"`
+	Reason  string `toml:"reason"`
+
+	Line, Col int `toml:"-"`
 }
 
 // DefaultStatementTimeout is a query's time limit when statement_timeout is
@@ -148,6 +167,12 @@ type Study struct {
 	// manifest's design (in a randomized experiment only the randomized
 	// factor is a randomized x); "" takes the manifest's. Defaults fill it.
 	Design string `toml:"design"`
+
+	// Exclude and Where leave rows out of this study only, on top of its
+	// dataset's exclude and subset (Where is ANDed with the subset).
+	Exclude   []Exclusion `toml:"exclude"`
+	Where     string      `toml:"where"`
+	WhereExpr *Expr       `toml:"-"`
 
 	Line int `toml:"-"` // line of the [[study]] header, for messages
 }

@@ -217,6 +217,10 @@ func (p *parser) validate(m *Manifest) {
 			name = "number " + strconv.Itoa(i+1)
 		}
 		p.source(owner, name, d, m.Dir)
+		p.exclusions(owner, "dataset.exclude", "dataset "+strconv.Quote(name), d.Exclude, d.Line)
+		if d.Subset != "" {
+			d.SubsetExpr = p.expr(owner, "dataset.subset", "dataset "+strconv.Quote(name), d.Subset)
+		}
 		p.oneOf(owner, "dataset.non_numeric", d.NonNumeric, NonNumericPolicies())
 		for _, l := range []struct {
 			key string
@@ -292,6 +296,10 @@ func (p *parser) validate(m *Manifest) {
 		}
 		if s.Design != "" {
 			p.oneOf(owner, "study.design", s.Design, Designs())
+		}
+		p.exclusions(owner, "study.exclude", "study "+strconv.Quote(name), s.Exclude, s.Line)
+		if s.Where != "" {
+			s.WhereExpr = p.expr(owner, "study.where", "study "+strconv.Quote(name), s.Where)
 		}
 	}
 }

@@ -186,6 +186,15 @@ type Study struct {
 	NMissing int         `json:"n_missing"` // rows dropped because x, y (or group, order, a covariate) was missing
 	Excluded []Exclusion `json:"excluded"`  // why rows were dropped, per column
 
+	// LeftOut lists the rows the manifest left out on purpose (exclude),
+	// at most MaxLeftOut of them, in data-row order; LeftOutMore counts the
+	// rest. Subset is the where/subset expression and how many rows it left
+	// out; nil when there is none. Both are applied before complete cases,
+	// so NMissing counts only rows of the subset.
+	LeftOut     []LeftOutRow `json:"left_out"`
+	LeftOutMore int          `json:"left_out_more,omitempty"`
+	Subset      *Subset      `json:"subset"`
+
 	Moments        *Moments      `json:"moments"`
 	Describe       *DescribePair `json:"describe"`
 	Pearson        *Pearson      `json:"pearson"`
@@ -226,7 +235,29 @@ type Study struct {
 type Exclusion struct {
 	Column string `json:"column"`
 	Rows   int    `json:"rows"`
-	Reason string `json:"reason"` // "missing" or "non-numeric"
+	Reason string `json:"reason"` // "missing", "non-numeric", or "missing or non-numeric" (a study with exclude or where, on a dataset with non_numeric = "missing")
+}
+
+// MaxLeftOut is the most rows a study lists by name in LeftOut: the report
+// stays bounded.
+const MaxLeftOut = 1000
+
+// LeftOutRow is one row left out of a study by an exclude entry.
+type LeftOutRow struct {
+	Row    string `json:"row"`              // the id_column value, else the 1-based data row number
+	Reason string `json:"reason"`           // as written in the manifest
+	Level  string `json:"level"`            // "dataset" or "study": where the entry is
+	Shared int    `json:"shared,omitempty"` // when the entry's row value names several rows: how many
+}
+
+// Subset is the row filter of a study: the dataset's subset and the
+// study's where, ANDed, as written; Rows counts the rows it left out
+// (among those not excluded), Missing those of them left out because a
+// column it reads was missing, per column.
+type Subset struct {
+	Expression string        `json:"expression"`
+	Rows       int           `json:"rows"`
+	Missing    []ColumnCount `json:"missing"`
 }
 
 // Moments are the centred sums that let `bivar diff` test changes from the

@@ -288,7 +288,7 @@ func analyze(in Input, cfg Config) report.Study {
 		s.Diagnostics.QuadraticP = report.Float(side.quad.Coef[2].P)
 	}
 	s.Diagnostics.Lowess = &report.LowessInfo{Frac: cfg.LowessFrac, Iterations: cfg.LowessIter, Delta: lowessDelta(lx), Sampled: len(lx)}
-	s.Influence, s.Sensitivity, s.FlaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, s.Diagnostics.Resistant, pc, line)
+	s.Influence, s.Sensitivity, s.FlaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, s.Diagnostics.Resistant, m, pc, line)
 	if s.FlaggedCSV != nil {
 		s.Influence.File = FlaggedFile(in.ID)
 	}

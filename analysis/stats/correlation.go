@@ -443,3 +443,60 @@ func mergeCount(a, buf []uint64) int64 {
 
 // mergeRun is the length of the runs mergeCount sorts by insertion.
 const mergeRun = 16
+
+// PearsonMoments is Pearson for data given by their centred moments (see
+// CentredMoments): r = Sxy/√(Sxx·Syy) with the same Fisher-z interval, t
+// and p as Pearson. It returns NaN figures where Pearson would.
+func PearsonMoments(m Moments, conf float64) Correlation {
+	nan := math.NaN()
+	c := Correlation{R: nan, R2: nan, CILow: nan, CIHigh: nan, T: nan, DF: max(m.N-2, 0), P: nan}
+	if m.N < 2 {
+		return c
+	}
+	c.R = corrFromSums(m.Sxx, m.Syy, m.Sxy)
+	if math.IsNaN(c.R) {
+		return c
+	}
+	c.R2 = c.R * c.R
+	c.CILow, c.CIHigh = FisherCI(c.R, m.N, conf)
+	c.T, c.P = corrT(c.R, m.N)
+	return c
+}
+
+// WithoutRows returns the centred moments of the pairs left when the rows
+// drop are taken out of data whose moments are all, by the exact identity
+// for two groups (Chan, Golub & LeVeque 1983, eq. 2.1, read backwards):
+//
+//	S_all = S_kept + S_drop + (n_kept·n_drop/n)·(mean_kept − mean_drop)²
+//
+// and the same with cross products for Sxy. ok is false, and the moments
+// are not to be used, when too little is left (fewer than 2 rows) or when
+// the rows taken out hold more than half of Sxx or Syy: the subtraction
+// would then cancel digits, and the caller should sum the kept rows
+// instead.
+func WithoutRows(all Moments, dropX, dropY []float64) (kept Moments, ok bool) {
+	if len(dropX) != len(dropY) {
+		panic("stats: WithoutRows: x and y lengths differ")
+	}
+	d := CentredMoments(dropX, dropY)
+	if len(dropX) == 0 {
+		return all, true
+	}
+	n, nd := float64(all.N), float64(d.N)
+	nk := n - nd
+	if all.N-d.N < 2 {
+		return Moments{}, false
+	}
+	kept.N = all.N - d.N
+	kept.MeanX = (n*all.MeanX - nd*d.MeanX) / nk
+	kept.MeanY = (n*all.MeanY - nd*d.MeanY) / nk
+	f := nk * nd / n
+	dx, dy := kept.MeanX-d.MeanX, kept.MeanY-d.MeanY
+	kept.Sxx = all.Sxx - d.Sxx - f*dx*dx
+	kept.Syy = all.Syy - d.Syy - f*dy*dy
+	kept.Sxy = all.Sxy - d.Sxy - f*dx*dy
+	if !(kept.Sxx >= 0.5*all.Sxx) || !(kept.Syy >= 0.5*all.Syy) {
+		return Moments{}, false
+	}
+	return kept, true
+}

@@ -4,6 +4,7 @@ import (
 	"math"
 	"math/big"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"bivar/internal/reference"
@@ -434,5 +435,64 @@ func TestKendallExact(t *testing.T) {
 				t.Fatalf("n=%d y=%v: p %.17g, enumeration %.17g", n, y, p, want)
 			}
 		}
+	}
+}
+
+// TestWithoutRows: moments downdated by a few rows equal the moments of the
+// rows kept, summed directly (CentredMoments, itself checked against NIST
+// StRD), and Pearson from them equals Pearson on the kept rows; where the
+// rows taken out hold most of the spread (Anscombe's set IV shape: one
+// row alone gives x its spread) the downdate declines.
+func TestWithoutRows(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	n := 10000
+	x, y := make([]float64, n), make([]float64, n)
+	for i := range x {
+		x[i] = 1000 + rng.NormFloat64()
+		y[i] = 5 + 2*x[i] + rng.NormFloat64()
+	}
+	drop := []int{7, 500, 9999}
+	x[500], y[500] = 1004, 3000 // far off the line
+	var dx, dy, kx, ky []float64
+	for i := range x {
+		if slices.Contains(drop, i) {
+			dx, dy = append(dx, x[i]), append(dy, y[i])
+		} else {
+			kx, ky = append(kx, x[i]), append(ky, y[i])
+		}
+	}
+	got, ok := WithoutRows(CentredMoments(x, y), dx, dy)
+	want := CentredMoments(kx, ky)
+	if ok {
+		t.Errorf("a row holding most of Syy taken out: ok, want the downdate declined")
+	}
+	// Without the far-off row the downdate applies.
+	x[500], y[500] = 1000.5, 2006
+	dx[1], dy[1] = 1000.5, 2006
+	kx, ky = kx[:0], ky[:0]
+	for i := range x {
+		if !slices.Contains(drop, i) {
+			kx, ky = append(kx, x[i]), append(ky, y[i])
+		}
+	}
+	want = CentredMoments(kx, ky)
+	got, ok = WithoutRows(CentredMoments(x, y), dx, dy)
+	if !ok || got.N != want.N {
+		t.Fatalf("ok %v, n %d, want %d", ok, got.N, want.N)
+	}
+	for _, c := range []struct {
+		name      string
+		got, want float64
+	}{{"mean x", got.MeanX, want.MeanX}, {"mean y", got.MeanY, want.MeanY}, {"Sxx", got.Sxx, want.Sxx}, {"Syy", got.Syy, want.Syy}, {"Sxy", got.Sxy, want.Sxy}} {
+		if d := math.Abs(c.got-c.want) / math.Abs(c.want); d > 1e-11 {
+			t.Errorf("%s: downdated %.17g, summed %.17g (relative %.1g)", c.name, c.got, c.want, d)
+		}
+	}
+	pm, pk := PearsonMoments(got, 0.95), Pearson(kx, ky, 0.95)
+	if d := math.Abs(pm.R - pk.R); d > 1e-12 || math.Abs(pm.CILow-pk.CILow) > 1e-12 || pm.DF != pk.DF {
+		t.Errorf("PearsonMoments %+v, Pearson on the kept rows %+v", pm, pk)
+	}
+	if _, ok := WithoutRows(CentredMoments(x[:3], y[:3]), x[:2], y[:2]); ok {
+		t.Error("one row left: ok, want declined")
 	}
 }

@@ -49,14 +49,11 @@ func approximations(s *report.Study, cfg Config) []report.Approximation {
 			Error: fmt.Sprintf("a screen read against a fixed cut point; its sampling SD is about 2/√%d ≈ %s", d.DurbinWatsonXRows,
 				num(report.Float(2/math.Sqrt(float64(d.DurbinWatsonXRows)))))})
 	}
-	if rs := d.Resistant; rs != nil {
-		var m int
-		if _, err := fmt.Sscanf(rs.Method, "theil-sen (median of %d random pairs", &m); err == nil && m > 0 {
-			out = append(out, report.Approximation{Figure: "Theil–Sen slope", Rows: m, Of: s.N,
-				Method: "pairs of rows (the count is of pairs) drawn from a random stream seeded by the rows themselves",
-				Error: fmt.Sprintf("the median of %d sampled slopes lies between the 0.5 ± %s quantiles of all pairwise slopes with about 95%% probability (binomial: 1/√m)",
-					m, num(report.Float(1/math.Sqrt(float64(m)))))})
-		}
+	if rs := d.Resistant; rs != nil && rs.Pairs > 0 {
+		out = append(out, report.Approximation{Figure: "Theil–Sen slope", Rows: rs.Pairs, Of: s.N,
+			Method: "pairs of rows (the count is of pairs) drawn from a random stream seeded by the rows themselves",
+			Error: fmt.Sprintf("the median of %d sampled slopes lies between the 0.5 ± %s quantiles of all pairwise slopes with about 95%% probability (binomial: 1/√m)",
+				rs.Pairs, num(report.Float(1/math.Sqrt(float64(rs.Pairs)))))})
 	}
 	return out
 }

@@ -167,8 +167,8 @@ func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, conf f
 		if ps.Len() > cfg.TheilSenMaxExact {
 			src = rowSource(ps.X, ps.Y, "theil-sen")
 		}
-		slope, icpt, method := stats.TheilSen(ps.X, ps.Y, cfg.TheilSenMaxExact, src)
-		out.resistant = &report.Resistant{Method: method, Slope: report.Float(slope), Intercept: report.Float(icpt)}
+		f := stats.TheilSenFit(ps.X, ps.Y, cfg.TheilSenMaxExact, src)
+		out.resistant = &report.Resistant{Method: f.Method, Slope: report.Float(f.Slope), Intercept: report.Float(f.Intercept), Pairs: f.Pairs}
 	})
 	async(func() {
 		if ps.Len() >= 4 {

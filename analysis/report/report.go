@@ -417,6 +417,7 @@ type Resistant struct {
 	Method    string `json:"method"` // "theil-sen (exact)" or the stated approximation
 	Slope     Float  `json:"slope"`
 	Intercept Float  `json:"intercept"`
+	Pairs     int    `json:"pairs,omitempty"` // pairs sampled for the slope; absent when every pair was used
 }
 
 // LowessInfo records the smoother's settings.

@@ -46,6 +46,25 @@ const DefaultMaxExact = 2000
 // intercept are NaN when a value is NaN or infinite, or fewer than two
 // distinct x values exist.
 func TheilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept float64, method string) {
+	f := TheilSenFit(x, y, maxExact, src)
+	return f.Slope, f.Intercept, f.Method
+}
+
+// ResistantFit is a Theil–Sen line with how it was computed.
+type ResistantFit struct {
+	Slope, Intercept float64
+	Method           string
+	Pairs            int // the pairs sampled above maxExact; 0 when every pair was used
+}
+
+// TheilSenFit is TheilSen returning the number of sampled pairs as a
+// number too, for a caller that states the approximation's error.
+func TheilSenFit(x, y []float64, maxExact int, src rand.Source) ResistantFit {
+	slope, intercept, method, pairs := theilSen(x, y, maxExact, src)
+	return ResistantFit{Slope: slope, Intercept: intercept, Method: method, Pairs: pairs}
+}
+
+func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept float64, method string, pairs int) {
 	if len(x) != len(y) {
 		panic("stats: TheilSen: x and y lengths differ")
 	}
@@ -60,7 +79,7 @@ func TheilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 	method = "theil-sen (exact)"
 	for i := range x {
 		if math.IsNaN(x[i]) || math.IsInf(x[i], 0) || math.IsNaN(y[i]) || math.IsInf(y[i], 0) {
-			return nan, nan, method
+			return nan, nan, method, pairs
 		}
 	}
 	var slopes []float64
@@ -91,10 +110,11 @@ func TheilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 				slopes = append(slopes, (y[j]-y[i])/dx)
 			}
 		}
-		method = fmt.Sprintf("theil-sen (median of %d random pairs of %d points)", len(slopes), n)
+		pairs = len(slopes)
+		method = fmt.Sprintf("theil-sen (median of %d random pairs of %d points)", pairs, n)
 	}
 	if len(slopes) == 0 {
-		return nan, nan, method
+		return nan, nan, method, pairs
 	}
 	slope = medianInPlace(slopes)
 	resid := make([]float64, n)
@@ -102,7 +122,7 @@ func TheilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 		resid[i] = y[i] - slope*x[i]
 	}
 	intercept = medianInPlace(resid)
-	return slope, intercept, method
+	return slope, intercept, method, pairs
 }
 
 // stableArgsort returns the indices of v in ascending order of value, ties

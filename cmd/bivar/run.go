@@ -46,13 +46,13 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	// The folder records which manifest wrote it: a run of another
 	// manifest into it stops (two manifests in one folder would overwrite
 	// each other's report without a word) unless -replace says so.
-	target, err := publish.OpenDir(dir, publish.Options{Command: runCommand(m.Path), Legacy: render.EarlierFile, Replace: *replace})
+	target, err := publish.OpenDir(dir, publish.Options{Command: runCommand(m), Legacy: render.EarlierFile, Replace: *replace})
 	if err != nil {
 		var foreign *publish.ForeignError
 		if errors.As(err, &foreign) && strings.HasPrefix(foreign.Writer, "bivar run \"") {
 			other, _ := strconv.Unquote(strings.TrimPrefix(foreign.Writer, "bivar run "))
 			fmt.Fprintf(stderr, "bivar: %s holds the report of the manifest %s, and this run is of %s: give each manifest its own [output] dir (or -o DIR), or run with -replace to overwrite that report on purpose\n",
-				dir, other, absPath(m.Path))
+				dir, other, manifestFile(m))
 			return exitFailed
 		}
 		return outputError(stderr, "bivar", from, "-o DIR", err)
@@ -92,17 +92,13 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 // another process writes it, it holds what is not bivar's, or it cannot
 // be created. from says where its name came from (a flag, the manifest),
 // choose how to give another (such as "-o DIR").
-// runCommand names a run of the manifest at path for the report folder's
-// list of contents: "bivar run" and the manifest's absolute path, quoted.
-func runCommand(path string) string { return "bivar run " + strconv.Quote(absPath(path)) }
+// runCommand names a run of manifest m for the report folder's list of
+// contents: "bivar run" and the manifest's absolute path, quoted.
+func runCommand(m *manifest.Manifest) string { return "bivar run " + strconv.Quote(manifestFile(m)) }
 
-// absPath is path made absolute (as given when that fails).
-func absPath(path string) string {
-	if a, err := filepath.Abs(path); err == nil {
-		return a
-	}
-	return path
-}
+// manifestFile is the manifest's absolute path: its folder (Manifest.Dir,
+// made absolute by manifest.Load) and its file name.
+func manifestFile(m *manifest.Manifest) string { return filepath.Join(m.Dir, filepath.Base(m.Path)) }
 
 func outputError(stderr io.Writer, who, from, choose string, err error) int {
 	var busy *publish.BusyError

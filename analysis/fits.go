@@ -8,7 +8,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"slices"
 	"sync"
 
 	"bivar/analysis/report"
@@ -207,19 +206,14 @@ func lowessDelta(x []float64) float64 {
 
 // groupFits fits the straight line within each level of the group, levels
 // in sorted order. A level with fewer than 3 rows or a constant x gets NaN.
-func groupFits(x, y []float64, groups []string, conf float64) []report.GroupFit {
-	byLevel := map[string][]int{}
-	for i, g := range groups {
+func groupFits(x, y []float64, lv []string, gidx []int, conf float64) []report.GroupFit {
+	byLevel := make([][]int, len(lv))
+	for i, g := range gidx {
 		byLevel[g] = append(byLevel[g], i)
 	}
-	levels := make([]string, 0, len(byLevel))
-	for g := range byLevel {
-		levels = append(levels, g)
-	}
-	slices.Sort(levels)
-	out := make([]report.GroupFit, 0, len(levels))
-	for _, g := range levels {
-		idx := byLevel[g]
+	out := make([]report.GroupFit, 0, len(lv))
+	for k, g := range lv {
+		idx := byLevel[k]
 		gf := report.GroupFit{Group: g, N: len(idx), R: report.NaN(), Slope: report.NaN(), Intercept: report.NaN(),
 			SlopeLow: report.NaN(), SlopeHigh: report.NaN()}
 		gx, gy := pick(x, idx), pick(y, idx)
@@ -247,18 +241,8 @@ func pick(v []float64, idx []int) []float64 {
 
 // groupLines compares the lines within the group's levels
 // (stats.CompareGroupLines).
-func groupLines(x, y []float64, groups []string) *report.GroupLines {
-	id := map[string]int{}
-	g := make([]int, len(groups))
-	for i, v := range groups {
-		k, ok := id[v]
-		if !ok {
-			k = len(id)
-			id[v] = k
-		}
-		g[i] = k
-	}
-	c := stats.CompareGroupLines(x, y, g)
+func groupLines(x, y []float64, gidx []int) *report.GroupLines {
+	c := stats.CompareGroupLines(x, y, gidx)
 	return &report.GroupLines{Groups: c.Groups, N: c.N, SlopesF: report.Float(c.SlopesF), SlopesDF1: c.SlopesDF1, SlopesP: report.Float(c.SlopesP),
 		LinesF: report.Float(c.LinesF), LinesDF1: c.LinesDF1, LinesP: report.Float(c.LinesP), DF2: c.DF2,
 		RWithin: report.Float(c.RWithin), RWithinDF: c.RWithinDF, RWithinP: report.Float(c.RWithinP)}

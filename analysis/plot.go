@@ -19,13 +19,14 @@ const (
 
 // plotData gathers what the charts draw, bounded whatever n is: every row
 // up to report.PlotPointsMax, else density grids; the named rows marked.
-func plotData(x, y []float64, cc cases, line stats.LineFit, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {
+// lv and gidx are the group levels and each row's index into them
+// (levels); nil without a group.
+func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.LineFit, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {
 	n := len(x)
 	p := &report.Plot{N: n}
 	fitted, resid := line.Fitted, line.Residuals
-	var gidx []int
-	if cc.groups != nil {
-		p.Levels, gidx = levels(cc.groups)
+	if gidx != nil {
+		p.Levels = lv
 		p.LevelCounts = make([]int, len(p.Levels))
 		p.LevelXMin, p.LevelXMax = make([]float64, len(p.Levels)), make([]float64, len(p.Levels))
 		for i, g := range gidx {
@@ -84,7 +85,9 @@ func plotData(x, y []float64, cc cases, line stats.LineFit, inf *report.Influenc
 }
 
 // levels returns the sorted distinct values of g and each row's index
-// into them.
+// into them: computed once per study and shared by the per-group lines,
+// the comparison of the group lines and the plot. Indices follow the
+// sorted levels, so they do not depend on the file's order of rows.
 func levels(g []string) ([]string, []int) {
 	seen := map[string]int{}
 	var lv []string

@@ -275,9 +275,12 @@ func analyze(in Input, cfg Config) report.Study {
 		s.Partial = append(s.Partial, report.Partial{Covariate: name, Label: labelOf(name, in.CovariateLabels[name]), N: s.N, R: report.Float(r),
 			CILow: report.Float(lo), CIHigh: report.Float(hi), P: report.Float(p)})
 	}
+	var lv []string // group levels, sorted, and each row's index into them
+	var gidx []int
 	if in.Groups != nil {
-		s.Groups = groupFits(x, y, cc.groups, conf)
-		s.GroupLines = groupLines(x, y, cc.groups)
+		lv, gidx = levels(cc.groups)
+		s.Groups = groupFits(x, y, lv, gidx, conf)
+		s.GroupLines = groupLines(x, y, gidx)
 	}
 
 	wg.Wait()
@@ -295,7 +298,7 @@ func analyze(in Input, cfg Config) report.Study {
 
 	s.UnitInvariance = unitInvariance(in, x, y, pc.R, line)
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
-	s.Plot = plotData(x, y, cc, line, s.Influence, lx, ly, conf, cfg)
+	s.Plot = plotData(x, y, cc, lv, gidx, line, s.Influence, lx, ly, conf, cfg)
 	lowessExtremes(s.Diagnostics.Lowess, s.Plot.Lowess)
 	s.Approximations = approximations(&s, cfg)
 	emptyLists(&s)

@@ -176,10 +176,16 @@ func dcorLooks(max int) []int {
 func dcorTest(x, y []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse float64, perms, used int, resolved bool, method string) {
 	nan := math.NaN()
 	statRows := fmt.Sprintf("all %d rows", len(x))
+	px, py := x, y // the rows the permutation sample is drawn from
 	if len(x) > DcorStatMaxN {
 		// The statistic on a sample chosen by the rows' values (see
-		// DcorStatMaxN).
+		// DcorStatMaxN). The permutation test's smaller sample is the
+		// same when drawn from this one (the rows of smallest hash of a
+		// sample of smallest hashes), so the rows are hashed once.
 		sx, sy := canonical(x, y, DcorStatMaxN)
+		if maxN <= DcorStatMaxN {
+			px, py = sx, sy
+		}
 		dcor = stats.DistanceCorrelation(sx, sy)
 		statRows = fmt.Sprintf("%d of the %d rows, chosen by their values", DcorStatMaxN, len(x))
 	} else {
@@ -189,7 +195,7 @@ func dcorTest(x, y []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse 
 	if math.IsNaN(dcor) || len(x) < 3 {
 		return dcor, nan, nan, 0, used, false, "distance correlation, V-statistic; undefined for these data, no permutation test"
 	}
-	cx, cy := canonical(x, y, maxN)
+	cx, cy := canonical(px, py, maxN)
 	src := rowSource(cx, cy, "dcor")
 	looks := dcorLooks(max(maxPerms, 1))
 	conf := 1 - dcorFlipRisk/float64(len(looks))

@@ -39,6 +39,26 @@ func TestCanonical(t *testing.T) {
 	}
 }
 
+// TestCanonicalNested: the sample of m rows drawn from a sample of K ≥ m
+// rows is the sample of m drawn from all rows (dcorTest hashes the rows
+// once on this), with ties in x, in y and in the hash's inputs.
+func TestCanonicalNested(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	n := 5000
+	x, y := make([]float64, n), make([]float64, n)
+	for i := range x {
+		x[i], y[i] = float64(rng.IntN(50)), float64(rng.IntN(30))/4 // many repeated pairs
+	}
+	for _, c := range []struct{ k, m int }{{1000, 100}, {1000, 1000}, {4999, 37}} {
+		kx, ky := canonical(x, y, c.k)
+		ax, ay := canonical(kx, ky, c.m)
+		bx, by := canonical(x, y, c.m)
+		if !slices.Equal(ax, bx) || !slices.Equal(ay, by) {
+			t.Errorf("K %d, m %d: the sample of the sample differs from the sample", c.k, c.m)
+		}
+	}
+}
+
 // TestDcorTestStops: far from alpha the sequential rule stops at the first
 // look, and its p is stats.DistanceCorrTest's on the canonical rows with the
 // rows' own stream; for independent data p is well above alpha; p and its

@@ -5,9 +5,7 @@ package analysis
 
 import (
 	"fmt"
-	"hash/fnv"
 	"math"
-	"math/rand/v2"
 	"slices"
 	"strconv"
 	"strings"
@@ -62,7 +60,7 @@ type Input struct {
 type Config struct {
 	Alpha      float64 // significance level; intervals are at confidence 1−Alpha
 	Design     string  // observational | designed-experiment | randomized-experiment
-	Seed       uint64  // seed of every random source (permutation test, samples)
+	Seed       uint64  // the manifest's seed, recorded; no result depends on it (random streams are seeded by the rows, see rowSource)
 	Thresholds report.Thresholds
 
 	LowessFrac       float64 // share of the points in each local fit (default 2/3)
@@ -147,18 +145,6 @@ func (c Config) withDefaults() Config {
 		c.LowessMaxN = d.LowessMaxN
 	}
 	return c
-}
-
-// source returns the random source for one study and one use: a PCG
-// generator seeded with the manifest seed, on a stream chosen by the study
-// id and the use, so a study's numbers do not depend on which other
-// studies the manifest holds or in which order.
-func source(seed uint64, studyID, use string) rand.Source {
-	h := fnv.New64a()
-	h.Write([]byte(studyID))
-	h.Write([]byte{0})
-	h.Write([]byte(use))
-	return rand.NewPCG(seed, h.Sum64())
 }
 
 // Analyze runs one study end to end: complete cases, every statistic of

@@ -53,7 +53,7 @@ type ManifestInfo struct {
 	Alpha      float64    `json:"alpha"`
 	Adjust     string     `json:"adjust"` // holm | bh | none
 	SHA256     string     `json:"sha256"`
-	Seed       uint64     `json:"seed"` // seed of every random source (permutation tests)
+	Seed       uint64     `json:"seed"` // the manifest's seed, recorded; no figure depends on it (random streams are seeded by the rows)
 	Thresholds Thresholds `json:"thresholds"`
 	// Rules states the cut points in force as the rules apply them
 	// (findings.Rules), for people: common practice apart from this tool's

@@ -859,7 +859,7 @@ func initManifestAll(profs []*csvProfile, rel string) string {
 	w("%-40s # what the report may say about cause (observational: no claim of cause)\n", "")
 	kv(fmt.Sprintf("alpha  = %g", manifest.DefaultAlpha), "significance level of every verdict; intervals at 1 - alpha")
 	kv("adjust = "+tomlString(manifest.DefaultAdjust), strings.Join(manifest.Adjustments(), " | ")+": p-values adjusted across all studies")
-	kv(fmt.Sprintf("# seed = %d", manifest.DefaultSeed), "seed of every random source (permutation tests, samples)")
+	kv(fmt.Sprintf("# seed = %d", manifest.DefaultSeed), "recorded only: random samples are seeded by the rows")
 
 	for _, prof := range profs {
 		w("\n# Columns found in %s (%d data rows):\n", where(prof), prof.rows)

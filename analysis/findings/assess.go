@@ -1015,23 +1015,13 @@ func (f *facts) quadP() float64 {
 	return math.NaN()
 }
 
-// flaggedRows returns the names of the flagged rows, largest Cook's D
-// first (the order of Influence.Points).
-func (f *facts) flaggedRows() []string {
-	var rows []string
-	if f.s.Influence != nil {
-		for _, p := range f.s.Influence.Points {
-			rows = append(rows, p.Row)
-		}
-	}
-	return rows
-}
-
 // suspectWords names the flags that Suspect counts.
 const suspectWords = "outlier, influential or sole support"
 
 // suspectRows returns the names of the rows flagged as outliers,
-// influential or of sole support (not those only of high leverage).
+// influential or of sole support (not those only of high leverage), in the
+// order of Influence.Points (largest Cook's D first). A study names only
+// such rows; the filter keeps a hand-built or older report honest.
 func (f *facts) suspectRows() []string {
 	var rows []string
 	if f.s.Influence != nil {
@@ -1045,7 +1035,7 @@ func (f *facts) suspectRows() []string {
 }
 
 func (f *facts) drivenHeadline() string {
-	rows := f.flaggedRows()
+	rows := f.suspectRows()
 	se := f.s.Sensitivity
 	switch {
 	case f.without == "undefined":

@@ -79,7 +79,7 @@ func logModels(x, y []float64, conf float64) []report.Fit {
 		if c, _ := constant(u); c {
 			return
 		}
-		l, err := stats.Line(u, v, conf)
+		l, err := stats.LineSummary(u, v, conf)
 		if err != nil {
 			return
 		}
@@ -105,7 +105,10 @@ func logModels(x, y []float64, conf float64) []report.Fit {
 // order). line's fitted values and residuals are in data order; order is
 // the run order per row, nil when the study has none. The quadratic's p,
 // Theil–Sen and LOWESS are set by Analyze from the side statistics.
-func diagnostics(x, y []float64, ps *stats.Sorted, line stats.LineFit, order []float64, cfg Config) *report.Diagnostics {
+//
+// sx and sy are the study's sample (studySample), from which the figures
+// computed on a sample draw theirs.
+func diagnostics(x, y, sx, sy []float64, ps *stats.Sorted, line stats.LineFit, order []float64, cfg Config) *report.Diagnostics {
 	d := &report.Diagnostics{QuadraticP: report.NaN(), DurbinWatson: report.NaN()}
 	// The lack-of-fit test needs settings that were repeated on purpose.
 	// Where x is continuous, a few values repeat only by rounding, and a
@@ -116,7 +119,7 @@ func diagnostics(x, y []float64, ps *stats.Sorted, line stats.LineFit, order []f
 	if f, df1, df2, p, ok := ps.LackOfFit(line.Slope.Estimate); ok && 2*(df1+2) <= ps.Len() {
 		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(p)}
 	}
-	dc, p, mcse, perms, used, resolved, method := dcorTest(x, y, cfg.Alpha, cfg.DcorPerms, cfg.DcorMaxN)
+	dc, p, mcse, perms, used, resolved, method := dcorTestSample(x, y, sx, sy, cfg.Alpha, cfg.DcorPerms, cfg.DcorMaxN)
 	d.DistanceCorr = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: perms,
 		Sampled: used, Method: method, MCError: report.Float(mcse), Resolved: resolved, FlipRisk: dcorFlipRisk}
 	bp, df, pbp := stats.BreuschPagan(line.Residuals, x)
@@ -133,7 +136,13 @@ func diagnostics(x, y []float64, ps *stats.Sorted, line stats.LineFit, order []f
 	} else {
 		d.DurbinWatson = report.Float(stats.DurbinWatson(resid))
 	}
-	xOrderFigures(d, x, resid)
+	// The x-order figures on the rows of the sample (all rows up to
+	// maxXOrderRows), sorted by x, with their residuals from the line.
+	cx, cy := canonical(sx, sy, maxXOrderRows)
+	for k := range cy {
+		cy[k] = line.Residual(cx[k], cy[k])
+	}
+	xOrderFigures(d, cx, cy)
 	return d
 }
 
@@ -171,7 +180,7 @@ func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, conf f
 	})
 	async(func() {
 		if ps.Len() >= 4 {
-			if q, err := stats.Polynomial(ps.X, ps.Y, 2, conf); err == nil && len(q.Coef) == 3 {
+			if q, err := stats.PolynomialSummary(ps.X, ps.Y, 2, conf); err == nil && len(q.Coef) == 3 {
 				out.quad = &q
 				f := regFit("quadratic", "y = b0 + b1·x + b2·x²", []string{"intercept", "x", "x^2"}, q)
 				if b2 := q.Coef[2].Estimate; b2 != 0 {
@@ -219,7 +228,7 @@ func groupFits(x, y []float64, lv []string, gidx []int, conf float64) []report.G
 		gx, gy := pick(x, idx), pick(y, idx)
 		if len(idx) >= 3 {
 			if cx, _ := constant(gx); !cx {
-				if l, err := stats.Line(gx, gy, conf); err == nil {
+				if l, err := stats.LineSummary(gx, gy, conf); err == nil {
 					gf.Slope, gf.Intercept = report.Float(l.Slope.Estimate), report.Float(l.Intercept.Estimate)
 					gf.SlopeLow, gf.SlopeHigh = report.Float(l.Slope.CILow), report.Float(l.Slope.CIHigh)
 				}

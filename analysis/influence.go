@@ -33,9 +33,14 @@ type flagged struct {
 // order of the file's rows; only rows alike in every value and in name
 // fall back to their position.
 func rankFlagged(x, y []float64, name func(int) string) func(a, b flagged) int {
+	// The names are made only when every value ties: cmp.Or evaluates all
+	// its arguments, and two names per comparison were most of the time of
+	// sorting 2.5·10⁵ flagged rows at 10⁷.
 	return func(a, b flagged) int {
-		return cmp.Or(cmp.Compare(b.d, a.d), cmp.Compare(b.t, a.t), cmp.Compare(x[a.i], x[b.i]), cmp.Compare(y[a.i], y[b.i]),
-			cmp.Compare(name(a.i), name(b.i)), cmp.Compare(a.i, b.i))
+		if c := cmp.Or(cmp.Compare(b.d, a.d), cmp.Compare(b.t, a.t), cmp.Compare(x[a.i], x[b.i]), cmp.Compare(y[a.i], y[b.i])); c != 0 {
+			return c
+		}
+		return cmp.Or(cmp.Compare(name(a.i), name(b.i)), cmp.Compare(a.i, b.i))
 	}
 }
 
@@ -204,7 +209,7 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 					report.Float(p.CILow), report.Float(p.CIHigh), report.Float(p.P)
 			}
 			if !cx {
-				if l, err := stats.Line(kx, ky, conf); err == nil {
+				if l, err := stats.LineSummary(kx, ky, conf); err == nil {
 					se.SlopeWithoutFlagged, se.InterceptWithout = report.Float(l.Slope.Estimate), report.Float(l.Intercept.Estimate)
 				}
 			}

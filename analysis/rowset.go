@@ -7,7 +7,6 @@ package analysis
 
 import (
 	"cmp"
-	"encoding/binary"
 	"fmt"
 	"hash/fnv"
 	"math"
@@ -17,19 +16,21 @@ import (
 	"bivar/analysis/stats"
 )
 
-// pairHash is the 64-bit FNV-1a hash of one (x, y) pair's bits, little
-// endian, with −0 read as 0 so equal values hash alike (written out, as
-// hash/fnv's would allocate per row).
+// mix64 is the finaliser of SplitMix64 (Steele, Lea & Flood 2014, "Fast
+// splittable pseudorandom number generators", OOPSLA): a bijection of
+// 64-bit words whose every output bit depends on every input bit.
+func mix64(z uint64) uint64 {
+	z = (z ^ (z >> 30)) * 0xbf58476d1ce4e5b9
+	z = (z ^ (z >> 27)) * 0x94d049bb133111eb
+	return z ^ (z >> 31)
+}
+
+// pairHash is a 64-bit hash of one (x, y) pair's bits, mix64(mix64(x) ⊕ y),
+// with −0 read as 0 so equal values hash alike. Two multiplications per
+// value (FNV-1a, used before, takes sixteen in a chain and was a tenth of
+// a study's time at 10⁷ rows).
 func pairHash(x, y float64) uint64 {
-	const offset, prime = 14695981039346656037, 1099511628211
-	h := uint64(offset)
-	for _, v := range [2]uint64{math.Float64bits(x + 0), math.Float64bits(y + 0)} {
-		for k := 0; k < 8; k++ {
-			h ^= v >> (8 * k) & 0xff
-			h *= prime
-		}
-	}
-	return h
+	return mix64(mix64(math.Float64bits(x+0)) ^ math.Float64bits(y+0))
 }
 
 // canonical returns the (x, y) pairs sorted by x, then y: the order in
@@ -38,37 +39,76 @@ func pairHash(x, y float64) uint64 {
 // chosen by their values (the maxN smallest pairHash values, ties by x
 // then y): a sample that is a function of the set of rows and not of a
 // seed or of the file's order. For data whose values are not built to
-// collide with FNV-1a, it behaves like a simple random sample.
+// collide with the hash, it behaves like a simple random sample. The
+// sample of a sample is the sample: canonical(canonical(x, y, k), m) is
+// canonical(x, y, m) for m ≤ k, so one pass over the rows serves every
+// sample a study draws (studySample).
 func canonical(x, y []float64, maxN int) (cx, cy []float64) {
 	n := len(x)
-	idx := make([]int, n)
-	for i := range idx {
-		idx[i] = i
-	}
-	byXY := func(a, b int) int { return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(y[a], y[b])) }
+	var idx []int
 	if maxN > 0 && n > maxN {
-		// The maxN-th smallest hash by selection (O(n)), then the rows
-		// below it and, among those equal to it, the first by (x, y).
-		h := make([]uint64, n)
-		for i := range h {
-			h[i] = pairHash(x[i], y[i])
+		idx = smallestHashes(x, y, maxN)
+	} else {
+		idx = make([]int, n)
+		for i := range idx {
+			idx[i] = i
 		}
-		cut := nthSmallest(slices.Clone(h), maxN-1)
-		sel := idx[:0]
-		var tied []int
-		for i, v := range h {
-			switch {
-			case v < cut:
-				sel = append(sel, i)
-			case v == cut:
-				tied = append(tied, i)
+	}
+	slices.SortFunc(idx, func(a, b int) int { return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(y[a], y[b])) })
+	return pick(x, idx), pick(y, idx)
+}
+
+// smallestHashes returns the positions of the k rows (0 < k < len(x)) of
+// smallest pairHash, ties at the k-th value broken by x then y, in no
+// particular order. One pass keeps the rows whose hash lies below a bound
+// that about 2k rows pass when the hashes are uniform; in the rare case
+// that fewer than k pass (many equal pairs, or values built to collide)
+// the bound is doubled and the pass repeated. Memory is O(k), not O(n).
+func smallestHashes(x, y []float64, k int) []int {
+	n := len(x)
+	frac := 2*float64(k)/float64(n) + 64/float64(n)
+	var hs []uint64
+	var is []int
+	for {
+		hs, is = hs[:0], is[:0]
+		all := frac >= 0.5 // a bound near 2⁶⁴ would overflow; half the rows or more: keep them all
+		bound := uint64(frac * (1 << 63) * 2)
+		for i := range n {
+			if h := pairHash(x[i], y[i]); all || h < bound {
+				hs, is = append(hs, h), append(is, i)
 			}
 		}
-		slices.SortFunc(tied, byXY)
-		idx = append(sel, tied[:maxN-len(sel)]...)
+		if len(hs) >= k {
+			break
+		}
+		frac *= 2
 	}
-	slices.SortFunc(idx, byXY)
-	return pick(x, idx), pick(y, idx)
+	cut := nthSmallest(slices.Clone(hs), k-1)
+	sel := make([]int, 0, k)
+	var tied []int
+	for j, h := range hs {
+		switch {
+		case h < cut:
+			sel = append(sel, is[j])
+		case h == cut:
+			tied = append(tied, is[j])
+		}
+	}
+	slices.SortFunc(tied, func(a, b int) int { return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(y[a], y[b])) })
+	return append(sel, tied[:k-len(sel)]...)
+}
+
+// studySample returns the rows every figure computed on a sample draws its
+// sample from: all of x and y (in their order) up to the largest sample
+// any of them takes, else canonical(x, y, k) with k that largest size. A
+// sample of it by canonical is the sample of all rows (see canonical), so
+// the rows are hashed once per study, not once per figure.
+func studySample(x, y []float64, cfg Config) (sx, sy []float64) {
+	k := max(cfg.LowessMaxN, cfg.DcorMaxN, DcorStatMaxN, maxXOrderRows)
+	if len(x) <= k {
+		return x, y
+	}
+	return canonical(x, y, k)
 }
 
 // nthSmallest returns the k-th smallest (0-based) of v, reordering v
@@ -107,17 +147,14 @@ func nthSmallest(v []uint64, k int) uint64 {
 // set of rows gives the same stream whatever the file's order and the
 // manifest's seed. use separates the streams of different procedures.
 func rowSource(cx, cy []float64, use string) rand.Source {
-	h := fnv.New64a()
-	var b [8]byte
+	h := uint64(len(cx))
 	for i := range cx {
-		binary.LittleEndian.PutUint64(b[:], math.Float64bits(cx[i]+0))
-		h.Write(b[:])
-		binary.LittleEndian.PutUint64(b[:], math.Float64bits(cy[i]+0))
-		h.Write(b[:])
+		h = mix64(h ^ math.Float64bits(cx[i]+0))
+		h = mix64(h ^ math.Float64bits(cy[i]+0))
 	}
 	h2 := fnv.New64a()
 	h2.Write([]byte(use))
-	return rand.NewPCG(h.Sum64(), h2.Sum64())
+	return rand.NewPCG(h, h2.Sum64())
 }
 
 // DcorStatMaxN is the number of rows above which the distance-correlation
@@ -174,19 +211,24 @@ func dcorLooks(max int) []int {
 // permutations, as stats.DistanceCorrTest does) and mcse = √(p̂(1 − p̂)/N)
 // is its Monte Carlo standard error.
 func dcorTest(x, y []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse float64, perms, used int, resolved bool, method string) {
+	sx, sy := x, y
+	if k := max(maxN, DcorStatMaxN); len(x) > k {
+		sx, sy = canonical(x, y, k)
+	}
+	return dcorTestSample(x, y, sx, sy, alpha, maxPerms, maxN)
+}
+
+// dcorTestSample is dcorTest given the study's sample (sx, sy): the rows
+// themselves, or canonical(x, y, k) for some k ≥ max(maxN, DcorStatMaxN),
+// from which every smaller sample is drawn (see canonical).
+func dcorTestSample(x, y, sx, sy []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse float64, perms, used int, resolved bool, method string) {
 	nan := math.NaN()
 	statRows := fmt.Sprintf("all %d rows", len(x))
-	px, py := x, y // the rows the permutation sample is drawn from
 	if len(x) > DcorStatMaxN {
 		// The statistic on a sample chosen by the rows' values (see
-		// DcorStatMaxN). The permutation test's smaller sample is the
-		// same when drawn from this one (the rows of smallest hash of a
-		// sample of smallest hashes), so the rows are hashed once.
-		sx, sy := canonical(x, y, DcorStatMaxN)
-		if maxN <= DcorStatMaxN {
-			px, py = sx, sy
-		}
-		dcor = stats.DistanceCorrelation(sx, sy)
+		// DcorStatMaxN), drawn from the study's sample.
+		tx, ty := canonical(sx, sy, DcorStatMaxN)
+		dcor = stats.DistanceCorrelation(tx, ty)
 		statRows = fmt.Sprintf("%d of the %d rows, chosen by their values", DcorStatMaxN, len(x))
 	} else {
 		dcor = stats.DistanceCorrelation(x, y)
@@ -195,7 +237,7 @@ func dcorTest(x, y []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse 
 	if math.IsNaN(dcor) || len(x) < 3 {
 		return dcor, nan, nan, 0, used, false, "distance correlation, V-statistic; undefined for these data, no permutation test"
 	}
-	cx, cy := canonical(px, py, maxN)
+	cx, cy := canonical(sx, sy, maxN)
 	src := rowSource(cx, cy, "dcor")
 	looks := dcorLooks(max(maxPerms, 1))
 	conf := 1 - dcorFlipRisk/float64(len(looks))

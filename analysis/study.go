@@ -252,9 +252,10 @@ func analyze(in Input, cfg Config) report.Study {
 		order = cc.order
 	}
 	var diag *report.Diagnostics
-	goOrRun(&wg, s.N)(func() { diag = diagnostics(x, y, ps, line, order, cfg) })
+	sx, sy := studySample(x, y, cfg)
+	goOrRun(&wg, s.N)(func() { diag = diagnostics(x, y, sx, sy, ps, line, order, cfg) })
 	goOrRun(&wg, s.N)(func() { s.Robust = robust(x, y, ps, order, pc.R, conf) })
-	lx, ly := canonical(x, y, cfg.LowessMaxN)
+	lx, ly := canonical(sx, sy, cfg.LowessMaxN)
 
 	for i, name := range covNames {
 		r, lo, hi, p := stats.PartialCorrelation(x, y, cc.cov[i], conf)

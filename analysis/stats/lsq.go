@@ -95,6 +95,17 @@ const rankTol = 1e-12
 // SE is 0: a nonzero estimate then has T = ±Inf and P = 0, a zero one T and
 // P NaN (0/0); R² is NaN when y is constant (TSS = 0).
 func LeastSquares(cols [][]float64, y []float64, conf float64) (Regression, error) {
+	return leastSquaresScaled(cols, y, conf, true)
+}
+
+// leastSquaresScaled checks and scales the data and fits them by
+// leastSquares (perRow: with fitted values, residuals and leverages) or by
+// lsqSummary (without).
+func leastSquaresScaled(cols [][]float64, y []float64, conf float64, perRow bool) (Regression, error) {
+	fit := leastSquares
+	if !perRow {
+		fit = lsqSummary
+	}
 	n, p := len(y), len(cols)
 	for j, c := range cols {
 		if len(c) != n {
@@ -131,13 +142,13 @@ func LeastSquares(cols [][]float64, y []float64, conf float64) (Regression, erro
 		scaled = scaled || kx[j] != 0
 	}
 	if !scaled {
-		return leastSquares(cols, y, conf)
+		return fit(cols, y, conf)
 	}
 	sc := make([][]float64, p)
 	for j, c := range cols {
 		sc[j] = ldexpAll(c, kx[j])
 	}
-	r, err := leastSquares(sc, ldexpAll(y, ky), conf)
+	r, err := fit(sc, ldexpAll(y, ky), conf)
 	if err != nil {
 		return Regression{}, err
 	}
@@ -349,6 +360,31 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 		}
 		r.Leverage[i] = math.Min(1, h) // ≤ 1 in exact arithmetic
 	}
+	return r.infer(rss, ess, b, conf)
+}
+
+// summarise is finish without the per-row outputs: the sums of squares of
+// the residuals and of the fitted values about the mean, then the
+// inference.
+func (r Regression) summarise(cols [][]float64, y, b []float64, conf float64) Regression {
+	var rss, ess float64
+	for i := range y {
+		var f float64
+		for j, c := range cols {
+			f += b[j] * ((c[i] - r.means[j]) - r.mlo[j])
+		}
+		e := ((y[i] - r.ymean) - r.ylo) - f
+		rss += e * e
+		ess += f * f
+	}
+	return r.infer(rss, ess, b, conf)
+}
+
+// infer fills the sums of squares and the inference from the residual and
+// regression sums of squares and the slopes b.
+func (r Regression) infer(rss, ess float64, b []float64, conf float64) Regression {
+	n, p := r.N, r.p
+	nf := float64(n)
 	r.RSS = rss
 	k := p + 1
 	df := float64(r.DFResid)
@@ -490,6 +526,16 @@ func (r Regression) Predict(z []float64, conf float64) (fit, confLow, confHigh, 
 // It returns an error for degree < 1, a non-finite x, x with fewer than
 // degree+1 distinct values, or whatever LeastSquares rejects.
 func Polynomial(x, y []float64, degree int, conf float64) (Regression, error) {
+	return polynomial(x, y, degree, conf, true)
+}
+
+// PolynomialSummary is Polynomial without the per-row outputs (fitted
+// values, residuals and leverages are nil), fitted by LeastSquaresSummary.
+func PolynomialSummary(x, y []float64, degree int, conf float64) (Regression, error) {
+	return polynomial(x, y, degree, conf, false)
+}
+
+func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regression, error) {
 	if len(x) != len(y) {
 		panic("stats: Polynomial: x and y lengths differ")
 	}
@@ -524,7 +570,7 @@ func Polynomial(x, y []float64, degree int, conf float64) (Regression, error) {
 		}
 		cols[d] = col
 	}
-	r, err := LeastSquares(cols, y, conf)
+	r, err := leastSquaresScaled(cols, y, conf, perRow)
 	if err != nil {
 		return Regression{}, err
 	}
@@ -673,6 +719,32 @@ func Line(x, y []float64, conf float64) (LineFit, error) {
 	}
 	mx, sxx := meanSS(x)
 	return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: mx, Sxx: sxx}, nil
+}
+
+// LineSummary is Line without the per-row outputs (fitted values,
+// residuals and leverages are nil), fitted by LeastSquaresSummary.
+func LineSummary(x, y []float64, conf float64) (LineFit, error) {
+	if len(x) != len(y) {
+		panic("stats: LineSummary: x and y lengths differ")
+	}
+	if len(x) < 2 {
+		return LineFit{}, fmt.Errorf("straight line: %d points: need at least 2", len(x))
+	}
+	reg, err := LeastSquaresSummary([][]float64{x}, y, conf)
+	if err != nil {
+		return LineFit{}, err
+	}
+	mx, sxx := meanSS(x)
+	return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: mx, Sxx: sxx}, nil
+}
+
+// Residual returns y − ŷ(x) for the pair (x, y), by the centred formula
+// the fit's own residuals use, ((y − ȳ) − b·(x − x̄)) with the means in two
+// parts: for a row of the fit it is that row's residual (bit for bit when
+// the data needed no scaling, see LeastSquares), so a caller that needs
+// the residuals of a few rows does not keep all of them.
+func (l LineFit) Residual(x, y float64) float64 {
+	return ((y - l.ymean) - l.ylo) - l.b[0]*((x-l.means[0])-l.mlo[0])
 }
 
 // Interval returns the line's mean response at x0 with its confidence

@@ -452,3 +452,63 @@ func TestPolynomialEdges(t *testing.T) {
 		t.Errorf("exact quadratic: %+v", q.Coef)
 	}
 }
+
+// TestLineResidual: LineFit.Residual of a row of the fit is that row's
+// residual, bit for bit (the same centred formula; an identity that holds
+// for any data that need no scaling).
+func TestLineResidual(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	x, y := make([]float64, 500), make([]float64, 500)
+	for i := range x {
+		x[i] = 1e6 + 10*rng.NormFloat64()
+		y[i] = 3 + 0.5*x[i] + rng.NormFloat64()
+	}
+	l, err := Line(x, y, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range x {
+		if got := l.Residual(x[i], y[i]); got != l.Residuals[i] {
+			t.Fatalf("row %d: Residual %v, fit's residual %v", i, got, l.Residuals[i])
+		}
+	}
+}
+
+// TestLeastSquaresSummary: the fit without per-row outputs agrees with
+// LeastSquares (Householder QR of the whole design) on every summary field,
+// on 10⁴ rows far from 0 and in every block alignment (n not a multiple of
+// the block), and has no per-row vectors. The certified-value checks of
+// both are in TestNISTStRD.
+func TestLeastSquaresSummary(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	for _, n := range []int{5, 255, 256, 257, 10007} {
+		x1, x2, y := make([]float64, n), make([]float64, n), make([]float64, n)
+		for i := range y {
+			x1[i] = 1e4 + rng.NormFloat64()
+			x2[i] = x1[i]*x1[i]/1e4 + rng.NormFloat64()
+			y[i] = 2 - 0.5*x1[i] + 0.25*x2[i] + rng.NormFloat64()
+		}
+		full, err1 := LeastSquares([][]float64{x1, x2}, y, 0.95)
+		sum, err2 := LeastSquaresSummary([][]float64{x1, x2}, y, 0.95)
+		if err1 != nil || err2 != nil {
+			t.Fatalf("n %d: %v, %v", n, err1, err2)
+		}
+		if sum.Fitted != nil || sum.Residuals != nil || sum.Leverage != nil {
+			t.Errorf("n %d: summary kept per-row vectors", n)
+		}
+		near := func(name string, a, b float64) {
+			t.Helper()
+			if !(math.Abs(a-b) <= 1e-9*math.Max(math.Abs(b), 1e-300)) && !(math.IsNaN(a) && math.IsNaN(b)) {
+				t.Errorf("n %d %s: summary %.17g, full %.17g", n, name, a, b)
+			}
+		}
+		for j := range full.Coef {
+			near("estimate", sum.Coef[j].Estimate, full.Coef[j].Estimate)
+			near("SE", sum.Coef[j].SE, full.Coef[j].SE)
+		}
+		near("RSS", sum.RSS, full.RSS)
+		near("R2", sum.R2, full.R2)
+		near("F", sum.F, full.F)
+		near("AIC", sum.AIC, full.AIC)
+	}
+}

@@ -155,9 +155,25 @@ func TestNISTStRD(t *testing.T) {
 		{"Wampler1.dat", 8, func(s strdFile) (Regression, error) {
 			return Polynomial(s.x[0], s.y, len(s.est)-1, 0.95)
 		}},
+		// The same fits without per-row outputs (LeastSquaresSummary's
+		// blocked QR with seminormal refinement), held to the same LREs.
+		{"Norris.dat", 11, func(s strdFile) (Regression, error) {
+			l, err := LineSummary(s.x[0], s.y, 0.95)
+			return l.Regression, err
+		}},
+		{"Longley.dat", 10, func(s strdFile) (Regression, error) {
+			return LeastSquaresSummary(s.x, s.y, 0.95)
+		}},
+		{"Wampler1.dat", 8, func(s strdFile) (Regression, error) {
+			return PolynomialSummary(s.x[0], s.y, len(s.est)-1, 0.95)
+		}},
 	}
-	for _, tc := range cases {
-		t.Run(strings.TrimSuffix(tc.file, ".dat"), func(t *testing.T) {
+	for k, tc := range cases {
+		name := strings.TrimSuffix(tc.file, ".dat")
+		if k >= 3 {
+			name += "/summary"
+		}
+		t.Run(name, func(t *testing.T) {
 			s := parseStRD(t, filepath.Join(dir, tc.file))
 			reg, err := tc.fit(s)
 			if err != nil {

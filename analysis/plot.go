@@ -24,7 +24,8 @@ const (
 func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.LineFit, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {
 	n := len(x)
 	p := &report.Plot{N: n}
-	fitted, resid := line.Fitted, line.Residuals
+	resid := line.Residuals // data order (analyze)
+	fittedAt := func(i int) float64 { return line.FittedAt(x[i]) }
 	if gidx != nil {
 		p.Levels = lv
 		p.LevelCounts = make([]int, len(p.Levels))
@@ -42,7 +43,7 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.Line
 	if n <= report.PlotPointsMax {
 		p.Points = make([]report.PlotPoint, n)
 		for i := range n {
-			pt := report.PlotPoint{X: x[i], Y: y[i], Fitted: fitted[i], Residual: resid[i], Order: math.NaN()}
+			pt := report.PlotPoint{X: x[i], Y: y[i], Fitted: fittedAt(i), Residual: resid[i], Order: math.NaN()}
 			if cc.order != nil {
 				pt.Order = cc.order[i]
 			}
@@ -56,6 +57,10 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.Line
 		})
 	} else {
 		p.Scatter = grid(x, y, gridNX, gridNY)
+		fitted := make([]float64, n)
+		for i := range fitted {
+			fitted[i] = fittedAt(i)
+		}
 		p.ResidFitted = grid(fitted, resid, gridNX, gridNY)
 		if cc.order != nil {
 			p.ResidOrder = grid(cc.order, resid, gridNX, gridNY)
@@ -75,7 +80,7 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.Line
 	p.Lowess = lowessCurve(lx, ly, cfg)
 	for k, pt := range inf.Points {
 		i := pt.Index
-		m := report.Marked{Row: pt.Row, X: x[i], Y: y[i], Fitted: fitted[i], Residual: resid[i], Order: math.NaN(), Label: k < report.LabelMax}
+		m := report.Marked{Row: pt.Row, X: x[i], Y: y[i], Fitted: fittedAt(i), Residual: resid[i], Order: math.NaN(), Label: k < report.LabelMax}
 		if cc.order != nil {
 			m.Order = cc.order[i]
 		}

@@ -237,15 +237,20 @@ func analyze(in Input, cfg Config) report.Study {
 	s.Pearson = &report.Pearson{R: report.Float(pc.R), R2: report.Float(pc.R2), CILow: report.Float(pc.CILow),
 		CIHigh: report.Float(pc.CIHigh), T: report.Float(pc.T), DF: pc.DF, P: report.Float(pc.P), PAdjusted: report.Float(pc.P)}
 
-	line, err := stats.Line(ps.X, ps.Y, conf)
+	// The line without per-row outputs (its leverages and fitted values
+	// would be two more columns of n), then its residuals in data order,
+	// beside x, y and the run order; fitted values are y − residual where
+	// needed.
+	line, err := stats.LineSummary(ps.X, ps.Y, conf)
 	if err != nil {
 		return failed(s, fmt.Sprintf("the straight line could not be fitted: %v", err))
 	}
 	lf := lineFit(line)
 	s.Line = &lf
-	// Fitted values and residuals back in data order, beside x, y and the
-	// run order.
-	line.Fitted, line.Residuals = ps.ToRows(line.Fitted), ps.ToRows(line.Residuals)
+	line.Residuals = make([]float64, len(x))
+	for i := range x {
+		line.Residuals[i] = line.Residual(x[i], y[i])
+	}
 
 	var order []float64
 	if in.Order != nil {

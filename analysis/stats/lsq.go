@@ -738,6 +738,12 @@ func LineSummary(x, y []float64, conf float64) (LineFit, error) {
 	return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: mx, Sxx: sxx}, nil
 }
 
+// FittedAt returns the line's fitted value ŷ(x) = ȳ + b·(x − x̄) by the
+// centred formula its own fitted values use (means in two parts).
+func (l LineFit) FittedAt(x float64) float64 {
+	return l.ymean + (l.ylo + l.b[0]*((x-l.means[0])-l.mlo[0]))
+}
+
 // Residual returns y − ŷ(x) for the pair (x, y), by the centred formula
 // the fit's own residuals use, ((y − ȳ) − b·(x − x̄)) with the means in two
 // parts: for a row of the fit it is that row's residual (bit for bit when

@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"runtime"
 	"sync"
 
 	"bivar/analysis/report"
@@ -160,7 +161,7 @@ type sideStats struct {
 // τ-b, Spearman's ρ with the Theil–Sen line, and the quadratic and log
 // models, all from the canonical order ps.
 func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, conf float64, cfg Config) {
-	async := goOrRun(wg, ps.Len())
+	async := goOrRun(wg)
 	async(func() {
 		tau, ptau := ps.KendallTauB()
 		out.kendall = report.Kendall{TauB: report.Float(tau), P: report.Float(ptau)}
@@ -257,19 +258,23 @@ func groupLines(x, y []float64, gidx []int) *report.GroupLines {
 		RWithin: report.Float(c.RWithin), RWithinDF: c.RWithinDF, RWithinP: report.Float(c.RWithinP)}
 }
 
-// ParallelMaxN is the number of rows above which a study computes its
-// statistics one after another instead of on several goroutines: the
-// goroutines' working memory adds up (each holds copies of the columns),
-// and above a few million rows that sum, not the time, is what limits the
-// largest file a machine can take.
-const ParallelMaxN = 2_000_000
+// taskSlots bounds the statistics of all studies that run at once to the
+// number of processors: more would not finish sooner, and each holds its
+// working memory (copies of a column or two: 80 MB each at 10⁷ rows)
+// while it runs, so at 10⁷ rows starting them all together took the peak
+// past 1 GB. Studies take their own slots (Run); a statistic takes a task
+// slot and never waits for anything while it holds it.
+var taskSlots = make(chan struct{}, max(1, runtime.GOMAXPROCS(0)))
 
-// goOrRun returns a function that runs f on wg's goroutines for a study of
-// n rows up to ParallelMaxN, and at once, on this goroutine, above it. The
-// results are the same either way.
-func goOrRun(wg *sync.WaitGroup, n int) func(f func()) {
-	if n > ParallelMaxN {
-		return func(f func()) { f() }
+// goOrRun returns a function that runs f on a goroutine of wg once a task
+// slot is free. Each f writes only its own results, so they are the same
+// whatever the schedule.
+func goOrRun(wg *sync.WaitGroup) func(f func()) {
+	return func(f func()) {
+		wg.Go(func() {
+			taskSlots <- struct{}{}
+			defer func() { <-taskSlots }()
+			f()
+		})
 	}
-	return wg.Go
 }

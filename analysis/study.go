@@ -258,8 +258,8 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	var diag *report.Diagnostics
 	sx, sy := studySample(x, y, cfg)
-	goOrRun(&wg, s.N)(func() { diag = diagnostics(x, y, sx, sy, ps, line, order, cfg) })
-	goOrRun(&wg, s.N)(func() { s.Robust = robust(x, y, ps, order, pc.R, conf) })
+	goOrRun(&wg)(func() { diag = diagnostics(x, y, sx, sy, ps, line, order, cfg) })
+	goOrRun(&wg)(func() { s.Robust = robust(x, y, ps, order, pc.R, conf) })
 	lx, ly := canonical(sx, sy, cfg.LowessMaxN)
 
 	for i, name := range covNames {

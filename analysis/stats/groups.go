@@ -95,10 +95,11 @@ func CompareGroupLines(x, y []float64, group []int) GroupLines {
 		return out
 	}
 	rssPar := math.Max(rssSep, syy-sxy*sxy/sxx)
-	_, e, _, _ := lineResiduals(xs, ys)
+	mx1, my1, _, b1 := lineParts(xs, ys)
 	var rssOne float64
-	for _, v := range e {
-		rssOne += v * v
+	for i := range xs {
+		e := ys[i] - my1 - b1*(xs[i]-mx1)
+		rssOne += e * e
 	}
 	rssOne = math.Max(rssSep, rssOne)
 	ms := rssSep / float64(out.DF2)

@@ -363,23 +363,6 @@ func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regre
 	return r.infer(rss, ess, b, conf)
 }
 
-// summarise is finish without the per-row outputs: the sums of squares of
-// the residuals and of the fitted values about the mean, then the
-// inference.
-func (r Regression) summarise(cols [][]float64, y, b []float64, conf float64) Regression {
-	var rss, ess float64
-	for i := range y {
-		var f float64
-		for j, c := range cols {
-			f += b[j] * ((c[i] - r.means[j]) - r.mlo[j])
-		}
-		e := ((y[i] - r.ymean) - r.ylo) - f
-		rss += e * e
-		ess += f * f
-	}
-	return r.infer(rss, ess, b, conf)
-}
-
 // infer fills the sums of squares and the inference from the residual and
 // regression sums of squares and the slopes b.
 func (r Regression) infer(rss, ess float64, b []float64, conf float64) Regression {
@@ -557,6 +540,35 @@ func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regressi
 	}
 	if d := distinctAtMost(x, degree+1); d < degree+1 {
 		return Regression{}, fmt.Errorf("polynomial: x takes %d distinct value(s): a degree-%d polynomial needs at least %d", d, degree, degree+1)
+	}
+	if !perRow {
+		// The powers of t are made row by row, never stored (degree
+		// columns of n). t lies in [−1, 1]; y is checked and, far from 1
+		// in magnitude, scaled as LeastSquares does.
+		for i, v := range y {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return Regression{}, fmt.Errorf("least squares: response row %d is %v: remove non-finite values first", i+1, v)
+			}
+		}
+		ky := pow2Shift(y)
+		r, err := lsqSummaryRows(len(x), degree, func(i int, row []float64) float64 {
+			t := (x[i] - c) / s
+			v := t
+			for d := range degree {
+				row[d] = v
+				v *= t
+			}
+			return math.Ldexp(y[i], ky)
+		}, conf)
+		if err != nil {
+			return Regression{}, err
+		}
+		if ky != 0 {
+			r.unscale(make([]int, degree), ky)
+		}
+		r.poly = &polyMap{c: c, s: s}
+		r.Coef = r.rawPowerCoef(conf)
+		return r, nil
 	}
 	cols := make([][]float64, degree)
 	for d := range cols {

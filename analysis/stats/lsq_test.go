@@ -512,3 +512,44 @@ func TestLeastSquaresSummary(t *testing.T) {
 		near("AIC", sum.AIC, full.AIC)
 	}
 }
+
+// TestPolynomialSummary: the quadratic without per-row outputs (powers made
+// row by row) agrees with Polynomial on every summary field, for y near 1
+// and for y near 1e300 (scaled by a power of two inside), and refuses the
+// same bad input. An identity; the certified check is Wampler1 in
+// TestNISTStRD.
+func TestPolynomialSummary(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	n := 3001
+	x, y := make([]float64, n), make([]float64, n)
+	for i := range x {
+		x[i] = 50 + 3*rng.NormFloat64()
+		y[i] = 1 + 0.2*x[i] - 0.01*x[i]*x[i] + 0.1*rng.NormFloat64()
+	}
+	for _, scale := range []float64{1, 1e300} {
+		ys := make([]float64, n)
+		for i := range y {
+			ys[i] = y[i] * scale
+		}
+		full, err1 := Polynomial(x, ys, 2, 0.95)
+		sum, err2 := PolynomialSummary(x, ys, 2, 0.95)
+		if err1 != nil || err2 != nil {
+			t.Fatalf("scale %g: %v, %v", scale, err1, err2)
+		}
+		for j := range full.Coef {
+			for _, pair := range [][2]float64{{sum.Coef[j].Estimate, full.Coef[j].Estimate}, {sum.Coef[j].SE, full.Coef[j].SE}, {sum.Coef[j].P, full.Coef[j].P}} {
+				if math.Abs(pair[0]-pair[1]) > 1e-9*math.Abs(pair[1]) {
+					t.Errorf("scale %g coef %d: summary %v, full %v", scale, j, pair[0], pair[1])
+				}
+			}
+		}
+		if math.Abs(sum.R2-full.R2) > 1e-12 || math.Abs(sum.RSS-full.RSS) > 1e-9*full.RSS {
+			t.Errorf("scale %g: R² %v / %v, RSS %v / %v", scale, sum.R2, full.R2, sum.RSS, full.RSS)
+		}
+	}
+	bad := append([]float64(nil), y...)
+	bad[7] = math.NaN()
+	if _, err := PolynomialSummary(x, bad, 2, 0.95); err == nil {
+		t.Error("NaN in y accepted")
+	}
+}

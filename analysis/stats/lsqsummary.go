@@ -42,36 +42,78 @@ func LeastSquaresSummary(cols [][]float64, y []float64, conf float64) (Regressio
 // lsqSummary is LeastSquaresSummary on checked columns of moderate
 // magnitude (see leastSquares).
 func lsqSummary(cols [][]float64, y []float64, conf float64) (Regression, error) {
-	n, p := len(y), len(cols)
+	return lsqSummaryRows(len(y), len(cols), func(i int, row []float64) float64 {
+		for j, c := range cols {
+			row[j] = c[i]
+		}
+		return y[i]
+	}, conf)
+}
+
+// lsqSummaryRows is lsqSummary on n rows of p predictors that rowAt
+// writes into row (returning y): a design that is a function of the data,
+// such as the powers of a polynomial, is never stored whole.
+func lsqSummaryRows(n, p int, rowAt func(i int, row []float64) float64, conf float64) (Regression, error) {
 	r := Regression{N: n, DFResid: n - p - 1, p: p}
-	yhi, ylo, tss := meanParts(y)
-	r.ymean, r.ylo, r.TSS = yhi, ylo, tss
-	r.means = make([]float64, p)
-	r.mlo = make([]float64, p)
-	colSS := make([]float64, p)
-	for j, c := range cols {
-		hi, lo, ss := meanParts(c)
-		r.means[j], r.mlo[j], colSS[j] = hi, lo, ss
-		if !(ss > 0) {
-			return Regression{}, fmt.Errorf("least squares: predictor %d is constant (every row %v): it cannot be fitted", j+1, c[0])
+	q := p + 1 // columns of the augmented matrix [A | y]
+	// Means in two parts and centred sums of squares, column by column as
+	// meanParts takes them (plain sum, then compensated block sums of the
+	// deviations).
+	hi, lo, ss := make([]float64, q), make([]float64, q), make([]float64, q)
+	row := make([]float64, q)
+	for i := range n {
+		row[p] = rowAt(i, row)
+		for j := range q {
+			hi[j] += row[j]
+		}
+	}
+	for j := range hi {
+		hi[j] /= float64(n)
+	}
+	cs, qs := make([]ksum, q), make([]ksum, q)
+	bc, bq := make([]float64, q), make([]float64, q)
+	for b := 0; b < n; b += sumBlock {
+		clear(bc)
+		clear(bq)
+		for i := b; i < min(b+sumBlock, n); i++ {
+			row[p] = rowAt(i, row)
+			for j := range q {
+				d := row[j] - hi[j]
+				bc[j] += d
+				bq[j] += d * d
+			}
+		}
+		for j := range q {
+			cs[j].add(bc[j])
+			qs[j].add(bq[j])
+		}
+	}
+	for j := range q {
+		c := cs[j].value()
+		lo[j], ss[j] = c/float64(n), qs[j].value()-c*c/float64(n)
+	}
+	r.ymean, r.ylo, r.TSS = hi[p], lo[p], ss[p]
+	r.means, r.mlo = hi[:p:p], lo[:p:p]
+	for j := range p {
+		if !(ss[j] > 0) {
+			rowAt(0, row)
+			return Regression{}, fmt.Errorf("least squares: predictor %d is constant (every row %v): it cannot be fitted", j+1, row[j])
 		}
 	}
 	if p == 0 {
-		return r.summarise(cols, y, nil, conf), nil
+		return r.summariseRows(rowAt, nil, conf), nil
 	}
-	q := p + 1 // columns of the augmented matrix [A | y]
 	// m: the stack, row-major, q rows of R over up to summaryBlock rows.
 	m := make([]float64, (q+summaryBlock)*q)
 	rows := 0 // rows of the stack holding R (at most q)
-	for lo := 0; lo < n; lo += summaryBlock {
-		hi := min(lo+summaryBlock, n)
+	for b := 0; b < n; b += summaryBlock {
 		k := rows
-		for i := lo; i < hi; i++ {
-			row := m[k*q : (k+1)*q]
-			for j, c := range cols {
-				row[j] = (c[i] - r.means[j]) - r.mlo[j]
+		for i := b; i < min(b+summaryBlock, n); i++ {
+			dst := m[k*q : (k+1)*q]
+			dst[p] = rowAt(i, dst)
+			for j := range q {
+				dst[j] = (dst[j] - hi[j]) - lo[j]
 			}
-			row[p] = (y[i] - yhi) - ylo
 			k++
 		}
 		householderR(m[:k*q], k, q)
@@ -86,40 +128,58 @@ func lsqSummary(cols [][]float64, y []float64, conf float64) (Regression, error)
 		z[i] = m[i*q+p]
 	}
 	for j := 0; j < p; j++ {
-		if !(math.Abs(R[j*p+j]) >= rankTol*math.Sqrt(colSS[j])) {
+		if !(math.Abs(R[j*p+j]) >= rankTol*math.Sqrt(ss[j])) {
 			return Regression{}, fmt.Errorf("least squares: predictor %d is (numerically) a linear combination of the predictors before it: drop it or the one it duplicates", j+1)
 		}
 	}
 	r.rinv = invUpper(R, p)
-	b := upperMul(r.rinv, z, p) // R⁻¹·Qᵀy
-	// Refinement: Aᵀr from the original columns, then R⁻¹R⁻ᵀ(Aᵀr).
-	atr := make([]float64, p)
+	coef := upperMul(r.rinv, z, p) // R⁻¹·Qᵀy
+	// Refinement: Aᵀr from the data, then R⁻¹R⁻ᵀ(Aᵀr).
 	parts := make([]ksum, p)
-	xc, blk := make([]float64, p), make([]float64, p)
-	for lo := 0; lo < n; lo += sumBlock {
+	blk := make([]float64, p)
+	for b := 0; b < n; b += sumBlock {
 		clear(blk)
-		for i := lo; i < min(lo+sumBlock, n); i++ {
-			s := (y[i] - yhi) - ylo
-			for j, c := range cols {
-				xc[j] = (c[i] - r.means[j]) - r.mlo[j]
-				s -= b[j] * xc[j]
+		for i := b; i < min(b+sumBlock, n); i++ {
+			row[p] = rowAt(i, row)
+			s := (row[p] - hi[p]) - lo[p]
+			for j := range p {
+				row[j] = (row[j] - hi[j]) - lo[j]
+				s -= coef[j] * row[j]
 			}
-			for j := range blk {
-				blk[j] += xc[j] * s
+			for j := range p {
+				blk[j] += row[j] * s
 			}
 		}
-		for j := range blk {
+		for j := range p {
 			parts[j].add(blk[j])
 		}
 	}
+	atr := make([]float64, p)
 	for j := range atr {
 		atr[j] = parts[j].value()
 	}
 	d := upperMul(r.rinv, upperTMul(r.rinv, atr, p), p)
-	for j := range b {
-		b[j] += d[j]
+	for j := range coef {
+		coef[j] += d[j]
 	}
-	return r.summarise(cols, y, b, conf), nil
+	return r.summariseRows(rowAt, coef, conf), nil
+}
+
+// summariseRows is summarise for a design given row by row.
+func (r Regression) summariseRows(rowAt func(i int, row []float64) float64, b []float64, conf float64) Regression {
+	var rss, ess float64
+	row := make([]float64, r.p+1)
+	for i := range r.N {
+		yi := rowAt(i, row)
+		var f float64
+		for j := range r.p {
+			f += b[j] * ((row[j] - r.means[j]) - r.mlo[j])
+		}
+		e := ((yi - r.ymean) - r.ylo) - f
+		rss += e * e
+		ess += f * f
+	}
+	return r.infer(rss, ess, b, conf)
 }
 
 // householderR reduces the k×q row-major matrix a to upper-triangular form

@@ -2,6 +2,7 @@ package stats
 
 import (
 	"math"
+	"math/rand/v2"
 	"path/filepath"
 	"sort"
 	"testing"
@@ -72,10 +73,12 @@ func TestRobustSlopeSE(t *testing.T) {
 func TestHACIdentities(t *testing.T) {
 	x := []float64{1, 2, 3, 4, 5, 6, 7, 8, 9, 10}
 	y := []float64{1.2, 1.9, 3.4, 3.8, 5.5, 5.9, 7.4, 7.7, 9.6, 9.8}
-	dx, e, sxx, _ := lineResiduals(x, y)
+	mx, my, sxx, b := lineParts(x, y)
 	var s float64
-	for i := range dx {
-		s += dx[i] * dx[i] * e[i] * e[i]
+	for i := range x {
+		dx := x[i] - mx
+		e := y[i] - my - b*dx
+		s += dx * dx * e * e
 	}
 	_, h0 := SlopeHAC(x, y, 0)
 	if want := math.Sqrt(s) / sxx; math.Abs(h0-want) > 1e-15*want {
@@ -104,5 +107,36 @@ func TestEffectiveN(t *testing.T) {
 	p, lo, hi := CorrelationEff(c.R, float64(len(x)), 0.95)
 	if math.Abs(p-c.P) > 1e-12*c.P || math.Abs(lo-c.CILow) > 1e-12 || math.Abs(hi-c.CIHigh) > 1e-12 {
 		t.Errorf("CorrelationEff with n_eff = n: p %v CI %v to %v; Pearson p %v CI %v to %v", p, lo, hi, c.P, c.CILow, c.CIHigh)
+	}
+}
+
+// TestSlopeHACOrder: the HAC slope and SE of rows read through an order
+// index equal those of the rows copied into that order (an identity; the
+// sums about the means are taken in another order, so to rounding), and
+// Lag1AutocorrAt reads the same series as Lag1Autocorr.
+func TestSlopeHACOrder(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	n := 5000
+	x, y := make([]float64, n), make([]float64, n)
+	for i := range x {
+		x[i] = rng.NormFloat64()
+		y[i] = 1 + 2*x[i] + rng.NormFloat64()
+	}
+	order := make([]int32, n)
+	for i := range order {
+		order[i] = int32(i)
+	}
+	rng.Shuffle(n, func(i, j int) { order[i], order[j] = order[j], order[i] })
+	ox, oy := make([]float64, n), make([]float64, n)
+	for t, i := range order {
+		ox[t], oy[t] = x[i], y[i]
+	}
+	b1, se1 := SlopeHAC(ox, oy, NeweyWestLags(n))
+	b2, se2 := SlopeHACOrder(x, y, order, NeweyWestLags(n))
+	if math.Abs(b1-b2) > 1e-13*math.Abs(b1) || math.Abs(se1-se2) > 1e-12*se1 {
+		t.Errorf("copied: %v ± %v; through the index: %v ± %v", b1, se1, b2, se2)
+	}
+	if a, b := Lag1Autocorr(ox), Lag1AutocorrAt(n, func(t int) float64 { return x[order[t]] }); a != b {
+		t.Errorf("Lag1Autocorr %v, Lag1AutocorrAt %v", a, b)
 	}
 }

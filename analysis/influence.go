@@ -54,7 +54,7 @@ func rankFlagged(x, y []float64, name func(int) string) func(a, b flagged) int {
 // the line: good data, counted and never named. "Without the flagged rows"
 // leaves out every suspect row, named or not.
 func influence(x, y []float64, name func(int) string, th report.Thresholds, namedMax int, conf float64,
-	res *report.Resistant, mom stats.Moments, all stats.Correlation, line stats.LineFit) (*report.Influence, *report.Sensitivity, []byte) {
+	mom stats.Moments, all stats.Correlation, line stats.LineFit) (*report.Influence, *report.Sensitivity, []byte) {
 	n := len(x)
 	li := stats.NewLineInfluence(x, y)
 	rules := findings.FlagRulesFor(n, th)
@@ -69,7 +69,7 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	se := &report.Sensitivity{LooRMin: report.NaN(), LooRMax: report.NaN(), LooSlopeMin: report.NaN(), LooSlopeMax: report.NaN(),
 		RWithoutFlagged: report.NaN(), RWithoutLow: report.NaN(), RWithoutHigh: report.NaN(),
 		PWithoutFlagged: report.NaN(), SlopeWithoutFlagged: report.NaN(), InterceptWithout: report.NaN(),
-		ResistantSlope: res.Slope, ResistantIntercept: res.Intercept, WithoutEach: []report.Without{}}
+		ResistantSlope: report.NaN(), ResistantIntercept: report.NaN(), WithoutEach: []report.Without{}} // the resistant line: set by analyze
 
 	// One pass: flags, counts, the largest Cook's D and the leave-one-out
 	// extremes (first occurrence in the ranking's value order on ties).

@@ -55,7 +55,7 @@ func TestInfluenceCountsAndTies(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		in, _, csvb := influence(x, y, name, findings.DefaultThresholds(), named, 0.95, &report.Resistant{}, stats.CentredMoments(x, y), stats.Pearson(x, y, 0.95), line)
+		in, _, csvb := influence(x, y, name, findings.DefaultThresholds(), named, 0.95, stats.CentredMoments(x, y), stats.Pearson(x, y, 0.95), line)
 		return in, csvb
 	}
 	name := func(j int) string {

@@ -257,6 +257,10 @@ func analyze(in Input, cfg Config) report.Study {
 		order = cc.order
 	}
 	var diag *report.Diagnostics
+	var flaggedCSV []byte
+	goOrRun(&wg)(func() {
+		s.Influence, s.Sensitivity, flaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, m, pc, line)
+	})
 	sx, sy := studySample(x, y, cfg)
 	goOrRun(&wg)(func() { diag = diagnostics(x, y, sx, sy, ps, line, order, cfg) })
 	goOrRun(&wg)(func() { s.Robust = robust(x, y, ps, order, pc.R, conf) })
@@ -283,7 +287,8 @@ func analyze(in Input, cfg Config) report.Study {
 		s.Diagnostics.QuadraticP = report.Float(side.quad.Coef[2].P)
 	}
 	s.Diagnostics.Lowess = &report.LowessInfo{Frac: cfg.LowessFrac, Iterations: cfg.LowessIter, Delta: lowessDelta(lx), Sampled: len(lx)}
-	s.Influence, s.Sensitivity, s.FlaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, s.Diagnostics.Resistant, m, pc, line)
+	s.FlaggedCSV = flaggedCSV
+	s.Sensitivity.ResistantSlope, s.Sensitivity.ResistantIntercept = side.resistant.Slope, side.resistant.Intercept
 	if s.FlaggedCSV != nil {
 		s.Influence.File = FlaggedFile(in.ID)
 	}

@@ -1,6 +1,7 @@
 package stats
 
 import (
+	"cmp"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -263,5 +264,32 @@ func TestSortedSample(t *testing.T) {
 		if math.Abs(float64(c)-500) > 5*19.4 {
 			t.Errorf("position %d drawn %d times in 2000 samples, want about 500", i, c)
 		}
+	}
+}
+
+// TestNewSortedTies: on x with runs of ties of every length the sort takes
+// a different path for (1, short, ≥ sortTiesRadix), the canonical order is
+// that of a comparison sort by (x, tieKey(y), row), and equal pairs keep
+// their rows' order.
+func TestNewSortedTies(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(11, 12))
+	var x, y []float64
+	for lev, m := range []int{1, 2, 3, 40, 2047, 2048, 5000, 1} {
+		for range m {
+			x = append(x, float64(lev%4)*0.5-float64(lev)) // distinct levels, some negative
+			y = append(y, math.Round(rng.NormFloat64()*4)) // many equal y, so equal pairs
+		}
+	}
+	rng.Shuffle(len(x), func(i, j int) { x[i], x[j] = x[j], x[i]; y[i], y[j] = y[j], y[i] })
+	want := make([]int32, len(x))
+	for i := range want {
+		want[i] = int32(i)
+	}
+	slices.SortFunc(want, func(a, b int32) int {
+		return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(tieKey(y[a]), tieKey(y[b])), cmp.Compare(a, b))
+	})
+	if s := NewSorted(x, y); !slices.Equal(s.Row, want) {
+		t.Error("canonical order differs from the comparison sort by (x, tieKey(y), row)")
 	}
 }

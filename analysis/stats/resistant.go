@@ -97,12 +97,23 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 		if src == nil {
 			src = rand.NewPCG(1, 2)
 		}
-		rng := rand.New(src)
 		m := maxExact * (maxExact - 1) / 2
 		slopes = make([]float64, 0, m)
+		// One 64-bit draw gives both positions: i from its low half in
+		// [0, n), j from its high half in [0, n−1), each by Lemire's
+		// multiply-and-reject (Lemire 2019, "Fast random integer generation
+		// in an interval", ACM TOMACS 29(1)), exactly uniform; a draw with
+		// a rejected half is drawn again. n < 2³¹ (checkIndexable).
+		checkIndexable("TheilSen", n)
+		un, um := uint32(n), uint32(n-1)
+		tn, tm := -un%un, -um%um
 		for draws := 0; len(slopes) < m && draws < 8*m; draws++ {
-			i := rng.IntN(n)
-			j := rng.IntN(n - 1)
+			w := src.Uint64()
+			pi, pj := uint64(uint32(w))*uint64(un), uint64(uint32(w>>32))*uint64(um)
+			if uint32(pi) < tn || uint32(pj) < tm {
+				continue
+			}
+			i, j := int(pi>>32), int(pj>>32)
 			if j >= i {
 				j++
 			}

@@ -62,16 +62,16 @@ type Thresholds struct {
 
 // Dataset declares one CSV file.
 type Dataset struct {
-	ID        string   `toml:"id"`
-	File      string   `toml:"file"`
-	Delimiter string   `toml:"delimiter"` // "," ";" "\t" or "" to detect
-	Decimal   string   `toml:"decimal"`   // "." or ","; "" means "." (or "," when the delimiter is ";" and cells show it)
+	ID        string `toml:"id"`
+	File      string `toml:"file"`
+	Delimiter string `toml:"delimiter"` // "," ";" "\t" or "" to detect
+	Decimal   string `toml:"decimal"`   // "." or ","; "" means "." (or "," when the delimiter is ";" and cells show it)
 	// Thousands is the separator between groups of three digits that the
 	// file's numbers are written with ("1,234.5"), one of Thousands(); ""
 	// means none is accepted. "," implies a decimal point and "." a decimal
 	// comma; it may not equal decimal.
-	Thousands string `toml:"thousands"`
-	Missing   []string `toml:"missing"`   // cells read as missing
+	Thousands string   `toml:"thousands"`
+	Missing   []string `toml:"missing"` // cells read as missing
 	// NonNumeric says what a non-numeric cell in a numeric column is:
 	// "error" (default) or "missing".
 	NonNumeric string            `toml:"non_numeric"`

@@ -92,6 +92,9 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			if err != nil {
 				return nil, err
 			}
+			if err := checkScales(m, st, ls, sel.keep); err != nil {
+				return nil, err
+			}
 			selected[i] = sel
 		}
 	}
@@ -124,7 +127,8 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		go func() {
 			defer func() { <-slots; wg.Done() }()
 			in.Keep = selected[i].keep
-			s := analyze(in, cfg)
+			s := analyze(onScale(st, in), cfg)
+			scaledModels(&s)
 			if in.Keep == nil {
 				s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
 			} else {

@@ -7,6 +7,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -133,12 +134,29 @@ func TestEngelScales(t *testing.T) {
 	cases := []struct {
 		id, xs, ys string
 		w          want
+		// The headline's first sentence, and what the slope means in the
+		// recorded units, from statsmodels' slope and interval above by
+		// hand (Python's math): log–log, the slope itself (an elasticity);
+		// log-y, 100·(exp(b) − 1) = 0.06617 (0.06104 to 0.07130) % per
+		// BEF; log-x, b·ln 1.01 = 5.682 (5.345 to 6.018) BEF per 1 % more
+		// income and b·ln 2 = 395.8 BEF per doubling.
+		headline, meaning string
 	}{
-		{"log-log", "log", "log", want{0.8558969860409026, 0.8158571046965246, 0.8959368673852806, 0.5451421879887332, 0.27285681181270866, 0.8174275641647577, 0.9401532981967033}},
-		{"log10-log10", "log10", "log10", want{0.8558969860409037, 0.8158571046965257, 0.8959368673852817, 0.23675224409616813, 0.11850020771996952, 0.35500428047236676, 0.9401532981967033}},
-		{"sqrt-sqrt", "sqrt", "sqrt", want{0.6596837109334874, 0.6265922604827644, 0.6927751613842105, 4.3331317426059615, 3.295899221282882, 5.370364263929041, 0.9320828117966996}},
-		{"log-x", "log", "linear", want{571.0205891735882, 537.192526205454, 604.8486521417224, -3250.889642975214, -3480.9324538258, -3020.846832124628, 0.9088421671000786}},
-		{"log-y", "", "log", want{0.0006615021968544987, 0.0006102618549318591, 0.0007127425387771384, 5.703492008154611, 5.64657815491914, 5.760405861390082, 0.8574418806211671}},
+		{"log-log", "log", "log", want{0.8558969860409026, 0.8158571046965246, 0.8959368673852806, 0.5451421879887332, 0.27285681181270866, 0.8174275641647577, 0.9401532981967033},
+			"Studied on the log–log scale (natural logarithms of foodexp and income). Log foodexp rises with log income along a straight line",
+			"1% more income goes with about 0.856% more foodexp (95% CI 0.816% to 0.896%)"},
+		{"log10-log10", "log10", "log10", want{0.8558969860409037, 0.8158571046965257, 0.8959368673852817, 0.23675224409616813, 0.11850020771996952, 0.35500428047236676, 0.9401532981967033},
+			"Studied on the log–log scale (base-10 logarithms of foodexp and income).",
+			"1% more income goes with about 0.856% more foodexp (95% CI 0.816% to 0.896%)"},
+		{"sqrt-sqrt", "sqrt", "sqrt", want{0.6596837109334874, 0.6265922604827644, 0.6927751613842105, 4.3331317426059615, 3.295899221282882, 5.370364263929041, 0.9320828117966996},
+			"Studied with foodexp and income on the square-root scale. √foodexp rises with √income",
+			"the slope is the change in √foodexp per unit of √income"},
+		{"log-x", "log", "linear", want{571.0205891735882, 537.192526205454, 604.8486521417224, -3250.889642975214, -3480.9324538258, -3020.846832124628, 0.9088421671000786},
+			"Studied with income on the natural-log scale and foodexp as recorded.",
+			"1% more income goes with foodexp changing by 5.68 BEF (95% CI 5.35 to 6.02 BEF), and a doubling of income by 396 BEF"},
+		{"log-y", "", "log", want{0.0006615021968544987, 0.0006102618549318591, 0.0007127425387771384, 5.703492008154611, 5.64657815491914, 5.760405861390082, 0.8574418806211671},
+			"Studied with foodexp on the natural-log scale and income as recorded.",
+			"foodexp is 0.0662% more per BEF (95% CI 0.061% to 0.0713%)"},
 	}
 	var src strings.Builder
 	fmt.Fprintf(&src, "[[dataset]]\nid = \"engel\"\nfile = %q\n[dataset.units]\nincome = \"{BEF}\"\nfoodexp = \"{BEF}\"\n", path)
@@ -185,6 +203,9 @@ func TestEngelScales(t *testing.T) {
 		}
 		if s.X.Scale != wantX || s.Y.Scale != wantY {
 			t.Errorf("%s: scales %q, %q recorded; want %q, %q", c.id, s.X.Scale, s.Y.Scale, wantX, wantY)
+		}
+		if f := s.Findings; f == nil || !strings.HasPrefix(f.Headline, c.headline) || !slices.ContainsFunc(f.Statements, func(st string) bool { return strings.Contains(st, c.meaning) }) {
+			t.Errorf("%s: the headline does not open with %q, or no statement says %q:\n%+v", c.id, c.headline, c.meaning, f)
 		}
 		for _, f := range s.Models {
 			if strings.HasPrefix(f.Name, "log-") {

@@ -239,6 +239,11 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	}
 	opts.DecimalComma = ds.Decimal == ","
 	opts.DecimalPoint = ds.Decimal == "."
+	if ds.Thousands != "" { // "," implies a decimal point, "." a decimal comma
+		opts.Thousands = []rune(ds.Thousands)[0]
+		opts.DecimalComma = opts.DecimalComma || opts.Thousands == '.'
+		opts.DecimalPoint = opts.DecimalPoint || opts.Thousands == ','
+	}
 	for _, st := range m.Studies {
 		if st.Dataset == ds.ID && st.Group != "" && !slices.Contains(opts.Groups, st.Group) {
 			opts.Groups = append(opts.Groups, st.Group)

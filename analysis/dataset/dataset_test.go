@@ -164,7 +164,7 @@ func TestReadErrors(t *testing.T) {
 		{"declared decimal comma", "a;b\n1.5;2\n", Options{DecimalComma: true}, []string{"a"}, nil,
 			Error{Line: 2, Column: "a", Text: "1.5", Msg: `"1.5" is not a number: it has a decimal point, but the dataset declares decimal = ","`}},
 		{"thousands separator", "a;b\n1.234,5;2\n", Options{DecimalComma: true}, []string{"a"}, nil,
-			Error{Line: 2, Column: "a", Text: "1.234,5", Msg: `"1.234,5" is not a number: it shows both a point and a comma; thousands separators are not accepted, write the number without them`}},
+			Error{Line: 2, Column: "a", Text: "1.234,5", Msg: `"1.234,5" is not a number: it shows both a point and a comma; if one of them separates thousands, declare it for the dataset (thousands = "," or "."), or write the number without it`}},
 		{"absent columns", "shot,melt_temp,shrinkage\n1,2,3\n", Options{}, []string{"melt_tmp", "pressure"}, nil,
 			Error{Line: 1, Column: "melt_tmp", Msg: `no column "melt_tmp" (did you mean "melt_temp"?), no column "pressure"; the header has "shot", "melt_temp", "shrinkage"`}},
 		{"column named twice", "x,y,x\n1,2,3\n", Options{}, []string{"x"}, nil,

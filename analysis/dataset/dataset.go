@@ -288,7 +288,7 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 	case mark == '.' && hasComma && !hasPoint && markLine > 0:
 		msg += fmt.Sprintf(": it has a decimal comma, but numbers from line %d on use a decimal point; declare decimal = \".\" or \",\" for the dataset and make the file agree", markLine)
 	case mark == '.' && hasComma && !hasPoint:
-		msg += `: it has a comma; if the file uses decimal commas, declare decimal = "," (and quote such cells, since the delimiter is also a comma)`
+		msg += `: it has a comma; if the file uses decimal commas, declare decimal = "," (and quote such cells, since the delimiter is also a comma), and if it separates thousands, declare thousands = ","`
 	case mark == ',' && hasPoint && !hasComma && markLine > 0:
 		msg += fmt.Sprintf(": it has a decimal point, but numbers from line %d on use a decimal comma; declare decimal = \".\" or \",\" for the dataset and make the file agree", markLine)
 	case mark == ',' && hasPoint && !hasComma && opts.DecimalComma:

@@ -158,7 +158,7 @@ func TestReadErrors(t *testing.T) {
 		{"mixed decimal marks", "a;b\n1,5;2\n2.5;3\n", Options{}, []string{"a"}, nil,
 			Error{Line: 3, Column: "a", Text: "2.5", Msg: `"2.5" is not a number: it has a decimal point, but numbers from line 2 on use a decimal comma; declare decimal = "." or "," for the dataset and make the file agree`}},
 		{"comma in a comma-separated file", "a,b\n\"1,5\",2\n", Options{}, []string{"a"}, nil,
-			Error{Line: 2, Column: "a", Text: "1,5", Msg: `"1,5" is not a number: it has a comma; if the file uses decimal commas, declare decimal = "," (and quote such cells, since the delimiter is also a comma)`}},
+			Error{Line: 2, Column: "a", Text: "1,5", Msg: `"1,5" is not a number: it has a comma; if the file uses decimal commas, declare decimal = "," (and quote such cells, since the delimiter is also a comma), and if it separates thousands, declare thousands = ","`}},
 		{"declared decimal point", "a;b\n1,5;2\n", Options{DecimalPoint: true}, []string{"a"}, nil,
 			Error{Line: 2, Column: "a", Text: "1,5", Msg: `"1,5" is not a number: it has a decimal comma, but the dataset declares decimal = "."`}},
 		{"declared decimal comma", "a;b\n1.5;2\n", Options{DecimalComma: true}, []string{"a"}, nil,

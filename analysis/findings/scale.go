@@ -137,8 +137,12 @@ func (f *facts) slopeMeaning() string {
 		if k != 1 {
 			conv = fmt.Sprintf(" (the slope times ln %s/ln %s, as the logarithms' bases differ)", baseName(by), baseName(bx))
 		}
-		return fmt.Sprintf("On the log–log scale the slope is an elasticity%s: 1%% more %s goes with about %s%% %s %s%s, whatever the level of %s (exactly: a factor of 1.01 to the power %s).",
-			conv, xl, num(math.Abs(e(b))), more(e(b)), yl, ci(e, "%"), xl, num(e(b)))
+		rel := ""
+		if symbol(s.X) == "%" || symbol(s.Y) == "%" {
+			rel = " (percentages of the values themselves, not percentage points)"
+		}
+		return fmt.Sprintf("On the log–log scale the slope is an elasticity%s: 1%% more %s goes with about %s%% %s %s%s, whatever the level of %s (exactly: a factor of 1.01 to the power %s)%s.",
+			conv, xl, num(math.Abs(e(b))), more(e(b)), yl, ci(e, "%"), xl, num(e(b)), rel)
 	case by != 0:
 		pct := func(v float64) float64 { return 100 * (math.Pow(by, v) - 1) }
 		per := "per " + unitOf(symbol(s.X), xl)

@@ -150,12 +150,15 @@ func onScale(st manifest.Study, in Input) Input {
 	return in
 }
 
-// scaledModels drops the side table's log models from a study on a
-// transformed scale: they take logs of the recorded values' logs or
-// roots, and the scale the study chose is its model.
+// scaledModels drops from a study on a transformed scale what reads the
+// recorded values: the side table's log models (they would take logs of
+// the values' logs or roots, and the scale the study chose is its model)
+// and the unit-invariance table (it names the recorded units; the
+// manifest refuses also_in on a scaled axis).
 func scaledModels(s *report.Study) {
-	if s.X.Scale == "" && s.Y.Scale == "" || s.Models == nil {
+	if s.X.Scale == "" && s.Y.Scale == "" || s.Error != nil {
 		return
 	}
 	s.Models = slices.DeleteFunc(s.Models, func(f report.Fit) bool { return strings.HasPrefix(f.Name, "log-") })
+	s.UnitInvariance = []report.UnitRow{}
 }

@@ -207,6 +207,9 @@ func TestEngelScales(t *testing.T) {
 		if f := s.Findings; f == nil || !strings.HasPrefix(f.Headline, c.headline) || !slices.ContainsFunc(f.Statements, func(st string) bool { return strings.Contains(st, c.meaning) }) {
 			t.Errorf("%s: the headline does not open with %q, or no statement says %q:\n%+v", c.id, c.headline, c.meaning, f)
 		}
+		if len(s.UnitInvariance) != 0 {
+			t.Errorf("%s: a unit-invariance table of recorded units on a transformed scale: %+v", c.id, s.UnitInvariance)
+		}
 		for _, f := range s.Models {
 			if strings.HasPrefix(f.Name, "log-") {
 				t.Errorf("%s: side model %q of already transformed values", c.id, f.Name)

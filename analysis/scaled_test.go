@@ -166,6 +166,9 @@ func TestEngelScales(t *testing.T) {
 			fmt.Fprintf(&src, "x_scale = %q\n", c.xs)
 		}
 		fmt.Fprintf(&src, "y_scale = %q\n", c.ys)
+		if c.id == "log-log" {
+			src.WriteString("predict_at = [1000]\n") // in recorded units (BEF)
+		}
 	}
 	m := loadManifest(t, filepath.Join(filepath.Dir(path), "engel.toml"), src.String())
 	r, err := analysis.Run(m, analysis.Options{Version: "test"})
@@ -206,6 +209,19 @@ func TestEngelScales(t *testing.T) {
 		}
 		if f := s.Findings; f == nil || !strings.HasPrefix(f.Headline, c.headline) || !slices.ContainsFunc(f.Statements, func(st string) bool { return strings.Contains(st, c.meaning) }) {
 			t.Errorf("%s: the headline does not open with %q, or no statement says %q:\n%+v", c.id, c.headline, c.meaning, f)
+		}
+		if c.id == "log-log" {
+			// statsmodels 0.13.5, on the log–log fit r above:
+			//   r.get_prediction(np.array([[1.0, np.log(1000.0)]])).summary_frame(alpha=0.05)
+			// predict_at is in recorded units, so x is ln 1000.
+			p := s.Predictions[0]
+			gp := []float64{float64(p.X), float64(p.Fit), float64(p.ConfLow), float64(p.ConfHigh), float64(p.PredLow), float64(p.PredHigh)}
+			wp := []float64{math.Log(1000), 6.457469111577678, 6.439226968358036, 6.475711254797321, 6.187348566106296, 6.7275896570490605}
+			for k, what := range []string{"x", "mean", "mean CI low", "mean CI high", "prediction low", "prediction high"} {
+				if e := rel(gp[k], wp[k]); e > 1e-9 {
+					t.Errorf("log-log: prediction at income 1000: %s = %.17g, want %.17g (statsmodels), relative error %.2g", what, gp[k], wp[k], e)
+				}
+			}
 		}
 		if len(s.UnitInvariance) != 0 {
 			t.Errorf("%s: a unit-invariance table of recorded units on a transformed scale: %+v", c.id, s.UnitInvariance)

@@ -120,3 +120,45 @@ func BenchmarkRead1e6Thousands(b *testing.B) {
 		}
 	}
 }
+
+// FuzzParseThousands: whatever the cell, a number read with a thousands
+// separator is the number read without its separators, and a cell
+// without the separator reads as parseNumber reads it.
+func FuzzParseThousands(f *testing.F) {
+	for _, s := range []string{"1,234.5", "1.234,5", "12 345", "1'000'000", "-1,234e5", "1,23", "0.5", ""} {
+		f.Add(s, byte(0), byte('.'))
+		f.Add(s, byte(1), byte(','))
+	}
+	seps := []rune{',', '.', '\'', ' ', '\u00a0', '\u202f'}
+	f.Fuzz(func(t *testing.T, s string, si, mark byte) {
+		sep := seps[int(si)%len(seps)]
+		if mark != '.' && mark != ',' {
+			mark = 0
+		}
+		v, _, st := parseThousands(s, mark, sep)
+		eff := mark
+		switch {
+		case eff == 0 && sep == ',':
+			eff = '.'
+		case eff == 0 && sep == '.':
+			eff = ','
+		}
+		if sep < 0x80 && byte(sep) == eff {
+			if st == numOK {
+				t.Fatalf("parseThousands(%q, %q, %q) accepted a separator that is the mark", s, mark, sep)
+			}
+			return
+		}
+		plain := strings.ReplaceAll(s, string(sep), "")
+		w, _, wst := parseNumber(plain, eff)
+		if !strings.ContainsRune(s, sep) {
+			if st != wst || st == numOK && v != w && !(v != v && w != w) {
+				t.Fatalf("parseThousands(%q) = %v, %d; parseNumber gives %v, %d", s, v, st, w, wst)
+			}
+			return
+		}
+		if st == numOK && (wst != numOK || v != w) {
+			t.Fatalf("parseThousands(%q, %q, %q) = %v; without the separators %q reads %v (status %d)", s, mark, sep, v, plain, w, wst)
+		}
+	})
+}

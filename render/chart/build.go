@@ -39,11 +39,18 @@ func AxisTitle(v report.Variable) string {
 
 // InUnit is a variable's label followed by "in" and its unit, for
 // sentences and captions: "Surface hardness (Rockwell C) in HRC".
+//
+// A variable on a transformed scale adds it: "Income in BEF, on the
+// natural-log scale".
 func InUnit(v report.Variable) string {
-	if v.Symbol == "" {
-		return varName(v)
+	name := varName(v)
+	if v.Symbol != "" {
+		name += " in " + v.Symbol
 	}
-	return varName(v) + " in " + v.Symbol
+	if sc := scaleNames[v.Scale]; sc != "" {
+		name += ", on the " + sc
+	}
+	return name
 }
 
 // GroupName is the group column as people read it: its label, else the

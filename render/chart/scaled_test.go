@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"bivar/analysis/report"
 )
 
 // TestScaledAxis: an axis over transformed values is labelled at round
@@ -75,5 +77,21 @@ func TestScaledFigure(t *testing.T) {
 	}
 	if strings.Contains(svg, ">6.5</text>") || strings.Contains(svg, ">7.0</text>") {
 		t.Error("scaled scatter labels a tick with a logarithm")
+	}
+}
+
+// TestScaledTitles: titles and phrases name the scale of a transformed
+// variable, after its recorded unit.
+func TestScaledTitles(t *testing.T) {
+	v := report.Variable{Column: "income", Label: "Income", Unit: "{BEF}", Symbol: "BEF", Scale: "log"}
+	if got, want := AxisTitle(v), "Income (BEF), natural-log scale"; got != want {
+		t.Errorf("AxisTitle = %q, want %q", got, want)
+	}
+	if got, want := InUnit(v), "Income in BEF, on the natural-log scale"; got != want {
+		t.Errorf("InUnit = %q, want %q", got, want)
+	}
+	v.Scale, v.Symbol, v.Label = "sqrt", "", "Yield (%)"
+	if got, want := AxisTitle(v), "Yield (%), square-root scale"; got != want {
+		t.Errorf("AxisTitle = %q, want %q", got, want)
 	}
 }

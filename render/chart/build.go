@@ -377,6 +377,9 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 		Levels: p.Levels,
 		XScale: s.Y.Scale, // the fitted values are on y's scale
 	}
+	if s.Y.Scale != "" { // shorter: the figure is narrow, and the title names the scale
+		f.XLabel = "Fitted value: " + AxisTitle(report.Variable{Label: "y", Symbol: s.Y.Symbol, Scale: s.Y.Scale})
+	}
 	f.Dense, f.Density = dense(p, p.ResidFitted)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows against the fitted values, with a dashed line at zero. %s", p.N, markNames(f.Marked))
 	f.Caption = "Residuals against fitted values; dashed: zero. A curve or a funnel here means the straight line or its constant spread does not describe the data."

@@ -88,8 +88,12 @@ func checkScales(m *manifest.Manifest, st manifest.Study, ls *loadedSet, keep []
 		if from == "" {
 			from = "its query"
 		}
-		return fmt.Errorf("%sstudy %q: %s_scale = %q, but %s, and column %q of dataset %q (%s) is %s in %s the study uses: %s. Correct the values, leave the rows out with exclude (each with its reason), or choose another scale",
-			where, st.ID, a.axis, a.scale, manifest.ScaleDomain(a.scale), a.column, ls.decl.ID, from, what, count(len(bad), "row"), list)
+		entry := fmt.Sprintf("{data_row = %d, reason = \"…\"}", bad[0]+1)
+		if in.Rows != nil && in.Rows[bad[0]] != "" {
+			entry = fmt.Sprintf("{row = %q, reason = \"…\"}", strings.TrimSpace(in.Rows[bad[0]]))
+		}
+		return fmt.Errorf("%sstudy %q: %s_scale = %q, but %s, and column %q of dataset %q (%s) is %s in %s the study uses: %s. Correct the values, leave the rows out with exclude, each with its reason (exclude = [%s, …]), or choose another scale",
+			where, st.ID, a.axis, a.scale, manifest.ScaleDomain(a.scale), a.column, ls.decl.ID, from, what, count(len(bad), "row"), list, entry)
 	}
 	return nil
 }
@@ -116,7 +120,7 @@ func usedRows(in Input) func(i int) bool {
 // 14)` with an id_column, else "data row 14".
 func rowName(ids []string, i int) string {
 	if ids != nil && ids[i] != "" {
-		return fmt.Sprintf("row %q (data row %d)", ids[i], i+1)
+		return fmt.Sprintf("row %q (data row %d)", strings.TrimSpace(ids[i]), i+1)
 	}
 	return "data row " + strconv.Itoa(i+1)
 }

@@ -250,7 +250,7 @@ func TestScaleRefusesRows(t *testing.T) {
 	mpath := filepath.Join(dir, "bivar.toml")
 	m := loadManifest(t, mpath, base)
 	_, err := analysis.Run(m, analysis.Options{})
-	want := mpath + `:10:1: study "s": y_scale = "log", but the natural logarithm is defined only above 0, and column "y" of dataset "d" (d.csv) is 0 or below in 2 rows the study uses: row "A2" (data row 2) = 0, row "A4" (data row 4) = -1. Correct the values, leave the rows out with exclude (each with its reason), or choose another scale`
+	want := mpath + `:10:1: study "s": y_scale = "log", but the natural logarithm is defined only above 0, and column "y" of dataset "d" (d.csv) is 0 or below in 2 rows the study uses: row "A2" (data row 2) = 0, row "A4" (data row 4) = -1. Correct the values, leave the rows out with exclude, each with its reason (exclude = [{row = "A2", reason = "…"}, …]), or choose another scale`
 	if err == nil || err.Error() != want {
 		t.Fatalf("Run error:\ngot  %v\nwant %s", err, want)
 	}

@@ -1,6 +1,7 @@
 package analysis_test
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"math"
@@ -13,6 +14,7 @@ import (
 
 	"bivar/analysis"
 	"bivar/analysis/manifest"
+	"bivar/analysis/report"
 )
 
 // engelCall prints Engel's food expenditure data (Koenker and Bassett
@@ -174,6 +176,23 @@ func TestEngelScales(t *testing.T) {
 	r, err := analysis.Run(m, analysis.Options{Version: "test"})
 	if err != nil {
 		t.Fatal(err)
+	}
+	// The scales travel in results.json (x.scale, y.scale) and read back.
+	var buf bytes.Buffer
+	if err := report.Write(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(buf.String(), `"scale": "log10"`) {
+		t.Error(`results.json lacks "scale": "log10"`)
+	}
+	back, err := report.Read(&buf)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range r.Studies {
+		if a, b := back.Studies[i], r.Studies[i]; a.X.Scale != b.X.Scale || a.Y.Scale != b.Y.Scale {
+			t.Errorf("%s: scales read back as %q, %q; written %q, %q", b.ID, a.X.Scale, a.Y.Scale, b.X.Scale, b.Y.Scale)
+		}
 	}
 	for i, c := range cases {
 		s := r.Studies[i]

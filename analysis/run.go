@@ -92,6 +92,9 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			if err != nil {
 				return nil, err
 			}
+			if err := checkScales(m, st, ls, sel.keep); err != nil {
+				return nil, err
+			}
 			selected[i] = sel
 		}
 	}
@@ -124,7 +127,8 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		go func() {
 			defer func() { <-slots; wg.Done() }()
 			in.Keep = selected[i].keep
-			s := analyze(in, cfg)
+			s := analyze(onScale(st, in), cfg)
+			scaledModels(&s)
 			if in.Keep == nil {
 				s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)
 			} else {
@@ -235,6 +239,11 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	}
 	opts.DecimalComma = ds.Decimal == ","
 	opts.DecimalPoint = ds.Decimal == "."
+	if ds.Thousands != "" { // "," implies a decimal point, "." a decimal comma
+		opts.Thousands = []rune(ds.Thousands)[0]
+		opts.DecimalComma = opts.DecimalComma || opts.Thousands == '.'
+		opts.DecimalPoint = opts.DecimalPoint || opts.Thousands == ','
+	}
 	for _, st := range m.Studies {
 		if st.Dataset == ds.ID && st.Group != "" && !slices.Contains(opts.Groups, st.Group) {
 			opts.Groups = append(opts.Groups, st.Group)

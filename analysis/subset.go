@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 
+	"bivar/analysis/dataset"
 	"bivar/analysis/internal/suggest"
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
@@ -195,10 +196,19 @@ func rowFilter(m *manifest.Manifest, st manifest.Study, ls *loadedSet) (rowSelec
 			return manifest.Cell{Missing: true}
 		}
 		s := strings.TrimSpace(v)
-		if t.DecimalComma {
-			s = strings.Replace(s, ",", ".", 1)
+		var f float64
+		var err error
+		if sep := decl.Thousands; sep != "" {
+			var ok bool
+			if f, ok = dataset.ParseGrouped(s, t.DecimalComma, []rune(sep)[0]); !ok {
+				err = strconv.ErrSyntax
+			}
+		} else {
+			if t.DecimalComma {
+				s = strings.Replace(s, ",", ".", 1)
+			}
+			f, err = strconv.ParseFloat(s, 64)
 		}
-		f, err := strconv.ParseFloat(s, 64)
 		if err != nil {
 			if cellErr == nil {
 				line, col := cur.Pos(ref.Offset)

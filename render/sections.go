@@ -204,14 +204,17 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 
 func unitPer(s *report.Study) string {
 	y, x := s.Y.Symbol, s.X.Symbol
-	if y == "" {
-		y = "y"
+	if y == "" || s.Y.Scale != "" {
+		y = scaledPrefix[s.Y.Scale] + "y" // a log or root has no unit: "ln y per ln x"
 	}
-	if x == "" {
-		x = "x"
+	if x == "" || s.X.Scale != "" {
+		x = scaledPrefix[s.X.Scale] + "x"
 	}
 	return y + " per " + x
 }
+
+// scaledPrefix names a variable on its scale (report.Variable.Scale).
+var scaledPrefix = map[string]string{"log": "ln ", "log10": "log₁₀ ", "sqrt": "√"}
 
 func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
 	in := s.Influence

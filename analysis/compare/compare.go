@@ -160,8 +160,8 @@ type StudyChange struct {
 	NewSHA256   string `json:"new_sha256"`
 	DataChanged bool   `json:"data_changed"`
 
-	R     *RChange     `json:"r"`     // nil when either run has no moments
-	Slope *SlopeChange `json:"slope"` // nil when either run has no moments or the units differ
+	R     *RChange     `json:"r"`     // nil when either run has no moments or the scales differ
+	Slope *SlopeChange `json:"slope"` // nil when either run has no moments, the scales differ or the units differ
 
 	Verdicts       []VerdictChange `json:"verdicts"` // changed verdicts only
 	VerdictChanged bool            `json:"verdict_changed"`
@@ -439,7 +439,10 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange 
 		sc.Notes = append(sc.Notes, fmt.Sprintf("units changed (x %s → %s, y %s → %s): the slopes are in different units and are not compared",
 			orDash(prev.X.Unit), orDash(cur.X.Unit), orDash(prev.Y.Unit), orDash(cur.Y.Unit)))
 	}
+	scaleChange := scaleNote(prev, cur)
 	switch {
+	case scaleChange != "":
+		sc.Notes = append(sc.Notes, scaleChange)
 	case prev.Error != nil || cur.Error != nil:
 		sc.Notes = append(sc.Notes, "the study did not run in both runs; no change test")
 	case prev.Moments == nil || cur.Moments == nil:

@@ -48,10 +48,15 @@ type Options struct {
 	// unless the delimiter is ';' or tab and the first number that shows a
 	// mark shows a comma. A file that then mixes the two marks in numbers is
 	// an error (1.234 might be a thousands separator), so declare the mark.
-	// Detection reads 1,234 in a semicolon file as 1.234: thousands
-	// separators are never accepted.
+	// Detection reads 1,234 in a semicolon file as 1.234: a thousands
+	// separator is accepted only when declared (Thousands).
 	DecimalComma bool
 	DecimalPoint bool
+	// Thousands is the separator written between groups of three digits
+	// ("1,234.5"), 0 for none: see parseThousands. ',' needs a decimal
+	// point and '.' a decimal comma (declare it, or leave the mark to be
+	// taken from the separator); the separator may not be the mark.
+	Thousands rune
 	// Missing are the cell texts read as missing, compared after trimming
 	// spaces. nil means DefaultMissing; an empty non-nil list means none.
 	Missing []string
@@ -276,18 +281,20 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 	msg := quoteCell(cell) + " is not a number"
 	hasComma, hasPoint := strings.Contains(cell, ","), strings.Contains(cell, ".")
 	switch {
+	case opts.Thousands != 0 && strings.ContainsRune(cell, opts.Thousands):
+		msg += fmt.Sprintf(": the dataset declares thousands = %q, and a number written with it has one to three digits before the first separator, exactly three after each, and none after the decimal mark; correct the cell, or check thousands and decimal", string(opts.Thousands))
 	case mark == '.' && hasComma && !hasPoint && opts.DecimalPoint:
 		msg += `: it has a decimal comma, but the dataset declares decimal = "."`
 	case mark == '.' && hasComma && !hasPoint && markLine > 0:
 		msg += fmt.Sprintf(": it has a decimal comma, but numbers from line %d on use a decimal point; declare decimal = \".\" or \",\" for the dataset and make the file agree", markLine)
 	case mark == '.' && hasComma && !hasPoint:
-		msg += `: it has a comma; if the file uses decimal commas, declare decimal = "," (and quote such cells, since the delimiter is also a comma)`
+		msg += `: it has a comma; if the file uses decimal commas, declare decimal = "," (and quote such cells, since the delimiter is also a comma), and if it separates thousands, declare thousands = ","`
 	case mark == ',' && hasPoint && !hasComma && markLine > 0:
 		msg += fmt.Sprintf(": it has a decimal point, but numbers from line %d on use a decimal comma; declare decimal = \".\" or \",\" for the dataset and make the file agree", markLine)
 	case mark == ',' && hasPoint && !hasComma && opts.DecimalComma:
 		msg += `: it has a decimal point, but the dataset declares decimal = ","`
 	case hasPoint && hasComma:
-		msg += `: it shows both a point and a comma; thousands separators are not accepted, write the number without them`
+		msg += `: it shows both a point and a comma; if one of them separates thousands, declare it for the dataset (thousands = "," or "."), or write the number without it`
 	case !utf8.ValidString(cell):
 		msg += `: it is not valid UTF-8 text; save the file as UTF-8 (an export in another encoding, such as Windows-1252, shows this)`
 	default:

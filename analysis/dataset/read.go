@@ -631,7 +631,14 @@ func (p *part) cell(cfg *config, ci int, raw string, ln int) (stop bool) {
 		p.nums[ci] = append(p.nums[ci], math.NaN())
 		return false
 	}
-	v, seen, st := parseNumber(s, p.mark)
+	var v float64
+	var seen byte
+	var st numStatus
+	if cfg.opts.Thousands == 0 {
+		v, seen, st = parseNumber(s, p.mark)
+	} else {
+		v, seen, st = parseThousands(s, p.mark, cfg.opts.Thousands)
+	}
 	if st == numOK {
 		if p.mark == 0 && seen != 0 {
 			p.mark, p.markLine = seen, ln

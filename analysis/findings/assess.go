@@ -189,6 +189,7 @@ func Assess(s *report.Study, ctx Context) *report.Findings {
 	f.conf = num(100*(1-f.alpha)) + "%"
 	f.xLabel, f.yLabel = label(s.X), label(s.Y)
 	f.xSym, f.ySym = symbol(s.X), symbol(s.Y)
+	f.onScales()
 
 	out := &report.Findings{TurnX: report.NaN(), Statements: []string{}, Limits: []string{}, ExplainedBy: []string{}}
 	f.decide(out)
@@ -838,6 +839,9 @@ func (f *facts) write(out *report.Findings) {
 	if out.Drift {
 		h += " The residuals drift in run order."
 	}
+	if sc := scaleSentence(s); sc != "" {
+		h = sc + " " + h
+	}
 	out.Headline = h
 
 	st := &out.Statements
@@ -864,6 +868,9 @@ func (f *facts) write(out *report.Findings) {
 		}
 		add("The least-squares line: %s changes by %s %s (%s%s); %s.",
 			y, num(float64(l.Slope.Estimate)), perUnit(f.ySym, f.xSym, x), ci, avg, icpt)
+	}
+	if m := f.slopeMeaning(); m != "" {
+		add("%s", m)
 	}
 	if s.Spearman != nil && s.Kendall != nil {
 		add("Rank correlations, which use only the order of the values: Spearman ρ = %s (%s), Kendall τ-b = %s (%s).",

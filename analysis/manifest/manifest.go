@@ -62,11 +62,16 @@ type Thresholds struct {
 
 // Dataset declares one CSV file.
 type Dataset struct {
-	ID        string   `toml:"id"`
-	File      string   `toml:"file"`
-	Delimiter string   `toml:"delimiter"` // "," ";" "\t" or "" to detect
-	Decimal   string   `toml:"decimal"`   // "." or ","; "" means "." (or "," when the delimiter is ";" and cells show it)
-	Missing   []string `toml:"missing"`   // cells read as missing
+	ID        string `toml:"id"`
+	File      string `toml:"file"`
+	Delimiter string `toml:"delimiter"` // "," ";" "\t" or "" to detect
+	Decimal   string `toml:"decimal"`   // "." or ","; "" means "." (or "," when the delimiter is ";" and cells show it)
+	// Thousands is the separator between groups of three digits that the
+	// file's numbers are written with ("1,234.5"), one of Thousands(); ""
+	// means none is accepted. "," implies a decimal point and "." a decimal
+	// comma; it may not equal decimal.
+	Thousands string   `toml:"thousands"`
+	Missing   []string `toml:"missing"` // cells read as missing
 	// NonNumeric says what a non-numeric cell in a numeric column is:
 	// "error" (default) or "missing".
 	NonNumeric string            `toml:"non_numeric"`
@@ -174,8 +179,20 @@ type Study struct {
 	Where     string      `toml:"where"`
 	WhereExpr *Expr       `toml:"-"`
 
+	// XScale and YScale put x and y on a transformed scale before the
+	// study runs (one of Scales(); "" or "linear": as recorded): every
+	// figure of the study is then of the transformed values. XScaleAt and
+	// YScaleAt are where the keys are written, for messages about the data.
+	XScale   string `toml:"x_scale"`
+	YScale   string `toml:"y_scale"`
+	XScaleAt Pos    `toml:"-"`
+	YScaleAt Pos    `toml:"-"`
+
 	Line int `toml:"-"` // line of the [[study]] header, for messages
 }
+
+// Pos is a place in the manifest: 1-based line and column, 0 when unknown.
+type Pos struct{ Line, Col int }
 
 // AlsoIn lists other units to express x and y in, for the unit-invariance
 // table. Each may be one unit code or a list.
@@ -269,6 +286,15 @@ func Decimals() []string { return []string{".", ","} }
 
 // Delimiters are the values of dataset.delimiter ("" or left out: detect).
 func Delimiters() []string { return []string{",", ";", "\t"} }
+
+// Scales are the values of study.x_scale and study.y_scale: as recorded,
+// the natural logarithm, the base-10 logarithm, the square root.
+func Scales() []string { return []string{"linear", "log", "log10", "sqrt"} }
+
+// ThousandsSeparators are the values of dataset.thousands: comma, point,
+// apostrophe, space, no-break space (U+00A0) and narrow no-break space
+// (U+202F), the separators spreadsheets and plant systems write.
+func ThousandsSeparators() []string { return []string{",", ".", "'", " ", "\u00a0", "\u202f"} }
 
 // Directions are the values of expect.direction.
 func Directions() []string { return []string{"positive", "negative", "none"} }

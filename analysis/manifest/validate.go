@@ -297,6 +297,7 @@ func (p *parser) validate(m *Manifest) {
 		if s.Design != "" {
 			p.oneOf(owner, "study.design", s.Design, Designs())
 		}
+		p.scales(owner, name, s)
 		p.exclusions(owner, "study.exclude", "study "+strconv.Quote(name), s.Exclude, s.Line)
 		if s.Where != "" {
 			s.WhereExpr = p.expr(owner, "study.where", "study "+strconv.Quote(name), s.Where)
@@ -495,6 +496,7 @@ func (p *parser) source(owner, name string, d *Dataset, dir string) {
 	if d.Decimal != "" {
 		p.oneOf(owner, "dataset.decimal", d.Decimal, Decimals())
 	}
+	p.thousands(owner, name, d)
 	if d.Delimiter == "," && d.Decimal == "," {
 		p.add(owner, "dataset.decimal", "dataset %q: decimal = \",\" with delimiter = \",\" works only when every number is quoted; check the file, or use delimiter = \";\"", name)
 	}
@@ -503,7 +505,7 @@ func (p *parser) source(owner, name string, d *Dataset, dir string) {
 		if db {
 			what = "a database"
 		}
-		for _, k := range []struct{ key, v string }{{"delimiter", d.Delimiter}, {"decimal", d.Decimal}} {
+		for _, k := range []struct{ key, v string }{{"delimiter", d.Delimiter}, {"decimal", d.Decimal}, {"thousands", d.Thousands}} {
 			if k.v != "" {
 				p.add(owner, "dataset."+k.key, "dataset %q: %s applies to CSV files only, and this dataset reads %s (cells hold numbers, not text); remove it", name, k.key, what)
 			}

@@ -157,6 +157,12 @@ type Variable struct {
 	// "um" → "µm", "1" → ""), by units.Symbol; renderers and sentences
 	// show this, never the code.
 	Symbol string `json:"symbol"`
+
+	// Scale is the scale the study puts the variable on before every
+	// figure is computed: "log" (natural logarithm), "log10" or "sqrt";
+	// "" (left out of results.json) for the values as recorded. Label,
+	// Unit and Symbol stay those of the recorded values.
+	Scale string `json:"scale,omitempty"`
 }
 
 // Study is one variable pair and everything computed for it. Sections are

@@ -119,8 +119,13 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar init: next: choose your studies in %s, then bivar run %s\n", dest, dest)
 		return exitOK
 	}
+	sep, oneSep := prof.oneSeparator()
 	for _, c := range prof.grouped() {
-		fmt.Fprintf(stderr, "bivar init: %s: column %q: %s; init read them as numbers, but 'bivar run' reads numbers without separators only: save the file without them\n", csvPath, c.name, groupedText(c))
+		if oneSep {
+			fmt.Fprintf(stderr, "bivar init: %s: column %q: %s; the manifest declares thousands = %s for the dataset, so 'bivar run' reads them as numbers\n", csvPath, c.name, groupedText(c), tomlString(string(sep)))
+		} else {
+			fmt.Fprintf(stderr, "bivar init: %s: column %q: %s; init read them as numbers, but the columns use more than one separator and a dataset declares one: save the file with one separator, or none\n", csvPath, c.name, groupedText(c))
+		}
 	}
 	pairs := prof.pairs()
 	state := "none active: remove the '#' of the lines you want under \"study = [\""
@@ -132,8 +137,8 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 	}
 	fmt.Fprintf(stderr, "bivar init: wrote %s: %s, %s (%s)\n", dest, plural(len(prof.numeric()), "numeric column", "numeric columns"), plural(len(pairs), "candidate study", "candidate studies"), state)
 	switch {
-	case len(prof.grouped()) > 0:
-		fmt.Fprintf(stderr, "bivar init: next: save %s without thousands separators, choose your studies in %s, then bivar run %s\n", csvPath, dest, dest)
+	case len(prof.grouped()) > 0 && !oneSep:
+		fmt.Fprintf(stderr, "bivar init: next: save %s with one thousands separator or none, choose your studies in %s, then bivar run %s\n", csvPath, dest, dest)
 	case active(pairs) >= 0:
 		fmt.Fprintf(stderr, "bivar init: next: bivar run %s  (then choose your studies in it)\n", dest)
 	default:
@@ -993,12 +998,24 @@ func initManifestAll(profs []*csvProfile, rel string) string {
 			kv(`# decimal = "."`, `"." or ","; left out: detected`)
 		}
 		if g := prof.grouped(); len(g) > 0 {
-			w("# Numbers with a separator between thousands, read as numbers by init:\n")
-			for _, c := range g {
-				w("#   %s: %s\n", display(c.name), groupedText(c))
+			if sep, ok := prof.oneSeparator(); ok && prof.sheet == "" {
+				kv("thousands = "+tomlString(string(sep)), "detected: "+sepName(sep)+" between thousands, in:")
+				for _, c := range g {
+					w("%-40s #   %s: %s\n", "", display(c.name), groupedText(c))
+				}
+			} else {
+				w("# Numbers with a separator between thousands, read as numbers by init:\n")
+				for _, c := range g {
+					w("#   %s: %s\n", display(c.name), groupedText(c))
+				}
+				if prof.sheet != "" {
+					w("# 'bivar run' reads a workbook's numbers as numbers, not text: format these\n")
+					w("# cells as numbers in the spreadsheet.\n")
+				} else {
+					w("# A dataset declares one separator (thousands = \",\"), and these columns use\n")
+					w("# more than one: save the file with one separator, or none, and declare it.\n")
+				}
 			}
-			w("# 'bivar run' reads numbers without separators only: save the file without\n")
-			w("# them (in a spreadsheet: number format without the thousands separator).\n")
 		}
 		kv("missing = ["+quoteJoin(manifest.DefaultMissing())+"]", "cells read as missing")
 		if bad := prof.badCells(); len(bad) > 0 {
@@ -1114,6 +1131,19 @@ func (p *csvProfile) grouped() []colProfile {
 		}
 	}
 	return out
+}
+
+// oneSeparator is the thousands separator of the grouped columns when
+// they all use the same one (a dataset declares one: dataset.thousands).
+func (p *csvProfile) oneSeparator() (rune, bool) {
+	var sep rune
+	for _, c := range p.grouped() {
+		if sep != 0 && c.thousands != sep {
+			return 0, false
+		}
+		sep = c.thousands
+	}
+	return sep, sep != 0
 }
 
 // groupedText names a column's thousands separator and its first use.

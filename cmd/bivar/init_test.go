@@ -631,11 +631,11 @@ func TestParseGrouped(t *testing.T) {
 // them).
 func TestInitThousands(t *testing.T) {
 	cases := []struct {
-		name, csv, col, sep string
+		name, csv, col, sep, key string
 	}{
-		{"comma", "year,volume\n1871,\"1,120\"\n1872,\"1,160\"\n1873,963\n1874,\"1,210\"\n", "volume", `a comma ","`},
-		{"point, decimal comma", "lot;mass;temp\na;1.234,5;20,5\nb;1.302,0;21,0\nc;998,5;21,5\nd;1.100,25;22,0\n", "mass", `a point "."`},
-		{"space", "x;y\n1,5;12 500\n2,5;13 250\n3,0;12 980\n4,5;14 010\n", "y", "a space"},
+		{"comma", "year,volume\n1871,\"1,120\"\n1872,\"1,160\"\n1873,963\n1874,\"1,210\"\n", "volume", `a comma ","`, `","`},
+		{"point, decimal comma", "lot;mass;temp\na;1.234,5;20,5\nb;1.302,0;21,0\nc;998,5;21,5\nd;1.100,25;22,0\n", "mass", `a point "."`, `"."`},
+		{"space", "x;y\n1,5;12 500\n2,5;13 250\n3,0;12 980\n4,5;14 010\n", "y", "a space", `" "`},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -648,13 +648,19 @@ func TestInitThousands(t *testing.T) {
 				t.Fatalf("exit %d: %s", code, stderr)
 			}
 			want := "column \"" + tc.col + "\": thousands separated by " + tc.sep
-			if !strings.Contains(stderr, want) || !strings.Contains(stderr, "save the file without them") || !strings.Contains(stderr, "next: save "+p+" without thousands separators") {
-				t.Errorf("stderr lacks %q and what to do:\n%s", want, stderr)
+			if !strings.Contains(stderr, want) || !strings.Contains(stderr, "the manifest declares thousands = "+tc.key+" for the dataset, so 'bivar run' reads them as numbers") {
+				t.Errorf("stderr lacks %q and the key it declares:\n%s", want, stderr)
 			}
 			b, _ := os.ReadFile(dest)
 			text := string(b)
-			if !strings.Contains(text, "#   "+tc.col+": thousands separated by "+tc.sep) || strings.Contains(text, "non_numeric = \"missing\"") {
-				t.Errorf("manifest does not name the separator, or counts the numbers as bad cells:\n%s", text)
+			if !strings.Contains(text, "thousands = "+tc.key+" ") || !strings.Contains(text, "#   "+tc.col+": thousands separated by "+tc.sep) || strings.Contains(text, "non_numeric = \"missing\"") {
+				t.Errorf("manifest does not declare and name the separator, or counts the numbers as bad cells:\n%s", text)
+			}
+			// The manifest as written, with its first candidate study
+			// chosen, runs, reading the numbers (#11).
+			writeFile(t, dest, strings.Replace(text, "\n# { id", "\n{ id", 1))
+			if code, _, stderr := call(t, "check", dest); code != exitOK {
+				t.Errorf("bivar check of the manifest init wrote: exit %d: %s", code, stderr)
 			}
 			if !strings.Contains(text, `y = "`+tc.col+`"`) && !strings.Contains(text, `x = "`+tc.col+`"`) {
 				t.Errorf("column %q not paired:\n%s", tc.col, text)

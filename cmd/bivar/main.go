@@ -105,8 +105,8 @@ for you to choose, unless exactly one pair is a setting (few evenly spaced
 values) with a measurement: that one is active, so "bivar run" gives a
 first report at once. Time columns (year, quarter, date, ...) go on x only
 and are offered as order; the manifest says how each choice was made.
-Numbers with thousands separators are read as numbers, and the separator
-is named; a spreadsheet or other binary file is named, with what to do.
+Numbers with thousands separators are read as numbers, and the dataset
+declares the separator (thousands = ","); a spreadsheet or other binary file is named, with what to do.
 An existing manifest is never overwritten without --force. A file without
 at least two numeric columns that vary is refused: there is nothing to pair.`,
 			Run: runInit,

@@ -19,24 +19,38 @@ const (
 // (report.Variable.Symbol, filled by the analysis), in parentheses; a label
 // that already ends in a parenthesis takes the unit after a comma, so
 // "Surface hardness (Rockwell C), HRC" does not stack two parentheses.
+//
+// A variable on a transformed scale adds it: "Income (BEF), natural-log
+// scale".
 func AxisTitle(v report.Variable) string {
 	name := varName(v)
 	switch {
 	case v.Symbol == "":
-		return name
 	case strings.HasSuffix(name, ")"):
-		return name + ", " + v.Symbol
+		name += ", " + v.Symbol
+	default:
+		name += " (" + v.Symbol + ")"
 	}
-	return name + " (" + v.Symbol + ")"
+	if sc := scaleNames[v.Scale]; sc != "" {
+		name += ", " + sc
+	}
+	return name
 }
 
 // InUnit is a variable's label followed by "in" and its unit, for
 // sentences and captions: "Surface hardness (Rockwell C) in HRC".
+//
+// A variable on a transformed scale adds it: "Income in BEF, on the
+// natural-log scale".
 func InUnit(v report.Variable) string {
-	if v.Symbol == "" {
-		return varName(v)
+	name := varName(v)
+	if v.Symbol != "" {
+		name += " in " + v.Symbol
 	}
-	return varName(v) + " in " + v.Symbol
+	if sc := scaleNames[v.Scale]; sc != "" {
+		name += ", on the " + sc
+	}
+	return name
 }
 
 // GroupName is the group column as people read it: its label, else the
@@ -207,6 +221,7 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		Points: series(p, pickXY),
 		Marked: marks(p, markXY),
 		Levels: p.Levels,
+		XScale: s.X.Scale, YScale: s.Y.Scale,
 	}
 	f.Dense, f.Density = dense(p, p.Scatter)
 	if len(p.Band) > 0 {
@@ -311,6 +326,9 @@ func xyLine(name string, pts []report.XY, r Role) Line {
 
 // residualTitle is the residual axis's title, in the unit of y.
 func residualTitle(s *report.Study) string {
+	if sc := scaleNames[s.Y.Scale]; sc != "" {
+		return "Residual (on the " + sc + ")" // a difference of logarithms or roots has no unit
+	}
 	if s.Y.Symbol != "" {
 		return "Residual (" + s.Y.Symbol + ")"
 	}
@@ -357,6 +375,10 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 		Marked: marks(p, markFitted),
 		Lines:  []Line{zeroLine(spanOf(p, p.ResidFitted, pickFitted))},
 		Levels: p.Levels,
+		XScale: s.Y.Scale, // the fitted values are on y's scale
+	}
+	if s.Y.Scale != "" { // shorter: the figure is narrow, and the title names the scale
+		f.XLabel = "Fitted value: " + AxisTitle(report.Variable{Label: "y", Symbol: s.Y.Symbol, Scale: s.Y.Scale})
 	}
 	f.Dense, f.Density = dense(p, p.ResidFitted)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows against the fitted values, with a dashed line at zero. %s", p.N, markNames(f.Marked))

@@ -47,6 +47,10 @@ type Figure struct {
 	// the group lines their colours.
 	Levels []string
 	Join   bool // join each series' points in the order given (run order)
+	// XScale and YScale say the axis's values are on a transformed scale
+	// ("log", "log10", "sqrt", as report.Variable.Scale): the points are
+	// placed by those values and the ticks labelled in recorded units.
+	XScale, YScale string
 }
 
 // Band is a filled area between Low and High over X (X ascending).

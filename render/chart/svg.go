@@ -201,8 +201,8 @@ func (d *svgDrawer) plan(f *Figure) *layout {
 		}
 	}
 	L := &layout{width: float64(f.Width), height: float64(f.Height)}
-	L.x = newAxis(ex, 7)
-	L.y = newAxis(ey, 6)
+	L.x = scaledAxis(newAxis(ex, 7), f.XScale, 7)
+	L.y = scaledAxis(newAxis(ey, 6), f.YScale, 6)
 	wide := 0.0
 	for _, s := range L.y.Labels {
 		wide = math.Max(wide, textWidth(s, tickFont))

@@ -131,6 +131,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 				s.Excluded = unsplitReasons(s.Excluded, loaded[st.Dataset].table)
 			}
 			s.LeftOut, s.LeftOutMore, s.Subset = selected[i].leftOut, selected[i].more, selected[i].subset
+			measure(&s, st, in, loaded[st.Dataset].table.Numeric, cfg)
 			listsAlways(&s)
 			r.Studies[i] = s
 		}()
@@ -152,6 +153,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			r.Studies[i].Design = sc.Design
 			assess(&r.Studies[i], sc)
 			r.Studies[i].Expectations = Expectations(&r.Studies[i], m.Studies[i].Expect, cfg.Alpha, adjust)
+			r.Studies[i].Expectations = append(r.Studies[i].Expectations, measureFindings(&r.Studies[i], m.Studies[i].Expect, cfg.Alpha)...)
 		}()
 	}
 	wg.Wait()
@@ -213,6 +215,9 @@ func wanted(m *manifest.Manifest, ds manifest.Dataset) (numeric, text []string) 
 			addTo(&numeric, c)
 		}
 		addTo(&text, st.Group)
+		for _, c := range append(slices.Clone(st.XReplicates), st.YReplicates...) {
+			addTo(&numeric, c)
+		}
 	}
 	if ds.IDColumn != "" {
 		addTo(&text, ds.IDColumn)
@@ -449,6 +454,9 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 	check("order column", st.Order)
 	for _, c := range st.Covariates {
 		check("covariate column", c)
+	}
+	for _, c := range append(slices.Clone(st.XReplicates), st.YReplicates...) {
+		check("replicate column", c)
 	}
 	check("the dataset's id_column", ls.decl.IDColumn)
 	if len(absent) > 0 {

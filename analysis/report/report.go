@@ -219,10 +219,18 @@ type Study struct {
 	// or by an approximate method (at large n), each with its error;
 	// empty when every figure is exact.
 	Approximations []Approximation `json:"approximations"`
-	Expectations   []Expectation   `json:"expectations"`
-	Notes          string          `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
-	Error          *string         `json:"error"`
-	Plot           *Plot           `json:"-"` // what the charts draw (bounded); not in results.json
+	// Kind is the manifest's study.kind ("relationship" or "agreement");
+	// Agreement (agreement studies), ErrorCorrection (relationship studies
+	// with gauge_sd or replicates) and Plan (every study that ran) are in
+	// measure.go.
+	Kind            string           `json:"kind,omitempty"`
+	Agreement       *Agreement       `json:"agreement,omitempty"`
+	ErrorCorrection *ErrorCorrection `json:"error_correction,omitempty"`
+	Plan            *Plan            `json:"plan,omitempty"`
+	Expectations    []Expectation    `json:"expectations"`
+	Notes           string           `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
+	Error           *string          `json:"error"`
+	Plot            *Plot            `json:"-"` // what the charts draw (bounded); not in results.json
 
 	// FlaggedCSV is the content of the CSV file named by Influence.File:
 	// every flagged row with all its measures. It is not in results.json

@@ -1,0 +1,122 @@
+package analysis
+
+import (
+	"encoding/json"
+	"math"
+	"math/rand/v2"
+	"reflect"
+	"testing"
+
+	"bivar/analysis/findings"
+	"bivar/analysis/manifest"
+	"bivar/analysis/report"
+)
+
+// gaugePair is invented data: two gauges reading n items, with replicates.
+func gaugePair(n int, seed uint64) (xcols, ycols [][]float64) {
+	rng := rand.New(rand.NewPCG(seed, 1))
+	xcols, ycols = make([][]float64, 2), make([][]float64, 2)
+	for range n {
+		v := 50 + 5*rng.NormFloat64()
+		for j := range 2 {
+			xcols[j] = append(xcols[j], v+0.3*rng.NormFloat64())
+			ycols[j] = append(ycols[j], 0.4+v+0.4*rng.NormFloat64())
+		}
+	}
+	return xcols, ycols
+}
+
+// TestAgreementOrderFree: the figures and the plot data depend on the set
+// of items, not on their order in the file.
+func TestAgreementOrderFree(t *testing.T) {
+	t.Parallel()
+	xcols, ycols := gaugePair(300, 3)
+	st := manifest.Study{X: "a1", Y: "b1", XReplicates: []string{"a2"}, YReplicates: []string{"b2"}}
+	a := agreement(xcols, ycols, 300, st, "", 0.95)
+	perm := rand.New(rand.NewPCG(9, 9)).Perm(300)
+	shuffle := func(cols [][]float64) [][]float64 {
+		out := make([][]float64, len(cols))
+		for j, c := range cols {
+			for _, i := range perm {
+				out[j] = append(out[j], c[i])
+			}
+		}
+		return out
+	}
+	b := agreement(shuffle(xcols), shuffle(ycols), 300, st, "", 0.95)
+	// Sums in another order differ in the last bits; every figure must
+	// agree to 1e-12 relative, and every verdict and the plot exactly.
+	Measurement := func(a *report.Agreement) { findingsMeasurement(a) }
+	Measurement(a)
+	Measurement(b)
+	var ma, mb any
+	ja, _ := json.Marshal(a)
+	jb, _ := json.Marshal(b)
+	_ = json.Unmarshal(ja, &ma)
+	_ = json.Unmarshal(jb, &mb)
+	if !closeJSON(ma, mb) || !reflect.DeepEqual(a.Plot.Pairs, b.Plot.Pairs) || len(a.Plot.Points) != len(b.Plot.Points) {
+		t.Errorf("agreement changes with the order of the rows:\n%s\n%s", ja, jb)
+	}
+}
+
+// findingsMeasurement gives a the verdicts of an invented study around it.
+func findingsMeasurement(a *report.Agreement) {
+	a.Acceptable = 1.4
+	s := &report.Study{Agreement: a}
+	findings.Measurement(s, 0.05)
+}
+
+// closeJSON compares decoded JSON values, numbers to 1e-12 relative.
+func closeJSON(a, b any) bool {
+	switch a := a.(type) {
+	case float64:
+		bf, ok := b.(float64)
+		return ok && math.Abs(a-bf) <= 1e-12*math.Max(1, math.Abs(a))
+	case map[string]any:
+		bm, ok := b.(map[string]any)
+		if !ok || len(a) != len(bm) {
+			return false
+		}
+		for k, v := range a {
+			if !closeJSON(v, bm[k]) {
+				return false
+			}
+		}
+		return true
+	case []any:
+		bl, ok := b.([]any)
+		if !ok || len(a) != len(bl) {
+			return false
+		}
+		for i := range a {
+			if !closeJSON(a[i], bl[i]) {
+				return false
+			}
+		}
+		return true
+	}
+	return reflect.DeepEqual(a, b)
+}
+
+// TestAgreementPlotBounded: above report.PlotPointsMax items the plot data
+// are density grids, whatever n is.
+func TestAgreementPlotBounded(t *testing.T) {
+	if testing.Short() {
+		t.Skip("10⁵ items: Passing–Bablok on a sample of pairs takes a while")
+	}
+	t.Parallel()
+	const n = 100_000
+	xcols, ycols := gaugePair(n, 4)
+	a := agreement(xcols, ycols, n, manifest.Study{X: "a", Y: "b"}, "", 0.95)
+	p := a.Plot
+	if p.Points != nil || p.Pairs != nil || p.Grid == nil || p.PairGrid == nil || p.N != n {
+		t.Fatalf("plot at n = %d: %d points, %d pairs, grids %v %v", n, len(p.Points), len(p.Pairs), p.Grid != nil, p.PairGrid != nil)
+	}
+	if len(p.Grid.Counts) != gridNX*gridNY {
+		t.Errorf("grid of %d cells, want %d", len(p.Grid.Counts), gridNX*gridNY)
+	}
+	if !a.PassingBablok.Sampled {
+		t.Error("Passing–Bablok not marked as sampled at 10⁵ items")
+	}
+	_ = report.PlotPointsMax
+}

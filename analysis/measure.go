@@ -112,6 +112,7 @@ func agreement(xcols, ycols [][]float64, n int, st manifest.Study, unit string, 
 	a.Bias, a.BiasLow, a.BiasHigh, a.SD, a.K = f(loa.Bias), f(loa.BiasLo), f(loa.BiasHi), f(loa.SD), f(loa.K)
 	a.Lower, a.LowerLow, a.LowerHigh = f(loa.Lower), f(loa.LowerLo), f(loa.LowerHi)
 	a.Upper, a.UpperLow, a.UpperHigh = f(loa.Upper), f(loa.UpperLo), f(loa.UpperHi)
+	a.BiasSE = f(loa.SDMeans / math.Sqrt(float64(n)))
 	a.TrendSlope, a.TrendP = f(loa.TrendSlope), f(loa.TrendP)
 	a.TrendLow, a.TrendHigh = report.NaN(), report.NaN()
 	if n >= 3 {

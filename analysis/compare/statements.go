@@ -94,6 +94,9 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 	if sl := sc.Slope; !slopeSig && sl != nil && sl.P.Valid() && sc.Significant {
 		parts = append(parts, fmt.Sprintf("The slope went from %s to %s%s, within chance (adjusted p %s).", g4(sl.Old), g4(sl.New), unit, pText(sl.PAdjusted)))
 	}
+	if a := agreementStatement(sc.Agreement, alpha); a != "" {
+		parts = append(parts, a)
+	}
 	if len(sc.Verdicts) > 0 {
 		var v []string
 		for _, vc := range sc.Verdicts {

@@ -22,8 +22,9 @@ type Agreement struct {
 	Bias       Float `json:"bias"` // mean difference
 	BiasLow    Float `json:"bias_low"`
 	BiasHigh   Float `json:"bias_high"`
-	SD         Float `json:"sd"` // SD of the difference of single readings
-	K          Float `json:"k"`  // limits are Bias ∓ K·SD
+	BiasSE     Float `json:"bias_se"` // standard error of the bias, SD of the observed differences/√n
+	SD         Float `json:"sd"`      // SD of the difference of single readings
+	K          Float `json:"k"`       // limits are Bias ∓ K·SD
 	Lower      Float `json:"lower"`
 	LowerLow   Float `json:"lower_low"` // the lower limit's interval
 	LowerHigh  Float `json:"lower_high"`

@@ -120,3 +120,58 @@ func TestAgreementPlotBounded(t *testing.T) {
 	}
 	_ = report.PlotPointsMax
 }
+
+// TestErrorCorrectionSimulation: a seeded simulation with known true
+// values, the gauges' SDs estimated from duplicate readings. True x ~
+// N(0, 1), true y = 0.6·x + N(0, 0.8²) (true r 0.6, slope 0.6); each of
+// two readings of x adds N(0, 0.7²), of y N(0, 0.5²). Over 400 runs of
+// n = 200 the raw r and slope are attenuated (expected r ≈ 0.6·√(0.671·0.8)
+// = 0.440, slope 0.6·0.671 = 0.403); the corrected means lie within 4
+// Monte Carlo standard errors of the true values, the raw ones far outside.
+func TestErrorCorrectionSimulation(t *testing.T) {
+	if testing.Short() {
+		t.Skip("400 simulated runs")
+	}
+	t.Parallel()
+	const runs, n = 400, 200
+	rng := rand.New(rand.NewPCG(2026, 14))
+	var raw, cor, rawB, corB []float64
+	for range runs {
+		xc, yc := make([][]float64, 2), make([][]float64, 2)
+		for range n {
+			tx := rng.NormFloat64()
+			ty := 0.6*tx + 0.8*rng.NormFloat64()
+			for j := range 2 {
+				xc[j] = append(xc[j], tx+0.7*rng.NormFloat64())
+				yc[j] = append(yc[j], ty+0.5*rng.NormFloat64())
+			}
+		}
+		e := errorCorrection(xc, yc, n, nil, 0.95)
+		raw, cor = append(raw, float64(e.R)), append(cor, float64(e.RCorrected))
+		rawB, corB = append(rawB, float64(e.Slope)), append(corB, float64(e.SlopeCorrected))
+	}
+	meanSE := func(v []float64) (m, se float64) {
+		for _, a := range v {
+			m += a
+		}
+		m /= float64(len(v))
+		for _, a := range v {
+			se += (a - m) * (a - m)
+		}
+		return m, math.Sqrt(se / float64(len(v)-1) / float64(len(v)))
+	}
+	for _, c := range []struct {
+		name      string
+		raw, corr []float64
+		truth     float64
+	}{{"r", raw, cor, 0.6}, {"slope", rawB, corB, 0.6}} {
+		mr, ser := meanSE(c.raw)
+		mc, sec := meanSE(c.corr)
+		if math.Abs(mc-c.truth) > 4*sec {
+			t.Errorf("%s corrected: mean %.4f, true %.1f, MC SE %.4f", c.name, mc, c.truth, sec)
+		}
+		if math.Abs(mr-c.truth) < 20*ser {
+			t.Errorf("%s raw: mean %.4f is not clearly attenuated (MC SE %.4f)", c.name, mr, ser)
+		}
+	}
+}

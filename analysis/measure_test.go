@@ -174,3 +174,60 @@ func pefrColumns(t *testing.T) map[string][]float64 {
 	}
 	return out
 }
+
+func TestErrorCorrectionPEFR(t *testing.T) {
+	t.Parallel()
+	r := pefrRun(t, `
+[[study]]
+id = "reps"
+dataset = "pefr"
+x = "mini_1"
+y = "wright_1"
+x_replicates = ["mini_2"]
+y_replicates = ["wright_2"]
+
+[[study]]
+id = "declared"
+dataset = "pefr"
+x = "mini_1"
+y = "wright_1"
+gauge_sd = { x = 20 }
+plan = { smallest_r = 0.3, r_half_width = 0.05 }
+`)
+	col := pefrColumns(t)
+	mini := [][]float64{col["mini_1"], col["mini_2"]}
+	wright := [][]float64{col["wright_1"], col["wright_2"]}
+	// Wiring: the figures of stats.CorrectForError (checked against scipy
+	// and by simulation in analysis/stats) with the SDs from the replicates.
+	e := study(t, r, "reps").ErrorCorrection
+	want := stats.CorrectForError(col["mini_1"], col["wright_1"], stats.Repeatability(mini, 0).SW, stats.Repeatability(wright, 0).SW, 0.95)
+	if e == nil || e.FromX != "replicates" || e.FromY != "replicates" ||
+		math.Abs(float64(e.RCorrected)-want.RCorrected) > 1e-12 || math.Abs(float64(e.SlopeCorrectedHigh)-want.SlopeCorrectedHi) > 1e-9 {
+		t.Fatalf("error correction %+v; want r %v, slope high %v", e, want.RCorrected, want.SlopeCorrectedHi)
+	}
+	if len(e.Statements) < 2 || len(e.Assumptions) != 2 {
+		t.Errorf("statements %q, assumptions %q", e.Statements, e.Assumptions)
+	}
+	d := study(t, r, "declared")
+	if d.ErrorCorrection.FromX != "declared" || d.ErrorCorrection.FromY != "none" || float64(d.ErrorCorrection.SDErrorX) != 20 || d.ErrorCorrection.ReliabilityY != 1 {
+		t.Errorf("declared: %+v", d.ErrorCorrection)
+	}
+	// The planning statement with declared targets. For |r| = 0.3 at
+	// two-sided alpha 0.05 and power 0.8 the Fisher-z calculator at
+	// clinicaltrials-tools.vercel.app/calculators/correlation prints
+	// "Required Sample Size 85".
+	p := d.Plan
+	if p.NForPower != 85 || p.DetectRFrom != "declared" || p.RHalfWidthFrom != "declared" || p.SlopeHalfWidthFrom != "default" {
+		t.Errorf("plan: %+v", p)
+	}
+	if n := stats.NForCorrelationHalfWidth(float64(d.Pearson.R), 0.05, 0.95); p.NForR != n || n <= 0 {
+		t.Errorf("n for r's half-width: %d, want %d", p.NForR, n)
+	}
+	// The slope's present half-width is that of the reported interval.
+	if hw := float64(d.Line.Slope.CIHigh-d.Line.Slope.CILow) / 2; math.Abs(float64(p.SlopeHalfWidthNow)-hw) > 1e-9*hw {
+		t.Errorf("slope half-width now %v, the interval's %v", p.SlopeHalfWidthNow, hw)
+	}
+	if study(t, r, "reps").Plan.SlopeHalfWidth*2 != study(t, r, "reps").Plan.SlopeHalfWidthNow {
+		t.Error("default slope target is not half the present half-width")
+	}
+}

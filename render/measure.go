@@ -27,8 +27,8 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 	add := func(m, v, ci string) { t.Rows = append(t.Rows, []string{m, v, ci}) }
 	add("Bias (mean difference)", u(a.Bias), interval(a.BiasLow, a.BiasHigh))
 	add("SD of the differences", u(a.SD), "")
-	add("Lower limit of agreement (bias − "+short(float64(a.K))+" SD)", u(a.Lower), interval(a.LowerLow, a.LowerHigh))
-	add("Upper limit of agreement (bias + "+short(float64(a.K))+" SD)", u(a.Upper), interval(a.UpperLow, a.UpperHigh))
+	add("Lower limit of agreement (bias − "+num(a.K)+" SD)", u(a.Lower), interval(a.LowerLow, a.LowerHigh))
+	add("Upper limit of agreement (bias + "+num(a.K)+" SD)", u(a.Upper), interval(a.UpperLow, a.UpperHigh))
 	if a.Acceptable.Valid() {
 		add("Acceptable difference", "±"+u(a.Acceptable), "")
 	}

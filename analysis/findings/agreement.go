@@ -21,6 +21,12 @@ import (
 func Measurement(s *report.Study, alpha float64) {
 	if a := s.Agreement; a != nil {
 		agreementVerdict(a, s, alpha)
+		// An agreement study answers whether the methods agree: its
+		// verdict on that, when it has one, is the study's headline (a
+		// high r says nothing about it).
+		if f := s.Findings; f != nil && a.Verdict != "" && len(a.Statements) > 0 {
+			f.Headline = a.Statements[0]
+		}
 	}
 	if e := s.ErrorCorrection; e != nil {
 		errorStatements(e, s, alpha)
@@ -56,7 +62,7 @@ func AgreementVerdict(a *report.Agreement) string {
 
 func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 	u := symbol(s.X)
-	conf := strconv.FormatFloat(100*(1-alpha), 'f', -1, 64) + " %"
+	conf := strconv.FormatFloat(100*(1-alpha), 'f', -1, 64) + "%"
 	x, y := label(s.X), label(s.Y)
 	a.Verdict = AgreementVerdict(a)
 	acc := float64(a.Acceptable)
@@ -73,7 +79,7 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 	var st []string
 	switch a.Verdict {
 	case report.AgreeWithin:
-		st = append(st, fmt.Sprintf("%s and %s agree within %s: 95 %% of the differences are expected inside the %s, and the intervals of both limits lie inside %s too.",
+		st = append(st, fmt.Sprintf("%s and %s agree within %s: 95%% of the differences are expected inside the %s, and the intervals of both limits lie inside %s too.",
 			capital(x), y, accText, limits, accText))
 	case report.NotWithin:
 		st = append(st, fmt.Sprintf("%s and %s do not agree within the acceptable %s: the %s reach beyond it.",
@@ -114,7 +120,7 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 		if r.Method == "y" {
 			who = y
 		}
-		st = append(st, fmt.Sprintf("Repeatability of %s (%d readings per item): within-item SD %s (%s interval %s to %s); two readings of one item differ by less than %s in 95 %% of cases.",
+		st = append(st, fmt.Sprintf("Repeatability of %s (%d readings per item): within-item SD %s (%s interval %s to %s); two readings of one item differ by less than %s in 95%% of cases.",
 			who, r.Readings, withUnit(float64(r.SW), u), conf, num(float64(r.SWLow)), num(float64(r.SWHigh)), withUnit(float64(r.Coef), u)))
 	}
 	a.Statements = st
@@ -178,7 +184,7 @@ func numVs(v float64, cuts ...float64) string {
 }
 
 func errorStatements(e *report.ErrorCorrection, s *report.Study, alpha float64) {
-	conf := strconv.FormatFloat(100*(1-alpha), 'f', -1, 64) + " %"
+	conf := strconv.FormatFloat(100*(1-alpha), 'f', -1, 64) + "%"
 	from := func(what, f string, sd report.Float, sym string) string {
 		switch f {
 		case "declared":
@@ -213,7 +219,7 @@ func errorStatements(e *report.ErrorCorrection, s *report.Study, alpha float64) 
 }
 
 func planStatements(p *report.Plan, s *report.Study) {
-	conf := strconv.FormatFloat(100*(1-float64(p.Alpha)), 'f', -1, 64) + " %"
+	conf := strconv.FormatFloat(100*(1-float64(p.Alpha)), 'f', -1, 64) + "%"
 	need := func(n int) string {
 		if n <= 0 {
 			return "an undefined number of rows"

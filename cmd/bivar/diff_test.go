@@ -244,7 +244,7 @@ func TestSampleProjectRuns(t *testing.T) {
 			flagged = append(flagged, s.ID)
 		}
 	}
-	if strings.Join(flagged, ",") != "hardness-vs-temper" {
-		t.Errorf("studies with a significant change: %v, want [hardness-vs-temper] (the one the generator changes)", flagged)
+	if strings.Join(flagged, ",") != "hardness-vs-temper,testers-agree" {
+		t.Errorf("studies with a significant change: %v, want [hardness-vs-temper testers-agree] (the slope and the tester's bias the generator changes)", flagged)
 	}
 }

@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"reflect"
+	"strconv"
+	"strings"
 	"testing"
 
 	"bivar/analysis/findings"
@@ -173,5 +175,46 @@ func TestErrorCorrectionSimulation(t *testing.T) {
 		if math.Abs(mr-c.truth) < 20*ser {
 			t.Errorf("%s raw: mean %.4f is not clearly attenuated (MC SE %.4f)", c.name, mr, ser)
 		}
+	}
+}
+
+// TestAgreementFewItems: with 0 to 3 complete items nothing panics and the
+// figures that need more items are undefined; the findings still write
+// their sentences.
+func TestAgreementFewItems(t *testing.T) {
+	t.Parallel()
+	acc := 1.0
+	st := manifest.Study{X: "a", Y: "b", XReplicates: []string{"a2"}, Agreement: &manifest.Agreement{Acceptable: &acc}}
+	for n := range 4 {
+		xc, yc := gaugePair(n, 5)
+		a := agreement(xc, yc[:1], n, st, "", 0.95)
+		s := &report.Study{Agreement: a, X: report.Variable{Column: "a"}, Y: report.Variable{Column: "b"}}
+		findings.Measurement(s, 0.05)
+		if n < 2 && (a.Bias.Valid() || a.Verdict != "") {
+			t.Errorf("n = %d: bias %v, verdict %q; want undefined and none", n, a.Bias, a.Verdict)
+		}
+		if len(a.Statements) == 0 {
+			t.Errorf("n = %d: no statements", n)
+		}
+		for _, st := range a.Statements {
+			if strings.Contains(st, "NaN") {
+				t.Errorf("n = %d: %q", n, st)
+			}
+		}
+	}
+}
+
+// BenchmarkAgreement: an agreement study with duplicate readings (invented
+// data), the figures and plot data of agreement().
+func BenchmarkAgreement(b *testing.B) {
+	for _, n := range []int{1000, 100_000} {
+		xc, yc := gaugePair(n, 6)
+		st := manifest.Study{X: "a", Y: "b", XReplicates: []string{"a2"}, YReplicates: []string{"b2"}}
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				agreement(xc, yc, n, st, "", 0.95)
+			}
+		})
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"strconv"
+	"strings"
 	"testing"
 
 	"bivar/analysis"
@@ -24,7 +25,7 @@ func pefrRun(t *testing.T, studies string) *report.Report {
 	src := `[[dataset]]
 id = "pefr"
 file = ` + strconv.Quote(file) + `
-units = { wright_1 = "L/min", wright_2 = "L/min", mini_1 = "L/min", mini_2 = "L/min" }
+units = { wright_1 = "L/min", wright_2 = "L/min", mini_1 = "L/min", mini_2 = "L/min", mini_3 = "L/min" } # mini_3: no such column (TestReplicateColumnAbsent)
 ` + studies
 	m, err := manifest.Parse("pefr.toml", []byte(src), filepath.Dir(file))
 	if err != nil {
@@ -229,5 +230,17 @@ plan = { smallest_r = 0.3, r_half_width = 0.05 }
 	}
 	if study(t, r, "reps").Plan.SlopeHalfWidth*2 != study(t, r, "reps").Plan.SlopeHalfWidthNow {
 		t.Error("default slope target is not half the present half-width")
+	}
+}
+
+func TestReplicateColumnAbsent(t *testing.T) {
+	t.Parallel()
+	r := pefrRun(t, agreementStudy("absent", `x_replicates = ["mini_3"]`))
+	s := study(t, r, "absent")
+	if s.Error == nil || !strings.Contains(*s.Error, `replicate column "mini_3" is not in dataset "pefr"`) || !strings.Contains(*s.Error, `did you mean`) {
+		t.Errorf("error %v; want the replicate column named, with a suggestion", s.Error)
+	}
+	if s.Agreement != nil {
+		t.Error("a study that did not run has agreement figures")
 	}
 }

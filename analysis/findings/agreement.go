@@ -167,6 +167,9 @@ func withUnitText(t, u string) string {
 // put the printed value on the other side of (or on) a cut point.
 func numVs(v float64, cuts ...float64) string {
 	t := num(v)
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return t
+	}
 	for d := 4; d <= 10; d++ {
 		ok := true
 		for _, c := range cuts {

@@ -97,7 +97,10 @@ expect = { agree = true }`)+
 	}
 	// Limits about −78 and +74 l/min: outside ±60, inside ±100 but with
 	// intervals (about ±35 wide) beyond it; ±2 L/s = ±120 L/min holds them all.
-	for _, c := range []struct{ id, want string }{
+	for _, c := range []struct {
+		id   string
+		want report.AgreementVerdict
+	}{
 		{"first", report.NotWithin}, {"wide", report.Undecided}, {"wider", report.AgreeWithin}, {"none", ""},
 	} {
 		got := study(t, r, c.id).Agreement
@@ -115,7 +118,7 @@ expect = { agree = true }`)+
 			agree = &s.Expectations[i]
 		}
 	}
-	if agree == nil || agree.OK || agree.Got != report.NotWithin {
+	if agree == nil || agree.OK || agree.Got != string(report.NotWithin) {
 		t.Errorf("expect.agree: %+v; want a failed gate with got %q", agree, report.NotWithin)
 	}
 	if s.Plan == nil || len(s.Plan.Statements) == 0 || len(a.Statements) == 0 {

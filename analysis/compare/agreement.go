@@ -98,7 +98,7 @@ func agreementVerdict(prev, cur *report.Study) []VerdictChange {
 	if prev.Agreement == nil || cur.Agreement == nil || prev.Agreement.Verdict == cur.Agreement.Verdict {
 		return nil
 	}
-	return []VerdictChange{{"agreement", prev.Agreement.Verdict, cur.Agreement.Verdict}}
+	return []VerdictChange{{"agreement", string(prev.Agreement.Verdict), string(cur.Agreement.Verdict)}}
 }
 
 // agreementStatement says how the bias and the limits changed, when the

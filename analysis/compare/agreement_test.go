@@ -28,7 +28,7 @@ func TestWelchTScipy(t *testing.T) {
 }
 
 // agreementOf is an invented agreement study of y against x.
-func agreementOf(id string, x, y []float64, verdict string) report.Study {
+func agreementOf(id string, x, y []float64, verdict report.AgreementVerdict) report.Study {
 	s := study(id, x, y, findings("linear", "positive", "strong", false))
 	l := stats.BlandAltman(y, x, 1.96, 0.95)
 	f := func(v float64) report.Float { return report.Float(v) }
@@ -74,7 +74,7 @@ func TestDiffAgreement(t *testing.T) {
 	}
 	found := false
 	for _, v := range sh.Verdicts {
-		if v.Name == "agreement" && v.Old == report.AgreeWithin && v.New == report.NotWithin {
+		if v.Name == "agreement" && v.Old == string(report.AgreeWithin) && v.New == string(report.NotWithin) {
 			found = true
 		}
 	}

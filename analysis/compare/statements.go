@@ -40,7 +40,11 @@ func statements(res *Result) []string {
 	case s.Compared == 0:
 		head = "No study is in both runs, so nothing was compared."
 	case s.Significant == 0:
-		head = fmt.Sprintf("No study's correlation or slope changed beyond what chance explains (%d compared, %s)", s.Compared, family)
+		what := "correlation or slope"
+		if res.Tests.Bias != "" {
+			what = "correlation, slope, agreement bias or spread of differences"
+		}
+		head = fmt.Sprintf("No study's %s changed beyond what chance explains (%d compared, %s)", what, s.Compared, family)
 	default:
 		head = fmt.Sprintf("%d of %d studies changed beyond what chance explains (%s)", s.Significant, s.Compared, family)
 	}

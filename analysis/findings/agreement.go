@@ -45,7 +45,7 @@ func Measurement(s *report.Study, alpha float64) {
 // interval of one reaches past ±acceptable (more items would decide); ""
 // when no acceptable difference is declared or a figure is undefined. A
 // limit exactly at ±acceptable counts as inside.
-func AgreementVerdict(a *report.Agreement) string {
+func AgreementVerdict(a *report.Agreement) report.AgreementVerdict {
 	acc := float64(a.Acceptable)
 	lo, hi := float64(a.Lower), float64(a.Upper)
 	if !a.Acceptable.Valid() || !a.Lower.Valid() || !a.Upper.Valid() {
@@ -276,12 +276,12 @@ func AgreeExpectation(s *report.Study, want bool) report.Expectation {
 		e.Got, e.Detail = "not computed", "the study has no agreement figures"
 		return e
 	}
-	v := a.Verdict
+	v := string(a.Verdict)
 	if v == "" {
 		v = "undefined"
 	}
 	e.Got = v
-	e.OK = (v == report.AgreeWithin) == want
+	e.OK = (a.Verdict == report.AgreeWithin) == want
 	if len(a.Statements) > 0 {
 		e.Detail = a.Statements[0]
 	}

@@ -42,21 +42,26 @@ type Agreement struct {
 	Repeatability []Repeatability `json:"repeatability"` // one per method with replicates, x first
 
 	// Verdicts (set by the findings).
-	Verdict          string   `json:"verdict"`           // AgreeWithin, NotWithin, Undecided, or "" without an acceptable difference
-	ConstantBias     bool     `json:"constant_bias"`     // the Deming intercept's interval excludes 0
-	ProportionalBias bool     `json:"proportional_bias"` // the Deming slope's interval excludes 1
-	Trend            bool     `json:"trend"`             // the difference changes with the magnitude (trend_p below alpha)
-	Statements       []string `json:"statements"`        // the verdicts in words, with their figures
-	Assumptions      []string `json:"assumptions"`       // what the figures rest on
+	Verdict          AgreementVerdict `json:"verdict"`           // AgreeWithin, NotWithin, Undecided, or "" without an acceptable difference
+	ConstantBias     bool             `json:"constant_bias"`     // the Deming intercept's interval excludes 0
+	ProportionalBias bool             `json:"proportional_bias"` // the Deming slope's interval excludes 1
+	Trend            bool             `json:"trend"`             // the difference changes with the magnitude (trend_p below alpha)
+	Statements       []string         `json:"statements"`        // the verdicts in words, with their figures
+	Assumptions      []string         `json:"assumptions"`       // what the figures rest on
 
 	Plot *AgreementPlot `json:"-"` // what the charts draw (bounded); not in results.json
 }
 
+// AgreementVerdict is the verdict of an agreement study on agreement
+// within the declared acceptable difference, written to results.json as
+// its word; "" when none was declared or a figure is undefined.
+type AgreementVerdict string
+
 // The agreement verdicts (Agreement.Verdict).
 const (
-	AgreeWithin = "agree"     // both limits, with their intervals, inside ±acceptable
-	NotWithin   = "disagree"  // a limit itself lies outside ±acceptable
-	Undecided   = "undecided" // the limits lie inside but an interval reaches past ±acceptable
+	AgreeWithin AgreementVerdict = "agree"     // both limits, with their intervals, inside ±acceptable
+	NotWithin   AgreementVerdict = "disagree"  // a limit itself lies outside ±acceptable
+	Undecided   AgreementVerdict = "undecided" // the limits lie inside but an interval reaches past ±acceptable
 )
 
 // MethodLine is a line y = Intercept + Slope·x fitted to two methods.

@@ -242,7 +242,11 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	if len(res.Studies) > 0 {
 		b.WriteString("## Change in correlation\n\n")
 		b.WriteString(sigLine("r", sigR(res), res.Alpha))
-		fmt.Fprintf(&b, "Δ is new − old; p two-sided; adjusted p after %s over all %d change tests (r and slope together).\n\n", mdtext.Escape(adjustName(res.Adjust)), s.Tested)
+		together := "r and slope together"
+		if res.Tests.Bias != "" {
+			together = "r, slope and the agreement studies' bias and spread together"
+		}
+		fmt.Fprintf(&b, "Δ is new − old; p two-sided; adjusted p after %s over all %d change tests (%s).\n\n", mdtext.Escape(adjustName(res.Adjust)), s.Tested, together)
 		b.WriteString("| Study | n old → new | r old → new | Δr | z | p | adjusted p |\n|---|--:|--:|--:|--:|--:|--:|\n")
 		for _, sc := range res.Studies {
 			cells := "not tested | | | | "

@@ -104,7 +104,7 @@ func DifferenceMean(s *report.Study, id, level string) *Figure {
 	}
 	if a.Acceptable.Valid() {
 		acc := float64(a.Acceptable)
-		f.Lines = append(f.Lines, flat("acceptable ±"+g4(acc), -acc, lo, hi, RoleCurve), flat("", acc, lo, hi, RoleCurve))
+		f.Lines = append(f.Lines, flat(strings.TrimSpace("acceptable ±"+g4(acc)+" "+sym), -acc, lo, hi, RoleCurve), flat("", acc, lo, hi, RoleCurve))
 	}
 	f.Desc = fmt.Sprintf("Difference %s minus %s against the mean of the two for %d items, with the bias, the limits of agreement and their %s%% intervals.",
 		varName(s.Y), varName(s.X), p.N, level)

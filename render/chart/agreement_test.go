@@ -58,7 +58,7 @@ func TestAgreementCharts(t *testing.T) {
 		for _, l := range append(dm.Lines, mp.Lines...) {
 			names[l.Name] = true
 		}
-		for _, want := range []string{"bias (mean difference)", "limits of agreement", "acceptable ±1.5", "identity (y = x)", "Deming line"} {
+		for _, want := range []string{"bias (mean difference)", "limits of agreement", "acceptable ±1.5 HRC", "identity (y = x)", "Deming line"} {
 			if !names[want] {
 				t.Errorf("n = %d: no line %q", n, want)
 			}
@@ -66,5 +66,14 @@ func TestAgreementCharts(t *testing.T) {
 		if !strings.Contains(dm.YLabel, "Tester B − Tester A") || !strings.Contains(dm.YLabel, "HRC") {
 			t.Errorf("difference axis %q", dm.YLabel)
 		}
+	}
+}
+
+// TestUnnamedBandNoLegend: the second limit's interval shares the legend
+// entry of the first; an unnamed band adds no empty entry.
+func TestUnnamedBandNoLegend(t *testing.T) {
+	svg := draw(t, DifferenceMean(agreementStudy(20), "dm", "95"))
+	if n := strings.Count(svg, `width="20" height="10"`); n != 1 {
+		t.Errorf("%d band swatches in the legend, want 1", n)
 	}
 }

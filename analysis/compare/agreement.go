@@ -113,7 +113,7 @@ func agreementStatement(a *AgreementChange, alpha float64) string {
 		return ""
 	}
 	u := unitSuffix(a.Unit)
-	s := fmt.Sprintf("The limits of agreement moved from %s to %s%s to %s to %s%s", g4(a.OldLower), g4(a.OldUpper), u, g4(a.NewLower), g4(a.NewUpper), u)
+	s := fmt.Sprintf("The limits of agreement moved from %s and %s%s to %s and %s%s", g4(a.OldLower), g4(a.OldUpper), u, g4(a.NewLower), g4(a.NewUpper), u)
 	var why []string
 	if biasSig {
 		why = append(why, fmt.Sprintf("the bias changed beyond chance from %s to %s%s (Welch t = %s, adjusted p %s)", g4(a.OldBias), g4(a.NewBias), u, fix(report.Float(float64(a.DeltaBias)/float64(a.BiasSE))), pText(a.BiasPAdj)))

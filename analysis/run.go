@@ -135,6 +135,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 				s.Excluded = unsplitReasons(s.Excluded, loaded[st.Dataset].table)
 			}
 			s.LeftOut, s.LeftOutMore, s.Subset = selected[i].leftOut, selected[i].more, selected[i].subset
+			measure(&s, st, in, loaded[st.Dataset].table.Numeric, cfg)
 			listsAlways(&s)
 			r.Studies[i] = s
 		}()
@@ -156,6 +157,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			r.Studies[i].Design = sc.Design
 			assess(&r.Studies[i], sc)
 			r.Studies[i].Expectations = Expectations(&r.Studies[i], m.Studies[i].Expect, cfg.Alpha, adjust)
+			r.Studies[i].Expectations = append(r.Studies[i].Expectations, measureFindings(&r.Studies[i], m.Studies[i].Expect, cfg.Alpha)...)
 		}()
 	}
 	wg.Wait()
@@ -217,6 +219,9 @@ func wanted(m *manifest.Manifest, ds manifest.Dataset) (numeric, text []string) 
 			addTo(&numeric, c)
 		}
 		addTo(&text, st.Group)
+		for _, c := range append(slices.Clone(st.XReplicates), st.YReplicates...) {
+			addTo(&numeric, c)
+		}
 	}
 	if ds.IDColumn != "" {
 		addTo(&text, ds.IDColumn)
@@ -458,6 +463,9 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 	check("order column", st.Order)
 	for _, c := range st.Covariates {
 		check("covariate column", c)
+	}
+	for _, c := range append(slices.Clone(st.XReplicates), st.YReplicates...) {
+		check("replicate column", c)
 	}
 	check("the dataset's id_column", ls.decl.IDColumn)
 	if len(absent) > 0 {

@@ -11,14 +11,17 @@ import (
 // studySections lists the parts of a study after its figures, in the order
 // they appear. A new part is one function here; both formats pick it up.
 var studySections = []func(s *report.Study, level string, th report.Thresholds) (*section, error){
+	agreementSection,
 	wordsSection,
 	keyFiguresSection,
+	errorCorrectionSection,
 	influenceSection,
 	sensitivitySection,
 	unitsSection,
 	groupsSection,
 	predictionsSection,
 	approximationsSection,
+	planSection,
 	limitsSection,
 	expectationsSection,
 	notesSection,

@@ -506,6 +506,8 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		{"scatter", chart.Scatter(s, prefix+"scatter", level)},
 		{"residuals", chart.ResidualsFitted(s, prefix+"residuals")},
 		{"order", chart.ResidualsOrder(s, prefix+"order")},
+		{"agreement", chart.DifferenceMean(s, prefix+"agreement", level)},
+		{"methods", chart.MethodPair(s, prefix+"methods")},
 	} {
 		if fc.fig == nil {
 			continue

@@ -119,6 +119,10 @@ type Side struct {
 type Tests struct {
 	Correlation string `json:"correlation"`
 	Slope       string `json:"slope"`
+	// Bias and Spread name the agreement studies' change tests, when a
+	// compared study has them (agreement.go).
+	Bias   string `json:"bias,omitempty"`
+	Spread string `json:"spread,omitempty"`
 }
 
 // Summary counts what changed.
@@ -162,6 +166,9 @@ type StudyChange struct {
 
 	R     *RChange     `json:"r"`     // nil when either run has no moments or the scales differ
 	Slope *SlopeChange `json:"slope"` // nil when either run has no moments, the scales differ or the units differ
+	// Agreement compares an agreement study's bias and limits (agreement.go);
+	// nil unless both runs have them.
+	Agreement *AgreementChange `json:"agreement,omitempty"`
 
 	Verdicts       []VerdictChange `json:"verdicts"` // changed verdicts only
 	VerdictChanged bool            `json:"verdict_changed"`
@@ -301,6 +308,11 @@ func Diff(old, new *report.Report, opts Options) *Result {
 		}
 	}
 	res.Datasets = compareDatasets(old.Datasets, new.Datasets)
+	for _, sc := range res.Studies {
+		if sc.Agreement != nil {
+			res.Tests.Bias, res.Tests.Spread = BiasTest, SpreadTest
+		}
+	}
 	adjust(res)
 	if res.Adjust == "none" && len(res.Studies) > 0 {
 		res.Notes = append(res.Notes, "no adjustment: each compared study has two change tests and each can raise a false alarm, so the chance of at least one is above alpha (about 1.6 × alpha for a single study, measured by simulation in compare's tests)")
@@ -321,6 +333,16 @@ func Diff(old, new *report.Report, opts Options) *Result {
 		}
 		if sc.Slope != nil && sc.Slope.P.Valid() {
 			s.Tested++
+		}
+		if a := sc.Agreement; a != nil {
+			for _, q := range []struct{ p, adj report.Float }{{a.BiasP, a.BiasPAdj}, {a.SDP, a.SDPAdj}} {
+				if q.p.Valid() {
+					s.Tested++
+				}
+				if q.adj.Valid() && float64(q.adj) < alpha {
+					sc.Significant = true
+				}
+			}
 		}
 		if sc.Significant {
 			s.Significant++
@@ -468,6 +490,8 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange 
 	if (prev.Findings == nil) != (cur.Findings == nil) {
 		sc.Notes = append(sc.Notes, "verdicts not compared: one run has no findings for this study")
 	}
+	sc.Agreement = compareAgreement(prev, cur)
+	sc.Verdicts = append(sc.Verdicts, agreementVerdict(prev, cur)...)
 	sc.VerdictChanged = len(sc.Verdicts) > 0
 	return sc
 }
@@ -543,6 +567,15 @@ func adjust(res *Result) {
 			if sc.Slope.P.Valid() {
 				ps = append(ps, float64(sc.Slope.P))
 				dst = append(dst, &sc.Slope.PAdjusted)
+			}
+		}
+		if a := sc.Agreement; a != nil {
+			for _, q := range []struct{ p, adj *report.Float }{{&a.BiasP, &a.BiasPAdj}, {&a.SDP, &a.SDPAdj}} {
+				*q.adj = report.NaN()
+				if q.p.Valid() {
+					ps = append(ps, float64(*q.p))
+					dst = append(dst, q.adj)
+				}
 			}
 		}
 	}

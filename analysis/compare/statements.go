@@ -40,7 +40,11 @@ func statements(res *Result) []string {
 	case s.Compared == 0:
 		head = "No study is in both runs, so nothing was compared."
 	case s.Significant == 0:
-		head = fmt.Sprintf("No study's correlation or slope changed beyond what chance explains (%d compared, %s)", s.Compared, family)
+		what := "correlation or slope"
+		if res.Tests.Bias != "" {
+			what = "correlation, slope, agreement bias or spread of differences"
+		}
+		head = fmt.Sprintf("No study's %s changed beyond what chance explains (%d compared, %s)", what, s.Compared, family)
 	default:
 		head = fmt.Sprintf("%d of %d studies changed beyond what chance explains (%s)", s.Significant, s.Compared, family)
 	}
@@ -93,6 +97,9 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 	}
 	if sl := sc.Slope; !slopeSig && sl != nil && sl.P.Valid() && sc.Significant {
 		parts = append(parts, fmt.Sprintf("The slope went from %s to %s%s, within chance (adjusted p %s).", g4(sl.Old), g4(sl.New), unit, pText(sl.PAdjusted)))
+	}
+	if a := agreementStatement(sc.Agreement, alpha); a != "" {
+		parts = append(parts, a)
 	}
 	if len(sc.Verdicts) > 0 {
 		var v []string

@@ -168,6 +168,17 @@ type Study struct {
 	Notes      string    `toml:"notes"`
 	Expect     *Expect   `toml:"expect"`
 
+	// Kind is what the study asks of x and y (see Kinds, measure.go);
+	// Defaults fill it with KindRelationship. The keys after it belong to
+	// measurement: replicate readings, a gauge's repeatability, agreement
+	// of two methods and the planning of the next run.
+	Kind        string     `toml:"kind"`
+	XReplicates []string   `toml:"x_replicates"`
+	YReplicates []string   `toml:"y_replicates"`
+	GaugeSD     *GaugeSD   `toml:"gauge_sd"`
+	Agreement   *Agreement `toml:"agreement"`
+	Plan        *Plan      `toml:"plan"`
+
 	// Design is how this study's data arose, when it differs from the
 	// manifest's design (in a randomized experiment only the randomized
 	// factor is a randomized x); "" takes the manifest's. Defaults fill it.
@@ -237,6 +248,9 @@ type Expect struct {
 	MaxP             *float64  `toml:"max_p"`        // on the adjusted p
 	MinN             *int      `toml:"min_n"`
 	NotOutlierDriven *bool     `toml:"not_outlier_driven"`
+	// Agree (agreement studies): true asks that both limits of agreement,
+	// with their confidence intervals, lie inside ±agreement.acceptable.
+	Agree *bool `toml:"agree"`
 
 	Line int `toml:"-"`
 }

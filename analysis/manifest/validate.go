@@ -294,6 +294,11 @@ func (p *parser) validate(m *Manifest) {
 		if s.Expect != nil {
 			p.expect(owner, name, s.Expect)
 		}
+		if j, ok := datasets[s.Dataset]; ok {
+			p.measure(owner, name, s, m.Datasets[j])
+		} else {
+			p.measure(owner, name, s, Dataset{})
+		}
 		if s.Design != "" {
 			p.oneOf(owner, "study.design", s.Design, Designs())
 		}

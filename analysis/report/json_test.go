@@ -87,7 +87,7 @@ func TestWriteReadStable(t *testing.T) {
 func TestReadRefuses(t *testing.T) {
 	cases := []struct{ name, in, want string }{
 		{"other-schema", `{"schema": "bivar.results/v9"}`, `schema "bivar.results/v9"`},
-		{"unknown-key", `{"schema": "bivar.results/v2", "extra": 1}`, `unknown field "extra"`},
+		{"unknown-key", `{"schema": "bivar.results/v3", "extra": 1}`, `unknown field "extra"`},
 		{"not-json", `<html>`, "not a bivar results file"},
 		{"bad-number", `{"schema": "bivar.results/v1", "studies": [{"n_missing": 1, "pearson": {"r": "x"}}]}`, "studies[0].pearson.r"},
 	}
@@ -101,6 +101,11 @@ func TestReadRefuses(t *testing.T) {
 	r, err := Read(strings.NewReader(`{"schema": "bivar.results/v1", "manifest": {"thresholds": {"curve_gain_r2": 0.05}}, "studies": [{"id": "s", "moments": {"n": 5}}]}`))
 	if err != nil || len(r.Studies) != 1 || r.Studies[0].Moments.N != 5 {
 		t.Errorf("v1 file: %v, %+v", err, r)
+	}
+	// A v2 file (no kind, agreement, plan or scale keys) is read too.
+	r, err = Read(strings.NewReader(`{"schema": "bivar.results/v2", "studies": [{"id": "s", "moments": {"n": 7}}]}`))
+	if err != nil || len(r.Studies) != 1 || r.Studies[0].Moments.N != 7 {
+		t.Errorf("v2 file: %v, %+v", err, r)
 	}
 }
 

@@ -16,12 +16,17 @@ package report
 // influence.named_max), with counts, cut points and the flagged-rows file
 // beside them; findings gained typed checks, reasons and more verdicts;
 // studies gained group_lines and robust. Every key `bivar diff` reads is
-// the same in both, so it reads v1 too (ReadsSchema).
-const Schema = "bivar.results/v2"
+// the same in both, so it reads v1 too (ReadsSchema). v3 added keys only:
+// a study's kind, agreement, error_correction and plan, and x.scale and
+// y.scale for a study on a transformed scale (a v2 reader, which refuses
+// unknown keys, cannot read it; this version reads v2 and v1).
+const Schema = "bivar.results/v3"
 
 // ReadsSchema reports whether `bivar diff` reads results.json files of
-// schema s: this version's and v1.
-func ReadsSchema(s string) bool { return s == Schema || s == "bivar.results/v1" }
+// schema s: this version's, v2 and v1.
+func ReadsSchema(s string) bool {
+	return s == Schema || s == "bivar.results/v2" || s == "bivar.results/v1"
+}
 
 // Caution is printed on every report: statistical evidence supports, but
 // does not replace, change control.
@@ -225,10 +230,18 @@ type Study struct {
 	// or by an approximate method (at large n), each with its error;
 	// empty when every figure is exact.
 	Approximations []Approximation `json:"approximations"`
-	Expectations   []Expectation   `json:"expectations"`
-	Notes          string          `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
-	Error          *string         `json:"error"`
-	Plot           *Plot           `json:"-"` // what the charts draw (bounded); not in results.json
+	// Kind is the manifest's study.kind ("relationship" or "agreement");
+	// Agreement (agreement studies), ErrorCorrection (relationship studies
+	// with gauge_sd or replicates) and Plan (every study that ran) are in
+	// measure.go.
+	Kind            string           `json:"kind,omitempty"`
+	Agreement       *Agreement       `json:"agreement,omitempty"`
+	ErrorCorrection *ErrorCorrection `json:"error_correction,omitempty"`
+	Plan            *Plan            `json:"plan,omitempty"`
+	Expectations    []Expectation    `json:"expectations"`
+	Notes           string           `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
+	Error           *string          `json:"error"`
+	Plot            *Plot            `json:"-"` // what the charts draw (bounded); not in results.json
 
 	// FlaggedCSV is the content of the CSV file named by Influence.File:
 	// every flagged row with all its measures. It is not in results.json

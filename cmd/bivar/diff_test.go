@@ -143,7 +143,7 @@ func TestDiffBadResults(t *testing.T) {
 		{"array", "[1, 2]", []string{"not a JSON object"}},
 		{"not utf-8", "{\"schema\": \"\xff\"}", []string{"not UTF-8"}},
 		{"no schema", `{"studies": []}`, []string{`no "schema" key`}},
-		{"newer schema", strings.Replace(string(full), report.Schema, "bivar.results/v9", 1), []string{`schema "bivar.results/v9", but this bivar reads "bivar.results/v2"`, "rerun 'bivar run'"}},
+		{"newer schema", strings.Replace(string(full), report.Schema, "bivar.results/v9", 1), []string{`schema "bivar.results/v9", but this bivar reads "bivar.results/v3"`, "rerun 'bivar run'"}},
 		{"other schema", `{"schema": "acme/1"}`, []string{`schema "acme/1" is not bivar's results schema`}},
 		{"syntax error", strings.Replace(string(full), `"studies": [`, `"studies": [,`, 1), []string{"line ", "column ", "not valid JSON"}},
 		{"wrong type", strings.Replace(string(full), `"rows": 40`, `"rows": "forty"`, 1), []string{"line ", `key "datasets.rows" holds a JSON string`}},
@@ -244,7 +244,7 @@ func TestSampleProjectRuns(t *testing.T) {
 			flagged = append(flagged, s.ID)
 		}
 	}
-	if strings.Join(flagged, ",") != "hardness-vs-temper" {
-		t.Errorf("studies with a significant change: %v, want [hardness-vs-temper] (the one the generator changes)", flagged)
+	if strings.Join(flagged, ",") != "hardness-vs-temper,testers-agree" {
+		t.Errorf("studies with a significant change: %v, want [hardness-vs-temper testers-agree] (the slope and the tester's bias the generator changes)", flagged)
 	}
 }

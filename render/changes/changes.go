@@ -30,15 +30,17 @@ import (
 var tmplFS embed.FS
 
 var page = template.Must(template.New("diff").Funcs(template.FuncMap{
-	"num":         num,
-	"signed":      signed,
-	"fix2":        fix2,
-	"pval":        pval,
-	"short":       short,
-	"adjustName":  adjustName,
-	"verdictName": verdictName,
-	"below":       below,
-	"slopeUnit":   slopeUnit,
+	"num":           num,
+	"signed":        signed,
+	"fix2":          fix2,
+	"pval":          pval,
+	"short":         short,
+	"adjustName":    adjustName,
+	"verdictName":   verdictName,
+	"below":         below,
+	"slopeUnit":     slopeUnit,
+	"agreement":     agreementRows,
+	"agreementHead": func() []string { return agreementHead },
 }).Option("missingkey=error").ParseFS(tmplFS, "templates/*.tmpl"))
 
 type config struct {
@@ -240,7 +242,11 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	if len(res.Studies) > 0 {
 		b.WriteString("## Change in correlation\n\n")
 		b.WriteString(sigLine("r", sigR(res), res.Alpha))
-		fmt.Fprintf(&b, "Δ is new − old; p two-sided; adjusted p after %s over all %d change tests (r and slope together).\n\n", mdtext.Escape(adjustName(res.Adjust)), s.Tested)
+		together := "r and slope together"
+		if res.Tests.Bias != "" {
+			together = "r, slope and the agreement studies' bias and spread together"
+		}
+		fmt.Fprintf(&b, "Δ is new − old; p two-sided; adjusted p after %s over all %d change tests (%s).\n\n", mdtext.Escape(adjustName(res.Adjust)), s.Tested, together)
 		b.WriteString("| Study | n old → new | r old → new | Δr | z | p | adjusted p |\n|---|--:|--:|--:|--:|--:|--:|\n")
 		for _, sc := range res.Studies {
 			cells := "not tested | | | | "
@@ -261,7 +267,9 @@ func Markdown(w io.Writer, res *compare.Result) error {
 			}
 			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), mdtext.Cell(slopeUnit(sc)), cells)
 		}
-		b.WriteString("\n## Changed verdicts\n\n")
+		b.WriteString("\n")
+		b.WriteString(agreementMarkdown(res))
+		b.WriteString("## Changed verdicts\n\n")
 		if s.VerdictChanged == 0 {
 			b.WriteString("No verdict changed (form, direction, strength, outlier-driven).\n\n")
 		} else {
@@ -316,6 +324,9 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	}
 	b.WriteString("## How the changes were tested, and what they cannot show\n\n")
 	fmt.Fprintf(&b, "- Change in r: %s.\n- Change in slope: %s.\n", mdtext.Escape(res.Tests.Correlation), mdtext.Escape(res.Tests.Slope))
+	if res.Tests.Bias != "" {
+		fmt.Fprintf(&b, "- Change in an agreement study's bias: %s.\n- Change in its SD of the differences: %s.\n", mdtext.Escape(res.Tests.Bias), mdtext.Escape(res.Tests.Spread))
+	}
 	for _, l := range res.Limitations {
 		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(l))
 	}

@@ -222,7 +222,9 @@ func (d *svgDrawer) plan(f *Figure) *layout {
 		}
 	}
 	for _, b := range f.Bands {
-		L.legend = append(L.legend, legendItem{kind: "band", role: b.Role, text: b.Name})
+		if b.Name != "" { // an unnamed band shares the legend entry of a named one
+			L.legend = append(L.legend, legendItem{kind: "band", role: b.Role, text: b.Name})
+		}
 	}
 	for _, l := range f.Lines {
 		if l.Name != "" {

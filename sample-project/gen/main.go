@@ -9,8 +9,9 @@
 //
 // It rewrites sample-project/data/run-2026-10.csv (comma-delimited, decimal
 // point) and sample-project/data/run-2026-11.csv (semicolon-delimited,
-// decimal comma, as a European plant's export would be) byte for byte the
-// same every time. Random numbers come only from math/rand/v2's PCG source
+// decimal comma, as a European plant's export would be), and the gauge
+// study of each run (gauge-2026-10.csv, gauge-2026-11.csv; see gauge.go),
+// byte for byte the same every time. Random numbers come only from math/rand/v2's PCG source
 // (a specified algorithm), turned into uniform and normal draws here, so the
 // output does not depend on how a Go release implements Rand's helpers.
 //
@@ -271,6 +272,14 @@ func main() {
 	for _, r := range runs {
 		path := filepath.Join(dir, r.file)
 		if err := os.WriteFile(path, encode(r, generate(r)), 0o644); err != nil {
+			fmt.Fprintln(os.Stderr, "gen:", err)
+			os.Exit(1)
+		}
+		fmt.Fprintln(os.Stderr, "gen: wrote", path)
+	}
+	for _, g := range gaugeRuns {
+		path := filepath.Join(dir, g.file)
+		if err := os.WriteFile(path, encodeGauge(g), 0o644); err != nil {
 			fmt.Fprintln(os.Stderr, "gen:", err)
 			os.Exit(1)
 		}

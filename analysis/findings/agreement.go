@@ -1,0 +1,289 @@
+package findings
+
+// This file holds the verdicts and sentences of a study's measurement
+// parts: the agreement of two methods (an equivalence statement against a
+// declared acceptable difference, not a p-value), r and the slope
+// corrected for the gauges' measurement error, and the planning of the
+// next run.
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"bivar/analysis/report"
+)
+
+// Measurement fills the verdicts, statements and assumptions of s's
+// Agreement, ErrorCorrection and Plan (those that are set), at the
+// study's alpha.
+func Measurement(s *report.Study, alpha float64) {
+	if a := s.Agreement; a != nil {
+		agreementVerdict(a, s, alpha)
+		// An agreement study answers whether the methods agree: its
+		// verdict on that, when it has one, is the study's headline (a
+		// high r says nothing about it).
+		if f := s.Findings; f != nil && a.Verdict != "" && len(a.Statements) > 0 {
+			f.Headline = a.Statements[0]
+		}
+	}
+	if e := s.ErrorCorrection; e != nil {
+		errorStatements(e, s, alpha)
+	}
+	if p := s.Plan; p != nil {
+		planStatements(p, s)
+	}
+}
+
+// AgreementVerdict returns the verdict on agreement within ±acceptable:
+// report.AgreeWithin when both limits of agreement and their confidence
+// intervals lie inside (−acceptable, +acceptable) — the equivalence
+// statement that 95 % of the differences fall inside, made with the
+// uncertainty of the limits allowed for; report.NotWithin when a limit
+// itself lies outside; report.Undecided when the limits lie inside but the
+// interval of one reaches past ±acceptable (more items would decide); ""
+// when no acceptable difference is declared or a figure is undefined. A
+// limit exactly at ±acceptable counts as inside.
+func AgreementVerdict(a *report.Agreement) report.AgreementVerdict {
+	acc := float64(a.Acceptable)
+	lo, hi := float64(a.Lower), float64(a.Upper)
+	if !a.Acceptable.Valid() || !a.Lower.Valid() || !a.Upper.Valid() {
+		return ""
+	}
+	if lo < -acc || hi > acc {
+		return report.NotWithin
+	}
+	if !a.LowerLow.Valid() || !a.UpperHigh.Valid() || float64(a.LowerLow) < -acc || float64(a.UpperHigh) > acc {
+		return report.Undecided
+	}
+	return report.AgreeWithin
+}
+
+func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
+	u := symbol(s.X)
+	conf := strconv.FormatFloat(100*(1-alpha), 'f', -1, 64) + "%"
+	x, y := label(s.X), label(s.Y)
+	a.Verdict = AgreementVerdict(a)
+	acc := float64(a.Acceptable)
+	lim := func(v float64) string {
+		if a.Acceptable.Valid() {
+			return numVs(v, acc, -acc)
+		}
+		return num(v)
+	}
+	limits := fmt.Sprintf("limits of agreement %s to %s (%s intervals %s to %s and %s to %s)",
+		lim(float64(a.Lower)), withUnitText(lim(float64(a.Upper)), u), conf,
+		lim(float64(a.LowerLow)), lim(float64(a.LowerHigh)), lim(float64(a.UpperLow)), withUnitText(lim(float64(a.UpperHigh)), u))
+	accText := "±" + withUnit(acc, u)
+	var st []string
+	switch a.Verdict {
+	case report.AgreeWithin:
+		st = append(st, fmt.Sprintf("%s and %s agree within %s: 95%% of the differences are expected inside the %s, and the intervals of both limits lie inside %s too.",
+			capital(x), y, accText, limits, accText))
+	case report.NotWithin:
+		st = append(st, fmt.Sprintf("%s and %s do not agree within the acceptable %s: the %s reach beyond it.",
+			capital(x), y, accText, limits))
+	case report.Undecided:
+		st = append(st, fmt.Sprintf("Agreement within %s is not shown: the %s lie inside it, but their intervals reach beyond it; more items would decide.",
+			accText, limits))
+	default:
+		st = append(st, fmt.Sprintf("The %s; no acceptable difference is declared (agreement.acceptable), so no verdict on agreement is given.", limits))
+	}
+	st = append(st, fmt.Sprintf("On average %s reads %s than %s (bias %s, %s interval %s to %s, n = %d).",
+		y, higherLower(float64(a.Bias), u), x, signed(float64(a.Bias)), conf, num(float64(a.BiasLow)), withUnit(float64(a.BiasHigh), u), a.N))
+
+	a.Trend = a.TrendP.Valid() && float64(a.TrendP) < alpha
+	if a.Trend {
+		st = append(st, fmt.Sprintf("The difference changes with the magnitude: it changes by %s per unit of the mean (%s interval %s to %s, %s), so a single bias and pair of limits describe it poorly.",
+			signed(float64(a.TrendSlope)), conf, num(float64(a.TrendLow)), num(float64(a.TrendHigh)), pval(float64(a.TrendP))))
+	}
+	if d := a.Deming; d != nil && d.Slope.Valid() {
+		a.ConstantBias = d.InterceptLow.Valid() && (float64(d.InterceptLow) > 0 || float64(d.InterceptHigh) < 0)
+		a.ProportionalBias = d.SlopeLow.Valid() && (float64(d.SlopeLow) > 1 || float64(d.SlopeHigh) < 1)
+		var bias []string
+		if a.ConstantBias {
+			bias = append(bias, fmt.Sprintf("a constant bias (intercept %s, %s interval %s to %s, excludes 0)", withUnit(float64(d.Intercept), u), conf, num(float64(d.InterceptLow)), num(float64(d.InterceptHigh))))
+		}
+		if a.ProportionalBias {
+			bias = append(bias, fmt.Sprintf("a proportional bias (slope %s, %s interval %s to %s, excludes 1)", num(float64(d.Slope)), conf, num(float64(d.SlopeLow)), num(float64(d.SlopeHigh))))
+		}
+		if len(bias) > 0 {
+			st = append(st, fmt.Sprintf("The Deming line shows %s.", strings.Join(bias, " and ")))
+		} else {
+			st = append(st, fmt.Sprintf("The Deming line shows neither a constant bias (intercept %s, %s interval %s to %s, includes 0) nor a proportional one (slope %s, interval %s to %s, includes 1).",
+				withUnit(float64(d.Intercept), u), conf, num(float64(d.InterceptLow)), num(float64(d.InterceptHigh)), num(float64(d.Slope)), num(float64(d.SlopeLow)), num(float64(d.SlopeHigh))))
+		}
+	}
+	for _, r := range a.Repeatability {
+		who := x
+		if r.Method == "y" {
+			who = y
+		}
+		st = append(st, fmt.Sprintf("Repeatability of %s (%d readings per item): within-item SD %s (%s interval %s to %s); two readings of one item differ by less than %s in 95%% of cases.",
+			who, r.Readings, withUnit(float64(r.SW), u), conf, num(float64(r.SWLow)), num(float64(r.SWHigh)), withUnit(float64(r.Coef), u)))
+	}
+	a.Statements = st
+	a.Assumptions = []string{
+		"The differences are y − x, on the same items; the limits (bias ± 1.96 SD) assume differences of roughly normal distribution with the same spread over the range of the mean (the regression of the difference on the mean checks the latter).",
+		"The intervals of the limits use the approximate standard error of Bland and Altman (1999); the Deming intervals are jackknife intervals (Linnet).",
+	}
+	if d := a.Deming; d != nil {
+		a.Assumptions = append(a.Assumptions, fmt.Sprintf("The Deming line takes the ratio of the methods' error variances as %s (%s).", num(float64(d.Delta)), d.DeltaFrom))
+	}
+	if a.XReadings > 1 || a.YReadings > 1 {
+		a.Assumptions = append(a.Assumptions, "With replicates, the figures use each item's mean reading per method; the limits are those of single readings (Bland and Altman 1999, the SD corrected with the within-item variances).")
+	}
+}
+
+// higherLower says "0.4 HRC higher" or "lower".
+func higherLower(bias float64, u string) string {
+	switch {
+	case math.IsNaN(bias):
+		return "an undefined amount more or less"
+	case bias < 0:
+		return withUnit(-bias, u) + " lower"
+	}
+	return withUnit(bias, u) + " higher"
+}
+
+// signed writes v with its sign: "+2.1", "−2.1".
+func signed(v float64) string {
+	if v > 0 {
+		return "+" + num(v)
+	}
+	return num(v)
+}
+
+// withUnitText appends the unit symbol to an already formatted number.
+func withUnitText(t, u string) string {
+	if u == "" {
+		return t
+	}
+	return t + " " + u
+}
+
+// numVs writes v with three significant digits, or more when fewer would
+// put the printed value on the other side of (or on) a cut point.
+func numVs(v float64, cuts ...float64) string {
+	t := num(v)
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return t
+	}
+	for d := 4; d <= 10; d++ {
+		ok := true
+		for _, c := range cuts {
+			pv, err := strconv.ParseFloat(strings.Replace(t, "−", "-", 1), 64)
+			if err != nil || (pv == c) != (v == c) || (pv < c) != (v < c) {
+				ok = false
+			}
+		}
+		if ok {
+			return t
+		}
+		t = minus(strconv.FormatFloat(v, 'g', d, 64))
+	}
+	return t
+}
+
+func errorStatements(e *report.ErrorCorrection, s *report.Study, alpha float64) {
+	conf := strconv.FormatFloat(100*(1-alpha), 'f', -1, 64) + "%"
+	from := func(what, f string, sd report.Float, sym string) string {
+		switch f {
+		case "declared":
+			return fmt.Sprintf("%s's gauge repeatability SD %s (declared)", what, withUnit(float64(sd), sym))
+		case "replicates":
+			return fmt.Sprintf("%s's gauge repeatability SD %s (from the replicate readings)", what, withUnit(float64(sd), sym))
+		}
+		return what + " taken as measured without error"
+	}
+	var st []string
+	st = append(st, fmt.Sprintf("Corrected for measurement error (%s; %s): r between the true values is %s (%s interval %s to %s) against the observed %s; reliability of x %s, of y %s.",
+		from("x", e.FromX, e.SDErrorX, symbol(s.X)), from("y", e.FromY, e.SDErrorY, symbol(s.Y)),
+		corr(float64(e.RCorrected)), conf, corr(float64(e.RCorrectedLow)), corr(float64(e.RCorrectedHigh)), corr(float64(e.R)),
+		corr(float64(e.ReliabilityX)), corr(float64(e.ReliabilityY))))
+	if e.FromX != "none" {
+		st = append(st, fmt.Sprintf("The slope corrected for regression dilution is %s (%s interval %s to %s) against the observed %s; error in y does not bias the slope.",
+			num(float64(e.SlopeCorrected)), conf, num(float64(e.SlopeCorrectedLow)), num(float64(e.SlopeCorrectedHigh)), num(float64(e.Slope))))
+	} else {
+		st = append(st, "The slope needs no correction: x is taken as measured without error, and error in y does not bias the slope.")
+	}
+	if math.Abs(float64(e.RCorrected)) > 1 {
+		st = append(st, "The corrected r lies beyond ±1: the declared repeatability SDs are larger than these data allow, or the errors are not independent of the true values.")
+	}
+	if !e.RCorrected.Valid() {
+		st = append(st, "The corrected r is undefined: a declared repeatability SD is as large as the observed spread of its variable.")
+	}
+	e.Statements = st
+	e.Assumptions = []string{
+		"Classical errors: each reading is the true value plus an error of constant SD, independent of the true value and of the other variable's error (Spearman's correction for attenuation; the regression-dilution correction divides the slope by x's reliability).",
+		"The repeatability SDs are taken as known: the intervals are the raw intervals divided by the same factors and do not include the uncertainty of the SDs, so they are too narrow when the SDs come from a small repeatability study.",
+	}
+}
+
+func planStatements(p *report.Plan, s *report.Study) {
+	conf := strconv.FormatFloat(100*(1-float64(p.Alpha)), 'f', -1, 64) + "%"
+	need := func(n int) string {
+		if n <= 0 {
+			return "an undefined number of rows"
+		}
+		return fmt.Sprintf("%d %s", n, plural(n, "row", "rows"))
+	}
+	var st []string
+	hw := "the target ±" + corr(float64(p.RHalfWidth))
+	if p.RHalfWidthFrom == "default" {
+		hw += " (the default; set plan.r_half_width)"
+	}
+	if p.NForR > 0 && p.NForR <= p.N {
+		st = append(st, fmt.Sprintf("r's %s interval, ±%s with n = %d, already meets %s (%s would do, if r stays near %s).",
+			conf, corr(float64(p.RHalfWidthNow)), p.N, hw, need(p.NForR), corr(float64(s.Pearson.R))))
+	} else {
+		st = append(st, fmt.Sprintf("For r's %s interval to narrow from ±%s (n = %d) to %s, the next run needs %s, if r stays near %s.",
+			conf, corr(float64(p.RHalfWidthNow)), p.N, hw, need(p.NForR), corr(float64(s.Pearson.R))))
+	}
+	if p.SlopeHalfWidth.Valid() {
+		su := perUnit(symbol(s.Y), symbol(s.X), label(s.X))
+		if !strings.HasPrefix(su, "(") {
+			su = "(" + su + ")"
+		}
+		tgt := "±" + num(float64(p.SlopeHalfWidth))
+		if p.SlopeHalfWidthFrom == "default" {
+			tgt += " (half the present; set plan.slope_half_width)"
+		}
+		st = append(st, fmt.Sprintf("For the slope's %s interval %s to narrow from ±%s to %s, a run needs %s, with the same scatter about the line and the same spread of x.",
+			conf, su, num(float64(p.SlopeHalfWidthNow)), tgt, need(p.NForSlope)))
+	}
+	what := "the observed |r| = " + corr(float64(p.DetectR))
+	if p.DetectRFrom == "declared" {
+		what = "|r| = " + corr(float64(p.DetectR)) + " (plan.smallest_r)"
+	}
+	st = append(st, fmt.Sprintf("To detect %s with power %s by the two-sided test at alpha %s (Fisher z), a run needs %s; this run's %d rows give power %s.",
+		what, num(float64(p.Power)), num(float64(p.Alpha)), need(p.NForPower), p.N, corr(float64(p.PowerNow))))
+	p.Statements = st
+}
+
+// AgreeExpectation evaluates expect.agree on the finished study: want =
+// true holds when the verdict is report.AgreeWithin; want = false holds
+// when it is not (the methods are expected to differ).
+func AgreeExpectation(s *report.Study, want bool) report.Expectation {
+	e := report.Expectation{Name: "agree", Want: strconv.FormatBool(want)}
+	a := s.Agreement
+	switch {
+	case s.Error != nil:
+		e.Got, e.Detail = "not computed", "the study did not run: "+*s.Error
+		return e
+	case a == nil:
+		e.Got, e.Detail = "not computed", "the study has no agreement figures"
+		return e
+	}
+	v := string(a.Verdict)
+	if v == "" {
+		v = "undefined"
+	}
+	e.Got = v
+	e.OK = (a.Verdict == report.AgreeWithin) == want
+	if len(a.Statements) > 0 {
+		e.Detail = a.Statements[0]
+	}
+	return e
+}

@@ -1,0 +1,76 @@
+package findings
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"bivar/analysis/report"
+)
+
+// The figures here are hand-made: the tests check the rules of the
+// verdict and the wording, not a statistic.
+
+func TestAgreementVerdictRules(t *testing.T) {
+	t.Parallel()
+	nan := math.NaN()
+	mk := func(acc, lower, lowerLow, upper, upperHigh float64) *report.Agreement {
+		return &report.Agreement{Acceptable: report.Float(acc), Lower: report.Float(lower), LowerLow: report.Float(lowerLow),
+			Upper: report.Float(upper), UpperHigh: report.Float(upperHigh)}
+	}
+	for _, tc := range []struct {
+		name string
+		a    *report.Agreement
+		want report.AgreementVerdict
+	}{
+		{"all inside", mk(2, -1, -1.5, 1, 1.5), report.AgreeWithin},
+		{"interval ends exactly at the bounds count as inside", mk(2, -1, -2, 1, 2), report.AgreeWithin},
+		{"upper interval reaches past", mk(2, -1, -1.5, 1.8, 2.1), report.Undecided},
+		{"lower interval reaches past", mk(2, -1.9, -2.2, 1, 1.5), report.Undecided},
+		{"upper limit outside", mk(2, -1, -1.5, 2.1, 2.5), report.NotWithin},
+		{"lower limit outside", mk(2, -2.01, -2.5, 1, 1.5), report.NotWithin},
+		{"no acceptable difference", mk(nan, -1, -1.5, 1, 1.5), ""},
+		{"undefined limits", mk(2, nan, nan, nan, nan), ""},
+		{"undefined intervals", mk(2, -1, nan, 1, nan), report.Undecided},
+	} {
+		if got := AgreementVerdict(tc.a); got != tc.want {
+			t.Errorf("%s: AgreementVerdict = %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}
+
+func TestAgreementWords(t *testing.T) {
+	t.Parallel()
+	f := func(v float64) report.Float { return report.Float(v) }
+	s := &report.Study{X: report.Variable{Label: "bench tester", Symbol: "HRC"}, Y: report.Variable{Label: "portable tester", Symbol: "HRC"},
+		Findings: &report.Findings{Headline: "a correlation headline"},
+		Agreement: &report.Agreement{N: 40, Acceptable: f(1.5), Bias: f(0.25), BiasLow: f(0.16), BiasHigh: f(0.34),
+			Lower: f(-0.55), LowerLow: f(-0.78), LowerHigh: f(-0.33), Upper: f(1.4996), UpperLow: f(1.27), UpperHigh: f(1.73),
+			TrendP: f(0.3), Deming: &report.MethodLine{Intercept: f(0.7), InterceptLow: f(0.1), InterceptHigh: f(1.3), Slope: f(0.99), SlopeLow: f(0.97), SlopeHigh: f(1.01), Delta: f(1), DeltaFrom: "assumed 1"}}}
+	Measurement(s, 0.05)
+	a := s.Agreement
+	if a.Verdict != report.Undecided || !a.ConstantBias || a.ProportionalBias || a.Trend {
+		t.Errorf("verdict %q, constant %v, proportional %v, trend %v", a.Verdict, a.ConstantBias, a.ProportionalBias, a.Trend)
+	}
+	// 1.4996 printed with three digits would read 1.5, on the bound: it
+	// gets the digits that keep it inside.
+	if !strings.Contains(a.Statements[0], "1.4996") || strings.Contains(a.Statements[0], "NaN") {
+		t.Errorf("statement %q", a.Statements[0])
+	}
+	if s.Findings.Headline != a.Statements[0] {
+		t.Errorf("headline %q, want the agreement verdict", s.Findings.Headline)
+	}
+	if !strings.Contains(a.Statements[1], "portable tester reads 0.25 HRC higher than bench tester") {
+		t.Errorf("bias sentence %q", a.Statements[1])
+	}
+	if !strings.Contains(strings.Join(a.Statements, " "), "a constant bias (intercept 0.7 HRC") {
+		t.Errorf("no constant-bias sentence in %q", a.Statements)
+	}
+	e := AgreeExpectation(s, true)
+	if e.OK || e.Got != "undecided" {
+		t.Errorf("expect.agree = true on an undecided study: %+v", e)
+	}
+	if e := AgreeExpectation(s, false); !e.OK {
+		t.Errorf("expect.agree = false on an undecided study: %+v", e)
+	}
+}

@@ -1,0 +1,74 @@
+package render_test
+
+import (
+	"bytes"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"bivar/analysis"
+	"bivar/analysis/manifest"
+	"bivar/internal/reference"
+	"bivar/render"
+)
+
+// TestMeasurementSections renders a relationship study with replicate
+// readings (the correction for measurement error and the planning
+// statement) and an agreement study, on Bland & Altman (1986), Table 1,
+// read in place: the sections and both agreement charts appear in both
+// formats, and the renderer shows the findings' sentences as written.
+func TestMeasurementSections(t *testing.T) {
+	file := reference.File(t, "bland-altman-1986-pefr.csv")
+	src := `[[dataset]]
+id = "pefr"
+file = ` + strconv.Quote(file) + `
+units = { wright_1 = "L/min", wright_2 = "L/min", mini_1 = "L/min", mini_2 = "L/min" }
+
+[[study]]
+id = "rel"
+dataset = "pefr"
+x = "mini_1"
+y = "wright_1"
+x_replicates = ["mini_2"]
+y_replicates = ["wright_2"]
+
+[[study]]
+id = "agr"
+dataset = "pefr"
+kind = "agreement"
+x = "mini_1"
+y = "wright_1"
+agreement = { acceptable = 60 }
+`
+	m, err := manifest.Parse("pefr.toml", []byte(src), filepath.Dir(file))
+	if err != nil {
+		t.Fatal(err)
+	}
+	m.Path = ""
+	r, err := analysis.Run(m, analysis.Options{Version: "test"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var md, page bytes.Buffer
+	if err := render.Markdown(&md, r); err != nil {
+		t.Fatal(err)
+	}
+	if err := render.HTML(&page, r); err != nil {
+		t.Fatal(err)
+	}
+	ec, ag := r.Studies[0].ErrorCorrection, r.Studies[1].Agreement
+	for _, want := range []string{"### Corrected for measurement error", ec.Statements[0], ec.Assumptions[0],
+		"### Planning the next run", r.Studies[0].Plan.Statements[0],
+		"### Agreement of the two methods", ag.Statements[0], "agr-agreement.svg", "agr-methods.svg"} {
+		if !strings.Contains(md.String(), want) {
+			t.Errorf("Markdown lacks %q", want)
+		}
+	}
+	html := page.String()
+	for _, want := range []string{`class="measurement-error"`, `class="plan"`, `class="agreement"`, "Difference against mean", "Deming line"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("HTML lacks %q", want)
+		}
+	}
+}

@@ -10,11 +10,9 @@ package stats
 // from canonical positions.
 
 import (
-	"cmp"
 	"math"
 	"math/bits"
 	"math/rand/v2"
-	"slices"
 )
 
 // Sorted is a set of (x, y) pairs in canonical order: ascending x, pairs of
@@ -31,12 +29,10 @@ type Sorted struct {
 	ByY  []int32   // canonical positions in ascending y; tied y by canonical position (so by x)
 }
 
-// NewSorted returns the pairs (x[i], y[i]) in canonical order. A stable
-// LSD radix sort of the positions by x (sortkey.go), then each run of tied
-// x sorted by (tieKey(y), position) (sortTies), give the canonical order; a
-// second radix sort (by y) gives ByY: O(n) time plus O(m log m) for a run
-// of m < sortTiesRadix ties; 24 bytes per pair are kept and 20 more are
-// scratch while it runs.
+// NewSorted returns the pairs (x[i], y[i]) in canonical order. Two stable
+// LSD radix sorts of the positions (sortkey.go: by tieKey(y), then by x) give
+// the canonical order, a third (by y) gives ByY: O(n) time; 24 bytes per
+// pair are kept and 20 more are scratch while it runs.
 //
 // x and y must have equal length and fewer than 2³¹ values (it panics
 // otherwise) and hold no NaN (the caller removes missing values first; the
@@ -50,12 +46,15 @@ func NewSorted(x, y []float64) *Sorted {
 	n := len(x)
 	keys, kbuf := make([]uint64, n), make([]uint64, n)
 	row, ibuf := make([]int32, n), make([]int32, n)
-	for i, v := range x {
-		keys[i] = floatKey(v)
+	for i, v := range y {
+		keys[i] = tieKey(v)
 		row[i] = int32(i)
 	}
 	radixSort(keys, row, kbuf, ibuf)
-	sortTies(keys, row, y, kbuf, ibuf)
+	for k, i := range row {
+		keys[k] = floatKey(x[i])
+	}
+	radixSort(keys, row, kbuf, ibuf)
 	s := &Sorted{X: make([]float64, n), Y: make([]float64, n), Row: row, ByY: make([]int32, n)}
 	for k, i := range row {
 		s.X[k], s.Y[k] = x[i], y[i]
@@ -66,51 +65,6 @@ func NewSorted(x, y []float64) *Sorted {
 	}
 	radixSort(keys, s.ByY, kbuf, ibuf)
 	return s
-}
-
-// sortTiesRadix is the run length from which sortTies sorts a run of tied
-// x by radix sort rather than by comparison (a radix sort's six passes
-// over 2048 buckets cost more than comparisons on shorter runs).
-const sortTiesRadix = 2048
-
-// sortTies orders each run of equal keys (rows of equal x, after a stable
-// sort by x, so in ascending row order) by (tieKey(y), row): the order a
-// stable sort by tieKey(y) followed by a stable sort by x gives, at the
-// cost of the ties only (nothing for x without ties, where a second full
-// radix sort took a sixth of NewSorted's time). kbuf and ibuf are scratch
-// of len(keys); keys of a run are overwritten once the run is found.
-func sortTies(keys []uint64, row []int32, y []float64, kbuf []uint64, ibuf []int32) {
-	type tk struct {
-		k uint64
-		r int32
-	}
-	var small []tk
-	n := len(keys)
-	for a := 0; a < n; {
-		b := a + 1
-		for b < n && keys[b] == keys[a] {
-			b++
-		}
-		switch m := b - a; {
-		case m == 1:
-		case m >= sortTiesRadix:
-			t := kbuf[a:b]
-			for j, r := range row[a:b] {
-				t[j] = tieKey(y[r])
-			}
-			radixSort(t, row[a:b], keys[a:b], ibuf[a:b]) // stable: equal y keep row order
-		default:
-			small = small[:0]
-			for _, r := range row[a:b] {
-				small = append(small, tk{tieKey(y[r]), r})
-			}
-			slices.SortFunc(small, func(u, v tk) int { return cmp.Or(cmp.Compare(u.k, v.k), cmp.Compare(u.r, v.r)) })
-			for j, e := range small {
-				row[a+j] = e.r
-			}
-		}
-		a = b
-	}
 }
 
 // tieKey maps y to a 64-bit key by a bijection of floatKey(y), the

@@ -267,10 +267,9 @@ func TestSortedSample(t *testing.T) {
 	}
 }
 
-// TestNewSortedTies: on x with runs of ties of every length the sort takes
-// a different path for (1, short, ≥ sortTiesRadix), the canonical order is
-// that of a comparison sort by (x, tieKey(y), row), and equal pairs keep
-// their rows' order.
+// TestNewSortedTies: on x with runs of ties of many lengths (1, 2, 3, 40,
+// 2047, 2048, 5000), the canonical order is that of a comparison sort by
+// (x, tieKey(y), row), so equal pairs keep their rows' order.
 func TestNewSortedTies(t *testing.T) {
 	t.Parallel()
 	rng := rand.New(rand.NewPCG(11, 12))

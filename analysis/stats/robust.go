@@ -159,28 +159,22 @@ func slopeHAC(x, y []float64, order []int32, lags int) (slope, se float64) {
 // statsmodels.tsa.stattools.acf(v, nlags=1)[1]); NaN for n < 3 or
 // constant v.
 func Lag1Autocorr(v []float64) float64 {
-	return Lag1AutocorrAt(len(v), func(t int) float64 { return v[t] })
-}
-
-// Lag1AutocorrAt is Lag1Autocorr of the n values at(0), …, at(n−1): a
-// series read through an index (rows in run order) without a copy.
-func Lag1AutocorrAt(n int, at func(t int) float64) float64 {
+	n := len(v)
 	if n < 3 {
 		return math.NaN()
 	}
 	var m float64
-	for t := range n {
-		m += at(t)
+	for _, a := range v {
+		m += a
 	}
 	m /= float64(n)
 	var num, den float64
-	prev := at(0) - m
-	den = prev * prev
-	for t := 1; t < n; t++ {
-		d := at(t) - m
+	for t, a := range v {
+		d := a - m
 		den += d * d
-		num += prev * d
-		prev = d
+		if t+1 < n {
+			num += d * (v[t+1] - m)
+		}
 	}
 	if !(den > 0) {
 		return math.NaN()

@@ -6,7 +6,11 @@ package stats
 // than a comparison sort; NewSorted (sorted.go) sorts a study's pairs with
 // it once for every statistic that needs an order.
 
-import "math"
+import (
+	"math"
+	"runtime"
+	"sync"
+)
 
 // floatKey maps v (not NaN) to a uint64 whose unsigned order is the numeric
 // order of v: flip all bits of a negative number, set the sign bit of a
@@ -33,34 +37,59 @@ func keyFloat(k uint64) float64 {
 	return math.Float64frombits(^k)
 }
 
+// The radix sort's digits: six of 11 bits.
+const (
+	digitBits = 11
+	buckets   = 1 << digitBits
+	digits    = (64 + digitBits - 1) / digitBits
+)
+
+// radixParMin is the number of keys from which radixSort splits its passes
+// over goroutines, and radixWorkers the most it uses.
+const (
+	radixParMin  = 1 << 19
+	radixWorkers = 4
+)
+
 // radixSort sorts keys ascending, applying the same permutation to idx
 // when idx is not nil (len(idx) = len(keys)). It is a stable LSD radix sort
 // (Knuth, TAOCP vol. 3, §5.2.5) with six 11-bit digits: one pass builds all
 // the histograms, and a digit that is the same for every key is skipped.
 // kbuf and ibuf are scratch of the same lengths (ibuf may be nil with idx).
 // The sorted data end up in keys and idx.
+//
+// From radixParMin keys on, each pass is split over up to radixWorkers
+// goroutines: each counts its contiguous share of the keys, the shares'
+// buckets are laid out worker after worker within each bucket, and each
+// scatters its share to its own places, so the sort stays stable and its
+// result is the serial sort's.
 func radixSort(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32) {
-	const (
-		bits    = 11
-		buckets = 1 << bits
-		mask    = buckets - 1
-		digits  = (64 + bits - 1) / bits
-	)
 	n := len(keys)
 	if n < 2 {
 		return
 	}
+	if w := min(runtime.GOMAXPROCS(0), radixWorkers); n >= radixParMin && w > 1 {
+		radixSortPar(keys, idx, kbuf, ibuf, w)
+		return
+	}
+	radixSortSerial(keys, idx, kbuf, ibuf)
+}
+
+// radixSortSerial is radixSort on one goroutine (n ≥ 2).
+func radixSortSerial(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32) {
+	n := len(keys)
+	const mask = buckets - 1
 	var count [digits][buckets]int32
 	for _, k := range keys {
 		for d := 0; d < digits; d++ {
-			count[d][(k>>(bits*d))&mask]++
+			count[d][(k>>(digitBits*d))&mask]++
 		}
 	}
 	src, dst := keys, kbuf[:n]
 	isrc, idst := idx, ibuf
 	for d := 0; d < digits; d++ {
 		c := &count[d]
-		shift := uint(bits * d)
+		shift := uint(digitBits * d)
 		if int(c[(src[0]>>shift)&mask]) == n {
 			continue // every key has this digit
 		}
@@ -108,4 +137,95 @@ func sortedCopy(x []float64) []float64 {
 		out[i] = keyFloat(k)
 	}
 	return out
+}
+
+// radixSortPar is radixSort over w goroutines (see radixSort).
+func radixSortPar(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32, w int) {
+	const mask = buckets - 1
+	n := len(keys)
+	share := func(k int) (lo, hi int) { return k * n / w, (k + 1) * n / w }
+	// Which digits vary (the same for any order of the keys): every
+	// worker's histograms of every digit, summed.
+	all := make([][digits][buckets]int32, w)
+	var wg sync.WaitGroup
+	for k := range w {
+		wg.Go(func() {
+			lo, hi := share(k)
+			c := &all[k]
+			for _, key := range keys[lo:hi] {
+				for d := 0; d < digits; d++ {
+					c[d][(key>>(digitBits*d))&mask]++
+				}
+			}
+		})
+	}
+	wg.Wait()
+	src, dst := keys, kbuf[:n]
+	isrc, idst := idx, ibuf
+	cnt := make([][buckets]int32, w)
+	for d := 0; d < digits; d++ {
+		shift := uint(digitBits * d)
+		b0 := (src[0] >> shift) & mask
+		var total int32
+		for k := range w {
+			total += all[k][d][b0]
+		}
+		if int(total) == n {
+			continue // every key has this digit
+		}
+		// Each worker's histogram of this digit over its current share.
+		for k := range w {
+			wg.Go(func() {
+				lo, hi := share(k)
+				c := &cnt[k]
+				*c = [buckets]int32{}
+				for _, key := range src[lo:hi] {
+					c[(key>>shift)&mask]++
+				}
+			})
+		}
+		wg.Wait()
+		// Places: bucket by bucket, worker after worker within a bucket.
+		var sum int32
+		for b := 0; b < buckets; b++ {
+			for k := range w {
+				c := cnt[k][b]
+				cnt[k][b] = sum
+				sum += c
+			}
+		}
+		for k := range w {
+			wg.Go(func() {
+				lo, hi := share(k)
+				pos := &cnt[k]
+				if isrc == nil {
+					for _, key := range src[lo:hi] {
+						b := (key >> shift) & mask
+						dst[pos[b]] = key
+						pos[b]++
+					}
+					return
+				}
+				for i := lo; i < hi; i++ {
+					key := src[i]
+					b := (key >> shift) & mask
+					p := pos[b]
+					dst[p] = key
+					idst[p] = isrc[i]
+					pos[b]++
+				}
+			})
+		}
+		wg.Wait()
+		src, dst = dst, src
+		if isrc != nil {
+			isrc, idst = idst, isrc
+		}
+	}
+	if &src[0] != &keys[0] {
+		copy(keys, src)
+		if idx != nil {
+			copy(idx, isrc)
+		}
+	}
 }

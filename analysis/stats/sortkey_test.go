@@ -108,3 +108,48 @@ func BenchmarkMergeCount(b *testing.B) {
 		})
 	}
 }
+
+// TestRadixSortParMatchesSerial: the sort split over 2, 3 and 4 goroutines
+// gives the serial sort's keys and index, stable, on 1.5·radixParMin keys
+// with many ties and digits that do not vary (and nil index).
+func TestRadixSortParMatchesSerial(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(10, 10))
+	n := radixParMin + radixParMin/2 + 7
+	base := make([]uint64, n)
+	for i := range base {
+		switch i % 3 {
+		case 0:
+			base[i] = floatKey(math.Round(rng.NormFloat64()*1000) / 1000)
+		case 1:
+			base[i] = uint64(rng.IntN(50)) << 22 // the low two digits never vary
+		default:
+			base[i] = rng.Uint64()
+		}
+	}
+	serial := func() ([]uint64, []int32) {
+		k, ix := slices.Clone(base), make([]int32, n)
+		for i := range ix {
+			ix[i] = int32(i)
+		}
+		// the serial path, forced: one worker
+		radixSortSerial(k, ix, make([]uint64, n), make([]int32, n))
+		return k, ix
+	}
+	wk, wi := serial()
+	for w := 2; w <= 4; w++ {
+		k, ix := slices.Clone(base), make([]int32, n)
+		for i := range ix {
+			ix[i] = int32(i)
+		}
+		radixSortPar(k, ix, make([]uint64, n), make([]int32, n), w)
+		if !slices.Equal(k, wk) || !slices.Equal(ix, wi) {
+			t.Errorf("%d workers: differs from the serial sort", w)
+		}
+		k2 := slices.Clone(base)
+		radixSortPar(k2, nil, make([]uint64, n), nil, w)
+		if !slices.Equal(k2, wk) {
+			t.Errorf("%d workers, no index: differs from the serial sort", w)
+		}
+	}
+}

@@ -57,11 +57,7 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.Line
 		})
 	} else {
 		p.Scatter = grid(x, y, gridNX, gridNY)
-		fitted := make([]float64, n)
-		for i := range fitted {
-			fitted[i] = fittedAt(i)
-		}
-		p.ResidFitted = grid(fitted, resid, gridNX, gridNY)
+		p.ResidFitted = gridAt(n, fittedAt, func(i int) float64 { return resid[i] }, gridNX, gridNY)
 		if cc.order != nil {
 			p.ResidOrder = grid(cc.order, resid, gridNX, gridNY)
 		}
@@ -116,13 +112,19 @@ func levels(g []string) ([]string, []int) {
 // grid counts the rows (u, v) in nx × ny equal cells over their range
 // (report.Grid); a degenerate range gets a cell of width 1 around it.
 func grid(u, v []float64, nx, ny int) *report.Grid {
+	return gridAt(len(u), func(i int) float64 { return u[i] }, func(i int) float64 { return v[i] }, nx, ny)
+}
+
+// gridAt is grid of the n points (u(i), v(i)), for values made row by row
+// (such as the fitted values) that are never stored.
+func gridAt(n int, u, v func(i int) float64, nx, ny int) *report.Grid {
 	g := &report.Grid{NX: nx, NY: ny, Counts: make([]int, nx*ny)}
-	g.XLo, g.XHi = span(u)
-	g.YLo, g.YHi = span(v)
+	g.XLo, g.XHi = spanAt(n, u)
+	g.YLo, g.YHi = spanAt(n, v)
 	sx := float64(nx) / (g.XHi - g.XLo)
 	sy := float64(ny) / (g.YHi - g.YLo)
-	for i := range u {
-		a, b := u[i], v[i]
+	for i := range n {
+		a, b := u(i), v(i)
 		if math.IsNaN(a) || math.IsNaN(b) {
 			continue
 		}
@@ -133,11 +135,12 @@ func grid(u, v []float64, nx, ny int) *report.Grid {
 	return g
 }
 
-// span is the range of the finite values of v, widened to width 1 when
-// they are all equal.
-func span(v []float64) (lo, hi float64) {
+// spanAt is the range of the finite values at(0), …, at(n−1), widened to
+// width 1 when they are all equal.
+func spanAt(n int, at func(i int) float64) (lo, hi float64) {
 	lo, hi = math.Inf(1), math.Inf(-1)
-	for _, a := range v {
+	for i := range n {
+		a := at(i)
 		if a < lo {
 			lo = a
 		}

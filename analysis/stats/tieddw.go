@@ -5,7 +5,6 @@ package stats
 // Clopper–Pearson interval that bounds a Monte Carlo p-value.
 
 import (
-	"cmp"
 	"math"
 	"slices"
 
@@ -44,11 +43,15 @@ func DurbinWatsonTied(key, resid []float64) float64 {
 	if n < 2 || hasNaN(key) || hasNaN(resid) {
 		return math.NaN()
 	}
-	idx := make([]int, n)
-	for i := range idx {
-		idx[i] = i
+	// The rows in order of key: as they are when key never decreases (a
+	// run order listed in order, the usual case: no index, no sort), else
+	// by the radix argsort (O(n); ties in position order, which the block
+	// sums below do not depend on but for rounding).
+	at := func(k int) int { return k }
+	if !slices.IsSorted(key) {
+		idx := stableArgsort(key)
+		at = func(k int) int { return idx[k] }
 	}
-	slices.SortFunc(idx, func(a, b int) int { return cmp.Compare(key[a], key[b]) })
 	var num, den float64
 	for _, e := range resid {
 		den += e * e
@@ -60,14 +63,14 @@ func DurbinWatsonTied(key, resid []float64) float64 {
 	first := true
 	for i := 0; i < n; {
 		j := i + 1
-		for j < n && key[idx[j]] == key[idx[i]] {
+		for j < n && key[at(j)] == key[at(i)] {
 			j++
 		}
 		m := float64(j - i)
 		// Mean and SS of the block by Welford's updates.
 		var mean, ss float64
 		for k := i; k < j; k++ {
-			e := resid[idx[k]]
+			e := resid[at(k)]
 			d := e - mean
 			mean += d / float64(k-i+1)
 			ss += d * (e - mean)

@@ -84,20 +84,6 @@ rowLoop:
 	return xcols, ycols, rows
 }
 
-// rowMeans is the mean of each row over the columns.
-func rowMeans(cols [][]float64, n int) []float64 {
-	out := make([]float64, n)
-	for _, c := range cols {
-		for i, v := range c {
-			out[i] += v
-		}
-	}
-	for i := range out {
-		out[i] /= float64(len(cols))
-	}
-	return out
-}
-
 // agreement computes the agreement of the y method with the x method on
 // the rows' replicate means (see report.Agreement and the functions of
 // stats/agreement.go it calls).
@@ -124,7 +110,7 @@ func agreement(xcols, ycols [][]float64, n int, st manifest.Study, unit string, 
 		a.TrendLow, a.TrendHigh = f(loa.TrendSlope-h), f(loa.TrendSlope+h)
 	}
 
-	xm, ym := rowMeans(xcols, n), rowMeans(ycols, n)
+	xm, ym := stats.RowMeans(xcols, n), stats.RowMeans(ycols, n)
 	delta, from := 1.0, "assumed 1"
 	switch {
 	case st.Agreement != nil && st.Agreement.Delta != nil:

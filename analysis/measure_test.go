@@ -1,9 +1,7 @@
 package analysis_test
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -157,26 +155,7 @@ y_replicates = ["wright_2"]`))
 // pefrColumns reads the PEFR table's columns by name.
 func pefrColumns(t *testing.T) map[string][]float64 {
 	t.Helper()
-	f, err := os.Open(reference.File(t, "bland-altman-1986-pefr.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	out := map[string][]float64{}
-	for _, row := range rows[1:] {
-		for j, name := range rows[0] {
-			v, err := strconv.ParseFloat(row[j], 64)
-			if err != nil {
-				t.Fatal(err)
-			}
-			out[name] = append(out[name], v)
-		}
-	}
-	return out
+	return reference.NumericColumns(t, "bland-altman-1986-pefr.csv")
 }
 
 func TestErrorCorrectionPEFR(t *testing.T) {

@@ -104,7 +104,7 @@ func BlandAltmanReplicates(a, b [][]float64, k, conf float64) LimitsOfAgreement 
 	if len(a) == 0 || len(b) == 0 {
 		return agrLimits(nil, nil, math.NaN(), math.NaN(), math.NaN(), k, conf)
 	}
-	ma, mb := agrRowMeans(a, n), agrRowMeans(b, n)
+	ma, mb := RowMeans(a, n), RowMeans(b, n)
 	d := make([]float64, n)
 	m := make([]float64, n)
 	for i := range d {
@@ -233,8 +233,9 @@ func agrCheckColumns(fn string, sets ...[][]float64) int {
 	return max(n, 0)
 }
 
-// agrRowMeans returns the mean over the columns of each of the n rows.
-func agrRowMeans(cols [][]float64, n int) []float64 {
+// RowMeans returns the mean over the columns of each of the n rows (each
+// column holds n values).
+func RowMeans(cols [][]float64, n int) []float64 {
 	out := make([]float64, n)
 	for _, col := range cols {
 		for i, v := range col {

@@ -9,7 +9,6 @@ package stats
 // hold for any data; (5) edges.
 
 import (
-	"encoding/csv"
 	"encoding/json"
 	"math"
 	"math/rand/v2"
@@ -25,25 +24,7 @@ import (
 // folder: columns wright_1, wright_2, mini_1, mini_2 (l/min).
 func agrPEFR(t testing.TB) map[string][]float64 {
 	t.Helper()
-	f, err := os.Open(reference.File(t, "bland-altman-1986-pefr.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	out := map[string][]float64{}
-	for _, r := range rows[1:] {
-		for j, name := range rows[0] {
-			v, err := strconv.ParseFloat(r[j], 64)
-			if err != nil {
-				t.Fatal(err)
-			}
-			out[name] = append(out[name], v)
-		}
-	}
+	out := reference.NumericColumns(t, "bland-altman-1986-pefr.csv")
 	if len(out["wright_1"]) != 17 {
 		t.Fatalf("PEFR table: %d rows, want 17", len(out["wright_1"]))
 	}

@@ -88,3 +88,33 @@ func Anscombe(t testing.TB) map[string][2][]float64 {
 	}
 	return sets
 }
+
+// NumericColumns reads the reference CSV file name (a header line, then
+// numbers only) and returns its columns by header name, in file order. It
+// fails t on a cell that is not a number, naming the line and column.
+func NumericColumns(t testing.TB, name string) map[string][]float64 {
+	t.Helper()
+	f, err := os.Open(File(t, name))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(recs) < 2 {
+		t.Fatalf("%s: no data lines", name)
+	}
+	out := map[string][]float64{}
+	for i, r := range recs[1:] {
+		for j, col := range recs[0] {
+			v, err := strconv.ParseFloat(r[j], 64)
+			if err != nil {
+				t.Fatalf("%s line %d, column %s: %v", name, i+2, col, err)
+			}
+			out[col] = append(out[col], v)
+		}
+	}
+	return out
+}

@@ -27,12 +27,17 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 	}
 	add := func(name, want string, eval func() (got string, ok bool, detail string)) {
 		if s.Error != nil {
-			out = append(out, report.Expectation{Name: name, Want: want, Got: "not computed", OK: false,
+			out = append(out, report.Expectation{Name: name, Title: ExpectationTitle(name), Want: want, Got: "not computed", OK: false,
 				Detail: "the study did not run: " + *s.Error})
 			return
 		}
 		got, ok, detail := eval()
-		out = append(out, report.Expectation{Name: name, Want: want, Got: got, OK: ok, Detail: detail})
+		out = append(out, report.Expectation{Name: name, Title: ExpectationTitle(name), Want: want, Got: got, OK: ok, Detail: detail})
+	}
+	limits := func(w []float64) {
+		if len(w) == 2 && len(out) > 0 {
+			out[len(out)-1].Limits = &report.Limits{Low: report.Float(w[0]), High: report.Float(w[1])}
+		}
 	}
 	rText := func() string {
 		p := s.Pearson
@@ -79,6 +84,7 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 		add("r_within", interval("r", e.RWithin, ""), func() (string, bool, string) {
 			return within("r", float64(s.Pearson.R), e.RWithin, "", rText())
 		})
+		limits(e.RWithin)
 	}
 	if e.SlopeWithin != nil {
 		u := slopeUnit(s)
@@ -87,6 +93,7 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 			ctx := fmt.Sprintf("slope = %s%s (%s%% CI %s to %s)", num(sl.Estimate), u, confPct(alpha), num(sl.CILow), num(sl.CIHigh))
 			return within("slope", float64(sl.Estimate), e.SlopeWithin, u, ctx)
 		})
+		limits(e.SlopeWithin)
 	}
 	if e.MaxP != nil {
 		want := *e.MaxP
@@ -128,6 +135,30 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 		})
 	}
 	return out
+}
+
+// ExpectationTitle names a gate of [study.expect] in words, for reviewers
+// who do not read the manifest's keys.
+func ExpectationTitle(key string) string {
+	switch key {
+	case "direction":
+		return "direction as expected"
+	case "form":
+		return "shape as expected"
+	case "min_abs_r":
+		return "correlation at least as strong as required"
+	case "r_within":
+		return "correlation within its limits"
+	case "slope_within":
+		return "slope within its limits"
+	case "max_p":
+		return "evidence strong enough (adjusted p small enough)"
+	case "min_n":
+		return "enough complete rows"
+	case "not_outlier_driven":
+		return "not resting on a few unusual rows"
+	}
+	return key
 }
 
 // count writes n with the noun, plural by n: "1 row", "2 rows", "0 rows".

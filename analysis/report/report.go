@@ -683,11 +683,24 @@ type Approximation struct {
 
 // Expectation is one CI gate from [study.expect] and its outcome.
 type Expectation struct {
-	Name   string `json:"name"` // the manifest key: direction, form, min_abs_r, r_within, slope_within, max_p, min_n, not_outlier_driven
+	Name string `json:"name"` // the manifest key: direction, form, min_abs_r, r_within, slope_within, max_p, min_n, not_outlier_driven
+	// Title names the gate in words for reviewers ("slope within its
+	// limits"); the key stays in Name for the manifest's author.
+	Title  string `json:"title,omitempty"`
 	Want   string `json:"want"`
 	Got    string `json:"got"`
 	OK     bool   `json:"ok"`
 	Detail string `json:"detail"`
+	// Limits are the declared [low, high] of r_within and slope_within
+	// (slope in y units per x unit), so that a comparison of two runs can
+	// set a change against them; nil for the other gates.
+	Limits *Limits `json:"limits,omitempty"`
+}
+
+// Limits is a gate's declared range, both ends included.
+type Limits struct {
+	Low  Float `json:"low"`
+	High Float `json:"high"`
 }
 
 // PlotPointsMax is the most rows a Plot carries one by one; above it the

@@ -106,7 +106,7 @@ func TestHTMLStructure(t *testing.T) {
 		}
 	}
 	// Top of the page: title, caution, summary with one row per study, provenance.
-	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "All studies at a glance", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out of each study"} {
+	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "what the pooled verdict alone would hide", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out of each study"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -125,11 +125,12 @@ func TestHTMLStructure(t *testing.T) {
 		last = i
 	}
 	// Per study content of the rich study.
-	for _, want := range []string{"What the data show", "Key figures", "Unusual rows", "How much the result rests on single rows",
-		"Units of measure", "r reads 0.9120 in every row where it could be computed", "Predictions from the line",
-		"Mean response (95% confidence)", "One new row (95% prediction)", "no — not supported", `class="limits limits"`, "What may not be concluded",
-		"Declared expectations", "<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
-		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 1e−300", "The line within each level of Resin lot"} {
+	for _, want := range []string{"What the data show", "The numbers behind it", "Unusual rows", "How much the result rests on single rows",
+		"In other units", "Predictions from the line",
+		"Mean of many rows (95% confidence)", "One new row (95% prediction)", "no — not supported", `class="limits limits"`, "What may not be concluded",
+		"<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
+		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 0.0001", "The line within each level of Resin lot",
+		"Shapes tried against the straight line", "line (baseline)", "Where the data lie", "Off the line: externally studentized residual"} {
 		if !strings.Contains(page, strings.ReplaceAll(strings.ReplaceAll(want, "<", "&lt;"), "&lt;strong>", "<strong>")) && !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -251,14 +252,14 @@ func TestDeterministic(t *testing.T) {
 
 func TestGeneratedOnlyWhenSet(t *testing.T) {
 	r := fixture.Report(fixture.Options{})
-	if p := string(mustHTML(t, r)); strings.Contains(p, "generated") {
+	if p := string(mustHTML(t, r)); strings.Contains(p, " · run ") {
 		t.Error("a date appears although Report.Generated is empty")
 	}
 	r.Generated = "2026-11-30T06:00:00Z"
-	if p := string(mustHTML(t, r)); !strings.Contains(p, "generated 2026-11-30T06:00:00Z") {
+	if p := string(mustHTML(t, r)); !strings.Contains(p, "run 2026-11-30 06:00 UTC") {
 		t.Error("Report.Generated is not shown")
 	}
-	if m := string(mustMD(t, r)); !strings.Contains(m, "generated 2026-11-30T06:00:00Z") {
+	if m := string(mustMD(t, r)); !strings.Contains(m, "run 2026-11-30 06:00 UTC") {
 		t.Error("Report.Generated is not shown in Markdown")
 	}
 }

@@ -485,3 +485,46 @@ func TestDatasetSource(t *testing.T) {
 		}
 	}
 }
+
+// TestFirstScreenAndConventions checks the report's first screen and its
+// number conventions on the fixture: the banner names each failed gate and
+// links to an anchor that exists; the caution stands in the printed
+// footer; one minus sign (the hyphen-minus) in both formats; no
+// exponent-form p-value; a shape's turning point far from the data is not
+// printed; fits of ln(y) are not compared with the line.
+func TestFirstScreenAndConventions(t *testing.T) {
+	r := fixture.Report(fixture.Options{})
+	page, md := string(mustHTML(t, r)), string(mustMD(t, r))
+	banner := regexp.MustCompile(`<div class="gate-banner" role="alert">.*?</div>`).FindString(page)
+	if banner == "" {
+		t.Fatal("no banner although a gate failed")
+	}
+	for _, m := range regexp.MustCompile(`href="#([^"]+)"`).FindAllStringSubmatch(banner, -1) {
+		if !strings.Contains(page, `id="`+m[1]+`"`) {
+			t.Errorf("the banner links to #%s, which no element carries", m[1])
+		}
+	}
+	if !strings.Contains(md, "CI gate failed") {
+		t.Error("report.md has no line naming the failed gate")
+	}
+	if !strings.Contains(page, "@bottom-left { content: "+cssString(r.Caution)) {
+		t.Error("the caution is not in the printed pages' footer")
+	}
+	for name, out := range map[string]string{"report.html": page, "report.md": md} {
+		if strings.Contains(out, "−") {
+			t.Errorf("%s holds the minus sign U+2212: one convention per output, the hyphen-minus", name)
+		}
+		if m := regexp.MustCompile(`p = [0-9.]+e-`).FindString(out); m != "" {
+			t.Errorf("%s prints a p-value in exponent form: %q", name, m)
+		}
+	}
+	// The fixture's quadratic turns at 44.4, near its data; then far out.
+	if !strings.Contains(md, "turns at x = 44.40 kN") {
+		t.Error("a turning point near the data is not printed")
+	}
+	r.Studies[0].Models[0].VertexNear = false
+	md = string(mustMD(t, r))
+	if !strings.Contains(md, "turns far outside the data") || strings.Contains(md, "turns at x = ") {
+		t.Error("a turning point far from the data is printed as if it meant something")
+	}
+}

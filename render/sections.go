@@ -241,7 +241,7 @@ var shapeMeaning = map[string]string{
 // only where the shape was fitted to y itself (the analysis marks which).
 func shapesTable(s *report.Study) table {
 	t := table{Caption: "Shapes tried against the straight line (fits of ln(y) are on another scale: not compared)",
-		Head: []string{"Shape", "Meaning", "Scatter about it", "Scatter removed", "AIC − line", "Coefficients"},
+		Head: []string{"Shape", "Meaning", "Scatter about it", "Scatter removed", "AIC against line", "Coefficients"},
 		Num:  []bool{false, false, true, true, true, false}}
 	coefs := func(m report.Fit) string {
 		var cs []string

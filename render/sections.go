@@ -381,12 +381,16 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		}
 		t.Rows = append(t.Rows, []string{fmt.Sprintf("Without all %d flagged rows", se.NFlagged), rw, num(se.SlopeWithoutFlagged), num(se.InterceptWithout)})
 	}
-	method := "resistant line"
-	if s.Diagnostics != nil && s.Diagnostics.Resistant != nil {
-		method = "Resistant line, " + methodName(s.Diagnostics.Resistant.Method)
+	// With no row named or flagged the table would repeat the line (and
+	// the resistant slope stands in the numbers above): only the sentence.
+	if len(t.Rows) > 1 {
+		method := "resistant line"
+		if s.Diagnostics != nil && s.Diagnostics.Resistant != nil {
+			method = "Resistant line, " + methodName(s.Diagnostics.Resistant.Method)
+		}
+		t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
+		sec.Tables = append(sec.Tables, t)
 	}
-	t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
-	sec.Tables = append(sec.Tables, t)
 	sec.After = append(sec.After, fmt.Sprintf("Leaving out one row at a time, r ranges from %s%s to %s%s and the slope from %s to %s.",
 		num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), num(se.LooSlopeMax)))
 	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() {

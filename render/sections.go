@@ -220,6 +220,14 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 	return sec, nil
 }
 
+// paren is " (unit)", or "" without a unit.
+func paren(u string) string {
+	if u == "" {
+		return ""
+	}
+	return " (" + u + ")"
+}
+
 func orWord(sym, word string) string {
 	if sym == "" {
 		return word
@@ -450,12 +458,22 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 			undefined++
 		}
 	}
-	sec.Tables = append(sec.Tables, t)
+	// Without other units declared the table holds only the declared
+	// units and the swapped axes: one sentence says what it would.
+	other := false
+	for _, u := range s.UnitInvariance {
+		other = other || (!u.Swapped && (u.XUnit != s.X.Unit || u.YUnit != s.Y.Unit))
+	}
 	same := len(rs) > 0
 	for _, r := range rs {
 		same = same && r == rs[0]
 	}
+	if other || !same {
+		sec.Tables = append(sec.Tables, t)
+	}
 	switch {
+	case same && len(rs) > 1 && !other:
+		sec.After = append(sec.After, fmt.Sprintf("r is %s also with the axes swapped (results.json holds the swapped slope and intercept).", rs[0]))
 	case same && len(rs) > 1:
 		sec.After = append(sec.After, fmt.Sprintf("r is %s in every unit and with the axes swapped; slope and intercept change with the units, as they must.", rs[0]))
 	case same:
@@ -499,7 +517,7 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 	}
 	sec := &section{Key: "predictions", Title: "Predictions from the line"}
 	t := table{Caption: fmt.Sprintf("%s at chosen values of %s", chart.InUnit(s.Y), chart.InUnit(s.X)),
-		Head: []string{withUnit(s.X), "Line's value (" + orWord(s.Y.Symbol, "y units") + ")", "Mean of many rows (" + level + "% confidence)", "One new row (" + level + "% prediction)", "Within observed range"},
+		Head: []string{"x" + paren(s.X.Symbol), "Line" + paren(s.Y.Symbol), "Mean of many rows, " + level + "%", "One new row, " + level + "%", "Inside the data"},
 		Num:  []bool{true, true, true, true, false}}
 	for _, p := range s.Predictions {
 		in := "yes"

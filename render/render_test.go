@@ -99,8 +99,8 @@ func TestHTMLStructure(t *testing.T) {
 	if strings.Contains(page, " style=") {
 		t.Error("an inline style attribute would be blocked by the CSP")
 	}
-	// Print: page breaks between studies, figures not split, a running header.
-	for _, want := range []string{"break-before: page", "break-inside: avoid", "@top-left { content: \"Invented demo", "@media print"} {
+	// Print: a study's heading never left at a page's foot, figures not split, a running header.
+	for _, want := range []string{".study > header { break-after: avoid", "break-inside: avoid", "@top-left { content: \"Invented demo", "@media print"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("print CSS lacks %q", want)
 		}

@@ -127,7 +127,7 @@ func TestHTMLStructure(t *testing.T) {
 	// Per study content of the rich study.
 	for _, want := range []string{"What the data show", "The numbers behind it", "Unusual rows", "How much the result rests on single rows",
 		"In other units", "Predictions from the line",
-		"Mean of many rows (95% confidence)", "One new row (95% prediction)", "no — not supported", `class="limits limits"`, "What may not be concluded",
+		"Mean of many rows, 95%", "One new row, 95%", "no — not supported", `class="limits limits"`, "What may not be concluded",
 		"<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
 		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 0.0001", "The line within each level of Resin lot",
 		"Shapes tried against the straight line", "line (baseline)", "Where the data lie", "Off the line: externally studentized residual"} {

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
@@ -99,10 +100,22 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 		want := *e.MaxP
 		add("max_p", "adjusted p ≤ "+num(report.Float(want)), func() (string, bool, string) {
 			pa := s.Pearson.PAdjusted
-			got := "adjusted p = " + pnum(pa)
-			how := fmt.Sprintf("Pearson's p = %s; adjusted across the manifest's studies by %s: %s", pnum(s.Pearson.P), adjustName(adjust), pnum(pa))
+			// Below 0.0001 p is written "< 0.0001", unless the gate's own
+			// bound lies lower: then "< bound" or the value, so the reader
+			// can still see which side of it p is.
+			pg := func(p report.Float) string {
+				if p.Valid() && float64(p) < 1e-4 && want < 1e-4 {
+					if float64(p) < want {
+						return "< " + num(report.Float(want))
+					}
+					return "= " + strconv.FormatFloat(float64(p), 'g', 3, 64)
+				}
+				return pIs(p)
+			}
+			got := "adjusted p " + pg(pa)
+			how := fmt.Sprintf("Pearson's p %s; adjusted across the manifest's studies by %s: %s", pg(s.Pearson.P), adjustName(adjust), pg(pa))
 			if adjust == "none" {
-				how = fmt.Sprintf("Pearson's p = %s (the manifest adjusts nothing across studies)", pnum(pa))
+				how = fmt.Sprintf("Pearson's p %s (the manifest adjusts nothing across studies)", pg(pa))
 			}
 			if pa.Valid() && float64(pa) <= want {
 				return got, true, fmt.Sprintf("%s, at or below %s", how, num(report.Float(want)))
@@ -253,13 +266,23 @@ func num(f report.Float) string {
 	return strconv.FormatFloat(float64(f), 'g', 4, 64)
 }
 
-// pnum formats a p-value; below the smallest float64 it says "< 1e-300".
+// pnum formats a p-value: "< 0.0001" below 0.0001 (results.json keeps
+// the exact value in the study's figures), else three significant digits.
 func pnum(f report.Float) string {
 	if !f.Valid() {
 		return "undefined"
 	}
-	if f < 1e-300 {
-		return "< 1e-300"
+	if f < 1e-4 {
+		return "< 0.0001"
 	}
 	return strconv.FormatFloat(float64(f), 'g', 3, 64)
+}
+
+// pIs is a p-value after "p": "= 0.0123" or "< 0.0001".
+func pIs(f report.Float) string {
+	s := pnum(f)
+	if strings.HasPrefix(s, "<") || s == "undefined" {
+		return s
+	}
+	return "= " + s
 }

@@ -248,18 +248,11 @@ var shapeMeaning = map[string]string{
 // line, by how much of the line's scatter each removes and by AIC, both
 // only where the shape was fitted to y itself (the analysis marks which).
 func shapesTable(s *report.Study) table {
-	t := table{Caption: "Shapes tried against the straight line (fits of ln(y) are on another scale: not compared)",
-		Head: []string{"Shape", "Meaning", "Scatter about it", "Scatter removed", "AIC against line", "Coefficients"},
-		Num:  []bool{false, false, true, true, true, false}}
-	coefs := func(m report.Fit) string {
-		var cs []string
-		for _, c := range m.Coefficients {
-			cs = append(cs, strings.NewReplacer("^2", "²", "^3", "³").Replace(c.Name)+" "+num(c.Estimate))
-		}
-		return strings.Join(cs, "; ")
-	}
+	t := table{Caption: "Shapes tried against the straight line: scatter removed is the share of the line's residual sum of squares the shape removes (negative: it scatters more); a lower AIC fits better for its coefficients. Fits of ln(y) are on another scale and not compared; every coefficient is in results.json",
+		Head: []string{"Shape", "Meaning", "Scatter about it", "Scatter removed", "AIC against line"},
+		Num:  []bool{false, false, true, true, true}}
 	if l := s.Line; l != nil && len(s.Models) > 0 {
-		t.Rows = append(t.Rows, []string{"line (baseline)", shapeMeaning["line"], inY(s, l.ResidualSE), "—", "—", coefs(*l)})
+		t.Rows = append(t.Rows, []string{"line (baseline)", shapeMeaning["line"], inY(s, l.ResidualSE), "—", "—"})
 	}
 	for _, m := range s.Models {
 		if m.Name == "line" {
@@ -269,14 +262,14 @@ func shapesTable(s *report.Study) table {
 		if m.YScale == "ln(y)" {
 			scatter, share, aic = num(m.ResidualSE)+" in ln(y)", "—", "—"
 		}
-		c := coefs(m)
+		meaning := shapeMeaning[m.Name]
 		switch {
 		case m.Vertex.Valid() && m.VertexNear:
-			c += "; turns at x = " + withSym(num(m.Vertex), s.X.Symbol)
+			meaning = "bends; turns at x = " + withSym(num(m.Vertex), s.X.Symbol)
 		case m.Vertex.Valid():
-			c += "; turns far outside the data"
+			meaning = "bends; turns far outside the data"
 		}
-		t.Rows = append(t.Rows, []string{m.Name, shapeMeaning[m.Name], scatter, share, aic, c})
+		t.Rows = append(t.Rows, []string{m.Name, meaning, scatter, share, aic})
 	}
 	if len(t.Rows) < 2 {
 		t.Rows = nil
@@ -551,7 +544,9 @@ func approximationsSection(s *report.Study, _ string, _ report.Thresholds) (*sec
 // statedOnce are the openings of the findings' limits that say the same
 // for every study they apply to; the appendix states them once and each
 // study's "Not checked" line names which apply.
-var statedOnce = []string{"No covariates were declared", "No grouping variable", "No run order was declared", "The checks of "}
+var statedOnce = []string{"No covariates were declared", "No grouping variable", "No run order was declared", "The checks of ",
+	// and those that only say a check found nothing, as the numbers table does
+	"Drift in run order is not shown", "The p-values and intervals in this report assume independent rows; in run order the residuals do not clearly hang together"}
 
 func limitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
 	if s.Findings == nil || len(s.Findings.Limits) == 0 {

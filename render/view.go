@@ -536,6 +536,9 @@ func summaryLine(s *report.Study, link string) summaryRow {
 	if row.Slope != "" {
 		row.Slope = strings.Replace(row.Slope, "(CI ", "(", 1)
 	}
+	if s.Findings != nil && s.Findings.TurnsOver {
+		row.Slope = "none: the curve turns over"
+	}
 	row.Flags = "none"
 	if s.Influence != nil && s.Influence.Counts.Suspect > 0 {
 		row.Flags = itoa(s.Influence.Counts.Suspect)

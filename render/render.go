@@ -140,7 +140,7 @@ func newConfig(opts []Option) (*config, error) {
 // (A4 or Letter: the layout fits both).
 // The caution stands in every printed page's footer.
 func pageCSS(theme, title, caution string) string {
-	return theme + "\n@page {\n  size: portrait;\n  margin: 18mm 14mm 20mm;\n" +
+	return theme + "\n@page {\n  size: portrait;\n  margin: 14mm 12mm 17mm;\n" +
 		"  @top-left { content: " + cssString(title) + "; font: 8pt sans-serif; color: #444444; }\n" +
 		"  @top-right { content: \"bivar report\"; font: 8pt sans-serif; color: #444444; }\n" +
 		"  @bottom-left { content: " + cssString(caution) + "; font: 6.5pt sans-serif; color: #444444; width: 80%; }\n" +

@@ -334,12 +334,10 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 		if c.Suspect > len(in.Points) {
 			caption = fmt.Sprintf("The first %d of %d rows flagged outlier, influential or sole support, largest Cook's distance first", len(in.Points), c.Suspect)
 		}
-		t := table{Caption: caption,
-			Head: []string{"Row", withUnit(s.X), withUnit(s.Y),
-				"Off the line: externally studentized residual (flag beyond ±" + num(in.Rules.Outlier) + ")",
-				"Pull on the line: Cook's distance (flag above " + num(in.Rules.CooksD) + ")",
-				"Reach in x: leverage (flag above " + num(in.Rules.Leverage) + ")", "Why flagged"},
-			Num: []bool{false, true, true, true, true, true, false}}
+		t := table{Caption: fmt.Sprintf("%s. Off the line: externally studentized residual, flagged beyond ±%s; pull on the line: Cook's distance, flagged above %s; reach in x: leverage, flagged above %s",
+			caption, num(in.Rules.Outlier), num(in.Rules.CooksD), num(in.Rules.Leverage)),
+			Head: []string{"Row", "x" + paren(s.X.Symbol), "y" + paren(s.Y.Symbol), "Off the line", "Pull on the line", "Reach in x", "Why flagged"},
+			Num:  []bool{false, true, true, true, true, true, false}}
 		for _, pt := range in.Points {
 			t.Rows = append(t.Rows, []string{pt.Row, num(pt.X), num(pt.Y), num(pt.StudentizedExt),
 				num(pt.CooksD), num(pt.Leverage), strings.Join(pt.Flags, ", ")})
@@ -352,7 +350,6 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 	if in.File != "" {
 		sec.After = append(sec.After, fmt.Sprintf("Every flagged row (%d), with all its measures, is listed in %s beside this report.", in.FileRows, in.File))
 	}
-	sec.After = append(sec.After, "The flag rules in force for this study, with their cut points, are stated under \"What the data show\".")
 	return sec, nil
 }
 

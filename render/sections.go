@@ -142,7 +142,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 	per := unitPer(s)
 	if l := s.Line; l != nil && l.Slope != nil {
 		add("How much does y change per "+orWord(s.X.Symbol, "unit of x")+"?", withSym(num(l.Slope.Estimate), per), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P),
-			"slope (SE "+num(l.Slope.SE)+")")
+			"slope (SE "+withSym(num(l.Slope.SE), per)+")")
 		if rb, f := s.Robust, s.Findings; rb != nil && f != nil {
 			if rb.HAC != nil && f.Autocorrelated {
 				add("… allowing for rows that hang together in run order", "", interval(rb.HAC.CILow, rb.HAC.CIHigh), pval(rb.HAC.P),

@@ -224,7 +224,7 @@ func atXSentence(sc *StudyChange) string {
 	xu, yu := unitSuffix(sc.XSymbol), unitSuffix(sc.YSymbol)
 	var parts []string
 	for _, a := range sc.AtX {
-		p := fmt.Sprintf("at %s%s the line gives %s%s instead of %s (%s ± %s)", g4(a.X), xu, g4(a.New), yu, g4(a.Old), signed4(a.Delta), g4(a.SE))
+		p := fmt.Sprintf("at %s%s the line gives %s%s instead of %s%s (%s%s ± %s%s)", g4(a.X), xu, g4(a.New), yu, g4(a.Old), yu, signed4(a.Delta), yu, g4(a.SE), yu)
 		if !a.InRange {
 			p += ", outside the observed range"
 		}

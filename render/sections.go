@@ -462,8 +462,10 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		sec.Tables = append(sec.Tables, t)
 	}
 	switch {
-	case same && len(rs) > 1 && !other:
-		sec.After = append(sec.After, fmt.Sprintf("r is %s also with the axes swapped (results.json holds the swapped slope and intercept).", rs[0]))
+	case same && !other:
+		// Only the swapped axes, which change nothing a reviewer reads:
+		// results.json keeps them.
+		return nil, nil
 	case same && len(rs) > 1:
 		sec.After = append(sec.After, fmt.Sprintf("r is %s in every unit and with the axes swapped; slope and intercept change with the units, as they must.", rs[0]))
 	case same:
@@ -520,7 +522,6 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 		t.Classes = append(t.Classes, cls)
 	}
 	sec.Tables = append(sec.Tables, t)
-	sec.After = append(sec.After, "The confidence interval is for the mean of "+name(s.Y)+" at that x; the prediction interval is for one new row and is always wider. Outside the observed range of "+name(s.X)+" the line has no support in these data.")
 	return sec, nil
 }
 

@@ -172,34 +172,9 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 	if sp, k := s.Spearman, s.Kendall; sp != nil && k != nil {
 		add("Do the ranks agree?", num(sp.Rho)+"; "+num(k.TauB), "", pval(sp.P), "Spearman ρ; Kendall τ-b")
 	}
-	if f, d := s.Findings, s.Diagnostics; f != nil && d != nil {
-		bends := yesNo(f.Form == "curved")
-		if f.Form == "nonlinear" {
-			bends = "Not as a parabola"
-		}
-		add("Does the line bend?", bends, "", pval(d.QuadraticP), "x² term")
-		if lf := d.LackOfFit; lf != nil {
-			c := checkOf(s, "lack-of-fit")
-			add("Do repeated settings' means stray from it?", yesNo(c != nil && c.Raised), "", pval(lf.P), fmt.Sprintf("lack of fit, F(%d, %d)", lf.DF1, lf.DF2))
-		}
-		if dc := d.DistanceCorr; dc != nil {
-			dcp := pval(dc.P)
-			if dc.MCError.Valid() {
-				dcp += " ± " + sig(float64(dc.MCError), 2)
-			}
-			add("Is there a dependence of any shape?", num(dc.DCor), "", dcp, "distance correlation")
-		}
-		if bp := d.BreuschPagan; bp != nil {
-			add("Does the scatter widen or narrow as x grows?", yesNo(f.SpreadChanges), "", pval(bp.P), "Breusch–Pagan")
-		}
-		if s.Order != "" {
-			p := ""
-			if c := checkOf(s, "drift"); c != nil {
-				p = pval(c.PAdjusted)
-			}
-			add("Does the line drift in run order?", yesNo(f.Drift), "", p, "Durbin–Watson "+num(d.DurbinWatson)+", residual trend")
-		}
-	}
+	// The screening questions (bend, lack of fit, other shapes, scatter,
+	// drift) stand once for all studies in the checks table under the
+	// summary (checksTable).
 	sec.Tables = append(sec.Tables, t)
 	if mt := shapesTable(s); len(mt.Rows) > 0 {
 		sec.Tables = append(sec.Tables, mt)
@@ -608,4 +583,55 @@ func notesSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 // "theil-sen (exact)" becomes "Theil–Sen (exact)", as the prose has it.
 func methodName(m string) string {
 	return strings.Replace(m, "theil-sen", "Theil–Sen", 1)
+}
+
+// answer is a screening question's answer with its p: "No (p 0.873)".
+func answer(yes bool, p report.Float) string {
+	a := yesNo(yes)
+	if p.Valid() {
+		a += " (p " + pval(p) + ")"
+	}
+	return a
+}
+
+// checksTable answers the screening questions of every study in one
+// table: the verdicts are the findings', the p-values the analysis's.
+func checksTable(studies []report.Study, anchors []string) table {
+	t := table{Caption: "The checks of every study, each a plain question; the term after it names the test (see the glossary). Each check's p is after Holm's adjustment over the study's checks, where it takes part in it",
+		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings' means stray from it? (lack of fit)", "How strong is the dependence of any shape? (distance correlation, 0 to 1)", "Does the scatter change with x? (Breusch–Pagan)", "Drift in run order? (Durbin–Watson, trend)"},
+		Num:  []bool{false, false, false, false, false, false}}
+	for i := range studies {
+		s := &studies[i]
+		f, d := s.Findings, s.Diagnostics
+		if s.Error != nil || f == nil || d == nil {
+			continue
+		}
+		row := []string{s.ID, "not checked", "no repeated settings", "not checked", "not checked", "no run order declared"}
+		if c := checkOf(s, "curvature"); c != nil {
+			row[1] = answer(f.Form == "curved", c.PAdjusted)
+		} else if d.QuadraticP.Valid() {
+			row[1] = answer(f.Form == "curved", d.QuadraticP)
+		}
+		if f.Form == "nonlinear" {
+			row[1] = "Not as a parabola"
+		}
+		if c := checkOf(s, "lack-of-fit"); c != nil {
+			row[2] = answer(c.Raised, c.PAdjusted)
+		}
+		if dc := d.DistanceCorr; dc != nil {
+			row[3] = num(dc.DCor) + " (p " + pval(dc.P) + ")"
+			if f.Form == "nonlinear" {
+				row[3] += ": a shape the line misses"
+			}
+		}
+		if c := checkOf(s, "changing-spread"); c != nil {
+			row[4] = answer(f.SpreadChanges, c.PAdjusted)
+		}
+		if c := checkOf(s, "drift"); c != nil {
+			row[5] = answer(f.Drift, c.PAdjusted) + ", DW " + num(d.DurbinWatson)
+		}
+		t.Rows = append(t.Rows, row)
+		t.Links = append(t.Links, "study-"+anchors[i])
+	}
+	return t
 }

@@ -27,6 +27,7 @@ type page struct {
 	Excluded   table
 	LeftOut    table // rows left out on purpose (exclude), each with its reason
 	Summary    summary
+	Checks     table // the screening questions of every study, answered
 	Studies    []*studyView
 	Thresholds string
 	// RunDate is the run's date and time in UTC, "" when the Report has
@@ -321,6 +322,9 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 			}
 		}
 		p.Summary.Rows = append(p.Summary.Rows, summaryLine(s, "study-"+anchors[i]))
+		if i == len(r.Studies)-1 {
+			p.Checks = checksTable(r.Studies, anchors)
+		}
 		sv, err := buildStudy(s, anchors[i], i, p.Level, cfg, th)
 		if err != nil {
 			return nil, err

@@ -504,6 +504,9 @@ func TestFirstScreenAndConventions(t *testing.T) {
 			t.Errorf("the banner links to #%s, which no element carries", m[1])
 		}
 	}
+	if !strings.Contains(page, "Does the line bend? (x² term)") || !strings.Contains(md, "Does the line bend? (x² term)") {
+		t.Error("no table of every study's checks under the summary")
+	}
 	if !strings.Contains(md, "CI gate failed") {
 		t.Error("report.md has no line naming the failed gate")
 	}

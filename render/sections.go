@@ -45,8 +45,17 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		form += " (" + strings.ReplaceAll(*f.Bend, "-", " ") + ")"
 	}
 	why("Form", f.FormWhy, form)
-	why("Direction", f.DirectionWhy, f.Direction)
-	why("Strength", f.StrengthWhy, f.Strength)
+	// A plain direction and strength are what the headline above says,
+	// with r and its interval; their reasons (r against alpha and the cut
+	// points of the appendix) stay in results.json. A direction or
+	// strength that needs its reason (none shown, a curve that turns
+	// over, a curve's own strength) keeps it here.
+	if (f.Direction != "positive" && f.Direction != "negative") || f.TurnsOver || f.Headline == "" {
+		why("Direction", f.DirectionWhy, f.Direction)
+	}
+	if f.Strength == "none" || f.CurveStrength != "" || f.Headline == "" {
+		why("Strength", f.StrengthWhy, f.Strength)
+	}
 	if f.Reasons != nil {
 		for _, r := range f.Reasons {
 			why(r.Topic, r.Why, r.Verdict)

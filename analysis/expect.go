@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
@@ -27,12 +28,17 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 	}
 	add := func(name, want string, eval func() (got string, ok bool, detail string)) {
 		if s.Error != nil {
-			out = append(out, report.Expectation{Name: name, Want: want, Got: "not computed", OK: false,
+			out = append(out, report.Expectation{Name: name, Title: ExpectationTitle(name), Want: want, Got: "not computed", OK: false,
 				Detail: "the study did not run: " + *s.Error})
 			return
 		}
 		got, ok, detail := eval()
-		out = append(out, report.Expectation{Name: name, Want: want, Got: got, OK: ok, Detail: detail})
+		out = append(out, report.Expectation{Name: name, Title: ExpectationTitle(name), Want: want, Got: got, OK: ok, Detail: detail})
+	}
+	limits := func(w []float64) {
+		if len(w) == 2 && len(out) > 0 {
+			out[len(out)-1].Limits = &report.Limits{Low: report.Float(w[0]), High: report.Float(w[1])}
+		}
 	}
 	rText := func() string {
 		p := s.Pearson
@@ -79,6 +85,7 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 		add("r_within", interval("r", e.RWithin, ""), func() (string, bool, string) {
 			return within("r", float64(s.Pearson.R), e.RWithin, "", rText())
 		})
+		limits(e.RWithin)
 	}
 	if e.SlopeWithin != nil {
 		u := slopeUnit(s)
@@ -87,15 +94,28 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 			ctx := fmt.Sprintf("slope = %s%s (%s%% CI %s to %s)", num(sl.Estimate), u, confPct(alpha), num(sl.CILow), num(sl.CIHigh))
 			return within("slope", float64(sl.Estimate), e.SlopeWithin, u, ctx)
 		})
+		limits(e.SlopeWithin)
 	}
 	if e.MaxP != nil {
 		want := *e.MaxP
 		add("max_p", "adjusted p ≤ "+num(report.Float(want)), func() (string, bool, string) {
 			pa := s.Pearson.PAdjusted
-			got := "adjusted p = " + pnum(pa)
-			how := fmt.Sprintf("Pearson's p = %s; adjusted across the manifest's studies by %s: %s", pnum(s.Pearson.P), adjustName(adjust), pnum(pa))
+			// Below 0.0001 p is written "< 0.0001", unless the gate's own
+			// bound lies lower: then "< bound" or the value, so the reader
+			// can still see which side of it p is.
+			pg := func(p report.Float) string {
+				if p.Valid() && float64(p) < 1e-4 && want < 1e-4 {
+					if float64(p) < want {
+						return "< " + num(report.Float(want))
+					}
+					return "= " + strconv.FormatFloat(float64(p), 'g', 3, 64)
+				}
+				return pIs(p)
+			}
+			got := "adjusted p " + pg(pa)
+			how := fmt.Sprintf("Pearson's p %s; adjusted across the manifest's studies by %s: %s", pg(s.Pearson.P), adjustName(adjust), pg(pa))
 			if adjust == "none" {
-				how = fmt.Sprintf("Pearson's p = %s (the manifest adjusts nothing across studies)", pnum(pa))
+				how = fmt.Sprintf("Pearson's p %s (the manifest adjusts nothing across studies)", pg(pa))
 			}
 			if pa.Valid() && float64(pa) <= want {
 				return got, true, fmt.Sprintf("%s, at or below %s", how, num(report.Float(want)))
@@ -128,6 +148,30 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 		})
 	}
 	return out
+}
+
+// ExpectationTitle names a gate of [study.expect] in words, for reviewers
+// who do not read the manifest's keys.
+func ExpectationTitle(key string) string {
+	switch key {
+	case "direction":
+		return "direction as expected"
+	case "form":
+		return "shape as expected"
+	case "min_abs_r":
+		return "correlation at least as strong as required"
+	case "r_within":
+		return "correlation within its limits"
+	case "slope_within":
+		return "slope within its limits"
+	case "max_p":
+		return "evidence strong enough (adjusted p small enough)"
+	case "min_n":
+		return "enough complete rows"
+	case "not_outlier_driven":
+		return "not resting on a few unusual rows"
+	}
+	return key
 }
 
 // count writes n with the noun, plural by n: "1 row", "2 rows", "0 rows".
@@ -222,13 +266,23 @@ func num(f report.Float) string {
 	return strconv.FormatFloat(float64(f), 'g', 4, 64)
 }
 
-// pnum formats a p-value; below the smallest float64 it says "< 1e-300".
+// pnum formats a p-value: "< 0.0001" below 0.0001 (results.json keeps
+// the exact value in the study's figures), else three significant digits.
 func pnum(f report.Float) string {
 	if !f.Valid() {
 		return "undefined"
 	}
-	if f < 1e-300 {
-		return "< 1e-300"
+	if f < 1e-4 {
+		return "< 0.0001"
 	}
 	return strconv.FormatFloat(float64(f), 'g', 3, 64)
+}
+
+// pIs is a p-value after "p": "= 0.0123" or "< 0.0001".
+func pIs(f report.Float) string {
+	s := pnum(f)
+	if strings.HasPrefix(s, "<") || s == "undefined" {
+		return s
+	}
+	return "= " + s
 }

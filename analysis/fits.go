@@ -29,7 +29,7 @@ func coef(name string, c stats.Coef) report.Coef {
 func regFit(name, formula string, coefNames []string, r stats.Regression) report.Fit {
 	f := report.Fit{Name: name, Formula: formula, ResidualSE: report.Float(r.ResidualSE), RSS: report.Float(r.RSS),
 		R2: report.Float(r.R2), AdjR2: report.Float(r.AdjR2), F: report.Float(r.F), FP: report.Float(r.FP),
-		DFResid: r.DFResid, AIC: report.Float(r.AIC), Vertex: report.NaN()}
+		DFResid: r.DFResid, AIC: report.Float(r.AIC), Vertex: report.NaN(), AICVsLine: report.NaN(), ShareVsLine: report.NaN()}
 	for i, c := range r.Coef {
 		name := fmt.Sprintf("b%d", i)
 		if i < len(coefNames) {
@@ -46,6 +46,40 @@ func lineFit(l stats.LineFit) report.Fit {
 	f.Intercept, f.Slope = &ic, &sl
 	f.Coefficients = []report.Coef{ic, sl}
 	return f
+}
+
+// compareFits sets, for the line and every model, the y scale it was fitted
+// on, its AIC and residual sum of squares against the line's where the
+// scales agree, and for a quadratic whether its turning point lies near
+// the observed x range x (report.VertexMargin). AIC differences between
+// fits of the same response on the same rows are the usual comparison
+// (Burnham & Anderson, Model Selection and Multimodel Inference, 2nd ed.,
+// 2002, section 2.6, cited from memory); fits of ln(y) are not comparable
+// with fits of y that way, so they get NaN.
+func compareFits(line *report.Fit, models []report.Fit, x report.Describe) {
+	scale := func(name string) string {
+		if name == "log-y" || name == "log-log" {
+			return "ln(y)"
+		}
+		return "y"
+	}
+	line.YScale, line.AICVsLine, line.ShareVsLine = "y", 0, 0
+	for i := range models {
+		m := &models[i]
+		m.YScale = scale(m.Name)
+		m.AICVsLine, m.ShareVsLine = report.NaN(), report.NaN()
+		if m.YScale == "y" {
+			m.AICVsLine = m.AIC - line.AIC
+			if float64(line.RSS) > 0 {
+				m.ShareVsLine = 1 - m.RSS/line.RSS
+			}
+		}
+		if v := float64(m.Vertex); m.Vertex.Valid() && x.Min.Valid() && x.Max.Valid() {
+			lo, hi := float64(x.Min), float64(x.Max)
+			margin := report.VertexMargin * (hi - lo)
+			m.VertexNear = v >= lo-margin && v <= hi+margin
+		}
+	}
 }
 
 // logModels fits the linearising transforms the data allow: log-x where

@@ -282,6 +282,7 @@ func analyze(in Input, cfg Config) report.Study {
 	wg.Wait()
 	s.Diagnostics = diag
 	s.Spearman, s.Kendall, s.Models = &side.spearman, &side.kendall, side.models
+	compareFits(s.Line, s.Models, s.Describe.X)
 	s.Diagnostics.Resistant = side.resistant
 	if side.quad != nil {
 		s.Diagnostics.QuadraticP = report.Float(side.quad.Coef[2].P)

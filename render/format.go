@@ -13,11 +13,12 @@ import (
 // Report always gives the same text.
 //
 // The minus rule: every number the reports show to people, in prose, in
-// tables and on chart axes, in HTML and in Markdown, writes its sign (and
-// the sign of an exponent) with the minus sign U+2212 "−", as the
-// findings' sentences do; a hyphen-minus never stands for a negative
-// number in a report. "−" starts no Markdown syntax, so it is never
-// escaped. results.json keeps JSON numbers.
+// tables and on chart axes, in HTML and in Markdown, writes its sign with
+// the ASCII hyphen-minus "-", so that a table pasted into a spreadsheet
+// reads as numbers; the findings' sentences, which results.json keeps
+// with the typographic minus U+2212, are written with the same
+// hyphen-minus (ascii). One output, one convention. results.json keeps
+// JSON numbers.
 
 const na = "n/a" // an undefined number, as printed
 
@@ -45,9 +46,22 @@ func sig(v float64, digits int) string {
 	return minus(negZero(s))
 }
 
-// minus writes every hyphen-minus of a formatted number as U+2212 (the
-// minus rule above).
-func minus(s string) string { return strings.ReplaceAll(s, "-", "−") }
+// minus keeps the hyphen-minus of a formatted number (the minus rule
+// above); it is the one place to change the rule.
+func minus(s string) string { return s }
+
+// ascii writes the typographic minus U+2212 of a sentence from the
+// analysis as the hyphen-minus, by the minus rule above.
+func ascii(s string) string { return strings.ReplaceAll(s, "−", "-") }
+
+// asciiAll is ascii over a list.
+func asciiAll(ss []string) []string {
+	out := make([]string, len(ss))
+	for i, s := range ss {
+		out[i] = ascii(s)
+	}
+	return out
+}
 
 func negZero(s string) string {
 	if strings.HasPrefix(s, "-") && strings.Trim(s[1:], "0.") == "" {
@@ -56,21 +70,29 @@ func negZero(s string) string {
 	return s
 }
 
-// pval writes a p-value: three decimals from 0.001 up, two significant
-// digits in exponent form below, and "< 1e−300" below 1e-300 (where the
-// tails are no longer accurate).
+// pval writes a p-value: "< 0.0001" below 0.0001 (the exact value stays
+// in results.json), four decimals below 0.001, three from there up.
 func pval(p report.Float) string {
 	v := float64(p)
 	switch {
 	case math.IsNaN(v) || math.IsInf(v, 0):
 		return na
-	case v < 1e-300:
-		return "< 1e−300"
+	case v < 1e-4:
+		return "< 0.0001"
 	case v < 0.001:
-		return minus(strconv.FormatFloat(v, 'e', 1, 64))
+		return strconv.FormatFloat(v, 'f', 4, 64)
 	default:
 		return strconv.FormatFloat(v, 'f', 3, 64)
 	}
+}
+
+// pIs writes a p-value after "p": "= 0.873" or "< 0.0001".
+func pIs(p report.Float) string {
+	s := pval(p)
+	if strings.HasPrefix(s, "<") || s == na {
+		return s
+	}
+	return "= " + s
 }
 
 // interval writes "lo to hi", or n/a when either end is undefined.

@@ -6,7 +6,7 @@
 // including the per-point plot data in Study.Plot; this package selects,
 // orders, formats and draws. The same Report always gives the same bytes:
 // numbers have fixed formats, studies keep manifest order, and the only
-// time printed is Report.Generated, set only when SOURCE_DATE_EPOCH is.
+// time printed is Report.Generated, the run date (SOURCE_DATE_EPOCH when set).
 //
 // The HTML page inlines its stylesheet (a theme from bivar/themes) and its
 // SVG figures, loads nothing, needs no JavaScript, and carries a
@@ -138,10 +138,12 @@ func newConfig(opts []Option) (*config, error) {
 // pageCSS is the theme plus the print page box with the report's name in
 // the running header. The page is portrait in the printer's paper size
 // (A4 or Letter: the layout fits both).
-func pageCSS(theme, title string) string {
-	return theme + "\n@page {\n  size: portrait;\n  margin: 18mm 14mm 16mm;\n" +
+// The caution stands in every printed page's footer.
+func pageCSS(theme, title, caution string) string {
+	return theme + "\n@page {\n  size: portrait;\n  margin: 14mm 12mm 17mm;\n" +
 		"  @top-left { content: " + cssString(title) + "; font: 8pt sans-serif; color: #444444; }\n" +
 		"  @top-right { content: \"bivar report\"; font: 8pt sans-serif; color: #444444; }\n" +
+		"  @bottom-left { content: " + cssString(caution) + "; font: 6.5pt sans-serif; color: #444444; width: 80%; }\n" +
 		"  @bottom-right { content: \"page \" counter(page) \" of \" counter(pages); font: 8pt sans-serif; color: #444444; }\n}\n"
 }
 
@@ -198,7 +200,7 @@ func htmlBytes(r *report.Report, opts []Option) ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
-	css := pageCSS(cfg.css, p.Title)
+	css := pageCSS(cfg.css, p.Title, p.Caution)
 	var b bytes.Buffer
 	err = htmlTmpl.ExecuteTemplate(&b, "page", map[string]any{
 		"Page": p, "CSS": htmltemplate.CSS(css), "CSP": csp(css),

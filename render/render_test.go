@@ -99,14 +99,14 @@ func TestHTMLStructure(t *testing.T) {
 	if strings.Contains(page, " style=") {
 		t.Error("an inline style attribute would be blocked by the CSP")
 	}
-	// Print: page breaks between studies, figures not split, a running header.
-	for _, want := range []string{"break-before: page", "break-inside: avoid", "@top-left { content: \"Invented demo", "@media print"} {
+	// Print: a study's heading never left at a page's foot, figures not split, a running header.
+	for _, want := range []string{".study > header { break-after: avoid", "break-inside: avoid", "@top-left { content: \"Invented demo", "@media print"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("print CSS lacks %q", want)
 		}
 	}
 	// Top of the page: title, caution, summary with one row per study, provenance.
-	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "All studies at a glance", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out of each study"} {
+	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "what the pooled verdict alone would hide", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out of each study"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -125,11 +125,12 @@ func TestHTMLStructure(t *testing.T) {
 		last = i
 	}
 	// Per study content of the rich study.
-	for _, want := range []string{"What the data show", "Key figures", "Unusual rows", "How much the result rests on single rows",
-		"Units of measure", "r reads 0.9120 in every row where it could be computed", "Predictions from the line",
-		"Mean response (95% confidence)", "One new row (95% prediction)", "no — not supported", `class="limits limits"`, "What may not be concluded",
-		"Declared expectations", "<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
-		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 1e−300", "The line within each level of Resin lot"} {
+	for _, want := range []string{"What the data show", "The numbers behind it", "Unusual rows", "How much the result rests on single rows",
+		"In other units", "Predictions from the line",
+		"Mean of many rows, 95%", "One new row, 95%", "no — not supported", `class="limits limits"`, "What may not be concluded",
+		"<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
+		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 0.0001", "The line within each level of Resin lot",
+		"Shapes tried against the straight line", "line (baseline)", "Where the data lie", "Off the line: externally studentized residual, flagged beyond"} {
 		if !strings.Contains(page, strings.ReplaceAll(strings.ReplaceAll(want, "<", "&lt;"), "&lt;strong>", "<strong>")) && !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -251,14 +252,14 @@ func TestDeterministic(t *testing.T) {
 
 func TestGeneratedOnlyWhenSet(t *testing.T) {
 	r := fixture.Report(fixture.Options{})
-	if p := string(mustHTML(t, r)); strings.Contains(p, "generated") {
+	if p := string(mustHTML(t, r)); strings.Contains(p, " · run ") {
 		t.Error("a date appears although Report.Generated is empty")
 	}
 	r.Generated = "2026-11-30T06:00:00Z"
-	if p := string(mustHTML(t, r)); !strings.Contains(p, "generated 2026-11-30T06:00:00Z") {
+	if p := string(mustHTML(t, r)); !strings.Contains(p, "run 2026-11-30 06:00 UTC") {
 		t.Error("Report.Generated is not shown")
 	}
-	if m := string(mustMD(t, r)); !strings.Contains(m, "generated 2026-11-30T06:00:00Z") {
+	if m := string(mustMD(t, r)); !strings.Contains(m, "run 2026-11-30 06:00 UTC") {
 		t.Error("Report.Generated is not shown in Markdown")
 	}
 }
@@ -482,5 +483,51 @@ func TestDatasetSource(t *testing.T) {
 		if !strings.Contains(md.String(), want) {
 			t.Errorf("report.md lacks %q", want)
 		}
+	}
+}
+
+// TestFirstScreenAndConventions checks the report's first screen and its
+// number conventions on the fixture: the banner names each failed gate and
+// links to an anchor that exists; the caution stands in the printed
+// footer; one minus sign (the hyphen-minus) in both formats; no
+// exponent-form p-value; a shape's turning point far from the data is not
+// printed; fits of ln(y) are not compared with the line.
+func TestFirstScreenAndConventions(t *testing.T) {
+	r := fixture.Report(fixture.Options{})
+	page, md := string(mustHTML(t, r)), string(mustMD(t, r))
+	banner := regexp.MustCompile(`<div class="gate-banner" role="alert">.*?</div>`).FindString(page)
+	if banner == "" {
+		t.Fatal("no banner although a gate failed")
+	}
+	for _, m := range regexp.MustCompile(`href="#([^"]+)"`).FindAllStringSubmatch(banner, -1) {
+		if !strings.Contains(page, `id="`+m[1]+`"`) {
+			t.Errorf("the banner links to #%s, which no element carries", m[1])
+		}
+	}
+	if !strings.Contains(page, "Does the line bend? (x² term)") || !strings.Contains(md, "Does the line bend? (x² term)") {
+		t.Error("no table of every study's checks under the summary")
+	}
+	if !strings.Contains(md, "CI gate failed") {
+		t.Error("report.md has no line naming the failed gate")
+	}
+	if !strings.Contains(page, "@bottom-left { content: "+cssString(r.Caution)) {
+		t.Error("the caution is not in the printed pages' footer")
+	}
+	for name, out := range map[string]string{"report.html": page, "report.md": md} {
+		if strings.Contains(out, "−") {
+			t.Errorf("%s holds the minus sign U+2212: one convention per output, the hyphen-minus", name)
+		}
+		if m := regexp.MustCompile(`p = [0-9.]+e-`).FindString(out); m != "" {
+			t.Errorf("%s prints a p-value in exponent form: %q", name, m)
+		}
+	}
+	// The fixture's quadratic turns at 44.4, near its data; then far out.
+	if !strings.Contains(md, "turns at x = 44.40 kN") {
+		t.Error("a turning point near the data is not printed")
+	}
+	r.Studies[0].Models[0].VertexNear = false
+	md = string(mustMD(t, r))
+	if !strings.Contains(md, "turns far outside the data") || strings.Contains(md, "turns at x = ") {
+		t.Error("a turning point far from the data is printed as if it meant something")
 	}
 }

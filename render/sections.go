@@ -2,6 +2,7 @@ package render
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 
 	"bivar/analysis/report"
@@ -23,8 +24,6 @@ var studySections = []func(s *report.Study, level string, th report.Thresholds) 
 	approximationsSection,
 	planSection,
 	limitsSection,
-	expectationsSection,
-	notesSection,
 }
 
 func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
@@ -39,7 +38,7 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	// verdict.
 	why := func(topic, reason, verdict string) {
 		if reason != "" {
-			sec.List = append(sec.List, topic+" — "+reason)
+			sec.List = append(sec.List, topic+" — "+ascii(reason))
 		} else {
 			sec.List = append(sec.List, topic+": "+verdict+".")
 		}
@@ -49,8 +48,17 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		form += " (" + strings.ReplaceAll(*f.Bend, "-", " ") + ")"
 	}
 	why("Form", f.FormWhy, form)
-	why("Direction", f.DirectionWhy, f.Direction)
-	why("Strength", f.StrengthWhy, f.Strength)
+	// A plain direction and strength are what the headline above says,
+	// with r and its interval; their reasons (r against alpha and the cut
+	// points of the appendix) stay in results.json. A direction or
+	// strength that needs its reason (none shown, a curve that turns
+	// over, a curve's own strength) keeps it here.
+	if (f.Direction != "positive" && f.Direction != "negative") || f.TurnsOver || f.Headline == "" {
+		why("Direction", f.DirectionWhy, f.Direction)
+	}
+	if f.Strength == "none" || f.CurveStrength != "" || f.Headline == "" {
+		why("Strength", f.StrengthWhy, f.Strength)
+	}
 	if f.Reasons != nil {
 		for _, r := range f.Reasons {
 			why(r.Topic, r.Why, r.Verdict)
@@ -84,7 +92,12 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		sec.Items = append(sec.Items, kv{k, v})
 	}
 	sec.List = nil
-	sec.After = f.Statements
+	// The findings' longer statements (results.json "statements") repeat
+	// the figures of the table below and the rules of the appendix; the
+	// report shows the table and the rules once.
+	if nc := notChecked(s); nc != "" {
+		sec.After = append(sec.After, nc)
+	}
 	return sec, nil
 }
 
@@ -97,112 +110,176 @@ func capital(w string) string {
 	return strings.ToUpper(string(r[0])) + string(r[1:])
 }
 
+// yesNo answers a question from a verdict the analysis raised.
+func yesNo(b bool) string {
+	if b {
+		return "Yes"
+	}
+	return "No"
+}
+
+// checkOf is the findings' check of the given name, or nil.
+func checkOf(s *report.Study, name string) *report.Check {
+	if s.Findings == nil {
+		return nil
+	}
+	for i := range s.Findings.Checks {
+		if s.Findings.Checks[i].Name == name {
+			return &s.Findings.Checks[i]
+		}
+	}
+	return nil
+}
+
+// inY writes v with the unit of y.
+func inY(s *report.Study, v report.Float) string { return withSym(num(v), s.Y.Symbol) }
+
+// withSym writes a formatted value and a unit symbol.
+func withSym(v, sym string) string {
+	if sym == "" || v == na {
+		return v
+	}
+	return v + " " + sym
+}
+
+// keyFiguresSection answers, one row per question, what an engineer asks
+// of a study: the plain question first, the answer in units, and the
+// method's name after it.
 func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*section, error) {
-	sec := &section{Key: "keyfigures", Title: "Key figures"}
-	t := table{Caption: "Association and the least-squares line", Head: []string{"Measure", "Value", level + "% interval", "p"},
-		Num: []bool{false, true, true, true}}
-	add := func(m, v, ci, p string) { t.Rows = append(t.Rows, []string{m, v, ci, p}) }
-	add("Rows used (n)", itoa(s.N), "", "")
+	sec := &section{Key: "keyfigures", Title: "The numbers behind it"}
+	t := table{Caption: fmt.Sprintf("x is %s, y %s; intervals at %s%%", name(s.X), name(s.Y), level),
+		Head: []string{"Question", "Answer", level + "% interval", "p", "Measure"},
+		Num:  []bool{false, true, true, true, false}}
+	add := func(q, a, ci, p, how string) { t.Rows = append(t.Rows, []string{q, a, ci, p, how}) }
+	per := unitPer(s)
+	if l := s.Line; l != nil && l.Slope != nil {
+		add("How much does y change per "+orWord(s.X.Symbol, "unit of x")+"?", withSym(num(l.Slope.Estimate), per), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P),
+			"slope (SE "+withSym(num(l.Slope.SE), per)+")")
+		if rb, f := s.Robust, s.Findings; rb != nil && f != nil {
+			if rb.HAC != nil && f.Autocorrelated {
+				add("… allowing for rows that hang together in run order", "", interval(rb.HAC.CILow, rb.HAC.CIHigh), pval(rb.HAC.P),
+					fmt.Sprintf("Newey–West SE %s, %d lags", num(rb.HAC.SE), rb.HAC.Lags))
+			}
+			if rb.HC3 != nil && f.SpreadChanges {
+				add("… allowing for an uneven scatter", "", interval(rb.HC3.CILow, rb.HC3.CIHigh), pval(rb.HC3.P), "HC3 SE "+num(rb.HC3.SE))
+			}
+		}
+		if rs := s.Diagnostics; rs != nil && rs.Resistant != nil {
+			add("… by a method a few rows barely move", withSym(num(rs.Resistant.Slope), per), "", "", methodName(rs.Resistant.Method))
+		}
+	}
 	if pr := s.Pearson; pr != nil {
-		add("Pearson r", num(pr.R), interval(pr.CILow, pr.CIHigh), pval(pr.P))
-		add("p adjusted across studies", "", "", pval(pr.PAdjusted))
-		add("r²", num(pr.R2), "", "")
-		add(fmt.Sprintf("t (df %d)", pr.DF), num(pr.T), "", "")
-	}
-	if sp := s.Spearman; sp != nil {
-		add("Spearman ρ", num(sp.Rho), "", pval(sp.P))
-	}
-	if k := s.Kendall; k != nil {
-		add("Kendall τ-b", num(k.TauB), "", pval(k.P))
+		add("How closely do the rows follow a line?", num(pr.R), interval(pr.CILow, pr.CIHigh), pval(pr.PAdjusted), "Pearson r, p adjusted across studies")
+		if rb, f := s.Robust, s.Findings; rb != nil && f != nil && rb.NEff.Valid() && f.Autocorrelated {
+			add("… counting rows that hang together as fewer", num(pr.R), interval(rb.RLow, rb.RHigh), pval(rb.RP), "effective n "+num(rb.NEff))
+		}
 	}
 	if l := s.Line; l != nil {
-		if l.Slope != nil {
-			add("Slope ("+unitPer(s)+")", num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P))
-			add("Slope standard error", num(l.Slope.SE), "", "")
-			// The slope's intervals that allow for what the findings found:
-			// residuals that hang together in run order, a changing scatter.
-			if rb, f := s.Robust, s.Findings; rb != nil && f != nil {
-				if rb.HAC != nil && f.Autocorrelated {
-					add(fmt.Sprintf("Slope, Newey–West standard error (%d lags)", rb.HAC.Lags), num(rb.HAC.SE), interval(rb.HAC.CILow, rb.HAC.CIHigh), pval(rb.HAC.P))
-				}
-				if rb.HC3 != nil && f.SpreadChanges {
-					add("Slope, HC3 standard error", num(rb.HC3.SE), interval(rb.HC3.CILow, rb.HC3.CIHigh), pval(rb.HC3.P))
-				}
-				if rb.NEff.Valid() && f.Autocorrelated && s.Pearson != nil {
-					add("Pearson r, effective n "+num(rb.NEff), num(s.Pearson.R), interval(rb.RLow, rb.RHigh), pval(rb.RP))
-				}
-			}
-		}
+		add("How far do rows typically lie from the line?", inY(s, l.ResidualSE), "", "", "residual SD")
+		add("What share of y's variation does the line follow?", num(l.R2), "", "", "R²")
 		if l.Intercept != nil {
-			add("Intercept", num(l.Intercept.Estimate), interval(l.Intercept.CILow, l.Intercept.CIHigh), pval(l.Intercept.P))
-		}
-		add("Residual standard error", num(l.ResidualSE), "", "")
-		add("R² / adjusted R²", num(l.R2)+" / "+num(l.AdjR2), "", "")
-	}
-	if d := s.Diagnostics; d != nil {
-		add("Quadratic term", "", "", pval(d.QuadraticP))
-		if lf := d.LackOfFit; lf != nil {
-			add(fmt.Sprintf("Lack of fit F (%d, %d)", lf.DF1, lf.DF2), num(lf.F), "", pval(lf.P))
-		}
-		if dc := d.DistanceCorr; dc != nil {
-			dcp := pval(dc.P)
-			if dc.MCError.Valid() {
-				dcp += " ± " + sig(float64(dc.MCError), 2)
-			}
-			add(fmt.Sprintf("Distance correlation (%d permutations)", dc.Permutations), num(dc.DCor), "", dcp)
-		}
-		if bp := d.BreuschPagan; bp != nil {
-			add(fmt.Sprintf("Breusch–Pagan χ² (df %d)", bp.DF), num(bp.Stat), "", pval(bp.P))
-		}
-		dwOrder := "in data order"
-		if s.Order != "" {
-			dwOrder = "in order of " + chart.OrderName(s)
-		}
-		add("Durbin–Watson, residuals "+dwOrder, num(d.DurbinWatson), "", "")
-		if d.DurbinWatsonX.Valid() {
-			add("Durbin–Watson, residuals in order of "+name(s.X), num(d.DurbinWatsonX), "", "")
-		}
-		if ot := d.OrderTrend; ot != nil {
-			add("Residual trend in run order (per unit of "+chart.OrderName(s)+")", num(ot.Slope), "", pval(ot.P))
-		}
-		if rs := d.Resistant; rs != nil {
-			add("Resistant slope, "+methodName(rs.Method), num(rs.Slope), "", "")
-		}
-		if lw := d.Lowess; lw != nil {
-			add("LOWESS settings", fmt.Sprintf("span %s, %d iterations", sig(lw.Frac, 3), lw.Iterations), "", "")
+			add("Where is the line at x = 0?", inY(s, l.Intercept.Estimate), interval(l.Intercept.CILow, l.Intercept.CIHigh), "", "intercept")
 		}
 	}
+	if sp, k := s.Spearman, s.Kendall; sp != nil && k != nil {
+		add("Do the ranks agree?", num(sp.Rho)+"; "+num(k.TauB), "", pval(sp.P), "Spearman ρ; Kendall τ-b")
+	}
+	// The screening questions (bend, lack of fit, other shapes, scatter,
+	// drift) stand once for all studies in the checks table under the
+	// summary (checksTable).
 	sec.Tables = append(sec.Tables, t)
-	mt := table{Caption: "Other fits of y on x (R² of log-y fits is on the log scale)", Head: []string{"Fit", "Formula", "R²", "Adjusted R²", "AIC", "Coefficients (" + level + "% interval)"},
-		Num: []bool{false, false, true, true, true, false}, NoWrap: []bool{true, true}}
-	for _, m := range s.Models {
-		if m.Name == "line" {
-			continue
-		}
-		var cs []string
-		for _, c := range m.Coefficients {
-			cs = append(cs, strings.NewReplacer("^2", "²", "^3", "³").Replace(c.Name)+" "+withCI(c.Estimate, c.CILow, c.CIHigh))
-		}
-		if m.Vertex.Valid() {
-			cs = append(cs, "turning point at x = "+num(m.Vertex))
-		}
-		mt.Rows = append(mt.Rows, []string{m.Name, m.Formula, num(m.R2), num(m.AdjR2), num(m.AIC), strings.Join(cs, "; ")})
-	}
-	if len(mt.Rows) > 0 {
+	if mt := shapesTable(s); len(mt.Rows) > 0 {
 		sec.Tables = append(sec.Tables, mt)
 	}
 	if d := s.Describe; d != nil {
-		dt := table{Caption: "The two variables over the rows used", Head: []string{"", "n", "Mean", "SD", "Min", "Q1", "Median", "Q3", "Max"},
-			Num: []bool{false, true, true, true, true, true, true, true, true}}
+		dt := table{Caption: "Where the data lie",
+			Head: []string{"Variable", "Range", "Middle half", "Middle value", "Average ± SD"},
+			Num:  []bool{false, true, true, true, true}}
 		for _, v := range []struct {
-			n string
+			v report.Variable
 			d report.Describe
-		}{{withUnit(s.X), d.X}, {withUnit(s.Y), d.Y}} {
-			dt.Rows = append(dt.Rows, []string{v.n, itoa(v.d.N), num(v.d.Mean), num(v.d.SD), num(v.d.Min), num(v.d.Q1), num(v.d.Median), num(v.d.Q3), num(v.d.Max)})
+		}{{s.X, d.X}, {s.Y, d.Y}} {
+			dt.Rows = append(dt.Rows, []string{withUnit(v.v), num(v.d.Min) + " to " + num(v.d.Max), num(v.d.Q1) + " to " + num(v.d.Q3),
+				num(v.d.Median), num(v.d.Mean) + " ± " + num(v.d.SD)})
 		}
 		sec.Tables = append(sec.Tables, dt)
 	}
 	return sec, nil
+}
+
+// paren is " (unit)", or "" without a unit.
+func paren(u string) string {
+	if u == "" {
+		return ""
+	}
+	return " (" + u + ")"
+}
+
+func orWord(sym, word string) string {
+	if sym == "" {
+		return word
+	}
+	return sym
+}
+
+// shapeMeaning says in a few words what each shape would mean.
+var shapeMeaning = map[string]string{
+	"line":      "same step per unit of x",
+	"quadratic": "bends; may turn over",
+	"log-x":     "diminishing returns",
+	"log-y":     "same % per unit of x",
+	"log-log":   "power law",
+}
+
+// shapesTable compares the shapes the analysis fitted with the straight
+// line, by how much of the line's scatter each removes and by AIC, both
+// only where the shape was fitted to y itself (the analysis marks which).
+func shapesTable(s *report.Study) table {
+	t := table{Caption: "Shapes tried against the straight line: scatter removed is the share of the line's residual sum of squares the shape removes (negative: it scatters more); a lower AIC fits better for its coefficients. Fits of ln(y) are on another scale and not compared; every coefficient is in results.json",
+		Head: []string{"Shape", "Meaning", "Scatter about it", "Scatter removed", "AIC against line"},
+		Num:  []bool{false, false, true, true, true}}
+	if l := s.Line; l != nil && len(s.Models) > 0 {
+		t.Rows = append(t.Rows, []string{"line (baseline)", shapeMeaning["line"], inY(s, l.ResidualSE), "—", "—"})
+	}
+	for _, m := range s.Models {
+		if m.Name == "line" {
+			continue
+		}
+		scatter, share, aic := inY(s, m.ResidualSE), pct(m.ShareVsLine), signedNum(m.AICVsLine)
+		if m.YScale == "ln(y)" {
+			scatter, share, aic = num(m.ResidualSE)+" in ln(y)", "—", "—"
+		}
+		meaning := shapeMeaning[m.Name]
+		switch {
+		case m.Vertex.Valid() && m.VertexNear:
+			meaning = "bends; turns at x = " + withSym(num(m.Vertex), s.X.Symbol)
+		case m.Vertex.Valid():
+			meaning = "bends; turns far outside the data"
+		}
+		t.Rows = append(t.Rows, []string{m.Name, meaning, scatter, share, aic})
+	}
+	if len(t.Rows) < 2 {
+		t.Rows = nil
+	}
+	return t
+}
+
+// pct writes a share as a percentage with one decimal, n/a when undefined.
+func pct(v report.Float) string {
+	if !v.Valid() {
+		return na
+	}
+	return minus(strconv.FormatFloat(100*float64(v), 'f', 1, 64)) + "%"
+}
+
+// signedNum is num with "+" on a positive value; a negative AIC
+// difference means the shape fits better than the line for its extra
+// coefficient.
+func signedNum(v report.Float) string {
+	if v.Valid() && float64(v) > 0 {
+		return "+" + num(v)
+	}
+	return num(v)
 }
 
 func unitPer(s *report.Study) string {
@@ -247,12 +324,13 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 		if c.Suspect > len(in.Points) {
 			caption = fmt.Sprintf("The first %d of %d rows flagged outlier, influential or sole support, largest Cook's distance first", len(in.Points), c.Suspect)
 		}
-		t := table{Caption: caption,
-			Head: []string{"Row", "x", "y", "Leverage", "Studentized residual", "Deleted residual", "Cook's distance", "DFFITS", "Why flagged"},
-			Num:  []bool{false, true, true, true, true, true, true, true, false}}
+		t := table{Caption: fmt.Sprintf("%s. Off the line: externally studentized residual, flagged beyond ±%s; pull on the line: Cook's distance, flagged above %s; reach in x: leverage, flagged above %s",
+			caption, num(in.Rules.Outlier), num(in.Rules.CooksD), num(in.Rules.Leverage)),
+			Head: []string{"Row", "x" + paren(s.X.Symbol), "y" + paren(s.Y.Symbol), "Off the line", "Pull on the line", "Reach in x", "Why flagged"},
+			Num:  []bool{false, true, true, true, true, true, false}}
 		for _, pt := range in.Points {
-			t.Rows = append(t.Rows, []string{pt.Row, num(pt.X), num(pt.Y), num(pt.Leverage), num(pt.Studentized), num(pt.StudentizedExt),
-				num(pt.CooksD), num(pt.DFFITS), strings.Join(pt.Flags, ", ")})
+			t.Rows = append(t.Rows, []string{pt.Row, num(pt.X), num(pt.Y), num(pt.StudentizedExt),
+				num(pt.CooksD), num(pt.Leverage), strings.Join(pt.Flags, ", ")})
 		}
 		sec.Tables = append(sec.Tables, t)
 	}
@@ -262,7 +340,6 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 	if in.File != "" {
 		sec.After = append(sec.After, fmt.Sprintf("Every flagged row (%d), with all its measures, is listed in %s beside this report.", in.FileRows, in.File))
 	}
-	sec.After = append(sec.After, "The flag rules in force for this study, with their cut points, are stated under \"What the data show\".")
 	return sec, nil
 }
 
@@ -272,7 +349,7 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		return nil, nil
 	}
 	sec := &section{Key: "sensitivity", Title: "How much the result rests on single rows"}
-	t := table{Caption: "The line fitted to different sets of rows", Head: []string{"Rows", "r", "Slope", "Intercept"},
+	t := table{Caption: "The line fitted to different sets of rows", Head: []string{"Rows", "r", "Slope (" + unitPer(s) + ")", "Intercept (" + orWord(s.Y.Symbol, "y units") + ")"},
 		Num: []bool{false, true, true, true}}
 	r, slope, icpt := report.NaN(), report.NaN(), report.NaN()
 	if s.Pearson != nil {
@@ -292,12 +369,16 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		}
 		t.Rows = append(t.Rows, []string{fmt.Sprintf("Without all %d flagged rows", se.NFlagged), rw, num(se.SlopeWithoutFlagged), num(se.InterceptWithout)})
 	}
-	method := "resistant line"
-	if s.Diagnostics != nil && s.Diagnostics.Resistant != nil {
-		method = "Resistant line, " + methodName(s.Diagnostics.Resistant.Method)
+	// With no row named or flagged the table would repeat the line (and
+	// the resistant slope stands in the numbers above): only the sentence.
+	if len(t.Rows) > 1 {
+		method := "resistant line"
+		if s.Diagnostics != nil && s.Diagnostics.Resistant != nil {
+			method = "Resistant line, " + methodName(s.Diagnostics.Resistant.Method)
+		}
+		t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
+		sec.Tables = append(sec.Tables, t)
 	}
-	t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
-	sec.Tables = append(sec.Tables, t)
 	sec.After = append(sec.After, fmt.Sprintf("Leaving out one row at a time, r ranges from %s%s to %s%s and the slope from %s to %s.",
 		num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), num(se.LooSlopeMax)))
 	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() {
@@ -336,37 +417,48 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	if len(s.UnitInvariance) == 0 {
 		return nil, nil
 	}
-	sec := &section{Key: "units", Title: "Units of measure"}
-	t := table{Caption: "r, slope and intercept in other units", Head: []string{"x unit", "x UCUM", "y unit", "y UCUM", "r", "Slope", "Intercept", "Note"},
-		Num: []bool{false, false, false, false, true, true, true, false}, Code: []bool{false, true, false, true}}
+	sec := &section{Key: "units", Title: "In other units"}
+	t := table{Caption: "r, slope and intercept with x and y in other units (UCUM codes in results.json)", Head: []string{"x in", "y in", "r", "Slope", "Intercept"},
+		Num: []bool{false, false, true, true, true}}
 	var rs []string
 	undefined := 0
 	for _, u := range s.UnitInvariance {
-		note := u.Note
+		xu, yu := symbol(u.XSymbol, u.XUnit), symbol(u.YSymbol, u.YUnit)
 		if u.Swapped {
-			note = strings.TrimSpace("x and y swapped. " + note)
+			xu += " (x and y swapped)"
 		}
-		t.Rows = append(t.Rows, []string{symbol(u.XSymbol, u.XUnit), orDash(u.XUnit), symbol(u.YSymbol, u.YUnit), orDash(u.YUnit), num(u.R), num(u.Slope), num(u.Intercept), note})
+		slope := num(u.Slope)
+		if u.Note != "" {
+			slope = ascii(u.Note)
+		}
+		t.Rows = append(t.Rows, []string{xu, yu, num(u.R), slope, num(u.Intercept)})
 		if u.R.Valid() {
 			rs = append(rs, num(u.R))
 		} else {
 			undefined++
 		}
 	}
-	sec.Tables = append(sec.Tables, t)
+	// Without other units declared the table holds only the declared
+	// units and the swapped axes: one sentence says what it would.
+	other := false
+	for _, u := range s.UnitInvariance {
+		other = other || (!u.Swapped && (u.XUnit != s.X.Unit || u.YUnit != s.Y.Unit))
+	}
 	same := len(rs) > 0
 	for _, r := range rs {
 		same = same && r == rs[0]
 	}
+	if other || !same {
+		sec.Tables = append(sec.Tables, t)
+	}
 	switch {
+	case same && !other:
+		// Only the swapped axes, which change nothing a reviewer reads:
+		// results.json keeps them.
+		return nil, nil
 	case same && len(rs) > 1:
-		where := "in every row of the table"
-		if undefined > 0 {
-			where = "in every row where it could be computed"
-		}
-		sec.After = append(sec.After, fmt.Sprintf("r reads %s %s: the strength of the association does not depend on the units the data were recorded in, nor on which variable is put on which axis. Slope and intercept change with the units, as they must, because they are measured in units of y per unit of x.", rs[0], where))
+		sec.After = append(sec.After, fmt.Sprintf("r is %s in every unit and with the axes swapped; slope and intercept change with the units, as they must.", rs[0]))
 	case same:
-		sec.After = append(sec.After, "Only one row could be computed, so the table shows no comparison of units.")
 	default:
 		sec.After = append(sec.After, "r differs between the rows of this table at the digits shown. A linear change of units cannot change r, so check the unit declarations and conversions of this study.")
 	}
@@ -379,7 +471,7 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 	}
 	sec := &section{Key: "groups", Title: "Groups and other variables"}
 	if len(s.Groups) > 0 {
-		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope (" + level + "% interval)", "Intercept"},
+		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope, " + unitPer(s) + " (" + level + "% interval)", "Intercept (" + orWord(s.Y.Symbol, "y units") + ")"},
 			Num: []bool{false, true, true, true, true}}
 		for _, g := range s.Groups {
 			t.Rows = append(t.Rows, []string{g.Group, itoa(g.N), num(g.R), withCI(g.Slope, g.SlopeLow, g.SlopeHigh), num(g.Intercept)})
@@ -407,7 +499,7 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 	}
 	sec := &section{Key: "predictions", Title: "Predictions from the line"}
 	t := table{Caption: fmt.Sprintf("%s at chosen values of %s", chart.InUnit(s.Y), chart.InUnit(s.X)),
-		Head: []string{"x", "Fitted", "Mean response (" + level + "% confidence)", "One new row (" + level + "% prediction)", "Within observed range"},
+		Head: []string{"x" + paren(s.X.Symbol), "Line" + paren(s.Y.Symbol), "Mean of many rows, " + level + "%", "One new row, " + level + "%", "Inside the data"},
 		Num:  []bool{true, true, true, true, false}}
 	for _, p := range s.Predictions {
 		in := "yes"
@@ -420,7 +512,6 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 		t.Classes = append(t.Classes, cls)
 	}
 	sec.Tables = append(sec.Tables, t)
-	sec.After = append(sec.After, "The confidence interval is for the mean of "+name(s.Y)+" at that x; the prediction interval is for one new row and is always wider. Outside the observed range of "+name(s.X)+" the line has no support in these data.")
 	return sec, nil
 }
 
@@ -438,30 +529,58 @@ func approximationsSection(s *report.Study, _ string, _ report.Thresholds) (*sec
 	return sec, nil
 }
 
+// statedOnce are the openings of the findings' limits that say the same
+// for every study they apply to; the appendix states them once and each
+// study's "Not checked" line names which apply.
+var statedOnce = []string{"No covariates were declared", "No grouping variable", "No run order was declared", "The checks of ",
+	// and those that only say a check found nothing, as the numbers table does
+	"Drift in run order is not shown", "The p-values and intervals in this report assume independent rows; in run order the residuals do not clearly hang together"}
+
 func limitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
 	if s.Findings == nil || len(s.Findings.Limits) == 0 {
 		return nil, nil
 	}
-	return &section{Key: "limits", Title: "What may not be concluded", List: s.Findings.Limits, Box: true}, nil
-}
-
-func expectationsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
-	if len(s.Expectations) == 0 {
+	var list []string
+	for _, l := range s.Findings.Limits {
+		generic := false
+		for _, o := range statedOnce {
+			generic = generic || strings.HasPrefix(l, o)
+		}
+		if !generic {
+			list = append(list, ascii(l))
+		}
+	}
+	if len(list) == 0 {
 		return nil, nil
 	}
-	sec := &section{Key: "expectations", Title: "Declared expectations"}
-	t := table{Caption: "Expectations from the manifest", Head: []string{"Expectation", "Wanted", "Found", "Met", "Detail"},
-		Num: []bool{false, false, false, false, false}}
-	for _, e := range s.Expectations {
-		ok, cls := "yes", "ok"
-		if !e.OK {
-			ok, cls = "NO", "bad"
-		}
-		t.Rows = append(t.Rows, []string{e.Name, e.Want, e.Got, ok, e.Detail})
-		t.Classes = append(t.Classes, cls)
+	return &section{Key: "limits", Title: "What may not be concluded", List: list, Box: true}, nil
+}
+
+// notChecked names the checks the study's declarations left out.
+func notChecked(s *report.Study) string {
+	var n []string
+	if len(s.Covariates) == 0 && len(s.Partial) == 0 {
+		n = append(n, "lurking variables (no covariates declared)")
 	}
-	sec.Tables = append(sec.Tables, t)
-	return sec, nil
+	if s.Group == "" {
+		n = append(n, "differences between groups (no group declared)")
+	}
+	if s.Order == "" {
+		n = append(n, "drift and dependence in run order (no order declared)")
+	}
+	if len(n) == 0 {
+		return ""
+	}
+	return "Not checked: " + strings.Join(n, "; ") + "."
+}
+
+// gateTitle names a gate in words: the analysis's title, or for a report
+// written before gates had titles, its manifest key.
+func gateTitle(e report.Expectation) string {
+	if e.Title != "" {
+		return e.Title
+	}
+	return e.Name
 }
 
 func notesSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
@@ -479,4 +598,55 @@ func notesSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 // "theil-sen (exact)" becomes "Theil–Sen (exact)", as the prose has it.
 func methodName(m string) string {
 	return strings.Replace(m, "theil-sen", "Theil–Sen", 1)
+}
+
+// answer is a screening question's answer with its p: "No (p 0.873)".
+func answer(yes bool, p report.Float) string {
+	a := yesNo(yes)
+	if p.Valid() {
+		a += " (p " + pval(p) + ")"
+	}
+	return a
+}
+
+// checksTable answers the screening questions of every study in one
+// table: the verdicts are the findings', the p-values the analysis's.
+func checksTable(studies []report.Study, anchors []string) table {
+	t := table{Caption: "The checks of every study, each a plain question; the term after it names the test (see the glossary). Each check's p is after Holm's adjustment over the study's checks, where it takes part in it",
+		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings' means stray from it? (lack of fit)", "How strong is the dependence of any shape? (distance correlation, 0 to 1)", "Does the scatter change with x? (Breusch–Pagan)", "Drift in run order? (Durbin–Watson, trend)"},
+		Num:  []bool{false, false, false, false, false, false}}
+	for i := range studies {
+		s := &studies[i]
+		f, d := s.Findings, s.Diagnostics
+		if s.Error != nil || f == nil || d == nil {
+			continue
+		}
+		row := []string{s.ID, "not checked", "no repeated settings", "not checked", "not checked", "no run order declared"}
+		if c := checkOf(s, "curvature"); c != nil {
+			row[1] = answer(f.Form == "curved", c.PAdjusted)
+		} else if d.QuadraticP.Valid() {
+			row[1] = answer(f.Form == "curved", d.QuadraticP)
+		}
+		if f.Form == "nonlinear" {
+			row[1] = "Not as a parabola"
+		}
+		if c := checkOf(s, "lack-of-fit"); c != nil {
+			row[2] = answer(c.Raised, c.PAdjusted)
+		}
+		if dc := d.DistanceCorr; dc != nil {
+			row[3] = num(dc.DCor) + " (p " + pval(dc.P) + ")"
+			if f.Form == "nonlinear" {
+				row[3] += ": a shape the line misses"
+			}
+		}
+		if c := checkOf(s, "changing-spread"); c != nil {
+			row[4] = answer(f.SpreadChanges, c.PAdjusted)
+		}
+		if c := checkOf(s, "drift"); c != nil {
+			row[5] = answer(f.Drift, c.PAdjusted) + ", DW " + num(d.DurbinWatson)
+		}
+		t.Rows = append(t.Rows, row)
+		t.Links = append(t.Links, "study-"+anchors[i])
+	}
+	return t
 }

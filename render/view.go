@@ -27,8 +27,54 @@ type page struct {
 	Excluded   table
 	LeftOut    table // rows left out on purpose (exclude), each with its reason
 	Summary    summary
+	Checks     table // the screening questions of every study, answered
 	Studies    []*studyView
 	Thresholds string
+	// RunDate is the run's date and time in UTC, "" when the Report has
+	// none; Identity names the manifest and each data file with the start
+	// of its SHA-256; Failed lists every failed CI gate for the banner.
+	RunDate  string
+	Identity string
+	Failed   []failedGate
+	// Appendix states once what holds for every study it applies to;
+	// Glossary defines the terms the tables name after their questions.
+	Appendix []string
+	Glossary []kv
+}
+
+// appendix is said once for the whole report (each study's "Not checked"
+// line names which of the checks it lacks).
+var appendix = []string{
+	"A study that declares no covariates was not checked for a lurking variable; one without a group, for a relationship that differs between groups (lot, machine, shift); one without a run order, for drift over time and for rows that hang together in time, and its p-values and intervals assume independent rows.",
+	"The checks of curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm's adjustment over its checks), not across studies; the distance correlation and the residuals in order of x are screened at alpha without adjustment. A flag from any of them calls for a look at the charts, not a conclusion.",
+	"Strength is graded from |r| at the cut points above, and only where r differs clearly from 0; the cut points are common practice, not a standard.",
+	"Rows are flagged by the three measures of each study's unusual-rows table, each with its cut for that study's number of rows: far from the line (externally studentized residual), pulling the line (Cook's distance), far out in x (leverage). Rows far out in x but close to the line are counted, not named.",
+	"p-values below 0.0001 are printed as \"< 0.0001\"; results.json holds every exact value, and every figure the report leaves out.",
+}
+
+// glossary defines the terms the report uses after its plain questions.
+var glossary = []kv{
+	{"r (Pearson)", "how closely the rows follow a straight line, from -1 to 1; 0 for no straight-line relationship"},
+	{"Slope", "how much y changes per unit of x along the least-squares line, in y units per x unit"},
+	{"Scatter about the line (residual standard deviation)", "how far, typically, a row lies from the line, in y units"},
+	{"R²", "the share of the variation in y that the line accounts for"},
+	{"Confidence interval", "the range that holds the true value in the stated share of repeated samples; the confidence band does the same for the line, and for a prediction it is the range of the mean of many rows at that x"},
+	{"Prediction interval", "the range for one new row at that x: always wider than the confidence interval, and without support outside the observed range of x"},
+	{"p", "how often data this far from \"no relationship\" would arise by chance; adjusted when several are read together"},
+	{"Externally studentized residual", "a row's distance from the line fitted without it, in standard errors"},
+	{"Cook's distance", "how far the whole line moves when the row is left out"},
+	{"Leverage", "how far out in x a row lies, from 1/n to 1; at 1 the row alone sets the slope"},
+	{"Spearman ρ, Kendall τ-b", "correlations of the ranks: they use the order of the values, not their distances"},
+	{"Distance correlation", "a measure of dependence of any shape, 0 only when there is none"},
+	{"Breusch–Pagan", "a test of whether the scatter about the line changes with x"},
+	{"Durbin–Watson", "2 when neighbouring rows stray from the line independently, well below 2 when they stray together"},
+	{"LOWESS", "a smooth curve that follows the rows, drawn to show a shape the line may miss"},
+	{"AIC", "a fit's closeness penalised for its coefficients; lower is better, and only fits of the same y compare"},
+}
+
+// failedGate is one failed CI gate, for the banner at the top.
+type failedGate struct {
+	Study, Gate, Link string
 }
 
 type kv struct{ K, V string }
@@ -86,8 +132,22 @@ type studyView struct {
 	Error    string
 	Headline string
 	Verdict  []kv
+	// Status names what the pooled verdict alone would hide (rests on
+	// single rows, reverses within groups, explained by a covariate,
+	// curved); Slope is the line's slope with its unit and interval;
+	// Gates are the CI gates' outcomes, one line each.
+	Status   []string
+	Slope    string
+	Gates    []gateLine
+	Top      []*section // the engineer's notes, shown before the detail
 	Figures  []figure
 	Sections []*section
+}
+
+// gateLine is one CI gate's outcome at the top of its study.
+type gateLine struct {
+	OK   bool
+	Text string
 }
 
 func name(v report.Variable) string {
@@ -162,7 +222,7 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 	}
 	// The findings state the cut points as the rules apply them; a report
 	// written before that field existed shows its table of cut points only.
-	p.Thresholds = m.Rules
+	p.Thresholds = ascii(m.Rules)
 
 	p.Datasets = table{Caption: "Data files read",
 		Head: []string{"Dataset", "File", "SHA-256", "Rows read", "Missing cells", "Non-numeric cells"},
@@ -242,10 +302,29 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 	}
 
 	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(len(r.Studies), m.Adjust, p.Level)}
+	p.RunDate = runDate(r.Generated)
+	p.Appendix, p.Glossary = appendix, glossary
+	ids := []string{"manifest " + m.File + " (SHA-256 " + shortHash(m.SHA256) + ")"}
+	for _, d := range r.Datasets {
+		file := d.File
+		if file == "" && d.Source != nil {
+			file = d.Source.Kind
+		}
+		ids = append(ids, fmt.Sprintf("%s: %s, %s (SHA-256 %s)", d.ID, file, nRows(d.Rows), shortHash(d.SHA256)))
+	}
+	p.Identity = strings.Join(ids, " · ")
 	anchors := slugs(r.Studies)
 	for i := range r.Studies {
 		s := &r.Studies[i]
+		for _, e := range s.Expectations {
+			if !e.OK {
+				p.Failed = append(p.Failed, failedGate{Study: s.ID, Gate: gateTitle(e), Link: "study-" + anchors[i] + "-gates"})
+			}
+		}
 		p.Summary.Rows = append(p.Summary.Rows, summaryLine(s, "study-"+anchors[i]))
+		if i == len(r.Studies)-1 {
+			p.Checks = checksTable(r.Studies, anchors)
+		}
 		sv, err := buildStudy(s, anchors[i], i, p.Level, cfg, th)
 		if err != nil {
 			return nil, err
@@ -253,6 +332,27 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 		p.Studies = append(p.Studies, sv)
 	}
 	return p, nil
+}
+
+// runDate writes an RFC 3339 time as "2026-12-05 04:40 UTC"; a time it
+// cannot read is shown as written.
+func runDate(t string) string {
+	if t == "" {
+		return ""
+	}
+	if len(t) >= 16 && t[10] == 'T' && strings.HasSuffix(t, "Z") {
+		return t[:10] + " " + t[11:16] + " UTC"
+	}
+	return t
+}
+
+// shortHash is the first 12 hex digits of a SHA-256, enough to tell files
+// apart by eye (the full hash is under "Where these results come from").
+func shortHash(h string) string {
+	if len(h) > 12 {
+		return h[:12]
+	}
+	return h
 }
 
 // nRows writes "1 row" or "n rows".
@@ -301,6 +401,9 @@ type summary struct {
 
 type summaryRow struct {
 	ID, Title, Link, Class string
+	Finding                string // the findings' headline
+	Status                 string // what the pooled verdict would hide, in words
+	Slope                  string // the line's slope with its unit
 	N                      string
 	R, RCI                 string // "−0.982", "−0.987 to −0.974"
 	P                      string
@@ -338,7 +441,7 @@ func pHead(adjust string) string {
 }
 
 func summaryCaption(n int, adjust, level string) string {
-	c := fmt.Sprintf("All studies at a glance: Pearson r with its %s%% interval", level)
+	c := fmt.Sprintf("Each study's finding, what the pooled verdict alone would hide, the slope with its %s%% interval, and the CI gates", level)
 	switch adjust {
 	case "holm":
 		c += fmt.Sprintf("; p adjusted across the %d studies by Holm's method", n)
@@ -355,33 +458,21 @@ func summaryCaption(n int, adjust, level string) string {
 // Table is the summary as a plain table (the Markdown report).
 func (s summary) Table() table {
 	t := table{Caption: s.Caption,
-		Head: []string{"Study", "n", "r (" + s.Level + "% interval)", s.PHead, "Form", "Direction", "Strength", "Flagged rows", "Expectations"},
-		Num:  []bool{false, true, true, true, false, false, false, false, false}}
+		Head: []string{"Study", "Finding", "Slope (" + s.Level + "% interval)", "CI gates"},
+		Num:  []bool{false, false, true, false}}
 	for _, r := range s.Rows {
-		rv := r.R
-		if r.RCI != "" {
-			rv += " (" + r.RCI + ")"
+		finding := r.Finding
+		if r.Status != "" {
+			finding += " Status: " + r.Status + "."
 		}
-		form := r.Form
-		if r.Bend != "" {
-			form += ", " + r.Bend
-		}
-		dir, strength := r.Direction, r.Strength
-		if r.DirNote != "" {
-			dir += ", " + r.DirNote
-		}
-		if r.StrengthNote != "" {
-			strength += ", " + r.StrengthNote
-		}
-		flags := r.Flags
-		if r.FlagNote != "" {
-			flags += ", " + r.FlagNote
+		if finding == "" {
+			finding = r.Form
 		}
 		exp := r.Expect
 		if r.ExpectNote != "" {
 			exp += ", " + r.ExpectNote
 		}
-		t.Rows = append(t.Rows, []string{r.ID, r.N, rv, r.P, form, dir, strength, flags, exp})
+		t.Rows = append(t.Rows, []string{r.ID, finding, orDash(r.Slope), exp})
 		t.Classes = append(t.Classes, r.Class)
 		t.Links = append(t.Links, r.Link)
 	}
@@ -440,9 +531,18 @@ func summaryLine(s *report.Study, link string) summaryRow {
 			notes = append(notes, "gone given "+strings.Join(covariateLabels(s, f.ExplainedBy), " or ")+map[bool]string{true: " (each alone)", false: ""}[len(f.ExplainedBy) > 1])
 		}
 		row.DirNote = strings.Join(notes, "; ")
+		row.Finding = ascii(f.Headline)
+		row.Status = strings.Join(statusOf(s), "; ")
 		if f.CurveStrength != "" && f.CurveStrength != f.Strength {
 			row.StrengthNote = "as a curve: " + f.CurveStrength
 		}
+	}
+	row.Slope = slopeText(s, "")
+	if row.Slope != "" {
+		row.Slope = strings.Replace(row.Slope, "(CI ", "(", 1)
+	}
+	if s.Findings != nil && s.Findings.TurnsOver {
+		row.Slope = "none: the curve turns over"
 	}
 	row.Flags = "none"
 	if s.Influence != nil && s.Influence.Counts.Suspect > 0 {
@@ -467,6 +567,61 @@ func summaryLine(s *report.Study, link string) summaryRow {
 	return row
 }
 
+// statusOf names, from the findings, what a reader of the pooled verdict
+// alone would miss: a result resting on single rows, a reversal within
+// groups, a covariate that carries it, a curve.
+func statusOf(s *report.Study) []string {
+	f := s.Findings
+	if f == nil {
+		return nil
+	}
+	var out []string
+	if f.OutlierDriven {
+		out = append(out, "rests on single rows")
+	}
+	if f.Reversal {
+		out = append(out, "reverses within "+chart.GroupName(s))
+	}
+	if len(f.ExplainedBy) > 0 {
+		out = append(out, "explained by "+strings.Join(covariateLabels(s, f.ExplainedBy), " or "))
+	}
+	if f.Form == "curved" {
+		w := "curved"
+		if f.TurnsOver {
+			w += ", turns over inside the data"
+		}
+		out = append(out, w)
+	}
+	if f.Form == "nonlinear" {
+		out = append(out, "a dependence that is not a line")
+	}
+	if f.Drift {
+		out = append(out, "drifts in run order")
+	}
+	if f.SpreadChanges {
+		out = append(out, "uneven scatter")
+	}
+	return out
+}
+
+// slopeText is the line's slope with its unit and interval, or "" when
+// there is none.
+func slopeText(s *report.Study, level string) string {
+	l := s.Line
+	if l == nil || l.Slope == nil || !l.Slope.Estimate.Valid() {
+		return ""
+	}
+	t := withSym(num(l.Slope.Estimate), unitPer(s))
+	if l.Slope.CILow.Valid() && l.Slope.CIHigh.Valid() {
+		ci := "CI"
+		if level != "" {
+			ci = level + "% CI"
+		}
+		t += " (" + ci + " " + interval(l.Slope.CILow, l.Slope.CIHigh) + ")"
+	}
+	return t
+}
+
 func formWord(f *report.Findings) string {
 	w := f.Form
 	if f.Bend != nil && *f.Bend != "" {
@@ -488,8 +643,22 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		sv.Error = *s.Error
 		return sv, nil
 	}
+	sv.Status = statusOf(s)
+	sv.Slope = slopeText(s, level)
+	for _, e := range s.Expectations {
+		text := fmt.Sprintf("%s: wanted %s, found %s", gateTitle(e), ascii(e.Want), ascii(e.Got))
+		if !e.OK {
+			text += ". " + capital(ascii(e.Detail)) + "."
+		}
+		sv.Gates = append(sv.Gates, gateLine{OK: e.OK, Text: text})
+	}
+	if sec, err := notesSection(s, level, th); err != nil {
+		return nil, fmt.Errorf("study %q: %w", s.ID, err)
+	} else if sec != nil {
+		sv.Top = append(sv.Top, sec)
+	}
 	if f := s.Findings; f != nil {
-		sv.Headline = f.Headline
+		sv.Headline = ascii(f.Headline)
 		sv.Verdict = []kv{{"Form", formWord(f)}, {"Direction", f.Direction}, {"Strength", f.Strength}}
 		if f.CurveStrength != "" {
 			sv.Verdict = append(sv.Verdict, kv{"Curve strength", f.CurveStrength})

@@ -156,7 +156,7 @@ func TestCSSAndPalette(t *testing.T) {
 		if err != nil {
 			t.Fatalf("CSS(%q): %v", name, err)
 		}
-		for _, want := range []string{"@media print", "break-before: page", "--chart-bg"} {
+		for _, want := range []string{"@media print", ".study > header { break-after: avoid", "--chart-bg"} {
 			if !strings.Contains(css, want) {
 				t.Errorf("CSS(%q) lacks %q", name, want)
 			}

@@ -127,13 +127,19 @@ type Tests struct {
 
 // Summary counts what changed.
 type Summary struct {
-	Compared       int `json:"compared"`        // studies in both runs
-	Tested         int `json:"tested"`          // change tests done (two per study where both ran)
-	Significant    int `json:"significant"`     // studies with a change significant after adjustment
-	VerdictChanged int `json:"verdict_changed"` // studies whose form, direction, strength or outlier-driven verdict changed
-	DataChanged    int `json:"data_changed"`    // studies whose dataset hash changed
-	Added          int `json:"added"`
-	Removed        int `json:"removed"`
+	// ExpectationChanged counts the CI gates whose outcome changed (met ↔
+	// failed, or a gate in one run only); ExpectationBroken those that
+	// fail in the new run and did not in the old. They come first: a gate
+	// is what the project declared must hold.
+	ExpectationChanged int `json:"expectation_changed"`
+	ExpectationBroken  int `json:"expectation_broken"`
+	Compared           int `json:"compared"`        // studies in both runs
+	Tested             int `json:"tested"`          // change tests done (two per study where both ran)
+	Significant        int `json:"significant"`     // studies with a change significant after adjustment
+	VerdictChanged     int `json:"verdict_changed"` // studies whose form, direction, strength or outlier-driven verdict changed
+	DataChanged        int `json:"data_changed"`    // studies whose dataset hash changed
+	Added              int `json:"added"`
+	Removed            int `json:"removed"`
 }
 
 // StudyRef names a study found in one run only.
@@ -172,7 +178,22 @@ type StudyChange struct {
 
 	Verdicts       []VerdictChange `json:"verdicts"` // changed verdicts only
 	VerdictChanged bool            `json:"verdict_changed"`
-	Significant    bool            `json:"significant"` // r or slope change significant after adjustment
+	// Expectations are the study's CI gates in either run with their
+	// outcomes; ExpectationChanged is set when any outcome changed.
+	Expectations       []ExpectationChange `json:"expectations"`
+	ExpectationChanged bool                `json:"expectation_changed"`
+	// SlopeGate sets the slope change against the declared slope_within
+	// limits; nil without such a gate or a slope test.
+	SlopeGate *SlopeGate `json:"slope_gate"`
+	// AtX is the change of the line's mean response, in y units, at the x
+	// values the study predicts at (AtXFrom "predictions") or, without
+	// any, at the ends and middle of the new run's x range ("range").
+	AtX     []AtX  `json:"at_x"`
+	AtXFrom string `json:"at_x_from"`
+	// Lines are both runs' lines with confidence bands, for the
+	// old-against-new chart; nil where either is undefined.
+	Lines       *Lines `json:"lines"`
+	Significant bool   `json:"significant"` // r or slope change significant after adjustment
 	// Statement says in plain words what changed in this study, by how
 	// much and whether beyond chance; "" when nothing did.
 	Statement string   `json:"statement"`
@@ -300,7 +321,7 @@ func Diff(old, new *report.Report, opts Options) *Result {
 			res.Added = append(res.Added, ref(cur))
 			continue
 		}
-		res.Studies = append(res.Studies, compareStudy(prev, cur, old, new))
+		res.Studies = append(res.Studies, compareStudy(prev, cur, old, new, alpha))
 	}
 	for i := range old.Studies {
 		if !newIDs[old.Studies[i].ID] {
@@ -353,6 +374,14 @@ func Diff(old, new *report.Report, opts Options) *Result {
 		if sc.DataChanged {
 			s.DataChanged++
 		}
+		for _, e := range sc.Expectations {
+			if e.Changed {
+				s.ExpectationChanged++
+			}
+			if e.Broken {
+				s.ExpectationBroken++
+			}
+		}
 	}
 	res.Statements = statements(res)
 	return res
@@ -360,6 +389,10 @@ func Diff(old, new *report.Report, opts Options) *Result {
 
 // AnyVerdictChanged reports whether a compared study's verdict changed.
 func (r *Result) AnyVerdictChanged() bool { return r.Summary.VerdictChanged > 0 }
+
+// AnyExpectationBroken reports whether a CI gate fails in the new run that
+// did not fail in the old one (held there, or was not declared).
+func (r *Result) AnyExpectationBroken() bool { return r.Summary.ExpectationBroken > 0 }
 
 // AnySignificant reports whether a compared study's r or slope changed
 // significantly after adjustment.
@@ -428,7 +461,7 @@ func datasetHash(r *report.Report, id string) string {
 	return ""
 }
 
-func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange {
+func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float64) StudyChange {
 	sc := StudyChange{
 		ID:        cur.ID,
 		Title:     cur.Title,
@@ -445,6 +478,7 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange 
 		NewSHA256: datasetHash(new, cur.Dataset),
 		Verdicts:  []VerdictChange{},
 		Notes:     []string{},
+		AtX:       []AtX{},
 		OldError:  prev.Error,
 		NewError:  cur.Error,
 	}
@@ -493,6 +527,7 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report) StudyChange 
 	sc.Agreement = compareAgreement(prev, cur)
 	sc.Verdicts = append(sc.Verdicts, agreementVerdict(prev, cur)...)
 	sc.VerdictChanged = len(sc.Verdicts) > 0
+	matters(&sc, prev, cur, alpha)
 	return sc
 }
 

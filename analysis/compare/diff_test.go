@@ -307,7 +307,7 @@ func TestStatements(t *testing.T) {
 	// A study that could not be tested is named.
 	msg := "column \"y\" is constant"
 	bad := Diff(rep("a", study("s", x3, y3, f)), rep("a", report.Study{ID: "s", Error: &msg}), Options{})
-	if last := bad.Statements[len(bad.Statements)-1]; last != "Not tested (see the notes): s." {
+	if !slices.Contains(bad.Statements, "Not tested (see the notes): s.") {
 		t.Errorf("untested: %q", bad.Statements)
 	}
 }

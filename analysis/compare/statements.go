@@ -59,6 +59,9 @@ func statements(res *Result) []string {
 		}
 	}
 	out = append(out, head)
+	if s.ExpectationChanged > 0 {
+		out = append(out, gatesHead(res))
+	}
 	for i := range res.Studies {
 		res.Studies[i].Statement = studyStatement(&res.Studies[i], res.Alpha)
 	}
@@ -71,20 +74,77 @@ func statements(res *Result) []string {
 	if len(untested) > 0 {
 		out = append(out, fmt.Sprintf("Not tested (see the notes): %s.", strings.Join(untested, ", ")))
 	}
+	if d := dataFact(res); d != "" {
+		out = append(out, d)
+	}
 	return out
+}
+
+// gatesHead is the sentence on the CI gates whose outcome changed, which
+// leads the comparison.
+func gatesHead(res *Result) string {
+	var parts []string
+	for _, sc := range res.Studies {
+		for _, e := range sc.Expectations {
+			if e.Changed {
+				parts = append(parts, fmt.Sprintf("%s: %s %s", sc.ID, e.Title, outcomeMove(e)))
+			}
+		}
+	}
+	n := res.Summary.ExpectationChanged
+	head := fmt.Sprintf("%d CI gates changed their outcome", n)
+	if n == 1 {
+		head = "1 CI gate changed its outcome"
+	}
+	return head + " (" + strings.Join(parts, "; ") + ")."
+}
+
+// outcomeMove says how a gate's outcome went from the old run to the new.
+func outcomeMove(e ExpectationChange) string {
+	word := func(ok *bool) string {
+		switch {
+		case ok == nil:
+			return "not declared"
+		case *ok:
+			return "met"
+		}
+		return "failed"
+	}
+	return word(e.OldOK) + " → " + word(e.NewOK)
+}
+
+// dataFact states which data files the runs read, as a fact: a new run
+// normally reads a new file.
+func dataFact(res *Result) string {
+	var parts []string
+	for _, d := range res.Datasets {
+		switch d.Status {
+		case "changed":
+			parts = append(parts, fmt.Sprintf("%s was read from %s (%d rows) in the new run and from %s (%d rows) in the old", d.ID, d.NewFile, d.NewRows, d.OldFile, d.OldRows))
+		case "same":
+			parts = append(parts, fmt.Sprintf("%s is the same file in both runs (%s, SHA-256 alike), so only the settings or the tool can explain a change", d.ID, d.NewFile))
+		}
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return "Data: " + strings.Join(parts, "; ") + "."
 }
 
 // studyStatement is the sentence for one study: the change beyond chance
 // in the slope and in r, with the change in the other measure for
 // context, and the verdicts that changed. "" when nothing changed.
 func studyStatement(sc *StudyChange, alpha float64) string {
-	if !sc.Significant && !sc.VerdictChanged {
+	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged {
 		return ""
 	}
 	var parts []string
 	rSig := sc.R != nil && sc.R.PAdjusted.Valid() && float64(sc.R.PAdjusted) < alpha
 	slopeSig := sc.Slope != nil && sc.Slope.PAdjusted.Valid() && float64(sc.Slope.PAdjusted) < alpha
 	unit := unitSuffix(sc.SlopeUnit())
+	if g := sc.SlopeGate; g != nil && sc.Slope != nil && (slopeSig || g.OldInside != g.NewInside) {
+		parts = append(parts, gateSentence(sc, g, unit))
+	}
 	if sl := sc.Slope; slopeSig {
 		parts = append(parts, fmt.Sprintf("The slope changed beyond chance: from %s to %s%s, a change of %s ± %s (SE)%s (t = %s, %d df, adjusted p %s).",
 			g4(sl.Old), g4(sl.New), unit, signed4(sl.Delta), g4(sl.SE), steepness(sl.Old, sl.New), fix(sl.T), sl.DF, pText(sl.PAdjusted)))
@@ -101,6 +161,16 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 	if a := agreementStatement(sc.Agreement, alpha); a != "" {
 		parts = append(parts, a)
 	}
+	if slopeSig || sc.ExpectationChanged {
+		if a := atXSentence(sc); a != "" {
+			parts = append(parts, a)
+		}
+	}
+	for _, e := range sc.Expectations {
+		if e.Changed && e.Name != "slope_within" {
+			parts = append(parts, fmt.Sprintf("The gate %q went %s (%s).", e.Title, outcomeMove(e), gotMove(e)))
+		}
+	}
 	if len(sc.Verdicts) > 0 {
 		var v []string
 		for _, vc := range sc.Verdicts {
@@ -112,10 +182,66 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 		}
 		parts = append(parts, "The verdict changed: "+strings.Join(v, ", ")+".")
 	}
-	if sc.Significant {
+	if sc.Significant || sc.ExpectationChanged {
 		parts = append(parts, "Find the cause (process, material, gauge or the units sampled) before acting on it.")
 	}
 	return strings.Join(parts, " ")
+}
+
+// gotMove is what a gate found in each run.
+func gotMove(e ExpectationChange) string {
+	switch {
+	case e.OldOK == nil:
+		return "new run: " + e.NewGot
+	case e.NewOK == nil:
+		return "old run: " + e.OldGot
+	}
+	return e.OldGot + " → " + e.NewGot
+}
+
+// gateSentence sets the slope change against the declared slope gate.
+func gateSentence(sc *StudyChange, g *SlopeGate, unit string) string {
+	where := func(in bool) string {
+		if in {
+			return "inside"
+		}
+		return "outside"
+	}
+	s := fmt.Sprintf("Against the slope gate (%s to %s%s): the old slope lay %s it, the new one lies %s it",
+		g4(g.Low), g4(g.High), unit, where(g.OldInside), where(g.NewInside))
+	if !g.NewInside && g.NewOutsideBy.Valid() {
+		end := "upper"
+		if float64(sc.Slope.New) < float64(g.Low) {
+			end = "lower"
+		}
+		s += fmt.Sprintf(", %s%s beyond its %s end", g4(g.NewOutsideBy), unit, end)
+	}
+	if g.ShareOfWidth.Valid() {
+		s += fmt.Sprintf("; the change is %s%% of the gate's width", strconv.FormatFloat(100*float64(g.ShareOfWidth), 'f', 0, 64))
+	}
+	return s + "."
+}
+
+// atXSentence gives the change in y units at the x values the study
+// predicts at (or across its range).
+func atXSentence(sc *StudyChange) string {
+	if len(sc.AtX) == 0 {
+		return ""
+	}
+	xu, yu := unitSuffix(sc.XSymbol), unitSuffix(sc.YSymbol)
+	var parts []string
+	for _, a := range sc.AtX {
+		p := fmt.Sprintf("at %s%s the line gives %s%s instead of %s%s (%s%s ± %s%s)", g4(a.X), xu, g4(a.New), yu, g4(a.Old), yu, signed4(a.Delta), yu, g4(a.SE), yu)
+		if !a.InRange {
+			p += ", outside the observed range"
+		}
+		parts = append(parts, p)
+	}
+	lead := "In y units, where the study predicts: "
+	if sc.AtXFrom == "range" {
+		lead = "In y units, across the observed range: "
+	}
+	return lead + strings.Join(parts, "; ") + " (new − old ± SE)."
 }
 
 // steepness says how the slope's size changed, when both slopes have the
@@ -189,12 +315,14 @@ func pText(f report.Float) string {
 	return "= " + strconv.FormatFloat(float64(f), 'g', 3, 64)
 }
 
-// minus puts the true minus sign in a formatted number, and writes large
-// and small numbers without the e notation where Go would use it.
+// minus writes large and small numbers without the e notation where Go
+// would use it. Negative numbers keep the ASCII hyphen-minus: the diff's
+// tables use it so that they paste into a spreadsheet as numbers, and one
+// output uses one convention.
 func minus(s string) string {
 	if i := strings.IndexByte(s, 'e'); i >= 0 {
 		exp, _ := strconv.Atoi(s[i+1:])
 		s = s[:i] + " × 10^" + strconv.Itoa(exp)
 	}
-	return strings.ReplaceAll(s, "-", "−")
+	return s
 }

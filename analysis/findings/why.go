@@ -166,7 +166,9 @@ func (f *facts) strengthWhy(out *report.Findings) string {
 		w += fmt.Sprintf(" As a curve: %s, from the quadratic's R² = %s, whose square root %s is %s.",
 			out.CurveStrength, corr(r2), corrVs(math.Sqrt(r2), f.th.Strong, f.th.Moderate, f.th.Weak), f.gradeText(out.CurveStrength))
 	}
-	return w + " The cut points are common practice, not a standard."
+	// The cut points and that they are common practice, not a standard,
+	// are stated once with the rules (report.ManifestInfo.Rules).
+	return w
 }
 
 func (f *facts) formWhy(out *report.Findings) string {
@@ -222,8 +224,9 @@ func (f *facts) formWhy(out *report.Findings) string {
 		}
 		if q := f.quad; q != nil && q.R2.Valid() {
 			l, c := corrPair(lineR2, float64(q.R2))
-			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic, which removes a share %s of the line's residual sum of squares; a curve needs the x² term and the quadratic significant at %s and a share of at least %s, %s)",
-				f.screenP(checkCurvature, f.quadP()), l, c, f.shareText(), f.alphaText(), num(f.th.CurveShare), OwnChoice)
+			// What a curve needs is stated once with the rules.
+			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic, which removes a share %s of the line's residual sum of squares, %s needed)",
+				f.screenP(checkCurvature, f.quadP()), l, c, f.shareText(), num(f.th.CurveShare))
 		}
 		if f.dwx < f.dwxBound {
 			w += fmt.Sprintf(". The residuals in order of %s swing together (Durbin–Watson %s, below %s), but with |r| = %s at or above %s that does not overturn the line; look at the residual plot",

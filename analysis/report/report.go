@@ -37,7 +37,7 @@ const Caution = "Statistical evidence supports, but does not replace, the organi
 type Report struct {
 	Schema    string       `json:"schema"`
 	Tool      Tool         `json:"tool"`
-	Generated string       `json:"generated,omitempty"` // RFC 3339, only when SOURCE_DATE_EPOCH is set
+	Generated string       `json:"generated,omitempty"` // the run's date, RFC 3339 UTC: SOURCE_DATE_EPOCH when set, else the time of the run; "" from analysis.Run without one
 	Manifest  ManifestInfo `json:"manifest"`
 	Datasets  []Dataset    `json:"datasets"`
 	Studies   []Study      `json:"studies"`
@@ -362,7 +362,27 @@ type Fit struct {
 	AIC          Float  `json:"aic"` // n·ln(RSS/n) + 2k, k = coefficients; comparable only between fits of the same response
 	// Vertex is the x where a quadratic turns over (NaN for other fits).
 	Vertex Float `json:"vertex"`
+	// VertexNear: the turning point lies inside the observed x range or
+	// within a quarter of its width beyond either end (VertexMargin); a
+	// turning point farther out says nothing about these data and is not
+	// shown.
+	VertexNear bool `json:"vertex_near,omitempty"`
+	// YScale is the scale of the response the fit was made on: "y", or
+	// "ln(y)" for log-y and log-log. AIC and R² compare only fits on the
+	// same scale.
+	YScale string `json:"y_scale,omitempty"`
+	// AICVsLine is AIC minus the straight line's AIC, and ShareVsLine the
+	// share of the line's residual sum of squares the fit removes, 1 −
+	// RSS/RSS_line: both only for fits on the line's y scale (the line
+	// itself 0 and 0), NaN for the others.
+	AICVsLine   Float `json:"aic_vs_line"`
+	ShareVsLine Float `json:"share_vs_line"`
 }
+
+// VertexMargin is how far beyond the observed x range, as a share of its
+// width, a quadratic's turning point still counts as near the data (a
+// choice of this tool, not a standard).
+const VertexMargin = 0.25
 
 // Diagnostics are the tests of form, spread and order.
 type Diagnostics struct {
@@ -702,11 +722,24 @@ type Approximation struct {
 
 // Expectation is one CI gate from [study.expect] and its outcome.
 type Expectation struct {
-	Name   string `json:"name"` // the manifest key: direction, form, min_abs_r, r_within, slope_within, max_p, min_n, not_outlier_driven
+	Name string `json:"name"` // the manifest key: direction, form, min_abs_r, r_within, slope_within, max_p, min_n, not_outlier_driven
+	// Title names the gate in words for reviewers ("slope within its
+	// limits"); the key stays in Name for the manifest's author.
+	Title  string `json:"title,omitempty"`
 	Want   string `json:"want"`
 	Got    string `json:"got"`
 	OK     bool   `json:"ok"`
 	Detail string `json:"detail"`
+	// Limits are the declared [low, high] of r_within and slope_within
+	// (slope in y units per x unit), so that a comparison of two runs can
+	// set a change against them; nil for the other gates.
+	Limits *Limits `json:"limits,omitempty"`
+}
+
+// Limits is a gate's declared range, both ends included.
+type Limits struct {
+	Low  Float `json:"low"`
+	High Float `json:"high"`
 }
 
 // PlotPointsMax is the most rows a Plot carries one by one; above it the

@@ -25,12 +25,12 @@ import (
 )
 
 // failOnChoices are the values of diff --fail-on.
-var failOnChoices = []string{"verdict", "significant"}
+var failOnChoices = []string{"expectation", "verdict", "significant"}
 
 func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	flags := newFlagSet("diff")
 	out := flags.String("o", "diff", "output `DIR` for diff.html, diff.md and diff.json")
-	failOn := flags.String("fail-on", "", "comma-separated `LIST` of changes that give exit status 3: verdict, significant")
+	failOn := flags.String("fail-on", "", "comma-separated `LIST` of changes that give exit status 3: expectation (a CI gate that held now fails), verdict, significant")
 	theme := flags.String("theme", themes.Default, "HTML theme `NAME`: "+strings.Join(themes.Names(), ", "))
 	if code, ok := parseFlags(flags, args, stdout, stderr); !ok {
 		return code
@@ -83,8 +83,8 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		return exitFailed
 	}
 	s := res.Summary
-	fmt.Fprintf(stderr, "bivar diff: %s compared: %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed; written to %s\n",
-		plural(s.Compared, "study", "studies"), s.Significant, res.Alpha, compare.AdjustName(res.Adjust), s.VerdictChanged, s.Added, s.Removed, *out)
+	fmt.Fprintf(stderr, "bivar diff: %s compared: %s changed outcome (%d now failing that held before), %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed; written to %s\n",
+		plural(s.Compared, "study", "studies"), plural(s.ExpectationChanged, "CI gate", "CI gates"), s.ExpectationBroken, s.Significant, res.Alpha, compare.AdjustName(res.Adjust), s.VerdictChanged, s.Added, s.Removed, *out)
 	for _, sc := range res.Studies {
 		if sc.Statement != "" {
 			fmt.Fprintf(stderr, "bivar diff: study %q: %s\n", sc.ID, sc.Statement)
@@ -101,6 +101,10 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	code := exitOK
 	if gates["significant"] && res.AnySignificant() {
 		fmt.Fprintf(stderr, "bivar diff: failing: a significant change was found (--fail-on significant)\n")
+		code = exitExpectation
+	}
+	if gates["expectation"] && res.AnyExpectationBroken() {
+		fmt.Fprintf(stderr, "bivar diff: failing: a CI gate that held in the old run fails in the new one (--fail-on expectation)\n")
 		code = exitExpectation
 	}
 	if gates["verdict"] && res.AnyVerdictChanged() {

@@ -55,6 +55,14 @@ func TestDiffCommand(t *testing.T) {
 	same := writeResults(t, filepath.Join(dir, "same"), runOf(2, 0.8, "strong"))
 	changed := writeResults(t, filepath.Join(dir, "changed"), runOf(3, 0.3, "moderate"))
 	out := filepath.Join(dir, "out")
+	// A gate met in the old run and failed in the new one (the sample
+	// project's October to November runs, in small).
+	gated := func(seed uint64, ok bool) string {
+		r := runOf(seed, 0.8, "strong")
+		r.Studies[0].Expectations = []report.Expectation{{Name: "slope_within", Title: "slope within its limits", Want: "slope in [0.7, 0.9]", OK: ok, Got: "slope"}}
+		return writeResults(t, filepath.Join(dir, fmt.Sprintf("gated-%v", ok)), r)
+	}
+	gateMet, gateFailed := gated(1, true), gated(2, false)
 
 	cases := []struct {
 		name string
@@ -66,8 +74,12 @@ func TestDiffCommand(t *testing.T) {
 		{"changed, not gated", []string{"diff", "-o", out, a, filepath.Join(dir, "changed")}, exitOK, "1 changed beyond chance"},
 		{"changed, gated on significant", []string{"diff", "-o", out, "--fail-on", "significant", a, changed}, exitExpectation, "--fail-on significant"},
 		{"changed, gated on verdict", []string{"diff", "--fail-on=verdict", "-o", out, a, changed}, exitExpectation, "strength strong → moderate"},
+		{"gate broken, not gated", []string{"diff", "-o", out, gateMet, gateFailed}, exitOK, "1 CI gate changed outcome (1 now failing that held before)"},
+		{"gate broken, gated on verdict and significant", []string{"diff", "-o", out, "--fail-on", "verdict,significant", gateMet, gateFailed}, exitOK, "slope within its limits met → failed"},
+		{"gate broken, gated on expectation", []string{"diff", "-o", out, "--fail-on", "expectation", gateMet, gateFailed}, exitExpectation, "--fail-on expectation"},
+		{"gate mended, gated on expectation", []string{"diff", "-o", out, "--fail-on", "expectation", gateFailed, gateMet}, exitOK, "0 now failing"},
 		{"folders", []string{"diff", "-o", out, filepath.Join(dir, "a"), filepath.Join(dir, "same")}, exitOK, "1 study compared"},
-		{"bad fail-on", []string{"diff", "--fail-on", "verdicts", a, same}, exitUsage, `"verdicts": want a comma-separated list of verdict, significant`},
+		{"bad fail-on", []string{"diff", "--fail-on", "verdicts", a, same}, exitUsage, `"verdicts": want a comma-separated list of expectation, verdict, significant`},
 		{"bad theme", []string{"diff", "--theme", "neon", a, same}, exitUsage, "unknown theme"},
 		{"one argument", []string{"diff", a}, exitUsage, "want OLD and NEW"},
 		{"missing file", []string{"diff", "-o", out, filepath.Join(dir, "nope.json"), same}, exitFailed, "OLD:"},

@@ -888,7 +888,7 @@ func initManifestAll(profs []*csvProfile, rel string) string {
 	w("#   expect              CI gates checked by 'bivar check', e.g. expect = { min_abs_r = 0.5 }:\n")
 	w("#                       direction (%s), form (%s),\n", strings.Join(manifest.Directions(), "|"), strings.Join(manifest.Forms(), "|"))
 	w("#                       min_abs_r, r_within = [lo, hi], slope_within = [lo, hi] (recorded units),\n")
-	w("#                       max_p (adjusted), min_n, not_outlier_driven = true\n")
+	w("#                       max_p (adjusted), min_n, not_outlier_driven = true; agree = true (agreement studies)\n")
 	for _, prof := range profs {
 		var group, order string
 		for _, c := range prof.cols {

@@ -34,6 +34,14 @@ type command struct {
 	Run   func(ctx context.Context, args []string, stdout, stderr io.Writer) int
 }
 
+// manifestHelp points to the manifest's documentation and lists the
+// expectation keys, for run and check.
+const manifestHelp = `The manifest's keys are documented in docs/manifest.md. The CI gates go
+in a study's [study.expect] table: direction, form, min_abs_r, r_within,
+slope_within (two numbers, in y units per x unit), max_p, min_n,
+not_outlier_driven and, for an agreement study, agree (the limits of
+agreement inside the acceptable difference).`
+
 // commands returns the table. It is a function, not a package variable,
 // so the table holds no state between calls.
 func commands() []command {
@@ -59,7 +67,9 @@ next run removes what a run that was killed left behind.
 Exit status: 0 when every study ran and every expectation held, 1 on bad
 input, a failed study or an output that cannot be written, 2 on a usage
 error, 3 when an expectation failed, 130 after SIGINT (Ctrl-C) and 143
-after SIGTERM.`,
+after SIGTERM.
+
+` + manifestHelp,
 			Run: runRun,
 		},
 		{
@@ -75,7 +85,9 @@ check that fails or is stopped before the renames leaves both old files.
 
 Exit status: 0 when every study ran and every expectation held, 1 on bad
 input or when a study did not run, 2 on a usage error, 3 when an
-expectation failed, 130 after SIGINT (Ctrl-C) and 143 after SIGTERM.`,
+expectation failed, 130 after SIGINT (Ctrl-C) and 143 after SIGTERM.
+
+` + manifestHelp,
 			Run: runCheck,
 		},
 		{
@@ -89,8 +101,14 @@ removed. Writes diff.html, diff.md and diff.json to -o DIR (default: diff),
 a folder of its own replaced whole in one step, as 'bivar run' replaces
 its report.
 
---fail-on chooses which changes give exit status 3: verdict, significant
-(comma-separated; default none). Exit status: 0, or 3 for a gated change;
+The CI gates whose outcome changed come first, then each change in slope
+set against the declared slope gate and shown in y units at the x values
+the study predicts at, with a chart of the old line against the new one.
+
+--fail-on chooses which changes give exit status 3 (comma-separated;
+default none): expectation (a CI gate that held in OLD fails in NEW, or a
+new gate fails), verdict (a verdict changed), significant (r or the slope
+changed beyond chance). Exit status: 0, or 3 for a gated change;
 1 on bad input, 2 on a usage error, 130 after SIGINT and 143 after SIGTERM.`,
 			Run: runDiff,
 		},
@@ -212,6 +230,11 @@ func runHelp(args []string, stdout, stderr io.Writer) int {
 	}
 	for _, c := range commands() {
 		if c.Name == args[0] {
+			if c.Run != nil {
+				// The command's own -h: the same text and options, spelled
+				// the same, as 'bivar COMMAND -h'.
+				return c.Run(context.Background(), []string{"-h"}, stdout, stderr)
+			}
 			commandHelp(stdout, c)
 			return exitOK
 		}

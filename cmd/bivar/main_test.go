@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -162,6 +163,47 @@ func TestExitStatusDocumented(t *testing.T) {
 		for _, want := range []string{fmt.Sprintf("%d after SIGINT", exitInterrupted), fmt.Sprintf("%d after SIGTERM", exitTerminated)} {
 			if !strings.Contains(out, want) {
 				t.Errorf("bivar help %s lacks %q", name, want)
+			}
+		}
+	}
+}
+
+// TestHelpMatchesDashH checks that 'bivar help COMMAND' shows what
+// 'bivar COMMAND -h' shows, options included, and that run's and check's
+// help point to docs/manifest.md and name every expectation key the
+// manifest documents.
+func TestHelpMatchesDashH(t *testing.T) {
+	for _, c := range commands() {
+		if c.Run == nil {
+			continue
+		}
+		_, help, _ := call(t, "help", c.Name)
+		_, dashH, _ := call(t, c.Name, "-h")
+		if help != dashH {
+			t.Errorf("bivar help %s:\n%s\ndiffers from bivar %s -h:\n%s", c.Name, help, c.Name, dashH)
+		}
+	}
+	_, runHelp, _ := call(t, "help", "run")
+	if !strings.Contains(runHelp, "Options:\n  -o DIR") {
+		t.Errorf("bivar help run lists no options:\n%s", runHelp)
+	}
+	doc, err := os.ReadFile(filepath.Join("..", "..", "docs", "manifest.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	keys := regexp.MustCompile("`study\\.expect\\.([a-z_]+)`").FindAllStringSubmatch(string(doc), -1)
+	if len(keys) < 8 {
+		t.Fatalf("docs/manifest.md names %d expectation keys", len(keys))
+	}
+	for _, name := range []string{"run", "check"} {
+		_, out, _ := call(t, "help", name)
+		out = strings.Join(strings.Fields(out), " ")
+		if !strings.Contains(out, "docs/manifest.md") {
+			t.Errorf("bivar help %s does not point to docs/manifest.md", name)
+		}
+		for _, k := range keys {
+			if !strings.Contains(out, k[1]) {
+				t.Errorf("bivar help %s does not list the expectation key %s", name, k[1])
 			}
 		}
 	}

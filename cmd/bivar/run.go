@@ -214,13 +214,13 @@ func status(rep *report.Report, stderr io.Writer) int {
 	return exitOK
 }
 
-// sourceDateEpoch returns the report time from SOURCE_DATE_EPOCH
-// (reproducible-builds.org), or "" when it is not set: reports carry no
-// time otherwise, so two runs on the same input give the same bytes.
+// sourceDateEpoch returns the run's date and time in UTC (RFC 3339): from
+// SOURCE_DATE_EPOCH when it is set (reproducible-builds.org), so that two
+// runs on the same input give the same bytes, else the time of the run.
 func sourceDateEpoch() (string, error) {
 	v, ok := os.LookupEnv("SOURCE_DATE_EPOCH")
 	if !ok || v == "" {
-		return "", nil
+		return time.Now().UTC().Truncate(time.Second).Format(time.RFC3339), nil
 	}
 	sec, err := strconv.ParseInt(v, 10, 64)
 	if err != nil {

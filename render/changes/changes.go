@@ -22,6 +22,7 @@ import (
 	"bivar/analysis/report"
 	"bivar/internal/cleantext"
 	"bivar/internal/publish"
+	"bivar/render/chart"
 	"bivar/render/internal/mdtext"
 	"bivar/themes"
 )
@@ -39,6 +40,11 @@ var page = template.Must(template.New("diff").Funcs(template.FuncMap{
 	"verdictName":   verdictName,
 	"below":         below,
 	"slopeUnit":     slopeUnit,
+	"outcome":       outcome,
+	"yesNo":         yesNo,
+	"paren":         paren,
+	"statusWords":   statusWords,
+	"anchor":        anchor,
 	"agreement":     agreementRows,
 	"agreementHead": func() []string { return agreementHead },
 }).Option("missingkey=error").ParseFS(tmplFS, "templates/*.tmpl"))
@@ -89,6 +95,11 @@ func DiffFiles(res *compare.Result, opts ...Option) ([]publish.File, error) {
 			err = HTML(&buf, res, opts...)
 		case "markdown":
 			err = Markdown(&buf, res)
+			if err == nil {
+				var figs []publish.File
+				figs, err = FigureFiles(res, opts...)
+				files = append(files, figs...)
+			}
 		case "json":
 			err = compare.Write(&buf, res)
 		}
@@ -145,14 +156,26 @@ func HTML(w io.Writer, res *compare.Result, opts ...Option) error {
 			anyNotes = true
 		}
 	}
+	figs, err := figures(res, c.theme)
+	if err != nil {
+		return err
+	}
+	svgs, captions := map[int]template.HTML{}, map[int]string{}
+	for i, svg := range figs {
+		svgs[i] = template.HTML(svg) // trusted: our own drawer, which escapes every text it writes
+		captions[i] = runsFigure(res, i).Caption
+	}
 	data := struct {
 		R                  *compare.Result
+		GatesLine          string
+		Figures            map[int]template.HTML
+		Captions           map[int]string
 		CSS                template.CSS // trusted: our own embedded theme files
 		OldTitle, NewTitle string
 		AnyNotes           bool
 		Flagged            []string // ids of the studies with a significant change
 		SigR, SigSlope     []string // ids of the studies whose r, or slope, changed beyond chance
-	}{res, template.CSS(css), titleOf(res.Old), titleOf(res.New), anyNotes, flagged(res), sigR(res), sigSlope(res)}
+	}{res, gatesLine(res), svgs, captions, template.CSS(css), titleOf(res.Old), titleOf(res.New), anyNotes, flagged(res), sigR(res), sigSlope(res)}
 	var buf bytes.Buffer
 	if err := page.ExecuteTemplate(&buf, "page", data); err != nil {
 		return fmt.Errorf("rendering diff.html: %w", err)
@@ -212,13 +235,28 @@ func titleOf(s compare.Side) string {
 	return "untitled run"
 }
 
-// Markdown writes diff.md.
+// Markdown writes diff.md. Its charts are the files FigureFiles returns,
+// named by figureFile.
 func Markdown(w io.Writer, res *compare.Result) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "# What changed: %s → %s\n\n", mdtext.Escape(titleOf(res.Old)), mdtext.Escape(titleOf(res.New)))
-	fmt.Fprintf(&b, "Old run: `%s` (bivar %s) · New run: `%s` (bivar %s)  \n", code(orDash(res.Old.File)), mdtext.Escape(orDash(res.Old.ToolVersion)), code(orDash(res.New.File)), mdtext.Escape(orDash(res.New.ToolVersion)))
+	fmt.Fprintf(&b, "Old run: `%s` (bivar %s%s) · New run: `%s` (bivar %s%s)  \n", code(orDash(res.Old.File)), mdtext.Escape(orDash(res.Old.ToolVersion)), generated(res.Old),
+		code(orDash(res.New.File)), mdtext.Escape(orDash(res.New.ToolVersion)), generated(res.New))
 	fmt.Fprintf(&b, "Significance level %g; change tests adjusted across all compared studies: %s.\n\n", res.Alpha, mdtext.Escape(adjustName(res.Adjust)))
-	fmt.Fprintf(&b, "> **Caution.** %s\n\n", mdtext.Escape(res.Caution))
+	s := res.Summary
+	b.WriteString("## CI gates\n\n")
+	b.WriteString(mdtext.Escape(gatesLine(res)) + "\n\n")
+	if s.ExpectationChanged > 0 {
+		b.WriteString("| Study | Gate | Wanted | Old run | New run |\n|---|---|---|---|---|\n")
+		for _, sc := range res.Studies {
+			for _, e := range sc.Expectations {
+				if e.Changed {
+					fmt.Fprintf(&b, "| `%s` | %s | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(e.Title), mdtext.Cell(e.Want), mdtext.Cell(outcome(e.OldOK, e.OldGot)), mdtext.Cell(outcome(e.NewOK, e.NewGot)))
+				}
+			}
+		}
+		b.WriteString("\n")
+	}
 	if len(res.Statements) > 0 {
 		b.WriteString("## What changed\n\n")
 		fmt.Fprintf(&b, "%s\n\n", mdtext.Escape(res.Statements[0]))
@@ -232,13 +270,41 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		}
 		b.WriteString("\n")
 	}
-	s := res.Summary
-	fmt.Fprintf(&b, "## Summary\n\n- %d studies compared\n- %d with a change beyond chance (adjusted p below %g)\n- %d with a changed verdict\n- %d on a different data file (its SHA-256 changed)\n- %d added, %d removed\n",
-		s.Compared, s.Significant, res.Alpha, s.VerdictChanged, s.DataChanged, s.Added, s.Removed)
+	fmt.Fprintf(&b, "## In numbers\n\n- CI gates whose outcome changed: %d (%d now failing that held before)\n- Studies changed beyond chance: %d of %d (adjusted p below %g)\n- Studies with a changed verdict: %d\n- Studies added: %d; removed: %d\n",
+		s.ExpectationChanged, s.ExpectationBroken, s.Significant, s.Compared, res.Alpha, s.VerdictChanged, s.Added, s.Removed)
 	for _, n := range res.Notes {
 		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(n))
 	}
 	b.WriteString("\n")
+	for i, sc := range res.Studies {
+		if !changed(sc) || (sc.Lines == nil && sc.SlopeGate == nil && len(sc.AtX) == 0) {
+			continue
+		}
+		fmt.Fprintf(&b, "## `%s`: old against new\n\n", code(sc.ID))
+		if sc.Lines != nil {
+			// The alt text is ours alone: a label inside an image's brackets
+			// could end them early.
+			fmt.Fprintf(&b, "![Old run against new: the two lines with their confidence bands](%s)\n\n", figureFile(i))
+		}
+		if g := sc.SlopeGate; g != nil && sc.Slope != nil {
+			u := slopeUnit(sc)
+			fmt.Fprintf(&b, "Slope gate: %s to %s %s.\n\n| Run | Slope (%s) | Inside the gate |\n|---|--:|---|\n| old | %s | %s |\n| new | %s | %s |\n\n",
+				num(g.Low), num(g.High), mdtext.Escape(u), mdtext.Cell(u), num(sc.Slope.Old), yesNo(g.OldInside), num(sc.Slope.New), yesNo(g.NewInside))
+		}
+		if len(sc.AtX) > 0 {
+			where := "where the study predicts"
+			if sc.AtXFrom == "range" {
+				where = "at the ends and middle of the observed range"
+			}
+			fmt.Fprintf(&b, "The line's value %s (change = new − old, ± its SE):\n\n", where)
+			fmt.Fprintf(&b, "| %s | Old%s | New%s | Change%s | ± SE%s | Inside both runs' range |\n|--:|--:|--:|--:|--:|---|\n",
+				mdtext.Cell("x"+paren(sc.XSymbol)), mdtext.Cell(paren(sc.YSymbol)), mdtext.Cell(paren(sc.YSymbol)), mdtext.Cell(paren(sc.YSymbol)), mdtext.Cell(paren(sc.YSymbol)))
+			for _, a := range sc.AtX {
+				fmt.Fprintf(&b, "| %s | %s | %s | %s | %s | %s |\n", num(a.X), num(a.Old), num(a.New), signed(a.Delta), num(a.SE), yesNo(a.InRange))
+			}
+			b.WriteString("\n")
+		}
+	}
 	if len(res.Studies) > 0 {
 		b.WriteString("## Change in correlation\n\n")
 		b.WriteString(sigLine("r", sigR(res), res.Alpha))
@@ -257,13 +323,13 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		}
 		b.WriteString("\n## Change in slope\n\n")
 		b.WriteString(sigLine("the slope", sigSlope(res), res.Alpha))
-		b.WriteString("SE of Δ from the pooled residual variance; t with n_old + n_new − 4 df. The residual SDs show whether pooling is reasonable.\n\n")
+		b.WriteString("Slope in y units per x unit. SE of Δ from the pooled residual variance; t with n_old + n_new − 4 df. The residual SDs (in y units) show whether pooling is reasonable.\n\n")
 		b.WriteString("| Study | unit | slope old → new | Δslope ± SE | t (df) | p | adjusted p | residual SD old → new |\n|---|---|--:|--:|--:|--:|--:|--:|\n")
 		for _, sc := range res.Studies {
 			cells := "not tested | | | | | "
 			if sl := sc.Slope; sl != nil {
-				cells = fmt.Sprintf("%s → %s | %s ± %s | %s (%d) | %s | %s | %s → %s", num(sl.Old), num(sl.New), signed(sl.Delta), num(sl.SE),
-					fix2(sl.T), sl.DF, pval(sl.P), mark(sl.PAdjusted, res.Alpha), num(sl.OldResidSD), num(sl.NewResidSD))
+				cells = fmt.Sprintf("%s → %s | %s ± %s | %s (%d) | %s | %s | %s → %s%s", num(sl.Old), num(sl.New), signed(sl.Delta), num(sl.SE),
+					fix2(sl.T), sl.DF, pval(sl.P), mark(sl.PAdjusted, res.Alpha), num(sl.OldResidSD), num(sl.NewResidSD), mdtext.Cell(unitAfter(sc.YSymbol)))
 			}
 			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), mdtext.Cell(slopeUnit(sc)), cells)
 		}
@@ -310,7 +376,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		b.WriteString("\n")
 	}
 	if len(res.Datasets) > 0 {
-		b.WriteString("## Data files\n\n| Dataset | Status | Old (rows, SHA-256) | New (rows, SHA-256) |\n|---|---|---|---|\n")
+		b.WriteString("## Data files\n\n| Dataset | File | Old (rows, SHA-256) | New (rows, SHA-256) |\n|---|---|---|---|\n")
 		for _, d := range res.Datasets {
 			side := func(file string, rows int, sha string) string {
 				if sha == "" {
@@ -318,7 +384,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 				}
 				return fmt.Sprintf("`%s` (%d, `%s`)", code(file), rows, code(short(sha)))
 			}
-			fmt.Fprintf(&b, "| `%s` | %s | %s | %s |\n", code(d.ID), mdtext.Cell(d.Status), side(d.OldFile, d.OldRows, d.OldSHA256), side(d.NewFile, d.NewRows, d.NewSHA256))
+			fmt.Fprintf(&b, "| `%s` | %s | %s | %s |\n", code(d.ID), mdtext.Cell(statusWords(d.Status)), side(d.OldFile, d.OldRows, d.OldSHA256), side(d.NewFile, d.NewRows, d.NewSHA256))
 		}
 		b.WriteString("\n")
 	}
@@ -330,8 +396,152 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	for _, l := range res.Limitations {
 		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(l))
 	}
+	fmt.Fprintf(&b, "\n> **Caution.** %s\n", mdtext.Escape(res.Caution))
 	_, err := io.WriteString(w, cleantext.Text(b.String()))
 	return err
+}
+
+// changed says whether a study gets a section of its own: a CI gate's
+// outcome, a verdict, or r or the slope beyond chance changed.
+func changed(sc compare.StudyChange) bool {
+	return sc.ExpectationChanged || sc.VerdictChanged || sc.Significant
+}
+
+// gatesLine is the sentence over the CI gates.
+func gatesLine(res *compare.Result) string {
+	total := 0
+	for _, sc := range res.Studies {
+		total += len(sc.Expectations)
+	}
+	s := res.Summary
+	switch {
+	case total == 0:
+		return "Neither run declares a CI gate ([study.expect]) on a study in both."
+	case s.ExpectationChanged == 0:
+		return fmt.Sprintf("No CI gate changed its outcome (%d compared).", total)
+	case s.ExpectationChanged == 1:
+		return fmt.Sprintf("1 of %d CI gates changed its outcome; %d now fails that held before.", total, s.ExpectationBroken)
+	}
+	return fmt.Sprintf("%d of %d CI gates changed their outcome; %d now fail that held before.", s.ExpectationChanged, total, s.ExpectationBroken)
+}
+
+// outcome is a gate's outcome in one run, with what it found.
+func outcome(ok *bool, got string) string {
+	switch {
+	case ok == nil:
+		return "not declared"
+	case *ok:
+		return "met (" + got + ")"
+	}
+	return "failed (" + got + ")"
+}
+
+func yesNo(b bool) string {
+	if b {
+		return "yes"
+	}
+	return "no"
+}
+
+// paren is " (unit)" or "".
+func paren(u string) string {
+	if u == "" {
+		return ""
+	}
+	return " (" + u + ")"
+}
+
+// unitAfter is " unit" or "".
+func unitAfter(u string) string {
+	if u == "" {
+		return ""
+	}
+	return " " + u
+}
+
+// statusWords says what happened to a dataset's file, as a fact.
+func statusWords(status string) string {
+	switch status {
+	case "same":
+		return "same file"
+	case "changed":
+		return "new file (expected for a new run)"
+	case "added":
+		return "only in the new run"
+	case "removed":
+		return "only in the old run"
+	}
+	return status
+}
+
+// generated is ", DATE" when the run records its date.
+func generated(s compare.Side) string {
+	if s.Generated == "" {
+		return ""
+	}
+	return ", " + mdtext.Escape(s.Generated)
+}
+
+// figureFile is the file of the i-th compared study's chart, relative to
+// the diff folder.
+func figureFile(i int) string { return fmt.Sprintf("figures/s%d-runs.svg", i+1) }
+
+// runsFigure is the old-against-new chart of the i-th compared study, or
+// nil when it has no lines.
+func runsFigure(res *compare.Result, i int) *chart.Figure {
+	sc := res.Studies[i]
+	if sc.Lines == nil {
+		return nil
+	}
+	level := strconv.FormatFloat(100*(1-res.Alpha), 'g', 4, 64)
+	x := report.Variable{Label: sc.X, Symbol: sc.XSymbol}
+	y := report.Variable{Label: sc.Y, Symbol: sc.YSymbol}
+	return chart.Runs(fmt.Sprintf("s%d-runs", i+1), x, y, level,
+		chart.RunLine{Name: fmt.Sprintf("old run (n = %d)", sc.Lines.Old.N), Points: sc.Lines.Old.Points},
+		chart.RunLine{Name: fmt.Sprintf("new run (n = %d)", sc.Lines.New.N), Points: sc.Lines.New.Points})
+}
+
+// figures draws the old-against-new chart of every study with a section
+// of its own, keyed by its index in res.Studies.
+func figures(res *compare.Result, theme string) (map[int]string, error) {
+	pal, err := themes.ChartPalette(theme)
+	if err != nil {
+		return nil, err
+	}
+	d := chart.NewSVG(pal)
+	out := map[int]string{}
+	for i, sc := range res.Studies {
+		if !changed(sc) {
+			continue
+		}
+		f := runsFigure(res, i)
+		if f == nil {
+			continue
+		}
+		var b strings.Builder
+		if err := d.Draw(&b, f); err != nil {
+			return nil, fmt.Errorf("study %q: drawing the old-against-new chart: %w", sc.ID, err)
+		}
+		out[i] = b.String()
+	}
+	return out, nil
+}
+
+// FigureFiles are the charts diff.md links to, drawn in the theme's
+// colours.
+func FigureFiles(res *compare.Result, opts ...Option) ([]publish.File, error) {
+	c := newConfig(opts)
+	figs, err := figures(res, c.theme)
+	if err != nil {
+		return nil, err
+	}
+	var files []publish.File
+	for i := range res.Studies {
+		if svg, ok := figs[i]; ok {
+			files = append(files, publish.File{Name: figureFile(i), Data: []byte(svg)})
+		}
+	}
+	return files, nil
 }
 
 // sigLine is the Markdown sentence above a table of change tests.
@@ -435,6 +645,17 @@ func verdictName(n string) string {
 		return "outlier-driven"
 	}
 	return n
+}
+
+// anchor is the id of a study's section in diff.html: "study-" and the
+// study id with every character outside [A-Za-z0-9_-] replaced by "-".
+func anchor(id string) string {
+	return "study-" + strings.Map(func(r rune) rune {
+		if r == '-' || r == '_' || ('a' <= r && r <= 'z') || ('A' <= r && r <= 'Z') || ('0' <= r && r <= '9') {
+			return r
+		}
+		return '-'
+	}, id)
 }
 
 // code makes s safe inside a one-backtick code span (and a table cell).

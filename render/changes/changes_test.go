@@ -23,8 +23,13 @@ func fixture() *compare.Result {
 	mk := func(id string, n int, sxx, syy, sxy float64, f *report.Findings) report.Study {
 		return report.Study{ID: id, Title: id, Dataset: "d", N: n,
 			X: report.Variable{Column: "melt", Label: "Melt <temp>", Unit: "Cel"}, Y: report.Variable{Column: "shrink", Unit: "%"},
-			Moments:  &report.Moments{N: n, Sxx: report.Float(sxx), Syy: report.Float(syy), Sxy: report.Float(sxy)},
+			Moments:  &report.Moments{N: n, MeanX: 50, MeanY: 10, Sxx: report.Float(sxx), Syy: report.Float(syy), Sxy: report.Float(sxy)},
+			Describe: &report.DescribePair{X: report.Describe{N: n, Min: 40, Max: 60}},
 			Findings: f}
+	}
+	gate := func(ok bool, got string) []report.Expectation {
+		return []report.Expectation{{Name: "slope_within", Title: "slope within its limits", Want: "slope in [-0.2, -0.1] %/°C", Got: got, OK: ok,
+			Limits: &report.Limits{Low: -0.2, High: -0.1}}}
 	}
 	fl := func(form, dir, str string) *report.Findings {
 		return &report.Findings{Form: form, Direction: dir, Strength: str}
@@ -34,7 +39,7 @@ func fixture() *compare.Result {
 		Manifest: report.ManifestInfo{Title: "Run A", Alpha: 0.05, Adjust: "holm"},
 		Datasets: []report.Dataset{{ID: "d", File: "a.csv", SHA256: strings.Repeat("a", 64), Rows: 40}},
 		Studies: []report.Study{
-			mk("shrink-vs-melt", 40, 1000, 50, -180, fl("linear", "negative", "strong")),
+			withGate(mk("shrink-vs-melt", 40, 1000, 50, -180, fl("linear", "negative", "strong")), gate(true, "slope = -0.18 %/°C")),
 			mk("<b>odd|id</b>", 40, 100, 100, 10, fl("none", "none", "weak")),
 			mk("old-only", 40, 100, 100, 10, nil),
 		}}
@@ -44,13 +49,19 @@ func fixture() *compare.Result {
 		Manifest: report.ManifestInfo{Title: "Run B", Alpha: 0.05, Adjust: "holm"},
 		Datasets: []report.Dataset{{ID: "d", File: "b.csv", SHA256: strings.Repeat("b", 64), Rows: 42}},
 		Studies: []report.Study{
-			mk("shrink-vs-melt", 42, 1100, 52, -90, fl("linear", "negative", "moderate")),
+			withGate(mk("shrink-vs-melt", 42, 1100, 52, -90, fl("linear", "negative", "moderate")), gate(false, "slope = -0.08182 %/°C")),
 			failed,
 			mk("new-only", 42, 100, 100, 10, nil),
 		}}
 	res := compare.Diff(old, new, compare.Options{Tool: report.Tool{Name: "bivar", Version: "v1.0.0"}})
 	res.Old.File, res.New.File = "runs/a/results.json", "runs/b/results.json"
 	return res
+}
+
+func withGate(s report.Study, e []report.Expectation) report.Study {
+	s.Expectations = e
+	s.Predictions = []report.Prediction{{X: 55}}
+	return s
 }
 
 func golden(t *testing.T, name string, got []byte) {
@@ -105,11 +116,16 @@ func TestHTML(t *testing.T) {
 				"<strong>shrink-vs-melt</strong> — ",
 				res0.Studies[0].Statement,
 				"Changed beyond chance (adjusted p below 0.05):",
+				"<h2>CI gates</h2>",
+				"1 of 1 CI gates changed its outcome; 1 now fails that held before.",
+				`<svg`, "Old run dashed and grey, new run solid",
+				`href="#study-shrink-vs-melt"`, `id="study-shrink-vs-melt"`,
 			} {
 				if !strings.Contains(out, want) && !strings.Contains(out, template.HTMLEscapeString(want)) && !strings.Contains(out, strings.ReplaceAll(template.HTMLEscapeString(want), "+", "&#43;")) {
 					t.Errorf("diff.html lacks %q", want)
 				}
 			}
+			out = strings.ReplaceAll(out, `xmlns="http://www.w3.org/2000/svg"`, "") // the inline chart's namespace, not a fetch
 			for _, bad := range []string{"<script", "<b>odd", "http://", "https://", "src=", "@import"} {
 				if strings.Contains(out, bad) {
 					t.Errorf("diff.html contains %q", bad)
@@ -145,8 +161,8 @@ func TestWrite(t *testing.T) {
 	for _, e := range entries {
 		names = append(names, e.Name())
 	}
-	if strings.Join(names, " ") != ".bivar-contents diff.html diff.json diff.md" {
-		t.Errorf("files %v, want the list of contents, diff.html, diff.json, diff.md and no temporaries", names)
+	if strings.Join(names, " ") != ".bivar-contents diff.html diff.json diff.md figures" {
+		t.Errorf("files %v, want the list of contents, diff.html, diff.json, diff.md, figures and no temporaries", names)
 	}
 	b, _ := os.ReadFile(filepath.Join(dir, "diff.json"))
 	if _, err := compare.Read(bytes.NewReader(b)); err != nil {
@@ -162,8 +178,8 @@ func TestWrite(t *testing.T) {
 		t.Error("a failed Write changed diff.md")
 	}
 	entries, _ = os.ReadDir(dir)
-	if len(entries) != 4 {
-		t.Errorf("a failed Write left %d files, want the 4 from before", len(entries))
+	if len(entries) != 5 {
+		t.Errorf("a failed Write left %d files, want the 5 from before", len(entries))
 	}
 	if l, _ := os.ReadDir(filepath.Dir(dir)); len(l) != 1 {
 		t.Errorf("beside the folder: %d entries, want only the folder", len(l))

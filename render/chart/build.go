@@ -12,6 +12,7 @@ import (
 // Sizes of the figures in CSS pixels (width, height).
 const (
 	ScatterW, ScatterH   = 680, 500
+	StripH               = 230 // the drift strip: as wide as the scatterplot, low
 	ResidualW, ResidualH = 480, 360
 )
 
@@ -224,39 +225,50 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		XScale: s.X.Scale, YScale: s.Y.Scale,
 	}
 	f.Dense, f.Density = dense(p, p.Scatter)
+	// A study the analysis found curved is drawn with its curve as the
+	// main fit and the straight line, without bands, for comparison.
+	curved := s.Findings != nil && s.Findings.Form == "curved" && len(p.Curve) > 0
 	if len(p.Band) > 0 {
-		var bx, fit, cl, ch, pl, ph []float64
+		var bx, fit, cl, ch []float64
 		for _, b := range p.Band {
 			bx = append(bx, b.X)
 			fit = append(fit, b.Fit)
 			cl = append(cl, b.ConfLow)
 			ch = append(ch, b.ConfHigh)
-			pl = append(pl, b.PredLow)
-			ph = append(ph, b.PredHigh)
 		}
-		f.Bands = []Band{
-			{Name: level + "% prediction band (one new row)", X: bx, Low: pl, High: ph, Role: RolePred},
-			{Name: level + "% confidence band (the line)", X: bx, Low: cl, High: ch, Role: RoleConf},
+		if curved {
+			f.Lines = append(f.Lines, Line{Name: "straight line, for comparison", X: bx, Y: fit, Role: RoleOld})
+		} else {
+			f.Bands = []Band{{Name: level + "% confidence band of the line", X: bx, Low: cl, High: ch, Role: RoleConf}}
+			f.Lines = append(f.Lines, Line{Name: "least-squares line", X: bx, Y: fit, Role: RoleFit})
 		}
-		f.Lines = append(f.Lines, Line{Name: "least-squares line", X: bx, Y: fit, Role: RoleFit})
 	}
 	f.Lines = append(f.Lines, groupLines(s)...)
 	if len(p.Lowess) > 0 {
 		f.Lines = append(f.Lines, xyLine("LOWESS curve", p.Lowess, RoleLowess))
 	}
-	if len(p.Curve) > 0 {
-		f.Lines = append(f.Lines, xyLine("quadratic fit", p.Curve, RoleCurve))
+	if curved {
+		f.Lines = append(f.Lines, xyLine("parabola (the main fit)", p.Curve, RoleFit))
+	} else if len(p.Curve) > 0 {
+		f.Lines = append(f.Lines, xyLine("parabola", p.Curve, RoleCurve))
 	}
 	groups := ""
 	if len(f.Points) > 1 && !f.Dense {
 		groups = fmt.Sprintf(" Points are coloured and shaped by %s (%d levels).", GroupName(s), len(f.Points))
 	}
-	f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the least-squares line, its %s%% confidence band, the %s%% prediction band and a LOWESS curve.%s %s",
-		p.N, f.YLabel, f.XLabel, level, level, groups, markNames(f.Marked))
-	f.Caption = fmt.Sprintf("%s against %s. Solid line: least squares; darker band: %s%% confidence for the line; lighter band: %s%% prediction for one new row; dashed: LOWESS.",
-		varName(s.Y), varName(s.X), level, level)
-	if len(p.Curve) > 0 {
-		f.Caption += " Dotted: quadratic fit."
+	if curved {
+		f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the parabola the analysis found as the main fit, the straight line for comparison and a LOWESS curve.%s %s",
+			p.N, f.YLabel, f.XLabel, groups, markNames(f.Marked))
+		f.Caption = fmt.Sprintf("%s against %s. Solid: the parabola, the main fit (the form is curved); grey dashed: the straight line, for comparison; dashed: LOWESS, a smooth that follows the rows.",
+			varName(s.Y), varName(s.X))
+	} else {
+		f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the least-squares line, its %s%% confidence band and a LOWESS curve.%s %s",
+			p.N, f.YLabel, f.XLabel, level, groups, markNames(f.Marked))
+		f.Caption = fmt.Sprintf("%s against %s. Solid line: least squares, in its %s%% confidence band; dashed: LOWESS, a smooth that follows the rows.",
+			varName(s.Y), varName(s.X), level)
+		if len(p.Curve) > 0 {
+			f.Caption += " Dotted: parabola."
+		}
 	}
 	switch {
 	case len(p.Levels) > 1 && f.Dense:
@@ -370,7 +382,7 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
 		XLabel: "Fitted value: " + AxisTitle(s.Y), YLabel: residualTitle(s),
-		Title:  "Residuals against fitted values",
+		Title:  "Distance from the line against the line's value",
 		Points: series(p, pickFitted),
 		Marked: marks(p, markFitted),
 		Lines:  []Line{zeroLine(spanOf(p, p.ResidFitted, pickFitted))},
@@ -382,7 +394,7 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	}
 	f.Dense, f.Density = dense(p, p.ResidFitted)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows against the fitted values, with a dashed line at zero. %s", p.N, markNames(f.Marked))
-	f.Caption = "Residuals against fitted values; dashed: zero. A curve or a funnel here means the straight line or its constant spread does not describe the data."
+	f.Caption = "Each row's distance from the straight line (residual) against the line's value there; dashed: on the line. A bow or a funnel means the line, or an even scatter about it, does not describe the data."
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))
 		f.Desc += denseNote(p.N, len(f.Marked))
@@ -404,18 +416,17 @@ func ResidualsOrder(s *report.Study, id string) *Figure {
 		xl += " (run order)"
 	}
 	f := &Figure{
-		ID: id, Width: ResidualW, Height: ResidualH,
+		ID: id, Width: ScatterW, Height: StripH,
 		XLabel: xl, YLabel: residualTitle(s),
-		Title:  "Residuals in run order",
+		Title:  "Drift strip: distance from the line in run order",
 		Points: series(p, pickOrder),
 		Marked: marks(p, markOrder),
 		Lines:  []Line{zeroLine(spanOf(p, p.ResidOrder, pickOrder))},
 		Levels: p.Levels,
 	}
 	f.Dense, f.Density = dense(p, p.ResidOrder)
-	f.Join = !f.Dense && len(p.Levels) == 0
 	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows in the order of %s, with a dashed line at zero. %s", p.N, order, markNames(f.Marked))
-	f.Caption = fmt.Sprintf("Residuals in the order of %s; dashed: zero. A trend or long runs on one side mean the relationship drifted during the run.", order)
+	f.Caption = fmt.Sprintf("Drift strip: each row's distance from the line, in the order of %s; dashed: on the line. A slope or long stretches on one side mean the relationship drifted during the run.", order)
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))
 		f.Desc += denseNote(p.N, len(f.Marked))

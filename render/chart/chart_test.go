@@ -42,12 +42,12 @@ func TestNiceTicks(t *testing.T) {
 	}{
 		{"unit range", 0, 1, "0.0 0.2 0.4 0.6 0.8 1.0"},
 		{"hundreds", 400, 600, "400 450 500 550 600"},
-		{"negative", -0.9, 0.6, "−0.8 −0.6 −0.4 −0.2 0.0 0.2 0.4 0.6"},
+		{"negative", -0.9, 0.6, "-0.8 -0.6 -0.4 -0.2 0.0 0.2 0.4 0.6"},
 		{"small", 0.0012, 0.0047, "0.0015 0.0020 0.0025 0.0030 0.0035 0.0040 0.0045"},
-		{"tiny", 1.2e-5, 4.7e-5, "1.5e−5 2.0e−5 2.5e−5 3.0e−5 3.5e−5 4.0e−5 4.5e−5"},
+		{"tiny", 1.2e-5, 4.7e-5, "1.5e-5 2.0e-5 2.5e-5 3.0e-5 3.5e-5 4.0e-5 4.5e-5"},
 		{"large", 2.1e6, 2.9e6, "2.2e6 2.4e6 2.6e6 2.8e6"},
 		{"constant", 5, 5, "4.8 4.9 5.0 5.1 5.2"},
-		{"constant zero", 0, 0, "−0.4 −0.2 0.0 0.2 0.4"},
+		{"constant zero", 0, 0, "-0.4 -0.2 0.0 0.2 0.4"},
 	}
 	for _, tc := range cases {
 		var e extent
@@ -168,21 +168,32 @@ func TestScatterFromStudy(t *testing.T) {
 	for _, b := range f.Bands {
 		roles[b.Role] = true
 	}
-	for _, want := range []Role{RoleFit, RoleLowess, RoleCurve, RoleConf, RolePred} {
+	// The fixture's first study is curved: its parabola is the main fit
+	// (solid), the straight line is drawn for comparison without bands.
+	for _, want := range []Role{RoleFit, RoleLowess, RoleOld} {
 		if !roles[want] {
 			t.Errorf("scatter lacks role %d", want)
 		}
 	}
+	if roles[RoleConf] || roles[RolePred] || roles[RoleCurve] {
+		t.Error("a curved study's chart draws the line's bands or the curve as a side line")
+	}
 	svg := draw(t, f)
-	// Bands are filled polygons of our own, the prediction band outside the confidence band.
-	if n := strings.Count(svg, "<polygon "); n != 2 {
-		t.Errorf("%d band polygons, want 2", n)
+	if n := strings.Count(svg, "<polygon "); n != 0 {
+		t.Errorf("%d band polygons, want none", n)
+	}
+	// A straight-line study: the line in its confidence band (one polygon), no prediction band.
+	if r.Studies[1].Findings != nil && r.Studies[1].Findings.Form != "curved" {
+		lf := Scatter(&r.Studies[1], "s2", "95")
+		if lf == nil || len(lf.Bands) != 1 || lf.Bands[0].Role != RoleConf {
+			t.Errorf("straight-line study's bands: %+v", lf)
+		}
 	}
 	// Groups differ by shape as well as colour: circles, squares and triangles.
 	if !strings.Contains(svg, "<circle cx=") || !strings.Contains(svg, "<rect x=") || !strings.Contains(svg, `<path d="M`) {
 		t.Error("group markers do not differ in shape")
 	}
-	for _, want := range []string{">P0006</text>", ">P0010</text>", "95% confidence band", "95% prediction band", "LOWESS curve", "quadratic fit", "lot B (n = 20)"} {
+	for _, want := range []string{">P0006</text>", ">P0010</text>", "parabola (the main fit)", "straight line, for comparison", "LOWESS curve", "lot B (n = 20)"} {
 		if !strings.Contains(svg, want) {
 			t.Errorf("scatter lacks %q", want)
 		}

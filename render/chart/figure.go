@@ -16,13 +16,15 @@ const DensityAbove = report.PlotPointsMax
 type Role int
 
 const (
-	RoleFit    Role = iota // least-squares line: solid, heavy
-	RoleLowess             // LOWESS: dashed
-	RoleCurve              // curved model (quadratic): dotted
-	RoleConf               // confidence band: darker fill
-	RolePred               // prediction band: lighter fill, dashed edges
-	RoleZero               // reference line at zero: thin
-	RoleGroup              // the line within one group: thin, in the group's colour
+	RoleFit     Role = iota // least-squares line: solid, heavy
+	RoleLowess              // LOWESS: dashed
+	RoleCurve               // curved model (quadratic): dotted
+	RoleConf                // confidence band: darker fill
+	RolePred                // prediction band: lighter fill, dashed edges
+	RoleZero                // reference line at zero: thin
+	RoleGroup               // the line within one group: thin, in the group's colour
+	RoleOld                 // an earlier run's line in a comparison: muted, dashed
+	RoleOldBand             // an earlier run's confidence band: muted fill
 )
 
 // Figure describes one chart. It holds only data to draw and words to show;

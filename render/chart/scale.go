@@ -104,11 +104,8 @@ func newAxis(e extent, target int) Axis {
 		a.Ticks = append(a.Ticks, v)
 	}
 	a.Labels = tickLabels(a.Ticks, step)
-	for i, l := range a.Labels {
-		// Negative ticks with the minus sign U+2212, as every number in
-		// the reports (render/format.go states the rule).
-		a.Labels[i] = strings.ReplaceAll(l, "-", "−")
-	}
+	// Negative ticks keep the hyphen-minus, as every number of the reports
+	// (render/format.go states the rule).
 	return a
 }
 

@@ -152,6 +152,8 @@ func (d *svgDrawer) roleStyle(r Role) (stroke string, width float64, dash string
 		return d.pal.Pred, 0.8, "3 3"
 	case RoleGroup:
 		return d.pal.Ink, 1.3, "1 0"
+	case RoleOld:
+		return d.pal.Muted, 2, "8 4"
 	default:
 		return d.pal.Conf, 0, ""
 	}
@@ -160,6 +162,9 @@ func (d *svgDrawer) roleStyle(r Role) (stroke string, width float64, dash string
 func (d *svgDrawer) bandFill(r Role) (fill string, opacity float64) {
 	if r == RolePred {
 		return d.pal.Pred, 0.16
+	}
+	if r == RoleOldBand {
+		return d.pal.Muted, 0.22
 	}
 	return d.pal.Conf, 0.30
 }
@@ -183,6 +188,17 @@ func (d *svgDrawer) plan(f *Figure) *layout {
 	if g := f.Density; f.Dense && g != nil && finite(g.XLo, g.XHi, g.YLo, g.YHi) {
 		ex.add(g.XLo, g.XHi)
 		ey.add(g.YLo, g.YHi)
+	}
+	// A figure without points (two runs' lines) takes its x range from
+	// its lines.
+	if ex.n == 0 {
+		for _, l := range f.Lines {
+			for i := range l.X {
+				if finite(l.X[i], l.Y[i]) {
+					ex.add(l.X[i])
+				}
+			}
+		}
 	}
 	// Lines and bands are drawn across the points' x range only; their y
 	// values widen the y range so the bands are seen whole.

@@ -141,9 +141,9 @@ func logModels(x, y []float64, conf float64) []report.Fit {
 // the run order per row, nil when the study has none. The quadratic's p,
 // Theil–Sen and LOWESS are set by Analyze from the side statistics.
 //
-// sx and sy are the study's sample (studySample), from which the figures
+// smp is the study's sample (studySample), from which the figures
 // computed on a sample draw theirs.
-func diagnostics(x, y, sx, sy []float64, ps *stats.Sorted, line stats.LineFit, order []float64, cfg Config) *report.Diagnostics {
+func diagnostics(x, y []float64, smp rowSample, ps *stats.Sorted, line stats.LineFit, order []float64, cfg Config) *report.Diagnostics {
 	d := &report.Diagnostics{QuadraticP: report.NaN(), DurbinWatson: report.NaN()}
 	// The lack-of-fit test needs settings that were repeated on purpose.
 	// Where x is continuous, a few values repeat only by rounding, and a
@@ -154,7 +154,7 @@ func diagnostics(x, y, sx, sy []float64, ps *stats.Sorted, line stats.LineFit, o
 	if f, df1, df2, p, ok := ps.LackOfFit(line.Slope.Estimate); ok && 2*(df1+2) <= ps.Len() {
 		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(p)}
 	}
-	dc, p, mcse, perms, used, resolved, method := dcorTestSample(x, y, sx, sy, cfg.Alpha, cfg.DcorPerms, cfg.DcorMaxN)
+	dc, p, mcse, perms, used, resolved, method := dcorTestSample(x, y, smp, cfg.Alpha, cfg.DcorPerms, cfg.DcorMaxN)
 	d.DistanceCorr = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: perms,
 		Sampled: used, Method: method, MCError: report.Float(mcse), Resolved: resolved, FlipRisk: dcorFlipRisk}
 	bp, df, pbp := stats.BreuschPagan(line.Residuals, x)
@@ -173,11 +173,12 @@ func diagnostics(x, y, sx, sy []float64, ps *stats.Sorted, line stats.LineFit, o
 	}
 	// The x-order figures on the rows of the sample (all rows up to
 	// maxXOrderRows), sorted by x, with their residuals from the line.
-	cx, cy := canonical(sx, sy, maxXOrderRows)
+	cx, cy := smp.sub(maxXOrderRows) // may be the sample's own slices: read only
+	e := make([]float64, len(cy))
 	for k := range cy {
-		cy[k] = line.Residual(cx[k], cy[k])
+		e[k] = line.Residual(cx[k], cy[k])
 	}
-	xOrderFigures(d, cx, cy)
+	xOrderFigures(d, cx, e)
 	return d
 }
 

@@ -33,58 +33,87 @@ func pairHash(x, y float64) uint64 {
 	return mix64(mix64(math.Float64bits(x+0)) ^ math.Float64bits(y+0))
 }
 
-// canonical returns the (x, y) pairs sorted by x, then y: the order in
-// which the study's random procedures see the rows, so that no result
-// depends on the order of the file. Above maxN rows it keeps maxN of them,
-// chosen by their values (the maxN smallest pairHash values, ties by x
-// then y): a sample that is a function of the set of rows and not of a
-// seed or of the file's order. For data whose values are not built to
-// collide with the hash, it behaves like a simple random sample. The
-// sample of a sample is the sample: canonical(canonical(x, y, k), m) is
-// canonical(x, y, m) for m ≤ k, so one pass over the rows serves every
-// sample a study draws (studySample).
-func canonical(x, y []float64, maxN int) (cx, cy []float64) {
-	n := len(x)
-	var idx []int
-	if maxN > 0 && n > maxN {
-		idx = smallestHashes(x, y, maxN)
-	} else {
-		idx = make([]int, n)
-		for i := range idx {
-			idx[i] = i
-		}
-	}
-	slices.SortFunc(idx, func(a, b int) int { return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(y[a], y[b])) })
-	return pick(x, idx), pick(y, idx)
+// rowHash is the hash that chooses a row for a value-chosen sample:
+// pairHash of (x, y) mixed with k, the row's place among the rows that
+// hold the same pair (0 for the first, 1 for the second, …). Equal pairs
+// cannot be told apart, so which copy gets which k changes nothing: the
+// set of (x, y, hash) triples is a function of the set of rows. With k,
+// each copy of a repeated pair has a hash of its own and a sample takes
+// about its share of the copies; with the pair alone every copy shared one
+// hash, and a sample of quantized data (a gauge that reads to 0.01) took
+// whole clusters of copies and few distinct pairs, on which a test of
+// independence rejected almost always.
+func rowHash(x, y float64, k int) uint64 {
+	return mix64(pairHash(x, y) ^ uint64(k)*0x9e3779b97f4a7c15)
 }
 
-// smallestHashes returns the positions of the k rows (0 < k < len(x)) of
-// smallest pairHash, ties at the k-th value broken by x then y, in no
-// particular order. One pass keeps the rows whose hash lies below a bound
-// that about 2k rows pass when the hashes are uniform; in the rare case
-// that fewer than k pass (many equal pairs, or values built to collide)
-// the bound is doubled and the pass repeated. Memory is O(k), not O(n).
-func smallestHashes(x, y []float64, k int) []int {
-	n := len(x)
-	frac := 2*float64(k)/float64(n) + 64/float64(n)
+// rowSample is a value-chosen sample of a study's rows: the pairs in
+// canonical order (x, then y, then hash) with each row's rowHash.
+type rowSample struct {
+	x, y []float64
+	h    []uint64
+}
+
+// valueSample returns the m rows of smallest rowHash, ties broken by x
+// then y (all rows when m ≤ 0 or m ≥ n), from pairs given in an order in
+// which equal pairs are adjacent (stats.Sorted's canonical order, or any
+// sort by x then y), so that each copy's k is its place in its run. It is
+// a function of the set of rows, not of a seed or of the file's order; for
+// data whose values are not built to collide with the hash it behaves like
+// a simple random sample. One pass keeps the rows whose hash lies below a
+// bound that about 2m rows pass when the hashes are uniform; in the rare
+// case that fewer than m pass the bound is doubled and the pass repeated.
+// Memory is O(m), not O(n).
+func valueSample(xs, ys []float64, m int) rowSample {
+	n := len(xs)
+	keepAll := m <= 0 || m >= n
+	frac := 2*float64(m)/float64(n) + 64/float64(n)
 	var hs []uint64
 	var is []int
 	for {
 		hs, is = hs[:0], is[:0]
-		all := frac >= 0.5 // a bound near 2⁶⁴ would overflow; half the rows or more: keep them all
+		all := keepAll || frac >= 0.5 // a bound near 2⁶⁴ would overflow; half the rows or more: keep them all
 		bound := uint64(frac * (1 << 63) * 2)
+		k := 0
 		for i := range n {
-			if h := pairHash(x[i], y[i]); all || h < bound {
+			if i > 0 && xs[i] == xs[i-1] && ys[i] == ys[i-1] {
+				k++
+			} else {
+				k = 0
+			}
+			if h := rowHash(xs[i], ys[i], k); all || h < bound {
 				hs, is = append(hs, h), append(is, i)
 			}
 		}
-		if len(hs) >= k {
+		if keepAll || len(hs) >= m {
 			break
 		}
 		frac *= 2
 	}
-	cut := nthSmallest(slices.Clone(hs), k-1)
-	sel := make([]int, 0, k)
+	sel := is
+	if !keepAll {
+		sel = smallestOf(hs, is, m, func(a, b int) int { return cmp.Or(cmp.Compare(xs[a], xs[b]), cmp.Compare(ys[a], ys[b])) })
+	}
+	hOf := make(map[int]uint64, len(sel))
+	for j, i := range is {
+		hOf[i] = hs[j]
+	}
+	slices.SortFunc(sel, func(a, b int) int {
+		return cmp.Or(cmp.Compare(xs[a], xs[b]), cmp.Compare(ys[a], ys[b]), cmp.Compare(hOf[a], hOf[b]))
+	})
+	out := rowSample{x: make([]float64, len(sel)), y: make([]float64, len(sel)), h: make([]uint64, len(sel))}
+	for j, i := range sel {
+		out.x[j], out.y[j], out.h[j] = xs[i], ys[i], hOf[i]
+	}
+	return out
+}
+
+// smallestOf returns, from the items is with hashes hs, the m (< len(is))
+// of smallest hash, the ties at the m-th hash broken by tie, in no
+// particular order.
+func smallestOf(hs []uint64, is []int, m int, tie func(a, b int) int) []int {
+	cut := nthSmallest(slices.Clone(hs), m-1)
+	sel := make([]int, 0, m)
 	var tied []int
 	for j, h := range hs {
 		switch {
@@ -94,21 +123,59 @@ func smallestHashes(x, y []float64, k int) []int {
 			tied = append(tied, is[j])
 		}
 	}
-	slices.SortFunc(tied, func(a, b int) int { return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(y[a], y[b])) })
-	return append(sel, tied[:k-len(sel)]...)
+	slices.SortFunc(tied, tie)
+	return append(sel, tied[:m-len(sel)]...)
 }
 
-// studySample returns the rows every figure computed on a sample draws its
-// sample from: all of x and y (in their order) up to the largest sample
-// any of them takes, else canonical(x, y, k) with k that largest size. A
-// sample of it by canonical is the sample of all rows (see canonical), so
-// the rows are hashed once per study, not once per figure.
-func studySample(x, y []float64, cfg Config) (sx, sy []float64) {
-	k := max(cfg.LowessMaxN, cfg.DcorMaxN, DcorStatMaxN, maxXOrderRows)
-	if len(x) <= k {
-		return x, y
+// sub returns the m rows of the sample with the smallest hashes (ties by x
+// then y: the sample's order), in canonical order; all of it when m ≤ 0 or
+// m ≥ its size. It is the sample valueSample would draw from all rows, as
+// the sample holds the rows of smallest hash of all rows, each with its
+// hash: one pass over the rows serves every sample a study draws.
+func (s rowSample) sub(m int) (x, y []float64) {
+	if m <= 0 || m >= len(s.x) {
+		return s.x, s.y
 	}
-	return canonical(x, y, k)
+	is := make([]int, len(s.h))
+	for i := range is {
+		is[i] = i
+	}
+	sel := smallestOf(s.h, is, m, cmp.Compare[int]) // positions: ties in the sample's order
+	slices.Sort(sel)
+	return pick(s.x, sel), pick(s.y, sel)
+}
+
+// canonical returns the (x, y) pairs sorted by x, then y: the order in
+// which the study's random procedures see the rows, so that no result
+// depends on the order of the file. Above maxN rows it keeps the maxN that
+// valueSample chooses. It sorts all rows (O(n log n)); a study draws its
+// samples from studySample instead.
+func canonical(x, y []float64, maxN int) (cx, cy []float64) {
+	return sortedSample(x, y, maxN).sub(0)
+}
+
+// sortedSample is valueSample of the rows of x and y put in order of x,
+// then y (a comparison sort of all rows).
+func sortedSample(x, y []float64, m int) rowSample {
+	idx := make([]int, len(x))
+	for i := range idx {
+		idx[i] = i
+	}
+	slices.SortFunc(idx, func(a, b int) int { return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(y[a], y[b])) })
+	return valueSample(pick(x, idx), pick(y, idx), m)
+}
+
+// sampleMax is the largest sample any figure of a study draws.
+func sampleMax(cfg Config) int {
+	return max(cfg.LowessMaxN, cfg.DcorMaxN, DcorStatMaxN, maxXOrderRows)
+}
+
+// studySample returns the study's value-chosen sample (valueSample) of the
+// largest size any figure draws (all rows when there are fewer), from the
+// pairs in stats.Sorted's order, where equal pairs are adjacent. Every
+// figure computed on a sample takes its rows from it (rowSample.sub).
+func studySample(ps *stats.Sorted, cfg Config) rowSample {
+	return valueSample(ps.X, ps.Y, sampleMax(cfg))
 }
 
 // nthSmallest returns the k-th smallest (0-based) of v, reordering v
@@ -211,23 +278,19 @@ func dcorLooks(max int) []int {
 // permutations, as stats.DistanceCorrTest does) and mcse = √(p̂(1 − p̂)/N)
 // is its Monte Carlo standard error.
 func dcorTest(x, y []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse float64, perms, used int, resolved bool, method string) {
-	sx, sy := x, y
-	if k := max(maxN, DcorStatMaxN); len(x) > k {
-		sx, sy = canonical(x, y, k)
-	}
-	return dcorTestSample(x, y, sx, sy, alpha, maxPerms, maxN)
+	return dcorTestSample(x, y, sortedSample(x, y, max(maxN, DcorStatMaxN)), alpha, maxPerms, maxN)
 }
 
-// dcorTestSample is dcorTest given the study's sample (sx, sy): the rows
-// themselves, or canonical(x, y, k) for some k ≥ max(maxN, DcorStatMaxN),
-// from which every smaller sample is drawn (see canonical).
-func dcorTestSample(x, y, sx, sy []float64, alpha float64, maxPerms, maxN int) (dcor, p, mcse float64, perms, used int, resolved bool, method string) {
+// dcorTestSample is dcorTest given the study's sample smp (studySample, or
+// any valueSample of at least max(maxN, DcorStatMaxN) rows), from which
+// its samples are drawn (rowSample.sub).
+func dcorTestSample(x, y []float64, smp rowSample, alpha float64, maxPerms, maxN int) (dcor, p, mcse float64, perms, used int, resolved bool, method string) {
 	nan := math.NaN()
 	statRows := fmt.Sprintf("all %d rows", len(x))
 	if len(x) > DcorStatMaxN {
 		// The statistic on a sample chosen by the rows' values (see
 		// DcorStatMaxN), drawn from the study's sample.
-		tx, ty := canonical(sx, sy, DcorStatMaxN)
+		tx, ty := smp.sub(DcorStatMaxN)
 		dcor = stats.DistanceCorrelation(tx, ty)
 		statRows = fmt.Sprintf("%d of the %d rows, chosen by their values", DcorStatMaxN, len(x))
 	} else {
@@ -237,7 +300,7 @@ func dcorTestSample(x, y, sx, sy []float64, alpha float64, maxPerms, maxN int) (
 	if math.IsNaN(dcor) || len(x) < 3 {
 		return dcor, nan, nan, 0, used, false, "distance correlation, V-statistic; undefined for these data, no permutation test"
 	}
-	cx, cy := canonical(sx, sy, maxN)
+	cx, cy := smp.sub(maxN)
 	src := rowSource(cx, cy, "dcor")
 	looks := dcorLooks(max(maxPerms, 1))
 	conf := 1 - dcorFlipRisk/float64(len(looks))

@@ -261,10 +261,10 @@ func analyze(in Input, cfg Config) report.Study {
 	goOrRun(&wg)(func() {
 		s.Influence, s.Sensitivity, flaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, m, pc, line)
 	})
-	sx, sy := studySample(x, y, cfg)
-	goOrRun(&wg)(func() { diag = diagnostics(x, y, sx, sy, ps, line, order, cfg) })
+	smp := studySample(ps, cfg)
+	goOrRun(&wg)(func() { diag = diagnostics(x, y, smp, ps, line, order, cfg) })
 	goOrRun(&wg)(func() { s.Robust = robust(x, y, ps, order, pc.R, conf) })
-	lx, ly := canonical(sx, sy, cfg.LowessMaxN)
+	lx, ly := smp.sub(cfg.LowessMaxN)
 
 	for i, name := range covNames {
 		r, lo, hi, p := stats.PartialCorrelation(x, y, cc.cov[i], conf)

@@ -90,20 +90,31 @@ func valueSample(xs, ys []float64, m int) rowSample {
 		}
 		frac *= 2
 	}
-	sel := is
-	if !keepAll {
-		sel = smallestOf(hs, is, m, func(a, b int) int { return cmp.Or(cmp.Compare(xs[a], xs[b]), cmp.Compare(ys[a], ys[b])) })
+	type row struct {
+		x, y float64
+		h    uint64
 	}
-	hOf := make(map[int]uint64, len(sel))
-	for j, i := range is {
-		hOf[i] = hs[j]
+	rows := make([]row, 0, len(is))
+	if keepAll {
+		for j, i := range is {
+			rows = append(rows, row{xs[i], ys[i], hs[j]})
+		}
+	} else {
+		// Positions j into hs and is, the m of smallest hash.
+		js := make([]int, len(is))
+		for j := range js {
+			js[j] = j
+		}
+		for _, j := range smallestOf(hs, js, m, func(a, b int) int {
+			return cmp.Or(cmp.Compare(xs[is[a]], xs[is[b]]), cmp.Compare(ys[is[a]], ys[is[b]]))
+		}) {
+			rows = append(rows, row{xs[is[j]], ys[is[j]], hs[j]})
+		}
 	}
-	slices.SortFunc(sel, func(a, b int) int {
-		return cmp.Or(cmp.Compare(xs[a], xs[b]), cmp.Compare(ys[a], ys[b]), cmp.Compare(hOf[a], hOf[b]))
-	})
-	out := rowSample{x: make([]float64, len(sel)), y: make([]float64, len(sel)), h: make([]uint64, len(sel))}
-	for j, i := range sel {
-		out.x[j], out.y[j], out.h[j] = xs[i], ys[i], hOf[i]
+	slices.SortFunc(rows, func(a, b row) int { return cmp.Or(cmp.Compare(a.x, b.x), cmp.Compare(a.y, b.y), cmp.Compare(a.h, b.h)) })
+	out := rowSample{x: make([]float64, len(rows)), y: make([]float64, len(rows)), h: make([]uint64, len(rows))}
+	for j, r := range rows {
+		out.x[j], out.y[j], out.h[j] = r.x, r.y, r.h
 	}
 	return out
 }

@@ -17,16 +17,26 @@ import (
 // by another process gives a *BusyError that names it. The kernel
 // releases the lock when its holder dies, however it dies.
 func lock(path, command string) (*os.File, error) {
-	for range 100 {
+	for try := range 100 {
 		f, err := os.OpenFile(path, os.O_RDWR|os.O_CREATE, 0o644)
 		if err != nil {
 			return nil, err
 		}
 		if err := syscall.Flock(int(f.Fd()), syscall.LOCK_EX|syscall.LOCK_NB); err != nil {
-			defer f.Close()
 			if errors.Is(err, syscall.EWOULDBLOCK) {
-				return nil, holder(f)
+				h := holder(f)
+				f.Close()
+				// A holder writes who it is just after it takes the lock:
+				// read too soon, the file is empty or half written. Look
+				// again shortly (within this loop's bound) so the message
+				// can name it.
+				if (h.PID == 0 || h.Since.IsZero() || h.Command == "") && try < 99 {
+					time.Sleep(2 * time.Millisecond)
+					continue
+				}
+				return nil, h
 			}
+			f.Close()
 			return nil, err
 		}
 		// The previous holder removes the file as it lets go: a lock taken

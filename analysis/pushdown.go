@@ -209,9 +209,13 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		return s, err
 	}
 	k := len(p.NumCols)
-	mean := make([]float64, k)
+	// Each mean in two parts, the first pass's and the correction: the
+	// line's deviations and intercept keep the digits that x̄ and ȳ far
+	// from 0 would cost (as stats' meanParts does in memory).
+	mean, lo := make([]float64, k), make([]float64, k)
 	for i := range k {
-		mean[i] = c.Mean[i] + sums.D[i]/nf
+		lo[i] = sums.D[i] / nf
+		mean[i] = c.Mean[i] + lo[i]
 	}
 	cs := func(i, j int) float64 { return sums.P[i][j] - sums.D[i]*sums.D[j]/nf }
 	mom := stats.Moments{N: n, MeanX: mean[0], MeanY: mean[1], Sxx: cs(0, 0), Syy: cs(1, 1), Sxy: cs(0, 1)}
@@ -225,7 +229,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// The quadratic from the sums about the first pass's means, in
 	// t = (x − m₁)/QS, QS the SD of x (a well-scaled basis).
 	b := mom.Sxy / mom.Sxx
-	fit := dataset.Fit{MX: mom.MeanX, MY: mom.MeanY, B: b}
+	fit := dataset.Fit{MX: c.Mean[0], MY: c.Mean[1], MXLo: lo[0], MYLo: lo[1], B: b}
 	if o, ok := ix[spec.Order]; ok && spec.Order != "" {
 		fit.MO = mean[o]
 	}
@@ -240,7 +244,21 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		return s, err
 	}
 	rss := res.SE2
+	// The slope refined once by the residuals' sum of products with x
+	// (b + Σ(x − x̄)e/Sxx: one step of iterative refinement, as stats.Line
+	// refines its own), and b0 = ȳ − b1·x̄ with both means in two parts.
+	b = b + (res.SUE-res.SU*res.SE/nf)/mom.Sxx
+	a := (c.Mean[1] - b*c.Mean[0]) + (lo[1] - b*lo[0])
 	lf := lineFromSums(mom, rss, conf)
+	for _, cf := range []struct {
+		c *report.Coef
+		v float64
+	}{{lf.Slope, b}, {lf.Intercept, a}} {
+		h := (cf.c.CIHigh - cf.c.CILow) / 2
+		cf.c.Estimate, cf.c.T = report.Float(cf.v), report.Float(cf.v/float64(cf.c.SE))
+		cf.c.CILow, cf.c.CIHigh = report.Float(cf.v)-h, report.Float(cf.v)+h
+	}
+	lf.Coefficients = []report.Coef{*lf.Intercept, *lf.Slope}
 	s.Line = &lf
 	exact("straight line: coefficients, SEs, intervals, residual SD, R², F, AIC", "predictions")
 
@@ -314,7 +332,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	if n > 2 {
 		sres = math.Sqrt(rss / (nf - 2))
 	}
-	inf := dataset.Influence{N: n, MX: mom.MeanX, MY: mom.MeanY, B: b, Sxx: mom.Sxx, Syy: mom.Syy, Sxy: mom.Sxy, RSS: rss, S: sres,
+	inf := dataset.Influence{N: n, MX: c.Mean[0], MY: c.Mean[1], MXLo: lo[0], MYLo: lo[1], B: b, Sxx: mom.Sxx, Syy: mom.Syy, Sxy: mom.Sxy, RSS: rss, S: sres,
 		Outlier: rules.Outlier, Cooks: rules.Cooks, Leverage: rules.Leverage}
 	fc, err := p.Flags(inf)
 	if err != nil {

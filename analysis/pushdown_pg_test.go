@@ -3,10 +3,14 @@ package analysis_test
 import (
 	"fmt"
 	"math"
+	"os"
+	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
 	"bivar/analysis/report"
+	"bivar/internal/reference"
 )
 
 // exactFigures lists, by name, the figures a pushed-down study computes
@@ -186,4 +190,121 @@ func TestPushdownStudyErrors(t *testing.T) {
 	if s := r.Studies[3]; s.Error != nil || s.N != 40 || s.Pushdown == nil {
 		t.Errorf("study good: error %s, n %d", errText(s.Error), s.N)
 	}
+}
+
+// lre is the log relative error of got against want, the digits that
+// agree (McCullough 1998), capped at 15.
+func lre(got, want float64) float64 {
+	if got == want {
+		return 15
+	}
+	return math.Min(15, -math.Log10(math.Abs(got-want)/math.Abs(want)))
+}
+
+// NIST StRD Norris (y on x) and Longley (y on year, x6, with population,
+// x5, as the covariate), loaded into tables and left in the database
+// (max_rows = 5), reach the log relative errors (LRE) that the same rows
+// reach from a CSV file, less at most half a digit. Expected values:
+// NIST's certified values for Norris's line (Norris.dat: B1 =
+// 1.00211681802045, B0 = -0.262323073774029, residual SD
+// 0.884796396144373); the rest computed exactly in rational arithmetic by
+// scripts/strd-exact.py (Python 3's fractions, square roots in decimal at
+// 40 digits), which reproduces Norris's certified values.
+func TestPushdownStRD(t *testing.T) {
+	url := pgURL(t)
+	t.Setenv("BIVAR_TEST_DB", url)
+	type want struct {
+		name string
+		get  func(s report.Study) float64
+		v    float64
+	}
+	slope := func(s report.Study) float64 { return float64(s.Line.Slope.Estimate) }
+	icpt := func(s report.Study) float64 { return float64(s.Line.Intercept.Estimate) }
+	r := func(s report.Study) float64 { return float64(s.Pearson.R) }
+	rsd := func(s report.Study) float64 { return float64(s.Line.ResidualSE) }
+	quad := func(i int) func(s report.Study) float64 {
+		return func(s report.Study) float64 { return float64(s.Models[0].Coefficients[i].Estimate) }
+	}
+	partial := func(s report.Study) float64 { return float64(s.Partial[0].R) }
+	for _, c := range []struct {
+		name, file string
+		cols       []int // columns of the data lines: y, x, covariate
+		study      string
+		want       []want
+		minLRE     float64
+	}{
+		{"Norris", "Norris.dat", []int{0, 1}, "", []want{
+			{"slope", slope, 1.00211681802045}, {"intercept", icpt, -0.262323073774029}, {"residual SD", rsd, 0.884796396144373},
+			{"r", r, 0.9999968729369666009}, {"b0 of the quadratic", quad(0), -0.44888516305745718345}, {"b1 of the quadratic", quad(1), 1.0040063241910019168},
+			{"b2 of the quadratic", quad(2), -0.0000020634314949706343254}}, 9},
+		{"Longley", "Longley.dat", []int{0, 6, 5}, "covariates = [\"z\"]\n", []want{
+			{"slope", slope, 716.51176470588235294}, {"intercept", icpt, -1335105.2441176470588}, {"residual SD", rsd, 864.23082866216016144},
+			{"r", r, 0.97132945919211871698}, {"b0 of the quadratic", quad(0), -25614352.249719887955}, {"b1 of the quadratic", quad(1), 25561.108403361344538},
+			{"b2 of the quadratic", quad(2), -6.3557422969187675070}, {"partial r given x5", partial, 0.54729434175851379894}}, 7},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			rows := strdRows(t, c.file)
+			var csv strings.Builder
+			var values []string
+			csv.WriteString("x,y,z\n")
+			for _, f := range rows {
+				z := "0"
+				if len(c.cols) > 2 {
+					z = f[c.cols[2]]
+				}
+				fmt.Fprintf(&csv, "%s,%s,%s\n", f[c.cols[1]], f[c.cols[0]], z)
+				values = append(values, fmt.Sprintf("(%s, %s, %s)", f[c.cols[1]], f[c.cols[0]], z))
+			}
+			dir := t.TempDir()
+			if err := os.WriteFile(filepath.Join(dir, "d.csv"), []byte(csv.String()), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			table := strings.ToLower(c.name)
+			pgExec(t, url, "DROP TABLE IF EXISTS "+table, "CREATE TABLE "+table+" (x double precision, y double precision, z double precision)",
+				"INSERT INTO "+table+" VALUES "+strings.Join(values, ", "))
+			study := "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n" + c.study
+			fromCSV, err := runManifest(t, dir, "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n"+study)
+			if err != nil {
+				t.Fatal(err)
+			}
+			pushed, err := runManifest(t, dir, "[[dataset]]\nid = \"d\"\ntable = \""+table+"\"\nconnection = \"BIVAR_TEST_DB\"\nmax_rows = 5\n"+study)
+			if err != nil {
+				t.Fatal(err)
+			}
+			cs, ps := fromCSV.Studies[0], pushed.Studies[0]
+			if cs.Error != nil || ps.Error != nil || ps.Pushdown == nil {
+				t.Fatalf("errors: CSV %s, database %s", errText(cs.Error), errText(ps.Error))
+			}
+			for _, w := range c.want {
+				lc, lp := lre(w.get(cs), w.v), lre(w.get(ps), w.v)
+				t.Logf("%s %s: LRE from CSV %.1f, pushed down %.1f", c.name, w.name, lc, lp)
+				if lp < math.Min(lc, 14)-0.5 || lp < c.minLRE {
+					t.Errorf("%s %s = %.15g pushed down (LRE %.1f), %.15g from CSV (LRE %.1f), exact %.15g", c.name, w.name, w.get(ps), lp, w.get(cs), lc, w.v)
+				}
+			}
+		})
+	}
+}
+
+// strdRows returns the data lines of a NIST StRD file, split in fields.
+func strdRows(t *testing.T, file string) [][]string {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join(reference.Dir(t), "nist-strd", file))
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(string(b), "\n")
+	for _, l := range lines {
+		if m := strdData.FindStringSubmatch(l); m != nil {
+			from, _ := strconv.Atoi(m[1])
+			to, _ := strconv.Atoi(m[2])
+			var out [][]string
+			for _, d := range lines[from-1 : to] {
+				out = append(out, strings.Fields(d))
+			}
+			return out
+		}
+	}
+	t.Fatalf("%s: no data lines", file)
+	return nil
 }

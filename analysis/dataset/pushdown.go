@@ -436,13 +436,15 @@ func (p *Prepared) Sums(mean []float64) (*Sums, error) {
 // (y − QY) − (Q0 + Q1·t + Q2·t²) with t = (x − QX)/QS.
 type Fit struct {
 	MX, MY, B              float64
+	MXLo, MYLo             float64 // low parts of the means: deviations are (x − MX) − MXLo
+
 	QX, QY, Q0, Q1, Q2, QS float64
 	Quad                   bool
 	MO                     float64 // mean of the run order, when the study has one
 }
 
 func (f Fit) resid() string {
-	return "((y - " + lit(f.MY) + ") - " + lit(f.B) + " * (x - " + lit(f.MX) + "))"
+	return "(((y - " + lit(f.MY) + ") - " + lit(f.MYLo) + ") - " + lit(f.B) + " * ((x - " + lit(f.MX) + ") - " + lit(f.MXLo) + "))"
 }
 
 // Residuals are the third pass: sums over the line's residuals e.
@@ -450,6 +452,7 @@ type Residuals struct {
 	SE, SE2, SE4 float64 // Σe, Σe², Σe⁴
 	SUE2         float64 // Σ(x − MX)·e²
 	SU           float64 // Σ(x − MX)
+	SUE          float64 // Σ(x − MX)·e: the slope's refinement (b + SUE/Sxx)
 	SQ2          float64 // Σ of the quadratic's squared residuals
 	SOE, SO, SOO float64 // Σ(o − MO)·e, Σ(o − MO), Σ(o − MO)² (run order)
 	EMin, EMax   float64
@@ -458,8 +461,8 @@ type Residuals struct {
 // Residuals runs the third pass.
 func (p *Prepared) Residuals(f Fit) (*Residuals, error) {
 	e := f.resid()
-	u := "(x - " + lit(f.MX) + ")"
-	sel := []string{"sum(e)", "sum(e * e)", "sum((e * e) * (e * e))", "sum(" + u + " * (e * e))", "sum(" + u + ")", "min(e)", "max(e)"}
+	u := "((x - " + lit(f.MX) + ") - " + lit(f.MXLo) + ")"
+	sel := []string{"sum(e)", "sum(e * e)", "sum((e * e) * (e * e))", "sum(" + u + " * (e * e))", "sum(" + u + ")", "min(e)", "max(e)", "sum(" + u + " * e)"}
 	if f.Quad {
 		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
 		q := "((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + ")))"
@@ -476,9 +479,9 @@ func (p *Prepared) Residuals(f Fit) (*Residuals, error) {
 		return nil, err
 	}
 	v := r[0]
-	out := &Residuals{SE: Num(v[0]), SE2: Num(v[1]), SE4: Num(v[2]), SUE2: Num(v[3]), SU: Num(v[4]), EMin: Num(v[5]), EMax: Num(v[6]), SQ2: Num(v[7])}
+	out := &Residuals{SE: Num(v[0]), SE2: Num(v[1]), SE4: Num(v[2]), SUE2: Num(v[3]), SU: Num(v[4]), EMin: Num(v[5]), EMax: Num(v[6]), SUE: Num(v[7]), SQ2: Num(v[8])}
 	if p.spec.Order != "" {
-		out.SOE, out.SO, out.SOO = Num(v[8]), Num(v[9]), Num(v[10])
+		out.SOE, out.SO, out.SOO = Num(v[9]), Num(v[10]), Num(v[11])
 	}
 	return out, nil
 }
@@ -508,6 +511,7 @@ func (p *Prepared) DurbinWatsonNumerator(f Fit) (float64, error) {
 type Influence struct {
 	N              int
 	MX, MY, B      float64
+	MXLo, MYLo     float64 // low parts of the means
 	Sxx, Syy, Sxy  float64
 	RSS, S         float64 // S = √(RSS/(n − 2))
 	Outlier, Cooks float64 // the cut points (+Inf: off)
@@ -517,8 +521,8 @@ type Influence struct {
 // measures is the SELECT list of the row-wise measures over bivar_c.
 func (in Influence) measures() string {
 	nf := float64(in.N)
-	dx := "(x - " + lit(in.MX) + ")"
-	dy := "(y - " + lit(in.MY) + ")"
+	dx := "((x - " + lit(in.MX) + ") - " + lit(in.MXLo) + ")"
+	dy := "((y - " + lit(in.MY) + ") - " + lit(in.MYLo) + ")"
 	e := "(" + dy + " - " + lit(in.B) + " * " + dx + ")"
 	q := "(" + dx + " * " + dx + " / " + lit(in.Sxx) + ")"
 	h := "least(1, " + lit(1/nf) + " + " + q + ")"
@@ -685,7 +689,7 @@ func (p *Prepared) Grids(f Fit, g [3]Grid) ([3]*Grid, error) {
 	cell := func(e string, lo, hi float64, k int) string {
 		return "least(greatest(CAST(floor((" + e + " - " + lit(lo) + ") * " + lit(float64(k)/(hi-lo)) + ") AS bigint), 0), " + strconv.Itoa(k-1) + ")"
 	}
-	fitted := "(" + lit(f.MY) + " + " + lit(f.B) + " * (x - " + lit(f.MX) + "))"
+	fitted := "(" + lit(f.MY) + " + " + lit(f.B) + " * ((x - " + lit(f.MX) + ") - " + lit(f.MXLo) + "))"
 	e := f.resid()
 	sel := []string{
 		cell("x", g[0].XLo, g[0].XHi, g[0].NX) + " AS a0", cell("y", g[0].YLo, g[0].YHi, g[0].NY) + " AS b0",

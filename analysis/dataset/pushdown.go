@@ -435,8 +435,8 @@ func (p *Prepared) Sums(mean []float64) (*Sums, error) {
 // residual e = (y − MY) − B·(x − MX); the quadratic's residual
 // (y − QY) − (Q0 + Q1·t + Q2·t²) with t = (x − QX)/QS.
 type Fit struct {
-	MX, MY, B              float64
-	MXLo, MYLo             float64 // low parts of the means: deviations are (x − MX) − MXLo
+	MX, MY, B  float64
+	MXLo, MYLo float64 // low parts of the means: deviations are (x − MX) − MXLo
 
 	QX, QY, Q0, Q1, Q2, QS float64
 	Quad                   bool

@@ -662,7 +662,17 @@ func groupsFromSums(gs []dataset.GroupSums, all stats.Moments, rssAll, conf floa
 	gl.SlopesDF1, gl.LinesDF1 = G-1, 2*G-2
 	gl.RWithinDF = n - G - 1
 	if G >= 2 && gl.DF2 >= 1 {
-		rssPar := math.Max(rssSep, syy-sxy*sxy/sxx)
+		// RSS_par − RSS_sep = Σ_g Sxx_g·(b_g − b_w)², b_w = ΣSxy/ΣSxx:
+		// the same difference without subtracting two large sums.
+		bw := sxy / sxx
+		var extra float64
+		for _, g := range gs {
+			if g.N >= 3 && g.Sxx > 0 {
+				d := g.Sxy/g.Sxx - bw
+				extra += g.Sxx * d * d
+			}
+		}
+		rssPar := rssSep + extra
 		rssOne := rssAll
 		if n != all.N {
 			rssOne = pooled.Syy - pooled.Sxy*pooled.Sxy/pooled.Sxx

@@ -149,7 +149,7 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 	if timeout <= 0 {
 		timeout = DefaultStatementTimeout
 	}
-	conn, tx, ctx, cancel, err := q.open(ctx, timeout, pgx.TxOptions{AccessMode: pgx.ReadOnly})
+	conn, tx, ctx, cancel, err := q.open(ctx, timeout, 1, pgx.TxOptions{AccessMode: pgx.ReadOnly})
 	if err != nil {
 		return nil, nil, err
 	}
@@ -309,7 +309,10 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 // timeout and the session settings ReadQuery and the push-down read under
 // (UTC, ISO dates, shortest exact float text). The caller cancels, closes
 // and rolls back; the context returned bounds the whole session.
-func (q Query) open(ctx context.Context, timeout time.Duration, opts pgx.TxOptions) (*pgx.Conn, pgx.Tx, context.Context, context.CancelFunc, error) {
+//
+// The session may last statements times the timeout (and the time to
+// connect): ReadQuery runs one long statement, a push-down study a dozen.
+func (q Query) open(ctx context.Context, timeout time.Duration, statements int, opts pgx.TxOptions) (*pgx.Conn, pgx.Tx, context.Context, context.CancelFunc, error) {
 	fail := func(err error) (*pgx.Conn, pgx.Tx, context.Context, context.CancelFunc, error) {
 		return nil, nil, nil, nil, err
 	}
@@ -323,7 +326,7 @@ func (q Query) open(ctx context.Context, timeout time.Duration, opts pgx.TxOptio
 	if cfg.ConnectTimeout == 0 {
 		cfg.ConnectTimeout = 15 * time.Second
 	}
-	ctx, cancel := context.WithTimeout(ctx, timeout+cfg.ConnectTimeout+30*time.Second)
+	ctx, cancel := context.WithTimeout(ctx, time.Duration(statements)*timeout+cfg.ConnectTimeout+30*time.Second)
 	conn, err := pgx.ConnectConfig(ctx, cfg)
 	if err != nil {
 		cancel()

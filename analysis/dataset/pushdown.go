@@ -57,13 +57,19 @@ type Session struct {
 	Statements []string
 }
 
-// Open starts a Session on q.
+// sessionStatements bounds the statements of a Session (a study runs
+// fourteen at most), each under the statement timeout: the session lasts
+// at most this many timeouts.
+const sessionStatements = 16
+
+// Open starts a Session on q. Each statement runs under q's statement
+// timeout; the session as a whole under sessionStatements of them.
 func Open(ctx context.Context, q Query) (*Session, error) {
 	timeout := q.Timeout
 	if timeout <= 0 {
 		timeout = DefaultStatementTimeout
 	}
-	conn, tx, ctx, cancel, err := q.open(ctx, timeout, pgx.TxOptions{AccessMode: pgx.ReadOnly, IsoLevel: pgx.RepeatableRead})
+	conn, tx, ctx, cancel, err := q.open(ctx, timeout, sessionStatements, pgx.TxOptions{AccessMode: pgx.ReadOnly, IsoLevel: pgx.RepeatableRead})
 	if err != nil {
 		return nil, err
 	}

@@ -500,7 +500,7 @@ type Influence struct {
 // Point is one named row.
 type Point struct {
 	Row            string   `json:"row"`   // id_column value, or the data row number (1 = first row after the header)
-	Index          int      `json:"index"` // 0-based position among the study's complete cases
+	Index          int      `json:"index"` // 0-based position among the study's complete cases; −1 for a row left in the database (report.Pushdown)
 	X              Float    `json:"x"`
 	Y              Float    `json:"y"`
 	Leverage       Float    `json:"leverage"`

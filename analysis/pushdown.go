@@ -384,9 +384,19 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	if s.Sensitivity != nil && d.Resistant != nil {
 		s.Sensitivity.ResistantSlope, s.Sensitivity.ResistantIntercept = d.Resistant.Slope, d.Resistant.Intercept
 	}
-	info.Sampled = []string{"quartiles and medians of x and y", "Spearman's ρ", "Kendall's τ-b", "distance correlation and its p",
+	sampled := []string{"quartiles and medians of x and y", "Spearman's ρ", "Kendall's τ-b", "distance correlation and its p",
 		"Theil–Sen line", "LOWESS curve", "Durbin–Watson and spread ρ in order of x"}
-	s.Approximations = pushdownApproximations(info.Sample, n, cfg)
+	if info.Sample < n {
+		info.Sampled = sampled
+		s.Approximations = pushdownApproximations(info.Sample, n, cfg)
+	} else {
+		// The sample is every complete case: these figures are those of
+		// the rows in memory, with the approximations the in-memory path
+		// states at this n.
+		exact(sampled...)
+		info.Sampled = []string{}
+		s.Approximations = ss.Approximations
+	}
 
 	// Units and predictions from the exact line.
 	s.UnitInvariance = unitsFromMoments(s.X, s.Y, alsoIn, mom, pc.R)

@@ -133,6 +133,10 @@ func TestPushdownSameAsInMemory(t *testing.T) {
 		if p.Pushdown.Sample != m.N || p.Spearman.Rho != m.Spearman.Rho || p.Kendall.TauB != m.Kendall.TauB || p.Describe.X.Median != m.Describe.X.Median {
 			t.Errorf("study %s: sample %d of %d rows; ρ %v / %v, τ %v / %v", m.ID, p.Pushdown.Sample, m.N, p.Spearman.Rho, m.Spearman.Rho, p.Kendall.TauB, m.Kendall.TauB)
 		}
+		if len(p.Approximations) != len(m.Approximations) || len(p.Pushdown.Sampled) != 0 || len(p.Pushdown.Omitted) == 0 || len(p.Pushdown.Statements) < 8 {
+			t.Errorf("study %s: approximations %d (in memory %d), sampled %v, omitted %v, %d statements", m.ID, len(p.Approximations), len(m.Approximations),
+				p.Pushdown.Sampled, p.Pushdown.Omitted, len(p.Pushdown.Statements))
+		}
 		if p.Findings == nil || m.Findings == nil || p.Findings.Form != m.Findings.Form || p.Findings.Direction != m.Findings.Direction || p.Findings.Strength != m.Findings.Strength {
 			t.Errorf("study %s: findings differ: %+v / %+v", m.ID, p.Findings, m.Findings)
 		}
@@ -362,6 +366,9 @@ func TestPushdownMillion(t *testing.T) {
 		delete(fm, k)
 	}
 	agree(t, "10⁶ rows", fp, fm, 1e-9)
+	if len(p.Approximations) != 6 || len(p.Pushdown.Sampled) != 7 || p.Approximations[0].Rows != 20000 || p.Approximations[0].Of != p.N {
+		t.Errorf("approximations %+v, sampled %v", p.Approximations, p.Pushdown.Sampled)
+	}
 	for k, pt := range p.Influence.Points {
 		if pt.Row != m.Influence.Points[k].Row {
 			t.Errorf("named row %d is %s, in memory %s", k, pt.Row, m.Influence.Points[k].Row)

@@ -739,7 +739,7 @@ func (p *Prepared) Grids(f Fit, g [3]Grid) ([3]*Grid, error) {
 }
 
 // SampleMethod says how Sample draws its rows, for the report.
-const SampleMethod = "drawn by the database: the complete cases with the smallest MD5 of the text of (x, y, covariates, group, order, id) as PostgreSQL writes that row, ties by the values; the same set of rows gives the same sample in any order, on any run"
+const SampleMethod = "drawn by the database: the complete cases with the smallest MD5 of the text of x and y as PostgreSQL writes them (shortest exact form), ties by the values of the study's columns and the id; the same set of rows gives the same sample in any order, on any run"
 
 // Sample fetches k complete cases chosen by SampleMethod: every numeric
 // column (NumCols order), the group and the id.
@@ -749,7 +749,7 @@ func (p *Prepared) Sample(k int) (num [][]float64, group, id []string, err error
 	if p.spec.Group == "" {
 		extra = ", CAST(NULL AS text) AS g"
 	}
-	stmt := "SELECT " + cols + extra + ", id FROM (SELECT " + cols + extra + ", id FROM " + p.Complete + ") AS bivar_s ORDER BY md5(CAST(bivar_s AS text)), " + cols + ", id LIMIT " + strconv.Itoa(k)
+	stmt := "SELECT " + cols + extra + ", id FROM (SELECT " + cols + extra + ", id FROM " + p.Complete + ") AS bivar_s ORDER BY md5(CAST(x AS text) || ' ' || CAST(y AS text)), " + cols + ", id LIMIT " + strconv.Itoa(k)
 	r, err := p.s.rows(stmt)
 	if err != nil {
 		return nil, nil, nil, err

@@ -692,7 +692,7 @@ type Pushdown struct {
 	Limit  int      `json:"limit"`  // the dataset's max_rows, exceeded
 	Sample int      `json:"sample"` // rows in the sample the sampled figures rest on
 	Method string   `json:"method"` // how the database drew the sample
-	Exact  []string `json:"exact"`  // figures computed by the database over every complete case
+	Exact  []string `json:"exact"`  // figures computed over every complete case (by the database; those of the sample too when it holds every complete case)
 	// Sampled lists the figures computed on the sample (Approximations
 	// gives each with its error).
 	Sampled []string   `json:"sampled"`

@@ -322,7 +322,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		if err != nil {
 			return s, err
 		}
-		s.Groups, s.GroupLines = groupsFromSums(gs, mom, rss, conf)
+		s.Groups, s.GroupLines = groupsFromSums(gs, conf)
 		exact("per-group lines", "comparison of the group lines")
 	}
 
@@ -643,7 +643,7 @@ func partialFromSums(n int, sxx, syy, sxy, szz, sxz, syz, conf float64) (r, lo, 
 
 // groupsFromSums is groupFits and groupLines (stats.CompareGroupLines)
 // from each level's centred sums.
-func groupsFromSums(gs []dataset.GroupSums, all stats.Moments, rssAll, conf float64) ([]report.GroupFit, *report.GroupLines) {
+func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *report.GroupLines) {
 	out := make([]report.GroupFit, 0, len(gs))
 	nan := math.NaN()
 	gl := stats.GroupLines{SlopesF: nan, SlopesP: nan, LinesF: nan, LinesP: nan, RWithin: nan, RWithinP: nan}
@@ -682,17 +682,27 @@ func groupsFromSums(gs []dataset.GroupSums, all stats.Moments, rssAll, conf floa
 				extra += g.Sxx * d * d
 			}
 		}
-		rssPar := rssSep + extra
-		rssOne := rssAll
-		if n != all.N {
-			rssOne = pooled.Syy - pooled.Sxy*pooled.Sxy/pooled.Sxx
+		// RSS_one − RSS_par is the squared distance between the two
+		// models' fitted values, ŷ_par − ŷ_one = c_g + δ·(x − x̄) with
+		// c_g = (ȳ_g − ȳ) − b_w·(x̄_g − x̄) and δ = b_w − b_one (means over
+		// the levels compared): Σ n_g c_g² + 2δ Σ n_g c_g (x̄_g − x̄) + δ² Sxx,
+		// again without subtracting two residual sums (our algebra).
+		delta := bw - pooled.Sxy/pooled.Sxx
+		var onePar float64
+		for _, g := range gs {
+			if g.N >= 3 && g.Sxx > 0 {
+				nf := float64(g.N)
+				dx := g.MX - pooled.MeanX
+				cg := (g.MY - pooled.MeanY) - bw*dx
+				onePar += nf*cg*cg + 2*delta*nf*cg*dx
+			}
 		}
-		rssOne = math.Max(rssSep, rssOne)
+		onePar += delta * delta * pooled.Sxx
 		ms := rssSep / float64(gl.DF2)
 		if ms > 0 {
-			gl.SlopesF = (rssPar - rssSep) / float64(gl.SlopesDF1) / ms
+			gl.SlopesF = extra / float64(gl.SlopesDF1) / ms
 			gl.SlopesP = stats.UpperF(gl.SlopesF, float64(gl.SlopesDF1), float64(gl.DF2))
-			gl.LinesF = (rssOne - rssSep) / float64(gl.LinesDF1) / ms
+			gl.LinesF = math.Max(0, extra+onePar) / float64(gl.LinesDF1) / ms
 			gl.LinesP = stats.UpperF(gl.LinesF, float64(gl.LinesDF1), float64(gl.DF2))
 		}
 		if syy > 0 {

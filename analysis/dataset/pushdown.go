@@ -609,13 +609,13 @@ type Row struct {
 func (p *Prepared) Suspect(in Influence, limit int) ([]Row, error) {
 	o, _, d := in.conds()
 	return p.fetch("SELECT x, y, id FROM "+in.source(p)+" WHERE "+o+" OR "+d+
-		" ORDER BY d DESC NULLS LAST, abs(t) DESC NULLS LAST, x, y, id LIMIT "+strconv.Itoa(limit), 0)
+		" ORDER BY d DESC NULLS LAST, abs(t) DESC NULLS LAST, x, y, id COLLATE \"C\" LIMIT "+strconv.Itoa(limit), 0)
 }
 
 // Extremes fetches the rows whose leave-one-out r is the smallest or the
 // largest (a few rows: those that tie).
 func (p *Prepared) Extremes(in Influence, lo, hi float64) ([]Row, []float64, error) {
-	r, err := p.s.rows("SELECT x, y, id, loor FROM " + in.source(p) + " WHERE loor = " + lit(lo) + " OR loor = " + lit(hi) + " ORDER BY x, y, id LIMIT 1000")
+	r, err := p.s.rows("SELECT x, y, id, loor FROM " + in.source(p) + " WHERE loor = " + lit(lo) + " OR loor = " + lit(hi) + " ORDER BY x, y, id COLLATE \"C\" LIMIT 1000")
 	if err != nil {
 		return nil, nil, err
 	}
@@ -747,8 +747,13 @@ func (p *Prepared) Grids(f Fit, g [3]Grid) ([3]*Grid, error) {
 	return out, nil
 }
 
+// sampleKey is the sample's order: the first 60 bits of the MD5 of x and
+// y's text as a number, so that no collation of the server's enters (a
+// text comparison would follow the database's locale).
+const sampleKey = "CAST(CAST('x' || left(md5(CAST(x AS text) || ' ' || CAST(y AS text)), 15) AS bit(60)) AS bigint)"
+
 // SampleMethod says how Sample draws its rows, for the report.
-const SampleMethod = "drawn by the database: the complete cases with the smallest MD5 of the text of x and y as PostgreSQL writes them (shortest exact form), ties by the values of the study's columns and the id; the same set of rows gives the same sample in any order, on any run"
+const SampleMethod = "drawn by the database: the complete cases with the smallest MD5 (its first 60 bits, as a number) of the text of x and y as PostgreSQL writes them (shortest exact form), ties by the values of the study's columns, the group and the id (bytewise); the same set of rows gives the same sample in any order, on any run"
 
 // Sample fetches k complete cases chosen by SampleMethod: every numeric
 // column (NumCols order), the group and the id.
@@ -758,7 +763,7 @@ func (p *Prepared) Sample(k int) (num [][]float64, group, id []string, err error
 	if p.spec.Group == "" {
 		extra = ", CAST(NULL AS text) AS g"
 	}
-	stmt := "SELECT " + cols + extra + ", id FROM (SELECT " + cols + extra + ", id FROM " + p.Complete + ") AS bivar_s ORDER BY md5(CAST(x AS text) || ' ' || CAST(y AS text)), " + cols + ", id LIMIT " + strconv.Itoa(k)
+	stmt := "SELECT " + cols + extra + ", id FROM (SELECT " + cols + extra + ", id FROM " + p.Complete + ") AS bivar_s ORDER BY " + sampleKey + ", " + cols + ", g COLLATE \"C\", id COLLATE \"C\" LIMIT " + strconv.Itoa(k)
 	r, err := p.s.rows(stmt)
 	if err != nil {
 		return nil, nil, nil, err

@@ -102,8 +102,9 @@ func (s *Session) what() string {
 	return "the query"
 }
 
-// Query runs one statement and returns its rows as float64 (NULL: NaN) or,
-// for text columns, in Text; it is the only way statements reach the server.
+// rows runs one statement in the session and returns its rows' values
+// (read them with Num and Text); it is the only way statements reach the
+// server, and it records each in Statements.
 func (s *Session) rows(stmt string, args ...any) ([][]any, error) {
 	s.Statements = append(s.Statements, stmt)
 	rs, err := s.tx.Query(s.ctx, stmt, args...)
@@ -608,8 +609,8 @@ type Row struct {
 // smallest x, y and name), at most limit of them.
 func (p *Prepared) Suspect(in Influence, limit int) ([]Row, error) {
 	o, _, d := in.conds()
-	return p.fetch("SELECT x, y, id FROM "+in.source(p)+" WHERE "+o+" OR "+d+
-		" ORDER BY d DESC NULLS LAST, abs(t) DESC NULLS LAST, x, y, id COLLATE \"C\" LIMIT "+strconv.Itoa(limit), 0)
+	return p.fetch("SELECT x, y, id FROM " + in.source(p) + " WHERE " + o + " OR " + d +
+		" ORDER BY d DESC NULLS LAST, abs(t) DESC NULLS LAST, x, y, id COLLATE \"C\" LIMIT " + strconv.Itoa(limit))
 }
 
 // Extremes fetches the rows whose leave-one-out r is the smallest or the
@@ -628,7 +629,8 @@ func (p *Prepared) Extremes(in Influence, lo, hi float64) ([]Row, []float64, err
 	return rows, loo, nil
 }
 
-func (p *Prepared) fetch(stmt string, _ int) ([]Row, error) {
+// fetch runs a statement whose columns are x, y and id.
+func (p *Prepared) fetch(stmt string) ([]Row, error) {
 	r, err := p.s.rows(stmt)
 	if err != nil {
 		return nil, err

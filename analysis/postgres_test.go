@@ -246,7 +246,8 @@ func TestRunPostgreSQLErrors(t *testing.T) {
 		{"failing query", url, `query = "SELECT x, y FROM no_such_table"`, `the query failed: relation "no_such_table" does not exist (SQLSTATE 42P01): correct it in the manifest`},
 		{"writing query", url, `query = "SELECT x, y FROM small FOR UPDATE"`, "read-only transaction"},
 		{"timeout", url, "query = \"SELECT x, y FROM small, pg_sleep(2)\"\nstatement_timeout = \"300ms\"", "the query ran longer than statement_timeout = 300ms and the server stopped it"},
-		{"row limit", url, "table = \"small\"\nmax_rows = 10", `reading table small gives more than 10 rows, the limit: filter it`},
+		{"timeout above the row limit", url, "query = \"SELECT x, y, pg_sleep(0.02)::text AS z FROM small\"\nstatement_timeout = \"300ms\"\nmax_rows = 10", "the query ran longer than statement_timeout = 300ms and the server stopped it"},
+		{"failing query above the row limit", url, "query = \"SELECT x, y FROM no_such_table\"\nmax_rows = 10", `the query failed: relation "no_such_table" does not exist`},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {

@@ -79,8 +79,10 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		if err != nil {
 			return nil, err
 		}
-		if _, err := rowFilter(m, manifest.Study{}, ls); err != nil { // the dataset's own entries, even without a study
-			return nil, err
+		if ls.push == nil {
+			if _, err := rowFilter(m, manifest.Study{}, ls); err != nil { // the dataset's own entries, even without a study
+				return nil, err
+			}
 		}
 		loaded[ds.ID] = ls
 		r.Datasets = append(r.Datasets, ls.info)
@@ -106,6 +108,12 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 	var wg sync.WaitGroup
 	slots := make(chan struct{}, max(1, runtime.GOMAXPROCS(0)))
 	for i, st := range m.Studies {
+		if ls := loaded[st.Dataset]; ls != nil && ls.push != nil && !absentAny(st, ls) {
+			// The rows stay in the database: it does the work, one study
+			// at a time.
+			r.Studies[i] = pushedStudy(m, st, ls, cfg)
+			continue
+		}
 		in, msg := input(st, loaded[st.Dataset])
 		if msg != "" {
 			if st.Line > 0 { // where to fix it: the study's [[study]] header
@@ -198,6 +206,7 @@ type loadedSet struct {
 	absent  map[string]bool // columns the studies asked for that the file does not have
 	columns []string        // the file's header, for "did you mean" and listings
 	info    report.Dataset
+	push    *pushed // set when the rows stay in the database (more than max_rows); table is then nil
 }
 
 // wanted lists the columns the studies of dataset id use: numeric (x, y,
@@ -353,12 +362,23 @@ func loadQuery(m *manifest.Manifest, ds manifest.Dataset, opts dataset.Options, 
 	if ds.MaxRows == nil {
 		opts.Limits.MaxRows = dataset.DefaultDBMaxRows
 	}
+	at := fmt.Sprintf("line %d", ds.Line)
+	if m.Path != "" {
+		at = fmt.Sprintf("%s:%d", m.Path, ds.Line)
+	}
+	over, err := dataset.OverLimit(context.Background(), q, opts.Limits.MaxRows)
+	if err != nil {
+		return nil, fmt.Errorf("dataset %q (%s): %w", ds.ID, at, err)
+	}
+	if over {
+		ls, err := loadPushed(ds, q, opts.Limits.MaxRows, numeric, text)
+		if err != nil {
+			return nil, fmt.Errorf("dataset %q (%s): %w", ds.ID, at, err)
+		}
+		return ls, nil
+	}
 	t, qi, err := dataset.ReadQuery(context.Background(), q, opts, numeric, text)
 	if err != nil {
-		at := fmt.Sprintf("line %d", ds.Line)
-		if m.Path != "" {
-			at = fmt.Sprintf("%s:%d", m.Path, ds.Line)
-		}
 		return nil, fmt.Errorf("dataset %q (%s): %w", ds.ID, at, err)
 	}
 	timeout := q.Timeout

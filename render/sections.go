@@ -22,6 +22,7 @@ var studySections = []func(s *report.Study, level string, th report.Thresholds) 
 	groupsSection,
 	predictionsSection,
 	approximationsSection,
+	pushdownSection,
 	planSection,
 	limitsSection,
 }
@@ -526,6 +527,33 @@ func approximationsSection(s *report.Study, _ string, _ report.Thresholds) (*sec
 		t.Rows = append(t.Rows, []string{a.Figure, itoa(a.Rows), a.Method, a.Error})
 	}
 	sec.Tables = append(sec.Tables, t)
+	return sec, nil
+}
+
+// pushdownSection says, for a study whose rows stayed in the database,
+// which figures the database computed over every row, which come from its
+// sample and which the study does not have, and why (report.Pushdown).
+func pushdownSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
+	p := s.Pushdown
+	if p == nil {
+		return nil, nil
+	}
+	sec := &section{Key: "pushdown", Title: "Computed in the database"}
+	sec.Paras = append(sec.Paras, fmt.Sprintf("The dataset's query gives %s rows, more than its max_rows = %s, so the rows stayed in the database: it summed them, and bivar fetched only the sums, the named rows and a sample of %s rows (%s). The %d SQL statements run are listed in results.json.",
+		itoa(p.Rows), itoa(p.Limit), itoa(p.Sample), p.Method, len(p.Statements)))
+	if len(p.Exact) > 0 {
+		sec.Items = append(sec.Items, kv{K: "Over every row", V: strings.Join(p.Exact, "; ")})
+	}
+	if len(p.Sampled) > 0 {
+		sec.Items = append(sec.Items, kv{K: "From the sample", V: strings.Join(p.Sampled, "; ")})
+	}
+	if len(p.Omitted) > 0 {
+		t := table{Caption: "Not computed for rows left in the database", Head: []string{"Figure", "Why"}, Num: []bool{false, false}}
+		for _, o := range p.Omitted {
+			t.Rows = append(t.Rows, []string{o.Figure, o.Why})
+		}
+		sec.Tables = append(sec.Tables, t)
+	}
 	return sec, nil
 }
 

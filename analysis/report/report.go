@@ -238,10 +238,15 @@ type Study struct {
 	Agreement       *Agreement       `json:"agreement,omitempty"`
 	ErrorCorrection *ErrorCorrection `json:"error_correction,omitempty"`
 	Plan            *Plan            `json:"plan,omitempty"`
-	Expectations    []Expectation    `json:"expectations"`
-	Notes           string           `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
-	Error           *string          `json:"error"`
-	Plot            *Plot            `json:"-"` // what the charts draw (bounded); not in results.json
+	// Pushdown is set when the study's rows stayed in the database (its
+	// dataset gave more rows than max_rows): which figures the database
+	// computed over every row, which come from its sample, and which were
+	// not computed and why. nil for rows read into memory.
+	Pushdown     *Pushdown     `json:"pushdown,omitempty"`
+	Expectations []Expectation `json:"expectations"`
+	Notes        string        `json:"notes,omitempty"` // Markdown from the manifest, rendered by the renderers
+	Error        *string       `json:"error"`
+	Plot         *Plot         `json:"-"` // what the charts draw (bounded); not in results.json
 
 	// FlaggedCSV is the content of the CSV file named by Influence.File:
 	// every flagged row with all its measures. It is not in results.json
@@ -534,7 +539,7 @@ type Influence struct {
 // Point is one named row.
 type Point struct {
 	Row            string   `json:"row"`   // id_column value, or the data row number (1 = first row after the header)
-	Index          int      `json:"index"` // 0-based position among the study's complete cases
+	Index          int      `json:"index"` // 0-based position among the study's complete cases; −1 for a row left in the database (report.Pushdown)
 	X              Float    `json:"x"`
 	Y              Float    `json:"y"`
 	Leverage       Float    `json:"leverage"`
@@ -718,6 +723,27 @@ type Approximation struct {
 	Of     int    `json:"of"`     // the study's rows
 	Method string `json:"method"` // how the sample was drawn
 	Error  string `json:"error"`  // its error against the exact method, and where that figure comes from
+}
+
+// Pushdown describes a study computed in the database.
+type Pushdown struct {
+	Rows   int      `json:"rows"`   // rows of the dataset's query
+	Limit  int      `json:"limit"`  // the dataset's max_rows, exceeded
+	Sample int      `json:"sample"` // rows in the sample the sampled figures rest on
+	Method string   `json:"method"` // how the database drew the sample
+	Exact  []string `json:"exact"`  // figures computed over every complete case (by the database; those of the sample too when it holds every complete case)
+	// Sampled lists the figures computed on the sample (Approximations
+	// gives each with its error).
+	Sampled []string   `json:"sampled"`
+	Omitted []Omission `json:"omitted"`
+	// Statements are the SQL statements run, in order.
+	Statements []string `json:"statements"`
+}
+
+// Omission is a figure a study does not have, and why.
+type Omission struct {
+	Figure string `json:"figure"`
+	Why    string `json:"why"`
 }
 
 // Expectation is one CI gate from [study.expect] and its outcome.

@@ -79,7 +79,9 @@ func TestManifestsShareStudies(t *testing.T) {
 		}
 		return s[i:]
 	}
-	if tail("bivar.toml") != tail("bivar-nov.toml") {
-		t.Error("bivar.toml and bivar-nov.toml differ from [dataset.units] down: make the studies identical")
+	for _, other := range []string{"bivar-nov.toml", "bivar-pg.toml", "bivar-xlsx.toml"} {
+		if tail("bivar.toml") != tail(other) {
+			t.Errorf("bivar.toml and %s differ from [dataset.units] down: make the studies identical", other)
+		}
 	}
 }

@@ -1,0 +1,41 @@
+package render_test
+
+import (
+	"bytes"
+	"strings"
+	"testing"
+
+	"bivar/analysis/report"
+	"bivar/render"
+	"bivar/render/internal/fixture"
+)
+
+// TestPushdownSection: a study whose rows stayed in the database shows, in
+// both formats, what the database computed over every row, what comes
+// from its sample, and what was not computed and why, as results.json
+// holds them (report.Pushdown); a study of rows read into memory shows no
+// such section.
+func TestPushdownSection(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 40})
+	r.Studies[0].Pushdown = &report.Pushdown{Rows: 12_000_000, Limit: 5_000_000, Sample: 20000,
+		Method: "the 20000 rows of smallest md5 of their values", Exact: []string{"Pearson r", "the line"},
+		Sampled: []string{"Spearman's rho", "LOWESS"}, Omitted: []report.Omission{{Figure: "log models", Why: "no logarithm is taken in the database"}},
+		Statements: []string{"SELECT 1", "SELECT 2"}}
+	var md, page bytes.Buffer
+	if err := render.Markdown(&md, r); err != nil {
+		t.Fatal(err)
+	}
+	if err := render.HTML(&page, r); err != nil {
+		t.Fatal(err)
+	}
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		for _, want := range []string{"Computed in the database", "12000000 rows", "max_rows = 5000000", "Pearson r; the line", "Spearman", "log models", "no logarithm is taken in the database", "The 2 SQL statements"} {
+			if !strings.Contains(out, want) {
+				t.Errorf("%s lacks %q", name, want)
+			}
+		}
+		if strings.Count(out, "Computed in the database") != 1 {
+			t.Errorf("%s: the section appears %d times, want once (one study pushed down)", name, strings.Count(out, "Computed in the database"))
+		}
+	}
+}

@@ -1,0 +1,62 @@
+#!/usr/bin/env bash
+# Measures a study whose rows stay in PostgreSQL (more rows than max_rows,
+# set to 1000):
+# bivar's wall time and peak resident memory (/usr/bin/time -v) against the
+# database's own scan of the same table (SELECT count(*), psql's \timing),
+# medians of three runs each. The table is the 10⁷-row one of
+# analysis/pushdown_pg_test.go (bigTableSQL, the same statement), built
+# in the database by generate_series.
+#
+#   scripts/pg-test.sh scripts/pushdown-bench.sh            # 10⁷ rows
+#   scripts/pg-test.sh scripts/pushdown-bench.sh 1000000    # another size
+set -euo pipefail
+cd "$(dirname "$0")/.."
+rows=${1:-10000000}
+: "${BIVAR_TEST_PG_URL:?run it under scripts/pg-test.sh, which starts a server and sets BIVAR_TEST_PG_URL}"
+[ -x /usr/bin/time ] || { echo "pushdown-bench: needs GNU time (apt-get install time)" >&2; exit 1; }
+tmp=$(mktemp -d)
+trap 'rm -rf "$tmp"' EXIT
+go build -o "$tmp/bivar" ./cmd/bivar
+psql "$BIVAR_TEST_PG_URL" -q -v ON_ERROR_STOP=1 <<SQL
+DROP TABLE IF EXISTS pdbench;
+CREATE TABLE pdbench (id text, x float8, y float8, z float8, g text, o bigint);
+INSERT INTO pdbench SELECT 'r' || i, 50 + 10 * sin(i * 12.9898),
+  3 + 0.5 * (50 + 10 * sin(i * 12.9898)) + 0.01 * (10 * sin(i * 12.9898))^2 + (1.5 + sin(i * 12.9898)) * sin(i * 78.233)
+    + CASE WHEN i % 99991 = 0 THEN 40 ELSE 0 END,
+  cos(i * 3.3) + 0.2 * sin(i * 12.9898), 'L' || (i % 4), i / 10
+  FROM generate_series(1, $rows) i;
+VACUUM ANALYZE pdbench;
+SQL
+cat >"$tmp/m.toml" <<TOML
+title = "push-down benchmark"
+[[dataset]]
+id = "d"
+table = "pdbench"
+connection = "BIVAR_TEST_PG_URL"
+id_column = "id"
+statement_timeout = "10m"
+max_rows = 1000
+[[study]]
+id = "s"
+dataset = "d"
+x = "x"
+y = "y"
+group = "g"
+order = "o"
+covariates = ["z"]
+TOML
+median() { sort -g | awk '{v[NR]=$1} END {print v[int((NR+1)/2)]}'; }
+scan=()
+for i in 1 2 3; do
+	ms=$(psql "$BIVAR_TEST_PG_URL" -X -q -c '\timing on' -c 'SELECT count(*) FROM pdbench' | sed -n 's/^Time: \([0-9.]*\) ms.*/\1/p')
+	scan+=("$(awk -v m="$ms" 'BEGIN {printf "%.2f", m / 1000}')")
+done
+wall=() rss=()
+for i in 1 2 3; do
+	/usr/bin/time -v -o "$tmp/time.txt" "$tmp/bivar" run -o "$tmp/out" "$tmp/m.toml" >/dev/null 2>"$tmp/err.txt" || { cat "$tmp/err.txt" >&2; exit 1; }
+	wall+=("$(awk -F': ' '/Elapsed \(wall clock\)/ {n = split($2, p, ":"); s = 0; for (k = 1; k <= n; k++) s = s * 60 + p[k]; printf "%.2f", s}' "$tmp/time.txt")")
+	rss+=("$(awk -F': ' '/Maximum resident set size/ {printf "%.1f", $2 / 1024}' "$tmp/time.txt")")
+done
+echo "rows: $rows"
+echo "database scan, SELECT count(*): median $(printf '%s\n' "${scan[@]}" | median) s (runs: ${scan[*]})"
+echo "bivar run, pushed down: median $(printf '%s\n' "${wall[@]}" | median) s (runs: ${wall[*]}), peak RSS median $(printf '%s\n' "${rss[@]}" | median) MB (runs: ${rss[*]})"

@@ -55,7 +55,7 @@ func TestAgreementPEFR(t *testing.T) {
 	r := pefrRun(t, agreementStudy("first", `agreement = { acceptable = 60 }
 expect = { agree = true }`)+
 		agreementStudy("wide", "agreement = { acceptable = 100 }")+
-		agreementStudy("wider", "agreement = { acceptable = 2, unit = \"L/s\" }")+
+		agreementStudy("wider", "agreement = { acceptable = 2.5, unit = \"L/s\" }")+
 		agreementStudy("none", ""))
 	s := study(t, r, "first")
 	a := s.Agreement
@@ -94,7 +94,7 @@ expect = { agree = true }`)+
 		t.Errorf("delta from %q, want assumed 1 (no replicates)", a.Deming.DeltaFrom)
 	}
 	// Limits about −78 and +74 l/min: outside ±60, inside ±100 but with
-	// intervals (about ±35 wide) beyond it; ±2 L/s = ±120 L/min holds them all.
+	// intervals (exact, to −124 and +120) beyond it; ±2.5 L/s = ±150 L/min holds them all.
 	for _, c := range []struct {
 		id   string
 		want report.AgreementVerdict
@@ -107,8 +107,8 @@ expect = { agree = true }`)+
 				got.Lower, got.Upper, got.LowerLow, got.UpperHigh, got.Acceptable)
 		}
 	}
-	if acc := study(t, r, "wider").Agreement.Acceptable; math.Abs(float64(acc)-120) > 1e-9 {
-		t.Errorf("±2 L/s in L/min = %v, want 120", acc)
+	if acc := study(t, r, "wider").Agreement.Acceptable; math.Abs(float64(acc)-150) > 1e-9 {
+		t.Errorf("±2.5 L/s in L/min = %v, want 150", acc)
 	}
 	var agree *report.Expectation
 	for i := range s.Expectations {

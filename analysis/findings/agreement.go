@@ -126,13 +126,13 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 	a.Statements = st
 	a.Assumptions = []string{
 		"The differences are y − x, on the same items; the limits (bias ± 1.96 SD) assume differences of roughly normal distribution with the same spread over the range of the mean (the regression of the difference on the mean checks the latter).",
-		"The intervals of the limits use the approximate standard error of Bland and Altman (1999); the Deming intervals are jackknife intervals (Linnet).",
+		"The intervals of the limits are exact for normal differences (quantiles of the noncentral t, as for a tolerance limit; Carkeet 2015), so they are asymmetric about each limit; the Deming intervals are jackknife intervals (Linnet).",
 	}
 	if d := a.Deming; d != nil {
 		a.Assumptions = append(a.Assumptions, fmt.Sprintf("The Deming line takes the ratio of the methods' error variances as %s (%s).", num(float64(d.Delta)), d.DeltaFrom))
 	}
 	if a.XReadings > 1 || a.YReadings > 1 {
-		a.Assumptions = append(a.Assumptions, "With replicates, the figures use each item's mean reading per method; the limits are those of single readings (Bland and Altman 1999, the SD corrected with the within-item variances).")
+		a.Assumptions = append(a.Assumptions, "With replicates, the figures use each item's mean reading per method; the limits are those of single readings (Bland and Altman 1999, the SD corrected with the within-item variances), and their intervals treat that SD as one of n − 1 degrees of freedom, an approximation.")
 	}
 }
 

@@ -29,10 +29,9 @@ type LimitsOfAgreement struct {
 
 	K            float64 // the multiplier of SD in the limits (1.96 for 95 %, 2 in the 1986 paper)
 	Lower, Upper float64 // limits of agreement d̄ ∓ K·SD
-	LimitSE      float64 // approximate standard error of each limit, SD·√(1/n + K²/(2(n−1)))
-	LowerLo      float64 // interval of the lower limit: Lower ∓ t_{n−1}·LimitSE
+	LowerLo      float64 // exact interval of the lower limit: d̄ − SD·t′_{(1±conf)/2}/√n (see BlandAltman)
 	LowerHi      float64
-	UpperLo      float64 // interval of the upper limit: Upper ∓ t_{n−1}·LimitSE
+	UpperLo      float64 // exact interval of the upper limit: d̄ + SD·t′_{(1∓conf)/2}/√n
 	UpperHi      float64
 
 	// The regression of d on m (least squares), which shows a difference
@@ -53,13 +52,18 @@ type LimitsOfAgreement struct {
 //	d_i = a_i − b_i,  bias d̄,  s = SD(d) (n−1 divisor)
 //	limits d̄ ∓ k·s                                 (k = 1.96; 2 in the 1986 paper)
 //	interval of d̄:     d̄ ∓ t_{n−1,(1+conf)/2} · s/√n
-//	interval of a limit: limit ∓ t_{n−1,(1+conf)/2} · s·√(1/n + k²/(2(n−1)))
+//	interval of the upper limit: d̄ + s·t′_q/√n,  q = (1−conf)/2 and (1+conf)/2
+//	interval of the lower limit: d̄ − s·t′_q/√n,  q = (1+conf)/2 and (1−conf)/2
 //
-// The standard error of a limit is the approximate one of the 1999 paper
-// : var(d̄ + k s) ≈ s²/n + k² s²/(2(n−1)), which is about 3s²/n for
-// k ≈ 2 as in the 1986 paper. It is not the exact interval (a noncentral t
-// quantile, as for a tolerance limit), which is slightly wider and
-// asymmetric at small n. The regression of d on the mean m = (a+b)/2 is
+// where t′_q is the q-quantile of the noncentral t with n−1 df and
+// noncentrality k·√n (NoncentralTQuantile). This is the exact interval of
+// a normal quantile μ + kσ, the two one-sided tolerance limits (Carkeet,
+// A. (2015), "Exact parametric confidence intervals for Bland–Altman
+// limits of agreement", Optometry and Vision Science 92(3):e71–e80). It
+// is asymmetric about the limit and wider at small n than the approximate
+// limit ∓ t·s·√(1/n + k²/(2(n−1))) of the 1999 paper, whose outer ends
+// cover too seldom there (they would accept agreement too easily). The
+// regression of d on the mean m = (a+b)/2 is
 // ordinary least squares with centred sums; its slope's p uses t with n−2
 // df (Bland & Altman 1999).
 //
@@ -92,10 +96,10 @@ func BlandAltman(a, b []float64, k, conf float64) LimitsOfAgreement {
 //
 //	s² = s_d̄² + (1 − 1/m_a)·s_wa² + (1 − 1/m_b)·s_wb²
 //
-// and the limits are d̄ ∓ k·s. The interval of each limit uses the
-// standard error of BlandAltman with s in place and n − 1 degrees of
-// freedom — an approximation stated here (the 1999 paper gives none for
-// this case). The regression of d on the mean is on the replicate means.
+// and the limits are d̄ ∓ k·s. The interval of each limit is the exact
+// one of BlandAltman with s in place and n − 1 degrees of freedom — an
+// approximation here, stated as such (s is not the SD of n − 1 df
+// differences, and the 1999 paper gives no interval for this case). The regression of d on the mean is on the replicate means.
 //
 // Every column must have the same length (it panics otherwise); figures
 // are NaN as for BlandAltman, and when a method's replicates are missing.
@@ -129,7 +133,7 @@ func agrLimits(d, m []float64, bias, sd, sdm, k, conf float64) LimitsOfAgreement
 	nan := math.NaN()
 	n := len(d)
 	r := LimitsOfAgreement{N: n, Bias: bias, SD: sd, SDMeans: sdm, K: k,
-		BiasLo: nan, BiasHi: nan, Lower: nan, Upper: nan, LimitSE: nan,
+		BiasLo: nan, BiasHi: nan, Lower: nan, Upper: nan,
 		LowerLo: nan, LowerHi: nan, UpperLo: nan, UpperHi: nan,
 		TrendIntercept: nan, TrendSlope: nan, TrendSlopeSE: nan, TrendP: nan}
 	if n < 2 || math.IsNaN(bias) || math.IsNaN(sd) || math.IsInf(bias, 0) || math.IsInf(sd, 0) {
@@ -144,9 +148,12 @@ func agrLimits(d, m []float64, bias, sd, sdm, k, conf float64) LimitsOfAgreement
 		t := TQuantile(0.5+conf/2, fn-1)
 		r.BiasLo, r.BiasHi = bias-t*sdm/math.Sqrt(fn), bias+t*sdm/math.Sqrt(fn)
 		if k > 0 {
-			r.LimitSE = sd * math.Sqrt(1/fn+k*k/(2*(fn-1)))
-			r.LowerLo, r.LowerHi = r.Lower-t*r.LimitSE, r.Lower+t*r.LimitSE
-			r.UpperLo, r.UpperHi = r.Upper-t*r.LimitSE, r.Upper+t*r.LimitSE
+			// Carkeet (2015): t′ quantiles of the noncentral t, n−1 df, k√n.
+			nc, rn := k*math.Sqrt(fn), math.Sqrt(fn)
+			tl := NoncentralTQuantile(0.5-conf/2, fn-1, nc)
+			th := NoncentralTQuantile(0.5+conf/2, fn-1, nc)
+			r.UpperLo, r.UpperHi = bias+sd*tl/rn, bias+sd*th/rn
+			r.LowerLo, r.LowerHi = bias-sd*th/rn, bias-sd*tl/rn
 		}
 	}
 	if n >= 3 {

@@ -11,7 +11,8 @@ Versions used: Debian's Python 3, numpy 1.24.2, scipy 1.10.1.
 Data: Bland & Altman (1986), Lancet 327:307-310, Table 1 (peak expiratory
 flow, l/min), read from the shared reference folder (not copied here).
 
-- Bland-Altman: numpy mean/std(ddof=1), scipy.stats.t.ppf, scipy.stats.linregress.
+- Bland-Altman: numpy mean/std(ddof=1), scipy.stats.t.ppf, scipy.stats.linregress;
+  the limits' exact intervals from scipy.stats.nct.ppf(q, n-1, k*sqrt(n)) (Carkeet 2015).
 - Repeatability: numpy within-subject sums of squares, scipy.stats.chi2.ppf.
 - Deming: scipy.odr.ODR with RealData(x, y, sx=1, sy=sqrt(delta)) (weights
   1 on x and 1/delta on y), fit_type=0 (explicit ODR), analytic derivatives
@@ -47,12 +48,20 @@ def bland_altman(a, b, k, conf):
     bias = d.mean()
     sd = d.std(ddof=1)
     t = stats.t.ppf(0.5 + conf / 2, n - 1)
-    se_lim = sd * np.sqrt(1 / n + k * k / (2 * (n - 1)))
     lr = stats.linregress(m, d)
     return dict(bias=bias, sd=sd, bias_lo=bias - t * sd / np.sqrt(n), bias_hi=bias + t * sd / np.sqrt(n),
-                lower=bias - k * sd, upper=bias + k * sd, limit_se=se_lim,
-                lower_lo=bias - k * sd - t * se_lim, upper_hi=bias + k * sd + t * se_lim,
+                lower=bias - k * sd, upper=bias + k * sd, **exact_limits(bias, sd, n, k, conf),
                 trend_slope=lr.slope, trend_intercept=lr.intercept, trend_se=lr.stderr, trend_p=lr.pvalue)
+
+
+def exact_limits(bias, sd, n, k, conf):
+    # Carkeet (2015): the exact interval of mu + k*sigma, from the quantiles
+    # of the noncentral t with n-1 df and noncentrality k*sqrt(n).
+    tl = stats.nct.ppf(0.5 - conf / 2, n - 1, k * np.sqrt(n))
+    th = stats.nct.ppf(0.5 + conf / 2, n - 1, k * np.sqrt(n))
+    r = np.sqrt(n)
+    return dict(upper_lo=bias + sd * tl / r, upper_hi=bias + sd * th / r,
+                lower_lo=bias - sd * th / r, lower_hi=bias - sd * tl / r)
 
 
 def within_sd(reps):
@@ -146,8 +155,9 @@ def main():
     sw_b, _ = within_sd([m1, m2])
     dm = (w1 + w2) / 2 - (m1 + m2) / 2
     sdm = dm.std(ddof=1)
-    out["replicates"] = dict(bias=dm.mean(), sd_means=sdm,
-                             sd=np.sqrt(sdm ** 2 + 0.5 * sw_a ** 2 + 0.5 * sw_b ** 2))
+    sd_rep = np.sqrt(sdm ** 2 + 0.5 * sw_a ** 2 + 0.5 * sw_b ** 2)
+    out["replicates"] = dict(bias=dm.mean(), sd_means=sdm, sd=sd_rep,
+                             **exact_limits(dm.mean(), sd_rep, len(dm), 1.96, 0.95))
     # Deming of the mini meter (y) on the Wright meter (x).
     delta_rep = sw_b ** 2 / sw_a ** 2
     out["deming_delta1"] = deming(w1, m1, 1.0, 0.95)

@@ -52,7 +52,7 @@ y = "wright_1"
 
 func TestAgreementPEFR(t *testing.T) {
 	t.Parallel()
-	r := pefrRun(t, agreementStudy("first", `agreement = { acceptable = 60 }
+	r := pefrRun(t, agreementStudy("first", `agreement = { acceptable = 40 }
 expect = { agree = true }`)+
 		agreementStudy("wide", "agreement = { acceptable = 100 }")+
 		agreementStudy("wider", "agreement = { acceptable = 2.5, unit = \"L/s\" }")+
@@ -93,7 +93,8 @@ expect = { agree = true }`)+
 	if a.Deming.DeltaFrom != "assumed 1" {
 		t.Errorf("delta from %q, want assumed 1 (no replicates)", a.Deming.DeltaFrom)
 	}
-	// Limits about −78 and +74 l/min: outside ±60, inside ±100 but with
+	// Limits about −78 and +74 l/min, the lower one's interval −124 to −53:
+	// wholly outside ±40; inside ±100 but with
 	// intervals (exact, to −124 and +120) beyond it; ±2.5 L/s = ±150 L/min holds them all.
 	for _, c := range []struct {
 		id   string

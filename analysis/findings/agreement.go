@@ -40,18 +40,19 @@ func Measurement(s *report.Study, alpha float64) {
 // report.AgreeWithin when both limits of agreement and their confidence
 // intervals lie inside (−acceptable, +acceptable) — the equivalence
 // statement that 95 % of the differences fall inside, made with the
-// uncertainty of the limits allowed for; report.NotWithin when a limit
-// itself lies outside; report.Undecided when the limits lie inside but the
-// interval of one reaches past ±acceptable (more items would decide); ""
-// when no acceptable difference is declared or a figure is undefined. A
-// limit exactly at ±acceptable counts as inside.
+// uncertainty of the limits allowed for; report.NotWithin only when the
+// interval of a limit lies wholly outside (its near end beyond
+// ±acceptable), so that the disagreement is as sure as an agreement would
+// have to be; report.Undecided otherwise — an interval reaches across
+// ±acceptable, or an interval is undefined (more items would narrow the
+// intervals); "" when no acceptable difference is declared or a limit is
+// undefined. An end exactly at ±acceptable counts as inside.
 func AgreementVerdict(a *report.Agreement) report.AgreementVerdict {
 	acc := float64(a.Acceptable)
-	lo, hi := float64(a.Lower), float64(a.Upper)
 	if !a.Acceptable.Valid() || !a.Lower.Valid() || !a.Upper.Valid() {
 		return ""
 	}
-	if lo < -acc || hi > acc {
+	if (a.UpperLow.Valid() && float64(a.UpperLow) > acc) || (a.LowerHigh.Valid() && float64(a.LowerHigh) < -acc) {
 		return report.NotWithin
 	}
 	if !a.LowerLow.Valid() || !a.UpperHigh.Valid() || float64(a.LowerLow) < -acc || float64(a.UpperHigh) > acc {
@@ -82,11 +83,11 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 		st = append(st, fmt.Sprintf("%s and %s agree within %s: 95%% of the differences are expected inside the %s, and the intervals of both limits lie inside %s too.",
 			capital(x), y, accText, limits, accText))
 	case report.NotWithin:
-		st = append(st, fmt.Sprintf("%s and %s do not agree within the acceptable %s: the %s reach beyond it.",
-			capital(x), y, accText, limits))
+		st = append(st, fmt.Sprintf("%s and %s do not agree within the acceptable %s: of the %s, the interval of %s lies wholly beyond it.",
+			capital(x), y, accText, limits, outsideLimit(a)))
 	case report.Undecided:
-		st = append(st, fmt.Sprintf("Agreement within %s is not shown: the %s lie inside it, but their intervals reach beyond it; more items would decide.",
-			accText, limits))
+		st = append(st, fmt.Sprintf("Agreement within %s is undecided: of the %s, an interval reaches across %s, so the data show the limits neither inside it nor outside it; more items would narrow the intervals.",
+			accText, limits, accText))
 	default:
 		st = append(st, fmt.Sprintf("The %s; no acceptable difference is declared (agreement.acceptable), so no verdict on agreement is given.", limits))
 	}
@@ -133,6 +134,22 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 	}
 	if a.XReadings > 1 || a.YReadings > 1 {
 		a.Assumptions = append(a.Assumptions, "With replicates, the figures use each item's mean reading per method; the limits are those of single readings (Bland and Altman 1999, the SD corrected with the within-item variances), and their intervals treat that SD as one of n − 1 degrees of freedom, an approximation.")
+	}
+}
+
+// outsideLimit names the limit whose interval lies wholly beyond
+// ±acceptable ("the upper limit", "the lower limit" or "both limits").
+func outsideLimit(a *report.Agreement) string {
+	acc := float64(a.Acceptable)
+	up := a.UpperLow.Valid() && float64(a.UpperLow) > acc
+	low := a.LowerHigh.Valid() && float64(a.LowerHigh) < -acc
+	switch {
+	case up && low:
+		return "each limit"
+	case up:
+		return "the upper limit"
+	default:
+		return "the lower limit"
 	}
 }
 

@@ -14,24 +14,30 @@ import (
 func TestAgreementVerdictRules(t *testing.T) {
 	t.Parallel()
 	nan := math.NaN()
-	mk := func(acc, lower, lowerLow, upper, upperHigh float64) *report.Agreement {
-		return &report.Agreement{Acceptable: report.Float(acc), Lower: report.Float(lower), LowerLow: report.Float(lowerLow),
-			Upper: report.Float(upper), UpperHigh: report.Float(upperHigh)}
+	// mk takes each limit with its interval low, limit, high.
+	mk := func(acc, lowerLow, lower, lowerHigh, upperLow, upper, upperHigh float64) *report.Agreement {
+		return &report.Agreement{Acceptable: report.Float(acc),
+			LowerLow: report.Float(lowerLow), Lower: report.Float(lower), LowerHigh: report.Float(lowerHigh),
+			UpperLow: report.Float(upperLow), Upper: report.Float(upper), UpperHigh: report.Float(upperHigh)}
 	}
 	for _, tc := range []struct {
 		name string
 		a    *report.Agreement
 		want report.AgreementVerdict
 	}{
-		{"all inside", mk(2, -1, -1.5, 1, 1.5), report.AgreeWithin},
-		{"interval ends exactly at the bounds count as inside", mk(2, -1, -2, 1, 2), report.AgreeWithin},
-		{"upper interval reaches past", mk(2, -1, -1.5, 1.8, 2.1), report.Undecided},
-		{"lower interval reaches past", mk(2, -1.9, -2.2, 1, 1.5), report.Undecided},
-		{"upper limit outside", mk(2, -1, -1.5, 2.1, 2.5), report.NotWithin},
-		{"lower limit outside", mk(2, -2.01, -2.5, 1, 1.5), report.NotWithin},
-		{"no acceptable difference", mk(nan, -1, -1.5, 1, 1.5), ""},
-		{"undefined limits", mk(2, nan, nan, nan, nan), ""},
-		{"undefined intervals", mk(2, -1, nan, 1, nan), report.Undecided},
+		{"all inside", mk(2, -1.5, -1, -0.5, 0.5, 1, 1.5), report.AgreeWithin},
+		{"interval ends exactly at the bounds count as inside", mk(2, -2, -1, -0.5, 0.5, 1, 2), report.AgreeWithin},
+		{"upper interval reaches past", mk(2, -1.5, -1, -0.5, 1.5, 1.8, 2.1), report.Undecided},
+		{"lower interval reaches past", mk(2, -2.2, -1.9, -1.6, 0.5, 1, 1.5), report.Undecided},
+		{"upper limit outside, its interval reaching back inside", mk(2, -1.5, -1, -0.5, 1.7, 2.1, 2.5), report.Undecided},
+		{"lower limit outside, its interval reaching back inside", mk(2, -2.5, -2.01, -1.9, 0.5, 1, 1.5), report.Undecided},
+		{"upper interval wholly outside", mk(2, -1.5, -1, -0.5, 2.01, 2.3, 2.6), report.NotWithin},
+		{"lower interval wholly outside", mk(2, -3, -2.5, -2.01, 0.5, 1, 1.5), report.NotWithin},
+		{"an interval ending exactly at the bound is not wholly outside", mk(2, -1.5, -1, -0.5, 2, 2.3, 2.6), report.Undecided},
+		{"no acceptable difference", mk(nan, -1.5, -1, -0.5, 0.5, 1, 1.5), ""},
+		{"undefined limits", mk(2, nan, nan, nan, nan, nan, nan), ""},
+		{"undefined intervals", mk(2, nan, -1, nan, nan, 1, nan), report.Undecided},
+		{"undefined intervals, limit outside", mk(2, nan, -1, nan, nan, 2.5, nan), report.Undecided},
 	} {
 		if got := AgreementVerdict(tc.a); got != tc.want {
 			t.Errorf("%s: AgreementVerdict = %q, want %q", tc.name, got, tc.want)

@@ -60,8 +60,8 @@ type AgreementVerdict string
 // The agreement verdicts (Agreement.Verdict).
 const (
 	AgreeWithin AgreementVerdict = "agree"     // both limits, with their intervals, inside ±acceptable
-	NotWithin   AgreementVerdict = "disagree"  // a limit itself lies outside ±acceptable
-	Undecided   AgreementVerdict = "undecided" // the limits lie inside but an interval reaches past ±acceptable
+	NotWithin   AgreementVerdict = "disagree"  // a limit's interval lies wholly outside ±acceptable
+	Undecided   AgreementVerdict = "undecided" // neither: an interval reaches across ±acceptable (or is undefined)
 )
 
 // MethodLine is a line y = Intercept + Slope·x fitted to two methods.

@@ -36,6 +36,8 @@ func measure(s *report.Study, st manifest.Study, in Input, cols map[string][]flo
 		return
 	}
 	conf := 1 - cfg.Alpha
+	// The readings are the recorded values: the manifest refuses x_scale
+	// and y_scale on an agreement study and with gauge_sd or replicates.
 	// The readings are gathered (a copy of x and y: 160 MB at 10⁷ rows)
 	// only for a study that uses them.
 	if s.Kind == manifest.KindAgreement {

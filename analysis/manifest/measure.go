@@ -6,6 +6,7 @@ package manifest
 // validation.
 
 import (
+	"fmt"
 	"math"
 	"slices"
 	"strconv"
@@ -170,6 +171,31 @@ func (p *parser) measure(owner, name string, s *Study, d Dataset) {
 			p.add(owner, "study.expect.agree", "study %q: expect.agree applies to agreement studies only: add kind = %q", name, KindAgreement)
 		case s.Agreement == nil || s.Agreement.Acceptable == nil:
 			p.add(owner, "study.expect.agree", "study %q: expect.agree needs the acceptable difference: add [study.agreement] with acceptable = … (± in the columns' unit)", name)
+		}
+	}
+
+	// The measurement parts work on the recorded values: a gauge SD or a
+	// replicates' within-item SD in the recorded unit says nothing of the
+	// spread on a log or root scale (it would depend on the level), and
+	// agreement is about differences in the recorded unit.
+	for _, sc := range []struct{ axis, scale string }{{"x", s.XScale}, {"y", s.YScale}} {
+		if !Scaled(sc.scale) {
+			continue
+		}
+		var uses []string
+		if agree {
+			uses = append(uses, fmt.Sprintf("kind = %q", KindAgreement))
+		}
+		if s.GaugeSD != nil {
+			uses = append(uses, "gauge_sd")
+		}
+		if len(s.XReplicates) > 0 || len(s.YReplicates) > 0 {
+			uses = append(uses, "replicate columns (x_replicates, y_replicates)")
+		}
+		if len(uses) > 0 {
+			p.add(owner, "study."+sc.axis+"_scale", "study %q: %s_scale = %q cannot be used with %s: agreement and the correction for measurement error work on the recorded values (a gauge SD or a within-item SD in the recorded unit does not carry over to a transformed scale, where the spread depends on the level); remove %s_scale, or make a separate relationship study for the transformed scale",
+				name, sc.axis, sc.scale, strings.Join(uses, " and "), sc.axis)
+			break
 		}
 	}
 

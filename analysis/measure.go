@@ -205,18 +205,24 @@ func errorCorrection(xcols, ycols [][]float64, n int, g *manifest.GaugeSD, conf 
 // plan says how many rows the next run needs (see report.Plan), from the
 // study's r, residual SD and SD of x, and the targets of [study.plan] or
 // their defaults (manifest.DefaultRHalfWidth, manifest.DefaultPower, half
-// the slope's present half-width).
+// the slope's present half-width). An agreement study plans only the
+// intervals of its limits of agreement (planAgreement).
 func plan(s *report.Study, pl *manifest.Plan, alpha float64) *report.Plan {
-	if s.Pearson == nil {
-		return nil
-	}
 	if pl == nil {
 		pl = &manifest.Plan{}
+	}
+	if s.Kind == manifest.KindAgreement {
+		return planAgreement(s, pl, alpha)
+	}
+	if s.Pearson == nil {
+		return nil
 	}
 	f := func(v float64) report.Float { return report.Float(v) }
 	conf := 1 - alpha
 	r := float64(s.Pearson.R)
-	p := &report.Plan{N: s.N, Alpha: f(alpha), RHalfWidthFrom: "default", SlopeHalfWidthFrom: "default", DetectRFrom: "observed"}
+	nan := report.Float(math.NaN())
+	p := &report.Plan{N: s.N, Alpha: f(alpha), RHalfWidthFrom: "default", SlopeHalfWidthFrom: "default", DetectRFrom: "observed",
+		LimitsHalfWidthNow: nan, LimitsHalfWidth: nan}
 	p.RHalfWidthNow = f(stats.FisherHalfWidth(r, s.N, conf))
 	p.RHalfWidth = manifest.DefaultRHalfWidth
 	if pl.RHalfWidth != nil {
@@ -247,7 +253,38 @@ func plan(s *report.Study, pl *manifest.Plan, alpha float64) *report.Plan {
 		p.Power = f(*pl.Power)
 	}
 	p.NForPower = stats.NForCorrelationPower(float64(p.DetectR), alpha, float64(p.Power))
-	p.PowerNow = f(stats.CorrelationPower(float64(p.DetectR), s.N, alpha))
+	// The power of this run at the observed r is a transform of its p
+	// ("observed power"): it is given only for a declared r.
+	p.PowerNow = nan
+	if p.DetectRFrom == "declared" {
+		p.PowerNow = f(stats.CorrelationPower(float64(p.DetectR), s.N, alpha))
+	}
+	return p
+}
+
+// planAgreement plans an agreement study: the items needed for the exact
+// intervals of the limits of agreement to reach plan.limits_half_width
+// (default half the present half-width, the project's choice as for the
+// slope) at the present SD of the differences (stats.NForLimitsHalfWidth).
+// The r, slope and power figures are NaN and 0: a test of ρ = 0 is
+// meaningless for two methods that measure the same thing.
+func planAgreement(s *report.Study, pl *manifest.Plan, alpha float64) *report.Plan {
+	a := s.Agreement
+	if a == nil {
+		return nil
+	}
+	f := func(v float64) report.Float { return report.Float(v) }
+	nan := f(math.NaN())
+	p := &report.Plan{N: a.N, Alpha: f(alpha), RHalfWidthNow: nan, RHalfWidth: nan, SlopeHalfWidthNow: nan, SlopeHalfWidth: nan,
+		DetectR: nan, Power: nan, PowerNow: nan, LimitsHalfWidthFrom: "default"}
+	conf := 1 - alpha
+	sd, k := float64(a.SD), float64(a.K)
+	now := stats.LimitsHalfWidth(sd, k, a.N, conf)
+	p.LimitsHalfWidthNow, p.LimitsHalfWidth = f(now), f(now/2)
+	if pl.LimitsHalfWidth != nil {
+		p.LimitsHalfWidth, p.LimitsHalfWidthFrom = f(*pl.LimitsHalfWidth), "declared"
+	}
+	p.NForLimits = stats.NForLimitsHalfWidth(sd, k, float64(p.LimitsHalfWidth), conf)
 	return p
 }
 

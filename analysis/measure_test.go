@@ -214,6 +214,39 @@ plan = { smallest_r = 0.3, r_half_width = 0.05 }
 	if study(t, r, "reps").Plan.SlopeHalfWidth*2 != study(t, r, "reps").Plan.SlopeHalfWidthNow {
 		t.Error("default slope target is not half the present half-width")
 	}
+	// The power of this run is stated for the declared r only (at the
+	// observed r it is a transform of p).
+	if !p.PowerNow.Valid() || !strings.Contains(strings.Join(p.Statements, " "), "this run's 17 rows give power") {
+		t.Errorf("declared r: power now %v, statements %q", p.PowerNow, p.Statements)
+	}
+	if q := study(t, r, "reps").Plan; q.PowerNow.Valid() || strings.Contains(strings.Join(q.Statements, " "), "this run's") {
+		t.Errorf("observed r: power now %v, statements %q; want no observed power", q.PowerNow, q.Statements)
+	}
+}
+
+func TestAgreementPlan(t *testing.T) {
+	t.Parallel()
+	r := pefrRun(t, agreementStudy("dflt", "")+agreementStudy("decl", "plan = { limits_half_width = 15 }"))
+	d := study(t, r, "dflt")
+	p, a := d.Plan, d.Agreement
+	// The present half-width is that of the reported exact intervals.
+	if hw := float64(a.UpperHigh-a.UpperLow) / 2; math.Abs(float64(p.LimitsHalfWidthNow)-hw) > 1e-9*hw || p.LimitsHalfWidth*2 != p.LimitsHalfWidthNow {
+		t.Errorf("limits half-width now %v target %v; the interval's %v", p.LimitsHalfWidthNow, p.LimitsHalfWidth, hw)
+	}
+	if p.NForR != 0 || p.NForPower != 0 || p.PowerNow.Valid() || p.RHalfWidthNow.Valid() {
+		t.Errorf("agreement plan carries r or power figures: %+v", p)
+	}
+	all := strings.Join(p.Statements, " ")
+	if !strings.Contains(all, "intervals of the limits of agreement") || !strings.Contains(all, "ρ = 0") || strings.Contains(all, "power 0.8") {
+		t.Errorf("statements %q", p.Statements)
+	}
+	// Declared ±15 l/min at the SD of the first readings (38.76): scipy
+	// 1.10.1 stats.nct.ppf search gives n = 79 at SD 38.76, k 1.96 (see
+	// stats.TestLimitsHalfWidthScipy); here the wiring to that function.
+	q := study(t, r, "decl").Plan
+	if want := stats.NForLimitsHalfWidth(float64(a.SD), float64(a.K), 15, 0.95); q.NForLimits != want || q.LimitsHalfWidthFrom != "declared" || want < 70 || want > 90 {
+		t.Errorf("declared: n %d from %q, want %d", q.NForLimits, q.LimitsHalfWidthFrom, want)
+	}
 }
 
 func TestReplicateColumnAbsent(t *testing.T) {

@@ -246,6 +246,10 @@ func planStatements(p *report.Plan, s *report.Study) {
 		}
 		return fmt.Sprintf("%d %s", n, plural(n, "row", "rows"))
 	}
+	if p.LimitsHalfWidthFrom != "" {
+		p.Statements = planAgreementStatements(p, s, conf, need)
+		return
+	}
 	var st []string
 	hw := "the target ±" + corr(float64(p.RHalfWidth))
 	if p.RHalfWidthFrom == "default" {
@@ -274,9 +278,30 @@ func planStatements(p *report.Plan, s *report.Study) {
 	if p.DetectRFrom == "declared" {
 		what = "|r| = " + corr(float64(p.DetectR)) + " (plan.smallest_r)"
 	}
-	st = append(st, fmt.Sprintf("To detect %s with power %s by the two-sided test at alpha %s (Fisher z), a run needs %s; this run's %d rows give power %s.",
-		what, num(float64(p.Power)), num(float64(p.Alpha)), need(p.NForPower), p.N, corr(float64(p.PowerNow))))
+	detect := fmt.Sprintf("To detect %s with power %s by the two-sided test at alpha %s (Fisher z), a run needs %s",
+		what, num(float64(p.Power)), num(float64(p.Alpha)), need(p.NForPower))
+	if p.PowerNow.Valid() {
+		// Only for a declared r: at the observed r it would restate p.
+		detect += fmt.Sprintf("; this run's %d rows give power %s", p.N, corr(float64(p.PowerNow)))
+	}
+	st = append(st, detect+".")
 	p.Statements = st
+}
+
+// planAgreementStatements words the plan of an agreement study: the items
+// for the limits' intervals to reach the target, and why r and power are
+// not planned.
+func planAgreementStatements(p *report.Plan, s *report.Study, conf string, need func(int) string) []string {
+	u := symbol(s.X)
+	tgt := "±" + withUnit(float64(p.LimitsHalfWidth), u)
+	if p.LimitsHalfWidthFrom == "default" {
+		tgt += " (half the present; set plan.limits_half_width)"
+	}
+	return []string{
+		fmt.Sprintf("For the %s intervals of the limits of agreement to narrow from about ±%s (n = %d) to %s, the next run needs %s, if the SD of the differences stays near %s (exact intervals, noncentral t).",
+			conf, withUnit(float64(p.LimitsHalfWidthNow), u), p.N, tgt, strings.Replace(need(p.NForLimits), "row", "item", 1), withUnit(float64(s.Agreement.SD), u)),
+		"No plan for r or for the power to detect a correlation is given: two methods measuring the same items are correlated by design, so a test of ρ = 0 says nothing about their agreement (plan.r_half_width, plan.slope_half_width, plan.smallest_r and plan.power are not used here).",
+	}
 }
 
 // AgreeExpectation evaluates expect.agree on the finished study: want =

@@ -59,6 +59,10 @@ type Plan struct {
 	SlopeHalfWidth *float64 `toml:"slope_half_width"` // half-width wanted for the slope's interval, in y's unit per x's unit
 	SmallestR      *float64 `toml:"smallest_r"`       // smallest |r| worth detecting; default the observed r
 	Power          *float64 `toml:"power"`            // chance of detecting it
+	// LimitsHalfWidth (agreement studies) is the half-width wanted for the
+	// intervals of the limits of agreement, in the columns' unit; default
+	// half the present one.
+	LimitsHalfWidth *float64 `toml:"limits_half_width"`
 }
 
 // Planning defaults (study.plan). DefaultRHalfWidth is common practice for
@@ -210,6 +214,14 @@ func (p *parser) measure(owner, name string, s *Study, d Dataset) {
 		frac("power", pl.Power, "give the chance of detecting it, such as 0.8")
 		if v := pl.SlopeHalfWidth; v != nil && !(*v > 0 && !math.IsInf(*v, 0)) {
 			p.add(owner, "study.plan.slope_half_width", "study %q: plan.slope_half_width = %v must be a positive number, in y's unit per x's unit", name, *v)
+		}
+		if v := pl.LimitsHalfWidth; v != nil {
+			switch {
+			case !agree:
+				p.add(owner, "study.plan.limits_half_width", "study %q: plan.limits_half_width applies to agreement studies only (the intervals of the limits of agreement): add kind = %q, or remove the key", name, KindAgreement)
+			case !(*v > 0 && !math.IsInf(*v, 0)):
+				p.add(owner, "study.plan.limits_half_width", "study %q: plan.limits_half_width = %v must be a positive number, in the columns' unit", name, *v)
+			}
 		}
 	}
 }

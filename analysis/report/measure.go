@@ -160,7 +160,15 @@ type Plan struct {
 	DetectRFrom string `json:"detect_r_from"` // "declared" or "observed"
 	Power       Float  `json:"power"`
 	NForPower   int    `json:"n_for_power"`
-	PowerNow    Float  `json:"power_now"` // power of this run's n to detect DetectR
+	PowerNow    Float  `json:"power_now"` // power of this run's n to detect DetectR; NaN unless DetectR is declared (at the observed r it is only a transform of p)
+
+	// Agreement studies plan the limits of agreement instead (the r, slope
+	// and power figures above are then NaN and 0: a test of ρ = 0 says
+	// nothing about agreement).
+	LimitsHalfWidthNow  Float  `json:"limits_half_width_now"`  // half-width of the limits' exact intervals now
+	LimitsHalfWidth     Float  `json:"limits_half_width"`      // the target, in the columns' unit
+	LimitsHalfWidthFrom string `json:"limits_half_width_from"` // "declared" or "default" (half the present); "" outside agreement studies
+	NForLimits          int    `json:"n_for_limits"`           // items for the target, at the present SD of the differences
 
 	Statements []string `json:"statements"`
 }

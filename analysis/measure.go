@@ -198,7 +198,7 @@ func errorCorrection(xcols, ycols [][]float64, n int, g *manifest.GaugeSD, conf 
 	f := func(v float64) report.Float { return report.Float(v) }
 	return &report.ErrorCorrection{N: n, SDErrorX: f(sx), SDErrorY: f(sy), FromX: fx, FromY: fy,
 		ReliabilityX: f(c.ReliabilityX), ReliabilityY: f(c.ReliabilityY),
-		R: f(c.R), RCorrected: f(c.RCorrected), RCorrectedLow: f(c.RCorrectedLo), RCorrectedHigh: f(c.RCorrectedHi),
+		R: f(c.R), RCorrected: f(c.RCorrected), RCorrectedClipped: c.RClipped, RUnclipped: f(c.RUnclipped), RCorrectedLow: f(c.RCorrectedLo), RCorrectedHigh: f(c.RCorrectedHi),
 		Slope: f(c.Slope), SlopeCorrected: f(c.SlopeCorrected), SlopeCorrectedLow: f(c.SlopeCorrectedLo), SlopeCorrectedHigh: f(c.SlopeCorrectedHi)}
 }
 

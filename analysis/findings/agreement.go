@@ -225,8 +225,9 @@ func errorStatements(e *report.ErrorCorrection, s *report.Study, alpha float64) 
 	} else {
 		st = append(st, "The slope needs no correction: x is taken as measured without error, and error in y does not bias the slope.")
 	}
-	if math.Abs(float64(e.RCorrected)) > 1 {
-		st = append(st, "The corrected r lies beyond ±1: the declared repeatability SDs are larger than these data allow, or the errors are not independent of the true values.")
+	if e.RCorrectedClipped {
+		st = append(st, fmt.Sprintf("The corrected r came out at %s, beyond ±1, and is reported as %s, the end of its interval: the declared repeatability SDs are larger than these data allow, or the errors are not independent of the true values.",
+			num(float64(e.RUnclipped)), corr(float64(e.RCorrected))))
 	}
 	if !e.RCorrected.Valid() {
 		st = append(st, "The corrected r is undefined: a declared repeatability SD is as large as the observed spread of its variable.")
@@ -234,7 +235,7 @@ func errorStatements(e *report.ErrorCorrection, s *report.Study, alpha float64) 
 	e.Statements = st
 	e.Assumptions = []string{
 		"Classical errors: each reading is the true value plus an error of constant SD, independent of the true value and of the other variable's error (Spearman's correction for attenuation; the regression-dilution correction divides the slope by x's reliability).",
-		"The repeatability SDs are taken as known: the intervals are the raw intervals divided by the same factors and do not include the uncertainty of the SDs, so they are too narrow when the SDs come from a small repeatability study.",
+		"The repeatability SDs are taken as known: r's interval is the raw Fisher-z interval divided by the same factor, and the corrected slope's interval uses Fuller's (1987) variance, which allows for x's measurement error; neither includes the uncertainty of the SDs themselves, so both are too narrow when the SDs come from a small repeatability study.",
 	}
 }
 

@@ -80,3 +80,22 @@ func TestAgreementWords(t *testing.T) {
 		t.Errorf("expect.agree = false on an undecided study: %+v", e)
 	}
 }
+
+// A corrected r clipped to 1 is said to be, with the value before
+// clipping, and the assumptions name Fuller's variance for the slope.
+func TestErrorCorrectionClippedWords(t *testing.T) {
+	t.Parallel()
+	f := func(v float64) report.Float { return report.Float(v) }
+	s := &report.Study{X: report.Variable{Label: "x"}, Y: report.Variable{Label: "y"},
+		ErrorCorrection: &report.ErrorCorrection{N: 20, SDErrorX: f(1), SDErrorY: f(1), FromX: "declared", FromY: "declared",
+			ReliabilityX: f(0.5), ReliabilityY: f(0.6), R: f(0.9), RCorrected: f(1), RCorrectedClipped: true, RUnclipped: f(1.162),
+			RCorrectedLow: f(0.95), RCorrectedHigh: f(1), Slope: f(0.5), SlopeCorrected: f(1), SlopeCorrectedLow: f(0.6), SlopeCorrectedHigh: f(1.4)}}
+	Measurement(s, 0.05)
+	all := strings.Join(s.ErrorCorrection.Statements, " ")
+	if !strings.Contains(all, "came out at 1.16, beyond ±1, and is reported as 1") {
+		t.Errorf("statements %q", s.ErrorCorrection.Statements)
+	}
+	if !strings.Contains(strings.Join(s.ErrorCorrection.Assumptions, " "), "Fuller's (1987) variance") {
+		t.Errorf("assumptions %q", s.ErrorCorrection.Assumptions)
+	}
+}

@@ -128,7 +128,9 @@ type ErrorCorrection struct {
 	ReliabilityY Float  `json:"reliability_y"`
 
 	R                  Float `json:"r"`
-	RCorrected         Float `json:"r_corrected"`
+	RCorrected         Float `json:"r_corrected"` // clipped to ±1 (see RCorrectedClipped)
+	RCorrectedClipped  bool  `json:"r_corrected_clipped"`
+	RUnclipped         Float `json:"r_corrected_unclipped"` // r/√(rel_x·rel_y) before clipping
 	RCorrectedLow      Float `json:"r_corrected_low"`
 	RCorrectedHigh     Float `json:"r_corrected_high"`
 	Slope              Float `json:"slope"`

@@ -18,7 +18,8 @@ flow, l/min), read from the shared reference folder (not copied here).
   1 on x and 1/delta on y), fit_type=0 (explicit ODR), analytic derivatives
   (deriv=3), sstol = partol = 1e-15;
   jackknife by refitting scipy.odr without each row in turn.
-- Error correction: scipy.stats.pearsonr, numpy arctanh/tanh with
+- Error correction: the corrected slope's interval by Fuller (1987),
+  Theorem 1.2.1, in numpy with scipy.stats.t.ppf; scipy.stats.pearsonr, numpy arctanh/tanh with
   scipy.stats.norm.ppf (Fisher z), scipy.stats.linregress with
   scipy.stats.t.ppf; reliabilities 1 - s_err^2/var(ddof=1) with the
   within-subject SDs above as the declared error SDs.
@@ -136,7 +137,15 @@ def error_correction(x, y, ex, ey, conf):
     relx = 1 - ex ** 2 / x.var(ddof=1)
     rely = 1 - ey ** 2 / y.var(ddof=1)
     f = np.sqrt(relx * rely)
-    return dict(r=r, r_lo=rlo, r_hi=rhi, rel_x=relx, rel_y=rely, err_x=ex, err_y=ey,
+    # Fuller (1987), Measurement Error Models, Theorem 1.2.1: the variance
+    # of the slope corrected for the known error variance suu of x.
+    b = lr.slope / relx
+    suu = ex ** 2
+    mxx = x.var(ddof=1)
+    svv = ((y - y.mean() - b * (x - x.mean())) ** 2).sum() / (n - 2)
+    se_b = np.sqrt((mxx * svv + b ** 2 * suu ** 2) / ((n - 1) * (mxx - suu) ** 2))
+    return dict(slope_corrected_lo=b - t * se_b, slope_corrected_hi=b + t * se_b, slope_corrected_se=se_b,
+                r=r, r_lo=rlo, r_hi=rhi, rel_x=relx, rel_y=rely, err_x=ex, err_y=ey,
                 r_corrected=r / f, r_corrected_lo=max(-1, rlo / f), r_corrected_hi=min(1, rhi / f),
                 slope=lr.slope, slope_lo=lr.slope - t * lr.stderr, slope_hi=lr.slope + t * lr.stderr,
                 slope_corrected=lr.slope / relx)

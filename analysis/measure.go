@@ -113,6 +113,16 @@ func agreement(xcols, ycols [][]float64, n int, st manifest.Study, unit string, 
 	}
 
 	xm, ym := stats.RowMeans(xcols, n), stats.RowMeans(ycols, n)
+	a.MeanLow, a.MeanHigh = report.NaN(), report.NaN()
+	for i := range xm {
+		m := (xm[i] + ym[i]) / 2
+		if i == 0 || m < float64(a.MeanLow) {
+			a.MeanLow = f(m)
+		}
+		if i == 0 || m > float64(a.MeanHigh) {
+			a.MeanHigh = f(m)
+		}
+	}
 	delta, from := 1.0, "assumed 1"
 	switch {
 	case st.Agreement != nil && st.Agreement.Delta != nil:

@@ -94,10 +94,25 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 	st = append(st, fmt.Sprintf("On average %s reads %s than %s (bias %s, %s interval %s to %s, n = %d).",
 		y, higherLower(float64(a.Bias), u), x, signed(float64(a.Bias)), conf, num(float64(a.BiasLow)), withUnit(float64(a.BiasHigh), u), a.N))
 
-	a.Trend = a.TrendP.Valid() && float64(a.TrendP) < alpha
-	if a.Trend {
-		st = append(st, fmt.Sprintf("The difference changes with the magnitude: it changes by %s per unit of the mean (%s interval %s to %s, %s), so a single bias and pair of limits describe it poorly.",
-			signed(float64(a.TrendSlope)), conf, num(float64(a.TrendLow)), num(float64(a.TrendHigh)), pval(float64(a.TrendP))))
+	// The trend must be significant and material: the change across the
+	// observed range of the mean at least a quarter of the acceptable
+	// difference, or of the limits' width without one (a choice of this
+	// tool).
+	change := math.Abs(float64(a.TrendSlope)) * (float64(a.MeanHigh) - float64(a.MeanLow))
+	material, of := (float64(a.Upper)-float64(a.Lower))/4, "the width of the limits of agreement"
+	if a.Acceptable.Valid() {
+		material, of = acc/4, "the acceptable difference "+withUnit(acc, u)
+	}
+	significant := a.TrendP.Valid() && float64(a.TrendP) < alpha
+	a.Trend = significant && change >= material
+	rangeText := fmt.Sprintf("%s across the observed range of the mean, %s to %s", withUnit(change, u), num(float64(a.MeanLow)), withUnit(float64(a.MeanHigh), u))
+	switch {
+	case a.Trend:
+		st = append(st, fmt.Sprintf("The difference changes with the magnitude: by %s per unit of the mean (%s interval %s to %s, %s), %s, at least a quarter of %s (the materiality rule is a choice of this tool), so a single bias and pair of limits describe it poorly.",
+			signed(float64(a.TrendSlope)), conf, num(float64(a.TrendLow)), num(float64(a.TrendHigh)), pval(float64(a.TrendP)), rangeText, of))
+	case significant && !math.IsNaN(change):
+		st = append(st, fmt.Sprintf("The difference changes slightly with the magnitude (%s per unit of the mean, %s), but only by %s, less than a quarter of %s (a choice of this tool), so the single bias and limits still describe it.",
+			signed(float64(a.TrendSlope)), pval(float64(a.TrendP)), rangeText, of))
 	}
 	if d := a.Deming; d != nil && d.Slope.Valid() {
 		a.ConstantBias = d.InterceptLow.Valid() && (float64(d.InterceptLow) > 0 || float64(d.InterceptHigh) < 0)

@@ -99,3 +99,39 @@ func TestErrorCorrectionClippedWords(t *testing.T) {
 		t.Errorf("assumptions %q", s.ErrorCorrection.Assumptions)
 	}
 }
+
+// The trend sentence needs p < alpha and a material change across the
+// observed range of the mean: a quarter of the acceptable difference, or
+// of the limits' width without one.
+func TestAgreementTrendMaterial(t *testing.T) {
+	t.Parallel()
+	f := func(v float64) report.Float { return report.Float(v) }
+	mk := func(acc, slope, p float64) *report.Study {
+		return &report.Study{X: report.Variable{Label: "a", Symbol: "HRC"}, Y: report.Variable{Label: "b", Symbol: "HRC"},
+			Agreement: &report.Agreement{N: 40, Acceptable: f(acc), Bias: f(0.2), BiasLow: f(0.1), BiasHigh: f(0.3),
+				Lower: f(-0.6), LowerLow: f(-0.8), LowerHigh: f(-0.45), Upper: f(1.0), UpperLow: f(0.85), UpperHigh: f(1.2),
+				TrendSlope: f(slope), TrendLow: f(slope / 2), TrendHigh: f(slope * 1.5), TrendP: f(p), MeanLow: f(40), MeanHigh: f(60)}}
+	}
+	for _, c := range []struct {
+		name          string
+		acc, slope, p float64
+		trend         bool
+		words         string
+	}{
+		// range 20: change 0.02·20 = 0.4 ≥ 1.5/4 = 0.375
+		{"material against acceptable", 1.5, 0.02, 0.01, true, "describe it poorly"},
+		// change 0.3 < 0.375
+		{"small against acceptable", 1.5, 0.015, 0.01, false, "still describe it"},
+		// no acceptable: quarter of the width 1.6 is 0.4; change 0.3
+		{"small against the limits' width", math.NaN(), 0.015, 0.01, false, "quarter of the width of the limits"},
+		{"material against the limits' width", math.NaN(), 0.025, 0.01, true, "describe it poorly"},
+		{"not significant", 1.5, 0.05, 0.2, false, ""},
+	} {
+		s := mk(c.acc, c.slope, c.p)
+		Measurement(s, 0.05)
+		all := strings.Join(s.Agreement.Statements, " ")
+		if s.Agreement.Trend != c.trend || (c.words != "" && !strings.Contains(all, c.words)) || (c.words == "" && strings.Contains(all, "magnitude")) {
+			t.Errorf("%s: trend %v, statements %q", c.name, s.Agreement.Trend, s.Agreement.Statements)
+		}
+	}
+}

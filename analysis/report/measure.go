@@ -35,6 +35,8 @@ type Agreement struct {
 	TrendLow   Float `json:"trend_low"`   // its interval (t, n − 2 df)
 	TrendHigh  Float `json:"trend_high"`
 	TrendP     Float `json:"trend_p"`
+	MeanLow    Float `json:"mean_low"`  // the observed range of the items' mean of the two methods,
+	MeanHigh   Float `json:"mean_high"` // over which the trend is judged material
 
 	Deming        *MethodLine     `json:"deming"`
 	PassingBablok *MethodLine     `json:"passing_bablok"`
@@ -45,7 +47,7 @@ type Agreement struct {
 	Verdict          AgreementVerdict `json:"verdict"`           // AgreeWithin, NotWithin, Undecided, or "" without an acceptable difference
 	ConstantBias     bool             `json:"constant_bias"`     // the Deming intercept's interval excludes 0
 	ProportionalBias bool             `json:"proportional_bias"` // the Deming slope's interval excludes 1
-	Trend            bool             `json:"trend"`             // the difference changes with the magnitude (trend_p below alpha)
+	Trend            bool             `json:"trend"`             // the difference changes with the magnitude: trend_p below alpha and the change over the range of the mean material (see findings)
 	Statements       []string         `json:"statements"`        // the verdicts in words, with their figures
 	Assumptions      []string         `json:"assumptions"`       // what the figures rest on
 

@@ -123,6 +123,10 @@ func agreement(xcols, ycols [][]float64, n int, st manifest.Study, unit string, 
 			a.MeanHigh = f(m)
 		}
 	}
+	// δ = var(error of y)/var(error of x). A declared (or assumed) δ is
+	// per single reading; the Deming line is fitted to the replicate
+	// means, whose error variances are σ²/m, so it becomes δ·m_x/m_y
+	// (DemingDeltaFromReplicates estimates the means' ratio directly).
 	delta, from := 1.0, "assumed 1"
 	switch {
 	case st.Agreement != nil && st.Agreement.Delta != nil:
@@ -131,6 +135,9 @@ func agreement(xcols, ycols [][]float64, n int, st manifest.Study, unit string, 
 		if d := stats.DemingDeltaFromReplicates(xcols, ycols); d > 0 && !math.IsInf(d, 0) {
 			delta, from = d, "replicates"
 		}
+	}
+	if from != "replicates" {
+		delta *= float64(len(xcols)) / float64(len(ycols))
 	}
 	dm := stats.Deming(xm, ym, delta, conf)
 	a.Deming = &report.MethodLine{Intercept: f(dm.Intercept), InterceptLow: f(dm.InterceptLo), InterceptHigh: f(dm.InterceptHi),

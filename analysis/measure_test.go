@@ -224,6 +224,32 @@ plan = { smallest_r = 0.3, r_half_width = 0.05 }
 	}
 }
 
+// A declared δ is per single reading; with m_x = 2 readings of x and
+// m_y = 1 of y the means' error variances are σ_x²/2 and σ_y², so the
+// Deming line of the means takes δ·2 (the ratio scipy.odr's weights would
+// be given; the Deming fit itself is checked against scipy.odr in
+// analysis/stats).
+func TestAgreementDeltaScaledToMeans(t *testing.T) {
+	t.Parallel()
+	r := pefrRun(t, agreementStudy("d", "x_replicates = [\"mini_2\"]\nagreement = { delta = 1.5 }")+
+		agreementStudy("a", "x_replicates = [\"mini_2\"]"))
+	col := pefrColumns(t)
+	xm := stats.RowMeans([][]float64{col["mini_1"], col["mini_2"]}, 17)
+	for _, c := range []struct {
+		id    string
+		delta float64
+	}{{"d", 3}, {"a", 2}} {
+		a := study(t, r, c.id).Agreement
+		want := stats.Deming(xm, col["wright_1"], c.delta, 0.95)
+		if float64(a.Deming.Delta) != c.delta || math.Abs(float64(a.Deming.Slope)-want.Slope) > 1e-12 {
+			t.Errorf("%s: δ %v slope %v; want δ %v slope %v", c.id, a.Deming.Delta, a.Deming.Slope, c.delta, want.Slope)
+		}
+		if !strings.Contains(strings.Join(a.Assumptions, " "), "per single reading, times 2/1") {
+			t.Errorf("%s: assumptions %q", c.id, a.Assumptions)
+		}
+	}
+}
+
 func TestAgreementPlan(t *testing.T) {
 	t.Parallel()
 	r := pefrRun(t, agreementStudy("dflt", "")+agreementStudy("decl", "plan = { limits_half_width = 15 }"))

@@ -145,7 +145,11 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 		"The intervals of the limits are exact for normal differences (quantiles of the noncentral t, as for a tolerance limit; Carkeet 2015), so they are asymmetric about each limit; the Deming intervals are jackknife intervals (Linnet).",
 	}
 	if d := a.Deming; d != nil {
-		a.Assumptions = append(a.Assumptions, fmt.Sprintf("The Deming line takes the ratio of the methods' error variances as %s (%s).", num(float64(d.Delta)), d.DeltaFrom))
+		note := d.DeltaFrom
+		if d.DeltaFrom != "replicates" && a.XReadings != a.YReadings {
+			note += fmt.Sprintf(" per single reading, times %d/%d for the means of %d and %d readings", a.XReadings, a.YReadings, a.XReadings, a.YReadings)
+		}
+		a.Assumptions = append(a.Assumptions, fmt.Sprintf("The Deming line of the items' mean readings takes the ratio of the methods' error variances (y over x) as %s (%s).", num(float64(d.Delta)), note))
 	}
 	if a.XReadings > 1 || a.YReadings > 1 {
 		a.Assumptions = append(a.Assumptions, "With replicates, the figures use each item's mean reading per method; the limits are those of single readings (Bland and Altman 1999, the SD corrected with the within-item variances), and their intervals treat that SD as one of n − 1 degrees of freedom, an approximation.")

@@ -283,7 +283,7 @@ func planStatements(p *report.Plan, s *report.Study) {
 			conf, corr(float64(p.RHalfWidthNow)), p.N, hw, need(p.NForR), corr(float64(s.Pearson.R))))
 	}
 	if p.SlopeHalfWidth.Valid() {
-		su := perUnit(symbol(s.Y), symbol(s.X), label(s.X))
+		su := planSlopeUnit(s)
 		if !strings.HasPrefix(su, "(") {
 			su = "(" + su + ")"
 		}
@@ -306,6 +306,24 @@ func planStatements(p *report.Plan, s *report.Study) {
 	}
 	st = append(st, detect+".")
 	p.Statements = st
+}
+
+// planSlopeUnit is the unit of the slope for the plan: y's unit per x's,
+// or on a transformed scale the scaled names, which carry no unit ("log
+// income per unit of log₁₀ size").
+func planSlopeUnit(s *report.Study) string {
+	if s.X.Scale == "" && s.Y.Scale == "" {
+		return perUnit(symbol(s.Y), symbol(s.X), label(s.X))
+	}
+	xu := unitOf(symbol(s.X), label(s.X))
+	if s.X.Scale != "" {
+		xu = "unit of " + scaledName(s.X.Scale, label(s.X))
+	}
+	yu := symbol(s.Y)
+	if s.Y.Scale != "" || yu == "" {
+		yu = scaledName(s.Y.Scale, label(s.Y))
+	}
+	return "(" + yu + " per " + xu + ")"
 }
 
 // planAgreementStatements words the plan of an agreement study: the items

@@ -135,3 +135,21 @@ func TestAgreementTrendMaterial(t *testing.T) {
 		}
 	}
 }
+
+// On a transformed scale the slope's plan names the scaled variables, not
+// the recorded units (the slope is of the transformed values).
+func TestPlanSlopeUnitScaled(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		xs, ys, want string
+	}{
+		{"log", "log", "(log income per unit of log size)"},
+		{"", "log10", "(log₁₀ income per kg)"},
+		{"sqrt", "", "(EUR per unit of √size)"},
+	} {
+		s := &report.Study{X: report.Variable{Label: "size", Symbol: "kg", Scale: c.xs}, Y: report.Variable{Label: "income", Symbol: "EUR", Scale: c.ys}}
+		if got := planSlopeUnit(s); got != c.want {
+			t.Errorf("x %q y %q: %q, want %q", c.xs, c.ys, got, c.want)
+		}
+	}
+}

@@ -8,8 +8,10 @@ package analysis
 
 import (
 	"cmp"
+	"fmt"
 	"math"
 	"slices"
+	"strconv"
 
 	"bivar/analysis/findings"
 	"bivar/analysis/manifest"
@@ -43,11 +45,24 @@ func measure(s *report.Study, st manifest.Study, in Input, cols map[string][]flo
 	if s.Kind == manifest.KindAgreement {
 		xcols, ycols, rows := readings(st, in, cols)
 		s.Agreement = agreement(xcols, ycols, rows, st, s.X.Unit, conf)
+		if pb := s.Agreement.PassingBablok; pb != nil && pb.Sampled {
+			s.Approximations = append(s.Approximations, passingBablokApproximation(rows, conf))
+		}
 	} else if st.GaugeSD != nil || len(st.XReplicates) > 0 || len(st.YReplicates) > 0 {
 		xcols, ycols, rows := readings(st, in, cols)
 		s.ErrorCorrection = errorCorrection(xcols, ycols, rows, st.GaugeSD, conf)
 	}
 	s.Plan = plan(s, st.Plan, cfg.Alpha)
+}
+
+// passingBablokApproximation states the sample of pairs behind a
+// Passing–Bablok line above stats.PassingBablokExactMax items, with its
+// error at this n (stats.PassingBablokSampleError).
+func passingBablokApproximation(n int, conf float64) report.Approximation {
+	return report.Approximation{Figure: "Passing–Bablok line", Rows: stats.PassingBablokSample, Of: n,
+		Method: "pairs of items (the count is of pairs) drawn from a random stream seeded by the items sorted by value, so the same items give the same sample in any order",
+		Error: fmt.Sprintf("the sampled ranks move the slope and the ends of its %s interval by about %s of the interval's half-width (1 SD; 1.5·√(n/M)/z with n = %d items and M = %d pairs, derived from the binomial error of a sample quantile and checked by resampling at 6000 items); the error grows as √n",
+			strconv.FormatFloat(100*conf, 'f', -1, 64)+"%", num(report.Float(stats.PassingBablokSampleError(n, conf))), n, stats.PassingBablokSample)}
 }
 
 // readings gathers the x and y readings of the rows that may be used and

@@ -83,3 +83,16 @@ func TestNoncentralTInverse(t *testing.T) {
 		t.Error("df < 1 or p = 1 should give NaN")
 	}
 }
+
+// BenchmarkNoncentralTQuantile: the cost of one limit's interval end at a
+// small and at a large n (the limits of agreement take four per study).
+func BenchmarkNoncentralTQuantile(b *testing.B) {
+	for _, df := range []float64{16, 1e7} {
+		b.Run(strconv.FormatFloat(df, 'g', -1, 64), func(b *testing.B) {
+			nc := 1.96 * math.Sqrt(df+1)
+			for b.Loop() {
+				NoncentralTQuantile(0.975, df, nc)
+			}
+		})
+	}
+}

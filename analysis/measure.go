@@ -8,8 +8,10 @@ package analysis
 
 import (
 	"cmp"
+	"fmt"
 	"math"
 	"slices"
+	"strconv"
 
 	"bivar/analysis/findings"
 	"bivar/analysis/manifest"
@@ -36,16 +38,31 @@ func measure(s *report.Study, st manifest.Study, in Input, cols map[string][]flo
 		return
 	}
 	conf := 1 - cfg.Alpha
+	// The readings are the recorded values: the manifest refuses x_scale
+	// and y_scale on an agreement study and with gauge_sd or replicates.
 	// The readings are gathered (a copy of x and y: 160 MB at 10⁷ rows)
 	// only for a study that uses them.
 	if s.Kind == manifest.KindAgreement {
 		xcols, ycols, rows := readings(st, in, cols)
 		s.Agreement = agreement(xcols, ycols, rows, st, s.X.Unit, conf)
+		if pb := s.Agreement.PassingBablok; pb != nil && pb.Sampled {
+			s.Approximations = append(s.Approximations, passingBablokApproximation(rows, conf))
+		}
 	} else if st.GaugeSD != nil || len(st.XReplicates) > 0 || len(st.YReplicates) > 0 {
 		xcols, ycols, rows := readings(st, in, cols)
 		s.ErrorCorrection = errorCorrection(xcols, ycols, rows, st.GaugeSD, conf)
 	}
 	s.Plan = plan(s, st.Plan, cfg.Alpha)
+}
+
+// passingBablokApproximation states the sample of pairs behind a
+// Passing–Bablok line above stats.PassingBablokExactMax items, with its
+// error at this n (stats.PassingBablokSampleError).
+func passingBablokApproximation(n int, conf float64) report.Approximation {
+	return report.Approximation{Figure: "Passing–Bablok line", Rows: stats.PassingBablokSample, Of: n,
+		Method: "pairs of items (the count is of pairs) drawn from a random stream seeded by the items sorted by value, so the same items give the same sample in any order",
+		Error: fmt.Sprintf("the sampled ranks move the slope and the ends of its %s interval by about %s of the interval's half-width (1 SD; 1.5·√(n/M)/z with n = %d items and M = %d pairs, derived from the binomial error of a sample quantile and checked by resampling at 6000 items); the error grows as √n",
+			strconv.FormatFloat(100*conf, 'f', -1, 64)+"%", num(report.Float(stats.PassingBablokSampleError(n, conf))), n, stats.PassingBablokSample)}
 }
 
 // readings gathers the x and y readings of the rows that may be used and
@@ -111,6 +128,20 @@ func agreement(xcols, ycols [][]float64, n int, st manifest.Study, unit string, 
 	}
 
 	xm, ym := stats.RowMeans(xcols, n), stats.RowMeans(ycols, n)
+	a.MeanLow, a.MeanHigh = report.NaN(), report.NaN()
+	for i := range xm {
+		m := (xm[i] + ym[i]) / 2
+		if i == 0 || m < float64(a.MeanLow) {
+			a.MeanLow = f(m)
+		}
+		if i == 0 || m > float64(a.MeanHigh) {
+			a.MeanHigh = f(m)
+		}
+	}
+	// δ = var(error of y)/var(error of x). A declared (or assumed) δ is
+	// per single reading; the Deming line is fitted to the replicate
+	// means, whose error variances are σ²/m, so it becomes δ·m_x/m_y
+	// (DemingDeltaFromReplicates estimates the means' ratio directly).
 	delta, from := 1.0, "assumed 1"
 	switch {
 	case st.Agreement != nil && st.Agreement.Delta != nil:
@@ -119,6 +150,9 @@ func agreement(xcols, ycols [][]float64, n int, st manifest.Study, unit string, 
 		if d := stats.DemingDeltaFromReplicates(xcols, ycols); d > 0 && !math.IsInf(d, 0) {
 			delta, from = d, "replicates"
 		}
+	}
+	if from != "replicates" {
+		delta *= float64(len(xcols)) / float64(len(ycols))
 	}
 	dm := stats.Deming(xm, ym, delta, conf)
 	a.Deming = &report.MethodLine{Intercept: f(dm.Intercept), InterceptLow: f(dm.InterceptLo), InterceptHigh: f(dm.InterceptHi),
@@ -196,25 +230,31 @@ func errorCorrection(xcols, ycols [][]float64, n int, g *manifest.GaugeSD, conf 
 	f := func(v float64) report.Float { return report.Float(v) }
 	return &report.ErrorCorrection{N: n, SDErrorX: f(sx), SDErrorY: f(sy), FromX: fx, FromY: fy,
 		ReliabilityX: f(c.ReliabilityX), ReliabilityY: f(c.ReliabilityY),
-		R: f(c.R), RCorrected: f(c.RCorrected), RCorrectedLow: f(c.RCorrectedLo), RCorrectedHigh: f(c.RCorrectedHi),
+		R: f(c.R), RCorrected: f(c.RCorrected), RCorrectedClipped: c.RClipped, RUnclipped: f(c.RUnclipped), RCorrectedLow: f(c.RCorrectedLo), RCorrectedHigh: f(c.RCorrectedHi),
 		Slope: f(c.Slope), SlopeCorrected: f(c.SlopeCorrected), SlopeCorrectedLow: f(c.SlopeCorrectedLo), SlopeCorrectedHigh: f(c.SlopeCorrectedHi)}
 }
 
 // plan says how many rows the next run needs (see report.Plan), from the
 // study's r, residual SD and SD of x, and the targets of [study.plan] or
 // their defaults (manifest.DefaultRHalfWidth, manifest.DefaultPower, half
-// the slope's present half-width).
+// the slope's present half-width). An agreement study plans only the
+// intervals of its limits of agreement (planAgreement).
 func plan(s *report.Study, pl *manifest.Plan, alpha float64) *report.Plan {
-	if s.Pearson == nil {
-		return nil
-	}
 	if pl == nil {
 		pl = &manifest.Plan{}
+	}
+	if s.Kind == manifest.KindAgreement {
+		return planAgreement(s, pl, alpha)
+	}
+	if s.Pearson == nil {
+		return nil
 	}
 	f := func(v float64) report.Float { return report.Float(v) }
 	conf := 1 - alpha
 	r := float64(s.Pearson.R)
-	p := &report.Plan{N: s.N, Alpha: f(alpha), RHalfWidthFrom: "default", SlopeHalfWidthFrom: "default", DetectRFrom: "observed"}
+	nan := report.Float(math.NaN())
+	p := &report.Plan{N: s.N, Alpha: f(alpha), RHalfWidthFrom: "default", SlopeHalfWidthFrom: "default", DetectRFrom: "observed",
+		LimitsHalfWidthNow: nan, LimitsHalfWidth: nan}
 	p.RHalfWidthNow = f(stats.FisherHalfWidth(r, s.N, conf))
 	p.RHalfWidth = manifest.DefaultRHalfWidth
 	if pl.RHalfWidth != nil {
@@ -245,7 +285,38 @@ func plan(s *report.Study, pl *manifest.Plan, alpha float64) *report.Plan {
 		p.Power = f(*pl.Power)
 	}
 	p.NForPower = stats.NForCorrelationPower(float64(p.DetectR), alpha, float64(p.Power))
-	p.PowerNow = f(stats.CorrelationPower(float64(p.DetectR), s.N, alpha))
+	// The power of this run at the observed r is a transform of its p
+	// ("observed power"): it is given only for a declared r.
+	p.PowerNow = nan
+	if p.DetectRFrom == "declared" {
+		p.PowerNow = f(stats.CorrelationPower(float64(p.DetectR), s.N, alpha))
+	}
+	return p
+}
+
+// planAgreement plans an agreement study: the items needed for the exact
+// intervals of the limits of agreement to reach plan.limits_half_width
+// (default half the present half-width, the project's choice as for the
+// slope) at the present SD of the differences (stats.NForLimitsHalfWidth).
+// The r, slope and power figures are NaN and 0: a test of ρ = 0 is
+// meaningless for two methods that measure the same thing.
+func planAgreement(s *report.Study, pl *manifest.Plan, alpha float64) *report.Plan {
+	a := s.Agreement
+	if a == nil {
+		return nil
+	}
+	f := func(v float64) report.Float { return report.Float(v) }
+	nan := f(math.NaN())
+	p := &report.Plan{N: a.N, Alpha: f(alpha), RHalfWidthNow: nan, RHalfWidth: nan, SlopeHalfWidthNow: nan, SlopeHalfWidth: nan,
+		DetectR: nan, Power: nan, PowerNow: nan, LimitsHalfWidthFrom: "default"}
+	conf := 1 - alpha
+	sd, k := float64(a.SD), float64(a.K)
+	now := stats.LimitsHalfWidth(sd, k, a.N, conf)
+	p.LimitsHalfWidthNow, p.LimitsHalfWidth = f(now), f(now/2)
+	if pl.LimitsHalfWidth != nil {
+		p.LimitsHalfWidth, p.LimitsHalfWidthFrom = f(*pl.LimitsHalfWidth), "declared"
+	}
+	p.NForLimits = stats.NForLimitsHalfWidth(sd, k, float64(p.LimitsHalfWidth), conf)
 	return p
 }
 

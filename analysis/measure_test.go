@@ -52,10 +52,10 @@ y = "wright_1"
 
 func TestAgreementPEFR(t *testing.T) {
 	t.Parallel()
-	r := pefrRun(t, agreementStudy("first", `agreement = { acceptable = 60 }
+	r := pefrRun(t, agreementStudy("first", `agreement = { acceptable = 40 }
 expect = { agree = true }`)+
 		agreementStudy("wide", "agreement = { acceptable = 100 }")+
-		agreementStudy("wider", "agreement = { acceptable = 2, unit = \"L/s\" }")+
+		agreementStudy("wider", "agreement = { acceptable = 2.5, unit = \"L/s\" }")+
 		agreementStudy("none", ""))
 	s := study(t, r, "first")
 	a := s.Agreement
@@ -93,8 +93,9 @@ expect = { agree = true }`)+
 	if a.Deming.DeltaFrom != "assumed 1" {
 		t.Errorf("delta from %q, want assumed 1 (no replicates)", a.Deming.DeltaFrom)
 	}
-	// Limits about −78 and +74 l/min: outside ±60, inside ±100 but with
-	// intervals (about ±35 wide) beyond it; ±2 L/s = ±120 L/min holds them all.
+	// Limits about −78 and +74 l/min, the lower one's interval −124 to −53:
+	// wholly outside ±40; inside ±100 but with
+	// intervals (exact, to −124 and +120) beyond it; ±2.5 L/s = ±150 L/min holds them all.
 	for _, c := range []struct {
 		id   string
 		want report.AgreementVerdict
@@ -107,8 +108,8 @@ expect = { agree = true }`)+
 				got.Lower, got.Upper, got.LowerLow, got.UpperHigh, got.Acceptable)
 		}
 	}
-	if acc := study(t, r, "wider").Agreement.Acceptable; math.Abs(float64(acc)-120) > 1e-9 {
-		t.Errorf("±2 L/s in L/min = %v, want 120", acc)
+	if acc := study(t, r, "wider").Agreement.Acceptable; math.Abs(float64(acc)-150) > 1e-9 {
+		t.Errorf("±2.5 L/s in L/min = %v, want 150", acc)
 	}
 	var agree *report.Expectation
 	for i := range s.Expectations {
@@ -212,6 +213,65 @@ plan = { smallest_r = 0.3, r_half_width = 0.05 }
 	}
 	if study(t, r, "reps").Plan.SlopeHalfWidth*2 != study(t, r, "reps").Plan.SlopeHalfWidthNow {
 		t.Error("default slope target is not half the present half-width")
+	}
+	// The power of this run is stated for the declared r only (at the
+	// observed r it is a transform of p).
+	if !p.PowerNow.Valid() || !strings.Contains(strings.Join(p.Statements, " "), "this run's 17 rows give power") {
+		t.Errorf("declared r: power now %v, statements %q", p.PowerNow, p.Statements)
+	}
+	if q := study(t, r, "reps").Plan; q.PowerNow.Valid() || strings.Contains(strings.Join(q.Statements, " "), "this run's") {
+		t.Errorf("observed r: power now %v, statements %q; want no observed power", q.PowerNow, q.Statements)
+	}
+}
+
+// A declared δ is per single reading; with m_x = 2 readings of x and
+// m_y = 1 of y the means' error variances are σ_x²/2 and σ_y², so the
+// Deming line of the means takes δ·2 (the ratio scipy.odr's weights would
+// be given; the Deming fit itself is checked against scipy.odr in
+// analysis/stats).
+func TestAgreementDeltaScaledToMeans(t *testing.T) {
+	t.Parallel()
+	r := pefrRun(t, agreementStudy("d", "x_replicates = [\"mini_2\"]\nagreement = { delta = 1.5 }")+
+		agreementStudy("a", "x_replicates = [\"mini_2\"]"))
+	col := pefrColumns(t)
+	xm := stats.RowMeans([][]float64{col["mini_1"], col["mini_2"]}, 17)
+	for _, c := range []struct {
+		id    string
+		delta float64
+	}{{"d", 3}, {"a", 2}} {
+		a := study(t, r, c.id).Agreement
+		want := stats.Deming(xm, col["wright_1"], c.delta, 0.95)
+		if float64(a.Deming.Delta) != c.delta || math.Abs(float64(a.Deming.Slope)-want.Slope) > 1e-12 {
+			t.Errorf("%s: δ %v slope %v; want δ %v slope %v", c.id, a.Deming.Delta, a.Deming.Slope, c.delta, want.Slope)
+		}
+		if !strings.Contains(strings.Join(a.Assumptions, " "), "per single reading, times 2/1") {
+			t.Errorf("%s: assumptions %q", c.id, a.Assumptions)
+		}
+	}
+}
+
+func TestAgreementPlan(t *testing.T) {
+	t.Parallel()
+	r := pefrRun(t, agreementStudy("dflt", "")+agreementStudy("decl", "plan = { limits_half_width = 15 }"))
+	d := study(t, r, "dflt")
+	p, a := d.Plan, d.Agreement
+	// The present half-width is that of the reported exact intervals.
+	if hw := float64(a.UpperHigh-a.UpperLow) / 2; math.Abs(float64(p.LimitsHalfWidthNow)-hw) > 1e-9*hw || p.LimitsHalfWidth*2 != p.LimitsHalfWidthNow {
+		t.Errorf("limits half-width now %v target %v; the interval's %v", p.LimitsHalfWidthNow, p.LimitsHalfWidth, hw)
+	}
+	if p.NForR != 0 || p.NForPower != 0 || p.PowerNow.Valid() || p.RHalfWidthNow.Valid() {
+		t.Errorf("agreement plan carries r or power figures: %+v", p)
+	}
+	all := strings.Join(p.Statements, " ")
+	if !strings.Contains(all, "intervals of the limits of agreement") || !strings.Contains(all, "ρ = 0") || strings.Contains(all, "power 0.8") {
+		t.Errorf("statements %q", p.Statements)
+	}
+	// Declared ±15 l/min at the SD of the first readings (38.76): scipy
+	// 1.10.1 stats.nct.ppf search gives n = 79 at SD 38.76, k 1.96 (see
+	// stats.TestLimitsHalfWidthScipy); here the wiring to that function.
+	q := study(t, r, "decl").Plan
+	if want := stats.NForLimitsHalfWidth(float64(a.SD), float64(a.K), 15, 0.95); q.NForLimits != want || q.LimitsHalfWidthFrom != "declared" || want < 70 || want > 90 {
+		t.Errorf("declared: n %d from %q, want %d", q.NForLimits, q.LimitsHalfWidthFrom, want)
 	}
 }
 

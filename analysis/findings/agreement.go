@@ -40,18 +40,19 @@ func Measurement(s *report.Study, alpha float64) {
 // report.AgreeWithin when both limits of agreement and their confidence
 // intervals lie inside (−acceptable, +acceptable) — the equivalence
 // statement that 95 % of the differences fall inside, made with the
-// uncertainty of the limits allowed for; report.NotWithin when a limit
-// itself lies outside; report.Undecided when the limits lie inside but the
-// interval of one reaches past ±acceptable (more items would decide); ""
-// when no acceptable difference is declared or a figure is undefined. A
-// limit exactly at ±acceptable counts as inside.
+// uncertainty of the limits allowed for; report.NotWithin only when the
+// interval of a limit lies wholly outside (its near end beyond
+// ±acceptable), so that the disagreement is as sure as an agreement would
+// have to be; report.Undecided otherwise — an interval reaches across
+// ±acceptable, or an interval is undefined (more items would narrow the
+// intervals); "" when no acceptable difference is declared or a limit is
+// undefined. An end exactly at ±acceptable counts as inside.
 func AgreementVerdict(a *report.Agreement) report.AgreementVerdict {
 	acc := float64(a.Acceptable)
-	lo, hi := float64(a.Lower), float64(a.Upper)
 	if !a.Acceptable.Valid() || !a.Lower.Valid() || !a.Upper.Valid() {
 		return ""
 	}
-	if lo < -acc || hi > acc {
+	if (a.UpperLow.Valid() && float64(a.UpperLow) > acc) || (a.LowerHigh.Valid() && float64(a.LowerHigh) < -acc) {
 		return report.NotWithin
 	}
 	if !a.LowerLow.Valid() || !a.UpperHigh.Valid() || float64(a.LowerLow) < -acc || float64(a.UpperHigh) > acc {
@@ -82,21 +83,36 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 		st = append(st, fmt.Sprintf("%s and %s agree within %s: 95%% of the differences are expected inside the %s, and the intervals of both limits lie inside %s too.",
 			capital(x), y, accText, limits, accText))
 	case report.NotWithin:
-		st = append(st, fmt.Sprintf("%s and %s do not agree within the acceptable %s: the %s reach beyond it.",
-			capital(x), y, accText, limits))
+		st = append(st, fmt.Sprintf("%s and %s do not agree within the acceptable %s: of the %s, the interval of %s lies wholly beyond it.",
+			capital(x), y, accText, limits, outsideLimit(a)))
 	case report.Undecided:
-		st = append(st, fmt.Sprintf("Agreement within %s is not shown: the %s lie inside it, but their intervals reach beyond it; more items would decide.",
-			accText, limits))
+		st = append(st, fmt.Sprintf("Agreement within %s is undecided: of the %s, an interval reaches across %s, so the data show the limits neither inside it nor outside it; more items would narrow the intervals.",
+			accText, limits, accText))
 	default:
 		st = append(st, fmt.Sprintf("The %s; no acceptable difference is declared (agreement.acceptable), so no verdict on agreement is given.", limits))
 	}
 	st = append(st, fmt.Sprintf("On average %s reads %s than %s (bias %s, %s interval %s to %s, n = %d).",
 		y, higherLower(float64(a.Bias), u), x, signed(float64(a.Bias)), conf, num(float64(a.BiasLow)), withUnit(float64(a.BiasHigh), u), a.N))
 
-	a.Trend = a.TrendP.Valid() && float64(a.TrendP) < alpha
-	if a.Trend {
-		st = append(st, fmt.Sprintf("The difference changes with the magnitude: it changes by %s per unit of the mean (%s interval %s to %s, %s), so a single bias and pair of limits describe it poorly.",
-			signed(float64(a.TrendSlope)), conf, num(float64(a.TrendLow)), num(float64(a.TrendHigh)), pval(float64(a.TrendP))))
+	// The trend must be significant and material: the change across the
+	// observed range of the mean at least a quarter of the acceptable
+	// difference, or of the limits' width without one (a choice of this
+	// tool).
+	change := math.Abs(float64(a.TrendSlope)) * (float64(a.MeanHigh) - float64(a.MeanLow))
+	material, of := (float64(a.Upper)-float64(a.Lower))/4, "the width of the limits of agreement"
+	if a.Acceptable.Valid() {
+		material, of = acc/4, "the acceptable difference "+withUnit(acc, u)
+	}
+	significant := a.TrendP.Valid() && float64(a.TrendP) < alpha
+	a.Trend = significant && change >= material
+	rangeText := fmt.Sprintf("%s across the observed range of the mean, %s to %s", withUnit(change, u), num(float64(a.MeanLow)), withUnit(float64(a.MeanHigh), u))
+	switch {
+	case a.Trend:
+		st = append(st, fmt.Sprintf("The difference changes with the magnitude: by %s per unit of the mean (%s interval %s to %s, %s), %s, at least a quarter of %s (the materiality rule is a choice of this tool), so a single bias and pair of limits describe it poorly.",
+			signed(float64(a.TrendSlope)), conf, num(float64(a.TrendLow)), num(float64(a.TrendHigh)), pval(float64(a.TrendP)), rangeText, of))
+	case significant && !math.IsNaN(change):
+		st = append(st, fmt.Sprintf("The difference changes slightly with the magnitude (%s per unit of the mean, %s), but only by %s, less than a quarter of %s (a choice of this tool), so the single bias and limits still describe it.",
+			signed(float64(a.TrendSlope)), pval(float64(a.TrendP)), rangeText, of))
 	}
 	if d := a.Deming; d != nil && d.Slope.Valid() {
 		a.ConstantBias = d.InterceptLow.Valid() && (float64(d.InterceptLow) > 0 || float64(d.InterceptHigh) < 0)
@@ -126,13 +142,33 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 	a.Statements = st
 	a.Assumptions = []string{
 		"The differences are y − x, on the same items; the limits (bias ± 1.96 SD) assume differences of roughly normal distribution with the same spread over the range of the mean (the regression of the difference on the mean checks the latter).",
-		"The intervals of the limits use the approximate standard error of Bland and Altman (1999); the Deming intervals are jackknife intervals (Linnet).",
+		"The intervals of the limits are exact for normal differences (quantiles of the noncentral t, as for a tolerance limit; Carkeet 2015), so they are asymmetric about each limit; the Deming intervals are jackknife intervals (Linnet).",
 	}
 	if d := a.Deming; d != nil {
-		a.Assumptions = append(a.Assumptions, fmt.Sprintf("The Deming line takes the ratio of the methods' error variances as %s (%s).", num(float64(d.Delta)), d.DeltaFrom))
+		note := d.DeltaFrom
+		if d.DeltaFrom != "replicates" && a.XReadings != a.YReadings {
+			note += fmt.Sprintf(" per single reading, times %d/%d for the means of %d and %d readings", a.XReadings, a.YReadings, a.XReadings, a.YReadings)
+		}
+		a.Assumptions = append(a.Assumptions, fmt.Sprintf("The Deming line of the items' mean readings takes the ratio of the methods' error variances (y over x) as %s (%s).", num(float64(d.Delta)), note))
 	}
 	if a.XReadings > 1 || a.YReadings > 1 {
-		a.Assumptions = append(a.Assumptions, "With replicates, the figures use each item's mean reading per method; the limits are those of single readings (Bland and Altman 1999, the SD corrected with the within-item variances).")
+		a.Assumptions = append(a.Assumptions, "With replicates, the figures use each item's mean reading per method; the limits are those of single readings (Bland and Altman 1999, the SD corrected with the within-item variances), and their intervals treat that SD as one of n − 1 degrees of freedom, an approximation.")
+	}
+}
+
+// outsideLimit names the limit whose interval lies wholly beyond
+// ±acceptable ("the upper limit", "the lower limit" or "both limits").
+func outsideLimit(a *report.Agreement) string {
+	acc := float64(a.Acceptable)
+	up := a.UpperLow.Valid() && float64(a.UpperLow) > acc
+	low := a.LowerHigh.Valid() && float64(a.LowerHigh) < -acc
+	switch {
+	case up && low:
+		return "each limit"
+	case up:
+		return "the upper limit"
+	default:
+		return "the lower limit"
 	}
 }
 
@@ -208,8 +244,9 @@ func errorStatements(e *report.ErrorCorrection, s *report.Study, alpha float64) 
 	} else {
 		st = append(st, "The slope needs no correction: x is taken as measured without error, and error in y does not bias the slope.")
 	}
-	if math.Abs(float64(e.RCorrected)) > 1 {
-		st = append(st, "The corrected r lies beyond ±1: the declared repeatability SDs are larger than these data allow, or the errors are not independent of the true values.")
+	if e.RCorrectedClipped {
+		st = append(st, fmt.Sprintf("The corrected r came out at %s, beyond ±1, and is reported as %s, the end of its interval: the declared repeatability SDs are larger than these data allow, or the errors are not independent of the true values.",
+			num(float64(e.RUnclipped)), corr(float64(e.RCorrected))))
 	}
 	if !e.RCorrected.Valid() {
 		st = append(st, "The corrected r is undefined: a declared repeatability SD is as large as the observed spread of its variable.")
@@ -217,7 +254,7 @@ func errorStatements(e *report.ErrorCorrection, s *report.Study, alpha float64) 
 	e.Statements = st
 	e.Assumptions = []string{
 		"Classical errors: each reading is the true value plus an error of constant SD, independent of the true value and of the other variable's error (Spearman's correction for attenuation; the regression-dilution correction divides the slope by x's reliability).",
-		"The repeatability SDs are taken as known: the intervals are the raw intervals divided by the same factors and do not include the uncertainty of the SDs, so they are too narrow when the SDs come from a small repeatability study.",
+		"The repeatability SDs are taken as known: r's interval is the raw Fisher-z interval divided by the same factor, and the corrected slope's interval uses Fuller's (1987) variance, which allows for x's measurement error; neither includes the uncertainty of the SDs themselves, so both are too narrow when the SDs come from a small repeatability study.",
 	}
 }
 
@@ -228,6 +265,10 @@ func planStatements(p *report.Plan, s *report.Study) {
 			return "an undefined number of rows"
 		}
 		return fmt.Sprintf("%d %s", n, plural(n, "row", "rows"))
+	}
+	if p.LimitsHalfWidthFrom != "" {
+		p.Statements = planAgreementStatements(p, s, conf, need)
+		return
 	}
 	var st []string
 	hw := "the target ±" + corr(float64(p.RHalfWidth))
@@ -242,7 +283,7 @@ func planStatements(p *report.Plan, s *report.Study) {
 			conf, corr(float64(p.RHalfWidthNow)), p.N, hw, need(p.NForR), corr(float64(s.Pearson.R))))
 	}
 	if p.SlopeHalfWidth.Valid() {
-		su := perUnit(symbol(s.Y), symbol(s.X), label(s.X))
+		su := planSlopeUnit(s)
 		if !strings.HasPrefix(su, "(") {
 			su = "(" + su + ")"
 		}
@@ -257,9 +298,48 @@ func planStatements(p *report.Plan, s *report.Study) {
 	if p.DetectRFrom == "declared" {
 		what = "|r| = " + corr(float64(p.DetectR)) + " (plan.smallest_r)"
 	}
-	st = append(st, fmt.Sprintf("To detect %s with power %s by the two-sided test at alpha %s (Fisher z), a run needs %s; this run's %d rows give power %s.",
-		what, num(float64(p.Power)), num(float64(p.Alpha)), need(p.NForPower), p.N, corr(float64(p.PowerNow))))
+	detect := fmt.Sprintf("To detect %s with power %s by the two-sided test at alpha %s (Fisher z), a run needs %s",
+		what, num(float64(p.Power)), num(float64(p.Alpha)), need(p.NForPower))
+	if p.PowerNow.Valid() {
+		// Only for a declared r: at the observed r it would restate p.
+		detect += fmt.Sprintf("; this run's %d rows give power %s", p.N, corr(float64(p.PowerNow)))
+	}
+	st = append(st, detect+".")
 	p.Statements = st
+}
+
+// planSlopeUnit is the unit of the slope for the plan: y's unit per x's,
+// or on a transformed scale the scaled names, which carry no unit ("log
+// income per unit of log₁₀ size").
+func planSlopeUnit(s *report.Study) string {
+	if s.X.Scale == "" && s.Y.Scale == "" {
+		return perUnit(symbol(s.Y), symbol(s.X), label(s.X))
+	}
+	xu := unitOf(symbol(s.X), label(s.X))
+	if s.X.Scale != "" {
+		xu = "unit of " + scaledName(s.X.Scale, label(s.X))
+	}
+	yu := symbol(s.Y)
+	if s.Y.Scale != "" || yu == "" {
+		yu = scaledName(s.Y.Scale, label(s.Y))
+	}
+	return "(" + yu + " per " + xu + ")"
+}
+
+// planAgreementStatements words the plan of an agreement study: the items
+// for the limits' intervals to reach the target, and why r and power are
+// not planned.
+func planAgreementStatements(p *report.Plan, s *report.Study, conf string, need func(int) string) []string {
+	u := symbol(s.X)
+	tgt := "±" + withUnit(float64(p.LimitsHalfWidth), u)
+	if p.LimitsHalfWidthFrom == "default" {
+		tgt += " (half the present; set plan.limits_half_width)"
+	}
+	return []string{
+		fmt.Sprintf("For the %s intervals of the limits of agreement to narrow from about ±%s (n = %d) to %s, the next run needs %s, if the SD of the differences stays near %s (exact intervals, noncentral t).",
+			conf, withUnit(float64(p.LimitsHalfWidthNow), u), p.N, tgt, strings.Replace(need(p.NForLimits), "row", "item", 1), withUnit(float64(s.Agreement.SD), u)),
+		"No plan for r or for the power to detect a correlation is given: two methods measuring the same items are correlated by design, so a test of ρ = 0 says nothing about their agreement (plan.r_half_width, plan.slope_half_width, plan.smallest_r and plan.power are not used here).",
+	}
 }
 
 // AgreeExpectation evaluates expect.agree on the finished study: want =

@@ -14,24 +14,30 @@ import (
 func TestAgreementVerdictRules(t *testing.T) {
 	t.Parallel()
 	nan := math.NaN()
-	mk := func(acc, lower, lowerLow, upper, upperHigh float64) *report.Agreement {
-		return &report.Agreement{Acceptable: report.Float(acc), Lower: report.Float(lower), LowerLow: report.Float(lowerLow),
-			Upper: report.Float(upper), UpperHigh: report.Float(upperHigh)}
+	// mk takes each limit with its interval low, limit, high.
+	mk := func(acc, lowerLow, lower, lowerHigh, upperLow, upper, upperHigh float64) *report.Agreement {
+		return &report.Agreement{Acceptable: report.Float(acc),
+			LowerLow: report.Float(lowerLow), Lower: report.Float(lower), LowerHigh: report.Float(lowerHigh),
+			UpperLow: report.Float(upperLow), Upper: report.Float(upper), UpperHigh: report.Float(upperHigh)}
 	}
 	for _, tc := range []struct {
 		name string
 		a    *report.Agreement
 		want report.AgreementVerdict
 	}{
-		{"all inside", mk(2, -1, -1.5, 1, 1.5), report.AgreeWithin},
-		{"interval ends exactly at the bounds count as inside", mk(2, -1, -2, 1, 2), report.AgreeWithin},
-		{"upper interval reaches past", mk(2, -1, -1.5, 1.8, 2.1), report.Undecided},
-		{"lower interval reaches past", mk(2, -1.9, -2.2, 1, 1.5), report.Undecided},
-		{"upper limit outside", mk(2, -1, -1.5, 2.1, 2.5), report.NotWithin},
-		{"lower limit outside", mk(2, -2.01, -2.5, 1, 1.5), report.NotWithin},
-		{"no acceptable difference", mk(nan, -1, -1.5, 1, 1.5), ""},
-		{"undefined limits", mk(2, nan, nan, nan, nan), ""},
-		{"undefined intervals", mk(2, -1, nan, 1, nan), report.Undecided},
+		{"all inside", mk(2, -1.5, -1, -0.5, 0.5, 1, 1.5), report.AgreeWithin},
+		{"interval ends exactly at the bounds count as inside", mk(2, -2, -1, -0.5, 0.5, 1, 2), report.AgreeWithin},
+		{"upper interval reaches past", mk(2, -1.5, -1, -0.5, 1.5, 1.8, 2.1), report.Undecided},
+		{"lower interval reaches past", mk(2, -2.2, -1.9, -1.6, 0.5, 1, 1.5), report.Undecided},
+		{"upper limit outside, its interval reaching back inside", mk(2, -1.5, -1, -0.5, 1.7, 2.1, 2.5), report.Undecided},
+		{"lower limit outside, its interval reaching back inside", mk(2, -2.5, -2.01, -1.9, 0.5, 1, 1.5), report.Undecided},
+		{"upper interval wholly outside", mk(2, -1.5, -1, -0.5, 2.01, 2.3, 2.6), report.NotWithin},
+		{"lower interval wholly outside", mk(2, -3, -2.5, -2.01, 0.5, 1, 1.5), report.NotWithin},
+		{"an interval ending exactly at the bound is not wholly outside", mk(2, -1.5, -1, -0.5, 2, 2.3, 2.6), report.Undecided},
+		{"no acceptable difference", mk(nan, -1.5, -1, -0.5, 0.5, 1, 1.5), ""},
+		{"undefined limits", mk(2, nan, nan, nan, nan, nan, nan), ""},
+		{"undefined intervals", mk(2, nan, -1, nan, nan, 1, nan), report.Undecided},
+		{"undefined intervals, limit outside", mk(2, nan, -1, nan, nan, 2.5, nan), report.Undecided},
 	} {
 		if got := AgreementVerdict(tc.a); got != tc.want {
 			t.Errorf("%s: AgreementVerdict = %q, want %q", tc.name, got, tc.want)
@@ -72,5 +78,78 @@ func TestAgreementWords(t *testing.T) {
 	}
 	if e := AgreeExpectation(s, false); !e.OK {
 		t.Errorf("expect.agree = false on an undecided study: %+v", e)
+	}
+}
+
+// A corrected r clipped to 1 is said to be, with the value before
+// clipping, and the assumptions name Fuller's variance for the slope.
+func TestErrorCorrectionClippedWords(t *testing.T) {
+	t.Parallel()
+	f := func(v float64) report.Float { return report.Float(v) }
+	s := &report.Study{X: report.Variable{Label: "x"}, Y: report.Variable{Label: "y"},
+		ErrorCorrection: &report.ErrorCorrection{N: 20, SDErrorX: f(1), SDErrorY: f(1), FromX: "declared", FromY: "declared",
+			ReliabilityX: f(0.5), ReliabilityY: f(0.6), R: f(0.9), RCorrected: f(1), RCorrectedClipped: true, RUnclipped: f(1.162),
+			RCorrectedLow: f(0.95), RCorrectedHigh: f(1), Slope: f(0.5), SlopeCorrected: f(1), SlopeCorrectedLow: f(0.6), SlopeCorrectedHigh: f(1.4)}}
+	Measurement(s, 0.05)
+	all := strings.Join(s.ErrorCorrection.Statements, " ")
+	if !strings.Contains(all, "came out at 1.16, beyond ±1, and is reported as 1") {
+		t.Errorf("statements %q", s.ErrorCorrection.Statements)
+	}
+	if !strings.Contains(strings.Join(s.ErrorCorrection.Assumptions, " "), "Fuller's (1987) variance") {
+		t.Errorf("assumptions %q", s.ErrorCorrection.Assumptions)
+	}
+}
+
+// The trend sentence needs p < alpha and a material change across the
+// observed range of the mean: a quarter of the acceptable difference, or
+// of the limits' width without one.
+func TestAgreementTrendMaterial(t *testing.T) {
+	t.Parallel()
+	f := func(v float64) report.Float { return report.Float(v) }
+	mk := func(acc, slope, p float64) *report.Study {
+		return &report.Study{X: report.Variable{Label: "a", Symbol: "HRC"}, Y: report.Variable{Label: "b", Symbol: "HRC"},
+			Agreement: &report.Agreement{N: 40, Acceptable: f(acc), Bias: f(0.2), BiasLow: f(0.1), BiasHigh: f(0.3),
+				Lower: f(-0.6), LowerLow: f(-0.8), LowerHigh: f(-0.45), Upper: f(1.0), UpperLow: f(0.85), UpperHigh: f(1.2),
+				TrendSlope: f(slope), TrendLow: f(slope / 2), TrendHigh: f(slope * 1.5), TrendP: f(p), MeanLow: f(40), MeanHigh: f(60)}}
+	}
+	for _, c := range []struct {
+		name          string
+		acc, slope, p float64
+		trend         bool
+		words         string
+	}{
+		// range 20: change 0.02·20 = 0.4 ≥ 1.5/4 = 0.375
+		{"material against acceptable", 1.5, 0.02, 0.01, true, "describe it poorly"},
+		// change 0.3 < 0.375
+		{"small against acceptable", 1.5, 0.015, 0.01, false, "still describe it"},
+		// no acceptable: quarter of the width 1.6 is 0.4; change 0.3
+		{"small against the limits' width", math.NaN(), 0.015, 0.01, false, "quarter of the width of the limits"},
+		{"material against the limits' width", math.NaN(), 0.025, 0.01, true, "describe it poorly"},
+		{"not significant", 1.5, 0.05, 0.2, false, ""},
+	} {
+		s := mk(c.acc, c.slope, c.p)
+		Measurement(s, 0.05)
+		all := strings.Join(s.Agreement.Statements, " ")
+		if s.Agreement.Trend != c.trend || (c.words != "" && !strings.Contains(all, c.words)) || (c.words == "" && strings.Contains(all, "magnitude")) {
+			t.Errorf("%s: trend %v, statements %q", c.name, s.Agreement.Trend, s.Agreement.Statements)
+		}
+	}
+}
+
+// On a transformed scale the slope's plan names the scaled variables, not
+// the recorded units (the slope is of the transformed values).
+func TestPlanSlopeUnitScaled(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		xs, ys, want string
+	}{
+		{"log", "log", "(log income per unit of log size)"},
+		{"", "log10", "(log₁₀ income per kg)"},
+		{"sqrt", "", "(EUR per unit of √size)"},
+	} {
+		s := &report.Study{X: report.Variable{Label: "size", Symbol: "kg", Scale: c.xs}, Y: report.Variable{Label: "income", Symbol: "EUR", Scale: c.ys}}
+		if got := planSlopeUnit(s); got != c.want {
+			t.Errorf("x %q y %q: %q, want %q", c.xs, c.ys, got, c.want)
+		}
 	}
 }

@@ -6,6 +6,7 @@ package manifest
 // validation.
 
 import (
+	"fmt"
 	"math"
 	"slices"
 	"strconv"
@@ -58,6 +59,10 @@ type Plan struct {
 	SlopeHalfWidth *float64 `toml:"slope_half_width"` // half-width wanted for the slope's interval, in y's unit per x's unit
 	SmallestR      *float64 `toml:"smallest_r"`       // smallest |r| worth detecting; default the observed r
 	Power          *float64 `toml:"power"`            // chance of detecting it
+	// LimitsHalfWidth (agreement studies) is the half-width wanted for the
+	// intervals of the limits of agreement, in the columns' unit; default
+	// half the present one.
+	LimitsHalfWidth *float64 `toml:"limits_half_width"`
 }
 
 // Planning defaults (study.plan). DefaultRHalfWidth is common practice for
@@ -173,6 +178,31 @@ func (p *parser) measure(owner, name string, s *Study, d Dataset) {
 		}
 	}
 
+	// The measurement parts work on the recorded values: a gauge SD or a
+	// replicates' within-item SD in the recorded unit says nothing of the
+	// spread on a log or root scale (it would depend on the level), and
+	// agreement is about differences in the recorded unit.
+	for _, sc := range []struct{ axis, scale string }{{"x", s.XScale}, {"y", s.YScale}} {
+		if !Scaled(sc.scale) {
+			continue
+		}
+		var uses []string
+		if agree {
+			uses = append(uses, fmt.Sprintf("kind = %q", KindAgreement))
+		}
+		if s.GaugeSD != nil {
+			uses = append(uses, "gauge_sd")
+		}
+		if len(s.XReplicates) > 0 || len(s.YReplicates) > 0 {
+			uses = append(uses, "replicate columns (x_replicates, y_replicates)")
+		}
+		if len(uses) > 0 {
+			p.add(owner, "study."+sc.axis+"_scale", "study %q: %s_scale = %q cannot be used with %s: agreement and the correction for measurement error work on the recorded values (a gauge SD or a within-item SD in the recorded unit does not carry over to a transformed scale, where the spread depends on the level); remove %s_scale, or make a separate relationship study for the transformed scale",
+				name, sc.axis, sc.scale, strings.Join(uses, " and "), sc.axis)
+			break
+		}
+	}
+
 	if pl := s.Plan; pl != nil {
 		frac := func(key string, v *float64, what string) {
 			if v != nil && !(*v > 0 && *v < 1) {
@@ -184,6 +214,14 @@ func (p *parser) measure(owner, name string, s *Study, d Dataset) {
 		frac("power", pl.Power, "give the chance of detecting it, such as 0.8")
 		if v := pl.SlopeHalfWidth; v != nil && !(*v > 0 && !math.IsInf(*v, 0)) {
 			p.add(owner, "study.plan.slope_half_width", "study %q: plan.slope_half_width = %v must be a positive number, in y's unit per x's unit", name, *v)
+		}
+		if v := pl.LimitsHalfWidth; v != nil {
+			switch {
+			case !agree:
+				p.add(owner, "study.plan.limits_half_width", "study %q: plan.limits_half_width applies to agreement studies only (the intervals of the limits of agreement): add kind = %q, or remove the key", name, KindAgreement)
+			case !(*v > 0 && !math.IsInf(*v, 0)):
+				p.add(owner, "study.plan.limits_half_width", "study %q: plan.limits_half_width = %v must be a positive number, in the columns' unit", name, *v)
+			}
 		}
 	}
 }

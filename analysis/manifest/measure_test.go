@@ -116,3 +116,38 @@ func TestAcceptableIn(t *testing.T) {
 		t.Errorf("AcceptableIn(Cel) = %v, %v; want 2, true", got, ok)
 	}
 }
+
+func TestScaleWithMeasurementRefused(t *testing.T) {
+	t.Parallel()
+	src := gaugeHead + `
+[[study]]
+id = "ab"
+dataset = "g"
+kind = "agreement"
+x = "b1"
+y = "c"
+y_scale = "log"
+`
+	_, err := parse(t, src)
+	if err == nil {
+		t.Fatal("an agreement study on a log scale was accepted")
+	}
+	want := `bivar.toml:12:1: study "ab": y_scale = "log" cannot be used with kind = "agreement": agreement and the correction for measurement error work on the recorded values (a gauge SD or a within-item SD in the recorded unit does not carry over to a transformed scale, where the spread depends on the level); remove y_scale, or make a separate relationship study for the transformed scale`
+	if got := err.Error(); got != want {
+		t.Errorf("error:\n got %s\nwant %s", got, want)
+	}
+	for _, c := range []struct{ name, keys, want string }{
+		{"gauge_sd", "gauge_sd = { x = 0.5 }\nx_scale = \"sqrt\"", `x_scale = "sqrt" cannot be used with gauge_sd:`},
+		{"replicates", "x_replicates = [\"a2\"]\nx_scale = \"log10\"", `x_scale = "log10" cannot be used with replicate columns (x_replicates, y_replicates):`},
+	} {
+		src := gaugeHead + "\n[[study]]\nid = \"r\"\ndataset = \"g\"\nx = \"a1\"\ny = \"b1\"\n" + c.keys + "\n"
+		_, err := parse(t, src)
+		if err == nil || !strings.Contains(err.Error(), c.want) || !strings.Contains(err.Error(), "bivar.toml:12:1:") {
+			t.Errorf("%s: error %v, want bivar.toml:12:1: … %s", c.name, err, c.want)
+		}
+	}
+	// A scale alone on a relationship study stays allowed.
+	if _, err := parse(t, gaugeHead+"\n[[study]]\nid = \"r\"\ndataset = \"g\"\nx = \"a1\"\ny = \"b1\"\nx_scale = \"log\"\n"); err != nil {
+		t.Errorf("a scaled relationship study was refused: %v", err)
+	}
+}

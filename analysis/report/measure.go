@@ -35,6 +35,8 @@ type Agreement struct {
 	TrendLow   Float `json:"trend_low"`   // its interval (t, n − 2 df)
 	TrendHigh  Float `json:"trend_high"`
 	TrendP     Float `json:"trend_p"`
+	MeanLow    Float `json:"mean_low"`  // the observed range of the items' mean of the two methods,
+	MeanHigh   Float `json:"mean_high"` // over which the trend is judged material
 
 	Deming        *MethodLine     `json:"deming"`
 	PassingBablok *MethodLine     `json:"passing_bablok"`
@@ -45,7 +47,7 @@ type Agreement struct {
 	Verdict          AgreementVerdict `json:"verdict"`           // AgreeWithin, NotWithin, Undecided, or "" without an acceptable difference
 	ConstantBias     bool             `json:"constant_bias"`     // the Deming intercept's interval excludes 0
 	ProportionalBias bool             `json:"proportional_bias"` // the Deming slope's interval excludes 1
-	Trend            bool             `json:"trend"`             // the difference changes with the magnitude (trend_p below alpha)
+	Trend            bool             `json:"trend"`             // the difference changes with the magnitude: trend_p below alpha and the change over the range of the mean material (see findings)
 	Statements       []string         `json:"statements"`        // the verdicts in words, with their figures
 	Assumptions      []string         `json:"assumptions"`       // what the figures rest on
 
@@ -60,8 +62,8 @@ type AgreementVerdict string
 // The agreement verdicts (Agreement.Verdict).
 const (
 	AgreeWithin AgreementVerdict = "agree"     // both limits, with their intervals, inside ±acceptable
-	NotWithin   AgreementVerdict = "disagree"  // a limit itself lies outside ±acceptable
-	Undecided   AgreementVerdict = "undecided" // the limits lie inside but an interval reaches past ±acceptable
+	NotWithin   AgreementVerdict = "disagree"  // a limit's interval lies wholly outside ±acceptable
+	Undecided   AgreementVerdict = "undecided" // neither: an interval reaches across ±acceptable (or is undefined)
 )
 
 // MethodLine is a line y = Intercept + Slope·x fitted to two methods.
@@ -128,7 +130,9 @@ type ErrorCorrection struct {
 	ReliabilityY Float  `json:"reliability_y"`
 
 	R                  Float `json:"r"`
-	RCorrected         Float `json:"r_corrected"`
+	RCorrected         Float `json:"r_corrected"` // clipped to ±1 (see RCorrectedClipped)
+	RCorrectedClipped  bool  `json:"r_corrected_clipped"`
+	RUnclipped         Float `json:"r_corrected_unclipped"` // r/√(rel_x·rel_y) before clipping
 	RCorrectedLow      Float `json:"r_corrected_low"`
 	RCorrectedHigh     Float `json:"r_corrected_high"`
 	Slope              Float `json:"slope"`
@@ -160,7 +164,15 @@ type Plan struct {
 	DetectRFrom string `json:"detect_r_from"` // "declared" or "observed"
 	Power       Float  `json:"power"`
 	NForPower   int    `json:"n_for_power"`
-	PowerNow    Float  `json:"power_now"` // power of this run's n to detect DetectR
+	PowerNow    Float  `json:"power_now"` // power of this run's n to detect DetectR; NaN unless DetectR is declared (at the observed r it is only a transform of p)
+
+	// Agreement studies plan the limits of agreement instead (the r, slope
+	// and power figures above are then NaN and 0: a test of ρ = 0 says
+	// nothing about agreement).
+	LimitsHalfWidthNow  Float  `json:"limits_half_width_now"`  // half-width of the limits' exact intervals now
+	LimitsHalfWidth     Float  `json:"limits_half_width"`      // the target, in the columns' unit
+	LimitsHalfWidthFrom string `json:"limits_half_width_from"` // "declared" or "default" (half the present); "" outside agreement studies
+	NForLimits          int    `json:"n_for_limits"`           // items for the target, at the present SD of the differences
 
 	Statements []string `json:"statements"`
 }

@@ -88,10 +88,11 @@ func TestBlandAltmanPEFRPrinted(t *testing.T) {
 	if math.Abs(la.Lower-(-79.7)) > 0.15 || math.Abs(la.Upper-75.5) > 0.15 {
 		t.Errorf("limits = %.3f, %.3f; printed −79.7, 75.5 (±0.15 for the rounding)", la.Lower, la.Upper)
 	}
-	// 1986 paper: the SE of a limit is about √(3s²/n); the 1999 form at k = 2
-	// is within a few percent of it for n = 17.
-	if approx := math.Sqrt(3 * la.SD * la.SD / 17); math.Abs(la.LimitSE/approx-1) > 0.03 {
-		t.Errorf("LimitSE = %.3f, √(3s²/n) = %.3f", la.LimitSE, approx)
+	// The exact intervals are wider than the 1986 paper's approximate
+	// limit ± t·√(3s²/n) at n = 17, and lie further out (asymmetric).
+	approx := TQuantile(0.975, 16) * math.Sqrt(3*la.SD*la.SD/17)
+	if !(la.UpperHi > la.Upper+approx && la.UpperHi-la.UpperLo > 2*approx && la.LowerLo < la.Lower-approx) {
+		t.Errorf("upper interval %.2f to %.2f, lower from %.2f; approximate ±%.2f about %.2f and %.2f", la.UpperLo, la.UpperHi, la.LowerLo, approx, la.Upper, la.Lower)
 	}
 }
 
@@ -113,8 +114,10 @@ func TestBlandAltmanScipy(t *testing.T) {
 		agrCheck(t, tc.key+" bias_hi", la.BiasHi, w["bias_hi"], 1e-10)
 		agrCheck(t, tc.key+" lower", la.Lower, w["lower"], tol)
 		agrCheck(t, tc.key+" upper", la.Upper, w["upper"], tol)
-		agrCheck(t, tc.key+" limit_se", la.LimitSE, w["limit_se"], tol)
+		// scipy.stats.nct.ppf(q, 16, k·√17) (Carkeet 2015; agreement_reference.py)
 		agrCheck(t, tc.key+" lower_lo", la.LowerLo, w["lower_lo"], 1e-10)
+		agrCheck(t, tc.key+" lower_hi", la.LowerHi, w["lower_hi"], 1e-10)
+		agrCheck(t, tc.key+" upper_lo", la.UpperLo, w["upper_lo"], 1e-10)
 		agrCheck(t, tc.key+" upper_hi", la.UpperHi, w["upper_hi"], 1e-10)
 		// scipy.stats.linregress(m, d)
 		agrCheck(t, tc.key+" trend_slope", la.TrendSlope, w["trend_slope"], 1e-10)
@@ -155,6 +158,9 @@ func TestBlandAltmanReplicatesScipy(t *testing.T) {
 	agrCheck(t, "sd_means", la.SDMeans, w["sd_means"], 1e-12)
 	agrCheck(t, "sd", la.SD, w["sd"], 1e-12)
 	agrCheck(t, "lower", la.Lower, w["bias"]-1.96*w["sd"], 1e-12)
+	// scipy.stats.nct.ppf(q, 16, 1.96·√17) with the corrected SD
+	agrCheck(t, "lower_lo", la.LowerLo, w["lower_lo"], 1e-10)
+	agrCheck(t, "upper_hi", la.UpperHi, w["upper_hi"], 1e-10)
 	// One replicate per method is the single-measurement method.
 	one := BlandAltmanReplicates([][]float64{d["wright_1"]}, [][]float64{d["mini_1"]}, 1.96, 0.95)
 	plain := BlandAltman(d["wright_1"], d["mini_1"], 1.96, 0.95)

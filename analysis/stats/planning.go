@@ -135,3 +135,45 @@ func planSearch(lo int, ok func(int) bool) int {
 	}
 	return hi
 }
+
+// LimitsHalfWidth returns the half-width (hi − lo)/2 of the exact interval
+// of a limit of agreement d̄ ± k·s at n items (see BlandAltman: the
+// interval ends are d̄ + s·t′_q/√n with t′_q the q-quantiles, q =
+// (1 ∓ conf)/2, of the noncentral t with n − 1 df and noncentrality
+// k·√n), s·(t′_{(1+conf)/2} − t′_{(1−conf)/2})/(2√n). It does not depend on
+// d̄, and is the same for either limit. NaN for n < 2, sd not positive and
+// finite, k not positive or conf outside (0, 1).
+func LimitsHalfWidth(sd, k float64, n int, conf float64) float64 {
+	if n < 2 || !(sd > 0) || math.IsInf(sd, 0) || !(k > 0) || math.IsInf(k, 0) || !(conf > 0 && conf < 1) {
+		return math.NaN()
+	}
+	fn := float64(n)
+	nc := k * math.Sqrt(fn)
+	lo := NoncentralTQuantile(0.5-conf/2, fn-1, nc)
+	hi := NoncentralTQuantile(0.5+conf/2, fn-1, nc)
+	return sd * (hi - lo) / (2 * math.Sqrt(fn))
+}
+
+// NForLimitsHalfWidth returns the smallest n ≥ 2 at which the exact
+// interval of a limit of agreement (LimitsHalfWidth) has a half-width of
+// at most halfWidth, if the next run's differences have the SD sd. The
+// half-width falls monotonically with n, so the search (planSearch) finds
+// the exact smallest n; it starts from below the large-n answer
+// z²·(sd/halfWidth)²·(1 + k²/2), the approximate standard error of Bland
+// & Altman (1999), sd·√(1/n + k²/(2(n−1))), solved for n, when that is
+// above 100 (the exact interval is the wider, so the exact n is not
+// smaller; the start is checked). It returns 0 when an input is not
+// positive and finite, conf lies outside (0, 1), or n would exceed 2⁴⁰.
+func NForLimitsHalfWidth(sd, k, halfWidth, conf float64) int {
+	if !(sd > 0) || math.IsInf(sd, 0) || !(k > 0) || math.IsInf(k, 0) || !(halfWidth > 0) || !(conf > 0 && conf < 1) {
+		return 0
+	}
+	ok := func(n int) bool { return LimitsHalfWidth(sd, k, n, conf) <= halfWidth }
+	z := NormalQuantile(0.5+conf/2) * sd / halfWidth
+	if approx := z * z * (1 + k*k/2); approx > 100 && approx < planMaxN {
+		if start := int(0.9 * approx); !ok(start) {
+			return planSearch(start, ok)
+		}
+	}
+	return planSearch(2, ok)
+}

@@ -179,3 +179,43 @@ func BenchmarkPlanning(b *testing.B) {
 		}
 	})
 }
+
+// The half-width of the limits' exact interval and the n that brings it to
+// a target, against scipy 1.10.1: hw = sd·(stats.nct.ppf((1+c)/2, n−1,
+// k·√n) − stats.nct.ppf((1−c)/2, n−1, k·√n))/(2√n), and the n found by
+// stepping n = 2, 3, … until hw ≤ target (a loop in Python over the same
+// calls; values printed with repr).
+func TestLimitsHalfWidthScipy(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		sd, k float64
+		n     int
+		conf  float64
+		want  float64
+	}{
+		{38.76, 1.96, 17, 0.95, 35.528681088875324},
+		{1, 1.96, 2, 0.95, 31.018081956576918},
+		{2.5, 2, 100, 0.9, 0.7236780419478217},
+		{1, 1.96, 5000, 0.95, 0.047388955036395716},
+	} {
+		if got := LimitsHalfWidth(c.sd, c.k, c.n, c.conf); math.Abs(got/c.want-1) > 1e-10 {
+			t.Errorf("LimitsHalfWidth(%v, %v, %d, %v) = %.15g, scipy %.15g", c.sd, c.k, c.n, c.conf, got, c.want)
+		}
+	}
+	for _, c := range []struct {
+		sd, k, hw, conf float64
+		want            int
+	}{
+		{38.76, 1.96, 15, 0.95, 79},
+		{1, 1.96, 0.5, 0.95, 49},
+		{1, 1.96, 0.1, 0.95, 1126},
+		{2.5, 2, 1, 0.9, 54},
+	} {
+		if got := NForLimitsHalfWidth(c.sd, c.k, c.hw, c.conf); got != c.want {
+			t.Errorf("NForLimitsHalfWidth(%v, %v, %v, %v) = %d, scipy search %d", c.sd, c.k, c.hw, c.conf, got, c.want)
+		}
+	}
+	if NForLimitsHalfWidth(0, 1.96, 1, 0.95) != 0 || NForLimitsHalfWidth(1, 1.96, -1, 0.95) != 0 || !math.IsNaN(LimitsHalfWidth(1, 1.96, 1, 0.95)) {
+		t.Error("undefined inputs should give 0 / NaN")
+	}
+}

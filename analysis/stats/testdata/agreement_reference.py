@@ -11,13 +11,15 @@ Versions used: Debian's Python 3, numpy 1.24.2, scipy 1.10.1.
 Data: Bland & Altman (1986), Lancet 327:307-310, Table 1 (peak expiratory
 flow, l/min), read from the shared reference folder (not copied here).
 
-- Bland-Altman: numpy mean/std(ddof=1), scipy.stats.t.ppf, scipy.stats.linregress.
+- Bland-Altman: numpy mean/std(ddof=1), scipy.stats.t.ppf, scipy.stats.linregress;
+  the limits' exact intervals from scipy.stats.nct.ppf(q, n-1, k*sqrt(n)) (Carkeet 2015).
 - Repeatability: numpy within-subject sums of squares, scipy.stats.chi2.ppf.
 - Deming: scipy.odr.ODR with RealData(x, y, sx=1, sy=sqrt(delta)) (weights
   1 on x and 1/delta on y), fit_type=0 (explicit ODR), analytic derivatives
   (deriv=3), sstol = partol = 1e-15;
   jackknife by refitting scipy.odr without each row in turn.
-- Error correction: scipy.stats.pearsonr, numpy arctanh/tanh with
+- Error correction: the corrected slope's interval by Fuller (1987),
+  Theorem 1.2.1, in numpy with scipy.stats.t.ppf; scipy.stats.pearsonr, numpy arctanh/tanh with
   scipy.stats.norm.ppf (Fisher z), scipy.stats.linregress with
   scipy.stats.t.ppf; reliabilities 1 - s_err^2/var(ddof=1) with the
   within-subject SDs above as the declared error SDs.
@@ -47,12 +49,20 @@ def bland_altman(a, b, k, conf):
     bias = d.mean()
     sd = d.std(ddof=1)
     t = stats.t.ppf(0.5 + conf / 2, n - 1)
-    se_lim = sd * np.sqrt(1 / n + k * k / (2 * (n - 1)))
     lr = stats.linregress(m, d)
     return dict(bias=bias, sd=sd, bias_lo=bias - t * sd / np.sqrt(n), bias_hi=bias + t * sd / np.sqrt(n),
-                lower=bias - k * sd, upper=bias + k * sd, limit_se=se_lim,
-                lower_lo=bias - k * sd - t * se_lim, upper_hi=bias + k * sd + t * se_lim,
+                lower=bias - k * sd, upper=bias + k * sd, **exact_limits(bias, sd, n, k, conf),
                 trend_slope=lr.slope, trend_intercept=lr.intercept, trend_se=lr.stderr, trend_p=lr.pvalue)
+
+
+def exact_limits(bias, sd, n, k, conf):
+    # Carkeet (2015): the exact interval of mu + k*sigma, from the quantiles
+    # of the noncentral t with n-1 df and noncentrality k*sqrt(n).
+    tl = stats.nct.ppf(0.5 - conf / 2, n - 1, k * np.sqrt(n))
+    th = stats.nct.ppf(0.5 + conf / 2, n - 1, k * np.sqrt(n))
+    r = np.sqrt(n)
+    return dict(upper_lo=bias + sd * tl / r, upper_hi=bias + sd * th / r,
+                lower_lo=bias - sd * th / r, lower_hi=bias - sd * tl / r)
 
 
 def within_sd(reps):
@@ -127,7 +137,15 @@ def error_correction(x, y, ex, ey, conf):
     relx = 1 - ex ** 2 / x.var(ddof=1)
     rely = 1 - ey ** 2 / y.var(ddof=1)
     f = np.sqrt(relx * rely)
-    return dict(r=r, r_lo=rlo, r_hi=rhi, rel_x=relx, rel_y=rely, err_x=ex, err_y=ey,
+    # Fuller (1987), Measurement Error Models, Theorem 1.2.1: the variance
+    # of the slope corrected for the known error variance suu of x.
+    b = lr.slope / relx
+    suu = ex ** 2
+    mxx = x.var(ddof=1)
+    svv = ((y - y.mean() - b * (x - x.mean())) ** 2).sum() / (n - 2)
+    se_b = np.sqrt((mxx * svv + b ** 2 * suu ** 2) / ((n - 1) * (mxx - suu) ** 2))
+    return dict(slope_corrected_lo=b - t * se_b, slope_corrected_hi=b + t * se_b, slope_corrected_se=se_b,
+                r=r, r_lo=rlo, r_hi=rhi, rel_x=relx, rel_y=rely, err_x=ex, err_y=ey,
                 r_corrected=r / f, r_corrected_lo=max(-1, rlo / f), r_corrected_hi=min(1, rhi / f),
                 slope=lr.slope, slope_lo=lr.slope - t * lr.stderr, slope_hi=lr.slope + t * lr.stderr,
                 slope_corrected=lr.slope / relx)
@@ -146,8 +164,9 @@ def main():
     sw_b, _ = within_sd([m1, m2])
     dm = (w1 + w2) / 2 - (m1 + m2) / 2
     sdm = dm.std(ddof=1)
-    out["replicates"] = dict(bias=dm.mean(), sd_means=sdm,
-                             sd=np.sqrt(sdm ** 2 + 0.5 * sw_a ** 2 + 0.5 * sw_b ** 2))
+    sd_rep = np.sqrt(sdm ** 2 + 0.5 * sw_a ** 2 + 0.5 * sw_b ** 2)
+    out["replicates"] = dict(bias=dm.mean(), sd_means=sdm, sd=sd_rep,
+                             **exact_limits(dm.mean(), sd_rep, len(dm), 1.96, 0.95))
     # Deming of the mini meter (y) on the Wright meter (x).
     delta_rep = sw_b ** 2 / sw_a ** 2
     out["deming_delta1"] = deming(w1, m1, 1.0, 0.95)

@@ -215,6 +215,18 @@ func (p *parser) measure(owner, name string, s *Study, d Dataset) {
 		if v := pl.SlopeHalfWidth; v != nil && !(*v > 0 && !math.IsInf(*v, 0)) {
 			p.add(owner, "study.plan.slope_half_width", "study %q: plan.slope_half_width = %v must be a positive number, in y's unit per x's unit", name, *v)
 		}
+		if agree {
+			// The plans of r, the slope and power test a relationship,
+			// which says nothing of whether two methods agree.
+			for _, k := range []struct {
+				key string
+				set bool
+			}{{"r_half_width", pl.RHalfWidth != nil}, {"slope_half_width", pl.SlopeHalfWidth != nil}, {"smallest_r", pl.SmallestR != nil}, {"power", pl.Power != nil}} {
+				if k.set {
+					p.add(owner, "study.plan."+k.key, "study %q: plan.%s plans a relationship study; an agreement study plans the width of its limits of agreement: use plan.limits_half_width, or remove the key", name, k.key)
+				}
+			}
+		}
 		if v := pl.LimitsHalfWidth; v != nil {
 			switch {
 			case !agree:

@@ -81,6 +81,14 @@ gauge_sd = { x = 0.5 }`, `keep one`},
 		{"negative gauge SD", `x = "a1"
 y = "b1"
 gauge_sd = { y = -0.5 }`, `gauge_sd.y = -0.5 must be a finite SD`},
+		{"relationship plan on an agreement study", `kind = "agreement"
+x = "b1"
+y = "c"
+plan = { r_half_width = 0.05 }`, `plan.r_half_width plans a relationship study; an agreement study plans the width of its limits of agreement: use plan.limits_half_width`},
+		{"limits plan on an agreement study", `kind = "agreement"
+x = "b1"
+y = "c"
+plan = { limits_half_width = 0.2 }`, ""},
 		{"power of 1", `x = "a1"
 y = "b1"
 plan = { power = 1 }`, `plan.power = 1 is outside (0, 1)`},

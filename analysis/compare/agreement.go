@@ -47,6 +47,15 @@ type AgreementChange struct {
 	OldUpper      report.Float `json:"old_upper"`
 	NewUpper      report.Float `json:"new_upper"`
 	Unit          string       `json:"unit"` // the methods' unit symbol
+	// Acceptable is the new run's acceptable difference ±Acceptable (NaN
+	// when none is declared); OldVerdict and NewVerdict the agreement
+	// verdicts against it, and NewLowerLow and NewUpperHigh the outer ends
+	// of the new limits' intervals, which the verdict reads.
+	Acceptable   report.Float `json:"acceptable"`
+	OldVerdict   string       `json:"old_verdict"`
+	NewVerdict   string       `json:"new_verdict"`
+	NewLowerLow  report.Float `json:"new_lower_low"`
+	NewUpperHigh report.Float `json:"new_upper_high"`
 }
 
 // compareAgreement compares prev and cur's agreement figures, or returns
@@ -59,7 +68,8 @@ func compareAgreement(prev, cur *report.Study) *AgreementChange {
 	nan := report.NaN()
 	c := &AgreementChange{OldBias: o.Bias, NewBias: n.Bias, DeltaBias: n.Bias - o.Bias, BiasSE: nan, BiasDF: nan, BiasP: nan,
 		BiasPAdj: nan, OldSD: o.SD, NewSD: n.SD, VarianceRatio: nan, SDP: nan, SDPAdj: nan,
-		OldLower: o.Lower, NewLower: n.Lower, OldUpper: o.Upper, NewUpper: n.Upper, Unit: symbol(cur.X)}
+		OldLower: o.Lower, NewLower: n.Lower, OldUpper: o.Upper, NewUpper: n.Upper, Unit: symbol(cur.X),
+		Acceptable: n.Acceptable, OldVerdict: string(o.Verdict), NewVerdict: string(n.Verdict), NewLowerLow: n.LowerLow, NewUpperHigh: n.UpperHigh}
 	t, df, p := WelchT(float64(o.Bias), float64(o.BiasSE), o.N, float64(n.Bias), float64(n.BiasSE), n.N)
 	if !math.IsNaN(p) {
 		c.BiasSE = report.Float(float64(c.DeltaBias) / t)
@@ -93,6 +103,19 @@ func WelchT(m1, se1 float64, n1 int, m2, se2 float64, n2 int) (t, df, p float64)
 	return t, df, stats.TwoSidedT(t, df)
 }
 
+// verdictWords names an agreement verdict for a reader.
+func verdictWords(v string) string {
+	switch report.AgreementVerdict(v) {
+	case report.AgreeWithin:
+		return "agree"
+	case report.NotWithin:
+		return "do not agree"
+	case report.Undecided:
+		return "undecided"
+	}
+	return v
+}
+
 // agreementVerdict is the change of the agreement verdict, if any.
 func agreementVerdict(prev, cur *report.Study) []VerdictChange {
 	if prev.Agreement == nil || cur.Agreement == nil || prev.Agreement.Verdict == cur.Agreement.Verdict {
@@ -109,11 +132,21 @@ func agreementStatement(a *AgreementChange, alpha float64) string {
 	}
 	biasSig := a.BiasPAdj.Valid() && float64(a.BiasPAdj) < alpha
 	sdSig := a.SDPAdj.Valid() && float64(a.SDPAdj) < alpha
-	if !biasSig && !sdSig {
-		return ""
-	}
 	u := unitSuffix(a.Unit)
+	// Against the acceptable difference first: that is the gate.
+	var gate string
+	if a.Acceptable.Valid() && a.NewVerdict != "" && a.OldVerdict != "" && a.NewVerdict != a.OldVerdict {
+		gate = fmt.Sprintf("Against the acceptable ±%s%s the methods went from %q to %q: the limits of agreement moved from %s and %s%s to %s and %s%s, and their intervals now reach %s to %s%s.",
+			g4(a.Acceptable), u, verdictWords(a.OldVerdict), verdictWords(a.NewVerdict), g4(a.OldLower), g4(a.OldUpper), u, g4(a.NewLower), g4(a.NewUpper), u,
+			g4(a.NewLowerLow), g4(a.NewUpperHigh), u)
+	}
+	if !biasSig && !sdSig {
+		return gate
+	}
 	s := fmt.Sprintf("The limits of agreement moved from %s and %s%s to %s and %s%s", g4(a.OldLower), g4(a.OldUpper), u, g4(a.NewLower), g4(a.NewUpper), u)
+	if gate != "" {
+		s = gate + " The change in the limits is beyond chance"
+	}
 	var why []string
 	if biasSig {
 		why = append(why, fmt.Sprintf("the bias changed beyond chance from %s to %s%s (Welch t = %s, adjusted p %s)", g4(a.OldBias), g4(a.NewBias), u, fix(report.Float(float64(a.DeltaBias)/float64(a.BiasSE))), pText(a.BiasPAdj)))

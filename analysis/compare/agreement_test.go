@@ -1,6 +1,7 @@
 package compare
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -33,7 +34,7 @@ func agreementOf(id string, x, y []float64, verdict report.AgreementVerdict) rep
 	l := stats.BlandAltman(y, x, 1.96, 0.95)
 	f := func(v float64) report.Float { return report.Float(v) }
 	s.Agreement = &report.Agreement{N: l.N, Bias: f(l.Bias), BiasSE: f(l.SDMeans / math.Sqrt(float64(l.N))), SD: f(l.SD),
-		Lower: f(l.Lower), Upper: f(l.Upper), Verdict: verdict}
+		Lower: f(l.Lower), Upper: f(l.Upper), Verdict: verdict, Acceptable: 2, LowerLow: f(l.Lower - 0.5), UpperHigh: f(l.Upper + 0.5)}
 	return s
 }
 
@@ -71,6 +72,17 @@ func TestDiffAgreement(t *testing.T) {
 	if !sh.Significant || !(float64(sh.Agreement.BiasPAdj) < 0.05) || !strings.Contains(sh.Statement, "bias changed beyond chance") ||
 		!strings.Contains(sh.Statement, "limits of agreement moved") {
 		t.Errorf("shifted bias not reported: p adj %v, statement %q", sh.Agreement.BiasPAdj, sh.Statement)
+	}
+	// The verdict against the acceptable difference comes first, with the
+	// new intervals' outer ends it rests on.
+	for _, want := range []string{`Against the acceptable ±2 Cel the methods went from "agree" to "do not agree"`,
+		fmt.Sprintf("their intervals now reach %s to %s Cel.", g4(sh.Agreement.NewLowerLow), g4(sh.Agreement.NewUpperHigh))} {
+		if !strings.Contains(sh.Statement, want) {
+			t.Errorf("statement %q lacks %q", sh.Statement, want)
+		}
+	}
+	if strings.Contains(sh.Statement, "the line gives") {
+		t.Errorf("an agreement study's statement reads the line at x: %q", sh.Statement)
 	}
 	found := false
 	for _, v := range sh.Verdicts {

@@ -161,7 +161,7 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 	if a := agreementStatement(sc.Agreement, alpha); a != "" {
 		parts = append(parts, a)
 	}
-	if slopeSig || sc.ExpectationChanged {
+	if (slopeSig || sc.ExpectationChanged) && sc.Agreement == nil { // an agreement study's gate is its limits, above
 		if a := atXSentence(sc); a != "" {
 			parts = append(parts, a)
 		}

@@ -228,6 +228,9 @@ func TestKillAtEveryStep(t *testing.T) {
 	if testing.Short() {
 		t.Skip("starts a process per step")
 	}
+	// The run date is in the report: fixed, so that a killed run and the
+	// complete one after it write the same bytes even a minute apart.
+	t.Setenv("SOURCE_DATE_EPOCH", "1764892800")
 	for _, kc := range killCases() {
 		t.Run(kc.name, func(t *testing.T) {
 			base := t.TempDir()
@@ -296,6 +299,9 @@ func TestSignalAtEveryStep(t *testing.T) {
 	if testing.Short() {
 		t.Skip("starts a process per step")
 	}
+	// The run date is in the report: fixed, so that a killed run and the
+	// complete one after it write the same bytes even a minute apart.
+	t.Setenv("SOURCE_DATE_EPOCH", "1764892800")
 	for _, kc := range killCases() {
 		t.Run(kc.name, func(t *testing.T) {
 			root := filepath.Join(t.TempDir(), "w")

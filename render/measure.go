@@ -42,8 +42,7 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 	if a.Acceptable.Valid() {
 		add("Acceptable difference", "±"+u(a.Acceptable), "")
 	}
-	add("Slope of the difference on the mean", num(a.TrendSlope), interval(a.TrendLow, a.TrendHigh))
-	add("p of that slope", pval(a.TrendP), "")
+	add("Slope of the difference on the mean (p "+pval(a.TrendP)+")", num(a.TrendSlope), interval(a.TrendLow, a.TrendHigh))
 	sec.Tables = append(sec.Tables, t)
 
 	lines := table{Caption: "Lines of " + name(s.Y) + " on " + name(s.X), Head: []string{"Line", "Intercept", level + "% interval", "Slope", level + "% interval"},

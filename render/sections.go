@@ -186,7 +186,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 		}
 	}
 	if pr := s.Pearson; pr != nil {
-		add("How closely do rows follow a line?", num(pr.R), interval(pr.CILow, pr.CIHigh), pval(pr.PAdjusted), "r, p across studies")
+		add("Closeness to a line", num(pr.R), interval(pr.CILow, pr.CIHigh), pval(pr.PAdjusted), "r; p across studies")
 		if rb, f := s.Robust, s.Findings; rb != nil && f != nil && rb.NEff.Valid() && f.Autocorrelated {
 			add("… counting rows that hang together as fewer", num(pr.R), interval(rb.RLow, rb.RHigh), pval(rb.RP), "effective n "+num(rb.NEff))
 		}
@@ -203,7 +203,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 		}
 	}
 	if sp, k := s.Spearman, s.Kendall; sp != nil && k != nil {
-		add("Do the ranks agree?", num(sp.Rho)+"; "+num(k.TauB), "", pval(sp.P), "Spearman ρ; Kendall τ-b")
+		add("Agreement of ranks", num(sp.Rho)+"; "+num(k.TauB), "", pval(sp.P), "Spearman ρ; Kendall τ-b")
 	}
 	// The screening questions (bend, lack of fit, other shapes, scatter,
 	// drift) stand once for all studies in the checks table under the
@@ -347,7 +347,7 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 	sec := &section{Key: "influence", Title: "Unusual rows"}
 	c := in.Counts
 	if c.Flagged == 0 {
-		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is flagged. The largest Cook's distance is %s (row %s).", num(in.MaxCooksD), in.MaxCooksRow))
+		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is flagged (largest Cook's distance %s, row %s).", num(in.MaxCooksD), in.MaxCooksRow))
 		return sec, nil
 	}
 	// The rules stand once in the appendix; here each cut for this
@@ -365,7 +365,7 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 	sec.Paras = append(sec.Paras, fmt.Sprintf("Cuts for %d rows: off the line beyond ±%s, pull above %s, reach above %s. Flagged: %s.",
 		s.N, num(in.Rules.Outlier), num(in.Rules.CooksD), num(in.Rules.Leverage), strings.Join(raised, ", ")))
 	if len(in.Points) == 0 {
-		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is named. The largest Cook's distance is %s (row %s).", num(in.MaxCooksD), in.MaxCooksRow))
+		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is named (largest Cook's distance %s, row %s).", num(in.MaxCooksD), in.MaxCooksRow))
 	} else {
 		caption := "Named rows, largest Cook's distance first"
 		if c.Suspect > len(in.Points) {
@@ -654,7 +654,7 @@ func notChecked(s *report.Study) string {
 	if len(n) == 0 {
 		return ""
 	}
-	return "Not checked, none declared: " + strings.Join(n, ", ") + " (see the appendix)."
+	return "Not checked (none declared): " + strings.Join(n, ", ") + "."
 }
 
 // gateTitle names a gate in words: the analysis's title, or for a report
@@ -695,7 +695,7 @@ func answer(yes bool, p report.Float) string {
 // checksTable answers the screening questions of every study in one
 // table: the verdicts are the findings', the p-values the analysis's.
 func checksTable(studies []report.Study, anchors []string) table {
-	t := table{Caption: "The checks of every study: a plain question, then the test (glossary); p after Holm's adjustment over the study's checks, where it takes part",
+	t := table{Caption: "The checks of every study, with the test (glossary); p after Holm's adjustment over the study's checks",
 		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings stray from it? (lack of fit)", "Dependence of any shape, 0 to 1 (distance correlation)", "Does the scatter change with x? (Breusch–Pagan)", "Drift in run order? (Durbin–Watson, trend)"},
 		Num:  []bool{false, false, false, false, false, false}}
 	for i := range studies {

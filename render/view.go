@@ -145,10 +145,9 @@ type studyView struct {
 	Verdict  []kv
 	// Status names what the pooled verdict alone would hide (rests on
 	// single rows, reverses within groups, explained by a covariate,
-	// curved); Slope is the line's slope with its unit and interval;
-	// Gates are the CI gates' outcomes, one line each.
+	// curved); Gates are the CI gates' outcomes, one line each (the slope
+	// stands in the summary and the study's numbers).
 	Status   []string
-	Slope    string
 	Gates    []gateLine
 	Top      []*section // the engineer's notes, shown before the detail
 	Figures  []figure
@@ -435,7 +434,7 @@ type summaryRow struct {
 	ID, Title, Link, Class string
 	Finding                string // the findings' headline
 	Status                 string // what the pooled verdict would hide, in words
-	Slope                  string // the line's slope with its unit
+	Slope, SlopeCI         string // the line's slope with its unit; its interval, "(lo to hi)"
 	N                      string
 	R, RCI                 string // "−0.982", "−0.987 to −0.974"
 	P                      string
@@ -473,7 +472,7 @@ func pHead(adjust string) string {
 }
 
 func summaryCaption(n int, adjust, level string) string {
-	c := fmt.Sprintf("Each study's finding, what the pooled verdict alone would hide, the slope with its %s%% interval, and the CI gates", level)
+	c := fmt.Sprintf("Each study's finding, what the pooled verdict alone would hide, the slope (%s%% interval) and the CI gates", level)
 	switch adjust {
 	case "holm":
 		c += fmt.Sprintf("; p adjusted across the %d studies by Holm's method", n)
@@ -504,7 +503,11 @@ func (s summary) Table() table {
 		if r.ExpectNote != "" {
 			exp += ", " + r.ExpectNote
 		}
-		t.Rows = append(t.Rows, []string{r.ID, finding, orDash(r.Slope), exp})
+		slope := orDash(r.Slope)
+		if r.SlopeCI != "" {
+			slope += " " + r.SlopeCI
+		}
+		t.Rows = append(t.Rows, []string{r.ID, finding, slope, exp})
 		t.Classes = append(t.Classes, r.Class)
 		t.Links = append(t.Links, r.Link)
 	}
@@ -570,11 +573,11 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		}
 	}
 	row.Slope = slopeText(s, "")
-	if row.Slope != "" {
-		row.Slope = strings.Replace(row.Slope, "(CI ", "(", 1)
+	if i := strings.Index(row.Slope, " (CI "); i > 0 {
+		row.Slope, row.SlopeCI = row.Slope[:i], "("+row.Slope[i+len(" (CI "):]
 	}
 	if s.Findings != nil && s.Findings.TurnsOver {
-		row.Slope = "none: the curve turns over"
+		row.Slope, row.SlopeCI = "none: the curve turns over", ""
 	}
 	row.Flags = "none"
 	if s.Influence != nil && s.Influence.Counts.Suspect > 0 {
@@ -676,7 +679,6 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		return sv, nil
 	}
 	sv.Status = statusOf(s)
-	sv.Slope = slopeText(s, level)
 	for _, e := range s.Expectations {
 		// A met gate names what it wanted (what was found stands in the
 		// study's figures and results.json); a failed one says both, and why.
@@ -767,7 +769,7 @@ func covariateLabels(s *report.Study, columns []string) []string {
 // needs to reach it, and the power to detect r (the findings' sentences
 // are in results.json, "plan.statements").
 func plansTable(studies []report.Study, level string) table {
-	t := table{Caption: "Planning the next run: rows needed, at this run's r, scatter and spread of x, for r's and the slope's " + level + "% intervals to reach their targets (set: in the manifest's plan), and the power to detect r (two-sided, Fisher z)",
+	t := table{Caption: "Planning the next run: rows needed, at this run's r, scatter and spread of x, for r's and the slope's " + level + "% intervals to reach their targets (set: in the manifest), and power to detect r (Fisher z)",
 		Head: []string{"Study", "r: ± now → target", "Rows", "Slope: ± now → target", "Rows", "Power now; rows for"},
 		Num:  []bool{false, true, true, true, true, true, true}}
 	rows := func(n int) string {

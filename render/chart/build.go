@@ -394,7 +394,7 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	}
 	f.Dense, f.Density = dense(p, p.ResidFitted)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows against the fitted values, with a dashed line at zero. %s", p.N, markNames(f.Marked))
-	f.Caption = "Distance from the line against the line's value: a bow or a funnel is a warning."
+	f.Caption = "Distance from the line, by the line's value."
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))
 		f.Desc += denseNote(p.N, len(f.Marked))
@@ -426,7 +426,7 @@ func ResidualsOrder(s *report.Study, id string) *Figure {
 	}
 	f.Dense, f.Density = dense(p, p.ResidOrder)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows in the order of %s, with a dashed line at zero. %s", p.N, order, markNames(f.Marked))
-	f.Caption = fmt.Sprintf("Drift strip, in the order of %s: a slope or long runs on one side are a warning.", order)
+	f.Caption = fmt.Sprintf("Drift strip, in the order of %s.", order)
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))
 		f.Desc += denseNote(p.N, len(f.Marked))

@@ -114,6 +114,9 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	if nc := notChecked(s); nc != "" {
 		sec.After = append(sec.After, nc)
 	}
+	if len(sec.Items) == 0 {
+		sec.Title = "" // only what was not checked: a line, not a part of its own
+	}
 	return sec, nil
 }
 
@@ -413,7 +416,11 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		if se.RWithoutLow.Valid() {
 			rw = withCI(se.RWithoutFlagged, se.RWithoutLow, se.RWithoutHigh)
 		}
-		t.Rows = append(t.Rows, []string{fmt.Sprintf("Without all %d flagged rows", se.NFlagged), rw, num(se.SlopeWithoutFlagged), num(se.InterceptWithout)})
+		which := fmt.Sprintf("Without all %d flagged rows", se.NFlagged)
+		if se.NFlagged == 1 {
+			which = "Without the flagged row"
+		}
+		t.Rows = append(t.Rows, []string{which, rw, num(se.SlopeWithoutFlagged), num(se.InterceptWithout)})
 	}
 	// With no row named or flagged the table would repeat the line (and
 	// the resistant slope stands in the numbers above): only the sentence.

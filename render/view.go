@@ -52,11 +52,11 @@ type page struct {
 // line names which of the checks it lacks).
 var appendix = []string{
 	"Not checked: without covariates, a lurking variable; without a group, a relationship that differs between groups (lot, machine, shift); without a run order, drift or rows that hang together in time (p-values and intervals then assume independent rows).",
-	"The checks of curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm's adjustment), not across studies; the distance correlation and the residuals in order of x are screened at alpha unadjusted. A flag calls for a look at the charts, not a conclusion.",
-	"Unusual rows: each study gives its cuts for its number of rows: off the line (externally studentized residual), pull on the line (Cook's distance), reach in x (leverage). Rows far out in x but close to the line are counted, not named.",
-	"Charts: the scatter shows the least-squares line in its confidence band (a curve, when found, as the main fit) and a LOWESS smooth; circled rows are named. The other two show each row's distance from the line, against the line's value and in run order: a bow, a funnel, a slope or long runs on one side mean the line, an even scatter or a steady run does not describe the data.",
-	"Shapes: each is set against the line by the share of the line's residual sum of squares it removes (negative: it scatters more) and by AIC (lower fits better for its coefficients). Fits of ln(y) are on another scale: results.json only.",
-	"p-values below 0.0001 are printed as \"< 0.0001\"; results.json holds every exact value, and every figure the report leaves out.",
+	"Curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm), not across studies; the distance correlation and the residuals in order of x are screened at alpha unadjusted. A flag calls for a look at the charts, not a conclusion.",
+	"Unusual rows: each study gives its cuts, for its number of rows, off the line (externally studentized residual), pull on the line (Cook's distance) and reach in x (leverage). Rows far out in x but close to the line are counted, not named.",
+	"Charts: the line in its confidence band (a curve, when found, as the main fit) and a LOWESS smooth; circled rows are named. Each row's distance from the line, by the line's value and in run order: a bow, a funnel, a slope or long runs on one side mean the line, an even scatter or a steady run does not fit.",
+	"Shapes: the share of the line's residual sum of squares each removes (negative: it scatters more) and AIC against the line (lower fits better for its coefficients). Fits of ln(y) are on another scale: results.json only.",
+	"p below 0.0001 is printed \"< 0.0001\"; results.json holds every exact value and every figure the report leaves out.",
 }
 
 // observational is said once for every study whose findings carry the
@@ -268,7 +268,7 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 			p.Sources.Rows = append(p.Sources.Rows, []string{d.ID, src.Kind, strings.Join(det, "; ")})
 		}
 	}
-	p.Excluded = table{Caption: "Rows left out of each study, and why",
+	p.Excluded = table{Caption: "Rows left out of each study, and why (the others used every row)",
 		Head: []string{"Study", "Rows used", "Rows left out", "Why"},
 		Num:  []bool{false, true, true, false}}
 	for _, s := range r.Studies {
@@ -289,6 +289,11 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 				w += " (" + strings.Join(miss, ", ") + ")"
 			}
 			why = append(why, w)
+		}
+		// A study that used every row has no line here (its n stands in
+		// its headline and results.json).
+		if len(why) == 0 && s.NMissing == 0 {
+			continue
 		}
 		w := strings.Join(why, "; ")
 		if w == "" {
@@ -680,11 +685,11 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 	}
 	sv.Status = statusOf(s)
 	for _, e := range s.Expectations {
-		// A met gate names what it wanted (what was found stands in the
-		// study's figures and results.json); a failed one says both, and why.
-		text := fmt.Sprintf("%s: %s", gateTitle(e), ascii(e.Want))
+		// What the gate wanted and what it found are the verdict's own
+		// figures: both stay beside the outcome.
+		text := fmt.Sprintf("%s: wanted %s, found %s", gateTitle(e), ascii(e.Want), ascii(e.Got))
 		if !e.OK {
-			text = fmt.Sprintf("%s: wanted %s, found %s. %s.", gateTitle(e), ascii(e.Want), ascii(e.Got), capital(ascii(e.Detail)))
+			text += ". " + capital(ascii(e.Detail)) + "."
 		}
 		sv.Gates = append(sv.Gates, gateLine{OK: e.OK, Text: text})
 	}

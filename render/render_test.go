@@ -125,7 +125,7 @@ func TestHTMLStructure(t *testing.T) {
 		last = i
 	}
 	// Per study content of the rich study.
-	for _, want := range []string{"What the data show", "The numbers behind it", "Unusual rows", "what single rows do to the line",
+	for _, want := range []string{"What the data show", "The numbers behind it", "Unusual rows", "Unusual rows, and leaving one out",
 		"In other units", "Predictions from the line",
 		"Mean of many rows, 95%", "One new row, 95%", "no — not supported", `class="limits limits"`, "What may not be concluded",
 		"<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",

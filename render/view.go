@@ -743,7 +743,7 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		// their heading: one part, not two.
 		if n := len(sv.Sections); n > 0 && sec.Key == "sensitivity" && sv.Sections[n-1].Key == "influence" {
 			in := sv.Sections[n-1]
-			in.Title = "Unusual rows, and what single rows do to the line"
+			in.Title = "Unusual rows, and leaving one out"
 			in.Tables = append(in.Tables, sec.Tables...)
 			in.After = append(in.After, sec.After...)
 			continue

@@ -382,7 +382,7 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
 		XLabel: "Fitted value: " + AxisTitle(s.Y), YLabel: residualTitle(s),
-		Title:  "Distance from the line against the line's value",
+		Title:  "Distance from the line, by the line's value",
 		Points: series(p, pickFitted),
 		Marked: marks(p, markFitted),
 		Lines:  []Line{zeroLine(spanOf(p, p.ResidFitted, pickFitted))},

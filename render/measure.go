@@ -2,10 +2,12 @@ package render
 
 // This file shows a study's measurement parts: the agreement of two
 // methods, r and the slope corrected for measurement error, and the
-// planning statement. It selects and formats what the analysis and the
+// planning figures (see plansTable). It selects and formats what the analysis and the
 // findings put into the Report; the sentences are the findings'.
 
 import (
+	"strings"
+
 	"bivar/analysis/report"
 )
 
@@ -14,7 +16,15 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 	if a == nil {
 		return nil, nil
 	}
-	sec := &section{Key: "agreement", Title: "Agreement of the two methods", Paras: a.Statements}
+	// The first statement is the study's headline, shown above; those on
+	// repeatability restate the repeatability table below.
+	sec := &section{Key: "agreement", Title: "Agreement of the two methods"}
+	for i, st := range a.Statements {
+		if (i == 0 && s.Findings != nil && st == s.Findings.Headline) || (len(a.Repeatability) > 0 && strings.HasPrefix(st, "Repeatability of ")) {
+			continue
+		}
+		sec.Paras = append(sec.Paras, st)
+	}
 	sym := s.X.Symbol
 	u := func(v report.Float) string {
 		if sym == "" || !v.Valid() {
@@ -32,8 +42,7 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 	if a.Acceptable.Valid() {
 		add("Acceptable difference", "±"+u(a.Acceptable), "")
 	}
-	add("Slope of the difference on the mean", num(a.TrendSlope), interval(a.TrendLow, a.TrendHigh))
-	add("p of that slope", pval(a.TrendP), "")
+	add("Slope of the difference on the mean (p "+pval(a.TrendP)+")", num(a.TrendSlope), interval(a.TrendLow, a.TrendHigh))
 	sec.Tables = append(sec.Tables, t)
 
 	lines := table{Caption: "Lines of " + name(s.Y) + " on " + name(s.X), Head: []string{"Line", "Intercept", level + "% interval", "Slope", level + "% interval"},
@@ -70,7 +79,7 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 		}
 		sec.Tables = append(sec.Tables, rt)
 	}
-	sec.After = a.Assumptions
+	// The methods' assumptions are said once in the appendix.
 	return sec, nil
 }
 
@@ -89,12 +98,4 @@ func errorCorrectionSection(s *report.Study, level string, _ report.Thresholds) 
 	sec.Tables = append(sec.Tables, t)
 	sec.After = e.Assumptions
 	return sec, nil
-}
-
-func planSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
-	p := s.Plan
-	if p == nil || len(p.Statements) == 0 {
-		return nil, nil
-	}
-	return &section{Key: "plan", Title: "Planning the next run", List: p.Statements}, nil
 }

@@ -5,6 +5,7 @@ import (
 	"strconv"
 	"strings"
 
+	"bivar/analysis/findings"
 	"bivar/analysis/report"
 	"bivar/render/chart"
 )
@@ -23,7 +24,6 @@ var studySections = []func(s *report.Study, level string, th report.Thresholds) 
 	predictionsSection,
 	approximationsSection,
 	pushdownSection,
-	planSection,
 	limitsSection,
 }
 
@@ -38,8 +38,13 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	// its own. A report written before those fields existed shows the bare
 	// verdict.
 	why := func(topic, reason, verdict string) {
+		if reason != "" && f.Headline != "" && strings.Contains(strings.ToLower(f.Headline), strings.ToLower(strings.TrimSpace(strings.TrimSuffix(reason[strings.Index(reason, ": ")+1:], ".")))) {
+			return // the headline says it in the same words
+		}
 		if reason != "" {
-			sec.List = append(sec.List, topic+" — "+ascii(reason))
+			// Which cut points are the tool's own choice the appendix
+			// says once, with the rules.
+			sec.List = append(sec.List, topic+" — "+ascii(strings.ReplaceAll(reason, " ("+findings.OwnChoice+")", "")))
 		} else {
 			sec.List = append(sec.List, topic+": "+verdict+".")
 		}
@@ -48,16 +53,27 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	if f.Bend != nil && *f.Bend != "" {
 		form += " (" + strings.ReplaceAll(*f.Bend, "-", " ") + ")"
 	}
-	why("Form", f.FormWhy, form)
-	// A plain direction and strength are what the headline above says,
-	// with r and its interval; their reasons (r against alpha and the cut
-	// points of the appendix) stay in results.json. A direction or
-	// strength that needs its reason (none shown, a curve that turns
-	// over, a curve's own strength) keeps it here.
-	if (f.Direction != "positive" && f.Direction != "negative") || f.TurnsOver || f.Headline == "" {
+	// A straight line that no check questioned is what the headline says
+	// ("along a straight line"); its figures (the x² term, the share of
+	// scatter the quadratic removes) stand in the checks table and the
+	// shapes table, its reason in results.json. A form that is not a line,
+	// or a line a check raised a doubt about, keeps its reason here.
+	raised := false
+	for _, c := range f.Checks {
+		raised = raised || c.Raised
+	}
+	if f.Form != "linear" || raised || f.Headline == "" {
+		why("Form", f.FormWhy, form)
+	}
+	// Direction and strength are what the headline says, with r, its
+	// interval and p ("no relationship" when r is not shown; "strong as a
+	// curve, weak as a line" for a curve); their reasons (r against alpha
+	// and the cut points of the appendix) stay in results.json. A curve
+	// that turns over keeps its direction's reason: it has none.
+	if f.TurnsOver || f.Headline == "" {
 		why("Direction", f.DirectionWhy, f.Direction)
 	}
-	if f.Strength == "none" || f.CurveStrength != "" || f.Headline == "" {
+	if f.Headline == "" {
 		why("Strength", f.StrengthWhy, f.Strength)
 	}
 	if f.Reasons != nil {
@@ -98,6 +114,9 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	// report shows the table and the rules once.
 	if nc := notChecked(s); nc != "" {
 		sec.After = append(sec.After, nc)
+	}
+	if len(sec.Items) == 0 {
+		sec.Title = "" // only what was not checked: a line, not a part of its own
 	}
 	return sec, nil
 }
@@ -148,14 +167,15 @@ func withSym(v, sym string) string {
 // method's name after it.
 func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*section, error) {
 	sec := &section{Key: "keyfigures", Title: "The numbers behind it"}
-	t := table{Caption: fmt.Sprintf("x is %s, y %s; intervals at %s%%", name(s.X), name(s.Y), level),
-		Head: []string{"Question", "Answer", level + "% interval", "p", "Measure"},
-		Num:  []bool{false, true, true, true, false}}
-	add := func(q, a, ci, p, how string) { t.Rows = append(t.Rows, []string{q, a, ci, p, how}) }
+	t := table{Head: []string{"Question (measure)", "Answer", level + "% interval", "p"},
+		Num: []bool{false, true, true, true}}
+	// The measure's name follows the plain question in brackets (the
+	// glossary defines it).
+	add := func(q, a, ci, p, how string) { t.Rows = append(t.Rows, []string{q + " (" + how + ")", a, ci, p}) }
 	per := unitPer(s)
 	if l := s.Line; l != nil && l.Slope != nil {
-		add("How much does y change per "+orWord(s.X.Symbol, "unit of x")+"?", withSym(num(l.Slope.Estimate), per), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P),
-			"slope (SE "+withSym(num(l.Slope.SE), per)+")")
+		add("Change in y per "+orWord(s.X.Symbol, "unit of x"), withSym(num(l.Slope.Estimate), per), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P),
+			"slope; SE "+withSym(num(l.Slope.SE), per))
 		if rb, f := s.Robust, s.Findings; rb != nil && f != nil {
 			if rb.HAC != nil && f.Autocorrelated {
 				add("… allowing for rows that hang together in run order", "", interval(rb.HAC.CILow, rb.HAC.CIHigh), pval(rb.HAC.P),
@@ -166,46 +186,70 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 			}
 		}
 		if rs := s.Diagnostics; rs != nil && rs.Resistant != nil {
-			add("… by a method a few rows barely move", withSym(num(rs.Resistant.Slope), per), "", "", methodName(rs.Resistant.Method))
+			add("… resistant to a few rows", withSym(num(rs.Resistant.Slope), per), "", "", strings.NewReplacer(" (", ", ", ")", "").Replace(methodName(rs.Resistant.Method)))
 		}
 	}
 	if pr := s.Pearson; pr != nil {
-		add("How closely do the rows follow a line?", num(pr.R), interval(pr.CILow, pr.CIHigh), pval(pr.PAdjusted), "Pearson r, p adjusted across studies")
+		add("Closeness to a line", num(pr.R), interval(pr.CILow, pr.CIHigh), pval(pr.PAdjusted), "r; p across studies")
 		if rb, f := s.Robust, s.Findings; rb != nil && f != nil && rb.NEff.Valid() && f.Autocorrelated {
 			add("… counting rows that hang together as fewer", num(pr.R), interval(rb.RLow, rb.RHigh), pval(rb.RP), "effective n "+num(rb.NEff))
 		}
 	}
+	mt := shapesTable(s)
 	if l := s.Line; l != nil {
-		add("How far do rows typically lie from the line?", inY(s, l.ResidualSE), "", "", "residual SD")
-		add("What share of y's variation does the line follow?", num(l.R2), "", "", "R²")
+		// The typical distance from the line is the shapes table's
+		// baseline row when there is one; R² is r squared (results.json).
+		if len(mt.Rows) == 0 {
+			add("Typical distance from the line", inY(s, l.ResidualSE), "", "", "residual SD")
+		}
 		if l.Intercept != nil {
-			add("Where is the line at x = 0?", inY(s, l.Intercept.Estimate), interval(l.Intercept.CILow, l.Intercept.CIHigh), "", "intercept")
+			add("Line at x = 0", inY(s, l.Intercept.Estimate), interval(l.Intercept.CILow, l.Intercept.CIHigh), "", "intercept")
 		}
 	}
 	if sp, k := s.Spearman, s.Kendall; sp != nil && k != nil {
-		add("Do the ranks agree?", num(sp.Rho)+"; "+num(k.TauB), "", pval(sp.P), "Spearman ρ; Kendall τ-b")
+		add("Agreement of ranks", num(sp.Rho)+"; "+num(k.TauB), "", pval(sp.P), "Spearman ρ; Kendall τ-b")
 	}
 	// The screening questions (bend, lack of fit, other shapes, scatter,
 	// drift) stand once for all studies in the checks table under the
 	// summary (checksTable).
 	sec.Tables = append(sec.Tables, t)
-	if mt := shapesTable(s); len(mt.Rows) > 0 {
+	if len(mt.Rows) > 0 {
 		sec.Tables = append(sec.Tables, mt)
 	}
-	if d := s.Describe; d != nil {
-		dt := table{Caption: "Where the data lie",
-			Head: []string{"Variable", "Range", "Middle half", "Middle value", "Average ± SD"},
-			Num:  []bool{false, true, true, true, true}}
+	// Where the data lie stands for every study in one table of the
+	// appendix (dataTable).
+	return sec, nil
+}
+
+// dataTable says where each study's variables lie, one row per variable
+// and its figures, so that a variable with the same rows in several
+// studies stands once, naming them.
+func dataTable(studies []report.Study) table {
+	t := table{Caption: "Where the data lie: each study's complete rows",
+		Head: []string{"Variable", "Range", "Middle half", "Middle value", "Average ± SD", "Studies"},
+		Num:  []bool{false, true, true, true, true, false}}
+	at := map[string]int{}
+	for _, s := range studies {
+		d := s.Describe
+		if d == nil || s.Error != nil {
+			continue
+		}
 		for _, v := range []struct {
 			v report.Variable
 			d report.Describe
 		}{{s.X, d.X}, {s.Y, d.Y}} {
-			dt.Rows = append(dt.Rows, []string{withUnit(v.v), num(v.d.Min) + " to " + num(v.d.Max), num(v.d.Q1) + " to " + num(v.d.Q3),
-				num(v.d.Median), num(v.d.Mean) + " ± " + num(v.d.SD)})
+			row := []string{withUnit(v.v), num(v.d.Min) + " to " + num(v.d.Max), num(v.d.Q1) + " to " + num(v.d.Q3),
+				num(v.d.Median), num(v.d.Mean) + " ± " + num(v.d.SD)}
+			key := strings.Join(row, "\x00")
+			if i, ok := at[key]; ok {
+				t.Rows[i][5] += ", " + s.ID
+				continue
+			}
+			at[key] = len(t.Rows)
+			t.Rows = append(t.Rows, append(row, s.ID))
 		}
-		sec.Tables = append(sec.Tables, dt)
 	}
-	return sec, nil
+	return t
 }
 
 // paren is " (unit)", or "" without a unit.
@@ -236,11 +280,11 @@ var shapeMeaning = map[string]string{
 // line, by how much of the line's scatter each removes and by AIC, both
 // only where the shape was fitted to y itself (the analysis marks which).
 func shapesTable(s *report.Study) table {
-	t := table{Caption: "Shapes tried against the straight line: scatter removed is the share of the line's residual sum of squares the shape removes (negative: it scatters more); a lower AIC fits better for its coefficients. Fits of ln(y) are on another scale and not compared; every coefficient is in results.json",
-		Head: []string{"Shape", "Meaning", "Scatter about it", "Scatter removed", "AIC against line"},
+	t := table{Caption: "Shapes tried against the line (how to read: appendix)",
+		Head: []string{"Shape", "Meaning", "Typical distance from it", "Scatter removed", "AIC against line"},
 		Num:  []bool{false, false, true, true, true}}
 	if l := s.Line; l != nil && len(s.Models) > 0 {
-		t.Rows = append(t.Rows, []string{"line (baseline)", shapeMeaning["line"], inY(s, l.ResidualSE), "—", "—"})
+		t.Rows = append(t.Rows, []string{"line (baseline)", shapeMeaning["line"], inY(s, l.ResidualSE), "", ""})
 	}
 	for _, m := range s.Models {
 		if m.Name == "line" {
@@ -248,7 +292,9 @@ func shapesTable(s *report.Study) table {
 		}
 		scatter, share, aic := inY(s, m.ResidualSE), pct(m.ShareVsLine), signedNum(m.AICVsLine)
 		if m.YScale == "ln(y)" {
-			scatter, share, aic = num(m.ResidualSE)+" in ln(y)", "—", "—"
+			// On another scale, so not compared with the line: the
+			// appendix says so once and results.json keeps the fit.
+			continue
 		}
 		meaning := shapeMeaning[m.Name]
 		switch {
@@ -305,28 +351,31 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 	sec := &section{Key: "influence", Title: "Unusual rows"}
 	c := in.Counts
 	if c.Flagged == 0 {
-		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is flagged. The largest Cook's distance is %s (row %s).", num(in.MaxCooksD), in.MaxCooksRow))
+		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is flagged (largest Cook's distance %s, row %s).", num(in.MaxCooksD), in.MaxCooksRow))
 		return sec, nil
 	}
-	counts := table{Caption: "Rows by flag, of all " + itoa(s.N), Head: []string{"Flag", "Rule (this study's cut point)", "Rows"},
-		Num: []bool{false, false, true}}
-	counts.Rows = [][]string{
-		{"outlier", "|externally studentized residual| above " + num(in.Rules.Outlier), itoa(c.Outlier)},
-		{"influential", "Cook's distance above " + num(in.Rules.CooksD), itoa(c.Influential)},
-		{"sole support", "leverage 1: the row alone sets the slope", itoa(c.SoleSupport)},
-		{"high leverage", "leverage above " + num(in.Rules.Leverage), itoa(c.HighLeverage)},
-		{"high leverage only", "far out in x, close to the line: counted, not named", itoa(c.LeverageOnly)},
+	// The rules stand once in the appendix; here each cut for this
+	// study's rows, and the flags raised (a flag no row raised is left to
+	// results.json's counts).
+	var raised []string
+	for _, f := range []struct {
+		n    int
+		flag string
+	}{{c.Outlier, "outlier"}, {c.Influential, "influential"}, {c.SoleSupport, "sole support"}, {c.HighLeverage, "high leverage"}, {c.LeverageOnly, "of them high leverage only (counted, not named)"}} {
+		if f.n > 0 {
+			raised = append(raised, itoa(f.n)+" "+f.flag)
+		}
 	}
-	sec.Tables = append(sec.Tables, counts)
+	sec.Paras = append(sec.Paras, fmt.Sprintf("Cuts for %d rows: off the line beyond ±%s, pull above %s, reach above %s. Flagged: %s.",
+		s.N, num(in.Rules.Outlier), num(in.Rules.CooksD), num(in.Rules.Leverage), strings.Join(raised, ", ")))
 	if len(in.Points) == 0 {
-		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is named. The largest Cook's distance is %s (row %s).", num(in.MaxCooksD), in.MaxCooksRow))
+		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is named (largest Cook's distance %s, row %s).", num(in.MaxCooksD), in.MaxCooksRow))
 	} else {
 		caption := "Named rows, largest Cook's distance first"
 		if c.Suspect > len(in.Points) {
 			caption = fmt.Sprintf("The first %d of %d rows flagged outlier, influential or sole support, largest Cook's distance first", len(in.Points), c.Suspect)
 		}
-		t := table{Caption: fmt.Sprintf("%s. Off the line: externally studentized residual, flagged beyond ±%s; pull on the line: Cook's distance, flagged above %s; reach in x: leverage, flagged above %s",
-			caption, num(in.Rules.Outlier), num(in.Rules.CooksD), num(in.Rules.Leverage)),
+		t := table{Caption: caption,
 			Head: []string{"Row", "x" + paren(s.X.Symbol), "y" + paren(s.Y.Symbol), "Off the line", "Pull on the line", "Reach in x", "Why flagged"},
 			Num:  []bool{false, true, true, true, true, true, false}}
 		for _, pt := range in.Points {
@@ -339,7 +388,7 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 		sec.After = append(sec.After, "Order of the named rows: "+in.Ranking+".")
 	}
 	if in.File != "" {
-		sec.After = append(sec.After, fmt.Sprintf("Every flagged row (%d), with all its measures, is listed in %s beside this report.", in.FileRows, in.File))
+		sec.After = append(sec.After, fmt.Sprintf("Flagged rows (%d) with every measure: %s.", in.FileRows, in.File))
 	}
 	return sec, nil
 }
@@ -368,7 +417,11 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		if se.RWithoutLow.Valid() {
 			rw = withCI(se.RWithoutFlagged, se.RWithoutLow, se.RWithoutHigh)
 		}
-		t.Rows = append(t.Rows, []string{fmt.Sprintf("Without all %d flagged rows", se.NFlagged), rw, num(se.SlopeWithoutFlagged), num(se.InterceptWithout)})
+		which := fmt.Sprintf("Without all %d flagged rows", se.NFlagged)
+		if se.NFlagged == 1 {
+			which = "Without the flagged row"
+		}
+		t.Rows = append(t.Rows, []string{which, rw, num(se.SlopeWithoutFlagged), num(se.InterceptWithout)})
 	}
 	// With no row named or flagged the table would repeat the line (and
 	// the resistant slope stands in the numbers above): only the sentence.
@@ -380,7 +433,7 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
 		sec.Tables = append(sec.Tables, t)
 	}
-	sec.After = append(sec.After, fmt.Sprintf("Leaving out one row at a time, r ranges from %s%s to %s%s and the slope from %s to %s.",
+	sec.After = append(sec.After, fmt.Sprintf("Leaving out one row at a time: r from %s%s to %s%s, slope from %s to %s.",
 		num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), num(se.LooSlopeMax)))
 	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() {
 		sec.After = append(sec.After, fmt.Sprintf("Without the flagged rows, p for r is %s (%s%% interval shown with r).", pval(se.PWithoutFlagged), level))
@@ -392,7 +445,7 @@ func without(row string) string {
 	if row == "" {
 		return ""
 	}
-	return " (without row " + row + ")"
+	return " (without " + row + ")"
 }
 
 func orDash(s string) string {
@@ -449,18 +502,35 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	for _, r := range rs {
 		same = same && r == rs[0]
 	}
-	if other || !same {
-		sec.Tables = append(sec.Tables, t)
-	}
 	switch {
 	case same && !other:
 		// Only the swapped axes, which change nothing a reviewer reads:
 		// results.json keeps them.
 		return nil, nil
 	case same && len(rs) > 1:
-		sec.After = append(sec.After, fmt.Sprintf("r is %s in every unit and with the axes swapped; slope and intercept change with the units, as they must.", rs[0]))
+		// r is the same in every row: one sentence gives each row's slope
+		// and intercept (the units' codes are in results.json).
+		var parts []string
+		for i, u := range s.UnitInvariance {
+			row := t.Rows[i]
+			switch {
+			case u.Note != "":
+				parts = append(parts, fmt.Sprintf("x in %s, y in %s: %s", row[0], row[1], row[3]))
+			case u.Swapped:
+				parts = append(parts, fmt.Sprintf("axes swapped: slope %s %s per %s, intercept %s", row[3], row[1], symbol(u.XSymbol, u.XUnit), row[4]))
+			case u.XUnit != s.X.Unit || u.YUnit != s.Y.Unit:
+				parts = append(parts, fmt.Sprintf("x in %s, y in %s: slope %s, intercept %s", row[0], row[1], row[3], row[4]))
+			}
+		}
+		where := "in every unit"
+		if undefined > 0 {
+			where = "in every unit it converts to"
+		}
+		sec.Paras = append(sec.Paras, fmt.Sprintf("r = %s %s. %s.", rs[0], where, strings.Join(parts, "; ")))
 	case same:
+		sec.Tables = append(sec.Tables, t)
 	default:
+		sec.Tables = append(sec.Tables, t)
 		sec.After = append(sec.After, "r differs between the rows of this table at the digits shown. A linear change of units cannot change r, so check the unit declarations and conversions of this study.")
 	}
 	return sec, nil
@@ -562,17 +632,37 @@ func pushdownSection(s *report.Study, _ string, _ report.Thresholds) (*section, 
 // study's "Not checked" line names which apply.
 var statedOnce = []string{"No covariates were declared", "No grouping variable", "No run order was declared", "The checks of ",
 	// and those that only say a check found nothing, as the numbers table does
-	"Drift in run order is not shown", "The p-values and intervals in this report assume independent rows; in run order the residuals do not clearly hang together"}
+	"Drift in run order is not shown", "The p-values and intervals in this report assume independent rows; in run order the residuals do not clearly hang together",
+	// the observational caution and the observed range (the appendix says
+	// both; each study's data table gives the range, its predictions
+	// table marks a prediction outside it)
+	"These data are observational", "No prediction is supported outside the observed range", "The prediction at ", "The predictions at "}
+
+// restated are the openings of limits that repeat, in other words, a
+// reason the study's "What the data show" already gives under the topic.
+var restated = map[string][]string{
+	"Groups":     {"The levels of ", "Within groups of ", "One line serves all levels of ", "The slopes differ between the levels of "},
+	"Covariates": {"Holding "},
+}
 
 func limitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
 	if s.Findings == nil || len(s.Findings.Limits) == 0 {
 		return nil, nil
 	}
 	var list []string
+	said := map[string]bool{}
+	for _, r := range s.Findings.Reasons {
+		said[r.Topic] = true
+	}
 	for _, l := range s.Findings.Limits {
 		generic := false
 		for _, o := range statedOnce {
 			generic = generic || strings.HasPrefix(l, o)
+		}
+		for topic, openings := range restated {
+			for _, o := range openings {
+				generic = generic || (said[topic] && strings.HasPrefix(l, o))
+			}
 		}
 		if !generic {
 			list = append(list, ascii(l))
@@ -588,18 +678,18 @@ func limitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, er
 func notChecked(s *report.Study) string {
 	var n []string
 	if len(s.Covariates) == 0 && len(s.Partial) == 0 {
-		n = append(n, "lurking variables (no covariates declared)")
+		n = append(n, "covariates")
 	}
 	if s.Group == "" {
-		n = append(n, "differences between groups (no group declared)")
+		n = append(n, "groups")
 	}
 	if s.Order == "" {
-		n = append(n, "drift and dependence in run order (no order declared)")
+		n = append(n, "run order")
 	}
 	if len(n) == 0 {
 		return ""
 	}
-	return "Not checked: " + strings.Join(n, "; ") + "."
+	return "Not checked (none declared): " + strings.Join(n, ", ") + "."
 }
 
 // gateTitle names a gate in words: the analysis's title, or for a report
@@ -640,8 +730,8 @@ func answer(yes bool, p report.Float) string {
 // checksTable answers the screening questions of every study in one
 // table: the verdicts are the findings', the p-values the analysis's.
 func checksTable(studies []report.Study, anchors []string) table {
-	t := table{Caption: "The checks of every study, each a plain question; the term after it names the test (see the glossary). Each check's p is after Holm's adjustment over the study's checks, where it takes part in it",
-		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings' means stray from it? (lack of fit)", "How strong is the dependence of any shape? (distance correlation, 0 to 1)", "Does the scatter change with x? (Breusch–Pagan)", "Drift in run order? (Durbin–Watson, trend)"},
+	t := table{Caption: "The checks of every study, with the test (glossary); p after Holm's adjustment over the study's checks",
+		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings stray from it? (lack of fit)", "Dependence of any shape, 0 to 1 (distance correlation)", "Does the scatter change with x? (Breusch–Pagan)", "Drift in run order? (Durbin–Watson, trend)"},
 		Num:  []bool{false, false, false, false, false, false}}
 	for i := range studies {
 		s := &studies[i]

@@ -3,6 +3,7 @@ package render
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -40,36 +41,46 @@ type page struct {
 	// Glossary defines the terms the tables name after their questions.
 	Appendix []string
 	Glossary []kv
+	// Data says where each study's variables lie.
+	Data table
+	// Plans is the next-run planning of every study, one row each (the
+	// findings' sentences stay in results.json).
+	Plans table
 }
 
 // appendix is said once for the whole report (each study's "Not checked"
 // line names which of the checks it lacks).
 var appendix = []string{
-	"A study that declares no covariates was not checked for a lurking variable; one without a group, for a relationship that differs between groups (lot, machine, shift); one without a run order, for drift over time and for rows that hang together in time, and its p-values and intervals assume independent rows.",
-	"The checks of curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm's adjustment over its checks), not across studies; the distance correlation and the residuals in order of x are screened at alpha without adjustment. A flag from any of them calls for a look at the charts, not a conclusion.",
-	"Strength is graded from |r| at the cut points above, and only where r differs clearly from 0; the cut points are common practice, not a standard.",
-	"Rows are flagged by the three measures of each study's unusual-rows table, each with its cut for that study's number of rows: far from the line (externally studentized residual), pulling the line (Cook's distance), far out in x (leverage). Rows far out in x but close to the line are counted, not named.",
-	"p-values below 0.0001 are printed as \"< 0.0001\"; results.json holds every exact value, and every figure the report leaves out.",
+	"Not checked: without covariates, a lurking variable; without a group, a relationship that differs between groups (lot, machine, shift); without a run order, drift or rows that hang together in time (p-values and intervals then assume independent rows).",
+	"Curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm), not across studies; the distance correlation and the residuals in order of x are screened at alpha unadjusted. A flag calls for a look at the charts, not a conclusion.",
+	"Unusual rows: each study gives its cuts, for its number of rows, off the line (externally studentized residual), pull on the line (Cook's distance) and reach in x (leverage). Rows far out in x but close to the line are counted, not named.",
+	"Charts: the line in its confidence band (a curve, when found, as the main fit) and a LOWESS smooth; circled rows are named. Each row's distance from the line, by the line's value and in run order: a bow, a funnel, a slope or long runs on one side mean the line, an even scatter or a steady run does not fit.",
+	"Shapes: the share of the line's residual sum of squares each removes (negative: it scatters more) and AIC against the line (lower fits better for its coefficients). Fits of ln(y) are on another scale: results.json only.",
+	"p below 0.0001 is printed \"< 0.0001\"; results.json holds every exact value and every figure the report leaves out.",
 }
+
+// observational is said once for every study whose findings carry the
+// observational caution (they are left out of each study's limits).
+const observational = "Observational data show association, not cause: not that changing x would change y. No study supports a prediction outside the observed range of x (see Where the data lie)."
 
 // glossary defines the terms the report uses after its plain questions.
 var glossary = []kv{
-	{"r (Pearson)", "how closely the rows follow a straight line, from -1 to 1; 0 for no straight-line relationship"},
-	{"Slope", "how much y changes per unit of x along the least-squares line, in y units per x unit"},
-	{"Scatter about the line (residual standard deviation)", "how far, typically, a row lies from the line, in y units"},
-	{"R²", "the share of the variation in y that the line accounts for"},
-	{"Confidence interval", "the range that holds the true value in the stated share of repeated samples; the confidence band does the same for the line, and for a prediction it is the range of the mean of many rows at that x"},
-	{"Prediction interval", "the range for one new row at that x: always wider than the confidence interval, and without support outside the observed range of x"},
-	{"p", "how often data this far from \"no relationship\" would arise by chance; adjusted when several are read together"},
+	{"r (Pearson)", "how closely the rows follow a straight line, -1 to 1"},
+	{"Slope", "change in y per unit of x along the least-squares line"},
+	{"Residual SD", "how far, typically, a row lies from the line, in y units"},
+	{"R²", "the share of y's variation a fit follows (r² for the line)"},
+	{"Confidence interval", "holds the true value in the stated share of repeated samples; for a prediction, the mean of many rows at that x"},
+	{"Prediction interval", "the range for one new row at that x"},
+	{"p", "how often data this far from \"no relationship\" would arise by chance"},
 	{"Externally studentized residual", "a row's distance from the line fitted without it, in standard errors"},
-	{"Cook's distance", "how far the whole line moves when the row is left out"},
-	{"Leverage", "how far out in x a row lies, from 1/n to 1; at 1 the row alone sets the slope"},
-	{"Spearman ρ, Kendall τ-b", "correlations of the ranks: they use the order of the values, not their distances"},
-	{"Distance correlation", "a measure of dependence of any shape, 0 only when there is none"},
-	{"Breusch–Pagan", "a test of whether the scatter about the line changes with x"},
-	{"Durbin–Watson", "2 when neighbouring rows stray from the line independently, well below 2 when they stray together"},
-	{"LOWESS", "a smooth curve that follows the rows, drawn to show a shape the line may miss"},
-	{"AIC", "a fit's closeness penalised for its coefficients; lower is better, and only fits of the same y compare"},
+	{"Cook's distance", "how far the line moves when the row is left out"},
+	{"Leverage", "how far out in x a row lies, 1/n to 1"},
+	{"Spearman ρ, Kendall τ-b", "correlations of the ranks"},
+	{"Distance correlation", "dependence of any shape, 0 only when there is none"},
+	{"Breusch–Pagan", "tests whether the scatter about the line changes with x"},
+	{"Durbin–Watson", "2 when neighbouring rows stray independently, well below 2 when together"},
+	{"LOWESS", "a smooth that follows the rows"},
+	{"AIC", "closeness of a fit penalised for its coefficients; lower is better"},
 }
 
 // failedGate is one failed CI gate, for the banner at the top.
@@ -134,10 +145,9 @@ type studyView struct {
 	Verdict  []kv
 	// Status names what the pooled verdict alone would hide (rests on
 	// single rows, reverses within groups, explained by a covariate,
-	// curved); Slope is the line's slope with its unit and interval;
-	// Gates are the CI gates' outcomes, one line each.
+	// curved); Gates are the CI gates' outcomes, one line each (the slope
+	// stands in the summary and the study's numbers).
 	Status   []string
-	Slope    string
 	Gates    []gateLine
 	Top      []*section // the engineer's notes, shown before the detail
 	Figures  []figure
@@ -258,7 +268,7 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 			p.Sources.Rows = append(p.Sources.Rows, []string{d.ID, src.Kind, strings.Join(det, "; ")})
 		}
 	}
-	p.Excluded = table{Caption: "Rows left out of each study, and why",
+	p.Excluded = table{Caption: "Rows left out of each study, and why (the others used every row)",
 		Head: []string{"Study", "Rows used", "Rows left out", "Why"},
 		Num:  []bool{false, true, true, false}}
 	for _, s := range r.Studies {
@@ -279,6 +289,11 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 				w += " (" + strings.Join(miss, ", ") + ")"
 			}
 			why = append(why, w)
+		}
+		// A study that used every row has no line here (its n stands in
+		// its headline and results.json).
+		if len(why) == 0 && s.NMissing == 0 {
+			continue
 		}
 		w := strings.Join(why, "; ")
 		if w == "" {
@@ -303,7 +318,28 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 
 	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(len(r.Studies), m.Adjust, p.Level)}
 	p.RunDate = runDate(r.Generated)
-	p.Appendix, p.Glossary = appendix, glossary
+	p.Appendix, p.Glossary = append([]string(nil), appendix...), glossary
+	for i := range r.Studies {
+		if f := r.Studies[i].Findings; f != nil && slices.ContainsFunc(f.Limits, func(l string) bool { return strings.HasPrefix(l, "These data are observational") }) {
+			p.Appendix = append(p.Appendix[:1], append([]string{observational}, p.Appendix[1:]...)...)
+			break
+		}
+	}
+	// The methods behind each agreement study's figures, said once here.
+	for _, s := range r.Studies {
+		if a := s.Agreement; a != nil && len(a.Assumptions) > 0 {
+			var said []string
+			for _, as := range a.Assumptions {
+				// the error-variance ratio stands in the study's lines table
+				if !strings.HasPrefix(as, "The Deming line takes the ratio") && !strings.HasPrefix(as, "The Deming line of the items' mean readings takes the ratio") {
+					said = append(said, as)
+				}
+			}
+			p.Appendix = append(p.Appendix, "Agreement ("+s.ID+"): "+strings.Join(said, " "))
+		}
+	}
+	p.Plans = plansTable(r.Studies, p.Level)
+	p.Data = dataTable(r.Studies)
 	ids := []string{"manifest " + m.File + " (SHA-256 " + shortHash(m.SHA256) + ")"}
 	for _, d := range r.Datasets {
 		file := d.File
@@ -403,7 +439,7 @@ type summaryRow struct {
 	ID, Title, Link, Class string
 	Finding                string // the findings' headline
 	Status                 string // what the pooled verdict would hide, in words
-	Slope                  string // the line's slope with its unit
+	Slope, SlopeCI         string // the line's slope with its unit; its interval, "(lo to hi)"
 	N                      string
 	R, RCI                 string // "−0.982", "−0.987 to −0.974"
 	P                      string
@@ -441,7 +477,7 @@ func pHead(adjust string) string {
 }
 
 func summaryCaption(n int, adjust, level string) string {
-	c := fmt.Sprintf("Each study's finding, what the pooled verdict alone would hide, the slope with its %s%% interval, and the CI gates", level)
+	c := fmt.Sprintf("Each study's finding, what the pooled verdict alone would hide, the slope (%s%% interval) and the CI gates", level)
 	switch adjust {
 	case "holm":
 		c += fmt.Sprintf("; p adjusted across the %d studies by Holm's method", n)
@@ -472,7 +508,11 @@ func (s summary) Table() table {
 		if r.ExpectNote != "" {
 			exp += ", " + r.ExpectNote
 		}
-		t.Rows = append(t.Rows, []string{r.ID, finding, orDash(r.Slope), exp})
+		slope := orDash(r.Slope)
+		if r.SlopeCI != "" {
+			slope += " " + r.SlopeCI
+		}
+		t.Rows = append(t.Rows, []string{r.ID, finding, slope, exp})
 		t.Classes = append(t.Classes, r.Class)
 		t.Links = append(t.Links, r.Link)
 	}
@@ -538,11 +578,11 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		}
 	}
 	row.Slope = slopeText(s, "")
-	if row.Slope != "" {
-		row.Slope = strings.Replace(row.Slope, "(CI ", "(", 1)
+	if i := strings.Index(row.Slope, " (CI "); i > 0 {
+		row.Slope, row.SlopeCI = row.Slope[:i], "("+row.Slope[i+len(" (CI "):]
 	}
 	if s.Findings != nil && s.Findings.TurnsOver {
-		row.Slope = "none: the curve turns over"
+		row.Slope, row.SlopeCI = "none: the curve turns over", ""
 	}
 	row.Flags = "none"
 	if s.Influence != nil && s.Influence.Counts.Suspect > 0 {
@@ -644,8 +684,9 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		return sv, nil
 	}
 	sv.Status = statusOf(s)
-	sv.Slope = slopeText(s, level)
 	for _, e := range s.Expectations {
+		// What the gate wanted and what it found are the verdict's own
+		// figures: both stay beside the outcome.
 		text := fmt.Sprintf("%s: wanted %s, found %s", gateTitle(e), ascii(e.Want), ascii(e.Got))
 		if !e.OK {
 			text += ". " + capital(ascii(e.Detail)) + "."
@@ -695,9 +736,19 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		if err != nil {
 			return nil, fmt.Errorf("study %q: %w", s.ID, err)
 		}
-		if sec != nil {
-			sv.Sections = append(sv.Sections, sec)
+		if sec == nil {
+			continue
 		}
+		// What single rows do to the line follows the unusual rows under
+		// their heading: one part, not two.
+		if n := len(sv.Sections); n > 0 && sec.Key == "sensitivity" && sv.Sections[n-1].Key == "influence" {
+			in := sv.Sections[n-1]
+			in.Title = "Unusual rows, and leaving one out"
+			in.Tables = append(in.Tables, sec.Tables...)
+			in.After = append(in.After, sec.After...)
+			continue
+		}
+		sv.Sections = append(sv.Sections, sec)
 	}
 	return sv, nil
 }
@@ -716,4 +767,56 @@ func covariateLabels(s *report.Study, columns []string) []string {
 		out = append(out, label)
 	}
 	return out
+}
+
+// plansTable gives every study's planning figures in one table: each
+// interval's half-width now and its target with the rows a next run
+// needs to reach it, and the power to detect r (the findings' sentences
+// are in results.json, "plan.statements").
+func plansTable(studies []report.Study, level string) table {
+	t := table{Caption: "Planning the next run: rows needed, at this run's r, scatter and spread of x, for r's and the slope's " + level + "% intervals to reach their targets (set: in the manifest), and rows to detect r (Fisher z), with this run's power where the r to detect is set; an agreement study plans the " + level + "% intervals of its limits of agreement instead (exact, noncentral t)",
+		Head: []string{"Study", "r: ± now → target", "Rows", "Slope: ± now → target", "Rows", "Rows to detect r (power)", "Limits of agreement: ± now → target", "Items"},
+		Num:  []bool{false, true, true, true, true, true, true, true}}
+	rows := func(n int) string {
+		if n <= 0 {
+			return na
+		}
+		return itoa(n)
+	}
+	set := func(from string) string {
+		if from == "declared" {
+			return " (set)"
+		}
+		return ""
+	}
+	for _, s := range studies {
+		p := s.Plan
+		if p == nil || s.Error != nil {
+			continue
+		}
+		r, nR := na, na
+		if p.RHalfWidth.Valid() {
+			r, nR = "±"+num(p.RHalfWidthNow)+" → ±"+num(p.RHalfWidth)+set(p.RHalfWidthFrom), rows(p.NForR)
+		}
+		slope, nSlope := na, na
+		if p.SlopeHalfWidth.Valid() {
+			slope, nSlope = "±"+num(p.SlopeHalfWidthNow)+" → ±"+num(p.SlopeHalfWidth)+set(p.SlopeHalfWidthFrom), rows(p.NForSlope)
+		}
+		detect := na
+		if p.NForPower > 0 {
+			detect = rows(p.NForPower) + " for " + short(float64(p.Power))
+			if p.DetectRFrom == "declared" {
+				detect = "r = " + num(p.DetectR) + " (set): " + detect
+				if p.PowerNow.Valid() {
+					detect += "; now " + num(p.PowerNow)
+				}
+			}
+		}
+		limits, nLimits := na, na
+		if p.LimitsHalfWidth.Valid() {
+			limits, nLimits = "±"+num(p.LimitsHalfWidthNow)+" → ±"+num(p.LimitsHalfWidth)+paren(s.X.Symbol)+set(p.LimitsHalfWidthFrom), rows(p.NForLimits)
+		}
+		t.Rows = append(t.Rows, []string{s.ID, r, nR, slope, nSlope, detect, limits, nLimits})
+	}
+	return t
 }

@@ -108,8 +108,8 @@ func DifferenceMean(s *report.Study, id, level string) *Figure {
 	}
 	f.Desc = fmt.Sprintf("Difference %s minus %s against the mean of the two for %d items, with the bias, the limits of agreement and their %s%% intervals.",
 		varName(s.Y), varName(s.X), p.N, level)
-	f.Caption = fmt.Sprintf("Difference against mean (%s − %s). Solid: bias; dashed: limits of agreement (bias ± %s SD), each in its %s%% interval (shaded); thin dashed: zero.",
-		varName(s.Y), varName(s.X), g4(float64(a.K)), level)
+	f.Caption = fmt.Sprintf("Difference %s − %s against their mean. Solid: bias; dashed: limits of agreement, each in its %s%% interval (shaded).",
+		varName(s.Y), varName(s.X), level)
 	if a.Acceptable.Valid() {
 		f.Caption += " Dotted: the acceptable difference."
 	}
@@ -145,7 +145,7 @@ func MethodPair(s *report.Study, id string) *Figure {
 		f.Lines = append(f.Lines, Line{Name: "Deming line", X: []float64{lo, hi}, Y: []float64{c + b*lo, c + b*hi}, Role: RoleFit})
 	}
 	f.Desc = fmt.Sprintf("%s against %s for %d items, with the identity line and the Deming line.", varName(s.Y), varName(s.X), p.N)
-	f.Caption = fmt.Sprintf("%s against %s. Thin dashed: identity (the methods agree exactly); solid: the Deming line.", varName(s.Y), varName(s.X))
+	f.Caption = "Thin dashed: identity (exact agreement); solid: the Deming line."
 	if a.XReadings > 1 || a.YReadings > 1 {
 		f.Caption += " Each point is an item's mean reading per method."
 		f.Desc += " Each point is an item's mean reading per method."

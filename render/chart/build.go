@@ -259,13 +259,13 @@ func Scatter(s *report.Study, id, level string) *Figure {
 	if curved {
 		f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the parabola the analysis found as the main fit, the straight line for comparison and a LOWESS curve.%s %s",
 			p.N, f.YLabel, f.XLabel, groups, markNames(f.Marked))
-		f.Caption = fmt.Sprintf("%s against %s. Solid: the parabola, the main fit (the form is curved); grey dashed: the straight line, for comparison; dashed: LOWESS, a smooth that follows the rows.",
-			varName(s.Y), varName(s.X))
+		// What each line is stands once in the appendix (Reading the
+		// charts); the caption names only what this chart adds.
+		f.Caption = "Solid: the parabola, the main fit; grey dashed: the line."
 	} else {
 		f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the least-squares line, its %s%% confidence band and a LOWESS curve.%s %s",
 			p.N, f.YLabel, f.XLabel, level, groups, markNames(f.Marked))
-		f.Caption = fmt.Sprintf("%s against %s. Solid line: least squares, in its %s%% confidence band; dashed: LOWESS, a smooth that follows the rows.",
-			varName(s.Y), varName(s.X), level)
+		f.Caption = fmt.Sprintf("Least-squares line in its %s%% band; dashed: LOWESS.", level)
 		if len(p.Curve) > 0 {
 			f.Caption += " Dotted: parabola."
 		}
@@ -382,7 +382,7 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
 		XLabel: "Fitted value: " + AxisTitle(s.Y), YLabel: residualTitle(s),
-		Title:  "Distance from the line against the line's value",
+		Title:  "Distance from the line, by the line's value",
 		Points: series(p, pickFitted),
 		Marked: marks(p, markFitted),
 		Lines:  []Line{zeroLine(spanOf(p, p.ResidFitted, pickFitted))},
@@ -394,7 +394,7 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	}
 	f.Dense, f.Density = dense(p, p.ResidFitted)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows against the fitted values, with a dashed line at zero. %s", p.N, markNames(f.Marked))
-	f.Caption = "Each row's distance from the straight line (residual) against the line's value there; dashed: on the line. A bow or a funnel means the line, or an even scatter about it, does not describe the data."
+	f.Caption = "Distance from the line, by the line's value."
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))
 		f.Desc += denseNote(p.N, len(f.Marked))
@@ -426,7 +426,7 @@ func ResidualsOrder(s *report.Study, id string) *Figure {
 	}
 	f.Dense, f.Density = dense(p, p.ResidOrder)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows in the order of %s, with a dashed line at zero. %s", p.N, order, markNames(f.Marked))
-	f.Caption = fmt.Sprintf("Drift strip: each row's distance from the line, in the order of %s; dashed: on the line. A slope or long stretches on one side mean the relationship drifted during the run.", order)
+	f.Caption = fmt.Sprintf("Drift strip, in the order of %s.", order)
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))
 		f.Desc += denseNote(p.N, len(f.Marked))

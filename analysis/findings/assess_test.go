@@ -105,7 +105,7 @@ func TestAssessLinearStatements(t *testing.T) {
 		t.Fatalf("got form %q direction %q strength %q, want linear negative strong", f.Form, f.Direction, f.Strength)
 	}
 	text := all(f)
-	for _, want := range []string{"Shrinkage falls with melt temperature", "r = −0.82", "95% CI", "n = 50",
+	for _, want := range []string{"Shrinkage falls with melt temperature", "r = -0.82", "95% CI", "n = 50",
 		"% per °C", "association, not cause", "outside the observed range of melt temperature (0 to 10 °C)",
 		"No covariates were declared", "No grouping variable", "No run order was declared", "common practice"} {
 		if !strings.Contains(text, want) {
@@ -208,7 +208,7 @@ func TestAssessOutlierDriven(t *testing.T) {
 	s = study(0.3, 0.01)
 	s.Sensitivity.LooRMin = -0.02
 	if f = Assess(s, ctx); !f.OutlierDriven {
-		t.Errorf("leave-one-out r down to −0.02 with r 0.3: outlier_driven false")
+		t.Errorf("leave-one-out r down to -0.02 with r 0.3: outlier_driven false")
 	}
 }
 
@@ -258,7 +258,7 @@ func TestAssessCovariate(t *testing.T) {
 	// the pooled r: too few rows to tell, not explained.
 	s.Partial[0].R, s.Partial[0].CILow, s.Partial[0].CIHigh, s.Partial[0].P = 0.45, -0.02, 0.75, 0.06
 	if f := Assess(s, ctx); len(f.ExplainedBy) != 0 {
-		t.Errorf("partial r 0.45 (−0.02 to 0.75) with r 0.6: explained_by %v, want none", f.ExplainedBy)
+		t.Errorf("partial r 0.45 (-0.02 to 0.75) with r 0.6: explained_by %v, want none", f.ExplainedBy)
 	}
 	s.Partial[0].R, s.Partial[0].CILow, s.Partial[0].CIHigh, s.Partial[0].P = 0.05, -0.23, 0.32, 0.7
 	text := all(f)
@@ -431,7 +431,7 @@ func TestAssessReadsXOrderFromDiagnostics(t *testing.T) {
 	s.Diagnostics.BreuschPagan.P = 0.001
 	s.Diagnostics.SpreadRho = -0.5
 	if f := Assess(s, ctx); !strings.Contains(all(f), "shrinks with melt temperature") {
-		t.Errorf("SpreadRho −0.5: the spread should shrink:\n%s", all(f))
+		t.Errorf("SpreadRho -0.5: the spread should shrink:\n%s", all(f))
 	}
 }
 
@@ -441,7 +441,7 @@ func TestAssessLeaveOneOutDigits(t *testing.T) {
 	s := study(-0.98, 1e-9)
 	s.Sensitivity.LooRMin, s.Sensitivity.LooRMinRow = -0.98191, "52"
 	s.Sensitivity.LooRMax, s.Sensitivity.LooRMaxRow = -0.98149, "83"
-	if text := all(Assess(s, ctx)); !strings.Contains(text, "r ranges from −0.982 (without row 52) to −0.981 (without row 83)") {
+	if text := all(Assess(s, ctx)); !strings.Contains(text, "r ranges from -0.982 (without row 52) to -0.981 (without row 83)") {
 		t.Errorf("leave-one-out range not separated:\n%s", text)
 	}
 }
@@ -488,7 +488,7 @@ func TestAssessVerdictReasons(t *testing.T) {
 
 	// Clear negative r.
 	f = Assess(study(-0.82, 1e-6), ctx)
-	if !strings.HasPrefix(f.DirectionWhy, "Negative: r = −0.82") || !strings.HasPrefix(f.StrengthWhy, "Strong: |r| = 0.82, at or above 0.7") ||
+	if !strings.HasPrefix(f.DirectionWhy, "Negative: r = -0.82") || !strings.HasPrefix(f.StrengthWhy, "Strong: |r| = 0.82, at or above 0.7") ||
 		!strings.HasPrefix(f.FormWhy, "Linear: ") {
 		t.Errorf("negative line:\n%s\n%s\n%s", f.DirectionWhy, f.StrengthWhy, f.FormWhy)
 	}
@@ -509,7 +509,8 @@ func TestPvalVs(t *testing.T) {
 		{0.0504, 0.05, "p = 0.050"}, // not below 0.05, and does not print below it
 		{0.012, 0.05, "p = 0.012"},
 		{0.0996, 0.1, "p = 0.0996"},
-		{0.0004, 0.05, "p < 0.001"},
+		{0.0004, 0.05, "p = 0.0004"},
+		{0.00004, 0.05, "p < 0.0001"},
 		{0.0004, 0.0001, "p = 4.00e-04"},
 		{0.5, 0.05, "p = 0.50"},
 	} {
@@ -578,7 +579,7 @@ func TestAssessDriftParts(t *testing.T) {
 	s.Diagnostics.DurbinWatson = 1.26
 	s.Diagnostics.OrderTrend = &report.OrderTrend{Slope: 0.1, P: 0.048, R: 0.4}
 	f := Assess(s, ctx)
-	dwp := 0.5 * math.Erfc(-(1.26-2)*math.Sqrt(21)/2/math.Sqrt2) // lower-tail normal p, mean 2, variance 4/n: Φ(−1.696)
+	dwp := 0.5 * math.Erfc(-(1.26-2)*math.Sqrt(21)/2/math.Sqrt2) // lower-tail normal p, mean 2, variance 4/n: Φ(-1.696)
 	trend, dw, drift := checkNamed(f, "drift-trend"), checkNamed(f, "drift-dw"), checkNamed(f, "drift")
 	switch {
 	case f.Drift:
@@ -601,11 +602,11 @@ func TestAssessRowsStronger(t *testing.T) {
 	s.Sensitivity.RWithoutFlagged, s.Sensitivity.PWithoutFlagged = -0.71, 1e-8
 	f := Assess(s, ctx)
 	if f.OutlierDriven || f.Strength != "moderate" || f.Rows != "stronger" {
-		t.Errorf("r −0.6, −0.71 without the flagged row: outlier-driven %v strength %q rows %q, want false moderate stronger", f.OutlierDriven, f.Strength, f.Rows)
+		t.Errorf("r -0.6, -0.71 without the flagged row: outlier-driven %v strength %q rows %q, want false moderate stronger", f.OutlierDriven, f.Strength, f.Rows)
 	}
 	s.Sensitivity.RWithoutFlagged = -0.62
 	if f := Assess(s, ctx); f.Rows != "stands" {
-		t.Errorf("r −0.6, −0.62 without the flagged row: rows %q, want stands", f.Rows)
+		t.Errorf("r -0.6, -0.62 without the flagged row: rows %q, want stands", f.Rows)
 	}
 }
 

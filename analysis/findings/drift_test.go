@@ -107,7 +107,7 @@ func TestDriftIgnoresAlternation(t *testing.T) {
 		t.Errorf("Durbin–Watson 1.47 at n = 50: drift reported")
 	}
 	s.Diagnostics.DurbinWatson = 1.0 // one-sided p 0.0002
-	if f := Assess(s, ctx); !f.Drift || !containsAll(all(f), "Durbin–Watson 1, one-sided p < 0.001", "trend p = 0.60",
+	if f := Assess(s, ctx); !f.Drift || !containsAll(all(f), "Durbin–Watson 1, one-sided p = 0.0002", "trend p = 0.60",
 		"after Holm's adjustment over this study's 3 checks, p = 0.001") {
 		t.Errorf("Durbin–Watson 1.0 at n = 50: drift %v\n%s", f.Drift, all(f))
 	}

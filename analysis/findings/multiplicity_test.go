@@ -58,14 +58,14 @@ func TestAdjustmentFactorSaysApproximate(t *testing.T) {
 }
 
 // TestPBothOneFigureWhenAlike: where the adjusted and the unadjusted p
-// print alike ("p < 0.001"), the sentence gives the figure once; where the
+// print alike ("p < 0.0001"), the sentence gives the figure once; where the
 // adjustment changes it, both are shown.
 func TestPBothOneFigureWhenAlike(t *testing.T) {
 	s := study(0.9, 1e-9)
 	s.Pearson.PAdjusted = 6e-9
 	f := Assess(s, ctx)
-	if txt := f.DirectionWhy; !strings.Contains(txt, "p < 0.001, adjusted or not") || strings.Contains(txt, "unadjusted") {
-		t.Errorf("both p below 0.001: want the figure once, got:\n%s", txt)
+	if txt := f.DirectionWhy; !strings.Contains(txt, "p < 0.0001, adjusted or not") || strings.Contains(txt, "unadjusted") {
+		t.Errorf("both p below 0.0001: want the figure once, got:\n%s", txt)
 	}
 	s = study(0.5, 0.004)
 	s.Pearson.PAdjusted = 0.012

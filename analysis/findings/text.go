@@ -174,8 +174,10 @@ func pval(p float64) string {
 	switch {
 	case math.IsNaN(p):
 		return "p undefined"
+	case p < 0.0001:
+		return "p < 0.0001" // the exact value stays in results.json
 	case p < 0.001:
-		return "p < 0.001"
+		return "p = " + strconv.FormatFloat(p, 'f', 4, 64)
 	case p < 0.1:
 		return "p = " + strconv.FormatFloat(p, 'f', 3, 64)
 	default:
@@ -183,13 +185,10 @@ func pval(p float64) string {
 	}
 }
 
-// minus uses the typographic minus sign for negative numbers.
-func minus(s string) string {
-	if strings.HasPrefix(s, "-") {
-		return "−" + s[1:]
-	}
-	return s
-}
+// minus writes a negative number with the ASCII hyphen-minus, the one
+// convention of every output (a typographic minus pastes into a
+// spreadsheet as text, not as a number).
+func minus(s string) string { return s }
 
 // withUnit is a value followed by its unit symbol (units.Symbol), if any.
 func withUnit(v float64, u string) string {

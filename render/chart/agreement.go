@@ -49,9 +49,10 @@ func flat(name string, y, lo, hi float64, r Role) Line {
 	return Line{Name: name, X: []float64{lo, hi}, Y: []float64{y, y}, Role: r}
 }
 
-// g4 writes v with four significant digits and a typographic minus.
+// g4 writes v with four significant digits and the ASCII minus of every
+// output.
 func g4(v float64) string {
-	return strings.Replace(strconv.FormatFloat(v, 'g', 4, 64), "-", "−", 1)
+	return strconv.FormatFloat(v, 'g', 4, 64)
 }
 
 // denseItems says the items are drawn as density cells.

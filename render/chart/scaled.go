@@ -54,7 +54,7 @@ func scaledAxis(a Axis, scale string, target int) Axis {
 	out := Axis{Lo: a.Lo, Hi: a.Hi, Step: a.Step}
 	for _, v := range vals {
 		out.Ticks = append(out.Ticks, fwd(v))
-		out.Labels = append(out.Labels, strings.ReplaceAll(recordedLabel(v), "-", "−"))
+		out.Labels = append(out.Labels, recordedLabel(v)) // ASCII minus, as every axis
 	}
 	return out
 }

@@ -117,8 +117,8 @@ expect = { agree = true }`)+
 			agree = &s.Expectations[i]
 		}
 	}
-	if agree == nil || agree.OK || agree.Got != string(report.NotWithin) {
-		t.Errorf("expect.agree: %+v; want a failed gate with got %q", agree, report.NotWithin)
+	if agree == nil || agree.OK || !strings.HasPrefix(agree.Got, "they do not agree: limits ") || agree.Title != "the two methods agree within ±40 L/min" {
+		t.Errorf("expect.agree: %+v; want a failed gate named in words, with got %q", agree, "they do not agree")
 	}
 	if s.Plan == nil || len(s.Plan.Statements) == 0 || len(a.Statements) == 0 {
 		t.Error("no plan or no agreement statements")

@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"bivar/analysis/report"
+	"bivar/analysis/units"
 )
 
 // Measurement fills the verdicts, statements and assumptions of s's
@@ -346,8 +347,18 @@ func planAgreementStatements(p *report.Plan, s *report.Study, conf string, need 
 // true holds when the verdict is report.AgreeWithin; want = false holds
 // when it is not (the methods are expected to differ).
 func AgreeExpectation(s *report.Study, want bool) report.Expectation {
-	e := report.Expectation{Name: "agree", Want: strconv.FormatBool(want)}
+	e := report.Expectation{Name: "agree", Want: strconv.FormatBool(want), Title: "the two methods agree within the acceptable difference"}
 	a := s.Agreement
+	sym := s.X.Symbol
+	if a != nil && a.Unit != "" {
+		sym = units.Symbol(a.Unit)
+	}
+	if a != nil && a.Acceptable.Valid() {
+		e.Title = "the two methods agree within ±" + withUnit(float64(a.Acceptable), sym)
+		if !want {
+			e.Title = "the two methods are not shown to agree within ±" + withUnit(float64(a.Acceptable), sym)
+		}
+	}
 	switch {
 	case s.Error != nil:
 		e.Got, e.Detail = "not computed", "the study did not run: "+*s.Error
@@ -356,11 +367,26 @@ func AgreeExpectation(s *report.Study, want bool) report.Expectation {
 		e.Got, e.Detail = "not computed", "the study has no agreement figures"
 		return e
 	}
-	v := string(a.Verdict)
-	if v == "" {
-		v = "undefined"
+	verdict := "undefined"
+	switch a.Verdict {
+	case report.AgreeWithin:
+		verdict = "they agree"
+	case report.NotWithin:
+		verdict = "they do not agree"
+	case report.Undecided:
+		verdict = "undecided"
 	}
-	e.Got = v
+	u := sym
+	e.Got = verdict
+	if a.Lower.Valid() && a.Upper.Valid() {
+		e.Got = fmt.Sprintf("%s: limits %s to %s, their intervals reaching %s to %s", verdict, num(float64(a.Lower)), num(float64(a.Upper)),
+			num(float64(a.LowerLow)), withUnit(float64(a.UpperHigh), u))
+	}
+	if want {
+		e.Want = "both limits of agreement, with their intervals, inside the acceptable difference"
+	} else {
+		e.Want = "not both limits of agreement, with their intervals, inside the acceptable difference"
+	}
 	e.OK = (a.Verdict == report.AgreeWithin) == want
 	if len(a.Statements) > 0 {
 		e.Detail = a.Statements[0]

@@ -1195,6 +1195,12 @@ func (f *facts) limits(out *report.Findings) {
 	if s.Describe != nil {
 		rangeText = " (" + span(float64(s.Describe.X.Min), float64(s.Describe.X.Max), f.xSym) + ")"
 	}
+	if s.Kind == "agreement" {
+		// Two readings of the same items: no cause to read and no x to
+		// predict from; what may not be concluded is said of the limits.
+		add("The agreement holds for items like these, over the observed range of %s%s; it says nothing of items or readings outside it.", x, rangeText)
+		return
+	}
 	switch f.designName() {
 	case RandomizedExperiment:
 		add("The runs were randomised: within the tested range of %s%s, the data support a causal reading of the effect of %s on %s.", x, rangeText, x, y)

@@ -21,11 +21,19 @@ const (
 // up to report.PlotPointsMax, else density grids; the named rows marked.
 // lv and gidx are the group levels and each row's index into them
 // (levels); nil without a group.
-func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.LineFit, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {
+//
+// quad is the quadratic fit (nil without one): its fitted values and
+// residuals go beside the line's, for assess to put in place when the form
+// is curved and the curve is the main fit.
+func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.LineFit, quad *stats.Regression, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {
 	n := len(x)
-	p := &report.Plot{N: n}
+	p := &report.Plot{N: n, ResidualsOf: "line"}
 	resid := line.Residuals // data order (analyze)
 	fittedAt := func(i int) float64 { return line.FittedAt(x[i]) }
+	cFitted := func(i int) float64 { return math.NaN() }
+	if quad != nil {
+		cFitted = func(i int) float64 { return quad.FittedAt(x[i]) }
+	}
 	if gidx != nil {
 		p.Levels = lv
 		p.LevelCounts = make([]int, len(p.Levels))
@@ -43,7 +51,8 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.Line
 	if n <= report.PlotPointsMax {
 		p.Points = make([]report.PlotPoint, n)
 		for i := range n {
-			pt := report.PlotPoint{X: x[i], Y: y[i], Fitted: fittedAt(i), Residual: resid[i], Order: math.NaN()}
+			cf := cFitted(i)
+			pt := report.PlotPoint{X: x[i], Y: y[i], Fitted: fittedAt(i), Residual: resid[i], CFitted: cf, CResidual: y[i] - cf, Order: math.NaN()}
 			if cc.order != nil {
 				pt.Order = cc.order[i]
 			}
@@ -61,6 +70,13 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.Line
 		if cc.order != nil {
 			p.ResidOrder = grid(cc.order, resid, gridNX, gridNY)
 		}
+		if quad != nil {
+			cResid := func(i int) float64 { return y[i] - cFitted(i) }
+			p.CurveResidFitted = gridAt(n, cFitted, cResid, gridNX, gridNY)
+			if cc.order != nil {
+				p.CurveResidOrder = gridAt(n, func(i int) float64 { return cc.order[i] }, cResid, gridNX, gridNY)
+			}
+		}
 	}
 	lo, hi := slices.Min(x), slices.Max(x)
 	k := cfg.BandPoints
@@ -76,7 +92,8 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.Line
 	p.Lowess = lowessCurve(lx, ly, cfg)
 	for k, pt := range inf.Points {
 		i := pt.Index
-		m := report.Marked{Row: pt.Row, X: x[i], Y: y[i], Fitted: fittedAt(i), Residual: resid[i], Order: math.NaN(), Label: k < report.LabelMax}
+		cf := cFitted(i)
+		m := report.Marked{Row: pt.Row, X: x[i], Y: y[i], Fitted: fittedAt(i), Residual: resid[i], CFitted: cf, CResidual: y[i] - cf, Order: math.NaN(), Label: k < report.LabelMax}
 		if cc.order != nil {
 			m.Order = cc.order[i]
 		}

@@ -296,7 +296,7 @@ func analyze(in Input, cfg Config) report.Study {
 
 	s.UnitInvariance = unitInvariance(in, x, y, pc.R, line)
 	s.Predictions = predictions(line, in.PredictAt, s.Describe.X, conf)
-	s.Plot = plotData(x, y, cc, lv, gidx, line, s.Influence, lx, ly, conf, cfg)
+	s.Plot = plotData(x, y, cc, lv, gidx, line, side.quad, s.Influence, lx, ly, conf, cfg)
 	lowessExtremes(s.Diagnostics.Lowess, s.Plot.Lowess)
 	s.Approximations = approximations(&s, cfg)
 	emptyLists(&s)
@@ -358,10 +358,27 @@ func assess(s *report.Study, cfg Config) {
 		return
 	}
 	s.Findings = findings.Assess(s, findings.Context{Alpha: cfg.Alpha, Design: cfg.Design, Thresholds: cfg.Thresholds})
-	if s.Plot != nil {
-		s.Plot.Curve = nil
+	if p := s.Plot; p != nil {
+		p.Curve = nil
 		if s.Findings != nil && s.Findings.Form == "curved" {
-			s.Plot.Curve = quadraticCurve(s, cfg.CurvePoints)
+			p.Curve = quadraticCurve(s, cfg.CurvePoints)
+			// The curve is the main fit: the residual charts show the
+			// distance from it, not from the straight line.
+			haveCurve := p.CurveResidFitted != nil || len(p.Points) > 0 && !math.IsNaN(p.Points[0].CFitted)
+			if p.ResidualsOf == "line" && haveCurve {
+				for i := range p.Points {
+					q := &p.Points[i]
+					q.Fitted, q.Residual = q.CFitted, q.CResidual
+				}
+				for i := range p.Marked {
+					m := &p.Marked[i]
+					m.Fitted, m.Residual = m.CFitted, m.CResidual
+				}
+				if p.Points == nil {
+					p.ResidFitted, p.ResidOrder = p.CurveResidFitted, p.CurveResidOrder
+				}
+				p.ResidualsOf = "curve"
+			}
 		}
 	}
 }

@@ -799,6 +799,14 @@ type Plot struct {
 	// residual against fitted value and residual against run order (nil
 	// without an order). nil at or below PlotPointsMax.
 	Scatter, ResidFitted, ResidOrder *Grid
+	// ResidualsOf says which fit the residuals above (and those of Points
+	// and Marked) are taken from: "line", or "curve" when the form is
+	// curved and the quadratic is the main fit (assess puts the curve's in
+	// place from CurveResid*, CFitted and CResidual).
+	ResidualsOf string
+	// The quadratic's fitted values and residuals, binned like ResidFitted
+	// and ResidOrder above PlotPointsMax; nil without a quadratic.
+	CurveResidFitted, CurveResidOrder *Grid
 
 	Band   []BandPoint
 	Lowess []XY // LOWESS curve, sorted by x
@@ -813,6 +821,7 @@ type Plot struct {
 // PlotPoint is one row as the charts draw it.
 type PlotPoint struct {
 	X, Y, Fitted, Residual float64
+	CFitted, CResidual     float64 // the quadratic's; NaN without one
 	Order                  float64 // run order; NaN when the study has none
 	Group                  int     // index into Plot.Levels; 0 when no group
 }
@@ -821,6 +830,7 @@ type PlotPoint struct {
 type Marked struct {
 	Row                    string
 	X, Y, Fitted, Residual float64
+	CFitted, CResidual     float64 // the quadratic's; NaN without one
 	Order                  float64 // NaN when the study has no order
 	Label                  bool
 }

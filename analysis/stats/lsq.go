@@ -480,6 +480,23 @@ func (r Regression) Predict(z []float64, conf float64) (fit, confLow, confHigh, 
 	return fit, fit - hc, fit + hc, fit - hp, fit + hp
 }
 
+// FittedAt returns the fitted value of a Polynomial fit at x (Predict's
+// fit, without the intervals): computed in the centred and scaled powers
+// of t = (x − c)/s the fit was made in, so it keeps its digits where x is
+// far from 0. It panics for a fit that Polynomial did not make.
+func (r Regression) FittedAt(x float64) float64 {
+	if r.poly == nil {
+		panic("stats: Regression.FittedAt: not a Polynomial fit")
+	}
+	t := (x - r.poly.c) / r.poly.s
+	f, v := r.ylo, 1.0
+	for k := 0; k < r.p; k++ {
+		v *= t
+		f += r.b[k] * ((v - r.means[k]) - r.mlo[k])
+	}
+	return r.ymean + f
+}
+
 // Polynomial fits y = b0 + b1·x + b2·x² + … + b_d·x^d by least squares and
 // reports the coefficients of the raw powers of x.
 //

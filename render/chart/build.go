@@ -372,17 +372,36 @@ func spanOf(p *report.Plot, g *report.Grid, pick func(report.PlotPoint) (float64
 	return lo, hi
 }
 
-// ResidualsFitted plots the straight line's residuals against its fitted
-// values. It returns nil when the study has none.
+// fitName names the fit whose residuals the plot data hold: "curve" when
+// the analysis put the quadratic's in place (report.Plot.ResidualsOf),
+// else "line"; fitLong says it in full.
+func fitName(p *report.Plot) string {
+	if p.ResidualsOf == "curve" {
+		return "curve"
+	}
+	return "line"
+}
+
+func fitLong(p *report.Plot) string {
+	if p.ResidualsOf == "curve" {
+		return "quadratic curve"
+	}
+	return "straight line"
+}
+
+// ResidualsFitted plots the main fit's residuals (the straight line's, or
+// the curve's when the form is curved) against its fitted values. It
+// returns nil when the study has none.
 func ResidualsFitted(s *report.Study, id string) *Figure {
 	p := s.Plot
 	if p == nil || p.N == 0 || (p.Points == nil && p.ResidFitted == nil) {
 		return nil
 	}
+	fit := fitName(p)
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
 		XLabel: "Fitted value: " + AxisTitle(s.Y), YLabel: residualTitle(s),
-		Title:  "Distance from the line, by the line's value",
+		Title:  "Distance from the " + fit + ", by the " + fit + "'s value",
 		Points: series(p, pickFitted),
 		Marked: marks(p, markFitted),
 		Lines:  []Line{zeroLine(spanOf(p, p.ResidFitted, pickFitted))},
@@ -393,8 +412,8 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 		f.XLabel = "Fitted value: " + AxisTitle(report.Variable{Label: "y", Symbol: s.Y.Symbol, Scale: s.Y.Scale})
 	}
 	f.Dense, f.Density = dense(p, p.ResidFitted)
-	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows against the fitted values, with a dashed line at zero. %s", p.N, markNames(f.Marked))
-	f.Caption = "Distance from the line, by the line's value."
+	f.Desc = fmt.Sprintf("Residuals of the least-squares %s for %d rows against the fitted values, with a dashed line at zero. %s", fitLong(p), p.N, markNames(f.Marked))
+	f.Caption = "Distance from the " + fit + ", by the " + fit + "'s value."
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))
 		f.Desc += denseNote(p.N, len(f.Marked))
@@ -418,14 +437,14 @@ func ResidualsOrder(s *report.Study, id string) *Figure {
 	f := &Figure{
 		ID: id, Width: ScatterW, Height: StripH,
 		XLabel: xl, YLabel: residualTitle(s),
-		Title:  "Drift strip: distance from the line in run order",
+		Title:  "Drift strip: distance from the " + fitName(p) + " in run order",
 		Points: series(p, pickOrder),
 		Marked: marks(p, markOrder),
 		Lines:  []Line{zeroLine(spanOf(p, p.ResidOrder, pickOrder))},
 		Levels: p.Levels,
 	}
 	f.Dense, f.Density = dense(p, p.ResidOrder)
-	f.Desc = fmt.Sprintf("Residuals of the least-squares line for %d rows in the order of %s, with a dashed line at zero. %s", p.N, order, markNames(f.Marked))
+	f.Desc = fmt.Sprintf("Residuals of the least-squares %s for %d rows in the order of %s, with a dashed line at zero. %s", fitLong(p), p.N, order, markNames(f.Marked))
 	f.Caption = fmt.Sprintf("Drift strip, in the order of %s.", order)
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))

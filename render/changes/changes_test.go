@@ -118,7 +118,7 @@ func TestHTML(t *testing.T) {
 				"Changed beyond chance (adjusted p below 0.05):",
 				"<h2>CI gates</h2>",
 				"1 of 1 CI gates changed its outcome; 1 now fails that held before.",
-				`<svg`, "Old run dashed and grey, new run solid",
+				`<svg`, "Old run in long dashes, new run solid",
 				`href="#study-shrink-vs-melt"`, `id="study-shrink-vs-melt"`,
 			} {
 				if !strings.Contains(out, want) && !strings.Contains(out, template.HTMLEscapeString(want)) && !strings.Contains(out, strings.ReplaceAll(template.HTMLEscapeString(want), "+", "&#43;")) {

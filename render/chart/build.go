@@ -261,11 +261,11 @@ func Scatter(s *report.Study, id, level string) *Figure {
 			p.N, f.YLabel, f.XLabel, groups, markNames(f.Marked))
 		// What each line is stands once in the appendix (Reading the
 		// charts); the caption names only what this chart adds.
-		f.Caption = "Solid: the parabola, the main fit; grey dashed: the line."
+		f.Caption = "Solid: the parabola, the main fit; long dashes: the straight line; dash-dot: LOWESS."
 	} else {
 		f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the least-squares line, its %s%% confidence band and a LOWESS curve.%s %s",
 			p.N, f.YLabel, f.XLabel, level, groups, markNames(f.Marked))
-		f.Caption = fmt.Sprintf("Least-squares line in its %s%% band; dashed: LOWESS.", level)
+		f.Caption = fmt.Sprintf("Least-squares line in its %s%% band; dash-dot: LOWESS.", level)
 		if len(p.Curve) > 0 {
 			f.Caption += " Dotted: parabola."
 		}

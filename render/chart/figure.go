@@ -17,7 +17,7 @@ type Role int
 
 const (
 	RoleFit     Role = iota // least-squares line: solid, heavy
-	RoleLowess              // LOWESS: dashed
+	RoleLowess              // LOWESS: dash-dot
 	RoleCurve               // curved model (quadratic): dotted
 	RoleConf                // confidence band: darker fill
 	RolePred                // prediction band: lighter fill, dashed edges

@@ -44,6 +44,6 @@ func Runs(id string, x, y report.Variable, level string, old, new RunLine) *Figu
 	}
 	f.Desc = fmt.Sprintf("Two least-squares lines of %s against %s, each over the x range its run observed, with %s%% confidence bands: %s dashed and grey, %s solid.",
 		f.YLabel, f.XLabel, level, old.Name, new.Name)
-	f.Caption = fmt.Sprintf("Old run dashed and grey, new run solid; each line is drawn over the x range its run observed, with its %s%% confidence band. Where the bands part, the runs' lines differ by more than their uncertainty.", level)
+	f.Caption = fmt.Sprintf("Old run in long dashes, new run solid; each line is drawn over the x range its run observed, with its %s%% confidence band. Where the bands part, the runs' lines differ by more than their uncertainty.", level)
 	return f
 }

@@ -143,7 +143,10 @@ func (d *svgDrawer) roleStyle(r Role) (stroke string, width float64, dash string
 	case RoleFit:
 		return d.pal.Fit, 2, ""
 	case RoleLowess:
-		return d.pal.Lowess, 1.8, "7 4"
+		// dash-dot: told apart from the old or comparison line's long
+		// dashes ("8 4") and the curve's dots ("2 3") where a theme draws
+		// them all in one colour (contrast)
+		return d.pal.Lowess, 1.8, "7 3 1.5 3"
 	case RoleCurve:
 		return d.pal.Curve, 2.2, "2 3"
 	case RoleZero:

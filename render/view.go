@@ -647,6 +647,19 @@ func statusOf(s *report.Study) []string {
 // slopeText is the line's slope with its unit and interval, or "" when
 // there is none.
 func slopeText(s *report.Study, level string) string {
+	// An agreement study's slope is Deming's: both methods carry error, so
+	// the least-squares slope is biased towards 0.
+	if a := s.Agreement; a != nil && a.Deming != nil && a.Deming.Slope.Valid() {
+		t := withSym(num(a.Deming.Slope), unitPer(s)) + " (Deming"
+		if a.Deming.SlopeLow.Valid() && a.Deming.SlopeHigh.Valid() {
+			ci := "CI"
+			if level != "" {
+				ci = level + "% CI"
+			}
+			t += "; " + ci + " " + interval(a.Deming.SlopeLow, a.Deming.SlopeHigh)
+		}
+		return t + ")"
+	}
 	l := s.Line
 	if l == nil || l.Slope == nil || !l.Slope.Estimate.Valid() {
 		return ""

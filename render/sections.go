@@ -517,9 +517,9 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 			case u.Note != "":
 				parts = append(parts, fmt.Sprintf("x in %s, y in %s: %s", row[0], row[1], row[3]))
 			case u.Swapped:
-				parts = append(parts, fmt.Sprintf("axes swapped: slope %s %s per %s, intercept %s", row[3], row[1], symbol(u.XSymbol, u.XUnit), row[4]))
+				parts = append(parts, fmt.Sprintf("axes swapped: slope %s %s per %s, intercept %s %s", row[3], row[1], symbol(u.XSymbol, u.XUnit), row[4], row[1]))
 			case u.XUnit != s.X.Unit || u.YUnit != s.Y.Unit:
-				parts = append(parts, fmt.Sprintf("x in %s, y in %s: slope %s, intercept %s", row[0], row[1], row[3], row[4]))
+				parts = append(parts, fmt.Sprintf("x in %s, y in %s: slope %s %s per %s, intercept %s %s", row[0], row[1], row[3], row[1], row[0], row[4], row[1]))
 			}
 		}
 		where := "in every unit"

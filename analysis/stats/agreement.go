@@ -171,15 +171,8 @@ func agrOLS(x, y []float64) (a, b, se, p float64) {
 	if n < 3 {
 		return nan, nan, nan, nan
 	}
-	mx, _ := agrMeanSD(x)
-	my, _ := agrMeanSD(y)
-	var sxx, sxy, syy float64
-	for i := range x {
-		dx, dy := x[i]-mx, y[i]-my
-		sxx += dx * dx
-		sxy += dx * dy
-		syy += dy * dy
-	}
+	m := CentredMoments(x, y)
+	mx, my, sxx, sxy := m.MeanX, m.MeanY, m.Sxx, m.Sxy
 	if !(sxx > 0) {
 		return nan, nan, nan, nan
 	}
@@ -206,21 +199,10 @@ func agrMeanSD(x []float64) (mean, sd float64) {
 	if n == 0 {
 		return math.NaN(), math.NaN()
 	}
-	var s float64
-	for _, v := range x {
-		s += v
-	}
-	mean = s / float64(n)
+	mean, ss := meanSS(x)
 	if n < 2 {
 		return mean, math.NaN()
 	}
-	var ss, c float64
-	for _, v := range x {
-		e := v - mean
-		ss += e * e
-		c += e
-	}
-	ss -= c * c / float64(n)
 	return mean, math.Sqrt(math.Max(ss, 0) / float64(n-1))
 }
 
@@ -419,15 +401,8 @@ func Deming(x, y []float64, delta, conf float64) DemingFit {
 	if n < 3 || !(delta > 0) || math.IsInf(delta, 1) {
 		return f
 	}
-	mx, _ := agrMeanSD(x)
-	my, _ := agrMeanSD(y)
-	var sxx, syy, sxy float64
-	for i := range x {
-		dx, dy := x[i]-mx, y[i]-my
-		sxx += dx * dx
-		syy += dy * dy
-		sxy += dx * dy
-	}
+	m := CentredMoments(x, y)
+	mx, my, sxx, syy, sxy := m.MeanX, m.MeanY, m.Sxx, m.Syy, m.Sxy
 	b := demingSlope(sxx, syy, sxy, delta)
 	if math.IsNaN(b) || math.IsInf(b, 0) || math.IsNaN(mx) || math.IsNaN(my) {
 		return f
@@ -762,15 +737,8 @@ func LinCCC(x, y []float64, conf float64) Concordance {
 	if n < 2 {
 		return c
 	}
-	mx, _ := agrMeanSD(x)
-	my, _ := agrMeanSD(y)
-	var sxx, syy, sxy float64
-	for i := range x {
-		dx, dy := x[i]-mx, y[i]-my
-		sxx += dx * dx
-		syy += dy * dy
-		sxy += dx * dy
-	}
+	m := CentredMoments(x, y)
+	mx, my, sxx, syy, sxy := m.MeanX, m.MeanY, m.Sxx, m.Syy, m.Sxy
 	fn := float64(n)
 	sxx, syy, sxy = sxx/fn, syy/fn, sxy/fn
 	if math.IsNaN(sxx+syy+sxy) || math.IsInf(sxx+syy+sxy, 0) {

@@ -12,7 +12,8 @@ import (
 )
 
 // maxXOrderRows is the most rows the x-order figures use; above it they
-// use a sample of this many chosen by the rows' values (canonical), so
+// use a sample of this many chosen by the rows' values (the study's
+// sample, rowSample.sub; diagnostics draws it), so
 // their cost stays bounded (a sort of at most this many rows) while they
 // remain a function of the set of rows. A pattern along x stays as visible
 // as in the LOWESS curve, fitted to a sample of the same size
@@ -20,8 +21,8 @@ import (
 const maxXOrderRows = 20000
 
 // xOrderFigures sets d.DurbinWatsonX, d.DurbinWatsonXRows and d.SpreadRho
-// from the line's residuals e at x, on all rows up to maxXOrderRows (else
-// on the sample canonical chooses): the Durbin–Watson statistic of the
+// from the line's residuals e at x, on the rows given (all rows, or the
+// sample diagnostics draws above maxXOrderRows): the Durbin–Watson statistic of the
 // residuals sorted by x, averaged over every order of rows whose x ties
 // (stats.DurbinWatsonTied: a file that lists tied rows in another order
 // gives the same figure), and Spearman's ρ (stats.Spearman) of |residual|
@@ -33,9 +34,6 @@ func xOrderFigures(d *report.Diagnostics, x, e []float64) {
 	d.DurbinWatsonX, d.SpreadRho = report.NaN(), report.NaN()
 	if len(x) != len(e) {
 		return
-	}
-	if len(x) > maxXOrderRows {
-		x, e = canonical(x, e, maxXOrderRows)
 	}
 	n := len(x)
 	d.DurbinWatsonXRows = n

@@ -58,22 +58,29 @@ func TestXOrderFigures(t *testing.T) {
 		t.Errorf("7 rows: DurbinWatsonX %v, want undefined", d.DurbinWatsonX)
 	}
 
-	// Many rows: a sample of 20000 chosen by the rows' values, the same
-	// whatever the order of the rows.
-	bx, be := make([]float64, 45000), make([]float64, 45000)
+	// Many rows: a study's x-order figures use a sample of 20000 chosen
+	// by the rows' values (diagnostics draws it from the study's sample),
+	// the same whatever the order of the rows.
+	bx, by := make([]float64, 45000), make([]float64, 45000)
 	for i := range bx {
-		bx[i], be[i] = float64(i%97), math.Sin(float64(i))
+		bx[i], by[i] = float64(i%97), math.Sin(float64(i))
 	}
-	xOrderFigures(&d, bx, be)
-	if d.DurbinWatsonXRows != maxXOrderRows || !d.DurbinWatsonX.Valid() {
-		t.Errorf("n = 45000: %d rows used (DW %v), want %d", d.DurbinWatsonXRows, d.DurbinWatsonX, maxXOrderRows)
+	study := func(x, y []float64) *report.Diagnostics {
+		s := Analyze(Input{ID: "many", X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"}, XS: x, YS: y}, DefaultConfig())
+		if s.Error != nil {
+			t.Fatal(*s.Error)
+		}
+		return s.Diagnostics
+	}
+	dm := study(bx, by)
+	if dm.DurbinWatsonXRows != maxXOrderRows || !dm.DurbinWatsonX.Valid() {
+		t.Errorf("n = 45000: %d rows used (DW %v), want %d", dm.DurbinWatsonXRows, dm.DurbinWatsonX, maxXOrderRows)
 	}
 	slices.Reverse(bx)
-	slices.Reverse(be)
-	var d3 report.Diagnostics
-	xOrderFigures(&d3, bx, be)
-	if d3.DurbinWatsonX != d.DurbinWatsonX || d3.SpreadRho != d.SpreadRho {
-		t.Errorf("rows reversed: DW %v ρ %v, want %v %v", d3.DurbinWatsonX, d3.SpreadRho, d.DurbinWatsonX, d.SpreadRho)
+	slices.Reverse(by)
+	dr := study(bx, by)
+	if dr.DurbinWatsonX != dm.DurbinWatsonX || dr.SpreadRho != dm.SpreadRho {
+		t.Errorf("rows reversed: DW %v ρ %v, want %v %v", dr.DurbinWatsonX, dr.SpreadRho, dm.DurbinWatsonX, dm.SpreadRho)
 	}
 }
 
@@ -92,9 +99,10 @@ func TestLowessExtremes(t *testing.T) {
 	}
 }
 
-// BenchmarkXOrderFigures: at most 20000 rows are sorted whatever n is.
+// BenchmarkXOrderFigures: the figures on the sizes they are given (at most
+// maxXOrderRows: diagnostics samples above it).
 func BenchmarkXOrderFigures(b *testing.B) {
-	for _, n := range []int{1_000, 100_000, 1_000_000} {
+	for _, n := range []int{1_000, maxXOrderRows} {
 		x, e := make([]float64, n), make([]float64, n)
 		for i := range x {
 			x[i], e[i] = math.Mod(float64(i)*0.618034, 1), math.Sin(float64(i))

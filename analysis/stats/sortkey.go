@@ -78,19 +78,14 @@ func radixSort(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32) {
 // radixSortSerial is radixSort on one goroutine (n ≥ 2).
 func radixSortSerial(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32) {
 	n := len(keys)
-	const mask = buckets - 1
 	var count [digits][buckets]int32
-	for _, k := range keys {
-		for d := 0; d < digits; d++ {
-			count[d][(k>>(digitBits*d))&mask]++
-		}
-	}
+	histograms(keys, &count)
 	src, dst := keys, kbuf[:n]
 	isrc, idst := idx, ibuf
 	for d := 0; d < digits; d++ {
 		c := &count[d]
 		shift := uint(digitBits * d)
-		if int(c[(src[0]>>shift)&mask]) == n {
+		if int(c[(src[0]>>shift)&(buckets-1)]) == n {
 			continue // every key has this digit
 		}
 		var pos [buckets]int32
@@ -99,29 +94,50 @@ func radixSortSerial(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32) {
 			pos[b] = sum
 			sum += c[b]
 		}
-		if isrc == nil {
-			for _, k := range src {
-				b := (k >> shift) & mask
-				dst[pos[b]] = k
-				pos[b]++
-			}
-		} else {
-			for i, k := range src {
-				b := (k >> shift) & mask
-				p := pos[b]
-				dst[p] = k
-				idst[p] = isrc[i]
-				pos[b]++
-			}
+		scatter(src, dst, isrc, idst, 0, n, shift, &pos)
+		src, dst = dst, src
+		if isrc != nil {
 			isrc, idst = idst, isrc
 		}
-		src, dst = dst, src
 	}
 	if &src[0] != &keys[0] {
 		copy(keys, src)
 		if idx != nil {
 			copy(idx, isrc)
 		}
+	}
+}
+
+// histograms adds to c the histogram of every digit of keys.
+func histograms(keys []uint64, c *[digits][buckets]int32) {
+	const mask = buckets - 1
+	for _, k := range keys {
+		for d := 0; d < digits; d++ {
+			c[d][(k>>(digitBits*d))&mask]++
+		}
+	}
+}
+
+// scatter moves src[lo:hi] (and isrc[lo:hi] when isrc is not nil) to dst
+// (idst) at the places pos gives each key's digit at shift, in order, and
+// advances pos: one stable pass of the radix sort over one share.
+func scatter(src, dst []uint64, isrc, idst []int32, lo, hi int, shift uint, pos *[buckets]int32) {
+	const mask = buckets - 1
+	if isrc == nil {
+		for _, key := range src[lo:hi] {
+			b := (key >> shift) & mask
+			dst[pos[b]] = key
+			pos[b]++
+		}
+		return
+	}
+	for i := lo; i < hi; i++ {
+		key := src[i]
+		b := (key >> shift) & mask
+		p := pos[b]
+		dst[p] = key
+		idst[p] = isrc[i]
+		pos[b]++
 	}
 }
 
@@ -151,12 +167,7 @@ func radixSortPar(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32, w int
 	for k := range w {
 		wg.Go(func() {
 			lo, hi := share(k)
-			c := &all[k]
-			for _, key := range keys[lo:hi] {
-				for d := 0; d < digits; d++ {
-					c[d][(key>>(digitBits*d))&mask]++
-				}
-			}
+			histograms(keys[lo:hi], &all[k])
 		})
 	}
 	wg.Wait()
@@ -197,23 +208,7 @@ func radixSortPar(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32, w int
 		for k := range w {
 			wg.Go(func() {
 				lo, hi := share(k)
-				pos := &cnt[k]
-				if isrc == nil {
-					for _, key := range src[lo:hi] {
-						b := (key >> shift) & mask
-						dst[pos[b]] = key
-						pos[b]++
-					}
-					return
-				}
-				for i := lo; i < hi; i++ {
-					key := src[i]
-					b := (key >> shift) & mask
-					p := pos[b]
-					dst[p] = key
-					idst[p] = isrc[i]
-					pos[b]++
-				}
+				scatter(src, dst, isrc, idst, lo, hi, shift, &cnt[k])
 			})
 		}
 		wg.Wait()

@@ -196,7 +196,7 @@ type sideStats struct {
 // τ-b, Spearman's ρ with the Theil–Sen line, and the quadratic and log
 // models, all from the canonical order ps.
 func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, conf float64, cfg Config) {
-	async := goOrRun(wg)
+	async := task(wg)
 	async(func() {
 		tau, ptau := ps.KendallTauB()
 		out.kendall = report.Kendall{TauB: report.Float(tau), P: report.Float(ptau)}
@@ -301,10 +301,10 @@ func groupLines(x, y []float64, gidx []int) *report.GroupLines {
 // slot and never waits for anything while it holds it.
 var taskSlots = make(chan struct{}, max(1, runtime.GOMAXPROCS(0)))
 
-// goOrRun returns a function that runs f on a goroutine of wg once a task
+// task returns a function that runs f on a goroutine of wg once a task
 // slot is free. Each f writes only its own results, so they are the same
 // whatever the schedule.
-func goOrRun(wg *sync.WaitGroup) func(f func()) {
+func task(wg *sync.WaitGroup) func(f func()) {
 	return func(f func()) {
 		wg.Go(func() {
 			taskSlots <- struct{}{}

@@ -258,12 +258,12 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	var diag *report.Diagnostics
 	var flaggedCSV []byte
-	goOrRun(&wg)(func() {
+	task(&wg)(func() {
 		s.Influence, s.Sensitivity, flaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, m, pc, line)
 	})
 	smp := studySample(ps, cfg)
-	goOrRun(&wg)(func() { diag = diagnostics(x, y, smp, ps, line, order, cfg) })
-	goOrRun(&wg)(func() { s.Robust = robust(x, y, ps, order, pc.R, conf) })
+	task(&wg)(func() { diag = diagnostics(x, y, smp, ps, line, order, cfg) })
+	task(&wg)(func() { s.Robust = robust(x, y, ps, order, pc.R, conf) })
 	lx, ly := smp.sub(cfg.LowessMaxN)
 
 	for i, name := range covNames {

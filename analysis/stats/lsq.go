@@ -795,7 +795,7 @@ func (l LineFit) Residual(x, y float64) float64 {
 func (l LineFit) Interval(x0, conf float64) (fit, confLow, confHigh, predLow, predHigh float64) {
 	// Centred form of the fit, ȳ + b1·(x0 − x̄): less cancellation than
 	// b0 + b1·x0 when x is far from 0.
-	fit = l.ymean + (l.ylo + l.Slope.Estimate*((x0-l.means[0])-l.mlo[0]))
+	fit = l.FittedAt(x0)
 	nan := math.NaN()
 	if l.DFResid <= 0 || !(conf > 0 && conf < 1) {
 		return fit, nan, nan, nan, nan

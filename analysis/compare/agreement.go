@@ -103,19 +103,6 @@ func WelchT(m1, se1 float64, n1 int, m2, se2 float64, n2 int) (t, df, p float64)
 	return t, df, stats.TwoSidedT(t, df)
 }
 
-// verdictWords names an agreement verdict for a reader.
-func verdictWords(v string) string {
-	switch report.AgreementVerdict(v) {
-	case report.AgreeWithin:
-		return "agree"
-	case report.NotWithin:
-		return "do not agree"
-	case report.Undecided:
-		return "undecided"
-	}
-	return v
-}
-
 // agreementVerdict is the change of the agreement verdict, if any.
 func agreementVerdict(prev, cur *report.Study) []VerdictChange {
 	if prev.Agreement == nil || cur.Agreement == nil || prev.Agreement.Verdict == cur.Agreement.Verdict {
@@ -137,7 +124,7 @@ func agreementStatement(a *AgreementChange, alpha float64) string {
 	var gate string
 	if a.Acceptable.Valid() && a.NewVerdict != "" && a.OldVerdict != "" && a.NewVerdict != a.OldVerdict {
 		gate = fmt.Sprintf("Against the acceptable ±%s%s the methods went from %q to %q: the limits of agreement moved from %s and %s%s to %s and %s%s, and their intervals now reach %s to %s%s.",
-			g4(a.Acceptable), u, verdictWords(a.OldVerdict), verdictWords(a.NewVerdict), g4(a.OldLower), g4(a.OldUpper), u, g4(a.NewLower), g4(a.NewUpper), u,
+			g4(a.Acceptable), u, report.AgreementVerdict(a.OldVerdict).Words(), report.AgreementVerdict(a.NewVerdict).Words(), g4(a.OldLower), g4(a.OldUpper), u, g4(a.NewLower), g4(a.NewUpper), u,
 			g4(a.NewLowerLow), g4(a.NewUpperHigh), u)
 	}
 	if !biasSig && !sdSig {

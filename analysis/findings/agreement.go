@@ -367,14 +367,9 @@ func AgreeExpectation(s *report.Study, want bool) report.Expectation {
 		e.Got, e.Detail = "not computed", "the study has no agreement figures"
 		return e
 	}
-	verdict := "undefined"
-	switch a.Verdict {
-	case report.AgreeWithin:
-		verdict = "they agree"
-	case report.NotWithin:
-		verdict = "they do not agree"
-	case report.Undecided:
-		verdict = "undecided"
+	verdict := a.Verdict.Words()
+	if a.Verdict == report.AgreeWithin || a.Verdict == report.NotWithin {
+		verdict = "they " + verdict
 	}
 	u := sym
 	e.Got = verdict

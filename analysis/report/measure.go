@@ -66,6 +66,20 @@ const (
 	Undecided   AgreementVerdict = "undecided" // neither: an interval reaches across ±acceptable (or is undefined)
 )
 
+// Words names the verdict for a reader: "agree", "do not agree",
+// "undecided", or "undefined" when there is none.
+func (v AgreementVerdict) Words() string {
+	switch v {
+	case AgreeWithin:
+		return "agree"
+	case NotWithin:
+		return "do not agree"
+	case Undecided:
+		return "undecided"
+	}
+	return "undefined"
+}
+
 // MethodLine is a line y = Intercept + Slope·x fitted to two methods.
 type MethodLine struct {
 	Intercept     Float `json:"intercept"`

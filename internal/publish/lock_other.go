@@ -4,12 +4,8 @@ package publish
 
 import (
 	"errors"
-	"fmt"
 	"io/fs"
 	"os"
-	"strconv"
-	"strings"
-	"time"
 )
 
 // lock creates the file path exclusively and writes the holder's process
@@ -19,25 +15,17 @@ import (
 func lock(path, command string) (*os.File, error) {
 	f, err := os.OpenFile(path, os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o644)
 	if errors.Is(err, fs.ErrExist) {
-		e := &BusyError{}
 		b, _ := os.ReadFile(path)
-		for _, line := range strings.Split(string(b), "\n") {
-			k, v, _ := strings.Cut(line, "=")
-			switch k {
-			case "pid":
-				e.PID, _ = strconv.Atoi(v)
-			case "since":
-				e.Since, _ = time.Parse(time.RFC3339, v)
-			case "command":
-				e.Command = v + " (if none is running, remove " + path + ")"
-			}
+		e := parseHolder(b)
+		if e.Command != "" {
+			e.Command += " (if none is running, remove " + path + ")"
 		}
 		return nil, e
 	}
 	if err != nil {
 		return nil, err
 	}
-	fmt.Fprintf(f, "pid=%d\nsince=%s\ncommand=%s\n", os.Getpid(), time.Now().UTC().Format(time.RFC3339), command)
+	f.WriteString(holderInfo(command))
 	return f, nil
 }
 

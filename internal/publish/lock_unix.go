@@ -6,8 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"os"
-	"strconv"
-	"strings"
 	"syscall"
 	"time"
 )
@@ -47,7 +45,7 @@ func lock(path, command string) (*os.File, error) {
 			f.Close()
 			continue
 		}
-		info := fmt.Sprintf("pid=%d\nsince=%s\ncommand=%s\n", os.Getpid(), time.Now().UTC().Format(time.RFC3339), command)
+		info := holderInfo(command)
 		if err := f.Truncate(0); err == nil {
 			f.WriteAt([]byte(info), 0)
 		}
@@ -58,21 +56,9 @@ func lock(path, command string) (*os.File, error) {
 
 // holder reads who holds the lock in f.
 func holder(f *os.File) *BusyError {
-	e := &BusyError{}
 	b := make([]byte, 512)
 	n, _ := f.ReadAt(b, 0)
-	for _, line := range strings.Split(string(b[:n]), "\n") {
-		k, v, _ := strings.Cut(line, "=")
-		switch k {
-		case "pid":
-			e.PID, _ = strconv.Atoi(v)
-		case "since":
-			e.Since, _ = time.Parse(time.RFC3339, v)
-		case "command":
-			e.Command = v
-		}
-	}
-	return e
+	return parseHolder(b[:n])
 }
 
 // unlock removes the lock file, while still holding the lock, and lets go.

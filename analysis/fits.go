@@ -13,6 +13,7 @@ import (
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
+	"bivar/internal/hugepage"
 )
 
 func describe(d stats.Summary) report.Describe {
@@ -95,7 +96,7 @@ func logModels(x, y []float64, conf float64) []report.Fit {
 		return true
 	}
 	logs := func(v []float64) []float64 {
-		out := make([]float64, len(v))
+		out := hugepage.Make[float64](len(v))
 		for i, a := range v {
 			out[i] = math.Log(a)
 		}

@@ -15,6 +15,7 @@ import (
 	"bivar/analysis/findings"
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
+	"bivar/internal/hugepage"
 )
 
 // ranking states the order in which the rows that may be named are ranked.
@@ -191,7 +192,7 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 		}
 	}
 	if len(drop) > 0 {
-		kx, ky := make([]float64, 0, n-len(drop)), make([]float64, 0, n-len(drop))
+		kx, ky := hugepage.Empty[float64](n-len(drop)), hugepage.Empty[float64](n-len(drop))
 		j := 0
 		for i := 0; i < n; i++ {
 			if j < len(drop) && drop[j] == i {

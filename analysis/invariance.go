@@ -8,6 +8,7 @@ import (
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 	"bivar/analysis/units"
+	"bivar/internal/hugepage"
 )
 
 // unitInvariance recomputes r, slope and intercept with x and y converted
@@ -25,7 +26,7 @@ func unitInvariance(in Input, x, y []float64, r float64, line stats.LineFit) []r
 		if err != nil {
 			return nil, err
 		}
-		out := make([]float64, len(v))
+		out := hugepage.Make[float64](len(v))
 		for i, a := range v {
 			out[i] = scale*a + offset
 		}

@@ -17,6 +17,7 @@ import (
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
+	"bivar/internal/hugepage"
 )
 
 // agreementK is the multiplier of the SD in the limits of agreement:
@@ -184,7 +185,7 @@ func agreement(xcols, ycols [][]float64, n int, st manifest.Study, unit string, 
 func agreementPlot(xm, ym []float64) *report.AgreementPlot {
 	n := len(xm)
 	p := &report.AgreementPlot{N: n, Lo: math.Inf(1), Hi: math.Inf(-1)}
-	mean, diff := make([]float64, n), make([]float64, n)
+	mean, diff := hugepage.Make[float64](n), hugepage.Make[float64](n)
 	for i := range xm {
 		mean[i], diff[i] = (xm[i]+ym[i])/2, ym[i]-xm[i]
 		p.Lo = math.Min(p.Lo, math.Min(xm[i], ym[i]))

@@ -9,6 +9,7 @@ import (
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
+	"bivar/internal/hugepage"
 )
 
 // slopeInterval is the slope b with standard error se: a normal interval at
@@ -47,7 +48,7 @@ func robust(x, y []float64, ps *stats.Sorted, order []float64, r, conf float64) 
 	// x, then the residuals, in run order, gathered once each into one
 	// column (reading them through pos in both passes of the
 	// autocorrelation doubled the random reads, the slow part at 10⁷).
-	buf := make([]float64, n)
+	buf := hugepage.Make[float64](n)
 	for t, k := range pos {
 		buf[t] = ps.X[k]
 	}

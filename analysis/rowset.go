@@ -14,6 +14,7 @@ import (
 	"slices"
 
 	"bivar/analysis/stats"
+	"bivar/internal/hugepage"
 )
 
 // mix64 is the finaliser of SplitMix64 (Steele, Lea & Flood 2014, "Fast
@@ -124,7 +125,7 @@ func valueSample(xs, ys []float64, m int) rowSample {
 // particular order.
 func smallestOf(hs []uint64, is []int, m int, tie func(a, b int) int) []int {
 	cut := nthSmallest(slices.Clone(hs), m-1)
-	sel := make([]int, 0, m)
+	sel := hugepage.Empty[int](m)
 	var tied []int
 	for j, h := range hs {
 		switch {
@@ -168,7 +169,7 @@ func canonical(x, y []float64, maxN int) (cx, cy []float64) {
 // sortedSample is valueSample of the rows of x and y put in order of x,
 // then y (a comparison sort of all rows).
 func sortedSample(x, y []float64, m int) rowSample {
-	idx := make([]int, len(x))
+	idx := hugepage.Make[int](len(x))
 	for i := range idx {
 		idx[i] = i
 	}

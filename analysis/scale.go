@@ -14,6 +14,7 @@ import (
 
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
+	"bivar/internal/hugepage"
 )
 
 // scaleFunc is the transform of a scale: math.Log for "log", math.Log10
@@ -133,7 +134,7 @@ func rowName(ids []string, i int) string {
 func onScale(st manifest.Study, in Input) Input {
 	put := func(scale string, v []float64) []float64 {
 		f := scaleFunc(scale)
-		out := make([]float64, len(v))
+		out := hugepage.Make[float64](len(v))
 		for i, a := range v {
 			out[i] = a
 			if manifest.InScaleDomain(scale, a) {

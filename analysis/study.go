@@ -16,6 +16,7 @@ import (
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 	"bivar/analysis/units"
+	"bivar/internal/hugepage"
 )
 
 // Input is one study's data, as Run hands it to Analyze. Every per-row
@@ -247,7 +248,7 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	lf := lineFit(line)
 	s.Line = &lf
-	line.Residuals = make([]float64, len(x))
+	line.Residuals = hugepage.Make[float64](len(x))
 	for i := range x {
 		line.Residuals[i] = line.Residual(x[i], y[i])
 	}

@@ -9,6 +9,7 @@ import (
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
+	"bivar/internal/hugepage"
 )
 
 // maxXOrderRows is the most rows the x-order figures use; above it they
@@ -38,7 +39,7 @@ func xOrderFigures(d *report.Diagnostics, x, e []float64) {
 	n := len(x)
 	d.DurbinWatsonXRows = n
 	if n >= 3 {
-		abs := make([]float64, n)
+		abs := hugepage.Make[float64](n)
 		for k, v := range e {
 			abs[k] = math.Abs(v)
 		}

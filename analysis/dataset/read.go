@@ -1,6 +1,7 @@
 package dataset
 
 import (
+	"bivar/internal/hugepage"
 	"bytes"
 	"crypto/sha256"
 	"encoding/csv"
@@ -238,7 +239,7 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 				n := int(min(size/int64(est)+size/int64(est)/32+16, int64(lim.MaxRows)+1))
 				for i, c := range cols {
 					if c.numeric {
-						nums[i] = slices.Grow(nums[i], n)
+						nums[i] = hugepage.Grow(nums[i], n)
 					}
 					if c.text {
 						texts[i] = slices.Grow(texts[i], n)
@@ -403,7 +404,7 @@ func getFloats(n int) []float64 {
 	if p, ok := floats.Get().(*[]float64); ok && cap(*p) >= n {
 		return (*p)[:0]
 	}
-	return make([]float64, 0, n)
+	return hugepage.Empty[float64](n)
 }
 
 func putFloats(s []float64) { floats.Put(&s) }

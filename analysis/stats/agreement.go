@@ -14,6 +14,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"slices"
+
+	"bivar/internal/hugepage"
 )
 
 // LimitsOfAgreement is the result of BlandAltman and BlandAltmanReplicates.
@@ -109,8 +111,8 @@ func BlandAltmanReplicates(a, b [][]float64, k, conf float64) LimitsOfAgreement 
 		return agrLimits(nil, nil, math.NaN(), math.NaN(), math.NaN(), k, conf)
 	}
 	ma, mb := RowMeans(a, n), RowMeans(b, n)
-	d := make([]float64, n)
-	m := make([]float64, n)
+	d := hugepage.Make[float64](n)
+	m := hugepage.Make[float64](n)
 	for i := range d {
 		d[i] = ma[i] - mb[i]
 		m[i] = (ma[i] + mb[i]) / 2
@@ -225,7 +227,7 @@ func agrCheckColumns(fn string, sets ...[][]float64) int {
 // RowMeans returns the mean over the columns of each of the n rows (each
 // column holds n values).
 func RowMeans(cols [][]float64, n int) []float64 {
-	out := make([]float64, n)
+	out := hugepage.Make[float64](n)
 	for _, col := range cols {
 		for i, v := range col {
 			out[i] += v
@@ -414,8 +416,8 @@ func Deming(x, y []float64, delta, conf float64) DemingFit {
 	fn := float64(n)
 	g := fn / (fn - 1)
 	var sb, sa float64
-	bs := make([]float64, n)
-	as := make([]float64, n)
+	bs := hugepage.Make[float64](n)
+	as := hugepage.Make[float64](n)
 	for i := range x {
 		dx, dy := x[i]-mx, y[i]-my
 		bi := demingSlope(sxx-g*dx*dx, syy-g*dy*dy, sxy-g*dx*dy, delta)
@@ -663,7 +665,7 @@ func pbSlope(x1, y1, x2, y2 float64) (float64, bool) {
 }
 
 func pbMedianResidual(x, y []float64, b float64) float64 {
-	r := make([]float64, len(x))
+	r := hugepage.Make[float64](len(x))
 	for i := range x {
 		r[i] = y[i] - b*x[i]
 	}
@@ -680,7 +682,7 @@ func pbMedianResidual(x, y []float64, b float64) float64 {
 // pairs, drawn by index into the sorted rows, depends only on the set of
 // rows.
 func pbSortedSeed(x, y []float64) (xs, ys []float64, s1, s2 uint64) {
-	idx := make([]int, len(x))
+	idx := hugepage.Make[int](len(x))
 	for i := range idx {
 		idx[i] = i
 	}
@@ -689,7 +691,7 @@ func pbSortedSeed(x, y []float64) (xs, ys []float64, s1, s2 uint64) {
 	})
 	h := fnv.New128a()
 	var buf [16]byte
-	xs, ys = make([]float64, len(x)), make([]float64, len(y))
+	xs, ys = hugepage.Make[float64](len(x)), hugepage.Make[float64](len(y))
 	for k, i := range idx {
 		xs[k], ys[k] = x[i], y[i]
 		binary.LittleEndian.PutUint64(buf[:8], math.Float64bits(x[i]+0)) // +0 folds −0 into 0

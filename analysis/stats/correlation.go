@@ -7,6 +7,8 @@ package stats
 import (
 	"math"
 	"slices"
+
+	"bivar/internal/hugepage"
 )
 
 // Correlation is Pearson's product-moment correlation with its inference.
@@ -121,7 +123,7 @@ func FisherCI(r float64, n int, conf float64) (lo, hi float64) {
 // values (it panics otherwise).
 func Ranks(x []float64) []float64 {
 	checkIndexable("Ranks", len(x))
-	r := make([]float64, len(x))
+	r := hugepage.Make[float64](len(x))
 	ranksInto(r, x, newRankScratch(len(x)))
 	return r
 }
@@ -141,7 +143,7 @@ type rankScratch struct {
 }
 
 func newRankScratch(n int) *rankScratch {
-	return &rankScratch{make([]uint64, n), make([]uint64, n), make([]int32, n), make([]int32, n)}
+	return &rankScratch{hugepage.Make[uint64](n), hugepage.Make[uint64](n), hugepage.Make[int32](n), hugepage.Make[int32](n)}
 }
 
 // ranksInto writes the average ranks of x into r (len(r) = len(x)).
@@ -185,7 +187,7 @@ func Spearman(x, y []float64) (rho, p float64) {
 	}
 	checkIndexable("Spearman", len(x))
 	sc := newRankScratch(len(x))
-	rx, ry := make([]float64, len(x)), make([]float64, len(x))
+	rx, ry := hugepage.Make[float64](len(x)), hugepage.Make[float64](len(x))
 	ranksInto(rx, x, sc)
 	ranksInto(ry, y, sc)
 	m := CentredMoments(rx, ry)
@@ -240,15 +242,15 @@ func KendallTauB(x, y []float64) (tau, p float64) {
 	checkIndexable("KendallTauB", n)
 	// Order the rows by (x, y): a radix sort by x, then each run of tied x
 	// sorted by y. Only the y keys in that order are needed afterwards.
-	kx := make([]uint64, n)
-	ys := make([]uint64, n)
-	kbuf := make([]uint64, n)
-	idx := make([]int32, n)
+	kx := hugepage.Make[uint64](n)
+	ys := hugepage.Make[uint64](n)
+	kbuf := hugepage.Make[uint64](n)
+	idx := hugepage.Make[int32](n)
 	for i, v := range x {
 		kx[i] = floatKey(v)
 		idx[i] = int32(i)
 	}
-	radixSort(kx, idx, kbuf, make([]int32, n))
+	radixSort(kx, idx, kbuf, hugepage.Make[int32](n))
 	for i, j := range idx {
 		ys[i] = floatKey(y[j])
 	}

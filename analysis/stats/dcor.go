@@ -8,6 +8,8 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+
+	"bivar/internal/hugepage"
 )
 
 // DefaultDcorMaxN is the number of rows the permutation test of
@@ -106,7 +108,7 @@ func DistanceCorrTest(x, y []float64, perms, maxN int, src rand.Source) (dcor, p
 	if n > maxN {
 		// Partial Fisher–Yates shuffle: the first maxN indices are a simple
 		// random sample without replacement.
-		idx := make([]int, n)
+		idx := hugepage.Make[int](n)
 		for i := range idx {
 			idx[i] = i
 		}
@@ -202,8 +204,8 @@ func dcorCanonical(x, y []float64, byY []int32) float64 {
 	for _, v := range y {
 		allY += (v - my) / sdy
 	}
-	by := make([]float64, n)
-	rank := make([]int32, n)
+	by := hugepage.Make[float64](n)
+	rank := hugepage.Make[int32](n)
 	var before float64
 	r := int32(0)
 	for j, k := range byY {
@@ -302,7 +304,7 @@ func newDcorData(x, y []float64) *dcorData {
 	var yOrder []int
 	d.xOrder, d.ax, d.axx = rowSums(xs)
 	yOrder, d.by, d.byy = rowSums(ys)
-	d.yRank = make([]int, n)
+	d.yRank = hugepage.Make[int](n)
 	r := 0
 	for k, i := range yOrder {
 		if k == 0 || ys[i] != ys[yOrder[k-1]] {
@@ -328,7 +330,7 @@ func standardise(v []float64) ([]float64, bool) {
 	if !(sd > 0) || math.IsInf(sd, 0) || math.IsNaN(mean) {
 		return nil, false
 	}
-	out := make([]float64, len(v))
+	out := hugepage.Make[float64](len(v))
 	for i, e := range v {
 		out[i] = (e - mean) / sd
 	}
@@ -345,7 +347,7 @@ func rowSums(v []float64) (order []int, s []float64, total float64) {
 	for _, e := range v {
 		all += e
 	}
-	s = make([]float64, n)
+	s = hugepage.Make[float64](n)
 	var before float64 // sum of the values sorted before position k
 	for k, i := range order {
 		vi := v[i]

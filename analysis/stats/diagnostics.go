@@ -4,7 +4,11 @@ package stats
 // lack-of-fit F test where x repeats, Breusch–Pagan for spread that changes
 // with x, and Durbin–Watson and the residual trend in run order.
 
-import "math"
+import (
+	"math"
+
+	"bivar/internal/hugepage"
+)
 
 // LackOfFit returns the pure-error lack-of-fit F test of the straight line
 // (Draper & Smith 1998, Applied Regression Analysis, 3rd ed., lack of fit
@@ -48,7 +52,7 @@ func LackOfFit(x, y []float64) (f float64, df1, df2 int, p float64, ok bool) {
 	// small lost 8 digits of F), and deviations are formed from two-part
 	// means (meanParts) so that y far from 0 costs none either.
 	idx := stableArgsort(x)
-	xs, ys := make([]float64, n), make([]float64, n)
+	xs, ys := hugepage.Make[float64](n), hugepage.Make[float64](n)
 	for k, i := range idx {
 		xs[k], ys[k] = x[i], y[i]
 	}
@@ -121,7 +125,7 @@ func BreuschPagan(resid, x []float64) (stat float64, df int, p float64) {
 	if n < 3 {
 		return math.NaN(), 1, math.NaN()
 	}
-	e2 := make([]float64, n)
+	e2 := hugepage.Make[float64](n)
 	for i, e := range resid {
 		e2[i] = e * e
 	}

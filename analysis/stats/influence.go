@@ -5,6 +5,8 @@ package stats
 
 import (
 	"math"
+
+	"bivar/internal/hugepage"
 )
 
 // InfluenceResult holds, per row in input order, the influence of that row
@@ -65,16 +67,16 @@ func Influence(x, y []float64) InfluenceResult {
 	}
 	n := len(x)
 	res := InfluenceResult{
-		Leverage:       make([]float64, n),
-		Residual:       make([]float64, n),
-		Studentized:    make([]float64, n),
-		StudentizedExt: make([]float64, n),
-		CooksD:         make([]float64, n),
-		DFFITS:         make([]float64, n),
-		LooR:           make([]float64, n),
-		LooSlope:       make([]float64, n),
-		LooIntercept:   make([]float64, n),
-		SoleSupport:    make([]bool, n),
+		Leverage:       hugepage.Make[float64](n),
+		Residual:       hugepage.Make[float64](n),
+		Studentized:    hugepage.Make[float64](n),
+		StudentizedExt: hugepage.Make[float64](n),
+		CooksD:         hugepage.Make[float64](n),
+		DFFITS:         hugepage.Make[float64](n),
+		LooR:           hugepage.Make[float64](n),
+		LooSlope:       hugepage.Make[float64](n),
+		LooIntercept:   hugepage.Make[float64](n),
+		SoleSupport:    hugepage.Make[bool](n),
 	}
 	li := NewLineInfluence(x, y)
 	for i := range x {

@@ -3,7 +3,11 @@ package stats
 // This file holds LOWESS, the locally weighted scatterplot smoother drawn
 // over the scatter to show the relationship's shape without assuming one.
 
-import "math"
+import (
+	"math"
+
+	"bivar/internal/hugepage"
+)
 
 // LowessAutoDeltaN is the sample size above which a negative delta
 // argument to Lowess or LowessCurve means 0.01·(max x − min x); at or below
@@ -62,7 +66,7 @@ func Lowess(x, y []float64, frac float64, iter int, delta float64) []float64 {
 	if len(x) != len(y) {
 		panic("stats: Lowess: x and y lengths differ")
 	}
-	fit := make([]float64, len(x))
+	fit := hugepage.Make[float64](len(x))
 	for i := range fit {
 		fit[i] = math.NaN()
 	}
@@ -116,7 +120,7 @@ func LowessCurve(x, y []float64, frac float64, iter int, delta float64) (xs, ys 
 // lowessSort returns the indices of the finite pairs ordered stably by x and
 // the sorted x and y.
 func lowessSort(x, y []float64) (order []int, xs, ys []float64) {
-	keep := make([]int, 0, len(x))
+	keep := hugepage.Empty[int](len(x))
 	for i := range x {
 		if !math.IsNaN(x[i]) && !math.IsInf(x[i], 0) && !math.IsNaN(y[i]) && !math.IsInf(y[i], 0) {
 			keep = append(keep, i)
@@ -155,10 +159,10 @@ func lowessSorted(x, y []float64, frac float64, iter int, delta float64) (fit []
 		}
 	}
 	varFloor := 1e-12 * xRange * xRange
-	fit = make([]float64, n)
+	fit = hugepage.Make[float64](n)
 	var robust []float64 // nil on the first pass
 	w := make([]float64, k)
-	absRes := make([]float64, n)
+	absRes := hugepage.Make[float64](n)
 	for it := 0; it <= iter; it++ {
 		anchors = anchors[:0]
 		left, right := 0, k // window [left, right)
@@ -212,7 +216,7 @@ func lowessSorted(x, y []float64, frac float64, iter int, delta float64) (fit []
 			absRes[j] = math.Abs(y[j] - fit[j])
 		}
 		if robust == nil {
-			robust = make([]float64, n)
+			robust = hugepage.Make[float64](n)
 		}
 		for j := range absRes {
 			robust[j] = absRes[j]

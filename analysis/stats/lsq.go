@@ -13,6 +13,8 @@ import (
 	"gonum.org/v1/gonum/blas/blas64"
 	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
+
+	"bivar/internal/hugepage"
 )
 
 // Coef is one coefficient of a least-squares fit with its inference.
@@ -189,7 +191,7 @@ func pow2Shift(v []float64) int {
 
 // ldexpAll returns v·2^k, element by element.
 func ldexpAll(v []float64, k int) []float64 {
-	out := make([]float64, len(v))
+	out := hugepage.Make[float64](len(v))
 	for i, a := range v {
 		out[i] = math.Ldexp(a, k)
 	}
@@ -261,7 +263,7 @@ func leastSquares(cols [][]float64, y []float64, conf float64) (Regression, erro
 			a[i*p+j] = (v - hi) - lo
 		}
 	}
-	yc := make([]float64, n)
+	yc := hugepage.Make[float64](n)
 	for i, v := range y {
 		yc[i] = (v - yhi) - ylo
 	}
@@ -333,9 +335,9 @@ func leastSquares(cols [][]float64, y []float64, conf float64) (Regression, erro
 func (r Regression) finish(cols [][]float64, y, b []float64, conf float64) Regression {
 	n, p := r.N, r.p
 	nf := float64(n)
-	r.Fitted = make([]float64, n)
-	r.Residuals = make([]float64, n)
-	r.Leverage = make([]float64, n)
+	r.Fitted = hugepage.Make[float64](n)
+	r.Residuals = hugepage.Make[float64](n)
+	r.Leverage = hugepage.Make[float64](n)
 	xc := make([]float64, p)
 	var rss, ess float64
 	for i := 0; i < n; i++ {
@@ -589,7 +591,7 @@ func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regressi
 	}
 	cols := make([][]float64, degree)
 	for d := range cols {
-		col := make([]float64, len(x))
+		col := hugepage.Make[float64](len(x))
 		for i, v := range x {
 			if d == 0 {
 				col[i] = (v - c) / s

@@ -3,7 +3,11 @@ package stats
 // This file holds the partial correlation of x and y given one covariate,
 // the check for a lurking variable that carries the association.
 
-import "math"
+import (
+	"math"
+
+	"bivar/internal/hugepage"
+)
 
 // PartialCorrelation returns the partial correlation of x and y given the
 // covariate z, its confidence interval at level conf, and the two-sided p
@@ -95,7 +99,7 @@ func residOnOne(z, v []float64) (e []float64, ss float64, ok bool) {
 	b := m.Sxy / m.Sxx
 	hz, lz, _ := meanParts(z) // two-part means: no digits lost to an offset
 	hv, lv, _ := meanParts(v)
-	e = make([]float64, len(v))
+	e = hugepage.Make[float64](len(v))
 	for i := range v {
 		e[i] = ((v[i] - hv) - lv) - b*((z[i]-hz)-lz)
 	}

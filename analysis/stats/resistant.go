@@ -10,6 +10,8 @@ import (
 	"math/bits"
 	"math/rand/v2"
 	"slices"
+
+	"bivar/internal/hugepage"
 )
 
 // DefaultMaxExact is the number of points up to which TheilSen uses every
@@ -98,7 +100,7 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 			src = rand.NewPCG(1, 2)
 		}
 		m := maxExact * (maxExact - 1) / 2
-		slopes = make([]float64, 0, m)
+		slopes = hugepage.Empty[float64](m)
 		// One 64-bit draw gives both positions: i from its low half in
 		// [0, n), j from its high half in [0, n−1), each by Lemire's
 		// multiply-and-reject (Lemire 2019, "Fast random integer generation
@@ -128,7 +130,7 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 		return nan, nan, method, pairs
 	}
 	slope = medianInPlace(slopes)
-	resid := make([]float64, n)
+	resid := hugepage.Make[float64](n)
 	for i := range x {
 		resid[i] = y[i] - slope*x[i]
 	}
@@ -141,14 +143,14 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 // −0 and +0 count as equal). v must hold no NaN.
 func stableArgsort(v []float64) []int {
 	n := len(v)
-	keys := make([]uint64, n)
-	idx := make([]int32, n)
+	keys := hugepage.Make[uint64](n)
+	idx := hugepage.Make[int32](n)
 	for i, e := range v {
 		keys[i] = floatKey(e)
 		idx[i] = int32(i)
 	}
-	radixSort(keys, idx, make([]uint64, n), make([]int32, n))
-	out := make([]int, n)
+	radixSort(keys, idx, hugepage.Make[uint64](n), hugepage.Make[int32](n))
+	out := hugepage.Make[int](n)
 	for i, k := range idx {
 		out[i] = int(k)
 	}

@@ -4,7 +4,11 @@ package stats
 // assume independent rows with an even scatter (HC3; Newey–West HAC), the
 // lag-1 autocorrelation, and Bartlett's effective sample size for r.
 
-import "math"
+import (
+	"math"
+
+	"bivar/internal/hugepage"
+)
 
 // lineParts returns the means of x and y, Sxx and the least-squares
 // slope (two passes about the means); the residual of row i is then
@@ -118,7 +122,7 @@ func slopeHAC(x, y []float64, order []int32, lags int) (slope, se float64) {
 	if !(sxx > 0) {
 		return math.NaN(), math.NaN()
 	}
-	u := make([]float64, n)
+	u := hugepage.Make[float64](n)
 	var s float64
 	for t := range u {
 		i := t

@@ -10,6 +10,7 @@ package stats
 // from canonical positions.
 
 import (
+	"bivar/internal/hugepage"
 	"math"
 	"math/bits"
 	"math/rand/v2"
@@ -44,8 +45,8 @@ func NewSorted(x, y []float64) *Sorted {
 	}
 	checkIndexable("NewSorted", len(x))
 	n := len(x)
-	keys, kbuf := make([]uint64, n), make([]uint64, n)
-	row, ibuf := make([]int32, n), make([]int32, n)
+	keys, kbuf := hugepage.Make[uint64](n), hugepage.Make[uint64](n)
+	row, ibuf := hugepage.Make[int32](n), hugepage.Make[int32](n)
 	for i, v := range y {
 		keys[i] = tieKey(v)
 		row[i] = int32(i)
@@ -55,7 +56,7 @@ func NewSorted(x, y []float64) *Sorted {
 		keys[k] = floatKey(x[i])
 	}
 	radixSort(keys, row, kbuf, ibuf)
-	s := &Sorted{X: make([]float64, n), Y: make([]float64, n), Row: row, ByY: make([]int32, n)}
+	s := &Sorted{X: hugepage.Make[float64](n), Y: hugepage.Make[float64](n), Row: row, ByY: hugepage.Make[int32](n)}
 	for k, i := range row {
 		s.X[k], s.Y[k] = x[i], y[i]
 	}
@@ -88,7 +89,7 @@ func (s *Sorted) ToRows(v []float64) []float64 {
 	if len(v) != len(s.Row) {
 		panic("stats: Sorted.ToRows: length differs")
 	}
-	out := make([]float64, len(v))
+	out := hugepage.Make[float64](len(v))
 	for k, i := range s.Row {
 		out[i] = v[k]
 	}
@@ -125,7 +126,7 @@ func summarySorted(v []float64, at func(int) float64) Summary {
 // canonical order.
 func (s *Sorted) ranks() (rx, ry []float64) {
 	n := s.Len()
-	rx, ry = make([]float64, n), make([]float64, n)
+	rx, ry = hugepage.Make[float64](n), hugepage.Make[float64](n)
 	for lo := 0; lo < n; {
 		hi := lo + 1
 		for hi < n && s.X[hi] == s.X[lo] {
@@ -175,7 +176,7 @@ func (s *Sorted) KendallTauB() (tau, p float64) {
 	if n < 2 {
 		return math.NaN(), math.NaN()
 	}
-	xs := make([]uint64, n)
+	xs := hugepage.Make[uint64](n)
 	for j, k := range s.ByY {
 		xs[j] = floatKey(s.X[k])
 	}
@@ -205,7 +206,7 @@ func (s *Sorted) KendallTauB() (tau, p float64) {
 		}
 		lo = hi
 	}
-	swaps := mergeCount(xs, make([]uint64, n))
+	swaps := mergeCount(xs, hugepage.Make[uint64](n))
 	return kendallFromCounts(n, swaps, tx, ty, txy)
 }
 
@@ -282,7 +283,7 @@ func (s *Sorted) sample(m int, rng *rand.Rand) (x, y []float64) {
 		}
 		set[t/64] |= 1 << (t % 64)
 	}
-	x, y = make([]float64, 0, m), make([]float64, 0, m)
+	x, y = hugepage.Empty[float64](m), hugepage.Empty[float64](m)
 	for w, bitsw := range set {
 		for bitsw != 0 {
 			k := w*64 + bits.TrailingZeros64(bitsw)
@@ -303,7 +304,7 @@ func (s *Sorted) OrderOf(v []float64) []int32 {
 	if len(v) != n {
 		panic("stats: Sorted.OrderOf: length differs")
 	}
-	pos := make([]int32, n)
+	pos := hugepage.Make[int32](n)
 	increasing := true
 	for i := 1; i < n && increasing; i++ {
 		increasing = v[i-1] < v[i]
@@ -314,11 +315,11 @@ func (s *Sorted) OrderOf(v []float64) []int32 {
 		}
 		return pos
 	}
-	keys := make([]uint64, n)
+	keys := hugepage.Make[uint64](n)
 	for k, i := range s.Row {
 		keys[k] = floatKey(v[i])
 		pos[k] = int32(k)
 	}
-	radixSort(keys, pos, make([]uint64, n), make([]int32, n))
+	radixSort(keys, pos, hugepage.Make[uint64](n), hugepage.Make[int32](n))
 	return pos
 }

@@ -10,6 +10,8 @@ import (
 	"math"
 	"runtime"
 	"sync"
+
+	"bivar/internal/hugepage"
 )
 
 // floatKey maps v (not NaN) to a uint64 whose unsigned order is the numeric
@@ -143,12 +145,12 @@ func scatter(src, dst []uint64, isrc, idst []int32, lo, hi int, shift uint, pos 
 
 // sortedCopy returns the values of x sorted ascending (x holds no NaN).
 func sortedCopy(x []float64) []float64 {
-	keys := make([]uint64, len(x))
+	keys := hugepage.Make[uint64](len(x))
 	for i, v := range x {
 		keys[i] = floatKey(v)
 	}
-	radixSort(keys, nil, make([]uint64, len(x)), nil)
-	out := make([]float64, len(x))
+	radixSort(keys, nil, hugepage.Make[uint64](len(x)), nil)
+	out := hugepage.Make[float64](len(x))
 	for i, k := range keys {
 		out[i] = keyFloat(k)
 	}

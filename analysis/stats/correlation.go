@@ -393,7 +393,7 @@ func (s *tieSums) add(t int) {
 // counted), using buf (len(buf) ≥ len(a)) as scratch: Knight (1966). Runs
 // of mergeRun elements are first sorted by insertion, whose number of
 // element moves is exactly their count of such pairs.
-func mergeCount(a, buf []uint64) int64 {
+func mergeCount[T uint64 | int32](a, buf []T) int64 {
 	n := len(a)
 	if n < 2 {
 		return 0

@@ -10,10 +10,14 @@ package stats
 // from canonical positions.
 
 import (
-	"bivar/internal/hugepage"
 	"math"
 	"math/bits"
 	"math/rand/v2"
+	"runtime"
+	"slices"
+	"sync"
+
+	"bivar/internal/hugepage"
 )
 
 // Sorted is a set of (x, y) pairs in canonical order: ascending x, pairs of
@@ -30,10 +34,11 @@ type Sorted struct {
 	ByY  []int32   // canonical positions in ascending y; tied y by canonical position (so by x)
 }
 
-// NewSorted returns the pairs (x[i], y[i]) in canonical order. Two stable
-// LSD radix sorts of the positions (sortkey.go: by tieKey(y), then by x) give
-// the canonical order, a third (by y) gives ByY: O(n) time; 24 bytes per
-// pair are kept and 20 more are scratch while it runs.
+// NewSorted returns the pairs (x[i], y[i]) in canonical order. A stable
+// LSD radix sort of the positions by x (sortkey.go), then an ordering of
+// each run of equal x by tieKey(y) (orderTies), give the canonical order; a
+// second radix sort (by y) gives ByY: O(n) time where runs are short; 24
+// bytes per pair are kept and 24 more are scratch while it runs.
 //
 // x and y must have equal length and fewer than 2³¹ values (it panics
 // otherwise) and hold no NaN (the caller removes missing values first; the
@@ -47,25 +52,127 @@ func NewSorted(x, y []float64) *Sorted {
 	n := len(x)
 	keys, kbuf := hugepage.Make[uint64](n), hugepage.Make[uint64](n)
 	row, ibuf := hugepage.Make[int32](n), hugepage.Make[int32](n)
-	for i, v := range y {
-		keys[i] = tieKey(v)
+	for i, v := range x {
+		keys[i] = floatKey(v)
 		row[i] = int32(i)
-	}
-	radixSort(keys, row, kbuf, ibuf)
-	for k, i := range row {
-		keys[k] = floatKey(x[i])
 	}
 	radixSort(keys, row, kbuf, ibuf)
 	s := &Sorted{X: hugepage.Make[float64](n), Y: hugepage.Make[float64](n), Row: row, ByY: hugepage.Make[int32](n)}
 	for k, i := range row {
 		s.X[k], s.Y[k] = x[i], y[i]
 	}
+	s.orderTies(keys, kbuf, ibuf)
 	for k, v := range s.Y {
 		keys[k] = floatKey(v)
 		s.ByY[k] = int32(k)
 	}
 	radixSort(keys, s.ByY, kbuf, ibuf)
 	return s
+}
+
+// orderTies puts each run of equal x, which the stable sort by x left in
+// the caller's order, in ascending tieKey(y), equal pairs still in the
+// caller's order: the order a stable sort by tieKey(y) and then a stable
+// sort by x would give, at the cost of the tied runs only (nothing where
+// every x differs). Runs are contiguous here, so each is sorted in place,
+// by sortRun up to 2048 pairs and by the radix sort beyond; from
+// radixParMin pairs the runs are split at a run's boundary over two
+// goroutines. keys, kbuf and ibuf are scratch of length Len().
+func (s *Sorted) orderTies(keys, kbuf []uint64, ibuf []int32) {
+	n := s.Len()
+	if n < radixParMin || runtime.GOMAXPROCS(0) < 2 {
+		s.orderTiesIn(0, n, keys, kbuf, ibuf)
+		return
+	}
+	mid := n / 2
+	for mid < n && s.X[mid] == s.X[mid-1] {
+		mid++
+	}
+	var wg sync.WaitGroup
+	wg.Go(func() { s.orderTiesIn(0, mid, keys, kbuf, ibuf) })
+	s.orderTiesIn(mid, n, keys, kbuf, ibuf)
+	wg.Wait()
+}
+
+// orderTiesIn is orderTies over the runs in [from, to), which start and end
+// there; it writes keys, kbuf and ibuf only within [from, to).
+func (s *Sorted) orderTiesIn(from, to int, keys, kbuf []uint64, ibuf []int32) {
+	var packed []uint64
+	var ys []float64
+	var rs []int32
+	for lo := from; lo < to; {
+		hi := lo + 1
+		for hi < to && s.X[hi] == s.X[lo] {
+			hi++
+		}
+		switch m := hi - lo; {
+		case m == 1:
+		case m <= runSortMax:
+			packed, ys, rs = sortRun(s.Y[lo:hi], s.Row[lo:hi], packed, ys, rs)
+		default:
+			// The run's positions sorted by tieKey(y), stably, then y and
+			// Row gathered through them (kbuf's bits hold y meanwhile).
+			ks, pos := keys[lo:hi], ibuf[lo:hi]
+			for j := range m {
+				ks[j], pos[j] = tieKey(s.Y[lo+j]), int32(j)
+			}
+			radixSort(ks, pos, kbuf[lo:hi], make([]int32, m))
+			yb := kbuf[lo:hi]
+			for j, p := range pos {
+				yb[j] = math.Float64bits(s.Y[lo+int(p)])
+			}
+			rs := s.Row[lo:hi]
+			for j, p := range pos {
+				ks[j] = uint64(rs[p])
+			}
+			for j := range m {
+				s.Y[lo+j], rs[j] = math.Float64frombits(yb[j]), int32(ks[j])
+			}
+		}
+		lo = hi
+	}
+}
+
+// runSortMax is the longest run sortRun sorts: its place in the run must
+// fit the low runBits bits of a key.
+const (
+	runBits    = 11
+	runSortMax = 1 << runBits
+)
+
+// sortRun orders y and row (one run of equal x, at most runSortMax long)
+// by tieKey(y), stably. Each pair's key is its tieKey with the low runBits
+// bits replaced by its place, so one sort of plain integers (slices.Sort)
+// orders by the key's high bits and then by place; pairs whose high bits
+// agree but whose full tieKeys differ are then put right by insertion.
+// packed, ys and rs are scratch, returned for reuse.
+func sortRun(y []float64, row []int32, packed []uint64, ys []float64, rs []int32) ([]uint64, []float64, []int32) {
+	const low = 1<<runBits - 1
+	m := len(y)
+	packed = packed[:0]
+	for j, v := range y {
+		packed = append(packed, tieKey(v)&^low|uint64(j))
+	}
+	slices.Sort(packed)
+	for j := 1; j < m; j++ {
+		if packed[j]&^low != packed[j-1]&^low {
+			continue
+		}
+		// Equal high bits: insertion by the full key, places ascending
+		// among equal keys.
+		p := packed[j]
+		k := tieKey(y[p&low])
+		i := j
+		for ; i > 0 && packed[i-1]&^low == p&^low && tieKey(y[packed[i-1]&low]) > k; i-- {
+			packed[i] = packed[i-1]
+		}
+		packed[i] = p
+	}
+	ys, rs = append(ys[:0], y...), append(rs[:0], row...)
+	for j, p := range packed {
+		y[j], row[j] = ys[p&low], rs[p&low]
+	}
+	return packed, ys, rs
 }
 
 // tieKey maps y to a 64-bit key by a bijection of floatKey(y), the
@@ -176,10 +283,9 @@ func (s *Sorted) KendallTauB() (tau, p float64) {
 	if n < 2 {
 		return math.NaN(), math.NaN()
 	}
-	xs := hugepage.Make[uint64](n)
-	for j, k := range s.ByY {
-		xs[j] = floatKey(s.X[k])
-	}
+	// Each pair's x as the canonical position where its run of equal x
+	// starts (equal x, equal keys; order kept), listed in ascending y.
+	start := hugepage.Make[int32](n)
 	var tx, ty, txy tieSums
 	for lo := 0; lo < n; {
 		hi := lo + 1
@@ -187,7 +293,14 @@ func (s *Sorted) KendallTauB() (tau, p float64) {
 			hi++
 		}
 		tx.add(hi - lo)
+		for k := lo; k < hi; k++ {
+			start[k] = int32(lo)
+		}
 		lo = hi
+	}
+	xs := hugepage.Make[int32](n)
+	for j, k := range s.ByY {
+		xs[j] = start[k]
 	}
 	for lo := 0; lo < n; {
 		v := s.Y[s.ByY[lo]]
@@ -206,7 +319,7 @@ func (s *Sorted) KendallTauB() (tau, p float64) {
 		}
 		lo = hi
 	}
-	swaps := mergeCount(xs, hugepage.Make[uint64](n))
+	swaps := mergeCount(xs, start)
 	return kendallFromCounts(n, swaps, tx, ty, txy)
 }
 

@@ -71,3 +71,28 @@ func BenchmarkStudyStats1e6(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkNewSorted times NewSorted at 10⁶ pairs for three shapes of x:
+// continuous (no ties), read to 3 decimals (runs of about 60 equal x, the
+// benchmark generator's files) and a setting with 5 levels (runs of 2·10⁵).
+func BenchmarkNewSorted(b *testing.B) {
+	x, y := studyBenchData(1_000_000)
+	rng := rand.New(rand.NewPCG(3, 4))
+	cont, levels := make([]float64, len(x)), make([]float64, len(x))
+	for i := range x {
+		cont[i] = x[i] + rng.Float64()*1e-3
+		levels[i] = float64(rng.IntN(5))
+	}
+	for _, c := range []struct {
+		name string
+		x    []float64
+	}{{"continuous", cont}, {"3-decimals", x}, {"5-levels", levels}} {
+		b.Run(c.name, func(b *testing.B) {
+			cpu0 := benchCPUTime()
+			for b.Loop() {
+				NewSorted(c.x, y)
+			}
+			b.ReportMetric(float64(benchCPUTime()-cpu0)/float64(b.N), "cpu-ns/op")
+		})
+	}
+}

@@ -274,7 +274,7 @@ func TestNewSortedTies(t *testing.T) {
 	t.Parallel()
 	rng := rand.New(rand.NewPCG(11, 12))
 	var x, y []float64
-	for lev, m := range []int{1, 2, 3, 40, 2047, 2048, 5000, 1} {
+	for lev, m := range []int{1, 2, 3, 24, 25, 40, 2047, 2048, 2049, 5000, 1} {
 		for range m {
 			x = append(x, float64(lev%4)*0.5-float64(lev)) // distinct levels, some negative
 			y = append(y, math.Round(rng.NormFloat64()*4)) // many equal y, so equal pairs
@@ -290,5 +290,66 @@ func TestNewSortedTies(t *testing.T) {
 	})
 	if s := NewSorted(x, y); !slices.Equal(s.Row, want) {
 		t.Error("canonical order differs from the comparison sort by (x, tieKey(y), row)")
+	}
+}
+
+// TestSortRunHighBitsCollide: pairs of one run whose tieKeys agree in all
+// but the low runBits bits (sortRun's packed keys then tie) still come out
+// in full tieKey order, equal pairs in their places' order. The y values
+// are made from chosen keys by inverting tieKey (each step of SplitMix64's
+// finaliser inverted: xor-shifts by their repeated application, the odd
+// multipliers by their inverses mod 2⁶⁴).
+func TestSortRunHighBitsCollide(t *testing.T) {
+	t.Parallel()
+	inv := func(a uint64) uint64 { // Newton's iteration for a⁻¹ mod 2⁶⁴
+		x := a
+		for range 6 {
+			x *= 2 - a*x
+		}
+		return x
+	}
+	// z ^ (z >> s) inverted by iterating z = v ^ (z >> s) to its fixed
+	// point (each round fixes s more bits).
+	unxor := func(v uint64, s uint) uint64 {
+		z := v
+		for range 64 {
+			z = v ^ (z >> s)
+		}
+		return z
+	}
+	untie := func(k uint64) float64 {
+		z := unxor(k, 31)
+		z *= inv(0x94d049bb133111eb)
+		z = unxor(z, 27)
+		z *= inv(0xbf58476d1ce4e5b9)
+		z = unxor(z, 30)
+		return keyFloat(z)
+	}
+	base := uint64(0x5a5a_1234_5678_9000) &^ (1<<runBits - 1)
+	lows := []uint64{9, 3, 700, 3, 0, 9, 1}
+	var y []float64
+	for _, l := range lows {
+		v := untie(base | l)
+		if math.IsNaN(v) || tieKey(v) != base|l {
+			t.Fatalf("untie(%#x) = %v, whose tieKey is %#x", base|l, v, tieKey(v))
+		}
+		y = append(y, v)
+	}
+	y = append(y, untie(base-1<<runBits)) // other high bits, first
+	row := make([]int32, len(y))
+	for i := range row {
+		row[i] = int32(100 + i)
+	}
+	want := slices.Clone(row)
+	slices.SortStableFunc(want, func(a, b int32) int { return cmp.Compare(tieKey(y[a-100]), tieKey(y[b-100])) })
+	ys := slices.Clone(y)
+	sortRun(ys, row, nil, nil, nil)
+	if !slices.Equal(row, want) {
+		t.Errorf("sortRun order %v, want %v", row, want)
+	}
+	for j, r := range row {
+		if ys[j] != y[r-100] {
+			t.Fatalf("y at %d is not row %d's", j, r)
+		}
 	}
 }

@@ -8,7 +8,6 @@ package stats
 // correlation coefficient.
 
 import (
-	"cmp"
 	"encoding/binary"
 	"hash/fnv"
 	"math"
@@ -571,7 +570,7 @@ func PassingBablok(x, y []float64, conf float64) PassingBablokFit {
 		f.Sampled = true
 		xs, ys, s1, s2 := pbSortedSeed(x, y)
 		rng := rand.New(rand.NewPCG(s1, s2))
-		s = make([]float64, 0, passingBablokSample)
+		s = hugepage.Empty[float64](passingBablokSample)
 		for range passingBablokSample {
 			i := rng.IntN(n)
 			j := rng.IntN(n - 1)
@@ -669,12 +668,7 @@ func pbMedianResidual(x, y []float64, b float64) float64 {
 	for i := range x {
 		r[i] = y[i] - b*x[i]
 	}
-	slices.Sort(r)
-	n := len(r)
-	if n%2 == 1 {
-		return r[n/2]
-	}
-	return (r[n/2-1] + r[n/2]) / 2
+	return medianInPlace(r)
 }
 
 // pbSortedSeed returns the rows sorted by (x, y) and a hash of them
@@ -682,13 +676,18 @@ func pbMedianResidual(x, y []float64, b float64) float64 {
 // pairs, drawn by index into the sorted rows, depends only on the set of
 // rows.
 func pbSortedSeed(x, y []float64) (xs, ys []float64, s1, s2 uint64) {
-	idx := hugepage.Make[int](len(x))
-	for i := range idx {
-		idx[i] = i
+	// Two stable radix sorts (sortkey.go): by y, then by x.
+	n := len(x)
+	keys, kbuf := hugepage.Make[uint64](n), hugepage.Make[uint64](n)
+	idx, ibuf := hugepage.Make[int32](n), hugepage.Make[int32](n)
+	for i, v := range y {
+		keys[i], idx[i] = floatKey(v), int32(i)
 	}
-	slices.SortFunc(idx, func(a, b int) int {
-		return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(y[a], y[b]))
-	})
+	radixSort(keys, idx, kbuf, ibuf)
+	for k, i := range idx {
+		keys[k] = floatKey(x[i])
+	}
+	radixSort(keys, idx, kbuf, ibuf)
 	h := fnv.New128a()
 	var buf [16]byte
 	xs, ys = hugepage.Make[float64](len(x)), hugepage.Make[float64](len(y))

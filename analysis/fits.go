@@ -9,6 +9,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"runtime"
+	"slices"
 	"sync"
 
 	"bivar/analysis/report"
@@ -252,14 +253,25 @@ func lowessDelta(x []float64) float64 {
 
 // groupFits fits the straight line within each level of the group, levels
 // in sorted order. A level with fewer than 3 rows or a constant x gets NaN.
-func groupFits(x, y []float64, lv []string, gidx []int, conf float64) []report.GroupFit {
-	byLevel := make([][]int, len(lv))
+func groupFits(x, y []float64, lv []string, gidx []int32, conf float64) []report.GroupFit {
+	// The rows level by level (a counting sort: one int32 per row, not a
+	// list per level).
+	start := make([]int, len(lv)+1)
+	for _, g := range gidx {
+		start[g+1]++
+	}
+	for k := range lv {
+		start[k+1] += start[k]
+	}
+	rows := hugepage.Make[int32](len(gidx))
+	next := slices.Clone(start[:len(lv)])
 	for i, g := range gidx {
-		byLevel[g] = append(byLevel[g], i)
+		rows[next[g]] = int32(i)
+		next[g]++
 	}
 	out := make([]report.GroupFit, 0, len(lv))
 	for k, g := range lv {
-		idx := byLevel[k]
+		idx := rows[start[k]:start[k+1]]
 		gf := report.GroupFit{Group: g, N: len(idx), R: report.NaN(), Slope: report.NaN(), Intercept: report.NaN(),
 			SlopeLow: report.NaN(), SlopeHigh: report.NaN()}
 		gx, gy := pick(x, idx), pick(y, idx)
@@ -277,7 +289,7 @@ func groupFits(x, y []float64, lv []string, gidx []int, conf float64) []report.G
 	return out
 }
 
-func pick(v []float64, idx []int) []float64 {
+func pick[I int | int32](v []float64, idx []I) []float64 {
 	out := make([]float64, len(idx))
 	for j, i := range idx {
 		out[j] = v[i]
@@ -287,7 +299,7 @@ func pick(v []float64, idx []int) []float64 {
 
 // groupLines compares the lines within the group's levels
 // (stats.CompareGroupLines).
-func groupLines(x, y []float64, gidx []int) *report.GroupLines {
+func groupLines(x, y []float64, gidx []int32) *report.GroupLines {
 	c := stats.CompareGroupLines(x, y, gidx)
 	return &report.GroupLines{Groups: c.Groups, N: c.N, SlopesF: report.Float(c.SlopesF), SlopesDF1: c.SlopesDF1, SlopesP: report.Float(c.SlopesP),
 		LinesF: report.Float(c.LinesF), LinesDF1: c.LinesDF1, LinesP: report.Float(c.LinesP), DF2: c.DF2,

@@ -10,6 +10,7 @@ import (
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
+	"bivar/internal/hugepage"
 )
 
 // Grid sizes of the density grids: about 7 px cells on the charts.
@@ -25,7 +26,7 @@ const (
 // quad is the quadratic fit (nil without one): its fitted values and
 // residuals go beside the line's, for assess to put in place when the form
 // is curved and the curve is the main fit.
-func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.LineFit, quad *stats.Regression, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {
+func plotData(x, y []float64, cc cases, lv []string, gidx []int32, line stats.LineFit, quad *stats.Regression, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {
 	n := len(x)
 	p := &report.Plot{N: n, ResidualsOf: "line"}
 	resid := line.Residuals // data order (analyze)
@@ -57,7 +58,7 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.Line
 				pt.Order = cc.order[i]
 			}
 			if gidx != nil {
-				pt.Group = gidx[i]
+				pt.Group = int(gidx[i])
 			}
 			p.Points[i] = pt
 		}
@@ -106,7 +107,7 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int, line stats.Line
 // into them: computed once per study and shared by the per-group lines,
 // the comparison of the group lines and the plot. Indices follow the
 // sorted levels, so they do not depend on the file's order of rows.
-func levels(g []string) ([]string, []int) {
+func levels(g []string) ([]string, []int32) {
 	seen := map[string]int{}
 	var lv []string
 	for _, v := range g {
@@ -119,9 +120,9 @@ func levels(g []string) ([]string, []int) {
 	for i, v := range lv {
 		seen[v] = i
 	}
-	idx := make([]int, len(g))
+	idx := hugepage.Make[int32](len(g))
 	for i, v := range g {
-		idx[i] = seen[v]
+		idx[i] = int32(seen[v])
 	}
 	return lv, idx
 }

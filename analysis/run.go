@@ -101,12 +101,15 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		}
 	}
 
-	// Studies run concurrently, at most GOMAXPROCS at a time; each has its
-	// own slot and its own random streams (see source), so the report does
-	// not depend on the scheduling.
+	// Studies run concurrently, at most GOMAXPROCS at a time and, beyond
+	// the first, only while the studies running hold at most
+	// studyRowBudget rows between them (studyGate); each has its own
+	// random streams (see source), so the report does not depend on the
+	// scheduling.
 	r.Studies = make([]report.Study, len(m.Studies))
 	var wg sync.WaitGroup
 	slots := make(chan struct{}, max(1, runtime.GOMAXPROCS(0)))
+	gate := newStudyGate(studyRowBudget)
 	for i, st := range m.Studies {
 		if ls := loaded[st.Dataset]; ls != nil && ls.push != nil && !absentAny(st, ls) {
 			// The rows stay in the database: it does the work, one study
@@ -131,9 +134,11 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			continue
 		}
 		wg.Add(1)
+		rows := len(in.XS)
+		gate.enter(rows)
 		slots <- struct{}{}
 		go func() {
-			defer func() { <-slots; wg.Done() }()
+			defer func() { <-slots; gate.leave(rows); wg.Done() }()
 			in.Keep = selected[i].keep
 			s := analyze(onScale(st, in), cfg)
 			scaledModels(&s)
@@ -504,10 +509,17 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 	if missing == nil {
 		missing = manifest.DefaultMissing()
 	}
+	// blankMissing returns the column with its missing markers blanked: the
+	// dataset's own slice where none is (nothing is copied: at 10⁷ rows a
+	// copy is 160 MB per column and study), a copy where one is.
 	blankMissing := func(col string) []string {
-		v := slices.Clone(t.Text[col])
+		v := t.Text[col]
+		copied := false
 		for i := range v {
 			if slices.Contains(missing, strings.TrimSpace(v[i])) {
+				if !copied {
+					v, copied = slices.Clone(v), true
+				}
 				v[i] = ""
 			}
 		}
@@ -559,4 +571,48 @@ func quoteList(cols []string) string {
 		q[i] = fmt.Sprintf("%q", c)
 	}
 	return strings.Join(q, ", ")
+}
+
+// studyRowBudget is the number of rows the studies running at once may hold
+// between them before another has to wait: a study's working memory is
+// about 45 bytes a row (its sorted pairs, their order and a column or two
+// of scratch), so two studies of 10⁷ rows side by side would take the heap
+// past the soft limit main sets, where the collector runs without pause,
+// while one at a time still keeps both processors busy with its tasks.
+const studyRowBudget = 4_000_000
+
+// studyGate admits studies in manifest order while the rows of those
+// running stay within a budget; a study is always admitted when none runs.
+type studyGate struct {
+	mu      sync.Mutex
+	cond    *sync.Cond
+	budget  int
+	running int
+	rows    int
+}
+
+func newStudyGate(budget int) *studyGate {
+	g := &studyGate{budget: budget}
+	g.cond = sync.NewCond(&g.mu)
+	return g
+}
+
+// enter waits until a study of n rows may start, and counts it.
+func (g *studyGate) enter(n int) {
+	g.mu.Lock()
+	for g.running > 0 && g.rows+n > g.budget {
+		g.cond.Wait()
+	}
+	g.running++
+	g.rows += n
+	g.mu.Unlock()
+}
+
+// leave counts a study of n rows out.
+func (g *studyGate) leave(n int) {
+	g.mu.Lock()
+	g.running--
+	g.rows -= n
+	g.mu.Unlock()
+	g.cond.Broadcast()
 }

@@ -273,7 +273,7 @@ func analyze(in Input, cfg Config) report.Study {
 			CILow: report.Float(lo), CIHigh: report.Float(hi), P: report.Float(p)})
 	}
 	var lv []string // group levels, sorted, and each row's index into them
-	var gidx []int
+	var gidx []int32
 	if in.Groups != nil {
 		lv, gidx = levels(cc.groups)
 		s.Groups = groupFits(x, y, lv, gidx, conf)

@@ -106,7 +106,7 @@ func TestHTMLStructure(t *testing.T) {
 		}
 	}
 	// Top of the page: title, caution, summary with one row per study, provenance.
-	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "what the pooled verdict alone would hide", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out of each study"} {
+	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "finding and status", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out of each study"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -125,12 +125,12 @@ func TestHTMLStructure(t *testing.T) {
 		last = i
 	}
 	// Per study content of the rich study.
-	for _, want := range []string{"What the data show", "The numbers behind it", "Unusual rows", "Unusual rows, and leaving one out",
+	for _, want := range []string{"What the data show", "The numbers", "Unusual rows",
 		"In other units", "Predictions from the line",
 		"Mean of many rows, 95%", "One new row, 95%", "no — not supported", `class="limits limits"`, "What may not be concluded",
 		"<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
 		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 0.0001", "The line within each level of Resin lot",
-		"Shapes tried against the line", "line (baseline)", "Where the data lie", "Cuts for 60 rows: off the line beyond"} {
+		"Other shapes against the line", "a bend (parabola)", "Where the data lie", "Cuts for 60 rows: off the line beyond"} {
 		if !strings.Contains(page, strings.ReplaceAll(strings.ReplaceAll(want, "<", "&lt;"), "&lt;strong>", "<strong>")) && !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -522,12 +522,12 @@ func TestFirstScreenAndConventions(t *testing.T) {
 		}
 	}
 	// The fixture's quadratic turns at 44.4, near its data; then far out.
-	if !strings.Contains(md, "turns at x = 44.40 kN") {
+	if !strings.Contains(md, "turning at x = 44.40 kN") {
 		t.Error("a turning point near the data is not printed")
 	}
 	r.Studies[0].Models[0].VertexNear = false
 	md = string(mustMD(t, r))
-	if !strings.Contains(md, "turns far outside the data") || strings.Contains(md, "turns at x = ") {
+	if !strings.Contains(md, "turning far outside the data") || strings.Contains(md, "turning at x = ") {
 		t.Error("a turning point far from the data is printed as if it meant something")
 	}
 }

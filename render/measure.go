@@ -18,7 +18,7 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 	}
 	// The first statement is the study's headline, shown above; those on
 	// repeatability restate the repeatability table below.
-	sec := &section{Key: "agreement", Title: "Agreement of the two methods"}
+	sec := &section{Key: "agreement", Title: "Agreement"}
 	for i, st := range a.Statements {
 		if (i == 0 && s.Findings != nil && st == s.Findings.Headline) || (len(a.Repeatability) > 0 && strings.HasPrefix(st, "Repeatability of ")) {
 			continue
@@ -32,7 +32,7 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 		}
 		return num(v) + " " + sym
 	}
-	t := table{Caption: "Differences " + name(s.Y) + " − " + name(s.X) + " (" + itoa(a.N) + " items)",
+	t := table{Caption: "Differences " + name(s.Y) + " - " + name(s.X) + " (" + itoa(a.N) + " items)",
 		Head: []string{"Measure", "Value", level + "% interval"}, Num: []bool{false, true, true}}
 	add := func(m, v, ci string) { t.Rows = append(t.Rows, []string{m, v, ci}) }
 	ui := func(lo, hi report.Float) string {
@@ -43,7 +43,7 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 	}
 	add("Bias (mean difference)", u(a.Bias), ui(a.BiasLow, a.BiasHigh))
 	add("SD of the differences", u(a.SD), "")
-	add("Lower limit of agreement (bias − "+num(a.K)+" SD)", u(a.Lower), ui(a.LowerLow, a.LowerHigh))
+	add("Lower limit of agreement (bias - "+num(a.K)+" SD)", u(a.Lower), ui(a.LowerLow, a.LowerHigh))
 	add("Upper limit of agreement (bias + "+num(a.K)+" SD)", u(a.Upper), ui(a.UpperLow, a.UpperHigh))
 	if a.Acceptable.Valid() {
 		add("Acceptable difference", "±"+u(a.Acceptable), "")

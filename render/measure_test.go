@@ -63,7 +63,7 @@ agreement = { acceptable = 60 }
 		// relationship, a sentence for an agreement study
 		"*Planning the next run", "| " + r.Studies[0].ID + " ", "Planning " + r.Studies[1].ID + ", an agreement study",
 		// the agreement headline opens the study (minus signs as ASCII in Markdown)
-		"### Agreement of the two methods", strings.ReplaceAll(ag.Statements[0], "−", "-"), "agr-agreement.svg", "agr-methods.svg"} {
+		"### Agreement", strings.ReplaceAll(ag.Statements[0], "−", "-"), "agr-agreement.svg", "agr-methods.svg"} {
 		if !strings.Contains(md.String(), want) {
 			t.Errorf("Markdown lacks %q", want)
 		}

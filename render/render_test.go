@@ -106,7 +106,7 @@ func TestHTMLStructure(t *testing.T) {
 		}
 	}
 	// Top of the page: title, caution, summary with one row per study, provenance.
-	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "finding and status", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out of each study"} {
+	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "finding and status", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out, and why"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -126,7 +126,7 @@ func TestHTMLStructure(t *testing.T) {
 	}
 	// Per study content of the rich study.
 	for _, want := range []string{"What the data show", "The numbers", "Unusual rows",
-		"In other units", "Predictions from the line",
+		"Other units: r = ", "Predictions",
 		"Mean of many rows, 95%", "One new row, 95%", "no — not supported", `class="limits limits"`, "What may not be concluded",
 		"<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
 		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 0.0001", "The line within each level of Resin lot",

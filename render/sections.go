@@ -375,6 +375,12 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 		n    int
 		flag string
 	}{{c.Outlier, "outlier"}, {c.Influential, "influential"}, {c.SoleSupport, "sole support"}, {c.HighLeverage, "high leverage"}, {c.LeverageOnly, "of them high leverage only (counted, not named)"}} {
+		if f.flag == "high leverage" && c.HighLeverage == c.LeverageOnly && c.Suspect == 0 {
+			// every flagged row is high leverage only: one phrase
+			f.flag = "high leverage only (counted, not named)"
+		} else if f.flag != "high leverage" && c.HighLeverage == c.LeverageOnly && c.Suspect == 0 {
+			continue
+		}
 		if f.n > 0 {
 			raised = append(raised, itoa(f.n)+" "+f.flag)
 		}
@@ -557,7 +563,7 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		if undefined > 0 {
 			where = "in every unit it converts to"
 		}
-		sec.Paras = append(sec.Paras, fmt.Sprintf("r = %s %s. %s.", rs[0], where, capital(strings.Join(parts, "; "))))
+		sec.Paras = append(sec.Paras, fmt.Sprintf("Other units: r = %s %s; %s.", rs[0], where, strings.Join(parts, "; ")))
 	case same:
 		sec.Tables = append(sec.Tables, t)
 	default:
@@ -599,7 +605,7 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 	if len(s.Predictions) == 0 {
 		return nil, nil
 	}
-	sec := &section{Key: "predictions", Title: "Predictions from the line"}
+	sec := &section{Key: "predictions", Title: "Predictions"}
 	t := table{Head: []string{"x" + paren(s.X.Symbol), "Line" + paren(s.Y.Symbol), "Mean of many rows, " + level + "%" + paren(s.Y.Symbol), "One new row, " + level + "%" + paren(s.Y.Symbol), "Inside the data"},
 		Num: []bool{true, true, true, true, false}}
 	for _, p := range s.Predictions {

@@ -66,17 +66,14 @@ const observational = "Observational data show association, not cause: not that 
 // glossary defines the terms the report uses after its plain questions.
 var glossary = []kv{
 	{"r (Pearson)", "how closely the rows follow a straight line, -1 to 1"},
-	{"Slope", "change in y per unit of x along the least-squares line"},
-	{"Residual SD", "typical distance of a row from the line, in y units"},
 	{"R²", "the share of y's variation a fit follows"},
 	{"Confidence interval", "holds the true value (for a prediction, the mean of many rows) in the stated share of samples"},
-	{"Prediction interval", "the range for one new row (\"one new row\" in the predictions)"},
+	{"Prediction interval", "the range for one new row"},
 	{"p", "how often data this far from \"no relationship\" would arise by chance"},
 	{"Spearman ρ, Kendall τ-b", "correlations of the ranks"},
 	{"Distance correlation", "dependence of any shape, 0 only when there is none"},
 	{"Breusch–Pagan", "tests whether the scatter changes with x"},
 	{"Durbin–Watson", "2 when neighbouring rows stray independently, well below 2 when together"},
-	{"LOWESS", "a smooth that follows the rows"},
 	{"AIC", "closeness of a fit penalised for its coefficients; lower is better"},
 }
 
@@ -268,7 +265,25 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 			p.Sources.Rows = append(p.Sources.Rows, []string{d.ID, src.Kind, strings.Join(det, "; ")})
 		}
 	}
-	p.Excluded = table{Caption: "Rows left out of each study, and why (the others used every row)",
+	// A column that says "none" for every file says it once, in the caption.
+	{
+		for col := len(p.Datasets.Head) - 1; col >= 4; col-- {
+			all := len(p.Datasets.Rows) > 0
+			for _, row := range p.Datasets.Rows {
+				all = all && row[col] == "none"
+			}
+			if !all {
+				continue
+			}
+			p.Datasets.Caption += "; " + strings.ToLower(p.Datasets.Head[col][:1]) + p.Datasets.Head[col][1:] + ": none"
+			p.Datasets.Head = slices.Delete(p.Datasets.Head, col, col+1)
+			p.Datasets.Num = slices.Delete(p.Datasets.Num, col, col+1)
+			for i := range p.Datasets.Rows {
+				p.Datasets.Rows[i] = slices.Delete(p.Datasets.Rows[i], col, col+1)
+			}
+		}
+	}
+	p.Excluded = table{Caption: "Rows left out, and why (the other studies used every row)",
 		Head: []string{"Study", "Rows used", "Rows left out", "Why"},
 		Num:  []bool{false, true, true, false}}
 	for _, s := range r.Studies {
@@ -338,7 +353,7 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 					said = append(said, as)
 				}
 			}
-			p.Appendix = append(p.Appendix, "Agreement ("+s.ID+"): "+strings.Join(said, " "))
+			p.Appendix = append(p.Appendix, "Agreement ("+s.ID+"): "+ascii(strings.Join(said, " ")))
 		}
 	}
 	p.Plans, p.PlanNotes = plansTable(r.Studies, p.Level)
@@ -450,8 +465,11 @@ type summaryRow struct {
 	Direction, Strength    string
 	DirNote, StrengthNote  string // "reverses within Quench tank", "as a curve: strong"
 	Flags, FlagNote        string // "1", "outlier-driven"
-	Expect, ExpectNote     string // "6 of 7 met", "failed: slope within its limits: found …, wanted …": said in words, not by colour alone
-	Failed                 bool
+	Expect, ExpectNote     string // "6 of 7 met", "1 failed": said in words, not by colour alone
+	// GateFailed gives each failed gate with the figures it judged, under
+	// the finding: "Failed: slope within its limits: found …, wanted …."
+	GateFailed string
+	Failed     bool
 }
 
 // adjustName names the manifest's adjustment method for people.
@@ -503,6 +521,9 @@ func (s summary) Table() table {
 		finding := r.Finding
 		if r.Status != "" {
 			finding += " Status: " + r.Status + "."
+		}
+		if r.GateFailed != "" {
+			finding += " " + r.GateFailed
 		}
 		if finding == "" {
 			finding = r.Form
@@ -591,6 +612,8 @@ func summaryLine(s *report.Study, link string) summaryRow {
 	row.Slope = slopeText(s, "")
 	if i := strings.Index(row.Slope, " (CI "); i > 0 {
 		row.Slope, row.SlopeCI = row.Slope[:i], "("+row.Slope[i+len(" (CI "):]
+	} else if i := strings.Index(row.Slope, "; CI "); i > 0 { // "… (Deming; CI lo to hi)"
+		row.Slope, row.SlopeCI = row.Slope[:i]+")", "("+row.Slope[i+len("; CI "):]
 	}
 	if s.Findings != nil && s.Findings.TurnsOver {
 		row.Slope, row.SlopeCI = "none: the curve turns over", ""
@@ -602,7 +625,7 @@ func summaryLine(s *report.Study, link string) summaryRow {
 	if s.Findings != nil && s.Findings.OutlierDriven {
 		row.FlagNote = "outlier-driven"
 	}
-	row.Expect = "none declared"
+	row.Expect = "none"
 	if len(s.Expectations) > 0 {
 		ok := 0
 		for _, e := range s.Expectations {
@@ -620,7 +643,8 @@ func summaryLine(s *report.Study, link string) summaryRow {
 			}
 		}
 		if len(failed) > 0 {
-			row.ExpectNote = "failed: " + strings.Join(failed, "; ")
+			row.ExpectNote = fmt.Sprintf("%d failed", len(failed))
+			row.GateFailed = "Failed: " + strings.Join(failed, "; ") + "."
 		}
 	}
 	return row
@@ -800,6 +824,14 @@ func buildStudy(s *report.Study, anchor string, index int, level, design string,
 			in.After = append(in.After, sec.After...)
 			continue
 		}
+		// r and the line in other units, when one sentence says them,
+		// belong with the numbers.
+		if sec.Key == "units" && len(sec.Tables) == 0 {
+			if i := slices.IndexFunc(sv.Sections, func(k *section) bool { return k.Key == "keyfigures" }); i >= 0 {
+				sv.Sections[i].After = append(sv.Sections[i].After, sec.Paras...)
+				continue
+			}
+		}
 		sv.Sections = append(sv.Sections, sec)
 	}
 	return sv, nil
@@ -827,7 +859,7 @@ func covariateLabels(s *report.Study, columns []string) []string {
 // are in results.json, "plan.statements"). An agreement study plans the
 // intervals of its limits of agreement instead: a sentence each (plans).
 func plansTable(studies []report.Study, level string) (table, []string) {
-	t := table{Caption: "Planning the next run, at this run's r, scatter and spread of x: rows for the " + level + "% intervals of r and the slope to reach their targets (set: from the manifest), and to detect r (Fisher z; power now where the r is set)",
+	t := table{Caption: "Planning the next run, at this run's r, scatter and spread of x: rows for the " + level + "% intervals of r and the slope to reach their targets (set: from the manifest), and to detect r (Fisher z)",
 		Head: []string{"Study", "r: ± now → target", "Rows", "Slope: ± now → target", "Rows", "Rows to detect r (power)"},
 		Num:  []bool{false, true, true, true, true, true}}
 	var notes []string
@@ -842,6 +874,21 @@ func plansTable(studies []report.Study, level string) (table, []string) {
 				samePower = "mixed"
 			}
 		}
+	}
+	// So does a target for r's interval every study shares.
+	sameR := ""
+	for _, s := range studies {
+		if p := s.Plan; p != nil && s.Error == nil && p.RHalfWidth.Valid() {
+			switch t := num(p.RHalfWidth) + map[bool]string{true: " (set)"}[p.RHalfWidthFrom == "declared"]; {
+			case sameR == "":
+				sameR = t
+			case sameR != t:
+				sameR = "mixed"
+			}
+		}
+	}
+	if sameR != "" && sameR != "mixed" {
+		t.Head[1] = "r: ± now → ±" + sameR
 	}
 	if samePower != "" && samePower != "mixed" {
 		t.Head[5] = "Rows to detect r, power " + samePower
@@ -864,12 +911,15 @@ func plansTable(studies []report.Study, level string) (table, []string) {
 			continue
 		}
 		if p.LimitsHalfWidth.Valid() {
-			notes = append(notes, fmt.Sprintf("Planning %s, an agreement study: for the %s%% intervals of its limits of agreement to shrink from ±%s to ±%s%s (exact, noncentral t), the next run needs %s items.",
-				s.ID, level, num(p.LimitsHalfWidthNow), withSym(num(p.LimitsHalfWidth), s.X.Symbol), set(p.LimitsHalfWidthFrom), rows(p.NForLimits)))
+			notes = append(notes, fmt.Sprintf("Planning %s, an agreement study: %s items for the %s%% intervals of its limits of agreement to shrink from ±%s to ±%s (%sexact, noncentral t).",
+				s.ID, rows(p.NForLimits), level, num(p.LimitsHalfWidthNow), withSym(num(p.LimitsHalfWidth), s.X.Symbol), strings.TrimPrefix(strings.TrimSuffix(set(p.LimitsHalfWidthFrom), ")")+"; ", " (")))
 		}
 		r, nR := na, na
 		if p.RHalfWidth.Valid() {
-			r, nR = "±"+num(p.RHalfWidthNow)+" → ±"+num(p.RHalfWidth)+set(p.RHalfWidthFrom), rows(p.NForR)
+			r, nR = "±"+num(p.RHalfWidthNow), rows(p.NForR)
+			if target := num(p.RHalfWidth) + set(p.RHalfWidthFrom); target != sameR {
+				r += " → ±" + target
+			}
 		}
 		slope, nSlope := na, na
 		if p.SlopeHalfWidth.Valid() {
@@ -884,7 +934,7 @@ func plansTable(studies []report.Study, level string) (table, []string) {
 			if p.DetectRFrom == "declared" {
 				detect = "r = " + num(p.DetectR) + " (set): " + detect
 				if p.PowerNow.Valid() {
-					detect += "; now " + num(p.PowerNow)
+					detect += "; power now " + num(p.PowerNow)
 				}
 			}
 		}

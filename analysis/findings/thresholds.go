@@ -253,8 +253,7 @@ func Rules(th report.Thresholds, alpha float64) string {
 		"and their Durbin–Watson statistic (read only below %s, a rule of thumb), doubled and Holm-adjusted over the study's checks, is below alpha. "+
 		"Choices of this tool, not common practice: a curve needs a significant x² term (Holm within the study) and the quadratic to take at least a share %s off the line's residual sum of squares; "+
 		"nonlinear needs either a significant distance correlation of at least %s above |r| while r is not significant, or, with |r| below %s, the line's residuals in order of x "+
-		"with a Durbin–Watson statistic below the smaller of %s and its alpha bound; the reversal check compares groups of at least %d rows. "+
-		"Each study states its flag cuts for its own number of rows.",
+		"with a Durbin–Watson statistic below the smaller of %s and its alpha bound; the reversal check compares groups of at least %d rows.",
 		num(th.Strong), num(th.Moderate), num(th.Weak), num(alpha), num(th.LeverageFactor), num(th.OutlierZ), num(th.OutlierFamilyAlpha),
 		num(th.CooksD), num(th.DriftDW), num(th.CurveShare), num(th.NonlinearDcor), num(th.Moderate), num(th.FormDW), th.ReversalMinGroup)
 }

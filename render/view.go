@@ -54,7 +54,7 @@ type page struct {
 var appendix = []string{
 	"Curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm), not across studies; the distance correlation and the residuals in order of x are screened at alpha unadjusted. A flag calls for a look at the charts, not a conclusion.",
 	"Unusual rows, with each study's cuts for its number of rows: off the line, the row's distance from the line fitted without it, in standard errors (externally studentized residual); pull on the line, how far the line moves without it (Cook's distance); reach in x, how far out in x it lies, 1/n to 1 (leverage). Rows far out in x but close to the line are counted, not named.",
-	"Charts: the least-squares line in its confidence band (a curve, when found, as the main fit) and, dash-dot, a LOWESS smooth; circled rows are named. Below it each row's distance from the line, by the line's value and in run order: a bow, a funnel, a slope or long runs on one side say the line, an even scatter or a steady run does not fit.",
+	"Charts: the least-squares line in its confidence band (a curve, when found, as the main fit) and, dash-dot, a LOWESS smooth; circled rows are named. Below, each row's distance from the line, by fitted value and in run order: a bow, a funnel, a slope or long runs on one side say the line, an even scatter or a steady run does not fit.",
 	"Other shapes: the typical scatter each leaves, the share of the line's squared scatter (residual sum of squares) it takes off (more: it adds), and AIC against the line (below 0: a better fit for its extra coefficients). Fits of ln(y) are on another scale: results.json only.",
 	"p below 0.0001 is printed \"< 0.0001\"; results.json holds every exact value and every figure the report leaves out.",
 }
@@ -331,7 +331,7 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 		}
 	}
 
-	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(len(r.Studies), m.Adjust, p.Level)}
+	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(p.Level)}
 	p.RunDate = runDate(r.Generated)
 	p.Appendix, p.Glossary = append([]string(nil), appendix...), glossary
 	for i := range r.Studies {
@@ -497,19 +497,10 @@ func pHead(adjust string) string {
 	return "p (" + adjust + ")"
 }
 
-func summaryCaption(n int, adjust, level string) string {
-	c := fmt.Sprintf("Each study's finding and status, slope (%s%% interval) and CI gates", level)
-	switch adjust {
-	case "holm":
-		c += fmt.Sprintf("; p adjusted across the %d studies by Holm's method", n)
-	case "bh":
-		c += fmt.Sprintf("; p adjusted across the %d studies by the Benjamini–Hochberg method", n)
-	case "", "none":
-		c += "; p not adjusted across studies"
-	default:
-		c += "; p adjusted across studies (" + adjust + ")"
-	}
-	return c + "."
+func summaryCaption(level string) string {
+	// The table shows no p of its own: where the findings quote one, the
+	// study's numbers give it with its adjustment.
+	return fmt.Sprintf("Each study's finding and status, slope (%s%% interval) and CI gates.", level)
 }
 
 // Table is the summary as a plain table (the Markdown report).

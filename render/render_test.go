@@ -521,6 +521,38 @@ func TestFirstScreenAndConventions(t *testing.T) {
 			t.Errorf("%s prints a p-value in exponent form: %q", name, m)
 		}
 	}
+	// The failed gate's row in the summary shows what the gate judged:
+	// the figure found and the limit wanted, in the analysis's words.
+	for _, e := range r.Studies[0].Expectations {
+		if e.OK {
+			continue
+		}
+		row := regexp.MustCompile(`(?m)^\| gap-vs-force.*$`).FindString(md)
+		if !strings.Contains(row, "found "+e.Got) || !strings.Contains(row, "wanted "+e.Want) {
+			t.Errorf("the summary row of a failed gate lacks its figures (found %q, wanted %q):\n%s", e.Got, e.Want, row)
+		}
+	}
+	// Other shapes are compared with the line in words by what they would
+	// mean, not listed by model name in a table of fits.
+	for _, bad := range []string{"| quadratic", "| log-x", "| log-y", "| log-log", "R² of"} {
+		if strings.Contains(md, bad) {
+			t.Errorf("report.md lists the fits by model name: %q", bad)
+		}
+	}
+	// Every check is a question answered in words first.
+	_, checks, _ := strings.Cut(md, "*The checks of every study")
+	checks, _, _ = strings.Cut(checks, "\n\n---")
+	rows := regexp.MustCompile(`(?m)^\| (?:gap-vs-force|cure-vs-hold)[^|]*\|([^\n]*)$`).FindAllStringSubmatch(checks, -1)
+	if len(rows) == 0 {
+		t.Error("no checks table rows")
+	}
+	for _, row := range rows {
+		for _, cell := range strings.Split(row[1], "|") {
+			if c := strings.TrimSpace(cell); c != "" && !regexp.MustCompile(`^(Yes|No|not checked|none repeated|no run order declared|Not as a parabola)\b`).MatchString(c) {
+				t.Errorf("a check is answered by %q, not in words first", c)
+			}
+		}
+	}
 	// The fixture's quadratic turns at 44.4, near its data; then far out.
 	if !strings.Contains(md, "turning at x = 44.40 kN") {
 		t.Error("a turning point near the data is not printed")

@@ -164,16 +164,16 @@ func withSym(v, sym string) string {
 	return v + " " + sym
 }
 
-// keyFiguresSection answers, one row per question, what an engineer asks
-// of a study: the plain question first with the unit its figures are in,
-// the method's name after it; the cells hold bare numbers, so that the
+// keyFiguresSection gives the figures an engineer asks of a study, one
+// row each: what the figure says in plain words with the unit it is in
+// first, the term after it; the cells hold bare numbers, so that the
 // table pastes into a spreadsheet as numbers.
 func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*section, error) {
 	sec := &section{Key: "keyfigures", Title: "The numbers"}
-	t := table{Head: []string{"Question, unit (measure)", "Answer", level + "% interval", "p"},
+	t := table{Head: []string{"Figure, unit (term)", "Value", level + "% interval", "p"},
 		Num: []bool{false, true, true, true}}
-	// The measure's name follows the plain question in brackets (the
-	// glossary defines it).
+	// The term follows the plain words in brackets (the glossary
+	// defines it).
 	add := func(q, a, ci, p, how string) { t.Rows = append(t.Rows, []string{q + " (" + how + ")", a, ci, p}) }
 	per, ySym := unitPer(s), orWord(s.Y.Symbol, "y units")
 	if l := s.Line; l != nil && l.Slope != nil {

@@ -5,6 +5,7 @@ import (
 	"strconv"
 	"strings"
 
+	"bivar/analysis/findings"
 	"bivar/analysis/report"
 )
 
@@ -70,23 +71,17 @@ func negZero(s string) string {
 	return s
 }
 
-// pval writes a p-value: "< 0.0001" below 0.0001 (the exact value stays
-// in results.json), four decimals below 0.001, three from there up.
+// pval writes a p-value with the project's one formatter,
+// findings.PValue ("< 0.0001" below 0.0001; the exact value stays in
+// results.json), n/a when undefined.
 func pval(p report.Float) string {
-	v := float64(p)
-	switch {
-	case math.IsNaN(v) || math.IsInf(v, 0):
+	if !p.Valid() {
 		return na
-	case v < 1e-4:
-		return "< 0.0001"
-	case v < 0.001:
-		return strconv.FormatFloat(v, 'f', 4, 64)
-	default:
-		return strconv.FormatFloat(v, 'f', 3, 64)
 	}
+	return findings.PValue(float64(p))
 }
 
-// pIs writes a p-value after "p": "= 0.873" or "< 0.0001".
+// pIs writes a p-value after "p": "= 0.87" or "< 0.0001".
 func pIs(p report.Float) string {
 	s := pval(p)
 	if strings.HasPrefix(s, "<") || s == na {

@@ -24,13 +24,16 @@ func TestNum(t *testing.T) {
 	}
 }
 
+// TestPval: the report prints p-values with the project's one formatter,
+// findings.PValue (two decimals from 0.1, three below, four below 0.001,
+// "< 0.0001" below 0.0001).
 func TestPval(t *testing.T) {
 	cases := []struct {
 		in   float64
 		want string
 	}{
-		{0.5, "0.500"}, {0.001, "0.001"}, {0.00094, "0.0009"}, {0.0001, "0.0001"}, {0.0000999, "< 0.0001"},
-		{1e-300, "< 0.0001"}, {0, "< 0.0001"}, {1, "1.000"}, {math.NaN(), "n/a"},
+		{0.5, "0.50"}, {0.001, "0.001"}, {0.00094, "0.0009"}, {0.0001, "0.0001"}, {0.0000999, "< 0.0001"},
+		{1e-300, "< 0.0001"}, {0, "< 0.0001"}, {1, "1.00"}, {math.NaN(), "n/a"},
 	}
 	for _, tc := range cases {
 		if got := pval(report.Float(tc.in)); got != tc.want {

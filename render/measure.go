@@ -18,7 +18,7 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 	}
 	// The first statement is the study's headline, shown above; those on
 	// repeatability restate the repeatability table below.
-	sec := &section{Key: "agreement", Title: "Agreement of the two methods"}
+	sec := &section{Key: "agreement", Title: "Agreement"}
 	for i, st := range a.Statements {
 		if (i == 0 && s.Findings != nil && st == s.Findings.Headline) || (len(a.Repeatability) > 0 && strings.HasPrefix(st, "Repeatability of ")) {
 			continue
@@ -32,21 +32,30 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 		}
 		return num(v) + " " + sym
 	}
-	t := table{Caption: "Differences " + name(s.Y) + " − " + name(s.X) + " (" + itoa(a.N) + " items)",
+	t := table{Caption: "Differences " + name(s.Y) + " - " + name(s.X) + " (" + itoa(a.N) + " items)",
 		Head: []string{"Measure", "Value", level + "% interval"}, Num: []bool{false, true, true}}
 	add := func(m, v, ci string) { t.Rows = append(t.Rows, []string{m, v, ci}) }
-	add("Bias (mean difference)", u(a.Bias), interval(a.BiasLow, a.BiasHigh))
+	ui := func(lo, hi report.Float) string {
+		if sym == "" || !lo.Valid() || !hi.Valid() {
+			return interval(lo, hi)
+		}
+		return interval(lo, hi) + " " + sym
+	}
+	add("Bias (mean difference)", u(a.Bias), ui(a.BiasLow, a.BiasHigh))
 	add("SD of the differences", u(a.SD), "")
-	add("Lower limit of agreement (bias − "+num(a.K)+" SD)", u(a.Lower), interval(a.LowerLow, a.LowerHigh))
-	add("Upper limit of agreement (bias + "+num(a.K)+" SD)", u(a.Upper), interval(a.UpperLow, a.UpperHigh))
+	add("Lower limit of agreement (bias - "+num(a.K)+" SD)", u(a.Lower), ui(a.LowerLow, a.LowerHigh))
+	add("Upper limit of agreement (bias + "+num(a.K)+" SD)", u(a.Upper), ui(a.UpperLow, a.UpperHigh))
 	if a.Acceptable.Valid() {
 		add("Acceptable difference", "±"+u(a.Acceptable), "")
 	}
-	add("Slope of the difference on the mean (p "+pval(a.TrendP)+")", num(a.TrendSlope), interval(a.TrendLow, a.TrendHigh))
+	// The difference per unit of the mean: y's unit per x's (both the
+	// same unit for two methods of one quantity).
+	add("Slope of the difference on the mean (p "+pval(a.TrendP)+")", withSym(num(a.TrendSlope), unitPer(s)), interval(a.TrendLow, a.TrendHigh))
 	sec.Tables = append(sec.Tables, t)
 
-	lines := table{Caption: "Lines of " + name(s.Y) + " on " + name(s.X), Head: []string{"Line", "Intercept", level + "% interval", "Slope", level + "% interval"},
-		Num: []bool{false, true, true, true, true}}
+	lines := table{Caption: "Lines of " + name(s.Y) + " on " + name(s.X),
+		Head: []string{"Line", "Intercept" + paren(orWord(s.Y.Symbol, "y units")), level + "% interval" + paren(orWord(s.Y.Symbol, "y units")), "Slope" + paren(unitPer(s)), level + "% interval"},
+		Num:  []bool{false, true, true, true, true}}
 	if d := a.Deming; d != nil {
 		lines.Rows = append(lines.Rows, []string{"Deming (error-variance ratio " + num(d.Delta) + ", " + d.DeltaFrom + "; jackknife intervals)",
 			num(d.Intercept), interval(d.InterceptLow, d.InterceptHigh), num(d.Slope), interval(d.SlopeLow, d.SlopeHigh)})
@@ -75,7 +84,7 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 			if r.Method == "y" {
 				who = name(s.Y)
 			}
-			rt.Rows = append(rt.Rows, []string{who, itoa(r.Readings), u(r.SW), interval(r.SWLow, r.SWHigh), u(r.Coef), interval(r.CoefLow, r.CoefHigh)})
+			rt.Rows = append(rt.Rows, []string{who, itoa(r.Readings), u(r.SW), ui(r.SWLow, r.SWHigh), u(r.Coef), ui(r.CoefLow, r.CoefHigh)})
 		}
 		sec.Tables = append(sec.Tables, rt)
 	}

@@ -59,16 +59,17 @@ agreement = { acceptable = 60 }
 	}
 	ec, ag := r.Studies[0].ErrorCorrection, r.Studies[1].Agreement
 	for _, want := range []string{"### Corrected for measurement error", ec.Statements[0], ec.Assumptions[0],
-		// the planning of every study in one table of the appendix, a row each
-		"*Planning the next run: rows needed", "| " + r.Studies[0].ID + " ", "| " + r.Studies[1].ID + " ",
+		// the planning in the appendix: a table row for a study of a
+		// relationship, a sentence for an agreement study
+		"*Planning the next run", "| " + r.Studies[0].ID + " ", "Planning " + r.Studies[1].ID + ", an agreement study",
 		// the agreement headline opens the study (minus signs as ASCII in Markdown)
-		"### Agreement of the two methods", strings.ReplaceAll(ag.Statements[0], "−", "-"), "agr-agreement.svg", "agr-methods.svg"} {
+		"### Agreement", strings.ReplaceAll(ag.Statements[0], "−", "-"), "agr-agreement.svg", "agr-methods.svg"} {
 		if !strings.Contains(md.String(), want) {
 			t.Errorf("Markdown lacks %q", want)
 		}
 	}
 	html := page.String()
-	for _, want := range []string{`class="measurement-error"`, "Planning the next run: rows needed", `class="agreement"`, "Difference against mean", "Deming line"} {
+	for _, want := range []string{`class="measurement-error"`, "Planning the next run", `class="agreement"`, "Difference against mean", "Deming line"} {
 		if !strings.Contains(html, want) {
 			t.Errorf("HTML lacks %q", want)
 		}

@@ -106,7 +106,7 @@ func TestHTMLStructure(t *testing.T) {
 		}
 	}
 	// Top of the page: title, caution, summary with one row per study, provenance.
-	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "what the pooled verdict alone would hide", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out of each study"} {
+	for _, want := range []string{"<h1>Invented demo", report.Caution[:40], "finding and status", "Manifest SHA-256", r.Manifest.SHA256, r.Datasets[0].SHA256, "Rows left out, and why"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -125,12 +125,12 @@ func TestHTMLStructure(t *testing.T) {
 		last = i
 	}
 	// Per study content of the rich study.
-	for _, want := range []string{"What the data show", "The numbers behind it", "Unusual rows", "Unusual rows, and leaving one out",
-		"In other units", "Predictions from the line",
+	for _, want := range []string{"What the data show", "The numbers", "Unusual rows",
+		"Other units: r = ", "Predictions",
 		"Mean of many rows, 95%", "One new row, 95%", "no — not supported", `class="limits limits"`, "What may not be concluded",
 		"<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
 		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 0.0001", "The line within each level of Resin lot",
-		"Shapes tried against the line", "line (baseline)", "Where the data lie", "Cuts for 60 rows: off the line beyond"} {
+		"Other shapes against the line", "a bend (parabola)", "Where the data lie", "Cuts for 60 rows: off the line beyond"} {
 		if !strings.Contains(page, strings.ReplaceAll(strings.ReplaceAll(want, "<", "&lt;"), "&lt;strong>", "<strong>")) && !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -521,13 +521,45 @@ func TestFirstScreenAndConventions(t *testing.T) {
 			t.Errorf("%s prints a p-value in exponent form: %q", name, m)
 		}
 	}
+	// The failed gate's row in the summary shows what the gate judged:
+	// the figure found and the limit wanted, in the analysis's words.
+	for _, e := range r.Studies[0].Expectations {
+		if e.OK {
+			continue
+		}
+		row := regexp.MustCompile(`(?m)^\| gap-vs-force.*$`).FindString(md)
+		if !strings.Contains(row, "found "+e.Got) || !strings.Contains(row, "wanted "+e.Want) {
+			t.Errorf("the summary row of a failed gate lacks its figures (found %q, wanted %q):\n%s", e.Got, e.Want, row)
+		}
+	}
+	// Other shapes are compared with the line in words by what they would
+	// mean, not listed by model name in a table of fits.
+	for _, bad := range []string{"| quadratic", "| log-x", "| log-y", "| log-log", "R² of"} {
+		if strings.Contains(md, bad) {
+			t.Errorf("report.md lists the fits by model name: %q", bad)
+		}
+	}
+	// Every check is a question answered in words first.
+	_, checks, _ := strings.Cut(md, "*The checks of every study")
+	checks, _, _ = strings.Cut(checks, "\n\n---")
+	rows := regexp.MustCompile(`(?m)^\| (?:gap-vs-force|cure-vs-hold)[^|]*\|([^\n]*)$`).FindAllStringSubmatch(checks, -1)
+	if len(rows) == 0 {
+		t.Error("no checks table rows")
+	}
+	for _, row := range rows {
+		for _, cell := range strings.Split(row[1], "|") {
+			if c := strings.TrimSpace(cell); c != "" && !regexp.MustCompile(`^(Yes|No|not checked|none repeated|no run order declared|Not as a parabola)\b`).MatchString(c) {
+				t.Errorf("a check is answered by %q, not in words first", c)
+			}
+		}
+	}
 	// The fixture's quadratic turns at 44.4, near its data; then far out.
-	if !strings.Contains(md, "turns at x = 44.40 kN") {
+	if !strings.Contains(md, "turning at x = 44.40 kN") {
 		t.Error("a turning point near the data is not printed")
 	}
 	r.Studies[0].Models[0].VertexNear = false
 	md = string(mustMD(t, r))
-	if !strings.Contains(md, "turns far outside the data") || strings.Contains(md, "turns at x = ") {
+	if !strings.Contains(md, "turning far outside the data") || strings.Contains(md, "turning at x = ") {
 		t.Error("a turning point far from the data is printed as if it meant something")
 	}
 }

@@ -2,6 +2,7 @@ package render
 
 import (
 	"fmt"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -44,7 +45,7 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		if reason != "" {
 			// Which cut points are the tool's own choice the appendix
 			// says once, with the rules.
-			sec.List = append(sec.List, topic+" — "+ascii(strings.ReplaceAll(reason, " ("+findings.OwnChoice+")", "")))
+			sec.List = append(sec.List, topic+" — "+ascii(strings.NewReplacer(" ("+findings.OwnChoice+")", "", ", "+findings.OwnChoice, "").Replace(reason)))
 		} else {
 			sec.List = append(sec.List, topic+": "+verdict+".")
 		}
@@ -70,7 +71,9 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	// curve, weak as a line" for a curve); their reasons (r against alpha
 	// and the cut points of the appendix) stay in results.json. A curve
 	// that turns over keeps its direction's reason: it has none.
-	if f.TurnsOver || f.Headline == "" {
+	// (A headline that says where the curve turns over says that too:
+	// the reason's figures, r and its p, stand in the numbers table.)
+	if (f.TurnsOver && !strings.Contains(f.Headline, "turns over")) || f.Headline == "" {
 		why("Direction", f.DirectionWhy, f.Direction)
 	}
 	if f.Headline == "" {
@@ -112,11 +115,10 @@ func wordsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	// The findings' longer statements (results.json "statements") repeat
 	// the figures of the table below and the rules of the appendix; the
 	// report shows the table and the rules once.
-	if nc := notChecked(s); nc != "" {
-		sec.After = append(sec.After, nc)
-	}
+	// What the study's declarations left unchecked the appendix says for
+	// every study at once (notDeclared).
 	if len(sec.Items) == 0 {
-		sec.Title = "" // only what was not checked: a line, not a part of its own
+		return nil, nil // the headline and the checks table say it all
 	}
 	return sec, nil
 }
@@ -162,32 +164,36 @@ func withSym(v, sym string) string {
 	return v + " " + sym
 }
 
-// keyFiguresSection answers, one row per question, what an engineer asks
-// of a study: the plain question first, the answer in units, and the
-// method's name after it.
+// keyFiguresSection gives the figures an engineer asks of a study, one
+// row each: what the figure says in plain words with the unit it is in
+// first, the term after it; the cells hold bare numbers, so that the
+// table pastes into a spreadsheet as numbers.
 func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*section, error) {
-	sec := &section{Key: "keyfigures", Title: "The numbers behind it"}
-	t := table{Head: []string{"Question (measure)", "Answer", level + "% interval", "p"},
+	sec := &section{Key: "keyfigures", Title: "The numbers"}
+	t := table{Head: []string{"Figure, unit (term)", "Value", level + "% interval", "p"},
 		Num: []bool{false, true, true, true}}
-	// The measure's name follows the plain question in brackets (the
-	// glossary defines it).
+	// The term follows the plain words in brackets (the glossary
+	// defines it).
 	add := func(q, a, ci, p, how string) { t.Rows = append(t.Rows, []string{q + " (" + how + ")", a, ci, p}) }
-	per := unitPer(s)
+	per, ySym := unitPer(s), orWord(s.Y.Symbol, "y units")
 	if l := s.Line; l != nil && l.Slope != nil {
-		add("Change in y per "+orWord(s.X.Symbol, "unit of x"), withSym(num(l.Slope.Estimate), per), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P),
-			"slope; SE "+withSym(num(l.Slope.SE), per))
+		add("Change along the line, "+per, num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P),
+			"slope; SE "+num(l.Slope.SE))
 		if rb, f := s.Robust, s.Findings; rb != nil && f != nil {
 			if rb.HAC != nil && f.Autocorrelated {
-				add("… allowing for rows that hang together in run order", "", interval(rb.HAC.CILow, rb.HAC.CIHigh), pval(rb.HAC.P),
+				add("… allowing for rows that hang together in run order, "+per, "", interval(rb.HAC.CILow, rb.HAC.CIHigh), pval(rb.HAC.P),
 					fmt.Sprintf("Newey–West SE %s, %d lags", num(rb.HAC.SE), rb.HAC.Lags))
 			}
 			if rb.HC3 != nil && f.SpreadChanges {
-				add("… allowing for an uneven scatter", "", interval(rb.HC3.CILow, rb.HC3.CIHigh), pval(rb.HC3.P), "HC3 SE "+num(rb.HC3.SE))
+				add("… allowing for an uneven scatter, "+per, "", interval(rb.HC3.CILow, rb.HC3.CIHigh), pval(rb.HC3.P), "HC3 SE "+num(rb.HC3.SE))
 			}
 		}
-		if rs := s.Diagnostics; rs != nil && rs.Resistant != nil {
-			add("… resistant to a few rows", withSym(num(rs.Resistant.Slope), per), "", "", strings.NewReplacer(" (", ", ", ")", "").Replace(methodName(rs.Resistant.Method)))
-		}
+	}
+	if l := s.Line; l != nil && l.Intercept != nil {
+		add("Line at x = 0, "+ySym, num(l.Intercept.Estimate), interval(l.Intercept.CILow, l.Intercept.CIHigh), "", "intercept")
+	}
+	if l := s.Line; l != nil && l.ResidualSE.Valid() {
+		add("Scatter about the line, "+ySym, num(l.ResidualSE), "", "", "residual SD")
 	}
 	if pr := s.Pearson; pr != nil {
 		add("Closeness to a line", num(pr.R), interval(pr.CILow, pr.CIHigh), pval(pr.PAdjusted), "r; p across studies")
@@ -195,26 +201,23 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 			add("… counting rows that hang together as fewer", num(pr.R), interval(rb.RLow, rb.RHigh), pval(rb.RP), "effective n "+num(rb.NEff))
 		}
 	}
-	mt := shapesTable(s)
-	if l := s.Line; l != nil {
-		// The typical distance from the line is the shapes table's
-		// baseline row when there is one; R² is r squared (results.json).
-		if len(mt.Rows) == 0 {
-			add("Typical distance from the line", inY(s, l.ResidualSE), "", "", "residual SD")
-		}
-		if l.Intercept != nil {
-			add("Line at x = 0", inY(s, l.Intercept.Estimate), interval(l.Intercept.CILow, l.Intercept.CIHigh), "", "intercept")
-		}
-	}
-	if sp, k := s.Spearman, s.Kendall; sp != nil && k != nil {
-		add("Agreement of ranks", num(sp.Rho)+"; "+num(k.TauB), "", pval(sp.P), "Spearman ρ; Kendall τ-b")
-	}
 	// The screening questions (bend, lack of fit, other shapes, scatter,
 	// drift) stand once for all studies in the checks table under the
 	// summary (checksTable).
 	sec.Tables = append(sec.Tables, t)
-	if len(mt.Rows) > 0 {
-		sec.Tables = append(sec.Tables, mt)
+	// The measures a few rows cannot sway, in one sentence.
+	var robust []string
+	if rs := s.Diagnostics; rs != nil && rs.Resistant != nil && s.Line != nil && s.Line.Slope != nil {
+		robust = append(robust, methodName(rs.Resistant.Method)+" slope "+withSym(num(rs.Resistant.Slope), per))
+	}
+	if sp, k := s.Spearman, s.Kendall; sp != nil && k != nil {
+		robust = append(robust, "Spearman ρ "+num(sp.Rho)+", Kendall τ-b "+num(k.TauB)+" (p "+pIs(sp.P)+")")
+	}
+	if len(robust) > 0 {
+		sec.After = append(sec.After, "Resistant to a few rows: "+strings.Join(robust, "; ")+".")
+	}
+	if sh := shapesText(s); sh != "" {
+		sec.After = append(sec.After, sh)
 	}
 	// Where the data lie stands for every study in one table of the
 	// appendix (dataTable).
@@ -267,48 +270,58 @@ func orWord(sym, word string) string {
 	return sym
 }
 
-// shapeMeaning says in a few words what each shape would mean.
+// shapeMeaning names each shape by what it would mean for the process,
+// the fitted form in brackets after it.
 var shapeMeaning = map[string]string{
-	"line":      "same step per unit of x",
-	"quadratic": "bends; may turn over",
-	"log-x":     "diminishing returns",
-	"log-y":     "same % per unit of x",
-	"log-log":   "power law",
+	"quadratic": "a bend (parabola)",
+	"log-x":     "diminishing returns (y on ln x)",
+	"log-y":     "the same % change per unit of x (ln y on x)",
+	"log-log":   "a power law (ln y on ln x)",
 }
 
-// shapesTable compares the shapes the analysis fitted with the straight
-// line, by how much of the line's scatter each removes and by AIC, both
-// only where the shape was fitted to y itself (the analysis marks which).
-func shapesTable(s *report.Study) table {
-	t := table{Caption: "Shapes tried against the line (how to read: appendix)",
-		Head: []string{"Shape", "Meaning", "Typical distance from it", "Scatter removed", "AIC against line"},
-		Num:  []bool{false, false, true, true, true}}
-	if l := s.Line; l != nil && len(s.Models) > 0 {
-		t.Rows = append(t.Rows, []string{"line (baseline)", shapeMeaning["line"], inY(s, l.ResidualSE), "", ""})
+// shapesText sets each shape with a physical meaning that the analysis
+// fitted to y itself (the analysis marks which) against the straight
+// line, in one sentence: the typical scatter it leaves, the share of the
+// line's squared scatter it removes (negative: it adds) and its AIC
+// against the line. Fits of ln(y) are on another scale, so not compared
+// here: results.json keeps them, and the appendix says so once.
+func shapesText(s *report.Study) string {
+	l := s.Line
+	if l == nil {
+		return ""
 	}
+	var parts []string
 	for _, m := range s.Models {
-		if m.Name == "line" {
+		if m.Name == "line" || m.YScale == "ln(y)" {
 			continue
 		}
-		scatter, share, aic := inY(s, m.ResidualSE), pct(m.ShareVsLine), signedNum(m.AICVsLine)
-		if m.YScale == "ln(y)" {
-			// On another scale, so not compared with the line: the
-			// appendix says so once and results.json keeps the fit.
-			continue
+		what := shapeMeaning[m.Name]
+		if what == "" {
+			what = m.Name
 		}
-		meaning := shapeMeaning[m.Name]
 		switch {
 		case m.Vertex.Valid() && m.VertexNear:
-			meaning = "bends; turns at x = " + withSym(num(m.Vertex), s.X.Symbol)
+			what += " turning at x = " + withSym(num(m.Vertex), s.X.Symbol)
 		case m.Vertex.Valid():
-			meaning = "bends; turns far outside the data"
+			what += " turning far outside the data"
 		}
-		t.Rows = append(t.Rows, []string{m.Name, meaning, scatter, share, aic})
+		// The share of the line's squared scatter the shape takes off
+		// (negative: it adds), and its AIC against the line; the appendix
+		// says once how to read both.
+		share, pc := "less", pct(m.ShareVsLine)
+		if m.ShareVsLine.Valid() && float64(m.ShareVsLine) < 0 {
+			share, pc = "more", strings.TrimPrefix(pc, "-")
+		}
+		sc := "scatter "
+		if len(parts) > 0 {
+			sc = ""
+		}
+		parts = append(parts, fmt.Sprintf("%s: %s%s, %s %s, AIC %s", what, sc, inY(s, m.ResidualSE), pc, share, signedNum(m.AICVsLine)))
 	}
-	if len(t.Rows) < 2 {
-		t.Rows = nil
+	if len(parts) == 0 {
+		return ""
 	}
-	return t
+	return "Other shapes against the line: " + strings.Join(parts, "; ") + "."
 }
 
 // pct writes a share as a percentage with one decimal, n/a when undefined.
@@ -362,6 +375,12 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 		n    int
 		flag string
 	}{{c.Outlier, "outlier"}, {c.Influential, "influential"}, {c.SoleSupport, "sole support"}, {c.HighLeverage, "high leverage"}, {c.LeverageOnly, "of them high leverage only (counted, not named)"}} {
+		if f.flag == "high leverage" && c.HighLeverage == c.LeverageOnly && c.Suspect == 0 {
+			// every flagged row is high leverage only: one phrase
+			f.flag = "high leverage only (counted, not named)"
+		} else if f.flag != "high leverage" && c.HighLeverage == c.LeverageOnly && c.Suspect == 0 {
+			continue
+		}
 		if f.n > 0 {
 			raised = append(raised, itoa(f.n)+" "+f.flag)
 		}
@@ -421,7 +440,15 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		if se.NFlagged == 1 {
 			which = "Without the flagged row"
 		}
-		t.Rows = append(t.Rows, []string{which, rw, num(se.SlopeWithoutFlagged), num(se.InterceptWithout)})
+		row := []string{which, rw, num(se.SlopeWithoutFlagged), num(se.InterceptWithout)}
+		// One flagged row that is also the one named row: one line
+		// says both, with r's interval.
+		if last := t.Rows[len(t.Rows)-1]; len(se.WithoutEach) == 1 && se.NFlagged == 1 &&
+			last[2] == row[2] && last[3] == row[3] && strings.HasPrefix(rw, last[1]) {
+			t.Rows[len(t.Rows)-1] = []string{strings.Replace(last[0], "named row ", "", 1) + ", the one flagged row", rw, row[2], row[3]}
+		} else {
+			t.Rows = append(t.Rows, row)
+		}
 	}
 	// With no row named or flagged the table would repeat the line (and
 	// the resistant slope stands in the numbers above): only the sentence.
@@ -433,8 +460,8 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
 		sec.Tables = append(sec.Tables, t)
 	}
-	sec.After = append(sec.After, fmt.Sprintf("Leaving out one row at a time: r from %s%s to %s%s, slope from %s to %s.",
-		num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), num(se.LooSlopeMax)))
+	sec.After = append(sec.After, fmt.Sprintf("Leaving out any one row: r %s%s to %s%s; slope %s to %s.",
+		num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), withSym(num(se.LooSlopeMax), unitPer(s))))
 	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() {
 		sec.After = append(sec.After, fmt.Sprintf("Without the flagged rows, p for r is %s (%s%% interval shown with r).", pval(se.PWithoutFlagged), level))
 	}
@@ -475,6 +502,7 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 	t := table{Caption: "r, slope and intercept with x and y in other units (UCUM codes in results.json)", Head: []string{"x in", "y in", "r", "Slope", "Intercept"},
 		Num: []bool{false, false, true, true, true}}
 	var rs []string
+	var bare [][2]string
 	undefined := 0
 	for _, u := range s.UnitInvariance {
 		xu, yu := symbol(u.XSymbol, u.XUnit), symbol(u.YSymbol, u.YUnit)
@@ -485,7 +513,15 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		if u.Note != "" {
 			slope = ascii(u.Note)
 		}
-		t.Rows = append(t.Rows, []string{xu, yu, num(u.R), slope, num(u.Intercept)})
+		// The table's cells carry their units (each row has its own);
+		// the sentence below writes them itself.
+		bare = append(bare, [2]string{slope, num(u.Intercept)})
+		icpt := num(u.Intercept)
+		if u.Note == "" {
+			ys, xs := symbol(u.YSymbol, u.YUnit), symbol(u.XSymbol, u.XUnit)
+			slope, icpt = withSym(slope, ys+" per "+xs), withSym(icpt, ys)
+		}
+		t.Rows = append(t.Rows, []string{xu, yu, num(u.R), slope, icpt})
 		if u.R.Valid() {
 			rs = append(rs, num(u.R))
 		} else {
@@ -512,21 +548,22 @@ func unitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, err
 		// and intercept (the units' codes are in results.json).
 		var parts []string
 		for i, u := range s.UnitInvariance {
-			row := t.Rows[i]
+			row := append(t.Rows[i][:3:3], bare[i][0], bare[i][1])
 			switch {
 			case u.Note != "":
 				parts = append(parts, fmt.Sprintf("x in %s, y in %s: %s", row[0], row[1], row[3]))
 			case u.Swapped:
 				parts = append(parts, fmt.Sprintf("axes swapped: slope %s %s per %s, intercept %s %s", row[3], row[1], symbol(u.XSymbol, u.XUnit), row[4], row[1]))
 			case u.XUnit != s.X.Unit || u.YUnit != s.Y.Unit:
-				parts = append(parts, fmt.Sprintf("x in %s, y in %s: slope %s %s per %s, intercept %s %s", row[0], row[1], row[3], row[1], row[0], row[4], row[1]))
+				// the slope's unit says which units x and y are in
+				parts = append(parts, fmt.Sprintf("slope %s %s per %s, intercept %s %s", row[3], row[1], row[0], row[4], row[1]))
 			}
 		}
 		where := "in every unit"
 		if undefined > 0 {
 			where = "in every unit it converts to"
 		}
-		sec.Paras = append(sec.Paras, fmt.Sprintf("r = %s %s. %s.", rs[0], where, strings.Join(parts, "; ")))
+		sec.Paras = append(sec.Paras, fmt.Sprintf("Other units: r = %s %s; %s.", rs[0], where, strings.Join(parts, "; ")))
 	case same:
 		sec.Tables = append(sec.Tables, t)
 	default:
@@ -550,7 +587,7 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 		sec.Tables = append(sec.Tables, t)
 	}
 	if len(s.Partial) > 0 {
-		t := table{Caption: "Correlation of " + name(s.X) + " and " + name(s.Y) + " with each covariate held fixed (partial correlation)", Head: []string{"Covariate", "n", "Partial r (" + level + "% interval)", "p"},
+		t := table{Caption: "With each covariate held fixed (partial correlation of x and y)", Head: []string{"Covariate", "n", "Partial r (" + level + "% interval)", "p"},
 			Num: []bool{false, true, true, true}}
 		for _, pc := range s.Partial {
 			label := pc.Label
@@ -568,10 +605,9 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 	if len(s.Predictions) == 0 {
 		return nil, nil
 	}
-	sec := &section{Key: "predictions", Title: "Predictions from the line"}
-	t := table{Caption: fmt.Sprintf("%s at chosen values of %s", chart.InUnit(s.Y), chart.InUnit(s.X)),
-		Head: []string{"x" + paren(s.X.Symbol), "Line" + paren(s.Y.Symbol), "Mean of many rows, " + level + "%", "One new row, " + level + "%", "Inside the data"},
-		Num:  []bool{true, true, true, true, false}}
+	sec := &section{Key: "predictions", Title: "Predictions"}
+	t := table{Head: []string{"x" + paren(s.X.Symbol), "Line" + paren(s.Y.Symbol), "Mean of many rows, " + level + "%" + paren(s.Y.Symbol), "One new row, " + level + "%" + paren(s.Y.Symbol), "Inside the data"},
+		Num: []bool{true, true, true, true, false}}
 	for _, p := range s.Predictions {
 		in := "yes"
 		cls := ""
@@ -674,22 +710,57 @@ func limitsSection(s *report.Study, _ string, _ report.Thresholds) (*section, er
 	return &section{Key: "limits", Title: "What may not be concluded", List: list, Box: true}, nil
 }
 
-// notChecked names the checks the study's declarations left out.
-func notChecked(s *report.Study) string {
-	var n []string
-	if len(s.Covariates) == 0 && len(s.Partial) == 0 {
-		n = append(n, "covariates")
+// notDeclared says, once for the report, which checks each study's
+// declarations left out: a covariate, a group, a run order.
+func notDeclared(studies []report.Study) string {
+	var ids []string
+	var covs, groups, orders []string
+	for _, s := range studies {
+		if s.Error != nil {
+			continue
+		}
+		ids = append(ids, s.ID)
+		if len(s.Covariates) == 0 && len(s.Partial) == 0 {
+			covs = append(covs, s.ID)
+		}
+		if s.Group == "" {
+			groups = append(groups, s.ID)
+		}
+		if s.Order == "" {
+			orders = append(orders, s.ID)
+		}
 	}
-	if s.Group == "" {
-		n = append(n, "groups")
+	// which names the studies that lack a declaration: "every study",
+	// "every study but a", or the list.
+	which := func(lack []string) string {
+		switch {
+		case len(lack) == len(ids):
+			return "every study"
+		case len(lack) > len(ids)/2:
+			var have []string
+			for _, id := range ids {
+				if !slices.Contains(lack, id) {
+					have = append(have, id)
+				}
+			}
+			return "every study but " + strings.Join(have, ", ")
+		}
+		return strings.Join(lack, ", ")
 	}
-	if s.Order == "" {
-		n = append(n, "run order")
+	var parts []string
+	if len(covs) > 0 {
+		parts = append(parts, "a covariate (for a lurking variable) in "+which(covs))
 	}
-	if len(n) == 0 {
+	if len(groups) > 0 {
+		parts = append(parts, "a group (for a relationship that differs between lots, machines, shifts) in "+which(groups))
+	}
+	if len(orders) > 0 {
+		parts = append(parts, "a run order (for drift, and rows that hang together in time: p-values and intervals assume they do not) in "+which(orders))
+	}
+	if len(parts) == 0 {
 		return ""
 	}
-	return "Not checked (none declared): " + strings.Join(n, ", ") + "."
+	return "Not declared, so not checked: " + strings.Join(parts, "; ") + "."
 }
 
 // gateTitle names a gate in words: the analysis's title, or for a report
@@ -718,20 +789,27 @@ func methodName(m string) string {
 	return strings.Replace(m, "theil-sen", "Theil–Sen", 1)
 }
 
-// answer is a screening question's answer with its p: "No (p 0.873)".
-func answer(yes bool, p report.Float) string {
-	a := yesNo(yes)
+// answer is a screening question's answer in words, then its figures,
+// the statistic before its p: "No (p 0.87)", "No (DW 1.89; p 1.00)".
+func answer(yes bool, p report.Float, more ...string) string {
+	fig := append([]string(nil), more...)
 	if p.Valid() {
-		a += " (p " + pval(p) + ")"
+		fig = append(fig, "p "+pval(p))
+	}
+	a := yesNo(yes)
+	if len(fig) > 0 {
+		a += " (" + strings.Join(fig, "; ") + ")"
 	}
 	return a
 }
 
 // checksTable answers the screening questions of every study in one
-// table: the verdicts are the findings', the p-values the analysis's.
+// table: each column a plain question with the test's name after it, each
+// cell the findings' answer in words, then its figures (p, and the
+// statistic where it is read against a cut point).
 func checksTable(studies []report.Study, anchors []string) table {
-	t := table{Caption: "The checks of every study, with the test (glossary); p after Holm's adjustment over the study's checks",
-		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings stray from it? (lack of fit)", "Dependence of any shape, 0 to 1 (distance correlation)", "Does the scatter change with x? (Breusch–Pagan)", "Drift in run order? (Durbin–Watson, trend)"},
+	t := table{Caption: "The checks of every study: p after Holm's adjustment over the study's checks (tests: glossary)",
+		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings stray from it? (lack of fit)", "Does x matter in a way the line misses? (distance correlation, 0 to 1)", "Does the scatter change with x? (Breusch–Pagan)", "Does it drift in run order? (trend; Durbin–Watson, DW)"},
 		Num:  []bool{false, false, false, false, false, false}}
 	for i := range studies {
 		s := &studies[i]
@@ -739,7 +817,7 @@ func checksTable(studies []report.Study, anchors []string) table {
 		if s.Error != nil || f == nil || d == nil {
 			continue
 		}
-		row := []string{s.ID, "not checked", "no repeated settings", "not checked", "not checked", "no run order declared"}
+		row := []string{s.ID, "not checked", "none repeated", "not checked", "not checked", "no run order declared"}
 		if c := checkOf(s, "curvature"); c != nil {
 			row[1] = answer(f.Form == "curved", c.PAdjusted)
 		} else if d.QuadraticP.Valid() {
@@ -752,16 +830,16 @@ func checksTable(studies []report.Study, anchors []string) table {
 			row[2] = answer(c.Raised, c.PAdjusted)
 		}
 		if dc := d.DistanceCorr; dc != nil {
-			row[3] = num(dc.DCor) + " (p " + pval(dc.P) + ")"
-			if f.Form == "nonlinear" {
-				row[3] += ": a shape the line misses"
-			}
+			// Yes only where the findings read a dependence the line
+			// misses (form "nonlinear"); a strong one the line follows is
+			// the line's.
+			row[3] = answer(f.Form == "nonlinear", dc.P, num(dc.DCor))
 		}
 		if c := checkOf(s, "changing-spread"); c != nil {
 			row[4] = answer(f.SpreadChanges, c.PAdjusted)
 		}
 		if c := checkOf(s, "drift"); c != nil {
-			row[5] = answer(f.Drift, c.PAdjusted) + ", DW " + num(d.DurbinWatson)
+			row[5] = answer(f.Drift, c.PAdjusted, "DW "+num(d.DurbinWatson))
 		}
 		t.Rows = append(t.Rows, row)
 		t.Links = append(t.Links, "study-"+anchors[i])

@@ -45,17 +45,17 @@ type page struct {
 	Data table
 	// Plans is the next-run planning of every study, one row each (the
 	// findings' sentences stay in results.json).
-	Plans table
+	Plans     table
+	PlanNotes []string // agreement studies' planning, a sentence each
 }
 
 // appendix is said once for the whole report (each study's "Not checked"
 // line names which of the checks it lacks).
 var appendix = []string{
-	"Not checked: without covariates, a lurking variable; without a group, a relationship that differs between groups (lot, machine, shift); without a run order, drift or rows that hang together in time (p-values and intervals then assume independent rows).",
 	"Curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm), not across studies; the distance correlation and the residuals in order of x are screened at alpha unadjusted. A flag calls for a look at the charts, not a conclusion.",
-	"Unusual rows: each study gives its cuts, for its number of rows, off the line (externally studentized residual), pull on the line (Cook's distance) and reach in x (leverage). Rows far out in x but close to the line are counted, not named.",
-	"Charts: the line in its confidence band (a curve, when found, as the main fit) and a LOWESS smooth; circled rows are named. Each row's distance from the line, by the line's value and in run order: a bow, a funnel, a slope or long runs on one side mean the line, an even scatter or a steady run does not fit.",
-	"Shapes: the share of the line's residual sum of squares each removes (negative: it scatters more) and AIC against the line (lower fits better for its coefficients). Fits of ln(y) are on another scale: results.json only.",
+	"Unusual rows, with each study's cuts for its number of rows: off the line, the row's distance from the line fitted without it, in standard errors (externally studentized residual); pull on the line, how far the line moves without it (Cook's distance); reach in x, how far out in x it lies, 1/n to 1 (leverage). Rows far out in x but close to the line are counted, not named.",
+	"Charts: the least-squares line in its confidence band (a curve, when found, as the main fit), a LOWESS smooth dash-dot, named rows circled; below, each row's distance from the line by fitted value and in run order: a bow, a funnel, a slope or long runs on one side say the line, an even scatter or a steady run does not fit.",
+	"Other shapes: the typical scatter each leaves, the share of the line's squared scatter (residual sum of squares) it takes off (more: it adds), and AIC against the line (below 0: a better fit for its extra coefficients). Fits of ln(y) are on another scale: results.json only.",
 	"p below 0.0001 is printed \"< 0.0001\"; results.json holds every exact value and every figure the report leaves out.",
 }
 
@@ -66,20 +66,14 @@ const observational = "Observational data show association, not cause: not that 
 // glossary defines the terms the report uses after its plain questions.
 var glossary = []kv{
 	{"r (Pearson)", "how closely the rows follow a straight line, -1 to 1"},
-	{"Slope", "change in y per unit of x along the least-squares line"},
-	{"Residual SD", "how far, typically, a row lies from the line, in y units"},
-	{"R²", "the share of y's variation a fit follows (r² for the line)"},
-	{"Confidence interval", "holds the true value in the stated share of repeated samples; for a prediction, the mean of many rows at that x"},
-	{"Prediction interval", "the range for one new row at that x"},
+	{"R²", "the share of y's variation a fit follows"},
+	{"Confidence interval", "holds the true value (for a prediction, the mean of many rows) in the stated share of samples"},
+	{"Prediction interval", "the range for one new row"},
 	{"p", "how often data this far from \"no relationship\" would arise by chance"},
-	{"Externally studentized residual", "a row's distance from the line fitted without it, in standard errors"},
-	{"Cook's distance", "how far the line moves when the row is left out"},
-	{"Leverage", "how far out in x a row lies, 1/n to 1"},
 	{"Spearman ρ, Kendall τ-b", "correlations of the ranks"},
 	{"Distance correlation", "dependence of any shape, 0 only when there is none"},
-	{"Breusch–Pagan", "tests whether the scatter about the line changes with x"},
+	{"Breusch–Pagan", "tests whether the scatter changes with x"},
 	{"Durbin–Watson", "2 when neighbouring rows stray independently, well below 2 when together"},
-	{"LOWESS", "a smooth that follows the rows"},
 	{"AIC", "closeness of a fit penalised for its coefficients; lower is better"},
 }
 
@@ -118,6 +112,9 @@ type figure struct {
 	Alt     string
 	Caption string
 	Main    bool
+	// Note is the caption where it says more than Alt, for report.md,
+	// which shows both (the HTML shows the caption only).
+	Note string
 }
 
 // section is one titled part of a study; sections are produced by the
@@ -218,8 +215,8 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 	}
 	m := r.Manifest
 	th := m.Thresholds
+	// The tool stands in the header and the footer.
 	p.Provenance = []kv{
-		{"Written by", p.Tool},
 		{"Manifest", m.File},
 		{"Manifest SHA-256", m.SHA256},
 		{"Design", m.Design},
@@ -268,7 +265,25 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 			p.Sources.Rows = append(p.Sources.Rows, []string{d.ID, src.Kind, strings.Join(det, "; ")})
 		}
 	}
-	p.Excluded = table{Caption: "Rows left out of each study, and why (the others used every row)",
+	// A column that says "none" for every file says it once, in the caption.
+	{
+		for col := len(p.Datasets.Head) - 1; col >= 4; col-- {
+			all := len(p.Datasets.Rows) > 0
+			for _, row := range p.Datasets.Rows {
+				all = all && row[col] == "none"
+			}
+			if !all {
+				continue
+			}
+			p.Datasets.Caption += "; " + strings.ToLower(p.Datasets.Head[col][:1]) + p.Datasets.Head[col][1:] + ": none"
+			p.Datasets.Head = slices.Delete(p.Datasets.Head, col, col+1)
+			p.Datasets.Num = slices.Delete(p.Datasets.Num, col, col+1)
+			for i := range p.Datasets.Rows {
+				p.Datasets.Rows[i] = slices.Delete(p.Datasets.Rows[i], col, col+1)
+			}
+		}
+	}
+	p.Excluded = table{Caption: "Rows left out, and why (the other studies used every row)",
 		Head: []string{"Study", "Rows used", "Rows left out", "Why"},
 		Num:  []bool{false, true, true, false}}
 	for _, s := range r.Studies {
@@ -316,14 +331,17 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 		}
 	}
 
-	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(len(r.Studies), m.Adjust, p.Level)}
+	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(p.Level)}
 	p.RunDate = runDate(r.Generated)
 	p.Appendix, p.Glossary = append([]string(nil), appendix...), glossary
 	for i := range r.Studies {
 		if f := r.Studies[i].Findings; f != nil && slices.ContainsFunc(f.Limits, func(l string) bool { return strings.HasPrefix(l, "These data are observational") }) {
-			p.Appendix = append(p.Appendix[:1], append([]string{observational}, p.Appendix[1:]...)...)
+			p.Appendix = append([]string{observational}, p.Appendix...)
 			break
 		}
+	}
+	if nd := notDeclared(r.Studies); nd != "" {
+		p.Appendix = append([]string{nd}, p.Appendix...)
 	}
 	// The methods behind each agreement study's figures, said once here.
 	for _, s := range r.Studies {
@@ -335,10 +353,10 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 					said = append(said, as)
 				}
 			}
-			p.Appendix = append(p.Appendix, "Agreement ("+s.ID+"): "+strings.Join(said, " "))
+			p.Appendix = append(p.Appendix, "Agreement ("+s.ID+"): "+ascii(strings.Join(said, " ")))
 		}
 	}
-	p.Plans = plansTable(r.Studies, p.Level)
+	p.Plans, p.PlanNotes = plansTable(r.Studies, p.Level)
 	p.Data = dataTable(r.Studies)
 	ids := []string{"manifest " + m.File + " (SHA-256 " + shortHash(m.SHA256) + ")"}
 	for _, d := range r.Datasets {
@@ -361,7 +379,7 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 		if i == len(r.Studies)-1 {
 			p.Checks = checksTable(r.Studies, anchors)
 		}
-		sv, err := buildStudy(s, anchors[i], i, p.Level, cfg, th)
+		sv, err := buildStudy(s, anchors[i], i, p.Level, m.Design, cfg, th)
 		if err != nil {
 			return nil, err
 		}
@@ -448,7 +466,10 @@ type summaryRow struct {
 	DirNote, StrengthNote  string // "reverses within Quench tank", "as a curve: strong"
 	Flags, FlagNote        string // "1", "outlier-driven"
 	Expect, ExpectNote     string // "6 of 7 met", "1 failed": said in words, not by colour alone
-	Failed                 bool
+	// GateFailed gives each failed gate with the figures it judged, under
+	// the finding: "Failed: slope within its limits: found …, wanted …."
+	GateFailed string
+	Failed     bool
 }
 
 // adjustName names the manifest's adjustment method for people.
@@ -476,19 +497,10 @@ func pHead(adjust string) string {
 	return "p (" + adjust + ")"
 }
 
-func summaryCaption(n int, adjust, level string) string {
-	c := fmt.Sprintf("Each study's finding, what the pooled verdict alone would hide, the slope (%s%% interval) and the CI gates", level)
-	switch adjust {
-	case "holm":
-		c += fmt.Sprintf("; p adjusted across the %d studies by Holm's method", n)
-	case "bh":
-		c += fmt.Sprintf("; p adjusted across the %d studies by the Benjamini–Hochberg method", n)
-	case "", "none":
-		c += "; p not adjusted across studies"
-	default:
-		c += "; p adjusted across studies (" + adjust + ")"
-	}
-	return c + "."
+func summaryCaption(level string) string {
+	// The table shows no p of its own: where the findings quote one, the
+	// study's numbers give it with its adjustment.
+	return fmt.Sprintf("Each study's finding and status, slope (%s%% interval) and CI gates.", level)
 }
 
 // Table is the summary as a plain table (the Markdown report).
@@ -500,6 +512,9 @@ func (s summary) Table() table {
 		finding := r.Finding
 		if r.Status != "" {
 			finding += " Status: " + r.Status + "."
+		}
+		if r.GateFailed != "" {
+			finding += " " + r.GateFailed
 		}
 		if finding == "" {
 			finding = r.Form
@@ -571,7 +586,15 @@ func summaryLine(s *report.Study, link string) summaryRow {
 			notes = append(notes, "gone given "+strings.Join(covariateLabels(s, f.ExplainedBy), " or ")+map[bool]string{true: " (each alone)", false: ""}[len(f.ExplainedBy) > 1])
 		}
 		row.DirNote = strings.Join(notes, "; ")
-		row.Finding = ascii(f.Headline)
+		// The headline's first sentence; what it adds after that (a
+		// reversal, a covariate, the line with all rows) the status names,
+		// and the study gives in full.
+		row.Finding = firstSentence(ascii(f.Headline))
+		// Its closing figures (r, its interval, n) stand in the study's
+		// headline: the summary keeps the words and the slope.
+		if i := strings.LastIndex(row.Finding, " ("); i > 0 && strings.HasSuffix(row.Finding, ").") && strings.HasPrefix(row.Finding[i:], " (r = ") {
+			row.Finding = row.Finding[:i] + "."
+		}
 		row.Status = strings.Join(statusOf(s), "; ")
 		if f.CurveStrength != "" && f.CurveStrength != f.Strength {
 			row.StrengthNote = "as a curve: " + f.CurveStrength
@@ -580,6 +603,8 @@ func summaryLine(s *report.Study, link string) summaryRow {
 	row.Slope = slopeText(s, "")
 	if i := strings.Index(row.Slope, " (CI "); i > 0 {
 		row.Slope, row.SlopeCI = row.Slope[:i], "("+row.Slope[i+len(" (CI "):]
+	} else if i := strings.Index(row.Slope, "; CI "); i > 0 { // "… (Deming; CI lo to hi)"
+		row.Slope, row.SlopeCI = row.Slope[:i]+")", "("+row.Slope[i+len("; CI "):]
 	}
 	if s.Findings != nil && s.Findings.TurnsOver {
 		row.Slope, row.SlopeCI = "none: the curve turns over", ""
@@ -591,7 +616,7 @@ func summaryLine(s *report.Study, link string) summaryRow {
 	if s.Findings != nil && s.Findings.OutlierDriven {
 		row.FlagNote = "outlier-driven"
 	}
-	row.Expect = "none declared"
+	row.Expect = "none"
 	if len(s.Expectations) > 0 {
 		ok := 0
 		for _, e := range s.Expectations {
@@ -600,11 +625,31 @@ func summaryLine(s *report.Study, link string) summaryRow {
 			}
 		}
 		row.Expect = fmt.Sprintf("%d of %d met", ok, len(s.Expectations))
-		if bad := len(s.Expectations) - ok; bad > 0 {
-			row.ExpectNote = fmt.Sprintf("%d failed", bad)
+		// A failed gate shows what it judged: the figure found against
+		// the declared limit, both the analysis's words with their units.
+		var failed []string
+		for _, e := range s.Expectations {
+			if !e.OK {
+				failed = append(failed, fmt.Sprintf("%s: found %s, wanted %s", gateTitle(e), ascii(e.Got), ascii(e.Want)))
+			}
+		}
+		if len(failed) > 0 {
+			row.ExpectNote = fmt.Sprintf("%d failed", len(failed))
+			row.GateFailed = "Failed: " + strings.Join(failed, "; ") + "."
 		}
 	}
 	return row
+}
+
+// firstSentence is s up to the end of its first sentence: a full stop
+// followed by a space and a capital letter (a decimal point never is).
+func firstSentence(s string) string {
+	for i := 0; i+2 < len(s); i++ {
+		if s[i] == '.' && s[i+1] == ' ' && s[i+2] >= 'A' && s[i+2] <= 'Z' {
+			return s[:i+1]
+		}
+	}
+	return s
 }
 
 // statusOf names, from the findings, what a reader of the pooled verdict
@@ -683,13 +728,15 @@ func formWord(f *report.Findings) string {
 	return w
 }
 
-func buildStudy(s *report.Study, anchor string, index int, level string, cfg *config, th report.Thresholds) (*studyView, error) {
+func buildStudy(s *report.Study, anchor string, index int, level, design string, cfg *config, th report.Thresholds) (*studyView, error) {
 	sv := &studyView{Anchor: anchor, ID: s.ID, Title: s.Title}
 	if sv.Title == "" {
 		sv.Title = s.ID
 	}
 	sv.Pair = fmt.Sprintf("%s against %s · dataset %s · study %s", chart.InUnit(s.Y), chart.InUnit(s.X), s.Dataset, s.ID)
-	if s.Design != "" {
+	// The manifest's design stands once in the appendix; a study of
+	// another design says so.
+	if s.Design != "" && s.Design != design {
 		sv.Pair += " · " + strings.ReplaceAll(s.Design, "-", " ")
 	}
 	if s.Error != nil {
@@ -700,9 +747,14 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 	for _, e := range s.Expectations {
 		// What the gate wanted and what it found are the verdict's own
 		// figures: both stay beside the outcome.
-		text := fmt.Sprintf("%s: wanted %s, found %s", gateTitle(e), ascii(e.Want), ascii(e.Got))
-		if !e.OK {
-			text += ". " + capital(ascii(e.Detail)) + "."
+		text := fmt.Sprintf("%s: found %s, wanted %s", gateTitle(e), ascii(e.Got), ascii(e.Want))
+		switch {
+		case !e.OK && s.Findings != nil && strings.TrimSpace(e.Detail) == strings.TrimSpace(s.Findings.Headline):
+			text += "." // its detail is the study's headline, just above
+		case !e.OK:
+			text += ". " + capital(strings.TrimSuffix(ascii(e.Detail), ".")) + "."
+		case e.Want == e.Got:
+			text = gateTitle(e) + ": " + ascii(e.Got) // "direction as expected: negative"
 		}
 		sv.Gates = append(sv.Gates, gateLine{OK: e.OK, Text: text})
 	}
@@ -739,8 +791,13 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		if err := cfg.drawer.Draw(&b, fc.fig); err != nil {
 			return nil, fmt.Errorf("study %q: drawing the %s chart: %w", s.ID, fc.kind, err)
 		}
+		// The appendix says once how the usual scatter chart is drawn.
+		note := fc.fig.Caption
+		if strings.TrimSuffix(note, ".") == fc.fig.Title || note == chart.LineCaption(level) {
+			note = ""
+		}
 		sv.Figures = append(sv.Figures, figure{
-			Kind: fc.kind, Fig: fc.fig, SVG: b.String(), Alt: fc.fig.Title, Caption: fc.fig.Caption,
+			Kind: fc.kind, Fig: fc.fig, SVG: b.String(), Alt: fc.fig.Title, Caption: fc.fig.Caption, Note: note,
 			File: cfg.figureDir + "/" + anchor + "-" + fc.kind + ".svg", Main: fc.kind == "scatter",
 		})
 	}
@@ -756,10 +813,17 @@ func buildStudy(s *report.Study, anchor string, index int, level string, cfg *co
 		// their heading: one part, not two.
 		if n := len(sv.Sections); n > 0 && sec.Key == "sensitivity" && sv.Sections[n-1].Key == "influence" {
 			in := sv.Sections[n-1]
-			in.Title = "Unusual rows, and leaving one out"
 			in.Tables = append(in.Tables, sec.Tables...)
 			in.After = append(in.After, sec.After...)
 			continue
+		}
+		// r and the line in other units, when one sentence says them,
+		// belong with the numbers.
+		if sec.Key == "units" && len(sec.Tables) == 0 {
+			if i := slices.IndexFunc(sv.Sections, func(k *section) bool { return k.Key == "keyfigures" }); i >= 0 {
+				sv.Sections[i].After = append(sv.Sections[i].After, sec.Paras...)
+				continue
+			}
 		}
 		sv.Sections = append(sv.Sections, sec)
 	}
@@ -785,11 +849,43 @@ func covariateLabels(s *report.Study, columns []string) []string {
 // plansTable gives every study's planning figures in one table: each
 // interval's half-width now and its target with the rows a next run
 // needs to reach it, and the power to detect r (the findings' sentences
-// are in results.json, "plan.statements").
-func plansTable(studies []report.Study, level string) table {
-	t := table{Caption: "Planning the next run: rows needed, at this run's r, scatter and spread of x, for r's and the slope's " + level + "% intervals to reach their targets (set: in the manifest), and rows to detect r (Fisher z), with this run's power where the r to detect is set; an agreement study plans the " + level + "% intervals of its limits of agreement instead (exact, noncentral t)",
-		Head: []string{"Study", "r: ± now → target", "Rows", "Slope: ± now → target", "Rows", "Rows to detect r (power)", "Limits of agreement: ± now → target", "Items"},
-		Num:  []bool{false, true, true, true, true, true, true, true}}
+// are in results.json, "plan.statements"). An agreement study plans the
+// intervals of its limits of agreement instead: a sentence each (plans).
+func plansTable(studies []report.Study, level string) (table, []string) {
+	t := table{Caption: "Planning the next run, at this run's r, scatter and spread of x: rows for the " + level + "% intervals of r and the slope to reach their targets (set: from the manifest), and to detect r (Fisher z)",
+		Head: []string{"Study", "r: ± now → target", "Rows", "Slope: ± now → target", "Rows", "Rows to detect r (power)"},
+		Num:  []bool{false, true, true, true, true, true}}
+	var notes []string
+	// A power every study plans for stands once, in the header.
+	samePower := ""
+	for _, s := range studies {
+		if p := s.Plan; p != nil && s.Error == nil && p.NForPower > 0 {
+			switch pw := short(float64(p.Power)); {
+			case samePower == "":
+				samePower = pw
+			case samePower != pw:
+				samePower = "mixed"
+			}
+		}
+	}
+	// So does a target for r's interval every study shares.
+	sameR := ""
+	for _, s := range studies {
+		if p := s.Plan; p != nil && s.Error == nil && p.RHalfWidth.Valid() {
+			switch t := num(p.RHalfWidth) + map[bool]string{true: " (set)"}[p.RHalfWidthFrom == "declared"]; {
+			case sameR == "":
+				sameR = t
+			case sameR != t:
+				sameR = "mixed"
+			}
+		}
+	}
+	if sameR != "" && sameR != "mixed" {
+		t.Head[1] = "r: ± now → ±" + sameR
+	}
+	if samePower != "" && samePower != "mixed" {
+		t.Head[5] = "Rows to detect r, power " + samePower
+	}
 	rows := func(n int) string {
 		if n <= 0 {
 			return na
@@ -807,29 +903,38 @@ func plansTable(studies []report.Study, level string) table {
 		if p == nil || s.Error != nil {
 			continue
 		}
+		if p.LimitsHalfWidth.Valid() {
+			notes = append(notes, fmt.Sprintf("Planning %s, an agreement study: %s items for the %s%% intervals of its limits of agreement to shrink from ±%s to ±%s (%sexact, noncentral t).",
+				s.ID, rows(p.NForLimits), level, num(p.LimitsHalfWidthNow), withSym(num(p.LimitsHalfWidth), s.X.Symbol), strings.TrimPrefix(strings.TrimSuffix(set(p.LimitsHalfWidthFrom), ")")+"; ", " (")))
+		}
 		r, nR := na, na
 		if p.RHalfWidth.Valid() {
-			r, nR = "±"+num(p.RHalfWidthNow)+" → ±"+num(p.RHalfWidth)+set(p.RHalfWidthFrom), rows(p.NForR)
+			r, nR = "±"+num(p.RHalfWidthNow), rows(p.NForR)
+			if target := num(p.RHalfWidth) + set(p.RHalfWidthFrom); target != sameR {
+				r += " → ±" + target
+			}
 		}
 		slope, nSlope := na, na
 		if p.SlopeHalfWidth.Valid() {
-			slope, nSlope = "±"+num(p.SlopeHalfWidthNow)+" → ±"+num(p.SlopeHalfWidth)+set(p.SlopeHalfWidthFrom), rows(p.NForSlope)
+			slope, nSlope = "±"+num(p.SlopeHalfWidthNow)+" → ±"+withSym(num(p.SlopeHalfWidth), unitPer(&s))+set(p.SlopeHalfWidthFrom), rows(p.NForSlope)
 		}
 		detect := na
 		if p.NForPower > 0 {
-			detect = rows(p.NForPower) + " for " + short(float64(p.Power))
+			detect = rows(p.NForPower)
+			if power := short(float64(p.Power)); power != samePower {
+				detect += " for " + power
+			}
 			if p.DetectRFrom == "declared" {
 				detect = "r = " + num(p.DetectR) + " (set): " + detect
 				if p.PowerNow.Valid() {
-					detect += "; now " + num(p.PowerNow)
+					detect += "; power now " + num(p.PowerNow)
 				}
 			}
 		}
-		limits, nLimits := na, na
-		if p.LimitsHalfWidth.Valid() {
-			limits, nLimits = "±"+num(p.LimitsHalfWidthNow)+" → ±"+num(p.LimitsHalfWidth)+paren(s.X.Symbol)+set(p.LimitsHalfWidthFrom), rows(p.NForLimits)
+		if r == na && slope == na && detect == na {
+			continue
 		}
-		t.Rows = append(t.Rows, []string{s.ID, r, nR, slope, nSlope, detect, limits, nLimits})
+		t.Rows = append(t.Rows, []string{s.ID, r, nR, slope, nSlope, detect})
 	}
-	return t
+	return t, notes
 }

@@ -640,7 +640,11 @@ func (f *facts) screenP(name string, raw float64) string {
 
 func (f *facts) holmSuffix(name string, raw float64) string {
 	if a, ok := f.screenRaw[name]; ok && a == raw && raw < f.alpha && f.screenAdj[name] > raw {
-		return fmt.Sprintf("; after Holm's adjustment over this study's %d checks, %s", len(f.screenNames), f.pv(math.Min(1, f.screenAdj[name])))
+		adj := f.pv(math.Min(1, f.screenAdj[name]))
+		if adj == f.pv(raw) { // both "p < 0.0001": one figure says it
+			return ", adjusted or not"
+		}
+		return fmt.Sprintf("; after Holm's adjustment over this study's %d checks, %s", len(f.screenNames), adj)
 	}
 	return ""
 }

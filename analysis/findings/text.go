@@ -130,30 +130,9 @@ func sameSide(t string, a float64, cuts []float64) bool {
 	return true
 }
 
-// pvalVs writes a p-value as pval does, with more digits where pval's
-// rounding would put it on the other side of alpha (0.0496 prints as
-// "p = 0.0496", not "p = 0.050", when alpha is 0.05) or where "p < 0.001"
-// would not show that p is below a smaller alpha.
-func pvalVs(p, alpha float64) string {
-	t := pval(p)
-	switch {
-	case math.IsNaN(p):
-		return t
-	case p < 0.001:
-		if alpha > 0.001 || p < alpha && alpha == 0.001 {
-			return t
-		}
-		return "p = " + minus(strconv.FormatFloat(p, 'e', 2, 64))
-	}
-	for k := 3; k <= 8; k++ {
-		v, err := strconv.ParseFloat(strings.TrimPrefix(t, "p = "), 64)
-		if err != nil || (v < alpha) == (p < alpha) {
-			return t
-		}
-		t = "p = " + strconv.FormatFloat(p, 'g', k, 64)
-	}
-	return t
-}
+// pvalVs is pval with PValueVs's digits: "p = 0.0496", not "p = 0.050",
+// when alpha is 0.05.
+func pvalVs(p, alpha float64) string { return pIs(PValueVs(p, alpha)) }
 
 // pv writes p against the study's alpha (pvalVs).
 func (f *facts) pv(p float64) string { return pvalVs(p, f.alpha) }
@@ -169,20 +148,68 @@ func (f *facts) absNum(a float64) string {
 	return corrVs(a, f.th.Strong, f.th.Moderate, f.th.Weak)
 }
 
-// pval writes a p-value as "p = 0.012" or "p < 0.001".
-func pval(p float64) string {
+// pval writes a p-value after "p": "p = 0.012", "p < 0.0001".
+func pval(p float64) string { return pIs(PValue(p)) }
+
+// pIs puts "p" before a p-value that PValue wrote: "p = 0.012", "p <
+// 0.0001", "p undefined".
+func pIs(t string) string {
 	switch {
-	case math.IsNaN(p):
+	case t == "undefined":
 		return "p undefined"
-	case p < 0.0001:
-		return "p < 0.0001" // the exact value stays in results.json
-	case p < 0.001:
-		return "p = " + strconv.FormatFloat(p, 'f', 4, 64)
-	case p < 0.1:
-		return "p = " + strconv.FormatFloat(p, 'f', 3, 64)
-	default:
-		return "p = " + strconv.FormatFloat(p, 'f', 2, 64)
+	case strings.HasPrefix(t, "<"):
+		return "p " + t
 	}
+	return "p = " + t
+}
+
+// PValue writes a p-value as every report prints it, in sentences and in
+// tables alike, the one formatter of the project: "< 0.0001" below 0.0001
+// (results.json keeps the exact value), four decimals below 0.001, three
+// below 0.1, two from there up; "undefined" for NaN or an infinity.
+func PValue(p float64) string {
+	switch {
+	case math.IsNaN(p) || math.IsInf(p, 0):
+		return "undefined"
+	case p < 0.0001:
+		return "< 0.0001"
+	case p < 0.001:
+		return strconv.FormatFloat(p, 'f', 4, 64)
+	case p < 0.1:
+		return strconv.FormatFloat(p, 'f', 3, 64)
+	default:
+		return strconv.FormatFloat(p, 'f', 2, 64)
+	}
+}
+
+// PValueVs writes p as PValue does, with significant digits added where
+// PValue's rounding would put it on the other side of alpha (0.0496
+// prints as 0.0496, not 0.050, when alpha is 0.05). Below 0.0001 it stays
+// "< 0.0001" unless alpha lies lower too: then "< alpha" when p is below
+// alpha, else p to three significant digits, so that the side of alpha
+// shows.
+func PValueVs(p, alpha float64) string {
+	t := PValue(p)
+	switch {
+	case math.IsNaN(p) || math.IsInf(p, 0):
+		return t
+	case p < 0.0001:
+		if alpha > 0.0001 {
+			return t
+		}
+		if p < alpha {
+			return "< " + strconv.FormatFloat(alpha, 'g', -1, 64)
+		}
+		return strconv.FormatFloat(p, 'g', 3, 64)
+	}
+	for k := 3; k <= 8; k++ {
+		v, err := strconv.ParseFloat(t, 64)
+		if err != nil || (v < alpha) == (p < alpha) {
+			return t
+		}
+		t = strconv.FormatFloat(p, 'g', k, 64)
+	}
+	return t
 }
 
 // minus writes a negative number with the ASCII hyphen-minus, the one

@@ -14,6 +14,7 @@ func TestNumberWords(t *testing.T) {
 		{num(math.NaN()), "undefined"}, {num(0), "0"},
 		{corr(0.8164), "0.82"}, {corr(-0.99), "-0.99"}, {corr(0.9996), "0.9996"}, {corr(0.999997), "0.999997"},
 		{corr(1), "1.00"}, {corr(math.NaN()), "undefined"},
+		{PValue(0.5), "0.50"}, {PValue(0.0123), "0.012"}, {PValue(0.00094), "0.0009"}, {PValue(0.00004), "< 0.0001"}, {PValue(math.Inf(1)), "undefined"},
 		{pval(0.0004), "p = 0.0004"}, {pval(0.00004), "p < 0.0001"}, {pval(0.0123), "p = 0.012"}, {pval(0.5), "p = 0.50"}, {pval(math.NaN()), "p undefined"},
 		{withUnit(12.5, "%"), "12.5%"}, {withUnit(240, "°C"), "240 °C"}, {withUnit(3, ""), "3"},
 		{perUnit("%", "°C", "melt"), "% per °C"}, {perUnit("", "", "melt"), "per unit of melt"},

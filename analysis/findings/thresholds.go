@@ -247,14 +247,13 @@ func Rules(th report.Thresholds, alpha float64) string {
 	if !(alpha > 0 && alpha < 1) {
 		alpha = 0.05
 	}
-	return fmt.Sprintf("Cut points in force. Common practice, not a standard: strength from |r|, strong at %s, moderate at %s, weak at %s, graded only where r's p is below alpha = %s; "+
+	return fmt.Sprintf("Cut points in force. Common practice, not a standard: |r| is strong from %s, moderate from %s, weak from %s, graded only where r's p is below alpha = %s; "+
 		"high leverage above %s·p/n; outlier when the externally studentized residual exceeds %s in size or the Bonferroni bound at family level %s, whichever is larger; "+
-		"influential when Cook's distance exceeds the %s quantile of F(p, n − p); with a declared run order, drift when the smaller of two p-values, the residuals' trend in run order "+
-		"and their Durbin–Watson statistic (read only below %s, a rule of thumb), doubled and adjusted by Holm's method over the study's checks, is below alpha. "+
-		"Choices of this tool, not common practice: a curve needs a significant x² term (Holm's adjustment within the study) and the quadratic to remove at least a share %s of the straight line's residual sum of squares; "+
-		"nonlinear needs either a significant distance correlation of at least %s and above |r| while r is not significant, or, with |r| below %s, the line's residuals in order of x "+
-		"with a Durbin–Watson statistic below the smaller of %s and its alpha bound; groups of at least %d rows enter the reversal check. "+
-		"Each study states how its flag rules apply to its own number of rows.",
+		"influential when Cook's distance exceeds the %s quantile of F(p, n − p); with a run order declared, drift when the smaller p of the residuals' trend in run order "+
+		"and their Durbin–Watson statistic (read only below %s, a rule of thumb), doubled and Holm-adjusted over the study's checks, is below alpha. "+
+		"Choices of this tool, not common practice: a curve needs a significant x² term (Holm within the study) and the quadratic to take at least a share %s off the line's residual sum of squares; "+
+		"nonlinear needs either a significant distance correlation of at least %s above |r| while r is not significant, or, with |r| below %s, the line's residuals in order of x "+
+		"with a Durbin–Watson statistic below the smaller of %s and its alpha bound; the reversal check compares groups of at least %d rows.",
 		num(th.Strong), num(th.Moderate), num(th.Weak), num(alpha), num(th.LeverageFactor), num(th.OutlierZ), num(th.OutlierFamilyAlpha),
 		num(th.CooksD), num(th.DriftDW), num(th.CurveShare), num(th.NonlinearDcor), num(th.Moderate), num(th.FormDW), th.ReversalMinGroup)
 }

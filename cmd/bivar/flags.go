@@ -56,11 +56,42 @@ func parseFlags(fs *flag.FlagSet, args []string, stdout, stderr io.Writer) (code
 	return exitOK, true
 }
 
-// flagDefaults returns the flag package's list of fs's options.
+// flagDefaults lists fs's options as the usage lines spell them
+// (optionName): each with its argument, its description and any default.
 func flagDefaults(fs *flag.FlagSet) string {
 	var b strings.Builder
-	fs.SetOutput(&b)
-	fs.PrintDefaults()
-	fs.SetOutput(io.Discard)
+	fs.VisitAll(func(f *flag.Flag) {
+		arg, usage := flag.UnquoteUsage(f)
+		b.WriteString("  " + optionName(f.Name))
+		if arg != "" {
+			b.WriteString(" " + arg)
+		}
+		b.WriteString("\n    \t" + strings.ReplaceAll(usage, "\n", "\n    \t"))
+		if g, ok := f.Value.(flag.Getter); ok {
+			switch v := g.Get().(type) {
+			case string:
+				if v != "" {
+					fmt.Fprintf(&b, " (default %q)", v)
+				}
+			case bool:
+				if v {
+					b.WriteString(" (default true)")
+				}
+			default:
+				fmt.Fprintf(&b, " (default %v)", v)
+			}
+		}
+		b.WriteString("\n")
+	})
 	return b.String()
+}
+
+// optionName spells an option as the usage lines and the README do: one
+// dash before a one-letter name ("-o"), two before a word ("--replace").
+// The flag package reads either spelling of either.
+func optionName(name string) string {
+	if len(name) == 1 {
+		return "-" + name
+	}
+	return "--" + name
 }

@@ -48,7 +48,7 @@ func commands() []command {
 	return []command{
 		{
 			Name:  "run",
-			Usage: "bivar run [-o DIR] MANIFEST",
+			Usage: "bivar run [-o DIR] [--replace] MANIFEST",
 			Short: "run every study and write the report",
 			Long: `Reads MANIFEST (TOML), loads its datasets, runs every study and writes
 the formats chosen in [output] (report.html, report.md with its figures, and

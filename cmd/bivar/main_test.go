@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -60,7 +61,7 @@ func TestUsageErrors(t *testing.T) {
 		{"help-unknown", []string{"help", "rnu"}, exitUsage, `unknown command "rnu"`},
 		{"run-no-manifest", []string{"run"}, exitUsage, "want one manifest, got 0 arguments"},
 		{"run-two-manifests", []string{"run", "a.toml", "b.toml"}, exitUsage, "want one manifest, got 2 arguments"},
-		{"run-bad-flag", []string{"run", "-x", "a.toml"}, exitUsage, "bivar run: flag provided but not defined: -x\nusage: bivar run [-o DIR] MANIFEST\nRun 'bivar help run' for details.\n"},
+		{"run-bad-flag", []string{"run", "-x", "a.toml"}, exitUsage, "bivar run: flag provided but not defined: -x\nusage: bivar run [-o DIR] [--replace] MANIFEST\nRun 'bivar help run' for details.\n"},
 		{"run-folder", []string{"run", t.TempDir()}, exitFailed, "is a folder: give the manifest file itself"},
 		{"run-missing-file", []string{"run", filepath.Join(t.TempDir(), "absent.toml")}, exitFailed, "absent.toml"},
 		{"version-argument", []string{"version", "x"}, exitUsage, "takes no arguments"},
@@ -205,6 +206,34 @@ func TestHelpMatchesDashH(t *testing.T) {
 			if !strings.Contains(out, k[1]) {
 				t.Errorf("bivar help %s does not list the expectation key %s", name, k[1])
 			}
+		}
+	}
+}
+
+// TestHelpOptionSpelling checks that each command's usage line and its
+// list of options name the same options, spelled alike ("-o", "--replace"),
+// so that what the help shows can be typed as shown.
+func TestHelpOptionSpelling(t *testing.T) {
+	inUsage := regexp.MustCompile(`\[(-{1,2}[a-z][a-z-]*)`)
+	inList := regexp.MustCompile(`(?m)^  (-{1,2}[a-z][a-z-]*)`)
+	for _, c := range commands() {
+		if c.Run == nil {
+			continue
+		}
+		_, help, _ := call(t, "help", c.Name)
+		var usage, listed []string
+		for _, m := range inUsage.FindAllStringSubmatch(c.Usage, -1) {
+			usage = append(usage, m[1])
+		}
+		if _, opts, ok := strings.Cut(help, "\nOptions:\n"); ok {
+			for _, m := range inList.FindAllStringSubmatch(opts, -1) {
+				listed = append(listed, m[1])
+			}
+		}
+		slices.Sort(usage)
+		slices.Sort(listed)
+		if !slices.Equal(usage, listed) {
+			t.Errorf("bivar %s: the usage line names %v, the options list %v", c.Name, usage, listed)
 		}
 	}
 }

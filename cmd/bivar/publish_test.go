@@ -645,3 +645,49 @@ func TestRunOtherManifestRefused(t *testing.T) {
 		t.Errorf("-replace: exit %d\n%s", code, stderr)
 	}
 }
+
+// TestRunCopiedProject: a report folder records its manifest relative to
+// itself, so a project copied whole (manifest, data and report folder)
+// runs in its new place without --replace; a folder whose list names the
+// same manifest by its absolute path (as runs recorded it before) is
+// taken too; and two manifests of one copied project still do not share
+// a folder without --replace.
+func TestRunCopiedProject(t *testing.T) {
+	base := t.TempDir()
+	a := project(t, filepath.Join(base, "a"), 0, "project (invented data)")
+	if code, _, stderr := call(t, "run", a); code != exitOK && code != exitExpectation {
+		t.Fatalf("first run: exit %d\n%s", code, stderr)
+	}
+	list, err := os.ReadFile(filepath.Join(base, "a", "report", publish.ContentsFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if first, _, _ := strings.Cut(string(list), "\n"); !strings.Contains(first, `bivar run "../bivar.toml"`) {
+		t.Errorf("the folder records %q, want the manifest relative to it", first)
+	}
+	// Copy the whole project, report folder included.
+	b := filepath.Join(base, "b")
+	for name, text := range tree(t, filepath.Join(base, "a")) {
+		writeFile(t, filepath.Join(b, filepath.FromSlash(name)), text)
+	}
+	if code, _, stderr := call(t, "run", filepath.Join(b, "bivar.toml")); code != exitOK && code != exitExpectation {
+		t.Errorf("copied project: exit %d\n%s", code, stderr)
+	}
+	// A list written before runs recorded the path relative: the same
+	// manifest by its absolute path.
+	abs, _ := filepath.Abs(filepath.Join(b, "bivar.toml"))
+	listB := filepath.Join(b, "report", publish.ContentsFile)
+	old, _ := os.ReadFile(listB)
+	_, rest, _ := strings.Cut(string(old), "\n")
+	writeFile(t, listB, "# written by bivar run "+strconv.Quote(abs)+"; each publish replaces this folder as a whole\n"+rest)
+	if code, _, stderr := call(t, "run", filepath.Join(b, "bivar.toml")); code != exitOK && code != exitExpectation {
+		t.Errorf("folder listed with the manifest's absolute path: exit %d\n%s", code, stderr)
+	}
+	// Another manifest of the copy, into the same folder.
+	other := filepath.Join(b, "other.toml")
+	src, _ := os.ReadFile(filepath.Join(b, "bivar.toml"))
+	writeFile(t, other, string(src))
+	if code, _, stderr := call(t, "run", "-o", filepath.Join(b, "report"), other); code != exitFailed || !strings.Contains(stderr, "--replace") {
+		t.Errorf("another manifest into the copied folder: exit %d, stderr:\n%s\nwant exit 1 naming --replace", code, stderr)
+	}
+}

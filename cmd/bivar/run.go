@@ -45,13 +45,23 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	// is refused at once rather than after its work.
 	// The folder records which manifest wrote it: a run of another
 	// manifest into it stops (two manifests in one folder would overwrite
-	// each other's report without a word) unless -replace says so.
-	target, err := publish.OpenDir(dir, publish.Options{Command: runCommand(m), Legacy: render.EarlierFile, Replace: *replace})
+	// each other's report without a word) unless --replace says so.
+	opts := publish.Options{Command: runCommand(m, dir), Legacy: render.EarlierFile, Replace: *replace}
+	target, err := publish.OpenDir(dir, opts)
+	var foreign *publish.ForeignError
+	if errors.As(err, &foreign) && foreign.Writer == legacyRunCommand(m) {
+		// Written by this manifest before runs recorded it relative to
+		// the folder: the same manifest, so the folder is taken.
+		opts.Replace = true
+		target, err = publish.OpenDir(dir, opts)
+	}
 	if err != nil {
-		var foreign *publish.ForeignError
 		if errors.As(err, &foreign) && strings.HasPrefix(foreign.Writer, "bivar run \"") {
 			other, _ := strconv.Unquote(strings.TrimPrefix(foreign.Writer, "bivar run "))
-			fmt.Fprintf(stderr, "bivar: %s holds the report of the manifest %s, and this run is of %s: give each manifest its own [output] dir (or -o DIR), or run with -replace to overwrite that report on purpose\n",
+			if abs, err := filepath.Abs(dir); err == nil && !filepath.IsAbs(other) {
+				other = filepath.Join(abs, other)
+			}
+			fmt.Fprintf(stderr, "bivar: %s holds the report of the manifest %s, and this run is of %s: give each manifest its own [output] dir (or -o DIR), or run with --replace to overwrite that report on purpose\n",
 				dir, other, manifestFile(m))
 			return exitFailed
 		}
@@ -92,9 +102,28 @@ func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 // another process writes it, it holds what is not bivar's, or it cannot
 // be created. from says where its name came from (a flag, the manifest),
 // choose how to give another (such as "-o DIR").
-// runCommand names a run of manifest m for the report folder's list of
-// contents: "bivar run" and the manifest's absolute path, quoted.
-func runCommand(m *manifest.Manifest) string { return "bivar run " + strconv.Quote(manifestFile(m)) }
+// runCommand names a run of manifest m into the folder dir for the
+// folder's list of contents: "bivar run" and the manifest's path relative
+// to that folder, quoted ("bivar run \"../bivar.toml\""). Relative, so that
+// a project copied or moved whole, manifest and report folder together,
+// still finds its own report there (an absolute path would name the old
+// place and make the first run of the copy refuse the folder); where no
+// relative path exists, the absolute one.
+func runCommand(m *manifest.Manifest, dir string) string {
+	file := manifestFile(m)
+	if abs, err := filepath.Abs(dir); err == nil {
+		if rel, err := filepath.Rel(abs, file); err == nil {
+			file = filepath.ToSlash(rel)
+		}
+	}
+	return "bivar run " + strconv.Quote(file)
+}
+
+// legacyRunCommand is how runs recorded manifest m before runCommand made
+// the path relative: its absolute path.
+func legacyRunCommand(m *manifest.Manifest) string {
+	return "bivar run " + strconv.Quote(manifestFile(m))
+}
 
 // manifestFile is the manifest's absolute path: its folder (Manifest.Dir,
 // made absolute by manifest.Load) and its file name.

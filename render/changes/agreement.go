@@ -43,7 +43,7 @@ func agreementRows(res *compare.Result) []agreementRow {
 		out = append(out, agreementRow{ID: sc.ID,
 			Cells: []string{
 				num(a.OldBias) + " → " + num(a.NewBias) + u,
-				signed(a.DeltaBias) + " ± " + num(a.BiasSE),
+				signed(a.DeltaBias) + " ± " + num(a.BiasSE) + u,
 				t + " (" + df + ")",
 				pval(a.BiasPAdj),
 				num(a.OldSD) + " → " + num(a.NewSD) + u,

@@ -27,7 +27,7 @@ func TestAgreementChangesShown(t *testing.T) {
 	if err := HTML(&html, res); err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{"## Change in agreement", "| `testers` | 0.1 → 1.2 HRC | +1.1 ± 0.2 | 5.50 (57.5) | **< 0.0001** |", "-0.88 to 1.08 → 0.12 to 2.28 HRC"} {
+	for _, want := range []string{"## Change in agreement", "| `testers` | 0.1 → 1.2 HRC | +1.1 ± 0.2 HRC | 5.50 (57.5) | **< 0.0001** |", "-0.88 to 1.08 → 0.12 to 2.28 HRC"} {
 		if !strings.Contains(md.String(), want) {
 			t.Errorf("Markdown lacks %q:\n%s", want, md.String())
 		}

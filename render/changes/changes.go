@@ -19,6 +19,7 @@ import (
 	"strings"
 
 	"bivar/analysis/compare"
+	"bivar/analysis/findings"
 	"bivar/analysis/report"
 	"bivar/internal/cleantext"
 	"bivar/internal/publish"
@@ -607,16 +608,13 @@ func fix2(f report.Float) string {
 	return strconv.FormatFloat(float64(f), 'f', 2, 64)
 }
 
-// pval writes a p-value: three significant digits, "< 0.0001" below.
+// pval writes a p-value with the project's one formatter,
+// findings.PValue ("< 0.0001" below 0.0001), "—" when undefined.
 func pval(f report.Float) string {
 	if !f.Valid() {
 		return "—"
 	}
-	v := float64(f)
-	if v < 1e-4 {
-		return "< 0.0001"
-	}
-	return strconv.FormatFloat(v, 'g', 3, 64)
+	return findings.PValue(float64(f))
 }
 
 // short is the first 12 hex digits of a SHA-256, enough to tell files apart

@@ -83,7 +83,7 @@ func DifferenceMean(s *report.Study, id, level string) *Figure {
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
 		XLabel: withSymbol(fmt.Sprintf("Mean of %s and %s", varName(s.X), varName(s.Y)), sym),
-		YLabel: withSymbol(fmt.Sprintf("%s − %s", varName(s.Y), varName(s.X)), sym),
+		YLabel: withSymbol(fmt.Sprintf("%s - %s", varName(s.Y), varName(s.X)), sym),
 		Title:  "Difference against mean",
 		Points: xySeries(p.Points),
 	}
@@ -109,7 +109,7 @@ func DifferenceMean(s *report.Study, id, level string) *Figure {
 	}
 	f.Desc = fmt.Sprintf("Difference %s minus %s against the mean of the two for %d items, with the bias, the limits of agreement and their %s%% intervals.",
 		varName(s.Y), varName(s.X), p.N, level)
-	f.Caption = fmt.Sprintf("Difference %s − %s against their mean. Solid: bias; dashed: limits of agreement, each in its %s%% interval (shaded).",
+	f.Caption = fmt.Sprintf("Difference %s - %s against their mean. Solid: bias; dashed: limits of agreement, each in its %s%% interval (shaded).",
 		varName(s.Y), varName(s.X), level)
 	if a.Acceptable.Valid() {
 		f.Caption += " Dotted: the acceptable difference."

@@ -63,7 +63,7 @@ func TestAgreementCharts(t *testing.T) {
 				t.Errorf("n = %d: no line %q", n, want)
 			}
 		}
-		if !strings.Contains(dm.YLabel, "Tester B − Tester A") || !strings.Contains(dm.YLabel, "HRC") {
+		if !strings.Contains(dm.YLabel, "Tester B - Tester A") || !strings.Contains(dm.YLabel, "HRC") {
 			t.Errorf("difference axis %q", dm.YLabel)
 		}
 	}

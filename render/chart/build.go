@@ -265,7 +265,7 @@ func Scatter(s *report.Study, id, level string) *Figure {
 	} else {
 		f.Desc = fmt.Sprintf("Scatterplot of %d rows, %s on the vertical axis against %s on the horizontal axis, with the least-squares line, its %s%% confidence band and a LOWESS curve.%s %s",
 			p.N, f.YLabel, f.XLabel, level, groups, markNames(f.Marked))
-		f.Caption = fmt.Sprintf("Least-squares line in its %s%% band; dash-dot: LOWESS.", level)
+		f.Caption = LineCaption(level)
 		if len(p.Curve) > 0 {
 			f.Caption += " Dotted: parabola."
 		}
@@ -389,6 +389,12 @@ func fitLong(p *report.Plot) string {
 	return "straight line"
 }
 
+// LineCaption is the caption of a scatter chart drawn the usual way: the
+// least-squares line in its band at level percent, and the LOWESS smooth.
+func LineCaption(level string) string {
+	return fmt.Sprintf("Least-squares line in its %s%% band; dash-dot: LOWESS.", level)
+}
+
 // ResidualsFitted plots the main fit's residuals (the straight line's, or
 // the curve's when the form is curved) against its fitted values. It
 // returns nil when the study has none.
@@ -401,7 +407,7 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	f := &Figure{
 		ID: id, Width: ResidualW, Height: ResidualH,
 		XLabel: "Fitted value: " + AxisTitle(s.Y), YLabel: residualTitle(s),
-		Title:  "Distance from the " + fit + ", by the " + fit + "'s value",
+		Title:  "Distance from the " + fit + ", by fitted value",
 		Points: series(p, pickFitted),
 		Marked: marks(p, markFitted),
 		Lines:  []Line{zeroLine(spanOf(p, p.ResidFitted, pickFitted))},
@@ -413,7 +419,7 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	}
 	f.Dense, f.Density = dense(p, p.ResidFitted)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares %s for %d rows against the fitted values, with a dashed line at zero. %s", fitLong(p), p.N, markNames(f.Marked))
-	f.Caption = "Distance from the " + fit + ", by the " + fit + "'s value."
+	f.Caption = f.Title + "."
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))
 		f.Desc += denseNote(p.N, len(f.Marked))
@@ -437,7 +443,7 @@ func ResidualsOrder(s *report.Study, id string) *Figure {
 	f := &Figure{
 		ID: id, Width: ScatterW, Height: StripH,
 		XLabel: xl, YLabel: residualTitle(s),
-		Title:  "Drift strip: distance from the " + fitName(p) + " in run order",
+		Title:  "Drift strip: distance from the " + fitName(p) + ", in the order of " + order,
 		Points: series(p, pickOrder),
 		Marked: marks(p, markOrder),
 		Lines:  []Line{zeroLine(spanOf(p, p.ResidOrder, pickOrder))},
@@ -445,7 +451,7 @@ func ResidualsOrder(s *report.Study, id string) *Figure {
 	}
 	f.Dense, f.Density = dense(p, p.ResidOrder)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares %s for %d rows in the order of %s, with a dashed line at zero. %s", fitLong(p), p.N, order, markNames(f.Marked))
-	f.Caption = fmt.Sprintf("Drift strip, in the order of %s.", order)
+	f.Caption = f.Title + "."
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))
 		f.Desc += denseNote(p.N, len(f.Marked))

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"bivar/analysis"
+	"bivar/analysis/dataset"
 	"bivar/analysis/report"
 )
 
@@ -40,7 +41,7 @@ func FuzzAnalyze(f *testing.F) {
 			XS: x, YS: y, PredictAt: []float64{0, 1e6}}
 		inp.AlsoIn.X = []string{"K"}
 		if g != nil {
-			inp.GroupColumn, inp.Groups = "g", g
+			inp.GroupColumn, inp.Groups = "g", dataset.StringsOf(g)
 			inp.OrderColumn, inp.Order = "o", y
 		}
 		s := analysis.Analyze(inp, analysis.DefaultConfig())

@@ -7,7 +7,9 @@ import (
 	"cmp"
 	"math"
 	"slices"
+	"strings"
 
+	"bivar/analysis/dataset"
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 	"bivar/internal/hugepage"
@@ -107,11 +109,12 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int32, line stats.Li
 // into them: computed once per study and shared by the per-group lines,
 // the comparison of the group lines and the plot. Indices follow the
 // sorted levels, so they do not depend on the file's order of rows.
-func levels(g []string) ([]string, []int32) {
+func levels(g dataset.Strings) ([]string, []int32) {
 	seen := map[string]int{}
 	var lv []string
-	for _, v := range g {
-		if _, ok := seen[v]; !ok {
+	for i := range g.Len() {
+		if v := g.At(i); !hasKey(seen, v) {
+			v = strings.Clone(v) // the report keeps it, not the column
 			seen[v] = 0
 			lv = append(lv, v)
 		}
@@ -120,9 +123,9 @@ func levels(g []string) ([]string, []int32) {
 	for i, v := range lv {
 		seen[v] = i
 	}
-	idx := hugepage.Make[int32](len(g))
-	for i, v := range g {
-		idx[i] = int32(seen[v])
+	idx := hugepage.Make[int32](g.Len())
+	for i := range g.Len() {
+		idx[i] = int32(seen[g.At(i)])
 	}
 	return lv, idx
 }
@@ -206,4 +209,9 @@ func quadraticCurve(s *report.Study, k int) []report.XY {
 		out[i] = report.XY{X: x0, Y: b0 + x0*(b1+b2*x0)}
 	}
 	return out
+}
+
+func hasKey(m map[string]int, k string) bool {
+	_, ok := m[k]
+	return ok
 }

@@ -378,9 +378,9 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		return s, err
 	}
 	info.Sample = len(sn[0])
-	sin := Input{ID: s.ID, X: s.X, Y: s.Y, XS: sn[0], YS: sn[1], Rows: sid, GroupColumn: spec.Group, OrderColumn: spec.Order}
+	sin := Input{ID: s.ID, X: s.X, Y: s.Y, XS: sn[0], YS: sn[1], Rows: dataset.StringsOf(sid), GroupColumn: spec.Group, OrderColumn: spec.Order}
 	if spec.Group != "" {
-		sin.Groups = sg
+		sin.Groups = dataset.StringsOf(sg)
 	}
 	if spec.Order != "" {
 		sin.Order = sn[ix[spec.Order]]

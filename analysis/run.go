@@ -509,21 +509,11 @@ func input(st manifest.Study, ls *loadedSet) (Input, string) {
 	if missing == nil {
 		missing = manifest.DefaultMissing()
 	}
-	// blankMissing returns the column with its missing markers blanked: the
-	// dataset's own slice where none is (nothing is copied: at 10⁷ rows a
-	// copy is 160 MB per column and study), a copy where one is.
-	blankMissing := func(col string) []string {
-		v := t.Text[col]
-		copied := false
-		for i := range v {
-			if slices.Contains(missing, strings.TrimSpace(v[i])) {
-				if !copied {
-					v, copied = slices.Clone(v), true
-				}
-				v[i] = ""
-			}
-		}
-		return v
+	// blankMissing returns the column with its missing markers blanked:
+	// the dataset's own column where none is (nothing is copied), a copy
+	// where one is.
+	blankMissing := func(col string) dataset.Strings {
+		return t.Text[col].Blank(func(v string) bool { return slices.Contains(missing, strings.TrimSpace(v)) })
 	}
 	if ls.decl.IDColumn != "" {
 		in.Rows = blankMissing(ls.decl.IDColumn) // a missing name falls back to the row number

@@ -12,6 +12,7 @@ import (
 	"strconv"
 	"strings"
 
+	"bivar/analysis/dataset"
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
 	"bivar/internal/hugepage"
@@ -90,8 +91,8 @@ func checkScales(m *manifest.Manifest, st manifest.Study, ls *loadedSet, keep []
 			from = "its query"
 		}
 		entry := fmt.Sprintf("{data_row = %d, reason = \"…\"}", bad[0]+1)
-		if in.Rows != nil && in.Rows[bad[0]] != "" {
-			entry = fmt.Sprintf("{row = %q, reason = \"…\"}", strings.TrimSpace(in.Rows[bad[0]]))
+		if in.Rows.Given() && in.Rows.At(bad[0]) != "" {
+			entry = fmt.Sprintf("{row = %q, reason = \"…\"}", strings.TrimSpace(in.Rows.At(bad[0])))
 		}
 		return fmt.Errorf("%sstudy %q: %s_scale = %q, but %s, and column %q of dataset %q (%s) is %s in %s the study uses: %s. Correct the values, leave the rows out with exclude, each with its reason (exclude = [%s, …]), or choose another scale",
 			where, st.ID, a.axis, a.scale, manifest.ScaleDomain(a.scale), a.column, ls.decl.ID, from, what, count(len(bad), "row"), list, entry)
@@ -105,7 +106,7 @@ func checkScales(m *manifest.Manifest, st manifest.Study, ls *loadedSet, keep []
 func usedRows(in Input) func(i int) bool {
 	return func(i int) bool {
 		if in.Keep != nil && !in.Keep[i] || missing(in.XS[i]) || missing(in.YS[i]) ||
-			in.Groups != nil && in.Groups[i] == "" || in.Order != nil && missing(in.Order[i]) {
+			in.Groups.Given() && in.Groups.At(i) == "" || in.Order != nil && missing(in.Order[i]) {
 			return false
 		}
 		for _, v := range in.Covariates {
@@ -119,9 +120,9 @@ func usedRows(in Input) func(i int) bool {
 
 // rowName names data row i (0-based) for a message: `row "A17" (data row
 // 14)` with an id_column, else "data row 14".
-func rowName(ids []string, i int) string {
-	if ids != nil && ids[i] != "" {
-		return fmt.Sprintf("row %q (data row %d)", strings.TrimSpace(ids[i]), i+1)
+func rowName(ids dataset.Strings, i int) string {
+	if ids.Given() && ids.At(i) != "" {
+		return fmt.Sprintf("row %q (data row %d)", strings.TrimSpace(ids.At(i)), i+1)
 	}
 	return "data row " + strconv.Itoa(i+1)
 }

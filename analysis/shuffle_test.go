@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"bivar/analysis"
+	"bivar/analysis/dataset"
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
 )
@@ -41,7 +42,7 @@ func TestAnalyzeShuffleInvariant(t *testing.T) {
 	}
 	study := func(x, y, order []float64, rows []string) report.Study {
 		return analysis.Analyze(analysis.Input{ID: "shuffle", X: report.Variable{Column: "x", Unit: "mm"},
-			Y: report.Variable{Column: "y"}, XS: x, YS: y, Rows: rows, OrderColumn: "run", Order: order,
+			Y: report.Variable{Column: "y"}, XS: x, YS: y, Rows: dataset.StringsOf(rows), OrderColumn: "run", Order: order,
 			PredictAt: []float64{4}, AlsoIn: manifest.AlsoIn{X: []string{"in"}}}, analysis.DefaultConfig())
 	}
 	a := study(x, y, order, rows)

@@ -11,6 +11,7 @@ import (
 	"strings"
 	"sync"
 
+	"bivar/analysis/dataset"
 	"bivar/analysis/findings"
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
@@ -30,14 +31,14 @@ type Input struct {
 
 	X, Y   report.Variable
 	XS, YS []float64
-	Rows   []string // row names: id_column value, else the 1-based data row number; nil gives row numbers
+	Rows   dataset.Strings // row names: id_column value, else the 1-based data row number; none (the zero value) gives row numbers
 
-	GroupColumn string    // name of the group column; "" when none
-	GroupLabel  string    // the group column for people; "" means the column name
-	Groups      []string  // group level per row; nil when no group
-	OrderColumn string    // name of the run-order column; "" when none
-	OrderLabel  string    // the order column for people; "" means the column name
-	Order       []float64 // run order per row; nil when no order
+	GroupColumn string          // name of the group column; "" when none
+	GroupLabel  string          // the group column for people; "" means the column name
+	Groups      dataset.Strings // group level per row; none (the zero value) when no group
+	OrderColumn string          // name of the run-order column; "" when none
+	OrderLabel  string          // the order column for people; "" means the column name
+	Order       []float64       // run order per row; nil when no order
 
 	// Covariates maps a covariate column to its values. CovariateNames
 	// gives their order in the report; when nil the names are sorted.
@@ -274,7 +275,7 @@ func analyze(in Input, cfg Config) report.Study {
 	}
 	var lv []string // group levels, sorted, and each row's index into them
 	var gidx []int32
-	if in.Groups != nil {
+	if in.Groups.Given() {
 		lv, gidx = levels(cc.groups)
 		s.Groups = groupFits(x, y, lv, gidx, conf)
 		s.GroupLines = groupLines(x, y, gidx)
@@ -424,14 +425,14 @@ func checkLengths(in Input, covNames []string) string {
 	if len(in.YS) != n {
 		return bad("y", len(in.YS))
 	}
-	if in.Rows != nil && len(in.Rows) != n {
-		return bad("the row names", len(in.Rows))
+	if in.Rows.Given() && in.Rows.Len() != n {
+		return bad("the row names", in.Rows.Len())
 	}
 	if in.Keep != nil && len(in.Keep) != n {
 		return bad("keep", len(in.Keep))
 	}
-	if in.Groups != nil && len(in.Groups) != n {
-		return bad("group", len(in.Groups))
+	if in.Groups.Given() && in.Groups.Len() != n {
+		return bad("group", in.Groups.Len())
 	}
 	if in.Order != nil && len(in.Order) != n {
 		return bad("order", len(in.Order))
@@ -454,8 +455,8 @@ type cases struct {
 	n        int   // complete cases
 	idx      []int // data row (0-based) of each complete case; nil when every row is one
 	x, y     []float64
-	names    []string // the dataset's row names (id_column), all rows; nil when none
-	groups   []string
+	names    dataset.Strings // the dataset's row names (id_column), all rows; none when none
+	groups   dataset.Strings
 	order    []float64
 	cov      [][]float64 // per covariate, in covariate order
 	excluded []report.Exclusion
@@ -478,8 +479,8 @@ func completeCases(in Input, covNames []string) cases {
 		{name: in.X.Column, miss: func(i int) bool { return missing(in.XS[i]) }},
 		{name: in.Y.Column, miss: func(i int) bool { return missing(in.YS[i]) }},
 	}
-	if in.Groups != nil {
-		cols = append(cols, col{name: in.GroupColumn, miss: func(i int) bool { return in.Groups[i] == "" }})
+	if in.Groups.Given() {
+		cols = append(cols, col{name: in.GroupColumn, miss: func(i int) bool { return in.Groups.At(i) == "" }})
 	}
 	if in.Order != nil {
 		cols = append(cols, col{name: in.OrderColumn, miss: func(i int) bool { return missing(in.Order[i]) }})
@@ -545,11 +546,8 @@ func completeCases(in Input, covNames []string) cases {
 	for j, i := range cc.idx {
 		cc.x[j], cc.y[j] = in.XS[i], in.YS[i]
 	}
-	if in.Groups != nil {
-		cc.groups = make([]string, k)
-		for j, i := range cc.idx {
-			cc.groups[j] = in.Groups[i]
-		}
+	if in.Groups.Given() {
+		cc.groups = in.Groups.Pick(cc.idx)
 	}
 	if in.Order != nil {
 		cc.order = make([]float64, k)
@@ -576,8 +574,8 @@ func (cc *cases) name(j int) string {
 	if cc.idx != nil {
 		i = cc.idx[j]
 	}
-	if cc.names != nil && cc.names[i] != "" {
-		return cc.names[i]
+	if cc.names.Given() && cc.names.At(i) != "" {
+		return cc.names.At(i)
 	}
 	return strconv.Itoa(i + 1)
 }
@@ -589,7 +587,7 @@ func FlaggedFile(studyID string) string { return studyID + "-flagged.csv" }
 // completeColumns lists the columns a complete case needs, for messages.
 func completeColumns(in Input, covNames []string) string {
 	cols := []string{fmt.Sprintf("x %q", in.X.Column), fmt.Sprintf("y %q", in.Y.Column)}
-	if in.Groups != nil {
+	if in.Groups.Given() {
 		cols = append(cols, fmt.Sprintf("group %q", in.GroupColumn))
 	}
 	if in.Order != nil {

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"bivar/analysis"
+	"bivar/analysis/dataset"
 	"bivar/analysis/report"
 )
 
@@ -60,7 +61,7 @@ func TestAnalyzeCompleteCases(t *testing.T) {
 	y := []float64{2, 4, 5, 8, nan, 11, 15, 16}
 	s := analysis.Analyze(analysis.Input{ID: "cc", X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"},
 		XS: x, YS: y,
-		GroupColumn: "g", Groups: []string{"b", "a", "b", "a", "b", "", "b", "a"},
+		GroupColumn: "g", Groups: dataset.StringsOf([]string{"b", "a", "b", "a", "b", "", "b", "a"}),
 		OrderColumn: "o", Order: []float64{8, 7, 6, 5, 4, 3, 2, 1},
 		Covariates: map[string][]float64{"z": {1, 0, 1, 0, 1, 0, nan, 1}},
 	}, analysis.DefaultConfig())

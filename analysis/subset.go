@@ -78,8 +78,8 @@ func rowFilter(m *manifest.Manifest, st manifest.Study, ls *loadedSet) (rowSelec
 	isMissing := func(s string) bool { return slices.Contains(missingTok, strings.TrimSpace(s)) }
 	ids := t.Text[decl.IDColumn]
 	name := func(i int) string {
-		if ids != nil && !isMissing(ids[i]) {
-			return strings.TrimSpace(ids[i])
+		if ids.Given() && !isMissing(ids.At(i)) {
+			return strings.TrimSpace(ids.At(i))
 		}
 		return strconv.Itoa(i + 1)
 	}
@@ -103,12 +103,12 @@ func rowFilter(m *manifest.Manifest, st manifest.Study, ls *loadedSet) (rowSelec
 				}
 				rows = []int{x.DataRow - 1}
 			} else {
-				if ids == nil {
+				if !ids.Given() {
 					return fmt.Errorf("%s%s exclude: row = %q names a row by its id, but dataset %q has no id_column: add id_column = \"…\" to the dataset, or use data_row = N",
 						at(x.Line, x.Col), level, x.Row, decl.ID)
 				}
-				for i, v := range ids {
-					if strings.TrimSpace(v) == x.Row {
+				for i := range ids.Len() {
+					if strings.TrimSpace(ids.At(i)) == x.Row {
 						rows = append(rows, i)
 					}
 				}
@@ -116,8 +116,8 @@ func rowFilter(m *manifest.Manifest, st manifest.Study, ls *loadedSet) (rowSelec
 					msg := fmt.Sprintf("%s%s exclude: row = %q is not a value of id_column %q in dataset %q", at(x.Line, x.Col), level, x.Row, decl.IDColumn, decl.ID)
 					var cands []string
 					seen := map[string]bool{}
-					for _, v := range ids {
-						if v = strings.TrimSpace(v); !seen[v] && len(cands) < 100000 {
+					for i := range ids.Len() {
+						if v := strings.TrimSpace(ids.At(i)); !seen[v] && len(cands) < 100000 {
 							seen[v] = true
 							cands = append(cands, v)
 						}
@@ -170,7 +170,7 @@ func rowFilter(m *manifest.Manifest, st manifest.Study, ls *loadedSet) (rowSelec
 	// Every column first, so an unknown one is named before any row is read.
 	for _, e := range exprs {
 		for _, c := range e.Columns() {
-			if ls.absent[c.Name] || (t.Text[c.Name] == nil && t.Numeric[c.Name] == nil) {
+			if ls.absent[c.Name] || (!t.Text[c.Name].Given() && t.Numeric[c.Name] == nil) {
 				line, col := e.Pos(c.Offset)
 				msg := fmt.Sprintf("%scolumn %q in %q is not in dataset %q", at(line, col), c.Name, e.Text, decl.ID)
 				if near := suggest.Nearest(c.Name, ls.columns); near != "" {
@@ -185,13 +185,13 @@ func rowFilter(m *manifest.Manifest, st manifest.Study, ls *loadedSet) (rowSelec
 	var cur *manifest.Expr
 	cell := func(ref manifest.ColumnRef) manifest.Cell {
 		if !ref.Numeric {
-			v := t.Text[ref.Name][row]
+			v := t.Text[ref.Name].At(row)
 			return manifest.Cell{Text: strings.TrimSpace(v), Missing: isMissing(v)}
 		}
 		if num := t.Numeric[ref.Name]; num != nil {
 			return manifest.Cell{Num: num[row], Missing: missing(num[row])}
 		}
-		v := t.Text[ref.Name][row]
+		v := t.Text[ref.Name].At(row)
 		if isMissing(v) {
 			return manifest.Cell{Missing: true}
 		}

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"bivar/analysis"
+	"bivar/analysis/dataset"
 )
 
 // The rows below are invented. The outside check: the study run with
@@ -79,10 +80,12 @@ func TestRunSubsetEqualsHandFiltered(t *testing.T) {
 	in.ID, in.Dataset = "s", "d"
 	in.X.Column, in.X.Label, in.Y.Column, in.Y.Label = "x", "x", "y", "y"
 	names := []string{"S-101", "S-102", "S-103", "S-104", "S-105", "S-106", "S-107", "S-108", "S-109", "S-110", "S-111", "S-110"}
+	var rows []string
 	for _, i := range keep {
 		in.XS, in.YS = append(in.XS, xs[i]), append(in.YS, ys[i])
-		in.Rows = append(in.Rows, names[i])
+		rows = append(rows, names[i])
 	}
+	in.Rows = dataset.StringsOf(rows)
 	cfg := analysis.DefaultConfig()
 	h := analysis.Analyze(in, cfg)
 	for _, c := range []struct {

@@ -86,7 +86,7 @@ type Table struct {
 	Numeric map[string][]float64
 	// Text holds the text columns, one cell per data row, spaces trimmed.
 	// Missing cells keep their text (often ""); Missing counts them.
-	Text map[string][]string
+	Text map[string]Strings
 	// Missing counts, per requested column, the cells matching a missing
 	// token. NonNumeric counts, per numeric column, the non-numeric cells
 	// read as missing (always zero unless NonNumericAsMissing).

@@ -115,7 +115,7 @@ func TestRead(t *testing.T) {
 				}
 			}
 			for name, want := range c.texts {
-				if got := tab.Text[name]; !reflect.DeepEqual(got, want) {
+				if got := tab.Text[name].Slice(); !reflect.DeepEqual(got, want) {
 					t.Errorf("Text[%q] = %q, want %q", name, got, want)
 				}
 			}
@@ -279,8 +279,8 @@ func FuzzDataset(f *testing.F) {
 			}
 			return
 		}
-		if len(tab.Numeric["x"]) != tab.Rows || len(tab.Text["y"]) != tab.Rows {
-			t.Fatalf("Rows = %d but columns hold %d and %d values", tab.Rows, len(tab.Numeric["x"]), len(tab.Text["y"]))
+		if len(tab.Numeric["x"]) != tab.Rows || tab.Text["y"].Len() != tab.Rows {
+			t.Fatalf("Rows = %d but columns hold %d and %d values", tab.Rows, len(tab.Numeric["x"]), tab.Text["y"].Len())
 		}
 		for _, v := range tab.Numeric["x"] {
 			if math.IsInf(v, 0) {
@@ -324,8 +324,8 @@ func TestTextBeyondIntern(t *testing.T) {
 		t.Fatal(err)
 	}
 	for i := range n {
-		if want := fmt.Sprintf("r%d", i); tab.Text["name"][i] != want || tab.Text["g"][i] != fmt.Sprintf("g%d", i%3) {
-			t.Fatalf("row %d: name %q g %q, want %q g%d", i, tab.Text["name"][i], tab.Text["g"][i], want, i%3)
+		if want := fmt.Sprintf("r%d", i); tab.Text["name"].At(i) != want || tab.Text["g"].At(i) != fmt.Sprintf("g%d", i%3) {
+			t.Fatalf("row %d: name %q g %q, want %q g%d", i, tab.Text["name"].At(i), tab.Text["g"].At(i), want, i%3)
 		}
 	}
 }

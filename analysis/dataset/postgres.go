@@ -215,7 +215,7 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		return nil, nil, q.queryError(what, err, timeout)
 	}
 	defer rows.Close()
-	t := &Table{File: src, Numeric: map[string][]float64{}, Text: map[string][]string{},
+	t := &Table{File: src, Numeric: map[string][]float64{}, Text: map[string]Strings{},
 		Missing: map[string]int{}, NonNumeric: map[string]int{}}
 	nums := make([][]float64, len(cols))
 	texts := make([][]string, len(cols))
@@ -294,10 +294,7 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 			t.NonNumeric[c.name] = nonNum[i]
 		}
 		if c.text {
-			t.Text[c.name] = texts[i]
-			if texts[i] == nil {
-				t.Text[c.name] = []string{}
-			}
+			t.Text[c.name] = textColumn(texts[i])
 		}
 		t.Missing[c.name] = missing[i]
 	}

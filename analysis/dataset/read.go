@@ -177,10 +177,10 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 	free := make(chan []byte, inflight+2)
 	go produce(cfg, r, hd, h, bufSize, free, ordered, work, stop, &shared)
 
-	t := &Table{File: path, Delimiter: hd.delim, Numeric: map[string][]float64{}, Text: map[string][]string{},
+	t := &Table{File: path, Delimiter: hd.delim, Numeric: map[string][]float64{}, Text: map[string]Strings{},
 		Missing: map[string]int{}, NonNumeric: map[string]int{}}
 	nums := make([][]float64, len(cols))
-	texts := make([][]string, len(cols))
+	texts := make([]Strings, len(cols))
 	levels := make([]map[string]bool, len(cols))
 	missing := make([]int, len(cols))
 	nonNum := make([]int, len(cols))
@@ -242,7 +242,13 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 						nums[i] = hugepage.Grow(nums[i], n)
 					}
 					if c.text {
-						texts[i] = slices.Grow(texts[i], n)
+						// The cells' bytes at the first block's length a row.
+						var b int
+						for _, sp := range p.texts[i].spans {
+							b += int(sp.n)
+						}
+						texts[i].end = hugepage.Grow(texts[i].end, n)
+						texts[i].data = hugepage.Grow(texts[i].data, int(min(float64(n)*(float64(b)/float64(p.rows)+1), MaxTextBytes)))
 					}
 				}
 			}
@@ -258,7 +264,9 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 				tp := &p.texts[i]
 				arena := unsafe.String(unsafe.SliceData(tp.arena), len(tp.arena))
 				for _, sp := range tp.spans {
-					texts[i] = append(texts[i], arena[sp.off:sp.off+sp.n])
+					if !texts[i].add(arena[sp.off : sp.off+sp.n]) {
+						return nil, &Error{File: path, Column: c.name, Msg: fmt.Sprintf("text column %q holds more than 4 GiB of text, the most bivar reads from one column: check that it is the column meant (an id or group column), or read a shorter span of the data", c.name)}
+					}
 				}
 			}
 		}
@@ -280,6 +288,9 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 			t.NonNumeric[c.name] = nonNum[i]
 		}
 		if c.text {
+			if !texts[i].Given() {
+				texts[i] = textColumn(nil)
+			}
 			t.Text[c.name] = texts[i]
 		}
 		t.Missing[c.name] = missing[i]

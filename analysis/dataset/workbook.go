@@ -304,7 +304,7 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 		missing = DefaultMissing()
 	}
 	t := &Table{File: w.path, SHA256: w.sha, Rows: len(g.rows), Sheet: g.sheet, HeaderRow: g.headerRow,
-		Numeric: map[string][]float64{}, Text: map[string][]string{},
+		Numeric: map[string][]float64{}, Text: map[string]Strings{},
 		Missing: map[string]int{}, NonNumeric: map[string]int{}, CellErrors: map[string]map[string]int{}}
 	for _, c := range cols {
 		c.group = c.text && slices.Contains(opts.Groups, c.name)
@@ -384,7 +384,7 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 			t.NonNumeric[c.name] = nNon
 		}
 		if c.text {
-			t.Text[c.name] = texts
+			t.Text[c.name] = textColumn(texts)
 		}
 		t.Missing[c.name] = nMissing
 	}

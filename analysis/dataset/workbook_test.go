@@ -94,7 +94,7 @@ func TestReadWorkbookOpenpyxl(t *testing.T) {
 			t.Errorf("column %q: %d missing, want %d", c, got.Missing[c], want.Missing[c])
 		}
 	}
-	if strings.Join(got.Text["lot"], ",") != strings.Join(want.Text["lot"], ",") {
+	if strings.Join(got.Text["lot"].Slice(), ",") != strings.Join(want.Text["lot"].Slice(), ",") {
 		t.Errorf("lot = %v, want %v", got.Text["lot"], want.Text["lot"])
 	}
 	if got.CellErrors["melt_temp"]["#DIV/0!"] != 1 || got.CellErrors["hardness"]["#N/A"] != 2 || len(got.CellErrors["hardness (2)"]) != 0 {

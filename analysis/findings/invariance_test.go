@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"bivar/analysis"
+	"bivar/analysis/dataset"
 	"bivar/analysis/report"
 )
 
@@ -23,9 +24,11 @@ func suiteInput(t *testing.T, name string) analysis.Input {
 		XS: column(t, path, h, data, "x"), YS: column(t, path, h, data, "y")}
 	if j := slices.Index(h, "group"); j >= 0 {
 		in.GroupColumn = "group"
+		var g []string
 		for _, r := range data {
-			in.Groups = append(in.Groups, r[j])
+			g = append(g, r[j])
 		}
+		in.Groups = dataset.StringsOf(g)
 	}
 	if o := column(t, path, h, data, "order"); o != nil {
 		in.OrderColumn, in.Order = "order", o
@@ -53,15 +56,13 @@ func shuffled(in analysis.Input, rng *rand.Rand) analysis.Input {
 	}
 	out := in
 	out.XS, out.YS, out.Order = pf(in.XS), pf(in.YS), pf(in.Order)
-	out.Rows = make([]string, n)
+	rows := make([]string, n)
 	for i, k := range perm {
-		out.Rows[i] = strconv.Itoa(k + 1)
+		rows[i] = strconv.Itoa(k + 1)
 	}
-	if in.Groups != nil {
-		out.Groups = make([]string, n)
-		for i, k := range perm {
-			out.Groups[i] = in.Groups[k]
-		}
+	out.Rows = dataset.StringsOf(rows)
+	if in.Groups.Given() {
+		out.Groups = in.Groups.Pick(perm)
 	}
 	if in.Covariates != nil {
 		out.Covariates = map[string][]float64{}

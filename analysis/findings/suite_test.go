@@ -18,6 +18,7 @@ import (
 	"testing"
 
 	"bivar/analysis"
+	"bivar/analysis/dataset"
 	"bivar/analysis/findings"
 	"bivar/analysis/report"
 	"bivar/internal/reference"
@@ -234,9 +235,11 @@ func TestSuite(t *testing.T) {
 			XS: column(t, path, h, data, "x"), YS: column(t, path, h, data, "y")}
 		if j := slices.Index(h, "group"); j >= 0 {
 			in.GroupColumn = "group"
+			var g []string
 			for _, r := range data {
-				in.Groups = append(in.Groups, r[j])
+				g = append(g, r[j])
 			}
+			in.Groups = dataset.StringsOf(g)
 		}
 		if o := column(t, path, h, data, "order"); o != nil {
 			in.OrderColumn, in.Order = "order", o

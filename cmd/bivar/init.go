@@ -493,7 +493,7 @@ func profileCSV(path string) (*csvProfile, error) {
 func profileTable(path string, header []string, tab *dataset.Table, firstBad func(name string) string) *csvProfile {
 	prof := &csvProfile{file: path, delimiter: tab.Delimiter, decimalComma: tab.DecimalComma, rows: tab.Rows}
 	for _, name := range header {
-		texts, nums := tab.Text[name], tab.Numeric[name]
+		texts, nums := tab.Text[name].Slice(), tab.Numeric[name]
 		c := colProfile{name: name, min: math.Inf(1), max: math.Inf(-1), counter: true,
 			missing: tab.Missing[name], nonNumeric: tab.NonNumeric[name]}
 		if c.nonNumeric > 0 {

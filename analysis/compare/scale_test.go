@@ -12,7 +12,7 @@ func TestDiffNotesScale(t *testing.T) {
 	t.Parallel()
 	x := []float64{1, 2, 3, 4, 5, 6}
 	y := []float64{2, 4.1, 5.9, 8.2, 9.8, 12.1}
-	f := findings("linear", "positive", "strong", false)
+	f := verdicts("linear", "positive", "strong", false)
 	a, b := study("s", x, y, f), study("s", x, y, f)
 	b.X.Scale, b.Y.Scale = "log", "log"
 	res := Diff(rep("h", a), rep("h", b), Options{})

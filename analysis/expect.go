@@ -103,12 +103,11 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 			pa := s.Pearson.PAdjusted
 			// findings.PValueVs against the gate's bound: "< 0.0001" below
 			// 0.0001 unless the bound lies lower (then "< bound" or the
-			// value), and digits enough that the printed p stays on its
-			// side of the bound.
-			// PValueVs keeps p on its side of "p < bound"; the gate holds
-			// at p ≤ bound, so a p just above the bound that prints as the
-			// bound ("0.050" for 0.0504) is written again against the next
-			// number above the bound, which adds the digits that show it.
+			// value), with digits enough that the printed p stays on its
+			// side of "p < bound". The gate holds at p ≤ bound, so a p
+			// just above the bound that prints as the bound ("0.050" for
+			// 0.0504) is written again against the next number above the
+			// bound, which adds the digits that show it.
 			pg := func(p report.Float) string {
 				t := findings.PValueVs(float64(p), want)
 				if v, err := strconv.ParseFloat(t, 64); err == nil && (v <= want) != (float64(p) <= want) {

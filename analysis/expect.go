@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 
+	"bivar/analysis/findings"
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
 	"bivar/analysis/units"
@@ -100,17 +101,19 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 		want := *e.MaxP
 		add("max_p", "adjusted p ≤ "+num(report.Float(want)), func() (string, bool, string) {
 			pa := s.Pearson.PAdjusted
-			// Below 0.0001 p is written "< 0.0001", unless the gate's own
-			// bound lies lower: then "< bound" or the value, so the reader
-			// can still see which side of it p is.
+			// findings.PValueVs against the gate's bound: "< 0.0001" below
+			// 0.0001 unless the bound lies lower (then "< bound" or the
+			// value), with digits enough that the printed p stays on its
+			// side of "p < bound". The gate holds at p ≤ bound, so a p
+			// just above the bound that prints as the bound ("0.050" for
+			// 0.0504) is written again against the next number above the
+			// bound, which adds the digits that show it.
 			pg := func(p report.Float) string {
-				if p.Valid() && float64(p) < 1e-4 && want < 1e-4 {
-					if float64(p) < want {
-						return "< " + num(report.Float(want))
-					}
-					return "= " + strconv.FormatFloat(float64(p), 'g', 3, 64)
+				t := findings.PValueVs(float64(p), want)
+				if v, err := strconv.ParseFloat(t, 64); err == nil && (v <= want) != (float64(p) <= want) {
+					t = findings.PValueVs(float64(p), math.Nextafter(want, 1))
 				}
-				return pIs(p)
+				return pIs(t)
 			}
 			got := "adjusted p " + pg(pa)
 			how := fmt.Sprintf("Pearson's p %s; adjusted across the manifest's studies by %s: %s", pg(s.Pearson.P), adjustName(adjust), pg(pa))
@@ -208,9 +211,9 @@ func within(what string, v float64, w []float64, unit, ctx string) (string, bool
 		return got, false, fmt.Sprintf("%s_within needs two numbers [low, high], the manifest gives %d", what, len(w))
 	}
 	if !(w[0] <= v && v <= w[1]) {
-		return got, false, fmt.Sprintf("%s lies outside [%s, %s]; %s", what, num(report.Float(w[0])), num(report.Float(w[1])), ctx)
+		return got, false, fmt.Sprintf("%s lies outside [%s, %s]%s; %s", what, num(report.Float(w[0])), num(report.Float(w[1])), unit, ctx)
 	}
-	return got, true, fmt.Sprintf("%s lies inside [%s, %s]; %s", what, num(report.Float(w[0])), num(report.Float(w[1])), ctx)
+	return got, true, fmt.Sprintf("%s lies inside [%s, %s]%s; %s", what, num(report.Float(w[0])), num(report.Float(w[1])), unit, ctx)
 }
 
 func interval(what string, w []float64, unit string) string {
@@ -220,19 +223,36 @@ func interval(what string, w []float64, unit string) string {
 	return fmt.Sprintf("%s in [%s, %s]%s", what, num(report.Float(w[0])), num(report.Float(w[1])), unit)
 }
 
-// slopeUnit is the slope's unit as people write it (units.Symbol):
-// " HRC/°C", " per °C" when y has no unit (or is a pure number), and ""
-// when x has none.
+// slopeUnit is the slope's unit as the report writes it, with a leading
+// space: " HRC per °C", " per °C" when y has no unit (or is a pure
+// number), " HRC per unit of Transfer time" when x has none, "" when
+// neither has. On a transformed scale the transformed variable is named
+// instead of its unit, as the report does: " ln y per ln x".
 func slopeUnit(s *report.Study) string {
 	xs, ys := symbolOf(s.X), symbolOf(s.Y)
+	if s.X.Scale != "" || s.Y.Scale != "" {
+		name := func(v report.Variable, sym, axis string) string {
+			if v.Scale == "" && sym != "" {
+				return sym
+			}
+			return scaledPrefix[v.Scale] + axis
+		}
+		return " " + name(s.Y, ys, "y") + " per " + name(s.X, xs, "x")
+	}
 	switch {
-	case xs == "" || xs == ys:
-		return "" // no x unit, or like units: the slope is a ratio
+	case xs == "" && ys == "":
+		return ""
+	case xs == "":
+		return " " + ys + " per unit of " + labelOf(s.X.Column, s.X.Label)
 	case ys == "":
 		return " per " + xs
 	}
-	return " " + ys + "/" + xs
+	return " " + ys + " per " + xs
 }
+
+// scaledPrefix names a variable on its scale (report.Variable.Scale) as
+// the report does: "ln y", "log₁₀ x", "√y".
+var scaledPrefix = map[string]string{"log": "ln ", "log10": "log₁₀ ", "sqrt": "√"}
 
 // symbolOf is the variable's unit symbol: Variable.Symbol, or units.Symbol
 // of its code when a study built by hand leaves Symbol empty.
@@ -266,23 +286,11 @@ func num(f report.Float) string {
 	return strconv.FormatFloat(float64(f), 'g', 4, 64)
 }
 
-// pnum formats a p-value: "< 0.0001" below 0.0001 (results.json keeps
-// the exact value in the study's figures), else three significant digits.
-func pnum(f report.Float) string {
-	if !f.Valid() {
-		return "undefined"
+// pIs is a p-value that findings.PValue or PValueVs wrote, after "p":
+// "= 0.012", "< 0.0001", "undefined".
+func pIs(t string) string {
+	if strings.HasPrefix(t, "<") || t == "undefined" {
+		return t
 	}
-	if f < 1e-4 {
-		return "< 0.0001"
-	}
-	return strconv.FormatFloat(float64(f), 'g', 3, 64)
-}
-
-// pIs is a p-value after "p": "= 0.0123" or "< 0.0001".
-func pIs(f report.Float) string {
-	s := pnum(f)
-	if strings.HasPrefix(s, "<") || s == "undefined" {
-		return s
-	}
-	return "= " + s
+	return "= " + t
 }

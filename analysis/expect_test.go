@@ -23,8 +23,9 @@ func expectStudy() *report.Study {
 	}
 }
 
-// TestExpectationUnits: the slope's unit is shown as people write it
-// (units.Symbol), never as UCUM codes such as "{HRC}/Cel".
+// TestExpectationUnits: the slope's unit is shown as the report writes it
+// (units.Symbol, "y per x": "HRC per °C"), never as UCUM codes such as
+// "{HRC}/Cel" nor as "HRC/°C"; the gate's limits carry it too.
 func TestExpectationUnits(t *testing.T) {
 	s := expectStudy()
 	e := Expectations(s, &manifest.Expect{SlopeWithin: []float64{-0.095, -0.065}}, 0.05, "holm")
@@ -32,13 +33,62 @@ func TestExpectationUnits(t *testing.T) {
 		t.Fatalf("expectations %+v", e)
 	}
 	for _, text := range []string{e[0].Want, e[0].Got, e[0].Detail} {
-		if !strings.Contains(text, "HRC/°C") || strings.Contains(text, "{") || strings.Contains(text, "Cel") {
-			t.Errorf("%q: want the unit written HRC/°C", text)
+		if !strings.Contains(text, "HRC per °C") || strings.Contains(text, "/") || strings.Contains(text, "{") || strings.Contains(text, "Cel") {
+			t.Errorf("%q: want the unit written HRC per °C", text)
 		}
 	}
-	s.Y.Unit, s.Y.Symbol = "", ""
-	if got := Expectations(s, &manifest.Expect{SlopeWithin: []float64{-1, 0}}, 0.05, "holm")[0].Got; !strings.HasSuffix(got, " per °C") {
-		t.Errorf("y without a unit: got %q, want the slope per °C", got)
+	if want := "slope lies inside [-0.095, -0.065] HRC per °C; "; !strings.HasPrefix(e[0].Detail, want) {
+		t.Errorf("detail %q, want it to start %q", e[0].Detail, want)
+	}
+	for _, c := range []struct {
+		name   string
+		change func(s *report.Study)
+		want   string // the end of Got
+	}{
+		{"y without a unit", func(s *report.Study) { s.Y.Unit, s.Y.Symbol = "", "" }, " per °C"},
+		{"x without a unit", func(s *report.Study) { s.X.Unit, s.X.Symbol, s.X.Label = "", "", "Tempering temperature" }, " HRC per unit of Tempering temperature"},
+		{"like units", func(s *report.Study) { s.X.Unit, s.X.Symbol = "{HRC}", "" }, " HRC per HRC"},
+		{"neither has a unit", func(s *report.Study) { s.X.Unit, s.X.Symbol, s.Y.Unit = "", "", "" }, "= -0.07956"},
+		{"log-log", func(s *report.Study) { s.X.Scale, s.Y.Scale = "log", "log" }, " ln y per ln x"},
+		{"log10 x only", func(s *report.Study) { s.X.Scale = "log10" }, " HRC per log₁₀ x"},
+	} {
+		s := expectStudy()
+		c.change(s)
+		if got := Expectations(s, &manifest.Expect{SlopeWithin: []float64{-1, 0}}, 0.05, "holm")[0].Got; !strings.HasSuffix(got, c.want) {
+			t.Errorf("%s: got %q, want it to end %q", c.name, got, c.want)
+		}
+	}
+}
+
+// TestExpectationMaxP: the max_p gate writes p by the project's one
+// formatter, findings.PValueVs against the gate's bound: "< 0.0001" below
+// 0.0001 (never the e notation) unless the bound lies lower, and digits
+// enough to stay on the bound's side. The cases are that formatter's
+// rules (the project's convention, not a standard).
+func TestExpectationMaxP(t *testing.T) {
+	for _, c := range []struct {
+		p, bound float64
+		want     string // Got
+		ok       bool
+	}{
+		{5.2e-05, 0.05, "adjusted p < 0.0001", true},
+		{0.0496, 0.05, "adjusted p = 0.0496", true}, // PValue alone: 0.050
+		{0.0504, 0.05, "adjusted p = 0.0504", false},
+		{0.2, 0.05, "adjusted p = 0.20", false},
+		{1e-9, 1e-6, "adjusted p < 1e-06", true},
+		{3.2e-6, 1e-6, "adjusted p = 3.2e-06", false},
+		{math.NaN(), 0.05, "adjusted p undefined", false},
+	} {
+		s := expectStudy()
+		s.Pearson.P, s.Pearson.PAdjusted = report.Float(c.p), report.Float(c.p)
+		bound := c.bound
+		e := Expectations(s, &manifest.Expect{MaxP: &bound}, 0.05, "holm")[0]
+		if e.Got != c.want || e.OK != c.ok {
+			t.Errorf("p %g, bound %g: got %q (ok %v), want %q (ok %v)", c.p, c.bound, e.Got, e.OK, c.want, c.ok)
+		}
+		if strings.Contains(e.Detail, "e-05") || strings.Contains(e.Detail, "= <") {
+			t.Errorf("p %g: detail %q", c.p, e.Detail)
+		}
 	}
 }
 

@@ -136,10 +136,10 @@ func agreementStatement(a *AgreementChange, alpha float64) string {
 	}
 	var why []string
 	if biasSig {
-		why = append(why, fmt.Sprintf("the bias changed beyond chance from %s to %s%s (Welch t = %s, adjusted p %s)", g4(a.OldBias), g4(a.NewBias), u, fix(report.Float(float64(a.DeltaBias)/float64(a.BiasSE))), pText(a.BiasPAdj)))
+		why = append(why, fmt.Sprintf("the bias changed beyond chance from %s to %s%s (Welch t = %s, adjusted p %s)", g4(a.OldBias), g4(a.NewBias), u, fix(report.Float(float64(a.DeltaBias)/float64(a.BiasSE))), pText(a.BiasPAdj, alpha)))
 	}
 	if sdSig {
-		why = append(why, fmt.Sprintf("the SD of the differences changed beyond chance from %s to %s%s (F = %s, adjusted p %s)", g4(a.OldSD), g4(a.NewSD), u, fix(a.VarianceRatio), pText(a.SDPAdj)))
+		why = append(why, fmt.Sprintf("the SD of the differences changed beyond chance from %s to %s%s (F = %s, adjusted p %s)", g4(a.OldSD), g4(a.NewSD), u, fix(a.VarianceRatio), pText(a.SDPAdj, alpha)))
 	}
 	s += ": " + why[0]
 	if len(why) > 1 {

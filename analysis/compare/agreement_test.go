@@ -30,7 +30,7 @@ func TestWelchTScipy(t *testing.T) {
 
 // agreementOf is an invented agreement study of y against x.
 func agreementOf(id string, x, y []float64, verdict report.AgreementVerdict) report.Study {
-	s := study(id, x, y, findings("linear", "positive", "strong", false))
+	s := study(id, x, y, verdicts("linear", "positive", "strong", false))
 	l := stats.BlandAltman(y, x, 1.96, 0.95)
 	f := func(v float64) report.Float { return report.Float(v) }
 	s.Agreement = &report.Agreement{N: l.N, Bias: f(l.Bias), BiasSE: f(l.SDMeans / math.Sqrt(float64(l.N))), SD: f(l.SD),

@@ -45,12 +45,18 @@ import (
 	"math"
 	"slices"
 
+	"bivar/analysis/findings"
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
 )
 
 // Schema names the diff.json format. Change it only with a new version.
 const Schema = "bivar.diff/v1"
+
+// varianceWarn is the F test's p below which a study carries a note that
+// the residual variances differ (a warning level of our choosing, not a
+// standard).
+const varianceWarn = 0.01
 
 // Test names written into Result, so a reader of diff.json knows which.
 const (
@@ -162,6 +168,13 @@ type StudyChange struct {
 	// "Cel"), from the new run's report; the code when it has none.
 	XSymbol string `json:"x_symbol"`
 	YSymbol string `json:"y_symbol"`
+	// XScale and YScale are the scales the new run put x and y on
+	// (report.Variable.Scale: "log", "log10", "sqrt"; "" for the values
+	// as recorded). The change tests need the same scales in both runs,
+	// and on a transformed scale every figure is of the transformed
+	// values: its unit is then the scale's name ("ln y"), not the symbol.
+	XScale  string `json:"x_scale,omitempty"`
+	YScale  string `json:"y_scale,omitempty"`
 	Dataset string `json:"dataset"`
 	OldN    int    `json:"old_n"`
 	NewN    int    `json:"new_n"`
@@ -430,9 +443,20 @@ func symbol(v report.Variable) string {
 	return v.Unit
 }
 
-// SlopeUnit is the slope's unit, "y per x" in written symbols, or "" when
-// neither variable has a unit.
+// SlopeUnit is the slope's unit as the report writes it, "y per x" in
+// written symbols ("HRC per °C"), or "" when neither variable has a unit.
+// On a transformed scale the transformed variable is named instead of its
+// unit, as the report does: "ln y per ln x", "µm per ln x".
 func (sc StudyChange) SlopeUnit() string {
+	if sc.XScale != "" || sc.YScale != "" {
+		name := func(scale, sym, axis string) string {
+			if scale != "" || sym == "" {
+				return scaledName(scale, axis)
+			}
+			return sym
+		}
+		return name(sc.YScale, sc.YSymbol, "y") + " per " + name(sc.XScale, sc.XSymbol, "x")
+	}
 	x, y := sc.XSymbol, sc.YSymbol
 	switch {
 	case x == "" && y == "":
@@ -443,6 +467,37 @@ func (sc StudyChange) SlopeUnit() string {
 		return "per " + x
 	}
 	return y + " per " + x
+}
+
+// XFigureUnit and YFigureUnit are the units of the x and y figures the
+// diff prints (the x values the line is read at, its values there,
+// residual SDs): the written symbol, or on a transformed scale the
+// scale's name ("ln x"), since those figures are of the transformed
+// values.
+func (sc StudyChange) XFigureUnit() string { return figureUnit(sc.XScale, sc.XSymbol, "x") }
+
+// YFigureUnit: see XFigureUnit.
+func (sc StudyChange) YFigureUnit() string { return figureUnit(sc.YScale, sc.YSymbol, "y") }
+
+func figureUnit(scale, sym, axis string) string {
+	if scale != "" {
+		return scaledName(scale, axis)
+	}
+	return sym
+}
+
+// scaledName names a variable on its scale as the report does: "ln y",
+// "log₁₀ x", "√y"; the bare axis letter on the recorded scale.
+func scaledName(scale, axis string) string {
+	switch scale {
+	case "log":
+		return "ln " + axis
+	case "log10":
+		return "log₁₀ " + axis
+	case "sqrt":
+		return "√" + axis
+	}
+	return axis
 }
 
 func orDash(s string) string {
@@ -471,6 +526,8 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 		YUnit:     cur.Y.Unit,
 		XSymbol:   symbol(cur.X),
 		YSymbol:   symbol(cur.Y),
+		XScale:    cur.X.Scale,
+		YScale:    cur.Y.Scale,
 		Dataset:   cur.Dataset,
 		OldN:      prev.N,
 		NewN:      cur.N,
@@ -514,9 +571,9 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 			if !sc.Slope.P.Valid() {
 				sc.Notes = append(sc.Notes, "the change in slope cannot be tested (fewer than 3 points, or a constant x, in a run; or no residual variance)")
 			}
-			if vp := sc.Slope.VarianceP; vp.Valid() && float64(vp) < 0.01 {
-				sc.Notes = append(sc.Notes, fmt.Sprintf("the residual variance differs between the runs (ratio new/old %.3g, F test p = %.2g): the pooled equal-slopes test assumes it does not, so read its p with care",
-					float64(sc.Slope.VarianceRatio), float64(vp)))
+			if vp := sc.Slope.VarianceP; vp.Valid() && float64(vp) < varianceWarn {
+				sc.Notes = append(sc.Notes, fmt.Sprintf("the residual variance differs between the runs (ratio new/old %.3g, F test p %s): the pooled equal-slopes test assumes it does not, so read its p with care",
+					float64(sc.Slope.VarianceRatio), pIs(findings.PValueVs(float64(vp), varianceWarn))))
 			}
 		}
 	}

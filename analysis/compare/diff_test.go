@@ -37,7 +37,7 @@ func rep(sha string, studies ...report.Study) *report.Report {
 		Studies:  studies}
 }
 
-func findings(form, dir, strength string, od bool) *report.Findings {
+func verdicts(form, dir, strength string, od bool) *report.Findings {
 	return &report.Findings{Form: form, Direction: dir, Strength: strength, OutlierDriven: od}
 }
 
@@ -45,7 +45,7 @@ func findings(form, dir, strength string, od bool) *report.Findings {
 // significant change and no verdict change.
 func TestDiffSameProcess(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
-	f := findings("linear", "positive", "strong", false)
+	f := verdicts("linear", "positive", "strong", false)
 	x1, y1 := process(rng, 40, 2, 0.5, 2)
 	x2, y2 := process(rng, 40, 2, 0.5, 2)
 	res := Diff(rep("aaa", study("s", x1, y1, f)), rep("bbb", study("s", x2, y2, f)), Options{})
@@ -68,8 +68,8 @@ func TestDiffChangedProcess(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 4))
 	x1, y1 := process(rng, 40, 2, 0.5, 2)
 	x2, y2 := process(rng, 40, 2, 0.1, 2)
-	res := Diff(rep("aaa", study("s", x1, y1, findings("linear", "positive", "strong", false))),
-		rep("aaa", study("s", x2, y2, findings("linear", "positive", "moderate", true))), Options{})
+	res := Diff(rep("aaa", study("s", x1, y1, verdicts("linear", "positive", "strong", false))),
+		rep("aaa", study("s", x2, y2, verdicts("linear", "positive", "moderate", true))), Options{})
 	sc := res.Studies[0]
 	if !sc.Significant || !res.AnySignificant() {
 		t.Errorf("slope 0.5 → 0.1 not significant: p(r) adj %v, p(slope) adj %v", sc.R.PAdjusted, sc.Slope.PAdjusted)
@@ -273,10 +273,10 @@ func TestStatements(t *testing.T) {
 	x2, y2 := process(rng, 40, 2, 0.1, 2)
 	x3, y3 := process(rng, 40, 2, 0.5, 2)
 	x4, y4 := process(rng, 40, 2, 0.5, 2)
-	f := findings("linear", "positive", "strong", false)
+	f := verdicts("linear", "positive", "strong", false)
 	old := rep("a", study("moved", x1, y1, f), study("still", x3, y3, f))
 	old.Studies[0].X.Symbol, old.Studies[0].Y.Symbol = "°C", "%"
-	nw := rep("b", study("moved", x2, y2, findings("linear", "positive", "moderate", false)), study("still", x4, y4, f))
+	nw := rep("b", study("moved", x2, y2, verdicts("linear", "positive", "moderate", false)), study("still", x4, y4, f))
 	nw.Studies[0].X.Symbol, nw.Studies[0].Y.Symbol = "°C", "%"
 	res := Diff(old, nw, Options{})
 	if len(res.Statements) == 0 || !strings.HasPrefix(res.Statements[0], "1 of 2 studies changed beyond what chance explains (at alpha = 0.05 after Holm's step-down method across all 4 change tests); 1 study's verdict changed.") {
@@ -286,9 +286,9 @@ func TestStatements(t *testing.T) {
 	sl := moved.Slope
 	for _, want := range []string{
 		"The slope changed beyond chance: from " + g4(sl.Old) + " to " + g4(sl.New) + " % per °C",
-		"a change of " + signed4(sl.Delta) + " ± " + g4(sl.SE) + " (SE)",
+		"a change of " + signed4(sl.Delta) + " ± " + g4(sl.SE) + " % per °C (SE)",
 		"% less steep",
-		"adjusted p " + pText(sl.PAdjusted),
+		"adjusted p " + pText(sl.PAdjusted, res.Alpha),
 		"The verdict changed: strength strong → moderate.",
 		"Find the cause",
 	} {
@@ -327,5 +327,54 @@ func TestSteepness(t *testing.T) {
 		if got := steepness(report.Float(tc.old), report.Float(tc.new)); got != tc.want {
 			t.Errorf("steepness(%v, %v) = %q, want %q", tc.old, tc.new, got, tc.want)
 		}
+	}
+}
+
+// TestPText: the diff writes p-values by the project's one formatter
+// (findings.PValueVs against alpha): "< 0.0001" below 0.0001, never
+// the e notation, and digits enough that the printed value stays on its
+// side of alpha. The cases are the formatter's rules (the project's own
+// convention, not a standard).
+func TestPText(t *testing.T) {
+	cases := []struct {
+		p, alpha float64
+		want     string
+	}{
+		{5.2e-05, 0.05, "< 0.0001"},
+		{1.5e-119, 0.05, "< 0.0001"},
+		{0.0496, 0.05, "= 0.0496"}, // PValue alone would print 0.050
+		{0.0663, 0.05, "= 0.066"},
+		{0.00123, 0.05, "= 0.001"},
+		{0.00087, 0.05, "= 0.0009"},
+		{1, 0.05, "= 1.00"},
+		{math.NaN(), 0.05, "undefined"},
+	}
+	for _, c := range cases {
+		if got := pText(report.Float(c.p), c.alpha); got != c.want {
+			t.Errorf("pText(%g, %g) = %q, want %q", c.p, c.alpha, got, c.want)
+		}
+	}
+}
+
+// TestVarianceNoteP: the note on unequal residual variances prints its
+// F test's p as the report does ("p < 0.0001", not "p = 5.2e-05").
+func TestVarianceNoteP(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	x1, y1 := process(rng, 60, 2, 0.5, 2)
+	x2, y2 := process(rng, 60, 2, 0.5, 0.2) // a tenth of the SD: F far in the tail
+	f := verdicts("linear", "positive", "strong", false)
+	res := Diff(rep("a", study("s", x1, y1, f)), rep("b", study("s", x2, y2, f)), Options{})
+	sc := res.Studies[0]
+	if vp := float64(sc.Slope.VarianceP); !(vp < 1e-4) {
+		t.Fatalf("variance p %g: the case needs one below 0.0001", vp)
+	}
+	var note string
+	for _, n := range sc.Notes {
+		if strings.Contains(n, "residual variance differs") {
+			note = n
+		}
+	}
+	if !strings.Contains(note, "F test p < 0.0001)") || strings.Contains(note, "e-") {
+		t.Errorf("variance note %q: want \"F test p < 0.0001)\"", note)
 	}
 }

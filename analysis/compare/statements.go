@@ -9,6 +9,7 @@ import (
 	"strconv"
 	"strings"
 
+	"bivar/analysis/findings"
 	"bivar/analysis/report"
 )
 
@@ -146,17 +147,17 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 		parts = append(parts, gateSentence(sc, g, unit))
 	}
 	if sl := sc.Slope; slopeSig {
-		parts = append(parts, fmt.Sprintf("The slope changed beyond chance: from %s to %s%s, a change of %s ± %s (SE)%s (t = %s, %d df, adjusted p %s).",
-			g4(sl.Old), g4(sl.New), unit, signed4(sl.Delta), g4(sl.SE), steepness(sl.Old, sl.New), fix(sl.T), sl.DF, pText(sl.PAdjusted)))
+		parts = append(parts, fmt.Sprintf("The slope changed beyond chance: from %s to %s%s, a change of %s ± %s%s (SE)%s (t = %s, %d df, adjusted p %s).",
+			g4(sl.Old), g4(sl.New), unit, signed4(sl.Delta), g4(sl.SE), unit, steepness(sl.Old, sl.New), fix(sl.T), sl.DF, pText(sl.PAdjusted, alpha)))
 	}
 	if r := sc.R; rSig {
 		parts = append(parts, fmt.Sprintf("r changed beyond chance: from %s to %s, a change of %s (z = %s, adjusted p %s).",
-			g4(r.Old), g4(r.New), signed4(r.Delta), fix(r.Z), pText(r.PAdjusted)))
+			g4(r.Old), g4(r.New), signed4(r.Delta), fix(r.Z), pText(r.PAdjusted, alpha)))
 	} else if r != nil && r.P.Valid() && sc.Significant {
-		parts = append(parts, fmt.Sprintf("r went from %s to %s, within chance (adjusted p %s).", g4(r.Old), g4(r.New), pText(r.PAdjusted)))
+		parts = append(parts, fmt.Sprintf("r went from %s to %s, within chance (adjusted p %s).", g4(r.Old), g4(r.New), pText(r.PAdjusted, alpha)))
 	}
 	if sl := sc.Slope; !slopeSig && sl != nil && sl.P.Valid() && sc.Significant {
-		parts = append(parts, fmt.Sprintf("The slope went from %s to %s%s, within chance (adjusted p %s).", g4(sl.Old), g4(sl.New), unit, pText(sl.PAdjusted)))
+		parts = append(parts, fmt.Sprintf("The slope went from %s to %s%s, within chance (adjusted p %s).", g4(sl.Old), g4(sl.New), unit, pText(sl.PAdjusted, alpha)))
 	}
 	if a := agreementStatement(sc.Agreement, alpha); a != "" {
 		parts = append(parts, a)
@@ -228,7 +229,7 @@ func atXSentence(sc *StudyChange) string {
 	if len(sc.AtX) == 0 {
 		return ""
 	}
-	xu, yu := unitSuffix(sc.XSymbol), unitSuffix(sc.YSymbol)
+	xu, yu := unitSuffix(sc.XFigureUnit()), unitSuffix(sc.YFigureUnit())
 	var parts []string
 	for _, a := range sc.AtX {
 		p := fmt.Sprintf("at %s%s the line gives %s%s instead of %s%s (%s%s ± %s%s)", g4(a.X), xu, g4(a.New), yu, g4(a.Old), yu, signed4(a.Delta), yu, g4(a.SE), yu)
@@ -304,15 +305,24 @@ func fix(f report.Float) string {
 
 func g(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
-// pText writes a p-value for a sentence: "< 0.0001" or "= 0.0521".
-func pText(f report.Float) string {
+// pText writes an adjusted p-value for a sentence after "p", by the
+// project's one p formatter (findings.PValueVs against alpha, so that the
+// printed value never lands on the other side of it): "< 0.0001",
+// "= 0.0496", "= 0.066" or "undefined". results.json keeps the exact value.
+func pText(f report.Float, alpha float64) string {
 	if !f.Valid() {
 		return "undefined"
 	}
-	if float64(f) < 1e-4 {
-		return "< 0.0001"
+	return pIs(findings.PValueVs(float64(f), alpha))
+}
+
+// pIs puts "=" before a p-value that findings.PValue or PValueVs wrote,
+// unless it already reads "< …" or "undefined".
+func pIs(t string) string {
+	if strings.HasPrefix(t, "<") || t == "undefined" {
+		return t
 	}
-	return "= " + strconv.FormatFloat(float64(f), 'g', 3, 64)
+	return "= " + t
 }
 
 // minus writes large and small numbers without the e notation where Go

@@ -14,7 +14,7 @@ func TestDiffNotesSelection(t *testing.T) {
 	t.Parallel()
 	x := []float64{1, 2, 3, 4, 5, 6}
 	y := []float64{2, 4.1, 5.9, 8.2, 9.8, 12.1}
-	f := findings("linear", "positive", "strong", false)
+	f := verdicts("linear", "positive", "strong", false)
 	mk := func(expr string, rows int, left ...string) report.Study {
 		s := study("s", x, y, f)
 		if expr != "" {

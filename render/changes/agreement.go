@@ -45,10 +45,10 @@ func agreementRows(res *compare.Result) []agreementRow {
 				num(a.OldBias) + " → " + num(a.NewBias) + u,
 				signed(a.DeltaBias) + " ± " + num(a.BiasSE) + u,
 				t + " (" + df + ")",
-				pval(a.BiasPAdj),
+				padj(a.BiasPAdj, res.Alpha),
 				num(a.OldSD) + " → " + num(a.NewSD) + u,
 				fix2(a.VarianceRatio),
-				pval(a.SDPAdj),
+				padj(a.SDPAdj, res.Alpha),
 				num(a.OldLower) + " to " + num(a.OldUpper) + " → " + num(a.NewLower) + " to " + num(a.NewUpper) + u,
 			},
 			Bad: []bool{false, false, false, below(a.BiasPAdj, res.Alpha), false, false, below(a.SDPAdj, res.Alpha), false}})

@@ -36,6 +36,7 @@ var page = template.Must(template.New("diff").Funcs(template.FuncMap{
 	"signed":        signed,
 	"fix2":          fix2,
 	"pval":          pval,
+	"padj":          padj,
 	"short":         short,
 	"adjustName":    adjustName,
 	"verdictName":   verdictName,
@@ -299,7 +300,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 			}
 			fmt.Fprintf(&b, "The line's value %s (change = new − old, ± its SE):\n\n", where)
 			fmt.Fprintf(&b, "| %s | Old%s | New%s | Change%s | ± SE%s | Inside both runs' range |\n|--:|--:|--:|--:|--:|---|\n",
-				mdtext.Cell("x"+paren(sc.XSymbol)), mdtext.Cell(paren(sc.YSymbol)), mdtext.Cell(paren(sc.YSymbol)), mdtext.Cell(paren(sc.YSymbol)), mdtext.Cell(paren(sc.YSymbol)))
+				mdtext.Cell("x"+paren(sc.XFigureUnit())), mdtext.Cell(paren(sc.YFigureUnit())), mdtext.Cell(paren(sc.YFigureUnit())), mdtext.Cell(paren(sc.YFigureUnit())), mdtext.Cell(paren(sc.YFigureUnit())))
 			for _, a := range sc.AtX {
 				fmt.Fprintf(&b, "| %s | %s | %s | %s | %s | %s |\n", num(a.X), num(a.Old), num(a.New), signed(a.Delta), num(a.SE), yesNo(a.InRange))
 			}
@@ -330,7 +331,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 			cells := "not tested | | | | | "
 			if sl := sc.Slope; sl != nil {
 				cells = fmt.Sprintf("%s → %s | %s ± %s | %s (%d) | %s | %s | %s → %s%s", num(sl.Old), num(sl.New), signed(sl.Delta), num(sl.SE),
-					fix2(sl.T), sl.DF, pval(sl.P), mark(sl.PAdjusted, res.Alpha), num(sl.OldResidSD), num(sl.NewResidSD), mdtext.Cell(unitAfter(sc.YSymbol)))
+					fix2(sl.T), sl.DF, pval(sl.P), mark(sl.PAdjusted, res.Alpha), num(sl.OldResidSD), num(sl.NewResidSD), mdtext.Cell(unitAfter(sc.YFigureUnit())))
 			}
 			fmt.Fprintf(&b, "| `%s` | %s | %s |\n", code(sc.ID), mdtext.Cell(slopeUnit(sc)), cells)
 		}
@@ -495,11 +496,17 @@ func runsFigure(res *compare.Result, i int) *chart.Figure {
 		return nil
 	}
 	level := strconv.FormatFloat(100*(1-res.Alpha), 'g', 4, 64)
-	x := report.Variable{Label: sc.X, Symbol: sc.XSymbol}
-	y := report.Variable{Label: sc.Y, Symbol: sc.YSymbol}
-	return chart.Runs(fmt.Sprintf("s%d-runs", i+1), x, y, level,
+	x := report.Variable{Label: sc.X, Symbol: sc.XSymbol, Scale: sc.XScale}
+	y := report.Variable{Label: sc.Y, Symbol: sc.YSymbol, Scale: sc.YScale}
+	f := chart.Runs(fmt.Sprintf("s%d-runs", i+1), x, y, level,
 		chart.RunLine{Name: fmt.Sprintf("old run (n = %d)", sc.Lines.Old.N), Points: sc.Lines.Old.Points},
 		chart.RunLine{Name: fmt.Sprintf("new run (n = %d)", sc.Lines.New.N), Points: sc.Lines.New.Points})
+	if f != nil {
+		// The lines are of the transformed values; the ticks are labelled
+		// in recorded units, as in the report's charts.
+		f.XScale, f.YScale = sc.XScale, sc.YScale
+	}
+	return f
 }
 
 // figures draws the old-against-new chart of every study with a section
@@ -567,9 +574,9 @@ func orDash(s string) string {
 // mark writes an adjusted p, in bold when below alpha.
 func mark(p report.Float, alpha float64) string {
 	if below(p, alpha) {
-		return "**" + pval(p) + "**"
+		return "**" + padj(p, alpha) + "**"
 	}
-	return pval(p)
+	return padj(p, alpha)
 }
 
 // num writes a number with 4 significant digits, "—" when undefined.
@@ -615,6 +622,16 @@ func pval(f report.Float) string {
 		return "—"
 	}
 	return findings.PValue(float64(f))
+}
+
+// padj writes a p-value that is compared with alpha (an adjusted p):
+// findings.PValueVs, which adds digits where PValue's rounding would put
+// it on the other side of alpha (0.0496 prints as 0.0496, not 0.050).
+func padj(f report.Float, alpha float64) string {
+	if !f.Valid() {
+		return "—"
+	}
+	return findings.PValueVs(float64(f), alpha)
 }
 
 // short is the first 12 hex digits of a SHA-256, enough to tell files apart

@@ -28,7 +28,7 @@ func fixture() *compare.Result {
 			Findings: f}
 	}
 	gate := func(ok bool, got string) []report.Expectation {
-		return []report.Expectation{{Name: "slope_within", Title: "slope within its limits", Want: "slope in [-0.2, -0.1] %/°C", Got: got, OK: ok,
+		return []report.Expectation{{Name: "slope_within", Title: "slope within its limits", Want: "slope in [-0.2, -0.1] % per °C", Got: got, OK: ok,
 			Limits: &report.Limits{Low: -0.2, High: -0.1}}}
 	}
 	fl := func(form, dir, str string) *report.Findings {
@@ -39,7 +39,7 @@ func fixture() *compare.Result {
 		Manifest: report.ManifestInfo{Title: "Run A", Alpha: 0.05, Adjust: "holm"},
 		Datasets: []report.Dataset{{ID: "d", File: "a.csv", SHA256: strings.Repeat("a", 64), Rows: 40}},
 		Studies: []report.Study{
-			withGate(mk("shrink-vs-melt", 40, 1000, 50, -180, fl("linear", "negative", "strong")), gate(true, "slope = -0.18 %/°C")),
+			withGate(mk("shrink-vs-melt", 40, 1000, 50, -180, fl("linear", "negative", "strong")), gate(true, "slope = -0.18 % per °C")),
 			mk("<b>odd|id</b>", 40, 100, 100, 10, fl("none", "none", "weak")),
 			mk("old-only", 40, 100, 100, 10, nil),
 		}}
@@ -49,7 +49,7 @@ func fixture() *compare.Result {
 		Manifest: report.ManifestInfo{Title: "Run B", Alpha: 0.05, Adjust: "holm"},
 		Datasets: []report.Dataset{{ID: "d", File: "b.csv", SHA256: strings.Repeat("b", 64), Rows: 42}},
 		Studies: []report.Study{
-			withGate(mk("shrink-vs-melt", 42, 1100, 52, -90, fl("linear", "negative", "moderate")), gate(false, "slope = -0.08182 %/°C")),
+			withGate(mk("shrink-vs-melt", 42, 1100, 52, -90, fl("linear", "negative", "moderate")), gate(false, "slope = -0.08182 % per °C")),
 			failed,
 			mk("new-only", 42, 100, 100, 10, nil),
 		}}
@@ -197,5 +197,35 @@ func TestEarlierFile(t *testing.T) {
 	}
 	if EarlierFile("figures", true) {
 		t.Error("EarlierFile(figures/) = true, want false")
+	}
+}
+
+// TestScaledUnitsShown: a study on a transformed scale shows its figures
+// with the scale's name for unit, as the report does ("ln y per ln x",
+// "x (ln x)"), never the recorded symbol of a logarithm; its chart places
+// the lines by the transformed values and labels the ticks in recorded
+// units (the figure's scales set).
+func TestScaledUnitsShown(t *testing.T) {
+	res := fixture()
+	res.Studies[0].XScale, res.Studies[0].YScale = "log", "log"
+	var md, html bytes.Buffer
+	if err := Markdown(&md, res); err != nil {
+		t.Fatal(err)
+	}
+	if err := HTML(&html, res); err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"| x (ln x) | Old (ln y) | New (ln y) | Change (ln y) | ± SE (ln y) |", "| `shrink-vs-melt` | ln y per ln x |", " ln y |\n", "Slope gate: -0.2 to -0.1 ln y per ln x."} {
+		if !strings.Contains(md.String(), want) {
+			t.Errorf("diff.md lacks %q", want)
+		}
+	}
+	for _, want := range []string{`<th class="n">x (ln x)</th>`, "<small>ln y per ln x</small>"} {
+		if !strings.Contains(html.String(), want) {
+			t.Errorf("diff.html lacks %q", want)
+		}
+	}
+	if f := runsFigure(res, 0); f == nil || f.XScale != "log" || f.YScale != "log" {
+		t.Errorf("runs figure %+v: want both scales log", f)
 	}
 }

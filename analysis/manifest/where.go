@@ -18,6 +18,7 @@ package manifest
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode"
@@ -31,6 +32,7 @@ type Expr struct {
 	Text      string
 	Line, Col int
 	root      node2
+	cols      []ColumnRef // the columns it reads, found once (columns)
 }
 
 // ColumnRef is one use of a column in an expression: its name, whether it
@@ -183,6 +185,7 @@ func ParseExpr(s string) (*Expr, error) {
 		return nil, &ExprError{t.off, fmt.Sprintf("unexpected %s: join conditions with and / or", describeTok(t))}
 	}
 	e := &Expr{Text: s, root: root}
+	e.cols = columns(root)
 	// A column compared with numbers in one place and strings in another.
 	kind := map[string]ColumnRef{}
 	for _, c := range e.Columns() {
@@ -305,6 +308,14 @@ func (p *exprParser) compare() (node2, *ExprError) {
 
 // Columns lists every use of a column, in the order written.
 func (e *Expr) Columns() []ColumnRef {
+	if e.cols == nil {
+		return columns(e.root)
+	}
+	return slices.Clone(e.cols)
+}
+
+// columns lists the column uses under n, left to right.
+func columns(root node2) []ColumnRef {
 	var out []ColumnRef
 	var walk func(n node2)
 	walk = func(n node2) {
@@ -321,7 +332,7 @@ func (e *Expr) Columns() []ColumnRef {
 			out = append(out, n.col)
 		}
 	}
-	walk(e.root)
+	walk(root)
 	return out
 }
 
@@ -339,7 +350,11 @@ type Cell struct {
 // and missing names the first such column (in the order written), so the
 // answer does not depend on how the conditions are grouped.
 func (e *Expr) Eval(cell func(ref ColumnRef) Cell) (keep bool, missing string) {
-	for _, c := range e.Columns() {
+	cols := e.cols
+	if cols == nil {
+		cols = columns(e.root)
+	}
+	for _, c := range cols {
 		if cell(c).Missing {
 			return false, c.Name
 		}

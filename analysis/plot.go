@@ -8,6 +8,7 @@ import (
 	"math"
 	"slices"
 	"strings"
+	"sync"
 
 	"bivar/analysis/dataset"
 	"bivar/analysis/report"
@@ -23,12 +24,13 @@ const (
 // plotData gathers what the charts draw, bounded whatever n is: every row
 // up to report.PlotPointsMax, else density grids; the named rows marked.
 // lv and gidx are the group levels and each row's index into them
-// (levels); nil without a group.
+// (levels); nil without a group. lowess is the smoother's curve
+// (lowessCurve), computed beside the study's other statistics.
 //
 // quad is the quadratic fit (nil without one): its fitted values and
 // residuals go beside the line's, for assess to put in place when the form
 // is curved and the curve is the main fit.
-func plotData(x, y []float64, cc cases, lv []string, gidx []int32, line stats.LineFit, quad *stats.Regression, inf *report.Influence, lx, ly []float64, conf float64, cfg Config) *report.Plot {
+func plotData(x, y []float64, cc cases, lv []string, gidx []int32, line stats.LineFit, quad *stats.Regression, inf *report.Influence, lowess []report.XY, conf float64, cfg Config) *report.Plot {
 	n := len(x)
 	p := &report.Plot{N: n, ResidualsOf: "line"}
 	resid := line.Residuals // data order (analyze)
@@ -68,18 +70,24 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int32, line stats.Li
 			return cmp.Or(cmp.Compare(a.Order, b.Order), cmp.Compare(a.X, b.X), cmp.Compare(a.Y, b.Y), cmp.Compare(a.Group, b.Group))
 		})
 	} else {
-		p.Scatter = grid(x, y, gridNX, gridNY)
-		p.ResidFitted = gridAt(n, fittedAt, func(i int) float64 { return resid[i] }, gridNX, gridNY)
+		// Each grid is a pass over every row: they run as tasks.
+		var wg sync.WaitGroup
+		async := task(&wg)
+		async(func() { p.Scatter = grid(x, y, gridNX, gridNY) })
+		async(func() { p.ResidFitted = gridAt(n, fittedAt, func(i int) float64 { return resid[i] }, gridNX, gridNY) })
 		if cc.order != nil {
-			p.ResidOrder = grid(cc.order, resid, gridNX, gridNY)
+			async(func() { p.ResidOrder = grid(cc.order, resid, gridNX, gridNY) })
 		}
 		if quad != nil {
 			cResid := func(i int) float64 { return y[i] - cFitted(i) }
-			p.CurveResidFitted = gridAt(n, cFitted, cResid, gridNX, gridNY)
+			async(func() { p.CurveResidFitted = gridAt(n, cFitted, cResid, gridNX, gridNY) })
 			if cc.order != nil {
-				p.CurveResidOrder = gridAt(n, func(i int) float64 { return cc.order[i] }, cResid, gridNX, gridNY)
+				async(func() {
+					p.CurveResidOrder = gridAt(n, func(i int) float64 { return cc.order[i] }, cResid, gridNX, gridNY)
+				})
 			}
 		}
+		wg.Wait()
 	}
 	lo, hi := slices.Min(x), slices.Max(x)
 	k := cfg.BandPoints
@@ -92,7 +100,7 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int32, line stats.Li
 		f, cl, ch, pl, ph := line.Interval(x0, conf)
 		p.Band[i] = report.BandPoint{X: x0, Fit: f, ConfLow: cl, ConfHigh: ch, PredLow: pl, PredHigh: ph}
 	}
-	p.Lowess = lowessCurve(lx, ly, cfg)
+	p.Lowess = lowess
 	for k, pt := range inf.Points {
 		i := pt.Index
 		cf := cFitted(i)

@@ -267,6 +267,8 @@ func analyze(in Input, cfg Config) report.Study {
 	task(&wg)(func() { diag = diagnostics(x, y, smp, ps, line, order, cfg) })
 	task(&wg)(func() { s.Robust = robust(x, y, ps, order, pc.R, conf) })
 	lx, ly := smp.sub(cfg.LowessMaxN)
+	var lowess []report.XY
+	task(&wg)(func() { lowess = lowessCurve(lx, ly, cfg) })
 
 	for i, name := range covNames {
 		r, lo, hi, p := stats.PartialCorrelation(x, y, cc.cov[i], conf)
@@ -307,7 +309,7 @@ func analyze(in Input, cfg Config) report.Study {
 	if q := side.quad; q != nil && q.Coef[2].P < cfg.Alpha && line.RSS > 0 && 1-q.RSS/line.RSS >= float64(cfg.Thresholds.CurveShare) {
 		curve = q
 	}
-	s.Plot = plotData(x, y, cc, lv, gidx, line, curve, s.Influence, lx, ly, conf, cfg)
+	s.Plot = plotData(x, y, cc, lv, gidx, line, curve, s.Influence, lowess, conf, cfg)
 	lowessExtremes(s.Diagnostics.Lowess, s.Plot.Lowess)
 	s.Approximations = approximations(&s, cfg)
 	emptyLists(&s)

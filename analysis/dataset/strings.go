@@ -130,4 +130,3 @@ func (s Strings) Pick(idx []int) Strings {
 	}
 	return out
 }
-

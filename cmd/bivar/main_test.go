@@ -77,6 +77,7 @@ func TestUsageErrors(t *testing.T) {
 		{"check-junit-last", []string{"check", "a.toml", "-junit"}, exitUsage, "bivar check: --junit needs a FILE after it: write JUnit XML to FILE (one test case per expectation)\nusage: bivar check [--junit FILE] [--summary FILE] MANIFEST\nRun 'bivar help check' for details.\n"},
 		{"check-junit-then-option", []string{"check", "--junit", "--summary", "s.md", "a.toml"}, exitUsage, "bivar check: --junit needs a FILE after it, not the option --summary: write JUnit XML to FILE (one test case per expectation)\n"},
 		{"diff-misspelt-theme", []string{"diff", "--them", "night", "a", "b"}, exitUsage, "bivar diff: unknown option --them (did you mean --theme?)\n"},
+		{"init-manifest", []string{"init", "--force", "bivar.toml"}, exitUsage, "bivar init: bivar.toml is a manifest, not a data file: run its studies with 'bivar run bivar.toml', or give bivar init the data file (CSV or .xlsx) to write a manifest for\n"},
 		{"version-option", []string{"version", "--x"}, exitUsage, "bivar version: unknown option -x: 'bivar version' takes no options\n"},
 		{"run-folder", []string{"run", t.TempDir()}, exitFailed, "is a folder: give the manifest file itself"},
 		{"run-missing-file", []string{"run", filepath.Join(t.TempDir(), "absent.toml")}, exitFailed, "absent.toml"},

@@ -311,18 +311,18 @@ func version() string {
 }
 
 // versionOf reads a version from build information: the main module's
-// version when the build has one (go install bivar@v1.2.0, or a
-// pseudo-version Go derives from the repository), else "dev" with the
-// commit the go command stamped (vcs.revision, its first 12 hex digits,
-// and "modified" when vcs.modified says the tree had uncommitted changes):
-// "dev (commit abc123def456, modified)". Plain "dev" without either (a
-// build with -buildvcs=false, or a test binary).
+// version when the build has one of its own (a tag: go install
+// bivar@v1.2.0, or a build at a tagged commit), else "dev" with the commit
+// the go command stamped (vcs.revision, its first 12 hex digits, and
+// "modified" when vcs.modified says the tree had uncommitted changes):
+// "dev (commit abc123def456, modified)". Since Go 1.24 a build in a
+// checkout also gets a pseudo-version made from that commit
+// ("v0.0.0-20261205073807-abc123def456+dirty"); it is shown in the dev form
+// too, which says the same more plainly. Plain "dev" without either (a
+// build with -buildvcs=false or outside a checkout, or a test binary).
 func versionOf(bi *debug.BuildInfo) string {
 	if bi == nil {
 		return "dev"
-	}
-	if v := bi.Main.Version; v != "" && v != "(devel)" {
-		return v
 	}
 	var rev string
 	var modified bool
@@ -334,11 +334,14 @@ func versionOf(bi *debug.BuildInfo) string {
 			modified = s.Value == "true"
 		}
 	}
-	if rev == "" {
-		return "dev"
-	}
 	if len(rev) > 12 {
 		rev = rev[:12]
+	}
+	if v := bi.Main.Version; v != "" && v != "(devel)" && (rev == "" || !strings.Contains(v, rev)) {
+		return v
+	}
+	if rev == "" {
+		return "dev"
 	}
 	if modified {
 		return "dev (commit " + rev + ", modified)"

@@ -198,7 +198,8 @@ func TestVersionOf(t *testing.T) {
 	}{
 		{"no build information", nil, "dev"},
 		{"module version", &debug.BuildInfo{Main: debug.Module{Version: "v1.4.0"}, Settings: []debug.BuildSetting{{Key: "vcs.revision", Value: rev}}}, "v1.4.0"},
-		{"pseudo-version", &debug.BuildInfo{Main: debug.Module{Version: "v0.0.0-20261205072815-abc123def456+dirty"}}, "v0.0.0-20261205072815-abc123def456+dirty"},
+		{"pseudo-version without vcs settings", &debug.BuildInfo{Main: debug.Module{Version: "v0.0.0-20261205072815-abc123def456+dirty"}}, "v0.0.0-20261205072815-abc123def456+dirty"},
+		{"pseudo-version of the stamped commit", &debug.BuildInfo{Main: debug.Module{Version: "v0.0.0-20261205072815-abc123def456+dirty"}, Settings: []debug.BuildSetting{{Key: "vcs.revision", Value: rev}, {Key: "vcs.modified", Value: "true"}}}, "dev (commit abc123def456, modified)"},
 		{"commit, clean", &debug.BuildInfo{Main: debug.Module{Version: "(devel)"}, Settings: []debug.BuildSetting{{Key: "vcs.revision", Value: rev}, {Key: "vcs.modified", Value: "false"}}}, "dev (commit abc123def456)"},
 		{"commit, modified", &debug.BuildInfo{Main: debug.Module{Version: "(devel)"}, Settings: []debug.BuildSetting{{Key: "vcs", Value: "git"}, {Key: "vcs.revision", Value: rev}, {Key: "vcs.modified", Value: "true"}}}, "dev (commit abc123def456, modified)"},
 		{"short revision", &debug.BuildInfo{Settings: []debug.BuildSetting{{Key: "vcs.revision", Value: "abc1"}}}, "dev (commit abc1)"},

@@ -149,8 +149,22 @@ func TestErrors(t *testing.T) {
 			[]Error{{Line: 2, Col: 1, Key: "alpha", Msg: `TOML syntax: Key 'alpha' has already been defined.`}}},
 		{"empty manifest", "",
 			[]Error{
-				{Key: "dataset", Msg: `no [[dataset]] declared: a manifest needs at least one dataset and one study`},
+				{Key: "dataset", Msg: `the manifest has no dataset: add a [[dataset]] table with id = "…" and file = "…" (the data file, such as data/run.csv), and name that id in each study's dataset = "…"; 'bivar init DATA.csv' writes a starting manifest for a data file`},
 				{Key: "study", Msg: `no [[study]] declared: a manifest needs at least one study`},
+			}},
+		{"no dataset, study names none", "alpha = 0.05\n\n[[study]]\nid = \"s1\"\nx = \"a\"\ny = \"b\"\n",
+			[]Error{
+				{Line: 3, Col: 1, Key: "dataset", Msg: `the manifest has no dataset: add a [[dataset]] table above this [[study]] with id = "…" and file = "…" (the data file, such as data/run.csv), and name that id in each study's dataset = "…"; 'bivar init DATA.csv' writes a starting manifest for a data file`},
+			}},
+		{"dataset without id, study names none", "[[dataset]]\nfile = \"cell4.csv\"\n[[study]]\nid = \"s1\"\nx = \"a\"\ny = \"b\"\n",
+			[]Error{
+				{Line: 1, Col: 1, Key: "dataset.id", Msg: `[[dataset]] number 1 has no id: add id = "…" (a short name the studies refer to)`},
+				{Line: 3, Col: 1, Key: "study.dataset", Msg: `study "s1" has no dataset, and no [[dataset]] has a usable id: declare a [[dataset]] with an id, then add dataset = "…" naming it`},
+			}},
+		{"no dataset, study names one", study,
+			[]Error{
+				{Line: 1, Col: 1, Key: "dataset", Msg: `the manifest has no dataset: add a [[dataset]] table above this [[study]] with id = "…" and file = "…" (the data file, such as data/run.csv), and name that id in each study's dataset = "…"; 'bivar init DATA.csv' writes a starting manifest for a data file`},
+				{Line: 3, Col: 1, Key: "study.dataset", Msg: `study "s1": dataset "nov" is not declared, and the manifest declares no dataset: add a [[dataset]] with id = "nov" and file = "…"`},
 			}},
 		{"bad enums and alpha, all reported", "design = \"observatonal\"\nadjust = \"bonferroni\"\nalpha = 0.7\n[output]\nformats = [\"html\", \"pdf\", \"html\"]\n" + head + study,
 			[]Error{

@@ -151,6 +151,15 @@ func validID(id string) bool {
 	return id != ""
 }
 
+// noDatasetIDs says why a study can name no dataset: the manifest declares
+// none, or none of its datasets has a usable id.
+func noDatasetIDs(m *Manifest) string {
+	if len(m.Datasets) == 0 {
+		return "the manifest declares no dataset"
+	}
+	return "no [[dataset]] has a usable id"
+}
+
 func (p *parser) validate(m *Manifest) {
 	p.oneOf("", "design", m.Design, Designs())
 	if hint := adjustHint(m.Adjust); hint != "" {
@@ -188,7 +197,16 @@ func (p *parser) validate(m *Manifest) {
 	p.thresholds(&m.Thresholds)
 
 	if len(m.Datasets) == 0 {
-		p.addAt(pos{}, "dataset", "no [[dataset]] declared: a manifest needs at least one dataset and one study")
+		// At the first study when there is one: the dataset goes above it.
+		// A manifest without studies either has no place to point at.
+		var at pos
+		above := ""
+		if q, ok := p.ix.lookup("study#0", "study"); ok {
+			at, above = q, " above this [[study]]"
+		}
+		p.addAt(at, "dataset", "the manifest has no dataset: add a [[dataset]] table"+above+
+			" with id = \"…\" and file = \"…\" (the data file, such as data/run.csv), and name that id in each study's dataset = \"…\"; "+
+			"'bivar init DATA.csv' writes a starting manifest for a data file")
 	}
 	if len(m.Studies) == 0 {
 		p.addAt(pos{}, "study", "no [[study]] declared: a manifest needs at least one study")
@@ -256,10 +274,16 @@ func (p *parser) validate(m *Manifest) {
 			}
 		}
 		switch {
+		case s.Dataset == "" && len(m.Datasets) == 0:
+			// The manifest's own "no dataset" error says what to add.
+		case s.Dataset == "" && len(ids) == 0:
+			p.add(owner, "study.dataset", "study %q has no dataset, and %s: declare a [[dataset]] with an id, then add dataset = \"…\" naming it", name, noDatasetIDs(m))
 		case s.Dataset == "":
 			p.add(owner, "study.dataset", "study %q has no dataset: add dataset = \"…\" naming one of: %s", name, strings.Join(ids, ", "))
 		default:
-			if _, ok := datasets[s.Dataset]; !ok {
+			if _, ok := datasets[s.Dataset]; !ok && len(ids) == 0 {
+				p.add(owner, "study.dataset", "study %q: dataset %q is not declared, and %s: add a [[dataset]] with id = %q and file = \"…\"", name, s.Dataset, noDatasetIDs(m), s.Dataset)
+			} else if !ok {
 				hint := ""
 				if near := suggest.Nearest(s.Dataset, ids); near != "" {
 					hint = fmt.Sprintf(" — did you mean %q?", near)

@@ -12,6 +12,8 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"slices"
+	"strings"
 
 	"bivar/analysis/report"
 	"bivar/internal/publish"
@@ -178,7 +180,80 @@ func manifestArg(path string) error {
 		}
 		return fmt.Errorf("%s is a folder: give the manifest file itself%s", path, hint)
 	}
+	switch looksLike(path) {
+	case dataFile:
+		beside := filepath.Join(filepath.Dir(path), "bivar.toml")
+		if _, err := os.Stat(beside); err == nil {
+			return fmt.Errorf("%s looks like a data file, not a manifest: give the manifest that names it, such as %s; 'bivar init %s' writes a new one", path, beside, path)
+		}
+		return fmt.Errorf("%s looks like a data file, not a manifest: give the manifest (bivar.toml) that names it; 'bivar init %s' writes one", path, path)
+	case jsonFile:
+		return fmt.Errorf("%s looks like JSON (a results.json?), not a manifest: give the manifest (a TOML file such as bivar.toml); 'bivar diff OLD NEW' compares two results.json", path)
+	}
 	return nil
+}
+
+// fileKind is what a file given in place of another looks like.
+type fileKind int
+
+const (
+	unknownKind fileKind = iota // nothing plain: let the reader say what is wrong
+	dataFile                    // a CSV or spreadsheet
+	tomlFile                    // a TOML manifest
+	jsonFile                    // a JSON document, such as a results.json
+)
+
+// dataExtensions are the file name endings of data files bivar reads or
+// that a user might give for one.
+var dataExtensions = []string{".csv", ".tsv", ".tab", ".xlsx", ".xlsm", ".xls", ".ods", ".parquet"}
+
+// dataExtension says whether path ends like a data file.
+func dataExtension(path string) bool {
+	return slices.Contains(dataExtensions, strings.ToLower(filepath.Ext(path)))
+}
+
+// looksLike says what path plainly is, from its name and its first bytes:
+// a data file (a data file's ending, a spreadsheet's ZIP or OLE signature,
+// or a first line that is a CSV header: fields between commas, semicolons
+// or tabs, and no "=", which every TOML line that is not blank, a comment
+// or a [table] header holds), a manifest (.toml, or a first line that is a
+// TOML key or table), JSON (.json, or a first byte "{"). unknownKind when
+// it is none of these plainly, or cannot be read.
+func looksLike(path string) fileKind {
+	switch ext := strings.ToLower(filepath.Ext(path)); {
+	case dataExtension(path):
+		return dataFile
+	case ext == ".json":
+		return jsonFile
+	case ext == ".toml":
+		return tomlFile
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return unknownKind
+	}
+	defer f.Close()
+	head := make([]byte, 1<<12)
+	n, _ := io.ReadFull(f, head)
+	head = head[:n]
+	if bytes.HasPrefix(head, []byte("PK\x03\x04")) || bytes.HasPrefix(head, []byte("\xD0\xCF\x11\xE0\xA1\xB1\x1A\xE1")) {
+		return dataFile
+	}
+	for _, line := range strings.Split(string(bytes.TrimPrefix(head, []byte("\xef\xbb\xbf"))), "\n") {
+		line = strings.TrimSpace(line)
+		switch {
+		case line == "":
+			continue
+		case line[0] == '{':
+			return jsonFile
+		case line[0] == '#' || line[0] == '[' || strings.Contains(line, "="):
+			return tomlFile
+		case strings.ContainsAny(line, ",;\t"):
+			return dataFile
+		}
+		return unknownKind
+	}
+	return unknownKind
 }
 
 func plural(n int, one, many string) string {

@@ -151,6 +151,12 @@ func readResults(path string) (*report.Report, string, error) {
 			return nil, file, fmt.Errorf("%s holds no results.json: give the report folder written by 'bivar run' (with \"json\" in [output] formats) or the file itself", path)
 		}
 	}
+	switch looksLike(file) {
+	case dataFile:
+		return nil, file, fmt.Errorf("%s looks like a data file, not a results.json: give the results.json that 'bivar run' wrote for the manifest naming it (in the report folder), or the folder itself", file)
+	case tomlFile:
+		return nil, file, fmt.Errorf("%s looks like a manifest, not a results.json: run 'bivar run %s' and give the report folder it writes (or its results.json)", file, file)
+	}
 	data, err := os.ReadFile(file)
 	if err != nil {
 		return nil, file, fmt.Errorf("%s: %w", file, err)

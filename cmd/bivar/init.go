@@ -47,6 +47,12 @@ func runInit(_ context.Context, args []string, stdout, stderr io.Writer) int {
 		return exitUsage
 	}
 	csvPath := flags.Arg(0)
+	if strings.EqualFold(filepath.Ext(csvPath), ".toml") {
+		// Read as CSV, a manifest gives a puzzling message, and with
+		// --force it would be overwritten by a manifest for itself.
+		fmt.Fprintf(stderr, "bivar init: %s is a manifest, not a data file: run its studies with 'bivar run %s', or give bivar init the data file (CSV or .xlsx) to write a manifest for\n", csvPath, csvPath)
+		return exitUsage
+	}
 	dest := *out
 	if dest == "" {
 		dest = filepath.Join(filepath.Dir(csvPath), "bivar.toml")

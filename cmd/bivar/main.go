@@ -11,9 +11,11 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"runtime/debug"
 	"strings"
 
+	"bivar/analysis/manifest"
 	"bivar/internal/cleantext"
 )
 
@@ -133,8 +135,11 @@ at least two numeric columns that vary is refused: there is nothing to pair.`,
 			Name:  "version",
 			Usage: "bivar version",
 			Short: "print the version",
-			Long:  `Prints bivar's version: the module version stamped by the build, or "dev".`,
-			Run:   runVersion,
+			Long: `Prints bivar's version: the module version stamped by the build, or "dev"
+with the commit it was built from when the build recorded one
+("dev (commit abc123def456, modified)": modified when the tree had changes
+not yet committed). Reports name the same version in their footer.`,
+			Run: runVersion,
 		},
 		{
 			Name:  "help",
@@ -190,8 +195,32 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 			return c.Run(ctx, args[1:], stdout, stderr)
 		}
 	}
-	fmt.Fprintf(stderr, "bivar: unknown command %q. Run 'bivar help'.\n", name)
+	fmt.Fprintf(stderr, "bivar: unknown command %q%s. Run 'bivar help'.\n", name, commandHint(name, args[1:]))
 	return exitUsage
+}
+
+// commandHint says what an unknown command name may have meant: the
+// nearest command (" (did you mean run?)"), or for a file given without a
+// command, the command that reads it. "" when nothing fits.
+func commandHint(name string, rest []string) string {
+	var names []string
+	for _, c := range commands() {
+		names = append(names, c.Name)
+	}
+	if near := manifest.Nearest(name, names); near != "" {
+		return fmt.Sprintf(" (did you mean %s?)", near)
+	}
+	quoted := strings.Join(append([]string{name}, rest...), " ")
+	switch strings.ToLower(filepath.Ext(name)) {
+	case ".toml":
+		return fmt.Sprintf(": to run the studies of a manifest, give the command first: bivar run %s", quoted)
+	case ".json":
+		return fmt.Sprintf(": to compare two runs' results, give the command first: bivar diff %s", quoted)
+	}
+	if dataExtension(name) {
+		return fmt.Sprintf(": to write a starting manifest for a data file, give the command first: bivar init %s", quoted)
+	}
+	return ""
 }
 
 // usage writes the command list generated from the table.
@@ -239,7 +268,7 @@ func runHelp(args []string, stdout, stderr io.Writer) int {
 			return exitOK
 		}
 	}
-	fmt.Fprintf(stderr, "bivar help: unknown command %q. Run 'bivar help'.\n", args[0])
+	fmt.Fprintf(stderr, "bivar help: unknown command %q%s. Run 'bivar help'.\n", args[0], commandHint(args[0], nil))
 	return exitUsage
 }
 
@@ -272,10 +301,50 @@ func runVersion(_ context.Context, args []string, stdout, stderr io.Writer) int 
 	return exitOK
 }
 
-// version is the module version the build stamped, or "dev".
+// version is bivar's version as the build stamped it in the binary
+// (versionOf the build information), so that a report attached to a
+// change request names the code that wrote it. It is the same in every
+// run of one binary, so SOURCE_DATE_EPOCH runs stay byte for byte alike.
 func version() string {
-	if bi, ok := debug.ReadBuildInfo(); ok && bi.Main.Version != "" && bi.Main.Version != "(devel)" {
-		return bi.Main.Version
+	bi, _ := debug.ReadBuildInfo()
+	return versionOf(bi)
+}
+
+// versionOf reads a version from build information: the main module's
+// version when the build has one of its own (a tag: go install
+// bivar@v1.2.0, or a build at a tagged commit), else "dev" with the commit
+// the go command stamped (vcs.revision, its first 12 hex digits, and
+// "modified" when vcs.modified says the tree had uncommitted changes):
+// "dev (commit abc123def456, modified)". Since Go 1.24 a build in a
+// checkout also gets a pseudo-version made from that commit
+// ("v0.0.0-20261205073807-abc123def456+dirty"); it is shown in the dev form
+// too, which says the same more plainly. Plain "dev" without either (a
+// build with -buildvcs=false or outside a checkout, or a test binary).
+func versionOf(bi *debug.BuildInfo) string {
+	if bi == nil {
+		return "dev"
 	}
-	return "dev"
+	var rev string
+	var modified bool
+	for _, s := range bi.Settings {
+		switch s.Key {
+		case "vcs.revision":
+			rev = s.Value
+		case "vcs.modified":
+			modified = s.Value == "true"
+		}
+	}
+	if len(rev) > 12 {
+		rev = rev[:12]
+	}
+	if v := bi.Main.Version; v != "" && v != "(devel)" && (rev == "" || !strings.Contains(v, rev)) {
+		return v
+	}
+	if rev == "" {
+		return "dev"
+	}
+	if modified {
+		return "dev (commit " + rev + ", modified)"
+	}
+	return "dev (commit " + rev + ")"
 }

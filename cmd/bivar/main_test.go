@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"runtime/debug"
 	"slices"
 	"strings"
 	"testing"
@@ -57,11 +58,27 @@ func TestUsageErrors(t *testing.T) {
 		stderr string // a fragment the message must contain
 	}{
 		{"no-arguments", nil, exitUsage, "Usage:"},
-		{"unknown-command", []string{"rnu"}, exitUsage, `bivar: unknown command "rnu". Run 'bivar help'.`},
-		{"help-unknown", []string{"help", "rnu"}, exitUsage, `unknown command "rnu"`},
+		{"unknown-command", []string{"rnu"}, exitUsage, `bivar: unknown command "rnu" (did you mean run?). Run 'bivar help'.`},
+		{"unknown-command-doubled", []string{"runn", "m.toml"}, exitUsage, `bivar: unknown command "runn" (did you mean run?). Run 'bivar help'.`},
+		{"unknown-command-far", []string{"xyz"}, exitUsage, `bivar: unknown command "xyz". Run 'bivar help'.`},
+		{"manifest-without-command", []string{"bivar.toml"}, exitUsage, `bivar: unknown command "bivar.toml": to run the studies of a manifest, give the command first: bivar run bivar.toml. Run 'bivar help'.`},
+		{"data-without-command", []string{"data.csv"}, exitUsage, `give the command first: bivar init data.csv.`},
+		{"help-unknown", []string{"help", "chek"}, exitUsage, `bivar help: unknown command "chek" (did you mean check?). Run 'bivar help'.`},
 		{"run-no-manifest", []string{"run"}, exitUsage, "want one manifest, got 0 arguments"},
 		{"run-two-manifests", []string{"run", "a.toml", "b.toml"}, exitUsage, "want one manifest, got 2 arguments"},
-		{"run-bad-flag", []string{"run", "-x", "a.toml"}, exitUsage, "bivar run: flag provided but not defined: -x\nusage: bivar run [-o DIR] [--replace] MANIFEST\nRun 'bivar help run' for details.\n"},
+		{"run-bad-flag", []string{"run", "-x", "a.toml"}, exitUsage, "bivar run: unknown option -x: the options of 'bivar run' are -o DIR, --replace\nusage: bivar run [-o DIR] [--replace] MANIFEST\nRun 'bivar help run' for details.\n"},
+		{"run-theme", []string{"run", "-theme", "night", "a.toml"}, exitUsage, `bivar run: unknown option --theme: the report's theme is set in the manifest, as theme = "paper" in its [output] table (one of paper, night, contrast; see docs/manifest.md)`},
+		{"run-misspelt-option", []string{"run", "--replce", "a.toml"}, exitUsage, "bivar run: unknown option --replce (did you mean --replace?)\n"},
+		{"run-option-of-check", []string{"run", "--junit", "j.xml", "a.toml"}, exitUsage, "bivar run: unknown option --junit: --junit is an option of 'bivar check', not of 'bivar run'\n"},
+		{"run-output-folder", []string{"run", "--output", "out", "a.toml"}, exitUsage, `bivar run: unknown option --output: the output folder is -o DIR, or dir = "…" in the manifest's [output] table`},
+		{"run-switch-value", []string{"run", "--replace=maybe", "a.toml"}, exitUsage, "bivar run: --replace=maybe: --replace is a switch, on when given: write --replace alone (or --replace=false to turn it off)\n"},
+		{"run-three-dashes", []string{"run", "---replace", "a.toml"}, exitUsage, `bivar run: "---replace" is not an option: write an option with one dash before a letter or two before a word, such as -o`},
+		{"run-o-last", []string{"run", "a.toml", "-o"}, exitUsage, "bivar run: -o needs a DIR after it: output DIR (default: [output] dir of the manifest, relative to its folder)\nusage: bivar run [-o DIR] [--replace] MANIFEST\n"},
+		{"check-junit-last", []string{"check", "a.toml", "-junit"}, exitUsage, "bivar check: --junit needs a FILE after it: write JUnit XML to FILE (one test case per expectation)\nusage: bivar check [--junit FILE] [--summary FILE] MANIFEST\nRun 'bivar help check' for details.\n"},
+		{"check-junit-then-option", []string{"check", "--junit", "--summary", "s.md", "a.toml"}, exitUsage, "bivar check: --junit needs a FILE after it, not the option --summary: write JUnit XML to FILE (one test case per expectation)\n"},
+		{"diff-misspelt-theme", []string{"diff", "--them", "night", "a", "b"}, exitUsage, "bivar diff: unknown option --them (did you mean --theme?)\n"},
+		{"init-manifest", []string{"init", "--force", "bivar.toml"}, exitUsage, "bivar init: bivar.toml is a manifest, not a data file: run its studies with 'bivar run bivar.toml', or give bivar init the data file (CSV or .xlsx) to write a manifest for\n"},
+		{"version-option", []string{"version", "--x"}, exitUsage, "bivar version: unknown option -x: 'bivar version' takes no options\n"},
 		{"run-folder", []string{"run", t.TempDir()}, exitFailed, "is a folder: give the manifest file itself"},
 		{"run-missing-file", []string{"run", filepath.Join(t.TempDir(), "absent.toml")}, exitFailed, "absent.toml"},
 		{"version-argument", []string{"version", "x"}, exitUsage, "takes no arguments"},
@@ -76,6 +93,75 @@ func TestUsageErrors(t *testing.T) {
 				t.Errorf("bivar %s: stderr lacks %q:\n%s", strings.Join(tc.args, " "), tc.stderr, stderr)
 			}
 		})
+	}
+}
+
+// TestNotAManifest: a data file, a results.json or a manifest given where
+// another kind of file belongs is named for what it looks like, with the
+// file to give instead, rather than answered by the TOML or JSON parser.
+func TestNotAManifest(t *testing.T) {
+	dir := t.TempDir()
+	csv := filepath.Join(dir, "data.csv")
+	writeFile(t, csv, "a,b\n1,2\n")
+	header := filepath.Join(dir, "export") // a CSV header, no extension
+	writeFile(t, header, "\ufeffLot;Hardness (HRC)\n1;40\n")
+	results := filepath.Join(dir, "old.json")
+	writeFile(t, results, "{\"schema\": \"bivar.results/1\"}\n")
+	manifest := filepath.Join(dir, "plant.toml")
+	writeFile(t, manifest, "[[dataset]]\n")
+	withBeside := filepath.Join(dir, "sub", "data.csv")
+	writeFile(t, withBeside, "a,b\n")
+	writeFile(t, filepath.Join(dir, "sub", "bivar.toml"), "")
+	cases := []struct {
+		name   string
+		args   []string
+		stderr string
+	}{
+		{"check-csv", []string{"check", csv}, "bivar: " + csv + " looks like a data file, not a manifest: give the manifest (bivar.toml) that names it; 'bivar init " + csv + "' writes one\n"},
+		{"run-csv-header", []string{"run", header}, "bivar: " + header + " looks like a data file, not a manifest: give the manifest (bivar.toml) that names it"},
+		{"run-csv-beside-manifest", []string{"run", withBeside}, "not a manifest: give the manifest that names it, such as " + filepath.Join(dir, "sub", "bivar.toml") + "; 'bivar init " + withBeside + "' writes a new one\n"},
+		{"run-json", []string{"run", results}, "bivar: " + results + " looks like JSON (a results.json?), not a manifest: give the manifest (a TOML file such as bivar.toml); 'bivar diff OLD NEW' compares two results.json\n"},
+		{"diff-csv", []string{"diff", "-o", filepath.Join(dir, "d1"), csv, results}, "bivar diff: OLD: " + csv + " looks like a data file, not a results.json: give the results.json that 'bivar run' wrote for the manifest naming it (in the report folder), or the folder itself\n"},
+		{"diff-manifest", []string{"diff", "-o", filepath.Join(dir, "d2"), manifest, results}, "bivar diff: OLD: " + manifest + " looks like a manifest, not a results.json: run 'bivar run " + manifest + "' and give the report folder it writes (or its results.json)\n"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			code, _, stderr := call(t, tc.args...)
+			if code != exitFailed || !strings.Contains(stderr, tc.stderr) {
+				t.Errorf("bivar %s: exit %d, stderr:\n%s\nwant exit 1 and %q", strings.Join(tc.args, " "), code, stderr, tc.stderr)
+			}
+		})
+	}
+}
+
+// TestLooksLike: what a file plainly is, from its name and first line. A
+// manifest under another name is left to the manifest's reader.
+func TestLooksLike(t *testing.T) {
+	dir := t.TempDir()
+	for _, tc := range []struct {
+		name, text string
+		want       fileKind
+	}{
+		{"m.cfg", "# plant manifest\ntitle = \"a, b\"\n", tomlFile},
+		{"m.conf", "\n\n[[dataset]]\n", tomlFile},
+		{"m.txt", "title = \"x\"\n", tomlFile},
+		{"d.txt", "lot,hardness\n", dataFile},
+		{"d.dat", "lot\thardness\n", dataFile},
+		{"w.bin", "PK\x03\x04rest", dataFile},
+		{"r.out", "  {\"schema\": 1}", jsonFile},
+		{"one-word", "hardness\n", unknownKind},
+		{"empty", "", unknownKind},
+		{"D.CSV", "", dataFile},
+		{"x.xlsx", "", dataFile},
+	} {
+		path := filepath.Join(dir, tc.name)
+		writeFile(t, path, tc.text)
+		if got := looksLike(path); got != tc.want {
+			t.Errorf("%s holding %q: kind %d, want %d", tc.name, tc.text, got, tc.want)
+		}
+	}
+	if got := looksLike(filepath.Join(dir, "absent")); got != unknownKind {
+		t.Errorf("a file that does not exist: kind %d, want unknownKind", got)
 	}
 }
 
@@ -98,6 +184,34 @@ func TestVersion(t *testing.T) {
 	code, out, _ := call(t, "version")
 	if code != exitOK || !strings.HasPrefix(out, "bivar ") {
 		t.Errorf("bivar version: exit %d, output %q", code, out)
+	}
+}
+
+// TestVersionOf: the version comes from the build information alone, so
+// every run of one binary names the same version.
+func TestVersionOf(t *testing.T) {
+	rev := "abc123def4567890abc123def4567890abc123de"
+	for _, tc := range []struct {
+		name string
+		bi   *debug.BuildInfo
+		want string
+	}{
+		{"no build information", nil, "dev"},
+		{"module version", &debug.BuildInfo{Main: debug.Module{Version: "v1.4.0"}, Settings: []debug.BuildSetting{{Key: "vcs.revision", Value: rev}}}, "v1.4.0"},
+		{"pseudo-version without vcs settings", &debug.BuildInfo{Main: debug.Module{Version: "v0.0.0-20261205072815-abc123def456+dirty"}}, "v0.0.0-20261205072815-abc123def456+dirty"},
+		{"pseudo-version of the stamped commit", &debug.BuildInfo{Main: debug.Module{Version: "v0.0.0-20261205072815-abc123def456+dirty"}, Settings: []debug.BuildSetting{{Key: "vcs.revision", Value: rev}, {Key: "vcs.modified", Value: "true"}}}, "dev (commit abc123def456, modified)"},
+		{"commit, clean", &debug.BuildInfo{Main: debug.Module{Version: "(devel)"}, Settings: []debug.BuildSetting{{Key: "vcs.revision", Value: rev}, {Key: "vcs.modified", Value: "false"}}}, "dev (commit abc123def456)"},
+		{"commit, modified", &debug.BuildInfo{Main: debug.Module{Version: "(devel)"}, Settings: []debug.BuildSetting{{Key: "vcs", Value: "git"}, {Key: "vcs.revision", Value: rev}, {Key: "vcs.modified", Value: "true"}}}, "dev (commit abc123def456, modified)"},
+		{"short revision", &debug.BuildInfo{Settings: []debug.BuildSetting{{Key: "vcs.revision", Value: "abc1"}}}, "dev (commit abc1)"},
+		{"no commit", &debug.BuildInfo{Main: debug.Module{Version: "(devel)"}, Settings: []debug.BuildSetting{{Key: "vcs.modified", Value: "true"}}}, "dev"},
+	} {
+		if got := versionOf(tc.bi); got != tc.want {
+			t.Errorf("%s: version %q, want %q", tc.name, got, tc.want)
+		}
+	}
+	// The test binary's own: the same on every call.
+	if a, b := version(), version(); a != b || !strings.HasPrefix(a, "dev") && !strings.HasPrefix(a, "v") {
+		t.Errorf("version() = %q then %q", a, b)
 	}
 }
 
@@ -235,5 +349,18 @@ func TestHelpOptionSpelling(t *testing.T) {
 		if !slices.Equal(usage, listed) {
 			t.Errorf("bivar %s: the usage line names %v, the options list %v", c.Name, usage, listed)
 		}
+	}
+}
+
+// TestManifestWithoutDataset: a manifest whose study names no declared
+// dataset says, at the study's line, that the manifest has none and what
+// to add, not "naming one of: " followed by nothing.
+func TestManifestWithoutDataset(t *testing.T) {
+	m := filepath.Join(t.TempDir(), "bivar.toml")
+	writeFile(t, m, "title = \"no data yet\"\n\n[[study]]\nid = \"s\"\nx = \"a\"\ny = \"b\"\n")
+	code, _, stderr := call(t, "check", m)
+	want := "bivar: " + m + ":3:1: the manifest has no dataset: add a [[dataset]] table above this [[study]] with id = \"…\" and file = \"…\""
+	if code != exitFailed || !strings.HasPrefix(stderr, want) || strings.Contains(stderr, "naming one of") {
+		t.Errorf("exit %d, stderr:\n%s\nwant exit 1 and a first line starting %q", code, stderr, want)
 	}
 }

@@ -16,6 +16,7 @@ import (
 	"bivar/analysis/report"
 	"bivar/internal/publish"
 	"bivar/render"
+	"bivar/render/gate"
 )
 
 func runRun(ctx context.Context, args []string, stdout, stderr io.Writer) int {
@@ -230,7 +231,7 @@ func status(rep *report.Report, stderr io.Writer) int {
 		for _, e := range s.Expectations {
 			if !e.OK {
 				failedExpect = true
-				fmt.Fprintf(stderr, "bivar: study %q: expectation %s failed: %s\n", s.ID, e.Name, e.Detail)
+				fmt.Fprintf(stderr, "bivar: study %q: expectation %s failed: %s\n", s.ID, gate.Label(e), e.Detail)
 			}
 		}
 	}

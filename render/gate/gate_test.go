@@ -329,3 +329,26 @@ func TestSummaryOnlyStudyErrors(t *testing.T) {
 		t.Errorf("summary lacks %q:\n%s", want, buf.String())
 	}
 }
+
+// TestJUnitCaseNames: a test case is named by the gate's manifest key, for
+// CI tools matching on it, followed by its title in words for reviewers;
+// a report written before gates had titles keeps the key alone.
+func TestJUnitCaseNames(t *testing.T) {
+	r := &report.Report{Studies: []report.Study{{ID: "s", Expectations: []report.Expectation{
+		{Name: "slope_within", Title: "slope within its limits", Want: "slope in [1, 2]", Got: "slope = 3", OK: false},
+		{Name: "max_p", Want: "p ≤ 0.05", Got: "p = 0.01", OK: true},
+	}}}}
+	var buf bytes.Buffer
+	if err := JUnit(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	var got parsedSuites
+	if err := xml.Unmarshal(buf.Bytes(), &got); err != nil || len(got.Suites) != 1 || len(got.Suites[0].Cases) != 2 {
+		t.Fatalf("err %v\n%s", err, buf.String())
+	}
+	for i, want := range []string{"slope_within (slope within its limits)", "max_p"} {
+		if name := got.Suites[0].Cases[i].Name; name != want {
+			t.Errorf("test case %d named %q, want %q", i, name, want)
+		}
+	}
+}

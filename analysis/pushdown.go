@@ -294,7 +294,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 
 	// Pass 3: flags, extremes, Breusch–Pagan, trend, the quadratic's
 	// residuals and the density grids, with the refined line.
-	th, err := p.ThirdPass(fit, pushdownGrids(c, mom, sums, spec, len(p.NumCols)))
+	th, err := p.ThirdPass(fit, pushdownGrids(c, mom, sums, spec, len(p.NumCols)), max(cfg.namedMax(), pushdownSuspectMax))
 	if err != nil {
 		return s, err
 	}
@@ -357,22 +357,16 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		exact("per-group lines", "comparison of the group lines")
 	}
 
-	// Pass 4: the sample, the flagged rows (all of them, when a study
-	// refits without them) and the rows at the leave-one-out extremes.
-	whole := th.Suspect <= pushdownSuspectMax
-	limit := max(cfg.namedMax(), th.Suspect)
-	if !whole {
-		limit = cfg.namedMax()
+	// The flagged rows, from the third pass: all of them, when there are
+	// few enough to refit without them, else the named ones.
+	sus := th.Suspects
+	if th.Suspect > len(sus) {
+		sus = sus[:min(len(sus), cfg.namedMax())]
 	}
-	fetched, err := p.Rows(fit, PushdownSample, n, whole, limit, th.LooRMin, th.LooRMax)
+	// Pass 4: the sample and the rows at the leave-one-out extremes.
+	fetched, err := p.Rows(fit, PushdownSample, n, th.LooRMin, th.LooRMax)
 	if err != nil {
 		return s, err
-	}
-	sus := fetched.Suspect
-	if !whole {
-		if sus, err = p.Suspect(fit, limit); err != nil {
-			return s, err
-		}
 	}
 	s.Influence, s.Sensitivity = influenceFromSums(mom, rss, pc, lf, rules, th, sus, fetched.Extremes, cfg, conf)
 	exact("influence: flag counts, named rows and their measures, the largest Cook's distance", "sensitivity: leave-one-out extremes, the line without each named row")

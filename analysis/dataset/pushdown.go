@@ -725,14 +725,11 @@ func (p *Prepared) dy(f Fit) string {
 }
 
 // rowsLine is the derived table of the complete cases with the study's
-// columns (the id and the row hash hk when asked), the line's dx, dy and
+// columns (the id when asked), the line's dx, dy and
 // e, and the leverage h and 1 − h (omh) (see stats.LineInfluence.At for
 // the formulas), each computed once per row.
-func (p *Prepared) rowsLine(f Fit, withID, withHash bool) string {
+func (p *Prepared) rowsLine(f Fit, withID bool) string {
 	sel := p.cols(withID)
-	if withHash {
-		sel += ", " + p.s.rowHash() + " AS hk"
-	}
 	nf := float64(f.N)
 	dx, dy := p.dx(f), p.dy(f)
 	q := "(" + dx + " * " + dx + " / " + lit(f.Sxx) + ")"
@@ -741,18 +738,13 @@ func (p *Prepared) rowsLine(f Fit, withID, withHash bool) string {
 		p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e"
 }
 
-// influence is the derived table of rowsLine's rows with the line's
-// row-wise measures: Cook's distance d, the externally studentized
-// residual t, the leave-one-out r (loor, from downdated sums as
-// stats.corrFromSums) and slope (loos).
-func (p *Prepared) influence(f Fit, withID, withHash bool) string {
+// loor is the SQL of the leave-one-out r over the line's deviations dx,
+// dy and 1 − h (omh), from downdated sums as stats.corrFromSums.
+func (f Fit) loor(dx, dy, omh string) string {
 	nf := float64(f.N)
-	ri := "(e / nullif(" + lit(f.S) + " * sqrt(omh), 0))"
-	s2 := "greatest(0, (" + lit(f.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
 	c := lit(nf / (nf - 1))
-	return "(SELECT *, " + ri + " * " + ri + " * h / nullif(2 * omh, 0) AS d, e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0) AS t, " +
-		"(" + lit(f.Sxy) + " - " + c + " * dx * dy) / nullif(sqrt(greatest(0, " + c + " * " + lit(f.Sxx) + " * omh) * greatest(0, " + lit(f.Syy) + " - " + c + " * dy * dy)), 0) AS loor, " +
-		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos FROM " + p.rowsLine(f, withID, withHash) + fence + ") AS bivar_i"
+	return "(" + lit(f.Sxy) + " - " + c + " * " + dx + " * " + dy + ") / nullif(sqrt(greatest(0, " + c + " * " + lit(f.Sxx) + " * " + omh + ") * greatest(0, " +
+		lit(f.Syy) + " - " + c + " * " + dy + " * " + dy + ")), 0)"
 }
 
 func cutLit(v float64) string {
@@ -760,10 +752,6 @@ func cutLit(v float64) string {
 		return "CAST('Infinity' AS double precision)"
 	}
 	return lit(v)
-}
-
-func (f Fit) conds() (out, lev, infl string) {
-	return "abs(t) > " + cutLit(f.Outlier), "h > " + cutLit(f.Leverage), "d > " + cutLit(f.Cooks)
 }
 
 // Third are the sums and counts of the third pass, over the complete
@@ -778,6 +766,9 @@ type Third struct {
 	SQ2                                                  float64 // Σ of the quadratic's squared residuals
 	SOE, SO, SOO                                         float64 // Σ(o − MO)·e, Σ(o − MO), Σ(o − MO)² (run order)
 	Grids                                                [3]*Grid
+	// Suspects are the rows flagged outlier or influential, ranked, at
+	// most ThirdPass's keep of them.
+	Suspects []Row
 }
 
 // Grid is a density grid's counts: Counts[j*NX+i] rows in cell (i, j).
@@ -790,30 +781,62 @@ type Grid struct {
 // ThirdPass runs the third pass: the rows per flag, the largest Cook's
 // distance, the extremes of the leave-one-out r and slope, the sums of
 // Breusch–Pagan and the run-order trend, the quadratic's residual sum,
-// and the density grids g (y on x, the residual on the fitted value and,
-// with a run order, the residual on the order), all in one scan with
-// GROUPING SETS over the grids' cells: the sums and counts are added up
-// over the cells of the first grid, which holds every row once. The cell
-// of a value a in [lo, hi] split into k cells is
-// floor((a − lo)·k/(hi − lo)), clamped to 0…k−1, as analysis.grid bins.
-func (p *Prepared) ThirdPass(f Fit, g [3]Grid) (*Third, error) {
+// the density grids g (y on x, the residual on the fitted value and, with
+// a run order, the residual on the order) and the rows flagged outlier or
+// influential, all in one scan with GROUPING SETS over the grids' cells:
+// the sums and counts are added up over the cells of the first set (y on
+// x with the residual on the fitted value), which holds every row once,
+// and there a flagged row is a group of its own (keyed by its x, y, id, d
+// and t), so that the server returns it.
+// Of those, the keep highest ranked are kept (largest Cook's distance,
+// then largest |t|, then smallest x, y and id). The cell of a value a in
+// [lo, hi] split into k cells is floor((a − lo)·k/(hi − lo)), clamped to
+// 0…k−1, as analysis.grid bins.
+func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	cell := func(e string, lo, hi float64, k int) string {
 		return "least(greatest(CAST(floor((" + e + " - " + lit(lo) + ") * " + lit(float64(k)/(hi-lo)) + ") AS bigint), 0), " + strconv.Itoa(k-1) + ")"
 	}
-	o, l, d := f.conds()
+	// The flags without a square root or a division by a row's values:
+	// |t| > c ⟺ e² > K₁·(1 − h) with K₁ = c²·RSS/(n − 3 + c²) (from
+	// t² = e²/(s₍ᵢ₎²·(1 − h)), s₍ᵢ₎² = (RSS − e²/(1 − h))/(n − 3)), and
+	// d > D ⟺ e²·h > K₂·(1 − h)² with K₂ = 2·s²·D (from
+	// d = e²·h/(2·s²·(1 − h)²)); a row of leverage 1 (1 − h = 0) is neither.
+	nf := float64(f.N)
+	k1, k2 := math.Inf(1), math.Inf(1)
+	if c := f.Outlier; !math.IsInf(c, 1) && !math.IsNaN(c) {
+		k1 = c * c * f.RSS / (nf - 3 + c*c)
+	}
+	if c := f.Cooks; !math.IsInf(c, 1) && !math.IsNaN(c) {
+		k2 = 2 * f.S * f.S * c
+	}
+	o := "(omh > 0 AND e * e > " + cutLit(k1) + " * omh)"
+	d := "(omh > 0 AND (e * e) * h > " + cutLit(k2) + " * (omh * omh))"
+	ri := "(e / nullif(" + lit(f.S) + " * sqrt(omh), 0))"
+	s2 := "greatest(0, (" + lit(f.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
+	// The row-wise measures each row needs, once per row (see fence).
+	src := "(SELECT *, " + ri + " * " + ri + " * h / nullif(2 * omh, 0) AS d, " + f.loor("dx", "dy", "omh") + " AS loor, " +
+		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"
 	fitted := "(" + lit(f.MY) + " + " + lit(f.B) + " * dx)"
-	fl := "(CAST(" + o + " AS integer) + 2 * CAST(" + l + " AS integer) + 4 * CAST(" + d + " AS integer))"
+	fl := "(CAST(fo AS integer) + 2 * CAST(h > " + cutLit(f.Leverage) + " AS integer) + 4 * CAST(fd AS integer))"
+	suspect := func(c string) string { return "CASE WHEN fo OR fd THEN " + c + " END" }
+	id := "CAST(NULL AS text)"
+	if p.id != "" {
+		id = "id"
+	}
+	keys := []string{suspect("x"), suspect("y"), suspect(id), suspect("d"), suspect("e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0)")}
 	a0, b0 := cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY)
 	a1, b1 := cell(fitted, g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)
-	set0, set1 := a0+", "+b0+", "+fl, a1+", "+b1
-	sets := "(" + set0 + "), (" + set1 + ")"
+	// The fitted value is a function of x, so a cell of y on x meets few
+	// cells of the residual on the fitted value: one set holds both grids.
+	set0 := a0 + ", " + b0 + ", " + a1 + ", " + b1 + ", " + fl + ", " + strings.Join(keys, ", ")
+	sets := "(" + set0 + ")"
 	last := "0, 0"
 	if p.spec.Order != "" {
 		a2, b2 := cell("o", g[2].XLo, g[2].XHi, g[2].NX), cell("e", g[2].YLo, g[2].YHi, g[2].NY)
 		sets += ", (" + a2 + ", " + b2 + ")"
 		last = a2 + ", " + b2
 	}
-	sel := []string{"GROUPING(" + set0 + ")", "GROUPING(" + set1 + ")", a0, b0, a1, b1, last, fl, "count(*)",
+	sel := []string{"GROUPING(" + set0 + ")", "0", a0, b0, a1, b1, last, fl, "count(*)",
 		"max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)",
 		"sum(e)", "sum(e * e)", "sum((e * e) * (e * e))", "sum(dx * (e * e))", "sum(dx)"}
 	if f.Quad {
@@ -823,11 +846,14 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid) (*Third, error) {
 	} else {
 		sel = append(sel, "CAST(NULL AS double precision)")
 	}
+	od := "(o - " + lit(f.MO) + ")"
 	if p.spec.Order != "" {
-		od := "(o - " + lit(f.MO) + ")"
 		sel = append(sel, "sum("+od+" * e)", "sum("+od+")", "sum("+od+" * "+od+")")
+	} else {
+		sel = append(sel, "0", "0", "0")
 	}
-	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM " + p.influence(f, false, false) + " GROUP BY GROUPING SETS (" + sets + ")"
+	sel = append(sel, keys...)
+	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM " + src + " GROUP BY GROUPING SETS (" + sets + ")"
 	th := &Third{MaxD: math.NaN(), LooRMin: math.NaN(), LooRMax: math.NaN(), LooSMin: math.NaN(), LooSMax: math.NaN()}
 	for k := range 3 {
 		if k == 2 && p.spec.Order == "" {
@@ -850,19 +876,17 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid) (*Third, error) {
 		}
 		return a
 	}
+	var sus []ranked
 	err := p.s.each(stmt, func(v []any) error {
-		k := 2
-		switch {
-		case Num(v[0]) == 0:
-			k = 0
-		case Num(v[1]) == 0:
-			k = 1
-		}
 		n := int(Num(v[9]))
-		i, j := int(Num(v[2+2*k])), int(Num(v[3+2*k]))
-		th.Grids[k].Counts[j*th.Grids[k].NX+i] += n
-		if k != 0 {
+		if Num(v[0]) != 0 {
+			i, j := int(Num(v[6])), int(Num(v[7]))
+			th.Grids[2].Counts[j*th.Grids[2].NX+i] += n
 			return nil
+		}
+		for k := range 2 {
+			i, j := int(Num(v[2+2*k])), int(Num(v[3+2*k]))
+			th.Grids[k].Counts[j*th.Grids[k].NX+i] += n
 		}
 		fl := int(Num(v[8]))
 		if fl&1 != 0 {
@@ -879,6 +903,18 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid) (*Third, error) {
 		}
 		if fl&5 != 0 {
 			th.Suspect += n
+			noID := p.id == "" || isMissing(v[26], p.spec.Missing)
+			r := ranked{Row: Row{X: Num(v[24]), Y: Num(v[25])}, noID: noID, d: Num(v[27]), t: Num(v[28])}
+			if !noID {
+				r.ID = Text(v[26])
+			}
+			for range n { // a row repeated n times is n flagged rows
+				sus = append(sus, r)
+			}
+			if len(sus) > 2*keep {
+				slices.SortFunc(sus, cmpSuspect)
+				sus = sus[:keep]
+			}
 		}
 		if x := Num(v[10]); !math.IsNaN(x) {
 			th.MaxD = hi(th.MaxD, x)
@@ -901,15 +937,18 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid) (*Third, error) {
 		th.SUE2 += Num(v[18])
 		th.SU += Num(v[19])
 		th.SQ2 += Num(v[20])
-		if p.spec.Order != "" {
-			th.SOE += Num(v[21])
-			th.SO += Num(v[22])
-			th.SOO += Num(v[23])
-		}
+		th.SOE += Num(v[21])
+		th.SO += Num(v[22])
+		th.SOO += Num(v[23])
 		return nil
 	})
 	if err != nil {
 		return nil, err
+	}
+	slices.SortFunc(sus, cmpSuspect)
+	th.Suspects = []Row{}
+	for _, r := range sus[:min(keep, len(sus))] {
+		th.Suspects = append(th.Suspects, r.Row)
 	}
 	return th, nil
 }
@@ -961,10 +1000,6 @@ type Fetched struct {
 	// Sample holds the complete cases with the smallest row hashes, k of
 	// them (all when fewer), in SampleMethod's order.
 	Sample []SampleRow
-	// Suspect holds the rows flagged outlier or influential, ranked as a
-	// study ranks them (largest Cook's distance, then largest |t|, then
-	// smallest x, y and id), at most limit of them; nil when not asked.
-	Suspect []Row
 	// Extremes are the rows whose leave-one-out r is the smallest or the
 	// largest (in order of x, y and id, at most extremesMax), with their
 	// leave-one-out r.
@@ -1041,17 +1076,18 @@ func cmpSample(a, b SampleRow) int {
 	return cmpID(a.ID, a.noID, b.ID, b.noID)
 }
 
-// Rows runs the fourth pass, one scan for three sets of rows: the sample
-// of k rows (of the complete ones), the flagged rows when suspects (their
-// count, from the third pass, bounds what is fetched) and the rows at the
-// leave-one-out r's extremes lo and hi. The sample is the complete cases
-// whose hash lies below a threshold expected to pass k + 8√k + 100 of
-// them (8 standard deviations of that count above k); in the rare case
-// fewer than k pass, the threshold is doubled and the pass run again.
-func (p *Prepared) Rows(f Fit, k, complete int, suspects bool, limit int, lo, hi float64) (*Fetched, error) {
+// Rows runs the fourth pass, one scan for the sample of k rows (of the
+// complete ones) and the rows at the leave-one-out r's extremes lo and
+// hi. The sample is the complete cases whose hash lies below a threshold
+// expected to pass k + 8√k + 100 of them (8 standard deviations of that
+// count above k); in the rare case fewer than k pass, the threshold is
+// doubled and the pass run again. The statement has no derived table:
+// the hash and the leave-one-out r are computed once per row in its
+// WHERE, and again only for the few rows it returns.
+func (p *Prepared) Rows(f Fit, k, complete int, lo, hi float64) (*Fetched, error) {
 	frac := (float64(k) + 8*math.Sqrt(float64(k)) + 100) / float64(complete)
 	for {
-		out, err := p.rowsPass(f, k, frac, suspects, limit, lo, hi)
+		out, err := p.rowsPass(f, k, frac, lo, hi)
 		if err != nil || len(out.Sample) >= k || frac >= 1 {
 			return out, err
 		}
@@ -1059,33 +1095,26 @@ func (p *Prepared) Rows(f Fit, k, complete int, suspects bool, limit int, lo, hi
 	}
 }
 
-func (p *Prepared) rowsPass(f Fit, k int, frac float64, suspects bool, limit int, lo, hi float64) (*Fetched, error) {
+func (p *Prepared) rowsPass(f Fit, k int, frac float64, lo, hi float64) (*Fetched, error) {
+	hk := p.s.rowHash()
 	isSample := "true"
 	if t := frac*0x1p64 - 0x1p63; frac < 1 && t < 0x1p63 {
-		isSample = "hk < " + strconv.FormatInt(int64(t), 10)
+		isSample = hk + " < " + strconv.FormatInt(int64(t), 10)
 	}
-	o, _, d := f.conds()
-	isSuspect := "false"
-	if suspects {
-		isSuspect = "(" + o + " OR " + d + ")"
-	}
-	isExt := "(loor = " + lit(lo) + " OR loor = " + lit(hi) + ")"
+	nf := float64(f.N)
+	dx, dy := p.dx(f), p.dy(f)
+	omh := "greatest(0, " + lit((nf-1)/nf) + " - " + dx + " * " + dx + " / " + lit(f.Sxx) + ")"
+	loor := f.loor(dx, dy, omh)
+	isExt := loor + " IN (" + lit(lo) + ", " + lit(hi) + ")"
 	if math.IsNaN(lo) || math.IsNaN(hi) {
 		isExt = "false"
 	}
-	id := "CAST(NULL AS text)"
-	if p.id != "" {
-		id = "id"
-	}
-	g := "CAST(NULL AS text)"
-	if p.group != "" {
-		g = "g"
-	}
+	sel := slices.Clone(p.num)
+	sel = append(sel, cmp.Or(p.group, "CAST(NULL AS text)"), cmp.Or(p.id, "CAST(NULL AS text)"), hk, loor, isSample)
+	stmt := "SELECT " + strings.Join(sel, ", ") + p.from() + " WHERE " + p.complete() + " AND (" + isSample + " OR " + isExt + ")"
 	nk := len(p.NumCols)
-	stmt := "SELECT " + strings.Join(p.NumCols, ", ") + ", " + g + ", " + id + ", hk, d, t, loor, " + isSample + ", " + isSuspect + ", " + isExt +
-		" FROM " + p.influence(f, true, true) + " WHERE " + isSample + " OR " + isSuspect + " OR " + isExt
 	out := &Fetched{}
-	var sus, ext []ranked
+	var ext []ranked
 	err := p.s.each(stmt, func(v []any) error {
 		num := make([]float64, nk)
 		for i := range nk {
@@ -1096,15 +1125,11 @@ func (p *Prepared) rowsPass(f Fit, k int, frac float64, suspects bool, limit int
 		if !noID {
 			idText = Text(v[nk+1])
 		}
-		r := ranked{Row: Row{X: num[0], Y: num[1], ID: idText}, noID: noID, d: Num(v[nk+3]), t: Num(v[nk+4]), loo: Num(v[nk+5])}
-		if v[nk+6] == true {
+		if v[nk+4] == true {
 			out.Sample = append(out.Sample, SampleRow{H: int64Of(v[nk+2]), Num: num, Group: Text(v[nk]), ID: idText, noID: noID})
 		}
-		if v[nk+7] == true {
-			sus = append(sus, r)
-		}
-		if v[nk+8] == true {
-			ext = append(ext, r)
+		if loo := Num(v[nk+3]); loo == lo || loo == hi {
+			ext = append(ext, ranked{Row: Row{X: num[0], Y: num[1], ID: idText}, noID: noID, loo: loo})
 			if len(ext) > 2*extremesMax {
 				slices.SortFunc(ext, ranked.cmpXYID)
 				ext = ext[:extremesMax]
@@ -1117,45 +1142,10 @@ func (p *Prepared) rowsPass(f Fit, k int, frac float64, suspects bool, limit int
 	}
 	slices.SortFunc(out.Sample, cmpSample)
 	out.Sample = out.Sample[:min(k, len(out.Sample))]
-	if suspects {
-		slices.SortFunc(sus, cmpSuspect)
-		out.Suspect = []Row{}
-		for _, r := range sus[:min(limit, len(sus))] {
-			out.Suspect = append(out.Suspect, r.Row)
-		}
-	}
 	slices.SortFunc(ext, ranked.cmpXYID)
 	for _, r := range ext[:min(extremesMax, len(ext))] {
 		out.Extremes = append(out.Extremes, r.Row)
 		out.ExtLoo = append(out.ExtLoo, r.loo)
-	}
-	return out, nil
-}
-
-// Suspect fetches the rows flagged outlier or influential, ranked as Rows
-// ranks them, at most limit of them, sorted by the server: for a study
-// with more flagged rows than it fetches whole.
-func (p *Prepared) Suspect(f Fit, limit int) ([]Row, error) {
-	o, _, d := f.conds()
-	id := "CAST(NULL AS text)"
-	if p.id != "" {
-		lits := make([]string, len(p.spec.Missing))
-		for i, m := range p.spec.Missing {
-			lits[i] = textLit(m)
-		}
-		id = "id"
-		if len(lits) > 0 {
-			id = "CASE WHEN btrim(id) IN (" + strings.Join(lits, ", ") + ") THEN NULL ELSE id END"
-		}
-	}
-	r, err := p.s.rows("SELECT x, y, idn FROM (SELECT x, y, d, t, " + id + " AS idn FROM " + p.influence(f, true, false) + " WHERE " + o + " OR " + d +
-		") AS bivar_s ORDER BY d DESC NULLS LAST, abs(t) DESC NULLS LAST, x, y, idn COLLATE \"C\" LIMIT " + strconv.Itoa(limit))
-	if err != nil {
-		return nil, err
-	}
-	out := make([]Row, len(r))
-	for i, v := range r {
-		out[i] = Row{X: Num(v[0]), Y: Num(v[1]), ID: Text(v[2])}
 	}
 	return out, nil
 }

@@ -282,9 +282,6 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	fit := dataset.Fit{N: n, MX: c.Mean[0], MY: c.Mean[1], MXLo: lo[0], MYLo: lo[1], B: b,
 		Sxx: mom.Sxx, Syy: mom.Syy, Sxy: mom.Sxy, RSS: rss, S: sres, Outlier: rules.Outlier, Cooks: rules.Cooks, Leverage: rules.Leverage}
-	if o, ok := ix[spec.Order]; ok && spec.Order != "" {
-		fit.MO = c.Mean[o]
-	}
 	var quad *quadSolve
 	if n >= 4 {
 		if quad = solveQuadratic(nf, c.Mean[0], c.Mean[1], b1, sums); quad != nil {
@@ -307,13 +304,19 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		exact("quadratic: coefficients, SEs, intervals, R², F, AIC, vertex; the curvature test")
 	}
 	omit("log-x, log-y and log-log models", "not fitted when the rows stay in the database (the straight line and the quadratic are)")
-	// Breusch–Pagan (Koenker): n·r² of x with e².
-	ubar := th.SU / nf
-	sue2 := th.SUE2 - ubar*th.SE2
-	se4 := th.SE4 - th.SE2*th.SE2/nf
+	// Breusch–Pagan (Koenker): n·r² of x with e², from the second pass's
+	// sums of its line's residuals e, centred: w = e − ē (the refined
+	// line's residuals are w − (b − b1)·(d_x − d̄_x); the slope's change
+	// enters BP at the order of (b − b1)·SD(x)/s, near the rounding).
+	ebar := sums.SE / nf
+	ubar := sums.D[0] / nf
+	sw2 := sums.SE2 - sums.SE*ebar
+	suw2 := (sums.SXE2 - 2*ebar*sums.SXE + ebar*ebar*sums.D[0]) - ubar*sw2
+	sw4 := sums.SE4 - 4*ebar*sums.SE3 + 6*ebar*ebar*sums.SE2 - 4*ebar*ebar*ebar*sums.SE + nf*ebar*ebar*ebar*ebar
+	se4 := sw4 - sw2*sw2/nf
 	suu := mom.Sxx
 	if se4 > 0 && suu > 0 {
-		r := sue2 / math.Sqrt(suu*se4)
+		r := suw2 / math.Sqrt(suu*se4)
 		stat := nf * r * r
 		d.BreuschPagan = &report.ChiTest{Stat: report.Float(stat), DF: 1, P: report.Float(stats.UpperChi2(stat, 1))}
 	} else {
@@ -328,9 +331,13 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		if rss > 0 {
 			d.DurbinWatson = report.Float(num / rss)
 		}
-		soo := th.SOO - th.SO*th.SO/nf
-		soe := th.SOE - th.SO*th.SE/nf
-		see := th.SE2 - th.SE*th.SE/nf
+		// The trend of the refined line's residuals on the order, exactly
+		// from the second pass's sums: Σ(d_o − d̄_o)·e_refined =
+		// Σ(d_o − d̄_o)(e − ē) − (b − b1)·Σ(d_o − d̄_o)(d_x − d̄_x), and
+		// their sum of squares is the RSS.
+		soo := sums.SOO - sums.SO*sums.SO/nf
+		soe := (sums.SOE - sums.SO*sums.SE/nf) - (b-b1)*(sums.SOX-sums.SO*sums.D[0]/nf)
+		see := rss
 		oc := stats.PearsonMoments(stats.Moments{N: n, Sxx: soo, Syy: see, Sxy: soe}, 0.95)
 		d.OrderTrend = &report.OrderTrend{Slope: report.Float(soe / soo), P: report.Float(oc.P), R: report.Float(oc.R)}
 		exact("Durbin–Watson in run order (averaged over tied orders)", "residual trend in run order")
@@ -838,7 +845,7 @@ func influenceFromSums(m stats.Moments, rss float64, all stats.Correlation, line
 	in.Points = []report.Point{}
 	for _, r := range sus {
 		ri := rowInfluence(m, rss, r.X, r.Y)
-		if in.MaxCooksRow == "" && ri.CooksD == fc.MaxD {
+		if in.MaxCooksRow == "" && (ri.CooksD == fc.MaxD || r.D == fc.MaxD) {
 			in.MaxCooksRow = pushedRowName(r)
 		}
 		if len(in.Points) == namedMax {

@@ -7,19 +7,23 @@ package dataset
 // window function lag(), built-in hash functions), so the same statements
 // run where a plant's data have outgrown one server.
 //
-// A study takes five passes over the rows and one sort (see Prepared):
+// A study takes five statements, each one scan of the query's rows (the
+// dataset's hash, Fingerprint, one more for all studies of the dataset):
 //
 //  1. First: per group level, the counts, minima and maxima, and the
 //     means and centred sums of x and y by PostgreSQL's own float8
 //     regression aggregates (regr_avgx, regr_sxx, regr_sxy and kin);
 //  2. Second: sums of deviations from the first pass's means, of their
-//     products and powers, and of the line's residuals e;
-//  3. Third: the flags, the largest Cook's distance, the leave-one-out
-//     extremes, Breusch–Pagan, the trend in run order, the quadratic's
-//     residual sum and the density grids, with the refined line;
-//  4. Rows: the sample (by a hash of each row), the flagged rows and the
-//     rows of the leave-one-out extremes, in one scan;
-//  5. the Durbin–Watson numerator over the rows sorted by run order.
+//     products and powers, and of the line's residuals e and their
+//     powers (the refined line, its RSS, the quadratic, Breusch–Pagan and
+//     the trend in run order follow from them);
+//  3. ThirdPass: the flags and the flagged rows, the largest Cook's
+//     distance, the leave-one-out extremes, the quadratic's residual sum
+//     and the density grids, with the refined line;
+//  4. Rows: the sample (by a hash of each row) and the rows of the
+//     leave-one-out extremes;
+//  5. with a run order, the Durbin–Watson numerator: the rows grouped by
+//     run order, the blocks sorted (DurbinWatsonNumerator).
 //
 // Numerics. The regression aggregates update their state by the algorithm
 // of Youngs and Cramer (float8_regr_accum in
@@ -89,10 +93,13 @@ const sessionStatements = 12
 //     than one process doing all (measured by scripts/pushdown-bench.sh on
 //     PostgreSQL 15). One process also sums the rows in one order, so a
 //     rerun gives the same figures to the last digit;
-//   - work_mem of 64 MB, so that the run-order pass groups and sorts the
+//   - work_mem of 256 MB, so that the run-order pass groups and sorts the
 //     blocks of tied orders in memory up to about 10⁶ distinct orders
-//     (PostgreSQL's default, 4 MB, spills to disk at 10⁵).
-var sessionSettings = []string{"SET LOCAL max_parallel_workers_per_gather = 0", "SET LOCAL work_mem = '64MB'"}
+//     (180 MB of hash table, 95 MB to sort, measured on PostgreSQL 15);
+//     PostgreSQL's default, 4 MB, spills to disk at 10⁵, and 64 MB at
+//     10⁶ took twice as long. The other passes group into a few thousand
+//     cells and use little of it.
+var sessionSettings = []string{"SET LOCAL max_parallel_workers_per_gather = 0", "SET LOCAL work_mem = '256MB'"}
 
 // Open starts a Session on q. Each statement runs under q's statement
 // timeout; the session as a whole under sessionStatements of them.
@@ -636,7 +643,12 @@ type Sums struct {
 	X3, X4 float64
 	// SE = Σe, SE2 = Σe², SXE = Σ d_x·e, SX2E = Σ d_x²·e.
 	SE, SE2, SXE, SX2E float64
-	EMin, EMax         float64
+	// SE3 = Σe³, SE4 = Σe⁴, SXE2 = Σ d_x·e² (Breusch–Pagan).
+	SE3, SE4, SXE2 float64
+	// With a run order, d_o its deviation from the first pass's mean:
+	// SO = Σ d_o, SOO = Σ d_o², SOE = Σ d_o·e, SOX = Σ d_o·d_x.
+	SO, SOO, SOE, SOX float64
+	EMin, EMax        float64
 }
 
 // Second runs the second pass with the first pass's means and slope b.
@@ -651,6 +663,9 @@ func (p *Prepared) Second(mean []float64, b float64) (*Sums, error) {
 		dev = append(dev, "("+p.num[i]+" - "+lit(mean[i])+") AS d"+strconv.Itoa(i))
 	}
 	dev = append(dev, "(("+p.num[1]+" - "+lit(mean[1])+") - "+lit(b)+" * ("+p.num[0]+" - "+lit(mean[0])+")) AS e")
+	if p.spec.Order != "" {
+		dev = append(dev, "("+p.num[k-1]+" - "+lit(mean[k-1])+") AS dord")
+	}
 	d := func(i int) string { return "d" + strconv.Itoa(i) }
 	var sel []string
 	type pair struct{ i, j int }
@@ -666,7 +681,13 @@ func (p *Prepared) Second(mean []float64, b float64) (*Sums, error) {
 			}
 		}
 	}
-	sel = append(sel, "sum((d0 * d0) * d0)", "sum((d0 * d0) * (d0 * d0))", "sum(e)", "sum(e * e)", "sum(d0 * e)", "sum((d0 * d0) * e)", "min(e)", "max(e)")
+	sel = append(sel, "sum((d0 * d0) * d0)", "sum((d0 * d0) * (d0 * d0))", "sum(e)", "sum(e * e)", "sum(d0 * e)", "sum((d0 * d0) * e)", "min(e)", "max(e)",
+		"sum((e * e) * e)", "sum((e * e) * (e * e))", "sum(d0 * (e * e))")
+	if p.spec.Order != "" {
+		sel = append(sel, "sum(dord)", "sum(dord * dord)", "sum(dord * e)", "sum(dord * d0)")
+	} else {
+		sel = append(sel, "0", "0", "0", "0")
+	}
 	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_d")
 	if err != nil {
 		return nil, err
@@ -691,6 +712,8 @@ func (p *Prepared) Second(mean []float64, b float64) (*Sums, error) {
 		n++
 	}
 	s.X3, s.X4, s.SE, s.SE2, s.SXE, s.SX2E, s.EMin, s.EMax = Num(v[n]), Num(v[n+1]), Num(v[n+2]), Num(v[n+3]), Num(v[n+4]), Num(v[n+5]), Num(v[n+6]), Num(v[n+7])
+	s.SE3, s.SE4, s.SXE2 = Num(v[n+8]), Num(v[n+9]), Num(v[n+10])
+	s.SO, s.SOO, s.SOE, s.SOX = Num(v[n+11]), Num(v[n+12]), Num(v[n+13]), Num(v[n+14])
 	return s, nil
 }
 
@@ -707,7 +730,6 @@ type Fit struct {
 
 	QX, QY, Q0, Q1, Q2, QS float64
 	Quad                   bool
-	MO                     float64 // mean of the run order, when the study has one
 
 	Sxx, Syy, Sxy  float64
 	RSS, S         float64 // S = √(RSS/(n − 2))
@@ -760,11 +782,7 @@ type Third struct {
 	Outlier, HighLeverage, Influential, Flagged, Suspect int
 	MaxD                                                 float64
 	LooRMin, LooRMax, LooSMin, LooSMax                   float64
-	SE, SE2, SE4                                         float64 // Σe, Σe², Σe⁴
-	SUE2                                                 float64 // Σ dx·e²
-	SU                                                   float64 // Σ dx
 	SQ2                                                  float64 // Σ of the quadratic's squared residuals
-	SOE, SO, SOO                                         float64 // Σ(o − MO)·e, Σ(o − MO), Σ(o − MO)² (run order)
 	Grids                                                [3]*Grid
 	// Suspects are the rows flagged outlier or influential, ranked, at
 	// most ThirdPass's keep of them.
@@ -779,8 +797,8 @@ type Grid struct {
 }
 
 // ThirdPass runs the third pass: the rows per flag, the largest Cook's
-// distance, the extremes of the leave-one-out r and slope, the sums of
-// Breusch–Pagan and the run-order trend, the quadratic's residual sum,
+// distance, the extremes of the leave-one-out r and slope, the quadratic's
+// residual sum,
 // the density grids g (y on x, the residual on the fitted value and, with
 // a run order, the residual on the order) and the rows flagged outlier or
 // influential, all in one scan with GROUPING SETS over the grids' cells:
@@ -837,20 +855,13 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		last = a2 + ", " + b2
 	}
 	sel := []string{"GROUPING(" + set0 + ")", "0", a0, b0, a1, b1, last, fl, "count(*)",
-		"max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)",
-		"sum(e)", "sum(e * e)", "sum((e * e) * (e * e))", "sum(dx * (e * e))", "sum(dx)"}
+		"max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
 	if f.Quad {
 		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
 		q := "((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + ")))"
 		sel = append(sel, "sum("+q+" * "+q+")")
 	} else {
 		sel = append(sel, "CAST(NULL AS double precision)")
-	}
-	od := "(o - " + lit(f.MO) + ")"
-	if p.spec.Order != "" {
-		sel = append(sel, "sum("+od+" * e)", "sum("+od+")", "sum("+od+" * "+od+")")
-	} else {
-		sel = append(sel, "0", "0", "0")
 	}
 	sel = append(sel, keys...)
 	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM " + src + " GROUP BY GROUPING SETS (" + sets + ")"
@@ -903,10 +914,10 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		}
 		if fl&5 != 0 {
 			th.Suspect += n
-			noID := p.id == "" || isMissing(v[26], p.spec.Missing)
-			r := ranked{Row: Row{X: Num(v[24]), Y: Num(v[25])}, noID: noID, d: Num(v[27]), t: Num(v[28])}
+			noID := p.id == "" || isMissing(v[18], p.spec.Missing)
+			r := ranked{Row: Row{X: Num(v[16]), Y: Num(v[17]), D: Num(v[19])}, noID: noID, d: Num(v[19]), t: Num(v[20])}
 			if !noID {
-				r.ID = Text(v[26])
+				r.ID = Text(v[18])
 			}
 			for range n { // a row repeated n times is n flagged rows
 				sus = append(sus, r)
@@ -931,15 +942,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		if x := Num(v[14]); !math.IsNaN(x) {
 			th.LooSMax = hi(th.LooSMax, x)
 		}
-		th.SE += Num(v[15])
-		th.SE2 += Num(v[16])
-		th.SE4 += Num(v[17])
-		th.SUE2 += Num(v[18])
-		th.SU += Num(v[19])
-		th.SQ2 += Num(v[20])
-		th.SOE += Num(v[21])
-		th.SO += Num(v[22])
-		th.SOO += Num(v[23])
+		th.SQ2 += Num(v[15])
 		return nil
 	})
 	if err != nil {
@@ -958,13 +961,19 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 // whose run order ties (the closed form of stats.DurbinWatsonTied: 2·SS
 // within each block of tied orders, (ē_A − ē_B)² + SS_A/m_A + SS_B/m_B
 // between consecutive blocks), by GROUP BY on the order and lag() over the
-// blocks: the one statement that sorts the rows (by the order).
+// blocks: the one statement that sorts the rows (by the order). A block's
+// SS is Σe² − (Σe)²/m, from two sums the server keeps by value (a few
+// bytes a block, so that 10⁶ blocks group in memory): its rounding is
+// that of Σe² over the block, and over all blocks at most a few units in
+// the last place of Σe² = RSS, the denominator, whatever the blocks'
+// means, so the statistic keeps its digits.
 func (p *Prepared) DurbinWatsonNumerator(f Fit) (float64, error) {
 	stmt := "SELECT sum(2 * ss) + coalesce(sum((me - pme) * (me - pme) + ss / m + pss / pm) FILTER (WHERE pm IS NOT NULL), 0) FROM (" +
 		"SELECT m, me, ss, lag(m) OVER w AS pm, lag(me) OVER w AS pme, lag(ss) OVER w AS pss FROM (" +
-		"SELECT o, CAST(count(*) AS double precision) AS m, avg(e) AS me, var_pop(e) * count(*) AS ss FROM (SELECT " +
+		"SELECT o, m, se / m AS me, greatest(0, see - se * se / m) AS ss FROM (" +
+		"SELECT o, CAST(count(*) AS double precision) AS m, sum(e) AS se, sum(e * e) AS see FROM (SELECT " +
 		p.num[len(p.num)-1] + " AS o, " + p.dy(f) + " - " + lit(f.B) + " * " + p.dx(f) + " AS e" + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e GROUP BY o" +
-		") AS bivar_b WINDOW w AS (ORDER BY o)) AS bivar_l"
+		") AS bivar_s) AS bivar_b WINDOW w AS (ORDER BY o)) AS bivar_l"
 	r, err := p.s.rows(stmt)
 	if err != nil {
 		return 0, err
@@ -975,7 +984,8 @@ func (p *Prepared) DurbinWatsonNumerator(f Fit) (float64, error) {
 // Row is one row fetched by a push-down query.
 type Row struct {
 	X, Y float64
-	ID   string // "" when the dataset has no id_column or it is missing
+	ID   string  // "" when the dataset has no id_column or it is missing
+	D    float64 // a flagged row's Cook's distance as the database computed it
 }
 
 // SampleRow is one row of the sample: every numeric column (NumCols
@@ -1085,7 +1095,12 @@ func cmpSample(a, b SampleRow) int {
 // the hash and the leave-one-out r are computed once per row in its
 // WHERE, and again only for the few rows it returns.
 func (p *Prepared) Rows(f Fit, k, complete int, lo, hi float64) (*Fetched, error) {
-	frac := (float64(k) + 8*math.Sqrt(float64(k)) + 100) / float64(complete)
+	return p.rowsFrom(f, k, (float64(k)+8*math.Sqrt(float64(k))+100)/float64(complete), lo, hi)
+}
+
+// rowsFrom is Rows with the share frac of the rows that the first
+// threshold passes.
+func (p *Prepared) rowsFrom(f Fit, k int, frac, lo, hi float64) (*Fetched, error) {
 	for {
 		out, err := p.rowsPass(f, k, frac, lo, hi)
 		if err != nil || len(out.Sample) >= k || frac >= 1 {

@@ -459,4 +459,21 @@ func TestPushdownRowOrder(t *testing.T) {
 	if a.Datasets[0].SHA256 != b.Datasets[0].SHA256 {
 		t.Errorf("the order-free hash differs: %s / %s", a.Datasets[0].SHA256, b.Datasets[0].SHA256)
 	}
+	// One value changed in its last bit, one id in one letter, one cell
+	// set to NULL: each gives another hash.
+	for _, change := range []string{
+		"UPDATE pdord2 SET y = y * (1 + 2.3e-16) WHERE id = 'r17'",
+		"UPDATE pdord2 SET id = 'R17' WHERE id = 'r17'",
+		"UPDATE pdord2 SET z = NULL WHERE id = 'r18'",
+	} {
+		pgExec(t, url, change)
+		c, err := runManifest(t, dir, strings.Replace(decl, `"pdord"`, `"pdord2"`, 1)+study)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c.Datasets[0].SHA256 == b.Datasets[0].SHA256 {
+			t.Errorf("after %s the hash is still %s", change, c.Datasets[0].SHA256)
+		}
+		b = c
+	}
 }

@@ -73,10 +73,8 @@ type Session struct {
 	// Names are the result's columns, ServerVersion the server's version.
 	Names         []string
 	ServerVersion string
-	// Statements lists every statement run, in order, for the report;
-	// Durations the time each took, as bivar saw it (sent to last row).
+	// Statements lists every statement run, in order, for the report.
 	Statements []string
-	Durations  []time.Duration
 }
 
 // sessionStatements bounds the statements of a Session (a study runs
@@ -151,11 +149,9 @@ func (s *Session) what() string {
 // each runs one statement in the session and hands each row's values to
 // fn as they arrive (read them with Num and Text; fn must not keep the
 // slice); it is the only way statements reach the server, and it records
-// each in Statements and its time in Durations.
+// each in Statements.
 func (s *Session) each(stmt string, fn func(v []any) error) error {
 	s.Statements = append(s.Statements, stmt)
-	t0 := time.Now()
-	defer func() { s.Durations = append(s.Durations, time.Since(t0)) }()
 	rs, err := s.tx.Query(s.ctx, stmt)
 	if err != nil {
 		return s.q.queryError(s.what(), err, s.timeout)

@@ -161,8 +161,8 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	exact := func(figs ...string) { info.Exact = append(info.Exact, figs...) }
 	defer func() { info.Statements = sess.Statements }()
 
-	// Pass 1: counts, means, ranges.
-	c, err := p.Counts()
+	// Pass 1: counts, ranges, the levels' means and centred sums.
+	c, gs, err := p.First(maxLevels)
 	if err != nil {
 		return s, err
 	}
@@ -219,8 +219,11 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	n := s.N
 	nf := float64(n)
 
-	// Pass 2: centred sums, corrected by the sums of the deviations.
-	sums, err := p.Sums(c.Mean)
+	// Pass 2: centred sums about the first pass's means, corrected by the
+	// sums of the deviations, and sums of the first pass's line's
+	// residuals e = d_y − b1·d_x.
+	b1 := c.Sxy / c.Sxx
+	sums, err := p.Second(c.Mean, b1)
 	if err != nil {
 		return s, err
 	}
@@ -230,8 +233,11 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// from 0 would cost (as stats' meanParts does in memory).
 	mean, lo := make([]float64, k), make([]float64, k)
 	for i := range k {
-		lo[i] = sums.D[i] / nf
-		mean[i] = c.Mean[i] + lo[i]
+		mean[i] = c.Mean[i]
+		if !math.IsNaN(sums.D[i]) {
+			lo[i] = sums.D[i] / nf
+			mean[i] += lo[i]
+		}
 	}
 	cs := func(i, j int) float64 { return sums.P[i][j] - sums.D[i]*sums.D[j]/nf }
 	mom := stats.Moments{N: n, MeanX: mean[0], MeanY: mean[1], Sxx: cs(0, 0), Syy: cs(1, 1), Sxy: cs(0, 1)}
@@ -242,28 +248,16 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		CIHigh: report.Float(pc.CIHigh), T: report.Float(pc.T), DF: pc.DF, P: report.Float(pc.P), PAdjusted: report.Float(pc.P)}
 	exact("means, SDs, minimum and maximum of x and y", "centred sums (moments)", "Pearson's r with its interval and p")
 
-	// The quadratic from the sums about the first pass's means, in
-	// t = (x − m₁)/QS, QS the SD of x (a well-scaled basis).
-	b := mom.Sxy / mom.Sxx
-	fit := dataset.Fit{MX: c.Mean[0], MY: c.Mean[1], MXLo: lo[0], MYLo: lo[1], B: b}
-	if o, ok := ix[spec.Order]; ok && spec.Order != "" {
-		fit.MO = mean[o]
-	}
-	var quad *quadSolve
-	if n >= 4 {
-		if quad = solveQuadratic(nf, c.Mean[0], c.Mean[1], sums); quad != nil {
-			fit.Quad, fit.QX, fit.QY, fit.Q0, fit.Q1, fit.Q2, fit.QS = true, c.Mean[0], c.Mean[1], quad.c[0], quad.c[1], quad.c[2], quad.qs
-		}
-	}
-	res, err := p.Residuals(fit)
-	if err != nil {
-		return s, err
-	}
-	rss := res.SE2
 	// The slope refined once by the residuals' sum of products with x
-	// (b + Σ(x − x̄)e/Sxx: one step of iterative refinement, as stats.Line
-	// refines its own), and b0 = ȳ − b1·x̄ with both means in two parts.
-	b = b + (res.SUE-res.SU*res.SE/nf)/mom.Sxx
+	// (b1 + Σ(d_x − d̄_x)(e − ē)/Sxx: one step of iterative refinement, as
+	// stats.Line refines its own), b0 = ȳ − b·x̄ with both means in two
+	// parts, and the refined line's RSS from the same sums: the residuals
+	// of the refined line are e − ē − (b − b1)·(d_x − d̄_x), so
+	// RSS = Σ(e − ē)² − (Σ(d_x − d̄_x)(e − ē))²/Sxx exactly, and both
+	// terms subtracted are of second order in b − b1 and ē.
+	sue := sums.SXE - sums.D[0]*sums.SE/nf
+	b := b1 + sue/mom.Sxx
+	rss := math.Max(0, (sums.SE2-sums.SE*sums.SE/nf)-sue*sue/mom.Sxx)
 	a := (c.Mean[1] - b*c.Mean[0]) + (lo[1] - b*lo[0])
 	lf := lineFromSums(mom, rss, conf)
 	for _, cf := range []struct {
@@ -278,22 +272,51 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	s.Line = &lf
 	exact("straight line: coefficients, SEs, intervals, residual SD, R², F, AIC", "predictions")
 
+	// The quadratic from the second pass's sums in t = (x − m₁)/QS, QS
+	// the SD of x (a well-scaled basis); its residual sum is the third
+	// pass's.
+	rules := findings.FlagRulesFor(n, cfg.Thresholds)
+	sres := math.NaN()
+	if n > 2 {
+		sres = math.Sqrt(rss / (nf - 2))
+	}
+	fit := dataset.Fit{N: n, MX: c.Mean[0], MY: c.Mean[1], MXLo: lo[0], MYLo: lo[1], B: b,
+		Sxx: mom.Sxx, Syy: mom.Syy, Sxy: mom.Sxy, RSS: rss, S: sres, Outlier: rules.Outlier, Cooks: rules.Cooks, Leverage: rules.Leverage}
+	var quad *quadSolve
+	if n >= 4 {
+		if quad = solveQuadratic(nf, c.Mean[0], c.Mean[1], b1, sums); quad != nil {
+			fit.Quad, fit.QX, fit.QY, fit.Q0, fit.Q1, fit.Q2, fit.QS = true, c.Mean[0], c.Mean[1], quad.c[0], quad.c[1], quad.c[2], quad.qs
+		}
+	}
+
+	// Pass 3: flags, extremes, Breusch–Pagan, trend, the quadratic's
+	// residuals and the density grids, with the refined line.
+	th, err := p.ThirdPass(fit, pushdownGrids(c, mom, sums, spec, len(p.NumCols)), max(cfg.namedMax(), pushdownSuspectMax))
+	if err != nil {
+		return s, err
+	}
 	s.Models = []report.Fit{}
 	d := &report.Diagnostics{QuadraticP: report.NaN(), DurbinWatson: report.NaN(), DurbinWatsonX: report.NaN(), SpreadRho: report.NaN()}
 	if quad != nil && n > 3 {
-		qf := quad.fit(res.SQ2, mom.Syy, conf)
+		qf := quad.fit(th.SQ2, mom.Syy, conf)
 		s.Models = append(s.Models, qf)
 		d.QuadraticP = qf.Coefficients[2].P
 		exact("quadratic: coefficients, SEs, intervals, R², F, AIC, vertex; the curvature test")
 	}
 	omit("log-x, log-y and log-log models", "not fitted when the rows stay in the database (the straight line and the quadratic are)")
-	// Breusch–Pagan (Koenker): n·r² of x with e².
-	ubar := res.SU / nf
-	sue2 := res.SUE2 - ubar*res.SE2
-	se4 := res.SE4 - res.SE2*res.SE2/nf
+	// Breusch–Pagan (Koenker): n·r² of x with e², from the second pass's
+	// sums of its line's residuals e, centred: w = e − ē (the refined
+	// line's residuals are w − (b − b1)·(d_x − d̄_x); the slope's change
+	// enters BP at the order of (b − b1)·SD(x)/s, near the rounding).
+	ebar := sums.SE / nf
+	ubar := sums.D[0] / nf
+	sw2 := sums.SE2 - sums.SE*ebar
+	suw2 := (sums.SXE2 - 2*ebar*sums.SXE + ebar*ebar*sums.D[0]) - ubar*sw2
+	sw4 := sums.SE4 - 4*ebar*sums.SE3 + 6*ebar*ebar*sums.SE2 - 4*ebar*ebar*ebar*sums.SE + nf*ebar*ebar*ebar*ebar
+	se4 := sw4 - sw2*sw2/nf
 	suu := mom.Sxx
 	if se4 > 0 && suu > 0 {
-		r := sue2 / math.Sqrt(suu*se4)
+		r := suw2 / math.Sqrt(suu*se4)
 		stat := nf * r * r
 		d.BreuschPagan = &report.ChiTest{Stat: report.Float(stat), DF: 1, P: report.Float(stats.UpperChi2(stat, 1))}
 	} else {
@@ -308,9 +331,13 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		if rss > 0 {
 			d.DurbinWatson = report.Float(num / rss)
 		}
-		soo := res.SOO - res.SO*res.SO/nf
-		soe := res.SOE - res.SO*res.SE/nf
-		see := res.SE2 - res.SE*res.SE/nf
+		// The trend of the refined line's residuals on the order, exactly
+		// from the second pass's sums: Σ(d_o − d̄_o)·e_refined =
+		// Σ(d_o − d̄_o)(e − ē) − (b − b1)·Σ(d_o − d̄_o)(d_x − d̄_x), and
+		// their sum of squares is the RSS.
+		soo := sums.SOO - sums.SO*sums.SO/nf
+		soe := (sums.SOE - sums.SO*sums.SE/nf) - (b-b1)*(sums.SOX-sums.SO*sums.D[0]/nf)
+		see := rss
 		oc := stats.PearsonMoments(stats.Moments{N: n, Sxx: soo, Syy: see, Sxy: soe}, 0.95)
 		d.OrderTrend = &report.OrderTrend{Slope: report.Float(soe / soo), P: report.Float(oc.P), R: report.Float(oc.R)}
 		exact("Durbin–Watson in run order (averaged over tied orders)", "residual trend in run order")
@@ -331,41 +358,27 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		exact("partial correlations")
 	}
 
-	// Groups.
-	var gs []dataset.GroupSums
+	// Groups, from the first pass.
 	if spec.Group != "" {
-		gs, err = p.Groups(maxLevels)
-		if err != nil {
-			return s, err
-		}
 		s.Groups, s.GroupLines = groupsFromSums(gs, conf)
 		exact("per-group lines", "comparison of the group lines")
 	}
 
-	// Influence: pass 4 counts the flags; the suspect rows are fetched.
-	rules := findings.FlagRulesFor(n, cfg.Thresholds)
-	sres := math.NaN()
-	if n > 2 {
-		sres = math.Sqrt(rss / (nf - 2))
+	// The flagged rows, from the third pass: all of them, when there are
+	// few enough to refit without them, else the named ones.
+	sus := th.Suspects
+	if th.Suspect > len(sus) {
+		sus = sus[:min(len(sus), cfg.namedMax())]
 	}
-	inf := dataset.Influence{N: n, MX: c.Mean[0], MY: c.Mean[1], MXLo: lo[0], MYLo: lo[1], B: b, Sxx: mom.Sxx, Syy: mom.Syy, Sxy: mom.Sxy, RSS: rss, S: sres,
-		Outlier: rules.Outlier, Cooks: rules.Cooks, Leverage: rules.Leverage}
-	fc, err := p.Flags(inf)
+	// Pass 4: the sample and the rows at the leave-one-out extremes.
+	fetched, err := p.Rows(fit, PushdownSample, n, th.LooRMin, th.LooRMax)
 	if err != nil {
 		return s, err
 	}
-	sus, err := p.Suspect(inf, max(cfg.namedMax(), min(fc.Suspect, pushdownSuspectMax)))
-	if err != nil {
-		return s, err
-	}
-	ext, _, err := p.Extremes(inf, fc.LooRMin, fc.LooRMax)
-	if err != nil {
-		return s, err
-	}
-	s.Influence, s.Sensitivity = influenceFromSums(mom, rss, pc, lf, rules, fc, sus, ext, cfg, conf)
+	s.Influence, s.Sensitivity = influenceFromSums(mom, rss, pc, lf, rules, th, sus, fetched.Extremes, cfg, conf)
 	exact("influence: flag counts, named rows and their measures, the largest Cook's distance", "sensitivity: leave-one-out extremes, the line without each named row")
-	if fc.Suspect > len(sus) {
-		omit("r and line without the flagged rows", fmt.Sprintf("%d rows are flagged outlier or influential, more than the %d a study fetches to refit without them", fc.Suspect, pushdownSuspectMax))
+	if th.Suspect > len(sus) {
+		omit("r and line without the flagged rows", fmt.Sprintf("%d rows are flagged outlier or influential, more than the %d a study fetches to refit without them", th.Suspect, pushdownSuspectMax))
 	} else {
 		exact("r and line without the flagged rows")
 	}
@@ -373,11 +386,16 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	omit("robust intervals of the slope and r (HC3, HAC, effective n)", "not computed when the rows stay in the database")
 
 	// The sample, for the figures that need the rows themselves.
-	sn, sg, sid, err := p.Sample(PushdownSample)
-	if err != nil {
-		return s, err
+	info.Sample = len(fetched.Sample)
+	sn := make([][]float64, k)
+	var sg, sid []string
+	for _, r := range fetched.Sample {
+		for i := range k {
+			sn[i] = append(sn[i], r.Num[i])
+		}
+		sg = append(sg, r.Group)
+		sid = append(sid, r.ID)
 	}
-	info.Sample = len(sn[0])
 	sin := Input{ID: s.ID, X: s.X, Y: s.Y, XS: sn[0], YS: sn[1], Rows: dataset.StringsOf(sid), GroupColumn: spec.Group, OrderColumn: spec.Order}
 	if spec.Group != "" {
 		sin.Groups = dataset.StringsOf(sg)
@@ -421,10 +439,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 
 	// Plot: density grids from the database, the band of the exact line,
 	// LOWESS from the sample, the named rows marked.
-	s.Plot, err = pushdownPlot(p, fit, mom, rss, c, res, gs, spec, s.Influence, ss.Plot, cfg, conf)
-	if err != nil {
-		return s, err
-	}
+	s.Plot = pushdownPlot(th, mom, rss, c, gs, spec, s.Influence, ss.Plot, cfg, conf)
 	exact("density grids of the charts")
 	s.Pushdown = info
 	emptyLists(&s)
@@ -444,18 +459,22 @@ type quadSolve struct {
 }
 
 // solveQuadratic solves the normal equations of the quadratic from the
-// second pass's sums about the first pass's means m, my: in the scaled
-// basis 1, t, t² the matrix has entries of order n, so Gauss–Jordan
-// elimination with partial pivoting loses few digits; nil when it is
-// singular (x takes fewer than three values).
-func solveQuadratic(n, m, my float64, s *dataset.Sums) *quadSolve {
+// second pass's sums about the first pass's means m, my, for the first
+// pass's line's residuals e = (y − my) − b1·(x − m): the quadratic of
+// y − my is that of e plus b1·(x − m), and e's right-hand side is small
+// (e is nearly orthogonal to 1 and x), so the solve adds little rounding
+// to the line's part. In the scaled basis 1, t, t² (t = (x − m)/qs) the
+// matrix has entries of order n, so Gauss–Jordan elimination with partial
+// pivoting loses few digits; nil when it is singular (x takes fewer than
+// three values).
+func solveQuadratic(n, m, my, b1 float64, s *dataset.Sums) *quadSolve {
 	qs := math.Sqrt(s.P[0][0] / n)
 	if !(qs > 0) {
 		return nil
 	}
 	st := []float64{n, s.D[0] / qs, s.P[0][0] / (qs * qs), s.X3 / (qs * qs * qs), s.X4 / (qs * qs * qs * qs)}
 	a := [3][3]float64{{st[0], st[1], st[2]}, {st[1], st[2], st[3]}, {st[2], st[3], st[4]}}
-	rhs := [3]float64{s.D[1], s.P[0][1] / qs, s.X2Y / (qs * qs)}
+	rhs := [3]float64{s.SE, s.SXE / qs, s.SX2E / (qs * qs)}
 	inv, ok := invert3(a)
 	if !ok {
 		return nil
@@ -466,6 +485,7 @@ func solveQuadratic(n, m, my float64, s *dataset.Sums) *quadSolve {
 			q.c[i] += inv[i][j] * rhs[j]
 		}
 	}
+	q.c[1] += b1 * qs
 	// Raw coefficients: y = my + c0 + c1(x − m)/qs + c2(x − m)²/qs².
 	tm := [3][3]float64{
 		{1, -m / qs, m * m / (qs * qs)},
@@ -793,7 +813,7 @@ func rowInfluence(m stats.Moments, rss float64, x, y float64) stats.InfluenceRow
 
 // influenceFromSums fills the influence summary and the sensitivity
 // figures from the database's counts and the rows it returned.
-func influenceFromSums(m stats.Moments, rss float64, all stats.Correlation, line report.Fit, rules findings.FlagRules, fc *dataset.FlagCounts,
+func influenceFromSums(m stats.Moments, rss float64, all stats.Correlation, line report.Fit, rules findings.FlagRules, fc *dataset.Third,
 	sus, ext []dataset.Row, cfg Config, conf float64) (*report.Influence, *report.Sensitivity) {
 	namedMax := cfg.namedMax()
 	in := &report.Influence{MaxCooksD: report.NaN(), NamedMax: namedMax, Ranking: ranking,
@@ -825,7 +845,7 @@ func influenceFromSums(m stats.Moments, rss float64, all stats.Correlation, line
 	in.Points = []report.Point{}
 	for _, r := range sus {
 		ri := rowInfluence(m, rss, r.X, r.Y)
-		if in.MaxCooksRow == "" && ri.CooksD == fc.MaxD {
+		if in.MaxCooksRow == "" && (ri.CooksD == fc.MaxD || r.D == fc.MaxD) {
 			in.MaxCooksRow = pushedRowName(r)
 		}
 		if len(in.Points) == namedMax {
@@ -946,17 +966,11 @@ func pushdownApproximations(k, n int, cfg Config) []report.Approximation {
 	}
 }
 
-// pushdownPlot is plotData from the database: density grids at every n.
-func pushdownPlot(p *dataset.Prepared, fit dataset.Fit, m stats.Moments, rss float64, c *dataset.Counts, res *dataset.Residuals, gs []dataset.GroupSums,
-	spec dataset.Spec, inf *report.Influence, sp *report.Plot, cfg Config, conf float64) (*report.Plot, error) {
-	pl := &report.Plot{N: m.N}
-	if spec.Group != "" {
-		for _, g := range gs {
-			pl.Levels = append(pl.Levels, g.Level)
-			pl.LevelCounts = append(pl.LevelCounts, g.N)
-			pl.LevelXMin, pl.LevelXMax = append(pl.LevelXMin, g.XMin), append(pl.LevelXMax, g.XMax)
-		}
-	}
+// pushdownGrids are the density grids' cells: y on x over the ranges of x
+// and y, the residual on the fitted value over the second pass's residual
+// range and, with a run order (the last numeric column), the residual on
+// the order.
+func pushdownGrids(c *dataset.Counts, m stats.Moments, sums *dataset.Sums, spec dataset.Spec, k int) [3]dataset.Grid {
 	widen := func(lo, hi float64) (float64, float64) {
 		if !(hi > lo) {
 			return lo - 0.5, lo + 0.5
@@ -971,24 +985,34 @@ func pushdownPlot(p *dataset.Prepared, fit dataset.Fit, m stats.Moments, rss flo
 	g[0].YLo, g[0].YHi = widen(c.Min[1], c.Max[1])
 	g[1] = dataset.Grid{NX: gridNX, NY: gridNY}
 	g[1].XLo, g[1].XHi = widen(min(f0, f1), max(f0, f1))
-	g[1].YLo, g[1].YHi = widen(res.EMin, res.EMax)
+	g[1].YLo, g[1].YHi = widen(sums.EMin, sums.EMax)
 	if spec.Order != "" {
-		o := len(p.NumCols) - 1
 		g[2] = dataset.Grid{NX: gridNX, NY: gridNY}
-		g[2].XLo, g[2].XHi = widen(c.Min[o], c.Max[o])
+		g[2].XLo, g[2].XHi = widen(c.Min[k-1], c.Max[k-1])
 		g[2].YLo, g[2].YHi = g[1].YLo, g[1].YHi
 	}
-	grids, err := p.Grids(fit, g)
-	if err != nil {
-		return nil, err
+	return g
+}
+
+// pushdownPlot is plotData from the database: density grids at every n.
+func pushdownPlot(th *dataset.Third, m stats.Moments, rss float64, c *dataset.Counts, gs []dataset.GroupSums,
+	spec dataset.Spec, inf *report.Influence, sp *report.Plot, cfg Config, conf float64) *report.Plot {
+	pl := &report.Plot{N: m.N}
+	if spec.Group != "" {
+		for _, g := range gs {
+			pl.Levels = append(pl.Levels, g.Level)
+			pl.LevelCounts = append(pl.LevelCounts, g.N)
+			pl.LevelXMin, pl.LevelXMax = append(pl.LevelXMin, g.XMin), append(pl.LevelXMax, g.XMax)
+		}
 	}
+	b := m.Sxy / m.Sxx
 	conv := func(d *dataset.Grid) *report.Grid {
 		if d == nil {
 			return nil
 		}
 		return &report.Grid{XLo: d.XLo, XHi: d.XHi, YLo: d.YLo, YHi: d.YHi, NX: d.NX, NY: d.NY, Counts: d.Counts}
 	}
-	pl.Scatter, pl.ResidFitted, pl.ResidOrder = conv(grids[0]), conv(grids[1]), conv(grids[2])
+	pl.Scatter, pl.ResidFitted, pl.ResidOrder = conv(th.Grids[0]), conv(th.Grids[1]), conv(th.Grids[2])
 	lo, hi := c.Min[0], c.Max[0]
 	k := cfg.BandPoints
 	pl.Band = make([]report.BandPoint, k)
@@ -1008,5 +1032,5 @@ func pushdownPlot(p *dataset.Prepared, fit dataset.Fit, m stats.Moments, rss flo
 		f := m.MeanY + b*(x-m.MeanX)
 		pl.Marked = append(pl.Marked, report.Marked{Row: pt.Row, X: x, Y: y, Fitted: f, Residual: y - f, Order: math.NaN(), Label: i < report.LabelMax})
 	}
-	return pl, nil
+	return pl
 }

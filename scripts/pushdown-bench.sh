@@ -3,7 +3,10 @@
 # set to 1000):
 # bivar's wall time and peak resident memory (/usr/bin/time -v) against the
 # database's own scan of the same table (SELECT count(*), psql's \timing),
-# medians of three runs each. The table is the 10⁷-row one of
+# medians of three runs each, and, when the server's log is where
+# scripts/pg-test.sh puts it, the server's time for each statement bivar
+# sent (log_min_duration_statement, median of the three runs). The table
+# is the 10⁷-row one of
 # analysis/pushdown_pg_test.go (bigTableSQL, the same statement), built
 # in the database by generate_series.
 #
@@ -51,12 +54,35 @@ for i in 1 2 3; do
 	ms=$(psql "$BIVAR_TEST_PG_URL" -X -q -c '\timing on' -c 'SELECT count(*) FROM pdbench' | sed -n 's/^Time: \([0-9.]*\) ms.*/\1/p')
 	scan+=("$(awk -v m="$ms" 'BEGIN {printf "%.2f", m / 1000}')")
 done
-wall=() rss=()
+# The server's log under scripts/pg-test.sh: server.log in the socket's folder.
+host=$(printf '%s' "$BIVAR_TEST_PG_URL" | sed -n 's/.*[?&]host=\([^&]*\).*/\1/p')
+log=""
+if [ -n "$host" ] && [ -r "$host/server.log" ]; then
+	log="$host/server.log"
+	export PGOPTIONS="-c log_min_duration_statement=0"
+fi
+wall=() rss=() logs=()
 for i in 1 2 3; do
+	from=0
+	[ -z "$log" ] || from=$(stat -c %s "$log")
 	/usr/bin/time -v -o "$tmp/time.txt" "$tmp/bivar" run -o "$tmp/out" "$tmp/m.toml" >/dev/null 2>"$tmp/err.txt" || { cat "$tmp/err.txt" >&2; exit 1; }
+	[ -z "$log" ] || { tail -c +"$((from + 1))" "$log" >"$tmp/log$i.txt"; logs+=("$tmp/log$i.txt"); }
 	wall+=("$(awk -F': ' '/Elapsed \(wall clock\)/ {n = split($2, p, ":"); s = 0; for (k = 1; k <= n; k++) s = s * 60 + p[k]; printf "%.2f", s}' "$tmp/time.txt")")
 	rss+=("$(awk -F': ' '/Maximum resident set size/ {printf "%.1f", $2 / 1024}' "$tmp/time.txt")")
 done
 echo "rows: $rows"
 echo "database scan, SELECT count(*): median $(printf '%s\n' "${scan[@]}" | median) s (runs: ${scan[*]})"
 echo "bivar run, pushed down: median $(printf '%s\n' "${wall[@]}" | median) s (runs: ${wall[*]}), peak RSS median $(printf '%s\n' "${rss[@]}" | median) MB (runs: ${rss[*]})"
+if [ -n "$log" ]; then
+	echo "server time per statement (median of the runs, ms), in the order bivar sent them:"
+	/usr/bin/python3 - "${logs[@]}" <<'PY'
+import re, statistics, sys
+runs = []
+for name in sys.argv[1:]:
+    text = open(name, errors="replace").read()
+    runs.append([(float(m.group(1)), " ".join(m.group(2).split())[:70])
+                 for m in re.finditer(r"duration: ([0-9.]+) ms  execute [^:]*: (.*?)(?=\n\S|\Z)", text, re.S)])
+for k in range(min(len(r) for r in runs)):
+    print("%10.1f  %s" % (statistics.median(r[k][0] for r in runs), runs[0][k][1]))
+PY
+fi

@@ -4,29 +4,48 @@ package dataset
 // without fetching the rows: the database sums, bivar solves. Every
 // statement is plain SQL that PostgreSQL runs without an extension or a
 // function of ours (aggregates with FILTER, GROUP BY, GROUPING SETS, the
-// window function lag(), ORDER BY … LIMIT, md5() of a row's text), so the
-// same statements run where a plant's data have outgrown one server.
+// window function lag(), built-in hash functions), so the same statements
+// run where a plant's data have outgrown one server.
 //
-// Numerics. Sums of squares and products are formed in two passes: the
-// means first (AVG), then the sums of products of deviations from those
-// means, with the sums of the deviations themselves, which correct for
-// the rounding of the first pass (the "corrected two-pass algorithm" of
-// Chan, Golub & LeVeque, "Algorithms for computing the sample variance",
-// The American Statistician 37(3), 1983). Deviations are formed before
-// they are multiplied, so no large squares cancel; the error is that of
-// adding n terms of one sign. The third and fourth powers the quadratic
-// needs have no aggregate of their own in PostgreSQL, which is why the
-// two passes are written out rather than read from regr_sxx and its kin.
-// The one place a built-in aggregate's numerics matter is the within-block
-// sum of squares of the Durbin–Watson statistic with tied run orders,
-// var_pop(e)·count: PostgreSQL's float8 variance aggregates update their
-// state by the algorithm of Youngs and Cramer (float8_accum in
+// A study takes five statements, each one scan of the query's rows (the
+// dataset's hash, Fingerprint, one more for all studies of the dataset):
+//
+//  1. First: per group level, the counts, minima and maxima, and the
+//     means and centred sums of x and y by PostgreSQL's own float8
+//     regression aggregates (regr_avgx, regr_sxx, regr_sxy and kin);
+//  2. Second: sums of deviations from the first pass's means, of their
+//     products and powers, and of the line's residuals e and their
+//     powers (the refined line, its RSS, the quadratic, Breusch–Pagan and
+//     the trend in run order follow from them);
+//  3. ThirdPass: the flags and the flagged rows, the largest Cook's
+//     distance, the leave-one-out extremes, the quadratic's residual sum
+//     and the density grids, with the refined line;
+//  4. Rows: the sample (by a hash of each row) and the rows of the
+//     leave-one-out extremes;
+//  5. with a run order, the Durbin–Watson numerator: the rows grouped by
+//     run order, the blocks sorted (DurbinWatsonNumerator).
+//
+// Numerics. The regression aggregates update their state by the algorithm
+// of Youngs and Cramer (float8_regr_accum in
 // src/backend/utils/adt/float.c, "Use the Youngs-Cramer algorithm to
-// incorporate the new value into the transition values", since
-// PostgreSQL 12), an updating form that is stable against cancellation
-// (Chan, Golub & LeVeque 1983, §3).
+// incorporate the new value into the transition values", since PostgreSQL
+// 12; parallel partial states are merged by float8_regr_combine with the
+// pairwise formulas of Chan, Golub & LeVeque, "Algorithms for computing
+// the sample variance", The American Statistician 37(3), 1983): an
+// updating form whose error grows with n·κ·u rather than the n·κ²·u of
+// the textbook one-pass sums (Chan et al. 1983, §3). They give the
+// first pass's means and slope, from which the second pass forms
+// deviations and residuals before it multiplies them, so no large
+// squares cancel; the second pass's sums of the deviations themselves
+// correct for the rounding of the first pass's means (the "corrected
+// two-pass algorithm", Chan et al. 1983), and its sums of x's deviations
+// times the residuals refine the slope (one step of iterative
+// refinement). The within-block sums of squares of the Durbin–Watson
+// statistic come from var_pop, whose float8_accum is the same
+// Youngs–Cramer update.
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"math"
@@ -50,6 +69,7 @@ type Session struct {
 	timeout time.Duration
 	inner   string
 	kinds   map[string]pgKind
+	oids    []uint32 // type of each result column, Names order
 	// Names are the result's columns, ServerVersion the server's version.
 	Names         []string
 	ServerVersion string
@@ -58,9 +78,26 @@ type Session struct {
 }
 
 // sessionStatements bounds the statements of a Session (a study runs
-// fourteen at most), each under the statement timeout: the session lasts
+// eight at most), each under the statement timeout: the session lasts
 // at most this many timeouts.
-const sessionStatements = 16
+const sessionStatements = 12
+
+// sessionSettings are the settings of a push-down session, for this
+// transaction only:
+//   - no parallel workers: PostgreSQL plans the derived tables of the
+//     passes (each ends in OFFSET 0, see fence) with a Gather right above
+//     the table scan, so every row crosses from a worker to the leader,
+//     which then computes and sums alone: on 10⁶ rows that took longer
+//     than one process doing all (measured by scripts/pushdown-bench.sh on
+//     PostgreSQL 15). One process also sums the rows in one order, so a
+//     rerun gives the same figures to the last digit;
+//   - work_mem of 256 MB, so that the run-order pass groups and sorts the
+//     blocks of tied orders in memory up to about 10⁶ distinct orders
+//     (180 MB of hash table, 95 MB to sort, measured on PostgreSQL 15);
+//     PostgreSQL's default, 4 MB, spills to disk at 10⁵, and 64 MB at
+//     10⁶ took twice as long. The other passes group into a few thousand
+//     cells and use little of it.
+var sessionSettings = []string{"SET LOCAL max_parallel_workers_per_gather = 0", "SET LOCAL work_mem = '256MB'"}
 
 // Open starts a Session on q. Each statement runs under q's statement
 // timeout; the session as a whole under sessionStatements of them.
@@ -75,6 +112,12 @@ func Open(ctx context.Context, q Query) (*Session, error) {
 	}
 	s := &Session{q: q, conn: conn, tx: tx, ctx: ctx, cancel: cancel, timeout: timeout, inner: q.inner(), kinds: map[string]pgKind{},
 		ServerVersion: conn.PgConn().ParameterStatus("server_version")}
+	for _, set := range sessionSettings {
+		if _, err := tx.Exec(ctx, set); err != nil {
+			s.Close()
+			return nil, q.err("setting up the session (%s): %v", set, unwrapAll(err))
+		}
+	}
 	desc, err := tx.Prepare(ctx, "", "SELECT * FROM ("+s.inner+"\n) AS bivar_q LIMIT 0")
 	if err != nil {
 		s.Close()
@@ -82,6 +125,7 @@ func Open(ctx context.Context, q Query) (*Session, error) {
 	}
 	for _, f := range desc.Fields {
 		s.Names = append(s.Names, f.Name)
+		s.oids = append(s.oids, f.DataTypeOID)
 		s.kinds[f.Name] = pgKinds[f.DataTypeOID]
 	}
 	return s, nil
@@ -102,28 +146,40 @@ func (s *Session) what() string {
 	return "the query"
 }
 
-// rows runs one statement in the session and returns its rows' values
-// (read them with Num and Text); it is the only way statements reach the
-// server, and it records each in Statements.
-func (s *Session) rows(stmt string, args ...any) ([][]any, error) {
+// each runs one statement in the session and hands each row's values to
+// fn as they arrive (read them with Num and Text; fn must not keep the
+// slice); it is the only way statements reach the server, and it records
+// each in Statements.
+func (s *Session) each(stmt string, fn func(v []any) error) error {
 	s.Statements = append(s.Statements, stmt)
-	rs, err := s.tx.Query(s.ctx, stmt, args...)
+	rs, err := s.tx.Query(s.ctx, stmt)
 	if err != nil {
-		return nil, s.q.queryError(s.what(), err, s.timeout)
+		return s.q.queryError(s.what(), err, s.timeout)
 	}
 	defer rs.Close()
-	var out [][]any
 	for rs.Next() {
 		v, err := rs.Values()
 		if err != nil {
-			return nil, s.q.queryError(s.what(), err, s.timeout)
+			return s.q.queryError(s.what(), err, s.timeout)
 		}
-		out = append(out, v)
+		if err := fn(v); err != nil {
+			return err
+		}
 	}
 	if err := rs.Err(); err != nil {
-		return nil, s.q.queryError(s.what(), err, s.timeout)
+		return s.q.queryError(s.what(), err, s.timeout)
 	}
-	return out, nil
+	return nil
+}
+
+// rows runs one statement and returns all its rows' values.
+func (s *Session) rows(stmt string) ([][]any, error) {
+	var out [][]any
+	err := s.each(stmt, func(v []any) error {
+		out = append(out, slices.Clone(v))
+		return nil
+	})
+	return out, err
 }
 
 // Num reads a numeric result cell: NaN for NULL.
@@ -156,6 +212,14 @@ func Text(v any) string {
 	return fmt.Sprint(v)
 }
 
+// int64Of reads a bigint result cell.
+func int64Of(v any) int64 {
+	if a, ok := v.(int64); ok {
+		return a
+	}
+	return int64(Num(v))
+}
+
 // OverLimit says whether q gives more than limit rows, reading at most
 // limit+1 of them on the server (nothing is fetched).
 func OverLimit(ctx context.Context, q Query, limit int) (bool, error) {
@@ -172,13 +236,68 @@ func OverLimit(ctx context.Context, q Query, limit int) (bool, error) {
 }
 
 // FingerprintMethod says how Fingerprint identifies the rows, for the report.
-const FingerprintMethod = "rows left in the database (more than max_rows): the count of rows and the sum, as an exact numeric, of the first 60 bits of the MD5 of each row's text (PostgreSQL's row-to-text output, UTC, ISO dates), computed by the server; the SHA-256 is over the text \"count sum\". Order-free: the same set of rows gives the same hash in any order"
+const FingerprintMethod = "rows left in the database (more than max_rows): the count of rows and the exact sum of a 64-bit hash of each row, computed by the server; the SHA-256 is over the text \"count sum\". A row's hash is the exclusive or of its cells' hashes by PostgreSQL's built-in hash functions (hashfloat8extended, hashint8extended, hash_numeric_extended, timestamp_hash_extended, hashtextextended on text in the C collation, …), each seeded by the column's position, a NULL cell hashing to that position. Order-free: the same set of rows gives the same hash in any order; the hash functions are those PostgreSQL's hash partitioning relies on, the same from PostgreSQL 11 on and on every little-endian server"
+
+// colHash is the SQL of the 64-bit hash of cell c, of the type oid, seeded
+// by seed: the built-in hash function of the type's hash operator class
+// (pg_amproc), after a cast where the function is declared on another
+// type; text in the C collation, so that no collation of the server
+// enters; a type without one of these hashes its text.
+func colHash(oid uint32, c, seed string) string {
+	switch oid {
+	case 701: // float8
+		return "hashfloat8extended(" + c + ", " + seed + ")"
+	case 700: // float4
+		return "hashfloat4extended(" + c + ", " + seed + ")"
+	case 20: // int8
+		return "hashint8extended(" + c + ", " + seed + ")"
+	case 23: // int4
+		return "hashint4extended(" + c + ", " + seed + ")"
+	case 21: // int2
+		return "hashint2extended(" + c + ", " + seed + ")"
+	case 26: // oid
+		return "hashoidextended(" + c + ", " + seed + ")"
+	case 1700: // numeric
+		return "hash_numeric_extended(" + c + ", " + seed + ")"
+	case 16: // bool
+		return "hashint4extended(CAST(" + c + " AS integer), " + seed + ")"
+	case 1082: // date: days since 2000-01-01, as the type stores it
+		return "hashint4extended(" + c + " - DATE '2000-01-01', " + seed + ")"
+	case 1114: // timestamp
+		return "timestamp_hash_extended(" + c + ", " + seed + ")"
+	case 1184: // timestamptz, as a UTC timestamp (the session's time zone)
+		return "timestamp_hash_extended(CAST(" + c + " AS timestamp), " + seed + ")"
+	}
+	return "hashtextextended(CAST(" + c + " AS text) COLLATE \"C\", " + seed + ")"
+}
+
+// rowHash is the SQL of a row's 64-bit hash (FingerprintMethod) over the
+// result's columns in bivar_q; with two result columns of one name, which
+// SQL cannot tell apart, the hash of the row's text.
+func (s *Session) rowHash() string {
+	seen := map[string]bool{}
+	for _, n := range s.Names {
+		if seen[n] {
+			return "hashtextextended(CAST(bivar_q AS text), 0)"
+		}
+		seen[n] = true
+	}
+	if len(s.Names) == 0 {
+		return "CAST(0 AS bigint)"
+	}
+	parts := make([]string, len(s.Names))
+	for i, n := range s.Names {
+		seed := strconv.Itoa(i + 1)
+		parts[i] = "coalesce(" + colHash(s.oids[i], "bivar_q."+pgx.Identifier{n}.Sanitize(), seed) + ", " + seed + ")"
+	}
+	return "(" + strings.Join(parts, " # ") + ")"
+}
 
 // Fingerprint counts the rows and sums a hash of each, on the server
 // (FingerprintMethod), and counts the NULL cells of each column of cols
 // that the result has (-1 for one it lacks).
 func (s *Session) Fingerprint(cols []string) (rows int, text string, missing []int, err error) {
-	sel := []string{"count(*)", "coalesce(sum(('x' || left(md5(CAST(bivar_q AS text)), 15))::bit(60)::bigint::numeric), 0)::text"}
+	sel := []string{"count(*)", "coalesce(sum(" + s.rowHash() + "), 0)::text"}
 	for _, c := range cols {
 		if slices.Contains(s.Names, c) {
 			sel = append(sel, "count(*) - count(bivar_q."+pgx.Identifier{c}.Sanitize()+")")
@@ -230,27 +349,29 @@ func (s *Session) numExpr(col string) (string, error) {
 	return "", &Error{File: s.q.err("").File, Column: col, Msg: "the column's type is not one bivar reads: cast it in the query to a number (::double precision), a timestamp or text (::text)"}
 }
 
-// textExpr is the SQL of a text column, NULL where missing.
-func (s *Session) textExpr(col string, missing []string) (string, error) {
+// textExpr is the SQL of a text column as it is stored (missing cells are
+// told in Go, by isMissing).
+func (s *Session) textExpr(col string) (string, error) {
 	if !slices.Contains(s.Names, col) {
 		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the result has no such column: correct the study or the query"}
 	}
-	id := "CAST(bivar_q." + pgx.Identifier{col}.Sanitize() + " AS text)"
-	if len(missing) == 0 {
-		return id, nil
+	return "CAST(bivar_q." + pgx.Identifier{col}.Sanitize() + " AS text)", nil
+}
+
+// isMissing says whether a text cell is missing: NULL, or one of the
+// missing tokens after trimming spaces (as PostgreSQL's btrim does).
+func isMissing(v any, missing []string) bool {
+	if v == nil {
+		return true
 	}
-	lits := make([]string, len(missing))
-	for i, m := range missing {
-		lits[i] = "'" + strings.ReplaceAll(m, "'", "''") + "'"
-	}
-	return "CASE WHEN btrim(" + id + ") IN (" + strings.Join(lits, ", ") + ") THEN NULL ELSE " + id + " END", nil
+	return slices.Contains(missing, strings.Trim(Text(v), " "))
 }
 
 // fence ends a derived table whose computed columns several expressions
 // read: PostgreSQL's planner otherwise merges the subquery into the outer
 // query and evaluates a column's expression once for every reference to it
 // (OFFSET 0 is standard SQL, and PostgreSQL does not merge a subquery that
-// has one). On 10⁶ rows it makes the residual pass three times faster.
+// has one; a zero offset does not keep the planner from parallel plans).
 const fence = " OFFSET 0"
 
 // finite is the SQL test that a double precision value is a number:
@@ -258,28 +379,40 @@ const fence = " OFFSET 0"
 // and −Infinity all fail it, and NULL gives NULL.
 func finite(e string) string { return "abs(" + e + ") < 'Infinity'::float8" }
 
-// Prepared is a study's rows as SQL: All reads every row of the query with
-// the study's columns named x, y, c0…, g, o, id; Complete only its
-// complete cases.
+// lit writes a float64 as an SQL double precision literal that reads back
+// to the same value.
+func lit(v float64) string {
+	return "CAST('" + strconv.FormatFloat(v, 'g', -1, 64) + "' AS double precision)"
+}
+
+// textLit writes an SQL string literal.
+func textLit(v string) string { return "'" + strings.ReplaceAll(v, "'", "''") + "'" }
+
+// Prepared is a study's rows as SQL. Its numeric columns are named x, y,
+// c0… (the covariates) and o (the run order) in NumCols order; the group
+// is g and the id is id, both as stored, text.
 type Prepared struct {
-	s        *Session
-	spec     Spec
-	All      string
-	Complete string
-	NumCols  []string // SQL names of the numeric columns: x, y, c0…, o
-	Names    []string // their column names in the query's result
+	s       *Session
+	spec    Spec
+	num     []string // SQL of each numeric column over bivar_q, NumCols order
+	group   string   // SQL of the group over bivar_q, "" without one
+	id      string   // SQL of the id over bivar_q, "" without one
+	NumCols []string // SQL names of the numeric columns: x, y, c0…, o
+	Names   []string // their column names in the query's result
+	// gNot lists the stored group values that are missing tokens (after
+	// trimming), found by First: the later passes leave their rows out.
+	gNot []string
 }
 
 // Prepare builds the study's row sources.
 func (s *Session) Prepare(spec Spec) (*Prepared, error) {
 	p := &Prepared{s: s, spec: spec}
-	var sel []string
 	add := func(col, as string) error {
 		e, err := s.numExpr(col)
 		if err != nil {
 			return err
 		}
-		sel = append(sel, e+" AS "+as)
+		p.num = append(p.num, e)
 		p.NumCols = append(p.NumCols, as)
 		p.Names = append(p.Names, col)
 		return nil
@@ -300,30 +433,69 @@ func (s *Session) Prepare(spec Spec) (*Prepared, error) {
 			return nil, err
 		}
 	}
+	if spec.Group != "" {
+		e, err := s.textExpr(spec.Group)
+		if err != nil {
+			return nil, err
+		}
+		p.group = e
+	}
+	if spec.ID != "" {
+		e, err := s.textExpr(spec.ID)
+		if err != nil {
+			return nil, err
+		}
+		p.id = e
+	}
+	return p, nil
+}
+
+// from is the FROM clause of the query's rows.
+func (p *Prepared) from() string { return " FROM (" + p.s.inner + "\n) AS bivar_q" }
+
+// cols is the SELECT list of the study's columns under their SQL names
+// (the id only when withID).
+func (p *Prepared) cols(withID bool) string {
+	var sel []string
+	for i, c := range p.num {
+		sel = append(sel, c+" AS "+p.NumCols[i])
+	}
+	if p.group != "" {
+		sel = append(sel, p.group+" AS g")
+	}
+	if withID && p.id != "" {
+		sel = append(sel, p.id+" AS id")
+	}
+	return strings.Join(sel, ", ")
+}
+
+// complete is the SQL condition, over bivar_q, that a row is a complete
+// case: every numeric column finite, the group neither NULL nor missing.
+func (p *Prepared) complete() string {
 	var cond []string
-	for _, c := range p.NumCols {
+	for _, c := range p.num {
 		cond = append(cond, finite(c))
 	}
-	if spec.Group != "" {
-		e, err := s.textExpr(spec.Group, spec.Missing)
-		if err != nil {
-			return nil, err
+	if p.group != "" {
+		cond = append(cond, p.group+" IS NOT NULL")
+		if len(p.gNot) > 0 {
+			lits := make([]string, len(p.gNot))
+			for i, v := range p.gNot {
+				lits[i] = textLit(v)
+			}
+			cond = append(cond, p.group+" NOT IN ("+strings.Join(lits, ", ")+")")
 		}
-		sel = append(sel, e+" AS g")
-		cond = append(cond, "g IS NOT NULL")
 	}
-	id := "CAST(NULL AS text)"
-	if spec.ID != "" {
-		e, err := s.textExpr(spec.ID, spec.Missing)
-		if err != nil {
-			return nil, err
-		}
-		id = e
+	return strings.Join(cond, " AND ")
+}
+
+// numericOK is the SQL condition that every numeric column is finite.
+func (p *Prepared) numericOK() string {
+	var cond []string
+	for _, c := range p.num {
+		cond = append(cond, finite(c))
 	}
-	sel = append(sel, id+" AS id")
-	p.All = "(SELECT " + strings.Join(sel, ", ") + " FROM (" + s.inner + "\n) AS bivar_q" + fence + ") AS bivar_r"
-	p.Complete = "(SELECT * FROM " + p.All + " WHERE " + strings.Join(cond, " AND ") + ") AS bivar_c"
-	return p, nil
+	return strings.Join(cond, " AND ")
 }
 
 // Counts are a study's row counts over every row of the query.
@@ -334,312 +506,12 @@ type Counts struct {
 	// rows whose group is NULL or a missing token.
 	Missing, NonNumeric []int
 	GroupMissing        int
-	// Mean, Min and Max of each numeric column over the complete cases.
+	// Mean, Min and Max of each numeric column over the complete cases:
+	// the means are the first pass's (see Moments for the corrected ones).
 	Mean, Min, Max []float64
-}
-
-// Counts runs the first pass.
-func (p *Prepared) Counts() (*Counts, error) {
-	var sel []string
-	sel = append(sel, "count(*)", "count(*) FILTER (WHERE bivar_ok)")
-	for _, c := range p.NumCols {
-		sel = append(sel, "count(*) FILTER (WHERE "+c+" IS NULL)", "count(*) FILTER (WHERE "+c+" IS NOT NULL AND NOT "+finite(c)+")")
-	}
-	if p.spec.Group != "" {
-		sel = append(sel, "count(*) FILTER (WHERE g IS NULL)")
-	}
-	for _, c := range p.NumCols {
-		f := " FILTER (WHERE bivar_ok)"
-		sel = append(sel, "avg("+c+")"+f, "min("+c+")"+f, "max("+c+")"+f)
-	}
-	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT *, " + p.completeCond() + " AS bivar_ok FROM " + p.All + fence + ") AS bivar_k")
-	if err != nil {
-		return nil, err
-	}
-	v := r[0]
-	c := &Counts{Rows: int(Num(v[0])), Complete: int(Num(v[1]))}
-	k := 2
-	for range p.NumCols {
-		c.Missing = append(c.Missing, int(Num(v[k])))
-		c.NonNumeric = append(c.NonNumeric, int(Num(v[k+1])))
-		k += 2
-	}
-	if p.spec.Group != "" {
-		c.GroupMissing = int(Num(v[k]))
-		k++
-	}
-	for range p.NumCols {
-		c.Mean = append(c.Mean, Num(v[k]))
-		c.Min = append(c.Min, Num(v[k+1]))
-		c.Max = append(c.Max, Num(v[k+2]))
-		k += 3
-	}
-	return c, nil
-}
-
-func (p *Prepared) completeCond() string {
-	var cond []string
-	for _, c := range p.NumCols {
-		cond = append(cond, finite(c))
-	}
-	if p.spec.Group != "" {
-		cond = append(cond, "g IS NOT NULL")
-	}
-	return strings.Join(cond, " AND ")
-}
-
-// lit writes a float64 as an SQL double precision literal that reads back
-// to the same value.
-func lit(v float64) string {
-	return "CAST('" + strconv.FormatFloat(v, 'g', -1, 64) + "' AS double precision)"
-}
-
-// Sums are the second pass: sums of products of deviations from the
-// first pass's means, d_c = c − mean_c, over the complete cases.
-type Sums struct {
-	// D[i] = Σ d_i; P[i][j] = Σ d_i·d_j (NumCols order).
-	D []float64
-	P [][]float64
-	// X3 = Σ d_x³, X4 = Σ d_x⁴, X2Y = Σ d_x²·d_y.
-	X3, X4, X2Y float64
-}
-
-// Sums runs the second pass with the means of c.
-func (p *Prepared) Sums(mean []float64) (*Sums, error) {
-	k := len(p.NumCols)
-	dev := make([]string, k)
-	var devSel []string
-	for i, c := range p.NumCols {
-		dev[i] = "d" + strconv.Itoa(i)
-		devSel = append(devSel, "("+c+" - "+lit(mean[i])+") AS "+dev[i])
-	}
-	var sel []string
-	for i := range k {
-		sel = append(sel, "sum("+dev[i]+")")
-	}
-	for i := range k {
-		for j := i; j < k; j++ {
-			sel = append(sel, "sum("+dev[i]+" * "+dev[j]+")")
-		}
-	}
-	sel = append(sel, "sum("+dev[0]+" * "+dev[0]+" * "+dev[0]+")", "sum(("+dev[0]+" * "+dev[0]+") * ("+dev[0]+" * "+dev[0]+"))",
-		"sum("+dev[0]+" * "+dev[0]+" * "+dev[1]+")")
-	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(devSel, ", ") + " FROM " + p.Complete + fence + ") AS bivar_d")
-	if err != nil {
-		return nil, err
-	}
-	v := r[0]
-	s := &Sums{D: make([]float64, k), P: make([][]float64, k)}
-	n := 0
-	for i := range k {
-		s.D[i] = Num(v[n])
-		n++
-		s.P[i] = make([]float64, k)
-	}
-	for i := range k {
-		for j := i; j < k; j++ {
-			s.P[i][j] = Num(v[n])
-			s.P[j][i] = s.P[i][j]
-			n++
-		}
-	}
-	s.X3, s.X4, s.X2Y = Num(v[n]), Num(v[n+1]), Num(v[n+2])
-	return s, nil
-}
-
-// Fit is a fitted line and quadratic as SQL can evaluate them: the line's
-// residual e = (y − MY) − B·(x − MX); the quadratic's residual
-// (y − QY) − (Q0 + Q1·t + Q2·t²) with t = (x − QX)/QS.
-type Fit struct {
-	MX, MY, B  float64
-	MXLo, MYLo float64 // low parts of the means: deviations are (x − MX) − MXLo
-
-	QX, QY, Q0, Q1, Q2, QS float64
-	Quad                   bool
-	MO                     float64 // mean of the run order, when the study has one
-}
-
-func (f Fit) resid() string {
-	return "(((y - " + lit(f.MY) + ") - " + lit(f.MYLo) + ") - " + lit(f.B) + " * ((x - " + lit(f.MX) + ") - " + lit(f.MXLo) + "))"
-}
-
-// Residuals are the third pass: sums over the line's residuals e.
-type Residuals struct {
-	SE, SE2, SE4 float64 // Σe, Σe², Σe⁴
-	SUE2         float64 // Σ(x − MX)·e²
-	SU           float64 // Σ(x − MX)
-	SUE          float64 // Σ(x − MX)·e: the slope's refinement (b + SUE/Sxx)
-	SQ2          float64 // Σ of the quadratic's squared residuals
-	SOE, SO, SOO float64 // Σ(o − MO)·e, Σ(o − MO), Σ(o − MO)² (run order)
-	EMin, EMax   float64
-}
-
-// Residuals runs the third pass.
-func (p *Prepared) Residuals(f Fit) (*Residuals, error) {
-	e := f.resid()
-	u := "u"
-	sel := []string{"sum(e)", "sum(e * e)", "sum((e * e) * (e * e))", "sum(" + u + " * (e * e))", "sum(" + u + ")", "min(e)", "max(e)", "sum(" + u + " * e)"}
-	if f.Quad {
-		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
-		q := "((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + ")))"
-		sel = append(sel, "sum("+q+" * "+q+")")
-	} else {
-		sel = append(sel, "CAST(NULL AS double precision)")
-	}
-	if p.spec.Order != "" {
-		o := "(o - " + lit(f.MO) + ")"
-		sel = append(sel, "sum("+o+" * e)", "sum("+o+")", "sum("+o+" * "+o+")")
-	}
-	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT *, " + e + " AS e, ((x - " + lit(f.MX) + ") - " + lit(f.MXLo) + ") AS u FROM " + p.Complete + fence + ") AS bivar_e")
-	if err != nil {
-		return nil, err
-	}
-	v := r[0]
-	out := &Residuals{SE: Num(v[0]), SE2: Num(v[1]), SE4: Num(v[2]), SUE2: Num(v[3]), SU: Num(v[4]), EMin: Num(v[5]), EMax: Num(v[6]), SUE: Num(v[7]), SQ2: Num(v[8])}
-	if p.spec.Order != "" {
-		out.SOE, out.SO, out.SOO = Num(v[9]), Num(v[10]), Num(v[11])
-	}
-	return out, nil
-}
-
-// DurbinWatsonNumerator is the numerator of the Durbin–Watson statistic
-// of the line's residuals in run order, averaged over the orders of rows
-// whose run order ties (the closed form of stats.DurbinWatsonTied: 2·SS
-// within each block of tied orders, (ē_A − ē_B)² + SS_A/m_A + SS_B/m_B
-// between consecutive blocks), by GROUP BY on the order and lag() over the
-// blocks.
-func (p *Prepared) DurbinWatsonNumerator(f Fit) (float64, error) {
-	stmt := "SELECT sum(2 * ss) + coalesce(sum((me - pme) * (me - pme) + ss / m + pss / pm) FILTER (WHERE pm IS NOT NULL), 0) FROM (" +
-		"SELECT m, me, ss, lag(m) OVER w AS pm, lag(me) OVER w AS pme, lag(ss) OVER w AS pss FROM (" +
-		"SELECT o, CAST(count(*) AS double precision) AS m, avg(e) AS me, var_pop(e) * count(*) AS ss FROM (SELECT o, " + f.resid() + " AS e FROM " + p.Complete + fence + ") AS bivar_e GROUP BY o" +
-		") AS bivar_b WINDOW w AS (ORDER BY o)) AS bivar_l"
-	r, err := p.s.rows(stmt)
-	if err != nil {
-		return 0, err
-	}
-	return Num(r[0][0]), nil
-}
-
-// Influence holds the SQL of the straight line's row-wise measures, with
-// the constants they need (see stats.LineInfluence.At for the formulas):
-// leverage h = 1/n + d²/Sxx, 1 − h, the internally and externally
-// studentized residuals, Cook's distance and the leave-one-out r and slope.
-type Influence struct {
-	N              int
-	MX, MY, B      float64
-	MXLo, MYLo     float64 // low parts of the means
-	Sxx, Syy, Sxy  float64
-	RSS, S         float64 // S = √(RSS/(n − 2))
-	Outlier, Cooks float64 // the cut points (+Inf: off)
-	Leverage       float64
-}
-
-// measures is the SELECT list of the row-wise measures over bivar_c.
-func (in Influence) measures() string {
-	nf := float64(in.N)
-	dx := "((x - " + lit(in.MX) + ") - " + lit(in.MXLo) + ")"
-	dy := "((y - " + lit(in.MY) + ") - " + lit(in.MYLo) + ")"
-	e := "(" + dy + " - " + lit(in.B) + " * " + dx + ")"
-	q := "(" + dx + " * " + dx + " / " + lit(in.Sxx) + ")"
-	h := "least(1, " + lit(1/nf) + " + " + q + ")"
-	omh := "greatest(0, " + lit((nf-1)/nf) + " - " + q + ")"
-	c := lit(nf / (nf - 1))
-	return "x, y, id, " + e + " AS e, " + h + " AS h, " + omh + " AS omh, " +
-		// leave-one-out r from downdated sums, as stats.corrFromSums
-		"(" + lit(in.Sxy) + " - " + c + " * " + dx + " * " + dy + ") / nullif(sqrt(greatest(0, " + c + " * " + lit(in.Sxx) + " * " + omh + ")) * sqrt(greatest(0, " + lit(in.Syy) + " - " + c + " * " + dy + " * " + dy + ")), 0) AS loor, " +
-		"(" + lit(in.B) + " - " + dx + " * " + e + " / nullif(" + lit(in.Sxx) + " * " + omh + ", 0)) AS loos"
-}
-
-// derived adds t (externally studentized) and d (Cook's distance).
-func (in Influence) derived() string {
-	nf := float64(in.N)
-	ri := "(e / nullif(" + lit(in.S) + " * sqrt(omh), 0))"
-	s2 := "greatest(0, (" + lit(in.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
-	return "*, " + ri + " * " + ri + " * h / nullif(2 * omh, 0) AS d, e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0) AS t"
-}
-
-func (in Influence) source(p *Prepared) string {
-	return "(SELECT " + in.derived() + " FROM (SELECT " + in.measures() + " FROM " + p.Complete + fence + ") AS bivar_m" + fence + ") AS bivar_i"
-}
-
-// FlagCounts are the counts of the fourth pass.
-type FlagCounts struct {
-	Outlier, HighLeverage, Influential, Flagged, Suspect int
-	MaxD                                                 float64
-	LooRMin, LooRMax, LooSMin, LooSMax                   float64
-}
-
-func cutLit(v float64) string {
-	if math.IsInf(v, 1) || math.IsNaN(v) {
-		return "CAST('Infinity' AS double precision)"
-	}
-	return lit(v)
-}
-
-func (in Influence) conds() (out, lev, infl string) {
-	return "abs(t) > " + cutLit(in.Outlier), "h > " + cutLit(in.Leverage), "d > " + cutLit(in.Cooks)
-}
-
-// Flags runs the fourth pass: the rows per flag, the largest Cook's
-// distance and the extremes of the leave-one-out r and slope.
-func (p *Prepared) Flags(in Influence) (*FlagCounts, error) {
-	o, l, d := in.conds()
-	sel := []string{
-		"count(*) FILTER (WHERE " + o + ")", "count(*) FILTER (WHERE " + l + ")", "count(*) FILTER (WHERE " + d + ")",
-		"count(*) FILTER (WHERE " + o + " OR " + l + " OR " + d + ")", "count(*) FILTER (WHERE " + o + " OR " + d + ")",
-		"max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)",
-	}
-	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM " + in.source(p))
-	if err != nil {
-		return nil, err
-	}
-	v := r[0]
-	return &FlagCounts{Outlier: int(Num(v[0])), HighLeverage: int(Num(v[1])), Influential: int(Num(v[2])), Flagged: int(Num(v[3])),
-		Suspect: int(Num(v[4])), MaxD: Num(v[5]), LooRMin: Num(v[6]), LooRMax: Num(v[7]), LooSMin: Num(v[8]), LooSMax: Num(v[9])}, nil
-}
-
-// Row is one row fetched by a push-down query.
-type Row struct {
-	X, Y float64
-	ID   string // "" when the dataset has no id_column or it is missing
-}
-
-// Suspect fetches the rows flagged outlier or influential, ranked as a
-// study ranks them (largest Cook's distance, then largest |t|, then
-// smallest x, y and name), at most limit of them.
-func (p *Prepared) Suspect(in Influence, limit int) ([]Row, error) {
-	o, _, d := in.conds()
-	return p.fetch("SELECT x, y, id FROM " + in.source(p) + " WHERE " + o + " OR " + d +
-		" ORDER BY d DESC NULLS LAST, abs(t) DESC NULLS LAST, x, y, id COLLATE \"C\" LIMIT " + strconv.Itoa(limit))
-}
-
-// Extremes fetches the rows whose leave-one-out r is the smallest or the
-// largest (a few rows: those that tie).
-func (p *Prepared) Extremes(in Influence, lo, hi float64) ([]Row, []float64, error) {
-	r, err := p.s.rows("SELECT x, y, id, loor FROM " + in.source(p) + " WHERE loor = " + lit(lo) + " OR loor = " + lit(hi) + " ORDER BY x, y, id COLLATE \"C\" LIMIT 1000")
-	if err != nil {
-		return nil, nil, err
-	}
-	var rows []Row
-	var loo []float64
-	for _, v := range r {
-		rows = append(rows, Row{X: Num(v[0]), Y: Num(v[1]), ID: Text(v[2])})
-		loo = append(loo, Num(v[3]))
-	}
-	return rows, loo, nil
-}
-
-// fetch runs a statement whose columns are x, y and id.
-func (p *Prepared) fetch(stmt string) ([]Row, error) {
-	r, err := p.s.rows(stmt)
-	if err != nil {
-		return nil, err
-	}
-	out := make([]Row, len(r))
-	for i, v := range r {
-		out[i] = Row{X: Num(v[0]), Y: Num(v[1]), ID: Text(v[2])}
-	}
-	return out, nil
+	// Sxx, Syy and Sxy are the centred sums of x and y over the complete
+	// cases by the regression aggregates, pooled over the group levels.
+	Sxx, Syy, Sxy float64
 }
 
 // GroupSums are one group level's count, means, x range and centred sums.
@@ -651,43 +523,266 @@ type GroupSums struct {
 	Sxx, Syy, Sxy float64
 }
 
-// Groups runs the per-level passes: GROUP BY the group for counts and
-// means, then GROUP BY again for the centred sums about each level's means
-// (joined as a VALUES list), levels in sorted order (byte order).
-func (p *Prepared) Groups(maxLevels int) ([]GroupSums, error) {
-	r, err := p.s.rows("SELECT g, count(*), avg(x), avg(y), min(x), max(x) FROM " + p.Complete + " GROUP BY g ORDER BY g COLLATE \"C\" LIMIT " + strconv.Itoa(maxLevels+1))
+// First runs the first pass: per stored group value (one row without a
+// group), the counts of all rows and, over the rows whose numeric columns
+// are finite, the minima, maxima and means of each numeric column and the
+// regression aggregates of y on x; Go tells the missing group values,
+// pools the levels (Chan et al. 1983, eq. 2.1) and checks maxLevels. The
+// levels are in sorted order (byte order).
+func (p *Prepared) First(maxLevels int) (*Counts, []GroupSums, error) {
+	k := len(p.NumCols)
+	sel := []string{}
+	if p.group != "" {
+		sel = append(sel, "g")
+	} else {
+		sel = append(sel, "CAST(NULL AS text)")
+	}
+	sel = append(sel, "count(*)", "count(*) FILTER (WHERE bivar_ok)")
+	for _, c := range p.NumCols {
+		sel = append(sel, "count(*) - count("+c+")", "count(*) FILTER (WHERE NOT "+finite(c)+")")
+	}
+	f := " FILTER (WHERE bivar_ok)"
+	for _, c := range p.NumCols {
+		sel = append(sel, "min("+c+")"+f, "max("+c+")"+f)
+	}
+	sel = append(sel, "regr_avgx(y, x)"+f, "regr_avgy(y, x)"+f, "regr_sxx(y, x)"+f, "regr_syy(y, x)"+f, "regr_sxy(y, x)"+f)
+	for _, c := range p.NumCols[2:] {
+		sel = append(sel, "avg("+c+")"+f)
+	}
+	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + p.cols(false) + ", " + p.numericOK() + " AS bivar_ok" + p.from() + fence + ") AS bivar_k"
+	limit := maxLevels + len(p.spec.Missing) + 2
+	if p.group != "" {
+		stmt += " GROUP BY g LIMIT " + strconv.Itoa(limit)
+	}
+	r, err := p.s.rows(stmt)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	if len(r) > maxLevels {
-		return nil, &Error{File: p.s.q.err("").File, Column: p.spec.Group, Msg: fmt.Sprintf("a group column may hold at most %d distinct values, and this one holds more: group by another column, or raise max_levels for the dataset", maxLevels)}
+	c := &Counts{Missing: make([]int, k), NonNumeric: make([]int, k), Mean: make([]float64, k), Min: make([]float64, k), Max: make([]float64, k)}
+	for i := range k {
+		c.Min[i], c.Max[i] = math.Inf(1), math.Inf(-1)
 	}
-	out := make([]GroupSums, len(r))
-	var vals []string
-	for i, v := range r {
-		out[i] = GroupSums{Level: Text(v[0]), N: int(Num(v[1])), MX: Num(v[2]), MY: Num(v[3]), XMin: Num(v[4]), XMax: Num(v[5])}
-		vals = append(vals, "("+strconv.Itoa(i)+", '"+strings.ReplaceAll(out[i].Level, "'", "''")+"', "+lit(out[i].MX)+", "+lit(out[i].MY)+")")
-	}
-	if len(out) == 0 {
-		return out, nil
-	}
-	stmt := "SELECT k, sum(x - mx), sum(y - my), sum((x - mx) * (x - mx)), sum((y - my) * (y - my)), sum((x - mx) * (y - my)) FROM " + p.Complete +
-		" JOIN (VALUES " + strings.Join(vals, ", ") + ") AS bivar_g(k, lv, mx, my) ON bivar_c.g = bivar_g.lv GROUP BY k"
-	r, err = p.s.rows(stmt)
-	if err != nil {
-		return nil, err
-	}
+	var levels []GroupSums
+	var pooled struct{ n, mx, my, sxx, syy, sxy float64 }
+	sumMean := make([]float64, k) // Σ n·mean of the covariates and the order
 	for _, v := range r {
-		g := &out[int(Num(v[0]))]
-		dx, dy := Num(v[1]), Num(v[2])
-		nf := float64(g.N)
-		g.Sxx = Num(v[3]) - dx*dx/nf
-		g.Syy = Num(v[4]) - dy*dy/nf
-		g.Sxy = Num(v[5]) - dx*dy/nf
-		g.MX += dx / nf
-		g.MY += dy / nf
+		rows, ok := int(Num(v[1])), int(Num(v[2]))
+		c.Rows += rows
+		j := 3
+		for i := range k {
+			c.Missing[i] += int(Num(v[j]))
+			c.NonNumeric[i] += int(Num(v[j+1]))
+			j += 2
+		}
+		if p.group != "" && isMissing(v[0], p.spec.Missing) {
+			c.GroupMissing += rows
+			if v[0] != nil {
+				p.gNot = append(p.gNot, Text(v[0]))
+			}
+			continue
+		}
+		if ok == 0 {
+			continue
+		}
+		c.Complete += ok
+		for i := range k {
+			c.Min[i] = math.Min(c.Min[i], Num(v[j]))
+			c.Max[i] = math.Max(c.Max[i], Num(v[j+1]))
+			j += 2
+		}
+		g := GroupSums{Level: Text(v[0]), N: ok, MX: Num(v[j]), MY: Num(v[j+1]), XMin: Num(v[3+2*k]), XMax: Num(v[4+2*k]),
+			Sxx: Num(v[j+2]), Syy: Num(v[j+3]), Sxy: Num(v[j+4])}
+		j += 5
+		for i := 2; i < k; i++ {
+			sumMean[i] += float64(ok) * Num(v[j])
+			j++
+		}
+		levels = append(levels, g)
+		// Chan et al.'s pairwise update of the pooled moments.
+		nb := float64(ok)
+		n := pooled.n + nb
+		dx, dy := g.MX-pooled.mx, g.MY-pooled.my
+		w := pooled.n * nb / n
+		pooled.sxx += g.Sxx + w*dx*dx
+		pooled.syy += g.Syy + w*dy*dy
+		pooled.sxy += g.Sxy + w*dx*dy
+		pooled.mx += dx * nb / n
+		pooled.my += dy * nb / n
+		pooled.n = n
 	}
-	return out, nil
+	if p.group != "" && (len(r) >= limit || len(levels) > maxLevels) {
+		return nil, nil, &Error{File: p.s.q.err("").File, Column: p.spec.Group, Msg: fmt.Sprintf("a group column may hold at most %d distinct values, and this one holds more: group by another column, or raise max_levels for the dataset", maxLevels)}
+	}
+	c.Mean[0], c.Mean[1] = pooled.mx, pooled.my
+	c.Sxx, c.Syy, c.Sxy = pooled.sxx, pooled.syy, pooled.sxy
+	for i := 2; i < k; i++ {
+		c.Mean[i] = sumMean[i] / float64(c.Complete)
+	}
+	slices.SortFunc(levels, func(a, b GroupSums) int { return strings.Compare(a.Level, b.Level) })
+	if p.group == "" {
+		levels = nil
+	}
+	return c, levels, nil
+}
+
+// Sums are the second pass: over the complete cases, sums of the
+// deviations d_c = c − m_c from the first pass's means m, of their
+// products and powers, and of the residuals e = d_y − B·d_x of the
+// first pass's line.
+type Sums struct {
+	// D[i] = Σ d_i; P[i][j] = Σ d_i·d_j for the pairs the study uses (x
+	// and y with each other and with each covariate, each covariate with
+	// itself), NaN for the others (NumCols order).
+	D []float64
+	P [][]float64
+	// X3 = Σ d_x³, X4 = Σ d_x⁴.
+	X3, X4 float64
+	// SE = Σe, SE2 = Σe², SXE = Σ d_x·e, SX2E = Σ d_x²·e.
+	SE, SE2, SXE, SX2E float64
+	// SE3 = Σe³, SE4 = Σe⁴, SXE2 = Σ d_x·e² (Breusch–Pagan).
+	SE3, SE4, SXE2 float64
+	// With a run order, d_o its deviation from the first pass's mean:
+	// SO = Σ d_o, SOO = Σ d_o², SOE = Σ d_o·e, SOX = Σ d_o·d_x.
+	SO, SOO, SOE, SOX float64
+	EMin, EMax        float64
+}
+
+// Second runs the second pass with the first pass's means and slope b.
+func (p *Prepared) Second(mean []float64, b float64) (*Sums, error) {
+	k := len(p.NumCols)
+	nc := k
+	if p.spec.Order != "" {
+		nc-- // the order's sums are the third pass's
+	}
+	var dev []string
+	for i := range nc {
+		dev = append(dev, "("+p.num[i]+" - "+lit(mean[i])+") AS d"+strconv.Itoa(i))
+	}
+	dev = append(dev, "(("+p.num[1]+" - "+lit(mean[1])+") - "+lit(b)+" * ("+p.num[0]+" - "+lit(mean[0])+")) AS e")
+	if p.spec.Order != "" {
+		dev = append(dev, "("+p.num[k-1]+" - "+lit(mean[k-1])+") AS dord")
+	}
+	d := func(i int) string { return "d" + strconv.Itoa(i) }
+	var sel []string
+	type pair struct{ i, j int }
+	var pairs []pair
+	for i := range nc {
+		sel = append(sel, "sum("+d(i)+")")
+	}
+	for i := range nc {
+		for j := i; j < nc; j++ {
+			if i <= 1 || i == j {
+				sel = append(sel, "sum("+d(i)+" * "+d(j)+")")
+				pairs = append(pairs, pair{i, j})
+			}
+		}
+	}
+	sel = append(sel, "sum((d0 * d0) * d0)", "sum((d0 * d0) * (d0 * d0))", "sum(e)", "sum(e * e)", "sum(d0 * e)", "sum((d0 * d0) * e)", "min(e)", "max(e)",
+		"sum((e * e) * e)", "sum((e * e) * (e * e))", "sum(d0 * (e * e))")
+	if p.spec.Order != "" {
+		sel = append(sel, "sum(dord)", "sum(dord * dord)", "sum(dord * e)", "sum(dord * d0)")
+	} else {
+		sel = append(sel, "0", "0", "0", "0")
+	}
+	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_d")
+	if err != nil {
+		return nil, err
+	}
+	v := r[0]
+	s := &Sums{D: make([]float64, k), P: make([][]float64, k)}
+	for i := range k {
+		s.P[i] = make([]float64, k)
+		for j := range k {
+			s.P[i][j] = math.NaN()
+		}
+		s.D[i] = math.NaN()
+	}
+	n := 0
+	for i := range nc {
+		s.D[i] = Num(v[n])
+		n++
+	}
+	for _, pr := range pairs {
+		s.P[pr.i][pr.j] = Num(v[n])
+		s.P[pr.j][pr.i] = s.P[pr.i][pr.j]
+		n++
+	}
+	s.X3, s.X4, s.SE, s.SE2, s.SXE, s.SX2E, s.EMin, s.EMax = Num(v[n]), Num(v[n+1]), Num(v[n+2]), Num(v[n+3]), Num(v[n+4]), Num(v[n+5]), Num(v[n+6]), Num(v[n+7])
+	s.SE3, s.SE4, s.SXE2 = Num(v[n+8]), Num(v[n+9]), Num(v[n+10])
+	s.SO, s.SOO, s.SOE, s.SOX = Num(v[n+11]), Num(v[n+12]), Num(v[n+13]), Num(v[n+14])
+	return s, nil
+}
+
+// Fit is the refined straight line and the quadratic as SQL evaluates
+// them, with the constants of the row-wise influence measures (see
+// stats.LineInfluence.At for the formulas): the line's deviations are
+// dx = (x − MX) − MXLo, dy = (y − MY) − MYLo, its residual e = dy − B·dx;
+// the quadratic's residual (y − QY) − (Q0 + Q1·t + Q2·t²) with
+// t = (x − QX)/QS.
+type Fit struct {
+	N          int
+	MX, MY, B  float64
+	MXLo, MYLo float64 // low parts of the means
+
+	QX, QY, Q0, Q1, Q2, QS float64
+	Quad                   bool
+
+	Sxx, Syy, Sxy  float64
+	RSS, S         float64 // S = √(RSS/(n − 2))
+	Outlier, Cooks float64 // the cut points (+Inf: off)
+	Leverage       float64
+}
+
+// dx and dy are the line's deviations over bivar_q's columns.
+func (p *Prepared) dx(f Fit) string {
+	return "((" + p.num[0] + " - " + lit(f.MX) + ") - " + lit(f.MXLo) + ")"
+}
+
+func (p *Prepared) dy(f Fit) string {
+	return "((" + p.num[1] + " - " + lit(f.MY) + ") - " + lit(f.MYLo) + ")"
+}
+
+// rowsLine is the derived table of the complete cases with the study's
+// columns (the id when asked), the line's dx, dy and
+// e, and the leverage h and 1 − h (omh) (see stats.LineInfluence.At for
+// the formulas), each computed once per row.
+func (p *Prepared) rowsLine(f Fit, withID bool) string {
+	sel := p.cols(withID)
+	nf := float64(f.N)
+	dx, dy := p.dx(f), p.dy(f)
+	q := "(" + dx + " * " + dx + " / " + lit(f.Sxx) + ")"
+	return "(SELECT " + sel + ", " + dx + " AS dx, " + dy + " AS dy, " + dy + " - " + lit(f.B) + " * " + dx + " AS e, " +
+		"least(1, " + lit(1/nf) + " + " + q + ") AS h, greatest(0, " + lit((nf-1)/nf) + " - " + q + ") AS omh" +
+		p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e"
+}
+
+// loor is the SQL of the leave-one-out r over the line's deviations dx,
+// dy and 1 − h (omh), from downdated sums as stats.corrFromSums.
+func (f Fit) loor(dx, dy, omh string) string {
+	nf := float64(f.N)
+	c := lit(nf / (nf - 1))
+	return "(" + lit(f.Sxy) + " - " + c + " * " + dx + " * " + dy + ") / nullif(sqrt(greatest(0, " + c + " * " + lit(f.Sxx) + " * " + omh + ") * greatest(0, " +
+		lit(f.Syy) + " - " + c + " * " + dy + " * " + dy + ")), 0)"
+}
+
+func cutLit(v float64) string {
+	if math.IsInf(v, 1) || math.IsNaN(v) {
+		return "CAST('Infinity' AS double precision)"
+	}
+	return lit(v)
+}
+
+// Third are the sums and counts of the third pass, over the complete
+// cases with the refined line's residual e.
+type Third struct {
+	Outlier, HighLeverage, Influential, Flagged, Suspect int
+	MaxD                                                 float64
+	LooRMin, LooRMax, LooSMin, LooSMax                   float64
+	SQ2                                                  float64 // Σ of the quadratic's squared residuals
+	Grids                                                [3]*Grid
+	// Suspects are the rows flagged outlier or influential, ranked, at
+	// most ThirdPass's keep of them.
+	Suspects []Row
 }
 
 // Grid is a density grid's counts: Counts[j*NX+i] rows in cell (i, j).
@@ -697,86 +792,371 @@ type Grid struct {
 	Counts             []int
 }
 
-// Grids bins the rows in one pass with GROUPING SETS: y on x, the line's
-// residual on its fitted value and, with a run order, the residual on the
-// order. The cell of a value a in [lo, hi] split into k cells is
-// floor((a − lo)·k/(hi − lo)), clamped to 0…k−1, as analysis.grid bins.
-func (p *Prepared) Grids(f Fit, g [3]Grid) ([3]*Grid, error) {
-	var out [3]*Grid
+// ThirdPass runs the third pass: the rows per flag, the largest Cook's
+// distance, the extremes of the leave-one-out r and slope, the quadratic's
+// residual sum,
+// the density grids g (y on x, the residual on the fitted value and, with
+// a run order, the residual on the order) and the rows flagged outlier or
+// influential, all in one scan with GROUPING SETS over the grids' cells:
+// the sums and counts are added up over the cells of the first set (y on
+// x with the residual on the fitted value), which holds every row once,
+// and there a flagged row is a group of its own (keyed by its x, y, id, d
+// and t), so that the server returns it.
+// Of those, the keep highest ranked are kept (largest Cook's distance,
+// then largest |t|, then smallest x, y and id). The cell of a value a in
+// [lo, hi] split into k cells is floor((a − lo)·k/(hi − lo)), clamped to
+// 0…k−1, as analysis.grid bins.
+func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	cell := func(e string, lo, hi float64, k int) string {
 		return "least(greatest(CAST(floor((" + e + " - " + lit(lo) + ") * " + lit(float64(k)/(hi-lo)) + ") AS bigint), 0), " + strconv.Itoa(k-1) + ")"
 	}
-	fitted := "(" + lit(f.MY) + " + " + lit(f.B) + " * ((x - " + lit(f.MX) + ") - " + lit(f.MXLo) + "))"
-	e := "e"
-	sel := []string{
-		cell("x", g[0].XLo, g[0].XHi, g[0].NX) + " AS a0", cell("y", g[0].YLo, g[0].YHi, g[0].NY) + " AS b0",
-		cell(fitted, g[1].XLo, g[1].XHi, g[1].NX) + " AS a1", cell(e, g[1].YLo, g[1].YHi, g[1].NY) + " AS b1",
+	// The flags without a square root or a division by a row's values:
+	// |t| > c ⟺ e² > K₁·(1 − h) with K₁ = c²·RSS/(n − 3 + c²) (from
+	// t² = e²/(s₍ᵢ₎²·(1 − h)), s₍ᵢ₎² = (RSS − e²/(1 − h))/(n − 3)), and
+	// d > D ⟺ e²·h > K₂·(1 − h)² with K₂ = 2·s²·D (from
+	// d = e²·h/(2·s²·(1 − h)²)); a row of leverage 1 (1 − h = 0) is neither.
+	nf := float64(f.N)
+	k1, k2 := math.Inf(1), math.Inf(1)
+	if c := f.Outlier; !math.IsInf(c, 1) && !math.IsNaN(c) {
+		k1 = c * c * f.RSS / (nf - 3 + c*c)
 	}
-	sets := "(a0, b0), (a1, b1)"
+	if c := f.Cooks; !math.IsInf(c, 1) && !math.IsNaN(c) {
+		k2 = 2 * f.S * f.S * c
+	}
+	o := "(omh > 0 AND e * e > " + cutLit(k1) + " * omh)"
+	d := "(omh > 0 AND (e * e) * h > " + cutLit(k2) + " * (omh * omh))"
+	ri := "(e / nullif(" + lit(f.S) + " * sqrt(omh), 0))"
+	s2 := "greatest(0, (" + lit(f.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
+	// The row-wise measures each row needs, once per row (see fence).
+	src := "(SELECT *, " + ri + " * " + ri + " * h / nullif(2 * omh, 0) AS d, " + f.loor("dx", "dy", "omh") + " AS loor, " +
+		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"
+	fitted := "(" + lit(f.MY) + " + " + lit(f.B) + " * dx)"
+	fl := "(CAST(fo AS integer) + 2 * CAST(h > " + cutLit(f.Leverage) + " AS integer) + 4 * CAST(fd AS integer))"
+	suspect := func(c string) string { return "CASE WHEN fo OR fd THEN " + c + " END" }
+	id := "CAST(NULL AS text)"
+	if p.id != "" {
+		id = "id"
+	}
+	keys := []string{suspect("x"), suspect("y"), suspect(id), suspect("d"), suspect("e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0)")}
+	a0, b0 := cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY)
+	a1, b1 := cell(fitted, g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)
+	// The fitted value is a function of x, so a cell of y on x meets few
+	// cells of the residual on the fitted value: one set holds both grids.
+	set0 := a0 + ", " + b0 + ", " + a1 + ", " + b1 + ", " + fl + ", " + strings.Join(keys, ", ")
+	sets := "(" + set0 + ")"
+	last := "0, 0"
 	if p.spec.Order != "" {
-		sel = append(sel, cell("o", g[2].XLo, g[2].XHi, g[2].NX)+" AS a2", cell(e, g[2].YLo, g[2].YHi, g[2].NY)+" AS b2")
-		sets += ", (a2, b2)"
+		a2, b2 := cell("o", g[2].XLo, g[2].XHi, g[2].NX), cell("e", g[2].YLo, g[2].YHi, g[2].NY)
+		sets += ", (" + a2 + ", " + b2 + ")"
+		last = a2 + ", " + b2
 	}
-	last := "a2, b2"
-	if p.spec.Order == "" {
-		last = "0, 0"
+	sel := []string{"GROUPING(" + set0 + ")", "0", a0, b0, a1, b1, last, fl, "count(*)",
+		"max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
+	if f.Quad {
+		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
+		q := "((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + ")))"
+		sel = append(sel, "sum("+q+" * "+q+")")
+	} else {
+		sel = append(sel, "CAST(NULL AS double precision)")
 	}
-	stmt := "SELECT GROUPING(a0, b0), GROUPING(a1, b1), a0, b0, a1, b1, " + last + ", count(*) FROM (SELECT " + strings.Join(sel, ", ") + " FROM (SELECT *, " + f.resid() + " AS e FROM " + p.Complete + fence + ") AS bivar_ce" + fence +
-		") AS bivar_cells GROUP BY GROUPING SETS (" + sets + ")"
-	r, err := p.s.rows(stmt)
-	if err != nil {
-		return out, err
-	}
+	sel = append(sel, keys...)
+	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM " + src + " GROUP BY GROUPING SETS (" + sets + ")"
+	th := &Third{MaxD: math.NaN(), LooRMin: math.NaN(), LooRMax: math.NaN(), LooSMin: math.NaN(), LooSMax: math.NaN()}
 	for k := range 3 {
 		if k == 2 && p.spec.Order == "" {
 			continue
 		}
 		gg := g[k]
 		gg.Counts = make([]int, gg.NX*gg.NY)
-		out[k] = &gg
+		th.Grids[k] = &gg
 	}
-	for _, v := range r {
-		k := 2
-		switch {
-		case Num(v[0]) == 0:
-			k = 0
-		case Num(v[1]) == 0:
-			k = 1
+	// NaN-ignoring extremes, as min and max ignore NULL.
+	lo := func(a, b float64) float64 {
+		if math.IsNaN(a) || b < a {
+			return b
 		}
-		i, j := int(Num(v[2+2*k])), int(Num(v[3+2*k]))
-		out[k].Counts[j*out[k].NX+i] += int(Num(v[8]))
+		return a
 	}
-	return out, nil
+	hi := func(a, b float64) float64 {
+		if math.IsNaN(a) || b > a {
+			return b
+		}
+		return a
+	}
+	var sus []ranked
+	err := p.s.each(stmt, func(v []any) error {
+		n := int(Num(v[9]))
+		if Num(v[0]) != 0 {
+			i, j := int(Num(v[6])), int(Num(v[7]))
+			th.Grids[2].Counts[j*th.Grids[2].NX+i] += n
+			return nil
+		}
+		for k := range 2 {
+			i, j := int(Num(v[2+2*k])), int(Num(v[3+2*k]))
+			th.Grids[k].Counts[j*th.Grids[k].NX+i] += n
+		}
+		fl := int(Num(v[8]))
+		if fl&1 != 0 {
+			th.Outlier += n
+		}
+		if fl&2 != 0 {
+			th.HighLeverage += n
+		}
+		if fl&4 != 0 {
+			th.Influential += n
+		}
+		if fl != 0 {
+			th.Flagged += n
+		}
+		if fl&5 != 0 {
+			th.Suspect += n
+			noID := p.id == "" || isMissing(v[18], p.spec.Missing)
+			r := ranked{Row: Row{X: Num(v[16]), Y: Num(v[17]), D: Num(v[19])}, noID: noID, d: Num(v[19]), t: Num(v[20])}
+			if !noID {
+				r.ID = Text(v[18])
+			}
+			for range n { // a row repeated n times is n flagged rows
+				sus = append(sus, r)
+			}
+			if len(sus) > 2*keep {
+				slices.SortFunc(sus, cmpSuspect)
+				sus = sus[:keep]
+			}
+		}
+		if x := Num(v[10]); !math.IsNaN(x) {
+			th.MaxD = hi(th.MaxD, x)
+		}
+		if x := Num(v[11]); !math.IsNaN(x) {
+			th.LooRMin = lo(th.LooRMin, x)
+		}
+		if x := Num(v[12]); !math.IsNaN(x) {
+			th.LooRMax = hi(th.LooRMax, x)
+		}
+		if x := Num(v[13]); !math.IsNaN(x) {
+			th.LooSMin = lo(th.LooSMin, x)
+		}
+		if x := Num(v[14]); !math.IsNaN(x) {
+			th.LooSMax = hi(th.LooSMax, x)
+		}
+		th.SQ2 += Num(v[15])
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	slices.SortFunc(sus, cmpSuspect)
+	th.Suspects = []Row{}
+	for _, r := range sus[:min(keep, len(sus))] {
+		th.Suspects = append(th.Suspects, r.Row)
+	}
+	return th, nil
 }
 
-// sampleKey is the sample's order: the first 60 bits of the MD5 of x and
-// y's text as a number, so that no collation of the server's enters (a
-// text comparison would follow the database's locale).
-const sampleKey = "CAST(CAST('x' || left(md5(CAST(x AS text) || ' ' || CAST(y AS text)), 15) AS bit(60)) AS bigint)"
-
-// SampleMethod says how Sample draws its rows, for the report.
-const SampleMethod = "drawn by the database: the complete cases with the smallest MD5 (its first 60 bits, as a number) of the text of x and y as PostgreSQL writes them (shortest exact form), ties by the values of the study's columns, the group and the id (bytewise); the same set of rows gives the same sample in any order, on any run"
-
-// Sample fetches k complete cases chosen by SampleMethod: every numeric
-// column (NumCols order), the group and the id.
-func (p *Prepared) Sample(k int) (num [][]float64, group, id []string, err error) {
-	cols := strings.Join(p.NumCols, ", ")
-	extra := ", g"
-	if p.spec.Group == "" {
-		extra = ", CAST(NULL AS text) AS g"
-	}
-	stmt := "SELECT " + cols + extra + ", id FROM (SELECT " + cols + extra + ", id FROM " + p.Complete + ") AS bivar_s ORDER BY " + sampleKey + ", " + cols + ", g COLLATE \"C\", id COLLATE \"C\" LIMIT " + strconv.Itoa(k)
+// DurbinWatsonNumerator is the numerator of the Durbin–Watson statistic
+// of the line's residuals in run order, averaged over the orders of rows
+// whose run order ties (the closed form of stats.DurbinWatsonTied: 2·SS
+// within each block of tied orders, (ē_A − ē_B)² + SS_A/m_A + SS_B/m_B
+// between consecutive blocks), by GROUP BY on the order and lag() over the
+// blocks: the one statement that sorts the rows (by the order). A block's
+// SS is Σe² − (Σe)²/m, from two sums the server keeps by value (a few
+// bytes a block, so that 10⁶ blocks group in memory): its rounding is
+// that of Σe² over the block, and over all blocks at most a few units in
+// the last place of Σe² = RSS, the denominator, whatever the blocks'
+// means, so the statistic keeps its digits.
+func (p *Prepared) DurbinWatsonNumerator(f Fit) (float64, error) {
+	stmt := "SELECT sum(2 * ss) + coalesce(sum((me - pme) * (me - pme) + ss / m + pss / pm) FILTER (WHERE pm IS NOT NULL), 0) FROM (" +
+		"SELECT m, me, ss, lag(m) OVER w AS pm, lag(me) OVER w AS pme, lag(ss) OVER w AS pss FROM (" +
+		"SELECT o, m, se / m AS me, greatest(0, see - se * se / m) AS ss FROM (" +
+		"SELECT o, CAST(count(*) AS double precision) AS m, sum(e) AS se, sum(e * e) AS see FROM (SELECT " +
+		p.num[len(p.num)-1] + " AS o, " + p.dy(f) + " - " + lit(f.B) + " * " + p.dx(f) + " AS e" + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e GROUP BY o" +
+		") AS bivar_s) AS bivar_b WINDOW w AS (ORDER BY o)) AS bivar_l"
 	r, err := p.s.rows(stmt)
 	if err != nil {
-		return nil, nil, nil, err
+		return 0, err
 	}
-	num = make([][]float64, len(p.NumCols))
-	for _, v := range r {
-		for i := range p.NumCols {
-			num[i] = append(num[i], Num(v[i]))
+	return Num(r[0][0]), nil
+}
+
+// Row is one row fetched by a push-down query.
+type Row struct {
+	X, Y float64
+	ID   string  // "" when the dataset has no id_column or it is missing
+	D    float64 // a flagged row's Cook's distance as the database computed it
+}
+
+// SampleRow is one row of the sample: every numeric column (NumCols
+// order), the group and the id.
+type SampleRow struct {
+	H     int64 // the row's hash (FingerprintMethod)
+	Num   []float64
+	Group string
+	ID    string
+	noID  bool // the id is NULL or missing: it sorts after every other
+}
+
+// ranked is a fetched row with what ranks it.
+type ranked struct {
+	Row
+	noID      bool
+	d, t, loo float64
+}
+
+// Fetched are the rows of the fourth pass.
+type Fetched struct {
+	// Sample holds the complete cases with the smallest row hashes, k of
+	// them (all when fewer), in SampleMethod's order.
+	Sample []SampleRow
+	// Extremes are the rows whose leave-one-out r is the smallest or the
+	// largest (in order of x, y and id, at most extremesMax), with their
+	// leave-one-out r.
+	Extremes []Row
+	ExtLoo   []float64
+}
+
+// extremesMax bounds the rows kept for the leave-one-out extremes (rows
+// that tie there: the same x and y).
+const extremesMax = 1000
+
+// SampleMethod says how Rows draws the sample, for the report.
+const SampleMethod = "drawn by the database: the complete cases with the smallest 64-bit row hash (the one of the dataset's hash: the exclusive or of the cells' hashes by PostgreSQL's built-in hash functions, see the dataset's order), ties by the values of the study's columns, the group and the id (bytewise); the server returns the rows whose hash lies below a threshold set for a few hundred more than the sample, so the rows need not be sorted; the same set of rows gives the same sample in any order, on any run"
+
+// cmpID orders ids as ORDER BY id COLLATE "C" does: bytewise, NULL last.
+func cmpID(a string, aNull bool, b string, bNull bool) int {
+	switch {
+	case aNull && bNull:
+		return 0
+	case aNull:
+		return 1
+	case bNull:
+		return -1
+	}
+	return strings.Compare(a, b)
+}
+
+// cmpDesc orders a before b when a is larger, NaN (NULL) last.
+func cmpDesc(a, b float64) int {
+	switch an, bn := math.IsNaN(a), math.IsNaN(b); {
+	case an && bn:
+		return 0
+	case an:
+		return 1
+	case bn:
+		return -1
+	}
+	return cmp.Compare(b, a)
+}
+
+func (r ranked) cmpXYID(o ranked) int {
+	if c := cmp.Compare(r.X, o.X); c != 0 {
+		return c
+	}
+	if c := cmp.Compare(r.Y, o.Y); c != 0 {
+		return c
+	}
+	return cmpID(r.ID, r.noID, o.ID, o.noID)
+}
+
+// cmpSuspect is the ranking of flagged rows.
+func cmpSuspect(a, b ranked) int {
+	if c := cmpDesc(a.d, b.d); c != 0 {
+		return c
+	}
+	if c := cmpDesc(math.Abs(a.t), math.Abs(b.t)); c != 0 {
+		return c
+	}
+	return a.cmpXYID(b)
+}
+
+func cmpSample(a, b SampleRow) int {
+	if c := cmp.Compare(a.H, b.H); c != 0 {
+		return c
+	}
+	for i := range a.Num {
+		if c := cmp.Compare(a.Num[i], b.Num[i]); c != 0 {
+			return c
 		}
-		group = append(group, Text(v[len(p.NumCols)]))
-		id = append(id, Text(v[len(p.NumCols)+1]))
 	}
-	return num, group, id, nil
+	if c := strings.Compare(a.Group, b.Group); c != 0 {
+		return c
+	}
+	return cmpID(a.ID, a.noID, b.ID, b.noID)
+}
+
+// Rows runs the fourth pass, one scan for the sample of k rows (of the
+// complete ones) and the rows at the leave-one-out r's extremes lo and
+// hi. The sample is the complete cases whose hash lies below a threshold
+// expected to pass k + 8√k + 100 of them (8 standard deviations of that
+// count above k); in the rare case fewer than k pass, the threshold is
+// doubled and the pass run again. The statement has no derived table:
+// the hash and the leave-one-out r are computed once per row in its
+// WHERE, and again only for the few rows it returns.
+func (p *Prepared) Rows(f Fit, k, complete int, lo, hi float64) (*Fetched, error) {
+	return p.rowsFrom(f, k, (float64(k)+8*math.Sqrt(float64(k))+100)/float64(complete), lo, hi)
+}
+
+// rowsFrom is Rows with the share frac of the rows that the first
+// threshold passes.
+func (p *Prepared) rowsFrom(f Fit, k int, frac, lo, hi float64) (*Fetched, error) {
+	for {
+		out, err := p.rowsPass(f, k, frac, lo, hi)
+		if err != nil || len(out.Sample) >= k || frac >= 1 {
+			return out, err
+		}
+		frac *= 2
+	}
+}
+
+func (p *Prepared) rowsPass(f Fit, k int, frac float64, lo, hi float64) (*Fetched, error) {
+	hk := p.s.rowHash()
+	isSample := "true"
+	if t := frac*0x1p64 - 0x1p63; frac < 1 && t < 0x1p63 {
+		isSample = hk + " < " + strconv.FormatInt(int64(t), 10)
+	}
+	nf := float64(f.N)
+	dx, dy := p.dx(f), p.dy(f)
+	omh := "greatest(0, " + lit((nf-1)/nf) + " - " + dx + " * " + dx + " / " + lit(f.Sxx) + ")"
+	loor := f.loor(dx, dy, omh)
+	isExt := loor + " IN (" + lit(lo) + ", " + lit(hi) + ")"
+	if math.IsNaN(lo) || math.IsNaN(hi) {
+		isExt = "false"
+	}
+	sel := slices.Clone(p.num)
+	sel = append(sel, cmp.Or(p.group, "CAST(NULL AS text)"), cmp.Or(p.id, "CAST(NULL AS text)"), hk, loor, isSample)
+	stmt := "SELECT " + strings.Join(sel, ", ") + p.from() + " WHERE " + p.complete() + " AND (" + isSample + " OR " + isExt + ")"
+	nk := len(p.NumCols)
+	out := &Fetched{}
+	var ext []ranked
+	err := p.s.each(stmt, func(v []any) error {
+		num := make([]float64, nk)
+		for i := range nk {
+			num[i] = Num(v[i])
+		}
+		noID := p.id == "" || isMissing(v[nk+1], p.spec.Missing)
+		idText := ""
+		if !noID {
+			idText = Text(v[nk+1])
+		}
+		if v[nk+4] == true {
+			out.Sample = append(out.Sample, SampleRow{H: int64Of(v[nk+2]), Num: num, Group: Text(v[nk]), ID: idText, noID: noID})
+		}
+		if loo := Num(v[nk+3]); loo == lo || loo == hi {
+			ext = append(ext, ranked{Row: Row{X: num[0], Y: num[1], ID: idText}, noID: noID, loo: loo})
+			if len(ext) > 2*extremesMax {
+				slices.SortFunc(ext, ranked.cmpXYID)
+				ext = ext[:extremesMax]
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	slices.SortFunc(out.Sample, cmpSample)
+	out.Sample = out.Sample[:min(k, len(out.Sample))]
+	slices.SortFunc(ext, ranked.cmpXYID)
+	for _, r := range ext[:min(extremesMax, len(ext))] {
+		out.Extremes = append(out.Extremes, r.Row)
+		out.ExtLoo = append(out.ExtLoo, r.loo)
+	}
+	return out, nil
 }

@@ -1,0 +1,70 @@
+package dataset
+
+import (
+	"context"
+	"math"
+	"os"
+	"slices"
+	"strconv"
+	"testing"
+
+	"github.com/jackc/pgx/v5"
+)
+
+// The sample drawn by a threshold on the row hash, with the rows sorted in
+// Go, is the one PostgreSQL gives for the same definition written the
+// plain way (ORDER BY the hash and the tie-breaking columns, LIMIT k),
+// also when the first threshold passes too few rows and is raised; rows
+// with a NULL are not complete cases and never drawn.
+func TestRowsSample(t *testing.T) {
+	url := os.Getenv("BIVAR_TEST_PG_URL")
+	if url == "" {
+		t.Skip("no PostgreSQL server: BIVAR_TEST_PG_URL is not set; run scripts/pg-test.sh go test ./analysis/dataset/ to start one")
+	}
+	ctx := context.Background()
+	conn, err := pgx.Connect(ctx, url)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer conn.Close(ctx)
+	for _, s := range []string{"DROP TABLE IF EXISTS pdsample",
+		"CREATE TABLE pdsample (id text, x double precision, y double precision, n integer)",
+		"INSERT INTO pdsample SELECT 'r' || i, sin(i), CASE WHEN i % 7 = 0 THEN NULL ELSE cos(i) END, i % 5 FROM generate_series(1, 5000) i"} {
+		if _, err := conn.Exec(ctx, s); err != nil {
+			t.Fatal(err)
+		}
+	}
+	q := Query{Table: "pdsample", Env: "BIVAR_TEST_PG_URL", URL: url}
+	s, err := Open(ctx, q)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	p, err := s.Prepare(Spec{X: "x", Y: "y", ID: "id"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	const k = 300
+	var want []string
+	r, err := s.rows("SELECT id FROM (SELECT " + s.rowHash() + " AS hk, x, y, id FROM pdsample AS bivar_q WHERE y IS NOT NULL) AS w ORDER BY hk, x, y, id COLLATE \"C\" LIMIT " + strconv.Itoa(k))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, v := range r {
+		want = append(want, Text(v[0]))
+	}
+	f := Fit{N: 4286, Sxx: 1, Syy: 1, Sxy: 0.5}
+	for _, frac := range []float64{0.001, 0.2} { // 0.001 passes about 4 rows: raised until 300 pass
+		got, err := p.rowsFrom(f, k, frac, math.NaN(), math.NaN())
+		if err != nil {
+			t.Fatal(err)
+		}
+		ids := make([]string, len(got.Sample))
+		for i, r := range got.Sample {
+			ids[i] = r.ID
+		}
+		if !slices.Equal(ids, want) {
+			t.Errorf("first share %g: the sample's ids differ from ORDER BY … LIMIT: %d rows, first %v, want %v", frac, len(ids), ids[:min(5, len(ids))], want[:5])
+		}
+	}
+}

@@ -595,7 +595,16 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		if i := strings.LastIndex(row.Finding, " ("); i > 0 && strings.HasSuffix(row.Finding, ").") && strings.HasPrefix(row.Finding[i:], " (r = ") {
 			row.Finding = row.Finding[:i] + "."
 		}
-		row.Status = strings.Join(statusOf(s), "; ")
+		// The status names what the finding's opening sentence does not
+		// already lead with (a reversal, a covariate, single rows).
+		var status []string
+		for _, st := range statusOf(s) {
+			if !(f.Reversal && strings.HasPrefix(st, "reverses within ")) && !(len(f.ExplainedBy) > 0 && strings.HasPrefix(st, "explained by ")) &&
+				!(f.OutlierDriven && st == "rests on single rows") {
+				status = append(status, st)
+			}
+		}
+		row.Status = strings.Join(status, "; ")
 		if f.CurveStrength != "" && f.CurveStrength != f.Strength {
 			row.StrengthNote = "as a curve: " + f.CurveStrength
 		}
@@ -609,6 +618,7 @@ func summaryLine(s *report.Study, link string) summaryRow {
 	if s.Findings != nil && s.Findings.TurnsOver {
 		row.Slope, row.SlopeCI = "none: the curve turns over", ""
 	}
+	summarySlope(s, &row)
 	row.Flags = "none"
 	if s.Influence != nil && s.Influence.Counts.Suspect > 0 {
 		row.Flags = itoa(s.Influence.Counts.Suspect)
@@ -629,7 +639,12 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		// the declared limit, both the analysis's words with their units.
 		var failed []string
 		for _, e := range s.Expectations {
-			if !e.OK {
+			switch {
+			case e.OK:
+			case e.Name == "agree":
+				// its figures are the finding's: the title alone
+				failed = append(failed, gateTitle(e))
+			default:
 				failed = append(failed, fmt.Sprintf("%s: found %s, wanted %s", gateTitle(e), ascii(e.Got), ascii(e.Want)))
 			}
 		}
@@ -639,6 +654,56 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		}
 	}
 	return row
+}
+
+// summarySlope puts in the summary the slope a reader may copy: where the
+// findings say the pooled line misleads, the slope they point to instead,
+// from the figures the analysis already gives, with the pooled one after
+// it. A study on like log scales gives its slope as what it is there, an
+// elasticity. An agreement study gives its bias and limits of agreement, the
+// figures its gate reads.
+func summarySlope(s *report.Study, row *summaryRow) {
+	f := s.Findings
+	per := unitPer(s)
+	pooled := ""
+	if l := s.Line; l != nil && l.Slope != nil && l.Slope.Estimate.Valid() {
+		pooled = num(l.Slope.Estimate)
+	}
+	switch {
+	case s.Agreement != nil && s.Agreement.Bias.Valid():
+		a := s.Agreement
+		u := s.Y.Symbol
+		// three significant digits, as the finding gives the limits
+		row.Slope = "bias " + withSym(map[bool]string{true: "+", false: ""}[float64(a.Bias) > 0]+sig3(a.Bias), u)
+		row.SlopeCI = "(limits " + sig3(a.Lower) + " to " + withSym(sig3(a.Upper), u)
+		if a.Acceptable.Valid() {
+			row.SlopeCI += "; accepted ±" + withSym(declared(a.Acceptable), u)
+		}
+		row.SlopeCI += ")"
+	case f == nil:
+	case s.X.Scale == s.Y.Scale && (s.X.Scale == "log" || s.X.Scale == "log10") && pooled != "" && !f.OutlierDriven && !f.Reversal && len(f.ExplainedBy) == 0:
+		// on like log scales the slope is an elasticity: % per %
+		row.Slope = pooled + " % per % (elasticity)"
+	case f.OutlierDriven && s.Sensitivity != nil && s.Sensitivity.SlopeWithoutFlagged.Valid():
+		se := s.Sensitivity
+		without := "without the " + itoa(se.NFlagged) + " flagged rows"
+		if se.NFlagged == 1 && s.Influence != nil && len(s.Influence.Points) == 1 {
+			without = "without " + s.Influence.Points[0].Row
+		}
+		row.Slope = withSym(num(se.SlopeWithoutFlagged), per)
+		row.SlopeCI = "(" + without + "; all rows " + pooled + ")"
+	case f.Reversal && len(s.Groups) > 0 && len(s.Groups) <= 4:
+		var parts []string
+		for _, g := range s.Groups {
+			parts = append(parts, num(g.Slope)+" ("+g.Group+")")
+		}
+		row.Slope = withSym(strings.Join(parts, ", "), per)
+		row.SlopeCI = "(within " + chart.GroupName(s) + "; pooled " + pooled + ")"
+	case f.Reversal:
+		row.Slope, row.SlopeCI = "within "+chart.GroupName(s)+": see finding", "(pooled "+withSym(pooled, per)+")"
+	case len(f.ExplainedBy) > 0:
+		row.Slope, row.SlopeCI = "see finding", "(pooled "+withSym(pooled, per)+")"
+	}
 }
 
 // firstSentence is s up to the end of its first sentence: a full stop

@@ -744,6 +744,65 @@ func (f *facts) reversalCount() string {
 		len(g), opposite, plural(opposite, "has", "have"), sigOpp)
 }
 
+// reversalLead is the headline's opening for a reversal within groups:
+// how many of the groups compared run against the pooled direction, and
+// the range of their slopes with its unit. "Within all 3 of 3 groups of
+// Quench tank, Total runout falls with Quench oil temperature (slopes
+// −0.00376 to −0.00292 mm per °C): the pooled trend comes from
+// differences between the groups."
+func (f *facts) reversalLead() string {
+	g := f.qualifying()
+	pooled := sign(f.r)
+	n := 0
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, gf := range g {
+		if b := float64(gf.Slope); sign(b) == -pooled {
+			n++
+			lo, hi = math.Min(lo, b), math.Max(hi, b)
+		}
+	}
+	count := fmt.Sprintf("%d of %d", n, len(g))
+	if n == len(g) {
+		count = "all " + count
+	}
+	verb := "falls"
+	if pooled < 0 {
+		verb = "rises"
+	}
+	slopes := "slope " + num(lo)
+	if n > 1 {
+		slopes = "slopes " + num(lo) + " to " + num(hi)
+	}
+	return fmt.Sprintf("Within %s groups of %s, %s %s with %s (%s %s): the pooled trend comes from differences between the groups.",
+		count, f.groupLabel(), f.yLabel, verb, f.xLabel, slopes, perUnit(f.ySym, f.xSym, f.xLabel))
+}
+
+// explainedLead is the headline's opening for a study whose association
+// is no longer shown with a covariate held fixed, with each such
+// covariate's partial correlation.
+func (f *facts) explainedLead(names []string) string {
+	var parts []string
+	turns := false // a partial r shown at alpha, of the other sign
+	for _, n := range names {
+		for _, pc := range f.s.Partial {
+			if pc.Covariate == n {
+				parts = append(parts, fmt.Sprintf("partial r = %s, %s", corr(float64(pc.R)), f.pv(float64(pc.P))))
+				turns = turns || float64(pc.P) < f.alpha
+			}
+		}
+	}
+	fig := ""
+	if len(parts) > 0 {
+		fig = " (" + strings.Join(parts, "; ") + ")"
+	}
+	what := fmt.Sprintf("no association of %s with %s is shown", f.yLabel, f.xLabel)
+	if turns {
+		what = fmt.Sprintf("the association of %s with %s turns sign", f.yLabel, f.xLabel)
+	}
+	return fmt.Sprintf("%s, %s%s: %s may carry the association.", f.heldFixed(names), what, fig,
+		plural(len(names), "the covariate", "the covariates"))
+}
+
 func (f *facts) reversal() bool {
 	if f.rdir == "none" {
 		return false
@@ -831,11 +890,18 @@ func (f *facts) write(out *report.Findings) {
 			h += " and the verdict stands."
 		}
 	}
-	if out.Reversal {
-		h += fmt.Sprintf(" Within most groups of %s the direction reverses: the pooled trend comes from differences between the groups.", f.groupLabel())
+	// A reversal within groups, or a covariate that carries the
+	// association, is what a reader must take away: it opens the
+	// headline, and the pooled verdict follows it as such.
+	if out.Reversal && !out.OutlierDriven {
+		h = f.reversalLead() + " Pooled over them: " + h
+	} else if out.Reversal {
+		h += " " + f.reversalLead()
 	}
-	if len(out.ExplainedBy) > 0 {
-		h += " " + f.heldFixed(out.ExplainedBy) + ", the association is no longer shown."
+	if len(out.ExplainedBy) > 0 && !out.OutlierDriven && !out.Reversal {
+		h = f.explainedLead(out.ExplainedBy) + " " + plural(len(out.ExplainedBy), "Ignoring it", "Ignoring them") + ": " + h
+	} else if len(out.ExplainedBy) > 0 {
+		h += " " + f.explainedLead(out.ExplainedBy)
 	}
 	if way := f.hiddenWay(); way != "" {
 		h += fmt.Sprintf(" Within groups of %s, %s %s with %s.", f.groupLabel(), y, way, x)
@@ -845,6 +911,9 @@ func (f *facts) write(out *report.Findings) {
 	}
 	if sc := scaleSentence(s); sc != "" {
 		h = sc + " " + h
+		if lead := f.scaleLead(out); lead != "" {
+			h = lead + " " + h
+		}
 	}
 	out.Headline = h
 

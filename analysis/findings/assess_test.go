@@ -227,6 +227,13 @@ func TestAssessReversal(t *testing.T) {
 	if !strings.Contains(all(f), "the direction reverses") {
 		t.Errorf("limits do not say the direction reverses:\n%s", all(f))
 	}
+	// The headline opens with the finding within groups: 2 of the 2
+	// groups of at least ReversalMinGroup rows, with their slopes; the
+	// pooled verdict follows as such.
+	if !strings.HasPrefix(f.Headline, "Within all 2 of 2 groups of lot, ") || !strings.Contains(f.Headline, "(slopes -1 to -0.9 ") ||
+		!strings.Contains(f.Headline, " Pooled over them: ") {
+		t.Errorf("headline does not open with the reversal within groups: %s", f.Headline)
+	}
 	s.Groups[1].Slope, s.Groups[1].SlopeLow, s.Groups[1].SlopeHigh = 0.9, 0.5, 1.3
 	if f = Assess(s, ctx); f.Reversal {
 		t.Errorf("groups disagree (one significant each way): reversal reported")
@@ -253,6 +260,11 @@ func TestAssessCovariate(t *testing.T) {
 	f := Assess(s, ctx)
 	if !slices.Equal(f.ExplainedBy, []string{"ambient_rh"}) {
 		t.Errorf("explained_by %v, want [ambient_rh]", f.ExplainedBy)
+	}
+	// The headline opens with the covariate, its partial r and p.
+	if !strings.HasPrefix(f.Headline, "Holding ambient_rh fixed, no association of ") || !strings.Contains(f.Headline, "(partial r = 0.05, p = 0.70)") ||
+		!strings.Contains(f.Headline, " Ignoring it: ") {
+		t.Errorf("headline does not open with the covariate: %s", f.Headline)
 	}
 	// Not significant given the covariate, but the interval still holds
 	// the pooled r: too few rows to tell, not explained.

@@ -153,8 +153,22 @@ func checkOf(s *report.Study, name string) *report.Check {
 	return nil
 }
 
-// inY writes v with the unit of y.
-func inY(s *report.Study, v report.Float) string { return withSym(num(v), s.Y.Symbol) }
+// inY writes v with the unit of y on the study's scale.
+func inY(s *report.Study, v report.Float) string { return withSym(num(v), ySym(s)) }
+
+// ySym and xSym are the units of y and x as the study's figures are in
+// them: the recorded unit, or on a transformed scale the unit under it
+// ("ln µm", "ln y" without a unit), so that no log value is read as a
+// recorded one.
+func ySym(s *report.Study) string { return scaledSym(s.Y, "y") }
+func xSym(s *report.Study) string { return scaledSym(s.X, "x") }
+
+func scaledSym(v report.Variable, word string) string {
+	if v.Scale == "" {
+		return v.Symbol
+	}
+	return scaledPrefix[v.Scale] + orWord(v.Symbol, word)
+}
 
 // withSym writes a formatted value and a unit symbol.
 func withSym(v, sym string) string {
@@ -175,7 +189,7 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 	// The term follows the plain words in brackets (the glossary
 	// defines it).
 	add := func(q, a, ci, p, how string) { t.Rows = append(t.Rows, []string{q + " (" + how + ")", a, ci, p}) }
-	per, ySym := unitPer(s), orWord(s.Y.Symbol, "y units")
+	per, ySym := unitPer(s), orWord(ySym(s), "y units")
 	if l := s.Line; l != nil && l.Slope != nil {
 		add("Change along the line, "+per, num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P),
 			"slope; SE "+num(l.Slope.SE))
@@ -301,7 +315,7 @@ func shapesText(s *report.Study) string {
 		}
 		switch {
 		case m.Vertex.Valid() && m.VertexNear:
-			what += " turning at x = " + withSym(num(m.Vertex), s.X.Symbol)
+			what += " turning at x = " + withSym(num(m.Vertex), xSym(s))
 		case m.Vertex.Valid():
 			what += " turning far outside the data"
 		}
@@ -395,7 +409,7 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 			caption = fmt.Sprintf("The first %d of %d rows flagged outlier, influential or sole support, largest Cook's distance first", len(in.Points), c.Suspect)
 		}
 		t := table{Caption: caption,
-			Head: []string{"Row", "x" + paren(s.X.Symbol), "y" + paren(s.Y.Symbol), "Off the line", "Pull on the line", "Reach in x", "Why flagged"},
+			Head: []string{"Row", "x" + paren(xSym(s)), "y" + paren(ySym(s)), "Off the line", "Pull on the line", "Reach in x", "Why flagged"},
 			Num:  []bool{false, true, true, true, true, true, false}}
 		for _, pt := range in.Points {
 			t.Rows = append(t.Rows, []string{pt.Row, num(pt.X), num(pt.Y), num(pt.StudentizedExt),
@@ -418,7 +432,7 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		return nil, nil
 	}
 	sec := &section{Key: "sensitivity", Title: "How much the result rests on single rows"}
-	t := table{Caption: "The line fitted to different sets of rows", Head: []string{"Rows", "r", "Slope (" + unitPer(s) + ")", "Intercept (" + orWord(s.Y.Symbol, "y units") + ")"},
+	t := table{Caption: "The line fitted to different sets of rows", Head: []string{"Rows", "r", "Slope (" + unitPer(s) + ")", "Intercept (" + orWord(ySym(s), "y units") + ")"},
 		Num: []bool{false, true, true, true}}
 	r, slope, icpt := report.NaN(), report.NaN(), report.NaN()
 	if s.Pearson != nil {
@@ -579,7 +593,7 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 	}
 	sec := &section{Key: "groups", Title: "Groups and other variables"}
 	if len(s.Groups) > 0 {
-		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope, " + unitPer(s) + " (" + level + "% interval)", "Intercept (" + orWord(s.Y.Symbol, "y units") + ")"},
+		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope, " + unitPer(s) + " (" + level + "% interval)", "Intercept (" + orWord(ySym(s), "y units") + ")"},
 			Num: []bool{false, true, true, true, true}}
 		for _, g := range s.Groups {
 			t.Rows = append(t.Rows, []string{g.Group, itoa(g.N), num(g.R), withCI(g.Slope, g.SlopeLow, g.SlopeHigh), num(g.Intercept)})
@@ -606,7 +620,7 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 		return nil, nil
 	}
 	sec := &section{Key: "predictions", Title: "Predictions"}
-	t := table{Head: []string{"x" + paren(s.X.Symbol), "Line" + paren(s.Y.Symbol), "Mean of many rows, " + level + "%" + paren(s.Y.Symbol), "One new row, " + level + "%" + paren(s.Y.Symbol), "Inside the data"},
+	t := table{Head: []string{"x" + paren(xSym(s)), "Line" + paren(ySym(s)), "Mean of many rows, " + level + "%" + paren(ySym(s)), "One new row, " + level + "%" + paren(ySym(s)), "Inside the data"},
 		Num: []bool{true, true, true, true, false}}
 	for _, p := range s.Predictions {
 		in := "yes"

@@ -678,3 +678,20 @@ func TestAssessLines(t *testing.T) {
 		}
 	}
 }
+
+// TestScaleLead: a straight line on the log–log scale opens its headline
+// with the elasticity in words and the scatter as a factor. Expected
+// values are plain algebra: the slope 1.332 on ln–ln is the elasticity
+// (about 1.33% per 1%), and a residual SD of 0.1836 in ln units is a
+// factor e^0.1836 = 1.2015 (math.Exp), printed 1.20.
+func TestScaleLead(t *testing.T) {
+	s := study(0.84, 1e-10)
+	s.X.Scale, s.Y.Scale = "log", "log"
+	s.Line.Slope = &report.Coef{Name: "x", Estimate: 1.332, CILow: 1.175, CIHigh: 1.488}
+	s.Line.ResidualSE = 0.1836
+	f := Assess(s, ctx)
+	want := "Shrinkage rises with melt temperature: 1% more melt temperature goes with about 1.33% more shrinkage (95% CI 1.18% to 1.49%), with a typical scatter of ×1.20 about the line"
+	if !strings.HasPrefix(f.Headline, want) {
+		t.Errorf("headline\n%s\nwant it to open with\n%s", f.Headline, want)
+	}
+}

@@ -7,6 +7,7 @@ package findings
 import (
 	"fmt"
 	"math"
+	"strconv"
 
 	"bivar/analysis/report"
 )
@@ -210,10 +211,10 @@ func (f *facts) scaleLead(out *report.Findings) string {
 	case bx != 0 && by != 0:
 		k := math.Log(by) / math.Log(bx)
 		e := func(v float64) float64 { return math.Abs(v * k) }
-		return fmt.Sprintf("%s %s with %s: 1%% more %s goes with about %s%% %s %s%s.", capital(yl), verb, xl, xl, num(e(b)), more, yl, ci(e, "%"))
+		return fmt.Sprintf("%s %s with %s: 1%% more %s goes with about %s%% %s %s%s%s.", capital(yl), verb, xl, xl, num(e(b)), more, yl, ci(e, "%"), f.scatterFactor())
 	case by != 0 && s.X.Scale == "":
 		p := func(v float64) float64 { return math.Abs(100 * (math.Pow(by, v) - 1)) }
-		return fmt.Sprintf("%s %s with %s: about %s%% %s per %s%s.", capital(yl), verb, xl, num(p(b)), more, unitOf(symbol(s.X), xl), ci(p, "%"))
+		return fmt.Sprintf("%s %s with %s: about %s%% %s per %s%s%s.", capital(yl), verb, xl, num(p(b)), more, unitOf(symbol(s.X), xl), ci(p, "%"), f.scatterFactor())
 	case bx != 0 && s.Y.Scale == "":
 		d := func(v float64) float64 { return math.Abs(v * math.Log(1.01) / math.Log(bx)) }
 		u := ""
@@ -223,6 +224,20 @@ func (f *facts) scaleLead(out *report.Findings) string {
 		return fmt.Sprintf("%s %s with %s: by about %s%s per 1%% more %s%s.", capital(yl), verb, xl, num(d(b)), u, xl, ci(d, u))
 	}
 	return ""
+}
+
+// scatterFactor is, for y on a log scale, the line's residual SD in the
+// recorded units: a factor, since a difference of logarithms to base B
+// is the logarithm of a ratio (B^SD): ", with a typical scatter of ×1.20
+// about the line"; "" otherwise.
+func (f *facts) scatterFactor() string {
+	s := f.s
+	by := scaleBase(s.Y.Scale)
+	if by == 0 || s.Line == nil || !s.Line.ResidualSE.Valid() {
+		return ""
+	}
+	return fmt.Sprintf(", with a typical scatter of ×%s about the line (residual SD %s on %s)",
+		strconv.FormatFloat(math.Pow(by, float64(s.Line.ResidualSE)), 'f', 2, 64), num(float64(s.Line.ResidualSE)), scaleWords(s.Y.Scale))
 }
 
 // v2 is the change per doubling of x for slope b on a log scale of base bx.

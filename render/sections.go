@@ -319,23 +319,33 @@ func shapesText(s *report.Study) string {
 		case m.Vertex.Valid():
 			what += " turning far outside the data"
 		}
-		// The share of the line's squared scatter the shape takes off
-		// (negative: it adds), and its AIC against the line; the appendix
-		// says once how to read both.
-		share, pc := "less", pct(m.ShareVsLine)
-		if m.ShareVsLine.Valid() && float64(m.ShareVsLine) < 0 {
-			share, pc = "more", strings.TrimPrefix(pc, "-")
+		// The squared scatter it takes off the line's (or adds), and its
+		// AIC against the line's, in words; the appendix says once how to
+		// read both.
+		share := pct(m.ShareVsLine) + " less squared scatter"
+		switch v := float64(m.ShareVsLine); {
+		case !m.ShareVsLine.Valid():
+			share = "squared scatter n/a"
+		case pct(m.ShareVsLine) == "0.0%" || pct(m.ShareVsLine) == "-0.0%":
+			share = "about the same squared scatter"
+		case v < 0:
+			share = strings.TrimPrefix(pct(m.ShareVsLine), "-") + " more squared scatter"
 		}
-		sc := "scatter "
-		if len(parts) > 0 {
-			sc = ""
+		aic := "AIC n/a"
+		if m.AICVsLine.Valid() {
+			aic = "AIC " + strings.TrimPrefix(num(m.AICVsLine), "-")
+			if float64(m.AICVsLine) < 0 {
+				aic += " lower"
+			} else {
+				aic += " higher"
+			}
 		}
-		parts = append(parts, fmt.Sprintf("%s: %s%s, %s %s, AIC %s", what, sc, inY(s, m.ResidualSE), pc, share, signedNum(m.AICVsLine)))
+		parts = append(parts, fmt.Sprintf("%s leaves %s, %s, %s", what, inY(s, m.ResidualSE), share, aic))
 	}
 	if len(parts) == 0 {
 		return ""
 	}
-	return "Other shapes against the line: " + strings.Join(parts, "; ") + "."
+	return "Other shapes, against the line's scatter of " + inY(s, l.ResidualSE) + ": " + strings.Join(parts, "; ") + "."
 }
 
 // pct writes a share as a percentage with one decimal, n/a when undefined.
@@ -825,6 +835,7 @@ func checksTable(studies []report.Study, anchors []string) table {
 	t := table{Caption: "The checks of every study: p after Holm's adjustment over the study's checks (tests: glossary)",
 		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings stray from it? (lack of fit)", "Does x matter in a way the line misses? (distance correlation, 0 to 1)", "Does the scatter change with x? (Breusch–Pagan)", "Does it drift in run order? (trend; Durbin–Watson, DW)"},
 		Num:  []bool{false, false, false, false, false, false}}
+	floor := 0 // permutations of a p at its floor, for the caption
 	for i := range studies {
 		s := &studies[i]
 		f, d := s.Findings, s.Diagnostics
@@ -844,10 +855,25 @@ func checksTable(studies []report.Study, anchors []string) table {
 			row[2] = answer(c.Raised, c.PAdjusted)
 		}
 		if dc := d.DistanceCorr; dc != nil {
-			// Yes only where the findings read a dependence the line
-			// misses (form "nonlinear"); a strong one the line follows is
-			// the line's.
-			row[3] = answer(f.Form == "nonlinear", dc.P, num(dc.DCor))
+			// Yes where the findings read a dependence the line misses:
+			// form "nonlinear", or a curve (the bend column's); a strong
+			// dependence the line follows is the line's, and says so.
+			p := pval(dc.P)
+			if atFloor(dc) {
+				p = "≤ " + p
+				floor = dc.Permutations
+			}
+			fig := " (" + num(dc.DCor) + "; p " + p + ")"
+			switch {
+			case f.Form == "curved":
+				row[3] = "Yes: the curve" + fig
+			case f.Form == "nonlinear":
+				row[3] = "Yes" + fig
+			case f.Form == "linear":
+				row[3] = "No: the line follows it" + fig
+			default:
+				row[3] = "No" + fig
+			}
 		}
 		if c := checkOf(s, "changing-spread"); c != nil {
 			row[4] = answer(f.SpreadChanges, c.PAdjusted)
@@ -858,5 +884,15 @@ func checksTable(studies []report.Study, anchors []string) table {
 		t.Rows = append(t.Rows, row)
 		t.Links = append(t.Links, "study-"+anchors[i])
 	}
+	if floor > 0 {
+		t.Caption += fmt.Sprintf("; p ≤ %s is the smallest p %d permutations can give", pval(report.Float(1/float64(floor+1))), floor)
+	}
 	return t
+}
+
+// atFloor reports whether the permutation p of the distance correlation
+// is the smallest its permutations can give, 1/(B + 1): no permutation
+// reached the observed value (the p as the analysis defines it).
+func atFloor(dc *report.DistanceCorr) bool {
+	return dc.Permutations > 0 && dc.P.Valid() && float64(dc.P)*float64(dc.Permutations+1) <= 1+1e-9
 }

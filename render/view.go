@@ -55,7 +55,7 @@ var appendix = []string{
 	"Curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm), not across studies; the distance correlation and the residuals in order of x are screened at alpha unadjusted. A flag calls for a look at the charts, not a conclusion.",
 	"Unusual rows, with each study's cuts for its number of rows: off the line, the row's distance from the line fitted without it, in standard errors (externally studentized residual); pull on the line, how far the line moves without it (Cook's distance); reach in x, how far out in x it lies, 1/n to 1 (leverage). Rows far out in x but close to the line are counted, not named.",
 	"Charts: the least-squares line in its confidence band (a curve, when found, as the main fit), a LOWESS smooth dash-dot, named rows circled; below, each row's distance from the line by fitted value and in run order: a bow, a funnel, a slope or long runs on one side say the line, an even scatter or a steady run does not fit.",
-	"Other shapes: the typical scatter each leaves, the share of the line's squared scatter (residual sum of squares) it takes off (more: it adds), and AIC against the line (below 0: a better fit for its extra coefficients). Fits of ln(y) are on another scale: results.json only.",
+	"Other shapes: the typical scatter each leaves (residual SD), how much less (or more) squared scatter (residual sum of squares) than the line, and its AIC against the line's (lower: a better fit, its extra coefficients counted). Fits of ln(y) are on another scale: results.json only.",
 	"p below 0.0001 is printed \"< 0.0001\"; results.json holds every exact value and every figure the report leaves out.",
 }
 

@@ -653,11 +653,14 @@ func (f *facts) holmSuffix(name string, raw float64) string {
 // own choice rather than common practice (see DefaultThresholds).
 const OwnChoice = "a choice of this tool, not common practice"
 
-// dwxBoundText writes the bound of xOrderDW with where it comes from: the
-// smaller of the alpha bound and FormDW, a project choice.
+// dwxBoundText writes the bound of xOrderDW: the cut point FormDW (a
+// project choice, stated with the rules), or where the bound at alpha is
+// smaller, that bound and why.
 func (f *facts) dwxBoundText() string {
-	ab := 2 - 2*stats.NormalQuantile(1-f.alpha)/math.Sqrt(float64(f.s.Diagnostics.DurbinWatsonXRows))
-	return fmt.Sprintf("%s, the smaller of the cut point %s (%s) and the alpha bound %s", num(f.dwxBound), num(f.th.FormDW), OwnChoice, num(ab))
+	if f.dwxBound < f.th.FormDW {
+		return fmt.Sprintf("%s, the bound at alpha for %d rows (the cut point %s, %s, is higher)", num(f.dwxBound), f.s.Diagnostics.DurbinWatsonXRows, num(f.th.FormDW), OwnChoice)
+	}
+	return num(f.dwxBound) + " (" + OwnChoice + ")"
 }
 
 // smoothTurns reports whether the LOWESS curve confirms a turn, from the
@@ -720,9 +723,9 @@ func (f *facts) lines() string {
 // linesText writes the figures of the lines verdict.
 func (f *facts) linesText() string {
 	gl := f.s.GroupLines
-	return fmt.Sprintf("one line for all %d levels against a line per level: F = %s on %d and %d df, %s; equal slopes: F = %s on %d and %d df, %s; pooled within-level r = %s (%s on %d df)",
-		gl.Groups, num(float64(gl.LinesF)), gl.LinesDF1, gl.DF2, f.pv(float64(gl.LinesP)), num(float64(gl.SlopesF)), gl.SlopesDF1, gl.DF2,
-		f.pv(float64(gl.SlopesP)), corr(float64(gl.RWithin)), f.pv(float64(gl.RWithinP)), gl.RWithinDF)
+	// The F statistics and their degrees of freedom stay in results.json.
+	return fmt.Sprintf("one line for all %d levels against a line per level: %s; equal slopes: %s (F tests); r within levels = %s (%s)",
+		gl.Groups, f.pv(float64(gl.LinesP)), f.pv(float64(gl.SlopesP)), corr(float64(gl.RWithin)), f.pv(float64(gl.RWithinP)))
 }
 
 // reversalCount writes the figures of the reversal rule: "of the 3 groups
@@ -1075,12 +1078,11 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 // from 999 permutations".
 func (f *facts) dcorP() string {
 	d := f.dcor
+	// The Monte Carlo error stays in results.json; the sentence says
+	// only when it leaves the side of alpha unsettled.
 	t := f.pv(float64(d.P))
-	if d.Permutations > 0 && d.MCError.Valid() {
-		t += fmt.Sprintf(" ± %s from %d permutations", num(float64(d.MCError)), d.Permutations)
-		if !d.Resolved {
-			t += ", within Monte Carlo error of alpha after the most permutations the rule draws"
-		}
+	if d.Permutations > 0 && d.MCError.Valid() && !d.Resolved {
+		t += fmt.Sprintf(" ± %s from %d reshufflings, too close to alpha to settle", num(float64(d.MCError)), d.Permutations)
 	}
 	return t
 }

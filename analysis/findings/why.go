@@ -93,6 +93,13 @@ func (f *facts) pBoth() string {
 	return f.pv(float64(f.s.Pearson.P))
 }
 
+// sharePct writes the share of the line's residual sum of squares that
+// the quadratic removes as a percentage, "31%", with digits enough to
+// stay on the right side of CurveShare.
+func (f *facts) sharePct() string {
+	return pctVs(f.share, f.th.CurveShare)
+}
+
 // shareText writes the share of the line's residual sum of squares that
 // the quadratic removes, "0.31", with digits enough to stay on the right
 // side of CurveShare.
@@ -178,8 +185,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 	case "curved":
 		q := f.quad
 		l, c := corrPair(lineR2, float64(q.R2))
-		w := fmt.Sprintf("Curved: the quadratic's x² term is significant (%s), and so is the quadratic as a whole (F test %s); it raises R² from %s for the line to %s and removes a share %s of the line's residual sum of squares, at least the %s required (%s).",
-			f.screenP(checkCurvature, f.quadP()), f.pv(float64(q.FP)), l, c, f.shareText(), num(f.th.CurveShare), OwnChoice)
+		w := fmt.Sprintf("Curved: a parabola fits clearly better than the line (x² term %s; the parabola as a whole, F test %s): R² %s for the line, %s for the parabola, which leaves %s less squared scatter (residual sum of squares), at least the %s required (%s).",
+			f.screenP(checkCurvature, f.quadP()), f.pv(float64(q.FP)), l, c, f.sharePct(), pctText(f.th.CurveShare), OwnChoice)
 		bend := "up (the x² coefficient is positive)"
 		if f.b2 < 0 {
 			bend = "down (the x² coefficient is negative)"
@@ -225,8 +232,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 		if q := f.quad; q != nil && q.R2.Valid() {
 			l, c := corrPair(lineR2, float64(q.R2))
 			// What a curve needs is stated once with the rules.
-			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic, which removes a share %s of the line's residual sum of squares, %s needed)",
-				f.screenP(checkCurvature, f.quadP()), l, c, f.shareText(), num(f.th.CurveShare))
+			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the parabola: %s less squared scatter, %s needed)",
+				f.screenP(checkCurvature, f.quadP()), l, c, f.sharePct(), pctText(f.th.CurveShare))
 		}
 		if f.dwx < f.dwxBound {
 			w += fmt.Sprintf(". The residuals in order of %s swing together (Durbin–Watson %s, below %s), but with |r| = %s at or above %s that does not overturn the line; look at the residual plot",

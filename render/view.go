@@ -54,7 +54,7 @@ type page struct {
 var appendix = []string{
 	"Curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm), not across studies; the distance correlation and the residuals in order of x are screened at alpha unadjusted. A flag calls for a look at the charts, not a conclusion.",
 	"Unusual rows, with each study's cuts for its number of rows: off the line, the row's distance from the line fitted without it, in standard errors (externally studentized residual); pull on the line, how far the line moves without it (Cook's distance); reach in x, how far out in x it lies, 1/n to 1 (leverage). Rows far out in x but close to the line are counted, not named.",
-	"Charts: the least-squares line in its confidence band (a curve, when found, as the main fit), a LOWESS smooth dash-dot, named rows circled; below, each row's distance from the line by fitted value and in run order: a bow, a funnel, a slope or long runs on one side say the line, an even scatter or a steady run does not fit.",
+	"Charts: the least-squares line in its confidence band (a curve, or the lines within groups that reverse it, when found, as the main fit), a LOWESS smooth dash-dot, named rows circled; under it, on the same x axis, each row's distance from the fit, and beside it the drift strip in run order: a bow, a funnel or long runs on one side say where the fit misses.",
 	"Other shapes: the typical scatter each leaves (residual SD), how much less (or more) squared scatter (residual sum of squares) than the line, and its AIC against the line's (lower: a better fit, its extra coefficients counted). Fits of ln(y) are on another scale: results.json only.",
 	"p below 0.0001 is printed \"< 0.0001\"; results.json holds every exact value and every figure the report leaves out.",
 }
@@ -112,6 +112,11 @@ type figure struct {
 	Alt     string
 	Caption string
 	Main    bool
+	Under   bool // stands under the main figure, as wide, on its x axis
+	// UnderSVG and UnderCaption are, on the main figure, the Under
+	// figure's: the HTML draws it inside the main figure, right under the
+	// chart whose x axis it shares, and their captions after both.
+	UnderSVG, UnderCaption string
 	// Note is the caption where it says more than Alt, for report.md,
 	// which shows both (the HTML shows the caption only).
 	Note string
@@ -839,16 +844,24 @@ func buildStudy(s *report.Study, anchor string, index int, level, design string,
 		}
 	}
 	prefix := fmt.Sprintf("s%d-", index+1)
-	for _, fc := range []struct {
+	type kindFig struct {
 		kind string
 		fig  *chart.Figure
-	}{
+	}
+	// The scatterplot with the distances from its fit under it, on the
+	// same x axis, and the drift strip; an agreement study opens with its
+	// differences against the mean, the figure its verdict reads.
+	figs := []kindFig{
 		{"scatter", chart.Scatter(s, prefix+"scatter", level)},
-		{"residuals", chart.ResidualsFitted(s, prefix+"residuals")},
+		{"residuals", chart.ResidualsX(s, prefix+"residuals")},
 		{"order", chart.ResidualsOrder(s, prefix+"order")},
-		{"agreement", chart.DifferenceMean(s, prefix+"agreement", level)},
-		{"methods", chart.MethodPair(s, prefix+"methods")},
-	} {
+	}
+	main := "scatter"
+	if s.Agreement != nil {
+		main = "agreement"
+		figs = append([]kindFig{{"agreement", chart.DifferenceMean(s, prefix+"agreement", level)}, {"methods", chart.MethodPair(s, prefix+"methods")}}, figs...)
+	}
+	for _, fc := range figs {
 		if fc.fig == nil {
 			continue
 		}
@@ -863,8 +876,14 @@ func buildStudy(s *report.Study, anchor string, index int, level, design string,
 		}
 		sv.Figures = append(sv.Figures, figure{
 			Kind: fc.kind, Fig: fc.fig, SVG: b.String(), Alt: fc.fig.Title, Caption: fc.fig.Caption, Note: note,
-			File: cfg.figureDir + "/" + anchor + "-" + fc.kind + ".svg", Main: fc.kind == "scatter",
+			File: cfg.figureDir + "/" + anchor + "-" + fc.kind + ".svg", Main: fc.kind == main,
+			Under: fc.kind == "residuals" && main == "scatter",
 		})
+	}
+	if m := slices.IndexFunc(sv.Figures, func(f figure) bool { return f.Main }); m >= 0 {
+		if u := slices.IndexFunc(sv.Figures, func(f figure) bool { return f.Under }); u >= 0 {
+			sv.Figures[m].UnderSVG, sv.Figures[m].UnderCaption = sv.Figures[u].SVG, sv.Figures[u].Caption
+		}
 	}
 	for _, fn := range studySections {
 		sec, err := fn(s, level, th)

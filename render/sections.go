@@ -227,7 +227,9 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 	if sp, k := s.Spearman, s.Kendall; sp != nil && k != nil {
 		robust = append(robust, "Spearman ρ "+num(sp.Rho)+", Kendall τ-b "+num(k.TauB)+" (p "+pIs(sp.P)+")")
 	}
-	if len(robust) > 0 {
+	// An agreement study's resistant comparison is its Passing–Bablok
+	// line; the rank correlations of y on x stay in results.json there.
+	if len(robust) > 0 && s.Agreement == nil {
 		sec.After = append(sec.After, "Resistant to a few rows: "+strings.Join(robust, "; ")+".")
 	}
 	if sh := shapesText(s); sh != "" {
@@ -301,7 +303,9 @@ var shapeMeaning = map[string]string{
 // here: results.json keeps them, and the appendix says so once.
 func shapesText(s *report.Study) string {
 	l := s.Line
-	if l == nil {
+	if l == nil || s.Agreement != nil {
+		// two methods that measure one thing are compared by their
+		// differences, not by other shapes of y on x (results.json keeps them)
 		return ""
 	}
 	var parts []string

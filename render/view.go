@@ -595,6 +595,11 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		// reversal, a covariate, the line with all rows) the status names,
 		// and the study gives in full.
 		row.Finding = firstSentence(ascii(f.Headline))
+		// An agreement verdict's figures (the limits) stand in the
+		// summary's figures column: the verdict's words are enough here.
+		if i := strings.Index(row.Finding, ": "); s.Agreement != nil && i > 0 {
+			row.Finding = row.Finding[:i] + "."
+		}
 		// Its closing figures (r, its interval, n) stand in the study's
 		// headline: the summary keeps the words and the slope.
 		if i := strings.LastIndex(row.Finding, " ("); i > 0 && strings.HasSuffix(row.Finding, ").") && strings.HasPrefix(row.Finding[i:], " (r = ") {
@@ -605,7 +610,7 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		var status []string
 		for _, st := range statusOf(s) {
 			if !(f.Reversal && strings.HasPrefix(st, "reverses within ")) && !(len(f.ExplainedBy) > 0 && strings.HasPrefix(st, "explained by ")) &&
-				!(f.OutlierDriven && st == "rests on single rows") {
+				!(f.OutlierDriven && st == "rests on single rows") && !(f.Form == "curved" && strings.Contains(row.Finding, "follows a curve")) {
 				status = append(status, st)
 			}
 		}
@@ -858,8 +863,11 @@ func buildStudy(s *report.Study, anchor string, index int, level, design string,
 	}
 	main := "scatter"
 	if s.Agreement != nil {
+		// The methods chart draws y against x with the Deming line and the
+		// identity: the least-squares scatterplot and its distances would
+		// show the same rows again.
 		main = "agreement"
-		figs = append([]kindFig{{"agreement", chart.DifferenceMean(s, prefix+"agreement", level)}, {"methods", chart.MethodPair(s, prefix+"methods")}}, figs...)
+		figs = append([]kindFig{{"agreement", chart.DifferenceMean(s, prefix+"agreement", level)}, {"methods", chart.MethodPair(s, prefix+"methods")}}, figs[2:]...)
 	}
 	for _, fc := range figs {
 		if fc.fig == nil {

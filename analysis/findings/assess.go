@@ -743,7 +743,7 @@ func (f *facts) reversalCount() string {
 			sigOpp++
 		}
 	}
-	return fmt.Sprintf("of the %d groups compared, %d %s a slope of the opposite sign, %d of them clearly (interval excluding 0), and none clearly has the pooled sign",
+	return fmt.Sprintf("of the %d groups compared, %d %s a slope of the opposite sign, %d clearly (interval excluding 0), none clearly the pooled sign",
 		len(g), opposite, plural(opposite, "has", "have"), sigOpp)
 }
 

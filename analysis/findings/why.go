@@ -36,8 +36,8 @@ func (f *facts) reasons(out *report.Findings) []report.Reason {
 		add("outlier_driven", "Influence", "Outlier-driven: "+strings.ToLower(h[:1])+h[1:])
 	}
 	if out.Reversal {
-		add("reversal", "Groups", fmt.Sprintf("Reversal: pooled, r = %s; within groups of %s, %s (groups of at least %d rows are compared, %s).",
-			f.rNum(), f.groupLabel(), f.reversalCount(), f.th.ReversalMinGroup, OwnChoice))
+		add("reversal", "Groups", fmt.Sprintf("Reversal: pooled, r = %s; within groups of %s (at least %d rows, %s), %s.",
+			f.rNum(), f.groupLabel(), f.th.ReversalMinGroup, OwnChoice, f.reversalCount()))
 	}
 	switch out.Lines {
 	case "parallel":
@@ -58,8 +58,11 @@ func (f *facts) reasons(out *report.Findings) []report.Reason {
 			parts = append(parts, fmt.Sprintf("holding %s fixed, partial r = %s (%s, %s): %s",
 				f.covariateLabels([]string{pc.Covariate})[0], corr(float64(pc.R)), f.interval(pc.CILow, pc.CIHigh), f.pv(float64(pc.P)), why))
 		}
-		add("explained_by", "Covariates", "Explained by "+joinAnd(f.covariateLabels(out.ExplainedBy))+": "+strings.Join(parts, "; ")+
-			" (each partial correlation holds one covariate fixed).")
+		each := ""
+		if len(parts) > 1 {
+			each = " (each partial correlation holds one covariate fixed)"
+		}
+		add("explained_by", "Covariates", "Explained by "+joinAnd(f.covariateLabels(out.ExplainedBy))+": "+strings.Join(parts, "; ")+each+".")
 	}
 	if out.Drift {
 		add("drift", "Run order", fmt.Sprintf("Drift: the residuals drift in run order (by %s; %s), below alpha = %s.", f.orderLabel(), f.orderFigures(), f.alphaText()))

@@ -246,7 +246,11 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 func dataTable(studies []report.Study) table {
 	t := table{Caption: "Where the data lie: each study's complete rows",
 		Head: []string{"Variable", "Range", "Middle half", "Middle value", "Average ± SD", "Studies"},
-		Num:  []bool{false, true, true, true, true, false}}
+		Num:  []bool{false, true, true, true, true, false},
+		// in HTML, beside the range: the range drawn as a line, the
+		// middle half as a bar on it, the middle value a stroke across
+		// and the average a dot, each variable on its own range
+		GlyphHead: "Bar: middle half; stroke: middle value; dot: average"}
 	at := map[string]int{}
 	for _, s := range studies {
 		d := s.Describe
@@ -257,7 +261,9 @@ func dataTable(studies []report.Study) table {
 			v report.Variable
 			d report.Describe
 		}{{s.X, d.X}, {s.Y, d.Y}} {
-			row := []string{withUnit(v.v), num(v.d.Min) + " to " + num(v.d.Max), num(v.d.Q1) + " to " + num(v.d.Q3),
+			// The range holds recorded values: no zeros padded to four
+			// digits ("9.4 to 36 s", not "9.400 to 36.00").
+			row := []string{withUnit(v.v), trimZeros(num(v.d.Min)) + " to " + trimZeros(num(v.d.Max)), num(v.d.Q1) + " to " + num(v.d.Q3),
 				num(v.d.Median), num(v.d.Mean) + " ± " + num(v.d.SD)}
 			key := strings.Join(row, "\x00")
 			if i, ok := at[key]; ok {
@@ -266,9 +272,49 @@ func dataTable(studies []report.Study) table {
 			}
 			at[key] = len(t.Rows)
 			t.Rows = append(t.Rows, append(row, s.ID))
+			t.Glyphs = append(t.Glyphs, spreadGlyph(v.d))
 		}
 	}
 	return t
+}
+
+// trimZeros drops the zeros a fixed number of significant digits pads
+// after a decimal point: "9.400" → "9.4", "36.00" → "36".
+func trimZeros(s string) string {
+	if !strings.Contains(s, ".") || strings.ContainsAny(s, "e") {
+		return s
+	}
+	return strings.TrimSuffix(strings.TrimRight(s, "0"), ".")
+}
+
+// spreadGlyph draws one variable's range (min to max) as a thin line, its
+// middle half (Q1 to Q3) as a bar, its median as a stroke across the bar
+// and its mean as a dot, on its own range: a small picture of where the
+// values lie, beside their numbers. It places the report's figures on a
+// 0–100 scale and computes nothing else; "" when the range is empty.
+func spreadGlyph(d report.Describe) string {
+	lo, hi := float64(d.Min), float64(d.Max)
+	if !d.Min.Valid() || !d.Max.Valid() || !(hi > lo) {
+		return ""
+	}
+	at := func(v report.Float) string {
+		return strconv.FormatFloat(4+92*(float64(v)-lo)/(hi-lo), 'f', 1, 64)
+	}
+	var b strings.Builder
+	b.WriteString(`<svg class="spread" viewBox="0 0 100 14" width="100" height="14" role="img" aria-label="range, middle half, middle value and average">`)
+	b.WriteString(`<path d="M4 7H96" stroke="currentColor" stroke-width="1"/>`)
+	if d.Q1.Valid() && d.Q3.Valid() {
+		fmt.Fprintf(&b, `<rect x="%s" y="3" width="%s" height="8" class="mid"/>`, at(d.Q1),
+			strconv.FormatFloat(92*(float64(d.Q3)-float64(d.Q1))/(hi-lo), 'f', 1, 64))
+	}
+	if d.Median.Valid() {
+		fmt.Fprintf(&b, `<path d="M%s 1V13" stroke="currentColor" stroke-width="2"/>`, at(d.Median))
+	}
+	if d.Mean.Valid() {
+		fmt.Fprintf(&b, `<circle cx="%s" cy="7" r="2.2" class="avg"/>`, at(d.Mean))
+	}
+	b.WriteString(`</svg>`)
+	return b.String()
 }
 
 // paren is " (unit)", or "" without a unit.

@@ -95,6 +95,10 @@ type table struct {
 	Rows    [][]string
 	Classes []string // optional class per row ("bad", "ok"), HTML only
 	Links   []string // optional fragment per row: the first cell links to it, HTML only
+	// Glyphs, HTML only: a small drawing per row (trusted SVG), shown in
+	// a column of its own headed GlyphHead after the second column.
+	Glyphs    []string
+	GlyphHead string
 }
 
 func (t table) Empty() bool { return len(t.Rows) == 0 }
@@ -703,12 +707,13 @@ func summarySlope(s *report.Study, row *summaryRow) {
 		row.Slope = withSym(num(se.SlopeWithoutFlagged), per)
 		row.SlopeCI = "(" + without + "; all rows " + pooled + ")"
 	case f.Reversal && len(s.Groups) > 0 && len(s.Groups) <= 4:
+		// three significant digits, as the finding's range of them
 		var parts []string
 		for _, g := range s.Groups {
-			parts = append(parts, num(g.Slope)+" ("+g.Group+")")
+			parts = append(parts, g.Group+" "+sig3(g.Slope))
 		}
-		row.Slope = withSym(strings.Join(parts, ", "), per)
-		row.SlopeCI = "(within " + chart.GroupName(s) + "; pooled " + pooled + ")"
+		row.Slope = strings.Join(parts, ", ")
+		row.SlopeCI = "(" + per + " within " + chart.GroupName(s) + "; pooled " + pooled + ")"
 	case f.Reversal:
 		row.Slope, row.SlopeCI = "within "+chart.GroupName(s)+": see finding", "(pooled "+withSym(pooled, per)+")"
 	case len(f.ExplainedBy) > 0:

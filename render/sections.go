@@ -534,9 +534,17 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
 		sec.Tables = append(sec.Tables, t)
 	}
-	sec.After = append(sec.After, fmt.Sprintf("Leaving out any one row: r %s%s to %s%s; slope %s to %s.",
-		num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), withSym(num(se.LooSlopeMax), unitPer(s))))
-	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() {
+	// (An agreement study is judged by its differences: the line of y
+	// on x without each row stays in results.json.)
+	if s.Agreement == nil {
+		sec.After = append(sec.After, fmt.Sprintf("Leaving out any one row: r %s%s to %s%s; slope %s to %s.",
+			num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), withSym(num(se.LooSlopeMax), unitPer(s))))
+	}
+	// An outlier-driven headline that gives r and p without the flagged
+	// rows says it already.
+	said := s.Findings != nil && s.Findings.OutlierDriven &&
+		(strings.Contains(s.Findings.Headline, "without it, r = ") || strings.Contains(s.Findings.Headline, "without them, r = "))
+	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() && !said {
 		sec.After = append(sec.After, fmt.Sprintf("Without the flagged rows, p for r is %s (%s%% interval shown with r).", pval(se.PWithoutFlagged), level))
 	}
 	return sec, nil

@@ -54,8 +54,8 @@ type page struct {
 var appendix = []string{
 	"Curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm), not across studies; the distance correlation and the residuals in order of x are screened at alpha unadjusted. A flag calls for a look at the charts, not a conclusion.",
 	"Unusual rows, with each study's cuts for its number of rows: off the line, the row's distance from the line fitted without it, in standard errors (externally studentized residual); pull on the line, how far the line moves without it (Cook's distance); reach in x, how far out in x it lies, 1/n to 1 (leverage). Rows far out in x but close to the line are counted, not named.",
-	"Charts: the least-squares line in its confidence band (a curve, or the lines within groups that reverse it, when found, as the main fit), a LOWESS smooth dash-dot, named rows circled; under it, on the same x axis, each row's distance from the fit, and beside it the drift strip in run order: a bow, a funnel or long runs on one side say where the fit misses.",
-	"Other shapes: the typical scatter each leaves (residual SD), how much less (or more) squared scatter (residual sum of squares) than the line, and its AIC against the line's (lower: a better fit, its extra coefficients counted). Fits of ln(y) are on another scale: results.json only.",
+	"Charts: the main fit (the least-squares line in its confidence band, or a curve or the lines within groups where found), LOWESS dash-dot, named rows circled; under it, on its x axis, each row's distance from the fit, beside it the drift strip in run order: a bow, a funnel or long runs on one side say where the fit misses.",
+	"Other shapes: the scatter each leaves (residual SD), its squared scatter (residual sum of squares) against the line's, and its AIC against the line's (lower: better, its extra coefficients counted). Fits of ln(y): results.json only.",
 	"p below 0.0001 is printed \"< 0.0001\"; results.json holds every exact value and every figure the report leaves out.",
 }
 
@@ -75,7 +75,20 @@ var glossary = []kv{
 	{"Breusch–Pagan", "tests whether the scatter changes with x"},
 	{"Durbin–Watson", "2 when neighbouring rows stray independently, well below 2 when together"},
 	{"AIC", "closeness of a fit penalised for its coefficients; lower is better"},
+	{"Theil–Sen", "the median slope between pairs of rows: a few rows cannot sway it"},
+	{"LOWESS", "a smooth curve through the points, fitted piece by piece"},
 }
+
+// glossaryHolm and glossaryAgreement are defined where the report uses
+// them: Holm's adjustment in every report that adjusts by it, the method
+// comparison's terms only with an agreement study.
+var (
+	glossaryHolm      = kv{"Holm", "raises p-values for the number of tests read together"}
+	glossaryAgreement = []kv{
+		{"Deming, Passing–Bablok", "lines for two methods that both carry error"},
+		{"Lin's concordance", "closeness to exact agreement, -1 to 1"},
+	}
+)
 
 // failedGate is one failed CI gate, for the banner at the top.
 type failedGate struct {
@@ -342,7 +355,13 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 
 	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(p.Level)}
 	p.RunDate = runDate(r.Generated)
-	p.Appendix, p.Glossary = append([]string(nil), appendix...), glossary
+	p.Appendix, p.Glossary = append([]string(nil), appendix...), append([]kv(nil), glossary...)
+	if m.Adjust == "holm" || slices.ContainsFunc(r.Studies, func(s report.Study) bool { return s.Findings != nil && len(s.Findings.Checks) > 1 }) {
+		p.Glossary = append(p.Glossary, glossaryHolm)
+	}
+	if slices.ContainsFunc(r.Studies, func(s report.Study) bool { return s.Agreement != nil }) {
+		p.Glossary = append(p.Glossary, glossaryAgreement...)
+	}
 	for i := range r.Studies {
 		if f := r.Studies[i].Findings; f != nil && slices.ContainsFunc(f.Limits, func(l string) bool { return strings.HasPrefix(l, "These data are observational") }) {
 			p.Appendix = append([]string{observational}, p.Appendix...)
@@ -831,6 +850,8 @@ func buildStudy(s *report.Study, anchor string, index int, level, design string,
 		switch {
 		case !e.OK && s.Findings != nil && strings.TrimSpace(e.Detail) == strings.TrimSpace(s.Findings.Headline):
 			text += "." // its detail is the study's headline, just above
+		case !e.OK && e.Got != "" && strings.Contains(e.Detail, e.Got):
+			text += "." // its detail restates the figure found (its interval stands in the numbers)
 		case !e.OK:
 			text += ". " + capital(strings.TrimSuffix(ascii(e.Detail), ".")) + "."
 		case e.Want == e.Got:
@@ -949,7 +970,7 @@ func covariateLabels(s *report.Study, columns []string) []string {
 // are in results.json, "plan.statements"). An agreement study plans the
 // intervals of its limits of agreement instead: a sentence each (plans).
 func plansTable(studies []report.Study, level string) (table, []string) {
-	t := table{Caption: "Planning the next run, at this run's r, scatter and spread of x: rows for the " + level + "% intervals of r and the slope to reach their targets (set: from the manifest), and to detect r (Fisher z)",
+	t := table{Caption: "Planning the next run, at this run's r, scatter and spread of x: rows for the " + level + "% intervals of r and the slope to reach their targets (set: from the manifest), and to detect r",
 		Head: []string{"Study", "r: ± now → target", "Rows", "Slope: ± now → target", "Rows", "Rows to detect r (power)"},
 		Num:  []bool{false, true, true, true, true, true}}
 	var notes []string

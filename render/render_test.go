@@ -540,7 +540,7 @@ func TestFirstScreenAndConventions(t *testing.T) {
 		}
 	}
 	// Every check is a question answered in words first.
-	_, checks, _ := strings.Cut(md, "*The checks of every study")
+	_, checks, _ := strings.Cut(md, "*Checks of every study")
 	checks, _, _ = strings.Cut(checks, "\n\n---")
 	rows := regexp.MustCompile(`(?m)^\| (?:gap-vs-force|cure-vs-hold)[^|]*\|([^\n]*)$`).FindAllStringSubmatch(checks, -1)
 	if len(rows) == 0 {

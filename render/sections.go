@@ -191,7 +191,9 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 	add := func(q, a, ci, p, how string) { t.Rows = append(t.Rows, []string{q + " (" + how + ")", a, ci, p}) }
 	per, ySym := unitPer(s), orWord(ySym(s), "y units")
 	if l := s.Line; l != nil && l.Slope != nil {
-		add("Change along the line, "+per, num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P),
+		// One p for one question: the slope's t test is r's test, whose p
+		// (adjusted across studies) the r row gives; results.json keeps both.
+		add("Change along the line, "+per, num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), "",
 			"slope; SE "+num(l.Slope.SE))
 		if rb, f := s.Robust, s.Findings; rb != nil && f != nil {
 			if rb.HAC != nil && f.Autocorrelated {
@@ -469,7 +471,7 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 			caption = fmt.Sprintf("The first %d of %d rows flagged outlier, influential or sole support, largest Cook's distance first", len(in.Points), c.Suspect)
 		}
 		t := table{Caption: caption,
-			Head: []string{"Row", "x" + paren(xSym(s)), "y" + paren(ySym(s)), "Off the line", "Pull on the line", "Reach in x", "Why flagged"},
+			Head: []string{"Row", "x" + paren(xSym(s)), "y" + paren(ySym(s)), "Off the line (SEs)", "Pull on the line", "Reach in x (0–1)", "Why flagged"},
 			Num:  []bool{false, true, true, true, true, true, false}}
 		for _, pt := range in.Points {
 			t.Rows = append(t.Rows, []string{pt.Row, num(pt.X), num(pt.Y), num(pt.StudentizedExt),
@@ -890,7 +892,7 @@ func answer(yes bool, p report.Float, more ...string) string {
 // cell the findings' answer in words, then its figures (p, and the
 // statistic where it is read against a cut point).
 func checksTable(studies []report.Study, anchors []string) table {
-	t := table{Caption: "The checks of every study: p after Holm's adjustment over the study's checks (tests: glossary)",
+	t := table{Caption: "Checks of every study: p Holm-adjusted over the study's checks (tests: glossary)",
 		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings stray from it? (lack of fit)", "Does x matter in a way the line misses? (distance correlation, 0 to 1)", "Does the scatter change with x? (Breusch–Pagan)", "Does it drift in run order? (trend; Durbin–Watson, DW)"},
 		Num:  []bool{false, false, false, false, false, false}}
 	floor := 0 // permutations of a p at its floor, for the caption
@@ -943,7 +945,7 @@ func checksTable(studies []report.Study, anchors []string) table {
 		t.Links = append(t.Links, "study-"+anchors[i])
 	}
 	if floor > 0 {
-		t.Caption += fmt.Sprintf("; p ≤ %s is the smallest p %d permutations can give", pval(report.Float(1/float64(floor+1))), floor)
+		t.Caption += fmt.Sprintf("; p ≤ %s is the least %d permutations give", pval(report.Float(1/float64(floor+1))), floor)
 	}
 	return t
 }

@@ -990,7 +990,10 @@ func plansTable(studies []report.Study, level string) (table, []string) {
 	sameR := ""
 	for _, s := range studies {
 		if p := s.Plan; p != nil && s.Error == nil && p.RHalfWidth.Valid() {
-			switch t := num(p.RHalfWidth) + map[bool]string{true: " (set)"}[p.RHalfWidthFrom == "declared"]; {
+			// a set target (declared, or the default) as written: ±0.1,
+			// not ±0.1000
+			hw := trimZeros(num(p.RHalfWidth))
+			switch t := hw + map[bool]string{true: " (set)"}[p.RHalfWidthFrom == "declared"]; {
 			case sameR == "":
 				sameR = t
 			case sameR != t:

@@ -383,13 +383,17 @@ func shapesText(s *report.Study) string {
 		case v < 0:
 			share = strings.TrimPrefix(pct(m.ShareVsLine), "-") + " more squared scatter"
 		}
+		// AIC differences to one decimal: finer digits mean nothing.
 		aic := "AIC n/a"
 		if m.AICVsLine.Valid() {
-			aic = "AIC " + strings.TrimPrefix(num(m.AICVsLine), "-")
-			if float64(m.AICVsLine) < 0 {
-				aic += " lower"
-			} else {
-				aic += " higher"
+			d := strings.TrimPrefix(minus(strconv.FormatFloat(float64(m.AICVsLine), 'f', 1, 64)), "-")
+			switch {
+			case d == "0.0":
+				aic = "about the line's AIC"
+			case float64(m.AICVsLine) < 0:
+				aic = "AIC " + d + " lower"
+			default:
+				aic = "AIC " + d + " higher"
 			}
 		}
 		parts = append(parts, fmt.Sprintf("%s leaves %s, %s, %s", what, inY(s, m.ResidualSE), share, aic))

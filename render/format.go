@@ -124,3 +124,17 @@ func short(v float64) string {
 	}
 	return minus(negZero(strconv.FormatFloat(v, 'f', -1, 64)))
 }
+
+// sig3 writes v with three significant digits, as the findings' sentences
+// give the limits of agreement, so that the summary and the finding
+// print the same figure.
+func sig3(v report.Float) string { return sig(float64(v), 3) }
+
+// declared writes a value the manifest declared as it was written (the
+// shortest form that reads back the same), without padding zeros.
+func declared(v report.Float) string {
+	if !v.Valid() {
+		return na
+	}
+	return minus(strconv.FormatFloat(float64(v), 'g', -1, 64))
+}

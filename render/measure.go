@@ -50,7 +50,7 @@ func agreementSection(s *report.Study, level string, _ report.Thresholds) (*sect
 	}
 	// The difference per unit of the mean: y's unit per x's (both the
 	// same unit for two methods of one quantity).
-	add("Slope of the difference on the mean (p "+pval(a.TrendP)+")", withSym(num(a.TrendSlope), unitPer(s)), interval(a.TrendLow, a.TrendHigh))
+	add("Slope of the difference on the mean (p "+pval(a.TrendP)+")", withSym(num(a.TrendSlope), unitPer(s)), withSym(interval(a.TrendLow, a.TrendHigh), unitPer(s)))
 	sec.Tables = append(sec.Tables, t)
 
 	lines := table{Caption: "Lines of " + name(s.Y) + " on " + name(s.X),

@@ -130,7 +130,7 @@ func TestHTMLStructure(t *testing.T) {
 		"Mean of many rows, 95%", "One new row, 95%", "no — not supported", `class="limits limits"`, "What may not be concluded",
 		"<strong>press controller</strong>", "Without named row P0010", "Without all 2 flagged rows",
 		"Resistant line, Theil–Sen (exact)", "This study did not run.", "< 0.0001", "The line within each level of Resin lot",
-		"Other shapes against the line", "a bend (parabola)", "Where the data lie", "Cuts for 60 rows: off the line beyond"} {
+		"Other shapes, against the line", "a bend (parabola)", "Where the data lie", "Cuts for 60 rows: off the line beyond"} {
 		if !strings.Contains(page, strings.ReplaceAll(strings.ReplaceAll(want, "<", "&lt;"), "&lt;strong>", "<strong>")) && !strings.Contains(page, want) {
 			t.Errorf("report.html lacks %q", want)
 		}
@@ -540,7 +540,7 @@ func TestFirstScreenAndConventions(t *testing.T) {
 		}
 	}
 	// Every check is a question answered in words first.
-	_, checks, _ := strings.Cut(md, "*The checks of every study")
+	_, checks, _ := strings.Cut(md, "*Checks of every study")
 	checks, _, _ = strings.Cut(checks, "\n\n---")
 	rows := regexp.MustCompile(`(?m)^\| (?:gap-vs-force|cure-vs-hold)[^|]*\|([^\n]*)$`).FindAllStringSubmatch(checks, -1)
 	if len(rows) == 0 {

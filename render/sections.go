@@ -153,8 +153,22 @@ func checkOf(s *report.Study, name string) *report.Check {
 	return nil
 }
 
-// inY writes v with the unit of y.
-func inY(s *report.Study, v report.Float) string { return withSym(num(v), s.Y.Symbol) }
+// inY writes v with the unit of y on the study's scale.
+func inY(s *report.Study, v report.Float) string { return withSym(num(v), ySym(s)) }
+
+// ySym and xSym are the units of y and x as the study's figures are in
+// them: the recorded unit, or on a transformed scale the unit under it
+// ("ln µm", "ln y" without a unit), so that no log value is read as a
+// recorded one.
+func ySym(s *report.Study) string { return scaledSym(s.Y, "y") }
+func xSym(s *report.Study) string { return scaledSym(s.X, "x") }
+
+func scaledSym(v report.Variable, word string) string {
+	if v.Scale == "" {
+		return v.Symbol
+	}
+	return scaledPrefix[v.Scale] + orWord(v.Symbol, word)
+}
 
 // withSym writes a formatted value and a unit symbol.
 func withSym(v, sym string) string {
@@ -175,9 +189,11 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 	// The term follows the plain words in brackets (the glossary
 	// defines it).
 	add := func(q, a, ci, p, how string) { t.Rows = append(t.Rows, []string{q + " (" + how + ")", a, ci, p}) }
-	per, ySym := unitPer(s), orWord(s.Y.Symbol, "y units")
+	per, ySym := unitPer(s), orWord(ySym(s), "y units")
 	if l := s.Line; l != nil && l.Slope != nil {
-		add("Change along the line, "+per, num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), pval(l.Slope.P),
+		// One p for one question: the slope's t test is r's test, whose p
+		// (adjusted across studies) the r row gives; results.json keeps both.
+		add("Change along the line, "+per, num(l.Slope.Estimate), interval(l.Slope.CILow, l.Slope.CIHigh), "",
 			"slope; SE "+num(l.Slope.SE))
 		if rb, f := s.Robust, s.Findings; rb != nil && f != nil {
 			if rb.HAC != nil && f.Autocorrelated {
@@ -213,7 +229,9 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 	if sp, k := s.Spearman, s.Kendall; sp != nil && k != nil {
 		robust = append(robust, "Spearman ρ "+num(sp.Rho)+", Kendall τ-b "+num(k.TauB)+" (p "+pIs(sp.P)+")")
 	}
-	if len(robust) > 0 {
+	// An agreement study's resistant comparison is its Passing–Bablok
+	// line; the rank correlations of y on x stay in results.json there.
+	if len(robust) > 0 && s.Agreement == nil {
 		sec.After = append(sec.After, "Resistant to a few rows: "+strings.Join(robust, "; ")+".")
 	}
 	if sh := shapesText(s); sh != "" {
@@ -230,7 +248,11 @@ func keyFiguresSection(s *report.Study, level string, _ report.Thresholds) (*sec
 func dataTable(studies []report.Study) table {
 	t := table{Caption: "Where the data lie: each study's complete rows",
 		Head: []string{"Variable", "Range", "Middle half", "Middle value", "Average ± SD", "Studies"},
-		Num:  []bool{false, true, true, true, true, false}}
+		Num:  []bool{false, true, true, true, true, false},
+		// in HTML, beside the range: the range drawn as a line, the
+		// middle half as a bar on it, the middle value a stroke across
+		// and the average a dot, each variable on its own range
+		GlyphHead: "Bar: middle half; stroke: middle value; dot: average"}
 	at := map[string]int{}
 	for _, s := range studies {
 		d := s.Describe
@@ -241,7 +263,9 @@ func dataTable(studies []report.Study) table {
 			v report.Variable
 			d report.Describe
 		}{{s.X, d.X}, {s.Y, d.Y}} {
-			row := []string{withUnit(v.v), num(v.d.Min) + " to " + num(v.d.Max), num(v.d.Q1) + " to " + num(v.d.Q3),
+			// The range holds recorded values: no zeros padded to four
+			// digits ("9.4 to 36 s", not "9.400 to 36.00").
+			row := []string{withUnit(v.v), trimZeros(num(v.d.Min)) + " to " + trimZeros(num(v.d.Max)), num(v.d.Q1) + " to " + num(v.d.Q3),
 				num(v.d.Median), num(v.d.Mean) + " ± " + num(v.d.SD)}
 			key := strings.Join(row, "\x00")
 			if i, ok := at[key]; ok {
@@ -250,9 +274,49 @@ func dataTable(studies []report.Study) table {
 			}
 			at[key] = len(t.Rows)
 			t.Rows = append(t.Rows, append(row, s.ID))
+			t.Glyphs = append(t.Glyphs, spreadGlyph(v.d))
 		}
 	}
 	return t
+}
+
+// trimZeros drops the zeros a fixed number of significant digits pads
+// after a decimal point: "9.400" → "9.4", "36.00" → "36".
+func trimZeros(s string) string {
+	if !strings.Contains(s, ".") || strings.ContainsAny(s, "e") {
+		return s
+	}
+	return strings.TrimSuffix(strings.TrimRight(s, "0"), ".")
+}
+
+// spreadGlyph draws one variable's range (min to max) as a thin line, its
+// middle half (Q1 to Q3) as a bar, its median as a stroke across the bar
+// and its mean as a dot, on its own range: a small picture of where the
+// values lie, beside their numbers. It places the report's figures on a
+// 0–100 scale and computes nothing else; "" when the range is empty.
+func spreadGlyph(d report.Describe) string {
+	lo, hi := float64(d.Min), float64(d.Max)
+	if !d.Min.Valid() || !d.Max.Valid() || !(hi > lo) {
+		return ""
+	}
+	at := func(v report.Float) string {
+		return strconv.FormatFloat(4+92*(float64(v)-lo)/(hi-lo), 'f', 1, 64)
+	}
+	var b strings.Builder
+	b.WriteString(`<svg class="spread" viewBox="0 0 100 14" width="100" height="14" role="img" aria-label="range, middle half, middle value and average">`)
+	b.WriteString(`<path d="M4 7H96" stroke="currentColor" stroke-width="1"/>`)
+	if d.Q1.Valid() && d.Q3.Valid() {
+		fmt.Fprintf(&b, `<rect x="%s" y="3" width="%s" height="8" class="mid"/>`, at(d.Q1),
+			strconv.FormatFloat(92*(float64(d.Q3)-float64(d.Q1))/(hi-lo), 'f', 1, 64))
+	}
+	if d.Median.Valid() {
+		fmt.Fprintf(&b, `<path d="M%s 1V13" stroke="currentColor" stroke-width="2"/>`, at(d.Median))
+	}
+	if d.Mean.Valid() {
+		fmt.Fprintf(&b, `<circle cx="%s" cy="7" r="2.2" class="avg"/>`, at(d.Mean))
+	}
+	b.WriteString(`</svg>`)
+	return b.String()
 }
 
 // paren is " (unit)", or "" without a unit.
@@ -287,7 +351,9 @@ var shapeMeaning = map[string]string{
 // here: results.json keeps them, and the appendix says so once.
 func shapesText(s *report.Study) string {
 	l := s.Line
-	if l == nil {
+	if l == nil || s.Agreement != nil {
+		// two methods that measure one thing are compared by their
+		// differences, not by other shapes of y on x (results.json keeps them)
 		return ""
 	}
 	var parts []string
@@ -301,27 +367,41 @@ func shapesText(s *report.Study) string {
 		}
 		switch {
 		case m.Vertex.Valid() && m.VertexNear:
-			what += " turning at x = " + withSym(num(m.Vertex), s.X.Symbol)
+			what += " turning at x = " + withSym(num(m.Vertex), xSym(s))
 		case m.Vertex.Valid():
 			what += " turning far outside the data"
 		}
-		// The share of the line's squared scatter the shape takes off
-		// (negative: it adds), and its AIC against the line; the appendix
-		// says once how to read both.
-		share, pc := "less", pct(m.ShareVsLine)
-		if m.ShareVsLine.Valid() && float64(m.ShareVsLine) < 0 {
-			share, pc = "more", strings.TrimPrefix(pc, "-")
+		// The squared scatter it takes off the line's (or adds), and its
+		// AIC against the line's, in words; the appendix says once how to
+		// read both.
+		share := pct(m.ShareVsLine) + " less squared scatter"
+		switch v := float64(m.ShareVsLine); {
+		case !m.ShareVsLine.Valid():
+			share = "squared scatter n/a"
+		case pct(m.ShareVsLine) == "0.0%" || pct(m.ShareVsLine) == "-0.0%":
+			share = "about the same squared scatter"
+		case v < 0:
+			share = strings.TrimPrefix(pct(m.ShareVsLine), "-") + " more squared scatter"
 		}
-		sc := "scatter "
-		if len(parts) > 0 {
-			sc = ""
+		// AIC differences to one decimal: finer digits mean nothing.
+		aic := "AIC n/a"
+		if m.AICVsLine.Valid() {
+			d := strings.TrimPrefix(minus(strconv.FormatFloat(float64(m.AICVsLine), 'f', 1, 64)), "-")
+			switch {
+			case d == "0.0":
+				aic = "about the line's AIC"
+			case float64(m.AICVsLine) < 0:
+				aic = "AIC " + d + " lower"
+			default:
+				aic = "AIC " + d + " higher"
+			}
 		}
-		parts = append(parts, fmt.Sprintf("%s: %s%s, %s %s, AIC %s", what, sc, inY(s, m.ResidualSE), pc, share, signedNum(m.AICVsLine)))
+		parts = append(parts, fmt.Sprintf("%s leaves %s, %s, %s", what, inY(s, m.ResidualSE), share, aic))
 	}
 	if len(parts) == 0 {
 		return ""
 	}
-	return "Other shapes against the line: " + strings.Join(parts, "; ") + "."
+	return "Other shapes, against the line's scatter of " + inY(s, l.ResidualSE) + ": " + strings.Join(parts, "; ") + "."
 }
 
 // pct writes a share as a percentage with one decimal, n/a when undefined.
@@ -395,7 +475,7 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 			caption = fmt.Sprintf("The first %d of %d rows flagged outlier, influential or sole support, largest Cook's distance first", len(in.Points), c.Suspect)
 		}
 		t := table{Caption: caption,
-			Head: []string{"Row", "x" + paren(s.X.Symbol), "y" + paren(s.Y.Symbol), "Off the line", "Pull on the line", "Reach in x", "Why flagged"},
+			Head: []string{"Row", "x" + paren(xSym(s)), "y" + paren(ySym(s)), "Off the line (SEs)", "Pull on the line", "Reach in x (0–1)", "Why flagged"},
 			Num:  []bool{false, true, true, true, true, true, false}}
 		for _, pt := range in.Points {
 			t.Rows = append(t.Rows, []string{pt.Row, num(pt.X), num(pt.Y), num(pt.StudentizedExt),
@@ -418,7 +498,7 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		return nil, nil
 	}
 	sec := &section{Key: "sensitivity", Title: "How much the result rests on single rows"}
-	t := table{Caption: "The line fitted to different sets of rows", Head: []string{"Rows", "r", "Slope (" + unitPer(s) + ")", "Intercept (" + orWord(s.Y.Symbol, "y units") + ")"},
+	t := table{Caption: "The line fitted to different sets of rows", Head: []string{"Rows", "r", "Slope (" + unitPer(s) + ")", "Intercept (" + orWord(ySym(s), "y units") + ")"},
 		Num: []bool{false, true, true, true}}
 	r, slope, icpt := report.NaN(), report.NaN(), report.NaN()
 	if s.Pearson != nil {
@@ -460,9 +540,17 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 		t.Rows = append(t.Rows, []string{method, na, num(se.ResistantSlope), num(se.ResistantIntercept)})
 		sec.Tables = append(sec.Tables, t)
 	}
-	sec.After = append(sec.After, fmt.Sprintf("Leaving out any one row: r %s%s to %s%s; slope %s to %s.",
-		num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), withSym(num(se.LooSlopeMax), unitPer(s))))
-	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() {
+	// (An agreement study is judged by its differences: the line of y
+	// on x without each row stays in results.json.)
+	if s.Agreement == nil {
+		sec.After = append(sec.After, fmt.Sprintf("Leaving out any one row: r %s%s to %s%s; slope %s to %s.",
+			num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), withSym(num(se.LooSlopeMax), unitPer(s))))
+	}
+	// An outlier-driven headline that gives r and p without the flagged
+	// rows says it already.
+	said := s.Findings != nil && s.Findings.OutlierDriven &&
+		(strings.Contains(s.Findings.Headline, "without it, r = ") || strings.Contains(s.Findings.Headline, "without them, r = "))
+	if se.NFlagged > 0 && se.PWithoutFlagged.Valid() && !said {
 		sec.After = append(sec.After, fmt.Sprintf("Without the flagged rows, p for r is %s (%s%% interval shown with r).", pval(se.PWithoutFlagged), level))
 	}
 	return sec, nil
@@ -579,7 +667,7 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 	}
 	sec := &section{Key: "groups", Title: "Groups and other variables"}
 	if len(s.Groups) > 0 {
-		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope, " + unitPer(s) + " (" + level + "% interval)", "Intercept (" + orWord(s.Y.Symbol, "y units") + ")"},
+		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope, " + unitPer(s) + " (" + level + "% interval)", "Intercept (" + orWord(ySym(s), "y units") + ")"},
 			Num: []bool{false, true, true, true, true}}
 		for _, g := range s.Groups {
 			t.Rows = append(t.Rows, []string{g.Group, itoa(g.N), num(g.R), withCI(g.Slope, g.SlopeLow, g.SlopeHigh), num(g.Intercept)})
@@ -606,7 +694,7 @@ func predictionsSection(s *report.Study, level string, _ report.Thresholds) (*se
 		return nil, nil
 	}
 	sec := &section{Key: "predictions", Title: "Predictions"}
-	t := table{Head: []string{"x" + paren(s.X.Symbol), "Line" + paren(s.Y.Symbol), "Mean of many rows, " + level + "%" + paren(s.Y.Symbol), "One new row, " + level + "%" + paren(s.Y.Symbol), "Inside the data"},
+	t := table{Head: []string{"x" + paren(xSym(s)), "Line" + paren(ySym(s)), "Mean of many rows, " + level + "%" + paren(ySym(s)), "One new row, " + level + "%" + paren(ySym(s)), "Inside the data"},
 		Num: []bool{true, true, true, true, false}}
 	for _, p := range s.Predictions {
 		in := "yes"
@@ -808,9 +896,10 @@ func answer(yes bool, p report.Float, more ...string) string {
 // cell the findings' answer in words, then its figures (p, and the
 // statistic where it is read against a cut point).
 func checksTable(studies []report.Study, anchors []string) table {
-	t := table{Caption: "The checks of every study: p after Holm's adjustment over the study's checks (tests: glossary)",
+	t := table{Caption: "Checks of every study: p Holm-adjusted over the study's checks (tests: glossary)",
 		Head: []string{"Study", "Does the line bend? (x² term)", "Do repeated settings stray from it? (lack of fit)", "Does x matter in a way the line misses? (distance correlation, 0 to 1)", "Does the scatter change with x? (Breusch–Pagan)", "Does it drift in run order? (trend; Durbin–Watson, DW)"},
 		Num:  []bool{false, false, false, false, false, false}}
+	floor := 0 // permutations of a p at its floor, for the caption
 	for i := range studies {
 		s := &studies[i]
 		f, d := s.Findings, s.Diagnostics
@@ -830,10 +919,25 @@ func checksTable(studies []report.Study, anchors []string) table {
 			row[2] = answer(c.Raised, c.PAdjusted)
 		}
 		if dc := d.DistanceCorr; dc != nil {
-			// Yes only where the findings read a dependence the line
-			// misses (form "nonlinear"); a strong one the line follows is
-			// the line's.
-			row[3] = answer(f.Form == "nonlinear", dc.P, num(dc.DCor))
+			// Yes where the findings read a dependence the line misses:
+			// form "nonlinear", or a curve (the bend column's); a strong
+			// dependence the line follows is the line's, and says so.
+			p := pval(dc.P)
+			if atFloor(dc) {
+				p = "≤ " + p
+				floor = dc.Permutations
+			}
+			fig := " (" + num(dc.DCor) + "; p " + p + ")"
+			switch {
+			case f.Form == "curved":
+				row[3] = "Yes: the curve" + fig
+			case f.Form == "nonlinear":
+				row[3] = "Yes" + fig
+			case f.Form == "linear":
+				row[3] = "No: the line follows it" + fig
+			default:
+				row[3] = "No" + fig
+			}
 		}
 		if c := checkOf(s, "changing-spread"); c != nil {
 			row[4] = answer(f.SpreadChanges, c.PAdjusted)
@@ -844,5 +948,15 @@ func checksTable(studies []report.Study, anchors []string) table {
 		t.Rows = append(t.Rows, row)
 		t.Links = append(t.Links, "study-"+anchors[i])
 	}
+	if floor > 0 {
+		t.Caption += fmt.Sprintf("; p ≤ %s is the least %d permutations give", pval(report.Float(1/float64(floor+1))), floor)
+	}
 	return t
+}
+
+// atFloor reports whether the permutation p of the distance correlation
+// is the smallest its permutations can give, 1/(B + 1): no permutation
+// reached the observed value (the p as the analysis defines it).
+func atFloor(dc *report.DistanceCorr) bool {
+	return dc.Permutations > 0 && dc.P.Valid() && float64(dc.P)*float64(dc.Permutations+1) <= 1+1e-9
 }

@@ -54,8 +54,8 @@ type page struct {
 var appendix = []string{
 	"Curvature, lack of fit, changing scatter and drift are screens: their p-values share alpha within each study (Holm), not across studies; the distance correlation and the residuals in order of x are screened at alpha unadjusted. A flag calls for a look at the charts, not a conclusion.",
 	"Unusual rows, with each study's cuts for its number of rows: off the line, the row's distance from the line fitted without it, in standard errors (externally studentized residual); pull on the line, how far the line moves without it (Cook's distance); reach in x, how far out in x it lies, 1/n to 1 (leverage). Rows far out in x but close to the line are counted, not named.",
-	"Charts: the least-squares line in its confidence band (a curve, when found, as the main fit), a LOWESS smooth dash-dot, named rows circled; below, each row's distance from the line by fitted value and in run order: a bow, a funnel, a slope or long runs on one side say the line, an even scatter or a steady run does not fit.",
-	"Other shapes: the typical scatter each leaves, the share of the line's squared scatter (residual sum of squares) it takes off (more: it adds), and AIC against the line (below 0: a better fit for its extra coefficients). Fits of ln(y) are on another scale: results.json only.",
+	"Charts: the main fit (the least-squares line in its confidence band, or a curve or the lines within groups where found), LOWESS dash-dot, named rows circled; under it, on its x axis, each row's distance from the fit, beside it the drift strip in run order: a bow, a funnel or long runs on one side say where the fit misses.",
+	"Other shapes: the scatter each leaves (residual SD), its squared scatter (residual sum of squares) against the line's, and its AIC against the line's (lower: better, its extra coefficients counted). Fits of ln(y): results.json only.",
 	"p below 0.0001 is printed \"< 0.0001\"; results.json holds every exact value and every figure the report leaves out.",
 }
 
@@ -75,7 +75,20 @@ var glossary = []kv{
 	{"Breusch–Pagan", "tests whether the scatter changes with x"},
 	{"Durbin–Watson", "2 when neighbouring rows stray independently, well below 2 when together"},
 	{"AIC", "closeness of a fit penalised for its coefficients; lower is better"},
+	{"Theil–Sen", "the median slope between pairs of rows: a few rows cannot sway it"},
+	{"LOWESS", "a smooth curve through the points, fitted piece by piece"},
 }
+
+// glossaryHolm and glossaryAgreement are defined where the report uses
+// them: Holm's adjustment in every report that adjusts by it, the method
+// comparison's terms only with an agreement study.
+var (
+	glossaryHolm      = kv{"Holm", "raises p-values for the number of tests read together"}
+	glossaryAgreement = []kv{
+		{"Deming, Passing–Bablok", "lines for two methods that both carry error"},
+		{"Lin's concordance", "closeness to exact agreement, -1 to 1"},
+	}
+)
 
 // failedGate is one failed CI gate, for the banner at the top.
 type failedGate struct {
@@ -95,6 +108,10 @@ type table struct {
 	Rows    [][]string
 	Classes []string // optional class per row ("bad", "ok"), HTML only
 	Links   []string // optional fragment per row: the first cell links to it, HTML only
+	// Glyphs, HTML only: a small drawing per row (trusted SVG), shown in
+	// a column of its own headed GlyphHead after the second column.
+	Glyphs    []string
+	GlyphHead string
 }
 
 func (t table) Empty() bool { return len(t.Rows) == 0 }
@@ -112,6 +129,11 @@ type figure struct {
 	Alt     string
 	Caption string
 	Main    bool
+	Under   bool // stands under the main figure, as wide, on its x axis
+	// UnderSVG and UnderCaption are, on the main figure, the Under
+	// figure's: the HTML draws it inside the main figure, right under the
+	// chart whose x axis it shares, and their captions after both.
+	UnderSVG, UnderCaption string
 	// Note is the caption where it says more than Alt, for report.md,
 	// which shows both (the HTML shows the caption only).
 	Note string
@@ -333,7 +355,13 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 
 	p.Summary = summary{Level: p.Level, PHead: pHead(m.Adjust), Caption: summaryCaption(p.Level)}
 	p.RunDate = runDate(r.Generated)
-	p.Appendix, p.Glossary = append([]string(nil), appendix...), glossary
+	p.Appendix, p.Glossary = append([]string(nil), appendix...), append([]kv(nil), glossary...)
+	if m.Adjust == "holm" || slices.ContainsFunc(r.Studies, func(s report.Study) bool { return s.Findings != nil && len(s.Findings.Checks) > 1 }) {
+		p.Glossary = append(p.Glossary, glossaryHolm)
+	}
+	if slices.ContainsFunc(r.Studies, func(s report.Study) bool { return s.Agreement != nil }) {
+		p.Glossary = append(p.Glossary, glossaryAgreement...)
+	}
 	for i := range r.Studies {
 		if f := r.Studies[i].Findings; f != nil && slices.ContainsFunc(f.Limits, func(l string) bool { return strings.HasPrefix(l, "These data are observational") }) {
 			p.Appendix = append([]string{observational}, p.Appendix...)
@@ -590,12 +618,26 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		// reversal, a covariate, the line with all rows) the status names,
 		// and the study gives in full.
 		row.Finding = firstSentence(ascii(f.Headline))
+		// An agreement verdict's figures (the limits) stand in the
+		// summary's figures column: the verdict's words are enough here.
+		if i := strings.Index(row.Finding, ": "); s.Agreement != nil && i > 0 {
+			row.Finding = row.Finding[:i] + "."
+		}
 		// Its closing figures (r, its interval, n) stand in the study's
 		// headline: the summary keeps the words and the slope.
 		if i := strings.LastIndex(row.Finding, " ("); i > 0 && strings.HasSuffix(row.Finding, ").") && strings.HasPrefix(row.Finding[i:], " (r = ") {
 			row.Finding = row.Finding[:i] + "."
 		}
-		row.Status = strings.Join(statusOf(s), "; ")
+		// The status names what the finding's opening sentence does not
+		// already lead with (a reversal, a covariate, single rows).
+		var status []string
+		for _, st := range statusOf(s) {
+			if !(f.Reversal && strings.HasPrefix(st, "reverses within ")) && !(len(f.ExplainedBy) > 0 && strings.HasPrefix(st, "explained by ")) &&
+				!(f.OutlierDriven && st == "rests on single rows") && !(f.Form == "curved" && strings.Contains(row.Finding, "follows a curve")) {
+				status = append(status, st)
+			}
+		}
+		row.Status = strings.Join(status, "; ")
 		if f.CurveStrength != "" && f.CurveStrength != f.Strength {
 			row.StrengthNote = "as a curve: " + f.CurveStrength
 		}
@@ -609,6 +651,7 @@ func summaryLine(s *report.Study, link string) summaryRow {
 	if s.Findings != nil && s.Findings.TurnsOver {
 		row.Slope, row.SlopeCI = "none: the curve turns over", ""
 	}
+	summarySlope(s, &row)
 	row.Flags = "none"
 	if s.Influence != nil && s.Influence.Counts.Suspect > 0 {
 		row.Flags = itoa(s.Influence.Counts.Suspect)
@@ -629,7 +672,12 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		// the declared limit, both the analysis's words with their units.
 		var failed []string
 		for _, e := range s.Expectations {
-			if !e.OK {
+			switch {
+			case e.OK:
+			case e.Name == "agree":
+				// its figures are the finding's: the title alone
+				failed = append(failed, gateTitle(e))
+			default:
 				failed = append(failed, fmt.Sprintf("%s: found %s, wanted %s", gateTitle(e), ascii(e.Got), ascii(e.Want)))
 			}
 		}
@@ -639,6 +687,57 @@ func summaryLine(s *report.Study, link string) summaryRow {
 		}
 	}
 	return row
+}
+
+// summarySlope puts in the summary the slope a reader may copy: where the
+// findings say the pooled line misleads, the slope they point to instead,
+// from the figures the analysis already gives, with the pooled one after
+// it. A study on like log scales gives its slope as what it is there, an
+// elasticity. An agreement study gives its bias and limits of agreement, the
+// figures its gate reads.
+func summarySlope(s *report.Study, row *summaryRow) {
+	f := s.Findings
+	per := unitPer(s)
+	pooled := ""
+	if l := s.Line; l != nil && l.Slope != nil && l.Slope.Estimate.Valid() {
+		pooled = num(l.Slope.Estimate)
+	}
+	switch {
+	case s.Agreement != nil && s.Agreement.Bias.Valid():
+		a := s.Agreement
+		u := s.Y.Symbol
+		// three significant digits, as the finding gives the limits
+		row.Slope = "bias " + withSym(map[bool]string{true: "+", false: ""}[float64(a.Bias) > 0]+sig3(a.Bias), u)
+		row.SlopeCI = "(limits " + sig3(a.Lower) + " to " + withSym(sig3(a.Upper), u)
+		if a.Acceptable.Valid() {
+			row.SlopeCI += "; accepted ±" + withSym(declared(a.Acceptable), u)
+		}
+		row.SlopeCI += ")"
+	case f == nil:
+	case s.X.Scale == s.Y.Scale && (s.X.Scale == "log" || s.X.Scale == "log10") && pooled != "" && !f.OutlierDriven && !f.Reversal && len(f.ExplainedBy) == 0:
+		// on like log scales the slope is an elasticity: % per %
+		row.Slope = pooled + " % per % (elasticity)"
+	case f.OutlierDriven && s.Sensitivity != nil && s.Sensitivity.SlopeWithoutFlagged.Valid():
+		se := s.Sensitivity
+		without := "without the " + itoa(se.NFlagged) + " flagged rows"
+		if se.NFlagged == 1 && s.Influence != nil && len(s.Influence.Points) == 1 {
+			without = "without " + s.Influence.Points[0].Row
+		}
+		row.Slope = withSym(num(se.SlopeWithoutFlagged), per)
+		row.SlopeCI = "(" + without + "; all rows " + pooled + ")"
+	case f.Reversal && len(s.Groups) > 0 && len(s.Groups) <= 4:
+		// three significant digits, as the finding's range of them
+		var parts []string
+		for _, g := range s.Groups {
+			parts = append(parts, g.Group+" "+sig3(g.Slope))
+		}
+		row.Slope = strings.Join(parts, ", ")
+		row.SlopeCI = "(" + per + " within " + chart.GroupName(s) + "; pooled " + pooled + ")"
+	case f.Reversal:
+		row.Slope, row.SlopeCI = "within "+chart.GroupName(s)+": see finding", "(pooled "+withSym(pooled, per)+")"
+	case len(f.ExplainedBy) > 0:
+		row.Slope, row.SlopeCI = "see finding", "(pooled "+withSym(pooled, per)+")"
+	}
 }
 
 // firstSentence is s up to the end of its first sentence: a full stop
@@ -751,6 +850,8 @@ func buildStudy(s *report.Study, anchor string, index int, level, design string,
 		switch {
 		case !e.OK && s.Findings != nil && strings.TrimSpace(e.Detail) == strings.TrimSpace(s.Findings.Headline):
 			text += "." // its detail is the study's headline, just above
+		case !e.OK && e.Got != "" && strings.Contains(e.Detail, e.Got):
+			text += "." // its detail restates the figure found (its interval stands in the numbers)
 		case !e.OK:
 			text += ". " + capital(strings.TrimSuffix(ascii(e.Detail), ".")) + "."
 		case e.Want == e.Got:
@@ -774,16 +875,27 @@ func buildStudy(s *report.Study, anchor string, index int, level, design string,
 		}
 	}
 	prefix := fmt.Sprintf("s%d-", index+1)
-	for _, fc := range []struct {
+	type kindFig struct {
 		kind string
 		fig  *chart.Figure
-	}{
+	}
+	// The scatterplot with the distances from its fit under it, on the
+	// same x axis, and the drift strip; an agreement study opens with its
+	// differences against the mean, the figure its verdict reads.
+	figs := []kindFig{
 		{"scatter", chart.Scatter(s, prefix+"scatter", level)},
-		{"residuals", chart.ResidualsFitted(s, prefix+"residuals")},
+		{"residuals", chart.ResidualsX(s, prefix+"residuals")},
 		{"order", chart.ResidualsOrder(s, prefix+"order")},
-		{"agreement", chart.DifferenceMean(s, prefix+"agreement", level)},
-		{"methods", chart.MethodPair(s, prefix+"methods")},
-	} {
+	}
+	main := "scatter"
+	if s.Agreement != nil {
+		// The methods chart draws y against x with the Deming line and the
+		// identity: the least-squares scatterplot and its distances would
+		// show the same rows again.
+		main = "agreement"
+		figs = append([]kindFig{{"agreement", chart.DifferenceMean(s, prefix+"agreement", level)}, {"methods", chart.MethodPair(s, prefix+"methods")}}, figs[2:]...)
+	}
+	for _, fc := range figs {
 		if fc.fig == nil {
 			continue
 		}
@@ -798,8 +910,14 @@ func buildStudy(s *report.Study, anchor string, index int, level, design string,
 		}
 		sv.Figures = append(sv.Figures, figure{
 			Kind: fc.kind, Fig: fc.fig, SVG: b.String(), Alt: fc.fig.Title, Caption: fc.fig.Caption, Note: note,
-			File: cfg.figureDir + "/" + anchor + "-" + fc.kind + ".svg", Main: fc.kind == "scatter",
+			File: cfg.figureDir + "/" + anchor + "-" + fc.kind + ".svg", Main: fc.kind == main,
+			Under: fc.kind == "residuals" && main == "scatter",
 		})
+	}
+	if m := slices.IndexFunc(sv.Figures, func(f figure) bool { return f.Main }); m >= 0 {
+		if u := slices.IndexFunc(sv.Figures, func(f figure) bool { return f.Under }); u >= 0 {
+			sv.Figures[m].UnderSVG, sv.Figures[m].UnderCaption = sv.Figures[u].SVG, sv.Figures[u].Caption
+		}
 	}
 	for _, fn := range studySections {
 		sec, err := fn(s, level, th)
@@ -852,7 +970,7 @@ func covariateLabels(s *report.Study, columns []string) []string {
 // are in results.json, "plan.statements"). An agreement study plans the
 // intervals of its limits of agreement instead: a sentence each (plans).
 func plansTable(studies []report.Study, level string) (table, []string) {
-	t := table{Caption: "Planning the next run, at this run's r, scatter and spread of x: rows for the " + level + "% intervals of r and the slope to reach their targets (set: from the manifest), and to detect r (Fisher z)",
+	t := table{Caption: "Planning the next run, at this run's r, scatter and spread of x: rows for the " + level + "% intervals of r and the slope to reach their targets (set: from the manifest), and to detect r",
 		Head: []string{"Study", "r: ± now → target", "Rows", "Slope: ± now → target", "Rows", "Rows to detect r (power)"},
 		Num:  []bool{false, true, true, true, true, true}}
 	var notes []string
@@ -872,7 +990,10 @@ func plansTable(studies []report.Study, level string) (table, []string) {
 	sameR := ""
 	for _, s := range studies {
 		if p := s.Plan; p != nil && s.Error == nil && p.RHalfWidth.Valid() {
-			switch t := num(p.RHalfWidth) + map[bool]string{true: " (set)"}[p.RHalfWidthFrom == "declared"]; {
+			// a set target (declared, or the default) as written: ±0.1,
+			// not ±0.1000
+			hw := trimZeros(num(p.RHalfWidth))
+			switch t := hw + map[bool]string{true: " (set)"}[p.RHalfWidthFrom == "declared"]; {
 			case sameR == "":
 				sameR = t
 			case sameR != t:

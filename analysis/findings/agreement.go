@@ -120,7 +120,7 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 		a.ProportionalBias = d.SlopeLow.Valid() && (float64(d.SlopeLow) > 1 || float64(d.SlopeHigh) < 1)
 		var bias []string
 		if a.ConstantBias {
-			bias = append(bias, fmt.Sprintf("a constant bias (intercept %s, %s interval %s to %s, excludes 0)", withUnit(float64(d.Intercept), u), conf, num(float64(d.InterceptLow)), num(float64(d.InterceptHigh))))
+			bias = append(bias, fmt.Sprintf("a constant bias (intercept %s, %s interval %s to %s, excludes 0)", withUnit(float64(d.Intercept), u), conf, num(float64(d.InterceptLow)), withUnit(float64(d.InterceptHigh), u)))
 		}
 		if a.ProportionalBias {
 			bias = append(bias, fmt.Sprintf("a proportional bias (slope %s, %s interval %s to %s, excludes 1)", num(float64(d.Slope)), conf, num(float64(d.SlopeLow)), num(float64(d.SlopeHigh))))
@@ -129,7 +129,7 @@ func agreementVerdict(a *report.Agreement, s *report.Study, alpha float64) {
 			st = append(st, fmt.Sprintf("The Deming line shows %s.", strings.Join(bias, " and ")))
 		} else {
 			st = append(st, fmt.Sprintf("The Deming line shows neither a constant bias (intercept %s, %s interval %s to %s, includes 0) nor a proportional one (slope %s, interval %s to %s, includes 1).",
-				withUnit(float64(d.Intercept), u), conf, num(float64(d.InterceptLow)), num(float64(d.InterceptHigh)), num(float64(d.Slope)), num(float64(d.SlopeLow)), num(float64(d.SlopeHigh))))
+				withUnit(float64(d.Intercept), u), conf, num(float64(d.InterceptLow)), withUnit(float64(d.InterceptHigh), u), num(float64(d.Slope)), num(float64(d.SlopeLow)), num(float64(d.SlopeHigh))))
 		}
 	}
 	for _, r := range a.Repeatability {

@@ -653,11 +653,14 @@ func (f *facts) holmSuffix(name string, raw float64) string {
 // own choice rather than common practice (see DefaultThresholds).
 const OwnChoice = "a choice of this tool, not common practice"
 
-// dwxBoundText writes the bound of xOrderDW with where it comes from: the
-// smaller of the alpha bound and FormDW, a project choice.
+// dwxBoundText writes the bound of xOrderDW: the cut point FormDW (a
+// project choice, stated with the rules), or where the bound at alpha is
+// smaller, that bound and why.
 func (f *facts) dwxBoundText() string {
-	ab := 2 - 2*stats.NormalQuantile(1-f.alpha)/math.Sqrt(float64(f.s.Diagnostics.DurbinWatsonXRows))
-	return fmt.Sprintf("%s, the smaller of the cut point %s (%s) and the alpha bound %s", num(f.dwxBound), num(f.th.FormDW), OwnChoice, num(ab))
+	if f.dwxBound < f.th.FormDW {
+		return fmt.Sprintf("%s, the bound at alpha for %d rows (the cut point %s, %s, is higher)", num(f.dwxBound), f.s.Diagnostics.DurbinWatsonXRows, num(f.th.FormDW), OwnChoice)
+	}
+	return num(f.dwxBound) + " (" + OwnChoice + ")"
 }
 
 // smoothTurns reports whether the LOWESS curve confirms a turn, from the
@@ -720,9 +723,9 @@ func (f *facts) lines() string {
 // linesText writes the figures of the lines verdict.
 func (f *facts) linesText() string {
 	gl := f.s.GroupLines
-	return fmt.Sprintf("one line for all %d levels against a line per level: F = %s on %d and %d df, %s; equal slopes: F = %s on %d and %d df, %s; pooled within-level r = %s (%s on %d df)",
-		gl.Groups, num(float64(gl.LinesF)), gl.LinesDF1, gl.DF2, f.pv(float64(gl.LinesP)), num(float64(gl.SlopesF)), gl.SlopesDF1, gl.DF2,
-		f.pv(float64(gl.SlopesP)), corr(float64(gl.RWithin)), f.pv(float64(gl.RWithinP)), gl.RWithinDF)
+	// The F statistics and their degrees of freedom stay in results.json.
+	return fmt.Sprintf("one line for all %d levels against a line per level: %s; equal slopes: %s (F tests); r within levels = %s (%s)",
+		gl.Groups, f.pv(float64(gl.LinesP)), f.pv(float64(gl.SlopesP)), corr(float64(gl.RWithin)), f.pv(float64(gl.RWithinP)))
 }
 
 // reversalCount writes the figures of the reversal rule: "of the 3 groups
@@ -740,8 +743,67 @@ func (f *facts) reversalCount() string {
 			sigOpp++
 		}
 	}
-	return fmt.Sprintf("of the %d groups compared, %d %s a slope of the opposite sign, %d of them clearly (interval excluding 0), and none clearly has the pooled sign",
+	return fmt.Sprintf("of the %d groups compared, %d %s a slope of the opposite sign, %d clearly (interval excluding 0), none clearly the pooled sign",
 		len(g), opposite, plural(opposite, "has", "have"), sigOpp)
+}
+
+// reversalLead is the headline's opening for a reversal within groups:
+// how many of the groups compared run against the pooled direction, and
+// the range of their slopes with its unit. "Within all 3 of 3 groups of
+// Quench tank, Total runout falls with Quench oil temperature (slopes
+// −0.00376 to −0.00292 mm per °C): the pooled trend comes from
+// differences between the groups."
+func (f *facts) reversalLead() string {
+	g := f.qualifying()
+	pooled := sign(f.r)
+	n := 0
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, gf := range g {
+		if b := float64(gf.Slope); sign(b) == -pooled {
+			n++
+			lo, hi = math.Min(lo, b), math.Max(hi, b)
+		}
+	}
+	count := fmt.Sprintf("%d of %d", n, len(g))
+	if n == len(g) {
+		count = "all " + count
+	}
+	verb := "falls"
+	if pooled < 0 {
+		verb = "rises"
+	}
+	slopes := "slope " + num(lo)
+	if n > 1 {
+		slopes = "slopes " + num(lo) + " to " + num(hi)
+	}
+	return fmt.Sprintf("Within %s groups of %s, %s %s with %s (%s %s): the pooled trend comes from differences between the groups.",
+		count, f.groupLabel(), f.yLabel, verb, f.xLabel, slopes, perUnit(f.ySym, f.xSym, f.xLabel))
+}
+
+// explainedLead is the headline's opening for a study whose association
+// is no longer shown with a covariate held fixed, with each such
+// covariate's partial correlation.
+func (f *facts) explainedLead(names []string) string {
+	var parts []string
+	turns := false // a partial r shown at alpha, of the other sign
+	for _, n := range names {
+		for _, pc := range f.s.Partial {
+			if pc.Covariate == n {
+				parts = append(parts, fmt.Sprintf("partial r = %s, %s", corr(float64(pc.R)), f.pv(float64(pc.P))))
+				turns = turns || float64(pc.P) < f.alpha
+			}
+		}
+	}
+	fig := ""
+	if len(parts) > 0 {
+		fig = " (" + strings.Join(parts, "; ") + ")"
+	}
+	what := fmt.Sprintf("no association of %s with %s is shown", f.yLabel, f.xLabel)
+	if turns {
+		what = fmt.Sprintf("the association of %s with %s turns sign", f.yLabel, f.xLabel)
+	}
+	return fmt.Sprintf("%s, %s%s: %s may carry the association.", f.heldFixed(names), what, fig,
+		plural(len(names), "the covariate", "the covariates"))
 }
 
 func (f *facts) reversal() bool {
@@ -831,11 +893,18 @@ func (f *facts) write(out *report.Findings) {
 			h += " and the verdict stands."
 		}
 	}
-	if out.Reversal {
-		h += fmt.Sprintf(" Within most groups of %s the direction reverses: the pooled trend comes from differences between the groups.", f.groupLabel())
+	// A reversal within groups, or a covariate that carries the
+	// association, is what a reader must take away: it opens the
+	// headline, and the pooled verdict follows it as such.
+	if out.Reversal && !out.OutlierDriven {
+		h = f.reversalLead() + " Pooled over them: " + h
+	} else if out.Reversal {
+		h += " " + f.reversalLead()
 	}
-	if len(out.ExplainedBy) > 0 {
-		h += " " + f.heldFixed(out.ExplainedBy) + ", the association is no longer shown."
+	if len(out.ExplainedBy) > 0 && !out.OutlierDriven && !out.Reversal {
+		h = f.explainedLead(out.ExplainedBy) + " " + plural(len(out.ExplainedBy), "Ignoring it", "Ignoring them") + ": " + h
+	} else if len(out.ExplainedBy) > 0 {
+		h += " " + f.explainedLead(out.ExplainedBy)
 	}
 	if way := f.hiddenWay(); way != "" {
 		h += fmt.Sprintf(" Within groups of %s, %s %s with %s.", f.groupLabel(), y, way, x)
@@ -845,6 +914,9 @@ func (f *facts) write(out *report.Findings) {
 	}
 	if sc := scaleSentence(s); sc != "" {
 		h = sc + " " + h
+		if lead := f.scaleLead(out); lead != "" {
+			h = lead + " " + h
+		}
 	}
 	out.Headline = h
 
@@ -1006,12 +1078,11 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 // from 999 permutations".
 func (f *facts) dcorP() string {
 	d := f.dcor
+	// The Monte Carlo error stays in results.json; the sentence says
+	// only when it leaves the side of alpha unsettled.
 	t := f.pv(float64(d.P))
-	if d.Permutations > 0 && d.MCError.Valid() {
-		t += fmt.Sprintf(" ± %s from %d permutations", num(float64(d.MCError)), d.Permutations)
-		if !d.Resolved {
-			t += ", within Monte Carlo error of alpha after the most permutations the rule draws"
-		}
+	if d.Permutations > 0 && d.MCError.Valid() && !d.Resolved {
+		t += fmt.Sprintf(" ± %s from %d reshufflings, too close to alpha to settle", num(float64(d.MCError)), d.Permutations)
 	}
 	return t
 }

@@ -227,6 +227,13 @@ func TestAssessReversal(t *testing.T) {
 	if !strings.Contains(all(f), "the direction reverses") {
 		t.Errorf("limits do not say the direction reverses:\n%s", all(f))
 	}
+	// The headline opens with the finding within groups: 2 of the 2
+	// groups of at least ReversalMinGroup rows, with their slopes; the
+	// pooled verdict follows as such.
+	if !strings.HasPrefix(f.Headline, "Within all 2 of 2 groups of lot, ") || !strings.Contains(f.Headline, "(slopes -1 to -0.9 ") ||
+		!strings.Contains(f.Headline, " Pooled over them: ") {
+		t.Errorf("headline does not open with the reversal within groups: %s", f.Headline)
+	}
 	s.Groups[1].Slope, s.Groups[1].SlopeLow, s.Groups[1].SlopeHigh = 0.9, 0.5, 1.3
 	if f = Assess(s, ctx); f.Reversal {
 		t.Errorf("groups disagree (one significant each way): reversal reported")
@@ -253,6 +260,11 @@ func TestAssessCovariate(t *testing.T) {
 	f := Assess(s, ctx)
 	if !slices.Equal(f.ExplainedBy, []string{"ambient_rh"}) {
 		t.Errorf("explained_by %v, want [ambient_rh]", f.ExplainedBy)
+	}
+	// The headline opens with the covariate, its partial r and p.
+	if !strings.HasPrefix(f.Headline, "Holding ambient_rh fixed, no association of ") || !strings.Contains(f.Headline, "(partial r = 0.05, p = 0.70)") ||
+		!strings.Contains(f.Headline, " Ignoring it: ") {
+		t.Errorf("headline does not open with the covariate: %s", f.Headline)
 	}
 	// Not significant given the covariate, but the interval still holds
 	// the pooled r: too few rows to tell, not explained.
@@ -664,5 +676,22 @@ func TestAssessLines(t *testing.T) {
 		if f.Lines != c.want || reason != (c.want == "parallel" || c.want == "separate") {
 			t.Errorf("lines p %v, slopes p %v: lines %q (reason %v), want %q", c.linesP, c.slopesP, f.Lines, reason, c.want)
 		}
+	}
+}
+
+// TestScaleLead: a straight line on the log–log scale opens its headline
+// with the elasticity in words and the scatter as a factor. Expected
+// values are plain algebra: the slope 1.332 on ln–ln is the elasticity
+// (about 1.33% per 1%), and a residual SD of 0.1836 in ln units is a
+// factor e^0.1836 = 1.2015 (math.Exp), printed 1.20.
+func TestScaleLead(t *testing.T) {
+	s := study(0.84, 1e-10)
+	s.X.Scale, s.Y.Scale = "log", "log"
+	s.Line.Slope = &report.Coef{Name: "x", Estimate: 1.332, CILow: 1.175, CIHigh: 1.488}
+	s.Line.ResidualSE = 0.1836
+	f := Assess(s, ctx)
+	want := "Shrinkage rises with melt temperature: 1% more melt temperature goes with about 1.33% more shrinkage (95% CI 1.18% to 1.49%), with a typical scatter of ×1.20 about the line"
+	if !strings.HasPrefix(f.Headline, want) {
+		t.Errorf("headline\n%s\nwant it to open with\n%s", f.Headline, want)
 	}
 }

@@ -7,6 +7,7 @@ package findings
 import (
 	"fmt"
 	"math"
+	"strconv"
 
 	"bivar/analysis/report"
 )
@@ -167,6 +168,76 @@ func (f *facts) slopeMeaning() string {
 	}
 	return fmt.Sprintf("On %s the slope is the change in %s per unit of %s; in the recorded units the line is a curve, so it has no single rate of change there.",
 		scaleWordsPair(s), scaledName(s.Y.Scale, yl), scaledName(s.X.Scale, xl))
+}
+
+// scaleLead is the plain claim that opens the headline of a straight-line
+// study with a direction on a log scale, in the recorded units: for both
+// logs the elasticity ("Surface decarburization depth rises with Shop
+// relative humidity: 1% more Shop relative humidity goes with about 1.33%
+// more Surface decarburization depth (95% CI 1.18% to 1.49%)."), for a log
+// of y alone the percentage change per unit of x, for a log of x alone the
+// change per 1% more x; "" otherwise. The factors are slopeMeaning's.
+func (f *facts) scaleLead(out *report.Findings) string {
+	s := f.s
+	l := s.Line
+	if l == nil || l.Slope == nil || out.Form != "linear" || f.dir == "none" {
+		return ""
+	}
+	bx, by := scaleBase(s.X.Scale), scaleBase(s.Y.Scale)
+	if bx == 0 && by == 0 {
+		return ""
+	}
+	xl, yl := label(s.X), label(s.Y)
+	b, lo, hi := float64(l.Slope.Estimate), float64(l.Slope.CILow), float64(l.Slope.CIHigh)
+	verb := "rises"
+	if b < 0 {
+		verb = "falls"
+	}
+	ci := func(g func(float64) float64, u string) string {
+		if math.IsNaN(lo) || math.IsNaN(hi) {
+			return ""
+		}
+		a, c := g(lo), g(hi)
+		if a > c {
+			a, c = c, a
+		}
+		return fmt.Sprintf(" (%s CI %s%s to %s%s)", f.conf, num(a), u, num(c), u)
+	}
+	more := "more"
+	if b < 0 {
+		more = "less"
+	}
+	switch {
+	case bx != 0 && by != 0:
+		k := math.Log(by) / math.Log(bx)
+		e := func(v float64) float64 { return math.Abs(v * k) }
+		return fmt.Sprintf("%s %s with %s: 1%% more %s goes with about %s%% %s %s%s%s.", capital(yl), verb, xl, xl, num(e(b)), more, yl, ci(e, "%"), f.scatterFactor())
+	case by != 0 && s.X.Scale == "":
+		p := func(v float64) float64 { return math.Abs(100 * (math.Pow(by, v) - 1)) }
+		return fmt.Sprintf("%s %s with %s: about %s%% %s per %s%s%s.", capital(yl), verb, xl, num(p(b)), more, unitOf(symbol(s.X), xl), ci(p, "%"), f.scatterFactor())
+	case bx != 0 && s.Y.Scale == "":
+		d := func(v float64) float64 { return math.Abs(v * math.Log(1.01) / math.Log(bx)) }
+		u := ""
+		if sym := symbol(s.Y); sym != "" {
+			u = " " + sym
+		}
+		return fmt.Sprintf("%s %s with %s: by about %s%s per 1%% more %s%s.", capital(yl), verb, xl, num(d(b)), u, xl, ci(d, u))
+	}
+	return ""
+}
+
+// scatterFactor is, for y on a log scale, the line's residual SD in the
+// recorded units: a factor, since a difference of logarithms to base B
+// is the logarithm of a ratio (B^SD): ", with a typical scatter of ×1.20
+// about the line"; "" otherwise.
+func (f *facts) scatterFactor() string {
+	s := f.s
+	by := scaleBase(s.Y.Scale)
+	if by == 0 || s.Line == nil || !s.Line.ResidualSE.Valid() {
+		return ""
+	}
+	return fmt.Sprintf(", with a typical scatter of ×%s about the line (residual SD %s on %s)",
+		strconv.FormatFloat(math.Pow(by, float64(s.Line.ResidualSE)), 'f', 2, 64), num(float64(s.Line.ResidualSE)), scaleWords(s.Y.Scale))
 }
 
 // v2 is the change per doubling of x for slope b on a log scale of base bx.

@@ -299,3 +299,31 @@ func capital(s string) string {
 	}
 	return strings.ToUpper(s[:1]) + s[1:]
 }
+
+// pctVs writes a share as a whole percentage ("97%"), with decimals
+// added until the printed value lies on the same side of each cut point
+// (shares, not percentages) as the share itself.
+func pctVs(share float64, cuts ...float64) string {
+	if math.IsNaN(share) || math.IsInf(share, 0) {
+		return "undefined"
+	}
+	for d := 0; d <= 6; d++ {
+		t := strconv.FormatFloat(100*share, 'f', d, 64)
+		v, _ := strconv.ParseFloat(t, 64)
+		ok := true
+		for _, c := range cuts {
+			if (v/100 >= c) != (share >= c) {
+				ok = false
+			}
+		}
+		if ok {
+			return minus(t) + "%"
+		}
+	}
+	return minus(strconv.FormatFloat(100*share, 'g', -1, 64)) + "%"
+}
+
+// pctText writes a cut point given as a share as a percentage: 0.1 → "10%".
+func pctText(share float64) string {
+	return strconv.FormatFloat(100*share, 'g', -1, 64) + "%"
+}

@@ -36,8 +36,8 @@ func (f *facts) reasons(out *report.Findings) []report.Reason {
 		add("outlier_driven", "Influence", "Outlier-driven: "+strings.ToLower(h[:1])+h[1:])
 	}
 	if out.Reversal {
-		add("reversal", "Groups", fmt.Sprintf("Reversal: pooled, r = %s; within groups of %s, %s (groups of at least %d rows are compared, %s).",
-			f.rNum(), f.groupLabel(), f.reversalCount(), f.th.ReversalMinGroup, OwnChoice))
+		add("reversal", "Groups", fmt.Sprintf("Reversal: pooled, r = %s; within groups of %s (at least %d rows, %s), %s.",
+			f.rNum(), f.groupLabel(), f.th.ReversalMinGroup, OwnChoice, f.reversalCount()))
 	}
 	switch out.Lines {
 	case "parallel":
@@ -58,8 +58,11 @@ func (f *facts) reasons(out *report.Findings) []report.Reason {
 			parts = append(parts, fmt.Sprintf("holding %s fixed, partial r = %s (%s, %s): %s",
 				f.covariateLabels([]string{pc.Covariate})[0], corr(float64(pc.R)), f.interval(pc.CILow, pc.CIHigh), f.pv(float64(pc.P)), why))
 		}
-		add("explained_by", "Covariates", "Explained by "+joinAnd(f.covariateLabels(out.ExplainedBy))+": "+strings.Join(parts, "; ")+
-			" (each partial correlation holds one covariate fixed).")
+		each := ""
+		if len(parts) > 1 {
+			each = " (each partial correlation holds one covariate fixed)"
+		}
+		add("explained_by", "Covariates", "Explained by "+joinAnd(f.covariateLabels(out.ExplainedBy))+": "+strings.Join(parts, "; ")+each+".")
 	}
 	if out.Drift {
 		add("drift", "Run order", fmt.Sprintf("Drift: the residuals drift in run order (by %s; %s), below alpha = %s.", f.orderLabel(), f.orderFigures(), f.alphaText()))
@@ -91,6 +94,13 @@ func (f *facts) pBoth() string {
 		return fmt.Sprintf("adjusted %s (unadjusted %s)", adj, raw)
 	}
 	return f.pv(float64(f.s.Pearson.P))
+}
+
+// sharePct writes the share of the line's residual sum of squares that
+// the quadratic removes as a percentage, "31%", with digits enough to
+// stay on the right side of CurveShare.
+func (f *facts) sharePct() string {
+	return pctVs(f.share, f.th.CurveShare)
 }
 
 // shareText writes the share of the line's residual sum of squares that
@@ -178,8 +188,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 	case "curved":
 		q := f.quad
 		l, c := corrPair(lineR2, float64(q.R2))
-		w := fmt.Sprintf("Curved: the quadratic's x² term is significant (%s), and so is the quadratic as a whole (F test %s); it raises R² from %s for the line to %s and removes a share %s of the line's residual sum of squares, at least the %s required (%s).",
-			f.screenP(checkCurvature, f.quadP()), f.pv(float64(q.FP)), l, c, f.shareText(), num(f.th.CurveShare), OwnChoice)
+		w := fmt.Sprintf("Curved: a parabola fits clearly better than the line (x² term %s; the parabola as a whole, F test %s): R² %s for the line, %s for the parabola, which leaves %s less squared scatter (residual sum of squares), at least the %s required (%s).",
+			f.screenP(checkCurvature, f.quadP()), f.pv(float64(q.FP)), l, c, f.sharePct(), pctText(f.th.CurveShare), OwnChoice)
 		bend := "up (the x² coefficient is positive)"
 		if f.b2 < 0 {
 			bend = "down (the x² coefficient is negative)"
@@ -225,8 +235,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 		if q := f.quad; q != nil && q.R2.Valid() {
 			l, c := corrPair(lineR2, float64(q.R2))
 			// What a curve needs is stated once with the rules.
-			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the quadratic, which removes a share %s of the line's residual sum of squares, %s needed)",
-				f.screenP(checkCurvature, f.quadP()), l, c, f.shareText(), num(f.th.CurveShare))
+			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the parabola: %s less squared scatter, %s needed)",
+				f.screenP(checkCurvature, f.quadP()), l, c, f.sharePct(), pctText(f.th.CurveShare))
 		}
 		if f.dwx < f.dwxBound {
 			w += fmt.Sprintf(". The residuals in order of %s swing together (Durbin–Watson %s, below %s), but with |r| = %s at or above %s that does not overturn the line; look at the residual plot",

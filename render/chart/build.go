@@ -14,6 +14,7 @@ const (
 	ScatterW, ScatterH   = 680, 500
 	StripH               = 230 // the drift strip: as wide as the scatterplot, low
 	ResidualW, ResidualH = 480, 360
+	ResidualXH           = 220 // the distances along x, under the scatterplot and as wide
 )
 
 // AxisTitle is a variable's label with its unit as people write it
@@ -223,11 +224,13 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		Marked: marks(p, markXY),
 		Levels: p.Levels,
 		XScale: s.X.Scale, YScale: s.Y.Scale,
+		TickRoom: alignedTicks,
 	}
 	f.Dense, f.Density = dense(p, p.Scatter)
 	// A study the analysis found curved is drawn with its curve as the
 	// main fit and the straight line, without bands, for comparison.
 	curved := s.Findings != nil && s.Findings.Form == "curved" && len(p.Curve) > 0
+	reversal := !curved && s.Findings != nil && s.Findings.Reversal && len(groupLines(s)) > 0
 	if len(p.Band) > 0 {
 		var bx, fit, cl, ch []float64
 		for _, b := range p.Band {
@@ -236,14 +239,23 @@ func Scatter(s *report.Study, id, level string) *Figure {
 			cl = append(cl, b.ConfLow)
 			ch = append(ch, b.ConfHigh)
 		}
-		if curved {
+		switch {
+		case curved:
 			f.Lines = append(f.Lines, Line{Name: "straight line, for comparison", X: bx, Y: fit, Role: RoleOld})
-		} else {
+		case reversal:
+			// the lines within the groups are the main fit; the pooled
+			// line, without its band, is for comparison
+			f.Lines = append(f.Lines, Line{Name: "pooled line, for comparison", X: bx, Y: fit, Role: RoleOld})
+		default:
 			f.Bands = []Band{{Name: level + "% confidence band of the line", X: bx, Low: cl, High: ch, Role: RoleConf}}
 			f.Lines = append(f.Lines, Line{Name: "least-squares line", X: bx, Y: fit, Role: RoleFit})
 		}
 	}
-	f.Lines = append(f.Lines, groupLines(s)...)
+	gl := groupLines(s)
+	for i := range gl {
+		gl[i].Heavy = reversal
+	}
+	f.Lines = append(f.Lines, gl...)
 	if len(p.Lowess) > 0 {
 		f.Lines = append(f.Lines, xyLine("LOWESS curve", p.Lowess, RoleLowess))
 	}
@@ -285,6 +297,8 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		switch {
 		case len(s.Groups) > 0 && o.Other:
 			f.Caption += "; thin lines: the line within each level with a look of its own"
+		case len(s.Groups) > 0 && reversal:
+			f.Caption = strings.Replace(f.Caption, LineCaption(level), "Heavy coloured lines: the line within each group, the main fit; long dashes: the pooled line; dash-dot: LOWESS.", 1)
 		case len(s.Groups) > 0:
 			f.Caption += "; thin lines: the line within each group"
 		}
@@ -426,6 +440,43 @@ func ResidualsFitted(s *report.Study, id string) *Figure {
 	}
 	return f
 }
+
+// alignedTicks is the room the scatterplot and the distances against x
+// under it keep for their y tick labels (up to "−0.0000"), so that
+// their x axes line up.
+var alignedTicks = textWidth("−0.0000", tickFont)
+
+// ResidualsX plots each row's distance from the main fit against x, as
+// wide as the scatterplot and on its x axis, to stand under it: a bow, a
+// funnel or a run on one side shows where along x the fit misses. Above
+// PlotPointsMax the analysis bins the residuals against the fitted value
+// only, so the figure is ResidualsFitted's there.
+func ResidualsX(s *report.Study, id string) *Figure {
+	p := s.Plot
+	if p == nil || p.N == 0 {
+		return nil
+	}
+	if p.Points == nil {
+		return ResidualsFitted(s, id)
+	}
+	fit := fitName(p)
+	f := &Figure{
+		ID: id, Width: ScatterW, Height: ResidualXH,
+		XLabel: AxisTitle(s.X), YLabel: residualTitle(s),
+		Title:  "Distance from the " + fit + ", along " + varName(s.X),
+		Points: series(p, pickResidX),
+		Marked: marks(p, markResidX),
+		Lines:  []Line{zeroLine(spanOf(p, nil, pickResidX))},
+		Levels: p.Levels,
+		XScale: s.X.Scale, TickRoom: alignedTicks,
+	}
+	f.Desc = fmt.Sprintf("Residuals of the least-squares %s for %d rows against %s, on the scatterplot's x axis, with a dashed line at zero. %s", fitLong(p), p.N, varName(s.X), markNames(f.Marked))
+	f.Caption = f.Title + "."
+	return f
+}
+
+func pickResidX(q report.PlotPoint) (float64, float64) { return q.X, q.Residual }
+func markResidX(m report.Marked) (float64, float64)    { return m.X, m.Residual }
 
 // ResidualsOrder plots the residuals in run order (the analysis gives the
 // points in run order, so the joining line follows the run). It returns

@@ -53,6 +53,11 @@ type Figure struct {
 	// ("log", "log10", "sqrt", as report.Variable.Scale): the points are
 	// placed by those values and the ticks labelled in recorded units.
 	XScale, YScale string
+	// TickRoom is the least width, in pixels, kept for the y axis's tick
+	// labels, so that two figures stacked at the same width (the
+	// scatterplot and the distances from its line) share their x axis
+	// pixel for pixel; 0 leaves it to the labels.
+	TickRoom float64
 }
 
 // Band is a filled area between Low and High over X (X ascending).
@@ -68,6 +73,9 @@ type Line struct {
 	X, Y  []float64
 	Role  Role
 	Group int // for RoleGroup: index of the series whose colour it takes
+	// Heavy draws a group's line as the main fit (a reversal within
+	// groups, where the pooled line is only for comparison).
+	Heavy bool
 }
 
 // Series is one set of points: one group level, or all points.

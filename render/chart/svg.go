@@ -226,6 +226,7 @@ func (d *svgDrawer) plan(f *Figure) *layout {
 	for _, s := range L.y.Labels {
 		wide = math.Max(wide, textWidth(s, tickFont))
 	}
+	wide = math.Max(wide, f.TickRoom)
 	L.left = 10 + titleFont + 10 + wide + 6
 	L.right = L.width - 18
 	L.top = 14
@@ -496,6 +497,13 @@ func (d *svgDrawer) drawLines(w io.Writer, f *Figure, L *layout) {
 			if d.pal.Monochrome {
 				dash = []string{"", "5 2", "1 2", "8 2 1 2"}[l.Group%4]
 			}
+			if l.Heavy {
+				width = 2.6
+			}
+		}
+		if l.Role == RoleLowess && len(f.Levels) > 1 {
+			// neutral where colours name the groups: no level's colour
+			stroke = d.pal.Muted
 		}
 		var b strings.Builder
 		pen := false
@@ -669,6 +677,9 @@ func (d *svgDrawer) drawLegend(w io.Writer, f *Figure, L *layout) {
 				stroke, width, dash := d.roleStyle(it.role)
 				if it.role == RoleGroup {
 					dash = ""
+				}
+				if it.role == RoleLowess && len(f.Levels) > 1 {
+					stroke = d.pal.Muted // as drawn: neutral beside the groups' colours
 				}
 				da := ""
 				if dash != "" {

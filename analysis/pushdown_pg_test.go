@@ -359,17 +359,9 @@ func TestPushdownMillion(t *testing.T) {
 	if m.Error != nil || p.Error != nil || p.Pushdown == nil || p.Pushdown.Sample != 20000 {
 		t.Fatalf("errors %s / %s, push-down %+v", errText(m.Error), errText(p.Error), p.Pushdown)
 	}
-	// The F tests of the group lines are differences of residual sums of
-	// squares of order n, so their rounding is relative to those sums, not
-	// to F: compare them as such (|ΔF| ≤ 1e-9 · DF2), the rest to 1e-9.
+	// The F tests of the group lines to 1e-9·DF2 (agreeF), the rest to 1e-9.
 	fp, fm := exactFigures(p), exactFigures(m)
-	for _, k := range []string{"slopes_f", "lines_f"} {
-		if d := math.Abs(fp[k] - fm[k]); !(d <= 1e-9*float64(m.GroupLines.DF2)) {
-			t.Errorf("%s = %.17g, in memory %.17g: differs by %.2g, more than 1e-9·DF2", k, fp[k], fm[k], d)
-		}
-		delete(fp, k)
-		delete(fm, k)
-	}
+	agreeF(t, "in memory", fp, fm, m.GroupLines.DF2)
 	agree(t, "10⁶ rows", fp, fm, 1e-9)
 	if len(p.Approximations) != 6 || len(p.Pushdown.Sampled) != 7 || p.Approximations[0].Rows != 20000 || p.Approximations[0].Of != p.N {
 		t.Errorf("approximations %+v, sampled %v", p.Approximations, p.Pushdown.Sampled)
@@ -440,16 +432,9 @@ func TestPushdownRowOrder(t *testing.T) {
 	if sa.Error != nil || sb.Error != nil || sa.Pushdown == nil || sa.Pushdown.Sample != 20000 {
 		t.Fatalf("errors %s / %s", errText(sa.Error), errText(sb.Error))
 	}
-	// The F tests of the group lines as in TestPushdownMillion: their
-	// rounding is relative to the residual sums they are differences of.
+	// The F tests of the group lines as in TestPushdownMillion (agreeF).
 	fa, fb := exactFigures(sa), exactFigures(sb)
-	for _, k := range []string{"slopes_f", "lines_f"} {
-		if d := math.Abs(fb[k] - fa[k]); !(d <= 1e-9*float64(sa.GroupLines.DF2)) {
-			t.Errorf("%s = %.17g, stored in another order %.17g: differs by %.2g, more than 1e-9·DF2", k, fa[k], fb[k], d)
-		}
-		delete(fa, k)
-		delete(fb, k)
-	}
+	agreeF(t, "stored in another order", fb, fa, sa.GroupLines.DF2)
 	agree(t, "stored in another order", fb, fa, 1e-9)
 	if sa.Spearman.Rho != sb.Spearman.Rho || sa.Kendall.TauB != sb.Kendall.TauB || sa.Describe.Y.Q3 != sb.Describe.Y.Q3 ||
 		sa.Diagnostics.Resistant.Slope != sb.Diagnostics.Resistant.Slope || sa.Diagnostics.DistanceCorr.DCor != sb.Diagnostics.DistanceCorr.DCor ||
@@ -475,5 +460,20 @@ func TestPushdownRowOrder(t *testing.T) {
 			t.Errorf("after %s the hash is still %s", change, c.Datasets[0].SHA256)
 		}
 		b = c
+	}
+}
+
+// agreeF compares the F tests of the group lines in got and want (exact
+// figures as exactFigures gives them) to 1e-9·df2, and deletes them from
+// both: they are differences of residual sums of squares of order n, so
+// their rounding is relative to those sums, not to F.
+func agreeF(t *testing.T, what string, got, want map[string]float64, df2 int) {
+	t.Helper()
+	for _, k := range []string{"slopes_f", "lines_f"} {
+		if d := math.Abs(got[k] - want[k]); !(d <= 1e-9*float64(df2)) {
+			t.Errorf("%s = %.17g, %s %.17g: differs by %.2g, more than 1e-9·DF2", k, got[k], what, want[k], d)
+		}
+		delete(got, k)
+		delete(want, k)
 	}
 }

@@ -15,23 +15,9 @@ import (
 // without time zone is taken as UTC; NULL is missing; the hash of the
 // same rows does not depend on the order the server stores them in.
 func TestReadQueryTimes(t *testing.T) {
-	url := os.Getenv("BIVAR_TEST_PG_URL")
-	if url == "" {
-		t.Skip("no PostgreSQL server: BIVAR_TEST_PG_URL is not set; run scripts/pg-test.sh go test ./analysis/dataset/ to start one")
-	}
-	ctx := context.Background()
-	conn, err := pgx.Connect(ctx, url)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer conn.Close(ctx)
-	for _, s := range []string{"DROP TABLE IF EXISTS times",
+	ctx, conn, url := pgSetup(t, "DROP TABLE IF EXISTS times",
 		"CREATE TABLE times (d date, ts timestamp, tz timestamptz, v double precision)",
-		"INSERT INTO times VALUES ('2026-10-01', '2026-10-01 08:00:00.25', '2026-10-01 08:00:00+02', 1.5), (NULL, NULL, NULL, NULL), ('1969-12-31', '1969-12-31 23:59:59', '1970-01-01 00:00:00-01', -2)"} {
-		if _, err := conn.Exec(ctx, s); err != nil {
-			t.Fatal(err)
-		}
-	}
+		"INSERT INTO times VALUES ('2026-10-01', '2026-10-01 08:00:00.25', '2026-10-01 08:00:00+02', 1.5), (NULL, NULL, NULL, NULL), ('1969-12-31', '1969-12-31 23:59:59', '1970-01-01 00:00:00-01', -2)")
 	q := Query{Table: "times", Env: "BIVAR_TEST_PG_URL", URL: url}
 	tb, info, err := ReadQuery(ctx, q, Options{}, []string{"d", "ts", "tz", "v"}, nil)
 	if err != nil {
@@ -70,4 +56,27 @@ func TestReadQueryTimes(t *testing.T) {
 	if err != nil || tb2.SHA256 != tb.SHA256 {
 		t.Errorf("hash of the rows stored in another order %s, want %s (%v)", tb2.SHA256, tb.SHA256, err)
 	}
+}
+
+// pgSetup connects to the test server (skipping the test when
+// BIVAR_TEST_PG_URL is not set) and runs stmts; the connection closes when
+// the test ends.
+func pgSetup(t *testing.T, stmts ...string) (context.Context, *pgx.Conn, string) {
+	t.Helper()
+	url := os.Getenv("BIVAR_TEST_PG_URL")
+	if url == "" {
+		t.Skip("no PostgreSQL server: BIVAR_TEST_PG_URL is not set; run scripts/pg-test.sh go test ./analysis/dataset/ to start one")
+	}
+	ctx := context.Background()
+	conn, err := pgx.Connect(ctx, url)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { conn.Close(ctx) })
+	for _, s := range stmts {
+		if _, err := conn.Exec(ctx, s); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return ctx, conn, url
 }

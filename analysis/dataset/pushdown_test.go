@@ -1,14 +1,10 @@
 package dataset
 
 import (
-	"context"
 	"math"
-	"os"
 	"slices"
 	"strconv"
 	"testing"
-
-	"github.com/jackc/pgx/v5"
 )
 
 // The sample drawn by a threshold on the row hash, with the rows sorted in
@@ -17,23 +13,9 @@ import (
 // also when the first threshold passes too few rows and is raised; rows
 // with a NULL are not complete cases and never drawn.
 func TestRowsSample(t *testing.T) {
-	url := os.Getenv("BIVAR_TEST_PG_URL")
-	if url == "" {
-		t.Skip("no PostgreSQL server: BIVAR_TEST_PG_URL is not set; run scripts/pg-test.sh go test ./analysis/dataset/ to start one")
-	}
-	ctx := context.Background()
-	conn, err := pgx.Connect(ctx, url)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer conn.Close(ctx)
-	for _, s := range []string{"DROP TABLE IF EXISTS pdsample",
+	ctx, _, url := pgSetup(t, "DROP TABLE IF EXISTS pdsample",
 		"CREATE TABLE pdsample (id text, x double precision, y double precision, n integer)",
-		"INSERT INTO pdsample SELECT 'r' || i, sin(i), CASE WHEN i % 7 = 0 THEN NULL ELSE cos(i) END, i % 5 FROM generate_series(1, 5000) i"} {
-		if _, err := conn.Exec(ctx, s); err != nil {
-			t.Fatal(err)
-		}
-	}
+		"INSERT INTO pdsample SELECT 'r' || i, sin(i), CASE WHEN i % 7 = 0 THEN NULL ELSE cos(i) END, i % 5 FROM generate_series(1, 5000) i")
 	q := Query{Table: "pdsample", Env: "BIVAR_TEST_PG_URL", URL: url}
 	s, err := Open(ctx, q)
 	if err != nil {

@@ -265,10 +265,10 @@ func TestCurvedResidualsFromCurve(t *testing.T) {
 		y[i] = 5 + 2*x[i] - 0.2*x[i]*x[i] + 0.01*math.Sin(float64(i))
 	}
 	s = analysis.Analyze(analysis.Input{ID: "big", X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"}, XS: x, YS: y}, analysis.DefaultConfig())
-	if s.Error != nil || s.Findings.Form != "curved" || s.Plot.ResidualsOf != "curve" || s.Plot.ResidFitted != s.Plot.CurveResidFitted {
+	if s.Error != nil || s.Findings.Form != "curved" || s.Plot.ResidualsOf != "curve" || s.Plot.ResidX != s.Plot.CurveResidX {
 		t.Fatalf("5000-row parabola: form %v, residuals of %q", s.Findings.Form, s.Plot.ResidualsOf)
 	}
-	if g := s.Plot.ResidFitted; !(g.YHi-g.YLo < 0.05) {
+	if g := s.Plot.ResidX; !(g.YHi-g.YLo < 0.05) {
 		t.Errorf("residual grid spans %v to %v: not the curve's residuals (at most 0.01 here)", g.YLo, g.YHi)
 	}
 }

@@ -74,13 +74,13 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int32, line stats.Li
 		var wg sync.WaitGroup
 		async := task(&wg)
 		async(func() { p.Scatter = grid(x, y, gridNX, gridNY) })
-		async(func() { p.ResidFitted = gridAt(n, fittedAt, func(i int) float64 { return resid[i] }, gridNX, gridNY) })
+		async(func() { p.ResidX = grid(x, resid, gridNX, gridNY) })
 		if cc.order != nil {
 			async(func() { p.ResidOrder = grid(cc.order, resid, gridNX, gridNY) })
 		}
 		if quad != nil {
 			cResid := func(i int) float64 { return y[i] - cFitted(i) }
-			async(func() { p.CurveResidFitted = gridAt(n, cFitted, cResid, gridNX, gridNY) })
+			async(func() { p.CurveResidX = gridAt(n, func(i int) float64 { return x[i] }, cResid, gridNX, gridNY) })
 			if cc.order != nil {
 				async(func() {
 					p.CurveResidOrder = gridAt(n, func(i int) float64 { return cc.order[i] }, cResid, gridNX, gridNY)

@@ -977,14 +977,12 @@ func pushdownGrids(c *dataset.Counts, m stats.Moments, sums *dataset.Sums, spec 
 		}
 		return lo, hi
 	}
-	b := m.Sxy / m.Sxx
-	f0, f1 := m.MeanY+b*(c.Min[0]-m.MeanX), m.MeanY+b*(c.Max[0]-m.MeanX)
 	var g [3]dataset.Grid
 	g[0] = dataset.Grid{NX: gridNX, NY: gridNY}
 	g[0].XLo, g[0].XHi = widen(c.Min[0], c.Max[0])
 	g[0].YLo, g[0].YHi = widen(c.Min[1], c.Max[1])
 	g[1] = dataset.Grid{NX: gridNX, NY: gridNY}
-	g[1].XLo, g[1].XHi = widen(min(f0, f1), max(f0, f1))
+	g[1].XLo, g[1].XHi = g[0].XLo, g[0].XHi
 	g[1].YLo, g[1].YHi = widen(sums.EMin, sums.EMax)
 	if spec.Order != "" {
 		g[2] = dataset.Grid{NX: gridNX, NY: gridNY}
@@ -1012,7 +1010,7 @@ func pushdownPlot(th *dataset.Third, m stats.Moments, rss float64, c *dataset.Co
 		}
 		return &report.Grid{XLo: d.XLo, XHi: d.XHi, YLo: d.YLo, YHi: d.YHi, NX: d.NX, NY: d.NY, Counts: d.Counts}
 	}
-	pl.Scatter, pl.ResidFitted, pl.ResidOrder = conv(th.Grids[0]), conv(th.Grids[1]), conv(th.Grids[2])
+	pl.Scatter, pl.ResidX, pl.ResidOrder = conv(th.Grids[0]), conv(th.Grids[1]), conv(th.Grids[2])
 	lo, hi := c.Min[0], c.Max[0]
 	k := cfg.BandPoints
 	pl.Band = make([]report.BandPoint, k)

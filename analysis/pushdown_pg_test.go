@@ -386,7 +386,7 @@ func TestPushdownMillion(t *testing.T) {
 	for _, c := range []struct {
 		name string
 		g, w *report.Grid
-	}{{"residual on fitted", p.Plot.ResidFitted, m.Plot.ResidFitted}, {"residual on order", p.Plot.ResidOrder, m.Plot.ResidOrder}} {
+	}{{"residual on x", p.Plot.ResidX, m.Plot.ResidX}, {"residual on order", p.Plot.ResidOrder, m.Plot.ResidOrder}} {
 		moved := 0
 		for i := range c.w.Counts {
 			moved += max(c.g.Counts[i]-c.w.Counts[i], c.w.Counts[i]-c.g.Counts[i])

@@ -377,7 +377,7 @@ func assess(s *report.Study, cfg Config) {
 			p.Curve = quadraticCurve(s, cfg.CurvePoints)
 			// The curve is the main fit: the residual charts show the
 			// distance from it, not from the straight line.
-			haveCurve := p.CurveResidFitted != nil || len(p.Points) > 0 && !math.IsNaN(p.Points[0].CFitted)
+			haveCurve := p.CurveResidX != nil || len(p.Points) > 0 && !math.IsNaN(p.Points[0].CFitted)
 			if p.ResidualsOf == "line" && haveCurve {
 				for i := range p.Points {
 					q := &p.Points[i]
@@ -388,7 +388,7 @@ func assess(s *report.Study, cfg Config) {
 					m.Fitted, m.Residual = m.CFitted, m.CResidual
 				}
 				if p.Points == nil {
-					p.ResidFitted, p.ResidOrder = p.CurveResidFitted, p.CurveResidOrder
+					p.ResidX, p.ResidOrder = p.CurveResidX, p.CurveResidOrder
 				}
 				p.ResidualsOf = "curve"
 			}

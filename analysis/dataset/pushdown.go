@@ -795,11 +795,11 @@ type Grid struct {
 // ThirdPass runs the third pass: the rows per flag, the largest Cook's
 // distance, the extremes of the leave-one-out r and slope, the quadratic's
 // residual sum,
-// the density grids g (y on x, the residual on the fitted value and, with
-// a run order, the residual on the order) and the rows flagged outlier or
+// the density grids g (y on x, the residual on x and, with a run order,
+// the residual on the order) and the rows flagged outlier or
 // influential, all in one scan with GROUPING SETS over the grids' cells:
 // the sums and counts are added up over the cells of the first set (y on
-// x with the residual on the fitted value), which holds every row once,
+// x with the residual on x), which holds every row once,
 // and there a flagged row is a group of its own (keyed by its x, y, id, d
 // and t), so that the server returns it.
 // Of those, the keep highest ranked are kept (largest Cook's distance,
@@ -830,7 +830,6 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	// The row-wise measures each row needs, once per row (see fence).
 	src := "(SELECT *, " + ri + " * " + ri + " * h / nullif(2 * omh, 0) AS d, " + f.loor("dx", "dy", "omh") + " AS loor, " +
 		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"
-	fitted := "(" + lit(f.MY) + " + " + lit(f.B) + " * dx)"
 	fl := "(CAST(fo AS integer) + 2 * CAST(h > " + cutLit(f.Leverage) + " AS integer) + 4 * CAST(fd AS integer))"
 	suspect := func(c string) string { return "CASE WHEN fo OR fd THEN " + c + " END" }
 	id := "CAST(NULL AS text)"
@@ -839,9 +838,9 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	}
 	keys := []string{suspect("x"), suspect("y"), suspect(id), suspect("d"), suspect("e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0)")}
 	a0, b0 := cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY)
-	a1, b1 := cell(fitted, g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)
-	// The fitted value is a function of x, so a cell of y on x meets few
-	// cells of the residual on the fitted value: one set holds both grids.
+	a1, b1 := cell("x", g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)
+	// Both grids are binned on x, so a cell of y on x meets few cells of
+	// the residual on x: one set holds both grids.
 	set0 := a0 + ", " + b0 + ", " + a1 + ", " + b1 + ", " + fl + ", " + strings.Join(keys, ", ")
 	sets := "(" + set0 + ")"
 	last := "0, 0"

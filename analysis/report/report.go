@@ -796,17 +796,17 @@ type Plot struct {
 	LevelXMin, LevelXMax []float64
 
 	// Above PlotPointsMax: the rows binned on fixed grids, y against x,
-	// residual against fitted value and residual against run order (nil
-	// without an order). nil at or below PlotPointsMax.
-	Scatter, ResidFitted, ResidOrder *Grid
+	// residual against x and residual against run order (nil without an
+	// order). nil at or below PlotPointsMax.
+	Scatter, ResidX, ResidOrder *Grid
 	// ResidualsOf says which fit the residuals above (and those of Points
 	// and Marked) are taken from: "line", or "curve" when the form is
 	// curved and the quadratic is the main fit (assess puts the curve's in
 	// place from CurveResid*, CFitted and CResidual).
 	ResidualsOf string
-	// The quadratic's fitted values and residuals, binned like ResidFitted
-	// and ResidOrder above PlotPointsMax; nil without a quadratic.
-	CurveResidFitted, CurveResidOrder *Grid
+	// The quadratic's residuals, binned like ResidX and ResidOrder above
+	// PlotPointsMax; nil without a quadratic.
+	CurveResidX, CurveResidOrder *Grid
 
 	Band   []BandPoint
 	Lowess []XY // LOWESS curve, sorted by x

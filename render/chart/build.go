@@ -196,12 +196,10 @@ func denseNote(n, marked int) string {
 		n, DensityAbove, marked)
 }
 
-func pickXY(q report.PlotPoint) (float64, float64)     { return q.X, q.Y }
-func pickFitted(q report.PlotPoint) (float64, float64) { return q.Fitted, q.Residual }
-func pickOrder(q report.PlotPoint) (float64, float64)  { return q.Order, q.Residual }
-func markXY(m report.Marked) (float64, float64)        { return m.X, m.Y }
-func markFitted(m report.Marked) (float64, float64)    { return m.Fitted, m.Residual }
-func markOrder(m report.Marked) (float64, float64)     { return m.Order, m.Residual }
+func pickXY(q report.PlotPoint) (float64, float64)    { return q.X, q.Y }
+func pickOrder(q report.PlotPoint) (float64, float64) { return q.Order, q.Residual }
+func markXY(m report.Marked) (float64, float64)       { return m.X, m.Y }
+func markOrder(m report.Marked) (float64, float64)    { return m.Order, m.Residual }
 func dense(p *report.Plot, g *report.Grid) (bool, *report.Grid) {
 	return p.Points == nil && g != nil, g
 }
@@ -409,38 +407,6 @@ func LineCaption(level string) string {
 	return fmt.Sprintf("Least-squares line in its %s%% band; dash-dot: LOWESS.", level)
 }
 
-// ResidualsFitted plots the main fit's residuals (the straight line's, or
-// the curve's when the form is curved) against its fitted values. It
-// returns nil when the study has none.
-func ResidualsFitted(s *report.Study, id string) *Figure {
-	p := s.Plot
-	if p == nil || p.N == 0 || (p.Points == nil && p.ResidFitted == nil) {
-		return nil
-	}
-	fit := fitName(p)
-	f := &Figure{
-		ID: id, Width: ResidualW, Height: ResidualH,
-		XLabel: "Fitted value: " + AxisTitle(s.Y), YLabel: residualTitle(s),
-		Title:  "Distance from the " + fit + ", by fitted value",
-		Points: series(p, pickFitted),
-		Marked: marks(p, markFitted),
-		Lines:  []Line{zeroLine(spanOf(p, p.ResidFitted, pickFitted))},
-		Levels: p.Levels,
-		XScale: s.Y.Scale, // the fitted values are on y's scale
-	}
-	if s.Y.Scale != "" { // shorter: the figure is narrow, and the title names the scale
-		f.XLabel = "Fitted value: " + AxisTitle(report.Variable{Label: "y", Symbol: s.Y.Symbol, Scale: s.Y.Scale})
-	}
-	f.Dense, f.Density = dense(p, p.ResidFitted)
-	f.Desc = fmt.Sprintf("Residuals of the least-squares %s for %d rows against the fitted values, with a dashed line at zero. %s", fitLong(p), p.N, markNames(f.Marked))
-	f.Caption = f.Title + "."
-	if f.Dense {
-		f.Caption += denseNote(p.N, len(f.Marked))
-		f.Desc += denseNote(p.N, len(f.Marked))
-	}
-	return f
-}
-
 // alignedTicks is the room the scatterplot and the distances against x
 // under it keep for their y tick labels (up to "−0.0000"), so that
 // their x axes line up.
@@ -449,15 +415,11 @@ var alignedTicks = textWidth("−0.0000", tickFont)
 // ResidualsX plots each row's distance from the main fit against x, as
 // wide as the scatterplot and on its x axis, to stand under it: a bow, a
 // funnel or a run on one side shows where along x the fit misses. Above
-// PlotPointsMax the analysis bins the residuals against the fitted value
-// only, so the figure is ResidualsFitted's there.
+// PlotPointsMax the rows are density cells (Plot.ResidX).
 func ResidualsX(s *report.Study, id string) *Figure {
 	p := s.Plot
-	if p == nil || p.N == 0 {
+	if p == nil || p.N == 0 || (p.Points == nil && p.ResidX == nil) {
 		return nil
-	}
-	if p.Points == nil {
-		return ResidualsFitted(s, id)
 	}
 	fit := fitName(p)
 	f := &Figure{
@@ -466,12 +428,17 @@ func ResidualsX(s *report.Study, id string) *Figure {
 		Title:  "Distance from the " + fit + ", along " + varName(s.X),
 		Points: series(p, pickResidX),
 		Marked: marks(p, markResidX),
-		Lines:  []Line{zeroLine(spanOf(p, nil, pickResidX))},
+		Lines:  []Line{zeroLine(spanOf(p, p.ResidX, pickResidX))},
 		Levels: p.Levels,
 		XScale: s.X.Scale, TickRoom: alignedTicks,
 	}
+	f.Dense, f.Density = dense(p, p.ResidX)
 	f.Desc = fmt.Sprintf("Residuals of the least-squares %s for %d rows against %s, on the scatterplot's x axis, with a dashed line at zero. %s", fitLong(p), p.N, varName(s.X), markNames(f.Marked))
 	f.Caption = f.Title + "."
+	if f.Dense {
+		// The scatterplot's caption above says it once for both.
+		f.Desc += denseNote(p.N, len(f.Marked))
+	}
 	return f
 }
 

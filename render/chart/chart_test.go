@@ -290,7 +290,7 @@ func TestLabelsBounded(t *testing.T) {
 		marked = append(marked, report.Marked{Row: fmt.Sprintf("R%02d", k), X: 20 + float64(k), Y: 3, Fitted: 3, Residual: 0.1 * float64(k), Order: float64(k), Label: k < report.LabelMax})
 	}
 	s.Plot.Marked = marked
-	for _, f := range []*Figure{Scatter(s, "s", "95"), ResidualsFitted(s, "f"), ResidualsOrder(s, "o")} {
+	for _, f := range []*Figure{Scatter(s, "s", "95"), ResidualsX(s, "f"), ResidualsOrder(s, "o")} {
 		if f == nil || !f.Dense {
 			t.Fatal("want a dense figure for n = 5000")
 		}

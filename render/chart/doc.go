@@ -4,7 +4,7 @@
 // values; residuals against run order.
 //
 // The renderers see two things: a Figure (a description of what to draw,
-// built from a report.Study by Scatter, ResidualsFitted and ResidualsOrder)
+// built from a report.Study by Scatter, ResidualsX and ResidualsOrder)
 // and the Drawer interface that turns a Figure into SVG. The only Drawer is
 // SVG, written here by hand; a drawing library could stand behind the same
 // interface without the renderers noticing.

@@ -99,7 +99,7 @@ func Expectations(s *report.Study, e *manifest.Expect, alpha float64, adjust str
 	}
 	if e.MaxP != nil {
 		want := *e.MaxP
-		add("max_p", "adjusted p ≤ "+num(report.Float(want)), func() (string, bool, string) {
+		add("max_p", "adjusted p ≤ "+strconv.FormatFloat(want, 'f', -1, 64), func() (string, bool, string) {
 			pa := s.Pearson.PAdjusted
 			// findings.PValueVs against the gate's bound: "< 0.0001" below
 			// 0.0001 unless the bound lies lower (then "< bound" or the

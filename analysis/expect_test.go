@@ -75,8 +75,8 @@ func TestExpectationMaxP(t *testing.T) {
 		{0.0496, 0.05, "adjusted p = 0.0496", true}, // PValue alone: 0.050
 		{0.0504, 0.05, "adjusted p = 0.0504", false},
 		{0.2, 0.05, "adjusted p = 0.20", false},
-		{1e-9, 1e-6, "adjusted p < 1e-06", true},
-		{3.2e-6, 1e-6, "adjusted p = 3.2e-06", false},
+		{1e-9, 1e-6, "adjusted p < 0.000001", true},
+		{3.2e-6, 1e-6, "adjusted p = 0.00000320", false},
 		{math.NaN(), 0.05, "adjusted p undefined", false},
 	} {
 		s := expectStudy()

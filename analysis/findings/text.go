@@ -198,9 +198,12 @@ func PValueVs(p, alpha float64) string {
 			return t
 		}
 		if p < alpha {
-			return "< " + strconv.FormatFloat(alpha, 'g', -1, 64)
+			// The level as written, in decimals (0.000001, not 1e-06):
+			// a reader and a spreadsheet both read it as a number.
+			return "< " + strconv.FormatFloat(alpha, 'f', -1, 64)
 		}
-		return strconv.FormatFloat(p, 'g', 3, 64)
+		// Three significant digits, in decimals (0.0000612, not 6.12e-05).
+		return strconv.FormatFloat(p, 'f', max(0, 2-int(math.Floor(math.Log10(p)))), 64)
 	}
 	for k := 3; k <= 8; k++ {
 		v, err := strconv.ParseFloat(t, 64)

@@ -1,7 +1,6 @@
 package render_test
 
 import (
-	"bytes"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -10,7 +9,6 @@ import (
 	"bivar/analysis"
 	"bivar/analysis/manifest"
 	"bivar/internal/reference"
-	"bivar/render"
 )
 
 // TestMeasurementSections renders a relationship study with replicate
@@ -50,13 +48,7 @@ agreement = { acceptable = 60 }
 	if err != nil {
 		t.Fatal(err)
 	}
-	var md, page bytes.Buffer
-	if err := render.Markdown(&md, r); err != nil {
-		t.Fatal(err)
-	}
-	if err := render.HTML(&page, r); err != nil {
-		t.Fatal(err)
-	}
+	md, page := renderBoth(t, r)
 	ec, ag := r.Studies[0].ErrorCorrection, r.Studies[1].Agreement
 	for _, want := range []string{"### Corrected for measurement error", ec.Statements[0], ec.Assumptions[0],
 		// the planning in the appendix: a table row for a study of a

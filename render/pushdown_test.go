@@ -1,12 +1,10 @@
 package render_test
 
 import (
-	"bytes"
 	"strings"
 	"testing"
 
 	"bivar/analysis/report"
-	"bivar/render"
 	"bivar/render/internal/fixture"
 )
 
@@ -21,13 +19,7 @@ func TestPushdownSection(t *testing.T) {
 		Method: "the 20000 rows of smallest md5 of their values", Exact: []string{"Pearson r", "the line"},
 		Sampled: []string{"Spearman's rho", "LOWESS"}, Omitted: []report.Omission{{Figure: "log models", Why: "no logarithm is taken in the database"}},
 		Statements: []string{"SELECT 1", "SELECT 2"}}
-	var md, page bytes.Buffer
-	if err := render.Markdown(&md, r); err != nil {
-		t.Fatal(err)
-	}
-	if err := render.HTML(&page, r); err != nil {
-		t.Fatal(err)
-	}
+	md, page := renderBoth(t, r)
 	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
 		for _, want := range []string{"Computed in the database", "12000000 rows", "max_rows = 5000000", "Pearson r; the line", "Spearman", "log models", "no logarithm is taken in the database", "The 2 SQL statements"} {
 			if !strings.Contains(out, want) {

@@ -8,6 +8,7 @@ import (
 
 	"bivar/analysis"
 	"bivar/analysis/manifest"
+	"bivar/analysis/report"
 	"bivar/render"
 	"bivar/themes"
 )
@@ -50,13 +51,7 @@ func TestSampleProject(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var md, page bytes.Buffer
-	if err := render.Markdown(&md, r); err != nil {
-		t.Fatal(err)
-	}
-	if err := render.HTML(&page, r); err != nil {
-		t.Fatal(err)
-	}
+	md, page := renderBoth(t, r)
 	render.Golden(t, "sample.md", md.Bytes())
 	render.Golden(t, "sample.html.outline", []byte(render.Outline(page.Bytes())))
 
@@ -119,4 +114,17 @@ func TestSampleProjectBrowser(t *testing.T) {
 			t.Errorf("%s: no screenshot or no PDF", th)
 		}
 	}
+}
+
+// renderBoth writes r as Markdown and as HTML.
+func renderBoth(t *testing.T, r *report.Report) (md, page *bytes.Buffer) {
+	t.Helper()
+	md, page = new(bytes.Buffer), new(bytes.Buffer)
+	if err := render.Markdown(md, r); err != nil {
+		t.Fatal(err)
+	}
+	if err := render.HTML(page, r); err != nil {
+		t.Fatal(err)
+	}
+	return md, page
 }

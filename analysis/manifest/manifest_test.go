@@ -22,6 +22,31 @@ func parse(t *testing.T, src string) (*Manifest, error) {
 	return Parse("bivar.toml", []byte(src), "testdata")
 }
 
+// checkErrors parses src and checks that it fails with exactly the errors
+// want (of file bivar.toml), in order, with their keys and places.
+func checkErrors(t *testing.T, src string, want []Error) {
+	t.Helper()
+	_, err := parse(t, src)
+	var got Errors
+	if !errors.As(err, &got) {
+		t.Fatalf("Parse error = %v (%T), want Errors", err, err)
+	}
+	var texts []string
+	for _, w := range want {
+		w.File = "bivar.toml"
+		texts = append(texts, w.Error())
+	}
+	if g, w := err.Error(), strings.Join(texts, "\n"); g != w {
+		t.Errorf("Parse error:\ngot  %s\nwant %s", g, w)
+	}
+	for i := range min(len(got), len(want)) {
+		if got[i].Key != want[i].Key || got[i].Line != want[i].Line || got[i].Col != want[i].Col {
+			t.Errorf("error %d: Key, Line, Col = %q, %d, %d; want %q, %d, %d", i,
+				got[i].Key, got[i].Line, got[i].Col, want[i].Key, want[i].Line, want[i].Col)
+		}
+	}
+}
+
 func TestLoadGood(t *testing.T) {
 	t.Parallel()
 	m, err := Load("testdata/good.toml")
@@ -281,25 +306,7 @@ func TestErrors(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
-			_, err := parse(t, c.src)
-			var got Errors
-			if !errors.As(err, &got) {
-				t.Fatalf("Parse error = %v (%T), want Errors", err, err)
-			}
-			var want []string
-			for _, w := range c.want {
-				w.File = "bivar.toml"
-				want = append(want, w.Error())
-			}
-			if g, w := err.Error(), strings.Join(want, "\n"); g != w {
-				t.Errorf("Parse error:\ngot  %s\nwant %s", g, w)
-			}
-			for i := range min(len(got), len(c.want)) {
-				if got[i].Key != c.want[i].Key || got[i].Line != c.want[i].Line || got[i].Col != c.want[i].Col {
-					t.Errorf("error %d: Key, Line, Col = %q, %d, %d; want %q, %d, %d", i,
-						got[i].Key, got[i].Line, got[i].Col, c.want[i].Key, c.want[i].Line, c.want[i].Col)
-				}
-			}
+			checkErrors(t, c.src, c.want)
 		})
 	}
 }

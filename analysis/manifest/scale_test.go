@@ -1,8 +1,6 @@
 package manifest
 
 import (
-	"errors"
-	"strings"
 	"testing"
 )
 
@@ -45,19 +43,7 @@ func TestScaleKeys(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
-			_, err := parse(t, c.src)
-			var got Errors
-			if !errors.As(err, &got) {
-				t.Fatalf("Parse error = %v (%T), want Errors", err, err)
-			}
-			var want []string
-			for _, w := range c.want {
-				w.File = "bivar.toml"
-				want = append(want, w.Error())
-			}
-			if g, w := err.Error(), strings.Join(want, "\n"); g != w {
-				t.Errorf("Parse error:\ngot  %s\nwant %s", g, w)
-			}
+			checkErrors(t, c.src, c.want)
 		})
 	}
 	if m, err := parse(t, head+"thousands = \".\"\n"+study); err != nil || m.Datasets[0].Thousands != "." {

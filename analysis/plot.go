@@ -89,17 +89,9 @@ func plotData(x, y []float64, cc cases, lv []string, gidx []int32, line stats.Li
 		}
 		wg.Wait()
 	}
-	lo, hi := slices.Min(x), slices.Max(x)
-	k := cfg.BandPoints
-	p.Band = make([]report.BandPoint, k)
-	for i := range k {
-		x0 := lo + (hi-lo)*float64(i)/float64(k-1)
-		if i == k-1 {
-			x0 = hi
-		}
-		f, cl, ch, pl, ph := line.Interval(x0, conf)
-		p.Band[i] = report.BandPoint{X: x0, Fit: f, ConfLow: cl, ConfHigh: ch, PredLow: pl, PredHigh: ph}
-	}
+	p.Band = lineBand(slices.Min(x), slices.Max(x), cfg.BandPoints, func(x0 float64) (f, cl, ch, pl, ph float64) {
+		return line.Interval(x0, conf)
+	})
 	p.Lowess = lowess
 	for k, pt := range inf.Points {
 		i := pt.Index
@@ -210,13 +202,23 @@ func quadraticCurve(s *report.Study, k int) []report.XY {
 	lo, hi := float64(s.Describe.X.Min), float64(s.Describe.X.Max)
 	out := make([]report.XY, k)
 	for i := range k {
-		x0 := lo + (hi-lo)*float64(i)/float64(k-1)
-		if i == k-1 {
-			x0 = hi
-		}
+		x0 := stats.GridX(lo, hi, i, k)
 		out[i] = report.XY{X: x0, Y: b0 + x0*(b1+b2*x0)}
 	}
 	return out
+}
+
+// lineBand is the line's confidence and prediction band at k evenly
+// spaced x from lo to hi (stats.GridX), at(x0) giving the fit and the interval
+// ends there (stats.LineFit.Interval's order).
+func lineBand(lo, hi float64, k int, at func(x0 float64) (f, cl, ch, pl, ph float64)) []report.BandPoint {
+	band := make([]report.BandPoint, k)
+	for i := range k {
+		x0 := stats.GridX(lo, hi, i, k)
+		f, cl, ch, pl, ph := at(x0)
+		band[i] = report.BandPoint{X: x0, Fit: f, ConfLow: cl, ConfHigh: ch, PredLow: pl, PredHigh: ph}
+	}
+	return band
 }
 
 func hasKey(m map[string]int, k string) bool {

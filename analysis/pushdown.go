@@ -1011,17 +1011,9 @@ func pushdownPlot(th *dataset.Third, m stats.Moments, rss float64, c *dataset.Co
 		return &report.Grid{XLo: d.XLo, XHi: d.XHi, YLo: d.YLo, YHi: d.YHi, NX: d.NX, NY: d.NY, Counts: d.Counts}
 	}
 	pl.Scatter, pl.ResidX, pl.ResidOrder = conv(th.Grids[0]), conv(th.Grids[1]), conv(th.Grids[2])
-	lo, hi := c.Min[0], c.Max[0]
-	k := cfg.BandPoints
-	pl.Band = make([]report.BandPoint, k)
-	for i := range k {
-		x0 := lo + (hi-lo)*float64(i)/float64(k-1)
-		if i == k-1 {
-			x0 = hi
-		}
-		f, cl, ch, pl2, ph := lineInterval(m, rss, x0, conf)
-		pl.Band[i] = report.BandPoint{X: x0, Fit: f, ConfLow: cl, ConfHigh: ch, PredLow: pl2, PredHigh: ph}
-	}
+	pl.Band = lineBand(c.Min[0], c.Max[0], cfg.BandPoints, func(x0 float64) (f, cl, ch, pl, ph float64) {
+		return lineInterval(m, rss, x0, conf)
+	})
 	if sp != nil {
 		pl.Lowess = sp.Lowess
 	}

@@ -230,10 +230,7 @@ func runLine(s *report.Study, alpha float64) *RunLine {
 	t := stats.TQuantileUpper(alpha/2, float64(df))
 	rl := &RunLine{N: s.Moments.N}
 	for i := range lineGrid {
-		x := lo + (hi-lo)*float64(i)/float64(lineGrid-1)
-		if i == lineGrid-1 {
-			x = hi
-		}
+		x := stats.GridX(lo, hi, i, lineGrid)
 		fit, se := meanResponse(*s.Moments, x)
 		if math.IsNaN(fit) {
 			return nil

@@ -216,3 +216,12 @@ func CentredMoments(x, y []float64) Moments {
 	m.Sxy = kxy.value() - cx*cy/n
 	return m
 }
+
+// GridX is the i-th (0-based) of k ≥ 2 evenly spaced values from lo to hi,
+// the last exactly hi: the x at which a curve or band is drawn.
+func GridX(lo, hi float64, i, k int) float64 {
+	if i == k-1 {
+		return hi
+	}
+	return lo + (hi-lo)*float64(i)/float64(k-1)
+}

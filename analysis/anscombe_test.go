@@ -1,10 +1,7 @@
 package analysis_test
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
-	"path/filepath"
 	"slices"
 	"strconv"
 	"testing"
@@ -13,39 +10,6 @@ import (
 	"bivar/analysis/report"
 	"bivar/internal/reference"
 )
-
-// anscombe reads the four sets of Anscombe's quartet from
-// shared/reference/anscombe.csv (columns set, x, y).
-func anscombe(t testing.TB) map[string][2][]float64 {
-	t.Helper()
-	path := filepath.Join(reference.Dir(t), "anscombe.csv")
-	f, err := os.Open(path)
-	if err != nil {
-		t.Skipf("reference file %s not readable: %v", path, err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatalf("%s: %v", path, err)
-	}
-	sets := map[string][2][]float64{}
-	for _, rec := range recs[1:] {
-		x, err1 := strconv.ParseFloat(rec[1], 64)
-		y, err2 := strconv.ParseFloat(rec[2], 64)
-		if err1 != nil || err2 != nil {
-			t.Fatalf("%s: bad row %v", path, rec)
-		}
-		s := sets[rec[0]]
-		s[0], s[1] = append(s[0], x), append(s[1], y)
-		sets[rec[0]] = s
-	}
-	for _, k := range []string{"I", "II", "III", "IV"} {
-		if len(sets[k][0]) != 11 {
-			t.Fatalf("%s: set %s has %d rows, want 11", path, k, len(sets[k][0]))
-		}
-	}
-	return sets
-}
 
 func within(got report.Float, want, tol float64) bool {
 	return got.Valid() && math.Abs(float64(got)-want) <= tol
@@ -64,7 +28,7 @@ func within(got report.Float, want, tol float64) bool {
 // R² = 0.6662 and 0.6663), so those two are held to 0.001.
 func TestAnalyzeAnscombe(t *testing.T) {
 	t.Parallel()
-	sets := anscombe(t)
+	sets := reference.Anscombe(t)
 	for _, name := range []string{"I", "II", "III", "IV"} {
 		t.Run("anscombe-"+name, func(t *testing.T) {
 			t.Parallel()
@@ -182,7 +146,7 @@ func sortedByCooks(pts []report.Point) bool {
 // leaves out: it cancels between fits of the same y on the same rows.
 // Fits of ln(y) are on another scale and get no comparison (NaN).
 func TestShapesAgainstLine(t *testing.T) {
-	d := anscombe(t)["II"]
+	d := reference.Anscombe(t)["II"]
 	s := analysis.Analyze(analysis.Input{ID: "ii", X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"}, XS: d[0], YS: d[1]}, analysis.DefaultConfig())
 	if s.Error != nil {
 		t.Fatal(*s.Error)
@@ -223,7 +187,7 @@ func TestShapesAgainstLine(t *testing.T) {
 // 16.907814227791718 and 0.5895253040408334 (statsmodels 0.13.5,
 // −params[1]/(2·params[2]) of OLS(y, [1, x, x²]).fit()): both far.
 func TestVertexNear(t *testing.T) {
-	sets := anscombe(t)
+	sets := reference.Anscombe(t)
 	for name, want := range map[string]float64{"I": 16.907814227791718, "III": 0.5895253040408334} {
 		d := sets[name]
 		s := analysis.Analyze(analysis.Input{ID: name, X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"}, XS: d[0], YS: d[1]}, analysis.DefaultConfig())
@@ -243,7 +207,7 @@ func TestVertexNear(t *testing.T) {
 // it holds the curve's residuals. Above report.PlotPointsMax the grids are
 // the curve's too.
 func TestCurvedResidualsFromCurve(t *testing.T) {
-	d := anscombe(t)["II"]
+	d := reference.Anscombe(t)["II"]
 	s := analysis.Analyze(analysis.Input{ID: "ii", X: report.Variable{Column: "x"}, Y: report.Variable{Column: "y"}, XS: d[0], YS: d[1]}, analysis.DefaultConfig())
 	if s.Error != nil || s.Findings == nil || s.Findings.Form != "curved" {
 		t.Fatalf("Anscombe II: error %v, findings %+v", s.Error, s.Findings)

@@ -7,6 +7,7 @@ import (
 
 	"bivar/analysis"
 	"bivar/analysis/report"
+	"bivar/internal/reference"
 )
 
 // TestAnalyzeScaled runs Anscombe (1973) set I (shared/reference/
@@ -18,7 +19,7 @@ import (
 // 1e-13 relative, since x·s rounds (an identity, not a reference value).
 func TestAnalyzeScaled(t *testing.T) {
 	t.Parallel()
-	xy := anscombe(t)["I"]
+	xy := reference.Anscombe(t)["I"]
 	run := func(s float64) report.Study {
 		x, y := make([]float64, len(xy[0])), make([]float64, len(xy[1]))
 		for i := range x {

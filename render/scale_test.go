@@ -3,7 +3,6 @@ package render_test
 import (
 	"bufio"
 	"bytes"
-	"encoding/csv"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -17,6 +16,7 @@ import (
 	"bivar/analysis"
 	"bivar/analysis/manifest"
 	"bivar/analysis/report"
+	"bivar/internal/reference"
 	"bivar/render"
 )
 
@@ -185,15 +185,7 @@ order = "t"
 				}
 			}
 			// The CSV lists every flagged row, the planted ones among them.
-			f, err := os.Open(filepath.Join(out, in.File))
-			if err != nil {
-				t.Fatal(err)
-			}
-			defer f.Close()
-			recs, err := csv.NewReader(f).ReadAll()
-			if err != nil {
-				t.Fatal(err)
-			}
+			recs := reference.ReadCSV(t, filepath.Join(out, in.File))
 			if len(recs)-1 != in.Counts.Flagged || in.FileRows != in.Counts.Flagged {
 				t.Errorf("CSV has %d rows, file_rows %d, want every flagged row (%d)", len(recs)-1, in.FileRows, in.Counts.Flagged)
 			}

@@ -8,9 +8,7 @@ package compare
 // (SOURCES.md: Lane converts r to z' with a printed three-decimal table).
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -32,15 +30,7 @@ func halfUnit(printed string) float64 {
 
 func TestFisherZWorkedExamples(t *testing.T) {
 	path := reference.File(t, "two-correlations-worked-examples.csv")
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatalf("%s: %v", path, err)
-	}
+	rows := reference.ReadCSV(t, path)
 	col := map[string]int{}
 	for i, h := range rows[0] {
 		col[h] = i

@@ -6,7 +6,6 @@ package findings_test
 // construction).
 
 import (
-	"encoding/csv"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -26,15 +25,7 @@ import (
 
 func readCSV(t *testing.T, path string) (head []string, rows [][]string) {
 	t.Helper()
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	all, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatalf("%s: %v", path, err)
-	}
+	all := reference.ReadCSV(t, path)
 	if len(all) < 2 {
 		t.Fatalf("%s: no data rows", path)
 	}

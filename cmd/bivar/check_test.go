@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/csv"
 	"encoding/xml"
 	"os"
 	"path/filepath"
@@ -16,15 +15,7 @@ import (
 // folder; the reference file itself is never copied into the project).
 func anscombeI(t *testing.T, dir string) string {
 	t.Helper()
-	f, err := os.Open(filepath.Join(reference.Dir(t), "anscombe.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	recs := reference.ReadCSV(t, reference.File(t, "anscombe.csv"))
 	var b strings.Builder
 	b.WriteString("x,y\n")
 	for _, r := range recs[1:] {

@@ -49,21 +49,29 @@ func File(t testing.TB, name string) string {
 	return p
 }
 
-// Anscombe reads Anscombe (1973), "Graphs in Statistical Analysis", The
-// American Statistician 27(1), from anscombe.csv (columns set, x, y) and
-// returns the four sets by name ("I" to "IV"), each as x and y in file
-// order. It fails t unless there are four sets of 11 points.
-func Anscombe(t testing.TB) map[string][2][]float64 {
+// ReadCSV reads the CSV file at path whole (RFC 4180, as encoding/csv
+// reads it), failing t, with the path, when it cannot.
+func ReadCSV(t testing.TB, path string) [][]string {
 	t.Helper()
-	f, err := os.Open(File(t, "anscombe.csv"))
+	f, err := os.Open(path)
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer f.Close()
 	recs, err := csv.NewReader(f).ReadAll()
 	if err != nil {
-		t.Fatal(err)
+		t.Fatalf("%s: %v", path, err)
 	}
+	return recs
+}
+
+// Anscombe reads Anscombe (1973), "Graphs in Statistical Analysis", The
+// American Statistician 27(1), from anscombe.csv (columns set, x, y) and
+// returns the four sets by name ("I" to "IV"), each as x and y in file
+// order. It fails t unless there are four sets of 11 points.
+func Anscombe(t testing.TB) map[string][2][]float64 {
+	t.Helper()
+	recs := ReadCSV(t, File(t, "anscombe.csv"))
 	sets := map[string][2][]float64{}
 	for i, r := range recs[1:] {
 		if len(r) < 3 {
@@ -94,15 +102,7 @@ func Anscombe(t testing.TB) map[string][2][]float64 {
 // fails t on a cell that is not a number, naming the line and column.
 func NumericColumns(t testing.TB, name string) map[string][]float64 {
 	t.Helper()
-	f, err := os.Open(File(t, name))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	recs := ReadCSV(t, File(t, name))
 	if len(recs) < 2 {
 		t.Fatalf("%s: no data lines", name)
 	}

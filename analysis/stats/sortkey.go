@@ -102,6 +102,12 @@ func radixSortSerial(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32) {
 			isrc, idst = idst, isrc
 		}
 	}
+	settle(keys, idx, src, isrc)
+}
+
+// settle leaves the sorted keys (and idx) in keys and idx: the passes
+// end in src and isrc, which are either those or the scratch buffers.
+func settle(keys []uint64, idx []int32, src []uint64, isrc []int32) {
 	if &src[0] != &keys[0] {
 		copy(keys, src)
 		if idx != nil {
@@ -219,10 +225,5 @@ func radixSortPar(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32, w int
 			isrc, idst = idst, isrc
 		}
 	}
-	if &src[0] != &keys[0] {
-		copy(keys, src)
-		if idx != nil {
-			copy(idx, isrc)
-		}
-	}
+	settle(keys, idx, src, isrc)
 }

@@ -108,8 +108,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 	// scheduling.
 	r.Studies = make([]report.Study, len(m.Studies))
 	var wg sync.WaitGroup
-	slots := make(chan struct{}, max(1, runtime.GOMAXPROCS(0)))
-	gate := newStudyGate(studyRowBudget)
+	gate := newStudyGate(max(1, runtime.GOMAXPROCS(0)), studyRowBudget)
 	for i, st := range m.Studies {
 		if ls := loaded[st.Dataset]; ls != nil && ls.push != nil && !absentAny(st, ls) {
 			// The rows stay in the database: it does the work, one study
@@ -136,9 +135,8 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		wg.Add(1)
 		rows := len(in.XS)
 		gate.enter(rows)
-		slots <- struct{}{}
 		go func() {
-			defer func() { <-slots; gate.leave(rows); wg.Done() }()
+			defer func() { gate.leave(rows); wg.Done() }()
 			in.Keep = selected[i].keep
 			s := analyze(onScale(st, in), cfg)
 			scaledModels(&s)
@@ -158,6 +156,7 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 	if err := Adjust(r.Studies, adjust); err != nil {
 		return nil, fmt.Errorf("manifest %s: %w", m.Path, err)
 	}
+	slots := make(chan struct{}, max(1, runtime.GOMAXPROCS(0)))
 	for i := range r.Studies {
 		wg.Add(1)
 		slots <- struct{}{}
@@ -571,18 +570,20 @@ func quoteList(cols []string) string {
 // while one at a time still keeps both processors busy with its tasks.
 const studyRowBudget = 4_000_000
 
-// studyGate admits studies in manifest order while the rows of those
-// running stay within a budget; a study is always admitted when none runs.
+// studyGate admits studies in manifest order while fewer than slots run
+// and the rows of those running stay within a budget; a study is always
+// admitted when none runs.
 type studyGate struct {
 	mu      sync.Mutex
 	cond    *sync.Cond
+	slots   int
 	budget  int
 	running int
 	rows    int
 }
 
-func newStudyGate(budget int) *studyGate {
-	g := &studyGate{budget: budget}
+func newStudyGate(slots, budget int) *studyGate {
+	g := &studyGate{slots: slots, budget: budget}
 	g.cond = sync.NewCond(&g.mu)
 	return g
 }
@@ -590,7 +591,7 @@ func newStudyGate(budget int) *studyGate {
 // enter waits until a study of n rows may start, and counts it.
 func (g *studyGate) enter(n int) {
 	g.mu.Lock()
-	for g.running > 0 && g.rows+n > g.budget {
+	for g.running > 0 && (g.running >= g.slots || g.rows+n > g.budget) {
 		g.cond.Wait()
 	}
 	g.running++

@@ -1,7 +1,6 @@
 package dataset
 
 import (
-	"bivar/internal/hugepage"
 	"bytes"
 	"crypto/sha256"
 	"encoding/csv"
@@ -16,6 +15,8 @@ import (
 	"sync"
 	"sync/atomic"
 	"unsafe"
+
+	"bivar/internal/hugepage"
 )
 
 // How the body of a file is read. One goroutine reads blocks of blockSize

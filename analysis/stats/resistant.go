@@ -30,8 +30,9 @@ const DefaultMaxExact = 2000
 // the same definitions as scipy.stats.theilslopes(y, x, method="joint").
 // Pairs with equal x are left out. A median of an even count is the mean of
 // the two middle values. Medians are found by selection (Hoare's quickselect
-// with an introselect fallback to sorting), so the cost is that of building
-// the slopes.
+// with an introselect fallback to sorting; from 2¹⁶ values on, over the
+// values inside a bracket found from a sample, bracketMedian), so the cost
+// is that of building the slopes.
 //
 // Up to maxExact points (DefaultMaxExact when maxExact ≤ 0) every pair is
 // used: n(n−1)/2 slopes, O(n²) time and memory, and method is
@@ -130,6 +131,9 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 		return nan, nan, method, pairs
 	}
 	slope = medianInPlace(slopes)
+	if mid, ok := bracketMedian(y, x, slope); ok {
+		return slope, mid, method, pairs
+	}
 	resid := hugepage.Make[float64](n)
 	for i := range x {
 		resid[i] = y[i] - slope*x[i]
@@ -158,12 +162,15 @@ func stableArgsort(v []float64) []int {
 }
 
 // medianInPlace returns the median of a (mean of the two middle values for
-// an even length), reordering a. It returns NaN for an empty a. a must hold
+// an even length), reordering a (or, where bracketMedian answers, not). It returns NaN for an empty a. a must hold
 // no NaN.
 func medianInPlace(a []float64) float64 {
 	n := len(a)
 	if n == 0 {
 		return math.NaN()
+	}
+	if mid, ok := bracketMedian(a, nil, 0); ok {
+		return mid
 	}
 	k := n / 2
 	hi := selectInPlace(a, k)
@@ -219,6 +226,92 @@ func selectInPlace(a []float64, k int) float64 {
 	}
 	slices.Sort(a[lo:hi])
 	return a[k]
+}
+
+// bracketMinN is the least count bracketMedian works on; below it a
+// selection over the whole slice costs less than the sample's sort.
+const bracketMinN = 1 << 16
+
+// bracketMedian returns the median of the n values v_i = a_i − b·c_i (a_i
+// when c is nil; none NaN, n = len(a) = len(c); the mean of the two middle
+// values for an even n) without storing or reordering them, and false
+// where it cannot tell (n below bracketMinN, or values so placed that the
+// bracket missed the middle): then the caller selects over all n as
+// before. It is exact either way.
+//
+// Method: the sampling step of Floyd & Rivest (1975, "Expected time bounds
+// for selection", Commun. ACM 18(3):165–172, Algorithm 489 SELECT). A
+// sample of s ≈ n^(2/3) values, taken at evenly spaced positions, is
+// sorted; the values δ = 3√s sample ranks either side of the middle's
+// place in the sample bracket the middle of all n (the middle's sample rank
+// has a standard deviation of at most √s/2, so δ is six of them for values
+// in random order). One pass counts the values below the bracket and keeps
+// those inside it, about 6n/√s of them; when the count below and the kept
+// values hold both middle ranks, a selection over the kept values gives
+// them. A bracket that misses — possible only for values placed in a
+// pattern that fools the evenly spaced sample — is detected by the counts.
+func bracketMedian(a, c []float64, b float64) (float64, bool) {
+	n := len(a)
+	if n < bracketMinN {
+		return 0, false
+	}
+	at := func(i int) float64 {
+		if c == nil {
+			return a[i]
+		}
+		return a[i] - b*c[i]
+	}
+	s := int(math.Cbrt(float64(n)) * math.Cbrt(float64(n)))
+	s = min(max(s, 4096), n/8)
+	sample := make([]float64, s)
+	for t := range sample {
+		sample[t] = at(int((2*uint64(t) + 1) * uint64(n) / (2 * uint64(s))))
+	}
+	slices.Sort(sample)
+	k0, k1 := (n-1)/2, n/2 // the middle ranks, 0-based
+	delta := int(3 * math.Sqrt(float64(s)))
+	lo, hi := math.Inf(-1), math.Inf(1)
+	if r := int(uint64(k0)*uint64(s)/uint64(n)) - delta; r >= 0 {
+		lo = sample[r]
+	}
+	if r := int(uint64(k1)*uint64(s)/uint64(n)) + delta; r < s {
+		hi = sample[r]
+	}
+	// Keep at most four times the expected count inside the bracket. The
+	// pass has no data-dependent branch (the comparisons become flags):
+	// every value is written to the next free slot, which only a value
+	// inside the bracket keeps.
+	limit := 4*(2*delta+1)*(n/s+1) + 1024
+	kept := make([]float64, limit+1)
+	below, m := 0, 0
+	for i := range n {
+		v := at(i)
+		kept[m] = v
+		var under, over int
+		if v < lo {
+			under = 1
+		}
+		if v > hi {
+			over = 1
+		}
+		below += under
+		m += 1 - under - over
+		if m == limit {
+			return 0, false
+		}
+	}
+	if below > k0 || below+m <= k1 {
+		return 0, false
+	}
+	kept = kept[:m]
+	upper := selectInPlace(kept, k1-below)
+	if k0 == k1 {
+		return upper, true
+	}
+	// After selection kept[:k1−below] (not empty: below ≤ k0 < k1) holds
+	// the values below upper's rank: the lower middle is their maximum.
+	lower := slices.Max(kept[:k1-below])
+	return lower + (upper-lower)/2, true
 }
 
 func median3(a, b, c float64) float64 {

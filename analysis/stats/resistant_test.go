@@ -124,8 +124,12 @@ func TestTheilSen(t *testing.T) {
 func TestMedianInPlace(t *testing.T) {
 	t.Parallel()
 	src := rand.NewPCG(3, 3)
-	for _, n := range []int{1, 2, 3, 16, 17, 100, 1001, 5000} {
-		for _, kind := range []string{"uniform", "few-values", "sorted", "reversed"} {
+	// Sizes from bracketMinN up take bracketMedian's path; "sample-fooled"
+	// puts the smallest values exactly where its evenly spaced sample
+	// looks, so that the bracket misses and the selection over all values
+	// answers.
+	for _, n := range []int{1, 2, 3, 16, 17, 100, 1001, 5000, bracketMinN, bracketMinN + 1, 200_001, 1 << 20} {
+		for _, kind := range []string{"uniform", "few-values", "sorted", "reversed", "sample-fooled"} {
 			a := make([]float64, n)
 			for i := range a {
 				switch kind {
@@ -137,6 +141,17 @@ func TestMedianInPlace(t *testing.T) {
 					a[i] = float64(i)
 				case "reversed":
 					a[i] = float64(n - i)
+				case "sample-fooled":
+					a[i] = 1 + extraUniform(src)
+				}
+			}
+			if kind == "sample-fooled" && n >= bracketMinN {
+				s := min(max(int(math.Cbrt(float64(n))*math.Cbrt(float64(n))), 4096), n/8)
+				for t := range s {
+					a[(2*t+1)*n/(2*s)] = -extraUniform(src)
+				}
+				if _, ok := bracketMedian(a, nil, 0); ok {
+					t.Errorf("n=%d: the bracket of a sample of the smallest values claimed the median", n)
 				}
 			}
 			s := slices.Clone(a)
@@ -144,6 +159,23 @@ func TestMedianInPlace(t *testing.T) {
 			want := s[n/2]
 			if n%2 == 0 {
 				want = s[n/2-1] + (s[n/2]-s[n/2-1])/2
+			}
+			if n >= bracketMinN && kind == "uniform" {
+				// The residual form a − b·c, as Theil–Sen's intercept takes it.
+				c := make([]float64, n)
+				r := make([]float64, n)
+				for i := range c {
+					c[i] = extraUniform(src)
+					r[i] = a[i] - 0.7*c[i]
+				}
+				slices.Sort(r)
+				wantR := r[n/2]
+				if n%2 == 0 {
+					wantR = r[n/2-1] + (r[n/2]-r[n/2-1])/2
+				}
+				if got, ok := bracketMedian(a, c, 0.7); !ok || got != wantR {
+					t.Errorf("median of a − 0.7c (n=%d) = %v (%v), want %v", n, got, ok, wantR)
+				}
 			}
 			if got := medianInPlace(a); got != want {
 				t.Errorf("median(%s, n=%d) = %v, want %v", kind, n, got, want)

@@ -69,8 +69,9 @@ func valueSample(xs, ys []float64, m int) rowSample {
 	n := len(xs)
 	keepAll := m <= 0 || m >= n
 	frac := 2*float64(m)/float64(n) + 64/float64(n)
-	var hs []uint64
-	var is []int
+	hs := make([]uint64, 0, min(n, int(1.25*frac*float64(n))+64))
+	is := make([]int, 0, cap(hs))
+	inOrder := true // xs ascending, as every caller gives it
 	for {
 		hs, is = hs[:0], is[:0]
 		all := keepAll || frac >= 0.5 // a bound near 2⁶⁴ would overflow; half the rows or more: keep them all
@@ -81,6 +82,9 @@ func valueSample(xs, ys []float64, m int) rowSample {
 				k++
 			} else {
 				k = 0
+			}
+			if i > 0 && xs[i] < xs[i-1] {
+				inOrder = false
 			}
 			if h := rowHash(xs[i], ys[i], k); all || h < bound {
 				hs, is = append(hs, h), append(is, i)
@@ -95,24 +99,42 @@ func valueSample(xs, ys []float64, m int) rowSample {
 		x, y float64
 		h    uint64
 	}
-	rows := make([]row, 0, len(is))
+	// The chosen positions into hs and is, in the input's order.
+	var chosen []int
 	if keepAll {
-		for j, i := range is {
-			rows = append(rows, row{xs[i], ys[i], hs[j]})
+		chosen = make([]int, len(is))
+		for j := range chosen {
+			chosen[j] = j
 		}
 	} else {
-		// Positions j into hs and is, the m of smallest hash.
 		js := make([]int, len(is))
 		for j := range js {
 			js[j] = j
 		}
-		for _, j := range smallestOf(hs, js, m, func(a, b int) int {
+		chosen = smallestOf(hs, js, m, func(a, b int) int {
 			return cmp.Or(cmp.Compare(xs[is[a]], xs[is[b]]), cmp.Compare(ys[is[a]], ys[is[b]]))
-		}) {
-			rows = append(rows, row{xs[is[j]], ys[is[j]], hs[j]})
-		}
+		})
+		slices.Sort(chosen)
 	}
-	slices.SortFunc(rows, func(a, b row) int { return cmp.Or(cmp.Compare(a.x, b.x), cmp.Compare(a.y, b.y), cmp.Compare(a.h, b.h)) })
+	rows := make([]row, 0, len(chosen))
+	for _, j := range chosen {
+		rows = append(rows, row{xs[is[j]], ys[is[j]], hs[j]})
+	}
+	// Canonical order: x, then y, then hash. Rows taken in the order of an
+	// input sorted by x need only their runs of equal x ordered.
+	if !inOrder {
+		slices.SortFunc(rows, func(a, b row) int { return cmp.Or(cmp.Compare(a.x, b.x), cmp.Compare(a.y, b.y), cmp.Compare(a.h, b.h)) })
+	}
+	for lo := 0; lo < len(rows); {
+		hi := lo + 1
+		for hi < len(rows) && rows[hi].x == rows[lo].x {
+			hi++
+		}
+		if hi-lo > 1 {
+			slices.SortFunc(rows[lo:hi], func(a, b row) int { return cmp.Or(cmp.Compare(a.y, b.y), cmp.Compare(a.h, b.h)) })
+		}
+		lo = hi
+	}
 	out := rowSample{x: make([]float64, len(rows)), y: make([]float64, len(rows)), h: make([]uint64, len(rows))}
 	for j, r := range rows {
 		out.x[j], out.y[j], out.h[j] = r.x, r.y, r.h

@@ -63,6 +63,14 @@ func TestCanonicalNested(t *testing.T) {
 	if !slices.Equal(ax, bx) || !slices.Equal(ay, by) {
 		t.Error("the sample from stats.Sorted's order differs from the sample from a sort by x, y")
 	}
+	// Rows not in order of x (equal pairs still adjacent): the same sample.
+	rx, ry := slices.Clone(ps.X), slices.Clone(ps.Y)
+	slices.Reverse(rx)
+	slices.Reverse(ry)
+	cx, cy := valueSample(rx, ry, 700).sub(0)
+	if !slices.Equal(cx, bx) || !slices.Equal(cy, by) {
+		t.Error("the sample from rows in descending x differs from the sample from a sort by x, y")
+	}
 }
 
 // TestSampleQuantized: on quantized data (a gauge that reads to 0.1) the

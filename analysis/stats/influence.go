@@ -173,8 +173,16 @@ func (li *LineInfluence) At(i int) InfluenceRow {
 	dx, dy := (li.x[i]-li.hx)-li.lx, (li.y[i]-li.hy)-li.ly
 	e := dy - li.b1*dx
 	q := dx * dx / m.Sxx
-	h := math.Min(1, 1/nf+q)
-	omh := math.Max(0, (nf-1)/nf-q) // 1 − h, formed without adding 1/n first
+	// Plain comparisons, not math.Min and math.Max (a call each per row);
+	// no value here is NaN or a signed zero that they would treat apart.
+	h := 1/nf + q
+	if h > 1 {
+		h = 1
+	}
+	omh := (nf-1)/nf - q // 1 − h, formed without adding 1/n first
+	if omh < 0 {
+		omh = 0
+	}
 	r := InfluenceRow{Leverage: h, Residual: e}
 	ri := e / (li.s * math.Sqrt(omh))
 	r.Studentized = ri
@@ -182,7 +190,10 @@ func (li *LineInfluence) At(i int) InfluenceRow {
 	ti := nan
 	if li.n > 3 {
 		s2 := (li.rss - e*e/omh) / (nf - 3)
-		ti = e / (math.Sqrt(math.Max(s2, 0)) * math.Sqrt(omh))
+		if s2 < 0 {
+			s2 = 0
+		}
+		ti = e / (math.Sqrt(s2) * math.Sqrt(omh))
 	}
 	r.StudentizedExt = ti
 	r.DFFITS = ti * math.Sqrt(h/omh)

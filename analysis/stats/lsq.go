@@ -555,7 +555,9 @@ func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regressi
 	c, _ := meanSS(x)
 	var s float64
 	for _, v := range x {
-		s = math.Max(s, math.Abs(v-c))
+		if d := math.Abs(v - c); d > s { // x is finite (checked above)
+			s = d
+		}
 	}
 	if d := distinctAtMost(x, degree+1); d < degree+1 {
 		return Regression{}, fmt.Errorf("polynomial: x takes %d distinct value(s): a degree-%d polynomial needs at least %d", d, degree, degree+1)
@@ -570,6 +572,10 @@ func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regressi
 			}
 		}
 		ky := pow2Shift(y)
+		yi := func(i int) float64 { return y[i] }
+		if ky != 0 {
+			yi = func(i int) float64 { return math.Ldexp(y[i], ky) }
+		}
 		r, err := lsqSummaryRows(len(x), degree, func(i int, row []float64) float64 {
 			t := (x[i] - c) / s
 			v := t
@@ -577,7 +583,7 @@ func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regressi
 				row[d] = v
 				v *= t
 			}
-			return math.Ldexp(y[i], ky)
+			return yi(i)
 		}, conf)
 		if err != nil {
 			return Regression{}, err

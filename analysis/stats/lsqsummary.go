@@ -189,20 +189,40 @@ func (r Regression) summariseRows(rowAt func(i int, row []float64) float64, b []
 // column to −sign(a_jj)·‖column‖.
 func householderR(a []float64, k, q int) {
 	for j := 0; j < q && j < k-1; j++ {
-		// Norm of column j from row j down, scaled against overflow.
+		// Norm of column j from row j down. Its largest magnitude m
+		// decides whether the squares need scaling: for m within
+		// [2⁻⁴⁰⁰, 2⁴⁰⁰] the sum of k squares can neither overflow nor
+		// lose anything but terms below 2⁻¹⁰⁷⁴ against m² ≥ 2⁻⁸⁰⁰, so it is
+		// taken directly (the safe range of Blue 1978, "A portable Fortran
+		// program to find the Euclidean norm of a vector", ACM TOMS 4(1));
+		// outside it each value is divided by m first. (A plain comparison
+		// for the largest magnitude: math.Max, which handles signed zeros
+		// and NaN, is a call per value.)
 		var scale float64
 		for i := j; i < k; i++ {
-			scale = math.Max(scale, math.Abs(a[i*q+j]))
+			if v := math.Abs(a[i*q+j]); v > scale {
+				scale = v
+			}
 		}
 		if scale == 0 {
 			continue
 		}
-		var ss float64
-		for i := j; i < k; i++ {
-			v := a[i*q+j] / scale
-			ss += v * v
+		var norm float64
+		if scale >= 0x1p-400 && scale <= 0x1p400 {
+			var ss float64
+			for i := j; i < k; i++ {
+				v := a[i*q+j]
+				ss += v * v
+			}
+			norm = math.Sqrt(ss)
+		} else {
+			var ss float64
+			for i := j; i < k; i++ {
+				v := a[i*q+j] / scale
+				ss += v * v
+			}
+			norm = scale * math.Sqrt(ss)
 		}
-		norm := scale * math.Sqrt(ss)
 		ajj := a[j*q+j]
 		alpha := -math.Copysign(norm, ajj)
 		// v = x − alpha·e1, stored in column j (v_j = ajj − alpha);

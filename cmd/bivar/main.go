@@ -159,6 +159,18 @@ func main() {
 	if os.Getenv("GOMEMLIMIT") == "" {
 		debug.SetMemoryLimit(defaultMemoryLimit)
 	}
+	// A collection when the heap has grown by a quarter (Go's GOGC, which
+	// overrides it), not by its default of all that is live. The heap is
+	// mostly columns of numbers, which the collector need not scan, so a
+	// cycle costs little, and a freed column's memory is reused sooner
+	// instead of new memory being taken from the system: every fresh page
+	// costs a fault and the kernel's zeroing, a sixth of the CPU time of a
+	// 10⁶-row study on a virtual machine. Measured with bench-pair.sh's
+	// study (medians of 7 runs, alternating): 10⁶ rows 1.44 → 1.36 s of
+	// CPU and 194 → 146 MB peak; 10⁷ rows 13.2 → 12.3 s of CPU.
+	if os.Getenv("GOGC") == "" {
+		debug.SetGCPercent(defaultGCPercent)
+	}
 	ctx, stop := withSignals(context.Background())
 	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr)
 	stop()
@@ -169,6 +181,10 @@ func main() {
 // set: 768 MiB, so that with the runtime's own overhead a run stays near
 // 1 GB of memory where the data allow it.
 const defaultMemoryLimit = 768 << 20
+
+// defaultGCPercent is the heap growth, in percent of the live heap, that
+// starts a collection unless GOGC is set (see main).
+const defaultGCPercent = 25
 
 // run dispatches to a subcommand and returns the exit status. Everything
 // it prints passes through cleantext.Writer: names and values from the

@@ -135,13 +135,44 @@ func slopeHAC(x, y []float64, order []int32, lags int) (slope, se float64) {
 	}
 	// The lagged products in blocks of t, every lag per block, so a block
 	// is read from cache L times instead of u from memory L times (each
-	// lag's sum is taken block by block, in ascending t).
+	// lag's sum is taken block by block, in ascending t). Four lags share
+	// one pass over the block: their four sums are independent chains of
+	// additions, which the processor overlaps, where one lag at a time
+	// waited on each addition; each lag's sum is the same sequence of
+	// operations either way.
 	L := min(lags, n-1)
 	c := make([]float64, L+1)
 	const block = 2048
 	for lo := 1; lo < n; lo += block {
 		hi := min(lo+block, n)
-		for l := 1; l <= L; l++ {
+		l := 1
+		for ; l+3 <= L; l += 4 {
+			// Rows below t0 lack a lagged partner for some of the four
+			// lags: each lag starts at its own first row.
+			t0 := max(lo, l+3)
+			var a0, a1, a2, a3 float64
+			for t := max(lo, l); t < t0 && t < hi; t++ {
+				a0 += u[t] * u[t-l]
+				if t >= l+1 {
+					a1 += u[t] * u[t-l-1]
+				}
+				if t >= l+2 {
+					a2 += u[t] * u[t-l-2]
+				}
+			}
+			for t := t0; t < hi; t++ {
+				v := u[t]
+				a0 += v * u[t-l]
+				a1 += v * u[t-l-1]
+				a2 += v * u[t-l-2]
+				a3 += v * u[t-l-3]
+			}
+			c[l] += a0
+			c[l+1] += a1
+			c[l+2] += a2
+			c[l+3] += a3
+		}
+		for ; l <= L; l++ {
 			var acc float64
 			for t := max(lo, l); t < hi; t++ {
 				acc += u[t] * u[t-l]

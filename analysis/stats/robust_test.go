@@ -67,6 +67,24 @@ func TestRobustSlopeSE(t *testing.T) {
 	}
 }
 
+// TestHACManyLags: Newey–West with more lags than the first two cases, so
+// that SlopeHAC's four-lags-at-a-time pass and its remainder both run,
+// against statsmodels 0.13.5 on NIST's Norris data in file order:
+//
+//	sm.OLS(y, sm.add_constant(x)).fit(cov_type="HAC",
+//	    cov_kwds={"maxlags": L, "use_correction": False}).bse[1]
+func TestHACManyLags(t *testing.T) {
+	d := parseStRD(t, filepath.Join(reference.Dir(t), "nist-strd", "Norris.dat"))
+	for _, c := range []struct {
+		lags int
+		want float64
+	}{{7, 0.0006213394456180952}, {9, 0.0006378639353323315}} {
+		if _, se := SlopeHAC(d.x[0], d.y, c.lags); math.Abs(se-c.want) > 1e-9*c.want {
+			t.Errorf("Norris, %d lags: HAC SE = %.17g, statsmodels %.17g", c.lags, se, c.want)
+		}
+	}
+}
+
 // TestHACIdentities: with no lags the HAC SE is the HC0 SE, Σu²/Sxx²
 // (White 1980), and HC3 ≥ HC0; they do not depend on the order of the
 // rows, while HAC with lags does.

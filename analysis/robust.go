@@ -39,30 +39,44 @@ func robust(x, y []float64, ps *stats.Sorted, order []float64, r, conf float64) 
 	if order == nil {
 		return out
 	}
-	// The rows in run order through an index into the canonical order.
+	// The pairs in run order: the caller's columns themselves when the
+	// run order increases down them (the common case: a file written as
+	// the process ran), else gathered once through an index into the
+	// canonical order. The line is summed in canonical order either way.
 	n := len(x)
-	pos := ps.OrderOf(order)
+	rx, ry := x, y
+	if !increasing(order) {
+		pos := ps.OrderOf(order)
+		rx, ry = hugepage.Make[float64](n), hugepage.Make[float64](n)
+		for t, k := range pos {
+			rx[t], ry[t] = ps.X[k], ps.Y[k]
+		}
+	}
 	lags := stats.NeweyWestLags(n)
-	b, se = stats.SlopeHACOrder(ps.X, ps.Y, pos, lags)
+	b, se = stats.SlopeHACRun(ps.X, ps.Y, rx, ry, lags)
 	out.HAC = slopeInterval(fmt.Sprintf("Newey–West HAC, Bartlett kernel, %d lags = floor(4(n/100)^(2/9))", lags), lags, b, se, conf)
-	// x, then the residuals, in run order, gathered once each into one
-	// column (reading them through pos in both passes of the
-	// autocorrelation doubled the random reads, the slow part at 10⁷).
-	buf := hugepage.Make[float64](n)
-	for t, k := range pos {
-		buf[t] = ps.X[k]
+	rho1x := stats.Lag1Autocorr(rx)
+	e := hugepage.Make[float64](n)
+	for t := range e {
+		e[t] = ry[t] - b*rx[t]
 	}
-	rx := stats.Lag1Autocorr(buf)
-	for t, k := range pos {
-		buf[t] = ps.Y[k] - b*ps.X[k]
-	}
-	ry := stats.Lag1Autocorr(buf)
-	out.Rho1X, out.Rho1E = report.Float(rx), report.Float(ry)
-	ne := stats.EffectiveN(n, rx, ry)
+	rho1e := stats.Lag1Autocorr(e)
+	out.Rho1X, out.Rho1E = report.Float(rho1x), report.Float(rho1e)
+	ne := stats.EffectiveN(n, rho1x, rho1e)
 	out.NEff = report.Float(ne)
 	if !math.IsNaN(ne) {
 		p, lo, hi := stats.CorrelationEff(r, ne, conf)
 		out.RP, out.RLow, out.RHigh = report.Float(p), report.Float(lo), report.Float(hi)
 	}
 	return out
+}
+
+// increasing reports whether v strictly increases from first to last.
+func increasing(v []float64) bool {
+	for i := 1; i < len(v); i++ {
+		if !(v[i-1] < v[i]) {
+			return false
+		}
+	}
+	return true
 }

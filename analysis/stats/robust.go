@@ -97,23 +97,25 @@ func SlopeHAC(x, y []float64, lags int) (slope, se float64) {
 	if len(x) != len(y) {
 		panic("stats: SlopeHAC: x and y lengths differ")
 	}
-	return slopeHAC(x, y, nil, lags)
+	return slopeHAC(x, y, x, y, lags)
 }
 
-// SlopeHACOrder is SlopeHAC of the pairs taken in the order order gives,
-// (x[order[t]], y[order[t]]) for t = 0…n−1, without copying them: one
-// column of n (the score u_t) is its working memory. order must be a
-// permutation of the positions of x (it panics on a length mismatch).
-func SlopeHACOrder(x, y []float64, order []int32, lags int) (slope, se float64) {
-	if len(x) != len(y) || len(order) != len(x) {
-		panic("stats: SlopeHACOrder: lengths differ")
+// SlopeHACRun is SlopeHAC with the line (means, Sxx and slope) taken from
+// x and y as given, and the scores u_t from rx and ry: the same pairs in
+// run order. Summing the line in one fixed order keeps its last bits
+// those of the caller's other figures whatever the run order; one column
+// of n (u) is its working memory. The four columns must have equal length
+// (it panics otherwise).
+func SlopeHACRun(x, y, rx, ry []float64, lags int) (slope, se float64) {
+	if len(x) != len(y) || len(rx) != len(x) || len(ry) != len(x) {
+		panic("stats: SlopeHACRun: lengths differ")
 	}
-	return slopeHAC(x, y, order, lags)
+	return slopeHAC(x, y, rx, ry, lags)
 }
 
-// slopeHAC is SlopeHAC with the rows in the order order gives (nil: as
-// they are).
-func slopeHAC(x, y []float64, order []int32, lags int) (slope, se float64) {
+// slopeHAC is SlopeHAC with the line from x, y and the scores from rx, ry
+// in run order.
+func slopeHAC(x, y, rx, ry []float64, lags int) (slope, se float64) {
 	n := len(x)
 	if n < 3 || lags < 0 {
 		return math.NaN(), math.NaN()
@@ -125,12 +127,8 @@ func slopeHAC(x, y []float64, order []int32, lags int) (slope, se float64) {
 	u := hugepage.Make[float64](n)
 	var s float64
 	for t := range u {
-		i := t
-		if order != nil {
-			i = int(order[t])
-		}
-		dx := x[i] - mx
-		u[t] = dx * (y[i] - my - b*dx)
+		dx := rx[t] - mx
+		u[t] = dx * (ry[t] - my - b*dx)
 		s += u[t] * u[t]
 	}
 	// The lagged products in blocks of t, every lag per block, so a block

@@ -128,10 +128,11 @@ func TestEffectiveN(t *testing.T) {
 	}
 }
 
-// TestSlopeHACOrder: the HAC slope and SE of rows read through an order
-// index equal those of the rows copied into that order (an identity; the
-// sums about the means are taken in another order, so to rounding).
-func TestSlopeHACOrder(t *testing.T) {
+// TestSlopeHACRun: the HAC slope and SE with the line summed in one order
+// and the scores taken in run order equal those of the rows copied into
+// run order (an identity; the sums about the means are taken in another
+// order, so to rounding).
+func TestSlopeHACRun(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 8))
 	n := 5000
 	x, y := make([]float64, n), make([]float64, n)
@@ -149,8 +150,8 @@ func TestSlopeHACOrder(t *testing.T) {
 		ox[t], oy[t] = x[i], y[i]
 	}
 	b1, se1 := SlopeHAC(ox, oy, NeweyWestLags(n))
-	b2, se2 := SlopeHACOrder(x, y, order, NeweyWestLags(n))
+	b2, se2 := SlopeHACRun(x, y, ox, oy, NeweyWestLags(n))
 	if math.Abs(b1-b2) > 1e-13*math.Abs(b1) || math.Abs(se1-se2) > 1e-12*se1 {
-		t.Errorf("copied: %v ± %v; through the index: %v ± %v", b1, se1, b2, se2)
+		t.Errorf("copied: %v ± %v; line in the first order: %v ± %v", b1, se1, b2, se2)
 	}
 }

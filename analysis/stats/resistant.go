@@ -5,6 +5,7 @@ package stats
 // selection it uses for medians.
 
 import (
+	"encoding"
 	"fmt"
 	"math"
 	"math/bits"
@@ -40,7 +41,9 @@ const DefaultMaxExact = 2000
 // sample of M = maxExact·(maxExact−1)/2 pairs drawn with replacement from
 // the n(n−1)/2 (each draw two distinct indices, uniform; draws with
 // x_i = x_j are redrawn, at most 8·M draws in all) from rand.New(src), so
-// the cost stays bounded at O(M + n) whatever n is; the sampled median is
+// the cost stays bounded at O(M + n) whatever n is (and the M slopes are
+// counted against a bracket as they are drawn instead of stored, where src
+// can save and restore its state: streamedSlope); the sampled median is
 // within a few multiples of 1/√M in quantile of the exact one. method
 // then says "theil-sen (median of M random pairs of n points)". The
 // intercept always uses all n points. A nil src means rand.NewPCG(1, 2).
@@ -101,24 +104,28 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 			src = rand.NewPCG(1, 2)
 		}
 		m := maxExact * (maxExact - 1) / 2
-		slopes = hugepage.Empty[float64](m)
-		// One 64-bit draw gives both positions: i from its low half in
-		// [0, n), j from its high half in [0, n−1), each by Lemire's
-		// multiply-and-reject (Lemire 2019, "Fast random integer generation
-		// in an interval", ACM TOMACS 29(1)), exactly uniform; a draw with
-		// a rejected half is drawn again. n < 2³¹ (checkIndexable).
 		checkIndexable("TheilSen", n)
-		un, um := uint32(n), uint32(n-1)
-		tn, tm := -un%un, -um%um
-		for draws := 0; len(slopes) < m && draws < 8*m; draws++ {
-			w := src.Uint64()
-			pi, pj := uint64(uint32(w))*uint64(un), uint64(uint32(w>>32))*uint64(um)
-			if uint32(pi) < tn || uint32(pj) < tm {
-				continue
+		method = fmt.Sprintf("theil-sen (median of %d random pairs of %d points)", m, n)
+		// The median without storing the slopes where the stream can be
+		// drawn again should the bracket miss (streamedSlope); else, or
+		// then, every slope is stored and selected over.
+		if st, ok := src.(rewindable); ok && m >= bracketMinN {
+			state, err := st.MarshalBinary()
+			if err == nil {
+				if slope, ok := streamedSlope(x, y, m, newPairDraw(n, m, src)); ok {
+					return slope, theilSenIntercept(x, y, slope), method, m
+				}
+				if st.UnmarshalBinary(state) != nil {
+					panic("stats: TheilSen: the random source did not take back its own state")
+				}
 			}
-			i, j := int(pi>>32), int(pj>>32)
-			if j >= i {
-				j++
+		}
+		slopes = hugepage.Empty[float64](m)
+		d := newPairDraw(n, m, src)
+		for len(slopes) < m {
+			i, j, ok := d.next()
+			if !ok {
+				break
 			}
 			if dx := x[j] - x[i]; dx != 0 {
 				slopes = append(slopes, (y[j]-y[i])/dx)
@@ -131,15 +138,105 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 		return nan, nan, method, pairs
 	}
 	slope = medianInPlace(slopes)
+	return slope, theilSenIntercept(x, y, slope), method, pairs
+}
+
+// theilSenIntercept is the median of y_i − slope·x_i.
+func theilSenIntercept(x, y []float64, slope float64) float64 {
 	if mid, ok := bracketMedian(y, x, slope); ok {
-		return slope, mid, method, pairs
+		return mid
 	}
-	resid := hugepage.Make[float64](n)
+	resid := hugepage.Make[float64](len(x))
 	for i := range x {
 		resid[i] = y[i] - slope*x[i]
 	}
-	intercept = medianInPlace(resid)
-	return slope, intercept, method, pairs
+	return medianInPlace(resid)
+}
+
+// rewindable is a random source whose state can be saved and restored
+// (math/rand/v2's PCG and ChaCha8 are).
+type rewindable interface {
+	rand.Source
+	encoding.BinaryMarshaler
+	encoding.BinaryUnmarshaler
+}
+
+// pairDraw draws Theil–Sen's random pairs. One 64-bit draw gives both
+// positions: i from its low half in [0, n), j from its high half in
+// [0, n−1) (then shifted past i), each by Lemire's multiply-and-reject
+// (Lemire 2019, "Fast random integer generation in an interval", ACM
+// TOMACS 29(1)), exactly uniform; a draw with a rejected half is drawn
+// again. At most 8·M draws are made in all, rejected ones included.
+type pairDraw struct {
+	src            rand.Source
+	un, um, tn, tm uint32
+	draws, max     int
+}
+
+// newPairDraw returns the draws of pairs of n < 2³¹ points, at most 8m.
+func newPairDraw(n, m int, src rand.Source) *pairDraw {
+	un, um := uint32(n), uint32(n-1)
+	return &pairDraw{src: src, un: un, um: um, tn: -un % un, tm: -um % um, max: 8 * m}
+}
+
+// next returns the next pair, or false when the draws are spent.
+func (d *pairDraw) next() (i, j int, ok bool) {
+	for d.draws < d.max {
+		d.draws++
+		w := d.src.Uint64()
+		pi, pj := uint64(uint32(w))*uint64(d.un), uint64(uint32(w>>32))*uint64(d.um)
+		if uint32(pi) < d.tn || uint32(pj) < d.tm {
+			continue
+		}
+		i, j = int(pi>>32), int(pj>>32)
+		if j >= i {
+			j++
+		}
+		return i, j, true
+	}
+	return 0, 0, false
+}
+
+// streamedSlope returns the median of the slopes of the first m pairs
+// with x_i ≠ x_j that d draws, the value the stored slopes' median has,
+// without storing them: the first bracketSample(m) slopes, themselves a
+// random sample of the m, bracket the middle (bracketOf), and every slope
+// is counted against the bracket as it is drawn. It returns false when the
+// draws run out before m slopes or the bracket misses the middle; the
+// caller then draws the same pairs again and stores them.
+func streamedSlope(x, y []float64, m int, d *pairDraw) (float64, bool) {
+	var buf [1024]float64
+	// fill draws up to len(v) slopes into v and returns how many.
+	fill := func(v []float64) int {
+		k := 0
+		for k < len(v) {
+			i, j, ok := d.next()
+			if !ok {
+				break
+			}
+			if dx := x[j] - x[i]; dx != 0 {
+				v[k] = (y[j] - y[i]) / dx
+				k++
+			}
+		}
+		return k
+	}
+	first := make([]float64, bracketSample(m))
+	if fill(first) < len(first) {
+		return 0, false
+	}
+	br := bracketOf(slices.Clone(first), m)
+	if !br.count(first) {
+		return 0, false
+	}
+	for got := len(first); got < m; {
+		k := fill(buf[:min(len(buf), m-got)])
+		if k == 0 || !br.count(buf[:k]) {
+			return 0, false
+		}
+		got += k
+	}
+	return br.middle()
 }
 
 // stableArgsort returns the indices of v in ascending order of value, ties
@@ -242,14 +339,12 @@ const bracketMinN = 1 << 16
 // Method: the sampling step of Floyd & Rivest (1975, "Expected time bounds
 // for selection", Commun. ACM 18(3):165–172, Algorithm 489 SELECT). A
 // sample of s ≈ n^(2/3) values, taken at evenly spaced positions, is
-// sorted; the values δ = 3√s sample ranks either side of the middle's
-// place in the sample bracket the middle of all n (the middle's sample rank
-// has a standard deviation of at most √s/2, so δ is six of them for values
-// in random order). One pass counts the values below the bracket and keeps
-// those inside it, about 6n/√s of them; when the count below and the kept
-// values hold both middle ranks, a selection over the kept values gives
-// them. A bracket that misses — possible only for values placed in a
-// pattern that fools the evenly spaced sample — is detected by the counts.
+// sorted and brackets the middle (bracketOf); one pass counts the values
+// below the bracket and keeps those inside it (bracketCount); a selection
+// over the kept values gives the middle when the bracket held it
+// (bracketMiddle). A bracket that misses — possible only for values placed
+// in a pattern that fools the evenly spaced sample — is detected by the
+// counts.
 func bracketMedian(a, c []float64, b float64) (float64, bool) {
 	n := len(a)
 	if n < bracketMinN {
@@ -261,31 +356,79 @@ func bracketMedian(a, c []float64, b float64) (float64, bool) {
 		}
 		return a[i] - b*c[i]
 	}
-	s := int(math.Cbrt(float64(n)) * math.Cbrt(float64(n)))
-	s = min(max(s, 4096), n/8)
-	sample := make([]float64, s)
+	sample := make([]float64, bracketSample(n))
 	for t := range sample {
-		sample[t] = at(int((2*uint64(t) + 1) * uint64(n) / (2 * uint64(s))))
+		sample[t] = at(int((2*uint64(t) + 1) * uint64(n) / (2 * uint64(len(sample)))))
 	}
+	br := bracketOf(sample, n)
+	if c == nil {
+		if !br.count(a) {
+			return 0, false
+		}
+		return br.middle()
+	}
+	var chunk [1024]float64
+	for lo := 0; lo < n; lo += len(chunk) {
+		v := chunk[:min(len(chunk), n-lo)]
+		for k := range v {
+			v[k] = a[lo+k] - b*c[lo+k]
+		}
+		if !br.count(v) {
+			return 0, false
+		}
+	}
+	return br.middle()
+}
+
+// bracketSample is the sample size bracketMedian takes from n values:
+// n^(2/3), at least 4096 and at most n/8.
+func bracketSample(n int) int {
+	s := int(math.Cbrt(float64(n)) * math.Cbrt(float64(n)))
+	return min(max(s, 4096), n/8)
+}
+
+// bracket is a range [lo, hi] meant to hold the middle of n values, with
+// the count of values seen below it and the values seen inside it.
+type bracket struct {
+	lo, hi float64
+	n      int
+	below  int
+	kept   []float64 // len limit+1: every value is written to kept[m]
+	m      int       // values inside so far
+	limit  int
+}
+
+// bracketOf returns the bracket of the middle of n values from a sample of
+// them (sorted in place): the values δ = 3√s sample ranks either side of
+// the middle's place in the sample. The middle's sample rank has a
+// standard deviation of at most √s/2 for values in random order, so δ is
+// six of them. It keeps at most four times the expected count inside,
+// about 6n/√s.
+func bracketOf(sample []float64, n int) *bracket {
 	slices.Sort(sample)
+	s := len(sample)
 	k0, k1 := (n-1)/2, n/2 // the middle ranks, 0-based
 	delta := int(3 * math.Sqrt(float64(s)))
-	lo, hi := math.Inf(-1), math.Inf(1)
+	br := &bracket{lo: math.Inf(-1), hi: math.Inf(1), n: n}
 	if r := int(uint64(k0)*uint64(s)/uint64(n)) - delta; r >= 0 {
-		lo = sample[r]
+		br.lo = sample[r]
 	}
 	if r := int(uint64(k1)*uint64(s)/uint64(n)) + delta; r < s {
-		hi = sample[r]
+		br.hi = sample[r]
 	}
-	// Keep at most four times the expected count inside the bracket. The
-	// pass has no data-dependent branch (the comparisons become flags):
-	// every value is written to the next free slot, which only a value
-	// inside the bracket keeps.
-	limit := 4*(2*delta+1)*(n/s+1) + 1024
-	kept := make([]float64, limit+1)
-	below, m := 0, 0
-	for i := range n {
-		v := at(i)
+	br.limit = 4*(2*delta+1)*(n/s+1) + 1024
+	br.kept = make([]float64, br.limit+1)
+	return br
+}
+
+// count takes the values vs and reports false once the bracket has kept
+// limit values (the caller then gives up on it). The loop has no
+// data-dependent branch: the comparisons become flags, and every value is
+// written to the next free slot, which only a value inside the bracket
+// keeps.
+func (br *bracket) count(vs []float64) bool {
+	lo, hi, kept, below, m, limit := br.lo, br.hi, br.kept, br.below, br.m, br.limit
+	for _, v := range vs {
 		kept[m] = v
 		var under, over int
 		if v < lo {
@@ -297,20 +440,28 @@ func bracketMedian(a, c []float64, b float64) (float64, bool) {
 		below += under
 		m += 1 - under - over
 		if m == limit {
-			return 0, false
+			return false
 		}
 	}
-	if below > k0 || below+m <= k1 {
+	br.below, br.m = below, m
+	return true
+}
+
+// middle returns the median of the n values counted, and false when the
+// bracket missed a middle rank.
+func (br *bracket) middle() (float64, bool) {
+	k0, k1 := (br.n-1)/2, br.n/2
+	if br.below > k0 || br.below+br.m <= k1 {
 		return 0, false
 	}
-	kept = kept[:m]
-	upper := selectInPlace(kept, k1-below)
+	kept := br.kept[:br.m]
+	upper := selectInPlace(kept, k1-br.below)
 	if k0 == k1 {
 		return upper, true
 	}
 	// After selection kept[:k1−below] (not empty: below ≤ k0 < k1) holds
 	// the values below upper's rank: the lower middle is their maximum.
-	lower := slices.Max(kept[:k1-below])
+	lower := slices.Max(kept[:k1-br.below])
 	return lower + (upper-lower)/2, true
 }
 

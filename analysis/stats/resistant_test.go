@@ -120,6 +120,38 @@ func TestTheilSen(t *testing.T) {
 	})
 }
 
+// plainSource hides a source's saved state, so TheilSen stores every
+// sampled slope instead of streaming them.
+type plainSource struct{ src rand.Source }
+
+func (p plainSource) Uint64() uint64 { return p.src.Uint64() }
+
+// TestTheilSenStreamed: the slope found while the sampled pairs stream past
+// a bracket (a rewindable source) is the one found by storing them all and
+// selecting (a source that cannot rewind), bit for bit; and where the draws
+// run out before M slopes (x nearly constant), the source is rewound and
+// the stored path gives the same line and count of pairs.
+func TestTheilSenStreamed(t *testing.T) {
+	t.Parallel()
+	x, y := extraBenchXY(100_000)
+	a := TheilSenFit(x, y, 0, rand.NewPCG(5, 6))
+	b := TheilSenFit(x, y, 0, plainSource{rand.NewPCG(5, 6)})
+	if a != b || a.Pairs != DefaultMaxExact*(DefaultMaxExact-1)/2 {
+		t.Errorf("streamed %+v, stored %+v", a, b)
+	}
+	few := slices.Clone(x)
+	for i := range few {
+		if i%5000 != 0 {
+			few[i] = 1 // 20 distinct values among 10⁵: most pairs tie in x
+		}
+	}
+	a = TheilSenFit(few, y, 0, rand.NewPCG(5, 6))
+	b = TheilSenFit(few, y, 0, plainSource{rand.NewPCG(5, 6)})
+	if a != b || a.Pairs >= DefaultMaxExact*(DefaultMaxExact-1)/2 || a.Pairs == 0 {
+		t.Errorf("draws run out: rewound %+v, stored %+v", a, b)
+	}
+}
+
 // TestMedianInPlace checks the selection against sorting.
 func TestMedianInPlace(t *testing.T) {
 	t.Parallel()

@@ -125,7 +125,7 @@ func BenchmarkParseBlock(b *testing.B) {
 	src = src[:bytes.LastIndexByte(src, '\n')+1]
 	cfg := &config{path: "b.csv", delim: ',', fields: 3, last: 2, byIndex: []int{0, 1, 2},
 		cols:    []*column{{name: "x", index: 0, numeric: true}, {name: "y", index: 1, numeric: true}, {name: "t", index: 2, numeric: true}},
-		missing: DefaultMissing(), lim: DefaultLimits()}
+		missing: DefaultMissing(), lim: DefaultLimits(), plain: true}
 	b.SetBytes(int64(len(src)))
 	b.ReportAllocs()
 	cpu := cpuTime()

@@ -258,6 +258,38 @@ func FuzzNumber(f *testing.F) {
 	})
 }
 
+// FuzzScanNumber: a cell scanNumber reads (the fast path of the plain
+// splitter) has strconv.ParseFloat's value (the standard library's
+// correctly rounded reader; the decimal comma read as a point), and the
+// cell ends at the delimiter or the end of the row.
+func FuzzScanNumber(f *testing.F) {
+	for _, s := range []string{"0", "-0", "1.5", "-.5", "3.", "007.250", "123456789012345", "1234567890123456", "0.0000000000000000000001",
+		"1,5", "1.5,2", "+4", "1e5", " 1", "1 ", "NA", "", "-", ".", "9007199254740993", "0.1234567890123456789012"} {
+		f.Add(s, byte(','))
+		f.Add(s, byte(';'))
+	}
+	f.Fuzz(func(t *testing.T, s string, delim byte) {
+		if delim != ',' && delim != ';' && delim != '\t' {
+			return
+		}
+		v, n, seen, ok := scanNumber([]byte(s), delim)
+		if !ok {
+			return
+		}
+		if n < len(s) && s[n] != delim {
+			t.Fatalf("scanNumber(%q) stopped at %d, not at a delimiter", s, n)
+		}
+		cell := s[:n]
+		if seen != 0 && strings.Count(cell, string(seen)) != 1 {
+			t.Fatalf("scanNumber(%q): mark %q", s, seen)
+		}
+		want, err := strconv.ParseFloat(strings.Replace(cell, ",", ".", 1), 64)
+		if err != nil || math.Float64bits(v) != math.Float64bits(want) {
+			t.Fatalf("scanNumber(%q) = %v, strconv.ParseFloat %v (%v)", s, v, want, err)
+		}
+	})
+}
+
 // FuzzPlainAgrees: on text it takes (no double quotes, or quotes around
 // whole fields that hold no quote, delimiter or line break) the plain
 // splitter reads
@@ -275,7 +307,7 @@ func FuzzPlainAgrees(f *testing.F) {
 		}
 		cfg := &config{path: "f.csv", delim: delim, fields: 2, last: 1, byIndex: []int{0, 1},
 			cols:    []*column{{name: "a", index: 0, numeric: true, text: true}, {name: "b", index: 1, numeric: true}},
-			missing: DefaultMissing(), lim: DefaultLimits()}
+			missing: DefaultMissing(), lim: DefaultLimits(), plain: true}
 		plain := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}
 		quoted := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}
 		if !plain.parsePlain(cfg, []byte(data), 2) {

@@ -466,6 +466,62 @@ func fastNumber(s string) (v float64, seen byte, ok bool) {
 	return v, seen, true
 }
 
+// scanNumber reads the cell at the start of rec, up to the first delim or
+// the end, when it is a plain decimal: [+-]digits[mark digits] with mark
+// '.' or ',' (not the delimiter), at most 15 significant digits and 22
+// after the mark, no spaces and no exponent. n is the cell's length. It
+// gives fastNumber's value (Clinger's fast path, one correctly rounded
+// division) and seen mark for such a cell, and ok = false for any other,
+// which the caller reads the general way (parseNumber, missing markers,
+// trimming).
+func scanNumber(rec []byte, delim byte) (v float64, n int, seen byte, ok bool) {
+	i, neg := 0, false
+	if i < len(rec) && (rec[i] == '+' || rec[i] == '-') {
+		neg = rec[i] == '-'
+		i++
+	}
+	var m uint64
+	nd, after, digits := 0, 0, false
+	for ; i < len(rec); i++ {
+		c := rec[i]
+		if d := c - '0'; d <= 9 {
+			digits = true
+			if seen != 0 {
+				after++
+			}
+			if m == 0 && d == 0 {
+				continue
+			}
+			if nd == 15 {
+				return 0, 0, 0, false
+			}
+			m = m*10 + uint64(d)
+			nd++
+			continue
+		}
+		if (c == '.' || c == ',') && c != delim && seen == 0 {
+			seen = c
+			continue
+		}
+		break
+	}
+	if !digits || i < len(rec) && rec[i] != delim || i > MaxCellBytes {
+		return 0, 0, 0, false
+	}
+	v = float64(m)
+	switch {
+	case m == 0 || after == 0:
+	case after < len(pow10):
+		v /= pow10[after]
+	default:
+		return 0, 0, 0, false
+	}
+	if neg {
+		v = -v
+	}
+	return v, i, seen, true
+}
+
 // detectDelimiter counts commas, semicolons and tabs outside double quotes
 // in the header line (as far as it is in b).
 func detectDelimiter(b []byte) rune {

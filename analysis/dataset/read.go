@@ -60,6 +60,10 @@ type config struct {
 	missing []string
 	opts    Options
 	lim     Limits
+	// plain: numeric cells may be read by scanNumber in the row's own
+	// pass (no thousands separator, and no missing-value marker that
+	// scanNumber would read as a number).
+	plain bool
 }
 
 // job is one block of whole rows.
@@ -134,6 +138,12 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 		byIndex: make([]int, len(hd.names)), last: -1, missing: opts.Missing, opts: opts, lim: lim}
 	if cfg.missing == nil {
 		cfg.missing = DefaultMissing()
+	}
+	cfg.plain = opts.Thousands == 0
+	for _, m := range cfg.missing {
+		if _, n, _, ok := scanNumber([]byte(m), cfg.delim); ok && n == len(m) {
+			cfg.plain = false
+		}
 	}
 	for i := range cfg.byIndex {
 		cfg.byIndex[i] = -1
@@ -541,6 +551,23 @@ func (p *part) parsePlain(cfg *config, data []byte, line int) bool {
 		}
 		p.rows++
 		for f := 0; f <= cfg.last; f++ {
+			ci := cfg.byIndex[f]
+			if ci >= 0 && cfg.plain && !quoted && !cfg.cols[ci].text {
+				// The common cell, a short decimal number, read in one
+				// pass; anything else goes the general way below.
+				if v, n, seen, ok := scanNumber(rec, delim); ok && (seen == 0 || p.mark == 0 || seen == p.mark) {
+					if p.mark == 0 && seen != 0 {
+						p.mark, p.markLine = seen, ln
+					}
+					p.nums[ci] = append(p.nums[ci], v)
+					if n < len(rec) {
+						rec = rec[n+1:]
+					} else {
+						rec = nil
+					}
+					continue
+				}
+			}
 			var cell []byte
 			if i := bytes.IndexByte(rec, delim); i >= 0 {
 				cell, rec = rec[:i], rec[i+1:]
@@ -550,7 +577,7 @@ func (p *part) parsePlain(cfg *config, data []byte, line int) bool {
 			if quoted && len(cell) >= 2 && cell[0] == '"' {
 				cell = cell[1 : len(cell)-1]
 			}
-			if ci := cfg.byIndex[f]; ci >= 0 && p.cell(cfg, ci, unsafe.String(unsafe.SliceData(cell), len(cell)), ln) {
+			if ci >= 0 && p.cell(cfg, ci, unsafe.String(unsafe.SliceData(cell), len(cell)), ln) {
 				return true
 			}
 		}

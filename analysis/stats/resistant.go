@@ -120,17 +120,8 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 				}
 			}
 		}
-		slopes = hugepage.Empty[float64](m)
-		d := newPairDraw(n, m, src)
-		for len(slopes) < m {
-			i, j, ok := d.next()
-			if !ok {
-				break
-			}
-			if dx := x[j] - x[i]; dx != 0 {
-				slopes = append(slopes, (y[j]-y[i])/dx)
-			}
-		}
+		slopes = hugepage.Make[float64](m)
+		slopes = slopes[:newPairDraw(n, m, src).slopes(x, y, slopes)]
 		pairs = len(slopes)
 		method = fmt.Sprintf("theil-sen (median of %d random pairs of %d points)", pairs, n)
 	}
@@ -167,10 +158,18 @@ type rewindable interface {
 // (Lemire 2019, "Fast random integer generation in an interval", ACM
 // TOMACS 29(1)), exactly uniform; a draw with a rejected half is drawn
 // again. At most 8·M draws are made in all, rejected ones included.
+//
+// The pairs are drawn a batch ahead of their use: reading the values of a
+// batch of known positions lets the processor fetch many of them from
+// memory at once, where drawing each pair before reading it left one
+// fetch at a time in flight (half the time at 10⁶ rows). The pairs are
+// used in the order drawn either way.
 type pairDraw struct {
 	src            rand.Source
 	un, um, tn, tm uint32
 	draws, max     int
+	ii, jj         [256]int32 // the batch drawn ahead
+	at, nb         int        // its next pair and its length
 }
 
 // newPairDraw returns the draws of pairs of n < 2³¹ points, at most 8m.
@@ -179,22 +178,48 @@ func newPairDraw(n, m int, src rand.Source) *pairDraw {
 	return &pairDraw{src: src, un: un, um: um, tn: -un % un, tm: -um % um, max: 8 * m}
 }
 
-// next returns the next pair, or false when the draws are spent.
-func (d *pairDraw) next() (i, j int, ok bool) {
-	for d.draws < d.max {
+// refill draws the next batch (empty when the draws are spent).
+func (d *pairDraw) refill() {
+	d.at, d.nb = 0, 0
+	for d.nb < len(d.ii) && d.draws < d.max {
 		d.draws++
 		w := d.src.Uint64()
 		pi, pj := uint64(uint32(w))*uint64(d.un), uint64(uint32(w>>32))*uint64(d.um)
 		if uint32(pi) < d.tn || uint32(pj) < d.tm {
 			continue
 		}
-		i, j = int(pi>>32), int(pj>>32)
+		i, j := uint32(pi>>32), uint32(pj>>32)
 		if j >= i {
 			j++
 		}
-		return i, j, true
+		d.ii[d.nb], d.jj[d.nb] = int32(i), int32(j)
+		d.nb++
 	}
-	return 0, 0, false
+}
+
+// slopes writes into v the slopes (y_j − y_i)/(x_j − x_i) of the next
+// pairs with x_i ≠ x_j, in the order drawn, and returns how many: fewer
+// than len(v) only when the draws are spent.
+func (d *pairDraw) slopes(x, y, v []float64) int {
+	k := 0
+	for k < len(v) {
+		if d.at == d.nb {
+			if d.refill(); d.nb == 0 {
+				break
+			}
+		}
+		ii, jj := d.ii[d.at:d.nb], d.jj[d.at:d.nb]
+		t := 0
+		for ; t < len(ii) && k < len(v); t++ {
+			i, j := ii[t], jj[t]
+			if dx := x[j] - x[i]; dx != 0 {
+				v[k] = (y[j] - y[i]) / dx
+				k++
+			}
+		}
+		d.at += t
+	}
+	return k
 }
 
 // streamedSlope returns the median of the slopes of the first m pairs
@@ -206,23 +231,8 @@ func (d *pairDraw) next() (i, j int, ok bool) {
 // caller then draws the same pairs again and stores them.
 func streamedSlope(x, y []float64, m int, d *pairDraw) (float64, bool) {
 	var buf [1024]float64
-	// fill draws up to len(v) slopes into v and returns how many.
-	fill := func(v []float64) int {
-		k := 0
-		for k < len(v) {
-			i, j, ok := d.next()
-			if !ok {
-				break
-			}
-			if dx := x[j] - x[i]; dx != 0 {
-				v[k] = (y[j] - y[i]) / dx
-				k++
-			}
-		}
-		return k
-	}
 	first := make([]float64, bracketSample(m))
-	if fill(first) < len(first) {
+	if d.slopes(x, y, first) < len(first) {
 		return 0, false
 	}
 	br := bracketOf(slices.Clone(first), m)
@@ -230,7 +240,7 @@ func streamedSlope(x, y []float64, m int, d *pairDraw) (float64, bool) {
 		return 0, false
 	}
 	for got := len(first); got < m; {
-		k := fill(buf[:min(len(buf), m-got)])
+		k := d.slopes(x, y, buf[:min(len(buf), m-got)])
 		if k == 0 || !br.count(buf[:k]) {
 			return 0, false
 		}

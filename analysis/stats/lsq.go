@@ -572,18 +572,23 @@ func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regressi
 			}
 		}
 		ky := pow2Shift(y)
-		yi := func(i int) float64 { return y[i] }
-		if ky != 0 {
-			yi = func(i int) float64 { return math.Ldexp(y[i], ky) }
-		}
-		r, err := lsqSummaryRows(len(x), degree, func(i int, row []float64) float64 {
-			t := (x[i] - c) / s
-			v := t
-			for d := range degree {
-				row[d] = v
-				v *= t
+		q := degree + 1
+		r, err := lsqSummaryRows(len(x), degree, func(lo, hi int, buf []float64) {
+			for i := lo; i < hi; i++ {
+				row := buf[(i-lo)*q : (i-lo+1)*q]
+				t := (x[i] - c) / s
+				v := t
+				for d := range degree {
+					row[d] = v
+					v *= t
+				}
+				row[degree] = y[i]
 			}
-			return yi(i)
+			if ky != 0 {
+				for k := degree; k < len(buf); k += q {
+					buf[k] = math.Ldexp(buf[k], ky)
+				}
+			}
 		}, conf)
 		if err != nil {
 			return Regression{}, err

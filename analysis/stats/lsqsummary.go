@@ -42,29 +42,43 @@ func LeastSquaresSummary(cols [][]float64, y []float64, conf float64) (Regressio
 // lsqSummary is LeastSquaresSummary on checked columns of moderate
 // magnitude (see leastSquares).
 func lsqSummary(cols [][]float64, y []float64, conf float64) (Regression, error) {
-	return lsqSummaryRows(len(y), len(cols), func(i int, row []float64) float64 {
-		for j, c := range cols {
-			row[j] = c[i]
+	q := len(cols) + 1
+	return lsqSummaryRows(len(y), len(cols), func(lo, hi int, buf []float64) {
+		for i := lo; i < hi; i++ {
+			row := buf[(i-lo)*q : (i-lo+1)*q]
+			for j, c := range cols {
+				row[j] = c[i]
+			}
+			row[q-1] = y[i]
 		}
-		return y[i]
 	}, conf)
 }
 
-// lsqSummaryRows is lsqSummary on n rows of p predictors that rowAt
-// writes into row (returning y): a design that is a function of the data,
-// such as the powers of a polynomial, is never stored whole.
-func lsqSummaryRows(n, p int, rowAt func(i int, row []float64) float64, conf float64) (Regression, error) {
+// lsqSummaryRows is lsqSummary on n rows of p predictors that fill writes
+// a block at a time: fill(lo, hi, buf) writes rows lo…hi−1 into buf, row
+// by row, each the p predictors and then y (q = p + 1 values a row). A
+// design that is a function of the data, such as the powers of a
+// polynomial, is never stored whole, and the rows come sumBlock at a time
+// (one call per block, not per row).
+func lsqSummaryRows(n, p int, fill func(lo, hi int, buf []float64), conf float64) (Regression, error) {
 	r := Regression{N: n, DFResid: n - p - 1, p: p}
 	q := p + 1 // columns of the augmented matrix [A | y]
+	buf := make([]float64, sumBlock*q)
+	block := func(b int) []float64 {
+		hi := min(b+sumBlock, n)
+		fill(b, hi, buf[:(hi-b)*q])
+		return buf[:(hi-b)*q]
+	}
 	// Means in two parts and centred sums of squares, column by column as
 	// meanParts takes them (plain sum, then compensated block sums of the
 	// deviations).
 	hi, lo, ss := make([]float64, q), make([]float64, q), make([]float64, q)
-	row := make([]float64, q)
-	for i := range n {
-		row[p] = rowAt(i, row)
-		for j := range q {
-			hi[j] += row[j]
+	for b := 0; b < n; b += sumBlock {
+		rows := block(b)
+		for k := 0; k < len(rows); k += q {
+			for j, v := range rows[k : k+q] {
+				hi[j] += v
+			}
 		}
 	}
 	for j := range hi {
@@ -75,10 +89,10 @@ func lsqSummaryRows(n, p int, rowAt func(i int, row []float64) float64, conf flo
 	for b := 0; b < n; b += sumBlock {
 		clear(bc)
 		clear(bq)
-		for i := b; i < min(b+sumBlock, n); i++ {
-			row[p] = rowAt(i, row)
-			for j := range q {
-				d := row[j] - hi[j]
+		rows := block(b)
+		for k := 0; k < len(rows); k += q {
+			for j, v := range rows[k : k+q] {
+				d := v - hi[j]
 				bc[j] += d
 				bq[j] += d * d
 			}
@@ -96,28 +110,26 @@ func lsqSummaryRows(n, p int, rowAt func(i int, row []float64) float64, conf flo
 	r.means, r.mlo = hi[:p:p], lo[:p:p]
 	for j := range p {
 		if !(ss[j] > 0) {
-			rowAt(0, row)
-			return Regression{}, fmt.Errorf("least squares: predictor %d is constant (every row %v): it cannot be fitted", j+1, row[j])
+			return Regression{}, fmt.Errorf("least squares: predictor %d is constant (every row %v): it cannot be fitted", j+1, block(0)[j])
 		}
 	}
 	if p == 0 {
-		return r.summariseRows(rowAt, nil, conf), nil
+		return r.summariseRows(block, nil, conf), nil
 	}
 	// m: the stack, row-major, q rows of R over up to summaryBlock rows.
 	m := make([]float64, (q+summaryBlock)*q)
-	rows := 0 // rows of the stack holding R (at most q)
+	held := 0 // rows of the stack holding R (at most q)
 	for b := 0; b < n; b += summaryBlock {
-		k := rows
-		for i := b; i < min(b+summaryBlock, n); i++ {
-			dst := m[k*q : (k+1)*q]
-			dst[p] = rowAt(i, dst)
+		k := min(b+summaryBlock, n) - b
+		fill(b, b+k, m[held*q:(held+k)*q])
+		for t := held * q; t < (held+k)*q; t += q {
+			dst := m[t : t+q]
 			for j := range q {
 				dst[j] = (dst[j] - hi[j]) - lo[j]
 			}
-			k++
 		}
-		householderR(m[:k*q], k, q)
-		rows = min(k, q)
+		householderR(m[:(held+k)*q], held+k, q)
+		held = min(held+k, q)
 	}
 	R := make([]float64, p*p)
 	z := make([]float64, p)
@@ -139,8 +151,9 @@ func lsqSummaryRows(n, p int, rowAt func(i int, row []float64) float64, conf flo
 	blk := make([]float64, p)
 	for b := 0; b < n; b += sumBlock {
 		clear(blk)
-		for i := b; i < min(b+sumBlock, n); i++ {
-			row[p] = rowAt(i, row)
+		rows := block(b)
+		for k := 0; k < len(rows); k += q {
+			row := rows[k : k+q]
 			s := (row[p] - hi[p]) - lo[p]
 			for j := range p {
 				row[j] = (row[j] - hi[j]) - lo[j]
@@ -162,22 +175,26 @@ func lsqSummaryRows(n, p int, rowAt func(i int, row []float64) float64, conf flo
 	for j := range coef {
 		coef[j] += d[j]
 	}
-	return r.summariseRows(rowAt, coef, conf), nil
+	return r.summariseRows(block, coef, conf), nil
 }
 
-// summariseRows is summarise for a design given row by row.
-func (r Regression) summariseRows(rowAt func(i int, row []float64) float64, b []float64, conf float64) Regression {
+// summariseRows is summarise for a design given block by block: block(b)
+// returns rows b… of the sumBlock-row block that starts there.
+func (r Regression) summariseRows(block func(b int) []float64, b []float64, conf float64) Regression {
 	var rss, ess float64
-	row := make([]float64, r.p+1)
-	for i := range r.N {
-		yi := rowAt(i, row)
-		var f float64
-		for j := range r.p {
-			f += b[j] * ((row[j] - r.means[j]) - r.mlo[j])
+	q := r.p + 1
+	for lo := 0; lo < r.N; lo += sumBlock {
+		rows := block(lo)
+		for k := 0; k < len(rows); k += q {
+			row := rows[k : k+q]
+			var f float64
+			for j := range r.p {
+				f += b[j] * ((row[j] - r.means[j]) - r.mlo[j])
+			}
+			e := ((row[r.p] - r.ymean) - r.ylo) - f
+			rss += e * e
+			ess += f * f
 		}
-		e := ((yi - r.ymean) - r.ylo) - f
-		rss += e * e
-		ess += f * f
 	}
 	return r.infer(rss, ess, b, conf)
 }

@@ -108,7 +108,7 @@ func (s *Sorted) orderTiesIn(from, to int, keys, kbuf []uint64, ibuf []int32) {
 		switch m := hi - lo; {
 		case m == 1:
 		case m <= runSortMax:
-			packed, ys, rs = sortRun(s.Y[lo:hi], s.Row[lo:hi], packed, ys, rs)
+			packed, ys, rs = sortRun(s.Y[lo:hi], s.Row[lo:hi], packed, ys, rs, keys[lo:hi])
 		default:
 			// The run's positions sorted by tieKey(y), stably, then y and
 			// Row gathered through them (kbuf's bits hold y meanwhile).
@@ -145,15 +145,16 @@ const (
 // bits replaced by its place, so one sort of plain integers (slices.Sort)
 // orders by the key's high bits and then by place; pairs whose high bits
 // agree but whose full tieKeys differ are then put right by insertion.
-// packed, ys and rs are scratch, returned for reuse.
-func sortRun(y []float64, row []int32, packed []uint64, ys []float64, rs []int32) ([]uint64, []float64, []int32) {
+// packed, ys and rs are scratch, returned for reuse; scratch is scratch of
+// len(y).
+func sortRun(y []float64, row []int32, packed []uint64, ys []float64, rs []int32, scratch []uint64) ([]uint64, []float64, []int32) {
 	const low = 1<<runBits - 1
 	m := len(y)
 	packed = packed[:0]
 	for j, v := range y {
 		packed = append(packed, tieKey(v)&^low|uint64(j))
 	}
-	slices.Sort(packed)
+	sortSpread(packed, scratch)
 	for j := 1; j < m; j++ {
 		if packed[j]&^low != packed[j-1]&^low {
 			continue
@@ -173,6 +174,52 @@ func sortRun(y []float64, row []int32, packed []uint64, ys []float64, rs []int32
 		y[j], row[j] = ys[p&low], rs[p&low]
 	}
 	return packed, ys, rs
+}
+
+// sortSpread sorts a (distinct values, at most runSortMax of them) in
+// ascending order, fastest where their high bits are spread evenly, as
+// tieKey's are: a counting sort by the top bits into about len(a)/2
+// buckets (scratch, len(a), receives them), then a pass of insertion that
+// puts each bucket's few values right (Knuth, TAOCP vol. 3, 5.2.5,
+// distribution sorting; expected O(len(a)) for evenly spread keys, where
+// pdqsort takes O(len(a) log len(a))). Keys bunched in their high bits (y
+// values built to collide) would make the insertion long: past 8·len(a)
+// moves it stops and a plain sort finishes. Short slices take the plain
+// sort.
+func sortSpread(a, scratch []uint64) {
+	m := len(a)
+	if m < 128 {
+		slices.Sort(a)
+		return
+	}
+	b := uint(bits.Len(uint(m))) - 2 // 2^b buckets: m/4 < 2^b ≤ m/2
+	shift := 64 - b
+	var count [runSortMax/2 + 1]int32
+	cnt := count[:1<<b+1]
+	for _, v := range a {
+		cnt[v>>shift+1]++
+	}
+	for k := 1; k < len(cnt); k++ {
+		cnt[k] += cnt[k-1]
+	}
+	for _, v := range a {
+		scratch[cnt[v>>shift]] = v
+		cnt[v>>shift]++
+	}
+	copy(a, scratch[:m])
+	moves := 0
+	for j := 1; j < m; j++ {
+		v := a[j]
+		i := j
+		for ; i > 0 && a[i-1] > v; i-- {
+			a[i] = a[i-1]
+		}
+		a[i] = v
+		if moves += j - i; moves > 8*m {
+			slices.Sort(a)
+			return
+		}
+	}
 }
 
 // tieKey maps y to a 64-bit key by a bijection of floatKey(y), the

@@ -343,13 +343,44 @@ func TestSortRunHighBitsCollide(t *testing.T) {
 	want := slices.Clone(row)
 	slices.SortStableFunc(want, func(a, b int32) int { return cmp.Compare(tieKey(y[a-100]), tieKey(y[b-100])) })
 	ys := slices.Clone(y)
-	sortRun(ys, row, nil, nil, nil)
+	sortRun(ys, row, nil, nil, nil, make([]uint64, len(ys)))
 	if !slices.Equal(row, want) {
 		t.Errorf("sortRun order %v, want %v", row, want)
 	}
 	for j, r := range row {
 		if ys[j] != y[r-100] {
 			t.Fatalf("y at %d is not row %d's", j, r)
+		}
+	}
+}
+
+// TestSortSpread: the distribution sort of a run's packed keys orders as
+// slices.Sort does, for evenly spread keys, for keys that share their high
+// bits (where it gives up on insertion and sorts plainly) and for keys
+// already in order or reversed.
+func TestSortSpread(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	for _, m := range []int{1, 2, 127, 128, 129, 500, 1000, 2047, 2048} {
+		for _, kind := range []string{"spread", "bunched", "ascending", "descending"} {
+			a := make([]uint64, m)
+			for j := range a {
+				switch kind {
+				case "spread":
+					a[j] = rng.Uint64()&^(1<<runBits-1) | uint64(j)
+				case "bunched":
+					a[j] = 0xabc<<52 | rng.Uint64()>>20&^(1<<runBits-1) | uint64(j)
+				case "ascending":
+					a[j] = uint64(j) << 40
+				case "descending":
+					a[j] = uint64(m-j) << 40
+				}
+			}
+			want := slices.Clone(a)
+			slices.Sort(want)
+			sortSpread(a, make([]uint64, m))
+			if !slices.Equal(a, want) {
+				t.Errorf("m %d, %s keys: not in ascending order", m, kind)
+			}
 		}
 	}
 }

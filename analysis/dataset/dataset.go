@@ -389,37 +389,8 @@ var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
 // strconv.ParseFloat returns. Anything else returns ok = false and goes the
 // slow way.
 func fastNumber(s string) (v float64, seen byte, ok bool) {
-	i, neg := 0, false
-	if i < len(s) && (s[i] == '+' || s[i] == '-') {
-		neg = s[i] == '-'
-		i++
-	}
-	var m uint64
-	nd, after, digits := 0, 0, false
-	for ; i < len(s); i++ {
-		c := s[i]
-		if c >= '0' && c <= '9' {
-			digits = true
-			if seen != 0 {
-				after++
-			}
-			if m == 0 && c == '0' {
-				continue
-			}
-			if nd == 15 {
-				return 0, 0, false
-			}
-			m = m*10 + uint64(c-'0')
-			nd++
-			continue
-		}
-		if (c == '.' || c == ',') && seen == 0 {
-			seen = c
-			continue
-		}
-		break
-	}
-	if !digits {
+	d, i, ok := leadingDecimal(unsafe.Slice(unsafe.StringData(s), len(s)), 0)
+	if !ok {
 		return 0, 0, false
 	}
 	e := 0
@@ -449,77 +420,90 @@ func fastNumber(s string) (v float64, seen byte, ok bool) {
 	if i != len(s) {
 		return 0, 0, false
 	}
-	e -= after
-	v = float64(m)
-	switch {
-	case m == 0 || e == 0:
-	case e > 0 && e < len(pow10):
-		v *= pow10[e]
-	case e < 0 && -e < len(pow10):
-		v /= pow10[-e]
-	default:
-		return 0, 0, false
-	}
-	if neg {
-		v = -v
-	}
-	return v, seen, true
+	v, ok = d.value(e)
+	return v, d.seen, ok
 }
 
 // scanNumber reads the cell at the start of rec, up to the first delim or
 // the end, when it is a plain decimal: [+-]digits[mark digits] with mark
 // '.' or ',' (not the delimiter), at most 15 significant digits and 22
 // after the mark, no spaces and no exponent. n is the cell's length. It
-// gives fastNumber's value (Clinger's fast path, one correctly rounded
-// division) and seen mark for such a cell, and ok = false for any other,
-// which the caller reads the general way (parseNumber, missing markers,
-// trimming).
+// gives fastNumber's value and seen mark for such a cell, and ok = false
+// for any other, which the caller reads the general way (parseNumber,
+// missing markers, trimming).
 func scanNumber(rec []byte, delim byte) (v float64, n int, seen byte, ok bool) {
-	i, neg := 0, false
-	if i < len(rec) && (rec[i] == '+' || rec[i] == '-') {
-		neg = rec[i] == '-'
+	d, i, ok := leadingDecimal(rec, delim)
+	if !ok || i < len(rec) && rec[i] != delim || i > MaxCellBytes {
+		return 0, 0, 0, false
+	}
+	v, ok = d.value(0)
+	return v, i, d.seen, ok
+}
+
+// decimal is the start of a number as leadingDecimal reads it: the
+// significant digits as an integer, the digits after the mark, the sign
+// and the mark (0 if none).
+type decimal struct {
+	m     uint64
+	after int
+	neg   bool
+	seen  byte
+}
+
+// leadingDecimal reads [+-]digits[mark digits] from the start of s, the
+// mark '.' or ',' but not stop, and returns it with the index of the first
+// byte after it; ok is false without a digit or with more than 15
+// significant digits (leading zeros do not count).
+func leadingDecimal(s []byte, stop byte) (d decimal, i int, ok bool) {
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		d.neg = s[i] == '-'
 		i++
 	}
-	var m uint64
-	nd, after, digits := 0, 0, false
-	for ; i < len(rec); i++ {
-		c := rec[i]
-		if d := c - '0'; d <= 9 {
+	nd, digits := 0, false
+	for ; i < len(s); i++ {
+		c := s[i]
+		if c >= '0' && c <= '9' {
 			digits = true
-			if seen != 0 {
-				after++
+			if d.seen != 0 {
+				d.after++
 			}
-			if m == 0 && d == 0 {
+			if d.m == 0 && c == '0' {
 				continue
 			}
 			if nd == 15 {
-				return 0, 0, 0, false
+				return d, i, false
 			}
-			m = m*10 + uint64(d)
+			d.m = d.m*10 + uint64(c-'0')
 			nd++
 			continue
 		}
-		if (c == '.' || c == ',') && c != delim && seen == 0 {
-			seen = c
+		if (c == '.' || c == ',') && c != stop && d.seen == 0 {
+			d.seen = c
 			continue
 		}
 		break
 	}
-	if !digits || i < len(rec) && rec[i] != delim || i > MaxCellBytes {
-		return 0, 0, 0, false
-	}
-	v = float64(m)
+	return d, i, digits
+}
+
+// value is the decimal times 10^e, by Clinger's fast path (see
+// fastNumber); ok is false where that path does not apply.
+func (d decimal) value(e int) (float64, bool) {
+	e -= d.after
+	v := float64(d.m)
 	switch {
-	case m == 0 || after == 0:
-	case after < len(pow10):
-		v /= pow10[after]
+	case d.m == 0 || e == 0:
+	case e > 0 && e < len(pow10):
+		v *= pow10[e]
+	case e < 0 && -e < len(pow10):
+		v /= pow10[-e]
 	default:
-		return 0, 0, 0, false
+		return 0, false
 	}
-	if neg {
+	if d.neg {
 		v = -v
 	}
-	return v, i, seen, true
+	return v, true
 }
 
 // detectDelimiter counts commas, semicolons and tabs outside double quotes

@@ -215,6 +215,16 @@ func TestLimitsHalfWidthScipy(t *testing.T) {
 			t.Errorf("NForLimitsHalfWidth(%v, %v, %v, %v) = %d, scipy search %d", c.sd, c.k, c.hw, c.conf, got, c.want)
 		}
 	}
+	// At 10⁵ and 10⁶ items (where the answer comes from two steps of the
+	// 1/√n law and a check): the smallest n whose half-width passes, the
+	// answer of the plain search from 2 (the half-width falls with n).
+	for _, hw := range []float64{0.01, 0.002} {
+		ok := func(n int) bool { return LimitsHalfWidth(1, 1.96, n, 0.95) <= hw }
+		got := NForLimitsHalfWidth(1, 1.96, hw, 0.95)
+		if want := planSearch(2, ok); got != want || !ok(got) || ok(got-1) {
+			t.Errorf("NForLimitsHalfWidth(1, 1.96, %v, 0.95) = %d, the search from 2 %d", hw, got, want)
+		}
+	}
 	if NForLimitsHalfWidth(0, 1.96, 1, 0.95) != 0 || NForLimitsHalfWidth(1, 1.96, -1, 0.95) != 0 || !math.IsNaN(LimitsHalfWidth(1, 1.96, 1, 0.95)) {
 		t.Error("undefined inputs should give 0 / NaN")
 	}

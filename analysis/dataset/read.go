@@ -35,9 +35,6 @@ import (
 // again when the join finds it was settled by an earlier block.
 const (
 	blockSize = 1 << 20 // a longer row makes its buffer larger
-	// maxIntern bounds the distinct texts a text column that is not a group
-	// keeps one copy of per block.
-	maxIntern = 1024
 )
 
 // column is one requested header column.
@@ -704,7 +701,17 @@ func (p *part) cell(cfg *config, ci int, raw string, ln int) (stop bool) {
 
 // add keeps a text cell (s may be a view of a reused buffer) and reports
 // whether a group column passed maxLevels distinct values in this block.
+// A group column's values are looked up, to count its levels and keep one
+// copy of each; any other text column's cells (row names, mostly all
+// different) are kept as they come: the table copies every cell's bytes
+// anyway, and a lookup per cell was a tenth of reading a file with a name
+// column.
 func (tp *textPart) add(s string, ln int, group bool, maxLevels int) bool {
+	if !group {
+		tp.spans = append(tp.spans, span{int32(len(tp.arena)), int32(len(s))})
+		tp.arena = append(tp.arena, s...)
+		return false
+	}
 	if sp, ok := tp.seen[s]; ok {
 		tp.spans = append(tp.spans, sp)
 		return false
@@ -712,18 +719,12 @@ func (tp *textPart) add(s string, ln int, group bool, maxLevels int) bool {
 	sp := span{int32(len(tp.arena)), int32(len(s))}
 	tp.arena = append(tp.arena, s...)
 	tp.spans = append(tp.spans, sp)
-	if !group && len(tp.seen) >= maxIntern {
-		return false
-	}
 	if tp.seen == nil {
 		tp.seen = map[string]span{}
 	}
 	tp.seen[strings.Clone(s)] = sp
-	if group {
-		tp.levels = append(tp.levels, level{sp, ln})
-		return len(tp.seen) > maxLevels
-	}
-	return false
+	tp.levels = append(tp.levels, level{sp, ln})
+	return len(tp.seen) > maxLevels
 }
 
 // asciiSpace marks the ASCII bytes unicode.IsSpace accepts.

@@ -69,7 +69,11 @@ func valueSample(xs, ys []float64, m int) rowSample {
 	n := len(xs)
 	keepAll := m <= 0 || m >= n
 	frac := 2*float64(m)/float64(n) + 64/float64(n)
-	hs := make([]uint64, 0, min(n, int(1.25*frac*float64(n))+64))
+	room := n // the rows expected to pass the bound, with some to spare
+	if !keepAll {
+		room = min(n, int(1.25*frac*float64(n))+64)
+	}
+	hs := make([]uint64, 0, room)
 	is := make([]int, 0, cap(hs))
 	inOrder := true // xs ascending, as every caller gives it
 	for {

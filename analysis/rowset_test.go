@@ -63,6 +63,10 @@ func TestCanonicalNested(t *testing.T) {
 	if !slices.Equal(ax, bx) || !slices.Equal(ay, by) {
 		t.Error("the sample from stats.Sorted's order differs from the sample from a sort by x, y")
 	}
+	// m ≤ 0 keeps every row.
+	if ax, _ := valueSample(ps.X, ps.Y, -1000).sub(0); len(ax) != n {
+		t.Errorf("valueSample with m = −1000 kept %d rows, want all %d", len(ax), n)
+	}
 	// Rows not in order of x (equal pairs still adjacent): the same sample.
 	rx, ry := slices.Clone(ps.X), slices.Clone(ps.Y)
 	slices.Reverse(rx)

@@ -282,12 +282,12 @@ func medianInPlace(a []float64) float64 {
 	k := n / 2
 	hi := selectInPlace(a, k)
 	if n%2 == 1 {
-		return hi
+		return hi + 0 // a zero median is +0, whichever zero selection met
 	}
 	// After selection a[:k] holds the k smallest values: the lower middle
 	// is their maximum.
 	lo := slices.Max(a[:k])
-	return lo + (hi-lo)/2
+	return lo + (hi-lo)/2 + 0
 }
 
 // selectInPlace reorders a so that a[k] is the value a sorted copy would
@@ -402,9 +402,11 @@ func bracketSample(n int) int {
 type bracket struct {
 	lo, hi float64
 	n      int
-	below  int
+	below  int       // values below lo
+	atLo   int       // values equal to lo
+	atHi   int       // values equal to hi, when hi ≠ lo
 	kept   []float64 // len limit+1: every value is written to kept[m]
-	m      int       // values inside so far
+	m      int       // values strictly between lo and hi so far
 	limit  int
 }
 
@@ -432,47 +434,77 @@ func bracketOf(sample []float64, n int) *bracket {
 }
 
 // count takes the values vs and reports false once the bracket has kept
-// limit values (the caller then gives up on it). The loop has no
-// data-dependent branch: the comparisons become flags, and every value is
-// written to the next free slot, which only a value inside the bracket
-// keeps.
+// limit values (the caller then gives up on it). Values equal to an end of
+// the bracket are counted, not kept, so that many values tied at the
+// middle (quantized data) do not fill it. The loop has no data-dependent
+// branch: the comparisons become flags, and every value is written to the
+// next free slot, which only a value strictly inside the bracket keeps.
 func (br *bracket) count(vs []float64) bool {
-	lo, hi, kept, below, m, limit := br.lo, br.hi, br.kept, br.below, br.m, br.limit
+	lo, hi, kept, m, limit := br.lo, br.hi, br.kept, br.m, br.limit
+	below, atLo, atHi := br.below, br.atLo, br.atHi
+	apart := 0 // 1 when hi ≠ lo: then a value equal to hi is not one equal to lo
+	if hi != lo {
+		apart = 1
+	}
 	for _, v := range vs {
 		kept[m] = v
-		var under, over int
+		var under, over, eqLo, eqHi int
 		if v < lo {
 			under = 1
 		}
 		if v > hi {
 			over = 1
 		}
+		if v == lo {
+			eqLo = 1
+		}
+		if v == hi {
+			eqHi = apart
+		}
 		below += under
-		m += 1 - under - over
+		atLo += eqLo
+		atHi += eqHi
+		m += 1 - under - over - eqLo - eqHi
 		if m == limit {
 			return false
 		}
 	}
-	br.below, br.m = below, m
+	br.below, br.atLo, br.atHi, br.m = below, atLo, atHi, m
 	return true
 }
 
-// middle returns the median of the n values counted, and false when the
-// bracket missed a middle rank.
+// rank returns the value of rank r (0-based) among the values counted, and
+// false when it lies outside the bracket.
+func (br *bracket) rank(r int) (float64, bool) {
+	switch r -= br.below; {
+	case r < 0:
+		return 0, false
+	case r < br.atLo:
+		return br.lo, true
+	case r < br.atLo+br.m:
+		return selectInPlace(br.kept[:br.m], r-br.atLo), true
+	case r < br.atLo+br.m+br.atHi:
+		return br.hi, true
+	}
+	return 0, false
+}
+
+// middle returns the median of the n values counted (a zero as +0), and
+// false when the bracket missed a middle rank.
 func (br *bracket) middle() (float64, bool) {
 	k0, k1 := (br.n-1)/2, br.n/2
-	if br.below > k0 || br.below+br.m <= k1 {
+	upper, ok := br.rank(k1)
+	if !ok {
 		return 0, false
 	}
-	kept := br.kept[:br.m]
-	upper := selectInPlace(kept, k1-br.below)
 	if k0 == k1 {
-		return upper, true
+		return upper + 0, true
 	}
-	// After selection kept[:k1−below] (not empty: below ≤ k0 < k1) holds
-	// the values below upper's rank: the lower middle is their maximum.
-	lower := slices.Max(kept[:k1-br.below])
-	return lower + (upper-lower)/2, true
+	lower, ok := br.rank(k0)
+	if !ok {
+		return 0, false
+	}
+	return lower + (upper-lower)/2 + 0, true
 }
 
 func median3(a, b, c float64) float64 {

@@ -139,6 +139,17 @@ func TestTheilSenStreamed(t *testing.T) {
 	if a != b || a.Pairs != DefaultMaxExact*(DefaultMaxExact-1)/2 {
 		t.Errorf("streamed %+v, stored %+v", a, b)
 	}
+	// Quantized values (a gauge reading to whole units): most slopes tie
+	// at a few values, the median among them.
+	qx, qy := make([]float64, len(x)), make([]float64, len(x))
+	for i := range qx {
+		qx[i], qy[i] = math.Floor(x[i]/4), math.Floor(y[i])
+	}
+	a = TheilSenFit(qx, qy, 0, rand.NewPCG(5, 6))
+	b = TheilSenFit(qx, qy, 0, plainSource{rand.NewPCG(5, 6)})
+	if a != b {
+		t.Errorf("quantized: streamed %+v, stored %+v", a, b)
+	}
 	few := slices.Clone(x)
 	for i := range few {
 		if i%5000 != 0 {
@@ -161,7 +172,7 @@ func TestMedianInPlace(t *testing.T) {
 	// looks, so that the bracket misses and the selection over all values
 	// answers.
 	for _, n := range []int{1, 2, 3, 16, 17, 100, 1001, 5000, bracketMinN, bracketMinN + 1, 200_001, 1 << 20} {
-		for _, kind := range []string{"uniform", "few-values", "sorted", "reversed", "sample-fooled"} {
+		for _, kind := range []string{"uniform", "few-values", "sorted", "reversed", "sample-fooled", "signed-zeros"} {
 			a := make([]float64, n)
 			for i := range a {
 				switch kind {
@@ -175,6 +186,15 @@ func TestMedianInPlace(t *testing.T) {
 					a[i] = float64(n - i)
 				case "sample-fooled":
 					a[i] = 1 + extraUniform(src)
+				case "signed-zeros":
+					a[i] = math.Copysign(0, extraUniform(src)-0.5)
+				}
+			}
+			if kind == "few-values" && n >= bracketMinN {
+				// A third of the values tie at the median: the bracket
+				// closes on them and counts them instead of keeping them.
+				if _, ok := bracketMedian(slices.Clone(a), nil, 0); !ok {
+					t.Errorf("n=%d: values tied at the median made the bracket give up", n)
 				}
 			}
 			if kind == "sample-fooled" && n >= bracketMinN {
@@ -209,8 +229,8 @@ func TestMedianInPlace(t *testing.T) {
 					t.Errorf("median of a − 0.7c (n=%d) = %v (%v), want %v", n, got, ok, wantR)
 				}
 			}
-			if got := medianInPlace(a); got != want {
-				t.Errorf("median(%s, n=%d) = %v, want %v", kind, n, got, want)
+			if got := medianInPlace(a); got != want || math.Signbit(got) {
+				t.Errorf("median(%s, n=%d) = %v, want %v (a zero as +0)", kind, n, got, want)
 			}
 		}
 	}

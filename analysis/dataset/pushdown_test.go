@@ -37,7 +37,7 @@ func TestRowsSample(t *testing.T) {
 	}
 	f := Fit{N: 4286, Sxx: 1, Syy: 1, Sxy: 0.5}
 	for _, frac := range []float64{0.001, 0.2} { // 0.001 passes about 4 rows: raised until 300 pass
-		got, err := p.rowsFrom(f, k, frac, math.NaN(), math.NaN())
+		got, err := p.rowsFrom(f, k, frac, math.NaN(), math.NaN(), nil)
 		if err != nil {
 			t.Fatal(err)
 		}

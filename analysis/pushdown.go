@@ -325,11 +325,10 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	exact("Breusch–Pagan test (Koenker's form)")
 	if spec.Order != "" {
-		num, og, err := p.DurbinWatsonNumerator(fit, grids[2])
+		num, err := p.DurbinWatsonNumerator(fit)
 		if err != nil {
 			return s, err
 		}
-		th.Grids[2] = og
 		if rss > 0 {
 			d.DurbinWatson = report.Float(num / rss)
 		}

@@ -883,12 +883,15 @@ func cell(e string, lo, hi float64, k int) string {
 
 // ThirdPass runs the third pass: the rows per flag, the largest Cook's
 // distance, the extremes of the leave-one-out r and slope, the quadratic's
-// residual sum, the density grids g[0] (y on x) and g[1] (the residual
-// on x; the residual on the order is DurbinWatsonNumerator's) and the
-// rows flagged outlier or influential, all in one scan grouped by the
-// grids' cells and the flags: the sums and counts are added up over the
-// groups, and a flagged row is a group of its own (keyed besides by its
-// x, y, id, d and t), so that the server returns it.
+// residual sum,
+// the density grids g (y on x, the residual on x and, with a run order,
+// the residual on the order) and the rows flagged outlier or
+// influential, all in one scan with GROUPING SETS over the grids' cells,
+// each set's cells (and the flags) packed in one integer:
+// the sums and counts are added up over the cells of the first set (y on
+// x with the residual on x, and the flags), which holds every row once,
+// and there a flagged row is a group of its own (keyed besides by its x,
+// y, id, d and t), so that the server returns it.
 // Of those, the keep highest ranked are kept (largest Cook's distance,
 // then largest |t|, then smallest x, y and id). The cells are cell's.
 func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
@@ -935,7 +938,14 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	radix := []int{g[0].NX, g[0].NY, g[1].NX, g[1].NY}
 	key := pack([]string{cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY),
 		cell("x", g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY), fl}, radix)
-	sel := []string{key, "count(*)", "max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
+	set0 := key + ", " + strings.Join(keys, ", ")
+	sets := "(" + set0 + ")"
+	last := "0"
+	if p.spec.Order != "" {
+		last = pack([]string{cell("o", g[2].XLo, g[2].XHi, g[2].NX), cell("e", g[2].YLo, g[2].YHi, g[2].NY)}, []int{g[2].NX})
+		sets += ", (" + last + ")"
+	}
+	sel := []string{"GROUPING(" + set0 + ")", key, last, "count(*)", "max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
 	if f.Quad {
 		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
 		q := "((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + ")))"
@@ -944,9 +954,12 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		sel = append(sel, "CAST(NULL AS double precision)")
 	}
 	sel = append(sel, keys...)
-	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM " + src + " GROUP BY " + key + ", " + strings.Join(keys, ", ")
+	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM " + src + " GROUP BY GROUPING SETS (" + sets + ")"
 	th := &Third{MaxD: math.NaN(), LooRMin: math.NaN(), LooRMax: math.NaN(), LooSMin: math.NaN(), LooSMax: math.NaN()}
-	for k := range 2 {
+	for k := range 3 {
+		if k == 2 && p.spec.Order == "" {
+			continue
+		}
 		gg := g[k]
 		gg.Counts = make([]int, gg.NX*gg.NY)
 		th.Grids[k] = &gg
@@ -971,8 +984,12 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	}
 	var cells []extCell
 	err := p.s.each(stmt, func(v []any) error {
-		n := int(Num(v[1]))
-		cell := int64Of(v[0])
+		n := int(Num(v[3]))
+		if Num(v[0]) != 0 { // the cell i + NX·j of the residual on the order
+			th.Grids[2].Counts[int64Of(v[2])] += n
+			return nil
+		}
+		cell := int64Of(v[1])
 		var at [5]int // the cells a0, b0, a1, b1, then the flags
 		for i, r := range radix {
 			at[i] = int(cell % int64(r))
@@ -982,7 +999,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		for k := range 2 {
 			th.Grids[k].Counts[at[2*k+1]*th.Grids[k].NX+at[2*k]] += n
 		}
-		cells = append(cells, extCell{at[0], at[1], Num(v[3]), Num(v[4])})
+		cells = append(cells, extCell{at[0], at[1], Num(v[5]), Num(v[6])})
 		fl := at[4]
 		if fl&1 != 0 {
 			th.Outlier += n
@@ -998,10 +1015,10 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		}
 		if fl&5 != 0 {
 			th.Suspect += n
-			noID := p.id == "" || isMissing(v[10], p.spec.Missing)
-			r := ranked{Row: Row{X: Num(v[8]), Y: Num(v[9]), D: Num(v[11])}, noID: noID, d: Num(v[11]), t: Num(v[12])}
+			noID := p.id == "" || isMissing(v[12], p.spec.Missing)
+			r := ranked{Row: Row{X: Num(v[10]), Y: Num(v[11]), D: Num(v[13])}, noID: noID, d: Num(v[13]), t: Num(v[14])}
 			if !noID {
-				r.ID = Text(v[10])
+				r.ID = Text(v[12])
 			}
 			for range n { // a row repeated n times is n flagged rows
 				sus = append(sus, r)
@@ -1011,22 +1028,22 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 				sus = sus[:keep]
 			}
 		}
-		if x := Num(v[2]); !math.IsNaN(x) {
+		if x := Num(v[4]); !math.IsNaN(x) {
 			th.MaxD = hi(th.MaxD, x)
 		}
-		if x := Num(v[3]); !math.IsNaN(x) {
+		if x := Num(v[5]); !math.IsNaN(x) {
 			th.LooRMin = lo(th.LooRMin, x)
 		}
-		if x := Num(v[4]); !math.IsNaN(x) {
+		if x := Num(v[6]); !math.IsNaN(x) {
 			th.LooRMax = hi(th.LooRMax, x)
 		}
-		if x := Num(v[5]); !math.IsNaN(x) {
+		if x := Num(v[7]); !math.IsNaN(x) {
 			th.LooSMin = lo(th.LooSMin, x)
 		}
-		if x := Num(v[6]); !math.IsNaN(x) {
+		if x := Num(v[8]); !math.IsNaN(x) {
 			th.LooSMax = hi(th.LooSMax, x)
 		}
-		th.SQ2 += Num(v[7])
+		th.SQ2 += Num(v[9])
 		return nil
 	})
 	if err != nil {
@@ -1056,37 +1073,24 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 // whose run order ties (the closed form of stats.DurbinWatsonTied: 2·SS
 // within each block of tied orders, (ē_A − ē_B)² + SS_A/m_A + SS_B/m_B
 // between consecutive blocks), by GROUP BY on the order and lag() over the
-// blocks: the one statement that sorts, and only the blocks. A block's
+// blocks: the one statement that sorts the rows (by the order). A block's
 // SS is Σe² − (Σe)²/m, from two sums the server keeps by value (a few
 // bytes a block, so that 10⁶ blocks group in memory): its rounding is
 // that of Σe² over the block, and over all blocks at most a few units in
 // the last place of Σe² = RSS, the denominator, whatever the blocks'
-// means, so the statistic keeps its digits. The same scan counts the
-// rows in the cells of og, the density grid of the residual on the order
-// (a second grouping set, its cell i + NX·j in one integer, returned in
-// two arrays): here it costs three sums a row, in the third pass it cost
-// that pass's seven. The blocks are summed in order of the run order.
-func (p *Prepared) DurbinWatsonNumerator(f Fit, og Grid) (float64, *Grid, error) {
-	oc := cell("o", og.XLo, og.XHi, og.NX) + " + " + strconv.Itoa(og.NX) + " * " + cell("e", og.YLo, og.YHi, og.NY)
-	stmt := "SELECT sum(2 * ss) FILTER (WHERE s = 1) + coalesce(sum((me - pme) * (me - pme) + ss / m + pss / pm) FILTER (WHERE s = 1 AND pm IS NOT NULL), 0), " +
-		"array_agg(c) FILTER (WHERE s = 2), array_agg(m) FILTER (WHERE s = 2) FROM (" +
-		"SELECT s, c, m, me, ss, lag(m) OVER w AS pm, lag(me) OVER w AS pme, lag(ss) OVER w AS pss FROM (" +
-		"SELECT s, o, c, m, se / m AS me, greatest(0, see - se * se / m) AS ss FROM (" +
-		"SELECT GROUPING(o, " + oc + ") AS s, o, " + oc + " AS c, CAST(count(*) AS double precision) AS m, sum(e) AS se, sum(e * e) AS see FROM (SELECT " +
-		p.num[len(p.num)-1] + " AS o, " + p.dy(f) + " - " + lit(f.B) + " * " + p.dx(f) + " AS e" + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e " +
-		"GROUP BY GROUPING SETS ((o), (" + oc + "))) AS bivar_s) AS bivar_b WINDOW w AS (PARTITION BY s ORDER BY o)) AS bivar_l"
+// means, so the statistic keeps its digits.
+func (p *Prepared) DurbinWatsonNumerator(f Fit) (float64, error) {
+	stmt := "SELECT sum(2 * ss) + coalesce(sum((me - pme) * (me - pme) + ss / m + pss / pm) FILTER (WHERE pm IS NOT NULL), 0) FROM (" +
+		"SELECT m, me, ss, lag(m) OVER w AS pm, lag(me) OVER w AS pme, lag(ss) OVER w AS pss FROM (" +
+		"SELECT o, m, se / m AS me, greatest(0, see - se * se / m) AS ss FROM (" +
+		"SELECT o, CAST(count(*) AS double precision) AS m, sum(e) AS se, sum(e * e) AS see FROM (SELECT " +
+		p.num[len(p.num)-1] + " AS o, " + p.dy(f) + " - " + lit(f.B) + " * " + p.dx(f) + " AS e" + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e GROUP BY o" +
+		") AS bivar_s) AS bivar_b WINDOW w AS (ORDER BY o)) AS bivar_l"
 	r, err := p.s.rows(stmt)
 	if err != nil {
-		return 0, nil, err
+		return 0, err
 	}
-	g := og
-	g.Counts = make([]int, g.NX*g.NY)
-	cs, _ := r[0][1].([]any)
-	ms, _ := r[0][2].([]any)
-	for i := range min(len(cs), len(ms)) {
-		g.Counts[int64Of(cs[i])] += int(Num(ms[i]))
-	}
-	return Num(r[0][0]), &g, nil
+	return Num(r[0][0]), nil
 }
 
 // Row is one row fetched by a push-down query.

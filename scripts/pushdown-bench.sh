@@ -69,7 +69,10 @@ host=$(printf '%s' "$BIVAR_TEST_PG_URL" | sed -n 's/.*[?&]host=\([^&]*\).*/\1/p'
 log=""
 if [ -n "$host" ] && [ -r "$host/server.log" ]; then
 	log="$host/server.log"
-	export PGOPTIONS="-c log_min_duration_statement=0"
+	# log_statement_stats: the server process's CPU time for each
+	# statement (user + system), steadier than its wall time on a shared
+	# machine.
+	export PGOPTIONS="-c log_min_duration_statement=0 -c log_statement_stats=on"
 fi
 declare -A wall rss logs
 for i in 1 2 3; do
@@ -90,18 +93,19 @@ for b in "${!bins[@]}"; do
 	[ ${#bins[@]} -eq 1 ] || echo "== ${bins[$b]}"
 	echo "bivar run, pushed down: median $(printf '%s\n' "${w[@]}" | median) s (runs: ${w[*]}), peak RSS median $(printf '%s\n' "${r[@]}" | median) MB (runs: ${r[*]})"
 	if [ -n "$log" ]; then
-		echo "server time per statement (median of the runs, ms), in the order bivar sent them:"
+		echo "server time per statement (median of the runs: wall ms, CPU ms), in the order bivar sent them:"
 		# shellcheck disable=SC2086
 		/usr/bin/python3 - ${logs[$b]} <<'PY'
 import re, statistics, sys
 runs = []
 for name in sys.argv[1:]:
     text = open(name, errors="replace").read()
-    runs.append([(float(m.group(1)), " ".join(m.group(2).split())[:70])
-                 for m in re.finditer(r"duration: ([0-9.]+) ms  execute [^:]*: (.*?)(?=\n\S|\Z)", text, re.S)])
+    # Each execute's duration, then its EXECUTE MESSAGE STATISTICS block.
+    runs.append([(float(m.group(1)), 1000 * (float(m.group(3)) + float(m.group(4))), " ".join(m.group(2).split())[:60])
+                 for m in re.finditer(r"duration: ([0-9.]+) ms  execute [^:]*: (.*?)\n\S.*?EXECUTE MESSAGE STATISTICS.*?!\s+([0-9.]+) s user, ([0-9.]+) s system", text, re.S)])
 for k in range(min(len(r) for r in runs)):
-    print("%10.1f  %s" % (statistics.median(r[k][0] for r in runs), runs[0][k][1]))
-print("%10.1f  (all statements)" % statistics.median(sum(t for t, _ in r) for r in runs))
+    print("%9.0f %9.0f  %s" % (statistics.median(r[k][0] for r in runs), statistics.median(r[k][1] for r in runs), runs[0][k][2]))
+print("%9.0f %9.0f  (all statements)" % (statistics.median(sum(t for t, _, _ in r) for r in runs), statistics.median(sum(c for _, c, _ in r) for r in runs)))
 PY
 	fi
 done

@@ -21,7 +21,8 @@ package dataset
 //     distance, the leave-one-out extremes, the quadratic's residual sum
 //     and the density grids, with the refined line;
 //  4. Rows: the sample (by a hash of each row) and the rows of the
-//     leave-one-out extremes;
+//     leave-one-out extremes (their leave-one-out r computed only in the
+//     cells where the third pass found them);
 //  5. with a run order, the Durbin–Watson numerator: the rows grouped by
 //     run order, the blocks sorted (DurbinWatsonNumerator).
 //
@@ -41,8 +42,8 @@ package dataset
 // two-pass algorithm", Chan et al. 1983), and its sums of x's deviations
 // times the residuals refine the slope (one step of iterative
 // refinement). The within-block sums of squares of the Durbin–Watson
-// statistic come from var_pop, whose float8_accum is the same
-// Youngs–Cramer update.
+// statistic are Σe² − (Σe)²/m over each block of the refined line's
+// residuals (see DurbinWatsonNumerator).
 
 import (
 	"cmp"

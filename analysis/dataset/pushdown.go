@@ -936,9 +936,16 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		}
 		return "(" + key + ")"
 	}
+	bins := []string{cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY),
+		cell("x", g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)}
 	radix := []int{g[0].NX, g[0].NY, g[1].NX, g[1].NY}
-	key := pack([]string{cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY),
-		cell("x", g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY), fl}, radix)
+	// The grids bin x alike (as analysis draws them): its cell once.
+	sameX := g[1].XLo == g[0].XLo && g[1].XHi == g[0].XHi && g[1].NX == g[0].NX
+	if sameX {
+		bins = slices.Delete(bins, 2, 3)
+		radix = slices.Delete(radix, 2, 3)
+	}
+	key := pack(append(bins, fl), radix)
 	set0 := key + ", " + strings.Join(keys, ", ")
 	sets := "(" + set0 + ")"
 	last := "0"
@@ -996,7 +1003,10 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 			at[i] = int(cell % int64(r))
 			cell /= int64(r)
 		}
-		at[4] = int(cell)
+		at[len(radix)] = int(cell)
+		if sameX {
+			at[2], at[3], at[4] = at[0], at[2], at[3]
+		}
 		for k := range 2 {
 			th.Grids[k].Counts[at[2*k+1]*th.Grids[k].NX+at[2*k]] += n
 		}

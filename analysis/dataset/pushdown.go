@@ -887,12 +887,11 @@ func cell(e string, lo, hi float64, k int) string {
 // residual sum,
 // the density grids g (y on x, the residual on x and, with a run order,
 // the residual on the order) and the rows flagged outlier or
-// influential, all in one scan with GROUPING SETS over the grids' cells,
-// each set's cells (and the flags) packed in one integer:
+// influential, all in one scan with GROUPING SETS over the grids' cells:
 // the sums and counts are added up over the cells of the first set (y on
-// x with the residual on x, and the flags), which holds every row once,
-// and there a flagged row is a group of its own (keyed besides by its x,
-// y, id, d and t), so that the server returns it.
+// x with the residual on x), which holds every row once,
+// and there a flagged row is a group of its own (keyed by its x, y, id, d
+// and t), so that the server returns it.
 // Of those, the keep highest ranked are kept (largest Cook's distance,
 // then largest |t|, then smallest x, y and id). The cells are cell's.
 func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
@@ -923,37 +922,20 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		id = "id"
 	}
 	keys := []string{suspect("x"), suspect("y"), suspect(id), suspect("d"), suspect("e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0)")}
-	// The cells and the flags packed in one integer, a0 + NX·(b0 +
-	// NY·(a1 + NX·(b1 + NY·flags))), so that the server hashes one number
-	// a row where it hashed five. Both grids are binned on x, so a cell
-	// of y on x meets few cells of the residual on x: a few thousand
-	// groups.
-	pack := func(cells []string, radix []int) string {
-		key, mul := cells[0], int64(1)
-		for i, c := range cells[1:] {
-			mul *= int64(radix[i])
-			key += " + " + strconv.FormatInt(mul, 10) + " * " + c
-		}
-		return "(" + key + ")"
-	}
-	bins := []string{cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY),
-		cell("x", g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)}
-	radix := []int{g[0].NX, g[0].NY, g[1].NX, g[1].NY}
-	// The grids bin x alike (as analysis draws them): its cell once.
-	sameX := g[1].XLo == g[0].XLo && g[1].XHi == g[0].XHi && g[1].NX == g[0].NX
-	if sameX {
-		bins = slices.Delete(bins, 2, 3)
-		radix = slices.Delete(radix, 2, 3)
-	}
-	key := pack(append(bins, fl), radix)
-	set0 := key + ", " + strings.Join(keys, ", ")
+	a0, b0 := cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY)
+	a1, b1 := cell("x", g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)
+	// Both grids are binned on x, so a cell of y on x meets few cells of
+	// the residual on x: one set holds both grids.
+	set0 := a0 + ", " + b0 + ", " + a1 + ", " + b1 + ", " + fl + ", " + strings.Join(keys, ", ")
 	sets := "(" + set0 + ")"
-	last := "0"
+	last := "0, 0"
 	if p.spec.Order != "" {
-		last = pack([]string{cell("o", g[2].XLo, g[2].XHi, g[2].NX), cell("e", g[2].YLo, g[2].YHi, g[2].NY)}, []int{g[2].NX})
-		sets += ", (" + last + ")"
+		a2, b2 := cell("o", g[2].XLo, g[2].XHi, g[2].NX), cell("e", g[2].YLo, g[2].YHi, g[2].NY)
+		sets += ", (" + a2 + ", " + b2 + ")"
+		last = a2 + ", " + b2
 	}
-	sel := []string{"GROUPING(" + set0 + ")", key, last, "count(*)", "max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
+	sel := []string{"GROUPING(" + set0 + ")", "0", a0, b0, a1, b1, last, fl, "count(*)",
+		"max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
 	if f.Quad {
 		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
 		q := "((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + ")))"
@@ -992,26 +974,18 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	}
 	var cells []extCell
 	err := p.s.each(stmt, func(v []any) error {
-		n := int(Num(v[3]))
-		if Num(v[0]) != 0 { // the cell i + NX·j of the residual on the order
-			th.Grids[2].Counts[int64Of(v[2])] += n
+		n := int(Num(v[9]))
+		if Num(v[0]) != 0 {
+			i, j := int(Num(v[6])), int(Num(v[7]))
+			th.Grids[2].Counts[j*th.Grids[2].NX+i] += n
 			return nil
 		}
-		cell := int64Of(v[1])
-		var at [5]int // the cells a0, b0, a1, b1, then the flags
-		for i, r := range radix {
-			at[i] = int(cell % int64(r))
-			cell /= int64(r)
-		}
-		at[len(radix)] = int(cell)
-		if sameX {
-			at[2], at[3], at[4] = at[0], at[2], at[3]
-		}
 		for k := range 2 {
-			th.Grids[k].Counts[at[2*k+1]*th.Grids[k].NX+at[2*k]] += n
+			i, j := int(Num(v[2+2*k])), int(Num(v[3+2*k]))
+			th.Grids[k].Counts[j*th.Grids[k].NX+i] += n
 		}
-		cells = append(cells, extCell{at[0], at[1], Num(v[5]), Num(v[6])})
-		fl := at[4]
+		cells = append(cells, extCell{int(Num(v[2])), int(Num(v[3])), Num(v[11]), Num(v[12])})
+		fl := int(Num(v[8]))
 		if fl&1 != 0 {
 			th.Outlier += n
 		}
@@ -1026,10 +1000,10 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		}
 		if fl&5 != 0 {
 			th.Suspect += n
-			noID := p.id == "" || isMissing(v[12], p.spec.Missing)
-			r := ranked{Row: Row{X: Num(v[10]), Y: Num(v[11]), D: Num(v[13])}, noID: noID, d: Num(v[13]), t: Num(v[14])}
+			noID := p.id == "" || isMissing(v[18], p.spec.Missing)
+			r := ranked{Row: Row{X: Num(v[16]), Y: Num(v[17]), D: Num(v[19])}, noID: noID, d: Num(v[19]), t: Num(v[20])}
 			if !noID {
-				r.ID = Text(v[12])
+				r.ID = Text(v[18])
 			}
 			for range n { // a row repeated n times is n flagged rows
 				sus = append(sus, r)
@@ -1039,22 +1013,22 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 				sus = sus[:keep]
 			}
 		}
-		if x := Num(v[4]); !math.IsNaN(x) {
+		if x := Num(v[10]); !math.IsNaN(x) {
 			th.MaxD = hi(th.MaxD, x)
 		}
-		if x := Num(v[5]); !math.IsNaN(x) {
+		if x := Num(v[11]); !math.IsNaN(x) {
 			th.LooRMin = lo(th.LooRMin, x)
 		}
-		if x := Num(v[6]); !math.IsNaN(x) {
+		if x := Num(v[12]); !math.IsNaN(x) {
 			th.LooRMax = hi(th.LooRMax, x)
 		}
-		if x := Num(v[7]); !math.IsNaN(x) {
+		if x := Num(v[13]); !math.IsNaN(x) {
 			th.LooSMin = lo(th.LooSMin, x)
 		}
-		if x := Num(v[8]); !math.IsNaN(x) {
+		if x := Num(v[14]); !math.IsNaN(x) {
 			th.LooSMax = hi(th.LooSMax, x)
 		}
-		th.SQ2 += Num(v[9])
+		th.SQ2 += Num(v[15])
 		return nil
 	})
 	if err != nil {

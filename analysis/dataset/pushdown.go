@@ -106,11 +106,12 @@ var sessionSettings = []string{"SET LOCAL max_parallel_workers_per_gather = 0", 
 // also optimized and has the operators' functions inlined. PostgreSQL's
 // default for both is 500 000, and the passes of a 10⁷-row study fall
 // either side of it: the second pass, all products and sums (cost about
-// 450 000), took 2.2 and 3.2 s against 4.2 to 4.9 s without (runs
-// alternating, PostgreSQL 15, measured by this tool). At 10⁶ rows the
-// passes cost 40 000 to 150 000, and compiling took longer than it saved,
-// so they are left as the server's settings have them. A server without
-// JIT is not affected.
+// 450 000), took a median of 2.2 s of the server's CPU against 3.9 s
+// without (three runs alternating, PostgreSQL 15, measured by
+// scripts/pushdown-bench.sh). At 10⁶ rows the passes cost 40 000 to
+// 150 000, and compiling them so added a few hundred milliseconds a
+// statement for little gain, so they are left as the server's settings
+// have them. A server without JIT is not affected.
 var jitSettings = []string{"SET LOCAL jit_optimize_above_cost = 200000", "SET LOCAL jit_inline_above_cost = 200000"}
 
 // majorVersion is the major version in a server_version string ("15.4
@@ -849,7 +850,7 @@ func boxOf(g *Grid, i, j int) Box {
 
 // boxesSQL is the SQL condition that the point (x, y) lies in one of bs.
 func boxesSQL(x, y string, bs []Box) string {
-	var any []string
+	var ors []string
 	for _, b := range bs {
 		var all []string
 		for _, c := range []struct {
@@ -863,9 +864,9 @@ func boxesSQL(x, y string, bs []Box) string {
 		if len(all) == 0 {
 			return "true"
 		}
-		any = append(any, "("+strings.Join(all, " AND ")+")")
+		ors = append(ors, "("+strings.Join(all, " AND ")+")")
 	}
-	return "(" + strings.Join(any, " OR ") + ")"
+	return "(" + strings.Join(ors, " OR ") + ")"
 }
 
 // Grid is a density grid's counts: Counts[j*NX+i] rows in cell (i, j).

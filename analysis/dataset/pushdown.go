@@ -888,7 +888,8 @@ func cell(e string, lo, hi float64, k int) string {
 // residual sum,
 // the density grids g (y on x, the residual on x and, with a run order,
 // the residual on the order) and the rows flagged outlier or
-// influential, all in one scan with GROUPING SETS over the grids' cells:
+// influential, all in one scan with GROUPING SETS over the grids' cells
+// (with a run order, in two levels: twoLevel):
 // the sums and counts are added up over the cells of the first set (y on
 // x with the residual on x), which holds every row once,
 // and there a flagged row is a group of its own (keyed by its x, y, id, d

@@ -291,7 +291,8 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 
 	// Pass 3: flags, extremes, Breusch–Pagan, trend, the quadratic's
 	// residuals and the density grids, with the refined line.
-	th, err := p.ThirdPass(fit, pushdownGrids(c, mom, sums, spec, len(p.NumCols)), max(cfg.namedMax(), pushdownSuspectMax))
+	grids := pushdownGrids(c, mom, sums, spec, len(p.NumCols))
+	th, err := p.ThirdPass(fit, grids, max(cfg.namedMax(), pushdownSuspectMax))
 	if err != nil {
 		return s, err
 	}
@@ -371,7 +372,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		sus = sus[:min(len(sus), cfg.namedMax())]
 	}
 	// Pass 4: the sample and the rows at the leave-one-out extremes.
-	fetched, err := p.Rows(fit, PushdownSample, n, th.LooRMin, th.LooRMax)
+	fetched, err := p.Rows(fit, PushdownSample, n, th.LooRMin, th.LooRMax, th.ExtBoxes)
 	if err != nil {
 		return s, err
 	}

@@ -149,6 +149,7 @@ func TestPushdownSameAsInMemory(t *testing.T) {
 		if p.Plot.Scatter == nil || sum(p.Plot.Scatter.Counts) != p.N {
 			t.Errorf("study %s: the density grid holds %v rows, want %d", m.ID, p.Plot.Scatter, p.N)
 		}
+		sameLooRows(t, m.ID, p, m)
 	}
 	// The data were built to exercise every part: a named outlier, three
 	// groups, a bend, ties in run order.
@@ -157,6 +158,17 @@ func TestPushdownSameAsInMemory(t *testing.T) {
 		t.Errorf("the test data lost their point: named %v, groups %d, form %s", s.Influence.Points, len(s.Groups), s.Findings.Form)
 	}
 	t.Logf("n %d, named %d (first %s), flagged %d, form %s, DW %v", s.N, len(s.Influence.Points), s.Influence.Points[0].Row, s.Influence.Counts.Flagged, s.Findings.Form, s.Diagnostics.DurbinWatson)
+}
+
+// sameLooRows checks that the pushed-down study names the rows at the
+// leave-one-out extremes of r as the study in memory does (the database
+// computes a row's leave-one-out r only in the cells that hold them).
+func sameLooRows(t *testing.T, what string, p, m report.Study) {
+	t.Helper()
+	if p.Sensitivity.LooRMinRow == "" || p.Sensitivity.LooRMinRow != m.Sensitivity.LooRMinRow || p.Sensitivity.LooRMaxRow != m.Sensitivity.LooRMaxRow {
+		t.Errorf("%s: rows at the leave-one-out extremes of r %q and %q, in memory %q and %q", what,
+			p.Sensitivity.LooRMinRow, p.Sensitivity.LooRMaxRow, m.Sensitivity.LooRMinRow, m.Sensitivity.LooRMaxRow)
+	}
 }
 
 func sum(v []int) int {
@@ -371,6 +383,7 @@ func TestPushdownMillion(t *testing.T) {
 			t.Errorf("named row %d is %s, in memory %s", k, pt.Row, m.Influence.Points[k].Row)
 		}
 	}
+	sameLooRows(t, "10⁶ rows", p, m)
 	if len(p.Influence.Points) == 0 || p.Findings.Form != m.Findings.Form || p.Findings.Direction != m.Findings.Direction {
 		t.Errorf("named %d rows; form %s / %s", len(p.Influence.Points), p.Findings.Form, m.Findings.Form)
 	}

@@ -10,8 +10,14 @@
 # analysis/pushdown_pg_test.go (bigTableSQL, the same statement), built
 # in the database by generate_series.
 #
+# With BIVAR_BINS, a list of bivar binaries, the runs alternate between
+# them (run 1 of each, then run 2 of each, …) on the one table, and each
+# binary gets its own figures: to compare a change against the binary
+# before it on a shared machine.
+#
 #   scripts/pg-test.sh scripts/pushdown-bench.sh            # 10⁷ rows
 #   scripts/pg-test.sh scripts/pushdown-bench.sh 1000000    # another size
+#   BIVAR_BINS="/tmp/old /tmp/new" scripts/pg-test.sh scripts/pushdown-bench.sh
 set -euo pipefail
 cd "$(dirname "$0")/.."
 rows=${1:-10000000}
@@ -19,7 +25,11 @@ rows=${1:-10000000}
 [ -x /usr/bin/time ] || { echo "pushdown-bench: needs GNU time (apt-get install time)" >&2; exit 1; }
 tmp=$(mktemp -d)
 trap 'rm -rf "$tmp"' EXIT
-go build -o "$tmp/bivar" ./cmd/bivar
+read -r -a bins <<<"${BIVAR_BINS:-}"
+if [ ${#bins[@]} -eq 0 ]; then
+	go build -o "$tmp/bivar" ./cmd/bivar
+	bins=("$tmp/bivar")
+fi
 psql "$BIVAR_TEST_PG_URL" -q -v ON_ERROR_STOP=1 <<SQL
 DROP TABLE IF EXISTS pdbench;
 CREATE TABLE pdbench (id text, x float8, y float8, z float8, g text, o bigint);
@@ -59,30 +69,43 @@ host=$(printf '%s' "$BIVAR_TEST_PG_URL" | sed -n 's/.*[?&]host=\([^&]*\).*/\1/p'
 log=""
 if [ -n "$host" ] && [ -r "$host/server.log" ]; then
 	log="$host/server.log"
-	export PGOPTIONS="-c log_min_duration_statement=0"
+	# log_statement_stats: the server process's CPU time for each
+	# statement (user + system), steadier than its wall time on a shared
+	# machine.
+	export PGOPTIONS="-c log_min_duration_statement=0 -c log_statement_stats=on"
 fi
-wall=() rss=() logs=()
+declare -A wall rss logs
 for i in 1 2 3; do
-	from=0
-	[ -z "$log" ] || from=$(stat -c %s "$log")
-	/usr/bin/time -v -o "$tmp/time.txt" "$tmp/bivar" run -o "$tmp/out" "$tmp/m.toml" >/dev/null 2>"$tmp/err.txt" || { cat "$tmp/err.txt" >&2; exit 1; }
-	[ -z "$log" ] || { tail -c +"$((from + 1))" "$log" >"$tmp/log$i.txt"; logs+=("$tmp/log$i.txt"); }
-	wall+=("$(awk -F': ' '/Elapsed \(wall clock\)/ {n = split($2, p, ":"); s = 0; for (k = 1; k <= n; k++) s = s * 60 + p[k]; printf "%.2f", s}' "$tmp/time.txt")")
-	rss+=("$(awk -F': ' '/Maximum resident set size/ {printf "%.1f", $2 / 1024}' "$tmp/time.txt")")
+	for b in "${!bins[@]}"; do
+		from=0
+		[ -z "$log" ] || from=$(stat -c %s "$log")
+		/usr/bin/time -v -o "$tmp/time.txt" "${bins[$b]}" run -o "$tmp/out" "$tmp/m.toml" >/dev/null 2>"$tmp/err.txt" || { cat "$tmp/err.txt" >&2; exit 1; }
+		[ -z "$log" ] || { tail -c +"$((from + 1))" "$log" >"$tmp/log$b.$i.txt"; logs[$b]+=" $tmp/log$b.$i.txt"; }
+		wall[$b]+=" $(awk -F': ' '/Elapsed \(wall clock\)/ {n = split($2, p, ":"); s = 0; for (k = 1; k <= n; k++) s = s * 60 + p[k]; printf "%.2f", s}' "$tmp/time.txt")"
+		rss[$b]+=" $(awk -F': ' '/Maximum resident set size/ {printf "%.1f", $2 / 1024}' "$tmp/time.txt")"
+	done
 done
-echo "rows: $rows"
+echo "rows: $rows; load average at the end: $(cut -d' ' -f1-3 /proc/loadavg)"
 echo "database scan, SELECT count(*): median $(printf '%s\n' "${scan[@]}" | median) s (runs: ${scan[*]})"
-echo "bivar run, pushed down: median $(printf '%s\n' "${wall[@]}" | median) s (runs: ${wall[*]}), peak RSS median $(printf '%s\n' "${rss[@]}" | median) MB (runs: ${rss[*]})"
-if [ -n "$log" ]; then
-	echo "server time per statement (median of the runs, ms), in the order bivar sent them:"
-	/usr/bin/python3 - "${logs[@]}" <<'PY'
+for b in "${!bins[@]}"; do
+	read -r -a w <<<"${wall[$b]}"
+	read -r -a r <<<"${rss[$b]}"
+	[ ${#bins[@]} -eq 1 ] || echo "== ${bins[$b]}"
+	echo "bivar run, pushed down: median $(printf '%s\n' "${w[@]}" | median) s (runs: ${w[*]}), peak RSS median $(printf '%s\n' "${r[@]}" | median) MB (runs: ${r[*]})"
+	if [ -n "$log" ]; then
+		echo "server time per statement (median of the runs: wall ms, CPU ms), in the order bivar sent them:"
+		# shellcheck disable=SC2086
+		/usr/bin/python3 - ${logs[$b]} <<'PY'
 import re, statistics, sys
 runs = []
 for name in sys.argv[1:]:
     text = open(name, errors="replace").read()
-    runs.append([(float(m.group(1)), " ".join(m.group(2).split())[:70])
-                 for m in re.finditer(r"duration: ([0-9.]+) ms  execute [^:]*: (.*?)(?=\n\S|\Z)", text, re.S)])
+    # Each execute's duration, then its EXECUTE MESSAGE STATISTICS block.
+    runs.append([(float(m.group(1)), 1000 * (float(m.group(3)) + float(m.group(4))), " ".join(m.group(2).split())[:60])
+                 for m in re.finditer(r"duration: ([0-9.]+) ms  execute [^:]*: (.*?)\n\S.*?EXECUTE MESSAGE STATISTICS.*?!\s+([0-9.]+) s user, ([0-9.]+) s system", text, re.S)])
 for k in range(min(len(r) for r in runs)):
-    print("%10.1f  %s" % (statistics.median(r[k][0] for r in runs), runs[0][k][1]))
+    print("%9.0f %9.0f  %s" % (statistics.median(r[k][0] for r in runs), statistics.median(r[k][1] for r in runs), runs[0][k][2]))
+print("%9.0f %9.0f  (all statements)" % (statistics.median(sum(t for t, _, _ in r) for r in runs), statistics.median(sum(c for _, c, _ in r) for r in runs)))
 PY
-fi
+	fi
+done

@@ -37,7 +37,7 @@ func TestRowsSample(t *testing.T) {
 	}
 	f := Fit{N: 4286, Sxx: 1, Syy: 1, Sxy: 0.5}
 	for _, frac := range []float64{0.001, 0.2} { // 0.001 passes about 4 rows: raised until 300 pass
-		got, err := p.rowsFrom(f, k, frac, math.NaN(), math.NaN())
+		got, err := p.rowsFrom(f, k, frac, math.NaN(), math.NaN(), nil)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -48,5 +48,30 @@ func TestRowsSample(t *testing.T) {
 		if !slices.Equal(ids, want) {
 			t.Errorf("first share %g: the sample's ids differ from ORDER BY … LIMIT: %d rows, first %v, want %v", frac, len(ids), ids[:min(5, len(ids))], want[:5])
 		}
+	}
+}
+
+// A session reads the server's major version from its server_version, as
+// the server itself states it in server_version_num (PostgreSQL's
+// documentation, "Preset Options": major version times 10 000 plus the
+// minor, since version 10), and on PostgreSQL 11 and later (JIT, "JIT
+// Compilation" in the same documentation) runs with its JIT settings.
+func TestSessionSettings(t *testing.T) {
+	ctx, _, url := pgSetup(t)
+	s, err := Open(ctx, Query{Table: "pg_class", Env: "BIVAR_TEST_PG_URL", URL: url})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	r, err := s.rows("SELECT current_setting('server_version_num')::integer / 10000, current_setting('jit_optimize_above_cost'), current_setting('jit_inline_above_cost')")
+	if err != nil {
+		t.Fatal(err)
+	}
+	major := int(Num(r[0][0]))
+	if got := majorVersion(s.ServerVersion); got != major {
+		t.Errorf("server_version %q read as major version %d, server_version_num says %d", s.ServerVersion, got, major)
+	}
+	if major >= 11 && (Text(r[0][1]) != "200000" || Text(r[0][2]) != "200000") {
+		t.Errorf("jit_optimize_above_cost %s, jit_inline_above_cost %s in the session, want 200000", Text(r[0][1]), Text(r[0][2]))
 	}
 }

@@ -128,16 +128,17 @@ func valueSample(xs, ys []float64, m int) rowSample {
 	// input sorted by x need only their runs of equal x ordered.
 	if !inOrder {
 		slices.SortFunc(rows, func(a, b row) int { return cmp.Or(cmp.Compare(a.x, b.x), cmp.Compare(a.y, b.y), cmp.Compare(a.h, b.h)) })
-	}
-	for lo := 0; lo < len(rows); {
-		hi := lo + 1
-		for hi < len(rows) && rows[hi].x == rows[lo].x {
-			hi++
+	} else {
+		for lo := 0; lo < len(rows); {
+			hi := lo + 1
+			for hi < len(rows) && rows[hi].x == rows[lo].x {
+				hi++
+			}
+			if hi-lo > 1 {
+				slices.SortFunc(rows[lo:hi], func(a, b row) int { return cmp.Or(cmp.Compare(a.y, b.y), cmp.Compare(a.h, b.h)) })
+			}
+			lo = hi
 		}
-		if hi-lo > 1 {
-			slices.SortFunc(rows[lo:hi], func(a, b row) int { return cmp.Or(cmp.Compare(a.y, b.y), cmp.Compare(a.h, b.h)) })
-		}
-		lo = hi
 	}
 	out := rowSample{x: make([]float64, len(rows)), y: make([]float64, len(rows)), h: make([]uint64, len(rows))}
 	for j, r := range rows {

@@ -33,9 +33,7 @@ import (
 // The decimal mark, when it is to be detected, is the mark of the first
 // number that shows one; a block parsed before that was settled is parsed
 // again when the join finds it was settled by an earlier block.
-const (
-	blockSize = 1 << 20 // a longer row makes its buffer larger
-)
+const blockSize = 1 << 20 // a longer row makes its buffer larger
 
 // column is one requested header column.
 type column struct {
@@ -707,18 +705,18 @@ func (p *part) cell(cfg *config, ci int, raw string, ln int) (stop bool) {
 // anyway, and a lookup per cell was a tenth of reading a file with a name
 // column.
 func (tp *textPart) add(s string, ln int, group bool, maxLevels int) bool {
-	if !group {
-		tp.spans = append(tp.spans, span{int32(len(tp.arena)), int32(len(s))})
-		tp.arena = append(tp.arena, s...)
-		return false
-	}
-	if sp, ok := tp.seen[s]; ok {
-		tp.spans = append(tp.spans, sp)
-		return false
+	if group {
+		if sp, ok := tp.seen[s]; ok {
+			tp.spans = append(tp.spans, sp)
+			return false
+		}
 	}
 	sp := span{int32(len(tp.arena)), int32(len(s))}
 	tp.arena = append(tp.arena, s...)
 	tp.spans = append(tp.spans, sp)
+	if !group {
+		return false
+	}
 	if tp.seen == nil {
 		tp.seen = map[string]span{}
 	}

@@ -105,7 +105,6 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 		}
 		m := maxExact * (maxExact - 1) / 2
 		checkIndexable("TheilSen", n)
-		method = fmt.Sprintf("theil-sen (median of %d random pairs of %d points)", m, n)
 		// The median without storing the slopes where the stream can be
 		// drawn again should the bracket miss (streamedSlope); else, or
 		// then, every slope is stored and selected over.
@@ -113,7 +112,7 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 			state, err := st.MarshalBinary()
 			if err == nil {
 				if slope, ok := streamedSlope(x, y, m, newPairDraw(n, m, src)); ok {
-					return slope, theilSenIntercept(x, y, slope), method, m
+					return slope, theilSenIntercept(x, y, slope), sampledMethod(m, n), m
 				}
 				if st.UnmarshalBinary(state) != nil {
 					panic("stats: TheilSen: the random source did not take back its own state")
@@ -123,13 +122,18 @@ func theilSen(x, y []float64, maxExact int, src rand.Source) (slope, intercept f
 		slopes = hugepage.Make[float64](m)
 		slopes = slopes[:newPairDraw(n, m, src).slopes(x, y, slopes)]
 		pairs = len(slopes)
-		method = fmt.Sprintf("theil-sen (median of %d random pairs of %d points)", pairs, n)
+		method = sampledMethod(pairs, n)
 	}
 	if len(slopes) == 0 {
 		return nan, nan, method, pairs
 	}
 	slope = medianInPlace(slopes)
 	return slope, theilSenIntercept(x, y, slope), method, pairs
+}
+
+// sampledMethod names Theil–Sen on pairs sampled from n points.
+func sampledMethod(pairs, n int) string {
+	return fmt.Sprintf("theil-sen (median of %d random pairs of %d points)", pairs, n)
 }
 
 // theilSenIntercept is the median of y_i − slope·x_i.
@@ -269,8 +273,8 @@ func stableArgsort(v []float64) []int {
 }
 
 // medianInPlace returns the median of a (mean of the two middle values for
-// an even length), reordering a (or, where bracketMedian answers, not). It returns NaN for an empty a. a must hold
-// no NaN.
+// an even length; a zero as +0), reordering a (or, where bracketMedian
+// answers, not). It returns NaN for an empty a. a must hold no NaN.
 func medianInPlace(a []float64) float64 {
 	n := len(a)
 	if n == 0 {
@@ -350,9 +354,9 @@ const bracketMinN = 1 << 16
 // for selection", Commun. ACM 18(3):165–172, Algorithm 489 SELECT). A
 // sample of s ≈ n^(2/3) values, taken at evenly spaced positions, is
 // sorted and brackets the middle (bracketOf); one pass counts the values
-// below the bracket and keeps those inside it (bracketCount); a selection
-// over the kept values gives the middle when the bracket held it
-// (bracketMiddle). A bracket that misses — possible only for values placed
+// below the bracket and at its ends and keeps those inside it
+// (bracket.count); a selection over the kept values gives the middle when
+// the bracket held it (bracket.middle). A bracket that misses — possible only for values placed
 // in a pattern that fools the evenly spaced sample — is detected by the
 // counts.
 func bracketMedian(a, c []float64, b float64) (float64, bool) {

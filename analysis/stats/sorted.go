@@ -142,7 +142,7 @@ const (
 
 // sortRun orders y and row (one run of equal x, at most runSortMax long)
 // by tieKey(y), stably. Each pair's key is its tieKey with the low runBits
-// bits replaced by its place, so one sort of plain integers (slices.Sort)
+// bits replaced by its place, so one sort of plain integers (sortSpread)
 // orders by the key's high bits and then by place; pairs whose high bits
 // agree but whose full tieKeys differ are then put right by insertion.
 // packed, ys and rs are scratch, returned for reuse; scratch is scratch of
@@ -457,24 +457,15 @@ func (s *Sorted) sample(m int, rng *rand.Rand) (x, y []float64) {
 // OrderOf returns the canonical positions in ascending v[Row[k]], ties by
 // canonical position, where v is a third column in the caller's row order
 // (len(v) = Len(), no NaN): the run order in which residuals are taken,
-// say. When v strictly increases in the caller's order that order is the
-// answer, found by inverting Row; else a stable radix sort.
+// say; by a stable radix sort. (A caller whose v strictly increases in its
+// own order has its rows in that order already and reads them directly, as
+// analysis' run-order figures do.)
 func (s *Sorted) OrderOf(v []float64) []int32 {
 	n := s.Len()
 	if len(v) != n {
 		panic("stats: Sorted.OrderOf: length differs")
 	}
 	pos := hugepage.Make[int32](n)
-	increasing := true
-	for i := 1; i < n && increasing; i++ {
-		increasing = v[i-1] < v[i]
-	}
-	if increasing {
-		for k, i := range s.Row {
-			pos[i] = int32(k)
-		}
-		return pos
-	}
 	keys := hugepage.Make[uint64](n)
 	for k, i := range s.Row {
 		keys[k] = floatKey(v[i])

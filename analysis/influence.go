@@ -56,15 +56,17 @@ func rankFlagged(x, y []float64, name func(int) string) func(a, b flagged) int {
 }
 
 // influence fills the influence summary and the sensitivity figures, and
-// returns the CSV of every flagged row (nil when none is).
+// returns the CSV of the first fileMax rows flagged outlier, influential
+// or sole support by ranking (nil when none is; see flaggedCSV; a study
+// passes FlaggedFileMax).
 //
 // Flags follow findings.FlagRulesFor. Rows flagged outlier, influential or sole
 // support (findings.FlagSet.Suspect) may be named: the first namedMax of
 // them by ranking are, with all their measures and the line without each;
 // the rest are counted. A row only of high leverage is far out in x but on
-// the line: good data, counted and never named. "Without the flagged rows"
+// the line: good data, counted, never named and not listed in the CSV. "Without the flagged rows"
 // leaves out every suspect row, named or not.
-func influence(x, y []float64, name func(int) string, th report.Thresholds, namedMax int, conf float64,
+func influence(x, y []float64, name func(int) string, th report.Thresholds, namedMax, fileMax int, conf float64,
 	mom stats.Moments, all stats.Correlation, line stats.LineFit) (*report.Influence, *report.Sensitivity, []byte) {
 	n := len(x)
 	li := stats.NewLineInfluence(x, y)
@@ -126,11 +128,11 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 		if f&findings.BitSoleSupport != 0 {
 			c.SoleSupport++
 		}
-		if f.Suspect() {
-			c.Suspect++
-		} else {
-			c.LeverageOnly++
+		if !f.Suspect() {
+			c.LeverageOnly++ // good data: counted, never named nor listed
+			continue
 		}
+		c.Suspect++
 		d := r.CooksD
 		if math.IsNaN(d) {
 			d = math.Inf(1)
@@ -154,9 +156,6 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 		if len(in.Points) == namedMax {
 			break
 		}
-		if !fr.flags.Suspect() {
-			continue
-		}
 		i := fr.i
 		r := li.At(i)
 		row := name(i)
@@ -179,9 +178,7 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	} else {
 		drop = make([]int, 0, c.Suspect)
 		for _, fr := range rows {
-			if fr.flags.Suspect() {
-				drop = append(drop, fr.i)
-			}
+			drop = append(drop, fr.i)
 		}
 		slices.Sort(drop)
 		// Few rows out and the rest holding most of the spread: the kept
@@ -228,6 +225,7 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	}
 	var csv []byte
 	if len(rows) > 0 {
+		rows = rows[:min(len(rows), fileMax)]
 		csv = flaggedCSV(rows, x, y, li, name)
 		in.FileRows = len(rows)
 	}
@@ -255,10 +253,19 @@ func nanToInf(v float64) float64 {
 var flaggedCSVHeader = []string{"row", "x", "y", "flags", "leverage", "studentized_residual", "deleted_residual_t",
 	"cooks_distance", "dffits", "r_without_row", "slope_without_row", "intercept_without_row", "rank"}
 
-// flaggedCSV writes every flagged row, in the ranking's order, with all its
-// measures (rank is the row's place in that order among all flagged rows,
-// rows of high leverage only included, so it can differ from the place of
-// a named row among the named): RFC 4180 CSV, comma-separated, numbers in Go's shortest
+// FlaggedFileMax is the most rows a study's flagged-rows file lists: the
+// first by the ranking when more rows are flagged outlier, influential or
+// sole support. Under the model the flag rules expect about none of them
+// by chance at any n (the outlier cut is Bonferroni-bounded), so the cap
+// only bites on data that are largely off the line, where a longer list
+// would not say more than the counts; 10⁵ rows of the file are about
+// 20 MB and fit a spreadsheet (Excel holds 1 048 576 rows).
+const FlaggedFileMax = 100_000
+
+// flaggedCSV writes the rows flagged outlier, influential or sole support
+// (rows only of high leverage are good data, counted and not listed), in
+// the ranking's order, with all their measures (rank is the row's place in
+// that order, the same as a named row's place among the named): RFC 4180 CSV, comma-separated, numbers in Go's shortest
 // round-trip form, an empty cell for an undefined measure, flags joined by
 // "+". A row name that could be read as a spreadsheet formula is prefixed
 // with an apostrophe (OWASP's advice on CSV injection).

@@ -50,12 +50,12 @@ func TestInfluenceCountsAndTies(t *testing.T) {
 	x[10], y[10] = 5, 40
 	x[300], y[300] = 5, 40
 	x[200], y[200] = 60, 2+0.5*60
-	run := func(x, y []float64, name func(int) string, named int) (*report.Influence, []byte) {
+	run := func(x, y []float64, name func(int) string, named, fileMax int) (*report.Influence, []byte) {
 		line, err := stats.Line(x, y, 0.95)
 		if err != nil {
 			t.Fatal(err)
 		}
-		in, _, csvb := influence(x, y, name, findings.DefaultThresholds(), named, 0.95, stats.CentredMoments(x, y), stats.Pearson(x, y, 0.95), line)
+		in, _, csvb := influence(x, y, name, findings.DefaultThresholds(), named, fileMax, 0.95, stats.CentredMoments(x, y), stats.Pearson(x, y, 0.95), line)
 		return in, csvb
 	}
 	name := func(j int) string {
@@ -67,7 +67,7 @@ func TestInfluenceCountsAndTies(t *testing.T) {
 		}
 		return "row" + strings.Repeat("x", j%3)
 	}
-	in, csvb := run(x, y, name, 25)
+	in, csvb := run(x, y, name, 25, FlaggedFileMax)
 	c := in.Counts
 	if c.Flagged != c.Suspect+c.LeverageOnly || c.Named != len(in.Points) || c.Suspect < 2 {
 		t.Errorf("counts %+v", c)
@@ -87,15 +87,34 @@ func TestInfluenceCountsAndTies(t *testing.T) {
 		}
 		return name(j)
 	}
-	in2, _ := run(rx, ry, swapped, 25)
+	in2, _ := run(rx, ry, swapped, 25, FlaggedFileMax)
 	if in2.Points[0].Row != "U-A" {
 		t.Errorf("after reordering the rows, %s is named first; want U-A", in2.Points[0].Row)
 	}
-	recs, err := csv.NewReader(strings.NewReader(string(csvb))).ReadAll()
-	if err != nil || len(recs) != c.Flagged+1 {
-		t.Errorf("flagged CSV: %d records (%v), want a header and %d rows", len(recs), err, c.Flagged)
+	// The CSV lists the suspect rows, not the row only of high leverage
+	// (row 200, far out in x on the line: good data, counted).
+	if c.LeverageOnly < 1 {
+		t.Errorf("counts %+v: want row 200 counted as high leverage only", c)
 	}
-	if none, _ := run(x, y, name, 0); len(none.Points) != 0 || none.Counts.Suspect != c.Suspect {
+	recs, err := csv.NewReader(strings.NewReader(string(csvb))).ReadAll()
+	if err != nil || len(recs) != c.Suspect+1 || in.FileRows != c.Suspect {
+		t.Errorf("flagged CSV: %d records (%v), file_rows %d, want a header and %d rows", len(recs), err, in.FileRows, c.Suspect)
+	}
+	for k, rec := range recs[1:] {
+		if !strings.Contains(rec[3], "outlier") && !strings.Contains(rec[3], "influential") && !strings.Contains(rec[3], "sole-support") {
+			t.Errorf("CSV row %d (%s) flagged %q: want only rows flagged outlier, influential or sole support", k+1, rec[0], rec[3])
+		}
+		if rec[1] == "60" {
+			t.Errorf("CSV lists row 200 (x = 60, on the line), which is of high leverage only")
+		}
+	}
+	// A cap of one row keeps the first by the ranking, the first named.
+	one, oneb := run(x, y, name, 25, 1)
+	recs, err = csv.NewReader(strings.NewReader(string(oneb))).ReadAll()
+	if err != nil || len(recs) != 2 || one.FileRows != 1 || recs[1][0] != one.Points[0].Row || recs[1][12] != "1" {
+		t.Errorf("file cap 1: %d records (%v), file_rows %d; want the header and the first named row %s", len(recs), err, one.FileRows, one.Points[0].Row)
+	}
+	if none, _ := run(x, y, name, 0, FlaggedFileMax); len(none.Points) != 0 || none.Counts.Suspect != c.Suspect {
 		t.Errorf("named_rows 0: %d named, %d suspect; want none named and the same counts", len(none.Points), none.Counts.Suspect)
 	}
 }

@@ -261,7 +261,7 @@ func analyze(in Input, cfg Config) report.Study {
 	var diag *report.Diagnostics
 	var flaggedCSV []byte
 	task(&wg)(func() {
-		s.Influence, s.Sensitivity, flaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), conf, m, pc, line)
+		s.Influence, s.Sensitivity, flaggedCSV = influence(x, y, cc.name, cfg.Thresholds, cfg.namedMax(), FlaggedFileMax, conf, m, pc, line)
 	})
 	smp := studySample(ps, cfg)
 	task(&wg)(func() { diag = diagnostics(x, y, smp, ps, line, order, cfg) })
@@ -583,7 +583,8 @@ func (cc *cases) name(j int) string {
 }
 
 // FlaggedFile is the name of the CSV file, beside the report, that lists
-// every flagged row of the study with the given id.
+// the rows of the study with the given id flagged outlier, influential or
+// sole support.
 func FlaggedFile(studyID string) string { return studyID + "-flagged.csv" }
 
 // completeColumns lists the columns a complete case needs, for messages.

@@ -88,7 +88,9 @@ func writePlanted(t *testing.T, dir string, n int) planted {
 //   - the report stays bounded: report.html under 2 MB, results.json under
 //     1 MB, at most output.named_rows rows named and at most 10 labelled in
 //     a chart (a size test, not a timing test);
-//   - the CSV beside the report lists every flagged row.
+//   - the CSV beside the report lists the rows flagged outlier,
+//     influential or sole support, the planted ones among them, and no
+//     row of high leverage only.
 //
 // The outlier rule's Bonferroni bound at n = 10⁵ is t(1 − 0.05/(2n), n − 3)
 // = 5.0266 (scipy 1.10.1 scipy.stats.t.isf(0.05/2e5, 99997) = 5.026642890248716), so
@@ -184,10 +186,10 @@ order = "t"
 					t.Errorf("a chart labels %d rows, want at most %d", k, report.LabelMax)
 				}
 			}
-			// The CSV lists every flagged row, the planted ones among them.
+			// The CSV lists every suspect row, the planted ones among them.
 			recs := reference.ReadCSV(t, filepath.Join(out, in.File))
-			if len(recs)-1 != in.Counts.Flagged || in.FileRows != in.Counts.Flagged {
-				t.Errorf("CSV has %d rows, file_rows %d, want every flagged row (%d)", len(recs)-1, in.FileRows, in.Counts.Flagged)
+			if len(recs)-1 != in.Counts.Suspect || in.FileRows != in.Counts.Suspect {
+				t.Errorf("CSV has %d rows, file_rows %d, want every row flagged outlier, influential or sole support (%d)", len(recs)-1, in.FileRows, in.Counts.Suspect)
 			}
 			inCSV := map[string]bool{}
 			for _, rec := range recs[1:] {

@@ -487,7 +487,11 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 		sec.After = append(sec.After, "Order of the named rows: "+in.Ranking+".")
 	}
 	if in.File != "" {
-		sec.After = append(sec.After, fmt.Sprintf("Flagged rows (%d) with every measure: %s.", in.FileRows, in.File))
+		if in.FileRows < c.Suspect {
+			sec.After = append(sec.After, fmt.Sprintf("The first %d of the %d rows flagged outlier, influential or sole support, with every measure: %s.", in.FileRows, c.Suspect, in.File))
+		} else {
+			sec.After = append(sec.After, fmt.Sprintf("Rows flagged outlier, influential or sole support (%d), with every measure: %s.", in.FileRows, in.File))
+		}
 	}
 	return sec, nil
 }

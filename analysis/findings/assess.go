@@ -1164,8 +1164,12 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 			plural(in.Counts.LeverageOnly, "One row lies", fmt.Sprintf("%d rows lie", in.Counts.LeverageOnly)))
 	}
 	if in := s.Influence; in != nil && in.Counts.Suspect > len(in.Points) && len(in.Points) > 0 {
-		add("The report names the first %d of the %d rows flagged as %s (%s); every flagged row, with all its measures, is listed in %s.",
-			len(in.Points), in.Counts.Suspect, suspectWords, in.Ranking, in.File)
+		listed := "each of them, with all its measures, is listed in"
+		if in.FileRows < in.Counts.Suspect {
+			listed = fmt.Sprintf("the first %d, with all their measures, are listed in", in.FileRows)
+		}
+		add("The report names the first %d of the %d rows flagged as %s (%s); %s %s.",
+			len(in.Points), in.Counts.Suspect, suspectWords, in.Ranking, listed, in.File)
 	}
 	if s.Influence != nil && s.N > params+1 {
 		add("Flag rules for these %d rows: outlier when the externally studentized residual exceeds %s in size (the larger of %s and the Bonferroni bound); high leverage above %s (%s·2/n); influential when Cook's distance exceeds %s (the %s quantile of F(2, %d)).",

@@ -249,9 +249,10 @@ type Study struct {
 	Plot         *Plot         `json:"-"` // what the charts draw (bounded); not in results.json
 
 	// FlaggedCSV is the content of the CSV file named by Influence.File:
-	// every flagged row with all its measures. It is not in results.json
-	// and renderers do not read it; the command writes it beside the
-	// report. nil when no row is flagged.
+	// the rows flagged outlier, influential or sole support with all their
+	// measures. It is not in results.json and renderers do not read it;
+	// the command writes it beside the report. nil when no row is so
+	// flagged.
 	FlaggedCSV []byte `json:"-"`
 }
 
@@ -530,8 +531,11 @@ type Influence struct {
 	Points []Point `json:"points"`
 
 	// File is the name of the CSV file written beside the report that
-	// lists every flagged row with all its measures ("" when no row is
-	// flagged); FileRows is the number of rows in it.
+	// lists the rows flagged outlier, influential or sole support with all
+	// their measures, ranked by Ranking ("" when no row is); FileRows is
+	// the number of rows in it: Counts.Suspect, or the first
+	// analysis.FlaggedFileMax when more rows are. Rows only of high
+	// leverage are counted, not listed.
 	File     string `json:"file"`
 	FileRows int    `json:"file_rows"`
 }

@@ -297,8 +297,12 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	}
 	var header []string
 	var herr error
+	var wb *dataset.Workbook // opened once for the header and the cells
 	if workbook {
-		header, herr = dataset.WorkbookHeader(path, sheet, headerRow, &lim)
+		if wb, herr = dataset.OpenWorkbook(path, &lim); herr == nil {
+			defer wb.Close()
+			header, herr = wb.Header(sheet, headerRow)
+		}
 	} else {
 		header, herr = dataset.Header(path, opts.Delimiter)
 	}
@@ -317,9 +321,12 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	numeric, text = keep(numeric), keep(text)
 	var t *dataset.Table
 	var err error
-	if workbook {
-		t, err = dataset.ReadWorkbook(path, sheet, headerRow, opts, numeric, text)
-	} else {
+	switch {
+	case workbook && wb == nil:
+		err = herr // the workbook could not be opened
+	case workbook:
+		t, err = wb.Read(sheet, headerRow, opts, numeric, text)
+	default:
 		t, err = dataset.Read(path, opts, numeric, text)
 	}
 	if err != nil {

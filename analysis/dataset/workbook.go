@@ -1,9 +1,11 @@
 package dataset
 
-// This file reads Excel workbooks (.xlsx, .xlsm) with
-// github.com/xuri/excelize/v2.
+// This file reads Excel workbooks (.xlsx, .xlsm), their parts and cells
+// streamed by sheetxml.go; the tests check every cell against
+// github.com/xuri/excelize/v2's reading of the same workbooks.
 
 import (
+	"archive/zip"
 	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
@@ -48,14 +50,14 @@ func IsExcelError(s string) bool { return slices.Contains(excelErrors, s) }
 type Workbook struct {
 	path   string
 	sha    string
-	f      *excelize.File
+	pkg    *sheetPackage
 	sheets []string
 }
 
 // OpenWorkbook reads the workbook at path (a regular file of at most
-// lim.MaxBytes; nil means DefaultLimits) and hashes its bytes. The
-// unzipped content is bounded too, at 64 times MaxBytes, so that a small
-// file that unpacks to gigabytes is refused.
+// lim.MaxBytes; nil means DefaultLimits), hashes its bytes and reads its
+// list of sheets. Each part is bounded when unpacked too, at 64 times
+// MaxBytes, so that a small file that unpacks to gigabytes is refused.
 func OpenWorkbook(path string, lim *Limits) (*Workbook, error) {
 	l := DefaultLimits()
 	if lim != nil {
@@ -84,20 +86,26 @@ func OpenWorkbook(path string, lim *Limits) (*Workbook, error) {
 		return nil, sizeError(path, 0, l.MaxBytes)
 	}
 	sum := sha256.Sum256(data)
-	unzip := min(l.MaxBytes, math.MaxInt64/64) * 64
-	f, err := excelize.OpenReader(bytes.NewReader(data), excelize.Options{UnzipSizeLimit: unzip, UnzipXMLSizeLimit: min(unzip, 16<<20)})
+	pkg, err := openSheetPackage(data, uint64(min(l.MaxBytes, math.MaxInt64/64))*64)
 	if err != nil {
-		msg := "cannot read the workbook: " + err.Error() + "; check that it is an Excel workbook (.xlsx, saved by a spreadsheet program) and not password-protected, or export the sheet as CSV"
-		if errors.Is(err, excelize.ErrWorkbookFileFormat) || strings.Contains(err.Error(), "zip") {
+		msg := "cannot read the workbook: " + err.Error() + "; check that it is an Excel workbook (.xlsx, saved by a spreadsheet program), or open it in one, save it again as .xlsx, or export the sheet as CSV"
+		switch {
+		case bytes.HasPrefix(data, oleMagic):
+			msg = "cannot read the workbook: it is an OLE compound file, not a zip archive: a password-protected (encrypted) workbook or an older .xls file; remove the password or save it as .xlsx in a spreadsheet program, or export the sheet as CSV"
+		case errors.Is(err, zip.ErrFormat) || errors.Is(err, zip.ErrAlgorithm):
 			msg = "cannot read the workbook: it is not an .xlsx file (an .xlsx file is a zip archive); if it is an older .xls or an .ods file, open it in a spreadsheet program and save it as .xlsx, or export the sheet as CSV"
 		}
 		return nil, &Error{File: path, Msg: msg, err: err}
 	}
-	return &Workbook{path: path, sha: hex.EncodeToString(sum[:]), f: f, sheets: f.GetSheetList()}, nil
+	return &Workbook{path: path, sha: hex.EncodeToString(sum[:]), pkg: pkg, sheets: pkg.order}, nil
 }
 
+// oleMagic starts an OLE compound file (MS-CFB §2.2): an encrypted .xlsx
+// (MS-OFFCRYPTO) or a legacy .xls.
+var oleMagic = []byte{0xD0, 0xCF, 0x11, 0xE0, 0xA1, 0xB1, 0x1A, 0xE1}
+
 // Close releases the workbook.
-func (w *Workbook) Close() error { return w.f.Close() }
+func (w *Workbook) Close() error { return nil }
 
 // SHA256 is the hex SHA-256 of the workbook file's bytes.
 func (w *Workbook) SHA256() string { return w.sha }
@@ -135,85 +143,147 @@ func (w *Workbook) sheet(ref SheetRef) (string, error) {
 	return w.sheets[ref.Number-1], nil
 }
 
-// grid is one sheet's cells as text (raw values: numbers as stored, the
-// cached value of a formula, an error's text), with its header resolved.
-type grid struct {
-	sheet     string
-	headerRow int        // 1-based
-	names     []string   // header names, by 0-based column
-	rows      [][]string // the data rows, rows[0] is sheet row headerRow+1
-}
+// mergeRange is a merged range of cells, 1-based and inclusive.
+type mergeRange struct{ c1, r1, c2, r2 int }
 
-// readGrid reads sheet ref, settles the header row (headerRow, 1-based;
-// 0 means the first row with any non-empty cell) and drops empty rows at
-// the end. A header cell inside a merged range takes the range's value;
+// readSheet reads sheet ref row by row (sheetPackage.rows). It settles the
+// header row (headerRow, 1-based; 0 means the first row with any
+// non-blank cell), names the columns and passes them to header, which
+// returns whether to read on; then it passes each data row that has a
+// non-blank cell to data, with its 0-based index among the rows after the
+// header (rows after the last non-blank one are never passed). A header
+// cell inside a merged range takes the text of the range's first cell;
 // the second and later columns of a range merged across columns are named
 // "NAME (2)", "NAME (3)", … so that each column keeps a distinct name.
-func (w *Workbook) readGrid(ref SheetRef, headerRow int) (*grid, error) {
+func (w *Workbook) readSheet(ref SheetRef, headerRow int, header func(sheet string, headerRow int, names []string) (bool, error),
+	data func(r int, cells []sheetCell) error) error {
 	sheet, err := w.sheet(ref)
 	if err != nil {
-		return nil, err
+		return err
 	}
-	it, err := w.f.Rows(sheet)
+	fail := func(what string, err error) error {
+		return &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet" + what + ": " + err.Error(), err: err}
+	}
+	part, ok := w.pkg.sheets[sheet]
+	if !ok {
+		return fail("", errors.New("the workbook lists it but holds no worksheet part for it (is it a chart sheet?)"))
+	}
+	refs, err := w.pkg.mergeRefs(part)
 	if err != nil {
-		return nil, &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet: " + err.Error(), err: err}
+		return fail("'s merged cells", err)
 	}
-	var rows [][]string
-	for it.Next() {
-		r, err := it.Columns(excelize.Options{RawCellValue: true})
-		if err != nil {
-			it.Close()
-			return nil, &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet: " + err.Error(), err: err}
+	var merges []mergeRange
+	first := map[[2]int]string{} // the text of each range's first cell, once read
+	for _, r := range refs {
+		a, b, _ := strings.Cut(r, ":")
+		if b == "" {
+			b = a
 		}
-		rows = append(rows, r)
-	}
-	if err := it.Close(); err != nil {
-		return nil, &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet: " + err.Error(), err: err}
-	}
-	empty := func(r []string) bool {
-		for _, c := range r {
-			if strings.TrimSpace(c) != "" {
-				return false
-			}
+		c1, r1, err1 := excelize.CellNameToCoordinates(a)
+		c2, r2, err2 := excelize.CellNameToCoordinates(b)
+		if err1 != nil || err2 != nil {
+			continue
 		}
-		return true
+		merges = append(merges, mergeRange{c1, r1, c2, r2})
+		first[[2]int{r1, c1 - 1}] = ""
 	}
-	for len(rows) > 0 && empty(rows[len(rows)-1]) {
-		rows = rows[:len(rows)-1]
-	}
-	if headerRow == 0 {
-		for i, r := range rows {
-			if !empty(r) {
-				headerRow = i + 1
+
+	settled, headerBlank, stop := false, false, false
+	var pending error // the header's error, when it waits for the header_row check
+	last := 0         // the last sheet row with a non-blank cell
+	err = w.pkg.rows(part, func(row int, cells []sheetCell) (bool, error) {
+		blank := true
+		for _, c := range cells {
+			if len(bytes.TrimSpace(c.v)) > 0 {
+				blank = false
 				break
 			}
 		}
-		if headerRow == 0 {
-			return nil, &Error{File: w.path, Sheet: sheet, Msg: "the sheet is empty: it needs a header row naming the columns; choose another sheet with sheet = \"…\""}
+		if !blank {
+			last = row
 		}
-	}
-	if headerRow > len(rows) {
-		return nil, &Error{File: w.path, Sheet: sheet, Msg: fmt.Sprintf("header_row = %d, but the sheet's last non-empty row is %d: set header_row to the row that names the columns", headerRow, len(rows))}
-	}
-	header := slices.Clone(rows[headerRow-1])
-	merged, err := w.f.GetMergeCells(sheet)
+		if !settled {
+			for _, c := range cells {
+				if _, ok := first[[2]int{row, c.col}]; ok {
+					first[[2]int{row, c.col}] = string(c.v)
+				}
+			}
+			if headerRow == 0 && blank || row < headerRow {
+				return false, nil
+			}
+			if headerRow == 0 {
+				headerRow = row
+			}
+			var hc []sheetCell // the header row's cells (none when it has no row element)
+			if row == headerRow {
+				hc = cells
+			}
+			settled, headerBlank = true, row != headerRow || blank
+			more, err := header(sheet, headerRow, headerNames(hc, merges, first, headerRow))
+			switch {
+			case err != nil && !headerBlank:
+				return true, err
+			case err != nil:
+				pending, stop = err, true
+			case !more && !headerBlank:
+				return true, nil
+			case !more:
+				stop = true
+			}
+			if row == headerRow {
+				return false, nil
+			}
+		}
+		if blank {
+			return false, nil
+		}
+		if stop {
+			// Read only to learn that a non-blank row follows a blank header.
+			return true, nil
+		}
+		return false, data(row-headerRow-1, cells)
+	})
 	if err != nil {
-		return nil, &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet's merged cells: " + err.Error(), err: err}
+		var e *Error
+		if errors.As(err, &e) {
+			return err
+		}
+		return fail("", err)
 	}
-	for _, m := range merged {
-		c1, r1, err1 := excelize.CellNameToCoordinates(m.GetStartAxis())
-		c2, r2, err2 := excelize.CellNameToCoordinates(m.GetEndAxis())
-		if err1 != nil || err2 != nil || headerRow < r1 || headerRow > r2 {
+	switch {
+	case !settled && headerRow == 0:
+		return &Error{File: w.path, Sheet: sheet, Msg: "the sheet is empty: it needs a header row naming the columns; choose another sheet with sheet = \"…\""}
+	case !settled || headerBlank && last < headerRow:
+		return &Error{File: w.path, Sheet: sheet, Msg: fmt.Sprintf("header_row = %d, but the sheet's last non-empty row is %d: set header_row to the row that names the columns", headerRow, last)}
+	}
+	return pending
+}
+
+// headerNames names the columns from the header row's cells and the
+// merged ranges over it (see readSheet).
+func headerNames(cells []sheetCell, merges []mergeRange, first map[[2]int]string, headerRow int) []string {
+	var header []string
+	for _, c := range cells {
+		if len(c.v) == 0 {
+			continue // as excelize's row reading: an empty cell adds no column
+		}
+		for len(header) < c.col {
+			header = append(header, "")
+		}
+		header = append(header, string(c.v))
+	}
+	for _, m := range merges {
+		if headerRow < m.r1 || headerRow > m.r2 {
 			continue
 		}
-		v := strings.TrimSpace(m.GetCellValue())
-		for c := c1; c <= c2; c++ {
+		v := strings.TrimSpace(first[[2]int{m.r1, m.c1 - 1}])
+		for c := m.c1; c <= m.c2; c++ {
 			for len(header) < c {
 				header = append(header, "")
 			}
 			name := v
-			if c > c1 && v != "" {
-				name = fmt.Sprintf("%s (%d)", v, c-c1+1)
+			if c > m.c1 && v != "" {
+				name = fmt.Sprintf("%s (%d)", v, c-m.c1+1)
 			}
 			header[c-1] = name
 		}
@@ -222,7 +292,7 @@ func (w *Workbook) readGrid(ref SheetRef, headerRow int) (*grid, error) {
 	for i, h := range header {
 		names[i] = strings.TrimSpace(h)
 	}
-	return &grid{sheet: sheet, headerRow: headerRow, names: names, rows: rows[headerRow:]}, nil
+	return names
 }
 
 // cellRef is the A1 reference of a 0-based column and 1-based row.
@@ -234,18 +304,27 @@ func cellRef(col, row int) string {
 	return s
 }
 
-// WorkbookHeader returns the column names of the sheet's header row.
+// WorkbookHeader returns the column names of the sheet's header row. It
+// reads the sheet only as far as the header (and, to find the merged
+// ranges, which follow the cells, the sheet's part once more).
 func WorkbookHeader(path string, ref SheetRef, headerRow int, lim *Limits) ([]string, error) {
 	w, err := OpenWorkbook(path, lim)
 	if err != nil {
 		return nil, err
 	}
 	defer w.Close()
-	g, err := w.readGrid(ref, headerRow)
-	if err != nil {
-		return nil, err
-	}
-	return g.names, nil
+	return w.Header(ref, headerRow)
+}
+
+// Header returns the column names of the sheet's header row; see
+// WorkbookHeader.
+func (w *Workbook) Header(ref SheetRef, headerRow int) ([]string, error) {
+	var names []string
+	err := w.readSheet(ref, headerRow, func(_ string, _ int, n []string) (bool, error) {
+		names = n
+		return false, nil
+	}, nil)
+	return names, err
 }
 
 // ReadWorkbook reads the columns named in numeric and text from one sheet
@@ -272,121 +351,179 @@ func ReadWorkbook(path string, ref SheetRef, headerRow int, opts Options, numeri
 	return w.Read(ref, headerRow, opts, numeric, text)
 }
 
+// colRead is one selected column while a sheet is read.
+type colRead struct {
+	*column
+	nums      []float64
+	texts     Strings
+	levels    map[string]bool
+	nMissing  int
+	nNon      int
+	firstNon  *Error // the column's first non-numeric cell
+	levelsErr *Error // the group value past the limit of levels
+}
+
 // Read reads one sheet of an opened workbook; see ReadWorkbook.
 func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text []string) (*Table, error) {
 	lim := DefaultLimits()
 	if opts.Limits != nil {
 		lim = *opts.Limits
 	}
-	g, err := w.readGrid(ref, headerRow)
-	if err != nil {
-		return nil, err
-	}
-	cols, err := selectColumns(w.path, g.names, numeric, text)
-	if err != nil {
-		var e *Error
-		if errors.As(err, &e) {
-			e.Sheet, e.Line = g.sheet, 0
-			e.Msg = strings.Replace(e.Msg, "the header has", fmt.Sprintf("the header (row %d) has", g.headerRow), 1)
-			if e.Column != "" {
-				if i := slices.Index(g.names, e.Column); i >= 0 {
-					e.Cell = cellRef(i, g.headerRow)
-				}
-			}
-		}
-		return nil, err
-	}
-	if len(g.rows) > lim.MaxRows {
-		return nil, &Error{File: w.path, Sheet: g.sheet, Msg: fmt.Sprintf("the sheet has %d data rows, more than the limit of %d: check that it is the sheet meant; if it is, raise max_rows for the dataset", len(g.rows), lim.MaxRows)}
-	}
 	missing := opts.Missing
 	if missing == nil {
 		missing = DefaultMissing()
 	}
-	t := &Table{File: w.path, SHA256: w.sha, Rows: len(g.rows), Sheet: g.sheet, HeaderRow: g.headerRow,
-		Numeric: map[string][]float64{}, Text: map[string]Strings{},
+	t := &Table{File: w.path, SHA256: w.sha, Numeric: map[string][]float64{}, Text: map[string]Strings{},
 		Missing: map[string]int{}, NonNumeric: map[string]int{}, CellErrors: map[string]map[string]int{}}
-	for _, c := range cols {
-		c.group = c.text && slices.Contains(opts.Groups, c.name)
-		var nums []float64
-		var texts []string
-		if c.numeric {
-			nums = make([]float64, len(g.rows))
+	var cols []*colRead
+	var slot []int // sheet column → index in cols, −1 for a column not read
+	var cell [][]byte
+	rows := 0 // data rows so far, up to the last with a non-blank cell
+	over := false
+
+	// put reads one cell of column c in data row r.
+	put := func(c *colRead, r int, b []byte) {
+		b = bytes.TrimSpace(b)
+		isErr := len(b) > 0 && b[0] == '#' && IsExcelError(string(b))
+		isMissing := isErr
+		for _, m := range missing {
+			if isMissing || string(b) == m {
+				isMissing = true
+				break
+			}
+		}
+		if isErr {
+			if t.CellErrors[c.name] == nil {
+				t.CellErrors[c.name] = map[string]int{}
+			}
+			t.CellErrors[c.name][string(b)]++
+		}
+		if isMissing {
+			c.nMissing++
 		}
 		if c.text {
-			texts = make([]string, len(g.rows))
-		}
-		levels := map[string]bool{}
-		nMissing, nNon := 0, 0
-		var firstNon *Error
-		for r, row := range g.rows {
-			cell := ""
-			if c.index < len(row) {
-				cell = strings.TrimSpace(row[c.index])
-			}
-			isErr := IsExcelError(cell)
-			isMissing := isErr || slices.Contains(missing, cell)
+			tb := b
 			if isErr {
-				if t.CellErrors[c.name] == nil {
-					t.CellErrors[c.name] = map[string]int{}
-				}
-				t.CellErrors[c.name][cell]++
+				tb = nil
 			}
-			if isMissing {
-				nMissing++
+			if !c.texts.add(string(tb)) && c.levelsErr == nil {
+				c.levelsErr = &Error{File: w.path, Sheet: t.Sheet, Cell: cellRef(c.index, t.HeaderRow+1+r), Column: c.name,
+					Msg: fmt.Sprintf("the column's text passes %d bytes, the most bivar holds in one column: use a column with shorter values", MaxTextBytes)}
 			}
-			if c.text {
-				if isErr {
-					texts[r] = ""
-				} else {
-					texts[r] = cell
+			if c.group && !isMissing && c.levelsErr == nil && !c.levels[string(b)] {
+				v := string(b)
+				c.levels[v] = true
+				if len(c.levels) > lim.MaxLevels {
+					c.levelsErr = &Error{File: w.path, Sheet: t.Sheet, Cell: cellRef(c.index, t.HeaderRow+1+r), Column: c.name, Text: cellText(v),
+						Msg: fmt.Sprintf("a group column may hold at most %d distinct values, and %s in this cell is one more: a group names machines, lots or shifts; if this column identifies rows or holds measurements, group by another column, and if it really is a grouping, raise max_levels for the dataset", lim.MaxLevels, quoteCell(v))}
 				}
-				if c.group && !isMissing && !levels[cell] {
-					levels[cell] = true
-					if len(levels) > lim.MaxLevels {
-						return nil, &Error{File: w.path, Sheet: g.sheet, Cell: cellRef(c.index, g.headerRow+1+r), Column: c.name, Text: cellText(cell),
-							Msg: fmt.Sprintf("a group column may hold at most %d distinct values, and %s in this cell is one more: a group names machines, lots or shifts; if this column identifies rows or holds measurements, group by another column, and if it really is a grouping, raise max_levels for the dataset", lim.MaxLevels, quoteCell(cell))}
+			}
+		}
+		if !c.numeric {
+			return
+		}
+		if isMissing {
+			c.nums = append(c.nums, math.NaN())
+			return
+		}
+		v, err := strconv.ParseFloat(string(b), 64)
+		if err == nil && !math.IsInf(v, 0) && !math.IsNaN(v) {
+			c.nums = append(c.nums, v)
+			return
+		}
+		c.nums = append(c.nums, math.NaN())
+		if opts.NonNumericAsMissing {
+			c.nNon++
+			return
+		}
+		if c.firstNon == nil {
+			s := string(b)
+			c.firstNon = &Error{File: w.path, Sheet: t.Sheet, Cell: cellRef(c.index, t.HeaderRow+1+r), Column: c.name, Text: cellText(s),
+				Msg: quoteCell(s) + ` is not a number; correct the cell (a number stored as text with units or separators shows this), add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}
+		} else {
+			c.nNon++
+		}
+	}
+
+	err := w.readSheet(ref, headerRow, func(sheet string, headerRow int, names []string) (bool, error) {
+		t.Sheet, t.HeaderRow = sheet, headerRow
+		sel, err := selectColumns(w.path, names, numeric, text)
+		if err != nil {
+			var e *Error
+			if errors.As(err, &e) {
+				e.Sheet, e.Line = sheet, 0
+				e.Msg = strings.Replace(e.Msg, "the header has", fmt.Sprintf("the header (row %d) has", headerRow), 1)
+				if e.Column != "" {
+					if i := slices.Index(names, e.Column); i >= 0 {
+						e.Cell = cellRef(i, headerRow)
 					}
 				}
 			}
-			if !c.numeric {
-				continue
+			return false, err
+		}
+		for _, c := range sel {
+			c.group = c.text && slices.Contains(opts.Groups, c.name)
+			cr := &colRead{column: c, levels: map[string]bool{}, nums: []float64{}, texts: Strings{end: []uint32{}}}
+			cols = append(cols, cr)
+			for len(slot) <= c.index {
+				slot = append(slot, -1)
 			}
-			if isMissing {
-				nums[r] = math.NaN()
-				continue
-			}
-			v, err := strconv.ParseFloat(cell, 64)
-			if err == nil && !math.IsInf(v, 0) && !math.IsNaN(v) {
-				nums[r] = v
-				continue
-			}
-			nums[r] = math.NaN()
-			if opts.NonNumericAsMissing {
-				nNon++
-				continue
-			}
-			if firstNon == nil {
-				firstNon = &Error{File: w.path, Sheet: g.sheet, Cell: cellRef(c.index, g.headerRow+1+r), Column: c.name, Text: cellText(cell),
-					Msg: quoteCell(cell) + ` is not a number; correct the cell (a number stored as text with units or separators shows this), add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}
-			} else {
-				nNon++
+			slot[c.index] = len(cols) - 1
+		}
+		cell = make([][]byte, len(cols))
+		return true, nil
+	}, func(r int, cells []sheetCell) error {
+		if r >= lim.MaxRows {
+			over = true // count on, to say how many rows the sheet has
+		}
+		if over {
+			rows = r + 1
+			return nil
+		}
+		for ; rows < r; rows++ { // rows of blank cells before this one
+			for _, c := range cols {
+				put(c, rows, nil)
 			}
 		}
-		if firstNon != nil {
-			if nNon > 0 {
-				firstNon.Msg += fmt.Sprintf(" (%d more such cells in this column)", nNon)
+		clear(cell)
+		for _, sc := range cells {
+			if sc.col < len(slot) && slot[sc.col] >= 0 {
+				cell[slot[sc.col]] = sc.v
 			}
-			return nil, firstNon
 		}
+		for k, c := range cols {
+			put(c, r, cell[k])
+		}
+		rows = r + 1
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	if over {
+		return nil, &Error{File: w.path, Sheet: t.Sheet, Msg: fmt.Sprintf("the sheet has %d data rows, more than the limit of %d: check that it is the sheet meant; if it is, raise max_rows for the dataset", rows, lim.MaxRows)}
+	}
+	for _, c := range cols {
+		if c.levelsErr != nil {
+			return nil, c.levelsErr
+		}
+		if c.firstNon != nil {
+			if c.nNon > 0 {
+				c.firstNon.Msg += fmt.Sprintf(" (%d more such cells in this column)", c.nNon)
+			}
+			return nil, c.firstNon
+		}
+	}
+	t.Rows = rows
+	for _, c := range cols {
 		if c.numeric {
-			t.Numeric[c.name] = nums
-			t.NonNumeric[c.name] = nNon
+			t.Numeric[c.name] = c.nums
+			t.NonNumeric[c.name] = c.nNon
 		}
 		if c.text {
-			t.Text[c.name] = textColumn(texts)
+			t.Text[c.name] = c.texts
 		}
-		t.Missing[c.name] = nMissing
+		t.Missing[c.name] = c.nMissing
 	}
 	return t, nil
 }

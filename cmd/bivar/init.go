@@ -569,7 +569,7 @@ func profileWorkbook(path string) (profs []*csvProfile, skipped []string, err er
 	used := map[string]bool{}
 	for _, sheet := range w.Sheets() {
 		ref := dataset.SheetRef{Name: sheet}
-		header, err := dataset.WorkbookHeader(path, ref, 0, nil)
+		header, err := w.Header(ref, 0)
 		if err != nil {
 			skipped = append(skipped, fmt.Sprintf("sheet %q: %v", sheet, err))
 			continue

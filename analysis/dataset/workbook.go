@@ -92,6 +92,8 @@ func OpenWorkbook(path string, lim *Limits) (*Workbook, error) {
 		switch {
 		case bytes.HasPrefix(data, oleMagic):
 			msg = "cannot read the workbook: it is an OLE compound file, not a zip archive: a password-protected (encrypted) workbook or an older .xls file; remove the password or save it as .xlsx in a spreadsheet program, or export the sheet as CSV"
+		case bytes.HasPrefix(data, []byte("PK\x03\x04")) && errors.Is(err, zip.ErrFormat):
+			msg = "cannot read the workbook: the zip archive it is made of is damaged or cut off (was the file copied or downloaded completely?); open it in a spreadsheet program and save it again, or export the sheet as CSV"
 		case errors.Is(err, zip.ErrFormat) || errors.Is(err, zip.ErrAlgorithm):
 			msg = "cannot read the workbook: it is not an .xlsx file (an .xlsx file is a zip archive); if it is an older .xls or an .ods file, open it in a spreadsheet program and save it as .xlsx, or export the sheet as CSV"
 		}

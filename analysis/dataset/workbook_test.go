@@ -204,6 +204,15 @@ func TestReadWorkbookExcelize(t *testing.T) {
 	if err := os.WriteFile(notZip, []byte("x,y\n1,2\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	// A workbook cut off after its first 5000 bytes.
+	whole, err := os.ReadFile(bad)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cut := filepath.Join(t.TempDir(), "cut.xlsx")
+	if err := os.WriteFile(cut, whole[:min(len(whole)/2, 5000)], 0o644); err != nil {
+		t.Fatal(err)
+	}
 	// An encrypted workbook is an OLE compound file (MS-OFFCRYPTO §2.1;
 	// its signature from MS-CFB §2.2).
 	ole := filepath.Join(t.TempDir(), "locked.xlsx")
@@ -225,6 +234,7 @@ func TestReadWorkbookExcelize(t *testing.T) {
 		{"no column", bad, SheetRef{}, 1, Options{}, ""},
 		{"empty sheet", path, SheetRef{Name: "Empty"}, 0, Options{}, `sheet "Empty": the sheet is empty`},
 		{"not a zip", notZip, SheetRef{}, 0, Options{}, `it is not an .xlsx file (an .xlsx file is a zip archive)`},
+		{"cut off", cut, SheetRef{}, 0, Options{}, `the zip archive it is made of is damaged or cut off`},
 		{"encrypted", ole, SheetRef{}, 0, Options{}, `a password-protected (encrypted) workbook or an older .xls file`},
 		{"too large", bad, SheetRef{}, 1, Options{Limits: &Limits{MaxBytes: 100, MaxRows: 10, MaxLevels: 10}}, `more than the limit of 100 bytes: check`},
 		{"too many rows", bad, SheetRef{}, 1, Options{Limits: &Limits{MaxBytes: 1 << 20, MaxRows: 2, MaxLevels: 10}}, `the sheet has 3 data rows, more than the limit of 2`},

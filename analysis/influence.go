@@ -226,7 +226,10 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	var csv []byte
 	if len(rows) > 0 {
 		rows = rows[:min(len(rows), fileMax)]
-		csv = flaggedCSV(rows, x, y, li, name)
+		csv = flaggedCSV(len(rows), func(k int) flaggedRow {
+			fr := rows[k]
+			return flaggedRow{name: name(fr.i), x: x[fr.i], y: y[fr.i], flags: fr.flags, r: li.At(fr.i)}
+		})
 		in.FileRows = len(rows)
 	}
 	return in, se, csv
@@ -249,6 +252,14 @@ func nanToInf(v float64) float64 {
 	return v
 }
 
+// flaggedRow is one row of the flagged-rows file.
+type flaggedRow struct {
+	name  string
+	x, y  float64
+	flags findings.FlagSet
+	r     stats.InfluenceRow
+}
+
 // flaggedCSVHeader names the columns of the flagged-rows file.
 var flaggedCSVHeader = []string{"row", "x", "y", "flags", "leverage", "studentized_residual", "deleted_residual_t",
 	"cooks_distance", "dffits", "r_without_row", "slope_without_row", "intercept_without_row", "rank"}
@@ -269,8 +280,10 @@ const FlaggedFileMax = 100_000
 // round-trip form, an empty cell for an undefined measure, flags joined by
 // "+". A row name that could be read as a spreadsheet formula is prefixed
 // with an apostrophe (OWASP's advice on CSV injection).
-func flaggedCSV(rows []flagged, x, y []float64, li *stats.LineInfluence, name func(int) string) []byte {
-	buf := make([]byte, 0, 64+len(rows)*120)
+//
+// row(k) is the k-th row of n in that order.
+func flaggedCSV(n int, row func(k int) flaggedRow) []byte {
+	buf := make([]byte, 0, 64+n*120)
 	for k, h := range flaggedCSVHeader {
 		if k > 0 {
 			buf = append(buf, ',')
@@ -284,11 +297,12 @@ func flaggedCSV(rows []flagged, x, y []float64, li *stats.LineInfluence, name fu
 			buf = strconv.AppendFloat(buf, v, 'g', -1, 64)
 		}
 	}
-	for rank, fr := range rows {
-		r := li.At(fr.i)
-		buf = appendCSVField(buf, name(fr.i))
-		num(x[fr.i])
-		num(y[fr.i])
+	for rank := range n {
+		fr := row(rank)
+		r := fr.r
+		buf = appendCSVField(buf, fr.name)
+		num(fr.x)
+		num(fr.y)
 		buf = append(buf, ',')
 		for k, f := range fr.flags.Names() {
 			if k > 0 {

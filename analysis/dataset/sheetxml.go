@@ -32,13 +32,13 @@ import (
 // sheetPackage locates the parts of an .xlsx package: each sheet's
 // worksheet part and the shared string table.
 type sheetPackage struct {
-	files   map[string]*zip.File // by part name, without the leading "/"
-	maxPart uint64               // the most bytes a part may unpack to
-	order   []string             // the sheets' names in tab order
-	sheets  map[string]string    // sheet name → worksheet part name
-	merges  map[string][]string  // worksheet part → its merged ranges, once read
-	sstPart string               // "" when the workbook has no shared strings
-	sst     []string             // loaded on first use
+	files   map[string]*zip.File    // by part name, without the leading "/"
+	maxPart uint64                  // the most bytes a part may unpack to
+	order   []string                // the sheets' names in tab order
+	sheets  map[string]string       // sheet name → worksheet part name
+	merges  map[string][]mergeRange // worksheet part → its merged ranges, once read
+	sstPart string                  // "" when the workbook has no shared strings
+	sst     Strings                 // loaded on first use
 	sstRead bool
 }
 
@@ -73,7 +73,7 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 	if err != nil {
 		return nil, err
 	}
-	p := &sheetPackage{files: map[string]*zip.File{}, maxPart: maxPart, sheets: map[string]string{}, merges: map[string][]string{}}
+	p := &sheetPackage{files: map[string]*zip.File{}, maxPart: maxPart, sheets: map[string]string{}, merges: map[string][]mergeRange{}}
 	for _, f := range zr.File {
 		p.files[strings.TrimPrefix(f.Name, "/")] = f
 	}
@@ -110,6 +110,14 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 			target[r.ID] = resolvePart(dir, r.Target)
 		case strings.HasSuffix(r.Type, relSharedStrings):
 			p.sstPart = resolvePart(dir, r.Target)
+		}
+	}
+	if _, ok := p.files[p.sstPart]; !ok {
+		// A table named but absent is empty; one present without its
+		// relationship is taken from where writers put it.
+		p.sstPart = ""
+		if _, ok := p.files["xl/sharedStrings.xml"]; ok {
+			p.sstPart = "xl/sharedStrings.xml"
 		}
 	}
 	for _, s := range sheets.Sheets {
@@ -149,7 +157,14 @@ func (p *sheetPackage) decode(name string, v any) error {
 		return err
 	}
 	defer rc.Close()
-	if err := xml.NewDecoder(rc).Decode(v); err != nil {
+	d := xml.NewDecoder(rc)
+	d.CharsetReader = func(label string, r io.Reader) (io.Reader, error) {
+		if isUTF8Label(label) {
+			return r, nil
+		}
+		return nil, fmt.Errorf("the XML is in the %s encoding; bivar reads workbooks in UTF-8, as spreadsheet programs write them", label)
+	}
+	if err := d.Decode(v); err != nil {
 		return fmt.Errorf("part %s: %w", name, err)
 	}
 	return nil
@@ -170,26 +185,46 @@ func (p *sheetPackage) open(name string) (io.ReadCloser, error) {
 // sharedStrings returns the shared string table: each si element's text,
 // the t element it holds or the t elements of its rich-text runs joined
 // (phonetic runs, rPh, left out), with the _xHHHH_ escapes of §22.9.2.19
-// decoded.
-func (p *sheetPackage) sharedStrings() ([]string, error) {
+// decoded; all in one block of text (Strings), 4 bytes a string besides
+// the text.
+func (p *sheetPackage) sharedStrings() (Strings, error) {
 	if p.sstRead || p.sstPart == "" {
 		return p.sst, nil
 	}
+	sst, err := p.readSST()
+	if err != nil {
+		return Strings{}, fmt.Errorf("part %s: %w", p.sstPart, err)
+	}
+	p.sst, p.sstRead = sst, true
+	return sst, nil
+}
+
+func (p *sheetPackage) readSST() (Strings, error) {
+	sst := Strings{end: []uint32{}}
 	rc, err := p.open(p.sstPart)
 	if err != nil {
-		return nil, err
+		return sst, err
 	}
 	defer rc.Close()
 	s := newXMLScan(rc)
 	var text []byte
-	inSI, inT, inPh := false, false, 0
+	inSI, inT, inPh, ended := false, false, 0, false
+	add := func(t string) error {
+		if !sst.add(t) {
+			return fmt.Errorf("the shared strings pass %d bytes", MaxTextBytes)
+		}
+		return nil
+	}
 	for {
 		tk, err := s.next()
 		if err == io.EOF {
-			break
+			if !ended {
+				return sst, errCutOff
+			}
+			return sst, nil
 		}
 		if err != nil {
-			return nil, fmt.Errorf("part %s: %w", p.sstPart, err)
+			return sst, err
 		}
 		switch tk.kind {
 		case tokStart, tokEmpty:
@@ -197,7 +232,9 @@ func (p *sheetPackage) sharedStrings() ([]string, error) {
 			case "si":
 				inSI, text = true, text[:0]
 				if tk.kind == tokEmpty {
-					p.sst = append(p.sst, "")
+					if err := add(""); err != nil {
+						return sst, err
+					}
 					inSI = false
 				}
 			case "rPh":
@@ -206,104 +243,167 @@ func (p *sheetPackage) sharedStrings() ([]string, error) {
 				}
 			case "t":
 				inT = tk.kind == tokStart && inSI && inPh == 0
+			case "sst":
+				ended = tk.kind == tokEmpty
 			}
 		case tokEnd:
 			switch string(tk.name) {
 			case "si":
-				p.sst = append(p.sst, unescapeOOXML(string(text)))
+				if err := add(unescapeOOXML(string(text))); err != nil {
+					return sst, err
+				}
 				inSI = false
 			case "rPh":
 				inPh--
 			case "t":
 				inT = false
+			case "sst":
+				ended = true
 			}
 		case tokText:
 			if inT {
 				if text, err = tk.appendText(text); err != nil {
-					return nil, fmt.Errorf("part %s: %w", p.sstPart, err)
+					return sst, err
 				}
 			}
 		}
 	}
-	p.sstRead = true
-	return p.sst, nil
 }
 
-// mergeRefs returns the ref attribute ("A2:B3") of every mergeCell
-// element of a worksheet part. The element follows sheetData (§18.3.1.99),
-// so the part is read to its end; a search for the element's name skips
-// the cells (text and attribute values cannot hold '<', so the name right
-// after "<" or "<prefix:" starts an element).
-func (p *sheetPackage) mergeRefs(part string) ([]string, error) {
-	if refs, ok := p.merges[part]; ok {
-		return refs, nil
+// maxMerges bounds the merged ranges a sheet may hold (Excel itself
+// saves tens of thousands at most); more is a damaged or generated part.
+const maxMerges = 1 << 20
+
+// mergeRefs returns the merged ranges of a worksheet part (its mergeCell
+// elements' ref attributes, 1-based and inclusive, ranges that do not
+// parse left out). The element follows sheetData (§18.3.1.99), so the
+// whole part is read: every '<' outside comments, CDATA sections and
+// processing instructions starts markup (XML forbids '<' in text and in
+// attribute values), and only mergeCell start tags are read further.
+func (p *sheetPackage) mergeRefs(part string) ([]mergeRange, error) {
+	if m, ok := p.merges[part]; ok {
+		return m, nil
 	}
-	refs, err := p.scanMerges(part)
-	if err == nil {
-		p.merges[part] = refs
+	m, err := p.scanMerges(part)
+	if err != nil {
+		return nil, fmt.Errorf("part %s: %w", part, err)
 	}
-	return refs, err
+	p.merges[part] = m
+	return m, nil
 }
 
-func (p *sheetPackage) scanMerges(part string) ([]string, error) {
+func (p *sheetPackage) scanMerges(part string) ([]mergeRange, error) {
 	rc, err := p.open(part)
 	if err != nil {
 		return nil, err
 	}
 	defer rc.Close()
-	name := []byte("mergeCell")
-	const ctxLen = 64 // bytes kept before the search's start, to see what precedes a match
-	var refs []string
-	buf := make([]byte, 1<<20)
-	n, from := 0, 0 // buf[:n] holds data; the search resumes at from
-	for {
-		m, err := io.ReadFull(rc, buf[n:])
-		n += m
-		eof := err == io.EOF || err == io.ErrUnexpectedEOF
-		if err != nil && !eof {
-			return nil, fmt.Errorf("part %s: %w", part, err)
+	s := newXMLScan(rc)
+	var out []mergeRange
+	skip := func(from int, end string) error {
+		k, err := s.find(from, []byte(end))
+		if err == nil && k < 0 {
+			err = errCutOff
 		}
-		data := buf[:n]
-		resume := -1 // where the next read's search starts, when a match needs more data
-		for {
-			k := bytes.Index(data[from:], name)
-			if k < 0 {
-				break
+		if err == nil {
+			s.pos += k + len(end)
+		}
+		return err
+	}
+	for {
+		k, err := s.find(0, []byte{'<'})
+		if err != nil {
+			return nil, err
+		}
+		if k < 0 {
+			return out, nil
+		}
+		s.pos += k
+		if err := s.ensure(256); err != nil {
+			return nil, err
+		}
+		rest := s.buf[s.pos:s.end]
+		switch {
+		case bytes.HasPrefix(rest, []byte("<!--")):
+			err = skip(4, "-->")
+		case bytes.HasPrefix(rest, []byte("<![CDATA[")):
+			err = skip(9, "]]>")
+		case bytes.HasPrefix(rest, []byte("<?")):
+			err = skip(2, "?>")
+		default:
+			n := 1
+			for n < len(rest) && !isNameEnd(rest[n]) {
+				n++
 			}
-			at := from + k
-			end := bytes.IndexByte(data[at:], '>')
-			if end < 0 && !eof {
-				resume = at // read on, and look at this one again
-				break
+			name := rest[1:n]
+			if c := bytes.LastIndexByte(name, ':'); c >= 0 {
+				name = name[c+1:]
 			}
-			from = at + len(name)
-			if !startsElement(data[max(0, at-ctxLen):at]) || from >= n || !isNameEnd(data[from]) {
+			if string(name) != "mergeCell" {
+				s.pos++ // an element's attributes hold no '<': look for the next
 				continue
 			}
-			if end < 0 {
-				return nil, fmt.Errorf("part %s: %w", part, errCutOff)
+			end, err := s.tagEnd()
+			if err == nil && end < 0 {
+				err = errCutOff
 			}
-			if ref := attrValue(data[from:at+end], "ref"); ref != nil {
-				refs = append(refs, string(ref))
+			if err != nil {
+				return nil, err
 			}
-		}
-		if eof {
-			return refs, nil
-		}
-		if resume < 0 {
-			resume = max(from, n-len(name)+1)
-		}
-		ctx := max(0, resume-ctxLen)
-		n = copy(buf, data[ctx:])
-		from = resume - ctx
-		if n == len(buf) {
-			if len(buf) >= maxToken {
-				return nil, fmt.Errorf("part %s: a tag passes %d MiB", part, maxToken>>20)
+			tag := s.buf[s.pos : s.pos+end]
+			if ref := attrValue(tag[n:], "ref"); ref != nil {
+				if m, ok := parseRange(ref); ok {
+					if len(out) == maxMerges {
+						return nil, fmt.Errorf("more than %d merged ranges", maxMerges)
+					}
+					out = append(out, m)
+				}
 			}
-			buf = append(buf, make([]byte, len(buf))...)
+			s.pos += end + 1
+		}
+		if err != nil {
+			return nil, err
 		}
 	}
 }
+
+// parseRange reads a range reference ("A2:B3"; one cell "C4" is the range
+// of that cell).
+func parseRange(ref []byte) (mergeRange, bool) {
+	a, b, found := bytes.Cut(ref, []byte(":"))
+	if !found {
+		b = a
+	}
+	c1, r1, ok1 := cellOf(a)
+	c2, r2, ok2 := cellOf(b)
+	if !ok1 || !ok2 {
+		return mergeRange{}, false
+	}
+	return mergeRange{int32(c1 + 1), int32(r1), int32(c2 + 1), int32(r2)}, true
+}
+
+// cellOf reads a cell reference ("C12", "$C$12"): its 0-based column
+// and 1-based row.
+func cellOf(ref []byte) (col, row int, ok bool) {
+	ref = bytes.ReplaceAll(ref, []byte("$"), nil)
+	col = columnOf(ref)
+	k := 0
+	for k < len(ref) && (ref[k]|0x20) >= 'a' && (ref[k]|0x20) <= 'z' {
+		k++
+	}
+	r, err := strconv.Atoi(string(ref[k:]))
+	if col < 0 || err != nil || r < 1 || r > maxSheetRows {
+		return 0, 0, false
+	}
+	return col, r, true
+}
+
+// maxSheetRows and maxSheetCols are the largest sheet of the format's
+// implementations (Excel: 1 048 576 rows, 16 384 columns, XFD).
+const (
+	maxSheetRows = 1 << 20
+	maxSheetCols = 1 << 14
+)
 
 // startsElement says whether the bytes before a name end in "<" or in
 // "<prefix:".
@@ -383,7 +483,7 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 	for {
 		tk, err := s.next()
 		if err == io.EOF {
-			return nil
+			return wrap(errors.New("the part ends before its sheetData element does"))
 		}
 		if err != nil {
 			return wrap(err)
@@ -391,7 +491,14 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 		switch tk.kind {
 		case tokStart, tokEmpty:
 			switch string(tk.name) {
+			case "sheetData":
+				if tk.kind == tokEmpty {
+					return nil // no cells
+				}
 			case "row":
+				if inRow || inCell {
+					return wrap(errors.New("a row element starts inside another row"))
+				}
 				r := row + 1
 				if v := attrValue(tk.attrs, "r"); v != nil {
 					if r, err = strconv.Atoi(string(v)); err != nil || r < 1 {
@@ -413,22 +520,23 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 				if !inRow {
 					continue
 				}
+				if inCell {
+					return wrap(errors.New("a cell element starts inside another cell"))
+				}
 				c := col + 1
 				if v := attrValue(tk.attrs, "r"); v != nil {
 					if c = columnOf(v); c < 0 {
-						return wrap(fmt.Errorf("cell reference %q", v))
+						return wrap(fmt.Errorf("the cell reference %q names no column from A to XFD", v))
 					}
+				}
+				if c <= col || c >= maxSheetCols {
+					return wrap(fmt.Errorf("cell %s follows cell %s in its row: the cells are out of order or past column XFD", cellRef(c, row), cellRef(col, row)))
 				}
 				col = c
 				typ = append(typeBuf[:0], attrValue(tk.attrs, "t")...)
 				hasV, hasIS, vStart = false, false, len(arena)
 				isText = isText[:0]
-				if tk.kind == tokEmpty {
-					spans = append(spans, [2]int{vStart, vStart})
-					cells = append(cells, sheetCell{col: col})
-				} else {
-					inCell = true
-				}
+				inCell = tk.kind == tokStart // an empty element holds no value
 			case "v":
 				if inCell && inIS == 0 && tk.kind == tokStart {
 					inV, hasV = true, true
@@ -448,6 +556,9 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 		case tokEnd:
 			switch string(tk.name) {
 			case "row":
+				if inCell {
+					return wrap(errors.New("a row element ends inside a cell"))
+				}
 				if !inRow {
 					continue
 				}
@@ -467,15 +578,17 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 				case string(typ) == "s" && hasV:
 					v := bytes.TrimSpace(arena[vStart:])
 					i, err := strconv.Atoi(string(v))
-					if err != nil || i < 0 || i >= len(sst) {
-						return wrap(fmt.Errorf("cell %s: shared string %q is not in the table of %d", cellRef(col, row), v, len(sst)))
+					if err != nil || i < 0 || i >= sst.Len() {
+						return wrap(fmt.Errorf("cell %s: shared string %q is not in the table of %d", cellRef(col, row), v, sst.Len()))
 					}
-					arena = append(arena[:vStart], sst[i]...)
+					arena = append(arena[:vStart], sst.At(i)...)
 				case string(typ) == "inlineStr" && hasIS:
 					arena = append(arena[:vStart], unescapeOOXML(string(isText))...)
 				}
-				spans = append(spans, [2]int{vStart, len(arena)})
-				cells = append(cells, sheetCell{col: col})
+				if len(arena) > vStart { // a cell without a value is left out
+					spans = append(spans, [2]int{vStart, len(arena)})
+					cells = append(cells, sheetCell{col: col})
+				}
 			case "v":
 				inV = false
 			case "is":
@@ -622,6 +735,17 @@ func (s *xmlScan) fill() (bool, error) {
 	return true, err
 }
 
+// ensure reads until n bytes from s.pos are in the buffer or the input
+// ends.
+func (s *xmlScan) ensure(n int) error {
+	for s.end-s.pos < n && !s.eof {
+		if _, err := s.fill(); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
 // find returns the index, from s.pos+from, of sep in the buffer, reading
 // more input as needed; −1 at the end of the input.
 func (s *xmlScan) find(from int, sep []byte) (int, error) {
@@ -667,7 +791,7 @@ func (s *xmlScan) tagEnd() (int, error) {
 	}
 }
 
-var errCutOff = errors.New("the XML ends inside a tag")
+var errCutOff = errors.New("the XML is cut off")
 
 // maxToken bounds one tag or text of a part (a cell holds at most 32 767
 // characters), so that a damaged part cannot take all memory.
@@ -698,10 +822,8 @@ func (s *xmlScan) next() (token, error) {
 			s.pos += k
 			return t, nil
 		}
-		for s.end-s.pos < 9 && !s.eof {
-			if _, err := s.fill(); err != nil {
-				return token{}, err
-			}
+		if err := s.ensure(9); err != nil {
+			return token{}, err
 		}
 		rest := s.buf[s.pos:s.end]
 		switch {
@@ -724,6 +846,12 @@ func (s *xmlScan) next() (token, error) {
 			k, err := s.find(2, []byte("?>"))
 			if err != nil || k < 0 {
 				return token{}, cmpErr(err, errCutOff)
+			}
+			pi := s.buf[s.pos+2 : s.pos+k]
+			if bytes.HasPrefix(pi, []byte("xml")) && len(pi) > 3 && isNameEnd(pi[3]) {
+				if enc := attrValue(pi[3:], "encoding"); enc != nil && !isUTF8Label(string(enc)) {
+					return token{}, fmt.Errorf("the XML is in the %s encoding; bivar reads workbooks in UTF-8, as spreadsheet programs write them", enc)
+				}
 			}
 			s.pos += k + 2
 			continue
@@ -768,6 +896,16 @@ func cmpErr(err, otherwise error) error {
 // line ends too).
 func (t token) appendText(dst []byte) ([]byte, error) {
 	src := t.text
+	high := false
+	for _, b := range src {
+		if b < 0x20 && b != '\t' && b != '\n' && b != '\r' {
+			return dst, fmt.Errorf("the text %q holds the control character %#02x, which XML forbids", clip(src), b)
+		}
+		high = high || b >= 0x80
+	}
+	if high && !utf8.Valid(src) {
+		return dst, fmt.Errorf("the text %q is not valid UTF-8", clip(src))
+	}
 	for len(src) > 0 {
 		k := bytes.IndexAny(src, "&\r")
 		if k < 0 || t.cdata && src[k] == '&' {
@@ -817,13 +955,29 @@ func (t token) appendText(dst []byte) ([]byte, error) {
 			default:
 				err = errors.New("unknown entity")
 			}
-			if err != nil || !utf8.ValidRune(rune(v)) {
-				return dst, fmt.Errorf("the reference &%s; in %q is not a character", ref, clip(t.text))
+			if err != nil || !xmlChar(rune(v)) {
+				return dst, fmt.Errorf("the reference &%s; in %q is not a character XML allows", ref, clip(t.text))
 			}
 			dst = utf8.AppendRune(dst, rune(v))
 		}
 	}
 	return dst, nil
+}
+
+// xmlChar says whether XML 1.0 allows the character (§2.2, production
+// Char).
+func xmlChar(r rune) bool {
+	return r == '\t' || r == '\n' || r == '\r' || r >= 0x20 && r <= 0xD7FF || r >= 0xE000 && r <= 0xFFFD || r >= 0x10000 && r <= 0x10FFFF
+}
+
+// isUTF8Label says whether an encoding declaration names UTF-8 (or its
+// subset US-ASCII).
+func isUTF8Label(enc string) bool {
+	switch strings.ToLower(strings.ReplaceAll(strings.ReplaceAll(enc, "-", ""), "_", "")) {
+	case "utf8", "usascii", "ascii":
+		return true
+	}
+	return false
 }
 
 func clip(b []byte) string {

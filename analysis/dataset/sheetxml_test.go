@@ -3,7 +3,9 @@ package dataset
 import (
 	"archive/zip"
 	"bytes"
+	"errors"
 	"fmt"
+	"maps"
 	"os"
 	"path/filepath"
 	"slices"
@@ -79,8 +81,12 @@ func ourRows(t *testing.T, path, sheet string) (rows [][]string, merges []string
 	if err != nil {
 		t.Fatal(err)
 	}
-	if merges, err = p.mergeRefs(part); err != nil {
+	ms, err := p.mergeRefs(part)
+	if err != nil {
 		t.Fatal(err)
+	}
+	for _, m := range ms {
+		merges = append(merges, cellRef(int(m.c1)-1, int(m.r1))+":"+cellRef(int(m.c2)-1, int(m.r2)))
 	}
 	return rows, merges
 }
@@ -299,4 +305,96 @@ func FuzzSheetText(f *testing.F) {
 			t.Errorf("%q: rows %q, excelize reads %q", s, got, want)
 		}
 	})
+}
+
+// handBook zips a one-sheet package around the given worksheet part (and
+// shared strings part, when sst is not "", with a relationship to it when
+// sstRel), as the ECMA-376 examples lay a package out.
+func handBook(t *testing.T, sheet, sst string, sstRel bool) string {
+	t.Helper()
+	rels := `<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+		`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/worksheet" Target="worksheets/sheet1.xml"/>`
+	if sstRel {
+		rels += `<Relationship Id="rId2" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/sharedStrings" Target="sharedStrings.xml"/>`
+	}
+	parts := map[string]string{
+		"_rels/.rels": `<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+			`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="xl/workbook.xml"/></Relationships>`,
+		"xl/_rels/workbook.xml.rels": rels + `</Relationships>`,
+		"xl/workbook.xml": `<?xml version="1.0" encoding="UTF-8"?><workbook xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main" ` +
+			`xmlns:r="http://schemas.openxmlformats.org/officeDocument/2006/relationships"><sheets><sheet name="S" sheetId="1" r:id="rId1"/></sheets></workbook>`,
+		"xl/worksheets/sheet1.xml": `<?xml version="1.0" encoding="UTF-8"?><worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">` + sheet,
+	}
+	if strings.HasPrefix(sheet, "<?xml") { // a part with its own declaration
+		parts["xl/worksheets/sheet1.xml"] = sheet
+	}
+	if sst != "" {
+		parts["xl/sharedStrings.xml"] = `<?xml version="1.0" encoding="UTF-8"?><sst xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">` + sst
+	}
+	var buf bytes.Buffer
+	zw := zip.NewWriter(&buf)
+	for _, name := range slices.Sorted(maps.Keys(parts)) {
+		fw, err := zw.Create(name)
+		must(t, err)
+		_, err = fw.Write([]byte(parts[name]))
+		must(t, err)
+	}
+	must(t, zw.Close())
+	path := filepath.Join(t.TempDir(), "hand.xlsx")
+	must(t, os.WriteFile(path, buf.Bytes(), 0o644))
+	return path
+}
+
+// TestSheetDamaged: damaged or hostile sheet parts (found by an
+// independent review's mutation testing) give an error meant for a
+// person, never a panic, a silent loss of rows or unbounded memory.
+func TestSheetDamaged(t *testing.T) {
+	t.Parallel()
+	const head = `<sheetData><row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c><c r="B1" t="inlineStr"><is><t>y</t></is></c></row>`
+	many := strings.Repeat("<c/>", 20000) // more cells than columns A to XFD
+	for _, tc := range []struct{ name, sheet, sst, want string }{
+		{"row inside a cell", head + `<row r="2"><c r="A2"><v>2</v><row r="3"></c></row></sheetData></worksheet>`, "", "a row element starts inside another row"},
+		{"cell inside a cell", head + `<row r="2"><c r="A2"><c r="B2"><v>2</v></c></c></row></sheetData></worksheet>`, "", "a cell element starts inside another cell"},
+		{"row ends in a cell", head + `<row r="2"><c r="A2"><v>2</v></row></sheetData></worksheet>`, "", "a row element ends inside a cell"},
+		{"cut off after a row", head + `<row r="2"><c r="A2"><v>2</v></c></row>`, "", "the part ends before its sheetData element does"},
+		{"cut off in a row", head + `<row r="2"><c r="A2"><v>2</v></c>`, "", "the part ends before its sheetData element does"},
+		{"cells out of order", head + `<row r="2"><c r="B2"><v>2</v></c><c r="A2"><v>1</v></c></row></sheetData></worksheet>`, "", "the cells are out of order"},
+		{"cell twice", head + `<row r="2"><c r="A2"><v>2</v></c><c r="A2"><v>1</v></c></row></sheetData></worksheet>`, "", "the cells are out of order"},
+		{"past XFD", head + `<row r="2">` + many + `</row></sheetData></worksheet>`, "", "past column XFD"},
+		{"beyond XFD", head + `<row r="2"><c r="XFE2"><v>1</v></c></row></sheetData></worksheet>`, "", `names no column from A to XFD`},
+		{"rows out of order", head + `<row r="3"/><row r="2"/></sheetData></worksheet>`, "", "the rows are out of order"},
+		{"NUL by reference", head + `<row r="2"><c r="A2"><v>1&#0;</v></c></row></sheetData></worksheet>`, "", "not a character XML allows"},
+		{"raw control", head + "<row r=\"2\"><c r=\"A2\"><v>1\x01</v></c></row></sheetData></worksheet>", "", "control character"},
+		{"string index", head + `<row r="2"><c r="A2" t="s"><v>5</v></c></row></sheetData></worksheet>`, `<si><t>a</t></si></sst>`, "shared string \"5\" is not in the table of 1"},
+		{"strings cut off", head + `<row r="2"><c r="A2" t="s"><v>0</v></c></row></sheetData></worksheet>`, `<si><t>a</t></si><si><t>b`, "the XML is cut off"},
+	} {
+		_, err := ReadWorkbook(handBook(t, tc.sheet, tc.sst, true), SheetRef{}, 0, Options{}, []string{"x"}, nil)
+		var e *Error
+		if !errors.As(err, &e) || !strings.Contains(err.Error(), tc.want) || !strings.Contains(err.Error(), "save it again") {
+			t.Errorf("%s: got %v, want a *dataset.Error containing %q and what to do", tc.name, err, tc.want)
+		}
+	}
+	// Not a sheet's cells: markup in a comment, CDATA text, a quoted '>'.
+	sheet := `<sheetData><!-- <mergeCell ref="A1:C1"/> --><row r="1"><c r="A1" t="inlineStr"><is><t>a</t></is></c></row>` +
+		`<row r="2"><c r="A2" t="str"><v><![CDATA[<mergeCell ref="A1:D1"/>]]></v></c></row></sheetData>` +
+		`<mergeCells count="1"><mergeCell note="x>y" ref="E1:F1"/></mergeCells></worksheet>`
+	h, err := WorkbookHeader(handBook(t, sheet, "", false), SheetRef{}, 0, nil)
+	if err != nil || !slices.Equal(h, []string{"a", "", "", "", "", ""}) {
+		t.Errorf("header %q (%v), want [a] and the empty range E1:F1", h, err)
+	}
+	// A shared strings part named but absent is an empty table; one
+	// present without its relationship is read from where writers put it.
+	plain := head + `<row r="2"><c r="A2"><v>1</v></c></row></sheetData></worksheet>`
+	if tb, err := ReadWorkbook(handBook(t, plain, "", true), SheetRef{}, 0, Options{}, []string{"x"}, nil); err != nil || tb.Rows != 1 {
+		t.Errorf("absent shared strings: %v", err)
+	}
+	strs := `<row r="1"><c r="A1" t="s"><v>0</v></c><c r="B1" t="s"><v>1</v></c></row><row r="2"><c r="A2"><v>1</v></c></row></sheetData></worksheet>`
+	if h, err := WorkbookHeader(handBook(t, "<sheetData>"+strs, `<si><t>x</t></si><si><t>y</t></si></sst>`, false), SheetRef{}, 0, nil); err != nil || !slices.Equal(h, []string{"x", "y"}) {
+		t.Errorf("shared strings without a relationship: %q, %v", h, err)
+	}
+	// An encoding other than UTF-8 is named.
+	latin := `<?xml version="1.0" encoding="ISO-8859-1"?><worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">` + head + `</sheetData></worksheet>`
+	if _, err := ReadWorkbook(handBook(t, latin, "", false), SheetRef{}, 0, Options{}, []string{"x"}, nil); err == nil || !strings.Contains(err.Error(), "ISO-8859-1 encoding") {
+		t.Errorf("latin-1 part: %v", err)
+	}
 }

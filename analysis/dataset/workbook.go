@@ -146,7 +146,7 @@ func (w *Workbook) sheet(ref SheetRef) (string, error) {
 }
 
 // mergeRange is a merged range of cells, 1-based and inclusive.
-type mergeRange struct{ c1, r1, c2, r2 int }
+type mergeRange struct{ c1, r1, c2, r2 int32 }
 
 // readSheet reads sheet ref row by row (sheetPackage.rows). It settles the
 // header row (headerRow, 1-based; 0 means the first row with any
@@ -164,30 +164,24 @@ func (w *Workbook) readSheet(ref SheetRef, headerRow int, header func(sheet stri
 		return err
 	}
 	fail := func(what string, err error) error {
-		return &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet" + what + ": " + err.Error(), err: err}
+		return &Error{File: w.path, Sheet: sheet, Msg: "cannot read the sheet" + what + ": " + err.Error() +
+			"; the workbook looks damaged: open it in a spreadsheet program and save it again, or export the sheet as CSV", err: err}
 	}
 	part, ok := w.pkg.sheets[sheet]
 	if !ok {
 		return fail("", errors.New("the workbook lists it but holds no worksheet part for it (is it a chart sheet?)"))
 	}
-	refs, err := w.pkg.mergeRefs(part)
+	merges, err := w.pkg.mergeRefs(part)
 	if err != nil {
 		return fail("'s merged cells", err)
 	}
-	var merges []mergeRange
-	first := map[[2]int]string{} // the text of each range's first cell, once read
-	for _, r := range refs {
-		a, b, _ := strings.Cut(r, ":")
-		if b == "" {
-			b = a
+	// The text of each range's first cell, once read: only of the ranges
+	// that may cover the header row (all of them while it is unsettled).
+	first := map[[2]int]string{}
+	for _, m := range merges {
+		if headerRow == 0 || int(m.r1) <= headerRow && headerRow <= int(m.r2) {
+			first[[2]int{int(m.r1), int(m.c1) - 1}] = ""
 		}
-		c1, r1, err1 := excelize.CellNameToCoordinates(a)
-		c2, r2, err2 := excelize.CellNameToCoordinates(b)
-		if err1 != nil || err2 != nil {
-			continue
-		}
-		merges = append(merges, mergeRange{c1, r1, c2, r2})
-		first[[2]int{r1, c1 - 1}] = ""
 	}
 
 	settled, headerBlank, stop := false, false, false
@@ -275,17 +269,18 @@ func headerNames(cells []sheetCell, merges []mergeRange, first map[[2]int]string
 		header = append(header, string(c.v))
 	}
 	for _, m := range merges {
-		if headerRow < m.r1 || headerRow > m.r2 {
+		r1, r2, c1, c2 := int(m.r1), int(m.r2), int(m.c1), int(m.c2)
+		if headerRow < r1 || headerRow > r2 {
 			continue
 		}
-		v := strings.TrimSpace(first[[2]int{m.r1, m.c1 - 1}])
-		for c := m.c1; c <= m.c2; c++ {
+		v := strings.TrimSpace(first[[2]int{r1, c1 - 1}])
+		for c := c1; c <= c2; c++ {
 			for len(header) < c {
 				header = append(header, "")
 			}
 			name := v
-			if c > m.c1 && v != "" {
-				name = fmt.Sprintf("%s (%d)", v, c-m.c1+1)
+			if c > c1 && v != "" {
+				name = fmt.Sprintf("%s (%d)", v, c-c1+1)
 			}
 			header[c-1] = name
 		}

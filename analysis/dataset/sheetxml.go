@@ -230,6 +230,9 @@ func (p *sheetPackage) readSST() (Strings, error) {
 		case tokStart, tokEmpty:
 			switch string(tk.name) {
 			case "si":
+				if inSI {
+					return sst, errors.New("a string of the table starts inside another")
+				}
 				inSI, text = true, text[:0]
 				if tk.kind == tokEmpty {
 					if err := add(""); err != nil {
@@ -258,6 +261,9 @@ func (p *sheetPackage) readSST() (Strings, error) {
 			case "t":
 				inT = false
 			case "sst":
+				if inSI {
+					return sst, errors.New("the table ends inside a string")
+				}
 				ended = true
 			}
 		case tokText:

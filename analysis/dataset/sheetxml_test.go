@@ -366,6 +366,7 @@ func TestSheetDamaged(t *testing.T) {
 		{"NUL by reference", head + `<row r="2"><c r="A2"><v>1&#0;</v></c></row></sheetData></worksheet>`, "", "not a character XML allows"},
 		{"raw control", head + "<row r=\"2\"><c r=\"A2\"><v>1\x01</v></c></row></sheetData></worksheet>", "", "control character"},
 		{"string index", head + `<row r="2"><c r="A2" t="s"><v>5</v></c></row></sheetData></worksheet>`, `<si><t>a</t></si></sst>`, "shared string \"5\" is not in the table of 1"},
+		{"string cut off", head + `<row r="2"><c r="A2" t="s"><v>0</v></c></row></sheetData></worksheet>`, `<si><t>a</t></si><si><t>b</sst>`, "the table ends inside a string"},
 		{"strings cut off", head + `<row r="2"><c r="A2" t="s"><v>0</v></c></row></sheetData></worksheet>`, `<si><t>a</t></si><si><t>b`, "the XML is cut off"},
 	} {
 		_, err := ReadWorkbook(handBook(t, tc.sheet, tc.sst, true), SheetRef{}, 0, Options{}, []string{"x"}, nil)

@@ -383,7 +383,18 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	} else {
 		exact("r and line without the flagged rows")
 	}
-	omit("file of every flagged row", "not written when the rows stay in the database; the counts are exact, and the named rows are listed")
+	// The file of the flagged rows: the first FlaggedFileMax by the
+	// ranking (the third pass returns them in that order), each row's
+	// measures from the line's sums, as for a file.
+	if n := min(len(th.Suspects), FlaggedFileMax); n > 0 {
+		rows := th.Suspects[:n]
+		s.FlaggedCSV = flaggedCSV(n, func(k int) flaggedRow {
+			r := rows[k]
+			ri := rowInfluence(mom, rss, r.X, r.Y)
+			return flaggedRow{name: pushedRowName(r), x: r.X, y: r.Y, flags: rules.Flag(ri.Leverage, ri.StudentizedExt, ri.CooksD, false), r: ri}
+		})
+		s.Influence.File, s.Influence.FileRows = FlaggedFile(s.ID), n
+	}
 	omit("robust intervals of the slope and r (HC3, HAC, effective n)", "not computed when the rows stay in the database")
 
 	// The sample, for the figures that need the rows themselves.

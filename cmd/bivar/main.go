@@ -12,7 +12,9 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"runtime"
 	"runtime/debug"
+	"runtime/metrics"
 	"strings"
 
 	"bivar/analysis/manifest"
@@ -158,6 +160,7 @@ func main() {
 	// near the memory it needs. Soft: a run that needs more still gets it.
 	if os.Getenv("GOMEMLIMIT") == "" {
 		debug.SetMemoryLimit(defaultMemoryLimit)
+		followLiveHeap()
 	}
 	// A collection when the heap has grown by a quarter (Go's GOGC, which
 	// overrides it), not by its default of all that is live. The heap is
@@ -181,6 +184,48 @@ func main() {
 // set: 768 MiB, so that with the runtime's own overhead a run stays near
 // 1 GB of memory where the data allow it.
 const defaultMemoryLimit = 768 << 20
+
+// followLiveHeap raises the soft memory limit when the live heap stays
+// near it: after thrashCycles collections in a row that each leave the
+// live heap above fifteen sixteenths of the limit, to the live heap and
+// an eighth more. A limit below what a run must hold has the collector
+// run without pause and the runtime hand memory back to the system only
+// to take it again: a 10⁷-row dataset of eight columns (650 MB of
+// columns) with four studies ran 1573 collections and 72 s of CPU (20 s
+// of it the system's), and with this 186 and 49 s, at 1.69 GB peak
+// instead of 1.64. One study of 10⁷ rows keeps its peak near 800 MB either
+// way. It runs after each collection from a finalizer that re-arms itself
+// (the runtime calls finalizers on one goroutine of their own).
+func followLiveHeap() {
+	near := 0 // collections in a row with the live heap near the limit
+	var arm func()
+	arm = func() {
+		type sentinel struct{ _ [16]byte } // not zero-size: those may share an address
+		runtime.SetFinalizer(&sentinel{}, func(*sentinel) {
+			sample := []metrics.Sample{{Name: "/gc/heap/live:bytes"}}
+			metrics.Read(sample)
+			if sample[0].Value.Kind() == metrics.KindUint64 {
+				live := int64(sample[0].Value.Uint64())
+				limit := debug.SetMemoryLimit(-1)
+				if live > limit-limit/16 {
+					near++
+				} else {
+					near = 0
+				}
+				if near >= thrashCycles {
+					debug.SetMemoryLimit(live + live/8)
+					near = 0
+				}
+			}
+			arm()
+		})
+	}
+	arm()
+}
+
+// thrashCycles is how many collections in a row near the soft limit make
+// followLiveHeap raise it.
+const thrashCycles = 8
 
 // defaultGCPercent is the heap growth, in percent of the live heap, that
 // starts a collection unless GOGC is set (see main).

@@ -351,6 +351,35 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		}
 	}
 
+	// With a run order, the Durbin–Watson grouping (it needs only the
+	// refined line) runs alongside the third pass on a second session that
+	// shares this one's snapshot (dataset.Session.Fork), or after it on
+	// this one when the server cannot share its snapshot.
+	var dw struct {
+		num  float64
+		err  error
+		sess *dataset.Session
+	}
+	dwDone := make(chan struct{})
+	if spec.Order != "" {
+		dw.sess, _ = sess.Fork() // an error leaves dw.sess nil: see below
+	}
+	if dw.sess != nil {
+		on := p.On(dw.sess)
+		go func() {
+			defer close(dwDone)
+			dw.num, dw.err = on.DurbinWatsonNumerator(fit)
+		}()
+	} else {
+		close(dwDone)
+	}
+	defer func() {
+		<-dwDone
+		if dw.sess != nil {
+			dw.sess.Close()
+		}
+	}()
+
 	// Pass 3: flags, extremes, Breusch–Pagan, trend, the quadratic's
 	// residuals and the density grids, with the refined line.
 	grids := pushdownGrids(c, mom, sums, spec, len(p.NumCols))
@@ -387,12 +416,17 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	exact("Breusch–Pagan test (Koenker's form)")
 	if spec.Order != "" {
-		num, err := p.DurbinWatsonNumerator(fit)
-		if err != nil {
-			return s, err
+		<-dwDone
+		if dw.sess == nil { // no second session: on this one
+			dw.num, dw.err = p.DurbinWatsonNumerator(fit)
+		} else {
+			sess.Statements = append(sess.Statements, dw.sess.Statements...)
+		}
+		if dw.err != nil {
+			return s, dw.err
 		}
 		if rss > 0 {
-			d.DurbinWatson = report.Float(num / rss)
+			d.DurbinWatson = report.Float(dw.num / rss)
 		}
 		// The trend of the refined line's residuals on the order, exactly
 		// from the second pass's sums: Σ(d_o − d̄_o)·e_refined =

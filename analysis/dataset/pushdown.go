@@ -7,12 +7,13 @@ package dataset
 // window function lag(), built-in hash functions), so the same statements
 // run where a plant's data have outgrown one server.
 //
-// A study takes five statements, each one scan of the query's rows (the
-// dataset's hash, Fingerprint, one more for all studies of the dataset):
+// A study takes five statements, each one scan of the query's rows:
 //
 //  1. First: per group level, the counts, minima and maxima, and the
 //     means and centred sums of x and y by PostgreSQL's own float8
-//     regression aggregates (regr_avgx, regr_sxx, regr_sxy and kin);
+//     regression aggregates (regr_avgx, regr_sxx, regr_sxy and kin); in
+//     the dataset's first study, also the dataset's hash (Fingerprint's
+//     sums, which otherwise take a scan of their own);
 //  2. Second: sums of deviations from the first pass's means, of their
 //     products and powers, and of the line's residuals e and their
 //     powers (the refined line, its RSS, the quadratic, Breusch–Pagan and
@@ -24,7 +25,9 @@ package dataset
 //     leave-one-out extremes (their leave-one-out r computed only in the
 //     cells where the third pass found them);
 //  5. with a run order, the Durbin–Watson numerator: the rows grouped by
-//     run order, the blocks sorted (DurbinWatsonNumerator).
+//     run order, the blocks sorted (DurbinWatsonNumerator), on a second
+//     session that shares the first's snapshot (Fork), alongside the
+//     third pass.
 //
 // Numerics. The regression aggregates update their state by the algorithm
 // of Youngs and Cramer (float8_regr_accum in
@@ -160,6 +163,37 @@ func Open(ctx context.Context, q Query) (*Session, error) {
 		s.kinds[f.Name] = pgKinds[f.DataTypeOID]
 	}
 	return s, nil
+}
+
+// Fork opens a second session on s's snapshot (pg_export_snapshot in s,
+// SET TRANSACTION SNAPSHOT in the new one, both built into PostgreSQL
+// since 9.2), with s's settings, so that a statement runs alongside s's
+// on a second server process and sees the same rows: the
+// Durbin–Watson grouping needs only the refined line and runs beside the
+// third and fourth passes, in one process and one order of rows of its
+// own, so its sums are those it gives alone. Close it after use.
+func (s *Session) Fork() (*Session, error) {
+	var snap string
+	if err := s.tx.QueryRow(s.ctx, "SELECT pg_export_snapshot()").Scan(&snap); err != nil {
+		return nil, s.q.queryError(s.what(), err, s.timeout)
+	}
+	conn, tx, ctx, cancel, err := s.q.open(s.ctx, s.timeout, sessionStatements, pgx.TxOptions{AccessMode: pgx.ReadOnly, IsoLevel: pgx.RepeatableRead})
+	if err != nil {
+		return nil, err
+	}
+	f := &Session{q: s.q, conn: conn, tx: tx, ctx: ctx, cancel: cancel, timeout: s.timeout, inner: s.inner, kinds: s.kinds, oids: s.oids,
+		Names: s.Names, ServerVersion: s.ServerVersion}
+	settings := append([]string{"SET TRANSACTION SNAPSHOT " + textLit(snap)}, sessionSettings...)
+	if majorVersion(s.ServerVersion) >= 11 {
+		settings = append(settings, jitSettings...)
+	}
+	for _, set := range settings {
+		if _, err := tx.Exec(ctx, set); err != nil {
+			f.Close()
+			return nil, s.q.err("setting up a second session (%s): %v", set, unwrapAll(err))
+		}
+	}
+	return f, nil
 }
 
 // Close ends the session.
@@ -492,6 +526,13 @@ func (s *Session) Prepare(spec Spec) (*Prepared, error) {
 		p.id = e
 	}
 	return p, nil
+}
+
+// On is p on the session s (a Fork of p's).
+func (p *Prepared) On(s *Session) *Prepared {
+	c := *p
+	c.s = s
+	return &c
 }
 
 // from is the FROM clause of the query's rows.

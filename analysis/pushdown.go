@@ -204,6 +204,11 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		return s, err
 	}
 	defer sess.Close()
+	if spec.Order != "" { // for the Durbin–Watson grouping's session, below
+		if err := sess.Share(); err != nil {
+			return s, err
+		}
+	}
 	p, err := sess.Prepare(spec)
 	if err != nil {
 		return s, err

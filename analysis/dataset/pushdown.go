@@ -73,6 +73,7 @@ type Session struct {
 	cancel  context.CancelFunc
 	timeout time.Duration
 	inner   string
+	shared  string // the snapshot Share exported, "" before or when refused
 	kinds   map[string]pgKind
 	oids    []uint32 // type of each result column, Names order
 	// Names are the result's columns, ServerVersion the server's version.
@@ -95,7 +96,9 @@ const sessionStatements = 12
 //     which then computes and sums alone: on 10⁶ rows that took longer
 //     than one process doing all (measured by scripts/pushdown-bench.sh on
 //     PostgreSQL 15). One process also sums the rows in one order, so a
-//     rerun gives the same figures to the last digit;
+//     rerun gives the same figures to the last digit. Where a study gains
+//     from a second process, it runs a whole statement on a second
+//     session (Fork), itself one process and one order;
 //   - work_mem of 256 MB, so that the run-order pass groups and sorts the
 //     blocks of tied orders in memory up to about 10⁶ distinct orders
 //     (180 MB of hash table, 95 MB to sort, measured on PostgreSQL 15);
@@ -142,15 +145,9 @@ func Open(ctx context.Context, q Query) (*Session, error) {
 	}
 	s := &Session{q: q, conn: conn, tx: tx, ctx: ctx, cancel: cancel, timeout: timeout, inner: q.inner(), kinds: map[string]pgKind{},
 		ServerVersion: conn.PgConn().ParameterStatus("server_version")}
-	settings := sessionSettings
-	if majorVersion(s.ServerVersion) >= 11 {
-		settings = append(slices.Clone(settings), jitSettings...)
-	}
-	for _, set := range settings {
-		if _, err := tx.Exec(ctx, set); err != nil {
-			s.Close()
-			return nil, q.err("setting up the session (%s): %v", set, unwrapAll(err))
-		}
+	if err := s.settings(); err != nil {
+		s.Close()
+		return nil, err
 	}
 	desc, err := tx.Prepare(ctx, "", "SELECT * FROM ("+s.inner+"\n) AS bivar_q LIMIT 0")
 	if err != nil {
@@ -165,17 +162,60 @@ func Open(ctx context.Context, q Query) (*Session, error) {
 	return s, nil
 }
 
-// Fork opens a second session on s's snapshot (pg_export_snapshot in s,
-// SET TRANSACTION SNAPSHOT in the new one, both built into PostgreSQL
-// since 9.2), with s's settings, so that a statement runs alongside s's
-// on a second server process and sees the same rows: the
-// Durbin–Watson grouping needs only the refined line and runs beside the
-// third and fourth passes, in one process and one order of rows of its
-// own, so its sums are those it gives alone. Close it after use.
+// settings applies sessionSettings (and jitSettings) to s's transaction.
+func (s *Session) settings() error {
+	settings := sessionSettings
+	if majorVersion(s.ServerVersion) >= 11 {
+		settings = append(slices.Clone(settings), jitSettings...)
+	}
+	for _, set := range settings {
+		if _, err := s.tx.Exec(s.ctx, set); err != nil {
+			return s.q.err("setting up the session (%s): %v", set, unwrapAll(err))
+		}
+	}
+	return nil
+}
+
+// exportSnapshot is Share's statement (a test replaces it with one that
+// fails).
+var exportSnapshot = "SELECT pg_export_snapshot()"
+
+// Share exports s's snapshot (pg_export_snapshot, built into PostgreSQL
+// since 9.2) for Fork, before any statement of a study has run. A server
+// that refuses (a standby of an old version, a connection pooler, …)
+// aborts the transaction: s then starts a new one, with the same
+// settings, and Fork says it cannot; the error is only one that leaves
+// s unusable.
+func (s *Session) Share() error {
+	err := s.tx.QueryRow(s.ctx, exportSnapshot).Scan(&s.shared)
+	if err == nil {
+		return nil
+	}
+	s.shared = ""
+	if err := s.tx.Rollback(s.ctx); err != nil {
+		return s.q.queryError(s.what(), err, s.timeout)
+	}
+	if s.tx, err = s.conn.BeginTx(s.ctx, pgx.TxOptions{AccessMode: pgx.ReadOnly, IsoLevel: pgx.RepeatableRead}); err != nil {
+		return s.q.err("cannot start a read-only transaction: %v", unwrapAll(err))
+	}
+	for _, set := range txSettings(s.timeout) {
+		if _, err := s.tx.Exec(s.ctx, set); err != nil {
+			return s.q.err("setting up the session (%s): %v", set, unwrapAll(err))
+		}
+	}
+	return s.settings()
+}
+
+// Fork opens a second session on the snapshot s shared (Share; SET
+// TRANSACTION SNAPSHOT, since PostgreSQL 9.2), with s's settings, so
+// that a statement runs alongside s's on a second server process and
+// sees the same rows: the Durbin–Watson grouping needs only the refined
+// line and runs beside the third pass, in one process and one order of
+// rows of its own, so its sums are those it gives alone. Close it after
+// use.
 func (s *Session) Fork() (*Session, error) {
-	var snap string
-	if err := s.tx.QueryRow(s.ctx, "SELECT pg_export_snapshot()").Scan(&snap); err != nil {
-		return nil, s.q.queryError(s.what(), err, s.timeout)
+	if s.shared == "" {
+		return nil, s.q.err("the session's snapshot is not shared")
 	}
 	conn, tx, ctx, cancel, err := s.q.open(s.ctx, s.timeout, sessionStatements, pgx.TxOptions{AccessMode: pgx.ReadOnly, IsoLevel: pgx.RepeatableRead})
 	if err != nil {
@@ -183,15 +223,13 @@ func (s *Session) Fork() (*Session, error) {
 	}
 	f := &Session{q: s.q, conn: conn, tx: tx, ctx: ctx, cancel: cancel, timeout: s.timeout, inner: s.inner, kinds: s.kinds, oids: s.oids,
 		Names: s.Names, ServerVersion: s.ServerVersion}
-	settings := append([]string{"SET TRANSACTION SNAPSHOT " + textLit(snap)}, sessionSettings...)
-	if majorVersion(s.ServerVersion) >= 11 {
-		settings = append(settings, jitSettings...)
+	if _, err := tx.Exec(ctx, "SET TRANSACTION SNAPSHOT "+textLit(s.shared)); err != nil {
+		f.Close()
+		return nil, s.q.err("setting up a second session: %v", unwrapAll(err))
 	}
-	for _, set := range settings {
-		if _, err := tx.Exec(ctx, set); err != nil {
-			f.Close()
-			return nil, s.q.err("setting up a second session (%s): %v", set, unwrapAll(err))
-		}
+	if err := f.settings(); err != nil {
+		f.Close()
+		return nil, err
 	}
 	return f, nil
 }

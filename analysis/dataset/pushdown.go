@@ -1093,7 +1093,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
 		qr = ", ((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + "))) AS qr"
 	}
-	src := "(SELECT *, " + ri + " * " + ri + " * h / nullif(2 * omh, 0) AS d, " + f.loor("dx", "dy", "omh") + " AS loor, " +
+	src := "(SELECT *, " + ri + " AS ri, " + f.loor("dx", "dy", "omh") + " AS loor, " +
 		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd" + qr + " FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"
 	fl := "(CAST(fo AS integer) + 2 * CAST(h > " + cutLit(f.Leverage) + " AS integer) + 4 * CAST(fd AS integer))"
 	suspect := func(c string) string { return "CASE WHEN fo OR fd THEN " + c + " END" }
@@ -1101,7 +1101,11 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	if p.id != "" {
 		id = "id"
 	}
-	keys := []string{suspect("x"), suspect("y"), suspect(id), suspect("d"), suspect("e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0)")}
+	// Cook's distance from the studentized residual ri (computed once a
+	// row above, where it was written out twice): in max() and, for a
+	// flagged row only, in its key.
+	dist := "ri * ri * h / nullif(2 * omh, 0)"
+	keys := []string{suspect("x"), suspect("y"), suspect(id), suspect(dist), suspect("e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0)")}
 	a0, b0 := cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY)
 	a1, b1 := cell("x", g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)
 	// Both grids are binned on x, so a cell of y on x meets few cells of
@@ -1116,7 +1120,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		last = a2 + ", " + b2
 	}
 	sel := []string{"GROUPING(" + set0 + ")", "0", a0, b0, a1, b1, last, fl, "count(*)",
-		"max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
+		"max(" + dist + ")", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
 	if f.Quad {
 		sel = append(sel, "sum(qr * qr)")
 	} else {
@@ -1125,7 +1129,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	sel = append(sel, keys...)
 	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM " + src + " GROUP BY GROUPING SETS (" + sets + ")"
 	if p.spec.Order != "" {
-		stmt = twoLevel(append([]string{a0, b0, a1, b1, fl}, keys...), []string{a2, b2}, sel[len(sel)-len(keys)-1], src)
+		stmt = twoLevel(append([]string{a0, b0, a1, b1, fl}, keys...), []string{a2, b2}, dist, sel[len(sel)-len(keys)-1], src)
 	}
 	th := &Third{MaxD: math.NaN(), LooRMin: math.NaN(), LooRMax: math.NaN(), LooSMin: math.NaN(), LooSMax: math.NaN()}
 	for k := range 3 {
@@ -1245,7 +1249,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 // scripts/pushdown-bench.sh, PostgreSQL 15), in five pairs run back to
 // back, this took a median 1.3 s less of the server's CPU (7.6 to 11.7 s
 // against 9.4 to 13.4 s; the machine's speed drifted between pairs).
-func twoLevel(k, o []string, sq, src string) string {
+func twoLevel(k, o []string, dist, sq, src string) string {
 	var in, ks, ocs []string
 	for i, e := range k {
 		ks = append(ks, "bivar_k"+strconv.Itoa(i))
@@ -1255,7 +1259,7 @@ func twoLevel(k, o []string, sq, src string) string {
 		ocs = append(ocs, "bivar_o"+strconv.Itoa(i))
 		in = append(in, e+" AS "+ocs[i])
 	}
-	inner := "SELECT " + strings.Join(in, ", ") + ", count(*) AS n, max(d) AS md, min(loor) AS lr0, max(loor) AS lr1, min(loos) AS ls0, max(loos) AS ls1, " +
+	inner := "SELECT " + strings.Join(in, ", ") + ", count(*) AS n, max(" + dist + ") AS md, min(loor) AS lr0, max(loor) AS lr1, min(loos) AS ls0, max(loos) AS ls1, " +
 		sq + " AS sq FROM " + src + " GROUP BY " + strings.Join(append(slices.Clone(k), o...), ", ")
 	sel := []string{"GROUPING(" + strings.Join(ks, ", ") + ")", "0", ks[0], ks[1], ks[2], ks[3], ocs[0], ocs[1], ks[4],
 		"CAST(sum(n) AS bigint)", "max(md)", "min(lr0)", "max(lr1)", "min(ls0)", "max(ls1)", "sum(sq)"}

@@ -658,9 +658,10 @@ type GroupSums struct {
 // With print (the columns whose NULL cells the dataset reports; nil for
 // none), the same scan computes the dataset's hash as Fingerprint does,
 // the sum of the row hashes per group added up exactly in Go, into
-// Counts.Print: the dataset then needs no scan of its own for it (on
-// 10⁷ rows, that scan took 1.2 to 2.5 s of the server's CPU, and the
-// hash added to this pass about a third of that).
+// Counts.Print: the dataset then needs no scan of its own for it. On
+// 10⁷ rows (scripts/pushdown-bench.sh, medians of three alternating runs)
+// that scan took 1.65 s of the server's CPU and this pass 2.61 s; this
+// pass with the hash (and sum for avg, below) took 3.18 s.
 func (p *Prepared) First(maxLevels int, print []string) (*Counts, []GroupSums, error) {
 	k := len(p.NumCols)
 	sel := []string{}
@@ -1085,8 +1086,9 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	s2 := "greatest(0, (" + lit(f.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
 	// The row-wise measures each row needs, once per row (see fence),
 	// with the quadratic's residual qr: squared in its sum, it was
-	// evaluated twice a row when written out there (a median 1 s less of
-	// the server's CPU on 10⁷ rows once computed here, the figures the same
+	// evaluated twice a row when written out there (computed here, the
+	// pass took a median 1.2 s less of the server's CPU on 10⁷ rows in
+	// three alternating runs of the statement alone, the figures the same
 	// to the last digit).
 	var qr string
 	if f.Quad {

@@ -45,45 +45,89 @@ const pushdownSuspectMax = 100000
 type pushed struct {
 	q     dataset.Query
 	limit int
-	rows  int
+	cols  []string // the columns whose NULL cells the dataset reports
+	// print is the dataset's hash (dataset.FingerprintMethod), computed by
+	// the first pass of its first study that reaches it, or by a scan of
+	// its own (ensure); ranAt is when its statement started.
+	print *dataset.Print
+	ranAt time.Time
+}
+
+// ensure computes the dataset's hash by a scan of its own, unless a
+// study has computed it already.
+func (pu *pushed) ensure() error {
+	if pu.print != nil {
+		return nil
+	}
+	sess, err := dataset.Open(context.Background(), pu.q)
+	if err != nil {
+		return err
+	}
+	defer sess.Close()
+	ranAt := time.Now().UTC()
+	pr, err := sess.Fingerprint(pu.cols)
+	if err != nil {
+		return err
+	}
+	pu.print, pu.ranAt = pr, ranAt
+	return nil
 }
 
 // loadPushed describes a database dataset whose rows stay in the
-// database: their count and an order-free hash of them
-// (dataset.FingerprintMethod), and the NULL cells of each column the
-// studies use, all counted by the server.
+// database: its columns now (the studies that need a column it lacks
+// fail as with a file); its row count, an order-free hash of its rows
+// (dataset.FingerprintMethod) and the NULL cells of each column the
+// studies use, all counted by the server, once the studies have run
+// (finishPushed): the first pass of its first study computes them in
+// the same scan.
 func loadPushed(ds manifest.Dataset, q dataset.Query, limit int, numeric, text []string) (*loadedSet, error) {
 	sess, err := dataset.Open(context.Background(), q)
 	if err != nil {
 		return nil, err
 	}
 	defer sess.Close()
-	ranAt := time.Now().UTC()
-	cols := append(slices.Clone(numeric), text...)
-	rows, fp, miss, err := sess.Fingerprint(cols)
-	if err != nil {
-		return nil, err
-	}
-	sum := sha256.Sum256([]byte(fp))
 	timeout := q.Timeout
 	if timeout <= 0 {
 		timeout = dataset.DefaultStatementTimeout
 	}
-	ls := &loadedSet{decl: ds, absent: map[string]bool{}, columns: sess.Names, push: &pushed{q: q, limit: limit, rows: rows}}
-	ls.info = report.Dataset{ID: ds.ID, SHA256: hex.EncodeToString(sum[:]), Rows: rows,
-		Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{},
-		Source: &report.Source{Kind: report.SourcePostgreSQL, ServerVersion: sess.ServerVersion, Query: sess.Statements[len(sess.Statements)-1],
-			RanAt: ranAt.Format(time.RFC3339), Connection: ds.Connection, StatementTimeout: timeout.String(), Order: dataset.FingerprintMethod}}
-	for i, c := range cols {
-		if miss[i] < 0 {
+	cols := append(slices.Clone(numeric), text...)
+	ls := &loadedSet{decl: ds, absent: map[string]bool{}, columns: sess.Names, push: &pushed{q: q, limit: limit, cols: cols}}
+	ls.info = report.Dataset{ID: ds.ID, Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{},
+		Source: &report.Source{Kind: report.SourcePostgreSQL, ServerVersion: sess.ServerVersion,
+			Connection: ds.Connection, StatementTimeout: timeout.String(), Order: dataset.FingerprintMethod}}
+	for _, c := range cols {
+		if !slices.Contains(sess.Names, c) {
 			ls.absent[c] = true
-			continue
-		}
-		if !slices.ContainsFunc(ls.info.Missing, func(cc report.ColumnCount) bool { return cc.Column == c }) {
-			ls.info.Missing = append(ls.info.Missing, report.ColumnCount{Column: c, Count: miss[i]})
 		}
 	}
 	return ls, nil
+}
+
+// finishPushed completes the description of a dataset left in the
+// database, after its studies have run: its hash, row count and NULL
+// cells (by a scan of its own when no study computed them).
+func finishPushed(m *manifest.Manifest, ls *loadedSet) error {
+	pu := ls.push
+	if err := pu.ensure(); err != nil {
+		at := fmt.Sprintf("line %d", ls.decl.Line)
+		if m.Path != "" {
+			at = fmt.Sprintf("%s:%d", m.Path, ls.decl.Line)
+		}
+		return fmt.Errorf("dataset %q (%s): %w", ls.decl.ID, at, err)
+	}
+	sum := sha256.Sum256([]byte(pu.print.Text))
+	ls.info.SHA256, ls.info.Rows = hex.EncodeToString(sum[:]), pu.print.Rows
+	ls.info.Source.Query, ls.info.Source.RanAt = pu.print.Statement, pu.ranAt.Format(time.RFC3339)
+	ls.info.Missing = []report.ColumnCount{}
+	for i, c := range pu.cols {
+		if pu.print.Missing[i] < 0 {
+			continue
+		}
+		if !slices.ContainsFunc(ls.info.Missing, func(cc report.ColumnCount) bool { return cc.Column == c }) {
+			ls.info.Missing = append(ls.info.Missing, report.ColumnCount{Column: c, Count: pu.print.Missing[i]})
+		}
+	}
+	return nil
 }
 
 // absentAny reports whether a study needs a column the dataset lacks (the
@@ -110,8 +154,13 @@ func pushedStudy(m *manifest.Manifest, st manifest.Study, ls *loadedSet, cfg Con
 		}
 		return failed(s, msg)
 	}
+	// The messages below give the dataset's row count: a scan of its own
+	// when no study has counted the rows yet.
 	if len(ls.decl.Exclude) > 0 || len(st.Exclude) > 0 || ls.decl.SubsetExpr != nil || st.WhereExpr != nil {
-		return fail(fmt.Sprintf("dataset %q gives %d rows, more than its max_rows = %d, so its rows stay in the database, where exclude, subset and where do not apply: put the filter in the dataset's query (or where = for a table), or raise max_rows", ls.decl.ID, ls.push.rows, ls.push.limit))
+		if err := ls.push.ensure(); err != nil {
+			return fail(err.Error())
+		}
+		return fail(fmt.Sprintf("dataset %q gives %d rows, more than its max_rows = %d, so its rows stay in the database, where exclude, subset and where do not apply: put the filter in the dataset's query (or where = for a table), or raise max_rows", ls.decl.ID, ls.push.print.Rows, ls.push.limit))
 	}
 	// What the database path does not compute: it would otherwise give a
 	// plain study of the recorded values under a study that asked for more.
@@ -126,8 +175,11 @@ func pushedStudy(m *manifest.Manifest, st manifest.Study, ls *loadedSet, cfg Con
 		asks = append(asks, "gauge_sd or replicate columns")
 	}
 	if len(asks) > 0 {
+		if err := ls.push.ensure(); err != nil {
+			return fail(err.Error())
+		}
 		return fail(fmt.Sprintf("dataset %q gives %d rows, more than its max_rows = %d, so its rows stay in the database, where %s cannot be computed: raise max_rows to fetch the rows, or narrow the dataset's query",
-			ls.decl.ID, ls.push.rows, ls.push.limit, strings.Join(asks, " and ")))
+			ls.decl.ID, ls.push.print.Rows, ls.push.limit, strings.Join(asks, " and ")))
 	}
 	missing := ls.decl.Missing
 	if missing == nil {
@@ -152,20 +204,35 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		return s, err
 	}
 	defer sess.Close()
+	if spec.Order != "" { // for the Durbin–Watson grouping's session, below
+		if err := sess.Share(); err != nil {
+			return s, err
+		}
+	}
 	p, err := sess.Prepare(spec)
 	if err != nil {
 		return s, err
 	}
-	info := &report.Pushdown{Rows: pu.rows, Limit: pu.limit, Method: dataset.SampleMethod}
+	info := &report.Pushdown{Limit: pu.limit, Method: dataset.SampleMethod}
 	omit := func(fig, why string) { info.Omitted = append(info.Omitted, report.Omission{Figure: fig, Why: why}) }
 	exact := func(figs ...string) { info.Exact = append(info.Exact, figs...) }
 	defer func() { info.Statements = sess.Statements }()
 
-	// Pass 1: counts, ranges, the levels' means and centred sums.
-	c, gs, err := p.First(maxLevels)
+	// Pass 1: counts, ranges, the levels' means and centred sums, and the
+	// dataset's hash when no study has computed it yet.
+	var print []string
+	if pu.print == nil {
+		print = pu.cols
+	}
+	ranAt := time.Now().UTC()
+	c, gs, err := p.First(maxLevels, print)
 	if err != nil {
 		return s, err
 	}
+	if c.Print != nil {
+		pu.print, pu.ranAt = c.Print, ranAt
+	}
+	info.Rows = c.Rows
 	ix := map[string]int{} // numeric column → index in p.NumCols
 	for i, name := range p.Names {
 		if _, ok := ix[name]; !ok {
@@ -289,6 +356,35 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		}
 	}
 
+	// With a run order, the Durbin–Watson grouping (it needs only the
+	// refined line) runs alongside the third pass on a second session that
+	// shares this one's snapshot (dataset.Session.Fork), or after it on
+	// this one when the server cannot share its snapshot.
+	var dw struct {
+		num  float64
+		err  error
+		sess *dataset.Session
+	}
+	dwDone := make(chan struct{})
+	if spec.Order != "" {
+		dw.sess, _ = sess.Fork() // an error leaves dw.sess nil: see below
+	}
+	if dw.sess != nil {
+		on := p.On(dw.sess)
+		go func() {
+			defer close(dwDone)
+			dw.num, dw.err = on.DurbinWatsonNumerator(fit)
+		}()
+	} else {
+		close(dwDone)
+	}
+	defer func() {
+		<-dwDone
+		if dw.sess != nil {
+			dw.sess.Close()
+		}
+	}()
+
 	// Pass 3: flags, extremes, Breusch–Pagan, trend, the quadratic's
 	// residuals and the density grids, with the refined line.
 	grids := pushdownGrids(c, mom, sums, spec, len(p.NumCols))
@@ -325,12 +421,17 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	exact("Breusch–Pagan test (Koenker's form)")
 	if spec.Order != "" {
-		num, err := p.DurbinWatsonNumerator(fit)
-		if err != nil {
-			return s, err
+		<-dwDone
+		if dw.sess == nil { // no second session: on this one
+			dw.num, dw.err = p.DurbinWatsonNumerator(fit)
+		} else {
+			sess.Statements = append(sess.Statements, dw.sess.Statements...)
+		}
+		if dw.err != nil {
+			return s, dw.err
 		}
 		if rss > 0 {
-			d.DurbinWatson = report.Float(num / rss)
+			d.DurbinWatson = report.Float(dw.num / rss)
 		}
 		// The trend of the refined line's residuals on the order, exactly
 		// from the second pass's sums: Σ(d_o − d̄_o)·e_refined =

@@ -1,7 +1,13 @@
 package analysis_test
 
 import (
+	"bytes"
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
 	"fmt"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
@@ -9,6 +15,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/jackc/pgx/v5"
 
 	"bivar/analysis/report"
 	"bivar/internal/reference"
@@ -488,5 +496,100 @@ func agreeF(t *testing.T, what string, got, want map[string]float64, df2 int) {
 		}
 		delete(got, k)
 		delete(want, k)
+	}
+}
+
+// The dataset's hash and NULL counts are the same whether the first pass
+// of a study computes them (the usual case) or a scan of their own does
+// (a study that stops before its first pass, here one with where =), and
+// both are those of the definition in dataset.FingerprintMethod, written
+// out here as its own statement: the row count and the exact sum of the
+// exclusive or of the cells' hashes, each seeded by the column's
+// position, a NULL cell hashing to that position. The rows have NULLs in
+// a study's number, in a column only the second study uses, in the group
+// and in the id, and the group has more levels than one.
+func TestPushdownHashInFirstPass(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdhash",
+		"CREATE TABLE pdhash (id text, x float8, y float8, w float8, g text, o bigint)",
+		`INSERT INTO pdhash SELECT CASE WHEN i % 13 = 0 THEN NULL ELSE 'r' || i END, CASE WHEN i % 7 = 0 THEN NULL ELSE i END,
+		   i * 0.5 + sin(i), CASE WHEN i % 5 = 0 THEN NULL ELSE cos(i) END, CASE WHEN i % 11 = 0 THEN NULL ELSE 'L' || (i % 3) END, i / 4
+		 FROM generate_series(1, 300) i`)
+	ctx := context.Background()
+	conn, err := pgx.Connect(ctx, url)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer conn.Close(ctx)
+	var n int
+	var hashSum string
+	var nx, nw, ng, nid int
+	if err := conn.QueryRow(ctx, `SELECT count(*), coalesce(sum(coalesce(hashtextextended(id COLLATE "C", 1), 1) # coalesce(hashfloat8extended(x, 2), 2)
+		  # coalesce(hashfloat8extended(y, 3), 3) # coalesce(hashfloat8extended(w, 4), 4) # coalesce(hashtextextended(g COLLATE "C", 5), 5)
+		  # coalesce(hashint8extended(o, 6), 6)), 0)::text,
+		count(*) - count(x), count(*) - count(w), count(*) - count(g), count(*) - count(id) FROM pdhash`).Scan(&n, &hashSum, &nx, &nw, &ng, &nid); err != nil {
+		t.Fatal(err)
+	}
+	want := sha256.Sum256([]byte(fmt.Sprintf("%d %s", n, hashSum)))
+	wantMissing := map[string]int{"x": nx, "y": 0, "w": nw, "g": ng, "id": nid, "o": 0}
+	t.Setenv("BIVAR_TEST_DB", url)
+	decl := "[[dataset]]\nid = \"d\"\ntable = \"pdhash\"\nconnection = \"BIVAR_TEST_DB\"\nid_column = \"id\"\nmax_rows = 100\n"
+	second := "[[study]]\nid = \"w\"\ndataset = \"d\"\nx = \"w\"\ny = \"y\"\n"
+	for _, c := range []struct{ what, first string }{
+		{"computed in the first pass", "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\norder = \"o\"\n"},
+		{"computed by a scan of its own", "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\norder = \"o\"\nwhere = \"x > 3\"\n"},
+	} {
+		r, err := runManifest(t, t.TempDir(), decl+c.first+second)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.Studies[1].Error != nil || r.Studies[1].Pushdown == nil {
+			t.Fatalf("%s: study w: %s", c.what, errText(r.Studies[1].Error))
+		}
+		ds := r.Datasets[0]
+		if ds.SHA256 != hex.EncodeToString(want[:]) || ds.Rows != 300 || r.Studies[1].Pushdown.Rows != 300 {
+			t.Errorf("%s: hash %s over %d rows, want %x over %d (%s)", c.what, ds.SHA256, ds.Rows, want, n, hashSum)
+		}
+		got := map[string]int{}
+		for _, m := range ds.Missing {
+			got[m.Column] = m.Count
+		}
+		if !maps.Equal(got, wantMissing) {
+			t.Errorf("%s: missing cells %v, want %v", c.what, got, wantMissing)
+		}
+		if ds.Source == nil || ds.Source.RanAt == "" || !strings.Contains(ds.Source.Query, `FROM "pdhash"`) {
+			t.Errorf("%s: source %+v", c.what, ds.Source)
+		}
+	}
+}
+
+// A rerun on the same rows gives the same study to the last digit, and
+// lists the same statements in the same order: each statement sums its
+// rows in one server process, in one order, and the Durbin–Watson
+// grouping, which runs alongside the third pass on a second session,
+// reads the same snapshot.
+func TestPushdownRerun(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, bigTableSQL("pdrerun", 50_000)...)
+	t.Setenv("BIVAR_TEST_DB", url)
+	src := "[[dataset]]\nid = \"d\"\ntable = \"pdrerun\"\nconnection = \"BIVAR_TEST_DB\"\nid_column = \"id\"\nmax_rows = 1000\n" +
+		"[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\norder = \"o\"\ncovariates = [\"z\"]\n"
+	var runs [2][]byte
+	var sha [2]string
+	for i := range runs {
+		r, err := runManifest(t, t.TempDir(), src)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if s := r.Studies[0]; s.Error != nil || s.Pushdown == nil || math.IsNaN(float64(s.Diagnostics.DurbinWatson)) {
+			t.Fatalf("run %d: error %s", i+1, errText(s.Error))
+		}
+		if runs[i], err = json.Marshal(r.Studies[0]); err != nil {
+			t.Fatal(err)
+		}
+		sha[i] = r.Datasets[0].SHA256
+	}
+	if !bytes.Equal(runs[0], runs[1]) || sha[0] != sha[1] {
+		t.Errorf("a rerun gives another study or hash (%s / %s)", sha[0], sha[1])
 	}
 }

@@ -152,6 +152,16 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		}()
 	}
 	wg.Wait()
+	// A dataset left in the database gets its hash and counts from its
+	// first study's first pass, or else from a scan of its own.
+	for i, ds := range m.Datasets {
+		if ls := loaded[ds.ID]; ls.push != nil {
+			if err := finishPushed(m, ls); err != nil {
+				return nil, err
+			}
+			r.Datasets[i] = ls.info
+		}
+	}
 
 	if err := Adjust(r.Studies, adjust); err != nil {
 		return nil, fmt.Errorf("manifest %s: %w", m.Path, err)

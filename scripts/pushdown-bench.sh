@@ -5,7 +5,9 @@
 # database's own scan of the same table (SELECT count(*), psql's \timing),
 # medians of three runs each, and, when the server's log is where
 # scripts/pg-test.sh puts it, the server's time for each statement bivar
-# sent (log_min_duration_statement, median of the three runs). The table
+# sent (log_min_duration_statement, median of the three runs; a statement
+# is matched across runs by its opening words, since one run on a second
+# connection may end before or after the other's). The table
 # is the 10⁷-row one of
 # analysis/pushdown_pg_test.go (bigTableSQL, the same statement), built
 # in the database by generate_series.
@@ -93,7 +95,7 @@ for b in "${!bins[@]}"; do
 	[ ${#bins[@]} -eq 1 ] || echo "== ${bins[$b]}"
 	echo "bivar run, pushed down: median $(printf '%s\n' "${w[@]}" | median) s (runs: ${w[*]}), peak RSS median $(printf '%s\n' "${r[@]}" | median) MB (runs: ${r[*]})"
 	if [ -n "$log" ]; then
-		echo "server time per statement (median of the runs: wall ms, CPU ms), in the order bivar sent them:"
+		echo "server time per statement (median of the runs: wall ms, CPU ms), in the order the server ended them in the first run:"
 		# shellcheck disable=SC2086
 		/usr/bin/python3 - ${logs[$b]} <<'PY'
 import re, statistics, sys
@@ -103,9 +105,22 @@ for name in sys.argv[1:]:
     # Each execute's duration, then its EXECUTE MESSAGE STATISTICS block.
     runs.append([(float(m.group(1)), 1000 * (float(m.group(3)) + float(m.group(4))), " ".join(m.group(2).split())[:60])
                  for m in re.finditer(r"duration: ([0-9.]+) ms  execute [^:]*: (.*?)\n\S.*?EXECUTE MESSAGE STATISTICS.*?!\s+([0-9.]+) s user, ([0-9.]+) s system", text, re.S)])
-for k in range(min(len(r) for r in runs)):
-    print("%9.0f %9.0f  %s" % (statistics.median(r[k][0] for r in runs), statistics.median(r[k][1] for r in runs), runs[0][k][2]))
-print("%9.0f %9.0f  (all statements)" % (statistics.median(sum(t for t, _, _ in r) for r in runs), statistics.median(sum(c for _, c, _ in r) for r in runs)))
+# Each statement keyed by its opening words and how many times they came
+# before in the run (a statement run twice is two).
+keyed = []
+for r in runs:
+    seen, d = {}, {}
+    for t, c, text in r:
+        seen[text] = seen.get(text, 0) + 1
+        d[(text, seen[text])] = (t, c)
+    keyed.append(d)
+seen = {}
+for t, c, text in runs[0]:
+    seen[text] = seen.get(text, 0) + 1
+    k = (text, seen[text])
+    if all(k in d for d in keyed):
+        print("%9.0f %9.0f  %s" % (statistics.median(d[k][0] for d in keyed), statistics.median(d[k][1] for d in keyed), text))
+print("%9.0f %9.0f  (all statements; the walls add up to more than the run's when two statements overlap)" % (statistics.median(sum(t for t, _, _ in r) for r in runs), statistics.median(sum(c for _, c, _ in r) for r in runs)))
 PY
 	fi
 done

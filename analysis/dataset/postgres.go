@@ -335,10 +335,7 @@ func (q Query) open(ctx context.Context, timeout time.Duration, statements int, 
 		cancel()
 		return fail(q.err("cannot start a read-only transaction: %v", unwrapAll(err)))
 	}
-	for _, set := range []string{
-		fmt.Sprintf("SET LOCAL statement_timeout = %d", timeout.Milliseconds()),
-		"SET LOCAL TimeZone = 'UTC'", "SET LOCAL DateStyle = 'ISO, YMD'", "SET LOCAL extra_float_digits = 1",
-	} {
+	for _, set := range txSettings(timeout) {
 		if _, err := tx.Exec(ctx, set); err != nil {
 			tx.Rollback(context.WithoutCancel(ctx))
 			conn.Close(context.WithoutCancel(ctx))
@@ -347,6 +344,16 @@ func (q Query) open(ctx context.Context, timeout time.Duration, statements int, 
 		}
 	}
 	return conn, tx, ctx, cancel, nil
+}
+
+// txSettings are the settings of every transaction on a database
+// dataset: the statement timeout, and the time zone, date style and float
+// digits that the rows' text depends on.
+func txSettings(timeout time.Duration) []string {
+	return []string{
+		fmt.Sprintf("SET LOCAL statement_timeout = %d", timeout.Milliseconds()),
+		"SET LOCAL TimeZone = 'UTC'", "SET LOCAL DateStyle = 'ISO, YMD'", "SET LOCAL extra_float_digits = 1",
+	}
 }
 
 // appendCopyText appends v with backslash, tab, newline and carriage

@@ -7,12 +7,13 @@ package dataset
 // window function lag(), built-in hash functions), so the same statements
 // run where a plant's data have outgrown one server.
 //
-// A study takes five statements, each one scan of the query's rows (the
-// dataset's hash, Fingerprint, one more for all studies of the dataset):
+// A study takes five statements, each one scan of the query's rows:
 //
 //  1. First: per group level, the counts, minima and maxima, and the
 //     means and centred sums of x and y by PostgreSQL's own float8
-//     regression aggregates (regr_avgx, regr_sxx, regr_sxy and kin);
+//     regression aggregates (regr_avgx, regr_sxx, regr_sxy and kin); in
+//     the dataset's first study, also the dataset's hash (Fingerprint's
+//     sums, which otherwise take a scan of their own);
 //  2. Second: sums of deviations from the first pass's means, of their
 //     products and powers, and of the line's residuals e and their
 //     powers (the refined line, its RSS, the quadratic, Breusch–Pagan and
@@ -24,7 +25,9 @@ package dataset
 //     leave-one-out extremes (their leave-one-out r computed only in the
 //     cells where the third pass found them);
 //  5. with a run order, the Durbin–Watson numerator: the rows grouped by
-//     run order, the blocks sorted (DurbinWatsonNumerator).
+//     run order, the blocks sorted (DurbinWatsonNumerator), on a second
+//     session that shares the first's snapshot (Fork), alongside the
+//     third pass.
 //
 // Numerics. The regression aggregates update their state by the algorithm
 // of Youngs and Cramer (float8_regr_accum in
@@ -50,6 +53,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"math/big"
 	"slices"
 	"strconv"
 	"strings"
@@ -69,6 +73,7 @@ type Session struct {
 	cancel  context.CancelFunc
 	timeout time.Duration
 	inner   string
+	shared  string // the snapshot Share exported, "" before or when refused
 	kinds   map[string]pgKind
 	oids    []uint32 // type of each result column, Names order
 	// Names are the result's columns, ServerVersion the server's version.
@@ -91,7 +96,9 @@ const sessionStatements = 12
 //     which then computes and sums alone: on 10⁶ rows that took longer
 //     than one process doing all (measured by scripts/pushdown-bench.sh on
 //     PostgreSQL 15). One process also sums the rows in one order, so a
-//     rerun gives the same figures to the last digit;
+//     rerun gives the same figures to the last digit. Where a study gains
+//     from a second process, it runs a whole statement on a second
+//     session (Fork), itself one process and one order;
 //   - work_mem of 256 MB, so that the run-order pass groups and sorts the
 //     blocks of tied orders in memory up to about 10⁶ distinct orders
 //     (180 MB of hash table, 95 MB to sort, measured on PostgreSQL 15);
@@ -138,15 +145,9 @@ func Open(ctx context.Context, q Query) (*Session, error) {
 	}
 	s := &Session{q: q, conn: conn, tx: tx, ctx: ctx, cancel: cancel, timeout: timeout, inner: q.inner(), kinds: map[string]pgKind{},
 		ServerVersion: conn.PgConn().ParameterStatus("server_version")}
-	settings := sessionSettings
-	if majorVersion(s.ServerVersion) >= 11 {
-		settings = append(slices.Clone(settings), jitSettings...)
-	}
-	for _, set := range settings {
-		if _, err := tx.Exec(ctx, set); err != nil {
-			s.Close()
-			return nil, q.err("setting up the session (%s): %v", set, unwrapAll(err))
-		}
+	if err := s.settings(); err != nil {
+		s.Close()
+		return nil, err
 	}
 	desc, err := tx.Prepare(ctx, "", "SELECT * FROM ("+s.inner+"\n) AS bivar_q LIMIT 0")
 	if err != nil {
@@ -159,6 +160,78 @@ func Open(ctx context.Context, q Query) (*Session, error) {
 		s.kinds[f.Name] = pgKinds[f.DataTypeOID]
 	}
 	return s, nil
+}
+
+// settings applies sessionSettings (and jitSettings) to s's transaction.
+func (s *Session) settings() error {
+	settings := sessionSettings
+	if majorVersion(s.ServerVersion) >= 11 {
+		settings = append(slices.Clone(settings), jitSettings...)
+	}
+	for _, set := range settings {
+		if _, err := s.tx.Exec(s.ctx, set); err != nil {
+			return s.q.err("setting up the session (%s): %v", set, unwrapAll(err))
+		}
+	}
+	return nil
+}
+
+// exportSnapshot is Share's statement (a test replaces it with one that
+// fails).
+var exportSnapshot = "SELECT pg_export_snapshot()"
+
+// Share exports s's snapshot (pg_export_snapshot, built into PostgreSQL
+// since 9.2) for Fork, before any statement of a study has run. A server
+// that refuses (a standby of an old version, a connection pooler, …)
+// aborts the transaction: s then starts a new one, with the same
+// settings, and Fork says it cannot; the error is only one that leaves
+// s unusable.
+func (s *Session) Share() error {
+	err := s.tx.QueryRow(s.ctx, exportSnapshot).Scan(&s.shared)
+	if err == nil {
+		return nil
+	}
+	s.shared = ""
+	if err := s.tx.Rollback(s.ctx); err != nil {
+		return s.q.queryError(s.what(), err, s.timeout)
+	}
+	if s.tx, err = s.conn.BeginTx(s.ctx, pgx.TxOptions{AccessMode: pgx.ReadOnly, IsoLevel: pgx.RepeatableRead}); err != nil {
+		return s.q.err("cannot start a read-only transaction: %v", unwrapAll(err))
+	}
+	for _, set := range txSettings(s.timeout) {
+		if _, err := s.tx.Exec(s.ctx, set); err != nil {
+			return s.q.err("setting up the session (%s): %v", set, unwrapAll(err))
+		}
+	}
+	return s.settings()
+}
+
+// Fork opens a second session on the snapshot s shared (Share; SET
+// TRANSACTION SNAPSHOT, since PostgreSQL 9.2), with s's settings, so
+// that a statement runs alongside s's on a second server process and
+// sees the same rows: the Durbin–Watson grouping needs only the refined
+// line and runs beside the third pass, in one process and one order of
+// rows of its own, so its sums are those it gives alone. Close it after
+// use.
+func (s *Session) Fork() (*Session, error) {
+	if s.shared == "" {
+		return nil, s.q.err("the session's snapshot is not shared")
+	}
+	conn, tx, ctx, cancel, err := s.q.open(s.ctx, s.timeout, sessionStatements, pgx.TxOptions{AccessMode: pgx.ReadOnly, IsoLevel: pgx.RepeatableRead})
+	if err != nil {
+		return nil, err
+	}
+	f := &Session{q: s.q, conn: conn, tx: tx, ctx: ctx, cancel: cancel, timeout: s.timeout, inner: s.inner, kinds: s.kinds, oids: s.oids,
+		Names: s.Names, ServerVersion: s.ServerVersion}
+	if _, err := tx.Exec(ctx, "SET TRANSACTION SNAPSHOT "+textLit(s.shared)); err != nil {
+		f.Close()
+		return nil, s.q.err("setting up a second session: %v", unwrapAll(err))
+	}
+	if err := f.settings(); err != nil {
+		f.Close()
+		return nil, err
+	}
+	return f, nil
 }
 
 // Close ends the session.
@@ -323,10 +396,22 @@ func (s *Session) rowHash() string {
 	return "(" + strings.Join(parts, " # ") + ")"
 }
 
+// Print is a dataset's hash (FingerprintMethod) with its row count and
+// the NULL cells of each column asked for (-1 for one the result lacks).
+type Print struct {
+	Rows    int
+	Text    string // "count sum", the text the SHA-256 is taken over
+	Missing []int
+	// Statement is the statement that computed it.
+	Statement string
+}
+
 // Fingerprint counts the rows and sums a hash of each, on the server
 // (FingerprintMethod), and counts the NULL cells of each column of cols
-// that the result has (-1 for one it lacks).
-func (s *Session) Fingerprint(cols []string) (rows int, text string, missing []int, err error) {
+// that the result has (-1 for one it lacks): a scan of its own, for a
+// dataset none of whose studies computed the same in its first pass
+// (Prepared.First).
+func (s *Session) Fingerprint(cols []string) (*Print, error) {
 	sel := []string{"count(*)", "coalesce(sum(" + s.rowHash() + "), 0)::text"}
 	for _, c := range cols {
 		if slices.Contains(s.Names, c) {
@@ -335,19 +420,20 @@ func (s *Session) Fingerprint(cols []string) (rows int, text string, missing []i
 	}
 	r, err := s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (" + s.inner + "\n) AS bivar_q")
 	if err != nil {
-		return 0, "", nil, err
+		return nil, err
 	}
 	n := int(Num(r[0][0]))
+	pr := &Print{Rows: n, Text: fmt.Sprintf("%d %s", n, Text(r[0][1])), Statement: s.Statements[len(s.Statements)-1]}
 	k := 2
 	for _, c := range cols {
 		if !slices.Contains(s.Names, c) {
-			missing = append(missing, -1)
+			pr.Missing = append(pr.Missing, -1)
 			continue
 		}
-		missing = append(missing, int(Num(r[0][k])))
+		pr.Missing = append(pr.Missing, int(Num(r[0][k])))
 		k++
 	}
-	return n, fmt.Sprintf("%d %s", n, Text(r[0][1])), missing, nil
+	return pr, nil
 }
 
 // Spec names the columns of one push-down study.
@@ -480,6 +566,13 @@ func (s *Session) Prepare(spec Spec) (*Prepared, error) {
 	return p, nil
 }
 
+// On is p on the session s (a Fork of p's).
+func (p *Prepared) On(s *Session) *Prepared {
+	c := *p
+	c.s = s
+	return &c
+}
+
 // from is the FROM clause of the query's rows.
 func (p *Prepared) from() string { return " FROM (" + p.s.inner + "\n) AS bivar_q" }
 
@@ -542,6 +635,8 @@ type Counts struct {
 	// Sxx, Syy and Sxy are the centred sums of x and y over the complete
 	// cases by the regression aggregates, pooled over the group levels.
 	Sxx, Syy, Sxy float64
+	// Print is the dataset's hash, when First was asked for it.
+	Print *Print
 }
 
 // GroupSums are one group level's count, means, x range and centred sums.
@@ -559,7 +654,15 @@ type GroupSums struct {
 // regression aggregates of y on x; Go tells the missing group values,
 // pools the levels (Chan et al. 1983, eq. 2.1) and checks maxLevels. The
 // levels are in sorted order (byte order).
-func (p *Prepared) First(maxLevels int) (*Counts, []GroupSums, error) {
+//
+// With print (the columns whose NULL cells the dataset reports; nil for
+// none), the same scan computes the dataset's hash as Fingerprint does,
+// the sum of the row hashes per group added up exactly in Go, into
+// Counts.Print: the dataset then needs no scan of its own for it. On
+// 10⁷ rows (scripts/pushdown-bench.sh, medians of three alternating runs)
+// that scan took 1.65 s of the server's CPU and this pass 2.61 s; this
+// pass with the hash (and sum for avg, below) took 3.18 s.
+func (p *Prepared) First(maxLevels int, print []string) (*Counts, []GroupSums, error) {
 	k := len(p.NumCols)
 	sel := []string{}
 	if p.group != "" {
@@ -576,10 +679,44 @@ func (p *Prepared) First(maxLevels int) (*Counts, []GroupSums, error) {
 		sel = append(sel, "min("+c+")"+f, "max("+c+")"+f)
 	}
 	sel = append(sel, "regr_avgx(y, x)"+f, "regr_avgy(y, x)"+f, "regr_sxx(y, x)"+f, "regr_syy(y, x)"+f, "regr_sxy(y, x)"+f)
+	// The covariates' and the order's means as Σ/n in Go: avg(float8)
+	// keeps the same plain sum Σ (float8_accum, with a sum of squares this
+	// pass does not need, in an array), so the mean is the same to the
+	// last digit, for less of the server's time.
 	for _, c := range p.NumCols[2:] {
-		sel = append(sel, "avg("+c+")"+f)
+		sel = append(sel, "sum("+c+")"+f)
 	}
-	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + p.cols(false) + ", " + p.numericOK() + " AS bivar_ok" + p.from() + fence + ") AS bivar_k"
+	inner := p.cols(false) + ", " + p.numericOK() + " AS bivar_ok"
+	// Where each of the print's columns gets its NULL count: absent from
+	// the result; the group (the NULL group's rows); numeric column i
+	// (Missing[i]); or an aggregate of its own, column at of the result.
+	type printCol struct {
+		absent, group bool
+		i, at         int
+	}
+	printAt := len(sel)
+	var pcs []printCol
+	if print != nil {
+		sel = append(sel, "sum(bivar_h)::text")
+		inner += ", " + p.s.rowHash() + " AS bivar_h"
+		for _, name := range print {
+			pc := printCol{i: slices.Index(p.Names, name)}
+			switch {
+			case !slices.Contains(p.s.Names, name):
+				pc.absent = true
+			case pc.i >= 0:
+			case p.group != "" && name == p.spec.Group:
+				pc.group = true
+			default:
+				pc.at = len(sel)
+				m := "bivar_m" + strconv.Itoa(pc.at)
+				inner += ", bivar_q." + pgx.Identifier{name}.Sanitize() + " AS " + m
+				sel = append(sel, "count(*) - count("+m+")")
+			}
+			pcs = append(pcs, pc)
+		}
+	}
+	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + inner + p.from() + fence + ") AS bivar_k"
 	limit := maxLevels + len(p.spec.Missing) + 2
 	if p.group != "" {
 		stmt += " GROUP BY g LIMIT " + strconv.Itoa(limit)
@@ -595,9 +732,27 @@ func (p *Prepared) First(maxLevels int) (*Counts, []GroupSums, error) {
 	var levels []GroupSums
 	var pooled struct{ n, mx, my, sxx, syy, sxy float64 }
 	sumMean := make([]float64, k) // Σ n·mean of the covariates and the order
+	var hashSum big.Int
+	extra := make([]int, len(sel)) // the print's own NULL counts, by result column
+	nullGroup := 0
 	for _, v := range r {
 		rows, ok := int(Num(v[1])), int(Num(v[2]))
 		c.Rows += rows
+		if print != nil {
+			if t := Text(v[printAt]); t != "" {
+				var h big.Int
+				if _, ok := h.SetString(t, 10); !ok {
+					return nil, nil, p.s.q.err("the server's sum of the row hashes, %q, is not an integer", t)
+				}
+				hashSum.Add(&hashSum, &h)
+			}
+			for i := printAt + 1; i < len(sel); i++ {
+				extra[i] += int(Num(v[i]))
+			}
+			if v[0] == nil {
+				nullGroup += rows
+			}
+		}
 		j := 3
 		for i := range k {
 			c.Missing[i] += int(Num(v[j]))
@@ -624,7 +779,7 @@ func (p *Prepared) First(maxLevels int) (*Counts, []GroupSums, error) {
 			Sxx: Num(v[j+2]), Syy: Num(v[j+3]), Sxy: Num(v[j+4])}
 		j += 5
 		for i := 2; i < k; i++ {
-			sumMean[i] += float64(ok) * Num(v[j])
+			sumMean[i] += float64(ok) * (Num(v[j]) / float64(ok))
 			j++
 		}
 		levels = append(levels, g)
@@ -651,6 +806,21 @@ func (p *Prepared) First(maxLevels int) (*Counts, []GroupSums, error) {
 	slices.SortFunc(levels, func(a, b GroupSums) int { return strings.Compare(a.Level, b.Level) })
 	if p.group == "" {
 		levels = nil
+	}
+	if print != nil {
+		c.Print = &Print{Rows: c.Rows, Text: fmt.Sprintf("%d %s", c.Rows, hashSum.String()), Statement: stmt}
+		for _, pc := range pcs {
+			switch {
+			case pc.absent:
+				c.Print.Missing = append(c.Print.Missing, -1)
+			case pc.group:
+				c.Print.Missing = append(c.Print.Missing, nullGroup)
+			case pc.i >= 0:
+				c.Print.Missing = append(c.Print.Missing, c.Missing[pc.i])
+			default:
+				c.Print.Missing = append(c.Print.Missing, extra[pc.at])
+			}
+		}
 	}
 	return c, levels, nil
 }
@@ -914,16 +1084,30 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	d := "(omh > 0 AND (e * e) * h > " + cutLit(k2) + " * (omh * omh))"
 	ri := "(e / nullif(" + lit(f.S) + " * sqrt(omh), 0))"
 	s2 := "greatest(0, (" + lit(f.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
-	// The row-wise measures each row needs, once per row (see fence).
-	src := "(SELECT *, " + ri + " * " + ri + " * h / nullif(2 * omh, 0) AS d, " + f.loor("dx", "dy", "omh") + " AS loor, " +
-		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"
+	// The row-wise measures each row needs, once per row (see fence),
+	// with the quadratic's residual qr: squared in its sum, it was
+	// evaluated twice a row when written out there (computed here, the
+	// pass took a median 1.2 s less of the server's CPU on 10⁷ rows in
+	// three alternating runs of the statement alone, the figures the same
+	// to the last digit).
+	var qr string
+	if f.Quad {
+		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
+		qr = ", ((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + "))) AS qr"
+	}
+	src := "(SELECT *, " + ri + " AS ri, " + f.loor("dx", "dy", "omh") + " AS loor, " +
+		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd" + qr + " FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"
 	fl := "(CAST(fo AS integer) + 2 * CAST(h > " + cutLit(f.Leverage) + " AS integer) + 4 * CAST(fd AS integer))"
 	suspect := func(c string) string { return "CASE WHEN fo OR fd THEN " + c + " END" }
 	id := "CAST(NULL AS text)"
 	if p.id != "" {
 		id = "id"
 	}
-	keys := []string{suspect("x"), suspect("y"), suspect(id), suspect("d"), suspect("e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0)")}
+	// Cook's distance from the studentized residual ri (computed once a
+	// row above, where it was written out twice): in max() and, for a
+	// flagged row only, in its key.
+	dist := "ri * ri * h / nullif(2 * omh, 0)"
+	keys := []string{suspect("x"), suspect("y"), suspect(id), suspect(dist), suspect("e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0)")}
 	a0, b0 := cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY)
 	a1, b1 := cell("x", g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)
 	// Both grids are binned on x, so a cell of y on x meets few cells of
@@ -938,18 +1122,16 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		last = a2 + ", " + b2
 	}
 	sel := []string{"GROUPING(" + set0 + ")", "0", a0, b0, a1, b1, last, fl, "count(*)",
-		"max(d)", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
+		"max(" + dist + ")", "min(loor)", "max(loor)", "min(loos)", "max(loos)"}
 	if f.Quad {
-		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
-		q := "((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + ")))"
-		sel = append(sel, "sum("+q+" * "+q+")")
+		sel = append(sel, "sum(qr * qr)")
 	} else {
 		sel = append(sel, "CAST(NULL AS double precision)")
 	}
 	sel = append(sel, keys...)
 	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM " + src + " GROUP BY GROUPING SETS (" + sets + ")"
 	if p.spec.Order != "" {
-		stmt = twoLevel(append([]string{a0, b0, a1, b1, fl}, keys...), []string{a2, b2}, sel[len(sel)-len(keys)-1], src)
+		stmt = twoLevel(append([]string{a0, b0, a1, b1, fl}, keys...), []string{a2, b2}, dist, sel[len(sel)-len(keys)-1], src)
 	}
 	th := &Third{MaxD: math.NaN(), LooRMin: math.NaN(), LooRMax: math.NaN(), LooSMin: math.NaN(), LooSMax: math.NaN()}
 	for k := range 3 {
@@ -1069,7 +1251,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 // scripts/pushdown-bench.sh, PostgreSQL 15), in five pairs run back to
 // back, this took a median 1.3 s less of the server's CPU (7.6 to 11.7 s
 // against 9.4 to 13.4 s; the machine's speed drifted between pairs).
-func twoLevel(k, o []string, sq, src string) string {
+func twoLevel(k, o []string, dist, sq, src string) string {
 	var in, ks, ocs []string
 	for i, e := range k {
 		ks = append(ks, "bivar_k"+strconv.Itoa(i))
@@ -1079,7 +1261,7 @@ func twoLevel(k, o []string, sq, src string) string {
 		ocs = append(ocs, "bivar_o"+strconv.Itoa(i))
 		in = append(in, e+" AS "+ocs[i])
 	}
-	inner := "SELECT " + strings.Join(in, ", ") + ", count(*) AS n, max(d) AS md, min(loor) AS lr0, max(loor) AS lr1, min(loos) AS ls0, max(loos) AS ls1, " +
+	inner := "SELECT " + strings.Join(in, ", ") + ", count(*) AS n, max(" + dist + ") AS md, min(loor) AS lr0, max(loor) AS lr1, min(loos) AS ls0, max(loos) AS ls1, " +
 		sq + " AS sq FROM " + src + " GROUP BY " + strings.Join(append(slices.Clone(k), o...), ", ")
 	sel := []string{"GROUPING(" + strings.Join(ks, ", ") + ")", "0", ks[0], ks[1], ks[2], ks[3], ocs[0], ocs[1], ks[4],
 		"CAST(sum(n) AS bigint)", "max(md)", "min(lr0)", "max(lr1)", "min(ls0)", "max(ls1)", "sum(sq)"}

@@ -5,6 +5,7 @@ import (
 	"slices"
 	"strconv"
 	"testing"
+	"time"
 )
 
 // The sample drawn by a threshold on the row hash, with the rows sorted in
@@ -73,5 +74,65 @@ func TestSessionSettings(t *testing.T) {
 	}
 	if major >= 11 && (Text(r[0][1]) != "200000" || Text(r[0][2]) != "200000") {
 		t.Errorf("jit_optimize_above_cost %s, jit_inline_above_cost %s in the session, want 200000", Text(r[0][1]), Text(r[0][2]))
+	}
+}
+
+// A session forked from a shared one sees the rows of its snapshot, not
+// those committed since (SET TRANSACTION SNAPSHOT, PostgreSQL's
+// documentation, "Transaction Isolation" and "SET TRANSACTION"), and runs
+// with the session's settings. Where the server refuses to export the
+// snapshot (here a statement that fails in its place), Share starts the
+// transaction anew with the same settings and Fork says it cannot.
+func TestForkSnapshot(t *testing.T) {
+	ctx, conn, url := pgSetup(t, "DROP TABLE IF EXISTS pdfork", "CREATE TABLE pdfork (x double precision)",
+		"INSERT INTO pdfork SELECT i FROM generate_series(1, 100) i")
+	q := Query{Table: "pdfork", Env: "BIVAR_TEST_PG_URL", URL: url, Timeout: 42 * time.Second}
+	count := func(s *Session) (int, string, string) {
+		t.Helper()
+		r, err := s.rows("SELECT count(*), current_setting('work_mem'), current_setting('statement_timeout') FROM pdfork")
+		if err != nil {
+			t.Fatal(err)
+		}
+		return int(Num(r[0][0])), Text(r[0][1]), Text(r[0][2])
+	}
+	s, err := Open(ctx, q)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.Share(); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := conn.Exec(ctx, "INSERT INTO pdfork VALUES (101)"); err != nil {
+		t.Fatal(err)
+	}
+	f, err := s.Fork()
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if n, wm, to := count(f); n != 100 || wm != "256MB" || to != "42s" {
+		t.Errorf("forked session: %d rows, work_mem %s, statement_timeout %s; want 100 rows (the shared snapshot), 256MB, 42s", n, wm, to)
+	}
+	if n, _, _ := count(s); n != 100 {
+		t.Errorf("shared session: %d rows, want 100", n)
+	}
+
+	exportSnapshot = "SELECT no_such_function()"
+	defer func() { exportSnapshot = "SELECT pg_export_snapshot()" }()
+	s2, err := Open(ctx, q)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s2.Close()
+	if err := s2.Share(); err != nil {
+		t.Fatalf("a refused export should leave a usable session: %v", err)
+	}
+	if f2, err := s2.Fork(); err == nil {
+		f2.Close()
+		t.Errorf("Fork after a refused export: no error")
+	}
+	if n, wm, to := count(s2); n != 101 || wm != "256MB" || to != "42s" {
+		t.Errorf("session after a refused export: %d rows, work_mem %s, statement_timeout %s; want 101, 256MB, 42s", n, wm, to)
 	}
 }

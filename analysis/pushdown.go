@@ -379,6 +379,9 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		close(dwDone)
 	}
 	defer func() {
+		if dw.sess != nil {
+			dw.sess.Cancel() // a study that stops early does not wait for the grouping
+		}
 		<-dwDone
 		if dw.sess != nil {
 			dw.sess.Close()

@@ -234,6 +234,10 @@ func (s *Session) Fork() (*Session, error) {
 	return f, nil
 }
 
+// Cancel stops the statement the session is running, if any (from
+// another goroutine); the session is then good only for Close.
+func (s *Session) Cancel() { s.cancel() }
+
 // Close ends the session.
 func (s *Session) Close() {
 	bg := context.WithoutCancel(s.ctx)

@@ -6,6 +6,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"bivar/analysis/report"
 )
 
 // TestPushdownFlaggedFile: a study whose rows stay in the database writes
@@ -22,18 +24,7 @@ func TestPushdownFlaggedFile(t *testing.T) {
 		    + CASE WHEN i IN (40, 400, 1200) THEN 9 ELSE 0 END
 		  FROM generate_series(1, 3000) i`,
 		"UPDATE pdcsv SET x = 90, y = 10 WHERE id = 'r7'")
-	t.Setenv("BIVAR_TEST_DB", url)
-	dir := t.TempDir()
-	decl := "[[dataset]]\nid = \"d\"\ntable = \"pdcsv\"\nconnection = \"BIVAR_TEST_DB\"\nid_column = \"id\"\n"
-	study := "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n"
-	mem, err := runManifest(t, dir, decl+study)
-	if err != nil {
-		t.Fatal(err)
-	}
-	pushed, err := runManifest(t, dir, strings.Replace(decl, "id_column", "max_rows = 10\nid_column", 1)+study)
-	if err != nil {
-		t.Fatal(err)
-	}
+	mem, pushed := runBoth(t, url, "pdcsv", "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n", 10)
 	m, p := mem.Studies[0], pushed.Studies[0]
 	if p.Pushdown == nil || m.Pushdown != nil {
 		t.Fatalf("push-down %v / in memory %v", p.Pushdown != nil, m.Pushdown == nil)
@@ -66,4 +57,23 @@ func TestPushdownFlaggedFile(t *testing.T) {
 			}
 		}
 	}
+}
+
+// runBoth runs the studies (TOML, on dataset "d") on the table's rows
+// read into memory and on its rows left in the database (max_rows =
+// maxRows), named by the table's id column.
+func runBoth(t *testing.T, url, table, studies string, maxRows int) (mem, pushed *report.Report) {
+	t.Helper()
+	t.Setenv("BIVAR_TEST_DB", url)
+	dir := t.TempDir()
+	decl := "[[dataset]]\nid = \"d\"\ntable = \"" + table + "\"\nconnection = \"BIVAR_TEST_DB\"\nid_column = \"id\"\n"
+	mem, err := runManifest(t, dir, decl+studies)
+	if err != nil {
+		t.Fatal(err)
+	}
+	pushed, err = runManifest(t, dir, strings.Replace(decl, "id_column", "max_rows = "+strconv.Itoa(maxRows)+"\nid_column", 1)+studies)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return mem, pushed
 }

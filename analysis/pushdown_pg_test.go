@@ -115,19 +115,9 @@ func TestPushdownSameAsInMemory(t *testing.T) {
 		  cos(i * 0.4142) + 0.1 * sin(i * 0.7071), CASE WHEN i % 3 = 0 THEN 'a' WHEN i % 3 = 1 THEN 'b' ELSE 'c' END, i / 4
 		  FROM generate_series(1, 2000) i`,
 		"UPDATE pd SET y = NULL WHERE id IN ('r5', 'r900')", "UPDATE pd SET z = NULL WHERE id = 'r17'")
-	t.Setenv("BIVAR_TEST_DB", url)
-	dir := t.TempDir()
 	study := "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\norder = \"o\"\ncovariates = [\"z\"]\npredict_at = [95, 104.5]\n" +
 		"[[study]]\nid = \"plain\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n"
-	decl := "[[dataset]]\nid = \"d\"\ntable = \"pd\"\nconnection = \"BIVAR_TEST_DB\"\nid_column = \"id\"\n"
-	mem, err := runManifest(t, dir, decl+study)
-	if err != nil {
-		t.Fatal(err)
-	}
-	pushed, err := runManifest(t, dir, strings.Replace(decl, "id_column", "max_rows = 10\nid_column", 1)+study)
-	if err != nil {
-		t.Fatal(err)
-	}
+	mem, pushed := runBoth(t, url, "pd", study, 10)
 	for i := range mem.Studies {
 		m, p := mem.Studies[i], pushed.Studies[i]
 		if m.Error != nil || p.Error != nil {
@@ -363,18 +353,8 @@ func TestPushdownMillion(t *testing.T) {
 	}
 	url := pgURL(t)
 	pgExec(t, url, bigTableSQL("pdbig", 1_000_000)...)
-	t.Setenv("BIVAR_TEST_DB", url)
-	dir := t.TempDir()
 	study := "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\norder = \"o\"\ncovariates = [\"z\"]\n"
-	decl := "[[dataset]]\nid = \"d\"\ntable = \"pdbig\"\nconnection = \"BIVAR_TEST_DB\"\nid_column = \"id\"\n"
-	mem, err := runManifest(t, dir, decl+study)
-	if err != nil {
-		t.Fatal(err)
-	}
-	pushed, err := runManifest(t, dir, strings.Replace(decl, "id_column", "max_rows = 1000\nid_column", 1)+study)
-	if err != nil {
-		t.Fatal(err)
-	}
+	mem, pushed := runBoth(t, url, "pdbig", study, 1000)
 	m, p := mem.Studies[0], pushed.Studies[0]
 	if m.Error != nil || p.Error != nil || p.Pushdown == nil || p.Pushdown.Sample != 20000 {
 		t.Fatalf("errors %s / %s, push-down %+v", errText(m.Error), errText(p.Error), p.Pushdown)

@@ -500,6 +500,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		s.Influence.File, s.Influence.FileRows = FlaggedFile(s.ID), n
 	}
 	omit("robust intervals of the slope and r (HC3, HAC, effective n)", "not computed when the rows stay in the database")
+	omit("test for a row of sole support", "not run when the rows stay in the database: a row that alone holds one of only two values of x is counted as of high leverage only")
 
 	// The sample, for the figures that need the rows themselves.
 	info.Sample = len(fetched.Sample)

@@ -310,7 +310,6 @@ func load(m *manifest.Manifest, ds manifest.Dataset) (*loadedSet, error) {
 	var wb *dataset.Workbook // opened once for the header and the cells
 	if workbook {
 		if wb, herr = dataset.OpenWorkbook(path, &lim); herr == nil {
-			defer wb.Close()
 			header, herr = wb.Header(sheet, headerRow)
 		}
 	} else {

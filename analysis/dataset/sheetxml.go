@@ -11,9 +11,8 @@ package dataset
 // 10⁶ rows), and its merged-cell list unmarshals the whole worksheet
 // into memory (1.5 GB and three minutes for a 10⁶-row sheet, measured).
 // The scanner here reads the same rows at well under a microsecond a
-// cell; excelize still opens and checks the workbook and lists its
-// sheets, and the tests compare every cell read here with excelize's own
-// reading (workbook_test.go).
+// cell; the tests compare every cell read here with excelize's own
+// reading (sheetxml_test.go).
 
 import (
 	"archive/zip"
@@ -38,8 +37,7 @@ type sheetPackage struct {
 	sheets  map[string]string       // sheet name → worksheet part name
 	merges  map[string][]mergeRange // worksheet part → its merged ranges, once read
 	sstPart string                  // "" when the workbook has no shared strings
-	sst     Strings                 // loaded on first use
-	sstRead bool
+	sst     Strings                 // loaded on first use (Given once read)
 }
 
 // Relationship types (ECMA-376 Part 1 §15.2; the transitional and the
@@ -162,7 +160,7 @@ func (p *sheetPackage) decode(name string, v any) error {
 		if isUTF8Label(label) {
 			return r, nil
 		}
-		return nil, fmt.Errorf("the XML is in the %s encoding; bivar reads workbooks in UTF-8, as spreadsheet programs write them", label)
+		return nil, encodingError(label)
 	}
 	if err := d.Decode(v); err != nil {
 		return fmt.Errorf("part %s: %w", name, err)
@@ -188,14 +186,14 @@ func (p *sheetPackage) open(name string) (io.ReadCloser, error) {
 // decoded; all in one block of text (Strings), 4 bytes a string besides
 // the text.
 func (p *sheetPackage) sharedStrings() (Strings, error) {
-	if p.sstRead || p.sstPart == "" {
+	if p.sst.Given() || p.sstPart == "" {
 		return p.sst, nil
 	}
 	sst, err := p.readSST()
 	if err != nil {
 		return Strings{}, fmt.Errorf("part %s: %w", p.sstPart, err)
 	}
-	p.sst, p.sstRead = sst, true
+	p.sst = sst
 	return sst, nil
 }
 
@@ -208,7 +206,8 @@ func (p *sheetPackage) readSST() (Strings, error) {
 	defer rc.Close()
 	s := newXMLScan(rc)
 	var text []byte
-	inSI, inT, inPh, ended := false, false, 0, false
+	var rt richText
+	inSI, ended := false, false
 	add := func(t string) error {
 		if !sst.add(t) {
 			return fmt.Errorf("the shared strings pass %d bytes", MaxTextBytes)
@@ -240,12 +239,8 @@ func (p *sheetPackage) readSST() (Strings, error) {
 					}
 					inSI = false
 				}
-			case "rPh":
-				if tk.kind == tokStart {
-					inPh++
-				}
-			case "t":
-				inT = tk.kind == tokStart && inSI && inPh == 0
+			case "rPh", "t":
+				rt.tag(tk, inSI)
 			case "sst":
 				ended = tk.kind == tokEmpty
 			}
@@ -256,10 +251,8 @@ func (p *sheetPackage) readSST() (Strings, error) {
 					return sst, err
 				}
 				inSI = false
-			case "rPh":
-				inPh--
-			case "t":
-				inT = false
+			case "rPh", "t":
+				rt.tag(tk, inSI)
 			case "sst":
 				if inSI {
 					return sst, errors.New("the table ends inside a string")
@@ -267,7 +260,7 @@ func (p *sheetPackage) readSST() (Strings, error) {
 				ended = true
 			}
 		case tokText:
-			if inT {
+			if rt.inT {
 				if text, err = tk.appendText(text); err != nil {
 					return sst, err
 				}
@@ -385,7 +378,7 @@ func parseRange(ref []byte) (mergeRange, bool) {
 	if !ok1 || !ok2 {
 		return mergeRange{}, false
 	}
-	return mergeRange{int32(c1 + 1), int32(r1), int32(c2 + 1), int32(r2)}, true
+	return mergeRange{int32(c1), int32(r1), int32(c2), int32(r2)}, true
 }
 
 // cellOf reads a cell reference ("C12", "$C$12"): its 0-based column
@@ -410,27 +403,6 @@ const (
 	maxSheetRows = 1 << 20
 	maxSheetCols = 1 << 14
 )
-
-// startsElement says whether the bytes before a name end in "<" or in
-// "<prefix:".
-func startsElement(before []byte) bool {
-	i := len(before)
-	if i > 0 && before[i-1] == '<' {
-		return true
-	}
-	if i == 0 || before[i-1] != ':' {
-		return false
-	}
-	i--
-	for i > 0 && isNameByte(before[i-1]) {
-		i--
-	}
-	return i > 0 && i < len(before)-1 && before[i-1] == '<'
-}
-
-func isNameByte(b byte) bool {
-	return b >= 'a' && b <= 'z' || b >= 'A' && b <= 'Z' || b >= '0' && b <= '9' || b == '_' || b == '-' || b == '.' || b >= 0x80
-}
 
 func isNameEnd(b byte) bool {
 	return b == ' ' || b == '\t' || b == '\n' || b == '\r' || b == '/' || b == '>'
@@ -476,9 +448,8 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 		typ     []byte
 		inCell  bool
 		inV     bool
-		inIS    int // depth inside an is element
-		inT     bool
-		inPh    int
+		inIS    int      // depth inside an is element
+		rt      richText // inside an is element
 		hasV    bool
 		isText  []byte
 		hasIS   bool
@@ -552,12 +523,8 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 					inIS++
 					hasIS = true
 				}
-			case "rPh":
-				if inIS > 0 && tk.kind == tokStart {
-					inPh++
-				}
-			case "t":
-				inT = inIS > 0 && inPh == 0 && tk.kind == tokStart
+			case "rPh", "t":
+				rt.tag(tk, inIS > 0)
 			}
 		case tokEnd:
 			switch string(tk.name) {
@@ -599,12 +566,8 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 				inV = false
 			case "is":
 				inIS--
-			case "rPh":
-				if inPh > 0 {
-					inPh--
-				}
-			case "t":
-				inT = false
+			case "rPh", "t":
+				rt.tag(tk, inIS > 0)
 			case "sheetData":
 				return nil // the rest of the part holds no cells
 			}
@@ -614,12 +577,35 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 				if arena, err = tk.appendText(arena); err != nil {
 					return wrap(err)
 				}
-			case inT:
+			case rt.inT:
 				if isText, err = tk.appendText(isText); err != nil {
 					return wrap(err)
 				}
 			}
 		}
+	}
+}
+
+// richText follows the t and rPh elements of a string item (si in the
+// shared strings, is in a cell; §18.4.8): the item's text is that of its
+// t element or of its runs' t elements, phonetic runs (rPh) left out.
+type richText struct {
+	inT bool // in a t element whose text counts
+	ph  int  // depth inside rPh elements
+}
+
+// tag takes a start, end or empty tag named t or rPh; inItem says whether
+// it is inside a string item.
+func (r *richText) tag(tk token, inItem bool) {
+	switch string(tk.name) {
+	case "rPh":
+		if tk.kind == tokStart && inItem {
+			r.ph++
+		} else if tk.kind == tokEnd && r.ph > 0 {
+			r.ph--
+		}
+	case "t":
+		r.inT = tk.kind == tokStart && inItem && r.ph == 0
 	}
 }
 
@@ -856,7 +842,7 @@ func (s *xmlScan) next() (token, error) {
 			pi := s.buf[s.pos+2 : s.pos+k]
 			if bytes.HasPrefix(pi, []byte("xml")) && len(pi) > 3 && isNameEnd(pi[3]) {
 				if enc := attrValue(pi[3:], "encoding"); enc != nil && !isUTF8Label(string(enc)) {
-					return token{}, fmt.Errorf("the XML is in the %s encoding; bivar reads workbooks in UTF-8, as spreadsheet programs write them", enc)
+					return token{}, encodingError(string(enc))
 				}
 			}
 			s.pos += k + 2
@@ -912,17 +898,15 @@ func (t token) appendText(dst []byte) ([]byte, error) {
 	if high && !utf8.Valid(src) {
 		return dst, fmt.Errorf("the text %q is not valid UTF-8", clip(src))
 	}
+	special := "&\r"
+	if t.cdata {
+		special = "\r" // a CDATA section holds no references
+	}
 	for len(src) > 0 {
-		k := bytes.IndexAny(src, "&\r")
-		if k < 0 || t.cdata && src[k] == '&' {
-			if t.cdata {
-				if k = bytes.IndexByte(src, '\r'); k >= 0 {
-					goto special
-				}
-			}
+		k := bytes.IndexAny(src, special)
+		if k < 0 {
 			return append(dst, src...), nil
 		}
-	special:
 		dst = append(dst, src[:k]...)
 		src = src[k:]
 		if src[0] == '\r' {
@@ -984,6 +968,10 @@ func isUTF8Label(enc string) bool {
 		return true
 	}
 	return false
+}
+
+func encodingError(label string) error {
+	return fmt.Errorf("the XML is in the %s encoding; bivar reads workbooks in UTF-8, as spreadsheet programs write them", label)
 }
 
 func clip(b []byte) string {

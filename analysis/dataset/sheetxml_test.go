@@ -86,7 +86,7 @@ func ourRows(t *testing.T, path, sheet string) (rows [][]string, merges []string
 		t.Fatal(err)
 	}
 	for _, m := range ms {
-		merges = append(merges, cellRef(int(m.c1)-1, int(m.r1))+":"+cellRef(int(m.c2)-1, int(m.r2)))
+		merges = append(merges, cellRef(int(m.c1), int(m.r1))+":"+cellRef(int(m.c2), int(m.r2)))
 	}
 	return rows, merges
 }

@@ -106,9 +106,6 @@ func OpenWorkbook(path string, lim *Limits) (*Workbook, error) {
 // (MS-OFFCRYPTO) or a legacy .xls.
 var oleMagic = []byte{0xD0, 0xCF, 0x11, 0xE0, 0xA1, 0xB1, 0x1A, 0xE1}
 
-// Close releases the workbook.
-func (w *Workbook) Close() error { return nil }
-
 // SHA256 is the hex SHA-256 of the workbook file's bytes.
 func (w *Workbook) SHA256() string { return w.sha }
 
@@ -145,7 +142,8 @@ func (w *Workbook) sheet(ref SheetRef) (string, error) {
 	return w.sheets[ref.Number-1], nil
 }
 
-// mergeRange is a merged range of cells, 1-based and inclusive.
+// mergeRange is a merged range of cells, inclusive: 0-based columns (as
+// sheetCell's) and 1-based rows (as the sheet's).
 type mergeRange struct{ c1, r1, c2, r2 int32 }
 
 // readSheet reads sheet ref row by row (sheetPackage.rows). It settles the
@@ -180,7 +178,7 @@ func (w *Workbook) readSheet(ref SheetRef, headerRow int, header func(sheet stri
 	first := map[[2]int]string{}
 	for _, m := range merges {
 		if headerRow == 0 || int(m.r1) <= headerRow && headerRow <= int(m.r2) {
-			first[[2]int{int(m.r1), int(m.c1) - 1}] = ""
+			first[[2]int{int(m.r1), int(m.c1)}] = ""
 		}
 	}
 
@@ -259,30 +257,28 @@ func (w *Workbook) readSheet(ref SheetRef, headerRow int, header func(sheet stri
 // merged ranges over it (see readSheet).
 func headerNames(cells []sheetCell, merges []mergeRange, first map[[2]int]string, headerRow int) []string {
 	var header []string
-	for _, c := range cells {
-		if len(c.v) == 0 {
-			continue // as excelize's row reading: an empty cell adds no column
-		}
-		for len(header) < c.col {
+	grow := func(c int) { // header holds column c
+		for len(header) <= c {
 			header = append(header, "")
 		}
-		header = append(header, string(c.v))
+	}
+	for _, c := range cells { // cells without a value are not among them
+		grow(c.col)
+		header[c.col] = string(c.v)
 	}
 	for _, m := range merges {
 		r1, r2, c1, c2 := int(m.r1), int(m.r2), int(m.c1), int(m.c2)
 		if headerRow < r1 || headerRow > r2 {
 			continue
 		}
-		v := strings.TrimSpace(first[[2]int{r1, c1 - 1}])
+		v := strings.TrimSpace(first[[2]int{r1, c1}])
 		for c := c1; c <= c2; c++ {
-			for len(header) < c {
-				header = append(header, "")
-			}
+			grow(c)
 			name := v
 			if c > c1 && v != "" {
 				name = fmt.Sprintf("%s (%d)", v, c-c1+1)
 			}
-			header[c-1] = name
+			header[c] = name
 		}
 	}
 	names := make([]string, len(header))
@@ -309,7 +305,6 @@ func WorkbookHeader(path string, ref SheetRef, headerRow int, lim *Limits) ([]st
 	if err != nil {
 		return nil, err
 	}
-	defer w.Close()
 	return w.Header(ref, headerRow)
 }
 
@@ -344,7 +339,6 @@ func ReadWorkbook(path string, ref SheetRef, headerRow int, opts Options, numeri
 	if err != nil {
 		return nil, err
 	}
-	defer w.Close()
 	return w.Read(ref, headerRow, opts, numeric, text)
 }
 
@@ -382,13 +376,7 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 	put := func(c *colRead, r int, b []byte) {
 		b = bytes.TrimSpace(b)
 		isErr := len(b) > 0 && b[0] == '#' && IsExcelError(string(b))
-		isMissing := isErr
-		for _, m := range missing {
-			if isMissing || string(b) == m {
-				isMissing = true
-				break
-			}
-		}
+		isMissing := isErr || slices.Contains(missing, string(b))
 		if isErr {
 			if t.CellErrors[c.name] == nil {
 				t.CellErrors[c.name] = map[string]int{}

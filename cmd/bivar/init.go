@@ -565,7 +565,6 @@ func profileWorkbook(path string) (profs []*csvProfile, skipped []string, err er
 	if err != nil {
 		return nil, nil, err
 	}
-	defer w.Close()
 	used := map[string]bool{}
 	for _, sheet := range w.Sheets() {
 		ref := dataset.SheetRef{Name: sheet}

@@ -36,10 +36,12 @@ import (
 const PushdownSample = 20000
 
 // pushdownSuspectMax is the most rows flagged outlier or influential that
-// a study fetches to refit without them; above it the figures without the
-// flagged rows are left out (a study with that many such rows is read
-// from its counts, not from its named rows).
-const pushdownSuspectMax = 100000
+// a study fetches, to refit without them and to list in its file of
+// flagged rows (the file's own cap, so that it lists what a study in
+// memory lists); above it the figures without the flagged rows are left
+// out (a study with that many such rows is read from its counts, not
+// from its named rows).
+const pushdownSuspectMax = FlaggedFileMax
 
 // pushed is a database dataset left in the database.
 type pushed struct {

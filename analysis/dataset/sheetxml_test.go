@@ -227,23 +227,7 @@ func TestSheetPrefixedNames(t *testing.T) {
 			`<x:row r="4"><x:c r="A4" t="str"><x:f>A2+1</x:f><x:v><![CDATA[1402.5]]></x:v></x:c><x:c r="C4" t="s"><x:v>2</x:v></x:c><x:c r="D4" t="e"><x:v>#N/A</x:v></x:c></x:row>` +
 			`</x:sheetData><x:mergeCells count="1"><x:mergeCell ref="A1:A1"/></x:mergeCells></x:worksheet>`,
 	}
-	var buf bytes.Buffer
-	zw := zip.NewWriter(&buf)
-	for _, name := range slices.Sorted(func(yield func(string) bool) {
-		for k := range parts {
-			if !yield(k) {
-				return
-			}
-		}
-	}) {
-		fw, err := zw.Create(name)
-		must(t, err)
-		_, err = fw.Write([]byte(parts[name]))
-		must(t, err)
-	}
-	must(t, zw.Close())
-	path := filepath.Join(t.TempDir(), "prefixed.xlsx")
-	must(t, os.WriteFile(path, buf.Bytes(), 0o644))
+	path := zipParts(t, parts)
 	got, merges := ourRows(t, path, "Run 1")
 	want := [][]string{{"temp", "hard ness"}, {"1401.5", "250"}, nil, {"1402.5", "", "a<b μm", "#N/A"}}
 	if len(got) != len(want) || !slices.EqualFunc(got, want, slices.Equal) {
@@ -331,6 +315,13 @@ func handBook(t *testing.T, sheet, sst string, sstRel bool) string {
 	if sst != "" {
 		parts["xl/sharedStrings.xml"] = `<?xml version="1.0" encoding="UTF-8"?><sst xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">` + sst
 	}
+	return zipParts(t, parts)
+}
+
+// zipParts writes the parts (name → content), in name order, as a zip
+// archive in a new .xlsx file and returns its path.
+func zipParts(t *testing.T, parts map[string]string) string {
+	t.Helper()
 	var buf bytes.Buffer
 	zw := zip.NewWriter(&buf)
 	for _, name := range slices.Sorted(maps.Keys(parts)) {

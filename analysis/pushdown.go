@@ -35,12 +35,12 @@ import (
 // those figures hold here too.
 const PushdownSample = 20000
 
-// pushdownSuspectMax is the most rows flagged outlier or influential that
-// a study fetches, to refit without them and to list in its file of
-// flagged rows (the file's own cap, so that it lists what a study in
-// memory lists); above it the figures without the flagged rows are left
-// out (a study with that many such rows is read from its counts, not
-// from its named rows).
+// pushdownSuspectMax is the most rows flagged outlier, influential or
+// sole support that a study fetches, to refit without them and to list in
+// its file of flagged rows (the file's own cap, so that it lists what a
+// study in memory lists); above it the figures without the flagged rows
+// are left out (a study with that many such rows is read from its counts,
+// not from its named rows).
 const pushdownSuspectMax = FlaggedFileMax
 
 // pushed is a database dataset left in the database.
@@ -291,10 +291,28 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// Pass 2: centred sums about the first pass's means, corrected by the
 	// sums of the deviations, and sums of the first pass's line's
 	// residuals e = d_y − b1·d_x.
+	// x may take only two values, one of them in a single row, which then
+	// has leverage 1 (sole support, flagged as in memory): its centred sum
+	// is then Sxx = (n − 1)/n·(max − min)², which the first pass's sums
+	// show, and only then does the second pass count the rows at the two
+	// ends of x to tell.
 	b1 := c.Sxy / c.Sxx
-	sums, err := p.Second(c.Mean, b1)
+	var ends *[2]float64
+	if span := c.Max[0] - c.Min[0]; math.Abs(c.Sxx-(nf-1)/nf*span*span) <= 1e-6*c.Sxx {
+		ends = &[2]float64{c.Min[0], c.Max[0]}
+	}
+	sums, err := p.Second(c.Mean, b1, ends)
 	if err != nil {
 		return s, err
+	}
+	var sole *float64
+	if ends != nil && sums.AtEnds[0]+sums.AtEnds[1] == n {
+		switch {
+		case sums.AtEnds[0] == 1:
+			sole = &ends[0]
+		case sums.AtEnds[1] == 1:
+			sole = &ends[1]
+		}
 	}
 	k := len(p.NumCols)
 	// Each mean in two parts, the first pass's and the correction: the
@@ -350,7 +368,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		sres = math.Sqrt(rss / (nf - 2))
 	}
 	fit := dataset.Fit{N: n, MX: c.Mean[0], MY: c.Mean[1], MXLo: lo[0], MYLo: lo[1], B: b,
-		Sxx: mom.Sxx, Syy: mom.Syy, Sxy: mom.Sxy, RSS: rss, S: sres, Outlier: rules.Outlier, Cooks: rules.Cooks, Leverage: rules.Leverage}
+		Sxx: mom.Sxx, Syy: mom.Syy, Sxy: mom.Sxy, RSS: rss, S: sres, Outlier: rules.Outlier, Cooks: rules.Cooks, Leverage: rules.Leverage, Sole: sole}
 	var quad *quadSolve
 	if n >= 4 {
 		if quad = solveQuadratic(nf, c.Mean[0], c.Mean[1], b1, sums); quad != nil {
@@ -482,27 +500,25 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	if err != nil {
 		return s, err
 	}
-	s.Influence, s.Sensitivity = influenceFromSums(mom, rss, pc, lf, rules, th, sus, fetched.Extremes, cfg, conf)
+	s.Influence, s.Sensitivity = influenceFromSums(mom, rss, sole, pc, lf, rules, th, sus, fetched.Extremes, cfg, conf)
 	exact("influence: flag counts, named rows and their measures, the largest Cook's distance", "sensitivity: leave-one-out extremes, the line without each named row")
 	if th.Suspect > len(sus) {
-		omit("r and line without the flagged rows", fmt.Sprintf("%d rows are flagged outlier or influential, more than the %d a study fetches to refit without them", th.Suspect, pushdownSuspectMax))
+		omit("r and line without the flagged rows", fmt.Sprintf("%d rows are flagged outlier, influential or sole support, more than the %d a study fetches to refit without them", th.Suspect, pushdownSuspectMax))
 	} else {
 		exact("r and line without the flagged rows")
 	}
 	// The file of the flagged rows: the first FlaggedFileMax by the
 	// ranking (the third pass returns them in that order), each row's
-	// measures from the line's sums, as for a file.
+	// measures from the line's sums, its flags the third pass's.
 	if n := min(len(th.Suspects), FlaggedFileMax); n > 0 {
 		rows := th.Suspects[:n]
 		s.FlaggedCSV = flaggedCSV(n, func(k int) flaggedRow {
 			r := rows[k]
-			ri := rowInfluence(mom, rss, r.X, r.Y)
-			return flaggedRow{name: pushedRowName(r), x: r.X, y: r.Y, flags: rules.Flag(ri.Leverage, ri.StudentizedExt, ri.CooksD, false), r: ri}
+			return flaggedRow{name: pushedRowName(r), x: r.X, y: r.Y, flags: findings.FlagSet(r.Flags), r: rowInfluence(mom, rss, sole, r.X, r.Y)}
 		})
 		s.Influence.File, s.Influence.FileRows = FlaggedFile(s.ID), n
 	}
 	omit("robust intervals of the slope and r (HC3, HAC, effective n)", "not computed when the rows stay in the database")
-	omit("test for a row of sole support", "not run when the rows stay in the database: a row that alone holds one of only two values of x is counted as of high leverage only")
 
 	// The sample, for the figures that need the rows themselves.
 	info.Sample = len(fetched.Sample)
@@ -895,8 +911,14 @@ func pushedRowName(r dataset.Row) string {
 	return fmt.Sprintf("(x = %g, y = %g)", r.X, r.Y)
 }
 
-// rowInfluence is stats.LineInfluence.At for one row given the line's sums.
-func rowInfluence(m stats.Moments, rss float64, x, y float64) stats.InfluenceRow {
+// rowInfluence is stats.LineInfluence.At for one row given the line's
+// sums, sole the x of the row of sole support (nil when none).
+func rowInfluence(m stats.Moments, rss float64, sole *float64, x, y float64) stats.InfluenceRow {
+	if sole != nil && x == *sole {
+		nan := math.NaN()
+		return stats.InfluenceRow{Leverage: 1, Residual: 0, Studentized: nan, StudentizedExt: nan, CooksD: nan, DFFITS: nan,
+			LooR: nan, LooSlope: nan, LooIntercept: nan, SoleSupport: true}
+	}
 	nf := float64(m.N)
 	b1 := m.Sxy / m.Sxx
 	dx, dy := x-m.MeanX, y-m.MeanY
@@ -932,7 +954,7 @@ func rowInfluence(m stats.Moments, rss float64, x, y float64) stats.InfluenceRow
 
 // influenceFromSums fills the influence summary and the sensitivity
 // figures from the database's counts and the rows it returned.
-func influenceFromSums(m stats.Moments, rss float64, all stats.Correlation, line report.Fit, rules findings.FlagRules, fc *dataset.Third,
+func influenceFromSums(m stats.Moments, rss float64, sole *float64, all stats.Correlation, line report.Fit, rules findings.FlagRules, fc *dataset.Third,
 	sus, ext []dataset.Row, cfg Config, conf float64) (*report.Influence, *report.Sensitivity) {
 	namedMax := cfg.namedMax()
 	in := &report.Influence{MaxCooksD: report.NaN(), NamedMax: namedMax, Ranking: ranking,
@@ -944,7 +966,7 @@ func influenceFromSums(m stats.Moments, rss float64, all stats.Correlation, line
 		in.Rules.CooksD = report.NaN()
 	}
 	in.Counts = report.FlagCounts{Flagged: fc.Flagged, Outlier: fc.Outlier, HighLeverage: fc.HighLeverage, Influential: fc.Influential,
-		Suspect: fc.Suspect, LeverageOnly: fc.Flagged - fc.Suspect}
+		SoleSupport: fc.SoleSupport, Suspect: fc.Suspect, LeverageOnly: fc.Flagged - fc.Suspect}
 	se := &report.Sensitivity{LooRMin: report.Float(fc.LooRMin), LooRMax: report.Float(fc.LooRMax), LooSlopeMin: report.Float(fc.LooSMin), LooSlopeMax: report.Float(fc.LooSMax),
 		RWithoutFlagged: report.NaN(), RWithoutLow: report.NaN(), RWithoutHigh: report.NaN(), PWithoutFlagged: report.NaN(),
 		SlopeWithoutFlagged: report.NaN(), InterceptWithout: report.NaN(), ResistantSlope: report.NaN(), ResistantIntercept: report.NaN(),
@@ -953,7 +975,7 @@ func influenceFromSums(m stats.Moments, rss float64, all stats.Correlation, line
 		in.MaxCooksD = report.Float(fc.MaxD)
 	}
 	for _, r := range ext {
-		ri := rowInfluence(m, rss, r.X, r.Y)
+		ri := rowInfluence(m, rss, sole, r.X, r.Y)
 		if se.LooRMinRow == "" && ri.LooR == fc.LooRMin {
 			se.LooRMinRow = pushedRowName(r)
 		}
@@ -963,14 +985,14 @@ func influenceFromSums(m stats.Moments, rss float64, all stats.Correlation, line
 	}
 	in.Points = []report.Point{}
 	for _, r := range sus {
-		ri := rowInfluence(m, rss, r.X, r.Y)
+		ri := rowInfluence(m, rss, sole, r.X, r.Y)
 		if in.MaxCooksRow == "" && (ri.CooksD == fc.MaxD || r.D == fc.MaxD) {
 			in.MaxCooksRow = pushedRowName(r)
 		}
 		if len(in.Points) == namedMax {
 			break
 		}
-		f := rules.Flag(ri.Leverage, ri.StudentizedExt, ri.CooksD, false)
+		f := findings.FlagSet(r.Flags) // the third pass's, which its counts add up
 		in.Points = append(in.Points, report.Point{Row: pushedRowName(r), Index: -1, X: report.Float(r.X), Y: report.Float(r.Y),
 			Leverage: report.Float(ri.Leverage), Studentized: report.Float(ri.Studentized), StudentizedExt: report.Float(ri.StudentizedExt),
 			CooksD: report.Float(ri.CooksD), DFFITS: report.Float(ri.DFFITS), Flags: f.Names()})

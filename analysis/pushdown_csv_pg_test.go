@@ -29,6 +29,16 @@ func TestPushdownFlaggedFile(t *testing.T) {
 	if p.Pushdown == nil || m.Pushdown != nil {
 		t.Fatalf("push-down %v / in memory %v", p.Pushdown != nil, m.Pushdown == nil)
 	}
+	if n := sameFlaggedFile(t, m, p); n < 5 {
+		t.Fatalf("%d records; want the header and the 4 planted rows at least", n)
+	}
+}
+
+// sameFlaggedFile checks that the pushed-down study p writes the file of
+// flagged rows that the study m in memory writes: the same records, the
+// numbers within 1e-9 relative. It returns the number of records.
+func sameFlaggedFile(t *testing.T, m, p report.Study) int {
+	t.Helper()
 	read := func(b []byte) [][]string {
 		recs, err := csv.NewReader(strings.NewReader(string(b))).ReadAll()
 		if err != nil {
@@ -37,8 +47,8 @@ func TestPushdownFlaggedFile(t *testing.T) {
 		return recs
 	}
 	mr, pr := read(m.FlaggedCSV), read(p.FlaggedCSV)
-	if len(mr) < 5 || len(pr) != len(mr) || p.Influence.FileRows != m.Influence.FileRows || p.Influence.File != m.Influence.File {
-		t.Fatalf("in memory %d records (file %s, %d rows), pushed %d (file %s, %d rows); want the same, the 4 planted rows among them",
+	if len(pr) != len(mr) || p.Influence.FileRows != m.Influence.FileRows || p.Influence.File != m.Influence.File {
+		t.Fatalf("in memory %d records (file %s, %d rows), pushed %d (file %s, %d rows); want the same",
 			len(mr), m.Influence.File, m.Influence.FileRows, len(pr), p.Influence.File, p.Influence.FileRows)
 	}
 	for i := range mr {
@@ -54,6 +64,57 @@ func TestPushdownFlaggedFile(t *testing.T) {
 			}
 			if a != b {
 				t.Errorf("row %d, %s: %q pushed, %q in memory", i, mr[0][j], b, a)
+			}
+		}
+	}
+	return len(mr)
+}
+
+// TestPushdownSoleSupport: when x takes two values and one of them is in
+// a single row, that row alone sets the slope (leverage 1); a study whose
+// rows stay in the database flags it sole support, names it first and
+// lists it in its file as the study of the same rows in memory does
+// (stats.LineInfluence, itself checked against statsmodels'
+// OLSInfluence in its tests), whether the lone value is the largest x or
+// the least, with every exact figure within 1e-9 relative.
+func TestPushdownSoleSupport(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdsole", "CREATE TABLE pdsole (id text, x float8, xl float8, y float8)",
+		// Sines of multiples of an irrational step (reproducible on any
+		// server); row r1500 alone at x = 35 (and at xl = 5).
+		`INSERT INTO pdsole SELECT 'r' || i, CASE WHEN i = 1500 THEN 35 ELSE 20 END, CASE WHEN i = 1500 THEN 5 ELSE 20 END,
+		  4 + sin(i * 1.3247 + 0.5) + CASE WHEN i = 1500 THEN 6 ELSE 0 END
+		  FROM generate_series(1, 3000) i`)
+	studies := "[[study]]\nid = \"hi\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n" +
+		"[[study]]\nid = \"lo\"\ndataset = \"d\"\nx = \"xl\"\ny = \"y\"\n"
+	mem, pushed := runBoth(t, url, "pdsole", studies, 10)
+	for i := range mem.Studies {
+		m, p := mem.Studies[i], pushed.Studies[i]
+		if m.Error != nil || p.Error != nil {
+			t.Fatalf("study %s: errors %v, %v", m.ID, errText(m.Error), errText(p.Error))
+		}
+		if p.Pushdown == nil || m.Pushdown != nil {
+			t.Fatalf("study %s: push-down %v / in memory %v", m.ID, p.Pushdown != nil, m.Pushdown == nil)
+		}
+		if m.Influence.Counts.SoleSupport != 1 || len(m.Influence.Points) == 0 || m.Influence.Points[0].Row != "r1500" {
+			t.Fatalf("study %s: the test data lost their point: in memory %d rows of sole support, named %v", m.ID, m.Influence.Counts.SoleSupport, m.Influence.Points)
+		}
+		if p.Influence.Counts != m.Influence.Counts {
+			t.Errorf("study %s: flag counts %+v pushed, %+v in memory", m.ID, p.Influence.Counts, m.Influence.Counts)
+		}
+		if len(p.Influence.Points) != len(m.Influence.Points) {
+			t.Errorf("study %s: %d named rows pushed, %d in memory", m.ID, len(p.Influence.Points), len(m.Influence.Points))
+		}
+		for k, pt := range p.Influence.Points {
+			if k < len(m.Influence.Points) && (pt.Row != m.Influence.Points[k].Row || strings.Join(pt.Flags, "+") != strings.Join(m.Influence.Points[k].Flags, "+")) {
+				t.Errorf("study %s: named row %d is %s %v, in memory %s %v", m.ID, k, pt.Row, pt.Flags, m.Influence.Points[k].Row, m.Influence.Points[k].Flags)
+			}
+		}
+		agree(t, m.ID, exactFigures(p), exactFigures(m), 1e-9)
+		sameFlaggedFile(t, m, p)
+		for _, o := range p.Pushdown.Omitted {
+			if strings.Contains(o.Figure, "sole support") {
+				t.Errorf("study %s: the push-down still omits %q", m.ID, o.Figure)
 			}
 		}
 	}

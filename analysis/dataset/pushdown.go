@@ -17,7 +17,9 @@ package dataset
 //  2. Second: sums of deviations from the first pass's means, of their
 //     products and powers, and of the line's residuals e and their
 //     powers (the refined line, its RSS, the quadratic, Breusch–Pagan and
-//     the trend in run order follow from them);
+//     the trend in run order follow from them), and, when the first
+//     pass's sums fit a row of sole support, the rows at the least and
+//     the largest x;
 //  3. ThirdPass: the flags and the flagged rows, the largest Cook's
 //     distance, the leave-one-out extremes, the quadratic's residual sum
 //     and the density grids, with the refined line;
@@ -858,10 +860,17 @@ type Sums struct {
 	// SO = Σ d_o, SOO = Σ d_o², SOE = Σ d_o·e, SOX = Σ d_o·d_x.
 	SO, SOO, SOE, SOX float64
 	EMin, EMax        float64
+	// AtEnds counts the rows whose x is the least and the largest x (the
+	// ends Second was given; −1 without them).
+	AtEnds [2]int
 }
 
 // Second runs the second pass with the first pass's means and slope b.
-func (p *Prepared) Second(mean []float64, b float64) (*Sums, error) {
+// With ends (the least and the largest x), it also counts the rows at
+// each end (Sums.AtEnds): x takes only those two values when the counts
+// add up to the complete cases, and a value held by one row gives that
+// row leverage 1 (sole support; see Fit.Sole).
+func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, error) {
 	k := len(p.NumCols)
 	nc := k
 	if p.spec.Order != "" {
@@ -874,6 +883,9 @@ func (p *Prepared) Second(mean []float64, b float64) (*Sums, error) {
 	dev = append(dev, "(("+p.num[1]+" - "+lit(mean[1])+") - "+lit(b)+" * ("+p.num[0]+" - "+lit(mean[0])+")) AS e")
 	if p.spec.Order != "" {
 		dev = append(dev, "("+p.num[k-1]+" - "+lit(mean[k-1])+") AS dord")
+	}
+	if ends != nil {
+		dev = append(dev, p.num[0]+" AS xv")
 	}
 	d := func(i int) string { return "d" + strconv.Itoa(i) }
 	var sel []string
@@ -896,6 +908,11 @@ func (p *Prepared) Second(mean []float64, b float64) (*Sums, error) {
 		sel = append(sel, "sum(dord)", "sum(dord * dord)", "sum(dord * e)", "sum(dord * d0)")
 	} else {
 		sel = append(sel, "0", "0", "0", "0")
+	}
+	if ends != nil {
+		sel = append(sel, "count(*) FILTER (WHERE xv = "+lit(ends[0])+")", "count(*) FILTER (WHERE xv = "+lit(ends[1])+")")
+	} else {
+		sel = append(sel, "-1", "-1")
 	}
 	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_d")
 	if err != nil {
@@ -923,6 +940,7 @@ func (p *Prepared) Second(mean []float64, b float64) (*Sums, error) {
 	s.X3, s.X4, s.SE, s.SE2, s.SXE, s.SX2E, s.EMin, s.EMax = Num(v[n]), Num(v[n+1]), Num(v[n+2]), Num(v[n+3]), Num(v[n+4]), Num(v[n+5]), Num(v[n+6]), Num(v[n+7])
 	s.SE3, s.SE4, s.SXE2 = Num(v[n+8]), Num(v[n+9]), Num(v[n+10])
 	s.SO, s.SOO, s.SOE, s.SOX = Num(v[n+11]), Num(v[n+12]), Num(v[n+13]), Num(v[n+14])
+	s.AtEnds = [2]int{int(Num(v[n+15])), int(Num(v[n+16]))}
 	return s, nil
 }
 
@@ -944,6 +962,13 @@ type Fit struct {
 	RSS, S         float64 // S = √(RSS/(n − 2))
 	Outlier, Cooks float64 // the cut points (+Inf: off)
 	Leverage       float64
+	// Sole, when set, is the x held by one row only while every other
+	// row holds one other x: that row has leverage exactly 1 (sole
+	// support), found from the counts and not from a rounded h, as
+	// stats.LineInfluence finds it in memory. The third pass gives it
+	// h = 1 and 1 − h = 0 (so no residual measure and no leave-one-out
+	// figure), flags it high leverage and sole support, and returns it.
+	Sole *float64
 }
 
 // dx and dy are the line's deviations over bivar_q's columns.
@@ -961,12 +986,27 @@ func (p *Prepared) dy(f Fit) string {
 // the formulas), each computed once per row.
 func (p *Prepared) rowsLine(f Fit, withID bool) string {
 	sel := p.cols(withID)
-	nf := float64(f.N)
 	dx, dy := p.dx(f), p.dy(f)
-	q := "(" + dx + " * " + dx + " / " + lit(f.Sxx) + ")"
+	h, omh := p.leverage(f)
 	return "(SELECT " + sel + ", " + dx + " AS dx, " + dy + " AS dy, " + dy + " - " + lit(f.B) + " * " + dx + " AS e, " +
-		"least(1, " + lit(1/nf) + " + " + q + ") AS h, greatest(0, " + lit((nf-1)/nf) + " - " + q + ") AS omh" +
-		p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e"
+		h + " AS h, " + omh + " AS omh" + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e"
+}
+
+// leverage is the SQL of a row's leverage h and of 1 − h over bivar_q's
+// columns, 1 − h formed without adding 1/n first; a row of sole support
+// (Fit.Sole) has h = 1 and 1 − h = 0 exactly.
+func (p *Prepared) leverage(f Fit) (h, omh string) {
+	nf := float64(f.N)
+	dx := p.dx(f)
+	q := "(" + dx + " * " + dx + " / " + lit(f.Sxx) + ")"
+	h = "least(1, " + lit(1/nf) + " + " + q + ")"
+	omh = "greatest(0, " + lit((nf-1)/nf) + " - " + q + ")"
+	if f.Sole != nil {
+		sole := p.num[0] + " = " + lit(*f.Sole)
+		h = "CASE WHEN " + sole + " THEN 1 ELSE " + h + " END"
+		omh = "CASE WHEN " + sole + " THEN 0 ELSE " + omh + " END"
+	}
+	return h, omh
 }
 
 // loor is the SQL of the leave-one-out r over the line's deviations dx,
@@ -988,13 +1028,13 @@ func cutLit(v float64) string {
 // Third are the sums and counts of the third pass, over the complete
 // cases with the refined line's residual e.
 type Third struct {
-	Outlier, HighLeverage, Influential, Flagged, Suspect int
-	MaxD                                                 float64
-	LooRMin, LooRMax, LooSMin, LooSMax                   float64
-	SQ2                                                  float64 // Σ of the quadratic's squared residuals
-	Grids                                                [3]*Grid
-	// Suspects are the rows flagged outlier or influential, ranked, at
-	// most ThirdPass's keep of them.
+	Outlier, HighLeverage, Influential, SoleSupport, Flagged, Suspect int
+	MaxD                                                              float64
+	LooRMin, LooRMax, LooSMin, LooSMax                                float64
+	SQ2                                                               float64 // Σ of the quadratic's squared residuals
+	Grids                                                             [3]*Grid
+	// Suspects are the rows flagged outlier, influential or sole
+	// support, ranked, at most ThirdPass's keep of them.
 	Suspects []Row
 	// ExtBoxes hold every row whose leave-one-out r is LooRMin or
 	// LooRMax: the cells of y on x where those extremes fall, each half a
@@ -1068,17 +1108,16 @@ func cell(e string, lo, hi float64, k int) string {
 
 // ThirdPass runs the third pass: the rows per flag, the largest Cook's
 // distance, the extremes of the leave-one-out r and slope, the quadratic's
-// residual sum,
-// the density grids g (y on x, the residual on x and, with a run order,
-// the residual on the order) and the rows flagged outlier or
-// influential, all in one scan with GROUPING SETS over the grids' cells
-// (with a run order, in two levels: twoLevel):
-// the sums and counts are added up over the cells of the first set (y on
-// x with the residual on x), which holds every row once,
-// and there a flagged row is a group of its own (keyed by its x, y, id, d
-// and t), so that the server returns it.
-// Of those, the keep highest ranked are kept (largest Cook's distance,
-// then largest |t|, then smallest x, y and id). The cells are cell's.
+// residual sum, the density grids g (y on x, the residual on x and, with
+// a run order, the residual on the order) and the rows flagged outlier,
+// influential or sole support, all in one scan with GROUPING SETS over the
+// grids' cells (with a run order, in two levels: twoLevel): the sums and
+// counts are added up over the cells of the first set (y on x with the
+// residual on x), which holds every row once, and there a flagged row is
+// a group of its own (keyed by its x, y, id, d and t), so that the server
+// returns it. Of those, the keep highest ranked are kept (a row of sole
+// support first, then largest Cook's distance, then largest |t|, then
+// smallest x, y and id). The cells are cell's.
 func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	// The flags without a square root or a division by a row's values:
 	// |t| > c ⟺ e² > K₁·(1 − h) with K₁ = c²·RSS/(n − 3 + c²) (from
@@ -1111,7 +1150,15 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	src := "(SELECT *, " + ri + " AS ri, " + f.loor("dx", "dy", "omh") + " AS loor, " +
 		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd" + qr + " FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"
 	fl := "(CAST(fo AS integer) + 2 * CAST(h > " + cutLit(f.Leverage) + " AS integer) + 4 * CAST(fd AS integer))"
-	suspect := func(c string) string { return "CASE WHEN fo OR fd THEN " + c + " END" }
+	isSuspect := "fo OR fd"
+	if f.Sole != nil {
+		// A row of sole support is flagged high leverage and sole support
+		// (8) whatever the cut points, as findings.FlagRules.Flag flags it.
+		sole := "x = " + lit(*f.Sole)
+		fl = "(CASE WHEN " + sole + " THEN 10 ELSE " + fl + " END)"
+		isSuspect += " OR " + sole
+	}
+	suspect := func(c string) string { return "CASE WHEN " + isSuspect + " THEN " + c + " END" }
 	id := "CAST(NULL AS text)"
 	if p.id != "" {
 		id = "id"
@@ -1196,13 +1243,19 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		if fl&4 != 0 {
 			th.Influential += n
 		}
+		if fl&8 != 0 {
+			th.SoleSupport += n
+		}
 		if fl != 0 {
 			th.Flagged += n
 		}
-		if fl&5 != 0 {
+		if fl&13 != 0 {
 			th.Suspect += n
 			noID := p.id == "" || isMissing(v[18], p.spec.Missing)
-			r := ranked{Row: Row{X: Num(v[16]), Y: Num(v[17]), D: Num(v[19])}, noID: noID, d: Num(v[19]), t: Num(v[20])}
+			r := ranked{Row: Row{X: Num(v[16]), Y: Num(v[17]), D: Num(v[19]), Flags: uint8(fl)}, noID: noID, d: Num(v[19]), t: Num(v[20])}
+			if fl&8 != 0 { // undefined distance, ranked before all (as in memory)
+				r.d = math.Inf(1)
+			}
 			if !noID {
 				r.ID = Text(v[18])
 			}
@@ -1312,6 +1365,10 @@ type Row struct {
 	X, Y float64
 	ID   string  // "" when the dataset has no id_column or it is missing
 	D    float64 // a flagged row's Cook's distance as the database computed it
+	// Flags are a flagged row's flags as the third pass set them, as the
+	// bits of findings.FlagSet: 1 outlier, 2 high leverage, 4
+	// influential, 8 sole support.
+	Flags uint8
 }
 
 // SampleRow is one row of the sample: every numeric column (NumCols
@@ -1445,9 +1502,8 @@ func (p *Prepared) rowsPass(f Fit, k int, frac float64, lo, hi float64, boxes []
 	if t := frac*0x1p64 - 0x1p63; frac < 1 && t < 0x1p63 {
 		isSample = hk + " < " + strconv.FormatInt(int64(t), 10)
 	}
-	nf := float64(f.N)
 	dx, dy := p.dx(f), p.dy(f)
-	omh := "greatest(0, " + lit((nf-1)/nf) + " - " + dx + " * " + dx + " / " + lit(f.Sxx) + ")"
+	_, omh := p.leverage(f)
 	loor := f.loor(dx, dy, omh)
 	isExt := loor + " IN (" + lit(lo) + ", " + lit(hi) + ")"
 	if len(boxes) > 0 {

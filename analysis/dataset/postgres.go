@@ -217,8 +217,16 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 	defer rows.Close()
 	t := &Table{File: src, Numeric: map[string][]float64{}, Text: map[string]Strings{},
 		Missing: map[string]int{}, NonNumeric: map[string]int{}}
-	nums := make([][]float64, len(cols))
-	texts := make([][]string, len(cols))
+	nums := make([]floatBlocks, len(cols))
+	texts := make([]Strings, len(cols))
+	for i, c := range cols {
+		if c.text {
+			texts[i] = textColumn(nil)
+		}
+	}
+	tooLong := func(c *column, row int) error {
+		return &Error{File: src, Column: c.name, Msg: fmt.Sprintf("the column's text passes %d bytes by row %d (in the canonical order), the most bivar holds in one column: leave the column out of the query, or shorten it there", MaxTextBytes, row)}
+	}
 	levels := make([]map[string]bool, len(cols))
 	missing := make([]int, len(cols))
 	nonNum := make([]int, len(cols))
@@ -248,16 +256,16 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 			if v == nil {
 				missing[i]++
 				if c.numeric {
-					nums[i] = append(nums[i], math.NaN())
+					nums[i].add(math.NaN())
 				}
-				if c.text {
-					texts[i] = append(texts[i], "")
+				if c.text && !texts[i].addBytes(nil) {
+					return nil, nil, tooLong(c, t.Rows)
 				}
 				continue
 			}
-			s := string(v)
 			if c.text {
-				if c.group && !levels[i][s] {
+				if c.group && !levels[i][string(v)] {
+					s := string(v)
 					if levels[i] == nil {
 						levels[i] = map[string]bool{}
 					}
@@ -266,20 +274,23 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 						return nil, nil, &Error{File: src, Column: c.name, Text: cellText(s), Msg: fmt.Sprintf("a group column may hold at most %d distinct values, and %s in row %d (in the canonical order) is one more: group by another column, or raise max_levels for the dataset", lim.MaxLevels, quoteCell(s), t.Rows)}
 					}
 				}
-				texts[i] = append(texts[i], s)
+				if !texts[i].addBytes(v) {
+					return nil, nil, tooLong(c, t.Rows)
+				}
 			}
 			if !c.numeric {
 				continue
 			}
-			x, ok := pgNumberOf(kinds[c.index], s)
+			x, ok := pgNumberOf(kinds[c.index], v)
 			if !ok {
 				if !opts.NonNumericAsMissing {
+					s := string(v)
 					return nil, nil, &Error{File: src, Column: c.name, Text: cellText(s), Msg: fmt.Sprintf("%s in row %d (in the canonical order) is not a finite number: filter such rows in the query, or set non_numeric = \"missing\" to count them as missing", quoteCell(s), t.Rows)}
 				}
 				nonNum[i]++
 				x = math.NaN()
 			}
-			nums[i] = append(nums[i], x)
+			nums[i].add(x)
 		}
 	}
 	if err := rows.Err(); err != nil {
@@ -287,14 +298,11 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 	}
 	for i, c := range cols {
 		if c.numeric {
-			t.Numeric[c.name] = nums[i]
-			if nums[i] == nil {
-				t.Numeric[c.name] = []float64{}
-			}
+			t.Numeric[c.name] = nums[i].column()
 			t.NonNumeric[c.name] = nonNum[i]
 		}
 		if c.text {
-			t.Text[c.name] = textColumn(texts[i])
+			t.Text[c.name] = texts[i]
 		}
 		t.Missing[c.name] = missing[i]
 	}
@@ -379,8 +387,9 @@ func appendCopyText(b, v []byte) []byte {
 // pgNumberOf reads a number, date or timestamp in PostgreSQL's text
 // output (DateStyle ISO, TimeZone UTC); NaN and infinities are not
 // numbers.
-func pgNumberOf(k pgKind, s string) (float64, bool) {
+func pgNumberOf(k pgKind, b []byte) (float64, bool) {
 	if k == pgTime {
+		s := string(b)
 		for _, layout := range []string{"2006-01-02 15:04:05.999999999Z07", "2006-01-02 15:04:05.999999999Z07:00", "2006-01-02 15:04:05.999999999", "2006-01-02"} {
 			if t, err := time.Parse(layout, s); err == nil {
 				return float64(t.Unix()) + float64(t.Nanosecond())/1e9, true
@@ -388,7 +397,7 @@ func pgNumberOf(k pgKind, s string) (float64, bool) {
 		}
 		return 0, false
 	}
-	v, err := strconv.ParseFloat(s, 64)
+	v, err := strconv.ParseFloat(string(b), 64) // b does not escape: no copy
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, false
 	}

@@ -47,7 +47,12 @@ func textColumn(v []string) Strings {
 
 // add appends one cell, reporting false (and adding nothing) when the
 // column would hold more than MaxTextBytes bytes.
-func (s *Strings) add(c string) bool {
+func (s *Strings) add(c string) bool { return addCell(s, c) }
+
+// addBytes is add for a cell's bytes.
+func (s *Strings) addBytes(c []byte) bool { return addCell(s, c) }
+
+func addCell[T string | []byte](s *Strings, c T) bool {
 	if len(s.data)+len(c) > MaxTextBytes {
 		return false
 	}

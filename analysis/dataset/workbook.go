@@ -345,7 +345,7 @@ func ReadWorkbook(path string, ref SheetRef, headerRow int, opts Options, numeri
 // colRead is one selected column while a sheet is read.
 type colRead struct {
 	*column
-	nums      []float64
+	nums      floatBlocks
 	texts     Strings
 	levels    map[string]bool
 	nMissing  int
@@ -408,15 +408,15 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 			return
 		}
 		if isMissing {
-			c.nums = append(c.nums, math.NaN())
+			c.nums.add(math.NaN())
 			return
 		}
 		v, err := strconv.ParseFloat(string(b), 64)
 		if err == nil && !math.IsInf(v, 0) && !math.IsNaN(v) {
-			c.nums = append(c.nums, v)
+			c.nums.add(v)
 			return
 		}
-		c.nums = append(c.nums, math.NaN())
+		c.nums.add(math.NaN())
 		if opts.NonNumericAsMissing {
 			c.nNon++
 			return
@@ -448,7 +448,7 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 		}
 		for _, c := range sel {
 			c.group = c.text && slices.Contains(opts.Groups, c.name)
-			cr := &colRead{column: c, levels: map[string]bool{}, nums: []float64{}, texts: Strings{end: []uint32{}}}
+			cr := &colRead{column: c, levels: map[string]bool{}, texts: Strings{end: []uint32{}}}
 			cols = append(cols, cr)
 			for len(slot) <= c.index {
 				slot = append(slot, -1)
@@ -502,7 +502,7 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 	t.Rows = rows
 	for _, c := range cols {
 		if c.numeric {
-			t.Numeric[c.name] = c.nums
+			t.Numeric[c.name] = c.nums.column()
 			t.NonNumeric[c.name] = c.nNon
 		}
 		if c.text {

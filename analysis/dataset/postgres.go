@@ -57,7 +57,7 @@ type QueryInfo struct {
 }
 
 // Order is how ReadQuery orders and hashes rows, for the report.
-const Order = "rows ordered by every result column (ORDER BY 1, 2, …); SHA-256 over each row's cells in PostgreSQL's text output (UTC, ISO dates), tab-separated, newline-ended, NULL as \\N, backslash, tab, newline and carriage return escaped as COPY's text format does"
+const Order = "rows ordered by every result column in turn (numbers, dates and timestamps by value, booleans false first, text bytewise as COLLATE \"C\" orders it, any other type by its text output, bytewise); SHA-256 over each row's cells in PostgreSQL's text output (UTC, ISO dates), tab-separated, newline-ended, NULL as \\N, backslash, tab, newline and carriage return escaped as COPY's text format does"
 
 // statement is the statement ReadQuery runs for q, the result ordered by
 // all n columns and limited to limit rows.
@@ -205,8 +205,8 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		c.group = c.text && slices.Contains(opts.Groups, c.name)
 	}
 	order := make([]string, len(names))
-	for i := range names {
-		order[i] = strconv.Itoa(i + 1)
+	for i, f := range desc.Fields {
+		order[i] = orderKey(i, names, f.DataTypeOID)
 	}
 	stmt := "SELECT * FROM (" + inner + "\n) AS bivar_q ORDER BY " + strings.Join(order, ", ") + " LIMIT " + strconv.Itoa(lim.MaxRows+1)
 	info := &QueryInfo{ServerVersion: conn.PgConn().ParameterStatus("server_version"), Statement: stmt, RanAt: time.Now().UTC(), Columns: len(names), Names: names}
@@ -382,6 +382,37 @@ func appendCopyText(b, v []byte) []byte {
 		}
 	}
 	return b
+}
+
+// orderKey is ReadQuery's ORDER BY key for result column i of type oid:
+// its position for the types PostgreSQL orders by value the same way on
+// every server (numbers, dates, timestamps, booleans, "char", name);
+// text, varchar and char bytewise (COLLATE "C"), so that neither the
+// order nor the hash over it depends on the server's collation or its
+// version (a new version of the system's collation library may reorder
+// text); any other type by its text output, bytewise, since some (json,
+// point, xml) have no order of their own. A column whose name another
+// column of the result shares cannot be named, and keeps its position.
+func orderKey(i int, names []string, oid uint32) string {
+	pos := strconv.Itoa(i + 1)
+	collatable := oid == 25 || oid == 1043 || oid == 1042 // text varchar bpchar
+	if !collatable && pgKinds[oid] != pgOther {
+		return pos
+	}
+	n := 0
+	for _, name := range names {
+		if name == names[i] {
+			n++
+		}
+	}
+	if n > 1 {
+		return pos
+	}
+	col := "bivar_q." + pgx.Identifier{names[i]}.Sanitize()
+	if !collatable {
+		col = "CAST(" + col + " AS text)"
+	}
+	return col + " COLLATE \"C\""
 }
 
 // pgNumberOf reads a number, date or timestamp in PostgreSQL's text

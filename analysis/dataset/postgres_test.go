@@ -2,6 +2,8 @@ package dataset
 
 import (
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
 	"math"
 	"os"
 	"testing"
@@ -55,6 +57,40 @@ func TestReadQueryTimes(t *testing.T) {
 	tb2, _, err := ReadQuery(ctx, q, Options{}, []string{"v"}, nil)
 	if err != nil || tb2.SHA256 != tb.SHA256 {
 		t.Errorf("hash of the rows stored in another order %s, want %s (%v)", tb2.SHA256, tb.SHA256, err)
+	}
+}
+
+// Rows come ordered by every column with text bytewise, whatever the
+// column's collation ("B" before "a" before "b", as in ASCII; a linguistic
+// collation such as ICU's "en" puts "a" first and "B" last), and a column
+// of a type with no order of its own (json) ordered by its text, so that a
+// query may return it though no study uses it. The hash is SHA-256 over
+// the rows in that order, each written as COPY's text format writes it,
+// computed here from the lines themselves.
+func TestReadQueryOrderBytewise(t *testing.T) {
+	ctx, conn, url := pgSetup(t, "DROP TABLE IF EXISTS ordered")
+	col := `w text COLLATE "en-x-icu"`
+	if _, err := conn.Exec(ctx, "CREATE TABLE ordered ("+col+", meta json, v double precision)"); err != nil {
+		t.Logf("no ICU collation on this server (%v): the text column has the database's collation", err)
+		col = "w text"
+		if _, err := conn.Exec(ctx, "CREATE TABLE ordered ("+col+", meta json, v double precision)"); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if _, err := conn.Exec(ctx, `INSERT INTO ordered VALUES ('b', '{"k": 2}', 1), ('B', '{"k": 1}', 2), ('a', '{"k": 3}', 3), ('a', '{"k": 0}', 4)`); err != nil {
+		t.Fatal(err)
+	}
+	q := Query{Table: "ordered", Env: "BIVAR_TEST_PG_URL", URL: url}
+	tb, _, err := ReadQuery(ctx, q, Options{}, []string{"v"}, []string{"w"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := []float64{2, 4, 3, 1}; !closeFloats(tb.Numeric["v"], w, 0) {
+		t.Errorf("v in the order fetched = %v, want %v (w bytewise, then meta's text)", tb.Numeric["v"], w)
+	}
+	h := sha256.Sum256([]byte("B\t{\"k\": 1}\t2\na\t{\"k\": 0}\t4\na\t{\"k\": 3}\t3\nb\t{\"k\": 2}\t1\n"))
+	if got, want := tb.SHA256, hex.EncodeToString(h[:]); got != want {
+		t.Errorf("hash %s, want %s", got, want)
 	}
 }
 

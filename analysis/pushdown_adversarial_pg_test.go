@@ -362,3 +362,36 @@ func TestPushdownExactFit(t *testing.T) {
 		}
 	}
 }
+
+// More awkward data: sole support far from 0, numeric and date group and
+// order columns, and studies that fail (x constant, too few complete
+// rows, y constant) both ways.
+func TestPushdownAdversarialEdges(t *testing.T) {
+	runAdv(t, []advCase{
+		// One row alone at x = 10⁹ + 1, the rest at 10⁹: sole support
+		// where the first pass's Sxx is far from 0's accuracy.
+		{name: "sole-far", setup: []string{"DROP TABLE IF EXISTS adv_solefar",
+			"CREATE TABLE adv_solefar (id text, x float8, y float8)",
+			`INSERT INTO adv_solefar SELECT 'r' || i, 1e9 + CASE WHEN i = 50 THEN 1 ELSE 0 END, 1e6 + sin(i * 1.3247 + 0.5) + CASE WHEN i = 50 THEN 3 ELSE 0 END
+			  FROM generate_series(1, 120) i`},
+			decl: table("adv_solefar"), studies: plain, maxRows: 10},
+		// An integer group, a date order, a sole-support study with a
+		// group and an order.
+		{name: "numeric-group-date-order", setup: []string{"DROP TABLE IF EXISTS adv_gd",
+			"CREATE TABLE adv_gd (id text, x float8, xs float8, y float8, g integer, d date)",
+			`INSERT INTO adv_gd SELECT 'r' || i, 5 + sin(i * 0.7071), CASE WHEN i = 7 THEN 9 ELSE 4 END, 2 + 0.4 * sin(i * 0.7071) + 0.3 * sin(i * 1.3247), i % 3 - 1,
+			  date '2026-01-01' + (i / 5) FROM generate_series(1, 150) i`},
+			decl: table("adv_gd"),
+			studies: "[[study]]\nid = \"g\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\norder = \"d\"\n" +
+				"[[study]]\nid = \"sole\"\ndataset = \"d\"\nx = \"xs\"\ny = \"y\"\ngroup = \"g\"\norder = \"d\"\n", maxRows: 10},
+		// Studies that fail: x constant over the complete rows; two
+		// complete rows; y constant.
+		{name: "failing", setup: []string{"DROP TABLE IF EXISTS adv_fail",
+			"CREATE TABLE adv_fail (id text, x float8, y float8, xc float8, ys float8, yc float8)",
+			`INSERT INTO adv_fail SELECT 'r' || i, i, sin(i), CASE WHEN i % 2 = 0 THEN 4 ELSE NULL END, CASE WHEN i <= 2 THEN i ELSE NULL END, 7 FROM generate_series(1, 40) i`},
+			decl: table("adv_fail"),
+			studies: "[[study]]\nid = \"xconst\"\ndataset = \"d\"\nx = \"xc\"\ny = \"y\"\n" +
+				"[[study]]\nid = \"two\"\ndataset = \"d\"\nx = \"x\"\ny = \"ys\"\n" +
+				"[[study]]\nid = \"yconst\"\ndataset = \"d\"\nx = \"x\"\ny = \"yc\"\n", maxRows: 10},
+	})
+}

@@ -929,11 +929,12 @@ func combine(a, b stats.Moments) stats.Moments {
 		Sxx: a.Sxx + b.Sxx + f*dx*dx, Syy: a.Syy + b.Syy + f*dy*dy, Sxy: a.Sxy + b.Sxy + f*dx*dy}
 }
 
-// pushedRowName names a row fetched from the database: its id_column value,
-// else its values, since rows left in the database have no row number.
+// pushedRowName names a row fetched from the database: its id_column value
+// as stored (as the study of the rows fetched names it), else its values,
+// since rows left in the database have no row number.
 func pushedRowName(r dataset.Row) string {
 	if r.ID != "" {
-		return strings.TrimSpace(r.ID)
+		return r.ID
 	}
 	return fmt.Sprintf("(x = %g, y = %g)", r.X, r.Y)
 }

@@ -272,13 +272,14 @@ func TestPushdownAdversarial(t *testing.T) {
 			"INSERT INTO adv_n5 VALUES ('a', 1, 2.1, 'p', 1, 0.3), ('b', 2, 3.9, 'p', 2, -1), ('c', 4, 8.3, 'q', 2, 0.5), ('d', 5, 9.2, 'q', 3, 2), ('e', 7, 15.1, 'q', 4, 1)"},
 			decl:    table("adv_n5"),
 			studies: plain + "[[study]]\nid = \"full\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\norder = \"o\"\ncovariates = [\"z\"]\n", maxRows: 2},
-		// An id column with NULLs, duplicates and a missing token, on
+		// An id column with NULLs, duplicates, a missing token and
+		// padding (kept in the name, as in memory; it was trimmed), on
 		// the flagged rows; the flagged rows hold more than half of Syy,
 		// so r without them is summed over the kept rows (it was left
 		// undefined, and the verdict on them "undefined").
 		{name: "awkward-ids", setup: []string{"DROP TABLE IF EXISTS adv_ids",
 			"CREATE TABLE adv_ids (id text, x float8, y float8)",
-			`INSERT INTO adv_ids SELECT CASE WHEN i % 10 = 0 THEN NULL WHEN i % 10 = 1 THEN 'NA' WHEN i % 10 = 2 THEN 'dup' ELSE 'r' || i END,
+			`INSERT INTO adv_ids SELECT CASE WHEN i % 10 = 0 THEN NULL WHEN i % 10 = 1 THEN 'NA' WHEN i % 10 = 2 THEN 'dup' WHEN i % 10 = 3 THEN '  p' || i || '  ' ELSE 'r' || i END,
 			  5 + sin(i * 0.7071), 2 + 0.4 * sin(i * 0.7071) + 0.3 * sin(i * 1.3247) + CASE WHEN i IN (10, 11, 12, 13, 14) THEN 4 ELSE 0 END
 			  FROM generate_series(1, 200) i`},
 			decl: table("adv_ids"), studies: plain, maxRows: 10},
@@ -364,7 +365,7 @@ func TestPushdownExactFit(t *testing.T) {
 }
 
 // More awkward data: sole support far from 0, numeric and date group and
-// order columns, and studies that fail (x constant, too few complete
+// order columns, boolean and character(n) groups and ids, and studies that fail (x constant, too few complete
 // rows, y constant) both ways.
 func TestPushdownAdversarialEdges(t *testing.T) {
 	runAdv(t, []advCase{
@@ -384,6 +385,16 @@ func TestPushdownAdversarialEdges(t *testing.T) {
 			decl: table("adv_gd"),
 			studies: "[[study]]\nid = \"g\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\norder = \"d\"\n" +
 				"[[study]]\nid = \"sole\"\ndataset = \"d\"\nx = \"xs\"\ny = \"y\"\ngroup = \"g\"\norder = \"d\"\n", maxRows: 10},
+		// A boolean and a character(4) group and a character(8) id: read
+		// in their text output, as below max_rows (the levels were
+		// true/false for t/f and "ab" for "ab  ", the ids unpadded).
+		{name: "bool-char", setup: []string{"DROP TABLE IF EXISTS adv_bc",
+			"CREATE TABLE adv_bc (id char(8), x float8, y float8, gb boolean, gc char(4))",
+			`INSERT INTO adv_bc SELECT 'r' || i, 5 + sin(i * 0.7071), 2 + 0.4 * sin(i * 0.7071) + 0.3 * sin(i * 1.3247) + CASE WHEN i = 9 THEN 3 ELSE 0 END,
+			  i % 2 = 0, CASE WHEN i % 3 = 0 THEN 'ab' ELSE 'c' END FROM generate_series(1, 150) i`},
+			decl: table("adv_bc"),
+			studies: "[[study]]\nid = \"gb\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"gb\"\n" +
+				"[[study]]\nid = \"gc\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"gc\"\n", maxRows: 10},
 		// Studies that fail: x constant over the complete rows; two
 		// complete rows; y constant.
 		{name: "failing", setup: []string{"DROP TABLE IF EXISTS adv_fail",

@@ -492,7 +492,17 @@ func (s *Session) textExpr(col string) (string, error) {
 	if !slices.Contains(s.Names, col) {
 		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the result has no such column: correct the study or the query"}
 	}
-	return "CAST(bivar_q." + pgx.Identifier{col}.Sanitize() + " AS text)", nil
+	c := "bivar_q." + pgx.Identifier{col}.Sanitize()
+	// The text the rows fetched below max_rows are read in (the type's
+	// output function): a cast to text writes a boolean true/false where
+	// its output is t/f, and drops a character(n)'s padding.
+	switch s.oids[slices.Index(s.Names, col)] {
+	case 16: // boolean
+		return "CAST(boolout(" + c + ") AS text)", nil
+	case 1042: // character(n)
+		return "CAST(bpcharout(" + c + ") AS text)", nil
+	}
+	return "CAST(" + c + " AS text)", nil
 }
 
 // isMissing says whether a text cell is missing: NULL, or one of the

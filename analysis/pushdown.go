@@ -595,7 +595,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 
 	// Units and predictions from the exact line.
-	s.UnitInvariance = unitsFromMoments(s.X, s.Y, alsoIn, mom, pc.R)
+	s.UnitInvariance = unitsFromMoments(s.X, s.Y, alsoIn, mom, pc.R, lf)
 	s.Predictions = predictFromSums(mom, rss, predictAt, s.Describe.X, conf)
 	exact("unit table")
 
@@ -1071,14 +1071,17 @@ func withoutFromKept(se *report.Sensitivity, k *dataset.Kept, conf float64) {
 
 // unitsFromMoments is the unit table from the moments: a unit change
 // v' = a·v + c maps the means and centred sums exactly (x̄' = a·x̄ + c,
-// Sxx' = a²·Sxx, Sxy' = a·Sxy), so the rows need not be converted.
-func unitsFromMoments(xv, yv report.Variable, also manifest.AlsoIn, m stats.Moments, r float64) []report.UnitRow {
+// Sxx' = a²·Sxx, Sxy' = a·Sxy), so the rows need not be converted. The
+// row in the recorded units is the line's own (lf: its refined slope and
+// its intercept from the means in two parts), as in memory.
+func unitsFromMoments(xv, yv report.Variable, also manifest.AlsoIn, m stats.Moments, r float64, lf report.Fit) []report.UnitRow {
 	line := func(xu, yu string, mm stats.Moments) report.UnitRow {
 		b := mm.Sxy / mm.Sxx
 		return report.UnitRow{XUnit: xu, YUnit: yu, R: report.Float(stats.PearsonMoments(mm, 0.95).R), Slope: report.Float(b), Intercept: report.Float(mm.MeanY - b*mm.MeanX)}
 	}
 	rows := []report.UnitRow{line(xv.Unit, yv.Unit, m)}
 	rows[0].R = report.Float(r)
+	rows[0].Slope, rows[0].Intercept = lf.Slope.Estimate, lf.Intercept.Estimate
 	conv := func(from, to string) (float64, float64, error) {
 		if from == "" {
 			return 0, 0, fmt.Errorf("no unit is declared for this column in [dataset.units], so it cannot be converted to %q", to)

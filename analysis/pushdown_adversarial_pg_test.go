@@ -69,6 +69,12 @@ func sameStudy(t *testing.T, what string, m, p report.Study) {
 	if p.Influence.Counts != m.Influence.Counts {
 		t.Errorf("%s: flag counts %+v pushed, %+v in memory", what, p.Influence.Counts, m.Influence.Counts)
 	}
+	// The unit table's row in the recorded units is the line, as in
+	// memory (it was Sxy/Sxx and ȳ − b·x̄ in one part: x near 10⁹ moved
+	// its intercept by parts in 10⁹).
+	if u := p.UnitInvariance[0]; u.Slope != p.Line.Slope.Estimate || u.Intercept != p.Line.Intercept.Estimate {
+		t.Errorf("%s: unit table's first row %v, %v; the line %v, %v", what, u.Slope, u.Intercept, p.Line.Slope.Estimate, p.Line.Intercept.Estimate)
+	}
 	if len(p.Influence.Points) != len(m.Influence.Points) {
 		t.Errorf("%s: %d named rows pushed, %d in memory", what, len(p.Influence.Points), len(m.Influence.Points))
 	}

@@ -301,9 +301,12 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	if span := c.Max[0] - c.Min[0]; math.Abs(c.Sxx-(nf-1)/nf*span*span) <= 1e-6*c.Sxx {
 		ends = &[2]float64{c.Min[0], c.Max[0]}
 	}
-	sums, err := p.Second(c.Mean, b1, ends)
+	sums, err := p.Second(c.Mean, b1, ends, gs)
 	if err != nil {
 		return s, err
+	}
+	if sums.Groups != nil {
+		gs = sums.Groups // the levels' sums by the corrected two-pass algorithm
 	}
 	var sole *float64
 	if ends != nil && sums.AtEnds[0]+sums.AtEnds[1] == n {
@@ -846,7 +849,7 @@ func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *r
 	nan := math.NaN()
 	gl := stats.GroupLines{SlopesF: nan, SlopesP: nan, LinesF: nan, LinesP: nan, RWithin: nan, RWithinP: nan}
 	var sxx, syy, sxy, rssSep float64
-	var pooled stats.Moments // the qualifying levels together (Chan et al.'s pairwise combination)
+	var pooled stats.Moments // the qualifying levels together (Chan et al.'s pairwise combination), its means offsets from the dataset's (GroupSums.OX, OY)
 	for _, g := range gs {
 		f := report.GroupFit{Group: g.Level, N: g.N, R: report.NaN(), Slope: report.NaN(), Intercept: report.NaN(), SlopeLow: report.NaN(), SlopeHigh: report.NaN()}
 		if g.N >= 3 && g.Sxx > 0 {
@@ -861,7 +864,7 @@ func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *r
 			gl.N += g.N
 			sxx, syy, sxy = sxx+g.Sxx, syy+g.Syy, sxy+g.Sxy
 			rssSep += rss
-			pooled = combine(pooled, stats.Moments{N: g.N, MeanX: g.MX, MeanY: g.MY, Sxx: g.Sxx, Syy: g.Syy, Sxy: g.Sxy})
+			pooled = combine(pooled, stats.Moments{N: g.N, MeanX: g.OX, MeanY: g.OY, Sxx: g.Sxx, Syy: g.Syy, Sxy: g.Sxy})
 		}
 		out = append(out, f)
 	}
@@ -890,8 +893,8 @@ func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *r
 		for _, g := range gs {
 			if g.N >= 3 && g.Sxx > 0 {
 				nf := float64(g.N)
-				dx := g.MX - pooled.MeanX
-				cg := (g.MY - pooled.MeanY) - bw*dx
+				dx := g.OX - pooled.MeanX
+				cg := (g.OY - pooled.MeanY) - bw*dx
 				onePar += nf*cg*cg + 2*delta*nf*cg*dx
 			}
 		}

@@ -27,6 +27,9 @@ type advCase struct {
 	decl    string
 	studies string
 	maxRows int
+	// notHere lists figures ("study/figure") left out of the comparison,
+	// each with the reason (where the in-memory reference is itself off).
+	notHere map[string]string
 }
 
 // runBothDecl runs studies on the dataset decl read into memory and left
@@ -52,7 +55,7 @@ func runBothDecl(t *testing.T, url, decl, studies string, maxRows int) (mem, pus
 // relative; the flag counts, the named rows with their flags, the rows
 // at the leave-one-out extremes of r, the file of flagged rows; and every
 // verdict that does not read a figure the push-down leaves out.
-func sameStudy(t *testing.T, what string, m, p report.Study) {
+func sameStudy(t *testing.T, what string, m, p report.Study, notHere map[string]string) {
 	t.Helper()
 	if (m.Error == nil) != (p.Error == nil) {
 		t.Errorf("%s: in memory error %q, pushed error %q", what, errText(m.Error), errText(p.Error))
@@ -65,7 +68,15 @@ func sameStudy(t *testing.T, what string, m, p report.Study) {
 	if p.Pushdown == nil || m.Pushdown != nil {
 		t.Fatalf("%s: push-down %v / in memory %v", what, p.Pushdown != nil, m.Pushdown == nil)
 	}
-	agree(t, what, exactFigures(p), exactFigures(m), 1e-9)
+	got, want := exactFigures(p), exactFigures(m)
+	for k, why := range notHere {
+		if fig, ok := strings.CutPrefix(k, what+"/"); ok {
+			t.Logf("%s: %s not compared (%s): %.17g pushed, %.17g in memory", what, fig, why, got[fig], want[fig])
+			delete(got, fig)
+			delete(want, fig)
+		}
+	}
+	agree(t, what, got, want, 1e-9)
 	if p.Influence.Counts != m.Influence.Counts {
 		t.Errorf("%s: flag counts %+v pushed, %+v in memory", what, p.Influence.Counts, m.Influence.Counts)
 	}
@@ -159,7 +170,7 @@ func runAdv(t *testing.T, cases []advCase) {
 				t.Fatalf("%d studies in memory, %d pushed", len(mem.Studies), len(pushed.Studies))
 			}
 			for i := range mem.Studies {
-				sameStudy(t, mem.Studies[i].ID, mem.Studies[i], pushed.Studies[i])
+				sameStudy(t, mem.Studies[i].ID, mem.Studies[i], pushed.Studies[i], c.notHere)
 			}
 		})
 	}
@@ -177,18 +188,27 @@ func TestPushdownAdversarial(t *testing.T) {
 	runAdv(t, []advCase{
 		// x near 10⁹ with a spread of 1, y near 10⁶: the means hold nine
 		// of the sixteen digits, the centred sums must not lose them;
-		// with an order and a covariate also far from 0. The named row's
-		// measures (deviations from the means in two parts), the rows at
-		// the leave-one-out extremes (told by the server's own r) and
-		// Breusch–Pagan (with the refined slope) failed here.
+		// with a group, an order and a covariate also far from 0. The
+		// named row's measures (deviations from the means in two parts),
+		// the rows at the leave-one-out extremes (told by the server's own
+		// r), Breusch–Pagan (with the refined slope) and the group lines
+		// (the levels' sums by the corrected two-pass algorithm; the F of
+		// the slopes' comparison was off by 2.5e-6) failed here.
 		{name: "far-from-zero", setup: []string{"DROP TABLE IF EXISTS adv_far",
 			"CREATE TABLE adv_far (id text, x float8, y float8, z float8, g text, o float8)",
 			`INSERT INTO adv_far SELECT 'r' || i, 1e9 + sin(i * 0.7071), 1e6 + 0.5 * sin(i * 0.7071) + 0.05 * sin(i * 1.3247 + 0.5) + CASE WHEN i = 33 THEN 0.4 ELSE 0 END,
 			  1e8 + cos(i * 0.4142), CASE WHEN i % 2 = 0 THEN 'a' ELSE 'b' END, 1.7e9 + i / 3
 			  FROM generate_series(1, 300) i`},
 			decl:    table("adv_far"),
-			studies: plain + "[[study]]\nid = \"full\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\norder = \"o\"\ncovariates = [\"z\"]\n",
-			maxRows: 10},
+			studies: plain + "[[study]]\nid = \"full\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\norder = \"o\"\ncovariates = [\"z\"]\n",
+			maxRows: 10,
+			// Exact rational arithmetic on the same float64 rows (Python
+			// 3's fractions.Fraction, RSS of one line less the two lines'
+			// over the two levels) gives F = 0.41617154035385434: pushed
+			// 0.41617154035385823, in memory 0.41617153718587402, whose
+			// stats.CompareGroupLines takes the levels' means and the
+			// single line's from plain sums of x near 10⁹.
+			notHere: map[string]string{"full/lines_f": "the in-memory reference is off by 7.6e-9 here"}},
 		// x from 10⁻⁶ to 10⁶ (twelve decades), y proportional with a
 		// multiplicative wobble: a few rows carry all of Sxx.
 		{name: "many-magnitudes", setup: []string{"DROP TABLE IF EXISTS adv_mag",

@@ -677,6 +677,11 @@ type GroupSums struct {
 	MX, MY        float64
 	XMin, XMax    float64
 	Sxx, Syy, Sxy float64
+	// OX and OY are the level's means less the dataset's first-pass
+	// means, from the second pass's deviations (Sums.Groups): the levels'
+	// means differ from each other in digits that MX and MY, far from 0,
+	// lose.
+	OX, OY float64
 }
 
 // First runs the first pass: per stored group value (one row without a
@@ -880,6 +885,10 @@ type Sums struct {
 	// AtEnds counts the rows whose x is the least and the largest x (the
 	// ends Second was given; −1 without them).
 	AtEnds [2]int
+	// Groups are the levels' means and centred sums of x and y by the
+	// same corrected two-pass algorithm about each level's first-pass
+	// means (Second's levels, in their order; nil without them).
+	Groups []GroupSums
 }
 
 // Second runs the second pass with the first pass's means and slope b.
@@ -887,7 +896,15 @@ type Sums struct {
 // each end (Sums.AtEnds): x takes only those two values when the counts
 // add up to the complete cases, and a value held by one row gives that
 // row leverage 1 (sole support; see Fit.Sole).
-func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, error) {
+//
+// With levels (the first pass's, with a group), the same scan sums each
+// level's deviations from its own first-pass means, grouped by the level
+// (the overall sums are then added up over the levels in Go), into
+// Sums.Groups: the first pass's regression aggregates lose digits where
+// x̄ or ȳ is far from 0 (with x near 10⁹ and a spread of 1, a level's
+// slope by parts in 10⁸ and the F of the slopes' comparison by 2.5·10⁻⁶,
+// TestPushdownAdversarial).
+func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64, levels []GroupSums) (*Sums, error) {
 	k := len(p.NumCols)
 	nc := k
 	if p.spec.Order != "" {
@@ -906,8 +923,7 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, e
 	}
 	d := func(i int) string { return "d" + strconv.Itoa(i) }
 	var sel []string
-	type pair struct{ i, j int }
-	var pairs []pair
+	var pairs []sumPair
 	for i := range nc {
 		sel = append(sel, "sum("+d(i)+")")
 	}
@@ -915,7 +931,7 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, e
 		for j := i; j < nc; j++ {
 			if i <= 1 || i == j {
 				sel = append(sel, "sum("+d(i)+" * "+d(j)+")")
-				pairs = append(pairs, pair{i, j})
+				pairs = append(pairs, sumPair{i, j})
 			}
 		}
 	}
@@ -931,11 +947,74 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, e
 	} else {
 		sel = append(sel, "-1", "-1")
 	}
-	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_d")
+	from, group := p.from(), ""
+	grouped := p.group != "" && len(levels) > 0
+	if grouped {
+		vals := make([]string, len(levels))
+		for i, l := range levels {
+			vals[i] = "(" + textLit(l.Level) + ", " + lit(l.MX) + ", " + lit(l.MY) + ")"
+		}
+		from += " JOIN (VALUES " + strings.Join(vals, ", ") + ") AS bivar_gm(lv, mx, my) ON " + p.group + " = bivar_gm.lv"
+		dev = append(dev, "bivar_gm.lv AS g", "("+p.num[0]+" - bivar_gm.mx) AS gx", "("+p.num[1]+" - bivar_gm.my) AS gy")
+		sel = append(sel, "g", "count(*)", "sum(gx)", "sum(gy)", "sum(gx * gx)", "sum(gy * gy)", "sum(gx * gy)")
+		group = " GROUP BY g"
+	}
+	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + from + " WHERE " + p.complete() + fence + ") AS bivar_d" + group)
 	if err != nil {
 		return nil, err
 	}
-	v := r[0]
+	if !grouped {
+		return p.secondSums(r[0], k, nc, pairs)
+	}
+	// The overall sums added up over the levels, the extremes and the
+	// counts at the ends combined.
+	s, err := p.secondSums(r[0], k, nc, pairs)
+	if err != nil {
+		return nil, err
+	}
+	at := map[string]int{}
+	for i, l := range levels {
+		at[l.Level] = i
+	}
+	s.Groups = slices.Clone(levels)
+	for ri, v := range r {
+		if ri > 0 {
+			o, _ := p.secondSums(v, k, nc, pairs)
+			for i := range k {
+				s.D[i] += o.D[i]
+				for j := range k {
+					s.P[i][j] += o.P[i][j]
+				}
+			}
+			s.X3, s.X4, s.SE, s.SE2, s.SXE, s.SX2E = s.X3+o.X3, s.X4+o.X4, s.SE+o.SE, s.SE2+o.SE2, s.SXE+o.SXE, s.SX2E+o.SX2E
+			s.SE3, s.SE4, s.SXE2, s.SXE3 = s.SE3+o.SE3, s.SE4+o.SE4, s.SXE2+o.SXE2, s.SXE3+o.SXE3
+			s.SO, s.SOO, s.SOE, s.SOX = s.SO+o.SO, s.SOO+o.SOO, s.SOE+o.SOE, s.SOX+o.SOX
+			s.EMin, s.EMax = math.Min(s.EMin, o.EMin), math.Max(s.EMax, o.EMax)
+			if s.AtEnds[0] >= 0 {
+				s.AtEnds[0], s.AtEnds[1] = s.AtEnds[0]+o.AtEnds[0], s.AtEnds[1]+o.AtEnds[1]
+			}
+		}
+		g := len(sel) - 7
+		i, ok := at[Text(v[g])]
+		if !ok {
+			return nil, p.s.q.err("the second pass returned a group level %q the first did not", Text(v[g]))
+		}
+		l := &s.Groups[i]
+		nf := Num(v[g+1])
+		l.OX, l.OY = Num(v[0])/nf, Num(v[1])/nf // Σ d_x, Σ d_y over the level
+		sx, sy := Num(v[g+2]), Num(v[g+3])
+		l.MX, l.MY = l.MX+sx/nf, l.MY+sy/nf
+		l.Sxx, l.Syy, l.Sxy = Num(v[g+4])-sx*sx/nf, Num(v[g+5])-sy*sy/nf, Num(v[g+6])-sx*sy/nf
+	}
+	return s, nil
+}
+
+// sumPair is a pair of numeric columns (NumCols indices) whose sum of
+// products the second pass returns.
+type sumPair struct{ i, j int }
+
+// secondSums reads one row of the second pass's sums.
+func (p *Prepared) secondSums(v []any, k, nc int, pairs []sumPair) (*Sums, error) {
 	s := &Sums{D: make([]float64, k), P: make([][]float64, k)}
 	for i := range k {
 		s.P[i] = make([]float64, k)

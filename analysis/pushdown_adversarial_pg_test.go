@@ -390,8 +390,10 @@ func TestPushdownExactFit(t *testing.T) {
 	}
 }
 
-// More awkward data: sole support far from 0, numeric and date group and
-// order columns, boolean and character(n) groups and ids, and studies that fail (x constant, too few complete
+// More awkward data: sole support far from 0, with four rows and within
+// a level, numeric and date group and order columns, boolean and
+// character(n) groups and ids, duplicated flagged rows, a run order with
+// non-finite cells, and studies that fail (x constant, too few complete
 // rows, y constant) both ways.
 func TestPushdownAdversarialEdges(t *testing.T) {
 	runAdv(t, []advCase{
@@ -421,6 +423,32 @@ func TestPushdownAdversarialEdges(t *testing.T) {
 			decl: table("adv_bc"),
 			studies: "[[study]]\nid = \"gb\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"gb\"\n" +
 				"[[study]]\nid = \"gc\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"gc\"\n", maxRows: 10},
+		// Identical flagged rows (the same id, x and y, three times) and
+		// two identical rows without an id: each counted and ranked.
+		{name: "dup-rows", setup: []string{"DROP TABLE IF EXISTS adv_dup",
+			"CREATE TABLE adv_dup (id text, x float8, y float8)",
+			`INSERT INTO adv_dup SELECT 'r' || i, 5 + sin(i * 0.7071), 2 + 0.4 * sin(i * 0.7071) + 0.3 * sin(i * 1.3247) FROM generate_series(1, 100) i`,
+			"INSERT INTO adv_dup SELECT 'dd', 9, 1 FROM generate_series(1, 3)",
+			"INSERT INTO adv_dup SELECT NULL, 5, 7 FROM generate_series(1, 2)"},
+			decl: table("adv_dup"), studies: plain, maxRows: 10},
+		// Four complete rows (one left out by a NULL y), x on two values
+		// with one row alone: sole support with an order and a covariate.
+		{name: "sole-n4-all", setup: []string{"DROP TABLE IF EXISTS adv_s4",
+			"CREATE TABLE adv_s4 (id text, x float8, y float8, z float8, o int)",
+			"INSERT INTO adv_s4 VALUES ('a', 1, 2, 0.5, 1), ('b', 1, 3, 0.1, 2), ('c', 1, 2.5, 0.9, 3), ('d', 4, 7, 0.3, 4), ('e', 9, NULL, 1, 5)"},
+			decl: table("adv_s4"), studies: plain + "[[study]]\nid = \"full\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\norder = \"o\"\ncovariates = [\"z\"]\n", maxRows: 2},
+		// A run order with NaN and −Infinity counted as missing, and
+		// heavy ties.
+		{name: "order-nan", setup: []string{"DROP TABLE IF EXISTS adv_on",
+			"CREATE TABLE adv_on (id text, x float8, y float8, o float8)",
+			`INSERT INTO adv_on SELECT 'r' || i, sin(i * 0.7071), sin(i * 0.7071) + 0.5 * sin(i * 1.3247), CASE WHEN i % 9 = 0 THEN 'NaN'::float8 WHEN i % 10 = 0 THEN '-Infinity'::float8 ELSE (i % 17)::float8 END FROM generate_series(1, 200) i`},
+			decl: table("adv_on") + "non_numeric = \"missing\"\n", studies: "[[study]]\nid = \"o\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\norder = \"o\"\n", maxRows: 10},
+		// A level whose x takes two values, one of them once: its row has
+		// leverage 1 within the level, not overall.
+		{name: "group-sole", setup: []string{"DROP TABLE IF EXISTS adv_gs",
+			"CREATE TABLE adv_gs (id text, x float8, y float8, g text)",
+			`INSERT INTO adv_gs SELECT 'r' || i, CASE WHEN i % 2 = 0 THEN 5 + sin(i * 0.7071) WHEN i = 7 THEN 3 ELSE 1 END, 2 + sin(i * 1.3247), CASE WHEN i % 2 = 0 THEN 'a' ELSE 'b' END FROM generate_series(1, 100) i`},
+			decl: table("adv_gs"), studies: "[[study]]\nid = \"g\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\n", maxRows: 10},
 		// Studies that fail: x constant over the complete rows; two
 		// complete rows; y constant.
 		{name: "failing", setup: []string{"DROP TABLE IF EXISTS adv_fail",

@@ -455,10 +455,9 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	sur2 := suw2 - 2*delta*suuw + delta*delta*suuu
 	sr4 := sw4 - 4*delta*suw3
 	se4 := sr4 - sr2*sr2/nf
-	suw2 = sur2
 	suu := mom.Sxx
 	if se4 > 0 && suu > 0 {
-		r := suw2 / math.Sqrt(suu*se4)
+		r := sur2 / math.Sqrt(suu*se4)
 		stat := nf * r * r
 		d.BreuschPagan = &report.ChiTest{Stat: report.Float(stat), DF: 1, P: report.Float(stats.UpperChi2(stat, 1))}
 	} else {

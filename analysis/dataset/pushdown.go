@@ -966,20 +966,35 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64, levels []
 	if !grouped {
 		return p.secondSums(r[0], k, nc, pairs)
 	}
-	// The overall sums added up over the levels, the extremes and the
-	// counts at the ends combined.
-	s, err := p.secondSums(r[0], k, nc, pairs)
-	if err != nil {
-		return nil, err
-	}
+	// The overall sums added up over the levels in their order (so that
+	// the figures do not depend on the order the server returns them), the
+	// extremes and the counts at the ends combined.
 	at := map[string]int{}
 	for i, l := range levels {
 		at[l.Level] = i
 	}
-	s.Groups = slices.Clone(levels)
-	for ri, v := range r {
-		if ri > 0 {
-			o, _ := p.secondSums(v, k, nc, pairs)
+	g := len(sel) - 7
+	byLevel := make([][]any, len(levels))
+	for _, v := range r {
+		i, ok := at[Text(v[g])]
+		if !ok || byLevel[i] != nil {
+			return nil, p.s.q.err("the second pass returned group level %q, which the first did not", Text(v[g]))
+		}
+		byLevel[i] = v
+	}
+	var s *Sums
+	groups := slices.Clone(levels)
+	for i, v := range byLevel {
+		if v == nil {
+			return nil, p.s.q.err("the second pass returned no rows of group level %q", levels[i].Level)
+		}
+		o, err := p.secondSums(v, k, nc, pairs)
+		if err != nil {
+			return nil, err
+		}
+		if s == nil {
+			s = o
+		} else {
 			for i := range k {
 				s.D[i] += o.D[i]
 				for j := range k {
@@ -994,18 +1009,16 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64, levels []
 				s.AtEnds[0], s.AtEnds[1] = s.AtEnds[0]+o.AtEnds[0], s.AtEnds[1]+o.AtEnds[1]
 			}
 		}
-		g := len(sel) - 7
-		i, ok := at[Text(v[g])]
-		if !ok {
-			return nil, p.s.q.err("the second pass returned a group level %q the first did not", Text(v[g]))
-		}
-		l := &s.Groups[i]
+		// The level's sums about its own first-pass means, and its means'
+		// offsets from the dataset's (Σ d_x, Σ d_y over the level).
+		l := &groups[i]
 		nf := Num(v[g+1])
-		l.OX, l.OY = Num(v[0])/nf, Num(v[1])/nf // Σ d_x, Σ d_y over the level
+		l.OX, l.OY = o.D[0]/nf, o.D[1]/nf
 		sx, sy := Num(v[g+2]), Num(v[g+3])
 		l.MX, l.MY = l.MX+sx/nf, l.MY+sy/nf
 		l.Sxx, l.Syy, l.Sxy = Num(v[g+4])-sx*sx/nf, Num(v[g+5])-sy*sy/nf, Num(v[g+6])-sx*sy/nf
 	}
+	s.Groups = groups
 	return s, nil
 }
 

@@ -393,8 +393,8 @@ func TestPushdownExactFit(t *testing.T) {
 // More awkward data: sole support far from 0, with four rows and within
 // a level, numeric and date group and order columns, boolean and
 // character(n) groups and ids, duplicated flagged rows, a run order with
-// non-finite cells, and studies that fail (x constant, too few complete
-// rows, y constant) both ways.
+// non-finite cells, x a timestamp, and studies that fail (x constant, too
+// few complete rows, y constant) both ways.
 func TestPushdownAdversarialEdges(t *testing.T) {
 	runAdv(t, []advCase{
 		// One row alone at x = 10⁹ + 1, the rest at 10⁹: sole support
@@ -449,6 +449,14 @@ func TestPushdownAdversarialEdges(t *testing.T) {
 			"CREATE TABLE adv_gs (id text, x float8, y float8, g text)",
 			`INSERT INTO adv_gs SELECT 'r' || i, CASE WHEN i % 2 = 0 THEN 5 + sin(i * 0.7071) WHEN i = 7 THEN 3 ELSE 1 END, 2 + sin(i * 1.3247), CASE WHEN i % 2 = 0 THEN 'a' ELSE 'b' END FROM generate_series(1, 100) i`},
 			decl: table("adv_gs"), studies: "[[study]]\nid = \"g\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\n", maxRows: 10},
+		// x a timestamp and a timestamptz (seconds since 1970: near
+		// 1.8·10⁹ with a spread of 10⁵), with a group and an order.
+		{name: "time-x", setup: []string{"DROP TABLE IF EXISTS adv_tx",
+			"CREATE TABLE adv_tx (id text, t timestamp, tz timestamptz, y float8, g text, o integer)",
+			`INSERT INTO adv_tx SELECT 'r' || i, timestamp '2026-10-01 08:00:00' + i * interval '7 minutes 13.25 seconds', timestamptz '2026-10-01 08:00:00+02' + i * interval '7 minutes 13.25 seconds',
+			  20 + 0.001 * i + sin(i * 1.3247), CASE WHEN i % 3 = 0 THEN 'a' ELSE 'b' END, (i * 7) % 13 FROM generate_series(1, 300) i`},
+			decl: table("adv_tx"), studies: "[[study]]\nid = \"t\"\ndataset = \"d\"\nx = \"t\"\ny = \"y\"\ngroup = \"g\"\norder = \"o\"\n" +
+				"[[study]]\nid = \"tz\"\ndataset = \"d\"\nx = \"tz\"\ny = \"y\"\n", maxRows: 10},
 		// Studies that fail: x constant over the complete rows; two
 		// complete rows; y constant.
 		{name: "failing", setup: []string{"DROP TABLE IF EXISTS adv_fail",

@@ -457,6 +457,13 @@ func TestPushdownAdversarialEdges(t *testing.T) {
 			  20 + 0.001 * i + sin(i * 1.3247), CASE WHEN i % 3 = 0 THEN 'a' ELSE 'b' END, (i * 7) % 13 FROM generate_series(1, 300) i`},
 			decl: table("adv_tx"), studies: "[[study]]\nid = \"t\"\ndataset = \"d\"\nx = \"t\"\ny = \"y\"\ngroup = \"g\"\norder = \"o\"\n" +
 				"[[study]]\nid = \"tz\"\ndataset = \"d\"\nx = \"tz\"\ny = \"y\"\n", maxRows: 10},
+		// Sole support in a real and a numeric column (the lone row told
+		// by its value as the study reads it: a real through its text).
+		{name: "sole-types", setup: []string{"DROP TABLE IF EXISTS adv_st",
+			"CREATE TABLE adv_st (id text, xr real, xn numeric(12,3), y float8)",
+			`INSERT INTO adv_st SELECT 'r' || i, CASE WHEN i = 5 THEN 0.3 ELSE 0.1 END, CASE WHEN i = 9 THEN 0.1 ELSE 0.7 END, 2 + sin(i * 1.3247 + 0.5) + CASE WHEN i IN (5, 9) THEN 2 ELSE 0 END
+			  FROM generate_series(1, 80) i`},
+			decl: table("adv_st"), studies: "[[study]]\nid = \"r\"\ndataset = \"d\"\nx = \"xr\"\ny = \"y\"\n[[study]]\nid = \"n\"\ndataset = \"d\"\nx = \"xn\"\ny = \"y\"\n", maxRows: 10},
 		// Studies that fail: x constant over the complete rows; two
 		// complete rows; y constant.
 		{name: "failing", setup: []string{"DROP TABLE IF EXISTS adv_fail",

@@ -301,9 +301,12 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	if span := c.Max[0] - c.Min[0]; math.Abs(c.Sxx-(nf-1)/nf*span*span) <= 1e-6*c.Sxx {
 		ends = &[2]float64{c.Min[0], c.Max[0]}
 	}
-	sums, err := p.Second(c.Mean, b1, ends)
+	sums, err := p.Second(c.Mean, b1, ends, gs)
 	if err != nil {
 		return s, err
+	}
+	if sums.Groups != nil {
+		gs = sums.Groups // the levels' sums by the corrected two-pass algorithm
 	}
 	var sole *float64
 	if ends != nil && sums.AtEnds[0]+sums.AtEnds[1] == n {
@@ -363,8 +366,13 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// the SD of x (a well-scaled basis); its residual sum is the third
 	// pass's.
 	rules := findings.FlagRulesFor(n, cfg.Thresholds)
+	// An exact fit leaves only rounding in the residuals: as in memory
+	// (stats.NewLineInfluence), an RSS at or below (16ε)²·Σy² leaves the
+	// residual SD undefined for the row-wise measures, so that no rounding
+	// noise is studentized into a Cook's distance.
 	sres := math.NaN()
-	if n > 2 {
+	const eps16 = 16 * 0x1p-52
+	if sumY2 := mom.Syy + nf*mom.MeanY*mom.MeanY; n > 2 && rss > eps16*eps16*sumY2 {
 		sres = math.Sqrt(rss / (nf - 2))
 	}
 	fit := dataset.Fit{N: n, MX: c.Mean[0], MY: c.Mean[1], MXLo: lo[0], MYLo: lo[1], B: b,
@@ -424,19 +432,32 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		exact("quadratic: coefficients, SEs, intervals, R², F, AIC, vertex; the curvature test")
 	}
 	omit("log-x, log-y and log-log models", "not fitted when the rows stay in the database (the straight line and the quadratic are)")
-	// Breusch–Pagan (Koenker): n·r² of x with e², from the second pass's
-	// sums of its line's residuals e, centred: w = e − ē (the refined
-	// line's residuals are w − (b − b1)·(d_x − d̄_x); the slope's change
-	// enters BP at the order of (b − b1)·SD(x)/s, near the rounding).
+	// Breusch–Pagan (Koenker): n·r² of x with r², r the refined line's
+	// residuals, from the second pass's sums of its line's residuals e:
+	// with w = e − ē, u = d_x − d̄_x and δ = b − b1, r = w − δ·u exactly,
+	// so Σr² = Σw² − 2δΣuw + δ²Σu², Σu·r² = Σu·w² − 2δΣu²w + δ²Σu³ and
+	// Σr⁴ = Σw⁴ − 4δΣu·w³ + O(δ²) (our algebra). δ is the first pass's
+	// error in the slope: where x̄ is far from 0 it moved BP by parts in
+	// 10⁸ (x near 10⁹ with a spread of 1, TestPushdownAdversarial); the
+	// terms of Σr⁴ left out are of relative order (δ·SD(x)/s)², below
+	// 10⁻¹² unless the first pass's slope is off by 10⁻⁶·s/SD(x).
 	ebar := sums.SE / nf
 	ubar := sums.D[0] / nf
+	delta := b - b1
 	sw2 := sums.SE2 - sums.SE*ebar
 	suw2 := (sums.SXE2 - 2*ebar*sums.SXE + ebar*ebar*sums.D[0]) - ubar*sw2
 	sw4 := sums.SE4 - 4*ebar*sums.SE3 + 6*ebar*ebar*sums.SE2 - 4*ebar*ebar*ebar*sums.SE + nf*ebar*ebar*ebar*ebar
-	se4 := sw4 - sw2*sw2/nf
+	suuw := sums.SX2E - ebar*sums.P[0][0] - 2*ubar*(sums.SXE-ebar*sums.D[0])
+	suuu := sums.X3 - 3*ubar*sums.P[0][0] + 3*ubar*ubar*sums.D[0] - nf*ubar*ubar*ubar
+	sw3 := sums.SE3 - 3*ebar*sums.SE2 + 3*ebar*ebar*sums.SE - nf*ebar*ebar*ebar
+	suw3 := (sums.SXE3 - 3*ebar*sums.SXE2 + 3*ebar*ebar*sums.SXE - ebar*ebar*ebar*sums.D[0]) - ubar*sw3
+	sr2 := sw2 - 2*delta*sue + delta*delta*mom.Sxx
+	sur2 := suw2 - 2*delta*suuw + delta*delta*suuu
+	sr4 := sw4 - 4*delta*suw3
+	se4 := sr4 - sr2*sr2/nf
 	suu := mom.Sxx
 	if se4 > 0 && suu > 0 {
-		r := suw2 / math.Sqrt(suu*se4)
+		r := sur2 / math.Sqrt(suu*se4)
 		stat := nf * r * r
 		d.BreuschPagan = &report.ChiTest{Stat: report.Float(stat), DF: 1, P: report.Float(stats.UpperChi2(stat, 1))}
 	} else {
@@ -500,7 +521,15 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	if err != nil {
 		return s, err
 	}
-	s.Influence, s.Sensitivity = influenceFromSums(mom, rss, sole, pc, lf, rules, th, sus, fetched.Extremes, cfg, conf)
+	var sumKept bool
+	s.Influence, s.Sensitivity, sumKept = influenceFromSums(mom, fit, pc, lf, rules, th, sus, fetched, cfg, conf)
+	if sumKept {
+		kept, err := p.WithoutFlagged(fit)
+		if err != nil {
+			return s, err
+		}
+		withoutFromKept(s.Sensitivity, kept, conf)
+	}
 	exact("influence: flag counts, named rows and their measures, the largest Cook's distance", "sensitivity: leave-one-out extremes, the line without each named row")
 	if th.Suspect > len(sus) {
 		omit("r and line without the flagged rows", fmt.Sprintf("%d rows are flagged outlier, influential or sole support, more than the %d a study fetches to refit without them", th.Suspect, pushdownSuspectMax))
@@ -514,7 +543,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		rows := th.Suspects[:n]
 		s.FlaggedCSV = flaggedCSV(n, func(k int) flaggedRow {
 			r := rows[k]
-			return flaggedRow{name: pushedRowName(r), x: r.X, y: r.Y, flags: findings.FlagSet(r.Flags), r: rowInfluence(mom, rss, sole, r.X, r.Y)}
+			return flaggedRow{name: pushedRowName(r), x: r.X, y: r.Y, flags: findings.FlagSet(r.Flags), r: rowInfluence(mom, fit, r.X, r.Y)}
 		})
 		s.Influence.File, s.Influence.FileRows = FlaggedFile(s.ID), n
 	}
@@ -568,7 +597,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 
 	// Units and predictions from the exact line.
-	s.UnitInvariance = unitsFromMoments(s.X, s.Y, alsoIn, mom, pc.R)
+	s.UnitInvariance = unitsFromMoments(s.X, s.Y, alsoIn, mom, pc.R, lf)
 	s.Predictions = predictFromSums(mom, rss, predictAt, s.Describe.X, conf)
 	exact("unit table")
 
@@ -725,7 +754,7 @@ func fitStats(f *report.Fit, n int, rss, tss float64, p int) {
 			f.AdjR2 = report.Float(1 - (1-r2)*(nf-1)/float64(df))
 		}
 	}
-	if df > 0 && rss > 0 {
+	if df > 0 { // an exact fit (RSS = 0) has F = +Inf, as stats.Regression gives
 		fv := ((tss - rss) / float64(p)) / (rss / float64(df))
 		f.F, f.FP = report.Float(fv), report.Float(stats.UpperF(fv, float64(p), float64(df)))
 	}
@@ -819,7 +848,7 @@ func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *r
 	nan := math.NaN()
 	gl := stats.GroupLines{SlopesF: nan, SlopesP: nan, LinesF: nan, LinesP: nan, RWithin: nan, RWithinP: nan}
 	var sxx, syy, sxy, rssSep float64
-	var pooled stats.Moments // the qualifying levels together (Chan et al.'s pairwise combination)
+	var pooled stats.Moments // the qualifying levels together (Chan et al.'s pairwise combination), its means offsets from the dataset's (GroupSums.OX, OY)
 	for _, g := range gs {
 		f := report.GroupFit{Group: g.Level, N: g.N, R: report.NaN(), Slope: report.NaN(), Intercept: report.NaN(), SlopeLow: report.NaN(), SlopeHigh: report.NaN()}
 		if g.N >= 3 && g.Sxx > 0 {
@@ -834,7 +863,7 @@ func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *r
 			gl.N += g.N
 			sxx, syy, sxy = sxx+g.Sxx, syy+g.Syy, sxy+g.Sxy
 			rssSep += rss
-			pooled = combine(pooled, stats.Moments{N: g.N, MeanX: g.MX, MeanY: g.MY, Sxx: g.Sxx, Syy: g.Syy, Sxy: g.Sxy})
+			pooled = combine(pooled, stats.Moments{N: g.N, MeanX: g.OX, MeanY: g.OY, Sxx: g.Sxx, Syy: g.Syy, Sxy: g.Sxy})
 		}
 		out = append(out, f)
 	}
@@ -863,8 +892,8 @@ func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *r
 		for _, g := range gs {
 			if g.N >= 3 && g.Sxx > 0 {
 				nf := float64(g.N)
-				dx := g.MX - pooled.MeanX
-				cg := (g.MY - pooled.MeanY) - bw*dx
+				dx := g.OX - pooled.MeanX
+				cg := (g.OY - pooled.MeanY) - bw*dx
 				onePar += nf*cg*cg + 2*delta*nf*cg*dx
 			}
 		}
@@ -902,34 +931,35 @@ func combine(a, b stats.Moments) stats.Moments {
 		Sxx: a.Sxx + b.Sxx + f*dx*dx, Syy: a.Syy + b.Syy + f*dy*dy, Sxy: a.Sxy + b.Sxy + f*dx*dy}
 }
 
-// pushedRowName names a row fetched from the database: its id_column value,
-// else its values, since rows left in the database have no row number.
+// pushedRowName names a row fetched from the database: its id_column value
+// as stored (as the study of the rows fetched names it), else its values,
+// since rows left in the database have no row number.
 func pushedRowName(r dataset.Row) string {
 	if r.ID != "" {
-		return strings.TrimSpace(r.ID)
+		return r.ID
 	}
 	return fmt.Sprintf("(x = %g, y = %g)", r.X, r.Y)
 }
 
 // rowInfluence is stats.LineInfluence.At for one row given the line's
-// sums, sole the x of the row of sole support (nil when none).
-func rowInfluence(m stats.Moments, rss float64, sole *float64, x, y float64) stats.InfluenceRow {
-	if sole != nil && x == *sole {
+// sums m and f (its RSS, the x of the row of sole support, and the means
+// in two parts, so that the row's deviations keep the digits that x̄ and ȳ
+// far from 0 would cost, as in memory).
+func rowInfluence(m stats.Moments, f dataset.Fit, x, y float64) stats.InfluenceRow {
+	rss := f.RSS
+	if f.Sole != nil && x == *f.Sole {
 		nan := math.NaN()
 		return stats.InfluenceRow{Leverage: 1, Residual: 0, Studentized: nan, StudentizedExt: nan, CooksD: nan, DFFITS: nan,
 			LooR: nan, LooSlope: nan, LooIntercept: nan, SoleSupport: true}
 	}
 	nf := float64(m.N)
 	b1 := m.Sxy / m.Sxx
-	dx, dy := x-m.MeanX, y-m.MeanY
+	dx, dy := (x-f.MX)-f.MXLo, (y-f.MY)-f.MYLo
 	e := dy - b1*dx
 	q := dx * dx / m.Sxx
 	h := math.Min(1, 1/nf+q)
 	omh := math.Max(0, (nf-1)/nf-q)
-	s := math.NaN()
-	if m.N > 2 {
-		s = math.Sqrt(rss / (nf - 2))
-	}
+	s := f.S // NaN for an exact fit, as in memory
 	r := stats.InfluenceRow{Leverage: h, Residual: e}
 	ri := e / (s * math.Sqrt(omh))
 	r.Studentized = ri
@@ -954,10 +984,10 @@ func rowInfluence(m stats.Moments, rss float64, sole *float64, x, y float64) sta
 
 // influenceFromSums fills the influence summary and the sensitivity
 // figures from the database's counts and the rows it returned.
-func influenceFromSums(m stats.Moments, rss float64, sole *float64, all stats.Correlation, line report.Fit, rules findings.FlagRules, fc *dataset.Third,
-	sus, ext []dataset.Row, cfg Config, conf float64) (*report.Influence, *report.Sensitivity) {
+func influenceFromSums(m stats.Moments, f dataset.Fit, all stats.Correlation, line report.Fit, rules findings.FlagRules, fc *dataset.Third,
+	sus []dataset.Row, ext *dataset.Fetched, cfg Config, conf float64) (in *report.Influence, se *report.Sensitivity, sumKept bool) {
 	namedMax := cfg.namedMax()
-	in := &report.Influence{MaxCooksD: report.NaN(), NamedMax: namedMax, Ranking: ranking,
+	in = &report.Influence{MaxCooksD: report.NaN(), NamedMax: namedMax, Ranking: ranking,
 		Rules: report.FlagCuts{Leverage: report.Float(rules.Leverage), Outlier: report.Float(rules.Outlier), CooksD: report.Float(rules.Cooks)}}
 	if math.IsInf(rules.Leverage, 1) {
 		in.Rules.Leverage = report.NaN()
@@ -967,25 +997,28 @@ func influenceFromSums(m stats.Moments, rss float64, sole *float64, all stats.Co
 	}
 	in.Counts = report.FlagCounts{Flagged: fc.Flagged, Outlier: fc.Outlier, HighLeverage: fc.HighLeverage, Influential: fc.Influential,
 		SoleSupport: fc.SoleSupport, Suspect: fc.Suspect, LeverageOnly: fc.Flagged - fc.Suspect}
-	se := &report.Sensitivity{LooRMin: report.Float(fc.LooRMin), LooRMax: report.Float(fc.LooRMax), LooSlopeMin: report.Float(fc.LooSMin), LooSlopeMax: report.Float(fc.LooSMax),
+	se = &report.Sensitivity{LooRMin: report.Float(fc.LooRMin), LooRMax: report.Float(fc.LooRMax), LooSlopeMin: report.Float(fc.LooSMin), LooSlopeMax: report.Float(fc.LooSMax),
 		RWithoutFlagged: report.NaN(), RWithoutLow: report.NaN(), RWithoutHigh: report.NaN(), PWithoutFlagged: report.NaN(),
 		SlopeWithoutFlagged: report.NaN(), InterceptWithout: report.NaN(), ResistantSlope: report.NaN(), ResistantIntercept: report.NaN(),
 		WithoutEach: []report.Without{}, NFlagged: fc.Suspect}
 	if !math.IsNaN(fc.MaxD) {
 		in.MaxCooksD = report.Float(fc.MaxD)
 	}
-	for _, r := range ext {
-		ri := rowInfluence(m, rss, sole, r.X, r.Y)
-		if se.LooRMinRow == "" && ri.LooR == fc.LooRMin {
+	// The rows at the extremes, told by the leave-one-out r the server
+	// computed for them (the one the third pass's extremes are), not by
+	// one computed again here, which may differ in the last digit.
+	for i, r := range ext.Extremes {
+		loo := ext.ExtLoo[i]
+		if se.LooRMinRow == "" && loo == fc.LooRMin {
 			se.LooRMinRow = pushedRowName(r)
 		}
-		if se.LooRMaxRow == "" && ri.LooR == fc.LooRMax {
+		if se.LooRMaxRow == "" && loo == fc.LooRMax {
 			se.LooRMaxRow = pushedRowName(r)
 		}
 	}
 	in.Points = []report.Point{}
 	for _, r := range sus {
-		ri := rowInfluence(m, rss, sole, r.X, r.Y)
+		ri := rowInfluence(m, f, r.X, r.Y)
 		if in.MaxCooksRow == "" && (ri.CooksD == fc.MaxD || r.D == fc.MaxD) {
 			in.MaxCooksRow = pushedRowName(r)
 		}
@@ -1012,21 +1045,45 @@ func influenceFromSums(m stats.Moments, rss float64, sole *float64, all stats.Co
 			se.RWithoutFlagged, se.RWithoutLow, se.RWithoutHigh, se.PWithoutFlagged = report.Float(p.R), report.Float(p.CILow), report.Float(p.CIHigh), report.Float(p.P)
 			b := kept.Sxy / kept.Sxx
 			se.SlopeWithoutFlagged, se.InterceptWithout = report.Float(b), report.Float(kept.MeanY-b*kept.MeanX)
+		} else {
+			sumKept = true // the caller sums the kept rows (withoutFromKept)
 		}
 	}
-	return in, se
+	return in, se, sumKept
+}
+
+// withoutFromKept fills the r and line without the flagged rows from the
+// kept rows' own sums (dataset.Prepared.WithoutFlagged), as the study in
+// memory does when the kept rows are summed: r undefined when x or y is
+// constant over them, the line when x is.
+func withoutFromKept(se *report.Sensitivity, k *dataset.Kept, conf float64) {
+	if k.N < 3 {
+		return
+	}
+	m := stats.Moments{N: k.N, MeanX: k.MX, MeanY: k.MY, Sxx: k.Sxx, Syy: k.Syy, Sxy: k.Sxy}
+	if !k.XConst && !k.YConst {
+		p := stats.PearsonMoments(m, conf)
+		se.RWithoutFlagged, se.RWithoutLow, se.RWithoutHigh, se.PWithoutFlagged = report.Float(p.R), report.Float(p.CILow), report.Float(p.CIHigh), report.Float(p.P)
+	}
+	if !k.XConst {
+		b := m.Sxy / m.Sxx
+		se.SlopeWithoutFlagged, se.InterceptWithout = report.Float(b), report.Float(m.MeanY-b*m.MeanX)
+	}
 }
 
 // unitsFromMoments is the unit table from the moments: a unit change
 // v' = a·v + c maps the means and centred sums exactly (x̄' = a·x̄ + c,
-// Sxx' = a²·Sxx, Sxy' = a·Sxy), so the rows need not be converted.
-func unitsFromMoments(xv, yv report.Variable, also manifest.AlsoIn, m stats.Moments, r float64) []report.UnitRow {
+// Sxx' = a²·Sxx, Sxy' = a·Sxy), so the rows need not be converted. The
+// row in the recorded units is the line's own (lf: its refined slope and
+// its intercept from the means in two parts), as in memory.
+func unitsFromMoments(xv, yv report.Variable, also manifest.AlsoIn, m stats.Moments, r float64, lf report.Fit) []report.UnitRow {
 	line := func(xu, yu string, mm stats.Moments) report.UnitRow {
 		b := mm.Sxy / mm.Sxx
 		return report.UnitRow{XUnit: xu, YUnit: yu, R: report.Float(stats.PearsonMoments(mm, 0.95).R), Slope: report.Float(b), Intercept: report.Float(mm.MeanY - b*mm.MeanX)}
 	}
 	rows := []report.UnitRow{line(xv.Unit, yv.Unit, m)}
 	rows[0].R = report.Float(r)
+	rows[0].Slope, rows[0].Intercept = lf.Slope.Estimate, lf.Intercept.Estimate
 	conv := func(from, to string) (float64, float64, error) {
 		if from == "" {
 			return 0, 0, fmt.Errorf("no unit is declared for this column in [dataset.units], so it cannot be converted to %q", to)

@@ -468,6 +468,12 @@ func (s *Session) numExpr(col string) (string, error) {
 	id := pgx.Identifier{col}.Sanitize()
 	switch s.kinds[col] {
 	case pgNumber:
+		if i := slices.Index(s.Names, col); i >= 0 && s.oids[i] == 700 {
+			// real: through its text, the digits the rows fetched below
+			// max_rows are read from (pgNumberOf), not the binary value
+			// widened (3.1956139 would be 3.1956138610839844).
+			return "CAST(CAST(bivar_q." + id + " AS text) AS double precision)", nil
+		}
 		return "CAST(bivar_q." + id + " AS double precision)", nil
 	case pgTime:
 		return "CAST(EXTRACT(EPOCH FROM bivar_q." + id + ") AS double precision)", nil
@@ -486,7 +492,17 @@ func (s *Session) textExpr(col string) (string, error) {
 	if !slices.Contains(s.Names, col) {
 		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the result has no such column: correct the study or the query"}
 	}
-	return "CAST(bivar_q." + pgx.Identifier{col}.Sanitize() + " AS text)", nil
+	c := "bivar_q." + pgx.Identifier{col}.Sanitize()
+	// The text the rows fetched below max_rows are read in (the type's
+	// output function): a cast to text writes a boolean true/false where
+	// its output is t/f, and drops a character(n)'s padding.
+	switch s.oids[slices.Index(s.Names, col)] {
+	case 16: // boolean
+		return "CAST(boolout(" + c + ") AS text)", nil
+	case 1042: // character(n)
+		return "CAST(bpcharout(" + c + ") AS text)", nil
+	}
+	return "CAST(" + c + " AS text)", nil
 }
 
 // isMissing says whether a text cell is missing: NULL, or one of the
@@ -661,6 +677,11 @@ type GroupSums struct {
 	MX, MY        float64
 	XMin, XMax    float64
 	Sxx, Syy, Sxy float64
+	// OX and OY are the level's means less the dataset's first-pass
+	// means, from the second pass's deviations (Sums.Groups): the levels'
+	// means differ from each other in digits that MX and MY, far from 0,
+	// lose.
+	OX, OY float64
 }
 
 // First runs the first pass: per stored group value (one row without a
@@ -854,8 +875,9 @@ type Sums struct {
 	X3, X4 float64
 	// SE = Σe, SE2 = Σe², SXE = Σ d_x·e, SX2E = Σ d_x²·e.
 	SE, SE2, SXE, SX2E float64
-	// SE3 = Σe³, SE4 = Σe⁴, SXE2 = Σ d_x·e² (Breusch–Pagan).
-	SE3, SE4, SXE2 float64
+	// SE3 = Σe³, SE4 = Σe⁴, SXE2 = Σ d_x·e², SXE3 = Σ d_x·e³
+	// (Breusch–Pagan).
+	SE3, SE4, SXE2, SXE3 float64
 	// With a run order, d_o its deviation from the first pass's mean:
 	// SO = Σ d_o, SOO = Σ d_o², SOE = Σ d_o·e, SOX = Σ d_o·d_x.
 	SO, SOO, SOE, SOX float64
@@ -863,6 +885,10 @@ type Sums struct {
 	// AtEnds counts the rows whose x is the least and the largest x (the
 	// ends Second was given; −1 without them).
 	AtEnds [2]int
+	// Groups are the levels' means and centred sums of x and y by the
+	// same corrected two-pass algorithm about each level's first-pass
+	// means (Second's levels, in their order; nil without them).
+	Groups []GroupSums
 }
 
 // Second runs the second pass with the first pass's means and slope b.
@@ -870,7 +896,15 @@ type Sums struct {
 // each end (Sums.AtEnds): x takes only those two values when the counts
 // add up to the complete cases, and a value held by one row gives that
 // row leverage 1 (sole support; see Fit.Sole).
-func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, error) {
+//
+// With levels (the first pass's, with a group), the same scan sums each
+// level's deviations from its own first-pass means, grouped by the level
+// (the overall sums are then added up over the levels in Go), into
+// Sums.Groups: the first pass's regression aggregates lose digits where
+// x̄ or ȳ is far from 0 (with x near 10⁹ and a spread of 1, a level's
+// slope by parts in 10⁸ and the F of the slopes' comparison by 2.5·10⁻⁶,
+// TestPushdownAdversarial).
+func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64, levels []GroupSums) (*Sums, error) {
 	k := len(p.NumCols)
 	nc := k
 	if p.spec.Order != "" {
@@ -889,8 +923,7 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, e
 	}
 	d := func(i int) string { return "d" + strconv.Itoa(i) }
 	var sel []string
-	type pair struct{ i, j int }
-	var pairs []pair
+	var pairs []sumPair
 	for i := range nc {
 		sel = append(sel, "sum("+d(i)+")")
 	}
@@ -898,12 +931,12 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, e
 		for j := i; j < nc; j++ {
 			if i <= 1 || i == j {
 				sel = append(sel, "sum("+d(i)+" * "+d(j)+")")
-				pairs = append(pairs, pair{i, j})
+				pairs = append(pairs, sumPair{i, j})
 			}
 		}
 	}
 	sel = append(sel, "sum((d0 * d0) * d0)", "sum((d0 * d0) * (d0 * d0))", "sum(e)", "sum(e * e)", "sum(d0 * e)", "sum((d0 * d0) * e)", "min(e)", "max(e)",
-		"sum((e * e) * e)", "sum((e * e) * (e * e))", "sum(d0 * (e * e))")
+		"sum((e * e) * e)", "sum((e * e) * (e * e))", "sum(d0 * (e * e))", "sum(d0 * ((e * e) * e))")
 	if p.spec.Order != "" {
 		sel = append(sel, "sum(dord)", "sum(dord * dord)", "sum(dord * e)", "sum(dord * d0)")
 	} else {
@@ -914,11 +947,87 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, e
 	} else {
 		sel = append(sel, "-1", "-1")
 	}
-	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_d")
+	from, group := p.from(), ""
+	grouped := p.group != "" && len(levels) > 0
+	if grouped {
+		vals := make([]string, len(levels))
+		for i, l := range levels {
+			vals[i] = "(" + textLit(l.Level) + ", " + lit(l.MX) + ", " + lit(l.MY) + ")"
+		}
+		from += " JOIN (VALUES " + strings.Join(vals, ", ") + ") AS bivar_gm(lv, mx, my) ON " + p.group + " = bivar_gm.lv"
+		dev = append(dev, "bivar_gm.lv AS g", "("+p.num[0]+" - bivar_gm.mx) AS gx", "("+p.num[1]+" - bivar_gm.my) AS gy")
+		sel = append(sel, "g", "count(*)", "sum(gx)", "sum(gy)", "sum(gx * gx)", "sum(gy * gy)", "sum(gx * gy)")
+		group = " GROUP BY g"
+	}
+	r, err := p.s.rows("SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + from + " WHERE " + p.complete() + fence + ") AS bivar_d" + group)
 	if err != nil {
 		return nil, err
 	}
-	v := r[0]
+	if !grouped {
+		return p.secondSums(r[0], k, nc, pairs)
+	}
+	// The overall sums added up over the levels in their order (so that
+	// the figures do not depend on the order the server returns them), the
+	// extremes and the counts at the ends combined.
+	at := map[string]int{}
+	for i, l := range levels {
+		at[l.Level] = i
+	}
+	g := len(sel) - 7
+	byLevel := make([][]any, len(levels))
+	for _, v := range r {
+		i, ok := at[Text(v[g])]
+		if !ok || byLevel[i] != nil {
+			return nil, p.s.q.err("the second pass returned group level %q, which the first did not", Text(v[g]))
+		}
+		byLevel[i] = v
+	}
+	var s *Sums
+	groups := slices.Clone(levels)
+	for i, v := range byLevel {
+		if v == nil {
+			return nil, p.s.q.err("the second pass returned no rows of group level %q", levels[i].Level)
+		}
+		o, err := p.secondSums(v, k, nc, pairs)
+		if err != nil {
+			return nil, err
+		}
+		if s == nil {
+			s = o
+		} else {
+			for i := range k {
+				s.D[i] += o.D[i]
+				for j := range k {
+					s.P[i][j] += o.P[i][j]
+				}
+			}
+			s.X3, s.X4, s.SE, s.SE2, s.SXE, s.SX2E = s.X3+o.X3, s.X4+o.X4, s.SE+o.SE, s.SE2+o.SE2, s.SXE+o.SXE, s.SX2E+o.SX2E
+			s.SE3, s.SE4, s.SXE2, s.SXE3 = s.SE3+o.SE3, s.SE4+o.SE4, s.SXE2+o.SXE2, s.SXE3+o.SXE3
+			s.SO, s.SOO, s.SOE, s.SOX = s.SO+o.SO, s.SOO+o.SOO, s.SOE+o.SOE, s.SOX+o.SOX
+			s.EMin, s.EMax = math.Min(s.EMin, o.EMin), math.Max(s.EMax, o.EMax)
+			if s.AtEnds[0] >= 0 {
+				s.AtEnds[0], s.AtEnds[1] = s.AtEnds[0]+o.AtEnds[0], s.AtEnds[1]+o.AtEnds[1]
+			}
+		}
+		// The level's sums about its own first-pass means, and its means'
+		// offsets from the dataset's (Σ d_x, Σ d_y over the level).
+		l := &groups[i]
+		nf := Num(v[g+1])
+		l.OX, l.OY = o.D[0]/nf, o.D[1]/nf
+		sx, sy := Num(v[g+2]), Num(v[g+3])
+		l.MX, l.MY = l.MX+sx/nf, l.MY+sy/nf
+		l.Sxx, l.Syy, l.Sxy = Num(v[g+4])-sx*sx/nf, Num(v[g+5])-sy*sy/nf, Num(v[g+6])-sx*sy/nf
+	}
+	s.Groups = groups
+	return s, nil
+}
+
+// sumPair is a pair of numeric columns (NumCols indices) whose sum of
+// products the second pass returns.
+type sumPair struct{ i, j int }
+
+// secondSums reads one row of the second pass's sums.
+func (p *Prepared) secondSums(v []any, k, nc int, pairs []sumPair) (*Sums, error) {
 	s := &Sums{D: make([]float64, k), P: make([][]float64, k)}
 	for i := range k {
 		s.P[i] = make([]float64, k)
@@ -938,9 +1047,9 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64) (*Sums, e
 		n++
 	}
 	s.X3, s.X4, s.SE, s.SE2, s.SXE, s.SX2E, s.EMin, s.EMax = Num(v[n]), Num(v[n+1]), Num(v[n+2]), Num(v[n+3]), Num(v[n+4]), Num(v[n+5]), Num(v[n+6]), Num(v[n+7])
-	s.SE3, s.SE4, s.SXE2 = Num(v[n+8]), Num(v[n+9]), Num(v[n+10])
-	s.SO, s.SOO, s.SOE, s.SOX = Num(v[n+11]), Num(v[n+12]), Num(v[n+13]), Num(v[n+14])
-	s.AtEnds = [2]int{int(Num(v[n+15])), int(Num(v[n+16]))}
+	s.SE3, s.SE4, s.SXE2, s.SXE3 = Num(v[n+8]), Num(v[n+9]), Num(v[n+10]), Num(v[n+11])
+	s.SO, s.SOO, s.SOE, s.SOX = Num(v[n+12]), Num(v[n+13]), Num(v[n+14]), Num(v[n+15])
+	s.AtEnds = [2]int{int(Num(v[n+16])), int(Num(v[n+17]))}
 	return s, nil
 }
 
@@ -1014,8 +1123,33 @@ func (p *Prepared) leverage(f Fit) (h, omh string) {
 func (f Fit) loor(dx, dy, omh string) string {
 	nf := float64(f.N)
 	c := lit(nf / (nf - 1))
+	// Unclamped (the caller clamps to [−1, 1] as stats.corrFromSums does:
+	// clampR, clampedIs).
 	return "(" + lit(f.Sxy) + " - " + c + " * " + dx + " * " + dy + ") / nullif(sqrt(greatest(0, " + c + " * " + lit(f.Sxx) + " * " + omh + ") * greatest(0, " +
 		lit(f.Syy) + " - " + c + " * " + dy + " * " + dy + ")), 0)"
+}
+
+// clampR is a correlation clamped to [−1, 1], as stats.corrFromSums
+// clamps it (rounding can carry |r| past 1); NaN stays NaN.
+func clampR(r float64) float64 {
+	switch {
+	case r > 1:
+		return 1
+	case r < -1:
+		return -1
+	}
+	return r
+}
+
+// clampedIs is the SQL test that the correlation e, clamped (clampR), is v.
+func clampedIs(e string, v float64) string {
+	switch v {
+	case 1:
+		return e + " >= 1"
+	case -1:
+		return e + " <= -1"
+	}
+	return e + " = " + lit(v)
 }
 
 func cutLit(v float64) string {
@@ -1106,6 +1240,61 @@ func cell(e string, lo, hi float64, k int) string {
 	return "least(greatest(CAST(floor((" + e + " - " + lit(lo) + ") * " + lit(float64(k)/(hi-lo)) + ") AS bigint), 0), " + strconv.Itoa(k-1) + ")"
 }
 
+// flaggedSQL is the derived table of the complete cases with the
+// refined line's row-wise measures (flaggedSQL's columns: those of
+// rowsLine, ri the studentized residual, loor and loos the leave-one-out
+// r and slope, fo and fd the outlier and influential tests, qr the
+// quadratic's residual), the SQL of a row's flags fl (the bits of
+// findings.FlagSet) and of the test that a row is flagged outlier,
+// influential or sole support, and s2, a row's deleted residual variance.
+func (p *Prepared) flaggedSQL(f Fit) (src, fl, isSuspect, s2 string) {
+	// The flags without a square root or a division by a row's values:
+	// |t| > c ⟺ e² > K₁·(1 − h) with K₁ = c²·RSS/(n − 3 + c²) (from
+	// t² = e²/(s₍ᵢ₎²·(1 − h)), s₍ᵢ₎² = (RSS − e²/(1 − h))/(n − 3)), and
+	// d > D ⟺ e²·h > K₂·(1 − h)² with K₂ = 2·s²·D (from
+	// d = e²·h/(2·s²·(1 − h)²)); a row of leverage 1 (1 − h = 0) is neither.
+	nf := float64(f.N)
+	k1, k2 := math.Inf(1), math.Inf(1)
+	// With n ≤ 3 the deleted residual's SD has no degree of freedom: t is
+	// undefined (NULL here, NaN in memory) and flags no row an outlier.
+	if c := f.Outlier; !math.IsInf(c, 1) && !math.IsNaN(c) && f.N > 3 {
+		k1 = c * c * f.RSS / (nf - 3 + c*c)
+	}
+	if c := f.Cooks; !math.IsInf(c, 1) && !math.IsNaN(c) {
+		k2 = 2 * f.S * f.S * c
+	}
+	o := "(omh > 0 AND e * e > " + cutLit(k1) + " * omh)"
+	d := "(omh > 0 AND (e * e) * h > " + cutLit(k2) + " * (omh * omh))"
+	ri := "(e / nullif(" + lit(f.S) + " * sqrt(omh), 0))"
+	s2 = "CAST(NULL AS double precision)"
+	if f.N > 3 {
+		s2 = "greatest(0, (" + lit(f.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
+	}
+	// The row-wise measures each row needs, once per row (see fence),
+	// with the quadratic's residual qr: squared in its sum, it was
+	// evaluated twice a row when written out there (computed here, the
+	// pass took a median 1.2 s less of the server's CPU on 10⁷ rows in
+	// three alternating runs of the statement alone, the figures the same
+	// to the last digit).
+	var qr string
+	if f.Quad {
+		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
+		qr = ", ((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + "))) AS qr"
+	}
+	src = "(SELECT *, " + ri + " AS ri, " + f.loor("dx", "dy", "omh") + " AS loor, " +
+		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd" + qr + " FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"
+	fl = "(CAST(fo AS integer) + 2 * CAST(h > " + cutLit(f.Leverage) + " AS integer) + 4 * CAST(fd AS integer))"
+	isSuspect = "fo OR fd"
+	if f.Sole != nil {
+		// A row of sole support is flagged high leverage and sole support
+		// (8) whatever the cut points, as findings.FlagRules.Flag flags it.
+		sole := "x = " + lit(*f.Sole)
+		fl = "(CASE WHEN " + sole + " THEN 10 ELSE " + fl + " END)"
+		isSuspect += " OR " + sole
+	}
+	return src, fl, isSuspect, s2
+}
+
 // ThirdPass runs the third pass: the rows per flag, the largest Cook's
 // distance, the extremes of the leave-one-out r and slope, the quadratic's
 // residual sum, the density grids g (y on x, the residual on x and, with
@@ -1119,45 +1308,7 @@ func cell(e string, lo, hi float64, k int) string {
 // support first, then largest Cook's distance, then largest |t|, then
 // smallest x, y and id). The cells are cell's.
 func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
-	// The flags without a square root or a division by a row's values:
-	// |t| > c ⟺ e² > K₁·(1 − h) with K₁ = c²·RSS/(n − 3 + c²) (from
-	// t² = e²/(s₍ᵢ₎²·(1 − h)), s₍ᵢ₎² = (RSS − e²/(1 − h))/(n − 3)), and
-	// d > D ⟺ e²·h > K₂·(1 − h)² with K₂ = 2·s²·D (from
-	// d = e²·h/(2·s²·(1 − h)²)); a row of leverage 1 (1 − h = 0) is neither.
-	nf := float64(f.N)
-	k1, k2 := math.Inf(1), math.Inf(1)
-	if c := f.Outlier; !math.IsInf(c, 1) && !math.IsNaN(c) {
-		k1 = c * c * f.RSS / (nf - 3 + c*c)
-	}
-	if c := f.Cooks; !math.IsInf(c, 1) && !math.IsNaN(c) {
-		k2 = 2 * f.S * f.S * c
-	}
-	o := "(omh > 0 AND e * e > " + cutLit(k1) + " * omh)"
-	d := "(omh > 0 AND (e * e) * h > " + cutLit(k2) + " * (omh * omh))"
-	ri := "(e / nullif(" + lit(f.S) + " * sqrt(omh), 0))"
-	s2 := "greatest(0, (" + lit(f.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
-	// The row-wise measures each row needs, once per row (see fence),
-	// with the quadratic's residual qr: squared in its sum, it was
-	// evaluated twice a row when written out there (computed here, the
-	// pass took a median 1.2 s less of the server's CPU on 10⁷ rows in
-	// three alternating runs of the statement alone, the figures the same
-	// to the last digit).
-	var qr string
-	if f.Quad {
-		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
-		qr = ", ((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + "))) AS qr"
-	}
-	src := "(SELECT *, " + ri + " AS ri, " + f.loor("dx", "dy", "omh") + " AS loor, " +
-		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd" + qr + " FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"
-	fl := "(CAST(fo AS integer) + 2 * CAST(h > " + cutLit(f.Leverage) + " AS integer) + 4 * CAST(fd AS integer))"
-	isSuspect := "fo OR fd"
-	if f.Sole != nil {
-		// A row of sole support is flagged high leverage and sole support
-		// (8) whatever the cut points, as findings.FlagRules.Flag flags it.
-		sole := "x = " + lit(*f.Sole)
-		fl = "(CASE WHEN " + sole + " THEN 10 ELSE " + fl + " END)"
-		isSuspect += " OR " + sole
-	}
+	src, fl, isSuspect, s2 := p.flaggedSQL(f)
 	suspect := func(c string) string { return "CASE WHEN " + isSuspect + " THEN " + c + " END" }
 	id := "CAST(NULL AS text)"
 	if p.id != "" {
@@ -1232,7 +1383,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 			i, j := int(Num(v[2+2*k])), int(Num(v[3+2*k]))
 			th.Grids[k].Counts[j*th.Grids[k].NX+i] += n
 		}
-		cells = append(cells, extCell{int(Num(v[2])), int(Num(v[3])), Num(v[11]), Num(v[12])})
+		cells = append(cells, extCell{int(Num(v[2])), int(Num(v[3])), clampR(Num(v[11])), clampR(Num(v[12]))})
 		fl := int(Num(v[8]))
 		if fl&1 != 0 {
 			th.Outlier += n
@@ -1270,10 +1421,10 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		if x := Num(v[10]); !math.IsNaN(x) {
 			th.MaxD = hi(th.MaxD, x)
 		}
-		if x := Num(v[11]); !math.IsNaN(x) {
+		if x := clampR(Num(v[11])); !math.IsNaN(x) {
 			th.LooRMin = lo(th.LooRMin, x)
 		}
-		if x := Num(v[12]); !math.IsNaN(x) {
+		if x := clampR(Num(v[12])); !math.IsNaN(x) {
 			th.LooRMax = hi(th.LooRMax, x)
 		}
 		if x := Num(v[13]); !math.IsNaN(x) {
@@ -1305,6 +1456,39 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		th.Suspects = append(th.Suspects, r.Row)
 	}
 	return th, nil
+}
+
+// Kept are the moments of the complete cases the third pass does not
+// flag outlier, influential or sole support, with whether x or y is
+// constant over them.
+type Kept struct {
+	N              int
+	MX, MY         float64
+	Sxx, Syy, Sxy  float64
+	XConst, YConst bool
+}
+
+// WithoutFlagged sums the complete cases that the third pass with f does
+// not flag outlier, influential or sole support (the same SQL tells them),
+// for the line and r without the flagged rows where taking those rows out
+// of the moments (stats.WithoutRows) would cancel digits, as in memory the
+// kept rows are then summed: PostgreSQL's regression aggregates over the
+// line's deviations from the means (so the kept rows' means and centred
+// sums keep their digits far from 0), the means then the line's plus the
+// deviations' means.
+func (p *Prepared) WithoutFlagged(f Fit) (*Kept, error) {
+	src, _, isSuspect, _ := p.flaggedSQL(f)
+	r, err := p.s.rows("SELECT count(*), avg(dx), avg(dy), regr_sxx(dy, dx), regr_syy(dy, dx), regr_sxy(dy, dx), min(x) = max(x), min(y) = max(y) FROM " +
+		src + " WHERE NOT (" + isSuspect + ")")
+	if err != nil {
+		return nil, err
+	}
+	v := r[0]
+	k := &Kept{N: int(Num(v[0])), MX: f.MX + (f.MXLo + Num(v[1])), MY: f.MY + (f.MYLo + Num(v[2])),
+		Sxx: Num(v[3]), Syy: Num(v[4]), Sxy: Num(v[5])}
+	k.XConst, _ = v[6].(bool)
+	k.YConst, _ = v[7].(bool)
+	return k, nil
 }
 
 // twoLevel is the third pass's statement with a run order: the rows
@@ -1505,7 +1689,7 @@ func (p *Prepared) rowsPass(f Fit, k int, frac float64, lo, hi float64, boxes []
 	dx, dy := p.dx(f), p.dy(f)
 	_, omh := p.leverage(f)
 	loor := f.loor(dx, dy, omh)
-	isExt := loor + " IN (" + lit(lo) + ", " + lit(hi) + ")"
+	isExt := "(" + clampedIs(loor, lo) + " OR " + clampedIs(loor, hi) + ")"
 	if len(boxes) > 0 {
 		isExt = boxesSQL(p.num[0], p.num[1], boxes) + " AND " + isExt
 	}
@@ -1531,7 +1715,7 @@ func (p *Prepared) rowsPass(f Fit, k int, frac float64, lo, hi float64, boxes []
 		if v[nk+4] == true {
 			out.Sample = append(out.Sample, SampleRow{H: int64Of(v[nk+2]), Num: num, Group: Text(v[nk]), ID: idText, noID: noID})
 		}
-		if loo := Num(v[nk+3]); loo == lo || loo == hi {
+		if loo := clampR(Num(v[nk+3])); loo == lo || loo == hi {
 			ext = append(ext, ranked{Row: Row{X: num[0], Y: num[1], ID: idText}, noID: noID, loo: loo})
 			if len(ext) > 2*extremesMax {
 				slices.SortFunc(ext, ranked.cmpXYID)

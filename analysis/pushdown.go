@@ -490,7 +490,6 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	} else {
 		omit("Durbin–Watson in file order", "rows in the database have no file order; give the study an order column")
 	}
-	omit("lack-of-fit test", "not computed when the rows stay in the database")
 	s.Diagnostics = d
 
 	// Partial correlations from the centred sums.
@@ -519,6 +518,9 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// Pass 4: the sample and the rows at the leave-one-out extremes.
 	fetched, err := p.Rows(fit, PushdownSample, n, th.LooRMin, th.LooRMax, th.ExtBoxes)
 	if err != nil {
+		return s, err
+	}
+	if err := pushedLackOfFit(p, fit, fetched.Sample, n, d, exact, omit); err != nil {
 		return s, err
 	}
 	var sumKept bool
@@ -929,6 +931,40 @@ func combine(a, b stats.Moments) stats.Moments {
 	dx, dy := b.MeanX-a.MeanX, b.MeanY-a.MeanY
 	return stats.Moments{N: a.N + b.N, MeanX: a.MeanX + dx*float64(b.N)/n, MeanY: a.MeanY + dy*float64(b.N)/n,
 		Sxx: a.Sxx + b.Sxx + f*dx*dx, Syy: a.Syy + b.Syy + f*dy*dy, Sxy: a.Sxy + b.Sxy + f*dx*dy}
+}
+
+// pushedLackOfFit runs the lack-of-fit test of the rows left in the
+// database where x takes few values. In memory the test is reported where
+// x takes at most half as many values as there are rows (diagnostics);
+// grouping 10⁷ rows by a continuous x would cost the server a hash table
+// of 10⁷ entries for a test that is then not reported, so the sample
+// decides first: the test runs, exactly over every row and with the
+// in-memory rule, where x takes at most half as many values in the sample
+// as the sample has rows (when the sample is every row, that is the
+// in-memory rule itself), and is otherwise left out with the sample's
+// count as the reason.
+func pushedLackOfFit(p *dataset.Prepared, fit dataset.Fit, sample []dataset.SampleRow, n int, d *report.Diagnostics, exact func(...string), omit func(fig, why string)) error {
+	xs := make([]float64, len(sample))
+	for i, r := range sample {
+		xs[i] = r.Num[0]
+	}
+	slices.Sort(xs)
+	levels := len(slices.Compact(xs))
+	if 2*levels > len(sample) {
+		omit("lack-of-fit test", fmt.Sprintf("x takes %d values in the sample of %d rows, more than half as many: taken as continuous, where the test is not reported (in memory it is reported where x takes at most half as many values as there are rows)", levels, len(sample)))
+		return nil
+	}
+	m, pe, lof, err := p.LackOfFit(fit)
+	if err != nil {
+		return err
+	}
+	exact("lack-of-fit test")
+	df1, df2 := m-2, n-m
+	if df1 > 0 && df2 > 0 && pe > 0 && 2*m <= n {
+		f := (lof / float64(df1)) / (pe / float64(df2))
+		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(stats.UpperF(f, float64(df1), float64(df2)))}
+	}
+	return nil
 }
 
 // pushedRowName names a row fetched from the database: its id_column value

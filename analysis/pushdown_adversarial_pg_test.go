@@ -129,14 +129,9 @@ func sameStudy(t *testing.T, what string, m, p report.Study, notHere map[string]
 		t.Errorf("%s: verdicts pushed %+v, in memory %+v", what, of(pf), of(mf))
 	}
 	// The checks the verdicts read, by name, with their raised state.
-	// The lack-of-fit test is not computed in the database (a documented
-	// omission, pushdown.omitted): left out of the comparison.
 	checks := func(f *report.Findings) []string {
 		var out []string
 		for _, c := range f.Checks {
-			if c.Name == "lack-of-fit" {
-				continue
-			}
 			out = append(out, c.Name+"="+strconv.FormatBool(c.Raised))
 		}
 		slices.Sort(out)

@@ -3,6 +3,7 @@ package analysis_test
 import (
 	"encoding/csv"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -137,4 +138,49 @@ func runBoth(t *testing.T, url, table, studies string, maxRows int) (mem, pushed
 		t.Fatal(err)
 	}
 	return mem, pushed
+}
+
+// TestPushdownLackOfFit: where x is set to a few values on purpose, a
+// study whose rows stay in the database runs the lack-of-fit test over
+// every row as the study in memory does (stats.LackOfFit, itself checked
+// against the pure-error F test of NIST/SEMATECH e-Handbook §4.4.4.3 in
+// its tests): the same F, degrees of freedom and p to 1e-9 relative, and
+// the same checks and verdicts; where x is continuous, the test is left
+// out with the sample's count of values as the reason, and in memory it
+// is not reported either.
+func TestPushdownLackOfFit(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdlof", "CREATE TABLE pdlof (id text, x float8, xc float8, y float8, yc float8)",
+		// Five set points far from 0, y bending over them (a quadratic
+		// term the line misses); xc continuous, yc along it (sines of
+		// multiples of irrational steps, reproducible on any server).
+		`INSERT INTO pdlof SELECT 'r' || i, 1000 + 5 * (i % 5), 1000 + 10 * sin(i * 0.7071),
+		  20 + 0.5 * (5 * (i % 5)) + 0.002 * (5 * (i % 5))^2 + sin(i * 1.3247 + 0.5),
+		  20 + 0.5 * (10 * sin(i * 0.7071)) + sin(i * 1.3247 + 0.5)
+		  FROM generate_series(1, 3000) i`)
+	studies := "[[study]]\nid = \"set\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n" +
+		"[[study]]\nid = \"cont\"\ndataset = \"d\"\nx = \"xc\"\ny = \"yc\"\n"
+	mem, pushed := runBoth(t, url, "pdlof", studies, 10)
+	for i, wantLOF := range []bool{true, false} {
+		m, p := mem.Studies[i], pushed.Studies[i]
+		if m.Error != nil || p.Error != nil || p.Pushdown == nil {
+			t.Fatalf("study %s: errors %v, %v; pushed down %v", m.ID, errText(m.Error), errText(p.Error), p.Pushdown != nil)
+		}
+		if (m.Diagnostics.LackOfFit != nil) != wantLOF {
+			t.Fatalf("study %s: the test data lost their point: lack of fit in memory %+v", m.ID, m.Diagnostics.LackOfFit)
+		}
+		agree(t, m.ID, exactFigures(p), exactFigures(m), 1e-9)
+		omitted := false
+		for _, o := range p.Pushdown.Omitted {
+			omitted = omitted || o.Figure == "lack-of-fit test"
+		}
+		if omitted == wantLOF || slices.Contains(p.Pushdown.Exact, "lack-of-fit test") != wantLOF {
+			t.Errorf("study %s: lack-of-fit test omitted %v, among the exact figures %v", m.ID, omitted, slices.Contains(p.Pushdown.Exact, "lack-of-fit test"))
+		}
+		if !slices.EqualFunc(p.Findings.Checks, m.Findings.Checks, func(a, b report.Check) bool { return a.Name == b.Name && a.Raised == b.Raised }) {
+			t.Errorf("study %s: checks pushed %+v, in memory %+v", m.ID, p.Findings.Checks, m.Findings.Checks)
+		}
+	}
+	t.Logf("set points: F = %v on %d and %d df, p = %v", mem.Studies[0].Diagnostics.LackOfFit.F, mem.Studies[0].Diagnostics.LackOfFit.DF1,
+		mem.Studies[0].Diagnostics.LackOfFit.DF2, mem.Studies[0].Diagnostics.LackOfFit.P)
 }

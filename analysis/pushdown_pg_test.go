@@ -51,6 +51,9 @@ func exactFigures(s report.Study) map[string]float64 {
 			f["quad_rss"], f["quad_r2"], f["quad_f"], f["quad_vertex"] = float64(m.RSS), float64(m.R2), float64(m.F), float64(m.Vertex)
 		}
 	}
+	if lf := s.Diagnostics.LackOfFit; lf != nil {
+		f["lof_f"], f["lof_df1"], f["lof_df2"], f["lof_p"] = float64(lf.F), float64(lf.DF1), float64(lf.DF2), float64(lf.P)
+	}
 	if d := s.Diagnostics; d.OrderTrend != nil {
 		f["dw"], f["trend_slope"], f["trend_p"], f["trend_r"] = float64(d.DurbinWatson), float64(d.OrderTrend.Slope), float64(d.OrderTrend.P), float64(d.OrderTrend.R)
 	}

@@ -1491,6 +1491,25 @@ func (p *Prepared) WithoutFlagged(f Fit) (*Kept, error) {
 	return k, nil
 }
 
+// LackOfFit is the lack-of-fit test's sums over the complete cases,
+// grouped by x (runs of exactly equal x, as stats.LackOfFit groups them):
+// the number of levels m, the pure-error sum of squares Σ_g Σ(y − ȳ_g)²
+// and the lack-of-fit sum Σ_g n_g·(ȳ_g − ŷ(x_g))², from the refined
+// line's residuals e: within a level x is one value, so y − ȳ_g is e − ē_g
+// and ȳ_g − ŷ(x_g) is ē_g, and neither is formed from y far from 0. Each
+// level's Σ(e − ē_g)² by PostgreSQL's regression aggregate (Youngs and
+// Cramer's updating form, see the file's comment), its ē_g by avg. One
+// row comes back whatever the levels; the grouping costs a hash table of
+// m entries, so call it where m is known to be small.
+func (p *Prepared) LackOfFit(f Fit) (m int, pureError, lackOfFit float64, err error) {
+	r, err := p.s.rows("SELECT count(*), sum(ss), sum(ng * (me * me)) FROM (SELECT count(*) AS ng, avg(e) AS me, regr_syy(e, x) AS ss FROM " +
+		p.rowsLine(f, false) + " GROUP BY x) AS bivar_g")
+	if err != nil {
+		return 0, 0, 0, err
+	}
+	return int(Num(r[0][0])), Num(r[0][1]), Num(r[0][2]), nil
+}
+
 // twoLevel is the third pass's statement with a run order: the rows
 // grouped once by the cells of both sets (k, the first set's keys, and o,
 // the cells of the residual on the order: some 10⁵ groups on 10⁷ rows),

@@ -184,8 +184,8 @@ func sum(v []int) int {
 // naming what to do; the other studies run.
 func TestPushdownStudyErrors(t *testing.T) {
 	url := pgURL(t)
-	pgExec(t, url, "DROP TABLE IF EXISTS pdbad", "CREATE TABLE pdbad (x float8, y float8, w float8, g text)",
-		"INSERT INTO pdbad SELECT i, i * 0.5 + sin(i), CASE WHEN i = 7 THEN 'NaN'::float8 ELSE i END, 'L' || i FROM generate_series(1, 40) i")
+	pgExec(t, url, "DROP TABLE IF EXISTS pdbad", "CREATE TABLE pdbad (x float8, y float8, w float8, g text, big float8)",
+		"INSERT INTO pdbad SELECT i, i * 0.5 + sin(i), CASE WHEN i = 7 THEN 'NaN'::float8 ELSE i END, 'L' || i, 1e150 * (i * 0.5 + sin(i)) FROM generate_series(1, 40) i")
 	t.Setenv("BIVAR_TEST_DB", url)
 	decl := "[[dataset]]\nid = \"d\"\ntable = \"pdbad\"\nconnection = \"BIVAR_TEST_DB\"\nmax_rows = 10\nmax_levels = 5\n"
 	r, err := runManifest(t, t.TempDir(), decl+
@@ -193,7 +193,8 @@ func TestPushdownStudyErrors(t *testing.T) {
 		"[[study]]\nid = \"nan\"\ndataset = \"d\"\nx = \"w\"\ny = \"y\"\n"+
 		"[[study]]\nid = \"levels\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\n"+
 		"[[study]]\nid = \"good\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n"+
-		"[[study]]\nid = \"scaled\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\nx_scale = \"log\"\n")
+		"[[study]]\nid = \"scaled\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\nx_scale = \"log\"\n"+
+		"[[study]]\nid = \"huge\"\ndataset = \"d\"\nx = \"x\"\ny = \"big\"\n")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -208,6 +209,12 @@ func TestPushdownStudyErrors(t *testing.T) {
 	}
 	if e := r.Studies[4].Error; e == nil || !strings.Contains(*e, `so its rows stay in the database, where x_scale or y_scale cannot be computed: raise max_rows`) {
 		t.Errorf("study scaled: error %s", errText(e))
+	}
+	// y near 10¹⁵⁰: the fourth powers of its deviations pass double
+	// precision's range in the database's sums.
+	if e := r.Studies[5].Error; e == nil || !strings.Contains(*e, `pg.toml:35: in this [[study]]: PostgreSQL (BIVAR_TEST_DB): a number went out of range in the database (value out of range: overflow): unless the query itself fails so in psql`) ||
+		!strings.Contains(*e, "raise max_rows above the row count") {
+		t.Errorf("study huge: error %s", errText(e))
 	}
 	if s := r.Studies[3]; s.Error != nil || s.N != 40 || s.Pushdown == nil {
 		t.Errorf("study good: error %s, n %d", errText(s.Error), s.N)

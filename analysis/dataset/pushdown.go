@@ -53,6 +53,7 @@ package dataset
 import (
 	"cmp"
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/big"
@@ -62,6 +63,7 @@ import (
 	"time"
 
 	"github.com/jackc/pgx/v5"
+	"github.com/jackc/pgx/v5/pgconn"
 )
 
 // Session is a read-only, repeatable-read transaction on a database
@@ -272,22 +274,36 @@ func (s *Session) each(stmt string, fn func(v []any) error) error {
 	s.Statements = append(s.Statements, stmt)
 	rs, err := s.tx.Query(s.ctx, stmt)
 	if err != nil {
-		return s.q.queryError(s.what(), err, s.timeout)
+		return s.error(err)
 	}
 	defer rs.Close()
 	for rs.Next() {
 		v, err := rs.Values()
 		if err != nil {
-			return s.q.queryError(s.what(), err, s.timeout)
+			return s.error(err)
 		}
 		if err := fn(v); err != nil {
 			return err
 		}
 	}
 	if err := rs.Err(); err != nil {
-		return s.q.queryError(s.what(), err, s.timeout)
+		return s.error(err)
 	}
 	return nil
+}
+
+// error explains a failed statement of the session. A number out of
+// range (SQLSTATE 22003) is most likely in bivar's own sums, which form
+// fourth powers of the values' deviations (beyond double precision's
+// range where those reach about 10⁷⁷, or fall below 10⁻⁷⁷), though the
+// study in memory does not; the message says so, and what to do, rather
+// than to correct a query that runs in psql.
+func (s *Session) error(err error) error {
+	var pe *pgconn.PgError
+	if errors.As(err, &pe) && pe.Code == "22003" {
+		return s.q.err("a number went out of range in the database (%s): unless the query itself fails so in psql, the study's values are too large or too small for the database's sums of their fourth powers in double precision; rescale the columns in the query (for example y / 1e100 AS y), or raise max_rows above the row count to study the rows in memory", pe.Message)
+	}
+	return s.q.queryError(s.what(), err, s.timeout)
 }
 
 // rows runs one statement and returns all its rows' values.

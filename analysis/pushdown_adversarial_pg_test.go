@@ -200,10 +200,10 @@ func TestPushdownAdversarial(t *testing.T) {
 			// Exact rational arithmetic on the same float64 rows (Python
 			// 3's fractions.Fraction, RSS of one line less the two lines'
 			// over the two levels) gives F = 0.41617154035385434: pushed
-			// 0.41617154035385823, in memory 0.41617153718587402, whose
-			// stats.CompareGroupLines takes the levels' means and the
-			// single line's from plain sums of x near 10⁹.
-			notHere: map[string]string{"full/lines_f": "the in-memory reference is off by 7.6e-9 here"}},
+			// 0.41617154035385823; in memory 0.41617153718587402 until
+			// stats.CompareGroupLines took its means by the corrected
+			// two-pass algorithm (TestCompareGroupLinesFarFromZero).
+		},
 		// x from 10⁻⁶ to 10⁶ (twelve decades), y proportional with a
 		// multiplicative wobble: a few rows carry all of Sxx.
 		{name: "many-magnitudes", setup: []string{"DROP TABLE IF EXISTS adv_mag",

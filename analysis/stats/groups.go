@@ -38,10 +38,12 @@ type GroupLines struct {
 // Linear Regression, 4th ed. 2014, §5.1, from memory). They equal the
 // "x:C(g)" row of statsmodels' anova_lm(ols("y ~ x * C(g)")) and
 // anova_lm(ols("y ~ x"), ols("y ~ x * C(g)")). Sums are taken about each
-// group's means (two passes); the single line's sums about the means of
-// the groups compared are the groups' sums plus their means' spread
-// (n_g·(x̄_g − x̄)², the parallel-axis rule), and RSS_one is summed from its
-// residuals in a third pass. It keeps no column: O(groups) memory. Everything is NaN (Groups < 2) when fewer
+// group's means by the corrected two-pass algorithm (Chan, Golub &
+// LeVeque 1983); the single line's sums about the means of the groups
+// compared are the groups' sums plus their means' spread (n_g·(x̄_g −
+// x̄)², the parallel-axis rule, with the means as offsets from the first
+// group's), and RSS_one is summed from its residuals in a third pass,
+// their mean taken out. It keeps no column: O(groups) memory. Everything is NaN (Groups < 2) when fewer
 // than two groups qualify or no residual df is left; x, y and group must
 // have equal length (it panics otherwise).
 func CompareGroupLines[L int | int32](x, y []float64, group []L) GroupLines {
@@ -56,7 +58,8 @@ func CompareGroupLines[L int | int32](x, y []float64, group []L) GroupLines {
 	type sums struct {
 		n             int
 		sx, sy        float64 // pass 1
-		mx, my        float64
+		mx, my        float64 // pass 1's means, then corrected by pass 2's cx, cy
+		cx, cy        float64 // pass 2: Σ of the deviations from pass 1's means
 		gxx, gyy, gxy float64 // pass 2, about the group's means
 		used          bool
 	}
@@ -76,11 +79,29 @@ func CompareGroupLines[L int | int32](x, y []float64, group []L) GroupLines {
 	for i, g := range group {
 		s := &gs[slot(g)]
 		dx, dy := x[i]-s.mx, y[i]-s.my
+		s.cx += dx
+		s.cy += dy
 		s.gxx += dx * dx
 		s.gyy += dy * dy
 		s.gxy += dx * dy
 	}
-	var sxx, syy, sxy, rssSep, mx1, my1 float64
+	// The corrected two-pass algorithm (Chan, Golub & LeVeque 1983): the
+	// deviations' sums correct the centred sums and the means, which plain
+	// sums of values far from 0 leave off by many units in the last place
+	// of the mean (150 values near 10⁹: about 10⁻⁵).
+	for k := range gs {
+		s := &gs[k]
+		nf := float64(s.n)
+		s.gxx -= s.cx * s.cx / nf
+		s.gyy -= s.cy * s.cy / nf
+		s.gxy -= s.cx * s.cy / nf
+	}
+	var sxx, syy, sxy, rssSep float64
+	// The means of the rows compared, about the first such group's mean
+	// (rx, ry): each group's offset from it is small where the means are
+	// far from 0, and kept in two parts (the mean and its correction).
+	first := true
+	var rx, ry, ox, oy float64
 	for k := range gs {
 		s := &gs[k]
 		if s.n < 3 || !(s.gxx > 0) {
@@ -91,8 +112,12 @@ func CompareGroupLines[L int | int32](x, y []float64, group []L) GroupLines {
 		out.N += s.n
 		sxx, syy, sxy = sxx+s.gxx, syy+s.gyy, sxy+s.gxy
 		rssSep += math.Max(0, s.gyy-s.gxy*s.gxy/s.gxx)
-		mx1 += s.sx
-		my1 += s.sy
+		if first {
+			rx, ry, first = s.mx, s.my, false
+		}
+		nf := float64(s.n)
+		ox += nf * ((s.mx - rx) + s.cx/nf)
+		oy += nf * ((s.my - ry) + s.cy/nf)
 	}
 	G, n := out.Groups, out.N
 	out.DF2 = n - 2*G
@@ -102,25 +127,31 @@ func CompareGroupLines[L int | int32](x, y []float64, group []L) GroupLines {
 		return out
 	}
 	rssPar := math.Max(rssSep, syy-sxy*sxy/sxx)
-	// The single line through the rows of the groups compared.
-	mx1, my1 = mx1/float64(n), my1/float64(n)
+	// The single line through the rows of the groups compared: its means
+	// rx + ox, ry + oy; each group's offset from them, in its two parts.
+	ox, oy = ox/float64(n), oy/float64(n)
 	var txx, txy float64
 	for _, s := range gs {
 		if s.used {
-			dx, dy := s.mx-mx1, s.my-my1
-			txx += s.gxx + float64(s.n)*dx*dx
-			txy += s.gxy + float64(s.n)*dx*dy
+			nf := float64(s.n)
+			dx, dy := ((s.mx-rx)+s.cx/nf)-ox, ((s.my-ry)+s.cy/nf)-oy
+			txx += s.gxx + nf*dx*dx
+			txy += s.gxy + nf*dx*dy
 		}
 	}
 	b1 := txy / txx
-	var rssOne float64
+	// Its residuals about the means in two parts, and their mean taken
+	// out (Σ(e − ē)² = Σe² − (Σe)²/n: the intercept refitted, so the
+	// rounding of the means costs nothing).
+	var se, see float64
 	for i, g := range group {
 		if gs[slot(g)].used {
-			e := y[i] - my1 - b1*(x[i]-mx1)
-			rssOne += e * e
+			e := ((y[i] - ry) - oy) - b1*((x[i]-rx)-ox)
+			se += e
+			see += e * e
 		}
 	}
-	rssOne = math.Max(rssSep, rssOne)
+	rssOne := math.Max(rssSep, see-se*se/float64(n))
 	ms := rssSep / float64(out.DF2)
 	if ms > 0 {
 		out.SlopesF = (rssPar - rssSep) / float64(out.SlopesDF1) / ms

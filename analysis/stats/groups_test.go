@@ -3,6 +3,7 @@ package stats
 import (
 	"encoding/csv"
 	"math"
+	"math/big"
 	"os"
 	"strconv"
 	"testing"
@@ -85,5 +86,78 @@ func TestCompareGroupLinesEdges(t *testing.T) {
 	}
 	if c := CompareGroupLines(x[:4], y[:4], g[:4]); c.Groups != 1 || !math.IsNaN(c.SlopesF) {
 		t.Errorf("one group: %+v, want NaN", c)
+	}
+}
+
+// Far from 0 (x near 10⁹ with a spread of 1, y near 10⁶), the F tests
+// agree with the same rows' sums in exact rational arithmetic (math/big,
+// the definitions of RSS_sep, RSS_par and RSS_one in CompareGroupLines'
+// comment) to 1e-11 relative. Plain sums of 150 values near 10⁹ are off
+// by about 10⁻⁵ of a unit, and the single line's residuals about such
+// means moved LinesF, a small difference of two RSS, by parts in 10⁸.
+func TestCompareGroupLinesFarFromZero(t *testing.T) {
+	n := 300
+	x, y, g := make([]float64, n), make([]float64, n), make([]int, n)
+	for i := range n {
+		k := float64(i + 1)
+		x[i] = 1e9 + math.Sin(k*0.7071)
+		y[i] = 1e6 + 0.5*math.Sin(k*0.7071) + 0.05*math.Sin(k*1.3247+0.5)
+		if i+1 == 33 {
+			y[i] += 0.4
+		}
+		g[i] = (i + 1) % 2
+	}
+	// Exact centred sums of a set of rows.
+	type mom struct{ sxx, syy, sxy *big.Rat }
+	moments := func(keep func(i int) bool) mom {
+		m := 0
+		sx, sy := new(big.Rat), new(big.Rat)
+		for i := range n {
+			if keep(i) {
+				m++
+				sx.Add(sx, new(big.Rat).SetFloat64(x[i]))
+				sy.Add(sy, new(big.Rat).SetFloat64(y[i]))
+			}
+		}
+		mx, my := new(big.Rat).Quo(sx, big.NewRat(int64(m), 1)), new(big.Rat).Quo(sy, big.NewRat(int64(m), 1))
+		out := mom{new(big.Rat), new(big.Rat), new(big.Rat)}
+		for i := range n {
+			if keep(i) {
+				dx := new(big.Rat).Sub(new(big.Rat).SetFloat64(x[i]), mx)
+				dy := new(big.Rat).Sub(new(big.Rat).SetFloat64(y[i]), my)
+				out.sxx.Add(out.sxx, new(big.Rat).Mul(dx, dx))
+				out.syy.Add(out.syy, new(big.Rat).Mul(dy, dy))
+				out.sxy.Add(out.sxy, new(big.Rat).Mul(dx, dy))
+			}
+		}
+		return out
+	}
+	rss := func(m mom) *big.Rat {
+		return new(big.Rat).Sub(m.syy, new(big.Rat).Quo(new(big.Rat).Mul(m.sxy, m.sxy), m.sxx))
+	}
+	rssSep, sxx, syy, sxy := new(big.Rat), new(big.Rat), new(big.Rat), new(big.Rat)
+	for level := range 2 {
+		m := moments(func(i int) bool { return g[i] == level })
+		rssSep.Add(rssSep, rss(m))
+		sxx.Add(sxx, m.sxx)
+		syy.Add(syy, m.syy)
+		sxy.Add(sxy, m.sxy)
+	}
+	rssPar := rss(mom{sxx, syy, sxy})
+	rssOne := rss(moments(func(int) bool { return true }))
+	df2 := big.NewRat(int64(n-4), 1)
+	f := func(num *big.Rat, df1 int64) float64 {
+		v, _ := new(big.Rat).Quo(new(big.Rat).Quo(num, big.NewRat(df1, 1)), new(big.Rat).Quo(rssSep, df2)).Float64()
+		return v
+	}
+	wantSlopes, wantLines := f(new(big.Rat).Sub(rssPar, rssSep), 1), f(new(big.Rat).Sub(rssOne, rssSep), 2)
+	got := CompareGroupLines(x, y, g)
+	for _, c := range []struct {
+		name      string
+		got, want float64
+	}{{"SlopesF", got.SlopesF, wantSlopes}, {"LinesF", got.LinesF, wantLines}} {
+		if math.Abs(c.got-c.want) > 1e-11*math.Abs(c.want) {
+			t.Errorf("%s = %.17g, exact %.17g (relative %.2g)", c.name, c.got, c.want, math.Abs(c.got-c.want)/math.Abs(c.want))
+		}
 	}
 }

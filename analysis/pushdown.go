@@ -38,10 +38,10 @@ const PushdownSample = 20000
 // pushdownSuspectMax is the most rows flagged outlier, influential or
 // sole support that a study fetches, to refit without them and to list in
 // its file of flagged rows (the file's own cap, so that it lists what a
-// study in memory lists); above it the figures without the flagged rows
-// are left out (a study with that many such rows is read from its counts,
-// not from its named rows).
-const pushdownSuspectMax = FlaggedFileMax
+// study in memory lists); with more, the r and line without them come
+// from a scan that sums the rows kept (dataset.Prepared.WithoutFlagged).
+// A variable only so that a test can lower it.
+var pushdownSuspectMax = FlaggedFileMax
 
 // pushed is a database dataset left in the database.
 type pushed struct {
@@ -532,12 +532,8 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		}
 		withoutFromKept(s.Sensitivity, kept, conf)
 	}
-	exact("influence: flag counts, named rows and their measures, the largest Cook's distance", "sensitivity: leave-one-out extremes, the line without each named row")
-	if th.Suspect > len(sus) {
-		omit("r and line without the flagged rows", fmt.Sprintf("%d rows are flagged outlier, influential or sole support, more than the %d a study fetches to refit without them", th.Suspect, pushdownSuspectMax))
-	} else {
-		exact("r and line without the flagged rows")
-	}
+	exact("influence: flag counts, named rows and their measures, the largest Cook's distance", "sensitivity: leave-one-out extremes, the line without each named row",
+		"r and line without the flagged rows")
 	// The file of the flagged rows: the first FlaggedFileMax by the
 	// ranking (the third pass returns them in that order), each row's
 	// measures from the line's sums, its flags the third pass's.
@@ -1084,6 +1080,8 @@ func influenceFromSums(m stats.Moments, f dataset.Fit, all stats.Correlation, li
 		} else {
 			sumKept = true // the caller sums the kept rows (withoutFromKept)
 		}
+	} else {
+		sumKept = true // more flagged rows than were fetched: likewise
 	}
 	return in, se, sumKept
 }

@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"bivar/analysis"
 	"bivar/analysis/report"
 )
 
@@ -183,4 +184,46 @@ func TestPushdownLackOfFit(t *testing.T) {
 	}
 	t.Logf("set points: F = %v on %d and %d df, p = %v", mem.Studies[0].Diagnostics.LackOfFit.F, mem.Studies[0].Diagnostics.LackOfFit.DF1,
 		mem.Studies[0].Diagnostics.LackOfFit.DF2, mem.Studies[0].Diagnostics.LackOfFit.P)
+}
+
+// TestPushdownManyFlagged: with more rows flagged than a pushed-down
+// study fetches (lowered here to 2, with named_rows = 1; 10⁵ in use), the
+// r and line without the flagged rows come from the database's sums of
+// the rows kept, and agree with the study in memory to 1e-9 relative.
+func TestPushdownManyFlagged(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdmany", "CREATE TABLE pdmany (id text, x float8, y float8)",
+		// Sines of multiples of irrational steps (reproducible on any
+		// server), five rows pushed far off the line.
+		`INSERT INTO pdmany SELECT 'r' || i, 50 + 5 * sin(i * 0.7071),
+		  2 + 0.4 * (50 + 5 * sin(i * 0.7071)) + sin(i * 1.3247 + 0.5)
+		    + CASE WHEN i IN (40, 400, 1200, 1700, 2500) THEN 12 ELSE 0 END
+		  FROM generate_series(1, 3000) i`)
+	defer analysis.SetPushdownSuspectMax(2)()
+	mem, pushed := runBoth(t, url, "pdmany", "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n[output]\nnamed_rows = 1\n", 10)
+	m, p := mem.Studies[0], pushed.Studies[0]
+	if p.Pushdown == nil || m.Pushdown != nil || p.Error != nil || m.Error != nil {
+		t.Fatalf("push-down %v / in memory %v; errors %v, %v", p.Pushdown != nil, m.Pushdown == nil, errText(p.Error), errText(m.Error))
+	}
+	if m.Influence.Counts.Suspect != 5 || p.Influence.Counts.Suspect != 5 {
+		t.Fatalf("flagged rows: %d in memory, %d pushed; the test data planted 5", m.Influence.Counts.Suspect, p.Influence.Counts.Suspect)
+	}
+	got, want := map[string]float64{}, map[string]float64{}
+	for _, f := range []struct {
+		to *map[string]float64
+		s  report.Study
+	}{{&got, p}, {&want, m}} {
+		se := f.s.Sensitivity
+		*f.to = map[string]float64{"r_without": float64(se.RWithoutFlagged), "r_without_lo": float64(se.RWithoutLow), "p_without": float64(se.PWithoutFlagged),
+			"slope_without": float64(se.SlopeWithoutFlagged), "intercept_without": float64(se.InterceptWithout)}
+	}
+	agree(t, "s", got, want, 1e-9)
+	for _, o := range p.Pushdown.Omitted {
+		if strings.Contains(o.Figure, "without the flagged rows") {
+			t.Errorf("omitted: %+v", o)
+		}
+	}
+	if math.IsNaN(got["r_without"]) {
+		t.Errorf("r without the flagged rows is NaN")
+	}
 }

@@ -446,6 +446,36 @@ func mergeCount[T uint64 | int32](a, buf []T) int64 {
 // mergeRun is the length of the runs mergeCount sorts by insertion.
 const mergeRun = 16
 
+// fenwickCount returns the number of pairs i < j with a[i] > a[j] (equal
+// values are not counted) for values in [0, d), without moving them: a
+// Fenwick tree (Fenwick 1994, "A new data structure for cumulative
+// frequency tables", Software: Practice and Experience 24(3):327–336)
+// holds the counts of the values seen so far: of the j values before a[j],
+// those above it are j less the tree's prefix sum up to a[j]; then a[j] is
+// counted in. O(n log d) time and 4(d+1) bytes: where d is small the tree
+// stays in the processor's cache, and at 10⁶ values with 10⁴ distinct it
+// took half the time of mergeCount.
+func fenwickCount(a []int32, d int) int64 {
+	tree := make([]int32, d+1) // tree[k]: the count of values in (k − lowbit(k), k], 1-based
+	var inv int64
+	for j, v := range a {
+		var notAbove int64
+		for k := int(v) + 1; k > 0; k &= k - 1 {
+			notAbove += int64(tree[k])
+		}
+		inv += int64(j) - notAbove
+		for k := int(v) + 1; k <= d; k += k & -k {
+			tree[k]++
+		}
+	}
+	return inv
+}
+
+// fenwickMax is the most distinct values for which Sorted.KendallTauB
+// counts by fenwickCount: a tree of 4 MiB. (At 10⁶ distinct values among
+// 10⁶ it still took four fifths of mergeCount's time.)
+const fenwickMax = 1 << 20
+
 // PearsonMoments is Pearson for data given by their centred moments (see
 // CentredMoments): r = Sxy/√(Sxx·Syy) with the same Fisher-z interval, t
 // and p as Pearson. It returns NaN figures where Pearson would.

@@ -74,6 +74,36 @@ func TestMergeCountMatchesNaive(t *testing.T) {
 	}
 }
 
+// TestFenwickCountMatchesNaive: fenwickCount gives the naive count of
+// pairs i < j with a[i] > a[j], from all values equal to all distinct, and
+// mergeCount's on the same values.
+func TestFenwickCountMatchesNaive(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(9, 10))
+	for trial := 0; trial < 200; trial++ {
+		n := rng.IntN(300)
+		d := 1 + trial
+		a := make([]int32, n)
+		for i := range a {
+			a[i] = int32(rng.IntN(d))
+		}
+		var want int64
+		for i := range a {
+			for j := i + 1; j < n; j++ {
+				if a[i] > a[j] {
+					want++
+				}
+			}
+		}
+		if got := fenwickCount(a, d); got != want {
+			t.Fatalf("n=%d d=%d: fenwickCount = %d, naive %d", n, d, got, want)
+		}
+		if got := mergeCount(slices.Clone(a), make([]int32, n)); got != want {
+			t.Fatalf("n=%d d=%d: mergeCount = %d, naive %d", n, d, got, want)
+		}
+	}
+}
+
 func BenchmarkRadixSort(b *testing.B) {
 	for _, n := range coreBenchSizes {
 		x, _ := coreBenchData(n)

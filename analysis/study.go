@@ -235,7 +235,7 @@ func analyze(in Input, cfg Config) report.Study {
 	dx, dy := ps.Describe()
 	s.Describe = &report.DescribePair{X: describe(dx), Y: describe(dy)}
 
-	pc := stats.Pearson(ps.X, ps.Y, conf)
+	pc := ps.Pearson(m, conf)
 	s.Pearson = &report.Pearson{R: report.Float(pc.R), R2: report.Float(pc.R2), CILow: report.Float(pc.CILow),
 		CIHigh: report.Float(pc.CIHigh), T: report.Float(pc.T), DF: pc.DF, P: report.Float(pc.P), PAdjusted: report.Float(pc.P)}
 

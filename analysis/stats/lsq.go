@@ -179,7 +179,15 @@ func pow2Shift(v []float64) int {
 			nan = true
 		}
 	}
-	if m == 0 || math.IsInf(m, 0) || nan {
+	if nan {
+		return 0
+	}
+	return shiftFor(m)
+}
+
+// shiftFor is pow2Shift of values whose largest magnitude is m (no NaN).
+func shiftFor(m float64) int {
+	if m == 0 || math.IsInf(m, 0) {
 		return 0
 	}
 	_, e := math.Frexp(m)

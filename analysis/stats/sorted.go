@@ -276,6 +276,23 @@ func summarySorted(v []float64, at func(int) float64) Summary {
 	return sm
 }
 
+// Pearson returns Pearson(s.X, s.Y, conf) given m = CentredMoments(s.X,
+// s.Y): where neither column needs Pearson's scaling by a power of two
+// (pow2Shift, which depends only on the largest magnitude, read off the
+// sorted ends) it is PearsonMoments(m, conf), the same figures without
+// another pass over the pairs; else Pearson's.
+func (s *Sorted) Pearson(m Moments, conf float64) Correlation {
+	n := s.Len()
+	if n >= 2 && m.N == n {
+		ax := max(math.Abs(s.X[0]), math.Abs(s.X[n-1]))
+		ay := max(math.Abs(s.Y[s.ByY[0]]), math.Abs(s.Y[s.ByY[n-1]]))
+		if shiftFor(ax) == 0 && shiftFor(ay) == 0 {
+			return PearsonMoments(m, conf)
+		}
+	}
+	return Pearson(s.X, s.Y, conf)
+}
+
 // ranks returns the average ranks (as Ranks) of X and of Y, both in
 // canonical order.
 func (s *Sorted) ranks() (rx, ry []float64) {

@@ -2,6 +2,7 @@ package stats
 
 import (
 	"cmp"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -381,6 +382,27 @@ func TestSortSpread(t *testing.T) {
 			if !slices.Equal(a, want) {
 				t.Errorf("m %d, %s keys: not in ascending order", m, kind)
 			}
+		}
+	}
+}
+
+// TestSortedPearson: Sorted.Pearson from the moments is Pearson on the
+// pairs, bit for bit, for data that need no scaling and for data that do
+// (magnitudes near 1e300 and 1e-300, where Pearson scales by a power of
+// two first): an identity, for any data.
+func TestSortedPearson(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(11, 12))
+	for _, scale := range []float64{1, 1e300, 1e-300, 1e-100} {
+		x, y := make([]float64, 2000), make([]float64, 2000)
+		for i := range x {
+			x[i] = math.Round(rng.NormFloat64()*100) / 100
+			y[i] = (1 + 0.4*x[i] + rng.NormFloat64()) * scale
+		}
+		s := NewSorted(x, y)
+		got, want := s.Pearson(CentredMoments(s.X, s.Y), 0.95), Pearson(s.X, s.Y, 0.95)
+		if fmt.Sprintf("%#v", got) != fmt.Sprintf("%#v", want) {
+			t.Errorf("scale %g: Sorted.Pearson %+v, Pearson %+v", scale, got, want)
 		}
 	}
 }

@@ -243,7 +243,7 @@ func analyze(in Input, cfg Config) report.Study {
 	// would be two more columns of n), then its residuals in data order,
 	// beside x, y and the run order; fitted values are y − residual where
 	// needed.
-	line, err := stats.LineSummary(ps.X, ps.Y, conf)
+	line, err := ps.LineSummary(conf)
 	if err != nil {
 		return failed(s, fmt.Sprintf("the straight line could not be fitted: %v", err))
 	}

@@ -406,3 +406,45 @@ func TestSortedPearson(t *testing.T) {
 		}
 	}
 }
+
+// TestSortedFits: Sorted.LineSummary and Sorted.PolynomialSummary, whose
+// checks and scaling read the sorted ends, give LineSummary's and
+// PolynomialSummary's fits bit for bit, errors included: data that need
+// no scaling, y and x far from 1 (scaled by a power of two), a constant x
+// and x with two distinct values (an identity, for any data).
+func TestSortedFits(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(13, 14))
+	for _, c := range []struct {
+		name   string
+		xs, ys float64 // scales of x and y
+		levels int     // distinct x (0: many)
+	}{{"plain", 1, 1, 0}, {"y-1e300", 1, 1e300, 0}, {"x-1e-300", 1e-300, 1, 0}, {"x-1e250-y-1e-250", 1e250, 1e-250, 0},
+		{"constant-x", 1, 1, 1}, {"two-levels", 1, 1, 2}} {
+		x, y := make([]float64, 3000), make([]float64, 3000)
+		for i := range x {
+			u := math.Round(rng.NormFloat64()*100) / 100
+			if c.levels > 0 {
+				u = float64(i % c.levels)
+			}
+			x[i] = (5 + u) * c.xs
+			y[i] = (1 + 0.4*u + 0.05*u*u + rng.NormFloat64()) * c.ys
+		}
+		s := NewSorted(x, y)
+		l1, e1 := s.LineSummary(0.95)
+		l2, e2 := LineSummary(s.X, s.Y, 0.95)
+		if fmt.Sprintf("%#v %v", l1, e1) != fmt.Sprintf("%#v %v", l2, e2) {
+			t.Errorf("%s: Sorted.LineSummary %+v %v, LineSummary %+v %v", c.name, l1, e1, l2, e2)
+		}
+		q1, e1 := s.PolynomialSummary(2, 0.95)
+		q2, e2 := PolynomialSummary(s.X, s.Y, 2, 0.95)
+		show := func(r Regression, err error) string { // the polynomial's map by value, not its address
+			pm := r.poly
+			r.poly = nil
+			return fmt.Sprintf("%#v %#v %v", r, pm, err)
+		}
+		if show(q1, e1) != show(q2, e2) {
+			t.Errorf("%s: Sorted.PolynomialSummary %+v %v, PolynomialSummary %+v %v", c.name, q1, e1, q2, e2)
+		}
+	}
+}

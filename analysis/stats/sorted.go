@@ -184,11 +184,12 @@ func sortRun(y []float64, row []int32, packed []uint64, ys []float64, rs []int32
 // distribution sorting; expected O(len(a)) for evenly spread keys, where
 // pdqsort takes O(len(a) log len(a))). Keys bunched in their high bits (y
 // values built to collide) would make the insertion long: past 8·len(a)
-// moves it stops and a plain sort finishes. Short slices take the plain
-// sort.
+// moves it stops and a plain sort finishes. Slices shorter than 64 take
+// the plain sort (from 64 on, this took half pdqsort's time on random
+// keys: 420 ns against 780 at 73 values).
 func sortSpread(a, scratch []uint64) {
 	m := len(a)
-	if m < 128 {
+	if m < 64 {
 		slices.Sort(a)
 		return
 	}

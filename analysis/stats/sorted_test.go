@@ -361,7 +361,7 @@ func TestSortRunHighBitsCollide(t *testing.T) {
 // already in order or reversed.
 func TestSortSpread(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 12))
-	for _, m := range []int{1, 2, 127, 128, 129, 500, 1000, 2047, 2048} {
+	for _, m := range []int{1, 2, 63, 64, 65, 127, 128, 129, 500, 1000, 2047, 2048} {
 		for _, kind := range []string{"spread", "bunched", "ascending", "descending"} {
 			a := make([]uint64, m)
 			for j := range a {

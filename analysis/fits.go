@@ -218,7 +218,7 @@ func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, conf f
 	})
 	async(func() {
 		if ps.Len() >= 4 {
-			if q, err := stats.PolynomialSummary(ps.X, ps.Y, 2, conf); err == nil && len(q.Coef) == 3 {
+			if q, err := ps.PolynomialSummary(2, conf); err == nil && len(q.Coef) == 3 {
 				out.quad = &q
 				f := regFit("quadratic", "y = b0 + b1·x + b2·x²", []string{"intercept", "x", "x^2"}, q)
 				if b2 := q.Coef[2].Estimate; b2 != 0 {

@@ -91,7 +91,7 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	var bestD, lrMin, lrMax, lsMin, lsMax float64
 	c := &in.Counts
 	for i := 0; i < n; i++ {
-		r := li.At(i)
+		r := li.Screen(i)
 		if d := r.CooksD; !math.IsNaN(d) && (best < 0 || d > bestD || d == bestD && before(x, y, name, i, best)) {
 			best, bestD = i, d
 		}

@@ -37,9 +37,9 @@ func unitInvariance(in Input, x, y []float64, r float64, line stats.LineFit) []r
 	// derived from the recorded-unit numbers, so the table shows the
 	// invariance rather than assuming it.
 	fit := func(xu, yu string, u, v []float64) report.UnitRow {
-		m := stats.CentredMoments(u, v)
+		c, m := stats.PearsonWithMoments(u, v, 0.95)
 		slope := m.Sxy / m.Sxx
-		return report.UnitRow{XUnit: xu, YUnit: yu, R: report.Float(stats.Pearson(u, v, 0.95).R),
+		return report.UnitRow{XUnit: xu, YUnit: yu, R: report.Float(c.R),
 			Slope: report.Float(slope), Intercept: report.Float(m.MeanY - slope*m.MeanX)}
 	}
 	for _, u := range in.AlsoIn.X {

@@ -131,9 +131,24 @@ func levels(g dataset.Strings) ([]string, []int32) {
 }
 
 // grid counts the rows (u, v) in nx × ny equal cells over their range
-// (report.Grid); a degenerate range gets a cell of width 1 around it.
+// (report.Grid); a degenerate range gets a cell of width 1 around it. It
+// is gridAt on stored columns, read directly rather than through a call
+// per value.
 func grid(u, v []float64, nx, ny int) *report.Grid {
-	return gridAt(len(u), func(i int) float64 { return u[i] }, func(i int) float64 { return v[i] }, nx, ny)
+	v = v[:len(u)]
+	g := &report.Grid{NX: nx, NY: ny, Counts: make([]int, nx*ny)}
+	g.XLo, g.XHi = widen(minMax(u))
+	g.YLo, g.YHi = widen(minMax(v))
+	sx := float64(nx) / (g.XHi - g.XLo)
+	sy := float64(ny) / (g.YHi - g.YLo)
+	for i, a := range u {
+		b := v[i]
+		if math.IsNaN(a) || math.IsNaN(b) {
+			continue
+		}
+		g.Counts[cell(b, g.YLo, sy, ny)*nx+cell(a, g.XLo, sx, nx)]++
+	}
+	return g
 }
 
 // gridAt is grid of the n points (u(i), v(i)), for values made row by row
@@ -149,11 +164,14 @@ func gridAt(n int, u, v func(i int) float64, nx, ny int) *report.Grid {
 		if math.IsNaN(a) || math.IsNaN(b) {
 			continue
 		}
-		ci := min(max(int((a-g.XLo)*sx), 0), nx-1)
-		cj := min(max(int((b-g.YLo)*sy), 0), ny-1)
-		g.Counts[cj*nx+ci]++
+		g.Counts[cell(b, g.YLo, sy, ny)*nx+cell(a, g.XLo, sx, nx)]++
 	}
 	return g
+}
+
+// cell is the cell of a among n cells from lo, s cells a unit.
+func cell(a, lo, s float64, n int) int {
+	return min(max(int((a-lo)*s), 0), n-1)
 }
 
 // spanAt is the range of the finite values at(0), …, at(n−1), widened to
@@ -169,6 +187,27 @@ func spanAt(n int, at func(i int) float64) (lo, hi float64) {
 			hi = a
 		}
 	}
+	return widen(lo, hi)
+}
+
+// minMax is the smallest and the largest value of v (NaN skipped; +Inf
+// and −Inf when there is none).
+func minMax(v []float64) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, a := range v {
+		if a < lo {
+			lo = a
+		}
+		if a > hi {
+			hi = a
+		}
+	}
+	return lo, hi
+}
+
+// widen widens the range [lo, hi] to width 1 around lo when it is empty
+// or a single value.
+func widen(lo, hi float64) (float64, float64) {
 	if !(hi > lo) {
 		lo, hi = lo-0.5, lo+0.5
 	}

@@ -235,7 +235,7 @@ func analyze(in Input, cfg Config) report.Study {
 	dx, dy := ps.Describe()
 	s.Describe = &report.DescribePair{X: describe(dx), Y: describe(dy)}
 
-	pc := stats.Pearson(ps.X, ps.Y, conf)
+	pc := ps.Pearson(m, conf)
 	s.Pearson = &report.Pearson{R: report.Float(pc.R), R2: report.Float(pc.R2), CILow: report.Float(pc.CILow),
 		CIHigh: report.Float(pc.CIHigh), T: report.Float(pc.T), DF: pc.DF, P: report.Float(pc.P), PAdjusted: report.Float(pc.P)}
 
@@ -243,7 +243,7 @@ func analyze(in Input, cfg Config) report.Study {
 	// would be two more columns of n), then its residuals in data order,
 	// beside x, y and the run order; fitted values are y − residual where
 	// needed.
-	line, err := stats.LineSummary(ps.X, ps.Y, conf)
+	line, err := ps.LineSummary(conf)
 	if err != nil {
 		return failed(s, fmt.Sprintf("the straight line could not be fitted: %v", err))
 	}
@@ -474,26 +474,30 @@ func completeCases(in Input, covNames []string) cases {
 	n := len(in.XS)
 	type col struct {
 		name string
-		miss func(i int) bool
+		vals []float64        // a numeric column: missing where NaN or ±Inf
+		miss func(i int) bool // the group column: missing where empty
 		rows int
 	}
-	cols := []col{
-		{name: in.X.Column, miss: func(i int) bool { return missing(in.XS[i]) }},
-		{name: in.Y.Column, miss: func(i int) bool { return missing(in.YS[i]) }},
-	}
+	cols := []col{{name: in.X.Column, vals: in.XS}, {name: in.Y.Column, vals: in.YS}}
 	if in.Groups.Given() {
 		cols = append(cols, col{name: in.GroupColumn, miss: func(i int) bool { return in.Groups.At(i) == "" }})
 	}
 	if in.Order != nil {
-		cols = append(cols, col{name: in.OrderColumn, miss: func(i int) bool { return missing(in.Order[i]) }})
+		cols = append(cols, col{name: in.OrderColumn, vals: in.Order})
 	}
 	for _, c := range covNames {
-		v := in.Covariates[c]
-		cols = append(cols, col{name: c, miss: func(i int) bool { return missing(v[i]) }})
+		cols = append(cols, col{name: c, vals: in.Covariates[c]})
+	}
+	// The common case, every row kept and no numeric cell missing (nor a
+	// group column), is told by one tight pass down each column; else the
+	// rows are gone through one by one.
+	clean := in.Keep == nil
+	for j := 0; j < len(cols) && clean; j++ {
+		clean = cols[j].miss == nil && !slices.ContainsFunc(cols[j].vals, missing)
 	}
 	var cc cases
 	var drop []int // data rows that are not complete cases
-	for i := 0; i < n; i++ {
+	for i := 0; i < n && !clean; i++ {
 		if in.Keep != nil && !in.Keep[i] {
 			cc.leftOut++
 			drop = append(drop, i)
@@ -501,8 +505,9 @@ func completeCases(in Input, covNames []string) cases {
 		}
 		ok := true
 		for j := range cols {
-			if cols[j].miss(i) {
-				cols[j].rows++
+			c := &cols[j]
+			if c.miss == nil && missing(c.vals[i]) || c.miss != nil && c.miss(i) {
+				c.rows++
 				ok = false
 			}
 		}

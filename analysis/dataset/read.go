@@ -314,6 +314,8 @@ func produce(cfg *config, r io.Reader, hd *head, h io.Writer, bufSize int, free 
 	defer close(work)
 	defer close(ordered)
 	made := 0
+	// A buffer is taken from hugepage: its first fill, in 4 KiB pages, was
+	// a fifth of a 10⁶-row run's page faults.
 	get := func(n int) []byte {
 		if made < cap(free) {
 			select {
@@ -322,7 +324,7 @@ func produce(cfg *config, r io.Reader, hd *head, h io.Writer, bufSize int, free 
 			default:
 			}
 			made++
-			return make([]byte, max(bufSize, n))
+			return hugepage.Make[byte](max(bufSize, n))
 		}
 		select {
 		case b := <-free:

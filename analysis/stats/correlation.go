@@ -36,6 +36,25 @@ type Correlation struct {
 // any finite magnitude, 1e-300 or 1e300, vary); T and P are NaN when n < 3;
 // the interval is NaN when n < 4.
 func Pearson(x, y []float64, conf float64) Correlation {
+	c, _ := pearson(x, y, conf)
+	return c
+}
+
+// PearsonWithMoments returns Pearson(x, y, conf) and CentredMoments(x, y),
+// summing the pairs once where Pearson needs no scaling (the sums it takes
+// are then those very moments), twice else.
+func PearsonWithMoments(x, y []float64, conf float64) (Correlation, Moments) {
+	c, m := pearson(x, y, conf)
+	if m == nil {
+		mm := CentredMoments(x, y)
+		m = &mm
+	}
+	return c, *m
+}
+
+// pearson is Pearson, with the moments of x and y it summed when it
+// summed them unscaled (else nil).
+func pearson(x, y []float64, conf float64) (Correlation, *Moments) {
 	if len(x) != len(y) {
 		panic("stats: Pearson: x and y lengths differ")
 	}
@@ -46,26 +65,31 @@ func Pearson(x, y []float64, conf float64) Correlation {
 		if c.DF < 0 {
 			c.DF = 0
 		}
-		return c
+		return c, nil
 	}
 	// r does not depend on the scale of x or y; far from 1 (beyond 2^±400)
 	// the sums of squares would underflow or overflow, so such data are
 	// scaled by a power of two (exact) first.
+	scaled := false
 	if k := pow2Shift(x); k != 0 {
-		x = ldexpAll(x, k)
+		x, scaled = ldexpAll(x, k), true
 	}
 	if k := pow2Shift(y); k != 0 {
-		y = ldexpAll(y, k)
+		y, scaled = ldexpAll(y, k), true
 	}
 	m := CentredMoments(x, y)
+	mp := &m
+	if scaled {
+		mp = nil
+	}
 	c.R = corrFromSums(m.Sxx, m.Syy, m.Sxy)
 	if math.IsNaN(c.R) {
-		return c
+		return c, mp
 	}
 	c.R2 = c.R * c.R
 	c.CILow, c.CIHigh = FisherCI(c.R, n, conf)
 	c.T, c.P = corrT(c.R, n)
-	return c
+	return c, mp
 }
 
 // corrFromSums returns Sxy/√(Sxx·Syy) clamped to [−1, 1], NaN when either
@@ -445,6 +469,36 @@ func mergeCount[T uint64 | int32](a, buf []T) int64 {
 
 // mergeRun is the length of the runs mergeCount sorts by insertion.
 const mergeRun = 16
+
+// fenwickCount returns the number of pairs i < j with a[i] > a[j] (equal
+// values are not counted) for values in [0, d), without moving them: a
+// Fenwick tree (Fenwick 1994, "A new data structure for cumulative
+// frequency tables", Software: Practice and Experience 24(3):327–336)
+// holds the counts of the values seen so far: of the j values before a[j],
+// those above it are j less the tree's prefix sum up to a[j]; then a[j] is
+// counted in. O(n log d) time and 4(d+1) bytes: where d is small the tree
+// stays in the processor's cache, and at 10⁶ values with 10⁴ distinct it
+// took half the time of mergeCount.
+func fenwickCount(a []int32, d int) int64 {
+	tree := make([]int32, d+1) // tree[k]: the count of values in (k − lowbit(k), k], 1-based
+	var inv int64
+	for j, v := range a {
+		var notAbove int64
+		for k := int(v) + 1; k > 0; k &= k - 1 {
+			notAbove += int64(tree[k])
+		}
+		inv += int64(j) - notAbove
+		for k := int(v) + 1; k <= d; k += k & -k {
+			tree[k]++
+		}
+	}
+	return inv
+}
+
+// fenwickMax is the most distinct values for which Sorted.KendallTauB
+// counts by fenwickCount: a tree of 4 MiB. (At 10⁶ distinct values among
+// 10⁶ it still took four fifths of mergeCount's time.)
+const fenwickMax = 1 << 20
 
 // PearsonMoments is Pearson for data given by their centred moments (see
 // CentredMoments): r = Sxy/√(Sxx·Syy) with the same Fisher-z interval, t

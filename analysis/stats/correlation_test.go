@@ -1,6 +1,7 @@
 package stats
 
 import (
+	"fmt"
 	"math"
 	"math/big"
 	"math/rand/v2"
@@ -494,5 +495,25 @@ func TestWithoutRows(t *testing.T) {
 	}
 	if _, ok := WithoutRows(CentredMoments(x[:3], y[:3]), x[:2], y[:2]); ok {
 		t.Error("one row left: ok, want declined")
+	}
+}
+
+// TestPearsonWithMoments: PearsonWithMoments is Pearson and CentredMoments
+// bit for bit, on data Pearson scales by a power of two first and on data
+// it does not (an identity, for any data).
+func TestPearsonWithMoments(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(15, 16))
+	for _, scale := range []float64{1, 1e300, 1e-300} {
+		x, y := make([]float64, 1000), make([]float64, 1000)
+		for i := range x {
+			x[i] = rng.NormFloat64()
+			y[i] = (2 - 0.5*x[i] + rng.NormFloat64()) * scale
+		}
+		c, m := PearsonWithMoments(x, y, 0.95)
+		wc, wm := Pearson(x, y, 0.95), CentredMoments(x, y)
+		if fmt.Sprintf("%#v %#v", c, m) != fmt.Sprintf("%#v %#v", wc, wm) {
+			t.Errorf("scale %g: PearsonWithMoments %+v %+v, want %+v %+v", scale, c, m, wc, wm)
+		}
 	}
 }

@@ -181,10 +181,9 @@ func OrderTrend(order, resid []float64) (slope, p, r float64) {
 	if len(order) < 3 {
 		return nan, nan, nan
 	}
-	c := Pearson(order, resid, 0.95)
+	c, m := PearsonWithMoments(order, resid, 0.95)
 	if math.IsNaN(c.R) {
 		return nan, nan, nan
 	}
-	m := CentredMoments(order, resid)
 	return m.Sxy / m.Sxx, c.P, c.R
 }

@@ -113,6 +113,8 @@ type LineInfluence struct {
 	s      float64 // residual SD, NaN when undefined
 	sole   [2]int
 	nf, c  float64
+	invN   float64 // 1/n
+	omInvN float64 // (n−1)/n
 	nan    float64
 }
 
@@ -153,6 +155,7 @@ func NewLineInfluence(x, y []float64) *LineInfluence {
 		li.s = math.Sqrt(rss / (li.nf - 2))
 	}
 	li.c = li.nf / (li.nf - 1)
+	li.invN, li.omInvN = 1/li.nf, (li.nf-1)/li.nf
 	return li
 }
 
@@ -160,7 +163,16 @@ func NewLineInfluence(x, y []float64) *LineInfluence {
 func (li *LineInfluence) Len() int { return li.n }
 
 // At returns the influence of row i.
-func (li *LineInfluence) At(i int) InfluenceRow {
+func (li *LineInfluence) At(i int) InfluenceRow { return li.at(i, true) }
+
+// Screen is At without DFFITS and the leave-one-out intercept (NaN in
+// their place): the figures a pass over every row reads to flag rows and
+// find the extremes, at two divisions and a square root less a row. Every
+// other field is At's, bit for bit.
+func (li *LineInfluence) Screen(i int) InfluenceRow { return li.at(i, false) }
+
+// at is At, with DFFITS and LooIntercept only when full.
+func (li *LineInfluence) at(i int, full bool) InfluenceRow {
 	nan := li.nan
 	if !li.valid {
 		return InfluenceRow{nan, nan, nan, nan, nan, nan, nan, nan, nan, false}
@@ -175,11 +187,11 @@ func (li *LineInfluence) At(i int) InfluenceRow {
 	q := dx * dx / m.Sxx
 	// Plain comparisons, not math.Min and math.Max (a call each per row);
 	// no value here is NaN or a signed zero that they would treat apart.
-	h := 1/nf + q
+	h := li.invN + q
 	if h > 1 {
 		h = 1
 	}
-	omh := (nf-1)/nf - q // 1 − h, formed without adding 1/n first
+	omh := li.omInvN - q // 1 − h, formed without adding 1/n first
 	if omh < 0 {
 		omh = 0
 	}
@@ -196,12 +208,15 @@ func (li *LineInfluence) At(i int) InfluenceRow {
 		ti = e / (math.Sqrt(s2) * math.Sqrt(omh))
 	}
 	r.StudentizedExt = ti
-	r.DFFITS = ti * math.Sqrt(h/omh)
 
 	sxx := li.c * m.Sxx * omh
 	bi := li.b1 - dx*e/(m.Sxx*omh)
 	r.LooSlope = bi
-	r.LooIntercept = (m.MeanY - dy/(nf-1)) - bi*(m.MeanX-dx/(nf-1))
+	r.DFFITS, r.LooIntercept = nan, nan
+	if full {
+		r.DFFITS = ti * math.Sqrt(h/omh)
+		r.LooIntercept = (m.MeanY - dy/(nf-1)) - bi*(m.MeanX-dx/(nf-1))
+	}
 	r.LooR = nan
 	if li.n > 2 {
 		r.LooR = corrFromSums(sxx, m.Syy-li.c*dy*dy, m.Sxy-li.c*dx*dy)

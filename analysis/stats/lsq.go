@@ -104,10 +104,6 @@ func LeastSquares(cols [][]float64, y []float64, conf float64) (Regression, erro
 // leastSquares (perRow: with fitted values, residuals and leverages) or by
 // lsqSummary (without).
 func leastSquaresScaled(cols [][]float64, y []float64, conf float64, perRow bool) (Regression, error) {
-	fit := leastSquares
-	if !perRow {
-		fit = lsqSummary
-	}
 	n, p := len(y), len(cols)
 	for j, c := range cols {
 		if len(c) != n {
@@ -136,12 +132,24 @@ func leastSquaresScaled(cols [][]float64, y []float64, conf float64, perRow bool
 	}
 	// Columns or y far from 1 in magnitude are fitted after an exact
 	// power-of-two scaling, and the results scaled back (unscale).
-	ky := pow2Shift(y)
 	kx := make([]int, p)
-	scaled := ky != 0
 	for j, c := range cols {
 		kx[j] = pow2Shift(c)
-		scaled = scaled || kx[j] != 0
+	}
+	return fitShifted(cols, y, conf, perRow, kx, pow2Shift(y))
+}
+
+// fitShifted is leastSquaresScaled past its checks, given the shifts
+// (pow2Shift) of the columns, kx, and of y, ky.
+func fitShifted(cols [][]float64, y []float64, conf float64, perRow bool, kx []int, ky int) (Regression, error) {
+	fit := leastSquares
+	if !perRow {
+		fit = lsqSummary
+	}
+	p := len(cols)
+	scaled := ky != 0
+	for _, k := range kx {
+		scaled = scaled || k != 0
 	}
 	if !scaled {
 		return fit(cols, y, conf)
@@ -179,7 +187,15 @@ func pow2Shift(v []float64) int {
 			nan = true
 		}
 	}
-	if m == 0 || math.IsInf(m, 0) || nan {
+	if nan {
+		return 0
+	}
+	return shiftFor(m)
+}
+
+// shiftFor is pow2Shift of values whose largest magnitude is m (no NaN).
+func shiftFor(m float64) int {
+	if m == 0 || math.IsInf(m, 0) {
 		return 0
 	}
 	_, e := math.Frexp(m)
@@ -571,34 +587,7 @@ func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regressi
 				return Regression{}, fmt.Errorf("least squares: response row %d is %v: remove non-finite values first", i+1, v)
 			}
 		}
-		ky := pow2Shift(y)
-		q := degree + 1
-		r, err := lsqSummaryRows(len(x), degree, func(lo, hi int, buf []float64) {
-			for i := lo; i < hi; i++ {
-				row := buf[(i-lo)*q : (i-lo+1)*q]
-				t := (x[i] - c) / s
-				v := t
-				for d := range degree {
-					row[d] = v
-					v *= t
-				}
-				row[degree] = y[i]
-			}
-			if ky != 0 {
-				for k := degree; k < len(buf); k += q {
-					buf[k] = math.Ldexp(buf[k], ky)
-				}
-			}
-		}, conf)
-		if err != nil {
-			return Regression{}, err
-		}
-		if ky != 0 {
-			r.unscale(make([]int, degree), ky)
-		}
-		r.poly = &polyMap{c: c, s: s}
-		r.Coef = r.rawPowerCoef(conf)
-		return r, nil
+		return polySummary(x, y, degree, conf, c, s, pow2Shift(y))
 	}
 	cols := make([][]float64, degree)
 	for d := range cols {
@@ -615,6 +604,39 @@ func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regressi
 	r, err := leastSquaresScaled(cols, y, conf, perRow)
 	if err != nil {
 		return Regression{}, err
+	}
+	r.poly = &polyMap{c: c, s: s}
+	r.Coef = r.rawPowerCoef(conf)
+	return r, nil
+}
+
+// polySummary is PolynomialSummary past its checks: x and y finite, x
+// with at least degree+1 distinct values, c its mean and s the largest
+// |x − c|, ky the shift (pow2Shift) of y.
+func polySummary(x, y []float64, degree int, conf, c, s float64, ky int) (Regression, error) {
+	q := degree + 1
+	r, err := lsqSummaryRows(len(x), degree, func(lo, hi int, buf []float64) {
+		for i := lo; i < hi; i++ {
+			row := buf[(i-lo)*q : (i-lo+1)*q]
+			t := (x[i] - c) / s
+			v := t
+			for d := range degree {
+				row[d] = v
+				v *= t
+			}
+			row[degree] = y[i]
+		}
+		if ky != 0 {
+			for k := degree; k < len(buf); k += q {
+				buf[k] = math.Ldexp(buf[k], ky)
+			}
+		}
+	}, conf)
+	if err != nil {
+		return Regression{}, err
+	}
+	if ky != 0 {
+		r.unscale(make([]int, degree), ky)
 	}
 	r.poly = &polyMap{c: c, s: s}
 	r.Coef = r.rawPowerCoef(conf)
@@ -776,8 +798,13 @@ func LineSummary(x, y []float64, conf float64) (LineFit, error) {
 	if err != nil {
 		return LineFit{}, err
 	}
+	return lineFrom(reg, x), nil
+}
+
+// lineFrom is the LineFit of reg, the straight line fitted to x.
+func lineFrom(reg Regression, x []float64) LineFit {
 	mx, sxx := meanSS(x)
-	return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: mx, Sxx: sxx}, nil
+	return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: mx, Sxx: sxx}
 }
 
 // FittedAt returns the line's fitted value ŷ(x) = ȳ + b·(x − x̄) by the

@@ -72,34 +72,35 @@ func lsqSummaryRows(n, p int, fill func(lo, hi int, buf []float64), conf float64
 	// Means in two parts and centred sums of squares, column by column as
 	// meanParts takes them (plain sum, then compensated block sums of the
 	// deviations).
+	// Each sum runs down one column of a block (stride q) with its
+	// accumulator in a register, adding the rows in their order.
 	hi, lo, ss := make([]float64, q), make([]float64, q), make([]float64, q)
 	for b := 0; b < n; b += sumBlock {
 		rows := block(b)
-		for k := 0; k < len(rows); k += q {
-			for j, v := range rows[k : k+q] {
-				hi[j] += v
+		for j := range q {
+			s := hi[j]
+			for k := j; k < len(rows); k += q {
+				s += rows[k]
 			}
+			hi[j] = s
 		}
 	}
 	for j := range hi {
 		hi[j] /= float64(n)
 	}
 	cs, qs := make([]ksum, q), make([]ksum, q)
-	bc, bq := make([]float64, q), make([]float64, q)
 	for b := 0; b < n; b += sumBlock {
-		clear(bc)
-		clear(bq)
 		rows := block(b)
-		for k := 0; k < len(rows); k += q {
-			for j, v := range rows[k : k+q] {
-				d := v - hi[j]
-				bc[j] += d
-				bq[j] += d * d
-			}
-		}
 		for j := range q {
-			cs[j].add(bc[j])
-			qs[j].add(bq[j])
+			var bc, bq float64
+			m := hi[j]
+			for k := j; k < len(rows); k += q {
+				d := rows[k] - m
+				bc += d
+				bq += d * d
+			}
+			cs[j].add(bc)
+			qs[j].add(bq)
 		}
 	}
 	for j := range q {
@@ -147,24 +148,26 @@ func lsqSummaryRows(n, p int, fill func(lo, hi int, buf []float64), conf float64
 	r.rinv = invUpper(R, p)
 	coef := upperMul(r.rinv, z, p) // R⁻¹·Qᵀy
 	// Refinement: Aᵀr from the data, then R⁻¹R⁻ᵀ(Aᵀr).
+	// Each row's residual goes in place of its y, then each column's
+	// block sum runs down the column as above.
 	parts := make([]ksum, p)
-	blk := make([]float64, p)
 	for b := 0; b < n; b += sumBlock {
-		clear(blk)
 		rows := block(b)
-		for k := 0; k < len(rows); k += q {
+		for k := 0; k+q <= len(rows); k += q {
 			row := rows[k : k+q]
 			s := (row[p] - hi[p]) - lo[p]
 			for j := range p {
 				row[j] = (row[j] - hi[j]) - lo[j]
 				s -= coef[j] * row[j]
 			}
-			for j := range p {
-				blk[j] += row[j] * s
-			}
+			row[p] = s
 		}
 		for j := range p {
-			parts[j].add(blk[j])
+			var blk float64
+			for k := 0; k < len(rows); k += q {
+				blk += rows[k+j] * rows[k+p]
+			}
+			parts[j].add(blk)
 		}
 	}
 	atr := make([]float64, p)
@@ -212,54 +215,55 @@ func householderR(a []float64, k, q int) {
 		// lose anything but terms below 2⁻¹⁰⁷⁴ against m² ≥ 2⁻⁸⁰⁰, so it is
 		// taken directly (the safe range of Blue 1978, "A portable Fortran
 		// program to find the Euclidean norm of a vector", ACM TOMS 4(1));
-		// outside it each value is divided by m first. (A plain comparison
-		// for the largest magnitude: math.Max, which handles signed zeros
-		// and NaN, is a call per value.)
-		var scale float64
-		for i := j; i < k; i++ {
-			if v := math.Abs(a[i*q+j]); v > scale {
-				scale = v
+		// outside it each value is divided by m first. The largest
+		// magnitude and the direct sum come from one pass. (A plain
+		// comparison for the largest magnitude: math.Max, which handles
+		// signed zeros and NaN, is a call per value.)
+		col := a[j*q+j : (k-1)*q+j+1] // column j from row j down, stride q
+		var scale, ss float64
+		for i := 0; i < len(col); i += q {
+			v := col[i]
+			if m := math.Abs(v); m > scale {
+				scale = m
 			}
+			ss += v * v
 		}
 		if scale == 0 {
 			continue
 		}
 		var norm float64
 		if scale >= 0x1p-400 && scale <= 0x1p400 {
-			var ss float64
-			for i := j; i < k; i++ {
-				v := a[i*q+j]
-				ss += v * v
-			}
 			norm = math.Sqrt(ss)
 		} else {
-			var ss float64
-			for i := j; i < k; i++ {
-				v := a[i*q+j] / scale
+			ss = 0
+			for i := 0; i < len(col); i += q {
+				v := col[i] / scale
 				ss += v * v
 			}
 			norm = scale * math.Sqrt(ss)
 		}
-		ajj := a[j*q+j]
+		ajj := col[0]
 		alpha := -math.Copysign(norm, ajj)
 		// v = x − alpha·e1, stored in column j (v_j = ajj − alpha);
 		// H = I − 2vvᵀ/(vᵀv), vᵀv = 2·norm·(norm + |ajj|).
 		vj := ajj - alpha
 		vtv := 2 * norm * (norm + math.Abs(ajj))
 		for c := j + 1; c < q; c++ {
-			s := vj * a[j*q+c]
-			for i := j + 1; i < k; i++ {
-				s += a[i*q+j] * a[i*q+c]
+			// Column c beside column j: cc[i] is on col[i]'s row.
+			cc := a[j*q+c : (k-1)*q+c+1]
+			s := vj * cc[0]
+			for i := q; i < len(col) && i < len(cc); i += q {
+				s += col[i] * cc[i]
 			}
 			f := 2 * s / vtv
-			a[j*q+c] -= f * vj
-			for i := j + 1; i < k; i++ {
-				a[i*q+c] -= f * a[i*q+j]
+			cc[0] -= f * vj
+			for i := q; i < len(col) && i < len(cc); i += q {
+				cc[i] -= f * col[i]
 			}
 		}
-		a[j*q+j] = alpha
-		for i := j + 1; i < k; i++ {
-			a[i*q+j] = 0
+		col[0] = alpha
+		for i := q; i < len(col); i += q {
+			col[i] = 0
 		}
 	}
 }

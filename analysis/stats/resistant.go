@@ -255,9 +255,18 @@ func streamedSlope(x, y []float64, m int, d *pairDraw) (float64, bool) {
 
 // stableArgsort returns the indices of v in ascending order of value, ties
 // in index order, by the package's O(n) radix sort (radixSort on floatKey;
-// −0 and +0 count as equal). v must hold no NaN.
+// −0 and +0 count as equal). v must hold no NaN. Values already in
+// ascending order (samples drawn in canonical order, say) give 0, 1, …
+// without a sort.
 func stableArgsort(v []float64) []int {
 	n := len(v)
+	if slices.IsSorted(v) {
+		out := hugepage.Make[int](n)
+		for i := range out {
+			out[i] = i
+		}
+		return out
+	}
 	keys := hugepage.Make[uint64](n)
 	idx := hugepage.Make[int32](n)
 	for i, e := range v {

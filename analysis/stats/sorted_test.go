@@ -2,6 +2,7 @@ package stats
 
 import (
 	"cmp"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -360,7 +361,7 @@ func TestSortRunHighBitsCollide(t *testing.T) {
 // already in order or reversed.
 func TestSortSpread(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 12))
-	for _, m := range []int{1, 2, 127, 128, 129, 500, 1000, 2047, 2048} {
+	for _, m := range []int{1, 2, 63, 64, 65, 127, 128, 129, 500, 1000, 2047, 2048} {
 		for _, kind := range []string{"spread", "bunched", "ascending", "descending"} {
 			a := make([]uint64, m)
 			for j := range a {
@@ -381,6 +382,69 @@ func TestSortSpread(t *testing.T) {
 			if !slices.Equal(a, want) {
 				t.Errorf("m %d, %s keys: not in ascending order", m, kind)
 			}
+		}
+	}
+}
+
+// TestSortedPearson: Sorted.Pearson from the moments is Pearson on the
+// pairs, bit for bit, for data that need no scaling and for data that do
+// (magnitudes near 1e300 and 1e-300, where Pearson scales by a power of
+// two first): an identity, for any data.
+func TestSortedPearson(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(11, 12))
+	for _, scale := range []float64{1, 1e300, 1e-300, 1e-100} {
+		x, y := make([]float64, 2000), make([]float64, 2000)
+		for i := range x {
+			x[i] = math.Round(rng.NormFloat64()*100) / 100
+			y[i] = (1 + 0.4*x[i] + rng.NormFloat64()) * scale
+		}
+		s := NewSorted(x, y)
+		got, want := s.Pearson(CentredMoments(s.X, s.Y), 0.95), Pearson(s.X, s.Y, 0.95)
+		if fmt.Sprintf("%#v", got) != fmt.Sprintf("%#v", want) {
+			t.Errorf("scale %g: Sorted.Pearson %+v, Pearson %+v", scale, got, want)
+		}
+	}
+}
+
+// TestSortedFits: Sorted.LineSummary and Sorted.PolynomialSummary, whose
+// checks and scaling read the sorted ends, give LineSummary's and
+// PolynomialSummary's fits bit for bit, errors included: data that need
+// no scaling, y and x far from 1 (scaled by a power of two), a constant x
+// and x with two distinct values (an identity, for any data).
+func TestSortedFits(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(13, 14))
+	for _, c := range []struct {
+		name   string
+		xs, ys float64 // scales of x and y
+		levels int     // distinct x (0: many)
+	}{{"plain", 1, 1, 0}, {"y-1e300", 1, 1e300, 0}, {"x-1e-300", 1e-300, 1, 0}, {"x-1e250-y-1e-250", 1e250, 1e-250, 0},
+		{"constant-x", 1, 1, 1}, {"two-levels", 1, 1, 2}} {
+		x, y := make([]float64, 3000), make([]float64, 3000)
+		for i := range x {
+			u := math.Round(rng.NormFloat64()*100) / 100
+			if c.levels > 0 {
+				u = float64(i % c.levels)
+			}
+			x[i] = (5 + u) * c.xs
+			y[i] = (1 + 0.4*u + 0.05*u*u + rng.NormFloat64()) * c.ys
+		}
+		s := NewSorted(x, y)
+		l1, e1 := s.LineSummary(0.95)
+		l2, e2 := LineSummary(s.X, s.Y, 0.95)
+		if fmt.Sprintf("%#v %v", l1, e1) != fmt.Sprintf("%#v %v", l2, e2) {
+			t.Errorf("%s: Sorted.LineSummary %+v %v, LineSummary %+v %v", c.name, l1, e1, l2, e2)
+		}
+		q1, e1 := s.PolynomialSummary(2, 0.95)
+		q2, e2 := PolynomialSummary(s.X, s.Y, 2, 0.95)
+		show := func(r Regression, err error) string { // the polynomial's map by value, not its address
+			pm := r.poly
+			r.poly = nil
+			return fmt.Sprintf("%#v %#v %v", r, pm, err)
+		}
+		if show(q1, e1) != show(q2, e2) {
+			t.Errorf("%s: Sorted.PolynomialSummary %+v %v, PolynomialSummary %+v %v", c.name, q1, e1, q2, e2)
 		}
 	}
 }

@@ -1,6 +1,7 @@
 package stats
 
 import (
+	"cmp"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -70,6 +71,36 @@ func TestMergeCountMatchesNaive(t *testing.T) {
 		slices.Sort(sorted)
 		if got := mergeCount(a, make([]uint64, n)); got != want || !slices.Equal(a, sorted) {
 			t.Fatalf("n=%d: mergeCount = %d, naive %d (sorted %v)", n, got, want, slices.Equal(a, sorted))
+		}
+	}
+}
+
+// TestFenwickCountMatchesNaive: fenwickCount gives the naive count of
+// pairs i < j with a[i] > a[j], from all values equal to all distinct, and
+// mergeCount's on the same values.
+func TestFenwickCountMatchesNaive(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(9, 10))
+	for trial := 0; trial < 200; trial++ {
+		n := rng.IntN(300)
+		d := 1 + trial
+		a := make([]int32, n)
+		for i := range a {
+			a[i] = int32(rng.IntN(d))
+		}
+		var want int64
+		for i := range a {
+			for j := i + 1; j < n; j++ {
+				if a[i] > a[j] {
+					want++
+				}
+			}
+		}
+		if got := fenwickCount(a, d); got != want {
+			t.Fatalf("n=%d d=%d: fenwickCount = %d, naive %d", n, d, got, want)
+		}
+		if got := mergeCount(slices.Clone(a), make([]int32, n)); got != want {
+			t.Fatalf("n=%d d=%d: mergeCount = %d, naive %d", n, d, got, want)
 		}
 	}
 }
@@ -150,6 +181,43 @@ func TestRadixSortParMatchesSerial(t *testing.T) {
 		radixSortPar(k2, nil, make([]uint64, n), nil, w)
 		if !slices.Equal(k2, wk) {
 			t.Errorf("%d workers, no index: differs from the serial sort", w)
+		}
+	}
+}
+
+// TestStableArgsort: the indices in ascending order of value, ties (−0 and
+// +0 among them) in index order, as a stable comparison sort gives them,
+// for values in order already (no sort made), reversed and shuffled.
+func TestStableArgsort(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(17, 18))
+	base := []float64{-2, -1, -1, math.Copysign(0, -1), 0, math.Copysign(0, -1), 0.5, 0.5, 3}
+	for _, kind := range []string{"ascending", "descending", "shuffled"} {
+		for _, n := range []int{0, 1, len(base), 3000} {
+			v := make([]float64, n)
+			for i := range v {
+				if n == len(base) {
+					v[i] = base[i]
+				} else {
+					v[i] = math.Round(rng.NormFloat64()*10) / 10
+				}
+			}
+			switch kind {
+			case "ascending":
+				slices.SortStableFunc(v, func(a, b float64) int { return cmp.Compare(a+0, b+0) })
+			case "descending":
+				slices.SortStableFunc(v, func(a, b float64) int { return cmp.Compare(b+0, a+0) })
+			default:
+				rng.Shuffle(n, func(i, j int) { v[i], v[j] = v[j], v[i] })
+			}
+			want := make([]int, n)
+			for i := range want {
+				want[i] = i
+			}
+			slices.SortStableFunc(want, func(a, b int) int { return cmp.Compare(v[a]+0, v[b]+0) })
+			if got := stableArgsort(v); !slices.Equal(got, want) {
+				t.Errorf("%s, n=%d: stableArgsort %v, want %v", kind, n, got[:min(n, 12)], want[:min(n, 12)])
+			}
 		}
 	}
 }

@@ -47,10 +47,15 @@ func DurbinWatsonTied(key, resid []float64) float64 {
 	// run order listed in order, the usual case: no index, no sort), else
 	// by the radix argsort (O(n); ties in position order, which the block
 	// sums below do not depend on but for rounding).
-	at := func(k int) int { return k }
+	var idx []int
 	if !slices.IsSorted(key) {
-		idx := stableArgsort(key)
-		at = func(k int) int { return idx[k] }
+		idx = stableArgsort(key)
+	}
+	at := func(k int) int { // called directly, so inlined: no call per row
+		if idx == nil {
+			return k
+		}
+		return idx[k]
 	}
 	var num, den float64
 	for _, e := range resid {

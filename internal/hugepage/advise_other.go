@@ -2,7 +2,5 @@
 
 package hugepage
 
-import "unsafe"
-
 // advise does nothing outside Linux.
-func advise(unsafe.Pointer, uintptr) {}
+func advise(p, size uintptr) {}

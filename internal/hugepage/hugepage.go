@@ -10,30 +10,41 @@
 // system's default, which on many distributions is "madvise".
 //
 // Make allocates a buffer on the Go heap as make does and advises the
-// whole 2 MiB pages inside it, before anything writes to it. The advice is
-// a hint: where the mode is "never", or the kernel has no free huge page,
-// the memory is the same ordinary memory, so nothing depends on it. Other
-// systems than Linux get make's buffer unchanged.
+// whole heap arenas that hold it (the 64 MiB units in which the runtime
+// maps its heap), not only the buffer. The runtime clears a reused
+// buffer before make returns, so advice given then comes too late for
+// that buffer's pages if they were never touched before (a freed buffer's
+// memory counts as used whether or not it was written); advice on the
+// arena is there before any later buffer in it is cleared or written.
+// Measured on a 10⁶-row run (one study, medians of 13 runs alternated
+// with the former advice of each buffer's own pages): about 11 000 page
+// faults before, 3 500 after, 0.21 s of system CPU time before, 0.11 s
+// after, and a peak of 115 MB instead of 130 (a buffer no longer comes
+// with 4 MiB of slack for its alignment). At 10⁷ rows the peak stayed
+// within the runs' spread (749–880 MB before, 773–1003 MB after, four
+// runs each): huge pages in arenas the heap fills only in part.
+//
+// The advice is a hint: where the mode is "never", or the kernel has no
+// free huge page, the memory is the same ordinary memory, so nothing
+// depends on it. Other systems than Linux get make's buffer unchanged.
 package hugepage
 
 import "unsafe"
 
-// minBytes is the smallest buffer advised: 2 MiB, so that the huge pages
-// advised (the buffer rounded up to whole pages) are at most twice the
-// buffer. A column of 10⁶ 32-bit indices (4 MB) took a thousand 4 KiB
-// faults below the former 4 MiB bound; the kernel's zeroing of the
-// rounded-up part of its last page costs less than those faults.
-const minBytes = 2 << 20
+// minBytes is the smallest buffer whose arenas Make advises: a buffer of
+// 256 KiB or more is worth the system call (a microsecond or two against
+// the 64 faults of its own pages alone).
+const minBytes = 256 << 10
 
-// pageSize is the huge page size on amd64 and arm64 with 4 KiB base pages.
-const pageSize = 2 << 20
+// arenaSize is the unit in which the Go runtime maps its heap on 64-bit
+// Linux (heapArenaBytes in runtime/malloc.go); an arena holds nothing but
+// the heap. (On 32-bit systems the arenas are smaller, and Make gives no
+// advice there.)
+const arenaSize = 64 << 20
 
-// Make returns make([]T, n), advised for huge pages when it is at least
-// 2 MiB: then its buffer is cut from one 4 MiB longer, so that it starts
-// on a 2 MiB boundary and its last page is whole too, and every page of it
-// is advised (the slack beyond is never written, so it costs address space
-// only). T should hold no pointers: the advice does not care, but the
-// buffers it is meant for are numbers.
+// Make returns make([]T, n), its arenas advised for huge pages when it
+// takes at least minBytes. T should hold no pointers: the advice does not
+// care, but the buffers it is meant for are numbers.
 func Make[T any](n int) []T {
 	return makeCap[T](n, n)
 }
@@ -56,30 +67,11 @@ func Grow[T any](s []T, extra int) []T {
 // makeCap is make([]T, n, c) (n ≤ c) advised as Make says.
 func makeCap[T any](n, c int) []T {
 	var zero T
-	el := unsafe.Sizeof(zero)
-	size := uintptr(c) * el
-	if size < minBytes || el == 0 || pageSize%el != 0 {
-		return make([]T, n, c)
+	s := make([]T, n, c)
+	if size := uintptr(c) * unsafe.Sizeof(zero); size >= minBytes && unsafe.Sizeof(uintptr(0)) == 8 {
+		p := uintptr(unsafe.Pointer(unsafe.SliceData(s)))
+		lo, hi := p&^(arenaSize-1), (p+size+arenaSize-1)&^(arenaSize-1)
+		advise(lo, hi-lo)
 	}
-	// A large object starts on a page of the Go heap (8 KiB), so the
-	// distance to the next 2 MiB boundary is a whole number of elements.
-	s := make([]T, c+int(2*pageSize/el))
-	p := uintptr(unsafe.Pointer(unsafe.SliceData(s)))
-	lo, _ := alignedRange(p, pageSize)
-	if (lo-p)%el != 0 {
-		return s[:n:c]
-	}
-	off := int((lo - p) / el)
-	advise(unsafe.Pointer(&s[off]), (size+pageSize-1)&^(pageSize-1))
-	return s[off : off+n : off+c]
-}
-
-// alignedRange is the part of [p, p+size) made of whole pages of pageSize.
-func alignedRange(p, size uintptr) (lo, hi uintptr) {
-	lo = (p + pageSize - 1) &^ (pageSize - 1)
-	hi = (p + size) &^ (pageSize - 1)
-	if hi < lo {
-		hi = lo
-	}
-	return lo, hi
+	return s
 }

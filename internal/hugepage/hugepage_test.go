@@ -21,11 +21,6 @@ func TestMakeShape(t *testing.T) {
 				t.Fatalf("Make(%d)[%d] = %g, want 0", n, i, v)
 			}
 		}
-		if n*8 >= minBytes {
-			if p := uintptr(unsafe.Pointer(unsafe.SliceData(s))); p%pageSize != 0 {
-				t.Errorf("Make(%d) starts at %#x, not on a 2 MiB boundary", n, p)
-			}
-		}
 		e := Empty[int32](n)
 		if len(e) != 0 || cap(e) != n {
 			t.Fatalf("Empty(%d): len %d cap %d", n, len(e), cap(e))

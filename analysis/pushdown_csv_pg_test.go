@@ -28,9 +28,7 @@ func TestPushdownFlaggedFile(t *testing.T) {
 		"UPDATE pdcsv SET x = 90, y = 10 WHERE id = 'r7'")
 	mem, pushed := runBoth(t, url, "pdcsv", "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n", 10)
 	m, p := mem.Studies[0], pushed.Studies[0]
-	if p.Pushdown == nil || m.Pushdown != nil {
-		t.Fatalf("push-down %v / in memory %v", p.Pushdown != nil, m.Pushdown == nil)
-	}
+	bothRan(t, m, p)
 	if n := sameFlaggedFile(t, m, p); n < 5 {
 		t.Fatalf("%d records; want the header and the 4 planted rows at least", n)
 	}
@@ -92,12 +90,7 @@ func TestPushdownSoleSupport(t *testing.T) {
 	mem, pushed := runBoth(t, url, "pdsole", studies, 10)
 	for i := range mem.Studies {
 		m, p := mem.Studies[i], pushed.Studies[i]
-		if m.Error != nil || p.Error != nil {
-			t.Fatalf("study %s: errors %v, %v", m.ID, errText(m.Error), errText(p.Error))
-		}
-		if p.Pushdown == nil || m.Pushdown != nil {
-			t.Fatalf("study %s: push-down %v / in memory %v", m.ID, p.Pushdown != nil, m.Pushdown == nil)
-		}
+		bothRan(t, m, p)
 		if m.Influence.Counts.SoleSupport != 1 || len(m.Influence.Points) == 0 || m.Influence.Points[0].Row != "r1500" {
 			t.Fatalf("study %s: the test data lost their point: in memory %d rows of sole support, named %v", m.ID, m.Influence.Counts.SoleSupport, m.Influence.Points)
 		}
@@ -119,6 +112,18 @@ func TestPushdownSoleSupport(t *testing.T) {
 				t.Errorf("study %s: the push-down still omits %q", m.ID, o.Figure)
 			}
 		}
+	}
+}
+
+// bothRan stops the test unless study m ran in memory and p, the same
+// study, ran with its rows left in the database, both without an error.
+func bothRan(t *testing.T, m, p report.Study) {
+	t.Helper()
+	if m.Error != nil || p.Error != nil {
+		t.Fatalf("study %s: errors %v in memory, %v pushed", m.ID, errText(m.Error), errText(p.Error))
+	}
+	if p.Pushdown == nil || m.Pushdown != nil {
+		t.Fatalf("study %s: pushed down %v, in memory %v", m.ID, p.Pushdown != nil, m.Pushdown == nil)
 	}
 }
 
@@ -164,9 +169,7 @@ func TestPushdownLackOfFit(t *testing.T) {
 	mem, pushed := runBoth(t, url, "pdlof", studies, 10)
 	for i, wantLOF := range []bool{true, false} {
 		m, p := mem.Studies[i], pushed.Studies[i]
-		if m.Error != nil || p.Error != nil || p.Pushdown == nil {
-			t.Fatalf("study %s: errors %v, %v; pushed down %v", m.ID, errText(m.Error), errText(p.Error), p.Pushdown != nil)
-		}
+		bothRan(t, m, p)
 		if (m.Diagnostics.LackOfFit != nil) != wantLOF {
 			t.Fatalf("study %s: the test data lost their point: lack of fit in memory %+v", m.ID, m.Diagnostics.LackOfFit)
 		}
@@ -202,9 +205,7 @@ func TestPushdownManyFlagged(t *testing.T) {
 	defer analysis.SetPushdownSuspectMax(2)()
 	mem, pushed := runBoth(t, url, "pdmany", "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n[output]\nnamed_rows = 1\n", 10)
 	m, p := mem.Studies[0], pushed.Studies[0]
-	if p.Pushdown == nil || m.Pushdown != nil || p.Error != nil || m.Error != nil {
-		t.Fatalf("push-down %v / in memory %v; errors %v, %v", p.Pushdown != nil, m.Pushdown == nil, errText(p.Error), errText(m.Error))
-	}
+	bothRan(t, m, p)
 	if m.Influence.Counts.Suspect != 5 || p.Influence.Counts.Suspect != 5 {
 		t.Fatalf("flagged rows: %d in memory, %d pushed; the test data planted 5", m.Influence.Counts.Suspect, p.Influence.Counts.Suspect)
 	}

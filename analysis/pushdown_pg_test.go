@@ -123,12 +123,7 @@ func TestPushdownSameAsInMemory(t *testing.T) {
 	mem, pushed := runBoth(t, url, "pd", study, 10)
 	for i := range mem.Studies {
 		m, p := mem.Studies[i], pushed.Studies[i]
-		if m.Error != nil || p.Error != nil {
-			t.Fatalf("study %s: errors %v, %v", m.ID, errText(m.Error), errText(p.Error))
-		}
-		if m.Pushdown != nil || p.Pushdown == nil {
-			t.Fatalf("study %s: push-down in memory %v, in the database %v", m.ID, m.Pushdown != nil, p.Pushdown != nil)
-		}
+		bothRan(t, m, p)
 		agree(t, m.ID, exactFigures(p), exactFigures(m), 1e-9)
 		// Below PushdownSample rows the sample is every complete case, so
 		// the sampled figures are those in memory too.

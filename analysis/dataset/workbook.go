@@ -18,8 +18,6 @@ import (
 	"slices"
 	"strconv"
 	"strings"
-
-	"github.com/xuri/excelize/v2"
 )
 
 // IsWorkbook says whether path names an Excel workbook that ReadWorkbook
@@ -288,13 +286,21 @@ func headerNames(cells []sheetCell, merges []mergeRange, first map[[2]int]string
 	return names
 }
 
-// cellRef is the A1 reference of a 0-based column and 1-based row.
+// cellRef is the A1 reference of a 0-based column and 1-based row (the
+// column's letters in bijective base 26, A to XFD, as ECMA-376 Part 1,
+// §18.3.1.4 writes a cell's r attribute), or R…C… outside a sheet's
+// 16 384 columns and 1 048 576 rows.
 func cellRef(col, row int) string {
-	s, err := excelize.CoordinatesToCellName(col+1, row)
-	if err != nil {
+	if col < 0 || col >= 16384 || row < 1 || row > 1048576 {
 		return fmt.Sprintf("R%dC%d", row, col+1)
 	}
-	return s
+	var letters [3]byte
+	i := len(letters)
+	for c := col + 1; c > 0; c = (c - 1) / 26 {
+		i--
+		letters[i] = byte('A' + (c-1)%26)
+	}
+	return string(letters[i:]) + strconv.Itoa(row)
 }
 
 // WorkbookHeader returns the column names of the sheet's header row. It

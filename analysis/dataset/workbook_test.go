@@ -4,6 +4,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -285,6 +286,22 @@ func BenchmarkReadWorkbook1e4(b *testing.B) {
 	for b.Loop() {
 		if _, err := ReadWorkbook(path, SheetRef{}, 0, Options{Groups: []string{"lot"}}, []string{"x", "y"}, []string{"lot"}); err != nil {
 			b.Fatal(err)
+		}
+	}
+}
+
+// cellRef names cells as excelize's CoordinatesToCellName does (the
+// reference library of these tests), and as R…C… where excelize refuses.
+func TestCellRefAsExcelize(t *testing.T) {
+	for _, col := range []int{0, 1, 24, 25, 26, 27, 51, 52, 701, 702, 703, 18277, 16382, 16383, 16384, -1} {
+		for _, row := range []int{0, 1, 2, 99, 1048576, 1048577} {
+			want, err := excelize.CoordinatesToCellName(col+1, row)
+			if err != nil {
+				want = fmt.Sprintf("R%dC%d", row, col+1)
+			}
+			if got := cellRef(col, row); got != want {
+				t.Errorf("cellRef(%d, %d) = %q, want %q", col, row, got, want)
+			}
 		}
 	}
 }

@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -548,11 +549,23 @@ func TestFirstScreenAndConventions(t *testing.T) {
 	}
 	for _, row := range rows {
 		for _, cell := range strings.Split(row[1], "|") {
-			if c := strings.TrimSpace(cell); c != "" && !regexp.MustCompile(`^(Yes|No|not checked|none repeated|no run order declared|Not as a parabola)\b`).MatchString(c) {
+			if c := strings.TrimSpace(cell); c != "" && !regexp.MustCompile(`^(Yes|No|not checked|none repeated|no run order declared|Not as a parabola|Too slightly to count)\b`).MatchString(c) {
 				t.Errorf("a check is answered by %q, not in words first", c)
 			}
 		}
 	}
+	// A bend the x² term finds but the findings do not call a curve (too
+	// little of the line's scatter taken away) is answered so, not "No"
+	// beside a small p.
+	f := r.Studies[0].Findings
+	form, saved := f.Form, f.Checks
+	f.Form = "linear"
+	f.Checks = append(slices.Clone(saved), report.Check{Name: "curvature", Stat: 4.2, P: 0.0004, PAdjusted: 0.0012, Bound: report.NaN(), Raised: true, Adjusted: true})
+	_, tbl, _ := strings.Cut(string(mustMD(t, r)), "*Checks of every study")
+	if row := regexp.MustCompile(`(?m)^\| gap-vs-force[^|]*\|([^|]*)\|`).FindStringSubmatch(tbl); row == nil || strings.TrimSpace(row[1]) != "Too slightly to count (p 0.001)" {
+		t.Errorf("a significant but slight bend is answered %q", row)
+	}
+	f.Form, f.Checks = form, saved
 	// The fixture's quadratic turns at 44.4, near its data; then far out.
 	if !strings.Contains(md, "turning at x = 44.40 kN") {
 		t.Error("a turning point near the data is not printed")

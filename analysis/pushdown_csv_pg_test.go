@@ -79,14 +79,19 @@ func sameFlaggedFile(t *testing.T, m, p report.Study) int {
 // the least, with every exact figure within 1e-9 relative.
 func TestPushdownSoleSupport(t *testing.T) {
 	url := pgURL(t)
-	pgExec(t, url, "DROP TABLE IF EXISTS pdsole", "CREATE TABLE pdsole (id text, x float8, xl float8, y float8)",
+	pgExec(t, url, "DROP TABLE IF EXISTS pdsole", "CREATE TABLE pdsole (id text, x float8, xl float8, xf float8, y float8)",
 		// Sines of multiples of an irrational step (reproducible on any
-		// server); row r1500 alone at x = 35 (and at xl = 5).
+		// server); row r1500 alone at x = 35 (and at xl = 5, and at xf
+		// = 10⁹ + 0.7 beside 10⁹ + 0.3: not whole and far from 0, where
+		// the regression aggregates' Sxx rounds; from an independent
+		// review, which found the study pushed down missed the row).
 		`INSERT INTO pdsole SELECT 'r' || i, CASE WHEN i = 1500 THEN 35 ELSE 20 END, CASE WHEN i = 1500 THEN 5 ELSE 20 END,
+		  CASE WHEN i = 1500 THEN 1e9 + 0.7 ELSE 1e9 + 0.3 END,
 		  4 + sin(i * 1.3247 + 0.5) + CASE WHEN i = 1500 THEN 6 ELSE 0 END
 		  FROM generate_series(1, 3000) i`)
 	studies := "[[study]]\nid = \"hi\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n" +
-		"[[study]]\nid = \"lo\"\ndataset = \"d\"\nx = \"xl\"\ny = \"y\"\n"
+		"[[study]]\nid = \"lo\"\ndataset = \"d\"\nx = \"xl\"\ny = \"y\"\n" +
+		"[[study]]\nid = \"far\"\ndataset = \"d\"\nx = \"xf\"\ny = \"y\"\n"
 	mem, pushed := runBoth(t, url, "pdsole", studies, 10)
 	for i := range mem.Studies {
 		m, p := mem.Studies[i], pushed.Studies[i]

@@ -17,9 +17,8 @@ package dataset
 //  2. Second: sums of deviations from the first pass's means, of their
 //     products and powers, and of the line's residuals e and their
 //     powers (the refined line, its RSS, the quadratic, Breusch–Pagan and
-//     the trend in run order follow from them), and, when the first
-//     pass's sums fit a row of sole support, the rows at the least and
-//     the largest x;
+//     the trend in run order follow from them), and the rows at the
+//     least and the largest x (a row of sole support);
 //  3. ThirdPass: the flags and the flagged rows, the largest Cook's
 //     distance, the leave-one-out extremes, the quadratic's residual sum
 //     and the density grids, with the refined line;

@@ -57,7 +57,7 @@ type QueryInfo struct {
 }
 
 // Order is how ReadQuery orders and hashes rows, for the report.
-const Order = "rows ordered by every result column in turn (numbers, dates and timestamps by value, booleans false first, text bytewise as COLLATE \"C\" orders it, any other type by its text output, bytewise); SHA-256 over each row's cells in PostgreSQL's text output (UTC, ISO dates), tab-separated, newline-ended, NULL as \\N, backslash, tab, newline and carriage return escaped as COPY's text format does"
+const Order = "rows ordered by every result column in turn (numbers, dates and timestamps by value, booleans false first, text bytewise as COLLATE \"C\" orders it, any other type by its text output, bytewise), then rows equal in all of them by each float's zero as text (-0 before 0) and each numeric's scale (1.0 before 1.00); SHA-256 over each row's cells in PostgreSQL's text output (UTC, ISO dates), tab-separated, newline-ended, NULL as \\N, backslash, tab, newline and carriage return escaped as COPY's text format does"
 
 // statement is the statement ReadQuery runs for q, the result ordered by
 // all n columns and limited to limit rows.
@@ -204,11 +204,11 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		}
 		c.group = c.text && slices.Contains(opts.Groups, c.name)
 	}
-	order := make([]string, len(names))
+	oids := make([]uint32, len(desc.Fields))
 	for i, f := range desc.Fields {
-		order[i] = orderKey(i, names, f.DataTypeOID)
+		oids[i] = f.DataTypeOID
 	}
-	stmt := "SELECT * FROM (" + inner + "\n) AS bivar_q ORDER BY " + strings.Join(order, ", ") + " LIMIT " + strconv.Itoa(lim.MaxRows+1)
+	stmt := "SELECT * FROM (" + inner + "\n) AS bivar_q(" + strings.Join(orderAliases(len(oids)), ", ") + ") ORDER BY " + strings.Join(orderKeys(oids), ", ") + " LIMIT " + strconv.Itoa(lim.MaxRows+1)
 	info := &QueryInfo{ServerVersion: conn.PgConn().ParameterStatus("server_version"), Statement: stmt, RanAt: time.Now().UTC(), Columns: len(names), Names: names}
 	rows, err := tx.Query(ctx, stmt, pgx.QueryResultFormats{pgx.TextFormatCode})
 	if err != nil {
@@ -384,35 +384,51 @@ func appendCopyText(b, v []byte) []byte {
 	return b
 }
 
-// orderKey is ReadQuery's ORDER BY key for result column i of type oid:
-// its position for the types PostgreSQL orders by value the same way on
-// every server (numbers, dates, timestamps, booleans, "char", name);
-// text, varchar and char bytewise (COLLATE "C"), so that neither the
-// order nor the hash over it depends on the server's collation or its
-// version (a new version of the system's collation library may reorder
-// text); any other type by its text output, bytewise, since some (json,
-// point, xml) have no order of their own. A column whose name another
-// column of the result shares cannot be named, and keeps its position.
-func orderKey(i int, names []string, oid uint32) string {
-	pos := strconv.Itoa(i + 1)
-	collatable := oid == 25 || oid == 1043 || oid == 1042 // text varchar bpchar
-	if !collatable && pgKinds[oid] != pgOther {
-		return pos
+// orderAliases are the names ReadQuery gives the result's n columns in
+// its statement (bivar_c1, bivar_c2, …), so that every column can be
+// named in the ORDER BY, those of a result with two columns of one name
+// too; the rows are read by position, so the names do not reach the
+// table.
+func orderAliases(n int) []string {
+	a := make([]string, n)
+	for i := range a {
+		a[i] = "bivar_c" + strconv.Itoa(i+1)
 	}
-	n := 0
-	for _, name := range names {
-		if name == names[i] {
-			n++
+	return a
+}
+
+// orderKeys are ReadQuery's ORDER BY keys for result columns of the types
+// oids (see Order): each column's position for the types PostgreSQL orders
+// by value the same way on every server (numbers, dates, timestamps,
+// booleans, "char", name); text, varchar and char bytewise (COLLATE "C"),
+// so that neither the order nor the hash over it depends on the server's
+// collation or its version (a new version of the system's collation
+// library may reorder text); any other type by its text output, bytewise,
+// since some (json, point, xml) have no order of their own. Then, for rows
+// equal in every key whose text still differs, which the hash would see
+// in the server's order (an independent review found both): a float's
+// zero by its text (0 and -0 are equal as numbers) and a numeric's scale
+// (1.0 and 1.00 are equal as numbers).
+func orderKeys(oids []uint32) []string {
+	var keys, ties []string
+	for i, oid := range oids {
+		col := "bivar_q.bivar_c" + strconv.Itoa(i+1)
+		switch {
+		case oid == 25 || oid == 1043 || oid == 1042: // text varchar bpchar
+			keys = append(keys, col+` COLLATE "C"`)
+		case pgKinds[oid] == pgOther:
+			keys = append(keys, "CAST("+col+` AS text) COLLATE "C"`)
+		default:
+			keys = append(keys, strconv.Itoa(i+1))
+		}
+		switch oid {
+		case 700, 701: // float4 float8
+			ties = append(ties, "CASE WHEN "+col+" = 0 THEN CAST("+col+` AS text) END COLLATE "C"`)
+		case 1700: // numeric
+			ties = append(ties, "scale("+col+")")
 		}
 	}
-	if n > 1 {
-		return pos
-	}
-	col := "bivar_q." + pgx.Identifier{names[i]}.Sanitize()
-	if !collatable {
-		col = "CAST(" + col + " AS text)"
-	}
-	return col + " COLLATE \"C\""
+	return append(keys, ties...)
 }
 
 // pgNumberOf reads a number, date or timestamp in PostgreSQL's text

@@ -238,3 +238,23 @@ func TestPushdownManyFlagged(t *testing.T) {
 		t.Errorf("r without the flagged rows is NaN")
 	}
 }
+
+// TestPushdownBackslashLevel: a group level holding a backslash is read
+// and matched on a server whose standard_conforming_strings is off (set
+// here for the connection), where '…' literals take backslash escapes
+// (from an independent review).
+func TestPushdownBackslashLevel(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdslash", "CREATE TABLE pdslash (x float8, y float8, g text)",
+		`INSERT INTO pdslash SELECT i, 0.5 * i + sin(i * 1.3247), CASE WHEN i % 2 = 0 THEN 'a\b' ELSE 'c' END FROM generate_series(1, 40) i`)
+	t.Setenv("BIVAR_TEST_DB", url+"&standard_conforming_strings=off")
+	r, err := runManifest(t, t.TempDir(), "[[dataset]]\nid = \"d\"\ntable = \"pdslash\"\nconnection = \"BIVAR_TEST_DB\"\nmax_rows = 10\n"+
+		"[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\n")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := r.Studies[0]
+	if s.Error != nil || s.Pushdown == nil || len(s.Groups) != 2 || s.Groups[0].Group != `a\b` || s.Groups[0].N != 20 {
+		t.Errorf("error %s; pushed down %v; groups %+v", errText(s.Error), s.Pushdown != nil, s.Groups)
+	}
+}

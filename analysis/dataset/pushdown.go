@@ -115,7 +115,12 @@ const sessionStatements = 12
 //     the last digits of the figures would change from run to run (found
 //     by an independent review on 10⁶ rows: the Durbin–Watson statistic
 //     2.1759436819274667 and …4627 in two runs).
-var sessionSettings = []string{"SET LOCAL max_parallel_workers_per_gather = 0", "SET LOCAL work_mem = '256MB'", "SET LOCAL synchronize_seqscans = off"}
+//   - standard conforming strings (on by default since PostgreSQL 9.1):
+//     the statements write text, a group level among them, as '…' with
+//     quotes doubled (textLit), which a server set otherwise would read
+//     with backslash escapes (from an independent review).
+var sessionSettings = []string{"SET LOCAL max_parallel_workers_per_gather = 0", "SET LOCAL work_mem = '256MB'", "SET LOCAL synchronize_seqscans = off",
+	"SET LOCAL standard_conforming_strings = on"}
 
 // jitSettings, on PostgreSQL 11 and later (the servers that have JIT
 // compilation): a statement whose estimated cost passes 200 000 is, when

@@ -58,7 +58,7 @@ func CompareGroupLines[L int | int32](x, y []float64, group []L) GroupLines {
 	type sums struct {
 		n             int
 		sx, sy        float64 // pass 1
-		mx, my        float64 // pass 1's means, then corrected by pass 2's cx, cy
+		mx, my        float64 // pass 1's means (the corrected mean is mx + cx/n)
 		cx, cy        float64 // pass 2: Σ of the deviations from pass 1's means
 		gxx, gyy, gxy float64 // pass 2, about the group's means
 		used          bool

@@ -934,19 +934,34 @@ func combine(a, b stats.Moments) stats.Moments {
 // grouping 10⁷ rows by a continuous x would cost the server a hash table
 // of 10⁷ entries for a test that is then not reported, so the sample
 // decides first: the test runs, exactly over every row and with the
-// in-memory rule, where x takes at most half as many values in the sample
-// as the sample has rows (when the sample is every row, that is the
-// in-memory rule itself), and is otherwise left out with the sample's
-// count as the reason.
+// in-memory rule, unless x takes more than half as many values in the
+// sample as the sample has rows (when the sample is every row, that is
+// the in-memory rule itself) and nine in ten of the sample's rows hold a
+// value no other of them holds (x continuous, or on some 190 000 or more
+// equally frequent values: e^(−20 000/m) ≥ 0.9); then it is left out with
+// the sample's counts as the reason. The second condition came from an
+// independent review: with the first alone, x on 25 000 values of 60 000
+// rows was taken as continuous.
 func pushedLackOfFit(p *dataset.Prepared, fit dataset.Fit, sample []dataset.SampleRow, n int, d *report.Diagnostics, exact func(...string), omit func(fig, why string)) error {
 	xs := make([]float64, len(sample))
 	for i, r := range sample {
 		xs[i] = r.Num[0]
 	}
 	slices.Sort(xs)
-	levels := len(slices.Compact(xs))
-	if 2*levels > len(sample) {
-		omit("lack-of-fit test", fmt.Sprintf("x takes %d values in the sample of %d rows, more than half as many: taken as continuous, where the test is not reported (in memory it is reported where x takes at most half as many values as there are rows)", levels, len(sample)))
+	levels, singles := 0, 0 // values in the sample, and those one row holds
+	for i := 0; i < len(xs); {
+		j := i + 1
+		for j < len(xs) && xs[j] == xs[i] {
+			j++
+		}
+		levels++
+		if j == i+1 {
+			singles++
+		}
+		i = j
+	}
+	if 2*levels > len(sample) && 10*singles >= 9*len(sample) {
+		omit("lack-of-fit test", fmt.Sprintf("in the sample of %d rows x takes %d values, %d of them held by one row: taken as continuous, where the test is not reported (in memory it is reported where x takes at most half as many values as there are rows)", len(sample), levels, singles))
 		return nil
 	}
 	m, pe, lof, err := p.LackOfFit(fit)

@@ -258,3 +258,23 @@ func TestPushdownBackslashLevel(t *testing.T) {
 		t.Errorf("error %s; pushed down %v; groups %+v", errText(s.Error), s.Pushdown != nil, s.Groups)
 	}
 }
+
+// TestPushdownLackOfFitManyLevels: x on 25 000 values of 60 000 rows
+// (each two or three times): more values in the sample of 20 000 than
+// half its rows, yet the study in memory reports the test (at most half
+// as many values as rows), and so does the study pushed down, with the
+// same F and p (the case is an independent review's).
+func TestPushdownLackOfFitManyLevels(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdlofm", "CREATE TABLE pdlofm (id text, x float8, y float8)",
+		// Sines of multiples of an irrational step, reproducible on any server.
+		`INSERT INTO pdlofm SELECT 'r' || i, 5 + 0.01 * (i % 25000), 2 + 0.3 * (5 + 0.01 * (i % 25000)) + 0.01 * (0.01 * (i % 25000))^2 + sin(i * 1.3247 + 0.5)
+		  FROM generate_series(1, 60000) i`)
+	mem, pushed := runBoth(t, url, "pdlofm", "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n", 10)
+	m, p := mem.Studies[0], pushed.Studies[0]
+	bothRan(t, m, p)
+	if m.Diagnostics.LackOfFit == nil || p.Pushdown.Sample >= m.N {
+		t.Fatalf("the test data lost their point: lack of fit in memory %+v, sample %d of %d rows", m.Diagnostics.LackOfFit, p.Pushdown.Sample, m.N)
+	}
+	agree(t, "s", exactFigures(p), exactFigures(m), 1e-9)
+}

@@ -115,12 +115,20 @@ const sessionStatements = 12
 //     the last digits of the figures would change from run to run (found
 //     by an independent review on 10⁶ rows: the Durbin–Watson statistic
 //     2.1759436819274667 and …4627 in two runs).
+//   - no sort where hashing will do (enable_sort off, which only weighs
+//     against a sort: the run-order pass still sorts its blocks). The
+//     planner otherwise groups by sorting or by hashing as its statistics
+//     say, and an ANALYZE between two runs on the same rows (autovacuum
+//     runs one of its own) turned the second pass's grouping by level
+//     from one into the other, so the rows were summed in another order
+//     and the last digits changed (TestPushdownRerun, with an ANALYZE
+//     between its runs, fails without);
 //   - standard conforming strings (on by default since PostgreSQL 9.1):
 //     the statements write text, a group level among them, as '…' with
 //     quotes doubled (textLit), which a server set otherwise would read
 //     with backslash escapes (from an independent review).
 var sessionSettings = []string{"SET LOCAL max_parallel_workers_per_gather = 0", "SET LOCAL work_mem = '256MB'", "SET LOCAL synchronize_seqscans = off",
-	"SET LOCAL standard_conforming_strings = on"}
+	"SET LOCAL standard_conforming_strings = on", "SET LOCAL enable_sort = off"}
 
 // jitSettings, on PostgreSQL 11 and later (the servers that have JIT
 // compilation): a statement whose estimated cost passes 200 000 is, when
@@ -791,6 +799,20 @@ func (p *Prepared) First(maxLevels int, print []string) (*Counts, []GroupSums, e
 	var hashSum big.Int
 	extra := make([]int, len(sel)) // the print's own NULL counts, by result column
 	nullGroup := 0
+	// The levels pooled in order of their stored value (NULL first), not
+	// in the order the server returns them, which depends on its plan and
+	// so on the table's statistics (TestPushdownRerun).
+	slices.SortStableFunc(r, func(a, b []any) int {
+		switch {
+		case a[0] == nil && b[0] == nil:
+			return 0
+		case a[0] == nil:
+			return -1
+		case b[0] == nil:
+			return 1
+		}
+		return strings.Compare(Text(a[0]), Text(b[0]))
+	})
 	for _, v := range r {
 		rows, ok := int(Num(v[1])), int(Num(v[2]))
 		c.Rows += rows
@@ -1387,6 +1409,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		return a
 	}
 	var sus []ranked
+	var sq []float64 // the cells' sums of the quadratic's squared residuals
 	type extCell struct {
 		i, j   int
 		lo, hi float64 // the least and the largest leave-one-out r
@@ -1453,11 +1476,19 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		if x := Num(v[14]); !math.IsNaN(x) {
 			th.LooSMax = hi(th.LooSMax, x)
 		}
-		th.SQ2 += Num(v[15])
+		sq = append(sq, Num(v[15]))
 		return nil
 	})
 	if err != nil {
 		return nil, err
+	}
+	// Added in ascending order, not in the order the server returns the
+	// cells, which depends on its plan and so on its statistics (an
+	// ANALYZE between two runs on the same rows changed the last digits:
+	// TestPushdownRerun).
+	slices.Sort(sq)
+	for _, v := range sq {
+		th.SQ2 += v
 	}
 	for _, c := range cells {
 		if c.lo == th.LooRMin || c.hi == th.LooRMax {
@@ -1523,9 +1554,11 @@ func (p *Prepared) WithoutFlagged(f Fit) (*Kept, error) {
 // a test of exact replicates reportable where in memory it is not; found
 // by an independent review), its ē_g by avg. One
 // row comes back whatever the levels; the grouping costs a hash table of
-// m entries, so call it where m is known to be small.
+// m entries, so call it where m is known to be small. The levels' sums
+// are added in order of x, not in the order the grouping gives them,
+// which depends on the plan and so on the table's statistics.
 func (p *Prepared) LackOfFit(f Fit) (m int, pureError, lackOfFit float64, err error) {
-	r, err := p.s.rows("SELECT count(*), sum(ss), sum(ng * (me * me)) FROM (SELECT count(*) AS ng, avg(e) AS me, CASE WHEN min(e) = max(e) THEN 0 ELSE regr_syy(e, x) END AS ss FROM " +
+	r, err := p.s.rows("SELECT count(*), sum(ss ORDER BY x), sum(ng * (me * me) ORDER BY x) FROM (SELECT x, count(*) AS ng, avg(e) AS me, CASE WHEN min(e) = max(e) THEN 0 ELSE regr_syy(e, x) END AS ss FROM " +
 		p.rowsLine(f, false) + " GROUP BY x) AS bivar_g")
 	if err != nil {
 		return 0, 0, 0, err
@@ -1543,6 +1576,9 @@ func (p *Prepared) LackOfFit(f Fit) (m int, pureError, lackOfFit float64, err er
 // scripts/pushdown-bench.sh, PostgreSQL 15), in five pairs run back to
 // back, this took a median 1.3 s less of the server's CPU (7.6 to 11.7 s
 // against 9.4 to 13.4 s; the machine's speed drifted between pairs).
+// The second level adds each cell's sq in ascending order, not in the
+// order the first level's grouping returns the groups, which depends on
+// the plan and so on the table's statistics (TestPushdownRerun).
 func twoLevel(k, o []string, dist, sq, src string) string {
 	var in, ks, ocs []string
 	for i, e := range k {
@@ -1556,7 +1592,7 @@ func twoLevel(k, o []string, dist, sq, src string) string {
 	inner := "SELECT " + strings.Join(in, ", ") + ", count(*) AS n, max(" + dist + ") AS md, min(loor) AS lr0, max(loor) AS lr1, min(loos) AS ls0, max(loos) AS ls1, " +
 		sq + " AS sq FROM " + src + " GROUP BY " + strings.Join(append(slices.Clone(k), o...), ", ")
 	sel := []string{"GROUPING(" + strings.Join(ks, ", ") + ")", "0", ks[0], ks[1], ks[2], ks[3], ocs[0], ocs[1], ks[4],
-		"CAST(sum(n) AS bigint)", "max(md)", "min(lr0)", "max(lr1)", "min(ls0)", "max(ls1)", "sum(sq)"}
+		"CAST(sum(n) AS bigint)", "max(md)", "min(lr0)", "max(lr1)", "min(ls0)", "max(ls1)", "sum(sq ORDER BY sq)"}
 	sel = append(sel, ks[5:]...)
 	return "SELECT " + strings.Join(sel, ", ") + " FROM (" + inner + ") AS bivar_c GROUP BY GROUPING SETS ((" + strings.Join(ks, ", ") + "), (" + strings.Join(ocs, ", ") + "))"
 }

@@ -299,7 +299,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// far more than any tolerance, 99% at 10⁶ rows near 10⁹, found by an
 	// independent review; the two counts cost the pass little.)
 	b1 := c.Sxy / c.Sxx
-	ends := &[2]float64{c.Min[0], c.Max[0]}
+	ends := [2]float64{c.Min[0], c.Max[0]}
 	sums, err := p.Second(c.Mean, b1, ends, gs)
 	if err != nil {
 		return s, err

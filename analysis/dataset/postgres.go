@@ -59,8 +59,7 @@ type QueryInfo struct {
 // Order is how ReadQuery orders and hashes rows, for the report.
 const Order = "rows ordered by every result column in turn (numbers, dates and timestamps by value, booleans false first, text bytewise as COLLATE \"C\" orders it, any other type by its text output, bytewise), then rows equal in all of them by each float's zero as text (-0 before 0) and each numeric's scale (1.0 before 1.00); SHA-256 over each row's cells in PostgreSQL's text output (UTC, ISO dates), tab-separated, newline-ended, NULL as \\N, backslash, tab, newline and carriage return escaped as COPY's text format does"
 
-// statement is the statement ReadQuery runs for q, the result ordered by
-// all n columns and limited to limit rows.
+// inner is q's rows as SQL: its query, or its table with its filter.
 func (q Query) inner() string {
 	if q.SQL != "" {
 		return strings.TrimRight(strings.TrimSpace(q.SQL), "; \t\r\n")

@@ -925,7 +925,7 @@ type Sums struct {
 	SO, SOO, SOE, SOX float64
 	EMin, EMax        float64
 	// AtEnds counts the rows whose x is the least and the largest x (the
-	// ends Second was given; −1 without them).
+	// ends Second was given).
 	AtEnds [2]int
 	// Groups are the levels' means and centred sums of x and y by the
 	// same corrected two-pass algorithm about each level's first-pass
@@ -934,8 +934,8 @@ type Sums struct {
 }
 
 // Second runs the second pass with the first pass's means and slope b.
-// With ends (the least and the largest x), it also counts the rows at
-// each end (Sums.AtEnds): x takes only those two values when the counts
+// It also counts the rows at each of the ends, the least and the largest
+// x (Sums.AtEnds): x takes only those two values when the counts
 // add up to the complete cases, and a value held by one row gives that
 // row leverage 1 (sole support; see Fit.Sole).
 //
@@ -946,7 +946,7 @@ type Sums struct {
 // x̄ or ȳ is far from 0 (with x near 10⁹ and a spread of 1, a level's
 // slope by parts in 10⁸ and the F of the slopes' comparison by 2.5·10⁻⁶,
 // TestPushdownAdversarial).
-func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64, levels []GroupSums) (*Sums, error) {
+func (p *Prepared) Second(mean []float64, b float64, ends [2]float64, levels []GroupSums) (*Sums, error) {
 	k := len(p.NumCols)
 	nc := k
 	if p.spec.Order != "" {
@@ -960,9 +960,7 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64, levels []
 	if p.spec.Order != "" {
 		dev = append(dev, "("+p.num[k-1]+" - "+lit(mean[k-1])+") AS dord")
 	}
-	if ends != nil {
-		dev = append(dev, p.num[0]+" AS xv")
-	}
+	dev = append(dev, p.num[0]+" AS xv")
 	d := func(i int) string { return "d" + strconv.Itoa(i) }
 	var sel []string
 	var pairs []sumPair
@@ -984,11 +982,7 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64, levels []
 	} else {
 		sel = append(sel, "0", "0", "0", "0")
 	}
-	if ends != nil {
-		sel = append(sel, "count(*) FILTER (WHERE xv = "+lit(ends[0])+")", "count(*) FILTER (WHERE xv = "+lit(ends[1])+")")
-	} else {
-		sel = append(sel, "-1", "-1")
-	}
+	sel = append(sel, "count(*) FILTER (WHERE xv = "+lit(ends[0])+")", "count(*) FILTER (WHERE xv = "+lit(ends[1])+")")
 	from, group := p.from(), ""
 	grouped := p.group != "" && len(levels) > 0
 	if grouped {
@@ -1047,9 +1041,7 @@ func (p *Prepared) Second(mean []float64, b float64, ends *[2]float64, levels []
 			s.SE3, s.SE4, s.SXE2, s.SXE3 = s.SE3+o.SE3, s.SE4+o.SE4, s.SXE2+o.SXE2, s.SXE3+o.SXE3
 			s.SO, s.SOO, s.SOE, s.SOX = s.SO+o.SO, s.SOO+o.SOO, s.SOE+o.SOE, s.SOX+o.SOX
 			s.EMin, s.EMax = math.Min(s.EMin, o.EMin), math.Max(s.EMax, o.EMax)
-			if s.AtEnds[0] >= 0 {
-				s.AtEnds[0], s.AtEnds[1] = s.AtEnds[0]+o.AtEnds[0], s.AtEnds[1]+o.AtEnds[1]
-			}
+			s.AtEnds[0], s.AtEnds[1] = s.AtEnds[0]+o.AtEnds[0], s.AtEnds[1]+o.AtEnds[1]
 		}
 		// The level's sums about its own first-pass means, and its means'
 		// offsets from the dataset's (Σ d_x, Σ d_y over the level).

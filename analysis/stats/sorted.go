@@ -283,11 +283,9 @@ func summarySorted(v []float64, at func(int) float64) Summary {
 // sorted ends) it is PearsonMoments(m, conf), the same figures without
 // another pass over the pairs; else Pearson's.
 func (s *Sorted) Pearson(m Moments, conf float64) Correlation {
-	n := s.Len()
-	if n >= 2 && m.N == n {
-		ax := max(math.Abs(s.X[0]), math.Abs(s.X[n-1]))
-		ay := max(math.Abs(s.Y[s.ByY[0]]), math.Abs(s.Y[s.ByY[n-1]]))
-		if shiftFor(ax) == 0 && shiftFor(ay) == 0 {
+	if n := s.Len(); n >= 2 && m.N == n {
+		x0, x1, y0, y1 := s.ends()
+		if endsShift(x0, x1) == 0 && endsShift(y0, y1) == 0 {
 			return PearsonMoments(m, conf)
 		}
 	}
@@ -299,6 +297,10 @@ func (s *Sorted) ends() (x0, x1, y0, y1 float64) {
 	n := s.Len()
 	return s.X[0], s.X[n-1], s.Y[s.ByY[0]], s.Y[s.ByY[n-1]]
 }
+
+// endsShift is pow2Shift of a column whose least and largest values are
+// lo and hi: its scaling depends only on the largest magnitude.
+func endsShift(lo, hi float64) int { return shiftFor(max(math.Abs(lo), math.Abs(hi))) }
 
 // finite reports whether every value is neither NaN nor ±Inf.
 func finite(v ...float64) bool {
@@ -319,7 +321,7 @@ func (s *Sorted) LineSummary(conf float64) (LineFit, error) {
 	if s.Len() >= 2 {
 		x0, x1, y0, y1 := s.ends()
 		if finite(x0, x1, y0, y1) && x0 != x1 {
-			kx, ky := shiftFor(max(math.Abs(x0), math.Abs(x1))), shiftFor(max(math.Abs(y0), math.Abs(y1)))
+			kx, ky := endsShift(x0, x1), endsShift(y0, y1)
 			reg, err := fitShifted([][]float64{s.X}, s.Y, conf, false, []int{kx}, ky)
 			if err != nil {
 				return LineFit{}, err
@@ -339,7 +341,7 @@ func (s *Sorted) PolynomialSummary(degree int, conf float64) (Regression, error)
 		x0, x1, y0, y1 := s.ends()
 		if finite(x0, x1, y0, y1) && distinctAtMost(s.X, degree+1) == degree+1 {
 			c, _ := meanSS(s.X)
-			return polySummary(s.X, s.Y, degree, conf, c, max(math.Abs(x0-c), math.Abs(x1-c)), shiftFor(max(math.Abs(y0), math.Abs(y1))))
+			return polySummary(s.X, s.Y, degree, conf, c, max(math.Abs(x0-c), math.Abs(x1-c)), endsShift(y0, y1))
 		}
 	}
 	return PolynomialSummary(s.X, s.Y, degree, conf)

@@ -174,8 +174,8 @@ func newRankScratch(n int) *rankScratch {
 func ranksInto(r, x []float64, s *rankScratch) {
 	n := len(x)
 	keys, idx := s.keys[:n], s.idx[:n]
-	for i, v := range x {
-		keys[i] = floatKey(v)
+	orderKeys(x, keys)
+	for i := range idx {
 		idx[i] = int32(i)
 	}
 	radixSort(keys, idx, s.kbuf, s.ibuf)

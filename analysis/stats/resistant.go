@@ -269,8 +269,8 @@ func stableArgsort(v []float64) []int {
 	}
 	keys := hugepage.Make[uint64](n)
 	idx := hugepage.Make[int32](n)
-	for i, e := range v {
-		keys[i] = floatKey(e)
+	orderKeys(v, keys)
+	for i := range idx {
 		idx[i] = int32(i)
 	}
 	radixSort(keys, idx, hugepage.Make[uint64](n), hugepage.Make[int32](n))

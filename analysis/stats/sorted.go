@@ -10,6 +10,7 @@ package stats
 // from canonical positions.
 
 import (
+	"cmp"
 	"math"
 	"math/bits"
 	"math/rand/v2"
@@ -36,7 +37,9 @@ type Sorted struct {
 
 // NewSorted returns the pairs (x[i], y[i]) in canonical order. A stable
 // LSD radix sort of the positions by x (sortkey.go), then an ordering of
-// each run of equal x by tieKey(y) (orderTies), give the canonical order; a
+// each run of equal x by tieKey(y) (orderTies), give the canonical order
+// (where x is on a decimal grid with many ties, one sort by x and the high
+// bits of tieKey(y) does both, see tieBits); a
 // second radix sort (by y) gives ByY: O(n) time where runs are short; 24
 // bytes per pair are kept and 24 more are scratch while it runs.
 //
@@ -52,23 +55,113 @@ func NewSorted(x, y []float64) *Sorted {
 	n := len(x)
 	keys, kbuf := hugepage.Make[uint64](n), hugepage.Make[uint64](n)
 	row, ibuf := hugepage.Make[int32](n), hugepage.Make[int32](n)
-	for i, v := range x {
-		keys[i] = floatKey(v)
+	rd := orderKeys(x, keys)
+	// Where x is on a decimal grid of fewer steps than half the pairs, so
+	// that runs of equal x are the rule, the high bits of tieKey(y) go
+	// below x's key, and one sort orders by both (tieSort).
+	tb := tieBits(rd, n)
+	if tb > 0 {
+		for i, v := range y {
+			keys[i] = keys[i]<<tb | tieKey(v)>>(64-tb)
+		}
+	}
+	for i := range row {
 		row[i] = int32(i)
 	}
 	radixSort(keys, row, kbuf, ibuf)
 	s := &Sorted{X: hugepage.Make[float64](n), Y: hugepage.Make[float64](n), Row: row, ByY: hugepage.Make[int32](n)}
-	for k, i := range row {
-		s.X[k], s.Y[k] = x[i], y[i]
+	// x in order is read back from the sorted keys, in order, rather than
+	// gathered from x at random; a zero among x may be −0, which the keys
+	// hold as +0, so then x is gathered.
+	if slices.ContainsFunc(x, negZero) {
+		for k, i := range row {
+			s.X[k] = x[i]
+		}
+	} else {
+		for k, key := range keys {
+			s.X[k] = rd.at(key >> tb)
+		}
 	}
-	s.orderTies(keys, kbuf, ibuf)
-	for k, v := range s.Y {
-		keys[k] = floatKey(v)
+	for k, i := range row {
+		s.Y[k] = y[i]
+	}
+	if tb > 0 {
+		s.tieSort(keys)
+	} else {
+		s.orderTies(keys, kbuf, ibuf)
+	}
+	orderKeys(s.Y, keys)
+	for k := range s.ByY {
 		s.ByY[k] = int32(k)
 	}
 	radixSort(keys, s.ByY, kbuf, ibuf)
 	return s
 }
+
+// tieBits is how many high bits of tieKey(y) NewSorted puts below the
+// decimal keys of x (rd), 0 for none: where x takes at most n/2 steps of
+// its grid, each run of equal x holds n/steps pairs or more on average;
+// enough bits of tieKey to split a run of that length into groups of
+// about one pair (the length's bits and four more) let the radix sort
+// order the runs, leaving tieSort only the rare pairs whose bits agree.
+// Not where the keys would need more than four digits of the sort (x
+// with more than 2⁴⁴ steps, or runs too long): orderTies then orders the
+// runs after the sort by x.
+func tieBits(rd keyReader, n int) uint {
+	if rd.scale == 0 || rd.span >= uint64(n/2) {
+		return 0
+	}
+	steps := rd.span + 1
+	tb := uint(bits.Len64(uint64(n)/steps)) + 4
+	if uint(bits.Len64(rd.span))+tb > 4*digitBits {
+		return 0
+	}
+	return tb
+}
+
+// tieSort puts right the pairs NewSorted's sort by x and the high bits of
+// tieKey(y) left in one group (keys, in canonical order, equal): each such
+// group, which holds one x, is ordered by the whole tieKey(y), stably, by
+// insertion (the groups hold a pair or two on average). The order is then
+// orderTies': x, then tieKey(y), then the caller's order.
+func (s *Sorted) tieSort(keys []uint64) {
+	n := len(keys)
+	for lo := 0; lo < n; {
+		hi := lo + 1
+		for hi < n && keys[hi] == keys[lo] {
+			hi++
+		}
+		if hi-lo > 1 {
+			ys, rs := s.Y[lo:hi], s.Row[lo:hi]
+			if hi-lo > runSortMax/8 {
+				// A long group (a run far longer than the average):
+				// a stable sort of its places.
+				idx := make([]int, hi-lo)
+				for j := range idx {
+					idx[j] = j
+				}
+				slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(tieKey(ys[a]), tieKey(ys[b])) })
+				y2, r2 := slices.Clone(ys), slices.Clone(rs)
+				for j, p := range idx {
+					ys[j], rs[j] = y2[p], r2[p]
+				}
+			} else {
+				for j := 1; j < len(ys); j++ {
+					v, r, k := ys[j], rs[j], tieKey(ys[j])
+					i := j
+					for ; i > 0 && tieKey(ys[i-1]) > k; i-- {
+						ys[i], rs[i] = ys[i-1], rs[i-1]
+					}
+					ys[i], rs[i] = v, r
+				}
+			}
+		}
+		lo = hi
+	}
+}
+
+// negZero reports whether v is −0.
+func negZero(v float64) bool { return v == 0 && math.Signbit(v) }
 
 // orderTies puts each run of equal x, which the stable sort by x left in
 // the caller's order, in ascending tieKey(y), equal pairs still in the
@@ -549,9 +642,10 @@ func (s *Sorted) OrderOf(v []float64) []int32 {
 	pos := hugepage.Make[int32](n)
 	keys := hugepage.Make[uint64](n)
 	for k, i := range s.Row {
-		keys[k] = floatKey(v[i])
+		keys[k] = math.Float64bits(v[i])
 		pos[k] = int32(k)
 	}
+	orderKeysInPlace(keys)
 	radixSort(keys, pos, hugepage.Make[uint64](n), hugepage.Make[int32](n))
 	return pos
 }

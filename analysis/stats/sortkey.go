@@ -8,6 +8,7 @@ package stats
 
 import (
 	"math"
+	"math/bits"
 	"runtime"
 	"sync"
 
@@ -39,6 +40,116 @@ func keyFloat(k uint64) float64 {
 	return math.Float64frombits(^k)
 }
 
+// orderKeys fills keys (len(v)) with keys whose unsigned order is the
+// numeric order of v (no NaN), equal values getting equal keys, as floatKey
+// gives them; and, where every value of v is a decimal with at most
+// gridMaxDecimals places (as a gauge's readings are), keys that fit in few
+// bits, so that radixSort, which sorts only the digits that vary, makes two
+// or three passes instead of six. It returns how to read a value back from
+// its key (keyReader.at).
+//
+// The decimal keys: with s = 10^d, each v is read as q = round(v·s) (to
+// nearest, ties to even: one instruction on most processors) and
+// kept only if q/s, rounded to a double, is v again (and |v·s| < 2⁵²); the
+// key is q − min q. Division by s rounded to nearest is monotone in q, so
+// v < v' gives q < q' (q ≥ q' would give q/s ≥ q'/s after rounding), and q
+// is a function of v, so equal values (−0 and +0 among them) get equal
+// keys: the keys order v exactly as floatKey's do, and a stable sort by
+// either puts the values in the same order. One value off the grid, or a
+// range of keys past 2⁵⁵ (no pass saved), falls back to floatKey; the
+// places d are found from the first values (gridProbe).
+func orderKeys(v []float64, keys []uint64) keyReader {
+	for i, e := range v {
+		keys[i] = math.Float64bits(e)
+	}
+	return orderKeysInPlace(keys)
+}
+
+// orderKeysInPlace is orderKeys of the values whose bits keys holds
+// (math.Float64bits), each replaced by its key.
+func orderKeysInPlace(keys []uint64) keyReader {
+	if r, ok := gridOf(keys); ok {
+		for i, b := range keys {
+			keys[i] = uint64(int64(math.RoundToEven(math.Float64frombits(b)*r.scale)) - r.lo)
+		}
+		return r
+	}
+	for i, b := range keys {
+		keys[i] = floatKey(math.Float64frombits(b))
+	}
+	return keyReader{}
+}
+
+// gridMaxDecimals is the most decimal places orderKeys tries, and
+// gridProbe how many of the first values choose the places.
+const (
+	gridMaxDecimals = 9
+	gridProbe       = 32
+)
+
+// keyReader reads a value back from an orderKeys key: the decimal grid's
+// scale and least q, or floatKey's inverse where scale is 0.
+type keyReader struct {
+	scale float64
+	lo    int64
+	span  uint64 // the largest key (decimal keys only)
+}
+
+// at returns the value whose key is k (+0 for either zero).
+func (r keyReader) at(k uint64) float64 {
+	if r.scale == 0 {
+		return keyFloat(k)
+	}
+	return float64(int64(k)+r.lo) / r.scale
+}
+
+// gridOf returns the decimal grid of the values whose bits are given, and
+// false where they are not all on a grid of at most gridMaxDecimals places
+// or its keys would span 2⁵⁵ or more.
+func gridOf(bits []uint64) (keyReader, bool) {
+	if len(bits) == 0 {
+		return keyReader{}, false
+	}
+	on := func(b uint64, s float64) (int64, bool) {
+		e := math.Float64frombits(b)
+		t := e * s
+		if !(math.Abs(t) < 1<<52) {
+			return 0, false
+		}
+		q := math.RoundToEven(t)
+		return int64(q), q/s == e
+	}
+	probe := bits[:min(len(bits), gridProbe)]
+	s := 1.0
+	for d := 0; ; d++ {
+		if d > gridMaxDecimals {
+			return keyReader{}, false
+		}
+		ok := true
+		for _, b := range probe {
+			if _, ok = on(b, s); !ok {
+				break
+			}
+		}
+		if ok {
+			break
+		}
+		s *= 10
+	}
+	lo, hi := int64(math.MaxInt64), int64(math.MinInt64)
+	for _, b := range bits {
+		q, ok := on(b, s)
+		if !ok {
+			return keyReader{}, false
+		}
+		lo, hi = min(lo, q), max(hi, q)
+	}
+	if uint64(hi-lo) >= 1<<55 {
+		return keyReader{}, false
+	}
+	return keyReader{scale: s, lo: lo, span: uint64(hi - lo)}, true
+}
+
 // The radix sort's digits: six of 11 bits.
 const (
 	digitBits = 11
@@ -55,8 +166,11 @@ const (
 
 // radixSort sorts keys ascending, applying the same permutation to idx
 // when idx is not nil (len(idx) = len(keys)). It is a stable LSD radix sort
-// (Knuth, TAOCP vol. 3, §5.2.5) with six 11-bit digits: one pass builds all
-// the histograms, and a digit that is the same for every key is skipped.
+// (Knuth, TAOCP vol. 3, §5.2.5) with up to six 11-bit digits: the digits
+// above the highest bit in which the keys differ are left alone (varying;
+// keys from orderKeys' decimal grid leave two or three), one pass builds
+// the histograms of the rest, and a digit that is the same for every key
+// is skipped.
 // kbuf and ibuf are scratch of the same lengths (ibuf may be nil with idx).
 // The sorted data end up in keys and idx.
 //
@@ -80,11 +194,12 @@ func radixSort(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32) {
 // radixSortSerial is radixSort on one goroutine (n ≥ 2).
 func radixSortSerial(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32) {
 	n := len(keys)
+	nd := varying(keys)
 	var count [digits][buckets]int32
-	histograms(keys, &count)
+	histograms(keys, &count, nd)
 	src, dst := keys, kbuf[:n]
 	isrc, idst := idx, ibuf
-	for d := 0; d < digits; d++ {
+	for d := 0; d < nd; d++ {
 		c := &count[d]
 		shift := uint(digitBits * d)
 		if int(c[(src[0]>>shift)&(buckets-1)]) == n {
@@ -116,14 +231,26 @@ func settle(keys []uint64, idx []int32, src []uint64, isrc []int32) {
 	}
 }
 
-// histograms adds to c the histogram of every digit of keys.
-func histograms(keys []uint64, c *[digits][buckets]int32) {
+// histograms adds to c the histogram of each of the low nd digits of keys.
+func histograms(keys []uint64, c *[digits][buckets]int32, nd int) {
 	const mask = buckets - 1
 	for _, k := range keys {
-		for d := 0; d < digits; d++ {
+		for d := 0; d < nd; d++ {
 			c[d][(k>>(digitBits*d))&mask]++
 		}
 	}
+}
+
+// varying returns how many low digits can differ between keys: those up
+// to the highest bit in which some key differs from the first. The digits
+// above are the same in every key and need neither a histogram nor a pass.
+func varying(keys []uint64) int {
+	var diff uint64
+	k0 := keys[0]
+	for _, k := range keys {
+		diff |= k ^ k0
+	}
+	return (bits.Len64(diff) + digitBits - 1) / digitBits
 }
 
 // scatter moves src[lo:hi] (and isrc[lo:hi] when isrc is not nil) to dst
@@ -152,13 +279,11 @@ func scatter(src, dst []uint64, isrc, idst []int32, lo, hi int, shift uint, pos 
 // sortedCopy returns the values of x sorted ascending (x holds no NaN).
 func sortedCopy(x []float64) []float64 {
 	keys := hugepage.Make[uint64](len(x))
-	for i, v := range x {
-		keys[i] = floatKey(v)
-	}
+	rd := orderKeys(x, keys)
 	radixSort(keys, nil, hugepage.Make[uint64](len(x)), nil)
 	out := hugepage.Make[float64](len(x))
 	for i, k := range keys {
-		out[i] = keyFloat(k)
+		out[i] = rd.at(k)
 	}
 	return out
 }
@@ -170,19 +295,20 @@ func radixSortPar(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32, w int
 	share := func(k int) (lo, hi int) { return k * n / w, (k + 1) * n / w }
 	// Which digits vary (the same for any order of the keys): every
 	// worker's histograms of every digit, summed.
+	nd := varying(keys)
 	all := make([][digits][buckets]int32, w)
 	var wg sync.WaitGroup
 	for k := range w {
 		wg.Go(func() {
 			lo, hi := share(k)
-			histograms(keys[lo:hi], &all[k])
+			histograms(keys[lo:hi], &all[k], nd)
 		})
 	}
 	wg.Wait()
 	src, dst := keys, kbuf[:n]
 	isrc, idst := idx, ibuf
 	cnt := make([][buckets]int32, w)
-	for d := 0; d < digits; d++ {
+	for d := 0; d < nd; d++ {
 		shift := uint(digitBits * d)
 		b0 := (src[0] >> shift) & mask
 		var total int32

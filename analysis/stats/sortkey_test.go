@@ -221,3 +221,109 @@ func TestStableArgsort(t *testing.T) {
 		}
 	}
 }
+
+// TestOrderKeysOrderLikeFloatKey checks orderKeys' decimal-grid keys
+// against floatKey, whose order is the IEEE 754 numeric order: for every
+// pair of values the two keys compare alike, and every value reads back
+// from its key. The columns are decimals of 0–9 places (as strconv reads
+// them), with zeros of both signs, a column whose first values are on a
+// coarser grid than the rest, columns off any grid, and magnitudes near the
+// grid's limit of 2⁵² steps.
+func TestOrderKeysOrderLikeFloatKey(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(10, 10))
+	decimal := func(places, scale int) float64 {
+		q := rng.Int64N(2*int64(scale)+1) - int64(scale)
+		v, err := strconv.ParseFloat(strconv.FormatInt(q, 10)+"e-"+strconv.Itoa(places), 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	var cols [][]float64
+	for places := 0; places <= 11; places++ {
+		for _, scale := range []int{3, 1000, 1 << 40, 1 << 51, 1 << 53} {
+			v := make([]float64, 200)
+			for i := range v {
+				v[i] = decimal(places, scale)
+			}
+			cols = append(cols, v)
+		}
+	}
+	late := make([]float64, 100) // the probe sees whole numbers, then tenths
+	for i := range late {
+		late[i] = float64(rng.IntN(50))
+		if i >= gridProbe+5 {
+			late[i] += 0.1 * float64(rng.IntN(10))
+		}
+	}
+	cols = append(cols, late,
+		[]float64{0, math.Copysign(0, -1), 1.5, -2.25, 0, math.Copysign(0, -1)},
+		[]float64{1e-300, 1, 2}, []float64{math.Inf(1), 1, 2}, []float64{0.1, 0.2, 1.0 / 3})
+	for c, v := range cols {
+		keys := make([]uint64, len(v))
+		rd := orderKeys(v, keys)
+		for i := range v {
+			if got := rd.at(keys[i]); got != v[i] {
+				t.Fatalf("column %d: value %v reads back as %v", c, v[i], got)
+			}
+			for j := range v {
+				if cmp.Compare(keys[i], keys[j]) != cmp.Compare(floatKey(v[i]), floatKey(v[j])) {
+					t.Fatalf("column %d: keys order %v and %v unlike their values", c, v[i], v[j])
+				}
+			}
+		}
+	}
+}
+
+// TestNewSortedMatchesStableSort checks NewSorted's order against the
+// standard library's stable sort by x then tieKey(y), on decimal columns
+// (orderKeys' grid keys) and on continuous ones, with −0 among x.
+func TestNewSortedMatchesStableSort(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(11, 11))
+	for trial := 0; trial < 40; trial++ {
+		n := 1 + rng.IntN(5000)
+		if trial < 3 {
+			n = radixParMin + 1000 // the parallel radix sort
+		}
+		x, y := make([]float64, n), make([]float64, n)
+		for i := range x {
+			switch trial % 4 {
+			case 0: // tieBits' path: x on a grid of fewer steps than n/2 …
+				x[i], y[i] = math.Round(rng.NormFloat64()*2000)/1000, math.Round(rng.NormFloat64()*100)/100
+			case 1:
+				x[i], y[i] = float64(rng.IntN(7)-3), rng.NormFloat64()
+			case 2: // … with long groups of equal pairs for tieSort
+				x[i], y[i] = float64(rng.IntN(5)), float64(rng.IntN(3))
+			default: // orderTies' path
+				x[i], y[i] = rng.NormFloat64(), float64(rng.IntN(4))
+			}
+		}
+		if trial%4 == 1 {
+			x[rng.IntN(n)] = math.Copysign(0, -1)
+		}
+		idx := make([]int, n)
+		for i := range idx {
+			idx[i] = i
+		}
+		slices.SortStableFunc(idx, func(a, b int) int {
+			return cmp.Or(cmp.Compare(x[a], x[b]), cmp.Compare(tieKey(y[a]), tieKey(y[b])))
+		})
+		s := NewSorted(x, y)
+		for k, i := range idx {
+			// x compared as numbers: a run of equal x keeps its first
+			// value, so −0 and +0 in one run read alike.
+			if int(s.Row[k]) != i || s.X[k] != x[i] || math.Float64bits(s.Y[k]) != math.Float64bits(y[i]) {
+				t.Fatalf("trial %d (n=%d): canonical position %d holds row %d (%v, %v), want row %d (%v, %v)",
+					trial, n, k, s.Row[k], s.X[k], s.Y[k], i, x[i], y[i])
+			}
+		}
+		for j := 1; j < n; j++ {
+			a, b := s.ByY[j-1], s.ByY[j]
+			if s.Y[a] > s.Y[b] || s.Y[a] == s.Y[b] && a > b {
+				t.Fatalf("trial %d: ByY out of order at %d", trial, j)
+			}
+		}
+	}
+}

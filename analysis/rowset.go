@@ -62,13 +62,15 @@ type rowSample struct {
 // a function of the set of rows, not of a seed or of the file's order; for
 // data whose values are not built to collide with the hash it behaves like
 // a simple random sample. One pass keeps the rows whose hash lies below a
-// bound that about 2m rows pass when the hashes are uniform; in the rare
-// case that fewer than m pass the bound is doubled and the pass repeated.
-// Memory is O(m), not O(n).
+// bound that about m + 6√m + 64 rows pass when the hashes are uniform (six
+// standard deviations of that count above m: fewer than m pass about once
+// in 10⁹ studies); in that case the bound is doubled and the pass
+// repeated. Which rows come out does not depend on the bound. Memory is
+// O(m), not O(n).
 func valueSample(xs, ys []float64, m int) rowSample {
 	n := len(xs)
 	keepAll := m <= 0 || m >= n
-	frac := 2*float64(m)/float64(n) + 64/float64(n)
+	frac := (float64(m) + 6*math.Sqrt(float64(m)) + 64) / float64(n)
 	room := n // the rows expected to pass the bound, with some to spare
 	if !keepAll {
 		room = min(n, int(1.25*frac*float64(n))+64)

@@ -33,6 +33,11 @@ type Sorted struct {
 	X, Y []float64 // the pairs in canonical order
 	Row  []int32   // Row[k]: index in the caller's x and y of canonical pair k
 	ByY  []int32   // canonical positions in ascending y; tied y by canonical position (so by x)
+
+	// yNew has bit j set where the j-th smallest y (ByY[j]) differs from
+	// the one before it (and bit 0): where the runs of equal y start in
+	// ByY's order, read without fetching the values.
+	yNew []uint64
 }
 
 // NewSorted returns the pairs (x[i], y[i]) in canonical order. A stable
@@ -95,7 +100,33 @@ func NewSorted(x, y []float64) *Sorted {
 		s.ByY[k] = int32(k)
 	}
 	radixSort(keys, s.ByY, kbuf, ibuf)
+	s.yNew = make([]uint64, (n+63)/64)
+	for j, k := range keys {
+		if j == 0 || k != keys[j-1] {
+			s.yNew[j/64] |= 1 << (j % 64)
+		}
+	}
 	return s
+}
+
+// yRunEnd returns the end of the run of equal y that starts at lo in
+// ByY's order (lo < Len()).
+func (s *Sorted) yRunEnd(lo int) int {
+	n := s.Len()
+	j := lo + 1
+	if j >= n {
+		return n
+	}
+	w := j / 64
+	if word := s.yNew[w] >> (j % 64); word != 0 {
+		return j + bits.TrailingZeros64(word)
+	}
+	for w++; w < len(s.yNew); w++ {
+		if s.yNew[w] != 0 {
+			return w*64 + bits.TrailingZeros64(s.yNew[w])
+		}
+	}
+	return n
 }
 
 // tieBits is how many high bits of tieKey(y) NewSorted puts below the
@@ -457,11 +488,7 @@ func (s *Sorted) ranks() (rx, ry []float64) {
 		lo = hi
 	}
 	for lo := 0; lo < n; {
-		v := s.Y[s.ByY[lo]]
-		hi := lo + 1
-		for hi < n && s.Y[s.ByY[hi]] == v {
-			hi++
-		}
+		hi := s.yRunEnd(lo)
 		avg := float64(lo+1+hi) / 2
 		for _, k := range s.ByY[lo:hi] {
 			ry[k] = avg

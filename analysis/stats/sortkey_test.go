@@ -324,6 +324,18 @@ func TestNewSortedMatchesStableSort(t *testing.T) {
 			if s.Y[a] > s.Y[b] || s.Y[a] == s.Y[b] && a > b {
 				t.Fatalf("trial %d: ByY out of order at %d", trial, j)
 			}
+			if lo := rng.IntN(j); rng.IntN(64) == 0 { // yRunEnd against a plain scan
+				want := lo + 1
+				for want < n && s.Y[s.ByY[want]] == s.Y[s.ByY[lo]] {
+					want++
+				}
+				if got := s.yRunEnd(lo); got != want {
+					t.Fatalf("trial %d: yRunEnd(%d) = %d, want %d", trial, lo, got, want)
+				}
+			}
+			if s.Y[a] != s.Y[b] != (s.yNew[j/64]>>(j%64)&1 == 1) {
+				t.Fatalf("trial %d: a run of equal y starts at %d: %v, values %v and %v", trial, j, s.yNew[j/64]>>(j%64)&1 == 1, s.Y[a], s.Y[b])
+			}
 		}
 	}
 }

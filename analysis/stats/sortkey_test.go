@@ -285,7 +285,7 @@ func TestNewSortedMatchesStableSort(t *testing.T) {
 	for trial := 0; trial < 40; trial++ {
 		n := 1 + rng.IntN(5000)
 		if trial < 3 {
-			n = radixParMin + 1000 // the parallel radix sort
+			n = radixParMin + 1000 // the split radix sort, given four processors or more
 		}
 		x, y := make([]float64, n), make([]float64, n)
 		for i := range x {

@@ -189,20 +189,35 @@ func HTML(w io.Writer, r *report.Report, opts ...Option) error {
 }
 
 func htmlBytes(r *report.Report, opts []Option) ([]byte, error) {
+	p, cfg, err := pageOf(r, opts)
+	if err != nil {
+		return nil, err
+	}
+	return htmlOf(p, cfg)
+}
+
+// pageOf builds r's page (charts drawn, sentences written) with the
+// settings opts give: what both reports show, built once for both.
+func pageOf(r *report.Report, opts []Option) (*page, *config, error) {
 	if r == nil {
-		return nil, fmt.Errorf("no report to render")
+		return nil, nil, fmt.Errorf("no report to render")
 	}
 	cfg, err := newConfig(opts)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	p, err := buildPage(r, cfg)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
+	return p, cfg, nil
+}
+
+// htmlOf is the HTML page of p.
+func htmlOf(p *page, cfg *config) ([]byte, error) {
 	css := pageCSS(cfg.css, p.Title, p.Caution)
 	var b bytes.Buffer
-	err = htmlTmpl.ExecuteTemplate(&b, "page", map[string]any{
+	err := htmlTmpl.ExecuteTemplate(&b, "page", map[string]any{
 		"Page": p, "CSS": htmltemplate.CSS(css), "CSP": csp(css),
 	})
 	if err != nil {
@@ -225,22 +240,21 @@ func Markdown(w io.Writer, r *report.Report, opts ...Option) error {
 }
 
 func markdownBytes(r *report.Report, opts []Option) ([]byte, *page, error) {
-	if r == nil {
-		return nil, nil, fmt.Errorf("no report to render")
-	}
-	cfg, err := newConfig(opts)
+	p, _, err := pageOf(r, opts)
 	if err != nil {
 		return nil, nil, err
 	}
-	p, err := buildPage(r, cfg)
-	if err != nil {
-		return nil, nil, err
-	}
+	b, err := markdownOf(p)
+	return b, p, err
+}
+
+// markdownOf is the Markdown report of p (its figures are figureFiles(p)).
+func markdownOf(p *page) ([]byte, error) {
 	var b bytes.Buffer
 	if err := mdTmpl.ExecuteTemplate(&b, "page", p); err != nil {
-		return nil, nil, fmt.Errorf("markdown report: %w", err)
+		return nil, fmt.Errorf("markdown report: %w", err)
 	}
-	return cleantext.Bytes(squeezeBlank(b.Bytes())), p, nil
+	return cleantext.Bytes(squeezeBlank(b.Bytes())), nil
 }
 
 // File is one file of the report: a slash-separated name relative to the

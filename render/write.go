@@ -35,6 +35,17 @@ func ReportFiles(r *report.Report, formats []string, opts ...Option) ([]File, er
 	}
 	var files []File
 	seen := map[string]bool{}
+	// The page both reports show, built (its charts drawn) once.
+	var p *page
+	var cfg *config
+	built := func() error {
+		if p != nil {
+			return nil
+		}
+		var err error
+		p, cfg, err = pageOf(r, opts)
+		return err
+	}
 	for _, f := range formats {
 		if seen[f] {
 			continue
@@ -42,13 +53,19 @@ func ReportFiles(r *report.Report, formats []string, opts ...Option) ([]File, er
 		seen[f] = true
 		switch f {
 		case "html":
-			b, err := htmlBytes(r, opts)
+			if err := built(); err != nil {
+				return nil, err
+			}
+			b, err := htmlOf(p, cfg)
 			if err != nil {
 				return nil, err
 			}
 			files = append(files, File{Name: HTMLFile, Data: b})
 		case "markdown":
-			b, p, err := markdownBytes(r, opts)
+			if err := built(); err != nil {
+				return nil, err
+			}
+			b, err := markdownOf(p)
 			if err != nil {
 				return nil, err
 			}

@@ -6,6 +6,7 @@ package stats
 
 import (
 	"math"
+	"math/bits"
 	"slices"
 
 	"bivar/internal/hugepage"
@@ -470,35 +471,49 @@ func mergeCount[T uint64 | int32](a, buf []T) int64 {
 // mergeRun is the length of the runs mergeCount sorts by insertion.
 const mergeRun = 16
 
-// fenwickCount returns the number of pairs i < j with a[i] > a[j] (equal
-// values are not counted) for values in [0, d), without moving them: a
-// Fenwick tree (Fenwick 1994, "A new data structure for cumulative
-// frequency tables", Software: Practice and Experience 24(3):327–336)
-// holds the counts of the values seen so far: of the j values before a[j],
-// those above it are j less the tree's prefix sum up to a[j]; then a[j] is
-// counted in. O(n log d) time and 4(d+1) bytes: where d is small the tree
-// stays in the processor's cache, and at 10⁶ values with 10⁴ distinct it
-// took half the time of mergeCount.
-func fenwickCount(a []int32, d int) int64 {
-	tree := make([]int32, d+1) // tree[k]: the count of values in (k − lowbit(k), k], 1-based
+// trieCount returns the number of pairs i < j with a[i] > a[j] (equal
+// values are not counted) for values in [0, d), without moving them. It
+// keeps, for each bit level l of the values, the count of the values seen
+// so far whose top bits (v >> l) equal each prefix: a value u seen later
+// is below a value v seen before exactly when, at the highest bit where
+// they differ, u has a 0 and v a 1, so the values before u and above it
+// number Σ over the levels l where bit l of u is 0 of the count at prefix
+// (u >> l) | 1 (a binary trie of the values, counted per node). Each value
+// costs one read and one increment per level, the same work for every
+// value and no branch on it, where a Fenwick tree (Fenwick 1994, "A new
+// data structure for cumulative frequency tables", Software: Practice and
+// Experience 24(3):327–336), which took this count before, walks paths
+// whose length varies with the value. At 10⁶ values with 13 624 distinct
+// (x ~ N(5, 2) read to 3 decimals): 15.9 ms against the Fenwick tree's
+// 19.9 ms and mergeCount's 50 ms (CPU time, medians). O(n log d) time,
+// about 8d bytes.
+func trieCount(a []int32, d int) int64 {
+	levels := bits.Len(uint(max(d-1, 0)))
+	cnt := make([][]int32, levels)
+	for l := range cnt {
+		cnt[l] = make([]int32, (d-1)>>l+2)
+	}
 	var inv int64
-	for j, v := range a {
-		var notAbove int64
-		for k := int(v) + 1; k > 0; k &= k - 1 {
-			notAbove += int64(tree[k])
+	for _, v := range a {
+		u := int(v)
+		var above int64
+		for l := 0; l < levels; l++ {
+			p := u >> l
+			c := cnt[l]
+			// c[p|1] when bit l of u is 0, else nothing.
+			above += int64(c[p|1]) * int64(1-p&1)
+			c[p]++
 		}
-		inv += int64(j) - notAbove
-		for k := int(v) + 1; k <= d; k += k & -k {
-			tree[k]++
-		}
+		inv += above
 	}
 	return inv
 }
 
-// fenwickMax is the most distinct values for which Sorted.KendallTauB
-// counts by fenwickCount: a tree of 4 MiB. (At 10⁶ distinct values among
-// 10⁶ it still took four fifths of mergeCount's time.)
-const fenwickMax = 1 << 20
+// trieMax is the most distinct values for which Sorted.KendallTauB
+// counts by trieCount: counts of 8 MiB. (At 10⁶ distinct values among
+// 10⁶, Fenwick's tree, which trieCount replaced, still took four fifths of
+// mergeCount's time.)
+const trieMax = 1 << 20
 
 // PearsonMoments is Pearson for data given by their centred moments (see
 // CentredMoments): r = Sxy/√(Sxx·Syy) with the same Fisher-z interval, t

@@ -75,10 +75,11 @@ func TestMergeCountMatchesNaive(t *testing.T) {
 	}
 }
 
-// TestFenwickCountMatchesNaive: fenwickCount gives the naive count of
-// pairs i < j with a[i] > a[j], from all values equal to all distinct, and
-// mergeCount's on the same values.
-func TestFenwickCountMatchesNaive(t *testing.T) {
+// TestTrieCountMatchesNaive: trieCount gives the naive count of pairs
+// i < j with a[i] > a[j], from all values equal to all distinct (d from 1,
+// and d a power of two and one past it, where the number of bit levels
+// changes), and mergeCount's on the same values.
+func TestTrieCountMatchesNaive(t *testing.T) {
 	t.Parallel()
 	rng := rand.New(rand.NewPCG(9, 10))
 	for trial := 0; trial < 200; trial++ {
@@ -96,8 +97,8 @@ func TestFenwickCountMatchesNaive(t *testing.T) {
 				}
 			}
 		}
-		if got := fenwickCount(a, d); got != want {
-			t.Fatalf("n=%d d=%d: fenwickCount = %d, naive %d", n, d, got, want)
+		if got := trieCount(a, d); got != want {
+			t.Fatalf("n=%d d=%d: trieCount = %d, naive %d", n, d, got, want)
 		}
 		if got := mergeCount(slices.Clone(a), make([]int32, n)); got != want {
 			t.Fatalf("n=%d d=%d: mergeCount = %d, naive %d", n, d, got, want)

@@ -546,11 +546,7 @@ func (s *Sorted) KendallTauB() (tau, p float64) {
 		xs[j] = run[k]
 	}
 	for lo := 0; lo < n; {
-		v := s.Y[s.ByY[lo]]
-		hi := lo + 1
-		for hi < n && s.Y[s.ByY[hi]] == v {
-			hi++
-		}
+		hi := s.yRunEnd(lo)
 		ty.add(hi - lo)
 		for a := lo; a < hi; {
 			b := a + 1

@@ -294,20 +294,30 @@ func FuzzScanNumber(f *testing.F) {
 // whole fields that hold no quote, delimiter or line break) the plain
 // splitter reads
 // what encoding/csv (the standard library's reader, used for blocks with
-// quotes) reads: the same rows, cells, counts and first problem.
+// quotes) reads: the same rows, cells, counts and first problem. shape
+// chooses the columns: a text column and a number (0), two numbers (1:
+// rows of plain decimals then go through fastRow), or two numbers with an
+// unread field between them (2).
 func FuzzPlainAgrees(f *testing.F) {
 	for _, s := range []string{"1,2\n3,4\n", "1;2\r\n\r\n 3 ;NA\r", "a,b\n,\n\n1e5,-.5\n", "1,2,3\n", "\xff,2\n1,\r2\n",
-		"\"1.5\",\"A\"\n\"\",2\n", "\"1,5\";2\n", " \"1\",2\n", "\"1\" ,2\n", "\"a\"\"b\",1\n", "\"1\",\"2\",\"3\"\n"} {
-		f.Add(s, byte(','))
-		f.Add(s, byte(';'))
+		"\"1.5\",\"A\"\n\"\",2\n", "\"1,5\";2\n", " \"1\",2\n", "\"1\" ,2\n", "\"a\"\"b\",1\n", "\"1\",\"2\",\"3\"\n",
+		"1,5;2,5\n3;4,\n", "1,x,2\n3,,4\n5,6\n", "1.5,2\n3,4,5\n-0.25,1e3\n", "1,2,\n"} {
+		for shape := range byte(3) {
+			f.Add(s, byte(','), shape)
+			f.Add(s, byte(';'), shape)
+		}
 	}
-	f.Fuzz(func(t *testing.T, data string, delim byte) {
-		if delim != ',' && delim != ';' && delim != '\t' {
+	f.Fuzz(func(t *testing.T, data string, delim, shape byte) {
+		if delim != ',' && delim != ';' && delim != '\t' || shape > 2 {
 			return
 		}
 		cfg := &config{path: "f.csv", delim: delim, fields: 2, last: 1, byIndex: []int{0, 1},
-			cols:    []*column{{name: "a", index: 0, numeric: true, text: true}, {name: "b", index: 1, numeric: true}},
+			cols:    []*column{{name: "a", index: 0, numeric: true, text: shape == 0}, {name: "b", index: 1, numeric: true}},
 			missing: DefaultMissing(), lim: DefaultLimits(), plain: true}
+		if shape == 2 {
+			cfg.fields, cfg.last, cfg.byIndex = 3, 2, []int{0, -1, 1}
+			cfg.cols[1].index = 2
+		}
 		plain := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}
 		quoted := &part{nums: [][]float64{nil, nil}, texts: make([]textPart, 2), missing: make([]int, 2), nonNum: make([]int, 2)}
 		if !plain.parsePlain(cfg, []byte(data), 2) {

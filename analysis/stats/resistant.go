@@ -254,8 +254,8 @@ func streamedSlope(x, y []float64, m int, d *pairDraw) (float64, bool) {
 }
 
 // stableArgsort returns the indices of v in ascending order of value, ties
-// in index order, by the package's O(n) radix sort (radixSort on floatKey;
-// −0 and +0 count as equal). v must hold no NaN. Values already in
+// in index order, by the package's O(n) radix sort (radixSort on
+// orderKeys' keys; −0 and +0 count as equal). v must hold no NaN. Values already in
 // ascending order (samples drawn in canonical order, say) give 0, 1, …
 // without a sort.
 func stableArgsort(v []float64) []int {

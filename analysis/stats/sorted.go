@@ -10,7 +10,6 @@ package stats
 // from canonical positions.
 
 import (
-	"cmp"
 	"math"
 	"math/bits"
 	"math/rand/v2"
@@ -76,22 +75,19 @@ func NewSorted(x, y []float64) *Sorted {
 	radixSort(keys, row, kbuf, ibuf)
 	s := &Sorted{X: hugepage.Make[float64](n), Y: hugepage.Make[float64](n), Row: row, ByY: hugepage.Make[int32](n)}
 	// x in order is read back from the sorted keys, in order, rather than
-	// gathered from x at random; a zero among x may be −0, which the keys
-	// hold as +0, so then x is gathered.
-	if slices.ContainsFunc(x, negZero) {
-		for k, i := range row {
-			s.X[k] = x[i]
-		}
-	} else {
-		for k, key := range keys {
-			s.X[k] = rd.at(key >> tb)
-		}
+	// gathered from x at random. A zero is read as +0 whatever its sign in
+	// x, and y's −0 is stored as +0 too: −0 and +0 are equal and keep the
+	// caller's order among equal pairs, so a signed zero would make the
+	// sign of a zero in the results (a least value, say) depend on the
+	// order of the rows.
+	for k, key := range keys {
+		s.X[k] = rd.at(key >> tb)
 	}
 	for k, i := range row {
-		s.Y[k] = y[i]
+		s.Y[k] = y[i] + 0 // −0 + 0 is +0
 	}
 	if tb > 0 {
-		s.tieSort(keys)
+		s.tieSort(keys, kbuf, ibuf)
 	} else {
 		s.orderTies(keys, kbuf, ibuf)
 	}
@@ -152,47 +148,41 @@ func tieBits(rd keyReader, n int) uint {
 
 // tieSort puts right the pairs NewSorted's sort by x and the high bits of
 // tieKey(y) left in one group (keys, in canonical order, equal): each such
-// group, which holds one x, is ordered by the whole tieKey(y), stably, by
-// insertion (the groups hold a pair or two on average). The order is then
-// orderTies': x, then tieKey(y), then the caller's order.
-func (s *Sorted) tieSort(keys []uint64) {
+// group, which holds one x, is ordered by the whole tieKey(y), stably: by
+// insertion up to tieInsertMax pairs (the groups hold a pair or two on
+// average), as orderTies orders a run beyond (a long group: x taking a
+// few values, and y few or one within them). The order is then
+// orderTies': x, then tieKey(y), then the caller's order. kbuf and ibuf
+// are scratch of length Len(); keys is scratch too within each group once
+// the group is found.
+func (s *Sorted) tieSort(keys, kbuf []uint64, ibuf []int32) {
 	n := len(keys)
 	for lo := 0; lo < n; {
 		hi := lo + 1
 		for hi < n && keys[hi] == keys[lo] {
 			hi++
 		}
-		if hi-lo > 1 {
+		switch m := hi - lo; {
+		case m == 1:
+		case m > tieInsertMax:
+			s.orderTiesIn(lo, hi, keys, kbuf, ibuf)
+		default:
 			ys, rs := s.Y[lo:hi], s.Row[lo:hi]
-			if hi-lo > runSortMax/8 {
-				// A long group (a run far longer than the average):
-				// a stable sort of its places.
-				idx := make([]int, hi-lo)
-				for j := range idx {
-					idx[j] = j
+			for j := 1; j < m; j++ {
+				v, r, k := ys[j], rs[j], tieKey(ys[j])
+				i := j
+				for ; i > 0 && tieKey(ys[i-1]) > k; i-- {
+					ys[i], rs[i] = ys[i-1], rs[i-1]
 				}
-				slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(tieKey(ys[a]), tieKey(ys[b])) })
-				y2, r2 := slices.Clone(ys), slices.Clone(rs)
-				for j, p := range idx {
-					ys[j], rs[j] = y2[p], r2[p]
-				}
-			} else {
-				for j := 1; j < len(ys); j++ {
-					v, r, k := ys[j], rs[j], tieKey(ys[j])
-					i := j
-					for ; i > 0 && tieKey(ys[i-1]) > k; i-- {
-						ys[i], rs[i] = ys[i-1], rs[i-1]
-					}
-					ys[i], rs[i] = v, r
-				}
+				ys[i], rs[i] = v, r
 			}
 		}
 		lo = hi
 	}
 }
 
-// negZero reports whether v is −0.
-func negZero(v float64) bool { return v == 0 && math.Signbit(v) }
+// tieInsertMax is the longest group tieSort orders by insertion.
+const tieInsertMax = 32
 
 // orderTies puts each run of equal x, which the stable sort by x left in
 // the caller's order, in ascending tieKey(y), equal pairs still in the

@@ -55,9 +55,9 @@ func keyFloat(k uint64) float64 {
 // v < v' gives q < q' (q ≥ q' would give q/s ≥ q'/s after rounding), and q
 // is a function of v, so equal values (−0 and +0 among them) get equal
 // keys: the keys order v exactly as floatKey's do, and a stable sort by
-// either puts the values in the same order. One value off the grid, or a
-// range of keys past 2⁵⁵ (no pass saved), falls back to floatKey; the
-// places d are found from the first values (gridProbe).
+// either puts the values in the same order. |q| < 2⁵² keeps the keys below
+// 2⁵³ (five digits of the sort at most). One value off the grid falls back
+// to floatKey; the places d are found from the first values (gridProbe).
 func orderKeys(v []float64, keys []uint64) keyReader {
 	for i, e := range v {
 		keys[i] = math.Float64bits(e)
@@ -104,8 +104,7 @@ func (r keyReader) at(k uint64) float64 {
 }
 
 // gridOf returns the decimal grid of the values whose bits are given, and
-// false where they are not all on a grid of at most gridMaxDecimals places
-// or its keys would span 2⁵⁵ or more.
+// false where they are not all on a grid of at most gridMaxDecimals places.
 func gridOf(bits []uint64) (keyReader, bool) {
 	if len(bits) == 0 {
 		return keyReader{}, false
@@ -143,9 +142,6 @@ func gridOf(bits []uint64) (keyReader, bool) {
 			return keyReader{}, false
 		}
 		lo, hi = min(lo, q), max(hi, q)
-	}
-	if uint64(hi-lo) >= 1<<55 {
-		return keyReader{}, false
 	}
 	return keyReader{scale: s, lo: lo, span: uint64(hi - lo)}, true
 }

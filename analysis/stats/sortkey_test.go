@@ -313,9 +313,8 @@ func TestNewSortedMatchesStableSort(t *testing.T) {
 		})
 		s := NewSorted(x, y)
 		for k, i := range idx {
-			// x compared as numbers: a run of equal x keeps its first
-			// value, so −0 and +0 in one run read alike.
-			if int(s.Row[k]) != i || s.X[k] != x[i] || math.Float64bits(s.Y[k]) != math.Float64bits(y[i]) {
+			// Zeros are stored as +0 (TestNewSortedZeroSigns).
+			if int(s.Row[k]) != i || math.Float64bits(s.X[k]) != math.Float64bits(x[i]+0) || math.Float64bits(s.Y[k]) != math.Float64bits(y[i]+0) {
 				t.Fatalf("trial %d (n=%d): canonical position %d holds row %d (%v, %v), want row %d (%v, %v)",
 					trial, n, k, s.Row[k], s.X[k], s.Y[k], i, x[i], y[i])
 			}
@@ -337,6 +336,38 @@ func TestNewSortedMatchesStableSort(t *testing.T) {
 			if s.Y[a] != s.Y[b] != (s.yNew[j/64]>>(j%64)&1 == 1) {
 				t.Fatalf("trial %d: a run of equal y starts at %d: %v, values %v and %v", trial, j, s.yNew[j/64]>>(j%64)&1 == 1, s.Y[a], s.Y[b])
 			}
+		}
+	}
+}
+
+// TestNewSortedZeroSigns checks that the canonical pairs hold no −0: −0
+// and +0 are equal, so pairs that differ only in a zero's sign keep the
+// caller's order, and the sign of a zero in the results (the least x, say)
+// would follow the order of the rows. The same set of pairs in two row
+// orders must give the same bits.
+func TestNewSortedZeroSigns(t *testing.T) {
+	t.Parallel()
+	negZero := math.Copysign(0, -1)
+	for _, c := range []struct{ x, y []float64 }{
+		{[]float64{negZero, 0, 1, 1, 2, 2, 3, 3, 1, 2}, []float64{5, 5, 1, 2, 3, 4, 5, 6, 7, 8}},
+		{[]float64{1, 1, 2, 3, 4, 5, 6}, []float64{negZero, 0, 1, 2, 3, 4, 5}},
+		{[]float64{negZero, 0.5, negZero, 0}, []float64{negZero, 0, 0, negZero}}, // continuous x: orderTies
+	} {
+		a := NewSorted(c.x, c.y)
+		x2, y2 := slices.Clone(c.x), slices.Clone(c.y)
+		slices.Reverse(x2)
+		slices.Reverse(y2)
+		b := NewSorted(x2, y2)
+		for k := range a.X {
+			if math.Signbit(a.X[k]) || math.Signbit(a.Y[k]) ||
+				math.Float64bits(a.X[k]) != math.Float64bits(b.X[k]) || math.Float64bits(a.Y[k]) != math.Float64bits(b.Y[k]) {
+				t.Fatalf("x %v, y %v: canonical pair %d is (%v, %v) and, rows reversed, (%v, %v)", c.x, c.y, k, a.X[k], a.Y[k], b.X[k], b.Y[k])
+			}
+		}
+		ax, ay := a.Describe()
+		bx, by := b.Describe()
+		if math.Signbit(ax.Min) || math.Signbit(ay.Min) || math.Signbit(bx.Min) || math.Signbit(by.Min) {
+			t.Fatalf("x %v, y %v: least values %v, %v and, rows reversed, %v, %v", c.x, c.y, ax.Min, ay.Min, bx.Min, by.Min)
 		}
 	}
 }

@@ -90,8 +90,9 @@ func influence(x, y []float64, name func(int) string, th report.Thresholds, name
 	best, rmin, rmax, smin, smax := -1, -1, -1, -1, -1
 	var bestD, lrMin, lrMax, lsMin, lsMax float64
 	c := &in.Counts
+	var r stats.InfluenceRow
 	for i := 0; i < n; i++ {
-		r := li.Screen(i)
+		li.ScreenInto(i, &r)
 		if d := r.CooksD; !math.IsNaN(d) && (best < 0 || d > bestD || d == bestD && before(x, y, name, i, best)) {
 			best, bestD = i, d
 		}

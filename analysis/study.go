@@ -250,9 +250,7 @@ func analyze(in Input, cfg Config) report.Study {
 	lf := lineFit(line)
 	s.Line = &lf
 	line.Residuals = hugepage.Make[float64](len(x))
-	for i := range x {
-		line.Residuals[i] = line.Residual(x[i], y[i])
-	}
+	line.ResidualsInto(line.Residuals, x, y)
 
 	var order []float64
 	if in.Order != nil {

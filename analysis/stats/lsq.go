@@ -822,6 +822,17 @@ func (l LineFit) Residual(x, y float64) float64 {
 	return ((y - l.ymean) - l.ylo) - l.b[0]*((x-l.means[0])-l.mlo[0])
 }
 
+// ResidualsInto writes Residual(x[i], y[i]) into out[i] for every i <
+// len(out) (x and y at least as long), bit for bit, with the fit's figures
+// read once rather than once a row.
+func (l *LineFit) ResidualsInto(out, x, y []float64) {
+	ym, yl, b, mx, ml := l.ymean, l.ylo, l.b[0], l.means[0], l.mlo[0]
+	x, y = x[:len(out)], y[:len(out)]
+	for i := range out {
+		out[i] = ((y[i] - ym) - yl) - b*((x[i]-mx)-ml)
+	}
+}
+
 // Interval returns the line's mean response at x0 with its confidence
 // interval, and the prediction interval for a new observation at x0, both
 // at level conf (e.g. Montgomery, Peck & Vining 2012, §2.4.2 and §2.5):

@@ -467,9 +467,11 @@ func TestLineResidual(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	out := make([]float64, len(x))
+	l.ResidualsInto(out, x, y)
 	for i := range x {
-		if got := l.Residual(x[i], y[i]); got != l.Residuals[i] {
-			t.Fatalf("row %d: Residual %v, fit's residual %v", i, got, l.Residuals[i])
+		if got := l.Residual(x[i], y[i]); got != l.Residuals[i] || math.Float64bits(out[i]) != math.Float64bits(got) {
+			t.Fatalf("row %d: Residual %v, ResidualsInto %v, fit's residual %v", i, got, out[i], l.Residuals[i])
 		}
 	}
 }

@@ -145,6 +145,25 @@ func TestPushdownSameAsInMemory(t *testing.T) {
 		if p.Plot.Scatter == nil || sum(p.Plot.Scatter.Counts) != p.N {
 			t.Errorf("study %s: the density grid holds %v rows, want %d", m.ID, p.Plot.Scatter, p.N)
 		}
+		// The residual on x is binned on the same cells of x as y on x (at
+		// 2000 rows the study in memory draws points, not grids): each
+		// column of cells holds the same rows in both.
+		if g, r := p.Plot.Scatter, p.Plot.ResidX; g == nil || r == nil || g.XLo != r.XLo || g.XHi != r.XHi || g.NX != r.NX {
+			t.Errorf("study %s: the grids of y and of the residual on x differ in x: %+v / %+v", m.ID, g, r)
+		} else {
+			for i := range g.NX {
+				var a, b int
+				for j := range g.NY {
+					a += g.Counts[j*g.NX+i]
+				}
+				for j := range r.NY {
+					b += r.Counts[j*r.NX+i]
+				}
+				if a != b {
+					t.Errorf("study %s: column %d of cells holds %d rows of y on x and %d of the residual on x", m.ID, i, a, b)
+				}
+			}
+		}
 		sameLooRows(t, m.ID, p, m)
 	}
 	// The data were built to exercise every part: a named outlier, three

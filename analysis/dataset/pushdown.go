@@ -1399,19 +1399,6 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		gg.Counts = make([]int, gg.NX*gg.NY)
 		th.Grids[k] = &gg
 	}
-	// NaN-ignoring extremes, as min and max ignore NULL.
-	lo := func(a, b float64) float64 {
-		if math.IsNaN(a) || b < a {
-			return b
-		}
-		return a
-	}
-	hi := func(a, b float64) float64 {
-		if math.IsNaN(a) || b > a {
-			return b
-		}
-		return a
-	}
 	var sus []ranked
 	var sq []float64 // the cells' sums of the quadratic's squared residuals
 	var cells []extCell
@@ -1427,35 +1414,9 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 			th.addFlags(fl, n)
 			xs, ys, ids, ds, ts := anys(v[8]), anys(v[9]), anys(v[10]), anys(v[11]), anys(v[12])
 			for k := range xs {
-				noID := p.id == "" || isMissing(ids[k], p.spec.Missing)
-				r := ranked{Row: Row{X: Num(xs[k]), Y: Num(ys[k]), D: Num(ds[k]), Flags: uint8(fl)}, noID: noID, d: Num(ds[k]), t: Num(ts[k])}
-				if fl&8 != 0 { // undefined distance, ranked before all (as in memory)
-					r.d = math.Inf(1)
-				}
-				if !noID {
-					r.ID = Text(ids[k])
-				}
-				sus = append(sus, r)
-				if len(sus) > 2*keep {
-					slices.SortFunc(sus, cmpSuspect)
-					sus = sus[:keep]
-				}
+				sus = keepRanked(append(sus, p.suspect(xs[k], ys[k], ids[k], ds[k], ts[k], fl)), keep)
 			}
-			if x := Num(v[2]); !math.IsNaN(x) {
-				th.MaxD = hi(th.MaxD, x)
-			}
-			if x := clampR(Num(v[3])); !math.IsNaN(x) {
-				th.LooRMin = lo(th.LooRMin, x)
-			}
-			if x := clampR(Num(v[4])); !math.IsNaN(x) {
-				th.LooRMax = hi(th.LooRMax, x)
-			}
-			if x := Num(v[5]); !math.IsNaN(x) {
-				th.LooSMin = lo(th.LooSMin, x)
-			}
-			if x := Num(v[6]); !math.IsNaN(x) {
-				th.LooSMax = hi(th.LooSMax, x)
-			}
+			th.addExtremes(v[2:7])
 			sq = append(sq, Num(v[7]))
 			return nil
 		})
@@ -1479,37 +1440,13 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		fl := int(Num(v[8]))
 		th.addFlags(fl, n)
 		if fl&13 != 0 {
-			noID := p.id == "" || isMissing(v[18], p.spec.Missing)
-			r := ranked{Row: Row{X: Num(v[16]), Y: Num(v[17]), D: Num(v[19]), Flags: uint8(fl)}, noID: noID, d: Num(v[19]), t: Num(v[20])}
-			if fl&8 != 0 { // undefined distance, ranked before all (as in memory)
-				r.d = math.Inf(1)
-			}
-			if !noID {
-				r.ID = Text(v[18])
-			}
+			r := p.suspect(v[16], v[17], v[18], v[19], v[20], fl)
 			for range n { // a row repeated n times is n flagged rows
 				sus = append(sus, r)
 			}
-			if len(sus) > 2*keep {
-				slices.SortFunc(sus, cmpSuspect)
-				sus = sus[:keep]
-			}
+			sus = keepRanked(sus, keep)
 		}
-		if x := Num(v[10]); !math.IsNaN(x) {
-			th.MaxD = hi(th.MaxD, x)
-		}
-		if x := clampR(Num(v[11])); !math.IsNaN(x) {
-			th.LooRMin = lo(th.LooRMin, x)
-		}
-		if x := clampR(Num(v[12])); !math.IsNaN(x) {
-			th.LooRMax = hi(th.LooRMax, x)
-		}
-		if x := Num(v[13]); !math.IsNaN(x) {
-			th.LooSMin = lo(th.LooSMin, x)
-		}
-		if x := Num(v[14]); !math.IsNaN(x) {
-			th.LooSMax = hi(th.LooSMax, x)
-		}
+		th.addExtremes(v[10:15])
 		sq = append(sq, Num(v[15]))
 		return nil
 	})
@@ -1517,6 +1454,64 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		return nil, err
 	}
 	return th.finish(sq, cells, sus, keep), nil
+}
+
+// suspect is a flagged row of the third pass as ranked: its x, y, id,
+// Cook's distance and studentized residual as the server returned them,
+// and its flags fl.
+func (p *Prepared) suspect(x, y, id, d, t any, fl int) ranked {
+	noID := p.id == "" || isMissing(id, p.spec.Missing)
+	r := ranked{Row: Row{X: Num(x), Y: Num(y), D: Num(d), Flags: uint8(fl)}, noID: noID, d: Num(d), t: Num(t)}
+	if fl&8 != 0 { // undefined distance, ranked before all (as in memory)
+		r.d = math.Inf(1)
+	}
+	if !noID {
+		r.ID = Text(id)
+	}
+	return r
+}
+
+// keepRanked is sus, cut to its keep highest ranked once it holds more
+// than twice as many.
+func keepRanked(sus []ranked, keep int) []ranked {
+	if len(sus) > 2*keep {
+		slices.SortFunc(sus, cmpSuspect)
+		sus = sus[:keep]
+	}
+	return sus
+}
+
+// addExtremes takes a group's largest Cook's distance and least and
+// largest leave-one-out r and slope (v, as the server returned them) into
+// th's, ignoring NaN and NULL as min and max do.
+func (th *Third) addExtremes(v []any) {
+	lo := func(a, b float64) float64 {
+		if math.IsNaN(a) || b < a {
+			return b
+		}
+		return a
+	}
+	hi := func(a, b float64) float64 {
+		if math.IsNaN(a) || b > a {
+			return b
+		}
+		return a
+	}
+	if x := Num(v[0]); !math.IsNaN(x) {
+		th.MaxD = hi(th.MaxD, x)
+	}
+	if x := clampR(Num(v[1])); !math.IsNaN(x) {
+		th.LooRMin = lo(th.LooRMin, x)
+	}
+	if x := clampR(Num(v[2])); !math.IsNaN(x) {
+		th.LooRMax = hi(th.LooRMax, x)
+	}
+	if x := Num(v[3]); !math.IsNaN(x) {
+		th.LooSMin = lo(th.LooSMin, x)
+	}
+	if x := Num(v[4]); !math.IsNaN(x) {
+		th.LooSMax = hi(th.LooSMax, x)
+	}
 }
 
 // extCell is a group of the third pass in the cell (i, j) of the first

@@ -555,10 +555,7 @@ func (p *part) parsePlain(cfg *config, data []byte, line int) bool {
 			if ci >= 0 && cfg.plain && !quoted && !cfg.cols[ci].text {
 				// The common cell, a short decimal number, read in one
 				// pass; anything else goes the general way below.
-				if v, n, seen, ok := scanNumber(rec, delim); ok && (seen == 0 || p.mark == 0 || seen == p.mark) {
-					if p.mark == 0 && seen != 0 {
-						p.mark, p.markLine = seen, ln
-					}
+				if v, n, seen, ok := scanNumber(rec, delim); ok && takeMark(&p.mark, &p.markLine, seen, ln) {
 					p.nums[ci] = append(p.nums[ci], v)
 					if n < len(rec) {
 						rec = rec[n+1:]
@@ -614,11 +611,8 @@ func (p *part) fastRow(cfg *config, rec []byte, ln int) bool {
 				return false
 			}
 			v, m, seen, ok := scanNumber(rec, delim)
-			if !ok || seen != 0 && mark != 0 && seen != mark {
+			if !ok || !takeMark(&mark, &markLine, seen, ln) {
 				return false
-			}
-			if mark == 0 && seen != 0 {
-				mark, markLine = seen, ln
 			}
 			vals[f], n = v, m
 		} else if n = bytes.IndexByte(rec, delim); n < 0 {
@@ -645,6 +639,20 @@ func (p *part) fastRow(cfg *config, rec []byte, ln int) bool {
 			p.nums[ci] = append(p.nums[ci], vals[f])
 		}
 	}
+	return true
+}
+
+// takeMark reports whether a number read with the decimal mark seen (0
+// for none) agrees with the block's mark *mark, and where the block has
+// none yet takes seen as its mark, first seen on line ln (*line).
+func takeMark(mark *byte, line *int, seen byte, ln int) bool {
+	switch {
+	case seen == 0 || seen == *mark:
+		return true
+	case *mark != 0:
+		return false
+	}
+	*mark, *line = seen, ln
 	return true
 }
 

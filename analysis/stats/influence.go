@@ -169,19 +169,13 @@ func (li *LineInfluence) At(i int) InfluenceRow {
 	return r
 }
 
-// Screen is At without DFFITS and the leave-one-out intercept (NaN in
-// their place): the figures a pass over every row reads to flag rows and
-// find the extremes, at two divisions and a square root less a row. Every
-// other field is At's, bit for bit.
-func (li *LineInfluence) Screen(i int) InfluenceRow {
-	var r InfluenceRow
-	li.into(i, false, &r)
-	return r
-}
-
-// ScreenInto is Screen writing row i's figures into *r: a pass over every
-// row that took each row's 80 bytes back by value (and the moments
-// copied at every call) spent a third of its time copying.
+// ScreenInto writes into *r row i's figures as At gives them, without
+// DFFITS and the leave-one-out intercept (NaN in their place): the figures
+// a pass over every row reads to flag rows and find the extremes, at two
+// divisions and a square root less a row. Every other field is At's, bit
+// for bit. It writes in place because a pass over every row that took
+// each row's 80 bytes back by value (and the moments copied at every
+// call) spent a third of its time copying.
 func (li *LineInfluence) ScreenInto(i int, r *InfluenceRow) { li.into(i, false, r) }
 
 // into writes At's figures of row i into *r, DFFITS and LooIntercept only

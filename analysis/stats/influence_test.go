@@ -231,7 +231,7 @@ func TestInfluenceSoleSupport(t *testing.T) {
 	}
 }
 
-// TestLineInfluenceScreen: Screen is At, field for field and bit for bit,
+// TestLineInfluenceScreen: ScreenInto is At, field for field and bit for bit,
 // but for DFFITS and the leave-one-out intercept (NaN), on rows with ties,
 // a sole-support case and n = 3 (an identity, for any data).
 func TestLineInfluenceScreen(t *testing.T) {
@@ -245,10 +245,12 @@ func TestLineInfluenceScreen(t *testing.T) {
 	for _, c := range []struct{ x, y []float64 }{{x, y}, {[]float64{2, 2, 2, 2, 9, 2}, []float64{1, 3, 2, 4, 10, 2.5}},
 		{[]float64{1, 2, 4}, []float64{1, 3, 2}}, {[]float64{1, 1, 1}, []float64{1, 2, 3}}} {
 		li := NewLineInfluence(c.x, c.y)
+		var s InfluenceRow // one row written over and over, as influence's pass does
 		for i := range c.x {
-			a, s := li.At(i), li.Screen(i)
+			a := li.At(i)
+			li.ScreenInto(i, &s)
 			if !math.IsNaN(s.DFFITS) || !math.IsNaN(s.LooIntercept) {
-				t.Fatalf("n=%d row %d: Screen gives DFFITS %v, LooIntercept %v, want NaN", len(c.x), i, s.DFFITS, s.LooIntercept)
+				t.Fatalf("n=%d row %d: ScreenInto gives DFFITS %v, LooIntercept %v, want NaN", len(c.x), i, s.DFFITS, s.LooIntercept)
 			}
 			s.DFFITS, s.LooIntercept = a.DFFITS, a.LooIntercept
 			same := func(u, v float64) bool {
@@ -257,7 +259,7 @@ func TestLineInfluenceScreen(t *testing.T) {
 			if !same(a.Leverage, s.Leverage) || !same(a.Residual, s.Residual) || !same(a.Studentized, s.Studentized) ||
 				!same(a.StudentizedExt, s.StudentizedExt) || !same(a.CooksD, s.CooksD) || !same(a.LooR, s.LooR) ||
 				!same(a.LooSlope, s.LooSlope) || a.SoleSupport != s.SoleSupport {
-				t.Fatalf("n=%d row %d: Screen %+v, At %+v", len(c.x), i, s, a)
+				t.Fatalf("n=%d row %d: ScreenInto %+v, At %+v", len(c.x), i, s, a)
 			}
 		}
 	}

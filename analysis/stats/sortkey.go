@@ -298,7 +298,8 @@ func radixSortPar(keys []uint64, idx []int32, kbuf []uint64, ibuf []int32, w int
 	n := len(keys)
 	share := func(k int) (lo, hi int) { return k * n / w, (k + 1) * n / w }
 	// Which digits vary (the same for any order of the keys): every
-	// worker's histograms of every digit, summed.
+	// worker's histograms of each digit below the highest that varies
+	// (varying), summed.
 	nd := varying(keys)
 	all := make([][digits][buckets]int32, w)
 	var wg sync.WaitGroup

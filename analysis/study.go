@@ -226,10 +226,10 @@ func analyze(in Input, cfg Config) report.Study {
 	ps := stats.NewSorted(x, y)
 	var side sideStats
 	var wg sync.WaitGroup
-	sideStatistics(&wg, &side, ps, conf, cfg)
+	m := stats.CentredMoments(ps.X, ps.Y)
+	sideStatistics(&wg, &side, ps, m, conf, cfg)
 	defer wg.Wait() // a study that fails below returns after them
 
-	m := stats.CentredMoments(ps.X, ps.Y)
 	s.Moments = &report.Moments{N: m.N, MeanX: report.Float(m.MeanX), MeanY: report.Float(m.MeanY),
 		Sxx: report.Float(m.Sxx), Syy: report.Float(m.Syy), Sxy: report.Float(m.Sxy)}
 	dx, dy := ps.Describe()
@@ -243,7 +243,7 @@ func analyze(in Input, cfg Config) report.Study {
 	// would be two more columns of n), then its residuals in data order,
 	// beside x, y and the run order; fitted values are y − residual where
 	// needed.
-	line, err := ps.LineSummary(conf)
+	line, err := ps.LineSummaryFrom(m, conf)
 	if err != nil {
 		return failed(s, fmt.Sprintf("the straight line could not be fitted: %v", err))
 	}

@@ -61,6 +61,19 @@ func lsqSummary(cols [][]float64, y []float64, conf float64) (Regression, error)
 // polynomial, is never stored whole, and the rows come sumBlock at a time
 // (one call per block, not per row).
 func lsqSummaryRows(n, p int, fill func(lo, hi int, buf []float64), conf float64) (Regression, error) {
+	return lsqSummaryKnown(n, p, fill, conf, nil)
+}
+
+// colParts are a column's mean in two parts and its centred sum of
+// squares, as lsqSummaryRows's first two passes compute them (the
+// figures of meanParts).
+type colParts struct{ hi, lo, ss float64 }
+
+// lsqSummaryKnown is lsqSummaryRows given, in known (nil, or one per
+// column of [A | y]), the figures its first two passes would compute from
+// the same rows, summed in the same order: the result is the same to the
+// last bit, two passes sooner.
+func lsqSummaryKnown(n, p int, fill func(lo, hi int, buf []float64), conf float64, known []colParts) (Regression, error) {
 	r := Regression{N: n, DFResid: n - p - 1, p: p}
 	q := p + 1 // columns of the augmented matrix [A | y]
 	buf := make([]float64, sumBlock*q)
@@ -75,37 +88,43 @@ func lsqSummaryRows(n, p int, fill func(lo, hi int, buf []float64), conf float64
 	// Each sum runs down one column of a block (stride q) with its
 	// accumulator in a register, adding the rows in their order.
 	hi, lo, ss := make([]float64, q), make([]float64, q), make([]float64, q)
-	for b := 0; b < n; b += sumBlock {
-		rows := block(b)
-		for j := range q {
-			s := hi[j]
-			for k := j; k < len(rows); k += q {
-				s += rows[k]
-			}
-			hi[j] = s
+	if known != nil {
+		for j, k := range known {
+			hi[j], lo[j], ss[j] = k.hi, k.lo, k.ss
 		}
-	}
-	for j := range hi {
-		hi[j] /= float64(n)
-	}
-	cs, qs := make([]ksum, q), make([]ksum, q)
-	for b := 0; b < n; b += sumBlock {
-		rows := block(b)
-		for j := range q {
-			var bc, bq float64
-			m := hi[j]
-			for k := j; k < len(rows); k += q {
-				d := rows[k] - m
-				bc += d
-				bq += d * d
+	} else {
+		for b := 0; b < n; b += sumBlock {
+			rows := block(b)
+			for j := range q {
+				s := hi[j]
+				for k := j; k < len(rows); k += q {
+					s += rows[k]
+				}
+				hi[j] = s
 			}
-			cs[j].add(bc)
-			qs[j].add(bq)
 		}
-	}
-	for j := range q {
-		c := cs[j].value()
-		lo[j], ss[j] = c/float64(n), qs[j].value()-c*c/float64(n)
+		for j := range hi {
+			hi[j] /= float64(n)
+		}
+		cs, qs := make([]ksum, q), make([]ksum, q)
+		for b := 0; b < n; b += sumBlock {
+			rows := block(b)
+			for j := range q {
+				var bc, bq float64
+				m := hi[j]
+				for k := j; k < len(rows); k += q {
+					d := rows[k] - m
+					bc += d
+					bq += d * d
+				}
+				cs[j].add(bc)
+				qs[j].add(bq)
+			}
+		}
+		for j := range q {
+			c := cs[j].value()
+			lo[j], ss[j] = c/float64(n), qs[j].value()-c*c/float64(n)
+		}
 	}
 	r.ymean, r.ylo, r.TSS = hi[p], lo[p], ss[p]
 	r.means, r.mlo = hi[:p:p], lo[:p:p]

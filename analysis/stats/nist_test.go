@@ -167,10 +167,24 @@ func TestNISTStRD(t *testing.T) {
 		{"Wampler1.dat", 8, func(s strdFile) (Regression, error) {
 			return PolynomialSummary(s.x[0], s.y, len(s.est)-1, 0.95)
 		}},
+		// The same on the pairs in canonical order, the means and centred
+		// sums taken from CentredMoments (as a study fits them).
+		{"Norris.dat", 11, func(s strdFile) (Regression, error) {
+			ps := NewSorted(s.x[0], s.y)
+			l, err := ps.LineSummaryFrom(CentredMoments(ps.X, ps.Y), 0.95)
+			return l.Regression, err
+		}},
+		{"Wampler1.dat", 8, func(s strdFile) (Regression, error) {
+			ps := NewSorted(s.x[0], s.y)
+			return ps.PolynomialSummaryFrom(CentredMoments(ps.X, ps.Y), len(s.est)-1, 0.95)
+		}},
 	}
 	for k, tc := range cases {
 		name := strings.TrimSuffix(tc.file, ".dat")
-		if k >= 3 {
+		switch {
+		case k >= 6:
+			name += "/sorted-summary"
+		case k >= 3:
 			name += "/summary"
 		}
 		t.Run(name, func(t *testing.T) {

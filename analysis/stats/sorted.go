@@ -446,15 +446,51 @@ func (s *Sorted) LineSummary(conf float64) (LineFit, error) {
 	return LineSummary(s.X, s.Y, conf)
 }
 
+// LineSummaryFrom is LineSummary given m = CentredMoments(s.X, s.Y):
+// where neither column needs scaling, the fit takes its means and
+// centred sums of squares from m (the same figures summed in the same
+// order, so the same line to the last bit) instead of four more passes
+// over the columns. Any other m, or a column that needs scaling, goes
+// LineSummary's way.
+func (s *Sorted) LineSummaryFrom(m Moments, conf float64) (LineFit, error) {
+	if m.parts.set && m.N == s.Len() && s.Len() >= 2 {
+		x0, x1, y0, y1 := s.ends()
+		if finite(x0, x1, y0, y1) && x0 != x1 && endsShift(x0, x1) == 0 && endsShift(y0, y1) == 0 {
+			known := []colParts{{m.parts.xhi, m.parts.xlo, m.Sxx}, {m.parts.yhi, m.parts.ylo, m.Syy}}
+			reg, err := lsqSummaryKnown(s.Len(), 1, func(lo, hi int, buf []float64) {
+				for i := lo; i < hi; i++ {
+					buf[2*(i-lo)], buf[2*(i-lo)+1] = s.X[i], s.Y[i]
+				}
+			}, conf, known)
+			if err != nil {
+				return LineFit{}, err
+			}
+			return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: m.MeanX, Sxx: m.Sxx}, nil
+		}
+	}
+	return s.LineSummary(conf)
+}
+
 // PolynomialSummary returns PolynomialSummary(s.X, s.Y, degree, conf),
 // its checks and y's scaling read off the sorted ends as LineSummary's
 // are, and the largest |x − x̄| too: x − x̄ (rounded) grows with x, so it
 // is largest in magnitude at an end.
 func (s *Sorted) PolynomialSummary(degree int, conf float64) (Regression, error) {
+	return s.PolynomialSummaryFrom(Moments{}, degree, conf)
+}
+
+// PolynomialSummaryFrom is PolynomialSummary given m = CentredMoments(s.X,
+// s.Y), whose mean of x (the same figure meanSS gives) centres the powers
+// without another two passes over x. Any other m (the zero Moments among
+// them) has the mean computed.
+func (s *Sorted) PolynomialSummaryFrom(m Moments, degree int, conf float64) (Regression, error) {
 	if n := s.Len(); degree >= 1 && n >= degree+1 && n >= 2 {
 		x0, x1, y0, y1 := s.ends()
 		if finite(x0, x1, y0, y1) && distinctAtMost(s.X, degree+1) == degree+1 {
-			c, _ := meanSS(s.X)
+			c := m.MeanX
+			if !m.parts.set || m.N != n {
+				c, _ = meanSS(s.X)
+			}
 			return polySummary(s.X, s.Y, degree, conf, c, max(math.Abs(x0-c), math.Abs(x1-c)), endsShift(y0, y1))
 		}
 	}

@@ -412,6 +412,10 @@ func TestSortedPearson(t *testing.T) {
 // PolynomialSummary's fits bit for bit, errors included: data that need
 // no scaling, y and x far from 1 (scaled by a power of two), a constant x
 // and x with two distinct values (an identity, for any data).
+// TestSortedFits checks that the Sorted fits, and the fits given the
+// pairs' CentredMoments (LineSummaryFrom, PolynomialSummaryFrom), are
+// those of LineSummary and PolynomialSummary on the sorted pairs to the
+// last bit: the same figures summed in the same order.
 func TestSortedFits(t *testing.T) {
 	t.Parallel()
 	rng := rand.New(rand.NewPCG(13, 14))
@@ -419,15 +423,16 @@ func TestSortedFits(t *testing.T) {
 		name   string
 		xs, ys float64 // scales of x and y
 		levels int     // distinct x (0: many)
-	}{{"plain", 1, 1, 0}, {"y-1e300", 1, 1e300, 0}, {"x-1e-300", 1e-300, 1, 0}, {"x-1e250-y-1e-250", 1e250, 1e-250, 0},
-		{"constant-x", 1, 1, 1}, {"two-levels", 1, 1, 2}} {
+		off    float64 // added to x (a mean far larger than the spread needs both parts of the mean)
+	}{{"plain", 1, 1, 0, 0}, {"y-1e300", 1, 1e300, 0, 0}, {"x-1e-300", 1e-300, 1, 0, 0}, {"x-1e250-y-1e-250", 1e250, 1e-250, 0, 0},
+		{"constant-x", 1, 1, 1, 0}, {"two-levels", 1, 1, 2, 0}, {"x-offset-1e9", 1, 1, 0, 1e9}} {
 		x, y := make([]float64, 3000), make([]float64, 3000)
 		for i := range x {
 			u := math.Round(rng.NormFloat64()*100) / 100
 			if c.levels > 0 {
 				u = float64(i % c.levels)
 			}
-			x[i] = (5 + u) * c.xs
+			x[i] = (5+u)*c.xs + c.off
 			y[i] = (1 + 0.4*u + 0.05*u*u + rng.NormFloat64()) * c.ys
 		}
 		s := NewSorted(x, y)
@@ -435,6 +440,11 @@ func TestSortedFits(t *testing.T) {
 		l2, e2 := LineSummary(s.X, s.Y, 0.95)
 		if fmt.Sprintf("%#v %v", l1, e1) != fmt.Sprintf("%#v %v", l2, e2) {
 			t.Errorf("%s: Sorted.LineSummary %+v %v, LineSummary %+v %v", c.name, l1, e1, l2, e2)
+		}
+		m := CentredMoments(s.X, s.Y)
+		l3, e3 := s.LineSummaryFrom(m, 0.95)
+		if fmt.Sprintf("%#v %v", l3, e3) != fmt.Sprintf("%#v %v", l2, e2) {
+			t.Errorf("%s: Sorted.LineSummaryFrom %+v %v, LineSummary %+v %v", c.name, l3, e3, l2, e2)
 		}
 		q1, e1 := s.PolynomialSummary(2, 0.95)
 		q2, e2 := PolynomialSummary(s.X, s.Y, 2, 0.95)
@@ -445,6 +455,10 @@ func TestSortedFits(t *testing.T) {
 		}
 		if show(q1, e1) != show(q2, e2) {
 			t.Errorf("%s: Sorted.PolynomialSummary %+v %v, PolynomialSummary %+v %v", c.name, q1, e1, q2, e2)
+		}
+		q3, e3 := s.PolynomialSummaryFrom(m, 2, 0.95)
+		if show(q3, e3) != show(q2, e2) {
+			t.Errorf("%s: Sorted.PolynomialSummaryFrom %+v %v, PolynomialSummary %+v %v", c.name, q3, e3, q2, e2)
 		}
 	}
 }

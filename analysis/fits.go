@@ -196,8 +196,8 @@ type sideStats struct {
 
 // sideStatistics starts, on wg, goroutines that fill out with Kendall's
 // τ-b, Spearman's ρ with the Theil–Sen line, and the quadratic and log
-// models, all from the canonical order ps (m its CentredMoments).
-func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, m stats.Moments, conf float64, cfg Config) {
+// models, all from the canonical order ps.
+func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, conf float64, cfg Config) {
 	async := task(wg)
 	async(func() {
 		tau, ptau := ps.KendallTauB()
@@ -218,7 +218,7 @@ func sideStatistics(wg *sync.WaitGroup, out *sideStats, ps *stats.Sorted, m stat
 	})
 	async(func() {
 		if ps.Len() >= 4 {
-			if q, err := ps.PolynomialSummaryFrom(m, 2, conf); err == nil && len(q.Coef) == 3 {
+			if q, err := ps.PolynomialSummary(2, conf); err == nil && len(q.Coef) == 3 {
 				out.quad = &q
 				f := regFit("quadratic", "y = b0 + b1·x + b2·x²", []string{"intercept", "x", "x^2"}, q)
 				if b2 := q.Coef[2].Estimate; b2 != 0 {

@@ -226,8 +226,8 @@ func analyze(in Input, cfg Config) report.Study {
 	ps := stats.NewSorted(x, y)
 	var side sideStats
 	var wg sync.WaitGroup
-	m := stats.CentredMoments(ps.X, ps.Y)
-	sideStatistics(&wg, &side, ps, m, conf, cfg)
+	m := ps.Moments()
+	sideStatistics(&wg, &side, ps, conf, cfg)
 	defer wg.Wait() // a study that fails below returns after them
 
 	s.Moments = &report.Moments{N: m.N, MeanX: report.Float(m.MeanX), MeanY: report.Float(m.MeanY),
@@ -243,7 +243,7 @@ func analyze(in Input, cfg Config) report.Study {
 	// would be two more columns of n), then its residuals in data order,
 	// beside x, y and the run order; fitted values are y − residual where
 	// needed.
-	line, err := ps.LineSummaryFrom(m, conf)
+	line, err := ps.LineSummary(conf)
 	if err != nil {
 		return failed(s, fmt.Sprintf("the straight line could not be fitted: %v", err))
 	}

@@ -165,18 +165,15 @@ type Moments struct {
 	Sxy          float64 // Σ(x−x̄)(y−ȳ)
 
 	// parts, set by CentredMoments only: each mean in the two parts of
-	// meanParts (hi the plain mean, lo its correction), which the line
-	// and the quadratic of the same pairs reuse (Sorted.LineSummaryFrom)
-	// instead of summing the columns again.
+	// meanParts (hi the plain mean, lo its correction), which the Sorted
+	// fits and summaries of the same pairs reuse (Sorted.Moments) instead
+	// of summing the columns again.
 	parts meanPair
 }
 
 // meanPair holds the means of x and y in two parts each, as meanParts
-// returns them (set: filled by CentredMoments).
-type meanPair struct {
-	xhi, xlo, yhi, ylo float64
-	set                bool
-}
+// returns them.
+type meanPair struct{ xhi, xlo, yhi, ylo float64 }
 
 // CentredMoments returns n, the means and the centred sums Sxx, Syy, Sxy of
 // the pairs (x[i], y[i]) by the corrected two-pass algorithm (Chan, Golub &
@@ -224,7 +221,7 @@ func CentredMoments(x, y []float64) Moments {
 	}
 	cx, cy := kcx.value(), kcy.value()
 	m.MeanX, m.MeanY = mx+cx/n, my+cy/n
-	m.parts = meanPair{xhi: mx, xlo: cx / n, yhi: my, ylo: cy / n, set: true}
+	m.parts = meanPair{xhi: mx, xlo: cx / n, yhi: my, ylo: cy / n}
 	m.Sxx = kxx.value() - cx*cx/n
 	m.Syy = kyy.value() - cy*cy/n
 	m.Sxy = kxy.value() - cx*cy/n

@@ -56,18 +56,25 @@ func LackOfFit(x, y []float64) (f float64, df1, df2 int, p float64, ok bool) {
 	for k, i := range idx {
 		xs[k], ys[k] = x[i], y[i]
 	}
-	return lackOfFitSorted(xs, ys, line.Slope.Estimate)
+	return lackOfFitSorted(xs, ys, line.Slope.Estimate, nil)
 }
 
-// lackOfFitSorted is LackOfFit of pairs sorted by x, b1 the line's slope.
-func lackOfFitSorted(x, y []float64, b1 float64) (f float64, df1, df2 int, p float64, ok bool) {
+// lackOfFitSorted is LackOfFit of pairs sorted by x, b1 the line's slope;
+// mp, when not nil, holds the two-part means of x and y (meanParts's
+// figures for these pairs in this order), taken instead of summing again.
+func lackOfFitSorted(x, y []float64, b1 float64, mp *meanPair) (f float64, df1, df2 int, p float64, ok bool) {
 	nan := math.NaN()
 	n := len(x)
 	if n < 4 || math.IsNaN(b1) {
 		return nan, 0, 0, nan, false
 	}
-	hx, lx, _ := meanParts(x)
-	hy, ly, _ := meanParts(y)
+	var hx, lx, hy, ly float64
+	if mp != nil {
+		hx, lx, hy, ly = mp.xhi, mp.xlo, mp.yhi, mp.ylo
+	} else {
+		hx, lx, _ = meanParts(x)
+		hy, ly, _ = meanParts(y)
+	}
 	var ssPE, ssLOF float64
 	m := 0
 	for lo := 0; lo < n; {

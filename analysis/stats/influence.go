@@ -135,10 +135,10 @@ func NewLineInfluence(x, y []float64) *LineInfluence {
 	li.sole = soleSupportRow(x)
 	li.nf = float64(n)
 	li.b1 = li.m.Sxy / li.m.Sxx
-	// Deviations from means held in two parts (meanParts): exact to
+	// Deviations from means held in two parts (meanParts's figures, which
+	// CentredMoments has just summed in the same order): exact to
 	// rounding even when x or y is far from 0.
-	li.hx, li.lx, _ = meanParts(x)
-	li.hy, li.ly, _ = meanParts(y)
+	li.hx, li.lx, li.hy, li.ly = li.m.parts.xhi, li.m.parts.xlo, li.m.parts.yhi, li.m.parts.ylo
 	var rss, sumY2 float64
 	for i := range x {
 		e := ((y[i] - li.hy) - li.ly) - li.b1*((x[i]-li.hx)-li.lx)

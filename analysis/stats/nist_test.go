@@ -168,15 +168,13 @@ func TestNISTStRD(t *testing.T) {
 			return PolynomialSummary(s.x[0], s.y, len(s.est)-1, 0.95)
 		}},
 		// The same on the pairs in canonical order, the means and centred
-		// sums taken from CentredMoments (as a study fits them).
+		// sums taken from Sorted.Moments (as a study fits them).
 		{"Norris.dat", 11, func(s strdFile) (Regression, error) {
-			ps := NewSorted(s.x[0], s.y)
-			l, err := ps.LineSummaryFrom(CentredMoments(ps.X, ps.Y), 0.95)
+			l, err := NewSorted(s.x[0], s.y).LineSummary(0.95)
 			return l.Regression, err
 		}},
 		{"Wampler1.dat", 8, func(s strdFile) (Regression, error) {
-			ps := NewSorted(s.x[0], s.y)
-			return ps.PolynomialSummaryFrom(CentredMoments(ps.X, ps.Y), len(s.est)-1, 0.95)
+			return NewSorted(s.x[0], s.y).PolynomialSummary(len(s.est)-1, 0.95)
 		}},
 	}
 	for k, tc := range cases {

@@ -37,6 +37,22 @@ type Sorted struct {
 	// the one before it (and bit 0): where the runs of equal y start in
 	// ByY's order, read without fetching the values.
 	yNew []uint64
+
+	// mom holds CentredMoments(X, Y), summed once on first use (Moments)
+	// and read by every figure that needs the means or centred sums.
+	mom struct {
+		once sync.Once
+		m    Moments
+	}
+}
+
+// Moments returns CentredMoments(s.X, s.Y), summed on the first call
+// only. The Sorted fits and summaries take their means and centred sums
+// from it (the figures they would otherwise sum again from the same
+// values in the same order, so the results are the same to the last bit).
+func (s *Sorted) Moments() Moments {
+	s.mom.once.Do(func() { s.mom.m = CentredMoments(s.X, s.Y) })
+	return s.mom.m
 }
 
 // NewSorted returns the pairs (x[i], y[i]) in canonical order. A stable
@@ -370,18 +386,21 @@ func (s *Sorted) ToRows(v []float64) []float64 {
 // quartiles (Quantile7) read from the sorted values without a copy.
 func (s *Sorted) Describe() (x, y Summary) {
 	yAt := func(k int) float64 { return s.Y[s.ByY[k]] }
-	return summarySorted(s.X, func(k int) float64 { return s.X[k] }), summarySorted(s.Y, yAt)
+	if s.Len() == 0 {
+		return summarySorted(0, 0, 0, nil), summarySorted(0, 0, 0, nil)
+	}
+	m := s.Moments() // the means and centred sums of squares meanSS gives
+	return summarySorted(s.Len(), m.MeanX, m.Sxx, func(k int) float64 { return s.X[k] }), summarySorted(s.Len(), m.MeanY, m.Syy, yAt)
 }
 
-// summarySorted is Describe of v (no NaN) whose k-th smallest value is at(k).
-func summarySorted(v []float64, at func(int) float64) Summary {
-	n := len(v)
+// summarySorted is Describe of n values (no NaN) of mean m and centred
+// sum of squares ss (meanSS) whose k-th smallest value is at(k).
+func summarySorted(n int, m, ss float64, at func(int) float64) Summary {
 	nan := math.NaN()
 	sm := Summary{N: n, Mean: nan, SD: nan, Min: nan, Q1: nan, Median: nan, Q3: nan, Max: nan}
 	if n == 0 {
 		return sm
 	}
-	m, ss := meanSS(v)
 	sm.Mean = m
 	if n > 1 {
 		sm.SD = math.Sqrt(ss / float64(n-1))
@@ -436,6 +455,21 @@ func (s *Sorted) LineSummary(conf float64) (LineFit, error) {
 		x0, x1, y0, y1 := s.ends()
 		if finite(x0, x1, y0, y1) && x0 != x1 {
 			kx, ky := endsShift(x0, x1), endsShift(y0, y1)
+			if kx == 0 && ky == 0 {
+				// The fit's first two passes, and lineFrom's x̄ and Sxx,
+				// are the figures of Moments: taken from it.
+				m := s.Moments()
+				known := []colParts{{m.parts.xhi, m.parts.xlo, m.Sxx}, {m.parts.yhi, m.parts.ylo, m.Syy}}
+				reg, err := lsqSummaryKnown(s.Len(), 1, func(lo, hi int, buf []float64) {
+					for i := lo; i < hi; i++ {
+						buf[2*(i-lo)], buf[2*(i-lo)+1] = s.X[i], s.Y[i]
+					}
+				}, conf, known)
+				if err != nil {
+					return LineFit{}, err
+				}
+				return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: m.MeanX, Sxx: m.Sxx}, nil
+			}
 			reg, err := fitShifted([][]float64{s.X}, s.Y, conf, false, []int{kx}, ky)
 			if err != nil {
 				return LineFit{}, err
@@ -446,51 +480,15 @@ func (s *Sorted) LineSummary(conf float64) (LineFit, error) {
 	return LineSummary(s.X, s.Y, conf)
 }
 
-// LineSummaryFrom is LineSummary given m = CentredMoments(s.X, s.Y):
-// where neither column needs scaling, the fit takes its means and
-// centred sums of squares from m (the same figures summed in the same
-// order, so the same line to the last bit) instead of four more passes
-// over the columns. Any other m, or a column that needs scaling, goes
-// LineSummary's way.
-func (s *Sorted) LineSummaryFrom(m Moments, conf float64) (LineFit, error) {
-	if m.parts.set && m.N == s.Len() && s.Len() >= 2 {
-		x0, x1, y0, y1 := s.ends()
-		if finite(x0, x1, y0, y1) && x0 != x1 && endsShift(x0, x1) == 0 && endsShift(y0, y1) == 0 {
-			known := []colParts{{m.parts.xhi, m.parts.xlo, m.Sxx}, {m.parts.yhi, m.parts.ylo, m.Syy}}
-			reg, err := lsqSummaryKnown(s.Len(), 1, func(lo, hi int, buf []float64) {
-				for i := lo; i < hi; i++ {
-					buf[2*(i-lo)], buf[2*(i-lo)+1] = s.X[i], s.Y[i]
-				}
-			}, conf, known)
-			if err != nil {
-				return LineFit{}, err
-			}
-			return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: m.MeanX, Sxx: m.Sxx}, nil
-		}
-	}
-	return s.LineSummary(conf)
-}
-
 // PolynomialSummary returns PolynomialSummary(s.X, s.Y, degree, conf),
 // its checks and y's scaling read off the sorted ends as LineSummary's
 // are, and the largest |x − x̄| too: x − x̄ (rounded) grows with x, so it
 // is largest in magnitude at an end.
 func (s *Sorted) PolynomialSummary(degree int, conf float64) (Regression, error) {
-	return s.PolynomialSummaryFrom(Moments{}, degree, conf)
-}
-
-// PolynomialSummaryFrom is PolynomialSummary given m = CentredMoments(s.X,
-// s.Y), whose mean of x (the same figure meanSS gives) centres the powers
-// without another two passes over x. Any other m (the zero Moments among
-// them) has the mean computed.
-func (s *Sorted) PolynomialSummaryFrom(m Moments, degree int, conf float64) (Regression, error) {
 	if n := s.Len(); degree >= 1 && n >= degree+1 && n >= 2 {
 		x0, x1, y0, y1 := s.ends()
 		if finite(x0, x1, y0, y1) && distinctAtMost(s.X, degree+1) == degree+1 {
-			c := m.MeanX
-			if !m.parts.set || m.N != n {
-				c, _ = meanSS(s.X)
-			}
+			c := s.Moments().MeanX // meanSS(s.X)'s figure
 			return polySummary(s.X, s.Y, degree, conf, c, max(math.Abs(x0-c), math.Abs(x1-c)), endsShift(y0, y1))
 		}
 	}
@@ -598,7 +596,11 @@ func (s *Sorted) KendallTauB() (tau, p float64) {
 // least-squares slope of the pairs (Line(s.X, s.Y, ·).Slope.Estimate), which
 // the caller has fitted already.
 func (s *Sorted) LackOfFit(slope float64) (f float64, df1, df2 int, p float64, ok bool) {
-	return lackOfFitSorted(s.X, s.Y, slope)
+	if s.Len() < 4 {
+		return lackOfFitSorted(s.X, s.Y, slope, nil)
+	}
+	mp := s.Moments().parts
+	return lackOfFitSorted(s.X, s.Y, slope, &mp)
 }
 
 // DistanceCorrTest returns the distance correlation of the pairs on all n

@@ -412,10 +412,10 @@ func TestSortedPearson(t *testing.T) {
 // PolynomialSummary's fits bit for bit, errors included: data that need
 // no scaling, y and x far from 1 (scaled by a power of two), a constant x
 // and x with two distinct values (an identity, for any data).
-// TestSortedFits checks that the Sorted fits, and the fits given the
-// pairs' CentredMoments (LineSummaryFrom, PolynomialSummaryFrom), are
-// those of LineSummary and PolynomialSummary on the sorted pairs to the
-// last bit: the same figures summed in the same order.
+// TestSortedFits checks that the Sorted fits and summaries, which take
+// their means and centred sums from Sorted.Moments, are those of
+// LineSummary, PolynomialSummary, Describe and lack of fit on the sorted
+// pairs to the last bit: the same figures summed in the same order.
 func TestSortedFits(t *testing.T) {
 	t.Parallel()
 	rng := rand.New(rand.NewPCG(13, 14))
@@ -441,10 +441,16 @@ func TestSortedFits(t *testing.T) {
 		if fmt.Sprintf("%#v %v", l1, e1) != fmt.Sprintf("%#v %v", l2, e2) {
 			t.Errorf("%s: Sorted.LineSummary %+v %v, LineSummary %+v %v", c.name, l1, e1, l2, e2)
 		}
-		m := CentredMoments(s.X, s.Y)
-		l3, e3 := s.LineSummaryFrom(m, 0.95)
-		if fmt.Sprintf("%#v %v", l3, e3) != fmt.Sprintf("%#v %v", l2, e2) {
-			t.Errorf("%s: Sorted.LineSummaryFrom %+v %v, LineSummary %+v %v", c.name, l3, e3, l2, e2)
+		dx, dy := s.Describe()
+		if wx, wy := Describe(s.X), Describe(s.Y); fmt.Sprintf("%#v %#v", dx, dy) != fmt.Sprintf("%#v %#v", wx, wy) {
+			t.Errorf("%s: Sorted.Describe %+v %+v, Describe %+v %+v", c.name, dx, dy, wx, wy)
+		}
+		if e2 == nil {
+			f1, a1, b1, p1, ok1 := s.LackOfFit(l2.Slope.Estimate)
+			f2, a2, b2, p2, ok2 := lackOfFitSorted(s.X, s.Y, l2.Slope.Estimate, nil)
+			if fmt.Sprint(f1, a1, b1, p1, ok1) != fmt.Sprint(f2, a2, b2, p2, ok2) {
+				t.Errorf("%s: Sorted.LackOfFit %v %v %v %v %v, lackOfFitSorted %v %v %v %v %v", c.name, f1, a1, b1, p1, ok1, f2, a2, b2, p2, ok2)
+			}
 		}
 		q1, e1 := s.PolynomialSummary(2, 0.95)
 		q2, e2 := PolynomialSummary(s.X, s.Y, 2, 0.95)
@@ -455,10 +461,6 @@ func TestSortedFits(t *testing.T) {
 		}
 		if show(q1, e1) != show(q2, e2) {
 			t.Errorf("%s: Sorted.PolynomialSummary %+v %v, PolynomialSummary %+v %v", c.name, q1, e1, q2, e2)
-		}
-		q3, e3 := s.PolynomialSummaryFrom(m, 2, 0.95)
-		if show(q3, e3) != show(q2, e2) {
-			t.Errorf("%s: Sorted.PolynomialSummaryFrom %+v %v, PolynomialSummary %+v %v", c.name, q3, e3, q2, e2)
 		}
 	}
 }

@@ -616,15 +616,27 @@ func polynomial(x, y []float64, degree int, conf float64, perRow bool) (Regressi
 func polySummary(x, y []float64, degree int, conf, c, s float64, ky int) (Regression, error) {
 	q := degree + 1
 	r, err := lsqSummaryRows(len(x), degree, func(lo, hi int, buf []float64) {
-		for i := lo; i < hi; i++ {
-			row := buf[(i-lo)*q : (i-lo+1)*q]
-			t := (x[i] - c) / s
-			v := t
-			for d := range degree {
-				row[d] = v
-				v *= t
+		if degree == 2 {
+			// The quadratic, the study's, written out: the general loop
+			// below kept its counters in memory (the same values).
+			xs, ys := x[lo:hi], y[lo:hi]
+			buf = buf[:3*len(xs)]
+			for i, v := range xs {
+				t := (v - c) / s
+				row := buf[3*i : 3*i+3 : 3*i+3]
+				row[0], row[1], row[2] = t, t*t, ys[i]
 			}
-			row[degree] = y[i]
+		} else {
+			for i := lo; i < hi; i++ {
+				row := buf[(i-lo)*q : (i-lo+1)*q]
+				t := (x[i] - c) / s
+				v := t
+				for d := range degree {
+					row[d] = v
+					v *= t
+				}
+				row[degree] = y[i]
+			}
 		}
 		if ky != 0 {
 			for k := degree; k < len(buf); k += q {

@@ -58,6 +58,8 @@ func BenchmarkStudyStats1e6(b *testing.B) {
 		{"sorted/LackOfFit", func() { s.LackOfFit(line.Slope.Estimate) }},
 		{"sorted/DistanceCorrTest", func() { s.DistanceCorrTest(199, 0, src()) }},
 		{"sorted/TheilSen", func() { TheilSen(s.X, s.Y, 0, src()) }},
+		{"sorted/LineSummary", func() { s.LineSummary(0.95) }},
+		{"sorted/PolynomialSummary", func() { s.PolynomialSummary(2, 0.95) }},
 		{"sorted/Sample", func() { s.Sample(20000, src()) }},
 		{"sorted/ToRows", func() { s.ToRows(s.X) }},
 	} {

@@ -77,25 +77,10 @@ func valueSample(xs, ys []float64, m int) rowSample {
 	}
 	hs := make([]uint64, 0, room)
 	is := make([]int, 0, cap(hs))
-	inOrder := true // xs ascending, as every caller gives it
+	var inOrder bool // xs ascending, as every caller gives it
 	for {
-		hs, is = hs[:0], is[:0]
 		all := keepAll || frac >= 0.5 // a bound near 2⁶⁴ would overflow; half the rows or more: keep them all
-		bound := uint64(frac * (1 << 63) * 2)
-		k := 0
-		for i := range n {
-			if i > 0 && xs[i] == xs[i-1] && ys[i] == ys[i-1] {
-				k++
-			} else {
-				k = 0
-			}
-			if i > 0 && xs[i] < xs[i-1] {
-				inOrder = false
-			}
-			if h := rowHash(xs[i], ys[i], k); all || h < bound {
-				hs, is = append(hs, h), append(is, i)
-			}
-		}
+		hs, is, inOrder = belowBound(xs, ys, uint64(frac*(1<<63)*2), all, hs[:0], is[:0])
 		if keepAll || len(hs) >= m {
 			break
 		}
@@ -136,8 +121,18 @@ func valueSample(xs, ys []float64, m int) rowSample {
 			for hi < len(rows) && rows[hi].x == rows[lo].x {
 				hi++
 			}
-			if hi-lo > 1 {
-				slices.SortFunc(rows[lo:hi], func(a, b row) int { return cmp.Or(cmp.Compare(a.y, b.y), cmp.Compare(a.h, b.h)) })
+			switch run := rows[lo:hi]; {
+			case len(run) <= 32:
+				// The common short run, by insertion (no call per
+				// comparison); the same order, as (y, h) orders a run's
+				// distinct rows totally.
+				for i := 1; i < len(run); i++ {
+					for j := i; j > 0 && (run[j].y < run[j-1].y || run[j].y == run[j-1].y && run[j].h < run[j-1].h); j-- {
+						run[j], run[j-1] = run[j-1], run[j]
+					}
+				}
+			default:
+				slices.SortFunc(run, func(a, b row) int { return cmp.Or(cmp.Compare(a.y, b.y), cmp.Compare(a.h, b.h)) })
 			}
 			lo = hi
 		}
@@ -147,6 +142,48 @@ func valueSample(xs, ys []float64, m int) rowSample {
 		out.x[j], out.y[j], out.h[j] = r.x, r.y, r.h
 	}
 	return out
+}
+
+// belowBound appends to hs and is the rowHash and the index of each row
+// whose rowHash lies below bound (every row when all), k counted as
+// valueSample says, and reports whether xs ascends. (A function of its
+// own: inside valueSample the loop's variables lived on the stack.)
+func belowBound(xs, ys []float64, bound uint64, all bool, hs []uint64, is []int) ([]uint64, []int, bool) {
+	inOrder := true
+	ys = ys[:len(xs)]
+	k := 0
+	for i, x := range xs {
+		y := ys[i]
+		if i > 0 {
+			px, py := xs[i-1], ys[i-1]
+			if x == px && y == py {
+				k++
+			} else {
+				k = 0
+			}
+			if x < px {
+				inOrder = false
+			}
+		}
+		// rowHash(x, y, k) written out (as a call it was a quarter of
+		// the loop's time); TestBelowBoundHash holds the two together.
+		h := math.Float64bits(x + 0)
+		h = (h ^ (h >> 30)) * 0xbf58476d1ce4e5b9
+		h = (h ^ (h >> 27)) * 0x94d049bb133111eb
+		h ^= h >> 31
+		h ^= math.Float64bits(y + 0)
+		h = (h ^ (h >> 30)) * 0xbf58476d1ce4e5b9
+		h = (h ^ (h >> 27)) * 0x94d049bb133111eb
+		h ^= h >> 31
+		h ^= uint64(k) * 0x9e3779b97f4a7c15
+		h = (h ^ (h >> 30)) * 0xbf58476d1ce4e5b9
+		h = (h ^ (h >> 27)) * 0x94d049bb133111eb
+		h ^= h >> 31
+		if all || h < bound {
+			hs, is = append(hs, h), append(is, i)
+		}
+	}
+	return hs, is, inOrder
 }
 
 // smallestOf returns, from the items is with hashes hs, the m (< len(is))

@@ -260,3 +260,54 @@ func TestPairHash(t *testing.T) {
 		t.Error("−0 and 0 hash differently")
 	}
 }
+
+// BenchmarkValueSample: the study's value-chosen sample (sampleMax rows)
+// of 10⁶ pairs in canonical order, x read to 3 decimals as the benchmark
+// generator writes it (runs of equal x).
+func BenchmarkValueSample(b *testing.B) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	x, y := make([]float64, 1_000_000), make([]float64, 1_000_000)
+	for i := range x {
+		x[i] = math.Round((5+2*rng.NormFloat64())*1000) / 1000
+		y[i] = math.Round((3+0.5*x[i]+rng.NormFloat64())*1000) / 1000
+	}
+	ps := stats.NewSorted(x, y)
+	m := sampleMax(Config{}.withDefaults())
+	b.ReportAllocs()
+	for b.Loop() {
+		valueSample(ps.X, ps.Y, m)
+	}
+}
+
+// TestBelowBoundHash: belowBound's written-out hash is rowHash, k
+// counted over runs of equal pairs (values with −0, ties and repeats).
+func TestBelowBoundHash(t *testing.T) {
+	xs := []float64{-1, -1, math.Copysign(0, -1), 0, 0, 0.5, 0.5, 0.5, 2, 2, 1e300}
+	ys := []float64{3, 3, 1, 1, 1, -2, 7, 7, 0, 0, -1e-300}
+	hs, is, inOrder := belowBound(xs, ys, 0, true, nil, nil)
+	if !inOrder || len(hs) != len(xs) {
+		t.Fatalf("kept %d of %d rows, in order %v", len(hs), len(xs), inOrder)
+	}
+	k := 0
+	for i := range xs {
+		if i > 0 && xs[i] == xs[i-1] && ys[i] == ys[i-1] {
+			k++
+		} else {
+			k = 0
+		}
+		if want := rowHash(xs[i], ys[i], k); hs[i] != want || is[i] != i {
+			t.Errorf("row %d (k %d): hash %#x, want rowHash %#x", i, k, hs[i], want)
+		}
+	}
+	// The bound: only the rows below it.
+	cut := hs[4]
+	bs, bi, _ := belowBound(xs, ys, cut, false, nil, nil)
+	for j, i := range bi {
+		if bs[j] >= cut || bs[j] != hs[i] {
+			t.Errorf("kept row %d with hash %#x, bound %#x", i, bs[j], cut)
+		}
+	}
+	if _, _, inOrder := belowBound([]float64{2, 1}, []float64{0, 0}, 0, true, nil, nil); inOrder {
+		t.Error("descending x reported in order")
+	}
+}

@@ -60,6 +60,7 @@ func BenchmarkStudyStats1e6(b *testing.B) {
 		{"sorted/TheilSen", func() { TheilSen(s.X, s.Y, 0, src()) }},
 		{"sorted/LineSummary", func() { s.LineSummary(0.95) }},
 		{"sorted/PolynomialSummary", func() { s.PolynomialSummary(2, 0.95) }},
+		{"sorted/SlopeHACRun", func() { SlopeHACRun(s.X, s.Y, x, y, NeweyWestLags(len(x))) }},
 		{"sorted/Sample", func() { s.Sample(20000, src()) }},
 		{"sorted/ToRows", func() { s.ToRows(s.X) }},
 	} {

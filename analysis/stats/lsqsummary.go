@@ -142,12 +142,7 @@ func lsqSummaryKnown(n, p int, fill func(lo, hi int, buf []float64), conf float6
 	for b := 0; b < n; b += summaryBlock {
 		k := min(b+summaryBlock, n) - b
 		fill(b, b+k, m[held*q:(held+k)*q])
-		for t := held * q; t < (held+k)*q; t += q {
-			dst := m[t : t+q]
-			for j := range q {
-				dst[j] = (dst[j] - hi[j]) - lo[j]
-			}
-		}
+		centreRows(m[held*q:(held+k)*q], q, hi, lo)
 		householderR(m[:(held+k)*q], held+k, q)
 		held = min(held+k, q)
 	}
@@ -172,21 +167,55 @@ func lsqSummaryKnown(n, p int, fill func(lo, hi int, buf []float64), conf float6
 	parts := make([]ksum, p)
 	for b := 0; b < n; b += sumBlock {
 		rows := block(b)
-		for k := 0; k+q <= len(rows); k += q {
-			row := rows[k : k+q]
-			s := (row[p] - hi[p]) - lo[p]
-			for j := range p {
-				row[j] = (row[j] - hi[j]) - lo[j]
-				s -= coef[j] * row[j]
-			}
-			row[p] = s
-		}
-		for j := range p {
+		switch p {
+		case 1:
+			// The line, written out (the general loop below kept its
+			// counters in memory); the same operations in the same order.
+			h0, l0, hy, ly, c0 := hi[0], lo[0], hi[1], lo[1], coef[0]
 			var blk float64
-			for k := 0; k < len(rows); k += q {
-				blk += rows[k+j] * rows[k+p]
+			for k := 0; k+2 <= len(rows); k += 2 {
+				row := rows[k : k+2 : k+2]
+				s := (row[1] - hy) - ly
+				d0 := (row[0] - h0) - l0
+				s -= c0 * d0
+				row[0], row[1] = d0, s
+				blk += d0 * s
 			}
-			parts[j].add(blk)
+			parts[0].add(blk)
+		case 2:
+			// The quadratic, likewise.
+			h0, l0, h1, l1, hy, ly, c0, c1 := hi[0], lo[0], hi[1], lo[1], hi[2], lo[2], coef[0], coef[1]
+			var blk0, blk1 float64
+			for k := 0; k+3 <= len(rows); k += 3 {
+				row := rows[k : k+3 : k+3]
+				s := (row[2] - hy) - ly
+				d0 := (row[0] - h0) - l0
+				s -= c0 * d0
+				d1 := (row[1] - h1) - l1
+				s -= c1 * d1
+				row[0], row[1], row[2] = d0, d1, s
+				blk0 += d0 * s
+				blk1 += d1 * s
+			}
+			parts[0].add(blk0)
+			parts[1].add(blk1)
+		default:
+			for k := 0; k+q <= len(rows); k += q {
+				row := rows[k : k+q]
+				s := (row[p] - hi[p]) - lo[p]
+				for j := range p {
+					row[j] = (row[j] - hi[j]) - lo[j]
+					s -= coef[j] * row[j]
+				}
+				row[p] = s
+			}
+			for j := range p {
+				var blk float64
+				for k := 0; k < len(rows); k += q {
+					blk += rows[k+j] * rows[k+p]
+				}
+				parts[j].add(blk)
+			}
 		}
 	}
 	atr := make([]float64, p)
@@ -207,18 +236,73 @@ func (r Regression) summariseRows(block func(b int) []float64, b []float64, conf
 	q := r.p + 1
 	for lo := 0; lo < r.N; lo += sumBlock {
 		rows := block(lo)
-		for k := 0; k < len(rows); k += q {
-			row := rows[k : k+q]
-			var f float64
-			for j := range r.p {
-				f += b[j] * ((row[j] - r.means[j]) - r.mlo[j])
+		switch r.p {
+		case 1: // the line, written out as in lsqSummaryKnown
+			m0, l0, b0 := r.means[0], r.mlo[0], b[0]
+			for k := 0; k+2 <= len(rows); k += 2 {
+				row := rows[k : k+2 : k+2]
+				var f float64
+				f += b0 * ((row[0] - m0) - l0)
+				e := ((row[1] - r.ymean) - r.ylo) - f
+				rss += e * e
+				ess += f * f
 			}
-			e := ((row[r.p] - r.ymean) - r.ylo) - f
-			rss += e * e
-			ess += f * f
+		case 2: // the quadratic
+			m0, l0, b0, m1, l1, b1 := r.means[0], r.mlo[0], b[0], r.means[1], r.mlo[1], b[1]
+			for k := 0; k+3 <= len(rows); k += 3 {
+				row := rows[k : k+3 : k+3]
+				var f float64
+				f += b0 * ((row[0] - m0) - l0)
+				f += b1 * ((row[1] - m1) - l1)
+				e := ((row[2] - r.ymean) - r.ylo) - f
+				rss += e * e
+				ess += f * f
+			}
+		default:
+			for k := 0; k < len(rows); k += q {
+				row := rows[k : k+q]
+				var f float64
+				for j := range r.p {
+					f += b[j] * ((row[j] - r.means[j]) - r.mlo[j])
+				}
+				e := ((row[r.p] - r.ymean) - r.ylo) - f
+				rss += e * e
+				ess += f * f
+			}
 		}
 	}
 	return r.infer(rss, ess, b, conf)
+}
+
+// centreRows takes each column's mean in two parts (hi[j] + lo[j]) from
+// every row of rows, q values a row: v − hi − lo in that order. The line's
+// and the quadratic's rows are written out (a loop over the columns kept
+// its counters in memory).
+func centreRows(rows []float64, q int, hi, lo []float64) {
+	switch q {
+	case 2:
+		h0, h1, l0, l1 := hi[0], hi[1], lo[0], lo[1]
+		for t := 0; t+2 <= len(rows); t += 2 {
+			r := rows[t : t+2 : t+2]
+			r[0] = (r[0] - h0) - l0
+			r[1] = (r[1] - h1) - l1
+		}
+	case 3:
+		h0, h1, h2, l0, l1, l2 := hi[0], hi[1], hi[2], lo[0], lo[1], lo[2]
+		for t := 0; t+3 <= len(rows); t += 3 {
+			r := rows[t : t+3 : t+3]
+			r[0] = (r[0] - h0) - l0
+			r[1] = (r[1] - h1) - l1
+			r[2] = (r[2] - h2) - l2
+		}
+	default:
+		for t := 0; t+q <= len(rows); t += q {
+			r := rows[t : t+q]
+			for j := range q {
+				r[j] = (r[j] - hi[j]) - lo[j]
+			}
+		}
+	}
 }
 
 // householderR reduces the k×q row-major matrix a to upper-triangular form

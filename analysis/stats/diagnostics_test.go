@@ -1,6 +1,7 @@
 package stats
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -241,6 +242,24 @@ func benchmarkDurbinWatson(b *testing.B, n int) {
 func BenchmarkDurbinWatson1e3(b *testing.B) { benchmarkDurbinWatson(b, 1e3) }
 func BenchmarkDurbinWatson1e5(b *testing.B) { benchmarkDurbinWatson(b, 1e5) }
 func BenchmarkDurbinWatson1e6(b *testing.B) { benchmarkDurbinWatson(b, 1e6) }
+
+// BenchmarkDurbinWatsonTied1e6: the study's form, keyed by a run order
+// that increases down the rows, first without ties and then in blocks of
+// ten tied rows.
+func BenchmarkDurbinWatsonTied1e6(b *testing.B) {
+	_, _, e := extraBenchData(1_000_000)
+	for _, block := range []int{1, 10} {
+		key := make([]float64, len(e))
+		for i := range key {
+			key[i] = float64(i / block)
+		}
+		b.Run(fmt.Sprintf("block=%d", block), func(b *testing.B) {
+			for b.Loop() {
+				DurbinWatsonTied(key, e)
+			}
+		})
+	}
+}
 
 func benchmarkOrderTrend(b *testing.B, n int) {
 	_, _, e := extraBenchData(n)

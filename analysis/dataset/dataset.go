@@ -451,11 +451,13 @@ func scanNumber(rec []byte, delim byte) (v float64, n int, seen byte, ok bool) {
 	if e-1 >= 7 {
 		return scanBytes(rec, delim) // empty, or the cell may go on past w
 	}
-	v, seen, ok = wordCell(w, e)
+	if v, seen, ok = wordCell(w, e); !ok {
+		return 0, 0, 0, false
+	}
 	if i == 1 && rec[0] == '-' {
 		v = -v
 	}
-	return v, i + int(e), seen, ok
+	return v, i + int(e), seen, true
 }
 
 // Byte-wise constants: every byte holds the same value.

@@ -2,7 +2,8 @@
 # Pairs `bivar run` against the reference run (pandas, scipy, statsmodels,
 # matplotlib: ../shared/tools/bench/reference.py) on the same CSV file, as
 # whole processes, and prints each run's wall time, CPU seconds (user + sys)
-# and peak RSS, then the medians and the median CPU ratio.
+# and peak RSS, then the medians, the ratio of the median CPU times and the
+# median of the paired runs' CPU ratios.
 #
 #   ./bench-pair.sh FILE.csv [RUNS]        # default 5 runs each, alternating
 #   REF=0 ./bench-pair.sh FILE.csv         # bivar only (e.g. at 10⁷ rows, where the reference takes minutes)
@@ -72,11 +73,19 @@ function median(s,   v, n, i, j, t) {
 	for (i = 1; i <= n; i++) for (j = i + 1; j <= n; j++) if (v[j] + 0 < v[i] + 0) { t = v[i]; v[i] = v[j]; v[j] = t }
 	return (n % 2) ? v[(n + 1) / 2] : (v[n / 2] + v[n / 2 + 1]) / 2
 }
-{ wall[$1] = wall[$1] " " $2; cpu[$1] = cpu[$1] " " $3; rss[$1] = rss[$1] " " $4 }
+{ wall[$1] = wall[$1] " " $2; cpu[$1] = cpu[$1] " " $3; rss[$1] = rss[$1] " " $4; n[$1]++; at[$1, n[$1]] = $3 }
 END {
 	print "medians:"
 	for (k in wall) printf "  %-9s wall %7.2f s   cpu %7.2f s   peak RSS %7.0f MB\n", k, median(wall[k]), median(cpu[k]), median(rss[k]) / 1024
 	if (("reference" in cpu) && ("bivar" in cpu))
 		printf "CPU ratio (reference / bivar, medians): %.1f×   peak RSS ratio: %.1f×\n",
 			median(cpu["reference"]) / median(cpu["bivar"]), median(rss["reference"]) / median(rss["bivar"])
+	# Run i of bivar and run i of the reference ran one after the other:
+	# the median of their ratios is less moved by a shared machine that
+	# is slower for a minute and then faster than either median alone.
+	if (("reference" in cpu) && ("bivar" in cpu)) {
+		pairs = ""
+		for (i = 1; i <= n["bivar"] && i <= n["reference"]; i++) pairs = pairs " " at["reference", i] / at["bivar", i]
+		printf "CPU ratio, median of the %d paired runs: %.1f×\n", split(pairs, tmp, " "), median(pairs)
+	}
 }' "$work/runs"

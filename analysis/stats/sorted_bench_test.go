@@ -35,7 +35,10 @@ func benchCPUTime() int64 {
 // BenchmarkStudyStats1e6 times, at 10⁶ pairs, each order-based statistic
 // of a study as the functions on unsorted columns compute it ("columns/…",
 // each sorting on its own) and from one Sorted ("sorted/…", whose own cost
-// is "sorted/NewSorted"), in wall and CPU time.
+// is "sorted/NewSorted"), in wall and CPU time. The Sorted's Moments are
+// summed once, at the first call that needs them, and read by every later
+// one, as in a study: "sorted/Describe", "…/LackOfFit", "…/LineSummary"
+// and "…/PolynomialSummary" time the figures after that sum.
 func BenchmarkStudyStats1e6(b *testing.B) {
 	x, y := studyBenchData(1_000_000)
 	s := NewSorted(x, y)

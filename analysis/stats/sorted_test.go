@@ -408,14 +408,13 @@ func TestSortedPearson(t *testing.T) {
 }
 
 // TestSortedFits: Sorted.LineSummary and Sorted.PolynomialSummary, whose
-// checks and scaling read the sorted ends, give LineSummary's and
-// PolynomialSummary's fits bit for bit, errors included: data that need
-// no scaling, y and x far from 1 (scaled by a power of two), a constant x
-// and x with two distinct values (an identity, for any data).
-// TestSortedFits checks that the Sorted fits and summaries, which take
-// their means and centred sums from Sorted.Moments, are those of
-// LineSummary, PolynomialSummary, Describe and lack of fit on the sorted
-// pairs to the last bit: the same figures summed in the same order.
+// checks and scaling read the sorted ends and whose means and centred sums
+// come from Sorted.Moments, and Sorted.Describe and Sorted.LackOfFit, give
+// LineSummary's, PolynomialSummary's, Describe's and lack of fit's results
+// on the sorted pairs bit for bit, errors included: data that need no
+// scaling, y and x far from 1 (scaled by a power of two), x far from 0
+// (both parts of the mean), a constant x and x with two distinct values
+// (an identity, for any data).
 func TestSortedFits(t *testing.T) {
 	t.Parallel()
 	rng := rand.New(rand.NewPCG(13, 14))

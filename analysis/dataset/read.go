@@ -713,17 +713,7 @@ func (p *part) wordRow(cfg *config, cols *[fastRowFields]int, rec []byte, at uin
 		}
 		start = end + 1
 	}
-	if f > last {
-		p.rows++
-		p.mark, p.markLine = mark, markLine
-		return true
-	}
-	for g := range f { // take back the numbers appended
-		if ci := cols[g&(fastRowFields-1)]; ci >= 0 {
-			p.nums[ci] = p.nums[ci][:len(p.nums[ci])-1]
-		}
-	}
-	return false
+	return p.settleRow(cols, f, f > last, mark, markLine)
 }
 
 // fastRow reads rec, a row without double quotes, in one pass when every
@@ -761,18 +751,28 @@ func (p *part) fastRow(cfg *config, cols *[fastRowFields]int, rec []byte, ln int
 			rec, ended = nil, true
 		}
 	}
+	ok := false
 	if f > last {
 		nf := passed + 1
 		if !ended {
 			nf += bytes.Count(rec, []byte{delim})
 		}
-		if nf == cfg.fields {
-			p.rows++
-			p.mark, p.markLine = mark, markLine
-			return true
-		}
+		ok = nf == cfg.fields
 	}
-	for g := range f { // take back the numbers appended
+	return p.settleRow(cols, f, ok, mark, markLine)
+}
+
+// settleRow ends a row that wordRow or fastRow read up to field f: a row
+// taken (ok) counts and leaves the block its decimal mark and the mark's
+// line; a row left has the numbers appended for its fields before f taken
+// back, so the general way reads it from scratch. It returns ok.
+func (p *part) settleRow(cols *[fastRowFields]int, f int, ok bool, mark byte, markLine int) bool {
+	if ok {
+		p.rows++
+		p.mark, p.markLine = mark, markLine
+		return true
+	}
+	for g := range f {
 		if ci := cols[g&(fastRowFields-1)]; ci >= 0 {
 			p.nums[ci] = p.nums[ci][:len(p.nums[ci])-1]
 		}

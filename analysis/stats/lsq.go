@@ -794,7 +794,7 @@ func Line(x, y []float64, conf float64) (LineFit, error) {
 		return LineFit{}, err
 	}
 	mx, sxx := meanSS(x)
-	return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: mx, Sxx: sxx}, nil
+	return lineFrom(reg, mx, sxx), nil
 }
 
 // LineSummary is Line without the per-row outputs (fitted values,
@@ -810,12 +810,13 @@ func LineSummary(x, y []float64, conf float64) (LineFit, error) {
 	if err != nil {
 		return LineFit{}, err
 	}
-	return lineFrom(reg, x), nil
+	mx, sxx := meanSS(x)
+	return lineFrom(reg, mx, sxx), nil
 }
 
-// lineFrom is the LineFit of reg, the straight line fitted to x.
-func lineFrom(reg Regression, x []float64) LineFit {
-	mx, sxx := meanSS(x)
+// lineFrom is the LineFit of reg, the straight line fitted to an x of
+// mean mx and centred sum of squares sxx (meanSS).
+func lineFrom(reg Regression, mx, sxx float64) LineFit {
 	return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: mx, Sxx: sxx}
 }
 

@@ -42,8 +42,23 @@ func LeastSquaresSummary(cols [][]float64, y []float64, conf float64) (Regressio
 // lsqSummary is LeastSquaresSummary on checked columns of moderate
 // magnitude (see leastSquares).
 func lsqSummary(cols [][]float64, y []float64, conf float64) (Regression, error) {
+	return lsqSummaryRows(len(y), len(cols), columnRows(cols, y), conf)
+}
+
+// columnRows is the fill of lsqSummaryRows for stored columns: row i is
+// cols[0][i], cols[1][i], …, y[i]. One column (the straight line) is
+// written out.
+func columnRows(cols [][]float64, y []float64) func(lo, hi int, buf []float64) {
+	if len(cols) == 1 {
+		x := cols[0]
+		return func(lo, hi int, buf []float64) {
+			for i := lo; i < hi; i++ {
+				buf[2*(i-lo)], buf[2*(i-lo)+1] = x[i], y[i]
+			}
+		}
+	}
 	q := len(cols) + 1
-	return lsqSummaryRows(len(y), len(cols), func(lo, hi int, buf []float64) {
+	return func(lo, hi int, buf []float64) {
 		for i := lo; i < hi; i++ {
 			row := buf[(i-lo)*q : (i-lo+1)*q]
 			for j, c := range cols {
@@ -51,7 +66,7 @@ func lsqSummary(cols [][]float64, y []float64, conf float64) (Regression, error)
 			}
 			row[q-1] = y[i]
 		}
-	}, conf)
+	}
 }
 
 // lsqSummaryRows is lsqSummary on n rows of p predictors that fill writes

@@ -386,9 +386,6 @@ func (s *Sorted) ToRows(v []float64) []float64 {
 // quartiles (Quantile7) read from the sorted values without a copy.
 func (s *Sorted) Describe() (x, y Summary) {
 	yAt := func(k int) float64 { return s.Y[s.ByY[k]] }
-	if s.Len() == 0 {
-		return summarySorted(0, 0, 0, nil), summarySorted(0, 0, 0, nil)
-	}
 	m := s.Moments() // the means and centred sums of squares meanSS gives
 	return summarySorted(s.Len(), m.MeanX, m.Sxx, func(k int) float64 { return s.X[k] }), summarySorted(s.Len(), m.MeanY, m.Syy, yAt)
 }
@@ -460,21 +457,18 @@ func (s *Sorted) LineSummary(conf float64) (LineFit, error) {
 				// are the figures of Moments: taken from it.
 				m := s.Moments()
 				known := []colParts{{m.parts.xhi, m.parts.xlo, m.Sxx}, {m.parts.yhi, m.parts.ylo, m.Syy}}
-				reg, err := lsqSummaryKnown(s.Len(), 1, func(lo, hi int, buf []float64) {
-					for i := lo; i < hi; i++ {
-						buf[2*(i-lo)], buf[2*(i-lo)+1] = s.X[i], s.Y[i]
-					}
-				}, conf, known)
+				reg, err := lsqSummaryKnown(s.Len(), 1, columnRows([][]float64{s.X}, s.Y), conf, known)
 				if err != nil {
 					return LineFit{}, err
 				}
-				return LineFit{Regression: reg, Intercept: reg.Coef[0], Slope: reg.Coef[1], MeanX: m.MeanX, Sxx: m.Sxx}, nil
+				return lineFrom(reg, m.MeanX, m.Sxx), nil
 			}
 			reg, err := fitShifted([][]float64{s.X}, s.Y, conf, false, []int{kx}, ky)
 			if err != nil {
 				return LineFit{}, err
 			}
-			return lineFrom(reg, s.X), nil
+			mx, sxx := meanSS(s.X)
+			return lineFrom(reg, mx, sxx), nil
 		}
 	}
 	return LineSummary(s.X, s.Y, conf)
@@ -596,9 +590,6 @@ func (s *Sorted) KendallTauB() (tau, p float64) {
 // least-squares slope of the pairs (Line(s.X, s.Y, ·).Slope.Estimate), which
 // the caller has fitted already.
 func (s *Sorted) LackOfFit(slope float64) (f float64, df1, df2 int, p float64, ok bool) {
-	if s.Len() < 4 {
-		return lackOfFitSorted(s.X, s.Y, slope, nil)
-	}
 	mp := s.Moments().parts
 	return lackOfFitSorted(s.X, s.Y, slope, &mp)
 }

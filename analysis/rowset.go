@@ -165,20 +165,7 @@ func belowBound(xs, ys []float64, bound uint64, all bool, hs []uint64, is []int)
 				inOrder = false
 			}
 		}
-		// rowHash(x, y, k) written out (as a call it was a quarter of
-		// the loop's time); TestBelowBoundHash holds the two together.
-		h := math.Float64bits(x + 0)
-		h = (h ^ (h >> 30)) * 0xbf58476d1ce4e5b9
-		h = (h ^ (h >> 27)) * 0x94d049bb133111eb
-		h ^= h >> 31
-		h ^= math.Float64bits(y + 0)
-		h = (h ^ (h >> 30)) * 0xbf58476d1ce4e5b9
-		h = (h ^ (h >> 27)) * 0x94d049bb133111eb
-		h ^= h >> 31
-		h ^= uint64(k) * 0x9e3779b97f4a7c15
-		h = (h ^ (h >> 30)) * 0xbf58476d1ce4e5b9
-		h = (h ^ (h >> 27)) * 0x94d049bb133111eb
-		h ^= h >> 31
+		h := rowHash(x, y, k)
 		if all || h < bound {
 			hs, is = append(hs, h), append(is, i)
 		}

@@ -279,7 +279,7 @@ func BenchmarkValueSample(b *testing.B) {
 	}
 }
 
-// TestBelowBoundHash: belowBound's written-out hash is rowHash, k
+// TestBelowBoundHash: belowBound's hash is rowHash of each row, k
 // counted over runs of equal pairs (values with −0, ties and repeats).
 func TestBelowBoundHash(t *testing.T) {
 	xs := []float64{-1, -1, math.Copysign(0, -1), 0, 0, 0.5, 0.5, 0.5, 2, 2, 1e300}

@@ -8,3 +8,12 @@ func SetPushdownSuspectMax(n int) (restore func()) {
 	pushdownSuspectMax = n
 	return func() { pushdownSuspectMax = old }
 }
+
+// SetSecondSession turns off (or on) the second session of push-down
+// studies, as when the server cannot share its snapshot; the returned
+// function restores it.
+func SetSecondSession(on bool) (restore func()) {
+	old := secondSession
+	secondSession = on
+	return func() { secondSession = old }
+}

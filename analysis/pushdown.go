@@ -206,10 +206,10 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		return s, err
 	}
 	defer sess.Close()
-	if spec.Order != "" { // for the Durbin–Watson grouping's session, below
-		if err := sess.Share(); err != nil {
-			return s, err
-		}
+	// For the sessions that run beside this one (the sample, the parts of
+	// the third pass, the Durbin–Watson grouping), below.
+	if err := sess.Share(); err != nil {
+		return s, err
 	}
 	p, err := sess.Prepare(spec)
 	if err != nil {
@@ -220,16 +220,63 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	exact := func(figs ...string) { info.Exact = append(info.Exact, figs...) }
 	defer func() { info.Statements = sess.Statements }()
 
-	// Pass 1: counts, ranges, the levels' means and centred sums, and the
+	// A second session, sharing this one's snapshot, runs beside this
+	// one: the dataset's hash while this one runs the first pass, the
+	// sample (it needs only the row count) while this one runs the
+	// second, then the upper part of the third pass and of the fetch of
+	// the leave-one-out extremes (dataset.Prepared.Part) beside this
+	// one's lower part. Where the server cannot share its snapshot, this
+	// session runs all of it, one statement after the other (the hash in
+	// its first pass), with the same results.
+	var aux *dataset.Session
+	if secondSession {
+		if aux, err = sess.Fork(); err != nil {
+			aux = nil
+		}
+	}
+	waitAux := func() {} // waits for the second session's current statement
+	onAux := func(job func()) {
+		done := make(chan struct{})
+		go func() {
+			defer close(done)
+			job()
+		}()
+		waitAux = func() { <-done }
+	}
+	if aux != nil {
+		defer func() {
+			aux.Cancel() // a study that stops early does not wait for it
+			waitAux()
+			aux.Close()
+			sess.Statements = append(sess.Statements, aux.Statements...)
+		}()
+	}
+
+	// Pass 1: counts, ranges, the levels' means and centred sums; and the
 	// dataset's hash when no study has computed it yet.
 	var print []string
+	var fp struct {
+		pr  *dataset.Print
+		err error
+	}
 	if pu.print == nil {
-		print = pu.cols
+		if aux != nil {
+			onAux(func() { fp.pr, fp.err = aux.Fingerprint(pu.cols) })
+		} else {
+			print = pu.cols
+		}
 	}
 	ranAt := time.Now().UTC()
 	c, gs, err := p.First(maxLevels, print)
+	waitAux()
 	if err != nil {
 		return s, err
+	}
+	if fp.err != nil {
+		return s, fp.err
+	}
+	if fp.pr != nil {
+		pu.print, pu.ranAt = fp.pr, ranAt
 	}
 	if c.Print != nil {
 		pu.print, pu.ranAt = c.Print, ranAt
@@ -287,6 +334,15 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	conf := 1 - cfg.Alpha
 	n := s.N
 	nf := float64(n)
+
+	var sample struct {
+		rows []dataset.SampleRow
+		err  error
+	}
+	if aux != nil {
+		on := p.On(aux)
+		onAux(func() { sample.rows, sample.err = on.Sample(PushdownSample, n) })
+	}
 
 	// Pass 2: centred sums about the first pass's means, corrected by the
 	// sums of the deviations, and sums of the first pass's line's
@@ -417,8 +473,17 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 
 	// Pass 3: flags, extremes, Breusch–Pagan, trend, the quadratic's
 	// residuals and the density grids, with the refined line.
+	// The sample, drawn beside the second pass (or now, on this session).
+	waitAux()
+	if aux == nil {
+		sample.rows, sample.err = p.Sample(PushdownSample, n)
+	}
+	if sample.err != nil {
+		return s, sample.err
+	}
+	parts := splitAtMedian(p, sess, aux, sample.rows)
 	grids := pushdownGrids(c, mom, sums, spec, len(p.NumCols))
-	th, err := p.ThirdPass(fit, grids, max(cfg.namedMax(), pushdownSuspectMax))
+	th, err := p.ThirdPass(fit, grids, max(cfg.namedMax(), pushdownSuspectMax), parts...)
 	if err != nil {
 		return s, err
 	}
@@ -514,8 +579,9 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	if th.Suspect > len(sus) {
 		sus = sus[:min(len(sus), cfg.namedMax())]
 	}
-	// Pass 4: the sample and the rows at the leave-one-out extremes.
-	fetched, err := p.Rows(fit, PushdownSample, n, th.LooRMin, th.LooRMax, th.ExtBoxes)
+	// The rows at the leave-one-out extremes.
+	fetched := &dataset.Fetched{Sample: sample.rows}
+	fetched.Extremes, fetched.ExtLoo, err = p.Extremes(fit, th.LooRMin, th.LooRMax, th.ExtBoxes, parts...)
 	if err != nil {
 		return s, err
 	}
@@ -605,6 +671,33 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	s.Pushdown = info
 	emptyLists(&s)
 	return s, nil
+}
+
+// secondSession lets a push-down study run statements on a second
+// session beside its first (dataset.Session.Fork); a test turns it off to
+// check that one session gives the same study.
+var secondSession = true
+
+// splitAtMedian is the two parts of p's rows (dataset.Prepared.Part) cut
+// at the median x of the sample: the lower on the session sess, the upper
+// on aux (on sess too when aux is nil, the server not sharing its
+// snapshot). The sample is a random half-and-half guide only: any cut
+// gives the same figures up to the order of a few additions, and an
+// uneven one only costs time. None with an empty sample.
+func splitAtMedian(p *dataset.Prepared, sess, aux *dataset.Session, sample []dataset.SampleRow) []*dataset.Prepared {
+	if len(sample) == 0 {
+		return nil
+	}
+	xs := make([]float64, len(sample))
+	for i, r := range sample {
+		xs[i] = r.Num[0]
+	}
+	slices.Sort(xs)
+	cut := xs[len(xs)/2]
+	if aux == nil {
+		aux = sess
+	}
+	return []*dataset.Prepared{p.Part(sess, cut, false), p.Part(aux, cut, true)}
 }
 
 // quadSolve is the quadratic fitted from power sums in t = (x − m)/qs,

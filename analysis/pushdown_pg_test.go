@@ -18,6 +18,7 @@ import (
 
 	"github.com/jackc/pgx/v5"
 
+	"bivar/analysis"
 	"bivar/analysis/report"
 	"bivar/internal/reference"
 )
@@ -614,4 +615,57 @@ func TestPushdownRerun(t *testing.T) {
 			t.Errorf("rerun %d gives another study or hash (%s / %s)", i+1, sha[0], sha[i])
 		}
 	}
+
+	// On one session (a server that cannot share its snapshot, so that no
+	// statement runs beside another): the same study to the last digit,
+	// from the same statements (in another order: the second session's
+	// are listed after the first's), and the same hash, which the first
+	// pass then computes.
+	restore := analysis.SetSecondSession(false)
+	defer restore()
+	r, err := runManifest(t, t.TempDir(), src)
+	if err != nil {
+		t.Fatal(err)
+	}
+	again, err := runManifest(t, t.TempDir(), src)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(mustJSON(t, again.Studies[0]), mustJSON(t, r.Studies[0])) {
+		t.Errorf("one session: a rerun gives another study")
+	}
+	var two report.Study
+	if err := json.Unmarshal(runs[0], &two); err != nil {
+		t.Fatal(err)
+	}
+	one := r.Studies[0]
+	if one.Pushdown == nil || two.Pushdown == nil {
+		t.Fatalf("one session: error %s", errText(one.Error))
+	}
+	// Two sessions: the hash is a statement of its own, beside the first
+	// pass, which does not compute it; every other statement is the same.
+	st1, st2 := one.Pushdown.Statements, two.Pushdown.Statements
+	if len(st2) != len(st1)+1 || len(st1) < 6 {
+		t.Errorf("one session ran %d statements, two sessions %d; want one more", len(st1), len(st2))
+	}
+	for _, st := range st1 {
+		if !strings.Contains(st, "sum(bivar_h)") && !slices.Contains(st2, st) {
+			t.Errorf("one session ran a statement that two did not: %.200s", st)
+		}
+	}
+	one.Pushdown.Statements, two.Pushdown.Statements = nil, nil
+	b1, _ := json.Marshal(one)
+	b2, _ := json.Marshal(two)
+	if !bytes.Equal(b1, b2) || r.Datasets[0].SHA256 != sha[0] {
+		t.Errorf("one session gives another study or hash (%s / %s)", r.Datasets[0].SHA256, sha[0])
+	}
+}
+
+func mustJSON(t *testing.T, v any) []byte {
+	t.Helper()
+	b, err := json.Marshal(v)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
 }

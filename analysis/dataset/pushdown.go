@@ -59,6 +59,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 
 	"github.com/jackc/pgx/v5"
@@ -577,6 +578,8 @@ type Prepared struct {
 	// gNot lists the stored group values that are missing tokens (after
 	// trimming), found by First: the later passes leave their rows out.
 	gNot []string
+	// part, when not "", restricts p's rows to a part of them (Part).
+	part string
 }
 
 // Prepare builds the study's row sources.
@@ -632,6 +635,68 @@ func (p *Prepared) On(s *Session) *Prepared {
 	return &c
 }
 
+// Part is p on the session s (p's own or a Fork of it) restricted to the
+// complete cases whose x lies below cut (upper false) or not below it
+// (upper true): the two parts hold every complete case once, so a pass
+// run on both, each on its own server process and each summing its rows
+// in one order, gives in Go what it gives on all the rows (see
+// runParts). The cut comes from the values, never from where rows lie in
+// the table, so the same rows give the same parts and the same sums on
+// any run.
+func (p *Prepared) Part(s *Session, cut float64, upper bool) *Prepared {
+	c := p.On(s)
+	c.part = p.num[0] + " < " + lit(cut)
+	if upper {
+		c.part = "NOT (" + c.part + ")"
+	}
+	return c
+}
+
+// runParts runs the statement build gives for each of parts (Part; p
+// alone when there are none) and hands every row of the results to
+// handle, all of the first part's rows before the second's, so the
+// result does not depend on which server process finishes first. Parts on
+// different sessions run at once, each on its own server process; parts
+// on one session (when the server could not share its snapshot) one after
+// the other, with the same statements and so the same results.
+func (p *Prepared) runParts(parts []*Prepared, build func(q *Prepared) string, handle func(v []any) error) error {
+	if len(parts) == 0 {
+		return p.s.each(build(p), handle)
+	}
+	res := make([][][]any, len(parts))
+	errs := make([]error, len(parts))
+	apart := true // every part on a session of its own
+	for i, q := range parts {
+		for _, o := range parts[:i] {
+			apart = apart && o.s != q.s
+		}
+	}
+	var wg sync.WaitGroup
+	for i, q := range parts {
+		if !apart {
+			if res[i], errs[i] = q.s.rows(build(q)); errs[i] != nil {
+				break
+			}
+			continue
+		}
+		wg.Go(func() { res[i], errs[i] = q.s.rows(build(q)) })
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return err // the first part's error, whichever failed first
+		}
+	}
+	for _, rs := range res {
+		for _, v := range rs {
+			if err := handle(v); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
 // from is the FROM clause of the query's rows.
 func (p *Prepared) from() string { return " FROM (" + p.s.inner + "\n) AS bivar_q" }
 
@@ -657,6 +722,9 @@ func (p *Prepared) complete() string {
 	var cond []string
 	for _, c := range p.num {
 		cond = append(cond, finite(c))
+	}
+	if p.part != "" {
+		cond = append(cond, p.part)
 	}
 	if p.group != "" {
 		cond = append(cond, p.group+" IS NOT NULL")
@@ -1344,8 +1412,8 @@ func (p *Prepared) flaggedSQL(f Fit) (src, fl, isSuspect, s2 string) {
 // ranked are kept (a row of sole support first, then largest Cook's
 // distance, then largest |t|, then smallest x, y and id). The cells are
 // cell's.
-func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
-	src, fl, isSuspect, s2 := p.flaggedSQL(f)
+func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int, parts ...*Prepared) (*Third, error) {
+	_, fl, isSuspect, s2 := p.flaggedSQL(f)
 	suspect := func(c string) string { return "CASE WHEN " + isSuspect + " THEN " + c + " END" }
 	id := "CAST(NULL AS text)"
 	if p.id != "" {
@@ -1377,10 +1445,12 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		sel = append(sel, "CAST(NULL AS double precision)")
 	}
 	sel = append(sel, keys...)
-	stmt := ""
-	if p.spec.Order != "" {
-		stmt = twoLevel(append([]string{a0, b0, a1, b1, fl}, keys...), []string{a2, b2}, dist, sel[len(sel)-len(keys)-1], src)
-	} else {
+	// The statement over the rows of q (p or one of parts).
+	build := func(q *Prepared) string {
+		src, _, _, _ := q.flaggedSQL(f)
+		if p.spec.Order != "" {
+			return twoLevel(append([]string{a0, b0, a1, b1, fl}, keys...), []string{a2, b2}, dist, sel[len(sel)-len(keys)-1], src)
+		}
 		// Without a run order: one grouping by a single key (the two
 		// grids' cells and the flags), the flagged rows as arrays of
 		// their measures (cellKey).
@@ -1388,7 +1458,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		one := []string{cellKey(a0, b0, a1, b1, fl, g), "count(*)", "max(" + dist + ")", "min(loor)", "max(loor)", "min(loos)", "max(loos)", sel[14],
 			"array_agg(x)" + filter, "array_agg(y)" + filter, "array_agg(" + id + ")" + filter, "array_agg(" + dist + ")" + filter,
 			"array_agg(e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0))" + filter}
-		stmt = "SELECT " + strings.Join(one, ", ") + " FROM " + src + " GROUP BY 1"
+		return "SELECT " + strings.Join(one, ", ") + " FROM " + src + " GROUP BY 1"
 	}
 	th := &Third{MaxD: math.NaN(), LooRMin: math.NaN(), LooRMax: math.NaN(), LooSMin: math.NaN(), LooSMax: math.NaN()}
 	for k := range 3 {
@@ -1403,7 +1473,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 	var sq []float64 // the cells' sums of the quadratic's squared residuals
 	var cells []extCell
 	if p.spec.Order == "" {
-		err := p.s.each(stmt, func(v []any) error {
+		err := p.runParts(parts, build, func(v []any) error {
 			i0, j0, i1, j1, fl := splitCellKey(int64Of(v[0]), a0 == a1, g)
 			n := int(Num(v[1]))
 			for k := range 2 {
@@ -1425,7 +1495,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int) (*Third, error) {
 		}
 		return th.finish(sq, cells, sus, keep), nil
 	}
-	err := p.s.each(stmt, func(v []any) error {
+	err := p.runParts(parts, build, func(v []any) error {
 		n := int(Num(v[9]))
 		if Num(v[0]) != 0 {
 			i, j := int(Num(v[6])), int(Num(v[7]))
@@ -1761,7 +1831,8 @@ type ranked struct {
 	d, t, loo float64
 }
 
-// Fetched are the rows of the fourth pass.
+// Fetched are the rows a study fetches: the sample (Sample) and the rows
+// at the leave-one-out extremes (Extremes).
 type Fetched struct {
 	// Sample holds the complete cases with the smallest row hashes, k of
 	// them (all when fewer), in SampleMethod's order.
@@ -1842,55 +1913,42 @@ func cmpSample(a, b SampleRow) int {
 	return cmpID(a.ID, a.noID, b.ID, b.noID)
 }
 
-// Rows runs the fourth pass, one scan for the sample of k rows (of the
-// complete ones) and the rows at the leave-one-out r's extremes lo and
-// hi. The sample is the complete cases whose hash lies below a threshold
-// expected to pass k + 8√k + 100 of them (8 standard deviations of that
-// count above k); in the rare case fewer than k pass, the threshold is
-// doubled and the pass run again. The statement has no derived table:
-// the hash is computed once per row in its WHERE, and again only for the
-// few rows it returns; the leave-one-out r only for the rows in boxes
-// (the third pass's Third.ExtBoxes; for every row when boxes is empty),
-// the few cells that hold the extremes: it took a third of the pass's
-// time on 10⁷ rows (measured by this tool).
-func (p *Prepared) Rows(f Fit, k, complete int, lo, hi float64, boxes []Box) (*Fetched, error) {
-	return p.rowsFrom(f, k, (float64(k)+8*math.Sqrt(float64(k))+100)/float64(complete), lo, hi, boxes)
+// Sample draws the sample of k rows of the complete ones (complete of
+// them), in one scan: the complete cases whose hash lies below a
+// threshold expected to pass k + 8√k + 100 of them (8 standard deviations
+// of that count above k), sorted in Go (cmpSample) and cut to k; in the
+// rare case fewer than k pass, the threshold is doubled and the scan run
+// again. The statement has no derived table: the hash is computed once
+// per row in its WHERE, and again only for the few rows it returns. It
+// needs only the row count, so a study draws it on a second session
+// while the second pass runs (see analysis).
+func (p *Prepared) Sample(k, complete int) ([]SampleRow, error) {
+	return p.sampleFrom(k, (float64(k)+8*math.Sqrt(float64(k))+100)/float64(complete))
 }
 
-// rowsFrom is Rows with the share frac of the rows that the first
+// sampleFrom is Sample with the share frac of the rows that the first
 // threshold passes.
-func (p *Prepared) rowsFrom(f Fit, k int, frac, lo, hi float64, boxes []Box) (*Fetched, error) {
+func (p *Prepared) sampleFrom(k int, frac float64) ([]SampleRow, error) {
 	for {
-		out, err := p.rowsPass(f, k, frac, lo, hi, boxes)
-		if err != nil || len(out.Sample) >= k || frac >= 1 {
+		out, err := p.samplePass(k, frac)
+		if err != nil || len(out) >= k || frac >= 1 {
 			return out, err
 		}
 		frac *= 2
 	}
 }
 
-func (p *Prepared) rowsPass(f Fit, k int, frac float64, lo, hi float64, boxes []Box) (*Fetched, error) {
+func (p *Prepared) samplePass(k int, frac float64) ([]SampleRow, error) {
 	hk := p.s.rowHash()
 	isSample := "true"
 	if t := frac*0x1p64 - 0x1p63; frac < 1 && t < 0x1p63 {
 		isSample = hk + " < " + strconv.FormatInt(int64(t), 10)
 	}
-	dx, dy := p.dx(f), p.dy(f)
-	_, omh := p.leverage(f)
-	loor := f.loor(dx, dy, omh)
-	isExt := "(" + clampedIs(loor, lo) + " OR " + clampedIs(loor, hi) + ")"
-	if len(boxes) > 0 {
-		isExt = boxesSQL(p.num[0], p.num[1], boxes) + " AND " + isExt
-	}
-	if math.IsNaN(lo) || math.IsNaN(hi) {
-		isExt = "false"
-	}
 	sel := slices.Clone(p.num)
-	sel = append(sel, cmp.Or(p.group, "CAST(NULL AS text)"), cmp.Or(p.id, "CAST(NULL AS text)"), hk, loor, isSample)
-	stmt := "SELECT " + strings.Join(sel, ", ") + p.from() + " WHERE " + p.complete() + " AND (" + isSample + " OR " + isExt + ")"
+	sel = append(sel, cmp.Or(p.group, "CAST(NULL AS text)"), cmp.Or(p.id, "CAST(NULL AS text)"), hk)
+	stmt := "SELECT " + strings.Join(sel, ", ") + p.from() + " WHERE " + p.complete() + " AND " + isSample
 	nk := len(p.NumCols)
-	out := &Fetched{}
-	var ext []ranked
+	var out []SampleRow
 	err := p.s.each(stmt, func(v []any) error {
 		num := make([]float64, nk)
 		for i := range nk {
@@ -1901,11 +1959,47 @@ func (p *Prepared) rowsPass(f Fit, k int, frac float64, lo, hi float64, boxes []
 		if !noID {
 			idText = Text(v[nk+1])
 		}
-		if v[nk+4] == true {
-			out.Sample = append(out.Sample, SampleRow{H: int64Of(v[nk+2]), Num: num, Group: Text(v[nk]), ID: idText, noID: noID})
+		out = append(out, SampleRow{H: int64Of(v[nk+2]), Num: num, Group: Text(v[nk]), ID: idText, noID: noID})
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	slices.SortFunc(out, cmpSample)
+	return out[:min(k, len(out))], nil
+}
+
+// Extremes fetches the rows whose leave-one-out r is lo or hi (the third
+// pass's extremes), in order of x, y and id, at most extremesMax, with
+// their leave-one-out r: one scan that computes a row's leave-one-out r
+// only for the rows in boxes (the third pass's Third.ExtBoxes; for every
+// row when boxes is empty), the few cells that hold the extremes (it took
+// a third of the pass's time on 10⁷ rows when every row's was computed).
+// With parts (Part), the scan runs on each part and the rows are put
+// together (runParts).
+func (p *Prepared) Extremes(f Fit, lo, hi float64, boxes []Box, parts ...*Prepared) (rows []Row, loo []float64, err error) {
+	if math.IsNaN(lo) || math.IsNaN(hi) {
+		return nil, nil, nil
+	}
+	dx, dy := p.dx(f), p.dy(f)
+	_, omh := p.leverage(f)
+	loor := f.loor(dx, dy, omh)
+	isExt := "(" + clampedIs(loor, lo) + " OR " + clampedIs(loor, hi) + ")"
+	if len(boxes) > 0 {
+		isExt = boxesSQL(p.num[0], p.num[1], boxes) + " AND " + isExt
+	}
+	build := func(q *Prepared) string {
+		return "SELECT " + q.num[0] + ", " + q.num[1] + ", " + cmp.Or(q.id, "CAST(NULL AS text)") + ", " + loor + q.from() + " WHERE " + q.complete() + " AND " + isExt
+	}
+	var ext []ranked
+	err = p.runParts(parts, build, func(v []any) error {
+		noID := p.id == "" || isMissing(v[2], p.spec.Missing)
+		idText := ""
+		if !noID {
+			idText = Text(v[2])
 		}
-		if loo := clampR(Num(v[nk+3])); loo == lo || loo == hi {
-			ext = append(ext, ranked{Row: Row{X: num[0], Y: num[1], ID: idText}, noID: noID, loo: loo})
+		if r := clampR(Num(v[3])); r == lo || r == hi {
+			ext = append(ext, ranked{Row: Row{X: Num(v[0]), Y: Num(v[1]), ID: idText}, noID: noID, loo: r})
 			if len(ext) > 2*extremesMax {
 				slices.SortFunc(ext, ranked.cmpXYID)
 				ext = ext[:extremesMax]
@@ -1914,14 +2008,12 @@ func (p *Prepared) rowsPass(f Fit, k int, frac float64, lo, hi float64, boxes []
 		return nil
 	})
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	slices.SortFunc(out.Sample, cmpSample)
-	out.Sample = out.Sample[:min(k, len(out.Sample))]
 	slices.SortFunc(ext, ranked.cmpXYID)
 	for _, r := range ext[:min(extremesMax, len(ext))] {
-		out.Extremes = append(out.Extremes, r.Row)
-		out.ExtLoo = append(out.ExtLoo, r.loo)
+		rows = append(rows, r.Row)
+		loo = append(loo, r.loo)
 	}
-	return out, nil
+	return rows, loo, nil
 }

@@ -1,7 +1,6 @@
 package dataset
 
 import (
-	"math"
 	"slices"
 	"strconv"
 	"testing"
@@ -36,14 +35,13 @@ func TestRowsSample(t *testing.T) {
 	for _, v := range r {
 		want = append(want, Text(v[0]))
 	}
-	f := Fit{N: 4286, Sxx: 1, Syy: 1, Sxy: 0.5}
 	for _, frac := range []float64{0.001, 0.2} { // 0.001 passes about 4 rows: raised until 300 pass
-		got, err := p.rowsFrom(f, k, frac, math.NaN(), math.NaN(), nil)
+		got, err := p.sampleFrom(k, frac)
 		if err != nil {
 			t.Fatal(err)
 		}
-		ids := make([]string, len(got.Sample))
-		for i, r := range got.Sample {
+		ids := make([]string, len(got))
+		for i, r := range got {
 			ids[i] = r.ID
 		}
 		if !slices.Equal(ids, want) {

@@ -7,28 +7,31 @@ package dataset
 // window function lag(), built-in hash functions), so the same statements
 // run where a plant's data have outgrown one server.
 //
-// A study takes five statements, each one scan of the query's rows:
+// A study takes these statements, each one scan of the query's rows, on a
+// Session and a Fork of it that shares its snapshot, two at a time (see
+// analysis's pushdown):
 //
 //  1. First: per group level, the counts, minima and maxima, and the
 //     means and centred sums of x and y by PostgreSQL's own float8
-//     regression aggregates (regr_avgx, regr_sxx, regr_sxy and kin); in
-//     the dataset's first study, also the dataset's hash (Fingerprint's
-//     sums, which otherwise take a scan of their own);
+//     regression aggregates (regr_avgx, regr_sxx, regr_sxy and kin);
+//     beside it, in the dataset's first study, the dataset's hash
+//     (Fingerprint; in First itself when there is no second session);
 //  2. Second: sums of deviations from the first pass's means, of their
 //     products and powers, and of the line's residuals e and their
 //     powers (the refined line, its RSS, the quadratic, Breusch–Pagan and
 //     the trend in run order follow from them), and the rows at the
-//     least and the largest x (a row of sole support);
+//     least and the largest x (a row of sole support); beside it, Sample
+//     (by a hash of each row), which needs only the row count;
 //  3. ThirdPass: the flags and the flagged rows, the largest Cook's
 //     distance, the leave-one-out extremes, the quadratic's residual sum
-//     and the density grids, with the refined line;
-//  4. Rows: the sample (by a hash of each row) and the rows of the
-//     leave-one-out extremes (their leave-one-out r computed only in the
-//     cells where the third pass found them);
+//     and the density grids, with the refined line, in two Parts (cut at
+//     the sample's median x) run at once;
+//  4. Extremes: the rows of the leave-one-out extremes (their
+//     leave-one-out r computed only in the cells where the third pass
+//     found them), in the same two parts;
 //  5. with a run order, the Durbin–Watson numerator: the rows grouped by
-//     run order, the blocks sorted (DurbinWatsonNumerator), on a second
-//     session that shares the first's snapshot (Fork), alongside the
-//     third pass.
+//     run order, the blocks sorted (DurbinWatsonNumerator), on a third
+//     session alongside the third pass.
 //
 // Numerics. The regression aggregates update their state by the algorithm
 // of Youngs and Cramer (float8_regr_accum in

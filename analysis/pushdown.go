@@ -449,7 +449,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		sess *dataset.Session
 	}
 	dwDone := make(chan struct{})
-	if spec.Order != "" {
+	if spec.Order != "" && aux != nil { // aux nil: one session for all
 		dw.sess, _ = sess.Fork() // an error leaves dw.sess nil: see below
 	}
 	if dw.sess != nil {

@@ -90,10 +90,14 @@ type Session struct {
 	Statements []string
 }
 
-// sessionStatements bounds the statements of a Session (a study runs
-// eight at most), each under the statement timeout: the session lasts
-// at most this many timeouts.
-const sessionStatements = 12
+// sessionStatements bounds the statements of a Session, each under the
+// statement timeout: the session lasts at most this many timeouts. A
+// study runs at most eleven on one session (where the server cannot share
+// its snapshot: the two passes, the sample, the third pass and the fetch
+// of the extremes in two parts each, lack of fit, the sums without the
+// flagged rows, the run-order grouping, the snapshot's export), and the
+// sample's rare second draw.
+const sessionStatements = 16
 
 // sessionSettings are the settings of a push-down session, for this
 // transaction only:

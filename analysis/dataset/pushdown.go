@@ -1691,6 +1691,13 @@ func (th *Third) finish(sq []float64, cells []extCell, sus []ranked, keep int) *
 	if len(th.ExtBoxes) > extBoxesMax {
 		th.ExtBoxes = nil
 	}
+	// In order of their bounds, not in the order the server returns the
+	// cells (its hash table's, sized by the planner's estimates), so that
+	// the same rows give the same statement for the extremes
+	// (TestExtBoxesOrder).
+	slices.SortFunc(th.ExtBoxes, func(a, b Box) int {
+		return cmp.Or(cmp.Compare(a.XLo, b.XLo), cmp.Compare(a.YLo, b.YLo), cmp.Compare(a.XHi, b.XHi), cmp.Compare(a.YHi, b.YHi))
+	})
 	slices.SortFunc(sus, cmpSuspect)
 	th.Suspects = []Row{}
 	for _, r := range sus[:min(keep, len(sus))] {

@@ -91,8 +91,11 @@ type Session struct {
 }
 
 // sessionStatements bounds the statements of a Session (a study runs
-// eight at most), each under the statement timeout: the session lasts
-// at most this many timeouts.
+// nine at most on one, when the server cannot share its snapshot: the
+// first and second passes, the sample, the third pass and the fetch of
+// the extremes in two parts each, the lack of fit and the sums without
+// the flagged rows; besides the sample's rare reruns), each under the
+// statement timeout: the session lasts at most this many timeouts.
 const sessionStatements = 12
 
 // sessionSettings are the settings of a push-down session, for this

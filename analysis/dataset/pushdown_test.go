@@ -134,3 +134,27 @@ func TestForkSnapshot(t *testing.T) {
 		t.Errorf("session after a refused export: %d rows, work_mem %s, statement_timeout %s; want 101, 256MB, 42s", n, wm, to)
 	}
 }
+
+// The boxes of the cells that hold the leave-one-out extremes, which the
+// fetch of the extremes writes into its statement, do not depend on the
+// order in which the server returns the third pass's groups (its hash
+// table's, which the planner sizes from its statistics, and with two
+// parts the order of each part's): the same cells give the same
+// statement.
+func TestExtBoxesOrder(t *testing.T) {
+	g := Grid{XLo: 0, XHi: 10, YLo: 0, YHi: 10, NX: 10, NY: 10, Counts: make([]int, 100)}
+	cells := []extCell{{1, 2, -0.5, 0.1}, {4, 4, 0, 0.3}, {7, 8, 0.2, 0.9}, {3, 9, -0.5, -0.1}}
+	var boxes [2][]Box
+	for k := range boxes {
+		th := &Third{LooRMin: -0.5, LooRMax: 0.9}
+		th.Grids[0] = &g
+		cs := slices.Clone(cells)
+		if k == 1 {
+			slices.Reverse(cs)
+		}
+		boxes[k] = th.finish(nil, cs, nil, 1).ExtBoxes
+	}
+	if len(boxes[0]) != 3 || !slices.Equal(boxes[0], boxes[1]) {
+		t.Errorf("boxes %v, and %v with the groups in reverse order", boxes[0], boxes[1])
+	}
+}

@@ -268,10 +268,10 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	ranAt := time.Now().UTC()
 	c, gs, err := p.First(maxLevels, print)
-	waitAux()
 	if err != nil {
-		return s, err
+		return s, err // the deferred Cancel stops the hash's scan
 	}
+	waitAux()
 	if fp.err != nil {
 		return s, fp.err
 	}

@@ -667,44 +667,46 @@ func (p *Prepared) Part(s *Session, cut float64, upper bool) *Prepared {
 
 // runParts runs the statement build gives for each of parts (Part; p
 // alone when there are none) and hands every row of the results to
-// handle, all of the first part's rows before the second's, so the
-// result does not depend on which server process finishes first. Parts on
-// different sessions run at once, each on its own server process; parts
-// on one session (when the server could not share its snapshot) one after
-// the other, with the same statements and so the same results.
+// handle as it arrives. Parts on different sessions run at once, each on
+// its own server process, and their rows reach handle one at a time, in
+// the order they arrive; parts on one session (when the server could not
+// share its snapshot) run one after the other, with the same statements.
+// So handle must give the same result in any order of the rows, as it
+// must for one statement already: the server returns groups in the order
+// of its hash table, which depends on its plan.
 func (p *Prepared) runParts(parts []*Prepared, build func(q *Prepared) string, handle func(v []any) error) error {
 	if len(parts) == 0 {
 		return p.s.each(build(p), handle)
 	}
-	res := make([][][]any, len(parts))
-	errs := make([]error, len(parts))
 	apart := true // every part on a session of its own
 	for i, q := range parts {
 		for _, o := range parts[:i] {
 			apart = apart && o.s != q.s
 		}
 	}
+	if !apart {
+		for _, q := range parts {
+			if err := q.s.each(build(q), handle); err != nil {
+				return err
+			}
+		}
+		return nil
+	}
+	var mu sync.Mutex
+	one := func(v []any) error {
+		mu.Lock()
+		defer mu.Unlock()
+		return handle(v)
+	}
+	errs := make([]error, len(parts))
 	var wg sync.WaitGroup
 	for i, q := range parts {
-		if !apart {
-			if res[i], errs[i] = q.s.rows(build(q)); errs[i] != nil {
-				break
-			}
-			continue
-		}
-		wg.Go(func() { res[i], errs[i] = q.s.rows(build(q)) })
+		wg.Go(func() { errs[i] = q.s.each(build(q), one) })
 	}
 	wg.Wait()
 	for _, err := range errs {
 		if err != nil {
 			return err // the first part's error, whichever failed first
-		}
-	}
-	for _, rs := range res {
-		for _, v := range rs {
-			if err := handle(v); err != nil {
-				return err
-			}
 		}
 	}
 	return nil
@@ -1424,7 +1426,11 @@ func (p *Prepared) flaggedSQL(f Fit) (src, fl, isSuspect, s2 string) {
 // t), so that the server returns it. Of the flagged rows the keep highest
 // ranked are kept (a row of sole support first, then largest Cook's
 // distance, then largest |t|, then smallest x, y and id). The cells are
-// cell's.
+// cell's. With parts (Part), the statement runs on each and their groups
+// add up (runParts): a cell the cut divides comes back once from each
+// part, its counts added, its extremes the extremes of both, and its two
+// sums of squared residuals added with the others in ascending order
+// (finish).
 func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int, parts ...*Prepared) (*Third, error) {
 	_, fl, isSuspect, s2 := p.flaggedSQL(f)
 	suspect := func(c string) string { return "CASE WHEN " + isSuspect + " THEN " + c + " END" }

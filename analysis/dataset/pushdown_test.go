@@ -1,6 +1,7 @@
 package dataset
 
 import (
+	"math"
 	"slices"
 	"strconv"
 	"strings"
@@ -191,6 +192,49 @@ func TestCompleteNotIndexable(t *testing.T) {
 		}
 		if all := strings.Join(plan, "\n"); strings.Contains(all, "Index") || !strings.Contains(all, "Seq Scan") {
 			t.Errorf("complete cases %q read by:\n%s", q.complete(), all)
+		}
+	}
+}
+
+// The server's number for a row's cells (cellKey, evaluated by the
+// server) gives back the cells and flags (splitCellKey), each clamped to
+// its grid as analysis.grid clamps, at the edges of every place: the cell
+// k that the largest x or y falls in before clamping, and residual cells
+// below and far above their grid's.
+func TestCellKey(t *testing.T) {
+	ctx, _, url := pgSetup(t)
+	s, err := Open(ctx, Query{SQL: "SELECT 1 AS one", Env: "BIVAR_TEST_PG_URL", URL: url})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	var g [3]Grid
+	g[0] = Grid{NX: 90, NY: 64}
+	g[1] = Grid{NX: 90, NY: 64}
+	for _, c := range []struct {
+		i0, j0 int
+		e      float64
+		fl     int
+	}{{0, 0, -1, 0}, {90, 64, 64, 15}, {89, 63, 63, 13}, {45, 7, 1e9, 8}, {90, 0, -3e9, 1}, {0, 64, 0.5, 2}} {
+		key := cellKey(strconv.Itoa(c.i0), strconv.Itoa(c.j0), strconv.Itoa(c.i0), strconv.Itoa(c.fl), g)
+		r, err := s.rows("SELECT CAST(" + key + " AS double precision)")
+		if err != nil {
+			t.Fatal(err)
+		}
+		i0, j0, i1, j1, fl := splitCellKey(Num(r[0][0]), c.e, true, g)
+		wi, wj := min(c.i0, 89), min(c.j0, 63)
+		wj1 := cellAt(c.e, 64)
+		if i0 != wi || j0 != wj || i1 != wi || j1 != wj1 || fl != c.fl {
+			t.Errorf("cells (%d, %d), residual %g, flags %d: got (%d, %d), (%d, %d), %d; want (%d, %d), (%d, %d), %d",
+				c.i0, c.j0, c.e, c.fl, i0, j0, i1, j1, fl, wi, wj, wi, wj1, c.fl)
+		}
+	}
+	for _, c := range []struct {
+		v    float64
+		k, w int
+	}{{-1, 64, 0}, {0, 64, 0}, {0.99, 64, 0}, {63, 64, 63}, {64, 64, 63}, {1e300, 64, 63}, {math.NaN(), 64, 0}} {
+		if got := cellAt(c.v, c.k); got != c.w {
+			t.Errorf("cellAt(%g, %d) = %d, want %d", c.v, c.k, got, c.w)
 		}
 	}
 }

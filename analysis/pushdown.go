@@ -482,18 +482,20 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		return s, sample.err
 	}
 	// Without a run order the second session would idle through the
-	// third pass: the pass and the fetch of the extremes run in two parts,
-	// one on each. With one, the run-order grouping already keeps a second
-	// server process busy beside the third pass, and on 2 cores a split
-	// only added a scan: the benchmark study of scripts/pushdown-bench.sh
-	// took a median 18.0 s and 28.7 s of the server's CPU with it, 15.4 s
-	// and 22.3 s without (three runs each, PostgreSQL 15, 10⁷ rows).
-	var parts []*dataset.Prepared
-	if spec.Order == "" {
-		parts = splitAtMedian(p, sess, aux, sample.rows)
+	// third pass: the pass runs in two parts, one on each. With one, the
+	// run-order grouping already keeps a second server process busy beside
+	// the third pass, and on 2 cores a split only added a scan: the
+	// benchmark study of scripts/pushdown-bench.sh took a median 18.0 s and
+	// 28.7 s of the server's CPU with it, 15.4 s and 22.3 s without (three
+	// runs each, PostgreSQL 15, 10⁷ rows). The fetch of the extremes,
+	// after the grouping is done, runs in two parts either way.
+	parts := splitAtMedian(p, sess, aux, sample.rows)
+	thirdParts := parts
+	if spec.Order != "" {
+		thirdParts = nil
 	}
 	grids := pushdownGrids(c, mom, sums, spec, len(p.NumCols))
-	th, err := p.ThirdPass(fit, grids, max(cfg.namedMax(), pushdownSuspectMax), parts...)
+	th, err := p.ThirdPass(fit, grids, max(cfg.namedMax(), pushdownSuspectMax), thirdParts...)
 	if err != nil {
 		return s, err
 	}

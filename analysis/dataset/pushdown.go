@@ -24,11 +24,11 @@ package dataset
 //     (by a hash of each row), which needs only the row count;
 //  3. ThirdPass: the flags and the flagged rows, the largest Cook's
 //     distance, the leave-one-out extremes, the quadratic's residual sum
-//     and the density grids, with the refined line, in two Parts (cut at
-//     the sample's median x) run at once;
+//     and the density grids, with the refined line; without a run order in
+//     two Parts (cut at the sample's median x) run at once;
 //  4. Extremes: the rows of the leave-one-out extremes (their
 //     leave-one-out r computed only in the cells where the third pass
-//     found them), in the same two parts;
+//     found them);
 //  5. with a run order, the Durbin–Watson numerator: the rows grouped by
 //     run order, the blocks sorted (DurbinWatsonNumerator), on a third
 //     session alongside the third pass.
@@ -2029,9 +2029,9 @@ func (p *Prepared) samplePass(k int, frac float64) ([]SampleRow, error) {
 // only for the rows in boxes (the third pass's Third.ExtBoxes; for every
 // row when boxes is empty), the few cells that hold the extremes (it took
 // a third of the pass's time on 10⁷ rows when every row's was computed).
-// With parts (Part), the scan runs on each part and the rows are put
-// together (runParts).
-func (p *Prepared) Extremes(f Fit, lo, hi float64, boxes []Box, parts ...*Prepared) (rows []Row, loo []float64, err error) {
+// It runs whole, not in parts (Part): each part would scan every row for
+// a test few pass, and two parts took as long as one scan.
+func (p *Prepared) Extremes(f Fit, lo, hi float64, boxes []Box) (rows []Row, loo []float64, err error) {
 	if math.IsNaN(lo) || math.IsNaN(hi) {
 		return nil, nil, nil
 	}
@@ -2042,11 +2042,9 @@ func (p *Prepared) Extremes(f Fit, lo, hi float64, boxes []Box, parts ...*Prepar
 	if len(boxes) > 0 {
 		isExt = boxesSQL(p.num[0], p.num[1], boxes) + " AND " + isExt
 	}
-	build := func(q *Prepared) string {
-		return "SELECT " + q.num[0] + ", " + q.num[1] + ", " + cmp.Or(q.id, "CAST(NULL AS text)") + ", " + loor + q.from() + " WHERE " + q.complete() + " AND " + isExt
-	}
+	stmt := "SELECT " + p.num[0] + ", " + p.num[1] + ", " + cmp.Or(p.id, "CAST(NULL AS text)") + ", " + loor + p.from() + " WHERE " + p.complete() + " AND " + isExt
 	var ext []ranked
-	err = p.runParts(parts, build, func(v []any) error {
+	err = p.s.each(stmt, func(v []any) error {
 		noID := p.id == "" || isMissing(v[2], p.spec.Missing)
 		idText := ""
 		if !noID {

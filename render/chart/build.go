@@ -303,7 +303,7 @@ func Scatter(s *report.Study, id, level string) *Figure {
 		f.Caption += "."
 	}
 	if len(f.Marked) > 0 {
-		f.Caption += " Circled: named rows (labelled: the first " + fmt.Sprint(min(len(f.Marked), report.LabelMax)) + ")."
+		f.Caption += " Circled: named rows (labelled: the first " + fmt.Sprint(min(len(f.Marked), report.LabelMax)) + ", where a label has room beside its mark)."
 	}
 	if f.Dense {
 		f.Caption += denseNote(p.N, len(f.Marked))

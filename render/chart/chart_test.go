@@ -281,7 +281,10 @@ func BenchmarkScatterDense(b *testing.B) {
 var _ = strconv.Itoa
 
 // TestLabelsBounded: a chart marks every named row the Plot carries but
-// labels only those the analysis marked for a label (report.LabelMax).
+// labels only those the analysis marked for a label (report.LabelMax),
+// all of them where they have room (the scatter and the residuals on x,
+// where the marks lie apart), fewer where the marks crowd together (on
+// the run order the 25 rows take the first 25 of 5000 orders).
 func TestLabelsBounded(t *testing.T) {
 	r := fixture.Report(fixture.Options{N: 5000})
 	s := &r.Studies[0]
@@ -299,8 +302,62 @@ func TestLabelsBounded(t *testing.T) {
 			t.Errorf("%s: %d circles, want 25 marks and one in the legend", f.ID, got)
 		}
 		labels := regexp.MustCompile(`>R\d\d</text>`).FindAllString(svg, -1)
-		if len(labels) != report.LabelMax {
-			t.Errorf("%s: %d labels, want %d", f.ID, len(labels), report.LabelMax)
+		if want := report.LabelMax; len(labels) > want || f.ID != "o" && len(labels) != want || len(labels) == 0 {
+			t.Errorf("%s: %d labels, want %d (at most %[3]d, at least one, on the run order)", f.ID, len(labels), want)
+		}
+		noOverlap(t, f.ID, svg)
+	}
+}
+
+// noOverlap fails when two label plates in svg overlap.
+func noOverlap(t *testing.T, id, svg string) {
+	t.Helper()
+	var plates [][4]float64
+	for _, m := range regexp.MustCompile(`<rect x="([-\d.]+)" y="([-\d.]+)" width="([\d.]+)" height="([\d.]+)" rx="2"/>`).FindAllStringSubmatch(svg, -1) {
+		var b [4]float64
+		for k := range 4 {
+			v, err := strconv.ParseFloat(m[k+1], 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			b[k] = v
+		}
+		plates = append(plates, b)
+	}
+	for i, a := range plates {
+		for _, b := range plates[:i] {
+			// The plates are the labels' boxes widened by 2.5 and 0.5 on
+			// each side; boxes that do not overlap leave plates that may
+			// touch by up to that much.
+			if a[0]+5 < b[0]+b[2] && b[0]+5 < a[0]+a[2] && a[1]+1 < b[1]+b[3] && b[1]+1 < a[1]+a[3] {
+				t.Errorf("%s: label plates %v and %v overlap", id, a, b)
+			}
 		}
 	}
+}
+
+// TestLabelsCrowded: ten labelled rows on almost the same spot get as
+// many labels as fit around them, none over another, those beyond the
+// nearest places joined to their marks by lines (before, each label
+// without a free place was printed over the others, and a corner of the
+// 10⁷-row push-down chart was an unreadable stack of names).
+func TestLabelsCrowded(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 5000})
+	s := &r.Studies[0]
+	var marked []report.Marked
+	for k := range report.LabelMax {
+		x := 20 + 0.001*float64(k)
+		marked = append(marked, report.Marked{Row: fmt.Sprintf("R%02d", k), X: x, Y: 3, Fitted: 3, Residual: 0.1, Order: 1, Label: true})
+	}
+	s.Plot.Marked = marked
+	svg := draw(t, Scatter(s, "s", "95"))
+	labels := regexp.MustCompile(`>R\d\d</text>`).FindAllString(svg, -1)
+	lines := regexp.MustCompile(`<path d="M[-\d.]+ [-\d.]+L[-\d.]+ [-\d.]+"/>`).FindAllString(svg, -1)
+	if len(labels) < 2 || len(lines) == 0 || len(lines) >= len(labels) {
+		t.Errorf("%d labels and %d lines for %d crowded marks, want labels, some on lines, some not", len(labels), len(lines), report.LabelMax)
+	}
+	if !strings.Contains(svg, ">R00</text>") {
+		t.Errorf("the first-ranked row is not labelled")
+	}
+	noOverlap(t, "s", svg)
 }

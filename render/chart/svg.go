@@ -555,6 +555,9 @@ func (a box) overlaps(b box) bool { return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < 
 // around the mark it takes the one inside the plot area that overlaps no
 // earlier label or mark and covers the fewest ordinary points (the first
 // such place in a fixed order on a tie), so the result is deterministic.
+// Where none is free (marks crowded together) it tries the same places
+// on two rings farther out, joined to the mark by a thin line; where none
+// of those is free either, the mark has no label.
 // Each label sits on a plate of the background colour with a thin rim in
 // the flag colour, so it stays legible over points, lines and bands.
 func (d *svgDrawer) drawLabels(w io.Writer, f *Figure, L *layout) {
@@ -593,13 +596,23 @@ func (d *svgDrawer) drawLabels(w io.Writer, f *Figure, L *layout) {
 		dx, dy float64
 		anchor string
 	}
-	spots := []spot{{11, 4, "start"}, {-11, 4, "end"}, {0, -12, "middle"}, {0, 20, "middle"},
+	near := []spot{{11, 4, "start"}, {-11, 4, "end"}, {0, -12, "middle"}, {0, 20, "middle"},
 		{9, -9, "start"}, {9, 16, "start"}, {-9, -9, "end"}, {-9, 16, "end"}}
+	// Where marks crowd together, rings of the same places farther out,
+	// each joined to its mark by a thin line: the offsets from the text's
+	// baseline (4 below the mark's centre) times the ring's factor.
+	var spots []spot
+	for _, r := range []float64{1, 2.5, 4} {
+		for _, s := range near {
+			spots = append(spots, spot{s.dx * r, (s.dy-4)*r + 4, s.anchor})
+		}
+	}
 	type placed struct {
 		b    box
 		s    spot
 		x, y float64
 		text string
+		far  bool // on an outer ring: joined to its mark by a line
 	}
 	var out []placed
 	for _, m := range f.Marked {
@@ -609,8 +622,11 @@ func (d *svgDrawer) drawLabels(w io.Writer, f *Figure, L *layout) {
 		text := shorten(m.Label, labelRunes)
 		tw := textWidth(text, labelFont)
 		x, y := L.px(m.X), L.py(m.Y)
-		best, bs, bestCover := box{}, spot{}, -1
-		for _, s := range spots {
+		best, bs, bestCover, far := box{}, spot{}, -1, false
+		for k, s := range spots {
+			if k == len(near) && bestCover >= 0 || k == 2*len(near) && bestCover >= 0 {
+				break // a nearer ring had a free place
+			}
 			bx := box{x + s.dx, y + s.dy - labelFont, x + s.dx + tw, y + s.dy + 3}
 			switch s.anchor {
 			case "end":
@@ -632,17 +648,33 @@ func (d *svgDrawer) drawLabels(w io.Writer, f *Figure, L *layout) {
 				continue
 			}
 			if c := covered(bx); bestCover < 0 || c < bestCover {
-				best, bs, bestCover = bx, s, c
+				best, bs, bestCover, far = bx, s, c, k >= len(near)
 			}
 		}
 		if bestCover < 0 {
-			best, bs = box{x + 11, y + 4 - labelFont, x + 11 + tw, y + 7}, spots[0]
-			if x+11+tw > L.right {
-				best, bs = box{x - 11 - tw, y + 4 - labelFont, x - 11, y + 7}, spots[1]
-			}
+			// No place beside the mark is free: the mark stays unlabelled
+			// (the row is named in the report's tables), rather than its
+			// label printed over another and both left unreadable.
+			continue
 		}
 		taken = append(taken, best)
-		out = append(out, placed{best, bs, x, y, text})
+		out = append(out, placed{best, bs, x, y, text, far})
+	}
+	// The lines to labels on an outer ring, from the mark's rim to the
+	// nearest point of the label's plate, under the plates.
+	var lines strings.Builder
+	for _, p := range out {
+		if !p.far {
+			continue
+		}
+		tx, ty := math.Max(p.b.x0-2.5, math.Min(p.x, p.b.x1+2.5)), math.Max(p.b.y0-0.5, math.Min(p.y, p.b.y1+0.5))
+		if l := math.Hypot(tx-p.x, ty-p.y); l > 8 {
+			sx, sy := p.x+(tx-p.x)*7.5/l, p.y+(ty-p.y)*7.5/l
+			fmt.Fprintf(&lines, `<path d="M%s %sL%s %s"/>`, coord(sx), coord(sy), coord(tx), coord(ty))
+		}
+	}
+	if lines.Len() > 0 {
+		fmt.Fprintf(w, "<g stroke=\"%s\" stroke-width=\"0.8\">%s</g>\n", d.pal.Flag, lines.String())
 	}
 	fmt.Fprintf(w, "<g fill=\"%s\" fill-opacity=\"0.9\" stroke=\"%s\" stroke-width=\"0.8\">", d.pal.Background, d.pal.Flag)
 	for _, p := range out {

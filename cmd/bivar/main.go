@@ -162,15 +162,22 @@ func main() {
 		debug.SetMemoryLimit(defaultMemoryLimit)
 		followLiveHeap()
 	}
-	// A collection when the heap has grown by a quarter (Go's GOGC, which
+	// A collection when the heap has grown by half (Go's GOGC, which
 	// overrides it), not by its default of all that is live. The heap is
 	// mostly columns of numbers, which the collector need not scan, so a
 	// cycle costs little, and a freed column's memory is reused sooner
 	// instead of new memory being taken from the system: every fresh page
 	// costs a fault and the kernel's zeroing, a sixth of the CPU time of a
 	// 10⁶-row study on a virtual machine. Measured with bench-pair.sh's
-	// study (medians of 7 runs, alternating): 10⁶ rows 1.44 → 1.36 s of
-	// CPU and 194 → 146 MB peak; 10⁷ rows 13.2 → 12.3 s of CPU.
+	// study, alternating runs, CPU (user + system) medians: when a 10⁶-row
+	// study took 1.4 s, a quarter against all (100) went 1.44 → 1.36 s and
+	// 194 → 146 MB peak, and 10⁷ rows 13.2 → 12.3 s. Now that the study
+	// takes a tenth of that, collecting that often costs more than the
+	// memory it saves: half against a quarter, the median of paired runs'
+	// ratios was 0.89 at 10⁵ rows (15 pairs; 35 → 38 MB peak), 0.92 and
+	// 0.95 at 10⁶ (15 and 20 pairs; 108 → 121 MB) and 0.95 at 10⁷ (4
+	// pairs; 740 → 737 MB, where the soft limit governs), and all (100)
+	// was between them at 10⁶ (0.97, 146 MB), on 2026-12-05.
 	if os.Getenv("GOGC") == "" {
 		debug.SetGCPercent(defaultGCPercent)
 	}
@@ -229,7 +236,7 @@ const thrashCycles = 8
 
 // defaultGCPercent is the heap growth, in percent of the live heap, that
 // starts a collection unless GOGC is set (see main).
-const defaultGCPercent = 25
+const defaultGCPercent = 50
 
 // run dispatches to a subcommand and returns the exit status. Everything
 // it prints passes through cleantext.Writer: names and values from the

@@ -439,7 +439,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 
 	// With a run order, the Durbin–Watson grouping (it needs only the
-	// refined line) runs alongside the third pass on a second session that
+	// refined line) runs alongside the third pass on one more session that
 	// shares this one's snapshot (dataset.Session.Fork), or after it on
 	// this one when the server cannot share its snapshot.
 	var dw struct {

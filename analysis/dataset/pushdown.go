@@ -1300,8 +1300,9 @@ type Third struct {
 // Box is a range of x and y (bounds included; ±Inf for none).
 type Box struct{ XLo, XHi, YLo, YHi float64 }
 
-// extBoxesMax bounds the boxes the fetch of the extremes (Extremes) tests before it computes
-// a row's leave-one-out r; with more, every row's is computed.
+// extBoxesMax bounds the boxes the fetch of the extremes (Extremes)
+// tests before it computes a row's leave-one-out r; with more, every
+// row's is computed.
 const extBoxesMax = 16
 
 // boxOf is the cell (i, j) of the grid g as a Box, half a cell wider on

@@ -224,30 +224,18 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// one: the dataset's hash while this one runs the first pass, the
 	// sample (it needs only the row count) while this one runs the
 	// second, then, in a study without a run order, the upper part of the
-	// third pass (dataset.Prepared.Part) beside this one's lower part. Where the server cannot share its snapshot, this
-	// session runs all of it, one statement after the other (the hash in
-	// its first pass), with the same results.
-	var aux *dataset.Session
+	// third pass (dataset.Prepared.Part) beside this one's lower part.
+	// Where the server cannot share its snapshot, this session runs all
+	// of it, one statement after the other (the hash in its first pass),
+	// with the same results.
+	var aux *beside
 	if secondSession {
-		if aux, err = sess.Fork(); err != nil {
-			aux = nil
-		}
-	}
-	waitAux := func() {} // waits for the second session's current statement
-	onAux := func(job func()) {
-		done := make(chan struct{})
-		go func() {
-			defer close(done)
-			job()
-		}()
-		waitAux = func() { <-done }
+		aux = forkBeside(sess)
 	}
 	if aux != nil {
 		defer func() {
-			aux.Cancel() // a study that stops early does not wait for it
-			waitAux()
-			aux.Close()
-			sess.Statements = append(sess.Statements, aux.Statements...)
+			aux.stop()
+			sess.Statements = append(sess.Statements, aux.s.Statements...)
 		}()
 	}
 
@@ -260,7 +248,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	if pu.print == nil {
 		if aux != nil {
-			onAux(func() { fp.pr, fp.err = aux.Fingerprint(pu.cols) })
+			aux.run(func(a *dataset.Session) { fp.pr, fp.err = a.Fingerprint(pu.cols) })
 		} else {
 			print = pu.cols
 		}
@@ -268,9 +256,9 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	ranAt := time.Now().UTC()
 	c, gs, err := p.First(maxLevels, print)
 	if err != nil {
-		return s, err // the deferred Cancel stops the hash's scan
+		return s, err // the deferred stop cancels the hash's scan
 	}
-	waitAux()
+	aux.wait()
 	if fp.err != nil {
 		return s, fp.err
 	}
@@ -339,8 +327,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 		err  error
 	}
 	if aux != nil {
-		on := p.On(aux)
-		onAux(func() { sample.rows, sample.err = on.Sample(PushdownSample, n) })
+		aux.run(func(a *dataset.Session) { sample.rows, sample.err = p.On(a).Sample(PushdownSample, n) })
 	}
 
 	// Pass 2: centred sums about the first pass's means, corrected by the
@@ -445,35 +432,18 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	var dw struct {
 		num  float64
 		err  error
-		sess *dataset.Session
+		side *beside // nil: on this session, after the third pass
 	}
-	dwDone := make(chan struct{})
 	if spec.Order != "" && aux != nil { // aux nil: one session for all
-		dw.sess, _ = sess.Fork() // an error leaves dw.sess nil: see below
+		dw.side = forkBeside(sess)
 	}
-	if dw.sess != nil {
-		on := p.On(dw.sess)
-		go func() {
-			defer close(dwDone)
-			dw.num, dw.err = on.DurbinWatsonNumerator(fit)
-		}()
-	} else {
-		close(dwDone)
+	if dw.side != nil {
+		defer dw.side.stop()
+		dw.side.run(func(o *dataset.Session) { dw.num, dw.err = p.On(o).DurbinWatsonNumerator(fit) })
 	}
-	defer func() {
-		if dw.sess != nil {
-			dw.sess.Cancel() // a study that stops early does not wait for the grouping
-		}
-		<-dwDone
-		if dw.sess != nil {
-			dw.sess.Close()
-		}
-	}()
 
-	// Pass 3: flags, extremes, Breusch–Pagan, trend, the quadratic's
-	// residuals and the density grids, with the refined line.
 	// The sample, drawn beside the second pass (or now, on this session).
-	waitAux()
+	aux.wait()
 	if aux == nil {
 		sample.rows, sample.err = p.Sample(PushdownSample, n)
 	}
@@ -493,8 +463,11 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// for a study of x and y alone).
 	var parts []*dataset.Prepared
 	if spec.Order == "" {
-		parts = splitAtMedian(p, sess, aux, sample.rows)
+		parts = splitAtMedian(p, sess, aux.session(), sample.rows)
 	}
+
+	// Pass 3: flags, extremes, Breusch–Pagan, trend, the quadratic's
+	// residuals and the density grids, with the refined line.
 	grids := pushdownGrids(c, mom, sums, spec, len(p.NumCols))
 	th, err := p.ThirdPass(fit, grids, max(cfg.namedMax(), pushdownSuspectMax), parts...)
 	if err != nil {
@@ -542,11 +515,11 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	exact("Breusch–Pagan test (Koenker's form)")
 	if spec.Order != "" {
-		<-dwDone
-		if dw.sess == nil { // no second session: on this one
+		if dw.side == nil { // no session beside this one: on this one
 			dw.num, dw.err = p.DurbinWatsonNumerator(fit)
 		} else {
-			sess.Statements = append(sess.Statements, dw.sess.Statements...)
+			dw.side.wait()
+			sess.Statements = append(sess.Statements, dw.side.s.Statements...)
 		}
 		if dw.err != nil {
 			return s, dw.err
@@ -684,6 +657,60 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	s.Pushdown = info
 	emptyLists(&s)
 	return s, nil
+}
+
+// beside is a session that shares a study's snapshot (dataset.Session.Fork)
+// and runs statements beside the study's own, one job at a time, each on a
+// goroutine of its own. A nil *beside stands for none: wait does nothing
+// and session is nil.
+type beside struct {
+	s    *dataset.Session
+	done chan struct{} // closed when the current job ends; nil before the first
+}
+
+// forkBeside is a beside on sess's snapshot, nil where the server cannot
+// share it.
+func forkBeside(sess *dataset.Session) *beside {
+	f, err := sess.Fork()
+	if err != nil {
+		return nil
+	}
+	return &beside{s: f}
+}
+
+// run starts job on b's session once the job before it has ended.
+func (b *beside) run(job func(s *dataset.Session)) {
+	b.wait()
+	done := make(chan struct{})
+	b.done = done
+	go func() {
+		defer close(done)
+		job(b.s)
+	}()
+}
+
+// wait waits for the current job to end.
+func (b *beside) wait() {
+	if b != nil && b.done != nil {
+		<-b.done
+	}
+}
+
+// session is b's session, nil for none.
+func (b *beside) session() *dataset.Session {
+	if b == nil {
+		return nil
+	}
+	return b.s
+}
+
+// stop cancels the statement b runs, if any (a study that stops early
+// does not wait for one it no longer needs), waits for its job and ends
+// the session.
+func (b *beside) stop() {
+	b.s.Cancel()
+	b.wait()
+	b.s.Close()
 }
 
 // secondSession lets a push-down study run statements on a second

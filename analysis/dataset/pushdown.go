@@ -1510,8 +1510,11 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int, parts ...*Prepared) (*T
 	var sus []ranked
 	var sq []float64 // the cells' sums of the quadratic's squared residuals
 	var cells []extCell
+	// The handler of a group: without a run order, of cellKey's grouping;
+	// with one, of twoLevel's.
+	var handle func(v []any) error
 	if p.spec.Order == "" {
-		err := p.runParts(parts, build, func(v []any) error {
+		handle = func(v []any) error {
 			i0, j0, i1, j1, fl := splitCellKey(Num(v[0]), Num(v[1]), a0 == a1, g)
 			v = v[1:] // the rest as with one grouping column
 			n := int(Num(v[1]))
@@ -1528,41 +1531,38 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int, parts ...*Prepared) (*T
 			th.addExtremes(v[2:7])
 			sq = append(sq, Num(v[7]))
 			return nil
-		})
-		if err != nil {
-			return nil, err
 		}
-		return th.finish(sq, cells, sus, keep), nil
-	}
-	err := p.runParts(parts, build, func(v []any) error {
-		n := int(Num(v[9]))
-		if Num(v[0]) != 0 {
-			gr := th.Grids[2]
-			i, j := cellAt(Num(v[6]), gr.NX), cellAt(Num(v[7]), gr.NY)
-			gr.Counts[j*gr.NX+i] += n
+	} else {
+		handle = func(v []any) error {
+			n := int(Num(v[9]))
+			if Num(v[0]) != 0 {
+				gr := th.Grids[2]
+				i, j := cellAt(Num(v[6]), gr.NX), cellAt(Num(v[7]), gr.NY)
+				gr.Counts[j*gr.NX+i] += n
+				return nil
+			}
+			var at [2][2]int // the cells (i, j) of both grids
+			for k := range 2 {
+				gr := th.Grids[k]
+				at[k] = [2]int{cellAt(Num(v[2+2*k]), gr.NX), cellAt(Num(v[3+2*k]), gr.NY)}
+				gr.Counts[at[k][1]*gr.NX+at[k][0]] += n
+			}
+			cells = append(cells, extCell{at[0][0], at[0][1], clampR(Num(v[11])), clampR(Num(v[12]))})
+			fl := int(Num(v[8]))
+			th.addFlags(fl, n)
+			if fl&13 != 0 {
+				r := p.suspect(v[16], v[17], v[18], v[19], v[20], fl)
+				for range n { // a row repeated n times is n flagged rows
+					sus = append(sus, r)
+				}
+				sus = keepRanked(sus, keep)
+			}
+			th.addExtremes(v[10:15])
+			sq = append(sq, Num(v[15]))
 			return nil
 		}
-		var at [2][2]int // the cells (i, j) of both grids
-		for k := range 2 {
-			gr := th.Grids[k]
-			at[k] = [2]int{cellAt(Num(v[2+2*k]), gr.NX), cellAt(Num(v[3+2*k]), gr.NY)}
-			gr.Counts[at[k][1]*gr.NX+at[k][0]] += n
-		}
-		cells = append(cells, extCell{at[0][0], at[0][1], clampR(Num(v[11])), clampR(Num(v[12]))})
-		fl := int(Num(v[8]))
-		th.addFlags(fl, n)
-		if fl&13 != 0 {
-			r := p.suspect(v[16], v[17], v[18], v[19], v[20], fl)
-			for range n { // a row repeated n times is n flagged rows
-				sus = append(sus, r)
-			}
-			sus = keepRanked(sus, keep)
-		}
-		th.addExtremes(v[10:15])
-		sq = append(sq, Num(v[15]))
-		return nil
-	})
-	if err != nil {
+	}
+	if err := p.runParts(parts, build, handle); err != nil {
 		return nil, err
 	}
 	return th.finish(sq, cells, sus, keep), nil

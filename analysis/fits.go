@@ -300,7 +300,12 @@ func pick[I int | int32](v []float64, idx []I) []float64 {
 // groupLines compares the lines within the group's levels
 // (stats.CompareGroupLines).
 func groupLines(x, y []float64, gidx []int32) *report.GroupLines {
-	c := stats.CompareGroupLines(x, y, gidx)
+	return reportGroupLines(stats.CompareGroupLines(x, y, gidx))
+}
+
+// reportGroupLines is the comparison of the levels' lines as results.json
+// holds it.
+func reportGroupLines(c stats.GroupLines) *report.GroupLines {
 	return &report.GroupLines{Groups: c.Groups, N: c.N, SlopesF: report.Float(c.SlopesF), SlopesDF1: c.SlopesDF1, SlopesP: report.Float(c.SlopesP),
 		LinesF: report.Float(c.LinesF), LinesDF1: c.LinesDF1, LinesP: report.Float(c.LinesP), DF2: c.DF2,
 		RWithin: report.Float(c.RWithin), RWithinDF: c.RWithinDF, RWithinP: report.Float(c.RWithinP)}

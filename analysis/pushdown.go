@@ -971,15 +971,12 @@ func partialFromSums(n int, sxx, syy, sxy, szz, sxz, syz, conf float64) (r, lo, 
 	return
 }
 
-// groupsFromSums is groupFits and groupLines (stats.CompareGroupLines)
-// from each level's centred sums.
+// groupsFromSums is groupFits and groupLines from each level's centred
+// sums (stats.GroupLinesFromMoments, as stats.CompareGroupLines).
 func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *report.GroupLines) {
 	out := make([]report.GroupFit, 0, len(gs))
-	nan := math.NaN()
-	gl := stats.GroupLines{SlopesF: nan, SlopesP: nan, LinesF: nan, LinesP: nan, RWithin: nan, RWithinP: nan}
-	var sxx, syy, sxy, rssSep float64
-	var pooled stats.Moments // the qualifying levels together (Chan et al.'s pairwise combination), its means offsets from the dataset's (GroupSums.OX, OY)
-	for _, g := range gs {
+	ms := make([]stats.Moments, len(gs)) // the levels' means as offsets from the dataset's (GroupSums.OX, OY)
+	for i, g := range gs {
 		f := report.GroupFit{Group: g.Level, N: g.N, R: report.NaN(), Slope: report.NaN(), Intercept: report.NaN(), SlopeLow: report.NaN(), SlopeHigh: report.NaN()}
 		if g.N >= 3 && g.Sxx > 0 {
 			b := g.Sxy / g.Sxx
@@ -989,76 +986,11 @@ func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *r
 			tq := stats.TQuantile(0.5+conf/2, float64(g.N-2))
 			f.SlopeLow, f.SlopeHigh = report.Float(b-tq*se), report.Float(b+tq*se)
 			f.R = report.Float(stats.PearsonMoments(stats.Moments{N: g.N, Sxx: g.Sxx, Syy: g.Syy, Sxy: g.Sxy}, conf).R)
-			gl.Groups++
-			gl.N += g.N
-			sxx, syy, sxy = sxx+g.Sxx, syy+g.Syy, sxy+g.Sxy
-			rssSep += rss
-			pooled = combine(pooled, stats.Moments{N: g.N, MeanX: g.OX, MeanY: g.OY, Sxx: g.Sxx, Syy: g.Syy, Sxy: g.Sxy})
 		}
+		ms[i] = stats.Moments{N: g.N, MeanX: g.OX, MeanY: g.OY, Sxx: g.Sxx, Syy: g.Syy, Sxy: g.Sxy}
 		out = append(out, f)
 	}
-	G, n := gl.Groups, gl.N
-	gl.DF2 = n - 2*G
-	gl.SlopesDF1, gl.LinesDF1 = G-1, 2*G-2
-	gl.RWithinDF = n - G - 1
-	if G >= 2 && gl.DF2 >= 1 {
-		// RSS_par − RSS_sep = Σ_g Sxx_g·(b_g − b_w)², b_w = ΣSxy/ΣSxx:
-		// the same difference without subtracting two large sums.
-		bw := sxy / sxx
-		var extra float64
-		for _, g := range gs {
-			if g.N >= 3 && g.Sxx > 0 {
-				d := g.Sxy/g.Sxx - bw
-				extra += g.Sxx * d * d
-			}
-		}
-		// RSS_one − RSS_par is the squared distance between the two
-		// models' fitted values, ŷ_par − ŷ_one = c_g + δ·(x − x̄) with
-		// c_g = (ȳ_g − ȳ) − b_w·(x̄_g − x̄) and δ = b_w − b_one (means over
-		// the levels compared): Σ n_g c_g² + 2δ Σ n_g c_g (x̄_g − x̄) + δ² Sxx,
-		// again without subtracting two residual sums (our algebra).
-		delta := bw - pooled.Sxy/pooled.Sxx
-		var onePar float64
-		for _, g := range gs {
-			if g.N >= 3 && g.Sxx > 0 {
-				nf := float64(g.N)
-				dx := g.OX - pooled.MeanX
-				cg := (g.OY - pooled.MeanY) - bw*dx
-				onePar += nf*cg*cg + 2*delta*nf*cg*dx
-			}
-		}
-		onePar += delta * delta * pooled.Sxx
-		ms := rssSep / float64(gl.DF2)
-		if ms > 0 {
-			gl.SlopesF = extra / float64(gl.SlopesDF1) / ms
-			gl.SlopesP = stats.UpperF(gl.SlopesF, float64(gl.SlopesDF1), float64(gl.DF2))
-			gl.LinesF = math.Max(0, extra+onePar) / float64(gl.LinesDF1) / ms
-			gl.LinesP = stats.UpperF(gl.LinesF, float64(gl.LinesDF1), float64(gl.DF2))
-		}
-		if syy > 0 {
-			r := sxy / math.Sqrt(sxx*syy)
-			gl.RWithin = r
-			if gl.RWithinDF > 0 && math.Abs(r) < 1 {
-				gl.RWithinP = stats.TwoSidedT(r*math.Sqrt(float64(gl.RWithinDF))/math.Sqrt(1-r*r), float64(gl.RWithinDF))
-			}
-		}
-	}
-	return out, &report.GroupLines{Groups: gl.Groups, N: gl.N, SlopesF: report.Float(gl.SlopesF), SlopesDF1: gl.SlopesDF1, SlopesP: report.Float(gl.SlopesP),
-		LinesF: report.Float(gl.LinesF), LinesDF1: gl.LinesDF1, LinesP: report.Float(gl.LinesP), DF2: gl.DF2,
-		RWithin: report.Float(gl.RWithin), RWithinDF: gl.RWithinDF, RWithinP: report.Float(gl.RWithinP)}
-}
-
-// combine pools the moments of two disjoint sets of rows (Chan, Golub &
-// LeVeque 1983, eq. 2.1).
-func combine(a, b stats.Moments) stats.Moments {
-	if a.N == 0 {
-		return b
-	}
-	n := float64(a.N + b.N)
-	f := float64(a.N) * float64(b.N) / n
-	dx, dy := b.MeanX-a.MeanX, b.MeanY-a.MeanY
-	return stats.Moments{N: a.N + b.N, MeanX: a.MeanX + dx*float64(b.N)/n, MeanY: a.MeanY + dy*float64(b.N)/n,
-		Sxx: a.Sxx + b.Sxx + f*dx*dx, Syy: a.Syy + b.Syy + f*dy*dy, Sxy: a.Sxy + b.Sxy + f*dx*dy}
+	return out, reportGroupLines(stats.GroupLinesFromMoments(ms))
 }
 
 // pushedLackOfFit runs the lack-of-fit test of the rows left in the

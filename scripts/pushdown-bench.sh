@@ -20,6 +20,10 @@
 #   scripts/pg-test.sh scripts/pushdown-bench.sh            # 10⁷ rows
 #   scripts/pg-test.sh scripts/pushdown-bench.sh 1000000    # another size
 #   BIVAR_BINS="/tmp/old /tmp/new" scripts/pg-test.sh scripts/pushdown-bench.sh
+#
+# STUDY=xy measures the study of x and y alone (no group, run order or
+# covariate); KEEP=1 keeps a pdbench table of the same size that an
+# earlier run left (on a server kept running), instead of building it anew.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 rows=${1:-10000000}
@@ -32,7 +36,9 @@ if [ ${#bins[@]} -eq 0 ]; then
 	go build -o "$tmp/bivar" ./cmd/bivar
 	bins=("$tmp/bivar")
 fi
-psql "$BIVAR_TEST_PG_URL" -q -v ON_ERROR_STOP=1 <<SQL
+have=""
+[ "${KEEP:-}" != 1 ] || have=$(psql "$BIVAR_TEST_PG_URL" -X -qtA -c "SELECT count(*) FROM pdbench" 2>/dev/null || true)
+[ "$have" = "$rows" ] || psql "$BIVAR_TEST_PG_URL" -q -v ON_ERROR_STOP=1 <<SQL
 DROP TABLE IF EXISTS pdbench;
 CREATE TABLE pdbench (id text, x float8, y float8, z float8, g text, o bigint);
 INSERT INTO pdbench SELECT 'r' || i, 50 + 10 * sin(i * 12.9898),
@@ -56,6 +62,8 @@ id = "s"
 dataset = "d"
 x = "x"
 y = "y"
+TOML
+[ "${STUDY:-}" = xy ] || cat >>"$tmp/m.toml" <<TOML
 group = "g"
 order = "o"
 covariates = ["z"]

@@ -238,3 +238,50 @@ func TestCellKey(t *testing.T) {
 		}
 	}
 }
+
+// The second pass of a study with a group joins each row to its level's
+// means, a list of VALUES; with four levels PostgreSQL 15 plans that join
+// as a nested loop, which compares each row's level with every level in
+// turn (the plan without the setting is printed when the test fails).
+// Run by hashJoined, the statement is joined by hashing, and the setting
+// is back as it was after the statement.
+func TestSecondHashJoin(t *testing.T) {
+	ctx, _, url := pgSetup(t, "DROP TABLE IF EXISTS pdlevels", "CREATE TABLE pdlevels (g text, x double precision, y double precision)",
+		"INSERT INTO pdlevels SELECT 'L' || (i % 4), sin(i), cos(i) + sin(i) FROM generate_series(1, 20000) i", "ANALYZE pdlevels")
+	s, err := Open(ctx, Query{Table: "pdlevels", Env: "BIVAR_TEST_PG_URL", URL: url})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	p, err := s.Prepare(Spec{X: "x", Y: "y", Group: "g"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, levels, err := p.First(1000, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := p.Second(c.Mean, c.Sxy/c.Sxx, [2]float64{c.Min[0], c.Max[0]}, levels); err != nil {
+		t.Fatal(err)
+	}
+	stmt := s.Statements[len(s.Statements)-1]
+	plan := func(r [][]any) string {
+		var lines []string
+		for _, v := range r {
+			lines = append(lines, Text(v[0]))
+		}
+		return strings.Join(lines, "\n")
+	}
+	r, err := s.hashJoined("EXPLAIN " + stmt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := plan(r); !strings.Contains(got, "Hash Join") || strings.Contains(got, "Nested Loop") {
+		plain, _ := s.rows("EXPLAIN " + stmt)
+		t.Errorf("the second pass under hashJoined is planned as:\n%s\nand without it as:\n%s", got, plan(plain))
+	}
+	var now string
+	if err := s.tx.QueryRow(s.ctx, "SHOW enable_nestloop").Scan(&now); err != nil || now != "on" {
+		t.Errorf("enable_nestloop after hashJoined: %q (%v), want on", now, err)
+	}
+}

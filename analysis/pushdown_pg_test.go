@@ -50,7 +50,12 @@ func exactFigures(s report.Study) map[string]float64 {
 				f["quad_se_"+c.Name] = float64(c.SE)
 			}
 			f["quad_rss"], f["quad_r2"], f["quad_f"], f["quad_vertex"] = float64(m.RSS), float64(m.R2), float64(m.F), float64(m.Vertex)
+			f["quad_aic_vs_line"], f["quad_share_vs_line"] = float64(m.AICVsLine), float64(m.ShareVsLine)
 		}
+	}
+	if pl := s.Plan; pl != nil {
+		f["plan_n_for_r"], f["plan_r_now"], f["plan_n_for_slope"], f["plan_slope_now"] = float64(pl.NForR), float64(pl.RHalfWidthNow), float64(pl.NForSlope), float64(pl.SlopeHalfWidthNow)
+		f["plan_n_for_power"], f["plan_power"] = float64(pl.NForPower), float64(pl.Power)
 	}
 	if lf := s.Diagnostics.LackOfFit; lf != nil {
 		f["lof_f"], f["lof_df1"], f["lof_df2"], f["lof_p"] = float64(lf.F), float64(lf.DF1), float64(lf.DF2), float64(lf.P)
@@ -126,6 +131,9 @@ func TestPushdownSameAsInMemory(t *testing.T) {
 		m, p := mem.Studies[i], pushed.Studies[i]
 		bothRan(t, m, p)
 		agree(t, m.ID, exactFigures(p), exactFigures(m), 1e-9)
+		if p.Kind != m.Kind || p.Line.YScale != m.Line.YScale || p.Models[0].YScale != m.Models[0].YScale {
+			t.Errorf("study %s: kind %q, y scales %q and %q; in memory %q, %q and %q", m.ID, p.Kind, p.Line.YScale, p.Models[0].YScale, m.Kind, m.Line.YScale, m.Models[0].YScale)
+		}
 		// Below PushdownSample rows the sample is every complete case, so
 		// the sampled figures are those in memory too.
 		if p.Pushdown.Sample != m.N || p.Spearman.Rho != m.Spearman.Rho || p.Kendall.TauB != m.Kendall.TauB || p.Describe.X.Median != m.Describe.X.Median {

@@ -113,7 +113,12 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		if ls := loaded[st.Dataset]; ls != nil && ls.push != nil && !absentAny(st, ls) {
 			// The rows stay in the database: it does the work, one study
 			// at a time.
-			r.Studies[i] = pushedStudy(m, st, ls, cfg)
+			s := pushedStudy(m, st, ls, cfg)
+			// Its kind and plan as in memory: pushedStudy refuses the
+			// studies that would need more (agreement, gauge SD,
+			// replicates).
+			measure(&s, st, Input{}, nil, cfg)
+			r.Studies[i] = s
 			continue
 		}
 		in, msg := input(st, loaded[st.Dataset])

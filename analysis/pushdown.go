@@ -565,10 +565,10 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	if th.Suspect > len(sus) {
 		sus = sus[:min(len(sus), cfg.namedMax())]
 	}
-	// The rows at the leave-one-out extremes.
+	// The rows at the leave-one-out extremes and of the largest Cook's
+	// distance.
 	fetched := &dataset.Fetched{Sample: sample.rows}
-	fetched.Extremes, fetched.ExtLoo, err = p.Extremes(fit, th.LooRMin, th.LooRMax, th.ExtBoxes)
-	if err != nil {
+	if err := p.Extremes(fit, th, fetched); err != nil {
 		return s, err
 	}
 	if err := pushedLackOfFit(p, fit, fetched.Sample, n, d, exact, omit); err != nil {
@@ -1128,12 +1128,12 @@ func influenceFromSums(m stats.Moments, f dataset.Fit, all stats.Correlation, li
 			se.LooRMaxRow = pushedRowName(r)
 		}
 	}
+	if ext.Cook != nil {
+		in.MaxCooksRow = pushedRowName(*ext.Cook)
+	}
 	in.Points = []report.Point{}
 	for _, r := range sus {
 		ri := rowInfluence(m, f, r.X, r.Y)
-		if in.MaxCooksRow == "" && (ri.CooksD == fc.MaxD || r.D == fc.MaxD) {
-			in.MaxCooksRow = pushedRowName(r)
-		}
 		if len(in.Points) == namedMax {
 			break
 		}

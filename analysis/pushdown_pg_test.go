@@ -174,6 +174,9 @@ func TestPushdownSameAsInMemory(t *testing.T) {
 			}
 		}
 		sameLooRows(t, m.ID, p, m)
+		if p.Influence.MaxCooksRow != m.Influence.MaxCooksRow {
+			t.Errorf("study %s: the row of the largest Cook's distance is %q, in memory %q", m.ID, p.Influence.MaxCooksRow, m.Influence.MaxCooksRow)
+		}
 	}
 	// The data were built to exercise every part: a named outlier, three
 	// groups, a bend, ties in run order.
@@ -182,6 +185,29 @@ func TestPushdownSameAsInMemory(t *testing.T) {
 		t.Errorf("the test data lost their point: named %v, groups %d, form %s", s.Influence.Points, len(s.Groups), s.Findings.Form)
 	}
 	t.Logf("n %d, named %d (first %s), flagged %d, form %s, DW %v", s.N, len(s.Influence.Points), s.Influence.Points[0].Row, s.Influence.Counts.Flagged, s.Findings.Form, s.Diagnostics.DurbinWatson)
+}
+
+// With no row flagged (cut points no row passes), the report still names
+// the row of the largest Cook's distance ("No row is flagged (largest
+// Cook's distance …, row …)"): the database finds it as it finds the rows
+// at the leave-one-out extremes, and it is the row named in memory.
+// Before, a study left in the database named it only when it was flagged,
+// and the report's sentence ended in "row )".
+func TestPushdownMaxCooksUnflagged(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdcook", "CREATE TABLE pdcook (id text, x float8, y float8)",
+		"INSERT INTO pdcook SELECT 'r' || i, 10 + sin(i * 0.7071), 2 + 0.5 * sin(i * 0.7071) + 0.3 * sin(i * 1.3247 + 0.5) FROM generate_series(1, 3000) i")
+	study := "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n[thresholds]\noutlier_z = 50.0\ncooks_d = 0.999\n"
+	mem, pushed := runBoth(t, url, "pdcook", study, 10)
+	m, p := mem.Studies[0], pushed.Studies[0]
+	bothRan(t, m, p)
+	if m.Influence.Counts.Suspect != 0 || p.Influence.Counts.Suspect != 0 {
+		t.Fatalf("rows flagged: %d in memory, %d pushed; the test wants none", m.Influence.Counts.Suspect, p.Influence.Counts.Suspect)
+	}
+	if p.Influence.MaxCooksRow == "" || p.Influence.MaxCooksRow != m.Influence.MaxCooksRow ||
+		math.Abs(float64(p.Influence.MaxCooksD-m.Influence.MaxCooksD)) > 1e-9*float64(m.Influence.MaxCooksD) {
+		t.Errorf("largest Cook's distance %v at row %q, in memory %v at row %q", p.Influence.MaxCooksD, p.Influence.MaxCooksRow, m.Influence.MaxCooksD, m.Influence.MaxCooksRow)
+	}
 }
 
 // sameLooRows checks that the pushed-down study names the rows at the

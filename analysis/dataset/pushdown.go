@@ -1331,6 +1331,9 @@ type Third struct {
 	// rounding of the binning cannot leave a row out; nil when more than
 	// extBoxesMax cells hold them.
 	ExtBoxes []Box
+	// CookBoxes hold, in the same way, every row whose Cook's distance
+	// is MaxD (Extremes names one of them).
+	CookBoxes []Box
 }
 
 // Box is a range of x and y (bounds included; ±Inf for none).
@@ -1558,7 +1561,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int, parts ...*Prepared) (*T
 				i, j := [2]int{i0, i1}[k], [2]int{j0, j1}[k]
 				th.Grids[k].Counts[j*th.Grids[k].NX+i] += n
 			}
-			cells = append(cells, extCell{i0, j0, clampR(Num(v[3])), clampR(Num(v[4]))})
+			cells = append(cells, extCell{i0, j0, clampR(Num(v[3])), clampR(Num(v[4])), Num(v[2])})
 			th.addFlags(fl, n)
 			xs, ys, ids, ds, ts := anys(v[8]), anys(v[9]), anys(v[10]), anys(v[11]), anys(v[12])
 			for k := range xs {
@@ -1583,7 +1586,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int, parts ...*Prepared) (*T
 				at[k] = [2]int{cellAt(Num(v[2+2*k]), gr.NX), cellAt(Num(v[3+2*k]), gr.NY)}
 				gr.Counts[at[k][1]*gr.NX+at[k][0]] += n
 			}
-			cells = append(cells, extCell{at[0][0], at[0][1], clampR(Num(v[11])), clampR(Num(v[12]))})
+			cells = append(cells, extCell{at[0][0], at[0][1], clampR(Num(v[11])), clampR(Num(v[12])), Num(v[10])})
 			fl := int(Num(v[8]))
 			th.addFlags(fl, n)
 			if fl&13 != 0 {
@@ -1663,10 +1666,12 @@ func (th *Third) addExtremes(v []any) {
 }
 
 // extCell is a group of the third pass in the cell (i, j) of the first
-// grid, with the least and the largest leave-one-out r of its rows.
+// grid, with the least and the largest leave-one-out r of its rows and
+// their largest Cook's distance d.
 type extCell struct {
 	i, j   int
 	lo, hi float64
+	d      float64
 }
 
 // addFlags counts n rows of flags fl (findings.FlagSet's bits).
@@ -1755,24 +1760,34 @@ func (th *Third) finish(sq []float64, cells []extCell, sus []ranked, keep int) *
 	for _, v := range sq {
 		th.SQ2 += v
 	}
+	add := func(bs []Box, c extCell) []Box {
+		if b := boxOf(th.Grids[0], c.i, c.j); !slices.Contains(bs, b) {
+			bs = append(bs, b)
+		}
+		return bs
+	}
 	for _, c := range cells {
 		if c.lo == th.LooRMin || c.hi == th.LooRMax {
-			b := boxOf(th.Grids[0], c.i, c.j)
-			if !slices.Contains(th.ExtBoxes, b) {
-				th.ExtBoxes = append(th.ExtBoxes, b)
-			}
+			th.ExtBoxes = add(th.ExtBoxes, c)
 		}
-	}
-	if len(th.ExtBoxes) > extBoxesMax {
-		th.ExtBoxes = nil
+		if c.d == th.MaxD {
+			th.CookBoxes = add(th.CookBoxes, c)
+		}
 	}
 	// In order of their bounds, not in the order the server returns the
 	// cells (its hash table's, sized by the planner's estimates), so that
 	// the same rows give the same statement for the extremes
 	// (TestExtBoxesOrder).
-	slices.SortFunc(th.ExtBoxes, func(a, b Box) int {
-		return cmp.Or(cmp.Compare(a.XLo, b.XLo), cmp.Compare(a.YLo, b.YLo), cmp.Compare(a.XHi, b.XHi), cmp.Compare(a.YHi, b.YHi))
-	})
+	order := func(bs []Box) []Box {
+		if len(bs) > extBoxesMax {
+			return nil
+		}
+		slices.SortFunc(bs, func(a, b Box) int {
+			return cmp.Or(cmp.Compare(a.XLo, b.XLo), cmp.Compare(a.YLo, b.YLo), cmp.Compare(a.XHi, b.XHi), cmp.Compare(a.YHi, b.YHi))
+		})
+		return bs
+	}
+	th.ExtBoxes, th.CookBoxes = order(th.ExtBoxes), order(th.CookBoxes)
 	slices.SortFunc(sus, cmpSuspect)
 	th.Suspects = []Row{}
 	for _, r := range sus[:min(keep, len(sus))] {
@@ -1933,6 +1948,9 @@ type Fetched struct {
 	// leave-one-out r.
 	Extremes []Row
 	ExtLoo   []float64
+	// Cook is the row of the largest Cook's distance (of those that tie
+	// there, the first in order of x, y and id); nil when no row has one.
+	Cook *Row
 }
 
 // extremesMax bounds the rows kept for the leave-one-out extremes (rows
@@ -2060,49 +2078,82 @@ func (p *Prepared) samplePass(k int, frac float64) ([]SampleRow, error) {
 	return out[:min(k, len(out))], nil
 }
 
-// Extremes fetches the rows whose leave-one-out r is lo or hi (the third
-// pass's extremes), in order of x, y and id, at most extremesMax, with
-// their leave-one-out r: one scan that computes a row's leave-one-out r
-// only for the rows in boxes (the third pass's Third.ExtBoxes; for every
-// row when boxes is empty), the few cells that hold the extremes (it took
-// a third of the pass's time on 10⁷ rows when every row's was computed).
-// It runs whole, not in parts (Part): each part would scan every row for
-// a test few pass, and two parts took as long as one scan.
-func (p *Prepared) Extremes(f Fit, lo, hi float64, boxes []Box) (rows []Row, loo []float64, err error) {
-	if math.IsNaN(lo) || math.IsNaN(hi) {
-		return nil, nil, nil
+// Extremes fetches the rows whose leave-one-out r is th's least or
+// largest (LooRMin, LooRMax), in order of x, y and id, at most
+// extremesMax, with their leave-one-out r, and the row of th's largest
+// Cook's distance (MaxD; of those that tie, the first in order of x, y
+// and id), into fetched: one scan that computes a row's leave-one-out r
+// only for the rows in th.ExtBoxes and its Cook's distance only for those
+// in th.CookBoxes (for every row when they are nil), the few cells that
+// hold the extremes (it took a third of the pass's time on 10⁷ rows when
+// every row's leave-one-out r was computed). Both are computed by the
+// same expressions as in the third pass, so a row matches its extreme to
+// the last digit. It runs whole, not in parts (Part): each part would
+// scan every row for a test few pass, and two parts took as long as one
+// scan.
+func (p *Prepared) Extremes(f Fit, th *Third, fetched *Fetched) error {
+	lo, hi, maxD := th.LooRMin, th.LooRMax, th.MaxD
+	looOK, cookOK := !math.IsNaN(lo) && !math.IsNaN(hi), !math.IsNaN(maxD)
+	if !looOK && !cookOK {
+		return nil
 	}
 	dx, dy := p.dx(f), p.dy(f)
-	_, omh := p.leverage(f)
-	loor := f.loor(dx, dy, omh)
-	isExt := "(" + clampedIs(loor, lo) + " OR " + clampedIs(loor, hi) + ")"
-	if len(boxes) > 0 {
-		isExt = boxesSQL(p.num[0], p.num[1], boxes) + " AND " + isExt
+	h, omh := p.leverage(f)
+	loor, dist := "CAST(NULL AS double precision)", "CAST(NULL AS double precision)"
+	var tests []string
+	if looOK {
+		loor = f.loor(dx, dy, omh)
+		isExt := "(" + clampedIs(loor, lo) + " OR " + clampedIs(loor, hi) + ")"
+		if len(th.ExtBoxes) > 0 {
+			isExt = boxesSQL(p.num[0], p.num[1], th.ExtBoxes) + " AND " + isExt
+		}
+		tests = append(tests, "("+isExt+")")
 	}
-	stmt := "SELECT " + p.num[0] + ", " + p.num[1] + ", " + cmp.Or(p.id, "CAST(NULL AS text)") + ", " + loor + p.from() + " WHERE " + p.complete() + " AND " + isExt
+	if cookOK {
+		// The third pass's ri and Cook's distance (flaggedSQL, ThirdPass)
+		// over its e, h and 1 − h (rowsLine), written out.
+		ri := "((" + dy + " - " + lit(f.B) + " * " + dx + ") / nullif(" + lit(f.S) + " * sqrt(" + omh + "), 0))"
+		dist = ri + " * " + ri + " * (" + h + ") / nullif(2 * (" + omh + "), 0)"
+		isMax := "(" + dist + ") = " + lit(maxD)
+		if len(th.CookBoxes) > 0 {
+			isMax = boxesSQL(p.num[0], p.num[1], th.CookBoxes) + " AND " + isMax
+		}
+		tests = append(tests, "("+isMax+")")
+	}
+	stmt := "SELECT " + p.num[0] + ", " + p.num[1] + ", " + cmp.Or(p.id, "CAST(NULL AS text)") + ", " + loor + ", " + dist + p.from() +
+		" WHERE " + p.complete() + " AND (" + strings.Join(tests, " OR ") + ")"
 	var ext []ranked
-	err = p.s.each(stmt, func(v []any) error {
+	var cook *ranked
+	err := p.s.each(stmt, func(v []any) error {
 		noID := p.id == "" || isMissing(v[2], p.spec.Missing)
 		idText := ""
 		if !noID {
 			idText = Text(v[2])
 		}
-		if r := clampR(Num(v[3])); r == lo || r == hi {
-			ext = append(ext, ranked{Row: Row{X: Num(v[0]), Y: Num(v[1]), ID: idText}, noID: noID, loo: r})
+		row := ranked{Row: Row{X: Num(v[0]), Y: Num(v[1]), ID: idText}, noID: noID}
+		if r := clampR(Num(v[3])); looOK && (r == lo || r == hi) {
+			row.loo = r
+			ext = append(ext, row)
 			if len(ext) > 2*extremesMax {
 				slices.SortFunc(ext, ranked.cmpXYID)
 				ext = ext[:extremesMax]
 			}
 		}
+		if cookOK && Num(v[4]) == maxD && (cook == nil || row.cmpXYID(*cook) < 0) {
+			cook = &row
+		}
 		return nil
 	})
 	if err != nil {
-		return nil, nil, err
+		return err
 	}
 	slices.SortFunc(ext, ranked.cmpXYID)
 	for _, r := range ext[:min(extremesMax, len(ext))] {
-		rows = append(rows, r.Row)
-		loo = append(loo, r.loo)
+		fetched.Extremes = append(fetched.Extremes, r.Row)
+		fetched.ExtLoo = append(fetched.ExtLoo, r.loo)
 	}
-	return rows, loo, nil
+	if cook != nil {
+		fetched.Cook = &cook.Row
+	}
+	return nil
 }

@@ -145,19 +145,23 @@ func TestForkSnapshot(t *testing.T) {
 // statement.
 func TestExtBoxesOrder(t *testing.T) {
 	g := Grid{XLo: 0, XHi: 10, YLo: 0, YHi: 10, NX: 10, NY: 10, Counts: make([]int, 100)}
-	cells := []extCell{{1, 2, -0.5, 0.1}, {4, 4, 0, 0.3}, {7, 8, 0.2, 0.9}, {3, 9, -0.5, -0.1}}
-	var boxes [2][]Box
+	cells := []extCell{{1, 2, -0.5, 0.1, 2}, {4, 4, 0, 0.3, 7}, {7, 8, 0.2, 0.9, 1}, {3, 9, -0.5, -0.1, 7}}
+	var boxes, cook [2][]Box
 	for k := range boxes {
-		th := &Third{LooRMin: -0.5, LooRMax: 0.9}
+		th := &Third{LooRMin: -0.5, LooRMax: 0.9, MaxD: 7}
 		th.Grids[0] = &g
 		cs := slices.Clone(cells)
 		if k == 1 {
 			slices.Reverse(cs)
 		}
-		boxes[k] = th.finish(nil, cs, nil, 1).ExtBoxes
+		th = th.finish(nil, cs, nil, 1)
+		boxes[k], cook[k] = th.ExtBoxes, th.CookBoxes
 	}
 	if len(boxes[0]) != 3 || !slices.Equal(boxes[0], boxes[1]) {
 		t.Errorf("boxes %v, and %v with the groups in reverse order", boxes[0], boxes[1])
+	}
+	if len(cook[0]) != 2 || !slices.Equal(cook[0], cook[1]) {
+		t.Errorf("boxes of the largest Cook's distance %v, and %v with the groups in reverse order", cook[0], cook[1])
 	}
 }
 

@@ -265,6 +265,24 @@ type DatasetChange struct {
 	NewSHA256 string `json:"new_sha256"`
 	OldRows   int    `json:"old_rows"`
 	NewRows   int    `json:"new_rows"`
+	// OldFrom and NewFrom say where the rows came from, for people: the
+	// file (with the sheet of a workbook), or the database and the name
+	// of its connection's variable. Database is set when the new run read
+	// a database, whose hash is over the rows, not over a file.
+	OldFrom  string `json:"old_from"`
+	NewFrom  string `json:"new_from"`
+	Database bool   `json:"database,omitempty"`
+}
+
+// from says where a dataset's rows came from (DatasetChange.NewFrom).
+func from(d report.Dataset) string {
+	switch {
+	case d.Source != nil && d.Source.Kind == report.SourcePostgreSQL:
+		return "PostgreSQL, connection " + d.Source.Connection
+	case d.Source != nil && d.Source.Kind == report.SourceWorkbook && d.Source.Sheet != "":
+		return d.File + ", sheet " + d.Source.Sheet
+	}
+	return d.File
 }
 
 // Limitations are stated on every diff.
@@ -619,9 +637,10 @@ func compareDatasets(old, new []report.Dataset) []DatasetChange {
 	seen := map[string]bool{}
 	for _, d := range new {
 		seen[d.ID] = true
-		dc := DatasetChange{ID: d.ID, NewFile: d.File, NewSHA256: d.SHA256, NewRows: d.Rows}
+		dc := DatasetChange{ID: d.ID, NewFile: d.File, NewSHA256: d.SHA256, NewRows: d.Rows, NewFrom: from(d),
+			Database: d.Source != nil && d.Source.Kind == report.SourcePostgreSQL}
 		if o, ok := oldByID[d.ID]; ok {
-			dc.OldFile, dc.OldSHA256, dc.OldRows = o.File, o.SHA256, o.Rows
+			dc.OldFile, dc.OldSHA256, dc.OldRows, dc.OldFrom = o.File, o.SHA256, o.Rows, from(o)
 			dc.Status = "same"
 			if o.SHA256 != d.SHA256 {
 				dc.Status = "changed"
@@ -633,7 +652,7 @@ func compareDatasets(old, new []report.Dataset) []DatasetChange {
 	}
 	for _, d := range old {
 		if !seen[d.ID] {
-			out = append(out, DatasetChange{ID: d.ID, Status: "removed", OldFile: d.File, OldSHA256: d.SHA256, OldRows: d.Rows})
+			out = append(out, DatasetChange{ID: d.ID, Status: "removed", OldFile: d.File, OldSHA256: d.SHA256, OldRows: d.Rows, OldFrom: from(d)})
 		}
 	}
 	return out

@@ -378,3 +378,35 @@ func TestVarianceNoteP(t *testing.T) {
 		t.Errorf("variance note %q: want \"F test p < 0.0001)\"", note)
 	}
 }
+
+// The data sentence names where the rows came from: a file, a workbook's
+// sheet, or a database by its connection's variable, whose hash is over
+// the rows (before, a database dataset was "the same file in both runs
+// (, SHA-256 alike)").
+func TestDataFactSources(t *testing.T) {
+	f := verdicts("linear", "positive", "strong", false)
+	rng := rand.New(rand.NewPCG(5, 6))
+	x, y := process(rng, 40, 2, 0.5, 2)
+	for _, c := range []struct {
+		name string
+		d    report.Dataset
+		want string
+	}{
+		{"file", report.Dataset{ID: "d", File: "d.csv", SHA256: "aaa", Rows: 30},
+			"d is the same file in both runs (d.csv, SHA-256 alike)"},
+		{"sheet", report.Dataset{ID: "d", File: "w.xlsx", SHA256: "aaa", Rows: 30, Source: &report.Source{Kind: report.SourceWorkbook, Sheet: "Oct"}},
+			"d is the same file in both runs (w.xlsx, sheet Oct, SHA-256 alike)"},
+		{"database", report.Dataset{ID: "d", SHA256: "aaa", Rows: 30, Source: &report.Source{Kind: report.SourcePostgreSQL, Connection: "LINE7_DB"}},
+			"d holds the same rows in both runs (PostgreSQL, connection LINE7_DB: the same count and hash of the rows)"},
+	} {
+		a, b := rep("aaa", study("s", x, y, f)), rep("aaa", study("s", x, y, f))
+		a.Datasets, b.Datasets = []report.Dataset{c.d}, []report.Dataset{c.d}
+		res := Diff(a, b, Options{})
+		if got := dataFact(res); !strings.Contains(got, c.want) {
+			t.Errorf("%s: %q, want it to hold %q", c.name, got, c.want)
+		}
+		if d := res.Datasets[0]; d.NewFrom == "" || d.OldFrom != d.NewFrom || d.Database != (c.d.Source != nil && c.d.Source.Kind == report.SourcePostgreSQL) {
+			t.Errorf("%s: %+v", c.name, d)
+		}
+	}
+}

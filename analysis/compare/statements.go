@@ -114,16 +114,20 @@ func outcomeMove(e ExpectationChange) string {
 	return word(e.OldOK) + " → " + word(e.NewOK)
 }
 
-// dataFact states which data files the runs read, as a fact: a new run
-// normally reads a new file.
+// dataFact states which data the runs read, as a fact: a new run
+// normally reads a new file, or new rows of a database.
 func dataFact(res *Result) string {
 	var parts []string
 	for _, d := range res.Datasets {
 		switch d.Status {
 		case "changed":
-			parts = append(parts, fmt.Sprintf("%s was read from %s (%d rows) in the new run and from %s (%d rows) in the old", d.ID, d.NewFile, d.NewRows, d.OldFile, d.OldRows))
+			parts = append(parts, fmt.Sprintf("%s was read from %s (%d rows) in the new run and from %s (%d rows) in the old", d.ID, d.NewFrom, d.NewRows, d.OldFrom, d.OldRows))
 		case "same":
-			parts = append(parts, fmt.Sprintf("%s is the same file in both runs (%s, SHA-256 alike), so only the settings or the tool can explain a change", d.ID, d.NewFile))
+			if d.Database {
+				parts = append(parts, fmt.Sprintf("%s holds the same rows in both runs (%s: the same count and hash of the rows), so only the settings or the tool can explain a change", d.ID, d.NewFrom))
+			} else {
+				parts = append(parts, fmt.Sprintf("%s is the same file in both runs (%s, SHA-256 alike), so only the settings or the tool can explain a change", d.ID, d.NewFrom))
+			}
 		}
 	}
 	if len(parts) == 0 {

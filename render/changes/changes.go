@@ -378,15 +378,15 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		b.WriteString("\n")
 	}
 	if len(res.Datasets) > 0 {
-		b.WriteString("## Data files\n\n| Dataset | File | Old (rows, SHA-256) | New (rows, SHA-256) |\n|---|---|---|---|\n")
+		b.WriteString("## Data\n\n| Dataset | Data | Old (rows, SHA-256) | New (rows, SHA-256) |\n|---|---|---|---|\n")
 		for _, d := range res.Datasets {
-			side := func(file string, rows int, sha string) string {
+			side := func(from string, rows int, sha string) string {
 				if sha == "" {
 					return "—"
 				}
-				return fmt.Sprintf("`%s` (%d, `%s`)", code(file), rows, code(short(sha)))
+				return fmt.Sprintf("`%s` (%d, `%s`)", code(from), rows, code(short(sha)))
 			}
-			fmt.Fprintf(&b, "| `%s` | %s | %s | %s |\n", code(d.ID), mdtext.Cell(statusWords(d.Status)), side(d.OldFile, d.OldRows, d.OldSHA256), side(d.NewFile, d.NewRows, d.NewSHA256))
+			fmt.Fprintf(&b, "| `%s` | %s | %s | %s |\n", code(d.ID), mdtext.Cell(statusWords(d.Status, d.Database)), side(d.OldFrom, d.OldRows, d.OldSHA256), side(d.NewFrom, d.NewRows, d.NewSHA256))
 		}
 		b.WriteString("\n")
 	}
@@ -462,7 +462,13 @@ func unitAfter(u string) string {
 }
 
 // statusWords says what happened to a dataset's file, as a fact.
-func statusWords(status string) string {
+func statusWords(status string, database bool) string {
+	switch {
+	case status == "same" && database:
+		return "same rows"
+	case status == "changed" && database:
+		return "other rows (expected for a new run)"
+	}
 	switch status {
 	case "same":
 		return "same file"

@@ -27,6 +27,19 @@ const na = "n/a" // an undefined number, as printed
 // and 1e7, else "1.234e−05". NaN and ±Inf are "n/a"; −0 prints as 0.
 func num(v report.Float) string { return sig(float64(v), 4) }
 
+// numApart writes a range's two ends as num does, with more significant
+// digits (at most 10) where they would read the same and are not: on 10⁶
+// rows, leaving out any one row moves r in its sixth digit, and "r 0.9806
+// to 0.9806" hid by how much.
+func numApart(lo, hi report.Float) (string, string) {
+	for d := 4; ; d++ {
+		a, b := sig(float64(lo), d), sig(float64(hi), d)
+		if a != b || lo == hi || d == 10 || !lo.Valid() || !hi.Valid() {
+			return a, b
+		}
+	}
+}
+
 func sig(v float64, digits int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return na

@@ -24,6 +24,22 @@ func TestNum(t *testing.T) {
 	}
 }
 
+// A range's ends read apart where they differ: more digits, at most 10,
+// only when four would print the same number twice.
+func TestNumApart(t *testing.T) {
+	for _, tc := range []struct {
+		lo, hi float64
+		a, b   string
+	}{
+		{0.980623, 0.980627, "0.98062", "0.98063"}, {0.5, 0.6, "0.5000", "0.6000"}, {0.7, 0.7, "0.7000", "0.7000"},
+		{1, 1 + 1e-15, "1.000000000", "1.000000000"}, {math.NaN(), 0.5, "n/a", "0.5000"}, {-2.5e-6, -2.5001e-6, "-2.5000e-06", "-2.5001e-06"},
+	} {
+		if a, b := numApart(report.Float(tc.lo), report.Float(tc.hi)); a != tc.a || b != tc.b {
+			t.Errorf("numApart(%v, %v) = %q, %q; want %q, %q", tc.lo, tc.hi, a, b, tc.a, tc.b)
+		}
+	}
+}
+
 // TestPval: the report prints p-values with the project's one formatter,
 // findings.PValue (two decimals from 0.1, three below, four below 0.001,
 // "< 0.0001" below 0.0001).

@@ -547,8 +547,10 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 	// (An agreement study is judged by its differences: the line of y
 	// on x without each row stays in results.json.)
 	if s.Agreement == nil {
+		rLo, rHi := numApart(se.LooRMin, se.LooRMax)
+		sLo, sHi := numApart(se.LooSlopeMin, se.LooSlopeMax)
 		sec.After = append(sec.After, fmt.Sprintf("Leaving out any one row: r %s%s to %s%s; slope %s to %s.",
-			num(se.LooRMin), without(se.LooRMinRow), num(se.LooRMax), without(se.LooRMaxRow), num(se.LooSlopeMin), withSym(num(se.LooSlopeMax), unitPer(s))))
+			rLo, without(se.LooRMinRow), rHi, without(se.LooRMaxRow), sLo, withSym(sHi, unitPer(s))))
 	}
 	// An outlier-driven headline that gives r and p without the flagged
 	// rows says it already.

@@ -192,6 +192,9 @@ func markNames(m []Mark) string {
 }
 
 func denseNote(n, marked int) string {
+	if marked == 0 {
+		return fmt.Sprintf(" With %d rows, more than %d, the points are drawn as density cells (darker cells hold more rows); no row is named.", n, DensityAbove)
+	}
 	return fmt.Sprintf(" With %d rows, more than %d, the points are drawn as density cells (darker cells hold more rows); the %d named rows are drawn individually on top.",
 		n, DensityAbove, marked)
 }

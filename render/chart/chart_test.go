@@ -361,3 +361,14 @@ func TestLabelsCrowded(t *testing.T) {
 	}
 	noOverlap(t, "s", svg)
 }
+
+// The caption of a density chart says how many named rows are drawn on
+// top, and when none is named, says so instead of "the 0 named rows".
+func TestDenseNoteNoneNamed(t *testing.T) {
+	if got := denseNote(1000000, 0); strings.Contains(got, "0 named") || !strings.Contains(got, "no row is named") {
+		t.Errorf("denseNote(1000000, 0) = %q", got)
+	}
+	if got := denseNote(1000000, 3); !strings.Contains(got, "the 3 named rows are drawn individually") {
+		t.Errorf("denseNote(1000000, 3) = %q", got)
+	}
+}

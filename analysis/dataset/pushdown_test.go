@@ -1,6 +1,7 @@
 package dataset
 
 import (
+	"context"
 	"math"
 	"slices"
 	"strconv"
@@ -18,16 +19,7 @@ func TestRowsSample(t *testing.T) {
 	ctx, _, url := pgSetup(t, "DROP TABLE IF EXISTS pdsample",
 		"CREATE TABLE pdsample (id text, x double precision, y double precision, n integer)",
 		"INSERT INTO pdsample SELECT 'r' || i, sin(i), CASE WHEN i % 7 = 0 THEN NULL ELSE cos(i) END, i % 5 FROM generate_series(1, 5000) i")
-	q := Query{Table: "pdsample", Env: "BIVAR_TEST_PG_URL", URL: url}
-	s, err := Open(ctx, q)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer s.Close()
-	p, err := s.Prepare(Spec{X: "x", Y: "y", ID: "id"})
-	if err != nil {
-		t.Fatal(err)
-	}
+	s, p := openTable(ctx, t, url, "pdsample", Spec{X: "x", Y: "y", ID: "id"})
 	const k = 300
 	var want []string
 	r, err := s.rows("SELECT id FROM (SELECT " + s.rowHash() + " AS hk, x, y, id FROM pdsample AS bivar_q WHERE y IS NOT NULL) AS w ORDER BY hk, x, y, id COLLATE \"C\" LIMIT " + strconv.Itoa(k))
@@ -176,25 +168,13 @@ func TestCompleteNotIndexable(t *testing.T) {
 	ctx, _, url := pgSetup(t, "DROP TABLE IF EXISTS pdnull", "CREATE TABLE pdnull (g text, x double precision, y double precision)",
 		"INSERT INTO pdnull SELECT CASE WHEN i % 2000 = 0 THEN 'L' || (i % 3) END, sin(i), cos(i) FROM generate_series(1, 100000) i",
 		"CREATE INDEX pdnull_g ON pdnull (g)", "CREATE INDEX pdnull_x ON pdnull (x)", "CREATE INDEX pdnull_y ON pdnull (y)", "ANALYZE pdnull")
-	s, err := Open(ctx, Query{Table: "pdnull", Env: "BIVAR_TEST_PG_URL", URL: url})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer s.Close()
-	p, err := s.Prepare(Spec{X: "x", Y: "y", Group: "g"})
-	if err != nil {
-		t.Fatal(err)
-	}
+	s, p := openTable(ctx, t, url, "pdnull", Spec{X: "x", Y: "y", Group: "g"})
 	for _, q := range []*Prepared{p, p.Part(s, 0.5, false), p.Part(s, 0.5, true)} {
 		r, err := s.rows("EXPLAIN SELECT count(*)" + q.from() + " WHERE " + q.complete())
 		if err != nil {
 			t.Fatal(err)
 		}
-		var plan []string
-		for _, v := range r {
-			plan = append(plan, Text(v[0]))
-		}
-		if all := strings.Join(plan, "\n"); strings.Contains(all, "Index") || !strings.Contains(all, "Seq Scan") {
+		if all := planText(r); strings.Contains(all, "Index") || !strings.Contains(all, "Seq Scan") {
 			t.Errorf("complete cases %q read by:\n%s", q.complete(), all)
 		}
 	}
@@ -252,15 +232,7 @@ func TestCellKey(t *testing.T) {
 func TestSecondHashJoin(t *testing.T) {
 	ctx, _, url := pgSetup(t, "DROP TABLE IF EXISTS pdlevels", "CREATE TABLE pdlevels (g text, x double precision, y double precision)",
 		"INSERT INTO pdlevels SELECT 'L' || (i % 4), sin(i), cos(i) + sin(i) FROM generate_series(1, 20000) i", "ANALYZE pdlevels")
-	s, err := Open(ctx, Query{Table: "pdlevels", Env: "BIVAR_TEST_PG_URL", URL: url})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer s.Close()
-	p, err := s.Prepare(Spec{X: "x", Y: "y", Group: "g"})
-	if err != nil {
-		t.Fatal(err)
-	}
+	s, p := openTable(ctx, t, url, "pdlevels", Spec{X: "x", Y: "y", Group: "g"})
 	c, levels, err := p.First(1000, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -269,23 +241,41 @@ func TestSecondHashJoin(t *testing.T) {
 		t.Fatal(err)
 	}
 	stmt := s.Statements[len(s.Statements)-1]
-	plan := func(r [][]any) string {
-		var lines []string
-		for _, v := range r {
-			lines = append(lines, Text(v[0]))
-		}
-		return strings.Join(lines, "\n")
-	}
 	r, err := s.hashJoined("EXPLAIN " + stmt)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := plan(r); !strings.Contains(got, "Hash Join") || strings.Contains(got, "Nested Loop") {
+	if got := planText(r); !strings.Contains(got, "Hash Join") || strings.Contains(got, "Nested Loop") {
 		plain, _ := s.rows("EXPLAIN " + stmt)
-		t.Errorf("the second pass under hashJoined is planned as:\n%s\nand without it as:\n%s", got, plan(plain))
+		t.Errorf("the second pass under hashJoined is planned as:\n%s\nand without it as:\n%s", got, planText(plain))
 	}
 	var now string
 	if err := s.tx.QueryRow(s.ctx, "SHOW enable_nestloop").Scan(&now); err != nil || now != "on" {
 		t.Errorf("enable_nestloop after hashJoined: %q (%v), want on", now, err)
 	}
+}
+
+// openTable opens a session on the table of the test server and prepares
+// spec on it; the session closes when the test ends.
+func openTable(ctx context.Context, t *testing.T, url, table string, spec Spec) (*Session, *Prepared) {
+	t.Helper()
+	s, err := Open(ctx, Query{Table: table, Env: "BIVAR_TEST_PG_URL", URL: url})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(s.Close)
+	p, err := s.Prepare(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s, p
+}
+
+// planText is the text of an EXPLAIN's rows.
+func planText(r [][]any) string {
+	var lines []string
+	for _, v := range r {
+		lines = append(lines, Text(v[0]))
+	}
+	return strings.Join(lines, "\n")
 }

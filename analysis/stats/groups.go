@@ -121,12 +121,17 @@ func CompareGroupLines[L int | int32](x, y []float64, group []L) GroupLines {
 // interaction sum of squares of the analysis of covariance). The single
 // line's is RSS_one − RSS_par, the squared distance between the two
 // models' fitted values (the one-line model lies within the common-slope
-// one): ŷ_par − ŷ_one = c_g + δ·(x − x̄) with c_g = (ȳ_g − ȳ) − b_w·(x̄_g −
-// x̄) and δ = b_w − b_one, means over the groups compared, so
-// RSS_one − RSS_par = Σ n_g·c_g² + 2δ·Σ n_g·c_g·(x̄_g − x̄) + δ²·Sxx (our
-// algebra; TestCompareGroupLinesFarFromZero and
-// TestCompareGroupLinesManyGroups check both against exact rational
-// arithmetic).
+// one): ŷ_par − ŷ_one = r_g + δ·(x − x̄_g) with r_g = (ȳ_g − ȳ) −
+// b_one·(x̄_g − x̄), the group mean's residual from the single line, and
+// δ = b_w − b_one, means over the groups compared; the cross term
+// vanishes within each group (Σ(x − x̄_g) = 0), so
+// RSS_one − RSS_par = Σ_g (n_g·r_g² + δ²·Sxx_g), a sum of squares that
+// cancels nothing (our algebra; written as Σ n_g·c_g² + 2δ·Σ n_g·c_g·(x̄_g
+// − x̄) + δ²·Sxx, c_g = r_g − δ·(x̄_g − x̄), its terms cancelled where the
+// groups' means lie far apart on one line: TestCompareGroupLinesSpreadMeans).
+// TestCompareGroupLinesFarFromZero, TestCompareGroupLinesManyGroups and
+// TestCompareGroupLinesSpreadMeans check both against exact rational
+// arithmetic.
 func GroupLinesFromMoments(gs []Moments) GroupLines {
 	nan := math.NaN()
 	out := GroupLines{SlopesF: nan, SlopesP: nan, LinesF: nan, LinesP: nan, RWithin: nan, RWithinP: nan}
@@ -150,7 +155,8 @@ func GroupLinesFromMoments(gs []Moments) GroupLines {
 		return out
 	}
 	bw := sxy / sxx
-	delta := bw - pooled.Sxy/pooled.Sxx
+	b1 := pooled.Sxy / pooled.Sxx
+	delta := bw - b1
 	var slopes, onePar float64
 	for _, g := range gs {
 		if g.N < 3 || !(g.Sxx > 0) {
@@ -160,10 +166,9 @@ func GroupLinesFromMoments(gs []Moments) GroupLines {
 		slopes += g.Sxx * d * d
 		nf := float64(g.N)
 		dx := g.MeanX - pooled.MeanX
-		cg := (g.MeanY - pooled.MeanY) - bw*dx
-		onePar += nf*cg*cg + 2*delta*nf*cg*dx
+		rg := (g.MeanY - pooled.MeanY) - b1*dx // the group mean's residual from the single line
+		onePar += nf*rg*rg + delta*delta*g.Sxx
 	}
-	onePar += delta * delta * pooled.Sxx
 	ms := rssSep / float64(out.DF2)
 	if ms > 0 {
 		out.SlopesF = slopes / float64(out.SlopesDF1) / ms

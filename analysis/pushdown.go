@@ -625,7 +625,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	dy := report.Describe{N: n, Mean: report.Float(mom.MeanY), SD: report.Float(math.Sqrt(mom.Syy / (nf - 1))), Min: report.Float(c.Min[1]), Max: report.Float(c.Max[1]),
 		Q1: ss.Describe.Y.Q1, Median: ss.Describe.Y.Median, Q3: ss.Describe.Y.Q3}
 	s.Describe = &report.DescribePair{X: dx, Y: dy}
-	compareFits(s.Line, s.Models, s.Describe.X)
+	compareFits(s.Line, s.Models, s.Describe.X, sumSquaresY(s.Moments))
 	s.Spearman, s.Kendall = ss.Spearman, ss.Kendall
 	d.DistanceCorr, d.Resistant, d.Lowess = ss.Diagnostics.DistanceCorr, ss.Diagnostics.Resistant, ss.Diagnostics.Lowess
 	d.DurbinWatsonX, d.DurbinWatsonXRows, d.SpreadRho = ss.Diagnostics.DurbinWatsonX, ss.Diagnostics.DurbinWatsonXRows, ss.Diagnostics.SpreadRho

@@ -284,7 +284,7 @@ func analyze(in Input, cfg Config) report.Study {
 	wg.Wait()
 	s.Diagnostics = diag
 	s.Spearman, s.Kendall, s.Models = &side.spearman, &side.kendall, side.models
-	compareFits(s.Line, s.Models, s.Describe.X)
+	compareFits(s.Line, s.Models, s.Describe.X, sumSquaresY(s.Moments))
 	s.Diagnostics.Resistant = side.resistant
 	if side.quad != nil {
 		s.Diagnostics.QuadraticP = report.Float(side.quad.Coef[2].P)

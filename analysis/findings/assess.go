@@ -255,12 +255,14 @@ func (f *facts) strengthOf(a float64) string {
 
 // curveShare is the share of the straight line's residual sum of squares
 // that the quadratic removes, (RSS_line − RSS_quad)/RSS_line: the partial
-// R² of x² given x. The quadratic's ShareVsLine where it has one; else
-// from the two RSS, or from R² where an RSS is missing; NaN when the line
-// leaves no residual.
+// R² of x² given x. The quadratic's ShareVsLine where the fits were
+// compared (its YScale set); else from the two RSS, or from R² where an
+// RSS is missing; NaN when the line leaves no residual.
 func curveShare(s *report.Study, q *report.Fit) float64 {
-	if q.ShareVsLine.Valid() && q.YScale == "y" {
-		return float64(q.ShareVsLine) // from the x² term's t (analysis.compareFits)
+	if q.YScale == "y" {
+		// analysis.compareFits's: from the x² term's t, NaN where the
+		// line is exact to rounding.
+		return float64(q.ShareVsLine)
 	}
 	if s.Line != nil && s.Line.RSS.Valid() && q.RSS.Valid() && s.Line.RSS > 0 {
 		return 1 - float64(q.RSS)/float64(s.Line.RSS)

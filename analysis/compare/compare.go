@@ -258,7 +258,7 @@ type VerdictChange struct {
 // DatasetChange compares one dataset id across the runs.
 type DatasetChange struct {
 	ID        string `json:"id"`
-	Status    string `json:"status"` // same | changed | added | removed
+	Status    string `json:"status"` // same | changed | rehashed (hashed by another method in each run) | added | removed
 	OldFile   string `json:"old_file"`
 	NewFile   string `json:"new_file"`
 	OldSHA256 string `json:"old_sha256"`
@@ -642,7 +642,14 @@ func compareDatasets(old, new []report.Dataset) []DatasetChange {
 		if o, ok := oldByID[d.ID]; ok {
 			dc.OldFile, dc.OldSHA256, dc.OldRows, dc.OldFrom = o.File, o.SHA256, o.Rows, from(o)
 			dc.Status = "same"
-			if o.SHA256 != d.SHA256 {
+			switch {
+			case o.SHA256 == d.SHA256:
+			case o.Source != nil && d.Source != nil && o.Source.Kind == report.SourcePostgreSQL && d.Source.Kind == report.SourcePostgreSQL && o.Source.Order != d.Source.Order:
+				// Rows fetched are hashed in one way, rows left in the
+				// database in another (report.Source.Order says how): the
+				// two hashes of the same rows differ.
+				dc.Status = "rehashed"
+			default:
 				dc.Status = "changed"
 			}
 		} else {

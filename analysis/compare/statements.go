@@ -122,6 +122,8 @@ func dataFact(res *Result) string {
 		switch d.Status {
 		case "changed":
 			parts = append(parts, fmt.Sprintf("%s was read from %s (%d rows) in the new run and from %s (%d rows) in the old", d.ID, d.NewFrom, d.NewRows, d.OldFrom, d.OldRows))
+		case "rehashed":
+			parts = append(parts, fmt.Sprintf("%s was hashed by another method in each run (%d rows old, %d new: rows fetched from the database in one run and left in it in the other, as max_rows or the row count moved), so the hashes cannot say whether its rows changed", d.ID, d.OldRows, d.NewRows))
 		case "same":
 			if d.Database {
 				parts = append(parts, fmt.Sprintf("%s holds the same rows in both runs (%s: the same count and hash of the rows), so only the settings or the tool can explain a change", d.ID, d.NewFrom))

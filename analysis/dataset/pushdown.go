@@ -96,7 +96,8 @@ type Session struct {
 // its snapshot: the two passes, the sample, the third pass and the fetch
 // of the extremes in two parts each, lack of fit, the sums without the
 // flagged rows, the run-order grouping, the snapshot's export), and the
-// sample's rare second draw.
+// sample's rare second draw; the settings around the second pass
+// (hashJoined) take moments, not timeouts.
 const sessionStatements = 16
 
 // sessionSettings are the settings of a push-down session, for this
@@ -288,8 +289,10 @@ func (s *Session) what() string {
 
 // each runs one statement in the session and hands each row's values to
 // fn as they arrive (read them with Num and Text; fn must not keep the
-// slice); it is the only way statements reach the server, and it records
-// each in Statements.
+// slice); it is the only way a study's statements reach the server, and
+// it records each in Statements. The settings of the session
+// (sessionSettings, jitSettings) and of one statement (hashJoined) are
+// sent on their own and not recorded: they choose plans, not figures.
 func (s *Session) each(stmt string, fn func(v []any) error) error {
 	s.Statements = append(s.Statements, stmt)
 	rs, err := s.tx.Query(s.ctx, stmt)

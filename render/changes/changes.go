@@ -470,6 +470,8 @@ func statusWords(status string, database bool) string {
 		return "other rows (expected for a new run)"
 	}
 	switch status {
+	case "rehashed":
+		return "hashed another way (rows fetched in one run, left in the database in the other)"
 	case "same":
 		return "same file"
 	case "changed":

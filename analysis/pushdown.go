@@ -507,7 +507,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	se4 := sr4 - sr2*sr2/nf
 	suu := mom.Sxx
 	if se4 > 0 && suu > 0 {
-		r := sur2 / math.Sqrt(suu*se4)
+		r := sur2 / (math.Sqrt(suu) * math.Sqrt(se4)) // apart: the product under- or overflows for values beyond about 1e±50
 		stat := nf * r * r
 		d.BreuschPagan = &report.ChiTest{Stat: report.Float(stat), DF: 1, P: report.Float(stats.UpperChi2(stat, 1))}
 	} else {

@@ -2,8 +2,6 @@ package analysis_test
 
 import (
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -30,15 +28,7 @@ func TestExactLineNotCurved(t *testing.T) {
 			x := float64(i) * 0.37
 			b.WriteString(strconv.FormatFloat(x, 'g', -1, 64) + "," + strconv.FormatFloat(c.a+c.s*x, 'g', -1, 64) + "\n")
 		}
-		dir := t.TempDir()
-		if err := os.WriteFile(filepath.Join(dir, "d.csv"), []byte(b.String()), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		r, err := runManifest(t, dir, "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n")
-		if err != nil {
-			t.Fatal(err)
-		}
-		s := r.Studies[0]
+		s := studyCSV(t, b.String())
 		share := float64(s.Findings.CurveShare)
 		if s.Findings.Form == "curved" || !math.IsNaN(share) && share >= 0.1 {
 			t.Errorf("y = %v + %v·x exactly: form %q, curve share %v (line RSS %v)", c.a, c.s, s.Findings.Form, share, s.Line.RSS)

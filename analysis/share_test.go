@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"bivar/analysis/report"
 )
 
 // exactShare is the share of the straight line's residual sum of squares
@@ -101,15 +103,7 @@ func TestQuadraticShareExact(t *testing.T) {
 			x[i], _ = strconv.ParseFloat(strconv.FormatFloat(x[i], 'g', -1, 64), 64)
 			y[i], _ = strconv.ParseFloat(strconv.FormatFloat(y[i], 'g', -1, 64), 64)
 		}
-		dir := t.TempDir()
-		if err := os.WriteFile(filepath.Join(dir, "d.csv"), []byte(b.String()), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		r, err := runManifest(t, dir, "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n")
-		if err != nil {
-			t.Fatal(err)
-		}
-		s := r.Studies[0]
+		s := studyCSV(t, b.String())
 		want := exactShare(x, y)
 		if want < c.lowest {
 			t.Fatalf("%s: exact share %g, the case wants at least %g", c.name, want, c.lowest)
@@ -135,4 +129,19 @@ func TestQuadraticShareExact(t *testing.T) {
 			t.Errorf("%s: no quadratic among %d models", c.name, len(s.Models))
 		}
 	}
+}
+
+// studyCSV runs the study of y on x over the CSV text (header x,y) and
+// returns it.
+func studyCSV(t *testing.T, csv string) report.Study {
+	t.Helper()
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "d.csv"), []byte(csv), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	r, err := runManifest(t, dir, "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r.Studies[0]
 }

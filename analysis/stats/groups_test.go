@@ -108,12 +108,18 @@ func TestCompareGroupLinesFarFromZero(t *testing.T) {
 		g[i] = (i + 1) % 2
 	}
 	wantSlopes, wantLines := exactGroupF(x, y, g, 2)
-	got := CompareGroupLines(x, y, g)
+	agreeF(t, CompareGroupLines(x, y, g), wantSlopes, wantLines, 1e-11)
+}
+
+// agreeF checks both F tests of got against the exact ones to tol
+// relative.
+func agreeF(t *testing.T, got GroupLines, wantSlopes, wantLines, tol float64) {
+	t.Helper()
 	for _, c := range []struct {
 		name      string
 		got, want float64
 	}{{"SlopesF", got.SlopesF, wantSlopes}, {"LinesF", got.LinesF, wantLines}} {
-		if math.Abs(c.got-c.want) > 1e-11*math.Abs(c.want) {
+		if math.Abs(c.got-c.want) > tol*math.Abs(c.want) {
 			t.Errorf("%s = %.17g, exact %.17g (relative %.2g)", c.name, c.got, c.want, math.Abs(c.got-c.want)/math.Abs(c.want))
 		}
 		t.Logf("%s = %.17g, exact %.17g (relative %.2g)", c.name, c.got, c.want, math.Abs(c.got-c.want)/math.Abs(c.want))
@@ -178,30 +184,17 @@ func exactGroupF(x, y []float64, g []int, levels int) (slopes, lines float64) {
 // 1000 groups, checked against a long-double computation of the same
 // rows, was off by 4·10⁻⁸).
 func TestCompareGroupLinesManyGroups(t *testing.T) {
-	const levels, per = 200, 25
-	n := levels * per
-	x, y, g := make([]float64, n), make([]float64, n), make([]int, n)
-	for i := range n {
-		k, l := float64(i%per+1), i/per
-		x[i] = 20 + math.Sin(k*0.7071) + 0.1*float64(l)
+	const levels = 200
+	x, y, g := grouped(levels, 25, func(k, l float64) (float64, float64) {
+		x := 20 + math.Sin(k*0.7071) + 0.1*l
 		// The same noise in every group but for a part in 10⁴ of its own.
-		y[i] = 3 + 0.5*x[i] + 0.3*math.Sin(k*1.3247+0.5)*(1+1e-4*math.Sin(float64(l)*2.1))
-		g[i] = l
-	}
+		return x, 3 + 0.5*x + 0.3*math.Sin(k*1.3247+0.5)*(1+1e-4*math.Sin(l*2.1))
+	})
 	wantSlopes, wantLines := exactGroupF(x, y, g, levels)
-	got := CompareGroupLines(x, y, g)
-	for _, c := range []struct {
-		name      string
-		got, want float64
-	}{{"SlopesF", got.SlopesF, wantSlopes}, {"LinesF", got.LinesF, wantLines}} {
-		if !(c.want > 0 && c.want < 0.1) {
-			t.Fatalf("%s exact %g: the test wants lines that hardly differ", c.name, c.want)
-		}
-		if math.Abs(c.got-c.want) > 1e-9*math.Abs(c.want) {
-			t.Errorf("%s = %.17g, exact %.17g (relative %.2g)", c.name, c.got, c.want, math.Abs(c.got-c.want)/math.Abs(c.want))
-		}
-		t.Logf("%s = %.17g, exact %.17g (relative %.2g)", c.name, c.got, c.want, math.Abs(c.got-c.want)/math.Abs(c.want))
+	if !(wantSlopes > 0 && wantSlopes < 0.1 && wantLines > 0 && wantLines < 0.1) {
+		t.Fatalf("exact F %g and %g: the test wants lines that hardly differ", wantSlopes, wantLines)
 	}
+	agreeF(t, CompareGroupLines(x, y, g), wantSlopes, wantLines, 1e-9)
 }
 
 // Groups whose means lie 10⁷ apart on one line, with lines of slope
@@ -213,25 +206,24 @@ func TestCompareGroupLinesManyGroups(t *testing.T) {
 // relative; summed as those three terms, the one-line F was off by
 // 2.4·10⁻³ relative (80.793 for 80.990).
 func TestCompareGroupLinesSpreadMeans(t *testing.T) {
-	const levels, per = 3, 12
-	n := levels * per
-	x, y, g := make([]float64, n), make([]float64, n), make([]int, n)
-	for i := range n {
-		k, l := float64(i%per+1), i/per
-		c := 1e7 * float64(l)
-		x[i] = c + math.Sin(k*0.7071)
-		y[i] = c + 0.05*x[i] - 0.05*c + 0.3*math.Sin(k*1.3247+0.5+float64(l))
-		g[i] = l
-	}
+	const levels = 3
+	x, y, g := grouped(levels, 12, func(k, l float64) (float64, float64) {
+		c := 1e7 * l
+		x := c + math.Sin(k*0.7071)
+		return x, c + 0.05*x - 0.05*c + 0.3*math.Sin(k*1.3247+0.5+l)
+	})
 	wantSlopes, wantLines := exactGroupF(x, y, g, levels)
-	got := CompareGroupLines(x, y, g)
-	for _, c := range []struct {
-		name      string
-		got, want float64
-	}{{"SlopesF", got.SlopesF, wantSlopes}, {"LinesF", got.LinesF, wantLines}} {
-		t.Logf("%s = %.17g, exact %.17g (relative %.2g)", c.name, c.got, c.want, math.Abs(c.got-c.want)/math.Abs(c.want))
-		if math.Abs(c.got-c.want) > 1e-9*math.Abs(c.want) {
-			t.Errorf("%s = %.17g, exact %.17g (relative %.2g)", c.name, c.got, c.want, math.Abs(c.got-c.want)/math.Abs(c.want))
-		}
+	agreeF(t, CompareGroupLines(x, y, g), wantSlopes, wantLines, 1e-9)
+}
+
+// grouped is levels groups of per rows each, row k = 1…per of group l
+// at row(k, l), g the group's number.
+func grouped(levels, per int, row func(k, l float64) (float64, float64)) (x, y []float64, g []int) {
+	n := levels * per
+	x, y, g = make([]float64, n), make([]float64, n), make([]int, n)
+	for i := range n {
+		x[i], y[i] = row(float64(i%per+1), float64(i/per))
+		g[i] = i / per
 	}
+	return x, y, g
 }

@@ -486,11 +486,13 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// residuals, from the second pass's sums of its line's residuals e:
 	// with w = e − ē, u = d_x − d̄_x and δ = b − b1, r = w − δ·u exactly,
 	// so Σr² = Σw² − 2δΣuw + δ²Σu², Σu·r² = Σu·w² − 2δΣu²w + δ²Σu³ and
-	// Σr⁴ = Σw⁴ − 4δΣu·w³ + O(δ²) (our algebra). δ is the first pass's
-	// error in the slope: where x̄ is far from 0 it moved BP by parts in
-	// 10⁸ (x near 10⁹ with a spread of 1, TestPushdownAdversarial); the
-	// terms of Σr⁴ left out are of relative order (δ·SD(x)/s)², below
-	// 10⁻¹² unless the first pass's slope is off by 10⁻⁶·s/SD(x).
+	// Σr⁴ = Σw⁴ − 4δΣu·w³ + 6δ²Σu²w² − 4δ³Σu³w + δ⁴Σu⁴ (our algebra), each
+	// centred sum from the pass's raw ones. δ is the first pass's error in
+	// the slope: where x̄ is far from 0 it moved BP by parts in 10⁸ (x near
+	// 10⁹ with a spread of 1, TestPushdownAdversarial), and with x =
+	// 10¹² + 0.01·i, where the first pass's slope is off by 5·10⁻⁴, Σr⁴
+	// without its terms in δ² and above put BP 9.4·10⁻⁶ off the exact
+	// value (found by a sweep of small tables; TestPushdownFarBreuschPagan).
 	ebar := sums.SE / nf
 	ubar := sums.D[0] / nf
 	delta := b - b1
@@ -503,7 +505,12 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	suw3 := (sums.SXE3 - 3*ebar*sums.SXE2 + 3*ebar*ebar*sums.SXE - ebar*ebar*ebar*sums.D[0]) - ubar*sw3
 	sr2 := sw2 - 2*delta*sue + delta*delta*mom.Sxx
 	sur2 := suw2 - 2*delta*suuw + delta*delta*suuu
-	sr4 := sw4 - 4*delta*suw3
+	// Σu²w², Σu³w and Σu⁴ about the means, from the raw sums.
+	suuww := (sums.SX2E2 - 2*ubar*sums.SXE2 + ubar*ubar*sums.SE2) - 2*ebar*(sums.SX2E-2*ubar*sums.SXE+ubar*ubar*sums.SE) +
+		ebar*ebar*(sums.P[0][0]-2*ubar*sums.D[0]+nf*ubar*ubar)
+	suuuw := (sums.SX3E - 3*ubar*sums.SX2E + 3*ubar*ubar*sums.SXE - ubar*ubar*ubar*sums.SE) - ebar*suuu
+	suuuu := sums.X4 - 4*ubar*sums.X3 + 6*ubar*ubar*sums.P[0][0] - 4*ubar*ubar*ubar*sums.D[0] + nf*ubar*ubar*ubar*ubar
+	sr4 := sw4 - 4*delta*suw3 + 6*delta*delta*suuww - 4*delta*delta*delta*suuuw + delta*delta*delta*delta*suuuu
 	se4 := sr4 - sr2*sr2/nf
 	suu := mom.Sxx
 	if se4 > 0 && suu > 0 {

@@ -48,3 +48,19 @@ func TestPushdownCollinearCovariate(t *testing.T) {
 		t.Errorf("partial r with cn = x + 1e-7·sin i pushed down: %v, omitted %q; want NaN, left out (in memory %v)", p.Partial[0].R, omitted(1), m.Partial[0].R)
 	}
 }
+
+// x far from 0 against its spread: 10¹² + 0.01·i (40 rows), and
+// nanoseconds since 1970 one millisecond apart (bigint near 1.7·10¹⁸),
+// with y's spread growing with i. Breusch–Pagan by exact rational
+// arithmetic (Python's fractions on the same float64 rows):
+// 15.070806931798003 and 15.072027183074082, as in memory to 1e-15;
+// pushed down it was 15.070948738299405 (9.4e-6 off) and
+// 15.072027299184265 (7.7e-9 off), Σr⁴ without its terms in the square
+// and higher powers of the first pass's error in the slope, off by 5e-4
+// here (found by a sweep of small tables).
+func TestPushdownFarBreuschPagan(t *testing.T) {
+	runAdv(t, []advCase{{name: "far-breusch-pagan", setup: []string{"DROP TABLE IF EXISTS pdfar",
+		`CREATE TABLE pdfar AS SELECT i AS id, (1e12 + i * 0.01)::float8 AS x, (1700000000000000000::bigint + i * 1000000::bigint) AS xns,
+		  (i * 0.5 + sin(i) * (1 + i * 0.1))::float8 AS y FROM generate_series(1, 40) i`},
+		decl: table("pdfar"), studies: plain + "[[study]]\nid = \"ns\"\ndataset = \"d\"\nx = \"xns\"\ny = \"y\"\n", maxRows: 5}})
+}

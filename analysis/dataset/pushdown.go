@@ -1037,6 +1037,9 @@ type Sums struct {
 	// SE3 = Σe³, SE4 = Σe⁴, SXE2 = Σ d_x·e², SXE3 = Σ d_x·e³
 	// (Breusch–Pagan).
 	SE3, SE4, SXE2, SXE3 float64
+	// SX2E2 = Σ d_x²·e², SX3E = Σ d_x³·e (Breusch–Pagan's fourth powers
+	// of the refined line's residuals, exactly).
+	SX2E2, SX3E float64
 	// With a run order, d_o its deviation from the first pass's mean:
 	// SO = Σ d_o, SOO = Σ d_o², SOE = Σ d_o·e, SOX = Σ d_o·d_x.
 	SO, SOO, SOE, SOX float64
@@ -1093,7 +1096,7 @@ func (p *Prepared) Second(mean []float64, b float64, ends [2]float64, levels []G
 		}
 	}
 	sel = append(sel, "sum((d0 * d0) * d0)", "sum((d0 * d0) * (d0 * d0))", "sum(e)", "sum(e * e)", "sum(d0 * e)", "sum((d0 * d0) * e)", "min(e)", "max(e)",
-		"sum((e * e) * e)", "sum((e * e) * (e * e))", "sum(d0 * (e * e))", "sum(d0 * ((e * e) * e))")
+		"sum((e * e) * e)", "sum((e * e) * (e * e))", "sum(d0 * (e * e))", "sum(d0 * ((e * e) * e))", "sum((d0 * d0) * (e * e))", "sum(((d0 * d0) * d0) * e)")
 	if p.spec.Order != "" {
 		sel = append(sel, "sum(dord)", "sum(dord * dord)", "sum(dord * e)", "sum(dord * d0)")
 	} else {
@@ -1163,6 +1166,7 @@ func (p *Prepared) Second(mean []float64, b float64, ends [2]float64, levels []G
 			}
 			s.X3, s.X4, s.SE, s.SE2, s.SXE, s.SX2E = s.X3+o.X3, s.X4+o.X4, s.SE+o.SE, s.SE2+o.SE2, s.SXE+o.SXE, s.SX2E+o.SX2E
 			s.SE3, s.SE4, s.SXE2, s.SXE3 = s.SE3+o.SE3, s.SE4+o.SE4, s.SXE2+o.SXE2, s.SXE3+o.SXE3
+			s.SX2E2, s.SX3E = s.SX2E2+o.SX2E2, s.SX3E+o.SX3E
 			s.SO, s.SOO, s.SOE, s.SOX = s.SO+o.SO, s.SOO+o.SOO, s.SOE+o.SOE, s.SOX+o.SOX
 			s.EMin, s.EMax = math.Min(s.EMin, o.EMin), math.Max(s.EMax, o.EMax)
 			s.AtEnds[0], s.AtEnds[1] = s.AtEnds[0]+o.AtEnds[0], s.AtEnds[1]+o.AtEnds[1]
@@ -1206,8 +1210,9 @@ func (p *Prepared) secondSums(v []any, k, nc int, pairs []sumPair) (*Sums, error
 	}
 	s.X3, s.X4, s.SE, s.SE2, s.SXE, s.SX2E, s.EMin, s.EMax = Num(v[n]), Num(v[n+1]), Num(v[n+2]), Num(v[n+3]), Num(v[n+4]), Num(v[n+5]), Num(v[n+6]), Num(v[n+7])
 	s.SE3, s.SE4, s.SXE2, s.SXE3 = Num(v[n+8]), Num(v[n+9]), Num(v[n+10]), Num(v[n+11])
-	s.SO, s.SOO, s.SOE, s.SOX = Num(v[n+12]), Num(v[n+13]), Num(v[n+14]), Num(v[n+15])
-	s.AtEnds = [2]int{int(Num(v[n+16])), int(Num(v[n+17]))}
+	s.SX2E2, s.SX3E = Num(v[n+12]), Num(v[n+13])
+	s.SO, s.SOO, s.SOE, s.SOX = Num(v[n+14]), Num(v[n+15]), Num(v[n+16]), Num(v[n+17])
+	s.AtEnds = [2]int{int(Num(v[n+18])), int(Num(v[n+19]))}
 	return s, nil
 }
 

@@ -10,6 +10,7 @@ import (
 	"fmt"
 	"math"
 	"net/url"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -460,7 +461,7 @@ func (q Query) queryError(what string, err error, timeout time.Duration) error {
 		case "25006": // read_only_sql_transaction
 			return q.err("%s tried to write (%s), and bivar reads in a read-only transaction: give a SELECT", what, pe.Message)
 		}
-		msg := pe.Message
+		msg := shortDigits(pe.Message)
 		if pe.Hint != "" {
 			msg += " (hint: " + pe.Hint + ")"
 		}
@@ -470,6 +471,19 @@ func (q Query) queryError(what string, err error, timeout time.Duration) error {
 		return q.err("%s did not finish in time (statement_timeout = %s): filter it, or raise statement_timeout for the dataset", what, timeout)
 	}
 	return q.err("%s failed: %v", what, unwrapAll(err))
+}
+
+// longDigits is a run of digits too long to read in a message.
+var longDigits = regexp.MustCompile(`[0-9]{25,}`)
+
+// shortDigits shortens each run of more than 24 digits in a server's
+// message to its first 8 and its length: a numeric cell of 10⁴⁰⁰ came
+// back in full, 401 digits, in the message that it is out of range for
+// double precision (found by a sweep of small tables).
+func shortDigits(msg string) string {
+	return longDigits.ReplaceAllStringFunc(msg, func(d string) string {
+		return fmt.Sprintf("%s… (%d digits)", d[:8], len(d))
+	})
 }
 
 // unwrapAll is err's text without pgx's "failed to connect to `…`" prefix

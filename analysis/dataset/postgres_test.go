@@ -6,6 +6,7 @@ import (
 	"encoding/hex"
 	"math"
 	"os"
+	"strings"
 	"testing"
 	"time"
 
@@ -142,4 +143,21 @@ func pgSetup(t *testing.T, stmts ...string) (context.Context, *pgx.Conn, string)
 		}
 	}
 	return ctx, conn, url
+}
+
+// A server's message keeps a long number readable: a run of more than 24
+// digits becomes its first 8 and its length (a numeric cell of 10⁴⁰⁰
+// came back with all 401 digits); shorter numbers stay as they are.
+func TestShortDigits(t *testing.T) {
+	long := "1" + strings.Repeat("0", 400)
+	for _, c := range []struct{ in, want string }{
+		{`value "` + long + `" is out of range for type double precision`, `value "10000000… (401 digits)" is out of range for type double precision`},
+		{`value "1e400" is out of range`, `value "1e400" is out of range`},
+		{"line 123456789012345678901234 and 42", "line 123456789012345678901234 and 42"},
+		{"x " + strings.Repeat("9", 25) + ".5", "x 99999999… (25 digits).5"},
+	} {
+		if got := shortDigits(c.in); got != c.want {
+			t.Errorf("shortDigits(%.60q) = %q, want %q", c.in, got, c.want)
+		}
+	}
 }

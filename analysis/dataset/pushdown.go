@@ -324,7 +324,7 @@ func (s *Session) each(stmt string, fn func(v []any) error) error {
 func (s *Session) error(err error) error {
 	var pe *pgconn.PgError
 	if errors.As(err, &pe) && pe.Code == "22003" {
-		return s.q.err("a number went out of range in the database (%s): unless the query itself fails so in psql, the study's values are too large or too small for the database's sums of their fourth powers in double precision; rescale the columns in the query (for example y / 1e100 AS y), or raise max_rows above the row count to study the rows in memory", pe.Message)
+		return s.q.err("a number went out of range in the database (%s): unless the query itself fails so in psql, the study's values are too large or too small for the database's sums of their fourth powers in double precision; rescale the columns in the query (for example y / 1e100 AS y), or raise max_rows above the row count to study the rows in memory", shortDigits(pe.Message))
 	}
 	return s.q.queryError(s.what(), err, s.timeout)
 }

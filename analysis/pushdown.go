@@ -310,7 +310,8 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	exact("n", "rows left out as missing")
 	if s.N < 3 {
-		return failed(s, fmt.Sprintf("only %s of the %d rows are complete; at least 3 are needed: check the columns for missing cells", count(s.N, "row"), c.Rows)), nil
+		return failed(s, fmt.Sprintf("only %s of %s (of %d rows); at least 3 are needed: check the columns for missing cells",
+			count(s.N, "complete row"), columnList(spec.X, spec.Y, spec.Group, spec.Order, spec.Covariates), c.Rows)), nil
 	}
 	if c.Min[0] == c.Max[0] {
 		return failed(s, fmt.Sprintf("x column %q is constant (every one of the %d complete rows is %g): a relationship needs x to vary", spec.X, s.N, c.Min[0])), nil

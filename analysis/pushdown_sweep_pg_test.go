@@ -64,3 +64,22 @@ func TestPushdownFarBreuschPagan(t *testing.T) {
 		  (i * 0.5 + sin(i) * (1 + i * 0.1))::float8 AS y FROM generate_series(1, 40) i`},
 		decl: table("pdfar"), studies: plain + "[[study]]\nid = \"ns\"\ndataset = \"d\"\nx = \"xns\"\ny = \"y\"\n", maxRows: 5}})
 }
+
+// Too few complete rows: the study fails in both paths with a message
+// that names its columns (pushed down it said "only 2 rows of the 20
+// rows are complete", naming none; found by a sweep of small tables).
+func TestPushdownTooFewNamesColumns(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdfew",
+		`CREATE TABLE pdfew AS SELECT i AS id, (i * 0.7)::float8 AS x, CASE WHEN i <= 2 THEN (i * 0.3)::float8 END AS y, (i % 3)::float8 AS cz FROM generate_series(1, 20) i`)
+	mem, pushed := runBothDecl(t, url, table("pdfew"), "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ncovariates = [\"cz\"]\n", 5)
+	want := `only 2 complete rows of x "x", y "y" and covariate "cz"`
+	for _, s := range []struct {
+		path string
+		err  *string
+	}{{"in memory", mem.Studies[0].Error}, {"pushed down", pushed.Studies[0].Error}} {
+		if s.err == nil || !strings.Contains(*s.err, want) {
+			t.Errorf("%s: error %v, want it to hold %q", s.path, errText(s.err), want)
+		}
+	}
+}

@@ -592,12 +592,25 @@ func FlaggedFile(studyID string) string { return studyID + "-flagged.csv" }
 
 // completeColumns lists the columns a complete case needs, for messages.
 func completeColumns(in Input, covNames []string) string {
-	cols := []string{fmt.Sprintf("x %q", in.X.Column), fmt.Sprintf("y %q", in.Y.Column)}
+	group, order := "", ""
 	if in.Groups.Given() {
-		cols = append(cols, fmt.Sprintf("group %q", in.GroupColumn))
+		group = in.GroupColumn
 	}
 	if in.Order != nil {
-		cols = append(cols, fmt.Sprintf("order %q", in.OrderColumn))
+		order = in.OrderColumn
+	}
+	return columnList(in.X.Column, in.Y.Column, group, order, covNames)
+}
+
+// columnList names a study's columns for a message: x "…", y "…" and,
+// where given ("" for none), the group, the order and the covariates.
+func columnList(x, y, group, order string, covNames []string) string {
+	cols := []string{fmt.Sprintf("x %q", x), fmt.Sprintf("y %q", y)}
+	if group != "" {
+		cols = append(cols, fmt.Sprintf("group %q", group))
+	}
+	if order != "" {
+		cols = append(cols, fmt.Sprintf("order %q", order))
 	}
 	for _, c := range covNames {
 		cols = append(cols, fmt.Sprintf("covariate %q", c))

@@ -1260,8 +1260,26 @@ func (p *Prepared) rowsLine(f Fit, withID bool) string {
 	sel := p.cols(withID)
 	dx, dy := p.dx(f), p.dy(f)
 	h, omh := p.leverage(f)
-	return "(SELECT " + sel + ", " + dx + " AS dx, " + dy + " AS dy, " + dy + " - " + lit(f.B) + " * " + dx + " AS e, " +
+	return "(SELECT " + sel + ", " + dx + " AS dx, " + dy + " AS dy, " + f.resid(dx, dy) + " AS e, " +
 		h + " AS h, " + omh + " AS omh" + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e"
+}
+
+// The row-wise measures as SQL over the SQL of their inputs, written in
+// one place so that the third pass (over its derived table's columns)
+// and the fetch of the extremes (over the expressions themselves) compute
+// them by the same operations and agree to the last digit: resid is the
+// line's residual e = dy − B·dx, studentized its studentized residual
+// e/(s·√(1 − h)), and cooks Cook's distance from it, ri²·h/(2·(1 − h)).
+func (f Fit) resid(dx, dy string) string {
+	return "((" + dy + ") - " + lit(f.B) + " * (" + dx + "))"
+}
+
+func (f Fit) studentized(e, omh string) string {
+	return "((" + e + ") / nullif(" + lit(f.S) + " * sqrt(" + omh + "), 0))"
+}
+
+func cooks(ri, h, omh string) string {
+	return "((" + ri + ") * (" + ri + ") * (" + h + ") / nullif(2 * (" + omh + "), 0))"
 }
 
 // leverage is the SQL of a row's leverage h and of 1 − h over bivar_q's
@@ -1448,7 +1466,7 @@ func (p *Prepared) flaggedSQL(f Fit) (src, fl, isSuspect, s2 string) {
 	}
 	o := "(omh > 0 AND e * e > " + cutLit(k1) + " * omh)"
 	d := "(omh > 0 AND (e * e) * h > " + cutLit(k2) + " * (omh * omh))"
-	ri := "(e / nullif(" + lit(f.S) + " * sqrt(omh), 0))"
+	ri := f.studentized("e", "omh")
 	s2 = "CAST(NULL AS double precision)"
 	if f.N > 3 {
 		s2 = "greatest(0, (" + lit(f.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
@@ -1507,7 +1525,7 @@ func (p *Prepared) ThirdPass(f Fit, g [3]Grid, keep int, parts ...*Prepared) (*T
 	// Cook's distance from the studentized residual ri (computed once a
 	// row above, where it was written out twice): in max() and, for a
 	// flagged row only, in its key.
-	dist := "ri * ri * h / nullif(2 * omh, 0)"
+	dist := cooks("ri", "h", "omh")
 	keys := []string{suspect("x"), suspect("y"), suspect(id), suspect(dist), suspect("e / nullif(sqrt(" + s2 + ") * sqrt(omh), 0)")}
 	a0, b0 := cell("x", g[0].XLo, g[0].XHi, g[0].NX), cell("y", g[0].YLo, g[0].YHi, g[0].NY)
 	a1, b1 := cell("x", g[1].XLo, g[1].XHi, g[1].NX), cell("e", g[1].YLo, g[1].YHi, g[1].NY)
@@ -1908,7 +1926,7 @@ func (p *Prepared) DurbinWatsonNumerator(f Fit) (float64, error) {
 		"SELECT m, me, ss, lag(m) OVER w AS pm, lag(me) OVER w AS pme, lag(ss) OVER w AS pss FROM (" +
 		"SELECT o, m, se / m AS me, greatest(0, see - se * se / m) AS ss FROM (" +
 		"SELECT o, CAST(count(*) AS double precision) AS m, sum(e) AS se, sum(e * e) AS see FROM (SELECT " +
-		p.num[len(p.num)-1] + " AS o, " + p.dy(f) + " - " + lit(f.B) + " * " + p.dx(f) + " AS e" + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e GROUP BY o" +
+		p.num[len(p.num)-1] + " AS o, " + f.resid(p.dx(f), p.dy(f)) + " AS e" + p.from() + " WHERE " + p.complete() + fence + ") AS bivar_e GROUP BY o" +
 		") AS bivar_s) AS bivar_b WINDOW w AS (ORDER BY o)) AS bivar_l"
 	r, err := p.s.rows(stmt)
 	if err != nil {
@@ -2120,8 +2138,7 @@ func (p *Prepared) Extremes(f Fit, th *Third, fetched *Fetched) error {
 	if cookOK {
 		// The third pass's ri and Cook's distance (flaggedSQL, ThirdPass)
 		// over its e, h and 1 − h (rowsLine), written out.
-		ri := "((" + dy + " - " + lit(f.B) + " * " + dx + ") / nullif(" + lit(f.S) + " * sqrt(" + omh + "), 0))"
-		dist = ri + " * " + ri + " * (" + h + ") / nullif(2 * (" + omh + "), 0)"
+		dist = cooks(f.studentized(f.resid(dx, dy), omh), h, omh)
 		isMax := "(" + dist + ") = " + lit(maxD)
 		if len(th.CookBoxes) > 0 {
 			isMax = boxesSQL(p.num[0], p.num[1], th.CookBoxes) + " AND " + isMax

@@ -92,14 +92,15 @@ func compareFits(line *report.Fit, models []report.Fit, x report.Describe, sumY2
 		m.YScale = scale(m.Name)
 		m.AICVsLine, m.ShareVsLine = report.NaN(), report.NaN()
 		if m.YScale == "y" && !exact {
-			m.AICVsLine = m.AIC - line.AIC
-			if float64(line.RSS) > 0 {
-				m.ShareVsLine = 1 - m.RSS/line.RSS
-			}
 			if share, ok := addedTermShare(m, line); ok {
 				n := float64(m.DFResid + len(m.Coefficients))
 				m.ShareVsLine = report.Float(share)
 				m.AICVsLine = report.Float(n*math.Log1p(-share) + 2*float64(len(m.Coefficients)-len(line.Coefficients)))
+			} else {
+				m.AICVsLine = m.AIC - line.AIC
+				if float64(line.RSS) > 0 {
+					m.ShareVsLine = 1 - m.RSS/line.RSS
+				}
 			}
 		}
 		if v := float64(m.Vertex); m.Vertex.Valid() && x.Min.Valid() && x.Max.Valid() {

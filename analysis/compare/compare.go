@@ -274,10 +274,16 @@ type DatasetChange struct {
 	Database bool   `json:"database,omitempty"`
 }
 
+// fromDatabase says whether a dataset's rows came from (or stayed in) a
+// database.
+func fromDatabase(d report.Dataset) bool {
+	return d.Source != nil && d.Source.Kind == report.SourcePostgreSQL
+}
+
 // from says where a dataset's rows came from (DatasetChange.NewFrom).
 func from(d report.Dataset) string {
 	switch {
-	case d.Source != nil && d.Source.Kind == report.SourcePostgreSQL:
+	case fromDatabase(d):
 		return "PostgreSQL, connection " + d.Source.Connection
 	case d.Source != nil && d.Source.Kind == report.SourceWorkbook && d.Source.Sheet != "":
 		return d.File + ", sheet " + d.Source.Sheet
@@ -638,13 +644,13 @@ func compareDatasets(old, new []report.Dataset) []DatasetChange {
 	for _, d := range new {
 		seen[d.ID] = true
 		dc := DatasetChange{ID: d.ID, NewFile: d.File, NewSHA256: d.SHA256, NewRows: d.Rows, NewFrom: from(d),
-			Database: d.Source != nil && d.Source.Kind == report.SourcePostgreSQL}
+			Database: fromDatabase(d)}
 		if o, ok := oldByID[d.ID]; ok {
 			dc.OldFile, dc.OldSHA256, dc.OldRows, dc.OldFrom = o.File, o.SHA256, o.Rows, from(o)
 			dc.Status = "same"
 			switch {
 			case o.SHA256 == d.SHA256:
-			case o.Source != nil && d.Source != nil && o.Source.Kind == report.SourcePostgreSQL && d.Source.Kind == report.SourcePostgreSQL && o.Source.Order != d.Source.Order:
+			case fromDatabase(o) && fromDatabase(d) && o.Source.Order != d.Source.Order:
 				// Rows fetched are hashed in one way, rows left in the
 				// database in another (report.Source.Order says how): the
 				// two hashes of the same rows differ.

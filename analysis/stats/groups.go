@@ -137,10 +137,12 @@ func GroupLinesFromMoments(gs []Moments) GroupLines {
 	out := GroupLines{SlopesF: nan, SlopesP: nan, LinesF: nan, LinesP: nan, RWithin: nan, RWithinP: nan}
 	var sxx, syy, sxy, rssSep float64
 	var pooled Moments // the groups compared together (Chan et al.'s pairwise combination)
+	var used []Moments // those groups
 	for _, g := range gs {
 		if g.N < 3 || !(g.Sxx > 0) {
 			continue
 		}
+		used = append(used, g)
 		out.Groups++
 		out.N += g.N
 		sxx, syy, sxy = sxx+g.Sxx, syy+g.Syy, sxy+g.Sxy
@@ -158,10 +160,7 @@ func GroupLinesFromMoments(gs []Moments) GroupLines {
 	b1 := pooled.Sxy / pooled.Sxx
 	delta := bw - b1
 	var slopes, onePar float64
-	for _, g := range gs {
-		if g.N < 3 || !(g.Sxx > 0) {
-			continue
-		}
+	for _, g := range used {
 		d := g.Sxy/g.Sxx - bw
 		slopes += g.Sxx * d * d
 		nf := float64(g.N)

@@ -86,7 +86,7 @@ func compareFits(line *report.Fit, models []report.Fit, x report.Describe, sumY2
 		}
 		return "y"
 	}
-	line.YScale, line.AICVsLine, line.ShareVsLine = "y", 0, 0
+	line.YScale, line.AICVsLine, line.ShareVsLine, line.ExactToRounding = "y", 0, 0, exact
 	for i := range models {
 		m := &models[i]
 		m.YScale = scale(m.Name)

@@ -135,11 +135,17 @@ func TestQuadraticShareExact(t *testing.T) {
 // returns it.
 func studyCSV(t *testing.T, csv string) report.Study {
 	t.Helper()
+	return studyCSVWith(t, csv, "")
+}
+
+// studyCSVWith is studyCSV with more keys of the study (TOML lines).
+func studyCSVWith(t *testing.T, csv, keys string) report.Study {
+	t.Helper()
 	dir := t.TempDir()
 	if err := os.WriteFile(filepath.Join(dir, "d.csv"), []byte(csv), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	r, err := runManifest(t, dir, "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n")
+	r, err := runManifest(t, dir, "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n"+keys)
 	if err != nil {
 		t.Fatal(err)
 	}

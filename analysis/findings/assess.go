@@ -52,6 +52,10 @@ type facts struct {
 	quad   *report.Fit
 	b2     float64
 	share  float64 // share of the line's residual sum of squares the quadratic removes
+	// exact: the line fits to the rounding of the numbers
+	// (report.Fit.ExactToRounding), so its residuals are rounding and no
+	// check reads them.
+	exact  bool
 	curved bool
 	nonlin bool
 	dcor   *report.DistanceCorr
@@ -305,6 +309,7 @@ func (f *facts) decide(out *report.Findings) {
 		f.rdir = dirOf(f.r)
 	}
 	f.dir = f.rdir
+	f.exact = s.Line != nil && s.Line.ExactToRounding
 
 	f.screens()
 
@@ -495,7 +500,7 @@ func (f *facts) checks(out *report.Findings) []report.Check {
 		if d.BreuschPagan != nil {
 			screen("changing-spread", checkSpread, float64(d.BreuschPagan.Stat), out.SpreadChanges)
 		}
-		if s.Order != "" {
+		if s.Order != "" && !f.exact {
 			dw, dwp := f.driftDWP()
 			screen("drift", checkDrift, dw, out.Drift)
 			if d.OrderTrend != nil {
@@ -528,10 +533,11 @@ func (f *facts) checks(out *report.Findings) []report.Check {
 // of DW's large-sample null distribution, about normal with mean 2 and
 // variance 4/m for m rows used (Durbin & Watson 1950, Biometrika
 // 37:409–428; the approximation is ours to state). Both are NaN when the
-// statistic is undefined (fewer than 8 rows) or FormDW is off.
+// statistic is undefined (fewer than 8 rows), FormDW is off or the line
+// fits to the rounding of the numbers (facts.exact).
 func (f *facts) xOrderDW() (dw, bound float64) {
 	d := f.s.Diagnostics
-	if d == nil || !d.DurbinWatsonX.Valid() || d.DurbinWatsonXRows < 8 || !(f.th.FormDW > 0) {
+	if d == nil || !d.DurbinWatsonX.Valid() || d.DurbinWatsonXRows < 8 || !(f.th.FormDW > 0) || f.exact {
 		return math.NaN(), math.NaN()
 	}
 	dw = float64(d.DurbinWatsonX)
@@ -550,10 +556,11 @@ func (f *facts) xOrderDW() (dw, bound float64) {
 // the statistic only below it). Only the lower side is read: a statistic
 // well above 2 means residuals that alternate from run to run, which is
 // not drift. Both are NaN when the statistic is undefined, n < 3 or
-// DriftDW is off.
+// DriftDW is off or the line fits to the rounding of the numbers
+// (facts.exact).
 func (f *facts) driftDWP() (dw, p float64) {
 	d := f.s.Diagnostics
-	if d == nil || !d.DurbinWatson.Valid() || f.s.N < 3 || !(f.th.DriftDW > 0) {
+	if d == nil || !d.DurbinWatson.Valid() || f.s.N < 3 || !(f.th.DriftDW > 0) || f.exact {
 		return math.NaN(), math.NaN()
 	}
 	dw = float64(d.DurbinWatson)
@@ -612,7 +619,12 @@ func (f *facts) screens() {
 	s := f.s
 	f.screenRaw, f.screenAdj, f.screenNames = map[string]float64{}, map[string]float64{}, nil
 	raw := map[string]float64{checkCurvature: f.quadP(), checkDrift: f.driftP()}
-	if d := s.Diagnostics; d != nil {
+	if f.exact {
+		// Every one of them reads the line's residuals, which hold only
+		// rounding.
+		raw = nil
+	}
+	if d := s.Diagnostics; d != nil && !f.exact {
 		if d.LackOfFit != nil {
 			raw[checkLackOfFit] = float64(d.LackOfFit.P)
 		}
@@ -974,7 +986,14 @@ func (f *facts) write(out *report.Findings) {
 	f.influenceStatements(out, add)
 
 	// Spread.
-	if d := s.Diagnostics; d != nil && d.BreuschPagan != nil {
+	if f.exact {
+		order := ""
+		if s.Order != "" {
+			order = " or in run order"
+		}
+		add("The line fits these rows to the rounding of the numbers (its residual sum of squares, %s, is at most (16ε)²·Σy², ε = 2⁻⁵², the floor taken for an exact fit): what it leaves is rounding, so no bend, lack of fit, change of scatter, or pattern of the residuals in order of %s%s is read from it.",
+			num(float64(s.Line.RSS)), x, order)
+	} else if d := s.Diagnostics; d != nil && d.BreuschPagan != nil {
 		bp := d.BreuschPagan
 		if out.SpreadChanges {
 			how, rho := "changes", ""
@@ -1055,7 +1074,9 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		if q != nil && !math.IsNaN(f.quadP()) {
 			c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
 			why := "its x² term is not clear"
-			if f.screenAdj[checkCurvature] < f.alpha {
+			if f.exact {
+				why = "the line fits to the rounding of the numbers and no bend can be told from it"
+			} else if f.screenAdj[checkCurvature] < f.alpha {
 				why = fmt.Sprintf("it removes a share %s of the line's residual sum of squares, less than the %s that would count as a curve (%s)", f.shareText(), num(f.th.CurveShare), OwnChoice)
 			}
 			add("A quadratic curve gives R² = %s against %s for the straight line (x² term %s): %s, so the form is taken as a straight line.",
@@ -1343,6 +1364,8 @@ func (f *facts) limits(out *report.Findings) {
 	case s.Order == "":
 		add("No run order was declared, so drift over time, and dependence between rows taken one after another, were not checked: the p-values and intervals in this report assume independent rows.")
 	case d == nil:
+	case f.exact: // said with the spread
+
 	case out.Drift:
 		add("The residuals drift in run order (by %s; %s): time, or something changing with it, may act on %s besides %s.", f.orderLabel(), f.orderFigures(), y, x)
 	default:
@@ -1350,7 +1373,7 @@ func (f *facts) limits(out *report.Findings) {
 	}
 
 	// Independence.
-	if s.Order != "" && d != nil {
+	if s.Order != "" && d != nil && !f.exact {
 		f.independence(out, add)
 	}
 

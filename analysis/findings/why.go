@@ -232,7 +232,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 		if f.quad == nil {
 			w += " (no quadratic could be fitted: too few rows or distinct values of x)"
 		}
-		if q := f.quad; q != nil && q.R2.Valid() && math.IsNaN(f.share) {
+		if q := f.quad; q != nil && q.R2.Valid() && f.exact {
 			// The line exact to rounding (analysis.compareFits): the x²
 			// term's t reads that rounding.
 			w += fmt.Sprintf(" (x² term %s; the line fits to the rounding of the numbers, so no bend can be told from it)", f.screenP(checkCurvature, f.quadP()))

@@ -383,6 +383,12 @@ type Fit struct {
 	// itself 0 and 0), NaN for the others.
 	AICVsLine   Float `json:"aic_vs_line"`
 	ShareVsLine Float `json:"share_vs_line"`
+	// ExactToRounding, on the straight line only: the line leaves nothing
+	// but the rounding of the numbers (its RSS at or below (16ε)²·Σy²,
+	// ε = 2⁻⁵², the floor stats.NewLineInfluence takes for an exact fit),
+	// so no check that reads its residuals (bend, lack of fit, changing
+	// spread, their order in x or in run order) has anything to read.
+	ExactToRounding bool `json:"exact_to_rounding,omitempty"`
 }
 
 // VertexMargin is how far beyond the observed x range, as a share of its

@@ -150,12 +150,7 @@ func pushedStudy(m *manifest.Manifest, st manifest.Study, ls *loadedSet, cfg Con
 		X: variable(ls.decl, st.X), Y: variable(ls.decl, st.Y), Group: st.Group, Order: st.Order,
 		GroupLabel: labelOf(st.Group, ls.decl.Labels[st.Group]), OrderLabel: labelOf(st.Order, ls.decl.Labels[st.Order]),
 		Covariates: slices.Clone(st.Covariates)}
-	fail := func(msg string) report.Study {
-		if st.Line > 0 {
-			msg = fmt.Sprintf("%s:%d: in this [[study]]: %s", m.Path, st.Line, msg)
-		}
-		return failed(s, msg)
-	}
+	fail := func(msg string) report.Study { return failed(s, studyAt(m, st, msg)) }
 	// The messages below give the dataset's row count: a scan of its own
 	// when no study has counted the rows yet.
 	if len(ls.decl.Exclude) > 0 || len(st.Exclude) > 0 || ls.decl.SubsetExpr != nil || st.WhereExpr != nil {

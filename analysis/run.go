@@ -123,13 +123,10 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 		}
 		in, msg := input(st, loaded[st.Dataset])
 		if msg != "" {
-			if st.Line > 0 { // where to fix it: the study's [[study]] header
-				msg = fmt.Sprintf("%s:%d: in this [[study]]: %s", m.Path, st.Line, msg)
-			}
 			s := failed(report.Study{ID: st.ID, Title: st.Title, Dataset: st.Dataset,
 				X: report.Variable{Column: st.X, Label: st.X}, Y: report.Variable{Column: st.Y, Label: st.Y},
 				Group: st.Group, Order: st.Order, GroupLabel: labelOf(st.Group, ""), OrderLabel: labelOf(st.Order, ""),
-				Covariates: slices.Clone(st.Covariates), Notes: st.Notes}, msg)
+				Covariates: slices.Clone(st.Covariates), Notes: st.Notes}, studyAt(m, st, msg))
 			if ls := loaded[st.Dataset]; ls != nil {
 				s.X, s.Y = variable(ls.decl, st.X), variable(ls.decl, st.Y)
 				s.GroupLabel, s.OrderLabel = labelOf(st.Group, ls.decl.Labels[st.Group]), labelOf(st.Order, ls.decl.Labels[st.Order])
@@ -144,6 +141,10 @@ func Run(m *manifest.Manifest, opts Options) (*report.Report, error) {
 			defer func() { gate.leave(rows); wg.Done() }()
 			in.Keep = selected[i].keep
 			s := analyze(onScale(st, in), cfg)
+			if s.Error != nil { // too few complete rows, x or y constant, …
+				msg := studyAt(m, st, *s.Error)
+				s.Error = &msg
+			}
 			scaledModels(&s)
 			if in.Keep == nil {
 				s.Excluded = splitReasons(s.Excluded, loaded[st.Dataset].table)

@@ -406,6 +406,15 @@ func labelOf(column, label string) string {
 	return column
 }
 
+// studyAt is msg, why study st did not run, led by where to fix it: the
+// manifest's file and the line of the study's [[study]] header.
+func studyAt(m *manifest.Manifest, st manifest.Study, msg string) string {
+	if st.Line > 0 {
+		return fmt.Sprintf("%s:%d: in this [[study]]: %s", m.Path, st.Line, msg)
+	}
+	return msg
+}
+
 // failed sets the study's error and returns it.
 func failed(s report.Study, msg string) report.Study {
 	s.Error = &msg

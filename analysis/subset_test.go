@@ -152,9 +152,18 @@ func TestRunSubsetTooFew(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := `s: only 2 complete rows of x "x" and y "y" after the 10 rows left out by exclude or where`
-	if !strings.HasPrefix(studyErrs, want) {
-		t.Errorf("error = %q, want it to start %q", studyErrs, want)
+	// Led by where to fix it, the study's [[study]] header on line 5.
+	want := `m.toml:5: in this [[study]]: only 2 complete rows of x "x" and y "y" after the 10 rows left out by exclude or where`
+	if !strings.HasPrefix(studyErrs, "s: ") || !strings.Contains(studyErrs, want) {
+		t.Errorf("error = %q, want it to start \"s: …/%s\"", studyErrs, want)
+	}
+	// A constant x, found only once the rows are read, names the line too.
+	_, studyErrs, err = runText(t, "x,y\n1,2\n1,3\n1,5\n", "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n\n[[study]]\nid = \"c\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := `m.toml:5: in this [[study]]: x column "x" is constant`; !strings.Contains(studyErrs, want) {
+		t.Errorf("constant x: error = %q, want it to hold %q", studyErrs, want)
 	}
 }
 

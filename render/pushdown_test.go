@@ -31,3 +31,33 @@ func TestPushdownSection(t *testing.T) {
 		}
 	}
 }
+
+// TestApproximationsOneMethod: where every sampled figure comes from the
+// one sample (a study left in the database), its method, a paragraph, is
+// said once above the table and not in each of its rows (the report of a
+// 10⁷-row study repeated 500 characters six times); where the methods
+// differ, each row keeps its own.
+func TestApproximationsOneMethod(t *testing.T) {
+	const method = "drawn by the database: the rows of smallest row hash"
+	r := fixture.Report(fixture.Options{N: 40})
+	s := &r.Studies[0]
+	s.Approximations = []report.Approximation{{Figure: "LOWESS curve", Rows: 20000, Of: 40, Method: method, Error: "e1"},
+		{Figure: "Theil–Sen line", Rows: 20000, Of: 40, Method: method, Error: "e2"},
+		{Figure: "distance correlation", Rows: 20000, Of: 40, Method: method, Error: "e3"}}
+	md, page := renderBoth(t, r)
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		if n := strings.Count(out, method); n != 1 {
+			t.Errorf("%s: one sample's method written %d times, want once", name, n)
+		}
+		if strings.Count(out, "How chosen") != 1 || !strings.Contains(out, "How chosen, for every figure below") {
+			t.Errorf("%s: want how the figures were chosen once, for all, and no column of it", name)
+		}
+	}
+	s.Approximations[1].Method = "every pair of rows"
+	md, page = renderBoth(t, r)
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		if strings.Count(out, method) != 2 || !strings.Contains(out, "every pair of rows") || !strings.Contains(out, "How chosen") || strings.Contains(out, "for every figure below") {
+			t.Errorf("%s: two methods, want each in its row under How chosen", name)
+		}
+	}
+}

@@ -723,7 +723,22 @@ func approximationsSection(s *report.Study, _ string, _ report.Thresholds) (*sec
 	sec := &section{Key: "approximations", Title: "Figures computed on a sample"}
 	t := table{Caption: fmt.Sprintf("At %d rows these figures come from a sample; every other figure uses all rows", s.N),
 		Head: []string{"Figure", "Computed on", "How chosen", "Error against the exact method"}, Num: []bool{false, true, false, false}}
+	// One sample for all (a study left in the database: its sample of
+	// rows, whose method is a paragraph): said once, not in every row.
+	one := true
+	for _, a := range s.Approximations[1:] {
+		one = one && a.Method == s.Approximations[0].Method
+	}
+	if one && len(s.Approximations) > 1 {
+		sec.Items = append(sec.Items, kv{K: "How chosen, for every figure below", V: s.Approximations[0].Method})
+		t.Head = slices.Delete(t.Head, 2, 3)
+		t.Num = slices.Delete(t.Num, 2, 3)
+	}
 	for _, a := range s.Approximations {
+		if len(t.Head) == 3 {
+			t.Rows = append(t.Rows, []string{a.Figure, itoa(a.Rows), a.Error})
+			continue
+		}
 		t.Rows = append(t.Rows, []string{a.Figure, itoa(a.Rows), a.Method, a.Error})
 	}
 	sec.Tables = append(sec.Tables, t)

@@ -61,3 +61,26 @@ func TestApproximationsOneMethod(t *testing.T) {
 		}
 	}
 }
+
+// TestLevelsShown: where the findings chose the levels to show
+// (Findings.LevelsShown), the table of the lines within levels holds
+// those, in that order, under the findings' caption, in both formats.
+func TestLevelsShown(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 60})
+	s := &r.Studies[0]
+	if len(s.Groups) != 3 || s.Findings == nil {
+		t.Fatal("the fixture's first study no longer has three levels and findings")
+	}
+	s.Findings.LevelsShown = []string{"lot C", "lot B"}
+	s.Findings.LevelsShownWhy = "The line within 2 of the 3 levels of lot, chosen for this test"
+	md, page := renderBoth(t, r)
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		c, b := strings.Index(out, "| lot C"), strings.Index(out, "| lot B")
+		if name == "html" {
+			c, b = strings.Index(out, "<td>lot C</td>"), strings.Index(out, "<td>lot B</td>")
+		}
+		if !strings.Contains(out, "chosen for this test") || c < 0 || b < c || strings.Contains(out, "<td>lot A") || strings.Contains(out, "| lot A") {
+			t.Errorf("%s: want the caption, lot C then lot B, and no row of lot A", name)
+		}
+	}
+}

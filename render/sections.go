@@ -675,7 +675,18 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 	if len(s.Groups) > 0 {
 		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope, " + unitPer(s) + " (" + level + "% interval)", "Intercept (" + orWord(ySym(s), "y units") + ")"},
 			Num: []bool{false, true, true, true, true}}
-		for _, g := range s.Groups {
+		// With many levels, those the findings chose (LevelsShown), in
+		// their order.
+		groups := s.Groups
+		if f := s.Findings; f != nil && len(f.LevelsShown) > 0 {
+			groups, t.Caption = nil, f.LevelsShownWhy
+			for _, name := range f.LevelsShown {
+				if i := slices.IndexFunc(s.Groups, func(g report.GroupFit) bool { return g.Group == name }); i >= 0 {
+					groups = append(groups, s.Groups[i])
+				}
+			}
+		}
+		for _, g := range groups {
 			t.Rows = append(t.Rows, []string{g.Group, itoa(g.N), num(g.R), withCI(g.Slope, g.SlopeLow, g.SlopeHigh), num(g.Intercept)})
 		}
 		sec.Tables = append(sec.Tables, t)

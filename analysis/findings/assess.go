@@ -5,6 +5,7 @@ package findings
 // them in words.
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -420,6 +421,7 @@ func (f *facts) decide(out *report.Findings) {
 	// Lurking variables.
 	out.Reversal = f.reversal()
 	out.Lines = f.lines()
+	f.shownLevels(out)
 	if f.rdir != "none" {
 		for _, pc := range s.Partial {
 			if !pc.R.Valid() {
@@ -716,6 +718,42 @@ func (f *facts) qualifying() []report.GroupFit {
 		}
 	}
 	return g
+}
+
+// LevelsShownMax is the most levels of a group whose lines the report's
+// table shows (a choice of this tool, not common practice: a reviewer
+// reads a table of twenty rows, not of a thousand); with more,
+// shownLevels chooses levelsShownEnds at each end of the slopes.
+const (
+	LevelsShownMax  = 20
+	levelsShownEnds = 5
+)
+
+// shownLevels sets Findings.LevelsShown and LevelsShownWhy where the
+// study has more than LevelsShownMax levels: the levels with the
+// levelsShownEnds lowest and highest slopes (ties by level), the ones
+// where a level's line departs most from the others', from the lowest
+// slope up. The choice depends on the set of levels, not their order.
+func (f *facts) shownLevels(out *report.Findings) {
+	gs := f.s.Groups
+	if len(gs) <= LevelsShownMax {
+		return
+	}
+	var valid []int
+	for i, g := range gs {
+		if g.Slope.Valid() {
+			valid = append(valid, i)
+		}
+	}
+	slices.SortFunc(valid, func(a, b int) int {
+		return cmp.Or(cmp.Compare(gs[a].Slope, gs[b].Slope), strings.Compare(gs[a].Group, gs[b].Group))
+	})
+	k := min(levelsShownEnds, len(valid)/2)
+	for _, i := range append(valid[:k:k], valid[len(valid)-k:]...) {
+		out.LevelsShown = append(out.LevelsShown, gs[i].Group)
+	}
+	out.LevelsShownWhy = fmt.Sprintf("The line within %d of the %d levels of %s, from the lowest slope up: the %d with the lowest slope and the %d with the highest (the table shows at most %d levels, a choice of this tool); every level's line is in results.json (groups)",
+		len(out.LevelsShown), len(gs), f.groupLabel(), k, k, LevelsShownMax)
 }
 
 // lines decides whether one line serves all levels of the group

@@ -672,6 +672,13 @@ type Findings struct {
 	// slopes do not differ clearly (SlopesP not below alpha: the levels are
 	// shifted, with a common slope); "separate" when the slopes differ.
 	Lines string `json:"lines"`
+	// LevelsShown are the group's levels the report's table of the lines
+	// within levels shows, in the order it shows them, where the study has
+	// more levels than a reader can take in (findings.LevelsShownMax);
+	// LevelsShownWhy says which they are. Both empty when every level is
+	// shown. Every level's line stays in Groups.
+	LevelsShown    []string `json:"levels_shown,omitempty"`
+	LevelsShownWhy string   `json:"levels_shown_why,omitempty"`
 	// Autocorrelated: with a run order, the line's residuals hang together
 	// in it (their Durbin–Watson statistic's one-sided p, Checks
 	// "drift-dw", below alpha, or drift raised): p-values and intervals that

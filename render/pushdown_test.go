@@ -84,3 +84,29 @@ func TestLevelsShown(t *testing.T) {
 		}
 	}
 }
+
+// TestExactLineRendered: a line exact to rounding (report.Fit's
+// ExactToRounding; Cook's distance then NaN for every row) shows its
+// checks of the residuals as not checked in the summary's table, not the
+// x² term's p read from rounding, and says that no row has a Cook's
+// distance instead of "largest Cook's distance n/a, row )".
+func TestExactLineRendered(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 60})
+	s := &r.Studies[0]
+	if s.Line == nil || s.Influence == nil || s.Diagnostics == nil {
+		t.Fatal("the fixture's first study lacks its line, influence or diagnostics")
+	}
+	s.Line.ExactToRounding = true
+	s.Influence.Counts = report.FlagCounts{}
+	s.Influence.Points = nil
+	s.Influence.MaxCooksD, s.Influence.MaxCooksRow = report.NaN(), ""
+	md, page := renderBoth(t, r)
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		if strings.Count(out, "Not checked: the line fits to rounding") < 2 {
+			t.Errorf("%s: the bend and spread checks are not marked as not checked", name)
+		}
+		if !strings.Contains(out, "distance is undefined for every row") || strings.Contains(out, "row )") {
+			t.Errorf("%s: the largest Cook's distance of an exact line is not said to be undefined", name)
+		}
+	}
+}

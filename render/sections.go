@@ -436,6 +436,19 @@ func unitPer(s *report.Study) string {
 // scaledPrefix names a variable on its scale (report.Variable.Scale).
 var scaledPrefix = map[string]string{"log": "ln ", "log10": "log₁₀ ", "sqrt": "√"}
 
+// largestCooks writes the largest Cook's distance and its row, or that no
+// row has one: where the line fits exactly, no scatter is left to weigh a
+// row's pull against (report.Influence.MaxCooksD NaN).
+func largestCooks(in *report.Influence) string {
+	switch {
+	case !in.MaxCooksD.Valid():
+		return "Cook's distance is undefined for every row: the line leaves no scatter to weigh a row's pull against"
+	case in.MaxCooksRow == "":
+		return "largest Cook's distance " + num(in.MaxCooksD)
+	}
+	return fmt.Sprintf("largest Cook's distance %s, row %s", num(in.MaxCooksD), in.MaxCooksRow)
+}
+
 func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section, error) {
 	in := s.Influence
 	if in == nil {
@@ -444,7 +457,7 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 	sec := &section{Key: "influence", Title: "Unusual rows"}
 	c := in.Counts
 	if c.Flagged == 0 {
-		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is flagged (largest Cook's distance %s, row %s).", num(in.MaxCooksD), in.MaxCooksRow))
+		sec.Paras = append(sec.Paras, "No row is flagged ("+largestCooks(in)+").")
 		return sec, nil
 	}
 	// The rules stand once in the appendix; here each cut for this
@@ -468,7 +481,7 @@ func influenceSection(s *report.Study, _ string, _ report.Thresholds) (*section,
 	sec.Paras = append(sec.Paras, fmt.Sprintf("Cuts for %d rows: off the line beyond ±%s, pull above %s, reach above %s. Flagged: %s.",
 		s.N, num(in.Rules.Outlier), num(in.Rules.CooksD), num(in.Rules.Leverage), strings.Join(raised, ", ")))
 	if len(in.Points) == 0 {
-		sec.Paras = append(sec.Paras, fmt.Sprintf("No row is named (largest Cook's distance %s, row %s).", num(in.MaxCooksD), in.MaxCooksRow))
+		sec.Paras = append(sec.Paras, "No row is named ("+largestCooks(in)+").")
 	} else {
 		caption := "Named rows, largest Cook's distance first"
 		if c.Suspect > len(in.Points) {
@@ -982,6 +995,17 @@ func checksTable(studies []report.Study, anchors []string) table {
 		}
 		if c := checkOf(s, "drift"); c != nil {
 			row[5] = answer(f.Drift, c.PAdjusted, "DW "+num(d.DurbinWatson))
+		}
+		if s.Line != nil && s.Line.ExactToRounding {
+			// No check reads residuals that are rounding (the findings
+			// say why).
+			row[1], row[4] = "Not checked: the line fits to rounding", "Not checked: the line fits to rounding"
+			if d.LackOfFit != nil {
+				row[2] = row[1]
+			}
+			if s.Order != "" {
+				row[5] = row[1]
+			}
 		}
 		t.Rows = append(t.Rows, row)
 		t.Links = append(t.Links, "study-"+anchors[i])

@@ -70,16 +70,19 @@ func corr(r float64) string {
 // −0.982 to −0.981", not "from −0.98 to −0.98"). Equal values print alike.
 func corrPair(a, b float64) (string, string) {
 	sa, sb := corr(a), corr(b)
-	if math.IsNaN(a) || math.IsNaN(b) || math.IsInf(a, 0) || math.IsInf(b, 0) || a == b || sa != sb {
+	if math.IsNaN(a) || math.IsNaN(b) || math.IsInf(a, 0) || math.IsInf(b, 0) || a == b {
 		return sa, sb
 	}
-	d := len(sa) - strings.IndexByte(sa, '.') - 1
-	for d < 15 {
-		d++
+	// Both to the decimals of the longer (corr gives −1 two and a value
+	// a hair from it eight: "-1.00 to -1.00000000" read as two values
+	// printed alike), then more until they differ.
+	d := max(len(sa)-strings.IndexByte(sa, '.'), len(sb)-strings.IndexByte(sb, '.')) - 1
+	for {
 		sa, sb = strconv.FormatFloat(a, 'f', d, 64), strconv.FormatFloat(b, 'f', d, 64)
-		if sa != sb {
+		if sa != sb || d >= 15 {
 			break
 		}
+		d++
 	}
 	return minus(sa), minus(sb)
 }

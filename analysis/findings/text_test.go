@@ -43,6 +43,11 @@ func TestCorrPair(t *testing.T) {
 		{0.5, 0.5, "0.50", "0.50"},
 		{0.99962, 0.99968, "0.9996", "0.9997"},
 		{math.NaN(), 0.5, "undefined", "0.50"},
+		// r exactly −1 and a hair from it (leaving a row out of rows on a
+		// line): the same decimals for both, as many as tell them apart,
+		// not "-1.00" against "-1.00000000".
+		{-1, -0.99999999999998, "-1.00000000000000", "-0.99999999999998"},
+		{0.9999999991, 0.99999999905, "0.99999999910", "0.99999999905"},
 	} {
 		if a, b := corrPair(c.a, c.b); a != c.wa || b != c.wb {
 			t.Errorf("corrPair(%v, %v) = %q, %q; want %q, %q", c.a, c.b, a, b, c.wa, c.wb)

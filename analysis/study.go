@@ -301,10 +301,12 @@ func analyze(in Input, cfg Config) report.Study {
 	// The quadratic's residuals are binned for the charts only where the
 	// form may come out curved: its x² term significant before any
 	// adjustment and its share of the line's residual sum of squares at
-	// least the cut (both necessary for the findings' curved verdict); at
+	// least the cut (both necessary for the findings' curved verdict), or
+	// a hair below it (the findings count a share within 10⁻¹² of the cut
+	// as at it, and form the share from the x² term's t, not as here); at
 	// 10⁷ rows the two grids cost a third of a second.
 	var curve *stats.Regression
-	if q := side.quad; q != nil && q.Coef[2].P < cfg.Alpha && line.RSS > 0 && 1-q.RSS/line.RSS >= float64(cfg.Thresholds.CurveShare) {
+	if q := side.quad; q != nil && q.Coef[2].P < cfg.Alpha && line.RSS > 0 && 1-q.RSS/line.RSS >= float64(cfg.Thresholds.CurveShare)*(1-1e-9) {
 		curve = q
 	}
 	s.Plot = plotData(x, y, cc, lv, gidx, line, curve, s.Influence, lowess, conf, cfg)

@@ -248,11 +248,11 @@ func grade(s string) int {
 // strengthOf grades |r| by the cut points.
 func (f *facts) strengthOf(a float64) string {
 	switch {
-	case !(a >= f.th.Weak):
+	case !atLeast(a, f.th.Weak):
 		return "none"
-	case a >= f.th.Strong:
+	case atLeast(a, f.th.Strong):
 		return "strong"
-	case a >= f.th.Moderate:
+	case atLeast(a, f.th.Moderate):
 		return "moderate"
 	}
 	return "weak"
@@ -319,7 +319,7 @@ func (f *facts) decide(out *report.Findings) {
 	if q := f.quad; q != nil && len(q.Coefficients) == 3 {
 		f.b2 = float64(q.Coefficients[2].Estimate)
 		f.share = curveShare(s, q)
-		f.curved = f.screenAdj[checkCurvature] < f.alpha && float64(q.FP) < f.alpha && f.share >= f.th.CurveShare && f.b2 != 0
+		f.curved = f.screenAdj[checkCurvature] < f.alpha && float64(q.FP) < f.alpha && atLeast(f.share, f.th.CurveShare) && f.b2 != 0
 	}
 	if s.Diagnostics != nil {
 		f.dcor = s.Diagnostics.DistanceCorr
@@ -329,10 +329,10 @@ func (f *facts) decide(out *report.Findings) {
 	}
 	if !f.curved && f.dcor != nil {
 		d := float64(f.dcor.DCor)
-		f.dcorRoute = float64(f.dcor.P) < f.alpha && d >= f.th.NonlinearDcor && d > math.Abs(f.r) && !f.linSig
+		f.dcorRoute = float64(f.dcor.P) < f.alpha && atLeast(d, f.th.NonlinearDcor) && d > math.Abs(f.r) && !f.linSig
 	}
 	f.dwx, f.dwxBound = f.xOrderDW()
-	f.dwRoute = !f.curved && f.dwx < f.dwxBound && !(math.Abs(f.r) >= f.th.Moderate)
+	f.dwRoute = !f.curved && below(f.dwx, f.dwxBound) && !atLeast(math.Abs(f.r), f.th.Moderate)
 	f.nonlin = !f.curved && (f.dcorRoute || f.dwRoute)
 	switch {
 	case f.curved:
@@ -519,7 +519,7 @@ func (f *facts) checks(out *report.Findings) []report.Check {
 		}
 		if !math.IsNaN(f.dwx) {
 			c = append(c, report.Check{Name: "x-order-dw", Stat: report.Float(f.dwx), P: nan, PAdjusted: nan,
-				Bound: report.Float(f.dwxBound), Raised: f.dwx < f.dwxBound})
+				Bound: report.Float(f.dwxBound), Raised: below(f.dwx, f.dwxBound)})
 		}
 	}
 	if c == nil {
@@ -566,7 +566,7 @@ func (f *facts) driftDWP() (dw, p float64) {
 		return math.NaN(), math.NaN()
 	}
 	dw = float64(d.DurbinWatson)
-	if !(dw < f.th.DriftDW) {
+	if !below(dw, f.th.DriftDW) {
 		return dw, 1
 	}
 	z := (dw - 2) * math.Sqrt(float64(f.s.N)) / 2 // below 0, as DriftDW < 2
@@ -1105,7 +1105,7 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 			add("Neither the straight line nor the quadratic follows this pattern. Look at the scatterplot.")
 		}
 	case "linear":
-		if f.dwx < f.dwxBound {
+		if below(f.dwx, f.dwxBound) {
 			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): the line misses some pattern; look at the residual plot.",
 				x, num(f.dwx), f.dwxBoundText())
 		}
@@ -1499,7 +1499,7 @@ func (f *facts) orderFigures() string {
 		p = append(p, fmt.Sprintf("trend %s", f.pv(float64(d.OrderTrend.P))))
 	}
 	if dw, dp := f.driftDWP(); !math.IsNaN(dw) {
-		if dw < f.th.DriftDW {
+		if below(dw, f.th.DriftDW) {
 			p = append(p, fmt.Sprintf("Durbin–Watson %s, one-sided %s", num(dw), f.pv(dp)))
 		} else {
 			p = append(p, fmt.Sprintf("Durbin–Watson %s, not below %s, where the rule starts to read it", num(dw), num(f.th.DriftDW)))

@@ -242,7 +242,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 			w += fmt.Sprintf(" (x² term %s; R² %s for the line, %s for the parabola: %s less squared scatter, %s needed)",
 				f.screenP(checkCurvature, f.quadP()), l, c, f.sharePct(), pctText(f.th.CurveShare))
 		}
-		if f.dwx < f.dwxBound {
+		if below(f.dwx, f.dwxBound) {
 			w += fmt.Sprintf(". The residuals in order of %s swing together (Durbin–Watson %s, below %s), but with |r| = %s at or above %s that does not overturn the line; look at the residual plot",
 				f.xLabel, num(f.dwx), f.dwxBoundText(), f.absNum(math.Abs(f.r)), num(f.th.Moderate))
 		}
@@ -254,7 +254,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 		switch {
 		case !(float64(f.dcor.P) < f.alpha):
 			w += fmt.Sprintf("; the distance correlation finds no dependence of any shape (%s, %s)", num(d), f.dcorP())
-		case d < f.th.NonlinearDcor:
+		case below(d, f.th.NonlinearDcor):
 			w += fmt.Sprintf("; the distance correlation, %s (%s), is below the cut point %s (%s)", num(d), f.pv(float64(f.dcor.P)), num(f.th.NonlinearDcor), OwnChoice)
 		default:
 			w += fmt.Sprintf("; the distance correlation, %s (%s), is not above |r|", num(d), f.pv(float64(f.dcor.P)))
@@ -262,7 +262,7 @@ func (f *facts) formWhy(out *report.Findings) string {
 	}
 	switch {
 	case math.IsNaN(f.dwx):
-	case f.dwx < f.dwxBound:
+	case below(f.dwx, f.dwxBound):
 		w += fmt.Sprintf("; the residuals in order of %s swing together (Durbin–Watson %s, below %s), but with |r| = %s at or above %s that rule does not apply",
 			f.xLabel, num(f.dwx), f.dwxBoundText(), f.absNum(math.Abs(f.r)), num(f.th.Moderate))
 	default:

@@ -83,3 +83,45 @@ func TestPushdownTooFewNamesColumns(t *testing.T) {
 		}
 	}
 }
+
+// x a bigint near 2⁵³ against a spread of 80 (40 rows): the first
+// pass's regression aggregates put Sxx 24% off, so the second pass's
+// residuals of the first pass's line were mostly that line's error, and
+// the RSS and Breusch–Pagan, formed from them, cancelled their digits;
+// above 2⁵³ the mean of x (2⁵³ + 11) is no float64, and every deviation
+// from it shared its rounding. Pushed down, Breusch–Pagan was 0.718 for
+// "s" (in memory 1.411) and 0.0948 for "far" (in memory 14.71, p =
+// 0.000125: the spread changes), NaN with y = 1000i + 0.1·sin i, whose
+// check then went missing (found by a sweep of small tables). References
+// on the same float64 rows: statsmodels 0.13.5,
+// het_breuschpagan(OLS(y, [1, u]).fit().resid, [1, u], robust=True)
+// with u = x − x̄ formed exactly (Python's fractions; Koenker's statistic
+// does not change with a shift of x): 1.4108932542645691 for "s" and
+// 14.712308010703108 for "far"; the line's RSS of "far" by exact rational
+// arithmetic (Python's fractions, least squares on the rows),
+// 0.8722137563341967. For "far", r is within 1 − r² = 1.6e-10 of 1,
+// so Pearson's p and the r interval's half-width (the plan's) carry the
+// rounding of r² in either path (p = 1.490045e-187 by exact r² and
+// mpmath's incomplete beta function, in memory 1.490095e-187, pushed
+// down 1.489980e-187).
+func TestPushdownNear2To53(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pd2to53",
+		`CREATE TABLE pd2to53 AS SELECT i AS id, (9007199254740000 + 2 * i)::bigint AS x, (2.5 + 1000 * i + cos(3 * i))::float8 AS y,
+		  (9007199254740992 - 30 + 2 * i)::bigint AS xb, (1000 * i + 0.01 * i * cos(3 * i))::float8 AS yb FROM generate_series(1, 40) i`)
+	studies := plain + "[[study]]\nid = \"far\"\ndataset = \"d\"\nx = \"xb\"\ny = \"yb\"\n"
+	mem, pushed := runBothDecl(t, url, table("pd2to53"), studies, 5)
+	ill := "r within 1.6e-10 of 1: the figure carries the rounding of r² in either path"
+	for i := range mem.Studies {
+		sameStudy(t, mem.Studies[i].ID, mem.Studies[i], pushed.Studies[i], map[string]string{"far/r_p": ill, "far/plan_r_now": ill})
+	}
+	for _, c := range []struct {
+		study, fig string
+		k          int
+		want       float64
+	}{{"s", "bp", 0, 1.4108932542645691}, {"far", "bp", 1, 14.712308010703108}, {"far", "line_rss", 1, 0.8722137563341967}} {
+		if got := exactFigures(pushed.Studies[c.k])[c.fig]; !(math.Abs(got-c.want) <= 1e-9*math.Abs(c.want)) {
+			t.Errorf("%s: %s pushed down %.17g, reference %.17g", c.study, c.fig, got, c.want)
+		}
+	}
+}

@@ -1066,19 +1066,32 @@ type Sums struct {
 // x̄ or ȳ is far from 0 (with x near 10⁹ and a spread of 1, a level's
 // slope by parts in 10⁸ and the F of the slopes' comparison by 2.5·10⁻⁶,
 // TestPushdownAdversarial).
-func (p *Prepared) Second(mean []float64, b float64, ends [2]float64, levels []GroupSums) (*Sums, error) {
+//
+// With lo (nil for none), each mean is in two parts, mean[i] + lo[i], and
+// a deviation is (c − mean[i]) − lo[i], as the third pass's (Fit.MXLo):
+// where the mean is not a float64 (x a bigint near 2⁵³ whose mean is odd)
+// the deviations otherwise share its rounding, and Σe² holds n times its
+// square.
+func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels []GroupSums) (*Sums, error) {
 	k := len(p.NumCols)
 	nc := k
 	if p.spec.Order != "" {
 		nc-- // the order's sums are the third pass's
 	}
+	devOf := func(i int) string {
+		d := "(" + p.num[i] + " - " + lit(mean[i]) + ")"
+		if lo != nil && lo[i] != 0 {
+			d = "(" + d + " - " + lit(lo[i]) + ")"
+		}
+		return d
+	}
 	var dev []string
 	for i := range nc {
-		dev = append(dev, "("+p.num[i]+" - "+lit(mean[i])+") AS d"+strconv.Itoa(i))
+		dev = append(dev, devOf(i)+" AS d"+strconv.Itoa(i))
 	}
-	dev = append(dev, "(("+p.num[1]+" - "+lit(mean[1])+") - "+lit(b)+" * ("+p.num[0]+" - "+lit(mean[0])+")) AS e")
+	dev = append(dev, "("+devOf(1)+" - "+lit(b)+" * "+devOf(0)+") AS e")
 	if p.spec.Order != "" {
-		dev = append(dev, "("+p.num[k-1]+" - "+lit(mean[k-1])+") AS dord")
+		dev = append(dev, devOf(k-1)+" AS dord")
 	}
 	dev = append(dev, p.num[0]+" AS xv")
 	d := func(i int) string { return "d" + strconv.Itoa(i) }
@@ -1220,14 +1233,15 @@ func (p *Prepared) secondSums(v []any, k, nc int, pairs []sumPair) (*Sums, error
 // them, with the constants of the row-wise influence measures (see
 // stats.LineInfluence.At for the formulas): the line's deviations are
 // dx = (x − MX) − MXLo, dy = (y − MY) − MYLo, its residual e = dy − B·dx;
-// the quadratic's residual (y − QY) − (Q0 + Q1·t + Q2·t²) with
-// t = (x − QX)/QS.
+// the quadratic's residual ((y − QY) − QYLo) − (Q0 + Q1·t + Q2·t²) with
+// t = ((x − QX) − QXLo)/QS.
 type Fit struct {
 	N          int
 	MX, MY, B  float64
 	MXLo, MYLo float64 // low parts of the means
 
 	QX, QY, Q0, Q1, Q2, QS float64
+	QXLo, QYLo             float64 // low parts of QX and QY
 	Quad                   bool
 
 	Sxx, Syy, Sxy  float64
@@ -1479,8 +1493,12 @@ func (p *Prepared) flaggedSQL(f Fit) (src, fl, isSuspect, s2 string) {
 	// to the last digit).
 	var qr string
 	if f.Quad {
-		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
-		qr = ", ((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + "))) AS qr"
+		dqx, dqy := "(x - "+lit(f.QX)+")", "(y - "+lit(f.QY)+")"
+		if f.QXLo != 0 || f.QYLo != 0 {
+			dqx, dqy = "("+dqx+" - "+lit(f.QXLo)+")", "("+dqy+" - "+lit(f.QYLo)+")"
+		}
+		t := "(" + dqx + " / " + lit(f.QS) + ")"
+		qr = ", (" + dqy + " - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + "))) AS qr"
 	}
 	src = "(SELECT *, " + ri + " AS ri, " + f.loor("dx", "dy", "omh") + " AS loor, " +
 		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd" + qr + " FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"

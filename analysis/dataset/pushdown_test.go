@@ -237,7 +237,7 @@ func TestSecondHashJoin(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if _, err := p.Second(c.Mean, c.Sxy/c.Sxx, [2]float64{c.Min[0], c.Max[0]}, levels); err != nil {
+	if _, err := p.Second(c.Mean, nil, c.Sxy/c.Sxx, [2]float64{c.Min[0], c.Max[0]}, levels); err != nil {
 		t.Fatal(err)
 	}
 	stmt := s.Statements[len(s.Statements)-1]

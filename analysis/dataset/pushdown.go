@@ -542,6 +542,9 @@ func (s *Session) numExpr(col string) (string, error) {
 			// widened (3.1956139 would be 3.1956138610839844).
 			return "CAST(CAST(bivar_q." + id + " AS text) AS double precision)", nil
 		}
+		if i := slices.Index(s.Names, col); i >= 0 && s.oids[i] == 1700 {
+			return numericAsFloat("bivar_q." + id), nil
+		}
 		return "CAST(bivar_q." + id + " AS double precision)", nil
 	case pgTime:
 		return "CAST(EXTRACT(EPOCH FROM bivar_q." + id + ") AS double precision)", nil
@@ -553,6 +556,35 @@ func (s *Session) numExpr(col string) (string, error) {
 	}
 	return "", &Error{File: s.q.err("").File, Column: col, Msg: "the column's type is not one bivar reads: cast it in the query to a number (::double precision), a timestamp or text (::text)"}
 }
+
+// numericAsFloat is the SQL of a numeric (PostgreSQL's decimal type)
+// value c as double precision, as the rows fetched below max_rows read
+// its text (pgNumberOf, by strconv.ParseFloat, correctly rounded as the
+// cast is): a value at or beyond the overflow bound, 2¹⁰²⁴ − 2⁹⁷⁰ (half a
+// unit in the last place above the largest float64, where ParseFloat
+// gives ±Inf), is ±Infinity, not a finite number, and counted as
+// Infinity is (non_numeric), NaN (which PostgreSQL sorts above every
+// number) is NaN; a value of magnitude at or below
+// 2⁻¹⁰⁷⁵ (half the least subnormal, where ParseFloat rounds to 0) is 0
+// with c's sign. The cast alone fails the statement on both ("value out
+// of range: overflow", "underflow": PostgreSQL's float8in, which the
+// cast calls, refuses a value strtod rounds to ±HUGE_VAL or to 0), so a
+// cell of 1e400 failed the study that in memory counts it as not finite
+// (TestPushdownNumericOutOfRange). Only numeric columns take the test.
+func numericAsFloat(c string) string {
+	return "(CASE WHEN abs(" + c + ") >= " + numericOverflow + " THEN CASE WHEN " + c + " < 0 THEN CAST('-Infinity' AS double precision) " +
+		"WHEN " + c + " = CAST('NaN' AS numeric) THEN CAST('NaN' AS double precision) ELSE CAST('Infinity' AS double precision) END " +
+		"WHEN abs(" + c + ") <= " + numericUnderflow + " THEN CASE WHEN " + c + " < 0 THEN CAST('-0' AS double precision) ELSE CAST(0 AS double precision) END " +
+		"ELSE CAST(" + c + " AS double precision) END)"
+}
+
+// numericOverflow and numericUnderflow are 2¹⁰²⁴ − 2⁹⁷⁰ and 2⁻¹⁰⁷⁵ as
+// exact numeric literals (numericAsFloat).
+var numericOverflow, numericUnderflow = func() (string, string) {
+	hi := new(big.Int).Sub(new(big.Int).Lsh(big.NewInt(1), 1024), new(big.Int).Lsh(big.NewInt(1), 970))
+	lo := new(big.Float).SetMantExp(big.NewFloat(1), -1075)
+	return "CAST('" + hi.String() + "' AS numeric)", "CAST('" + lo.Text('f', 1075) + "' AS numeric)"
+}()
 
 // textExpr is the SQL of a text column as it is stored (missing cells are
 // told in Go, by isMissing).

@@ -1085,7 +1085,10 @@ func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *r
 		if g.N >= 3 && g.Sxx > 0 {
 			b := g.Sxy / g.Sxx
 			f.Slope, f.Intercept = report.Float(b), report.Float(g.MY-b*g.MX)
-			rss := math.Max(0, g.Syy-g.Sxy*g.Sxy/g.Sxx)
+			rss := g.RSS // from the level's residuals (dataset.GroupSums.RSS)
+			if math.IsNaN(rss) {
+				rss = math.Max(0, g.Syy-g.Sxy*g.Sxy/g.Sxx)
+			}
 			se := math.Sqrt(rss / float64(g.N-2) / g.Sxx)
 			tq := stats.TQuantile(0.5+conf/2, float64(g.N-2))
 			f.SlopeLow, f.SlopeHigh = report.Float(b-tq*se), report.Float(b+tq*se)

@@ -854,6 +854,14 @@ type GroupSums struct {
 	MX, MY        float64
 	XMin, XMax    float64
 	Sxx, Syy, Sxy float64
+	// RSS is the residual sum of squares of the level's own line, from
+	// the second pass's sums of the residuals of the level's first-pass
+	// line (NaN before it): Syy − Sxy²/Sxx from the centred sums cancels
+	// all but the rounding of Syy where the level's rows lie on a line,
+	// and put a slope interval of ±2.7e-7 about 1 where in memory the
+	// residuals, summed row by row, give ±7e-15 (x = 0.1, 0.2, 0.4 and
+	// y = 2 + x; TestPushdownGroupExactLine).
+	RSS float64
 	// OX and OY are the level's means less the dataset's first-pass
 	// means, from the second pass's deviations (Sums.Groups): the levels'
 	// means differ from each other in digits that MX and MY, far from 0,
@@ -1003,7 +1011,7 @@ func (p *Prepared) First(maxLevels int, print []string) (*Counts, []GroupSums, e
 			j += 2
 		}
 		g := GroupSums{Level: Text(v[0]), N: ok, MX: Num(v[j]), MY: Num(v[j+1]), XMin: Num(v[3+2*k]), XMax: Num(v[4+2*k]),
-			Sxx: Num(v[j+2]), Syy: Num(v[j+3]), Sxy: Num(v[j+4])}
+			Sxx: Num(v[j+2]), Syy: Num(v[j+3]), Sxy: Num(v[j+4]), RSS: math.NaN()}
 		j += 5
 		for i := 2; i < k; i++ {
 			sumMean[i] += float64(ok) * (Num(v[j]) / float64(ok))
@@ -1153,11 +1161,16 @@ func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels
 	if grouped {
 		vals := make([]string, len(levels))
 		for i, l := range levels {
-			vals[i] = "(" + textLit(l.Level) + ", " + lit(l.MX) + ", " + lit(l.MY) + ")"
+			bl := l.Sxy / l.Sxx
+			if math.IsNaN(bl) || math.IsInf(bl, 0) {
+				bl = 0
+			}
+			vals[i] = "(" + textLit(l.Level) + ", " + lit(l.MX) + ", " + lit(l.MY) + ", " + lit(bl) + ")"
 		}
-		from += " JOIN (VALUES " + strings.Join(vals, ", ") + ") AS bivar_gm(lv, mx, my) ON " + p.group + " = bivar_gm.lv"
-		dev = append(dev, "bivar_gm.lv AS g", "("+p.num[0]+" - bivar_gm.mx) AS gx", "("+p.num[1]+" - bivar_gm.my) AS gy")
-		sel = append(sel, "g", "count(*)", "sum(gx)", "sum(gy)", "sum(gx * gx)", "sum(gy * gy)", "sum(gx * gy)")
+		from += " JOIN (VALUES " + strings.Join(vals, ", ") + ") AS bivar_gm(lv, mx, my, b) ON " + p.group + " = bivar_gm.lv"
+		gx, gy := "("+p.num[0]+" - bivar_gm.mx)", "("+p.num[1]+" - bivar_gm.my)"
+		dev = append(dev, "bivar_gm.lv AS g", gx+" AS gx", gy+" AS gy", "("+gy+" - bivar_gm.b * "+gx+") AS ge")
+		sel = append(sel, "g", "count(*)", "sum(gx)", "sum(gy)", "sum(gx * gx)", "sum(gy * gy)", "sum(gx * gy)", "sum(ge)", "sum(ge * ge)", "sum(gx * ge)")
 		group = " GROUP BY g"
 	}
 	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + from + " WHERE " + p.complete() + fence + ") AS bivar_d" + group
@@ -1181,7 +1194,7 @@ func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels
 	for i, l := range levels {
 		at[l.Level] = i
 	}
-	g := len(sel) - 7
+	g := len(sel) - 10
 	byLevel := make([][]any, len(levels))
 	for _, v := range r {
 		i, ok := at[Text(v[g])]
@@ -1224,6 +1237,10 @@ func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels
 		sx, sy := Num(v[g+2]), Num(v[g+3])
 		l.MX, l.MY = l.MX+sx/nf, l.MY+sy/nf
 		l.Sxx, l.Syy, l.Sxy = Num(v[g+4])-sx*sx/nf, Num(v[g+5])-sy*sy/nf, Num(v[g+6])-sx*sy/nf
+		// The level's RSS from its own line's residuals, as the dataset's
+		// (see analysis's pushdown): ge − ḡe less its part along x.
+		se, sue := Num(v[g+7]), Num(v[g+9])-sx*Num(v[g+7])/nf
+		l.RSS = math.Max(0, (Num(v[g+8])-se*se/nf)-sue*sue/l.Sxx)
 	}
 	s.Groups = groups
 	return s, nil

@@ -164,24 +164,32 @@ func TestPushdownNumericOutOfRange(t *testing.T) {
 // rows (Python's fractions: slope 0.9999999999999992, RSS 1.41e-32) with
 // t(0.975, 1) = 12.706204736432095 from scipy 1.10.1 (scipy.stats.t.ppf),
 // the interval 0.9999999999999922 to 1.0000000000000062; each bound is
-// held to 1e-13, the rounding of the slope itself.
+// held to 1e-13, the rounding of the slope itself. Level c, small
+// integers with y = 41 + x exactly, was 1 ± 1.9e-8 pushed down: its
+// interval is [1, 1] (RSS 0 in exact arithmetic).
 func TestPushdownGroupExactLine(t *testing.T) {
 	url := pgURL(t)
 	pgExec(t, url, "DROP TABLE IF EXISTS pdgexact",
 		`CREATE TABLE pdgexact AS SELECT row_number() OVER () AS id, * FROM (SELECT v AS x, 2 + v AS y, 'a' AS g FROM unnest(ARRAY[0.1, 0.2, 0.4]::float8[]) v
-		  UNION ALL SELECT i::float8, (0.5 * i + sin(i))::float8, 'b' FROM generate_series(1, 20) i) AS t`)
+		  UNION ALL SELECT i::float8, (0.5 * i + sin(i))::float8, 'b' FROM generate_series(1, 20) i
+		  UNION ALL SELECT v, 41 + v, 'c' FROM unnest(ARRAY[24, 53, 25, 38, 14, 50, 57]::float8[]) v) AS t`)
 	mem, pushed := runBothDecl(t, url, table("pdgexact"), "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\n", 5)
 	sameStudy(t, "s", mem.Studies[0], pushed.Studies[0], nil)
 	for _, s := range []struct {
 		path string
 		st   report.Study
 	}{{"in memory", mem.Studies[0]}, {"pushed down", pushed.Studies[0]}} {
-		if len(s.st.Groups) != 2 {
-			t.Fatalf("%s: %d group levels, want 2", s.path, len(s.st.Groups))
+		if len(s.st.Groups) != 3 {
+			t.Fatalf("%s: %d group levels, want 3", s.path, len(s.st.Groups))
 		}
-		g := s.st.Groups[0]
-		if math.Abs(float64(g.SlopeLow)-0.9999999999999922) > 1e-13 || math.Abs(float64(g.SlopeHigh)-1.0000000000000062) > 1e-13 {
-			t.Errorf("%s: level a's slope interval [%.17g, %.17g], want [0.9999999999999922, 1.0000000000000062] to 1e-13", s.path, g.SlopeLow, g.SlopeHigh)
+		for _, w := range []struct {
+			k      int
+			lo, hi float64
+		}{{0, 0.9999999999999922, 1.0000000000000062}, {2, 1, 1}} {
+			g := s.st.Groups[w.k]
+			if math.Abs(float64(g.SlopeLow)-w.lo) > 1e-13 || math.Abs(float64(g.SlopeHigh)-w.hi) > 1e-13 {
+				t.Errorf("%s: level %s's slope interval [%.17g, %.17g], want [%.17g, %.17g] to 1e-13", s.path, g.Group, g.SlopeLow, g.SlopeHigh, w.lo, w.hi)
+			}
 		}
 	}
 }

@@ -21,7 +21,11 @@ package dataset
 //     powers (the refined line, its RSS, the quadratic, Breusch–Pagan and
 //     the trend in run order follow from them), and the rows at the
 //     least and the largest x (a row of sole support); beside it, Sample
-//     (by a hash of each row), which needs only the row count;
+//     (by a hash of each row), which needs only the row count. Where the
+//     first pass's line was so far off that its residuals are mostly its
+//     own error (x far from 0 against its spread, as a bigint near 2⁵³),
+//     the second pass runs once more, about the means it corrected (in
+//     two parts) and the slope it refined (analysis's rerunSecond);
 //  3. ThirdPass: the flags and the flagged rows, the largest Cook's
 //     distance, the leave-one-out extremes, the quadratic's residual sum
 //     and the density grids, with the refined line; without a run order in
@@ -92,11 +96,11 @@ type Session struct {
 
 // sessionStatements bounds the statements of a Session, each under the
 // statement timeout: the session lasts at most this many timeouts. A
-// study runs at most eleven on one session (where the server cannot share
-// its snapshot: the two passes, the sample, the third pass and the fetch
-// of the extremes in two parts each, lack of fit, the sums without the
-// flagged rows, the run-order grouping, the snapshot's export), and the
-// sample's rare second draw; the settings around the second pass
+// study runs at most twelve on one session (where the server cannot share
+// its snapshot: the two passes and the second's rare rerun, the sample,
+// the third pass and the fetch of the extremes in two parts each, lack of
+// fit, the sums without the flagged rows, the run-order grouping, the
+// snapshot's export), and the sample's rare second draw; the settings around the second pass
 // (hashJoined) take moments, not timeouts.
 const sessionStatements = 16
 
@@ -869,6 +873,16 @@ type GroupSums struct {
 	OX, OY float64
 }
 
+// slope is the level's slope Sxy/Sxx, 0 where that is not a number
+// (Sxx rounded to 0).
+func (g GroupSums) slope() float64 {
+	b := g.Sxy / g.Sxx
+	if math.IsNaN(b) || math.IsInf(b, 0) {
+		return 0
+	}
+	return b
+}
+
 // First runs the first pass: per stored group value (one row without a
 // group), the counts of all rows and, over the rows whose numeric columns
 // are finite, the minima, maxima and means of each numeric column and the
@@ -1161,16 +1175,12 @@ func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels
 	if grouped {
 		vals := make([]string, len(levels))
 		for i, l := range levels {
-			bl := l.Sxy / l.Sxx
-			if math.IsNaN(bl) || math.IsInf(bl, 0) {
-				bl = 0
-			}
-			vals[i] = "(" + textLit(l.Level) + ", " + lit(l.MX) + ", " + lit(l.MY) + ", " + lit(bl) + ")"
+			vals[i] = "(" + textLit(l.Level) + ", " + lit(l.MX) + ", " + lit(l.MY) + ", " + lit(l.slope()) + ")"
 		}
 		from += " JOIN (VALUES " + strings.Join(vals, ", ") + ") AS bivar_gm(lv, mx, my, b) ON " + p.group + " = bivar_gm.lv"
 		gx, gy := "("+p.num[0]+" - bivar_gm.mx)", "("+p.num[1]+" - bivar_gm.my)"
 		dev = append(dev, "bivar_gm.lv AS g", gx+" AS gx", gy+" AS gy", "("+gy+" - bivar_gm.b * "+gx+") AS ge")
-		sel = append(sel, "g", "count(*)", "sum(gx)", "sum(gy)", "sum(gx * gx)", "sum(gy * gy)", "sum(gx * gy)", "sum(ge)", "sum(ge * ge)", "sum(gx * ge)")
+		sel = append(sel, "g", "count(*)", "sum(gx)", "sum(gy)", "sum(gx * gx)", "sum(gy * gy)", "sum(gx * gy)", "sum(ge * ge)")
 		group = " GROUP BY g"
 	}
 	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + from + " WHERE " + p.complete() + fence + ") AS bivar_d" + group
@@ -1194,7 +1204,7 @@ func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels
 	for i, l := range levels {
 		at[l.Level] = i
 	}
-	g := len(sel) - 10
+	g := len(sel) - 8
 	byLevel := make([][]any, len(levels))
 	for _, v := range r {
 		i, ok := at[Text(v[g])]
@@ -1237,10 +1247,20 @@ func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels
 		sx, sy := Num(v[g+2]), Num(v[g+3])
 		l.MX, l.MY = l.MX+sx/nf, l.MY+sy/nf
 		l.Sxx, l.Syy, l.Sxy = Num(v[g+4])-sx*sx/nf, Num(v[g+5])-sy*sy/nf, Num(v[g+6])-sx*sy/nf
-		// The level's RSS from its own line's residuals, as the dataset's
-		// (see analysis's pushdown): ge − ḡe less its part along x.
-		se, sue := Num(v[g+7]), Num(v[g+9])-sx*Num(v[g+7])/nf
-		l.RSS = math.Max(0, (Num(v[g+8])-se*se/nf)-sue*sue/l.Sxx)
+		// The level's RSS from the residuals ge = gy − bl·gx of its
+		// first-pass line (slope bl), as the dataset's (see analysis's
+		// pushdown): RSS = Σ(ge − ḡe)² − (Σ(gx − ḡx)(ge − ḡe))²/Sxx. Of
+		// ge only Σge² is summed: Σge = Σgy − bl·Σgx and Σgx·ge = Σgx·gy −
+		// bl·Σgx² are near 0 where bl is near the level's slope, and their
+		// rounding, some ε·√(Sxx·Syy), enters squared (ε²·Syy). With the
+		// one sum more the pass took 898 ms against 887 ms (least of ten
+		// alternating runs in psql; medians 1114 and 1027 ms on a shared
+		// machine) on the 10⁶ rows of scripts/pushdown-bench.sh with its
+		// group; with all three sums of ge, 857 ms of CPU against 701 ms.
+		bl := levels[i].slope()
+		se := sy - bl*sx
+		sue := (Num(v[g+6]) - bl*Num(v[g+4])) - sx*se/nf
+		l.RSS = math.Max(0, (Num(v[g+7])-se*se/nf)-sue*sue/l.Sxx)
 	}
 	s.Groups = groups
 	return s, nil

@@ -106,13 +106,15 @@ func TestPushdownTooFewNamesColumns(t *testing.T) {
 // so Pearson's p and the r interval's half-width (the plan's) carry the
 // rounding of r² in either path (p = 1.490045e-187 by exact r² and
 // mpmath's incomplete beta function, in memory 1.490095e-187, pushed
-// down 1.489980e-187).
+// down 1.489980e-187). "ord", the rows of "s" in run order, checks the
+// run-order sums of the second pass run again against memory.
 func TestPushdownNear2To53(t *testing.T) {
 	url := pgURL(t)
 	pgExec(t, url, "DROP TABLE IF EXISTS pd2to53",
 		`CREATE TABLE pd2to53 AS SELECT i AS id, (9007199254740000 + 2 * i)::bigint AS x, (2.5 + 1000 * i + cos(3 * i))::float8 AS y,
 		  (9007199254740992 - 30 + 2 * i)::bigint AS xb, (1000 * i + 0.01 * i * cos(3 * i))::float8 AS yb FROM generate_series(1, 40) i`)
-	studies := plain + "[[study]]\nid = \"far\"\ndataset = \"d\"\nx = \"xb\"\ny = \"yb\"\n"
+	studies := plain + "[[study]]\nid = \"far\"\ndataset = \"d\"\nx = \"xb\"\ny = \"yb\"\n" +
+		"[[study]]\nid = \"ord\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\norder = \"id\"\n"
 	mem, pushed := runBothDecl(t, url, table("pd2to53"), studies, 5)
 	ill := "r within 1.6e-10 of 1: the figure carries the rounding of r² in either path"
 	for i := range mem.Studies {

@@ -364,10 +364,11 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// come from e's by an expansion in the slope's error, so both cancel
 	// the digits the error takes. The first pass's regression aggregates
 	// lose those digits where x is far from 0 against its spread: with x
-	// a bigint near 2⁵³ (9007199254740000 + 2i, 40 rows, y = 1000i + a
-	// cosine) its Sxx was 24% off, the RSS then came out 1.1e-7 off and
-	// Breusch–Pagan half its value or NaN (found by a sweep of small
-	// tables; TestPushdownNear2To53). The test: the error's share,
+	// a bigint near 2⁵³ (9007199254740000 + 2i, 40 rows, y = 1000i plus
+	// a cosine) its Sxx was 24% off and Breusch–Pagan came out 0.718
+	// against 1.411; with x across 2⁵³, a 150th of its value or NaN, and
+	// the RSS 1.1e-7 off (found by a sweep of small tables;
+	// TestPushdownNear2To53). The test: the error's share,
 	// Σe² − RSS = n·ē² + (b − b1)²·Sxx, above redoShare of the RSS. An
 	// exact fit (Σe² at or below the exact-fit floor, below) is left alone.
 	if rerunSecond(sums, nf, base[1]) {
@@ -818,9 +819,11 @@ type quadSolve struct {
 // error in the second pass's residuals (Σe² − RSS) has the second pass
 // run again about the refined line (rerunSecond). Below it, e differs
 // from the refined line's residuals r by at most √redoShare of their
-// norm, Σe² cancels less than one digit in 10⁶ of the RSS, and Σr⁴ from
-// Σe⁴ (Breusch–Pagan) about n^¼·√redoShare of its size (our bound:
-// Σ(e − r)⁴ ≤ (Σ(e − r)²)² and Σr⁴ ≥ RSS²/n).
+// norm, so the RSS formed from Σe² loses no digit, and the terms Σr⁴
+// (Breusch–Pagan) is formed from differ from it by about
+// n^¼·√redoShare of its size (our bound: Σ(e − r)⁴ ≤ (Σ(e − r)²)² and
+// Σr⁴ ≥ RSS²/n). In the PostgreSQL tests it reruns the pass only for x
+// near 2⁵³ and for x = 10¹² + 0.01·i (TestPushdownFarBreuschPagan).
 const redoShare = 1e-6
 
 // rerunSecond says whether the second pass's sums s (n rows, about the

@@ -100,8 +100,8 @@ type Session struct {
 // its snapshot: the two passes and the second's rare rerun, the sample,
 // the third pass and the fetch of the extremes in two parts each, lack of
 // fit, the sums without the flagged rows, the run-order grouping, the
-// snapshot's export), and the sample's rare second draw; the settings around the second pass
-// (hashJoined) take moments, not timeouts.
+// snapshot's export), and the sample's rare second draw; the settings
+// around the second pass (hashJoined) take moments, not timeouts.
 const sessionStatements = 16
 
 // sessionSettings are the settings of a push-down session, for this
@@ -567,10 +567,9 @@ func (s *Session) numExpr(col string) (string, error) {
 // cast is): a value at or beyond the overflow bound, 2¹⁰²⁴ − 2⁹⁷⁰ (half a
 // unit in the last place above the largest float64, where ParseFloat
 // gives ±Inf), is ±Infinity, not a finite number, and counted as
-// Infinity is (non_numeric), NaN (which PostgreSQL sorts above every
-// number) is NaN; a value of magnitude at or below
-// 2⁻¹⁰⁷⁵ (half the least subnormal, where ParseFloat rounds to 0) is 0
-// with c's sign. The cast alone fails the statement on both ("value out
+// Infinity is (non_numeric); NaN, which PostgreSQL sorts above every
+// number, stays NaN; a value of magnitude at or below 2⁻¹⁰⁷⁵ (half the
+// least subnormal, where ParseFloat rounds to 0) is 0 with c's sign. The cast alone fails the statement on both ("value out
 // of range: overflow", "underflow": PostgreSQL's float8in, which the
 // cast calls, refuses a value strtod rounds to ±HUGE_VAL or to 0), so a
 // cell of 1e400 failed the study that in memory counts it as not finite
@@ -1123,8 +1122,8 @@ type Sums struct {
 //
 // With lo (nil for none), each mean is in two parts, mean[i] + lo[i], and
 // a deviation is (c − mean[i]) − lo[i], as the third pass's (Fit.MXLo):
-// where the mean is not a float64 (x a bigint near 2⁵³ whose mean is odd)
-// the deviations otherwise share its rounding, and Σe² holds n times its
+// where the mean falls between two float64 (x a bigint near 2⁵³), the
+// deviations otherwise share its rounding, and Σe² holds n times its
 // square.
 func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels []GroupSums) (*Sums, error) {
 	k := len(p.NumCols)

@@ -337,13 +337,54 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// far more than any tolerance, 99% at 10⁶ rows near 10⁹, found by an
 	// independent review; the two counts cost the pass little.)
 	b1 := c.Sxy / c.Sxx
+	if math.IsNaN(b1) || math.IsInf(b1, 0) {
+		b1 = 0 // Sxx rounded to 0: the second pass refines from a flat line
+	}
 	ends := [2]float64{c.Min[0], c.Max[0]}
-	sums, err := p.Second(c.Mean, b1, ends, gs)
+	// The means the second pass's deviations are taken from, in two
+	// parts (base + baseLo; baseLo nil for the first pass's means).
+	base := c.Mean
+	var baseLo []float64
+	sums, err := p.Second(base, nil, b1, ends, gs)
 	if err != nil {
 		return s, err
 	}
 	if sums.Groups != nil {
 		gs = sums.Groups // the levels' sums by the corrected two-pass algorithm
+	}
+	// The second pass again, once, about the corrected means and the
+	// refined slope, where the first pass's line was so far off that its
+	// residuals e are mostly its own error: the RSS below is Σe² less that
+	// error's share, and Breusch–Pagan's fourth powers of the residuals
+	// come from e's by an expansion in the slope's error, so both cancel
+	// the digits the error takes. The first pass's regression aggregates
+	// lose those digits where x is far from 0 against its spread: with x
+	// a bigint near 2⁵³ (9007199254740000 + 2i, 40 rows, y = 1000i plus
+	// a cosine) its Sxx was 24% off and Breusch–Pagan came out 0.718
+	// against 1.411; with x across 2⁵³, a 150th of its value or NaN, and
+	// the RSS 1.1e-7 off (found by a sweep of small tables;
+	// TestPushdownNear2To53). The test: the error's share,
+	// Σe² − RSS = n·ē² + (b − b1)²·Sxx, above redoShare of the RSS. An
+	// exact fit (Σe² at or below the exact-fit floor, below) is left alone.
+	if rerunSecond(sums, nf, base[1]) {
+		// The means in two parts, as the third pass takes them: where the
+		// mean is no float64 (x a bigint near 2⁵³ with an odd mean), one
+		// part alone leaves every deviation its rounding, n times its
+		// square in Σe².
+		baseLo = make([]float64, len(base))
+		for i := range base {
+			if !math.IsNaN(sums.D[i]) {
+				baseLo[i] = sums.D[i] / nf
+			}
+		}
+		sxx := sums.P[0][0] - sums.D[0]*sums.D[0]/nf
+		b1 += (sums.SXE - sums.D[0]*sums.SE/nf) / sxx
+		if sums, err = p.Second(base, baseLo, b1, ends, gs); err != nil {
+			return s, err
+		}
+		if sums.Groups != nil {
+			gs = sums.Groups
+		}
 	}
 	var sole *float64
 	if sums.AtEnds[0]+sums.AtEnds[1] == n {
@@ -360,11 +401,14 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// from 0 would cost (as stats' meanParts does in memory).
 	mean, lo := make([]float64, k), make([]float64, k)
 	for i := range k {
-		mean[i] = c.Mean[i]
-		if !math.IsNaN(sums.D[i]) {
-			lo[i] = sums.D[i] / nf
-			mean[i] += lo[i]
+		mean[i] = base[i]
+		if baseLo != nil {
+			lo[i] = baseLo[i]
 		}
+		if !math.IsNaN(sums.D[i]) {
+			lo[i] += sums.D[i] / nf
+		}
+		mean[i] += lo[i]
 	}
 	cs := func(i, j int) float64 { return sums.P[i][j] - sums.D[i]*sums.D[j]/nf }
 	mom := stats.Moments{N: n, MeanX: mean[0], MeanY: mean[1], Sxx: cs(0, 0), Syy: cs(1, 1), Sxy: cs(0, 1)}
@@ -385,7 +429,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	sue := sums.SXE - sums.D[0]*sums.SE/nf
 	b := b1 + sue/mom.Sxx
 	rss := math.Max(0, (sums.SE2-sums.SE*sums.SE/nf)-sue*sue/mom.Sxx)
-	a := (c.Mean[1] - b*c.Mean[0]) + (lo[1] - b*lo[0])
+	a := (base[1] - b*base[0]) + (lo[1] - b*lo[0])
 	lf := lineFromSums(mom, rss, conf)
 	for _, cf := range []struct {
 		c *report.Coef
@@ -412,12 +456,19 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	if sumY2 := mom.Syy + nf*mom.MeanY*mom.MeanY; n > 2 && rss > eps16*eps16*sumY2 {
 		sres = math.Sqrt(rss / (nf - 2))
 	}
-	fit := dataset.Fit{N: n, MX: c.Mean[0], MY: c.Mean[1], MXLo: lo[0], MYLo: lo[1], B: b,
+	fit := dataset.Fit{N: n, MX: base[0], MY: base[1], MXLo: lo[0], MYLo: lo[1], B: b,
 		Sxx: mom.Sxx, Syy: mom.Syy, Sxy: mom.Sxy, RSS: rss, S: sres, Outlier: rules.Outlier, Cooks: rules.Cooks, Leverage: rules.Leverage, Sole: sole}
 	var quad *quadSolve
 	if n >= 4 {
-		if quad = solveQuadratic(nf, c.Mean[0], c.Mean[1], b1, sums); quad != nil {
-			fit.Quad, fit.QX, fit.QY, fit.Q0, fit.Q1, fit.Q2, fit.QS = true, c.Mean[0], c.Mean[1], quad.c[0], quad.c[1], quad.c[2], quad.qs
+		qm, qmy := base[0], base[1] // the raw coefficients' centre, in one part
+		if baseLo != nil {
+			qm, qmy = qm+baseLo[0], qmy+baseLo[1]
+		}
+		if quad = solveQuadratic(nf, qm, qmy, b1, sums); quad != nil {
+			fit.Quad, fit.QX, fit.QY, fit.Q0, fit.Q1, fit.Q2, fit.QS = true, base[0], base[1], quad.c[0], quad.c[1], quad.c[2], quad.qs
+			if baseLo != nil {
+				fit.QXLo, fit.QYLo = baseLo[0], baseLo[1]
+			}
 		}
 	}
 
@@ -759,6 +810,35 @@ type quadSolve struct {
 	rawCov [3][3]float64
 }
 
+// redoShare is the share of the RSS above which the first pass's line's
+// error in the second pass's residuals (Σe² − RSS) has the second pass
+// run again about the refined line (rerunSecond). Below it, e differs
+// from the refined line's residuals r by at most √redoShare of their
+// norm, so the RSS formed from Σe² loses no digit, and the terms Σr⁴
+// (Breusch–Pagan) is formed from differ from it by about
+// n^¼·√redoShare of its size (our bound: Σ(e − r)⁴ ≤ (Σ(e − r)²)² and
+// Σr⁴ ≥ RSS²/n). In the PostgreSQL tests it reruns the pass only for x
+// near 2⁵³ and for x = 10¹² + 0.01·i (TestPushdownFarBreuschPagan).
+const redoShare = 1e-6
+
+// rerunSecond says whether the second pass's sums s (n rows, about the
+// y mean my) leave the first pass's line's error in e above redoShare of
+// the RSS, where Σe² is above the exact-fit floor (16ε)²·Σy² that
+// stats.NewLineInfluence applies to the RSS: an RSS cancelled to 0 or
+// below by that error reruns the pass too.
+func rerunSecond(s *dataset.Sums, n, my float64) bool {
+	const eps16 = 16 * 0x1p-52
+	sxx := s.P[0][0] - s.D[0]*s.D[0]/n
+	syy := s.P[1][1] - s.D[1]*s.D[1]/n
+	ybar := my + s.D[1]/n
+	if !(sxx > 0) || s.SE2 <= eps16*eps16*(syy+n*ybar*ybar) {
+		return false
+	}
+	sue := s.SXE - s.D[0]*s.SE/n
+	rss := (s.SE2 - s.SE*s.SE/n) - sue*sue/sxx
+	return s.SE2-rss > redoShare*rss
+}
+
 // solveQuadratic solves the normal equations of the quadratic from the
 // second pass's sums about the first pass's means m, my, for the first
 // pass's line's residuals e = (y − my) − b1·(x − m): the quadratic of
@@ -1003,7 +1083,10 @@ func groupsFromSums(gs []dataset.GroupSums, conf float64) ([]report.GroupFit, *r
 		if g.N >= 3 && g.Sxx > 0 {
 			b := g.Sxy / g.Sxx
 			f.Slope, f.Intercept = report.Float(b), report.Float(g.MY-b*g.MX)
-			rss := math.Max(0, g.Syy-g.Sxy*g.Sxy/g.Sxx)
+			rss := g.RSS // from the level's residuals (dataset.GroupSums.RSS)
+			if math.IsNaN(rss) {
+				rss = math.Max(0, g.Syy-g.Sxy*g.Sxy/g.Sxx)
+			}
 			se := math.Sqrt(rss / float64(g.N-2) / g.Sxx)
 			tq := stats.TQuantile(0.5+conf/2, float64(g.N-2))
 			f.SlopeLow, f.SlopeHigh = report.Float(b-tq*se), report.Float(b+tq*se)

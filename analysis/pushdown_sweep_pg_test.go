@@ -2,8 +2,11 @@ package analysis_test
 
 import (
 	"math"
+	"slices"
 	"strings"
 	"testing"
+
+	"bivar/analysis/report"
 )
 
 // A covariate that is a linear function of x (cz = 2x + 1 on 20 rows)
@@ -80,6 +83,115 @@ func TestPushdownTooFewNamesColumns(t *testing.T) {
 	}{{"in memory", mem.Studies[0].Error}, {"pushed down", pushed.Studies[0].Error}} {
 		if s.err == nil || !strings.Contains(*s.err, want) {
 			t.Errorf("%s: error %v, want it to hold %q", s.path, errText(s.err), want)
+		}
+	}
+}
+
+// x a bigint near 2⁵³ against a spread of 80 (40 rows): the first
+// pass's regression aggregates put Sxx 24% off, so the second pass's
+// residuals of the first pass's line were mostly that line's error, and
+// the RSS and Breusch–Pagan, formed from them, cancelled their digits;
+// above 2⁵³ the mean of x (2⁵³ + 11) is no float64, and every deviation
+// from it shared its rounding. Pushed down, Breusch–Pagan was 0.718 for
+// "s" (in memory 1.411) and 0.0948 for "far" (in memory 14.71, p =
+// 0.000125: the spread changes), NaN with y = 1000i + 0.1·sin i, whose
+// check then went missing (found by a sweep of small tables). References
+// on the same float64 rows: statsmodels 0.13.5,
+// het_breuschpagan(OLS(y, [1, u]).fit().resid, [1, u], robust=True)
+// with u = x − x̄ formed exactly (Python's fractions; Koenker's statistic
+// does not change with a shift of x): 1.4108932542645691 for "s" and
+// 14.712308010703108 for "far"; the line's RSS of "far" by exact rational
+// arithmetic (Python's fractions, least squares on the rows),
+// 0.8722137563341967. For "far", r is within 1 − r² = 1.6e-10 of 1,
+// so Pearson's p and the r interval's half-width (the plan's) carry the
+// rounding of r² in either path (p = 1.490045e-187 by exact r² and
+// mpmath's incomplete beta function, in memory 1.490095e-187, pushed
+// down 1.489980e-187). "ord", the rows of "s" in run order, checks the
+// run-order sums of the second pass run again against memory.
+func TestPushdownNear2To53(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pd2to53",
+		`CREATE TABLE pd2to53 AS SELECT i AS id, (9007199254740000 + 2 * i)::bigint AS x, (2.5 + 1000 * i + cos(3 * i))::float8 AS y,
+		  (9007199254740992 - 30 + 2 * i)::bigint AS xb, (1000 * i + 0.01 * i * cos(3 * i))::float8 AS yb FROM generate_series(1, 40) i`)
+	studies := plain + "[[study]]\nid = \"far\"\ndataset = \"d\"\nx = \"xb\"\ny = \"yb\"\n" +
+		"[[study]]\nid = \"ord\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\norder = \"id\"\n"
+	mem, pushed := runBothDecl(t, url, table("pd2to53"), studies, 5)
+	ill := "r within 1.6e-10 of 1: the figure carries the rounding of r² in either path"
+	for i := range mem.Studies {
+		sameStudy(t, mem.Studies[i].ID, mem.Studies[i], pushed.Studies[i], map[string]string{"far/r_p": ill, "far/plan_r_now": ill})
+	}
+	for _, c := range []struct {
+		study, fig string
+		k          int
+		want       float64
+	}{{"s", "bp", 0, 1.4108932542645691}, {"far", "bp", 1, 14.712308010703108}, {"far", "line_rss", 1, 0.8722137563341967}} {
+		if got := exactFigures(pushed.Studies[c.k])[c.fig]; !(math.Abs(got-c.want) <= 1e-9*math.Abs(c.want)) {
+			t.Errorf("%s: %s pushed down %.17g, reference %.17g", c.study, c.fig, got, c.want)
+		}
+	}
+}
+
+// numeric cells beyond double precision's range (PostgreSQL's numeric
+// holds 1e400): in memory a cell's text read by strconv.ParseFloat, ±Inf
+// for ±1e400 (not a finite number, left out as Infinity is under
+// non_numeric = "missing"), −0 and 0 for ∓1e-400 (IEEE 754 rounding to
+// nearest: below half the least subnormal). Pushed down the study failed:
+// "value out of range: overflow" (found by a sweep of small tables). Both
+// paths now leave out the same 3 rows of y, 1e400, −1e400 and Infinity,
+// and give the same study.
+func TestPushdownNumericOutOfRange(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdnumrange",
+		`CREATE TABLE pdnumrange AS SELECT i AS id, (i * 0.7)::numeric AS x, CASE WHEN i = 3 THEN 1e400 WHEN i = 4 THEN -1e400 WHEN i = 5 THEN -1e-400
+		  WHEN i = 6 THEN 1e-400 WHEN i = 7 THEN 'Infinity'::numeric ELSE (i * 0.3 + cos(i))::numeric END AS y FROM generate_series(1, 20) i`)
+	mem, pushed := runBothDecl(t, url, table("pdnumrange")+"non_numeric = \"missing\"\n", plain, 5)
+	m, p := mem.Studies[0], pushed.Studies[0]
+	sameStudy(t, "s", m, p, nil)
+	want := []report.Exclusion{{Column: "y", Rows: 3, Reason: "non-numeric"}}
+	for _, s := range []struct {
+		path string
+		st   report.Study
+	}{{"in memory", m}, {"pushed down", p}} {
+		if !slices.Equal(s.st.Excluded, want) || s.st.N != 17 {
+			t.Errorf("%s: n = %d, excluded %+v; want 17 rows, %+v", s.path, s.st.N, s.st.Excluded, want)
+		}
+	}
+}
+
+// A group level whose rows lie on a line to the rounding of the numbers
+// (x = 0.1, 0.2, 0.4, y = 2 + x): its slope's interval from the level's
+// centred sums, Syy − Sxy²/Sxx, kept only the rounding of Syy, and was
+// 1 ± 2.7e-7 pushed down against ±7e-15 in memory (found by a sweep of
+// small tables). Reference: exact rational arithmetic on the same float64
+// rows (Python's fractions: slope 0.9999999999999992, RSS 1.41e-32) with
+// t(0.975, 1) = 12.706204736432095 from scipy 1.10.1 (scipy.stats.t.ppf),
+// the interval 0.9999999999999922 to 1.0000000000000062; each bound is
+// held to 1e-13, the rounding of the slope itself. Level c, small
+// integers with y = 41 + x exactly, was 1 ± 1.9e-8 pushed down: its
+// interval is [1, 1] (RSS 0 in exact arithmetic).
+func TestPushdownGroupExactLine(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdgexact",
+		`CREATE TABLE pdgexact AS SELECT row_number() OVER () AS id, * FROM (SELECT v AS x, 2 + v AS y, 'a' AS g FROM unnest(ARRAY[0.1, 0.2, 0.4]::float8[]) v
+		  UNION ALL SELECT i::float8, (0.5 * i + sin(i))::float8, 'b' FROM generate_series(1, 20) i
+		  UNION ALL SELECT v, 41 + v, 'c' FROM unnest(ARRAY[24, 53, 25, 38, 14, 50, 57]::float8[]) v) AS t`)
+	mem, pushed := runBothDecl(t, url, table("pdgexact"), "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\ngroup = \"g\"\n", 5)
+	sameStudy(t, "s", mem.Studies[0], pushed.Studies[0], nil)
+	for _, s := range []struct {
+		path string
+		st   report.Study
+	}{{"in memory", mem.Studies[0]}, {"pushed down", pushed.Studies[0]}} {
+		if len(s.st.Groups) != 3 {
+			t.Fatalf("%s: %d group levels, want 3", s.path, len(s.st.Groups))
+		}
+		for _, w := range []struct {
+			k      int
+			lo, hi float64
+		}{{0, 0.9999999999999922, 1.0000000000000062}, {2, 1, 1}} {
+			g := s.st.Groups[w.k]
+			if math.Abs(float64(g.SlopeLow)-w.lo) > 1e-13 || math.Abs(float64(g.SlopeHigh)-w.hi) > 1e-13 {
+				t.Errorf("%s: level %s's slope interval [%.17g, %.17g], want [%.17g, %.17g] to 1e-13", s.path, g.Group, g.SlopeLow, g.SlopeHigh, w.lo, w.hi)
+			}
 		}
 	}
 }

@@ -21,7 +21,11 @@ package dataset
 //     powers (the refined line, its RSS, the quadratic, Breusch–Pagan and
 //     the trend in run order follow from them), and the rows at the
 //     least and the largest x (a row of sole support); beside it, Sample
-//     (by a hash of each row), which needs only the row count;
+//     (by a hash of each row), which needs only the row count. Where the
+//     first pass's line was so far off that its residuals are mostly its
+//     own error (x far from 0 against its spread, as a bigint near 2⁵³),
+//     the second pass runs once more, about the means it corrected (in
+//     two parts) and the slope it refined (analysis's rerunSecond);
 //  3. ThirdPass: the flags and the flagged rows, the largest Cook's
 //     distance, the leave-one-out extremes, the quadratic's residual sum
 //     and the density grids, with the refined line; without a run order in
@@ -92,12 +96,12 @@ type Session struct {
 
 // sessionStatements bounds the statements of a Session, each under the
 // statement timeout: the session lasts at most this many timeouts. A
-// study runs at most eleven on one session (where the server cannot share
-// its snapshot: the two passes, the sample, the third pass and the fetch
-// of the extremes in two parts each, lack of fit, the sums without the
-// flagged rows, the run-order grouping, the snapshot's export), and the
-// sample's rare second draw; the settings around the second pass
-// (hashJoined) take moments, not timeouts.
+// study runs at most twelve on one session (where the server cannot share
+// its snapshot: the two passes and the second's rare rerun, the sample,
+// the third pass and the fetch of the extremes in two parts each, lack of
+// fit, the sums without the flagged rows, the run-order grouping, the
+// snapshot's export), and the sample's rare second draw; the settings
+// around the second pass (hashJoined) take moments, not timeouts.
 const sessionStatements = 16
 
 // sessionSettings are the settings of a push-down session, for this
@@ -542,6 +546,9 @@ func (s *Session) numExpr(col string) (string, error) {
 			// widened (3.1956139 would be 3.1956138610839844).
 			return "CAST(CAST(bivar_q." + id + " AS text) AS double precision)", nil
 		}
+		if i := slices.Index(s.Names, col); i >= 0 && s.oids[i] == 1700 {
+			return numericAsFloat("bivar_q." + id), nil
+		}
 		return "CAST(bivar_q." + id + " AS double precision)", nil
 	case pgTime:
 		return "CAST(EXTRACT(EPOCH FROM bivar_q." + id + ") AS double precision)", nil
@@ -553,6 +560,34 @@ func (s *Session) numExpr(col string) (string, error) {
 	}
 	return "", &Error{File: s.q.err("").File, Column: col, Msg: "the column's type is not one bivar reads: cast it in the query to a number (::double precision), a timestamp or text (::text)"}
 }
+
+// numericAsFloat is the SQL of a numeric (PostgreSQL's decimal type)
+// value c as double precision, as the rows fetched below max_rows read
+// its text (pgNumberOf, by strconv.ParseFloat, correctly rounded as the
+// cast is): a value at or beyond the overflow bound, 2¹⁰²⁴ − 2⁹⁷⁰ (half a
+// unit in the last place above the largest float64, where ParseFloat
+// gives ±Inf), is ±Infinity, not a finite number, and counted as
+// Infinity is (non_numeric); NaN, which PostgreSQL sorts above every
+// number, stays NaN; a value of magnitude at or below 2⁻¹⁰⁷⁵ (half the
+// least subnormal, where ParseFloat rounds to 0) is 0 with c's sign. The cast alone fails the statement on both ("value out
+// of range: overflow", "underflow": PostgreSQL's float8in, which the
+// cast calls, refuses a value strtod rounds to ±HUGE_VAL or to 0), so a
+// cell of 1e400 failed the study that in memory counts it as not finite
+// (TestPushdownNumericOutOfRange). Only numeric columns take the test.
+func numericAsFloat(c string) string {
+	return "(CASE WHEN abs(" + c + ") >= " + numericOverflow + " THEN CASE WHEN " + c + " < 0 THEN CAST('-Infinity' AS double precision) " +
+		"WHEN " + c + " = CAST('NaN' AS numeric) THEN CAST('NaN' AS double precision) ELSE CAST('Infinity' AS double precision) END " +
+		"WHEN abs(" + c + ") <= " + numericUnderflow + " THEN CASE WHEN " + c + " < 0 THEN CAST('-0' AS double precision) ELSE CAST(0 AS double precision) END " +
+		"ELSE CAST(" + c + " AS double precision) END)"
+}
+
+// numericOverflow and numericUnderflow are 2¹⁰²⁴ − 2⁹⁷⁰ and 2⁻¹⁰⁷⁵ as
+// exact numeric literals (numericAsFloat).
+var numericOverflow, numericUnderflow = func() (string, string) {
+	hi := new(big.Int).Sub(new(big.Int).Lsh(big.NewInt(1), 1024), new(big.Int).Lsh(big.NewInt(1), 970))
+	lo := new(big.Float).SetMantExp(big.NewFloat(1), -1075)
+	return "CAST('" + hi.String() + "' AS numeric)", "CAST('" + lo.Text('f', 1075) + "' AS numeric)"
+}()
 
 // textExpr is the SQL of a text column as it is stored (missing cells are
 // told in Go, by isMissing).
@@ -822,11 +857,29 @@ type GroupSums struct {
 	MX, MY        float64
 	XMin, XMax    float64
 	Sxx, Syy, Sxy float64
+	// RSS is the residual sum of squares of the level's own line, from
+	// the second pass's sums of the residuals of the level's first-pass
+	// line (NaN before it): Syy − Sxy²/Sxx from the centred sums cancels
+	// all but the rounding of Syy where the level's rows lie on a line,
+	// and put a slope interval of ±2.7e-7 about 1 where in memory the
+	// residuals, summed row by row, give ±7e-15 (x = 0.1, 0.2, 0.4 and
+	// y = 2 + x; TestPushdownGroupExactLine).
+	RSS float64
 	// OX and OY are the level's means less the dataset's first-pass
 	// means, from the second pass's deviations (Sums.Groups): the levels'
 	// means differ from each other in digits that MX and MY, far from 0,
 	// lose.
 	OX, OY float64
+}
+
+// slope is the level's slope Sxy/Sxx, 0 where that is not a number
+// (Sxx rounded to 0).
+func (g GroupSums) slope() float64 {
+	b := g.Sxy / g.Sxx
+	if math.IsNaN(b) || math.IsInf(b, 0) {
+		return 0
+	}
+	return b
 }
 
 // First runs the first pass: per stored group value (one row without a
@@ -971,7 +1024,7 @@ func (p *Prepared) First(maxLevels int, print []string) (*Counts, []GroupSums, e
 			j += 2
 		}
 		g := GroupSums{Level: Text(v[0]), N: ok, MX: Num(v[j]), MY: Num(v[j+1]), XMin: Num(v[3+2*k]), XMax: Num(v[4+2*k]),
-			Sxx: Num(v[j+2]), Syy: Num(v[j+3]), Sxy: Num(v[j+4])}
+			Sxx: Num(v[j+2]), Syy: Num(v[j+3]), Sxy: Num(v[j+4]), RSS: math.NaN()}
 		j += 5
 		for i := 2; i < k; i++ {
 			sumMean[i] += float64(ok) * (Num(v[j]) / float64(ok))
@@ -1066,19 +1119,32 @@ type Sums struct {
 // x̄ or ȳ is far from 0 (with x near 10⁹ and a spread of 1, a level's
 // slope by parts in 10⁸ and the F of the slopes' comparison by 2.5·10⁻⁶,
 // TestPushdownAdversarial).
-func (p *Prepared) Second(mean []float64, b float64, ends [2]float64, levels []GroupSums) (*Sums, error) {
+//
+// With lo (nil for none), each mean is in two parts, mean[i] + lo[i], and
+// a deviation is (c − mean[i]) − lo[i], as the third pass's (Fit.MXLo):
+// where the mean falls between two float64 (x a bigint near 2⁵³), the
+// deviations otherwise share its rounding, and Σe² holds n times its
+// square.
+func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels []GroupSums) (*Sums, error) {
 	k := len(p.NumCols)
 	nc := k
 	if p.spec.Order != "" {
 		nc-- // the order's sums are the third pass's
 	}
+	devOf := func(i int) string {
+		d := "(" + p.num[i] + " - " + lit(mean[i]) + ")"
+		if lo != nil && lo[i] != 0 {
+			d = "(" + d + " - " + lit(lo[i]) + ")"
+		}
+		return d
+	}
 	var dev []string
 	for i := range nc {
-		dev = append(dev, "("+p.num[i]+" - "+lit(mean[i])+") AS d"+strconv.Itoa(i))
+		dev = append(dev, devOf(i)+" AS d"+strconv.Itoa(i))
 	}
-	dev = append(dev, "(("+p.num[1]+" - "+lit(mean[1])+") - "+lit(b)+" * ("+p.num[0]+" - "+lit(mean[0])+")) AS e")
+	dev = append(dev, "("+devOf(1)+" - "+lit(b)+" * "+devOf(0)+") AS e")
 	if p.spec.Order != "" {
-		dev = append(dev, "("+p.num[k-1]+" - "+lit(mean[k-1])+") AS dord")
+		dev = append(dev, devOf(k-1)+" AS dord")
 	}
 	dev = append(dev, p.num[0]+" AS xv")
 	d := func(i int) string { return "d" + strconv.Itoa(i) }
@@ -1108,11 +1174,12 @@ func (p *Prepared) Second(mean []float64, b float64, ends [2]float64, levels []G
 	if grouped {
 		vals := make([]string, len(levels))
 		for i, l := range levels {
-			vals[i] = "(" + textLit(l.Level) + ", " + lit(l.MX) + ", " + lit(l.MY) + ")"
+			vals[i] = "(" + textLit(l.Level) + ", " + lit(l.MX) + ", " + lit(l.MY) + ", " + lit(l.slope()) + ")"
 		}
-		from += " JOIN (VALUES " + strings.Join(vals, ", ") + ") AS bivar_gm(lv, mx, my) ON " + p.group + " = bivar_gm.lv"
-		dev = append(dev, "bivar_gm.lv AS g", "("+p.num[0]+" - bivar_gm.mx) AS gx", "("+p.num[1]+" - bivar_gm.my) AS gy")
-		sel = append(sel, "g", "count(*)", "sum(gx)", "sum(gy)", "sum(gx * gx)", "sum(gy * gy)", "sum(gx * gy)")
+		from += " JOIN (VALUES " + strings.Join(vals, ", ") + ") AS bivar_gm(lv, mx, my, b) ON " + p.group + " = bivar_gm.lv"
+		gx, gy := "("+p.num[0]+" - bivar_gm.mx)", "("+p.num[1]+" - bivar_gm.my)"
+		dev = append(dev, "bivar_gm.lv AS g", gx+" AS gx", gy+" AS gy", "("+gy+" - bivar_gm.b * "+gx+") AS ge")
+		sel = append(sel, "g", "count(*)", "sum(gx)", "sum(gy)", "sum(gx * gx)", "sum(gy * gy)", "sum(gx * gy)", "sum(ge * ge)")
 		group = " GROUP BY g"
 	}
 	stmt := "SELECT " + strings.Join(sel, ", ") + " FROM (SELECT " + strings.Join(dev, ", ") + from + " WHERE " + p.complete() + fence + ") AS bivar_d" + group
@@ -1136,7 +1203,7 @@ func (p *Prepared) Second(mean []float64, b float64, ends [2]float64, levels []G
 	for i, l := range levels {
 		at[l.Level] = i
 	}
-	g := len(sel) - 7
+	g := len(sel) - 8
 	byLevel := make([][]any, len(levels))
 	for _, v := range r {
 		i, ok := at[Text(v[g])]
@@ -1179,6 +1246,20 @@ func (p *Prepared) Second(mean []float64, b float64, ends [2]float64, levels []G
 		sx, sy := Num(v[g+2]), Num(v[g+3])
 		l.MX, l.MY = l.MX+sx/nf, l.MY+sy/nf
 		l.Sxx, l.Syy, l.Sxy = Num(v[g+4])-sx*sx/nf, Num(v[g+5])-sy*sy/nf, Num(v[g+6])-sx*sy/nf
+		// The level's RSS from the residuals ge = gy − bl·gx of its
+		// first-pass line (slope bl), as the dataset's (see analysis's
+		// pushdown): RSS = Σ(ge − ḡe)² − (Σ(gx − ḡx)(ge − ḡe))²/Sxx. Of
+		// ge only Σge² is summed: Σge = Σgy − bl·Σgx and Σgx·ge = Σgx·gy −
+		// bl·Σgx² are near 0 where bl is near the level's slope, and their
+		// rounding, some ε·√(Sxx·Syy), enters squared (ε²·Syy). With the
+		// one sum more the pass took 898 ms against 887 ms (least of ten
+		// alternating runs in psql; medians 1114 and 1027 ms on a shared
+		// machine) on the 10⁶ rows of scripts/pushdown-bench.sh with its
+		// group; with all three sums of ge, 857 ms of CPU against 701 ms.
+		bl := levels[i].slope()
+		se := sy - bl*sx
+		sue := (Num(v[g+6]) - bl*Num(v[g+4])) - sx*se/nf
+		l.RSS = math.Max(0, (Num(v[g+7])-se*se/nf)-sue*sue/l.Sxx)
 	}
 	s.Groups = groups
 	return s, nil
@@ -1220,14 +1301,15 @@ func (p *Prepared) secondSums(v []any, k, nc int, pairs []sumPair) (*Sums, error
 // them, with the constants of the row-wise influence measures (see
 // stats.LineInfluence.At for the formulas): the line's deviations are
 // dx = (x − MX) − MXLo, dy = (y − MY) − MYLo, its residual e = dy − B·dx;
-// the quadratic's residual (y − QY) − (Q0 + Q1·t + Q2·t²) with
-// t = (x − QX)/QS.
+// the quadratic's residual ((y − QY) − QYLo) − (Q0 + Q1·t + Q2·t²) with
+// t = ((x − QX) − QXLo)/QS.
 type Fit struct {
 	N          int
 	MX, MY, B  float64
 	MXLo, MYLo float64 // low parts of the means
 
 	QX, QY, Q0, Q1, Q2, QS float64
+	QXLo, QYLo             float64 // low parts of QX and QY
 	Quad                   bool
 
 	Sxx, Syy, Sxy  float64
@@ -1479,8 +1561,12 @@ func (p *Prepared) flaggedSQL(f Fit) (src, fl, isSuspect, s2 string) {
 	// to the last digit).
 	var qr string
 	if f.Quad {
-		t := "((x - " + lit(f.QX) + ") / " + lit(f.QS) + ")"
-		qr = ", ((y - " + lit(f.QY) + ") - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + "))) AS qr"
+		dqx, dqy := "(x - "+lit(f.QX)+")", "(y - "+lit(f.QY)+")"
+		if f.QXLo != 0 || f.QYLo != 0 {
+			dqx, dqy = "("+dqx+" - "+lit(f.QXLo)+")", "("+dqy+" - "+lit(f.QYLo)+")"
+		}
+		t := "(" + dqx + " / " + lit(f.QS) + ")"
+		qr = ", (" + dqy + " - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + "))) AS qr"
 	}
 	src = "(SELECT *, " + ri + " AS ri, " + f.loor("dx", "dy", "omh") + " AS loor, " +
 		"(" + lit(f.B) + " - dx * e / nullif(" + lit(f.Sxx) + " * omh, 0)) AS loos, " + o + " AS fo, " + d + " AS fd" + qr + " FROM " + p.rowsLine(f, p.id != "") + fence + ") AS bivar_i"

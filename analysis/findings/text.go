@@ -76,14 +76,15 @@ func corrPair(a, b float64) (string, string) {
 	// Both to the decimals of the longer (corr gives −1 two and a value
 	// a hair from it eight: "-1.00 to -1.00000000" read as two values
 	// printed alike), then more until they differ.
-	d := max(len(sa)-strings.IndexByte(sa, '.'), len(sb)-strings.IndexByte(sb, '.')) - 1
-	for {
+	d0 := max(len(sa)-strings.IndexByte(sa, '.'), len(sb)-strings.IndexByte(sb, '.')) - 1
+	for d := d0; d <= 15; d++ {
 		sa, sb = strconv.FormatFloat(a, 'f', d, 64), strconv.FormatFloat(b, 'f', d, 64)
-		if sa != sb || d >= 15 {
-			break
+		if sa != sb {
+			return minus(sa), minus(sb)
 		}
-		d++
 	}
+	// Alike to 15 decimals (R² of 1 and of 1 − 10⁻¹⁷): as corr's longer.
+	sa, sb = strconv.FormatFloat(a, 'f', d0, 64), strconv.FormatFloat(b, 'f', d0, 64)
 	return minus(sa), minus(sb)
 }
 

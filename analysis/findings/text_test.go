@@ -48,6 +48,9 @@ func TestCorrPair(t *testing.T) {
 		// not "-1.00" against "-1.00000000".
 		{-1, -0.99999999999998, "-1.00000000000000", "-0.99999999999998"},
 		{0.9999999991, 0.99999999905, "0.99999999910", "0.99999999905"},
+		// Alike to 15 decimals: as corr writes the longer, not
+		// "1.000000000000000" twice.
+		{1, 0.9999999999999999, "1.00000000", "1.00000000"},
 	} {
 		if a, b := corrPair(c.a, c.b); a != c.wa || b != c.wb {
 			t.Errorf("corrPair(%v, %v) = %q, %q; want %q, %q", c.a, c.b, a, b, c.wa, c.wb)

@@ -1109,12 +1109,14 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): the line misses some pattern; look at the residual plot.",
 				x, num(f.dwx), f.dwxBoundText())
 		}
-		if q != nil && !math.IsNaN(f.quadP()) {
+		if q != nil && f.exact {
+			// The x² term's p and the two R² read the rounding the line
+			// leaves.
+			add("The line fits to the rounding of the numbers, so no bend can be told from it: the form is taken as a straight line.")
+		} else if q != nil && !math.IsNaN(f.quadP()) {
 			c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
 			why := "its x² term is not clear"
-			if f.exact {
-				why = "the line fits to the rounding of the numbers and no bend can be told from it"
-			} else if f.screenAdj[checkCurvature] < f.alpha {
+			if f.screenAdj[checkCurvature] < f.alpha {
 				why = fmt.Sprintf("it removes a share %s of the line's residual sum of squares, less than the %s that would count as a curve (%s)", f.shareText(), num(f.th.CurveShare), OwnChoice)
 			}
 			add("A quadratic curve gives R² = %s against %s for the straight line (x² term %s): %s, so the form is taken as a straight line.",
@@ -1394,6 +1396,17 @@ func (f *facts) limits(out *report.Findings) {
 		add("No grouping variable (lot, machine, shift) was declared, so a relationship that differs between groups was not checked.")
 	default:
 		f.groupLimit(out, add)
+	}
+
+	// What the line leaves, where it fits to rounding: the report shows
+	// the limits, not the statements, so the checks it left out and the
+	// residual charts it still draws are explained here.
+	if f.exact {
+		order := ""
+		if s.Order != "" {
+			order = ", nor drift in run order"
+		}
+		add("The line fits these rows to the rounding of the numbers, so what it leaves is rounding and nothing is read from it: not whether the line bends, misses repeated settings of %s or has a scatter that changes with %s%s. The distances from the line on the charts are that rounding, not a pattern in the data.", x, x, order)
 	}
 
 	// Run order.

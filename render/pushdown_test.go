@@ -110,3 +110,27 @@ func TestExactLineRendered(t *testing.T) {
 		}
 	}
 }
+
+// TestLevelsShownNone: where the findings chose no level to show (none
+// has a line of its own: LevelsShown empty, LevelsShownWhy set), the
+// report says the findings' sentence in place of the table of the lines
+// within levels; a table of n/a rows (30 of them for 30 lots with x
+// constant within each) said nothing more.
+func TestLevelsShownNone(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 60})
+	s := &r.Studies[0]
+	if len(s.Groups) != 3 || s.Findings == nil {
+		t.Fatal("the fixture's first study no longer has three levels and findings")
+	}
+	for i := range s.Groups {
+		s.Groups[i].Slope, s.Groups[i].SlopeLow, s.Groups[i].SlopeHigh = report.NaN(), report.NaN(), report.NaN()
+	}
+	s.Findings.LevelsShown = []string{}
+	s.Findings.LevelsShownWhy = "None of the 3 levels of lot has a line of its own, said for this test"
+	md, page := renderBoth(t, r)
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		if !strings.Contains(out, "said for this test.") || strings.Contains(out, "<td>lot A") || strings.Contains(out, "| lot A") {
+			t.Errorf("%s: want the findings' sentence and no row of the levels", name)
+		}
+	}
+}

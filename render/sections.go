@@ -689,9 +689,10 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope, " + unitPer(s) + " (" + level + "% interval)", "Intercept (" + orWord(ySym(s), "y units") + ")"},
 			Num: []bool{false, true, true, true, true}}
 		// With many levels, those the findings chose (LevelsShown), in
-		// their order.
+		// their order; where none has a line, the findings' sentence in
+		// place of the table.
 		groups := s.Groups
-		if f := s.Findings; f != nil && len(f.LevelsShown) > 0 {
+		if f := s.Findings; f != nil && f.LevelsShownWhy != "" {
 			groups, t.Caption = nil, f.LevelsShownWhy
 			for _, name := range f.LevelsShown {
 				if i := slices.IndexFunc(s.Groups, func(g report.GroupFit) bool { return g.Group == name }); i >= 0 {
@@ -702,7 +703,11 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 		for _, g := range groups {
 			t.Rows = append(t.Rows, []string{g.Group, itoa(g.N), num(g.R), withCI(g.Slope, g.SlopeLow, g.SlopeHigh), num(g.Intercept)})
 		}
-		sec.Tables = append(sec.Tables, t)
+		if len(t.Rows) > 0 {
+			sec.Tables = append(sec.Tables, t)
+		} else {
+			sec.Paras = append(sec.Paras, t.Caption+".")
+		}
 	}
 	if len(s.Partial) > 0 {
 		t := table{Caption: "With each covariate held fixed (partial correlation of x and y)", Head: []string{"Covariate", "n", "Partial r (" + level + "% interval)", "p"},

@@ -733,7 +733,11 @@ const (
 // study has more than LevelsShownMax levels: the levels with the
 // levelsShownEnds lowest and highest slopes (ties by level), the ones
 // where a level's line departs most from the others', from the lowest
-// slope up. The choice depends on the set of levels, not their order.
+// slope up. Where no more than twice levelsShownEnds levels have a line
+// of their own (at least 3 rows, x varying), it shows all of those, and
+// where none has, none (LevelsShown empty, LevelsShownWhy saying so): a
+// table of levels without a line says nothing a sentence does not. The
+// choice depends on the set of levels, not their order.
 func (f *facts) shownLevels(out *report.Findings) {
 	gs := f.s.Groups
 	if len(gs) <= LevelsShownMax {
@@ -748,12 +752,28 @@ func (f *facts) shownLevels(out *report.Findings) {
 	slices.SortFunc(valid, func(a, b int) int {
 		return cmp.Or(cmp.Compare(gs[a].Slope, gs[b].Slope), strings.Compare(gs[a].Group, gs[b].Group))
 	})
-	k := min(levelsShownEnds, len(valid)/2)
-	for _, i := range append(valid[:k:k], valid[len(valid)-k:]...) {
-		out.LevelsShown = append(out.LevelsShown, gs[i].Group)
+	none := ""
+	if m := len(gs) - len(valid); m > 0 {
+		none = fmt.Sprintf("; %d %s no line of %s own (at least 3 rows, with x varying)", m, plural(m, "level has", "levels have"), plural(m, "its", "their"))
 	}
-	out.LevelsShownWhy = fmt.Sprintf("The line within %d of the %d levels of %s, from the lowest slope up: the %d with the lowest slope and the %d with the highest (the table shows at most %d levels, a choice of this tool); every level's line is in results.json (groups)",
-		len(out.LevelsShown), len(gs), f.groupLabel(), k, k, LevelsShownMax)
+	switch k := levelsShownEnds; {
+	case len(valid) == 0:
+		out.LevelsShown = []string{}
+		out.LevelsShownWhy = fmt.Sprintf("None of the %d levels of %s has a line of its own (at least 3 rows, with x varying); every level is in results.json (groups)", len(gs), f.groupLabel())
+		return
+	case len(valid) <= 2*k:
+		for _, i := range valid {
+			out.LevelsShown = append(out.LevelsShown, gs[i].Group)
+		}
+		out.LevelsShownWhy = fmt.Sprintf("The line within each of the %d levels of %s that have one, from the lowest slope up%s; every level is in results.json (groups)",
+			len(valid), f.groupLabel(), none)
+	default:
+		for _, i := range append(valid[:k:k], valid[len(valid)-k:]...) {
+			out.LevelsShown = append(out.LevelsShown, gs[i].Group)
+		}
+		out.LevelsShownWhy = fmt.Sprintf("The line within %d of the %d levels of %s, from the lowest slope up: the %d with the lowest slope and the %d with the highest (the table shows at most %d levels, a choice of this tool)%s; every level's line is in results.json (groups)",
+			len(out.LevelsShown), len(gs), f.groupLabel(), k, k, LevelsShownMax, none)
+	}
 }
 
 // lines decides whether one line serves all levels of the group

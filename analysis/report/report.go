@@ -676,7 +676,9 @@ type Findings struct {
 	// within levels shows, in the order it shows them, where the study has
 	// more levels than a reader can take in (findings.LevelsShownMax);
 	// LevelsShownWhy says which they are. Both empty when every level is
-	// shown. Every level's line stays in Groups.
+	// shown; LevelsShown empty with LevelsShownWhy set when no level has
+	// a line of its own (the table is then left out). Every level's line
+	// stays in Groups.
 	LevelsShown    []string `json:"levels_shown,omitempty"`
 	LevelsShownWhy string   `json:"levels_shown_why,omitempty"`
 	// Autocorrelated: with a run order, the line's residuals hang together

@@ -148,7 +148,8 @@ type facts struct {
 //   - lines (with a group): "separate" when the F test that the levels'
 //     slopes are equal has p below alpha, else "parallel" when the F test
 //     that one line serves all levels has p below alpha, else "one-line"
-//     ("untested" with fewer than two levels that can have a line). Read
+//     ("untested" with fewer than two levels that can have a line, or
+//     where their lines leave no scatter to test against). Read
 //     at alpha, outside the Holm family (see lines).
 //   - autocorrelated (with a run order): drift, or the one-sided p of the
 //     run-order Durbin–Watson statistic below alpha; the statements then
@@ -1630,6 +1631,12 @@ func (f *facts) hiddenWay() string {
 func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 	switch out.Lines {
 	case "untested":
+		if gl := f.s.GroupLines; gl != nil && gl.Groups >= 2 && gl.DF2 >= 1 {
+			// Levels enough, but the lines within them leave no scatter
+			// to test against (stats.GroupLinesFromMoments: F undefined).
+			add("The lines within the %d levels of %s that have one leave no scatter about them (each fits its rows exactly), so no F test compares them with one line: compare the levels' lines in the table.", gl.Groups, f.groupLabel())
+			break
+		}
 		add("Fewer than two levels of %s can have a line of their own (at least 3 rows, with x varying), so whether one line serves all of them was not tested.", f.groupLabel())
 	case "one-line":
 		add("One line serves all levels of %s: a line per level does not fit clearly better (%s; alpha = %s).", f.groupLabel(), f.linesText(), num(f.alpha))
@@ -1655,7 +1662,7 @@ func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 		add("Within groups of %s, %s %s with %s (%s), though the pooled data show no relationship: differences between the groups hide it.",
 			f.groupLabel(), f.yLabel, f.hiddenWay(), f.xLabel, detail)
 	case len(g) < 2:
-		add("Fewer than two groups of %s have %d rows or more (the smallest size compared, %s), so the groups were not compared.", f.groupLabel(), f.th.ReversalMinGroup, OwnChoice)
+		add("Fewer than two groups of %s have %d rows or more (the smallest size compared, %s) and a line of their own (x varying), so the groups were not compared.", f.groupLabel(), f.th.ReversalMinGroup, OwnChoice)
 	case out.Reversal:
 		add("Within groups of %s the direction reverses: pooled, %s %s with %s, but %s (%s). The pooled relationship comes from differences between the groups.",
 			f.groupLabel(), f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, f.reversalCount(), detail)

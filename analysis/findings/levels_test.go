@@ -111,3 +111,38 @@ func TestShownLevelsWithoutLines(t *testing.T) {
 		t.Errorf("12 of 30 levels with a line: levels shown %v, want %v", f.LevelsShown, want)
 	}
 }
+
+// TestLinesUntestedExact: where two or more levels have a line but the
+// lines leave no scatter about them (each level's rows exactly on its
+// line, as 24 lots of y = 10·lot + 2·x with integer x, 20 rows each,
+// gave: stats.GroupLinesFromMoments's F tests then undefined), the
+// lines are untested, and the limit says why; it said "Fewer than two
+// levels of lot can have a line of their own", false of 24 levels with
+// one each.
+func TestLinesUntestedExact(t *testing.T) {
+	s := study(0.6, 0.001)
+	s.Group = "lot"
+	for i := range 24 {
+		s.Groups = append(s.Groups, report.GroupFit{Group: fmt.Sprintf("T%02d", i), N: 20, R: 1, Slope: 2, SlopeLow: 2, SlopeHigh: 2, Intercept: fl(10 * float64(i))})
+	}
+	nan := report.NaN()
+	s.GroupLines = &report.GroupLines{Groups: 24, N: 480, SlopesF: nan, SlopesDF1: 23, SlopesP: nan, LinesF: nan, LinesDF1: 46, LinesP: nan, DF2: 432,
+		RWithin: 1, RWithinDF: 455, RWithinP: nan}
+	f := Assess(s, ctx)
+	all := strings.Join(f.Limits, "\n")
+	if f.Lines != "untested" || strings.Contains(all, "Fewer than two levels") || !strings.Contains(all, "The lines within the 24 levels of lot that have one leave no scatter") {
+		t.Errorf("24 levels of exact lines: lines %q, limits:\n%s", f.Lines, all)
+	}
+	// Too few levels with a line keeps its own sentence; 24 levels of 20
+	// rows each where x is constant within each (no slope) are not said
+	// to be too small to compare.
+	for i := range s.Groups {
+		s.Groups[i].Slope = nan
+	}
+	s.GroupLines = &report.GroupLines{Groups: 1, N: 20, SlopesF: nan, SlopesP: nan, LinesF: nan, LinesP: nan, DF2: 18, RWithin: nan, RWithinP: nan}
+	if f := Assess(s, ctx); !strings.Contains(strings.Join(f.Limits, "\n"), "Fewer than two levels of lot can have a line") {
+		t.Errorf("one level with a line: limits:\n%s", strings.Join(f.Limits, "\n"))
+	} else if l := strings.Join(f.Limits, "\n"); !strings.Contains(l, "rows or more (the smallest size compared, a choice of this tool, not common practice) and a line of their own") {
+		t.Errorf("24 levels of 20 rows without a slope are said to be too small:\n%s", l)
+	}
+}

@@ -666,7 +666,8 @@ type Findings struct {
 	ExplainedBy []string `json:"explained_by"`
 
 	// Lines says whether one line serves all levels of the group: "" without
-	// a group; "untested" when fewer than two levels can be compared;
+	// a group; "untested" when fewer than two levels can be compared, or
+	// when the lines within them leave no scatter (the F tests undefined);
 	// "one-line" when the test that one line serves all levels
 	// (GroupLines.LinesP) is not below alpha; "parallel" when it is but the
 	// slopes do not differ clearly (SlopesP not below alpha: the levels are

@@ -1,6 +1,7 @@
 package render_test
 
 import (
+	"math"
 	"strings"
 	"testing"
 
@@ -131,6 +132,36 @@ func TestLevelsShownNone(t *testing.T) {
 	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
 		if !strings.Contains(out, "said for this test.") || strings.Contains(out, "<td>lot A") || strings.Contains(out, "| lot A") {
 			t.Errorf("%s: want the findings' sentence and no row of the levels", name)
+		}
+	}
+}
+
+// TestLeaveOneOutAlikeRendered: where r and the slope without each row
+// print alike at both ends (a line exact to rounding: the 200 rows of
+// y = 3 − 7·0.1·x, computed in float64 left to right, gave r −1 without
+// row 1 and −0.9999999999999999 without
+// row 3, the slope −0.7 at both ends), the rows at the ends are picked by
+// rounding: the sentence names none and gives each figure once, where it
+// said "r -1.000000000 (without 1) to -1.000000000 (without 3); slope
+// -0.7000 to -0.7000".
+func TestLeaveOneOutAlikeRendered(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 60})
+	s := &r.Studies[0]
+	if s.Sensitivity == nil || s.Agreement != nil {
+		t.Fatal("the fixture's first study lacks its sensitivity or is an agreement study")
+	}
+	se := s.Sensitivity
+	se.LooRMin, se.LooRMax, se.LooRMinRow, se.LooRMaxRow = -1, report.Float(math.Nextafter(-1, 0)), "1", "3"
+	se.LooSlopeMin, se.LooSlopeMax = -0.7, -0.7
+	md, page := renderBoth(t, r)
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		i := strings.Index(out, "Leaving out any one row:")
+		if i < 0 {
+			t.Fatalf("%s: no sentence on leaving out one row", name)
+		}
+		line := out[i:min(len(out), i+200)]
+		if strings.Contains(line, "(without") || !strings.Contains(line, "whichever row; slope") || strings.Contains(line, " to ") {
+			t.Errorf("%s: %q; want each figure once and no row named", name, line)
 		}
 	}
 }

@@ -562,8 +562,17 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 	if s.Agreement == nil {
 		rLo, rHi := numApart(se.LooRMin, se.LooRMax)
 		sLo, sHi := numApart(se.LooSlopeMin, se.LooSlopeMax)
-		sec.After = append(sec.After, fmt.Sprintf("Leaving out any one row: r %s%s to %s%s; slope %s to %s.",
-			rLo, without(se.LooRMinRow), rHi, without(se.LooRMaxRow), sLo, withSym(sHi, unitPer(s))))
+		// Ends that print alike (a line exact to rounding) are one value,
+		// and the rows at them are picked by rounding: none is named.
+		r := fmt.Sprintf("r %s%s to %s%s", rLo, without(se.LooRMinRow), rHi, without(se.LooRMaxRow))
+		if rLo == rHi {
+			r = "r " + rLo + " whichever row"
+		}
+		slope := "slope " + sLo + " to " + withSym(sHi, unitPer(s))
+		if sLo == sHi {
+			slope = "slope " + withSym(sHi, unitPer(s)) + " whichever row"
+		}
+		sec.After = append(sec.After, "Leaving out any one row: "+r+"; "+slope+".")
 	}
 	// An outlier-driven headline that gives r and p without the flagged
 	// rows says it already.

@@ -1316,7 +1316,13 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 		if len(undefined) > 0 {
 			extra = fmt.Sprintf(" among the rows whose removal leaves r defined; without %s alone, r cannot be computed", listRows(undefined))
 		}
-		add("Leaving out one row at a time, r ranges from %s%s to %s%s%s.", lo, without(se.LooRMinRow), hi, without(se.LooRMaxRow), extra)
+		if lo == hi {
+			// Alike to 15 decimals (a line exact to rounding): the rows
+			// at the two ends are picked by rounding, so none is named.
+			add("Leaving out one row at a time, r is %s whichever row is left out%s.", lo, extra)
+		} else {
+			add("Leaving out one row at a time, r ranges from %s%s to %s%s%s.", lo, without(se.LooRMinRow), hi, without(se.LooRMaxRow), extra)
+		}
 	}
 	if se.ResistantSlope.Valid() && s.Line != nil && s.Line.Slope != nil {
 		method := ""

@@ -1,6 +1,7 @@
 package findings
 
 import (
+	"math"
 	"strings"
 	"testing"
 )
@@ -46,5 +47,25 @@ func TestExactLineLimitAndForm(t *testing.T) {
 	// A line that is not exact gets no such limit.
 	if f := Assess(study(-0.99, 1e-12), ctx); strings.Contains(strings.Join(f.Limits, "\n"), "rounding of the numbers") {
 		t.Errorf("a line with scatter is said to fit to rounding:\n%s", strings.Join(f.Limits, "\n"))
+	}
+}
+
+// TestLeaveOneOutAlike: where r without each row prints alike at both
+// ends (the 200 rows of y = 3 − 7·0.1·x gave −1 without row 1 and
+// −0.9999999999999999, the next float64 towards 0, without row 3, y
+// computed in float64 left to right, 7·0.1 first; corrPair
+// prints both −1.000000000000000), the rows at the ends are picked by
+// rounding: the statement names none, where it named rows 1 and 3.
+func TestLeaveOneOutAlike(t *testing.T) {
+	s := study(-0.99, 1e-12)
+	s.Sensitivity.LooRMin, s.Sensitivity.LooRMax = -1, fl(math.Nextafter(-1, 0))
+	s.Sensitivity.LooRMinRow, s.Sensitivity.LooRMaxRow = "1", "3"
+	all := strings.Join(Assess(s, ctx).Statements, "\n")
+	if strings.Contains(all, "without row") || !strings.Contains(all, "r is -1.000000000000000 whichever row is left out") {
+		t.Errorf("r alike at both ends: statements:\n%s", all)
+	}
+	s.Sensitivity.LooRMax = -0.98
+	if all := strings.Join(Assess(s, ctx).Statements, "\n"); !strings.Contains(all, "(without row 1) to -0.98") {
+		t.Errorf("r from -1 to -0.98: the rows at the ends are not named:\n%s", all)
 	}
 }

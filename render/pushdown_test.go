@@ -101,7 +101,16 @@ func TestExactLineRendered(t *testing.T) {
 	s.Influence.Counts = report.FlagCounts{}
 	s.Influence.Points = nil
 	s.Influence.MaxCooksD, s.Influence.MaxCooksRow = report.NaN(), ""
+	// Repeated settings of an exact line have no pure error, so no
+	// lack-of-fit test (stats.LackOfFit needs it above 0): 200 rows of
+	// y = 0.25 + 0.35·x on 40 settings of x said "none repeated".
+	s.Diagnostics.LackOfFit = nil
 	md, page := renderBoth(t, r)
+	for _, l := range strings.Split(md.String(), "\n") {
+		if c := strings.Split(l, "|"); len(c) > 3 && strings.Contains(l, "Not checked: the line fits to rounding") && !strings.Contains(c[3], "Not checked") {
+			t.Errorf("markdown: the lack-of-fit cell of an exact line reads %q", strings.TrimSpace(c[3]))
+		}
+	}
 	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
 		if strings.Count(out, "Not checked: the line fits to rounding") < 2 {
 			t.Errorf("%s: the bend and spread checks are not marked as not checked", name)

@@ -1012,11 +1012,11 @@ func checksTable(studies []report.Study, anchors []string) table {
 		}
 		if s.Line != nil && s.Line.ExactToRounding {
 			// No check reads residuals that are rounding (the findings
-			// say why).
-			row[1], row[4] = "Not checked: the line fits to rounding", "Not checked: the line fits to rounding"
-			if d.LackOfFit != nil {
-				row[2] = row[1]
-			}
+			// say why). Lack of fit too, whatever the diagnostics hold:
+			// repeated settings of an exact line have one y each, no pure
+			// error, so its test is never there, and "none repeated" would
+			// say x does not repeat.
+			row[1], row[2], row[4] = "Not checked: the line fits to rounding", "Not checked: the line fits to rounding", "Not checked: the line fits to rounding"
 			if s.Order != "" {
 				row[5] = row[1]
 			}

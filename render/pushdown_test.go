@@ -112,6 +112,13 @@ func TestExactLineRendered(t *testing.T) {
 		}
 	}
 	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		// The parabola fitted to the rounding the line leaves: its
+		// turning point and scatter were printed ("a bend (parabola)
+		// turning far outside the data leaves 1.126e-14, squared scatter
+		// n/a, AIC n/a" on 200 rows of y = 3 − 7·0.1·x).
+		if strings.Contains(out, "a bend (parabola)") || strings.Contains(out, "AIC n/a") || !strings.Contains(out, "so no other shape is compared with it") {
+			t.Errorf("%s: the other shapes of an exact line are compared with it, or the parabola of its rounding is described", name)
+		}
 		if strings.Count(out, "Not checked: the line fits to rounding") < 2 {
 			t.Errorf("%s: the bend and spread checks are not marked as not checked", name)
 		}

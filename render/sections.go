@@ -365,6 +365,16 @@ func shapesText(s *report.Study) string {
 		if what == "" {
 			what = m.Name
 		}
+		if l.ExactToRounding {
+			// The analysis compares no shape with a line that fits to
+			// rounding (share and AIC NaN), and the parabola, the line
+			// and one term more, is fitted to that rounding: its turning
+			// point and scatter are the rounding's.
+			if m.Name != "quadratic" {
+				parts = append(parts, fmt.Sprintf("%s leaves %s", what, inY(s, m.ResidualSE)))
+			}
+			continue
+		}
 		switch {
 		case m.Vertex.Valid() && m.VertexNear:
 			what += " turning at x = " + withSym(num(m.Vertex), xSym(s))
@@ -397,6 +407,12 @@ func shapesText(s *report.Study) string {
 			}
 		}
 		parts = append(parts, fmt.Sprintf("%s leaves %s, %s, %s", what, inY(s, m.ResidualSE), share, aic))
+	}
+	if l.ExactToRounding {
+		if len(parts) == 0 {
+			return "The line fits to rounding, so no other shape is compared with it."
+		}
+		return "The line fits to rounding (scatter " + inY(s, l.ResidualSE) + "), so no other shape is compared with it; " + strings.Join(parts, "; ") + "."
 	}
 	if len(parts) == 0 {
 		return ""

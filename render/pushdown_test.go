@@ -1,6 +1,7 @@
 package render_test
 
 import (
+	"math"
 	"strings"
 	"testing"
 
@@ -100,13 +101,83 @@ func TestExactLineRendered(t *testing.T) {
 	s.Influence.Counts = report.FlagCounts{}
 	s.Influence.Points = nil
 	s.Influence.MaxCooksD, s.Influence.MaxCooksRow = report.NaN(), ""
+	// Repeated settings of an exact line have no pure error, so no
+	// lack-of-fit test (stats.LackOfFit needs it above 0): 200 rows of
+	// y = 0.25 + 0.35·x on 40 settings of x said "none repeated".
+	s.Diagnostics.LackOfFit = nil
 	md, page := renderBoth(t, r)
+	for _, l := range strings.Split(md.String(), "\n") {
+		if c := strings.Split(l, "|"); len(c) > 3 && strings.Contains(l, "Not checked: the line fits to rounding") && !strings.Contains(c[3], "Not checked") {
+			t.Errorf("markdown: the lack-of-fit cell of an exact line reads %q", strings.TrimSpace(c[3]))
+		}
+	}
 	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		// The parabola fitted to the rounding the line leaves: its
+		// turning point and scatter were printed ("a bend (parabola)
+		// turning far outside the data leaves 1.126e-14, squared scatter
+		// n/a, AIC n/a" on 200 rows of y = 3 − 7·0.1·x).
+		if strings.Contains(out, "a bend (parabola)") || strings.Contains(out, "AIC n/a") || !strings.Contains(out, "so no other shape is compared with it") {
+			t.Errorf("%s: the other shapes of an exact line are compared with it, or the parabola of its rounding is described", name)
+		}
 		if strings.Count(out, "Not checked: the line fits to rounding") < 2 {
 			t.Errorf("%s: the bend and spread checks are not marked as not checked", name)
 		}
 		if !strings.Contains(out, "distance is undefined for every row") || strings.Contains(out, "row )") {
 			t.Errorf("%s: the largest Cook's distance of an exact line is not said to be undefined", name)
+		}
+	}
+}
+
+// TestLevelsShownNone: where the findings chose no level to show (none
+// has a line of its own: LevelsShown empty, LevelsShownWhy set), the
+// report says the findings' sentence in place of the table of the lines
+// within levels; a table of n/a rows (30 of them for 30 lots with x
+// constant within each) said nothing more.
+func TestLevelsShownNone(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 60})
+	s := &r.Studies[0]
+	if len(s.Groups) != 3 || s.Findings == nil {
+		t.Fatal("the fixture's first study no longer has three levels and findings")
+	}
+	for i := range s.Groups {
+		s.Groups[i].Slope, s.Groups[i].SlopeLow, s.Groups[i].SlopeHigh = report.NaN(), report.NaN(), report.NaN()
+	}
+	s.Findings.LevelsShown = []string{}
+	s.Findings.LevelsShownWhy = "None of the 3 levels of lot has a line of its own, said for this test"
+	md, page := renderBoth(t, r)
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		if !strings.Contains(out, "said for this test.") || strings.Contains(out, "<td>lot A") || strings.Contains(out, "| lot A") {
+			t.Errorf("%s: want the findings' sentence and no row of the levels", name)
+		}
+	}
+}
+
+// TestLeaveOneOutAlikeRendered: where r and the slope without each row
+// print alike at both ends (a line exact to rounding: the 200 rows of
+// y = 3 − 7·0.1·x, computed in float64 left to right, gave r −1 without
+// row 1 and −0.9999999999999999 without
+// row 3, the slope −0.7 at both ends), the rows at the ends are picked by
+// rounding: the sentence names none and gives each figure once, where it
+// said "r -1.000000000 (without 1) to -1.000000000 (without 3); slope
+// -0.7000 to -0.7000".
+func TestLeaveOneOutAlikeRendered(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 60})
+	s := &r.Studies[0]
+	if s.Sensitivity == nil || s.Agreement != nil {
+		t.Fatal("the fixture's first study lacks its sensitivity or is an agreement study")
+	}
+	se := s.Sensitivity
+	se.LooRMin, se.LooRMax, se.LooRMinRow, se.LooRMaxRow = -1, report.Float(math.Nextafter(-1, 0)), "1", "3"
+	se.LooSlopeMin, se.LooSlopeMax = -0.7, -0.7
+	md, page := renderBoth(t, r)
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		i := strings.Index(out, "Leaving out any one row:")
+		if i < 0 {
+			t.Fatalf("%s: no sentence on leaving out one row", name)
+		}
+		line := out[i:min(len(out), i+200)]
+		if strings.Contains(line, "(without") || !strings.Contains(line, "whichever row; slope") || strings.Contains(line, " to ") {
+			t.Errorf("%s: %q; want each figure once and no row named", name, line)
 		}
 	}
 }

@@ -365,6 +365,16 @@ func shapesText(s *report.Study) string {
 		if what == "" {
 			what = m.Name
 		}
+		if l.ExactToRounding {
+			// The analysis compares no shape with a line that fits to
+			// rounding (share and AIC NaN), and the parabola, the line
+			// and one term more, is fitted to that rounding: its turning
+			// point and scatter are the rounding's.
+			if m.Name != "quadratic" {
+				parts = append(parts, fmt.Sprintf("%s leaves %s", what, inY(s, m.ResidualSE)))
+			}
+			continue
+		}
 		switch {
 		case m.Vertex.Valid() && m.VertexNear:
 			what += " turning at x = " + withSym(num(m.Vertex), xSym(s))
@@ -397,6 +407,12 @@ func shapesText(s *report.Study) string {
 			}
 		}
 		parts = append(parts, fmt.Sprintf("%s leaves %s, %s, %s", what, inY(s, m.ResidualSE), share, aic))
+	}
+	if l.ExactToRounding {
+		if len(parts) == 0 {
+			return "The line fits to rounding, so no other shape is compared with it."
+		}
+		return "The line fits to rounding (scatter " + inY(s, l.ResidualSE) + "), so no other shape is compared with it; " + strings.Join(parts, "; ") + "."
 	}
 	if len(parts) == 0 {
 		return ""
@@ -562,8 +578,17 @@ func sensitivitySection(s *report.Study, level string, _ report.Thresholds) (*se
 	if s.Agreement == nil {
 		rLo, rHi := numApart(se.LooRMin, se.LooRMax)
 		sLo, sHi := numApart(se.LooSlopeMin, se.LooSlopeMax)
-		sec.After = append(sec.After, fmt.Sprintf("Leaving out any one row: r %s%s to %s%s; slope %s to %s.",
-			rLo, without(se.LooRMinRow), rHi, without(se.LooRMaxRow), sLo, withSym(sHi, unitPer(s))))
+		// Ends that print alike (a line exact to rounding) are one value,
+		// and the rows at them are picked by rounding: none is named.
+		r := fmt.Sprintf("r %s%s to %s%s", rLo, without(se.LooRMinRow), rHi, without(se.LooRMaxRow))
+		if rLo == rHi {
+			r = "r " + rLo + " whichever row"
+		}
+		slope := "slope " + sLo + " to " + withSym(sHi, unitPer(s))
+		if sLo == sHi {
+			slope = "slope " + withSym(sHi, unitPer(s)) + " whichever row"
+		}
+		sec.After = append(sec.After, "Leaving out any one row: "+r+"; "+slope+".")
 	}
 	// An outlier-driven headline that gives r and p without the flagged
 	// rows says it already.
@@ -689,9 +714,10 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 		t := table{Caption: "The line within each level of " + chart.GroupName(s), Head: []string{chart.GroupName(s), "n", "r", "Slope, " + unitPer(s) + " (" + level + "% interval)", "Intercept (" + orWord(ySym(s), "y units") + ")"},
 			Num: []bool{false, true, true, true, true}}
 		// With many levels, those the findings chose (LevelsShown), in
-		// their order.
+		// their order; where none has a line, the findings' sentence in
+		// place of the table.
 		groups := s.Groups
-		if f := s.Findings; f != nil && len(f.LevelsShown) > 0 {
+		if f := s.Findings; f != nil && f.LevelsShownWhy != "" {
 			groups, t.Caption = nil, f.LevelsShownWhy
 			for _, name := range f.LevelsShown {
 				if i := slices.IndexFunc(s.Groups, func(g report.GroupFit) bool { return g.Group == name }); i >= 0 {
@@ -702,7 +728,11 @@ func groupsSection(s *report.Study, level string, _ report.Thresholds) (*section
 		for _, g := range groups {
 			t.Rows = append(t.Rows, []string{g.Group, itoa(g.N), num(g.R), withCI(g.Slope, g.SlopeLow, g.SlopeHigh), num(g.Intercept)})
 		}
-		sec.Tables = append(sec.Tables, t)
+		if len(t.Rows) > 0 {
+			sec.Tables = append(sec.Tables, t)
+		} else {
+			sec.Paras = append(sec.Paras, t.Caption+".")
+		}
 	}
 	if len(s.Partial) > 0 {
 		t := table{Caption: "With each covariate held fixed (partial correlation of x and y)", Head: []string{"Covariate", "n", "Partial r (" + level + "% interval)", "p"},
@@ -998,11 +1028,11 @@ func checksTable(studies []report.Study, anchors []string) table {
 		}
 		if s.Line != nil && s.Line.ExactToRounding {
 			// No check reads residuals that are rounding (the findings
-			// say why).
-			row[1], row[4] = "Not checked: the line fits to rounding", "Not checked: the line fits to rounding"
-			if d.LackOfFit != nil {
-				row[2] = row[1]
-			}
+			// say why). Lack of fit too, whatever the diagnostics hold:
+			// repeated settings of an exact line have one y each, no pure
+			// error, so its test is never there, and "none repeated" would
+			// say x does not repeat.
+			row[1], row[2], row[4] = "Not checked: the line fits to rounding", "Not checked: the line fits to rounding", "Not checked: the line fits to rounding"
 			if s.Order != "" {
 				row[5] = row[1]
 			}

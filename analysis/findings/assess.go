@@ -148,7 +148,8 @@ type facts struct {
 //   - lines (with a group): "separate" when the F test that the levels'
 //     slopes are equal has p below alpha, else "parallel" when the F test
 //     that one line serves all levels has p below alpha, else "one-line"
-//     ("untested" with fewer than two levels that can have a line). Read
+//     ("untested" with fewer than two levels that can have a line, or
+//     where their lines leave no scatter to test against). Read
 //     at alpha, outside the Holm family (see lines).
 //   - autocorrelated (with a run order): drift, or the one-sided p of the
 //     run-order Durbin–Watson statistic below alpha; the statements then
@@ -733,7 +734,11 @@ const (
 // study has more than LevelsShownMax levels: the levels with the
 // levelsShownEnds lowest and highest slopes (ties by level), the ones
 // where a level's line departs most from the others', from the lowest
-// slope up. The choice depends on the set of levels, not their order.
+// slope up. Where no more than twice levelsShownEnds levels have a line
+// of their own (at least 3 rows, x varying), it shows all of those, and
+// where none has, none (LevelsShown empty, LevelsShownWhy saying so): a
+// table of levels without a line says nothing a sentence does not. The
+// choice depends on the set of levels, not their order.
 func (f *facts) shownLevels(out *report.Findings) {
 	gs := f.s.Groups
 	if len(gs) <= LevelsShownMax {
@@ -748,12 +753,28 @@ func (f *facts) shownLevels(out *report.Findings) {
 	slices.SortFunc(valid, func(a, b int) int {
 		return cmp.Or(cmp.Compare(gs[a].Slope, gs[b].Slope), strings.Compare(gs[a].Group, gs[b].Group))
 	})
-	k := min(levelsShownEnds, len(valid)/2)
-	for _, i := range append(valid[:k:k], valid[len(valid)-k:]...) {
-		out.LevelsShown = append(out.LevelsShown, gs[i].Group)
+	none := ""
+	if m := len(gs) - len(valid); m > 0 {
+		none = fmt.Sprintf("; %d %s no line of %s own (at least 3 rows, with x varying)", m, plural(m, "level has", "levels have"), plural(m, "its", "their"))
 	}
-	out.LevelsShownWhy = fmt.Sprintf("The line within %d of the %d levels of %s, from the lowest slope up: the %d with the lowest slope and the %d with the highest (the table shows at most %d levels, a choice of this tool); every level's line is in results.json (groups)",
-		len(out.LevelsShown), len(gs), f.groupLabel(), k, k, LevelsShownMax)
+	switch k := levelsShownEnds; {
+	case len(valid) == 0:
+		out.LevelsShown = []string{}
+		out.LevelsShownWhy = fmt.Sprintf("None of the %d levels of %s has a line of its own (at least 3 rows, with x varying); every level is in results.json (groups)", len(gs), f.groupLabel())
+		return
+	case len(valid) <= 2*k:
+		for _, i := range valid {
+			out.LevelsShown = append(out.LevelsShown, gs[i].Group)
+		}
+		out.LevelsShownWhy = fmt.Sprintf("The line within each of the %d levels of %s that have one, from the lowest slope up%s; every level is in results.json (groups)",
+			len(valid), f.groupLabel(), none)
+	default:
+		for _, i := range append(valid[:k:k], valid[len(valid)-k:]...) {
+			out.LevelsShown = append(out.LevelsShown, gs[i].Group)
+		}
+		out.LevelsShownWhy = fmt.Sprintf("The line within %d of the %d levels of %s, from the lowest slope up: the %d with the lowest slope and the %d with the highest (the table shows at most %d levels, a choice of this tool)%s; every level's line is in results.json (groups)",
+			len(out.LevelsShown), len(gs), f.groupLabel(), k, k, LevelsShownMax, none)
+	}
 }
 
 // lines decides whether one line serves all levels of the group
@@ -1109,12 +1130,14 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 			add("Taken in order of %s, the residuals from the line swing together (Durbin–Watson %s, below %s): the line misses some pattern; look at the residual plot.",
 				x, num(f.dwx), f.dwxBoundText())
 		}
-		if q != nil && !math.IsNaN(f.quadP()) {
+		if q != nil && f.exact {
+			// The x² term's p and the two R² read the rounding the line
+			// leaves.
+			add("The line fits to the rounding of the numbers, so no bend can be told from it: the form is taken as a straight line.")
+		} else if q != nil && !math.IsNaN(f.quadP()) {
 			c, l := corrPair(float64(q.R2), float64(s.Pearson.R2))
 			why := "its x² term is not clear"
-			if f.exact {
-				why = "the line fits to the rounding of the numbers and no bend can be told from it"
-			} else if f.screenAdj[checkCurvature] < f.alpha {
+			if f.screenAdj[checkCurvature] < f.alpha {
 				why = fmt.Sprintf("it removes a share %s of the line's residual sum of squares, less than the %s that would count as a curve (%s)", f.shareText(), num(f.th.CurveShare), OwnChoice)
 			}
 			add("A quadratic curve gives R² = %s against %s for the straight line (x² term %s): %s, so the form is taken as a straight line.",
@@ -1293,7 +1316,13 @@ func (f *facts) influenceStatements(out *report.Findings, add func(string, ...an
 		if len(undefined) > 0 {
 			extra = fmt.Sprintf(" among the rows whose removal leaves r defined; without %s alone, r cannot be computed", listRows(undefined))
 		}
-		add("Leaving out one row at a time, r ranges from %s%s to %s%s%s.", lo, without(se.LooRMinRow), hi, without(se.LooRMaxRow), extra)
+		if lo == hi {
+			// Alike to 15 decimals (a line exact to rounding): the rows
+			// at the two ends are picked by rounding, so none is named.
+			add("Leaving out one row at a time, r is %s whichever row is left out%s.", lo, extra)
+		} else {
+			add("Leaving out one row at a time, r ranges from %s%s to %s%s%s.", lo, without(se.LooRMinRow), hi, without(se.LooRMaxRow), extra)
+		}
 	}
 	if se.ResistantSlope.Valid() && s.Line != nil && s.Line.Slope != nil {
 		method := ""
@@ -1394,6 +1423,17 @@ func (f *facts) limits(out *report.Findings) {
 		add("No grouping variable (lot, machine, shift) was declared, so a relationship that differs between groups was not checked.")
 	default:
 		f.groupLimit(out, add)
+	}
+
+	// What the line leaves, where it fits to rounding: the report shows
+	// the limits, not the statements, so the checks it left out and the
+	// residual charts it still draws are explained here.
+	if f.exact {
+		order := ""
+		if s.Order != "" {
+			order = ", nor drift in run order"
+		}
+		add("The line fits these rows to the rounding of the numbers, so what it leaves is rounding and nothing is read from it: not whether the line bends, misses repeated settings of %s or has a scatter that changes with %s%s. The distances from the line on the charts are that rounding, not a pattern in the data.", x, x, order)
 	}
 
 	// Run order.
@@ -1597,6 +1637,12 @@ func (f *facts) hiddenWay() string {
 func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 	switch out.Lines {
 	case "untested":
+		if gl := f.s.GroupLines; gl != nil && gl.Groups >= 2 && gl.DF2 >= 1 {
+			// Levels enough, but the lines within them leave no scatter
+			// to test against (stats.GroupLinesFromMoments: F undefined).
+			add("The lines within the %d levels of %s that have one leave no scatter about them (each fits its rows exactly), so no F test compares them with one line: compare the levels' lines in the table.", gl.Groups, f.groupLabel())
+			break
+		}
 		add("Fewer than two levels of %s can have a line of their own (at least 3 rows, with x varying), so whether one line serves all of them was not tested.", f.groupLabel())
 	case "one-line":
 		add("One line serves all levels of %s: a line per level does not fit clearly better (%s; alpha = %s).", f.groupLabel(), f.linesText(), num(f.alpha))
@@ -1622,7 +1668,7 @@ func (f *facts) groupLimit(out *report.Findings, add func(string, ...any)) {
 		add("Within groups of %s, %s %s with %s (%s), though the pooled data show no relationship: differences between the groups hide it.",
 			f.groupLabel(), f.yLabel, f.hiddenWay(), f.xLabel, detail)
 	case len(g) < 2:
-		add("Fewer than two groups of %s have %d rows or more (the smallest size compared, %s), so the groups were not compared.", f.groupLabel(), f.th.ReversalMinGroup, OwnChoice)
+		add("Fewer than two groups of %s have %d rows or more (the smallest size compared, %s) and a line of their own (x varying), so the groups were not compared.", f.groupLabel(), f.th.ReversalMinGroup, OwnChoice)
 	case out.Reversal:
 		add("Within groups of %s the direction reverses: pooled, %s %s with %s, but %s (%s). The pooled relationship comes from differences between the groups.",
 			f.groupLabel(), f.yLabel, map[bool]string{true: "rises", false: "falls"}[f.rdir == "positive"], f.xLabel, f.reversalCount(), detail)

@@ -234,8 +234,8 @@ func (f *facts) formWhy(out *report.Findings) string {
 		}
 		if q := f.quad; q != nil && q.R2.Valid() && f.exact {
 			// The line exact to rounding (analysis.compareFits): the x²
-			// term's t reads that rounding.
-			w += fmt.Sprintf(" (x² term %s; the line fits to the rounding of the numbers, so no bend can be told from it)", f.screenP(checkCurvature, f.quadP()))
+			// term's t and p read that rounding, so neither is given.
+			w += " (the line fits to the rounding of the numbers, so no bend can be told from it)"
 		} else if q != nil && q.R2.Valid() {
 			l, c := corrPair(lineR2, float64(q.R2))
 			// What a curve needs is stated once with the rules.

@@ -666,7 +666,8 @@ type Findings struct {
 	ExplainedBy []string `json:"explained_by"`
 
 	// Lines says whether one line serves all levels of the group: "" without
-	// a group; "untested" when fewer than two levels can be compared;
+	// a group; "untested" when fewer than two levels can be compared, or
+	// when the lines within them leave no scatter (the F tests undefined);
 	// "one-line" when the test that one line serves all levels
 	// (GroupLines.LinesP) is not below alpha; "parallel" when it is but the
 	// slopes do not differ clearly (SlopesP not below alpha: the levels are
@@ -676,7 +677,9 @@ type Findings struct {
 	// within levels shows, in the order it shows them, where the study has
 	// more levels than a reader can take in (findings.LevelsShownMax);
 	// LevelsShownWhy says which they are. Both empty when every level is
-	// shown. Every level's line stays in Groups.
+	// shown; LevelsShown empty with LevelsShownWhy set when no level has
+	// a line of its own (the table is then left out). Every level's line
+	// stays in Groups.
 	LevelsShown    []string `json:"levels_shown,omitempty"`
 	LevelsShownWhy string   `json:"levels_shown_why,omitempty"`
 	// Autocorrelated: with a run order, the line's residuals hang together

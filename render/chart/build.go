@@ -191,12 +191,18 @@ func markNames(m []Mark) string {
 	return fmt.Sprintf("%d named rows are circled; the first %d are labelled: %s.", len(m), len(names), strings.Join(names, ", "))
 }
 
+// denseNote says why a chart draws density cells: more rows than
+// DensityAbove, or (a study left in the database below that, with a
+// max_rows set lower) rows that were never fetched one by one.
 func denseNote(n, marked int) string {
-	if marked == 0 {
-		return fmt.Sprintf(" With %d rows, more than %d, the points are drawn as density cells (darker cells hold more rows); no row is named.", n, DensityAbove)
+	why := fmt.Sprintf("With %d rows, more than %d,", n, DensityAbove)
+	if n <= DensityAbove {
+		why = fmt.Sprintf("The %d rows stayed in the database, so", n)
 	}
-	return fmt.Sprintf(" With %d rows, more than %d, the points are drawn as density cells (darker cells hold more rows); the %d named rows are drawn individually on top.",
-		n, DensityAbove, marked)
+	if marked == 0 {
+		return fmt.Sprintf(" %s the points are drawn as density cells (darker cells hold more rows); no row is named.", why)
+	}
+	return fmt.Sprintf(" %s the points are drawn as density cells (darker cells hold more rows); the %d named rows are drawn individually on top.", why, marked)
 }
 
 func pickXY(q report.PlotPoint) (float64, float64)    { return q.X, q.Y }

@@ -368,7 +368,13 @@ func TestDenseNoteNoneNamed(t *testing.T) {
 	if got := denseNote(1000000, 0); strings.Contains(got, "0 named") || !strings.Contains(got, "no row is named") {
 		t.Errorf("denseNote(1000000, 0) = %q", got)
 	}
-	if got := denseNote(1000000, 3); !strings.Contains(got, "the 3 named rows are drawn individually") {
+	if got := denseNote(1000000, 3); !strings.Contains(got, "the 3 named rows are drawn individually") || !strings.Contains(got, "With 1000000 rows, more than 3000") {
 		t.Errorf("denseNote(1000000, 3) = %q", got)
+	}
+	// A study left in the database with max_rows = 100 draws its 200 rows
+	// as density cells too (no row is fetched one by one): the caption
+	// said "With 200 rows, more than 3000".
+	if got := denseNote(200, 13); strings.Contains(got, "more than") || !strings.Contains(got, "stayed in the database") {
+		t.Errorf("denseNote(200, 13) = %q", got)
 	}
 }

@@ -54,14 +54,14 @@ func TestExactLineLimitAndForm(t *testing.T) {
 // ends (the 200 rows of y = 3 − 7·0.1·x gave −1 without row 1 and
 // −0.9999999999999999, the next float64 towards 0, without row 3, y
 // computed in float64 left to right, 7·0.1 first; corrPair
-// prints both −1.000000000000000), the rows at the ends are picked by
+// prints both −1.00000000), the rows at the ends are picked by
 // rounding: the statement names none, where it named rows 1 and 3.
 func TestLeaveOneOutAlike(t *testing.T) {
 	s := study(-0.99, 1e-12)
 	s.Sensitivity.LooRMin, s.Sensitivity.LooRMax = -1, fl(math.Nextafter(-1, 0))
 	s.Sensitivity.LooRMinRow, s.Sensitivity.LooRMaxRow = "1", "3"
 	all := strings.Join(Assess(s, ctx).Statements, "\n")
-	if strings.Contains(all, "without row") || !strings.Contains(all, "r is -1.000000000000000 whichever row is left out") {
+	if strings.Contains(all, "without row") || !strings.Contains(all, "r is -1.00000000 whichever row is left out") {
 		t.Errorf("r alike at both ends: statements:\n%s", all)
 	}
 	s.Sensitivity.LooRMax = -0.98

@@ -195,3 +195,28 @@ func TestPushdownGroupExactLine(t *testing.T) {
 		}
 	}
 }
+
+// Rows exactly on y = 3 − 0.7·x in decimal arithmetic, y computed by the
+// server in double precision (3 − 7·0.1·i): the line leaves only
+// rounding, and in memory stats.NewLineInfluence takes its RSS, at or
+// below (16ε)²·Σy², for an exact fit that flags no row an outlier.
+// Pushed down, the third pass flagged 13 rows outliers, with studentized
+// residuals of −7.6 read from that rounding, and the headline named them
+// (from an independent review).
+func TestPushdownExactLineNoOutliers(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdexact",
+		`CREATE TABLE pdexact AS SELECT i AS id, i::float8 AS x, (3 - 7 * 0.1::float8 * i)::float8 AS y, (i * 37 % 201)::float8 AS o FROM generate_series(1, 200) i`)
+	mem, pushed := runBothDecl(t, url, table("pdexact"), "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\norder = \"o\"\n", 100)
+	m, p := mem.Studies[0], pushed.Studies[0]
+	bothRan(t, m, p)
+	if !m.Line.ExactToRounding || !p.Line.ExactToRounding {
+		t.Fatalf("exact to rounding: in memory %v, pushed %v; want both", m.Line.ExactToRounding, p.Line.ExactToRounding)
+	}
+	if m.Influence.Counts != p.Influence.Counts || p.Influence.Counts.Outlier != 0 {
+		t.Errorf("flags pushed %+v, in memory %+v; want no outlier in either", p.Influence.Counts, m.Influence.Counts)
+	}
+	if p.Findings.Headline != m.Findings.Headline {
+		t.Errorf("headline pushed %q, in memory %q", p.Findings.Headline, m.Findings.Headline)
+	}
+}

@@ -1540,7 +1540,11 @@ func (p *Prepared) flaggedSQL(f Fit) (src, fl, isSuspect, s2 string) {
 	k1, k2 := math.Inf(1), math.Inf(1)
 	// With n ≤ 3 the deleted residual's SD has no degree of freedom: t is
 	// undefined (NULL here, NaN in memory) and flags no row an outlier.
-	if c := f.Outlier; !math.IsInf(c, 1) && !math.IsNaN(c) && f.N > 3 {
+	// A line exact to rounding (S NaN, as stats.NewLineInfluence leaves
+	// it in memory) leaves residuals that are rounding: no row is an
+	// outlier by them (from an independent review: 13 rows of y = 3 −
+	// 7·0.1·x were flagged with t of −7.6).
+	if c := f.Outlier; !math.IsInf(c, 1) && !math.IsNaN(c) && f.N > 3 && !math.IsNaN(f.S) {
 		k1 = c * c * f.RSS / (nf - 3 + c*c)
 	}
 	if c := f.Cooks; !math.IsInf(c, 1) && !math.IsNaN(c) {
@@ -1550,7 +1554,7 @@ func (p *Prepared) flaggedSQL(f Fit) (src, fl, isSuspect, s2 string) {
 	d := "(omh > 0 AND (e * e) * h > " + cutLit(k2) + " * (omh * omh))"
 	ri := f.studentized("e", "omh")
 	s2 = "CAST(NULL AS double precision)"
-	if f.N > 3 {
+	if f.N > 3 && !math.IsNaN(f.S) {
 		s2 = "greatest(0, (" + lit(f.RSS) + " - e * e / nullif(omh, 0)) / " + lit(nf-3) + ")"
 	}
 	// The row-wise measures each row needs, once per row (see fence),

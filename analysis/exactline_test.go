@@ -94,3 +94,34 @@ func TestExactLineNoResidualChecks(t *testing.T) {
 		}
 	}
 }
+
+// Eight settings of x, each run three times, and y the same in every
+// repeat of a setting (y = s² mod 7 + 2s, off any line): no scatter
+// among repeats is left for the lack-of-fit test's pure error (its
+// definition: the repeats' sum of squares about their own means, e.g.
+// Draper & Smith, Applied Regression Analysis, 3rd ed. 1998, §2.1, from
+// memory), so the test is not made. The report said "none repeated"
+// though x repeats; results.json now says why (no_pure_error) and the
+// summary's table says "Not tested: every repeat alike".
+func TestLackOfFitNoPureError(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("x,y\n")
+	for s := 1; s <= 8; s++ {
+		for range 3 {
+			b.WriteString(strconv.Itoa(s) + "," + strconv.Itoa(s*s%7+2*s) + "\n")
+		}
+	}
+	st := studyCSV(t, b.String())
+	lf := st.Diagnostics.LackOfFit
+	if lf == nil || !lf.NoPureError || lf.DF1 != 6 || lf.DF2 != 16 || lf.P.Valid() {
+		t.Fatalf("lack of fit %+v; want no pure error on 6 and 16 df, no p", lf)
+	}
+	for _, c := range st.Findings.Checks {
+		if c.Name == "lack-of-fit" {
+			t.Errorf("a lack-of-fit check ran without pure error: %+v", c)
+		}
+	}
+	if !strings.Contains(strings.Join(st.Findings.Statements, "\n"), "lack of fit is not tested") {
+		t.Errorf("no statement says why lack of fit was not tested:\n%s", strings.Join(st.Findings.Statements, "\n"))
+	}
+}

@@ -204,8 +204,8 @@ func diagnostics(x, y []float64, smp rowSample, ps *stats.Sorted, line stats.Lin
 	// hundred levels says little. So it is reported only when the levels
 	// of x are at most half the rows (each level holds two rows on
 	// average); levels = df1 + 2.
-	if f, df1, df2, p, ok := ps.LackOfFit(line.Slope.Estimate); ok && 2*(df1+2) <= ps.Len() {
-		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(p)}
+	if f, df1, df2, p, ok := ps.LackOfFit(line.Slope.Estimate); df1 > 0 && 2*(df1+2) <= ps.Len() {
+		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(p), NoPureError: !ok}
 	}
 	dc, p, mcse, perms, used, resolved, method := dcorTestSample(x, y, smp, cfg.Alpha, cfg.DcorPerms, cfg.DcorMaxN)
 	d.DistanceCorr = &report.DistanceCorr{DCor: report.Float(dc), P: report.Float(p), Permutations: perms,

@@ -1140,9 +1140,13 @@ func pushedLackOfFit(p *dataset.Prepared, fit dataset.Fit, sample []dataset.Samp
 	}
 	exact("lack-of-fit test")
 	df1, df2 := m-2, n-m
-	if df1 > 0 && df2 > 0 && pe > 0 && 2*m <= n {
+	switch {
+	case df1 <= 0 || df2 <= 0 || 2*m > n:
+	case pe > 0:
 		f := (lof / float64(df1)) / (pe / float64(df2))
 		d.LackOfFit = &report.LackOfFit{F: report.Float(f), DF1: df1, DF2: df2, P: report.Float(stats.UpperF(f, float64(df1), float64(df2)))}
+	default: // every repeat alike, as stats.LackOfFit
+		d.LackOfFit = &report.LackOfFit{F: report.NaN(), DF1: df1, DF2: df2, P: report.NaN(), NoPureError: true}
 	}
 	return nil
 }

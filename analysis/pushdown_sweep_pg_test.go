@@ -220,3 +220,20 @@ func TestPushdownExactLineNoOutliers(t *testing.T) {
 		t.Errorf("headline pushed %q, in memory %q", p.Findings.Headline, m.Findings.Headline)
 	}
 }
+
+// Eight settings of x run three times each, y the same in every repeat
+// (as TestLackOfFitNoPureError in memory): pushed down the lack-of-fit
+// test was left out without a word; both paths now say it has no pure
+// error, on the same degrees of freedom.
+func TestPushdownLackOfFitNoPureError(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdnope",
+		`CREATE TABLE pdnope AS SELECT i AS id, (1 + i % 8)::float8 AS x, ((1 + i % 8) * (1 + i % 8) % 7 + 2 * (1 + i % 8))::float8 AS y FROM generate_series(1, 24) i`)
+	mem, pushed := runBothDecl(t, url, table("pdnope"), "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n", 5)
+	m, p := mem.Studies[0], pushed.Studies[0]
+	bothRan(t, m, p)
+	ml, pl := m.Diagnostics.LackOfFit, p.Diagnostics.LackOfFit
+	if ml == nil || pl == nil || !ml.NoPureError || !pl.NoPureError || ml.DF1 != pl.DF1 || ml.DF2 != pl.DF2 {
+		t.Errorf("lack of fit in memory %+v, pushed %+v; want no pure error in both, on the same df", ml, pl)
+	}
+}

@@ -181,3 +181,25 @@ func TestLeaveOneOutAlikeRendered(t *testing.T) {
 		}
 	}
 }
+
+// TestLackOfFitNoPureErrorRendered: where every repeat of a setting gave
+// the same y (report.LackOfFit.NoPureError), the summary's lack-of-fit
+// column says the test was not made and why, not "none repeated".
+func TestLackOfFitNoPureErrorRendered(t *testing.T) {
+	r := fixture.Report(fixture.Options{N: 60})
+	s := &r.Studies[0]
+	s.Diagnostics.LackOfFit = &report.LackOfFit{F: report.NaN(), DF1: 6, DF2: 16, P: report.NaN(), NoPureError: true}
+	var kept []report.Check
+	for _, c := range s.Findings.Checks {
+		if c.Name != "lack-of-fit" {
+			kept = append(kept, c)
+		}
+	}
+	s.Findings.Checks = kept
+	md, page := renderBoth(t, r)
+	for name, out := range map[string]string{"markdown": md.String(), "html": page.String()} {
+		if !strings.Contains(out, "Not tested: every repeat alike") {
+			t.Errorf("%s: the lack-of-fit column does not say the repeats were alike", name)
+		}
+	}
+}

@@ -998,6 +998,8 @@ func checksTable(studies []report.Study, anchors []string) table {
 		}
 		if c := checkOf(s, "lack-of-fit"); c != nil {
 			row[2] = answer(c.Raised, c.PAdjusted)
+		} else if lf := d.LackOfFit; lf != nil && lf.NoPureError {
+			row[2] = "Not tested: every repeat alike"
 		}
 		if dc := d.DistanceCorr; dc != nil {
 			// Yes where the findings read a dependence the line misses:

@@ -1159,6 +1159,10 @@ func (f *facts) formStatements(out *report.Findings, add func(string, ...any)) {
 		add("Where %s repeats, the means of the repeated settings scatter about the line more than repeat runs scatter about their own mean (lack-of-fit F = %s on %d and %d df, %s): the line summarises the trend but does not pass through every setting's mean.",
 			x, num(float64(lf.F)), lf.DF1, lf.DF2, f.screenP(checkLackOfFit, float64(lf.P)))
 	}
+	if d := s.Diagnostics; d != nil && d.LackOfFit != nil && d.LackOfFit.NoPureError && !f.exact {
+		add("Where %s repeats (%d settings), %s takes one value in every repeat, so no scatter among repeats is left to weigh the settings' means against: lack of fit is not tested.",
+			x, d.LackOfFit.DF1+2, f.yLabel)
+	}
 }
 
 // dcorP writes the distance correlation's permutation p with its Monte

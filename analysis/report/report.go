@@ -430,6 +430,10 @@ type LackOfFit struct {
 	DF1 int   `json:"df1"`
 	DF2 int   `json:"df2"`
 	P   Float `json:"p"`
+	// NoPureError: x repeats as the test needs, but y takes one value in
+	// every repeat, so there is no scatter among repeats to weigh the
+	// settings' means against: F and P are NaN and the test is not made.
+	NoPureError bool `json:"no_pure_error,omitempty"`
 }
 
 // DistanceCorr is Székely's distance correlation with a permutation p.

@@ -32,7 +32,8 @@ import (
 // ok is false, and the other results are zero or NaN, when the test does
 // not exist: x has no replicates (m = n, df2 = 0), fewer than three distinct
 // x (df1 ≤ 0), x constant, a value not finite, or no pure error at all
-// (SS_PE = 0, every replicate identical, so F is undefined). x and y must
+// (SS_PE = 0, every replicate identical, so F is undefined; then alone df1
+// and df2 are returned, both positive, with f and p NaN). x and y must
 // have equal length (it panics otherwise).
 func LackOfFit(x, y []float64) (f float64, df1, df2 int, p float64, ok bool) {
 	if len(x) != len(y) {
@@ -103,8 +104,11 @@ func lackOfFitSorted(x, y []float64, b1 float64, mp *meanPair) (f float64, df1, 
 		lo = hi
 	}
 	df1, df2 = m-2, n-m
-	if df1 <= 0 || df2 <= 0 || !(ssPE > 0) {
+	if df1 <= 0 || df2 <= 0 {
 		return nan, 0, 0, nan, false
+	}
+	if !(ssPE > 0) {
+		return nan, df1, df2, nan, false
 	}
 	f = (ssLOF / float64(df1)) / (ssPE / float64(df2))
 	return f, df1, df2, UpperF(f, float64(df1), float64(df2)), true

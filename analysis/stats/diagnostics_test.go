@@ -139,9 +139,11 @@ func TestLackOfFit(t *testing.T) {
 				t.Errorf("LackOfFit(%s) = %v, ok %v; want NaN, false", name, f, ok)
 			}
 		}
-		// Replicates identical: no pure error.
-		if _, _, _, _, ok := LackOfFit([]float64{1, 1, 2, 2, 3, 3}, []float64{1, 1, 4, 4, 9, 9}); ok {
-			t.Error("LackOfFit(no pure error): ok, want false")
+		// Replicates identical: no pure error. The degrees of freedom are
+		// still given (m − 2 = 1, n − m = 3), so that a caller can say the
+		// test was not made for that reason and not for want of repeats.
+		if f, df1, df2, p, ok := LackOfFit([]float64{1, 1, 2, 2, 3, 3}, []float64{1, 1, 4, 4, 9, 9}); ok || df1 != 1 || df2 != 3 || !math.IsNaN(f) || !math.IsNaN(p) {
+			t.Errorf("LackOfFit(no pure error) = %v, %d, %d, %v, %v; want NaN, 1, 3, NaN, false", f, df1, df2, p, ok)
 		}
 		if !extraPanics(func() { LackOfFit([]float64{1, 2}, []float64{1}) }) {
 			t.Error("LackOfFit: no panic on length mismatch")

@@ -67,11 +67,7 @@ func TestApproximationsOneMethod(t *testing.T) {
 // (Findings.LevelsShown), the table of the lines within levels holds
 // those, in that order, under the findings' caption, in both formats.
 func TestLevelsShown(t *testing.T) {
-	r := fixture.Report(fixture.Options{N: 60})
-	s := &r.Studies[0]
-	if len(s.Groups) != 3 || s.Findings == nil {
-		t.Fatal("the fixture's first study no longer has three levels and findings")
-	}
+	r, s := levelsFixture(t)
 	s.Findings.LevelsShown = []string{"lot C", "lot B"}
 	s.Findings.LevelsShownWhy = "The line within 2 of the 3 levels of lot, chosen for this test"
 	md, page := renderBoth(t, r)
@@ -134,11 +130,7 @@ func TestExactLineRendered(t *testing.T) {
 // within levels; a table of n/a rows (30 of them for 30 lots with x
 // constant within each) said nothing more.
 func TestLevelsShownNone(t *testing.T) {
-	r := fixture.Report(fixture.Options{N: 60})
-	s := &r.Studies[0]
-	if len(s.Groups) != 3 || s.Findings == nil {
-		t.Fatal("the fixture's first study no longer has three levels and findings")
-	}
+	r, s := levelsFixture(t)
 	for i := range s.Groups {
 		s.Groups[i].Slope, s.Groups[i].SlopeLow, s.Groups[i].SlopeHigh = report.NaN(), report.NaN(), report.NaN()
 	}
@@ -202,4 +194,16 @@ func TestLackOfFitNoPureErrorRendered(t *testing.T) {
 			t.Errorf("%s: the lack-of-fit column does not say the repeats were alike", name)
 		}
 	}
+}
+
+// levelsFixture is the fixture's report and its first study, which has
+// three levels of lot and findings.
+func levelsFixture(t *testing.T) (*report.Report, *report.Study) {
+	t.Helper()
+	r := fixture.Report(fixture.Options{N: 60})
+	s := &r.Studies[0]
+	if len(s.Groups) != 3 || s.Findings == nil {
+		t.Fatal("the fixture's first study no longer has three levels and findings")
+	}
+	return r, s
 }

@@ -417,8 +417,12 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 			c.nums.add(math.NaN())
 			return
 		}
-		v, err := strconv.ParseFloat(string(b), 64)
-		if err == nil && !math.IsInf(v, 0) && !math.IsNaN(v) {
+		// The rules of a CSV cell with a decimal point: a number's text as
+		// a spreadsheet program writes it passes, and so does text typed
+		// as a number; not "NaN", "Inf", hexadecimal ("0x1p3", which
+		// strconv.ParseFloat would read as 8) or digit separators.
+		v, _, st := parseNumber(string(b), '.')
+		if st == numOK {
 			c.nums.add(v)
 			return
 		}
@@ -429,8 +433,11 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 		}
 		if c.firstNon == nil {
 			s := string(b)
-			c.firstNon = &Error{File: w.path, Sheet: t.Sheet, Cell: cellRef(c.index, t.HeaderRow+1+r), Column: c.name, Text: cellText(s),
-				Msg: quoteCell(s) + ` is not a number; correct the cell (a number stored as text with units or separators shows this), add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}
+			msg := quoteCell(s) + ` is not a number; correct the cell (a number stored as text with units or separators shows this), add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`
+			if st == numOutOfRange {
+				msg = outOfRangeMsg(s)
+			}
+			c.firstNon = &Error{File: w.path, Sheet: t.Sheet, Cell: cellRef(c.index, t.HeaderRow+1+r), Column: c.name, Text: cellText(s), Msg: msg}
 		} else {
 			c.nNon++
 		}

@@ -305,3 +305,44 @@ func TestCellRefAsExcelize(t *testing.T) {
 		}
 	}
 }
+
+// Text cells in a numeric column read by the rules of a CSV cell. The
+// cells are stored as text (excelize writes a Go string as a shared
+// string); openpyxl 3.0.9 (load_workbook(path, data_only=True)) reads each
+// back as that Python str, and Python's float() refuses "0x1p3" and
+// "Inf". strconv.ParseFloat, which read such cells before, took "0x1p3"
+// as the hexadecimal float 8 and reported "1e400" as not a number rather
+// than out of range.
+func TestReadWorkbookTextNumbers(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		cell string
+		want float64 // NaN: not a number
+		msg  string  // part of the error when not a number
+	}{
+		{" 7 ", 7, ""},
+		{".5", 0.5, ""},
+		{"+5", 5, ""},
+		{"-2.5E-3", -0.0025, ""},
+		{"0x1p3", math.NaN(), `"0x1p3" is not a number`},
+		{"0X10P0", math.NaN(), `"0X10P0" is not a number`},
+		{"Inf", math.NaN(), `"Inf" is not a number`},
+		{"1e400", math.NaN(), `"1e400" is out of range`},
+	} {
+		path := writeBook(t, []string{"S"}, [][][]any{{{"x"}, {1.0}, {tc.cell}}}, nil)
+		tb, err := ReadWorkbook(path, SheetRef{}, 0, Options{}, []string{"x"}, nil)
+		if math.IsNaN(tc.want) {
+			if err == nil || !strings.Contains(err.Error(), tc.msg) || !strings.Contains(err.Error(), "cell A3") {
+				t.Errorf("%q: got %v, want an error at cell A3 containing %q", tc.cell, err, tc.msg)
+			}
+			tb, err = ReadWorkbook(path, SheetRef{}, 0, Options{NonNumericAsMissing: true}, []string{"x"}, nil)
+			if err != nil || tb.NonNumeric["x"] != 1 || !math.IsNaN(tb.Numeric["x"][1]) {
+				t.Errorf("%q with non_numeric = missing: %v, %v", tc.cell, tb, err)
+			}
+			continue
+		}
+		if err != nil || tb.Numeric["x"][1] != tc.want {
+			t.Errorf("%q: got %v, %v; want %v", tc.cell, tb, err, tc.want)
+		}
+	}
+}

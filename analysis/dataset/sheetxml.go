@@ -35,6 +35,7 @@ type sheetPackage struct {
 	maxPart uint64                  // the most bytes a part may unpack to
 	order   []string                // the sheets' names in tab order
 	sheets  map[string]string       // sheet name → worksheet part name
+	hidden  map[string]bool         // sheets whose state is hidden or veryHidden
 	merges  map[string][]mergeRange // worksheet part → its merged ranges, once read
 	sstPart string                  // "" when the workbook has no shared strings
 	sst     Strings                 // loaded on first use (Given once read)
@@ -71,7 +72,7 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 	if err != nil {
 		return nil, err
 	}
-	p := &sheetPackage{files: map[string]*zip.File{}, maxPart: maxPart, sheets: map[string]string{}, merges: map[string][]mergeRange{}}
+	p := &sheetPackage{files: map[string]*zip.File{}, maxPart: maxPart, sheets: map[string]string{}, hidden: map[string]bool{}, merges: map[string][]mergeRange{}}
 	for _, f := range zr.File {
 		p.files[strings.TrimPrefix(f.Name, "/")] = f
 	}
@@ -121,6 +122,11 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 	for _, s := range sheets.Sheets {
 		p.order = append(p.order, s.Name)
 		for _, a := range s.Attrs {
+			// state (ECMA-376 Part 1 §18.2.19, ST_SheetState §18.18.68):
+			// visible when absent.
+			if a.Name.Local == "state" && a.Name.Space == "" && (a.Value == "hidden" || a.Value == "veryHidden") {
+				p.hidden[s.Name] = true
+			}
 			// r:id, in the relationships namespace of either flavour.
 			if a.Name.Local == "id" && strings.HasSuffix(a.Name.Space, "/relationships") {
 				if t, ok := target[a.Value]; ok {

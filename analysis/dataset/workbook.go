@@ -31,7 +31,8 @@ func IsWorkbook(path string) bool {
 }
 
 // SheetRef names a workbook's sheet: by Name, or by its 1-based Number in
-// the workbook's tab order. The zero value is the first sheet.
+// the workbook's tab order (hidden sheets counted). The zero value is the
+// first worksheet that is not hidden (the first sheet, when every one is).
 type SheetRef struct {
 	Name   string
 	Number int
@@ -135,6 +136,14 @@ func (w *Workbook) sheet(ref SheetRef) (string, error) {
 	case ref.Number < 0 || ref.Number > len(w.sheets):
 		return "", &Error{File: w.path, Msg: fmt.Sprintf("sheet = %d, but the workbook has %d sheet(s) (%s): give a number from 1 to %d, or a name", ref.Number, len(w.sheets), list, len(w.sheets))}
 	case ref.Number == 0:
+		// The first sheet whose tab the workbook shows: a hidden sheet (an
+		// old copy, a lookup table) or a chart sheet before it is read
+		// only when named.
+		for _, s := range w.sheets {
+			if _, ok := w.pkg.sheets[s]; ok && !w.pkg.hidden[s] {
+				return s, nil
+			}
+		}
 		return w.sheets[0], nil
 	}
 	return w.sheets[ref.Number-1], nil

@@ -346,3 +346,35 @@ func TestReadWorkbookTextNumbers(t *testing.T) {
 		}
 	}
 }
+
+// A hidden first sheet (state="hidden", ECMA-376 Part 1 §18.2.19; excelize
+// SetSheetVisible(name, false) writes it) is not the default: the default
+// is the first sheet whose tab shows. Read before without a word, such a
+// sheet (an earlier copy of the data) gave another study than the sheet
+// in front of its author. Named or numbered, it is read.
+func TestReadWorkbookHiddenSheet(t *testing.T) {
+	t.Parallel()
+	old := [][]any{{"x", "y"}, {1, 100}, {2, 99}, {3, 98}}
+	cur := [][]any{{"x", "y"}, {1, 2}, {2, 4}, {3, 6}}
+	path := writeBook(t, []string{"Old", "Current"}, [][][]any{old, cur}, func(f *excelize.File) {
+		f.SetActiveSheet(1)
+		if err := f.SetSheetVisible("Old", false); err != nil {
+			t.Fatal(err)
+		}
+	})
+	for _, tc := range []struct {
+		ref   SheetRef
+		sheet string
+		y0    float64
+	}{
+		{SheetRef{}, "Current", 2},
+		{SheetRef{Name: "Old"}, "Old", 100},
+		{SheetRef{Number: 1}, "Old", 100},
+		{SheetRef{Number: 2}, "Current", 2},
+	} {
+		tb, err := ReadWorkbook(path, tc.ref, 0, Options{}, []string{"x", "y"}, nil)
+		if err != nil || tb.Sheet != tc.sheet || tb.Numeric["y"][0] != tc.y0 {
+			t.Errorf("%+v: got %v, %v; want sheet %q with y[0] = %v", tc.ref, tb, err, tc.sheet, tc.y0)
+		}
+	}
+}

@@ -237,6 +237,12 @@ func (h *head) parse(path string, delim rune) (more bool, err error) {
 		bom = 3
 	}
 	b := h.buf[bom:]
+	if enc := wideEncoding(h.buf); enc != "" {
+		return false, &Error{File: path, Line: 1, Msg: "the file is " + enc + " text (Excel's \"Unicode Text\" export and some database tools write it), which bivar does not read: save it as \"CSV UTF-8\", or convert it (iconv -f " + enc + " -t UTF-8)"}
+	}
+	if i, j := bytes.IndexByte(b, 0), bytes.IndexByte(b, '\n'); i >= 0 && (j < 0 || i < j) {
+		return false, &Error{File: path, Line: 1, Msg: "the header row holds NUL (zero) bytes, which a text file does not: check that this is the CSV file meant (not a zeroed or damaged file, or text in another encoding), or save it again as CSV in UTF-8"}
+	}
 	if bytes.IndexByte(b, '\n') < 0 {
 		if i := bytes.IndexByte(b, '\r'); i >= 0 && i < len(b)-1 {
 			return false, &Error{File: path, Msg: "the file uses CR-only line ends (as classic Mac OS wrote them), which bivar does not read: save it with LF or CRLF line ends"}
@@ -270,6 +276,36 @@ func (h *head) parse(path string, delim rune) (more bool, err error) {
 	return false, nil
 }
 
+// wideEncoding names the encoding of a file that starts with a UTF-16 or
+// UTF-32 byte-order mark (The Unicode Standard, §23.8, table 23-4), or
+// whose first bytes are ASCII characters each beside a NUL, as UTF-16
+// without a mark writes them; "" for any other.
+func wideEncoding(b []byte) string {
+	switch {
+	case bytes.HasPrefix(b, []byte{0xFF, 0xFE, 0, 0}):
+		return "UTF-32LE"
+	case bytes.HasPrefix(b, []byte{0, 0, 0xFE, 0xFF}):
+		return "UTF-32BE"
+	case bytes.HasPrefix(b, []byte{0xFF, 0xFE}):
+		return "UTF-16LE"
+	case bytes.HasPrefix(b, []byte{0xFE, 0xFF}):
+		return "UTF-16BE"
+	}
+	n := min(len(b), 16) &^ 1
+	le, be := n >= 4, n >= 4
+	for i := 0; i < n; i += 2 {
+		le = le && b[i] != 0 && b[i] < 0x80 && b[i+1] == 0
+		be = be && b[i] == 0 && b[i+1] != 0 && b[i+1] < 0x80
+	}
+	switch {
+	case le:
+		return "UTF-16LE"
+	case be:
+		return "UTF-16BE"
+	}
+	return ""
+}
+
 func openError(path string, err error) error {
 	msg := err.Error()
 	var pe *os.PathError
@@ -297,6 +333,8 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `: it has a decimal point, but the dataset declares decimal = ","`
 	case hasPoint && hasComma:
 		msg += `: it shows both a point and a comma; if one of them separates thousands, declare it for the dataset (thousands = "," or "."), or write the number without it`
+	case strings.IndexByte(cell, 0) >= 0:
+		msg += `: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`
 	case !utf8.ValidString(cell):
 		msg += `: it is not valid UTF-8 text; save the file as UTF-8 (an export in another encoding, such as Windows-1252, shows this)`
 	default:
@@ -713,7 +751,7 @@ func csvError(path string, err error, rec []string, want, off int) error {
 	switch {
 	case errors.Is(pe.Err, csv.ErrFieldCount):
 		e.Line = pe.StartLine + off
-		e.Msg = fieldCountMsg(len(rec), want)
+		e.Msg = fieldCountMsg(len(rec), want, strings.Join(rec, ""))
 	case errors.Is(pe.Err, csv.ErrBareQuote):
 		e.Msg = fmt.Sprintf("a double quote inside an unquoted field (character %d): put the whole field in double quotes and write the quote twice (\"\")", pe.Column)
 	case errors.Is(pe.Err, csv.ErrQuote):

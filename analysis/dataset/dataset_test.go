@@ -179,6 +179,36 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 2, Msg: `a double quote inside an unquoted field (character 5): put the whole field in double quotes and write the quote twice ("")`}},
 		{"unclosed quote", "x,y\n1,\"abc\n", Options{}, []string{"x"}, nil,
 			Error{Line: 2, Msg: `at character 8: a quoted field (in the row starting on line 2) is not closed, or holds a quote not written twice ("")`}},
+		// The bytes of Python 3.11's "x,y\n1,2\n".encode(e) for e = "utf-16"
+		// (little-endian with its mark), "utf-16-be", "utf-16-le" (no
+		// mark) and "utf-32". They read before as a header of mangled
+		// names and a data row of "1 field", on the last line.
+		{"UTF-16 with its mark", "\xff\xfex\x00,\x00y\x00\n\x001\x00,\x002\x00\n\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is UTF-16LE text (Excel's "Unicode Text" export and some database tools write it), which bivar does not read: save it as "CSV UTF-8", or convert it (iconv -f UTF-16LE -t UTF-8)`}},
+		{"UTF-16BE without its mark", "\x00x\x00,\x00y\x00\n\x001\x00,\x002\x00\n", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is UTF-16BE text (Excel's "Unicode Text" export and some database tools write it), which bivar does not read: save it as "CSV UTF-8", or convert it (iconv -f UTF-16BE -t UTF-8)`}},
+		{"UTF-16LE without its mark", "x\x00,\x00y\x00\n\x001\x00,\x002\x00\n\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is UTF-16LE text (Excel's "Unicode Text" export and some database tools write it), which bivar does not read: save it as "CSV UTF-8", or convert it (iconv -f UTF-16LE -t UTF-8)`}},
+		{"UTF-32", "\xff\xfe\x00\x00x\x00\x00\x00,\x00\x00\x00y\x00\x00\x00\n\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is UTF-32LE text (Excel's "Unicode Text" export and some database tools write it), which bivar does not read: save it as "CSV UTF-8", or convert it (iconv -f UTF-32LE -t UTF-8)`}},
+		{"zeroed file", "\x00\x00\x00\x00\x00\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the header row holds NUL (zero) bytes, which a text file does not: check that this is the CSV file meant (not a zeroed or damaged file, or text in another encoding), or save it again as CSV in UTF-8`}},
+		// A file padded with zero bytes after its last line (a write cut
+		// short by a crash): they read before as a row of "1 field" whose
+		// message sent the user looking for a delimiter.
+		{"NUL padding", "x,y\n1,2\n\x00\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `this row has 1 field but the header has 2: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`}},
+		{"NUL padding in a quoted file", "x,y\n1,\"a\"\"b\"\n\x00\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `this row has 1 field but the header has 2: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`}},
+		{"NUL in a cell", "x,y\n1,2\n3\x00\x00,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "3\x00\x00", Msg: `"3\x00\x00" is not a number: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`}},
+		// LF line ends, then CR-only ones from line 3: Python's csv module
+		// (3.11, newline="") ends a row at either and reads rows 1,2 3,4
+		// 5,6; encoding/csv keeps a lone CR in the field, one long row.
+		{"CR-only line ends after LF ones", "x,y\n1,2\n3,4\r5,6\r", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `this row has 3 fields but the header has 2: it holds a carriage return (CR) that ends no line, so from here on the file may use CR-only line ends (as classic Mac OS wrote them), or two files were joined; save it with LF or CRLF line ends`}},
+		{"CR-only line ends after LF ones, quoted", "x,y\n1,\"a\"\"b\"\n3,4\r5,6\r", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `this row has 3 fields but the header has 2: it holds a carriage return (CR) that ends no line, so from here on the file may use CR-only line ends (as classic Mac OS wrote them), or two files were joined; save it with LF or CRLF line ends`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

@@ -582,7 +582,7 @@ func (p *part) parsePlain(cfg *config, data []byte, line int) bool {
 			continue
 		}
 		if nf := bytes.Count(rec, []byte{delim}) + 1; nf != cfg.fields {
-			p.err = &Error{File: cfg.path, Line: ln, Msg: fieldCountMsg(nf, cfg.fields)}
+			p.err = &Error{File: cfg.path, Line: ln, Msg: fieldCountMsg(nf, cfg.fields, string(rec))}
 			return true
 		}
 		p.rows++
@@ -961,8 +961,19 @@ func rowTooLong(path string, line int) error {
 	return &Error{File: path, Line: line, Msg: fmt.Sprintf("the row starting on this line is longer than %s, the longest row bivar reads: check that the file is CSV with one row per line and that every double quote is closed", bytesText(MaxRowBytes))}
 }
 
-func fieldCountMsg(got, want int) string {
-	return fmt.Sprintf("this row has %s but the header has %d: look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes", fieldCount(got), want)
+// fieldCountMsg explains a row of got fields where the header has want;
+// row is the row's text (its fields, when only they are known), whose
+// NUL bytes or carriage returns that end no line point at a cause other
+// than a delimiter.
+func fieldCountMsg(got, want int, row string) string {
+	msg := fmt.Sprintf("this row has %s but the header has %d", fieldCount(got), want)
+	switch {
+	case strings.IndexByte(row, 0) >= 0:
+		return msg + ": it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8"
+	case strings.IndexByte(row, '\r') >= 0:
+		return msg + ": it holds a carriage return (CR) that ends no line, so from here on the file may use CR-only line ends (as classic Mac OS wrote them), or two files were joined; save it with LF or CRLF line ends"
+	}
+	return msg + ": look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes"
 }
 
 func levelsError(cfg *config, c *column, s string, line int) error {

@@ -31,14 +31,15 @@ import (
 // sheetPackage locates the parts of an .xlsx package: each sheet's
 // worksheet part and the shared string table.
 type sheetPackage struct {
-	files   map[string]*zip.File    // by part name, without the leading "/"
-	maxPart uint64                  // the most bytes a part may unpack to
-	order   []string                // the sheets' names in tab order
-	sheets  map[string]string       // sheet name → worksheet part name
-	hidden  map[string]bool         // sheets whose state is hidden or veryHidden
-	merges  map[string][]mergeRange // worksheet part → its merged ranges, once read
-	sstPart string                  // "" when the workbook has no shared strings
-	sst     Strings                 // loaded on first use (Given once read)
+	files    map[string]*zip.File    // by part name, without the leading "/"
+	maxPart  uint64                  // the most bytes a part may unpack to
+	order    []string                // the sheets' names in tab order
+	sheets   map[string]string       // sheet name → worksheet part name
+	hidden   map[string]bool         // sheets whose state is hidden or veryHidden
+	date1904 bool                    // serial numbers count days from 1904-01-01
+	merges   map[string][]mergeRange // worksheet part → its merged ranges, once read
+	sstPart  string                  // "" when the workbook has no shared strings
+	sst      Strings                 // loaded on first use (Given once read)
 }
 
 // Relationship types (ECMA-376 Part 1 §15.2; the transitional and the
@@ -59,6 +60,9 @@ type opcRelationships struct {
 }
 
 type workbookSheets struct {
+	Pr struct {
+		Date1904 string `xml:"date1904,attr"`
+	} `xml:"workbookPr"`
 	Sheets []struct {
 		Name  string     `xml:"name,attr"`
 		Attrs []xml.Attr `xml:",any,attr"`
@@ -94,6 +98,7 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 	if err := p.decode(wb, &sheets); err != nil {
 		return nil, err
 	}
+	p.date1904 = sheets.Pr.Date1904 == "1" || sheets.Pr.Date1904 == "true"
 	dir := path.Dir(wb)
 	wbRels, err := p.rels(path.Join(dir, "_rels", path.Base(wb)+".rels"))
 	if err != nil {
@@ -417,8 +422,9 @@ func isNameEnd(b byte) bool {
 // sheetCell is one cell of a row: its 0-based column and its value as
 // the file stores it (see rows).
 type sheetCell struct {
-	col int
-	v   []byte
+	col  int
+	v    []byte
+	date bool // t="d": v is a date, a time or both in ISO 8601 (§18.17.4)
 }
 
 // rowFunc receives one row element: its 1-based row number and its cells
@@ -566,7 +572,7 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 				}
 				if len(arena) > vStart { // a cell without a value is left out
 					spans = append(spans, [2]int{vStart, len(arena)})
-					cells = append(cells, sheetCell{col: col})
+					cells = append(cells, sheetCell{col: col, date: string(typ) == "d"})
 				}
 			case "v":
 				inV = false

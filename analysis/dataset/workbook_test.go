@@ -378,3 +378,55 @@ func TestReadWorkbookHiddenSheet(t *testing.T) {
 		}
 	}
 }
+
+// Date cells stored as ISO 8601 text (t="d", ECMA-376 Part 1 §18.17.4;
+// openpyxl writes them with Workbook(iso_dates=True)) read as the serial
+// numbers a number cell holding them stores, in the workbook's date
+// system. They were "not a number" before. Expected values: openpyxl
+// 3.0.9, load_workbook(path, data_only=True) of the same parts, then
+// openpyxl.utils.datetime.to_excel(value, wb.epoch) of each cell.
+func TestReadWorkbookISODates(t *testing.T) {
+	t.Parallel()
+	cells := []string{"2026-10-01T08:30:00", "2026-10-01", "08:30:00", "1900-02-28T12:00:00", "1900-03-01",
+		"2026-10-01T08:30:00.5", "2026-10-01T08:30:00Z", "1899-12-29T18:00:00"}
+	sheet := `<sheetData><row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c></row>`
+	for i, c := range cells {
+		sheet += fmt.Sprintf(`<row r="%d"><c r="A%[1]d" t="d"><v>%s</v></c></row>`, i+2, c)
+	}
+	sheet += `</sheetData></worksheet>`
+	for _, tc := range []struct {
+		pr   string
+		want []float64
+	}{
+		{"", []float64{46296.354166666664, 46296.0, 0.3541666666666667, 59.5, 61.0, 46296.354172453706, 46296.354166666664, -0.25}},
+		{`<workbookPr date1904="1"/>`, []float64{44834.354166666664, 44834.0, 0.3541666666666667, -1401.5, -1401.0, 44834.354172453706, 44834.354166666664, -1462.25}},
+	} {
+		path := zipParts(t, map[string]string{
+			"_rels/.rels": `<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+				`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="xl/workbook.xml"/></Relationships>`,
+			"xl/_rels/workbook.xml.rels": `<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+				`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/worksheet" Target="worksheets/sheet1.xml"/></Relationships>`,
+			"xl/workbook.xml": `<?xml version="1.0" encoding="UTF-8"?><workbook xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main" ` +
+				`xmlns:r="http://schemas.openxmlformats.org/officeDocument/2006/relationships">` + tc.pr + `<sheets><sheet name="S" sheetId="1" r:id="rId1"/></sheets></workbook>`,
+			"xl/worksheets/sheet1.xml": `<?xml version="1.0" encoding="UTF-8"?><worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">` + sheet,
+		})
+		tb, err := ReadWorkbook(path, SheetRef{}, 0, Options{}, []string{"x"}, []string{"x"})
+		if err != nil {
+			t.Fatalf("%s: %v", tc.pr, err)
+		}
+		// Python's float repr reads back as the same double: equal to the
+		// last bit.
+		if !closeFloats(tb.Numeric["x"], tc.want, 0) {
+			t.Errorf("%s: got %v, want %v", tc.pr, tb.Numeric["x"], tc.want)
+		}
+		// As text (a row name, a group), the cell keeps what it shows.
+		if got := tb.Text["x"].At(0); got != cells[0] {
+			t.Errorf("%s: text %q, want %q", tc.pr, got, cells[0])
+		}
+	}
+	// A date cell whose text is no date is not a number, named by cell.
+	path := handBook(t, `<sheetData><row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c></row><row r="2"><c r="A2" t="d"><v>2026-13-01</v></c></row></sheetData></worksheet>`, "", false)
+	if _, err := ReadWorkbook(path, SheetRef{}, 0, Options{}, []string{"x"}, nil); err == nil || !strings.Contains(err.Error(), `cell A2: column "x": "2026-13-01" is not a number`) {
+		t.Errorf("month 13: got %v", err)
+	}
+}

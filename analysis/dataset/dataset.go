@@ -333,6 +333,10 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `: it has a decimal point, but the dataset declares decimal = ","`
 	case hasPoint && hasComma:
 		msg += `: it shows both a point and a comma; if one of them separates thousands, declare it for the dataset (thousands = "," or "."), or write the number without it`
+	case otherMinus(cell) != "":
+		msg += otherMinus(cell)
+	case strings.Count(cell, ".") > 1 && !hasComma && opts.Thousands == 0:
+		msg += `: it has more than one point; if the points separate thousands (1.234.567), declare thousands = "." for the dataset`
 	case strings.IndexByte(cell, 0) >= 0:
 		msg += `: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`
 	case !utf8.ValidString(cell):
@@ -341,6 +345,26 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`
 	}
 	return msg
+}
+
+// otherMinus explains a cell that starts, after any spaces, with a dash
+// that is not the ASCII hyphen-minus a number's sign must be: the minus
+// sign U+2212 (which locales such as Swedish and Finnish format numbers
+// with, and word processors put in), the figure dash U+2012 or the en
+// dash U+2013, or the small and fullwidth hyphen-minus U+FE63, U+FF0D.
+// It returns "" for any other cell.
+func otherMinus(cell string) string {
+	r, n := utf8.DecodeRuneInString(strings.TrimSpace(cell))
+	switch r {
+	case '\u2212', '\u2012', '\u2013', '\uFE63', '\uFF0D':
+	default:
+		return ""
+	}
+	rest := strings.TrimSpace(cell)[n:]
+	if rest == "" || rest[0] < '0' || rest[0] > '9' && rest[0] != '.' && rest[0] != ',' {
+		return ""
+	}
+	return fmt.Sprintf(": it starts with %U (%s), not the hyphen-minus '-' that bivar reads as a sign; replace it with '-' (word processors, and spreadsheets in some locales, write this sign)", r, string(r))
 }
 
 // outOfRangeMsg: a number too large in size for a double.

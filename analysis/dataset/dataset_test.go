@@ -209,6 +209,16 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 3, Msg: `this row has 3 fields but the header has 2: it holds a carriage return (CR) that ends no line, so from here on the file may use CR-only line ends (as classic Mac OS wrote them), or two files were joined; save it with LF or CRLF line ends`}},
 		{"CR-only line ends after LF ones, quoted", "x,y\n1,\"a\"\"b\"\n3,4\r5,6\r", Options{}, []string{"x"}, nil,
 			Error{Line: 3, Msg: `this row has 3 fields but the header has 2: it holds a carriage return (CR) that ends no line, so from here on the file may use CR-only line ends (as classic Mac OS wrote them), or two files were joined; save it with LF or CRLF line ends`}},
+		// Python 3.11's float() refuses these too ("could not convert
+		// string to float"); the messages name the sign or the points.
+		{"minus sign U+2212", "x,y\n1,2\n\u22121.5,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\u22121.5", Msg: `"−1.5" is not a number: it starts with U+2212 (−), not the hyphen-minus '-' that bivar reads as a sign; replace it with '-' (word processors, and spreadsheets in some locales, write this sign)`}},
+		{"en dash", "x;y\n1;2\n \u20132,5;4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\u20132,5", Msg: `"–2,5" is not a number: it starts with U+2013 (–), not the hyphen-minus '-' that bivar reads as a sign; replace it with '-' (word processors, and spreadsheets in some locales, write this sign)`}},
+		{"a dash alone", "x,y\n1,2\n\u2013,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\u2013", Msg: `"–" is not a number; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
+		{"points between thousands", "x;y\n1;2\n1.234.567;4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "1.234.567", Msg: `"1.234.567" is not a number: it has more than one point; if the points separate thousands (1.234.567), declare thousands = "." for the dataset`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

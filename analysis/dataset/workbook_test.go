@@ -328,6 +328,7 @@ func TestReadWorkbookTextNumbers(t *testing.T) {
 		{"0X10P0", math.NaN(), `"0X10P0" is not a number`},
 		{"Inf", math.NaN(), `"Inf" is not a number`},
 		{"1e400", math.NaN(), `"1e400" is out of range`},
+		{"\u22125", math.NaN(), `"−5" is not a number: it starts with U+2212`},
 	} {
 		path := writeBook(t, []string{"S"}, [][][]any{{{"x"}, {1.0}, {tc.cell}}}, nil)
 		tb, err := ReadWorkbook(path, SheetRef{}, 0, Options{}, []string{"x"}, nil)

@@ -6,7 +6,8 @@
 // comma, semicolon or tab (declared, or detected from the header line);
 // numbers may be written with a decimal comma, as exports from many European
 // plants do (declared, or detected when the delimiter is ';' or tab); a UTF-8
-// byte-order mark, CRLF line ends and quoted fields are accepted. Cells that
+// byte-order mark, a first line "sep=;" naming the delimiter, CRLF line
+// ends and quoted fields are accepted. Cells that
 // match a declared missing-value token are missing (NaN), counted per column.
 // A cell in a numeric column that is not a number is an error naming file,
 // line, column and text, unless the dataset says such cells are missing.
@@ -41,7 +42,8 @@ import (
 // Options say how a file is written. The zero value detects the delimiter
 // and the decimal mark and treats "" and "NA" as missing.
 type Options struct {
-	// Delimiter is ',', ';' or '\t'; 0 detects it from the header line (the
+	// Delimiter is ',', ';' or '\t'; 0 takes it from a first line "sep=;"
+	// when the file has one, else detects it from the header line (the
 	// one of the three that occurs most often outside quotes; comma on a tie
 	// or when none occurs).
 	Delimiter rune
@@ -237,6 +239,14 @@ func (h *head) parse(path string, delim rune) (more bool, err error) {
 		bom = 3
 	}
 	b := h.buf[bom:]
+	sep := 0
+	if d, n := sepLine(b); n > 0 {
+		if delim != 0 && delim != d {
+			return false, &Error{File: path, Line: 1, Msg: fmt.Sprintf("the file's first line, %q, says its delimiter is %q, but the dataset declares delimiter = %q: remove one of the two, or make them agree", strings.TrimRight(string(b[:n]), "\r\n"), d, delim)}
+		}
+		delim, sep = d, n
+		b = b[n:]
+	}
 	if enc := wideEncoding(h.buf); enc != "" {
 		return false, &Error{File: path, Line: 1, Msg: "the file is " + enc + " text (Excel's \"Unicode Text\" export and some database tools write it), which bivar does not read: save it as \"CSV UTF-8\", or convert it (iconv -f " + enc + " -t UTF-8)"}
 	}
@@ -265,15 +275,33 @@ func (h *head) parse(path string, delim rune) (more bool, err error) {
 		return false, &Error{File: path, Msg: "the file is empty: it needs a header row naming the columns"}
 	}
 	if err != nil {
-		return false, csvError(path, err, nil, 0, 0)
+		return false, csvError(path, err, nil, 0, 0, 0)
 	}
 	h.names = make([]string, len(header))
 	for i, s := range header {
 		h.names[i] = strings.TrimSpace(s)
 	}
-	h.delim, h.body = delim, bom+off
+	h.delim, h.body = delim, bom+sep+off
 	h.line = 1 + bytes.Count(h.buf[:h.body], []byte{'\n'})
 	return false, nil
+}
+
+// sepLine reads a first line "sep=;" (or "sep=," or "sep=" and a tab), the
+// line spreadsheet programs write above a CSV export to name its
+// delimiter: the delimiter and the line's length with its end, or 0, 0.
+func sepLine(b []byte) (delim rune, n int) {
+	if !bytes.HasPrefix(b, []byte("sep=")) || len(b) < 6 {
+		return 0, 0
+	}
+	switch {
+	case b[4] != ',' && b[4] != ';' && b[4] != '\t':
+		return 0, 0
+	case b[5] == '\n':
+		return rune(b[4]), 6
+	case b[5] == '\r' && len(b) > 6 && b[6] == '\n':
+		return rune(b[4]), 7
+	}
+	return 0, 0
 }
 
 // wideEncoding names the encoding of a file that starts with a UTF-16 or
@@ -766,7 +794,9 @@ func lastIndex(names []string, name string) int {
 
 // csvError turns encoding/csv's errors into ones that say what to do.
 // off is added to the lines, for a block that starts on line off+1.
-func csvError(path string, err error, rec []string, want, off int) error {
+// first is the line after the header's: a row there of the wrong length
+// may be under a title line read as the header.
+func csvError(path string, err error, rec []string, want, off, first int) error {
 	var pe *csv.ParseError
 	if !errors.As(err, &pe) {
 		return &Error{File: path, Msg: fmt.Sprintf("reading the file: %v", err), err: err}
@@ -775,7 +805,7 @@ func csvError(path string, err error, rec []string, want, off int) error {
 	switch {
 	case errors.Is(pe.Err, csv.ErrFieldCount):
 		e.Line = pe.StartLine + off
-		e.Msg = fieldCountMsg(len(rec), want, strings.Join(rec, ""))
+		e.Msg = fieldCountMsg(len(rec), want, strings.Join(rec, ""), e.Line == first)
 	case errors.Is(pe.Err, csv.ErrBareQuote):
 		e.Msg = fmt.Sprintf("a double quote inside an unquoted field (character %d): put the whole field in double quotes and write the quote twice (\"\")", pe.Column)
 	case errors.Is(pe.Err, csv.ErrQuote):

@@ -60,6 +60,18 @@ func TestRead(t *testing.T) {
 			numeric: []string{"a", "b"},
 			rows:    1, delim: '\t', comma: true,
 			nums: map[string][]float64{"a": {0.5}, "b": {1}}},
+		// The first line "sep=;" that spreadsheet programs write above a
+		// CSV export names the delimiter; the header is the next line.
+		// It read before as a header of two columns, "sep=" and "", and
+		// every data row as one of the wrong length.
+		{name: "sep= line", src: "\xEF\xBB\xBFsep=;\r\nshot;temp\r\nA;230,5\r\nB;231\r\n",
+			numeric: []string{"temp"}, text: []string{"shot"},
+			rows: 2, delim: ';', comma: true,
+			nums:  map[string][]float64{"temp": {230.5, 231}},
+			texts: map[string][]string{"shot": {"A", "B"}}},
+		{name: "sep= line, comma", src: "sep=,\na,b\n1,2\n",
+			numeric: []string{"a", "b"}, rows: 1, delim: ',',
+			nums: map[string][]float64{"a": {1}, "b": {2}}},
 		{name: "semicolon with decimal point", src: "a;b\n0.5;1\n",
 			numeric: []string{"a"}, rows: 1, delim: ';',
 			nums: map[string][]float64{"a": {0.5}}},
@@ -219,6 +231,17 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 3, Column: "x", Text: "\u2013", Msg: `"–" is not a number; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
 		{"points between thousands", "x;y\n1;2\n1.234.567;4\n", Options{}, []string{"x"}, nil,
 			Error{Line: 3, Column: "x", Text: "1.234.567", Msg: `"1.234.567" is not a number: it has more than one point; if the points separate thousands (1.234.567), declare thousands = "." for the dataset`}},
+		{"line counted after a sep= line", "sep=;\nx;y\n1;2\nz;4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 4, Column: "x", Text: "z", Msg: `"z" is not a number; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
+		{"sep= line against the declared delimiter", "sep=;\nx;y\n1;2\n", Options{Delimiter: ','}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file's first line, "sep=;", says its delimiter is ';', but the dataset declares delimiter = ',': remove one of the two, or make them agree`}},
+		// A title line above the column names is read as the header: the
+		// first data row is then of the wrong length, and the message said
+		// only to look for a delimiter.
+		{"title above the header", "Line 7, October\nx,y,z\n1,2,3\n", Options{}, []string{"Line 7"}, nil,
+			Error{Line: 2, Msg: `this row has 3 fields but the header has 2: the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row`}},
+		{"title above the header, quoted", "Line 7, October\n\"x\"\"\",y,z\n1,2,3\n", Options{}, []string{"Line 7"}, nil,
+			Error{Line: 2, Msg: `this row has 3 fields but the header has 2: the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

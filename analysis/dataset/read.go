@@ -52,6 +52,7 @@ type config struct {
 	path    string
 	delim   byte
 	fields  int // fields per row, from the header
+	body    int // the line after the header's
 	cols    []*column
 	byIndex []int // header index -> position in cols, -1 when not read
 	last    int   // the highest header index read
@@ -132,7 +133,7 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 	if err != nil {
 		return nil, err
 	}
-	cfg := &config{path: path, delim: byte(hd.delim), fields: len(hd.names), cols: cols,
+	cfg := &config{path: path, delim: byte(hd.delim), fields: len(hd.names), body: hd.line, cols: cols,
 		byIndex: make([]int, len(hd.names)), last: -1, missing: opts.Missing, opts: opts, lim: lim}
 	if cfg.missing == nil {
 		cfg.missing = DefaultMissing()
@@ -449,7 +450,7 @@ func longRow(cfg *config, data []byte, line int) error {
 		}
 		var pe *csv.ParseError
 		if errors.As(err, &pe) && pe.Line <= whole {
-			return csvError(cfg.path, err, rec, cfg.fields, line-1)
+			return csvError(cfg.path, err, rec, cfg.fields, line-1, cfg.body)
 		}
 		if err != nil {
 			break
@@ -582,7 +583,7 @@ func (p *part) parsePlain(cfg *config, data []byte, line int) bool {
 			continue
 		}
 		if nf := bytes.Count(rec, []byte{delim}) + 1; nf != cfg.fields {
-			p.err = &Error{File: cfg.path, Line: ln, Msg: fieldCountMsg(nf, cfg.fields, string(rec))}
+			p.err = &Error{File: cfg.path, Line: ln, Msg: fieldCountMsg(nf, cfg.fields, string(rec), ln == cfg.body)}
 			return true
 		}
 		p.rows++
@@ -827,7 +828,7 @@ func (p *part) parseQuoted(cfg *config, data []byte, line int) {
 			return
 		}
 		if err != nil {
-			p.err = csvError(cfg.path, err, rec, cfg.fields, off)
+			p.err = csvError(cfg.path, err, rec, cfg.fields, off, cfg.body)
 			return
 		}
 		n := len(rec) - 1
@@ -964,10 +965,13 @@ func rowTooLong(path string, line int) error {
 // fieldCountMsg explains a row of got fields where the header has want;
 // row is the row's text (its fields, when only they are known), whose
 // NUL bytes or carriage returns that end no line point at a cause other
-// than a delimiter.
-func fieldCountMsg(got, want int, row string) string {
+// than a delimiter; first says the row is on the line after the header,
+// which may then be a title above the column names.
+func fieldCountMsg(got, want int, row string, first bool) string {
 	msg := fmt.Sprintf("this row has %s but the header has %d", fieldCount(got), want)
 	switch {
+	case first && strings.IndexByte(row, 0) < 0:
+		return msg + ": the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row"
 	case strings.IndexByte(row, 0) >= 0:
 		return msg + ": it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8"
 	case strings.IndexByte(row, '\r') >= 0:

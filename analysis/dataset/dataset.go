@@ -361,6 +361,8 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `: it has a decimal point, but the dataset declares decimal = ","`
 	case hasPoint && hasComma:
 		msg += `: it shows both a point and a comma; if one of them separates thousands, declare it for the dataset (thousands = "," or "."), or write the number without it`
+	case IsExcelError(cell):
+		msg += `: it is a spreadsheet's error value (a formula that could not be computed, exported as its text); add it to the dataset's missing list to count such cells as missing, or correct the formula and export again`
 	case otherMinus(cell) != "":
 		msg += otherMinus(cell)
 	case strings.Count(cell, ".") > 1 && !hasComma && opts.Thousands == 0:

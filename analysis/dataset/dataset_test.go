@@ -242,6 +242,11 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 2, Msg: `this row has 3 fields but the header has 2: the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row`}},
 		{"title above the header, quoted", "Line 7, October\n\"x\"\"\",y,z\n1,2,3\n", Options{}, []string{"Line 7"}, nil,
 			Error{Line: 2, Msg: `this row has 3 fields but the header has 2: the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row`}},
+		// An export of a sheet writes an error value as its text (Excel,
+		// LibreOffice: #DIV/0!, #N/A); the workbook reader counts such a
+		// cell as missing, and the message says how to do the same here.
+		{"spreadsheet error value", "x,y\n1,2\n#DIV/0!,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "#DIV/0!", Msg: `"#DIV/0!" is not a number: it is a spreadsheet's error value (a formula that could not be computed, exported as its text); add it to the dataset's missing list to count such cells as missing, or correct the formula and export again`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

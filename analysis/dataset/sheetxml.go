@@ -36,6 +36,7 @@ type sheetPackage struct {
 	order    []string                // the sheets' names in tab order
 	sheets   map[string]string       // sheet name → worksheet part name
 	hidden   map[string]bool         // sheets whose state is hidden or veryHidden
+	other    map[string]string       // sheets that are no worksheet → what they are ("a chart sheet")
 	date1904 bool                    // serial numbers count days from 1904-01-01
 	merges   map[string][]mergeRange // worksheet part → its merged ranges, once read
 	sstPart  string                  // "" when the workbook has no shared strings
@@ -76,7 +77,7 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 	if err != nil {
 		return nil, err
 	}
-	p := &sheetPackage{files: map[string]*zip.File{}, maxPart: maxPart, sheets: map[string]string{}, hidden: map[string]bool{}, merges: map[string][]mergeRange{}}
+	p := &sheetPackage{files: map[string]*zip.File{}, maxPart: maxPart, sheets: map[string]string{}, hidden: map[string]bool{}, other: map[string]string{}, merges: map[string][]mergeRange{}}
 	for _, f := range zr.File {
 		p.files[strings.TrimPrefix(f.Name, "/")] = f
 	}
@@ -105,6 +106,7 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 		return nil, err
 	}
 	target := map[string]string{}
+	kind := map[string]string{} // relationship → what a sheet of another type is
 	for _, r := range wbRels.Rel {
 		if r.Mode == "External" {
 			continue
@@ -112,6 +114,12 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 		switch {
 		case strings.HasSuffix(r.Type, relWorksheet):
 			target[r.ID] = resolvePart(dir, r.Target)
+		case strings.HasSuffix(r.Type, "/chartsheet"):
+			kind[r.ID] = "a chart sheet"
+		case strings.HasSuffix(r.Type, "/dialogsheet"):
+			kind[r.ID] = "a dialog sheet"
+		case strings.HasSuffix(r.Type, "/xlMacrosheet"), strings.HasSuffix(r.Type, "/xlIntlMacrosheet"):
+			kind[r.ID] = "a macro sheet"
 		case strings.HasSuffix(r.Type, relSharedStrings):
 			p.sstPart = resolvePart(dir, r.Target)
 		}
@@ -136,6 +144,8 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 			if a.Name.Local == "id" && strings.HasSuffix(a.Name.Space, "/relationships") {
 				if t, ok := target[a.Value]; ok {
 					p.sheets[s.Name] = t
+				} else if k, ok := kind[a.Value]; ok {
+					p.other[s.Name] = k
 				}
 			}
 		}

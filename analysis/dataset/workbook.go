@@ -174,6 +174,15 @@ func (w *Workbook) readSheet(ref SheetRef, headerRow int, header func(sheet stri
 			"; the workbook looks damaged: open it in a spreadsheet program and save it again, or export the sheet as CSV", err: err}
 	}
 	part, ok := w.pkg.sheets[sheet]
+	if k := w.pkg.other[sheet]; !ok && k != "" {
+		var ws []string
+		for _, s := range w.sheets {
+			if _, ok := w.pkg.sheets[s]; ok {
+				ws = append(ws, strconv.Quote(s))
+			}
+		}
+		return &Error{File: w.path, Sheet: sheet, Msg: fmt.Sprintf("the sheet is %s, which holds no cells: set sheet to a worksheet (the workbook's are %s)", k, strings.Join(ws, ", "))}
+	}
 	if !ok {
 		return fail("", errors.New("the workbook lists it but holds no worksheet part for it (is it a chart sheet?)"))
 	}

@@ -1,14 +1,17 @@
 package dataset
 
 import (
+	"archive/zip"
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -429,5 +432,58 @@ func TestReadWorkbookISODates(t *testing.T) {
 	path := handBook(t, `<sheetData><row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c></row><row r="2"><c r="A2" t="d"><v>2026-13-01</v></c></row></sheetData></worksheet>`, "", false)
 	if _, err := ReadWorkbook(path, SheetRef{}, 0, Options{}, []string{"x"}, nil); err == nil || !strings.Contains(err.Error(), `cell A2: column "x": "2026-13-01" is not a number`) {
 		t.Errorf("month 13: got %v", err)
+	}
+}
+
+// A chart sheet (ECMA-376 Part 1 §12.3.2, written by excelize's
+// AddChartSheet) holds no cells: as the first tab it is not the default,
+// and named it is refused as what it is, with the worksheets to choose
+// from; the message called the workbook damaged and told the user to
+// save it again.
+func TestReadWorkbookChartSheet(t *testing.T) {
+	t.Parallel()
+	data := [][]any{{"x", "y"}, {1, 3}, {2, 6}, {3, 9}}
+	path := writeBook(t, []string{"Data"}, [][][]any{data}, func(f *excelize.File) {
+		err := f.AddChartSheet("Chart", &excelize.Chart{Type: excelize.Line,
+			Series: []excelize.ChartSeries{{Name: "Data!$B$1", Categories: "Data!$A$2:$A$4", Values: "Data!$B$2:$B$4"}}})
+		if err != nil {
+			t.Fatal(err)
+		}
+	})
+	// Put the chart sheet's tab first (excelize's MoveSheet panics on a
+	// chart sheet): swap the two sheet elements of the workbook part.
+	zr, err := zip.OpenReader(path)
+	must(t, err)
+	parts := map[string]string{}
+	for _, f := range zr.File {
+		rc, err := f.Open()
+		must(t, err)
+		b, err := io.ReadAll(rc)
+		must(t, err)
+		parts[f.Name] = string(b)
+	}
+	must(t, zr.Close())
+	wb := parts["xl/workbook.xml"]
+	i, j := strings.Index(wb, `<sheet name="Data"`), strings.Index(wb, `<sheet name="Chart"`)
+	if i < 0 || j < i {
+		t.Fatalf("workbook part: %s", wb)
+	}
+	end := strings.Index(wb[j:], "</sheet>")
+	if end < 0 {
+		t.Fatalf("workbook part: %s", wb)
+	}
+	dataEl, chartEl := wb[i:j], wb[j:j+end+len("</sheet>")]
+	parts["xl/workbook.xml"] = wb[:i] + chartEl + dataEl + wb[j+len(chartEl):]
+	path = zipParts(t, parts)
+	w, err := OpenWorkbook(path, nil)
+	if err != nil || !slices.Equal(w.Sheets(), []string{"Chart", "Data"}) {
+		t.Fatalf("sheets %v, %v; want the chart sheet first", w, err)
+	}
+	if tb, err := w.Read(SheetRef{}, 0, Options{}, []string{"x", "y"}, nil); err != nil || tb.Sheet != "Data" || tb.Numeric["y"][2] != 9 {
+		t.Errorf("default sheet: got %v, %v; want Data", tb, err)
+	}
+	_, err = w.Read(SheetRef{Number: 1}, 0, Options{}, []string{"x", "y"}, nil)
+	if want := `sheet "Chart": the sheet is a chart sheet, which holds no cells: set sheet to a worksheet (the workbook's are "Data")`; err == nil || !strings.Contains(err.Error(), want) {
+		t.Errorf("sheet = 1: got %v, want %q", err, want)
 	}
 }

@@ -247,6 +247,9 @@ func (h *head) parse(path string, delim rune) (more bool, err error) {
 		delim, sep = d, n
 		b = b[n:]
 	}
+	if what, todo := notText(h.buf); what != "" {
+		return false, &Error{File: path, Line: 1, Msg: "the file is " + what + ", not CSV text: " + todo}
+	}
 	if enc := wideEncoding(h.buf); enc != "" {
 		return false, &Error{File: path, Line: 1, Msg: "the file is " + enc + " text (Excel's \"Unicode Text\" export and some database tools write it), which bivar does not read: save it as \"CSV UTF-8\", or convert it (iconv -f " + enc + " -t UTF-8)"}
 	}
@@ -302,6 +305,24 @@ func sepLine(b []byte) (delim rune, n int) {
 		return rune(b[4]), 7
 	}
 	return 0, 0
+}
+
+// notText says what a file is whose first bytes are the signature of a
+// format that is not text (each format's magic number: ZIP, APPNOTE.TXT
+// §4.3.7; gzip, RFC 1952 §2.3.1; OLE compound file, MS-CFB §2.2; PDF,
+// ISO 32000-1 §7.5.2), and what to do; "", "" for any other.
+func notText(b []byte) (what, todo string) {
+	switch {
+	case bytes.HasPrefix(b, []byte("PK\x03\x04")):
+		return "a zip archive (an Excel workbook, .xlsx, is one)", "if it is a workbook, give it the extension .xlsx so that bivar reads it as one; if it holds a CSV file, unpack it"
+	case bytes.HasPrefix(b, []byte{0x1F, 0x8B}):
+		return "compressed with gzip", "unpack it (gunzip) and name the unpacked file"
+	case bytes.HasPrefix(b, oleMagic):
+		return "an OLE compound file (an older .xls workbook, or an encrypted .xlsx)", "save it as .xlsx or as CSV in a spreadsheet program"
+	case bytes.HasPrefix(b, []byte("%PDF-")):
+		return "a PDF document", "export the table as CSV from the program that made it"
+	}
+	return "", ""
 }
 
 // wideEncoding names the encoding of a file that starts with a UTF-16 or

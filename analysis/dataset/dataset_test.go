@@ -247,6 +247,12 @@ func TestReadErrors(t *testing.T) {
 		// cell as missing, and the message says how to do the same here.
 		{"spreadsheet error value", "x,y\n1,2\n#DIV/0!,4\n", Options{}, []string{"x"}, nil,
 			Error{Line: 3, Column: "x", Text: "#DIV/0!", Msg: `"#DIV/0!" is not a number: it is a spreadsheet's error value (a formula that could not be computed, exported as its text); add it to the dataset's missing list to count such cells as missing, or correct the formula and export again`}},
+		// Files that are no text, named .csv: each read as a header of
+		// mangled names, then a row of the wrong length or a NUL.
+		{"workbook named .csv", "PK\x03\x04\x14\x00\x06\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is a zip archive (an Excel workbook, .xlsx, is one), not CSV text: if it is a workbook, give it the extension .xlsx so that bivar reads it as one; if it holds a CSV file, unpack it`}},
+		{"gzip", "\x1f\x8b\x08\x00\x00\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is compressed with gzip, not CSV text: unpack it (gunzip) and name the unpacked file`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

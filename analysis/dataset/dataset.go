@@ -382,6 +382,10 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `: it has a decimal point, but the dataset declares decimal = ","`
 	case hasPoint && hasComma:
 		msg += `: it shows both a point and a comma; if one of them separates thousands, declare it for the dataset (thousands = "," or "."), or write the number without it`
+	case cell == `\N` || strings.EqualFold(cell, "NULL"):
+		msg += fmt.Sprintf(`: it is how database exports write a missing value (NULL); add %s to the dataset's missing list`, strconv.Quote(cell))
+	case nanOrInf(cell):
+		msg += fmt.Sprintf(`: bivar reads no NaN or infinite value as a number (NumPy and other programs write them so); if it marks a missing value, add %s to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`, strconv.Quote(cell))
 	case IsExcelError(cell):
 		msg += `: it is a spreadsheet's error value (a formula that could not be computed, exported as its text); add it to the dataset's missing list to count such cells as missing, or correct the formula and export again`
 	case otherMinus(cell) != "":
@@ -396,6 +400,13 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`
 	}
 	return msg
+}
+
+// nanOrInf says whether s is a not-a-number or an infinity as programs
+// write them: NaN, nan, inf, -Infinity, … (any case, any sign).
+func nanOrInf(s string) bool {
+	s = strings.ToLower(strings.TrimLeft(s, "+-"))
+	return s == "nan" || s == "inf" || s == "infinity"
 }
 
 // otherMinus explains a cell that starts, after any spaces, with a dash

@@ -253,6 +253,13 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 1, Msg: `the file is a zip archive (an Excel workbook, .xlsx, is one), not CSV text: if it is a workbook, give it the extension .xlsx so that bivar reads it as one; if it holds a CSV file, unpack it`}},
 		{"gzip", "\x1f\x8b\x08\x00\x00\x00\x00\x00", Options{}, []string{"x"}, nil,
 			Error{Line: 1, Msg: `the file is compressed with gzip, not CSV text: unpack it (gunzip) and name the unpacked file`}},
+		// What database dumps and NumPy write for NULL, NaN and infinity
+		// (mysqldump --tab and PostgreSQL's COPY text format: \N;
+		// numpy.savetxt: nan, inf).
+		{"database NULL", "x\ty\n1\t2\n\\N\t3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: `\N`, Msg: `"\\N" is not a number: it is how database exports write a missing value (NULL); add "\\N" to the dataset's missing list`}},
+		{"NaN", "x,y\n1,2\n-inf,3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "-inf", Msg: `"-inf" is not a number: bivar reads no NaN or infinite value as a number (NumPy and other programs write them so); if it marks a missing value, add "-inf" to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

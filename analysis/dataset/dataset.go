@@ -33,6 +33,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"unicode"
 	"unicode/utf8"
 	"unsafe"
 
@@ -386,6 +387,8 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += fmt.Sprintf(`: it is how database exports write a missing value (NULL); add %s to the dataset's missing list`, strconv.Quote(cell))
 	case nanOrInf(cell):
 		msg += fmt.Sprintf(`: bivar reads no NaN or infinite value as a number (NumPy and other programs write them so); if it marks a missing value, add %s to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`, strconv.Quote(cell))
+	case strings.IndexFunc(cell, func(r rune) bool { return r > unicode.MaxASCII && unicode.IsDigit(r) }) >= 0:
+		msg += `: it has digits other than the ASCII 0 to 9 (fullwidth digits, as an East Asian input method types them, or digits of another script); retype the number with 0 to 9`
 	case IsExcelError(cell):
 		msg += `: it is a spreadsheet's error value (a formula that could not be computed, exported as its text); add it to the dataset's missing list to count such cells as missing, or correct the formula and export again`
 	case otherMinus(cell) != "":

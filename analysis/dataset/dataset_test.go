@@ -260,6 +260,10 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 3, Column: "x", Text: `\N`, Msg: `"\\N" is not a number: it is how database exports write a missing value (NULL); add "\\N" to the dataset's missing list`}},
 		{"NaN", "x,y\n1,2\n-inf,3\n", Options{}, []string{"x"}, nil,
 			Error{Line: 3, Column: "x", Text: "-inf", Msg: `"-inf" is not a number: bivar reads no NaN or infinite value as a number (NumPy and other programs write them so); if it marks a missing value, add "-inf" to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
+		// Python 3.11's float() reads "０５" (U+FF10, U+FF15) as 5.0;
+		// bivar reads ASCII digits only, and says so.
+		{"fullwidth digits", "x,y\n1,2\n\uff10\uff15,3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\uff10\uff15", Msg: `"０５" is not a number: it has digits other than the ASCII 0 to 9 (fullwidth digits, as an East Asian input method types them, or digits of another script); retype the number with 0 to 9`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

@@ -395,6 +395,8 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += otherMinus(cell)
 	case strings.Count(cell, ".") > 1 && !hasComma && opts.Thousands == 0:
 		msg += `: it has more than one point; if the points separate thousands (1.234.567), declare thousands = "." for the dataset`
+	case strings.HasPrefix(cell, "\uFEFF"):
+		msg += `: it starts with a byte-order mark (U+FEFF), which belongs only at the start of a file: were two files joined? delete the mark (or the line, if it repeats the header)`
 	case strings.IndexByte(cell, 0) >= 0:
 		msg += `: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`
 	case !utf8.ValidString(cell):

@@ -264,6 +264,14 @@ func TestReadErrors(t *testing.T) {
 		// bivar reads ASCII digits only, and says so.
 		{"fullwidth digits", "x,y\n1,2\n\uff10\uff15,3\n", Options{}, []string{"x"}, nil,
 			Error{Line: 3, Column: "x", Text: "\uff10\uff15", Msg: `"０５" is not a number: it has digits other than the ASCII 0 to 9 (fullwidth digits, as an East Asian input method types them, or digits of another script); retype the number with 0 to 9`}},
+		// Two exports joined end to end: the second one's header (with
+		// its byte-order mark) is a data row.
+		{"header repeated", "x,y\n1,2\nx,y\n3,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "x", Msg: `"x" is not a number: it is the column's name, so this line repeats the header (were two files joined?); delete the line, or join the files without their headers`}},
+		{"header repeated with its mark", "\uFEFFx,y\n1,2\n\uFEFFx,y\n3,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\uFEFFx", Msg: `"\ufeffx" is not a number: it is the column's name, so this line repeats the header (were two files joined?); delete the line, or join the files without their headers`}},
+		{"byte-order mark in a cell", "y,x\n1,2\n\uFEFF3,4\n", Options{}, []string{"y"}, nil,
+			Error{Line: 3, Column: "y", Text: "\uFEFF3", Msg: `"\ufeff3" is not a number: it starts with a byte-order mark (U+FEFF), which belongs only at the start of a file: were two files joined? delete the mark (or the line, if it repeats the header)`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

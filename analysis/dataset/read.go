@@ -904,6 +904,10 @@ func (p *part) cell(cfg *config, ci int, raw string, ln int) (stop bool) {
 		p.more++
 	default:
 		msg := nonNumericMsg(s, p.mark, p.markLine, cfg.opts)
+		if s == c.name || strings.TrimPrefix(s, "\uFEFF") == c.name {
+			// A second header: files joined end to end.
+			msg = quoteCell(s) + " is not a number: it is the column's name, so this line repeats the header (were two files joined?); delete the line, or join the files without their headers"
+		}
 		if st == numOutOfRange {
 			msg = outOfRangeMsg(s)
 		}

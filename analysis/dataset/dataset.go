@@ -33,6 +33,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"time"
 	"unicode"
 	"unicode/utf8"
 	"unsafe"
@@ -369,6 +370,8 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 	msg := quoteCell(cell) + " is not a number"
 	hasComma, hasPoint := strings.Contains(cell, ","), strings.Contains(cell, ".")
 	switch {
+	case looksLikeDate(cell):
+		msg += `: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`
 	case opts.Thousands != 0 && strings.ContainsRune(cell, opts.Thousands):
 		msg += fmt.Sprintf(": the dataset declares thousands = %q, and a number written with it has one to three digits before the first separator, exactly three after each, and none after the decimal mark; correct the cell, or check thousands and decimal", string(opts.Thousands))
 	case mark == '.' && hasComma && !hasPoint && opts.DecimalPoint:
@@ -405,6 +408,28 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`
 	}
 	return msg
+}
+
+// looksLikeDate says whether s is a date, a time or both in a layout
+// that exports write: ISO 8601 (2026-10-01, 2026-10-01T08:30:00,
+// 2026-10-01 08:30), 01.10.2026, 10/01/2026, 2026/10/01, 08:30, 08:30:00.
+func looksLikeDate(s string) bool {
+	date, clock, _ := strings.Cut(strings.Replace(s, "T", " ", 1), " ")
+	ok := func(v string, layouts ...string) bool {
+		for _, l := range layouts {
+			if _, err := time.Parse(l, v); err == nil {
+				return true
+			}
+		}
+		return false
+	}
+	clockOK := func(v string) bool {
+		return ok(strings.TrimSuffix(v, "Z"), "15:04", "15:04:05", "15:04:05.999999999", "3:04 PM", "3:04:05 PM")
+	}
+	if clock != "" {
+		return ok(date, "2006-01-02", "02.01.2006", "1/2/2006", "2006/01/02", "2.1.2006") && clockOK(clock)
+	}
+	return ok(date, "2006-01-02", "02.01.2006", "1/2/2006", "2006/01/02", "2.1.2006") || clockOK(date)
 }
 
 // nanOrInf says whether s is a not-a-number or an infinity as programs

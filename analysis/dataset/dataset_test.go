@@ -272,6 +272,14 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 3, Column: "x", Text: "\uFEFFx", Msg: `"\ufeffx" is not a number: it is the column's name, so this line repeats the header (were two files joined?); delete the line, or join the files without their headers`}},
 		{"byte-order mark in a cell", "y,x\n1,2\n\uFEFF3,4\n", Options{}, []string{"y"}, nil,
 			Error{Line: 3, Column: "y", Text: "\uFEFF3", Msg: `"\ufeff3" is not a number: it starts with a byte-order mark (U+FEFF), which belongs only at the start of a file: were two files joined? delete the mark (or the line, if it repeats the header)`}},
+		// Dates and times in a CSV file (Python 3.11's float() refuses
+		// them too); the message says where bivar reads them as numbers.
+		{"date", "x,y\n1,2\n2026-10-01 08:30,3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "2026-10-01 08:30", Msg: `"2026-10-01 08:30" is not a number: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`}},
+		{"time", "x;y\n1;2\n08:30:15;3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "08:30:15", Msg: `"08:30:15" is not a number: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`}},
+		{"German date", "x;y\n1,5;2\n01.10.2026;3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "01.10.2026", Msg: `"01.10.2026" is not a number: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

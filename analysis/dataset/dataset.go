@@ -386,16 +386,10 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `: it has a decimal point, but the dataset declares decimal = ","`
 	case hasPoint && hasComma:
 		msg += `: it shows both a point and a comma; if one of them separates thousands, declare it for the dataset (thousands = "," or "."), or write the number without it`
-	case cell == `\N` || strings.EqualFold(cell, "NULL"):
-		msg += fmt.Sprintf(`: it is how database exports write a missing value (NULL); add %s to the dataset's missing list`, strconv.Quote(cell))
-	case nanOrInf(cell):
-		msg += fmt.Sprintf(`: bivar reads no NaN or infinite value as a number (NumPy and other programs write them so); if it marks a missing value, add %s to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`, strconv.Quote(cell))
-	case strings.IndexFunc(cell, func(r rune) bool { return r > unicode.MaxASCII && unicode.IsDigit(r) }) >= 0:
-		msg += `: it has digits other than the ASCII 0 to 9 (fullwidth digits, as an East Asian input method types them, or digits of another script); retype the number with 0 to 9`
+	case textHint(cell) != "":
+		msg += textHint(cell)
 	case IsExcelError(cell):
 		msg += `: it is a spreadsheet's error value (a formula that could not be computed, exported as its text); add it to the dataset's missing list to count such cells as missing, or correct the formula and export again`
-	case otherMinus(cell) != "":
-		msg += otherMinus(cell)
 	case strings.Count(cell, ".") > 1 && !hasComma && opts.Thousands == 0:
 		msg += `: it has more than one point; if the points separate thousands (1.234.567), declare thousands = "." for the dataset`
 	case strings.HasPrefix(cell, "\uFEFF"):
@@ -430,6 +424,22 @@ func looksLikeDate(s string) bool {
 		return ok(date, "2006-01-02", "02.01.2006", "1/2/2006", "2006/01/02", "2.1.2006") && clockOK(clock)
 	}
 	return ok(date, "2006-01-02", "02.01.2006", "1/2/2006", "2006/01/02", "2.1.2006") || clockOK(date)
+}
+
+// textHint explains a cell that is not a number, in a CSV file or a
+// workbook, when it is a missing value as databases and NumPy write them,
+// or a number written with characters bivar does not read as one: "" for
+// any other cell. It starts with ": ".
+func textHint(cell string) string {
+	switch {
+	case cell == `\N` || strings.EqualFold(cell, "NULL"):
+		return fmt.Sprintf(`: it is how database exports write a missing value (NULL); add %s to the dataset's missing list`, strconv.Quote(cell))
+	case nanOrInf(cell):
+		return fmt.Sprintf(`: bivar reads no NaN or infinite value as a number (NumPy and other programs write them so); if it marks a missing value, add %s to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`, strconv.Quote(cell))
+	case strings.IndexFunc(cell, func(r rune) bool { return r > unicode.MaxASCII && unicode.IsDigit(r) }) >= 0:
+		return `: it has digits other than the ASCII 0 to 9 (fullwidth digits, as an East Asian input method types them, or digits of another script); retype the number with 0 to 9`
+	}
+	return otherMinus(cell)
 }
 
 // nanOrInf says whether s is a not-a-number or an infinity as programs

@@ -465,8 +465,8 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 			msg := quoteCell(s) + ` is not a number; correct the cell (a number stored as text with units or separators shows this), add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`
 			if st == numOutOfRange {
 				msg = outOfRangeMsg(s)
-			} else if m := otherMinus(s); m != "" {
-				msg = quoteCell(s) + " is not a number" + m
+			} else if h := textHint(s); h != "" {
+				msg = quoteCell(s) + " is not a number" + h
 			}
 			c.firstNon = &Error{File: w.path, Sheet: t.Sheet, Cell: cellRef(c.index, t.HeaderRow+1+r), Column: c.name, Text: cellText(s), Msg: msg}
 		} else {

@@ -280,6 +280,8 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 3, Column: "x", Text: "08:30:15", Msg: `"08:30:15" is not a number: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`}},
 		{"German date", "x;y\n1,5;2\n01.10.2026;3\n", Options{}, []string{"x"}, nil,
 			Error{Line: 3, Column: "x", Text: "01.10.2026", Msg: `"01.10.2026" is not a number: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`}},
+		{"DOS end-of-file mark", "x,y\r\n1,2\r\n3,4\r\n\x1a", Options{}, []string{"x"}, nil,
+			Error{Line: 4, Msg: `this row has 1 field but the header has 2: it is a lone Ctrl-Z (0x1A), the end-of-file mark some DOS-era programs write after the last line; delete it`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

@@ -974,6 +974,8 @@ func rowTooLong(path string, line int) error {
 func fieldCountMsg(got, want int, row string, first bool) string {
 	msg := fmt.Sprintf("this row has %s but the header has %d", fieldCount(got), want)
 	switch {
+	case row == "\x1a":
+		return msg + ": it is a lone Ctrl-Z (0x1A), the end-of-file mark some DOS-era programs write after the last line; delete it"
 	case first && strings.IndexByte(row, 0) < 0:
 		return msg + ": the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row"
 	case strings.IndexByte(row, 0) >= 0:

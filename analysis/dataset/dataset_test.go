@@ -282,6 +282,15 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 3, Column: "x", Text: "01.10.2026", Msg: `"01.10.2026" is not a number: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`}},
 		{"DOS end-of-file mark", "x,y\r\n1,2\r\n3,4\r\n\x1a", Options{}, []string{"x"}, nil,
 			Error{Line: 4, Msg: `this row has 1 field but the header has 2: it is a lone Ctrl-Z (0x1A), the end-of-file mark some DOS-era programs write after the last line; delete it`}},
+		// A space after the delimiter before a quoted field, as people
+		// type lists: RFC 4180 §2 (rule 5) has a quoted field start at the
+		// delimiter; Python 3.11's csv module reads it only with
+		// skipinitialspace=True. The message said to put the field in
+		// double quotes, which it is.
+		{"space before an opening quote", "x,y,z\n1, \"a, b\",3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 2, Msg: `spaces between the delimiter and the double quote that opens a field (character 4): a quoted field starts right after the delimiter; remove the spaces`}},
+		{"space after a closing quote", "x;y;z\n1;2;3\n3;\"a\"  ;4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `spaces between the double quote that closes a field (character 5) and the delimiter: a quoted field ends right before the delimiter; remove the spaces`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

@@ -280,7 +280,7 @@ func (h *head) parse(path string, delim rune) (more bool, err error) {
 		return false, &Error{File: path, Msg: "the file is empty: it needs a header row naming the columns"}
 	}
 	if err != nil {
-		return false, csvError(path, err, nil, 0, 0, 0, b)
+		return false, csvError(path, err, nil, 0, 0, 0, b, byte(delim))
 	}
 	h.names = make([]string, len(header))
 	for i, s := range header {
@@ -870,8 +870,8 @@ func lastIndex(names []string, name string) int {
 // off is added to the lines, for a block that starts on line off+1.
 // first is the line after the header's: a row there of the wrong length
 // may be under a title line read as the header. src is the text read,
-// whose first line is line off+1.
-func csvError(path string, err error, rec []string, want, off, first int, src []byte) error {
+// whose first line is line off+1, and delim its delimiter.
+func csvError(path string, err error, rec []string, want, off, first int, src []byte, delim byte) error {
 	var pe *csv.ParseError
 	if !errors.As(err, &pe) {
 		return &Error{File: path, Msg: fmt.Sprintf("reading the file: %v", err), err: err}
@@ -881,9 +881,9 @@ func csvError(path string, err error, rec []string, want, off, first int, src []
 	case errors.Is(pe.Err, csv.ErrFieldCount):
 		e.Line = pe.StartLine + off
 		e.Msg = fieldCountMsg(len(rec), want, strings.Join(rec, ""), e.Line == first)
-	case errors.Is(pe.Err, csv.ErrBareQuote) && spaceByQuote(src, pe.Line, pe.Column, true):
+	case errors.Is(pe.Err, csv.ErrBareQuote) && spaceByQuote(src, delim, pe.Line, pe.Column, true):
 		e.Msg = fmt.Sprintf("spaces between the delimiter and the double quote that opens a field (character %d): a quoted field starts right after the delimiter; remove the spaces", pe.Column)
-	case errors.Is(pe.Err, csv.ErrQuote) && spaceByQuote(src, pe.Line, pe.Column, false):
+	case errors.Is(pe.Err, csv.ErrQuote) && spaceByQuote(src, delim, pe.Line, pe.Column, false):
 		e.Msg = fmt.Sprintf("spaces between the double quote that closes a field (character %d) and the delimiter: a quoted field ends right before the delimiter; remove the spaces", pe.Column)
 	case errors.Is(pe.Err, csv.ErrBareQuote):
 		e.Msg = fmt.Sprintf("a double quote inside an unquoted field (character %d): put the whole field in double quotes and write the quote twice (\"\")", pe.Column)
@@ -897,10 +897,10 @@ func csvError(path string, err error, rec []string, want, off, first int, src []
 
 // spaceByQuote says whether the double quote at the 1-based byte col of
 // line line of src has only spaces (at least one) between it and the
-// delimiter or line end before it (open) or after it (!open): a field
+// delimiter (delim) or line end before it (open) or after it (!open): a field
 // written , "a, b" , as people type lists, which RFC 4180 (§2, rule 5)
 // does not allow and encoding/csv reports as a quote out of place.
-func spaceByQuote(src []byte, line, col int, open bool) bool {
+func spaceByQuote(src []byte, delim byte, line, col int, open bool) bool {
 	for ; line > 1; line-- {
 		i := bytes.IndexByte(src, '\n')
 		if i < 0 {
@@ -919,12 +919,12 @@ func spaceByQuote(src []byte, line, col int, open bool) bool {
 	var gap []byte
 	if open {
 		gap = src[:q]
-		if i := bytes.LastIndexAny(gap, ",;\t"); i >= 0 {
+		if i := bytes.LastIndexByte(gap, delim); i >= 0 {
 			gap = gap[i+1:]
 		}
 	} else {
 		gap = src[q+1:]
-		if i := bytes.IndexAny(gap, ",;\t"); i >= 0 {
+		if i := bytes.IndexByte(gap, delim); i >= 0 {
 			gap = gap[:i]
 		}
 	}

@@ -291,6 +291,8 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 2, Msg: `spaces between the delimiter and the double quote that opens a field (character 4): a quoted field starts right after the delimiter; remove the spaces`}},
 		{"space after a closing quote", "x;y;z\n1;2;3\n3;\"a\"  ;4\n", Options{}, []string{"x"}, nil,
 			Error{Line: 3, Msg: `spaces between the double quote that closes a field (character 5) and the delimiter: a quoted field ends right before the delimiter; remove the spaces`}},
+		{"quote after a comma in a semicolon file", "x;y\n1;a, \"b\"\n", Options{}, []string{"x"}, nil,
+			Error{Line: 2, Msg: `a double quote inside an unquoted field (character 6): put the whole field in double quotes and write the quote twice ("")`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

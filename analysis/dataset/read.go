@@ -450,7 +450,7 @@ func longRow(cfg *config, data []byte, line int) error {
 		}
 		var pe *csv.ParseError
 		if errors.As(err, &pe) && pe.Line <= whole {
-			return csvError(cfg.path, err, rec, cfg.fields, line-1, cfg.body, data)
+			return csvError(cfg.path, err, rec, cfg.fields, line-1, cfg.body, data, cfg.delim)
 		}
 		if err != nil {
 			break
@@ -828,7 +828,7 @@ func (p *part) parseQuoted(cfg *config, data []byte, line int) {
 			return
 		}
 		if err != nil {
-			p.err = csvError(cfg.path, err, rec, cfg.fields, off, cfg.body, data)
+			p.err = csvError(cfg.path, err, rec, cfg.fields, off, cfg.body, data, cfg.delim)
 			return
 		}
 		n := len(rec) - 1

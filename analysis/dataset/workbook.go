@@ -467,6 +467,8 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 				msg = outOfRangeMsg(s)
 			} else if h := textHint(s); h != "" {
 				msg = quoteCell(s) + " is not a number" + h
+			} else if _, _, st := parseNumber(s, ','); st == numOK && strings.Contains(s, ",") {
+				msg = quoteCell(s) + ` is not a number: it is text holding a number written with a comma (a decimal comma, or one between thousands); convert the column to numbers in the spreadsheet program, or set non_numeric = "missing" to count such cells as missing`
 			}
 			c.firstNon = &Error{File: w.path, Sheet: t.Sheet, Cell: cellRef(c.index, t.HeaderRow+1+r), Column: c.name, Text: cellText(s), Msg: msg}
 		} else {

@@ -332,6 +332,7 @@ func TestReadWorkbookTextNumbers(t *testing.T) {
 		{"Inf", math.NaN(), `"Inf" is not a number`},
 		{"1e400", math.NaN(), `"1e400" is out of range`},
 		{"\u22125", math.NaN(), `"−5" is not a number: it starts with U+2212`},
+		{"1,5", math.NaN(), `"1,5" is not a number: it is text holding a number written with a comma`},
 		{"NULL", math.NaN(), `"NULL" is not a number: it is how database exports write a missing value (NULL)`},
 		{"nan", math.NaN(), `"nan" is not a number: bivar reads no NaN or infinite value as a number`},
 		{"\uff15", math.NaN(), `"５" is not a number: it has digits other than the ASCII 0 to 9`},

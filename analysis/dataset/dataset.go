@@ -264,7 +264,16 @@ func (h *head) parse(path string, delim rune) (more bool, err error) {
 		}
 	}
 	if delim == 0 {
-		delim = detectDelimiter(b[:min(len(b), readBuffer)])
+		line := b[:min(len(b), readBuffer)]
+		if i := bytes.IndexByte(line, '\n'); i >= 0 {
+			line = line[:i]
+		}
+		if bytes.IndexByte(line, '|') >= 0 && bytes.IndexAny(line, ",;\t") < 0 {
+			// A table as a database shell prints it (psql, mysql --table):
+			// one column of bivar's, whose name holds every name.
+			return false, &Error{File: path, Line: 1, Msg: "the header row is separated by '|', as a database shell prints a table, which bivar does not read: export the query as CSV (in psql: \\copy (SELECT …) TO 'file.csv' CSV HEADER), or read the table from the database with query or table"}
+		}
+		delim = detectDelimiter(line)
 	}
 	cr := csv.NewReader(bytes.NewReader(b))
 	cr.Comma = delim

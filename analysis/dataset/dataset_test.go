@@ -293,6 +293,12 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 3, Msg: `spaces between the double quote that closes a field (character 5) and the delimiter: a quoted field ends right before the delimiter; remove the spaces`}},
 		{"quote after a comma in a semicolon file", "x;y\n1;a, \"b\"\n", Options{}, []string{"x"}, nil,
 			Error{Line: 2, Msg: `a double quote inside an unquoted field (character 6): put the whole field in double quotes and write the quote twice ("")`}},
+		// psql's output redirected to a file: aligned (the default) and
+		// unaligned with a comma (psql -A -F ','), each with its footer.
+		{"psql table", " x | y \n---+---\n 1 | 2\n(1 row)\n", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the header row is separated by '|', as a database shell prints a table, which bivar does not read: export the query as CSV (in psql: \copy (SELECT …) TO 'file.csv' CSV HEADER), or read the table from the database with query or table`}},
+		{"psql row count", "x,y\n1,2\n3,4\n(2 rows)\n", Options{}, []string{"x"}, nil,
+			Error{Line: 4, Msg: `this row has 1 field but the header has 2: it is the count of rows a database shell prints after a table (psql's "(10 rows)"); delete the line, or export the query as CSV (in psql: \copy (SELECT …) TO 'file.csv' CSV HEADER)`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

@@ -974,6 +974,8 @@ func rowTooLong(path string, line int) error {
 func fieldCountMsg(got, want int, row string, first bool) string {
 	msg := fmt.Sprintf("this row has %s but the header has %d", fieldCount(got), want)
 	switch {
+	case got == 1 && strings.HasPrefix(row, "(") && (strings.HasSuffix(row, " rows)") || strings.HasSuffix(row, " row)")):
+		return msg + ": it is the count of rows a database shell prints after a table (psql's \"(10 rows)\"); delete the line, or export the query as CSV (in psql: \\copy (SELECT …) TO 'file.csv' CSV HEADER)"
 	case row == "\x1a":
 		return msg + ": it is a lone Ctrl-Z (0x1A), the end-of-file mark some DOS-era programs write after the last line; delete it"
 	case first && strings.IndexByte(row, 0) < 0:

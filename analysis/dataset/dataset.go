@@ -337,7 +337,9 @@ func notText(b []byte) (what, todo string) {
 }
 
 // wideEncoding names the encoding of a file that starts with a UTF-16 or
-// UTF-32 byte-order mark (The Unicode Standard, §23.8, table 23-4), or
+// UTF-32 byte-order mark (the encoding form signatures of The Unicode
+// Standard's chapter on special characters, U+FEFF; section cited from
+// memory), or
 // whose first bytes are ASCII characters each beside a NUL, as UTF-16
 // without a mark writes them; "" for any other.
 func wideEncoding(b []byte) string {
@@ -907,8 +909,9 @@ func csvError(path string, err error, rec []string, want, off, first int, src []
 // spaceByQuote says whether the double quote at the 1-based byte col of
 // line line of src has only spaces (at least one) between it and the
 // delimiter (delim) or line end before it (open) or after it (!open): a field
-// written , "a, b" , as people type lists, which RFC 4180 (§2, rule 5)
-// does not allow and encoding/csv reports as a quote out of place.
+// written , "a, b" , as people type lists: RFC 4180 §2 makes the spaces
+// part of the field (rule 4) and then allows no quote in it (rule 5), and
+// encoding/csv reports a quote out of place.
 func spaceByQuote(src []byte, delim byte, line, col int, open bool) bool {
 	for ; line > 1; line-- {
 		i := bytes.IndexByte(src, '\n')

@@ -135,8 +135,8 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 	for _, s := range sheets.Sheets {
 		p.order = append(p.order, s.Name)
 		for _, a := range s.Attrs {
-			// state (ECMA-376 Part 1 §18.2.19, ST_SheetState §18.18.68):
-			// visible when absent.
+			// state (ECMA-376 Part 1 §18.2.19; the type's section,
+			// ST_SheetState, not checked): visible when absent.
 			if a.Name.Local == "state" && a.Name.Space == "" && (a.Value == "hidden" || a.Value == "veryHidden") {
 				p.hidden[s.Name] = true
 			}

@@ -337,10 +337,10 @@ func notText(b []byte) (what, todo string) {
 }
 
 // wideEncoding names the encoding of a file that starts with a UTF-16 or
-// UTF-32 byte-order mark (the encoding form signatures of The Unicode
-// Standard's chapter on special characters, U+FEFF; section cited from
-// memory), or
-// whose first bytes are ASCII characters each beside a NUL, as UTF-16
+// UTF-32 byte-order mark (U+FEFF as each encoding form writes it: the
+// signatures The Unicode Standard tabulates, quoted from memory and
+// matching Python 3.11's codecs.BOM_UTF16_LE, _BE, BOM_UTF32_LE, _BE),
+// or whose first bytes are ASCII characters each beside a NUL, as UTF-16
 // without a mark writes them; "" for any other.
 func wideEncoding(b []byte) string {
 	switch {

@@ -6,7 +6,8 @@
 // comma, semicolon or tab (declared, or detected from the header line);
 // numbers may be written with a decimal comma, as exports from many European
 // plants do (declared, or detected when the delimiter is ';' or tab); a UTF-8
-// byte-order mark, CRLF line ends and quoted fields are accepted. Cells that
+// byte-order mark, a first line "sep=;" naming the delimiter, CRLF line
+// ends and quoted fields are accepted. Cells that
 // match a declared missing-value token are missing (NaN), counted per column.
 // A cell in a numeric column that is not a number is an error naming file,
 // line, column and text, unless the dataset says such cells are missing.
@@ -32,6 +33,8 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"time"
+	"unicode"
 	"unicode/utf8"
 	"unsafe"
 
@@ -41,7 +44,8 @@ import (
 // Options say how a file is written. The zero value detects the delimiter
 // and the decimal mark and treats "" and "NA" as missing.
 type Options struct {
-	// Delimiter is ',', ';' or '\t'; 0 detects it from the header line (the
+	// Delimiter is ',', ';' or '\t'; 0 takes it from a first line "sep=;"
+	// when the file has one, else detects it from the header line (the
 	// one of the three that occurs most often outside quotes; comma on a tie
 	// or when none occurs).
 	Delimiter rune
@@ -237,13 +241,39 @@ func (h *head) parse(path string, delim rune) (more bool, err error) {
 		bom = 3
 	}
 	b := h.buf[bom:]
+	sep := 0
+	if d, n := sepLine(b); n > 0 {
+		if delim != 0 && delim != d {
+			return false, &Error{File: path, Line: 1, Msg: fmt.Sprintf("the file's first line, %q, says its delimiter is %q, but the dataset declares delimiter = %q: remove one of the two, or make them agree", strings.TrimRight(string(b[:n]), "\r\n"), d, delim)}
+		}
+		delim, sep = d, n
+		b = b[n:]
+	}
+	if what, todo := notText(h.buf); what != "" {
+		return false, &Error{File: path, Line: 1, Msg: "the file is " + what + ", not CSV text: " + todo}
+	}
+	if enc := wideEncoding(h.buf); enc != "" {
+		return false, &Error{File: path, Line: 1, Msg: "the file is " + enc + " text (Excel's \"Unicode Text\" export and some database tools write it), which bivar does not read: save it as \"CSV UTF-8\", or convert it (iconv -f " + enc + " -t UTF-8)"}
+	}
+	if i, j := bytes.IndexByte(b, 0), bytes.IndexByte(b, '\n'); i >= 0 && (j < 0 || i < j) {
+		return false, &Error{File: path, Line: 1, Msg: "the header row holds NUL (zero) bytes, which a text file does not: check that this is the CSV file meant (not a zeroed or damaged file, or text in another encoding), or save it again as CSV in UTF-8"}
+	}
 	if bytes.IndexByte(b, '\n') < 0 {
 		if i := bytes.IndexByte(b, '\r'); i >= 0 && i < len(b)-1 {
 			return false, &Error{File: path, Msg: "the file uses CR-only line ends (as classic Mac OS wrote them), which bivar does not read: save it with LF or CRLF line ends"}
 		}
 	}
 	if delim == 0 {
-		delim = detectDelimiter(b[:min(len(b), readBuffer)])
+		line := b[:min(len(b), readBuffer)]
+		if i := bytes.IndexByte(line, '\n'); i >= 0 {
+			line = line[:i]
+		}
+		if bytes.IndexByte(line, '|') >= 0 && bytes.IndexAny(line, ",;\t") < 0 {
+			// A table as a database shell prints it (psql, mysql --table):
+			// one column of bivar's, whose name holds every name.
+			return false, &Error{File: path, Line: 1, Msg: "the header row is separated by '|', as a database shell prints a table, which bivar does not read: export the query as CSV (in psql: \\copy (SELECT …) TO 'file.csv' CSV HEADER), or read the table from the database with query or table"}
+		}
+		delim = detectDelimiter(line)
 	}
 	cr := csv.NewReader(bytes.NewReader(b))
 	cr.Comma = delim
@@ -259,15 +289,83 @@ func (h *head) parse(path string, delim rune) (more bool, err error) {
 		return false, &Error{File: path, Msg: "the file is empty: it needs a header row naming the columns"}
 	}
 	if err != nil {
-		return false, csvError(path, err, nil, 0, 0)
+		return false, csvError(path, err, nil, 0, 0, 0, b, byte(delim))
 	}
 	h.names = make([]string, len(header))
 	for i, s := range header {
 		h.names[i] = strings.TrimSpace(s)
 	}
-	h.delim, h.body = delim, bom+off
+	h.delim, h.body = delim, bom+sep+off
 	h.line = 1 + bytes.Count(h.buf[:h.body], []byte{'\n'})
 	return false, nil
+}
+
+// sepLine reads a first line "sep=;" (or "sep=," or "sep=" and a tab), the
+// line spreadsheet programs write above a CSV export to name its
+// delimiter: the delimiter and the line's length with its end, or 0, 0.
+func sepLine(b []byte) (delim rune, n int) {
+	if !bytes.HasPrefix(b, []byte("sep=")) || len(b) < 6 {
+		return 0, 0
+	}
+	switch {
+	case b[4] != ',' && b[4] != ';' && b[4] != '\t':
+		return 0, 0
+	case b[5] == '\n':
+		return rune(b[4]), 6
+	case b[5] == '\r' && len(b) > 6 && b[6] == '\n':
+		return rune(b[4]), 7
+	}
+	return 0, 0
+}
+
+// notText says what a file is whose first bytes are the signature of a
+// format that is not text (each format's magic number: ZIP, APPNOTE.TXT
+// §4.3.7; gzip, RFC 1952 §2.3.1; OLE compound file, MS-CFB §2.2; PDF,
+// ISO 32000-1 §7.5.2), and what to do; "", "" for any other.
+func notText(b []byte) (what, todo string) {
+	switch {
+	case bytes.HasPrefix(b, []byte("PK\x03\x04")):
+		return "a zip archive (an Excel workbook, .xlsx, is one)", "if it is a workbook, give it the extension .xlsx so that bivar reads it as one; if it holds a CSV file, unpack it"
+	case bytes.HasPrefix(b, []byte{0x1F, 0x8B}):
+		return "compressed with gzip", "unpack it (gunzip) and name the unpacked file"
+	case bytes.HasPrefix(b, oleMagic):
+		return "an OLE compound file (an older .xls workbook, or an encrypted .xlsx)", "save it as .xlsx or as CSV in a spreadsheet program"
+	case bytes.HasPrefix(b, []byte("%PDF-")):
+		return "a PDF document", "export the table as CSV from the program that made it"
+	}
+	return "", ""
+}
+
+// wideEncoding names the encoding of a file that starts with a UTF-16 or
+// UTF-32 byte-order mark (U+FEFF as each encoding form writes it: the
+// signatures The Unicode Standard tabulates, quoted from memory and
+// matching Python 3.11's codecs.BOM_UTF16_LE, _BE, BOM_UTF32_LE, _BE),
+// or whose first bytes are ASCII characters each beside a NUL, as UTF-16
+// without a mark writes them; "" for any other.
+func wideEncoding(b []byte) string {
+	switch {
+	case bytes.HasPrefix(b, []byte{0xFF, 0xFE, 0, 0}):
+		return "UTF-32LE"
+	case bytes.HasPrefix(b, []byte{0, 0, 0xFE, 0xFF}):
+		return "UTF-32BE"
+	case bytes.HasPrefix(b, []byte{0xFF, 0xFE}):
+		return "UTF-16LE"
+	case bytes.HasPrefix(b, []byte{0xFE, 0xFF}):
+		return "UTF-16BE"
+	}
+	n := min(len(b), 16) &^ 1
+	le, be := n >= 4, n >= 4
+	for i := 0; i < n; i += 2 {
+		le = le && b[i] != 0 && b[i] < 0x80 && b[i+1] == 0
+		be = be && b[i] == 0 && b[i+1] != 0 && b[i+1] < 0x80
+	}
+	switch {
+	case le:
+		return "UTF-16LE"
+	case be:
+		return "UTF-16BE"
+	}
+	return ""
 }
 
 func openError(path string, err error) error {
@@ -283,6 +381,8 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 	msg := quoteCell(cell) + " is not a number"
 	hasComma, hasPoint := strings.Contains(cell, ","), strings.Contains(cell, ".")
 	switch {
+	case looksLikeDate(cell):
+		msg += `: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`
 	case opts.Thousands != 0 && strings.ContainsRune(cell, opts.Thousands):
 		msg += fmt.Sprintf(": the dataset declares thousands = %q, and a number written with it has one to three digits before the first separator, exactly three after each, and none after the decimal mark; correct the cell, or check thousands and decimal", string(opts.Thousands))
 	case mark == '.' && hasComma && !hasPoint && opts.DecimalPoint:
@@ -297,12 +397,87 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 		msg += `: it has a decimal point, but the dataset declares decimal = ","`
 	case hasPoint && hasComma:
 		msg += `: it shows both a point and a comma; if one of them separates thousands, declare it for the dataset (thousands = "," or "."), or write the number without it`
+	case textHint(cell) != "":
+		msg += textHint(cell)
+	case IsExcelError(cell):
+		msg += `: it is a spreadsheet's error value (a formula that could not be computed, exported as its text); add it to the dataset's missing list to count such cells as missing, or correct the formula and export again`
+	case strings.Count(cell, ".") > 1 && !hasComma && opts.Thousands == 0:
+		msg += `: it has more than one point; if the points separate thousands (1.234.567), declare thousands = "." for the dataset`
+	case strings.HasPrefix(cell, "\uFEFF"):
+		msg += `: it starts with a byte-order mark (U+FEFF), which belongs only at the start of a file: were two files joined? delete the mark (or the line, if it repeats the header)`
+	case strings.IndexByte(cell, 0) >= 0:
+		msg += `: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`
 	case !utf8.ValidString(cell):
 		msg += `: it is not valid UTF-8 text; save the file as UTF-8 (an export in another encoding, such as Windows-1252, shows this)`
 	default:
 		msg += `; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`
 	}
 	return msg
+}
+
+// looksLikeDate says whether s is a date, a time or both in a layout
+// that exports write: ISO 8601 (2026-10-01, 2026-10-01T08:30:00,
+// 2026-10-01 08:30), 01.10.2026, 10/01/2026, 2026/10/01, 08:30, 08:30:00.
+func looksLikeDate(s string) bool {
+	date, clock, _ := strings.Cut(strings.Replace(s, "T", " ", 1), " ")
+	ok := func(v string, layouts ...string) bool {
+		for _, l := range layouts {
+			if _, err := time.Parse(l, v); err == nil {
+				return true
+			}
+		}
+		return false
+	}
+	clockOK := func(v string) bool {
+		return ok(strings.TrimSuffix(v, "Z"), "15:04", "15:04:05", "15:04:05.999999999", "3:04 PM", "3:04:05 PM")
+	}
+	if clock != "" {
+		return ok(date, "2006-01-02", "02.01.2006", "1/2/2006", "2006/01/02", "2.1.2006") && clockOK(clock)
+	}
+	return ok(date, "2006-01-02", "02.01.2006", "1/2/2006", "2006/01/02", "2.1.2006") || clockOK(date)
+}
+
+// textHint explains a cell that is not a number, in a CSV file or a
+// workbook, when it is a missing value as databases and NumPy write them,
+// or a number written with characters bivar does not read as one: "" for
+// any other cell. It starts with ": ".
+func textHint(cell string) string {
+	switch {
+	case cell == `\N` || strings.EqualFold(cell, "NULL"):
+		return fmt.Sprintf(`: it is how database exports write a missing value (NULL); add %s to the dataset's missing list`, strconv.Quote(cell))
+	case nanOrInf(cell):
+		return fmt.Sprintf(`: bivar reads no NaN or infinite value as a number (NumPy and other programs write them so); if it marks a missing value, add %s to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`, strconv.Quote(cell))
+	case strings.IndexFunc(cell, func(r rune) bool { return r > unicode.MaxASCII && unicode.IsDigit(r) }) >= 0:
+		return `: it has digits other than the ASCII 0 to 9 (fullwidth digits, as an East Asian input method types them, or digits of another script); retype the number with 0 to 9`
+	}
+	return otherMinus(cell)
+}
+
+// nanOrInf says whether s is a not-a-number or an infinity as programs
+// write them: NaN, nan, inf, -Infinity, … (any case, any sign).
+func nanOrInf(s string) bool {
+	s = strings.ToLower(strings.TrimLeft(s, "+-"))
+	return s == "nan" || s == "inf" || s == "infinity"
+}
+
+// otherMinus explains a cell that starts, after any spaces, with a dash
+// that is not the ASCII hyphen-minus a number's sign must be: the minus
+// sign U+2212 (which locales such as Swedish and Finnish format numbers
+// with, and word processors put in), the figure dash U+2012 or the en
+// dash U+2013, or the small and fullwidth hyphen-minus U+FE63, U+FF0D.
+// It returns "" for any other cell.
+func otherMinus(cell string) string {
+	r, n := utf8.DecodeRuneInString(strings.TrimSpace(cell))
+	switch r {
+	case '\u2212', '\u2012', '\u2013', '\uFE63', '\uFF0D':
+	default:
+		return ""
+	}
+	rest := strings.TrimSpace(cell)[n:]
+	if rest == "" || rest[0] < '0' || rest[0] > '9' && rest[0] != '.' && rest[0] != ',' {
+		return ""
+	}
+	return fmt.Sprintf(": it starts with %U (%s), not the hyphen-minus '-' that bivar reads as a sign; replace it with '-' (word processors, and spreadsheets in some locales, write this sign)", r, string(r))
 }
 
 // outOfRangeMsg: a number too large in size for a double.
@@ -704,7 +879,10 @@ func lastIndex(names []string, name string) int {
 
 // csvError turns encoding/csv's errors into ones that say what to do.
 // off is added to the lines, for a block that starts on line off+1.
-func csvError(path string, err error, rec []string, want, off int) error {
+// first is the line after the header's: a row there of the wrong length
+// may be under a title line read as the header. src is the text read,
+// whose first line is line off+1, and delim its delimiter.
+func csvError(path string, err error, rec []string, want, off, first int, src []byte, delim byte) error {
 	var pe *csv.ParseError
 	if !errors.As(err, &pe) {
 		return &Error{File: path, Msg: fmt.Sprintf("reading the file: %v", err), err: err}
@@ -713,7 +891,11 @@ func csvError(path string, err error, rec []string, want, off int) error {
 	switch {
 	case errors.Is(pe.Err, csv.ErrFieldCount):
 		e.Line = pe.StartLine + off
-		e.Msg = fieldCountMsg(len(rec), want)
+		e.Msg = fieldCountMsg(len(rec), want, strings.Join(rec, ""), e.Line == first)
+	case errors.Is(pe.Err, csv.ErrBareQuote) && spaceByQuote(src, delim, pe.Line, pe.Column, true):
+		e.Msg = fmt.Sprintf("spaces between the delimiter and the double quote that opens a field (character %d): a quoted field starts right after the delimiter; remove the spaces", pe.Column)
+	case errors.Is(pe.Err, csv.ErrQuote) && spaceByQuote(src, delim, pe.Line, pe.Column, false):
+		e.Msg = fmt.Sprintf("spaces between the double quote that closes a field (character %d) and the delimiter: a quoted field ends right before the delimiter; remove the spaces", pe.Column)
 	case errors.Is(pe.Err, csv.ErrBareQuote):
 		e.Msg = fmt.Sprintf("a double quote inside an unquoted field (character %d): put the whole field in double quotes and write the quote twice (\"\")", pe.Column)
 	case errors.Is(pe.Err, csv.ErrQuote):
@@ -722,6 +904,43 @@ func csvError(path string, err error, rec []string, want, off int) error {
 		e.Msg = pe.Err.Error()
 	}
 	return e
+}
+
+// spaceByQuote says whether the double quote at the 1-based byte col of
+// line line of src has only spaces (at least one) between it and the
+// delimiter (delim) or line end before it (open) or after it (!open): a field
+// written , "a, b" , as people type lists: RFC 4180 §2 makes the spaces
+// part of the field (rule 4) and then allows no quote in it (rule 5), and
+// encoding/csv reports a quote out of place.
+func spaceByQuote(src []byte, delim byte, line, col int, open bool) bool {
+	for ; line > 1; line-- {
+		i := bytes.IndexByte(src, '\n')
+		if i < 0 {
+			return false
+		}
+		src = src[i+1:]
+	}
+	if i := bytes.IndexByte(src, '\n'); i >= 0 {
+		src = src[:i]
+	}
+	src = bytes.TrimSuffix(src, []byte{'\r'})
+	q := col - 1
+	if q < 0 || q >= len(src) || src[q] != '"' {
+		return false
+	}
+	var gap []byte
+	if open {
+		gap = src[:q]
+		if i := bytes.LastIndexByte(gap, delim); i >= 0 {
+			gap = gap[i+1:]
+		}
+	} else {
+		gap = src[q+1:]
+		if i := bytes.IndexByte(gap, delim); i >= 0 {
+			gap = gap[:i]
+		}
+	}
+	return len(gap) > 0 && len(bytes.Trim(gap, " ")) == 0
 }
 
 func fieldCount(n int) string {

@@ -60,6 +60,18 @@ func TestRead(t *testing.T) {
 			numeric: []string{"a", "b"},
 			rows:    1, delim: '\t', comma: true,
 			nums: map[string][]float64{"a": {0.5}, "b": {1}}},
+		// The first line "sep=;" that spreadsheet programs write above a
+		// CSV export names the delimiter; the header is the next line.
+		// It read before as a header of two columns, "sep=" and "", and
+		// every data row as one of the wrong length.
+		{name: "sep= line", src: "\xEF\xBB\xBFsep=;\r\nshot;temp\r\nA;230,5\r\nB;231\r\n",
+			numeric: []string{"temp"}, text: []string{"shot"},
+			rows: 2, delim: ';', comma: true,
+			nums:  map[string][]float64{"temp": {230.5, 231}},
+			texts: map[string][]string{"shot": {"A", "B"}}},
+		{name: "sep= line, comma", src: "sep=,\na,b\n1,2\n",
+			numeric: []string{"a", "b"}, rows: 1, delim: ',',
+			nums: map[string][]float64{"a": {1}, "b": {2}}},
 		{name: "semicolon with decimal point", src: "a;b\n0.5;1\n",
 			numeric: []string{"a"}, rows: 1, delim: ';',
 			nums: map[string][]float64{"a": {0.5}}},
@@ -179,6 +191,114 @@ func TestReadErrors(t *testing.T) {
 			Error{Line: 2, Msg: `a double quote inside an unquoted field (character 5): put the whole field in double quotes and write the quote twice ("")`}},
 		{"unclosed quote", "x,y\n1,\"abc\n", Options{}, []string{"x"}, nil,
 			Error{Line: 2, Msg: `at character 8: a quoted field (in the row starting on line 2) is not closed, or holds a quote not written twice ("")`}},
+		// The bytes of Python 3.11's "x,y\n1,2\n".encode(e) for e = "utf-16"
+		// (little-endian with its mark), "utf-16-be", "utf-16-le" (no
+		// mark) and "utf-32". They read before as a header of mangled
+		// names and a data row of "1 field", on the last line.
+		{"UTF-16 with its mark", "\xff\xfex\x00,\x00y\x00\n\x001\x00,\x002\x00\n\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is UTF-16LE text (Excel's "Unicode Text" export and some database tools write it), which bivar does not read: save it as "CSV UTF-8", or convert it (iconv -f UTF-16LE -t UTF-8)`}},
+		{"UTF-16BE without its mark", "\x00x\x00,\x00y\x00\n\x001\x00,\x002\x00\n", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is UTF-16BE text (Excel's "Unicode Text" export and some database tools write it), which bivar does not read: save it as "CSV UTF-8", or convert it (iconv -f UTF-16BE -t UTF-8)`}},
+		{"UTF-16LE without its mark", "x\x00,\x00y\x00\n\x001\x00,\x002\x00\n\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is UTF-16LE text (Excel's "Unicode Text" export and some database tools write it), which bivar does not read: save it as "CSV UTF-8", or convert it (iconv -f UTF-16LE -t UTF-8)`}},
+		{"UTF-32", "\xff\xfe\x00\x00x\x00\x00\x00,\x00\x00\x00y\x00\x00\x00\n\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is UTF-32LE text (Excel's "Unicode Text" export and some database tools write it), which bivar does not read: save it as "CSV UTF-8", or convert it (iconv -f UTF-32LE -t UTF-8)`}},
+		{"zeroed file", "\x00\x00\x00\x00\x00\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the header row holds NUL (zero) bytes, which a text file does not: check that this is the CSV file meant (not a zeroed or damaged file, or text in another encoding), or save it again as CSV in UTF-8`}},
+		// A file padded with zero bytes after its last line (a write cut
+		// short by a crash): they read before as a row of "1 field" whose
+		// message sent the user looking for a delimiter.
+		{"NUL padding", "x,y\n1,2\n\x00\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `this row has 1 field but the header has 2: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`}},
+		{"NUL padding in a quoted file", "x,y\n1,\"a\"\"b\"\n\x00\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `this row has 1 field but the header has 2: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`}},
+		{"NUL in a cell", "x,y\n1,2\n3\x00\x00,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "3\x00\x00", Msg: `"3\x00\x00" is not a number: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`}},
+		// LF line ends, then CR-only ones from line 3: Python's csv module
+		// (3.11, newline="") ends a row at either and reads rows 1,2 3,4
+		// 5,6; encoding/csv keeps a lone CR in the field, one long row.
+		{"CR-only line ends after LF ones", "x,y\n1,2\n3,4\r5,6\r", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `this row has 3 fields but the header has 2: it holds a carriage return (CR) that ends no line, so from here on the file may use CR-only line ends (as classic Mac OS wrote them), or two files were joined; save it with LF or CRLF line ends`}},
+		{"CR-only line ends after LF ones, quoted", "x,y\n1,\"a\"\"b\"\n3,4\r5,6\r", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `this row has 3 fields but the header has 2: it holds a carriage return (CR) that ends no line, so from here on the file may use CR-only line ends (as classic Mac OS wrote them), or two files were joined; save it with LF or CRLF line ends`}},
+		// Python 3.11's float() refuses these too ("could not convert
+		// string to float"); the messages name the sign or the points.
+		{"minus sign U+2212", "x,y\n1,2\n\u22121.5,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\u22121.5", Msg: `"−1.5" is not a number: it starts with U+2212 (−), not the hyphen-minus '-' that bivar reads as a sign; replace it with '-' (word processors, and spreadsheets in some locales, write this sign)`}},
+		{"en dash", "x;y\n1;2\n \u20132,5;4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\u20132,5", Msg: `"–2,5" is not a number: it starts with U+2013 (–), not the hyphen-minus '-' that bivar reads as a sign; replace it with '-' (word processors, and spreadsheets in some locales, write this sign)`}},
+		{"a dash alone", "x,y\n1,2\n\u2013,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\u2013", Msg: `"–" is not a number; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
+		{"points between thousands", "x;y\n1;2\n1.234.567;4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "1.234.567", Msg: `"1.234.567" is not a number: it has more than one point; if the points separate thousands (1.234.567), declare thousands = "." for the dataset`}},
+		{"line counted after a sep= line", "sep=;\nx;y\n1;2\nz;4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 4, Column: "x", Text: "z", Msg: `"z" is not a number; correct the cell, add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
+		{"sep= line against the declared delimiter", "sep=;\nx;y\n1;2\n", Options{Delimiter: ','}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file's first line, "sep=;", says its delimiter is ';', but the dataset declares delimiter = ',': remove one of the two, or make them agree`}},
+		// A title line above the column names is read as the header: the
+		// first data row is then of the wrong length, and the message said
+		// only to look for a delimiter.
+		{"title above the header", "Line 7, October\nx,y,z\n1,2,3\n", Options{}, []string{"Line 7"}, nil,
+			Error{Line: 2, Msg: `this row has 3 fields but the header has 2: the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row`}},
+		{"title above the header, quoted", "Line 7, October\n\"x\"\"\",y,z\n1,2,3\n", Options{}, []string{"Line 7"}, nil,
+			Error{Line: 2, Msg: `this row has 3 fields but the header has 2: the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row`}},
+		// An export of a sheet writes an error value as its text (Excel,
+		// LibreOffice: #DIV/0!, #N/A); the workbook reader counts such a
+		// cell as missing, and the message says how to do the same here.
+		{"spreadsheet error value", "x,y\n1,2\n#DIV/0!,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "#DIV/0!", Msg: `"#DIV/0!" is not a number: it is a spreadsheet's error value (a formula that could not be computed, exported as its text); add it to the dataset's missing list to count such cells as missing, or correct the formula and export again`}},
+		// Files that are no text, named .csv: each read as a header of
+		// mangled names, then a row of the wrong length or a NUL.
+		{"workbook named .csv", "PK\x03\x04\x14\x00\x06\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is a zip archive (an Excel workbook, .xlsx, is one), not CSV text: if it is a workbook, give it the extension .xlsx so that bivar reads it as one; if it holds a CSV file, unpack it`}},
+		{"gzip", "\x1f\x8b\x08\x00\x00\x00\x00\x00", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the file is compressed with gzip, not CSV text: unpack it (gunzip) and name the unpacked file`}},
+		// What database dumps and NumPy write for NULL, NaN and infinity
+		// (mysqldump --tab and PostgreSQL's COPY text format: \N;
+		// numpy.savetxt: nan, inf).
+		{"database NULL", "x\ty\n1\t2\n\\N\t3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: `\N`, Msg: `"\\N" is not a number: it is how database exports write a missing value (NULL); add "\\N" to the dataset's missing list`}},
+		{"NaN", "x,y\n1,2\n-inf,3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "-inf", Msg: `"-inf" is not a number: bivar reads no NaN or infinite value as a number (NumPy and other programs write them so); if it marks a missing value, add "-inf" to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}},
+		// Python 3.11's float() reads "０５" (U+FF10, U+FF15) as 5.0;
+		// bivar reads ASCII digits only, and says so.
+		{"fullwidth digits", "x,y\n1,2\n\uff10\uff15,3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\uff10\uff15", Msg: `"０５" is not a number: it has digits other than the ASCII 0 to 9 (fullwidth digits, as an East Asian input method types them, or digits of another script); retype the number with 0 to 9`}},
+		// Two exports joined end to end: the second one's header (with
+		// its byte-order mark) is a data row.
+		{"header repeated", "x,y\n1,2\nx,y\n3,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "x", Msg: `"x" is not a number: it is the column's name, so this line repeats the header (were two files joined?); delete the line, or join the files without their headers`}},
+		{"header repeated with its mark", "\uFEFFx,y\n1,2\n\uFEFFx,y\n3,4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "\uFEFFx", Msg: `"\ufeffx" is not a number: it is the column's name, so this line repeats the header (were two files joined?); delete the line, or join the files without their headers`}},
+		{"byte-order mark in a cell", "y,x\n1,2\n\uFEFF3,4\n", Options{}, []string{"y"}, nil,
+			Error{Line: 3, Column: "y", Text: "\uFEFF3", Msg: `"\ufeff3" is not a number: it starts with a byte-order mark (U+FEFF), which belongs only at the start of a file: were two files joined? delete the mark (or the line, if it repeats the header)`}},
+		// Dates and times in a CSV file (Python 3.11's float() refuses
+		// them too); the message says where bivar reads them as numbers.
+		{"date", "x,y\n1,2\n2026-10-01 08:30,3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "2026-10-01 08:30", Msg: `"2026-10-01 08:30" is not a number: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`}},
+		{"time", "x;y\n1;2\n08:30:15;3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "08:30:15", Msg: `"08:30:15" is not a number: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`}},
+		{"German date", "x;y\n1,5;2\n01.10.2026;3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Column: "x", Text: "01.10.2026", Msg: `"01.10.2026" is not a number: it is a date or a time, which bivar reads as a number only from a workbook (as Excel's serial days) or a database; write the column as numbers (hours or days since a start, as a spreadsheet formula can), or read the data from the workbook`}},
+		{"DOS end-of-file mark", "x,y\r\n1,2\r\n3,4\r\n\x1a", Options{}, []string{"x"}, nil,
+			Error{Line: 4, Msg: `this row has 1 field but the header has 2: it is a lone Ctrl-Z (0x1A), the end-of-file mark some DOS-era programs write after the last line; delete it`}},
+		// A space after the delimiter before a quoted field, as people
+		// type lists: RFC 4180 §2 (rule 5) has a quoted field start at the
+		// delimiter; Python 3.11's csv module reads it only with
+		// skipinitialspace=True. The message said to put the field in
+		// double quotes, which it is.
+		{"space before an opening quote", "x,y,z\n1, \"a, b\",3\n", Options{}, []string{"x"}, nil,
+			Error{Line: 2, Msg: `spaces between the delimiter and the double quote that opens a field (character 4): a quoted field starts right after the delimiter; remove the spaces`}},
+		{"space after a closing quote", "x;y;z\n1;2;3\n3;\"a\"  ;4\n", Options{}, []string{"x"}, nil,
+			Error{Line: 3, Msg: `spaces between the double quote that closes a field (character 5) and the delimiter: a quoted field ends right before the delimiter; remove the spaces`}},
+		{"quote after a comma in a semicolon file", "x;y\n1;a, \"b\"\n", Options{}, []string{"x"}, nil,
+			Error{Line: 2, Msg: `a double quote inside an unquoted field (character 6): put the whole field in double quotes and write the quote twice ("")`}},
+		// psql's output redirected to a file: aligned (the default) and
+		// unaligned with a comma (psql -A -F ','), each with its footer.
+		{"psql table", " x | y \n---+---\n 1 | 2\n(1 row)\n", Options{}, []string{"x"}, nil,
+			Error{Line: 1, Msg: `the header row is separated by '|', as a database shell prints a table, which bivar does not read: export the query as CSV (in psql: \copy (SELECT …) TO 'file.csv' CSV HEADER), or read the table from the database with query or table`}},
+		{"psql row count", "x,y\n1,2\n3,4\n(2 rows)\n", Options{}, []string{"x"}, nil,
+			Error{Line: 4, Msg: `this row has 1 field but the header has 2: it is the count of rows a database shell prints after a table (psql's "(10 rows)"); delete the line, or export the query as CSV (in psql: \copy (SELECT …) TO 'file.csv' CSV HEADER)`}},
 		{"empty file", "", Options{}, []string{"x"}, nil,
 			Error{Msg: `the file is empty: it needs a header row naming the columns`}},
 		{"unsupported delimiter", "x|y\n", Options{Delimiter: '|'}, []string{"x"}, nil,

@@ -52,6 +52,7 @@ type config struct {
 	path    string
 	delim   byte
 	fields  int // fields per row, from the header
+	body    int // the line after the header's
 	cols    []*column
 	byIndex []int // header index -> position in cols, -1 when not read
 	last    int   // the highest header index read
@@ -132,7 +133,7 @@ func read(path string, r io.Reader, size int64, opts Options, numeric, text []st
 	if err != nil {
 		return nil, err
 	}
-	cfg := &config{path: path, delim: byte(hd.delim), fields: len(hd.names), cols: cols,
+	cfg := &config{path: path, delim: byte(hd.delim), fields: len(hd.names), body: hd.line, cols: cols,
 		byIndex: make([]int, len(hd.names)), last: -1, missing: opts.Missing, opts: opts, lim: lim}
 	if cfg.missing == nil {
 		cfg.missing = DefaultMissing()
@@ -449,7 +450,7 @@ func longRow(cfg *config, data []byte, line int) error {
 		}
 		var pe *csv.ParseError
 		if errors.As(err, &pe) && pe.Line <= whole {
-			return csvError(cfg.path, err, rec, cfg.fields, line-1)
+			return csvError(cfg.path, err, rec, cfg.fields, line-1, cfg.body, data, cfg.delim)
 		}
 		if err != nil {
 			break
@@ -582,7 +583,7 @@ func (p *part) parsePlain(cfg *config, data []byte, line int) bool {
 			continue
 		}
 		if nf := bytes.Count(rec, []byte{delim}) + 1; nf != cfg.fields {
-			p.err = &Error{File: cfg.path, Line: ln, Msg: fieldCountMsg(nf, cfg.fields)}
+			p.err = &Error{File: cfg.path, Line: ln, Msg: fieldCountMsg(nf, cfg.fields, string(rec), ln == cfg.body)}
 			return true
 		}
 		p.rows++
@@ -827,7 +828,7 @@ func (p *part) parseQuoted(cfg *config, data []byte, line int) {
 			return
 		}
 		if err != nil {
-			p.err = csvError(cfg.path, err, rec, cfg.fields, off)
+			p.err = csvError(cfg.path, err, rec, cfg.fields, off, cfg.body, data, cfg.delim)
 			return
 		}
 		n := len(rec) - 1
@@ -903,6 +904,10 @@ func (p *part) cell(cfg *config, ci int, raw string, ln int) (stop bool) {
 		p.more++
 	default:
 		msg := nonNumericMsg(s, p.mark, p.markLine, cfg.opts)
+		if s == c.name || strings.TrimPrefix(s, "\uFEFF") == c.name {
+			// A second header: files joined end to end.
+			msg = quoteCell(s) + " is not a number: it is the column's name, so this line repeats the header (were two files joined?); delete the line, or join the files without their headers"
+		}
 		if st == numOutOfRange {
 			msg = outOfRangeMsg(s)
 		}
@@ -961,8 +966,26 @@ func rowTooLong(path string, line int) error {
 	return &Error{File: path, Line: line, Msg: fmt.Sprintf("the row starting on this line is longer than %s, the longest row bivar reads: check that the file is CSV with one row per line and that every double quote is closed", bytesText(MaxRowBytes))}
 }
 
-func fieldCountMsg(got, want int) string {
-	return fmt.Sprintf("this row has %s but the header has %d: look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes", fieldCount(got), want)
+// fieldCountMsg explains a row of got fields where the header has want;
+// row is the row's text (its fields, when only they are known), whose
+// NUL bytes or carriage returns that end no line point at a cause other
+// than a delimiter; first says the row is on the line after the header,
+// which may then be a title above the column names.
+func fieldCountMsg(got, want int, row string, first bool) string {
+	msg := fmt.Sprintf("this row has %s but the header has %d", fieldCount(got), want)
+	switch {
+	case got == 1 && strings.HasPrefix(row, "(") && (strings.HasSuffix(row, " rows)") || strings.HasSuffix(row, " row)")):
+		return msg + ": it is the count of rows a database shell prints after a table (psql's \"(10 rows)\"); delete the line, or export the query as CSV (in psql: \\copy (SELECT …) TO 'file.csv' CSV HEADER)"
+	case row == "\x1a":
+		return msg + ": it is a lone Ctrl-Z (0x1A), the end-of-file mark some DOS-era programs write after the last line; delete it"
+	case first && strings.IndexByte(row, 0) < 0:
+		return msg + ": the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row"
+	case strings.IndexByte(row, 0) >= 0:
+		return msg + ": it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8"
+	case strings.IndexByte(row, '\r') >= 0:
+		return msg + ": it holds a carriage return (CR) that ends no line, so from here on the file may use CR-only line ends (as classic Mac OS wrote them), or two files were joined; save it with LF or CRLF line ends"
+	}
+	return msg + ": look for a missing or extra delimiter, or a value holding the delimiter that is not in double quotes"
 }
 
 func levelsError(cfg *config, c *column, s string, line int) error {

@@ -31,13 +31,16 @@ import (
 // sheetPackage locates the parts of an .xlsx package: each sheet's
 // worksheet part and the shared string table.
 type sheetPackage struct {
-	files   map[string]*zip.File    // by part name, without the leading "/"
-	maxPart uint64                  // the most bytes a part may unpack to
-	order   []string                // the sheets' names in tab order
-	sheets  map[string]string       // sheet name → worksheet part name
-	merges  map[string][]mergeRange // worksheet part → its merged ranges, once read
-	sstPart string                  // "" when the workbook has no shared strings
-	sst     Strings                 // loaded on first use (Given once read)
+	files    map[string]*zip.File    // by part name, without the leading "/"
+	maxPart  uint64                  // the most bytes a part may unpack to
+	order    []string                // the sheets' names in tab order
+	sheets   map[string]string       // sheet name → worksheet part name
+	hidden   map[string]bool         // sheets whose state is hidden or veryHidden
+	other    map[string]string       // sheets that are no worksheet → what they are ("a chart sheet")
+	date1904 bool                    // serial numbers count days from 1904-01-01
+	merges   map[string][]mergeRange // worksheet part → its merged ranges, once read
+	sstPart  string                  // "" when the workbook has no shared strings
+	sst      Strings                 // loaded on first use (Given once read)
 }
 
 // Relationship types (ECMA-376 Part 1 §15.2; the transitional and the
@@ -58,6 +61,9 @@ type opcRelationships struct {
 }
 
 type workbookSheets struct {
+	Pr struct {
+		Date1904 string `xml:"date1904,attr"`
+	} `xml:"workbookPr"`
 	Sheets []struct {
 		Name  string     `xml:"name,attr"`
 		Attrs []xml.Attr `xml:",any,attr"`
@@ -71,7 +77,7 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 	if err != nil {
 		return nil, err
 	}
-	p := &sheetPackage{files: map[string]*zip.File{}, maxPart: maxPart, sheets: map[string]string{}, merges: map[string][]mergeRange{}}
+	p := &sheetPackage{files: map[string]*zip.File{}, maxPart: maxPart, sheets: map[string]string{}, hidden: map[string]bool{}, other: map[string]string{}, merges: map[string][]mergeRange{}}
 	for _, f := range zr.File {
 		p.files[strings.TrimPrefix(f.Name, "/")] = f
 	}
@@ -93,12 +99,14 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 	if err := p.decode(wb, &sheets); err != nil {
 		return nil, err
 	}
+	p.date1904 = sheets.Pr.Date1904 == "1" || sheets.Pr.Date1904 == "true"
 	dir := path.Dir(wb)
 	wbRels, err := p.rels(path.Join(dir, "_rels", path.Base(wb)+".rels"))
 	if err != nil {
 		return nil, err
 	}
 	target := map[string]string{}
+	kind := map[string]string{} // relationship → what a sheet of another type is
 	for _, r := range wbRels.Rel {
 		if r.Mode == "External" {
 			continue
@@ -106,6 +114,12 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 		switch {
 		case strings.HasSuffix(r.Type, relWorksheet):
 			target[r.ID] = resolvePart(dir, r.Target)
+		case strings.HasSuffix(r.Type, "/chartsheet"):
+			kind[r.ID] = "a chart sheet"
+		case strings.HasSuffix(r.Type, "/dialogsheet"):
+			kind[r.ID] = "a dialog sheet"
+		case strings.HasSuffix(r.Type, "/xlMacrosheet"), strings.HasSuffix(r.Type, "/xlIntlMacrosheet"):
+			kind[r.ID] = "a macro sheet"
 		case strings.HasSuffix(r.Type, relSharedStrings):
 			p.sstPart = resolvePart(dir, r.Target)
 		}
@@ -121,10 +135,17 @@ func openSheetPackage(data []byte, maxPart uint64) (*sheetPackage, error) {
 	for _, s := range sheets.Sheets {
 		p.order = append(p.order, s.Name)
 		for _, a := range s.Attrs {
+			// state (ECMA-376 Part 1 §18.2.19; the type's section,
+			// ST_SheetState, not checked): visible when absent.
+			if a.Name.Local == "state" && a.Name.Space == "" && (a.Value == "hidden" || a.Value == "veryHidden") {
+				p.hidden[s.Name] = true
+			}
 			// r:id, in the relationships namespace of either flavour.
 			if a.Name.Local == "id" && strings.HasSuffix(a.Name.Space, "/relationships") {
 				if t, ok := target[a.Value]; ok {
 					p.sheets[s.Name] = t
+				} else if k, ok := kind[a.Value]; ok {
+					p.other[s.Name] = k
 				}
 			}
 		}
@@ -411,8 +432,9 @@ func isNameEnd(b byte) bool {
 // sheetCell is one cell of a row: its 0-based column and its value as
 // the file stores it (see rows).
 type sheetCell struct {
-	col int
-	v   []byte
+	col  int
+	v    []byte
+	date bool // t="d": v is a date, a time or both in ISO 8601 (§18.17.4)
 }
 
 // rowFunc receives one row element: its 1-based row number and its cells
@@ -560,7 +582,7 @@ func (p *sheetPackage) rows(part string, fn rowFunc) error {
 				}
 				if len(arena) > vStart { // a cell without a value is left out
 					spans = append(spans, [2]int{vStart, len(arena)})
-					cells = append(cells, sheetCell{col: col})
+					cells = append(cells, sheetCell{col: col, date: string(typ) == "d"})
 				}
 			case "v":
 				inV = false

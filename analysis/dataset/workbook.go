@@ -18,6 +18,7 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"time"
 )
 
 // IsWorkbook says whether path names an Excel workbook that ReadWorkbook
@@ -31,7 +32,8 @@ func IsWorkbook(path string) bool {
 }
 
 // SheetRef names a workbook's sheet: by Name, or by its 1-based Number in
-// the workbook's tab order. The zero value is the first sheet.
+// the workbook's tab order (hidden sheets counted). The zero value is the
+// first worksheet that is not hidden (the first sheet, when every one is).
 type SheetRef struct {
 	Name   string
 	Number int
@@ -135,6 +137,14 @@ func (w *Workbook) sheet(ref SheetRef) (string, error) {
 	case ref.Number < 0 || ref.Number > len(w.sheets):
 		return "", &Error{File: w.path, Msg: fmt.Sprintf("sheet = %d, but the workbook has %d sheet(s) (%s): give a number from 1 to %d, or a name", ref.Number, len(w.sheets), list, len(w.sheets))}
 	case ref.Number == 0:
+		// The first sheet whose tab the workbook shows: a hidden sheet (an
+		// old copy, a lookup table) or a chart sheet before it is read
+		// only when named.
+		for _, s := range w.sheets {
+			if _, ok := w.pkg.sheets[s]; ok && !w.pkg.hidden[s] {
+				return s, nil
+			}
+		}
 		return w.sheets[0], nil
 	}
 	return w.sheets[ref.Number-1], nil
@@ -164,6 +174,15 @@ func (w *Workbook) readSheet(ref SheetRef, headerRow int, header func(sheet stri
 			"; the workbook looks damaged: open it in a spreadsheet program and save it again, or export the sheet as CSV", err: err}
 	}
 	part, ok := w.pkg.sheets[sheet]
+	if k := w.pkg.other[sheet]; !ok && k != "" {
+		var ws []string
+		for _, s := range w.sheets {
+			if _, ok := w.pkg.sheets[s]; ok {
+				ws = append(ws, strconv.Quote(s))
+			}
+		}
+		return &Error{File: w.path, Sheet: sheet, Msg: fmt.Sprintf("the sheet is %s, which holds no cells: set sheet to a worksheet (the workbook's are %s)", k, strings.Join(ws, ", "))}
+	}
 	if !ok {
 		return fail("", errors.New("the workbook lists it but holds no worksheet part for it (is it a chart sheet?)"))
 	}
@@ -333,7 +352,8 @@ func (w *Workbook) Header(ref SheetRef, headerRow int) ([]string, error) {
 // A cell reads as what the file stores: a number as its value, a date or
 // time as its Excel serial number (days since 1899-12-30, the fraction
 // the time of day; a workbook in the 1904 date system stores days since
-// 1904-01-01 and is read as stored), a formula as the value cached when
+// 1904-01-01 and is read as stored; a date cell stored as ISO 8601 text,
+// t="d", is read as that serial number too: dateSerial), a formula as the value cached when
 // the workbook was last saved (a formula never calculated reads empty,
 // hence missing), text as text. A cell holding an error value (#DIV/0!,
 // #N/A, …) is missing in any column, counted in Table.Missing and by kind
@@ -375,11 +395,12 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 	var cols []*colRead
 	var slot []int // sheet column → index in cols, −1 for a column not read
 	var cell [][]byte
-	rows := 0 // data rows so far, up to the last with a non-blank cell
+	var dates []bool // the cells of cell that are date cells (t="d")
+	rows := 0        // data rows so far, up to the last with a non-blank cell
 	over := false
 
 	// put reads one cell of column c in data row r.
-	put := func(c *colRead, r int, b []byte) {
+	put := func(c *colRead, r int, b []byte, date bool) {
 		b = bytes.TrimSpace(b)
 		isErr := len(b) > 0 && b[0] == '#' && IsExcelError(string(b))
 		isMissing := isErr || slices.Contains(missing, string(b))
@@ -417,8 +438,20 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 			c.nums.add(math.NaN())
 			return
 		}
-		v, err := strconv.ParseFloat(string(b), 64)
-		if err == nil && !math.IsInf(v, 0) && !math.IsNaN(v) {
+		if date {
+			// A date cell stored as text (t="d") reads as the serial
+			// number a number cell holding it stores.
+			if v, ok := dateSerial(string(b), w.pkg.date1904); ok {
+				c.nums.add(v)
+				return
+			}
+		}
+		// The rules of a CSV cell with a decimal point: a number's text as
+		// a spreadsheet program writes it passes, and so does text typed
+		// as a number; not "NaN", "Inf", hexadecimal ("0x1p3", which
+		// strconv.ParseFloat would read as 8) or digit separators.
+		v, _, st := parseNumber(string(b), '.')
+		if st == numOK {
 			c.nums.add(v)
 			return
 		}
@@ -429,8 +462,15 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 		}
 		if c.firstNon == nil {
 			s := string(b)
-			c.firstNon = &Error{File: w.path, Sheet: t.Sheet, Cell: cellRef(c.index, t.HeaderRow+1+r), Column: c.name, Text: cellText(s),
-				Msg: quoteCell(s) + ` is not a number; correct the cell (a number stored as text with units or separators shows this), add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`}
+			msg := quoteCell(s) + ` is not a number; correct the cell (a number stored as text with units or separators shows this), add this text to the dataset's missing list, or set non_numeric = "missing" to count such cells as missing`
+			if st == numOutOfRange {
+				msg = outOfRangeMsg(s)
+			} else if h := textHint(s); h != "" {
+				msg = quoteCell(s) + " is not a number" + h
+			} else if _, _, st := parseNumber(s, ','); st == numOK && strings.Contains(s, ",") {
+				msg = quoteCell(s) + ` is not a number: it is text holding a number written with a comma (a decimal comma, or one between thousands); convert the column to numbers in the spreadsheet program, or set non_numeric = "missing" to count such cells as missing`
+			}
+			c.firstNon = &Error{File: w.path, Sheet: t.Sheet, Cell: cellRef(c.index, t.HeaderRow+1+r), Column: c.name, Text: cellText(s), Msg: msg}
 		} else {
 			c.nNon++
 		}
@@ -461,7 +501,7 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 			}
 			slot[c.index] = len(cols) - 1
 		}
-		cell = make([][]byte, len(cols))
+		cell, dates = make([][]byte, len(cols)), make([]bool, len(cols))
 		return true, nil
 	}, func(r int, cells []sheetCell) error {
 		if r >= lim.MaxRows {
@@ -473,17 +513,18 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 		}
 		for ; rows < r; rows++ { // rows of blank cells before this one
 			for _, c := range cols {
-				put(c, rows, nil)
+				put(c, rows, nil, false)
 			}
 		}
 		clear(cell)
+		clear(dates)
 		for _, sc := range cells {
 			if sc.col < len(slot) && slot[sc.col] >= 0 {
-				cell[slot[sc.col]] = sc.v
+				cell[slot[sc.col]], dates[slot[sc.col]] = sc.v, sc.date
 			}
 		}
 		for k, c := range cols {
-			put(c, r, cell[k])
+			put(c, r, cell[k], dates[k])
 		}
 		rows = r + 1
 		return nil
@@ -517,4 +558,48 @@ func (w *Workbook) Read(ref SheetRef, headerRow int, opts Options, numeric, text
 		t.Missing[c.name] = c.nMissing
 	}
 	return t, nil
+}
+
+// dateSerial reads the text of a date cell (t="d": ECMA-376 Part 1
+// §18.17.4, ISO 8601 as a date 2026-10-01, a time 08:30:00 or both
+// 2026-10-01T08:30:00, seconds and their fraction optional) as the serial
+// number a number cell holding it stores: days since 1899-12-30 (a date
+// before 1900-03-01 one less, as the 1900 date system counts a
+// 29 February 1900 that never was), or since 1904-01-01 in the 1904 date
+// system, the fraction the time of day; a time alone is that fraction. A
+// zone (Z, +02:00) is dropped: a spreadsheet's clock has none, and the
+// cell is read at the clock time it shows. openpyxl's to_excel
+// (openpyxl/utils/datetime.py, 3.0.9) counts the same.
+func dateSerial(s string, date1904 bool) (float64, bool) {
+	var t time.Time
+	var err error
+	for _, layout := range []string{"2006-01-02T15:04:05.999999999Z07:00", "2006-01-02T15:04:05.999999999",
+		"2006-01-02T15:04Z07:00", "2006-01-02T15:04", "2006-01-02", "15:04:05.999999999Z07:00",
+		"15:04:05.999999999", "15:04"} {
+		if t, err = time.Parse(layout, s); err == nil {
+			if !strings.Contains(layout, "2006") {
+				return float64(t.Hour()*3600+t.Minute()*60+t.Second())/86400 + float64(t.Nanosecond())/86400e9, true
+			}
+			break
+		}
+	}
+	if err != nil {
+		return 0, false
+	}
+	// The clock time as written, in seconds from the epoch's midnight.
+	clock := time.Date(t.Year(), t.Month(), t.Day(), t.Hour(), t.Minute(), t.Second(), 0, time.UTC)
+	epoch := time.Date(1899, 12, 30, 0, 0, 0, 0, time.UTC)
+	if date1904 {
+		epoch = time.Date(1904, 1, 1, 0, 0, 0, 0, time.UTC)
+	}
+	secs := clock.Unix() - epoch.Unix()
+	days := secs / 86400
+	if secs%86400 < 0 {
+		days--
+	}
+	rest := float64(secs-days*86400)/86400 + float64(t.Nanosecond())/86400e9
+	if !date1904 && days > 0 && days <= 60 {
+		days--
+	}
+	return float64(days) + rest, true
 }

@@ -1,14 +1,17 @@
 package dataset
 
 import (
+	"archive/zip"
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -303,5 +306,188 @@ func TestCellRefAsExcelize(t *testing.T) {
 				t.Errorf("cellRef(%d, %d) = %q, want %q", col, row, got, want)
 			}
 		}
+	}
+}
+
+// Text cells in a numeric column read by the rules of a CSV cell. The
+// cells are stored as text (excelize writes a Go string as a shared
+// string); openpyxl 3.0.9 (load_workbook(path, data_only=True)) reads each
+// back as that Python str, and Python's float() refuses "0x1p3" and
+// "Inf". strconv.ParseFloat, which read such cells before, took "0x1p3"
+// as the hexadecimal float 8 and reported "1e400" as not a number rather
+// than out of range.
+func TestReadWorkbookTextNumbers(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		cell string
+		want float64 // NaN: not a number
+		msg  string  // part of the error when not a number
+	}{
+		{" 7 ", 7, ""},
+		{".5", 0.5, ""},
+		{"+5", 5, ""},
+		{"-2.5E-3", -0.0025, ""},
+		{"0x1p3", math.NaN(), `"0x1p3" is not a number`},
+		{"0X10P0", math.NaN(), `"0X10P0" is not a number`},
+		{"Inf", math.NaN(), `"Inf" is not a number`},
+		{"1e400", math.NaN(), `"1e400" is out of range`},
+		{"\u22125", math.NaN(), `"−5" is not a number: it starts with U+2212`},
+		{"1,5", math.NaN(), `"1,5" is not a number: it is text holding a number written with a comma`},
+		{"NULL", math.NaN(), `"NULL" is not a number: it is how database exports write a missing value (NULL)`},
+		{"nan", math.NaN(), `"nan" is not a number: bivar reads no NaN or infinite value as a number`},
+		{"\uff15", math.NaN(), `"５" is not a number: it has digits other than the ASCII 0 to 9`},
+	} {
+		path := writeBook(t, []string{"S"}, [][][]any{{{"x"}, {1.0}, {tc.cell}}}, nil)
+		tb, err := ReadWorkbook(path, SheetRef{}, 0, Options{}, []string{"x"}, nil)
+		if math.IsNaN(tc.want) {
+			if err == nil || !strings.Contains(err.Error(), tc.msg) || !strings.Contains(err.Error(), "cell A3") {
+				t.Errorf("%q: got %v, want an error at cell A3 containing %q", tc.cell, err, tc.msg)
+			}
+			tb, err = ReadWorkbook(path, SheetRef{}, 0, Options{NonNumericAsMissing: true}, []string{"x"}, nil)
+			if err != nil || tb.NonNumeric["x"] != 1 || !math.IsNaN(tb.Numeric["x"][1]) {
+				t.Errorf("%q with non_numeric = missing: %v, %v", tc.cell, tb, err)
+			}
+			continue
+		}
+		if err != nil || tb.Numeric["x"][1] != tc.want {
+			t.Errorf("%q: got %v, %v; want %v", tc.cell, tb, err, tc.want)
+		}
+	}
+}
+
+// A hidden first sheet (state="hidden", ECMA-376 Part 1 §18.2.19; excelize
+// SetSheetVisible(name, false) writes it) is not the default: the default
+// is the first sheet whose tab shows. Read before without a word, such a
+// sheet (an earlier copy of the data) gave another study than the sheet
+// in front of its author. Named or numbered, it is read.
+func TestReadWorkbookHiddenSheet(t *testing.T) {
+	t.Parallel()
+	old := [][]any{{"x", "y"}, {1, 100}, {2, 99}, {3, 98}}
+	cur := [][]any{{"x", "y"}, {1, 2}, {2, 4}, {3, 6}}
+	path := writeBook(t, []string{"Old", "Current"}, [][][]any{old, cur}, func(f *excelize.File) {
+		f.SetActiveSheet(1)
+		if err := f.SetSheetVisible("Old", false); err != nil {
+			t.Fatal(err)
+		}
+	})
+	for _, tc := range []struct {
+		ref   SheetRef
+		sheet string
+		y0    float64
+	}{
+		{SheetRef{}, "Current", 2},
+		{SheetRef{Name: "Old"}, "Old", 100},
+		{SheetRef{Number: 1}, "Old", 100},
+		{SheetRef{Number: 2}, "Current", 2},
+	} {
+		tb, err := ReadWorkbook(path, tc.ref, 0, Options{}, []string{"x", "y"}, nil)
+		if err != nil || tb.Sheet != tc.sheet || tb.Numeric["y"][0] != tc.y0 {
+			t.Errorf("%+v: got %v, %v; want sheet %q with y[0] = %v", tc.ref, tb, err, tc.sheet, tc.y0)
+		}
+	}
+}
+
+// Date cells stored as ISO 8601 text (t="d", ECMA-376 Part 1 §18.17.4;
+// openpyxl writes them with Workbook(iso_dates=True)) read as the serial
+// numbers a number cell holding them stores, in the workbook's date
+// system. They were "not a number" before. Expected values: openpyxl
+// 3.0.9, load_workbook(path, data_only=True) of the same parts, then
+// openpyxl.utils.datetime.to_excel(value, wb.epoch) of each cell.
+func TestReadWorkbookISODates(t *testing.T) {
+	t.Parallel()
+	cells := []string{"2026-10-01T08:30:00", "2026-10-01", "08:30:00", "1900-02-28T12:00:00", "1900-03-01",
+		"2026-10-01T08:30:00.5", "2026-10-01T08:30:00Z", "1899-12-29T18:00:00"}
+	sheet := `<sheetData><row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c></row>`
+	for i, c := range cells {
+		sheet += fmt.Sprintf(`<row r="%d"><c r="A%[1]d" t="d"><v>%s</v></c></row>`, i+2, c)
+	}
+	sheet += `</sheetData></worksheet>`
+	for _, tc := range []struct {
+		pr   string
+		want []float64
+	}{
+		{"", []float64{46296.354166666664, 46296.0, 0.3541666666666667, 59.5, 61.0, 46296.354172453706, 46296.354166666664, -0.25}},
+		{`<workbookPr date1904="1"/>`, []float64{44834.354166666664, 44834.0, 0.3541666666666667, -1401.5, -1401.0, 44834.354172453706, 44834.354166666664, -1462.25}},
+	} {
+		path := zipParts(t, map[string]string{
+			"_rels/.rels": `<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+				`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="xl/workbook.xml"/></Relationships>`,
+			"xl/_rels/workbook.xml.rels": `<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+				`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/worksheet" Target="worksheets/sheet1.xml"/></Relationships>`,
+			"xl/workbook.xml": `<?xml version="1.0" encoding="UTF-8"?><workbook xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main" ` +
+				`xmlns:r="http://schemas.openxmlformats.org/officeDocument/2006/relationships">` + tc.pr + `<sheets><sheet name="S" sheetId="1" r:id="rId1"/></sheets></workbook>`,
+			"xl/worksheets/sheet1.xml": `<?xml version="1.0" encoding="UTF-8"?><worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">` + sheet,
+		})
+		tb, err := ReadWorkbook(path, SheetRef{}, 0, Options{}, []string{"x"}, []string{"x"})
+		if err != nil {
+			t.Fatalf("%s: %v", tc.pr, err)
+		}
+		// Python's float repr reads back as the same double: equal to the
+		// last bit.
+		if !closeFloats(tb.Numeric["x"], tc.want, 0) {
+			t.Errorf("%s: got %v, want %v", tc.pr, tb.Numeric["x"], tc.want)
+		}
+		// As text (a row name, a group), the cell keeps what it shows.
+		if got := tb.Text["x"].At(0); got != cells[0] {
+			t.Errorf("%s: text %q, want %q", tc.pr, got, cells[0])
+		}
+	}
+	// A date cell whose text is no date is not a number, named by cell.
+	path := handBook(t, `<sheetData><row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c></row><row r="2"><c r="A2" t="d"><v>2026-13-01</v></c></row></sheetData></worksheet>`, "", false)
+	if _, err := ReadWorkbook(path, SheetRef{}, 0, Options{}, []string{"x"}, nil); err == nil || !strings.Contains(err.Error(), `cell A2: column "x": "2026-13-01" is not a number`) {
+		t.Errorf("month 13: got %v", err)
+	}
+}
+
+// A chart sheet (ECMA-376 Part 1 §12.3.2, written by excelize's
+// AddChartSheet) holds no cells: as the first tab it is not the default,
+// and named it is refused as what it is, with the worksheets to choose
+// from; the message called the workbook damaged and told the user to
+// save it again.
+func TestReadWorkbookChartSheet(t *testing.T) {
+	t.Parallel()
+	data := [][]any{{"x", "y"}, {1, 3}, {2, 6}, {3, 9}}
+	path := writeBook(t, []string{"Data"}, [][][]any{data}, func(f *excelize.File) {
+		err := f.AddChartSheet("Chart", &excelize.Chart{Type: excelize.Line,
+			Series: []excelize.ChartSeries{{Name: "Data!$B$1", Categories: "Data!$A$2:$A$4", Values: "Data!$B$2:$B$4"}}})
+		if err != nil {
+			t.Fatal(err)
+		}
+	})
+	// Put the chart sheet's tab first (excelize's MoveSheet panics on a
+	// chart sheet): swap the two sheet elements of the workbook part.
+	zr, err := zip.OpenReader(path)
+	must(t, err)
+	parts := map[string]string{}
+	for _, f := range zr.File {
+		rc, err := f.Open()
+		must(t, err)
+		b, err := io.ReadAll(rc)
+		must(t, err)
+		parts[f.Name] = string(b)
+	}
+	must(t, zr.Close())
+	wb := parts["xl/workbook.xml"]
+	i, j := strings.Index(wb, `<sheet name="Data"`), strings.Index(wb, `<sheet name="Chart"`)
+	if i < 0 || j < i {
+		t.Fatalf("workbook part: %s", wb)
+	}
+	end := strings.Index(wb[j:], "</sheet>")
+	if end < 0 {
+		t.Fatalf("workbook part: %s", wb)
+	}
+	dataEl, chartEl := wb[i:j], wb[j:j+end+len("</sheet>")]
+	parts["xl/workbook.xml"] = wb[:i] + chartEl + dataEl + wb[j+len(chartEl):]
+	path = zipParts(t, parts)
+	w, err := OpenWorkbook(path, nil)
+	if err != nil || !slices.Equal(w.Sheets(), []string{"Chart", "Data"}) {
+		t.Fatalf("sheets %v, %v; want the chart sheet first", w, err)
+	}
+	if tb, err := w.Read(SheetRef{}, 0, Options{}, []string{"x", "y"}, nil); err != nil || tb.Sheet != "Data" || tb.Numeric["y"][2] != 9 {
+		t.Errorf("default sheet: got %v, %v; want Data", tb, err)
+	}
+	_, err = w.Read(SheetRef{Number: 1}, 0, Options{}, []string{"x", "y"}, nil)
+	if want := `sheet "Chart": the sheet is a chart sheet, which holds no cells: set sheet to a worksheet (the workbook's are "Data")`; err == nil || !strings.Contains(err.Error(), want) {
+		t.Errorf("sheet = 1: got %v, want %q", err, want)
 	}
 }

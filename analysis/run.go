@@ -573,7 +573,13 @@ func noColumn(role, col string, ls *loadedSet) string {
 	if near := suggest.Nearest(col, ls.columns); near != "" {
 		return msg + fmt.Sprintf(": did you mean %q?", near)
 	}
-	return msg + ": its columns are " + quoteList(ls.columns)
+	msg += ": its columns are " + quoteList(ls.columns)
+	if src := ls.info.Source; src != nil && src.Kind == report.SourceWorkbook && ls.decl.HeaderRow == nil {
+		// A title or a blank-looking row above the names (a report's
+		// heading in A1) is taken for the header by default.
+		msg += fmt.Sprintf(", read from sheet %q row %d, the first non-empty one: if the names are on another row, set header_row", src.Sheet, src.HeaderRow)
+	}
+	return msg
 }
 
 func quoteList(cols []string) string {

@@ -198,6 +198,9 @@ func analyze(in Input, cfg Config) report.Study {
 	s.NMissing = len(in.XS) - cc.leftOut - s.N
 	s.Excluded = cc.excluded
 	if s.N < 3 {
+		if len(in.XS) == 0 {
+			return failed(s, "the dataset has no data rows (its file holds the column names alone, or its query returned none); a study needs at least 3 complete rows")
+		}
 		if cc.leftOut > 0 {
 			return failed(s, fmt.Sprintf("only %s of %s after the %s left out by exclude or where; at least 3 are needed: check the manifest's exclude and where, and the columns for missing cells",
 				count(s.N, "complete row"), completeColumns(in, covNames), count(cc.leftOut, "row")))

@@ -165,6 +165,16 @@ func TestRunSubsetTooFew(t *testing.T) {
 	if want := `m.toml:5: in this [[study]]: x column "x" is constant`; !strings.Contains(studyErrs, want) {
 		t.Errorf("constant x: error = %q, want it to hold %q", studyErrs, want)
 	}
+	// A file of the column names alone says so (it said "only 0 complete
+	// rows …: check the columns for missing cells"; found by a sweep of
+	// messy inputs).
+	_, studyErrs, err = runText(t, "x,y\n", "[[dataset]]\nid = \"d\"\nfile = \"d.csv\"\n\n[[study]]\nid = \"c\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := `m.toml:5: in this [[study]]: the dataset has no data rows`; !strings.Contains(studyErrs, want) {
+		t.Errorf("header only: error = %q, want it to hold %q", studyErrs, want)
+	}
 }
 
 func TestRunSubsetNonNumericCounts(t *testing.T) {

@@ -27,7 +27,7 @@ func TestAnalyzeCannotRun(t *testing.T) {
 	}{
 		{"two-rows", in([]float64{1, 2}, []float64{3, 4}), []string{"only 2 complete", `x "a"`, `y "b"`}},
 		{"missing-leaves-two", in([]float64{1, 2, nan, 4}, []float64{3, nan, 5, 6}), []string{"only 2 complete"}},
-		{"empty", in(nil, nil), []string{"only 0 complete"}},
+		{"empty", in(nil, nil), []string{"the dataset has no data rows"}},
 		{"constant-x", in([]float64{5, 5, 5, 5}, []float64{1, 2, 3, 4}), []string{`x column "a"`, "constant"}},
 		{"constant-y", in([]float64{1, 2, 3, 4}, []float64{7, 7, 7, 7}), []string{`y column "b"`, "constant"}},
 		{"length-mismatch", in([]float64{1, 2, 3}, []float64{1, 2}), []string{"y has 2 rows but x has 3"}},

@@ -189,6 +189,11 @@ type StudyChange struct {
 	// nil unless both runs have them.
 	Agreement *AgreementChange `json:"agreement,omitempty"`
 
+	// Columns says, when x or y is another column than in the old run
+	// (the study's id kept, its variables changed or swapped), that the
+	// runs' figures are of different relationships; "" otherwise.
+	Columns string `json:"columns,omitempty"`
+
 	Verdicts       []VerdictChange `json:"verdicts"` // changed verdicts only
 	VerdictChanged bool            `json:"verdict_changed"`
 	// Expectations are the study's CI gates in either run with their
@@ -365,6 +370,7 @@ func Diff(old, new *report.Report, opts Options) *Result {
 			res.Removed = append(res.Removed, ref(&old.Studies[i]))
 		}
 	}
+	res.Notes = append(res.Notes, renamedNotes(old, new, res)...)
 	res.Datasets = compareDatasets(old.Datasets, new.Datasets)
 	for _, sc := range res.Studies {
 		if sc.Agreement != nil {
@@ -570,8 +576,18 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 	if prev.Y.Column != cur.Y.Column {
 		sc.Notes = append(sc.Notes, fmt.Sprintf("y column changed from %q to %q", prev.Y.Column, cur.Y.Column))
 	}
+	swapped := prev.X.Column == cur.Y.Column && prev.Y.Column == cur.X.Column && prev.X.Column != prev.Y.Column
+	switch {
+	case swapped:
+		sc.Columns = fmt.Sprintf("x and y were swapped (x %q, y %q in the old run): the two runs' slopes, lines and verdicts are of different questions and are not alike; r is symmetric and is compared.", prev.X.Column, prev.Y.Column)
+	case prev.X.Column != cur.X.Column || prev.Y.Column != cur.Y.Column:
+		sc.Columns = fmt.Sprintf("The study reads other columns than in the old run (x %q → %q, y %q → %q): the two runs' figures are of different relationships; give a changed study a new id.", prev.X.Column, cur.X.Column, prev.Y.Column, cur.Y.Column)
+	}
 	sc.Notes = append(sc.Notes, selectionNotes(prev, cur)...)
 	unitsSame := prev.X.Unit == cur.X.Unit && prev.Y.Unit == cur.Y.Unit
+	// The slope of y on x is not that of x on y: with swapped or other
+	// columns only r, symmetric, is compared, and only when swapped.
+	slopeAlike := unitsSame && sc.Columns == ""
 	if !unitsSame {
 		sc.Notes = append(sc.Notes, fmt.Sprintf("units changed (x %s → %s, y %s → %s): the slopes are in different units and are not compared",
 			orDash(prev.X.Unit), orDash(cur.X.Unit), orDash(prev.Y.Unit), orDash(cur.Y.Unit)))
@@ -580,6 +596,8 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 	switch {
 	case scaleChange != "":
 		sc.Notes = append(sc.Notes, scaleChange)
+	case sc.Columns != "" && !swapped:
+		sc.Notes = append(sc.Notes, "the study reads other columns in each run; no change test")
 	case prev.Error != nil || cur.Error != nil:
 		sc.Notes = append(sc.Notes, "the study did not run in both runs; no change test")
 	case prev.Moments == nil || cur.Moments == nil:
@@ -590,7 +608,7 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 		if !sc.R.P.Valid() {
 			sc.Notes = append(sc.Notes, "the change in r cannot be tested (fewer than 4 points, or a constant column, in a run)")
 		}
-		if unitsSame {
+		if slopeAlike {
 			sc.Slope = SlopeChangeTest(om, nm)
 			if !sc.Slope.P.Valid() {
 				sc.Notes = append(sc.Notes, "the change in slope cannot be tested (fewer than 3 points, or a constant x, in a run; or no residual variance)")
@@ -610,6 +628,33 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 	sc.VerdictChanged = len(sc.Verdicts) > 0
 	matters(&sc, prev, cur, alpha)
 	return sc
+}
+
+// renamedNotes names the added studies that read the same dataset, x and
+// y as a removed one: most likely one study whose id was edited, which the
+// diff, matching by id, cannot compare.
+func renamedNotes(old, new *report.Report, res *Result) []string {
+	var out []string
+	for _, a := range res.Added {
+		cur := findStudy(new, a.ID)
+		for _, r := range res.Removed {
+			prev := findStudy(old, r.ID)
+			if cur != nil && prev != nil && cur.Dataset == prev.Dataset && cur.X.Column == prev.X.Column && cur.Y.Column == prev.Y.Column {
+				out = append(out, fmt.Sprintf("study %q of the new run reads the same dataset, x and y as %q of the old run: if its id was changed, the two are not compared (studies are matched by id); give it its old id back to compare them", a.ID, r.ID))
+				break
+			}
+		}
+	}
+	return out
+}
+
+func findStudy(r *report.Report, id string) *report.Study {
+	for i := range r.Studies {
+		if r.Studies[i].ID == id {
+			return &r.Studies[i]
+		}
+	}
+	return nil
 }
 
 func verdictChanges(of, nf *report.Findings) []VerdictChange {

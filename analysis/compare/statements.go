@@ -121,7 +121,15 @@ func dataFact(res *Result) string {
 	for _, d := range res.Datasets {
 		switch d.Status {
 		case "changed":
-			parts = append(parts, fmt.Sprintf("%s was read from %s (%d rows) in the new run and from %s (%d rows) in the old", d.ID, d.NewFrom, d.NewRows, d.OldFrom, d.OldRows))
+			rows := fmt.Sprintf("%d rows in both", d.NewRows)
+			if d.OldRows != d.NewRows {
+				rows = fmt.Sprintf("%d rows old, %d new", d.OldRows, d.NewRows)
+			}
+			if d.OldFrom == d.NewFrom {
+				parts = append(parts, fmt.Sprintf("%s changed: %s holds other data in the new run than in the old (another SHA-256; %s)", d.ID, d.NewFrom, rows))
+			} else {
+				parts = append(parts, fmt.Sprintf("%s changed: the new run read %s, the old %s (another SHA-256; %s)", d.ID, d.NewFrom, d.OldFrom, rows))
+			}
 		case "rehashed":
 			parts = append(parts, fmt.Sprintf("%s was hashed by another method in each run (%d rows old, %d new: rows fetched from the database in one run and left in it in the other, as max_rows or the row count moved), so the hashes cannot say whether its rows changed", d.ID, d.OldRows, d.NewRows))
 		case "same":
@@ -142,15 +150,20 @@ func dataFact(res *Result) string {
 // in the slope and in r, with the change in the other measure for
 // context, and the verdicts that changed. "" when nothing changed.
 func studyStatement(sc *StudyChange, alpha float64) string {
-	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged {
+	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged && sc.Columns == "" {
 		return ""
 	}
 	var parts []string
+	if sc.Columns != "" {
+		parts = append(parts, sc.Columns)
+	}
 	rSig := sc.R != nil && sc.R.PAdjusted.Valid() && float64(sc.R.PAdjusted) < alpha
 	slopeSig := sc.Slope != nil && sc.Slope.PAdjusted.Valid() && float64(sc.Slope.PAdjusted) < alpha
 	unit := unitSuffix(sc.SlopeUnit())
+	slopeGateSaid := false
 	if g := sc.SlopeGate; g != nil && sc.Slope != nil && (slopeSig || g.OldInside != g.NewInside) {
 		parts = append(parts, gateSentence(sc, g, unit))
+		slopeGateSaid = true
 	}
 	if sl := sc.Slope; slopeSig {
 		parts = append(parts, fmt.Sprintf("The slope changed beyond chance: from %s to %s%s, a change of %s ± %s%s (SE)%s (t = %s, %d df, adjusted p %s).",
@@ -173,8 +186,25 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 			parts = append(parts, a)
 		}
 	}
+	// The outcome of a gate can change because the data did, or because
+	// the gate did: edited between the runs, or declared in one run only.
+	// Only the first calls for a cause in the process.
+	dataMoved := sc.Significant
 	for _, e := range sc.Expectations {
-		if e.Changed && e.Name != "slope_within" {
+		if !e.Changed {
+			continue
+		}
+		edited := e.WantChanged || e.OldOK == nil || e.NewOK == nil
+		if !edited {
+			dataMoved = true
+		}
+		if e.Name == "slope_within" && slopeGateSaid && !edited {
+			continue
+		}
+		switch {
+		case e.WantChanged:
+			parts = append(parts, fmt.Sprintf("The gate %q was edited between the runs (it asked for %s, now %s) and went %s (%s).", e.Title, e.OldWant, e.Want, outcomeMove(e), gotMove(e)))
+		default:
 			parts = append(parts, fmt.Sprintf("The gate %q went %s (%s).", e.Title, outcomeMove(e), gotMove(e)))
 		}
 	}
@@ -189,8 +219,12 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 		}
 		parts = append(parts, "The verdict changed: "+strings.Join(v, ", ")+".")
 	}
-	if sc.Significant || sc.ExpectationChanged {
+	switch {
+	case sc.Columns != "":
+	case dataMoved:
 		parts = append(parts, "Find the cause (process, material, gauge or the units sampled) before acting on it.")
+	case sc.ExpectationChanged:
+		parts = append(parts, "The gate itself changed, so its new outcome need not mean that the relationship did.")
 	}
 	return strings.Join(parts, " ")
 }
@@ -216,6 +250,10 @@ func gateSentence(sc *StudyChange, g *SlopeGate, unit string) string {
 	}
 	s := fmt.Sprintf("Against the slope gate (%s to %s%s): the old slope lay %s it, the new one lies %s it",
 		g4(g.Low), g4(g.High), unit, where(g.OldInside), where(g.NewInside))
+	if o := g.OldLimits; o != nil {
+		s = fmt.Sprintf("Against the slope gate (%s to %s%s in the new run; %s to %s%s in the old): the old slope lay %s the old gate, the new one lies %s the new",
+			g4(g.Low), g4(g.High), unit, g4(o.Low), g4(o.High), unit, where(g.OldInside), where(g.NewInside))
+	}
 	if !g.NewInside && g.NewOutsideBy.Valid() {
 		end := "upper"
 		if float64(sc.Slope.New) < float64(g.Low) {

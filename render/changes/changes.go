@@ -32,23 +32,25 @@ import (
 var tmplFS embed.FS
 
 var page = template.Must(template.New("diff").Funcs(template.FuncMap{
-	"num":           num,
-	"signed":        signed,
-	"fix2":          fix2,
-	"pval":          pval,
-	"padj":          padj,
-	"short":         short,
-	"adjustName":    adjustName,
-	"verdictName":   verdictName,
-	"below":         below,
-	"slopeUnit":     slopeUnit,
-	"outcome":       outcome,
-	"yesNo":         yesNo,
-	"paren":         paren,
-	"statusWords":   statusWords,
-	"anchor":        anchor,
-	"agreement":     agreementRows,
-	"agreementHead": func() []string { return agreementHead },
+	"num":              num,
+	"signed":           signed,
+	"fix2":             fix2,
+	"pval":             pval,
+	"padj":             padj,
+	"short":            short,
+	"adjustName":       adjustName,
+	"verdictName":      verdictName,
+	"below":            below,
+	"slopeUnit":        slopeUnit,
+	"wanted":           wanted,
+	"slopeGateCaption": slopeGateCaption,
+	"outcome":          outcome,
+	"yesNo":            yesNo,
+	"paren":            paren,
+	"statusWords":      statusWords,
+	"anchor":           anchor,
+	"agreement":        agreementRows,
+	"agreementHead":    func() []string { return agreementHead },
 }).Option("missingkey=error").ParseFS(tmplFS, "templates/*.tmpl"))
 
 type config struct {
@@ -253,7 +255,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		for _, sc := range res.Studies {
 			for _, e := range sc.Expectations {
 				if e.Changed {
-					fmt.Fprintf(&b, "| `%s` | %s | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(e.Title), mdtext.Cell(e.Want), mdtext.Cell(outcome(e.OldOK, e.OldGot)), mdtext.Cell(outcome(e.NewOK, e.NewGot)))
+					fmt.Fprintf(&b, "| `%s` | %s | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(e.Title), mdtext.Cell(wanted(e)), mdtext.Cell(outcome(e.OldOK, e.OldGot)), mdtext.Cell(outcome(e.NewOK, e.NewGot)))
 				}
 			}
 		}
@@ -290,8 +292,8 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		}
 		if g := sc.SlopeGate; g != nil && sc.Slope != nil {
 			u := slopeUnit(sc)
-			fmt.Fprintf(&b, "Slope gate: %s to %s %s.\n\n| Run | Slope (%s) | Inside the gate |\n|---|--:|---|\n| old | %s | %s |\n| new | %s | %s |\n\n",
-				num(g.Low), num(g.High), mdtext.Escape(u), mdtext.Cell(u), num(sc.Slope.Old), yesNo(g.OldInside), num(sc.Slope.New), yesNo(g.NewInside))
+			fmt.Fprintf(&b, "%s\n\n| Run | Slope (%s) | Inside the gate |\n|---|--:|---|\n| old | %s | %s |\n| new | %s | %s |\n\n",
+				mdtext.Escape(slopeGateCaption(g, u)), mdtext.Cell(u), num(sc.Slope.Old), yesNo(g.OldInside), num(sc.Slope.New), yesNo(g.NewInside))
 		}
 		if len(sc.AtX) > 0 {
 			where := "where the study predicts"
@@ -324,7 +326,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 			fmt.Fprintf(&b, "| `%s` | %d → %d | %s |\n", code(sc.ID), sc.OldN, sc.NewN, cells)
 		}
 		b.WriteString("\n## Change in slope\n\n")
-		b.WriteString(sigLine("the slope", sigSlope(res), res.Alpha))
+		b.WriteString(sigLine("slope", sigSlope(res), res.Alpha))
 		b.WriteString("Slope in y units per x unit. SE of Δ from the pooled residual variance; t with n_old + n_new − 4 df. The residual SDs (in y units) show whether pooling is reasonable.\n\n")
 		b.WriteString("| Study | unit | slope old → new | Δslope ± SE | t (df) | p | adjusted p | residual SD old → new |\n|---|---|--:|--:|--:|--:|--:|--:|\n")
 		for _, sc := range res.Studies {
@@ -558,6 +560,24 @@ func FigureFiles(res *compare.Result, opts ...Option) ([]publish.File, error) {
 		}
 	}
 	return files, nil
+}
+
+// wanted is what a changed gate asked for: both runs' wants where the
+// gate was edited between them.
+func wanted(e compare.ExpectationChange) string {
+	if e.WantChanged {
+		return "old run: " + e.OldWant + "; new run: " + e.Want
+	}
+	return e.Want
+}
+
+// slopeGateCaption names the slope gate's limits above the table that
+// says whether each run's slope lies inside its own run's gate.
+func slopeGateCaption(g *compare.SlopeGate, unit string) string {
+	if o := g.OldLimits; o != nil {
+		return fmt.Sprintf("Slope gate: %s to %s %s in the new run, %s to %s %s in the old (each slope is read against its own run's gate).", num(g.Low), num(g.High), unit, num(o.Low), num(o.High), unit)
+	}
+	return fmt.Sprintf("Slope gate: %s to %s %s.", num(g.Low), num(g.High), unit)
 }
 
 // sigLine is the Markdown sentence above a table of change tests.

@@ -1,0 +1,155 @@
+package compare
+
+// Cases found by a sweep of realistic and hostile uses of `bivar diff`.
+// Each builds two reports that differ in one stated way; the reference
+// for what the diff must say is the two inputs themselves.
+
+import (
+	"math/rand/v2"
+	"strings"
+	"testing"
+
+	"bivar/analysis/report"
+)
+
+// gated returns s with a slope_within gate [lo, hi] that held or not.
+func gated(s report.Study, lo, hi float64, want string, ok bool) report.Study {
+	s.Expectations = []report.Expectation{{Name: "slope_within", Title: "slope within its limits", Want: want, Got: "slope = 0.5", OK: ok,
+		Limits: &report.Limits{Low: report.Float(lo), High: report.Float(hi)}}}
+	return s
+}
+
+// TestDiffGateEdited: the same rows in both runs, only the slope gate's
+// limits edited in the manifest ([0.4, 0.6] → [0.6, 0.7]), so the gate
+// went from met to failed. The diff must say that the gate was edited
+// (both wants), read the old slope against the old gate (inside it, as
+// the old run found), and not send the reader to look for a cause in the
+// process. It said "the old slope lay outside" the gate the old run met,
+// and its statement was only "Find the cause (process, material, …)".
+func TestDiffGateEdited(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	x, y := process(rng, 40, 2, 0.5, 1)
+	s := study("s", x, y, verdicts("linear", "positive", "strong", false))
+	old := rep("same", gated(s, 0.4, 0.6, "slope in [0.4, 0.6]", true))
+	cur := rep("same", gated(s, 0.6, 0.7, "slope in [0.6, 0.7]", false))
+	res := Diff(old, cur, Options{})
+	sc := res.Studies[0]
+	if len(sc.Expectations) != 1 {
+		t.Fatalf("expectations = %+v, want the one gate", sc.Expectations)
+	}
+	e := sc.Expectations[0]
+	if !e.WantChanged || e.OldWant != "slope in [0.4, 0.6]" || e.Want != "slope in [0.6, 0.7]" || !e.Changed || !e.Broken {
+		t.Errorf("gate = %+v, want WantChanged with old want [0.4, 0.6], new [0.6, 0.7], changed and broken", e)
+	}
+	g := sc.SlopeGate
+	if g == nil || g.OldLimits == nil || float64(g.OldLimits.Low) != 0.4 || float64(g.OldLimits.High) != 0.6 || !g.OldInside || g.NewInside {
+		t.Fatalf("slope gate = %+v, want old limits [0.4, 0.6] with the old slope inside, the new outside [0.6, 0.7]", g)
+	}
+	for _, want := range []string{"was edited between the runs (it asked for slope in [0.4, 0.6], now slope in [0.6, 0.7])", "the old slope lay inside the old gate"} {
+		if !strings.Contains(sc.Statement, want) {
+			t.Errorf("statement lacks %q:\n%s", want, sc.Statement)
+		}
+	}
+	if strings.Contains(sc.Statement, "Find the cause") {
+		t.Errorf("statement sends the reader to the process for a change the manifest made:\n%s", sc.Statement)
+	}
+	// The same gate in both runs, the outcome changed by the data: the
+	// edit is not mentioned, and the cause is to be found.
+	x2, y2 := process(rng, 40, 2, 0.9, 1)
+	s2 := study("s", x2, y2, verdicts("linear", "positive", "strong", false))
+	res = Diff(old, rep("other", gated(s2, 0.4, 0.6, "slope in [0.4, 0.6]", false)), Options{})
+	sc = res.Studies[0]
+	if sc.Expectations[0].WantChanged || sc.SlopeGate.OldLimits != nil || strings.Contains(sc.Statement, "edited") || !strings.Contains(sc.Statement, "Find the cause") {
+		t.Errorf("same gate, slope 0.5 → 0.9: gate %+v, slope gate %+v, statement:\n%s", sc.Expectations[0], sc.SlopeGate, sc.Statement)
+	}
+}
+
+// TestDiffGateDropped: a gate declared in the old run only. The statement
+// names it (it said nothing but "Find the cause …" for a slope_within
+// gate whose slope was not compared).
+func TestDiffGateDropped(t *testing.T) {
+	rng := rand.New(rand.NewPCG(13, 14))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	s := study("s", x, y, verdicts("linear", "positive", "strong", false))
+	cur := s
+	cur.Y.Unit = "mm" // units changed: no slope test, so no slope gate sentence
+	res := Diff(rep("same", gated(s, 0.4, 0.6, "slope in [0.4, 0.6]", true)), rep("same", cur), Options{})
+	st := res.Studies[0].Statement
+	if !strings.Contains(st, `The gate "slope within its limits" went met → not declared`) || strings.Contains(st, "Find the cause") {
+		t.Errorf("statement = %q, want the gate named as no longer declared and no cause to find", st)
+	}
+}
+
+// TestDiffColumnsChanged: one study id, x and y swapped in the new run
+// (both in the same unit, so the slopes would otherwise be compared as
+// if alike). The diff must say so in the statement, compare r (it is
+// symmetric) and not the slope. A study that reads another column is
+// not tested at all.
+func TestDiffColumnsChanged(t *testing.T) {
+	rng := rand.New(rand.NewPCG(15, 16))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	old := study("s", x, y, nil)
+	old.X.Unit, old.Y.Unit = "mm", "mm"
+	cur := study("s", y, x, nil)
+	cur.X, cur.Y = old.Y, old.X
+	res := Diff(rep("same", old), rep("same", cur), Options{})
+	sc := res.Studies[0]
+	if sc.Slope != nil || sc.R == nil || sc.Lines != nil {
+		t.Errorf("swapped x and y: slope %+v, r %+v, lines %v; want r only", sc.Slope, sc.R, sc.Lines != nil)
+	}
+	if !strings.HasPrefix(sc.Statement, `x and y were swapped (x "x", y "y" in the old run)`) {
+		t.Errorf("statement = %q, want it to say x and y were swapped", sc.Statement)
+	}
+	other := study("s", x, y, nil)
+	other.Y.Column = "z"
+	sc = Diff(rep("same", study("s", x, y, nil)), rep("same", other), Options{}).Studies[0]
+	if sc.Slope != nil || sc.R != nil || !strings.Contains(sc.Statement, `y "y" → "z"`) {
+		t.Errorf("y column y → z: slope %+v, r %+v, statement %q; want no test and the columns named", sc.Slope, sc.R, sc.Statement)
+	}
+}
+
+// TestDiffDataSameFileChanged: the dataset is read from the same file
+// name in both runs, with other contents (one value edited, 40 rows in
+// each). The statement must say the data changed; it said only that d
+// "was read from d.csv (40 rows) in the new run and from d.csv (40 rows)
+// in the old".
+func TestDiffDataSameFileChanged(t *testing.T) {
+	rng := rand.New(rand.NewPCG(17, 18))
+	x, y := process(rng, 40, 2, 0.5, 1)
+	old, cur := rep("aaa", study("s", x, y, nil)), rep("bbb", study("s", x, y, nil))
+	old.Datasets[0].Rows, cur.Datasets[0].Rows = 40, 40
+	res := Diff(old, cur, Options{})
+	want := "Data: d changed: d.csv holds other data in the new run than in the old (another SHA-256; 40 rows in both)."
+	if got := res.Statements[len(res.Statements)-1]; got != want {
+		t.Errorf("data statement\n got %q\nwant %q", got, want)
+	}
+	cur.Datasets[0].File, cur.Datasets[0].Rows = "e.csv", 41
+	want = "Data: d changed: the new run read e.csv, the old d.csv (another SHA-256; 40 rows old, 41 new)."
+	if got := Diff(old, cur, Options{}).Statements; got[len(got)-1] != want {
+		t.Errorf("data statement\n got %q\nwant %q", got[len(got)-1], want)
+	}
+}
+
+// TestDiffRenamed: the study's id edited between the runs, nothing else.
+// The diff lists one added and one removed, and a note says they read the
+// same dataset, x and y; it said nothing.
+func TestDiffRenamed(t *testing.T) {
+	rng := rand.New(rand.NewPCG(19, 20))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	other := study("other", x, y, nil)
+	other.Y.Column = "z"
+	res := Diff(rep("same", study("hard-vs-temp", x, y, nil), other), rep("same", study("hardness-vs-temp", x, y, nil), other), Options{})
+	if res.Summary.Added != 1 || res.Summary.Removed != 1 {
+		t.Fatalf("added %d, removed %d; want 1 and 1", res.Summary.Added, res.Summary.Removed)
+	}
+	want := `study "hardness-vs-temp" of the new run reads the same dataset, x and y as "hard-vs-temp" of the old run`
+	var got []string
+	for _, n := range res.Notes {
+		if strings.Contains(n, "same dataset, x and y") {
+			got = append(got, n)
+		}
+	}
+	if len(got) != 1 || !strings.HasPrefix(got[0], want) {
+		t.Errorf("notes %q, want one beginning %q", res.Notes, want)
+	}
+}

@@ -69,6 +69,10 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar diff: NEW: %v\n", err)
 		return exitFailed
 	}
+	if samePath(oldFile, newFile) {
+		fmt.Fprintf(stderr, "bivar diff: OLD and NEW are the same file, %s: a run compared with itself shows no change; give the previous run's results.json (or its report folder) as OLD\n", newFile)
+		return exitUsage
+	}
 	res := compare.Diff(oldRep, newRep, compare.Options{Tool: report.Tool{Name: "bivar", Version: version()}})
 	res.Old.File, res.New.File = filepath.ToSlash(oldFile), filepath.ToSlash(newFile)
 	files, err := changes.DiffFiles(res, changes.WithTheme(*theme))
@@ -223,7 +227,7 @@ func explainJSON(data []byte, err error) string {
 		return fmt.Sprintf("line %d, column %d: not valid JSON (%v): the file was changed or damaged after 'bivar run' wrote it; run it again", lc[0], lc[1], syn)
 	case errors.As(err, &typ):
 		lc := lineCol(data, typ.Offset)
-		want := "a " + typ.Type.String()
+		want := jsonKind(typ.Type)
 		if typ.Type == reflect.TypeFor[report.Float]() {
 			want = "a number, or null where the value is undefined (bivar writes NaN and infinities as null)"
 		}
@@ -234,6 +238,29 @@ func explainJSON(data []byte, err error) string {
 		return msg + ": the file holds a key bivar does not write (edited, or written by a newer bivar); run 'bivar run' again with this version"
 	}
 	return msg
+}
+
+// jsonKind says in words what JSON value a Go type is written as: "a
+// whole number" for an int, "text" for a string, not Go's type names.
+func jsonKind(t reflect.Type) string {
+	switch t.Kind() {
+	case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64,
+		reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64:
+		return "a whole number"
+	case reflect.Float32, reflect.Float64:
+		return "a number"
+	case reflect.String:
+		return "text in quotes"
+	case reflect.Bool:
+		return "true or false"
+	case reflect.Slice, reflect.Array:
+		return "a list [...]"
+	case reflect.Map, reflect.Struct:
+		return "an object {...}"
+	case reflect.Pointer:
+		return jsonKind(t.Elem()) + " or null"
+	}
+	return "a " + t.String()
 }
 
 // lineCol returns the 1-based line and column of byte offset off.

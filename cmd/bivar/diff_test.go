@@ -85,11 +85,22 @@ func TestDiffCommand(t *testing.T) {
 		{"missing file", []string{"diff", "-o", out, filepath.Join(dir, "nope.json"), same}, exitFailed, "OLD:"},
 		{"folder without results", []string{"diff", "-o", out, a, out + "-empty"}, exitFailed, "NEW:"},
 		{"not a results file", []string{"diff", "-o", out, a, filepath.Join(out, "diff.json")}, exitFailed, "a diff.json cannot be compared"},
+		// The same run given twice, as a file and as its folder: a usage
+		// mistake (a CI job whose last/ points at the new report), which
+		// exited 0 saying nothing changed. A copy of the file is compared.
+		{"same file twice", []string{"diff", "-o", out, "--fail-on", "expectation", a, a}, exitUsage, "OLD and NEW are the same file, " + a},
+		{"same file as folder and file", []string{"diff", "-o", out, filepath.Join(dir, "a"), a}, exitUsage, "OLD and NEW are the same file"},
+		{"a copy of the same file", []string{"diff", "-o", out, a, filepath.Join(dir, "copy", "results.json")}, exitOK, "0 changed beyond chance"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			if tc.name == "folder without results" {
 				os.MkdirAll(out+"-empty", 0o755)
+			}
+			if tc.name == "a copy of the same file" {
+				b, _ := os.ReadFile(a)
+				os.MkdirAll(filepath.Join(dir, "copy"), 0o755)
+				os.WriteFile(filepath.Join(dir, "copy", "results.json"), b, 0o644)
 			}
 			code, _, stderr := call(t, tc.args...)
 			if code != tc.code || !strings.Contains(stderr, tc.want) {
@@ -158,7 +169,7 @@ func TestDiffBadResults(t *testing.T) {
 		{"newer schema", strings.Replace(string(full), report.Schema, "bivar.results/v9", 1), []string{`schema "bivar.results/v9", but this bivar reads "bivar.results/v3"`, "rerun 'bivar run'"}},
 		{"other schema", `{"schema": "acme/1"}`, []string{`schema "acme/1" is not bivar's results schema`}},
 		{"syntax error", strings.Replace(string(full), `"studies": [`, `"studies": [,`, 1), []string{"line ", "column ", "not valid JSON"}},
-		{"wrong type", strings.Replace(string(full), `"rows": 40`, `"rows": "forty"`, 1), []string{"line ", `key "datasets.rows" holds a JSON string`}},
+		{"wrong type", strings.Replace(string(full), `"rows": 40`, `"rows": "forty"`, 1), []string{"line ", `key "datasets.rows" holds a JSON string where bivar writes a whole number:`}}, // it said "writes a int"
 		{"unknown key", strings.Replace(string(full), `"schema":`, `"colour": 1, "schema":`, 1), []string{`unknown field "colour"`, "does not write"}},
 		{"NaN in quotes", nanAt(t, full, `"sxx": `), []string{fmt.Sprintf("line %d, column %d: ", nanLine(full, `"sxx": `), nanCol(full, `"sxx": `)),
 			`key "studies[0].moments.sxx" holds a JSON string where bivar writes a number, or null`, "NaN and infinities as null"}},
@@ -198,7 +209,11 @@ func TestDiffBadResults(t *testing.T) {
 	if code, _, stderr := call(t, "diff", "-o", good, good, good); code != exitUsage || !strings.Contains(stderr, "is a file: give a folder") {
 		t.Errorf("-o a file: exit %d, %q", code, stderr)
 	}
-	if code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "o2"), "--fail-on", "verdict,", good, good); code != exitOK {
+	goodCopy := filepath.Join(dir, "good-copy.json")
+	if b, err := os.ReadFile(good); err != nil || os.WriteFile(goodCopy, b, 0o644) != nil {
+		t.Fatal("copying", good, err)
+	}
+	if code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "o2"), "--fail-on", "verdict,", good, goodCopy); code != exitOK {
 		t.Errorf("--fail-on with a trailing comma: exit %d, %q", code, stderr)
 	}
 	if code, _, _ := call(t, "diff", "--colour", "a", "b"); code != exitUsage {
@@ -234,9 +249,16 @@ func TestSampleProjectRuns(t *testing.T) {
 		t.Fatalf("run October: exit %d\n%s", code, stderr)
 	}
 	call(t, "run", "-o", novDir, nov) // exits 3: its gate fails
-	code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "same"), "--fail-on", "verdict,significant", octDir, octDir)
-	if code != exitOK || !strings.Contains(stderr, "0 changed beyond chance") {
-		t.Errorf("October against itself: exit %d\n%s", code, stderr)
+	// October run twice: the same run again is compared, and nothing
+	// changed (the same folder twice is refused: TestDiffCommand).
+	oct2Dir := filepath.Join(dir, "oct2")
+	if code, _, stderr := call(t, "run", "-o", oct2Dir, oct); code != exitOK {
+		t.Fatalf("run October again: exit %d\n%s", code, stderr)
+	}
+	code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "same"), "--fail-on", "expectation,verdict,significant", octDir, oct2Dir)
+	if code != exitOK || !strings.Contains(stderr, "0 CI gates changed outcome (0 now failing that held before), 0 changed beyond chance") ||
+		!strings.Contains(stderr, "0 with a changed verdict; 0 added, 0 removed") || strings.Contains(stderr, "study \"") {
+		t.Errorf("October against October run again: exit %d\n%s", code, stderr)
 	}
 	code, _, stderr = call(t, "diff", "-o", filepath.Join(dir, "changed"), "--fail-on", "significant", octDir, novDir)
 	if code != exitExpectation {

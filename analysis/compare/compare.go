@@ -44,6 +44,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"bivar/analysis/findings"
 	"bivar/analysis/report"
@@ -581,7 +582,14 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 	case swapped:
 		sc.Columns = fmt.Sprintf("x and y were swapped (x %q, y %q in the old run): the two runs' slopes, lines and verdicts are of different questions and are not alike; r is symmetric and is compared.", prev.X.Column, prev.Y.Column)
 	case prev.X.Column != cur.X.Column || prev.Y.Column != cur.Y.Column:
-		sc.Columns = fmt.Sprintf("The study reads other columns than in the old run (x %q → %q, y %q → %q): the two runs' figures are of different relationships; give a changed study a new id.", prev.X.Column, cur.X.Column, prev.Y.Column, cur.Y.Column)
+		var moved []string
+		if prev.X.Column != cur.X.Column {
+			moved = append(moved, fmt.Sprintf("x %q → %q", prev.X.Column, cur.X.Column))
+		}
+		if prev.Y.Column != cur.Y.Column {
+			moved = append(moved, fmt.Sprintf("y %q → %q", prev.Y.Column, cur.Y.Column))
+		}
+		sc.Columns = fmt.Sprintf("The study reads other columns than in the old run (%s): the two runs' figures are of different relationships; give a changed study a new id.", strings.Join(moved, ", "))
 	}
 	sc.Notes = append(sc.Notes, selectionNotes(prev, cur)...)
 	unitsSame := prev.X.Unit == cur.X.Unit && prev.Y.Unit == cur.Y.Unit

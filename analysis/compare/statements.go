@@ -150,10 +150,14 @@ func dataFact(res *Result) string {
 // in the slope and in r, with the change in the other measure for
 // context, and the verdicts that changed. "" when nothing changed.
 func studyStatement(sc *StudyChange, alpha float64) string {
-	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged && sc.Columns == "" {
+	ran := runStatus(sc)
+	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged && sc.Columns == "" && ran == "" {
 		return ""
 	}
 	var parts []string
+	if ran != "" {
+		parts = append(parts, ran)
+	}
 	if sc.Columns != "" {
 		parts = append(parts, sc.Columns)
 	}
@@ -227,6 +231,24 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 		parts = append(parts, "The gate itself changed, so its new outcome need not mean that the relationship did.")
 	}
 	return strings.Join(parts, " ")
+}
+
+// runStatus says which run a study did not run in, with the reason, or
+// "" when it ran in both: a study that stops running is the first thing
+// a comparison of runs must say.
+func runStatus(sc *StudyChange) string {
+	o, n := sc.OldError, sc.NewError
+	switch {
+	case o == nil && n == nil:
+		return ""
+	case o == nil:
+		return fmt.Sprintf("The study ran in the old run but did not run in the new one: %s.", strings.TrimSuffix(*n, "."))
+	case n == nil:
+		return fmt.Sprintf("The study did not run in the old run (%s) and runs in the new one.", strings.TrimSuffix(*o, "."))
+	case *o == *n:
+		return fmt.Sprintf("The study did not run in either run: %s.", strings.TrimSuffix(*n, "."))
+	}
+	return fmt.Sprintf("The study did not run in either run: in the new one %s (in the old one %s).", strings.TrimSuffix(*n, "."), strings.TrimSuffix(*o, "."))
 }
 
 // gotMove is what a gate found in each run.

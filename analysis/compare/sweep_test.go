@@ -103,7 +103,7 @@ func TestDiffColumnsChanged(t *testing.T) {
 	other := study("s", x, y, nil)
 	other.Y.Column = "z"
 	sc = Diff(rep("same", study("s", x, y, nil)), rep("same", other), Options{}).Studies[0]
-	if sc.Slope != nil || sc.R != nil || !strings.Contains(sc.Statement, `y "y" → "z"`) {
+	if sc.Slope != nil || sc.R != nil || !strings.Contains(sc.Statement, `other columns than in the old run (y "y" → "z")`) {
 		t.Errorf("y column y → z: slope %+v, r %+v, statement %q; want no test and the columns named", sc.Slope, sc.R, sc.Statement)
 	}
 }
@@ -151,5 +151,35 @@ func TestDiffRenamed(t *testing.T) {
 	}
 	if len(got) != 1 || !strings.HasPrefix(got[0], want) {
 		t.Errorf("notes %q, want one beginning %q", res.Notes, want)
+	}
+}
+
+// TestDiffStudyStoppedRunning: the study ran in the old run and failed in
+// the new (its y column constant there), and the reverse. The statement
+// says so first, with the reason; it said nothing on a study without
+// gates, and only "the gate went met → failed (… → not computed)" on one
+// with a gate, the reason left in the notes.
+func TestDiffStudyStoppedRunning(t *testing.T) {
+	rng := rand.New(rand.NewPCG(21, 22))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	ran := study("s", x, y, verdicts("linear", "positive", "strong", false))
+	msg := `column "y" is constant`
+	failed := report.Study{ID: "s", Dataset: "d", X: ran.X, Y: ran.Y, Error: &msg}
+	for _, tc := range []struct {
+		name     string
+		old, new report.Study
+		want     string
+	}{
+		{"stopped", ran, failed, `The study ran in the old run but did not run in the new one: column "y" is constant.`},
+		{"started", failed, ran, `The study did not run in the old run (column "y" is constant) and runs in the new one.`},
+		{"neither", failed, failed, `The study did not run in either run: column "y" is constant.`},
+	} {
+		sc := Diff(rep("same", tc.old), rep("same", tc.new), Options{}).Studies[0]
+		if !strings.HasPrefix(sc.Statement, tc.want) {
+			t.Errorf("%s: statement %q, want it to begin %q", tc.name, sc.Statement, tc.want)
+		}
+	}
+	if st := Diff(rep("same", ran), rep("same", ran), Options{}).Studies[0].Statement; st != "" {
+		t.Errorf("ran in both, nothing changed: statement %q, want none", st)
 	}
 }

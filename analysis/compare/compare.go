@@ -143,7 +143,7 @@ type Summary struct {
 	Compared           int `json:"compared"`        // studies in both runs
 	Tested             int `json:"tested"`          // change tests done (two per study where both ran)
 	Significant        int `json:"significant"`     // studies with a change significant after adjustment
-	VerdictChanged     int `json:"verdict_changed"` // studies whose form, direction, strength or outlier-driven verdict changed
+	VerdictChanged     int `json:"verdict_changed"` // studies with a changed verdict (VerdictNames)
 	DataChanged        int `json:"data_changed"`    // studies whose dataset hash changed
 	Added              int `json:"added"`
 	Removed            int `json:"removed"`
@@ -256,7 +256,7 @@ type SlopeChange struct {
 
 // VerdictChange is one verdict that differs between the runs.
 type VerdictChange struct {
-	Name string `json:"name"` // form, direction, strength, outlier_driven, lines
+	Name string `json:"name"` // form, direction, strength, outlier_driven, reversal, drift, spread_changes, explained_by, lines
 	Old  string `json:"old"`
 	New  string `json:"new"`
 }
@@ -665,14 +665,44 @@ func findStudy(r *report.Report, id string) *report.Study {
 	return nil
 }
 
+// VerdictNames are the verdicts a diff compares, in words, in the
+// order VerdictChange lists them.
+const VerdictNames = "form, direction, strength, outlier-driven, reversal, drift, changing spread, explained by, groups' lines, agreement"
+
+// VerdictName is a VerdictChange's Name in words.
+func VerdictName(n string) string {
+	switch n {
+	case "outlier_driven":
+		return "outlier-driven"
+	case "spread_changes":
+		return "changing spread"
+	case "explained_by":
+		return "explained by"
+	case "lines":
+		return "groups' lines"
+	}
+	return n
+}
+
 func verdictChanges(of, nf *report.Findings) []VerdictChange {
 	out := []VerdictChange{}
 	if of == nil || nf == nil {
 		return out // a run without findings (the study failed there) has no verdict to compare
 	}
-	a1, a2, a3, a4 := of.Form, of.Direction, of.Strength, fmt.Sprint(of.OutlierDriven)
-	b1, b2, b3, b4 := nf.Form, nf.Direction, nf.Strength, fmt.Sprint(nf.OutlierDriven)
-	for _, v := range []VerdictChange{{"form", a1, b1}, {"direction", a2, b2}, {"strength", a3, b3}, {"outlier_driven", a4, b4}} {
+	// The secondary verdicts (a reversal within groups, drift in run
+	// order, a changing spread, a covariate that explains the
+	// association) are verdicts the report raises with their reasons, as
+	// outlier-driven is: one that appears or goes is a changed verdict.
+	for _, v := range []VerdictChange{
+		{"form", of.Form, nf.Form},
+		{"direction", of.Direction, nf.Direction},
+		{"strength", of.Strength, nf.Strength},
+		{"outlier_driven", fmt.Sprint(of.OutlierDriven), fmt.Sprint(nf.OutlierDriven)},
+		{"reversal", fmt.Sprint(of.Reversal), fmt.Sprint(nf.Reversal)},
+		{"drift", fmt.Sprint(of.Drift), fmt.Sprint(nf.Drift)},
+		{"spread_changes", fmt.Sprint(of.SpreadChanges), fmt.Sprint(nf.SpreadChanges)},
+		{"explained_by", strings.Join(of.ExplainedBy, ", "), strings.Join(nf.ExplainedBy, ", ")},
+	} {
 		if v.Old != v.New {
 			out = append(out, v)
 		}

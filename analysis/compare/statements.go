@@ -215,11 +215,7 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 	if len(sc.Verdicts) > 0 {
 		var v []string
 		for _, vc := range sc.Verdicts {
-			name := vc.Name
-			if name == "outlier_driven" {
-				name = "outlier-driven"
-			}
-			v = append(v, fmt.Sprintf("%s %s → %s", name, orDash(vc.Old), orDash(vc.New)))
+			v = append(v, fmt.Sprintf("%s %s → %s", VerdictName(vc.Name), orDash(vc.Old), orDash(vc.New)))
 		}
 		parts = append(parts, "The verdict changed: "+strings.Join(v, ", ")+".")
 	}

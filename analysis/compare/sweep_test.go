@@ -183,3 +183,34 @@ func TestDiffStudyStoppedRunning(t *testing.T) {
 		t.Errorf("ran in both, nothing changed: statement %q, want none", st)
 	}
 }
+
+// TestDiffSecondaryVerdicts: the same moments in both runs, and in the
+// new one a secondary verdict raised: a reversal within groups, drift in
+// run order, a changing spread, an association explained by a covariate.
+// Each is a changed verdict (what --fail-on verdict gates on); the diff
+// said "no verdict changed" for all four.
+func TestDiffSecondaryVerdicts(t *testing.T) {
+	rng := rand.New(rand.NewPCG(23, 24))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	for _, tc := range []struct {
+		raise func(*report.Findings)
+		want  VerdictChange
+		words string
+	}{
+		{func(f *report.Findings) { f.Reversal = true }, VerdictChange{"reversal", "false", "true"}, "The verdict changed: reversal false → true."},
+		{func(f *report.Findings) { f.Drift = true }, VerdictChange{"drift", "false", "true"}, "The verdict changed: drift false → true."},
+		{func(f *report.Findings) { f.SpreadChanges = true }, VerdictChange{"spread_changes", "false", "true"}, "The verdict changed: changing spread false → true."},
+		{func(f *report.Findings) { f.ExplainedBy = []string{"ambient_rh", "shift"} }, VerdictChange{"explained_by", "", "ambient_rh, shift"}, "The verdict changed: explained by - → ambient_rh, shift."},
+	} {
+		nf := verdicts("linear", "positive", "strong", false)
+		tc.raise(nf)
+		res := Diff(rep("same", study("s", x, y, verdicts("linear", "positive", "strong", false))), rep("same", study("s", x, y, nf)), Options{})
+		sc := res.Studies[0]
+		if len(sc.Verdicts) != 1 || sc.Verdicts[0] != tc.want || !res.AnyVerdictChanged() {
+			t.Errorf("%s raised: verdicts %+v, want exactly %+v", tc.want.Name, sc.Verdicts, tc.want)
+		}
+		if !strings.Contains(sc.Statement, tc.words) {
+			t.Errorf("%s raised: statement %q lacks %q", tc.want.Name, sc.Statement, tc.words)
+		}
+	}
+}

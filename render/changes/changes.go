@@ -40,6 +40,7 @@ var page = template.Must(template.New("diff").Funcs(template.FuncMap{
 	"short":            short,
 	"adjustName":       adjustName,
 	"verdictName":      verdictName,
+	"verdictNames":     func() string { return compare.VerdictNames },
 	"below":            below,
 	"slopeUnit":        slopeUnit,
 	"wanted":           wanted,
@@ -341,12 +342,12 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		b.WriteString(agreementMarkdown(res))
 		b.WriteString("## Changed verdicts\n\n")
 		if s.VerdictChanged == 0 {
-			b.WriteString("No verdict changed (form, direction, strength, outlier-driven).\n\n")
+			b.WriteString("No verdict changed (" + compare.VerdictNames + ").\n\n")
 		} else {
 			b.WriteString("| Study | Verdict | Old | New |\n|---|---|---|---|\n")
 			for _, sc := range res.Studies {
 				for _, v := range sc.Verdicts {
-					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(verdictName(v.Name)), mdtext.Cell(v.Old), mdtext.Cell(v.New))
+					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(verdictName(v.Name)), mdtext.Cell(orDash(v.Old)), mdtext.Cell(orDash(v.New)))
 				}
 			}
 			b.WriteString("\n")
@@ -683,12 +684,7 @@ func adjustName(a string) string {
 	return a
 }
 
-func verdictName(n string) string {
-	if n == "outlier_driven" {
-		return "outlier-driven"
-	}
-	return n
-}
+func verdictName(n string) string { return compare.VerdictName(n) }
 
 // anchor is the id of a study's section in diff.html: "study-" and the
 // study id with every character outside [A-Za-z0-9_-] replaced by "-".

@@ -185,15 +185,12 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 	if a := agreementStatement(sc.Agreement, alpha); a != "" {
 		parts = append(parts, a)
 	}
-	if (slopeSig || sc.ExpectationChanged) && sc.Agreement == nil { // an agreement study's gate is its limits, above
-		if a := atXSentence(sc); a != "" {
-			parts = append(parts, a)
-		}
-	}
 	// The outcome of a gate can change because the data did, or because
 	// the gate did: edited between the runs, or declared in one run only.
-	// Only the first calls for a cause in the process.
+	// Only the first calls for a cause in the process, and for the
+	// change in y units.
 	dataMoved := sc.Significant
+	var gates []string
 	for _, e := range sc.Expectations {
 		if !e.Changed {
 			continue
@@ -207,11 +204,17 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 		}
 		switch {
 		case e.WantChanged:
-			parts = append(parts, fmt.Sprintf("The gate %q was edited between the runs (it asked for %s, now %s) and went %s (%s).", e.Title, e.OldWant, e.Want, outcomeMove(e), gotMove(e)))
+			gates = append(gates, fmt.Sprintf("The gate %q was edited between the runs (it asked for %s, now %s) and went %s (%s).", e.Title, e.OldWant, e.Want, outcomeMove(e), gotMove(e)))
 		default:
-			parts = append(parts, fmt.Sprintf("The gate %q went %s (%s).", e.Title, outcomeMove(e), gotMove(e)))
+			gates = append(gates, fmt.Sprintf("The gate %q went %s (%s).", e.Title, outcomeMove(e), gotMove(e)))
 		}
 	}
+	if dataMoved && sc.Agreement == nil { // an agreement study's gate is its limits, above
+		if a := atXSentence(sc); a != "" {
+			parts = append(parts, a)
+		}
+	}
+	parts = append(parts, gates...)
 	if len(sc.Verdicts) > 0 {
 		var v []string
 		for _, vc := range sc.Verdicts {

@@ -214,3 +214,23 @@ func TestDiffSecondaryVerdicts(t *testing.T) {
 		}
 	}
 }
+
+// TestDiffEditedGateNoAtX: the same rows, only a min_abs_r gate edited
+// (0.999 → 0.5, failed → met). The statement gives no change in y units:
+// it gave "at 9.949 the line gives 9.719 instead of 9.719 (0 ± 0.2409)"
+// at three x values, for a change the manifest alone made.
+func TestDiffEditedGateNoAtX(t *testing.T) {
+	rng := rand.New(rand.NewPCG(25, 26))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	s := study("s", x, y, verdicts("linear", "positive", "strong", false))
+	s.Describe = &report.DescribePair{X: report.Describe{N: 30, Min: 30, Max: 70}}
+	gate := func(want string, ok bool) report.Study {
+		g := s
+		g.Expectations = []report.Expectation{{Name: "min_abs_r", Title: "correlation at least as strong as required", Want: want, Got: "|r| = 0.98", OK: ok}}
+		return g
+	}
+	sc := Diff(rep("same", gate("|r| ≥ 0.999", false)), rep("same", gate("|r| ≥ 0.5", true)), Options{}).Studies[0]
+	if strings.Contains(sc.Statement, "the line gives") || !strings.Contains(sc.Statement, "was edited between the runs") {
+		t.Errorf("statement = %q, want the edited gate and no change in y units", sc.Statement)
+	}
+}

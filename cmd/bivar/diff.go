@@ -179,7 +179,102 @@ func parseResults(file string, data []byte) (*report.Report, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%s: %s", file, explainJSON(data, err))
 	}
+	if err := resultsWhole(data, rep); err != nil {
+		return nil, fmt.Errorf("%s: %w: the file was edited or written by another program; run 'bivar run' again to write it whole", file, err)
+	}
 	return rep, nil
+}
+
+// resultsWhole checks what the strict decoding cannot: that the keys
+// bivar always writes are there and not null, and that studies and
+// datasets have the ids the comparison matches them by, once each. A
+// file without them would be compared as if its studies were added,
+// removed or alike.
+func resultsWhole(data []byte, rep *report.Report) error {
+	var top map[string]json.RawMessage
+	if err := json.Unmarshal(data, &top); err != nil {
+		return err
+	}
+	for _, key := range []string{"manifest", "datasets", "studies"} {
+		if v, ok := top[key]; !ok || string(bytes.TrimSpace(v)) == "null" {
+			return fmt.Errorf("key %q is missing or null", key)
+		}
+	}
+	at := elementOffsets(data, "studies")
+	where := func(i int) string {
+		if i < len(at) {
+			lc := lineCol(data, at[i]+1) // lineCol takes the offset after the byte
+			return fmt.Sprintf("line %d, column %d: study %d", lc[0], lc[1], i+1)
+		}
+		return fmt.Sprintf("study %d", i+1)
+	}
+	seen := map[string]int{}
+	for i, s := range rep.Studies {
+		switch {
+		case s.ID == "":
+			return fmt.Errorf("%s has no id", where(i))
+		case s.X.Column == "" || s.Y.Column == "":
+			return fmt.Errorf("%s (%q) names no x or y column", where(i), s.ID)
+		}
+		if j, dup := seen[s.ID]; dup {
+			return fmt.Errorf("%s has the id %q of study %d too", where(i), s.ID, j+1)
+		}
+		seen[s.ID] = i
+		for _, e := range s.Expectations {
+			if e.Name == "" {
+				return fmt.Errorf("%s (%q) has an expectation without a name", where(i), s.ID)
+			}
+		}
+	}
+	ds := map[string]bool{}
+	for i, d := range rep.Datasets {
+		if d.ID == "" || ds[d.ID] {
+			return fmt.Errorf("dataset %d has no id, or one another dataset has too (%q)", i+1, d.ID)
+		}
+		ds[d.ID] = true
+	}
+	return nil
+}
+
+// elementOffsets returns the byte offset at which each element of the
+// top-level array key begins in data, or nil when it cannot be found.
+func elementOffsets(data []byte, key string) []int64 {
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if t, err := dec.Token(); err != nil || t != json.Delim('{') {
+		return nil
+	}
+	for dec.More() {
+		k, err := dec.Token()
+		if err != nil {
+			return nil
+		}
+		if k != key {
+			var skip json.RawMessage
+			if dec.Decode(&skip) != nil {
+				return nil
+			}
+			continue
+		}
+		if t, err := dec.Token(); err != nil || t != json.Delim('[') {
+			return nil
+		}
+		var out []int64
+		for dec.More() {
+			off := dec.InputOffset()
+			// InputOffset is the end of the last token: skip the comma
+			// and spaces to the element itself.
+			for off < int64(len(data)) && (data[off] == ',' || data[off] == ' ' || data[off] == '\n' || data[off] == '\t' || data[off] == '\r') {
+				off++
+			}
+			out = append(out, off)
+			var skip json.RawMessage
+			if dec.Decode(&skip) != nil {
+				return nil
+			}
+		}
+		return out
+	}
+	return nil
 }
 
 // resultsShape checks, before the strict decoding, that data is a

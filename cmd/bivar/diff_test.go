@@ -124,6 +124,18 @@ func TestDiffCommand(t *testing.T) {
 	}
 }
 
+// encode returns a results.json of runOf(1, …) changed by edit.
+func encode(t *testing.T, edit func(*report.Report)) string {
+	t.Helper()
+	r := runOf(1, 0.8, "strong")
+	edit(r)
+	var buf bytes.Buffer
+	if err := report.Write(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	return buf.String()
+}
+
 // nanAt replaces the number after key (its first occurrence) by "NaN" in quotes.
 func nanAt(t *testing.T, full []byte, key string) string {
 	i := bytes.Index(full, []byte(key))
@@ -156,6 +168,7 @@ func TestDiffBadResults(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	noID := encode(t, func(r *report.Report) { r.Studies[0].ID = "" })
 	cases := []struct {
 		name, content string
 		want          []string
@@ -171,6 +184,13 @@ func TestDiffBadResults(t *testing.T) {
 		{"syntax error", strings.Replace(string(full), `"studies": [`, `"studies": [,`, 1), []string{"line ", "column ", "not valid JSON"}},
 		{"wrong type", strings.Replace(string(full), `"rows": 40`, `"rows": "forty"`, 1), []string{"line ", `key "datasets.rows" holds a JSON string where bivar writes a whole number:`}}, // it said "writes a int"
 		{"unknown key", strings.Replace(string(full), `"schema":`, `"colour": 1, "schema":`, 1), []string{`unknown field "colour"`, "does not write"}},
+		// Hand-edited files that decode but are not whole: they were
+		// compared as if studies were added, removed or alike (a second
+		// study of the same id silently replaced the first).
+		{"studies null", encode(t, func(r *report.Report) { r.Studies = nil }), []string{`key "studies" is missing or null`, "run 'bivar run' again"}},
+		{"study without id", noID, []string{fmt.Sprintf("line %d, column 5: study 1 has no id", strings.Count(noID[:strings.Index(noID, `"studies": [`)], "\n")+2)}},
+		{"two studies of one id", encode(t, func(r *report.Report) { r.Studies = append(r.Studies, r.Studies[0]) }), []string{`study 2 has the id "s" of study 1 too`}},
+		{"expectation without a name", encode(t, func(r *report.Report) { r.Studies[0].Expectations = []report.Expectation{{}} }), []string{`study 1 ("s") has an expectation without a name`}},
 		{"NaN in quotes", nanAt(t, full, `"sxx": `), []string{fmt.Sprintf("line %d, column %d: ", nanLine(full, `"sxx": `), nanCol(full, `"sxx": `)),
 			`key "studies[0].moments.sxx" holds a JSON string where bivar writes a number, or null`, "NaN and infinities as null"}},
 	}

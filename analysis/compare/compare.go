@@ -155,6 +155,43 @@ type StudyRef struct {
 	Title string `json:"title"`
 	X     string `json:"x"`
 	Y     string `json:"y"`
+	// Expectations are the study's CI gates in the one run that has it:
+	// for an added study each is new (and broken where it fails), for a
+	// removed one each is no longer declared.
+	Expectations []ExpectationChange `json:"expectations,omitempty"`
+}
+
+// GateRow is one CI gate whose outcome changed, with its study.
+type GateRow struct {
+	Study string // the study's id
+	// Compared: the study is in both runs (in Studies); else it was
+	// added or removed.
+	Compared bool
+	ExpectationChange
+}
+
+// ChangedGates lists the CI gates whose outcome changed: those of the
+// compared studies, in their order, then those of the added studies and
+// of the removed ones.
+func (r *Result) ChangedGates() []GateRow {
+	var out []GateRow
+	for _, sc := range r.Studies {
+		for _, e := range sc.Expectations {
+			if e.Changed {
+				out = append(out, GateRow{sc.ID, true, e})
+			}
+		}
+	}
+	for _, refs := range [][]StudyRef{r.Added, r.Removed} {
+		for _, s := range refs {
+			for _, e := range s.Expectations {
+				if e.Changed {
+					out = append(out, GateRow{s.ID, false, e})
+				}
+			}
+		}
+	}
+	return out
 }
 
 // StudyChange is the comparison of one study present in both runs.
@@ -361,14 +398,22 @@ func Diff(old, new *report.Report, opts Options) *Result {
 		newIDs[cur.ID] = true
 		prev, ok := oldByID[cur.ID]
 		if !ok {
-			res.Added = append(res.Added, ref(cur))
+			a := ref(cur)
+			if len(cur.Expectations) > 0 {
+				a.Expectations = expectationChanges(&report.Study{}, cur)
+			}
+			res.Added = append(res.Added, a)
 			continue
 		}
 		res.Studies = append(res.Studies, compareStudy(prev, cur, old, new, alpha))
 	}
 	for i := range old.Studies {
-		if !newIDs[old.Studies[i].ID] {
-			res.Removed = append(res.Removed, ref(&old.Studies[i]))
+		if prev := &old.Studies[i]; !newIDs[prev.ID] {
+			r := ref(prev)
+			if len(prev.Expectations) > 0 {
+				r.Expectations = expectationChanges(prev, &report.Study{})
+			}
+			res.Removed = append(res.Removed, r)
 		}
 	}
 	res.Notes = append(res.Notes, renamedNotes(old, new, res)...)
@@ -424,6 +469,18 @@ func Diff(old, new *report.Report, opts Options) *Result {
 			}
 			if e.Broken {
 				s.ExpectationBroken++
+			}
+		}
+	}
+	for _, refs := range [][]StudyRef{res.Added, res.Removed} {
+		for _, r := range refs {
+			for _, e := range r.Expectations {
+				if e.Changed {
+					s.ExpectationChanged++
+				}
+				if e.Broken {
+					s.ExpectationBroken++
+				}
 			}
 		}
 	}

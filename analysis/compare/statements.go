@@ -85,12 +85,12 @@ func statements(res *Result) []string {
 // leads the comparison.
 func gatesHead(res *Result) string {
 	var parts []string
-	for _, sc := range res.Studies {
-		for _, e := range sc.Expectations {
-			if e.Changed {
-				parts = append(parts, fmt.Sprintf("%s: %s %s", sc.ID, e.Title, outcomeMove(e)))
-			}
+	for _, g := range res.ChangedGates() {
+		how := ""
+		if !g.Compared {
+			how = ", a study in one run only"
 		}
+		parts = append(parts, fmt.Sprintf("%s: %s %s%s", g.Study, g.Title, outcomeMove(g.ExpectationChange), how))
 	}
 	n := res.Summary.ExpectationChanged
 	head := fmt.Sprintf("%d CI gates changed their outcome", n)

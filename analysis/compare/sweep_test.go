@@ -6,6 +6,7 @@ package compare
 
 import (
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
@@ -232,5 +233,34 @@ func TestDiffEditedGateNoAtX(t *testing.T) {
 	sc := Diff(rep("same", gate("|r| ≥ 0.999", false)), rep("same", gate("|r| ≥ 0.5", true)), Options{}).Studies[0]
 	if strings.Contains(sc.Statement, "the line gives") || !strings.Contains(sc.Statement, "was edited between the runs") {
 		t.Errorf("statement = %q, want the edited gate and no change in y units", sc.Statement)
+	}
+}
+
+// TestDiffGatesOfAddedStudies: the new run adds a study whose gate fails
+// (and keeps one alike in both runs). That gate is new and fails, so it
+// is broken, what --fail-on expectation gates on (its help: "or a new
+// gate fails"); it was not counted at all, and the diff exited 0. The
+// same study removed takes its gate away: changed, not broken.
+func TestDiffGatesOfAddedStudies(t *testing.T) {
+	rng := rand.New(rand.NewPCG(27, 28))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	kept := study("kept", x, y, nil)
+	added := study("added", x, y, nil)
+	added.Y.Column = "z"
+	added.Expectations = []report.Expectation{{Name: "direction", Title: "direction as expected", Want: "negative", Got: "positive", OK: false}}
+	res := Diff(rep("same", kept), rep("same", kept, added), Options{})
+	if res.Summary.ExpectationChanged != 1 || res.Summary.ExpectationBroken != 1 || !res.AnyExpectationBroken() {
+		t.Errorf("added study with a failing gate: changed %d, broken %d; want 1 and 1", res.Summary.ExpectationChanged, res.Summary.ExpectationBroken)
+	}
+	g := res.ChangedGates()
+	if len(g) != 1 || g[0].Study != "added" || g[0].Compared || g[0].OldOK != nil || g[0].NewOK == nil || *g[0].NewOK {
+		t.Errorf("changed gates %+v, want the added study's gate, not declared → failed", g)
+	}
+	if want := "1 CI gate changed its outcome (added: direction as expected not declared → failed, a study in one run only)."; !slices.Contains(res.Statements, want) {
+		t.Errorf("statements %q lack %q", res.Statements, want)
+	}
+	res = Diff(rep("same", kept, added), rep("same", kept), Options{})
+	if res.Summary.ExpectationChanged != 1 || res.Summary.ExpectationBroken != 0 {
+		t.Errorf("removed study with a gate: changed %d, broken %d; want 1 and 0", res.Summary.ExpectationChanged, res.Summary.ExpectationBroken)
 	}
 }

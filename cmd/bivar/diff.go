@@ -87,7 +87,7 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		return exitFailed
 	}
 	s := res.Summary
-	fmt.Fprintf(stderr, "bivar diff: %s compared: %s changed outcome (%d now failing that held before), %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed; written to %s\n",
+	fmt.Fprintf(stderr, "bivar diff: %s compared: %s changed outcome (%d now failing that did not fail before), %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed; written to %s\n",
 		plural(s.Compared, "study", "studies"), plural(s.ExpectationChanged, "CI gate", "CI gates"), s.ExpectationBroken, s.Significant, res.Alpha, compare.AdjustName(res.Adjust), s.VerdictChanged, s.Added, s.Removed, *out)
 	for _, sc := range res.Studies {
 		if sc.Statement != "" {
@@ -108,7 +108,7 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		code = exitExpectation
 	}
 	if gates["expectation"] && res.AnyExpectationBroken() {
-		fmt.Fprintf(stderr, "bivar diff: failing: a CI gate that held in the old run fails in the new one (--fail-on expectation)\n")
+		fmt.Fprintf(stderr, "bivar diff: failing: a CI gate fails in the new run that did not fail in the old (it held there, or was not declared) (--fail-on expectation)\n")
 		code = exitExpectation
 	}
 	if gates["verdict"] && res.AnyVerdictChanged() {

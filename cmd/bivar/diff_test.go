@@ -74,7 +74,7 @@ func TestDiffCommand(t *testing.T) {
 		{"changed, not gated", []string{"diff", "-o", out, a, filepath.Join(dir, "changed")}, exitOK, "1 changed beyond chance"},
 		{"changed, gated on significant", []string{"diff", "-o", out, "--fail-on", "significant", a, changed}, exitExpectation, "--fail-on significant"},
 		{"changed, gated on verdict", []string{"diff", "--fail-on=verdict", "-o", out, a, changed}, exitExpectation, "strength strong → moderate"},
-		{"gate broken, not gated", []string{"diff", "-o", out, gateMet, gateFailed}, exitOK, "1 CI gate changed outcome (1 now failing that held before)"},
+		{"gate broken, not gated", []string{"diff", "-o", out, gateMet, gateFailed}, exitOK, "1 CI gate changed outcome (1 now failing that did not fail before)"},
 		{"gate broken, gated on verdict and significant", []string{"diff", "-o", out, "--fail-on", "verdict,significant", gateMet, gateFailed}, exitOK, "slope within its limits met → failed"},
 		{"gate broken, gated on expectation", []string{"diff", "-o", out, "--fail-on", "expectation", gateMet, gateFailed}, exitExpectation, "--fail-on expectation"},
 		{"gate mended, gated on expectation", []string{"diff", "-o", out, "--fail-on", "expectation", gateFailed, gateMet}, exitOK, "0 now failing"},
@@ -276,7 +276,7 @@ func TestSampleProjectRuns(t *testing.T) {
 		t.Fatalf("run October again: exit %d\n%s", code, stderr)
 	}
 	code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "same"), "--fail-on", "expectation,verdict,significant", octDir, oct2Dir)
-	if code != exitOK || !strings.Contains(stderr, "0 CI gates changed outcome (0 now failing that held before), 0 changed beyond chance") ||
+	if code != exitOK || !strings.Contains(stderr, "0 CI gates changed outcome (0 now failing that did not fail before), 0 changed beyond chance") ||
 		!strings.Contains(stderr, "0 with a changed verdict; 0 added, 0 removed") || strings.Contains(stderr, "study \"") {
 		t.Errorf("October against October run again: exit %d\n%s", code, stderr)
 	}

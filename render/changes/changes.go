@@ -253,12 +253,9 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	b.WriteString(mdtext.Escape(gatesLine(res)) + "\n\n")
 	if s.ExpectationChanged > 0 {
 		b.WriteString("| Study | Gate | Wanted | Old run | New run |\n|---|---|---|---|---|\n")
-		for _, sc := range res.Studies {
-			for _, e := range sc.Expectations {
-				if e.Changed {
-					fmt.Fprintf(&b, "| `%s` | %s | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(e.Title), mdtext.Cell(wanted(e)), mdtext.Cell(outcome(e.OldOK, e.OldGot)), mdtext.Cell(outcome(e.NewOK, e.NewGot)))
-				}
-			}
+		for _, g := range res.ChangedGates() {
+			e := g.ExpectationChange
+			fmt.Fprintf(&b, "| `%s` | %s | %s | %s | **%s** |\n", code(g.Study), mdtext.Cell(e.Title), mdtext.Cell(wanted(e)), mdtext.Cell(outcome(e.OldOK, e.OldGot)), mdtext.Cell(outcome(e.NewOK, e.NewGot)))
 		}
 		b.WriteString("\n")
 	}
@@ -275,7 +272,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		}
 		b.WriteString("\n")
 	}
-	fmt.Fprintf(&b, "## In numbers\n\n- CI gates whose outcome changed: %d (%d now failing that held before)\n- Studies changed beyond chance: %d of %d (adjusted p below %g)\n- Studies with a changed verdict: %d\n- Studies added: %d; removed: %d\n",
+	fmt.Fprintf(&b, "## In numbers\n\n- CI gates whose outcome changed: %d (%d now failing that did not fail before)\n- Studies changed beyond chance: %d of %d (adjusted p below %g)\n- Studies with a changed verdict: %d\n- Studies added: %d; removed: %d\n",
 		s.ExpectationChanged, s.ExpectationBroken, s.Significant, s.Compared, res.Alpha, s.VerdictChanged, s.Added, s.Removed)
 	for _, n := range res.Notes {
 		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(n))
@@ -418,6 +415,11 @@ func gatesLine(res *compare.Result) string {
 	for _, sc := range res.Studies {
 		total += len(sc.Expectations)
 	}
+	for _, refs := range [][]compare.StudyRef{res.Added, res.Removed} {
+		for _, r := range refs {
+			total += len(r.Expectations)
+		}
+	}
 	s := res.Summary
 	switch {
 	case total == 0:
@@ -425,9 +427,9 @@ func gatesLine(res *compare.Result) string {
 	case s.ExpectationChanged == 0:
 		return fmt.Sprintf("No CI gate changed its outcome (%d compared).", total)
 	case s.ExpectationChanged == 1:
-		return fmt.Sprintf("1 of %d CI gates changed its outcome; %d now fails that held before.", total, s.ExpectationBroken)
+		return fmt.Sprintf("1 of %d CI gates changed its outcome; %d now fails that did not fail before.", total, s.ExpectationBroken)
 	}
-	return fmt.Sprintf("%d of %d CI gates changed their outcome; %d now fail that held before.", s.ExpectationChanged, total, s.ExpectationBroken)
+	return fmt.Sprintf("%d of %d CI gates changed their outcome; %d now fail that did not fail before.", s.ExpectationChanged, total, s.ExpectationBroken)
 }
 
 // outcome is a gate's outcome in one run, with what it found.

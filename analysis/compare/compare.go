@@ -232,6 +232,11 @@ type StudyChange struct {
 	// runs' figures are of different relationships; "" otherwise.
 	Columns string `json:"columns,omitempty"`
 
+	// Flagged compares the rows flagged outlier, influential or sole
+	// support; nil when each flag marks as many rows in both runs, or a
+	// run has no influence figures.
+	Flagged *FlaggedChange `json:"flagged,omitempty"`
+
 	Verdicts       []VerdictChange `json:"verdicts"` // changed verdicts only
 	VerdictChanged bool            `json:"verdict_changed"`
 	// Expectations are the study's CI gates in either run with their
@@ -289,6 +294,53 @@ type SlopeChange struct {
 	DF            int          `json:"df"`
 	P             report.Float `json:"p"`
 	PAdjusted     report.Float `json:"p_adjusted"`
+}
+
+// FlaggedChange is the change in a study's flagged rows: how many rows
+// each flag marks in each run, and the rows the new run names that the
+// old one did not (by id_column value or row number), in the new run's
+// ranking.
+type FlaggedChange struct {
+	Old        report.FlagCounts `json:"old"`
+	New        report.FlagCounts `json:"new"`
+	NewlyNamed []string          `json:"newly_named"`
+	// Gone are the rows the old run named that the new one does not.
+	Gone []string `json:"gone"`
+}
+
+// flaggedChange compares the flagged rows of two runs of a study; nil when
+// nothing changed or either run lacks the figures.
+func flaggedChange(prev, cur *report.Study) *FlaggedChange {
+	if prev.Influence == nil || cur.Influence == nil {
+		return nil
+	}
+	rows := func(in *report.Influence) []string {
+		var r []string
+		for _, p := range in.Points {
+			r = append(r, p.Row)
+		}
+		return r
+	}
+	or, nr := rows(prev.Influence), rows(cur.Influence)
+	fc := &FlaggedChange{Old: prev.Influence.Counts, New: cur.Influence.Counts, NewlyNamed: []string{}, Gone: []string{}}
+	for _, r := range nr {
+		if !slices.Contains(or, r) {
+			fc.NewlyNamed = append(fc.NewlyNamed, r)
+		}
+	}
+	for _, r := range or {
+		if !slices.Contains(nr, r) {
+			fc.Gone = append(fc.Gone, r)
+		}
+	}
+	o, n := fc.Old, fc.New
+	// Only a change in how many rows each flag marks is reported: between
+	// production runs the rows are other units, so the rows named differ
+	// whenever any is flagged.
+	if o.Outlier == n.Outlier && o.Influential == n.Influential && o.SoleSupport == n.SoleSupport {
+		return nil
+	}
+	return fc
 }
 
 // VerdictChange is one verdict that differs between the runs.
@@ -687,6 +739,9 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 	sc.Verdicts = verdictChanges(prev.Findings, cur.Findings)
 	if (prev.Findings == nil) != (cur.Findings == nil) {
 		sc.Notes = append(sc.Notes, "verdicts not compared: one run has no findings for this study")
+	}
+	if sc.Columns == "" {
+		sc.Flagged = flaggedChange(prev, cur)
 	}
 	sc.Agreement = compareAgreement(prev, cur)
 	sc.Verdicts = append(sc.Verdicts, agreementVerdict(prev, cur)...)

@@ -151,7 +151,7 @@ func dataFact(res *Result) string {
 // context, and the verdicts that changed. "" when nothing changed.
 func studyStatement(sc *StudyChange, alpha float64) string {
 	ran := runStatus(sc)
-	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged && sc.Columns == "" && ran == "" {
+	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged && sc.Columns == "" && ran == "" && sc.Flagged == nil {
 		return ""
 	}
 	var parts []string
@@ -215,6 +215,9 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 		}
 	}
 	parts = append(parts, gates...)
+	if f := flaggedSentence(sc.Flagged); f != "" {
+		parts = append(parts, f)
+	}
 	if len(sc.Verdicts) > 0 {
 		var v []string
 		for _, vc := range sc.Verdicts {
@@ -230,6 +233,46 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 		parts = append(parts, "The gate itself changed, so its new outcome need not mean that the relationship did.")
 	}
 	return strings.Join(parts, " ")
+}
+
+// flaggedSentence says how the flagged rows changed: the counts per
+// flag that moved, and the rows named in one run only (at most five of
+// each, then how many more).
+func flaggedSentence(f *FlaggedChange) string {
+	if f == nil {
+		return ""
+	}
+	var counts []string
+	for _, c := range []struct {
+		name     string
+		old, new int
+	}{{"outlier", f.Old.Outlier, f.New.Outlier}, {"influential", f.Old.Influential, f.New.Influential}, {"sole support", f.Old.SoleSupport, f.New.SoleSupport}} {
+		if c.old != c.new {
+			counts = append(counts, fmt.Sprintf("%s %d → %d", c.name, c.old, c.new))
+		}
+	}
+	list := func(rows []string) string {
+		const most = 5
+		if len(rows) > most {
+			return strings.Join(rows[:most], ", ") + fmt.Sprintf(" and %d more", len(rows)-most)
+		}
+		return strings.Join(rows, ", ")
+	}
+	s := "The flagged rows changed"
+	if len(counts) > 0 {
+		s += " (" + strings.Join(counts, ", ") + ")"
+	}
+	var named []string
+	if len(f.NewlyNamed) > 0 {
+		named = append(named, "flagged in the new run only: "+list(f.NewlyNamed))
+	}
+	if len(f.Gone) > 0 {
+		named = append(named, "flagged in the old run only: "+list(f.Gone))
+	}
+	if len(named) > 0 {
+		s += "; " + strings.Join(named, "; ")
+	}
+	return s + "."
 }
 
 // runStatus says which run a study did not run in, with the reason, or

@@ -264,3 +264,29 @@ func TestDiffGatesOfAddedStudies(t *testing.T) {
 		t.Errorf("removed study with a gate: changed %d, broken %d; want 1 and 0", res.Summary.ExpectationChanged, res.Summary.ExpectationBroken)
 	}
 }
+
+// TestDiffFlaggedRows: the same study, and in the new run one row (P005)
+// flagged as an outlier where the old run flagged none (one value of the
+// file edited). The diff says so with the row; it said nothing, since no
+// verdict moved. Another row flagged in place of the old one, the count
+// alike (other units in a new production run), is not a change.
+func TestDiffFlaggedRows(t *testing.T) {
+	rng := rand.New(rand.NewPCG(29, 30))
+	x, y := process(rng, 40, 2, 0.5, 1)
+	old, cur := study("s", x, y, nil), study("s", x, y, nil)
+	old.Influence = &report.Influence{}
+	cur.Influence = &report.Influence{Counts: report.FlagCounts{Flagged: 1, Outlier: 1, Suspect: 1, Named: 1},
+		Points: []report.Point{{Row: "P005", Flags: []string{"outlier"}}}}
+	sc := Diff(rep("a", old), rep("b", cur), Options{}).Studies[0]
+	if sc.Flagged == nil || sc.Flagged.New.Outlier != 1 || sc.Flagged.Old.Outlier != 0 || !slices.Equal(sc.Flagged.NewlyNamed, []string{"P005"}) {
+		t.Fatalf("flagged = %+v, want outlier 0 → 1 with P005 newly named", sc.Flagged)
+	}
+	if want := "The flagged rows changed (outlier 0 → 1); flagged in the new run only: P005."; !strings.Contains(sc.Statement, want) {
+		t.Errorf("statement %q lacks %q", sc.Statement, want)
+	}
+	other := cur
+	other.Influence = &report.Influence{Counts: cur.Influence.Counts, Points: []report.Point{{Row: "Q017", Flags: []string{"outlier"}}}}
+	if sc := Diff(rep("a", cur), rep("b", other), Options{}).Studies[0]; sc.Flagged != nil || sc.Statement != "" {
+		t.Errorf("one outlier in each run: flagged %+v, statement %q; want neither", sc.Flagged, sc.Statement)
+	}
+}

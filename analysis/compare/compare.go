@@ -45,6 +45,7 @@ import (
 	"math"
 	"slices"
 	"strings"
+	"time"
 
 	"bivar/analysis/findings"
 	"bivar/analysis/report"
@@ -428,6 +429,11 @@ func Diff(old, new *report.Report, opts Options) *Result {
 	if !slices.Contains(adjustments, res.Adjust) {
 		res.Notes = append(res.Notes, fmt.Sprintf("adjustment %q is unknown (want holm, bh or none); holm was used", res.Adjust))
 		res.Adjust = "holm"
+	}
+	if to, err1 := time.Parse(time.RFC3339, old.Generated); err1 == nil {
+		if tn, err2 := time.Parse(time.RFC3339, new.Generated); err2 == nil && to.After(tn) {
+			res.Notes = append(res.Notes, fmt.Sprintf("the old run is the later one (written %s, the new run %s): if the two were given the wrong way round, every change reads backwards; the previous run comes first", old.Generated, new.Generated))
+		}
 	}
 	if old.Tool.Version != new.Tool.Version {
 		res.Notes = append(res.Notes, fmt.Sprintf("the runs were made by different versions of bivar (%s, %s)", orDash(old.Tool.Version), orDash(new.Tool.Version)))

@@ -290,3 +290,32 @@ func TestDiffFlaggedRows(t *testing.T) {
 		t.Errorf("one outlier in each run: flagged %+v, statement %q; want neither", sc.Flagged, sc.Statement)
 	}
 }
+
+// TestDiffOrderNote: OLD written after NEW (the arguments given the wrong
+// way round) gets a note; the right order, or a run without a date
+// (SOURCE_DATE_EPOCH unset in analysis.Run), none.
+func TestDiffOrderNote(t *testing.T) {
+	rng := rand.New(rand.NewPCG(31, 32))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	a, b := rep("a", study("s", x, y, nil)), rep("b", study("s", x, y, nil))
+	a.Generated, b.Generated = "2026-10-31T22:00:00Z", "2026-11-30T22:00:00Z"
+	note := "the old run is the later one (written 2026-11-30T22:00:00Z, the new run 2026-10-31T22:00:00Z)"
+	has := func(res *Result) bool {
+		for _, n := range res.Notes {
+			if strings.HasPrefix(n, note) {
+				return true
+			}
+		}
+		return false
+	}
+	if !has(Diff(b, a, Options{})) {
+		t.Errorf("November given as OLD: notes %q lack %q", Diff(b, a, Options{}).Notes, note)
+	}
+	if has(Diff(a, b, Options{})) {
+		t.Error("October as OLD, November as NEW: an order note")
+	}
+	a.Generated = ""
+	if res := Diff(b, a, Options{}); len(res.Notes) != 0 {
+		t.Errorf("a run without a date: notes %q", res.Notes)
+	}
+}

@@ -435,6 +435,9 @@ func Diff(old, new *report.Report, opts Options) *Result {
 			res.Notes = append(res.Notes, fmt.Sprintf("the old run is the later one (written %s, the new run %s): if the two were given the wrong way round, every change reads backwards; the previous run comes first", old.Generated, new.Generated))
 		}
 	}
+	if o, n := old.Manifest, new.Manifest; o.SHA256 != "" && n.SHA256 != "" && o.SHA256 != n.SHA256 && o.File == n.File {
+		res.Notes = append(res.Notes, fmt.Sprintf("the manifest %s was edited between the runs (SHA-256 %s → %s): a setting, a study or a gate may differ", n.File, short12(o.SHA256), short12(n.SHA256)))
+	}
 	if old.Tool.Version != new.Tool.Version {
 		res.Notes = append(res.Notes, fmt.Sprintf("the runs were made by different versions of bivar (%s, %s)", orDash(old.Tool.Version), orDash(new.Tool.Version)))
 	}
@@ -644,6 +647,14 @@ func scaledName(scale, axis string) string {
 		return "√" + axis
 	}
 	return axis
+}
+
+// short12 is the first 12 characters of a hash, as the diff shows them.
+func short12(h string) string {
+	if len(h) > 12 {
+		return h[:12]
+	}
+	return h
 }
 
 func orDash(s string) string {

@@ -6,6 +6,7 @@ package compare
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -32,6 +33,9 @@ func AdjustName(a string) string {
 func statements(res *Result) []string {
 	s := res.Summary
 	var out []string
+	for i := range res.Studies {
+		res.Studies[i].Statement = studyStatement(&res.Studies[i], res.Alpha)
+	}
 	family := fmt.Sprintf("at alpha = %s after %s across all %d change tests", g(res.Alpha), AdjustName(res.Adjust), s.Tested)
 	if res.Adjust == "none" {
 		family = fmt.Sprintf("at alpha = %s, with no adjustment across the %d change tests", g(res.Alpha), s.Tested)
@@ -59,12 +63,12 @@ func statements(res *Result) []string {
 			head += fmt.Sprintf("; %d studies' verdicts changed.", s.VerdictChanged)
 		}
 	}
+	if res.Identical() {
+		head = fmt.Sprintf("Nothing changed: both runs read the same manifest and the same data (SHA-256 alike) with the same version of bivar, and the diff found no change in any of the %d studies; only the times the runs were made differ.", s.Compared)
+	}
 	out = append(out, head)
 	if s.ExpectationChanged > 0 {
 		out = append(out, gatesHead(res))
-	}
-	for i := range res.Studies {
-		res.Studies[i].Statement = studyStatement(&res.Studies[i], res.Alpha)
 	}
 	var untested []string
 	for _, sc := range res.Studies {
@@ -79,6 +83,28 @@ func statements(res *Result) []string {
 		out = append(out, d)
 	}
 	return out
+}
+
+// Identical says whether the runs are the same run made twice: the same
+// manifest, data and tool, and nothing found changed. Its statements
+// (set before) are then all empty.
+func (res *Result) Identical() bool {
+	s := res.Summary
+	if res.Old.SHA256 == "" || res.Old.SHA256 != res.New.SHA256 || res.Old.ToolVersion != res.New.ToolVersion ||
+		s.Significant+s.VerdictChanged+s.ExpectationChanged+s.DataChanged+s.Added+s.Removed > 0 || s.Compared == 0 {
+		return false
+	}
+	for _, d := range res.Datasets {
+		if d.Status != "same" {
+			return false
+		}
+	}
+	for _, sc := range res.Studies {
+		if sc.Statement != "" {
+			return false
+		}
+	}
+	return true
 }
 
 // gatesHead is the sentence on the CI gates whose outcome changed, which
@@ -102,16 +128,18 @@ func gatesHead(res *Result) string {
 
 // outcomeMove says how a gate's outcome went from the old run to the new.
 func outcomeMove(e ExpectationChange) string {
-	word := func(ok *bool) string {
-		switch {
-		case ok == nil:
-			return "not declared"
-		case *ok:
-			return "met"
-		}
-		return "failed"
+	return outcomeWord(e.OldOK) + " → " + outcomeWord(e.NewOK)
+}
+
+// outcomeWord is a gate's outcome in one run.
+func outcomeWord(ok *bool) string {
+	switch {
+	case ok == nil:
+		return "not declared"
+	case *ok:
+		return "met"
 	}
-	return word(e.OldOK) + " → " + word(e.NewOK)
+	return "failed"
 }
 
 // dataFact states which data the runs read, as a fact: a new run
@@ -151,7 +179,8 @@ func dataFact(res *Result) string {
 // context, and the verdicts that changed. "" when nothing changed.
 func studyStatement(sc *StudyChange, alpha float64) string {
 	ran := runStatus(sc)
-	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged && sc.Columns == "" && ran == "" && sc.Flagged == nil {
+	edited := slices.ContainsFunc(sc.Expectations, func(e ExpectationChange) bool { return e.WantChanged })
+	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged && sc.Columns == "" && ran == "" && sc.Flagged == nil && !edited {
 		return ""
 	}
 	var parts []string
@@ -193,6 +222,9 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 	var gates []string
 	for _, e := range sc.Expectations {
 		if !e.Changed {
+			if e.WantChanged {
+				gates = append(gates, fmt.Sprintf("The gate %q was edited between the runs (it asked for %s, now %s); it is %s in both.", e.Title, e.OldWant, e.Want, outcomeWord(e.NewOK)))
+			}
 			continue
 		}
 		edited := e.WantChanged || e.OldOK == nil || e.NewOK == nil

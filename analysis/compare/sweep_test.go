@@ -319,3 +319,36 @@ func TestDiffOrderNote(t *testing.T) {
 		t.Errorf("a run without a date: notes %q", res.Notes)
 	}
 }
+
+// TestDiffSameRunTwice: the same manifest, data and tool twice; only the
+// times differ. The diff says nothing changed, in so many words (it
+// listed zero counts and "only the settings or the tool can explain a
+// change"). A gate edited in the manifest with its outcome alike is named
+// (it was not mentioned), with a note that the manifest was edited.
+func TestDiffSameRunTwice(t *testing.T) {
+	rng := rand.New(rand.NewPCG(33, 34))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	mk := func(generated, want string) *report.Report {
+		s := study("s", x, y, verdicts("linear", "positive", "strong", false))
+		s.Expectations = []report.Expectation{{Name: "min_abs_r", Title: "correlation at least as strong as required", Want: want, Got: "|r| = 0.98", OK: true}}
+		r := rep("same", s)
+		r.Generated = generated
+		r.Manifest.File, r.Manifest.SHA256 = "m.toml", "m1"
+		return r
+	}
+	a, b := mk("2026-11-30T22:00:00Z", "|r| ≥ 0.9"), mk("2026-11-30T22:05:00Z", "|r| ≥ 0.9")
+	res := Diff(a, b, Options{})
+	if !res.Identical() || !strings.HasPrefix(res.Statements[0], "Nothing changed: ") || len(res.Notes) != 0 {
+		t.Errorf("same run twice: identical %v, statements %q, notes %q", res.Identical(), res.Statements, res.Notes)
+	}
+	b = mk("2026-11-30T22:05:00Z", "|r| ≥ 0.95")
+	b.Manifest.SHA256 = "m2"
+	res = Diff(a, b, Options{})
+	want := `The gate "correlation at least as strong as required" was edited between the runs (it asked for |r| ≥ 0.9, now |r| ≥ 0.95); it is met in both.`
+	if res.Identical() || res.Studies[0].Statement != want {
+		t.Errorf("gate edited, outcome alike: identical %v, statement %q, want %q", res.Identical(), res.Studies[0].Statement, want)
+	}
+	if !slices.Contains(res.Notes, "the manifest m.toml was edited between the runs (SHA-256 m1 → m2): a setting, a study or a gate may differ") {
+		t.Errorf("notes %q lack the edited manifest", res.Notes)
+	}
+}

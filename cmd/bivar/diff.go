@@ -89,6 +89,9 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	s := res.Summary
 	fmt.Fprintf(stderr, "bivar diff: %s compared: %s changed outcome (%d now failing that did not fail before), %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed; written to %s\n",
 		plural(s.Compared, "study", "studies"), plural(s.ExpectationChanged, "CI gate", "CI gates"), s.ExpectationBroken, s.Significant, res.Alpha, compare.AdjustName(res.Adjust), s.VerdictChanged, s.Added, s.Removed, *out)
+	if res.Identical() {
+		fmt.Fprintf(stderr, "bivar diff: %s\n", res.Statements[0])
+	}
 	for _, sc := range res.Studies {
 		if sc.Statement != "" {
 			fmt.Fprintf(stderr, "bivar diff: study %q: %s\n", sc.ID, sc.Statement)

@@ -52,6 +52,10 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar diff: -o %s is a file: give a folder for diff.html, diff.md and diff.json (created if needed)\n", *out)
 		return exitUsage
 	}
+	if rf := insideReport(*out); rf != "" {
+		fmt.Fprintf(stderr, "bivar diff: -o %s is inside the report folder %s, which 'bivar run' replaces whole (and refuses to while it holds files of others): give the diff a folder of its own, such as %s\n", *out, rf, filepath.Join(filepath.Dir(rf), "diff"))
+		return exitUsage
+	}
 	// The folder is taken first, so a second diff into it is refused at once.
 	target, err := publish.OpenDir(*out, publish.Options{Command: "bivar diff", Legacy: changes.EarlierFile})
 	if err != nil {
@@ -119,6 +123,24 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		code = exitExpectation
 	}
 	return code
+}
+
+// insideReport returns the report folder (one holding a results.json of
+// bivar's) that out lies inside, or "". out itself is not looked at:
+// publish refuses a folder of another command's files.
+func insideReport(out string) string {
+	abs, err := filepath.Abs(out)
+	if err != nil {
+		return ""
+	}
+	for dir := filepath.Dir(abs); ; dir = filepath.Dir(dir) {
+		if data, err := os.ReadFile(filepath.Join(dir, "results.json")); err == nil && resultsShape(data) == nil {
+			return dir
+		}
+		if filepath.Dir(dir) == dir {
+			return ""
+		}
+	}
 }
 
 // parseFailOn reads the --fail-on list.

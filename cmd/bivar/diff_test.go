@@ -90,6 +90,9 @@ func TestDiffCommand(t *testing.T) {
 		// exited 0 saying nothing changed. A copy of the file is compared.
 		{"same file twice", []string{"diff", "-o", out, "--fail-on", "expectation", a, a}, exitUsage, "OLD and NEW are the same file, " + a},
 		{"same file as folder and file", []string{"diff", "-o", out, filepath.Join(dir, "a"), a}, exitUsage, "OLD and NEW are the same file"},
+		// A diff written inside a report folder stops the next 'bivar
+		// run' of that folder (it holds files bivar run did not write).
+		{"-o inside a report folder", []string{"diff", "-o", filepath.Join(dir, "a", "diff"), a, changed}, exitUsage, "-o " + filepath.Join(dir, "a", "diff") + " is inside the report folder " + filepath.Join(dir, "a") + ", which 'bivar run' replaces whole"},
 		{"a copy of the same file", []string{"diff", "-o", out, a, filepath.Join(dir, "copy", "results.json")}, exitOK, "0 changed beyond chance"},
 	}
 	for _, tc := range cases {

@@ -154,7 +154,7 @@ func dataFact(res *Result) string {
 				rows = fmt.Sprintf("%d rows old, %d new", d.OldRows, d.NewRows)
 			}
 			if d.OldFrom == d.NewFrom {
-				parts = append(parts, fmt.Sprintf("%s changed: %s holds other data in the new run than in the old (another SHA-256; %s)", d.ID, d.NewFrom, rows))
+				parts = append(parts, fmt.Sprintf("%s changed: the contents of %s differ between the runs (another SHA-256, which any edited, added, removed or reordered row gives; %s)", d.ID, d.NewFrom, rows))
 			} else {
 				parts = append(parts, fmt.Sprintf("%s changed: the new run read %s, the old %s (another SHA-256; %s)", d.ID, d.NewFrom, d.OldFrom, rows))
 			}

@@ -120,7 +120,7 @@ func TestDiffDataSameFileChanged(t *testing.T) {
 	old, cur := rep("aaa", study("s", x, y, nil)), rep("bbb", study("s", x, y, nil))
 	old.Datasets[0].Rows, cur.Datasets[0].Rows = 40, 40
 	res := Diff(old, cur, Options{})
-	want := "Data: d changed: d.csv holds other data in the new run than in the old (another SHA-256; 40 rows in both)."
+	want := "Data: d changed: the contents of d.csv differ between the runs (another SHA-256, which any edited, added, removed or reordered row gives; 40 rows in both)."
 	if got := res.Statements[len(res.Statements)-1]; got != want {
 		t.Errorf("data statement\n got %q\nwant %q", got, want)
 	}

@@ -43,6 +43,7 @@ package compare
 import (
 	"fmt"
 	"math"
+	"reflect"
 	"slices"
 	"strings"
 	"time"
@@ -446,7 +447,8 @@ func Diff(old, new *report.Report, opts Options) *Result {
 			old.Manifest.Alpha, orDash(old.Manifest.Adjust), new.Manifest.Alpha, orDash(new.Manifest.Adjust)))
 	}
 	if old.Manifest.Thresholds != new.Manifest.Thresholds {
-		res.Notes = append(res.Notes, "the verdict thresholds differ between the runs, so a changed verdict may come from the thresholds rather than the data")
+		res.Notes = append(res.Notes, fmt.Sprintf("the verdict thresholds differ between the runs (%s), so a changed verdict may come from the thresholds rather than the data",
+			strings.Join(thresholdChanges(old.Manifest.Thresholds, new.Manifest.Thresholds), ", ")))
 	}
 
 	oldByID := map[string]*report.Study{}
@@ -647,6 +649,21 @@ func scaledName(scale, axis string) string {
 		return "√" + axis
 	}
 	return axis
+}
+
+// thresholdChanges names each threshold that differs, by its manifest
+// key: "strong 0.7 → 0.8".
+func thresholdChanges(o, n report.Thresholds) []string {
+	var out []string
+	ov, nv := reflect.ValueOf(o), reflect.ValueOf(n)
+	for i := range ov.NumField() {
+		a, b := ov.Field(i).Interface(), nv.Field(i).Interface()
+		if a != b {
+			key, _, _ := strings.Cut(ov.Type().Field(i).Tag.Get("json"), ",")
+			out = append(out, fmt.Sprintf("%s %v → %v", key, a, b))
+		}
+	}
+	return out
 }
 
 // short12 is the first 12 characters of a hash, as the diff shows them.

@@ -352,3 +352,18 @@ func TestDiffSameRunTwice(t *testing.T) {
 		t.Errorf("notes %q lack the edited manifest", res.Notes)
 	}
 }
+
+// TestDiffThresholdsNamed: the strong cut point raised from 0.7 to 0.999
+// and the outlier z from 3 to 3.5 between the runs; the note names both
+// with their values (it said only that "the verdict thresholds differ").
+func TestDiffThresholdsNamed(t *testing.T) {
+	rng := rand.New(rand.NewPCG(35, 36))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	a, b := rep("same", study("s", x, y, nil)), rep("same", study("s", x, y, nil))
+	a.Manifest.Thresholds = report.Thresholds{Strong: 0.7, OutlierZ: 3}
+	b.Manifest.Thresholds = report.Thresholds{Strong: 0.999, OutlierZ: 3.5}
+	want := "the verdict thresholds differ between the runs (strong 0.7 → 0.999, outlier_z 3 → 3.5), so a changed verdict may come from the thresholds rather than the data"
+	if res := Diff(a, b, Options{}); !slices.Contains(res.Notes, want) {
+		t.Errorf("notes %q lack %q", res.Notes, want)
+	}
+}

@@ -119,6 +119,7 @@ type Side struct {
 	Manifest    string  `json:"manifest"`
 	SHA256      string  `json:"manifest_sha256"`
 	ToolVersion string  `json:"tool_version"`
+	Schema      string  `json:"schema,omitempty"` // of the results.json read
 	Generated   string  `json:"generated,omitempty"`
 	Alpha       float64 `json:"alpha"`
 	Adjust      string  `json:"adjust"`
@@ -439,6 +440,9 @@ func Diff(old, new *report.Report, opts Options) *Result {
 	if o, n := old.Manifest, new.Manifest; o.SHA256 != "" && n.SHA256 != "" && o.SHA256 != n.SHA256 && o.File == n.File {
 		res.Notes = append(res.Notes, fmt.Sprintf("the manifest %s was edited between the runs (SHA-256 %s → %s): a setting, a study or a gate may differ", n.File, short12(o.SHA256), short12(n.SHA256)))
 	}
+	if old.Schema != new.Schema && old.Schema != "" && new.Schema != "" {
+		res.Notes = append(res.Notes, fmt.Sprintf("the runs were written by different builds of bivar, in results.json schemas %s and %s: figures and verdicts added since the older one are missing from it and are not compared", old.Schema, new.Schema))
+	}
 	if old.Tool.Version != new.Tool.Version {
 		res.Notes = append(res.Notes, fmt.Sprintf("the runs were made by different versions of bivar (%s, %s)", orDash(old.Tool.Version), orDash(new.Tool.Version)))
 	}
@@ -568,6 +572,7 @@ func side(r *report.Report) Side {
 		Manifest:    r.Manifest.File,
 		SHA256:      r.Manifest.SHA256,
 		ToolVersion: r.Tool.Version,
+		Schema:      r.Schema,
 		Generated:   r.Generated,
 		Alpha:       r.Manifest.Alpha,
 		Adjust:      r.Manifest.Adjust,

@@ -9,7 +9,9 @@ package compare
 
 import (
 	"math"
+	"regexp"
 	"slices"
+	"strconv"
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
@@ -108,7 +110,7 @@ func expectationChanges(prev, cur *report.Study) []ExpectationChange {
 		ec := ExpectationChange{Name: e.Name, Title: titleOf(e), Want: e.Want, NewOK: boolPtr(e.OK), NewGot: e.Got}
 		if o, ok := oldBy[e.Name]; ok {
 			ec.OldOK, ec.OldGot = boolPtr(o.OK), o.Got
-			if o.Want != e.Want {
+			if wantEdited(o, e) {
 				ec.WantChanged, ec.OldWant = true, o.Want
 			}
 			ec.Changed = o.OK != e.OK
@@ -126,6 +128,29 @@ func expectationChanges(prev, cur *report.Study) []ExpectationChange {
 	}
 	return out
 }
+
+// wantEdited says whether a gate asks for something else in the new run
+// than in the old: other limits where both runs record them, else other
+// numbers in the want ("|r| ≥ 0.9" → "|r| ≥ 0.95"), else another word
+// ("positive" → "negative"). The want's wording alone is not compared:
+// versions of bivar write it differently ("HRC/°C", "HRC per °C").
+func wantEdited(o, n report.Expectation) bool {
+	if o.Limits != nil && n.Limits != nil {
+		return o.Limits.Low != n.Limits.Low || o.Limits.High != n.Limits.High
+	}
+	on, nn := wantNumber.FindAllString(o.Want, -1), wantNumber.FindAllString(n.Want, -1)
+	if len(on) > 0 || len(nn) > 0 {
+		return !slices.EqualFunc(on, nn, func(a, b string) bool {
+			x, errA := strconv.ParseFloat(a, 64)
+			y, errB := strconv.ParseFloat(b, 64)
+			return errA == nil && errB == nil && x == y
+		})
+	}
+	return o.Want != n.Want
+}
+
+// wantNumber matches a number in a gate's want.
+var wantNumber = regexp.MustCompile(`-?[0-9]+(\.[0-9]+)?([eE][-+]?[0-9]+)?`)
 
 // titleOf is the gate's words, from results.json or, for a file written
 // before gates had titles, its key.

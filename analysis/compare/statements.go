@@ -90,7 +90,7 @@ func statements(res *Result) []string {
 // (set before) are then all empty.
 func (res *Result) Identical() bool {
 	s := res.Summary
-	if res.Old.SHA256 == "" || res.Old.SHA256 != res.New.SHA256 || res.Old.ToolVersion != res.New.ToolVersion ||
+	if res.Old.SHA256 == "" || res.Old.SHA256 != res.New.SHA256 || res.Old.ToolVersion != res.New.ToolVersion || res.Old.Schema != res.New.Schema ||
 		s.Significant+s.VerdictChanged+s.ExpectationChanged+s.DataChanged+s.Added+s.Removed > 0 || s.Compared == 0 {
 		return false
 	}

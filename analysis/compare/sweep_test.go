@@ -367,3 +367,49 @@ func TestDiffThresholdsNamed(t *testing.T) {
 		t.Errorf("notes %q lack %q", res.Notes, want)
 	}
 }
+
+// TestDiffGateWordingNotEdit: a results.json of schema v2 wrote a slope
+// gate's want as "slope in [0.7, 0.9] HRC/°C", today's bivar as "… HRC
+// per °C"; the limits are alike, so the gate was not edited (the diff of
+// such runs said it was). Numbers that differ are an edit; a number
+// written another way ("0.90", "0.9") is not.
+func TestDiffGateWordingNotEdit(t *testing.T) {
+	lim := &report.Limits{Low: 0.7, High: 0.9}
+	cases := []struct {
+		old, new report.Expectation
+		edited   bool
+	}{
+		{report.Expectation{Name: "slope_within", Want: "slope in [0.7, 0.9] HRC/°C", Limits: lim}, report.Expectation{Name: "slope_within", Want: "slope in [0.7, 0.9] HRC per °C", Limits: lim}, false},
+		{report.Expectation{Name: "slope_within", Want: "slope in [0.7, 0.9]", Limits: lim}, report.Expectation{Name: "slope_within", Want: "slope in [0.7, 1]", Limits: &report.Limits{Low: 0.7, High: 1}}, true},
+		{report.Expectation{Name: "min_abs_r", Want: "|r| ≥ 0.90"}, report.Expectation{Name: "min_abs_r", Want: "|r| ≥ 0.9"}, false},
+		{report.Expectation{Name: "min_abs_r", Want: "|r| ≥ 0.9"}, report.Expectation{Name: "min_abs_r", Want: "|r| ≥ 0.95"}, true},
+		{report.Expectation{Name: "direction", Want: "positive"}, report.Expectation{Name: "direction", Want: "negative"}, true},
+		{report.Expectation{Name: "direction", Want: "positive"}, report.Expectation{Name: "direction", Want: "positive"}, false},
+	}
+	for _, tc := range cases {
+		if got := wantEdited(tc.old, tc.new); got != tc.edited {
+			t.Errorf("%q → %q: edited %v, want %v", tc.old.Want, tc.new.Want, got, tc.edited)
+		}
+	}
+}
+
+// TestDiffSchemasDiffer: the same manifest and data, the old run written
+// by a build of schema v1 (both builds calling themselves "dev"). The
+// diff does not say nothing changed (it did: the old file lacks figures
+// the new one has) and notes the two schemas.
+func TestDiffSchemasDiffer(t *testing.T) {
+	rng := rand.New(rand.NewPCG(37, 38))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	a, b := rep("same", study("s", x, y, nil)), rep("same", study("s", x, y, nil))
+	a.Manifest.SHA256, b.Manifest.SHA256 = "m", "m"
+	a.Schema = "bivar.results/v1"
+	res := Diff(a, b, Options{})
+	want := "the runs were written by different builds of bivar, in results.json schemas bivar.results/v1 and " + report.Schema
+	if res.Identical() || len(res.Notes) != 1 || !strings.HasPrefix(res.Notes[0], want) {
+		t.Errorf("identical %v, notes %q; want not identical and a note beginning %q", res.Identical(), res.Notes, want)
+	}
+	a.Schema = report.Schema
+	if res := Diff(a, b, Options{}); !res.Identical() {
+		t.Errorf("same schema, manifest and data: not identical; statements %q", res.Statements)
+	}
+}

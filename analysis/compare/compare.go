@@ -719,6 +719,9 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 		NewError:  cur.Error,
 	}
 	sc.DataChanged = sc.OldSHA256 != sc.NewSHA256
+	if prev.Dataset != cur.Dataset {
+		sc.Notes = append(sc.Notes, fmt.Sprintf("the study reads dataset %q in the new run and %q in the old; its data are compared by those datasets' hashes", cur.Dataset, prev.Dataset))
+	}
 	if prev.X.Column != cur.X.Column {
 		sc.Notes = append(sc.Notes, fmt.Sprintf("x column changed from %q to %q", prev.X.Column, cur.X.Column))
 	}

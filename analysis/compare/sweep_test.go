@@ -413,3 +413,18 @@ func TestDiffSchemasDiffer(t *testing.T) {
 		t.Errorf("same schema, manifest and data: not identical; statements %q", res.Statements)
 	}
 }
+
+// TestDiffDatasetRenamed: one study, its dataset's id edited from "d" to
+// "e" (the same file): a note says which dataset the study reads in each
+// run (nothing did).
+func TestDiffDatasetRenamed(t *testing.T) {
+	rng := rand.New(rand.NewPCG(39, 40))
+	x, y := process(rng, 30, 2, 0.5, 1)
+	old, cur := rep("h", study("s", x, y, nil)), rep("h", study("s", x, y, nil))
+	cur.Datasets[0].ID, cur.Studies[0].Dataset = "e", "e"
+	sc := Diff(old, cur, Options{}).Studies[0]
+	want := `the study reads dataset "e" in the new run and "d" in the old; its data are compared by those datasets' hashes`
+	if !slices.Contains(sc.Notes, want) || sc.DataChanged {
+		t.Errorf("notes %q, data changed %v; want %q and no data change (same hash)", sc.Notes, sc.DataChanged, want)
+	}
+}

@@ -176,8 +176,15 @@ func readResults(path string) (*report.Report, string, error) {
 	file := path
 	if info.IsDir() {
 		file = filepath.Join(path, "results.json")
-		if _, err := os.Stat(file); errors.Is(err, fs.ErrNotExist) {
+		fi, err := os.Stat(file)
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
+			if _, err := os.Stat(filepath.Join(path, changes.Files["json"])); err == nil {
+				return nil, file, fmt.Errorf("%s is the folder of a diff (it holds %s), not a report: give the report folder written by 'bivar run', or its results.json", path, changes.Files["json"])
+			}
 			return nil, file, fmt.Errorf("%s holds no results.json: give the report folder written by 'bivar run' (with \"json\" in [output] formats) or the file itself", path)
+		case err == nil && fi.IsDir():
+			return nil, file, fmt.Errorf("%s is a folder, not a file: give a report folder written by 'bivar run', or the results.json it holds", file)
 		}
 	}
 	switch looksLike(file) {

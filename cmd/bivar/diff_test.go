@@ -93,12 +93,20 @@ func TestDiffCommand(t *testing.T) {
 		// A diff written inside a report folder stops the next 'bivar
 		// run' of that folder (it holds files bivar run did not write).
 		{"-o inside a report folder", []string{"diff", "-o", filepath.Join(dir, "a", "diff"), a, changed}, exitUsage, "-o " + filepath.Join(dir, "a", "diff") + " is inside the report folder " + filepath.Join(dir, "a") + ", which 'bivar run' replaces whole"},
+		// A diff's own folder, and a results.json that is a folder, given
+		// as OLD: each said only "holds no results.json" or "read …: is
+		// a directory".
+		{"a diff folder as OLD", []string{"diff", "-o", out + "-2", out, a}, exitFailed, out + " is the folder of a diff (it holds diff.json), not a report"},
+		{"results.json a folder", []string{"diff", "-o", out + "-2", filepath.Join(dir, "odd"), a}, exitFailed, filepath.Join(dir, "odd", "results.json") + " is a folder, not a file"},
 		{"a copy of the same file", []string{"diff", "-o", out, a, filepath.Join(dir, "copy", "results.json")}, exitOK, "0 changed beyond chance"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			if tc.name == "folder without results" {
 				os.MkdirAll(out+"-empty", 0o755)
+			}
+			if tc.name == "results.json a folder" {
+				os.MkdirAll(filepath.Join(dir, "odd", "results.json"), 0o755)
 			}
 			if tc.name == "a copy of the same file" {
 				b, _ := os.ReadFile(a)

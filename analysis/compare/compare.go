@@ -148,8 +148,11 @@ type Summary struct {
 	Significant        int `json:"significant"`     // studies with a change significant after adjustment
 	VerdictChanged     int `json:"verdict_changed"` // studies with a changed verdict (VerdictNames)
 	DataChanged        int `json:"data_changed"`    // studies whose dataset hash changed
-	Added              int `json:"added"`
-	Removed            int `json:"removed"`
+	// StoppedRunning counts the studies that ran in the old run and did
+	// not run in the new one: their verdicts are lost.
+	StoppedRunning int `json:"stopped_running"`
+	Added          int `json:"added"`
+	Removed        int `json:"removed"`
 }
 
 // StudyRef names a study found in one run only.
@@ -530,6 +533,9 @@ func Diff(old, new *report.Report, opts Options) *Result {
 		if sc.DataChanged {
 			s.DataChanged++
 		}
+		if sc.OldError == nil && sc.NewError != nil {
+			s.StoppedRunning++
+		}
 		for _, e := range sc.Expectations {
 			if e.Changed {
 				s.ExpectationChanged++
@@ -555,8 +561,12 @@ func Diff(old, new *report.Report, opts Options) *Result {
 	return res
 }
 
-// AnyVerdictChanged reports whether a compared study's verdict changed.
-func (r *Result) AnyVerdictChanged() bool { return r.Summary.VerdictChanged > 0 }
+// AnyVerdictChanged reports whether a compared study's verdict changed,
+// or a study that ran in the old run did not run in the new one (its
+// verdicts lost).
+func (r *Result) AnyVerdictChanged() bool {
+	return r.Summary.VerdictChanged > 0 || r.Summary.StoppedRunning > 0
+}
 
 // AnyExpectationBroken reports whether a CI gate fails in the new run that
 // did not fail in the old one (held there, or was not declared).

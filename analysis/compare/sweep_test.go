@@ -180,6 +180,15 @@ func TestDiffStudyStoppedRunning(t *testing.T) {
 			t.Errorf("%s: statement %q, want it to begin %q", tc.name, sc.Statement, tc.want)
 		}
 	}
+	// Stopping counts, and is what --fail-on verdict gates on with the
+	// changed verdicts (a study that stopped running, without gates,
+	// passed every gate of the diff).
+	if res := Diff(rep("same", ran), rep("same", failed), Options{}); res.Summary.StoppedRunning != 1 || !res.AnyVerdictChanged() || res.Summary.VerdictChanged != 0 {
+		t.Errorf("stopped: stopped running %d, verdict changed %d, any %v; want 1, 0, true", res.Summary.StoppedRunning, res.Summary.VerdictChanged, res.AnyVerdictChanged())
+	}
+	if res := Diff(rep("same", failed), rep("same", ran), Options{}); res.Summary.StoppedRunning != 0 || res.AnyVerdictChanged() {
+		t.Errorf("started: stopped running %d, any verdict changed %v; want 0, false", res.Summary.StoppedRunning, res.AnyVerdictChanged())
+	}
 	if st := Diff(rep("same", ran), rep("same", ran), Options{}).Studies[0].Statement; st != "" {
 		t.Errorf("ran in both, nothing changed: statement %q, want none", st)
 	}

@@ -91,8 +91,8 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		return exitFailed
 	}
 	s := res.Summary
-	fmt.Fprintf(stderr, "bivar diff: %s compared: %s changed outcome (%d now failing that did not fail before), %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed; written to %s\n",
-		plural(s.Compared, "study", "studies"), plural(s.ExpectationChanged, "CI gate", "CI gates"), s.ExpectationBroken, s.Significant, res.Alpha, compare.AdjustName(res.Adjust), s.VerdictChanged, s.Added, s.Removed, *out)
+	fmt.Fprintf(stderr, "bivar diff: %s compared: %s changed outcome (%d now failing that did not fail before), %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed, %d stopped running; written to %s\n",
+		plural(s.Compared, "study", "studies"), plural(s.ExpectationChanged, "CI gate", "CI gates"), s.ExpectationBroken, s.Significant, res.Alpha, compare.AdjustName(res.Adjust), s.VerdictChanged, s.Added, s.Removed, s.StoppedRunning, *out)
 	if res.Identical() {
 		fmt.Fprintf(stderr, "bivar diff: %s\n", res.Statements[0])
 	}
@@ -119,7 +119,12 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		code = exitExpectation
 	}
 	if gates["verdict"] && res.AnyVerdictChanged() {
-		fmt.Fprintf(stderr, "bivar diff: failing: a verdict changed (--fail-on verdict)\n")
+		if s.VerdictChanged > 0 {
+			fmt.Fprintf(stderr, "bivar diff: failing: a verdict changed (--fail-on verdict)\n")
+		}
+		if s.StoppedRunning > 0 {
+			fmt.Fprintf(stderr, "bivar diff: failing: a study that ran in the old run did not run in the new one, so its verdicts are lost (--fail-on verdict)\n")
+		}
 		code = exitExpectation
 	}
 	return code

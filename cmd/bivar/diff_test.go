@@ -63,6 +63,10 @@ func TestDiffCommand(t *testing.T) {
 		return writeResults(t, filepath.Join(dir, fmt.Sprintf("gated-%v", ok)), r)
 	}
 	gateMet, gateFailed := gated(1, true), gated(2, false)
+	stoppedRep := runOf(1, 0.8, "strong")
+	msg := `column "y" is constant`
+	stoppedRep.Studies[0].Error, stoppedRep.Studies[0].Moments, stoppedRep.Studies[0].Findings = &msg, nil, nil
+	stopped := writeResults(t, filepath.Join(dir, "stopped"), stoppedRep)
 
 	cases := []struct {
 		name string
@@ -98,6 +102,11 @@ func TestDiffCommand(t *testing.T) {
 		// a directory".
 		{"a diff folder as OLD", []string{"diff", "-o", out + "-2", out, a}, exitFailed, out + " is the folder of a diff (it holds diff.json), not a report"},
 		{"results.json a folder", []string{"diff", "-o", out + "-2", filepath.Join(dir, "odd"), a}, exitFailed, filepath.Join(dir, "odd", "results.json") + " is a folder, not a file"},
+		// A study that ran in OLD and not in NEW, without gates: its
+		// verdicts are lost, which --fail-on verdict gates on (exit 0
+		// before, nothing counted).
+		{"study stopped running, gated on verdict", []string{"diff", "-o", out, "--fail-on", "verdict", a, stopped}, exitExpectation, "1 stopped running"},
+		{"study started running, gated on verdict", []string{"diff", "-o", out, "--fail-on", "verdict", stopped, a}, exitOK, "0 stopped running"},
 		{"a copy of the same file", []string{"diff", "-o", out, a, filepath.Join(dir, "copy", "results.json")}, exitOK, "0 changed beyond chance"},
 	}
 	for _, tc := range cases {

@@ -272,8 +272,8 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		}
 		b.WriteString("\n")
 	}
-	fmt.Fprintf(&b, "## In numbers\n\n- CI gates whose outcome changed: %d (%d now failing that did not fail before)\n- Studies changed beyond chance: %d of %d (adjusted p below %g)\n- Studies with a changed verdict: %d\n- Studies added: %d; removed: %d\n",
-		s.ExpectationChanged, s.ExpectationBroken, s.Significant, s.Compared, res.Alpha, s.VerdictChanged, s.Added, s.Removed)
+	fmt.Fprintf(&b, "## In numbers\n\n- CI gates whose outcome changed: %d (%d now failing that did not fail before)\n- Studies changed beyond chance: %d of %d (adjusted p below %g)\n- Studies with a changed verdict: %d\n- Studies added: %d; removed: %d; that ran before and did not run now: %d\n",
+		s.ExpectationChanged, s.ExpectationBroken, s.Significant, s.Compared, res.Alpha, s.VerdictChanged, s.Added, s.Removed, s.StoppedRunning)
 	for _, n := range res.Notes {
 		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(n))
 	}

@@ -353,7 +353,8 @@ func explainJSON(data []byte, err error) string {
 	var typ *json.UnmarshalTypeError
 	switch {
 	case errors.Is(err, io.ErrUnexpectedEOF), errors.As(err, &syn) && strings.Contains(syn.Error(), "unexpected end of JSON input"):
-		return fmt.Sprintf("the file ends early, at line %d (cut off while being written or copied?): run 'bivar run' again to write it whole", lineCol(data, int64(len(data)))[0])
+		end := lineCol(data, int64(len(bytes.TrimRight(data, " \t\r\n"))))
+		return fmt.Sprintf("the file ends early, at line %d, column %d (cut off while being written or copied?): run 'bivar run' again to write it whole", end[0], end[1])
 	case errors.As(err, &syn):
 		lc := lineCol(data, syn.Offset)
 		return fmt.Sprintf("line %d, column %d: not valid JSON (%v): the file was changed or damaged after 'bivar run' wrote it; run it again", lc[0], lc[1], syn)

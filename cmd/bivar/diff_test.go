@@ -189,11 +189,16 @@ func TestDiffBadResults(t *testing.T) {
 		t.Fatal(err)
 	}
 	noID := encode(t, func(r *report.Report) { r.Studies[0].ID = "" })
+	// The last character of a file cut in half: its line, and its
+	// column counted from 1.
+	cut := full[:len(full)/2]
+	last := bytes.TrimRight(cut, " \t\r\n")
+	cutLine, cutCol := bytes.Count(last, []byte("\n"))+1, len(last)-bytes.LastIndexByte(last, '\n')-1
 	cases := []struct {
 		name, content string
 		want          []string
 	}{
-		{"truncated", string(full[:len(full)/2]), []string{"ends early, at line", "run 'bivar run' again"}},
+		{"truncated", string(cut), []string{fmt.Sprintf("ends early, at line %d, column %d (", cutLine, cutCol), "run 'bivar run' again"}}, // the column was not given
 		{"empty", "", []string{"the file is empty"}},
 		{"blank", " \n\n", []string{"the file is empty"}},
 		{"array", "[1, 2]", []string{"not a JSON object"}},

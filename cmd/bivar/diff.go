@@ -209,6 +209,9 @@ func readResults(path string) (*report.Report, string, error) {
 // parseResults reads the results.json held in data; file names it in
 // errors.
 func parseResults(file string, data []byte) (*report.Report, error) {
+	// A byte-order mark (an editor on Windows saves one) is not part of
+	// the JSON; the decoder would stop at it ("invalid character 'ï'").
+	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	if err := resultsShape(data); err != nil {
 		return nil, fmt.Errorf("%s: %w", file, err)
 	}

@@ -107,12 +107,20 @@ func TestDiffCommand(t *testing.T) {
 		// before, nothing counted).
 		{"study stopped running, gated on verdict", []string{"diff", "-o", out, "--fail-on", "verdict", a, stopped}, exitExpectation, "1 stopped running"},
 		{"study started running, gated on verdict", []string{"diff", "-o", out, "--fail-on", "verdict", stopped, a}, exitOK, "0 stopped running"},
+		// The file saved again by an editor that writes a byte-order
+		// mark: read as it was ("invalid character 'ï'" before).
+		{"a byte-order mark", []string{"diff", "-o", out, a, filepath.Join(dir, "bom", "results.json")}, exitOK, "0 changed beyond chance"},
 		{"a copy of the same file", []string{"diff", "-o", out, a, filepath.Join(dir, "copy", "results.json")}, exitOK, "0 changed beyond chance"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			if tc.name == "folder without results" {
 				os.MkdirAll(out+"-empty", 0o755)
+			}
+			if tc.name == "a byte-order mark" {
+				b, _ := os.ReadFile(a)
+				os.MkdirAll(filepath.Join(dir, "bom"), 0o755)
+				os.WriteFile(filepath.Join(dir, "bom", "results.json"), append([]byte("\xef\xbb\xbf"), b...), 0o644)
 			}
 			if tc.name == "results.json a folder" {
 				os.MkdirAll(filepath.Join(dir, "odd", "results.json"), 0o755)

@@ -43,7 +43,10 @@ package compare
 import (
 	"fmt"
 	"math"
+	"reflect"
 	"slices"
+	"strings"
+	"time"
 
 	"bivar/analysis/findings"
 	"bivar/analysis/report"
@@ -116,6 +119,7 @@ type Side struct {
 	Manifest    string  `json:"manifest"`
 	SHA256      string  `json:"manifest_sha256"`
 	ToolVersion string  `json:"tool_version"`
+	Schema      string  `json:"schema,omitempty"` // of the results.json read
 	Generated   string  `json:"generated,omitempty"`
 	Alpha       float64 `json:"alpha"`
 	Adjust      string  `json:"adjust"`
@@ -142,10 +146,13 @@ type Summary struct {
 	Compared           int `json:"compared"`        // studies in both runs
 	Tested             int `json:"tested"`          // change tests done (two per study where both ran)
 	Significant        int `json:"significant"`     // studies with a change significant after adjustment
-	VerdictChanged     int `json:"verdict_changed"` // studies whose form, direction, strength or outlier-driven verdict changed
+	VerdictChanged     int `json:"verdict_changed"` // studies with a changed verdict (VerdictNames)
 	DataChanged        int `json:"data_changed"`    // studies whose dataset hash changed
-	Added              int `json:"added"`
-	Removed            int `json:"removed"`
+	// StoppedRunning counts the studies that ran in the old run and did
+	// not run in the new one: their verdicts are lost.
+	StoppedRunning int `json:"stopped_running"`
+	Added          int `json:"added"`
+	Removed        int `json:"removed"`
 }
 
 // StudyRef names a study found in one run only.
@@ -154,6 +161,43 @@ type StudyRef struct {
 	Title string `json:"title"`
 	X     string `json:"x"`
 	Y     string `json:"y"`
+	// Expectations are the study's CI gates in the one run that has it:
+	// for an added study each is new (and broken where it fails), for a
+	// removed one each is no longer declared.
+	Expectations []ExpectationChange `json:"expectations,omitempty"`
+}
+
+// GateRow is one CI gate whose outcome changed, with its study.
+type GateRow struct {
+	Study string // the study's id
+	// Compared: the study is in both runs (in Studies); else it was
+	// added or removed.
+	Compared bool
+	ExpectationChange
+}
+
+// ChangedGates lists the CI gates whose outcome changed: those of the
+// compared studies, in their order, then those of the added studies and
+// of the removed ones.
+func (r *Result) ChangedGates() []GateRow {
+	var out []GateRow
+	for _, sc := range r.Studies {
+		for _, e := range sc.Expectations {
+			if e.Changed {
+				out = append(out, GateRow{sc.ID, true, e})
+			}
+		}
+	}
+	for _, refs := range [][]StudyRef{r.Added, r.Removed} {
+		for _, s := range refs {
+			for _, e := range s.Expectations {
+				if e.Changed {
+					out = append(out, GateRow{s.ID, false, e})
+				}
+			}
+		}
+	}
+	return out
 }
 
 // StudyChange is the comparison of one study present in both runs.
@@ -188,6 +232,16 @@ type StudyChange struct {
 	// Agreement compares an agreement study's bias and limits (agreement.go);
 	// nil unless both runs have them.
 	Agreement *AgreementChange `json:"agreement,omitempty"`
+
+	// Columns says, when x or y is another column than in the old run
+	// (the study's id kept, its variables changed or swapped), that the
+	// runs' figures are of different relationships; "" otherwise.
+	Columns string `json:"columns,omitempty"`
+
+	// Flagged compares the rows flagged outlier, influential or sole
+	// support; nil when each flag marks as many rows in both runs, or a
+	// run has no influence figures.
+	Flagged *FlaggedChange `json:"flagged,omitempty"`
 
 	Verdicts       []VerdictChange `json:"verdicts"` // changed verdicts only
 	VerdictChanged bool            `json:"verdict_changed"`
@@ -248,9 +302,56 @@ type SlopeChange struct {
 	PAdjusted     report.Float `json:"p_adjusted"`
 }
 
+// FlaggedChange is the change in a study's flagged rows: how many rows
+// each flag marks in each run, and the rows the new run names that the
+// old one did not (by id_column value or row number), in the new run's
+// ranking.
+type FlaggedChange struct {
+	Old        report.FlagCounts `json:"old"`
+	New        report.FlagCounts `json:"new"`
+	NewlyNamed []string          `json:"newly_named"`
+	// Gone are the rows the old run named that the new one does not.
+	Gone []string `json:"gone"`
+}
+
+// flaggedChange compares the flagged rows of two runs of a study; nil when
+// nothing changed or either run lacks the figures.
+func flaggedChange(prev, cur *report.Study) *FlaggedChange {
+	if prev.Influence == nil || cur.Influence == nil {
+		return nil
+	}
+	rows := func(in *report.Influence) []string {
+		var r []string
+		for _, p := range in.Points {
+			r = append(r, p.Row)
+		}
+		return r
+	}
+	or, nr := rows(prev.Influence), rows(cur.Influence)
+	fc := &FlaggedChange{Old: prev.Influence.Counts, New: cur.Influence.Counts, NewlyNamed: []string{}, Gone: []string{}}
+	for _, r := range nr {
+		if !slices.Contains(or, r) {
+			fc.NewlyNamed = append(fc.NewlyNamed, r)
+		}
+	}
+	for _, r := range or {
+		if !slices.Contains(nr, r) {
+			fc.Gone = append(fc.Gone, r)
+		}
+	}
+	o, n := fc.Old, fc.New
+	// Only a change in how many rows each flag marks is reported: between
+	// production runs the rows are other units, so the rows named differ
+	// whenever any is flagged.
+	if o.Outlier == n.Outlier && o.Influential == n.Influential && o.SoleSupport == n.SoleSupport {
+		return nil
+	}
+	return fc
+}
+
 // VerdictChange is one verdict that differs between the runs.
 type VerdictChange struct {
-	Name string `json:"name"` // form, direction, strength, outlier_driven, lines
+	Name string `json:"name"` // form, direction, strength, outlier_driven, reversal, drift, spread_changes, explained_by, lines
 	Old  string `json:"old"`
 	New  string `json:"new"`
 }
@@ -334,6 +435,17 @@ func Diff(old, new *report.Report, opts Options) *Result {
 		res.Notes = append(res.Notes, fmt.Sprintf("adjustment %q is unknown (want holm, bh or none); holm was used", res.Adjust))
 		res.Adjust = "holm"
 	}
+	if to, err1 := time.Parse(time.RFC3339, old.Generated); err1 == nil {
+		if tn, err2 := time.Parse(time.RFC3339, new.Generated); err2 == nil && to.After(tn) {
+			res.Notes = append(res.Notes, fmt.Sprintf("the old run is the later one (written %s, the new run %s): if the two were given the wrong way round, every change reads backwards; the previous run comes first", old.Generated, new.Generated))
+		}
+	}
+	if o, n := old.Manifest, new.Manifest; o.SHA256 != "" && n.SHA256 != "" && o.SHA256 != n.SHA256 && o.File == n.File {
+		res.Notes = append(res.Notes, fmt.Sprintf("the manifest %s was edited between the runs (SHA-256 %s → %s): a setting, a study or a gate may differ", n.File, short12(o.SHA256), short12(n.SHA256)))
+	}
+	if old.Schema != new.Schema && old.Schema != "" && new.Schema != "" {
+		res.Notes = append(res.Notes, fmt.Sprintf("the runs were written by different builds of bivar, in results.json schemas %s and %s: figures and verdicts added since the older one are missing from it and are not compared", old.Schema, new.Schema))
+	}
 	if old.Tool.Version != new.Tool.Version {
 		res.Notes = append(res.Notes, fmt.Sprintf("the runs were made by different versions of bivar (%s, %s)", orDash(old.Tool.Version), orDash(new.Tool.Version)))
 	}
@@ -342,7 +454,8 @@ func Diff(old, new *report.Report, opts Options) *Result {
 			old.Manifest.Alpha, orDash(old.Manifest.Adjust), new.Manifest.Alpha, orDash(new.Manifest.Adjust)))
 	}
 	if old.Manifest.Thresholds != new.Manifest.Thresholds {
-		res.Notes = append(res.Notes, "the verdict thresholds differ between the runs, so a changed verdict may come from the thresholds rather than the data")
+		res.Notes = append(res.Notes, fmt.Sprintf("the verdict thresholds differ between the runs (%s), so a changed verdict may come from the thresholds rather than the data",
+			strings.Join(thresholdChanges(old.Manifest.Thresholds, new.Manifest.Thresholds), ", ")))
 	}
 
 	oldByID := map[string]*report.Study{}
@@ -355,16 +468,25 @@ func Diff(old, new *report.Report, opts Options) *Result {
 		newIDs[cur.ID] = true
 		prev, ok := oldByID[cur.ID]
 		if !ok {
-			res.Added = append(res.Added, ref(cur))
+			a := ref(cur)
+			if len(cur.Expectations) > 0 {
+				a.Expectations = expectationChanges(&report.Study{}, cur)
+			}
+			res.Added = append(res.Added, a)
 			continue
 		}
 		res.Studies = append(res.Studies, compareStudy(prev, cur, old, new, alpha))
 	}
 	for i := range old.Studies {
-		if !newIDs[old.Studies[i].ID] {
-			res.Removed = append(res.Removed, ref(&old.Studies[i]))
+		if prev := &old.Studies[i]; !newIDs[prev.ID] {
+			r := ref(prev)
+			if len(prev.Expectations) > 0 {
+				r.Expectations = expectationChanges(prev, &report.Study{})
+			}
+			res.Removed = append(res.Removed, r)
 		}
 	}
+	res.Notes = append(res.Notes, renamedNotes(old, new, res)...)
 	res.Datasets = compareDatasets(old.Datasets, new.Datasets)
 	for _, sc := range res.Studies {
 		if sc.Agreement != nil {
@@ -411,6 +533,9 @@ func Diff(old, new *report.Report, opts Options) *Result {
 		if sc.DataChanged {
 			s.DataChanged++
 		}
+		if sc.OldError == nil && sc.NewError != nil {
+			s.StoppedRunning++
+		}
 		for _, e := range sc.Expectations {
 			if e.Changed {
 				s.ExpectationChanged++
@@ -420,12 +545,28 @@ func Diff(old, new *report.Report, opts Options) *Result {
 			}
 		}
 	}
+	for _, refs := range [][]StudyRef{res.Added, res.Removed} {
+		for _, r := range refs {
+			for _, e := range r.Expectations {
+				if e.Changed {
+					s.ExpectationChanged++
+				}
+				if e.Broken {
+					s.ExpectationBroken++
+				}
+			}
+		}
+	}
 	res.Statements = statements(res)
 	return res
 }
 
-// AnyVerdictChanged reports whether a compared study's verdict changed.
-func (r *Result) AnyVerdictChanged() bool { return r.Summary.VerdictChanged > 0 }
+// AnyVerdictChanged reports whether a compared study's verdict changed,
+// or a study that ran in the old run did not run in the new one (its
+// verdicts lost).
+func (r *Result) AnyVerdictChanged() bool {
+	return r.Summary.VerdictChanged > 0 || r.Summary.StoppedRunning > 0
+}
 
 // AnyExpectationBroken reports whether a CI gate fails in the new run that
 // did not fail in the old one (held there, or was not declared).
@@ -441,6 +582,7 @@ func side(r *report.Report) Side {
 		Manifest:    r.Manifest.File,
 		SHA256:      r.Manifest.SHA256,
 		ToolVersion: r.Tool.Version,
+		Schema:      r.Schema,
 		Generated:   r.Generated,
 		Alpha:       r.Manifest.Alpha,
 		Adjust:      r.Manifest.Adjust,
@@ -524,6 +666,29 @@ func scaledName(scale, axis string) string {
 	return axis
 }
 
+// thresholdChanges names each threshold that differs, by its manifest
+// key: "strong 0.7 → 0.8".
+func thresholdChanges(o, n report.Thresholds) []string {
+	var out []string
+	ov, nv := reflect.ValueOf(o), reflect.ValueOf(n)
+	for i := range ov.NumField() {
+		a, b := ov.Field(i).Interface(), nv.Field(i).Interface()
+		if a != b {
+			key, _, _ := strings.Cut(ov.Type().Field(i).Tag.Get("json"), ",")
+			out = append(out, fmt.Sprintf("%s %v → %v", key, a, b))
+		}
+	}
+	return out
+}
+
+// short12 is the first 12 characters of a hash, as the diff shows them.
+func short12(h string) string {
+	if len(h) > 12 {
+		return h[:12]
+	}
+	return h
+}
+
 func orDash(s string) string {
 	if s == "" {
 		return "-"
@@ -564,14 +729,34 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 		NewError:  cur.Error,
 	}
 	sc.DataChanged = sc.OldSHA256 != sc.NewSHA256
+	if prev.Dataset != cur.Dataset {
+		sc.Notes = append(sc.Notes, fmt.Sprintf("the study reads dataset %q in the new run and %q in the old; its data are compared by those datasets' hashes", cur.Dataset, prev.Dataset))
+	}
 	if prev.X.Column != cur.X.Column {
 		sc.Notes = append(sc.Notes, fmt.Sprintf("x column changed from %q to %q", prev.X.Column, cur.X.Column))
 	}
 	if prev.Y.Column != cur.Y.Column {
 		sc.Notes = append(sc.Notes, fmt.Sprintf("y column changed from %q to %q", prev.Y.Column, cur.Y.Column))
 	}
+	swapped := prev.X.Column == cur.Y.Column && prev.Y.Column == cur.X.Column && prev.X.Column != prev.Y.Column
+	switch {
+	case swapped:
+		sc.Columns = fmt.Sprintf("x and y were swapped (x %q, y %q in the old run): the two runs' slopes, lines and verdicts are of different questions and are not alike; r is symmetric and is compared.", prev.X.Column, prev.Y.Column)
+	case prev.X.Column != cur.X.Column || prev.Y.Column != cur.Y.Column:
+		var moved []string
+		if prev.X.Column != cur.X.Column {
+			moved = append(moved, fmt.Sprintf("x %q → %q", prev.X.Column, cur.X.Column))
+		}
+		if prev.Y.Column != cur.Y.Column {
+			moved = append(moved, fmt.Sprintf("y %q → %q", prev.Y.Column, cur.Y.Column))
+		}
+		sc.Columns = fmt.Sprintf("The study reads other columns than in the old run (%s): the two runs' figures are of different relationships; give a changed study a new id.", strings.Join(moved, ", "))
+	}
 	sc.Notes = append(sc.Notes, selectionNotes(prev, cur)...)
 	unitsSame := prev.X.Unit == cur.X.Unit && prev.Y.Unit == cur.Y.Unit
+	// The slope of y on x is not that of x on y: with swapped or other
+	// columns only r, symmetric, is compared, and only when swapped.
+	slopeAlike := unitsSame && sc.Columns == ""
 	if !unitsSame {
 		sc.Notes = append(sc.Notes, fmt.Sprintf("units changed (x %s → %s, y %s → %s): the slopes are in different units and are not compared",
 			orDash(prev.X.Unit), orDash(cur.X.Unit), orDash(prev.Y.Unit), orDash(cur.Y.Unit)))
@@ -580,6 +765,8 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 	switch {
 	case scaleChange != "":
 		sc.Notes = append(sc.Notes, scaleChange)
+	case sc.Columns != "" && !swapped:
+		sc.Notes = append(sc.Notes, "the study reads other columns in each run; no change test")
 	case prev.Error != nil || cur.Error != nil:
 		sc.Notes = append(sc.Notes, "the study did not run in both runs; no change test")
 	case prev.Moments == nil || cur.Moments == nil:
@@ -590,7 +777,7 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 		if !sc.R.P.Valid() {
 			sc.Notes = append(sc.Notes, "the change in r cannot be tested (fewer than 4 points, or a constant column, in a run)")
 		}
-		if unitsSame {
+		if slopeAlike {
 			sc.Slope = SlopeChangeTest(om, nm)
 			if !sc.Slope.P.Valid() {
 				sc.Notes = append(sc.Notes, "the change in slope cannot be tested (fewer than 3 points, or a constant x, in a run; or no residual variance)")
@@ -605,6 +792,9 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 	if (prev.Findings == nil) != (cur.Findings == nil) {
 		sc.Notes = append(sc.Notes, "verdicts not compared: one run has no findings for this study")
 	}
+	if sc.Columns == "" {
+		sc.Flagged = flaggedChange(prev, cur)
+	}
 	sc.Agreement = compareAgreement(prev, cur)
 	sc.Verdicts = append(sc.Verdicts, agreementVerdict(prev, cur)...)
 	sc.VerdictChanged = len(sc.Verdicts) > 0
@@ -612,14 +802,71 @@ func compareStudy(prev, cur *report.Study, old, new *report.Report, alpha float6
 	return sc
 }
 
+// renamedNotes names the added studies that read the same dataset, x and
+// y as a removed one: most likely one study whose id was edited, which the
+// diff, matching by id, cannot compare.
+func renamedNotes(old, new *report.Report, res *Result) []string {
+	var out []string
+	for _, a := range res.Added {
+		cur := findStudy(new, a.ID)
+		for _, r := range res.Removed {
+			prev := findStudy(old, r.ID)
+			if cur != nil && prev != nil && cur.Dataset == prev.Dataset && cur.X.Column == prev.X.Column && cur.Y.Column == prev.Y.Column {
+				out = append(out, fmt.Sprintf("study %q of the new run reads the same dataset, x and y as %q of the old run: if its id was changed, the two are not compared (studies are matched by id); give it its old id back to compare them", a.ID, r.ID))
+				break
+			}
+		}
+	}
+	return out
+}
+
+func findStudy(r *report.Report, id string) *report.Study {
+	for i := range r.Studies {
+		if r.Studies[i].ID == id {
+			return &r.Studies[i]
+		}
+	}
+	return nil
+}
+
+// VerdictNames are the verdicts a diff compares, in words, in the
+// order VerdictChange lists them.
+const VerdictNames = "form, direction, strength, outlier-driven, reversal, drift, changing spread, explained by, groups' lines, agreement"
+
+// VerdictName is a VerdictChange's Name in words.
+func VerdictName(n string) string {
+	switch n {
+	case "outlier_driven":
+		return "outlier-driven"
+	case "spread_changes":
+		return "changing spread"
+	case "explained_by":
+		return "explained by"
+	case "lines":
+		return "groups' lines"
+	}
+	return n
+}
+
 func verdictChanges(of, nf *report.Findings) []VerdictChange {
 	out := []VerdictChange{}
 	if of == nil || nf == nil {
 		return out // a run without findings (the study failed there) has no verdict to compare
 	}
-	a1, a2, a3, a4 := of.Form, of.Direction, of.Strength, fmt.Sprint(of.OutlierDriven)
-	b1, b2, b3, b4 := nf.Form, nf.Direction, nf.Strength, fmt.Sprint(nf.OutlierDriven)
-	for _, v := range []VerdictChange{{"form", a1, b1}, {"direction", a2, b2}, {"strength", a3, b3}, {"outlier_driven", a4, b4}} {
+	// The secondary verdicts (a reversal within groups, drift in run
+	// order, a changing spread, a covariate that explains the
+	// association) are verdicts the report raises with their reasons, as
+	// outlier-driven is: one that appears or goes is a changed verdict.
+	for _, v := range []VerdictChange{
+		{"form", of.Form, nf.Form},
+		{"direction", of.Direction, nf.Direction},
+		{"strength", of.Strength, nf.Strength},
+		{"outlier_driven", fmt.Sprint(of.OutlierDriven), fmt.Sprint(nf.OutlierDriven)},
+		{"reversal", fmt.Sprint(of.Reversal), fmt.Sprint(nf.Reversal)},
+		{"drift", fmt.Sprint(of.Drift), fmt.Sprint(nf.Drift)},
+		{"spread_changes", fmt.Sprint(of.SpreadChanges), fmt.Sprint(nf.SpreadChanges)},
+		{"explained_by", strings.Join(of.ExplainedBy, ", "), strings.Join(nf.ExplainedBy, ", ")},
+	} {
 		if v.Old != v.New {
 			out = append(out, v)
 		}

@@ -9,7 +9,9 @@ package compare
 
 import (
 	"math"
+	"regexp"
 	"slices"
+	"strconv"
 
 	"bivar/analysis/report"
 	"bivar/analysis/stats"
@@ -21,6 +23,12 @@ type ExpectationChange struct {
 	Name  string `json:"name"`  // the manifest key, as in results.json
 	Title string `json:"title"` // the gate in words
 	Want  string `json:"want"`  // what the newer run that has it asked for
+	// WantChanged: the gate is in both runs but asks for something else
+	// in the new one (its limits or value were edited in the manifest);
+	// OldWant is then what the old run asked for. An outcome that
+	// changed with it may come from the edit alone.
+	WantChanged bool   `json:"want_changed"`
+	OldWant     string `json:"old_want,omitempty"`
 	// OldOK and NewOK are the outcomes; nil where the run has no such gate.
 	OldOK  *bool  `json:"old_ok"`
 	NewOK  *bool  `json:"new_ok"`
@@ -39,8 +47,11 @@ type ExpectationChange struct {
 type SlopeGate struct {
 	Low  report.Float `json:"low"`
 	High report.Float `json:"high"`
+	// OldLimits are the old run's own limits where they differ from
+	// [Low, High] (the gate was edited between the runs); nil otherwise.
+	OldLimits *report.Limits `json:"old_limits,omitempty"`
 	// OldInside and NewInside say whether each run's slope lies within
-	// [Low, High].
+	// its own run's limits: the old slope within OldLimits where set.
 	OldInside bool `json:"old_inside"`
 	NewInside bool `json:"new_inside"`
 	// NewOutsideBy is how far the new slope lies outside the gate, in
@@ -99,6 +110,9 @@ func expectationChanges(prev, cur *report.Study) []ExpectationChange {
 		ec := ExpectationChange{Name: e.Name, Title: titleOf(e), Want: e.Want, NewOK: boolPtr(e.OK), NewGot: e.Got}
 		if o, ok := oldBy[e.Name]; ok {
 			ec.OldOK, ec.OldGot = boolPtr(o.OK), o.Got
+			if wantEdited(o, e) {
+				ec.WantChanged, ec.OldWant = true, o.Want
+			}
 			ec.Changed = o.OK != e.OK
 			ec.Broken = o.OK && !e.OK
 		} else {
@@ -114,6 +128,29 @@ func expectationChanges(prev, cur *report.Study) []ExpectationChange {
 	}
 	return out
 }
+
+// wantEdited says whether a gate asks for something else in the new run
+// than in the old: other limits where both runs record them, else other
+// numbers in the want ("|r| ≥ 0.9" → "|r| ≥ 0.95"), else another word
+// ("positive" → "negative"). The want's wording alone is not compared:
+// versions of bivar write it differently ("HRC/°C", "HRC per °C").
+func wantEdited(o, n report.Expectation) bool {
+	if o.Limits != nil && n.Limits != nil {
+		return o.Limits.Low != n.Limits.Low || o.Limits.High != n.Limits.High
+	}
+	on, nn := wantNumber.FindAllString(o.Want, -1), wantNumber.FindAllString(n.Want, -1)
+	if len(on) > 0 || len(nn) > 0 {
+		return !slices.EqualFunc(on, nn, func(a, b string) bool {
+			x, errA := strconv.ParseFloat(a, 64)
+			y, errB := strconv.ParseFloat(b, 64)
+			return errA == nil && errB == nil && x == y
+		})
+	}
+	return o.Want != n.Want
+}
+
+// wantNumber matches a number in a gate's want.
+var wantNumber = regexp.MustCompile(`-?[0-9]+(\.[0-9]+)?([eE][-+]?[0-9]+)?`)
 
 // titleOf is the gate's words, from results.json or, for a file written
 // before gates had titles, its key.
@@ -134,15 +171,23 @@ func slopeLimits(s *report.Study) *report.Limits {
 	return nil
 }
 
-// slopeGate sets the slope change against the declared limits lim.
-func slopeGate(sl *SlopeChange, lim *report.Limits) *SlopeGate {
+// slopeGate sets the slope change against the declared limits lim; old
+// are the old run's limits (nil without a gate there), against which the
+// old slope is read where they differ from lim.
+func slopeGate(sl *SlopeChange, lim, old *report.Limits) *SlopeGate {
 	if sl == nil || lim == nil || !lim.Low.Valid() || !lim.High.Valid() {
 		return nil
 	}
 	lo, hi := float64(lim.Low), float64(lim.High)
-	inside := func(f report.Float) bool { return f.Valid() && lo <= float64(f) && float64(f) <= hi }
-	g := &SlopeGate{Low: lim.Low, High: lim.High, OldInside: inside(sl.Old), NewInside: inside(sl.New),
+	within := func(f report.Float, l report.Limits) bool {
+		return f.Valid() && float64(l.Low) <= float64(f) && float64(f) <= float64(l.High)
+	}
+	g := &SlopeGate{Low: lim.Low, High: lim.High, OldInside: within(sl.Old, *lim), NewInside: within(sl.New, *lim),
 		NewOutsideBy: report.NaN(), ShareOfWidth: report.NaN()}
+	if old != nil && old.Low.Valid() && old.High.Valid() && (old.Low != lim.Low || old.High != lim.High) {
+		g.OldLimits = &report.Limits{Low: old.Low, High: old.High}
+		g.OldInside = within(sl.Old, *old)
+	}
 	if n := float64(sl.New); sl.New.Valid() {
 		g.NewOutsideBy = report.Float(math.Max(0, math.Max(lo-n, n-hi)))
 	}
@@ -253,7 +298,7 @@ func matters(sc *StudyChange, prev, cur *report.Study, alpha float64) {
 		if lim == nil {
 			lim = slopeLimits(prev)
 		}
-		sc.SlopeGate = slopeGate(sc.Slope, lim)
+		sc.SlopeGate = slopeGate(sc.Slope, lim, slopeLimits(prev))
 	}
 	if prev.Moments == nil || cur.Moments == nil || sc.Slope == nil {
 		return

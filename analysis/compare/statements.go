@@ -6,6 +6,7 @@ package compare
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -32,6 +33,9 @@ func AdjustName(a string) string {
 func statements(res *Result) []string {
 	s := res.Summary
 	var out []string
+	for i := range res.Studies {
+		res.Studies[i].Statement = studyStatement(&res.Studies[i], res.Alpha)
+	}
 	family := fmt.Sprintf("at alpha = %s after %s across all %d change tests", g(res.Alpha), AdjustName(res.Adjust), s.Tested)
 	if res.Adjust == "none" {
 		family = fmt.Sprintf("at alpha = %s, with no adjustment across the %d change tests", g(res.Alpha), s.Tested)
@@ -59,12 +63,12 @@ func statements(res *Result) []string {
 			head += fmt.Sprintf("; %d studies' verdicts changed.", s.VerdictChanged)
 		}
 	}
+	if res.Identical() {
+		head = fmt.Sprintf("Nothing changed: both runs read the same manifest and the same data (SHA-256 alike) with the same version of bivar, and the diff found no change in any of the %d studies; only the times the runs were made differ.", s.Compared)
+	}
 	out = append(out, head)
 	if s.ExpectationChanged > 0 {
 		out = append(out, gatesHead(res))
-	}
-	for i := range res.Studies {
-		res.Studies[i].Statement = studyStatement(&res.Studies[i], res.Alpha)
 	}
 	var untested []string
 	for _, sc := range res.Studies {
@@ -81,16 +85,38 @@ func statements(res *Result) []string {
 	return out
 }
 
+// Identical says whether the runs are the same run made twice: the same
+// manifest, data and tool, and nothing found changed. Its statements
+// (set before) are then all empty.
+func (res *Result) Identical() bool {
+	s := res.Summary
+	if res.Old.SHA256 == "" || res.Old.SHA256 != res.New.SHA256 || res.Old.ToolVersion != res.New.ToolVersion || res.Old.Schema != res.New.Schema ||
+		s.Significant+s.VerdictChanged+s.ExpectationChanged+s.DataChanged+s.Added+s.Removed > 0 || s.Compared == 0 {
+		return false
+	}
+	for _, d := range res.Datasets {
+		if d.Status != "same" {
+			return false
+		}
+	}
+	for _, sc := range res.Studies {
+		if sc.Statement != "" {
+			return false
+		}
+	}
+	return true
+}
+
 // gatesHead is the sentence on the CI gates whose outcome changed, which
 // leads the comparison.
 func gatesHead(res *Result) string {
 	var parts []string
-	for _, sc := range res.Studies {
-		for _, e := range sc.Expectations {
-			if e.Changed {
-				parts = append(parts, fmt.Sprintf("%s: %s %s", sc.ID, e.Title, outcomeMove(e)))
-			}
+	for _, g := range res.ChangedGates() {
+		how := ""
+		if !g.Compared {
+			how = ", a study in one run only"
 		}
+		parts = append(parts, fmt.Sprintf("%s: %s %s%s", g.Study, g.Title, outcomeMove(g.ExpectationChange), how))
 	}
 	n := res.Summary.ExpectationChanged
 	head := fmt.Sprintf("%d CI gates changed their outcome", n)
@@ -102,16 +128,18 @@ func gatesHead(res *Result) string {
 
 // outcomeMove says how a gate's outcome went from the old run to the new.
 func outcomeMove(e ExpectationChange) string {
-	word := func(ok *bool) string {
-		switch {
-		case ok == nil:
-			return "not declared"
-		case *ok:
-			return "met"
-		}
-		return "failed"
+	return outcomeWord(e.OldOK) + " → " + outcomeWord(e.NewOK)
+}
+
+// outcomeWord is a gate's outcome in one run.
+func outcomeWord(ok *bool) string {
+	switch {
+	case ok == nil:
+		return "not declared"
+	case *ok:
+		return "met"
 	}
-	return word(e.OldOK) + " → " + word(e.NewOK)
+	return "failed"
 }
 
 // dataFact states which data the runs read, as a fact: a new run
@@ -121,7 +149,15 @@ func dataFact(res *Result) string {
 	for _, d := range res.Datasets {
 		switch d.Status {
 		case "changed":
-			parts = append(parts, fmt.Sprintf("%s was read from %s (%d rows) in the new run and from %s (%d rows) in the old", d.ID, d.NewFrom, d.NewRows, d.OldFrom, d.OldRows))
+			rows := fmt.Sprintf("%d rows in both", d.NewRows)
+			if d.OldRows != d.NewRows {
+				rows = fmt.Sprintf("%d rows old, %d new", d.OldRows, d.NewRows)
+			}
+			if d.OldFrom == d.NewFrom {
+				parts = append(parts, fmt.Sprintf("%s changed: the contents of %s differ between the runs (another SHA-256, which any edited, added, removed or reordered row gives; %s)", d.ID, d.NewFrom, rows))
+			} else {
+				parts = append(parts, fmt.Sprintf("%s changed: the new run read %s, the old %s (another SHA-256; %s)", d.ID, d.NewFrom, d.OldFrom, rows))
+			}
 		case "rehashed":
 			parts = append(parts, fmt.Sprintf("%s was hashed by another method in each run (%d rows old, %d new: rows fetched from the database in one run and left in it in the other, as max_rows or the row count moved), so the hashes cannot say whether its rows changed", d.ID, d.OldRows, d.NewRows))
 		case "same":
@@ -142,15 +178,25 @@ func dataFact(res *Result) string {
 // in the slope and in r, with the change in the other measure for
 // context, and the verdicts that changed. "" when nothing changed.
 func studyStatement(sc *StudyChange, alpha float64) string {
-	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged {
+	ran := runStatus(sc)
+	edited := slices.ContainsFunc(sc.Expectations, func(e ExpectationChange) bool { return e.WantChanged })
+	if !sc.Significant && !sc.VerdictChanged && !sc.ExpectationChanged && sc.Columns == "" && ran == "" && sc.Flagged == nil && !edited {
 		return ""
 	}
 	var parts []string
+	if ran != "" {
+		parts = append(parts, ran)
+	}
+	if sc.Columns != "" {
+		parts = append(parts, sc.Columns)
+	}
 	rSig := sc.R != nil && sc.R.PAdjusted.Valid() && float64(sc.R.PAdjusted) < alpha
 	slopeSig := sc.Slope != nil && sc.Slope.PAdjusted.Valid() && float64(sc.Slope.PAdjusted) < alpha
 	unit := unitSuffix(sc.SlopeUnit())
+	slopeGateSaid := false
 	if g := sc.SlopeGate; g != nil && sc.Slope != nil && (slopeSig || g.OldInside != g.NewInside) {
 		parts = append(parts, gateSentence(sc, g, unit))
+		slopeGateSaid = true
 	}
 	if sl := sc.Slope; slopeSig {
 		parts = append(parts, fmt.Sprintf("The slope changed beyond chance: from %s to %s%s, a change of %s ± %s%s (SE)%s (t = %s, %d df, adjusted p %s).",
@@ -168,31 +214,115 @@ func studyStatement(sc *StudyChange, alpha float64) string {
 	if a := agreementStatement(sc.Agreement, alpha); a != "" {
 		parts = append(parts, a)
 	}
-	if (slopeSig || sc.ExpectationChanged) && sc.Agreement == nil { // an agreement study's gate is its limits, above
+	// The outcome of a gate can change because the data did, or because
+	// the gate did: edited between the runs, or declared in one run only.
+	// Only the first calls for a cause in the process, and for the
+	// change in y units.
+	dataMoved := sc.Significant
+	var gates []string
+	for _, e := range sc.Expectations {
+		if !e.Changed {
+			if e.WantChanged {
+				gates = append(gates, fmt.Sprintf("The gate %q was edited between the runs (it asked for %s, now %s); it is %s in both.", e.Title, e.OldWant, e.Want, outcomeWord(e.NewOK)))
+			}
+			continue
+		}
+		edited := e.WantChanged || e.OldOK == nil || e.NewOK == nil
+		if !edited {
+			dataMoved = true
+		}
+		if e.Name == "slope_within" && slopeGateSaid && !edited {
+			continue
+		}
+		switch {
+		case e.WantChanged:
+			gates = append(gates, fmt.Sprintf("The gate %q was edited between the runs (it asked for %s, now %s) and went %s (%s).", e.Title, e.OldWant, e.Want, outcomeMove(e), gotMove(e)))
+		default:
+			gates = append(gates, fmt.Sprintf("The gate %q went %s (%s).", e.Title, outcomeMove(e), gotMove(e)))
+		}
+	}
+	if dataMoved && sc.Agreement == nil { // an agreement study's gate is its limits, above
 		if a := atXSentence(sc); a != "" {
 			parts = append(parts, a)
 		}
 	}
-	for _, e := range sc.Expectations {
-		if e.Changed && e.Name != "slope_within" {
-			parts = append(parts, fmt.Sprintf("The gate %q went %s (%s).", e.Title, outcomeMove(e), gotMove(e)))
-		}
+	parts = append(parts, gates...)
+	if f := flaggedSentence(sc.Flagged); f != "" {
+		parts = append(parts, f)
 	}
 	if len(sc.Verdicts) > 0 {
 		var v []string
 		for _, vc := range sc.Verdicts {
-			name := vc.Name
-			if name == "outlier_driven" {
-				name = "outlier-driven"
-			}
-			v = append(v, fmt.Sprintf("%s %s → %s", name, orDash(vc.Old), orDash(vc.New)))
+			v = append(v, fmt.Sprintf("%s %s → %s", VerdictName(vc.Name), orDash(vc.Old), orDash(vc.New)))
 		}
 		parts = append(parts, "The verdict changed: "+strings.Join(v, ", ")+".")
 	}
-	if sc.Significant || sc.ExpectationChanged {
+	switch {
+	case sc.Columns != "":
+	case dataMoved:
 		parts = append(parts, "Find the cause (process, material, gauge or the units sampled) before acting on it.")
+	case sc.ExpectationChanged:
+		parts = append(parts, "The gate itself changed, so its new outcome need not mean that the relationship did.")
 	}
 	return strings.Join(parts, " ")
+}
+
+// flaggedSentence says how the flagged rows changed: the counts per
+// flag that moved, and the rows named in one run only (at most five of
+// each, then how many more).
+func flaggedSentence(f *FlaggedChange) string {
+	if f == nil {
+		return ""
+	}
+	var counts []string
+	for _, c := range []struct {
+		name     string
+		old, new int
+	}{{"outlier", f.Old.Outlier, f.New.Outlier}, {"influential", f.Old.Influential, f.New.Influential}, {"sole support", f.Old.SoleSupport, f.New.SoleSupport}} {
+		if c.old != c.new {
+			counts = append(counts, fmt.Sprintf("%s %d → %d", c.name, c.old, c.new))
+		}
+	}
+	list := func(rows []string) string {
+		const most = 5
+		if len(rows) > most {
+			return strings.Join(rows[:most], ", ") + fmt.Sprintf(" and %d more", len(rows)-most)
+		}
+		return strings.Join(rows, ", ")
+	}
+	s := "The flagged rows changed"
+	if len(counts) > 0 {
+		s += " (" + strings.Join(counts, ", ") + ")"
+	}
+	var named []string
+	if len(f.NewlyNamed) > 0 {
+		named = append(named, "flagged in the new run only: "+list(f.NewlyNamed))
+	}
+	if len(f.Gone) > 0 {
+		named = append(named, "flagged in the old run only: "+list(f.Gone))
+	}
+	if len(named) > 0 {
+		s += "; " + strings.Join(named, "; ")
+	}
+	return s + "."
+}
+
+// runStatus says which run a study did not run in, with the reason, or
+// "" when it ran in both: a study that stops running is the first thing
+// a comparison of runs must say.
+func runStatus(sc *StudyChange) string {
+	o, n := sc.OldError, sc.NewError
+	switch {
+	case o == nil && n == nil:
+		return ""
+	case o == nil:
+		return fmt.Sprintf("The study ran in the old run but did not run in the new one: %s.", strings.TrimSuffix(*n, "."))
+	case n == nil:
+		return fmt.Sprintf("The study did not run in the old run (%s) and runs in the new one.", strings.TrimSuffix(*o, "."))
+	case *o == *n:
+		return fmt.Sprintf("The study did not run in either run: %s.", strings.TrimSuffix(*n, "."))
+	}
+	return fmt.Sprintf("The study did not run in either run: in the new one %s (in the old one %s).", strings.TrimSuffix(*n, "."), strings.TrimSuffix(*o, "."))
 }
 
 // gotMove is what a gate found in each run.
@@ -216,6 +346,10 @@ func gateSentence(sc *StudyChange, g *SlopeGate, unit string) string {
 	}
 	s := fmt.Sprintf("Against the slope gate (%s to %s%s): the old slope lay %s it, the new one lies %s it",
 		g4(g.Low), g4(g.High), unit, where(g.OldInside), where(g.NewInside))
+	if o := g.OldLimits; o != nil {
+		s = fmt.Sprintf("Against the slope gate (%s to %s%s in the new run; %s to %s%s in the old): the old slope lay %s the old gate, the new one lies %s the new",
+			g4(g.Low), g4(g.High), unit, g4(o.Low), g4(o.High), unit, where(g.OldInside), where(g.NewInside))
+	}
 	if !g.NewInside && g.NewOutsideBy.Valid() {
 		end := "upper"
 		if float64(sc.Slope.New) < float64(g.Low) {

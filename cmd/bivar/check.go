@@ -13,6 +13,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 
 	"bivar/analysis/report"
@@ -177,6 +178,8 @@ func manifestArg(path string) error {
 		hint := ""
 		if _, err := os.Stat(filepath.Join(path, "bivar.toml")); err == nil {
 			hint = fmt.Sprintf(", such as %s", filepath.Join(path, "bivar.toml"))
+		} else if m := reportOf(path); m != "" {
+			return fmt.Errorf("%s is a report folder, written from the manifest %s: give that manifest (the studies are computed again from it); 'bivar diff OLD NEW' compares two report folders", path, m)
 		}
 		return fmt.Errorf("%s is a folder: give the manifest file itself%s", path, hint)
 	}
@@ -191,6 +194,20 @@ func manifestArg(path string) error {
 		return fmt.Errorf("%s looks like JSON (a results.json?), not a manifest: give the manifest (a TOML file such as bivar.toml); 'bivar diff OLD NEW' compares two results.json", path)
 	}
 	return nil
+}
+
+// reportOf returns the manifest named in dir/results.json when dir is a
+// report folder, or "".
+func reportOf(dir string) string {
+	data, err := os.ReadFile(filepath.Join(dir, "results.json"))
+	if err != nil {
+		return ""
+	}
+	rep, err := parseResults(filepath.Join(dir, "results.json"), data)
+	if err != nil || rep.Manifest.File == "" {
+		return ""
+	}
+	return strconv.Quote(rep.Manifest.File)
 }
 
 // fileKind is what a file given in place of another looks like.

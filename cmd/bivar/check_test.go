@@ -213,3 +213,18 @@ func parseJUnit(t *testing.T, path string) junitDoc {
 	}
 	return doc
 }
+
+// TestCheckReportFolder: 'bivar check' given a report folder (its
+// results.json written from the manifest m.toml) names that manifest; it
+// said only "is a folder: give the manifest file itself".
+func TestCheckReportFolder(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "report")
+	r := runOf(1, 0.8, "strong")
+	r.Manifest.File = "m.toml"
+	writeResults(t, dir, r)
+	code, _, stderr := call(t, "check", dir)
+	want := dir + ` is a report folder, written from the manifest "m.toml": give that manifest`
+	if code != exitFailed || !strings.Contains(stderr, want) {
+		t.Errorf("bivar check %s: exit %d, stderr:\n%s\nwant exit 1 and %q", dir, code, stderr, want)
+	}
+}

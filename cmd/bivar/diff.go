@@ -52,6 +52,10 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar diff: -o %s is a file: give a folder for diff.html, diff.md and diff.json (created if needed)\n", *out)
 		return exitUsage
 	}
+	if rf := insideReport(*out); rf != "" {
+		fmt.Fprintf(stderr, "bivar diff: -o %s is inside the report folder %s, which 'bivar run' replaces whole (and refuses to while it holds files of others): give the diff a folder of its own, such as %s\n", *out, rf, filepath.Join(filepath.Dir(rf), "diff"))
+		return exitUsage
+	}
 	// The folder is taken first, so a second diff into it is refused at once.
 	target, err := publish.OpenDir(*out, publish.Options{Command: "bivar diff", Legacy: changes.EarlierFile})
 	if err != nil {
@@ -69,6 +73,10 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "bivar diff: NEW: %v\n", err)
 		return exitFailed
 	}
+	if samePath(oldFile, newFile) {
+		fmt.Fprintf(stderr, "bivar diff: OLD and NEW are the same file, %s: a run compared with itself shows no change; give the previous run's results.json (or its report folder) as OLD\n", newFile)
+		return exitUsage
+	}
 	res := compare.Diff(oldRep, newRep, compare.Options{Tool: report.Tool{Name: "bivar", Version: version()}})
 	res.Old.File, res.New.File = filepath.ToSlash(oldFile), filepath.ToSlash(newFile)
 	files, err := changes.DiffFiles(res, changes.WithTheme(*theme))
@@ -83,8 +91,11 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		return exitFailed
 	}
 	s := res.Summary
-	fmt.Fprintf(stderr, "bivar diff: %s compared: %s changed outcome (%d now failing that held before), %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed; written to %s\n",
-		plural(s.Compared, "study", "studies"), plural(s.ExpectationChanged, "CI gate", "CI gates"), s.ExpectationBroken, s.Significant, res.Alpha, compare.AdjustName(res.Adjust), s.VerdictChanged, s.Added, s.Removed, *out)
+	fmt.Fprintf(stderr, "bivar diff: %s compared: %s changed outcome (%d now failing that did not fail before), %d changed beyond chance (adjusted p below %g, %s), %d with a changed verdict; %d added, %d removed, %d stopped running; written to %s\n",
+		plural(s.Compared, "study", "studies"), plural(s.ExpectationChanged, "CI gate", "CI gates"), s.ExpectationBroken, s.Significant, res.Alpha, compare.AdjustName(res.Adjust), s.VerdictChanged, s.Added, s.Removed, s.StoppedRunning, *out)
+	if res.Identical() {
+		fmt.Fprintf(stderr, "bivar diff: %s\n", res.Statements[0])
+	}
 	for _, sc := range res.Studies {
 		if sc.Statement != "" {
 			fmt.Fprintf(stderr, "bivar diff: study %q: %s\n", sc.ID, sc.Statement)
@@ -104,14 +115,37 @@ func runDiff(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		code = exitExpectation
 	}
 	if gates["expectation"] && res.AnyExpectationBroken() {
-		fmt.Fprintf(stderr, "bivar diff: failing: a CI gate that held in the old run fails in the new one (--fail-on expectation)\n")
+		fmt.Fprintf(stderr, "bivar diff: failing: a CI gate fails in the new run that did not fail in the old (it held there, or was not declared) (--fail-on expectation)\n")
 		code = exitExpectation
 	}
 	if gates["verdict"] && res.AnyVerdictChanged() {
-		fmt.Fprintf(stderr, "bivar diff: failing: a verdict changed (--fail-on verdict)\n")
+		if s.VerdictChanged > 0 {
+			fmt.Fprintf(stderr, "bivar diff: failing: a verdict changed (--fail-on verdict)\n")
+		}
+		if s.StoppedRunning > 0 {
+			fmt.Fprintf(stderr, "bivar diff: failing: a study that ran in the old run did not run in the new one, so its verdicts are lost (--fail-on verdict)\n")
+		}
 		code = exitExpectation
 	}
 	return code
+}
+
+// insideReport returns the report folder (one holding a results.json of
+// bivar's) that out lies inside, or "". out itself is not looked at:
+// publish refuses a folder of another command's files.
+func insideReport(out string) string {
+	abs, err := filepath.Abs(out)
+	if err != nil {
+		return ""
+	}
+	for dir := filepath.Dir(abs); ; dir = filepath.Dir(dir) {
+		if data, err := os.ReadFile(filepath.Join(dir, "results.json")); err == nil && resultsShape(data) == nil {
+			return dir
+		}
+		if filepath.Dir(dir) == dir {
+			return ""
+		}
+	}
 }
 
 // parseFailOn reads the --fail-on list.
@@ -147,8 +181,15 @@ func readResults(path string) (*report.Report, string, error) {
 	file := path
 	if info.IsDir() {
 		file = filepath.Join(path, "results.json")
-		if _, err := os.Stat(file); errors.Is(err, fs.ErrNotExist) {
+		fi, err := os.Stat(file)
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
+			if _, err := os.Stat(filepath.Join(path, changes.Files["json"])); err == nil {
+				return nil, file, fmt.Errorf("%s is the folder of a diff (it holds %s), not a report: give the report folder written by 'bivar run', or its results.json", path, changes.Files["json"])
+			}
 			return nil, file, fmt.Errorf("%s holds no results.json: give the report folder written by 'bivar run' (with \"json\" in [output] formats) or the file itself", path)
+		case err == nil && fi.IsDir():
+			return nil, file, fmt.Errorf("%s is a folder, not a file: give a report folder written by 'bivar run', or the results.json it holds", file)
 		}
 	}
 	switch looksLike(file) {
@@ -168,6 +209,9 @@ func readResults(path string) (*report.Report, string, error) {
 // parseResults reads the results.json held in data; file names it in
 // errors.
 func parseResults(file string, data []byte) (*report.Report, error) {
+	// A byte-order mark (an editor on Windows saves one) is not part of
+	// the JSON; the decoder would stop at it ("invalid character 'ï'").
+	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	if err := resultsShape(data); err != nil {
 		return nil, fmt.Errorf("%s: %w", file, err)
 	}
@@ -175,7 +219,102 @@ func parseResults(file string, data []byte) (*report.Report, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%s: %s", file, explainJSON(data, err))
 	}
+	if err := resultsWhole(data, rep); err != nil {
+		return nil, fmt.Errorf("%s: %w: the file was edited or written by another program; run 'bivar run' again to write it whole", file, err)
+	}
 	return rep, nil
+}
+
+// resultsWhole checks what the strict decoding cannot: that the keys
+// bivar always writes are there and not null, and that studies and
+// datasets have the ids the comparison matches them by, once each. A
+// file without them would be compared as if its studies were added,
+// removed or alike.
+func resultsWhole(data []byte, rep *report.Report) error {
+	var top map[string]json.RawMessage
+	if err := json.Unmarshal(data, &top); err != nil {
+		return err
+	}
+	for _, key := range []string{"manifest", "datasets", "studies"} {
+		if v, ok := top[key]; !ok || string(bytes.TrimSpace(v)) == "null" {
+			return fmt.Errorf("key %q is missing or null", key)
+		}
+	}
+	at := elementOffsets(data, "studies")
+	where := func(i int) string {
+		if i < len(at) {
+			lc := lineCol(data, at[i]+1) // lineCol takes the offset after the byte
+			return fmt.Sprintf("line %d, column %d: study %d", lc[0], lc[1], i+1)
+		}
+		return fmt.Sprintf("study %d", i+1)
+	}
+	seen := map[string]int{}
+	for i, s := range rep.Studies {
+		switch {
+		case s.ID == "":
+			return fmt.Errorf("%s has no id", where(i))
+		case s.X.Column == "" || s.Y.Column == "":
+			return fmt.Errorf("%s (%q) names no x or y column", where(i), s.ID)
+		}
+		if j, dup := seen[s.ID]; dup {
+			return fmt.Errorf("%s has the id %q of study %d too", where(i), s.ID, j+1)
+		}
+		seen[s.ID] = i
+		for _, e := range s.Expectations {
+			if e.Name == "" {
+				return fmt.Errorf("%s (%q) has an expectation without a name", where(i), s.ID)
+			}
+		}
+	}
+	ds := map[string]bool{}
+	for i, d := range rep.Datasets {
+		if d.ID == "" || ds[d.ID] {
+			return fmt.Errorf("dataset %d has no id, or one another dataset has too (%q)", i+1, d.ID)
+		}
+		ds[d.ID] = true
+	}
+	return nil
+}
+
+// elementOffsets returns the byte offset at which each element of the
+// top-level array key begins in data, or nil when it cannot be found.
+func elementOffsets(data []byte, key string) []int64 {
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if t, err := dec.Token(); err != nil || t != json.Delim('{') {
+		return nil
+	}
+	for dec.More() {
+		k, err := dec.Token()
+		if err != nil {
+			return nil
+		}
+		if k != key {
+			var skip json.RawMessage
+			if dec.Decode(&skip) != nil {
+				return nil
+			}
+			continue
+		}
+		if t, err := dec.Token(); err != nil || t != json.Delim('[') {
+			return nil
+		}
+		var out []int64
+		for dec.More() {
+			off := dec.InputOffset()
+			// InputOffset is the end of the last token: skip the comma
+			// and spaces to the element itself.
+			for off < int64(len(data)) && (data[off] == ',' || data[off] == ' ' || data[off] == '\n' || data[off] == '\t' || data[off] == '\r') {
+				off++
+			}
+			out = append(out, off)
+			var skip json.RawMessage
+			if dec.Decode(&skip) != nil {
+				return nil
+			}
+		}
+		return out
+	}
+	return nil
 }
 
 // resultsShape checks, before the strict decoding, that data is a
@@ -217,13 +356,14 @@ func explainJSON(data []byte, err error) string {
 	var typ *json.UnmarshalTypeError
 	switch {
 	case errors.Is(err, io.ErrUnexpectedEOF), errors.As(err, &syn) && strings.Contains(syn.Error(), "unexpected end of JSON input"):
-		return fmt.Sprintf("the file ends early, at line %d (cut off while being written or copied?): run 'bivar run' again to write it whole", lineCol(data, int64(len(data)))[0])
+		end := lineCol(data, int64(len(bytes.TrimRight(data, " \t\r\n"))))
+		return fmt.Sprintf("the file ends early, at line %d, column %d (cut off while being written or copied?): run 'bivar run' again to write it whole", end[0], end[1])
 	case errors.As(err, &syn):
 		lc := lineCol(data, syn.Offset)
 		return fmt.Sprintf("line %d, column %d: not valid JSON (%v): the file was changed or damaged after 'bivar run' wrote it; run it again", lc[0], lc[1], syn)
 	case errors.As(err, &typ):
 		lc := lineCol(data, typ.Offset)
-		want := "a " + typ.Type.String()
+		want := jsonKind(typ.Type)
 		if typ.Type == reflect.TypeFor[report.Float]() {
 			want = "a number, or null where the value is undefined (bivar writes NaN and infinities as null)"
 		}
@@ -234,6 +374,29 @@ func explainJSON(data []byte, err error) string {
 		return msg + ": the file holds a key bivar does not write (edited, or written by a newer bivar); run 'bivar run' again with this version"
 	}
 	return msg
+}
+
+// jsonKind says in words what JSON value a Go type is written as: "a
+// whole number" for an int, "text" for a string, not Go's type names.
+func jsonKind(t reflect.Type) string {
+	switch t.Kind() {
+	case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64,
+		reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64:
+		return "a whole number"
+	case reflect.Float32, reflect.Float64:
+		return "a number"
+	case reflect.String:
+		return "text in quotes"
+	case reflect.Bool:
+		return "true or false"
+	case reflect.Slice, reflect.Array:
+		return "a list [...]"
+	case reflect.Map, reflect.Struct:
+		return "an object {...}"
+	case reflect.Pointer:
+		return jsonKind(t.Elem()) + " or null"
+	}
+	return "a " + t.String()
 }
 
 // lineCol returns the 1-based line and column of byte offset off.

@@ -63,6 +63,10 @@ func TestDiffCommand(t *testing.T) {
 		return writeResults(t, filepath.Join(dir, fmt.Sprintf("gated-%v", ok)), r)
 	}
 	gateMet, gateFailed := gated(1, true), gated(2, false)
+	stoppedRep := runOf(1, 0.8, "strong")
+	msg := `column "y" is constant`
+	stoppedRep.Studies[0].Error, stoppedRep.Studies[0].Moments, stoppedRep.Studies[0].Findings = &msg, nil, nil
+	stopped := writeResults(t, filepath.Join(dir, "stopped"), stoppedRep)
 
 	cases := []struct {
 		name string
@@ -74,7 +78,7 @@ func TestDiffCommand(t *testing.T) {
 		{"changed, not gated", []string{"diff", "-o", out, a, filepath.Join(dir, "changed")}, exitOK, "1 changed beyond chance"},
 		{"changed, gated on significant", []string{"diff", "-o", out, "--fail-on", "significant", a, changed}, exitExpectation, "--fail-on significant"},
 		{"changed, gated on verdict", []string{"diff", "--fail-on=verdict", "-o", out, a, changed}, exitExpectation, "strength strong → moderate"},
-		{"gate broken, not gated", []string{"diff", "-o", out, gateMet, gateFailed}, exitOK, "1 CI gate changed outcome (1 now failing that held before)"},
+		{"gate broken, not gated", []string{"diff", "-o", out, gateMet, gateFailed}, exitOK, "1 CI gate changed outcome (1 now failing that did not fail before)"},
 		{"gate broken, gated on verdict and significant", []string{"diff", "-o", out, "--fail-on", "verdict,significant", gateMet, gateFailed}, exitOK, "slope within its limits met → failed"},
 		{"gate broken, gated on expectation", []string{"diff", "-o", out, "--fail-on", "expectation", gateMet, gateFailed}, exitExpectation, "--fail-on expectation"},
 		{"gate mended, gated on expectation", []string{"diff", "-o", out, "--fail-on", "expectation", gateFailed, gateMet}, exitOK, "0 now failing"},
@@ -85,11 +89,46 @@ func TestDiffCommand(t *testing.T) {
 		{"missing file", []string{"diff", "-o", out, filepath.Join(dir, "nope.json"), same}, exitFailed, "OLD:"},
 		{"folder without results", []string{"diff", "-o", out, a, out + "-empty"}, exitFailed, "NEW:"},
 		{"not a results file", []string{"diff", "-o", out, a, filepath.Join(out, "diff.json")}, exitFailed, "a diff.json cannot be compared"},
+		// The same run given twice, as a file and as its folder: a usage
+		// mistake (a CI job whose last/ points at the new report), which
+		// exited 0 saying nothing changed. A copy of the file is compared.
+		{"same file twice", []string{"diff", "-o", out, "--fail-on", "expectation", a, a}, exitUsage, "OLD and NEW are the same file, " + a},
+		{"same file as folder and file", []string{"diff", "-o", out, filepath.Join(dir, "a"), a}, exitUsage, "OLD and NEW are the same file"},
+		// A diff written inside a report folder stops the next 'bivar
+		// run' of that folder (it holds files bivar run did not write).
+		{"-o inside a report folder", []string{"diff", "-o", filepath.Join(dir, "a", "diff"), a, changed}, exitUsage, "-o " + filepath.Join(dir, "a", "diff") + " is inside the report folder " + filepath.Join(dir, "a") + ", which 'bivar run' replaces whole"},
+		// A diff's own folder, and a results.json that is a folder, given
+		// as OLD: each said only "holds no results.json" or "read …: is
+		// a directory".
+		{"a diff folder as OLD", []string{"diff", "-o", out + "-2", out, a}, exitFailed, out + " is the folder of a diff (it holds diff.json), not a report"},
+		{"results.json a folder", []string{"diff", "-o", out + "-2", filepath.Join(dir, "odd"), a}, exitFailed, filepath.Join(dir, "odd", "results.json") + " is a folder, not a file"},
+		// A study that ran in OLD and not in NEW, without gates: its
+		// verdicts are lost, which --fail-on verdict gates on (exit 0
+		// before, nothing counted).
+		{"study stopped running, gated on verdict", []string{"diff", "-o", out, "--fail-on", "verdict", a, stopped}, exitExpectation, "1 stopped running"},
+		{"study started running, gated on verdict", []string{"diff", "-o", out, "--fail-on", "verdict", stopped, a}, exitOK, "0 stopped running"},
+		// The file saved again by an editor that writes a byte-order
+		// mark: read as it was ("invalid character 'ï'" before).
+		{"a byte-order mark", []string{"diff", "-o", out, a, filepath.Join(dir, "bom", "results.json")}, exitOK, "0 changed beyond chance"},
+		{"a copy of the same file", []string{"diff", "-o", out, a, filepath.Join(dir, "copy", "results.json")}, exitOK, "0 changed beyond chance"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			if tc.name == "folder without results" {
 				os.MkdirAll(out+"-empty", 0o755)
+			}
+			if tc.name == "a byte-order mark" {
+				b, _ := os.ReadFile(a)
+				os.MkdirAll(filepath.Join(dir, "bom"), 0o755)
+				os.WriteFile(filepath.Join(dir, "bom", "results.json"), append([]byte("\xef\xbb\xbf"), b...), 0o644)
+			}
+			if tc.name == "results.json a folder" {
+				os.MkdirAll(filepath.Join(dir, "odd", "results.json"), 0o755)
+			}
+			if tc.name == "a copy of the same file" {
+				b, _ := os.ReadFile(a)
+				os.MkdirAll(filepath.Join(dir, "copy"), 0o755)
+				os.WriteFile(filepath.Join(dir, "copy", "results.json"), b, 0o644)
 			}
 			code, _, stderr := call(t, tc.args...)
 			if code != tc.code || !strings.Contains(stderr, tc.want) {
@@ -111,6 +150,18 @@ func TestDiffCommand(t *testing.T) {
 	if res.Old.File != filepath.ToSlash(filepath.Join(dir, "a", "results.json")) || res.Summary.Compared != 1 {
 		t.Errorf("diff.json: old file %q, compared %d", res.Old.File, res.Summary.Compared)
 	}
+}
+
+// encode returns a results.json of runOf(1, …) changed by edit.
+func encode(t *testing.T, edit func(*report.Report)) string {
+	t.Helper()
+	r := runOf(1, 0.8, "strong")
+	edit(r)
+	var buf bytes.Buffer
+	if err := report.Write(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	return buf.String()
 }
 
 // nanAt replaces the number after key (its first occurrence) by "NaN" in quotes.
@@ -145,11 +196,17 @@ func TestDiffBadResults(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	noID := encode(t, func(r *report.Report) { r.Studies[0].ID = "" })
+	// The last character of a file cut in half: its line, and its
+	// column counted from 1.
+	cut := full[:len(full)/2]
+	last := bytes.TrimRight(cut, " \t\r\n")
+	cutLine, cutCol := bytes.Count(last, []byte("\n"))+1, len(last)-bytes.LastIndexByte(last, '\n')-1
 	cases := []struct {
 		name, content string
 		want          []string
 	}{
-		{"truncated", string(full[:len(full)/2]), []string{"ends early, at line", "run 'bivar run' again"}},
+		{"truncated", string(cut), []string{fmt.Sprintf("ends early, at line %d, column %d (", cutLine, cutCol), "run 'bivar run' again"}}, // the column was not given
 		{"empty", "", []string{"the file is empty"}},
 		{"blank", " \n\n", []string{"the file is empty"}},
 		{"array", "[1, 2]", []string{"not a JSON object"}},
@@ -158,8 +215,15 @@ func TestDiffBadResults(t *testing.T) {
 		{"newer schema", strings.Replace(string(full), report.Schema, "bivar.results/v9", 1), []string{`schema "bivar.results/v9", but this bivar reads "bivar.results/v3"`, "rerun 'bivar run'"}},
 		{"other schema", `{"schema": "acme/1"}`, []string{`schema "acme/1" is not bivar's results schema`}},
 		{"syntax error", strings.Replace(string(full), `"studies": [`, `"studies": [,`, 1), []string{"line ", "column ", "not valid JSON"}},
-		{"wrong type", strings.Replace(string(full), `"rows": 40`, `"rows": "forty"`, 1), []string{"line ", `key "datasets.rows" holds a JSON string`}},
+		{"wrong type", strings.Replace(string(full), `"rows": 40`, `"rows": "forty"`, 1), []string{"line ", `key "datasets.rows" holds a JSON string where bivar writes a whole number:`}}, // it said "writes a int"
 		{"unknown key", strings.Replace(string(full), `"schema":`, `"colour": 1, "schema":`, 1), []string{`unknown field "colour"`, "does not write"}},
+		// Hand-edited files that decode but are not whole: they were
+		// compared as if studies were added, removed or alike (a second
+		// study of the same id silently replaced the first).
+		{"studies null", encode(t, func(r *report.Report) { r.Studies = nil }), []string{`key "studies" is missing or null`, "run 'bivar run' again"}},
+		{"study without id", noID, []string{fmt.Sprintf("line %d, column 5: study 1 has no id", strings.Count(noID[:strings.Index(noID, `"studies": [`)], "\n")+2)}},
+		{"two studies of one id", encode(t, func(r *report.Report) { r.Studies = append(r.Studies, r.Studies[0]) }), []string{`study 2 has the id "s" of study 1 too`}},
+		{"expectation without a name", encode(t, func(r *report.Report) { r.Studies[0].Expectations = []report.Expectation{{}} }), []string{`study 1 ("s") has an expectation without a name`}},
 		{"NaN in quotes", nanAt(t, full, `"sxx": `), []string{fmt.Sprintf("line %d, column %d: ", nanLine(full, `"sxx": `), nanCol(full, `"sxx": `)),
 			`key "studies[0].moments.sxx" holds a JSON string where bivar writes a number, or null`, "NaN and infinities as null"}},
 	}
@@ -198,7 +262,11 @@ func TestDiffBadResults(t *testing.T) {
 	if code, _, stderr := call(t, "diff", "-o", good, good, good); code != exitUsage || !strings.Contains(stderr, "is a file: give a folder") {
 		t.Errorf("-o a file: exit %d, %q", code, stderr)
 	}
-	if code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "o2"), "--fail-on", "verdict,", good, good); code != exitOK {
+	goodCopy := filepath.Join(dir, "good-copy.json")
+	if b, err := os.ReadFile(good); err != nil || os.WriteFile(goodCopy, b, 0o644) != nil {
+		t.Fatal("copying", good, err)
+	}
+	if code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "o2"), "--fail-on", "verdict,", good, goodCopy); code != exitOK {
 		t.Errorf("--fail-on with a trailing comma: exit %d, %q", code, stderr)
 	}
 	if code, _, _ := call(t, "diff", "--colour", "a", "b"); code != exitUsage {
@@ -234,9 +302,16 @@ func TestSampleProjectRuns(t *testing.T) {
 		t.Fatalf("run October: exit %d\n%s", code, stderr)
 	}
 	call(t, "run", "-o", novDir, nov) // exits 3: its gate fails
-	code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "same"), "--fail-on", "verdict,significant", octDir, octDir)
-	if code != exitOK || !strings.Contains(stderr, "0 changed beyond chance") {
-		t.Errorf("October against itself: exit %d\n%s", code, stderr)
+	// October run twice: the same run again is compared, and nothing
+	// changed (the same folder twice is refused: TestDiffCommand).
+	oct2Dir := filepath.Join(dir, "oct2")
+	if code, _, stderr := call(t, "run", "-o", oct2Dir, oct); code != exitOK {
+		t.Fatalf("run October again: exit %d\n%s", code, stderr)
+	}
+	code, _, stderr := call(t, "diff", "-o", filepath.Join(dir, "same"), "--fail-on", "expectation,verdict,significant", octDir, oct2Dir)
+	if code != exitOK || !strings.Contains(stderr, "0 CI gates changed outcome (0 now failing that did not fail before), 0 changed beyond chance") ||
+		!strings.Contains(stderr, "0 with a changed verdict; 0 added, 0 removed") || strings.Contains(stderr, "study \"") || !strings.Contains(stderr, "bivar diff: Nothing changed: ") {
+		t.Errorf("October against October run again: exit %d\n%s", code, stderr)
 	}
 	code, _, stderr = call(t, "diff", "-o", filepath.Join(dir, "changed"), "--fail-on", "significant", octDir, novDir)
 	if code != exitExpectation {

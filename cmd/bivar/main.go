@@ -111,9 +111,13 @@ the study predicts at, with a chart of the old line against the new one.
 
 --fail-on chooses which changes give exit status 3 (comma-separated;
 default none): expectation (a CI gate that held in OLD fails in NEW, or a
-new gate fails), verdict (a verdict changed), significant (r or the slope
-changed beyond chance). Exit status: 0, or 3 for a gated change;
-1 on bad input, 2 on a usage error, 130 after SIGINT and 143 after SIGTERM.`,
+new gate fails), verdict (a verdict changed: form, direction, strength,
+outlier-driven, reversal, drift, changing spread, explained by, groups'
+lines or agreement; or a study that ran in OLD did not run in NEW),
+significant (r or the slope changed beyond chance).
+Exit status: 0, or 3 for a gated change; 1 on bad input, 2 on a usage
+error (OLD and NEW the same file among them), 130 after SIGINT and 143
+after SIGTERM.`,
 			Run: runDiff,
 		},
 		{

@@ -371,13 +371,14 @@ func TestSignalBeforeWriting(t *testing.T) {
 	root := t.TempDir()
 	m := project(t, root, 0, "publish test (invented data)")
 	a := writeResults(t, filepath.Join(root, "a"), runOf(1, 0.8, "strong"))
+	b := writeResults(t, filepath.Join(root, "b"), runOf(2, 0.8, "strong"))
 	for _, tc := range []struct {
 		args []string
 		want string
 	}{
 		{[]string{"run", m}, "bivar: stopped by SIGTERM; nothing written: any earlier report in "},
 		{[]string{"check", "--junit", filepath.Join(root, "j.xml"), m}, "bivar check: stopped by SIGTERM; nothing written: the earlier --junit and --summary files are as they were"},
-		{[]string{"diff", "-o", filepath.Join(root, "diff"), a, a}, "bivar diff: stopped by SIGTERM; nothing written: any earlier diff in "},
+		{[]string{"diff", "-o", filepath.Join(root, "diff"), a, b}, "bivar diff: stopped by SIGTERM; nothing written: any earlier diff in "},
 	} {
 		ctx, cancel := context.WithCancelCause(context.Background())
 		cancel(&signalError{syscall.SIGTERM})
@@ -392,8 +393,8 @@ func TestSignalBeforeWriting(t *testing.T) {
 	for _, e := range entries {
 		names = append(names, e.Name())
 	}
-	if got := strings.Join(names, " "); got != "a bivar.toml d.csv" {
-		t.Errorf("after the stopped commands the folder holds %s, want a bivar.toml d.csv", got)
+	if got := strings.Join(names, " "); got != "a b bivar.toml d.csv" {
+		t.Errorf("after the stopped commands the folder holds %s, want a b bivar.toml d.csv", got)
 	}
 }
 

@@ -32,23 +32,26 @@ import (
 var tmplFS embed.FS
 
 var page = template.Must(template.New("diff").Funcs(template.FuncMap{
-	"num":           num,
-	"signed":        signed,
-	"fix2":          fix2,
-	"pval":          pval,
-	"padj":          padj,
-	"short":         short,
-	"adjustName":    adjustName,
-	"verdictName":   verdictName,
-	"below":         below,
-	"slopeUnit":     slopeUnit,
-	"outcome":       outcome,
-	"yesNo":         yesNo,
-	"paren":         paren,
-	"statusWords":   statusWords,
-	"anchor":        anchor,
-	"agreement":     agreementRows,
-	"agreementHead": func() []string { return agreementHead },
+	"num":              num,
+	"signed":           signed,
+	"fix2":             fix2,
+	"pval":             pval,
+	"padj":             padj,
+	"short":            short,
+	"adjustName":       adjustName,
+	"verdictName":      verdictName,
+	"verdictNames":     func() string { return compare.VerdictNames },
+	"below":            below,
+	"slopeUnit":        slopeUnit,
+	"wanted":           wanted,
+	"slopeGateCaption": slopeGateCaption,
+	"outcome":          outcome,
+	"yesNo":            yesNo,
+	"paren":            paren,
+	"statusWords":      statusWords,
+	"anchor":           anchor,
+	"agreement":        agreementRows,
+	"agreementHead":    func() []string { return agreementHead },
 }).Option("missingkey=error").ParseFS(tmplFS, "templates/*.tmpl"))
 
 type config struct {
@@ -250,12 +253,9 @@ func Markdown(w io.Writer, res *compare.Result) error {
 	b.WriteString(mdtext.Escape(gatesLine(res)) + "\n\n")
 	if s.ExpectationChanged > 0 {
 		b.WriteString("| Study | Gate | Wanted | Old run | New run |\n|---|---|---|---|---|\n")
-		for _, sc := range res.Studies {
-			for _, e := range sc.Expectations {
-				if e.Changed {
-					fmt.Fprintf(&b, "| `%s` | %s | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(e.Title), mdtext.Cell(e.Want), mdtext.Cell(outcome(e.OldOK, e.OldGot)), mdtext.Cell(outcome(e.NewOK, e.NewGot)))
-				}
-			}
+		for _, g := range res.ChangedGates() {
+			e := g.ExpectationChange
+			fmt.Fprintf(&b, "| `%s` | %s | %s | %s | **%s** |\n", code(g.Study), mdtext.Cell(e.Title), mdtext.Cell(wanted(e)), mdtext.Cell(outcome(e.OldOK, e.OldGot)), mdtext.Cell(outcome(e.NewOK, e.NewGot)))
 		}
 		b.WriteString("\n")
 	}
@@ -272,8 +272,8 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		}
 		b.WriteString("\n")
 	}
-	fmt.Fprintf(&b, "## In numbers\n\n- CI gates whose outcome changed: %d (%d now failing that held before)\n- Studies changed beyond chance: %d of %d (adjusted p below %g)\n- Studies with a changed verdict: %d\n- Studies added: %d; removed: %d\n",
-		s.ExpectationChanged, s.ExpectationBroken, s.Significant, s.Compared, res.Alpha, s.VerdictChanged, s.Added, s.Removed)
+	fmt.Fprintf(&b, "## In numbers\n\n- CI gates whose outcome changed: %d (%d now failing that did not fail before)\n- Studies changed beyond chance: %d of %d (adjusted p below %g)\n- Studies with a changed verdict: %d\n- Studies added: %d; removed: %d; that ran before and did not run now: %d\n",
+		s.ExpectationChanged, s.ExpectationBroken, s.Significant, s.Compared, res.Alpha, s.VerdictChanged, s.Added, s.Removed, s.StoppedRunning)
 	for _, n := range res.Notes {
 		fmt.Fprintf(&b, "- %s\n", mdtext.Escape(n))
 	}
@@ -290,8 +290,8 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		}
 		if g := sc.SlopeGate; g != nil && sc.Slope != nil {
 			u := slopeUnit(sc)
-			fmt.Fprintf(&b, "Slope gate: %s to %s %s.\n\n| Run | Slope (%s) | Inside the gate |\n|---|--:|---|\n| old | %s | %s |\n| new | %s | %s |\n\n",
-				num(g.Low), num(g.High), mdtext.Escape(u), mdtext.Cell(u), num(sc.Slope.Old), yesNo(g.OldInside), num(sc.Slope.New), yesNo(g.NewInside))
+			fmt.Fprintf(&b, "%s\n\n| Run | Slope (%s) | Inside the gate |\n|---|--:|---|\n| old | %s | %s |\n| new | %s | %s |\n\n",
+				mdtext.Escape(slopeGateCaption(g, u)), mdtext.Cell(u), num(sc.Slope.Old), yesNo(g.OldInside), num(sc.Slope.New), yesNo(g.NewInside))
 		}
 		if len(sc.AtX) > 0 {
 			where := "where the study predicts"
@@ -324,7 +324,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 			fmt.Fprintf(&b, "| `%s` | %d → %d | %s |\n", code(sc.ID), sc.OldN, sc.NewN, cells)
 		}
 		b.WriteString("\n## Change in slope\n\n")
-		b.WriteString(sigLine("the slope", sigSlope(res), res.Alpha))
+		b.WriteString(sigLine("slope", sigSlope(res), res.Alpha))
 		b.WriteString("Slope in y units per x unit. SE of Δ from the pooled residual variance; t with n_old + n_new − 4 df. The residual SDs (in y units) show whether pooling is reasonable.\n\n")
 		b.WriteString("| Study | unit | slope old → new | Δslope ± SE | t (df) | p | adjusted p | residual SD old → new |\n|---|---|--:|--:|--:|--:|--:|--:|\n")
 		for _, sc := range res.Studies {
@@ -339,12 +339,12 @@ func Markdown(w io.Writer, res *compare.Result) error {
 		b.WriteString(agreementMarkdown(res))
 		b.WriteString("## Changed verdicts\n\n")
 		if s.VerdictChanged == 0 {
-			b.WriteString("No verdict changed (form, direction, strength, outlier-driven).\n\n")
+			b.WriteString("No verdict changed (" + compare.VerdictNames + ").\n\n")
 		} else {
 			b.WriteString("| Study | Verdict | Old | New |\n|---|---|---|---|\n")
 			for _, sc := range res.Studies {
 				for _, v := range sc.Verdicts {
-					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(verdictName(v.Name)), mdtext.Cell(v.Old), mdtext.Cell(v.New))
+					fmt.Fprintf(&b, "| `%s` | %s | %s | **%s** |\n", code(sc.ID), mdtext.Cell(verdictName(v.Name)), mdtext.Cell(orDash(v.Old)), mdtext.Cell(orDash(v.New)))
 				}
 			}
 			b.WriteString("\n")
@@ -415,6 +415,11 @@ func gatesLine(res *compare.Result) string {
 	for _, sc := range res.Studies {
 		total += len(sc.Expectations)
 	}
+	for _, refs := range [][]compare.StudyRef{res.Added, res.Removed} {
+		for _, r := range refs {
+			total += len(r.Expectations)
+		}
+	}
 	s := res.Summary
 	switch {
 	case total == 0:
@@ -422,9 +427,9 @@ func gatesLine(res *compare.Result) string {
 	case s.ExpectationChanged == 0:
 		return fmt.Sprintf("No CI gate changed its outcome (%d compared).", total)
 	case s.ExpectationChanged == 1:
-		return fmt.Sprintf("1 of %d CI gates changed its outcome; %d now fails that held before.", total, s.ExpectationBroken)
+		return fmt.Sprintf("1 of %d CI gates changed its outcome; %d now fails that did not fail before.", total, s.ExpectationBroken)
 	}
-	return fmt.Sprintf("%d of %d CI gates changed their outcome; %d now fail that held before.", s.ExpectationChanged, total, s.ExpectationBroken)
+	return fmt.Sprintf("%d of %d CI gates changed their outcome; %d now fail that did not fail before.", s.ExpectationChanged, total, s.ExpectationBroken)
 }
 
 // outcome is a gate's outcome in one run, with what it found.
@@ -560,6 +565,24 @@ func FigureFiles(res *compare.Result, opts ...Option) ([]publish.File, error) {
 	return files, nil
 }
 
+// wanted is what a changed gate asked for: both runs' wants where the
+// gate was edited between them.
+func wanted(e compare.ExpectationChange) string {
+	if e.WantChanged {
+		return "old run: " + e.OldWant + "; new run: " + e.Want
+	}
+	return e.Want
+}
+
+// slopeGateCaption names the slope gate's limits above the table that
+// says whether each run's slope lies inside its own run's gate.
+func slopeGateCaption(g *compare.SlopeGate, unit string) string {
+	if o := g.OldLimits; o != nil {
+		return fmt.Sprintf("Slope gate: %s to %s %s in the new run, %s to %s %s in the old (each slope is read against its own run's gate).", num(g.Low), num(g.High), unit, num(o.Low), num(o.High), unit)
+	}
+	return fmt.Sprintf("Slope gate: %s to %s %s.", num(g.Low), num(g.High), unit)
+}
+
 // sigLine is the Markdown sentence above a table of change tests.
 func sigLine(what string, ids []string, alpha float64) string {
 	if len(ids) == 0 {
@@ -663,12 +686,7 @@ func adjustName(a string) string {
 	return a
 }
 
-func verdictName(n string) string {
-	if n == "outlier_driven" {
-		return "outlier-driven"
-	}
-	return n
-}
+func verdictName(n string) string { return compare.VerdictName(n) }
 
 // anchor is the id of a study's section in diff.html: "study-" and the
 // study id with every character outside [A-Za-z0-9_-] replaced by "-".

@@ -117,7 +117,7 @@ func TestHTML(t *testing.T) {
 				res0.Studies[0].Statement,
 				"Changed beyond chance (adjusted p below 0.05):",
 				"<h2>CI gates</h2>",
-				"1 of 1 CI gates changed its outcome; 1 now fails that held before.",
+				"1 of 1 CI gates changed its outcome; 1 now fails that did not fail before.",
 				`<svg`, "Old run in long dashes, new run solid",
 				`href="#study-shrink-vs-melt"`, `id="study-shrink-vs-melt"`,
 			} {

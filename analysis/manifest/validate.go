@@ -221,7 +221,7 @@ func (p *parser) validate(m *Manifest) {
 		case d.ID == "":
 			p.add(owner, "dataset.id", "[[dataset]] number %d has no id: add id = \"…\" (a short name the studies refer to)", i+1)
 		case !validID(d.ID):
-			p.add(owner, "dataset.id", "dataset id %q may hold only letters, digits, '-', '_' and '.'", d.ID)
+			p.add(owner, "dataset.id", "dataset id %q may hold only the ASCII letters a–z and A–Z, digits, '-', '_' and '.'", d.ID)
 		default:
 			if j, dup := datasets[d.ID]; dup {
 				p.add(owner, "dataset.id", "dataset id %q is used twice (first %s)", d.ID, where(m.Datasets[j].Line, "dataset", j))
@@ -265,7 +265,7 @@ func (p *parser) validate(m *Manifest) {
 			name = "number " + strconv.Itoa(i+1)
 			p.add(owner, "study.id", "[[study]] number %d has no id: add id = \"…\" (a short name, used in reports and in diffs between runs)", i+1)
 		case !validID(s.ID):
-			p.add(owner, "study.id", "study id %q may hold only letters, digits, '-', '_' and '.'", s.ID)
+			p.add(owner, "study.id", "study id %q may hold only the ASCII letters a–z and A–Z, digits, '-', '_' and '.' (it names the study's files and anchors)", s.ID)
 		default:
 			if j, dup := studies[s.ID]; dup {
 				p.add(owner, "study.id", "study id %q is used twice (first %s)", s.ID, where(m.Studies[j].Line, "study", j))
@@ -395,7 +395,15 @@ func (p *parser) interval(owner, name, key string, v []float64, lo, hi float64) 
 	if !math.IsInf(lo, 0) {
 		rng = fmt.Sprintf(", both in [%v, %v]", lo, hi)
 	}
-	p.add(owner, "study.expect."+key, "study %q: expect.%s must be two numbers [low, high] with low ≤ high%s; got %v", name, key, rng, v)
+	got := make([]string, len(v))
+	for i, x := range v {
+		got[i] = strconv.FormatFloat(x, 'g', -1, 64)
+	}
+	what := "got [" + strings.Join(got, ", ") + "]"
+	if len(v) == 2 && v[0] > v[1] {
+		what += fmt.Sprintf(": write the lower first, [%s, %s]", got[1], got[0])
+	}
+	p.add(owner, "study.expect."+key, "study %q: expect.%s must be two numbers [low, high] with low ≤ high%s; %s", name, key, rng, what)
 }
 
 func (p *parser) thresholds(t *Thresholds) {

@@ -436,19 +436,77 @@ func orderKeys(oids []uint32) []string {
 // numbers.
 func pgNumberOf(k pgKind, b []byte) (float64, bool) {
 	if k == pgTime {
-		s := string(b)
-		for _, layout := range []string{"2006-01-02 15:04:05.999999999Z07", "2006-01-02 15:04:05.999999999Z07:00", "2006-01-02 15:04:05.999999999", "2006-01-02"} {
-			if t, err := time.Parse(layout, s); err == nil {
-				return float64(t.Unix()) + float64(t.Nanosecond())/1e9, true
-			}
-		}
-		return 0, false
+		return pgEpoch(string(b))
 	}
 	v, err := strconv.ParseFloat(string(b), 64) // b does not escape: no copy
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, false
 	}
 	return v, true
+}
+
+// pgTimeText is a date, timestamp or timestamptz as PostgreSQL writes it
+// under DateStyle ISO: a year of four digits or more, the time with up
+// to six fractional digits, the offset (+00 in UTC, seconds only where
+// the zone has them), and " BC" for a year before 1 AD.
+var pgTimeText = regexp.MustCompile(`^([0-9]{4,})-([0-9]{2})-([0-9]{2})(?: ([0-9]{2}):([0-9]{2}):([0-9]{2})(?:\.([0-9]{1,9}))?)?(?:([+-])([0-9]{2})(?::([0-9]{2}))?(?::([0-9]{2}))?)?( BC)?$`)
+
+// pgEpoch is the date or timestamp s (PostgreSQL's ISO text output) as
+// seconds since 1970-01-01 00:00 UTC in the proleptic Gregorian calendar,
+// as PostgreSQL's EXTRACT(EPOCH FROM …) gives them, correctly rounded to
+// float64: the exact decimal sum of the whole seconds and the fraction is
+// read by strconv.ParseFloat. A year before 1 AD ("0044-03-15 BC", year
+// −43 as astronomers count) and a year past 9999 ("12000-01-01") are
+// times like any other: time.Parse read neither, and such a cell was
+// "not a finite number" in memory while the push-down, by EXTRACT, read
+// it (found by a sweep of column types). "infinity" and "-infinity" are
+// not numbers.
+func pgEpoch(s string) (float64, bool) {
+	m := pgTimeText.FindStringSubmatch(s)
+	if m == nil {
+		return 0, false
+	}
+	num := func(t string) int {
+		n, _ := strconv.Atoi(t)
+		return n
+	}
+	year := num(m[1])
+	if len(m[1]) > 7 || year == 0 {
+		return 0, false
+	}
+	if m[12] != "" {
+		year = 1 - year
+	}
+	t := time.Date(year, time.Month(num(m[2])), num(m[3]), num(m[4]), num(m[5]), num(m[6]), 0, time.UTC)
+	sec := t.Unix()
+	if m[8] != "" {
+		off := int64(num(m[9])*3600 + num(m[10])*60 + num(m[11]))
+		if m[8] == "+" {
+			sec -= off
+		} else {
+			sec += off
+		}
+	}
+	frac := m[7] // up to nine digits: the fraction of a second
+	if strings.Trim(frac, "0") == "" {
+		return float64(sec), true // exact below 2⁵³ s, and rounded once above
+	}
+	frac += strings.Repeat("0", 9-len(frac))
+	ns := int64(num(frac))
+	// sec + ns·10⁻⁹ written as a decimal: below 0 with a fraction, as
+	// −((−sec − 1) + (10⁹ − ns)·10⁻⁹).
+	var d []byte
+	if sec < 0 {
+		d = append(d, '-')
+		sec, ns = -sec-1, 1_000_000_000-ns
+	}
+	d = strconv.AppendInt(d, sec, 10)
+	d = append(d, '.')
+	f := strconv.AppendInt(nil, ns, 10)
+	d = append(d, strings.Repeat("0", 9-len(f))...)
+	d = append(d, f...)
+	v, err := strconv.ParseFloat(string(d), 64)
+	return v, err == nil
 }
 
 // queryError explains a failed query: a timeout, or the server's message.

@@ -6,6 +6,7 @@ import (
 	"encoding/hex"
 	"math"
 	"os"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -158,6 +159,57 @@ func TestShortDigits(t *testing.T) {
 	} {
 		if got := shortDigits(c.in); got != c.want {
 			t.Errorf("shortDigits(%.60q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+}
+
+// Dates and timestamps of any year PostgreSQL stores read as the seconds
+// PostgreSQL's own EXTRACT(EPOCH FROM …) gives (its documented "number of
+// seconds since 1970-01-01 00:00:00 UTC"; an exact numeric on
+// PostgreSQL 14 and later), its text read by strconv.ParseFloat,
+// correctly rounded as Python's float() is: years before 1 AD ("… BC")
+// and past 9999, a fraction before 1970 and one far from 1970 where the
+// sum of the whole seconds and the fraction is rounded. In memory these
+// were "not a finite number" (BC, five-digit years) while the push-down
+// read them by EXTRACT (found by a sweep of column types).
+func TestReadQueryTimesEpoch(t *testing.T) {
+	ctx, conn, url := pgSetup(t, "DROP TABLE IF EXISTS times_far",
+		"CREATE TABLE times_far (k integer, d date, ts timestamp, tz timestamptz)",
+		`INSERT INTO times_far VALUES
+		 (1, '0044-03-15 BC', '0044-03-15 12:30:00.5 BC', '0001-01-01 00:00:00.000001 BC+00'),
+		 (2, '12000-01-01', '12000-06-30 23:59:59.999999', '99999-12-31 00:00:00.123457+05:30'),
+		 (3, '1969-12-31', '1969-12-31 23:59:59.123457', '1900-01-01 00:00:00.7-03'),
+		 (4, '2026-10-01', '285000-01-01 00:00:00.000003', '2026-10-01 08:00:00.25+02')`)
+	var major int
+	if err := conn.QueryRow(ctx, "SELECT current_setting('server_version_num')::int / 10000").Scan(&major); err != nil {
+		t.Fatal(err)
+	}
+	if major < 14 {
+		t.Skipf("PostgreSQL %d: EXTRACT gives double precision before 14, not the exact seconds", major)
+	}
+	q := Query{SQL: "SELECT d, ts, tz FROM times_far ORDER BY k", Env: "BIVAR_TEST_PG_URL", URL: url}
+	tb, _, err := ReadQuery(ctx, q, Options{}, []string{"d", "ts", "tz"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []string{"d", "ts", "tz"} {
+		// ReadQuery orders by every column, d first: k's order here too.
+		rows, err := conn.Query(ctx, "SELECT EXTRACT(EPOCH FROM "+c+")::text FROM times_far ORDER BY d")
+		if err != nil {
+			t.Fatal(err)
+		}
+		texts, err := pgx.CollectRows(rows, pgx.RowTo[string])
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i, s := range texts {
+			want, err := strconv.ParseFloat(s, 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := tb.Numeric[c][i]; got != want {
+				t.Errorf("%s row %d = %.17g, want %.17g (EXTRACT(EPOCH) %s)", c, i+1, got, want, s)
+			}
 		}
 	}
 }

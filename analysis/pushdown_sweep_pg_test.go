@@ -237,3 +237,63 @@ func TestPushdownLackOfFitNoPureError(t *testing.T) {
 		t.Errorf("lack of fit in memory %+v, pushed %+v; want no pure error in both, on the same df", ml, pl)
 	}
 }
+
+// A column of a type bivar does not read (money, uuid, an enum, jsonb,
+// interval, time, an array) is refused whether the rows are fetched or
+// left in the database, as a number and as a group or id_column, and a
+// text or boolean column used as a number: each message names the
+// column and its type as PostgreSQL's format_type names it, and says to
+// cast it in the query. Pushed down, a group or id of such a type was
+// grouped by its text where in memory it failed, and the messages said
+// "the column is text" of a boolean and "the column's type is not one
+// bivar reads" without the type (found by a sweep of column types).
+func TestPushdownColumnTypes(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdtypes", "DROP TYPE IF EXISTS pdlevel", "CREATE TYPE pdlevel AS ENUM ('lo', 'hi')",
+		`CREATE TABLE pdtypes AS SELECT i AS id, (i * 0.7 + sin(i))::float8 AS x, (i * 0.3 + cos(i) * 2)::float8 AS y,
+		  (i * 1.5)::numeric::money AS m, md5(i::text)::uuid AS u, (ARRAY['lo', 'hi']::pdlevel[])[i % 2 + 1] AS e,
+		  jsonb_build_object('t', i) AS j, i * INTERVAL '1 min' AS iv, ARRAY[i] AS a, (i % 2 = 0) AS b, (i % 3)::text AS s
+		  FROM generate_series(1, 20) i`)
+	cases := []struct {
+		col, typ, msg string
+	}{
+		{"m", "money", "which bivar does not read: cast it in the query"},
+		{"u", "uuid", "which bivar does not read: cast it in the query"},
+		{"e", "pdlevel", "which bivar does not read: cast it in the query"},
+		{"j", "jsonb", "which bivar does not read: cast it in the query"},
+		{"iv", "interval", "which bivar does not read: cast it in the query"},
+		{"a", "integer[]", "which bivar does not read: cast it in the query"},
+		{"b", "boolean", `and a study uses it as a number: choose a numeric column, or cast it in the query ("b"::double precision)`},
+		{"s", "text", `and a study uses it as a number: choose a numeric column, or cast it in the query ("s"::double precision)`},
+	}
+	for _, c := range cases {
+		roles := map[string]struct{ decl, study string }{
+			"x":     {table("pdtypes"), "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"" + c.col + "\"\ny = \"y\"\n"},
+			"group": {table("pdtypes"), plain + "group = \"" + c.col + "\"\n"},
+			"id":    {"table = \"pdtypes\"\nid_column = \"" + c.col + "\"\n", plain},
+		}
+		for _, role := range []string{"x", "group", "id"} {
+			if (c.col == "b" || c.col == "s") && role != "x" {
+				continue // text and boolean serve as a group and an id
+			}
+			t.Run(c.col+"/"+role, func(t *testing.T) {
+				t.Setenv("BIVAR_TEST_DB", url)
+				dir := t.TempDir()
+				r := roles[role]
+				head := "[[dataset]]\nid = \"d\"\nconnection = \"BIVAR_TEST_DB\"\n" + r.decl
+				want := `column "` + c.col + `": the column is of type ` + c.typ + ", " + c.msg
+				_, err := runManifest(t, dir, head+r.study)
+				if err == nil || !strings.Contains(err.Error(), want) {
+					t.Errorf("in memory: %v; want %q", err, want)
+				}
+				pushed, err := runManifest(t, dir, head+"max_rows = 5\n"+r.study)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if got := errText(pushed.Studies[0].Error); !strings.Contains(got, want) {
+					t.Errorf("pushed down: %s; want %q", got, want)
+				}
+			})
+		}
+	}
+}

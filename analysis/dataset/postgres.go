@@ -198,9 +198,9 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		k := kinds[c.index]
 		switch {
 		case c.numeric && k == pgText:
-			return nil, nil, &Error{File: src, Column: c.name, Msg: fmt.Sprintf("the column is of type %s, and a study uses it as a number: choose a numeric column, or cast it in the query (%s::double precision)", typeName(c.index), pgx.Identifier{c.name}.Sanitize())}
+			return nil, nil, &Error{File: src, Column: c.name, Msg: textAsNumber(typeName(c.index), c.name)}
 		case k == pgOther:
-			return nil, nil, &Error{File: src, Column: c.name, Msg: fmt.Sprintf("the column is of type %s, which bivar does not read: cast it in the query to a number (::double precision), a timestamp or text (::text)", typeName(c.index))}
+			return nil, nil, &Error{File: src, Column: c.name, Msg: notRead(typeName(c.index))}
 		}
 		c.group = c.text && slices.Contains(opts.Groups, c.name)
 	}
@@ -308,6 +308,17 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 	}
 	t.SHA256 = hex.EncodeToString(h.Sum(nil))
 	return t, info, nil
+}
+
+// textAsNumber and notRead say why a column of the type typ (its
+// format_type) cannot serve as a study uses it, and what to do: the same
+// words whether the rows are fetched or left in the database.
+func textAsNumber(typ, col string) string {
+	return fmt.Sprintf("the column is of type %s, and a study uses it as a number: choose a numeric column, or cast it in the query (%s::double precision)", typ, pgx.Identifier{col}.Sanitize())
+}
+
+func notRead(typ string) string {
+	return fmt.Sprintf("the column is of type %s, which bivar does not read: cast it in the query to a number (::double precision), a timestamp or text (::text)", typ)
 }
 
 // open connects to q.URL and starts a transaction with opts, the statement

@@ -553,12 +553,23 @@ func (s *Session) numExpr(col string) (string, error) {
 	case pgTime:
 		return "CAST(EXTRACT(EPOCH FROM bivar_q." + id + ") AS double precision)", nil
 	case pgText:
-		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the column is text, and a study uses it as a number: choose a numeric column, or cast it in the query (" + id + "::double precision)"}
+		return "", &Error{File: s.q.err("").File, Column: col, Msg: textAsNumber(s.typeName(col), col)}
 	}
 	if !slices.Contains(s.Names, col) {
 		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the result has no such column: correct the study or the query"}
 	}
-	return "", &Error{File: s.q.err("").File, Column: col, Msg: "the column's type is not one bivar reads: cast it in the query to a number (::double precision), a timestamp or text (::text)"}
+	return "", &Error{File: s.q.err("").File, Column: col, Msg: notRead(s.typeName(col))}
+}
+
+// typeName is the type of the result column col as PostgreSQL names it
+// (format_type), for a message.
+func (s *Session) typeName(col string) string {
+	oid := s.oids[slices.Index(s.Names, col)]
+	var n string
+	if err := s.tx.QueryRow(s.ctx, "SELECT format_type($1, NULL)", oid).Scan(&n); err != nil {
+		return "oid " + strconv.Itoa(int(oid))
+	}
+	return n
 }
 
 // numericAsFloat is the SQL of a numeric (PostgreSQL's decimal type)
@@ -594,6 +605,13 @@ var numericOverflow, numericUnderflow = func() (string, string) {
 func (s *Session) textExpr(col string) (string, error) {
 	if !slices.Contains(s.Names, col) {
 		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the result has no such column: correct the study or the query"}
+	}
+	if s.kinds[col] == pgOther {
+		// Refused as when the rows are fetched (ReadQuery): a cast to
+		// text grouped by a money, uuid, enum or json column's text where
+		// the same rows below max_rows failed (found by a sweep of column
+		// types).
+		return "", &Error{File: s.q.err("").File, Column: col, Msg: notRead(s.typeName(col))}
 	}
 	c := "bivar_q." + pgx.Identifier{col}.Sanitize()
 	// The text the rows fetched below max_rows are read in (the type's

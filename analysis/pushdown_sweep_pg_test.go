@@ -297,3 +297,13 @@ func TestPushdownColumnTypes(t *testing.T) {
 		}
 	}
 }
+
+// An oid column reads as a number pushed down as in memory: PostgreSQL
+// casts oid to bigint but not to double precision, and the study failed
+// with "cannot cast type oid to double precision" where in memory it ran
+// (found by a sweep of column types).
+func TestPushdownOidColumn(t *testing.T) {
+	runAdv(t, []advCase{{name: "oid", setup: []string{"DROP TABLE IF EXISTS pdoid",
+		`CREATE TABLE pdoid AS SELECT i AS id, (i * 7 + i % 3)::oid AS x, (i * 0.3 + cos(i) * 2)::float8 AS y FROM generate_series(1, 30) i`},
+		decl: table("pdoid"), studies: plain + "[[study]]\nid = \"o\"\ndataset = \"d\"\nx = \"y\"\ny = \"x\"\norder = \"x\"\n", maxRows: 5}})
+}

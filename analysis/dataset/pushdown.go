@@ -549,6 +549,13 @@ func (s *Session) numExpr(col string) (string, error) {
 		if i := slices.Index(s.Names, col); i >= 0 && s.oids[i] == 1700 {
 			return numericAsFloat("bivar_q." + id), nil
 		}
+		if i := slices.Index(s.Names, col); i >= 0 && s.oids[i] == 26 {
+			// oid: PostgreSQL has no cast to double precision ("cannot
+			// cast type oid to double precision" failed the study that
+			// reads the same rows in memory; found by a sweep of column
+			// types), but one to bigint, exact for its 32 bits.
+			return "CAST(CAST(bivar_q." + id + " AS bigint) AS double precision)", nil
+		}
 		return "CAST(bivar_q." + id + " AS double precision)", nil
 	case pgTime:
 		return "CAST(EXTRACT(EPOCH FROM bivar_q." + id + ") AS double precision)", nil

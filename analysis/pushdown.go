@@ -272,7 +272,11 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	for i, name := range p.Names {
 		if c.NonNumeric[i] > 0 && !nonNumericMissing {
-			return s, fmt.Errorf("column %q holds %d values that are not finite numbers (NaN or infinite): filter them in the query, or set non_numeric = \"missing\" to count them as missing", name, c.NonNumeric[i])
+			what := fmt.Sprintf("%d values that are not finite numbers", c.NonNumeric[i])
+			if c.NonNumeric[i] == 1 {
+				what = "1 value that is not a finite number"
+			}
+			return s, fmt.Errorf("column %q holds %s (NaN or infinite): filter such rows in the query, or set non_numeric = \"missing\" to count them as missing", name, what)
 		}
 	}
 	s.N = c.Complete

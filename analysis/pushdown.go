@@ -14,6 +14,7 @@ import (
 	"context"
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -189,6 +190,13 @@ func pushedStudy(m *manifest.Manifest, st manifest.Study, ls *loadedSet, cfg Con
 	}
 	ps, err := pushdown(ls.push, spec, ls.decl.NonNumeric == "missing", maxLevels, st.AlsoIn, st.PredictAt, s, cfg)
 	if err != nil {
+		// A message about the data (a column's type, its levels, a
+		// number out of range) names the dataset, as when its rows are
+		// fetched.
+		var de *dataset.Error
+		if errors.As(err, &de) {
+			return fail(fmt.Sprintf("dataset %q: %v", ls.decl.ID, err))
+		}
 		return fail(err.Error())
 	}
 	return ps

@@ -246,7 +246,8 @@ func TestPushdownLackOfFitNoPureError(t *testing.T) {
 // cast it in the query. Pushed down, a group or id of such a type was
 // grouped by its text where in memory it failed, and the messages said
 // "the column is text" of a boolean and "the column's type is not one
-// bivar reads" without the type (found by a sweep of column types).
+// bivar reads" without the type nor the dataset (found by a sweep of
+// column types).
 func TestPushdownColumnTypes(t *testing.T) {
 	url := pgURL(t)
 	pgExec(t, url, "DROP TABLE IF EXISTS pdtypes", "DROP TYPE IF EXISTS pdlevel", "CREATE TYPE pdlevel AS ENUM ('lo', 'hi')",
@@ -283,15 +284,15 @@ func TestPushdownColumnTypes(t *testing.T) {
 				head := "[[dataset]]\nid = \"d\"\nconnection = \"BIVAR_TEST_DB\"\n" + r.decl
 				want := `column "` + c.col + `": the column is of type ` + c.typ + ", " + c.msg
 				_, err := runManifest(t, dir, head+r.study)
-				if err == nil || !strings.Contains(err.Error(), want) {
-					t.Errorf("in memory: %v; want %q", err, want)
+				if err == nil || !strings.Contains(err.Error(), want) || !strings.Contains(err.Error(), `dataset "d" (`) {
+					t.Errorf("in memory: %v; want dataset \"d\" and %q", err, want)
 				}
 				pushed, err := runManifest(t, dir, head+"max_rows = 5\n"+r.study)
 				if err != nil {
 					t.Fatal(err)
 				}
-				if got := errText(pushed.Studies[0].Error); !strings.Contains(got, want) {
-					t.Errorf("pushed down: %s; want %q", got, want)
+				if got := errText(pushed.Studies[0].Error); !strings.Contains(got, "pg.toml:") || !strings.Contains(got, `dataset "d": PostgreSQL (BIVAR_TEST_DB): `+want) {
+					t.Errorf("pushed down: %s; want the manifest's line, dataset \"d\" and %q", got, want)
 				}
 			})
 		}

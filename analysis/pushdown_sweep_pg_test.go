@@ -247,25 +247,33 @@ func TestPushdownLackOfFitNoPureError(t *testing.T) {
 // grouped by its text where in memory it failed, and the messages said
 // "the column is text" of a boolean and "the column's type is not one
 // bivar reads" without the type nor the dataset (found by a sweep of
-// column types).
+// column types). The advice said "::double precision" of money, an
+// interval, json and a boolean, which PostgreSQL refuses.
 func TestPushdownColumnTypes(t *testing.T) {
 	url := pgURL(t)
 	pgExec(t, url, "DROP TABLE IF EXISTS pdtypes", "DROP TYPE IF EXISTS pdlevel", "CREATE TYPE pdlevel AS ENUM ('lo', 'hi')",
 		`CREATE TABLE pdtypes AS SELECT i AS id, (i * 0.7 + sin(i))::float8 AS x, (i * 0.3 + cos(i) * 2)::float8 AS y,
 		  (i * 1.5)::numeric::money AS m, md5(i::text)::uuid AS u, (ARRAY['lo', 'hi']::pdlevel[])[i % 2 + 1] AS e,
-		  jsonb_build_object('t', i) AS j, i * INTERVAL '1 min' AS iv, ARRAY[i] AS a, (i % 2 = 0) AS b, (i % 3)::text AS s
+		  jsonb_build_object('t', i) AS j, i * INTERVAL '1 min' AS iv, TIME '01:00' + i * INTERVAL '1 s' AS tm, ARRAY[i] AS a, (i % 2 = 0) AS b, (i % 3)::text AS s
 		  FROM generate_series(1, 20) i`)
+	// Each message's advice is SQL, run below on the table: PostgreSQL
+	// casts money to numeric and not to double precision, and an
+	// interval or a time to no number (its own documented casts, \dC).
 	cases := []struct {
-		col, typ, msg string
+		col, typ, msg, sql string
 	}{
-		{"m", "money", "which bivar does not read: cast it in the query"},
-		{"u", "uuid", "which bivar does not read: cast it in the query"},
-		{"e", "pdlevel", "which bivar does not read: cast it in the query"},
-		{"j", "jsonb", "which bivar does not read: cast it in the query"},
-		{"iv", "interval", "which bivar does not read: cast it in the query"},
-		{"a", "integer[]", "which bivar does not read: cast it in the query"},
-		{"b", "boolean", `and a study uses it as a number: choose a numeric column, or cast it in the query ("b"::double precision)`},
-		{"s", "text", `and a study uses it as a number: choose a numeric column, or cast it in the query ("s"::double precision)`},
+		{"m", "money", `which bivar does not read: cast it in the query to numeric ("m"::numeric AS "m")`, `"m"::numeric`},
+		{"u", "uuid", `which bivar does not read: cast it in the query to a number ("u"::double precision), a timestamp, or text for a group or an id ("u"::text)`, `"u"::text`},
+		{"e", "pdlevel", `which bivar does not read: cast it in the query to a number ("e"::double precision), a timestamp, or text for a group or an id ("e"::text)`, `"e"::text`},
+		{"j", "jsonb", `which bivar does not read: take a value out of it in the query (("j"->>'key')::double precision AS "j")`, `("j"->>'t')::double precision`},
+		{"iv", "interval", `which bivar does not read: take its seconds in the query (EXTRACT(EPOCH FROM "iv") AS "iv")`, `EXTRACT(EPOCH FROM "iv")`},
+		{"tm", "time without time zone", `which bivar does not read: take its seconds in the query (EXTRACT(EPOCH FROM "tm") AS "tm")`, `EXTRACT(EPOCH FROM "tm")`},
+		{"a", "integer[]", `which bivar does not read: take an element out of it in the query ("a"[1] AS "a")`, `"a"[1]`},
+		{"b", "boolean", `and a study uses it as a number: choose a numeric column, or cast it in the query ("b"::integer)`, `"b"::integer`},
+		{"s", "text", `and a study uses it as a number: choose a numeric column, or cast it in the query ("s"::double precision)`, `"s"::double precision`},
+	}
+	for _, c := range cases {
+		pgExec(t, url, "SELECT "+c.sql+" FROM pdtypes")
 	}
 	for _, c := range cases {
 		roles := map[string]struct{ decl, study string }{

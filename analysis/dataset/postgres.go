@@ -200,7 +200,7 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		case c.numeric && k == pgText:
 			return nil, nil, &Error{File: src, Column: c.name, Msg: textAsNumber(typeName(c.index), c.name)}
 		case k == pgOther:
-			return nil, nil, &Error{File: src, Column: c.name, Msg: notRead(typeName(c.index))}
+			return nil, nil, &Error{File: src, Column: c.name, Msg: notRead(typeName(c.index), c.name)}
 		}
 		c.group = c.text && slices.Contains(opts.Groups, c.name)
 	}
@@ -314,11 +314,32 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 // format_type) cannot serve as a study uses it, and what to do: the same
 // words whether the rows are fetched or left in the database.
 func textAsNumber(typ, col string) string {
-	return fmt.Sprintf("the column is of type %s, and a study uses it as a number: choose a numeric column, or cast it in the query (%s::double precision)", typ, pgx.Identifier{col}.Sanitize())
+	to := "double precision"
+	if typ == "boolean" {
+		to = "integer" // false 0, true 1: a boolean has no cast to double precision
+	}
+	return fmt.Sprintf("the column is of type %s, and a study uses it as a number: choose a numeric column, or cast it in the query (%s::%s)", typ, pgx.Identifier{col}.Sanitize(), to)
 }
 
-func notRead(typ string) string {
-	return fmt.Sprintf("the column is of type %s, which bivar does not read: cast it in the query to a number (::double precision), a timestamp or text (::text)", typ)
+// notRead's advice is SQL that PostgreSQL runs on the column: money has a
+// cast to numeric but none to double precision, an interval or a time
+// none to a number at all (its seconds are EXTRACT(EPOCH FROM …)), json
+// a cast of an object to none; the advice said "::double precision" to
+// each (found by a sweep of column types).
+func notRead(typ, col string) string {
+	id := pgx.Identifier{col}.Sanitize()
+	how := fmt.Sprintf("cast it in the query to a number (%s::double precision), a timestamp, or text for a group or an id (%s::text)", id, id)
+	switch {
+	case typ == "money":
+		how = fmt.Sprintf("cast it in the query to numeric (%s::numeric AS %s), or to text for a group or an id", id, id)
+	case typ == "interval" || strings.HasPrefix(typ, "time with"):
+		how = fmt.Sprintf("take its seconds in the query (EXTRACT(EPOCH FROM %s) AS %s), or cast it to text for a group or an id", id, id)
+	case typ == "json" || typ == "jsonb":
+		how = fmt.Sprintf("take a value out of it in the query ((%s->>'key')::double precision AS %s), as text for a group or an id (%s->>'key')", id, id, id)
+	case strings.HasSuffix(typ, "[]"):
+		how = fmt.Sprintf("take an element out of it in the query (%s[1] AS %s)", id, id)
+	}
+	return fmt.Sprintf("the column is of type %s, which bivar does not read: %s", typ, how)
 }
 
 // open connects to q.URL and starts a transaction with opts, the statement

@@ -565,7 +565,7 @@ func (s *Session) numExpr(col string) (string, error) {
 	if !slices.Contains(s.Names, col) {
 		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the result has no such column: correct the study or the query"}
 	}
-	return "", &Error{File: s.q.err("").File, Column: col, Msg: notRead(s.typeName(col))}
+	return "", &Error{File: s.q.err("").File, Column: col, Msg: notRead(s.typeName(col), col)}
 }
 
 // typeName is the type of the result column col as PostgreSQL names it
@@ -618,7 +618,7 @@ func (s *Session) textExpr(col string) (string, error) {
 		// text grouped by a money, uuid, enum or json column's text where
 		// the same rows below max_rows failed (found by a sweep of column
 		// types).
-		return "", &Error{File: s.q.err("").File, Column: col, Msg: notRead(s.typeName(col))}
+		return "", &Error{File: s.q.err("").File, Column: col, Msg: notRead(s.typeName(col), col)}
 	}
 	c := "bivar_q." + pgx.Identifier{col}.Sanitize()
 	// The text the rows fetched below max_rows are read in (the type's

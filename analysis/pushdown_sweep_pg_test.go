@@ -316,3 +316,28 @@ func TestPushdownOidColumn(t *testing.T) {
 		`CREATE TABLE pdoid AS SELECT i AS id, (i * 7 + i % 3)::oid AS x, (i * 0.3 + cos(i) * 2)::float8 AS y FROM generate_series(1, 30) i`},
 		decl: table("pdoid"), studies: plain + "[[study]]\nid = \"o\"\ndataset = \"d\"\nx = \"y\"\ny = \"x\"\norder = \"x\"\n", maxRows: 5}})
 }
+
+// A date column holding 'infinity' and '-infinity' (PostgreSQL's
+// documented special date values) beside NULL: the study that does not
+// use it runs pushed down as in memory, and with non_numeric = "missing"
+// the study of it as x counts the two as non-numeric in both. Pushed
+// down the dataset's hash subtracted a date from each date, and the
+// server refused ("cannot subtract infinite dates"), so every study of
+// the dataset failed (found by a sweep of column types).
+func TestPushdownInfiniteDate(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdinfdate",
+		`CREATE TABLE pdinfdate AS SELECT i AS id, (i * 0.7 + sin(i))::float8 AS x, (i * 0.3 + cos(i) * 2)::float8 AS y,
+		  CASE WHEN i = 3 THEN 'infinity'::date WHEN i = 4 THEN '-infinity'::date WHEN i = 5 THEN NULL ELSE DATE '2026-01-01' + i * 3 END AS d
+		  FROM generate_series(1, 30) i`)
+	mem, pushed := runBothDecl(t, url, table("pdinfdate")+"non_numeric = \"missing\"\n",
+		plain+"[[study]]\nid = \"d\"\ndataset = \"d\"\nx = \"d\"\ny = \"y\"\n", 5)
+	for i := range mem.Studies {
+		m, p := mem.Studies[i], pushed.Studies[i]
+		sameStudy(t, m.ID, m, p, nil)
+	}
+	m, p := mem.Studies[1], pushed.Studies[1]
+	if m.N != 27 || p.N != 27 || !slices.Equal(m.Excluded, p.Excluded) {
+		t.Errorf("x = d: n %d in memory, %d pushed (want 27: one NULL, two infinite); excluded %v in memory, %v pushed", m.N, p.N, m.Excluded, p.Excluded)
+	}
+}

@@ -451,8 +451,15 @@ func colHash(oid uint32, c, seed string) string {
 		return "hash_numeric_extended(" + c + ", " + seed + ")"
 	case 16: // bool
 		return "hashint4extended(CAST(" + c + " AS integer), " + seed + ")"
-	case 1082: // date: days since 2000-01-01, as the type stores it
-		return "hashint4extended(" + c + " - DATE '2000-01-01', " + seed + ")"
+	case 1082:
+		// date: days since 2000-01-01, as the type stores it, and its
+		// infinities as it stores them (DATEVAL_NOEND and DATEVAL_NOBEGIN,
+		// the largest and least int4, src/include/utils/date.h): the
+		// difference alone fails, "cannot subtract infinite dates", and a
+		// date column holding 'infinity' failed the dataset that in memory
+		// reads (found by a sweep of column types). NULL stays NULL.
+		return "hashint4extended(CASE WHEN " + c + " = DATE 'infinity' THEN 2147483647 WHEN " + c + " = DATE '-infinity' THEN -2147483648 ELSE " +
+			c + " - DATE '2000-01-01' END, " + seed + ")"
 	case 1114: // timestamp
 		return "timestamp_hash_extended(" + c + ", " + seed + ")"
 	case 1184: // timestamptz, as a UTC timestamp (the session's time zone)

@@ -341,3 +341,35 @@ func TestPushdownInfiniteDate(t *testing.T) {
 		t.Errorf("x = d: n %d in memory, %d pushed (want 27: one NULL, two infinite); excluded %v in memory, %v pushed", m.N, p.N, m.Excluded, p.Excluded)
 	}
 }
+
+// A query whose result names a column a study uses twice (SELECT x, …,
+// y * 2 AS x) fails the dataset in both paths with one message, naming
+// the two columns and how to rename one: fetched it said "the header
+// names this column twice", pushed down it was the server's "column
+// reference "x" is ambiguous" (found by a sweep of column types). A
+// duplicate the studies do not use is no error in either.
+func TestPushdownDuplicateColumn(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pddup",
+		`CREATE TABLE pddup AS SELECT i AS id, (i * 0.7 + sin(i))::float8 AS x, (i * 0.3 + cos(i) * 2)::float8 AS y FROM generate_series(1, 20) i`)
+	t.Setenv("BIVAR_TEST_DB", url)
+	for _, c := range []struct{ query, want string }{
+		{"SELECT id, x, y, y * 2 AS x FROM pddup", `column "x": the result names this column twice (columns 2 and 4), and a study uses it: give one of them another name in the query (… AS another_name)`},
+		{"SELECT id, x, y, x AS id FROM pddup", `column "id": the result names this column twice (columns 1 and 4), and a study uses it`},
+		{"SELECT id, x, y, y AS z, x AS z FROM pddup", ""},
+	} {
+		head := "[[dataset]]\nid = \"d\"\nconnection = \"BIVAR_TEST_DB\"\nquery = \"" + c.query + "\"\nid_column = \"id\"\n"
+		for _, limit := range []string{"", "max_rows = 5\n"} {
+			r, err := runManifest(t, t.TempDir(), head+limit+plain)
+			if c.want == "" {
+				if err != nil || r.Studies[0].Error != nil {
+					t.Errorf("%s (%q): %v %v; want the study to run", c.query, limit, err, r)
+				}
+				continue
+			}
+			if err == nil || !strings.Contains(err.Error(), `pg.toml:1): PostgreSQL (BIVAR_TEST_DB): `+c.want) {
+				t.Errorf("%s (%q): %v\nwant %s", c.query, limit, err, c.want)
+			}
+		}
+	}
+}

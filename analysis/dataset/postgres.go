@@ -178,6 +178,9 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		numeric = slices.DeleteFunc(slices.Clone(numeric), has)
 		text = slices.DeleteFunc(slices.Clone(text), has)
 	}
+	if err := q.Twice(names, append(slices.Clone(numeric), text...)); err != nil {
+		return nil, nil, err
+	}
 	cols, err := selectColumns(src, names, numeric, text)
 	if err != nil {
 		var e *Error
@@ -308,6 +311,25 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 	}
 	t.SHA256 = hex.EncodeToString(h.Sum(nil))
 	return t, info, nil
+}
+
+// Twice is an error naming the first column of want that a query's
+// result, whose columns are names, holds more than once (nil when none
+// is): SQL cannot tell the two apart. The same message whether the rows
+// are fetched or left in the database: fetched, it said "the header
+// names this column twice", pushed down the server's "column reference
+// … is ambiguous" (found by a sweep of column types).
+func (q Query) Twice(names, want []string) error {
+	for _, c := range want {
+		i := slices.Index(names, c)
+		if i < 0 {
+			continue
+		}
+		if j := slices.Index(names[i+1:], c); j >= 0 {
+			return &Error{File: q.err("").File, Column: c, Msg: fmt.Sprintf("the result names this column twice (columns %d and %d), and a study uses it: give one of them another name in the query (… AS another_name)", i+1, i+j+2)}
+		}
+	}
+	return nil
 }
 
 // textAsNumber and notRead say why a column of the type typ (its

@@ -97,6 +97,9 @@ func loadPushed(ds manifest.Dataset, q dataset.Query, limit int, numeric, text [
 	if err := q.Twice(sess.Names, cols); err != nil {
 		return nil, err
 	}
+	if err := sess.CheckTypes(numeric, text); err != nil {
+		return nil, err
+	}
 	ls := &loadedSet{decl: ds, absent: map[string]bool{}, columns: sess.Names, push: &pushed{q: q, limit: limit, cols: cols}}
 	ls.info = report.Dataset{ID: ds.ID, Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{},
 		Source: &report.Source{Kind: report.SourcePostgreSQL, ServerVersion: sess.ServerVersion,

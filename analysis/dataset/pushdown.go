@@ -575,6 +575,30 @@ func (s *Session) numExpr(col string) (string, error) {
 	return "", &Error{File: s.q.err("").File, Column: col, Msg: notRead(s.typeName(col), col)}
 }
 
+// CheckTypes is an error naming the first column of numeric (used as
+// numbers) or text (used as a group or an id) that the result has and
+// that bivar cannot read so, with the message ReadQuery gives when the
+// rows are fetched: a dataset whose studies use such a column fails in
+// both paths alike, not only the study that uses it (found by a sweep of
+// column types). Columns the result lacks are the studies' to report.
+func (s *Session) CheckTypes(numeric, text []string) error {
+	for _, c := range numeric {
+		if slices.Contains(s.Names, c) {
+			if _, err := s.numExpr(c); err != nil {
+				return err
+			}
+		}
+	}
+	for _, c := range text {
+		if slices.Contains(s.Names, c) {
+			if _, err := s.textExpr(c); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
 // typeName is the type of the result column col as PostgreSQL names it
 // (format_type), for a message.
 func (s *Session) typeName(col string) string {

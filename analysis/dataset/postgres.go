@@ -499,66 +499,106 @@ func pgNumberOf(k pgKind, b []byte) (float64, bool) {
 	return v, true
 }
 
-// pgTimeText is a date, timestamp or timestamptz as PostgreSQL writes it
-// under DateStyle ISO: a year of four digits or more, the time with up
-// to six fractional digits, the offset (+00 in UTC, seconds only where
-// the zone has them), and " BC" for a year before 1 AD.
-var pgTimeText = regexp.MustCompile(`^([0-9]{4,})-([0-9]{2})-([0-9]{2})(?: ([0-9]{2}):([0-9]{2}):([0-9]{2})(?:\.([0-9]{1,9}))?)?(?:([+-])([0-9]{2})(?::([0-9]{2}))?(?::([0-9]{2}))?)?( BC)?$`)
-
-// pgEpoch is the date or timestamp s (PostgreSQL's ISO text output) as
-// seconds since 1970-01-01 00:00 UTC in the proleptic Gregorian calendar,
-// as PostgreSQL's EXTRACT(EPOCH FROM …) gives them, correctly rounded to
+// pgEpoch is the date or timestamp s, PostgreSQL's text output under
+// DateStyle ISO (a year of four digits or more, the time with up to six
+// fractional digits, the offset: +00 in UTC, minutes and seconds only
+// where the zone has them, and " BC" for a year before 1 AD), as seconds
+// since 1970-01-01 00:00 UTC in the proleptic Gregorian calendar, as
+// PostgreSQL's EXTRACT(EPOCH FROM …) gives them, correctly rounded to
 // float64: the exact decimal sum of the whole seconds and the fraction is
 // read by strconv.ParseFloat. A year before 1 AD ("0044-03-15 BC", year
 // −43 as astronomers count) and a year past 9999 ("12000-01-01") are
 // times like any other: time.Parse read neither, and such a cell was
 // "not a finite number" in memory while the push-down, by EXTRACT, read
 // it (found by a sweep of column types). "infinity" and "-infinity" are
-// not numbers.
+// not numbers. Read by hand: a regular expression took 2.0–2.6 µs a
+// cell, time.Parse 0.14 µs, this 0.13 µs with a fraction and 0.05 µs
+// without (go test -bench, medians of 3 runs).
 func pgEpoch(s string) (float64, bool) {
-	m := pgTimeText.FindStringSubmatch(s)
-	if m == nil {
-		return 0, false
-	}
-	num := func(t string) int {
-		n, _ := strconv.Atoi(t)
+	ok := true
+	digits := func(t string) int { // t's value, all digits, or ok = false
+		n := 0
+		for i := 0; i < len(t); i++ {
+			if t[i] < '0' || t[i] > '9' {
+				ok = false
+				return 0
+			}
+			n = n*10 + int(t[i]-'0')
+		}
 		return n
 	}
-	year := num(m[1])
-	if len(m[1]) > 7 || year == 0 {
+	bc := strings.HasSuffix(s, " BC")
+	s = strings.TrimSuffix(s, " BC")
+	y := strings.IndexByte(s, '-')
+	if y < 4 || y > 7 || len(s) < y+6 || s[y+3] != '-' {
 		return 0, false
 	}
-	if m[12] != "" {
-		year = 1 - year
-	}
-	t := time.Date(year, time.Month(num(m[2])), num(m[3]), num(m[4]), num(m[5]), num(m[6]), 0, time.UTC)
-	sec := t.Unix()
-	if m[8] != "" {
-		off := int64(num(m[9])*3600 + num(m[10])*60 + num(m[11]))
-		if m[8] == "+" {
-			sec -= off
-		} else {
-			sec += off
+	year, month, day := digits(s[:y]), digits(s[y+1:y+3]), digits(s[y+4:y+6])
+	s = s[y+6:]
+	var hour, minute, sec int
+	frac := ""
+	if len(s) > 0 && s[0] == ' ' {
+		if len(s) < 9 || s[3] != ':' || s[6] != ':' {
+			return 0, false
+		}
+		hour, minute, sec = digits(s[1:3]), digits(s[4:6]), digits(s[7:9])
+		s = s[9:]
+		if len(s) > 0 && s[0] == '.' {
+			j := 1
+			for j < len(s) && s[j] >= '0' && s[j] <= '9' {
+				j++
+			}
+			frac, s = s[1:j], s[j:]
+			if frac == "" || len(frac) > 9 {
+				return 0, false
+			}
 		}
 	}
-	frac := m[7] // up to nine digits: the fraction of a second
-	if strings.Trim(frac, "0") == "" {
-		return float64(sec), true // exact below 2⁵³ s, and rounded once above
+	var off int64
+	if len(s) > 0 && (s[0] == '+' || s[0] == '-') {
+		neg := s[0] == '-'
+		if len(s) < 3 {
+			return 0, false
+		}
+		off, s = int64(digits(s[1:3]))*3600, s[3:]
+		for _, unit := range []int64{60, 1} {
+			if len(s) >= 3 && s[0] == ':' {
+				off, s = off+int64(digits(s[1:3]))*unit, s[3:]
+			}
+		}
+		if neg {
+			off = -off
+		}
 	}
-	frac += strings.Repeat("0", 9-len(frac))
-	ns := int64(num(frac))
-	// sec + ns·10⁻⁹ written as a decimal: below 0 with a fraction, as
-	// −((−sec − 1) + (10⁹ − ns)·10⁻⁹).
-	var d []byte
-	if sec < 0 {
+	if !ok || s != "" || year == 0 {
+		return 0, false
+	}
+	if bc {
+		year = 1 - year
+	}
+	t := time.Date(year, time.Month(month), day, hour, minute, sec, 0, time.UTC)
+	whole := t.Unix() - off
+	ns := int64(digits(frac))
+	for i := len(frac); i < 9; i++ {
+		ns *= 10
+	}
+	if ns == 0 {
+		return float64(whole), true // exact below 2⁵³ s, and rounded once above
+	}
+	// whole + ns·10⁻⁹ written as a decimal: below 0 with a fraction, as
+	// −((−whole − 1) + (10⁹ − ns)·10⁻⁹).
+	var buf [40]byte
+	d := buf[:0]
+	if whole < 0 {
 		d = append(d, '-')
-		sec, ns = -sec-1, 1_000_000_000-ns
+		whole, ns = -whole-1, 1_000_000_000-ns
 	}
-	d = strconv.AppendInt(d, sec, 10)
+	d = strconv.AppendInt(d, whole, 10)
 	d = append(d, '.')
-	f := strconv.AppendInt(nil, ns, 10)
-	d = append(d, strings.Repeat("0", 9-len(f))...)
-	d = append(d, f...)
+	for unit := int64(100_000_000); unit > 0 && ns > 0; unit /= 10 {
+		d = append(d, byte('0'+ns/unit))
+		ns %= unit // no trailing zeros: 19 digits or fewer parse fast
+	}
 	v, err := strconv.ParseFloat(string(d), 64)
 	return v, err == nil
 }

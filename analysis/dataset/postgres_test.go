@@ -213,3 +213,34 @@ func TestReadQueryTimesEpoch(t *testing.T) {
 		}
 	}
 }
+
+// pgEpoch reads each form of PostgreSQL's ISO date and timestamp output
+// (its documented DateStyle ISO: "1997-12-17 07:37:16-08", an offset with
+// minutes or seconds for zones that have them, " BC") as Go's time
+// package places the same instant, the fraction added exactly (the
+// decimal's value by strconv.ParseFloat, correctly rounded); anything
+// else is no number.
+func TestPgEpoch(t *testing.T) {
+	for _, c := range []struct {
+		in   string
+		want float64
+	}{
+		{"1997-12-17 07:37:16-08", float64(time.Date(1997, 12, 17, 15, 37, 16, 0, time.UTC).Unix())},
+		{"1997-12-17 07:37:16+05:30", float64(time.Date(1997, 12, 17, 2, 7, 16, 0, time.UTC).Unix())},
+		{"1890-01-01 00:00:00+00:53:28", float64(time.Date(1889, 12, 31, 23, 6, 32, 0, time.UTC).Unix())},
+		{"1969-12-31 23:59:59.75", -0.25},
+		{"1969-12-31 23:59:58.000001", -1.999999},
+		{"2026-10-01", float64(time.Date(2026, 10, 1, 0, 0, 0, 0, time.UTC).Unix())},
+		{"0001-01-01 BC", float64(time.Date(0, 1, 1, 0, 0, 0, 0, time.UTC).Unix())},
+		{"2026-10-01 08:00:00.1", 1790841600.1}, // 1790812800 (Python 3.11: datetime(2026, 10, 1, tzinfo=timezone.utc).timestamp()) + 8 h + 0.1 s
+	} {
+		if got, ok := pgEpoch(c.in); !ok || got != c.want {
+			t.Errorf("pgEpoch(%q) = %.17g, %v; want %.17g", c.in, got, ok, c.want)
+		}
+	}
+	for _, bad := range []string{"infinity", "-infinity", "", "2026-1-01", "26-10-01", "2026-10-01 8:00:00", "2026-10-01 08:00:00.", "2026-10-01 08:00:00+", "2026-10-01x", "0000-01-01", "2026-10-01 BC BC"} {
+		if v, ok := pgEpoch(bad); ok {
+			t.Errorf("pgEpoch(%q) = %v, want no number", bad, v)
+		}
+	}
+}

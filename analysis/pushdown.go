@@ -290,7 +290,8 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 			if c.NonNumeric[i] == 1 {
 				what = "1 value that is not a finite number"
 			}
-			return s, fmt.Errorf("column %q holds %s (NaN or infinite): filter such rows in the query, or set non_numeric = \"missing\" to count them as missing", name, what)
+			return s, &dataset.Error{File: "PostgreSQL (" + pu.q.Env + ")", Column: name,
+				Msg: fmt.Sprintf("it holds %s (NaN or infinite): filter such rows in the query, or set non_numeric = \"missing\" to count them as missing", what)}
 		}
 	}
 	s.N = c.Complete

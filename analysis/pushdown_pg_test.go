@@ -249,7 +249,7 @@ func TestPushdownStudyErrors(t *testing.T) {
 	}
 	for i, want := range []string{
 		`pg.toml:7: in this [[study]]: dataset "d" gives 40 rows, more than its max_rows = 10, so its rows stay in the database, where exclude, subset and where do not apply: put the filter in the dataset's query`,
-		`pg.toml:13: in this [[study]]: column "w" holds 1 value that is not a finite number (NaN or infinite): filter such rows in the query, or set non_numeric = "missing"`,
+		`pg.toml:13: in this [[study]]: dataset "d": PostgreSQL (BIVAR_TEST_DB): column "w": it holds 1 value that is not a finite number (NaN or infinite): filter such rows in the query, or set non_numeric = "missing"`,
 		`pg.toml:18: in this [[study]]: dataset "d": PostgreSQL (BIVAR_TEST_DB): column "g": a group column may hold at most 5 distinct values, and this one holds more`,
 	} {
 		if e := r.Studies[i].Error; e == nil || !strings.Contains(*e, want) {

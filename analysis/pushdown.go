@@ -14,6 +14,7 @@ import (
 	"context"
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -93,6 +94,12 @@ func loadPushed(ds manifest.Dataset, q dataset.Query, limit int, numeric, text [
 		timeout = dataset.DefaultStatementTimeout
 	}
 	cols := append(slices.Clone(numeric), text...)
+	if err := q.Twice(sess.Names, cols); err != nil {
+		return nil, err
+	}
+	if err := sess.CheckTypes(numeric, text); err != nil {
+		return nil, err
+	}
 	ls := &loadedSet{decl: ds, absent: map[string]bool{}, columns: sess.Names, push: &pushed{q: q, limit: limit, cols: cols}}
 	ls.info = report.Dataset{ID: ds.ID, Missing: []report.ColumnCount{}, NonNumeric: []report.ColumnCount{},
 		Source: &report.Source{Kind: report.SourcePostgreSQL, ServerVersion: sess.ServerVersion,
@@ -189,6 +196,13 @@ func pushedStudy(m *manifest.Manifest, st manifest.Study, ls *loadedSet, cfg Con
 	}
 	ps, err := pushdown(ls.push, spec, ls.decl.NonNumeric == "missing", maxLevels, st.AlsoIn, st.PredictAt, s, cfg)
 	if err != nil {
+		// A message about the data (a column's type, its levels, a
+		// number out of range) names the dataset, as when its rows are
+		// fetched.
+		var de *dataset.Error
+		if errors.As(err, &de) {
+			return fail(fmt.Sprintf("dataset %q: %v", ls.decl.ID, err))
+		}
 		return fail(err.Error())
 	}
 	return ps
@@ -272,7 +286,12 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	}
 	for i, name := range p.Names {
 		if c.NonNumeric[i] > 0 && !nonNumericMissing {
-			return s, fmt.Errorf("column %q holds %d values that are not finite numbers (NaN or infinite): filter them in the query, or set non_numeric = \"missing\" to count them as missing", name, c.NonNumeric[i])
+			what := fmt.Sprintf("%d values that are not finite numbers", c.NonNumeric[i])
+			if c.NonNumeric[i] == 1 {
+				what = "1 value that is not a finite number"
+			}
+			return s, &dataset.Error{File: "PostgreSQL (" + pu.q.Env + ")", Column: name,
+				Msg: fmt.Sprintf("it holds %s (NaN or infinite): filter such rows in the query, or set non_numeric = \"missing\" to count them as missing", what)}
 		}
 	}
 	s.N = c.Complete

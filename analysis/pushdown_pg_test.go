@@ -249,8 +249,8 @@ func TestPushdownStudyErrors(t *testing.T) {
 	}
 	for i, want := range []string{
 		`pg.toml:7: in this [[study]]: dataset "d" gives 40 rows, more than its max_rows = 10, so its rows stay in the database, where exclude, subset and where do not apply: put the filter in the dataset's query`,
-		`pg.toml:13: in this [[study]]: column "w" holds 1 values that are not finite numbers (NaN or infinite): filter them in the query, or set non_numeric = "missing"`,
-		`pg.toml:18: in this [[study]]: PostgreSQL (BIVAR_TEST_DB): column "g": a group column may hold at most 5 distinct values, and this one holds more`,
+		`pg.toml:13: in this [[study]]: dataset "d": PostgreSQL (BIVAR_TEST_DB): column "w": it holds 1 value that is not a finite number (NaN or infinite): filter such rows in the query, or set non_numeric = "missing"`,
+		`pg.toml:18: in this [[study]]: dataset "d": PostgreSQL (BIVAR_TEST_DB): column "g": a group column may hold at most 5 distinct values, and this one holds more`,
 	} {
 		if e := r.Studies[i].Error; e == nil || !strings.Contains(*e, want) {
 			t.Errorf("study %s: error %s\nwant %s", r.Studies[i].ID, errText(e), want)
@@ -261,7 +261,7 @@ func TestPushdownStudyErrors(t *testing.T) {
 	}
 	// y near 10¹⁵⁰: the fourth powers of its deviations pass double
 	// precision's range in the database's sums.
-	if e := r.Studies[5].Error; e == nil || !strings.Contains(*e, `pg.toml:35: in this [[study]]: PostgreSQL (BIVAR_TEST_DB): a number went out of range in the database (value out of range: overflow): unless the query itself fails so in psql`) ||
+	if e := r.Studies[5].Error; e == nil || !strings.Contains(*e, `pg.toml:35: in this [[study]]: dataset "d": PostgreSQL (BIVAR_TEST_DB): a number went out of range in the database (value out of range: overflow): unless the query itself fails so in psql`) ||
 		!strings.Contains(*e, "raise max_rows above the row count") {
 		t.Errorf("study huge: error %s", errText(e))
 	}

@@ -237,3 +237,136 @@ func TestPushdownLackOfFitNoPureError(t *testing.T) {
 		t.Errorf("lack of fit in memory %+v, pushed %+v; want no pure error in both, on the same df", ml, pl)
 	}
 }
+
+// A column of a type bivar does not read (money, uuid, an enum, jsonb,
+// interval, time, an array) is refused whether the rows are fetched or
+// left in the database, as a number and as a group or id_column, and a
+// text or boolean column used as a number: each message names the
+// column and its type as PostgreSQL's format_type names it, and says to
+// cast it in the query; the dataset fails in both paths. Pushed down, a
+// group or id of such a type was grouped by its text where in memory it
+// failed, the messages said "the column is text" of a boolean and "the
+// column's type is not one bivar reads" without the type nor the
+// dataset, and only the study that used the column failed where in
+// memory the dataset does (found by a sweep of column types). The
+// advice said "::double precision" of money, an interval, json and a
+// boolean, which PostgreSQL refuses.
+func TestPushdownColumnTypes(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdtypes", "DROP TYPE IF EXISTS pdlevel", "CREATE TYPE pdlevel AS ENUM ('lo', 'hi')",
+		`CREATE TABLE pdtypes AS SELECT i AS id, (i * 0.7 + sin(i))::float8 AS x, (i * 0.3 + cos(i) * 2)::float8 AS y,
+		  (i * 1.5)::numeric::money AS m, md5(i::text)::uuid AS u, (ARRAY['lo', 'hi']::pdlevel[])[i % 2 + 1] AS e,
+		  jsonb_build_object('t', i) AS j, i * INTERVAL '1 min' AS iv, TIME '01:00' + i * INTERVAL '1 s' AS tm, ARRAY[i] AS a, (i % 2 = 0) AS b, (i % 3)::text AS s
+		  FROM generate_series(1, 20) i`)
+	// Each message's advice is SQL, run below on the table: PostgreSQL
+	// casts money to numeric and not to double precision, and an
+	// interval or a time to no number (its own documented casts, \dC).
+	cases := []struct {
+		col, typ, msg, sql string
+	}{
+		{"m", "money", `which bivar does not read: cast it in the query to numeric ("m"::numeric AS "m")`, `"m"::numeric`},
+		{"u", "uuid", `which bivar does not read: cast it in the query to a number ("u"::double precision), a timestamp, or text for a group or an id ("u"::text)`, `"u"::text`},
+		{"e", "pdlevel", `which bivar does not read: cast it in the query to a number ("e"::double precision), a timestamp, or text for a group or an id ("e"::text)`, `"e"::text`},
+		{"j", "jsonb", `which bivar does not read: take a value out of it in the query (("j"->>'key')::double precision AS "j")`, `("j"->>'t')::double precision`},
+		{"iv", "interval", `which bivar does not read: take its seconds in the query (EXTRACT(EPOCH FROM "iv") AS "iv")`, `EXTRACT(EPOCH FROM "iv")`},
+		{"tm", "time without time zone", `which bivar does not read: take its seconds in the query (EXTRACT(EPOCH FROM "tm") AS "tm")`, `EXTRACT(EPOCH FROM "tm")`},
+		{"a", "integer[]", `which bivar does not read: take an element out of it in the query ("a"[1] AS "a")`, `"a"[1]`},
+		{"b", "boolean", `and a study uses it as a number: choose a numeric column, or cast it in the query ("b"::integer)`, `"b"::integer`},
+		{"s", "text", `and a study uses it as a number: choose a numeric column, or cast it in the query ("s"::double precision)`, `"s"::double precision`},
+	}
+	for _, c := range cases {
+		pgExec(t, url, "SELECT "+c.sql+" FROM pdtypes")
+	}
+	for _, c := range cases {
+		roles := map[string]struct{ decl, study string }{
+			"x":     {table("pdtypes"), "[[study]]\nid = \"s\"\ndataset = \"d\"\nx = \"" + c.col + "\"\ny = \"y\"\n"},
+			"group": {table("pdtypes"), plain + "group = \"" + c.col + "\"\n"},
+			"id":    {"table = \"pdtypes\"\nid_column = \"" + c.col + "\"\n", plain},
+		}
+		for _, role := range []string{"x", "group", "id"} {
+			if (c.col == "b" || c.col == "s") && role != "x" {
+				continue // text and boolean serve as a group and an id
+			}
+			t.Run(c.col+"/"+role, func(t *testing.T) {
+				t.Setenv("BIVAR_TEST_DB", url)
+				dir := t.TempDir()
+				r := roles[role]
+				head := "[[dataset]]\nid = \"d\"\nconnection = \"BIVAR_TEST_DB\"\n" + r.decl
+				want := `pg.toml:1): PostgreSQL (BIVAR_TEST_DB): column "` + c.col + `": the column is of type ` + c.typ + ", " + c.msg
+				for _, limit := range []string{"", "max_rows = 5\n"} {
+					_, err := runManifest(t, dir, head+limit+r.study)
+					if err == nil || !strings.Contains(err.Error(), want) || !strings.HasPrefix(err.Error(), `dataset "d" (`) {
+						t.Errorf("%q: %v; want dataset \"d\" and %q", limit, err, want)
+					}
+				}
+			})
+		}
+	}
+}
+
+// An oid column reads as a number pushed down as in memory: PostgreSQL
+// casts oid to bigint but not to double precision, and the study failed
+// with "cannot cast type oid to double precision" where in memory it ran
+// (found by a sweep of column types).
+func TestPushdownOidColumn(t *testing.T) {
+	runAdv(t, []advCase{{name: "oid", setup: []string{"DROP TABLE IF EXISTS pdoid",
+		`CREATE TABLE pdoid AS SELECT i AS id, (i * 7 + i % 3)::oid AS x, (i * 0.3 + cos(i) * 2)::float8 AS y FROM generate_series(1, 30) i`},
+		decl: table("pdoid"), studies: plain + "[[study]]\nid = \"o\"\ndataset = \"d\"\nx = \"y\"\ny = \"x\"\norder = \"x\"\n", maxRows: 5}})
+}
+
+// A date column holding 'infinity' and '-infinity' (PostgreSQL's
+// documented special date values) beside NULL: the study that does not
+// use it runs pushed down as in memory, and with non_numeric = "missing"
+// the study of it as x counts the two as non-numeric in both. Pushed
+// down the dataset's hash subtracted a date from each date, and the
+// server refused ("cannot subtract infinite dates"), so every study of
+// the dataset failed (found by a sweep of column types).
+func TestPushdownInfiniteDate(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pdinfdate",
+		`CREATE TABLE pdinfdate AS SELECT i AS id, (i * 0.7 + sin(i))::float8 AS x, (i * 0.3 + cos(i) * 2)::float8 AS y,
+		  CASE WHEN i = 3 THEN 'infinity'::date WHEN i = 4 THEN '-infinity'::date WHEN i = 5 THEN NULL ELSE DATE '2026-01-01' + i * 3 END AS d
+		  FROM generate_series(1, 30) i`)
+	mem, pushed := runBothDecl(t, url, table("pdinfdate")+"non_numeric = \"missing\"\n",
+		plain+"[[study]]\nid = \"d\"\ndataset = \"d\"\nx = \"d\"\ny = \"y\"\n", 5)
+	for i := range mem.Studies {
+		m, p := mem.Studies[i], pushed.Studies[i]
+		sameStudy(t, m.ID, m, p, nil)
+	}
+	m, p := mem.Studies[1], pushed.Studies[1]
+	if m.N != 27 || p.N != 27 || !slices.Equal(m.Excluded, p.Excluded) {
+		t.Errorf("x = d: n %d in memory, %d pushed (want 27: one NULL, two infinite); excluded %v in memory, %v pushed", m.N, p.N, m.Excluded, p.Excluded)
+	}
+}
+
+// A query whose result names a column a study uses twice (SELECT x, …,
+// y * 2 AS x) fails the dataset in both paths with one message, naming
+// the two columns and how to rename one: fetched it said "the header
+// names this column twice", pushed down it was the server's "column
+// reference "x" is ambiguous" (found by a sweep of column types). A
+// duplicate the studies do not use is no error in either.
+func TestPushdownDuplicateColumn(t *testing.T) {
+	url := pgURL(t)
+	pgExec(t, url, "DROP TABLE IF EXISTS pddup",
+		`CREATE TABLE pddup AS SELECT i AS id, (i * 0.7 + sin(i))::float8 AS x, (i * 0.3 + cos(i) * 2)::float8 AS y FROM generate_series(1, 20) i`)
+	t.Setenv("BIVAR_TEST_DB", url)
+	for _, c := range []struct{ query, want string }{
+		{"SELECT id, x, y, y * 2 AS x FROM pddup", `column "x": the result names this column twice (columns 2 and 4), and a study uses it: give one of them another name in the query (… AS another_name)`},
+		{"SELECT id, x, y, x AS id FROM pddup", `column "id": the result names this column twice (columns 1 and 4), and a study uses it`},
+		{"SELECT id, x, y, y AS z, x AS z FROM pddup", ""},
+	} {
+		head := "[[dataset]]\nid = \"d\"\nconnection = \"BIVAR_TEST_DB\"\nquery = \"" + c.query + "\"\nid_column = \"id\"\n"
+		for _, limit := range []string{"", "max_rows = 5\n"} {
+			r, err := runManifest(t, t.TempDir(), head+limit+plain)
+			if c.want == "" {
+				if err != nil || r.Studies[0].Error != nil {
+					t.Errorf("%s (%q): %v %v; want the study to run", c.query, limit, err, r)
+				}
+				continue
+			}
+			if err == nil || !strings.Contains(err.Error(), `pg.toml:1): PostgreSQL (BIVAR_TEST_DB): `+c.want) {
+				t.Errorf("%s (%q): %v\nwant %s", c.query, limit, err, c.want)
+			}
+		}
+	}
+}

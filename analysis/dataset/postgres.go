@@ -178,6 +178,9 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		numeric = slices.DeleteFunc(slices.Clone(numeric), has)
 		text = slices.DeleteFunc(slices.Clone(text), has)
 	}
+	if err := q.Twice(names, append(slices.Clone(numeric), text...)); err != nil {
+		return nil, nil, err
+	}
 	cols, err := selectColumns(src, names, numeric, text)
 	if err != nil {
 		var e *Error
@@ -198,9 +201,9 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 		k := kinds[c.index]
 		switch {
 		case c.numeric && k == pgText:
-			return nil, nil, &Error{File: src, Column: c.name, Msg: fmt.Sprintf("the column is of type %s, and a study uses it as a number: choose a numeric column, or cast it in the query (%s::double precision)", typeName(c.index), pgx.Identifier{c.name}.Sanitize())}
+			return nil, nil, &Error{File: src, Column: c.name, Msg: textAsNumber(typeName(c.index), c.name)}
 		case k == pgOther:
-			return nil, nil, &Error{File: src, Column: c.name, Msg: fmt.Sprintf("the column is of type %s, which bivar does not read: cast it in the query to a number (::double precision), a timestamp or text (::text)", typeName(c.index))}
+			return nil, nil, &Error{File: src, Column: c.name, Msg: notRead(typeName(c.index), c.name)}
 		}
 		c.group = c.text && slices.Contains(opts.Groups, c.name)
 	}
@@ -308,6 +311,57 @@ func ReadQuery(ctx context.Context, q Query, opts Options, numeric, text []strin
 	}
 	t.SHA256 = hex.EncodeToString(h.Sum(nil))
 	return t, info, nil
+}
+
+// Twice is an error naming the first column of want that a query's
+// result, whose columns are names, holds more than once (nil when none
+// is): SQL cannot tell the two apart. The same message whether the rows
+// are fetched or left in the database: fetched, it said "the header
+// names this column twice", pushed down the server's "column reference
+// … is ambiguous" (found by a sweep of column types).
+func (q Query) Twice(names, want []string) error {
+	for _, c := range want {
+		i := slices.Index(names, c)
+		if i < 0 {
+			continue
+		}
+		if j := slices.Index(names[i+1:], c); j >= 0 {
+			return &Error{File: q.err("").File, Column: c, Msg: fmt.Sprintf("the result names this column twice (columns %d and %d), and a study uses it: give one of them another name in the query (… AS another_name)", i+1, i+j+2)}
+		}
+	}
+	return nil
+}
+
+// textAsNumber and notRead say why a column of the type typ (its
+// format_type) cannot serve as a study uses it, and what to do: the same
+// words whether the rows are fetched or left in the database.
+func textAsNumber(typ, col string) string {
+	to := "double precision"
+	if typ == "boolean" {
+		to = "integer" // false 0, true 1: a boolean has no cast to double precision
+	}
+	return fmt.Sprintf("the column is of type %s, and a study uses it as a number: choose a numeric column, or cast it in the query (%s::%s)", typ, pgx.Identifier{col}.Sanitize(), to)
+}
+
+// notRead's advice is SQL that PostgreSQL runs on the column: money has a
+// cast to numeric but none to double precision, an interval or a time
+// none to a number at all (its seconds are EXTRACT(EPOCH FROM …)), json
+// a cast of an object to none; the advice said "::double precision" to
+// each (found by a sweep of column types).
+func notRead(typ, col string) string {
+	id := pgx.Identifier{col}.Sanitize()
+	how := fmt.Sprintf("cast it in the query to a number (%s::double precision), a timestamp, or text for a group or an id (%s::text)", id, id)
+	switch {
+	case typ == "money":
+		how = fmt.Sprintf("cast it in the query to numeric (%s::numeric AS %s), or to text for a group or an id", id, id)
+	case typ == "interval" || strings.HasPrefix(typ, "time with"):
+		how = fmt.Sprintf("take its seconds in the query (EXTRACT(EPOCH FROM %s) AS %s), or cast it to text for a group or an id", id, id)
+	case typ == "json" || typ == "jsonb":
+		how = fmt.Sprintf("take a value out of it in the query ((%s->>'key')::double precision AS %s), as text for a group or an id (%s->>'key')", id, id, id)
+	case strings.HasSuffix(typ, "[]"):
+		how = fmt.Sprintf("take an element out of it in the query (%s[1] AS %s)", id, id)
+	}
+	return fmt.Sprintf("the column is of type %s, which bivar does not read: %s", typ, how)
 }
 
 // open connects to q.URL and starts a transaction with opts, the statement
@@ -436,19 +490,117 @@ func orderKeys(oids []uint32) []string {
 // numbers.
 func pgNumberOf(k pgKind, b []byte) (float64, bool) {
 	if k == pgTime {
-		s := string(b)
-		for _, layout := range []string{"2006-01-02 15:04:05.999999999Z07", "2006-01-02 15:04:05.999999999Z07:00", "2006-01-02 15:04:05.999999999", "2006-01-02"} {
-			if t, err := time.Parse(layout, s); err == nil {
-				return float64(t.Unix()) + float64(t.Nanosecond())/1e9, true
-			}
-		}
-		return 0, false
+		return pgEpoch(string(b))
 	}
 	v, err := strconv.ParseFloat(string(b), 64) // b does not escape: no copy
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, false
 	}
 	return v, true
+}
+
+// pgEpoch is the date or timestamp s, PostgreSQL's text output under
+// DateStyle ISO (a year of four digits or more, the time with up to six
+// fractional digits, the offset: +00 in UTC, minutes and seconds only
+// where the zone has them, and " BC" for a year before 1 AD), as seconds
+// since 1970-01-01 00:00 UTC in the proleptic Gregorian calendar, as
+// PostgreSQL's EXTRACT(EPOCH FROM …) gives them, correctly rounded to
+// float64: the exact decimal sum of the whole seconds and the fraction is
+// read by strconv.ParseFloat. A year before 1 AD ("0044-03-15 BC", year
+// −43 as astronomers count) and a year past 9999 ("12000-01-01") are
+// times like any other: time.Parse read neither, and such a cell was
+// "not a finite number" in memory while the push-down, by EXTRACT, read
+// it (found by a sweep of column types). "infinity" and "-infinity" are
+// not numbers. Read by hand: a regular expression took 2.0–2.6 µs a
+// cell, time.Parse 0.14 µs, this 0.13 µs with a fraction and 0.05 µs
+// without (go test -bench, medians of 3 runs).
+func pgEpoch(s string) (float64, bool) {
+	ok := true
+	digits := func(t string) int { // t's value, all digits, or ok = false
+		n := 0
+		for i := 0; i < len(t); i++ {
+			if t[i] < '0' || t[i] > '9' {
+				ok = false
+				return 0
+			}
+			n = n*10 + int(t[i]-'0')
+		}
+		return n
+	}
+	bc := strings.HasSuffix(s, " BC")
+	s = strings.TrimSuffix(s, " BC")
+	y := strings.IndexByte(s, '-')
+	if y < 4 || y > 7 || len(s) < y+6 || s[y+3] != '-' {
+		return 0, false
+	}
+	year, month, day := digits(s[:y]), digits(s[y+1:y+3]), digits(s[y+4:y+6])
+	s = s[y+6:]
+	var hour, minute, sec int
+	frac := ""
+	if len(s) > 0 && s[0] == ' ' {
+		if len(s) < 9 || s[3] != ':' || s[6] != ':' {
+			return 0, false
+		}
+		hour, minute, sec = digits(s[1:3]), digits(s[4:6]), digits(s[7:9])
+		s = s[9:]
+		if len(s) > 0 && s[0] == '.' {
+			j := 1
+			for j < len(s) && s[j] >= '0' && s[j] <= '9' {
+				j++
+			}
+			frac, s = s[1:j], s[j:]
+			if frac == "" || len(frac) > 9 {
+				return 0, false
+			}
+		}
+	}
+	var off int64
+	if len(s) > 0 && (s[0] == '+' || s[0] == '-') {
+		neg := s[0] == '-'
+		if len(s) < 3 {
+			return 0, false
+		}
+		off, s = int64(digits(s[1:3]))*3600, s[3:]
+		for _, unit := range []int64{60, 1} {
+			if len(s) >= 3 && s[0] == ':' {
+				off, s = off+int64(digits(s[1:3]))*unit, s[3:]
+			}
+		}
+		if neg {
+			off = -off
+		}
+	}
+	if !ok || s != "" || year == 0 {
+		return 0, false
+	}
+	if bc {
+		year = 1 - year
+	}
+	t := time.Date(year, time.Month(month), day, hour, minute, sec, 0, time.UTC)
+	whole := t.Unix() - off
+	ns := int64(digits(frac))
+	for i := len(frac); i < 9; i++ {
+		ns *= 10
+	}
+	if ns == 0 {
+		return float64(whole), true // exact below 2⁵³ s, and rounded once above
+	}
+	// whole + ns·10⁻⁹ written as a decimal: below 0 with a fraction, as
+	// −((−whole − 1) + (10⁹ − ns)·10⁻⁹).
+	var buf [40]byte
+	d := buf[:0]
+	if whole < 0 {
+		d = append(d, '-')
+		whole, ns = -whole-1, 1_000_000_000-ns
+	}
+	d = strconv.AppendInt(d, whole, 10)
+	d = append(d, '.')
+	for unit := int64(100_000_000); unit > 0 && ns > 0; unit /= 10 {
+		d = append(d, byte('0'+ns/unit))
+		ns %= unit // no trailing zeros: 19 digits or fewer parse fast
+	}
+	v, err := strconv.ParseFloat(string(d), 64)
+	return v, err == nil
 }
 
 // queryError explains a failed query: a timeout, or the server's message.

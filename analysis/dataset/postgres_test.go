@@ -6,6 +6,7 @@ import (
 	"encoding/hex"
 	"math"
 	"os"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -158,6 +159,88 @@ func TestShortDigits(t *testing.T) {
 	} {
 		if got := shortDigits(c.in); got != c.want {
 			t.Errorf("shortDigits(%.60q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+}
+
+// Dates and timestamps of any year PostgreSQL stores read as the seconds
+// PostgreSQL's own EXTRACT(EPOCH FROM …) gives (its documented "number of
+// seconds since 1970-01-01 00:00:00 UTC"; an exact numeric on
+// PostgreSQL 14 and later), its text read by strconv.ParseFloat,
+// correctly rounded as Python's float() is: years before 1 AD ("… BC")
+// and past 9999, a fraction before 1970 and one far from 1970 where the
+// sum of the whole seconds and the fraction is rounded. In memory these
+// were "not a finite number" (BC, five-digit years) while the push-down
+// read them by EXTRACT (found by a sweep of column types).
+func TestReadQueryTimesEpoch(t *testing.T) {
+	ctx, conn, url := pgSetup(t, "DROP TABLE IF EXISTS times_far",
+		"CREATE TABLE times_far (k integer, d date, ts timestamp, tz timestamptz)",
+		`INSERT INTO times_far VALUES
+		 (1, '0044-03-15 BC', '0044-03-15 12:30:00.5 BC', '0001-01-01 00:00:00.000001 BC+00'),
+		 (2, '12000-01-01', '12000-06-30 23:59:59.999999', '99999-12-31 00:00:00.123457+05:30'),
+		 (3, '1969-12-31', '1969-12-31 23:59:59.123457', '1900-01-01 00:00:00.7-03'),
+		 (4, '2026-10-01', '285000-01-01 00:00:00.000003', '2026-10-01 08:00:00.25+02')`)
+	var major int
+	if err := conn.QueryRow(ctx, "SELECT current_setting('server_version_num')::int / 10000").Scan(&major); err != nil {
+		t.Fatal(err)
+	}
+	if major < 14 {
+		t.Skipf("PostgreSQL %d: EXTRACT gives double precision before 14, not the exact seconds", major)
+	}
+	q := Query{SQL: "SELECT d, ts, tz FROM times_far ORDER BY k", Env: "BIVAR_TEST_PG_URL", URL: url}
+	tb, _, err := ReadQuery(ctx, q, Options{}, []string{"d", "ts", "tz"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []string{"d", "ts", "tz"} {
+		// ReadQuery orders by every column, d first: k's order here too.
+		rows, err := conn.Query(ctx, "SELECT EXTRACT(EPOCH FROM "+c+")::text FROM times_far ORDER BY d")
+		if err != nil {
+			t.Fatal(err)
+		}
+		texts, err := pgx.CollectRows(rows, pgx.RowTo[string])
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i, s := range texts {
+			want, err := strconv.ParseFloat(s, 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := tb.Numeric[c][i]; got != want {
+				t.Errorf("%s row %d = %.17g, want %.17g (EXTRACT(EPOCH) %s)", c, i+1, got, want, s)
+			}
+		}
+	}
+}
+
+// pgEpoch reads each form of PostgreSQL's ISO date and timestamp output
+// (its documented DateStyle ISO: "1997-12-17 07:37:16-08", an offset with
+// minutes or seconds for zones that have them, " BC") as Go's time
+// package places the same instant, the fraction added exactly (the
+// decimal's value by strconv.ParseFloat, correctly rounded); anything
+// else is no number.
+func TestPgEpoch(t *testing.T) {
+	for _, c := range []struct {
+		in   string
+		want float64
+	}{
+		{"1997-12-17 07:37:16-08", float64(time.Date(1997, 12, 17, 15, 37, 16, 0, time.UTC).Unix())},
+		{"1997-12-17 07:37:16+05:30", float64(time.Date(1997, 12, 17, 2, 7, 16, 0, time.UTC).Unix())},
+		{"1890-01-01 00:00:00+00:53:28", float64(time.Date(1889, 12, 31, 23, 6, 32, 0, time.UTC).Unix())},
+		{"1969-12-31 23:59:59.75", -0.25},
+		{"1969-12-31 23:59:58.000001", -1.999999},
+		{"2026-10-01", float64(time.Date(2026, 10, 1, 0, 0, 0, 0, time.UTC).Unix())},
+		{"0001-01-01 BC", float64(time.Date(0, 1, 1, 0, 0, 0, 0, time.UTC).Unix())},
+		{"2026-10-01 08:00:00.1", 1790841600.1}, // 1790812800 (Python 3.11: datetime(2026, 10, 1, tzinfo=timezone.utc).timestamp()) + 8 h + 0.1 s
+	} {
+		if got, ok := pgEpoch(c.in); !ok || got != c.want {
+			t.Errorf("pgEpoch(%q) = %.17g, %v; want %.17g", c.in, got, ok, c.want)
+		}
+	}
+	for _, bad := range []string{"infinity", "-infinity", "", "2026-1-01", "26-10-01", "2026-10-01 8:00:00", "2026-10-01 08:00:00.", "2026-10-01 08:00:00+", "2026-10-01x", "0000-01-01", "2026-10-01 BC BC"} {
+		if v, ok := pgEpoch(bad); ok {
+			t.Errorf("pgEpoch(%q) = %v, want no number", bad, v)
 		}
 	}
 }

@@ -451,8 +451,15 @@ func colHash(oid uint32, c, seed string) string {
 		return "hash_numeric_extended(" + c + ", " + seed + ")"
 	case 16: // bool
 		return "hashint4extended(CAST(" + c + " AS integer), " + seed + ")"
-	case 1082: // date: days since 2000-01-01, as the type stores it
-		return "hashint4extended(" + c + " - DATE '2000-01-01', " + seed + ")"
+	case 1082:
+		// date: days since 2000-01-01, as the type stores it, and its
+		// infinities as it stores them (DATEVAL_NOEND and DATEVAL_NOBEGIN,
+		// the largest and least int4, src/include/utils/date.h): the
+		// difference alone fails, "cannot subtract infinite dates", and a
+		// date column holding 'infinity' failed the dataset that in memory
+		// reads (found by a sweep of column types). NULL stays NULL.
+		return "hashint4extended(CASE WHEN " + c + " = DATE 'infinity' THEN 2147483647 WHEN " + c + " = DATE '-infinity' THEN -2147483648 ELSE " +
+			c + " - DATE '2000-01-01' END, " + seed + ")"
 	case 1114: // timestamp
 		return "timestamp_hash_extended(" + c + ", " + seed + ")"
 	case 1184: // timestamptz, as a UTC timestamp (the session's time zone)
@@ -549,16 +556,58 @@ func (s *Session) numExpr(col string) (string, error) {
 		if i := slices.Index(s.Names, col); i >= 0 && s.oids[i] == 1700 {
 			return numericAsFloat("bivar_q." + id), nil
 		}
+		if i := slices.Index(s.Names, col); i >= 0 && s.oids[i] == 26 {
+			// oid: PostgreSQL has no cast to double precision ("cannot
+			// cast type oid to double precision" failed the study that
+			// reads the same rows in memory; found by a sweep of column
+			// types), but one to bigint, exact for its 32 bits.
+			return "CAST(CAST(bivar_q." + id + " AS bigint) AS double precision)", nil
+		}
 		return "CAST(bivar_q." + id + " AS double precision)", nil
 	case pgTime:
 		return "CAST(EXTRACT(EPOCH FROM bivar_q." + id + ") AS double precision)", nil
 	case pgText:
-		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the column is text, and a study uses it as a number: choose a numeric column, or cast it in the query (" + id + "::double precision)"}
+		return "", &Error{File: s.q.err("").File, Column: col, Msg: textAsNumber(s.typeName(col), col)}
 	}
 	if !slices.Contains(s.Names, col) {
 		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the result has no such column: correct the study or the query"}
 	}
-	return "", &Error{File: s.q.err("").File, Column: col, Msg: "the column's type is not one bivar reads: cast it in the query to a number (::double precision), a timestamp or text (::text)"}
+	return "", &Error{File: s.q.err("").File, Column: col, Msg: notRead(s.typeName(col), col)}
+}
+
+// CheckTypes is an error naming the first column of numeric (used as
+// numbers) or text (used as a group or an id) that the result has and
+// that bivar cannot read so, with the message ReadQuery gives when the
+// rows are fetched: a dataset whose studies use such a column fails in
+// both paths alike, not only the study that uses it (found by a sweep of
+// column types). Columns the result lacks are the studies' to report.
+func (s *Session) CheckTypes(numeric, text []string) error {
+	for _, c := range numeric {
+		if slices.Contains(s.Names, c) {
+			if _, err := s.numExpr(c); err != nil {
+				return err
+			}
+		}
+	}
+	for _, c := range text {
+		if slices.Contains(s.Names, c) {
+			if _, err := s.textExpr(c); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+// typeName is the type of the result column col as PostgreSQL names it
+// (format_type), for a message.
+func (s *Session) typeName(col string) string {
+	oid := s.oids[slices.Index(s.Names, col)]
+	var n string
+	if err := s.tx.QueryRow(s.ctx, "SELECT format_type($1, NULL)", oid).Scan(&n); err != nil {
+		return "oid " + strconv.Itoa(int(oid))
+	}
+	return n
 }
 
 // numericAsFloat is the SQL of a numeric (PostgreSQL's decimal type)
@@ -594,6 +643,13 @@ var numericOverflow, numericUnderflow = func() (string, string) {
 func (s *Session) textExpr(col string) (string, error) {
 	if !slices.Contains(s.Names, col) {
 		return "", &Error{File: s.q.err("").File, Column: col, Msg: "the result has no such column: correct the study or the query"}
+	}
+	if s.kinds[col] == pgOther {
+		// Refused as when the rows are fetched (ReadQuery): a cast to
+		// text grouped by a money, uuid, enum or json column's text where
+		// the same rows below max_rows failed (found by a sweep of column
+		// types).
+		return "", &Error{File: s.q.err("").File, Column: col, Msg: notRead(s.typeName(col), col)}
 	}
 	c := "bivar_q." + pgx.Identifier{col}.Sanitize()
 	// The text the rows fetched below max_rows are read in (the type's

@@ -173,15 +173,19 @@ func TestPushdownLackOfFit(t *testing.T) {
 	studies := "[[study]]\nid = \"set\"\ndataset = \"d\"\nx = \"x\"\ny = \"y\"\n" +
 		"[[study]]\nid = \"cont\"\ndataset = \"d\"\nx = \"xc\"\ny = \"yc\"\n" +
 		// Exact replicates: y is one value at each of seven x far from 0,
-		// so there is no pure error and no test (from an independent
-		// review: the database's sums left rounding noise for one).
+		// so there is no pure error and no test, which both paths say
+		// (no_pure_error; from an independent review: the database's sums
+		// left rounding noise for one).
 		"[[study]]\nid = \"replicates\"\ndataset = \"d\"\nx = \"xr\"\ny = \"yr\"\n"
 	mem, pushed := runBoth(t, url, "pdlof", studies, 10)
-	for i, want := range []struct{ reported, computed bool }{{true, true}, {false, false}, {false, true}} {
+	for i, want := range []struct{ reported, computed, noPureError bool }{{true, true, false}, {false, false, false}, {true, true, true}} {
 		m, p := mem.Studies[i], pushed.Studies[i]
 		bothRan(t, m, p)
-		if (m.Diagnostics.LackOfFit != nil) != want.reported {
+		if (m.Diagnostics.LackOfFit != nil) != want.reported || want.reported && m.Diagnostics.LackOfFit.NoPureError != want.noPureError {
 			t.Fatalf("study %s: the test data lost their point: lack of fit in memory %+v", m.ID, m.Diagnostics.LackOfFit)
+		}
+		if want.reported && (p.Diagnostics.LackOfFit == nil || p.Diagnostics.LackOfFit.NoPureError != want.noPureError) {
+			t.Errorf("study %s: lack of fit pushed %+v, in memory %+v", m.ID, p.Diagnostics.LackOfFit, m.Diagnostics.LackOfFit)
 		}
 		agree(t, m.ID, exactFigures(p), exactFigures(m), 1e-9)
 		omitted := false

@@ -244,7 +244,13 @@ func titleOf(s compare.Side) string {
 // named by figureFile.
 func Markdown(w io.Writer, res *compare.Result) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "# What changed: %s → %s\n\n", mdtext.Escape(titleOf(res.Old)), mdtext.Escape(titleOf(res.New)))
+	// One title where both runs have it (a production run against the
+	// last one), not "T → T".
+	if to, tn := titleOf(res.Old), titleOf(res.New); to == tn {
+		fmt.Fprintf(&b, "# What changed: %s\n\n", mdtext.Escape(to))
+	} else {
+		fmt.Fprintf(&b, "# What changed: %s → %s\n\n", mdtext.Escape(to), mdtext.Escape(tn))
+	}
 	fmt.Fprintf(&b, "Old run: `%s` (bivar %s%s) · New run: `%s` (bivar %s%s)  \n", code(orDash(res.Old.File)), mdtext.Escape(orDash(res.Old.ToolVersion)), generated(res.Old),
 		code(orDash(res.New.File)), mdtext.Escape(orDash(res.New.ToolVersion)), generated(res.New))
 	fmt.Fprintf(&b, "Significance level %g; change tests adjusted across all compared studies: %s.\n\n", res.Alpha, mdtext.Escape(adjustName(res.Adjust)))

@@ -229,3 +229,29 @@ func TestScaledUnitsShown(t *testing.T) {
 		t.Errorf("runs figure %+v: want both scales log", f)
 	}
 }
+
+// TestOneTitle: two runs of one manifest (a production run against the
+// last one) have one title, and the heading says it once; two titles are
+// both said.
+func TestOneTitle(t *testing.T) {
+	res := fixture()
+	res.Old.Title, res.New.Title = "Line 7 weekly", "Line 7 weekly"
+	var md, page bytes.Buffer
+	if err := Markdown(&md, res); err != nil {
+		t.Fatal(err)
+	}
+	if err := HTML(&page, res); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(md.String(), "# What changed: Line 7 weekly\n") || !strings.Contains(page.String(), "<h1>What changed: Line 7 weekly</h1>") {
+		t.Errorf("one title: want the heading to say it once")
+	}
+	res.New.Title = "Line 7 weekly, new gauge"
+	md.Reset()
+	if err := Markdown(&md, res); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(md.String(), "# What changed: Line 7 weekly → Line 7 weekly, new gauge\n") {
+		t.Errorf("two titles: want both in the heading")
+	}
+}

@@ -78,8 +78,7 @@ func lineFit(l stats.LineFit) report.Fit {
 // in double precision, gave the x² term a t with p < 0.05 and a share of
 // 0.298).
 func compareFits(line *report.Fit, models []report.Fit, x report.Describe, sumY2 float64) {
-	const eps16 = 16 * 0x1p-52
-	exact := !(float64(line.RSS) > eps16*eps16*sumY2)
+	exact := stats.ExactFit(float64(line.RSS), sumY2)
 	scale := func(name string) string {
 		if name == "log-y" || name == "log-log" {
 			return "ln(y)"

@@ -471,8 +471,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// residual SD undefined for the row-wise measures, so that no rounding
 	// noise is studentized into a Cook's distance.
 	sres := math.NaN()
-	const eps16 = 16 * 0x1p-52
-	if sumY2 := mom.Syy + nf*mom.MeanY*mom.MeanY; n > 2 && rss > eps16*eps16*sumY2 {
+	if sumY2 := mom.Syy + nf*mom.MeanY*mom.MeanY; n > 2 && !stats.ExactFit(rss, sumY2) {
 		sres = math.Sqrt(rss / (nf - 2))
 	}
 	fit := dataset.Fit{N: n, MX: base[0], MY: base[1], MXLo: lo[0], MYLo: lo[1], B: b,
@@ -842,15 +841,14 @@ const redoShare = 1e-6
 
 // rerunSecond says whether the second pass's sums s (n rows, about the
 // y mean my) leave the first pass's line's error in e above redoShare of
-// the RSS, where Σe² is above the exact-fit floor (16ε)²·Σy² that
-// stats.NewLineInfluence applies to the RSS: an RSS cancelled to 0 or
-// below by that error reruns the pass too.
+// the RSS, where Σe² is above the exact-fit floor (16ε)²·Σy²
+// (stats.ExactFit, which stats.NewLineInfluence applies to the RSS): an
+// RSS cancelled to 0 or below by that error reruns the pass too.
 func rerunSecond(s *dataset.Sums, n, my float64) bool {
-	const eps16 = 16 * 0x1p-52
 	sxx := s.P[0][0] - s.D[0]*s.D[0]/n
 	syy := s.P[1][1] - s.D[1]*s.D[1]/n
 	ybar := my + s.D[1]/n
-	if !(sxx > 0) || s.SE2 <= eps16*eps16*(syy+n*ybar*ybar) {
+	if !(sxx > 0) || stats.ExactFit(s.SE2, syy+n*ybar*ybar) {
 		return false
 	}
 	sue := s.SXE - s.D[0]*s.SE/n

@@ -1446,8 +1446,7 @@ func (f *facts) limits(out *report.Findings) {
 	case s.Order == "":
 		add("No run order was declared, so drift over time, and dependence between rows taken one after another, were not checked: the p-values and intervals in this report assume independent rows.")
 	case d == nil:
-	case f.exact: // said with the spread
-
+	case f.exact: // said in the limit above
 	case out.Drift:
 		add("The residuals drift in run order (by %s; %s): time, or something changing with it, may act on %s besides %s.", f.orderLabel(), f.orderFigures(), y, x)
 	default:

@@ -147,16 +147,25 @@ func NewLineInfluence(x, y []float64) *LineInfluence {
 	}
 	li.rss = rss
 	// An exact fit leaves only rounding in the residuals; studentizing that
-	// noise would make arbitrary "outliers". Treat RSS at or below the
-	// rounding floor, (16ε)²·Σy², as exactly 0.
-	const eps16 = 16 * 0x1p-52
+	// noise would make arbitrary "outliers" (ExactFit).
 	li.s = li.nan
-	if n > 2 && rss > eps16*eps16*sumY2 {
+	if n > 2 && !ExactFit(rss, sumY2) {
 		li.s = math.Sqrt(rss / (li.nf - 2))
 	}
 	li.c = li.nf / (li.nf - 1)
 	li.invN, li.omInvN = 1/li.nf, (li.nf-1)/li.nf
 	return li
+}
+
+// ExactFit reports whether a line's residual sum of squares rss is at or
+// below the rounding floor (16ε)²·Σy² (ε = 2⁻⁵², sumY2 = Σy²): what the
+// line leaves is then only the rounding of the numbers, and is taken as
+// exactly 0 (true for a NaN rss). The one rule of an exact fit, for the
+// row-wise measures here and for the checks of the line's residuals
+// (analysis's compareFits, and the push-down's).
+func ExactFit(rss, sumY2 float64) bool {
+	const eps16 = 16 * 0x1p-52
+	return !(rss > eps16*eps16*sumY2)
 }
 
 // Len is the number of rows.

@@ -779,21 +779,21 @@ func approximationsSection(s *report.Study, _ string, _ report.Thresholds) (*sec
 		Head: []string{"Figure", "Computed on", "How chosen", "Error against the exact method"}, Num: []bool{false, true, false, false}}
 	// One sample for all (a study left in the database: its sample of
 	// rows, whose method is a paragraph): said once, not in every row.
-	one := true
+	one := len(s.Approximations) > 1
 	for _, a := range s.Approximations[1:] {
 		one = one && a.Method == s.Approximations[0].Method
 	}
-	if one && len(s.Approximations) > 1 {
+	if one {
 		sec.Items = append(sec.Items, kv{K: "How chosen, for every figure below", V: s.Approximations[0].Method})
 		t.Head = slices.Delete(t.Head, 2, 3)
 		t.Num = slices.Delete(t.Num, 2, 3)
 	}
 	for _, a := range s.Approximations {
-		if len(t.Head) == 3 {
-			t.Rows = append(t.Rows, []string{a.Figure, itoa(a.Rows), a.Error})
-			continue
+		row := []string{a.Figure, itoa(a.Rows), a.Method, a.Error}
+		if one {
+			row = slices.Delete(row, 2, 3)
 		}
-		t.Rows = append(t.Rows, []string{a.Figure, itoa(a.Rows), a.Method, a.Error})
+		t.Rows = append(t.Rows, row)
 	}
 	sec.Tables = append(sec.Tables, t)
 	return sec, nil
@@ -1034,9 +1034,10 @@ func checksTable(studies []report.Study, anchors []string) table {
 			// repeated settings of an exact line have one y each, no pure
 			// error, so its test is never there, and "none repeated" would
 			// say x does not repeat.
-			row[1], row[2], row[4] = "Not checked: the line fits to rounding", "Not checked: the line fits to rounding", "Not checked: the line fits to rounding"
+			const not = "Not checked: the line fits to rounding"
+			row[1], row[2], row[4] = not, not, not
 			if s.Order != "" {
-				row[5] = row[1]
+				row[5] = not
 			}
 		}
 		t.Rows = append(t.Rows, row)

@@ -385,7 +385,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 	// TestPushdownNear2To53). The test: the error's share,
 	// Σe² − RSS = n·ē² + (b − b1)²·Sxx, above redoShare of the RSS. An
 	// exact fit (Σe² at or below the exact-fit floor, below) is left alone.
-	if rerunSecond(sums, nf, base[1]) {
+	if step, again := rerunSecond(sums, nf, base[1]); again {
 		// The means in two parts, as the third pass takes them: where the
 		// mean is no float64 (x a bigint near 2⁵³ with an odd mean), one
 		// part alone leaves every deviation its rounding, n times its
@@ -396,8 +396,7 @@ func pushdown(pu *pushed, spec dataset.Spec, nonNumericMissing bool, maxLevels i
 				baseLo[i] = sums.D[i] / nf
 			}
 		}
-		sxx := sums.P[0][0] - sums.D[0]*sums.D[0]/nf
-		b1 += (sums.SXE - sums.D[0]*sums.SE/nf) / sxx
+		b1 += step
 		if sums, err = p.Second(base, baseLo, b1, ends, gs); err != nil {
 			return s, err
 		}
@@ -841,19 +840,21 @@ const redoShare = 1e-6
 
 // rerunSecond says whether the second pass's sums s (n rows, about the
 // y mean my) leave the first pass's line's error in e above redoShare of
-// the RSS, where Σe² is above the exact-fit floor (16ε)²·Σy²
+// the RSS (again), where Σe² is above the exact-fit floor (16ε)²·Σy²
 // (stats.ExactFit, which stats.NewLineInfluence applies to the RSS): an
-// RSS cancelled to 0 or below by that error reruns the pass too.
-func rerunSecond(s *dataset.Sums, n, my float64) bool {
+// RSS cancelled to 0 or below by that error reruns the pass too. step is
+// the slope's refinement from the same sums, Σ(x − x̄)e/Sxx, for the
+// rerun's line.
+func rerunSecond(s *dataset.Sums, n, my float64) (step float64, again bool) {
 	sxx := s.P[0][0] - s.D[0]*s.D[0]/n
 	syy := s.P[1][1] - s.D[1]*s.D[1]/n
 	ybar := my + s.D[1]/n
 	if !(sxx > 0) || stats.ExactFit(s.SE2, syy+n*ybar*ybar) {
-		return false
+		return 0, false
 	}
 	sue := s.SXE - s.D[0]*s.SE/n
 	rss := (s.SE2 - s.SE*s.SE/n) - sue*sue/sxx
-	return s.SE2-rss > redoShare*rss
+	return sue / sxx, s.SE2-rss > redoShare*rss
 }
 
 // solveQuadratic solves the normal equations of the quadratic from the

@@ -1188,11 +1188,10 @@ func (p *Prepared) Second(mean, lo []float64, b float64, ends [2]float64, levels
 		nc-- // the order's sums are the third pass's
 	}
 	devOf := func(i int) string {
-		d := "(" + p.num[i] + " - " + lit(mean[i]) + ")"
-		if lo != nil && lo[i] != 0 {
-			d = "(" + d + " - " + lit(lo[i]) + ")"
+		if lo == nil {
+			return deviation(p.num[i], mean[i], 0)
 		}
-		return d
+		return deviation(p.num[i], mean[i], lo[i])
 	}
 	var dev []string
 	for i := range nc {
@@ -1382,12 +1381,20 @@ type Fit struct {
 }
 
 // dx and dy are the line's deviations over bivar_q's columns.
-func (p *Prepared) dx(f Fit) string {
-	return "((" + p.num[0] + " - " + lit(f.MX) + ") - " + lit(f.MXLo) + ")"
-}
+func (p *Prepared) dx(f Fit) string { return deviation(p.num[0], f.MX, f.MXLo) }
 
-func (p *Prepared) dy(f Fit) string {
-	return "((" + p.num[1] + " - " + lit(f.MY) + ") - " + lit(f.MYLo) + ")"
+func (p *Prepared) dy(f Fit) string { return deviation(p.num[1], f.MY, f.MYLo) }
+
+// deviation is the SQL of e's deviation from a value held in two parts,
+// hi + lo: (e − hi) − lo, the second step left out where lo is 0 (it
+// would change no digit). The passes' deviations from the means, the
+// line's and the quadratic's, are all written by it.
+func deviation(e string, hi, lo float64) string {
+	d := "(" + e + " - " + lit(hi) + ")"
+	if lo != 0 {
+		d = "(" + d + " - " + lit(lo) + ")"
+	}
+	return d
 }
 
 // rowsLine is the derived table of the complete cases with the study's
@@ -1621,10 +1628,7 @@ func (p *Prepared) flaggedSQL(f Fit) (src, fl, isSuspect, s2 string) {
 	// to the last digit).
 	var qr string
 	if f.Quad {
-		dqx, dqy := "(x - "+lit(f.QX)+")", "(y - "+lit(f.QY)+")"
-		if f.QXLo != 0 || f.QYLo != 0 {
-			dqx, dqy = "("+dqx+" - "+lit(f.QXLo)+")", "("+dqy+" - "+lit(f.QYLo)+")"
-		}
+		dqx, dqy := deviation("x", f.QX, f.QXLo), deviation("y", f.QY, f.QYLo)
 		t := "(" + dqx + " / " + lit(f.QS) + ")"
 		qr = ", (" + dqy + " - (" + lit(f.Q0) + " + " + lit(f.Q1) + " * " + t + " + " + lit(f.Q2) + " * (" + t + " * " + t + "))) AS qr"
 	}

@@ -406,7 +406,7 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 	case strings.HasPrefix(cell, "\uFEFF"):
 		msg += `: it starts with a byte-order mark (U+FEFF), which belongs only at the start of a file: were two files joined? delete the mark (or the line, if it repeats the header)`
 	case strings.IndexByte(cell, 0) >= 0:
-		msg += `: it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8`
+		msg += nulBytes
 	case !utf8.ValidString(cell):
 		msg += `: it is not valid UTF-8 text; save the file as UTF-8 (an export in another encoding, such as Windows-1252, shows this)`
 	default:
@@ -414,6 +414,9 @@ func nonNumericMsg(cell string, mark byte, markLine int, opts Options) string {
 	}
 	return msg
 }
+
+// nulBytes says what NUL bytes in a cell or a row mean and what to do.
+const nulBytes = ": it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8"
 
 // looksLikeDate says whether s is a date, a time or both in a layout
 // that exports write: ISO 8601 (2026-10-01, 2026-10-01T08:30:00,
@@ -431,10 +434,11 @@ func looksLikeDate(s string) bool {
 	clockOK := func(v string) bool {
 		return ok(strings.TrimSuffix(v, "Z"), "15:04", "15:04:05", "15:04:05.999999999", "3:04 PM", "3:04:05 PM")
 	}
+	dates := []string{"2006-01-02", "02.01.2006", "1/2/2006", "2006/01/02", "2.1.2006"}
 	if clock != "" {
-		return ok(date, "2006-01-02", "02.01.2006", "1/2/2006", "2006/01/02", "2.1.2006") && clockOK(clock)
+		return ok(date, dates...) && clockOK(clock)
 	}
-	return ok(date, "2006-01-02", "02.01.2006", "1/2/2006", "2006/01/02", "2.1.2006") || clockOK(date)
+	return ok(date, dates...) || clockOK(date)
 }
 
 // textHint explains a cell that is not a number, in a CSV file or a

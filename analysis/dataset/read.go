@@ -981,7 +981,7 @@ func fieldCountMsg(got, want int, row string, first bool) string {
 	case first && strings.IndexByte(row, 0) < 0:
 		return msg + ": the first line is read as the header; if lines above the column names hold a title or notes, delete them, else look for a missing or extra delimiter in the header or this row"
 	case strings.IndexByte(row, 0) >= 0:
-		return msg + ": it holds NUL (zero) bytes, which a text file does not: the file may be padded or cut off by a failed write or copy (look at its end), or be UTF-16 text; correct the file, or save it again as CSV in UTF-8"
+		return msg + nulBytes
 	case strings.IndexByte(row, '\r') >= 0:
 		return msg + ": it holds a carriage return (CR) that ends no line, so from here on the file may use CR-only line ends (as classic Mac OS wrote them), or two files were joined; save it with LF or CRLF line ends"
 	}

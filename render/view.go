@@ -386,13 +386,13 @@ func buildPage(r *report.Report, cfg *config) (*page, error) {
 	}
 	p.Plans, p.PlanNotes = plansTable(r.Studies, p.Level)
 	p.Data = dataTable(r.Studies)
-	ids := []string{"manifest " + m.File + " (SHA-256 " + shortHash(m.SHA256) + ")"}
+	ids := []string{"manifest " + m.File + " (SHA-256 " + report.ShortHash(m.SHA256) + ")"}
 	for _, d := range r.Datasets {
 		file := d.File
 		if file == "" && d.Source != nil {
 			file = d.Source.Kind
 		}
-		ids = append(ids, fmt.Sprintf("%s: %s, %s (SHA-256 %s)", d.ID, file, nRows(d.Rows), shortHash(d.SHA256)))
+		ids = append(ids, fmt.Sprintf("%s: %s, %s (SHA-256 %s)", d.ID, file, nRows(d.Rows), report.ShortHash(d.SHA256)))
 	}
 	p.Identity = strings.Join(ids, " · ")
 	anchors := slugs(r.Studies)
@@ -426,15 +426,6 @@ func runDate(t string) string {
 		return t[:10] + " " + t[11:16] + " UTC"
 	}
 	return t
-}
-
-// shortHash is the first 12 hex digits of a SHA-256, enough to tell files
-// apart by eye (the full hash is under "Where these results come from").
-func shortHash(h string) string {
-	if len(h) > 12 {
-		return h[:12]
-	}
-	return h
 }
 
 // nRows writes "1 row" or "n rows".

@@ -441,7 +441,7 @@ func Diff(old, new *report.Report, opts Options) *Result {
 		}
 	}
 	if o, n := old.Manifest, new.Manifest; o.SHA256 != "" && n.SHA256 != "" && o.SHA256 != n.SHA256 && o.File == n.File {
-		res.Notes = append(res.Notes, fmt.Sprintf("the manifest %s was edited between the runs (SHA-256 %s → %s): a setting, a study or a gate may differ", n.File, short12(o.SHA256), short12(n.SHA256)))
+		res.Notes = append(res.Notes, fmt.Sprintf("the manifest %s was edited between the runs (SHA-256 %s → %s): a setting, a study or a gate may differ", n.File, report.ShortHash(o.SHA256), report.ShortHash(n.SHA256)))
 	}
 	if old.Schema != new.Schema && old.Schema != "" && new.Schema != "" {
 		res.Notes = append(res.Notes, fmt.Sprintf("the runs were written by different builds of bivar, in results.json schemas %s and %s: figures and verdicts added since the older one are missing from it and are not compared", old.Schema, new.Schema))
@@ -679,14 +679,6 @@ func thresholdChanges(o, n report.Thresholds) []string {
 		}
 	}
 	return out
-}
-
-// short12 is the first 12 characters of a hash, as the diff shows them.
-func short12(h string) string {
-	if len(h) > 12 {
-		return h[:12]
-	}
-	return h
 }
 
 func orDash(s string) string {

@@ -90,6 +90,16 @@ type Thresholds struct {
 	FormDW float64 `json:"form_dw"`
 }
 
+// ShortHash is the first 12 hex digits of a SHA-256, enough to tell files
+// apart by eye where the full hash is given elsewhere (the report's
+// appendix, diff.json and the diff's HTML titles).
+func ShortHash(h string) string {
+	if len(h) > 12 {
+		return h[:12]
+	}
+	return h
+}
+
 // Dataset is one data file as read.
 type Dataset struct {
 	ID           string        `json:"id"`

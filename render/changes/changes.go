@@ -37,7 +37,7 @@ var page = template.Must(template.New("diff").Funcs(template.FuncMap{
 	"fix2":             fix2,
 	"pval":             pval,
 	"padj":             padj,
-	"short":            short,
+	"short":            report.ShortHash,
 	"adjustName":       adjustName,
 	"verdictName":      verdictName,
 	"verdictNames":     func() string { return compare.VerdictNames },
@@ -390,7 +390,7 @@ func Markdown(w io.Writer, res *compare.Result) error {
 				if sha == "" {
 					return "—"
 				}
-				return fmt.Sprintf("`%s` (%d, `%s`)", code(from), rows, code(short(sha)))
+				return fmt.Sprintf("`%s` (%d, `%s`)", code(from), rows, code(report.ShortHash(sha)))
 			}
 			fmt.Fprintf(&b, "| `%s` | %s | %s | %s |\n", code(d.ID), mdtext.Cell(statusWords(d.Status, d.Database)), side(d.OldFrom, d.OldRows, d.OldSHA256), side(d.NewFrom, d.NewRows, d.NewSHA256))
 		}
@@ -669,15 +669,6 @@ func padj(f report.Float, alpha float64) string {
 		return "—"
 	}
 	return findings.PValueVs(float64(f), alpha)
-}
-
-// short is the first 12 hex digits of a SHA-256, enough to tell files apart
-// by eye; the full hash is in diff.json and the HTML title.
-func short(sha string) string {
-	if len(sha) > 12 {
-		return sha[:12]
-	}
-	return sha
 }
 
 func adjustName(a string) string {
